@@ -1,0 +1,232 @@
+"""Evaluation of polynomial systems and their Jacobians.
+
+Two paths:
+
+* :class:`BatchEvaluator` evaluates F and its Jacobian J at P points at once in
+  complex double precision. Everything that does not depend on the points is
+  precomputed: the union of the monomials of F and of its partial derivatives,
+  and one coefficient matrix mapping monomial values to (F, J). A call builds
+  a power table per variable, gathers the monomial values, and does one matrix
+  product. There is no Python loop over points, terms or variables.
+* :class:`PrecisionEvaluator` evaluates at one point in an mpmath context
+  (``mp`` at any number of digits, or ``iv`` for interval enclosures),
+  with exact coefficients converted at that precision.
+
+Examples
+--------
+>>> import numpy as np
+>>> from numag.parse import parse_system
+>>> system = parse_system(["x^2 + y^2 - 1", "x*y"], ["x", "y"])
+>>> values, jacobian = BatchEvaluator(system.polynomials).evaluate(np.array([[1.0, 2.0]]))
+>>> values.real
+array([[4., 2.]])
+>>> jacobian[0].real
+array([[2., 4.],
+       [2., 1.]])
+"""
+
+import numpy as np
+
+from .errors import InputError
+
+__all__ = ["BatchEvaluator", "PrecisionEvaluator"]
+
+#: Largest number of gathered entries (points * monomials * support) held at once.
+_GATHER_CHUNK = 4_000_000
+
+
+class BatchEvaluator:
+    """Evaluate polynomials and their Jacobian at many points at once (complex double).
+
+    Parameters
+    ----------
+    polynomials : sequence of Polynomial
+        All in the same number of variables.
+
+    Attributes
+    ----------
+    n_equations, n_variables : int
+    monomials : ndarray, shape (K, n_variables)
+        The union of the monomials of the polynomials and of their derivatives.
+
+    Notes
+    -----
+    Cost per call: building the power table (P n d), gathering the monomials
+    (P K s with s the largest number of distinct variables in one monomial) and
+    one product (P K m (n + 1)).
+    """
+
+    def __init__(self, polynomials):
+        polynomials = list(polynomials)
+        if not polynomials:
+            raise InputError("nothing to evaluate: no polynomials")
+        n = polynomials[0].n_variables
+        if any(p.n_variables != n for p in polynomials):
+            raise InputError("all polynomials must have the same number of variables")
+        self.n_equations, self.n_variables = len(polynomials), n
+        rows = []  # (row of the output, exponents, coefficients)
+        for i, p in enumerate(polynomials):
+            rows.append((i, p.exponents, p.numeric_coefficients()))
+        for i, p in enumerate(polynomials):
+            for j in range(n):
+                d = p.derivative(j) if p.is_exact else p.numeric().derivative(j)
+                rows.append((self.n_equations + i * n + j, d.exponents, d.numeric_coefficients()))
+        all_exponents = np.vstack([e for _, e, _ in rows] + [np.zeros((1, n), dtype=np.int64)])
+        self.monomials, inverse = np.unique(all_exponents, axis=0, return_inverse=True)
+        inverse = inverse.reshape(-1)
+        n_rows, n_monomials = self.n_equations * (n + 1), len(self.monomials)
+        matrix = np.zeros((n_rows, n_monomials), dtype=complex)
+        start = 0
+        for row, exponents, coefficients in rows:
+            stop = start + len(exponents)
+            np.add.at(matrix[row], inverse[start:stop], coefficients)
+            start = stop
+        self._matrix_t = np.ascontiguousarray(matrix.T)
+        self.max_exponent = int(self.monomials.max()) if n and n_monomials else 0
+        self._build_gather()
+
+    def _build_gather(self):
+        """Per monomial, the flat power-table indices of its variables (padded with x^0)."""
+        n, width = self.n_variables, self.max_exponent + 1
+        support = (self.monomials > 0).sum(axis=1)
+        self.support = max(int(support.max()) if len(support) else 0, 1)
+        index = np.zeros((len(self.monomials), self.support), dtype=np.int64)  # 0 -> x_0^0 = 1
+        for k, row in enumerate(self.monomials):  # precomputation only, once per system
+            nonzero = np.nonzero(row)[0]
+            index[k, :len(nonzero)] = nonzero * width + row[nonzero]
+        self._gather_index = index
+
+    def power_table(self, points):
+        """Powers x_j^e for e = 0..max exponent, shape (P, n * (max_exponent + 1))."""
+        count = len(points)
+        width = self.max_exponent + 1
+        table = np.ones((count, self.n_variables, width), dtype=complex)
+        if width > 1:
+            table[:, :, 1:] = np.cumprod(np.broadcast_to(points[:, :, None],
+                                                     (count, self.n_variables, width - 1)), axis=2)
+        return table.reshape(count, self.n_variables * width)
+
+    def monomial_values(self, points):
+        """Values of every monomial of :attr:`monomials`, shape (P, K)."""
+        table = self.power_table(points)
+        count, n_monomials = len(points), len(self.monomials)
+        if self.support == 1:
+            return table[:, self._gather_index[:, 0]]
+        values = np.empty((count, n_monomials), dtype=complex)
+        chunk = max(1, _GATHER_CHUNK // max(1, n_monomials * self.support))
+        for start in range(0, count, chunk):  # chunks bound memory, usually one pass
+            block = table[start:start + chunk][:, self._gather_index]
+            values[start:start + chunk] = np.prod(block, axis=2)
+        return values
+
+    def evaluate(self, points, jacobian=True):
+        """F and (optionally) J at each point.
+
+        Parameters
+        ----------
+        points : array_like, shape (P, n_variables)
+        jacobian : bool, default True
+
+        Returns
+        -------
+        values : ndarray, shape (P, n_equations)
+        jacobians : ndarray, shape (P, n_equations, n_variables)
+            Only when ``jacobian`` is true.
+        """
+        points = np.asarray(points, dtype=complex)
+        if points.ndim == 1:
+            points = points[None, :]
+        if points.ndim != 2 or points.shape[1] != self.n_variables:
+            raise InputError(f"points must have shape (P, {self.n_variables}), got {points.shape}")
+        monomials = self.monomial_values(points)
+        m = self.n_equations
+        if not jacobian:
+            return monomials @ self._matrix_t[:, :m]
+        out = monomials @ self._matrix_t
+        return out[:, :m], out[:, m:].reshape(len(points), m, self.n_variables)
+
+
+class PrecisionEvaluator:
+    """Evaluate polynomials and their Jacobian at one point in an mpmath context.
+
+    Parameters
+    ----------
+    polynomials : sequence of Polynomial
+        Exact coefficients are converted at the context's working precision
+        (``iv`` gives enclosures of square roots).
+
+    Examples
+    --------
+    >>> import mpmath
+    >>> from numag.parse import parse_system
+    >>> system = parse_system(["x^2 - 2"], ["x"])
+    >>> with mpmath.mp.workdps(30):
+    ...     values, jac = PrecisionEvaluator(system.polynomials).evaluate([mpmath.sqrt(2)], mpmath.mp)
+    ...     print(abs(values[0]) < 1e-29, mpmath.nstr(jac[0, 0].real, 10))
+    True 2.828427125
+    """
+
+    def __init__(self, polynomials):
+        self.polynomials = list(polynomials)
+        self.n_equations = len(self.polynomials)
+        self.n_variables = self.polynomials[0].n_variables if self.polynomials else 0
+        self.derivatives = [[p.derivative(j) for j in range(self.n_variables)] for p in self.polynomials]
+        self._cache = {}
+
+    def _terms(self, polynomial, ctx):
+        key = (id(polynomial), id(ctx), ctx.prec)
+        if key not in self._cache:
+            if polynomial.is_exact:
+                coefficients = [c.to_context(ctx) for c in polynomial.coefficients]
+            else:
+                coefficients = [ctx.mpc(c.real, c.imag) for c in polynomial.coefficients]
+            exponents = [[(j, int(e)) for j, e in enumerate(row) if e] for row in polynomial.exponents]
+            self._cache[key] = list(zip(coefficients, exponents))
+        return self._cache[key]
+
+    def _value(self, polynomial, powers, ctx):
+        total = ctx.mpc(0)
+        for coefficient, factors in self._terms(polynomial, ctx):
+            term = coefficient
+            for j, e in factors:
+                term = term * powers[j][e]
+            total += term
+        return total
+
+    def evaluate(self, point, ctx, jacobian=True):
+        """F and optionally J at ``point`` in context ``ctx``.
+
+        Parameters
+        ----------
+        point : sequence
+            Coordinates (anything ``ctx.mpc`` accepts, or numbers of ``ctx``).
+        ctx : mpmath context
+            ``mpmath.mp`` or ``mpmath.iv``.
+        jacobian : bool, default True
+
+        Returns
+        -------
+        values : ctx.matrix, shape (m, 1)
+        jacobian : ctx.matrix, shape (m, n), only when ``jacobian`` is true
+        """
+        if len(point) != self.n_variables:
+            raise InputError(f"point has {len(point)} coordinates, expected {self.n_variables}")
+        coordinates = [value if isinstance(value, (ctx.mpc, ctx.mpf)) else ctx.mpc(value)
+                       for value in point]
+        top = max((p.degree for p in self.polynomials), default=0)
+        powers = []
+        for value in coordinates:
+            row = [ctx.mpc(1)]
+            for _ in range(max(top, 0)):
+                row.append(row[-1] * value)
+            powers.append(row)
+        values = ctx.matrix(self.n_equations, 1)
+        for i, p in enumerate(self.polynomials):
+            values[i] = self._value(p, powers, ctx)
+        if not jacobian:
+            return values
+        matrix = ctx.matrix(self.n_equations, self.n_variables)
+        for i, row in enumerate(self.derivatives):
+            for j, d in enumerate(row):
+                matrix[i, j] = self._value(d, powers, ctx)
+        return values, matrix

@@ -1,0 +1,670 @@
+"""Sparse polynomials and polynomial systems.
+
+A :class:`Polynomial` is an integer exponent array (one row per term, one
+column per variable) and a coefficient array. Coefficients are either exact
+(:class:`~numag.exact.ExactCoefficient`, an object array: parsed input stays
+exact so that it can be evaluated at any precision) or complex doubles (what
+random combinations and linear changes of coordinates produce). Mixing the
+two gives complex doubles.
+
+A :class:`PolynomialSystem` is a list of polynomials over named variables,
+affine or projective.
+
+Examples
+--------
+>>> x, y = Polynomial.variable(0, 2), Polynomial.variable(1, 2)
+>>> f = x * x - y ** 3
+>>> f.to_text(["x", "y"])
+'-y^3 + x^2'
+>>> f.derivative(1).to_text(["x", "y"])
+'-3*y^2'
+"""
+
+from dataclasses import dataclass
+from fractions import Fraction
+import math
+
+import numpy as np
+
+from .errors import InputError, LimitError
+from .exact import ExactCoefficient
+
+__all__ = ["Limits", "DEFAULT_LIMITS", "Polynomial", "PolynomialSystem", "RESERVED_NAMES"]
+
+#: Names the grammar reserves; no variable may use them.
+RESERVED_NAMES = frozenset({"I", "sqrt"})
+
+
+@dataclass(frozen=True)
+class Limits:
+    """Size limits that keep hostile or mistaken input from exhausting the machine.
+
+    Attributes
+    ----------
+    max_degree : int
+        Largest total degree of a polynomial.
+    max_terms : int
+        Largest number of terms of one polynomial.
+    max_variables : int
+        Largest number of variables of a system.
+    max_equations : int
+        Largest number of equations of a system.
+    max_term_products : int
+        Largest number of term-by-term products one multiplication may form.
+    """
+
+    max_degree: int = 1000
+    max_terms: int = 200_000
+    max_variables: int = 1000
+    max_equations: int = 10_000
+    max_term_products: int = 2_000_000
+
+
+DEFAULT_LIMITS = Limits()
+_ZERO = ExactCoefficient.zero()
+_ONE = ExactCoefficient.rational(1)
+
+
+def _is_exact_array(coefficients):
+    return coefficients.dtype == object
+
+
+def _as_numeric(coefficients):
+    if _is_exact_array(coefficients):
+        return np.array([complex(c) for c in coefficients], dtype=complex)
+    return coefficients
+
+
+class Polynomial:
+    """A sparse polynomial in ``n_variables`` variables.
+
+    Parameters
+    ----------
+    exponents : array_like of int, shape (terms, n_variables)
+        Exponent of each variable in each term.
+    coefficients : array_like, shape (terms,)
+        ``ExactCoefficient`` objects (exact polynomial) or complex numbers.
+    n_variables : int, optional
+        Needed only when there are no terms.
+
+    Notes
+    -----
+    The constructor merges equal monomials, drops zero coefficients and
+    sorts the terms (ascending lexicographic exponent order), so equal
+    polynomials have equal arrays.
+    """
+
+    __slots__ = ("exponents", "coefficients", "n_variables", "_numeric")
+
+    def __init__(self, exponents, coefficients, n_variables=None):
+        exponents = np.asarray(exponents, dtype=np.int64)
+        if n_variables is None:
+            if exponents.ndim != 2:
+                raise InputError("n_variables is needed for a polynomial without terms")
+            n_variables = exponents.shape[1]
+        if exponents.ndim != 2 or exponents.shape[1] != n_variables:
+            exponents = exponents.reshape(len(np.ravel(coefficients)), n_variables)
+        if isinstance(coefficients, np.ndarray) and coefficients.dtype == object:
+            coefficients = coefficients.copy()
+        elif any(isinstance(c, ExactCoefficient) for c in np.ravel(np.asarray(coefficients, dtype=object))):
+            coefficients = np.array(list(coefficients), dtype=object)
+        else:
+            coefficients = np.asarray(coefficients, dtype=complex).reshape(-1)
+        if len(coefficients) != len(exponents):
+            raise InputError("exponents and coefficients must have the same number of terms")
+        if np.any(exponents < 0):
+            raise InputError("exponents must be non-negative")
+        self.n_variables = int(n_variables)
+        self.exponents, self.coefficients = _merge_terms(exponents, coefficients)
+        self.exponents.setflags(write=False)
+        self.coefficients.setflags(write=False)
+        self._numeric = None
+
+    # -- constructors ---------------------------------------------------------------------------
+    @classmethod
+    def zero(cls, n_variables):
+        """The zero polynomial."""
+        return cls(np.zeros((0, n_variables), dtype=np.int64), np.zeros(0, dtype=object), n_variables)
+
+    @classmethod
+    def constant(cls, value, n_variables):
+        """A constant polynomial; ``value`` is an ``ExactCoefficient`` or a number."""
+        if isinstance(value, (int, Fraction)):
+            value = ExactCoefficient.rational(value)
+        coefficients = np.array([value], dtype=object if isinstance(value, ExactCoefficient) else complex)
+        return cls(np.zeros((1, n_variables), dtype=np.int64), coefficients, n_variables)
+
+    @classmethod
+    def variable(cls, index, n_variables):
+        """The polynomial ``x_index`` (exact coefficient 1)."""
+        if not 0 <= index < n_variables:
+            raise InputError(f"variable index {index} out of range for {n_variables} variables")
+        exponents = np.zeros((1, n_variables), dtype=np.int64)
+        exponents[0, index] = 1
+        return cls(exponents, np.array([_ONE], dtype=object), n_variables)
+
+    @classmethod
+    def linear(cls, coefficients, constant=0.0):
+        """The affine-linear polynomial ``sum_j a_j x_j + constant`` with complex coefficients."""
+        coefficients = np.asarray(coefficients, dtype=complex).reshape(-1)
+        n = len(coefficients)
+        exponents = np.vstack([np.eye(n, dtype=np.int64), np.zeros((1, n), dtype=np.int64)])
+        return cls(exponents, np.append(coefficients, complex(constant)), n)
+
+    # -- queries --------------------------------------------------------------------------------
+    @property
+    def n_terms(self):
+        """Number of terms with a nonzero coefficient."""
+        return len(self.coefficients)
+
+    @property
+    def is_exact(self):
+        """True when the coefficients are exact numbers."""
+        return _is_exact_array(self.coefficients)
+
+    @property
+    def degree(self):
+        """Total degree (-1 for the zero polynomial, so that a constant has degree 0)."""
+        return int(self.exponents.sum(axis=1).max()) if self.n_terms else -1
+
+    def is_zero(self):
+        """True for the zero polynomial."""
+        return self.n_terms == 0
+
+    def is_homogeneous(self):
+        """True when every term has the same total degree (the zero polynomial counts)."""
+        if self.n_terms == 0:
+            return True
+        degrees = self.exponents.sum(axis=1)
+        return bool(np.all(degrees == degrees[0]))
+
+    def numeric_coefficients(self):
+        """The coefficients as a complex array (exact ones rounded once, then cached)."""
+        if self._numeric is None:
+            self._numeric = _as_numeric(self.coefficients)
+            self._numeric.setflags(write=False)
+        return self._numeric
+
+    def coefficient_norm(self):
+        """Euclidean norm of the coefficient vector."""
+        return float(np.linalg.norm(self.numeric_coefficients()))
+
+    def numeric(self):
+        """The same polynomial with complex double coefficients."""
+        return Polynomial(self.exponents, np.array(self.numeric_coefficients()), self.n_variables)
+
+    def __eq__(self, other):
+        if not isinstance(other, Polynomial) or other.n_variables != self.n_variables:
+            return NotImplemented if not isinstance(other, Polynomial) else False
+        if self.is_exact != other.is_exact:
+            return False
+        return (self.exponents.shape == other.exponents.shape
+                and bool(np.all(self.exponents == other.exponents))
+                and all(a == b for a, b in zip(self.coefficients, other.coefficients)))
+
+    __hash__ = None
+
+    def __repr__(self):
+        names = [f"x{j}" for j in range(self.n_variables)]
+        return f"Polynomial({self.to_text(names)!r})"
+
+    # -- arithmetic -----------------------------------------------------------------------------
+    def _coerce(self, other):
+        if isinstance(other, Polynomial):
+            if other.n_variables != self.n_variables:
+                raise InputError(f"polynomials in {self.n_variables} and {other.n_variables} "
+                                 "variables cannot be combined")
+            return other
+        if isinstance(other, (int, Fraction, ExactCoefficient)):
+            return Polynomial.constant(other, self.n_variables)
+        if isinstance(other, (float, complex, np.number)):
+            return Polynomial.constant(complex(other), self.n_variables)
+        return NotImplemented
+
+    @staticmethod
+    def _pair_coefficients(a, b):
+        if _is_exact_array(a.coefficients) and _is_exact_array(b.coefficients):
+            return a.coefficients, b.coefficients
+        return a.numeric_coefficients(), b.numeric_coefficients()
+
+    def __add__(self, other):
+        other = self._coerce(other)
+        if other is NotImplemented:
+            return other
+        ca, cb = self._pair_coefficients(self, other)
+        return Polynomial(np.vstack([self.exponents, other.exponents]),
+                          np.concatenate([ca, cb]), self.n_variables)
+
+    __radd__ = __add__
+
+    def __neg__(self):
+        return Polynomial(self.exponents, -self.coefficients, self.n_variables)
+
+    def __sub__(self, other):
+        other = self._coerce(other)
+        if other is NotImplemented:
+            return other
+        return self + (-other)
+
+    def __rsub__(self, other):
+        other = self._coerce(other)
+        if other is NotImplemented:
+            return other
+        return other + (-self)
+
+    def multiply(self, other, limits=DEFAULT_LIMITS):
+        """Product with a size check against ``limits``.
+
+        Raises
+        ------
+        LimitError
+            When the product would exceed the degree, term or work limits.
+        """
+        other = self._coerce(other)
+        if self.n_terms == 0 or other.n_terms == 0:
+            return Polynomial.zero(self.n_variables)
+        degree = self.degree + other.degree
+        if degree > limits.max_degree:
+            raise LimitError(f"degree {degree} exceeds the limit of {limits.max_degree}",
+                             "max_degree", limits.max_degree)
+        pairs = self.n_terms * other.n_terms
+        if pairs > limits.max_term_products:
+            raise LimitError(f"a product of {self.n_terms} by {other.n_terms} terms exceeds the "
+                             f"limit of {limits.max_term_products} term products",
+                             "max_term_products", limits.max_term_products)
+        exponents = (self.exponents[:, None, :] + other.exponents[None, :, :]).reshape(
+            pairs, self.n_variables)
+        integral_a, integral_b = _gaussian_integers(self), _gaussian_integers(other)
+        if integral_a is not None and integral_b is not None:
+            product = _from_gaussian(_gaussian_product(integral_a, integral_b), self.n_variables)
+        else:
+            ca, cb = self._pair_coefficients(self, other)
+            coefficients = np.multiply.outer(ca, cb).reshape(-1)
+            product = Polynomial(exponents, coefficients, self.n_variables)
+        if product.n_terms > limits.max_terms:
+            raise LimitError(f"{product.n_terms} terms exceed the limit of {limits.max_terms}",
+                             "max_terms", limits.max_terms)
+        return product
+
+    def __mul__(self, other):
+        other = self._coerce(other)
+        if other is NotImplemented:
+            return other
+        return self.multiply(other)
+
+    __rmul__ = __mul__
+
+    def power(self, exponent, limits=DEFAULT_LIMITS):
+        """``self ** exponent`` for a non-negative integer, with size checks before expanding.
+
+        Raises
+        ------
+        LimitError
+            When the result's degree would exceed ``limits.max_degree`` (checked before any
+            work, so ``x^1000000000`` fails at once) or its size the term limits.
+        """
+        if not isinstance(exponent, (int, np.integer)) or exponent < 0:
+            raise InputError(f"exponent must be a non-negative integer, got {exponent!r}")
+        exponent = int(exponent)
+        if self.degree > 0 and self.degree * exponent > limits.max_degree:
+            raise LimitError(f"degree {self.degree}*{exponent} = {self.degree * exponent} exceeds the "
+                             f"limit of {limits.max_degree}", "max_degree", limits.max_degree)
+        if self.degree <= 0:
+            if self.n_terms == 0:
+                return Polynomial.constant(1, self.n_variables) if exponent == 0 else self
+            return Polynomial.constant(self.coefficients[0] ** exponent if self.is_exact
+                                       else complex(self.coefficients[0]) ** exponent, self.n_variables)
+        involved = int(np.count_nonzero(self.exponents.any(axis=0)))
+        bound = min(math.comb(self.n_terms + exponent - 1, exponent),
+                    math.comb(involved + self.degree * exponent, involved))
+        if bound > limits.max_terms and bound * self.n_terms * exponent > limits.max_term_products:
+            raise LimitError(f"expanding a {self.n_terms}-term polynomial to the power {exponent} may give "
+                             f"{bound} terms, more than the limit of {limits.max_terms}",
+                             "max_terms", limits.max_terms)
+        if exponent == 0:
+            return Polynomial.constant(1, self.n_variables)
+        integral = _gaussian_integers(self)
+        if integral is not None:  # stay in integer arithmetic for the whole expansion
+            accumulated = integral
+            for _ in range(exponent - 1):
+                accumulated = _gaussian_product(accumulated, integral)
+                if len(accumulated[0]) > limits.max_terms:
+                    raise LimitError(f"{len(accumulated[0])} terms exceed the limit of {limits.max_terms}",
+                                     "max_terms", limits.max_terms)
+            return _from_gaussian(accumulated, self.n_variables)
+        result = Polynomial.constant(1, self.n_variables)
+        for _ in range(exponent):  # repeated multiplication keeps intermediate sizes smallest
+            result = result.multiply(self, limits)
+        return result
+
+    def __pow__(self, exponent):
+        return self.power(exponent)
+
+    def derivative(self, index):
+        """Partial derivative with respect to variable ``index``."""
+        powers = self.exponents[:, index]
+        keep = powers > 0
+        exponents = self.exponents[keep].copy()
+        exponents[:, index] -= 1
+        if self.is_exact:
+            coefficients = np.array([c * int(k) for c, k in zip(self.coefficients[keep], powers[keep])],
+                                    dtype=object)
+        else:
+            coefficients = self.coefficients[keep] * powers[keep]
+        return Polynomial(exponents, coefficients, self.n_variables)
+
+    def gradient(self):
+        """List of the partial derivatives."""
+        return [self.derivative(j) for j in range(self.n_variables)]
+
+    def homogenize(self, position=0):
+        """Homogenise with a new variable inserted at ``position`` (degree kept).
+
+        Examples
+        --------
+        >>> x = Polynomial.variable(0, 1)
+        >>> (x * x + 1).homogenize(0).to_text(["w", "x"])
+        'w^2 + x^2'
+        """
+        degrees = self.exponents.sum(axis=1)
+        top = self.degree if self.n_terms else 0
+        exponents = np.insert(self.exponents, position, top - degrees, axis=1)
+        return Polynomial(exponents, self.coefficients, self.n_variables + 1)
+
+    def dehomogenize(self, position=0):
+        """Set variable ``position`` to 1 and drop it."""
+        exponents = np.delete(self.exponents, position, axis=1)
+        return Polynomial(exponents, self.coefficients, self.n_variables - 1)
+
+    def substitute_linear(self, matrix, offset=None, limits=DEFAULT_LIMITS):
+        """Compose with the affine map ``x = matrix @ y + offset``.
+
+        Parameters
+        ----------
+        matrix : array_like, shape (n_variables, k)
+            Coefficients of the new variables ``y`` in each old variable.
+        offset : array_like, shape (n_variables,), optional
+
+        Returns
+        -------
+        Polynomial
+            In ``k`` variables, with complex coefficients.
+        """
+        matrix = np.asarray(matrix, dtype=complex)
+        if matrix.ndim != 2 or matrix.shape[0] != self.n_variables:
+            raise InputError(f"matrix must have shape ({self.n_variables}, k), got {matrix.shape}")
+        k = matrix.shape[1]
+        offset = np.zeros(self.n_variables, dtype=complex) if offset is None else np.asarray(offset, complex)
+        forms = [Polynomial.linear(matrix[j], offset[j]) for j in range(self.n_variables)]
+        cache = {}
+
+        def form_power(j, e):
+            if (j, e) not in cache:
+                cache[(j, e)] = forms[j].power(int(e), limits)
+            return cache[(j, e)]
+
+        result = Polynomial.zero(k)
+        for exponent_row, coefficient in zip(self.exponents, self.numeric_coefficients()):
+            term = Polynomial.constant(complex(coefficient), k)
+            for j in np.nonzero(exponent_row)[0]:
+                term = term.multiply(form_power(j, exponent_row[j]), limits)
+            result = result + term
+        return result
+
+    def evaluate(self, point):
+        """Value at one point in complex double precision (the slow, simple path; see ``numag.evaluate``)."""
+        point = np.asarray(point, dtype=complex)
+        return complex(np.sum(self.numeric_coefficients() * np.prod(point ** self.exponents, axis=1)))
+
+    # -- text -----------------------------------------------------------------------------------
+    def to_text(self, names):
+        """Text in the equation grammar; :func:`numag.parse.parse_polynomial` reads it back exactly.
+
+        Terms are written by descending total degree.
+        """
+        if len(names) != self.n_variables:
+            raise InputError(f"{len(names)} names given for {self.n_variables} variables")
+        if self.n_terms == 0:
+            return "0"
+        degrees = self.exponents.sum(axis=1)
+        order = np.lexsort(tuple(-self.exponents.T[::-1]) + (-degrees,))
+        text = ""
+        for t in order:
+            monomial = "*".join(names[j] if e == 1 else f"{names[j]}^{e}"
+                                for j, e in enumerate(self.exponents[t]) if e)
+            negative, magnitude = _coefficient_text(self.coefficients[t])
+            if monomial:
+                body = monomial if magnitude == "1" else f"{magnitude}*{monomial}"
+            else:
+                body = magnitude
+            if not text:
+                text = f"-{body}" if negative else body
+            else:
+                text += f" - {body}" if negative else f" + {body}"
+        return text
+
+
+def _coefficient_text(coefficient):
+    """Split a coefficient into (negative sign?, text of the rest) for a readable sum."""
+    if isinstance(coefficient, ExactCoefficient):
+        text = coefficient.to_text()
+        if coefficient.is_single_term() and text.startswith("-") and " " not in text:
+            return True, text[1:]
+        return False, text if " " not in text else f"({text})"
+    value = complex(coefficient)
+    if not (math.isfinite(value.real) and math.isfinite(value.imag)):
+        raise InputError(f"cannot write the non-finite coefficient {value}")
+    if value.imag == 0:
+        return (value.real < 0 or math.copysign(1, value.real) < 0), repr(abs(value.real))
+    if value.real == 0:
+        return value.imag < 0, f"{repr(abs(value.imag))}*I"
+    sign = "-" if value.imag < 0 else "+"
+    return False, f"({repr(value.real)} {sign} {repr(abs(value.imag))}*I)"
+
+
+def _gaussian_integers(polynomial):
+    """Exact Gaussian-rational coefficients as (real numerators, imaginary numerators, denominator).
+
+    Returns None for numeric polynomials or coefficients with square roots. Python
+    integers in object arrays multiply some fifty times faster than exact numbers,
+    which is what makes expanding powers of exact polynomials affordable.
+    """
+    if not polynomial.is_exact:
+        return None
+    pairs = []
+    for c in polynomial.coefficients:
+        parts = c.parts
+        if set(parts) - {1}:
+            return None
+        pairs.append(parts.get(1, (Fraction(0), Fraction(0))))
+    denominator = 1
+    for re, im in pairs:
+        denominator = math.lcm(denominator, re.denominator, im.denominator)
+    real = np.array([int(re * denominator) for re, _ in pairs], dtype=object)
+    imag = np.array([int(im * denominator) for _, im in pairs], dtype=object)
+    return polynomial.exponents, real, imag, denominator
+
+
+def _unique_rows(exponents):
+    """``np.unique(rows, return_inverse=True)`` through one integer key per row when it fits in int64."""
+    if len(exponents) == 0:
+        return exponents, np.zeros(0, dtype=np.int64)
+    base = int(exponents.max()) + 1
+    if exponents.shape[1] and base ** exponents.shape[1] < 2**62:
+        keys = exponents @ (base ** np.arange(exponents.shape[1], dtype=np.int64))
+        unique_keys, first, inverse = np.unique(keys, return_index=True, return_inverse=True)
+        return exponents[first], inverse.reshape(-1)
+    unique, inverse = np.unique(exponents, axis=0, return_inverse=True)
+    return unique, inverse.reshape(-1)
+
+
+def _gaussian_product(a, b):
+    """Product of two polynomials given as (exponents, real numerators, imaginary numerators, denominator)."""
+    (ea, ra, ia, da), (eb, rb, ib, db) = a, b
+    exponents = (ea[:, None, :] + eb[None, :, :]).reshape(len(ea) * len(eb), ea.shape[1])
+    real = (np.multiply.outer(ra, rb) - np.multiply.outer(ia, ib)).reshape(-1)
+    imag = (np.multiply.outer(ra, ib) + np.multiply.outer(ia, rb)).reshape(-1)
+    unique, inverse = _unique_rows(exponents)
+    merged_real = np.zeros(len(unique), dtype=object)
+    merged_imag = np.zeros(len(unique), dtype=object)
+    np.add.at(merged_real, inverse, real)
+    np.add.at(merged_imag, inverse, imag)
+    keep = (merged_real != 0) | (merged_imag != 0)
+    return unique[keep], merged_real[keep], merged_imag[keep], da * db
+
+
+def _from_gaussian(data, n_variables):
+    exponents, real, imag, denominator = data
+    coefficients = np.array([ExactCoefficient.rational(Fraction(int(r), denominator), Fraction(int(i), denominator))
+                             for r, i in zip(real, imag)], dtype=object)
+    return Polynomial(exponents.reshape(len(coefficients), n_variables), coefficients, n_variables)
+
+
+def _merge_terms(exponents, coefficients):
+    """Merge equal monomials, drop zero coefficients, sort lexicographically."""
+    n = exponents.shape[1]
+    if len(exponents) == 0:
+        return exponents.reshape(0, n), coefficients[:0]
+    unique, inverse = np.unique(exponents, axis=0, return_inverse=True)
+    inverse = inverse.reshape(-1)
+    if len(unique) == len(exponents):
+        merged = np.empty_like(coefficients)
+        merged[inverse] = coefficients
+    elif _is_exact_array(coefficients):
+        merged = np.array([_ZERO] * len(unique), dtype=object)
+        np.add.at(merged, inverse, coefficients)
+    else:
+        merged = np.zeros(len(unique), dtype=complex)
+        np.add.at(merged, inverse, coefficients)
+    if _is_exact_array(merged):
+        keep = np.array([not c.is_zero() for c in merged], dtype=bool)
+    else:
+        keep = merged != 0
+    return unique[keep], merged[keep]
+
+
+class PolynomialSystem:
+    """Polynomial equations ``f_1 = ... = f_m = 0`` in named variables.
+
+    Parameters
+    ----------
+    variables : sequence of str
+        Variable names, in order.
+    polynomials : sequence of Polynomial
+        The equations' left-hand sides.
+    projective : bool, default False
+        True when the (homogeneous) equations are meant in projective space.
+    name : str, optional
+        A label for reports.
+
+    Raises
+    ------
+    InputError
+        When the system is empty, names repeat or are reserved, or a projective
+        system has a non-homogeneous equation.
+
+    Examples
+    --------
+    >>> from numag.parse import parse_system
+    >>> system = parse_system(["x^2 + y^2 - 1"], ["x", "y"])
+    >>> system.n_equations, system.n_variables, system.degrees
+    (1, 2, [2])
+    """
+
+    def __init__(self, variables, polynomials, projective=False, name=None, limits=DEFAULT_LIMITS):
+        variables = [str(v) for v in variables]
+        polynomials = list(polynomials)
+        if not variables:
+            raise InputError("the system has no variables")
+        if not polynomials:
+            raise InputError("the system has no equations")
+        if len(variables) > limits.max_variables:
+            raise LimitError(f"{len(variables)} variables exceed the limit of {limits.max_variables}",
+                             "max_variables", limits.max_variables)
+        if len(polynomials) > limits.max_equations:
+            raise LimitError(f"{len(polynomials)} equations exceed the limit of {limits.max_equations}",
+                             "max_equations", limits.max_equations)
+        seen = set()
+        for name_ in variables:
+            if name_ in RESERVED_NAMES:
+                raise InputError(f"'{name_}' is reserved and cannot name a variable")
+            if name_ in seen:
+                raise InputError(f"variable '{name_}' is declared twice")
+            seen.add(name_)
+        for i, p in enumerate(polynomials, 1):
+            if p.n_variables != len(variables):
+                raise InputError(f"equation {i} has {p.n_variables} variables, the system {len(variables)}")
+            if projective and not p.is_homogeneous():
+                raise InputError(f"equation {i} is not homogeneous, but the system is marked projective")
+        self.variables = variables
+        self.polynomials = polynomials
+        self.projective = bool(projective)
+        self.name = name
+        self._jacobian = None
+
+    @property
+    def n_variables(self):
+        """Number of variables (homogeneous coordinates for a projective system)."""
+        return len(self.variables)
+
+    @property
+    def n_equations(self):
+        """Number of equations."""
+        return len(self.polynomials)
+
+    @property
+    def degrees(self):
+        """Total degree of each equation."""
+        return [p.degree for p in self.polynomials]
+
+    @property
+    def ambient_dimension(self):
+        """Dimension of the ambient space: n (affine) or n - 1 (projective)."""
+        return self.n_variables - (1 if self.projective else 0)
+
+    @property
+    def is_exact(self):
+        """True when every coefficient is exact."""
+        return all(p.is_exact for p in self.polynomials)
+
+    def jacobian_polynomials(self):
+        """The Jacobian as a list of rows of partial derivatives (cached)."""
+        if self._jacobian is None:
+            self._jacobian = [p.gradient() for p in self.polynomials]
+        return self._jacobian
+
+    def coefficient_norms(self):
+        """Euclidean norm of each equation's coefficients."""
+        return np.array([p.coefficient_norm() for p in self.polynomials])
+
+    def random_combinations(self, count, rng):
+        """``count`` random complex linear combinations of the equations.
+
+        Parameters
+        ----------
+        count : int
+        rng : numpy.random.Generator
+
+        Returns
+        -------
+        PolynomialSystem
+            Same variables, complex coefficients.
+        """
+        weights = (rng.standard_normal((count, self.n_equations))
+                   + 1j * rng.standard_normal((count, self.n_equations))) / math.sqrt(2)
+        combined = []
+        for row in weights:
+            total = Polynomial.zero(self.n_variables)
+            for w, p in zip(row, self.polynomials):
+                total = total + p.numeric() * complex(w)
+            combined.append(total)
+        return PolynomialSystem(self.variables, combined, self.projective, self.name)
+
+    def to_texts(self):
+        """The equations as text in the grammar."""
+        return [p.to_text(self.variables) for p in self.polynomials]
+
+    def __repr__(self):
+        kind = "projective" if self.projective else "affine"
+        return (f"PolynomialSystem({self.n_equations} equations in {self.variables}, {kind}, "
+                f"degrees {self.degrees})")

@@ -1,0 +1,249 @@
+"""Newton-type refinement: onto X in double precision (batched) and onto rank-drop points at any precision.
+
+* :func:`project_to_variety` moves many points onto X = V(F) at once with the
+  minimum-norm Gauss-Newton step (J may be wide, tall or rank deficient).
+* :func:`mp_gauss_newton` is the same iteration at any precision, for a
+  residual function supplied by the caller.
+* :class:`RankDropSystem` is F together with the condition "rank J(x) <= r",
+  written with an unknown kernel basis V = N0 + Nc W of dimension n - r:
+  F(x) = 0 and J(x) V = 0. N0 spans the numerical kernel at the start point and
+  Nc its complement, so V always has full column rank and no normalising
+  equation is needed. A solution is a point of X where the rank really drops.
+
+Examples
+--------
+>>> import numpy as np
+>>> from numag.parse import parse_system
+>>> from numag.evaluate import BatchEvaluator
+>>> system = parse_system(["x^2 + y^2 - 1"], ["x", "y"])
+>>> result = project_to_variety(system, BatchEvaluator(system.polynomials), np.array([[0.8, 0.61]]))
+>>> bool(result.converged[0]), round(float(np.abs(result.points[0, 0]) ** 2 + np.abs(result.points[0, 1]) ** 2), 12)
+(True, 1.0)
+"""
+
+from dataclasses import dataclass
+
+import numpy as np
+
+from .evaluate import PrecisionEvaluator
+from .linalg import (batched_least_squares, jacobian_row_scales, mp_least_squares,
+                     mp_right_singular_vectors, residual_scales)
+
+__all__ = ["ProjectionResult", "project_to_variety", "mp_gauss_newton", "RankDropSystem"]
+
+
+@dataclass
+class ProjectionResult:
+    """Result of :func:`project_to_variety` (one entry per point).
+
+    Attributes
+    ----------
+    points : ndarray, shape (P, n)
+        Refined points.
+    converged : ndarray of bool, shape (P,)
+        Scaled residual at or below the tolerance.
+    residuals : ndarray, shape (P,)
+        Largest scaled residual |f_i| / (||c_i|| ||(1,x)||^d_i) at the refined point.
+    distances : ndarray, shape (P,)
+        Distance moved from the start point.
+    iterations : int
+        Iterations of the whole batch.
+    """
+
+    points: np.ndarray
+    converged: np.ndarray
+    residuals: np.ndarray
+    distances: np.ndarray
+    iterations: int
+
+
+def scaled_residuals(system, evaluator, points):
+    """Largest scaled residual of F at each point, and the values and Jacobians."""
+    values, jacobians = evaluator.evaluate(points)
+    scales = residual_scales(system.coefficient_norms(), system.degrees, points, system.projective)
+    return np.max(np.abs(values) / scales, axis=1), values, jacobians
+
+
+def project_to_variety(system, evaluator, points, tolerance=1e-13, max_iterations=30):
+    """Move points onto X with minimum-norm Gauss-Newton steps, all points at once.
+
+    Parameters
+    ----------
+    system : PolynomialSystem
+    evaluator : BatchEvaluator
+        Evaluator of ``system.polynomials``.
+    points : ndarray, shape (P, n)
+    tolerance : float
+        Target for the scaled residual.
+    max_iterations : int
+
+    Returns
+    -------
+    ProjectionResult
+    """
+    start = np.array(points, dtype=complex, copy=True)
+    current = start.copy()
+    residual, values, jacobians = scaled_residuals(system, evaluator, current)
+    active = residual > tolerance
+    iterations = 0
+    while np.any(active) and iterations < max_iterations:
+        iterations += 1
+        index = np.nonzero(active)[0]
+        step = batched_least_squares(jacobians[index], values[index], rcond=1e-13)
+        trial = current[index] - step
+        trial_residual, trial_values, trial_jacobians = scaled_residuals(system, evaluator, trial)
+        finite = np.isfinite(trial_residual)
+        # Accept a step only where it does not make things worse; stop points that stall.
+        better = finite & (trial_residual < residual[index])
+        current[index[better]] = trial[better]
+        residual[index[better]] = trial_residual[better]
+        values[index[better]] = trial_values[better]
+        jacobians[index[better]] = trial_jacobians[better]
+        tiny_step = np.linalg.norm(step, axis=1) <= 1e-15 * (1 + np.linalg.norm(current[index], axis=1))
+        active[index] = better & (residual[index] > tolerance) & ~tiny_step
+    distances = np.linalg.norm(current - start, axis=1)
+    return ProjectionResult(current, residual <= tolerance, residual, distances, iterations)
+
+
+def mp_gauss_newton(function, start, ctx, tolerance, max_iterations=60):
+    """Minimum-norm Gauss-Newton at the precision of ``ctx``.
+
+    Parameters
+    ----------
+    function : callable
+        ``function(z) -> (residual, jacobian)``, both ``ctx.matrix``; the residual
+        should already be scaled.
+    start : ctx.matrix, shape (N, 1)
+    ctx : mpmath context
+    tolerance : float
+        Stop when the residual norm is at or below it.
+    max_iterations : int
+
+    Returns
+    -------
+    (ctx.matrix, bool, mpf, int)
+        Final point, whether the residual reached the tolerance, the residual norm
+        and the number of iterations.
+    """
+    current = start.copy()
+    residual, jacobian = function(current)
+    norm = ctx.norm(residual)
+    iterations = 0
+    while norm > tolerance and iterations < max_iterations:
+        iterations += 1
+        step = mp_least_squares(jacobian, residual, ctx, rcond=ctx.mpf(10) ** (-(ctx.dps * 3) // 4))
+        trial = current - step
+        trial_residual, trial_jacobian = function(trial)
+        trial_norm = ctx.norm(trial_residual)
+        if not trial_norm < norm:  # no progress (this also rejects non-finite values)
+            break
+        current, residual, jacobian, norm = trial, trial_residual, trial_jacobian, trial_norm
+        if ctx.norm(step) <= ctx.eps * (1 + ctx.norm(current)):
+            break
+    return current, bool(norm <= tolerance), norm, iterations
+
+
+class RankDropSystem:
+    """F(x) = 0 together with rank J(x) <= ``rank``, as a least-squares system in (x, W).
+
+    Parameters
+    ----------
+    system : PolynomialSystem
+    rank : int
+        The largest rank allowed; the kernel basis has ``n - rank`` columns.
+    start : sequence of complex
+        The point whose numerical kernel gives N0 and whose scales fix the row weights.
+    ctx : mpmath context
+        Context the system is evaluated in (its precision may rise between calls).
+
+    Notes
+    -----
+    Unknowns: n coordinates and (n - k) k entries of W, with k = n - rank.
+    Equations: m values and m k entries of J(x) V. The derivative of J(x) V with
+    respect to x needs the second derivatives of F, which come from evaluating
+    the Jacobian of the flattened first derivatives.
+    """
+
+    def __init__(self, system, rank, start, ctx):
+        self.system = system
+        self.ctx = ctx
+        n, m = system.n_variables, system.n_equations
+        self.n, self.m = n, m
+        self.kernel_dimension = n - rank
+        self.values = PrecisionEvaluator(system.polynomials)
+        flat = [d for row in system.jacobian_polynomials() for d in row]
+        self.first_derivatives = PrecisionEvaluator(flat)
+        start_array = np.array([complex(v) for v in start])
+        self.value_weights = 1.0 / residual_scales(system.coefficient_norms(), system.degrees,
+                                                   start_array[None, :], system.projective)[0]
+        self.row_weights = 1.0 / jacobian_row_scales(system.coefficient_norms(), system.degrees,
+                                                     start_array[None, :], system.projective)[0]
+        point = [ctx.mpc(v) for v in start]
+        _, jacobian = self.values.evaluate(point, ctx)
+        scaled = ctx.matrix(m, n)
+        for i in range(m):
+            for j in range(n):
+                scaled[i, j] = jacobian[i, j] * self.row_weights[i]
+        basis = mp_right_singular_vectors(scaled, ctx)
+        k = self.kernel_dimension
+        self.kernel_start = basis[:, n - k:n] if k else ctx.matrix(n, 0)
+        self.complement = basis[:, 0:n - k] if n - k else ctx.matrix(n, 0)
+
+    @property
+    def n_unknowns(self):
+        """Coordinates plus the free entries of W."""
+        return self.n + (self.n - self.kernel_dimension) * self.kernel_dimension
+
+    def initial(self, point):
+        """Unknown vector (x, W = 0) for a point."""
+        z = self.ctx.matrix(self.n_unknowns, 1)
+        for j, v in enumerate(point):
+            z[j] = self.ctx.mpc(v)
+        return z
+
+    def kernel_basis(self, z):
+        """V = N0 + Nc W for the unknown vector ``z``."""
+        ctx, n, k = self.ctx, self.n, self.kernel_dimension
+        basis = self.kernel_start.copy() if k else ctx.matrix(n, 0)
+        if k and n - k:
+            w = ctx.matrix(n - k, k)
+            for a in range(n - k):
+                for b in range(k):
+                    w[a, b] = z[n + a * k + b]
+            basis = basis + self.complement * w
+        return basis
+
+    def __call__(self, z):
+        """Scaled residual and its Jacobian at the unknown vector ``z``."""
+        ctx, n, m, k = self.ctx, self.n, self.m, self.kernel_dimension
+        x = [z[j] for j in range(n)]
+        values, jacobian = self.values.evaluate(x, ctx)
+        _, second = self.first_derivatives.evaluate(x, ctx)  # rows (i, j), columns l: d2 f_i / dx_j dx_l
+        basis = self.kernel_basis(z)
+        rows = m + m * k
+        residual = ctx.matrix(rows, 1)
+        derivative = ctx.matrix(rows, self.n_unknowns)
+        for i in range(m):
+            residual[i] = values[i] * self.value_weights[i]
+            for j in range(n):
+                derivative[i, j] = jacobian[i, j] * self.value_weights[i]
+        if k:
+            product = jacobian * basis
+            jacobian_complement = jacobian * self.complement if n - k else None
+            for i in range(m):
+                weight = self.row_weights[i]
+                for q in range(k):
+                    row = m + i * k + q
+                    residual[row] = product[i, q] * weight
+                    for l in range(n):
+                        total = ctx.mpc(0)
+                        for j in range(n):
+                            total += second[i * n + j, l] * basis[j, q]
+                        derivative[row, l] = total * weight
+                    for a in range(n - k):
+                        derivative[row, n + a * k + q] = jacobian_complement[i, a] * weight
+        return residual, derivative
+
+    def point_of(self, z):
+        """The coordinates part of an unknown vector, as complex numbers."""
+        return np.array([complex(z[j]) for j in range(self.n)])

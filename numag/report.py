@@ -1,0 +1,161 @@
+"""Reports as JSON: one envelope for every sub-command, and the round trip back to dataclasses.
+
+The envelope (documented in the README) always has
+
+* ``numag_version``, ``command``, ``seed``;
+* ``system``: ``name``, ``variables``, ``equations`` (text that reads back exactly),
+  ``projective``;
+* ``paths``: counts of tracked paths by status (``tracked``, ``converged``,
+  ``singular_endpoint``, ``at_infinity``, ``failed`` with ``failed_by_reason``);
+  they always add up, and are all zero for commands that track no paths;
+* ``components``: a list (empty for commands that compute none);
+* ``caution``: the standing caution about numerical results.
+
+A complex point is a list of ``[real, imaginary]`` pairs, one per variable.
+A gap of infinity is written as the string ``"infinity"``.
+
+Examples
+--------
+>>> encode_point(np.array([1 + 2j, 3]))
+[[1.0, 2.0], [3.0, 0.0]]
+"""
+
+import json
+
+import numpy as np
+
+from . import __version__
+from .errors import InputError
+from .files import system_from_mapping
+from .linalg import RankEvidence
+from .smoothness import CheckOptions, CheckReport, PointVerdict
+
+__all__ = ["CAUTION", "encode_point", "decode_point", "empty_path_counts", "system_to_dict",
+           "check_report_to_dict", "check_report_from_dict", "dumps", "loads_check_report"]
+
+#: Printed with every result (terminal and JSON).
+CAUTION = ("Numerical results. Before relying on them for a real machine or structure, verify them with "
+           "certification and defer to the applicable standards and licensed engineering practice.")
+
+
+def encode_point(point):
+    """Complex vector -> list of [real, imaginary] pairs."""
+    return [[float(z.real), float(z.imag)] for z in np.asarray(point, dtype=complex)]
+
+
+def decode_point(pairs):
+    """List of [real, imaginary] pairs -> complex vector."""
+    try:
+        return np.array([complex(float(re), float(im)) for re, im in pairs], dtype=complex)
+    except (TypeError, ValueError):
+        raise InputError(f"a point must be a list of [real, imaginary] pairs, got {str(pairs)[:60]}") from None
+
+
+def _encode_float(value):
+    if value is None:
+        return None
+    value = float(value)
+    if value == float("inf"):
+        return "infinity"
+    return value
+
+
+def _decode_float(value):
+    if value is None:
+        return None
+    return float("inf") if value == "infinity" else float(value)
+
+
+def empty_path_counts():
+    """Path counts of a command that tracks no paths."""
+    return {"tracked": 0, "converged": 0, "singular_endpoint": 0, "at_infinity": 0, "failed": 0,
+            "failed_by_reason": {}}
+
+
+def system_to_dict(system):
+    """The system as the keys of a system file (exact text)."""
+    return {"name": system.name, "variables": list(system.variables), "equations": system.to_texts(),
+            "projective": system.projective}
+
+
+def _evidence_to_dict(evidence):
+    return {"rank": evidence.rank, "singular_values": [float(v) for v in evidence.singular_values],
+            "row_scales": [float(v) for v in evidence.row_scales], "tolerance": float(evidence.tolerance),
+            "gap": _encode_float(evidence.gap), "digits": evidence.digits, "escalated": evidence.escalated,
+            "point": encode_point(evidence.point)}
+
+
+def _evidence_from_dict(data):
+    return RankEvidence(rank=int(data["rank"]), singular_values=np.array(data["singular_values"], dtype=float),
+                        row_scales=np.array(data["row_scales"], dtype=float), tolerance=float(data["tolerance"]),
+                        gap=_decode_float(data["gap"]), digits=int(data["digits"]),
+                        escalated=bool(data["escalated"]), point=decode_point(data["point"]))
+
+
+def _verdict_to_dict(v):
+    return {
+        "index": v.index, "given": encode_point(v.given), "point": encode_point(v.point),
+        "distance": float(v.distance), "residual": float(v.residual), "verdict": v.verdict, "rank": v.rank,
+        "codimension": v.codimension, "tangent_dimension": v.tangent_dimension,
+        "local_dimension": v.local_dimension, "local_dimension_source": v.local_dimension_source,
+        "evidence": _evidence_to_dict(v.evidence),
+        "nearest_rank_drop": None if v.nearest_rank_drop is None else encode_point(v.nearest_rank_drop),
+        "nearest_rank_drop_distance": _encode_float(v.nearest_rank_drop_distance),
+        "notes": list(v.notes),
+    }
+
+
+def _verdict_from_dict(d):
+    return PointVerdict(
+        index=int(d["index"]), given=decode_point(d["given"]), point=decode_point(d["point"]),
+        distance=float(d["distance"]), residual=float(d["residual"]), verdict=d["verdict"], rank=d["rank"],
+        codimension=d["codimension"], tangent_dimension=d["tangent_dimension"],
+        local_dimension=d["local_dimension"], local_dimension_source=d["local_dimension_source"],
+        evidence=_evidence_from_dict(d["evidence"]),
+        nearest_rank_drop=None if d["nearest_rank_drop"] is None else decode_point(d["nearest_rank_drop"]),
+        nearest_rank_drop_distance=_decode_float(d["nearest_rank_drop_distance"]), notes=list(d["notes"]))
+
+
+def check_report_to_dict(report):
+    """A :class:`~numag.smoothness.CheckReport` as the JSON envelope."""
+    options = report.options
+    return {
+        "numag_version": __version__,
+        "command": "check",
+        "seed": report.seed,
+        "system": system_to_dict(report.system),
+        "options": {"local_dimension": options.local_dimension, "point_tolerance": options.point_tolerance,
+                    "digits": options.max_digits, "suspect_threshold": options.suspect_threshold,
+                    "neighbour_samples": options.neighbour_samples,
+                    "neighbour_radius": options.neighbour_radius},
+        "paths": empty_path_counts(),
+        "components": [],
+        "counts": report.counts(),
+        "points": [_verdict_to_dict(v) for v in report.points],
+        "caution": CAUTION,
+    }
+
+
+def check_report_from_dict(data):
+    """Rebuild a :class:`~numag.smoothness.CheckReport` from its JSON envelope."""
+    if not isinstance(data, dict) or data.get("command") != "check":
+        raise InputError("not a report of 'numag check'")
+    system_data = dict(data["system"])
+    if system_data.get("name") is None:
+        system_data.pop("name", None)
+    system = system_from_mapping(system_data)
+    o = data["options"]
+    options = CheckOptions(local_dimension=o["local_dimension"], point_tolerance=o["point_tolerance"],
+                           max_digits=o["digits"], suspect_threshold=o["suspect_threshold"],
+                           neighbour_samples=o["neighbour_samples"], neighbour_radius=o["neighbour_radius"])
+    return CheckReport(system, [_verdict_from_dict(d) for d in data["points"]], options, data["seed"])
+
+
+def dumps(data):
+    """JSON text of a report dictionary (strict JSON: no NaN or Infinity literals)."""
+    return json.dumps(data, indent=2, allow_nan=False)
+
+
+def loads_check_report(text):
+    """Parse JSON text of a check report."""
+    return check_report_from_dict(json.loads(text))

@@ -1,0 +1,58 @@
+from fractions import Fraction
+
+import mpmath
+import pytest
+
+from numag.errors import InputError, LimitError
+from numag.exact import ExactCoefficient, square_free_split
+
+
+def test_square_free_split_identity():
+    # common practice, no source: n = s^2 * f with f square-free
+    for n in [1, 2, 4, 12, 72, 97 * 97 * 3, 2**40 * 5, 999_983 * 999_983]:
+        s, f = square_free_split(n)
+        assert s * s * f == n
+        assert all(f % (p * p) for p in range(2, 1000))
+
+
+def test_square_free_split_limit():
+    with pytest.raises(LimitError):
+        square_free_split(10**19)
+
+
+def test_golden_ratio_identity():
+    # phi^2 = phi + 1 for phi = (1 + sqrt(5))/2 (common practice, no source)
+    phi = (ExactCoefficient.rational(1) + ExactCoefficient.square_root(5)) / 2
+    assert phi * phi == phi + 1
+
+
+def test_products_of_roots_reduce():
+    assert ExactCoefficient.square_root(2) * ExactCoefficient.square_root(8) == ExactCoefficient.rational(4)
+    assert ExactCoefficient.square_root(Fraction(1, 2)) * ExactCoefficient.square_root(2) == 1
+    assert (ExactCoefficient.square_root(6) * ExactCoefficient.square_root(10)
+            == 2 * ExactCoefficient.square_root(15))
+
+
+def test_imaginary_unit_and_reciprocal():
+    i = ExactCoefficient.imaginary_unit()
+    assert i * i == -1
+    z = ExactCoefficient.rational(3, 4) * ExactCoefficient.square_root(7)
+    assert z * z.reciprocal() == 1
+    with pytest.raises(InputError):
+        ExactCoefficient.zero().reciprocal()
+    with pytest.raises(InputError):
+        (ExactCoefficient.rational(1) + ExactCoefficient.square_root(2)).reciprocal()
+
+
+def test_context_evaluation_matches_mpmath():
+    value = ExactCoefficient.rational(Fraction(1, 3), 2) * ExactCoefficient.square_root(5) + 1
+    with mpmath.mp.workdps(50):
+        expected = mpmath.mpc(1 + mpmath.sqrt(5) / 3, 2 * mpmath.sqrt(5))
+        assert abs(value.to_context(mpmath.mp) - expected) < mpmath.mpf(10) ** -48
+    enclosure = value.to_context(mpmath.iv)
+    assert float(value.to_context(mpmath.mp).real) in enclosure.real
+
+
+def test_conversion_to_complex_is_correctly_rounded():
+    value = ExactCoefficient.square_root(2) / 2
+    assert complex(value) == complex(2 ** 0.5 / 2)

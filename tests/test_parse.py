@@ -1,0 +1,138 @@
+from fractions import Fraction
+
+from hypothesis import given, settings, strategies as st
+import numpy as np
+import pytest
+
+from numag.errors import NumagError, ParseError, InputError
+from numag.exact import ExactCoefficient
+from numag.parse import parse_constant, parse_polynomial, parse_system
+
+XY = ["x", "y"]
+
+
+def coefficient(p, exponent):
+    rows = np.all(p.exponents == np.array(exponent), axis=1)
+    return p.coefficients[rows][0] if rows.any() else ExactCoefficient.zero()
+
+
+def test_numbers_are_exact():
+    p = parse_polynomial("0.1*x + 3/4*y + 1.5e-3 + .5", XY)
+    assert coefficient(p, [1, 0]) == Fraction(1, 10)
+    assert coefficient(p, [0, 1]) == Fraction(3, 4)
+    assert coefficient(p, [0, 0]) == Fraction(3, 2000) + Fraction(1, 2)
+
+
+def test_precedence_and_unary_minus():
+    # -x^2 is -(x^2); 2*3^2 = 18 (common practice, no source)
+    p = parse_polynomial("-x^2 + 2*3^2 - -y", XY)
+    assert coefficient(p, [2, 0]) == -1
+    assert coefficient(p, [0, 0]) == 18
+    assert coefficient(p, [0, 1]) == 1
+
+
+def test_double_star_and_equals():
+    assert parse_polynomial("y**2 = x**3", XY) == parse_polynomial("y^2 - x^3", XY)
+
+
+def test_imaginary_and_sqrt():
+    p = parse_polynomial("(1 + sqrt(5))/2*x - I*y", XY)
+    phi = (ExactCoefficient.rational(1) + ExactCoefficient.square_root(5)) / 2
+    assert coefficient(p, [1, 0]) == phi
+    assert coefficient(p, [0, 1]) == -ExactCoefficient.imaginary_unit()
+    assert parse_constant("sqrt(8)/sqrt(2)") == 2
+
+
+def test_expansion_binomial():
+    # (x + y)^5 has binomial coefficients 1 5 10 10 5 1 (common practice, no source)
+    p = parse_polynomial("(x + y)^5", XY)
+    assert [coefficient(p, [5 - k, k]) for k in range(6)] == [1, 5, 10, 10, 5, 1]
+
+
+@pytest.mark.parametrize("text, column, fragment", [
+    ("2x", 2, "implicit multiplication"),
+    ("x^2^3", 4, "chained powers"),
+    ("x +", 4, "the end of the text"),
+    ("(x + 1", 7, "to close the '('"),
+    ("x + 1)", 6, "unbalanced"),
+    ("x $ y", 3, "unexpected character"),
+    ("z + 1", 1, "unknown variable 'z'"),
+    ("x^-2", 3, "non-negative integer exponent"),
+    ("x^1000000000", 3, "degree limit"),
+    ("1/x", 3, "division by a polynomial"),
+    ("1/(2-2)", 3, "division by zero"),
+    ("sqrt(-1)", 1, "negative"),
+    ("sqrt(x)", 1, "constant"),
+    ("I = x", None, None),
+])
+def test_errors_name_the_column(text, column, fragment):
+    if fragment is None:  # "I = x" is a valid equation (x - I = 0)
+        parse_polynomial(text, XY)
+        return
+    with pytest.raises(ParseError) as info:
+        parse_polynomial(text, XY)
+    assert info.value.column == column
+    assert fragment in str(info.value)
+
+
+def test_system_errors_name_the_equation():
+    with pytest.raises(ParseError) as info:
+        parse_system(["x + y", "x + * y"], XY)
+    assert info.value.equation == 2 and info.value.column == 5
+    assert str(info.value).startswith("equation 2, column 5:")
+
+
+def test_huge_power_fails_fast_without_expanding():
+    with pytest.raises(ParseError):
+        parse_polynomial("(x + y + 1)^999999999", XY)
+    with pytest.raises(ParseError):  # a large but allowed degree with too many terms
+        parse_polynomial("(x + y + 1)^900 * (x + y + 1)^100", XY)
+
+
+def test_constant_blowup_is_limited():
+    with pytest.raises(NumagError):
+        parse_polynomial("(10^1000)^1000", XY)
+
+
+def test_variable_names_checked():
+    with pytest.raises(InputError):
+        parse_system(["x"], ["x", "I"])
+    with pytest.raises(InputError):
+        parse_system(["x"], ["x", "2y"])
+    with pytest.raises(InputError):
+        parse_system(["x", "y"], ["x", "x"])
+
+
+def test_projective_needs_homogeneous():
+    with pytest.raises(InputError, match="equation 1 is not homogeneous"):
+        parse_system(["x^2 + y"], XY, projective=True)
+
+
+_coefficients = st.one_of(
+    st.integers(-50, 50).map(str),
+    st.fractions(min_value=-10, max_value=10, max_denominator=50).map(lambda q: f"({q})"),
+    st.sampled_from(["sqrt(2)", "(1 + sqrt(5))/2", "I", "(2 - 3*I)", "sqrt(3/4)"]),
+)
+_terms = st.tuples(_coefficients, st.integers(0, 4), st.integers(0, 4)).map(
+    lambda t: f"{t[0]}*x^{t[1]}*y^{t[2]}")
+
+
+@settings(max_examples=150, deadline=None, derandomize=True)
+@given(st.lists(_terms, min_size=1, max_size=6))
+def test_round_trip_text_system_text(terms):
+    text = " + ".join(terms)
+    first = parse_polynomial(text, XY)
+    written = first.to_text(XY)
+    second = parse_polynomial(written, XY)
+    assert second == first
+    assert second.to_text(XY) == written
+
+
+@settings(max_examples=400, deadline=None, derandomize=True)
+@given(st.text(alphabet=st.characters(codec="utf-8"), max_size=40)
+       | st.text(alphabet="xy0123456789+-*/^()I .=sqrte", max_size=30))
+def test_arbitrary_text_raises_only_our_errors(text):
+    try:
+        parse_polynomial(text, XY)
+    except NumagError:
+        pass
