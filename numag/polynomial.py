@@ -489,6 +489,8 @@ def _unique_rows(exponents):
     """``np.unique(rows, return_inverse=True)`` through one integer key per row when it fits in int64."""
     if len(exponents) == 0:
         return exponents, np.zeros(0, dtype=np.int64)
+    if exponents.shape[1] == 0:  # constants: every row is the same monomial
+        return exponents[:1], np.zeros(len(exponents), dtype=np.int64)
     base = int(exponents.max()) + 1
     if exponents.shape[1] and base ** exponents.shape[1] < 2**62:
         keys = exponents @ (base ** np.arange(exponents.shape[1], dtype=np.int64))

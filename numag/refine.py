@@ -105,7 +105,7 @@ def project_to_variety(system, evaluator, points, tolerance=1e-13, max_iteration
     return ProjectionResult(current, residual <= tolerance, residual, distances, iterations)
 
 
-def mp_gauss_newton(function, start, ctx, tolerance, max_iterations=60):
+def mp_gauss_newton(function, start, ctx, tolerance, max_iterations=80, anchored=False):
     """Minimum-norm Gauss-Newton at the precision of ``ctx``.
 
     Parameters
@@ -118,6 +118,12 @@ def mp_gauss_newton(function, start, ctx, tolerance, max_iterations=60):
     tolerance : float
         Stop when the residual norm is at or below it.
     max_iterations : int
+    anchored : bool, default False
+        Penalise the distance from ``start`` with a weight equal to the current
+        residual norm. On solution sets where the equations are not reduced
+        (the partials of x^2 - y^2 z along the z-axis) plain Gauss-Newton
+        converges linearly and can slide along the set, far from the start;
+        the anchor keeps it near the start and fades as the residual vanishes.
 
     Returns
     -------
@@ -129,9 +135,25 @@ def mp_gauss_newton(function, start, ctx, tolerance, max_iterations=60):
     residual, jacobian = function(current)
     norm = ctx.norm(residual)
     iterations = 0
+    rcond = ctx.mpf(10) ** (-(ctx.dps * 3) // 4)
+    size = start.rows
     while norm > tolerance and iterations < max_iterations:
         iterations += 1
-        step = mp_least_squares(jacobian, residual, ctx, rcond=ctx.mpf(10) ** (-(ctx.dps * 3) // 4))
+        if anchored:
+            weight = norm
+            rows = residual.rows
+            matrix = ctx.matrix(rows + size, size)
+            rhs = ctx.matrix(rows + size, 1)
+            for i in range(rows):
+                rhs[i] = residual[i]
+                for j in range(size):
+                    matrix[i, j] = jacobian[i, j]
+            for j in range(size):
+                matrix[rows + j, j] = weight
+                rhs[rows + j] = weight * (current[j] - start[j])
+            step = mp_least_squares(matrix, rhs, ctx, rcond=rcond)
+        else:
+            step = mp_least_squares(jacobian, residual, ctx, rcond=rcond)
         trial = current - step
         trial_residual, trial_jacobian = function(trial)
         trial_norm = ctx.norm(trial_residual)

@@ -285,7 +285,7 @@ class _Checker:
         """Solve F = 0 and rank J <= rank from ``point``; return the point (complex) or None."""
         drop = RankDropSystem(self.system, rank, [complex(v) for v in point], ctx)
         z, converged, _, _ = mp_gauss_newton(drop, drop.initial(point), ctx,
-                                             tolerance=zero_tolerance(digits, (self.m, self.n)))
+                                             tolerance=zero_tolerance(digits, (self.m, self.n)), anchored=True)
         return drop.point_of(z) if converged else None
 
     # -- one point ---------------------------------------------------------------------------------

@@ -1,0 +1,70 @@
+import mpmath
+import numpy as np
+import sympy
+
+from numag.evaluate import BatchEvaluator, PrecisionEvaluator
+from numag.parse import parse_system
+
+
+def random_system(rng, n_variables, n_equations, degree, n_terms):
+    names = [f"x{j}" for j in range(n_variables)]
+    equations = []
+    for _ in range(n_equations):
+        terms = []
+        for _ in range(n_terms):
+            exponents = rng.multinomial(int(rng.integers(0, degree + 1)), [1 / n_variables] * n_variables)
+            coefficient = f"({int(rng.integers(-9, 10))} + {int(rng.integers(-9, 10))}*I)/{int(rng.integers(1, 7))}"
+            monomial = "*".join(f"{n}^{e}" for n, e in zip(names, exponents) if e) or "1"
+            terms.append(f"{coefficient}*{monomial}")
+        equations.append(" + ".join(terms))
+    return names, equations
+
+
+def test_batched_values_and_jacobian_match_sympy():
+    # sympy (Meurer et al., PeerJ CS 2017) as the reference library for differentiation and evaluation
+    rng = np.random.default_rng(7)
+    for trial in range(4):
+        n, m = int(rng.integers(1, 5)), int(rng.integers(1, 4))
+        names, equations = random_system(rng, n, m, degree=4, n_terms=6)
+        system = parse_system(equations, names)
+        points = rng.standard_normal((5, n)) + 1j * rng.standard_normal((5, n))
+        values, jacobians = BatchEvaluator(system.polynomials).evaluate(points)
+        symbols = sympy.symbols(names)
+        exprs = [sympy.sympify(e.replace("^", "**"), locals=dict(zip(names, symbols))) for e in equations]
+        jac = sympy.Matrix(exprs).jacobian(symbols)
+        f_num = sympy.lambdify(symbols, exprs, "numpy")
+        j_num = sympy.lambdify(symbols, jac, "numpy")
+        for p, point in enumerate(points):
+            expected_values = np.array(f_num(*point), dtype=complex)
+            expected_jac = np.array(j_num(*point), dtype=complex)
+            scale = 1 + np.abs(expected_values).max()
+            assert np.abs(values[p] - expected_values).max() < 1e-12 * scale
+            assert np.abs(jacobians[p] - expected_jac).max() < 1e-12 * (1 + np.abs(expected_jac).max())
+
+
+def test_precision_evaluation_matches_sympy_at_50_digits():
+    # sympy exact evaluation at a rational point as reference (reference library)
+    system = parse_system(["(1 + sqrt(5))/2*x^3*y - 1/3*y^2 + I"], ["x", "y"])
+    x, y = sympy.symbols("x y")
+    expr = (1 + sympy.sqrt(5)) / 2 * x**3 * y - sympy.Rational(1, 3) * y**2 + sympy.I
+    point = {x: sympy.Rational(1, 7), y: sympy.Rational(-2, 3)}
+    exact_value = complex(sympy.N(expr.subs(point), 60))
+    with mpmath.mp.workdps(50):
+        values, jac = PrecisionEvaluator(system.polynomials).evaluate(
+            [mpmath.mpf(1) / 7, mpmath.mpf(-2) / 3], mpmath.mp)
+        reference = sympy.N(expr.subs(point), 55)
+        assert abs(values[0] - mpmath.mpc(str(sympy.re(reference)), str(sympy.im(reference)))) < mpmath.mpf(10) ** -45
+        dx = sympy.N(sympy.diff(expr, x).subs(point), 55)
+        assert abs(jac[0, 0] - mpmath.mpc(str(sympy.re(dx)), str(sympy.im(dx)))) < mpmath.mpf(10) ** -45
+    assert abs(complex(values[0]) - exact_value) < 1e-14
+
+
+def test_many_points_one_call_agree_with_one_at_a_time():
+    system = parse_system(["x^3 - 2*x*y + 1", "y^2 - x"], ["x", "y"])
+    evaluator = BatchEvaluator(system.polynomials)
+    rng = np.random.default_rng(3)
+    points = rng.standard_normal((1000, 2)) + 1j * rng.standard_normal((1000, 2))
+    values, jacobians = evaluator.evaluate(points)
+    for k in (0, 500, 999):
+        v, j = evaluator.evaluate(points[k:k + 1])
+        assert np.allclose(v[0], values[k]) and np.allclose(j[0], jacobians[k])

@@ -1,0 +1,44 @@
+import mpmath
+import numpy as np
+
+from numag.linalg import (jacobian_row_scales, mp_least_squares, mp_right_singular_vectors, mp_singular_values,
+                          numerical_rank, scaled_singular_values, singular_value_gap, zero_tolerance)
+
+
+def test_scaled_values_ignore_coefficient_size():
+    # A row with tiny coefficients is not "nearly zero" once scaled (common practice, no source)
+    points = np.array([[0.6, 0.8]])
+    jac = 1e-12 * np.array([[[1.2, 1.6]]])
+    scales = jacobian_row_scales([1e-12 * np.sqrt(3)], [2], points)
+    values = scaled_singular_values(jac, scales)
+    assert values[0, 0] > 0.1
+
+
+def test_rank_and_gap():
+    values = np.array([2.0, 1.0, 1e-14])
+    rank = numerical_rank(values, zero_tolerance(16, (3, 3)))
+    assert rank == 2
+    assert singular_value_gap(values, rank) == 1e14
+    assert singular_value_gap(values, 0) is None
+    assert singular_value_gap(np.array([1.0, 0.0]), 1) == float("inf")
+
+
+def test_numpy_and_mpmath_singular_values_agree():
+    # numpy's LAPACK SVD as the reference library for the mpmath path
+    rng = np.random.default_rng(0)
+    a = rng.standard_normal((3, 4)) + 1j * rng.standard_normal((3, 4))
+    with mpmath.mp.workdps(30):
+        values = mp_singular_values(mpmath.matrix(a.tolist()), mpmath.mp)
+    assert np.allclose([float(v) for v in values], np.linalg.svd(a, compute_uv=False), rtol=1e-12)
+
+
+def test_mp_least_squares_minimum_norm_and_kernel():
+    with mpmath.mp.workdps(40):
+        a = mpmath.matrix([[1, 2, 3], [2, 4, 6]]) * mpmath.mpc(1)
+        b = mpmath.matrix([1, 2])
+        x = mp_least_squares(a, b, mpmath.mp, rcond=mpmath.mpf(10) ** -30)
+        assert mpmath.norm(a * x - b) < mpmath.mpf(10) ** -35
+        # minimum norm: x is parallel to the row (1, 2, 3)
+        assert mpmath.norm(x - mpmath.matrix([1, 2, 3]) / 14) < mpmath.mpf(10) ** -35
+        basis = mp_right_singular_vectors(a, mpmath.mp)
+        assert mpmath.norm(a * basis[:, 1:3]) < mpmath.mpf(10) ** -35

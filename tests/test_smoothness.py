@@ -1,0 +1,198 @@
+import itertools
+
+import numpy as np
+import pytest
+import sympy
+
+from numag.errors import InputError, PointError
+from numag.parse import parse_constant, parse_system
+from numag.smoothness import CheckOptions, check_points
+
+
+def verdicts(system, points, **options):
+    report = check_points(system, points, CheckOptions(**options), seed=11)
+    return [v.verdict for v in report.points], report
+
+
+def curve_points(equation, xs, branch=1):
+    """Points (x, y) on y^2 = g(x) with g from the equation 'y^2 - g'."""
+    x = sympy.Symbol("x")
+    g = sympy.sympify(equation.replace("^", "**").split("y**2 - ", 1)[1].replace("y", "0"))
+    return [[complex(value), branch * complex(sympy.sqrt(g.subs(x, value)))] for value in xs]
+
+
+@pytest.mark.parametrize("name", ["cusp", "node"])
+def test_plane_cubics_singular_exactly_at_origin(problems, name):
+    # cusp y^2 = x^3 and node y^2 = x^2 (x + 1): singular exactly at the origin
+    # (common practice, no source; problem file entries "cusp", "node")
+    entry = problems[name]
+    system = parse_system(entry["equations"], entry["variables"])
+    others = curve_points(entry["equations"][0], [sympy.Rational(1, 3), 2, -sympy.Rational(1, 2), 5]
+                          if name == "node" else [sympy.Rational(1, 3), 2, 5, sympy.Rational(1, 100)])
+    result, report = verdicts(system, [[0, 0]] + others)
+    assert result == ["singular"] + ["smooth"] * len(others)
+    assert report.points[0].tangent_dimension == 2 and report.points[1].tangent_dimension == 1
+
+
+def test_whitney_umbrella_singular_along_z_axis(problems):
+    # x^2 = y^2 z is singular along the z-axis (common practice, no source; problem "whitney_umbrella")
+    entry = problems["whitney_umbrella"]
+    system = parse_system(entry["equations"], entry["variables"])
+    on_axis = [[0, 0, z] for z in (0, 1, -2, 7)]
+    off_axis = [[2, 1, 4], [3, 3, 1], [1j, 1, -1]]
+    result, _ = verdicts(system, on_axis + off_axis)
+    assert result == ["singular"] * 4 + ["smooth"] * 3
+
+
+def test_cone_vertex_singular_elsewhere_smooth():
+    # x^2 + y^2 = z^2: only the vertex is singular (common practice, no source)
+    system = parse_system(["x^2 + y^2 - z^2"], ["x", "y", "z"])
+    result, _ = verdicts(system, [[0, 0, 0], [3, 4, 5], [1, 0, -1], [5, 12, 13]])
+    assert result == ["singular", "smooth", "smooth", "smooth"]
+
+
+def test_point_near_node_names_the_refined_singular_point():
+    system = parse_system(["y^2 - x^2*(x + 1)"], ["x", "y"])
+    offset = 1e-12
+    point = [offset, offset * np.sqrt(1 + offset)]
+    (verdict,), report = verdicts(system, [point])
+    v = report.points[0]
+    assert verdict == "singular"
+    assert np.abs(v.point).max() < 1e-20  # the node itself (common practice, no source)
+    assert v.distance == pytest.approx(np.linalg.norm(point), rel=1e-6)
+    assert v.evidence.escalated
+
+
+def test_badly_scaled_smooth_point_is_smooth():
+    # 1e-12 (x^2 + y^2 - 1): a smooth circle although every Jacobian entry is tiny
+    system = parse_system(["1e-12*(x^2 + y^2 - 1)"], ["x", "y"])
+    (verdict,), report = verdicts(system, [[0.6, 0.8]])
+    assert verdict == "smooth" and not report.points[0].evidence.escalated
+
+
+def test_flex_of_cubic_is_smooth():
+    # y = x^3 is smooth everywhere, including at and near its flex (common practice, no source)
+    system = parse_system(["y - x^3"], ["x", "y"])
+    result, _ = verdicts(system, [[0, 0], [1e-7, 1e-21], [1e-3, 1e-9]])
+    assert result == ["smooth"] * 3
+
+
+def test_smooth_point_near_a_singular_point_reports_its_distance():
+    system = parse_system(["y^2 - x^2*(x + 1)"], ["x", "y"])
+    point = curve_points("y^2 - x^2*(x + 1)", [sympy.Rational(1, 100000)])[0]
+    (verdict,), report = verdicts(system, [point])
+    v = report.points[0]
+    assert verdict == "smooth"
+    assert v.nearest_rank_drop is not None
+    assert v.nearest_rank_drop_distance == pytest.approx(np.linalg.norm(point), rel=1e-3)
+
+
+def test_non_reduced_component_is_not_called_singular():
+    # x^2 = 0 is the line x = 0 counted twice: non-reduced, not "singular everywhere" (design notes, trap 1)
+    system = parse_system(["x^2"], ["x", "y"])
+    result, report = verdicts(system, [[0, 3], [0, -1]])
+    assert result == ["non-reduced", "non-reduced"]
+
+
+def test_equations_as_given_embedded_point():
+    # F = (x^2, x y): rank 0 at the origin although V(F) is the smooth line x = 0 (design notes, section 1)
+    system = parse_system(["x^2", "x*y"], ["x", "y"])
+    result, report = verdicts(system, [[0, 3], [0, 0]], local_dimension=1)
+    assert result == ["smooth", "singular"]
+    assert any("equations as given" in note for note in report.points[1].notes)
+
+
+def test_cayley_cubic_nodes(problems):
+    # Cayley's 4-nodal cubic surface: nodes at the coordinate points
+    # (A. Cayley, "A memoir on cubic surfaces", Phil. Trans. R. Soc. 159, 1869; problem "cayley_cubic")
+    entry = problems["cayley_cubic"]
+    system = parse_system(entry["equations"], entry["variables"], projective=True)
+    nodes = [list(row) for row in np.eye(4, dtype=int)]
+    smooth = [[1, 1, -1, -1], [1, -1, 2, -2]]  # on the surface: the sum of 1/x_k vanishes
+    for p in smooth:
+        assert sum(np.prod([p[j] for j in range(4) if j != k]) for k in range(4)) == 0
+    result, report = verdicts(system, nodes + smooth)
+    assert result == ["singular"] * 4 + ["smooth"] * 2
+    assert report.points[0].tangent_dimension == 3  # projective tangent space of a surface node
+
+
+def test_twisted_cubic_is_smooth_with_given_dimension(problems):
+    # the twisted cubic is a smooth curve (problem "twisted_cubic_projective": common practice, Harris)
+    entry = problems["twisted_cubic_projective"]
+    system = parse_system(entry["equations"], entry["variables"], projective=True)
+    points = [[s**3, s**2 * t, s * t**2, t**3] for s, t in [(1, 0), (0, 1), (1, 1), (2, -1), (1, 3)]]
+    result, report = verdicts(system, points, local_dimension=1)
+    assert result == ["smooth"] * 5
+    assert all(v.tangent_dimension == 1 for v in report.points)
+
+
+def test_cone_over_twisted_cubic(problems):
+    # the affine cone is singular only at its vertex (problem "affine_cone_over_twisted_cubic")
+    entry = problems["affine_cone_over_twisted_cubic"]
+    system = parse_system(entry["equations"], entry["variables"])
+    dim = entry["expected"]["variety"]["dim"]
+    result, _ = verdicts(system, [[0, 0, 0, 0], [1, 1, 1, 1], [8, 4, 2, 1]], local_dimension=dim)
+    assert result == ["singular", "smooth", "smooth"]
+
+
+def test_rank_one_matrices(problems):
+    # 3x3 matrices of rank <= 1: dimension 5, singular only at 0 (problem "rank1_3x3_matrices")
+    entry = problems["rank1_3x3_matrices"]
+    system = parse_system(entry["equations"], entry["variables"])
+    u, v = np.array([1, 2, -1]), np.array([3, 1, 2])
+    rank_one = list(np.outer(u, v).reshape(-1).astype(int))
+    result, _ = verdicts(system, [[0] * 9, rank_one], local_dimension=entry["expected"]["variety"]["dim"])
+    assert result == ["singular", "smooth"]
+
+
+def test_four_lines_nodes_match_sympy(problems):
+    # The 6 pairwise intersections of 4 generic lines are the nodes (problem "four_generic_lines");
+    # the intersections themselves are computed by sympy's linear solver (reference library).
+    entry = problems["four_generic_lines"]
+    system = parse_system(entry["equations"], entry["variables"])
+    x, y = sympy.symbols("x y")
+    lines = [x - y + 1, 2 * x + y - 3, x + 3 * y + 2, 3 * x - 2 * y - 7]
+    nodes = []
+    for a, b in itertools.combinations(lines, 2):
+        s = sympy.solve([a, b], [x, y])
+        nodes.append([parse_constant(str(s[x])), parse_constant(str(s[y]))])
+    result, _ = verdicts(system, nodes + [[0, 1], [2, -1]])
+    assert len(nodes) == entry["expected"]["singular_points"]
+    assert result == ["singular"] * 6 + ["smooth"] * 2
+
+
+def test_point_not_on_variety_is_refused():
+    system = parse_system(["x^2 + y^2 - 1"], ["x", "y"])
+    with pytest.raises(PointError, match="point 2: is not on X"):
+        check_points(system, [[1, 0], [0.5, 0.5]], seed=0)
+
+
+def test_undecided_local_dimension_for_overdetermined_system():
+    # the three coordinate axes, cut out by 4 equations in 3 unknowns: no complete intersection
+    system = parse_system(["x*y", "x*z", "y*z", "x*y*z"], ["x", "y", "z"])
+    result, report = verdicts(system, [[0, 0, 2], [0, 0, 0]])
+    assert result == ["undecided", "undecided"]
+    assert report.points[0].local_dimension_source == "unknown"
+    result, _ = verdicts(system, [[0, 0, 2], [0, 0, 0]], local_dimension=1)
+    assert result == ["smooth", "singular"]  # the axes meet at the origin (common practice, no source)
+
+
+def test_options_are_validated():
+    system = parse_system(["x^2 + y^2 - 1"], ["x", "y"])
+    with pytest.raises(InputError, match="local_dimension"):
+        check_points(system, [[1, 0]], CheckOptions(local_dimension=5))
+    with pytest.raises(InputError, match="digits"):
+        check_points(system, [[1, 0]], CheckOptions(max_digits=4))
+
+
+def test_projective_zero_point_refused():
+    system = parse_system(["x^2 + y^2 - z^2"], ["x", "y", "z"], projective=True)
+    with pytest.raises(PointError, match="all homogeneous coordinates are zero"):
+        check_points(system, [[0, 0, 0]])
+
+
+def test_same_seed_same_report():
+    system = parse_system(["x^2"], ["x", "y"])
+    a = check_points(system, [[0, 1]], seed=5)
+    b = check_points(system, [[0, 1]], seed=5)
+    assert a.points[0].verdict == b.points[0].verdict and a.seed == b.seed == 5
