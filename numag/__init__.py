@@ -1,3 +1,28 @@
-"""numag: where is a variety singular? Numerical algebraic geometry by homotopy continuation."""
+"""numag: where is a variety singular? Numerical algebraic geometry by homotopy continuation.
+
+The public API in brief:
+
+* :func:`load_system`, :func:`parse_system` -- read equations (our own grammar, exact coefficients);
+* :func:`check_points` -- the Jacobian criterion at points, with evidence (``numag check``);
+* :class:`BatchEvaluator` -- F and J at many points at once;
+* :class:`NumagError` -- the root of every error numag raises on purpose.
+
+Examples
+--------
+>>> import numag
+>>> system = numag.parse_system(["y^2 - x^3"], ["x", "y"])
+>>> numag.check_points(system, [[0, 0]], seed=0).points[0].verdict
+'singular'
+"""
 
 __version__ = "0.1.0"
+
+from .errors import NumagError  # noqa: E402
+from .parse import parse_system, parse_polynomial  # noqa: E402
+from .polynomial import Polynomial, PolynomialSystem  # noqa: E402
+from .evaluate import BatchEvaluator  # noqa: E402
+from .smoothness import CheckOptions, check_points  # noqa: E402
+from .files import load_system  # noqa: E402
+
+__all__ = ["NumagError", "parse_system", "parse_polynomial", "Polynomial", "PolynomialSystem",
+           "BatchEvaluator", "CheckOptions", "check_points", "load_system", "__version__"]

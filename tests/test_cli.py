@@ -1,0 +1,76 @@
+import io
+import json
+import pathlib
+import subprocess
+import sys
+
+import pytest
+
+import numag
+from numag.cli import EXIT_INPUT, EXIT_OK, EXIT_UNDECIDED, main
+
+EXAMPLES = pathlib.Path(numag.__file__).parent / "examples"
+
+
+def run(argv):
+    out = io.StringIO()
+    code = main(argv, out=out)
+    return code, out.getvalue()
+
+
+def test_check_example_human_output():
+    code, text = run(["check", str(EXAMPLES / "parallel_linkage.toml"), "--point", "c1=1,s1=0,c2=1,s2=0",
+                      "--point", "c1=3/5,s1=4/5,c2=3/5,s2=4/5", "--seed", "1"])
+    assert code == EXIT_OK
+    assert "verdict: SINGULAR" in text and "verdict: SMOOTH" in text
+    assert "certification" in text and "engineering practice" in text
+
+
+def test_check_json_output_and_points_file():
+    code, text = run(["check", str(EXAMPLES / "parallel_linkage.toml"), "--points-file",
+                      str(EXAMPLES / "checkpoints_linkage.json"), "--json", "--seed", "2"])
+    data = json.loads(text)
+    assert code == EXIT_OK and data["seed"] == 2
+    assert [p["verdict"] for p in data["points"]] == ["singular", "singular", "smooth", "smooth"]
+
+
+def test_undecided_exit_code(tmp_path):
+    path = tmp_path / "axes.toml"
+    path.write_text('variables = ["x", "y", "z"]\nequations = ["x*y", "x*z", "y*z", "x*y*z"]\n')
+    code, _ = run(["check", str(path), "--point", "x=0,y=0,z=1"])
+    assert code == EXIT_UNDECIDED
+
+
+@pytest.mark.parametrize("argv, fragment", [
+    (["check", "missing.toml", "--point", "x=0"], "no such system file"),
+    (["check", "{example}"], "no points to check"),
+    (["check", "{example}", "--point", "c1=1"], "no value for s1, c2, s2"),
+    (["check", "{example}", "--point", "c1=1,s1=0,c2=1,s2=0", "--digits", "3"], "--digits"),
+    (["check", "{example}", "--point", "c1=2,s1=0,c2=2,s2=0"], "is not on X"),
+    (["check", "{example}", "--point", "c1=1,s1=0,c2=1,s2=0", "--local-dimension", "9"], "local_dimension"),
+    (["frobnicate"], "invalid choice"),
+])
+def test_bad_input_is_one_clear_line(argv, fragment, capsys):
+    argv = [a.replace("{example}", str(EXAMPLES / "parallel_linkage.toml")) for a in argv]
+    with pytest.raises(SystemExit) if argv[0] == "frobnicate" else _no_raise():
+        code, _ = run(argv)
+        assert code == EXIT_INPUT
+    err = capsys.readouterr().err
+    assert fragment in err and "Traceback" not in err
+    assert err.startswith("numag: error:")
+
+
+class _no_raise:
+    def __enter__(self):
+        return self
+
+    def __exit__(self, *exc):
+        return False
+
+
+def test_module_entry_point_runs():
+    result = subprocess.run([sys.executable, "-m", "numag", "check", str(EXAMPLES / "parallel_linkage.toml"),
+                             "--point", "c1=-1,s1=0,c2=-1,s2=0", "--json"], capture_output=True, text=True,
+                            cwd=pathlib.Path(numag.__file__).parent.parent)
+    assert result.returncode == 0, result.stderr
+    assert json.loads(result.stdout)["points"][0]["verdict"] == "singular"
