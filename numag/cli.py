@@ -139,6 +139,15 @@ def main(argv=None, out=None):
     except KeyboardInterrupt:
         sys.stderr.write("numag: interrupted\n")
         return 130
+    except BrokenPipeError:  # the reader (e.g. `head`) went away: nothing more to say
+        try:
+            sys.stdout = None
+        finally:
+            return EXIT_OK
+    except Exception as err:  # noqa: BLE001 - last resort: one line, never a traceback
+        sys.stderr.write(f"numag: internal error: {type(err).__name__}: {err} (please report this with the "
+                         "command and input)\n")
+        return EXIT_INTERNAL
 
 
 if __name__ == "__main__":  # pragma: no cover

@@ -331,7 +331,13 @@ def parse_constant(text):
     >>> complex(parse_constant("1/2 - 3*I"))
     (0.5-3j)
     """
-    polynomial = parse_polynomial(text, [])
+    try:
+        polynomial = parse_polynomial(text, [])
+    except ParseError as err:
+        if err.reason.startswith("unknown variable"):
+            raise ParseError(f"found {err.reason.split()[2]} where a number was expected (a value cannot "
+                             "contain a variable)", column=err.column, text=err.text) from None
+        raise
     return polynomial.coefficients[0] if polynomial.n_terms else ExactCoefficient.zero()
 
 
