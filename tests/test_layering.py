@@ -12,7 +12,7 @@ LAYERS = [
     {"polynomial"},
     {"parse"},
     {"evaluate", "linalg"},
-    {"refine"},
+    {"refine", "homotopy", "tracker"},
     {"smoothness"},
     {"files"},
     {"report"},

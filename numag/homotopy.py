@@ -1,0 +1,142 @@
+"""Homotopies between a start system and a target, in projective coordinates on a random affine patch.
+
+The target F (n equations in n affine unknowns, or homogeneous in n + 1) is
+homogenised to F^h in X = (X_0, ..., X_n), X_0 the homogenising coordinate
+first. A random linear equation a . X = 1 (the patch) makes the system square
+in n + 1 unknowns and keeps paths that go to infinity (X_0 -> 0) finite.
+
+The total-degree start system is G_i = X_i^d_i - X_0^d_i with the Bezout
+number prod d_i of known solutions. The straight-line homotopy with the
+gamma trick is
+
+    H(X, s) = (1 - s) F^h(X) + s gamma G(X),   s from 1 to 0,
+
+with gamma a random unit complex number. Start systems are classes with
+``degrees``, ``evaluate`` and ``solutions`` so that multihomogeneous or
+polyhedral starts can be added without touching the tracker.
+
+Examples
+--------
+>>> import numpy as np
+>>> from numag.parse import parse_system
+>>> system = parse_system(["x^2 - 2", "y - x"], ["x", "y"])
+>>> homotopy = StraightLineHomotopy.total_degree(system, np.random.default_rng(0))
+>>> homotopy.start_solutions().shape
+(2, 3)
+"""
+
+import numpy as np
+
+from .errors import InputError
+from .evaluate import BatchEvaluator
+
+__all__ = ["TotalDegreeStart", "StraightLineHomotopy", "random_unit_complex"]
+
+
+def random_unit_complex(rng, size=None):
+    """Random complex numbers of modulus one (uniform angle)."""
+    return np.exp(2j * np.pi * rng.random(size))
+
+
+class TotalDegreeStart:
+    """G_i = X_i^d_i - X_0^d_i in homogeneous coordinates (X_0 first).
+
+    Parameters
+    ----------
+    degrees : sequence of int
+        d_1, ..., d_n (each at least 1).
+    """
+
+    def __init__(self, degrees):
+        self.degrees = np.array(degrees, dtype=np.int64)
+        if np.any(self.degrees < 1):
+            raise InputError("every equation must have degree at least 1 for a total-degree start")
+
+    @property
+    def n_paths(self):
+        """The Bezout number prod d_i."""
+        return int(np.prod(self.degrees))
+
+    def evaluate(self, points):
+        """G and its Jacobian at points of shape (P, n + 1)."""
+        x0 = points[:, :1]
+        rest = points[:, 1:]
+        d = self.degrees[None, :]
+        values = rest ** d - x0 ** d
+        count, n = rest.shape
+        jacobian = np.zeros((count, n, n + 1), dtype=complex)
+        jacobian[:, :, 0] = -d * x0 ** (d - 1)
+        index = np.arange(n)
+        jacobian[:, index, index + 1] = d * rest ** (d - 1)
+        return values, jacobian
+
+    def solutions(self, path_indices=None):
+        """Start solutions with X_0 = 1, in a fixed order (path k is the same whatever the batch)."""
+        total = self.n_paths
+        indices = np.arange(total) if path_indices is None else np.asarray(path_indices)
+        digits = np.empty((len(indices), len(self.degrees)), dtype=np.int64)
+        rest = indices.copy()
+        for j in range(len(self.degrees) - 1, -1, -1):  # mixed-radix digits of the path number
+            digits[:, j] = rest % self.degrees[j]
+            rest //= self.degrees[j]
+        roots = np.exp(2j * np.pi * digits / self.degrees[None, :])
+        return np.column_stack([np.ones(len(indices), dtype=complex), roots])
+
+
+class StraightLineHomotopy:
+    """H(X, s) = (1 - s) F^h(X) + s gamma G(X) together with the patch a . X = 1.
+
+    Parameters
+    ----------
+    target : list of Polynomial
+        Homogeneous polynomials in n + 1 variables (homogenising coordinate first).
+    start : start system object (see :class:`TotalDegreeStart`)
+    patch : ndarray, shape (n + 1,)
+    gamma : complex
+    """
+
+    def __init__(self, target, start, patch, gamma):
+        self.target = list(target)
+        self.start = start
+        self.patch = np.asarray(patch, dtype=complex)
+        self.gamma = complex(gamma)
+        self.size = len(self.patch)
+        if len(self.target) + 1 != self.size:
+            raise InputError(f"a square system is needed: {len(self.target)} equations in {self.size - 1} unknowns")
+        self.evaluator = BatchEvaluator(self.target)
+        self.evaluations = 0
+
+    @classmethod
+    def total_degree(cls, system, rng):
+        """Total-degree homotopy for a square affine system (or a projective one with n equations in n + 1)."""
+        expected = system.n_variables - (1 if system.projective else 0)
+        if system.n_equations != expected:
+            raise InputError(f"the system is not square: {system.n_equations} equations, {expected} unknowns")
+        if system.projective:
+            target = [p.numeric() for p in system.polynomials]
+        else:
+            target = [p.numeric().homogenize(0) for p in system.polynomials]
+        size = len(target) + 1
+        patch = (rng.standard_normal(size) + 1j * rng.standard_normal(size)) / np.sqrt(2 * size)
+        return cls(target, TotalDegreeStart(system.degrees), patch, random_unit_complex(rng))
+
+    def start_solutions(self, path_indices=None):
+        """Start solutions scaled onto the patch."""
+        points = self.start.solutions(path_indices)
+        return points / (points @ self.patch)[:, None]
+
+    def evaluate(self, points, s):
+        """H, dH/dX (with the patch row) and dH/ds at points (P, n + 1) and parameters s (P,)."""
+        self.evaluations += 1
+        f_values, f_jac = self.evaluator.evaluate(points)
+        g_values, g_jac = self.start.evaluate(points)
+        s = s[:, None]
+        values = np.empty((len(points), self.size), dtype=complex)
+        values[:, :-1] = (1 - s) * f_values + s * self.gamma * g_values
+        values[:, -1] = points @ self.patch - 1
+        jacobian = np.empty((len(points), self.size, self.size), dtype=complex)
+        jacobian[:, :-1, :] = (1 - s[:, :, None]) * f_jac + s[:, :, None] * self.gamma * g_jac
+        jacobian[:, -1, :] = self.patch
+        derivative = np.zeros((len(points), self.size), dtype=complex)
+        derivative[:, :-1] = self.gamma * g_values - f_values
+        return values, jacobian, derivative
