@@ -370,7 +370,7 @@ class _Checker:
                          "rank-deficient Jacobian); give it to decide.")
         elif codim == 0:
             outcome["outcome"] = "smooth" if rank == 0 else "undecided"
-        elif values[codim - 1] > opts.suspect_threshold if codim - 1 < len(values) else False:
+        elif codim <= len(values) and values[codim - 1] > opts.suspect_threshold:
             outcome["outcome"] = "smooth"
         else:
             escalated = True
