@@ -1,13 +1,28 @@
 """The batched path tracker: every path of a batch moves together as numpy arrays.
 
-Each path carries its own parameter value s (from 1 down to 0) and step size.
-One step: a fourth-order Runge-Kutta predictor on dX/ds = -H_X^{-1} H_s,
-then up to three Newton corrections at the new s. The step is accepted when the
-corrections contract and end small; it then grows after a run of successes,
-and is halved on failure. Python loops run over steps, never over paths.
+A path is followed in a real "time" t along a curve s(t) in the complex
+parameter plane of the homotopy: a segment of the real axis (s = t) or a
+circle around 0 (s = r e^{it}, for the endgame). One step, for all running
+paths at once: a fourth-order Runge-Kutta predictor on
+dX/dt = -H_X^{-1} H_s ds/dt, then Newton corrections at the new t. A step is
+accepted when the corrections contract and end small; the step grows after a
+run of successes and is halved on failure. Python loops run over steps, never
+over paths.
+
+The whole run (:func:`track_paths`):
+
+1. every path from s = 1 to the endgame radius (0.1);
+2. every path on to s = 0; an endpoint that is well conditioned there is done;
+3. the others start again from their state at the endgame radius with the
+   Cauchy endgame: loops around s = 0 until the path closes up (the number of
+   loops is the winding number c), the endpoint estimated as the mean of the
+   loop samples (Cauchy's integral formula), the radius shrunk until two
+   estimates agree;
+4. paths that still failed are re-tracked with a cautious step control.
 
 Statuses (:class:`PathStatus`): converged, singular endpoint, at infinity,
-and three kinds of failure (minimum step, step limit, non-finite values).
+and the failures (minimum step, step limit, non-finite values, endgame did
+not settle).
 
 Examples
 --------
@@ -17,11 +32,11 @@ Examples
 >>> system = parse_system(["x^2 - 2", "y^2 - x"], ["x", "y"])
 >>> homotopy = StraightLineHomotopy.total_degree(system, np.random.default_rng(0))
 >>> result = track_paths(homotopy, homotopy.start_solutions())
->>> sorted(result.status_counts().items())[:2]
-[('at_infinity', 0), ('converged', 4)]
+>>> result.status_counts()["converged"]
+4
 """
 
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 import enum
 
 import numpy as np
@@ -39,6 +54,7 @@ class PathStatus(enum.IntEnum):
     FAILED_MIN_STEP = 4
     FAILED_STEP_LIMIT = 5
     FAILED_NONFINITE = 6
+    FAILED_ENDGAME = 7
 
     @property
     def failed(self):
@@ -50,6 +66,11 @@ class PathStatus(enum.IntEnum):
         """Name used in reports."""
         return _LABELS[self]
 
+    @property
+    def message(self):
+        """One sentence for a reader."""
+        return _MESSAGES[self]
+
 
 _LABELS = {
     PathStatus.RUNNING: "running",
@@ -59,7 +80,20 @@ _LABELS = {
     PathStatus.FAILED_MIN_STEP: "minimum_step",
     PathStatus.FAILED_STEP_LIMIT: "step_limit",
     PathStatus.FAILED_NONFINITE: "non_finite",
+    PathStatus.FAILED_ENDGAME: "endgame_unsettled",
 }
+_MESSAGES = {
+    PathStatus.RUNNING: "still being tracked",
+    PathStatus.CONVERGED: "reached a regular (well-conditioned) finite endpoint",
+    PathStatus.SINGULAR_ENDPOINT: "reached a finite endpoint where the Jacobian is singular",
+    PathStatus.AT_INFINITY: "went to infinity (the homogenising coordinate vanished)",
+    PathStatus.FAILED_MIN_STEP: "failed: the step size fell below the minimum",
+    PathStatus.FAILED_STEP_LIMIT: "failed: the step limit was reached",
+    PathStatus.FAILED_NONFINITE: "failed: non-finite values (overflow or a singular linear system)",
+    PathStatus.FAILED_ENDGAME: "failed: the endgame estimates did not settle",
+}
+#: Labels of the failure reasons, in order.
+FAILURE_LABELS = [s.label for s in PathStatus if s.failed]
 
 
 @dataclass(frozen=True)
@@ -69,26 +103,47 @@ class TrackerOptions:
     Attributes
     ----------
     initial_step, max_step, min_step : float
-        Step sizes in s.
+        Step sizes in t (relative to the length of the current piece for circles).
     corrector_tolerance : float
         Relative size of the last Newton correction for a step to be accepted.
+    corrector_iterations : int
+        Newton corrections per step.
     max_steps : int
-        Step limit per path.
+        Step limit per path and piece.
     growth_after : int
         Consecutive successes before the step doubles.
+    endgame_radius : float
+        Where the endgame takes over (s = 0.1).
+    endgame_samples : int
+        Sample points per loop of the Cauchy endgame.
+    endgame_shrink : float
+        Factor by which the endgame radius shrinks between estimates.
+    endgame_rounds : int
+        Largest number of radii tried.
+    endgame_tolerance : float
+        Relative agreement of two successive endpoint estimates.
+    max_winding : int
+        Largest winding number the endgame looks for.
     infinity_threshold : float
-        |X_0| / ||X|| below this at s = 0 means the endpoint is at infinity.
+        |X_0| / ||X|| below this means the endpoint is at infinity.
     singular_condition : float
-        Condition number above which a finite endpoint is singular.
+        Condition number above which an endpoint is singular.
     """
 
     initial_step: float = 0.05
     max_step: float = 0.2
     min_step: float = 1e-12
     corrector_tolerance: float = 1e-9
+    corrector_iterations: int = 3
     max_steps: int = 2000
     growth_after: int = 3
-    infinity_threshold: float = 1e-8
+    endgame_radius: float = 0.1
+    endgame_samples: int = 16
+    endgame_shrink: float = 0.25
+    endgame_rounds: int = 10
+    endgame_tolerance: float = 1e-9
+    max_winding: int = 16
+    infinity_threshold: float = 1e-7
     singular_condition: float = 1e8
 
 
@@ -103,11 +158,15 @@ class TrackResult:
     status : ndarray of int, shape (P,)
         :class:`PathStatus` values.
     steps : ndarray of int, shape (P,)
-        Accepted plus rejected steps per path.
+        Steps (accepted and rejected) per path, endgame included.
     condition : ndarray, shape (P,)
         Condition number of H_X at the endpoint (s = 0).
-    s_final : ndarray, shape (P,)
-        Parameter value where each path stopped (0 unless it failed).
+    winding : ndarray of int, shape (P,)
+        Winding number from the endgame (1 for paths that did not need it, 0 for failures).
+    endgame : ndarray of bool, shape (P,)
+        True for paths that went through the Cauchy endgame.
+    retracked : ndarray of bool, shape (P,)
+        True for paths re-tracked with the cautious step control after a failure.
     evaluations : int
         Batched evaluations of H made.
     """
@@ -116,7 +175,9 @@ class TrackResult:
     status: np.ndarray
     steps: np.ndarray
     condition: np.ndarray
-    s_final: np.ndarray
+    winding: np.ndarray
+    endgame: np.ndarray
+    retracked: np.ndarray
     evaluations: int = 0
     extra: dict = field(default_factory=dict)
 
@@ -139,17 +200,238 @@ def _solve(jacobian, rhs):
         return result
 
 
-def _velocity(homotopy, points, s):
-    _, jacobian, derivative = homotopy.evaluate(points, s)
-    return -_solve(jacobian, derivative)
+class _Segment:
+    """s(t) = t on the real axis."""
+
+    @staticmethod
+    def s(t, index):
+        return t.astype(complex)
+
+    @staticmethod
+    def ds(t, index):
+        return np.ones(len(t), dtype=complex)
+
+
+class _Circle:
+    """s(t) = r e^{it} with a radius per path."""
+
+    def __init__(self, radius):
+        self.radius = radius
+
+    def s(self, t, index):
+        return self.radius[index] * np.exp(1j * t)
+
+    def ds(self, t, index):
+        return 1j * self.radius[index] * np.exp(1j * t)
+
+
+def _correct(homotopy, points, s, tolerance, iterations):
+    """Newton corrections at fixed s; success when the corrections contract and the last is small."""
+    current = points.copy()
+    previous = np.full(len(points), np.inf)
+    ok = np.ones(len(points), dtype=bool)
+    for _ in range(iterations):
+        values, jacobian, _ = homotopy.evaluate(current, s)
+        delta = _solve(jacobian, values)
+        current = current - delta
+        norm = np.linalg.norm(delta, axis=1) / (1 + np.linalg.norm(current, axis=1))
+        ok &= np.isfinite(norm) & ((norm <= 0.5 * previous) | (norm <= tolerance))
+        previous = norm
+    return current, ok & (previous <= tolerance)
+
+
+def _advance(homotopy, points, t, t_end, curve, index, opts, steps, step=None, max_step=None):
+    """Move every path from t to t_end along ``curve``; returns points, t, a status and the step per path.
+
+    ``index`` maps the rows to path numbers (for per-path curve parameters);
+    ``steps`` (per row) is updated in place; ``step`` carries step sizes over
+    from a previous piece (the endgame's arcs), ``max_step`` overrides the option.
+    """
+    points = points.copy()
+    t = t.astype(float).copy()
+    direction = np.sign(t_end - t)
+    step = np.full(len(t), opts.initial_step) if step is None else np.array(step, dtype=float)
+    max_step = opts.max_step if max_step is None else max_step
+    successes = np.zeros(len(t), dtype=np.int64)
+    status = np.zeros(len(t), dtype=np.int64)
+    taken = np.zeros(len(t), dtype=np.int64)
+    while True:
+        active = np.nonzero((status == PathStatus.RUNNING) & (np.abs(t_end - t) > 0))[0]
+        if len(active) == 0:
+            break
+        x, tt, rows = points[active], t[active], index[active]
+        h = np.minimum(step[active], np.abs(t_end[active] - tt)) * direction[active]
+
+        def velocity(y, time):
+            _, jacobian, derivative = homotopy.evaluate(y, curve.s(time, rows))
+            return -_solve(jacobian, derivative * curve.ds(time, rows)[:, None])
+
+        k1 = velocity(x, tt)
+        k2 = velocity(x + 0.5 * h[:, None] * k1, tt + 0.5 * h)
+        k3 = velocity(x + 0.5 * h[:, None] * k2, tt + 0.5 * h)
+        k4 = velocity(x + h[:, None] * k3, tt + h)
+        predicted = x + (h[:, None] / 6.0) * (k1 + 2 * k2 + 2 * k3 + k4)
+        new_t = np.where(np.abs(step[active]) >= np.abs(t_end[active] - tt), t_end[active], tt + h)
+        corrected, ok = _correct(homotopy, predicted, curve.s(new_t, rows), opts.corrector_tolerance,
+                                 opts.corrector_iterations)
+        taken[active] += 1
+        accepted = ok & np.all(np.isfinite(corrected), axis=1)
+        good = active[accepted]
+        points[good] = corrected[accepted]
+        t[good] = new_t[accepted]
+        successes[good] += 1
+        grow = good[successes[good] >= opts.growth_after]
+        step[grow] = np.minimum(2 * step[grow], max_step)
+        successes[grow] = 0
+        rejected = active[~accepted]
+        step[rejected] *= 0.5
+        successes[rejected] = 0
+        status[rejected[step[rejected] < opts.min_step]] = PathStatus.FAILED_MIN_STEP
+        over = active[(taken[active] >= opts.max_steps) & (status[active] == PathStatus.RUNNING)]
+        status[over] = PathStatus.FAILED_STEP_LIMIT
+    steps += taken
+    bad = ~np.all(np.isfinite(points), axis=1)
+    status[bad & (status == PathStatus.RUNNING)] = PathStatus.FAILED_NONFINITE
+    return points, t, status, step
+
+
+def _cauchy_endgame(homotopy, points, radius, opts, steps):
+    """Cauchy endgame for paths standing at s = radius (real): estimates, winding numbers, status."""
+    count = len(points)
+    index = np.arange(count)
+    r = np.full(count, radius)
+    estimate = np.full(points.shape, np.nan, dtype=complex)
+    winding = np.zeros(count, dtype=np.int64)
+    status = np.zeros(count, dtype=np.int64)
+    settled = np.zeros(count, dtype=bool)
+    x = points.copy()
+    samples = opts.endgame_samples
+    angles = 2 * np.pi * np.arange(samples + 1) / samples
+    for round_ in range(opts.endgame_rounds):
+        live = np.nonzero((status == PathStatus.RUNNING) & ~settled)[0]
+        if len(live) == 0:
+            break
+        circle = _Circle(r)
+        start = x[live].copy()
+        current = start.copy()
+        total = np.zeros_like(start)
+        loops = np.zeros(len(live), dtype=np.int64)
+        open_ = np.ones(len(live), dtype=bool)
+        arc = 2 * np.pi / samples
+        arc_step = np.full(len(live), arc)
+        while np.any(open_):
+            rows = np.nonzero(open_)[0]
+            for k in range(samples):
+                total[rows] += current[rows]
+                moved, _, piece_status, arc_step[rows] = _advance(
+                    homotopy, current[rows], np.full(len(rows), angles[k]), np.full(len(rows), angles[k + 1]),
+                    circle, live[rows], opts, steps_view := np.zeros(len(rows), dtype=np.int64),
+                    step=arc_step[rows], max_step=arc)
+                steps[live[rows]] += steps_view
+                current[rows] = moved
+                failed = piece_status != PathStatus.RUNNING
+                if np.any(failed):
+                    status[live[rows[failed]]] = piece_status[failed]
+                    open_[rows[failed]] = False
+                    rows = rows[~failed]
+            loops[rows] += 1
+            closed = np.linalg.norm(current[rows] - start[rows], axis=1) <= 1e-6 * (
+                1 + np.linalg.norm(start[rows], axis=1))
+            open_[rows[closed]] = False
+            too_many = rows[~closed & (loops[rows] >= opts.max_winding)]
+            status[live[too_many]] = PathStatus.FAILED_ENDGAME
+            open_[too_many] = False
+        done = (status[live] == PathStatus.RUNNING) & (loops > 0)
+        new_estimate = np.where(done[:, None], total / (samples * np.maximum(loops, 1))[:, None], np.nan)
+        previous = estimate[live]
+        agree = done & (np.linalg.norm(new_estimate - previous, axis=1)
+                        <= opts.endgame_tolerance * (1 + np.linalg.norm(new_estimate, axis=1)))
+        estimate[live[done]] = new_estimate[done]
+        winding[live[done]] = loops[done]
+        settled[live[agree]] = True
+        # shrink the radius for the paths not yet settled, from the closed-up point at s = r
+        move = live[done & ~agree]
+        if len(move) and round_ + 1 < opts.endgame_rounds:
+            moved, _, piece_status, _ = _advance(homotopy, current[done & ~agree], r[move],
+                                              r[move] * opts.endgame_shrink, _Segment, move, opts,
+                                              steps_view := np.zeros(len(move), dtype=np.int64))
+            steps[move] += steps_view
+            x[move] = moved
+            r[move] *= opts.endgame_shrink
+            failed = piece_status != PathStatus.RUNNING
+            status[move[failed]] = piece_status[failed]
+    unsettled = (status == PathStatus.RUNNING) & ~settled
+    status[unsettled] = PathStatus.FAILED_ENDGAME
+    return estimate, winding, status
+
+
+def _classify(homotopy, points, opts, settle=True):
+    """Final Newton at s = 0 (when ``settle``), condition numbers and the finite / infinite split."""
+    zeros = np.zeros(len(points))
+    if settle and len(points):
+        refined, ok = _correct(homotopy, points, zeros.astype(complex), 1e-13, 3)
+        use = np.all(np.isfinite(refined), axis=1) & ok
+        points = np.where(use[:, None], refined, points)
+    _, jacobian, _ = homotopy.evaluate(points, zeros.astype(complex))
+    with np.errstate(all="ignore"):
+        condition = np.linalg.cond(jacobian) if len(points) else np.zeros(0)
+    size = np.linalg.norm(points, axis=1)
+    at_infinity = np.abs(points[:, 0]) <= opts.infinity_threshold * size
+    return points, condition, at_infinity
+
+
+def _track(homotopy, start_points, opts):
+    count = len(start_points)
+    index = np.arange(count)
+    steps = np.zeros(count, dtype=np.int64)
+    status = np.zeros(count, dtype=np.int64)
+    radius = opts.endgame_radius
+    near, _, status_a, _ = _advance(homotopy, start_points, np.ones(count), np.full(count, radius), _Segment, index,
+                                 opts, steps)
+    status[:] = status_a
+    endpoints = near.copy()
+    condition = np.full(count, np.inf)
+    winding = np.zeros(count, dtype=np.int64)
+    endgame = np.zeros(count, dtype=bool)
+    running = np.nonzero(status == PathStatus.RUNNING)[0]
+    final, _, status_b, _ = _advance(homotopy, near[running], np.full(len(running), radius), np.zeros(len(running)),
+                                  _Segment, running, opts, steps_b := np.zeros(len(running), dtype=np.int64))
+    steps[running] += steps_b
+    reached = status_b == PathStatus.RUNNING
+    settled_points, cond, infinite = _classify(homotopy, final[reached], opts)
+    regular = cond <= opts.singular_condition
+    done = running[reached][regular]
+    endpoints[done] = settled_points[regular]
+    condition[done] = cond[regular]
+    winding[done] = 1
+    status[done] = np.where(infinite[regular], PathStatus.AT_INFINITY, PathStatus.CONVERGED)
+    # the rest: Cauchy endgame from the state at the endgame radius
+    rest = np.setdiff1d(running, done)
+    if len(rest):
+        endgame[rest] = True
+        estimate, loops, status_c = _cauchy_endgame(homotopy, near[rest], radius, opts,
+                                                    steps_c := np.zeros(len(rest), dtype=np.int64))
+        steps[rest] += steps_c
+        ok = status_c == PathStatus.RUNNING
+        status[rest[~ok]] = status_c[~ok]
+        if np.any(ok):
+            points, cond, infinite = _classify(homotopy, estimate[ok], opts, settle=False)
+            target = rest[ok]
+            endpoints[target] = points
+            condition[target] = cond
+            winding[target] = loops[ok]
+            singular = (loops[ok] > 1) | (cond > opts.singular_condition)
+            status[target] = np.where(infinite, PathStatus.AT_INFINITY,
+                                      np.where(singular, PathStatus.SINGULAR_ENDPOINT, PathStatus.CONVERGED))
+    return endpoints, status, steps, condition, winding, endgame
 
 
 def track_paths(homotopy, start_points, options=None):
-    """Track every start point from s = 1 to s = 0 together.
+    """Track every start point from s = 1 to s = 0 together, with the endgame and a cautious retry.
 
     Parameters
     ----------
-    homotopy : StraightLineHomotopy (or any object with the same ``evaluate``)
+    homotopy : StraightLineHomotopy (or any object with the same ``evaluate`` and ``evaluations``)
     start_points : ndarray, shape (P, N)
     options : TrackerOptions, optional
 
@@ -158,72 +440,17 @@ def track_paths(homotopy, start_points, options=None):
     TrackResult
     """
     opts = options or TrackerOptions()
-    points = np.array(start_points, dtype=complex, copy=True)
-    count = len(points)
-    s = np.ones(count)
-    step = np.full(count, opts.initial_step)
-    successes = np.zeros(count, dtype=np.int64)
-    steps = np.zeros(count, dtype=np.int64)
-    status = np.zeros(count, dtype=np.int64)
-    evaluations_before = homotopy.evaluations
-    while True:
-        active = np.nonzero((status == PathStatus.RUNNING) & (s > 0))[0]
-        if len(active) == 0:
-            break
-        x, t = points[active], s[active]
-        h = np.minimum(step[active], t)
-        # fourth-order Runge-Kutta predictor in s (moving towards 0)
-        k1 = _velocity(homotopy, x, t)
-        k2 = _velocity(homotopy, x - 0.5 * h[:, None] * k1, t - 0.5 * h)
-        k3 = _velocity(homotopy, x - 0.5 * h[:, None] * k2, t - 0.5 * h)
-        k4 = _velocity(homotopy, x - h[:, None] * k3, t - h)
-        predicted = x - (h[:, None] / 6.0) * (k1 + 2 * k2 + 2 * k3 + k4)
-        target = np.maximum(t - h, 0.0)
-        corrected, ok = _correct(homotopy, predicted, target, opts.corrector_tolerance)
-        steps[active] += 1
-        accepted = ok & np.all(np.isfinite(corrected), axis=1)
-        index = active[accepted]
-        points[index] = corrected[accepted]
-        s[index] = target[accepted]
-        successes[index] += 1
-        grow = index[successes[index] >= opts.growth_after]
-        step[grow] = np.minimum(2 * step[grow], opts.max_step)
-        successes[grow] = 0
-        rejected = active[~accepted]
-        step[rejected] *= 0.5
-        successes[rejected] = 0
-        status[rejected[step[rejected] < opts.min_step]] = PathStatus.FAILED_MIN_STEP
-        over = active[(steps[active] >= opts.max_steps) & (status[active] == PathStatus.RUNNING)]
-        status[over] = PathStatus.FAILED_STEP_LIMIT
-        bad = active[~np.all(np.isfinite(points[active]), axis=1)]
-        status[bad] = PathStatus.FAILED_NONFINITE
-    finished = np.nonzero(status == PathStatus.RUNNING)[0]
-    condition = np.full(count, np.inf)
-    if len(finished):
-        refined, _ = _correct(homotopy, points[finished], np.zeros(len(finished)), 1e-14, iterations=3)
-        good = np.all(np.isfinite(refined), axis=1)
-        points[finished[good]] = refined[good]
-        _, jacobian, _ = homotopy.evaluate(points[finished], np.zeros(len(finished)))
-        condition[finished] = np.linalg.cond(jacobian)
-        size = np.linalg.norm(points[finished], axis=1)
-        at_infinity = np.abs(points[finished, 0]) <= opts.infinity_threshold * size
-        singular = condition[finished] > opts.singular_condition
-        status[finished] = np.where(at_infinity, PathStatus.AT_INFINITY,
-                                    np.where(singular, PathStatus.SINGULAR_ENDPOINT, PathStatus.CONVERGED))
-    return TrackResult(points, status, steps, condition, s, homotopy.evaluations - evaluations_before)
-
-
-def _correct(homotopy, points, s, tolerance, iterations=3):
-    """Newton corrections at fixed s; success when the last correction is small and they contract."""
-    current = points.copy()
-    previous_norm = np.full(len(points), np.inf)
-    ok = np.ones(len(points), dtype=bool)
-    for _ in range(iterations):
-        values, jacobian, _ = homotopy.evaluate(current, s)
-        delta = _solve(jacobian, values)
-        current = current - delta
-        norm = np.linalg.norm(delta, axis=1) / (1 + np.linalg.norm(current, axis=1))
-        ok &= np.isfinite(norm) & ((norm <= 0.5 * previous_norm) | (norm <= tolerance))
-        previous_norm = norm
-    ok &= previous_norm <= tolerance
-    return current, ok
+    start_points = np.asarray(start_points, dtype=complex)
+    before = homotopy.evaluations
+    endpoints, status, steps, condition, winding, endgame = _track(homotopy, start_points, opts)
+    retracked = np.zeros(len(status), dtype=bool)
+    failed = np.nonzero(status >= PathStatus.FAILED_MIN_STEP)[0]
+    if len(failed):
+        cautious = replace(opts, initial_step=opts.initial_step / 10, max_step=opts.max_step / 10,
+                           corrector_tolerance=opts.corrector_tolerance / 10, max_steps=opts.max_steps * 5)
+        again = _track(homotopy, start_points[failed], cautious)
+        retracked[failed] = True
+        endpoints[failed], status[failed], extra_steps, condition[failed], winding[failed], endgame[failed] = again
+        steps[failed] += extra_steps
+    return TrackResult(endpoints, status, steps, condition, winding, endgame, retracked,
+                       homotopy.evaluations - before)
