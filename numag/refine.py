@@ -43,7 +43,7 @@ class ProjectionResult:
     converged : ndarray of bool, shape (P,)
         Scaled residual at or below the tolerance.
     residuals : ndarray, shape (P,)
-        Largest scaled residual |f_i| / (||c_i|| ||(1,x)||^d_i) at the refined point.
+        Euclidean norm of the scaled residuals f_i / (||c_i|| ||(1,x)||^d_i) at the refined point.
     distances : ndarray, shape (P,)
         Distance moved from the start point.
     iterations : int
@@ -58,10 +58,14 @@ class ProjectionResult:
 
 
 def scaled_residuals(system, evaluator, points):
-    """Largest scaled residual of F at each point, and the values and Jacobians."""
+    """Euclidean norm of the scaled residuals of F at each point, and the values and Jacobians.
+
+    The Euclidean norm (not the largest entry) is what a Gauss-Newton step decreases,
+    so it is the measure steps are accepted by.
+    """
     values, jacobians = evaluator.evaluate(points)
     scales = residual_scales(system.coefficient_norms(), system.degrees, points, system.projective)
-    return np.max(np.abs(values) / scales, axis=1), values, jacobians
+    return np.linalg.norm(values / scales, axis=1), values, jacobians
 
 
 def project_to_variety(system, evaluator, points, tolerance=1e-13, max_iterations=30):
@@ -90,15 +94,23 @@ def project_to_variety(system, evaluator, points, tolerance=1e-13, max_iteration
         iterations += 1
         index = np.nonzero(active)[0]
         step = batched_least_squares(jacobians[index], values[index], rcond=1e-13)
-        trial = current[index] - step
-        trial_residual, trial_values, trial_jacobians = scaled_residuals(system, evaluator, trial)
-        finite = np.isfinite(trial_residual)
-        # Accept a step only where it does not make things worse; stop points that stall.
-        better = finite & (trial_residual < residual[index])
-        current[index[better]] = trial[better]
-        residual[index[better]] = trial_residual[better]
-        values[index[better]] = trial_values[better]
-        jacobians[index[better]] = trial_jacobians[better]
+        better = np.zeros(len(index), dtype=bool)
+        # Accept a step only where it does not make things worse, halving it a few times first
+        # (at non-reduced solution sets the full step can overshoot); stop points that stall.
+        for damping in (1.0, 0.5, 0.25, 0.125):
+            trying = np.nonzero(~better)[0]
+            if len(trying) == 0:
+                break
+            rows = index[trying]
+            trial = current[rows] - damping * step[trying]
+            trial_residual, trial_values, trial_jacobians = scaled_residuals(system, evaluator, trial)
+            improved = np.isfinite(trial_residual) & (trial_residual < residual[rows])
+            accept = rows[improved]
+            current[accept] = trial[improved]
+            residual[accept] = trial_residual[improved]
+            values[accept] = trial_values[improved]
+            jacobians[accept] = trial_jacobians[improved]
+            better[trying[improved]] = True
         tiny_step = np.linalg.norm(step, axis=1) <= 1e-15 * (1 + np.linalg.norm(current[index], axis=1))
         active[index] = better & (residual[index] > tolerance) & ~tiny_step
     distances = np.linalg.norm(current - start, axis=1)

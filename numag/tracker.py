@@ -142,7 +142,7 @@ class TrackerOptions:
     endgame_shrink: float = 0.25
     endgame_rounds: int = 10
     endgame_tolerance: float = 1e-9
-    max_winding: int = 16
+    max_winding: int = 32
     infinity_threshold: float = 1e-7
     singular_condition: float = 1e8
 

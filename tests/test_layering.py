@@ -7,13 +7,13 @@ import numag
 
 # A module may import only modules of a strictly lower layer.
 LAYERS = [
-    {"errors"},
+    {"errors", "cluster"},
     {"exact"},
     {"polynomial"},
     {"parse"},
     {"evaluate", "linalg"},
     {"refine", "homotopy", "tracker"},
-    {"smoothness"},
+    {"smoothness", "solve"},
     {"files"},
     {"report"},
     {"cli"},

@@ -1,0 +1,361 @@
+"""Isolated solutions of a square polynomial system (``numag solve``).
+
+Pipeline: total-degree homotopy in projective coordinates on a random patch
+(:mod:`numag.homotopy`), batched tracking with the Cauchy endgame
+(:mod:`numag.tracker`), endpoints grouped into distinct points
+(:mod:`numag.cluster`), then for every singular group a local test of
+isolation: the group is moved a little along the numerical kernel of J and
+projected back onto V(F) with Gauss-Newton. Near an isolated (multiple)
+solution the projection falls back onto the solution; on a curve or surface of
+solutions it stays away, and the endpoint is flagged "not isolated" and never
+counted as a solution. Singular isolated solutions are refined at higher
+precision (mpmath); the result records the digits.
+
+Examples
+--------
+>>> from numag.parse import parse_system
+>>> system = parse_system(["x^2 - 1", "y - x^3"], ["x", "y"])
+>>> result = solve_system(system, seed=0)
+>>> sorted(round(s.point[0].real) for s in result.solutions)
+[-1, 1]
+"""
+
+from dataclasses import dataclass, field, replace
+import time
+
+import mpmath
+import numpy as np
+
+from .cluster import cluster_labels, groups
+from .errors import InputError
+from .evaluate import BatchEvaluator, PrecisionEvaluator
+from .homotopy import StraightLineHomotopy
+from .linalg import jacobian_row_scales, residual_scales, scaled_singular_values
+from .polynomial import Polynomial, PolynomialSystem
+from .refine import mp_gauss_newton, project_to_variety
+from .tracker import FAILURE_LABELS, PathStatus, TrackerOptions, track_paths
+
+__all__ = ["SolveOptions", "Solution", "SolveResult", "solve_system", "path_counts"]
+
+
+@dataclass(frozen=True)
+class SolveOptions:
+    """Options of :func:`solve_system` (defaults declared once).
+
+    Attributes
+    ----------
+    tracker : TrackerOptions
+    cluster_tolerance : float
+        Relative distance under which endpoints are the same point.
+    refine_digits : int
+        Digits for refining singular solutions (``--digits``).
+    square_up : bool
+        Allow more equations than unknowns by replacing them with random combinations
+        (this can add spurious solutions; each is then checked against all equations).
+    batch_size : int
+        Paths tracked together.
+    """
+
+    tracker: TrackerOptions = TrackerOptions()
+    cluster_tolerance: float = 1e-6
+    refine_digits: int = 30
+    square_up: bool = False
+    batch_size: int = 4096
+
+    def validated(self):
+        """Raise InputError naming an invalid option."""
+        if not 0 < self.cluster_tolerance < 1:
+            raise InputError(f"cluster_tolerance must be in (0, 1), got {self.cluster_tolerance!r}")
+        if not 16 <= self.refine_digits <= 10000:
+            raise InputError(f"refine_digits (--digits) must be from 16 to 10000, got {self.refine_digits!r}")
+        if self.batch_size < 1:
+            raise InputError(f"batch_size must be positive, got {self.batch_size!r}")
+        return self
+
+
+@dataclass
+class Solution:
+    """One distinct endpoint (a solution, a point at infinity, or a flagged non-isolated point).
+
+    Attributes
+    ----------
+    point : ndarray of complex
+        Affine coordinates; for points at infinity and projective systems, homogeneous
+        coordinates (the homogenising one first for affine input) divided by the
+        coordinate of largest modulus.
+    multiplicity : int
+        Number of paths ending here.
+    winding : int
+        Largest winding number seen by the endgame (a lower bound on the multiplicity).
+    at_infinity : bool
+    real : bool
+        All imaginary parts below 1e-8 relative (only for real coefficients).
+    condition : float
+        Condition number of the homotopy Jacobian at the endpoint.
+    isolated : bool
+        False when the local test found a positive-dimensional solution set through it.
+    paths : ndarray of int
+        Numbers of the paths ending here.
+    digits : int
+        Precision of the reported coordinates' last refinement (16 = double).
+    """
+
+    point: np.ndarray
+    multiplicity: int
+    winding: int
+    at_infinity: bool
+    real: bool
+    condition: float
+    isolated: bool
+    paths: np.ndarray
+    digits: int = 16
+
+
+@dataclass
+class SolveResult:
+    """Everything :func:`solve_system` found.
+
+    Attributes
+    ----------
+    system : PolynomialSystem
+        The system as given.
+    solutions : list of Solution
+        Finite, isolated solutions.
+    at_infinity : list of Solution
+        Endpoints at infinity (affine input only).
+    not_isolated : list of Solution
+        Endpoints on positive-dimensional solution sets (not counted as solutions).
+    status : ndarray of int
+        Per-path :class:`~numag.tracker.PathStatus`.
+    steps, winding : ndarray
+        Per-path step counts and winding numbers.
+    retracked : ndarray of bool
+        Paths re-tracked after a failure.
+    seed : int
+    seconds : float
+    evaluations : int
+    squared_up : bool
+        True when random combinations made the system square.
+    """
+
+    system: PolynomialSystem
+    solutions: list
+    at_infinity: list
+    not_isolated: list
+    status: np.ndarray
+    steps: np.ndarray
+    winding: np.ndarray
+    retracked: np.ndarray
+    seed: int
+    seconds: float
+    evaluations: int
+    squared_up: bool = False
+    extra: dict = field(default_factory=dict)
+
+    def path_counts(self):
+        """Counts by status; they add up to the number of tracked paths."""
+        return path_counts(self.status, self.retracked)
+
+
+def path_counts(status, retracked=None):
+    """The ``paths`` block of a report from per-path statuses."""
+    status = np.asarray(status)
+    by_reason = {label: int(np.sum(status == code)) for code, label in
+                 ((s, s.label) for s in PathStatus if s.failed)}
+    counts = {
+        "tracked": int(len(status)),
+        "converged": int(np.sum(status == PathStatus.CONVERGED)),
+        "singular_endpoint": int(np.sum(status == PathStatus.SINGULAR_ENDPOINT)),
+        "at_infinity": int(np.sum(status == PathStatus.AT_INFINITY)),
+        "failed": int(sum(by_reason.values())),
+        "failed_by_reason": {label: by_reason[label] for label in FAILURE_LABELS},
+    }
+    if retracked is not None:
+        counts["retracked"] = int(np.sum(retracked))
+    return counts
+
+
+def _normalize(point):
+    moduli = np.abs(point)
+    pivot = int(np.argmax(moduli >= moduli.max() * (1 - 1e-12)))
+    return point / point[pivot]
+
+
+def _square_target(system, options, rng):
+    expected = system.n_variables - (1 if system.projective else 0)
+    if system.n_equations == expected:
+        return system, False
+    if system.n_equations < expected:
+        raise InputError(f"the system has {system.n_equations} equations in {expected} unknowns: its solutions "
+                         "are not isolated; 'numag solve' needs a square system")
+    if not options.square_up:
+        raise InputError(f"the system has {system.n_equations} equations in {expected} unknowns; use "
+                         "--square-up to replace them by random combinations (each solution is then checked "
+                         "against all equations)")
+    return system.random_combinations(expected, rng), True
+
+
+class _IsolationTest:
+    """Is a singular endpoint isolated? Slice through a point moved along the kernel of J.
+
+    The point is moved by a small distance along a random direction d of the
+    numerical kernel of J, and F is solved together with the hyperplane through
+    the moved point orthogonal to d. A positive-dimensional solution set through
+    the point (tangent to the kernel) crosses that hyperplane nearby, so Gauss-Newton
+    converges; at an isolated solution, however multiple, the hyperplane misses it
+    and the residual stays of the order of a power of the distance.
+    """
+
+    def __init__(self, system, rng):
+        self.system = system
+        self.rng = rng
+        self.evaluator = BatchEvaluator(system.polynomials)
+
+    def isolated(self, point):
+        system = self.system
+        _, jacobian = self.evaluator.evaluate(point[None, :])
+        scales = jacobian_row_scales(system.coefficient_norms(), system.degrees, point[None, :])
+        values = scaled_singular_values(jacobian, scales)[0]
+        small = system.n_variables - int(np.sum(values > 1e-6))
+        if small == 0:
+            return True
+        _, _, vh = np.linalg.svd(jacobian[0] / scales[0][:, None])
+        kernel = vh[len(vh) - small:].conj().T
+        radius = 1e-3 * (1 + np.linalg.norm(point))
+        for _ in range(8):  # a direction nearly across the set can miss it; eight random tries
+            weights = self.rng.standard_normal(small) + 1j * self.rng.standard_normal(small)
+            direction = kernel @ weights
+            direction /= np.linalg.norm(direction)
+            moved = point + radius * direction
+            # hyperplane conj(d) . x = conj(d) . moved
+            normal = direction.conj()
+            sliced = PolynomialSystem(system.variables, [p.numeric() for p in system.polynomials]
+                                      + [Polynomial.linear(normal, -complex(normal @ moved))])
+            result = project_to_variety(sliced, BatchEvaluator(sliced.polynomials), moved[None, :],
+                                        max_iterations=60)
+            if result.converged[0] and np.linalg.norm(result.points[0] - point) <= 10 * radius:
+                return False
+        return True
+
+
+def _refine_mp(system, point, digits):
+    """Gauss-Newton on F at ``digits`` digits (linear convergence at multiple roots is enough here)."""
+    evaluator = PrecisionEvaluator(system.polynomials)
+    norms = system.coefficient_norms()
+    with mpmath.mp.workdps(digits + 10):
+        ctx = mpmath.mp
+
+        def function(z):
+            x = [z[j] for j in range(system.n_variables)]
+            values, jacobian = evaluator.evaluate(x, ctx)
+            scale = residual_scales(norms, system.degrees, np.array([complex(v) for v in x])[None])[0]
+            for i in range(system.n_equations):
+                values[i] /= scale[i]
+                for j in range(system.n_variables):
+                    jacobian[i, j] /= scale[i]
+            return values, jacobian
+
+        z, _, _, _ = mp_gauss_newton(function, ctx.matrix([ctx.mpc(v) for v in point]), ctx,
+                                     tolerance=ctx.mpf(10) ** (-digits), max_iterations=120)
+        return np.array([complex(z[j]) for j in range(system.n_variables)])
+
+
+def solve_system(system, options=None, seed=None, progress=None):
+    """Isolated solutions of a square system by total-degree homotopy continuation.
+
+    Parameters
+    ----------
+    system : PolynomialSystem
+        n equations in n unknowns (affine), or n equations in n + 1 homogeneous
+        coordinates (projective).
+    options : SolveOptions, optional
+    seed : int, optional
+        Seed of the random patch, gamma and tests; drawn and recorded when not given.
+    progress : callable, optional
+        Called as ``progress(paths_done, paths_total)`` after each batch.
+
+    Returns
+    -------
+    SolveResult
+
+    Raises
+    ------
+    InputError
+        For a system that is not square (unless ``square_up``), or invalid options.
+    """
+    options = (options or SolveOptions()).validated()
+    if seed is None:
+        seed = int(np.random.SeedSequence().entropy % (2**32))
+    rng = np.random.default_rng(seed)
+    started = time.perf_counter()
+    target, squared = _square_target(system, options, rng)
+    homotopy = StraightLineHomotopy.total_degree(target, rng)
+    total = homotopy.start.n_paths
+    endpoints = np.empty((total, homotopy.size), dtype=complex)
+    status = np.empty(total, dtype=np.int64)
+    steps = np.empty(total, dtype=np.int64)
+    winding = np.empty(total, dtype=np.int64)
+    condition = np.empty(total)
+    retracked = np.empty(total, dtype=bool)
+    evaluations = 0
+    for first in range(0, total, options.batch_size):
+        indices = np.arange(first, min(total, first + options.batch_size))
+        result = track_paths(homotopy, homotopy.start_solutions(indices), options.tracker)
+        endpoints[indices], status[indices], steps[indices] = result.endpoints, result.status, result.steps
+        winding[indices], condition[indices], retracked[indices] = result.winding, result.condition, result.retracked
+        evaluations += result.evaluations
+        if progress is not None:
+            progress(int(indices[-1]) + 1, total)
+    solutions, infinite, not_isolated = _collect(system, endpoints, status, winding, condition, options, rng)
+    return SolveResult(system, solutions, infinite, not_isolated, status, steps, winding, retracked, seed,
+                       time.perf_counter() - started, evaluations, squared)
+
+
+def _collect(system, endpoints, status, winding, condition, options, rng):
+    real_coefficients = all(np.all(np.abs(p.numeric_coefficients().imag) == 0) for p in system.polynomials)
+    finite = np.nonzero((status == PathStatus.CONVERGED) | (status == PathStatus.SINGULAR_ENDPOINT))[0]
+    infinite = np.nonzero(status == PathStatus.AT_INFINITY)[0]
+    if system.projective:
+        finite_points = np.array([_normalize(p) for p in endpoints[finite]]).reshape(len(finite), -1)
+        affine_system = None
+    else:
+        finite_points = endpoints[finite, 1:] / endpoints[finite, :1]
+        affine_system = system
+    solutions, flagged = [], []
+    labels = cluster_labels(finite_points, options.cluster_tolerance)
+    for members in groups(labels):
+        paths = finite[members]
+        best = members[np.argmin(condition[paths])]
+        point = finite_points[best]
+        singular = len(members) > 1 or np.any(status[paths] == PathStatus.SINGULAR_ENDPOINT)
+        test_system, test_point, pivot = affine_system, point, None
+        if system.projective:
+            pivot = int(np.argmax(np.abs(point) >= np.abs(point).max() * (1 - 1e-12)))
+            test_system = PolynomialSystem([v for j, v in enumerate(system.variables) if j != pivot],
+                                           [p.dehomogenize(pivot) for p in system.polynomials])
+            test_point = np.delete(point, pivot)
+        digits = 16
+        isolated = True
+        if singular:
+            isolated = _IsolationTest(test_system, rng).isolated(test_point)
+            if isolated and test_system.n_equations >= test_system.n_variables:
+                test_point = _refine_mp(test_system, np.mean(
+                    [finite_points[k] if pivot is None else np.delete(finite_points[k] / finite_points[k][pivot],
+                                                                         pivot) for k in members], axis=0),
+                    options.refine_digits)
+                digits = options.refine_digits
+                point = test_point if pivot is None else np.insert(test_point, pivot, 1.0)
+        real = bool(real_coefficients and np.all(np.abs(point.imag) <= 1e-8 * (1 + np.abs(point))))
+        entry = Solution(point, len(members), int(winding[paths].max()), False, real,
+                         float(condition[paths].min()), isolated, paths, digits)
+        (solutions if isolated else flagged).append(entry)
+    at_infinity = []
+    if len(infinite):
+        points = np.array([_normalize(p) for p in endpoints[infinite]])
+        for members in groups(cluster_labels(points, options.cluster_tolerance)):
+            paths = infinite[members]
+            point = points[members[0]]
+            real = bool(real_coefficients and np.all(np.abs(point.imag) <= 1e-8 * (1 + np.abs(point))))
+            at_infinity.append(Solution(point, len(members), int(winding[paths].max()), True, real,
+                                        float(condition[paths].min()), True, paths, 16))
+    return solutions, at_infinity, flagged
