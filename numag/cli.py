@@ -10,12 +10,14 @@ Exit codes
 
 import argparse
 import sys
+import time
 
 from . import __version__
 from .errors import NumagError
 from .files import load_points, load_system, parse_point_assignment
-from .report import CAUTION, check_report_to_dict, dumps
+from .report import CAUTION, check_report_to_dict, dumps, solve_report_to_dict
 from .smoothness import CheckOptions, check_points
+from .solve import SolveOptions, solve_system
 
 __all__ = ["main", "build_parser", "EXIT_OK", "EXIT_INTERNAL", "EXIT_INPUT", "EXIT_UNDECIDED"]
 
@@ -55,14 +57,32 @@ def build_parser():
     check.add_argument("--seed", type=int, help="seed for the random choices (recorded in the report)")
     check.add_argument("--json", action="store_true", help="print the report as JSON")
     check.set_defaults(run=_run_check)
+
+    solve = commands.add_parser(
+        "solve", help="isolated solutions of a square system (homotopy continuation)",
+        description="Track every path of a total-degree homotopy and report the distinct isolated "
+                    "solutions with multiplicities, the points at infinity, and every path's fate.")
+    solve.add_argument("system_file", metavar="FILE", help="system file (TOML)")
+    solve.add_argument("--digits", type=int, default=SolveOptions.refine_digits, metavar="D",
+                       help="precision (decimal digits) for refining singular solutions (default %(default)s)")
+    solve.add_argument("--square-up", action="store_true",
+                       help="allow more equations than unknowns (random combinations; solutions rechecked)")
+    solve.add_argument("--batch-size", type=int, default=SolveOptions.batch_size, metavar="N",
+                       help="paths tracked together (default %(default)s)")
+    solve.add_argument("--seed", type=int, help="seed of the random choices (recorded in the report)")
+    solve.add_argument("--json", action="store_true", help="print the report as JSON (no progress lines)")
+    solve.set_defaults(run=_run_solve)
     return parser
 
 
 def _format_complex(z):
-    if abs(z.imag) <= 1e-14 * max(1.0, abs(z.real)):
-        return f"{z.real:.10g}"
-    sign = "+" if z.imag >= 0 else "-"
-    return f"{z.real:.10g}{sign}{abs(z.imag):.10g}*I"
+    size = max(1.0, abs(z))
+    real = 0.0 if abs(z.real) <= 1e-14 * size else z.real
+    imag = 0.0 if abs(z.imag) <= 1e-14 * size else z.imag
+    if imag == 0.0:
+        return f"{real:.10g}"
+    sign = "+" if imag >= 0 else "-"
+    return f"{real:.10g}{sign}{abs(imag):.10g}*I"
 
 
 def _format_point(names, point):
@@ -117,6 +137,70 @@ def _run_check(args, out):
     else:
         _print_check(report, out)
     return EXIT_UNDECIDED if report.undecided else EXIT_OK
+
+
+class _Progress:
+    """Progress on standard error for runs longer than a couple of seconds, at most once a second."""
+
+    def __init__(self, quiet):
+        self.quiet = quiet
+        self.started = time.perf_counter()
+        self.last = 0.0
+
+    def __call__(self, done, total):
+        now = time.perf_counter() - self.started
+        if self.quiet or now < 2.0 or (now - self.last < 1.0 and done < total):
+            return
+        self.last = now
+        rate = done / now if now > 0 else 0.0
+        left = (total - done) / rate if rate > 0 else float("inf")
+        sys.stderr.write(f"numag: {done}/{total} paths ({100 * done / total:.0f}%), {rate:.0f} paths/s, "
+                         f"about {left:.0f} s left\n")
+
+
+def _print_solve(result, out):
+    system = result.system
+    counts = result.path_counts()
+    kind = "projective" if system.projective else "affine"
+    out.write(f"numag solve: {system.name or 'system'}: {system.n_equations} equation(s) in "
+              f"{system.n_variables} variables ({kind}), seed {result.seed}\n")
+    failed = ", ".join(f"{label} {n}" for label, n in counts["failed_by_reason"].items() if n) or "none"
+    out.write(f"paths: {counts['tracked']} tracked: {counts['converged']} converged, "
+              f"{counts['singular_endpoint']} singular endpoints, {counts['at_infinity']} at infinity, "
+              f"{counts['failed']} failed ({failed}); {counts['retracked']} re-tracked; "
+              f"{result.seconds:.2f} s\n")
+    if result.squared_up:
+        out.write("note: more equations than unknowns; random combinations were tracked and every "
+                  "solution was kept only if it satisfies all equations\n")
+    real = sum(1 for s in result.solutions if s.real)
+    out.write(f"\n{len(result.solutions)} isolated solution(s), {real} real\n")
+    names = system.variables
+    for k, s in enumerate(result.solutions, 1):
+        out.write(f"  {k:4d}  multiplicity {s.multiplicity}  {'real' if s.real else 'complex'}  "
+                  f"cond {s.condition:.2g}  {_format_point(names, s.point)}\n")
+    if result.at_infinity:
+        homogeneous = names if system.projective else ["(w)"] + list(names)
+        out.write(f"\n{len(result.at_infinity)} point(s) at infinity (homogeneous coordinates "
+                  f"{', '.join(homogeneous)}):\n")
+        for s in result.at_infinity:
+            out.write(f"        paths {s.multiplicity}  {_format_point(homogeneous, s.point)}\n")
+    if result.not_isolated:
+        out.write(f"\n{len(result.not_isolated)} endpoint group(s) lie on positive-dimensional solution "
+                  "sets (not counted as solutions):\n")
+        for s in result.not_isolated:
+            out.write(f"        paths {s.multiplicity}  {_format_point(names, s.point)}\n")
+    out.write(f"\n{CAUTION}\n")
+
+
+def _run_solve(args, out):
+    system = load_system(args.system_file)
+    options = SolveOptions(refine_digits=args.digits, square_up=args.square_up, batch_size=args.batch_size)
+    result = solve_system(system, options, seed=args.seed, progress=_Progress(args.json))
+    if args.json:
+        out.write(dumps(solve_report_to_dict(result, options)) + "\n")
+    else:
+        _print_solve(result, out)
+    return EXIT_OK
 
 
 def main(argv=None, out=None):

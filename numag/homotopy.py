@@ -29,6 +29,7 @@ import numpy as np
 
 from .errors import InputError
 from .evaluate import BatchEvaluator
+from .linalg import residual_scales
 
 __all__ = ["TotalDegreeStart", "StraightLineHomotopy", "random_unit_complex"]
 
@@ -105,6 +106,8 @@ class StraightLineHomotopy:
             raise InputError(f"a square system is needed: {len(self.target)} equations in {self.size - 1} unknowns")
         self.evaluator = BatchEvaluator(self.target)
         self.evaluations = 0
+        self._norms = np.array([p.coefficient_norm() for p in self.target])
+        self._degrees = np.array([p.degree for p in self.target])
 
     @classmethod
     def total_degree(cls, system, rng):
@@ -124,6 +127,12 @@ class StraightLineHomotopy:
         """Start solutions scaled onto the patch."""
         points = self.start.solutions(path_indices)
         return points / (points @ self.patch)[:, None]
+
+    def target_residual(self, points):
+        """Norm of the scaled residuals of the target F^h at points (P, n + 1): is X an endpoint?"""
+        values = self.evaluator.evaluate(points, jacobian=False)
+        scales = residual_scales(self._norms, self._degrees, points, projective=True)
+        return np.linalg.norm(values / scales, axis=1)
 
     def evaluate(self, points, s):
         """H, dH/dX (with the patch row) and dH/ds at points (P, n + 1) and parameters s (P,)."""

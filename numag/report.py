@@ -29,9 +29,12 @@ from .errors import InputError
 from .files import system_from_mapping
 from .linalg import RankEvidence
 from .smoothness import CheckOptions, CheckReport, PointVerdict
+from .solve import Solution, SolveOptions, SolveResult
+from .tracker import PathStatus, TrackerOptions
 
 __all__ = ["CAUTION", "encode_point", "decode_point", "empty_path_counts", "system_to_dict",
-           "check_report_to_dict", "check_report_from_dict", "dumps", "loads_check_report"]
+           "check_report_to_dict", "check_report_from_dict", "dumps", "loads_check_report",
+           "solve_report_to_dict", "solve_report_from_dict"]
 
 #: Printed with every result (terminal and JSON).
 CAUTION = ("Numerical results. Before relying on them for a real machine or structure, verify them with "
@@ -159,3 +162,82 @@ def dumps(data):
 def loads_check_report(text):
     """Parse JSON text of a check report."""
     return check_report_from_dict(json.loads(text))
+
+
+# --- solve ---------------------------------------------------------------------------------------
+
+_STATUS_BY_LABEL = {status.label: status for status in PathStatus}
+
+
+def _solution_to_dict(solution):
+    return {"point": encode_point(solution.point), "multiplicity": solution.multiplicity,
+            "winding": solution.winding, "at_infinity": solution.at_infinity, "real": solution.real,
+            "condition": _encode_float(solution.condition), "isolated": solution.isolated,
+            "digits": solution.digits, "paths": [int(k) for k in solution.paths]}
+
+
+def _solution_from_dict(d):
+    return Solution(point=decode_point(d["point"]), multiplicity=int(d["multiplicity"]), winding=int(d["winding"]),
+                    at_infinity=bool(d["at_infinity"]), real=bool(d["real"]),
+                    condition=_decode_float(d["condition"]), isolated=bool(d["isolated"]),
+                    paths=np.array(d["paths"], dtype=np.int64), digits=int(d["digits"]))
+
+
+def _component(identifier, solution):
+    """Every isolated point is a component of its own: dimension 0, degree 1."""
+    return {"id": identifier, "dimension": 0, "degree": 1, "points": [encode_point(solution.point)],
+            "real": [solution.real], "multiplicity": solution.multiplicity, "at_infinity": solution.at_infinity,
+            "formulation": "square system", "slice": None}
+
+
+def solve_report_to_dict(result, options):
+    """A :class:`~numag.solve.SolveResult` as the JSON envelope."""
+    components = [_component(k + 1, s) for k, s in enumerate(result.solutions + result.at_infinity)]
+    return {
+        "numag_version": __version__,
+        "command": "solve",
+        "seed": result.seed,
+        "system": system_to_dict(result.system),
+        "options": {"digits": options.refine_digits, "cluster_tolerance": options.cluster_tolerance,
+                    "square_up": options.square_up, "batch_size": options.batch_size},
+        "paths": result.path_counts(),
+        "components": components,
+        "solutions": [_solution_to_dict(s) for s in result.solutions],
+        "at_infinity": [_solution_to_dict(s) for s in result.at_infinity],
+        "not_isolated": [_solution_to_dict(s) for s in result.not_isolated],
+        "squared_up": result.squared_up,
+        "seconds": result.seconds,
+        "evaluations": result.evaluations,
+        "steps": {"median": float(np.median(result.steps)) if len(result.steps) else 0.0,
+                  "max": int(result.steps.max()) if len(result.steps) else 0},
+        "path_status": [PathStatus(int(code)).label for code in result.status],
+        "path_steps": [int(v) for v in result.steps],
+        "path_winding": [int(v) for v in result.winding],
+        "path_retracked": [bool(v) for v in result.retracked],
+        "caution": CAUTION,
+    }
+
+
+def solve_report_from_dict(data):
+    """Rebuild a :class:`~numag.solve.SolveResult` (and its options) from its JSON envelope."""
+    if not isinstance(data, dict) or data.get("command") != "solve":
+        raise InputError("not a report of 'numag solve'")
+    system_data = dict(data["system"])
+    if system_data.get("name") is None:
+        system_data.pop("name", None)
+    system = system_from_mapping(system_data)
+    o = data["options"]
+    options = SolveOptions(tracker=TrackerOptions(), cluster_tolerance=o["cluster_tolerance"],
+                           refine_digits=o["digits"], square_up=o["square_up"], batch_size=o["batch_size"])
+    try:
+        status = np.array([int(_STATUS_BY_LABEL[label]) for label in data["path_status"]], dtype=np.int64)
+    except KeyError as err:
+        raise InputError(f"unknown path status {err}") from None
+    result = SolveResult(
+        system=system, solutions=[_solution_from_dict(d) for d in data["solutions"]],
+        at_infinity=[_solution_from_dict(d) for d in data["at_infinity"]],
+        not_isolated=[_solution_from_dict(d) for d in data["not_isolated"]], status=status,
+        steps=np.array(data["path_steps"], dtype=np.int64), winding=np.array(data["path_winding"], dtype=np.int64),
+        retracked=np.array(data["path_retracked"], dtype=bool), seed=data["seed"], seconds=float(data["seconds"]),
+        evaluations=int(data["evaluations"]), squared_up=bool(data["squared_up"]))
+    return result, options

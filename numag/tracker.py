@@ -124,6 +124,8 @@ class TrackerOptions:
         Relative agreement of two successive endpoint estimates.
     max_winding : int
         Largest winding number the endgame looks for.
+    endpoint_residual : float
+        Largest scaled residual of the target at an endgame estimate.
     infinity_threshold : float
         |X_0| / ||X|| below this means the endpoint is at infinity.
     singular_condition : float
@@ -143,6 +145,7 @@ class TrackerOptions:
     endgame_rounds: int = 10
     endgame_tolerance: float = 1e-9
     max_winding: int = 32
+    endpoint_residual: float = 1e-8
     infinity_threshold: float = 1e-7
     singular_condition: float = 1e8
 
@@ -344,8 +347,13 @@ def _cauchy_endgame(homotopy, points, radius, opts, steps):
         done = (status[live] == PathStatus.RUNNING) & (loops > 0)
         new_estimate = np.where(done[:, None], total / (samples * np.maximum(loops, 1))[:, None], np.nan)
         previous = estimate[live]
-        agree = done & (np.linalg.norm(new_estimate - previous, axis=1)
-                        <= opts.endgame_tolerance * (1 + np.linalg.norm(new_estimate, axis=1)))
+        # Two estimates agreeing is not enough: circles that enclose another branch point besides 0
+        # give the same (wrong) mean at every radius. The estimate must also solve the target.
+        on_target = np.zeros(len(live), dtype=bool)
+        if np.any(done):
+            on_target[done] = homotopy.target_residual(new_estimate[done]) <= opts.endpoint_residual
+        agree = done & on_target & (np.linalg.norm(new_estimate - previous, axis=1)
+                                    <= opts.endgame_tolerance * (1 + np.linalg.norm(new_estimate, axis=1)))
         estimate[live[done]] = new_estimate[done]
         winding[live[done]] = loops[done]
         settled[live[agree]] = True

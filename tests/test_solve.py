@@ -1,0 +1,132 @@
+import itertools
+import json
+
+import numpy as np
+import pytest
+import sympy
+
+from numag.errors import InputError
+from numag.parse import parse_system
+from numag.report import dumps, solve_report_from_dict, solve_report_to_dict
+from numag.solve import SolveOptions, solve_system
+
+
+def cyclic(n):
+    names = [f"z{i}" for i in range(n)]
+    equations = [" + ".join("*".join(names[(i + j) % n] for j in range(k)) for i in range(n)) for k in range(1, n)]
+    equations.append("*".join(names) + " - 1")
+    return parse_system(equations, names)
+
+
+def test_cyclic_5_has_70_isolated_solutions():
+    # cyclic 5-roots: 70 isolated solutions (Bjorck and Froberg, J. Symbolic Comput. 1991, from memory)
+    result = solve_system(cyclic(5), seed=3)
+    assert len(result.solutions) == 70
+    assert all(s.multiplicity == 1 for s in result.solutions)
+    counts = result.path_counts()
+    assert counts["tracked"] == 120 and counts["failed"] == 0
+    assert counts["converged"] + counts["singular_endpoint"] + counts["at_infinity"] + counts["failed"] == 120
+
+
+def test_cyclic_4_positive_dimensional_set_is_flagged_not_counted():
+    # the cyclic 4-roots solution set is one-dimensional (a fact of the field, from memory; here: the two
+    # curves z2 = -z0, z3 = -z1, z0 z1 = +-1)
+    result = solve_system(cyclic(4), seed=0)
+    assert result.solutions == []
+    assert len(result.not_isolated) > 0
+    for group in result.not_isolated:
+        z = group.point
+        assert abs(z[2] + z[0]) < 1e-6 and abs(z[3] + z[1]) < 1e-6 and abs(abs(z[0] * z[1]) - 1) < 1e-6
+
+
+def test_triple_root_multiplicity_and_accuracy():
+    # x^3 = 0 with y = x + 1: the root (0, 1) has multiplicity 3 (common practice, no source)
+    result = solve_system(parse_system(["x^3", "y - x - 1"], ["x", "y"]), seed=1)
+    (solution,) = result.solutions
+    assert solution.multiplicity == 3
+    assert np.abs(solution.point - np.array([0, 1])).max() < 1e-8
+
+
+def test_tangent_curves_multiplicity_two():
+    # the parabola y = x^2 is tangent to y = 0 at the origin: intersection multiplicity 2, and it meets
+    # the line y = 1 ... here the second curve is the circle x^2 + (y - 1)^2 = 1, tangent at the origin
+    # with intersection multiplicity 2; the other two intersections are (+-1, 1) (common practice, no source)
+    system = parse_system(["y - x^2", "x^2 + (y - 1)^2 - 1"], ["x", "y"])
+    result = solve_system(system, seed=2)
+    by_multiplicity = sorted((s.multiplicity, tuple(np.round(s.point.real, 8))) for s in result.solutions)
+    assert by_multiplicity[-1][0] == 2 and np.allclose(by_multiplicity[-1][1], [0, 0], atol=1e-8)
+    assert sorted(p for m, p in by_multiplicity if m == 1) == [(-1.0, 1.0), (1.0, 1.0)]
+
+
+def test_surplus_paths_end_at_infinity():
+    # x y = 1 and x y + x = 2 have the single solution (1, 1); Bezout's bound 4 leaves 3 paths at infinity
+    result = solve_system(parse_system(["x*y - 1", "x*y + x - 2"], ["x", "y"]), seed=1)
+    assert [tuple(np.round(s.point, 10)) for s in result.solutions] == [(1, 1)]
+    counts = result.path_counts()
+    assert counts["at_infinity"] == 3 and sum(s.multiplicity for s in result.at_infinity) == 3
+    for point in result.at_infinity:
+        assert abs(point.point[0]) < 1e-7  # homogenising coordinate first
+
+
+def standard_monomial_count(polynomials, symbols):
+    """Number of standard monomials of a zero-dimensional ideal from sympy's Groebner basis."""
+    basis = sympy.groebner(polynomials, *symbols, order="grevlex")
+    leading = [sympy.Poly(g, *symbols).monoms(order="grevlex")[0] for g in basis.exprs]
+    bound = max(max(m) for m in leading) + 1
+    return sum(1 for e in itertools.product(range(bound), repeat=len(symbols))
+               if not any(all(a >= b for a, b in zip(e, m)) for m in leading))
+
+
+@pytest.mark.parametrize("seed", [0, 1, 2])
+def test_counts_agree_with_sympy_groebner(seed):
+    # sympy's Groebner basis (Meurer et al., PeerJ CS 2017) as the reference library: for a system with
+    # generic coefficients on a sparse support the number of isolated solutions is the number of
+    # standard monomials
+    rng = np.random.default_rng(seed)
+    a = [int(v) for v in rng.integers(1, 9, size=6)]
+    equations = [f"{a[0]}*x^2*y + {a[1]}*x - {a[2]}", f"{a[3]}*x*y^2 - {a[4]}*y + {a[5]}"]
+    x, y = sympy.symbols("x y")
+    expected = standard_monomial_count([sympy.sympify(e.replace("^", "**")) for e in equations], [x, y])
+    result = solve_system(parse_system(equations, ["x", "y"]), seed=seed)
+    assert sum(s.multiplicity for s in result.solutions) == expected
+    assert len(result.solutions) == expected
+
+
+def test_non_square_input_is_refused_or_squared_up():
+    system = parse_system(["x - 1", "y - 2", "x + y - 3"], ["x", "y"])
+    with pytest.raises(InputError, match="--square-up"):
+        solve_system(system)
+    result = solve_system(system, SolveOptions(square_up=True), seed=0)
+    assert result.squared_up and [tuple(np.round(s.point.real, 10)) for s in result.solutions] == [(1, 2)]
+    with pytest.raises(InputError, match="not isolated"):
+        solve_system(parse_system(["x - y"], ["x", "y"]))
+
+
+def test_projective_system():
+    # two conics in P^2 meet in 4 points (Bezout); x^2 - z^2 = 0 and y^2 - z^2 = 0: [+-1 : +-1 : 1]
+    system = parse_system(["x^2 - z^2", "y^2 - z^2"], ["x", "y", "z"], projective=True)
+    result = solve_system(system, seed=5)
+    points = sorted(tuple(np.round((s.point / s.point[2]).real, 8)) for s in result.solutions)
+    assert points == [(-1, -1, 1), (-1, 1, 1), (1, -1, 1), (1, 1, 1)]
+
+
+def test_same_seed_same_answer_and_batch_independence():
+    system = cyclic(5)
+    a = solve_system(system, SolveOptions(batch_size=32), seed=9)
+    b = solve_system(system, SolveOptions(batch_size=4096), seed=9)
+    assert np.array_equal(a.status, b.status)
+    key = lambda result: sorted(tuple(np.round(s.point, 6)) for s in result.solutions)
+    assert key(a) == key(b)
+
+
+def test_solve_report_round_trip():
+    system = parse_system(["x^3", "y - x - 1"], ["x", "y"])
+    options = SolveOptions()
+    result = solve_system(system, options, seed=4)
+    text = dumps(solve_report_to_dict(result, options))
+    data = json.loads(text)
+    assert data["components"][0]["dimension"] == 0 and data["components"][0]["degree"] == 1
+    assert data["components"][0]["multiplicity"] == 3
+    back, back_options = solve_report_from_dict(data)
+    assert back_options == options
+    assert dumps(solve_report_to_dict(back, back_options)) == text
