@@ -167,7 +167,8 @@ def _print_solve(result, out):
     failed = ", ".join(f"{label} {n}" for label, n in counts["failed_by_reason"].items() if n) or "none"
     out.write(f"paths: {counts['tracked']} tracked: {counts['converged']} converged, "
               f"{counts['singular_endpoint']} singular endpoints, {counts['at_infinity']} at infinity, "
-              f"{counts['failed']} failed ({failed}); {counts['retracked']} re-tracked; "
+              f"{counts['failed']} failed ({failed}); {counts['retracked']} re-tracked, "
+              f"{counts['rescued_in_high_precision']} of them in high precision; "
               f"{result.seconds:.2f} s\n")
     if result.squared_up:
         out.write("note: more equations than unknowns; random combinations were tracked and every "

@@ -28,7 +28,7 @@ Examples
 import numpy as np
 
 from .errors import InputError
-from .evaluate import BatchEvaluator
+from .evaluate import BatchEvaluator, PrecisionEvaluator
 from .linalg import residual_scales
 
 __all__ = ["TotalDegreeStart", "StraightLineHomotopy", "random_unit_complex"]
@@ -106,6 +106,7 @@ class StraightLineHomotopy:
             raise InputError(f"a square system is needed: {len(self.target)} equations in {self.size - 1} unknowns")
         self.evaluator = BatchEvaluator(self.target)
         self.evaluations = 0
+        self._precise = None
         self._norms = np.array([p.coefficient_norm() for p in self.target])
         self._degrees = np.array([p.degree for p in self.target])
 
@@ -127,6 +128,33 @@ class StraightLineHomotopy:
         """Start solutions scaled onto the patch."""
         points = self.start.solutions(path_indices)
         return points / (points @ self.patch)[:, None]
+
+    def evaluate_precise(self, point, s, ctx):
+        """H, dH/dX and dH/ds at one point in an mpmath context (for re-tracking in high precision).
+
+        Returns ctx matrices of shapes (N, 1), (N, N) and (N, 1).
+        """
+        if self._precise is None:
+            self._precise = PrecisionEvaluator(self.target)
+        size = self.size
+        f_values, f_jac = self._precise.evaluate(point, ctx)
+        gamma = ctx.mpc(self.gamma.real, self.gamma.imag)
+        degrees = [int(d) for d in self.start.degrees]
+        values, jacobian, derivative = ctx.matrix(size, 1), ctx.matrix(size, size), ctx.matrix(size, 1)
+        x0 = point[0]
+        for i, d in enumerate(degrees):
+            g = point[i + 1] ** d - x0 ** d
+            values[i] = (1 - s) * f_values[i] + s * gamma * g
+            derivative[i] = gamma * g - f_values[i]
+            for j in range(size):
+                jacobian[i, j] = (1 - s) * f_jac[i, j]
+            jacobian[i, 0] += s * gamma * (-d * x0 ** (d - 1))
+            jacobian[i, i + 1] += s * gamma * d * point[i + 1] ** (d - 1)
+        patch = [ctx.mpc(a.real, a.imag) for a in self.patch]
+        values[size - 1] = sum(a * x for a, x in zip(patch, point)) - 1
+        for j in range(size):
+            jacobian[size - 1, j] = patch[j]
+        return values, jacobian, derivative
 
     def target_residual(self, points):
         """Norm of the scaled residuals of the target F^h at points (P, n + 1): is X an endpoint?"""

@@ -214,6 +214,7 @@ def solve_report_to_dict(result, options):
         "path_steps": [int(v) for v in result.steps],
         "path_winding": [int(v) for v in result.winding],
         "path_retracked": [bool(v) for v in result.retracked],
+        "path_digits": [int(v) for v in result.digits],
         "caution": CAUTION,
     }
 
@@ -239,5 +240,6 @@ def solve_report_from_dict(data):
         not_isolated=[_solution_from_dict(d) for d in data["not_isolated"]], status=status,
         steps=np.array(data["path_steps"], dtype=np.int64), winding=np.array(data["path_winding"], dtype=np.int64),
         retracked=np.array(data["path_retracked"], dtype=bool), seed=data["seed"], seconds=float(data["seconds"]),
-        evaluations=int(data["evaluations"]), squared_up=bool(data["squared_up"]))
+        evaluations=int(data["evaluations"]), squared_up=bool(data["squared_up"]),
+        digits=np.array(data["path_digits"], dtype=np.int64))
     return result, options

@@ -136,6 +136,8 @@ class SolveResult:
     evaluations : int
     squared_up : bool
         True when random combinations made the system square.
+    digits : ndarray of int
+        Per path: 16 (double precision) or the digits of the precision rescue it needed.
     """
 
     system: PolynomialSystem
@@ -150,14 +152,15 @@ class SolveResult:
     seconds: float
     evaluations: int
     squared_up: bool = False
+    digits: np.ndarray = None
     extra: dict = field(default_factory=dict)
 
     def path_counts(self):
         """Counts by status; they add up to the number of tracked paths."""
-        return path_counts(self.status, self.retracked)
+        return path_counts(self.status, self.retracked, self.digits)
 
 
-def path_counts(status, retracked=None):
+def path_counts(status, retracked=None, digits=None):
     """The ``paths`` block of a report from per-path statuses."""
     status = np.asarray(status)
     by_reason = {label: int(np.sum(status == code)) for code, label in
@@ -172,6 +175,8 @@ def path_counts(status, retracked=None):
     }
     if retracked is not None:
         counts["retracked"] = int(np.sum(retracked))
+    if digits is not None:
+        counts["rescued_in_high_precision"] = int(np.sum(np.asarray(digits) > 16))
     return counts
 
 
@@ -297,18 +302,20 @@ def solve_system(system, options=None, seed=None, progress=None):
     winding = np.empty(total, dtype=np.int64)
     condition = np.empty(total)
     retracked = np.empty(total, dtype=bool)
+    digits = np.empty(total, dtype=np.int64)
     evaluations = 0
     for first in range(0, total, options.batch_size):
         indices = np.arange(first, min(total, first + options.batch_size))
         result = track_paths(homotopy, homotopy.start_solutions(indices), options.tracker)
         endpoints[indices], status[indices], steps[indices] = result.endpoints, result.status, result.steps
         winding[indices], condition[indices], retracked[indices] = result.winding, result.condition, result.retracked
+        digits[indices] = result.digits
         evaluations += result.evaluations
         if progress is not None:
             progress(int(indices[-1]) + 1, total)
     solutions, infinite, not_isolated = _collect(system, endpoints, status, winding, condition, options, rng)
     return SolveResult(system, solutions, infinite, not_isolated, status, steps, winding, retracked, seed,
-                       time.perf_counter() - started, evaluations, squared)
+                       time.perf_counter() - started, evaluations, squared, digits)
 
 
 def _collect(system, endpoints, status, winding, condition, options, rng):

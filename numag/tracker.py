@@ -41,6 +41,8 @@ import enum
 
 import numpy as np
 
+from .rescue import track_segment_precise
+
 __all__ = ["PathStatus", "TrackerOptions", "TrackResult", "track_paths"]
 
 
@@ -126,6 +128,8 @@ class TrackerOptions:
         Largest winding number the endgame looks for.
     endpoint_residual : float
         Largest scaled residual of the target at an endgame estimate.
+    rescue_digits : int
+        Digits for re-tracking paths that failed twice in double precision (0: no rescue).
     infinity_threshold : float
         |X_0| / ||X|| below this means the endpoint is at infinity.
     singular_condition : float
@@ -146,6 +150,7 @@ class TrackerOptions:
     endgame_tolerance: float = 1e-9
     max_winding: int = 32
     endpoint_residual: float = 1e-8
+    rescue_digits: int = 40
     infinity_threshold: float = 1e-7
     singular_condition: float = 1e8
 
@@ -170,6 +175,8 @@ class TrackResult:
         True for paths that went through the Cauchy endgame.
     retracked : ndarray of bool, shape (P,)
         True for paths re-tracked with the cautious step control after a failure.
+    digits : ndarray of int, shape (P,)
+        Precision of the path's last tracking: 16 (double) or the rescue digits.
     evaluations : int
         Batched evaluations of H made.
     """
@@ -182,6 +189,7 @@ class TrackResult:
     endgame: np.ndarray
     retracked: np.ndarray
     evaluations: int = 0
+    digits: np.ndarray = None
     extra: dict = field(default_factory=dict)
 
     def status_counts(self):
@@ -388,15 +396,17 @@ def _classify(homotopy, points, opts, settle=True):
     return points, condition, at_infinity
 
 
-def _track(homotopy, start_points, opts):
-    count = len(start_points)
+def _track(homotopy, start_points, opts, near=None):
+    """Track to s = 0 from the start (or, when ``near`` is given, from there at the endgame radius)."""
+    count = len(start_points) if near is None else len(near)
     index = np.arange(count)
     steps = np.zeros(count, dtype=np.int64)
     status = np.zeros(count, dtype=np.int64)
     radius = opts.endgame_radius
-    near, _, status_a, _ = _advance(homotopy, start_points, np.ones(count), np.full(count, radius), _Segment, index,
-                                 opts, steps)
-    status[:] = status_a
+    if near is None:
+        near, _, status_a, _ = _advance(homotopy, start_points, np.ones(count), np.full(count, radius), _Segment,
+                                        index, opts, steps)
+        status[:] = status_a
     endpoints = near.copy()
     condition = np.full(count, np.inf)
     winding = np.zeros(count, dtype=np.int64)
@@ -460,5 +470,23 @@ def track_paths(homotopy, start_points, options=None):
         retracked[failed] = True
         endpoints[failed], status[failed], extra_steps, condition[failed], winding[failed], endgame[failed] = again
         steps[failed] += extra_steps
+    digits = np.full(len(status), 16, dtype=np.int64)
+    failed = np.nonzero(status >= PathStatus.FAILED_MIN_STEP)[0]
+    if len(failed) and opts.rescue_digits and hasattr(homotopy, "evaluate_precise"):
+        rescued, nears = [], []
+        for k in failed:  # the few stragglers, one at a time in mpmath
+            near, used = track_segment_precise(homotopy, start_points[k], 1.0, opts.endgame_radius,
+                                               opts.rescue_digits)
+            steps[k] += used
+            digits[k] = opts.rescue_digits
+            if near is not None:
+                rescued.append(k)
+                nears.append(near)
+        if rescued:
+            rescued = np.array(rescued)
+            again = _track(homotopy, None, opts, near=np.array(nears))
+            endpoints[rescued], status[rescued], extra_steps, condition[rescued], winding[rescued], \
+                endgame[rescued] = again
+            steps[rescued] += extra_steps
     return TrackResult(endpoints, status, steps, condition, winding, endgame, retracked,
-                       homotopy.evaluations - before)
+                       homotopy.evaluations - before, digits=digits)

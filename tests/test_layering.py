@@ -11,7 +11,7 @@ LAYERS = [
     {"exact"},
     {"polynomial"},
     {"parse"},
-    {"evaluate", "linalg"},
+    {"evaluate", "linalg", "rescue"},
     {"refine", "homotopy", "tracker"},
     {"smoothness", "solve"},
     {"files"},

@@ -64,3 +64,38 @@ def test_path_result_independent_of_batch():
     whole = track_paths(homotopy, starts)
     alone = track_paths(homotopy, starts[5:6])
     assert np.allclose(whole.endpoints[5], alone.endpoints[0], atol=1e-10)
+
+
+class _HoleInDouble(StraightLineHomotopy):
+    """A homotopy whose double-precision evaluation breaks for s in (0.4, 0.6): only the rescue can pass."""
+
+    def evaluate(self, points, s):
+        values, jacobian, derivative = super().evaluate(points, s)
+        hole = (np.real(s) > 0.4) & (np.real(s) < 0.6)
+        values[hole] = np.nan
+        jacobian[hole] = np.nan
+        return values, jacobian, derivative
+
+
+def test_precision_rescue_tracks_paths_double_precision_cannot():
+    system = parse_system(["x^2 - 2", "y^2 - 3"], ["x", "y"])
+    plain = StraightLineHomotopy.total_degree(system, np.random.default_rng(4))
+    broken = _HoleInDouble(plain.target, plain.start, plain.patch, plain.gamma)
+    result = track_paths(broken, broken.start_solutions())
+    assert result.status_counts()["converged"] == 4
+    assert np.all(result.retracked) and np.all(result.digits == 40)
+    solutions = result.endpoints[:, 1:] / result.endpoints[:, :1]
+    # the roots of x^2 = 2, y^2 = 3 (common practice, no source)
+    assert np.allclose(np.abs(solutions), [[2 ** 0.5, 3 ** 0.5]] * 4, rtol=1e-12, atol=0)
+
+
+def test_precise_segment_agrees_with_double():
+    system = parse_system(["x^2 + x*y - 1", "y^2 - x - 2"], ["x", "y"])
+    homotopy = StraightLineHomotopy.total_degree(system, np.random.default_rng(6))
+    from numag.rescue import track_segment_precise
+    from numag.tracker import TrackerOptions, _advance, _Segment
+    start = homotopy.start_solutions()[:1]
+    double, _, status, _ = _advance(homotopy, start, np.ones(1), np.full(1, 0.1), _Segment, np.arange(1),
+                                    TrackerOptions(), np.zeros(1, dtype=np.int64))
+    precise, _ = track_segment_precise(homotopy, start[0], 1.0, 0.1, 30)
+    assert status[0] == 0 and np.abs(precise - double[0]).max() < 1e-8
