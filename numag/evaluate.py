@@ -31,10 +31,6 @@ from .errors import InputError
 
 __all__ = ["BatchEvaluator", "PrecisionEvaluator"]
 
-#: Largest number of gathered entries (points * monomials * support) held at once.
-_GATHER_CHUNK = 4_000_000
-
-
 class BatchEvaluator:
     """Evaluate polynomials and their Jacobian at many points at once (complex double).
 
@@ -109,14 +105,9 @@ class BatchEvaluator:
     def monomial_values(self, points):
         """Values of every monomial of :attr:`monomials`, shape (P, K)."""
         table = self.power_table(points)
-        count, n_monomials = len(points), len(self.monomials)
-        if self.support == 1:
-            return table[:, self._gather_index[:, 0]]
-        values = np.empty((count, n_monomials), dtype=complex)
-        chunk = max(1, _GATHER_CHUNK // max(1, n_monomials * self.support))
-        for start in range(0, count, chunk):  # chunks bound memory, usually one pass
-            block = table[start:start + chunk][:, self._gather_index]
-            values[start:start + chunk] = np.prod(block, axis=2)
+        values = table[:, self._gather_index[:, 0]]
+        for k in range(1, self.support):  # a loop over the support width (at most the degree), not variables
+            values *= table[:, self._gather_index[:, k]]
         return values
 
     def evaluate(self, points, jacobian=True):

@@ -71,6 +71,15 @@ class TotalDegreeStart:
         jacobian[:, index, index + 1] = d * rest ** (d - 1)
         return values, jacobian
 
+    def evaluate_parts(self, points):
+        """G, the diagonal dG_i/dX_i and the column dG_i/dX_0 (the only nonzero Jacobian entries)."""
+        x0 = points[:, :1]
+        rest = points[:, 1:]
+        d = self.degrees[None, :]
+        rest_power = rest ** (d - 1)
+        x0_power = x0 ** (d - 1)
+        return rest_power * rest - x0_power * x0, d * rest_power, -d * x0_power
+
     def solutions(self, path_indices=None):
         """Start solutions with X_0 = 1, in a fixed order (path k is the same whatever the batch)."""
         total = self.n_paths
@@ -116,10 +125,12 @@ class StraightLineHomotopy:
         expected = system.n_variables - (1 if system.projective else 0)
         if system.n_equations != expected:
             raise InputError(f"the system is not square: {system.n_equations} equations, {expected} unknowns")
+        # Each equation divided by its coefficient norm: F and G then have comparable size, so the
+        # paths do not rush away from the start points (fewer steps near s = 1); zeros are unchanged.
         if system.projective:
-            target = [p.numeric() for p in system.polynomials]
+            target = [p.numeric() * (1.0 / p.coefficient_norm()) for p in system.polynomials]
         else:
-            target = [p.numeric().homogenize(0) for p in system.polynomials]
+            target = [p.numeric().homogenize(0) * (1.0 / p.coefficient_norm()) for p in system.polynomials]
         size = len(target) + 1
         patch = (rng.standard_normal(size) + 1j * rng.standard_normal(size)) / np.sqrt(2 * size)
         return cls(target, TotalDegreeStart(system.degrees), patch, random_unit_complex(rng))
@@ -165,15 +176,21 @@ class StraightLineHomotopy:
     def evaluate(self, points, s):
         """H, dH/dX (with the patch row) and dH/ds at points (P, n + 1) and parameters s (P,)."""
         self.evaluations += 1
+        count, size = len(points), self.size
         f_values, f_jac = self.evaluator.evaluate(points)
-        g_values, g_jac = self.start.evaluate(points)
-        s = s[:, None]
-        values = np.empty((len(points), self.size), dtype=complex)
-        values[:, :-1] = (1 - s) * f_values + s * self.gamma * g_values
+        g_values, g_diagonal, g_first = self.start.evaluate_parts(points)
+        weight_f = (1 - s)[:, None]
+        weight_g = (s * self.gamma)[:, None]
+        values = np.empty((count, size), dtype=complex)
+        values[:, :-1] = weight_f * f_values + weight_g * g_values
         values[:, -1] = points @ self.patch - 1
-        jacobian = np.empty((len(points), self.size, self.size), dtype=complex)
-        jacobian[:, :-1, :] = (1 - s[:, :, None]) * f_jac + s[:, :, None] * self.gamma * g_jac
+        jacobian = np.empty((count, size, size), dtype=complex)
+        np.multiply(weight_f[:, :, None], f_jac, out=jacobian[:, :-1, :])
+        # G's Jacobian is sparse: a diagonal (in X_1..X_n) and the column of X_0
+        index = np.arange(size - 1)
+        jacobian[:, index, index + 1] += weight_g * g_diagonal
+        jacobian[:, :-1, 0] += weight_g * g_first
         jacobian[:, -1, :] = self.patch
-        derivative = np.zeros((len(points), self.size), dtype=complex)
+        derivative = np.zeros((count, size), dtype=complex)
         derivative[:, :-1] = self.gamma * g_values - f_values
         return values, jacobian, derivative

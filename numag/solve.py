@@ -25,6 +25,7 @@ import time
 
 import mpmath
 import numpy as np
+from threadpoolctl import threadpool_limits
 
 from .cluster import cluster_labels, groups
 from .errors import InputError
@@ -306,7 +307,9 @@ def solve_system(system, options=None, seed=None, progress=None):
     evaluations = 0
     for first in range(0, total, options.batch_size):
         indices = np.arange(first, min(total, first + options.batch_size))
-        result = track_paths(homotopy, homotopy.start_solutions(indices), options.tracker)
+        # small batched products run faster on one BLAS thread; parallelism comes from processes
+        with threadpool_limits(limits=1):
+            result = track_paths(homotopy, homotopy.start_solutions(indices), options.tracker)
         endpoints[indices], status[indices], steps[indices] = result.endpoints, result.status, result.steps
         winding[indices], condition[indices], retracked[indices] = result.winding, result.condition, result.retracked
         digits[indices] = result.digits

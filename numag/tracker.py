@@ -5,8 +5,9 @@ parameter plane of the homotopy: a segment of the real axis (s = t) or a
 circle around 0 (s = r e^{it}, for the endgame). One step, for all running
 paths at once: a fourth-order Runge-Kutta predictor on
 dX/dt = -H_X^{-1} H_s ds/dt, then Newton corrections at the new t. A step is
-accepted when the corrections contract and end small; the step grows after a
-run of successes and is halved on failure. Python loops run over steps, never
+accepted when the corrections contract and end small; the step then changes as the
+predictor error measured by the first correction allows, and is halved on
+failure. Python loops run over steps, never
 over paths.
 
 The whole run (:func:`track_paths`):
@@ -108,12 +109,15 @@ class TrackerOptions:
         Step sizes in t (relative to the length of the current piece for circles).
     corrector_tolerance : float
         Relative size of the last Newton correction for a step to be accepted.
+    endgame_corrector_tolerance : float
+        The same on the endgame's circles, whose samples make the endpoint estimate.
     corrector_iterations : int
         Newton corrections per step.
     max_steps : int
         Step limit per path and piece.
-    growth_after : int
-        Consecutive successes before the step doubles.
+    predictor_error : float
+        Relative predictor error the step-size control aims at (the first Newton
+        correction measures it; steps change by a factor between 0.5 and 2).
     endgame_radius : float
         Where the endgame takes over (s = 0.1).
     endgame_samples : int
@@ -137,12 +141,13 @@ class TrackerOptions:
     """
 
     initial_step: float = 0.05
-    max_step: float = 0.2
+    max_step: float = 0.5
     min_step: float = 1e-12
-    corrector_tolerance: float = 1e-9
+    corrector_tolerance: float = 1e-6
+    endgame_corrector_tolerance: float = 1e-10
     corrector_iterations: int = 3
     max_steps: int = 2000
-    growth_after: int = 3
+    predictor_error: float = 1e-2
     endgame_radius: float = 0.1
     endgame_samples: int = 16
     endgame_shrink: float = 0.25
@@ -211,6 +216,20 @@ def _solve(jacobian, rhs):
         return result
 
 
+def _solve_columns(jacobian, rhs):
+    """Solve for several right-hand sides (P, N, k) at once."""
+    try:
+        return np.linalg.solve(jacobian, rhs)
+    except np.linalg.LinAlgError:
+        result = np.full(rhs.shape, np.nan, dtype=complex)
+        for k in range(len(rhs)):  # only when some matrix is exactly singular: the rare stragglers
+            try:
+                result[k] = np.linalg.solve(jacobian[k], rhs[k])
+            except np.linalg.LinAlgError:
+                pass
+        return result
+
+
 class _Segment:
     """s(t) = t on the real axis."""
 
@@ -237,18 +256,41 @@ class _Circle:
 
 
 def _correct(homotopy, points, s, tolerance, iterations):
-    """Newton corrections at fixed s; success when the corrections contract and the last is small."""
+    """Newton corrections at fixed s, only on the paths still correcting.
+
+    A path succeeds as soon as a correction is at most ``tolerance`` (relative) and every
+    correction so far has at most halved the previous one; it fails when the corrections do
+    not contract or ``iterations`` run out. Paths whose prediction was already good cost a
+    single evaluation.
+
+    Returns the corrected points, the success mask, the first correction's size (the
+    predictor's error) and H_X^{-1} H_s from the last evaluation (the tangent at the new
+    point, up to the last tiny correction: the next step's first predictor stage reuses it).
+    """
     current = points.copy()
     previous = np.full(len(points), np.inf)
-    ok = np.ones(len(points), dtype=bool)
-    for _ in range(iterations):
-        values, jacobian, _ = homotopy.evaluate(current, s)
-        delta = _solve(jacobian, values)
-        current = current - delta
-        norm = np.linalg.norm(delta, axis=1) / (1 + np.linalg.norm(current, axis=1))
-        ok &= np.isfinite(norm) & ((norm <= 0.5 * previous) | (norm <= tolerance))
-        previous = norm
-    return current, ok & (previous <= tolerance)
+    first = np.full(len(points), np.inf)
+    tangent = np.full(points.shape, np.nan, dtype=complex)
+    ok = np.zeros(len(points), dtype=bool)
+    live = np.arange(len(points))
+    for iteration in range(iterations):
+        values, jacobian, derivative = homotopy.evaluate(current[live], s[live])
+        both = _solve_columns(jacobian, np.stack([values, derivative], axis=2))
+        delta = both[:, :, 0]
+        tangent[live] = both[:, :, 1]
+        current[live] = current[live] - delta
+        norm = np.linalg.norm(delta, axis=1) / (1 + np.linalg.norm(current[live], axis=1))
+        if iteration == 0:
+            first[live] = norm
+        finite = np.isfinite(norm)
+        contracting = finite & ((norm <= 0.5 * previous[live]) | (norm <= tolerance))
+        done = contracting & (norm <= tolerance)
+        ok[live[done]] = True
+        previous[live] = norm
+        live = live[contracting & ~done]
+        if len(live) == 0:
+            break
+    return current, ok, first, tangent
 
 
 def _advance(homotopy, points, t, t_end, curve, index, opts, steps, step=None, max_step=None):
@@ -262,8 +304,8 @@ def _advance(homotopy, points, t, t_end, curve, index, opts, steps, step=None, m
     t = t.astype(float).copy()
     direction = np.sign(t_end - t)
     step = np.full(len(t), opts.initial_step) if step is None else np.array(step, dtype=float)
+    tangent = np.full(points.shape, np.nan, dtype=complex)  # H_X^{-1} H_s at each path's current point
     max_step = opts.max_step if max_step is None else max_step
-    successes = np.zeros(len(t), dtype=np.int64)
     status = np.zeros(len(t), dtype=np.int64)
     taken = np.zeros(len(t), dtype=np.int64)
     while True:
@@ -277,26 +319,33 @@ def _advance(homotopy, points, t, t_end, curve, index, opts, steps, step=None, m
             _, jacobian, derivative = homotopy.evaluate(y, curve.s(time, rows))
             return -_solve(jacobian, derivative * curve.ds(time, rows)[:, None])
 
-        k1 = velocity(x, tt)
+        k1 = np.empty_like(x)
+        known = np.all(np.isfinite(tangent[active]), axis=1)
+        k1[known] = -tangent[active[known]] * curve.ds(tt[known], rows[known])[:, None]
+        if not np.all(known):
+            fresh = ~known
+            _, jacobian, derivative = homotopy.evaluate(x[fresh], curve.s(tt[fresh], rows[fresh]))
+            k1[fresh] = -_solve(jacobian, derivative * curve.ds(tt[fresh], rows[fresh])[:, None])
         k2 = velocity(x + 0.5 * h[:, None] * k1, tt + 0.5 * h)
         k3 = velocity(x + 0.5 * h[:, None] * k2, tt + 0.5 * h)
         k4 = velocity(x + h[:, None] * k3, tt + h)
         predicted = x + (h[:, None] / 6.0) * (k1 + 2 * k2 + 2 * k3 + k4)
         new_t = np.where(np.abs(step[active]) >= np.abs(t_end[active] - tt), t_end[active], tt + h)
-        corrected, ok = _correct(homotopy, predicted, curve.s(new_t, rows), opts.corrector_tolerance,
-                                 opts.corrector_iterations)
+        corrected, ok, error, new_tangent = _correct(homotopy, predicted, curve.s(new_t, rows),
+                                                     opts.corrector_tolerance, opts.corrector_iterations)
         taken[active] += 1
         accepted = ok & np.all(np.isfinite(corrected), axis=1)
         good = active[accepted]
         points[good] = corrected[accepted]
         t[good] = new_t[accepted]
-        successes[good] += 1
-        grow = good[successes[good] >= opts.growth_after]
-        step[grow] = np.minimum(2 * step[grow], max_step)
-        successes[grow] = 0
+        tangent[good] = new_tangent[accepted]
+        # The first Newton correction measures the predictor's error, which scales like h^5:
+        # aim the next step at the error the corrector removes in about two iterations.
+        with np.errstate(divide="ignore"):
+            factor = 0.8 * (opts.predictor_error / np.maximum(error[accepted], 1e-300)) ** 0.2
+        step[good] = np.minimum(step[good] * np.clip(factor, 0.5, 2.0), max_step)
         rejected = active[~accepted]
         step[rejected] *= 0.5
-        successes[rejected] = 0
         status[rejected[step[rejected] < opts.min_step]] = PathStatus.FAILED_MIN_STEP
         over = active[(taken[active] >= opts.max_steps) & (status[active] == PathStatus.RUNNING)]
         status[over] = PathStatus.FAILED_STEP_LIMIT
@@ -308,6 +357,7 @@ def _advance(homotopy, points, t, t_end, curve, index, opts, steps, step=None, m
 
 def _cauchy_endgame(homotopy, points, radius, opts, steps):
     """Cauchy endgame for paths standing at s = radius (real): estimates, winding numbers, status."""
+    opts = replace(opts, corrector_tolerance=min(opts.corrector_tolerance, opts.endgame_corrector_tolerance))
     count = len(points)
     index = np.arange(count)
     r = np.full(count, radius)
@@ -315,7 +365,9 @@ def _cauchy_endgame(homotopy, points, radius, opts, steps):
     winding = np.zeros(count, dtype=np.int64)
     status = np.zeros(count, dtype=np.int64)
     settled = np.zeros(count, dtype=bool)
-    x = points.copy()
+    # sharpen the starting points first: loop closure is judged against them
+    x, sharp, _, _ = _correct(homotopy, points, np.full(count, radius, dtype=complex), opts.corrector_tolerance, 4)
+    x = np.where(sharp[:, None] & np.all(np.isfinite(x), axis=1)[:, None], x, points)
     samples = opts.endgame_samples
     angles = 2 * np.pi * np.arange(samples + 1) / samples
     for round_ in range(opts.endgame_rounds):
@@ -328,6 +380,7 @@ def _cauchy_endgame(homotopy, points, radius, opts, steps):
         total = np.zeros_like(start)
         loops = np.zeros(len(live), dtype=np.int64)
         open_ = np.ones(len(live), dtype=bool)
+        unclosed = np.zeros(len(live), dtype=bool)
         arc = 2 * np.pi / samples
         arc_step = np.full(len(live), arc)
         while np.any(open_):
@@ -350,9 +403,9 @@ def _cauchy_endgame(homotopy, points, radius, opts, steps):
                 1 + np.linalg.norm(start[rows], axis=1))
             open_[rows[closed]] = False
             too_many = rows[~closed & (loops[rows] >= opts.max_winding)]
-            status[live[too_many]] = PathStatus.FAILED_ENDGAME
+            unclosed[too_many] = True  # the circle may enclose other branch points: try a smaller one
             open_[too_many] = False
-        done = (status[live] == PathStatus.RUNNING) & (loops > 0)
+        done = (status[live] == PathStatus.RUNNING) & (loops > 0) & ~unclosed
         new_estimate = np.where(done[:, None], total / (samples * np.maximum(loops, 1))[:, None], np.nan)
         previous = estimate[live]
         # Two estimates agreeing is not enough: circles that enclose another branch point besides 0
@@ -365,10 +418,11 @@ def _cauchy_endgame(homotopy, points, radius, opts, steps):
         estimate[live[done]] = new_estimate[done]
         winding[live[done]] = loops[done]
         settled[live[agree]] = True
-        # shrink the radius for the paths not yet settled, from the closed-up point at s = r
-        move = live[done & ~agree]
+        # shrink the radius for the paths not yet settled, from their point at s = r
+        shrink = (done & ~agree) | (unclosed & (status[live] == PathStatus.RUNNING))
+        move = live[shrink]
         if len(move) and round_ + 1 < opts.endgame_rounds:
-            moved, _, piece_status, _ = _advance(homotopy, current[done & ~agree], r[move],
+            moved, _, piece_status, _ = _advance(homotopy, start[shrink], r[move],
                                               r[move] * opts.endgame_shrink, _Segment, move, opts,
                                               steps_view := np.zeros(len(move), dtype=np.int64))
             steps[move] += steps_view
@@ -382,18 +436,20 @@ def _cauchy_endgame(homotopy, points, radius, opts, steps):
 
 
 def _classify(homotopy, points, opts, settle=True):
-    """Final Newton at s = 0 (when ``settle``), condition numbers and the finite / infinite split."""
+    """Final Newton at s = 0 (when ``settle``), condition numbers, the finite / infinite split, and
+    whether Newton settled (converged to 1e-13 within four corrections)."""
     zeros = np.zeros(len(points))
+    settled = np.ones(len(points), dtype=bool)
     if settle and len(points):
-        refined, ok = _correct(homotopy, points, zeros.astype(complex), 1e-13, 3)
-        use = np.all(np.isfinite(refined), axis=1) & ok
-        points = np.where(use[:, None], refined, points)
+        refined, settled, _, _ = _correct(homotopy, points, zeros.astype(complex), 1e-13, 4)
+        settled &= np.all(np.isfinite(refined), axis=1)
+        points = np.where(settled[:, None], refined, points)
     _, jacobian, _ = homotopy.evaluate(points, zeros.astype(complex))
     with np.errstate(all="ignore"):
         condition = np.linalg.cond(jacobian) if len(points) else np.zeros(0)
     size = np.linalg.norm(points, axis=1)
     at_infinity = np.abs(points[:, 0]) <= opts.infinity_threshold * size
-    return points, condition, at_infinity
+    return points, condition, at_infinity, settled
 
 
 def _track(homotopy, start_points, opts, near=None):
@@ -416,8 +472,9 @@ def _track(homotopy, start_points, opts, near=None):
                                   _Segment, running, opts, steps_b := np.zeros(len(running), dtype=np.int64))
     steps[running] += steps_b
     reached = status_b == PathStatus.RUNNING
-    settled_points, cond, infinite = _classify(homotopy, final[reached], opts)
-    regular = cond <= opts.singular_condition
+    settled_points, cond, infinite, settled = _classify(homotopy, final[reached], opts)
+    # regular: Newton at s = 0 converges quadratically there and the Jacobian is well conditioned
+    regular = settled & (cond <= opts.singular_condition)
     done = running[reached][regular]
     endpoints[done] = settled_points[regular]
     condition[done] = cond[regular]
@@ -433,7 +490,7 @@ def _track(homotopy, start_points, opts, near=None):
         ok = status_c == PathStatus.RUNNING
         status[rest[~ok]] = status_c[~ok]
         if np.any(ok):
-            points, cond, infinite = _classify(homotopy, estimate[ok], opts, settle=False)
+            points, cond, infinite, _ = _classify(homotopy, estimate[ok], opts, settle=False)
             target = rest[ok]
             endpoints[target] = points
             condition[target] = cond
