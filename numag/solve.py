@@ -316,21 +316,50 @@ def solve_system(system, options=None, seed=None, progress=None):
         evaluations += result.evaluations
         if progress is not None:
             progress(int(indices[-1]) + 1, total)
+    cautious = options.tracker
+    for _ in range(3):
+        crossed = _crossed_paths(system, endpoints, status, options)
+        if len(crossed) == 0:
+            break
+        # Two paths at one regular solution means a path jumped: track those again, more cautiously
+        # each time (smaller steps, at most three Newton corrections: a smaller basin to jump into).
+        cautious = replace(cautious, max_step=cautious.max_step / 10, predictor_error=cautious.predictor_error / 100,
+                           max_steps=cautious.max_steps * 5,
+                           corrector_iterations=min(cautious.corrector_iterations, 3))
+        with threadpool_limits(limits=1):
+            result = track_paths(homotopy, homotopy.start_solutions(crossed), cautious)
+        endpoints[crossed], status[crossed], winding[crossed] = result.endpoints, result.status, result.winding
+        condition[crossed], digits[crossed] = result.condition, result.digits
+        steps[crossed] += result.steps
+        retracked[crossed] = True
+        evaluations += result.evaluations
     solutions, infinite, not_isolated = _collect(system, endpoints, status, winding, condition, options, rng)
     return SolveResult(system, solutions, infinite, not_isolated, status, steps, winding, retracked, seed,
                        time.perf_counter() - started, evaluations, squared, digits)
+
+
+def _finite_points(system, endpoints, indices):
+    if system.projective:
+        return np.array([_normalize(p) for p in endpoints[indices]]).reshape(len(indices), -1)
+    return endpoints[indices, 1:] / endpoints[indices, :1]
+
+
+def _crossed_paths(system, endpoints, status, options):
+    """Paths that share a regular (well-conditioned) endpoint with another path: a sign of path jumping."""
+    regular = np.nonzero(status == PathStatus.CONVERGED)[0]
+    if len(regular) < 2:
+        return np.zeros(0, dtype=np.int64)
+    labels = cluster_labels(_finite_points(system, endpoints, regular), options.cluster_tolerance)
+    counts = np.bincount(labels)
+    return regular[counts[labels] > 1]
 
 
 def _collect(system, endpoints, status, winding, condition, options, rng):
     real_coefficients = all(np.all(np.abs(p.numeric_coefficients().imag) == 0) for p in system.polynomials)
     finite = np.nonzero((status == PathStatus.CONVERGED) | (status == PathStatus.SINGULAR_ENDPOINT))[0]
     infinite = np.nonzero(status == PathStatus.AT_INFINITY)[0]
-    if system.projective:
-        finite_points = np.array([_normalize(p) for p in endpoints[finite]]).reshape(len(finite), -1)
-        affine_system = None
-    else:
-        finite_points = endpoints[finite, 1:] / endpoints[finite, :1]
-        affine_system = system
+    finite_points = _finite_points(system, endpoints, finite)
+    affine_system = None if system.projective else system
     solutions, flagged = [], []
     labels = cluster_labels(finite_points, options.cluster_tolerance)
     for members in groups(labels):

@@ -130,3 +130,19 @@ def test_solve_report_round_trip():
     back, back_options = solve_report_from_dict(data)
     assert back_options == options
     assert dumps(solve_report_to_dict(back, back_options)) == text
+
+
+def test_path_jumping_is_detected_and_repaired():
+    # Bezout's theorem: 2^6 solutions of 6 generic quadrics. Reckless tracker settings make paths jump
+    # onto each other (two paths at one regular solution); solve must notice and track them again.
+    from numag.tracker import TrackerOptions
+    rng = np.random.default_rng(3)
+    names = [f"x{j}" for j in range(6)]
+    monomials = [m for d in range(3) for m in itertools.combinations_with_replacement(names, d)]
+    equations = [" + ".join(f"({c:.8f})*{'*'.join(m) or '1'}" for c, m in zip(rng.standard_normal(len(monomials)),
+                                                                           monomials)) for _ in range(6)]
+    system = parse_system(equations, names)
+    reckless = TrackerOptions(corrector_iterations=8, predictor_error=0.5, max_step=1.0)
+    result = solve_system(system, SolveOptions(tracker=reckless), seed=0)
+    assert result.path_counts()["retracked"] > 0
+    assert len(result.solutions) == 64 and all(s.multiplicity == 1 for s in result.solutions)
