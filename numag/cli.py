@@ -146,12 +146,13 @@ class _Progress:
         self.quiet = quiet
         self.started = time.perf_counter()
         self.last = 0.0
+        self.last_done = None
 
     def __call__(self, done, total):
         now = time.perf_counter() - self.started
-        if self.quiet or now < 2.0 or (now - self.last < 1.0 and done < total):
+        if self.quiet or now < 2.0 or done == self.last_done or (now - self.last < 1.0 and done < total):
             return
-        self.last = now
+        self.last, self.last_done = now, done
         rate = done / now if now > 0 else 0.0
         left = (total - done) / rate if rate > 0 else float("inf")
         sys.stderr.write(f"numag: {done}/{total} paths ({100 * done / total:.0f}%), {rate:.0f} paths/s, "

@@ -31,7 +31,7 @@ from .errors import InputError
 from .evaluate import BatchEvaluator, PrecisionEvaluator
 from .linalg import residual_scales
 
-__all__ = ["TotalDegreeStart", "StraightLineHomotopy", "random_unit_complex"]
+__all__ = ["TotalDegreeStart", "StraightLineHomotopy", "ParameterHomotopy", "random_unit_complex"]
 
 
 def random_unit_complex(rng, size=None):
@@ -194,3 +194,129 @@ class StraightLineHomotopy:
         derivative = np.zeros((count, size), dtype=complex)
         derivative[:, :-1] = self.gamma * g_values - f_values
         return values, jacobian, derivative
+
+
+class ParameterHomotopy:
+    """Move the coefficients of one system to those of another with the same variables.
+
+    H(X, s) = (1 - tau(s)) F_target^h(X) + tau(s) F_start^h(X), together with the patch, where
+    tau(s) = gamma s / (1 + (gamma - 1) s) runs from 0 (s = 0) to 1 (s = 1) along a complex
+    path (the gamma trick for parameter homotopies: for all but finitely many gamma the
+    path avoids the systems where solutions collide). The start solutions are known
+    solutions of the start system, e.g. from an earlier run; this is what witness sets
+    and monodromy loops need.
+
+    Parameters
+    ----------
+    start, target : list of Polynomial
+        Homogeneous polynomials in the same n + 1 variables (homogenising coordinate first).
+    patch : ndarray, shape (n + 1,)
+    gamma : complex
+
+    Examples
+    --------
+    >>> import numpy as np
+    >>> from numag.parse import parse_system
+    >>> start = parse_system(["x^2 - 1"], ["x"])
+    >>> target = parse_system(["x^2 - 4"], ["x"])
+    >>> homotopy = ParameterHomotopy.from_systems(start, target, np.random.default_rng(0))
+    >>> homotopy.start_solutions_from([[1.0], [-1.0]]).shape
+    (2, 2)
+    """
+
+    def __init__(self, start, target, patch, gamma):
+        self.start_polynomials = list(start)
+        self.target = list(target)
+        self.patch = np.asarray(patch, dtype=complex)
+        self.gamma = complex(gamma)
+        self.size = len(self.patch)
+        if len(self.target) + 1 != self.size or len(self.start_polynomials) != len(self.target):
+            raise InputError("start and target must be square systems of the same size")
+        self.evaluator = BatchEvaluator(self.target)
+        self.start_evaluator = BatchEvaluator(self.start_polynomials)
+        self.evaluations = 0
+        self._precise = None
+        self._precise_start = None
+        self._norms = np.array([p.coefficient_norm() for p in self.target])
+        self._degrees = np.array([p.degree for p in self.target])
+
+    @classmethod
+    def from_systems(cls, start_system, target_system, rng):
+        """Parameter homotopy between two square systems in the same variables (affine or projective)."""
+        if start_system.variables != target_system.variables or start_system.projective != target_system.projective:
+            raise InputError("start and target systems must have the same variables and kind")
+        expected = target_system.n_variables - (1 if target_system.projective else 0)
+        if target_system.n_equations != expected or start_system.n_equations != expected:
+            raise InputError(f"the systems are not square: {target_system.n_equations} equations, {expected} unknowns")
+
+        def homogeneous(system):
+            if system.projective:
+                return [p.numeric() for p in system.polynomials]
+            # both homogenised to the target's degrees, so that the sum stays homogeneous
+            return [p.numeric().homogenize(0) for p in system.polynomials]
+
+        start, target = homogeneous(start_system), homogeneous(target_system)
+        for k, (a, b) in enumerate(zip(start, target), 1):
+            if a.degree != b.degree:
+                raise InputError(f"equation {k} has degree {a.degree} in the start system and {b.degree} in the "
+                                 "target; a parameter homotopy needs the same degrees")
+        size = len(target) + 1
+        patch = (rng.standard_normal(size) + 1j * rng.standard_normal(size)) / np.sqrt(2 * size)
+        return cls(start, target, patch, random_unit_complex(rng))
+
+    def start_solutions_from(self, points, projective=False):
+        """Known solutions of the start system (affine, or homogeneous when ``projective``) on the patch."""
+        points = np.atleast_2d(np.asarray(points, dtype=complex))
+        if not projective:
+            points = np.column_stack([np.ones(len(points), dtype=complex), points])
+        return points / (points @ self.patch)[:, None]
+
+    def _tau(self, s):
+        denominator = 1 + (self.gamma - 1) * s
+        return self.gamma * s / denominator, self.gamma / denominator ** 2
+
+    def evaluate(self, points, s):
+        """H, dH/dX (with the patch row) and dH/ds at points (P, n + 1) and parameters s (P,)."""
+        self.evaluations += 1
+        count, size = len(points), self.size
+        f_values, f_jac = self.evaluator.evaluate(points)
+        g_values, g_jac = self.start_evaluator.evaluate(points)
+        tau, dtau = self._tau(np.asarray(s, dtype=complex))
+        values = np.empty((count, size), dtype=complex)
+        values[:, :-1] = (1 - tau)[:, None] * f_values + tau[:, None] * g_values
+        values[:, -1] = points @ self.patch - 1
+        jacobian = np.empty((count, size, size), dtype=complex)
+        jacobian[:, :-1, :] = (1 - tau)[:, None, None] * f_jac + tau[:, None, None] * g_jac
+        jacobian[:, -1, :] = self.patch
+        derivative = np.zeros((count, size), dtype=complex)
+        derivative[:, :-1] = (g_values - f_values) * dtau[:, None]
+        return values, jacobian, derivative
+
+    def evaluate_precise(self, point, s, ctx):
+        """H, dH/dX and dH/ds at one point in an mpmath context (see StraightLineHomotopy)."""
+        if self._precise is None:
+            self._precise = PrecisionEvaluator(self.target)
+            self._precise_start = PrecisionEvaluator(self.start_polynomials)
+        size = self.size
+        f_values, f_jac = self._precise.evaluate(point, ctx)
+        g_values, g_jac = self._precise_start.evaluate(point, ctx)
+        gamma = ctx.mpc(self.gamma.real, self.gamma.imag)
+        denominator = 1 + (gamma - 1) * s
+        tau, dtau = gamma * s / denominator, gamma / denominator ** 2
+        values, jacobian, derivative = ctx.matrix(size, 1), ctx.matrix(size, size), ctx.matrix(size, 1)
+        for i in range(size - 1):
+            values[i] = (1 - tau) * f_values[i] + tau * g_values[i]
+            derivative[i] = (g_values[i] - f_values[i]) * dtau
+            for j in range(size):
+                jacobian[i, j] = (1 - tau) * f_jac[i, j] + tau * g_jac[i, j]
+        patch = [ctx.mpc(a.real, a.imag) for a in self.patch]
+        values[size - 1] = sum(a * x for a, x in zip(patch, point)) - 1
+        for j in range(size):
+            jacobian[size - 1, j] = patch[j]
+        return values, jacobian, derivative
+
+    def target_residual(self, points):
+        """Norm of the scaled residuals of the target at points (P, n + 1)."""
+        values = self.evaluator.evaluate(points, jacobian=False)
+        scales = residual_scales(self._norms, self._degrees, points, projective=True)
+        return np.linalg.norm(values / scales, axis=1)

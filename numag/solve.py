@@ -30,13 +30,13 @@ from threadpoolctl import threadpool_limits
 from .cluster import cluster_labels, groups
 from .errors import InputError
 from .evaluate import BatchEvaluator, PrecisionEvaluator
-from .homotopy import StraightLineHomotopy
+from .homotopy import ParameterHomotopy, StraightLineHomotopy
 from .linalg import jacobian_row_scales, residual_scales, scaled_singular_values
 from .polynomial import Polynomial, PolynomialSystem
 from .refine import mp_gauss_newton, project_to_variety
 from .tracker import FAILURE_LABELS, PathStatus, TrackerOptions, track_paths
 
-__all__ = ["SolveOptions", "Solution", "SolveResult", "solve_system", "path_counts"]
+__all__ = ["SolveOptions", "Solution", "SolveResult", "solve_system", "continue_solutions", "path_counts"]
 
 
 @dataclass(frozen=True)
@@ -296,7 +296,51 @@ def solve_system(system, options=None, seed=None, progress=None):
     started = time.perf_counter()
     target, squared = _square_target(system, options, rng)
     homotopy = StraightLineHomotopy.total_degree(target, rng)
-    total = homotopy.start.n_paths
+    return _run(system, homotopy, homotopy.start_solutions, homotopy.start.n_paths, options, rng, seed, progress,
+                started, squared)
+
+
+def continue_solutions(start_system, start_points, target_system, options=None, seed=None, progress=None):
+    """Carry known solutions of one system to a system with other coefficients (parameter homotopy).
+
+    Parameters
+    ----------
+    start_system : PolynomialSystem
+        Square system whose solutions ``start_points`` are known.
+    start_points : array_like, shape (P, n)
+        Its solutions (affine coordinates, or homogeneous for projective systems).
+    target_system : PolynomialSystem
+        Same variables and equation degrees, other coefficients.
+    options, seed, progress
+        As for :func:`solve_system`.
+
+    Returns
+    -------
+    SolveResult
+        For the target system; path k starts at ``start_points[k]``.
+
+    Examples
+    --------
+    >>> from numag.parse import parse_system
+    >>> start = parse_system(["x^2 - 1", "y - x"], ["x", "y"])
+    >>> target = parse_system(["x^2 - 9", "y - 2*x"], ["x", "y"])
+    >>> result = continue_solutions(start, [[1, 1], [-1, -1]], target, seed=0)
+    >>> sorted(round(s.point[1].real) for s in result.solutions)
+    [-6, 6]
+    """
+    options = (options or SolveOptions()).validated()
+    if seed is None:
+        seed = int(np.random.SeedSequence().entropy % (2**32))
+    rng = np.random.default_rng(seed)
+    started = time.perf_counter()
+    homotopy = ParameterHomotopy.from_systems(start_system, target_system, rng)
+    starts = homotopy.start_solutions_from(start_points, projective=start_system.projective)
+    return _run(target_system, homotopy, lambda indices: starts[indices], len(starts), options, rng, seed,
+                progress, started, False)
+
+
+def _run(system, homotopy, start_points, total, options, rng, seed, progress, started, squared):
+    """Track all paths in batches, repair path jumping, and collect the solutions."""
     endpoints = np.empty((total, homotopy.size), dtype=complex)
     status = np.empty(total, dtype=np.int64)
     steps = np.empty(total, dtype=np.int64)
@@ -309,7 +353,8 @@ def solve_system(system, options=None, seed=None, progress=None):
         indices = np.arange(first, min(total, first + options.batch_size))
         # small batched products run faster on one BLAS thread; parallelism comes from processes
         with threadpool_limits(limits=1):
-            result = track_paths(homotopy, homotopy.start_solutions(indices), options.tracker)
+            inner = None if progress is None else (lambda done, first=first: progress(first + done, total))
+            result = track_paths(homotopy, start_points(indices), options.tracker, progress=inner)
         endpoints[indices], status[indices], steps[indices] = result.endpoints, result.status, result.steps
         winding[indices], condition[indices], retracked[indices] = result.winding, result.condition, result.retracked
         digits[indices] = result.digits
@@ -327,7 +372,7 @@ def solve_system(system, options=None, seed=None, progress=None):
                            max_steps=cautious.max_steps * 5,
                            corrector_iterations=min(cautious.corrector_iterations, 3))
         with threadpool_limits(limits=1):
-            result = track_paths(homotopy, homotopy.start_solutions(crossed), cautious)
+            result = track_paths(homotopy, start_points(crossed), cautious)
         endpoints[crossed], status[crossed], winding[crossed] = result.endpoints, result.status, result.winding
         condition[crossed], digits[crossed] = result.condition, result.digits
         steps[crossed] += result.steps

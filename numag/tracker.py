@@ -293,12 +293,13 @@ def _correct(homotopy, points, s, tolerance, iterations):
     return current, ok, first, tangent
 
 
-def _advance(homotopy, points, t, t_end, curve, index, opts, steps, step=None, max_step=None):
+def _advance(homotopy, points, t, t_end, curve, index, opts, steps, step=None, max_step=None, on_step=None):
     """Move every path from t to t_end along ``curve``; returns points, t, a status and the step per path.
 
     ``index`` maps the rows to path numbers (for per-path curve parameters);
     ``steps`` (per row) is updated in place; ``step`` carries step sizes over
-    from a previous piece (the endgame's arcs), ``max_step`` overrides the option.
+    from a previous piece (the endgame's arcs), ``max_step`` overrides the option;
+    ``on_step(finished)`` is told after each step how many rows have finished.
     """
     points = points.copy()
     t = t.astype(float).copy()
@@ -310,6 +311,8 @@ def _advance(homotopy, points, t, t_end, curve, index, opts, steps, step=None, m
     taken = np.zeros(len(t), dtype=np.int64)
     while True:
         active = np.nonzero((status == PathStatus.RUNNING) & (np.abs(t_end - t) > 0))[0]
+        if on_step is not None:
+            on_step(len(t) - len(active))
         if len(active) == 0:
             break
         x, tt, rows = points[active], t[active], index[active]
@@ -452,7 +455,7 @@ def _classify(homotopy, points, opts, settle=True):
     return points, condition, at_infinity, settled
 
 
-def _track(homotopy, start_points, opts, near=None):
+def _track(homotopy, start_points, opts, near=None, on_step=None):
     """Track to s = 0 from the start (or, when ``near`` is given, from there at the endgame radius)."""
     count = len(start_points) if near is None else len(near)
     index = np.arange(count)
@@ -461,7 +464,7 @@ def _track(homotopy, start_points, opts, near=None):
     radius = opts.endgame_radius
     if near is None:
         near, _, status_a, _ = _advance(homotopy, start_points, np.ones(count), np.full(count, radius), _Segment,
-                                        index, opts, steps)
+                                        index, opts, steps, on_step=on_step)
         status[:] = status_a
     endpoints = near.copy()
     condition = np.full(count, np.inf)
@@ -501,7 +504,7 @@ def _track(homotopy, start_points, opts, near=None):
     return endpoints, status, steps, condition, winding, endgame
 
 
-def track_paths(homotopy, start_points, options=None):
+def track_paths(homotopy, start_points, options=None, progress=None):
     """Track every start point from s = 1 to s = 0 together, with the endgame and a cautious retry.
 
     Parameters
@@ -509,6 +512,9 @@ def track_paths(homotopy, start_points, options=None):
     homotopy : StraightLineHomotopy (or any object with the same ``evaluate`` and ``evaluations``)
     start_points : ndarray, shape (P, N)
     options : TrackerOptions, optional
+    progress : callable, optional
+        ``progress(paths)`` with the number of paths past the bulk of their tracking
+        (s = 0.1), called after every step of that phase.
 
     Returns
     -------
@@ -517,7 +523,7 @@ def track_paths(homotopy, start_points, options=None):
     opts = options or TrackerOptions()
     start_points = np.asarray(start_points, dtype=complex)
     before = homotopy.evaluations
-    endpoints, status, steps, condition, winding, endgame = _track(homotopy, start_points, opts)
+    endpoints, status, steps, condition, winding, endgame = _track(homotopy, start_points, opts, on_step=progress)
     retracked = np.zeros(len(status), dtype=bool)
     failed = np.nonzero(status >= PathStatus.FAILED_MIN_STEP)[0]
     if len(failed):

@@ -74,3 +74,25 @@ def test_module_entry_point_runs():
                             cwd=pathlib.Path(numag.__file__).parent.parent)
     assert result.returncode == 0, result.stderr
     assert json.loads(result.stdout)["points"][0]["verdict"] == "singular"
+
+
+def test_solve_example_table_and_json():
+    code, text = run(["solve", str(EXAMPLES / "mechanism_positions.toml"), "--seed", "3"])
+    assert code == EXIT_OK
+    assert "4 isolated solution(s), 2 real" in text and "point(s) at infinity" in text
+    code, text = run(["solve", str(EXAMPLES / "mechanism_positions.toml"), "--seed", "3", "--json"])
+    data = json.loads(text)
+    assert data["seed"] == 3 and data["command"] == "solve"
+    paths = data["paths"]
+    assert paths["tracked"] == 8
+    assert paths["converged"] + paths["singular_endpoint"] + paths["at_infinity"] + paths["failed"] == 8
+    assert all(len(s["point"]) == 3 for s in data["solutions"])
+    assert all(len(s["point"]) == 4 and s["at_infinity"] for s in data["at_infinity"])
+
+
+def test_solve_refuses_non_square_input(tmp_path, capsys):
+    path = tmp_path / "under.toml"
+    path.write_text('variables = ["x", "y"]\nequations = ["x - y"]\n')
+    code, _ = run(["solve", str(path)])
+    assert code == EXIT_INPUT
+    assert "need" in capsys.readouterr().err

@@ -146,3 +146,17 @@ def test_path_jumping_is_detected_and_repaired():
     result = solve_system(system, SolveOptions(tracker=reckless), seed=0)
     assert result.path_counts()["retracked"] > 0
     assert len(result.solutions) == 64 and all(s.multiplicity == 1 for s in result.solutions)
+
+
+def test_parameter_homotopy_agrees_with_total_degree():
+    # Bezout: 3 x 2 = 6 solutions for generic coefficients; moving the solutions of one generic system to
+    # another by a parameter homotopy must find the same solutions as solving the target directly
+    from numag.solve import continue_solutions
+    start = parse_system(["x^3 + 2*x*y - 3*y + 1", "x*y + y^2 - 5*x + 2"], ["x", "y"])
+    target = parse_system(["2*x^3 - x*y + 4*y - 7/2", "3*x*y - y^2 + x - 1"], ["x", "y"])
+    first = solve_system(start, seed=0)
+    assert len(first.solutions) == 6
+    moved = continue_solutions(start, [s.point for s in first.solutions], target, seed=1)
+    direct = solve_system(target, seed=2)
+    key = lambda result: sorted(tuple(np.round(s.point, 7)) for s in result.solutions)
+    assert len(moved.solutions) == 6 and key(moved) == key(direct)
