@@ -4,6 +4,7 @@ The public API in brief:
 
 * :func:`load_system`, :func:`parse_system` -- read equations (our own grammar, exact coefficients);
 * :func:`check_points` -- the Jacobian criterion at points, with evidence (``numag check``);
+* :func:`solve_system`, :func:`continue_solutions` -- isolated solutions of square systems (``numag solve``);
 * :class:`BatchEvaluator` -- F and J at many points at once;
 * :class:`NumagError` -- the root of every error numag raises on purpose.
 
@@ -23,6 +24,8 @@ from .polynomial import Polynomial, PolynomialSystem  # noqa: E402
 from .evaluate import BatchEvaluator  # noqa: E402
 from .smoothness import CheckOptions, check_points  # noqa: E402
 from .files import load_system  # noqa: E402
+from .solve import SolveOptions, continue_solutions, solve_system  # noqa: E402
 
 __all__ = ["NumagError", "parse_system", "parse_polynomial", "Polynomial", "PolynomialSystem",
-           "BatchEvaluator", "CheckOptions", "check_points", "load_system", "__version__"]
+           "BatchEvaluator", "CheckOptions", "check_points", "load_system", "SolveOptions", "solve_system",
+           "continue_solutions", "__version__"]
