@@ -38,6 +38,8 @@ class BatchEvaluator:
     ----------
     polynomials : sequence of Polynomial
         All in the same number of variables.
+    spare_columns : int, default 0
+        Zero columns appended to the output of :meth:`raw`.
 
     Attributes
     ----------
@@ -52,7 +54,7 @@ class BatchEvaluator:
     one product (P K m (n + 1)).
     """
 
-    def __init__(self, polynomials):
+    def __init__(self, polynomials, spare_columns=0):
         polynomials = list(polynomials)
         if not polynomials:
             raise InputError("nothing to evaluate: no polynomials")
@@ -77,6 +79,9 @@ class BatchEvaluator:
             stop = start + len(exponents)
             np.add.at(matrix[row], inverse[start:stop], coefficients)
             start = stop
+        # spare zero columns at the end let a caller complete a Jacobian in place (see :meth:`raw`)
+        self.spare_columns = int(spare_columns)
+        matrix = np.vstack([matrix, np.zeros((self.spare_columns, n_monomials), dtype=complex)])
         self._matrix_t = np.ascontiguousarray(matrix.T)
         self.max_exponent = int(self.monomials.max()) if n and n_monomials else 0
         self._build_gather()
@@ -124,17 +129,29 @@ class BatchEvaluator:
         jacobians : ndarray, shape (P, n_equations, n_variables)
             Only when ``jacobian`` is true.
         """
-        points = np.asarray(points, dtype=complex)
-        if points.ndim == 1:
-            points = points[None, :]
-        if points.ndim != 2 or points.shape[1] != self.n_variables:
-            raise InputError(f"points must have shape (P, {self.n_variables}), got {points.shape}")
+        points = self._check(points)
         monomials = self.monomial_values(points)
         m = self.n_equations
         if not jacobian:
             return monomials @ self._matrix_t[:, :m]
         out = monomials @ self._matrix_t
-        return out[:, :m], out[:, m:].reshape(len(points), m, self.n_variables)
+        return out[:, :m], out[:, m:m + m * self.n_variables].reshape(len(points), m, self.n_variables)
+
+    def raw(self, points):
+        """One array (P, m + m n + spare_columns): the values, the Jacobian rows, then zeros.
+
+        Row-major: ``raw[:, m:m + m n]`` reshaped to (P, m, n) is the Jacobian, as a view,
+        so a caller can complete a larger matrix in place without copying.
+        """
+        return self.monomial_values(self._check(points)) @ self._matrix_t
+
+    def _check(self, points):
+        points = np.asarray(points, dtype=complex)
+        if points.ndim == 1:
+            points = points[None, :]
+        if points.ndim != 2 or points.shape[1] != self.n_variables:
+            raise InputError(f"points must have shape (P, {self.n_variables}), got {points.shape}")
+        return points
 
 
 class PrecisionEvaluator:

@@ -113,7 +113,7 @@ class StraightLineHomotopy:
         self.size = len(self.patch)
         if len(self.target) + 1 != self.size:
             raise InputError(f"a square system is needed: {len(self.target)} equations in {self.size - 1} unknowns")
-        self.evaluator = BatchEvaluator(self.target)
+        self.evaluator = BatchEvaluator(self.target, spare_columns=self.size)  # room for the patch row
         self.evaluations = 0
         self._precise = None
         self._norms = np.array([p.coefficient_norm() for p in self.target])
@@ -177,15 +177,17 @@ class StraightLineHomotopy:
         """H, dH/dX (with the patch row) and dH/ds at points (P, n + 1) and parameters s (P,)."""
         self.evaluations += 1
         count, size = len(points), self.size
-        f_values, f_jac = self.evaluator.evaluate(points)
+        n = size - 1
+        raw = self.evaluator.raw(points)  # [F | rows of J_F | zeros for the patch row]
+        f_values = raw[:, :n]
         g_values, g_diagonal, g_first = self.start.evaluate_parts(points)
         weight_f = (1 - s)[:, None]
         weight_g = (s * self.gamma)[:, None]
         values = np.empty((count, size), dtype=complex)
         values[:, :-1] = weight_f * f_values + weight_g * g_values
         values[:, -1] = points @ self.patch - 1
-        jacobian = np.empty((count, size, size), dtype=complex)
-        np.multiply(weight_f[:, :, None], f_jac, out=jacobian[:, :-1, :])
+        jacobian = raw[:, n:].reshape(count, size, size)  # a view: (1 - s) J_F, then G, then the patch
+        jacobian[:, :-1, :] *= weight_f[:, :, None]
         # G's Jacobian is sparse: a diagonal (in X_1..X_n) and the column of X_0
         index = np.arange(size - 1)
         jacobian[:, index, index + 1] += weight_g * g_diagonal
