@@ -115,6 +115,7 @@ class StraightLineHomotopy:
             raise InputError(f"a square system is needed: {len(self.target)} equations in {self.size - 1} unknowns")
         self.evaluator = BatchEvaluator(self.target, spare_columns=self.size)  # room for the patch row
         self.evaluations = 0
+        self.value_evaluations = 0
         self._precise = None
         self._norms = np.array([p.coefficient_norm() for p in self.target])
         self._degrees = np.array([p.degree for p in self.target])
@@ -172,6 +173,16 @@ class StraightLineHomotopy:
         values = self.evaluator.evaluate(points, jacobian=False)
         scales = residual_scales(self._norms, self._degrees, points, projective=True)
         return np.linalg.norm(values / scales, axis=1)
+
+    def evaluate_values(self, points, s):
+        """H alone (with the patch row): what a corrector reusing an earlier Jacobian needs."""
+        self.value_evaluations += 1
+        g_values = self.start.evaluate_parts(points)[0]
+        values = np.empty((len(points), self.size), dtype=complex)
+        values[:, :-1] = (1 - s)[:, None] * self.evaluator.evaluate(points, jacobian=False) \
+            + (s * self.gamma)[:, None] * g_values
+        values[:, -1] = points @ self.patch - 1
+        return values
 
     def evaluate(self, points, s):
         """H, dH/dX (with the patch row) and dH/ds at points (P, n + 1) and parameters s (P,)."""
@@ -237,6 +248,7 @@ class ParameterHomotopy:
         self.evaluator = BatchEvaluator(self.target)
         self.start_evaluator = BatchEvaluator(self.start_polynomials)
         self.evaluations = 0
+        self.value_evaluations = 0
         self._precise = None
         self._precise_start = None
         self._norms = np.array([p.coefficient_norm() for p in self.target])
@@ -293,6 +305,16 @@ class ParameterHomotopy:
         derivative = np.zeros((count, size), dtype=complex)
         derivative[:, :-1] = (g_values - f_values) * dtau[:, None]
         return values, jacobian, derivative
+
+    def evaluate_values(self, points, s):
+        """H alone (with the patch row)."""
+        self.value_evaluations += 1
+        tau, _ = self._tau(np.asarray(s, dtype=complex))
+        values = np.empty((len(points), self.size), dtype=complex)
+        values[:, :-1] = (1 - tau)[:, None] * self.evaluator.evaluate(points, jacobian=False) \
+            + tau[:, None] * self.start_evaluator.evaluate(points, jacobian=False)
+        values[:, -1] = points @ self.patch - 1
+        return values
 
     def evaluate_precise(self, point, s, ctx):
         """H, dH/dX and dH/ds at one point in an mpmath context (see StraightLineHomotopy)."""

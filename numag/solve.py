@@ -367,10 +367,10 @@ def _run(system, homotopy, start_points, total, options, rng, seed, progress, st
         if len(crossed) == 0:
             break
         # Two paths at one regular solution means a path jumped: track those again, more cautiously
-        # each time (smaller steps, at most three Newton corrections: a smaller basin to jump into).
+        # each time (smaller steps, three full Newton corrections: a smaller basin to jump into).
         cautious = replace(cautious, max_step=cautious.max_step / 10, predictor_error=cautious.predictor_error / 100,
                            max_steps=cautious.max_steps * 5,
-                           corrector_iterations=min(cautious.corrector_iterations, 3))
+                           corrector_iterations=3, chord_corrector=False)
         with threadpool_limits(limits=1):
             result = track_paths(homotopy, start_points(crossed), cautious)
         endpoints[crossed], status[crossed], winding[crossed] = result.endpoints, result.status, result.winding

@@ -115,6 +115,8 @@ class TrackerOptions:
         Newton corrections per step.
     max_steps : int
         Step limit per path and piece.
+    chord_corrector : bool
+        Reuse the first correction's (inverted) Jacobian for the later corrections.
     predictor_error : float
         Relative predictor error the step-size control aims at (the first Newton
         correction measures it; steps change by a factor between 0.5 and 2).
@@ -145,9 +147,10 @@ class TrackerOptions:
     min_step: float = 1e-12
     corrector_tolerance: float = 1e-6
     endgame_corrector_tolerance: float = 1e-10
-    corrector_iterations: int = 3
+    corrector_iterations: int = 5
     max_steps: int = 2000
     predictor_error: float = 1e-2
+    chord_corrector: bool = True
     endgame_radius: float = 0.1
     endgame_samples: int = 16
     endgame_shrink: float = 0.25
@@ -255,17 +258,18 @@ class _Circle:
         return 1j * self.radius[index] * np.exp(1j * t)
 
 
-def _correct(homotopy, points, s, tolerance, iterations):
+def _correct(homotopy, points, s, tolerance, iterations, chord=False):
     """Newton corrections at fixed s, only on the paths still correcting.
 
     A path succeeds as soon as a correction is at most ``tolerance`` (relative) and every
     correction so far has at most halved the previous one; it fails when the corrections do
     not contract or ``iterations`` run out. Paths whose prediction was already good cost a
-    single evaluation.
+    single evaluation. With ``chord``, the Jacobian of the first correction is inverted once
+    and reused (later corrections need only the values of H, a fraction of the cost).
 
     Returns the corrected points, the success mask, the first correction's size (the
-    predictor's error) and H_X^{-1} H_s from the last evaluation (the tangent at the new
-    point, up to the last tiny correction: the next step's first predictor stage reuses it).
+    predictor's error) and H_X^{-1} H_s from an evaluation at the new s (the next step's first
+    predictor stage reuses it).
     """
     current = points.copy()
     previous = np.full(len(points), np.inf)
@@ -273,11 +277,22 @@ def _correct(homotopy, points, s, tolerance, iterations):
     tangent = np.full(points.shape, np.nan, dtype=complex)
     ok = np.zeros(len(points), dtype=bool)
     live = np.arange(len(points))
+    chord = chord and hasattr(homotopy, "evaluate_values")
+    inverse = None
     for iteration in range(iterations):
-        values, jacobian, derivative = homotopy.evaluate(current[live], s[live])
-        both = _solve_columns(jacobian, np.stack([values, derivative], axis=2))
-        delta = both[:, :, 0]
-        tangent[live] = both[:, :, 1]
+        if chord and iteration > 0:
+            values = homotopy.evaluate_values(current[live], s[live])
+            delta = np.einsum("pij,pj->pi", inverse[live], values)
+        else:
+            values, jacobian, derivative = homotopy.evaluate(current[live], s[live])
+            if chord:
+                inverse = np.full((len(points),) + jacobian.shape[1:], np.nan, dtype=complex)
+                inverse[live] = _inverse(jacobian)
+                both = inverse[live] @ np.stack([values, derivative], axis=2)
+            else:
+                both = _solve_columns(jacobian, np.stack([values, derivative], axis=2))
+            delta = both[:, :, 0]
+            tangent[live] = both[:, :, 1]
         current[live] = current[live] - delta
         norm = np.linalg.norm(delta, axis=1) / (1 + np.linalg.norm(current[live], axis=1))
         if iteration == 0:
@@ -291,6 +306,19 @@ def _correct(homotopy, points, s, tolerance, iterations):
         if len(live) == 0:
             break
     return current, ok, first, tangent
+
+
+def _inverse(jacobian):
+    try:
+        return np.linalg.inv(jacobian)
+    except np.linalg.LinAlgError:
+        result = np.full(jacobian.shape, np.nan, dtype=complex)
+        for k in range(len(jacobian)):  # only when some matrix is exactly singular
+            try:
+                result[k] = np.linalg.inv(jacobian[k])
+            except np.linalg.LinAlgError:
+                pass
+        return result
 
 
 def _advance(homotopy, points, t, t_end, curve, index, opts, steps, step=None, max_step=None, on_step=None):
@@ -335,7 +363,8 @@ def _advance(homotopy, points, t, t_end, curve, index, opts, steps, step=None, m
         predicted = x + (h[:, None] / 6.0) * (k1 + 2 * k2 + 2 * k3 + k4)
         new_t = np.where(np.abs(step[active]) >= np.abs(t_end[active] - tt), t_end[active], tt + h)
         corrected, ok, error, new_tangent = _correct(homotopy, predicted, curve.s(new_t, rows),
-                                                     opts.corrector_tolerance, opts.corrector_iterations)
+                                                     opts.corrector_tolerance, opts.corrector_iterations,
+                                                     chord=opts.chord_corrector)
         taken[active] += 1
         accepted = ok & np.all(np.isfinite(corrected), axis=1)
         good = active[accepted]
