@@ -93,7 +93,24 @@ class TotalDegreeStart:
         return np.column_stack([np.ones(len(indices), dtype=complex), roots])
 
 
-class StraightLineHomotopy:
+class _PatchedHomotopy:
+    """What every homotopy on a random affine patch shares: the patch row and the endpoint test."""
+
+    def _precise_patch_row(self, values, jacobian, point, ctx):
+        size = self.size
+        patch = [ctx.mpc(a.real, a.imag) for a in self.patch]
+        values[size - 1] = sum(a * x for a, x in zip(patch, point)) - 1
+        for j in range(size):
+            jacobian[size - 1, j] = patch[j]
+
+    def target_residual(self, points):
+        """Norm of the scaled residuals of the target F^h at points (P, n + 1): is X an endpoint?"""
+        values = self.evaluator.evaluate(points, jacobian=False)
+        scales = residual_scales(self._norms, self._degrees, points, projective=True)
+        return np.linalg.norm(values / scales, axis=1)
+
+
+class StraightLineHomotopy(_PatchedHomotopy):
     """H(X, s) = (1 - s) F^h(X) + s gamma G(X) together with the patch a . X = 1.
 
     Parameters
@@ -162,17 +179,8 @@ class StraightLineHomotopy:
                 jacobian[i, j] = (1 - s) * f_jac[i, j]
             jacobian[i, 0] += s * gamma * (-d * x0 ** (d - 1))
             jacobian[i, i + 1] += s * gamma * d * point[i + 1] ** (d - 1)
-        patch = [ctx.mpc(a.real, a.imag) for a in self.patch]
-        values[size - 1] = sum(a * x for a, x in zip(patch, point)) - 1
-        for j in range(size):
-            jacobian[size - 1, j] = patch[j]
+        self._precise_patch_row(values, jacobian, point, ctx)
         return values, jacobian, derivative
-
-    def target_residual(self, points):
-        """Norm of the scaled residuals of the target F^h at points (P, n + 1): is X an endpoint?"""
-        values = self.evaluator.evaluate(points, jacobian=False)
-        scales = residual_scales(self._norms, self._degrees, points, projective=True)
-        return np.linalg.norm(values / scales, axis=1)
 
     def evaluate_values(self, points, s):
         """H alone (with the patch row): what a corrector reusing an earlier Jacobian needs."""
@@ -209,7 +217,7 @@ class StraightLineHomotopy:
         return values, jacobian, derivative
 
 
-class ParameterHomotopy:
+class ParameterHomotopy(_PatchedHomotopy):
     """Move the coefficients of one system to those of another with the same variables.
 
     H(X, s) = (1 - tau(s)) F_target^h(X) + tau(s) F_start^h(X), together with the patch, where
@@ -333,14 +341,5 @@ class ParameterHomotopy:
             derivative[i] = (g_values[i] - f_values[i]) * dtau
             for j in range(size):
                 jacobian[i, j] = (1 - tau) * f_jac[i, j] + tau * g_jac[i, j]
-        patch = [ctx.mpc(a.real, a.imag) for a in self.patch]
-        values[size - 1] = sum(a * x for a, x in zip(patch, point)) - 1
-        for j in range(size):
-            jacobian[size - 1, j] = patch[j]
+        self._precise_patch_row(values, jacobian, point, ctx)
         return values, jacobian, derivative
-
-    def target_residual(self, points):
-        """Norm of the scaled residuals of the target at points (P, n + 1)."""
-        values = self.evaluator.evaluate(points, jacobian=False)
-        scales = residual_scales(self._norms, self._degrees, points, projective=True)
-        return np.linalg.norm(values / scales, axis=1)

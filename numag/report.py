@@ -139,14 +139,19 @@ def check_report_to_dict(report):
     }
 
 
-def check_report_from_dict(data):
-    """Rebuild a :class:`~numag.smoothness.CheckReport` from its JSON envelope."""
-    if not isinstance(data, dict) or data.get("command") != "check":
-        raise InputError("not a report of 'numag check'")
+def _report_system(data, command):
+    """Check that ``data`` is a report of ``command`` and rebuild its system."""
+    if not isinstance(data, dict) or data.get("command") != command:
+        raise InputError(f"not a report of 'numag {command}'")
     system_data = dict(data["system"])
     if system_data.get("name") is None:
         system_data.pop("name", None)
-    system = system_from_mapping(system_data)
+    return system_from_mapping(system_data)
+
+
+def check_report_from_dict(data):
+    """Rebuild a :class:`~numag.smoothness.CheckReport` from its JSON envelope."""
+    system = _report_system(data, "check")
     o = data["options"]
     options = CheckOptions(local_dimension=o["local_dimension"], point_tolerance=o["point_tolerance"],
                            max_digits=o["digits"], suspect_threshold=o["suspect_threshold"],
@@ -221,12 +226,7 @@ def solve_report_to_dict(result, options):
 
 def solve_report_from_dict(data):
     """Rebuild a :class:`~numag.solve.SolveResult` (and its options) from its JSON envelope."""
-    if not isinstance(data, dict) or data.get("command") != "solve":
-        raise InputError("not a report of 'numag solve'")
-    system_data = dict(data["system"])
-    if system_data.get("name") is None:
-        system_data.pop("name", None)
-    system = system_from_mapping(system_data)
+    system = _report_system(data, "solve")
     o = data["options"]
     options = SolveOptions(tracker=TrackerOptions(), cluster_tolerance=o["cluster_tolerance"],
                            refine_digits=o["digits"], square_up=o["square_up"], batch_size=o["batch_size"])

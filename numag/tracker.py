@@ -207,16 +207,8 @@ class TrackResult:
 
 
 def _solve(jacobian, rhs):
-    try:
-        return np.linalg.solve(jacobian, rhs[..., None])[..., 0]
-    except np.linalg.LinAlgError:
-        result = np.full(rhs.shape, np.nan, dtype=complex)
-        for k in range(len(rhs)):  # only when some matrix is exactly singular: the rare stragglers
-            try:
-                result[k] = np.linalg.solve(jacobian[k], rhs[k])
-            except np.linalg.LinAlgError:
-                pass
-        return result
+    """Solve for one right-hand side (P, N) per matrix."""
+    return _solve_columns(jacobian, rhs[..., None])[..., 0]
 
 
 def _solve_columns(jacobian, rhs):
