@@ -173,7 +173,7 @@ def _print_solve(result, out):
               f"{result.seconds:.2f} s\n")
     if result.squared_up:
         out.write("note: more equations than unknowns; random combinations were tracked and every "
-                  "solution was kept only if it satisfies all equations\n")
+                  f"solution was kept only if it satisfies all equations ({len(result.discarded)} discarded)\n")
     real = sum(1 for s in result.solutions if s.real)
     out.write(f"\n{len(result.solutions)} isolated solution(s), {real} real\n")
     names = system.variables

@@ -210,6 +210,7 @@ def solve_report_to_dict(result, options):
         "solutions": [_solution_to_dict(s) for s in result.solutions],
         "at_infinity": [_solution_to_dict(s) for s in result.at_infinity],
         "not_isolated": [_solution_to_dict(s) for s in result.not_isolated],
+        "discarded": [_solution_to_dict(s) for s in result.discarded],
         "squared_up": result.squared_up,
         "seconds": result.seconds,
         "evaluations": result.evaluations,
@@ -241,5 +242,6 @@ def solve_report_from_dict(data):
         steps=np.array(data["path_steps"], dtype=np.int64), winding=np.array(data["path_winding"], dtype=np.int64),
         retracked=np.array(data["path_retracked"], dtype=bool), seed=data["seed"], seconds=float(data["seconds"]),
         evaluations=int(data["evaluations"]), squared_up=bool(data["squared_up"]),
-        digits=np.array(data["path_digits"], dtype=np.int64))
+        digits=np.array(data["path_digits"], dtype=np.int64),
+        discarded=[_solution_from_dict(d) for d in data["discarded"]])
     return result, options

@@ -139,6 +139,8 @@ class SolveResult:
         True when random combinations made the system square.
     digits : ndarray of int
         Per path: 16 (double precision) or the digits of the precision rescue it needed.
+    discarded : list of Solution
+        With ``squared_up``: solutions of the random combinations that fail an original equation.
     """
 
     system: PolynomialSystem
@@ -154,6 +156,7 @@ class SolveResult:
     evaluations: int
     squared_up: bool = False
     digits: np.ndarray = None
+    discarded: list = field(default_factory=list)
     extra: dict = field(default_factory=dict)
 
     def path_counts(self):
@@ -378,9 +381,30 @@ def _run(system, homotopy, start_points, total, options, rng, seed, progress, st
         steps[crossed] += result.steps
         retracked[crossed] = True
         evaluations += result.evaluations
+    if system.projective:  # X_0 = 0 is an ordinary point of projective space, not "infinity"
+        ends = status == PathStatus.AT_INFINITY
+        singular = (winding > 1) | (condition > options.tracker.singular_condition)
+        status[ends & singular] = PathStatus.SINGULAR_ENDPOINT
+        status[ends & ~singular] = PathStatus.CONVERGED
     solutions, infinite, not_isolated = _collect(system, endpoints, status, winding, condition, options, rng)
-    return SolveResult(system, solutions, infinite, not_isolated, status, steps, winding, retracked, seed,
-                       time.perf_counter() - started, evaluations, squared, digits)
+    discarded = []
+    if squared:  # random combinations have extra solutions: keep only those of every equation
+        kept = []
+        for solution in solutions:
+            (kept if _satisfies(system, solution.point) else discarded).append(solution)
+        solutions = kept
+    result = SolveResult(system, solutions, infinite, not_isolated, status, steps, winding, retracked, seed,
+                         time.perf_counter() - started, evaluations, squared, digits)
+    result.discarded = discarded
+    return result
+
+
+def _satisfies(system, point, tolerance=1e-8):
+    """Scaled residual of every equation at the point below the tolerance."""
+    point = np.asarray(point, dtype=complex)[None, :]
+    values = BatchEvaluator(system.polynomials).evaluate(point, jacobian=False)
+    scales = residual_scales(system.coefficient_norms(), system.degrees, point, system.projective)
+    return bool(np.max(np.abs(values) / scales) <= tolerance)
 
 
 def _finite_points(system, endpoints, indices):

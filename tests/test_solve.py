@@ -160,3 +160,33 @@ def test_parameter_homotopy_agrees_with_total_degree():
     direct = solve_system(target, seed=2)
     key = lambda result: sorted(tuple(np.round(s.point, 7)) for s in result.solutions)
     assert len(moved.solutions) == 6 and key(moved) == key(direct)
+
+
+@pytest.mark.parametrize("name", ["four_generic_lines", "chebyshev_T4x_eq_T5y", "trifolium_triple_point",
+                                  "cayley_cubic", "kummer_quartic_mu2_eq_2", "barth_sextic_exact"])
+def test_singular_points_of_hypersurfaces_from_their_gradients(problems, name):
+    # The singular points of a hypersurface f = 0 are the zeros of its gradient that lie on f = 0
+    # (for homogeneous f Euler's formula makes f = 0 automatic). Expected counts and their sources are in
+    # tests/data/problems.json: Chebyshev curves (Koseleff and Pecker), Cayley's 4-nodal cubic (Cayley 1869),
+    # the Kummer quartic (16 nodes), Barth's sextic (65 nodes: W. Barth, "Two projective surfaces with many
+    # nodes, admitting the symmetries of the icosahedron", J. Algebraic Geom. 1996).
+    from numag.polynomial import PolynomialSystem
+    entry = problems[name]
+    surface = parse_system(entry["equations"], entry["variables"], projective=entry["projective"])
+    f = surface.polynomials[0]
+    gradient = PolynomialSystem(surface.variables, f.gradient(), projective=surface.projective)
+    result = solve_system(gradient, SolveOptions(square_up=surface.projective), seed=1)
+    assert result.path_counts()["failed"] == 0
+    on_f = [s for s in result.solutions
+            if abs(f.evaluate(s.point)) <= 1e-8 * (1 + np.linalg.norm(s.point)) ** f.degree]
+    assert len(on_f) == entry["expected"]["singular_points"]
+    assert sum(s.real for s in on_f) == entry["expected"]["real_singular_points"]
+
+
+def test_squared_up_extra_solutions_are_discarded():
+    # x = 1, y = 2, x + y = 3 plus x*y = 2: one solution; random combinations of the four equations
+    # in two unknowns have more, which must be discarded (common practice, no source)
+    system = parse_system(["x - 1", "y - 2", "x*y - 2", "x^2 - 1"], ["x", "y"])
+    result = solve_system(system, SolveOptions(square_up=True), seed=4)
+    assert [tuple(np.round(s.point.real, 10)) for s in result.solutions] == [(1, 2)]
+    assert len(result.discarded) >= 1
