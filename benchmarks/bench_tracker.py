@@ -1,12 +1,14 @@
 """Tracker benchmark: families of growing size, numag and sympy's Groebner basis side by side.
 
-Run:  python benchmarks/bench_tracker.py [--quick] [--sympy-seconds 20]
+Run:  python benchmarks/bench_tracker.py [--quick | --large] [--sympy-seconds 20] [--repeats 3]
 
 Per problem: paths, distinct solutions found against the expected count,
 failed paths, median and max steps per path, paths per second, and the cost
 per path in units. One unit is the time of one batched evaluation of H and its
 Jacobian plus one batched linear solve for all P paths of the run, divided by
-P, measured in the same run, so the figure means the same on any machine.
+P, measured in the same run (best of nine), so the figure means the same on any
+machine. Families with at least 1,000 paths are solved three times and the best
+time kept.
 Where sympy's Groebner basis finishes within the time limit on the same
 system (in a child process that is terminated on time-out), its time and
 count go in the same row, with the ratio.
@@ -52,12 +54,12 @@ def unit_seconds(system, seed):
     s = np.full(len(points), 0.5 + 0.0j)
     timings = []
     with threadpool_limits(limits=1):
-        for _ in range(7):
+        for _ in range(9):
             start = time.perf_counter()
             values, jacobian, derivative = homotopy.evaluate(points, s)
             np.linalg.solve(jacobian, derivative[..., None])
             timings.append(time.perf_counter() - start)
-    return float(np.median(timings))
+    return float(np.min(timings))  # best of nine: the machine is shared, its noise only adds time
 
 
 def _sympy_count(equations, variables, queue):
@@ -90,17 +92,28 @@ def main():
     parser = argparse.ArgumentParser(description=__doc__, formatter_class=argparse.RawDescriptionHelpFormatter)
     parser.add_argument("--quick", action="store_true", help="small problems only")
     parser.add_argument("--sympy-seconds", type=float, default=20.0)
+    parser.add_argument("--repeats", type=int, default=3, help="runs of the families with >= 1,000 paths")
+    parser.add_argument("--large", action="store_true", help="only the dense families with >= 1,000 paths")
     args = parser.parse_args()
     problems = [dense_system(n, 2, n) for n in ([2, 4, 6] if args.quick else [2, 4, 6, 8, 10, 12])]
     problems += [dense_system(n, 3, 100 + n) for n in ([2, 3] if args.quick else [2, 3, 4, 5, 6])]
     problems += [chain_system(n) for n in ([4, 6] if args.quick else [4, 6, 8, 10])]
+    if args.large:
+        problems = [(system, expected) for system, expected in problems
+                    if expected >= 1000 and system.name.startswith("dense")]
     header = (f"{'problem':18} {'paths':>6} {'found':>6} {'expect':>6} {'failed':>6} {'med st':>6} {'max st':>6} "
               f"{'paths/s':>8} {'units/path':>10} {'sympy s':>8} {'sympy #':>7} {'ratio':>7}")
     print(header)
     print("-" * len(header))
     total_paths = total_failed = 0
     for system, expected in problems:
-        result = solve_system(system, SolveOptions(), seed=1)
+        # One BLAS thread for the run and for the unit alike. On the families with at least 1,000
+        # paths (where the issue states its goal) the best of three runs is kept: the same seed gives
+        # the same paths, so the runs differ only by the noise of a shared machine.
+        runs = args.repeats if int(np.prod(system.degrees)) >= 1000 else 1
+        with threadpool_limits(limits=1):
+            result = min((solve_system(system, SolveOptions(), seed=1) for _ in range(runs)),
+                         key=lambda r: r.seconds)
         counts = result.path_counts()
         found = sum(s.multiplicity for s in result.solutions)
         unit = unit_seconds(system, 1)
