@@ -1,0 +1,421 @@
+"""Numerical irreducible decomposition of X = V(F) (``numag decompose``) and components through a point.
+
+Per dimension, the witness points from :func:`numag.witness.witness_supersets`
+are split into irreducible components:
+
+* **monodromy**: the slice is moved around a random loop (to a random slice and
+  back, each leg with its own gamma); witness points that swap lie on the same
+  component; the swaps are edges of a networkx graph whose connected components
+  are the candidate groups;
+* **trace test** (Sommese, Verschelde, Wampler, "Symmetric functions applied to
+  decomposing solution sets of polynomial systems", SIAM J. Numer. Anal. 2002):
+  the slice is translated, x -> tr(x) = u . x summed over a complete component is
+  linear in the translation, so the defect tr(+1) + tr(-1) - 2 tr(0) of a group
+  vanishes exactly when the group is a union of components. Defects are
+  computed once per point and add up over groups, so the loops stop as soon as
+  every group is confirmed, and groups that monodromy has not yet joined can be
+  joined by the test alone.
+* **non-reduced components** (rank J below the codimension at their witness
+  points) are deflated first: random minors of J of the size rank + 1 are added
+  to the equations (isosingular deflation, Hauenstein and Wampler, "Isosingular
+  sets and deflation", Found. Comput. Math. 2013) until the Jacobian has full
+  rank there, so that the witness points can be moved.
+
+Examples
+--------
+>>> from numag.parse import parse_system
+>>> system = parse_system(["x*z", "y*z"], ["x", "y", "z"])
+>>> result = decompose(system, seed=1)
+>>> [(c.dimension, c.degree) for c in result.components]
+[(2, 1), (1, 1)]
+"""
+
+from dataclasses import dataclass, field
+import itertools
+import time
+
+import networkx as nx
+import numpy as np
+from scipy.spatial import cKDTree
+
+from .errors import InputError
+from .evaluate import BatchEvaluator
+from .polynomial import Polynomial
+from .witness import (WitnessOptions, combine_equations, jacobian_rank, linear_form, membership, random_rows,
+                      track_moves, witness_supersets)
+
+__all__ = ["Component", "Decomposition", "DecomposeOptions", "decompose", "components_through"]
+
+
+@dataclass(frozen=True)
+class DecomposeOptions:
+    """Options of :func:`decompose` (defaults declared once).
+
+    Attributes
+    ----------
+    witness : WitnessOptions
+    max_loops : int
+        Monodromy loops per dimension before the unconfirmed groups are reported as such.
+    stall_loops : int
+        Loops without a new swap after which groups are joined by the trace test alone.
+    trace_tolerance : float
+        Relative size of a trace defect that counts as zero.
+    """
+
+    witness: WitnessOptions = WitnessOptions()
+    max_loops: int = 60
+    stall_loops: int = 6
+    trace_tolerance: float = 1e-6
+
+
+@dataclass
+class Component:
+    """One irreducible component of X.
+
+    Attributes
+    ----------
+    id : int
+        1, 2, ... from the top dimension down.
+    dimension, degree : int
+    points : ndarray, shape (degree, n)
+        Witness points on :attr:`slice_rows` (for dimension 0: the point itself).
+    real : ndarray of bool, shape (degree,)
+        Witness points with negligible imaginary parts (real coefficients only). For a
+        positive-dimensional component, False everywhere means no real witness point was
+        found on this slice, not that the component has no real points.
+    multiplicity : int
+        Paths that ended at each witness point (1 for a generically reduced component).
+    reduced : bool
+        True when rank J = n - dimension at the witness points.
+    slice_rows : ndarray, shape (dimension, n + 1)
+        Hyperplanes a . (1, x) = 0 of the witness points.
+    confirmed : bool
+        The trace test confirmed the group complete (always true for degree 1).
+    trace_defect : float
+        Relative trace defect of the group (0 for degree 1).
+    """
+
+    id: int
+    dimension: int
+    degree: int
+    points: np.ndarray
+    real: np.ndarray
+    multiplicity: int
+    reduced: bool
+    slice_rows: np.ndarray
+    confirmed: bool = True
+    trace_defect: float = 0.0
+
+
+@dataclass
+class Decomposition:
+    """Result of :func:`decompose`.
+
+    Attributes
+    ----------
+    system : PolynomialSystem
+    components : list of Component
+    dimensions_searched : list of int
+    paths : dict
+        Tracked paths by status, and what became of their endpoints.
+    loops : dict
+        Monodromy loops run per dimension.
+    seed : int
+    seconds : float
+    """
+
+    system: object
+    components: list
+    dimensions_searched: list
+    paths: dict
+    loops: dict
+    seed: int
+    seconds: float
+    extra: dict = field(default_factory=dict)
+
+    @property
+    def unconfirmed(self):
+        """Components the trace test did not confirm."""
+        return [c for c in self.components if not c.confirmed]
+
+    def dimension(self):
+        """Dimension of X (-1 when X is empty on the dimensions searched)."""
+        return max((c.dimension for c in self.components), default=-1)
+
+
+def _random_minor(polynomials, size, rng, n):
+    """det(A J B) for random A (size x m), B (n x size): a random combination of the size-minors of J."""
+    m = len(polynomials)
+    a = rng.standard_normal((size, m)) + 1j * rng.standard_normal((size, m))
+    b = rng.standard_normal((n, size)) + 1j * rng.standard_normal((n, size))
+    gradients = [[p.derivative(j) for j in range(n)] for p in polynomials]
+    entries = []
+    for r in range(size):
+        row = []
+        for s in range(size):
+            total = Polynomial.zero(n)
+            for i in range(m):
+                for j in range(n):
+                    weight = complex(a[r, i] * b[j, s])
+                    if not gradients[i][j].is_zero():
+                        total = total + gradients[i][j] * weight
+            row.append(total)
+        entries.append(row)
+    determinant = Polynomial.zero(n)
+    for permutation in itertools.permutations(range(size)):
+        sign = 1
+        for i in range(size):
+            for j in range(i + 1, size):
+                if permutation[i] > permutation[j]:
+                    sign = -sign
+        term = Polynomial.constant(complex(sign), n)
+        for r in range(size):
+            term = term * entries[r][permutation[r]]
+        determinant = determinant + term
+    return determinant
+
+
+def holding_equations(system, codimension, points, rng, threshold=1e-6, max_rounds=4):
+    """Affine equations with X's components through ``points`` among their solutions, of full rank there.
+
+    The system itself when rank J = codimension at every point; otherwise random
+    minors of J (size rank + 1) are added until it is (isosingular deflation).
+
+    Returns
+    -------
+    list of Polynomial
+        Affine numeric polynomials.
+    bool
+        True when deflation was needed.
+    """
+    n = system.n_variables
+    equations = [p.numeric() for p in system.polynomials]
+    deflated = False
+    points = np.atleast_2d(points)
+    for _ in range(max_rounds):
+        evaluator = BatchEvaluator(equations)
+        norms = np.array([p.coefficient_norm() for p in equations])
+        degrees = np.array([p.degree for p in equations])
+        ranks = jacobian_rank(evaluator, norms, degrees, points, threshold) if len(points) else np.array([codimension])
+        low = int(ranks.min())
+        if low >= codimension:
+            break
+        deflated = True
+        for _ in range(codimension - low):
+            minor = _random_minor(equations, low + 1, rng, n)
+            if not minor.is_zero():
+                equations.append(minor * (1.0 / minor.coefficient_norm()))
+    return equations, deflated
+
+
+class _Mover:
+    """Moves the witness points of one dimension between slices, on the held equations."""
+
+    def __init__(self, system, codimension, points, slice_rows, rng, options, counts):
+        self.n = system.n_variables
+        self.codimension = codimension
+        self.rng = rng
+        self.options = options
+        self.counts = counts
+        equations, self.deflated = holding_equations(system, codimension, points, rng,
+                                                     options.witness.rank_threshold)
+        self.held = combine_equations([p.homogenize(0) for p in equations], codimension, rng)
+        self.slice_rows = slice_rows
+
+    def move(self, points, from_rows, to_rows):
+        start = self.held + [linear_form(r) for r in from_rows]
+        target = self.held + [linear_form(r) for r in to_rows]
+        ends, _, _ = track_moves(start, target, points, self.rng, self.options.witness.tracker, self.counts,
+                                 self.options.witness.batch_size)
+        return ends
+
+
+def _match(ends, points, tolerance):
+    """Index of the point each endpoint landed on (-1: none within the tolerance)."""
+    result = np.full(len(ends), -1, dtype=np.int64)
+    good = np.all(np.isfinite(ends), axis=1)
+    if not np.any(good):
+        return result
+    tree = cKDTree(np.column_stack([points.real, points.imag]))
+    query = ends[good]
+    distance, index = tree.query(np.column_stack([query.real, query.imag]))
+    scale = 1 + np.linalg.norm(points[index], axis=1)
+    result[np.nonzero(good)[0]] = np.where(distance <= tolerance * scale, index, -1)
+    return result
+
+
+def _trace_defects(mover, points, rng, tolerance):
+    """Per-point trace defects tr(+1) + tr(-1) - 2 tr(0) for a random translation of the slice, and a scale."""
+    rows = mover.slice_rows
+    for _ in range(3):  # a failed path spoils the defects: try another translation
+        shift = 0.5 * np.exp(2j * np.pi * rng.random(len(rows)))
+        projection = rng.standard_normal(mover.n) + 1j * rng.standard_normal(mover.n)
+        plus, minus = rows.copy(), rows.copy()
+        plus[:, 0] += shift
+        minus[:, 0] -= shift
+        up = mover.move(points, rows, plus)
+        down = mover.move(points, rows, minus)
+        if np.all(np.isfinite(up)) and np.all(np.isfinite(down)):
+            traces = np.column_stack([up @ projection, down @ projection, points @ projection])
+            defects = traces[:, 0] + traces[:, 1] - 2 * traces[:, 2]
+            scale = 1 + np.sum(np.abs(traces))
+            return defects, scale
+    return None, None
+
+
+def _split(mover, points, rng, options, loops_run):
+    """Groups of witness point indices, each confirmed or not, and their relative defects."""
+    count = len(points)
+    graph = nx.Graph()
+    graph.add_nodes_from(range(count))
+    if count == 1:
+        return [([0], True, 0.0)]
+    defects, scale = _trace_defects(mover, points, rng, options.trace_tolerance)
+
+    def status():
+        result = []
+        for group in nx.connected_components(graph):
+            group = sorted(group)
+            if defects is None:
+                result.append((group, False, float("nan")))
+            else:
+                defect = abs(np.sum(defects[group])) / scale
+                result.append((group, defect <= options.trace_tolerance, float(defect)))
+        return result
+
+    quiet = 0
+    loops = 0
+    while loops < options.max_loops:
+        groups = status()
+        if all(done for _, done, _ in groups):
+            break
+        open_points = sorted(i for group, done, _ in groups if not done for i in group)
+        away = random_rows(rng, len(mover.slice_rows), mover.n + 1)
+        there = mover.move(points[open_points], mover.slice_rows, away)
+        good = np.all(np.isfinite(there), axis=1)
+        back = np.full(there.shape, np.nan, dtype=complex)
+        if np.any(good):
+            back[good] = mover.move(there[good], away, mover.slice_rows)
+        landed = _match(back, points, 1e-6)
+        loops += 1
+        before = nx.number_connected_components(graph)
+        for source, target in zip(open_points, landed):
+            if target >= 0:
+                graph.add_edge(int(source), int(target))
+        quiet = quiet + 1 if nx.number_connected_components(graph) == before else 0
+        if quiet >= options.stall_loops and defects is not None:
+            quiet = 0
+            _join_by_trace(graph, status(), defects, scale, options.trace_tolerance)
+    loops_run.append(loops)
+    return status()
+
+
+def _join_by_trace(graph, groups, defects, scale, tolerance):
+    """Join open groups whose defects cancel (a union of groups that is a complete component)."""
+    open_groups = [group for group, done, _ in groups if not done]
+    for size in range(2, min(4, len(open_groups)) + 1):
+        for chosen in itertools.combinations(range(len(open_groups)), size):
+            members = [i for k in chosen for i in open_groups[k]]
+            if abs(np.sum(defects[members])) / scale <= tolerance:
+                for a, b in zip(members, members[1:]):
+                    graph.add_edge(a, b)
+                return
+
+
+def decompose(system, options=None, seed=None, progress=None):
+    """Irreducible components of X = V(F) with dimension, degree and witness points.
+
+    Parameters
+    ----------
+    system : PolynomialSystem
+        Affine system (any number of equations).
+    options : DecomposeOptions, optional
+    seed : int, optional
+        Drawn and recorded when not given.
+    progress : callable, optional
+        ``progress(message)``.
+
+    Returns
+    -------
+    Decomposition
+    """
+    options = options or DecomposeOptions()
+    if seed is None:
+        seed = int(np.random.SeedSequence().entropy % (2**32))
+    started = time.perf_counter()
+    rng = np.random.default_rng(seed)
+    supersets = witness_supersets(system, options.witness, seed=int(rng.integers(2**32)), progress=progress)
+    counts = dict(supersets.paths)
+    move_counts = {}
+    n = system.n_variables
+    real_coefficients = all(np.all(np.abs(p.numeric_coefficients().imag) == 0) for p in system.polynomials)
+    components, loops = [], {}
+    for witness in supersets.sets:
+        if len(witness.points) == 0:
+            continue
+        codimension = n - witness.dimension
+        if progress is not None:
+            progress(f"dimension {witness.dimension}: splitting {len(witness.points)} witness points")
+        if witness.dimension == 0:
+            groups = [([k], True, 0.0) for k in range(len(witness.points))]
+            deflated_reduced = None
+        else:
+            mover = _Mover(system, codimension, witness.points, witness.slice_rows, rng, options, move_counts)
+            run = []
+            groups = _split(mover, witness.points, rng, options, run)
+            loops[witness.dimension] = run[0] if run else 0
+        evaluator = BatchEvaluator([p.numeric() for p in system.polynomials])
+        ranks = jacobian_rank(evaluator, system.coefficient_norms(), np.array(system.degrees), witness.points,
+                              options.witness.rank_threshold)
+        for group, confirmed, defect in groups:
+            points = witness.points[group]
+            real = np.zeros(len(group), dtype=bool)
+            if real_coefficients:
+                real = np.all(np.abs(points.imag) <= 1e-8 * (1 + np.abs(points)), axis=1)
+            components.append(Component(0, witness.dimension, len(group), points, real,
+                                        int(np.max(witness.multiplicity[group])),
+                                        bool(np.all(ranks[group] >= codimension)), witness.slice_rows.copy(),
+                                        bool(confirmed), 0.0 if defect != defect else float(defect)))
+    components.sort(key=lambda c: (-c.dimension, -c.degree))
+    for k, component in enumerate(components, 1):
+        component.id = k
+    counts["tracked"] = counts.get("tracked", 0) + sum(move_counts.values())
+    for label, value in move_counts.items():
+        counts[label] = counts.get(label, 0) + value
+    return Decomposition(system, components, supersets.dimensions_searched, counts, loops, seed,
+                         time.perf_counter() - started)
+
+
+def components_through(decomposition, point, seed=0, options=None):
+    """The components of a decomposition that pass through a point (homotopy membership test).
+
+    Parameters
+    ----------
+    decomposition : Decomposition
+    point : array_like, shape (n,)
+        A point of X (affine).
+    seed : int
+    options : DecomposeOptions, optional
+
+    Returns
+    -------
+    list of Component
+        Highest dimension first; the local dimension of X at the point is the first one's.
+    """
+    options = options or DecomposeOptions()
+    system = decomposition.system
+    point = np.asarray(point, dtype=complex).reshape(-1)
+    if len(point) != system.n_variables:
+        raise InputError(f"the point has {len(point)} coordinates, the system {system.n_variables} variables")
+    rng = np.random.default_rng(seed)
+    n = system.n_variables
+    found = []
+    counts = {}
+    for component in decomposition.components:  # highest dimension first
+        codimension = n - component.dimension
+        equations, _ = holding_equations(system, codimension, component.points, rng, options.witness.rank_threshold)
+        held = combine_equations([p.homogenize(0) for p in equations], codimension, rng)
+        hits = membership(held, component.slice_rows, component.points, point, rng, options.witness, counts)
+        if np.any(hits):
+            found.append(component)
+    return found
