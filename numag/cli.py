@@ -12,11 +12,15 @@ import argparse
 import sys
 import time
 
+import numpy as np
+
 from . import __version__
 from .errors import NumagError
 from .files import load_points, load_system, parse_point_assignment
-from .report import CAUTION, check_report_to_dict, dumps, solve_report_to_dict
+from .decompose import DecomposeOptions, decompose
+from .report import CAUTION, check_report_to_dict, decomposition_to_dict, dumps, solve_report_to_dict
 from .smoothness import CheckOptions, check_points
+from .witness import WitnessOptions
 from .solve import SolveOptions, solve_system
 
 __all__ = ["main", "build_parser", "EXIT_OK", "EXIT_INTERNAL", "EXIT_INPUT", "EXIT_UNDECIDED"]
@@ -49,7 +53,11 @@ def build_parser():
                             "repeat for several points")
     check.add_argument("--points-file", metavar="JSON", help="a JSON file of points")
     check.add_argument("--local-dimension", type=int, metavar="K",
-                       help="dimension of X at the points (default: assume a complete intersection)")
+                       help="dimension of X at the points (default: computed from the components of X "
+                            "through each point)")
+    check.add_argument("--without-components", action="store_true",
+                       help="do not decompose X: assume a complete intersection unless --local-dimension "
+                            "is given (faster on large systems, wrong on reducible X)")
     check.add_argument("--digits", type=int, default=CheckOptions.max_digits, metavar="D",
                        help="highest precision (decimal digits) for undecided ranks (default %(default)s)")
     check.add_argument("--point-tolerance", type=float, default=CheckOptions.point_tolerance, metavar="T",
@@ -72,6 +80,19 @@ def build_parser():
     solve.add_argument("--seed", type=int, help="seed of the random choices (recorded in the report)")
     solve.add_argument("--json", action="store_true", help="print the report as JSON (no progress lines)")
     solve.set_defaults(run=_run_solve)
+
+    parts = commands.add_parser(
+        "decompose", help="irreducible components of X: dimension, degree, witness points",
+        description="Witness sets of every dimension (regenerative cascade), split into irreducible "
+                    "components by monodromy loops confirmed by the trace test.")
+    parts.add_argument("system_file", metavar="FILE", help="system file (TOML, affine)")
+    parts.add_argument("--lowest-dimension", type=int, metavar="K",
+                       help="do not search components of dimension below K (default: down to points)")
+    parts.add_argument("--max-loops", type=int, default=DecomposeOptions.max_loops, metavar="N",
+                       help="monodromy loops per dimension before giving up confirming (default %(default)s)")
+    parts.add_argument("--seed", type=int, help="seed of the random choices (recorded in the report)")
+    parts.add_argument("--json", action="store_true", help="print the report as JSON (no progress lines)")
+    parts.set_defaults(run=_run_decompose)
     return parser
 
 
@@ -115,6 +136,9 @@ def _print_check(report, out):
             out.write(f"  nearest point found where the rank drops: "
                       f"{_format_point(system.variables, v.nearest_rank_drop)} "
                       f"(distance {v.nearest_rank_drop_distance:.3g})\n")
+        if v.components:
+            names = ", ".join(f"{c['id']} (dimension {c['dimension']}, degree {c['degree']})" for c in v.components)
+            out.write(f"  components of X through the point: {names}\n")
         for note in v.notes:
             out.write(f"  note: {note}\n")
     counts = ", ".join(f"{n} {c}" for n, c in report.counts().items())
@@ -131,7 +155,12 @@ def _run_check(args, out):
         raise NumagError("no points to check: give --point x=..,y=.. or --points-file FILE.json")
     options = CheckOptions(local_dimension=args.local_dimension, point_tolerance=args.point_tolerance,
                            max_digits=args.digits)
-    report = check_points(system, points, options, seed=args.seed)
+    options.validated(system)
+    decomposition = None
+    seed = args.seed if args.seed is not None else int(np.random.SeedSequence().entropy % (2**32))
+    if args.local_dimension is None and not args.without_components and not system.projective:
+        decomposition = decompose(system, seed=seed, progress=_Messages(args.json))
+    report = check_points(system, points, options, seed=seed, decomposition=decomposition)
     if args.json:
         out.write(dumps(check_report_to_dict(report)) + "\n")
     else:
@@ -157,6 +186,60 @@ class _Progress:
         left = (total - done) / rate if rate > 0 else float("inf")
         sys.stderr.write(f"numag: {done}/{total} paths ({100 * done / total:.0f}%), {rate:.0f} paths/s, "
                          f"about {left:.0f} s left\n")
+
+
+class _Messages:
+    """Progress messages on standard error for runs longer than a couple of seconds."""
+
+    def __init__(self, quiet):
+        self.quiet = quiet
+        self.started = time.perf_counter()
+
+    def __call__(self, message):
+        now = time.perf_counter() - self.started
+        if not self.quiet and now >= 2.0:
+            sys.stderr.write(f"numag: {message} ({now:.0f} s)\n")
+
+
+def _print_decompose(result, out):
+    system = result.system
+    counts = result.paths
+    out.write(f"numag decompose: {system.name or 'system'}: {system.n_equations} equation(s) in "
+              f"{system.n_variables} variables, seed {result.seed}\n")
+    searched = result.dimensions_searched
+    out.write(f"dimensions searched: {searched[0]} down to {searched[-1]}\n")
+    failed = sum(counts.get(label, 0) for label in ("minimum_step", "step_limit", "non_finite",
+                                                     "endgame_unsettled"))
+    out.write(f"paths: {counts.get('tracked', 0)} tracked, {failed} failed; endpoints not on X "
+              f"{counts.get('not_on_X', 0)}, at infinity or lost {counts.get('at_infinity_or_failed', 0)}, "
+              f"on a larger component (removed) {counts.get('on_larger_component', 0)}; "
+              f"{result.seconds:.2f} s\n")
+    out.write(f"\n{len(result.components)} irreducible component(s)\n")
+    for c in result.components:
+        kind = "reduced" if c.reduced else f"non-reduced (multiplicity {c.multiplicity})"
+        sure = "confirmed by the trace test" if c.confirmed else "NOT confirmed (trace test failed)"
+        real = int(sum(c.real))
+        out.write(f"  {c.id:4d}  dimension {c.dimension}  degree {c.degree}  {kind}  {sure}  "
+                  f"{real} real witness point(s)\n")
+        out.write(f"        e.g. {_format_point(system.variables, c.points[0])}\n")
+    if result.unconfirmed:
+        out.write(f"\nwarning: {len(result.unconfirmed)} group(s) not confirmed: raise --max-loops or change "
+                  "--seed\n")
+    out.write(f"\n{CAUTION}\n")
+
+
+def _run_decompose(args, out):
+    system = load_system(args.system_file)
+    options = DecomposeOptions(witness=WitnessOptions(lowest_dimension=args.lowest_dimension),
+                               max_loops=args.max_loops)
+    if args.max_loops < 1:
+        raise NumagError(f"--max-loops must be positive, got {args.max_loops}")
+    result = decompose(system, options, seed=args.seed, progress=_Messages(args.json))
+    if args.json:
+        out.write(dumps(decomposition_to_dict(result, options)) + "\n")
+    else:
+        _print_decompose(result, out)
+    return EXIT_UNDECIDED if result.unconfirmed else EXIT_OK
 
 
 def _print_solve(result, out):

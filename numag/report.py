@@ -27,10 +27,12 @@ import numpy as np
 from . import __version__
 from .errors import InputError
 from .files import system_from_mapping
+from .decompose import Component, Decomposition, DecomposeOptions
 from .linalg import RankEvidence
 from .smoothness import CheckOptions, CheckReport, PointVerdict
 from .solve import Solution, SolveOptions, SolveResult
-from .tracker import PathStatus, TrackerOptions
+from .tracker import FAILURE_LABELS, PathStatus, TrackerOptions
+from .witness import WitnessOptions
 
 __all__ = ["CAUTION", "encode_point", "decode_point", "empty_path_counts", "system_to_dict",
            "check_report_to_dict", "check_report_from_dict", "dumps", "loads_check_report",
@@ -105,6 +107,7 @@ def _verdict_to_dict(v):
         "nearest_rank_drop": None if v.nearest_rank_drop is None else encode_point(v.nearest_rank_drop),
         "nearest_rank_drop_distance": _encode_float(v.nearest_rank_drop_distance),
         "notes": list(v.notes),
+        "components": [dict(c) for c in v.components],
     }
 
 
@@ -116,7 +119,8 @@ def _verdict_from_dict(d):
         local_dimension=d["local_dimension"], local_dimension_source=d["local_dimension_source"],
         evidence=_evidence_from_dict(d["evidence"]),
         nearest_rank_drop=None if d["nearest_rank_drop"] is None else decode_point(d["nearest_rank_drop"]),
-        nearest_rank_drop_distance=_decode_float(d["nearest_rank_drop_distance"]), notes=list(d["notes"]))
+        nearest_rank_drop_distance=_decode_float(d["nearest_rank_drop_distance"]), notes=list(d["notes"]),
+        components=[dict(c) for c in d.get("components", [])])
 
 
 def check_report_to_dict(report):
@@ -244,4 +248,74 @@ def solve_report_from_dict(data):
         evaluations=int(data["evaluations"]), squared_up=bool(data["squared_up"]),
         digits=np.array(data["path_digits"], dtype=np.int64),
         discarded=[_solution_from_dict(d) for d in data["discarded"]])
+    return result, options
+
+
+# --- decompose -----------------------------------------------------------------------------------
+
+_ENDPOINT_KEYS = ("not_on_X", "at_infinity_or_failed", "on_larger_component", "membership_paths")
+
+
+def decomposition_path_counts(counts):
+    """The ``paths`` block of a decomposition: counts by status (adding up) and what became of endpoints."""
+    by_reason = {label: int(counts.get(label, 0)) for label in FAILURE_LABELS}
+    return {
+        "tracked": int(counts.get("tracked", 0)),
+        "converged": int(counts.get("converged", 0)),
+        "singular_endpoint": int(counts.get("singular_endpoint", 0)),
+        "at_infinity": int(counts.get("at_infinity", 0)),
+        "failed": int(sum(by_reason.values())),
+        "failed_by_reason": by_reason,
+        "endpoints": {key: int(counts.get(key, 0)) for key in _ENDPOINT_KEYS},
+    }
+
+
+def _decomposition_component(c):
+    return {"id": c.id, "dimension": c.dimension, "degree": c.degree,
+            "points": [encode_point(p) for p in c.points], "real": [bool(r) for r in c.real],
+            "multiplicity": c.multiplicity, "reduced": c.reduced, "at_infinity": False,
+            "formulation": "witness set", "confirmed": c.confirmed, "trace_defect": _encode_float(c.trace_defect),
+            "slice": [encode_point(row) for row in c.slice_rows]}
+
+
+def decomposition_to_dict(result, options):
+    """A :class:`~numag.decompose.Decomposition` as the JSON envelope."""
+    return {
+        "numag_version": __version__,
+        "command": "decompose",
+        "seed": result.seed,
+        "system": system_to_dict(result.system),
+        "options": {"lowest_dimension": options.witness.lowest_dimension, "max_loops": options.max_loops,
+                    "trace_tolerance": options.trace_tolerance},
+        "dimensions_searched": list(result.dimensions_searched),
+        "paths": decomposition_path_counts(result.paths),
+        "monodromy_loops": {str(k): int(v) for k, v in result.loops.items()},
+        "components": [_decomposition_component(c) for c in result.components],
+        "unconfirmed": len(result.unconfirmed),
+        "seconds": result.seconds,
+        "caution": CAUTION,
+    }
+
+
+def decomposition_from_dict(data):
+    """Rebuild a :class:`~numag.decompose.Decomposition` (and its options) from its JSON envelope."""
+    system = _report_system(data, "decompose")
+    o = data["options"]
+    options = DecomposeOptions(witness=WitnessOptions(lowest_dimension=o["lowest_dimension"]),
+                               max_loops=int(o["max_loops"]), trace_tolerance=float(o["trace_tolerance"]))
+    n = system.n_variables
+    components = []
+    for d in data["components"]:
+        points = np.array([decode_point(p) for p in d["points"]], dtype=complex).reshape(-1, n)
+        rows = np.array([decode_point(r) for r in d["slice"]], dtype=complex).reshape(-1, n + 1)
+        components.append(Component(int(d["id"]), int(d["dimension"]), int(d["degree"]), points,
+                                    np.array(d["real"], dtype=bool), int(d["multiplicity"]), bool(d["reduced"]),
+                                    rows, bool(d["confirmed"]), _decode_float(d["trace_defect"])))
+    paths = data["paths"]
+    counts = {key: paths[key] for key in ("tracked", "converged", "singular_endpoint", "at_infinity")}
+    counts.update(paths["failed_by_reason"])
+    counts.update(paths["endpoints"])
+    result = Decomposition(system, components, list(data["dimensions_searched"]), counts,
+                           {int(k): int(v) for k, v in data["monodromy_loops"].items()}, data["seed"],
+                           float(data["seconds"]))
     return result, options

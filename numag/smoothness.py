@@ -42,6 +42,7 @@ import math
 import mpmath
 import numpy as np
 
+from .decompose import components_through
 from .errors import InputError, PointError
 from .evaluate import BatchEvaluator, PrecisionEvaluator
 from .exact import ExactCoefficient
@@ -150,6 +151,9 @@ class PointVerdict:
     nearest_rank_drop_distance : float or None
     notes : list of str
         Assumptions and caveats a reader needs.
+    components : list of dict
+        The components of X through the point (``id``, ``dimension``, ``degree``), when the
+        local dimension came from a decomposition.
     """
 
     index: int
@@ -167,6 +171,7 @@ class PointVerdict:
     nearest_rank_drop: object = None
     nearest_rank_drop_distance: object = None
     notes: list = field(default_factory=list)
+    components: list = field(default_factory=list)
 
 
 @dataclass
@@ -252,10 +257,14 @@ class _Checker:
         return self.options.point_tolerance * _size(given)
 
     # -- local dimension -------------------------------------------------------------------------
-    def codimension(self, rank):
+    def codimension(self, rank, through=None):
         ambient = self.system.ambient_dimension
         if self.options.local_dimension is not None:
             return ambient - int(self.options.local_dimension), "given"
+        if through:
+            top = max(c.dimension for c in through)
+            names = ", ".join(f"{c.id} (dimension {c.dimension}, degree {c.degree})" for c in through)
+            return ambient - top, f"components through the point: {names}"
         if self.m <= ambient:
             if rank == self.m:  # independent equations: a smooth complete intersection, no assumption
                 return self.m, "complete intersection (Jacobian of full rank)"
@@ -352,12 +361,15 @@ class _Checker:
                     return False
         return True
 
-    def check(self, index, given, exact_given, refined, residual, values, scales):
+    def check(self, index, given, exact_given, refined, residual, values, scales, through=None):
         opts = self.options
         double_zero = zero_tolerance(DOUBLE_DIGITS, (self.m, self.n))
         rank = numerical_rank(values, double_zero)
-        codim, source = self.codimension(rank)
+        codim, source = self.codimension(rank, through)
         notes = []
+        if through is not None and not through and opts.local_dimension is None:
+            notes.append("The decomposition found no component through this point (it may lie below the "
+                         "lowest dimension searched); the local dimension falls back to the rule below.")
         if source == "complete intersection (assumed)":
             notes.append(f"Local dimension from the assumption that X is a complete intersection at the point "
                          f"(codimension = {self.m} equations); give the local dimension if it is not.")
@@ -392,6 +404,19 @@ class _Checker:
             notes.append("The rank also drops at every sampled nearby point of X: the equations define X "
                          "with multiplicity > 1 here (generically non-reduced), so the Jacobian cannot see "
                          "whether the underlying variety is smooth. This is a sampling test, not a proof.")
+        thick = [c for c in (through or []) if not c.reduced]
+        if thick and len(through) == 1 and opts.local_dimension is None and verdict == "singular":
+            verdict = "non-reduced"
+        for c in thick:
+            notes.append(f"Component {c.id} is generically non-reduced (the Jacobian has rank below its codimension "
+                         f"at its witness points; {c.multiplicity} paths end at each): the equations define it "
+                         "with multiplicity > 1.")
+        if through and len(through) > 1 and opts.local_dimension is None:
+            if verdict != "singular":
+                verdict = "singular"
+            ids = ", ".join(str(c.id) for c in through)
+            notes.append(f"The point lies on {len(through)} components of X (ids {ids}): where components meet, "
+                         "X is not locally irreducible, so the point is singular whatever the rank.")
         if verdict in ("singular", "non-reduced") and self.m > 1:
             notes.append(_AS_GIVEN)
         point = np.asarray(outcome["point"], dtype=complex)
@@ -410,7 +435,8 @@ class _Checker:
             local_dimension=local, local_dimension_source=source, evidence=evidence,
             nearest_rank_drop=None if drop is None else (normalize_projective(drop) if self.system.projective
                                                          else np.asarray(drop)),
-            nearest_rank_drop_distance=outcome["drop_distance"], notes=notes)
+            nearest_rank_drop_distance=outcome["drop_distance"], notes=notes,
+            components=[{"id": c.id, "dimension": c.dimension, "degree": c.degree} for c in (through or [])])
 
 
 def _as_points(points, system):
@@ -447,7 +473,7 @@ def _as_points(points, system):
     return np.array(complex_points, dtype=complex).reshape(len(complex_points), system.n_variables), exact_points
 
 
-def check_points(system, points, options=None, seed=None):
+def check_points(system, points, options=None, seed=None, decomposition=None):
     """Smooth or singular? The Jacobian criterion at each point, with its evidence.
 
     Parameters
@@ -459,6 +485,11 @@ def check_points(system, points, options=None, seed=None):
     options : CheckOptions, optional
     seed : int, optional
         Seed for the random choices; drawn and recorded when not given.
+    decomposition : Decomposition, optional
+        Components of X (:func:`numag.decompose.decompose`): the local dimension at each
+        point is then the largest dimension of the components through it (homotopy
+        membership test), and a point on two components is singular. Without it (or with
+        ``options.local_dimension``), the rules of :class:`CheckOptions` apply.
 
     Returns
     -------
@@ -503,6 +534,9 @@ def check_points(system, points, options=None, seed=None):
                    f"did not reach X (scaled residual {projection.residuals[k]:.3g} after refinement)"),
                 k + 1)
     values, scales = checker.scaled_values_double(refined)
-    verdicts = [checker.check(k + 1, given[k], exact[k], refined[k], float(residual_given[k]), values[k], scales[k])
-                for k in range(len(given))]
+    through = [None] * len(given)
+    if decomposition is not None and options.local_dimension is None:
+        through = [components_through(decomposition, refined[k], seed=seed + k) for k in range(len(given))]
+    verdicts = [checker.check(k + 1, given[k], exact[k], refined[k], float(residual_given[k]), values[k], scales[k],
+                              through[k]) for k in range(len(given))]
     return CheckReport(system, verdicts, options, seed)

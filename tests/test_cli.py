@@ -37,8 +37,38 @@ def test_check_json_output_and_points_file():
 def test_undecided_exit_code(tmp_path):
     path = tmp_path / "axes.toml"
     path.write_text('variables = ["x", "y", "z"]\nequations = ["x*y", "x*z", "y*z", "x*y*z"]\n')
-    code, _ = run(["check", str(path), "--point", "x=0,y=0,z=1"])
+    code, _ = run(["check", str(path), "--point", "x=0,y=0,z=1", "--without-components"])
     assert code == EXIT_UNDECIDED
+
+
+def test_check_finds_the_local_dimension_itself(tmp_path):
+    # The three coordinate axes: a point of one axis is smooth, the origin where they meet is
+    # singular (common practice, no source). More equations than dimensions: without the
+    # components the local dimension is unknown (previous test).
+    path = tmp_path / "axes.toml"
+    path.write_text('variables = ["x", "y", "z"]\nequations = ["x*y", "x*z", "y*z", "x*y*z"]\n')
+    code, text = run(["check", str(path), "--point", "x=0,y=0,z=1", "--point", "x=0,y=0,z=0", "--json",
+                      "--seed", "4"])
+    data = json.loads(text)
+    assert code == EXIT_OK
+    assert [p["verdict"] for p in data["points"]] == ["smooth", "singular"]
+    assert [c["dimension"] for c in data["points"][0]["components"]] == [1]
+    assert len(data["points"][1]["components"]) == 3
+
+
+def test_decompose_command(tmp_path):
+    # A plane and a line through it (the example; common practice, no source).
+    path = tmp_path / "plane_line.toml"
+    path.write_text('variables = ["x", "y", "z"]\nequations = ["x*z", "y*z"]\n')
+    code, text = run(["decompose", str(path), "--json", "--seed", "3"])
+    data = json.loads(text)
+    assert code == EXIT_OK and data["seed"] == 3 and data["command"] == "decompose"
+    assert [(c["dimension"], c["degree"]) for c in data["components"]] == [(2, 1), (1, 1)]
+    assert data["paths"]["failed"] == 0 and data["dimensions_searched"] == [3, 2, 1, 0]
+    code, text = run(["decompose", str(path), "--seed", "3"])
+    assert code == EXIT_OK and "2 irreducible component(s)" in text and "dimension 2  degree 1" in text
+    code, _ = run(["decompose", str(path), "--lowest-dimension", "7"])
+    assert code == EXIT_INPUT
 
 
 @pytest.mark.parametrize("argv, fragment", [
