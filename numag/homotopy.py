@@ -254,7 +254,11 @@ class ParameterHomotopy(_PatchedHomotopy):
         if len(self.target) + 1 != self.size or len(self.start_polynomials) != len(self.target):
             raise InputError("start and target must be square systems of the same size")
         self.evaluator = BatchEvaluator(self.target)
-        self.start_evaluator = BatchEvaluator(self.start_polynomials)
+        # Rows equal in start and target (equations held fixed while slices move) are evaluated once.
+        self._moving = np.array([k for k, (a, b) in enumerate(zip(self.start_polynomials, self.target))
+                                 if not (a is b or a == b)], dtype=np.int64)
+        self.start_evaluator = (BatchEvaluator([self.start_polynomials[k] for k in self._moving])
+                                if len(self._moving) else None)
         self.evaluations = 0
         self.value_evaluations = 0
         self._precise = None
@@ -302,16 +306,20 @@ class ParameterHomotopy(_PatchedHomotopy):
         self.evaluations += 1
         count, size = len(points), self.size
         f_values, f_jac = self.evaluator.evaluate(points)
-        g_values, g_jac = self.start_evaluator.evaluate(points)
         tau, dtau = self._tau(np.asarray(s, dtype=complex))
         values = np.empty((count, size), dtype=complex)
-        values[:, :-1] = (1 - tau)[:, None] * f_values + tau[:, None] * g_values
+        values[:, :-1] = f_values
         values[:, -1] = points @ self.patch - 1
         jacobian = np.empty((count, size, size), dtype=complex)
-        jacobian[:, :-1, :] = (1 - tau)[:, None, None] * f_jac + tau[:, None, None] * g_jac
+        jacobian[:, :-1, :] = f_jac
         jacobian[:, -1, :] = self.patch
         derivative = np.zeros((count, size), dtype=complex)
-        derivative[:, :-1] = (g_values - f_values) * dtau[:, None]
+        moving = self._moving
+        if len(moving):
+            g_values, g_jac = self.start_evaluator.evaluate(points)
+            values[:, moving] = (1 - tau)[:, None] * f_values[:, moving] + tau[:, None] * g_values
+            jacobian[:, moving, :] = (1 - tau)[:, None, None] * f_jac[:, moving, :] + tau[:, None, None] * g_jac
+            derivative[:, moving] = (g_values - f_values[:, moving]) * dtau[:, None]
         return values, jacobian, derivative
 
     def evaluate_values(self, points, s):
@@ -319,8 +327,11 @@ class ParameterHomotopy(_PatchedHomotopy):
         self.value_evaluations += 1
         tau, _ = self._tau(np.asarray(s, dtype=complex))
         values = np.empty((len(points), self.size), dtype=complex)
-        values[:, :-1] = (1 - tau)[:, None] * self.evaluator.evaluate(points, jacobian=False) \
-            + tau[:, None] * self.start_evaluator.evaluate(points, jacobian=False)
+        values[:, :-1] = self.evaluator.evaluate(points, jacobian=False)
+        moving = self._moving
+        if len(moving):
+            values[:, moving] = (1 - tau)[:, None] * values[:, moving] \
+                + tau[:, None] * self.start_evaluator.evaluate(points, jacobian=False)
         values[:, -1] = points @ self.patch - 1
         return values
 

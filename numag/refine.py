@@ -25,11 +25,12 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from .evaluate import PrecisionEvaluator
+from .evaluate import BatchEvaluator, PrecisionEvaluator
 from .linalg import (batched_least_squares, jacobian_row_scales, mp_least_squares,
-                     mp_right_singular_vectors, residual_scales)
+                     mp_right_singular_vectors, residual_scales, scaled_singular_values)
+from .polynomial import Polynomial, PolynomialSystem
 
-__all__ = ["ProjectionResult", "project_to_variety", "mp_gauss_newton", "RankDropSystem"]
+__all__ = ["ProjectionResult", "project_to_variety", "mp_gauss_newton", "RankDropSystem", "IsolationTest"]
 
 
 @dataclass
@@ -281,3 +282,64 @@ class RankDropSystem:
     def point_of(self, z):
         """The coordinates part of an unknown vector, as complex numbers."""
         return np.array([complex(z[j]) for j in range(self.n)])
+
+
+class IsolationTest:
+    """Is a singular endpoint isolated? Slice through a point moved along the kernel of J.
+
+    The point is moved by a small distance along a random direction d of the
+    numerical kernel of J, and F is solved together with the hyperplane through
+    the moved point orthogonal to d. A positive-dimensional solution set through
+    the point (tangent to the kernel) crosses that hyperplane nearby, so Gauss-Newton
+    converges; at an isolated solution, however multiple, the hyperplane misses it
+    and the residual stays of the order of a power of the distance. "Not isolated" is
+    positive evidence (a nearby solution off the point was found); "isolated" means
+    eight tries found none.
+
+    Parameters
+    ----------
+    system : PolynomialSystem
+        Affine, at least as many equations as unknowns near the point.
+    rng : numpy.random.Generator
+
+    Examples
+    --------
+    >>> import numpy as np
+    >>> from numag.parse import parse_system
+    >>> rng = np.random.default_rng(0)
+    >>> IsolationTest(parse_system(["x*y", "x*z"], ["x", "y", "z"]), rng).isolated(np.zeros(3))
+    False
+    >>> IsolationTest(parse_system(["x^2", "y", "z"], ["x", "y", "z"]), rng).isolated(np.zeros(3))
+    True
+    """
+
+    def __init__(self, system, rng):
+        self.system = system
+        self.rng = rng
+        self.evaluator = BatchEvaluator(system.polynomials)
+
+    def isolated(self, point):
+        system = self.system
+        _, jacobian = self.evaluator.evaluate(point[None, :])
+        scales = jacobian_row_scales(system.coefficient_norms(), system.degrees, point[None, :])
+        values = scaled_singular_values(jacobian, scales)[0]
+        small = system.n_variables - int(np.sum(values > 1e-6))
+        if small == 0:
+            return True
+        _, _, vh = np.linalg.svd(jacobian[0] / scales[0][:, None])
+        kernel = vh[len(vh) - small:].conj().T
+        radius = 1e-3 * (1 + np.linalg.norm(point))
+        for _ in range(8):  # a direction nearly across the set can miss it; eight random tries
+            weights = self.rng.standard_normal(small) + 1j * self.rng.standard_normal(small)
+            direction = kernel @ weights
+            direction /= np.linalg.norm(direction)
+            moved = point + radius * direction
+            # hyperplane conj(d) . x = conj(d) . moved
+            normal = direction.conj()
+            sliced = PolynomialSystem(system.variables, [p.numeric() for p in system.polynomials]
+                                      + [Polynomial.linear(normal, -complex(normal @ moved))])
+            result = project_to_variety(sliced, BatchEvaluator(sliced.polynomials), moved[None, :],
+                                        max_iterations=60)
+            if result.converged[0] and np.linalg.norm(result.points[0] - point) <= 10 * radius:
+                return False
+        return True

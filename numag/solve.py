@@ -31,9 +31,9 @@ from .cluster import cluster_labels, groups
 from .errors import InputError
 from .evaluate import BatchEvaluator, PrecisionEvaluator
 from .homotopy import ParameterHomotopy, StraightLineHomotopy
-from .linalg import jacobian_row_scales, residual_scales, scaled_singular_values
-from .polynomial import Polynomial, PolynomialSystem
-from .refine import mp_gauss_newton, project_to_variety
+from .linalg import residual_scales
+from .polynomial import PolynomialSystem
+from .refine import IsolationTest, mp_gauss_newton
 from .tracker import FAILURE_LABELS, PathStatus, TrackerOptions, track_paths
 
 __all__ = ["SolveOptions", "Solution", "SolveResult", "solve_system", "continue_solutions", "path_counts"]
@@ -202,49 +202,6 @@ def _square_target(system, options, rng):
                          "--square-up to replace them by random combinations (each solution is then checked "
                          "against all equations)")
     return system.random_combinations(expected, rng), True
-
-
-class _IsolationTest:
-    """Is a singular endpoint isolated? Slice through a point moved along the kernel of J.
-
-    The point is moved by a small distance along a random direction d of the
-    numerical kernel of J, and F is solved together with the hyperplane through
-    the moved point orthogonal to d. A positive-dimensional solution set through
-    the point (tangent to the kernel) crosses that hyperplane nearby, so Gauss-Newton
-    converges; at an isolated solution, however multiple, the hyperplane misses it
-    and the residual stays of the order of a power of the distance.
-    """
-
-    def __init__(self, system, rng):
-        self.system = system
-        self.rng = rng
-        self.evaluator = BatchEvaluator(system.polynomials)
-
-    def isolated(self, point):
-        system = self.system
-        _, jacobian = self.evaluator.evaluate(point[None, :])
-        scales = jacobian_row_scales(system.coefficient_norms(), system.degrees, point[None, :])
-        values = scaled_singular_values(jacobian, scales)[0]
-        small = system.n_variables - int(np.sum(values > 1e-6))
-        if small == 0:
-            return True
-        _, _, vh = np.linalg.svd(jacobian[0] / scales[0][:, None])
-        kernel = vh[len(vh) - small:].conj().T
-        radius = 1e-3 * (1 + np.linalg.norm(point))
-        for _ in range(8):  # a direction nearly across the set can miss it; eight random tries
-            weights = self.rng.standard_normal(small) + 1j * self.rng.standard_normal(small)
-            direction = kernel @ weights
-            direction /= np.linalg.norm(direction)
-            moved = point + radius * direction
-            # hyperplane conj(d) . x = conj(d) . moved
-            normal = direction.conj()
-            sliced = PolynomialSystem(system.variables, [p.numeric() for p in system.polynomials]
-                                      + [Polynomial.linear(normal, -complex(normal @ moved))])
-            result = project_to_variety(sliced, BatchEvaluator(sliced.polynomials), moved[None, :],
-                                        max_iterations=60)
-            if result.converged[0] and np.linalg.norm(result.points[0] - point) <= 10 * radius:
-                return False
-        return True
 
 
 def _refine_mp(system, point, digits):
@@ -445,7 +402,7 @@ def _collect(system, endpoints, status, winding, condition, options, rng):
         digits = 16
         isolated = True
         if singular:
-            isolated = _IsolationTest(test_system, rng).isolated(test_point)
+            isolated = IsolationTest(test_system, rng).isolated(test_point)
             if isolated and test_system.n_equations >= test_system.n_variables:
                 test_point = _refine_mp(test_system, np.mean(
                     [finite_points[k] if pivot is None else np.delete(finite_points[k] / finite_points[k][pivot],

@@ -41,7 +41,8 @@ from .errors import InputError
 from .evaluate import BatchEvaluator
 from .homotopy import ParameterHomotopy, random_unit_complex
 from .linalg import jacobian_row_scales, residual_scales, scaled_singular_values
-from .polynomial import Polynomial
+from .polynomial import Polynomial, PolynomialSystem
+from .refine import IsolationTest
 from .tracker import PathStatus, TrackerOptions, track_paths
 
 __all__ = ["WitnessOptions", "WitnessSet", "WitnessSupersets", "witness_supersets", "Slicing", "track_moves",
@@ -450,7 +451,21 @@ def _not_junk(slicing, equations, evaluator, norms, degrees, codim, points, foun
         return keep
     # Full rank codim: the tangent space is too small for a larger component through the point.
     ranks = jacobian_rank(evaluator, norms, degrees, points, options.rank_threshold)
-    for k in np.nonzero(ranks < codim)[0]:
+    suspects = np.nonzero(ranks < codim)[0]
+    if len(suspects) == 0:
+        return keep
+    # A witness point of codimension codim is an isolated point of X_i on its slice; a point of a
+    # larger component is not. The local test finds the curve through a junk point cheaply
+    # (positive evidence); only the points it calls isolated need the homotopy membership test.
+    n = slicing.n
+    sliced = PolynomialSystem([f"x{j}" for j in range(n)], [p.dehomogenize(0) for p in equations]
+                              + [Polynomial.linear(r[1:], r[0]) for r in slicing.slice_rows(codim)])
+    local = IsolationTest(sliced, slicing.rng)
+    for k in suspects:
+        if not local.isolated(points[k]):
+            keep[k] = False
+            counts["junk_by_local_test"] = counts.get("junk_by_local_test", 0) + 1
+            continue
         for c, witness_points in larger:
             before = sum(track_counts.values())
             held = slicing.combinations(equations, c)
