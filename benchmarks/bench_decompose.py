@@ -3,8 +3,9 @@
 Run:  python benchmarks/bench_decompose.py [--quick] [--sympy-seconds 30]
 
 Per problem: unknowns, equations, the components found (dimension:degree)
-against the expected ones, paths tracked (and of them the membership tests that
-remove junk), failed paths, monodromy loops, seconds. The expected answers:
+against the expected ones, paths tracked (and of them the homotopy membership
+tests that remove junk), junk points removed by the local isolation test
+instead, failed paths, monodromy loops, seconds. The expected answers:
 the m x n matrices of rank <= r form one irreducible variety of codimension
 (m - r)(n - r) and degree prod_{i=0}^{n-r-1} (m+i)! i! / ((r+i)! (m-r+i)!)
 (Harris, "Algebraic Geometry: A First Course", Springer 1992, Example 19.10;
@@ -16,9 +17,9 @@ row with the ratio.
 import argparse
 import itertools
 import math
-import multiprocessing
 import time
 
+from reference_timing import run_with_time_limit
 from numag.decompose import decompose
 from numag.polynomial import Polynomial, PolynomialSystem
 
@@ -65,15 +66,8 @@ def _sympy_groebner(texts, names, queue):
 
 
 def sympy_seconds(system, limit):
-    queue = multiprocessing.Queue()
-    process = multiprocessing.Process(target=_sympy_groebner, args=(system.to_texts(), system.variables, queue))
-    process.start()
-    process.join(limit)
-    if process.is_alive():
-        process.terminate()
-        process.join()
-        return None
-    return queue.get() if not queue.empty() else None
+    """Seconds sympy's Groebner basis takes, or None when it does not finish in time."""
+    return run_with_time_limit(_sympy_groebner, (system.to_texts(), system.variables), limit)
 
 
 def main():
@@ -83,7 +77,7 @@ def main():
     args = parser.parse_args()
     shapes = [(2, 3, 1), (3, 3, 1), (3, 4, 2)] + ([] if args.quick else [(3, 4, 1), (4, 4, 2)])
     header = (f"{'problem':16} {'unk':>4} {'eqs':>4} {'found':>12} {'expected':>10} {'paths':>7} {'member':>7} "
-              f"{'failed':>6} {'loops':>5} {'seconds':>8} {'sympy s':>8} {'ratio':>7}")
+              f"{'local':>6} {'failed':>6} {'loops':>5} {'seconds':>8} {'sympy s':>8} {'ratio':>7}")
     print(header)
     print("-" * len(header))
     for rows, cols, rank in shapes:
@@ -97,7 +91,7 @@ def main():
         ratio = f"{reference / result.seconds:7.2f}" if reference else "      -"
         print(f"{system.name:16} {system.n_variables:4d} {system.n_equations:4d} {found:>12} "
               f"{f'{dimension}:{degree}':>10} {paths['tracked']:7d} {paths.get('membership_paths', 0):7d} "
-              f"{failed:6d} {sum(result.loops.values()):5d} {result.seconds:8.2f} "
+              f"{paths.get('junk_by_local_test', 0):6d} {failed:6d} {sum(result.loops.values()):5d} {result.seconds:8.2f} "
               f"{('%8.2f' % reference) if reference else ' timeout':>8} {ratio}", flush=True)
     print("\nfound/expected: dimension:degree of each component. ratio = sympy seconds / numag seconds "
           "(sympy computes only the Groebner basis, not the decomposition).")

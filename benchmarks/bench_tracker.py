@@ -16,12 +16,12 @@ count go in the same row, with the ratio.
 
 import argparse
 import itertools
-import multiprocessing
 import time
 
 import numpy as np
 from threadpoolctl import threadpool_limits
 
+from reference_timing import run_with_time_limit
 from numag.homotopy import StraightLineHomotopy
 from numag.parse import parse_system
 from numag.solve import SolveOptions, solve_system
@@ -77,15 +77,8 @@ def _sympy_count(equations, variables, queue):
 
 def sympy_reference(system, seconds):
     """(seconds, count) from sympy, or (None, None) when it does not finish in time."""
-    queue = multiprocessing.Queue()
-    process = multiprocessing.Process(target=_sympy_count, args=(system.to_texts(), system.variables, queue))
-    process.start()
-    process.join(seconds)
-    if process.is_alive():
-        process.terminate()
-        process.join()
-        return None, None
-    return queue.get() if not queue.empty() else (None, None)
+    found = run_with_time_limit(_sympy_count, (system.to_texts(), system.variables), seconds)
+    return found if found is not None else (None, None)
 
 
 def main():

@@ -5,6 +5,8 @@ The public API in brief:
 * :func:`load_system`, :func:`parse_system` -- read equations (our own grammar, exact coefficients);
 * :func:`check_points` -- the Jacobian criterion at points, with evidence (``numag check``);
 * :func:`solve_system`, :func:`continue_solutions` -- isolated solutions of square systems (``numag solve``);
+* :func:`decompose`, :func:`components_through` -- irreducible components of X with dimension, degree and
+  witness points, and the components through a point (``numag decompose``);
 * :class:`BatchEvaluator` -- F and J at many points at once;
 * :class:`NumagError` -- the root of every error numag raises on purpose.
 
@@ -25,7 +27,8 @@ from .evaluate import BatchEvaluator  # noqa: E402
 from .smoothness import CheckOptions, check_points  # noqa: E402
 from .files import load_system  # noqa: E402
 from .solve import SolveOptions, continue_solutions, solve_system  # noqa: E402
+from .decompose import DecomposeOptions, components_through, decompose  # noqa: E402
 
 __all__ = ["NumagError", "parse_system", "parse_polynomial", "Polynomial", "PolynomialSystem",
            "BatchEvaluator", "CheckOptions", "check_points", "load_system", "SolveOptions", "solve_system",
-           "continue_solutions", "__version__"]
+           "continue_solutions", "DecomposeOptions", "decompose", "components_through", "__version__"]

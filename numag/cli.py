@@ -221,7 +221,8 @@ def _print_decompose(result, out):
         real = int(sum(c.real))
         out.write(f"  {c.id:4d}  dimension {c.dimension}  degree {c.degree}  {kind}  {sure}  "
                   f"{real} real witness point(s)\n")
-        out.write(f"        e.g. {_format_point(system.variables, c.points[0])}\n")
+        sample = c.points[int(np.argmax(c.real))] if len(c.real) else c.points[0]  # a real one if any
+        out.write(f"        e.g. {_format_point(system.variables, sample)}\n")
     if result.unconfirmed:
         out.write(f"\nwarning: {len(result.unconfirmed)} group(s) not confirmed: raise --max-loops or change "
                   "--seed\n")

@@ -147,8 +147,15 @@ class Slicing:
         self.system = system
         self.n = system.n_variables
         self.rng = rng
-        # unit-norm complex rows; hyperplane j is rows[j] . (1, x) = 0
-        self.rows = random_rows(rng, self.n, self.n + 1)
+        # unit-norm rows; hyperplane j is rows[j] . (1, x) = 0. Real hyperplanes for real equations:
+        # still generic (the bad slices form a proper algebraic subset, which the reals do not lie
+        # in), and they cut the real points of X, so real witness points appear where there are any.
+        self.real = all(np.all(p.numeric_coefficients().imag == 0) for p in system.polynomials)
+        if self.real:
+            rows = rng.standard_normal((self.n, self.n + 1))
+            self.rows = (rows / np.linalg.norm(rows, axis=1, keepdims=True)).astype(complex)
+        else:
+            self.rows = random_rows(rng, self.n, self.n + 1)
         self.homogeneous = [p.numeric().homogenize(0) for p in system.polynomials]
         self._factors = {}
 
