@@ -40,7 +40,7 @@ from scipy.spatial import cKDTree
 
 from .errors import InputError
 from .evaluate import BatchEvaluator
-from .polynomial import Polynomial
+from .polynomial import Polynomial, determinant
 from .witness import (WitnessOptions, combine_equations, jacobian_rank, linear_form, membership, random_rows,
                       track_moves, witness_supersets)
 
@@ -143,7 +143,7 @@ class Decomposition:
         return max((c.dimension for c in self.components), default=-1)
 
 
-def _random_minor(polynomials, size, rng, n):
+def random_minor(polynomials, size, rng, n):
     """det(A J B) for random A (size x m), B (n x size): a random combination of the size-minors of J."""
     m = len(polynomials)
     a = rng.standard_normal((size, m)) + 1j * rng.standard_normal((size, m))
@@ -161,18 +161,7 @@ def _random_minor(polynomials, size, rng, n):
                         total = total + gradients[i][j] * weight
             row.append(total)
         entries.append(row)
-    determinant = Polynomial.zero(n)
-    for permutation in itertools.permutations(range(size)):
-        sign = 1
-        for i in range(size):
-            for j in range(i + 1, size):
-                if permutation[i] > permutation[j]:
-                    sign = -sign
-        term = Polynomial.constant(complex(sign), n)
-        for r in range(size):
-            term = term * entries[r][permutation[r]]
-        determinant = determinant + term
-    return determinant
+    return determinant(entries)
 
 
 def holding_equations(system, codimension, points, rng, threshold=1e-6, max_rounds=4):
@@ -202,7 +191,7 @@ def holding_equations(system, codimension, points, rng, threshold=1e-6, max_roun
             break
         deflated = True
         for _ in range(codimension - low):
-            minor = _random_minor(equations, low + 1, rng, n)
+            minor = random_minor(equations, low + 1, rng, n)
             if not minor.is_zero():
                 equations.append(minor * (1.0 / minor.coefficient_norm()))
     return equations, deflated

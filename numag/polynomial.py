@@ -29,7 +29,7 @@ import numpy as np
 from .errors import InputError, LimitError
 from .exact import ExactCoefficient
 
-__all__ = ["Limits", "DEFAULT_LIMITS", "Polynomial", "PolynomialSystem", "RESERVED_NAMES"]
+__all__ = ["Limits", "DEFAULT_LIMITS", "Polynomial", "PolynomialSystem", "RESERVED_NAMES", "determinant"]
 
 #: Names the grammar reserves; no variable may use them.
 RESERVED_NAMES = frozenset({"I", "sqrt"})
@@ -670,3 +670,34 @@ class PolynomialSystem:
         kind = "projective" if self.projective else "affine"
         return (f"PolynomialSystem({self.n_equations} equations in {self.variables}, {kind}, "
                 f"degrees {self.degrees})")
+
+
+def determinant(entries, limits=DEFAULT_LIMITS):
+    """Determinant of a small square matrix of polynomials (Laplace expansion along the first row).
+
+    Parameters
+    ----------
+    entries : list of list of Polynomial
+        k rows of k polynomials in the same variables (k >= 1).
+
+    Returns
+    -------
+    Polynomial
+
+    Examples
+    --------
+    >>> x, y = Polynomial.variable(0, 2), Polynomial.variable(1, 2)
+    >>> determinant([[x, y], [y, x]]).to_text(["x", "y"])
+    'x^2 - y^2'
+    """
+    size = len(entries)
+    if size == 1:
+        return entries[0][0]
+    total = Polynomial.zero(entries[0][0].n_variables)
+    for j in range(size):
+        if entries[0][j].is_zero():
+            continue
+        rest = [row[:j] + row[j + 1:] for row in entries[1:]]
+        term = entries[0][j].multiply(determinant(rest, limits), limits)
+        total = total - term if j % 2 else total + term
+    return total

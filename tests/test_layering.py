@@ -16,6 +16,7 @@ LAYERS = [
     {"solve", "witness"},
     {"decompose"},
     {"smoothness"},
+    {"singular"},
     {"files"},
     {"report"},
     {"cli"},

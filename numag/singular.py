@@ -1,0 +1,376 @@
+"""The singular locus of X = V(F) (``numag singular``): singular points and components, with evidence.
+
+Pipeline:
+
+1. **Components of X first** (:func:`numag.decompose.decompose`), so that a
+   point is judged against the codimension of the component it lies on.
+2. **Candidates.** For each codimension c of a component of X, the augmented
+   system F together with the c x c minors of J (all of them when they are
+   few, otherwise n - c + 1 random combinations det(A J B): at a point of X where
+   rank J = c each generic combination is one more independent condition, so
+   n - c + 1 of them leave no such point on X of dimension at most n) is
+   decomposed into witness sets: isolated candidates and candidate components of
+   every dimension, each with its degree.
+3. **Verdicts.** A witness point of each candidate set is checked with the
+   ORIGINAL Jacobian (:func:`numag.smoothness.check_points`, with escalation in
+   precision and the components of X through the point): singular points of X
+   (rank below the codimension, or a point where components meet) are kept;
+   a candidate that is a whole generically non-reduced component of X is
+   reported as non-reduced, not as singular; candidates the check calls smooth
+   are spurious (a whole larger component swept into V(F, minors), or a residual
+   of the randomisation) and are counted, never reported.
+4. **Projective hypersurfaces** take the shortcut of the gradient system: the
+   n + 1 partials (Euler's formula makes F = 0 automatic), solved as a square
+   system after random combination. Other projective systems are moved to a
+   random affine chart (a random real orthogonal change of coordinates keeps
+   real points real) and mapped back.
+5. **At infinity** (affine hypersurfaces): the singular points of the closure
+   V(F^h) with X_0 = 0 are reported apart, in homogeneous coordinates.
+
+Examples
+--------
+>>> from numag.parse import parse_system
+>>> locus = singular_locus(parse_system(["y^2 - x^2*(x + 1)"], ["x", "y"]), seed=1)
+>>> [(c.dimension, c.degree, c.kind) for c in locus.components]
+[(0, 1, 'singular')]
+"""
+
+from dataclasses import dataclass, field
+import itertools
+import math
+import time
+
+import numpy as np
+
+from .decompose import DecomposeOptions, decompose, random_minor
+from .errors import InputError
+from .polynomial import Polynomial, PolynomialSystem, determinant
+from .smoothness import CheckOptions, check_points
+from .solve import SolveOptions, solve_system
+
+__all__ = ["SingularOptions", "SingularComponent", "SingularLocus", "singular_locus", "FORMULATIONS"]
+
+#: Ways of writing "rank J < c" as equations.
+FORMULATIONS = ("auto", "minors", "gradient")
+
+
+@dataclass(frozen=True)
+class SingularOptions:
+    """Options of :func:`singular_locus` (defaults declared once).
+
+    Attributes
+    ----------
+    formulation : str
+        "auto" (the gradient system for projective hypersurfaces, minors otherwise),
+        "minors" or "gradient" (hypersurfaces only).
+    decompose : DecomposeOptions
+    max_exact_minors : int
+        All c x c minors are used when there are at most this many; otherwise random
+        combinations of them.
+    digits : int
+        Highest precision for escalated rank decisions.
+    """
+
+    formulation: str = "auto"
+    decompose: DecomposeOptions = DecomposeOptions()
+    max_exact_minors: int = 24
+    digits: int = 50
+
+    def validated(self, system):
+        if self.formulation not in FORMULATIONS:
+            raise InputError(f"unknown formulation {self.formulation!r}; choose one of {', '.join(FORMULATIONS)}")
+        if self.formulation == "gradient" and system.n_equations != 1:
+            raise InputError("the gradient formulation is for hypersurfaces (one equation); use 'minors'")
+        return self
+
+
+@dataclass
+class SingularComponent:
+    """One piece of the singular locus.
+
+    Attributes
+    ----------
+    id : int
+    dimension, degree : int
+    points : ndarray, shape (degree, n)
+        Witness points (the point itself for dimension 0). Affine coordinates for affine
+        input; homogeneous coordinates (divided by the largest) for projective input and
+        for points at infinity (the homogenising coordinate first).
+    real : ndarray of bool
+    multiplicity : int or None
+        Paths of the formulation that ended at the point (isolated points), else None.
+    at_infinity : bool
+    formulation : str
+        "minors", "random minors", "gradient system".
+    kind : str
+        "singular" or "non-reduced" (a whole component of X of multiplicity > 1: the
+        equations cannot tell whether the variety is smooth there), or "undecided".
+    on_components : list of int
+        Ids of the components of X through the witness point.
+    rank, codimension : int or None
+        Rank of the original Jacobian at the (first) witness point, and the rank a smooth
+        point would need.
+    notes : list of str
+    """
+
+    id: int
+    dimension: int
+    degree: int
+    points: np.ndarray
+    real: np.ndarray
+    multiplicity: object
+    at_infinity: bool
+    formulation: str
+    kind: str
+    on_components: list = field(default_factory=list)
+    rank: object = None
+    codimension: object = None
+    notes: list = field(default_factory=list)
+
+
+@dataclass
+class SingularLocus:
+    """Result of :func:`singular_locus`.
+
+    Attributes
+    ----------
+    system : PolynomialSystem
+    components : list of SingularComponent
+        Singular (and non-reduced) pieces, affine first, then those at infinity.
+    variety : Decomposition or None
+        The components of X (None on the gradient shortcut).
+    paths : dict
+        Tracked paths by status, over every homotopy run.
+    discarded : dict
+        Candidates dropped, by reason.
+    seed : int
+    seconds : float
+    notes : list of str
+    """
+
+    system: object
+    components: list
+    variety: object
+    paths: dict
+    discarded: dict
+    seed: int
+    seconds: float
+    notes: list = field(default_factory=list)
+
+    def isolated(self):
+        """The singular points (dimension 0, kind singular)."""
+        return [c for c in self.components if c.dimension == 0 and c.kind == "singular"]
+
+
+def _add_counts(total, counts):
+    for key, value in counts.items():
+        if isinstance(value, (int, np.integer)):
+            total[key] = total.get(key, 0) + int(value)
+
+
+def _real_flags(system, points):
+    real_coefficients = all(np.all(np.abs(p.numeric_coefficients().imag) == 0) for p in system.polynomials)
+    if not real_coefficients or len(points) == 0:
+        return np.zeros(len(points), dtype=bool)
+    return np.all(np.abs(points.imag) <= 1e-8 * (1 + np.abs(points)), axis=1)
+
+
+def minors_system(system, codimension, rng, max_exact):
+    """F together with equations for "rank J < codimension" (all minors, or random combinations).
+
+    Returns
+    -------
+    PolynomialSystem
+    str
+        "minors" or "random minors".
+    """
+    n, m = system.n_variables, system.n_equations
+    rows = [[p.numeric().derivative(j) for j in range(n)] for p in system.polynomials]
+    count = math.comb(m, codimension) * math.comb(n, codimension)
+    equations = [p.numeric() for p in system.polynomials]
+    if count <= max_exact:
+        kind = "minors"
+        for chosen_rows in itertools.combinations(range(m), codimension):
+            for chosen_cols in itertools.combinations(range(n), codimension):
+                minor = determinant([[rows[i][j] for j in chosen_cols] for i in chosen_rows])
+                if not minor.is_zero():
+                    equations.append(minor * (1.0 / minor.coefficient_norm()))
+    else:
+        kind = "random minors"
+        for _ in range(n - codimension + 1):
+            minor = random_minor(equations[:m], codimension, rng, n)
+            if not minor.is_zero():
+                equations.append(minor * (1.0 / minor.coefficient_norm()))
+    return PolynomialSystem(system.variables, equations, name=system.name), kind
+
+
+def singular_locus(system, options=None, seed=None, progress=None):
+    """Every singular point and singular component of X = V(F), with dimension, degree and evidence.
+
+    Parameters
+    ----------
+    system : PolynomialSystem
+        Affine or projective.
+    options : SingularOptions, optional
+    seed : int, optional
+        Drawn and recorded when not given.
+    progress : callable, optional
+        ``progress(message)``.
+
+    Returns
+    -------
+    SingularLocus
+    """
+    options = (options or SingularOptions()).validated(system)
+    if seed is None:
+        seed = int(np.random.SeedSequence().entropy % (2**32))
+    started = time.perf_counter()
+    rng = np.random.default_rng(seed)
+    paths, discarded, notes = {}, {}, []
+    if system.projective:
+        if system.n_equations == 1 and options.formulation in ("auto", "gradient"):
+            components, variety = _projective_gradient(system, rng, paths, discarded, progress), None
+        else:
+            components, variety = _projective_chart(system, options, rng, paths, discarded, notes, progress)
+    else:
+        components, variety = _affine(system, options, rng, paths, discarded, progress)
+        if system.n_equations == 1:
+            try:
+                components += _at_infinity(system, rng, paths, progress)
+            except InputError:
+                notes.append("The closure of X is singular along a positive-dimensional set at infinity; "
+                             "its points at infinity are not listed.")
+        else:
+            notes.append("Singular points at infinity are not searched for systems of several equations: "
+                         "homogenising the generators can give more than the closure of X.")
+    components.sort(key=lambda c: (c.at_infinity, -c.dimension, -c.degree))
+    for k, component in enumerate(components, 1):
+        component.id = k
+    return SingularLocus(system, components, variety, paths, discarded, seed, time.perf_counter() - started, notes)
+
+
+def _affine(system, options, rng, paths, discarded, progress):
+    """Singular pieces of an affine X by decomposing F + minors for each codimension of X."""
+    if progress is not None:
+        progress("decomposing X")
+    variety = decompose(system, options.decompose, seed=int(rng.integers(2**32)), progress=progress)
+    _add_counts(paths, variety.paths)
+    n = system.n_variables
+    found = []
+    codimensions = sorted({n - c.dimension for c in variety.components})
+    check_options = CheckOptions(max_digits=options.digits)
+    for codimension in codimensions:
+        if codimension == 0:
+            continue
+        augmented, kind = minors_system(system, codimension, rng, options.max_exact_minors)
+        if progress is not None:
+            progress(f"codimension {codimension}: decomposing F with the {kind} ({augmented.n_equations} equations)")
+        candidates = decompose(augmented, options.decompose, seed=int(rng.integers(2**32)), progress=progress)
+        _add_counts(paths, candidates.paths)
+        for candidate in candidates.components:
+            point = candidate.points[0]
+            if any(_already(found, candidate, point)):
+                discarded["duplicate"] = discarded.get("duplicate", 0) + 1
+                continue
+            verdict = check_points(system, [point], check_options, seed=int(rng.integers(2**31)),
+                                   decomposition=variety).points[0]
+            if verdict.verdict == "smooth":
+                discarded["smooth_on_check"] = discarded.get("smooth_on_check", 0) + 1
+                continue
+            through = [c["id"] for c in verdict.components]
+            kind_of = {"singular": "singular", "non-reduced": "non-reduced"}.get(verdict.verdict, "undecided")
+            notes = []
+            if kind_of == "non-reduced":
+                whole = [c for c in verdict.components if c["dimension"] == candidate.dimension]
+                if not whole:
+                    notes.append("A proper subset of a non-reduced component of X: the Jacobian cannot decide "
+                                 "whether the variety is singular here.")
+                    kind_of = "undecided"
+            multiplicity = candidate.multiplicity if candidate.dimension == 0 else None
+            found.append(SingularComponent(0, candidate.dimension, candidate.degree, candidate.points,
+                                           _real_flags(system, candidate.points), multiplicity, False, kind,
+                                           kind_of, through, verdict.rank, verdict.codimension,
+                                           notes + list(verdict.notes)))
+    return found, variety
+
+
+def _already(found, candidate, point):
+    """Is the candidate's witness point on a piece found before (same point, or same set and degree)?"""
+    for piece in found:
+        if piece.dimension == 0 and candidate.dimension == 0:
+            yield bool(np.linalg.norm(piece.points[0] - point) <= 1e-6 * (1 + np.linalg.norm(point)))
+        elif piece.dimension == candidate.dimension and piece.degree == candidate.degree:
+            yield bool(np.allclose(np.sort_complex(piece.points[:, 0]), np.sort_complex(candidate.points[:, 0]),
+                                   atol=1e-6))
+
+
+def _projective_gradient(system, rng, paths, discarded, progress):
+    """Singular points of a projective hypersurface: the zeros of its gradient (Euler: then F = 0 too)."""
+    f = system.polynomials[0].numeric()
+    gradient = PolynomialSystem(system.variables, [g for g in f.gradient() if not g.is_zero()], projective=True)
+    if progress is not None:
+        progress(f"gradient system: {gradient.n_equations} partial derivatives")
+    pieces = []
+    if gradient.n_equations == 0:
+        return pieces
+    if gradient.n_equations < system.n_variables - 1:
+        raise InputError("the hypersurface is a cone over a lower-dimensional one: use the minors formulation")
+    result = solve_system(gradient, SolveOptions(square_up=gradient.n_equations > system.n_variables - 1),
+                          seed=int(rng.integers(2**32)))
+    _add_counts(paths, result.path_counts())
+    scale = f.coefficient_norm()
+    for solution in result.solutions:
+        point = solution.point
+        if abs(f.evaluate(point)) > 1e-8 * scale * np.linalg.norm(point) ** f.degree:
+            discarded["not_on_X"] = discarded.get("not_on_X", 0) + 1
+            continue
+        pieces.append(SingularComponent(0, 0, 1, point[None, :], _real_flags(system, point[None, :]),
+                                        solution.multiplicity, False, "gradient system", "singular", [], None, 1))
+    if result.not_isolated:
+        raise InputError("the singular locus of this hypersurface is positive-dimensional; use the minors "
+                         "formulation (--formulation minors)")
+    return pieces
+
+
+def _chart(system, rng):
+    """A random real orthogonal change of coordinates X = Q Y; the affine system in the chart Y_0 = 1."""
+    size = system.n_variables
+    q, _ = np.linalg.qr(rng.standard_normal((size, size)))
+    moved = [p.numeric().substitute_linear(q) for p in system.polynomials]
+    names = [f"y{j}" for j in range(1, size)]
+    affine = PolynomialSystem(names, [p.dehomogenize(0) for p in moved], name=system.name)
+    return affine, q
+
+
+def _projective_chart(system, options, rng, paths, discarded, notes, progress):
+    affine, q = _chart(system, rng)
+    pieces, variety = _affine(affine, options, rng, paths, discarded, progress)
+    for piece in pieces:
+        homogeneous = np.column_stack([np.ones(len(piece.points)), piece.points]) @ q.T
+        piece.points = np.array([_normalize(p) for p in homogeneous])
+        piece.real = _real_flags(system, piece.points)
+    notes.append("Projective input: computed in a random affine chart (real orthogonal change of coordinates); "
+                 "points are homogeneous, divided by their largest coordinate.")
+    return pieces, variety
+
+
+def _normalize(point):
+    moduli = np.abs(point)
+    pivot = int(np.argmax(moduli >= moduli.max() * (1 - 1e-12)))
+    return point / point[pivot]
+
+
+def _at_infinity(system, rng, paths, progress):
+    """Singular points of the closure V(F^h) of an affine hypersurface on the hyperplane X_0 = 0."""
+    f = system.polynomials[0].numeric().homogenize(0)
+    closure = PolynomialSystem(["w"] + list(system.variables), [f], projective=True)
+    pieces = []
+    for piece in _projective_gradient(closure, rng, paths, {}, progress):
+        point = piece.points[0]
+        if abs(point[0]) <= 1e-8 * np.linalg.norm(point):
+            point = point.copy()
+            point[0] = 0
+            piece.points = point[None, :]
+            piece.at_infinity = True
+            pieces.append(piece)
+    return pieces
