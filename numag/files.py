@@ -13,6 +13,10 @@ A system file is TOML (an open standard) with these keys:
     by themselves.
 ``name``, ``description``
     optional text for reports.
+``angles``
+    optional table ``label = ["c", "s"]`` naming variables that are the cosine and
+    sine of an angle (a mechanism's joint angles): reports of real points then also
+    give the angle in degrees.
 
 Points are written ``x=1, y=2+I/2`` (values in the equation grammar), or
 read from a JSON file: a list whose items are objects ``{"x": "1/3", "y": 2}``
@@ -43,10 +47,10 @@ except ModuleNotFoundError:  # pragma: no cover - older Pythons get the backport
     import tomli as _toml
 
 __all__ = ["SYSTEM_KEYS", "load_system", "system_from_mapping", "parse_point_assignment", "load_points",
-           "points_from_json"]
+           "points_from_json", "load_angles", "angles_from_mapping"]
 
 #: Keys a system file may contain.
-SYSTEM_KEYS = ("variables", "equations", "projective", "name", "description")
+SYSTEM_KEYS = ("variables", "equations", "projective", "name", "description", "angles")
 _MAX_FILE_BYTES = 50 * 1024 * 1024
 
 
@@ -67,6 +71,49 @@ def _read_bytes(path, what):
         raise SystemFileError(f"cannot read the {what}: {err.strerror or err}", path) from None
 
 
+def _read_toml(path):
+    path = os.fspath(path)
+    raw = _read_bytes(path, "system file")
+    try:
+        text = raw.decode("utf-8")
+    except UnicodeDecodeError as err:
+        raise SystemFileError(f"is not UTF-8 text (byte {err.start})", path) from None
+    if not text.strip():
+        raise SystemFileError("is empty: expected the keys 'variables' and 'equations'", path)
+    try:
+        return _toml.loads(text)
+    except _toml.TOMLDecodeError as err:
+        raise SystemFileError(f"is not valid TOML: {err}", path) from None
+
+
+def angles_from_mapping(data, variables, path=None):
+    """The ``angles`` table: label -> (index of the cosine variable, index of the sine variable).
+
+    Examples
+    --------
+    >>> angles_from_mapping({"angles": {"crank": ["c", "s"]}}, ["c", "s"])
+    {'crank': (0, 1)}
+    """
+    table = data.get("angles", {})
+    if not isinstance(table, dict):
+        raise SystemFileError("'angles' must be a table: label = [\"cosine variable\", \"sine variable\"]", path,
+                              "angles")
+    result = {}
+    for label, pair in table.items():
+        if (not isinstance(pair, list) or len(pair) != 2 or not all(isinstance(v, str) for v in pair)):
+            raise SystemFileError(f"angle '{label}' must be a pair of variable names [cosine, sine]", path, "angles")
+        missing = [v for v in pair if v not in variables]
+        if missing:
+            raise SystemFileError(f"angle '{label}' names {missing[0]!r}, which is not a variable", path, "angles")
+        result[label] = (variables.index(pair[0]), variables.index(pair[1]))
+    return result
+
+
+def load_angles(path, variables):
+    """The ``angles`` table of a system file (empty when there is none); see :func:`angles_from_mapping`."""
+    return angles_from_mapping(_read_toml(path), list(variables), os.fspath(path))
+
+
 def load_system(path):
     """Read a system file.
 
@@ -85,18 +132,7 @@ def load_system(path):
         types; equation errors name the equation and column.
     """
     path = os.fspath(path)
-    raw = _read_bytes(path, "system file")
-    try:
-        text = raw.decode("utf-8")
-    except UnicodeDecodeError as err:
-        raise SystemFileError(f"is not UTF-8 text (byte {err.start})", path) from None
-    if not text.strip():
-        raise SystemFileError("is empty: expected the keys 'variables' and 'equations'", path)
-    try:
-        data = _toml.loads(text)
-    except _toml.TOMLDecodeError as err:
-        raise SystemFileError(f"is not valid TOML: {err}", path) from None
-    return system_from_mapping(data, path=path)
+    return system_from_mapping(_read_toml(path), path=path)
 
 
 def system_from_mapping(data, path=None):
@@ -128,6 +164,7 @@ def system_from_mapping(data, path=None):
         if key in data and not isinstance(data[key], str):
             raise SystemFileError(f"'{key}' must be a string", path, key)
     name = data.get("name") or (os.path.splitext(os.path.basename(path))[0] if path else None)
+    angles_from_mapping(data, data["variables"], path)  # validated here, read by load_angles
     try:
         return parse_system(data["equations"], data["variables"], projective=projective, name=name)
     except ParseError as err:

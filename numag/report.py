@@ -30,6 +30,7 @@ from .files import system_from_mapping
 from .decompose import Component, Decomposition, DecomposeOptions
 from .linalg import RankEvidence
 from .smoothness import CheckOptions, CheckReport, PointVerdict
+from .singular import SingularComponent, SingularLocus, SingularOptions
 from .solve import Solution, SolveOptions, SolveResult
 from .tracker import FAILURE_LABELS, PathStatus, TrackerOptions
 from .witness import WitnessOptions
@@ -318,4 +319,73 @@ def decomposition_from_dict(data):
     result = Decomposition(system, components, list(data["dimensions_searched"]), counts,
                            {int(k): int(v) for k, v in data["monodromy_loops"].items()}, data["seed"],
                            float(data["seconds"]))
+    return result, options
+
+
+# --- singular ------------------------------------------------------------------------------------
+
+def _singular_component(c):
+    return {"id": c.id, "dimension": c.dimension, "degree": c.degree,
+            "points": [encode_point(p) for p in c.points], "real": [bool(r) for r in c.real],
+            "multiplicity": None if c.multiplicity is None else int(c.multiplicity), "at_infinity": c.at_infinity,
+            "formulation": c.formulation, "kind": c.kind, "on_components": [int(k) for k in c.on_components],
+            "rank": c.rank, "codimension": c.codimension, "notes": list(c.notes)}
+
+
+def singular_to_dict(result, options):
+    """A :class:`~numag.singular.SingularLocus` as the JSON envelope."""
+    variety = result.variety
+    return {
+        "numag_version": __version__,
+        "command": "singular",
+        "seed": result.seed,
+        "system": system_to_dict(result.system),
+        "options": {"formulation": options.formulation, "digits": options.digits,
+                    "lowest_dimension": options.decompose.witness.lowest_dimension,
+                    "max_exact_minors": options.max_exact_minors},
+        "paths": decomposition_path_counts(result.paths),
+        "components": [_singular_component(c) for c in result.components],
+        # the components of X (in a random chart for projective input: only their dimensions and degrees)
+        "variety": [] if variety is None or result.system.projective else
+        [_decomposition_component(c) for c in variety.components],
+        "variety_summary": [] if variety is None else
+        [{"dimension": c.dimension, "degree": c.degree} for c in variety.components],
+        "discarded": dict(result.discarded),
+        "notes": list(result.notes),
+        "seconds": result.seconds,
+        "caution": CAUTION,
+    }
+
+
+def singular_from_dict(data):
+    """Rebuild a :class:`~numag.singular.SingularLocus` (and its options) from its JSON envelope."""
+    system = _report_system(data, "singular")
+    o = data["options"]
+    options = SingularOptions(formulation=o["formulation"], digits=int(o["digits"]),
+                              max_exact_minors=int(o["max_exact_minors"]),
+                              decompose=DecomposeOptions(witness=WitnessOptions(lowest_dimension=o["lowest_dimension"])))
+    components = []
+    for d in data["components"]:
+        points = np.array([decode_point(p) for p in d["points"]], dtype=complex)
+        components.append(SingularComponent(int(d["id"]), int(d["dimension"]), int(d["degree"]), points,
+                                            np.array(d["real"], dtype=bool), d["multiplicity"],
+                                            bool(d["at_infinity"]), d["formulation"], d["kind"],
+                                            list(d["on_components"]), d["rank"], d["codimension"], list(d["notes"])))
+    paths = data["paths"]
+    counts = {key: paths[key] for key in ("tracked", "converged", "singular_endpoint", "at_infinity")}
+    counts.update(paths["failed_by_reason"])
+    counts.update(paths["endpoints"])
+    n = system.n_variables
+    variety = None
+    if data["variety"]:
+        parts = []
+        for d in data["variety"]:
+            parts.append(Component(int(d["id"]), int(d["dimension"]), int(d["degree"]),
+                                   np.array([decode_point(p) for p in d["points"]], dtype=complex).reshape(-1, n),
+                                   np.array(d["real"], dtype=bool), int(d["multiplicity"]), bool(d["reduced"]),
+                                   np.array([decode_point(r) for r in d["slice"]], dtype=complex).reshape(-1, n + 1),
+                                   bool(d["confirmed"]), _decode_float(d["trace_defect"])))
+        variety = Decomposition(system, parts, [], {}, {}, data["seed"], 0.0)
+    result = SingularLocus(system, components, variety, counts, dict(data["discarded"]), data["seed"],
+                           float(data["seconds"]), list(data["notes"]))
     return result, options

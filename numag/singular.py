@@ -42,16 +42,19 @@ import time
 
 import numpy as np
 
-from .decompose import DecomposeOptions, decompose, random_minor
+from .cluster import cluster_labels, groups
+from .decompose import DecomposeOptions, decompose, holding_equations, random_minor
+from .evaluate import BatchEvaluator
 from .errors import InputError
 from .polynomial import Polynomial, PolynomialSystem, determinant
 from .smoothness import CheckOptions, check_points
 from .solve import SolveOptions, solve_system
+from .witness import combine_equations, linear_form, random_rows, track_moves
 
 __all__ = ["SingularOptions", "SingularComponent", "SingularLocus", "singular_locus", "FORMULATIONS"]
 
 #: Ways of writing "rank J < c" as equations.
-FORMULATIONS = ("auto", "minors", "gradient")
+FORMULATIONS = ("auto", "minors", "null vector", "gradient")
 
 
 @dataclass(frozen=True)
@@ -61,8 +64,9 @@ class SingularOptions:
     Attributes
     ----------
     formulation : str
-        "auto" (the gradient system for projective hypersurfaces, minors otherwise),
-        "minors" or "gradient" (hypersurfaces only).
+        "auto" (the gradient system for projective hypersurfaces; otherwise per codimension the
+        minors when they are few, else the cheaper by a path estimate of random minors and the
+        null-vector form), "minors", "null vector" or "gradient" (hypersurfaces only).
     decompose : DecomposeOptions
     max_exact_minors : int
         All c x c minors are used when there are at most this many; otherwise random
@@ -101,7 +105,7 @@ class SingularComponent:
         Paths of the formulation that ended at the point (isolated points), else None.
     at_infinity : bool
     formulation : str
-        "minors", "random minors", "gradient system".
+        "minors", "random minors", "null vector", "gradient system".
     kind : str
         "singular" or "non-reduced" (a whole component of X of multiplicity > 1: the
         equations cannot tell whether the variety is smooth there), or "undecided".
@@ -204,6 +208,89 @@ def minors_system(system, codimension, rng, max_exact):
     return PolynomialSystem(system.variables, equations, name=system.name), kind
 
 
+def null_vector_system(system, codimension, rng):
+    """F(x) = 0, lambda^T A J(x) = 0 and b . lambda = 1 in the unknowns (x, lambda), lambda in C^c.
+
+    A (c x m) and b are random. Over a point x of X where rank J = c there is no lambda; over a
+    point of corank r the lambdas form an affine space of dimension r - 1 (a positive-dimensional
+    fibre when r >= 2): callers project to x and measure the dimension there.
+    """
+    n, m = system.n_variables, system.n_equations
+    total = n + codimension
+    a = (rng.standard_normal((codimension, m)) + 1j * rng.standard_normal((codimension, m))) / math.sqrt(2 * m)
+    b = rng.standard_normal(codimension) + 1j * rng.standard_normal(codimension)
+    lifted = []
+    for p in system.polynomials:  # the same polynomial in (x, lambda)
+        exponents = np.hstack([p.exponents, np.zeros((p.n_terms, codimension), dtype=np.int64)])
+        lifted.append(Polynomial(exponents, p.numeric_coefficients(), total))
+    lambdas = [Polynomial.variable(n + i, total).numeric() for i in range(codimension)]
+    equations = list(lifted)
+    for j in range(n):
+        row = Polynomial.zero(total)
+        for i in range(codimension):
+            combined = Polynomial.zero(total)
+            for k in range(m):
+                combined = combined + lifted[k].derivative(j) * complex(a[i, k])
+            row = row + lambdas[i] * combined
+        if not row.is_zero():
+            equations.append(row * (1.0 / row.coefficient_norm()))
+    equations.append(Polynomial.linear(np.concatenate([np.zeros(n), b]), -1.0))
+    names = list(system.variables) + [f"lambda{i + 1}" for i in range(codimension)]
+    return PolynomialSystem(names, equations, name=system.name)
+
+
+def _estimated_paths(system, variety, codimension, kind):
+    """Rough path counts of the two formulations on the components of codimension c (for "auto")."""
+    n = system.n_variables
+    degree = sum(c.degree for c in variety.components if n - c.dimension == codimension) or 1
+    top = max(system.degrees)
+    if kind == "minors":
+        return degree * float(codimension * max(top - 1, 1)) ** (n - codimension + 1)
+    return degree * float(top) ** n
+
+
+def _projected_candidates(system, null_system, candidates, rng, options, paths):
+    """Project the components of the null-vector system to x: (dimension, x points) per component."""
+    n = system.n_variables
+    result = []
+    for component in candidates.components:
+        x_points = component.points[:, :n]
+        if component.dimension == 0:
+            result.append((0, x_points[:1], component.multiplicity))
+            continue
+        codim = null_system.n_variables - component.dimension
+        equations, _ = holding_equations(null_system, codim, component.points, rng)
+        evaluator = BatchEvaluator(equations)
+        _, jacobian = evaluator.evaluate(component.points[:1])
+        _, values, vh = np.linalg.svd(jacobian[0])
+        rank = int(np.sum(values > 1e-8 * max(values.max(initial=0), 1)))
+        tangent = vh[rank:].conj().T  # kernel basis, (n + c) x dim
+        projected = int(np.linalg.matrix_rank(tangent[:n], tol=1e-6)) if tangent.size else 0
+        if projected == 0:
+            result.append((0, x_points[:1], None))
+            continue
+        # Degree of the projection: slices in x only (projected of them) and in lambda only (the rest).
+        fibre = component.dimension - projected
+        x_rows = random_rows(rng, projected, null_system.n_variables + 1)
+        x_rows[:, 1 + n:] = 0
+        l_rows = random_rows(rng, fibre, null_system.n_variables + 1)
+        l_rows[:, 1:1 + n] = 0
+        target_rows = np.vstack([x_rows, l_rows])
+        held = combine_equations([p.homogenize(0) for p in equations], codim, rng)
+        counts = {}
+        ends, _, _ = track_moves(held + [linear_form(r) for r in component.slice_rows],
+                                 held + [linear_form(r) for r in target_rows], component.points, rng,
+                                 options.decompose.witness.tracker, counts)
+        _add_counts(paths, counts)
+        ends = ends[np.all(np.isfinite(ends), axis=1)][:, :n]
+        if len(ends) == 0:
+            continue
+        labels = cluster_labels(ends, 1e-6)
+        distinct = np.array([ends[g[0]] for g in groups(labels)])
+        result.append((projected, distinct, None))
+    return result
+
+
 def singular_locus(system, options=None, seed=None, progress=None):
     """Every singular point and singular component of X = V(F), with dimension, degree and evidence.
 
@@ -262,13 +349,29 @@ def _affine(system, options, rng, paths, discarded, progress):
     for codimension in codimensions:
         if codimension == 0:
             continue
-        augmented, kind = minors_system(system, codimension, rng, options.max_exact_minors)
+        exact = math.comb(system.n_equations, codimension) * math.comb(n, codimension) <= options.max_exact_minors
+        formulation = options.formulation
+        if formulation in ("auto", "gradient"):
+            formulation = "minors" if exact or (_estimated_paths(system, variety, codimension, "minors")
+                                                <= _estimated_paths(system, variety, codimension, "null")) \
+                else "null vector"
+        if formulation == "null vector":
+            augmented, kind = null_vector_system(system, codimension, rng), "null vector"
+        else:
+            augmented, kind = minors_system(system, codimension, rng, options.max_exact_minors)
         if progress is not None:
-            progress(f"codimension {codimension}: decomposing F with the {kind} ({augmented.n_equations} equations)")
+            progress(f"codimension {codimension}: decomposing the {kind} system ({augmented.n_equations} equations "
+                     f"in {augmented.n_variables} unknowns)")
         candidates = decompose(augmented, options.decompose, seed=int(rng.integers(2**32)), progress=progress)
         _add_counts(paths, candidates.paths)
-        for candidate in candidates.components:
-            point = candidate.points[0]
+        if kind == "null vector":
+            projected = _projected_candidates(system, augmented, candidates, rng, options, paths)
+        else:
+            projected = [(c.dimension, c.points, c.multiplicity if c.dimension == 0 else None)
+                         for c in candidates.components]
+        for dimension, points, multiplicity in projected:
+            candidate = _Candidate(dimension, len(points), points)
+            point = points[0]
             if any(_already(found, candidate, point)):
                 discarded["duplicate"] = discarded.get("duplicate", 0) + 1
                 continue
@@ -286,12 +389,21 @@ def _affine(system, options, rng, paths, discarded, progress):
                     notes.append("A proper subset of a non-reduced component of X: the Jacobian cannot decide "
                                  "whether the variety is singular here.")
                     kind_of = "undecided"
-            multiplicity = candidate.multiplicity if candidate.dimension == 0 else None
-            found.append(SingularComponent(0, candidate.dimension, candidate.degree, candidate.points,
-                                           _real_flags(system, candidate.points), multiplicity, False, kind,
+            points = candidate.points
+            if candidate.dimension == 0 and verdict.distance <= 1e-6 * (1 + np.linalg.norm(point)):
+                points = np.asarray(verdict.point, dtype=complex)[None, :]  # refined at higher precision
+            found.append(SingularComponent(0, candidate.dimension, candidate.degree, points,
+                                           _real_flags(system, points), multiplicity, False, kind,
                                            kind_of, through, verdict.rank, verdict.codimension,
                                            notes + list(verdict.notes)))
     return found, variety
+
+
+@dataclass
+class _Candidate:
+    dimension: int
+    degree: int
+    points: np.ndarray
 
 
 def _already(found, candidate, point):

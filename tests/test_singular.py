@@ -1,0 +1,135 @@
+"""The singular locus (numag.singular) against independently verified answers and sympy."""
+
+import itertools
+import json
+
+import numpy as np
+import pytest
+
+from numag.parse import parse_system
+from numag.report import dumps, singular_from_dict, singular_to_dict
+from numag.singular import SingularOptions, singular_locus
+
+from conftest import load_problems
+
+PROBLEMS = list(load_problems().values())
+
+
+def affine_points(locus):
+    return [c for c in locus.components if c.dimension == 0 and c.kind == "singular" and not c.at_infinity]
+
+
+@pytest.mark.parametrize("entry", PROBLEMS, ids=[p["name"] for p in PROBLEMS])
+def test_every_shared_problem(entry):
+    # Expected answers and their sources are in tests/data/problems.json (a copy of the shared problem
+    # set; each entry names its source and how it was verified: sympy Groebner bases with exact
+    # arithmetic). Counts, dimensions and degrees are compared exactly.
+    system = parse_system(entry["equations"], entry["variables"], projective=entry["projective"])
+    locus = singular_locus(system, seed=3)
+    expected = entry["expected"]
+    points = affine_points(locus)
+    assert locus.paths.get("minimum_step", 0) + locus.paths.get("step_limit", 0) == 0
+    if "singular_points" in expected:
+        assert len(points) == expected["singular_points"]
+        assert not [c for c in locus.components if c.dimension > 0 and not c.at_infinity]
+    if "real_singular_points" in expected:
+        assert sum(bool(c.real[0]) for c in points) == expected["real_singular_points"]
+    if "components" in expected:
+        found = sorted((c.dimension, c.degree) for c in locus.components if not c.at_infinity)
+        assert found == sorted((c["dim"], c["degree"]) for c in expected["components"])
+        assert all(c.kind == "singular" for c in locus.components)
+    if "variety" in expected:
+        assert [(c.dimension, c.degree) for c in locus.variety.components] == [
+            (expected["variety"]["dim"], expected["variety"]["degree"])]
+    if "at_infinity_w0" in expected:  # projective: the points with w = 0 (w is the last variable)
+        at_w0 = [c for c in points if abs(c.points[0][-1]) <= 1e-8]
+        assert len(at_w0) == expected["at_infinity_w0"]
+        assert len(points) - len(at_w0) == expected["affine_chart_w1"]
+
+
+def test_double_line_is_non_reduced_not_singular():
+    # f = x^2 in C^2: the line x = 0 with multiplicity 2 (common practice, no source).
+    locus = singular_locus(parse_system(["x^2"], ["x", "y"]), seed=1)
+    assert [(c.dimension, c.degree, c.kind) for c in locus.components] == [(1, 1, "non-reduced")]
+
+
+def test_whitney_umbrella_is_singular_along_one_line():
+    # x^2 = y^2 z: singular exactly along the z-axis (common practice, no source; also the shared file).
+    locus = singular_locus(parse_system(["x^2 - y^2*z"], ["x", "y", "z"]), seed=2)
+    (line,) = [c for c in locus.components if not c.at_infinity]
+    assert (line.dimension, line.degree, line.kind) == (1, 1, "singular")
+    assert np.allclose(line.points[:, :2], 0, atol=1e-8)
+
+
+def test_union_of_two_generic_quadrics_is_singular_along_a_quartic_curve():
+    # Two quadric surfaces meet in a curve of degree 2 * 2 = 4 (Bezout's theorem); their union is
+    # singular exactly there.
+    rng = np.random.default_rng(7)
+    names = ["x", "y", "z"]
+
+    def quadric():
+        monomials = [f"{a}*{b}" for a, b in itertools.combinations_with_replacement(names, 2)] + names + ["1"]
+        return " + ".join(f"({int(rng.integers(1, 6)) * int(rng.choice([-1, 1]))})*{m}" for m in monomials)
+
+    locus = singular_locus(parse_system([f"({quadric()})*({quadric()})"], names), seed=4)
+    curves = [c for c in locus.components if not c.at_infinity]
+    assert [(c.dimension, c.degree, c.kind) for c in curves] == [(1, 4, "singular")]
+
+
+def test_formulations_agree_on_the_cone_over_the_twisted_cubic():
+    # The affine cone over the twisted cubic is singular only at its vertex (shared problem file).
+    entry = next(p for p in PROBLEMS if p["name"] == "affine_cone_over_twisted_cubic")
+    system = parse_system(entry["equations"], entry["variables"])
+    for formulation in ("minors", "null vector"):
+        locus = singular_locus(system, SingularOptions(formulation=formulation), seed=5)
+        points = affine_points(locus)
+        assert len(points) == 1 and np.allclose(points[0].points[0], 0, atol=1e-8), formulation
+
+
+def test_report_round_trip():
+    system = parse_system(["x*z", "y*z"], ["x", "y", "z"])
+    options = SingularOptions()
+    locus = singular_locus(system, options, seed=6)
+    data = singular_to_dict(locus, options)
+    again, again_options = singular_from_dict(json.loads(dumps(data)))
+    assert singular_to_dict(again, again_options) == data
+    # the plane z = 0 and the line x = y = 0 meet at the origin: singular there
+    assert [c.dimension for c in again.components] == [0]
+
+
+# --- small random nodal curves against sympy --------------------------------------------------------
+
+sympy = pytest.importorskip("sympy")
+
+
+def standard_monomial_count(equations, names):
+    """Number of standard monomials of the grevlex Groebner basis (the length of the zero-dimensional
+    scheme): for curves whose singular points are all nodes, the number of singular points."""
+    symbols = sympy.symbols(names)
+    polys = [sympy.sympify(e.replace("^", "**"), locals=dict(zip(names, symbols))) for e in equations]
+    basis = sympy.groebner(polys, *symbols, order="grevlex")
+    lead = [sympy.Poly(g, *symbols).monoms(order="grevlex")[0] for g in basis.exprs]
+    bound = max(max(m) for m in lead) + 1
+    return sum(1 for e in itertools.product(range(bound), repeat=len(symbols))
+               if not any(all(a >= b for a, b in zip(e, m)) for m in lead))
+
+
+@pytest.mark.parametrize("case", range(3))
+def test_random_nodal_curves_agree_with_sympy(case):
+    # Reference library: sympy's Groebner basis of (f, f_x, f_y). Products of random curves meet
+    # transversally in nodes (Tjurina number 1 each), so the scheme length is the number of nodes.
+    rng = np.random.default_rng(50 + case)
+
+    def curve(degree):
+        terms = [f"({int(rng.integers(-6, 7)) or 1})*x^{i}*y^{j}" for i in range(degree + 1)
+                 for j in range(degree + 1 - i)]
+        return " + ".join(terms)
+
+    factors = [curve(1), curve(2)] if case == 0 else [curve(2), curve(2)] if case == 1 else [curve(1), curve(1),
+                                                                                             curve(2)]
+    f = "*".join(f"({g})" for g in factors)
+    expression = sympy.sympify(f.replace("^", "**"))
+    expected = standard_monomial_count([f, str(sympy.diff(expression, "x")), str(sympy.diff(expression, "y"))],
+                                       ["x", "y"])
+    locus = singular_locus(parse_system([f], ["x", "y"]), seed=case)
+    assert len(affine_points(locus)) == expected
