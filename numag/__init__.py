@@ -7,6 +7,7 @@ The public API in brief:
 * :func:`solve_system`, :func:`continue_solutions` -- isolated solutions of square systems (``numag solve``);
 * :func:`decompose`, :func:`components_through` -- irreducible components of X with dimension, degree and
   witness points, and the components through a point (``numag decompose``);
+* :func:`singular_locus` -- every singular point and singular component of X (``numag singular``);
 * :class:`BatchEvaluator` -- F and J at many points at once;
 * :class:`NumagError` -- the root of every error numag raises on purpose.
 
@@ -28,7 +29,9 @@ from .smoothness import CheckOptions, check_points  # noqa: E402
 from .files import load_system  # noqa: E402
 from .solve import SolveOptions, continue_solutions, solve_system  # noqa: E402
 from .decompose import DecomposeOptions, components_through, decompose  # noqa: E402
+from .singular import SingularOptions, singular_locus  # noqa: E402
 
 __all__ = ["NumagError", "parse_system", "parse_polynomial", "Polynomial", "PolynomialSystem",
            "BatchEvaluator", "CheckOptions", "check_points", "load_system", "SolveOptions", "solve_system",
-           "continue_solutions", "DecomposeOptions", "decompose", "components_through", "__version__"]
+           "continue_solutions", "DecomposeOptions", "decompose", "components_through", "SingularOptions",
+           "singular_locus", "__version__"]

@@ -126,3 +126,29 @@ def test_solve_refuses_non_square_input(tmp_path, capsys):
     code, _ = run(["solve", str(path)])
     assert code == EXIT_INPUT
     assert "need" in capsys.readouterr().err
+
+
+def test_singular_command_on_the_demo_linkage():
+    # The parallelogram four-bar (crank 1, coupler 4, rocker 1, ground 4) is at a change point: its
+    # configuration curve's two branches cross where all four pivots are collinear, crank and rocker
+    # both at 0 or both at 180 degrees (common practice, no source: a Grashof change-point linkage).
+    code, text = run(["singular", str(EXAMPLES / "parallel_linkage.toml"), "--seed", "1"])
+    assert code == EXIT_OK
+    assert "2 singular point(s), 2 real" in text
+    assert "crank 0.0000 deg, rocker 0.0000 deg" in text and "crank 180.0000 deg, rocker 180.0000 deg" in text
+    assert "licensed engineering practice" in text
+    code, text = run(["singular", str(EXAMPLES / "parallel_linkage.toml"), "--seed", "1", "--json"])
+    data = json.loads(text)
+    assert code == EXIT_OK and data["command"] == "singular" and data["seed"] == 1
+    assert [(c["dimension"], c["degree"], c["kind"]) for c in data["components"]] == [(0, 1, "singular")] * 2
+    assert data["paths"]["tracked"] == data["paths"]["converged"] + data["paths"]["singular_endpoint"] + \
+        data["paths"]["at_infinity"] + data["paths"]["failed"]
+
+
+def test_singular_command_refuses_bad_options(tmp_path):
+    path = tmp_path / "conic.toml"
+    path.write_text('variables = ["x", "y"]\nequations = ["x^2 + y^2 - 1", "x - y"]\n')
+    code, _ = run(["singular", str(path), "--formulation", "gradient"])
+    assert code == EXIT_INPUT
+    code, _ = run(["singular", str(path), "--lowest-dimension", "9"])
+    assert code == EXIT_INPUT
