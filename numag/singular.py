@@ -47,6 +47,7 @@ from .decompose import DecomposeOptions, decompose, holding_equations, random_mi
 from .evaluate import BatchEvaluator
 from .errors import InputError
 from .polynomial import Polynomial, PolynomialSystem, determinant
+from .refine import IsolationTest
 from .smoothness import CheckOptions, check_points
 from .solve import SolveOptions, solve_system
 from .witness import combine_equations, linear_form, random_rows, track_moves
@@ -325,8 +326,8 @@ def singular_locus(system, options=None, seed=None, progress=None):
             try:
                 components += _at_infinity(system, rng, paths, progress)
             except InputError:
-                notes.append("The closure of X is singular along a positive-dimensional set at infinity; "
-                             "its points at infinity are not listed.")
+                notes.append("The closure of X is singular or non-reduced along a positive-dimensional set at "
+                             "infinity; its points at infinity are not listed.")
         else:
             notes.append("Singular points at infinity are not searched for systems of several equations: "
                          "homogenising the generators can give more than the closure of X.")
@@ -473,16 +474,46 @@ def _normalize(point):
 
 
 def _at_infinity(system, rng, paths, progress):
-    """Singular points of the closure V(F^h) of an affine hypersurface on the hyperplane X_0 = 0."""
+    """Singular points of the closure V(F^h) of an affine hypersurface on the hyperplane X_0 = 0.
+
+    Solved on the hyperplane itself: the n + 1 partials of F^h with X_0 set to 0, in the n
+    homogeneous coordinates left (random combinations to square, every solution rechecked).
+    Tracking the whole closure instead sends paths to these points, often very singular ones.
+    """
     f = system.polynomials[0].numeric().homogenize(0)
-    closure = PolynomialSystem(["w"] + list(system.variables), [f], projective=True)
+    restricted = []
+    for partial in f.gradient():
+        keep = partial.exponents[:, 0] == 0
+        if np.any(keep):
+            restricted.append(Polynomial(partial.exponents[keep][:, 1:], partial.coefficients[keep],
+                                         system.n_variables))
+    restricted = [p for p in restricted if not p.is_zero()]
+    if not restricted:
+        raise InputError("the closure is singular along the whole hyperplane at infinity")
+    if system.n_variables == 1:
+        return []
+    hyperplane = PolynomialSystem(list(system.variables), restricted, projective=True)
+    if hyperplane.n_equations < system.n_variables - 1:
+        raise InputError("the closure is singular along a positive-dimensional set at infinity")
+    if progress is not None:
+        progress("singular points at infinity")
+    result = solve_system(hyperplane, SolveOptions(square_up=hyperplane.n_equations > system.n_variables - 1),
+                          seed=int(rng.integers(2**32)))
+    _add_counts(paths, result.path_counts())
+    if result.not_isolated:
+        raise InputError("the closure is singular along a positive-dimensional set at infinity")
     pieces = []
-    for piece in _projective_gradient(closure, rng, paths, {}, progress):
-        point = piece.points[0]
-        if abs(point[0]) <= 1e-8 * np.linalg.norm(point):
-            point = point.copy()
-            point[0] = 0
-            piece.points = point[None, :]
-            piece.at_infinity = True
-            pieces.append(piece)
+    gradient = [g for g in f.gradient() if not g.is_zero()]
+    for solution in result.solutions:
+        point = np.concatenate([[0.0], solution.point])
+        # Isolated among the zeros of the whole gradient of F^h? Otherwise the point lies on a
+        # positive-dimensional singular or non-reduced set reaching infinity (x^2 = 0: the double line).
+        pivot = int(np.argmax(np.abs(point)))
+        chart = PolynomialSystem([f"u{j}" for j in range(system.n_variables)],
+                                 [g.dehomogenize(pivot) for g in gradient])
+        if not IsolationTest(chart, rng).isolated(np.delete(point / point[pivot], pivot)):
+            raise InputError("the closure is singular or non-reduced along a positive-dimensional set at infinity")
+        pieces.append(SingularComponent(0, 0, 1, point[None, :], _real_flags(system, solution.point[None, :]),
+                                        solution.multiplicity, True, "gradient system at infinity", "singular",
+                                        [], None, 1))
     return pieces

@@ -153,10 +153,19 @@ class Slicing:
         self.real = all(np.all(p.numeric_coefficients().imag == 0) for p in system.polynomials)
         if self.real:
             rows = rng.standard_normal((self.n, self.n + 1))
-            self.rows = (rows / np.linalg.norm(rows, axis=1, keepdims=True)).astype(complex)
+            center = rng.standard_normal(self.n)
         else:
-            self.rows = random_rows(rng, self.n, self.n + 1)
-        self.homogeneous = [p.numeric().homogenize(0) for p in system.polynomials]
+            rows = random_rows(rng, self.n, self.n + 1)
+            center = (rng.standard_normal(self.n) + 1j * rng.standard_normal(self.n)) / np.sqrt(2)
+        # All n hyperplanes pass through a random point of moderate size (the start point of the sweep):
+        # random constants could put it far out, where scaled residuals say little.
+        center *= 1.0 / np.sqrt(self.n)
+        rows[:, 0] = -(rows[:, 1:] @ center)
+        self.rows = (rows / np.linalg.norm(rows, axis=1, keepdims=True)).astype(complex)
+        # each equation divided by its coefficient norm: comparable sizes keep the homotopies well scaled
+        # (Chebyshev curves of degree 11 have coefficients up to 1024); the zero sets are unchanged
+        self.homogeneous = [p.numeric().homogenize(0) * (1.0 / max(p.coefficient_norm(), 1e-300))
+                            for p in system.polynomials]
         self._factors = {}
 
     def slice_rows(self, codimension):
