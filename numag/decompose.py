@@ -38,6 +38,7 @@ import networkx as nx
 import numpy as np
 from scipy.spatial import cKDTree
 
+from .cluster import cluster_labels
 from .errors import InputError
 from .evaluate import BatchEvaluator
 from .polynomial import Polynomial, determinant
@@ -311,6 +312,24 @@ def _join_by_trace(graph, groups, defects, scale, tolerance):
                 return
 
 
+def _to_real_slice(mover, points, rows, rng):
+    """Witness points on a random real slice (real points of the component appear where there are any).
+
+    The computation itself uses complex slices (a real slice can be nearly parallel to a real
+    component); the points are moved afterwards. Kept only when every path arrives at a distinct
+    point; otherwise the complex slice stays.
+    """
+    n = points.shape[1]
+    real_rows = rng.standard_normal((len(rows), n + 1))
+    center = rng.standard_normal(n) / np.sqrt(n)
+    real_rows[:, 0] = -(real_rows[:, 1:] @ center)
+    real_rows = (real_rows / np.linalg.norm(real_rows, axis=1, keepdims=True)).astype(complex)
+    moved = mover.move(points, rows, real_rows)
+    if not np.all(np.isfinite(moved)) or len(points) != len(set(cluster_labels(moved, 1e-6))):
+        return points, rows
+    return moved, real_rows
+
+
 def decompose(system, options=None, seed=None, progress=None):
     """Irreducible components of X = V(F) with dimension, degree and witness points.
 
@@ -357,13 +376,15 @@ def decompose(system, options=None, seed=None, progress=None):
         ranks = jacobian_rank(evaluator, system.coefficient_norms(), np.array(system.degrees), witness.points,
                               options.witness.rank_threshold)
         for group, confirmed, defect in groups:
-            points = witness.points[group]
+            points, rows = witness.points[group], witness.slice_rows.copy()
             real = np.zeros(len(group), dtype=bool)
             if real_coefficients:
+                if witness.dimension > 0:
+                    points, rows = _to_real_slice(mover, points, rows, rng)
                 real = np.all(np.abs(points.imag) <= 1e-8 * (1 + np.abs(points)), axis=1)
             components.append(Component(0, witness.dimension, len(group), points, real,
                                         int(np.max(witness.multiplicity[group])),
-                                        bool(np.all(ranks[group] >= codimension)), witness.slice_rows.copy(),
+                                        bool(np.all(ranks[group] >= codimension)), rows,
                                         bool(confirmed), 0.0 if defect != defect else float(defect)))
     components.sort(key=lambda c: (-c.dimension, -c.degree))
     for k, component in enumerate(components, 1):

@@ -250,6 +250,16 @@ def _estimated_paths(system, variety, codimension, kind):
     return degree * float(top) ** n
 
 
+def _tangent_dimension(augmented, component, rng):
+    """Dimension of the tangent space of a candidate component at its first witness point (deflated system)."""
+    codim = augmented.n_variables - component.dimension
+    equations, _ = holding_equations(augmented, codim, component.points, rng)
+    _, jacobian = BatchEvaluator(equations).evaluate(component.points[:1])
+    values = np.linalg.svd(jacobian[0], compute_uv=False)
+    rank = int(np.sum(values > 1e-8 * max(values.max(initial=0), 1)))
+    return augmented.n_variables - rank
+
+
 def _projected_candidates(system, null_system, candidates, rng, options, paths):
     """Project the components of the null-vector system to x: (dimension, x points) per component."""
     n = system.n_variables
@@ -370,6 +380,9 @@ def _affine(system, options, rng, paths, discarded, progress):
         else:
             projected = [(c.dimension, c.points, c.multiplicity if c.dimension == 0 else None)
                          for c in candidates.components]
+            for c in candidates.components:  # cross-check the slicing dimension by the tangent space
+                if c.dimension > 0 and _tangent_dimension(augmented, c, rng) != c.dimension:
+                    discarded["tangent_dimension_mismatch"] = discarded.get("tangent_dimension_mismatch", 0) + 1
         for dimension, points, multiplicity in projected:
             candidate = _Candidate(dimension, len(points), points)
             point = points[0]

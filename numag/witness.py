@@ -30,7 +30,7 @@ Examples
 [(1, 1), (2, 1)]
 """
 
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 import math
 
 import numpy as np
@@ -42,7 +42,7 @@ from .evaluate import BatchEvaluator
 from .homotopy import ParameterHomotopy, random_unit_complex
 from .linalg import jacobian_row_scales, residual_scales, scaled_singular_values
 from .polynomial import Polynomial, PolynomialSystem
-from .refine import IsolationTest
+from .refine import IsolationTest, project_to_variety
 from .tracker import PathStatus, TrackerOptions, track_paths
 
 __all__ = ["WitnessOptions", "WitnessSet", "WitnessSupersets", "witness_supersets", "Slicing", "track_moves",
@@ -147,16 +147,12 @@ class Slicing:
         self.system = system
         self.n = system.n_variables
         self.rng = rng
-        # unit-norm rows; hyperplane j is rows[j] . (1, x) = 0. Real hyperplanes for real equations:
-        # still generic (the bad slices form a proper algebraic subset, which the reals do not lie
-        # in), and they cut the real points of X, so real witness points appear where there are any.
-        self.real = all(np.all(p.numeric_coefficients().imag == 0) for p in system.polynomials)
-        if self.real:
-            rows = rng.standard_normal((self.n, self.n + 1))
-            center = rng.standard_normal(self.n)
-        else:
-            rows = random_rows(rng, self.n, self.n + 1)
-            center = (rng.standard_normal(self.n) + 1j * rng.standard_normal(self.n)) / np.sqrt(2)
+        # unit-norm complex rows; hyperplane j is rows[j] . (1, x) = 0. Complex, also for real
+        # equations: a real slice can be nearly parallel to a real component (seen: a line at 0.2
+        # degrees from six vertical lines put their witness points 500 away and lost five of them);
+        # real witness points come afterwards (numag.decompose moves witness sets to a real slice).
+        rows = random_rows(rng, self.n, self.n + 1)
+        center = (rng.standard_normal(self.n) + 1j * rng.standard_normal(self.n)) / np.sqrt(2)
         # All n hyperplanes pass through a random point of moderate size (the start point of the sweep):
         # random constants could put it far out, where scaled residuals say little.
         center *= 1.0 / np.sqrt(self.n)
@@ -261,19 +257,46 @@ def track_moves(start, target, points, rng, options, counts, batch_size=4096):
     if count == 0:
         return affine, status, winding
     size = len(start) + 1
-    patch = (rng.standard_normal(size) + 1j * rng.standard_normal(size)) / np.sqrt(2 * size)
-    homotopy = ParameterHomotopy(start, target, patch, random_unit_complex(rng))
-    starts = homotopy.start_solutions_from(points)
-    for first in range(0, count, batch_size):
-        rows = slice(first, min(count, first + batch_size))
-        with threadpool_limits(limits=1):
-            result = track_paths(homotopy, starts[rows], options)
-        status[rows] = result.status
-        winding[rows] = result.winding
-        finite = (result.status == PathStatus.CONVERGED) | (result.status == PathStatus.SINGULAR_ENDPOINT)
-        with np.errstate(all="ignore"):
-            ends = result.endpoints[:, 1:] / result.endpoints[:, :1]
-        affine[rows] = np.where(finite[:, None], ends, np.nan)
+
+    def homotopy_with_fresh_gamma():
+        patch = (rng.standard_normal(size) + 1j * rng.standard_normal(size)) / np.sqrt(2 * size)
+        made = ParameterHomotopy(start, target, patch, random_unit_complex(rng))
+        return made, made.start_solutions_from(points)
+
+    homotopy, starts = homotopy_with_fresh_gamma()
+
+    def run(indices, tracker_options):
+        for first in range(0, len(indices), batch_size):
+            rows = indices[first:first + batch_size]
+            with threadpool_limits(limits=1):
+                result = track_paths(homotopy, starts[rows], tracker_options)
+            status[rows] = result.status
+            winding[rows] = result.winding
+            finite = (result.status == PathStatus.CONVERGED) | (result.status == PathStatus.SINGULAR_ENDPOINT)
+            with np.errstate(all="ignore"):
+                ends = result.endpoints[:, 1:] / result.endpoints[:, :1]
+            affine[rows] = np.where(finite[:, None], ends, np.nan)
+
+    run(np.arange(count), options)
+    cautious = options
+    for round_ in range(4):
+        # Two paths at one regular endpoint: one of them jumped (a regular solution has one path).
+        regular = np.nonzero((status == PathStatus.CONVERGED) & np.all(np.isfinite(affine), axis=1))[0]
+        if len(regular) < 2:
+            break
+        labels = cluster_labels(affine[regular], 1e-6)
+        crossed = regular[np.bincount(labels)[labels] > 1]
+        if len(crossed) == 0:
+            break
+        counts["retracked_after_jump"] = counts.get("retracked_after_jump", 0) + len(crossed)
+        if round_ < 2:  # again with smaller steps, on the same homotopy (the pairing of starts and ends holds)
+            cautious = replace(cautious, max_step=cautious.max_step / 10,
+                               predictor_error=cautious.predictor_error / 100, max_steps=cautious.max_steps * 5,
+                               corrector_iterations=3, chord_corrector=False)
+            run(crossed, cautious)
+        else:  # the paths nearly meet for this gamma: every path again with another gamma (a new pairing)
+            homotopy, starts = homotopy_with_fresh_gamma()
+            run(np.arange(count), cautious)
     for code in PathStatus:
         if code != PathStatus.RUNNING:
             counts[code.label] = counts.get(code.label, 0) + int(np.sum(status == code))
@@ -396,7 +419,17 @@ def witness_supersets(system, options=None, seed=None, progress=None):
         following = {}
         for codim in sorted(current):
             points, multiplicity = current[codim]
-            on = scaled_residual(single, single_norm, single_degree, points) <= options.residual_tolerance
+            residual = scaled_residual(single, single_norm, single_degree, points)
+            on = residual <= options.residual_tolerance
+            doubtful = np.nonzero(~on & (residual <= 1e-3))[0]
+            if len(doubtful):
+                # A point on a multiple component is known only to about the square root of the
+                # precision: refine it on the equations so far plus f and its slice before deciding.
+                points = points.copy()
+                refined, moved = _refine_on(system, used, slicing.slice_rows(codim), points[doubtful])
+                points[doubtful[moved]] = refined[moved]
+                on[doubtful[moved]] = True
+                counts["refined_to_stay"] = counts.get("refined_to_stay", 0) + int(np.sum(moved))
             stay_points, stay_mult = following.get(codim, (np.zeros((0, n), complex), np.zeros(0, np.int64)))
             following[codim] = (np.vstack([stay_points, points[on]]), np.concatenate([stay_mult, multiplicity[on]]))
             regenerate = points[~on]
@@ -427,13 +460,23 @@ def witness_supersets(system, options=None, seed=None, progress=None):
         if progress is not None:
             sizes = ", ".join(f"dim {n - c}: {len(current[c][0])}" for c in sorted(current) if len(current[c][0]))
             progress(f"equation {step + 1} of {system.n_equations} done; witness points so far: {sizes or 'none'}")
-    counts["tracked"] = sum(track_counts.values())
+    counts["tracked"] = sum(track_counts.get(code.label, 0) for code in PathStatus if code != PathStatus.RUNNING)
     counts.update(track_counts)
     sets = []
     for codim in range(0, deepest + 1):
         points, multiplicity = current.get(codim, (np.zeros((0, n), complex), np.zeros(0, np.int64)))
         sets.append(WitnessSet(n - codim, points, multiplicity, slicing.slice_rows(codim).copy()))
     return WitnessSupersets(sets, list(range(n, lowest - 1, -1)), slicing, counts)
+
+
+def _refine_on(system, used, slice_rows, points):
+    """Gauss-Newton onto f_used = 0 and the slice; (refined points, mask of those that converged nearby)."""
+    n = system.n_variables
+    equations = [system.polynomials[k].numeric() for k in used] + [Polynomial.linear(r[1:], r[0]) for r in slice_rows]
+    augmented = PolynomialSystem([f"x{j}" for j in range(n)], equations)
+    result = project_to_variety(augmented, BatchEvaluator(augmented.polynomials), points, max_iterations=60)
+    near = result.distances <= 1e-5 * (1 + np.linalg.norm(points, axis=1))
+    return result.points, result.converged & near
 
 
 def _regenerate(slicing, held_equations, f, codim, points, options, track_counts, counts):
