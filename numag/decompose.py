@@ -30,7 +30,7 @@ Examples
 [(2, 1), (1, 1)]
 """
 
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 import itertools
 import time
 
@@ -215,7 +215,10 @@ class _Mover:
     def move(self, points, from_rows, to_rows):
         start = self.held + [linear_form(r) for r in from_rows]
         target = self.held + [linear_form(r) for r in to_rows]
-        ends, _, _ = track_moves(start, target, points, self.rng, self.options.witness.tracker, self.counts,
+        # No high-precision rescue here: a loop or trace path that fails only costs another loop or
+        # translation, while re-tracking it in mpmath can take minutes (seen on three quadrics).
+        tracker = replace(self.options.witness.tracker, rescue_digits=0)
+        ends, _, _ = track_moves(start, target, points, self.rng, tracker, self.counts,
                                  self.options.witness.batch_size)
         return ends
 

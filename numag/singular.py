@@ -35,7 +35,7 @@ Examples
 [(0, 1, 'singular')]
 """
 
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 import itertools
 import math
 import time
@@ -45,7 +45,7 @@ import numpy as np
 from .cluster import cluster_labels, groups
 from .decompose import DecomposeOptions, decompose, holding_equations, random_minor
 from .evaluate import BatchEvaluator
-from .errors import InputError
+from .errors import InputError, PointError
 from .polynomial import Polynomial, PolynomialSystem, determinant
 from .refine import IsolationTest
 from .smoothness import CheckOptions, check_points
@@ -389,8 +389,10 @@ def _affine(system, options, rng, paths, discarded, progress):
             if any(_already(found, candidate, point)):
                 discarded["duplicate"] = discarded.get("duplicate", 0) + 1
                 continue
-            verdict = check_points(system, [point], check_options, seed=int(rng.integers(2**31)),
-                                   decomposition=variety).points[0]
+            verdict = _judge(system, point, check_options, int(rng.integers(2**31)), variety)
+            if verdict is None:  # Newton cannot settle the point (a singular curve can make it drift)
+                discarded["not_settled_on_X"] = discarded.get("not_settled_on_X", 0) + 1
+                continue
             if verdict.verdict == "smooth":
                 discarded["smooth_on_check"] = discarded.get("smooth_on_check", 0) + 1
                 continue
@@ -411,6 +413,17 @@ def _affine(system, options, rng, paths, discarded, progress):
                                            kind_of, through, verdict.rank, verdict.codimension,
                                            notes + list(verdict.notes)))
     return found, variety
+
+
+def _judge(system, point, options, seed, variety):
+    """The check's verdict at a candidate; a looser point tolerance when refinement drifts; None if it fails."""
+    for tolerance in (options.point_tolerance, 1e-3):
+        try:
+            return check_points(system, [point], replace(options, point_tolerance=tolerance), seed=seed,
+                                decomposition=variety).points[0]
+        except PointError:
+            continue
+    return None
 
 
 @dataclass

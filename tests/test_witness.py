@@ -56,3 +56,18 @@ def test_projective_input_and_bad_bound_are_refused():
         witness_supersets(parse_system(["x^2 - y*z"], ["x", "y", "z"], projective=True), seed=0)
     with pytest.raises(InputError, match="lowest dimension"):
         witness_supersets(parse_system(["x"], ["x", "y"]), WitnessOptions(lowest_dimension=5), seed=0)
+
+
+@pytest.mark.parametrize("seed", range(4))
+def test_every_line_of_a_chebyshev_derivative(seed):
+    # T7'(x) = 7 U6(x) vanishes at x = cos(k pi / 7), k = 1..6 (Abramowitz and Stegun, Handbook of
+    # Mathematical Functions, chapter 22): in C^2 six parallel lines, each one witness point. The
+    # regeneration's paths to them nearly meet; a jump must be repaired, not lose a line.
+    from numag.polynomial import Polynomial, PolynomialSystem
+    x = Polynomial.variable(0, 2)
+    previous, current = Polynomial.constant(1, 2), x
+    for _ in range(6):
+        previous, current = current, x * current * 2 - previous
+    result = witness_supersets(PolynomialSystem(["x", "y"], [current.derivative(0)]), seed=seed)
+    found = np.sort(result.of_dimension(1).points[:, 0].real)
+    assert np.allclose(found, np.sort(np.cos(np.arange(1, 7) * np.pi / 7)), atol=1e-8)
