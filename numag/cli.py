@@ -94,6 +94,9 @@ def build_parser():
                             "(hypersurfaces), or chosen by estimated cost (default %(default)s)")
     locus.add_argument("--lowest-dimension", type=int, metavar="K",
                        help="do not search components (of X and of the singular locus) below dimension K")
+    locus.add_argument("--at-infinity", action="store_true",
+                       help="several equations: also search singular points at infinity (of V(F^h); a second "
+                            "computation of the same size). Hypersurfaces always get them.")
     locus.add_argument("--digits", type=int, default=SingularOptions.digits, metavar="D",
                        help="highest precision (decimal digits) for escalated rank decisions (default %(default)s)")
     locus.add_argument("--seed", type=int, help="seed of the random choices (recorded in the report)")
@@ -303,7 +306,7 @@ def _print_singular(result, out, angles):
 def _run_singular(args, out):
     system = load_system(args.system_file)
     angles = load_angles(args.system_file, system.variables)
-    options = SingularOptions(formulation=args.formulation, digits=args.digits,
+    options = SingularOptions(formulation=args.formulation, digits=args.digits, infinity_for_systems=args.at_infinity,
                               decompose=DecomposeOptions(witness=WitnessOptions(lowest_dimension=args.lowest_dimension)))
     if args.lowest_dimension is not None:
         options.decompose.witness.validated(system.n_variables)

@@ -341,6 +341,7 @@ def singular_to_dict(result, options):
         "seed": result.seed,
         "system": system_to_dict(result.system),
         "options": {"formulation": options.formulation, "digits": options.digits,
+                    "at_infinity_for_systems": options.infinity_for_systems,
                     "lowest_dimension": options.decompose.witness.lowest_dimension,
                     "max_exact_minors": options.max_exact_minors},
         "paths": decomposition_path_counts(result.paths),
@@ -362,6 +363,7 @@ def singular_from_dict(data):
     system = _report_system(data, "singular")
     o = data["options"]
     options = SingularOptions(formulation=o["formulation"], digits=int(o["digits"]),
+                              infinity_for_systems=bool(o.get("at_infinity_for_systems", False)),
                               max_exact_minors=int(o["max_exact_minors"]),
                               decompose=DecomposeOptions(witness=WitnessOptions(lowest_dimension=o["lowest_dimension"])))
     components = []

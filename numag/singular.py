@@ -74,12 +74,17 @@ class SingularOptions:
         combinations of them.
     digits : int
         Highest precision for escalated rank decisions.
+    infinity_for_systems : bool
+        Also search singular points at infinity for affine input of several equations (those of
+        V(F^h) on the hyperplane at infinity, in a random chart: a second computation of the same
+        size). Hypersurfaces always get them (cheap: solved on the hyperplane).
     """
 
     formulation: str = "auto"
     decompose: DecomposeOptions = DecomposeOptions()
     max_exact_minors: int = 24
     digits: int = 50
+    infinity_for_systems: bool = False
 
     def validated(self, system):
         if self.formulation not in FORMULATIONS:
@@ -338,9 +343,12 @@ def singular_locus(system, options=None, seed=None, progress=None):
             except InputError:
                 notes.append("The closure of X is singular or non-reduced along a positive-dimensional set at "
                              "infinity; its points at infinity are not listed.")
+        elif options.infinity_for_systems:
+            components += _at_infinity_of_homogenized(system, options, rng, paths, discarded, notes, progress)
         else:
-            notes.append("Singular points at infinity are not searched for systems of several equations: "
-                         "homogenising the generators can give more than the closure of X.")
+            notes.append("Singular points at infinity are not searched for systems of several equations unless "
+                         "asked for (--at-infinity): it is a second computation of the same size, on V(F^h), "
+                         "which can be larger than the closure of X.")
     components.sort(key=lambda c: (c.at_infinity, -c.dimension, -c.degree))
     for k, component in enumerate(components, 1):
         component.id = k
@@ -543,3 +551,31 @@ def _at_infinity(system, rng, paths, progress):
                                         solution.multiplicity, True, "gradient system at infinity", "singular",
                                         [], None, 1))
     return pieces
+
+
+def _at_infinity_of_homogenized(system, options, rng, paths, discarded, notes, progress):
+    """Singular pieces of V(F^h) inside the hyperplane at infinity (several equations), with the warning."""
+    if progress is not None:
+        progress("singular points at infinity (V(F^h) in a random chart)")
+    homogenized = PolynomialSystem(["w"] + list(system.variables),
+                                   [p.numeric().homogenize(0) for p in system.polynomials], projective=True,
+                                   name=system.name)
+    try:
+        pieces, _ = _projective_chart(homogenized, options, rng, paths, {}, [], None)
+    except InputError as err:
+        notes.append(f"Singular points at infinity could not be searched: {err}")
+        return []
+    kept = []
+    for piece in pieces:
+        at_w0 = np.abs(piece.points[:, 0]) <= 1e-8 * np.linalg.norm(piece.points, axis=1)
+        if np.all(at_w0):
+            piece.points = piece.points.copy()
+            piece.points[:, 0] = 0
+            piece.at_infinity = True
+            piece.on_components = []
+            piece.real = _real_flags(system, piece.points)
+            kept.append(piece)
+    notes.append("Singular points at infinity are those of V(F^h), the zero set of the homogenised equations, on "
+                 "the hyperplane w = 0. With several equations V(F^h) can be larger than the closure of X (the "
+                 "extra part lies at infinity), so a point listed at infinity may lie on that extra part only.")
+    return kept

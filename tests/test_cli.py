@@ -140,7 +140,13 @@ def test_singular_command_on_the_demo_linkage():
     code, text = run(["singular", str(EXAMPLES / "parallel_linkage.toml"), "--seed", "1", "--json"])
     data = json.loads(text)
     assert code == EXIT_OK and data["command"] == "singular" and data["seed"] == 1
-    assert [(c["dimension"], c["degree"], c["kind"]) for c in data["components"]] == [(0, 1, "singular")] * 2
+    affine = [c for c in data["components"] if not c["at_infinity"]]
+    assert [(c["dimension"], c["degree"], c["kind"]) for c in affine] == [(0, 1, "singular")] * 2
+    code, text = run(["singular", str(EXAMPLES / "parallel_linkage.toml"), "--seed", "1", "--json",
+                      "--at-infinity"])
+    data = json.loads(text)
+    infinite = [c for c in data["components"] if c["at_infinity"]]
+    assert code == EXIT_OK and infinite and all(c["points"][0][0] == [0.0, 0.0] for c in infinite)
     assert data["paths"]["tracked"] == data["paths"]["converged"] + data["paths"]["singular_endpoint"] + \
         data["paths"]["at_infinity"] + data["paths"]["failed"]
 
