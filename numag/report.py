@@ -298,24 +298,30 @@ def decomposition_to_dict(result, options):
     }
 
 
+def _component_from_dict(d, n):
+    points = np.array([decode_point(p) for p in d["points"]], dtype=complex).reshape(-1, n)
+    rows = np.array([decode_point(r) for r in d["slice"]], dtype=complex).reshape(-1, n + 1)
+    return Component(int(d["id"]), int(d["dimension"]), int(d["degree"]), points, np.array(d["real"], dtype=bool),
+                     int(d["multiplicity"]), bool(d["reduced"]), rows, bool(d["confirmed"]),
+                     _decode_float(d["trace_defect"]))
+
+
+def _counts_from_paths(paths):
+    """Flat path counts (statuses, failure reasons, endpoint fates) from a ``paths`` block."""
+    counts = {key: paths[key] for key in ("tracked", "converged", "singular_endpoint", "at_infinity")}
+    counts.update(paths["failed_by_reason"])
+    counts.update(paths["endpoints"])
+    return counts
+
+
 def decomposition_from_dict(data):
     """Rebuild a :class:`~numag.decompose.Decomposition` (and its options) from its JSON envelope."""
     system = _report_system(data, "decompose")
     o = data["options"]
     options = DecomposeOptions(witness=WitnessOptions(lowest_dimension=o["lowest_dimension"]),
                                max_loops=int(o["max_loops"]), trace_tolerance=float(o["trace_tolerance"]))
-    n = system.n_variables
-    components = []
-    for d in data["components"]:
-        points = np.array([decode_point(p) for p in d["points"]], dtype=complex).reshape(-1, n)
-        rows = np.array([decode_point(r) for r in d["slice"]], dtype=complex).reshape(-1, n + 1)
-        components.append(Component(int(d["id"]), int(d["dimension"]), int(d["degree"]), points,
-                                    np.array(d["real"], dtype=bool), int(d["multiplicity"]), bool(d["reduced"]),
-                                    rows, bool(d["confirmed"]), _decode_float(d["trace_defect"])))
-    paths = data["paths"]
-    counts = {key: paths[key] for key in ("tracked", "converged", "singular_endpoint", "at_infinity")}
-    counts.update(paths["failed_by_reason"])
-    counts.update(paths["endpoints"])
+    components = [_component_from_dict(d, system.n_variables) for d in data["components"]]
+    counts = _counts_from_paths(data["paths"])
     result = Decomposition(system, components, list(data["dimensions_searched"]), counts,
                            {int(k): int(v) for k, v in data["monodromy_loops"].items()}, data["seed"],
                            float(data["seconds"]))
@@ -373,20 +379,10 @@ def singular_from_dict(data):
                                             np.array(d["real"], dtype=bool), d["multiplicity"],
                                             bool(d["at_infinity"]), d["formulation"], d["kind"],
                                             list(d["on_components"]), d["rank"], d["codimension"], list(d["notes"])))
-    paths = data["paths"]
-    counts = {key: paths[key] for key in ("tracked", "converged", "singular_endpoint", "at_infinity")}
-    counts.update(paths["failed_by_reason"])
-    counts.update(paths["endpoints"])
-    n = system.n_variables
+    counts = _counts_from_paths(data["paths"])
     variety = None
     if data["variety"]:
-        parts = []
-        for d in data["variety"]:
-            parts.append(Component(int(d["id"]), int(d["dimension"]), int(d["degree"]),
-                                   np.array([decode_point(p) for p in d["points"]], dtype=complex).reshape(-1, n),
-                                   np.array(d["real"], dtype=bool), int(d["multiplicity"]), bool(d["reduced"]),
-                                   np.array([decode_point(r) for r in d["slice"]], dtype=complex).reshape(-1, n + 1),
-                                   bool(d["confirmed"]), _decode_float(d["trace_defect"])))
+        parts = [_component_from_dict(d, system.n_variables) for d in data["variety"]]
         variety = Decomposition(system, parts, [], {}, {}, data["seed"], 0.0)
     result = SingularLocus(system, components, variety, counts, dict(data["discarded"]), data["seed"],
                            float(data["seconds"]), list(data["notes"]))
