@@ -50,6 +50,7 @@ from .polynomial import Polynomial, PolynomialSystem, determinant
 from .refine import IsolationTest
 from .smoothness import CheckOptions, check_points
 from .solve import SolveOptions, solve_system
+from .tracker import FAILURE_LABELS
 from .witness import combine_equations, linear_form, random_rows, track_moves
 
 __all__ = ["SingularOptions", "SingularComponent", "SingularLocus", "singular_locus", "FORMULATIONS"]
@@ -336,7 +337,7 @@ def singular_locus(system, options=None, seed=None, progress=None):
         else:
             components, variety = _projective_chart(system, options, rng, paths, discarded, notes, progress)
     else:
-        components, variety = _affine(system, options, rng, paths, discarded, progress)
+        components, variety = _affine(system, options, rng, paths, discarded, progress, notes)
         if system.n_equations == 1:
             try:
                 components += _at_infinity(system, rng, paths, progress)
@@ -355,10 +356,11 @@ def singular_locus(system, options=None, seed=None, progress=None):
     return SingularLocus(system, components, variety, paths, discarded, seed, time.perf_counter() - started, notes)
 
 
-def _affine(system, options, rng, paths, discarded, progress):
+def _affine(system, options, rng, paths, discarded, progress, notes_out=None):
     """Singular pieces of an affine X by decomposing F + minors for each codimension of X."""
     if progress is not None:
         progress("decomposing X")
+    notes_out = [] if notes_out is None else notes_out
     variety = decompose(system, options.decompose, seed=int(rng.integers(2**32)), progress=progress)
     _add_counts(paths, variety.paths)
     n = system.n_variables
@@ -383,6 +385,11 @@ def _affine(system, options, rng, paths, discarded, progress):
                      f"in {augmented.n_variables} unknowns)")
         candidates = decompose(augmented, options.decompose, seed=int(rng.integers(2**32)), progress=progress)
         _add_counts(paths, candidates.paths)
+        failed = sum(candidates.paths.get(label, 0) for label in FAILURE_LABELS)
+        if failed:
+            notes_out.append(f"{failed} path(s) of the {kind} system for codimension {codimension} failed: singular "
+                             "points there may be missing (a singular endpoint the endgame could not settle). "
+                             "Run again with another --seed or --formulation to compare.")
         if kind == "null vector":
             projected = _projected_candidates(system, augmented, candidates, rng, options, paths)
         else:
@@ -491,7 +498,7 @@ def _chart(system, rng):
 
 def _projective_chart(system, options, rng, paths, discarded, notes, progress):
     affine, q = _chart(system, rng)
-    pieces, variety = _affine(affine, options, rng, paths, discarded, progress)
+    pieces, variety = _affine(affine, options, rng, paths, discarded, progress, notes)
     for piece in pieces:
         homogeneous = np.column_stack([np.ones(len(piece.points)), piece.points]) @ q.T
         piece.points = np.array([_normalize(p) for p in homogeneous])
