@@ -216,9 +216,9 @@ def minors_system(system, codimension, rng, max_exact):
 
 
 def null_vector_system(system, codimension, rng):
-    """F(x) = 0, lambda^T A J(x) = 0 and b . lambda = 1 in the unknowns (x, lambda), lambda in C^c.
+    """F(x) = 0, lambda^T A J(x) B = 0 and b . lambda = 1 in the unknowns (x, lambda), lambda in C^c.
 
-    A (c x m) and b are random. Over a point x of X where rank J = c there is no lambda; over a
+    A (c x m), B (n x n) and b are random. Over a point x of X where rank J = c there is no lambda; over a
     point of corank r the lambdas form an affine space of dimension r - 1 (a positive-dimensional
     fibre when r >= 2): callers project to x and measure the dimension there.
     """
@@ -231,13 +231,21 @@ def null_vector_system(system, codimension, rng):
         exponents = np.hstack([p.exponents, np.zeros((p.n_terms, codimension), dtype=np.int64)])
         lifted.append(Polynomial(exponents, p.numeric_coefficients(), total))
     lambdas = [Polynomial.variable(n + i, total).numeric() for i in range(codimension)]
+    # The columns are random combinations too (lambda^T A J B = 0 with B invertible, the same set):
+    # with J's own columns, one that vanishes at a special point (the linkage's sine columns at its
+    # branch points) puts a whole lambda plane over that point into the intermediate sets of the
+    # witness sweep, and paths must start from singular points there.
+    b_matrix = (rng.standard_normal((n, n)) + 1j * rng.standard_normal((n, n))) / math.sqrt(2 * n)
+    gradients = [[lifted[k].derivative(l) for l in range(n)] for k in range(m)]
     equations = list(lifted)
     for j in range(n):
         row = Polynomial.zero(total)
         for i in range(codimension):
             combined = Polynomial.zero(total)
             for k in range(m):
-                combined = combined + lifted[k].derivative(j) * complex(a[i, k])
+                for l in range(n):
+                    if not gradients[k][l].is_zero():
+                        combined = combined + gradients[k][l] * complex(a[i, k] * b_matrix[l, j])
             row = row + lambdas[i] * combined
         if not row.is_zero():
             equations.append(row * (1.0 / row.coefficient_norm()))

@@ -2,6 +2,7 @@
 
 import itertools
 import json
+import pathlib
 
 import numpy as np
 import pytest
@@ -133,3 +134,16 @@ def test_random_nodal_curves_agree_with_sympy(case):
                                        ["x", "y"])
     locus = singular_locus(parse_system([f], ["x", "y"]), seed=case)
     assert len(affine_points(locus)) == expected
+
+
+def test_null_vector_form_finds_the_branch_points_of_the_demo_linkage():
+    # The parallelogram four-bar at its change point crosses branches where crank and rocker are both
+    # at 0 or both at 180 degrees (common practice, no source). J's sine columns vanish there: the
+    # null-vector rows must mix the columns, or a whole lambda plane over those points spoils the sweep.
+    from numag.files import load_system
+    system = load_system(pathlib.Path(__file__).parent.parent / "numag" / "examples" / "parallel_linkage.toml")
+    locus = singular_locus(system, SingularOptions(formulation="null vector"), seed=1)
+    points = sorted(np.round(c.points[0].real, 8).tolist() for c in affine_points(locus))
+    assert points == [[-1.0, 0.0, -1.0, 0.0], [1.0, 0.0, 1.0, 0.0]]
+    assert sum(locus.paths.get(label, 0) for label in ("minimum_step", "step_limit", "non_finite",
+                                                       "endgame_unsettled")) == 0
