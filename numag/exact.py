@@ -77,6 +77,21 @@ def square_free_split(value):
     return square, free
 
 
+def _primes_under_roots(parts):
+    """The primes dividing some radicand (radicands are square-free and, in practice, small)."""
+    primes = set()
+    for r in parts:
+        rest, divisor = r, 2
+        while divisor * divisor <= rest:
+            while rest % divisor == 0:
+                primes.add(divisor)
+                rest //= divisor
+            divisor += 1
+        if rest > 1:
+            primes.add(rest)
+    return sorted(primes)
+
+
 def _check_size(q):
     if q.numerator.bit_length() > MAX_COEFFICIENT_BITS or q.denominator.bit_length() > MAX_COEFFICIENT_BITS:
         raise LimitError(f"an exact coefficient exceeds {MAX_COEFFICIENT_BITS} bits",
@@ -241,18 +256,32 @@ class ExactCoefficient:
     __rmul__ = __mul__
 
     def reciprocal(self):
-        """``1/self`` for a nonzero single-term number ``q*sqrt(r)``.
+        """``1/self`` for a nonzero number.
+
+        A sum of several square-root terms is made rational by multiplying with its
+        conjugates: for each prime p under a square root, negating every sqrt(r) with p | r
+        gives a conjugate whose product with the number has no sqrt of a multiple of p.
 
         Raises
         ------
         InputError
-            For zero, or for a sum of several square-root terms.
+            For zero.
+
+        Examples
+        --------
+        >>> golden = (ExactCoefficient.rational(1) + ExactCoefficient.square_root(5)) / 2
+        >>> golden.reciprocal().to_text()
+        '-1/2 + 1/2*sqrt(5)'
         """
         if self.is_zero():
             raise InputError("division by zero")
         if not self.is_single_term():
-            raise InputError(f"division by {self.to_text()} is not supported: divide only by a "
-                             "rational, I, or a single sqrt term")
+            numerator, denominator = ExactCoefficient.rational(1), self
+            for prime in _primes_under_roots(self._parts):
+                conjugate = ExactCoefficient({r: ((-re, -im) if r % prime == 0 else (re, im))
+                                              for r, (re, im) in denominator._parts.items()})
+                numerator, denominator = numerator * conjugate, denominator * conjugate
+            return numerator * denominator.reciprocal()
         (r, (a, b)), = self._parts.items()
         # 1/((a+bi) sqrt r) = (a-bi) sqrt(r) / ((a^2+b^2) r)
         norm = (a * a + b * b) * r

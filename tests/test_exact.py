@@ -40,8 +40,15 @@ def test_imaginary_unit_and_reciprocal():
     assert z * z.reciprocal() == 1
     with pytest.raises(InputError):
         ExactCoefficient.zero().reciprocal()
-    with pytest.raises(InputError):
-        (ExactCoefficient.rational(1) + ExactCoefficient.square_root(2)).reciprocal()
+
+
+def test_reciprocal_of_sums_of_roots():
+    # rationalising denominators by conjugates: common practice, no source
+    root2, root3 = ExactCoefficient.square_root(2), ExactCoefficient.square_root(3)
+    i = ExactCoefficient.imaginary_unit()
+    for value in (1 + root2, root2 + root3 + 5, (2 - i) * root3 + root2 * root3 - 7 * i):
+        assert value * value.reciprocal() == 1
+    assert (1 + root2).reciprocal() == root2 - 1
 
 
 def test_context_evaluation_matches_mpmath():

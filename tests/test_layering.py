@@ -13,7 +13,7 @@ LAYERS = [
     {"parse"},
     {"evaluate", "linalg", "rescue"},
     {"refine", "homotopy", "tracker"},
-    {"solve", "witness"},
+    {"solve", "witness", "certify"},
     {"decompose"},
     {"smoothness"},
     {"singular"},
