@@ -67,7 +67,7 @@ from .polynomial import Polynomial, determinant
 
 __all__ = ["CertifyOptions", "Certificate", "certify_regular_zero", "certify_singular_point",
            "certify_smooth_point", "singularity_equations", "overlapping_pairs", "ALPHA_ZERO_TEXT",
-           "alpha_zero", "STATUSES"]
+           "alpha_zero", "alpha_test", "working_digits", "STATUSES"]
 
 #: The three answers of a certificate.
 STATUSES = ("certified", "refuted", "undecided")
@@ -186,6 +186,9 @@ class Certificate:
         Upper bound on Smale's alpha at the centre; ``alpha_certified`` when below
         the constant ALPHA_ZERO_TEXT.
     alpha_certified : bool
+    alpha_radius : float or None
+        2 beta: the alpha test puts the zero Newton's method converges to within this
+        distance of the centre.
     deflations : int
         Rounds of isosingular deflation that were needed.
     square_equations : list of int
@@ -218,6 +221,7 @@ class Certificate:
     residual_bound: object = None
     alpha: object = None
     alpha_certified: bool = False
+    alpha_radius: object = None
     deflations: int = 0
     square_equations: list = field(default_factory=list)
     chart: object = None
@@ -461,6 +465,41 @@ class _Square:
         return beta * gamma * (1 + 16 * mp.eps), beta
 
 
+def alpha_test(polynomials, point, digits=30):
+    """Smale's alpha test for a square system at ``point``, in interval arithmetic.
+
+    Parameters
+    ----------
+    polynomials : sequence of Polynomial
+        n polynomials in n variables.
+    point : array_like of complex
+    digits : int
+
+    Returns
+    -------
+    (alpha, beta, certified)
+        Upper bounds on alpha and beta (floats, None when J is not invertible there) and whether
+        alpha < (13 - 3 sqrt(17))/4: then Newton's method from ``point`` converges quadratically
+        to a zero within 2 beta.
+
+    Examples
+    --------
+    >>> from numag.parse import parse_system
+    >>> alpha, beta, ok = alpha_test(parse_system(["x^2 - 2"], ["x"]).polynomials, [1.4142])
+    >>> ok, round(beta, 6)
+    (True, 1.4e-05)
+    """
+    polynomials = list(polynomials)
+    if not polynomials or len(polynomials) != polynomials[0].n_variables:
+        raise InputError("the alpha test needs a square system")
+    with working_digits(digits):
+        center = [mpmath.mp.mpc(complex(v)) for v in np.asarray(point, dtype=complex)]
+        alpha, beta = _Square(polynomials).alpha(center)
+        if alpha is None:
+            return None, None, False
+        return float(alpha), float(beta), bool(alpha < mpmath.mp.mpf(alpha_zero(mpmath.iv).a))
+
+
 def _weyl_norm_squared(polynomial):
     """Upper bound on the squared Bombieri-Weyl norm of the homogenised polynomial."""
     mp = mpmath.mp
@@ -635,7 +674,8 @@ def _certify_zero(polynomials, point, options, claim, exact_check=True):
         alpha, beta = square.alpha(center)
         alpha_ok = alpha is not None and alpha < mp.mpf(alpha_zero(iv).a)
         common = dict(deflations=deflations, square_equations=list(rows),
-                      alpha=None if alpha is None else float(alpha), alpha_certified=bool(alpha_ok))
+                      alpha=None if alpha is None else float(alpha), alpha_certified=bool(alpha_ok),
+                      alpha_radius=None if beta is None else float(2 * beta))
         if outcome != "inside" and alpha_ok:
             box_center, radius, method = center, 2 * beta, "alpha"
         elif outcome == "inside":
@@ -806,17 +846,16 @@ def _exact_certificate(certificate, square, equations, center, radius, options):
 
 
 def _quadratic_root(monic, t_value):
-    """The root of t^2 + b t + c (b, c rational) nearest ``t_value``, written with a square root."""
+    """The root of t^2 + b t + c nearest ``t_value``, with a square root, when b^2 - 4c is rational."""
     c, b = monic
-    if not (b.is_rational() and c.is_rational()):
+    disc = b * b - c * 4
+    if not disc.is_rational():
         return None
-    b, c = b.as_fraction(), c.as_fraction()
-    disc = b * b - 4 * c
+    disc = disc.as_fraction()
     root = ExactCoefficient.square_root(abs(disc))
     if disc < 0:
         root = root * ExactCoefficient.imaginary_unit()
-    candidates = [(ExactCoefficient.rational(-b) + sign * root) * ExactCoefficient.rational(Fraction(1, 2))
-                  for sign in (1, -1)]
+    candidates = [(root * sign - b) * ExactCoefficient.rational(Fraction(1, 2)) for sign in (1, -1)]
     return min(candidates, key=lambda v: abs(complex(v) - complex(t_value)))
 
 

@@ -1,0 +1,207 @@
+"""Certificates checked against published counts, exact coordinates from sympy, and the alpha theory."""
+
+import math
+
+import mpmath
+import numpy as np
+import pytest
+
+from numag.certify import (Certificate, _parse_center, CertifyOptions, alpha_test, alpha_zero, certify_regular_zero,
+                           certify_singular_point, certify_smooth_point, overlapping_pairs,
+                           singularity_equations, working_digits)
+from numag.errors import InputError
+from numag.parse import parse_system
+from numag.singular import singular_locus
+from numag.solve import solve_system
+
+
+def _system(problem):
+    return parse_system(problem["equations"], problem["variables"], projective=problem["projective"])
+
+
+def _certify_locus(system, options, seed=1):
+    locus = singular_locus(system, seed=seed)
+    return locus, [certify_singular_point(system, c.points[0], c.codimension, options) for c in locus.components]
+
+
+def test_kummer_nodes_certified_exactly_and_disjoint(problems):
+    # 16 nodes: Kummer's quartic, count as published (source named in the problem file)
+    problem = problems["kummer_quartic_mu2_eq_2"]
+    locus, certificates = _certify_locus(_system(problem), CertifyOptions(digits=30))
+    assert len(certificates) == problem["expected"]["singular_points"]
+    assert all(c.status == "certified" and c.kind == "exact" for c in certificates)
+    assert overlapping_pairs(certificates) == []
+    assert all(c.distinct for c in certificates)
+    assert sum(bool(c.real) for c in certificates) == problem["expected"]["real_singular_points"]
+    for c in certificates:
+        assert c.exact_coordinates is not None and c.exact_coordinates[c.chart] == "1"
+
+
+def test_barth_sextic_nodes_numerical_certificates(problems):
+    # 65 nodes: W. Barth, J. Algebraic Geom. 1996 (named in the problem file)
+    problem = problems["barth_sextic_exact"]
+    locus, certificates = _certify_locus(_system(problem), CertifyOptions(digits=30, exact=False))
+    assert len(certificates) == problem["expected"]["singular_points"]
+    assert all(c.status == "certified" and c.kind == "numerical" for c in certificates)
+    assert overlapping_pairs(certificates) == []
+    for c in certificates:
+        assert c.backward_error is not None and 0 <= c.backward_error < 1e-20
+        assert c.radius < 1e-20
+
+
+def test_cusp_certified_through_deflation_and_smooth_point_never_certified_singular(problems):
+    # y^2 = x^3: A2 cusp at the origin only (problem file: common practice, no source)
+    system = _system(problems["cusp"])
+    certificate = certify_singular_point(system, [2e-9, -1e-9], options=CertifyOptions(digits=30))
+    assert certificate.status == "certified" and certificate.deflations >= 1
+    assert np.all(np.abs(certificate.center.real) <= certificate.radius)
+    assert np.all(np.abs(certificate.center.imag) <= certificate.radius)
+    assert certificate.exact_coordinates == ["0", "0"] and certificate.kind == "exact"
+    smooth = certify_singular_point(system, [1.0, 1.0], options=CertifyOptions(digits=30))
+    assert smooth.status in ("refuted", "undecided")
+
+
+def test_cone_smooth_point_and_vertex(problems):
+    # affine cone over a smooth plane cubic: singular only at the vertex (problem file)
+    system = _system(problems["cone_over_smooth_plane_cubic"])
+    smooth = certify_smooth_point(system, [0.0, 1.0, 1.0], codimension=1)  # 1*1 - 0 - 0 - 1 = 0
+    assert smooth.status == "certified" and smooth.kind == "exact"
+    assert smooth.lower_singular_value > 0
+    vertex = certify_singular_point(system, [1e-10, -2e-10, 1e-10])
+    assert vertex.status == "certified" and vertex.kind == "exact"
+    assert vertex.exact_coordinates == ["0", "0", "0"]
+    # the smoothness certificate is never granted at the vertex
+    assert certify_smooth_point(system, [0.0, 0.0, 0.0], codimension=1).status != "certified"
+
+
+def test_cone_over_twisted_cubic_vertex_and_smooth_point(problems):
+    # affine cone over the twisted cubic: a surface in C^4 singular only at 0 (problem file)
+    system = _system(problems["affine_cone_over_twisted_cubic"])
+    vertex = certify_singular_point(system, [1e-9, 0, 0, -1e-9], codimension=2)
+    assert vertex.status == "certified" and vertex.kind == "exact"
+    smooth = certify_smooth_point(system, [1.0, 2.0, 4.0, 8.0], codimension=2)
+    assert smooth.status == "certified" and smooth.kind == "numerical"  # 3 equations, codimension 2
+    assert any("local dimension" in note for note in smooth.notes)
+    assert certify_singular_point(system, [1.0, 2.0, 4.0, 8.0], codimension=2).status == "refuted"
+
+
+def _to_sympy(polynomial, symbols):
+    """Our exact polynomial as a sympy expression (built term by term, no parsing)."""
+    sympy = pytest.importorskip("sympy")
+    total = 0
+    for row, c in zip(polynomial.exponents, polynomial.coefficients):
+        value = sum((sympy.Rational(re.numerator, re.denominator) + sympy.I * sympy.Rational(im.numerator, im.denominator))
+                    * sympy.sqrt(r) for r, (re, im) in c.parts.items())
+        total += value * sympy.Mul(*[s ** int(e) for s, e in zip(symbols, row)])
+    return total
+
+
+@pytest.mark.parametrize("name", ["four_generic_lines", "kummer_affine_chart", "node"])
+def test_fifty_digit_coordinates_agree_with_sympy(problems, name):
+    # exact algebraic coordinates of the singular points from sympy (reference library)
+    sympy = pytest.importorskip("sympy")
+    if name == "kummer_affine_chart":
+        equations = ["(x^2 + y^2 + z^2 - 2)^2 - 5*((1 - z)^2 - 2*x^2)*((1 + z)^2 - 2*y^2)"]
+        names = ["x", "y", "z"]
+    else:
+        equations, names = problems[name]["equations"], problems[name]["variables"]
+    system = parse_system(equations, names)
+    symbols = sympy.symbols(names)
+    f = _to_sympy(system.polynomials[0], symbols)
+    solutions = sympy.solve([f] + [f.diff(s) for s in symbols], symbols, dict=True)
+    assert solutions
+    options = CertifyOptions(digits=50)
+    for solution in solutions:
+        with working_digits(70):
+            exact = [mpmath.mpc(mpmath.mpf(str(sympy.re(solution[s]).evalf(70))),
+                                mpmath.mpf(str(sympy.im(solution[s]).evalf(70)))) for s in symbols]
+        start = np.array([complex(v) for v in exact]) + 1e-10
+        certificate = certify_singular_point(system, start, options=options)
+        assert certificate.status == "certified"
+        assert certificate.radius < 1e-45
+        with working_digits(70):
+            for text, value in zip(certificate.center_text, exact):
+                center = _parse_center(text)
+                assert abs(center.real - value.real) <= certificate.radius
+                assert abs(center.imag - value.imag) <= certificate.radius
+
+
+def test_alpha_constant_and_alpha_against_krawczyk():
+    # alpha_0 = (13 - 3 sqrt 17)/4: Blum, Cucker, Shub, Smale, "Complexity and Real Computation", 1998
+    with working_digits(30):
+        enclosure = alpha_zero(mpmath.iv)
+        assert enclosure.a <= (13 - 3 * math.sqrt(17)) / 4 + 1e-15
+        assert float(enclosure.b) == pytest.approx(0.15767078078675, abs=1e-12)
+    # x^2 + y^2 = 5, x y = 2 has the four real solutions (+-1, +-2), (+-2, +-1) (worked by hand)
+    system = parse_system(["x^2 + y^2 - 5", "x*y - 2"], ["x", "y"])
+    for root in ([1, 2], [2, 1], [-1, -2], [-2, -1]):
+        nearby = np.array(root, dtype=complex) + np.array([3e-4, -2e-4])
+        alpha, beta, ok = alpha_test(system.polynomials, nearby)
+        assert ok and alpha < 0.1577
+        certificate = certify_regular_zero(system, nearby, CertifyOptions(digits=30, match_radius=1e-2))
+        assert certificate.status == "certified" and certificate.method == "Krawczyk" and certificate.real
+        # the alpha theory's zero lies within 2 beta of the start: it is the Krawczyk box's unique zero
+        assert np.max(np.abs(certificate.center - nearby)) <= 2 * beta + certificate.radius
+        assert certificate.alpha_certified and certificate.alpha_radius <= certificate.radius
+    far = np.array([1.5, 1.5], dtype=complex)  # between two solutions: alpha must not certify
+    assert not alpha_test(system.polynomials, far)[2]
+
+
+def test_gamma_bound_exceeds_second_derivative_term():
+    # gamma >= |J^-1 D^2 f(x)(v, v)|/2 for unit v (definition of gamma; Shub & Smale 1993): the bound
+    # used in the alpha test must dominate this lower estimate (common practice, no source)
+    system = parse_system(["x^3 - 2*x*y + 1", "y^2 - x + 3*y"], ["x", "y"])
+    rng = np.random.default_rng(4)
+    x = np.array([0.3 + 0.2j, -0.7 + 0.1j])
+    alpha, beta, _ = alpha_test(system.polynomials, x)
+    gamma_bound = alpha / beta
+    jac = np.array([[3 * x[0] ** 2 - 2 * x[1], -2 * x[0]], [-1, 2 * x[1] + 3]])
+    for _ in range(20):
+        v = rng.standard_normal(2) + 1j * rng.standard_normal(2)
+        v /= np.linalg.norm(v)
+        second = np.array([6 * x[0] * v[0] ** 2 - 4 * v[0] * v[1], 2 * v[1] ** 2])
+        assert np.linalg.norm(np.linalg.solve(jac, second)) / 2 <= gamma_bound
+
+
+def test_regular_solutions_certified_real_and_distinct():
+    # x^2 + 1 = 0, y^2 - 2 = 0: four solutions (+-i, +-sqrt 2), none real (worked by hand)
+    system = parse_system(["x^2 + 1", "y^2 - 2"], ["x", "y"])
+    result = solve_system(system, seed=2)
+    certificates = [certify_regular_zero(system, s.point, CertifyOptions(digits=25)) for s in result.solutions]
+    assert len(certificates) == 4 and all(c.status == "certified" for c in certificates)
+    assert overlapping_pairs(certificates) == []
+    assert all(c.real is False for c in certificates)
+    assert all(c.kind == "exact" for c in certificates)
+    assert {tuple(c.exact_coordinates) for c in certificates} == {
+        ("I", "sqrt(2)"), ("-I", "sqrt(2)"), ("I", "-sqrt(2)"), ("-I", "-sqrt(2)")}
+
+
+def test_non_isolated_zero_is_undecided_and_far_point_refuted():
+    # x(x - y) = x(x + y) = 0 is the line x = 0 with an embedded point: not an isolated zero
+    system = parse_system(["x*(x - y)", "x*(x + y)"], ["x", "y"])
+    assert certify_regular_zero(system, [0.0, 0.5]).status == "undecided"
+    assert certify_regular_zero(system, [3.0, 0.5]).status == "refuted"
+
+
+def test_overlap_detected_across_charts():
+    # one projective point written in two charts must count as one box (common practice, no source)
+    system = parse_system(["x^2 - y*z", "y - 2*z"], ["x", "y", "z"], projective=True)
+    point = np.array([math.sqrt(2), 2.0, 1.0])
+    a = certify_regular_zero(system, point)
+    assert a.status == "certified" and a.chart == 1
+    b = Certificate(**{**a.__dict__})
+    b.chart, b.center = 2, a.center / a.center[2]
+    assert overlapping_pairs([a, b]) == [(0, 1)]
+    assert a.distinct is False
+
+
+def test_options_and_input_are_checked():
+    system = parse_system(["x^2 - y"], ["x", "y"])
+    with pytest.raises(InputError, match="digits"):
+        certify_regular_zero(system, [1, 1], CertifyOptions(digits=5))
+    with pytest.raises(InputError, match="coordinates"):
+        certify_singular_point(system, [1, 1, 1])
+    with pytest.raises(InputError, match="codimension"):
+        singularity_equations(system, 3)
+    with pytest.raises(InputError, match="codimension is needed"):
+        certify_singular_point(parse_system(["x", "y"], ["x", "y"]), [0, 0])
