@@ -18,8 +18,9 @@ from . import __version__
 from .errors import NumagError
 from .files import load_angles, load_points, load_system, parse_point_assignment
 from .decompose import DecomposeOptions, decompose
-from .report import (CAUTION, check_report_to_dict, decomposition_to_dict, dumps, singular_to_dict,
-                     solve_report_to_dict)
+from .certify import CertifyOptions
+from .report import (CAUTION, certify_report, check_report_to_dict, decomposition_to_dict, dumps, read_report,
+                     singular_to_dict, solve_report_to_dict, write_report)
 from .singular import FORMULATIONS, SingularOptions, singular_locus
 from .smoothness import CheckOptions, check_points
 from .witness import WitnessOptions
@@ -66,6 +67,7 @@ def build_parser():
                        help="relative accuracy of the given points (default %(default)s)")
     check.add_argument("--seed", type=int, help="seed for the random choices (recorded in the report)")
     check.add_argument("--json", action="store_true", help="print the report as JSON")
+    _add_certify_switch(check)
     check.set_defaults(run=_run_check)
 
     solve = commands.add_parser(
@@ -81,6 +83,7 @@ def build_parser():
                        help="paths tracked together (default %(default)s)")
     solve.add_argument("--seed", type=int, help="seed of the random choices (recorded in the report)")
     solve.add_argument("--json", action="store_true", help="print the report as JSON (no progress lines)")
+    _add_certify_switch(solve)
     solve.set_defaults(run=_run_solve)
 
     locus = commands.add_parser(
@@ -101,6 +104,7 @@ def build_parser():
                        help="highest precision (decimal digits) for escalated rank decisions (default %(default)s)")
     locus.add_argument("--seed", type=int, help="seed of the random choices (recorded in the report)")
     locus.add_argument("--json", action="store_true", help="print the report as JSON (no progress lines)")
+    _add_certify_switch(locus)
     locus.set_defaults(run=_run_singular)
 
     parts = commands.add_parser(
@@ -115,7 +119,29 @@ def build_parser():
     parts.add_argument("--seed", type=int, help="seed of the random choices (recorded in the report)")
     parts.add_argument("--json", action="store_true", help="print the report as JSON (no progress lines)")
     parts.set_defaults(run=_run_decompose)
+
+    certify = commands.add_parser(
+        "certify", help="certify the points of a saved report (solve, singular or check)",
+        description="Prove what can be proved about each point of a saved JSON report: a box holding exactly "
+                    "one zero (Krawczyk's interval test, with Smale's alpha test beside it), real where the "
+                    "box is symmetric, the backward error of the other equations, exact coordinates where "
+                    "they can be recognised, and rank bounds for smooth points. Writes the certificates "
+                    "into the report.")
+    certify.add_argument("report_file", metavar="REPORT", help="JSON report of numag solve, singular or check")
+    certify.add_argument("-o", "--output", metavar="FILE",
+                         help="write the certified report here (default: replace REPORT atomically)")
+    certify.add_argument("--digits", type=int, default=CertifyOptions.digits, metavar="D",
+                         help="precision (decimal digits) of refinement and interval arithmetic (default %(default)s)")
+    certify.add_argument("--numerical-only", action="store_true",
+                         help="do not try to recognise exact coordinates (faster)")
+    certify.add_argument("--json", action="store_true", help="print the certified report as JSON")
+    certify.set_defaults(run=_run_certify)
     return parser
+
+
+def _add_certify_switch(command):
+    command.add_argument("--certify", action="store_true",
+                         help="certify the resulting points at --digits digits (see 'numag certify')")
 
 
 def _format_complex(z):
@@ -132,7 +158,7 @@ def _format_point(names, point):
     return ", ".join(f"{n}={_format_complex(complex(z))}" for n, z in zip(names, point))
 
 
-def _print_check(report, out):
+def _print_check(report, out, data=None):
     system = report.system
     kind = "projective" if system.projective else "affine"
     out.write(f"numag check: {system.name or 'system'}: {system.n_equations} equation(s) in "
@@ -164,7 +190,9 @@ def _print_check(report, out):
         for note in v.notes:
             out.write(f"  note: {note}\n")
     counts = ", ".join(f"{n} {c}" for n, c in report.counts().items())
-    out.write(f"\nsummary: {counts}\n{CAUTION}\n")
+    out.write(f"\nsummary: {counts}\n")
+    _print_certification(data, out)
+    out.write(f"\n{CAUTION}\n")
 
 
 def _run_check(args, out):
@@ -183,11 +211,77 @@ def _run_check(args, out):
     if args.local_dimension is None and not args.without_components and not system.projective:
         decomposition = decompose(system, seed=seed, progress=_Messages(args.json))
     report = check_points(system, points, options, seed=seed, decomposition=decomposition)
+    data = _certified(check_report_to_dict(report), args)
     if args.json:
-        out.write(dumps(check_report_to_dict(report)) + "\n")
+        out.write(dumps(data) + "\n")
     else:
-        _print_check(report, out)
-    return EXIT_UNDECIDED if report.undecided else EXIT_OK
+        _print_check(report, out, data)
+    return EXIT_UNDECIDED if report.undecided or _doubtful(data) else EXIT_OK
+
+
+def _certified(data, args):
+    """The report with certificates when ``--certify`` was given."""
+    if not getattr(args, "certify", False):
+        return data
+    return certify_report(data, CertifyOptions(digits=args.digits), progress=_Messages(args.json))
+
+
+def _doubtful(data):
+    """True when a certificate is undecided or refuted."""
+    summary = data.get("certification")
+    return bool(summary) and (summary["counts"]["undecided"] + summary["counts"]["refuted"]) > 0
+
+
+def _certificate_line(certificate):
+    c = certificate
+    if c["status"] != "certified":
+        return f"{c['status']}: {c['reason']}"
+    parts = [f"certified ({c['kind']}, {c['method']}, {c['claim']})", f"radius {c['radius']:.1e}"]
+    if c["real"] is True:
+        parts.append("real")
+    if c["backward_error"] is not None:
+        parts.append(f"backward error {c['backward_error']:.1e}")
+    if c["lower_singular_value"] is not None:
+        parts.append(f"sigma_min >= {c['lower_singular_value']:.2g}")
+    if c["deflations"]:
+        parts.append(f"{c['deflations']} deflation(s)")
+    if c["distinct"] is False:
+        parts.append("BOX MEETS ANOTHER BOX")
+    text = ", ".join(parts)
+    if c["exact_coordinates"] is not None:
+        text += "\n            exact: (" + ", ".join(c["exact_coordinates"]) + ")"
+        if c["minimal_polynomial"]:
+            text += f" where t is the root of {c['minimal_polynomial']} near the centre"
+    return text
+
+
+def _print_certification(data, out):
+    """Certificates of a report (as written by :func:`numag.report.certify_report`), if any."""
+    summary = (data or {}).get("certification")
+    if not summary:
+        return
+    out.write(f"\ncertificates at {summary['digits']} digits ({summary['seconds']:.2f} s):\n")
+    rows = []
+    if data["command"] == "solve":
+        rows = [(f"solution {k}", e["certificate"]) for k, e in enumerate(data["solutions"], 1)]
+        rows += [(f"at infinity {k}", e["certificate"]) for k, e in enumerate(data["at_infinity"], 1)]
+    elif data["command"] == "singular":
+        for component in data["components"]:
+            for k, c in enumerate(component["certificates"], 1):
+                label = f"component {component['id']}" + (f" point {k}" if len(component["certificates"]) > 1 else "")
+                rows.append((label, c))
+    else:
+        rows = [(f"point {e['index']}", e["certificate"]) for e in data["points"]]
+    for label, certificate in rows:
+        out.write(f"  {label}: {_certificate_line(certificate)}\n")
+    counts, kinds = summary["counts"], summary["certified_by_kind"]
+    out.write(f"  {counts['certified']} certified ({kinds['exact']} exact, {kinds['numerical']} numerical), "
+              f"{counts['refuted']} refuted, {counts['undecided']} undecided")
+    if summary["all_distinct"] is not None:
+        out.write("; certified boxes pairwise disjoint" if summary["all_distinct"] else
+                  f"; {summary['overlapping_pairs']} pair(s) of boxes meet (points may coincide)")
+    out.write("\n  numerical: exactly one zero of a square subsystem in the box, the other equations bounded "
+              "(backward error);\n  exact: proved for the exact equations (only these prove a point singular).\n")
 
 
 class _Progress:
@@ -261,7 +355,7 @@ def _angles_text(point, angles):
     return "  (" + ", ".join(f"{label} {degrees(c, s):.4f} deg" for label, (c, s) in angles.items()) + ")"
 
 
-def _print_singular(result, out, angles):
+def _print_singular(result, out, angles, data=None):
     system = result.system
     kind = "projective" if system.projective else "affine"
     out.write(f"numag singular: {system.name or 'system'}: {system.n_equations} equation(s) in "
@@ -300,6 +394,7 @@ def _print_singular(result, out, angles):
             out.write(f"  {c.id:4d}  {_format_point(homogeneous, c.points[0])}\n")
     for note in result.notes:
         out.write(f"\nnote: {note}\n")
+    _print_certification(data, out)
     out.write(f"\n{CAUTION}\n")
 
 
@@ -311,11 +406,13 @@ def _run_singular(args, out):
     if args.lowest_dimension is not None:
         options.decompose.witness.validated(system.n_variables)
     result = singular_locus(system, options, seed=args.seed, progress=_Messages(args.json))
+    data = _certified(singular_to_dict(result, options), args)
     if args.json:
-        out.write(dumps(singular_to_dict(result, options)) + "\n")
+        out.write(dumps(data) + "\n")
     else:
-        _print_singular(result, out, angles)
-    return EXIT_UNDECIDED if any(c.kind == "undecided" for c in result.components) else EXIT_OK
+        _print_singular(result, out, angles, data)
+    undecided = any(c.kind == "undecided" for c in result.components)
+    return EXIT_UNDECIDED if undecided or _doubtful(data) else EXIT_OK
 
 
 def _run_decompose(args, out):
@@ -332,7 +429,7 @@ def _run_decompose(args, out):
     return EXIT_UNDECIDED if result.unconfirmed else EXIT_OK
 
 
-def _print_solve(result, out):
+def _print_solve(result, out, data=None):
     system = result.system
     counts = result.path_counts()
     kind = "projective" if system.projective else "affine"
@@ -364,6 +461,7 @@ def _print_solve(result, out):
                   "sets (not counted as solutions):\n")
         for s in result.not_isolated:
             out.write(f"        paths {s.multiplicity}  {_format_point(names, s.point)}\n")
+    _print_certification(data, out)
     out.write(f"\n{CAUTION}\n")
 
 
@@ -371,11 +469,26 @@ def _run_solve(args, out):
     system = load_system(args.system_file)
     options = SolveOptions(refine_digits=args.digits, square_up=args.square_up, batch_size=args.batch_size)
     result = solve_system(system, options, seed=args.seed, progress=_Progress(args.json))
+    data = _certified(solve_report_to_dict(result, options), args)
     if args.json:
-        out.write(dumps(solve_report_to_dict(result, options)) + "\n")
+        out.write(dumps(data) + "\n")
     else:
-        _print_solve(result, out)
-    return EXIT_OK
+        _print_solve(result, out, data)
+    return EXIT_UNDECIDED if _doubtful(data) else EXIT_OK
+
+
+def _run_certify(args, out):
+    data = read_report(args.report_file)
+    options = CertifyOptions(digits=args.digits, exact=not args.numerical_only).validated()
+    certified = certify_report(data, options, progress=_Messages(args.json))
+    write_report(args.output or args.report_file, certified)
+    if args.json:
+        out.write(dumps(certified) + "\n")
+    else:
+        out.write(f"numag certify: {args.report_file} (a report of 'numag {certified['command']}')\n")
+        _print_certification(certified, out)
+        out.write(f"\nwritten to {args.output or args.report_file}\n\n{CAUTION}\n")
+    return EXIT_UNDECIDED if _doubtful(certified) else EXIT_OK
 
 
 def main(argv=None, out=None):

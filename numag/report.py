@@ -20,15 +20,22 @@ Examples
 [[1.0, 2.0], [3.0, 0.0]]
 """
 
+import copy
 import json
+import os
+import tempfile
+import time
 
 import numpy as np
 
 from . import __version__
+from .certify import (ALPHA_ZERO_TEXT, STATUSES, Certificate, CertifyOptions, certify_regular_zero,
+                      certify_singular_point, certify_smooth_point, overlapping_pairs)
 from .errors import InputError
 from .files import system_from_mapping
 from .decompose import Component, Decomposition, DecomposeOptions
 from .linalg import RankEvidence
+from .polynomial import PolynomialSystem
 from .smoothness import CheckOptions, CheckReport, PointVerdict
 from .singular import SingularComponent, SingularLocus, SingularOptions
 from .solve import Solution, SolveOptions, SolveResult
@@ -37,7 +44,8 @@ from .witness import WitnessOptions
 
 __all__ = ["CAUTION", "encode_point", "decode_point", "empty_path_counts", "system_to_dict",
            "check_report_to_dict", "check_report_from_dict", "dumps", "loads_check_report",
-           "solve_report_to_dict", "solve_report_from_dict"]
+           "solve_report_to_dict", "solve_report_from_dict", "certificate_to_dict", "certificate_from_dict",
+           "certify_report", "read_report", "write_report"]
 
 #: Printed with every result (terminal and JSON).
 CAUTION = ("Numerical results. Before relying on them for a real machine or structure, verify them with "
@@ -387,3 +395,213 @@ def singular_from_dict(data):
     result = SingularLocus(system, components, variety, counts, dict(data["discarded"]), data["seed"],
                            float(data["seconds"]), list(data["notes"]))
     return result, options
+
+
+# --- certificates ----------------------------------------------------------------------------------
+
+_CERTIFIABLE = ("solve", "singular", "check")
+
+
+def certificate_to_dict(c):
+    """A :class:`~numag.certify.Certificate` as JSON (status, kind, radius, backward error, ...)."""
+    return {"status": c.status, "kind": c.kind, "claim": c.claim, "center": encode_point(c.center),
+            "center_text": list(c.center_text), "radius": _encode_float(c.radius), "digits": c.digits,
+            "method": c.method, "real": c.real, "backward_error": _encode_float(c.backward_error),
+            "residual_bound": _encode_float(c.residual_bound), "alpha": _encode_float(c.alpha),
+            "alpha_certified": c.alpha_certified, "alpha_radius": _encode_float(c.alpha_radius),
+            "deflations": c.deflations, "square_equations": [int(k) for k in c.square_equations],
+            "chart": c.chart, "exact_coordinates": c.exact_coordinates,
+            "minimal_polynomial": c.minimal_polynomial,
+            "lower_singular_value": _encode_float(c.lower_singular_value), "distinct": c.distinct,
+            "reason": c.reason, "notes": list(c.notes)}
+
+
+def certificate_from_dict(d):
+    """Rebuild a :class:`~numag.certify.Certificate` from :func:`certificate_to_dict` output."""
+    try:
+        if d["status"] not in STATUSES:
+            raise InputError(f"unknown certificate status {d['status']!r}")
+        return Certificate(
+            status=d["status"], kind=d["kind"], claim=d["claim"], center=decode_point(d["center"]),
+            center_text=list(d["center_text"]), radius=_decode_float(d["radius"]), digits=int(d["digits"]),
+            method=d["method"], real=d["real"], backward_error=_decode_float(d["backward_error"]),
+            residual_bound=_decode_float(d["residual_bound"]), alpha=_decode_float(d["alpha"]),
+            alpha_certified=bool(d["alpha_certified"]), alpha_radius=_decode_float(d["alpha_radius"]),
+            deflations=int(d["deflations"]), square_equations=list(d["square_equations"]), chart=d["chart"],
+            exact_coordinates=d["exact_coordinates"], minimal_polynomial=d["minimal_polynomial"],
+            lower_singular_value=_decode_float(d["lower_singular_value"]), distinct=d["distinct"],
+            reason=d["reason"], notes=list(d["notes"]))
+    except (KeyError, TypeError) as err:
+        raise InputError(f"a certificate lacks the key {err}") from None
+
+
+def _not_certified(reason, point, digits):
+    return Certificate("undecided", "numerical", "", np.asarray(point, dtype=complex), [], None, digits,
+                       reason=reason)
+
+
+def _homogenized(system):
+    """F^h in (w, x): the space where an affine report's points at infinity live."""
+    return PolynomialSystem(["(w)"] + list(system.variables), [p.homogenize(0) for p in system.polynomials],
+                            projective=True)
+
+
+def _singular_certificates(system, component, options):
+    points = [decode_point(p) for p in component["points"]]
+    digits = options.digits
+    if component["kind"] == "non-reduced":
+        return [_not_certified("a generically non-reduced component of X: the equations cannot tell whether "
+                               "the variety is smooth there", p, digits) for p in points]
+    target = _homogenized(system) if component["at_infinity"] and not system.projective else system
+    codimension = component.get("codimension")
+    if codimension is None:
+        if system.n_equations != 1:
+            return [_not_certified("the report gives no codimension for this component", p, digits)
+                    for p in points]
+        codimension = 1
+    dimension = int(component["dimension"])
+    return [certify_singular_point(target, p, int(codimension), options, slices=dimension) for p in points]
+
+
+def _check_certificate(system, verdict, options):
+    point = decode_point(verdict["point"])
+    codimension = verdict.get("codimension")
+    if codimension is None:
+        return _not_certified("the report gives no codimension at this point", point, options.digits)
+    if verdict["verdict"] == "smooth":
+        return certify_smooth_point(system, point, int(codimension), options)
+    if verdict["verdict"] == "singular" and codimension >= 1:
+        return certify_singular_point(system, point, int(codimension), options)
+    return _not_certified(f"the rank decision is {verdict['verdict']}: there is no claim to certify",
+                          point, options.digits)
+
+
+def certify_report(data, options=None, progress=None):
+    """Certificates for the points of a saved report of ``solve``, ``singular`` or ``check``.
+
+    Parameters
+    ----------
+    data : dict
+        The JSON envelope (it is not modified).
+    options : CertifyOptions, optional
+    progress : callable, optional
+        Called with a one-line message as points are certified.
+
+    Returns
+    -------
+    dict
+        A copy with a ``certificate`` for each solution (``solve``), a ``certificates`` list
+        parallel to ``points`` for each component (``singular``), a ``certificate`` per point
+        (``check``), and a ``certification`` summary: counts by status and kind, overlapping
+        boxes (``all_distinct`` true when no two certified boxes meet), digits and time.
+
+    Examples
+    --------
+    >>> from numag.parse import parse_system
+    >>> from numag.singular import singular_locus
+    >>> locus = singular_locus(parse_system(["y^2 - x^2*(x + 1)"], ["x", "y"]), seed=1)
+    >>> report = certify_report(singular_to_dict(locus, SingularOptions()))
+    >>> report["components"][0]["certificates"][0]["status"], report["certification"]["all_distinct"]
+    ('certified', True)
+    """
+    started = time.perf_counter()
+    options = (options or CertifyOptions()).validated()
+    command = data.get("command") if isinstance(data, dict) else None
+    if command not in _CERTIFIABLE:
+        raise InputError(f"certify needs a report of 'numag solve', 'numag singular' or 'numag check', "
+                         f"not of {command!r}")
+    system = _report_system(data, command)
+    data = copy.deepcopy(data)
+    groups = []  # certificates whose boxes live in one coordinate space, for the disjointness check
+
+    def say(done, total):
+        if progress is not None and total:
+            progress(f"certified {done} of {total} point(s)")
+
+    if command == "solve":
+        entries = [(e, False) for e in data["solutions"]] + [(e, True) for e in data["at_infinity"]]
+        affine, infinite = [], []
+        for k, (entry, at_infinity) in enumerate(entries, 1):
+            point = decode_point(entry["point"])
+            if at_infinity and not system.projective:
+                certificate = certify_regular_zero(_homogenized(system), point, options)
+                infinite.append(certificate)
+            else:
+                certificate = certify_regular_zero(system, point, options)
+                affine.append(certificate)
+            entry["_certificate"] = certificate
+            say(k, len(entries))
+        groups = [affine, infinite]
+    elif command == "singular":
+        total = sum(len(c["points"]) for c in data["components"])
+        done = 0
+        affine, infinite = [], []
+        for component in data["components"]:
+            certificates = _singular_certificates(system, component, options)
+            component["_certificates"] = certificates
+            if component["dimension"] == 0:  # witness points of larger pieces need not be distinct
+                (infinite if component["at_infinity"] and not system.projective else affine).extend(certificates)
+            done += len(certificates)
+            say(done, total)
+        groups = [affine, infinite]
+    else:
+        certificates = []
+        for k, verdict in enumerate(data["points"], 1):
+            verdict["_certificate"] = _check_certificate(system, verdict, options)
+            certificates.append(verdict["_certificate"])
+            say(k, len(data["points"]))
+        groups = []  # given points may repeat; their boxes need not be distinct
+    overlapping = sum(len(overlapping_pairs(group)) for group in groups)
+    every = []
+    for entry in data.get("solutions", []) + data.get("at_infinity", []) + data.get("points", []):
+        if "_certificate" in entry:
+            every.append(entry["_certificate"])
+            entry["certificate"] = certificate_to_dict(entry.pop("_certificate"))
+    if command == "singular":
+        for component in data["components"]:
+            certificates = component.pop("_certificates")
+            every.extend(certificates)
+            component["certificates"] = [certificate_to_dict(c) for c in certificates]
+    counts = {status: sum(c.status == status for c in every) for status in STATUSES}
+    kinds = {kind: sum(c.status == "certified" and c.kind == kind for c in every) for kind in ("numerical", "exact")}
+    data["certification"] = {
+        "digits": options.digits, "exact_attempted": options.exact, "counts": counts, "certified_by_kind": kinds,
+        "overlapping_pairs": overlapping, "all_distinct": overlapping == 0 if groups else None,
+        "alpha_constant": ALPHA_ZERO_TEXT, "seconds": time.perf_counter() - started,
+        "meaning": ("numerical: a box provably holding exactly one zero of a square subsystem, the other "
+                    "equations bounded over it (backward error); exact: proved for the exact equations. "
+                    "Being singular is not an open condition: only exact certificates prove it."),
+    }
+    return data
+
+
+def read_report(path):
+    """Load a saved JSON report, with one-line errors for a missing file or bad JSON."""
+    try:
+        with open(path, encoding="utf-8") as handle:
+            return json.load(handle)
+    except FileNotFoundError:
+        raise InputError(f"report file not found: {path}") from None
+    except IsADirectoryError:
+        raise InputError(f"{path} is a directory, not a report file") from None
+    except json.JSONDecodeError as err:
+        raise InputError(f"{path}: not valid JSON (line {err.lineno}, column {err.colno}: {err.msg})") from None
+    except UnicodeDecodeError:
+        raise InputError(f"{path}: not a text file") from None
+
+
+def write_report(path, data):
+    """Write a report atomically: a temporary file in the same folder, flushed to disk, then renamed."""
+    folder = os.path.dirname(os.path.abspath(path))
+    text = dumps(data) + "\n"
+    handle, temporary = tempfile.mkstemp(prefix=".numag-", suffix=".json", dir=folder)
+    try:
+        with os.fdopen(handle, "w", encoding="utf-8") as stream:
+            stream.write(text)
+            stream.flush()
+            os.fsync(stream.fileno())
+        os.replace(temporary, path)
+    except BaseException:
+        if os.path.exists(temporary):
+            os.unlink(temporary)
+        raise

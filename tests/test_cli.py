@@ -158,3 +158,55 @@ def test_singular_command_refuses_bad_options(tmp_path):
     assert code == EXIT_INPUT
     code, _ = run(["singular", str(path), "--lowest-dimension", "9"])
     assert code == EXIT_INPUT
+
+
+def test_certify_a_saved_singular_report_in_place_and_to_a_new_file(tmp_path):
+    # the demo linkage's branch points are (1,0,1,0) and (-1,0,-1,0) (crank and rocker aligned; worked by hand)
+    report = tmp_path / "locus.json"
+    code, text = run(["singular", str(EXAMPLES / "parallel_linkage.toml"), "--json", "--seed", "3"])
+    report.write_text(text)
+    code, text = run(["certify", str(report), "-o", str(tmp_path / "certified.json"), "--digits", "40"])
+    assert code == EXIT_OK and "2 certified (2 exact" in text and "pairwise disjoint" in text
+    assert "certificate" not in report.read_text()  # -o leaves the original alone
+    data = json.loads((tmp_path / "certified.json").read_text())
+    points = {tuple(c["certificates"][0]["exact_coordinates"]) for c in data["components"]}
+    assert points == {("1", "0", "1", "0"), ("-1", "0", "-1", "0")}
+    for component in data["components"]:
+        assert len(component["certificates"]) == len(component["points"])
+        certificate = component["certificates"][0]
+        assert certificate["status"] == "certified" and certificate["kind"] == "exact"
+        assert certificate["radius"] < 1e-35 and certificate["backward_error"] < 1e-30 and certificate["digits"] == 40
+    code, text = run(["certify", str(report), "--json", "--numerical-only"])
+    assert code == EXIT_OK
+    replaced = json.loads(report.read_text())  # replaced atomically, same content as printed
+    assert replaced == json.loads(text)
+    assert replaced["certification"]["certified_by_kind"] == {"numerical": 2, "exact": 0}
+    assert not list(tmp_path.glob(".numag-*"))  # no temporary file left behind
+
+
+def test_solve_and_check_with_certify_switch(tmp_path):
+    # x^2 + y^2 = 5, x y = 2: four real solutions (+-1, +-2), (+-2, +-1) (worked by hand)
+    path = tmp_path / "circle.toml"
+    path.write_text('variables = ["x", "y"]\nequations = ["x^2 + y^2 - 5", "x*y - 2"]\n')
+    code, text = run(["solve", str(path), "--certify", "--json", "--seed", "1", "--digits", "30"])
+    data = json.loads(text)
+    assert code == EXIT_OK and data["certification"]["counts"]["certified"] == 4
+    assert all(s["certificate"]["real"] is True for s in data["solutions"])
+    code, text = run(["check", str(path), "--point", "x=1,y=2", "--certify"])
+    assert code == EXIT_OK and "certified (exact, Krawczyk, smooth point)" in text
+    code, text = run(["check", str(EXAMPLES / "parallel_linkage.toml"), "--point", "c1=1,s1=0,c2=1,s2=0",
+                      "--certify", "--seed", "1"])
+    assert code == EXIT_OK and "certified (exact, Krawczyk, singular point)" in text
+
+
+def test_certify_refuses_what_it_cannot_read(tmp_path, capsys):
+    assert run(["certify", str(tmp_path / "missing.json")])[0] == EXIT_INPUT
+    assert "not found" in capsys.readouterr().err
+    (tmp_path / "bad.json").write_text("{not json")
+    assert run(["certify", str(tmp_path / "bad.json")])[0] == EXIT_INPUT
+    assert "not valid JSON (line 1" in capsys.readouterr().err
+    code, text = run(["decompose", str(EXAMPLES / "parallel_linkage.toml"), "--json", "--seed", "1"])
+    (tmp_path / "parts.json").write_text(text)
+    assert run(["certify", str(tmp_path / "parts.json")])[0] == EXIT_INPUT
+    assert "certify needs a report" in capsys.readouterr().err
+    assert run(["certify", str(tmp_path / "parts.json"), "--digits", "4"])[0] == EXIT_INPUT

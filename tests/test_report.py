@@ -34,3 +34,16 @@ def test_envelope_shape():
     assert point["tangent_dimension"] == 1 and point["local_dimension"] == 1
     assert point["point"] == [[1.0, 0.0], [0.0, 0.0]]
     assert "certification" in data["caution"]
+
+
+def test_certificate_round_trip():
+    # JSON round trip of a certificate (common practice, no source)
+    from numag.certify import CertifyOptions, certify_singular_point
+    from numag.parse import parse_system
+    from numag.report import certificate_from_dict, certificate_to_dict
+    certificate = certify_singular_point(parse_system(["y^2 - x^3"], ["x", "y"]), [1e-9, 0.0],
+                                         options=CertifyOptions(digits=20))
+    data = json.loads(json.dumps(certificate_to_dict(certificate)))
+    again = certificate_from_dict(data)
+    assert certificate_to_dict(again) == data
+    assert again.status == "certified" and again.exact_coordinates == ["0", "0"]
