@@ -1,5 +1,6 @@
 import io
 import json
+import os
 import pathlib
 import subprocess
 import sys
@@ -210,3 +211,16 @@ def test_certify_refuses_what_it_cannot_read(tmp_path, capsys):
     assert run(["certify", str(tmp_path / "parts.json")])[0] == EXIT_INPUT
     assert "certify needs a report" in capsys.readouterr().err
     assert run(["certify", str(tmp_path / "parts.json"), "--digits", "4"])[0] == EXIT_INPUT
+
+
+def test_readme_python_block_runs():
+    # the README's Python example must stay true (common practice, no source)
+    readme = (pathlib.Path(numag.__file__).parent.parent / "README.md")
+    if not readme.exists():
+        pytest.skip("README.md is not next to the package (installed copy)")
+    text = readme.read_text()
+    block = text.split("## Python", 1)[1].split("```python", 1)[1].split("```", 1)[0]
+    env = dict(os.environ, PYTHONPATH=str(readme.parent))
+    done = subprocess.run([sys.executable, "-"], input=block, text=True, capture_output=True, cwd=readme.parent,
+                          env=env, timeout=600)
+    assert done.returncode == 0, done.stderr[-2000:]
