@@ -10,7 +10,7 @@ LAYERS = [
     {"errors", "cluster"},
     {"exact"},
     {"polynomial"},
-    {"parse"},
+    {"parse", "reference"},
     {"evaluate", "linalg", "rescue"},
     {"refine", "homotopy", "tracker"},
     {"solve", "witness", "certify"},
