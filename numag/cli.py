@@ -5,7 +5,8 @@ Exit codes
 0  the job ran and every decision was reached
 1  an unexpected internal error (please report it)
 2  bad input: a file, an equation, a point or an option (one-line message)
-3  the job ran, but at least one decision is undecided
+3  the job ran, but at least one decision is undecided (compare: the reference did not finish)
+4  compare: numag and the exact reference disagree
 """
 
 import argparse
@@ -19,16 +20,17 @@ from .errors import NumagError
 from .files import load_angles, load_points, load_system, parse_point_assignment
 from .decompose import DecomposeOptions, decompose
 from .certify import CertifyOptions
-from .report import (CAUTION, certify_report, check_report_to_dict, decomposition_to_dict, dumps, read_report,
-                     singular_to_dict, solve_report_to_dict, write_report)
+from .compare import compare_system
+from .report import (CAUTION, certify_report, check_report_to_dict, compare_to_dict, decomposition_to_dict, dumps,
+                     read_report, singular_to_dict, solve_report_to_dict, write_report)
 from .singular import FORMULATIONS, SingularOptions, singular_locus
 from .smoothness import CheckOptions, check_points
 from .witness import WitnessOptions
 from .solve import SolveOptions, solve_system
 
-__all__ = ["main", "build_parser", "EXIT_OK", "EXIT_INTERNAL", "EXIT_INPUT", "EXIT_UNDECIDED"]
+__all__ = ["main", "build_parser", "EXIT_OK", "EXIT_INTERNAL", "EXIT_INPUT", "EXIT_UNDECIDED", "EXIT_MISMATCH"]
 
-EXIT_OK, EXIT_INTERNAL, EXIT_INPUT, EXIT_UNDECIDED = 0, 1, 2, 3
+EXIT_OK, EXIT_INTERNAL, EXIT_INPUT, EXIT_UNDECIDED, EXIT_MISMATCH = 0, 1, 2, 3, 4
 
 
 class _Parser(argparse.ArgumentParser):
@@ -136,6 +138,20 @@ def build_parser():
                          help="do not try to recognise exact coordinates (faster)")
     certify.add_argument("--json", action="store_true", help="print the certified report as JSON")
     certify.set_defaults(run=_run_certify)
+
+    versus = commands.add_parser(
+        "compare", help="numag's singular locus beside an exact Groebner-basis reference (sympy)",
+        description="Run numag's singular locus and an exact reference (sympy Groebner bases of F and the "
+                    "c x c minors, in a child process with a time limit) and print side by side: dimensions, "
+                    "degrees, counts, the largest distance between numerical and exact points, both times.")
+    versus.add_argument("system_file", metavar="FILE", help="system file (TOML)")
+    versus.add_argument("--time-limit", type=float, default=60.0, metavar="S",
+                        help="seconds the exact reference may take (default %(default)s)")
+    versus.add_argument("--tolerance", type=float, default=1e-6, metavar="T",
+                        help="largest relative distance of matched points that still agrees (default %(default)s)")
+    versus.add_argument("--seed", type=int, help="seed of the random choices (recorded in the report)")
+    versus.add_argument("--json", action="store_true", help="print the comparison as JSON")
+    versus.set_defaults(run=_run_compare)
     return parser
 
 
@@ -475,6 +491,52 @@ def _run_solve(args, out):
     else:
         _print_solve(result, out, data)
     return EXIT_UNDECIDED if _doubtful(data) else EXIT_OK
+
+
+def _print_compare(comparison, out):
+    system = comparison.system
+    out.write(f"numag compare: {system.name or 'system'}: {system.n_equations} equation(s) in "
+              f"{system.n_variables} variables ({'projective' if system.projective else 'affine'}), "
+              f"seed {comparison.locus.seed}\n\n")
+    width = max(len(r.quantity) for r in comparison.rows) if comparison.rows else 10
+    out.write(f"  {'quantity':{width}}  {'numag':>10}  {'exact':>10}  agree\n")
+    for r in comparison.rows:
+        mark = {True: "yes", False: "NO", None: "-"}[r.agree]
+        mine = "-" if r.numag is None else str(r.numag)
+        exact = "-" if r.exact is None else str(r.exact)
+        out.write(f"  {r.quantity:{width}}  {mine:>10}  {exact:>10}  {mark}\n")
+    reference = comparison.reference
+    if comparison.digits is not None:
+        out.write(f"\n  coordinates agree to {comparison.digits:.1f} digits\n")
+    if reference.exact_points:
+        out.write("  exact singular points (sympy):\n")
+        for point in reference.exact_points[:20]:
+            out.write(f"    ({', '.join(point)})\n")
+        if len(reference.exact_points) > 20:
+            out.write(f"    ... {len(reference.exact_points) - 20} more\n")
+    ratio = comparison.ratio
+    out.write(f"\n  numag {comparison.numag_seconds:.2f} s; exact reference "
+              + (f"{comparison.reference_seconds:.2f} s (ratio {ratio:.2f}: reference / numag)"
+                 if ratio is not None else f"{reference.status} after {reference.seconds:.1f} s") + "\n")
+    out.write(f"\nverdict: {comparison.verdict.upper()}\n")
+    for note in comparison.notes:
+        out.write(f"note: {note}\n")
+    out.write(f"\ncompared: {comparison.scope}\n\n{CAUTION}\n")
+
+
+def _run_compare(args, out):
+    system = load_system(args.system_file)
+    if not args.time_limit > 0:
+        raise NumagError(f"--time-limit must be positive, got {args.time_limit}")
+    if not args.tolerance > 0:
+        raise NumagError(f"--tolerance must be positive, got {args.tolerance}")
+    comparison = compare_system(system, seconds=args.time_limit, seed=args.seed, tolerance=args.tolerance,
+                                progress=_Messages(args.json))
+    if args.json:
+        out.write(dumps(compare_to_dict(comparison)) + "\n")
+    else:
+        _print_compare(comparison, out)
+    return {"agree": EXIT_OK, "mismatch": EXIT_MISMATCH, "incomplete": EXIT_UNDECIDED}[comparison.verdict]
 
 
 def _run_certify(args, out):

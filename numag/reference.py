@@ -65,7 +65,9 @@ class ReferenceAnswer:
     status : str
         "finished", "timed out", "failed" (``message`` says why) or "unavailable" (no sympy).
     seconds : float
-        Wall time of the child process.
+        Wall time of the child process (with interpreter start and sympy's import).
+    compute_seconds : float or None
+        Time of the computation itself, up to the last stage that finished.
     variety_dimension, variety_degree, codimension : int or None
     minors : int or None
         Number of c x c minors added.
@@ -78,6 +80,7 @@ class ReferenceAnswer:
     points : list of list of complex or None
         Coordinates of the exact points (affine; projective input: in the chart a . x = 1).
     exact_points : list of list of str or None
+        Exact coordinates (sympy's text); projective points with their first non-zero coordinate 1.
     chart : list of int or None
         The hyperplane a of the chart (projective input).
     message : str
@@ -85,6 +88,7 @@ class ReferenceAnswer:
 
     status: str
     seconds: float = 0.0
+    compute_seconds: object = None
     variety_dimension: object = None
     variety_degree: object = None
     codimension: object = None
@@ -198,7 +202,7 @@ def _finite_counts(basis, symbols, rng, sympy):
     t = sympy.Symbol("t_")
     best = None
     for _ in range(2):  # two random forms: a collision would only lower the count
-        weights = [int(rng.integers(-9, 10)) or 1 for _ in range(n)]
+        weights = [_random_integer(rng) for _ in range(n)]
         form = sum(w * s for w, s in zip(weights, symbols))
         matrix = _multiplication_matrix(basis, symbols, standard, index, form, sympy)
         square_free = sympy.Poly(sympy.sqf_part(matrix.charpoly(t).as_expr()), t)
@@ -211,7 +215,7 @@ def _finite_counts(basis, symbols, rng, sympy):
     return best[0], best[1], int(len(standard)), (standard, index)
 
 
-def _coordinates(basis, symbols, standard, index, rng, sympy, digits=40):
+def _coordinates(basis, symbols, standard, index, rng, sympy, projective=False, digits=40):
     """Coordinates of the distinct points: radical (Seidenberg), shape basis in lex, roots of the eliminant.
 
     Returns (numeric points as [re, im] pairs, exact texts or None), or (None, None) when the
@@ -224,7 +228,7 @@ def _coordinates(basis, symbols, standard, index, rng, sympy, digits=40):
         matrix = _multiplication_matrix(basis, symbols, standard, index, s, sympy)
         eliminants.append(sympy.sqf_part(matrix.charpoly(t).as_expr()).subs(t, s))
     radical = sympy.groebner(list(basis.exprs) + eliminants, *symbols, order="grevlex", extension=True)
-    weights = [int(rng.integers(-9, 10)) or 1 for _ in symbols]
+    weights = [_random_integer(rng) for _ in symbols]
     shape = sympy.groebner(list(radical.exprs) + [t - sum(w * s for w, s in zip(weights, symbols))],
                            *symbols, t, order="grevlex", extension=True).fglm("lex")
     parametrisation, eliminant = {}, None
@@ -243,9 +247,15 @@ def _coordinates(basis, symbols, standard, index, rng, sympy, digits=40):
             return None, None
     if eliminant is None or len(parametrisation) != len(symbols):
         return None, None
+    def to_mp(c):  # rationals exactly (the shape basis has large ones), others at the working precision
+        if c.is_rational:
+            c = sympy.Rational(c)
+            return mpmath.mpf(c.p) / c.q
+        value = c.evalf(digits + 10)
+        return mpmath.mpc(str(sympy.re(value)), str(sympy.im(value)))
+
     with mpmath.workdps(digits):
-        coefficients = [mpmath.mpmathify(complex(c)) if not c.is_rational else mpmath.mpf(sympy.Rational(c).p) / sympy.Rational(c).q
-                        for c in eliminant.all_coeffs()]
+        coefficients = [to_mp(c) for c in eliminant.all_coeffs()]
         roots = mpmath.polyroots(coefficients, maxsteps=200, extraprec=4 * digits) if len(coefficients) > 1 else []
         numeric = []
         for root in roots:
@@ -254,7 +264,7 @@ def _coordinates(basis, symbols, standard, index, rng, sympy, digits=40):
                 value = sympy.Poly(parametrisation[s], t)
                 total = mpmath.mpc(0)
                 for c in value.all_coeffs():
-                    total = total * root + mpmath.mpmathify(complex(c))
+                    total = total * root + to_mp(c)
                 point.append([float(total.real), float(total.imag)])
             numeric.append(point)
     exact = None
@@ -265,18 +275,34 @@ def _coordinates(basis, symbols, standard, index, rng, sympy, digits=40):
                 exact = None
                 break
             for root in sympy.roots(sympy.Poly(factor, t)):
-                exact.append([str(sympy.radsimp(sympy.expand(parametrisation[s].subs(t, root)))) for s in symbols])
+                values = [sympy.radsimp(sympy.expand(parametrisation[s].subs(t, root))) for s in symbols]
+                if projective:  # homogeneous coordinates: the first non-zero one set to 1
+                    first = next(v for v in values if v != 0)
+                    values = [sympy.radsimp(sympy.expand(v / first)) for v in values]
+                exact.append([str(v) for v in values])
     return numeric, exact
 
 
-def _slice_degree(ideal, symbols, dimension, rng, sympy):
-    """Distinct points of the ideal cut by ``dimension`` random rational affine hyperplanes."""
-    hyperplanes = [sum(int(rng.integers(-9, 10)) * s for s in symbols) + int(rng.integers(1, 10))
-                   for _ in range(dimension)]
-    basis = sympy.groebner(list(ideal) + hyperplanes, *symbols, order="grevlex", extension=True)
-    if _dimension(_leading_monomials(basis, symbols, sympy), len(symbols)) != 0:
-        return None
-    return _finite_counts(basis, symbols, rng, sympy)[0]
+def _random_integer(rng):
+    """A non-zero integer from -97..97: random enough that special positions are unlikely."""
+    return int(rng.integers(1, 98)) * int(rng.choice([-1, 1]))
+
+
+def _slice_degree(ideal, symbols, dimension, rng, sympy, attempts=2):
+    """Distinct points of the ideal cut by ``dimension`` random rational affine hyperplanes (best of two).
+
+    A special slice can only lose points (tangency, points at infinity), so the larger count wins.
+    """
+    best = None
+    for _ in range(attempts):
+        hyperplanes = [sum(_random_integer(rng) * s for s in symbols) + _random_integer(rng)
+                       for _ in range(dimension)]
+        basis = sympy.groebner(list(ideal) + hyperplanes, *symbols, order="grevlex", extension=True)
+        if _dimension(_leading_monomials(basis, symbols, sympy), len(symbols)) != 0:
+            continue
+        count = _finite_counts(basis, symbols, rng, sympy)[0]
+        best = count if best is None else max(best, count)
+    return best
 
 
 def _child(text, seed, channel):
@@ -287,13 +313,14 @@ def _child(text, seed, channel):
     except ImportError:
         channel.put(json.dumps({"status": "unavailable", "message": "sympy is not installed (pip install 'numag[exact]')"}))
         return
+    clock = time.perf_counter()  # after sympy's import: the computation alone is timed
     try:
         plain = json.loads(text)
         rng = np.random.default_rng(seed)
         symbols, equations = _expressions(plain, sympy)
         result = {}
         if plain["projective"]:
-            chart = [int(rng.integers(1, 10)) * int(rng.choice([-1, 1])) for _ in symbols]
+            chart = [_random_integer(rng) for _ in symbols]  # misses a point only if a . p = 0
             result["chart"] = chart
             slicing = [sum(a * s for a, s in zip(chart, symbols)) - 1]
         else:
@@ -308,6 +335,7 @@ def _child(text, seed, channel):
         codimension = n - len(slicing) - dimension
         result["codimension"] = codimension
         result["variety_degree"] = _slice_degree(equations + slicing, symbols, dimension, rng, sympy)
+        result["compute_seconds"] = time.perf_counter() - clock
         channel.put(json.dumps({"partial": result}))
         jacobian = sympy.Matrix([[sympy.diff(f, s) for s in symbols] for f in equations])
         minors = []
@@ -329,15 +357,17 @@ def _child(text, seed, channel):
             result["singular_degree"] = _slice_degree(ideal, symbols, singular_dimension, rng, sympy)
         elif singular_dimension < 0:
             result.update(singular_points=0, real_singular_points=0, scheme_length=0)
+        result["compute_seconds"] = time.perf_counter() - clock
         channel.put(json.dumps({"partial": result}))
         if singular_dimension == 0:
-            numeric, exact = _coordinates(singular, symbols, standard, index, rng, sympy)
+            numeric, exact = _coordinates(singular, symbols, standard, index, rng, sympy, plain["projective"])
             if numeric is not None and len(numeric) == result["singular_points"]:
                 result["points"] = numeric
                 if exact is not None and len(exact) == len(numeric):
                     result["exact_points"] = exact
         elif singular_dimension < 0:
             result["exact_points"], result["points"] = [], []
+        result["compute_seconds"] = time.perf_counter() - clock
         channel.put(json.dumps({"final": result}))
     except Exception as err:  # noqa: BLE001 - reported to the parent as a failure with its message
         channel.put(json.dumps({"status": "failed", "message": f"{type(err).__name__}: {err}"}))

@@ -45,7 +45,7 @@ from .witness import WitnessOptions
 __all__ = ["CAUTION", "encode_point", "decode_point", "empty_path_counts", "system_to_dict",
            "check_report_to_dict", "check_report_from_dict", "dumps", "loads_check_report",
            "solve_report_to_dict", "solve_report_from_dict", "certificate_to_dict", "certificate_from_dict",
-           "certify_report", "read_report", "write_report"]
+           "certify_report", "read_report", "write_report", "compare_to_dict"]
 
 #: Printed with every result (terminal and JSON).
 CAUTION = ("Numerical results. Before relying on them for a real machine or structure, verify them with "
@@ -605,3 +605,48 @@ def write_report(path, data):
         if os.path.exists(temporary):
             os.unlink(temporary)
         raise
+
+
+# --- compare -------------------------------------------------------------------------------------
+
+def _plain(value):
+    if isinstance(value, (np.integer,)):
+        return int(value)
+    if isinstance(value, (np.floating,)):
+        return float(value)
+    return value
+
+
+def compare_to_dict(comparison):
+    """A :class:`~numag.compare.Comparison` as the JSON envelope (numag's locus included)."""
+    reference = comparison.reference
+    locus_data = singular_to_dict(comparison.locus, SingularOptions())
+    return {
+        "numag_version": __version__,
+        "command": "compare",
+        "seed": comparison.locus.seed,
+        "system": system_to_dict(comparison.system),
+        "paths": locus_data["paths"],
+        "components": locus_data["components"],
+        "verdict": comparison.verdict,
+        "rows": [{"quantity": r.quantity, "numag": _plain(r.numag), "exact": _plain(r.exact), "agree": r.agree}
+                 for r in comparison.rows],
+        "max_distance": _encode_float(comparison.max_distance),
+        "digits_of_agreement": _encode_float(comparison.digits),
+        "numag_seconds": comparison.numag_seconds,
+        "reference_seconds": comparison.reference_seconds,
+        "ratio": _encode_float(comparison.ratio),
+        "reference": {"status": reference.status, "message": reference.message, "wall_seconds": reference.seconds,
+                      "compute_seconds": reference.compute_seconds,
+                      "variety_dimension": reference.variety_dimension, "variety_degree": reference.variety_degree,
+                      "codimension": reference.codimension, "minors": reference.minors,
+                      "singular_dimension": reference.singular_dimension,
+                      "singular_points": reference.singular_points,
+                      "real_singular_points": reference.real_singular_points,
+                      "scheme_length": reference.scheme_length, "singular_degree": reference.singular_degree,
+                      "chart": reference.chart, "exact_points": reference.exact_points,
+                      "points": None if reference.points is None else [encode_point(p) for p in reference.points]},
+        "scope": comparison.scope,
+        "notes": list(comparison.notes),
+        "caution": CAUTION,
+    }

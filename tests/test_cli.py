@@ -224,3 +224,17 @@ def test_readme_python_block_runs():
     done = subprocess.run([sys.executable, "-"], input=block, text=True, capture_output=True, cwd=readme.parent,
                           env=env, timeout=600)
     assert done.returncode == 0, done.stderr[-2000:]
+
+
+def test_compare_command(tmp_path):
+    # cusp y^2 = x^3: one singular point, length 2 (problem file: common practice, no source)
+    pytest.importorskip("sympy")
+    path = tmp_path / "cusp.toml"
+    path.write_text('name = "cusp"\nvariables = ["x", "y"]\nequations = ["y^2 - x^3"]\n')
+    code, text = run(["compare", str(path), "--seed", "1", "--time-limit", "60"])
+    assert code == EXIT_OK and "verdict: AGREE" in text and "singular points" in text
+    code, text = run(["compare", str(path), "--seed", "1", "--json"])
+    data = json.loads(text)
+    assert code == EXIT_OK and data["command"] == "compare" and data["verdict"] == "agree"
+    assert data["reference"]["scheme_length"] == 2 and data["reference"]["exact_points"] == [["0", "0"]]
+    assert run(["compare", str(path), "--time-limit", "0"])[0] == EXIT_INPUT

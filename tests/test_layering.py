@@ -17,7 +17,7 @@ LAYERS = [
     {"decompose"},
     {"smoothness"},
     {"singular"},
-    {"files"},
+    {"files", "compare"},
     {"report"},
     {"cli"},
     {"__main__"},
