@@ -17,16 +17,18 @@ import numpy as np
 
 from . import __version__
 from .errors import NumagError
-from .files import load_angles, load_points, load_system, parse_point_assignment
+from .checkpoint import RunFolder
+from .files import load_angles, load_points, load_system, parse_point_assignment, system_from_mapping
 from .decompose import DecomposeOptions, decompose
 from .certify import CertifyOptions
 from .compare import compare_system
+from .executor import make_executor, using
 from .report import (CAUTION, certify_report, check_report_to_dict, compare_to_dict, decomposition_to_dict, dumps,
                      read_report, singular_to_dict, solve_report_to_dict, write_report)
 from .singular import FORMULATIONS, SingularOptions, singular_locus
 from .smoothness import CheckOptions, check_points
 from .witness import WitnessOptions
-from .solve import SolveOptions, solve_system
+from .solve import Execution, SolveOptions, solve_system
 
 __all__ = ["main", "build_parser", "EXIT_OK", "EXIT_INTERNAL", "EXIT_INPUT", "EXIT_UNDECIDED", "EXIT_MISMATCH"]
 
@@ -76,7 +78,8 @@ def build_parser():
         "solve", help="isolated solutions of a square system (homotopy continuation)",
         description="Track every path of a total-degree homotopy and report the distinct isolated "
                     "solutions with multiplicities, the points at infinity, and every path's fate.")
-    solve.add_argument("system_file", metavar="FILE", help="system file (TOML)")
+    solve.add_argument("system_file", metavar="FILE", nargs="?",
+                       help="system file (TOML); not needed with --resume (the run folder has the system)")
     solve.add_argument("--digits", type=int, default=SolveOptions.refine_digits, metavar="D",
                        help="precision (decimal digits) for refining singular solutions (default %(default)s)")
     solve.add_argument("--square-up", action="store_true",
@@ -85,6 +88,16 @@ def build_parser():
                        help="paths tracked together (default %(default)s)")
     solve.add_argument("--seed", type=int, help="seed of the random choices (recorded in the report)")
     solve.add_argument("--json", action="store_true", help="print the report as JSON (no progress lines)")
+    solve.add_argument("--workers", type=int, metavar="N",
+                       help="worker processes (default: every core when there is more than one batch, else "
+                            "in-process)")
+    solve.add_argument("--scheduler", metavar="ADDRESS",
+                       help="run the batches on a Dask cluster (tcp://host:8786; pip install 'numag[cluster]')")
+    solve.add_argument("--local-dask", action="store_true", help="start a local Dask cluster for the batches")
+    solve.add_argument("--run-folder", metavar="DIR",
+                       help="save the run: a manifest and every finished batch (atomic writes), for --resume")
+    solve.add_argument("--resume", metavar="DIR",
+                       help="continue the run saved in DIR: finished batches are read back, not tracked again")
     _add_certify_switch(solve)
     solve.set_defaults(run=_run_solve)
 
@@ -106,6 +119,7 @@ def build_parser():
                        help="highest precision (decimal digits) for escalated rank decisions (default %(default)s)")
     locus.add_argument("--seed", type=int, help="seed of the random choices (recorded in the report)")
     locus.add_argument("--json", action="store_true", help="print the report as JSON (no progress lines)")
+    _add_executor_options(locus)
     _add_certify_switch(locus)
     locus.set_defaults(run=_run_singular)
 
@@ -120,6 +134,7 @@ def build_parser():
                        help="monodromy loops per dimension before giving up confirming (default %(default)s)")
     parts.add_argument("--seed", type=int, help="seed of the random choices (recorded in the report)")
     parts.add_argument("--json", action="store_true", help="print the report as JSON (no progress lines)")
+    _add_executor_options(parts)
     parts.set_defaults(run=_run_decompose)
 
     certify = commands.add_parser(
@@ -136,6 +151,8 @@ def build_parser():
                          help="precision (decimal digits) of refinement and interval arithmetic (default %(default)s)")
     certify.add_argument("--numerical-only", action="store_true",
                          help="do not try to recognise exact coordinates (faster)")
+    certify.add_argument("--workers", type=int, metavar="N",
+                         help="worker processes for the points (default: in-process)")
     certify.add_argument("--json", action="store_true", help="print the certified report as JSON")
     certify.set_defaults(run=_run_certify)
 
@@ -153,6 +170,20 @@ def build_parser():
     versus.add_argument("--json", action="store_true", help="print the comparison as JSON")
     versus.set_defaults(run=_run_compare)
     return parser
+
+
+def _add_executor_options(command):
+    command.add_argument("--workers", type=int, metavar="N",
+                         help="worker processes for homotopies of more than one batch of paths (default: every "
+                              "core; smaller ones run in-process)")
+    command.add_argument("--scheduler", metavar="ADDRESS",
+                         help="run large homotopies on a Dask cluster (pip install 'numag[cluster]')")
+    command.add_argument("--local-dask", action="store_true", help="start a local Dask cluster for them")
+
+
+def _stage_executor(args):
+    """The executor of the path-tracking stages (lazy: a pool starts only when a homotopy needs it)."""
+    return make_executor(args.workers, args.scheduler, args.local_dask, batches=2)
 
 
 def _add_certify_switch(command):
@@ -421,8 +452,11 @@ def _run_singular(args, out):
                               decompose=DecomposeOptions(witness=WitnessOptions(lowest_dimension=args.lowest_dimension)))
     if args.lowest_dimension is not None:
         options.decompose.witness.validated(system.n_variables)
-    result = singular_locus(system, options, seed=args.seed, progress=_Messages(args.json))
-    data = _certified(singular_to_dict(result, options), args)
+    with _stage_executor(args) as executor, using(executor):
+        result = singular_locus(system, options, seed=args.seed, progress=_Messages(args.json))
+        data = singular_to_dict(result, options)
+        data["execution"] = executor.describe()
+    data = _certified(data, args)
     if args.json:
         out.write(dumps(data) + "\n")
     else:
@@ -437,9 +471,13 @@ def _run_decompose(args, out):
                                max_loops=args.max_loops)
     if args.max_loops < 1:
         raise NumagError(f"--max-loops must be positive, got {args.max_loops}")
-    result = decompose(system, options, seed=args.seed, progress=_Messages(args.json))
+    with _stage_executor(args) as executor, using(executor):
+        result = decompose(system, options, seed=args.seed, progress=_Messages(args.json))
+        execution = executor.describe()
     if args.json:
-        out.write(dumps(decomposition_to_dict(result, options)) + "\n")
+        data = decomposition_to_dict(result, options)
+        data["execution"] = execution
+        out.write(dumps(data) + "\n")
     else:
         _print_decompose(result, out)
     return EXIT_UNDECIDED if result.unconfirmed else EXIT_OK
@@ -457,6 +495,16 @@ def _print_solve(result, out, data=None):
               f"{counts['failed']} failed ({failed}); {counts['retracked']} re-tracked, "
               f"{counts['rescued_in_high_precision']} of them in high precision; "
               f"{result.seconds:.2f} s\n")
+    execution = result.extra.get("execution")
+    if execution:
+        failed = execution["failed_batches"]
+        out.write(f"run: {execution['executor']}, {execution['workers']} worker(s), {execution['batches']} batch(es) "
+                  f"of up to {execution['batch_size']} paths, {execution['batches_resumed']} read back from the run "
+                  f"folder, {execution['retries']} retried, {len(failed)} failed"
+                  + (f"; saved in {execution['run_folder']}" if execution["run_folder"] else "") + "\n")
+        for failure in failed:
+            out.write(f"  batch {failure['index']} (paths {failure['paths'][0]}-{failure['paths'][1]}) failed "
+                      f"{failure['attempts']} times: {failure['error']}\n")
     if result.squared_up:
         out.write("note: more equations than unknowns; random combinations were tracked and every "
                   f"solution was kept only if it satisfies all equations ({len(result.discarded)} discarded)\n")
@@ -482,9 +530,30 @@ def _print_solve(result, out, data=None):
 
 
 def _run_solve(args, out):
-    system = load_system(args.system_file)
-    options = SolveOptions(refine_digits=args.digits, square_up=args.square_up, batch_size=args.batch_size)
-    result = solve_system(system, options, seed=args.seed, progress=_Progress(args.json))
+    if args.resume:
+        if args.run_folder:
+            raise NumagError("give either --run-folder (a new run) or --resume (an interrupted one), not both")
+        manifest = RunFolder.open(args.resume).manifest
+        if manifest.get("kind") != "solve":
+            raise NumagError(f"{args.resume} holds a run of {manifest.get('kind')!r}, not of 'numag solve'")
+        system = system_from_mapping({k: v for k, v in manifest["system"].items() if v is not None})
+        saved = manifest["options"]
+        options = SolveOptions(refine_digits=saved["refine_digits"], square_up=saved["square_up"],
+                               batch_size=saved["batch_size"], cluster_tolerance=saved["cluster_tolerance"])
+        seed = manifest["seed"]
+        if args.system_file is not None and load_system(args.system_file).to_texts() != system.to_texts():
+            raise NumagError(f"{args.system_file} is not the system of the run in {args.resume}")
+    else:
+        if args.system_file is None:
+            raise NumagError("a system file is needed (or --resume DIR)")
+        system = load_system(args.system_file)
+        options = SolveOptions(refine_digits=args.digits, square_up=args.square_up, batch_size=args.batch_size)
+        seed = args.seed
+        if args.run_folder and seed is None:  # a saved run must be reproducible: fix the seed now
+            seed = int(np.random.SeedSequence().entropy % (2**32))
+    execution = Execution(workers=args.workers, scheduler=args.scheduler, local_dask=args.local_dask,
+                          run_folder=args.resume or args.run_folder, resume=bool(args.resume))
+    result = solve_system(system, options, seed=seed, progress=_Progress(args.json), execution=execution)
     data = _certified(solve_report_to_dict(result, options), args)
     if args.json:
         out.write(dumps(data) + "\n")
@@ -542,7 +611,8 @@ def _run_compare(args, out):
 def _run_certify(args, out):
     data = read_report(args.report_file)
     options = CertifyOptions(digits=args.digits, exact=not args.numerical_only).validated()
-    certified = certify_report(data, options, progress=_Messages(args.json))
+    with make_executor(args.workers or 1) as executor:
+        certified = certify_report(data, options, progress=_Messages(args.json), executor=executor)
     write_report(args.output or args.report_file, certified)
     if args.json:
         out.write(dumps(certified) + "\n")

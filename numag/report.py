@@ -32,6 +32,7 @@ from . import __version__
 from .certify import (ALPHA_ZERO_TEXT, STATUSES, Certificate, CertifyOptions, certify_regular_zero,
                       certify_singular_point, certify_smooth_point, overlapping_pairs)
 from .errors import InputError
+from .executor import InProcess
 from .files import system_from_mapping
 from .decompose import Component, Decomposition, DecomposeOptions
 from .linalg import RankEvidence
@@ -227,6 +228,7 @@ def solve_report_to_dict(result, options):
         "squared_up": result.squared_up,
         "seconds": result.seconds,
         "evaluations": result.evaluations,
+        "execution": result.extra.get("execution"),
         "steps": {"median": float(np.median(result.steps)) if len(result.steps) else 0.0,
                   "max": int(result.steps.max()) if len(result.steps) else 0},
         "path_status": [PathStatus(int(code)).label for code in result.status],
@@ -257,6 +259,8 @@ def solve_report_from_dict(data):
         evaluations=int(data["evaluations"]), squared_up=bool(data["squared_up"]),
         digits=np.array(data["path_digits"], dtype=np.int64),
         discarded=[_solution_from_dict(d) for d in data["discarded"]])
+    if data.get("execution") is not None:
+        result.extra["execution"] = data["execution"]
     return result, options
 
 
@@ -446,7 +450,21 @@ def _homogenized(system):
                             projective=True)
 
 
-def _singular_certificates(system, component, options):
+def _certify_batch(batch):
+    """Certify a batch of (claim, system, point, codimension, slices, options) tasks (runs on workers)."""
+    results = []
+    for claim, system, point, codimension, slices, options in batch:
+        if claim == "regular":
+            results.append(certify_regular_zero(system, point, options))
+        elif claim == "smooth":
+            results.append(certify_smooth_point(system, point, codimension, options))
+        else:
+            results.append(certify_singular_point(system, point, codimension, options, slices=slices))
+    return results
+
+
+def _singular_tasks(system, component, options):
+    """Tasks (or finished 'undecided' certificates) for the points of one singular component."""
     points = [decode_point(p) for p in component["points"]]
     digits = options.digits
     if component["kind"] == "non-reduced":
@@ -460,23 +478,23 @@ def _singular_certificates(system, component, options):
                     for p in points]
         codimension = 1
     dimension = int(component["dimension"])
-    return [certify_singular_point(target, p, int(codimension), options, slices=dimension) for p in points]
+    return [("singular", target, p, int(codimension), dimension, options) for p in points]
 
 
-def _check_certificate(system, verdict, options):
+def _check_task(system, verdict, options):
     point = decode_point(verdict["point"])
     codimension = verdict.get("codimension")
     if codimension is None:
         return _not_certified("the report gives no codimension at this point", point, options.digits)
     if verdict["verdict"] == "smooth":
-        return certify_smooth_point(system, point, int(codimension), options)
+        return ("smooth", system, point, int(codimension), 0, options)
     if verdict["verdict"] == "singular" and codimension >= 1:
-        return certify_singular_point(system, point, int(codimension), options)
+        return ("singular", system, point, int(codimension), 0, options)
     return _not_certified(f"the rank decision is {verdict['verdict']}: there is no claim to certify",
                           point, options.digits)
 
 
-def certify_report(data, options=None, progress=None):
+def certify_report(data, options=None, progress=None, executor=None):
     """Certificates for the points of a saved report of ``solve``, ``singular`` or ``check``.
 
     Parameters
@@ -486,6 +504,8 @@ def certify_report(data, options=None, progress=None):
     options : CertifyOptions, optional
     progress : callable, optional
         Called with a one-line message as points are certified.
+    executor : numag.executor.Executor, optional
+        Runs the points in batches (worker processes, Dask); default in-process.
 
     Returns
     -------
@@ -512,62 +532,62 @@ def certify_report(data, options=None, progress=None):
                          f"not of {command!r}")
     system = _report_system(data, command)
     data = copy.deepcopy(data)
-    groups = []  # certificates whose boxes live in one coordinate space, for the disjointness check
-
-    def say(done, total):
-        if progress is not None and total:
-            progress(f"certified {done} of {total} point(s)")
-
+    # slots: (entry, key, space) -> a task or a finished certificate; space groups boxes for disjointness
+    slots = []
     if command == "solve":
-        entries = [(e, False) for e in data["solutions"]] + [(e, True) for e in data["at_infinity"]]
-        affine, infinite = [], []
-        for k, (entry, at_infinity) in enumerate(entries, 1):
-            point = decode_point(entry["point"])
-            if at_infinity and not system.projective:
-                certificate = certify_regular_zero(_homogenized(system), point, options)
-                infinite.append(certificate)
-            else:
-                certificate = certify_regular_zero(system, point, options)
-                affine.append(certificate)
-            entry["_certificate"] = certificate
-            say(k, len(entries))
-        groups = [affine, infinite]
+        for key, at_infinity in (("solutions", False), ("at_infinity", True)):
+            for entry in data[key]:
+                target = _homogenized(system) if at_infinity and not system.projective else system
+                slots.append((entry, "certificate", "infinity" if target is not system else "affine",
+                              ("regular", target, decode_point(entry["point"]), None, 0, options)))
     elif command == "singular":
-        total = sum(len(c["points"]) for c in data["components"])
-        done = 0
-        affine, infinite = [], []
         for component in data["components"]:
-            certificates = _singular_certificates(system, component, options)
-            component["_certificates"] = certificates
-            if component["dimension"] == 0:  # witness points of larger pieces need not be distinct
-                (infinite if component["at_infinity"] and not system.projective else affine).extend(certificates)
-            done += len(certificates)
-            say(done, total)
-        groups = [affine, infinite]
+            component["certificates"] = []
+            space = "infinity" if component["at_infinity"] and not system.projective else "affine"
+            for task in _singular_tasks(system, component, options):
+                slots.append((component, "certificates", space if component["dimension"] == 0 else None, task))
     else:
-        certificates = []
-        for k, verdict in enumerate(data["points"], 1):
-            verdict["_certificate"] = _check_certificate(system, verdict, options)
-            certificates.append(verdict["_certificate"])
-            say(k, len(data["points"]))
-        groups = []  # given points may repeat; their boxes need not be distinct
-    overlapping = sum(len(overlapping_pairs(group)) for group in groups)
-    every = []
-    for entry in data.get("solutions", []) + data.get("at_infinity", []) + data.get("points", []):
-        if "_certificate" in entry:
-            every.append(entry["_certificate"])
-            entry["certificate"] = certificate_to_dict(entry.pop("_certificate"))
-    if command == "singular":
-        for component in data["components"]:
-            certificates = component.pop("_certificates")
-            every.extend(certificates)
-            component["certificates"] = [certificate_to_dict(c) for c in certificates]
+        for verdict in data["points"]:
+            slots.append((verdict, "certificate", None, _check_task(system, verdict, options)))
+    pending = [k for k, slot in enumerate(slots) if isinstance(slot[3], tuple)]
+    results = {k: slot[3] for k, slot in enumerate(slots) if not isinstance(slot[3], tuple)}
+    size = 4
+    batches = [pending[i:i + size] for i in range(0, len(pending), size)]
+    owned = executor is None
+    executor = executor or InProcess()
+    try:
+        for position, certificates in executor.run(_certify_batch, [[slots[k][3] for k in b] for b in batches]):
+            for k, certificate in zip(batches[position], certificates):
+                results[k] = certificate
+            if progress is not None:
+                progress(f"certified {len(results)} of {len(slots)} point(s)")
+        for failure in executor.failures:
+            for k in batches[failure.index]:
+                results[k] = _not_certified(f"certification failed on a worker: {failure.error}",
+                                            slots[k][3][2], options.digits)
+    finally:
+        if owned:
+            executor.close()
+    spaces = {}
+    for k, (entry, key, space, _) in enumerate(slots):
+        certificate = results[k]
+        if space is not None:
+            spaces.setdefault(space, []).append(certificate)
+    overlapping = sum(len(overlapping_pairs(group)) for group in spaces.values())
+    every = [results[k] for k in range(len(slots))]
+    for k, (entry, key, _, _) in enumerate(slots):
+        encoded = certificate_to_dict(results[k])
+        if key == "certificates":
+            entry[key].append(encoded)
+        else:
+            entry[key] = encoded
     counts = {status: sum(c.status == status for c in every) for status in STATUSES}
     kinds = {kind: sum(c.status == "certified" and c.kind == kind for c in every) for kind in ("numerical", "exact")}
     data["certification"] = {
         "digits": options.digits, "exact_attempted": options.exact, "counts": counts, "certified_by_kind": kinds,
-        "overlapping_pairs": overlapping, "all_distinct": overlapping == 0 if groups else None,
+        "overlapping_pairs": overlapping, "all_distinct": overlapping == 0 if command != "check" else None,
         "alpha_constant": ALPHA_ZERO_TEXT, "seconds": time.perf_counter() - started,
+        "executor": executor.describe(),
         "meaning": ("numerical: a box provably holding exactly one zero of a square subsystem, the other "
                     "equations bounded over it (backward error); exact: proved for the exact equations. "
                     "Being singular is not an open condition: only exact certificates prove it."),

@@ -27,16 +27,19 @@ import mpmath
 import numpy as np
 from threadpoolctl import threadpool_limits
 
+from .checkpoint import RunFolder
 from .cluster import cluster_labels, groups
 from .errors import InputError
+from .executor import InProcess, make_executor
 from .evaluate import BatchEvaluator, PrecisionEvaluator
 from .homotopy import ParameterHomotopy, StraightLineHomotopy
 from .linalg import residual_scales
 from .polynomial import PolynomialSystem
 from .refine import IsolationTest, mp_gauss_newton
-from .tracker import FAILURE_LABELS, PathStatus, TrackerOptions, track_paths
+from .tracker import FAILURE_LABELS, BatchTracker, PathStatus, StartArray, TrackerOptions, track_paths
 
-__all__ = ["SolveOptions", "Solution", "SolveResult", "solve_system", "continue_solutions", "path_counts"]
+__all__ = ["SolveOptions", "Execution", "Solution", "SolveResult", "solve_system", "continue_solutions",
+           "path_counts"]
 
 
 @dataclass(frozen=True)
@@ -72,6 +75,35 @@ class SolveOptions:
         if self.batch_size < 1:
             raise InputError(f"batch_size must be positive, got {self.batch_size!r}")
         return self
+
+
+@dataclass(frozen=True)
+class Execution:
+    """Where and how the batches of paths run, and where the run is saved.
+
+    Attributes
+    ----------
+    workers : int or None
+        Worker processes; None: in-process for a run of one batch, else every core.
+    scheduler : str or None
+        Address of a Dask scheduler (optional extra ``cluster``).
+    local_dask : bool
+        Start a local Dask cluster instead (testing, Dask's tools on one machine).
+    run_folder : str or None
+        Folder for the manifest and one file per finished batch (atomic writes).
+    resume : bool
+        Continue the run in ``run_folder``: finished batches are read, not tracked again.
+    executor : Executor or None
+        An executor made by the caller (then ``workers`` and ``scheduler`` are ignored and the
+        caller closes it).
+    """
+
+    workers: object = None
+    scheduler: object = None
+    local_dask: bool = False
+    run_folder: object = None
+    resume: bool = False
+    executor: object = None
 
 
 @dataclass
@@ -226,7 +258,7 @@ def _refine_mp(system, point, digits):
         return np.array([complex(z[j]) for j in range(system.n_variables)])
 
 
-def solve_system(system, options=None, seed=None, progress=None):
+def solve_system(system, options=None, seed=None, progress=None, execution=None):
     """Isolated solutions of a square system by total-degree homotopy continuation.
 
     Parameters
@@ -239,15 +271,21 @@ def solve_system(system, options=None, seed=None, progress=None):
         Seed of the random patch, gamma and tests; drawn and recorded when not given.
     progress : callable, optional
         Called as ``progress(paths_done, paths_total)`` after each batch.
+    execution : Execution, optional
+        Workers, a Dask scheduler, a run folder to save each batch in, or a run to resume.
+        Same seed, same answer, whichever executor runs the batches.
 
     Returns
     -------
     SolveResult
+        ``extra["execution"]`` says which executor ran, with how many workers, batches,
+        batches read back from the run folder, retries and failed batches.
 
     Raises
     ------
     InputError
-        For a system that is not square (unless ``square_up``), or invalid options.
+        For a system that is not square (unless ``square_up``), invalid options, or a run
+        folder that does not belong to this run.
     """
     options = (options or SolveOptions()).validated()
     if seed is None:
@@ -257,7 +295,7 @@ def solve_system(system, options=None, seed=None, progress=None):
     target, squared = _square_target(system, options, rng)
     homotopy = StraightLineHomotopy.total_degree(target, rng)
     return _run(system, homotopy, homotopy.start_solutions, homotopy.start.n_paths, options, rng, seed, progress,
-                started, squared)
+                started, squared, execution)
 
 
 def continue_solutions(start_system, start_points, target_system, options=None, seed=None, progress=None):
@@ -295,32 +333,89 @@ def continue_solutions(start_system, start_points, target_system, options=None, 
     started = time.perf_counter()
     homotopy = ParameterHomotopy.from_systems(start_system, target_system, rng)
     starts = homotopy.start_solutions_from(start_points, projective=start_system.projective)
-    return _run(target_system, homotopy, lambda indices: starts[indices], len(starts), options, rng, seed,
+    return _run(target_system, homotopy, StartArray(starts), len(starts), options, rng, seed,
                 progress, started, False)
 
 
-def _run(system, homotopy, start_points, total, options, rng, seed, progress, started, squared):
-    """Track all paths in batches, repair path jumping, and collect the solutions."""
+def manifest_for(system, options, seed, total):
+    """What a run folder's manifest says about a solve run (compared on resume)."""
+    from . import __version__
+    return {"kind": "solve", "numag_version": __version__, "seed": int(seed),
+            "system": {"variables": list(system.variables), "equations": system.to_texts(),
+                       "projective": system.projective, "name": system.name},
+            "options": {"batch_size": options.batch_size, "cluster_tolerance": options.cluster_tolerance,
+                        "refine_digits": options.refine_digits, "square_up": options.square_up},
+            "paths": int(total), "batches": -(-int(total) // options.batch_size)}
+
+
+def _open_folder(execution, manifest):
+    if execution.run_folder is None:
+        if execution.resume:
+            raise InputError("resuming needs the run folder")
+        return None
+    if not execution.resume:
+        return RunFolder.create(execution.run_folder, manifest)
+    folder = RunFolder.open(execution.run_folder)
+    saved = {k: v for k, v in folder.manifest.items() if k != "numag_version"}
+    if saved != {k: v for k, v in manifest.items() if k != "numag_version"}:
+        differs = sorted(k for k in manifest if k != "numag_version" and folder.manifest.get(k) != manifest[k])
+        raise InputError(f"the run in {execution.run_folder} is a different run (it differs in: {', '.join(differs)})")
+    return folder
+
+
+def _run(system, homotopy, start_points, total, options, rng, seed, progress, started, squared, execution=None):
+    """Track all paths in batches (through an executor, saved to a run folder), repair jumps, collect."""
+    execution = execution or Execution()
     endpoints = np.empty((total, homotopy.size), dtype=complex)
     status = np.empty(total, dtype=np.int64)
-    steps = np.empty(total, dtype=np.int64)
-    winding = np.empty(total, dtype=np.int64)
-    condition = np.empty(total)
-    retracked = np.empty(total, dtype=bool)
-    digits = np.empty(total, dtype=np.int64)
+    steps = np.zeros(total, dtype=np.int64)
+    winding = np.ones(total, dtype=np.int64)
+    condition = np.full(total, np.inf)
+    retracked = np.zeros(total, dtype=bool)
+    digits = np.full(total, 16, dtype=np.int64)
     evaluations = 0
-    for first in range(0, total, options.batch_size):
-        indices = np.arange(first, min(total, first + options.batch_size))
-        # small batched products run faster on one BLAS thread; parallelism comes from processes
-        with threadpool_limits(limits=1):
-            inner = None if progress is None else (lambda done, first=first: progress(first + done, total))
-            result = track_paths(homotopy, start_points(indices), options.tracker, progress=inner)
-        endpoints[indices], status[indices], steps[indices] = result.endpoints, result.status, result.steps
-        winding[indices], condition[indices], retracked[indices] = result.winding, result.condition, result.retracked
-        digits[indices] = result.digits
-        evaluations += result.evaluations
-        if progress is not None:
-            progress(int(indices[-1]) + 1, total)
+    batches = [np.arange(first, min(total, first + options.batch_size)) for first in range(0, total, options.batch_size)]
+    folder = _open_folder(execution, manifest_for(system, options, seed, total))
+
+    def store(result):
+        nonlocal evaluations
+        indices = result["indices"]
+        endpoints[indices], status[indices], steps[indices] = result["endpoints"], result["status"], result["steps"]
+        winding[indices], condition[indices] = result["winding"], result["condition"]
+        retracked[indices], digits[indices] = result["retracked"], result["digits"]
+        evaluations += int(result["evaluations"])
+
+    finished = folder.finished() if folder is not None and execution.resume else set()
+    for k in sorted(finished):
+        store(folder.read_batch(k))
+    todo = [k for k in range(len(batches)) if k not in finished]
+    done_paths = sum(len(batches[k]) for k in finished)
+    executor = execution.executor or make_executor(execution.workers, execution.scheduler, execution.local_dask,
+                                                   batches=len(todo))
+    tracker = BatchTracker(homotopy, start_points, options.tracker)
+    if isinstance(executor, InProcess) and progress is not None:
+        tracker.progress = lambda done, *_: progress(done_paths + done, total)
+    try:
+        for position, result in executor.run(tracker, [batches[k] for k in todo]):
+            store(result)
+            if folder is not None:
+                folder.write_batch(todo[position], result)
+            done_paths += len(result["indices"])
+            if progress is not None:
+                progress(done_paths, total)
+        lost = [todo[f.index] for f in executor.failures]
+        for k in lost:  # never lost silently: counted as failed paths, named in the report
+            status[batches[k]] = PathStatus.FAILED_BATCH
+            endpoints[batches[k]] = np.nan
+        description = executor.describe()
+        for failure, k in zip(description["failed_batches"], lost):
+            failure["index"] = k
+            failure["paths"] = [int(batches[k][0]), int(batches[k][-1])]
+    finally:
+        if execution.executor is None:
+            executor.close()
+    description.update(batches=len(batches), batches_resumed=len(finished), batch_size=options.batch_size,
+                       run_folder=None if folder is None else str(folder.path))
     cautious = options.tracker
     for _ in range(3):
         crossed = _crossed_paths(system, endpoints, status, options)
@@ -353,6 +448,8 @@ def _run(system, homotopy, start_points, total, options, rng, seed, progress, st
     result = SolveResult(system, solutions, infinite, not_isolated, status, steps, winding, retracked, seed,
                          time.perf_counter() - started, evaluations, squared, digits)
     result.discarded = discarded
+    description["seconds"] = result.seconds
+    result.extra["execution"] = description
     return result
 
 

@@ -58,6 +58,7 @@ class PathStatus(enum.IntEnum):
     FAILED_STEP_LIMIT = 5
     FAILED_NONFINITE = 6
     FAILED_ENDGAME = 7
+    FAILED_BATCH = 8
 
     @property
     def failed(self):
@@ -84,6 +85,7 @@ _LABELS = {
     PathStatus.FAILED_STEP_LIMIT: "step_limit",
     PathStatus.FAILED_NONFINITE: "non_finite",
     PathStatus.FAILED_ENDGAME: "endgame_unsettled",
+    PathStatus.FAILED_BATCH: "batch_failed",
 }
 _MESSAGES = {
     PathStatus.RUNNING: "still being tracked",
@@ -94,6 +96,7 @@ _MESSAGES = {
     PathStatus.FAILED_STEP_LIMIT: "failed: the step limit was reached",
     PathStatus.FAILED_NONFINITE: "failed: non-finite values (overflow or a singular linear system)",
     PathStatus.FAILED_ENDGAME: "failed: the endgame estimates did not settle",
+    PathStatus.FAILED_BATCH: "failed: its batch failed twice on a worker (error in the report); not tracked",
 }
 #: Labels of the failure reasons, in order.
 FAILURE_LABELS = [s.label for s in PathStatus if s.failed]
@@ -604,3 +607,43 @@ def track_paths(homotopy, start_points, options=None, progress=None):
             steps[rescued] += extra_steps
     return TrackResult(endpoints, status, steps, condition, winding, endgame, retracked,
                        homotopy.evaluations - before, digits=digits)
+
+
+class BatchTracker:
+    """Tracks the paths with the given numbers; picklable, so executors can send it to worker processes.
+
+    Parameters
+    ----------
+    homotopy : object
+        As for :func:`track_paths`.
+    starts : callable
+        ``starts(indices)`` gives the start points of those paths.
+    options : TrackerOptions
+
+    Returns (when called)
+    ---------------------
+    dict of ndarray
+        ``indices``, ``endpoints``, ``status``, ``steps``, ``winding``, ``condition``, ``retracked``,
+        ``digits``, ``evaluations``: plain arrays, so that a batch can be saved with numpy alone.
+    """
+
+    def __init__(self, homotopy, starts, options=None):
+        self.homotopy, self.starts, self.options = homotopy, starts, options
+        self.progress = None  # only in-process: a callable does not cross processes
+
+    def __call__(self, indices):
+        result = track_paths(self.homotopy, self.starts(indices), self.options, progress=self.progress)
+        return {"indices": np.asarray(indices), "endpoints": result.endpoints, "status": result.status,
+                "steps": result.steps, "winding": result.winding, "condition": result.condition,
+                "retracked": result.retracked, "digits": result.digits,
+                "evaluations": np.asarray(result.evaluations)}
+
+
+class StartArray:
+    """Start points given as an array (picklable, unlike a closure)."""
+
+    def __init__(self, points):
+        self.points = points
+
+    def __call__(self, indices):
+        return self.points[indices]

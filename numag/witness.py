@@ -43,7 +43,8 @@ from .homotopy import ParameterHomotopy, random_unit_complex
 from .linalg import jacobian_row_scales, residual_scales, scaled_singular_values
 from .polynomial import Polynomial, PolynomialSystem
 from .refine import IsolationTest, project_to_variety
-from .tracker import PathStatus, TrackerOptions, track_paths
+from .executor import current_executor
+from .tracker import BatchTracker, StartArray, PathStatus, TrackerOptions, track_paths
 
 __all__ = ["WitnessOptions", "WitnessSet", "WitnessSupersets", "witness_supersets", "Slicing", "track_moves",
            "membership", "combine_equations", "random_rows", "linear_form", "jacobian_rank", "scaled_residual"]
@@ -265,17 +266,27 @@ def track_moves(start, target, points, rng, options, counts, batch_size=4096):
 
     homotopy, starts = homotopy_with_fresh_gamma()
 
+    def store(rows, result):
+        status[rows] = result["status"]
+        winding[rows] = result["winding"]
+        finite = (result["status"] == PathStatus.CONVERGED) | (result["status"] == PathStatus.SINGULAR_ENDPOINT)
+        with np.errstate(all="ignore"):
+            ends = result["endpoints"][:, 1:] / result["endpoints"][:, :1]
+        affine[rows] = np.where(finite[:, None], ends, np.nan)
+
     def run(indices, tracker_options):
-        for first in range(0, len(indices), batch_size):
-            rows = indices[first:first + batch_size]
-            with threadpool_limits(limits=1):
-                result = track_paths(homotopy, starts[rows], tracker_options)
-            status[rows] = result.status
-            winding[rows] = result.winding
-            finite = (result.status == PathStatus.CONVERGED) | (result.status == PathStatus.SINGULAR_ENDPOINT)
-            with np.errstate(all="ignore"):
-                ends = result.endpoints[:, 1:] / result.endpoints[:, :1]
-            affine[rows] = np.where(finite[:, None], ends, np.nan)
+        batches = [indices[first:first + batch_size] for first in range(0, len(indices), batch_size)]
+        tracker = BatchTracker(homotopy, StartArray(starts), tracker_options)
+        executor = current_executor()
+        if executor is None or len(batches) < 2:  # small moves stay here: no transfer cost
+            for rows in batches:
+                with threadpool_limits(limits=1):
+                    store(rows, tracker(rows))
+            return
+        for position, result in executor.run(tracker, batches):
+            store(batches[position], result)
+        for failure in executor.failures:  # counted as failed paths, never dropped
+            status[batches[failure.index]] = PathStatus.FAILED_BATCH
 
     run(np.arange(count), options)
     cautious = options

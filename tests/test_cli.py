@@ -238,3 +238,13 @@ def test_compare_command(tmp_path):
     assert code == EXIT_OK and data["command"] == "compare" and data["verdict"] == "agree"
     assert data["reference"]["scheme_length"] == 2 and data["reference"]["exact_points"] == [["0", "0"]]
     assert run(["compare", str(path), "--time-limit", "0"])[0] == EXIT_INPUT
+
+
+def test_singular_and_decompose_report_their_executor():
+    code, text = run(["singular", str(EXAMPLES / "parallel_linkage.toml"), "--json", "--seed", "3", "--workers", "2"])
+    data = json.loads(text)
+    assert code == EXIT_OK and data["execution"]["executor"] == "process pool" and data["execution"]["workers"] == 2
+    assert len(data["components"]) == 2
+    code, text = run(["decompose", str(EXAMPLES / "parallel_linkage.toml"), "--json", "--seed", "1", "--workers", "1"])
+    assert code == EXIT_OK and json.loads(text)["execution"]["executor"] == "in-process"
+    assert run(["singular", str(EXAMPLES / "parallel_linkage.toml"), "--workers", "0"])[0] == EXIT_INPUT

@@ -163,3 +163,18 @@ def test_dimension_and_degree_agree_with_sympy(case):
     assert (top, sum(c.degree for c in result.components if c.dimension == top)) == exact
     if case == 2:  # the quartic curve of the two quadrics, off the plane
         assert sum(c.degree for c in result.components if c.dimension == 1) == 4
+
+
+def test_same_answer_with_worker_processes():
+    # batches of 2 paths send every homotopy of more than 2 paths through the pool; the answer must not
+    # change (the affine cone over the twisted cubic: dimension 2, degree 3, problem file)
+    from dataclasses import replace as _replace
+    from numag.executor import LocalPool, using
+    from numag.witness import WitnessOptions
+    system = parse_system(["x0*x2 - x1^2", "x1*x3 - x2^2", "x0*x3 - x1*x2"], ["x0", "x1", "x2", "x3"])
+    options = DecomposeOptions(witness=WitnessOptions(batch_size=2))
+    alone = decompose(system, options, seed=4)
+    with LocalPool(2) as executor, using(executor):
+        pooled = decompose(system, options, seed=4)
+    assert [(c.dimension, c.degree) for c in alone.components] == [(c.dimension, c.degree) for c in pooled.components]
+    assert np.allclose(alone.components[0].points, pooled.components[0].points)

@@ -8,7 +8,7 @@ import numag
 # A module may import only modules of a strictly lower layer.
 LAYERS = [
     {"errors", "cluster"},
-    {"exact"},
+    {"exact", "executor", "checkpoint"},
     {"polynomial"},
     {"parse", "reference"},
     {"evaluate", "linalg", "rescue"},

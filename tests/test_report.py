@@ -47,3 +47,24 @@ def test_certificate_round_trip():
     again = certificate_from_dict(data)
     assert certificate_to_dict(again) == data
     assert again.status == "certified" and again.exact_coordinates == ["0", "0"]
+
+
+def test_certification_through_worker_processes_gives_the_same_certificates():
+    # same certificates in-process and on 2 workers (common practice, no source)
+    from numag.executor import LocalPool
+    from numag.parse import parse_system
+    from numag.report import certify_report, singular_to_dict
+    from numag.singular import SingularOptions, singular_locus
+    # four lines in general position: 6 nodes (problem file: four_generic_lines)
+    locus = singular_locus(parse_system(["(x - y + 1)*(2*x + y - 3)*(x + 3*y + 2)*(3*x - 2*y - 7)"], ["x", "y"]),
+                           seed=3)
+    data = singular_to_dict(locus, SingularOptions())
+    alone = certify_report(data)
+    with LocalPool(2) as executor:
+        pooled = certify_report(data, executor=executor)
+    def strip(report):
+        return [[{k: v for k, v in c.items() if k != "notes"} for c in comp["certificates"]]
+                for comp in report["components"]]
+    assert strip(alone) == strip(pooled)
+    assert sum(len(c) for c in strip(pooled)) == 6 and pooled["certification"]["counts"]["certified"] == 6
+    assert pooled["certification"]["executor"]["executor"] == "process pool"

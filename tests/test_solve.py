@@ -1,10 +1,13 @@
 import itertools
+import io
 import json
+import pathlib
 
 import numpy as np
 import pytest
 import sympy
 
+import numag
 from numag.errors import InputError
 from numag.parse import parse_system
 from numag.report import dumps, solve_report_from_dict, solve_report_to_dict
@@ -190,3 +193,76 @@ def test_squared_up_extra_solutions_are_discarded():
     result = solve_system(system, SolveOptions(square_up=True), seed=4)
     assert [tuple(np.round(s.point.real, 10)) for s in result.solutions] == [(1, 2)]
     assert len(result.discarded) >= 1
+
+
+# --- executors and run folders ----------------------------------------------------------------------
+
+def _answer(result):
+    """Solutions as a set of rounded points, and every path's status: what must not depend on the executor."""
+    points = {tuple(np.round(s.point, 8)) for s in result.solutions}
+    return points, result.status.tolist(), result.path_counts()
+
+
+def _cubics():
+    # three cubics in three unknowns: Bezout number 27 (common practice, no source)
+    return parse_system(["x^3 + y^3 + z^3 - 3", "x*y*z - 1 + x^2", "x^2 - y^2 + z^3 - 2"], ["x", "y", "z"])
+
+
+def test_same_seed_same_answer_with_one_two_workers_and_dask():
+    pytest.importorskip("distributed")
+    from numag.solve import Execution
+    options = SolveOptions(batch_size=5)
+    one = solve_system(_cubics(), options, seed=8, execution=Execution(workers=1))
+    two = solve_system(_cubics(), options, seed=8, execution=Execution(workers=2))
+    dask = solve_system(_cubics(), options, seed=8, execution=Execution(local_dask=True, workers=2))
+    assert _answer(one) == _answer(two) == _answer(dask)
+    assert [r.extra["execution"]["executor"] for r in (one, two, dask)] == ["in-process", "process pool", "dask"]
+    assert one.extra["execution"]["batches"] == 6 and two.extra["execution"]["workers"] == 2
+
+
+def test_killed_run_resumes_without_tracking_finished_batches_again(tmp_path):
+    import os
+    import signal
+    import subprocess
+    import sys
+    import time
+    from numag.cli import main
+    system_file = tmp_path / "quartics.toml"
+    # 4 x 4 x 4 = 64 paths in batches of 2: long enough to be killed mid-way
+    system_file.write_text('variables = ["x", "y", "z"]\nequations = ["x^4 + y^3*z - 2*z + 1", '
+                           '"y^4 - x*z^2 + 3*x - 1", "z^4 + x^2*y^2 - y - 2"]\n')
+    folder = tmp_path / "run"
+    env = dict(os.environ, PYTHONPATH=str(pathlib.Path(numag.__file__).parent.parent))
+    child = subprocess.Popen([sys.executable, "-m", "numag", "solve", str(system_file), "--run-folder", str(folder),
+                              "--batch-size", "2", "--workers", "1", "--seed", "6", "--json"],
+                             stdout=subprocess.DEVNULL, stderr=subprocess.DEVNULL, env=env)
+    deadline = time.time() + 120
+    while time.time() < deadline and len(list(folder.glob("batch-*.npz"))) < 3:
+        time.sleep(0.01)
+    child.send_signal(signal.SIGKILL)
+    child.wait()
+    finished = {p.name: p.stat().st_mtime_ns for p in folder.glob("batch-*.npz")}
+    assert 3 <= len(finished) < 32, "the run must be killed part-way"
+    out = io.StringIO()
+    assert main(["solve", "--resume", str(folder), "--json"], out=out) == 0
+    resumed = json.loads(out.getvalue())
+    assert resumed["execution"]["batches_resumed"] == len(finished)
+    assert {p.name: p.stat().st_mtime_ns for p in folder.glob("batch-*.npz") if p.name in finished} == finished
+    assert len(list(folder.glob("batch-*.npz"))) == 32
+    out = io.StringIO()
+    assert main(["solve", str(system_file), "--batch-size", "2", "--seed", "6", "--json"], out=out) == 0
+    whole = json.loads(out.getvalue())
+    assert resumed["path_status"] == whole["path_status"]
+    assert ({tuple(map(tuple, s["point"])) for s in resumed["solutions"]}
+            == {tuple(map(tuple, s["point"])) for s in whole["solutions"]})
+
+
+def test_a_run_folder_of_another_run_is_refused(tmp_path):
+    from numag.errors import InputError
+    from numag.solve import Execution
+    solve_system(_cubics(), SolveOptions(batch_size=10), seed=1, execution=Execution(run_folder=str(tmp_path / "r")))
+    with pytest.raises(InputError, match="different run"):
+        solve_system(_cubics(), SolveOptions(batch_size=10), seed=2,
+                     execution=Execution(run_folder=str(tmp_path / "r"), resume=True))
+    with pytest.raises(InputError, match="already holds a run"):
+        solve_system(_cubics(), SolveOptions(batch_size=10), seed=1, execution=Execution(run_folder=str(tmp_path / "r")))
