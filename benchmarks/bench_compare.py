@@ -36,9 +36,10 @@ import time
 
 import numpy as np
 
+from families import chebyshev, quadric_unions as shared_quadric_unions
 from numag.compare import compare_system
 from numag.parse import parse_system
-from numag.polynomial import Polynomial, PolynomialSystem
+from numag.polynomial import PolynomialSystem
 
 ROOT = pathlib.Path(__file__).resolve().parent.parent
 PROBLEMS = ROOT / "tests" / "data" / "problems.json"
@@ -49,16 +50,6 @@ def shared_problems():
         system = parse_system(entry["equations"], entry["variables"], projective=entry["projective"],
                               name=entry["name"])
         yield "shared problems", system, len(entry["variables"])
-
-
-def chebyshev(degree, index, n):
-    x = Polynomial.variable(index, n)
-    previous, current = Polynomial.constant(1, n), x
-    if degree == 0:
-        return previous
-    for _ in range(degree - 1):
-        previous, current = current, x * current * 2 - previous
-    return current
 
 
 def chebyshev_curves(pairs):
@@ -74,13 +65,8 @@ def nodal_surfaces(degrees):
 
 
 def quadric_unions(counts, seed=11):
-    rng = np.random.default_rng(seed)
-    names = ["x", "y", "z"]
-    monomials = [f"{a}*{b}" for a, b in itertools.combinations_with_replacement(names, 2)] + names + ["1"]
-    for k in counts:
-        factors = ["(" + " + ".join(f"({int(rng.integers(1, 6)) * int(rng.choice([-1, 1]))})*{m}"
-                                    for m in monomials) + ")" for _ in range(k)]
-        yield "unions of quadrics", parse_system(["*".join(factors)], names, name=f"{k} quadrics"), 2 * k
+    for k, system in shared_quadric_unions(counts, seed):
+        yield "unions of quadrics", system, 2 * k
 
 
 def determinantal(shapes):

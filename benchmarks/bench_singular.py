@@ -20,17 +20,16 @@ time limit, with the ratio. Expected answers:
 """
 
 import argparse
-import itertools
 import json
 import math
 import pathlib
 import time
 
-import numpy as np
 
+from families import chebyshev, quadric_unions as shared_quadric_unions
 from reference_timing import run_with_time_limit
 from numag.parse import parse_system
-from numag.polynomial import Polynomial, PolynomialSystem
+from numag.polynomial import PolynomialSystem
 from numag.singular import singular_locus
 
 PROBLEMS = pathlib.Path(__file__).resolve().parent.parent / "tests" / "data" / "problems.json"
@@ -44,16 +43,6 @@ def surfaces():
         yield system, f"{nodes} pts"
 
 
-def chebyshev(degree, variable_index, n_variables):
-    x = Polynomial.variable(variable_index, n_variables)
-    previous, current = Polynomial.constant(1, n_variables), x
-    if degree == 0:
-        return previous
-    for _ in range(degree - 1):
-        previous, current = current, x * current * 2 - previous
-    return current
-
-
 def chebyshev_curves(pairs):
     for a, b in pairs:
         f = chebyshev(a, 0, 2) - chebyshev(b, 1, 2)
@@ -61,13 +50,8 @@ def chebyshev_curves(pairs):
 
 
 def quadric_unions(counts, seed=11):
-    rng = np.random.default_rng(seed)
-    names = ["x", "y", "z"]
-    monomials = [f"{a}*{b}" for a, b in itertools.combinations_with_replacement(names, 2)] + names + ["1"]
-    for k in counts:
-        factors = ["(" + " + ".join(f"({int(rng.integers(1, 6)) * int(rng.choice([-1, 1]))})*{m}"
-                                    for m in monomials) + ")" for _ in range(k)]
-        yield parse_system(["*".join(factors)], names, name=f"{k} quadrics"), f"{k * (k - 1) // 2}x 1:4"
+    for k, system in shared_quadric_unions(counts, seed):
+        yield system, f"{k * (k - 1) // 2}x 1:4"
 
 
 def _sympy_singular(texts, names, projective, queue):

@@ -88,12 +88,7 @@ def build_parser():
                        help="paths tracked together (default %(default)s)")
     solve.add_argument("--seed", type=int, help="seed of the random choices (recorded in the report)")
     solve.add_argument("--json", action="store_true", help="print the report as JSON (no progress lines)")
-    solve.add_argument("--workers", type=int, metavar="N",
-                       help="worker processes (default: every core when there is more than one batch, else "
-                            "in-process)")
-    solve.add_argument("--scheduler", metavar="ADDRESS",
-                       help="run the batches on a Dask cluster (tcp://host:8786; pip install 'numag[cluster]')")
-    solve.add_argument("--local-dask", action="store_true", help="start a local Dask cluster for the batches")
+    _add_executor_options(solve)
     solve.add_argument("--run-folder", metavar="DIR",
                        help="save the run: a manifest and every finished batch (atomic writes), for --resume")
     solve.add_argument("--resume", metavar="DIR",
@@ -174,11 +169,11 @@ def build_parser():
 
 def _add_executor_options(command):
     command.add_argument("--workers", type=int, metavar="N",
-                         help="worker processes for homotopies of more than one batch of paths (default: every "
-                              "core; smaller ones run in-process)")
+                         help="worker processes for runs of more than one batch of paths (default: every core; "
+                              "a single batch runs in-process)")
     command.add_argument("--scheduler", metavar="ADDRESS",
-                         help="run large homotopies on a Dask cluster (pip install 'numag[cluster]')")
-    command.add_argument("--local-dask", action="store_true", help="start a local Dask cluster for them")
+                         help="run the batches on a Dask cluster (tcp://host:8786; pip install 'numag[cluster]')")
+    command.add_argument("--local-dask", action="store_true", help="start a local Dask cluster for the batches")
 
 
 def _stage_executor(args):

@@ -23,7 +23,6 @@ Examples
 import copy
 import json
 import os
-import tempfile
 import time
 
 import numpy as np
@@ -32,6 +31,7 @@ from . import __version__
 from .certify import (ALPHA_ZERO_TEXT, STATUSES, Certificate, CertifyOptions, certify_regular_zero,
                       certify_singular_point, certify_smooth_point, overlapping_pairs)
 from .errors import InputError
+from .checkpoint import atomic_write_bytes
 from .executor import InProcess
 from .files import system_from_mapping
 from .decompose import Component, Decomposition, DecomposeOptions
@@ -612,19 +612,7 @@ def read_report(path):
 
 def write_report(path, data):
     """Write a report atomically: a temporary file in the same folder, flushed to disk, then renamed."""
-    folder = os.path.dirname(os.path.abspath(path))
-    text = dumps(data) + "\n"
-    handle, temporary = tempfile.mkstemp(prefix=".numag-", suffix=".json", dir=folder)
-    try:
-        with os.fdopen(handle, "w", encoding="utf-8") as stream:
-            stream.write(text)
-            stream.flush()
-            os.fsync(stream.fileno())
-        os.replace(temporary, path)
-    except BaseException:
-        if os.path.exists(temporary):
-            os.unlink(temporary)
-        raise
+    atomic_write_bytes(os.path.abspath(path), (dumps(data) + "\n").encode("utf-8"))
 
 
 # --- compare -------------------------------------------------------------------------------------
