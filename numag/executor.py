@@ -251,9 +251,11 @@ class DaskCluster(Executor):
         self.failures = []
         tries = {}
         futures = {}
+        # the function (a tracker holding the homotopy) goes to every worker once, not with every batch
+        shared = self._client.scatter(function, broadcast=True)
         for index, batch in enumerate(batches):
             tries[index] = 1
-            futures[self._client.submit(_pinned, function, batch, pure=False)] = index
+            futures[self._client.submit(_pinned, shared, batch, pure=False)] = index
         pending = as_completed(list(futures))
         for future in pending:
             index = futures.pop(future)
@@ -265,7 +267,7 @@ class DaskCluster(Executor):
                 else:
                     self.retries += 1
                     tries[index] += 1
-                    again = self._client.submit(_pinned, function, batches[index], pure=False)
+                    again = self._client.submit(_pinned, shared, batches[index], pure=False)
                     futures[again] = index
                     pending.add(again)
                 continue
