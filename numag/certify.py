@@ -63,7 +63,7 @@ from .errors import InputError
 from .evaluate import BatchEvaluator, PrecisionEvaluator
 from .exact import ExactCoefficient, square_free_split
 from .linalg import jacobian_row_scales
-from .polynomial import Polynomial, determinant
+from .polynomial import Polynomial, combined_minor, determinant
 
 __all__ = ["CertifyOptions", "Certificate", "certify_regular_zero", "certify_singular_point",
            "certify_smooth_point", "singularity_equations", "overlapping_pairs", "ALPHA_ZERO_TEXT",
@@ -265,18 +265,7 @@ def _minor_equations(polynomials, size, n, max_minors, rng):
     for _ in range(n - size + 1):
         a = _integer_weights(rng, (size, m))
         b = _integer_weights(rng, (n, size))
-        entries = []
-        for r in range(size):
-            row = []
-            for s in range(size):
-                total = Polynomial.zero(n)
-                for i in range(m):
-                    for j in range(n):
-                        if not gradients[i][j].is_zero():
-                            total = total + gradients[i][j] * int(a[r, i] * b[j, s])
-                row.append(total)
-            entries.append(row)
-        result.append(determinant(entries))
+        result.append(combined_minor(gradients, a, b))
     return result, False
 
 
@@ -960,7 +949,7 @@ def _chart(polynomials, point):
     return [p.dehomogenize(k) for p in polynomials], affine, k
 
 
-def _lift(certificate, k, n_homogeneous):
+def _lift(certificate, k):
     """Put the chart coordinate (exactly 1) back into the certificate's centre and coordinates."""
     certificate.chart = k
     certificate.center = np.insert(np.asarray(certificate.center, dtype=complex), k, 1.0)
@@ -975,7 +964,7 @@ def _in_chart(polynomials, point, projective, run):
     if not projective:
         return run(list(polynomials), np.asarray(point, dtype=complex))
     chart_polys, affine, k = _chart(polynomials, point)
-    return _lift(run(chart_polys, affine), k, len(point))
+    return _lift(run(chart_polys, affine), k)
 
 
 def certify_regular_zero(system, point, options=None, projective=None):

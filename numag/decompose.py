@@ -41,7 +41,7 @@ from scipy.spatial import cKDTree
 from .cluster import cluster_labels
 from .errors import InputError
 from .evaluate import BatchEvaluator
-from .polynomial import Polynomial, determinant
+from .polynomial import combined_minor
 from .witness import (WitnessOptions, combine_equations, jacobian_rank, linear_form, membership, random_rows,
                       track_moves, witness_supersets)
 
@@ -150,19 +150,7 @@ def random_minor(polynomials, size, rng, n):
     a = rng.standard_normal((size, m)) + 1j * rng.standard_normal((size, m))
     b = rng.standard_normal((n, size)) + 1j * rng.standard_normal((n, size))
     gradients = [[p.derivative(j) for j in range(n)] for p in polynomials]
-    entries = []
-    for r in range(size):
-        row = []
-        for s in range(size):
-            total = Polynomial.zero(n)
-            for i in range(m):
-                for j in range(n):
-                    weight = complex(a[r, i] * b[j, s])
-                    if not gradients[i][j].is_zero():
-                        total = total + gradients[i][j] * weight
-            row.append(total)
-        entries.append(row)
-    return determinant(entries)
+    return combined_minor(gradients, a, b)
 
 
 def holding_equations(system, codimension, points, rng, threshold=1e-6, max_rounds=4):

@@ -701,3 +701,44 @@ def determinant(entries, limits=DEFAULT_LIMITS):
         term = entries[0][j].multiply(determinant(rest, limits), limits)
         total = total - term if j % 2 else total + term
     return total
+
+
+def combined_minor(gradients, left, right, limits=DEFAULT_LIMITS):
+    """det(A J B): a combination of the k x k minors of J with weights from ``left`` (A) and ``right`` (B).
+
+    Parameters
+    ----------
+    gradients : list of list of Polynomial
+        J as m rows of n partial derivatives.
+    left : array_like, shape (k, m)
+    right : array_like, shape (n, k)
+        Integer weights keep exact polynomials exact; complex ones give numeric polynomials.
+
+    Returns
+    -------
+    Polynomial
+
+    Examples
+    --------
+    >>> x, y = Polynomial.variable(0, 2), Polynomial.variable(1, 2)
+    >>> f = x * x + y * y
+    >>> combined_minor([[f.derivative(0), f.derivative(1)]], [[1]], [[1], [1]]).to_text(["x", "y"])
+    '2*x + 2*y'
+    """
+    left, right = np.asarray(left), np.asarray(right)
+    exact = left.dtype.kind in "iu" and right.dtype.kind in "iu"
+    size, m = left.shape
+    n = right.shape[0]
+    entries = []
+    for r in range(size):
+        row = []
+        for s in range(size):
+            total = Polynomial.zero(n)
+            for i in range(m):
+                for j in range(n):
+                    if not gradients[i][j].is_zero():
+                        weight = int(left[r, i] * right[j, s]) if exact else complex(left[r, i] * right[j, s])
+                        total = total + gradients[i][j] * weight
+            row.append(total)
+        entries.append(row)
+    return determinant(entries, limits)

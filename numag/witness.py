@@ -31,7 +31,6 @@ Examples
 """
 
 from dataclasses import dataclass, field, replace
-import math
 
 import numpy as np
 from threadpoolctl import threadpool_limits
@@ -44,7 +43,7 @@ from .linalg import jacobian_row_scales, residual_scales, scaled_singular_values
 from .polynomial import Polynomial, PolynomialSystem
 from .refine import IsolationTest, project_to_variety
 from .executor import current_executor
-from .tracker import BatchTracker, StartArray, PathStatus, TrackerOptions, track_paths
+from .tracker import BatchTracker, PathStatus, StartArray, TrackerOptions
 
 __all__ = ["WitnessOptions", "WitnessSet", "WitnessSupersets", "witness_supersets", "Slicing", "track_moves",
            "membership", "combine_equations", "random_rows", "linear_form", "jacobian_rank", "scaled_residual"]
