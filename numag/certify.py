@@ -54,6 +54,7 @@ from dataclasses import dataclass, field
 from fractions import Fraction
 import itertools
 import math
+import weakref
 
 import mpmath
 import numpy as np
@@ -603,8 +604,12 @@ def _is_real(polynomials):
     return True
 
 
-def _certify_zero(polynomials, point, options, claim, exact_check=True):
-    """Certify a zero of ``polynomials`` (square or overdetermined) near ``point`` (affine coordinates)."""
+def _certify_zero(polynomials, point, options, claim, exact_check=True, squares=None):
+    """Certify a zero of ``polynomials`` (square or overdetermined) near ``point`` (affine coordinates).
+
+    ``squares`` caches square subsystems (and their evaluators' converted coefficients) across the
+    points of one system; keys are the identities of the chosen polynomials.
+    """
     options = options.validated()
     digits = options.digits
     point = np.asarray(point, dtype=complex)
@@ -631,7 +636,14 @@ def _certify_zero(polynomials, point, options, claim, exact_check=True):
         equations, rows, deflations, start = _square_subsystem(polynomials, point, options, rng)
     except _Undecided as err:
         return failed(str(err))
-    square = _Square([equations[k] for k in rows])
+    chosen = [equations[k] for k in rows]
+    key = tuple(id(p) for p in chosen)
+    if squares is not None and not deflations and key in squares:
+        square = squares[key]
+    else:
+        square = _Square(chosen)
+        if squares is not None and not deflations:
+            squares[key] = square
     mp, iv = mpmath.mp, mpmath.iv
     with working_digits(digits + 8):
         center, converged, _ = square.newton(start, digits)
@@ -939,14 +951,18 @@ def _expression_text(values):
 
 # --- public entry points ----------------------------------------------------------------------------
 
-def _chart(polynomials, point):
+def _chart(polynomials, point, charts=None):
     """Dehomogenise at the coordinate of largest modulus; returns (polynomials, affine point, index)."""
     point = np.asarray(point, dtype=complex)
     k = int(np.argmax(np.abs(point)))
     if abs(point[k]) == 0:
         raise InputError("the zero vector is not a projective point")
     affine = np.delete(point / point[k], k)
-    return [p.dehomogenize(k) for p in polynomials], affine, k
+    if charts is None:
+        return [p.dehomogenize(k) for p in polynomials], affine, k
+    if k not in charts:
+        charts[k] = [p.dehomogenize(k) for p in polynomials]
+    return charts[k], affine, k
 
 
 def _lift(certificate, k):
@@ -960,10 +976,14 @@ def _lift(certificate, k):
     return certificate
 
 
-def _in_chart(polynomials, point, projective, run):
+#: Per system: the singularity equations, their charts and square subsystems (dropped with the system).
+_SYSTEM_CACHE = weakref.WeakKeyDictionary()
+
+
+def _in_chart(polynomials, point, projective, run, charts=None):
     if not projective:
         return run(list(polynomials), np.asarray(point, dtype=complex))
-    chart_polys, affine, k = _chart(polynomials, point)
+    chart_polys, affine, k = _chart(polynomials, point, charts)
     return _lift(run(chart_polys, affine), k)
 
 
@@ -1040,7 +1060,11 @@ def certify_singular_point(system, point, codimension=None, options=None, projec
         if system.n_equations != 1:
             raise InputError("the codimension is needed for a system of several equations")
         codimension = 1
-    equations, complete = singularity_equations(system, int(codimension), options.max_minors, options.seed)
+    cache = _SYSTEM_CACHE.setdefault(system, {})
+    key = (int(codimension), options.max_minors, options.seed)
+    if key not in cache:  # the minors, their charts and square subsystems serve every point of the system
+        cache[key] = singularity_equations(system, int(codimension), options.max_minors, options.seed) + ({}, {})
+    equations, complete, charts, squares = cache[key]
     claim = "singular point" if not slices else "point of the singular locus"
 
     def run(polynomials, affine):
@@ -1051,14 +1075,15 @@ def certify_singular_point(system, point, codimension=None, options=None, projec
             for _ in range(slices):
                 weights = rng.standard_normal(n) + 1j * rng.standard_normal(n)
                 extra.append(Polynomial.linear(weights, -complex(weights @ affine)))
-        certificate = _certify_zero(extra, affine, options, claim, exact_check=not slices)
+        certificate = _certify_zero(extra, affine, options, claim, exact_check=not slices,
+                                    squares=None if slices else squares)
         if certificate.kind == "exact" and not complete:
             certificate.kind = "numerical"
             certificate.notes.append("the exact check covered random combinations of the minors, not every "
                                      "minor: kind stays numerical")
         return certificate
 
-    return _in_chart(equations, point, projective, run)
+    return _in_chart(equations, point, projective, run, charts)
 
 
 def certify_smooth_point(system, point, codimension, options=None, projective=None):
