@@ -334,13 +334,16 @@ class _Progress:
         self.started = time.perf_counter()
         self.last = 0.0
         self.last_done = None
+        self.base = None  # paths already done at the first report (read back from a run folder)
 
     def __call__(self, done, total):
         now = time.perf_counter() - self.started
+        if self.base is None:
+            self.base = done if done < total else 0
         if self.quiet or now < 2.0 or done == self.last_done or (now - self.last < 1.0 and done < total):
             return
         self.last, self.last_done = now, done
-        rate = done / now if now > 0 else 0.0
+        rate = (done - self.base) / now if now > 0 else 0.0
         left = (total - done) / rate if rate > 0 else float("inf")
         sys.stderr.write(f"numag: {done}/{total} paths ({100 * done / total:.0f}%), {rate:.0f} paths/s, "
                          f"about {left:.0f} s left\n")

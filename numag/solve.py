@@ -390,6 +390,8 @@ def _run(system, homotopy, start_points, total, options, rng, seed, progress, st
         store(folder.read_batch(k))
     todo = [k for k in range(len(batches)) if k not in finished]
     done_paths = sum(len(batches[k]) for k in finished)
+    if progress is not None:
+        progress(done_paths, total)  # the starting point: paths read back from the run folder
     executor = execution.executor or make_executor(execution.workers, execution.scheduler, execution.local_dask,
                                                    batches=len(todo))
     tracker = BatchTracker(homotopy, start_points, options.tracker)
