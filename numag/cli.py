@@ -338,8 +338,10 @@ class _Progress:
 
     def __call__(self, done, total):
         now = time.perf_counter() - self.started
-        if self.base is None:
+        if self.base is None:  # the first report only marks where this run starts
             self.base = done if done < total else 0
+            if done < total:
+                return
         if self.quiet or now < 2.0 or done == self.last_done or (now - self.last < 1.0 and done < total):
             return
         self.last, self.last_done = now, done

@@ -248,3 +248,16 @@ def test_singular_and_decompose_report_their_executor():
     code, text = run(["decompose", str(EXAMPLES / "parallel_linkage.toml"), "--json", "--seed", "1", "--workers", "1"])
     assert code == EXIT_OK and json.loads(text)["execution"]["executor"] == "in-process"
     assert run(["singular", str(EXAMPLES / "parallel_linkage.toml"), "--workers", "0"])[0] == EXIT_INPUT
+
+
+def test_progress_rate_counts_only_paths_tracked_in_this_run(capsys):
+    # after a resume, paths read back from the run folder are not part of the rate (common practice)
+    from numag.cli import _Progress
+    import time as _time
+    progress = _Progress(quiet=False)
+    progress.started = _time.perf_counter() - 10.0
+    progress(500, 1000)  # the starting point: 500 paths read back
+    progress.last = -10.0
+    progress(600, 1000)
+    line = capsys.readouterr().err.strip().splitlines()[-1]
+    assert "600/1000 paths (60%)" in line and " 10 paths/s" in line and "about 40 s left" in line
