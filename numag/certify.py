@@ -13,9 +13,9 @@ What can be proved, and how (each certificate says which kind it is):
   beta = |J^-1 S(x)| and gamma bounded from the Bombieri-Weyl norm of S;
   alpha < (13 - 3 sqrt(17))/4 proves that Newton's method converges
   quadratically from x to a zero within 2 beta (Blum, Cucker, Shub, Smale,
-  "Complexity and Real Computation", Springer 1998; the gamma bound of Shub &
-  Smale, "Complexity of Bezout's theorem I", J. AMS 1993, as used by
-  Hauenstein & Sottile, "alphaCertified", ACM TOMS 2012 -- from memory).
+  "Complexity and Real Computation", Springer 1998; the gamma bound from the
+  Bombieri-Weyl norm: Shub & Smale, "Complexity of Bezout's theorem I",
+  J. AMS 1993 -- from memory).
 * **A zero of an overdetermined system** (a singular point is a zero of F and
   the c x c minors of J): a square subsystem is chosen where its Jacobian is
   best conditioned; if even the full Jacobian drops rank, isosingular
