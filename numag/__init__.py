@@ -21,6 +21,12 @@ Examples
 
 __version__ = "0.1.0"
 
+from .allocation import retain_freed_memory  # noqa: E402
+
+# Batched evaluations free and reallocate megabyte arrays all the time; keeping freed memory in
+# the process halves their cost (see numag.allocation; NUMAG_KEEP_ALLOCATOR=1 opts out).
+retain_freed_memory()
+
 from .errors import NumagError  # noqa: E402
 from .parse import parse_system, parse_polynomial  # noqa: E402
 from .polynomial import Polynomial, PolynomialSystem  # noqa: E402

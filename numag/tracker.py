@@ -326,13 +326,18 @@ def _inverse(jacobian):
         return result
 
 
-def _advance(homotopy, points, t, t_end, curve, index, opts, steps, step=None, max_step=None, on_step=None):
+def _advance(homotopy, points, t, t_end, curve, index, opts, steps, step=None, max_step=None, on_step=None,
+             waypoint=None):
     """Move every path from t to t_end along ``curve``; returns points, t, a status and the step per path.
 
     ``index`` maps the rows to path numbers (for per-path curve parameters);
     ``steps`` (per row) is updated in place; ``step`` carries step sizes over
     from a previous piece (the endgame's arcs), ``max_step`` overrides the option;
-    ``on_step(finished)`` is told after each step how many rows have finished.
+    ``on_step(finished)`` is told after each step how many rows have finished (or, with a
+    waypoint, passed it). With ``waypoint`` (a value of t between t and t_end) every path stops
+    exactly there once on its way and its point is kept: two more arrays are returned, whether
+    the row passed the waypoint and its point there (NaN when not). One pass instead of two
+    pieces: the step size carries over and the slow paths of both pieces share iterations.
     """
     points = points.copy()
     t = t.astype(float).copy()
@@ -343,14 +348,21 @@ def _advance(homotopy, points, t, t_end, curve, index, opts, steps, step=None, m
     status = np.zeros(len(t), dtype=np.int64)
     taken = np.zeros(len(t), dtype=np.int64)
     held = np.zeros(len(t), dtype=bool)
+    passed = np.zeros(len(t), dtype=bool)
+    if waypoint is not None:
+        at_waypoint = np.full(points.shape, np.nan, dtype=complex)
+        stop = np.full(len(t), float(waypoint))
+    else:
+        stop = t_end
     while True:
         active = np.nonzero((status == PathStatus.RUNNING) & (np.abs(t_end - t) > 0))[0]
         if on_step is not None:
-            on_step(len(t) - len(active))
+            on_step(len(t) - len(active) if waypoint is None else int(np.sum(passed | (status != 0))))
         if len(active) == 0:
             break
         x, tt, rows = points[active], t[active], index[active]
-        h = np.minimum(step[active], np.abs(t_end[active] - tt)) * direction[active]
+        goal = stop[active]
+        h = np.minimum(step[active], np.abs(goal - tt)) * direction[active]
 
         def velocity(y, time):
             _, jacobian, derivative = homotopy.evaluate(y, curve.s(time, rows))
@@ -375,7 +387,7 @@ def _advance(homotopy, points, t, t_end, curve, index, opts, steps, step=None, m
         go = spread <= opts.stage_spread
         accepted = np.zeros(len(active), dtype=bool)
         error = np.full(len(active), np.inf)
-        new_t = np.where(np.abs(step[active]) >= np.abs(t_end[active] - tt), t_end[active], tt + h)
+        new_t = np.where(np.abs(step[active]) >= np.abs(goal - tt), goal, tt + h)
         corrected = np.full(x.shape, np.nan, dtype=complex)
         new_tangent = np.full(x.shape, np.nan, dtype=complex)
         if np.any(go):
@@ -391,6 +403,11 @@ def _advance(homotopy, points, t, t_end, curve, index, opts, steps, step=None, m
         points[good] = corrected[accepted]
         t[good] = new_t[accepted]
         tangent[good] = new_tangent[accepted]
+        if waypoint is not None:
+            arrived = good[(t[good] == waypoint) & ~passed[good]]
+            passed[arrived] = True
+            at_waypoint[arrived] = points[arrived]
+            stop[arrived] = t_end[arrived]
         # The first Newton correction measures the predictor's error, which scales like h^5:
         # aim the next step at the error the corrector removes in about two iterations.
         with np.errstate(divide="ignore"):
@@ -409,6 +426,8 @@ def _advance(homotopy, points, t, t_end, curve, index, opts, steps, step=None, m
     steps += taken
     bad = ~np.all(np.isfinite(points), axis=1)
     status[bad & (status == PathStatus.RUNNING)] = PathStatus.FAILED_NONFINITE
+    if waypoint is not None:
+        return points, t, status, step, passed, at_waypoint
     return points, t, status, step
 
 
@@ -517,17 +536,23 @@ def _track(homotopy, start_points, opts, near=None, on_step=None):
     status = np.zeros(count, dtype=np.int64)
     radius = opts.endgame_radius
     if near is None:
-        near, _, status_a, _ = _advance(homotopy, start_points, np.ones(count), np.full(count, radius), _Segment,
-                                        index, opts, steps, on_step=on_step)
-        status[:] = status_a
+        # one pass from s = 1 to 0 that keeps every path's point at the endgame radius
+        final, _, status_a, _, passed, near = _advance(homotopy, start_points, np.ones(count), np.zeros(count),
+                                                      _Segment, index, opts, steps, on_step=on_step,
+                                                      waypoint=radius)
+        status[:] = np.where(passed, PathStatus.RUNNING, status_a)  # failed before the radius: final
+        running = np.nonzero(passed)[0]
+        near = np.where(passed[:, None], near, final)  # where the failed ones stopped
+        final = final[running]
+        status_b = status_a[running]
+    else:
+        running = np.arange(count)
+        final, _, status_b, _ = _advance(homotopy, near, np.full(count, radius), np.zeros(count), _Segment, running,
+                                         opts, steps)
     endpoints = near.copy()
     condition = np.full(count, np.inf)
     winding = np.zeros(count, dtype=np.int64)
     endgame = np.zeros(count, dtype=bool)
-    running = np.nonzero(status == PathStatus.RUNNING)[0]
-    final, _, status_b, _ = _advance(homotopy, near[running], np.full(len(running), radius), np.zeros(len(running)),
-                                  _Segment, running, opts, steps_b := np.zeros(len(running), dtype=np.int64))
-    steps[running] += steps_b
     reached = status_b == PathStatus.RUNNING
     settled_points, cond, infinite, settled = _classify(homotopy, final[reached], opts)
     # regular: Newton at s = 0 converges quadratically there and the Jacobian is well conditioned

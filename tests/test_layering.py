@@ -7,7 +7,7 @@ import numag
 
 # A module may import only modules of a strictly lower layer.
 LAYERS = [
-    {"errors", "cluster"},
+    {"errors", "cluster", "allocation"},
     {"exact", "executor", "checkpoint"},
     {"polynomial"},
     {"parse", "reference"},

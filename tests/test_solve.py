@@ -253,8 +253,12 @@ def test_killed_run_resumes_without_tracking_finished_batches_again(tmp_path):
     assert main(["solve", str(system_file), "--batch-size", "2", "--seed", "6", "--json"], out=out) == 0
     whole = json.loads(out.getvalue())
     assert resumed["path_status"] == whole["path_status"]
-    assert ({tuple(map(tuple, s["point"])) for s in resumed["solutions"]}
-            == {tuple(map(tuple, s["point"])) for s in whole["solutions"]})
+    # the same solutions up to rounding: batches tracked in another process need not agree to the
+    # last bit (BLAS kernels may take other code paths for other memory alignments)
+    ordered = lambda report: sorted((np.array(s["point"]).ravel() for s in report["solutions"]),
+                                    key=lambda p: tuple(np.round(p, 6)))
+    assert len(resumed["solutions"]) == len(whole["solutions"])
+    assert np.allclose(ordered(resumed), ordered(whole), rtol=1e-10, atol=1e-12)
 
 
 def test_a_run_folder_of_another_run_is_refused(tmp_path):
