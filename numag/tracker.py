@@ -281,13 +281,14 @@ def _correct(homotopy, points, s, tolerance, iterations, chord=False):
     for iteration in range(iterations):
         if chord and iteration > 0:
             values = homotopy.evaluate_values(current[live], s[live])
-            delta = np.einsum("pij,pj->pi", inverse[live], values)
+            # rows of the inverse by position in the first iteration's live set (all rows)
+            matrices = inverse if len(live) == len(points) else inverse[live]
+            delta = (matrices @ values[:, :, None])[:, :, 0]
         else:
             values, jacobian, derivative = homotopy.evaluate(current[live], s[live])
             if chord:
-                inverse = np.full((len(points),) + jacobian.shape[1:], np.nan, dtype=complex)
-                inverse[live] = _inverse(jacobian)
-                both = inverse[live] @ np.stack([values, derivative], axis=2)
+                inverse = _inverse(jacobian)  # iteration 0: live is every row, in order
+                both = inverse @ np.stack([values, derivative], axis=2)
             else:
                 both = _solve_columns(jacobian, np.stack([values, derivative], axis=2))
             delta = both[:, :, 0]
@@ -348,6 +349,7 @@ def _advance(homotopy, points, t, t_end, curve, index, opts, steps, step=None, m
     status = np.zeros(len(t), dtype=np.int64)
     taken = np.zeros(len(t), dtype=np.int64)
     held = np.zeros(len(t), dtype=bool)
+    has_tangent = np.zeros(len(t), dtype=bool)
     passed = np.zeros(len(t), dtype=bool)
     if waypoint is not None:
         at_waypoint = np.full(points.shape, np.nan, dtype=complex)
@@ -368,10 +370,12 @@ def _advance(homotopy, points, t, t_end, curve, index, opts, steps, step=None, m
             _, jacobian, derivative = homotopy.evaluate(y, curve.s(time, rows))
             return -_solve(jacobian, derivative * curve.ds(time, rows)[:, None])
 
-        k1 = np.empty_like(x)
-        known = np.all(np.isfinite(tangent[active]), axis=1)
-        k1[known] = -tangent[active[known]] * curve.ds(tt[known], rows[known])[:, None]
-        if not np.all(known):
+        known = has_tangent[active]
+        if np.all(known):
+            k1 = -tangent[active] * curve.ds(tt, rows)[:, None]
+        else:
+            k1 = np.empty_like(x)
+            k1[known] = -tangent[active[known]] * curve.ds(tt[known], rows[known])[:, None]
             fresh = ~known
             _, jacobian, derivative = homotopy.evaluate(x[fresh], curve.s(tt[fresh], rows[fresh]))
             k1[fresh] = -_solve(jacobian, derivative * curve.ds(tt[fresh], rows[fresh])[:, None])
@@ -391,6 +395,8 @@ def _advance(homotopy, points, t, t_end, curve, index, opts, steps, step=None, m
         corrected = np.full(x.shape, np.nan, dtype=complex)
         new_tangent = np.full(x.shape, np.nan, dtype=complex)
         if np.any(go):
+            if np.all(go):
+                go = slice(None)  # views, not copies, in the common case
             x, rows, h, k1, k2, k3 = x[go], rows[go], h[go], k1[go], k2[go], k3[go]
             k4 = velocity(x + h[:, None] * k3, tt[go] + h)
             predicted = x + (h[:, None] / 6.0) * (k1 + 2 * k2 + 2 * k3 + k4)
@@ -403,6 +409,7 @@ def _advance(homotopy, points, t, t_end, curve, index, opts, steps, step=None, m
         points[good] = corrected[accepted]
         t[good] = new_t[accepted]
         tangent[good] = new_tangent[accepted]
+        has_tangent[good] = np.all(np.isfinite(tangent[good]), axis=1)
         if waypoint is not None:
             arrived = good[(t[good] == waypoint) & ~passed[good]]
             passed[arrived] = True
