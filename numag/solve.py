@@ -348,11 +348,13 @@ def manifest_for(system, options, seed, total):
             "paths": int(total), "batches": -(-int(total) // options.batch_size)}
 
 
-def _open_folder(execution, manifest):
+def _open_folder(execution, describe):
+    """The run folder of ``execution`` (None without one); ``describe()`` gives the run's manifest."""
     if execution.run_folder is None:
         if execution.resume:
             raise InputError("resuming needs the run folder")
         return None
+    manifest = describe()
     if not execution.resume:
         return RunFolder.create(execution.run_folder, manifest)
     folder = RunFolder.open(execution.run_folder)
@@ -375,7 +377,7 @@ def _run(system, homotopy, start_points, total, options, rng, seed, progress, st
     digits = np.full(total, 16, dtype=np.int64)
     evaluations = 0
     batches = [np.arange(first, min(total, first + options.batch_size)) for first in range(0, total, options.batch_size)]
-    folder = _open_folder(execution, manifest_for(system, options, seed, total))
+    folder = _open_folder(execution, lambda: manifest_for(system, options, seed, total))
 
     def store(result):
         nonlocal evaluations
@@ -397,6 +399,7 @@ def _run(system, homotopy, start_points, total, options, rng, seed, progress, st
     tracker = BatchTracker(homotopy, start_points, options.tracker)
     if isinstance(executor, InProcess) and progress is not None:
         tracker.progress = lambda done, *_: progress(done_paths + done, total)
+    tracking_started = time.perf_counter()
     try:
         for position, result in executor.run(tracker, [batches[k] for k in todo]):
             store(result)
@@ -416,6 +419,7 @@ def _run(system, homotopy, start_points, total, options, rng, seed, progress, st
     finally:
         if execution.executor is None:
             executor.close()
+    tracking = time.perf_counter() - tracking_started
     description.update(batches=len(batches), batches_resumed=len(finished), batch_size=options.batch_size,
                        run_folder=None if folder is None else str(folder.path))
     cautious = options.tracker
@@ -428,8 +432,10 @@ def _run(system, homotopy, start_points, total, options, rng, seed, progress, st
         cautious = replace(cautious, max_step=cautious.max_step / 10, predictor_error=cautious.predictor_error / 100,
                            max_steps=cautious.max_steps * 5,
                            corrector_iterations=3, chord_corrector=False)
+        again = time.perf_counter()
         with threadpool_limits(limits=1):
             result = track_paths(homotopy, start_points(crossed), cautious)
+        tracking += time.perf_counter() - again
         endpoints[crossed], status[crossed], winding[crossed] = result.endpoints, result.status, result.winding
         condition[crossed], digits[crossed] = result.condition, result.digits
         steps[crossed] += result.steps
@@ -451,6 +457,7 @@ def _run(system, homotopy, start_points, total, options, rng, seed, progress, st
                          time.perf_counter() - started, evaluations, squared, digits)
     result.discarded = discarded
     description["seconds"] = result.seconds
+    description["tracking_seconds"] = tracking  # the batches and the re-tracking of jumped paths
     result.extra["execution"] = description
     return result
 
