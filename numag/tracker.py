@@ -273,9 +273,9 @@ def _correct(homotopy, points, s, tolerance, iterations, chord=False):
     current = points.copy()
     previous = np.full(len(points), np.inf)
     first = np.full(len(points), np.inf)
-    tangent = np.full(points.shape, np.nan, dtype=complex)
     ok = np.zeros(len(points), dtype=bool)
     live = np.arange(len(points))
+    tangent = np.full(points.shape, np.nan, dtype=complex) if iterations < 1 else None
     chord = chord and hasattr(homotopy, "evaluate_values")
     inverse = None
     for iteration in range(iterations):
@@ -292,9 +292,13 @@ def _correct(homotopy, points, s, tolerance, iterations, chord=False):
             else:
                 both = _solve_columns(jacobian, np.stack([values, derivative], axis=2))
             delta = both[:, :, 0]
-            tangent[live] = both[:, :, 1]
-        current[live] = current[live] - delta
-        norm = np.linalg.norm(delta, axis=1) / (1 + np.linalg.norm(current[live], axis=1))
+            if iteration == 0:
+                tangent = both[:, :, 1]  # a view of a fresh array: nothing else writes to it
+            else:
+                tangent[live] = both[:, :, 1]
+        moved = current[live] - delta
+        current[live] = moved
+        norm = np.linalg.norm(delta, axis=1) / (1 + np.linalg.norm(moved, axis=1))
         if iteration == 0:
             first[live] = norm
         finite = np.isfinite(norm)
@@ -400,10 +404,13 @@ def _advance(homotopy, points, t, t_end, curve, index, opts, steps, step=None, m
             x, rows, h, k1, k2, k3 = x[go], rows[go], h[go], k1[go], k2[go], k3[go]
             k4 = velocity(x + h[:, None] * k3, tt[go] + h)
             predicted = x + (h[:, None] / 6.0) * (k1 + 2 * k2 + 2 * k3 + k4)
-            corrected[go], ok, error[go], new_tangent[go] = _correct(
-                homotopy, predicted, curve.s(new_t[go], rows), opts.corrector_tolerance,
-                opts.corrector_iterations, chord=opts.chord_corrector)
-            accepted[go] = ok & np.all(np.isfinite(corrected[go]), axis=1)
+            fixed, ok, first, slope = _correct(homotopy, predicted, curve.s(new_t[go], rows), opts.corrector_tolerance,
+                                               opts.corrector_iterations, chord=opts.chord_corrector)
+            if isinstance(go, slice):
+                corrected, error, new_tangent = fixed, first, slope
+            else:
+                corrected[go], error[go], new_tangent[go] = fixed, first, slope
+            accepted[go] = ok & np.all(np.isfinite(fixed), axis=1)
         taken[active] += 1
         good = active[accepted]
         points[good] = corrected[accepted]
