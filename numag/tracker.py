@@ -151,7 +151,7 @@ class TrackerOptions:
     initial_step: float = 0.05
     max_step: float = 0.5
     min_step: float = 1e-12
-    corrector_tolerance: float = 1e-5
+    corrector_tolerance: float = 1e-6
     endgame_corrector_tolerance: float = 1e-10
     corrector_iterations: int = 5
     max_steps: int = 2000
