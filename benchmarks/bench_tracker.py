@@ -6,8 +6,8 @@ Per problem: paths, distinct solutions found against the expected count,
 failed paths, median and max steps per path, paths per second, and the cost
 per path in units. One unit is the time of one batched evaluation of H and its
 Jacobian plus one batched linear solve for all P paths of the run, divided by
-P, measured in the same run (median of fifteen, taken before and after every
-solve), so the figure means the same on any machine. Families with at least
+P, measured in the same run (the mean over a second of repeated calls, taken
+before and after every solve), so the figure means the same on any machine. Families with at least
 1,000 paths are solved three times and the median kept. Two figures: the whole
 solve, and the tracking alone.
 Where sympy's Groebner basis finishes within the time limit on the same
@@ -48,21 +48,24 @@ def chain_system(n):
     return parse_system(equations, names, name=f"chain n={n}"), 1
 
 
-def unit_seconds(system, seed):
-    """One batched evaluation of H and J plus one batched solve for all P start points."""
+def unit_seconds(system, seed, seconds=1.0):
+    """One batched evaluation of H and J plus one batched solve for all P start points.
+
+    Repeated for at least ``seconds`` (and 15 times) and averaged: the run it is compared with is a
+    long measurement that averages a shared machine's noise too; a few 5 ms calls would catch only
+    a moment of it (their medians drift by 30 % between blocks on the 2-core machine).
+    """
     homotopy = StraightLineHomotopy.total_degree(system, np.random.default_rng(seed))
     points = homotopy.start_solutions()
     s = np.full(len(points), 0.5 + 0.0j)
-    timings = []
     with threadpool_limits(limits=1):
-        for _ in range(15):
-            start = time.perf_counter()
+        homotopy.evaluate(points, s)  # warm up
+        calls, start = 0, time.perf_counter()
+        while calls < 15 or time.perf_counter() - start < seconds:
             values, jacobian, derivative = homotopy.evaluate(points, s)
             np.linalg.solve(jacobian, derivative[..., None])
-            timings.append(time.perf_counter() - start)
-    # The median, like the run's time below: a run is one long measurement that averages the noise of
-    # a shared machine; the best of many 5 ms measurements would catch only its quiet moments.
-    return float(np.median(timings))
+            calls += 1
+        return (time.perf_counter() - start) / calls
 
 
 def _sympy_count(equations, variables, queue):
