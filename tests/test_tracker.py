@@ -99,3 +99,24 @@ def test_precise_segment_agrees_with_double():
                                     TrackerOptions(), np.zeros(1, dtype=np.int64))
     precise, _ = track_segment_precise(homotopy, start[0], 1.0, 0.1, 30)
     assert status[0] == 0 and np.abs(precise - double[0]).max() < 1e-8
+
+
+def test_one_pass_keeps_each_path_at_the_endgame_radius():
+    # The single pass from s = 1 to 0 stops every path exactly at s = 0.1 once and keeps its point
+    # there: that point solves H(X, 0.1) = 0, and tracking on from it alone reaches the same endpoint
+    # (common practice, no source).
+    from numag.tracker import TrackerOptions, _Segment, _advance
+    system = dense_system(np.random.default_rng(4), 3, 2)
+    homotopy = StraightLineHomotopy.total_degree(system, np.random.default_rng(4))
+    starts = homotopy.start_solutions()
+    count, options = len(starts), TrackerOptions()
+    final, t, status, _, passed, near = _advance(homotopy, starts, np.ones(count), np.zeros(count), _Segment,
+                                                 np.arange(count), options, np.zeros(count, dtype=np.int64),
+                                                 waypoint=options.endgame_radius)
+    assert passed.all() and (status == PathStatus.RUNNING).all() and (t == 0).all()
+    values = homotopy.evaluate_values(near, np.full(count, options.endgame_radius, dtype=complex))
+    assert np.abs(values).max() < 1e-5
+    again, _, status_again, _ = _advance(homotopy, near, np.full(count, options.endgame_radius), np.zeros(count),
+                                         _Segment, np.arange(count), options, np.zeros(count, dtype=np.int64))
+    assert (status_again == PathStatus.RUNNING).all()
+    assert np.abs(again - final).max() < 1e-5 * (1 + np.abs(final).max())
