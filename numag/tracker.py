@@ -394,13 +394,14 @@ def _advance(homotopy, points, t, t_end, curve, index, opts, steps, step=None, m
             spread = np.abs(h) * np.linalg.norm(k3 - k2, axis=1) / (1 + np.linalg.norm(x, axis=1))
         go = spread <= opts.stage_spread
         accepted = np.zeros(len(active), dtype=bool)
-        error = np.full(len(active), np.inf)
         new_t = np.where(np.abs(step[active]) >= np.abs(goal - tt), goal, tt + h)
-        corrected = np.full(x.shape, np.nan, dtype=complex)
-        new_tangent = np.full(x.shape, np.nan, dtype=complex)
-        if np.any(go):
-            if np.all(go):
-                go = slice(None)  # views, not copies, in the common case
+        if np.all(go):
+            go = slice(None)  # views, not copies, in the common case
+        else:  # rows rejected before the last stage keep NaN points and an infinite error
+            error = np.full(len(active), np.inf)
+            corrected = np.full(x.shape, np.nan, dtype=complex)
+            new_tangent = np.full(x.shape, np.nan, dtype=complex)
+        if isinstance(go, slice) or np.any(go):
             x, rows, h, k1, k2, k3 = x[go], rows[go], h[go], k1[go], k2[go], k3[go]
             k4 = velocity(x + h[:, None] * k3, tt[go] + h)
             predicted = x + (h[:, None] / 6.0) * (k1 + 2 * k2 + 2 * k3 + k4)
