@@ -45,12 +45,17 @@ def cluster_labels(points, tolerance):
     real = np.column_stack([points.real, points.imag]) if np.iscomplexobj(points) else points
     real = np.asarray(real, dtype=float).reshape(count, -1)
     norms = np.linalg.norm(real, axis=1)
+    radius = tolerance * (1 + float(norms.max()))
+    pairs = cKDTree(real).query_pairs(radius, output_type="ndarray")
+    if len(pairs):
+        close = np.linalg.norm(real[pairs[:, 0]] - real[pairs[:, 1]], axis=1) <= tolerance * (
+            1 + np.minimum(norms[pairs[:, 0]], norms[pairs[:, 1]]))
+        pairs = pairs[close]
+    if len(pairs) == 0:  # every point alone (a regular run): each is its own group, in order
+        return np.arange(count, dtype=np.int64)
     graph = nx.Graph()
     graph.add_nodes_from(range(count))
-    radius = tolerance * (1 + float(norms.max()))
-    for a, b in cKDTree(real).query_pairs(radius, output_type="ndarray"):
-        if np.linalg.norm(real[a] - real[b]) <= tolerance * (1 + min(norms[a], norms[b])):
-            graph.add_edge(int(a), int(b))
+    graph.add_edges_from(pairs.tolist())
     labels = np.empty(count, dtype=np.int64)
     components = sorted((min(c), sorted(c)) for c in nx.connected_components(graph))
     for label, (_, members) in enumerate(components):
@@ -61,4 +66,8 @@ def cluster_labels(points, tolerance):
 def groups(labels):
     """The member indices of each label, in label order."""
     labels = np.asarray(labels)
-    return [np.nonzero(labels == k)[0] for k in range(int(labels.max()) + 1)] if len(labels) else []
+    if len(labels) == 0:
+        return []
+    order = np.argsort(labels, kind="stable")  # stable: members stay in increasing order
+    bounds = np.searchsorted(labels[order], np.arange(1, int(labels.max()) + 1))
+    return np.split(order, bounds)

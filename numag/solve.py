@@ -494,8 +494,16 @@ def _collect(system, endpoints, status, winding, condition, options, rng):
     affine_system = None if system.projective else system
     solutions, flagged = [], []
     labels = cluster_labels(finite_points, options.cluster_tolerance)
+    with np.errstate(invalid="ignore"):
+        real_points = real_coefficients & np.all(np.abs(finite_points.imag) <= 1e-8 * (1 + np.abs(finite_points)),
+                                                 axis=1)
     for members in groups(labels):
         paths = finite[members]
+        if len(members) == 1 and status[paths[0]] == PathStatus.CONVERGED:
+            # the common case, a regular endpoint reached by one path: nothing to test or refine
+            solutions.append(Solution(finite_points[members[0]], 1, int(winding[paths[0]]), False,
+                                      bool(real_points[members[0]]), float(condition[paths[0]]), True, paths, 16))
+            continue
         best = members[np.argmin(condition[paths])]
         point = finite_points[best]
         singular = len(members) > 1 or np.any(status[paths] == PathStatus.SINGULAR_ENDPOINT)

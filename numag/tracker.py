@@ -123,6 +123,9 @@ class TrackerOptions:
     predictor_error : float
         Relative predictor error the step-size control aims at (the first Newton
         correction measures it; steps change by a factor between 0.5 and 2).
+    first_contraction : float
+        A step is rejected at once when its second correction exceeds this fraction of the
+        first: the corrections would not reach the tolerance in the iterations allowed.
     stage_spread : float
         A step is rejected before its last predictor stage when h ||k3 - k2|| exceeds this
         (relative to 1 + ||x||): the two midpoint slopes disagree, the step is far too long.
@@ -158,6 +161,7 @@ class TrackerOptions:
     predictor_error: float = 1e-2
     stage_spread: float = 0.5
     chord_corrector: bool = True
+    first_contraction: float = 0.1
     endgame_radius: float = 0.1
     endgame_samples: int = 16
     endgame_shrink: float = 0.25
@@ -257,7 +261,7 @@ class _Circle:
         return 1j * self.radius[index] * np.exp(1j * t)
 
 
-def _correct(homotopy, points, s, tolerance, iterations, chord=False):
+def _correct(homotopy, points, s, tolerance, iterations, chord=False, first_contraction=0.5):
     """Newton corrections at fixed s, only on the paths still correcting.
 
     A path succeeds as soon as a correction is at most ``tolerance`` (relative) and every
@@ -302,7 +306,8 @@ def _correct(homotopy, points, s, tolerance, iterations, chord=False):
         if iteration == 0:
             first[live] = norm
         finite = np.isfinite(norm)
-        contracting = finite & ((norm <= 0.5 * previous[live]) | (norm <= tolerance))
+        limit = first_contraction if iteration == 1 else 0.5
+        contracting = finite & ((norm <= limit * previous[live]) | (norm <= tolerance))
         # Done when the correction just made was small or, once corrections contract, when the
         # error it leaves (about norm * ratio / (1 - ratio)) is: the evaluation that would only
         # confirm it is saved (about one value evaluation in four).
@@ -406,7 +411,8 @@ def _advance(homotopy, points, t, t_end, curve, index, opts, steps, step=None, m
             k4 = velocity(x + h[:, None] * k3, tt[go] + h)
             predicted = x + (h[:, None] / 6.0) * (k1 + 2 * k2 + 2 * k3 + k4)
             fixed, ok, first, slope = _correct(homotopy, predicted, curve.s(new_t[go], rows), opts.corrector_tolerance,
-                                               opts.corrector_iterations, chord=opts.chord_corrector)
+                                               opts.corrector_iterations, chord=opts.chord_corrector,
+                                               first_contraction=opts.first_contraction)
             if isinstance(go, slice):
                 corrected, error, new_tangent = fixed, first, slope
             else:

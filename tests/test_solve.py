@@ -145,7 +145,8 @@ def test_path_jumping_is_detected_and_repaired():
     equations = [" + ".join(f"({c:.8f})*{'*'.join(m) or '1'}" for c, m in zip(rng.standard_normal(len(monomials)),
                                                                            monomials)) for _ in range(6)]
     system = parse_system(equations, names)
-    reckless = TrackerOptions(corrector_iterations=8, predictor_error=0.5, max_step=1.0, chord_corrector=False)
+    reckless = TrackerOptions(corrector_iterations=8, predictor_error=0.5, max_step=1.0, chord_corrector=False,
+                              first_contraction=0.5)
     result = solve_system(system, SolveOptions(tracker=reckless), seed=0)
     assert result.path_counts()["retracked"] > 0
     assert len(result.solutions) == 64 and all(s.multiplicity == 1 for s in result.solutions)

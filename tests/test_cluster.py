@@ -1,0 +1,65 @@
+"""Grouping endpoints: checked against a brute-force reading of the same rule (common practice, no source)."""
+
+import itertools
+
+import numpy as np
+
+from numag.cluster import cluster_labels, groups
+
+
+def brute_force_groups(points, tolerance):
+    """Connected components of the 'close' relation by repeated merging over all pairs."""
+    owner = list(range(len(points)))
+
+    def root(k):
+        while owner[k] != k:
+            k = owner[k]
+        return k
+
+    for a, b in itertools.combinations(range(len(points)), 2):
+        scale = 1 + min(np.linalg.norm(points[a]), np.linalg.norm(points[b]))
+        if np.linalg.norm(points[a] - points[b]) <= tolerance * scale:
+            owner[root(b)] = root(a)
+    found = {}
+    for k in range(len(points)):
+        found.setdefault(root(k), []).append(k)
+    return sorted(found.values())
+
+
+def test_groups_match_brute_force_on_random_clusters():
+    rng = np.random.default_rng(5)
+    centres = rng.standard_normal((12, 3)) + 1j * rng.standard_normal((12, 3))
+    copies = rng.integers(1, 4, size=12)
+    points = np.concatenate([c + 1e-9 * rng.standard_normal((k, 3)) for c, k in zip(centres, copies)])
+    points = points[rng.permutation(len(points))]
+    labels = cluster_labels(points, 1e-6)
+    mine = sorted(g.tolist() for g in groups(labels))
+    assert mine == brute_force_groups(points, 1e-6)
+    assert len(mine) == 12
+
+
+def test_a_chain_of_close_points_is_one_group():
+    # each point within the tolerance of the next, the ends far apart: one group (transitive closure)
+    points = np.array([[0.0], [0.8e-6], [1.6e-6], [2.4e-6], [5.0]])
+    labels = cluster_labels(points, 1e-6)
+    assert [g.tolist() for g in groups(labels)] == [[0, 1, 2, 3], [4]]
+
+
+def test_points_all_apart_keep_their_order():
+    points = np.array([[3.0], [1.0], [2.0]])
+    labels = cluster_labels(points, 1e-6)
+    assert labels.tolist() == [0, 1, 2]
+    assert [g.tolist() for g in groups(labels)] == [[0], [1], [2]]
+
+
+def test_tolerance_is_relative_to_the_size_of_the_points():
+    # 1e-3 apart: the same point at size 1e4 (relative 1e-7), distinct at size 1 (relative 1e-3)
+    big = np.array([[1e4], [1e4 + 1e-3]])
+    small = np.array([[1.0], [1.0 + 1e-3]])
+    assert len(groups(cluster_labels(big, 1e-6))) == 1
+    assert len(groups(cluster_labels(small, 1e-6))) == 2
+
+
+def test_empty_input():
+    assert cluster_labels(np.zeros((0, 2)), 1e-6).shape == (0,)
+    assert groups(np.zeros(0, dtype=int)) == []
