@@ -12,9 +12,11 @@ over paths.
 
 The whole run (:func:`track_paths`):
 
-1. every path from s = 1 to the endgame radius (0.1);
-2. every path on to s = 0; an endpoint that is well conditioned there is done;
-3. the others start again from their state at the endgame radius with the
+1. every path from s = 1 to within the endgame radius (its first point with
+   s in [0.025, 0.1] is kept);
+2. every path on to s = 0 in the same pass; an endpoint that is well conditioned
+   there is done;
+3. the others start again from their kept point with the
    Cauchy endgame: loops around s = 0 until the path closes up (the number of
    loops is the winding number c), the endpoint estimated as the mean of the
    loop samples (Cauchy's integral formula), the radius shrunk until two
@@ -337,17 +339,20 @@ def _inverse(jacobian):
 
 
 def _advance(homotopy, points, t, t_end, curve, index, opts, steps, step=None, max_step=None, on_step=None,
-             waypoint=None):
+             window=None):
     """Move every path from t to t_end along ``curve``; returns points, t, a status and the step per path.
 
     ``index`` maps the rows to path numbers (for per-path curve parameters);
     ``steps`` (per row) is updated in place; ``step`` carries step sizes over
     from a previous piece (the endgame's arcs), ``max_step`` overrides the option;
     ``on_step(finished)`` is told after each step how many rows have finished (or, with a
-    waypoint, passed it). With ``waypoint`` (a value of t between t and t_end) every path stops
-    exactly there once on its way and its point is kept: two more arrays are returned, whether
-    the row passed the waypoint and its point there (NaN when not). One pass instead of two
-    pieces: the step size carries over and the slow paths of both pieces share iterations.
+    window, passed into it). With ``window = (near, far)`` (values of t between t and t_end,
+    ``near`` reached first) each path's first point at or past ``near`` is kept, and no step
+    skips past ``far``: three more arrays are returned, whether the row reached the window, its
+    point there and the t of that point (NaN when not). One pass instead of two pieces: the step
+    size carries over, the slow paths of both pieces share iterations, and a step is shortened
+    only when it would skip the whole window (a single stopping point would cost most paths a
+    shortened step).
     """
     points = points.copy()
     t = t.astype(float).copy()
@@ -360,15 +365,17 @@ def _advance(homotopy, points, t, t_end, curve, index, opts, steps, step=None, m
     held = np.zeros(len(t), dtype=bool)
     has_tangent = np.zeros(len(t), dtype=bool)
     passed = np.zeros(len(t), dtype=bool)
-    if waypoint is not None:
-        at_waypoint = np.full(points.shape, np.nan, dtype=complex)
-        stop = np.full(len(t), float(waypoint))
+    if window is not None:
+        near, far = window
+        kept = np.full(points.shape, np.nan, dtype=complex)
+        kept_t = np.full(len(t), np.nan)
+        stop = np.full(len(t), float(far))
     else:
         stop = t_end
     while True:
         active = np.nonzero((status == PathStatus.RUNNING) & (np.abs(t_end - t) > 0))[0]
         if on_step is not None:
-            on_step(len(t) - len(active) if waypoint is None else int(np.sum(passed | (status != 0))))
+            on_step(len(t) - len(active) if window is None else int(np.sum(passed | (status != 0))))
         if len(active) == 0:
             break
         x, tt, rows = points[active], t[active], index[active]
@@ -424,10 +431,11 @@ def _advance(homotopy, points, t, t_end, curve, index, opts, steps, step=None, m
         t[good] = new_t[accepted]
         tangent[good] = new_tangent[accepted]
         has_tangent[good] = np.all(np.isfinite(tangent[good]), axis=1)
-        if waypoint is not None:
-            arrived = good[(t[good] == waypoint) & ~passed[good]]
+        if window is not None:
+            arrived = good[(direction[good] * (t[good] - near) >= 0) & ~passed[good]]
             passed[arrived] = True
-            at_waypoint[arrived] = points[arrived]
+            kept[arrived] = points[arrived]
+            kept_t[arrived] = t[arrived]
             stop[arrived] = t_end[arrived]
         # The first Newton correction measures the predictor's error, which scales like h^5:
         # aim the next step at the error the corrector removes in about two iterations.
@@ -447,23 +455,23 @@ def _advance(homotopy, points, t, t_end, curve, index, opts, steps, step=None, m
     steps += taken
     bad = ~np.all(np.isfinite(points), axis=1)
     status[bad & (status == PathStatus.RUNNING)] = PathStatus.FAILED_NONFINITE
-    if waypoint is not None:
-        return points, t, status, step, passed, at_waypoint
+    if window is not None:
+        return points, t, status, step, passed, kept, kept_t
     return points, t, status, step
 
 
 def _cauchy_endgame(homotopy, points, radius, opts, steps):
-    """Cauchy endgame for paths standing at s = radius (real): estimates, winding numbers, status."""
+    """Cauchy endgame for paths standing at s = radius (real, one per path): estimates, winding numbers, status."""
     opts = replace(opts, corrector_tolerance=min(opts.corrector_tolerance, opts.endgame_corrector_tolerance))
     count = len(points)
     index = np.arange(count)
-    r = np.full(count, radius)
+    r = np.broadcast_to(np.asarray(radius, dtype=float), (count,)).copy()
     estimate = np.full(points.shape, np.nan, dtype=complex)
     winding = np.zeros(count, dtype=np.int64)
     status = np.zeros(count, dtype=np.int64)
     settled = np.zeros(count, dtype=bool)
     # sharpen the starting points first: loop closure is judged against them
-    x, sharp, _, _ = _correct(homotopy, points, np.full(count, radius, dtype=complex), opts.corrector_tolerance, 4)
+    x, sharp, _, _ = _correct(homotopy, points, r.astype(complex), opts.corrector_tolerance, 4)
     x = np.where(sharp[:, None] & np.all(np.isfinite(x), axis=1)[:, None], x, points)
     samples = opts.endgame_samples
     angles = 2 * np.pi * np.arange(samples + 1) / samples
@@ -475,6 +483,7 @@ def _cauchy_endgame(homotopy, points, radius, opts, steps):
         start = x[live].copy()
         current = start.copy()
         total = np.zeros_like(start)
+        half, quarter = np.zeros_like(start), np.zeros_like(start)  # every 2nd and every 4th sample
         loops = np.zeros(len(live), dtype=np.int64)
         open_ = np.ones(len(live), dtype=bool)
         unclosed = np.zeros(len(live), dtype=bool)
@@ -484,6 +493,10 @@ def _cauchy_endgame(homotopy, points, radius, opts, steps):
             rows = np.nonzero(open_)[0]
             for k in range(samples):
                 total[rows] += current[rows]
+                if k % 2 == 0:
+                    half[rows] += current[rows]
+                if k % 4 == 0:
+                    quarter[rows] += current[rows]
                 moved, _, piece_status, arc_step[rows] = _advance(
                     homotopy, current[rows], np.full(len(rows), angles[k]), np.full(len(rows), angles[k + 1]),
                     circle, live[rows], opts, steps_view := np.zeros(len(rows), dtype=np.int64),
@@ -510,8 +523,23 @@ def _cauchy_endgame(homotopy, points, radius, opts, steps):
         on_target = np.zeros(len(live), dtype=bool)
         if np.any(done):
             on_target[done] = homotopy.target_residual(new_estimate[done]) <= opts.endpoint_residual
-        agree = done & on_target & (np.linalg.norm(new_estimate - previous, axis=1)
-                                    <= opts.endgame_tolerance * (1 + np.linalg.norm(new_estimate, axis=1)))
+        size = 1 + np.linalg.norm(new_estimate, axis=1)
+        agree = done & on_target & (np.linalg.norm(new_estimate - previous, axis=1) <= opts.endgame_tolerance * size)
+        # One circle can also vouch for itself. The samples are a periodic analytic function of the
+        # angle, and the mean of N of them (the trapezoidal rule) has an error ~ C q^N: the means of
+        # N/2 and N/4 samples differ from it by about C q^(N/2) and C q^(N/4), so their ratio gives
+        # q^(N/4) and the error of the full mean is about d_half * ratio^2 (Trefethen and Weideman,
+        # The exponentially convergent trapezoidal rule, SIAM Review, 2014). This settles paths
+        # whose next, smaller circle would be out of reach in double precision (near a singular
+        # endpoint the Jacobian's condition grows as the radius shrinks).
+        if samples % 4 == 0:
+            with np.errstate(all="ignore"):
+                counted = np.maximum(loops, 1)[:, None]
+                d_half = np.linalg.norm(new_estimate - half / (counted * samples // 2), axis=1) / size
+                d_quarter = np.linalg.norm(new_estimate - quarter / (counted * samples // 4), axis=1) / size
+                ratio = np.where(d_quarter > 0, d_half / d_quarter, 0.0)
+                alone = (ratio <= 0.5) & (d_half * ratio ** 2 <= opts.endgame_tolerance)
+            agree |= done & on_target & alone
         estimate[live[done]] = new_estimate[done]
         winding[live[done]] = loops[done]
         settled[live[agree]] = True
@@ -555,12 +583,14 @@ def _track(homotopy, start_points, opts, near=None, on_step=None):
     index = np.arange(count)
     steps = np.zeros(count, dtype=np.int64)
     status = np.zeros(count, dtype=np.int64)
-    radius = opts.endgame_radius
+    radius = np.full(count, opts.endgame_radius)
     if near is None:
-        # one pass from s = 1 to 0 that keeps every path's point at the endgame radius
-        final, _, status_a, _, passed, near = _advance(homotopy, start_points, np.ones(count), np.zeros(count),
-                                                      _Segment, index, opts, steps, on_step=on_step,
-                                                      waypoint=radius)
+        # one pass from s = 1 to 0 that keeps every path's first point within the endgame radius
+        # (and not past the next, smaller radius the endgame would try)
+        final, _, status_a, _, passed, near, reached_at = _advance(
+            homotopy, start_points, np.ones(count), np.zeros(count), _Segment, index, opts, steps, on_step=on_step,
+            window=(opts.endgame_radius, opts.endgame_radius * opts.endgame_shrink))
+        radius = np.where(passed, reached_at, radius)
         status[:] = np.where(passed, PathStatus.RUNNING, status_a)  # failed before the radius: final
         running = np.nonzero(passed)[0]
         near = np.where(passed[:, None], near, final)  # where the failed ones stopped
@@ -568,8 +598,7 @@ def _track(homotopy, start_points, opts, near=None, on_step=None):
         status_b = status_a[running]
     else:
         running = np.arange(count)
-        final, _, status_b, _ = _advance(homotopy, near, np.full(count, radius), np.zeros(count), _Segment, running,
-                                         opts, steps)
+        final, _, status_b, _ = _advance(homotopy, near, radius, np.zeros(count), _Segment, running, opts, steps)
     endpoints = near.copy()
     condition = np.full(count, np.inf)
     winding = np.zeros(count, dtype=np.int64)
@@ -587,7 +616,7 @@ def _track(homotopy, start_points, opts, near=None, on_step=None):
     rest = np.setdiff1d(running, done)
     if len(rest):
         endgame[rest] = True
-        estimate, loops, status_c = _cauchy_endgame(homotopy, near[rest], radius, opts,
+        estimate, loops, status_c = _cauchy_endgame(homotopy, near[rest], radius[rest], opts,
                                                     steps_c := np.zeros(len(rest), dtype=np.int64))
         steps[rest] += steps_c
         ok = status_c == PathStatus.RUNNING

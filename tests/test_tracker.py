@@ -101,22 +101,48 @@ def test_precise_segment_agrees_with_double():
     assert status[0] == 0 and np.abs(precise - double[0]).max() < 1e-8
 
 
-def test_one_pass_keeps_each_path_at_the_endgame_radius():
-    # The single pass from s = 1 to 0 stops every path exactly at s = 0.1 once and keeps its point
-    # there: that point solves H(X, 0.1) = 0, and tracking on from it alone reaches the same endpoint
-    # (common practice, no source).
+def test_one_pass_keeps_each_path_within_the_endgame_radius():
+    # The single pass from s = 1 to 0 keeps each path's first point with s in [0.025, 0.1] (the endgame
+    # radius and the next one it would try): that point solves H(X, s) = 0 at its own s, and tracking on
+    # from it alone reaches the same endpoint (common practice, no source).
     from numag.tracker import TrackerOptions, _Segment, _advance
     system = dense_system(np.random.default_rng(4), 3, 2)
     homotopy = StraightLineHomotopy.total_degree(system, np.random.default_rng(4))
     starts = homotopy.start_solutions()
     count, options = len(starts), TrackerOptions()
-    final, t, status, _, passed, near = _advance(homotopy, starts, np.ones(count), np.zeros(count), _Segment,
-                                                 np.arange(count), options, np.zeros(count, dtype=np.int64),
-                                                 waypoint=options.endgame_radius)
+    window = (options.endgame_radius, options.endgame_radius * options.endgame_shrink)
+    final, t, status, _, passed, near, near_t = _advance(homotopy, starts, np.ones(count), np.zeros(count),
+                                                         _Segment, np.arange(count), options,
+                                                         np.zeros(count, dtype=np.int64), window=window)
     assert passed.all() and (status == PathStatus.RUNNING).all() and (t == 0).all()
-    values = homotopy.evaluate_values(near, np.full(count, options.endgame_radius, dtype=complex))
+    assert np.all((near_t <= window[0]) & (near_t >= window[1]))
+    assert len(np.unique(near_t)) > 1  # the steps were not all cut to land on one radius
+    values = homotopy.evaluate_values(near, near_t.astype(complex))
     assert np.abs(values).max() < 1e-5
-    again, _, status_again, _ = _advance(homotopy, near, np.full(count, options.endgame_radius), np.zeros(count),
+    again, _, status_again, _ = _advance(homotopy, near, near_t, np.zeros(count),
                                          _Segment, np.arange(count), options, np.zeros(count, dtype=np.int64))
     assert (status_again == PathStatus.RUNNING).all()
     assert np.abs(again - final).max() < 1e-5 * (1 + np.abs(final).max())
+
+
+def test_one_circle_vouches_for_its_own_endgame_estimate():
+    # y = x^2 and y = x^3 - x^2 meet where x^2 (2 - x) = 0: the origin with multiplicity 2 and (2, 4);
+    # the other three of the 2 x 3 total-degree paths go to infinity (worked by hand). The Cauchy endgame's mean of N samples on a circle has an error ~ q^N, so the
+    # means of N/2 and N/4 samples tell how good it is (trapezoidal rule on a periodic analytic
+    # function: Trefethen and Weideman, SIAM Review, 2014): the endgame settles after fewer circles
+    # than when it must wait for two radii to agree, and ends at the same point.
+    from dataclasses import replace
+    from numag.tracker import TrackerOptions
+    system = parse_system(["y - x^2", "y + x^2 - x^3"], ["x", "y"])
+    homotopy = StraightLineHomotopy.total_degree(system, np.random.default_rng(2))
+    starts = homotopy.start_solutions()
+    with_check = track_paths(homotopy, starts, TrackerOptions())
+    # 18 samples per loop: not a multiple of 4, so only the agreement of two radii settles a path
+    radii_only = track_paths(homotopy, starts, replace(TrackerOptions(), endgame_samples=18))
+    singular = with_check.status == PathStatus.SINGULAR_ENDPOINT
+    assert singular.sum() == 2 and (radii_only.status[singular] == PathStatus.SINGULAR_ENDPOINT).all()
+    for result in (with_check, radii_only):
+        ends = result.endpoints[singular]
+        affine = ends[:, 1:] / ends[:, :1]
+        assert np.abs(affine).max() < 1e-8
+    assert with_check.steps[singular].sum() < radii_only.steps[singular].sum()
