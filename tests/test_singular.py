@@ -136,13 +136,16 @@ def test_random_nodal_curves_agree_with_sympy(case):
     assert len(affine_points(locus)) == expected
 
 
-def test_null_vector_form_finds_the_branch_points_of_the_demo_linkage():
+@pytest.mark.parametrize("seed", [1, 5, 7, 11])
+def test_null_vector_form_finds_the_branch_points_of_the_demo_linkage(seed):
     # The parallelogram four-bar at its change point crosses branches where crank and rocker are both
     # at 0 or both at 180 degrees (common practice, no source). J's sine columns vanish there: the
     # null-vector rows must mix the columns, or a whole lambda plane over those points spoils the sweep.
+    # Seeds 5, 7 and 11 once lost the point (1, 0, 1, 0): its endgame estimate had a scaled residual of
+    # 1.1e-13, Gauss-Newton stalled at 1.2e-13 (a singular point) and the check refused it as off X.
     from numag.files import load_system
     system = load_system(pathlib.Path(__file__).parent.parent / "numag" / "examples" / "parallel_linkage.toml")
-    locus = singular_locus(system, SingularOptions(formulation="null vector"), seed=1)
+    locus = singular_locus(system, SingularOptions(formulation="null vector"), seed=seed)
     points = sorted(np.round(c.points[0].real, 8).tolist() for c in affine_points(locus))
     assert points == [[-1.0, 0.0, -1.0, 0.0], [1.0, 0.0, 1.0, 0.0]]
     assert sum(locus.paths.get(label, 0) for label in ("minimum_step", "step_limit", "non_finite",
