@@ -153,7 +153,7 @@ class TrackerOptions:
         Condition number above which an endpoint is singular.
     """
 
-    initial_step: float = 0.05
+    initial_step: float = 0.1
     max_step: float = 0.5
     min_step: float = 1e-12
     corrector_tolerance: float = 1e-6
