@@ -17,6 +17,7 @@ import json
 import pathlib
 import time
 
+import checkout  # noqa: F401  (this checkout's numag, not an installed one)
 from numag.certify import CertifyOptions, certify_singular_point, overlapping_pairs
 from numag.parse import parse_system
 from numag.singular import singular_locus

@@ -12,6 +12,7 @@ import time
 
 import numpy as np
 
+import checkout  # noqa: F401  (this checkout's numag, not an installed one)
 from numag.parse import parse_system
 from numag.smoothness import check_points
 

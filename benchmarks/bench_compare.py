@@ -36,6 +36,7 @@ import time
 
 import numpy as np
 
+import checkout  # noqa: F401  (this checkout's numag, not an installed one)
 from families import chebyshev, quadric_unions as shared_quadric_unions
 from numag.compare import compare_system
 from numag.parse import parse_system

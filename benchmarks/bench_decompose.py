@@ -19,6 +19,7 @@ import itertools
 import math
 import time
 
+import checkout  # noqa: F401  (this checkout's numag, not an installed one)
 from reference_timing import run_with_time_limit
 from numag.decompose import decompose
 from numag.polynomial import Polynomial, PolynomialSystem

@@ -21,6 +21,7 @@ import time
 
 import numpy as np
 
+import checkout  # noqa: F401  (this checkout's numag, not an installed one)
 from numag.polynomial import Polynomial, PolynomialSystem
 from numag.solve import Execution, SolveOptions, solve_system
 

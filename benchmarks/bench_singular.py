@@ -26,6 +26,7 @@ import pathlib
 import time
 
 
+import checkout  # noqa: F401  (this checkout's numag, not an installed one)
 from families import chebyshev, quadric_unions as shared_quadric_unions
 from reference_timing import run_with_time_limit
 from numag.parse import parse_system

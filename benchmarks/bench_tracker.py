@@ -16,13 +16,16 @@ count go in the same row, with the ratio.
 """
 
 import argparse
+import os
 import itertools
 import time
 
 import numpy as np
 from threadpoolctl import threadpool_limits
 
+import checkout  # noqa: F401  (this checkout's numag, not an installed one)
 from reference_timing import run_with_time_limit
+import numag
 from numag.homotopy import StraightLineHomotopy
 from numag.parse import parse_system
 from numag.solve import SolveOptions, solve_system
@@ -100,6 +103,7 @@ def main():
     if args.large:
         problems = [(system, expected) for system, expected in problems
                     if expected >= 1000 and system.name.startswith("dense")]
+    print(f"numag measured: {os.path.dirname(numag.__file__)}")
     header = (f"{'problem':18} {'paths':>6} {'found':>6} {'expect':>6} {'failed':>6} {'med st':>6} {'max st':>6} "
               f"{'paths/s':>8} {'units/path':>10} {'tracking':>8} {'sympy s':>8} {'sympy #':>7} {'ratio':>7}")
     print(header)

@@ -17,6 +17,7 @@ import time
 import numpy as np
 from threadpoolctl import threadpool_limits
 
+import checkout  # noqa: F401  (this checkout's numag, not an installed one)
 from numag.evaluate import BatchEvaluator
 from numag.parse import parse_system
 from numag.solve import solve_system

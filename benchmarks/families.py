@@ -4,6 +4,7 @@ import itertools
 
 import numpy as np
 
+import checkout  # noqa: F401  (this checkout's numag, not an installed one)
 from numag.parse import parse_system
 from numag.polynomial import Polynomial
 
