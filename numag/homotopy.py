@@ -80,6 +80,15 @@ class TotalDegreeStart:
         x0_power = x0 ** (d - 1)
         return rest_power * rest - x0_power * x0, d * rest_power, -d * x0_power
 
+    def values(self, points):
+        """G alone (what a corrector reusing an earlier Jacobian needs)."""
+        x0 = points[:, :1]
+        rest = points[:, 1:]
+        if np.all(self.degrees == self.degrees[0]):  # one degree: integer powers of a scalar (cheaper)
+            d = int(self.degrees[0])
+            return rest ** d - x0 ** d
+        return rest ** self.degrees[None, :] - x0 ** self.degrees[None, :]
+
     def solutions(self, path_indices=None):
         """Start solutions with X_0 = 1, in a fixed order (path k is the same whatever the batch)."""
         total = self.n_paths
@@ -185,7 +194,8 @@ class StraightLineHomotopy(_PatchedHomotopy):
     def evaluate_values(self, points, s):
         """H alone (with the patch row): what a corrector reusing an earlier Jacobian needs."""
         self.value_evaluations += 1
-        g_values = self.start.evaluate_parts(points)[0]
+        g_values = self.start.values(points) if hasattr(self.start, "values") else \
+            self.start.evaluate_parts(points)[0]
         values = np.empty((len(points), self.size), dtype=complex)
         values[:, :-1] = (1 - s)[:, None] * self.evaluator.evaluate(points, jacobian=False) \
             + (s * self.gamma)[:, None] * g_values

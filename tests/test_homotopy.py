@@ -1,0 +1,38 @@
+"""Start systems and homotopies (numag.homotopy)."""
+
+import numpy as np
+import pytest
+
+from numag.homotopy import StraightLineHomotopy, TotalDegreeStart
+from numag.parse import parse_system
+
+
+@pytest.mark.parametrize("degrees", [[2, 2, 2], [3, 3], [2, 3, 4]])
+def test_start_values_are_the_powers_minus_the_homogenising_powers(degrees):
+    # G_i = X_i^d_i - X_0^d_i, compared with the formula written out term by term (common practice, no source)
+    rng = np.random.default_rng(1)
+    start = TotalDegreeStart(degrees)
+    points = rng.standard_normal((20, len(degrees) + 1)) + 1j * rng.standard_normal((20, len(degrees) + 1))
+    expected = np.array([[p[i + 1] ** d - p[0] ** d for i, d in enumerate(degrees)] for p in points])
+    assert np.allclose(start.values(points), expected, rtol=1e-13, atol=0)
+    assert np.allclose(start.evaluate_parts(points)[0], expected, rtol=1e-13, atol=0)
+
+
+def test_start_solutions_solve_the_start_system():
+    # the prod d_i solutions X_0 = 1, X_i a d_i-th root of unity (Bezout count of paths; common practice)
+    start = TotalDegreeStart([2, 3])
+    solutions = start.solutions()
+    assert solutions.shape == (6, 3)
+    assert np.abs(start.values(solutions)).max() < 1e-14
+    assert len({tuple(np.round(s, 9)) for s in solutions}) == 6
+
+
+def test_value_evaluation_matches_the_full_evaluation():
+    # H from the value-only path (used by the chord corrector) equals H from the full evaluation
+    system = parse_system(["x^2 + y^2 - 1", "x^3 - y + 2"], ["x", "y"])
+    homotopy = StraightLineHomotopy.total_degree(system, np.random.default_rng(3))
+    rng = np.random.default_rng(4)
+    points = rng.standard_normal((10, 3)) + 1j * rng.standard_normal((10, 3))
+    s = rng.random(10) + 0j
+    full, _, _ = homotopy.evaluate(points, s)
+    assert np.allclose(homotopy.evaluate_values(points, s), full, rtol=1e-13, atol=1e-14)
