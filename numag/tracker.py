@@ -20,7 +20,8 @@ The whole run (:func:`track_paths`):
    Cauchy endgame: loops around s = 0 until the path closes up (the number of
    loops is the winding number c), the endpoint estimated as the mean of the
    loop samples (Cauchy's integral formula), the radius shrunk until two
-   estimates agree;
+   estimates agree or one circle's own error estimate (from the means of every
+   2nd and 4th sample) is below the tolerance;
 4. paths that still failed are re-tracked with a cautious step control.
 
 Statuses (:class:`PathStatus`): converged, singular endpoint, at infinity,
@@ -140,7 +141,8 @@ class TrackerOptions:
     endgame_rounds : int
         Largest number of radii tried.
     endgame_tolerance : float
-        Relative agreement of two successive endpoint estimates.
+        Relative agreement of two successive endpoint estimates, or the largest error one
+        circle may estimate for its own mean.
     max_winding : int
         Largest winding number the endgame looks for.
     endpoint_residual : float
