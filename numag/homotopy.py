@@ -155,9 +155,9 @@ class StraightLineHomotopy(_PatchedHomotopy):
         # Each equation divided by its coefficient norm: F and G then have comparable size, so the
         # paths do not rush away from the start points (fewer steps near s = 1); zeros are unchanged.
         if system.projective:
-            target = [p.numeric() * (1.0 / p.coefficient_norm()) for p in system.polynomials]
+            target = [p.scaled(1.0 / p.coefficient_norm()) for p in system.polynomials]
         else:
-            target = [p.numeric().homogenize(0) * (1.0 / p.coefficient_norm()) for p in system.polynomials]
+            target = [p.numeric().homogenize(0).scaled(1.0 / p.coefficient_norm()) for p in system.polynomials]
         size = len(target) + 1
         patch = (rng.standard_normal(size) + 1j * rng.standard_normal(size)) / np.sqrt(2 * size)
         return cls(target, TotalDegreeStart(system.degrees), patch, random_unit_complex(rng))

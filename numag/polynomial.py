@@ -193,6 +193,17 @@ class Polynomial:
         """The same polynomial with complex double coefficients."""
         return Polynomial(self.exponents, np.array(self.numeric_coefficients()), self.n_variables)
 
+    def scaled(self, factor):
+        """The polynomial times a number, with complex double coefficients (one construction, no product).
+
+        Examples
+        --------
+        >>> x = Polynomial.variable(0, 1)
+        >>> (x * x + 1).scaled(0.5).to_text(["x"])
+        '0.5*x^2 + 0.5'
+        """
+        return Polynomial(self.exponents, np.array(self.numeric_coefficients()) * factor, self.n_variables)
+
     def __eq__(self, other):
         if not isinstance(other, Polynomial) or other.n_variables != self.n_variables:
             return NotImplemented if not isinstance(other, Polynomial) else False

@@ -499,9 +499,10 @@ def _collect(system, endpoints, status, winding, condition, options, rng):
     with np.errstate(invalid="ignore"):
         real_points = real_coefficients & np.all(np.abs(finite_points.imag) <= 1e-8 * (1 + np.abs(finite_points)),
                                                  axis=1)
+    converged = int(PathStatus.CONVERGED)  # looked up once: enum attributes are slow in a loop of P
     for members in groups(labels):
         paths = finite[members]
-        if len(members) == 1 and status[paths[0]] == PathStatus.CONVERGED:
+        if len(members) == 1 and status[paths[0]] == converged:
             # the common case, a regular endpoint reached by one path: nothing to test or refine
             solutions.append(Solution(finite_points[members[0]], 1, int(winding[paths[0]]), False,
                                       bool(real_points[members[0]]), float(condition[paths[0]]), True, paths, 16))
