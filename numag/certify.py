@@ -63,7 +63,7 @@ import scipy.linalg
 from .errors import InputError
 from .evaluate import BatchEvaluator, PrecisionEvaluator
 from .exact import ExactCoefficient, square_free_split
-from .linalg import jacobian_row_scales
+from .evaluate import TermSizes
 from .polynomial import Polynomial, combined_minor, determinant
 
 __all__ = ["CertifyOptions", "Certificate", "certify_regular_zero", "certify_singular_point",
@@ -510,9 +510,7 @@ def _weyl_norm_squared(polynomial):
 def _scaled_jacobian(polynomials, point):
     evaluator = BatchEvaluator(polynomials)
     values, jac = evaluator.evaluate(point[None, :])
-    norms = np.array([max(np.abs(p.numeric_coefficients()).sum(), 1e-300) for p in polynomials])
-    degrees = np.array([max(p.degree, 1) for p in polynomials])
-    scales = jacobian_row_scales(norms, degrees, point[None, :])[0]
+    scales = TermSizes(polynomials).gradients(point[None, :])[0]
     return values[0], jac[0] / scales[:, None], scales
 
 

@@ -40,7 +40,7 @@ from scipy.spatial import cKDTree
 
 from .cluster import cluster_labels
 from .errors import InputError
-from .evaluate import BatchEvaluator
+from .evaluate import BatchEvaluator, TermSizes
 from .polynomial import combined_minor
 from .witness import (WitnessOptions, combine_equations, jacobian_rank, linear_form, membership, random_rows,
                       track_moves, witness_supersets)
@@ -172,9 +172,8 @@ def holding_equations(system, codimension, points, rng, threshold=1e-6, max_roun
     points = np.atleast_2d(points)
     for _ in range(max_rounds):
         evaluator = BatchEvaluator(equations)
-        norms = np.array([p.coefficient_norm() for p in equations])
-        degrees = np.array([p.degree for p in equations])
-        ranks = jacobian_rank(evaluator, norms, degrees, points, threshold) if len(points) else np.array([codimension])
+        ranks = jacobian_rank(evaluator, TermSizes(equations), points, threshold) if len(points) \
+            else np.array([codimension])
         low = int(ranks.min())
         if low >= codimension:
             break
@@ -364,7 +363,7 @@ def decompose(system, options=None, seed=None, progress=None):
             groups = _split(mover, witness.points, rng, options, run)
             loops[witness.dimension] = run[0] if run else 0
         evaluator = BatchEvaluator([p.numeric() for p in system.polynomials])
-        ranks = jacobian_rank(evaluator, system.coefficient_norms(), np.array(system.degrees), witness.points,
+        ranks = jacobian_rank(evaluator, TermSizes(system.polynomials), witness.points,
                               options.witness.rank_threshold)
         for group, confirmed, defect in groups:
             points, rows = witness.points[group], witness.slice_rows.copy()

@@ -28,8 +28,7 @@ Examples
 import numpy as np
 
 from .errors import InputError
-from .evaluate import BatchEvaluator, PrecisionEvaluator
-from .linalg import residual_scales
+from .evaluate import BatchEvaluator, PrecisionEvaluator, TermSizes
 
 __all__ = ["TotalDegreeStart", "StraightLineHomotopy", "ParameterHomotopy", "random_unit_complex"]
 
@@ -112,10 +111,14 @@ class _PatchedHomotopy:
         for j in range(size):
             jacobian[size - 1, j] = patch[j]
 
+    def row_scales(self, points):
+        """Size of each target row's gradient terms at points (P, n + 1) (see :class:`TermSizes`)."""
+        return self._sizes.gradients(points)
+
     def target_residual(self, points):
         """Norm of the scaled residuals of the target F^h at points (P, n + 1): is X an endpoint?"""
         values = self.evaluator.evaluate(points, jacobian=False)
-        scales = residual_scales(self._norms, self._degrees, points, projective=True)
+        scales = self._sizes.values(points)
         return np.linalg.norm(values / scales, axis=1)
 
 
@@ -143,8 +146,7 @@ class StraightLineHomotopy(_PatchedHomotopy):
         self.evaluations = 0
         self.value_evaluations = 0
         self._precise = None
-        self._norms = np.array([p.coefficient_norm() for p in self.target])
-        self._degrees = np.array([p.degree for p in self.target])
+        self._sizes = TermSizes(self.target, projective=True)
 
     @classmethod
     def total_degree(cls, system, rng):
@@ -273,8 +275,7 @@ class ParameterHomotopy(_PatchedHomotopy):
         self.value_evaluations = 0
         self._precise = None
         self._precise_start = None
-        self._norms = np.array([p.coefficient_norm() for p in self.target])
-        self._degrees = np.array([p.degree for p in self.target])
+        self._sizes = TermSizes(self.target, projective=True)
 
     @classmethod
     def from_systems(cls, start_system, target_system, rng):

@@ -3,13 +3,12 @@
 A rank decision compares singular values with the *system's own scale at the
 point*, not with the largest singular value: a hypersurface's Jacobian has a
 single singular value, the very one being tested, so a rule relative to
-sigma_1 could never call it zero. Row i of J is divided by
-
-    ||c_i|| * ||(1, x)||^(d_i - 1)      (affine; ||x||^(d_i - 1) when projective)
-
-where c_i are the coefficients and d_i the degree of equation i. Columns are
-left alone: a column scale would have to come from the point itself, and a
-column of J that vanishes exactly (the thing being tested) has no scale.
+sigma_1 could never call it zero. Row i of J is divided by the size of its
+terms at the point (:class:`numag.evaluate.TermSizes`), which is what rounding
+errors in it are proportional to. Columns are left alone: a column scale would
+have to come from the point itself, and a column of J that vanishes exactly
+(the thing being tested) has no scale; the units of the variables are set
+beforehand, once per problem (:mod:`numag.scaling`).
 
 Examples
 --------
@@ -29,8 +28,6 @@ __all__ = [
     "RankEvidence",
     "working_epsilon",
     "zero_tolerance",
-    "jacobian_row_scales",
-    "residual_scales",
     "scaled_singular_values",
     "numerical_rank",
     "singular_value_gap",
@@ -69,38 +66,6 @@ def zero_tolerance(digits, shape):
     True
     """
     return _ZERO_SAFETY * max(shape) * working_epsilon(digits)
-
-
-def jacobian_row_scales(coefficient_norms, degrees, points, projective=False):
-    """Natural scale of each Jacobian row at each point, shape (P, m).
-
-    Parameters
-    ----------
-    coefficient_norms : array_like, shape (m,)
-    degrees : array_like of int, shape (m,)
-    points : ndarray, shape (P, n)
-    projective : bool
-
-    Returns
-    -------
-    ndarray, shape (P, m)
-    """
-    return _scales(coefficient_norms, np.asarray(degrees) - 1, points, projective)
-
-
-def residual_scales(coefficient_norms, degrees, points, projective=False):
-    """Natural scale of each equation's value at each point: ``||c_i|| * ||(1, x)||^d_i``."""
-    return _scales(coefficient_norms, np.asarray(degrees), points, projective)
-
-
-def _scales(norms, powers, points, projective):
-    points = np.atleast_2d(points)
-    size = np.linalg.norm(points, axis=1)
-    if not projective:
-        size = np.sqrt(1.0 + size ** 2)
-    size = np.maximum(size, np.finfo(float).tiny)
-    result = np.asarray(norms, float)[None, :] * size[:, None] ** np.maximum(powers, 0)[None, :]
-    return np.where(result > 0, result, 1.0)
 
 
 def scaled_singular_values(jacobians, row_scales):

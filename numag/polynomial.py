@@ -193,6 +193,19 @@ class Polynomial:
         """The same polynomial with complex double coefficients."""
         return Polynomial(self.exponents, np.array(self.numeric_coefficients()), self.n_variables)
 
+    def absolute(self):
+        """The polynomial whose coefficients are the moduli of these (real doubles, as complex).
+
+        Evaluated at the moduli of a point's coordinates it bounds the terms' sizes there.
+
+        Examples
+        --------
+        >>> x = Polynomial.variable(0, 1)
+        >>> (x * x - 3).absolute().to_text(["x"])
+        '1.0*x^2 + 3.0'
+        """
+        return Polynomial(self.exponents, np.abs(self.numeric_coefficients()).astype(complex), self.n_variables)
+
     def scaled(self, factor):
         """The polynomial times a number, with complex double coefficients (one construction, no product).
 

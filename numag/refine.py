@@ -25,9 +25,8 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from .evaluate import BatchEvaluator, PrecisionEvaluator
-from .linalg import (batched_least_squares, jacobian_row_scales, mp_least_squares,
-                     mp_right_singular_vectors, residual_scales, scaled_singular_values)
+from .evaluate import BatchEvaluator, PrecisionEvaluator, TermSizes
+from .linalg import batched_least_squares, mp_least_squares, mp_right_singular_vectors, scaled_singular_values
 from .polynomial import Polynomial, PolynomialSystem
 
 __all__ = ["ProjectionResult", "project_to_variety", "mp_gauss_newton", "RankDropSystem", "IsolationTest"]
@@ -44,7 +43,8 @@ class ProjectionResult:
     converged : ndarray of bool, shape (P,)
         Scaled residual at or below the tolerance.
     residuals : ndarray, shape (P,)
-        Euclidean norm of the scaled residuals f_i / (||c_i|| ||(1,x)||^d_i) at the refined point.
+        Euclidean norm of the scaled residuals (f_i over the size of its terms, :class:`TermSizes`)
+        at the refined point.
     distances : ndarray, shape (P,)
         Distance moved from the start point.
     iterations : int
@@ -58,15 +58,22 @@ class ProjectionResult:
     iterations: int
 
 
-def scaled_residuals(system, evaluator, points):
+def scaled_residuals(sizes, evaluator, points):
     """Euclidean norm of the scaled residuals of F at each point, and the values and Jacobians.
 
     The Euclidean norm (not the largest entry) is what a Gauss-Newton step decreases,
     so it is the measure steps are accepted by.
+
+    Parameters
+    ----------
+    sizes : TermSizes
+        Of the system's polynomials.
+    evaluator : BatchEvaluator
+        Of the same polynomials.
+    points : ndarray, shape (P, n)
     """
     values, jacobians = evaluator.evaluate(points)
-    scales = residual_scales(system.coefficient_norms(), system.degrees, points, system.projective)
-    return np.linalg.norm(values / scales, axis=1), values, jacobians
+    return np.linalg.norm(values / sizes.values(points), axis=1), values, jacobians
 
 
 def project_to_variety(system, evaluator, points, tolerance=1e-13, max_iterations=30):
@@ -88,7 +95,8 @@ def project_to_variety(system, evaluator, points, tolerance=1e-13, max_iteration
     """
     start = np.array(points, dtype=complex, copy=True)
     current = start.copy()
-    residual, values, jacobians = scaled_residuals(system, evaluator, current)
+    sizes = TermSizes(system.polynomials, system.projective)
+    residual, values, jacobians = scaled_residuals(sizes, evaluator, current)
     active = residual > tolerance
     iterations = 0
     while np.any(active) and iterations < max_iterations:
@@ -104,7 +112,7 @@ def project_to_variety(system, evaluator, points, tolerance=1e-13, max_iteration
                 break
             rows = index[trying]
             trial = current[rows] - damping * step[trying]
-            trial_residual, trial_values, trial_jacobians = scaled_residuals(system, evaluator, trial)
+            trial_residual, trial_values, trial_jacobians = scaled_residuals(sizes, evaluator, trial)
             improved = np.isfinite(trial_residual) & (trial_residual < residual[rows])
             accept = rows[improved]
             current[accept] = trial[improved]
@@ -209,10 +217,8 @@ class RankDropSystem:
         flat = [d for row in system.jacobian_polynomials() for d in row]
         self.first_derivatives = PrecisionEvaluator(flat)
         start_array = np.array([complex(v) for v in start])
-        self.value_weights = 1.0 / residual_scales(system.coefficient_norms(), system.degrees,
-                                                   start_array[None, :], system.projective)[0]
-        self.row_weights = 1.0 / jacobian_row_scales(system.coefficient_norms(), system.degrees,
-                                                     start_array[None, :], system.projective)[0]
+        value_sizes, row_sizes = TermSizes(system.polynomials, system.projective).both(start_array[None, :])
+        self.value_weights, self.row_weights = 1.0 / value_sizes[0], 1.0 / row_sizes[0]
         point = [ctx.mpc(v) for v in start]
         _, jacobian = self.values.evaluate(point, ctx)
         scaled = ctx.matrix(m, n)
@@ -321,7 +327,7 @@ class IsolationTest:
     def isolated(self, point):
         system = self.system
         _, jacobian = self.evaluator.evaluate(point[None, :])
-        scales = jacobian_row_scales(system.coefficient_norms(), system.degrees, point[None, :])
+        scales = TermSizes(system.polynomials).gradients(point[None, :])
         values = scaled_singular_values(jacobian, scales)[0]
         small = system.n_variables - int(np.sum(values > 1e-6))
         if small == 0:

@@ -44,11 +44,10 @@ import numpy as np
 
 from .decompose import components_through
 from .errors import InputError, PointError
-from .evaluate import BatchEvaluator, PrecisionEvaluator
+from .evaluate import BatchEvaluator, PrecisionEvaluator, TermSizes
 from .exact import ExactCoefficient
-from .linalg import (DOUBLE_DIGITS, RankEvidence, jacobian_row_scales, mp_singular_values,
-                     numerical_rank, residual_scales, scaled_singular_values, singular_value_gap,
-                     zero_tolerance)
+from .linalg import (DOUBLE_DIGITS, RankEvidence, mp_singular_values, numerical_rank, scaled_singular_values,
+                     singular_value_gap, zero_tolerance)
 from .refine import RankDropSystem, mp_gauss_newton, project_to_variety
 
 __all__ = ["CheckOptions", "PointVerdict", "CheckReport", "check_points", "normalize_projective",
@@ -232,18 +231,17 @@ class _Checker:
         self.batch = BatchEvaluator(system.polynomials)
         self.precise = PrecisionEvaluator(system.polynomials)
         self.m, self.n = system.n_equations, system.n_variables
-        self.norms = system.coefficient_norms()
+        self.sizes = TermSizes(system.polynomials, system.projective)
 
     # -- scaled quantities ----------------------------------------------------------------------
     def scaled_values_double(self, points):
         _, jacobians = self.batch.evaluate(points)
-        scales = jacobian_row_scales(self.norms, self.system.degrees, points, self.system.projective)
+        scales = self.sizes.gradients(points)
         return scaled_singular_values(jacobians, scales), scales
 
     def scaled_values_mp(self, point, ctx):
         _, jacobian = self.precise.evaluate([ctx.mpc(v) for v in point], ctx)
-        scales = jacobian_row_scales(self.norms, self.system.degrees, np.array([complex(v) for v in point])[None],
-                                     self.system.projective)[0]
+        scales = self.sizes.gradients(np.array([complex(v) for v in point])[None])[0]
         scaled = ctx.matrix(self.m, self.n)
         for i in range(self.m):
             for j in range(self.n):
@@ -280,8 +278,7 @@ class _Checker:
         def function(z):
             x = [z[j] for j in range(self.n)]
             values, jacobian = self.precise.evaluate(x, ctx)
-            scales = residual_scales(self.norms, self.system.degrees,
-                                     np.array([complex(v) for v in x])[None], self.system.projective)[0]
+            scales = self.sizes.values(np.array([complex(v) for v in x])[None])[0]
             for i in range(self.m):
                 values[i] /= scales[i]
                 for j in range(self.n):
@@ -521,7 +518,7 @@ def check_points(system, points, options=None, seed=None, decomposition=None):
     checker = _Checker(system, options, rng)
     projection = project_to_variety(system, checker.batch, given)
     residual_given = np.max(np.abs(checker.batch.evaluate(given, jacobian=False))
-                            / residual_scales(checker.norms, system.degrees, given, system.projective), axis=1)
+                            / checker.sizes.values(given), axis=1)
     refined = projection.points.copy()
     if system.projective:
         refined = np.array([normalize_projective(p) for p in refined])

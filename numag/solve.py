@@ -31,9 +31,8 @@ from .checkpoint import RunFolder
 from .cluster import cluster_labels, groups
 from .errors import InputError
 from .executor import InProcess, make_executor
-from .evaluate import BatchEvaluator, PrecisionEvaluator
+from .evaluate import BatchEvaluator, PrecisionEvaluator, TermSizes
 from .homotopy import ParameterHomotopy, StraightLineHomotopy
-from .linalg import residual_scales
 from .polynomial import PolynomialSystem
 from .refine import IsolationTest, mp_gauss_newton
 from .tracker import FAILURE_LABELS, BatchTracker, PathStatus, StartArray, TrackerOptions, track_paths
@@ -239,14 +238,14 @@ def _square_target(system, options, rng):
 def _refine_mp(system, point, digits):
     """Gauss-Newton on F at ``digits`` digits (linear convergence at multiple roots is enough here)."""
     evaluator = PrecisionEvaluator(system.polynomials)
-    norms = system.coefficient_norms()
+    sizes = TermSizes(system.polynomials)
     with mpmath.mp.workdps(digits + 10):
         ctx = mpmath.mp
 
         def function(z):
             x = [z[j] for j in range(system.n_variables)]
             values, jacobian = evaluator.evaluate(x, ctx)
-            scale = residual_scales(norms, system.degrees, np.array([complex(v) for v in x])[None])[0]
+            scale = sizes.values(np.array([complex(v) for v in x])[None])[0]
             for i in range(system.n_equations):
                 values[i] /= scale[i]
                 for j in range(system.n_variables):
@@ -468,7 +467,7 @@ def _satisfies(system, point, tolerance=1e-8):
     """Scaled residual of every equation at the point below the tolerance."""
     point = np.asarray(point, dtype=complex)[None, :]
     values = BatchEvaluator(system.polynomials).evaluate(point, jacobian=False)
-    scales = residual_scales(system.coefficient_norms(), system.degrees, point, system.projective)
+    scales = TermSizes(system.polynomials, system.projective).values(point)
     return bool(np.max(np.abs(values) / scales) <= tolerance)
 
 

@@ -47,7 +47,7 @@ import numpy as np
 
 from .rescue import track_segment_precise
 
-__all__ = ["PathStatus", "TrackerOptions", "TrackResult", "track_paths"]
+__all__ = ["PathStatus", "TrackerOptions", "TrackResult", "track_paths", "projective_condition"]
 
 
 class PathStatus(enum.IntEnum):
@@ -572,11 +572,60 @@ def _classify(homotopy, points, opts, settle=True):
         settled &= np.all(np.isfinite(refined), axis=1)
         points = np.where(settled[:, None], refined, points)
     _, jacobian, _ = homotopy.evaluate(points, zeros.astype(complex))
-    with np.errstate(all="ignore"):
-        condition = np.linalg.cond(jacobian) if len(points) else np.zeros(0)
+    condition = projective_condition(jacobian, points, homotopy.row_scales(points)) if len(points) \
+        else np.zeros(0)
     size = np.linalg.norm(points, axis=1)
-    at_infinity = np.abs(points[:, 0]) <= opts.infinity_threshold * size
+    relative_x0 = np.abs(points[:, 0]) / np.maximum(size, np.finfo(float).tiny)
+    # A regular endpoint that Newton settled is known to about condition * eps relative: X_0 is
+    # then zero (at infinity) only when it is below that accuracy, whatever its size otherwise. A
+    # fixed threshold called a finite solution at 1e9 "at infinity". Unsettled or ill-conditioned
+    # endpoints (endgame estimates) keep the fixed threshold.
+    accuracy = _ACCURACY_SAFETY * np.finfo(float).eps * np.where(np.isfinite(condition), condition, np.inf)
+    regular = settled & (condition <= opts.singular_condition)
+    at_infinity = np.where(regular, relative_x0 <= accuracy, relative_x0 <= opts.infinity_threshold)
     return points, condition, at_infinity, settled
+
+
+#: A settled regular endpoint's X_0 is zero when below this many times condition * eps (relative).
+_ACCURACY_SAFETY = 100.0
+
+
+def projective_condition(jacobian, points, row_scales):
+    """Condition number of the homotopy's target at endpoints, independent of the patch and of scale.
+
+    The rows of F^h's Jacobian are divided by their natural scales (coefficient norm times
+    ||X||^(d - 1)) and the patch row is replaced by X^H / ||X||: the result is the condition of
+    F^h on the tangent space of projective space at X (the directions orthogonal to X), plus the
+    unit direction along X. A raw condition number grows like ||X||^(d - 1) with the size the
+    random patch gives the point (x^100 - 1 had "condition" 3e7 at a simple root).
+
+    Parameters
+    ----------
+    jacobian : ndarray, shape (P, N, N)
+        dH/dX at s = 0 with the patch as the last row.
+    points : ndarray, shape (P, N)
+    row_scales : ndarray, shape (P, N - 1)
+
+    Returns
+    -------
+    ndarray, shape (P,)
+
+    Examples
+    --------
+    >>> import numpy as np
+    >>> point = np.array([[1e3, 1e3]])                  # (X_0, X_1), a zero of X_1^2 - X_0^2
+    >>> jac = np.array([[[-2e3, 2e3], [1e-4, 9e-4]]])   # its gradient, then some patch row
+    >>> scales = np.array([[np.sqrt(2) * np.linalg.norm(point)]])
+    >>> round(float(projective_condition(jac, point, scales)[0]), 6)
+    1.414214
+    """
+    size = np.linalg.norm(points, axis=1)
+    scaled = np.array(jacobian, dtype=complex, copy=True)
+    scaled[:, :-1, :] /= row_scales[:, :, None]
+    scaled[:, -1, :] = points.conj() / np.maximum(size, np.finfo(float).tiny)[:, None]
+    with np.errstate(all="ignore"):
+        condition = np.linalg.cond(scaled)
+    return np.where(np.isfinite(condition), condition, np.inf)
 
 
 def _track(homotopy, start_points, opts, near=None, on_step=None):

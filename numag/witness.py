@@ -37,9 +37,9 @@ from threadpoolctl import threadpool_limits
 
 from .cluster import cluster_labels, groups
 from .errors import InputError
-from .evaluate import BatchEvaluator
+from .evaluate import BatchEvaluator, TermSizes
 from .homotopy import ParameterHomotopy, random_unit_complex
-from .linalg import jacobian_row_scales, residual_scales, scaled_singular_values
+from .linalg import scaled_singular_values
 from .polynomial import Polynomial, PolynomialSystem
 from .refine import IsolationTest, project_to_variety
 from .executor import current_executor
@@ -313,25 +313,32 @@ def track_moves(start, target, points, rng, options, counts, batch_size=4096):
     return affine, status, winding
 
 
-def scaled_residual(evaluator, norms, degrees, points):
-    """Largest scaled residual of the equations at each affine point (inf for NaN points)."""
+def scaled_residual(evaluator, sizes, points):
+    """Largest scaled residual of the equations at each affine point (inf for NaN points).
+
+    Parameters
+    ----------
+    evaluator : BatchEvaluator
+    sizes : TermSizes
+        Of the same polynomials: each value is divided by the size of its terms.
+    points : ndarray, shape (P, n)
+    """
     points = np.atleast_2d(points)
     result = np.full(len(points), np.inf)
     good = np.all(np.isfinite(points), axis=1)
     if np.any(good):
         values = evaluator.evaluate(points[good], jacobian=False)
-        scales = residual_scales(norms, degrees, points[good])
-        result[good] = np.max(np.abs(values) / scales, axis=1)
+        result[good] = np.max(np.abs(values) / sizes.values(points[good]), axis=1)
     return result
 
 
-def jacobian_rank(evaluator, norms, degrees, points, threshold):
-    """Numerical rank of the row-scaled Jacobian at each point."""
+def jacobian_rank(evaluator, sizes, points, threshold):
+    """Numerical rank of the row-scaled Jacobian at each point (rows divided by their terms' size)."""
     points = np.atleast_2d(points)
     if len(points) == 0:
         return np.zeros(0, dtype=np.int64)
     _, jacobian = evaluator.evaluate(points)
-    values = scaled_singular_values(jacobian, jacobian_row_scales(norms, degrees, points))
+    values = scaled_singular_values(jacobian, sizes.gradients(points))
     return np.sum(values > threshold, axis=1)
 
 
@@ -420,16 +427,13 @@ def witness_supersets(system, options=None, seed=None, progress=None):
         used.append(index)
         equations = [slicing.homogeneous[k] for k in used]
         affine = [system.polynomials[k].numeric() for k in used]
-        evaluator = BatchEvaluator(affine)
-        norms = np.array([p.coefficient_norm() for p in affine])
-        degrees = np.array([p.degree for p in affine])
+        evaluator, sizes = BatchEvaluator(affine), TermSizes(affine)
         single = BatchEvaluator([system.polynomials[index].numeric()])
-        single_norm = np.array([system.polynomials[index].numeric().coefficient_norm()])
-        single_degree = np.array([system.polynomials[index].degree])
+        single_sizes = TermSizes([system.polynomials[index]])
         following = {}
         for codim in sorted(current):
             points, multiplicity = current[codim]
-            residual = scaled_residual(single, single_norm, single_degree, points)
+            residual = scaled_residual(single, single_sizes, points)
             on = residual <= options.residual_tolerance
             doubtful = np.nonzero(~on & (residual <= 1e-3))[0]
             if len(doubtful):
@@ -449,7 +453,7 @@ def witness_supersets(system, options=None, seed=None, progress=None):
                                                       regenerate, options, track_counts, counts)
             if len(candidates) == 0:
                 continue
-            good = scaled_residual(evaluator, norms, degrees, candidates) <= options.residual_tolerance
+            good = scaled_residual(evaluator, sizes, candidates) <= options.residual_tolerance
             counts["not_on_X"] += int(np.sum(~good & np.all(np.isfinite(candidates), axis=1)))
             counts["at_infinity_or_failed"] += int(np.sum(~np.all(np.isfinite(candidates), axis=1)))
             candidates = candidates[good]
@@ -459,7 +463,7 @@ def witness_supersets(system, options=None, seed=None, progress=None):
             members = groups(labels)
             distinct = np.array([candidates[m[0]] for m in members])
             paths = np.array([len(m) for m in members], dtype=np.int64)
-            keep = _not_junk(slicing, equations, evaluator, norms, degrees, codim + 1, distinct, following,
+            keep = _not_junk(slicing, equations, evaluator, sizes, codim + 1, distinct, following,
                              options, track_counts, counts)
             counts["on_larger_component"] += int(np.sum(~keep))
             have_points, have_mult = following.get(codim + 1, (np.zeros((0, n), complex),
@@ -512,14 +516,14 @@ def _regenerate(slicing, held_equations, f, codim, points, options, track_counts
     return ends, len(starts)
 
 
-def _not_junk(slicing, equations, evaluator, norms, degrees, codim, points, found, options, track_counts, counts):
+def _not_junk(slicing, equations, evaluator, sizes, codim, points, found, options, track_counts, counts):
     """False for the points of a codimension-``codim`` candidate set that lie on a larger component."""
     keep = np.ones(len(points), dtype=bool)
     larger = [(c, found[c][0]) for c in sorted(found) if c < codim and len(found[c][0])]
     if not larger or len(points) == 0:
         return keep
     # Full rank codim: the tangent space is too small for a larger component through the point.
-    ranks = jacobian_rank(evaluator, norms, degrees, points, options.rank_threshold)
+    ranks = jacobian_rank(evaluator, sizes, points, options.rank_threshold)
     suspects = np.nonzero(ranks < codim)[0]
     if len(suspects) == 0:
         return keep
