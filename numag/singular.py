@@ -42,7 +42,7 @@ import time
 
 import numpy as np
 
-from .cluster import cluster_labels, groups
+from .cluster import cluster_labels, groups, normalize_projective
 from .decompose import DecomposeOptions, decompose, holding_equations, random_minor
 from .evaluate import BatchEvaluator
 from .errors import InputError, PointError
@@ -509,17 +509,11 @@ def _projective_chart(system, options, rng, paths, discarded, notes, progress):
     pieces, variety = _affine(affine, options, rng, paths, discarded, progress, notes)
     for piece in pieces:
         homogeneous = np.column_stack([np.ones(len(piece.points)), piece.points]) @ q.T
-        piece.points = np.array([_normalize(p) for p in homogeneous])
+        piece.points = normalize_projective(homogeneous)
         piece.real = _real_flags(system, piece.points)
     notes.append("Projective input: computed in a random affine chart (real orthogonal change of coordinates); "
                  "points are homogeneous, divided by their largest coordinate.")
     return pieces, variety
-
-
-def _normalize(point):
-    moduli = np.abs(point)
-    pivot = int(np.argmax(moduli >= moduli.max() * (1 - 1e-12)))
-    return point / point[pivot]
 
 
 def _at_infinity(system, rng, paths, progress):

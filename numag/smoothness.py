@@ -42,6 +42,7 @@ import math
 import mpmath
 import numpy as np
 
+from .cluster import line_distance, normalize_projective
 from .decompose import components_through
 from .errors import InputError, PointError
 from .evaluate import BatchEvaluator, PrecisionEvaluator, TermSizes
@@ -50,7 +51,7 @@ from .linalg import (DOUBLE_DIGITS, RankEvidence, mp_singular_values, numerical_
                      singular_value_gap, zero_tolerance)
 from .refine import RankDropSystem, mp_gauss_newton, project_to_variety
 
-__all__ = ["CheckOptions", "PointVerdict", "CheckReport", "check_points", "normalize_projective",
+__all__ = ["CheckOptions", "PointVerdict", "CheckReport", "check_points",
            "VERDICTS"]
 
 #: The possible verdicts.
@@ -203,20 +204,6 @@ class CheckReport:
         return any(p.verdict == "undecided" for p in self.points)
 
 
-def normalize_projective(point):
-    """Divide a homogeneous point by its coordinate of largest modulus (lowest index on ties).
-
-    Examples
-    --------
-    >>> normalize_projective(np.array([1.0, -2.0, 2.0]))
-    array([-0.5+0.j,  1. -0.j, -1. +0.j])
-    """
-    point = np.asarray(point, dtype=complex)
-    moduli = np.abs(point)
-    pivot = int(np.argmax(moduli >= moduli.max() * (1 - 1e-12)))
-    return point / point[pivot]
-
-
 def _size(point):
     return math.sqrt(1.0 + float(np.linalg.norm(point)) ** 2)
 
@@ -249,11 +236,15 @@ class _Checker:
         return [float(v) for v in mp_singular_values(scaled, ctx)], scales
 
     def distance(self, a, b):
+        """Distance of two points (projective: between their lines, about the angle)."""
         if self.system.projective:
-            a, b = normalize_projective(a), normalize_projective(b)
+            return float(line_distance(a, b)[0])
         return float(np.linalg.norm(np.asarray(a) - np.asarray(b)))
 
     def tolerance_for(self, given):
+        """How far the point a verdict speaks about may be from the given one."""
+        if self.system.projective:
+            return self.options.point_tolerance
         return self.options.point_tolerance * _size(given)
 
     # -- local dimension -------------------------------------------------------------------------
@@ -521,13 +512,13 @@ def check_points(system, points, options=None, seed=None, decomposition=None):
                             / checker.sizes.values(given), axis=1)
     refined = projection.points.copy()
     if system.projective:
-        refined = np.array([normalize_projective(p) for p in refined])
+        refined = normalize_projective(refined)
     # Gauss-Newton aims at a scaled residual of 1e-13; at a singular point it can stall just above
     # (rounding, a rank-deficient Jacobian: 1.2e-13 seen at a linkage's branch point, which was then
     # dropped). A point that stalls within 100 times that is on X to double precision.
     on_variety = projection.converged | (projection.residuals <= _ON_VARIETY_RESIDUAL)
     for k in range(len(given)):
-        tolerance = options.point_tolerance * _size(given[k])
+        tolerance = checker.tolerance_for(given[k])
         moved = checker.distance(given[k], refined[k])
         if not on_variety[k] or moved > tolerance:
             raise PointError(

@@ -28,7 +28,7 @@ import numpy as np
 from threadpoolctl import threadpool_limits
 
 from .checkpoint import RunFolder
-from .cluster import cluster_labels, groups
+from .cluster import cluster_labels, groups, normalize_projective
 from .errors import InputError
 from .executor import InProcess, make_executor
 from .evaluate import BatchEvaluator, PrecisionEvaluator, TermSizes
@@ -213,12 +213,6 @@ def path_counts(status, retracked=None, digits=None):
     if digits is not None:
         counts["rescued_in_high_precision"] = int(np.sum(np.asarray(digits) > 16))
     return counts
-
-
-def _normalize(point):
-    moduli = np.abs(point)
-    pivot = int(np.argmax(moduli >= moduli.max() * (1 - 1e-12)))
-    return point / point[pivot]
 
 
 def _square_target(system, options, rng):
@@ -473,7 +467,7 @@ def _satisfies(system, point, tolerance=1e-8):
 
 def _finite_points(system, endpoints, indices):
     if system.projective:
-        return np.array([_normalize(p) for p in endpoints[indices]]).reshape(len(indices), -1)
+        return normalize_projective(endpoints[indices]).reshape(len(indices), -1)
     return endpoints[indices, 1:] / endpoints[indices, :1]
 
 
@@ -482,7 +476,8 @@ def _crossed_paths(system, endpoints, status, options):
     regular = np.nonzero(status == PathStatus.CONVERGED)[0]
     if len(regular) < 2:
         return np.zeros(0, dtype=np.int64)
-    labels = cluster_labels(_finite_points(system, endpoints, regular), options.cluster_tolerance)
+    labels = cluster_labels(_finite_points(system, endpoints, regular), options.cluster_tolerance,
+                            projective=system.projective)
     counts = np.bincount(labels)
     return regular[counts[labels] > 1]
 
@@ -494,7 +489,7 @@ def _collect(system, endpoints, status, winding, condition, options, rng):
     finite_points = _finite_points(system, endpoints, finite)
     affine_system = None if system.projective else system
     solutions, flagged = [], []
-    labels = cluster_labels(finite_points, options.cluster_tolerance)
+    labels = cluster_labels(finite_points, options.cluster_tolerance, projective=system.projective)
     with np.errstate(invalid="ignore"):
         real_points = real_coefficients & np.all(np.abs(finite_points.imag) <= 1e-8 * (1 + np.abs(finite_points)),
                                                  axis=1)
@@ -532,8 +527,8 @@ def _collect(system, endpoints, status, winding, condition, options, rng):
         (solutions if isolated else flagged).append(entry)
     at_infinity = []
     if len(infinite):
-        points = np.array([_normalize(p) for p in endpoints[infinite]])
-        for members in groups(cluster_labels(points, options.cluster_tolerance)):
+        points = normalize_projective(endpoints[infinite])
+        for members in groups(cluster_labels(points, options.cluster_tolerance, projective=True)):
             paths = infinite[members]
             point = points[members[0]]
             real = bool(real_coefficients and np.all(np.abs(point.imag) <= 1e-8 * (1 + np.abs(point))))

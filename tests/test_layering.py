@@ -10,7 +10,7 @@ LAYERS = [
     {"errors", "cluster", "allocation"},
     {"exact", "executor", "checkpoint"},
     {"polynomial"},
-    {"parse", "reference"},
+    {"parse", "reference", "scaling"},
     {"evaluate", "linalg", "rescue"},
     {"refine", "homotopy", "tracker"},
     {"solve", "witness", "certify"},
