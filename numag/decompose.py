@@ -42,6 +42,7 @@ from .cluster import cluster_labels
 from .errors import InputError
 from .evaluate import BatchEvaluator, TermSizes
 from .polynomial import combined_minor
+from .scaling import Scaling
 from .witness import (WitnessOptions, combine_equations, jacobian_rank, linear_form, membership, random_rows,
                       track_moves, witness_supersets)
 
@@ -123,6 +124,8 @@ class Decomposition:
         Monodromy loops run per dimension.
     seed : int
     seconds : float
+    scaling : Scaling or None
+        The units the computation used; points and slices are in the user's units.
     """
 
     system: object
@@ -133,6 +136,26 @@ class Decomposition:
     seed: int
     seconds: float
     extra: dict = field(default_factory=dict)
+    scaling: object = None
+
+    def in_units(self, scaling, system, to_user):
+        """The same decomposition with points and slices moved to other units (a new object).
+
+        Parameters
+        ----------
+        scaling : Scaling
+        system : PolynomialSystem
+            The system in the target units.
+        to_user : bool
+            True: from the computed units of ``scaling`` to the user's; False: back.
+        """
+        moved = []
+        for c in self.components:
+            points = scaling.to_user(c.points) if to_user else scaling.to_computed(c.points)
+            rows = (scaling.hyperplanes_to_user(c.slice_rows) if to_user
+                    else scaling.hyperplanes_to_computed(c.slice_rows)) if len(c.slice_rows) else c.slice_rows
+            moved.append(replace(c, points=points, slice_rows=rows))
+        return replace(self, system=system, components=moved, scaling=scaling if to_user else None)
 
     @property
     def unconfirmed(self):
@@ -340,6 +363,13 @@ def decompose(system, options=None, seed=None, progress=None):
     options = options or DecomposeOptions()
     if seed is None:
         seed = int(np.random.SeedSequence().entropy % (2**32))
+    scaling = Scaling.balancing(system)
+    result = _decompose(scaling.scale_system(system), options, seed, progress)
+    return result.in_units(scaling, system, to_user=True)
+
+
+def _decompose(system, options, seed, progress):
+    """:func:`decompose` in the units of ``system`` (already scaled)."""
     started = time.perf_counter()
     rng = np.random.default_rng(seed)
     supersets = witness_supersets(system, options.witness, seed=int(rng.integers(2**32)), progress=progress)
@@ -403,10 +433,17 @@ def components_through(decomposition, point, seed=0, options=None):
         Highest dimension first; the local dimension of X at the point is the first one's.
     """
     options = options or DecomposeOptions()
-    system = decomposition.system
     point = np.asarray(point, dtype=complex).reshape(-1)
-    if len(point) != system.n_variables:
-        raise InputError(f"the point has {len(point)} coordinates, the system {system.n_variables} variables")
+    if len(point) != decomposition.system.n_variables:
+        raise InputError(f"the point has {len(point)} coordinates, the system "
+                         f"{decomposition.system.n_variables} variables")
+    if decomposition.scaling is not None:  # membership is decided in the units the components were found in
+        scaling = decomposition.scaling
+        computed = decomposition.in_units(scaling, scaling.scale_system(decomposition.system), to_user=False)
+        found = {id(c): k for k, c in enumerate(computed.components)}
+        hits = components_through(computed, scaling.to_computed(point), seed, options)
+        return [decomposition.components[found[id(c)]] for c in hits]
+    system = decomposition.system
     rng = np.random.default_rng(seed)
     n = system.n_variables
     found = []

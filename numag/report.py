@@ -37,6 +37,7 @@ from .files import system_from_mapping
 from .decompose import Component, Decomposition, DecomposeOptions
 from .linalg import RankEvidence
 from .polynomial import PolynomialSystem
+from .scaling import Scaling
 from .smoothness import CheckOptions, CheckReport, PointVerdict
 from .singular import SingularComponent, SingularLocus, SingularOptions
 from .solve import Solution, SolveOptions, SolveResult
@@ -141,6 +142,7 @@ def check_report_to_dict(report):
         "command": "check",
         "seed": report.seed,
         "system": system_to_dict(report.system),
+        "scaling": _scaling_to_dict(report.scaling, report.system),
         "options": {"local_dimension": options.local_dimension, "point_tolerance": options.point_tolerance,
                     "digits": options.max_digits, "suspect_threshold": options.suspect_threshold,
                     "neighbour_samples": options.neighbour_samples,
@@ -151,6 +153,16 @@ def check_report_to_dict(report):
         "points": [_verdict_to_dict(v) for v in report.points],
         "caution": CAUTION,
     }
+
+
+def _scaling_to_dict(scaling, system):
+    return None if scaling is None else scaling.to_json(system.variables)
+
+
+def _scaling_from_dict(data, system):
+    """The report's ``scaling`` (None for reports written before it existed)."""
+    block = data.get("scaling")
+    return None if block is None else Scaling.from_json(block, system.variables)
 
 
 def _report_system(data, command):
@@ -170,7 +182,8 @@ def check_report_from_dict(data):
     options = CheckOptions(local_dimension=o["local_dimension"], point_tolerance=o["point_tolerance"],
                            max_digits=o["digits"], suspect_threshold=o["suspect_threshold"],
                            neighbour_samples=o["neighbour_samples"], neighbour_radius=o["neighbour_radius"])
-    return CheckReport(system, [_verdict_from_dict(d) for d in data["points"]], options, data["seed"])
+    return CheckReport(system, [_verdict_from_dict(d) for d in data["points"]], options, data["seed"],
+                       _scaling_from_dict(data, system))
 
 
 def dumps(data):
@@ -217,6 +230,7 @@ def solve_report_to_dict(result, options):
         "command": "solve",
         "seed": result.seed,
         "system": system_to_dict(result.system),
+        "scaling": _scaling_to_dict(result.scaling, result.system),
         "options": {"digits": options.refine_digits, "cluster_tolerance": options.cluster_tolerance,
                     "square_up": options.square_up, "batch_size": options.batch_size},
         "paths": result.path_counts(),
@@ -261,6 +275,7 @@ def solve_report_from_dict(data):
         discarded=[_solution_from_dict(d) for d in data["discarded"]])
     if data.get("execution") is not None:
         result.extra["execution"] = data["execution"]
+    result.scaling = _scaling_from_dict(data, system)
     return result, options
 
 
@@ -298,6 +313,7 @@ def decomposition_to_dict(result, options):
         "command": "decompose",
         "seed": result.seed,
         "system": system_to_dict(result.system),
+        "scaling": _scaling_to_dict(result.scaling, result.system),
         "options": {"lowest_dimension": options.witness.lowest_dimension, "max_loops": options.max_loops,
                     "trace_tolerance": options.trace_tolerance},
         "dimensions_searched": list(result.dimensions_searched),
@@ -336,7 +352,7 @@ def decomposition_from_dict(data):
     counts = _counts_from_paths(data["paths"])
     result = Decomposition(system, components, list(data["dimensions_searched"]), counts,
                            {int(k): int(v) for k, v in data["monodromy_loops"].items()}, data["seed"],
-                           float(data["seconds"]))
+                           float(data["seconds"]), scaling=_scaling_from_dict(data, system))
     return result, options
 
 
@@ -358,6 +374,7 @@ def singular_to_dict(result, options):
         "command": "singular",
         "seed": result.seed,
         "system": system_to_dict(result.system),
+        "scaling": _scaling_to_dict(result.scaling, result.system),
         "options": {"formulation": options.formulation, "digits": options.digits,
                     "at_infinity_for_systems": options.infinity_for_systems,
                     "lowest_dimension": options.decompose.witness.lowest_dimension,
@@ -395,9 +412,10 @@ def singular_from_dict(data):
     variety = None
     if data["variety"]:
         parts = [_component_from_dict(d, system.n_variables) for d in data["variety"]]
-        variety = Decomposition(system, parts, [], {}, {}, data["seed"], 0.0)
+        variety = Decomposition(system, parts, [], {}, {}, data["seed"], 0.0,
+                                scaling=_scaling_from_dict(data, system))
     result = SingularLocus(system, components, variety, counts, dict(data["discarded"]), data["seed"],
-                           float(data["seconds"]), list(data["notes"]))
+                           float(data["seconds"]), list(data["notes"]), _scaling_from_dict(data, system))
     return result, options
 
 

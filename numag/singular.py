@@ -48,6 +48,7 @@ from .evaluate import BatchEvaluator
 from .errors import InputError, PointError
 from .polynomial import Polynomial, PolynomialSystem, determinant
 from .refine import IsolationTest
+from .scaling import Scaling
 from .smoothness import CheckOptions, check_points
 from .solve import SolveOptions, solve_system
 from .tracker import FAILURE_LABELS
@@ -157,6 +158,8 @@ class SingularLocus:
     seed : int
     seconds : float
     notes : list of str
+    scaling : Scaling or None
+        The units the computation used (points are in the user's units).
     """
 
     system: object
@@ -167,6 +170,7 @@ class SingularLocus:
     seed: int
     seconds: float
     notes: list = field(default_factory=list)
+    scaling: object = None
 
     def isolated(self):
         """The singular points (dimension 0, kind singular)."""
@@ -336,6 +340,23 @@ def singular_locus(system, options=None, seed=None, progress=None):
     options = (options or SingularOptions()).validated(system)
     if seed is None:
         seed = int(np.random.SeedSequence().entropy % (2**32))
+    scaling = Scaling.balancing(system)
+    locus = _singular_locus(scaling.scale_system(system), options, seed, progress)
+    for component in locus.components:
+        if component.at_infinity:
+            component.points = normalize_projective(scaling.homogeneous_to_user(component.points))
+        elif system.projective:
+            component.points = normalize_projective(scaling.to_user(component.points))
+        else:
+            component.points = scaling.to_user(component.points)
+    if locus.variety is not None and not system.projective:
+        locus.variety = locus.variety.in_units(scaling, system, to_user=True)
+    locus.system, locus.scaling = system, scaling
+    return locus
+
+
+def _singular_locus(system, options, seed, progress):
+    """:func:`singular_locus` in the units of ``system`` (already scaled)."""
     started = time.perf_counter()
     rng = np.random.default_rng(seed)
     paths, discarded, notes = {}, {}, []

@@ -36,7 +36,8 @@ Examples
 ['singular', 'smooth']
 """
 
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
+from fractions import Fraction
 import math
 
 import mpmath
@@ -50,6 +51,7 @@ from .exact import ExactCoefficient
 from .linalg import (DOUBLE_DIGITS, RankEvidence, mp_singular_values, numerical_rank, scaled_singular_values,
                      singular_value_gap, zero_tolerance)
 from .refine import RankDropSystem, mp_gauss_newton, project_to_variety
+from .scaling import Scaling
 
 __all__ = ["CheckOptions", "PointVerdict", "CheckReport", "check_points",
            "VERDICTS"]
@@ -187,12 +189,16 @@ class CheckReport:
     options : CheckOptions
     seed : int
         Seed of the random choices (neighbour samples), so the run can be repeated.
+    scaling : Scaling or None
+        The units the verdicts were computed in (singular values, tolerances and residuals
+        belong to that problem; points are in the user's units).
     """
 
     system: object
     points: list
     options: CheckOptions
     seed: int
+    scaling: object = None
 
     def counts(self):
         """Number of points per verdict (every verdict listed, zeros included)."""
@@ -503,9 +509,40 @@ def check_points(system, points, options=None, seed=None, decomposition=None):
     if seed is None:
         seed = int(np.random.SeedSequence().entropy % (2**32))
     rng = np.random.default_rng(seed)
-    given, exact = _as_points(points, system)
-    if len(given) == 0:
-        return CheckReport(system, [], options, seed)
+    user_given, user_exact = _as_points(points, system)
+    scaling = Scaling.balancing(system)
+    if len(user_given) == 0:
+        return CheckReport(system, [], options, seed, scaling)
+    given = scaling.to_computed(user_given)
+    divisors = [ExactCoefficient.rational(Fraction(10) ** -c) for c in scaling.variable_exponents]
+    exact = [None if e is None else [v * d for v, d in zip(e, divisors)] for e in user_exact]
+    verdicts = _check_in_units(scaling.scale_system(system), given, exact, options, seed, rng, decomposition,
+                               scaling)
+    checker = _Checker(system, options, rng)  # distances in the user's units
+    for verdict, point in zip(verdicts, user_given):
+        _to_user_units(verdict, point, scaling, checker)
+    return CheckReport(system, verdicts, options, seed, scaling)
+
+
+def _to_user_units(verdict, given, scaling, checker):
+    """Move a verdict's points from the computed units to the user's (in place)."""
+    projective = checker.system.projective
+
+    def back(point):
+        point = scaling.to_user(point)
+        return normalize_projective(point) if projective else point
+
+    verdict.given = given
+    verdict.point = back(verdict.point)
+    verdict.distance = checker.distance(given, verdict.point)
+    verdict.evidence = replace(verdict.evidence, point=back(verdict.evidence.point))
+    if verdict.nearest_rank_drop is not None:
+        verdict.nearest_rank_drop = back(verdict.nearest_rank_drop)
+        verdict.nearest_rank_drop_distance = checker.distance(given, verdict.nearest_rank_drop)
+
+
+def _check_in_units(system, given, exact, options, seed, rng, decomposition, scaling):
+    """The verdicts at points of ``system`` (already in computed units; ``decomposition`` in the user's)."""
     checker = _Checker(system, options, rng)
     projection = project_to_variety(system, checker.batch, given)
     residual_given = np.max(np.abs(checker.batch.evaluate(given, jacobian=False))
@@ -530,7 +567,7 @@ def check_points(system, points, options=None, seed=None, decomposition=None):
     values, scales = checker.scaled_values_double(refined)
     through = [None] * len(given)
     if decomposition is not None and options.local_dimension is None:
-        through = [components_through(decomposition, refined[k], seed=seed + k) for k in range(len(given))]
-    verdicts = [checker.check(k + 1, given[k], exact[k], refined[k], float(residual_given[k]), values[k], scales[k],
-                              through[k]) for k in range(len(given))]
-    return CheckReport(system, verdicts, options, seed)
+        through = [components_through(decomposition, scaling.to_user(refined[k]), seed=seed + k)
+                   for k in range(len(given))]
+    return [checker.check(k + 1, given[k], exact[k], refined[k], float(residual_given[k]), values[k], scales[k],
+                          through[k]) for k in range(len(given))]

@@ -35,6 +35,7 @@ from .evaluate import BatchEvaluator, PrecisionEvaluator, TermSizes
 from .homotopy import ParameterHomotopy, StraightLineHomotopy
 from .polynomial import PolynomialSystem
 from .refine import IsolationTest, mp_gauss_newton
+from .scaling import Scaling
 from .tracker import FAILURE_LABELS, BatchTracker, PathStatus, StartArray, TrackerOptions, track_paths
 
 __all__ = ["SolveOptions", "Execution", "Solution", "SolveResult", "solve_system", "continue_solutions",
@@ -172,6 +173,8 @@ class SolveResult:
         Per path: 16 (double precision) or the digits of the precision rescue it needed.
     discarded : list of Solution
         With ``squared_up``: solutions of the random combinations that fail an original equation.
+    scaling : Scaling or None
+        The units the computation used (points are reported in the user's units).
     """
 
     system: PolynomialSystem
@@ -189,6 +192,7 @@ class SolveResult:
     digits: np.ndarray = None
     discarded: list = field(default_factory=list)
     extra: dict = field(default_factory=dict)
+    scaling: object = None
 
     def path_counts(self):
         """Counts by status; they add up to the number of tracked paths."""
@@ -285,10 +289,13 @@ def solve_system(system, options=None, seed=None, progress=None, execution=None)
         seed = int(np.random.SeedSequence().entropy % (2**32))
     rng = np.random.default_rng(seed)
     started = time.perf_counter()
-    target, squared = _square_target(system, options, rng)
+    scaling = Scaling.balancing(system)
+    computed = scaling.scale_system(system)
+    target, squared = _square_target(computed, options, rng)
     homotopy = StraightLineHomotopy.total_degree(target, rng)
-    return _run(system, homotopy, homotopy.start_solutions, homotopy.start.n_paths, options, rng, seed, progress,
-                started, squared, execution)
+    result = _run(computed, homotopy, homotopy.start_solutions, homotopy.start.n_paths, options, rng, seed, progress,
+                  started, squared, execution, user_system=system)
+    return _in_user_units(result, system, scaling)
 
 
 def continue_solutions(start_system, start_points, target_system, options=None, seed=None, progress=None):
@@ -324,10 +331,32 @@ def continue_solutions(start_system, start_points, target_system, options=None, 
         seed = int(np.random.SeedSequence().entropy % (2**32))
     rng = np.random.default_rng(seed)
     started = time.perf_counter()
-    homotopy = ParameterHomotopy.from_systems(start_system, target_system, rng)
-    starts = homotopy.start_solutions_from(start_points, projective=start_system.projective)
-    return _run(target_system, homotopy, StartArray(starts), len(starts), options, rng, seed,
-                progress, started, False)
+    # one set of units for both ends, so that the homotopy between them stays a straight line
+    scaling = Scaling.balancing(target_system)
+    if len(scaling.equation_exponents) != start_system.n_equations:
+        raise InputError("start and target systems must have the same number of equations")
+    homotopy = ParameterHomotopy.from_systems(scaling.scale_system(start_system), scaling.scale_system(target_system),
+                                              rng)
+    starts = homotopy.start_solutions_from(scaling.to_computed(np.atleast_2d(np.asarray(start_points, complex))),
+                                           projective=start_system.projective)
+    result = _run(scaling.scale_system(target_system), homotopy, StartArray(starts), len(starts), options, rng, seed,
+                  progress, started, False)
+    return _in_user_units(result, target_system, scaling)
+
+
+def _in_user_units(result, system, scaling):
+    """The result with its points in the user's units (the computation ran in those of ``scaling``)."""
+    def finite(point):
+        point = scaling.to_user(point)
+        return normalize_projective(point) if system.projective else point
+
+    for solution in result.solutions + result.not_isolated + result.discarded:
+        solution.point = finite(solution.point)
+    for solution in result.at_infinity:
+        solution.point = normalize_projective(scaling.homogeneous_to_user(solution.point))
+    result.system = system
+    result.scaling = scaling
+    return result
 
 
 def manifest_for(system, options, seed, total):
@@ -358,9 +387,15 @@ def _open_folder(execution, describe):
     return folder
 
 
-def _run(system, homotopy, start_points, total, options, rng, seed, progress, started, squared, execution=None):
-    """Track all paths in batches (through an executor, saved to a run folder), repair jumps, collect."""
+def _run(system, homotopy, start_points, total, options, rng, seed, progress, started, squared, execution=None,
+         user_system=None):
+    """Track all paths in batches (through an executor, saved to a run folder), repair jumps, collect.
+
+    ``system`` is the system in the units of the computation; ``user_system`` (default: the
+    same) is the one the run folder's manifest describes.
+    """
     execution = execution or Execution()
+    user_system = system if user_system is None else user_system
     endpoints = np.empty((total, homotopy.size), dtype=complex)
     status = np.empty(total, dtype=np.int64)
     steps = np.zeros(total, dtype=np.int64)
@@ -370,7 +405,7 @@ def _run(system, homotopy, start_points, total, options, rng, seed, progress, st
     digits = np.full(total, 16, dtype=np.int64)
     evaluations = 0
     batches = [np.arange(first, min(total, first + options.batch_size)) for first in range(0, total, options.batch_size)]
-    folder = _open_folder(execution, lambda: manifest_for(system, options, seed, total))
+    folder = _open_folder(execution, lambda: manifest_for(user_system, options, seed, total))
 
     def store(result):
         nonlocal evaluations
