@@ -412,14 +412,32 @@ class Polynomial:
         Returns
         -------
         Polynomial
-            In ``k`` variables, with complex coefficients.
+            In ``k`` variables: exact when the polynomial is exact and ``matrix`` and ``offset``
+            are integers, otherwise with complex coefficients.
+
+        Examples
+        --------
+        >>> x, y = Polynomial.variable(0, 2), Polynomial.variable(1, 2)
+        >>> (x * y).substitute_linear(np.array([[1, 1], [1, -1]])).to_text(["u", "v"])
+        'u^2 - v^2'
         """
-        matrix = np.asarray(matrix, dtype=complex)
+        integral = np.asarray(matrix).dtype.kind in "iu" and (offset is None or np.asarray(offset).dtype.kind in "iu")
+        exact = self.is_exact and integral
+        matrix = np.asarray(matrix, dtype=np.int64 if exact else complex)
         if matrix.ndim != 2 or matrix.shape[0] != self.n_variables:
             raise InputError(f"matrix must have shape ({self.n_variables}, k), got {matrix.shape}")
         k = matrix.shape[1]
-        offset = np.zeros(self.n_variables, dtype=complex) if offset is None else np.asarray(offset, complex)
-        forms = [Polynomial.linear(matrix[j], offset[j]) for j in range(self.n_variables)]
+        if exact:  # integer weights keep exact coefficients exact (a singular point stays exactly singular)
+            offset = np.zeros(self.n_variables, dtype=np.int64) if offset is None else np.asarray(offset, np.int64)
+            forms = []
+            for j in range(self.n_variables):
+                form = Polynomial.constant(int(offset[j]), k)
+                for col in np.nonzero(matrix[j])[0]:
+                    form = form + Polynomial.variable(int(col), k) * int(matrix[j, col])
+                forms.append(form)
+        else:
+            offset = np.zeros(self.n_variables, dtype=complex) if offset is None else np.asarray(offset, complex)
+            forms = [Polynomial.linear(matrix[j], offset[j]) for j in range(self.n_variables)]
         cache = {}
 
         def form_power(j, e):
@@ -428,8 +446,9 @@ class Polynomial:
             return cache[(j, e)]
 
         result = Polynomial.zero(k)
-        for exponent_row, coefficient in zip(self.exponents, self.numeric_coefficients()):
-            term = Polynomial.constant(complex(coefficient), k)
+        for exponent_row, coefficient in zip(self.exponents, self.coefficients if exact else
+                                             self.numeric_coefficients()):
+            term = Polynomial.constant(coefficient if exact else complex(coefficient), k)
             for j in np.nonzero(exponent_row)[0]:
                 term = term.multiply(form_power(j, exponent_row[j]), limits)
             result = result + term

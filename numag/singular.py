@@ -43,11 +43,11 @@ import time
 import numpy as np
 
 from .cluster import cluster_labels, groups, normalize_projective
-from .decompose import DecomposeOptions, decompose, holding_equations, random_minor
+from .decompose import DecomposeOptions, components_through, decompose, holding_equations, random_minor
 from .evaluate import BatchEvaluator
 from .errors import InputError, PointError
 from .polynomial import Polynomial, PolynomialSystem, determinant
-from .refine import IsolationTest
+from .refine import IsolationTest, project_to_variety
 from .scaling import Scaling
 from .smoothness import CheckOptions, check_points
 from .solve import SolveOptions, solve_system
@@ -278,14 +278,49 @@ def _tangent_dimension(augmented, component, rng):
     return augmented.n_variables - rank
 
 
+def _membership_oracle(candidates, component, seed, lift=None):
+    """``contains(x)``: does the point x lie on this candidate component? (a homotopy membership test)
+
+    ``lift`` maps a point of x-space into the candidates' space (the null-vector system's (x, lambda));
+    it returns None when no lift exists (then the point is not on the component).
+    """
+    single = replace(candidates, components=[component])
+
+    def contains(x_point):
+        point = x_point if lift is None else lift(x_point)
+        return point is not None and bool(components_through(single, point, seed=seed))
+
+    return contains
+
+
+def _null_vector_lift(null_system, n):
+    """Lift x to (x, lambda) on the null-vector system: its equations are linear in lambda for fixed x."""
+    evaluator = BatchEvaluator(null_system.polynomials)
+    extra = null_system.n_variables - n
+
+    def lift(x_point):
+        start = np.concatenate([np.asarray(x_point, dtype=complex), np.zeros(extra, dtype=complex)])
+        values, jacobian = evaluator.evaluate(start[None, :])
+        lam = np.linalg.lstsq(jacobian[0][:, n:], -values[0], rcond=None)[0]
+        lifted = np.concatenate([start[:n], lam])
+        refined = project_to_variety(null_system, evaluator, lifted[None, :])
+        if not refined.converged[0]:
+            return None
+        return refined.points[0]
+
+    return lift
+
+
 def _projected_candidates(system, null_system, candidates, rng, options, paths):
-    """Project the components of the null-vector system to x: (dimension, x points) per component."""
+    """Project the components of the null-vector system to x: (dimension, x points, multiplicity, oracle)."""
     n = system.n_variables
     result = []
+    lift = _null_vector_lift(null_system, n)
     for component in candidates.components:
         x_points = component.points[:, :n]
+        oracle = _membership_oracle(candidates, component, int(rng.integers(2**31)), lift)
         if component.dimension == 0:
-            result.append((0, x_points[:1], component.multiplicity))
+            result.append((0, x_points[:1], component.multiplicity, None))
             continue
         codim = null_system.n_variables - component.dimension
         equations, _ = holding_equations(null_system, codim, component.points, rng)
@@ -296,7 +331,7 @@ def _projected_candidates(system, null_system, candidates, rng, options, paths):
         tangent = vh[rank:].conj().T  # kernel basis, (n + c) x dim
         projected = int(np.linalg.matrix_rank(tangent[:n], tol=1e-6)) if tangent.size else 0
         if projected == 0:
-            result.append((0, x_points[:1], None))
+            result.append((0, x_points[:1], None, None))
             continue
         # Degree of the projection: slices in x only (projected of them) and in lambda only (the rest).
         fibre = component.dimension - projected
@@ -316,7 +351,7 @@ def _projected_candidates(system, null_system, candidates, rng, options, paths):
             continue
         labels = cluster_labels(ends, 1e-6)
         distinct = np.array([ends[g[0]] for g in groups(labels)])
-        result.append((projected, distinct, None))
+        result.append((projected, distinct, None, oracle))
     return result
 
 
@@ -393,7 +428,7 @@ def _affine(system, options, rng, paths, discarded, progress, notes_out=None):
     variety = decompose(system, options.decompose, seed=int(rng.integers(2**32)), progress=progress)
     _add_counts(paths, variety.paths)
     n = system.n_variables
-    found = []
+    found, oracles = [], []  # the pieces kept, and for each positive-dimensional one its membership test
     codimensions = sorted({n - c.dimension for c in variety.components})
     check_options = CheckOptions(max_digits=options.digits)
     for codimension in codimensions:
@@ -422,16 +457,18 @@ def _affine(system, options, rng, paths, discarded, progress, notes_out=None):
         if kind == "null vector":
             projected = _projected_candidates(system, augmented, candidates, rng, options, paths)
         else:
-            projected = [(c.dimension, c.points, c.multiplicity if c.dimension == 0 else None)
+            projected = [(c.dimension, c.points, c.multiplicity if c.dimension == 0 else None,
+                          _membership_oracle(candidates, c, int(rng.integers(2**31))) if c.dimension else None)
                          for c in candidates.components]
             for c in candidates.components:  # cross-check the slicing dimension by the tangent space
                 if c.dimension > 0 and _tangent_dimension(augmented, c, rng) != c.dimension:
                     discarded["tangent_dimension_mismatch"] = discarded.get("tangent_dimension_mismatch", 0) + 1
-        for dimension, points, multiplicity in projected:
+        for dimension, points, multiplicity, oracle in projected:
             candidate = _Candidate(dimension, len(points), points)
             point = points[0]
-            if any(_already(found, candidate, point)):
-                discarded["duplicate"] = discarded.get("duplicate", 0) + 1
+            seen = _already(found, oracles, candidate, point)
+            if seen is not None:
+                discarded[seen] = discarded.get(seen, 0) + 1
                 continue
             verdict = _judge(system, point, check_options, int(rng.integers(2**31)), variety)
             if verdict is None:  # Newton cannot settle the point (a singular curve can make it drift)
@@ -456,6 +493,7 @@ def _affine(system, options, rng, paths, discarded, progress, notes_out=None):
                                            _real_flags(system, points), multiplicity, False, kind,
                                            kind_of, through, verdict.rank, verdict.codimension,
                                            notes + list(verdict.notes)))
+            oracles.append(oracle)
     return found, variety
 
 
@@ -477,14 +515,22 @@ class _Candidate:
     points: np.ndarray
 
 
-def _already(found, candidate, point):
-    """Is the candidate's witness point on a piece found before (same point, or same set and degree)?"""
-    for piece in found:
-        if piece.dimension == 0 and candidate.dimension == 0:
-            yield bool(np.linalg.norm(piece.points[0] - point) <= 1e-6 * (1 + np.linalg.norm(point)))
-        elif piece.dimension == candidate.dimension and piece.degree == candidate.degree:
-            yield bool(np.allclose(np.sort_complex(piece.points[:, 0]), np.sort_complex(candidate.points[:, 0]),
-                                   atol=1e-6))
+def _already(found, oracles, candidate, point):
+    """Why the candidate is not new (a key of ``discarded``), or None when it is.
+
+    The same point (isolated pieces, by distance); a positive-dimensional candidate whose
+    witness point lies on a piece of the same dimension found before (the same irreducible set:
+    a homotopy membership test on the whole point, never a comparison of one coordinate); or any
+    candidate lying on a larger piece found before.
+    """
+    for piece, contains in zip(found, oracles):
+        if piece.dimension == 0:
+            if candidate.dimension == 0 and np.linalg.norm(piece.points[0] - point) <= 1e-6 * (
+                    1 + np.linalg.norm(point)):
+                return "duplicate"
+        elif piece.dimension >= candidate.dimension and contains is not None and contains(point):
+            return "duplicate" if piece.dimension == candidate.dimension else "on_larger_singular_piece"
+    return None
 
 
 def _projective_gradient(system, rng, paths, discarded, progress):
@@ -516,10 +562,19 @@ def _projective_gradient(system, rng, paths, discarded, progress):
 
 
 def _chart(system, rng):
-    """A random real orthogonal change of coordinates X = Q Y; the affine system in the chart Y_0 = 1."""
+    """A random invertible change of coordinates X = Q Y with small integers; the system in the chart Y_0 = 1.
+
+    Integers keep exact equations exact: a floating-point change of coordinates perturbs the
+    coefficients by rounding, and a perturbed node is no longer singular (the check at higher
+    precision then rightly finds a smooth point of the perturbed system). Real entries keep real
+    points real; the condition number is kept moderate so that the chart does not distort scales.
+    """
     size = system.n_variables
-    q, _ = np.linalg.qr(rng.standard_normal((size, size)))
-    moved = [p.numeric().substitute_linear(q) for p in system.polynomials]
+    while True:
+        q = rng.integers(-3, 4, size=(size, size))
+        if abs(np.linalg.det(q)) >= 0.5 and np.linalg.cond(q) <= 20 * size:
+            break
+    moved = [p.substitute_linear(q) for p in system.polynomials]
     names = [f"y{j}" for j in range(1, size)]
     affine = PolynomialSystem(names, [p.dehomogenize(0) for p in moved], name=system.name)
     return affine, q
@@ -532,8 +587,8 @@ def _projective_chart(system, options, rng, paths, discarded, notes, progress):
         homogeneous = np.column_stack([np.ones(len(piece.points)), piece.points]) @ q.T
         piece.points = normalize_projective(homogeneous)
         piece.real = _real_flags(system, piece.points)
-    notes.append("Projective input: computed in a random affine chart (real orthogonal change of coordinates); "
-                 "points are homogeneous, divided by their largest coordinate.")
+    notes.append("Projective input: computed in a random affine chart (an invertible change of coordinates with "
+                 "small integers); points are homogeneous, divided by their largest coordinate.")
     return pieces, variety
 
 
@@ -552,6 +607,8 @@ def _at_infinity(system, rng, paths, progress):
             restricted.append(Polynomial(partial.exponents[keep][:, 1:], partial.coefficients[keep],
                                          system.n_variables))
     restricted = [p for p in restricted if not p.is_zero()]
+    if any(p.degree == 0 for p in restricted):  # a partial that is a nonzero constant there: no singular point
+        return []
     if not restricted:
         raise InputError("the closure is singular along the whole hyperplane at infinity")
     if system.n_variables == 1:

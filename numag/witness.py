@@ -423,6 +423,10 @@ def witness_supersets(system, options=None, seed=None, progress=None):
         f = slicing.homogeneous[index]
         if f.is_zero():
             continue
+        if f.degree == 0:  # a nonzero constant: no point satisfies it, X is empty in every dimension
+            current = {}
+            counts["constant_equation"] = 1
+            break
         before = used.copy()
         used.append(index)
         equations = [slicing.homogeneous[k] for k in used]
