@@ -23,8 +23,8 @@ from .decompose import DecomposeOptions, decompose
 from .certify import CertifyOptions
 from .compare import compare_system
 from .executor import make_executor, using
-from .report import (CAUTION, certify_report, check_report_to_dict, compare_to_dict, decomposition_to_dict, dumps,
-                     read_report, singular_to_dict, solve_report_to_dict, write_report)
+from .report import (CAUTION, certify_report, check_report_to_dict, compare_to_dict, completeness_warnings,
+                     decomposition_to_dict, dumps, read_report, singular_to_dict, solve_report_to_dict, write_report)
 from .singular import FORMULATIONS, SingularOptions, singular_locus
 from .smoothness import CheckOptions, check_points
 from .witness import WitnessOptions
@@ -268,6 +268,17 @@ def _certified(data, args):
     return certify_report(data, CertifyOptions(digits=args.digits), progress=_Messages(args.json))
 
 
+def _with_warnings(data):
+    """The report with its ``warnings`` (what the run may have missed; see completeness_warnings)."""
+    data["warnings"] = completeness_warnings(data)
+    return data
+
+
+def _print_warnings(data, out):
+    for warning in (data or {}).get("warnings", []):
+        out.write(f"\nwarning: {warning}\n")
+
+
 def _doubtful(data):
     """True when a certificate is undecided or refuted."""
     summary = data.get("certification")
@@ -364,7 +375,7 @@ class _Messages:
             sys.stderr.write(f"numag: {message} ({now:.0f} s)\n")
 
 
-def _print_decompose(result, out):
+def _print_decompose(result, out, data=None):
     system = result.system
     counts = result.paths
     out.write(f"numag decompose: {system.name or 'system'}: {system.n_equations} equation(s) in "
@@ -386,9 +397,7 @@ def _print_decompose(result, out):
                   f"{real} real witness point(s)\n")
         sample = c.points[int(np.argmax(c.real))] if len(c.real) else c.points[0]  # a real one if any
         out.write(f"        e.g. {_format_point(system.variables, sample)}\n")
-    if result.unconfirmed:
-        out.write(f"\nwarning: {len(result.unconfirmed)} group(s) not confirmed: raise --max-loops or change "
-                  "--seed\n")
+    _print_warnings(data, out)
     out.write(f"\n{CAUTION}\n")
 
 
@@ -441,6 +450,7 @@ def _print_singular(result, out, angles, data=None):
             out.write(f"  {c.id:4d}  {_format_point(homogeneous, c.points[0])}\n")
     for note in result.notes:
         out.write(f"\nnote: {note}\n")
+    _print_warnings(data, out)
     _print_certification(data, out)
     out.write(f"\n{CAUTION}\n")
 
@@ -456,13 +466,13 @@ def _run_singular(args, out):
         result = singular_locus(system, options, seed=args.seed, progress=_Messages(args.json))
         data = singular_to_dict(result, options)
         data["execution"] = executor.describe()
-    data = _certified(data, args)
+    data = _with_warnings(_certified(data, args))
     if args.json:
         out.write(dumps(data) + "\n")
     else:
         _print_singular(result, out, angles, data)
     undecided = any(c.kind == "undecided" for c in result.components)
-    return EXIT_UNDECIDED if undecided or _doubtful(data) else EXIT_OK
+    return EXIT_UNDECIDED if undecided or _doubtful(data) or data["warnings"] else EXIT_OK
 
 
 def _run_decompose(args, out):
@@ -474,13 +484,14 @@ def _run_decompose(args, out):
     with _stage_executor(args) as executor, using(executor):
         result = decompose(system, options, seed=args.seed, progress=_Messages(args.json))
         execution = executor.describe()
+    data = decomposition_to_dict(result, options)
+    data["execution"] = execution
+    data = _with_warnings(data)
     if args.json:
-        data = decomposition_to_dict(result, options)
-        data["execution"] = execution
         out.write(dumps(data) + "\n")
     else:
-        _print_decompose(result, out)
-    return EXIT_UNDECIDED if result.unconfirmed else EXIT_OK
+        _print_decompose(result, out, data)
+    return EXIT_UNDECIDED if data["warnings"] else EXIT_OK
 
 
 def _print_solve(result, out, data=None):
@@ -525,6 +536,7 @@ def _print_solve(result, out, data=None):
                   "sets (not counted as solutions):\n")
         for s in result.not_isolated:
             out.write(f"        paths {s.multiplicity}  {_format_point(names, s.point)}\n")
+    _print_warnings(data, out)
     _print_certification(data, out)
     out.write(f"\n{CAUTION}\n")
 
@@ -554,12 +566,12 @@ def _run_solve(args, out):
     execution = Execution(workers=args.workers, scheduler=args.scheduler, local_dask=args.local_dask,
                           run_folder=args.resume or args.run_folder, resume=bool(args.resume))
     result = solve_system(system, options, seed=seed, progress=_Progress(args.json), execution=execution)
-    data = _certified(solve_report_to_dict(result, options), args)
+    data = _with_warnings(_certified(solve_report_to_dict(result, options), args))
     if args.json:
         out.write(dumps(data) + "\n")
     else:
         _print_solve(result, out, data)
-    return EXIT_UNDECIDED if _doubtful(data) else EXIT_OK
+    return EXIT_UNDECIDED if _doubtful(data) or data["warnings"] else EXIT_OK
 
 
 def _print_compare(comparison, out):

@@ -155,6 +155,37 @@ def check_report_to_dict(report):
     }
 
 
+def completeness_warnings(data):
+    """What a report's run may have missed, one sentence each (empty when nothing).
+
+    Failed paths may have led to solutions, components or singular points; candidates that could
+    not be settled on X were neither kept nor refuted; groups the trace test did not confirm may
+    be parts of larger components. Each of these makes the command's exit code 3.
+
+    Examples
+    --------
+    >>> completeness_warnings({"paths": {"failed": 2, "failed_by_reason": {"minimum_step": 2}}})[0][:34]
+    '2 path(s) failed (minimum_step 2):'
+    """
+    warnings = []
+    paths = data.get("paths") or {}
+    failed = int(paths.get("failed", 0))
+    if failed:
+        reasons = ", ".join(f"{k} {v}" for k, v in (paths.get("failed_by_reason") or {}).items() if v)
+        warnings.append(f"{failed} path(s) failed ({reasons}): what they lead to (solutions, witness points, "
+                        "singular candidates) may be missing; run again with another --seed to compare.")
+    unsettled = int((data.get("discarded") or {}).get("not_settled_on_X", 0)) if isinstance(
+        data.get("discarded"), dict) else 0
+    if unsettled:
+        warnings.append(f"{unsettled} singular candidate(s) could not be settled on X (Newton refinement "
+                        "drifted): singular points there may be missing.")
+    unconfirmed = data.get("unconfirmed", 0)
+    if unconfirmed:
+        warnings.append(f"{unconfirmed} group(s) of witness points not confirmed by the trace test: they may be "
+                        "parts of larger components (raise --max-loops or change --seed).")
+    return warnings
+
+
 def _scaling_to_dict(scaling, system):
     return None if scaling is None else scaling.to_json(system.variables)
 
