@@ -13,7 +13,7 @@ Examples
 >>> from numag.parse import parse_system
 >>> comparison = compare_system(parse_system(["y^2 - x^3"], ["x", "y"]), seconds=60, seed=1)
 >>> comparison.verdict, [row.quantity for row in comparison.rows if row.agree][:3]
-('agree', ['dimension of X', 'degree of X', 'dimension of V(F, minors)'])
+('agree', ['dimension of X', 'degree of X', 'components of X (top dimension; degrees)'])
 """
 
 from dataclasses import dataclass, field
@@ -100,11 +100,13 @@ def numag_summary(locus):
         (top-dimensional part), ``points`` (array of the isolated points), ``undecided``.
     """
     system = locus.system
+    component_degrees = None
     if locus.variety is not None and locus.variety.components:
         dims = [c.dimension for c in locus.variety.components]
         top = max(dims)
         degree = sum(c.degree for c in locus.variety.components if c.dimension == top)
         equidimensional = len(set(dims)) == 1
+        component_degrees = sorted(c.degree for c in locus.variety.components if c.dimension == top)
     else:  # the gradient shortcut of projective hypersurfaces: X itself is not decomposed
         top = system.n_variables - 2
         degree = system.polynomials[0].degree
@@ -115,6 +117,7 @@ def numag_summary(locus):
     singular_dimension = max((c.dimension for c in compared), default=-1)
     points = [c.points[0] for c in compared if c.dimension == 0]
     summary = {"variety_dimension": top, "variety_degree": degree, "equidimensional": equidimensional,
+               "component_degrees": component_degrees,
                "singular_dimension": singular_dimension, "singular_points": None,
                "real_singular_points": None, "singular_degree": None,
                "points": np.array(points, dtype=complex).reshape(len(points), system.n_variables),
@@ -135,6 +138,46 @@ def _in_chart(points, chart):
     scale = points @ a
     with np.errstate(divide="ignore", invalid="ignore"):
         return points / scale[:, None]
+
+
+def _components_row(mine, exact):
+    """numag's top-dimensional component degrees against the reference's irreducible factors over Q.
+
+    Equal lists agree. Components over C refine those over Q (a factor irreducible over Q can
+    split into conjugate components over C), so numag may have more, grouped into the reference's
+    degrees; fewer, or degrees that cannot be so grouped, is a mismatch. A finer split that can be
+    grouped is undecided here (agree None): the reference cannot say whether the factor splits.
+
+    Examples
+    --------
+    >>> _components_row([3], [3]).agree, _components_row([1, 1, 1], [3]).agree, _components_row([3], [1, 2]).agree
+    (True, None, False)
+    """
+    if mine is None or exact is None:
+        return None
+    mine, exact = sorted(mine), sorted(exact)
+    agree = True if mine == exact else (None if len(mine) > len(exact) and _groups_into(mine, exact) else False)
+    return ComparisonRow("components of X (top dimension; degrees)", mine, exact, agree)
+
+
+def _groups_into(parts, totals):
+    """Can ``parts`` be split into groups whose sums are exactly ``totals``? (small lists: backtracking)"""
+    if sum(parts) != sum(totals):
+        return False
+    remaining = list(totals)
+
+    def place(k):
+        if k == len(parts):
+            return all(r == 0 for r in remaining)
+        for j in range(len(remaining)):
+            if remaining[j] >= parts[k]:
+                remaining[j] -= parts[k]
+                if place(k + 1):
+                    return True
+                remaining[j] += parts[k]
+        return False
+
+    return place(0)
 
 
 def compare_answers(system, locus, reference, numag_seconds, tolerance=1e-6):
@@ -162,6 +205,14 @@ def compare_answers(system, locus, reference, numag_seconds, tolerance=1e-6):
 
     row("dimension of X", ours["variety_dimension"], reference.variety_dimension)
     row("degree of X", ours["variety_degree"], reference.variety_degree)
+    notes = []
+    components = _components_row(ours["component_degrees"], reference.component_degrees)
+    if components is not None:
+        rows.append(components)
+        if components.agree is None:
+            notes.append("numag splits X into more components than the reference's irreducible factors over Q "
+                         f"({components.numag} against {components.exact}); the reference does not test "
+                         "irreducibility over C, so the finer split is neither confirmed nor refuted")
     row("dimension of V(F, minors)", ours["singular_dimension"], reference.singular_dimension)
     exact_dimension = reference.singular_dimension
     if exact_dimension is not None and exact_dimension <= 0 and ours["singular_dimension"] <= 0:
@@ -169,7 +220,6 @@ def compare_answers(system, locus, reference, numag_seconds, tolerance=1e-6):
         row("real singular points", ours["real_singular_points"], reference.real_singular_points)
     elif exact_dimension is not None and exact_dimension > 0:
         row("degree of the top-dimensional part", ours["singular_degree"], reference.singular_degree)
-    notes = []
     max_distance = digits = None
     if reference.points is not None and len(reference.points) and len(ours["points"]):
         mine = _in_chart(ours["points"], reference.chart) if system.projective else ours["points"]
@@ -192,7 +242,7 @@ def compare_answers(system, locus, reference, numag_seconds, tolerance=1e-6):
         notes.append(f"numag left {ours['undecided']} candidate(s) undecided")
     if any(r.agree is False for r in rows):
         verdict = "mismatch"
-    elif reference.status != "finished" or ours["undecided"]:
+    elif reference.status != "finished" or ours["undecided"] or (components is not None and components.agree is None):
         verdict = "incomplete"
         if reference.status != "finished":
             notes.append(f"reference {reference.status}: {reference.message}")

@@ -48,7 +48,8 @@ import time
 __all__ = ["ReferenceAnswer", "exact_reference", "system_to_plain", "REFERENCE_SCOPE"]
 
 #: What the reference compares (printed with every comparison).
-REFERENCE_SCOPE = ("exact reference (sympy Groebner bases): dimension and degree of X; V(F + all c x c minors of J) "
+REFERENCE_SCOPE = ("exact reference (sympy Groebner bases): dimension and degree of X and the degrees of its "
+                   "top-dimensional irreducible components over Q; V(F + all c x c minors of J) "
                    "with c the codimension of X -- its dimension, and when finite the distinct points (and "
                    "real ones, length with multiplicity, exact coordinates when sympy solves the basis), "
                    "otherwise the degree of its top-dimensional part. Affine input: affine points only. "
@@ -77,6 +78,9 @@ class ReferenceAnswer:
         When that set is finite.
     singular_degree : int or None
         Degree of its top-dimensional part when it is positive-dimensional.
+    component_degrees : list of int or None
+        Degrees of the irreducible components over Q of X's top-dimensional part (X of positive
+        dimension), ascending.
     points : list of list of complex or None
         Coordinates of the exact points (affine; projective input: in the chart a . x = 1).
     exact_points : list of list of str or None
@@ -98,6 +102,7 @@ class ReferenceAnswer:
     real_singular_points: object = None
     scheme_length: object = None
     singular_degree: object = None
+    component_degrees: object = None
     points: object = None
     exact_points: object = None
     chart: object = None
@@ -305,6 +310,45 @@ def _slice_degree(ideal, symbols, dimension, rng, sympy, attempts=2):
     return best
 
 
+def _top_components(equations, symbols, dimension, rng, sympy):
+    """Degrees of the irreducible components over Q of the top-dimensional part of V(equations).
+
+    One equation: its distinct irreducible factors over Q. Several: a random rational change of
+    coordinates, then elimination (lex Groebner basis) down to dimension + 1 coordinates; the
+    projection of each top-dimensional component is a hypersurface of the same degree (a generic
+    projection is birational onto its image), and the gcd of the elimination ideal's generators is
+    the product of their equations. Factors over Q only: a component defined over Q that splits
+    over C (x^2 + y^2) counts once here.
+    """
+    n = len(symbols)
+    if len(equations) == 1 or dimension == n - 1:
+        generators = equations
+        gcd = generators[0]
+        for g in generators[1:]:
+            gcd = sympy.gcd(gcd, g)
+        if len(equations) == 1 or sympy.Poly(gcd, *symbols).total_degree() > 0:
+            _, factors = sympy.factor_list(sympy.expand(gcd), *symbols)
+            return sorted(sympy.Poly(f, *symbols).total_degree() for f, _ in factors
+                          if sympy.Poly(f, *symbols).total_degree() > 0)
+    while True:  # a random invertible integer change of coordinates x = M z
+        matrix = sympy.Matrix([[int(rng.integers(-3, 4)) for _ in range(n)] for _ in range(n)])
+        if matrix.det() != 0:
+            break
+    new = sympy.symbols(f"z0:{n}")
+    substitution = {s: sum(matrix[i, j] * new[j] for j in range(n)) for i, s in enumerate(symbols)}
+    moved = [sympy.expand(f.subs(substitution, simultaneous=True)) for f in equations]
+    basis = sympy.groebner(moved, *new, order="lex", extension=True)
+    kept = new[n - dimension - 1:]
+    eliminated = [g for g in basis.exprs if not (g.free_symbols - set(kept))]
+    if not eliminated:
+        return None
+    gcd = eliminated[0]
+    for g in eliminated[1:]:
+        gcd = sympy.gcd(gcd, g)
+    _, factors = sympy.factor_list(sympy.expand(gcd), *kept)
+    return sorted(sympy.Poly(f, *kept).total_degree() for f, _ in factors if sympy.Poly(f, *kept).total_degree() > 0)
+
+
 def _child(text, seed, channel):
     """Runs in the child process; sends JSON messages (partial results first)."""
     import numpy as np
@@ -337,6 +381,10 @@ def _child(text, seed, channel):
         result["variety_degree"] = _slice_degree(equations + slicing, symbols, dimension, rng, sympy)
         result["compute_seconds"] = time.perf_counter() - clock
         channel.put(json.dumps({"partial": result}))
+        if dimension > 0:
+            result["component_degrees"] = _top_components(equations + slicing, symbols, dimension, rng, sympy)
+            result["compute_seconds"] = time.perf_counter() - clock
+            channel.put(json.dumps({"partial": result}))
         jacobian = sympy.Matrix([[sympy.diff(f, s) for s in symbols] for f in equations])
         minors = []
         if codimension >= 1:

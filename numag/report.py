@@ -696,6 +696,7 @@ def compare_to_dict(comparison):
         "reference": {"status": reference.status, "message": reference.message, "wall_seconds": reference.seconds,
                       "compute_seconds": reference.compute_seconds,
                       "variety_dimension": reference.variety_dimension, "variety_degree": reference.variety_degree,
+                      "component_degrees": reference.component_degrees,
                       "codimension": reference.codimension, "minors": reference.minors,
                       "singular_dimension": reference.singular_dimension,
                       "singular_points": reference.singular_points,
