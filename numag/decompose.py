@@ -32,6 +32,7 @@ Examples
 
 from dataclasses import dataclass, field, replace
 import itertools
+import math
 import time
 
 import networkx as nx
@@ -39,7 +40,7 @@ import numpy as np
 from scipy.spatial import cKDTree
 
 from .cluster import cluster_labels
-from .errors import InputError
+from .errors import InputError, LimitError
 from .evaluate import BatchEvaluator, TermSizes
 from .polynomial import combined_minor
 from .scaling import Scaling
@@ -201,10 +202,15 @@ def holding_equations(system, codimension, points, rng, threshold=1e-6, max_roun
         if low >= codimension:
             break
         deflated = True
-        for _ in range(codimension - low):
-            minor = random_minor(equations, low + 1, rng, n)
-            if not minor.is_zero():
-                equations.append(minor * (1.0 / minor.coefficient_norm()))
+        try:
+            for _ in range(codimension - low):
+                minor = random_minor(equations, low + 1, rng, n)
+                if not minor.is_zero():
+                    equations.append(minor * (1.0 / minor.coefficient_norm()))
+        except LimitError:
+            # The expanded minor is too large to build: stop deflating. Paths on the undeflated
+            # equations may fail; they are counted, and their groups reported as unconfirmed.
+            break
     return equations, deflated
 
 
@@ -409,11 +415,31 @@ def _decompose(system, options, seed, progress):
     components.sort(key=lambda c: (-c.dimension, -c.degree))
     for k, component in enumerate(components, 1):
         component.id = k
+    counts.update(_degree_checks(system, components))
     counts["tracked"] = counts.get("tracked", 0) + sum(move_counts.values())
     for label, value in move_counts.items():
         counts[label] = counts.get(label, 0) + value
     return Decomposition(system, components, supersets.dimensions_searched, counts, loops, seed,
                          time.perf_counter() - started)
+
+
+def _degree_checks(system, components):
+    """Bezout's theorem against the components found: ``{"degree_check_failed": 1}`` on a violation.
+
+    A hypersurface V(f) is pure: its components' degrees times multiplicities add up to deg f
+    exactly (fewer: a component was lost; more: one was counted twice). For several equations
+    the degrees of all irreducible components add up to at most d_1 ... d_m (the refined Bezout
+    theorem; Fulton, "Intersection Theory", Springer 1984, Example 8.4.6).
+    """
+    degrees = [p.degree for p in system.polynomials if not p.is_zero()]
+    if not degrees or min(degrees) < 1 or not components:
+        return {}
+    if len(degrees) == 1:
+        top = system.n_variables - 1
+        violated = sum(c.degree * c.multiplicity for c in components if c.dimension == top) != degrees[0]
+    else:
+        violated = sum(c.degree for c in components) > math.prod(degrees)
+    return {"degree_check_failed": 1} if violated else {}
 
 
 def components_through(decomposition, point, seed=0, options=None):

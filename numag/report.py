@@ -179,6 +179,11 @@ def completeness_warnings(data):
     if unsettled:
         warnings.append(f"{unsettled} singular candidate(s) could not be settled on X (Newton refinement "
                         "drifted): singular points there may be missing.")
+    paths_block = data.get("paths") or {}
+    if int((paths_block.get("endpoints") or {}).get("degree_check_failed", 0)):
+        warnings.append("The components' degrees times multiplicities do not add up as Bezout's theorem requires "
+                        "for the dimension of a complete intersection: a component may be missing or counted "
+                        "twice.")
     unconfirmed = data.get("unconfirmed", 0)
     if unconfirmed:
         warnings.append(f"{unconfirmed} group(s) of witness points not confirmed by the trace test: they may be "
@@ -312,7 +317,8 @@ def solve_report_from_dict(data):
 
 # --- decompose -----------------------------------------------------------------------------------
 
-_ENDPOINT_KEYS = ("not_on_X", "at_infinity_or_failed", "on_larger_component", "membership_paths")
+_ENDPOINT_KEYS = ("not_on_X", "at_infinity_or_failed", "on_larger_component", "membership_paths",
+                  "degree_check_failed")
 
 
 def decomposition_path_counts(counts):

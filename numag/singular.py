@@ -417,6 +417,15 @@ def _singular_locus(system, options, seed, progress):
     components.sort(key=lambda c: (c.at_infinity, -c.dimension, -c.degree))
     for k, component in enumerate(components, 1):
         component.id = k
+    if system.n_equations == 1 and system.polynomials[0].degree >= 2:
+        # The gradient of a degree-d hypersurface has at most (d - 1)^n isolated zeros (Bezout), so no
+        # more singular points can exist; more found means one was counted twice.
+        isolated = sum(1 for c in components if c.dimension == 0 and not c.at_infinity)
+        bound = (system.polynomials[0].degree - 1) ** system.ambient_dimension
+        if isolated > bound:
+            paths["degree_check_failed"] = paths.get("degree_check_failed", 0) + 1
+            notes.append(f"{isolated} isolated singular points found, more than the (d - 1)^n = {bound} a "
+                         "hypersurface of this degree can have: some point was counted twice.")
     return SingularLocus(system, components, variety, paths, discarded, seed, time.perf_counter() - started, notes)
 
 
