@@ -63,3 +63,41 @@ def test_tolerance_is_relative_to_the_size_of_the_points():
 def test_empty_input():
     assert cluster_labels(np.zeros((0, 2)), 1e-6).shape == (0,)
     assert groups(np.zeros(0, dtype=int)) == []
+
+
+def test_one_huge_point_does_not_make_the_search_all_pairs():
+    # The neighbour search uses each point's own radius: with one point of norm 1e12 among 2,000
+    # well separated ones, only the points themselves are found (a radius from the largest norm
+    # would have put every pair within reach). Common practice, no source.
+    from numag.cluster import _pairs_within
+    rng = np.random.default_rng(3)
+    points = rng.standard_normal((2000, 2))
+    points[0] = [1e12, 0.0]
+    norms = np.linalg.norm(points, axis=1)
+    assert len(_pairs_within(points, 1e-6 * (1 + norms))) == 0
+    assert len(set(cluster_labels(points, 1e-6).tolist())) == 2000
+
+
+def test_projective_points_are_compared_as_lines_not_by_normalisation():
+    # One projective point whose two largest coordinates differ in the 13th digit, normalised by
+    # either of them: the same line, one group; a different line stays apart (common practice, no source).
+    rng = np.random.default_rng(11)
+    base = np.array([1.0, 1.0 + 1e-13, 0.3 - 0.2j])
+    other = np.array([1.0, -1.0, 0.5j])
+    points = np.array([base / base[0], base / base[1], 2j * base, other / other[1]])
+    points = points[rng.permutation(4)]
+    labels = cluster_labels(points, 1e-6, projective=True)
+    assert len(set(labels.tolist())) == 2
+
+
+def test_line_distance_ignores_scale_and_phase():
+    # |a/|a| - e^(i phi) b/|b|| at the best phase: 0 for multiples, about the angle otherwise
+    # (common practice, no source)
+    from numag.cluster import line_distance
+    a = np.array([[1.0, 2.0 - 1j, 0.5]])
+    assert line_distance(a, (3 - 4j) * a)[0] < 1e-15
+    push = np.array([[0.0, 0.0, 1e-7]])
+    across = push - (np.vdot(a[0], push[0]) / np.vdot(a[0], a[0])) * a  # the part orthogonal to a
+    tilted = a + push
+    angle = np.linalg.norm(across) / np.linalg.norm(a)
+    assert abs(line_distance(a, tilted)[0] - angle) < 1e-3 * angle
