@@ -22,8 +22,8 @@ Pipeline:
 4. **Projective hypersurfaces** take the shortcut of the gradient system: the
    n + 1 partials (Euler's formula makes F = 0 automatic), solved as a square
    system after random combination. Other projective systems are moved to a
-   random affine chart (a random real orthogonal change of coordinates keeps
-   real points real) and mapped back.
+   random affine chart (an invertible change of coordinates with small integers
+   keeps exact equations exact and real points real) and mapped back.
 5. **At infinity** (affine hypersurfaces): the singular points of the closure
    V(F^h) with X_0 = 0 are reported apart, in homogeneous coordinates.
 
