@@ -45,7 +45,7 @@ import numpy as np
 from .cluster import cluster_labels, groups, normalize_projective
 from .decompose import DecomposeOptions, components_through, decompose, holding_equations, random_minor
 from .evaluate import BatchEvaluator
-from .errors import InputError, PointError
+from .errors import InputError, LimitError, PointError
 from .polynomial import Polynomial, PolynomialSystem, determinant
 from .refine import IsolationTest, project_to_variety
 from .scaling import Scaling
@@ -449,10 +449,15 @@ def _affine(system, options, rng, paths, discarded, progress, notes_out=None):
             formulation = "minors" if exact or (_estimated_paths(system, variety, codimension, "minors")
                                                 <= _estimated_paths(system, variety, codimension, "null")) \
                 else "null vector"
-        if formulation == "null vector":
+        augmented = None
+        if formulation != "null vector":
+            try:
+                augmented, kind = minors_system(system, codimension, rng, options.max_exact_minors)
+            except LimitError as err:  # the expanded minors are too large: the null-vector form has no minors
+                notes_out.append(f"codimension {codimension}: the minors are too large to expand ({err}); the "
+                                 "null-vector formulation was used instead.")
+        if augmented is None:
             augmented, kind = null_vector_system(system, codimension, rng), "null vector"
-        else:
-            augmented, kind = minors_system(system, codimension, rng, options.max_exact_minors)
         if progress is not None:
             progress(f"codimension {codimension}: decomposing the {kind} system ({augmented.n_equations} equations "
                      f"in {augmented.n_variables} unknowns)")
