@@ -29,6 +29,7 @@ from .singular import FORMULATIONS, SingularOptions, singular_locus
 from .smoothness import CheckOptions, check_points
 from .witness import WitnessOptions
 from .solve import Execution, SolveOptions, solve_system
+from .tracker import FAILURE_LABELS
 
 __all__ = ["main", "build_parser", "EXIT_OK", "EXIT_INTERNAL", "EXIT_INPUT", "EXIT_UNDECIDED", "EXIT_MISMATCH"]
 
@@ -382,8 +383,7 @@ def _print_decompose(result, out, data=None):
               f"{system.n_variables} variables, seed {result.seed}\n")
     searched = result.dimensions_searched
     out.write(f"dimensions searched: {searched[0]} down to {searched[-1]}\n")
-    failed = sum(counts.get(label, 0) for label in ("minimum_step", "step_limit", "non_finite",
-                                                     "endgame_unsettled"))
+    failed = sum(counts.get(label, 0) for label in FAILURE_LABELS)
     out.write(f"paths: {counts.get('tracked', 0)} tracked, {failed} failed; endpoints not on X "
               f"{counts.get('not_on_X', 0)}, at infinity or lost {counts.get('at_infinity_or_failed', 0)}, "
               f"on a larger component (removed) {counts.get('on_larger_component', 0)}; "
@@ -420,8 +420,7 @@ def _print_singular(result, out, angles, data=None):
         parts = ", ".join(f"dimension {c.dimension} degree {c.degree}" for c in result.variety.components)
         out.write(f"X: {len(result.variety.components)} component(s): {parts or 'empty'}\n")
     counts = result.paths
-    failed = sum(counts.get(label, 0) for label in ("minimum_step", "step_limit", "non_finite",
-                                                     "endgame_unsettled"))
+    failed = sum(counts.get(label, 0) for label in FAILURE_LABELS)
     dropped = ", ".join(f"{k.replace('_', ' ')} {v}" for k, v in result.discarded.items()) or "none"
     out.write(f"paths: {counts.get('tracked', 0)} tracked, {failed} failed; candidates dropped: {dropped}; "
               f"{result.seconds:.2f} s\n")

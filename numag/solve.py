@@ -451,9 +451,15 @@ def _run(system, homotopy, start_points, total, options, rng, seed, progress, st
     description.update(batches=len(batches), batches_resumed=len(finished), batch_size=options.batch_size,
                        run_folder=None if folder is None else str(folder.path))
     cautious = options.tracker
-    for _ in range(3):
+    for round_ in range(4):
         crossed = _crossed_paths(system, endpoints, status, options)
         if len(crossed) == 0:
+            break
+        if round_ == 3:  # still sharing an endpoint: one path each keeps it, the others count as failed
+            labels = cluster_labels(_finite_points(system, endpoints, crossed), options.cluster_tolerance,
+                                    projective=system.projective)
+            for members in groups(labels):
+                status[crossed[members[1:]]] = PathStatus.FAILED_JUMP
             break
         # Two paths at one regular solution means a path jumped: track those again, more cautiously
         # each time (smaller steps, three full Newton corrections: a smaller basin to jump into). The

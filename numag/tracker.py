@@ -62,6 +62,7 @@ class PathStatus(enum.IntEnum):
     FAILED_NONFINITE = 6
     FAILED_ENDGAME = 7
     FAILED_BATCH = 8
+    FAILED_JUMP = 9
 
     @property
     def failed(self):
@@ -89,6 +90,7 @@ _LABELS = {
     PathStatus.FAILED_NONFINITE: "non_finite",
     PathStatus.FAILED_ENDGAME: "endgame_unsettled",
     PathStatus.FAILED_BATCH: "batch_failed",
+    PathStatus.FAILED_JUMP: "jumped",
 }
 _MESSAGES = {
     PathStatus.RUNNING: "still being tracked",
@@ -100,6 +102,7 @@ _MESSAGES = {
     PathStatus.FAILED_NONFINITE: "failed: non-finite values (overflow or a singular linear system)",
     PathStatus.FAILED_ENDGAME: "failed: the endgame estimates did not settle",
     PathStatus.FAILED_BATCH: "failed: its batch failed twice on a worker (error in the report); not tracked",
+    PathStatus.FAILED_JUMP: "failed: it kept ending where another path ends (a path jump repair could not undo)",
 }
 #: Labels of the failure reasons, in order.
 FAILURE_LABELS = [s.label for s in PathStatus if s.failed]

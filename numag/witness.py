@@ -289,28 +289,50 @@ def track_moves(start, target, points, rng, options, counts, batch_size=4096):
 
     run(np.arange(count), options)
     cautious = options
-    for round_ in range(4):
-        # Two paths at one regular endpoint: one of them jumped (a regular solution has one path).
-        regular = np.nonzero((status == PathStatus.CONVERGED) & np.all(np.isfinite(affine), axis=1))[0]
-        if len(regular) < 2:
-            break
-        labels = cluster_labels(affine[regular], 1e-6)
-        crossed = regular[np.bincount(labels)[labels] > 1]
+    for round_ in range(_JUMP_ROUNDS + 1):
+        crossed = _crossed(affine, status)
         if len(crossed) == 0:
             break
+        if round_ == _JUMP_ROUNDS:
+            # Still two paths at one regular endpoint: the endpoint is real, the other path's own
+            # endpoint is missing. Count the extra paths of each group as failed (never merge silently).
+            _mark_jumped(affine, status, crossed)
+            break
         counts["retracked_after_jump"] = counts.get("retracked_after_jump", 0) + len(crossed)
-        if round_ < 2:  # again with smaller steps, on the same homotopy (the pairing of starts and ends holds)
+        if round_ == _FRESH_GAMMA_ROUND:  # the paths nearly meet for this gamma: all again with another (a new pairing)
+            homotopy, starts = homotopy_with_fresh_gamma()
+            run(np.arange(count), cautious)
+        else:  # again with smaller steps, on the same homotopy (the pairing of starts and ends holds)
             cautious = replace(cautious, max_step=cautious.max_step / 10,
                                predictor_error=cautious.predictor_error / 100, max_steps=cautious.max_steps * 5,
                                corrector_iterations=3, chord_corrector=False)
             run(crossed, cautious)
-        else:  # the paths nearly meet for this gamma: every path again with another gamma (a new pairing)
-            homotopy, starts = homotopy_with_fresh_gamma()
-            run(np.arange(count), cautious)
     for code in PathStatus:
         if code != PathStatus.RUNNING:
             counts[code.label] = counts.get(code.label, 0) + int(np.sum(status == code))
     return affine, status, winding
+
+
+#: Rounds of repair of jumped paths in a move, and the round that tries a fresh gamma for every path.
+_JUMP_ROUNDS, _FRESH_GAMMA_ROUND = 5, 2
+
+
+def _crossed(affine, status):
+    """Paths that share a regular endpoint with another path (a regular solution has one path)."""
+    regular = np.nonzero((status == PathStatus.CONVERGED) & np.all(np.isfinite(affine), axis=1))[0]
+    if len(regular) < 2:
+        return np.zeros(0, dtype=np.int64)
+    labels = cluster_labels(affine[regular], 1e-6)
+    return regular[np.bincount(labels)[labels] > 1]
+
+
+def _mark_jumped(affine, status, crossed):
+    """Keep one path of each group of paths sharing a regular endpoint; mark the others as jumped (failed)."""
+    labels = cluster_labels(affine[crossed], 1e-6)
+    for members in groups(labels):
+        extra = crossed[members[1:]]
+        status[extra] = PathStatus.FAILED_JUMP
+        affine[extra] = np.nan
 
 
 def scaled_residual(evaluator, sizes, points):
