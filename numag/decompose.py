@@ -68,7 +68,7 @@ class DecomposeOptions:
     witness: WitnessOptions = WitnessOptions()
     max_loops: int = 60
     stall_loops: int = 6
-    trace_tolerance: float = 1e-6
+    trace_tolerance: float = 1e-10
 
 
 @dataclass
@@ -390,18 +390,31 @@ def _decompose(system, options, seed, progress):
         codimension = n - witness.dimension
         if progress is not None:
             progress(f"dimension {witness.dimension}: splitting {len(witness.points)} witness points")
-        if witness.dimension == 0:
-            groups = [([k], True, 0.0) for k in range(len(witness.points))]
-            deflated_reduced = None
-        else:
-            mover = _Mover(system, codimension, witness.points, witness.slice_rows, rng, options, move_counts)
-            run = []
-            groups = _split(mover, witness.points, rng, options, run)
-            loops[witness.dimension] = run[0] if run else 0
         evaluator = BatchEvaluator([p.numeric() for p in system.polynomials])
         ranks = jacobian_rank(evaluator, TermSizes(system.polynomials), witness.points,
                               options.witness.rank_threshold)
-        for group, confirmed, defect in groups:
+        groups, movers = [], []
+        if witness.dimension == 0:
+            groups = [([k], True, 0.0) for k in range(len(witness.points))]
+            movers = [None] * len(groups)
+        else:
+            # The rank of J and the number of paths are the same at every generic point of a
+            # component, so witness points that differ in either lie on different components. Each
+            # such class is split on its own, with equations deflated for it alone: a double line's
+            # deflation minors do not vanish on a reduced curve beside it, whose moves then failed.
+            run = 0
+            signature = ranks * (int(witness.multiplicity.max()) + 1) + witness.multiplicity
+            for value in np.unique(signature):
+                members = np.nonzero(signature == value)[0]
+                mover = _Mover(system, codimension, witness.points[members], witness.slice_rows, rng, options,
+                               move_counts)
+                counted = []
+                for group, confirmed, defect in _split(mover, witness.points[members], rng, options, counted):
+                    groups.append((members[group].tolist(), confirmed, defect))
+                    movers.append(mover)
+                run += counted[0] if counted else 0
+            loops[witness.dimension] = run
+        for (group, confirmed, defect), mover in zip(groups, movers):
             points, rows = witness.points[group], witness.slice_rows.copy()
             real = np.zeros(len(group), dtype=bool)
             if real_coefficients:
