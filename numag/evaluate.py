@@ -258,10 +258,18 @@ class TermSizes:
     coordinate). A bound by the coefficient norm times ||(1, x)||^d instead over-states
     terms by up to sqrt(n + 1)^d: 1e15 for x^100 - 1 at a root of unity.
 
+    Homogenised affine equations (``homogenized``: X_0 the homogenising coordinate, first) use
+    the affine rule in the chart X_0 = 1: rho_0 = |X_0| and rho_j = max(|X_j|, |X_0|) (with a
+    floor of 1e-8 max_k |X_k| so that points at infinity keep their terms). Treating every
+    coordinate as the largest one over-states terms in the small ones: a homotopy then accepted
+    an endpoint 7e-3 away from a solution as "on the target".
+
     Parameters
     ----------
     polynomials : sequence of Polynomial
     projective : bool, default False
+    homogenized : bool, default False
+        The polynomials are homogenised affine equations, X_0 first (implies projective).
 
     Examples
     --------
@@ -275,13 +283,17 @@ class TermSizes:
     array([[100.   ,   2.236]])
     """
 
-    def __init__(self, polynomials, projective=False):
-        self.projective = bool(projective)
+    def __init__(self, polynomials, projective=False, homogenized=False):
+        self.projective = bool(projective) or bool(homogenized)
+        self.homogenized = bool(homogenized)
         self._evaluator = BatchEvaluator([p.absolute() for p in polynomials])
 
     def reference(self, points):
         """The point rho at which the terms are sized, shape (P, n)."""
         moduli = np.abs(np.atleast_2d(points))
+        if self.homogenized:
+            floor = np.maximum(moduli[:, :1], _HOMOGENIZED_FLOOR * moduli.max(axis=1, keepdims=True))
+            return np.maximum(moduli, floor)
         if self.projective:
             return np.broadcast_to(moduli.max(axis=1, keepdims=True), moduli.shape).copy()
         return np.maximum(moduli, 1.0)
@@ -298,6 +310,10 @@ class TermSizes:
     def gradients(self, points):
         """Size of each Jacobian row's terms at each point (2-norm over the variables), shape (P, m)."""
         return self.both(points)[1]
+
+
+#: Smallest rho_k of a homogenised point, relative to its largest coordinate.
+_HOMOGENIZED_FLOOR = 1e-8
 
 
 def _positive(sizes):

@@ -132,9 +132,12 @@ class StraightLineHomotopy(_PatchedHomotopy):
     start : start system object (see :class:`TotalDegreeStart`)
     patch : ndarray, shape (n + 1,)
     gamma : complex
+    homogenized : bool, default True
+        The target is homogenised affine equations (X_0 the homogenising coordinate): residuals
+        and row scales size the terms in the chart X_0 = 1 (see :class:`~numag.evaluate.TermSizes`).
     """
 
-    def __init__(self, target, start, patch, gamma):
+    def __init__(self, target, start, patch, gamma, homogenized=True):
         self.target = list(target)
         self.start = start
         self.patch = np.asarray(patch, dtype=complex)
@@ -146,7 +149,7 @@ class StraightLineHomotopy(_PatchedHomotopy):
         self.evaluations = 0
         self.value_evaluations = 0
         self._precise = None
-        self._sizes = TermSizes(self.target, projective=True)
+        self._sizes = TermSizes(self.target, projective=True, homogenized=homogenized)
 
     @classmethod
     def total_degree(cls, system, rng):
@@ -162,7 +165,8 @@ class StraightLineHomotopy(_PatchedHomotopy):
             target = [p.numeric().homogenize(0).scaled(1.0 / p.coefficient_norm()) for p in system.polynomials]
         size = len(target) + 1
         patch = (rng.standard_normal(size) + 1j * rng.standard_normal(size)) / np.sqrt(2 * size)
-        return cls(target, TotalDegreeStart(system.degrees), patch, random_unit_complex(rng))
+        return cls(target, TotalDegreeStart(system.degrees), patch, random_unit_complex(rng),
+                   homogenized=not system.projective)
 
     def start_solutions(self, path_indices=None):
         """Start solutions scaled onto the patch."""
@@ -245,6 +249,8 @@ class ParameterHomotopy(_PatchedHomotopy):
         Homogeneous polynomials in the same n + 1 variables (homogenising coordinate first).
     patch : ndarray, shape (n + 1,)
     gamma : complex
+    homogenized : bool, default True
+        As for :class:`StraightLineHomotopy`.
 
     Examples
     --------
@@ -257,7 +263,7 @@ class ParameterHomotopy(_PatchedHomotopy):
     (2, 2)
     """
 
-    def __init__(self, start, target, patch, gamma):
+    def __init__(self, start, target, patch, gamma, homogenized=True):
         self.start_polynomials = list(start)
         self.target = list(target)
         self.patch = np.asarray(patch, dtype=complex)
@@ -275,7 +281,7 @@ class ParameterHomotopy(_PatchedHomotopy):
         self.value_evaluations = 0
         self._precise = None
         self._precise_start = None
-        self._sizes = TermSizes(self.target, projective=True)
+        self._sizes = TermSizes(self.target, projective=True, homogenized=homogenized)
 
     @classmethod
     def from_systems(cls, start_system, target_system, rng):
@@ -299,7 +305,7 @@ class ParameterHomotopy(_PatchedHomotopy):
                                  "target; a parameter homotopy needs the same degrees")
         size = len(target) + 1
         patch = (rng.standard_normal(size) + 1j * rng.standard_normal(size)) / np.sqrt(2 * size)
-        return cls(start, target, patch, random_unit_complex(rng))
+        return cls(start, target, patch, random_unit_complex(rng), homogenized=not target_system.projective)
 
     def start_solutions_from(self, points, projective=False):
         """Known solutions of the start system (affine, or homogeneous when ``projective``) on the patch."""

@@ -31,6 +31,9 @@ from .polynomial import Polynomial, PolynomialSystem
 
 __all__ = ["ProjectionResult", "project_to_variety", "mp_gauss_newton", "RankDropSystem", "IsolationTest"]
 
+#: Step fractions a precision Gauss-Newton step tries before it stops for lack of progress.
+_DAMPING = (1.0, 0.5, 0.25, 0.125, 1 / 16, 1 / 32)
+
 
 @dataclass
 class ProjectionResult:
@@ -175,10 +178,15 @@ def mp_gauss_newton(function, start, ctx, tolerance, max_iterations=80, anchored
             step = mp_least_squares(matrix, rhs, ctx, rcond=rcond)
         else:
             step = mp_least_squares(jacobian, residual, ctx, rcond=rcond)
-        trial = current - step
-        trial_residual, trial_jacobian = function(trial)
-        trial_norm = ctx.norm(trial_residual)
-        if not trial_norm < norm:  # no progress (this also rejects non-finite values)
+        # Near a multiple solution the Jacobian is nearly rank deficient and a full step can
+        # overshoot (a tacnode's rank-drop system stalled 2.6e-7 away): halve it before giving up.
+        for damping in _DAMPING:
+            trial = current - step * damping
+            trial_residual, trial_jacobian = function(trial)
+            trial_norm = ctx.norm(trial_residual)
+            if trial_norm < norm:  # progress (this also rejects non-finite values)
+                break
+        else:
             break
         current, residual, jacobian, norm = trial, trial_residual, trial_jacobian, trial_norm
         if ctx.norm(step) <= ctx.eps * (1 + ctx.norm(current)):

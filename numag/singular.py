@@ -502,8 +502,12 @@ def _affine(system, options, rng, paths, discarded, progress, notes_out=None):
                                  "whether the variety is singular here.")
                     kind_of = "undecided"
             points = candidate.points
-            if candidate.dimension == 0 and verdict.distance <= 1e-6 * (1 + np.linalg.norm(point)):
+            if candidate.dimension == 0 and np.linalg.norm(verdict.point - point) <= _CANDIDATE_TOLERANCE * (
+                    1 + np.linalg.norm(point)):
                 points = np.asarray(verdict.point, dtype=complex)[None, :]  # refined at higher precision
+                if _already(found, oracles, candidate, points[0]) is not None:  # two candidates, one point
+                    discarded["duplicate"] = discarded.get("duplicate", 0) + 1
+                    continue
             found.append(SingularComponent(0, candidate.dimension, candidate.degree, points,
                                            _real_flags(system, points), multiplicity, False, kind,
                                            kind_of, through, verdict.rank, verdict.codimension,
@@ -513,14 +517,31 @@ def _affine(system, options, rng, paths, discarded, progress, notes_out=None):
 
 
 def _judge(system, point, options, seed, variety):
-    """The check's verdict at a candidate; a looser point tolerance when refinement drifts; None if it fails."""
-    for tolerance in (options.point_tolerance, 1e-3):
+    """The check's verdict at a candidate; None if the candidate cannot be settled on X.
+
+    A looser point tolerance is tried when refinement drifts. A candidate is an approximation of a
+    singular point whose accuracy the endgame limits (1e-4 at a tacnode, where three paths meet):
+    when the check finds the rank dropping within 1e-3 of it, the verdict is taken at that point.
+    """
+    for tolerance in (options.point_tolerance, _CANDIDATE_TOLERANCE):
         try:
-            return check_points(system, [point], replace(options, point_tolerance=tolerance), seed=seed,
-                                decomposition=variety).points[0]
+            verdict = check_points(system, [point], replace(options, point_tolerance=tolerance), seed=seed,
+                                   decomposition=variety).points[0]
         except PointError:
             continue
+        drop = verdict.nearest_rank_drop
+        if (verdict.verdict == "smooth" and drop is not None
+                and verdict.nearest_rank_drop_distance <= _CANDIDATE_TOLERANCE * (1 + np.linalg.norm(point))):
+            try:
+                return check_points(system, [drop], options, seed=seed, decomposition=variety).points[0]
+            except PointError:
+                return verdict
+        return verdict
     return None
+
+
+#: How far (relative) a singular candidate may lie from the singular point it approximates.
+_CANDIDATE_TOLERANCE = 1e-3
 
 
 @dataclass
