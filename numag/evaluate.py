@@ -28,6 +28,7 @@ array([[2., 4.],
 import numpy as np
 
 from .errors import InputError
+from .executor import check_memory
 
 __all__ = ["BatchEvaluator", "PrecisionEvaluator"]
 
@@ -80,6 +81,9 @@ class BatchEvaluator:
         self.monomials, inverse = np.unique(all_exponents, axis=0, return_inverse=True)
         inverse = inverse.reshape(-1)
         n_rows, n_monomials = self.n_equations * (n + 1), len(self.monomials)
+        # dense (F, J) coefficient table and its transposed copy: refused before allocating when too large
+        check_memory(2 * 16 * (n_rows + spare_columns) * n_monomials,
+                     f"the evaluation table of {self.n_equations} equations in {n} variables")
         matrix = np.zeros((n_rows, n_monomials), dtype=complex)
         start = 0
         for row, exponents, coefficients in rows:

@@ -29,7 +29,8 @@ import numpy as np
 from .errors import InputError, LimitError
 from .exact import ExactCoefficient
 
-__all__ = ["Limits", "DEFAULT_LIMITS", "Polynomial", "PolynomialSystem", "RESERVED_NAMES", "determinant"]
+__all__ = ["Limits", "DEFAULT_LIMITS", "Polynomial", "PolynomialSystem", "RESERVED_NAMES", "determinant",
+           "prepared_for_numerics", "MAX_COEFFICIENT_SPREAD"]
 
 #: Names the grammar reserves; no variable may use them.
 RESERVED_NAMES = frozenset({"I", "sqrt"})
@@ -290,6 +291,12 @@ class Polynomial:
             product = _from_gaussian(_gaussian_product(integral_a, integral_b), self.n_variables)
         else:
             ca, cb = self._pair_coefficients(self, other)
+            if ca.dtype == object:  # square roots: each coefficient product costs (terms a) x (terms b)
+                work = pairs * max(len(c.parts) for c in ca) * max(len(c.parts) for c in cb)
+                if work > limits.max_term_products:
+                    raise LimitError(f"a product of {self.n_terms} by {other.n_terms} terms with square roots "
+                                     f"is {work} exact multiplications, over the limit of "
+                                     f"{limits.max_term_products}", "max_term_products", limits.max_term_products)
             coefficients = np.multiply.outer(ca, cb).reshape(-1)
             product = Polynomial(exponents, coefficients, self.n_variables)
         if product.n_terms > limits.max_terms:
@@ -681,6 +688,82 @@ class PolynomialSystem:
         kind = "projective" if self.projective else "affine"
         return (f"PolynomialSystem({self.n_equations} equations in {self.variables}, {kind}, "
                 f"degrees {self.degrees})")
+
+
+#: Orders of magnitude that the coefficients of one equation may span in numerical work: after an
+#: exact rescaling by a power of ten they lie within 10^-100 .. 10^100, so squares and products of a
+#: few of them stay inside the double range (about 10^-308 .. 10^308).
+MAX_COEFFICIENT_SPREAD = 200
+
+
+def _log10_size(coefficient):
+    """log10 of |coefficient| without overflow (exact coefficients may be far beyond double range)."""
+    if isinstance(coefficient, ExactCoefficient):
+        import mpmath  # mpmath numbers have unbounded exponents
+        with mpmath.mp.workdps(15):
+            return float(mpmath.log10(abs(coefficient.to_context(mpmath.mp))))
+    return math.log10(abs(complex(coefficient)))
+
+
+def prepared_for_numerics(system):
+    """The system as numerical work needs it, and notes saying what was changed.
+
+    A zero equation (it holds everywhere) is dropped. An equation whose coefficients
+    lie outside 10^-100 .. 10^100 is divided exactly by a power of ten (its zeros
+    are unchanged); when they span more than :data:`MAX_COEFFICIENT_SPREAD` orders
+    of magnitude no double-precision computation can use them and the equation is
+    refused, naming the coefficient.
+
+    Parameters
+    ----------
+    system : PolynomialSystem
+
+    Returns
+    -------
+    (PolynomialSystem, list of str)
+        The system (the same object when nothing changed) and the notes.
+
+    Raises
+    ------
+    InputError
+        When every equation is zero, or an equation's coefficients are beyond double precision.
+
+    Examples
+    --------
+    >>> from numag.parse import parse_system
+    >>> prepared, notes = prepared_for_numerics(parse_system(["x - x", "1e400*y^2 - 1e400"], ["x", "y"]))
+    >>> prepared.to_texts(), notes[0]
+    (['y^2 - 1'], 'equation 1 is zero (it holds everywhere) and was dropped')
+    """
+    kept, notes = [], []
+    for number, polynomial in enumerate(system.polynomials, 1):
+        if polynomial.is_zero():
+            notes.append(f"equation {number} is zero (it holds everywhere) and was dropped")
+            continue
+        sizes = np.array([_log10_size(c) for c in polynomial.coefficients])
+        high, low = int(np.argmax(sizes)), int(np.argmin(sizes))
+        if sizes[high] - sizes[low] > MAX_COEFFICIENT_SPREAD:
+            def term(k):
+                monomial = Polynomial(polynomial.exponents[k:k + 1], [ExactCoefficient.rational(1)]
+                                      if polynomial.is_exact else [1.0]).to_text(system.variables)
+                return f"{'constant term' if monomial == '1' else 'coefficient of ' + monomial} " \
+                       f"(about 1e{sizes[k]:.0f})"
+            raise InputError(f"equation {number}: the {term(high)} and the {term(low)} are more than "
+                             f"{MAX_COEFFICIENT_SPREAD} orders of magnitude apart: beyond double precision "
+                             "numbers (rescale the variables)")
+        middle = (sizes[high] + sizes[low]) / 2
+        if (sizes[high] > MAX_COEFFICIENT_SPREAD / 2 or sizes[low] < -MAX_COEFFICIENT_SPREAD / 2) and polynomial.is_exact:
+            power = int(round(middle))
+            factor = ExactCoefficient.rational(Fraction(1, 10 ** power) if power > 0 else Fraction(10 ** -power))
+            polynomial = polynomial.multiply(Polynomial.constant(factor, polynomial.n_variables))
+            notes.append(f"equation {number} was divided by 1e{power} (its coefficients reach about "
+                         f"1e{sizes[high]:.0f}); its zeros are unchanged")
+        kept.append(polynomial)
+    if not kept:
+        raise InputError("every equation is zero: X is the whole space, there is nothing to compute")
+    if not notes:
+        return system, []
+    return PolynomialSystem(system.variables, kept, projective=system.projective, name=system.name), notes
 
 
 def determinant(entries, limits=DEFAULT_LIMITS):

@@ -31,7 +31,7 @@ from . import __version__
 from .certify import (ALPHA_ZERO_TEXT, STATUSES, Certificate, CertifyOptions, certify_regular_zero,
                       certify_singular_point, certify_smooth_point, overlapping_pairs)
 from .errors import InputError
-from .checkpoint import atomic_write_bytes
+from .safeio import MAX_INPUT_BYTES, loads_json, read_limited, write_file
 from .executor import InProcess
 from .files import system_from_mapping
 from .decompose import Component, Decomposition, DecomposeOptions
@@ -596,23 +596,17 @@ def certify_report(data, options=None, progress=None, executor=None):
 
 
 def read_report(path):
-    """Load a saved JSON report, with one-line errors for a missing file or bad JSON."""
-    try:
-        with open(path, encoding="utf-8") as handle:
-            return json.load(handle)
-    except FileNotFoundError:
-        raise InputError(f"report file not found: {path}") from None
-    except IsADirectoryError:
-        raise InputError(f"{path} is a directory, not a report file") from None
-    except json.JSONDecodeError as err:
-        raise InputError(f"{path}: not valid JSON (line {err.lineno}, column {err.colno}: {err.msg})") from None
-    except UnicodeDecodeError:
-        raise InputError(f"{path}: not a text file") from None
+    """Load a saved JSON report (size-limited, strict JSON), with one-line errors naming the file."""
+    data = loads_json(read_limited(path, MAX_INPUT_BYTES, "report"), os.fspath(path))
+    if not isinstance(data, dict):
+        raise InputError(f"{os.fspath(path)}: not a numag report (a JSON object is expected)")
+    return data
 
 
 def write_report(path, data):
-    """Write a report atomically: a temporary file in the same folder, flushed to disk, then renamed."""
-    atomic_write_bytes(os.path.abspath(path), (dumps(data) + "\n").encode("utf-8"))
+    """Write a report where the user asked: regular files are replaced atomically keeping their mode,
+    links are followed to their target, devices and pipes are written through (see :func:`numag.safeio.write_file`)."""
+    write_file(path, (dumps(data) + "\n").encode("utf-8"))
 
 
 # --- compare -------------------------------------------------------------------------------------

@@ -45,6 +45,7 @@ import enum
 
 import numpy as np
 
+from .executor import check_memory
 from .rescue import track_segment_precise
 
 __all__ = ["PathStatus", "TrackerOptions", "TrackResult", "track_paths"]
@@ -653,6 +654,9 @@ def track_paths(homotopy, start_points, options=None, progress=None):
     """
     opts = options or TrackerOptions()
     start_points = np.asarray(start_points, dtype=complex)
+    # the batch's working arrays: about a dozen of (P, N, N) complex (Jacobians, stages, inverses)
+    check_memory(16 * 12 * len(start_points) * start_points.shape[-1] ** 2 if start_points.ndim == 2 else 0,
+                 f"tracking {len(start_points)} paths together")
     before = homotopy.evaluations
     endpoints, status, steps, condition, winding, endgame = _track(homotopy, start_points, opts, on_step=progress)
     retracked = np.zeros(len(status), dtype=bool)
