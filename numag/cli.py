@@ -33,7 +33,7 @@ from .singular import FORMULATIONS, SingularOptions, singular_locus
 from .smoothness import CheckOptions, check_points
 from .witness import WitnessOptions
 from .solve import Execution, SolveOptions, solve_system
-from .polynomial import prepared_for_numerics
+from .polynomial import prepared_for_numerics, regeneration_bound
 
 __all__ = ["main", "build_parser", "EXIT_OK", "EXIT_INTERNAL", "EXIT_INPUT", "EXIT_UNDECIDED", "EXIT_MISMATCH"]
 
@@ -250,6 +250,28 @@ def _load(args):
     return system
 
 
+def _guard_paths(args, system, command):
+    """Refuse before any tracking when the paths a command may need exceed ``--max-paths``.
+
+    decompose (and check, which decomposes X): the regeneration's bound of F. singular and compare
+    add the cheaper of the two formulations of "rank J < c" for the codimension of a complete
+    intersection. solve checks its exact Bezout number itself (before allocating anything).
+    """
+    n = system.ambient_dimension
+    degrees = system.degrees
+    estimate = regeneration_bound(degrees, n)
+    if command in ("singular", "compare"):
+        c = min(len(degrees), n)
+        minor = sum(sorted(d - 1 for d in degrees)[-c:]) if c else 0
+        minors = regeneration_bound(degrees + [minor] * (n - c + 1), n)
+        null_vector = regeneration_bound(degrees + [max(degrees)] * n + [1], n + c)
+        estimate += min(minors, null_vector)
+    if estimate > args.max_paths:
+        raise NumagError(f"'numag {command}' may need about {estimate:,} paths (the regeneration's bound from the "
+                         f"degrees; structured systems often need far fewer), over the limit of {args.max_paths:,}: "
+                         "raise --max-paths to run it")
+
+
 def _write_notes(args, out):
     for note in getattr(args, "notes", []):
         out.write(f"note: {note}\n")
@@ -346,6 +368,7 @@ def _run_check(args, out):
     decomposition = None
     seed = args.seed if args.seed is not None else int(np.random.SeedSequence().entropy % (2**32))
     if args.local_dimension is None and not args.without_components and not system.projective:
+        _guard_paths(args, system, "check")
         decomposition = decompose(system, seed=seed, progress=_Messages(args.json))
     report = check_points(system, points, options, seed=seed, decomposition=decomposition)
     data = _certified(_with_notes(check_report_to_dict(report), args), args)
@@ -543,6 +566,7 @@ def _print_singular(result, out, angles, data=None):
 
 def _run_singular(args, out):
     system = _load(args)
+    _guard_paths(args, system, "singular")
     angles = load_angles(args.system_file, system.variables)
     options = SingularOptions(formulation=args.formulation, digits=args.digits, infinity_for_systems=args.at_infinity,
                               decompose=DecomposeOptions(witness=WitnessOptions(lowest_dimension=args.lowest_dimension)))
@@ -564,6 +588,7 @@ def _run_singular(args, out):
 
 def _run_decompose(args, out):
     system = _load(args)
+    _guard_paths(args, system, "decompose")
     options = DecomposeOptions(witness=WitnessOptions(lowest_dimension=args.lowest_dimension),
                                max_loops=args.max_loops)
     if args.max_loops < 1:
@@ -702,6 +727,7 @@ def _print_compare(comparison, out):
 
 def _run_compare(args, out):
     system = _load(args)
+    _guard_paths(args, system, "compare")
     if not args.time_limit > 0:
         raise NumagError(f"--time-limit must be positive, got {args.time_limit}")
     if not args.tolerance > 0:

@@ -52,13 +52,14 @@ class WorkLimits:
     Attributes
     ----------
     max_paths : int
-        Paths a run may track in all (a solve's Bezout number; for witness sets, decompositions and
-        singular loci every homotopy's paths, added up and checked before each homotopy starts).
+        Paths a run may track in all: a solve's Bezout number; for witness sets, decompositions and
+        singular loci every homotopy's paths, added up and checked before each homotopy starts (the
+        command line also checks the regeneration's bound before it starts).
     max_memory : int
         Bytes one evaluation table or one batch of paths may take (estimated before allocating).
     """
 
-    max_paths: int = 1_000_000
+    max_paths: int = 100_000_000
     max_memory: int = 8 * 1024 ** 3
 
 
@@ -101,8 +102,8 @@ def charge_paths(count, what):
     state = _active()
     total = state[1] + int(count)
     if total > state[0].max_paths:
-        before = f", {total} in all with the {state[1]} tracked before" if state[1] else ""
-        raise LimitError(f"{what} needs {int(count)} paths{before}: over the limit of {state[0].max_paths} "
+        before = f", {total:,} in all with the {state[1]:,} tracked before" if state[1] else ""
+        raise LimitError(f"{what} needs {int(count):,} paths{before}: over the limit of {state[0].max_paths:,} "
                          "(--max-paths)", "max_paths", state[0].max_paths)
     state[1] = total
 

@@ -30,7 +30,7 @@ from .errors import InputError, LimitError
 from .exact import ExactCoefficient
 
 __all__ = ["Limits", "DEFAULT_LIMITS", "Polynomial", "PolynomialSystem", "RESERVED_NAMES", "determinant",
-           "prepared_for_numerics", "MAX_COEFFICIENT_SPREAD"]
+           "prepared_for_numerics", "MAX_COEFFICIENT_SPREAD", "regeneration_bound"]
 
 #: Names the grammar reserves; no variable may use them.
 RESERVED_NAMES = frozenset({"I", "sqrt"})
@@ -764,6 +764,28 @@ def prepared_for_numerics(system):
     if not notes:
         return system, []
     return PolynomialSystem(system.variables, kept, projective=system.projective, name=system.name), notes
+
+
+def regeneration_bound(degrees, n):
+    """Paths a regenerative cascade tracks at most when no equation vanishes on earlier witness points.
+
+    Equations are taken lowest degree first (as :func:`numag.witness.witness_supersets` does): stage i
+    regenerates at most d_1 ... d_(i-1) witness points into d_i paths each, and no stage goes beyond
+    codimension n. Structured systems (determinantal ones, say) often need far fewer; generic ones
+    need about this many. Constant equations add nothing.
+
+    Examples
+    --------
+    >>> regeneration_bound([2, 2, 2], 3), regeneration_bound([2] * 50, 50) > 10**15
+    (14, True)
+    """
+    total, product = 0, 1
+    for stage, degree in enumerate(sorted(d for d in degrees if d > 0)):
+        if stage >= n:
+            break
+        product *= degree
+        total += product
+    return total
 
 
 def determinant(entries, limits=DEFAULT_LIMITS):
