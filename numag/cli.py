@@ -691,7 +691,8 @@ def _run_solve(args, out):
     else:
         _write_notes(args, out)
         _print_solve(result, out, data)
-    return EXIT_UNDECIDED if _doubtful(data) else EXIT_OK
+    # a failed path may be a missing solution: the answer is incomplete, and the exit code says so
+    return EXIT_UNDECIDED if _doubtful(data) or data["paths"]["failed"] else EXIT_OK
 
 
 def _print_compare(comparison, out):
