@@ -63,6 +63,11 @@ class BatchEvaluator:
         if any(p.n_variables != n for p in polynomials):
             raise InputError("all polynomials must have the same number of variables")
         self.n_equations, self.n_variables = len(polynomials), n
+        # the table below has a column per monomial of F (at least): refuse a hopeless size before building it
+        distinct = len(np.unique(np.vstack([p.exponents for p in polynomials] + [np.zeros((1, n), dtype=np.int64)]),
+                                 axis=0))
+        check_memory(2 * 16 * (self.n_equations * (n + 1) + spare_columns) * distinct,
+                     f"the evaluation table of {self.n_equations} equations in {n} variables")
         rows = []  # (row of the output, exponents, coefficients)
         for i, p in enumerate(polynomials):
             rows.append((i, p.exponents, p.numeric_coefficients()))

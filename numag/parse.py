@@ -39,10 +39,13 @@ from .exact import ExactCoefficient
 from .polynomial import DEFAULT_LIMITS, RESERVED_NAMES, Polynomial, PolynomialSystem
 
 __all__ = ["parse_polynomial", "parse_system", "parse_constant", "is_valid_name", "MAX_EQUATION_LENGTH",
-           "MAX_NESTING"]
+           "MAX_NESTING", "MAX_TOKENS"]
 
 #: Longest equation text accepted (characters).
 MAX_EQUATION_LENGTH = 1_000_000
+#: Most tokens (numbers, names, operators) in one equation: each costs a polynomial operation (tens of
+#: microseconds), so this bounds the reading time to seconds.
+MAX_TOKENS = 100_000
 #: Deepest nesting of parentheses (and ``sqrt(``) accepted: the reader is recursive in the nesting
 #: only (five Python frames a level), so this keeps it far from Python's recursion limit.
 MAX_NESTING = 100
@@ -125,7 +128,12 @@ class _Parser:
         self.variables = list(variables)
         self.n = len(variables)
         self.limits = limits
+        if len(text) > MAX_EQUATION_LENGTH:
+            raise ParseError(f"text longer than {MAX_EQUATION_LENGTH} characters", column=1)
         self.tokens = _tokenize(text)
+        if len(self.tokens) > MAX_TOKENS:
+            raise ParseError(f"more than {MAX_TOKENS} numbers, names and operators in one equation (expand "
+                             "less, or write products and powers)", column=1)
         self.position = 0
         self.depth = 0
 
@@ -157,8 +165,6 @@ class _Parser:
 
     # -- grammar ------------------------------------------------------------------------------
     def equation(self):
-        if len(self.text) > MAX_EQUATION_LENGTH:
-            raise ParseError(f"text longer than {MAX_EQUATION_LENGTH} characters", column=1)
         left = self.expr()
         if self.is_op("="):
             self.advance()
