@@ -125,7 +125,10 @@ class RunFolder:
         arrays = {key: np.asarray(value) for key, value in arrays.items()}
         np.savez(buffer, **arrays)
         data = buffer.getvalue()
-        atomic_write_bytes(self.batch_path(index), data)
+        try:
+            atomic_write_bytes(self.batch_path(index), data)
+        except OSError as err:  # e.g. a folder standing where the batch file goes
+            raise InputError(f"cannot write {self.batch_path(index)}: {err.strerror or err}") from None
         self.manifest["batch_files"][str(index)] = {
             "sha256": hashlib.sha256(data).hexdigest(),
             "arrays": {key: [value.dtype.str, list(value.shape)] for key, value in arrays.items()}}
