@@ -386,5 +386,33 @@ class ExactCoefficient:
         return f"ExactCoefficient({self.to_text()!r})"
 
 
+_CHUNK_DIGITS = 999  # the grammar reads literals of up to 1000 digits and decimal exponents up to 1000
+
+
+def _integer_text(value):
+    """A non-negative integer as text the grammar reads back, however long it is.
+
+    Up to 999 digits as they are; longer ones in chunks, ``(c0 + c1*1e999 + c2*1e999*1e999 + ...)``, so that
+    every number an exact coefficient may hold (:data:`MAX_COEFFICIENT_BITS`) can be written and read again
+    (Python itself refuses ``str`` of integers beyond 4,300 digits).
+
+    Examples
+    --------
+    >>> _integer_text(12), _integer_text(10**1000 + 7)
+    ('12', '(7 + 10*1e999)')
+    """
+    base = 10 ** _CHUNK_DIGITS
+    if value < base:
+        return str(value)
+    pieces, power = [], 0
+    while value:
+        value, chunk = divmod(value, base)
+        if chunk:
+            pieces.append(str(chunk) + "*1e999" * power)
+        power += 1
+    return "(" + " + ".join(pieces) + ")"
+
+
 def _fraction_text(q):
-    return str(q.numerator) if q.denominator == 1 else f"{q.numerator}/{q.denominator}"
+    numerator = ("-" if q.numerator < 0 else "") + _integer_text(abs(q.numerator))
+    return numerator if q.denominator == 1 else f"{numerator}/{_integer_text(q.denominator)}"
