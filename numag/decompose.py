@@ -41,7 +41,7 @@ from scipy.spatial import cKDTree
 from .cluster import cluster_labels
 from .errors import InputError
 from .evaluate import BatchEvaluator
-from .polynomial import combined_minor
+from .polynomial import combined_minor, require_numeric
 from .witness import (WitnessOptions, combine_equations, jacobian_rank, linear_form, membership, random_rows,
                       track_moves, witness_supersets)
 
@@ -339,6 +339,7 @@ def decompose(system, options=None, seed=None, progress=None):
     Decomposition
     """
     options = options or DecomposeOptions()
+    require_numeric(system)
     if seed is None:
         seed = int(np.random.SeedSequence().entropy % (2**32))
     started = time.perf_counter()

@@ -30,7 +30,8 @@ from .errors import InputError, LimitError
 from .exact import ExactCoefficient
 
 __all__ = ["Limits", "DEFAULT_LIMITS", "Polynomial", "PolynomialSystem", "RESERVED_NAMES", "determinant",
-           "prepared_for_numerics", "MAX_COEFFICIENT_SPREAD", "regeneration_bound"]
+           "prepared_for_numerics", "MAX_COEFFICIENT_SPREAD", "regeneration_bound",
+           "require_numeric"]
 
 #: Names the grammar reserves; no variable may use them.
 RESERVED_NAMES = frozenset({"I", "sqrt"})
@@ -764,6 +765,26 @@ def prepared_for_numerics(system):
     if not notes:
         return system, []
     return PolynomialSystem(system.variables, kept, projective=system.projective, name=system.name), notes
+
+
+def require_numeric(system, allow_zero=True):
+    """Refuse (InputError) a system that numerical work cannot use as it is: the library's entry check.
+
+    The command line prepares the system itself (:func:`prepared_for_numerics`, with notes); a
+    library caller gets a clear refusal instead of an overflow deep inside.
+
+    Raises
+    ------
+    InputError
+        Naming the equation: coefficients beyond double precision, coefficients to be rescaled, or
+        (unless ``allow_zero``) a zero equation.
+    """
+    _, notes = prepared_for_numerics(system)
+    for note in notes:
+        if allow_zero and "is zero" in note:
+            continue
+        raise InputError(f"{note.replace(' and was dropped', '').replace(' was divided', ' must be divided')}: "
+                         "prepare the system with numag.polynomial.prepared_for_numerics (the command line does)")
 
 
 def regeneration_bound(degrees, n):

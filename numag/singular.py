@@ -46,7 +46,7 @@ from .cluster import cluster_labels, groups
 from .decompose import DecomposeOptions, decompose, holding_equations, random_minor
 from .evaluate import BatchEvaluator
 from .errors import InputError, PointError
-from .polynomial import Polynomial, PolynomialSystem, determinant
+from .polynomial import Polynomial, PolynomialSystem, determinant, require_numeric
 from .refine import IsolationTest
 from .smoothness import CheckOptions, check_points
 from .solve import SolveOptions, solve_system
@@ -334,6 +334,7 @@ def singular_locus(system, options=None, seed=None, progress=None):
     SingularLocus
     """
     options = (options or SingularOptions()).validated(system)
+    require_numeric(system)
     if seed is None:
         seed = int(np.random.SeedSequence().entropy % (2**32))
     started = time.perf_counter()

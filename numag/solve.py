@@ -34,7 +34,7 @@ from .executor import InProcess, charge_paths, check_memory, make_executor
 from .evaluate import BatchEvaluator, PrecisionEvaluator
 from .homotopy import ParameterHomotopy, StraightLineHomotopy
 from .linalg import residual_scales
-from .polynomial import PolynomialSystem
+from .polynomial import PolynomialSystem, require_numeric
 from .refine import IsolationTest, mp_gauss_newton
 from .tracker import FAILURE_LABELS, BatchTracker, PathStatus, StartArray, TrackerOptions, track_paths
 
@@ -288,6 +288,7 @@ def solve_system(system, options=None, seed=None, progress=None, execution=None)
         folder that does not belong to this run.
     """
     options = (options or SolveOptions()).validated()
+    require_numeric(system, allow_zero=False)
     if seed is None:
         seed = int(np.random.SeedSequence().entropy % (2**32))
     rng = np.random.default_rng(seed)
