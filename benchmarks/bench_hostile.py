@@ -107,7 +107,11 @@ def judge_cli(tally, argv, check=None, seconds=60):
         clear = err.startswith("numag: error:") and err.count("\n") == 1 and "Traceback" not in err
         tally.add("refused" if clear else "internal", f"{argv}: {err}")
     elif code in (0, 3):
-        tally.add("answered" if check is None or check(code, out) else "wrong", f"{argv}: {out[:200]}")
+        stray = [line for line in err.splitlines() if line.strip() and not line.startswith("numag:")]
+        if stray:  # warnings or tracebacks beside an answer: not a clear answer
+            tally.add("internal", f"{argv}: {stray[0]}")
+        else:
+            tally.add("answered" if check is None or check(code, out) else "wrong", f"{argv}: {out[:200]}")
     else:
         tally.add("internal", f"{argv}: {code} {err}")
     return code, out

@@ -244,9 +244,6 @@ def _load(args):
         system, args.notes = prepared_for_numerics(system)
     except NumagError as err:
         raise SystemFileError(str(err), args.system_file) from None
-    if max(system.degrees) <= 1:
-        args.notes.append("every equation is linear: X is a linear space (or empty), smooth at every point, "
-                          "with no singular point")
     return system
 
 

@@ -31,7 +31,7 @@ from .exact import ExactCoefficient
 
 __all__ = ["Limits", "DEFAULT_LIMITS", "Polynomial", "PolynomialSystem", "RESERVED_NAMES", "determinant",
            "prepared_for_numerics", "MAX_COEFFICIENT_SPREAD", "regeneration_bound",
-           "require_numeric"]
+           "require_numeric", "LinearSpace", "linear_space"]
 
 #: Names the grammar reserves; no variable may use them.
 RESERVED_NAMES = frozenset({"I", "sqrt"})
@@ -541,13 +541,30 @@ def _from_gaussian(data, n_variables):
     return Polynomial(exponents.reshape(len(coefficients), n_variables), coefficients, n_variables)
 
 
+def _sorted_unique_rows(exponents):
+    """``np.unique(rows, axis=0, return_inverse=True)`` by a lexicographic sort of the columns.
+
+    The same sorted rows and inverse; np.unique's row mode builds a structured type with a field per
+    column, which took 8 ms for a two-term equation in 1,000 variables (a system of 1,000 linear
+    equations spent half a minute here).
+    """
+    if exponents.shape[1] == 0:
+        return exponents[:1], np.zeros(len(exponents), dtype=np.int64)
+    order = np.lexsort(exponents.T[::-1])  # the first column is the primary key
+    ordered = exponents[order]
+    starts = np.ones(len(ordered), dtype=bool)
+    starts[1:] = np.any(ordered[1:] != ordered[:-1], axis=1)
+    inverse = np.empty(len(ordered), dtype=np.int64)
+    inverse[order] = np.cumsum(starts) - 1
+    return ordered[starts], inverse
+
+
 def _merge_terms(exponents, coefficients):
     """Merge equal monomials, drop zero coefficients, sort lexicographically."""
     n = exponents.shape[1]
     if len(exponents) == 0:
         return exponents.reshape(0, n), coefficients[:0]
-    unique, inverse = np.unique(exponents, axis=0, return_inverse=True)
-    inverse = inverse.reshape(-1)
+    unique, inverse = _sorted_unique_rows(exponents)
     if len(unique) == len(exponents):
         merged = np.empty_like(coefficients)
         merged[inverse] = coefficients
@@ -785,6 +802,79 @@ def require_numeric(system, allow_zero=True):
             continue
         raise InputError(f"{note.replace(' and was dropped', '').replace(' was divided', ' must be divided')}: "
                          "prepare the system with numag.polynomial.prepared_for_numerics (the command line does)")
+
+
+@dataclass
+class LinearSpace:
+    """The solutions of linear equations, found exactly: empty, or ``pivots`` in echelon form.
+
+    Attributes
+    ----------
+    empty : bool
+        True when the equations contradict each other (X is empty).
+    pivots : dict
+        Pivot column -> row ``{column: coefficient, -1: constant}`` (exact), one per independent equation.
+    dimension : int
+        Dimension of the space (-1 when empty).
+    """
+
+    empty: bool
+    pivots: dict
+    dimension: int
+
+
+def linear_space(system, max_operations=2_000_000):
+    """Row-reduce a system of equations of degree at most 1 exactly (sparse rows, exact coefficients).
+
+    Parameters
+    ----------
+    system : PolynomialSystem
+        Affine, every equation of degree <= 1, exact coefficients.
+    max_operations : int
+        Exact multiply-adds allowed; None is returned beyond them (dense large systems).
+
+    Returns
+    -------
+    LinearSpace or None
+
+    Examples
+    --------
+    >>> from numag.parse import parse_system
+    >>> linear_space(parse_system(["x + y - 1", "2*x + 2*y - 2"], ["x", "y"])).dimension
+    1
+    >>> linear_space(parse_system(["x - 1", "x - 2"], ["x"])).empty
+    True
+    """
+    if system.projective or not system.is_exact or any(d > 1 for d in system.degrees):
+        return None
+    pivots, operations = {}, 0
+    for polynomial in system.polynomials:
+        row = {}
+        for exponents, coefficient in zip(polynomial.exponents, polynomial.coefficients):
+            nonzero = np.nonzero(exponents)[0]
+            row[int(nonzero[0]) if len(nonzero) else -1] = coefficient
+        while True:
+            shared = [column for column in row if column in pivots]
+            if not shared:
+                break
+            column = shared[0]
+            pivot = pivots[column]
+            factor = row[column] * pivot[column].reciprocal()
+            operations += len(pivot)
+            if operations > max_operations:
+                return None
+            for key, value in pivot.items():
+                updated = row.get(key, ExactCoefficient.zero()) - factor * value
+                if updated.is_zero():
+                    row.pop(key, None)
+                else:
+                    row[key] = updated
+        variables = [column for column in row if column >= 0]
+        if variables:
+            pivots[min(variables)] = row
+        elif row:  # 0 = a nonzero constant
+            return LinearSpace(True, {}, -1)
+    return LinearSpace(False, pivots, system.n_variables - len(pivots))
 
 
 def regeneration_bound(degrees, n):

@@ -46,7 +46,7 @@ from .cluster import cluster_labels, groups
 from .decompose import DecomposeOptions, decompose, holding_equations, random_minor
 from .evaluate import BatchEvaluator
 from .errors import InputError, PointError
-from .polynomial import Polynomial, PolynomialSystem, determinant, require_numeric
+from .polynomial import Polynomial, PolynomialSystem, determinant, linear_space, require_numeric
 from .refine import IsolationTest
 from .smoothness import CheckOptions, check_points
 from .solve import SolveOptions, solve_system
@@ -340,6 +340,11 @@ def singular_locus(system, options=None, seed=None, progress=None):
     started = time.perf_counter()
     rng = np.random.default_rng(seed)
     paths, discarded, notes = {}, {}, []
+    if linear_space(system) is not None:  # J is constant of full rank on X: no singular point, no homotopy
+        variety = decompose(system, options.decompose, seed=int(rng.integers(2**32)), progress=progress)
+        return SingularLocus(system, [], variety, paths, discarded, seed, time.perf_counter() - started,
+                             ["every equation is linear: X is a linear space (or empty), smooth at every point, "
+                              "with no singular point"])
     if system.projective:
         if system.n_equations == 1 and options.formulation in ("auto", "gradient"):
             components, variety = _projective_gradient(system, rng, paths, discarded, progress), None

@@ -179,15 +179,22 @@ def test_bad_command_lines_get_one_clear_line(tmp_path, capsys, variables, equat
     assert_clear_refusal_or_answer(code, err)
 
 
-@pytest.mark.parametrize("equations, variables", [(["x - 1"], ["x"]), (["x - 1", "y + x"], ["x", "y"]),
-                                                  (["x - 1", "x - 2"], ["x", "y"])])
-def test_linear_systems_get_their_answer(tmp_path, equations, variables):
-    # a linear space is smooth everywhere: no singular point (common practice, no source)
+@pytest.mark.parametrize("equations, variables, dimensions", [
+    (["x - 1"], ["x"], [0]), (["x - 1", "y + x"], ["x", "y"], [0]), (["x - 1", "x - 2"], ["x", "y"], []),
+    (["x + y + z - 1", "2*x + 2*y + 2*z - 2"], ["x", "y", "z"], [2]), (["x - y", "y - z"], ["x", "y", "z"], [1]),
+    ([f"x{i} - {i}" for i in range(300)], [f"x{i}" for i in range(300)], [0])])
+def test_linear_systems_get_their_answer(tmp_path, equations, variables, dimensions):
+    # a linear space of dimension n - rank, degree 1, smooth everywhere: no singular point (common
+    # practice, no source); found exactly, without a homotopy
     path = tmp_path / "linear.toml"
     path.write_text(f"variables = {json.dumps(variables)}\nequations = {json.dumps(equations)}\n")
     code, text = run(["singular", str(path), "--json", "--seed", "2"])
     data = json.loads(text)
     assert code == 0 and data["components"] == [] and any("linear" in note for note in data["notes"])
+    assert [(c["dimension"], c["degree"]) for c in data["variety"]] == [(d, 1) for d in dimensions]
+    assert data["paths"]["tracked"] == 0
+    code, text = run(["decompose", str(path), "--json", "--seed", "2"])
+    assert code == 0 and [c["dimension"] for c in json.loads(text)["components"]] == dimensions
 
 
 def test_a_zero_equation_is_dropped_with_a_note(tmp_path):
