@@ -85,7 +85,8 @@ def slow(batch):
 
 pool = LocalPool(2)
 threading.Thread(target=lambda: list(pool.run(slow, [1, 2, 3, 4])), daemon=True).start()
-while pool._pool is None or len(pool._pool._processes or {{}}) < 2:
+deadline = time.monotonic() + 60  # never wait for ever: the test then fails instead of hanging
+while (pool._pool is None or len(pool._pool._processes or {{}}) < 2) and time.monotonic() < deadline:
     time.sleep(0.05)
 print(" ".join(str(pid) for pid in pool._pool._processes), flush=True)
 time.sleep(600)
