@@ -342,6 +342,10 @@ class Polynomial:
                              "max_terms", limits.max_terms)
         if exponent == 0:
             return Polynomial.constant(1, self.n_variables)
+        if self.n_terms == 1:  # a monomial: x^1000 is one term, not a thousand products
+            coefficient = self.coefficients[0] ** exponent if self.is_exact else complex(self.coefficients[0]) ** exponent
+            return Polynomial(self.exponents * exponent, np.array([coefficient], dtype=self.coefficients.dtype),
+                              self.n_variables)
         integral = _gaussian_integers(self)
         if integral is not None:  # stay in integer arithmetic for the whole expansion
             accumulated = integral
