@@ -10,19 +10,23 @@ Exit codes
 """
 
 import argparse
+import math
+import re
+import signal
 import sys
 import time
+import warnings
 
 import numpy as np
 
 from . import __version__
-from .errors import NumagError
+from .errors import NumagError, SystemFileError, one_line
 from .checkpoint import RunFolder
 from .files import load_angles, load_points, load_system, parse_point_assignment, system_from_mapping
 from .decompose import DecomposeOptions, decompose
 from .certify import CertifyOptions
 from .compare import compare_system
-from .executor import make_executor, using
+from .executor import WorkLimits, abort_workers, make_executor, using, work_limits
 from .report import (CAUTION, certify_report, check_report_to_dict, compare_to_dict, completeness_warnings,
                      decomposition_to_dict, dumps, read_report, singular_to_dict, solve_report_to_dict, write_report)
 from .singular import FORMULATIONS, SingularOptions, singular_locus
@@ -30,6 +34,7 @@ from .smoothness import CheckOptions, check_points
 from .witness import WitnessOptions
 from .solve import Execution, SolveOptions, solve_system
 from .tracker import FAILURE_LABELS
+from .polynomial import prepared_for_numerics, regeneration_bound
 
 __all__ = ["main", "build_parser", "EXIT_OK", "EXIT_INTERNAL", "EXIT_INPUT", "EXIT_UNDECIDED", "EXIT_MISMATCH"]
 
@@ -68,11 +73,12 @@ def build_parser():
                             "is given (faster on large systems, wrong on reducible X)")
     check.add_argument("--digits", type=int, default=CheckOptions.max_digits, metavar="D",
                        help="highest precision (decimal digits) for undecided ranks (default %(default)s)")
-    check.add_argument("--point-tolerance", type=float, default=CheckOptions.point_tolerance, metavar="T",
+    check.add_argument("--point-tolerance", type=_positive_number, default=CheckOptions.point_tolerance, metavar="T",
                        help="relative accuracy of the given points (default %(default)s)")
-    check.add_argument("--seed", type=int, help="seed for the random choices (recorded in the report)")
+    check.add_argument("--seed", type=_seed, help="seed for the random choices (recorded in the report)")
     check.add_argument("--json", action="store_true", help="print the report as JSON")
     _add_certify_switch(check)
+    _add_work_options(check)
     check.set_defaults(run=_run_check)
 
     solve = commands.add_parser(
@@ -85,9 +91,9 @@ def build_parser():
                        help="precision (decimal digits) for refining singular solutions (default %(default)s)")
     solve.add_argument("--square-up", action="store_true",
                        help="allow more equations than unknowns (random combinations; solutions rechecked)")
-    solve.add_argument("--batch-size", type=int, default=SolveOptions.batch_size, metavar="N",
+    solve.add_argument("--batch-size", type=_count(1, 10**7), default=SolveOptions.batch_size, metavar="N",
                        help="paths tracked together (default %(default)s)")
-    solve.add_argument("--seed", type=int, help="seed of the random choices (recorded in the report)")
+    solve.add_argument("--seed", type=_seed, help="seed of the random choices (recorded in the report)")
     solve.add_argument("--json", action="store_true", help="print the report as JSON (no progress lines)")
     _add_executor_options(solve)
     solve.add_argument("--run-folder", metavar="DIR",
@@ -95,6 +101,7 @@ def build_parser():
     solve.add_argument("--resume", metavar="DIR",
                        help="continue the run saved in DIR: finished batches are read back, not tracked again")
     _add_certify_switch(solve)
+    _add_work_options(solve)
     solve.set_defaults(run=_run_solve)
 
     locus = commands.add_parser(
@@ -113,10 +120,11 @@ def build_parser():
                             "computation of the same size). Hypersurfaces always get them.")
     locus.add_argument("--digits", type=int, default=SingularOptions.digits, metavar="D",
                        help="highest precision (decimal digits) for escalated rank decisions (default %(default)s)")
-    locus.add_argument("--seed", type=int, help="seed of the random choices (recorded in the report)")
+    locus.add_argument("--seed", type=_seed, help="seed of the random choices (recorded in the report)")
     locus.add_argument("--json", action="store_true", help="print the report as JSON (no progress lines)")
     _add_executor_options(locus)
     _add_certify_switch(locus)
+    _add_work_options(locus)
     locus.set_defaults(run=_run_singular)
 
     parts = commands.add_parser(
@@ -128,9 +136,10 @@ def build_parser():
                        help="do not search components of dimension below K (default: down to points)")
     parts.add_argument("--max-loops", type=int, default=DecomposeOptions.max_loops, metavar="N",
                        help="monodromy loops per dimension before giving up confirming (default %(default)s)")
-    parts.add_argument("--seed", type=int, help="seed of the random choices (recorded in the report)")
+    parts.add_argument("--seed", type=_seed, help="seed of the random choices (recorded in the report)")
     parts.add_argument("--json", action="store_true", help="print the report as JSON (no progress lines)")
     _add_executor_options(parts)
+    _add_work_options(parts)
     parts.set_defaults(run=_run_decompose)
 
     certify = commands.add_parser(
@@ -147,7 +156,7 @@ def build_parser():
                          help="precision (decimal digits) of refinement and interval arithmetic (default %(default)s)")
     certify.add_argument("--numerical-only", action="store_true",
                          help="do not try to recognise exact coordinates (faster)")
-    certify.add_argument("--workers", type=int, metavar="N",
+    certify.add_argument("--workers", type=_count(1, _MAX_WORKERS), metavar="N",
                          help="worker processes for the points (default: in-process)")
     certify.add_argument("--json", action="store_true", help="print the certified report as JSON")
     certify.set_defaults(run=_run_certify)
@@ -158,21 +167,126 @@ def build_parser():
                     "c x c minors, in a child process with a time limit) and print side by side: dimensions, "
                     "degrees, counts, the largest distance between numerical and exact points, both times.")
     versus.add_argument("system_file", metavar="FILE", help="system file (TOML)")
-    versus.add_argument("--time-limit", type=float, default=60.0, metavar="S",
+    versus.add_argument("--time-limit", type=_positive_number, default=60.0, metavar="S",
                         help="seconds the exact reference may take (default %(default)s)")
-    versus.add_argument("--tolerance", type=float, default=1e-6, metavar="T",
+    versus.add_argument("--tolerance", type=_positive_number, default=1e-6, metavar="T",
                         help="largest relative distance of matched points that still agrees (default %(default)s)")
-    versus.add_argument("--seed", type=int, help="seed of the random choices (recorded in the report)")
+    versus.add_argument("--seed", type=_seed, help="seed of the random choices (recorded in the report)")
     versus.add_argument("--json", action="store_true", help="print the comparison as JSON")
+    _add_work_options(versus)
     versus.set_defaults(run=_run_compare)
     return parser
 
 
+_MAX_WORKERS = 1024
+_SCHEDULER = re.compile(r"(tcp|tls|ws|wss)://(\[[0-9A-Fa-f:.]+\]|[A-Za-z0-9.-]+):[0-9]{1,5}\Z")
+
+
+def _seed(text):
+    """A seed: an integer from 0 to 2^63 - 1 (numpy's generators take no negative seeds)."""
+    return _checked_seed(text, "the seed", argparse.ArgumentTypeError)
+
+
+def _checked_seed(value, what, error=NumagError):
+    try:
+        seed = int(value) if isinstance(value, str) or (isinstance(value, int) and not isinstance(value, bool)) \
+            else None
+    except ValueError:
+        seed = None
+    if seed is None or not 0 <= seed < 2 ** 63:
+        raise error(f"{what} must be an integer from 0 to 2^63 - 1, got {str(value)[:40]!r}")
+    return seed
+
+
+def _count(low, high):
+    """An integer option from ``low`` to ``high``."""
+    def parse(text):
+        try:
+            value = int(text)
+        except ValueError:
+            raise argparse.ArgumentTypeError(f"expected an integer, got {text[:40]!r}") from None
+        if not low <= value <= high:
+            raise argparse.ArgumentTypeError(f"must be from {low} to {high}, got {value}")
+        return value
+    return parse
+
+
+def _positive_number(text):
+    """A finite positive number (no nan, no inf)."""
+    try:
+        value = float(text)
+    except ValueError:
+        raise argparse.ArgumentTypeError(f"expected a number, got {text[:40]!r}") from None
+    if not (math.isfinite(value) and value > 0):
+        raise argparse.ArgumentTypeError(f"must be a finite positive number, got {text[:40]!r}")
+    return value
+
+
+def _scheduler_address(text):
+    """A Dask scheduler address: tcp:// (or tls, ws, wss) host:port; nothing else is opened."""
+    if not _SCHEDULER.match(text):
+        raise argparse.ArgumentTypeError(f"{text[:60]!r} is not a scheduler address of the form tcp://host:port")
+    return text
+
+
+def _add_work_options(command):
+    command.add_argument("--max-paths", type=_count(1, 10**12), default=WorkLimits.max_paths, metavar="N",
+                         help="refuse runs that would track more paths (estimated before tracking: the Bezout "
+                              "number, or each homotopy's paths added up; default %(default)s)")
+    command.add_argument("--max-memory", type=_positive_number, default=WorkLimits.max_memory / 1024 ** 3,
+                         metavar="GIB", help="refuse an evaluation table or batch of paths estimated above this "
+                                             "many GiB (default %(default)s)")
+
+
+def _load(args):
+    """The system file as numerical work needs it (zero equations dropped, huge coefficients rescaled)."""
+    system = load_system(args.system_file)
+    try:
+        system, args.notes = prepared_for_numerics(system)
+    except NumagError as err:
+        raise SystemFileError(str(err), args.system_file) from None
+    return system
+
+
+def _guard_paths(args, system, command):
+    """Refuse before any tracking when the paths a command may need exceed ``--max-paths``.
+
+    decompose (and check, which decomposes X): the regeneration's bound of F. singular and compare
+    add the cheaper of the two formulations of "rank J < c" for the codimension of a complete
+    intersection. solve checks its exact Bezout number itself (before allocating anything).
+    """
+    n = system.ambient_dimension
+    degrees = system.degrees
+    estimate = regeneration_bound(degrees, n)
+    if command in ("singular", "compare"):
+        c = min(len(degrees), n)
+        minor = sum(sorted(d - 1 for d in degrees)[-c:]) if c else 0
+        minors = regeneration_bound(degrees + [minor] * (n - c + 1), n)
+        null_vector = regeneration_bound(degrees + [max(degrees)] * n + [1], n + c)
+        estimate += min(minors, null_vector)
+    if estimate > args.max_paths:
+        raise NumagError(f"'numag {command}' may need about {estimate:,} paths (the regeneration's bound from the "
+                         f"degrees; structured systems often need far fewer), over the limit of {args.max_paths:,}: "
+                         "raise --max-paths to run it")
+
+
+def _write_notes(args, out):
+    for note in getattr(args, "notes", []):
+        out.write(f"note: {note}\n")
+
+
+def _with_notes(data, args):
+    notes = getattr(args, "notes", [])
+    if notes:
+        data["notes"] = list(notes) + list(data.get("notes", []))
+    return data
+
+
 def _add_executor_options(command):
-    command.add_argument("--workers", type=int, metavar="N",
+    command.add_argument("--workers", type=_count(1, _MAX_WORKERS), metavar="N",
                          help="worker processes for runs of more than one batch of paths (default: every core; "
                               "a single batch runs in-process)")
-    command.add_argument("--scheduler", metavar="ADDRESS",
+    command.add_argument("--scheduler", type=_scheduler_address, metavar="ADDRESS",
                          help="run the batches on a Dask cluster (tcp://host:8786; pip install 'numag[cluster]')")
     command.add_argument("--local-dask", action="store_true", help="start a local Dask cluster for the batches")
 
@@ -239,7 +353,7 @@ def _print_check(report, out, data=None):
 
 
 def _run_check(args, out):
-    system = load_system(args.system_file)
+    system = _load(args)
     points = [parse_point_assignment(text, system.variables, index)
               for index, text in enumerate(args.point, 1)]
     if args.points_file:
@@ -252,12 +366,14 @@ def _run_check(args, out):
     decomposition = None
     seed = args.seed if args.seed is not None else int(np.random.SeedSequence().entropy % (2**32))
     if args.local_dimension is None and not args.without_components and not system.projective:
+        _guard_paths(args, system, "check")
         decomposition = decompose(system, seed=seed, progress=_Messages(args.json))
     report = check_points(system, points, options, seed=seed, decomposition=decomposition)
-    data = _certified(check_report_to_dict(report), args)
+    data = _certified(_with_notes(check_report_to_dict(report), args), args)
     if args.json:
         out.write(dumps(data) + "\n")
     else:
+        _write_notes(args, out)
         _print_check(report, out, data)
     return EXIT_UNDECIDED if report.undecided or _doubtful(data) else EXIT_OK
 
@@ -455,7 +571,8 @@ def _print_singular(result, out, angles, data=None):
 
 
 def _run_singular(args, out):
-    system = load_system(args.system_file)
+    system = _load(args)
+    _guard_paths(args, system, "singular")
     angles = load_angles(args.system_file, system.variables)
     options = SingularOptions(formulation=args.formulation, digits=args.digits, infinity_for_systems=args.at_infinity,
                               decompose=DecomposeOptions(witness=WitnessOptions(lowest_dimension=args.lowest_dimension)))
@@ -463,19 +580,21 @@ def _run_singular(args, out):
         options.decompose.witness.validated(system.n_variables)
     with _stage_executor(args) as executor, using(executor):
         result = singular_locus(system, options, seed=args.seed, progress=_Messages(args.json))
-        data = singular_to_dict(result, options)
+        data = _with_notes(singular_to_dict(result, options), args)
         data["execution"] = executor.describe()
     data = _with_warnings(_certified(data, args))
     if args.json:
         out.write(dumps(data) + "\n")
     else:
+        _write_notes(args, out)
         _print_singular(result, out, angles, data)
     undecided = any(c.kind == "undecided" for c in result.components)
     return EXIT_UNDECIDED if undecided or _doubtful(data) or data["warnings"] else EXIT_OK
 
 
 def _run_decompose(args, out):
-    system = load_system(args.system_file)
+    system = _load(args)
+    _guard_paths(args, system, "decompose")
     options = DecomposeOptions(witness=WitnessOptions(lowest_dimension=args.lowest_dimension),
                                max_loops=args.max_loops)
     if args.max_loops < 1:
@@ -485,10 +604,11 @@ def _run_decompose(args, out):
         execution = executor.describe()
     data = decomposition_to_dict(result, options)
     data["execution"] = execution
-    data = _with_warnings(data)
+    data = _with_notes(_with_warnings(data), args)
     if args.json:
         out.write(dumps(data) + "\n")
     else:
+        _write_notes(args, out)
         _print_decompose(result, out, data)
     return EXIT_UNDECIDED if data["warnings"] else EXIT_OK
 
@@ -515,6 +635,9 @@ def _print_solve(result, out, data=None):
         for failure in failed:
             out.write(f"  batch {failure['index']} (paths {failure['paths'][0]}-{failure['paths'][1]}) failed "
                       f"{failure['attempts']} times: {failure['error']}\n")
+        for rejected in execution.get("batches_rejected", []):
+            out.write(f"  batch {rejected['index']} of the run folder was not trusted and was tracked again: "
+                      f"{rejected['reason']}\n")
     if result.squared_up:
         out.write("note: more equations than unknowns; random combinations were tracked and every "
                   f"solution was kept only if it satisfies all equations ({len(result.discarded)} discarded)\n")
@@ -546,18 +669,23 @@ def _run_solve(args, out):
             raise NumagError("give either --run-folder (a new run) or --resume (an interrupted one), not both")
         manifest = RunFolder.open(args.resume).manifest
         if manifest.get("kind") != "solve":
-            raise NumagError(f"{args.resume} holds a run of {manifest.get('kind')!r}, not of 'numag solve'")
-        system = system_from_mapping({k: v for k, v in manifest["system"].items() if v is not None})
-        saved = manifest["options"]
-        options = SolveOptions(refine_digits=saved["refine_digits"], square_up=saved["square_up"],
-                               batch_size=saved["batch_size"], cluster_tolerance=saved["cluster_tolerance"])
-        seed = manifest["seed"]
-        if args.system_file is not None and load_system(args.system_file).to_texts() != system.to_texts():
+            raise NumagError(f"{args.resume} holds a run of {str(manifest.get('kind'))[:40]!r}, not of 'numag solve'")
+        try:
+            system = system_from_mapping({k: v for k, v in manifest["system"].items() if v is not None},
+                                         path=f"{args.resume}/manifest.json")
+            saved = manifest["options"]
+            options = SolveOptions(refine_digits=saved["refine_digits"], square_up=saved["square_up"],
+                                   batch_size=saved["batch_size"],
+                                   cluster_tolerance=saved["cluster_tolerance"]).validated()
+            seed = _checked_seed(manifest["seed"], f"the seed in {args.resume}/manifest.json")
+        except (KeyError, TypeError, AttributeError):
+            raise NumagError(f"{args.resume}/manifest.json is damaged: it does not describe a solve run") from None
+        if args.system_file is not None and _load(args).to_texts() != system.to_texts():
             raise NumagError(f"{args.system_file} is not the system of the run in {args.resume}")
     else:
         if args.system_file is None:
             raise NumagError("a system file is needed (or --resume DIR)")
-        system = load_system(args.system_file)
+        system = _load(args)
         options = SolveOptions(refine_digits=args.digits, square_up=args.square_up, batch_size=args.batch_size)
         seed = args.seed
         if args.run_folder and seed is None:  # a saved run must be reproducible: fix the seed now
@@ -565,10 +693,11 @@ def _run_solve(args, out):
     execution = Execution(workers=args.workers, scheduler=args.scheduler, local_dask=args.local_dask,
                           run_folder=args.resume or args.run_folder, resume=bool(args.resume))
     result = solve_system(system, options, seed=seed, progress=_Progress(args.json), execution=execution)
-    data = _with_warnings(_certified(solve_report_to_dict(result, options), args))
+    data = _with_warnings(_certified(_with_notes(solve_report_to_dict(result, options), args), args))
     if args.json:
         out.write(dumps(data) + "\n")
     else:
+        _write_notes(args, out)
         _print_solve(result, out, data)
     return EXIT_UNDECIDED if _doubtful(data) or data["warnings"] else EXIT_OK
 
@@ -605,7 +734,8 @@ def _print_compare(comparison, out):
 
 
 def _run_compare(args, out):
-    system = load_system(args.system_file)
+    system = _load(args)
+    _guard_paths(args, system, "compare")
     if not args.time_limit > 0:
         raise NumagError(f"--time-limit must be positive, got {args.time_limit}")
     if not args.tolerance > 0:
@@ -613,8 +743,9 @@ def _run_compare(args, out):
     comparison = compare_system(system, seconds=args.time_limit, seed=args.seed, tolerance=args.tolerance,
                                 progress=_Messages(args.json))
     if args.json:
-        out.write(dumps(compare_to_dict(comparison)) + "\n")
+        out.write(dumps(_with_notes(compare_to_dict(comparison), args)) + "\n")
     else:
+        _write_notes(args, out)
         _print_compare(comparison, out)
     return {"agree": EXIT_OK, "mismatch": EXIT_MISMATCH, "incomplete": EXIT_UNDECIDED}[comparison.verdict]
 
@@ -644,13 +775,26 @@ def main(argv=None, out=None):
     2
     """
     out = out or sys.stdout
-    args = build_parser().parse_args(argv)
     try:
-        return args.run(args, out)
+        args = build_parser().parse_args(argv)
+    except SystemExit as stop:  # usage errors (already printed on one line), --help, --version
+        return stop.code if isinstance(stop.code, int) else EXIT_INPUT
+    limits = WorkLimits(max_paths=getattr(args, "max_paths", WorkLimits.max_paths),
+                        max_memory=int(getattr(args, "max_memory", WorkLimits.max_memory / 1024 ** 3) * 1024 ** 3))
+    previous = _on_terminate()
+    try:
+        # numpy's floating-point warnings are not messages for the user: every result carries its
+        # own evidence (residuals, path statuses), and exit codes count what failed
+        with warnings.catch_warnings(), np.errstate(all="ignore"), work_limits(limits):
+            warnings.simplefilter("ignore", RuntimeWarning)
+            return args.run(args, out)
     except NumagError as err:
-        message = str(err)
-        sys.stderr.write(f"numag: error: {message}\n")
+        sys.stderr.write(f"numag: error: {one_line(str(err))}\n")
         return EXIT_INPUT
+    except SystemExit as stop:  # SIGTERM: temporary files were removed on the way out
+        if stop.code == 128 + signal.SIGTERM:
+            sys.stderr.write("numag: terminated\n")
+        raise
     except KeyboardInterrupt:
         sys.stderr.write("numag: interrupted\n")
         return 130
@@ -660,9 +804,27 @@ def main(argv=None, out=None):
         finally:
             return EXIT_OK
     except Exception as err:  # noqa: BLE001 - last resort: one line, never a traceback
-        sys.stderr.write(f"numag: internal error: {type(err).__name__}: {err} (please report this with the "
+        sys.stderr.write(f"numag: internal error: {type(err).__name__}: {one_line(str(err))[:300]} (please report this with the "
                          "command and input)\n")
         return EXIT_INTERNAL
+    finally:
+        if previous is not None:
+            signal.signal(signal.SIGTERM, previous)
+
+
+def _on_terminate():
+    """On SIGTERM: stop the workers, then leave through SystemExit so that temporary files are removed.
+
+    Returns the previous handler (None when not in the main thread, where handlers cannot be set).
+    """
+    def handler(signum, frame):
+        abort_workers()
+        raise SystemExit(128 + signum)
+
+    try:
+        return signal.signal(signal.SIGTERM, handler)
+    except ValueError:  # not the main thread (a library caller running main in a thread)
+        return None
 
 
 if __name__ == "__main__":  # pragma: no cover

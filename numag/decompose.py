@@ -42,7 +42,7 @@ from scipy.spatial import cKDTree
 from .cluster import cluster_labels
 from .errors import InputError, LimitError
 from .evaluate import BatchEvaluator, TermSizes
-from .polynomial import combined_minor
+from .polynomial import combined_minor, linear_space, require_numeric
 from .scaling import Scaling
 from .witness import (WitnessOptions, combine_equations, jacobian_rank, linear_form, membership, random_rows,
                       track_moves, witness_supersets)
@@ -367,6 +367,7 @@ def decompose(system, options=None, seed=None, progress=None):
     Decomposition
     """
     options = options or DecomposeOptions()
+    require_numeric(system)
     if seed is None:
         seed = int(np.random.SeedSequence().entropy % (2**32))
     scaling = Scaling.balancing(system)
@@ -378,6 +379,9 @@ def _decompose(system, options, seed, progress):
     """:func:`decompose` in the units of ``system`` (already scaled)."""
     started = time.perf_counter()
     rng = np.random.default_rng(seed)
+    linear = _linear_decomposition(system, options, rng, seed, started)
+    if linear is not None:  # linear equations: the exact answer, no homotopy
+        return linear
     supersets = witness_supersets(system, options.witness, seed=int(rng.integers(2**32)), progress=progress)
     counts = dict(supersets.paths)
     move_counts = {}
@@ -453,6 +457,37 @@ def _degree_checks(system, components):
     else:
         violated = sum(c.degree for c in components) > math.prod(degrees)
     return {"degree_check_failed": 1} if violated else {}
+
+
+def _linear_decomposition(system, options, rng, seed, started):
+    """X of linear equations, exactly: empty, or one linear space (degree 1) with a witness point."""
+    space = linear_space(system)
+    if space is None:
+        return None
+    n = system.n_variables
+    lowest = options.witness.validated(n).lowest_dimension or 0
+    counts = {"tracked": 0, "not_on_X": 0, "at_infinity_or_failed": 0, "on_larger_component": 0,
+              "membership_paths": 0}
+    components = []
+    if not space.empty and space.dimension >= lowest:
+        # the witness point: the space met by `dimension` random real hyperplanes a . (1, x) = 0
+        slice_rows = rng.standard_normal((space.dimension, n + 1))
+        matrix = np.zeros((n, n), dtype=complex)
+        right = np.zeros(n, dtype=complex)
+        for k, row in enumerate(space.pivots.values()):
+            for column, value in row.items():
+                if column < 0:
+                    right[k] = -complex(value)
+                else:
+                    matrix[k, column] = complex(value)
+        matrix[len(space.pivots):] = slice_rows[:, 1:]
+        right[len(space.pivots):] = -slice_rows[:, 0]
+        point = np.linalg.solve(matrix, right)
+        real = bool(all(np.all(np.abs(p.numeric_coefficients().imag) == 0) for p in system.polynomials))
+        components.append(Component(1, space.dimension, 1, point[None, :], np.array([real]), 1, True, slice_rows,
+                                    True, 0.0))
+    return Decomposition(system, components, list(range(n, lowest - 1, -1)), counts, {}, seed,
+                         time.perf_counter() - started)
 
 
 def components_through(decomposition, point, seed=0, options=None):

@@ -22,7 +22,20 @@ __all__ = [
     "LimitError",
     "SystemFileError",
     "PointError",
+    "one_line",
 ]
+
+
+def one_line(message):
+    """A message on one line: the display of the text under a caret is left out, other lines joined.
+
+    Examples
+    --------
+    >>> one_line("equation 1, column 3: found 'x'\\n    2 x\\n      ^")
+    "equation 1, column 3: found 'x'"
+    """
+    lines = [line for line in str(message).splitlines() if line.strip() and not line.startswith("    ")]
+    return "; ".join(line.strip() for line in lines) or str(message).strip()
 
 
 class NumagError(Exception):

@@ -28,6 +28,7 @@ array([[2., 4.],
 import numpy as np
 
 from .errors import InputError
+from .executor import check_memory
 
 __all__ = ["BatchEvaluator", "PrecisionEvaluator", "TermSizes"]
 
@@ -62,6 +63,11 @@ class BatchEvaluator:
         if any(p.n_variables != n for p in polynomials):
             raise InputError("all polynomials must have the same number of variables")
         self.n_equations, self.n_variables = len(polynomials), n
+        # the table below has a column per monomial of F (at least): refuse a hopeless size before building it
+        distinct = len(np.unique(np.vstack([p.exponents for p in polynomials] + [np.zeros((1, n), dtype=np.int64)]),
+                                 axis=0))
+        check_memory(2 * 16 * (self.n_equations * (n + 1) + spare_columns) * distinct,
+                     f"the evaluation table of {self.n_equations} equations in {n} variables")
         rows = []  # (row of the output, exponents, coefficients)
         for i, p in enumerate(polynomials):
             rows.append((i, p.exponents, p.numeric_coefficients()))
@@ -80,6 +86,9 @@ class BatchEvaluator:
         self.monomials, inverse = np.unique(all_exponents, axis=0, return_inverse=True)
         inverse = inverse.reshape(-1)
         n_rows, n_monomials = self.n_equations * (n + 1), len(self.monomials)
+        # dense (F, J) coefficient table and its transposed copy: refused before allocating when too large
+        check_memory(2 * 16 * (n_rows + spare_columns) * n_monomials,
+                     f"the evaluation table of {self.n_equations} equations in {n} variables")
         matrix = np.zeros((n_rows, n_monomials), dtype=complex)
         start = 0
         for row, exponents, coefficients in rows:
@@ -259,8 +268,9 @@ class TermSizes:
     terms by up to sqrt(n + 1)^d: 1e15 for x^100 - 1 at a root of unity.
 
     Homogenised affine equations (``homogenized``: X_0 the homogenising coordinate, first) use
-    the affine rule in the chart X_0 = 1: rho_0 = |X_0| and rho_j = max(|X_j|, |X_0|) (with a
-    floor of 1e-8 max_k |X_k| so that points at infinity keep their terms). Treating every
+    the affine rule in the chart X_0 = 1: rho_0 = |X_0| and rho_j = max(|X_j|, |X_0|), except
+    near infinity (|X_0| below 1e-3 max_k |X_k|), where the chart degenerates and every
+    coordinate is sized as the largest. Treating every
     coordinate as the largest one over-states terms in the small ones: a homotopy then accepted
     an endpoint 7e-3 away from a solution as "on the target".
 
@@ -292,8 +302,10 @@ class TermSizes:
         """The point rho at which the terms are sized, shape (P, n)."""
         moduli = np.abs(np.atleast_2d(points))
         if self.homogenized:
-            floor = np.maximum(moduli[:, :1], _HOMOGENIZED_FLOOR * moduli.max(axis=1, keepdims=True))
-            return np.maximum(moduli, floor)
+            top = moduli.max(axis=1, keepdims=True)
+            chart = np.maximum(moduli, moduli[:, :1])
+            # near infinity the chart X_0 = 1 degenerates: size every coordinate as the largest there
+            return np.where(moduli[:, :1] >= _CHART_FLOOR * top, chart, top)
         if self.projective:
             return np.broadcast_to(moduli.max(axis=1, keepdims=True), moduli.shape).copy()
         return np.maximum(moduli, 1.0)
@@ -312,8 +324,8 @@ class TermSizes:
         return self.both(points)[1]
 
 
-#: Smallest rho_k of a homogenised point, relative to its largest coordinate.
-_HOMOGENIZED_FLOOR = 1e-8
+#: Below this |X_0| / max |X_k| a homogenised point is sized as a projective one (near infinity).
+_CHART_FLOOR = 1e-3
 
 
 def _positive(sizes):

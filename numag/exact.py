@@ -23,13 +23,18 @@ import math
 
 from .errors import InputError, LimitError
 
-__all__ = ["ExactCoefficient", "square_free_split", "MAX_RADICAND", "MAX_COEFFICIENT_BITS"]
+__all__ = ["ExactCoefficient", "square_free_split", "MAX_RADICAND", "MAX_COEFFICIENT_BITS", "MAX_RADICAL_TERMS"]
 
 #: Largest numerator * denominator accepted under ``sqrt``; above it the
 #: square-free split could need more than trial division up to 10^6.
 MAX_RADICAND = 10**18
 #: Largest bit length of a numerator or denominator kept exact.
 MAX_COEFFICIENT_BITS = 100_000
+#: Most square-root terms one exact number may have. Products of sums of square roots of k primes
+#: have up to 2^k terms (and inverting such a sum multiplies by its k conjugates), so the work grows
+#: exponentially; the limit is checked as every number is built, so a hostile coefficient such as
+#: 1/(sqrt(2) + sqrt(3) + ... + sqrt(43)) is refused within a second instead of taking minutes.
+MAX_RADICAL_TERMS = 256
 
 
 def square_free_split(value):
@@ -124,6 +129,9 @@ class ExactCoefficient:
         for radicand, (re, im) in (parts or {}).items():
             if re != 0 or im != 0:
                 cleaned[int(radicand)] = (_check_size(Fraction(re)), _check_size(Fraction(im)))
+        if len(cleaned) > MAX_RADICAL_TERMS:
+            raise LimitError(f"an exact coefficient would have {len(cleaned)} square-root terms, more than the "
+                             f"limit of {MAX_RADICAL_TERMS}", "max_radical_terms", MAX_RADICAL_TERMS)
         self._parts = dict(sorted(cleaned.items()))
         self._hash = None
 
@@ -241,6 +249,9 @@ class ExactCoefficient:
         other = self._coerce(other)
         if other is NotImplemented:
             return other
+        if len(self._parts) * len(other._parts) > 4 * MAX_RADICAL_TERMS ** 2:  # work checked before it is done
+            raise LimitError(f"a product of exact numbers with {len(self._parts)} and {len(other._parts)} "
+                             "square-root terms is too much work", "max_radical_terms", MAX_RADICAL_TERMS)
         parts = {}
         for r1, (a1, b1) in self._parts.items():
             for r2, (a2, b2) in other._parts.items():
@@ -375,5 +386,33 @@ class ExactCoefficient:
         return f"ExactCoefficient({self.to_text()!r})"
 
 
+_CHUNK_DIGITS = 999  # the grammar reads literals of up to 1000 digits and decimal exponents up to 1000
+
+
+def _integer_text(value):
+    """A non-negative integer as text the grammar reads back, however long it is.
+
+    Up to 999 digits as they are; longer ones in chunks, ``(c0 + c1*1e999 + c2*1e999*1e999 + ...)``, so that
+    every number an exact coefficient may hold (:data:`MAX_COEFFICIENT_BITS`) can be written and read again
+    (Python itself refuses ``str`` of integers beyond 4,300 digits).
+
+    Examples
+    --------
+    >>> _integer_text(12), _integer_text(10**1000 + 7)
+    ('12', '(7 + 10*1e999)')
+    """
+    base = 10 ** _CHUNK_DIGITS
+    if value < base:
+        return str(value)
+    pieces, power = [], 0
+    while value:
+        value, chunk = divmod(value, base)
+        if chunk:
+            pieces.append(str(chunk) + "*1e999" * power)
+        power += 1
+    return "(" + " + ".join(pieces) + ")"
+
+
 def _fraction_text(q):
-    return str(q.numerator) if q.denominator == 1 else f"{q.numerator}/{q.denominator}"
+    numerator = ("-" if q.numerator < 0 else "") + _integer_text(abs(q.numerator))
+    return numerator if q.denominator == 1 else f"{numerator}/{_integer_text(q.denominator)}"

@@ -29,14 +29,97 @@ from concurrent.futures import FIRST_COMPLETED, ProcessPoolExecutor, wait
 from concurrent.futures.process import BrokenProcessPool
 from contextlib import contextmanager
 import contextvars
+import ctypes
+import ctypes.util
 from dataclasses import dataclass
 import multiprocessing
 import os
+import signal
+import threading
+import time
+import weakref
 
-from .errors import InputError
+from .errors import InputError, LimitError
 
 __all__ = ["Executor", "InProcess", "LocalPool", "DaskCluster", "BatchFailure", "make_executor", "default_workers",
-           "using", "current_executor"]
+           "using", "current_executor", "WorkLimits", "work_limits", "charge_paths", "check_memory", "abort_workers"]
+
+
+@dataclass(frozen=True)
+class WorkLimits:
+    """How much work one run may do (the command line's ``--max-paths`` and ``--max-memory``).
+
+    Attributes
+    ----------
+    max_paths : int
+        Paths a run may track in all: a solve's Bezout number; for witness sets, decompositions and
+        singular loci every homotopy's paths, added up and checked before each homotopy starts (the
+        command line also checks the regeneration's bound before it starts).
+    max_memory : int
+        Bytes one evaluation table or one batch of paths may take (estimated before allocating).
+    """
+
+    max_paths: int = 100_000_000
+    max_memory: int = 8 * 1024 ** 3
+
+
+_LIMITS = contextvars.ContextVar("numag_work_limits", default=None)
+
+
+@contextmanager
+def work_limits(limits):
+    """Apply ``limits`` (a :class:`WorkLimits`) to every homotopy inside the ``with`` block.
+
+    Examples
+    --------
+    >>> with work_limits(WorkLimits(max_paths=10)):
+    ...     charge_paths(8, "a test")
+    ...     charge_paths(8, "a second test")
+    Traceback (most recent call last):
+    ...
+    numag.errors.LimitError: a second test needs 8 paths, 16 in all with the 8 tracked before: over the limit of 10 (--max-paths)
+    """
+    token = _LIMITS.set([limits, 0])
+    try:
+        yield limits
+    finally:
+        _LIMITS.reset(token)
+
+
+def _active():
+    state = _LIMITS.get()
+    return [WorkLimits(), 0] if state is None else state  # outside a block: each request alone
+
+
+def charge_paths(count, what):
+    """Count ``count`` paths against the run's ``max_paths`` before they are tracked; refuse beyond it.
+
+    Raises
+    ------
+    LimitError
+        Naming the estimate, the total and the option that raises the limit.
+    """
+    state = _active()
+    total = state[1] + int(count)
+    if total > state[0].max_paths:
+        before = f", {total:,} in all with the {state[1]:,} tracked before" if state[1] else ""
+        raise LimitError(f"{what} needs {int(count):,} paths{before}: over the limit of {state[0].max_paths:,} "
+                         "(--max-paths)", "max_paths", state[0].max_paths)
+    state[1] = total
+
+
+def check_memory(size, what):
+    """Refuse an allocation of about ``size`` bytes beyond the run's ``max_memory``.
+
+    Raises
+    ------
+    LimitError
+        Naming the estimate in GiB and the option that raises the limit.
+    """
+    limit = _active()[0].max_memory
+    if size > limit:
+        raise LimitError(f"{what} would need about {size / 1024 ** 3:.3g} GiB, over the limit of "
+                         f"{limit / 1024 ** 3:.3g} GiB (--max-memory)", "max_memory", limit)
 
 # The executor of the stages that track paths deep inside (witness sets, decomposition, singular
 # locus): set once around a run with ``using``, read where batches of paths are tracked.
@@ -82,6 +165,41 @@ def default_workers():
         return max(1, len(os.sched_getaffinity(0)))
     except AttributeError:  # pragma: no cover - not on Linux
         return max(1, os.cpu_count() or 1)
+
+
+_POOLS = weakref.WeakSet()  # live local pools, so that a terminating parent can stop their workers
+
+
+def _die_with_parent(parent):
+    """Run in each worker as it starts: the worker ends when the process that started it ends.
+
+    On Linux the kernel sends SIGKILL to the worker when its parent dies (prctl PR_SET_PDEATHSIG,
+    which holds even for SIGKILL of the parent); everywhere a daemon thread also checks once a
+    second that the parent is still the same process and ends the worker when it is not.
+    """
+    signal.signal(signal.SIGTERM, signal.SIG_DFL)  # the parent's handler is not the worker's
+    signal.signal(signal.SIGINT, signal.SIG_IGN)  # Ctrl-C is the parent's to handle
+    try:
+        libc = ctypes.CDLL(ctypes.util.find_library("c") or "libc.so.6", use_errno=True)
+        libc.prctl(1, signal.SIGKILL, 0, 0, 0)  # 1 = PR_SET_PDEATHSIG
+    except (OSError, AttributeError):  # pragma: no cover - not Linux
+        pass
+    if os.getppid() != parent:  # the parent died before the request took effect
+        os._exit(1)
+
+    def watch():
+        while True:
+            time.sleep(1.0)
+            if os.getppid() != parent:
+                os._exit(1)
+
+    threading.Thread(target=watch, daemon=True, name="numag-parent-watch").start()
+
+
+def abort_workers():
+    """Stop the workers of every live local pool at once (the command line calls this on SIGTERM)."""
+    for pool in list(_POOLS):
+        pool.abort()
 
 
 def _pinned(function, batch):
@@ -167,8 +285,21 @@ class LocalPool(Executor):
     def _fresh_pool(self):
         if self._pool is not None:
             self._pool.shutdown(wait=False, cancel_futures=True)
-        self._pool = ProcessPoolExecutor(max_workers=self.workers, mp_context=self._context)
+        self._pool = ProcessPoolExecutor(max_workers=self.workers, mp_context=self._context,
+                                         initializer=_die_with_parent, initargs=(os.getpid(),))
+        _POOLS.add(self)
         return self._pool
+
+    def abort(self):
+        """Kill the workers now (the pool is then broken; :meth:`close` returns at once)."""
+        pool = self._pool
+        if pool is None:
+            return
+        for process in list((getattr(pool, "_processes", None) or {}).values()):
+            try:
+                process.kill()
+            except (OSError, ValueError, AttributeError):
+                pass
 
     def run(self, function, batches, attempts=2):
         self.failures = []

@@ -40,6 +40,7 @@ import os
 from .errors import ParseError, PointError, SystemFileError, InputError
 from .exact import ExactCoefficient
 from .parse import parse_constant, parse_system
+from .safeio import MAX_INPUT_BYTES, loads_json, read_limited
 
 try:  # Python >= 3.11
     import tomllib as _toml
@@ -51,29 +52,11 @@ __all__ = ["SYSTEM_KEYS", "load_system", "system_from_mapping", "parse_point_ass
 
 #: Keys a system file may contain.
 SYSTEM_KEYS = ("variables", "equations", "projective", "name", "description", "angles")
-_MAX_FILE_BYTES = 50 * 1024 * 1024
-
-
-def _read_bytes(path, what):
-    try:
-        size = os.path.getsize(path)
-        if size > _MAX_FILE_BYTES:
-            raise SystemFileError(f"{what} is {size} bytes, larger than the {_MAX_FILE_BYTES}-byte limit", path)
-        with open(path, "rb") as handle:
-            return handle.read()
-    except FileNotFoundError:
-        raise SystemFileError(f"no such {what}", path) from None
-    except IsADirectoryError:
-        raise SystemFileError(f"is a directory, not a {what}", path) from None
-    except PermissionError:
-        raise SystemFileError(f"permission denied reading the {what}", path) from None
-    except OSError as err:
-        raise SystemFileError(f"cannot read the {what}: {err.strerror or err}", path) from None
 
 
 def _read_toml(path):
     path = os.fspath(path)
-    raw = _read_bytes(path, "system file")
+    raw = read_limited(path, MAX_INPUT_BYTES, "system file")
     try:
         text = raw.decode("utf-8")
     except UnicodeDecodeError as err:
@@ -84,6 +67,8 @@ def _read_toml(path):
         return _toml.loads(text)
     except _toml.TOMLDecodeError as err:
         raise SystemFileError(f"is not valid TOML: {err}", path) from None
+    except RecursionError:
+        raise SystemFileError("is nested too deeply to be a system file", path) from None
 
 
 def angles_from_mapping(data, variables, path=None):
@@ -200,8 +185,25 @@ def parse_point_assignment(text, variables, index=None):
     return [values[v] for v in variables]
 
 
+#: Largest modulus of a point's coordinate: the double range (about 1e308) less room for the powers
+#: and products of numerical work.
+MAX_COORDINATE = 1e100
+
+
 def _coordinate(value, name, index):
-    """One coordinate from text, a number, or a [real, imaginary] pair."""
+    """One coordinate from text, a number, or a [real, imaginary] pair, within :data:`MAX_COORDINATE`."""
+    coordinate = _read_coordinate(value, name, index)
+    try:
+        size = abs(complex(coordinate))
+    except OverflowError:
+        size = math.inf
+    if size > MAX_COORDINATE:
+        raise PointError(f"value of {name} is beyond the range numerical work can use (modulus above "
+                         f"{MAX_COORDINATE:.0e})", index)
+    return coordinate
+
+
+def _read_coordinate(value, name, index):
     if isinstance(value, bool):
         raise PointError(f"value of {name} must be a number, got {value!r}", index)
     if isinstance(value, str):
@@ -258,11 +260,7 @@ def points_from_json(data, variables):
 
 def load_points(path, variables):
     """Read points from a JSON file (see :func:`points_from_json`)."""
-    raw = _read_bytes(os.fspath(path), "points file")
-    try:
-        data = json.loads(raw.decode("utf-8"))
-    except (UnicodeDecodeError, json.JSONDecodeError) as err:
-        raise SystemFileError(f"is not valid JSON: {err}", os.fspath(path)) from None
+    data = loads_json(read_limited(path, MAX_INPUT_BYTES, "points file"), os.fspath(path))
     try:
         return points_from_json(data, variables)
     except PointError as err:

@@ -14,7 +14,9 @@ Grammar (whitespace is ignored)::
 (``1.5e-3``) literal, read exactly as a rational. ``I`` is the imaginary
 unit; ``sqrt`` takes a non-negative rational constant and stays exact.
 Implicit multiplication (``2x``) is refused, as are chained powers
-(``x^2^3``): both are common typos whose meaning is not obvious.
+(``x^2^3``): both are common typos whose meaning is not obvious. Parentheses
+(and ``sqrt(``) may nest at most :data:`MAX_NESTING` (100) levels deep; signs
+may repeat any number of times (``--x`` is ``x``).
 
 Examples
 --------
@@ -36,10 +38,17 @@ from .errors import InputError, LimitError, ParseError
 from .exact import ExactCoefficient
 from .polynomial import DEFAULT_LIMITS, RESERVED_NAMES, Polynomial, PolynomialSystem
 
-__all__ = ["parse_polynomial", "parse_system", "parse_constant", "is_valid_name", "MAX_EQUATION_LENGTH"]
+__all__ = ["parse_polynomial", "parse_system", "parse_constant", "is_valid_name", "MAX_EQUATION_LENGTH",
+           "MAX_NESTING", "MAX_TOKENS"]
 
 #: Longest equation text accepted (characters).
 MAX_EQUATION_LENGTH = 1_000_000
+#: Most tokens (numbers, names, operators) in one equation: each costs a polynomial operation (tens of
+#: microseconds), so this bounds the reading time to seconds.
+MAX_TOKENS = 100_000
+#: Deepest nesting of parentheses (and ``sqrt(``) accepted: the reader is recursive in the nesting
+#: only (five Python frames a level), so this keeps it far from Python's recursion limit.
+MAX_NESTING = 100
 _MAX_LITERAL_DIGITS = 1000
 _MAX_LITERAL_EXPONENT = 1000
 _NAME = re.compile(r"[A-Za-z_][A-Za-z0-9_]*\Z")
@@ -119,8 +128,14 @@ class _Parser:
         self.variables = list(variables)
         self.n = len(variables)
         self.limits = limits
+        if len(text) > MAX_EQUATION_LENGTH:
+            raise ParseError(f"text longer than {MAX_EQUATION_LENGTH} characters", column=1)
         self.tokens = _tokenize(text)
+        if len(self.tokens) > MAX_TOKENS:
+            raise ParseError(f"more than {MAX_TOKENS} numbers, names and operators in one equation (expand "
+                             "less, or write products and powers)", column=1)
         self.position = 0
+        self.depth = 0
 
     # -- helpers ------------------------------------------------------------------------------
     @property
@@ -150,8 +165,6 @@ class _Parser:
 
     # -- grammar ------------------------------------------------------------------------------
     def equation(self):
-        if len(self.text) > MAX_EQUATION_LENGTH:
-            raise ParseError(f"text longer than {MAX_EQUATION_LENGTH} characters", column=1)
         left = self.expr()
         if self.is_op("="):
             self.advance()
@@ -193,11 +206,11 @@ class _Parser:
         return result
 
     def unary(self):
-        if self.current.kind == "op" and self.current.text in "+-":
-            sign = self.advance()
-            operand = self.unary()
-            return -operand if sign.text == "-" else operand
-        return self.power()
+        negative = False
+        while self.current.kind == "op" and self.current.text in "+-":  # a loop: any number of signs
+            negative ^= self.advance().text == "-"
+        operand = self.power()
+        return -operand if negative else operand
 
     def power(self):
         base = self.atom()
@@ -254,7 +267,7 @@ class _Parser:
                              column=token.column, text=self.text)
         if self.is_op("("):
             self.advance()
-            inner = self.expr()
+            inner = self.nested(token, self.expr)
             if not self.is_op(")"):
                 self.fail("')'", hint=f" to close the '(' at column {token.column}")
             self.advance()
@@ -265,7 +278,7 @@ class _Parser:
         if not self.is_op("("):
             self.fail("'(' after sqrt")
         self.advance()
-        argument = self.expr()
+        argument = self.nested(token, self.expr)
         if not self.is_op(")"):
             self.fail("')' closing sqrt(")
         self.advance()
@@ -280,6 +293,16 @@ class _Parser:
                              "for an imaginary root", column=token.column, text=self.text)
         root = self.guarded(token, lambda: ExactCoefficient.square_root(value.as_fraction()))
         return Polynomial.constant(root, self.n)
+
+    def nested(self, token, read):
+        """Read a parenthesised part one level deeper; refuse nesting beyond :data:`MAX_NESTING`."""
+        self.depth += 1
+        if self.depth > MAX_NESTING:
+            raise ParseError(f"parentheses nested more than {MAX_NESTING} levels deep", column=token.column,
+                             text=self.text)
+        result = read()
+        self.depth -= 1
+        return result
 
     def check_terms(self, result, token):
         if result.n_terms > self.limits.max_terms:

@@ -40,12 +40,17 @@ from fractions import Fraction
 import itertools
 import json
 import queue as queue_module
+import os
 import subprocess
 import sys
+import tempfile
 import threading
 import time
 
 __all__ = ["ReferenceAnswer", "exact_reference", "system_to_plain", "REFERENCE_SCOPE"]
+
+# What the child runs: this numag, found by the folder given as its first argument.
+_CHILD_ENTRY = "import sys; sys.path.insert(0, sys.argv[1]); from numag.reference import _main; _main()"
 
 #: What the reference compares (printed with every comparison).
 REFERENCE_SCOPE = ("exact reference (sympy Groebner bases): dimension and degree of X and the degrees of its "
@@ -438,8 +443,9 @@ def _read_lines(stream, lines):
 def exact_reference(system, seconds=60.0, seed=0):
     """Run the exact reference on ``system`` in a child process, terminated after ``seconds``.
 
-    The child is a fresh interpreter (``python -m numag.reference``) reading the system as
-    JSON on its standard input and writing JSON lines; at the time limit it is killed.
+    The child is a fresh interpreter in isolated mode (``python -I``, in an empty temporary
+    folder, importing this numag by its own location) reading the system as JSON on its
+    standard input and writing JSON lines; at the time limit it is killed.
 
     Parameters
     ----------
@@ -455,38 +461,46 @@ def exact_reference(system, seconds=60.0, seed=0):
     """
     request = json.dumps({"system": system_to_plain(system), "seed": int(seed)})
     started = time.perf_counter()
-    child = subprocess.Popen([sys.executable, "-m", "numag.reference"], stdin=subprocess.PIPE,
-                             stdout=subprocess.PIPE, stderr=subprocess.DEVNULL, text=True)
-    lines = queue_module.Queue()
-    reader = threading.Thread(target=_read_lines, args=(child.stdout, lines), daemon=True)
-    reader.start()
-    try:
-        child.stdin.write(request)
-        child.stdin.close()
-    except BrokenPipeError:
-        pass
-    deadline = started + float(seconds)
-    messages, finished, ended = [], False, False
-    while not finished and not ended:
-        remaining = deadline - time.perf_counter()
-        if remaining <= 0:
-            break
+    # Isolated: Python's -I keeps the current directory, PYTHONPATH and the user's site-packages off the
+    # path, the child runs in an empty temporary folder, and the only path added is the folder holding
+    # this very numag package: a `numag/` planted where the user happens to stand is never imported.
+    workdir = tempfile.TemporaryDirectory(prefix="numag-reference-")
+    package_parent = os.path.dirname(os.path.dirname(os.path.abspath(__file__)))
+    child = subprocess.Popen([sys.executable, "-I", "-c", _CHILD_ENTRY, package_parent], stdin=subprocess.PIPE,
+                             stdout=subprocess.PIPE, stderr=subprocess.DEVNULL, text=True, cwd=workdir.name)
+    try:  # the child never outlives this call, whatever happens here
+        lines = queue_module.Queue()
+        reader = threading.Thread(target=_read_lines, args=(child.stdout, lines), daemon=True)
+        reader.start()
         try:
-            line = lines.get(timeout=min(remaining, 0.5))
-        except queue_module.Empty:
-            continue
-        if line is None:
-            ended = True
-            break
-        try:
-            message = json.loads(line)
-        except json.JSONDecodeError:
-            continue
-        messages.append(message)
-        finished = "final" in message or "status" in message
-    if child.poll() is None:
-        child.kill()
-    child.wait()
+            child.stdin.write(request)
+            child.stdin.close()
+        except BrokenPipeError:
+            pass
+        deadline = started + float(seconds)
+        messages, finished, ended = [], False, False
+        while not finished and not ended:
+            remaining = deadline - time.perf_counter()
+            if remaining <= 0:
+                break
+            try:
+                line = lines.get(timeout=min(remaining, 0.5))
+            except queue_module.Empty:
+                continue
+            if line is None:
+                ended = True
+                break
+            try:
+                message = json.loads(line)
+            except json.JSONDecodeError:
+                continue
+            messages.append(message)
+            finished = "final" in message or "status" in message
+    finally:
+        if child.poll() is None:
+            child.kill()
+        child.wait()
+        workdir.cleanup()
     elapsed = time.perf_counter() - started
     answer = ReferenceAnswer(status="timed out", seconds=elapsed)
     for message in messages:

@@ -22,6 +22,7 @@ Examples
 
 import copy
 import json
+import math
 import os
 import time
 
@@ -31,7 +32,7 @@ from . import __version__
 from .certify import (ALPHA_ZERO_TEXT, STATUSES, Certificate, CertifyOptions, certify_regular_zero,
                       certify_singular_point, certify_smooth_point, overlapping_pairs)
 from .errors import InputError
-from .checkpoint import atomic_write_bytes
+from .safeio import MAX_INPUT_BYTES, loads_json, read_limited, write_file
 from .executor import InProcess
 from .files import system_from_mapping
 from .decompose import Component, Decomposition, DecomposeOptions
@@ -205,6 +206,8 @@ def _report_system(data, command):
     """Check that ``data`` is a report of ``command`` and rebuild its system."""
     if not isinstance(data, dict) or data.get("command") != command:
         raise InputError(f"not a report of 'numag {command}'")
+    if not isinstance(data.get("system"), dict):
+        raise InputError(f"the report of 'numag {command}' has no 'system' table")
     system_data = dict(data["system"])
     if system_data.get("name") is None:
         system_data.pop("name", None)
@@ -549,6 +552,54 @@ def _check_task(system, verdict, options):
                           point, options.digits)
 
 
+def _require(condition, where, what):
+    if not condition:
+        raise InputError(f"the report is damaged: {where} must be {what}")
+
+
+def _require_point(point, size, where):
+    _require(isinstance(point, list) and len(point) == size and all(
+        isinstance(pair, list) and len(pair) == 2 and all(
+            isinstance(v, (int, float)) and not isinstance(v, bool) and math.isfinite(v) for v in pair)
+        for pair in point), where, f"a list of {size} [real, imaginary] pairs of finite numbers")
+
+
+def _validated_for_certify(data, command, system):
+    """Check every field certification reads, so that a damaged report is refused naming the field."""
+    n = system.n_variables
+    def entries(key):
+        _require(isinstance(data.get(key), list) and all(isinstance(e, dict) for e in data[key]), f"'{key}'",
+                 "a list of objects")
+        return data[key]
+    def codimension(entry, where):
+        value = entry.get("codimension")
+        _require(value is None or (isinstance(value, int) and not isinstance(value, bool) and 0 <= value <= n),
+                 f"{where}'s 'codimension'", f"null or an integer from 0 to {n}")
+    if command == "solve":
+        for key, size in (("solutions", n), ("at_infinity", n if system.projective else n + 1)):
+            for k, entry in enumerate(entries(key), 1):
+                _require_point(entry.get("point"), size, f"'{key}' item {k}'s 'point'")
+    elif command == "singular":
+        for k, component in enumerate(entries("components"), 1):
+            where = f"component {k}"
+            _require(isinstance(component.get("at_infinity"), bool), f"{where}'s 'at_infinity'", "true or false")
+            _require(isinstance(component.get("kind"), str), f"{where}'s 'kind'", "text")
+            dimension = component.get("dimension")
+            _require(isinstance(dimension, int) and not isinstance(dimension, bool) and 0 <= dimension <= n,
+                     f"{where}'s 'dimension'", f"an integer from 0 to {n}")
+            codimension(component, where)
+            points = component.get("points")
+            _require(isinstance(points, list), f"{where}'s 'points'", "a list")
+            size = n + 1 if component["at_infinity"] and not system.projective else n
+            for j, point in enumerate(points, 1):
+                _require_point(point, size, f"{where}'s point {j}")
+    else:
+        for k, verdict in enumerate(entries("points"), 1):
+            _require_point(verdict.get("point"), n, f"point {k}'s 'point'")
+            _require(isinstance(verdict.get("verdict"), str), f"point {k}'s 'verdict'", "text")
+            codimension(verdict, f"point {k}")
+
+
 def certify_report(data, options=None, progress=None, executor=None):
     """Certificates for the points of a saved report of ``solve``, ``singular`` or ``check``.
 
@@ -586,6 +637,7 @@ def certify_report(data, options=None, progress=None, executor=None):
         raise InputError(f"certify needs a report of 'numag solve', 'numag singular' or 'numag check', "
                          f"not of {command!r}")
     system = _report_system(data, command)
+    _validated_for_certify(data, command, system)
     data = copy.deepcopy(data)
     # slots: (entry, key, space) -> a task or a finished certificate; space groups boxes for disjointness
     slots = []
@@ -651,23 +703,17 @@ def certify_report(data, options=None, progress=None, executor=None):
 
 
 def read_report(path):
-    """Load a saved JSON report, with one-line errors for a missing file or bad JSON."""
-    try:
-        with open(path, encoding="utf-8") as handle:
-            return json.load(handle)
-    except FileNotFoundError:
-        raise InputError(f"report file not found: {path}") from None
-    except IsADirectoryError:
-        raise InputError(f"{path} is a directory, not a report file") from None
-    except json.JSONDecodeError as err:
-        raise InputError(f"{path}: not valid JSON (line {err.lineno}, column {err.colno}: {err.msg})") from None
-    except UnicodeDecodeError:
-        raise InputError(f"{path}: not a text file") from None
+    """Load a saved JSON report (size-limited, strict JSON), with one-line errors naming the file."""
+    data = loads_json(read_limited(path, MAX_INPUT_BYTES, "report"), os.fspath(path))
+    if not isinstance(data, dict):
+        raise InputError(f"{os.fspath(path)}: not a numag report (a JSON object is expected)")
+    return data
 
 
 def write_report(path, data):
-    """Write a report atomically: a temporary file in the same folder, flushed to disk, then renamed."""
-    atomic_write_bytes(os.path.abspath(path), (dumps(data) + "\n").encode("utf-8"))
+    """Write a report where the user asked: regular files are replaced atomically keeping their mode,
+    links are followed to their target, devices and pipes are written through (see :func:`numag.safeio.write_file`)."""
+    write_file(path, (dumps(data) + "\n").encode("utf-8"))
 
 
 # --- compare -------------------------------------------------------------------------------------

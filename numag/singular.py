@@ -46,7 +46,7 @@ from .cluster import cluster_labels, groups, normalize_projective
 from .decompose import DecomposeOptions, components_through, decompose, holding_equations, random_minor
 from .evaluate import BatchEvaluator
 from .errors import InputError, LimitError, PointError
-from .polynomial import Polynomial, PolynomialSystem, determinant
+from .polynomial import Polynomial, PolynomialSystem, determinant, linear_space, require_numeric
 from .refine import IsolationTest, project_to_variety
 from .scaling import Scaling
 from .smoothness import CheckOptions, check_points
@@ -373,6 +373,7 @@ def singular_locus(system, options=None, seed=None, progress=None):
     SingularLocus
     """
     options = (options or SingularOptions()).validated(system)
+    require_numeric(system)
     if seed is None:
         seed = int(np.random.SeedSequence().entropy % (2**32))
     scaling = Scaling.balancing(system)
@@ -395,6 +396,11 @@ def _singular_locus(system, options, seed, progress):
     started = time.perf_counter()
     rng = np.random.default_rng(seed)
     paths, discarded, notes = {}, {}, []
+    if linear_space(system) is not None:  # J is constant of full rank on X: no singular point, no homotopy
+        variety = decompose(system, options.decompose, seed=int(rng.integers(2**32)), progress=progress)
+        return SingularLocus(system, [], variety, paths, discarded, seed, time.perf_counter() - started,
+                             ["every equation is linear: X is a linear space (or empty), smooth at every point, "
+                              "with no singular point"])
     if system.projective:
         if system.n_equations == 1 and options.formulation in ("auto", "gradient"):
             components, variety = _projective_gradient(system, rng, paths, discarded, progress), None
@@ -690,7 +696,7 @@ def _at_infinity_of_homogenized(system, options, rng, paths, discarded, notes, p
     if progress is not None:
         progress("singular points at infinity (V(F^h) in a random chart)")
     homogenized = PolynomialSystem(["w"] + list(system.variables),
-                                   [p.numeric().homogenize(0) for p in system.polynomials], projective=True,
+                                   [p.homogenize(0) for p in system.polynomials], projective=True,
                                    name=system.name)
     try:
         pieces, _ = _projective_chart(homogenized, options, rng, paths, {}, [], None)

@@ -44,6 +44,7 @@ import mpmath
 import numpy as np
 
 from .cluster import line_distance, normalize_projective
+from .polynomial import require_numeric
 from .decompose import components_through
 from .errors import InputError, PointError
 from .evaluate import BatchEvaluator, PrecisionEvaluator, TermSizes
@@ -512,6 +513,7 @@ def check_points(system, points, options=None, seed=None, decomposition=None):
     ['singular', 'smooth']
     """
     options = (options or CheckOptions()).validated(system)
+    require_numeric(system)
     if seed is None:
         seed = int(np.random.SeedSequence().entropy % (2**32))
     rng = np.random.default_rng(seed)

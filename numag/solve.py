@@ -27,13 +27,13 @@ import mpmath
 import numpy as np
 from threadpoolctl import threadpool_limits
 
-from .checkpoint import RunFolder
+from .checkpoint import DamagedBatch, RunFolder, manifest_fingerprints
 from .cluster import cluster_labels, groups, normalize_projective
 from .errors import InputError
-from .executor import InProcess, make_executor
+from .executor import InProcess, charge_paths, check_memory, make_executor
 from .evaluate import BatchEvaluator, PrecisionEvaluator, TermSizes
 from .homotopy import ParameterHomotopy, StraightLineHomotopy
-from .polynomial import PolynomialSystem
+from .polynomial import PolynomialSystem, require_numeric
 from .refine import IsolationTest, mp_gauss_newton
 from .scaling import Scaling
 from .tracker import FAILURE_LABELS, BatchTracker, PathStatus, StartArray, TrackerOptions, track_paths
@@ -285,6 +285,7 @@ def solve_system(system, options=None, seed=None, progress=None, execution=None)
         folder that does not belong to this run.
     """
     options = (options or SolveOptions()).validated()
+    require_numeric(system, allow_zero=False)
     if seed is None:
         seed = int(np.random.SeedSequence().entropy % (2**32))
     rng = np.random.default_rng(seed)
@@ -379,10 +380,10 @@ def _open_folder(execution, describe):
     manifest = describe()
     if not execution.resume:
         return RunFolder.create(execution.run_folder, manifest)
-    folder = RunFolder.open(execution.run_folder)
-    saved = {k: v for k, v in folder.manifest.items() if k != "numag_version"}
-    if saved != {k: v for k, v in manifest.items() if k != "numag_version"}:
-        differs = sorted(k for k in manifest if k != "numag_version" and folder.manifest.get(k) != manifest[k])
+    folder = RunFolder.open(execution.run_folder)  # refuses a manifest changed since the run started
+    saved, wanted = manifest_fingerprints(folder.manifest), manifest_fingerprints(manifest)
+    if saved != wanted:  # compared by the fingerprints of the system, options and seed given now
+        differs = sorted(k for k in set(saved) | set(wanted) if saved.get(k) != wanted.get(k))
         raise InputError(f"the run in {execution.run_folder} is a different run (it differs in: {', '.join(differs)})")
     return folder
 
@@ -396,6 +397,10 @@ def _run(system, homotopy, start_points, total, options, rng, seed, progress, st
     """
     execution = execution or Execution()
     user_system = system if user_system is None else user_system
+    # the work guard, before anything of the paths' size is allocated
+    charge_paths(total, "the total-degree homotopy (its Bezout number)" if isinstance(homotopy, StraightLineHomotopy)
+                 else "the parameter homotopy")
+    check_memory(total * (homotopy.size * 16 + 80), f"keeping {total} paths")
     endpoints = np.empty((total, homotopy.size), dtype=complex)
     status = np.empty(total, dtype=np.int64)
     steps = np.zeros(total, dtype=np.int64)
@@ -415,9 +420,21 @@ def _run(system, homotopy, start_points, total, options, rng, seed, progress, st
         retracked[indices], digits[indices] = result["retracked"], result["digits"]
         evaluations += int(result["evaluations"])
 
-    finished = folder.finished() if folder is not None and execution.resume else set()
-    for k in sorted(finished):
-        store(folder.read_batch(k))
+    finished, rejected = set(), []
+    for k in sorted(folder.finished() if folder is not None and execution.resume else ()):
+        if k >= len(batches):
+            rejected.append({"index": k, "reason": f"batch {k} is not part of this run"})
+            continue
+        try:  # saved state is verified, never trusted: a batch that fails is tracked again
+            arrays = folder.read_batch(k)
+        except DamagedBatch as err:
+            rejected.append({"index": k, "reason": str(err)})
+            continue
+        try:
+            store(_verified_batch(arrays, batches[k], homotopy, options.tracker))
+            finished.add(k)
+        except InputError as err:
+            rejected.append({"index": k, "reason": f"{folder.batch_path(k).name}: {err}"})
     todo = [k for k in range(len(batches)) if k not in finished]
     done_paths = sum(len(batches[k]) for k in finished)
     if progress is not None:
@@ -448,7 +465,8 @@ def _run(system, homotopy, start_points, total, options, rng, seed, progress, st
         if execution.executor is None:
             executor.close()
     tracking = time.perf_counter() - tracking_started
-    description.update(batches=len(batches), batches_resumed=len(finished), batch_size=options.batch_size,
+    description.update(batches=len(batches), batches_resumed=len(finished), batches_rejected=rejected,
+                       batch_size=options.batch_size,
                        run_folder=None if folder is None else str(folder.path))
     cautious = options.tracker
     for round_ in range(4):
@@ -496,6 +514,48 @@ def _run(system, homotopy, start_points, total, options, rng, seed, progress, st
     description["tracking_seconds"] = tracking  # the batches and the re-tracking of jumped paths
     result.extra["execution"] = description
     return result
+
+
+def _verified_batch(arrays, indices, homotopy, tracker_options):
+    """A batch read back from a run folder, checked against the run before it counts.
+
+    The paths must be the batch's own, the statuses known, and every endpoint said to be a
+    solution (or a point at infinity) must be one: the target's scaled residual at most 1e-6
+    (the tracker settles at 1e-8), on the patch, and at infinity exactly when it says so.
+
+    Raises
+    ------
+    InputError
+        Naming what does not match (the caller tracks the batch again).
+    """
+    expected = {"indices", "endpoints", "status", "steps", "winding", "condition", "retracked", "digits",
+                "evaluations"}
+    if set(arrays) != expected:
+        raise InputError("its arrays are not those of a batch of paths")
+    if not np.array_equal(arrays["indices"], indices):
+        raise InputError("it holds other paths than the batch's")
+    count, size = len(indices), homotopy.size
+    endpoints, status = arrays["endpoints"], arrays["status"]
+    if endpoints.shape != (count, size) or any(arrays[k].shape != (count,) for k in expected - {"endpoints", "evaluations"}):
+        raise InputError("its arrays do not have the batch's shape")
+    if not np.isin(status, [int(code) for code in PathStatus if code != PathStatus.RUNNING]).all():
+        raise InputError("it holds unknown path statuses")
+    ends = np.isin(status, [PathStatus.CONVERGED, PathStatus.SINGULAR_ENDPOINT, PathStatus.AT_INFINITY])
+    points = endpoints[ends]
+    if len(points):
+        if not np.all(np.isfinite(points)):
+            raise InputError("it holds non-finite endpoints")
+        with np.errstate(all="ignore"):
+            residual = homotopy.target_residual(points)
+            patch = np.abs(points @ homotopy.patch - 1)
+            infinite = np.abs(points[:, 0]) <= tracker_options.infinity_threshold * np.linalg.norm(points, axis=1)
+        said_infinite = status[ends] == PathStatus.AT_INFINITY
+        if not (np.all(residual <= 1e-6) and np.all(patch <= 1e-6)):
+            raise InputError(f"{int(np.sum((residual > 1e-6) | (patch > 1e-6)))} of its endpoints do not solve the system")
+        # at infinity needs X_0 ~ 0; a finite regular endpoint may have a small X_0 (a solution at 1e9)
+        if np.any(said_infinite & ~infinite):
+            raise InputError("its statuses do not match its endpoints (finite or at infinity)")
+    return arrays
 
 
 def _satisfies(system, point, tolerance=1e-8):

@@ -42,7 +42,7 @@ from .homotopy import ParameterHomotopy, random_unit_complex
 from .linalg import scaled_singular_values
 from .polynomial import Polynomial, PolynomialSystem
 from .refine import IsolationTest, project_to_variety
-from .executor import current_executor
+from .executor import current_executor, charge_paths
 from .tracker import BatchTracker, PathStatus, StartArray, TrackerOptions
 
 __all__ = ["WitnessOptions", "WitnessSet", "WitnessSupersets", "witness_supersets", "Slicing", "track_moves",
@@ -256,6 +256,7 @@ def track_moves(start, target, points, rng, options, counts, batch_size=4096):
     winding = np.zeros(count, dtype=np.int64)
     if count == 0:
         return affine, status, winding
+    charge_paths(count, f"a homotopy of {len(start)} equations")  # the work guard, before any tracking
     size = len(start) + 1
 
     def homotopy_with_fresh_gamma():

@@ -63,3 +63,27 @@ def test_context_evaluation_matches_mpmath():
 def test_conversion_to_complex_is_correctly_rounded():
     value = ExactCoefficient.square_root(2) / 2
     assert complex(value) == complex(2 ** 0.5 / 2)
+
+
+def test_numbers_beyond_python_string_limits_are_written_so_that_they_read_back():
+    # 3^9000 has 4,295 digits, 99999999999999999999^200 about 4,000: the text is chunked (common practice, no source)
+    from numag.parse import parse_polynomial
+    for text in ["(3^1000)^9*x - 1", "99999999999999999999^200*x + 1/7^1000/7^1000", "(1 + sqrt(2))^300*x"]:
+        polynomial = parse_polynomial(text, ["x"])
+        assert parse_polynomial(polynomial.to_text(["x"]), ["x"]) == polynomial
+
+
+def test_square_root_work_is_limited_as_it_grows():
+    from numag.errors import LimitError
+    from numag.exact import MAX_RADICAL_TERMS
+    primes = [2, 3, 5, 7, 11, 13, 17, 19, 23, 29, 31, 37, 41, 43]
+    total = sum((ExactCoefficient.square_root(p) for p in primes), ExactCoefficient.zero())
+    with pytest.raises(LimitError, match="square-root terms"):
+        total.reciprocal()
+    product = ExactCoefficient.rational(1)
+    with pytest.raises(LimitError, match=str(MAX_RADICAL_TERMS)):
+        for p in primes:  # (1 + sqrt(2))(1 + sqrt(3))... has 2^k terms
+            product = product * (ExactCoefficient.rational(1) + ExactCoefficient.square_root(p))
+    # a few primes stay exact: 1/(sqrt(2) + sqrt(3)) = sqrt(3) - sqrt(2) (common practice, no source)
+    assert (ExactCoefficient.square_root(2) + ExactCoefficient.square_root(3)).reciprocal() == \
+        ExactCoefficient.square_root(3) - ExactCoefficient.square_root(2)

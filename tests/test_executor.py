@@ -72,3 +72,53 @@ def test_default_choice_and_bad_worker_counts():
         assert executor.name == "process pool" and executor.workers == 2
     with pytest.raises(InputError, match="at least 1"):
         make_executor(workers=0)
+
+
+_ORPHAN_SCRIPT = """
+import os, sys, threading, time
+sys.path.insert(0, {root!r})
+from numag.executor import LocalPool
+
+def slow(batch):
+    time.sleep(600)
+    return batch
+
+pool = LocalPool(2)
+threading.Thread(target=lambda: list(pool.run(slow, [1, 2, 3, 4])), daemon=True).start()
+deadline = time.monotonic() + 60  # never wait for ever: the test then fails instead of hanging
+while (pool._pool is None or len(pool._pool._processes or {{}}) < 2) and time.monotonic() < deadline:
+    time.sleep(0.05)
+print(" ".join(str(pid) for pid in pool._pool._processes), flush=True)
+time.sleep(600)
+"""
+
+
+def _running(pid):
+    """True while the process exists and is not a zombie (a container's init may not reap orphans)."""
+    try:
+        with open(f"/proc/{pid}/stat") as handle:
+            return handle.read().rsplit(")", 1)[1].split()[0] != "Z"
+    except FileNotFoundError:
+        return False
+
+
+@pytest.mark.skipif(not pathlib.Path("/proc/self/stat").exists(), reason="needs /proc (Linux)")
+@pytest.mark.parametrize("signal_number", [9, 15])
+def test_workers_die_with_their_parent(tmp_path, signal_number):
+    import subprocess
+    import sys
+    import time
+    script = tmp_path / "parent.py"
+    script.write_text(_ORPHAN_SCRIPT.format(root=str(pathlib.Path(__file__).resolve().parent.parent)))
+    parent = subprocess.Popen([sys.executable, str(script)], stdout=subprocess.PIPE, text=True)
+    workers = [int(pid) for pid in parent.stdout.readline().split()]
+    assert len(workers) == 2 and all(_running(pid) for pid in workers)
+    os.kill(parent.pid, signal_number)
+    parent.wait()
+    deadline = time.monotonic() + 60  # a bound for a loaded machine, not a timing assertion
+    while any(_running(pid) for pid in workers) and time.monotonic() < deadline:
+        time.sleep(0.1)
+    left = [pid for pid in workers if _running(pid)]
+    for pid in left:  # never leave them behind, even when the test fails
+        os.kill(pid, 9)
+    assert not left

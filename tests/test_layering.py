@@ -8,8 +8,8 @@ import numag
 # A module may import only modules of a strictly lower layer.
 LAYERS = [
     {"errors", "cluster", "allocation"},
-    {"exact", "executor", "checkpoint"},
-    {"polynomial"},
+    {"exact", "executor", "safeio"},
+    {"polynomial", "checkpoint"},
     {"parse", "reference", "scaling"},
     {"evaluate", "linalg", "rescue"},
     {"refine", "homotopy", "tracker"},

@@ -136,3 +136,17 @@ def test_arbitrary_text_raises_only_our_errors(text):
         parse_polynomial(text, XY)
     except NumagError:
         pass
+
+
+def test_nesting_tokens_and_length_limits_name_the_limit():
+    from numag.parse import MAX_EQUATION_LENGTH, MAX_NESTING, MAX_TOKENS
+    assert parse_polynomial("(" * MAX_NESTING + "x" + ")" * MAX_NESTING, ["x"]).to_text(["x"]) == "x"
+    with pytest.raises(ParseError, match=f"nested more than {MAX_NESTING}"):
+        parse_polynomial("(" * (MAX_NESTING + 1) + "x" + ")" * (MAX_NESTING + 1), ["x"])
+    with pytest.raises(ParseError, match=f"nested more than {MAX_NESTING}"):
+        parse_polynomial("sqrt(" * (MAX_NESTING + 1) + "2" + ")" * (MAX_NESTING + 1), ["x"])
+    assert parse_polynomial("-" * 5001 + "x", ["x"]).to_text(["x"]) == "-x"  # a loop, not recursion
+    with pytest.raises(ParseError, match=f"more than {MAX_TOKENS}"):
+        parse_polynomial("x+" * MAX_TOKENS + "x", ["x"])
+    with pytest.raises(ParseError, match="longer than"):
+        parse_polynomial(" " * (MAX_EQUATION_LENGTH + 1), ["x"])

@@ -71,3 +71,24 @@ def test_power_zero_and_one():
     f = parse_polynomial("x + y + 1", XY)
     assert f.power(0) == Polynomial.constant(1, 2)
     assert f.power(1) == f
+
+
+def test_prepared_for_numerics_drops_rescales_or_refuses():
+    from numag.errors import InputError
+    from numag.parse import parse_system
+    from numag.polynomial import prepared_for_numerics
+    kept = parse_system(["x^2 - 1"], ["x"])
+    assert prepared_for_numerics(kept) == (kept, [])
+    system, notes = prepared_for_numerics(parse_system(["0", "1e-300*x^2 - 1e-300"], ["x"]))
+    assert system.to_texts() == ["x^2 - 1"] and len(notes) == 2 and "divided by 1e-300" in notes[1]
+    with pytest.raises(InputError, match=r"equation 2: the coefficient of x \(about 1e477\)"):
+        prepared_for_numerics(parse_system(["x - 1", "3^1000*x - 1"], ["x"]))
+    with pytest.raises(InputError, match="every equation is zero"):
+        prepared_for_numerics(parse_system(["x - x"], ["x"]))
+
+
+def test_regeneration_bound_counts_each_stage():
+    from numag.polynomial import regeneration_bound
+    # stages of three quadrics in three unknowns: 2, 4, 8 paths; constants add nothing
+    assert regeneration_bound([2, 2, 2, 0], 3) == 14
+    assert regeneration_bound([3, 1, 2], 2) == 1 + 2  # lowest degrees first, at most n stages

@@ -69,3 +69,25 @@ def test_the_child_gets_plain_data_not_text_to_parse():
     terms = {tuple(e): parts for e, parts in plain["equations"][0]}
     assert terms[(2, 0)] == {"1": ["1/2", "0"], "5": ["1/2", "0"]}
     assert terms[(0, 1)] == {"1": ["0", "-1"]}
+
+
+def test_the_child_does_not_import_a_package_planted_in_the_working_directory(tmp_path, monkeypatch):
+    # A folder holding a planted `numag/` package: an ordinary `python -c "import numag"` started there
+    # runs it (the negative control, so that this test can fail); the exact reference's child must not.
+    marker = tmp_path / "planted-code-ran"
+    planted = tmp_path / "numag"
+    planted.mkdir()
+    payload = f"open({str(marker)!r}, 'w').write('ran')\n"
+    (planted / "__init__.py").write_text(payload)
+    (planted / "reference.py").write_text(payload)
+    import subprocess
+    import sys
+    subprocess.run([sys.executable, "-c", "import numag"], cwd=tmp_path, check=True)
+    assert marker.exists()
+    marker.unlink()
+    monkeypatch.chdir(tmp_path)
+    monkeypatch.setenv("PYTHONPATH", str(tmp_path))  # isolated mode ignores it too
+    answer = exact_reference(parse_system(["y^2 - x^3"], ["x", "y"]), seconds=60, seed=1)
+    assert answer.status == "finished", answer.message
+    assert answer.singular_points == 1  # the cusp's one singular point: common practice, no source
+    assert not marker.exists()

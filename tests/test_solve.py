@@ -12,6 +12,7 @@ from numag.errors import InputError
 from numag.parse import parse_system
 from numag.report import dumps, solve_report_from_dict, solve_report_to_dict
 from numag.solve import SolveOptions, solve_system
+from numag.tracker import PathStatus
 
 
 def cyclic(n):
@@ -238,11 +239,14 @@ def test_killed_run_resumes_without_tracking_finished_batches_again(tmp_path):
                               "--batch-size", "2", "--workers", "1", "--seed", "6", "--json"],
                              stdout=subprocess.DEVNULL, stderr=subprocess.DEVNULL, env=env)
     deadline = time.time() + 120
-    while time.time() < deadline and len(list(folder.glob("batch-*.npz"))) < 3:
+    while time.time() < deadline and len(list(folder.glob("batch-*.npz"))) < 4:
         time.sleep(0.01)
     child.send_signal(signal.SIGKILL)
     child.wait()
-    finished = {p.name: p.stat().st_mtime_ns for p in folder.glob("batch-*.npz")}
+    # a batch counts once its checksum is in the manifest (a kill between writing the file and recording
+    # it leaves a file that resume does not trust: it is tracked again)
+    recorded = json.loads((folder / "manifest.json").read_text())["batch_files"]
+    finished = {p.name: p.stat().st_mtime_ns for p in folder.glob("batch-*.npz") if str(int(p.name[6:12])) in recorded}
     assert 3 <= len(finished) < 32, "the run must be killed part-way"
     out = io.StringIO()
     assert main(["solve", "--resume", str(folder), "--json"], out=out) == 0
@@ -271,3 +275,66 @@ def test_a_run_folder_of_another_run_is_refused(tmp_path):
                      execution=Execution(run_folder=str(tmp_path / "r"), resume=True))
     with pytest.raises(InputError, match="already holds a run"):
         solve_system(_cubics(), SolveOptions(batch_size=10), seed=1, execution=Execution(run_folder=str(tmp_path / "r")))
+
+
+def _forge(folder, index, change):
+    """Change batch ``index`` of a run folder and record the new file's checksum: a consistent forgery."""
+    import hashlib
+    from numag.checkpoint import RunFolder
+    run = RunFolder.open(folder)
+    arrays = run.read_batch(index)
+    change(arrays)
+    run.write_batch(index, arrays)  # writes the file and records its sha256 and shapes
+    return hashlib.sha256(run.batch_path(index).read_bytes()).hexdigest()
+
+
+@pytest.mark.parametrize("seed", [1, 4])
+def test_tampered_batches_are_tracked_again_never_trusted(tmp_path, seed):
+    from numag.solve import Execution
+    options = SolveOptions(batch_size=9)
+    folder = tmp_path / "r"
+    clean = solve_system(_cubics(), options, seed=seed, execution=Execution(run_folder=str(folder)))
+    rng = np.random.default_rng(seed)
+
+    def random_endpoints(arrays):
+        arrays["endpoints"] = rng.standard_normal(arrays["endpoints"].shape) + 1j
+        arrays["status"][:] = PathStatus.CONVERGED
+
+    def all_at_infinity(arrays):
+        arrays["status"][:] = PathStatus.AT_INFINITY
+
+    def other_paths(arrays):
+        arrays["indices"] = arrays["indices"] + 1
+
+    _forge(folder, 0, random_endpoints)
+    _forge(folder, 1, all_at_infinity)
+    _forge(folder, 2, other_paths)
+    raw = bytearray((folder / "batch-000000.npz").read_bytes())
+    resumed = solve_system(_cubics(), options, seed=seed, execution=Execution(run_folder=str(folder), resume=True))
+    rejected = {r["index"]: r["reason"] for r in resumed.extra["execution"]["batches_rejected"]}
+    assert set(rejected) == {0, 1, 2}
+    assert "do not solve the system" in rejected[0] and "statuses do not match" in rejected[1]
+    assert "other paths" in rejected[2]
+    assert len(resumed.solutions) == len(clean.solutions) and np.array_equal(resumed.status, clean.status)
+    # a file changed without its checksum: refused by the checksum, tracked again
+    (folder / "batch-000000.npz").write_bytes(bytes(raw[:-7]) + b"1234567")
+    again = solve_system(_cubics(), options, seed=seed, execution=Execution(run_folder=str(folder), resume=True))
+    assert "checksum" in again.extra["execution"]["batches_rejected"][0]["reason"]
+    assert len(again.solutions) == len(clean.solutions)
+
+
+def test_an_edited_manifest_is_refused_on_resume(tmp_path):
+    from numag.cli import main
+    from numag.solve import Execution
+    folder = tmp_path / "r"
+    solve_system(_cubics(), SolveOptions(batch_size=10), seed=1, execution=Execution(run_folder=str(folder)))
+    manifest = json.loads((folder / "manifest.json").read_text())
+    manifest["seed"] = 2
+    (folder / "manifest.json").write_text(json.dumps(manifest))
+    assert main(["solve", "--resume", str(folder)], out=io.StringIO()) == 2
+    manifest["seed"] = 1
+    manifest["system"]["equations"][0] = "x^3 - 2"
+    (folder / "manifest.json").write_text(json.dumps(manifest))
+    with pytest.raises(InputError, match="fingerprint mismatch in: system"):
+        solve_system(_cubics(), SolveOptions(batch_size=10), seed=1,
+                     execution=Execution(run_folder=str(folder), resume=True))
