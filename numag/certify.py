@@ -622,6 +622,10 @@ def _coordinate_scales(center, digits):
     return [max(abs(c), floor) for c in center]
 
 
+#: What mpmath's LU decomposition raises on a singular matrix (a zero pivot column ends in a TypeError).
+_SINGULAR = (ZeroDivisionError, TypeError)
+
+
 class _Square:
     """A square subsystem, evaluated in double, mp and iv."""
 
@@ -643,7 +647,7 @@ class _Square:
             values, jac = self.precise.evaluate(list(x), mp)
             try:
                 step = mp.lu_solve(jac, values)
-            except ZeroDivisionError:
+            except _SINGULAR:
                 return x, False
             x = x - step
             size = mp.norm(step, mp.inf)
@@ -666,7 +670,7 @@ class _Square:
         _, jac_center = self.precise.evaluate(list(center), mp)
         try:
             inverse = mp.inverse(jac_center)
-        except ZeroDivisionError:
+        except _SINGULAR:
             return None
         y = _to_iv_matrix(inverse)
         n = self.n
@@ -709,7 +713,7 @@ class _Square:
         _, jac_mp = self.precise.evaluate(list(center), mp)
         try:
             y = _to_iv_matrix(mp.inverse(jac_mp))
-        except ZeroDivisionError:
+        except _SINGULAR:
             return None, None
         n = self.n
         defect = _frobenius_upper(iv.eye(n) - y * jac)
@@ -874,13 +878,7 @@ def _choose_rows(equations, pinned, point):
     _, jac, _ = _equilibrated(equations, point)
     if not np.all(np.isfinite(jac)):
         raise _Undecided("the equations do not evaluate to finite numbers near the point")
-    values = np.linalg.svd(jac, compute_uv=False)
-    # Deflation follows a failure, so the rank it uses errs low: the smaller of the rank relative to the
-    # point (columns in units of |x_j|, blind to a zero at the origin: x^2 near 1e-9 looks regular in
-    # those units) and the rank in absolute units (rows by ||c|| ||(1, x)||^(d - 1), columns by 1).
-    absolute = _absolute_jacobian(equations, point)
-    rank = min(int(np.sum(values > _DEFLATION_THRESHOLD)),
-               int(np.sum(np.linalg.svd(absolute, compute_uv=False) > _DEFLATION_THRESHOLD)))
+    rank = int(np.sum(np.linalg.svd(jac, compute_uv=False) > _DEFLATION_THRESHOLD))
     projected = jac
     if pinned:
         _, pinned_jac, _ = _equilibrated(pinned, point)
@@ -947,7 +945,7 @@ def _fit(rect, center, radii, targets, real):
         m = mp.mpc((a + b) / 2, 0 if real else (c + d) / 2)
         half = max((b - a) / 2, (d - c) / 2, abs(c) if real else 0, abs(d) if real else 0)
         r = max(half * (1 + 16 * mp.eps), target)
-        if abs(m.real - c0.real) + r > r0 or abs(m.imag - c0.imag) + r > r0:
+        if abs(m.real - c0.real) + r > r0 * (1 - 16 * mp.eps) or abs(m.imag - c0.imag) + r > r0 * (1 - 16 * mp.eps):
             return list(center), list(radii)
         middle.append(m)
         fitted.append(r)
@@ -994,6 +992,29 @@ def _proved_box(square, center, digits, real_coefficients):
     if alpha is not None and alpha < mp.mpf(alpha_zero(iv).a):
         return _Box(list(center), [2 * beta] * len(center), "alpha", None)
     return None
+
+
+def _publish(square, box, digits):
+    """Centre texts and radii (doubles) of the box as written in the certificate.
+
+    The texts round the centre, so the written box is widened by that rounding (it holds the proved
+    one) and, for a Krawczyk box, Krawczyk's test is run once more on the written box itself, so that
+    what the certificate states (exactly one zero in centre_text +- radii) is what was proved. Should
+    that test fail, the centre is written with more digits.
+    """
+    mp = mpmath.mp
+    for shown in (digits, _guarded(digits), 2 * _guarded(digits)):
+        texts = [_text(c, shown) for c in box.center]
+        parsed = [_parse_center(t) for t in texts]
+        radii = [_float_up(r + max(abs(q.real - c.real), abs(q.imag - c.imag)))
+                 for r, q, c in zip(box.radii, parsed, box.center)]
+        if box.method != "Krawczyk":
+            return texts, radii
+        outcome, _, _ = square.krawczyk(parsed, [mp.mpf(r) for r in radii])
+        if outcome == "inside":
+            return texts, radii
+    # not reached in practice; the proved box with every digit, widened by its rounding
+    return texts, radii
 
 
 def _refute(polynomials, point, radius, digits):
@@ -1045,7 +1066,7 @@ def _account(rest, box):
         upper = _magnitude_upper(values[i])
         terms = _terms_lower(p, box)
         uppers.append(upper)
-        ratios.append(upper / terms if terms > 0 else (mp.mpf(0) if upper == 0 else mp.inf))
+        ratios.append(upper / terms * (1 + 4 * mp.eps) if terms > 0 else (mp.mpf(0) if upper == 0 else mp.inf))
     worst = max(range(len(rest)), key=lambda i: ratios[i])
     return _Accounting(excluded, ratios[worst], max(uppers), uppers, ratios, worst)
 
@@ -1098,11 +1119,8 @@ def _certify_zero(required, point, options, claim, pinned=(), exact_check=True, 
 def _certify_zero_at(required, point, options, claim, digits, pinned, exact_check, squares,
                      allow_restriction=True):
     """One attempt at ``digits``. Returns (certificate, digits that might decide it or None)."""
-    n = len(point)
-    rng = np.random.default_rng(options.seed)
     reach = options.match_radius * (1 + float(np.max(np.abs(point), initial=0.0)))
     threshold = 10.0 ** (-(digits - options.guard_digits))
-    more = 2 * digits
 
     def failed(reason, wanted=None, **extra):
         refuting = _refute(required, point, reach, max(digits, 20))
@@ -1113,15 +1131,40 @@ def _certify_zero_at(required, point, options, claim, digits, pinned, exact_chec
                                       f"claim is nonzero over that box; before that: {reason}", **extra), None
         return _undecided(claim, point, digits, reason, threshold=threshold, **extra), wanted
 
+    found, problem, wanted, deflations = _locate(required, pinned, point, options, digits, squares, reach, False)
+    if found is None and deflations:
+        # the deflations used the rank in units of the point; try again with the rank in absolute units,
+        # which sees a zero at the origin that the other one cannot
+        again = _locate(required, pinned, point, options, digits, None, reach, True)
+        if again[0] is not None:
+            found, problem, wanted, deflations = again
+    if found is None:
+        if deflations and problem:
+            problem += f" (after {deflations} round(s) of isosingular deflation)"
+        return failed(problem, wanted, deflations=deflations)
+    box, rows, deflations, square, chosen = found
+    return _settle(required, point, options, claim, digits, pinned, exact_check, box, rows, deflations, square,
+                   chosen, reach, threshold, allow_restriction)
+
+
+def _locate(required, pinned, point, options, digits, squares, reach, absolute):
+    """Newton and Krawczyk on a square subsystem, deflating after each failure at a near zero.
+
+    Returns (found, problem, digits that might help, deflations); found is (box, rows, deflations, square,
+    chosen) or None. The deflation minors have size r + 1 with r the numerical rank of J (at most n - 1),
+    in units of the point's coordinates, or with ``absolute`` the smaller of that and the absolute rank.
+    """
+    n = len(point)
+    rng = np.random.default_rng(options.seed)
     equations = list(required)
     x = _gauss_newton_double(equations + list(pinned), point)
     w = _guarded(digits)
-    found, problem, wanted = None, "", None
+    problem, wanted, deflations = "", None, 0
     for deflations in range(options.max_deflations + 1):
         try:
             rows, rank = _choose_rows(equations, list(pinned), x)
         except _Undecided as err:
-            return failed(str(err), deflations=deflations)
+            return None, str(err), None, deflations
         chosen = list(pinned) + [equations[k] for k in rows]
         key = tuple(id(p) for p in chosen)
         if squares is not None and key in squares:
@@ -1142,18 +1185,21 @@ def _certify_zero_at(required, point, options, claim, digits, pinned, exact_chec
             else:
                 box = _proved_box(square, center, digits, _is_real(chosen))
                 if box is not None:
-                    found = (box, rows, deflations, square, chosen)
-                    break
+                    return (box, rows, deflations, square, chosen), "", None, deflations
                 problem, wanted = (f"neither Krawczyk's test nor the alpha test succeeded at {digits} digits "
-                                   "(ill-conditioned)"), more
+                                   "(ill-conditioned)"), 2 * digits
         if deflations == options.max_deflations or not _near_zero(equations, x):
             break
         if float(np.max(np.abs(x - point))) > reach:
-            problem += f" (the equations' nearest near zero, {float(np.max(np.abs(x - point))):.3g} away, is out of reach)"
+            problem += (f" (the equations' nearest near zero, {float(np.max(np.abs(x - point))):.3g} away, is out "
+                        "of reach)")
             break
         if sum(p.n_terms for p in equations) * n > _DEFLATION_TERMS:
             problem += "; the deflation minors would be too large to write out"
             break
+        if absolute:
+            rank = min(rank, int(np.sum(np.linalg.svd(_absolute_jacobian(equations, x), compute_uv=False)
+                                        > _DEFLATION_THRESHOLD)))
         # Newton or Krawczyk failed at a near zero: deflate, by the n x n minors at least
         try:
             minors, _ = _minor_equations(equations, min(rank, n - 1) + 1, n, options.max_minors, rng,
@@ -1165,13 +1211,7 @@ def _certify_zero_at(required, point, options, claim, digits, pinned, exact_chec
             break
         equations = equations + minors
         x = _gauss_newton_double(equations + list(pinned), x)
-    if found is None:
-        if deflations and problem:
-            problem += f" (after {deflations} round(s) of isosingular deflation)"
-        return failed(problem, wanted, deflations=deflations)
-    box, rows, deflations, square, chosen = found
-    return _settle(required, point, options, claim, digits, pinned, exact_check, box, rows, deflations, square,
-                   chosen, reach, threshold, allow_restriction)
+    return None, problem, wanted, deflations
 
 
 def _settle(required, point, options, claim, digits, pinned, exact_check, box, rows, deflations, square, chosen,
@@ -1188,13 +1228,14 @@ def _settle(required, point, options, claim, digits, pinned, exact_check, box, r
         interval_box = _iv_box(box.center, box.radii)
         accounting = _account(rest, interval_box)
         distance = float(max((abs(complex(c) - p) for c, p in zip(box.center, point)), default=0.0))
+        texts, radii = _publish(square, box, digits)
         common = dict(deflations=deflations, square_equations=[int(k) for k in rows],
                       alpha=None if alpha is None else float(alpha), alpha_certified=bool(alpha_ok),
                       alpha_radius=None if beta is None else float(2 * beta), threshold=threshold,
-                      radii=[_float_up(r) for r in box.radii], distance=distance)
+                      radii=radii, distance=distance)
         certificate = Certificate(
             Status.CERTIFIED, Kind.NUMERICAL, claim, np.array([complex(c) for c in box.center]),
-            [_text(c, digits) for c in box.center], max(common["radii"], default=0.0), digits,
+            texts, max(radii, default=0.0), digits,
             method=box.method, real=box.real,
             backward_error=None if accounting.backward is None else _float_up(accounting.backward),
             residual_bound=None if accounting.residual is None else _float_up(accounting.residual), **common)
@@ -1285,7 +1326,9 @@ def _restricted(required, point, zero, options, claim, digits, exact_check):
                               exact_check, None, allow_restriction=False)
     if sub.status != Status.CERTIFIED:
         return None
-    return _insert_zeros(sub, zero, n, live)
+    lifted = _insert_zeros(sub, zero, n, live)
+    lifted.distance = max(lifted.distance or 0.0, float(max(abs(point[j]) for j in zero)))
+    return lifted
 
 
 def _insert_zeros(certificate, zero, n, numbering=None):
@@ -1293,12 +1336,16 @@ def _insert_zeros(certificate, zero, n, numbering=None):
     keep = [j for j in range(n) if j not in zero]
     center = np.zeros(n, dtype=complex)
     center[keep] = certificate.center
-    texts, radii = ["0"] * n, [0.0] * n
+    texts = ["0"] * n
     for position, j in enumerate(keep):
-        texts[j] = certificate.center_text[position]
-        radii[j] = certificate.radii[position]
-    certificate.center, certificate.center_text, certificate.radii = center, texts, radii
-    certificate.radius = max(radii, default=0.0)
+        texts[j] = certificate.center_text[position] if position < len(certificate.center_text) else ""
+    certificate.center, certificate.center_text = center, texts
+    if certificate.radii is not None:
+        radii = [0.0] * n
+        for position, j in enumerate(keep):
+            radii[j] = certificate.radii[position]
+        certificate.radii = radii
+        certificate.radius = max(radii, default=0.0)
     if certificate.exact_coordinates is not None:
         coordinates = ["0"] * n
         for position, j in enumerate(keep):
@@ -1348,8 +1395,10 @@ def _integer_relation(values, digits):
         if abs(v) <= tiny:  # PSLQ needs non-zero entries; a vanishing entry is a relation by itself
             return [1 if j == k else 0 for j in range(len(values))]
     try:
+        # a relation among k numbers with coefficients up to H exists by chance at a residual near H^-(k-1):
+        # H^k is kept well below the tolerance's 10^(2 digits / 3), so what PSLQ finds is not chance
         relation = mpmath.pslq([v / scale for v in folded], tol=mp.mpf(10) ** (-(digits * 2 // 3)),
-                               maxcoeff=10 ** (digits // 4), maxsteps=20000)
+                               maxcoeff=10 ** max(2, (digits * 11) // (20 * len(values))), maxsteps=20000)
     except (ValueError, ZeroDivisionError):
         return None
     if relation is None:
@@ -1421,7 +1470,12 @@ def _exact_route(square, required, chosen, center, radii, options, digits):
         refined, converged = square.newton(center, precision)
         if not converged:
             return _ExactOutcome("none", note="exact recognition skipped: high-precision refinement failed")
-        x = [refined[j] for j in range(n)]
+        # each coordinate in units of its power of ten (exact): a change of units (x -> 1000 x) would
+        # otherwise multiply the minimal polynomial's coefficients beyond what PSLQ finds at this precision
+        negligible = mp.mpf(10) ** (-(precision // 2)) * max([abs(refined[j]) for j in range(n)] + [mp.mpf(1)])
+        powers_of_ten = [int(mp.nint(mp.log10(abs(refined[j])))) if abs(refined[j]) > negligible else 0
+                         for j in range(n)]
+        x = [refined[j] / mp.mpf(10) ** e for j, e in zip(range(n), powers_of_ten)]
         t = mp.fsum(w * v for w, v in zip(itertools.cycle(weights), x)) if n else mp.mpc(0)
         basis_values = [b.to_context(mp) for b in basis]
         for degree in range(1, top + 1):
@@ -1441,13 +1495,14 @@ def _exact_route(square, required, chosen, center, radii, options, digits):
                     expressions = None
                     break
                 parts = [_combine(rel[1 + k * len(basis):1 + (k + 1) * len(basis)], basis) for k in range(degree)]
-                scale = ExactCoefficient.rational(Fraction(-1, int(rel[0])))
+                e = powers_of_ten[len(expressions)]
+                scale = ExactCoefficient.rational(Fraction(-1, int(rel[0])) * Fraction(10) ** e)
                 expressions.append([c * scale for c in parts])
             if expressions is None:
                 continue
             verdict = _verify_exact(required, chosen, monic, expressions, t, center, radii)
             if verdict is None:
-                break
+                continue  # a relation found by chance: its root is not in the box
             required_zero, square_zero = verdict
             texts = [_expression_text(e) for e in expressions]
             minimal = None if degree == 1 else _poly_text(monic)
@@ -1455,7 +1510,8 @@ def _exact_route(square, required, chosen, center, radii, options, digits):
             if radical is not None:  # t = (-b +- sqrt(b^2 - 4c))/2 written out
                 texts = [(e[0] + e[1] * radical).to_text() for e in expressions]
                 minimal = None
-            form = " + ".join(f"{w}*x{j + 1}" for j, w in zip(range(n), itertools.cycle(weights)))
+            form = " + ".join(f"{w}*x{j + 1}" + (f"/10^{e}" if e else "")
+                              for j, w, e in zip(range(n), itertools.cycle(weights), powers_of_ten))
             if all(required_zero):
                 return _ExactOutcome("zero", texts, minimal,
                                      "exact: every equation vanishes identically modulo the minimal polynomial of "
@@ -1465,7 +1521,6 @@ def _exact_route(square, required, chosen, center, radii, options, digits):
                                      f"the only zero of the square subsystem in the box is exact (t = {form}, PSLQ "
                                      f"at {precision} digits), and an equation of the claim is not 0 there",
                                      required_zero.index(False))
-            break
     return _ExactOutcome("none", note=f"no exact form found (primitive element of degree up to {top} over the "
                                       "coefficient field)")
 
@@ -1496,7 +1551,10 @@ def _quadratic_root(monic, t_value):
     if not disc.is_rational():
         return None
     disc = disc.as_fraction()
-    root = ExactCoefficient.square_root(abs(disc))
+    try:
+        root = ExactCoefficient.square_root(abs(disc))
+    except LimitError:  # a radicand too large to split: keep the polynomial in t
+        return None
     if disc < 0:
         root = root * ExactCoefficient.imaginary_unit()
     candidates = [(root * sign - b) * ExactCoefficient.rational(Fraction(1, 2)) for sign in (1, -1)]
@@ -1746,7 +1804,7 @@ def _rank_lower_bound(polynomials, center, radii, r):
             sub[a, b] = jac_center[i, j]
     try:
         y = _to_iv_matrix(mp.inverse(sub))
-    except ZeroDivisionError:
+    except _SINGULAR:
         return None
     _, jac_box = evaluator.evaluate(_iv_box(center, radii), iv)
     sub_box = iv.matrix(r, r)
