@@ -774,12 +774,32 @@ def smooth_points(base, rng, digits, count=4):
         univariate = sympy.Poly(base.polys[0].subs(values), symbols[-1])
         if univariate.degree() < 1:
             continue
-        with mpmath.workdps(digits):  # the roots by mpmath (exact root objects evaluate far too slowly)
+        with mpmath.workdps(digits):  # exact root objects evaluate far too slowly: Newton in mpmath
             coefficients = [complex_parts(c) for c in univariate.all_coeffs()]
-            roots = mpmath.polyroots(coefficients, maxsteps=400, extraprec=2 * digits)
+            roots = polished_roots(coefficients)
         for root in roots:
             found.append(tuple(mp_of(values[s], digits) for s in symbols[:-1]) + (root,))
     return found
+
+
+def polished_roots(coefficients):
+    """Simple roots of a univariate polynomial (highest coefficient first): numpy's roots, then Newton in
+    mpmath at the current precision; roots where Newton does not settle (multiple ones) are left out."""
+    approximate = np.roots([complex(c) for c in coefficients])
+    roots = []
+    tolerance = mpmath.mpf(10) ** (-(mpmath.mp.dps - 5))
+    for z in approximate:
+        z = mpmath.mpc(z)
+        for _ in range(200):
+            value, slope = mpmath.polyval(coefficients, z, derivative=True)
+            if slope == 0:
+                break
+            step = value / slope
+            z -= step
+            if abs(step) <= tolerance * (1 + abs(z)):
+                roots.append(z)
+                break
+    return roots
 
 
 def wrong_claims(count, digits, rng):

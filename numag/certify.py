@@ -643,6 +643,7 @@ class _Square:
         x = mp.matrix([mp.mpc(v) for v in start])
         target = mp.mpf(10) ** (-(digits + 3))
         last = mp.inf
+        slow = 0  # steps in a row that shrank by less than a factor 3: linear convergence, a singular zero
         for _ in range(max_iterations):
             values, jac = self.precise.evaluate(list(x), mp)
             try:
@@ -657,6 +658,9 @@ class _Square:
             if all(abs(step[j]) <= target * scales[j] for j in range(self.n)):
                 return x, True
             if size > 4 * last and last < 1e-3 * (1 + mp.norm(x, mp.inf)):  # diverging after having been close
+                return x, False
+            slow = slow + 1 if size > last / 3 else 0
+            if slow >= 12:
                 return x, False
             last = size
         return x, False
@@ -1078,13 +1082,17 @@ def _undecided(claim, point, digits, reason, **extra):
                        [_text(v, 17) for v in point], None, digits, reason=reason, **extra)
 
 
-def _certify_zero(required, point, options, claim, pinned=(), exact_check=True, squares=None, want_exact=False):
+def _certify_zero(required, point, options, claim, pinned=(), exact_check=True, squares=None, want_exact=None):
     """Certify a zero of ``required`` near ``point`` (affine coordinates), raising the precision while needed.
 
     ``pinned`` equations (slices through the point) are always in the square subsystem and are no part
     of the claim. ``squares`` caches square subsystems across the points of one system. With
-    ``want_exact`` a numerical certificate is retried at higher precision for an exact one (rank drops).
+    ``want_exact`` a numerical certificate with equations outside its square subsystem (only a backward
+    error for them) is retried at higher precision for an exact one; by default whenever ``max_digits``
+    is above ``digits`` (the caller asked for the decision to be proved).
     """
+    if want_exact is None:
+        want_exact = options.limit > options.digits
     options = options.validated()
     point = np.asarray(point, dtype=complex)
     n = required[0].n_variables if required else len(point)
@@ -1098,10 +1106,11 @@ def _certify_zero(required, point, options, claim, pinned=(), exact_check=True, 
         certificate, wanted = _certify_zero_at(required, point, options, claim, digits, tuple(pinned),
                                                exact_check, squares)
         tried.append(digits)
-        if want_exact and certificate.certified and certificate.kind != Kind.EXACT and wanted is None:
+        inexact = (want_exact and certificate.certified and certificate.kind != Kind.EXACT
+                   and certificate.backward_error is not None and exact_check)
+        if inexact and wanted is None:
             wanted = 2 * digits
-        open_question = certificate.status == Status.UNDECIDED or (want_exact and certificate.certified
-                                                                   and certificate.kind != Kind.EXACT)
+        open_question = certificate.status == Status.UNDECIDED or inexact
         if not open_question or wanted is None or digits >= options.limit:
             break
         digits = min(options.limit, max(int(wanted), 2 * digits))
@@ -1268,10 +1277,9 @@ def _settle(required, point, options, claim, digits, pinned, exact_check, box, r
         exact_allowed = exact_check and options.exact and all(p.is_exact for p in required + list(chosen))
         if exact_allowed:
             outcome = _exact_route(square, required, list(chosen), box.center, box.radii, options, digits)
-            if outcome is not None:
-                _apply_exact(certificate, outcome, rest_index, n)
-                if certificate.status != Status.UNDECIDED:
-                    return certificate, None
+            _apply_exact(certificate, outcome, rest_index, n)
+            if outcome.outcome != "none":
+                return certificate, None
         if exact_allowed and rest and _is_rational(required + list(chosen)):
             proved, needed, note = _separation(list(chosen), rest, accounting, n, interval_box)
             certificate.notes.append(note)
