@@ -1140,6 +1140,10 @@ def _certify_zero_at(required, point, options, claim, digits, pinned, exact_chec
                                       f"claim is nonzero over that box; before that: {reason}", **extra), None
         return _undecided(claim, point, digits, reason, threshold=threshold, **extra), wanted
 
+    if exact_check and options.exact and not pinned:
+        exact = _exact_at_point(required, point, claim, digits, threshold)
+        if exact is not None:
+            return exact, None
     found, problem, wanted, deflations = _locate(required, pinned, point, options, digits, squares, reach, False)
     if found is None and deflations:
         # the deflations used the rank in units of the point; try again with the rank in absolute units,
@@ -1154,6 +1158,54 @@ def _certify_zero_at(required, point, options, claim, digits, pinned, exact_chec
     box, rows, deflations, square, chosen = found
     return _settle(required, point, options, claim, digits, pinned, exact_check, box, rows, deflations, square,
                    chosen, reach, threshold, allow_restriction)
+
+
+#: Exact substitution of a given point is tried for equations with at most this many terms in all.
+_SUBSTITUTION_TERMS = 5000
+
+
+def _exact_at_point(required, point, claim, digits, threshold):
+    """A certificate for the given point itself when every equation vanishes there exactly, else None.
+
+    A double is a dyadic rational, so the given coordinates are exact numbers: when the exact equations
+    vanish there (a node given as (0, 0), a linkage's branch point (1, 0, 1, 0)), that point is the
+    certified zero, whatever the Jacobian does (also on a positive-dimensional set of zeros).
+    """
+    if not all(p.is_exact for p in required) or sum(p.n_terms for p in required) > _SUBSTITUTION_TERMS:
+        return None
+    values, _, _ = _equilibrated(required, point)
+    if not np.all(np.isfinite(values)) or np.linalg.norm(values) > 1e-12:
+        return None  # not even nearly a zero in double precision: no exact zero there
+    exact = [ExactCoefficient.from_complex(v) for v in point]
+    powers = [[ExactCoefficient.rational(1)] for _ in exact]
+    for p in required:
+        total = ExactCoefficient.zero()
+        for row, c in zip(p.exponents, p.coefficients):
+            term = c
+            for j, e in enumerate(row):
+                if e:
+                    while len(powers[j]) <= e:
+                        powers[j].append(powers[j][-1] * exact[j])
+                    term = term * powers[j][int(e)]
+            total = total + term
+        if not total.is_zero():
+            return None
+    texts, radii = [], []
+    with working_digits(_guarded(digits)):
+        for v, q in zip(point, exact):
+            text = _text(mpmath.mp.mpc(v), 17)
+            shown = _parse_center(text)
+            # the text rounds the double: the box is widened by that (the exact point stays inside)
+            radii.append(_float_up(max(abs(shown.real - mpmath.mp.mpf(v.real)),
+                                       abs(shown.imag - mpmath.mp.mpf(v.imag)))))
+            texts.append(text)
+    certificate = Certificate(Status.CERTIFIED, Kind.EXACT, claim, np.asarray(point, dtype=complex), texts,
+                              max(radii, default=0.0), digits, method="exact substitution", threshold=threshold,
+                              radii=radii, backward_error=0.0, residual_bound=0.0, distance=0.0,
+                              exact_method="exact substitution", exact_coordinates=[q.to_text() for q in exact])
+    certificate.notes.append("the given point is an exact zero of every equation of the claim (its coordinates "
+                             "are the exact binary values given)")
+    return certificate
 
 
 def _locate(required, pinned, point, options, digits, squares, reach, absolute):
@@ -1943,11 +1995,17 @@ def _at_infinity(polynomials, point, run, charts=None, reach=1e-6):
 
 # --- public entry points ----------------------------------------------------------------------------
 
+def _regular(certificate):
+    """Whether the certificate proves a regular zero (Krawczyk or alpha on the claim's own equations)."""
+    return (certificate.method in ("Krawczyk", "alpha") and certificate.deflations == 0
+            and not certificate.zero_coordinates)
+
+
 def _check_multiplicity(certificate, polynomials, reported):
     """Multiplicity of a certified zero: 1 when regular (proved), else the dual space (numerical)."""
     if not certificate.certified:
         return
-    if certificate.deflations == 0 and not certificate.zero_coordinates:
+    if _regular(certificate):
         certificate.multiplicity, certificate.multiplicity_method = 1, "regular zero (proved)"
     else:
         with working_digits(_guarded(certificate.digits)):
@@ -2009,7 +2067,7 @@ def certify_regular_zero(system, point, options=None, projective=None, at_infini
 
     def run(polynomials, affine):
         certificate = _certify_zero(polynomials, affine, options, Claim.REGULAR_ZERO)
-        if certificate.deflations or certificate.zero_coordinates:
+        if certificate.certified and not _regular(certificate):
             certificate.claim = Claim.ZERO
         if not at_infinity:
             _check_multiplicity(certificate, polynomials, multiplicity)

@@ -310,7 +310,8 @@ def _certificate_line(certificate):
             text += f"\n            {rank}"
     else:
         kind = c["kind"] + (f", {c['exact_method']}" if c.get("exact_method") else "")
-        parts = [f"certified ({kind}, {c['method']}, {c['claim']})", f"radius {c['radius']:.1e}"]
+        method = "" if c["method"] == c.get("exact_method") else f"{c['method']}, "
+        parts = [f"certified ({kind}, {method}{c['claim']})", f"radius {c['radius']:.1e}"]
         if c.get("at_infinity"):
             parts.append(f"at infinity (w = 0 exactly, chart {c['chart']})")
         if c["real"] is True:

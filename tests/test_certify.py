@@ -182,7 +182,11 @@ def test_regular_solutions_certified_real_and_distinct():
 def test_non_isolated_zero_is_undecided_and_far_point_refuted():
     # x(x - y) = x(x + y) = 0 is the line x = 0 with an embedded point: not an isolated zero
     system = parse_system(["x*(x - y)", "x*(x + y)"], ["x", "y"])
-    assert certify_regular_zero(system, [0.0, 0.5]).status == "undecided"
+    assert certify_regular_zero(system, [1e-12, 0.5]).status == "undecided"
+    # the point (0, 1/2) itself is an exact zero (not an isolated one: no multiplicity)
+    given = certify_regular_zero(system, [0.0, 0.5])
+    assert given.status == "certified" and given.claim == "zero" and given.method == "exact substitution"
+    assert given.exact_coordinates == ["0", "1/2"] and given.multiplicity is None
     assert certify_regular_zero(system, [3.0, 0.5]).status == "refuted"
 
 

@@ -198,7 +198,7 @@ def test_solve_and_check_with_certify_switch(tmp_path):
     assert "rank J >= 2 on the box" in text
     code, text = run(["check", str(EXAMPLES / "parallel_linkage.toml"), "--point", "c1=1,s1=0,c2=1,s2=0",
                       "--certify", "--seed", "1"])
-    assert code == EXIT_OK and "certified (exact, recognised, Krawczyk, singular point)" in text
+    assert code == EXIT_OK and "certified (exact, exact substitution, singular point)" in text
     assert "rank J = 2: >= 2 on the box, <= 2 at the exact point" in text
 
 
