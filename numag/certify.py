@@ -1344,18 +1344,18 @@ def _settle(required, point, options, claim, digits, pinned, exact_check, box, r
                 wanted = max(wanted or 0, needed)
             elif certificate.certified and needed is not None:
                 wanted = needed  # a caller that wants exactness may raise the precision
-        if certificate.status == Status.UNDECIDED and allow_restriction and not pinned:
+        if certificate.status == Status.UNDECIDED and allow_restriction:
             zero = [j for j in range(n) if _holds_zero(interval_box[j])]
             if zero:
-                restricted = _restricted(required, point, zero, options, claim, digits, exact_check)
+                restricted = _restricted(required, point, zero, options, claim, digits, exact_check, pinned)
                 if restricted is not None:
                     return restricted, None
         return certificate, wanted
 
 
-def _restricted(required, point, zero, options, claim, digits, exact_check):
+def _restricted(required, point, zero, options, claim, digits, exact_check, pinned=()):
     """Certify inside the subspace where the coordinates ``zero`` vanish exactly; the certificate lifted
-    back (those coordinates exactly 0), or None."""
+    back (those coordinates exactly 0), or None. Slices through the point are restricted too."""
     n = len(point)
     reach = options.match_radius * (1 + float(np.max(np.abs(point), initial=0.0)))
     if any(abs(point[j]) > reach for j in zero):
@@ -1382,7 +1382,10 @@ def _restricted(required, point, zero, options, claim, digits, exact_check):
                                  + ("" if not keep else ": the point lies on a set of such zeros (not isolated)"))
         return certificate
     sub_point = point[keep]
-    sub, _ = _certify_zero_at([restricted[k] for k in live], sub_point, options, claim, digits, (),
+    slices = tuple(_restrict(s, zero) for s in pinned)
+    if len(slices) >= len(keep) or any(_is_constant(s) for s in slices):
+        return None
+    sub, _ = _certify_zero_at([restricted[k] for k in live], sub_point, options, claim, digits, slices,
                               exact_check, None, allow_restriction=False)
     if sub.status != Status.CERTIFIED:
         return None
