@@ -1017,7 +1017,9 @@ def _publish(square, box, digits):
         outcome, _, _ = square.krawczyk(parsed, [mp.mpf(r) for r in radii])
         if outcome == "inside":
             return texts, radii
-    # not reached in practice; the proved box with every digit, widened by its rounding
+    # not seen in practice: the written box holds the proved one (so the zero), uniqueness was shown for
+    # the proved box only
+    box.method = "Krawczyk (unique in the box before rounding its centre)"
     return texts, radii
 
 
@@ -1303,15 +1305,33 @@ def _settle(required, point, options, claim, digits, pinned, exact_check, box, r
         if deflations:
             certificate.notes.append(f"{deflations} round(s) of isosingular deflation made the zero regular; "
                                      "every equation of the claim is still accounted for")
+        # Only when the square subsystem consists of equations of the claim is every zero of the claim in
+        # the box a zero of it, so that its unique zero speaks for the whole box; deflation minors and
+        # slices through the point are not met by every zero of the claim.
+        pure = not pinned and all(k < len(required) for k in rows)
         if accounting.excluded:
             k = rest_index[accounting.excluded[0]]
-            certificate.status = Status.REFUTED
-            certificate.reason = (f"the box holds exactly one zero of the square subsystem, and equation {k + 1} "
-                                  f"of the claim does not vanish anywhere on it: the box holds no zero of the claim")
             refuting = _refute(required, point, reach, max(digits, 20))
-            if refuting is not None:
-                certificate.reason += f"; nor does any point within {reach:.3g} of the given point"
-            return certificate, None
+            if pure or refuting is not None:
+                certificate.status = Status.REFUTED
+                certificate.reason = (f"the box holds exactly one zero of the square subsystem, and equation "
+                                      f"{k + 1} of the claim does not vanish anywhere on it: the box holds no zero "
+                                      "of the claim" if pure else
+                                      f"equation {refuting + 1} of the claim does not vanish anywhere within "
+                                      f"{reach:.3g} of the given point")
+                if pure and refuting is not None:
+                    certificate.reason += f"; nor does any point within {reach:.3g} of the given point"
+                if not pure:  # the box written is the one around the given point
+                    certificate.center_text = [_text(v, 17) for v in point]
+                    certificate.center = np.asarray(point, dtype=complex)
+                    certificate.radii, certificate.radius = [reach] * n, reach
+                    certificate.method = "interval exclusion"
+                return certificate, None
+            certificate.status = Status.UNDECIDED
+            certificate.reason = (f"equation {k + 1} of the claim does not vanish at the zero of the square "
+                                  "subsystem (which has deflation minors or slices through the point, so other "
+                                  "zeros of the claim may lie in the box)")
+            return certificate, 2 * digits
         wanted = None
         if accounting.backward is not None and not accounting.backward <= threshold:
             k = rest_index[accounting.worst]
@@ -1329,6 +1349,9 @@ def _settle(required, point, options, claim, digits, pinned, exact_check, box, r
         exact_allowed = exact_check and options.exact and all(p.is_exact for p in required + list(chosen))
         if exact_allowed:
             outcome = _exact_route(square, required, list(chosen), box.center, box.radii, options, digits)
+            if outcome.outcome == "refuted" and not pure:
+                outcome = _ExactOutcome("none", note="the exact zero of the deflated square subsystem is not a zero "
+                                                     "of the claim (other zeros of the claim may lie in the box)")
             _apply_exact(certificate, outcome, rest_index, n)
             if outcome.outcome != "none":
                 return certificate, None

@@ -291,3 +291,16 @@ def test_certificates_do_not_depend_on_units(units):
     assert certificate.status == "certified" and certificate.kind == "exact"
     relative = np.asarray(certificate.radii) / np.abs(point)
     assert np.all(relative < 1e-20)
+
+
+def test_no_refutation_from_a_deflated_subsystem():
+    # x^2 = 10^-90, y = 0 has the two zeros (+-10^-45, 0) (worked by hand); around the origin, between them,
+    # the deflated square subsystem (2 x, y) has its zero at the origin where x^2 - 10^-90 is not 0, yet the
+    # box there holds both zeros of the claim: the answer must not be "refuted"
+    system = parse_system(["x^2 - 1/10^90", "y"], ["x", "y"])
+    between = certify_regular_zero(system, [0.0, 0.0])
+    assert between.status == "undecided"
+    near = certify_regular_zero(system, [3e-45, 0.0])
+    assert near.status == "certified" and near.kind == "exact"
+    with working_digits(100):
+        assert abs(_parse_center(near.center_text[0]) - mpmath.mpf(10) ** -45) <= near.radii[0]
