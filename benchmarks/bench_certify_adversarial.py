@@ -915,10 +915,12 @@ def run_family(family, count, options, seed, progress=None, workers=1):
 
 
 def short_reason(reason):
+    """The reason without its numbers and details, so that alike reasons are counted together."""
+    import re
     for marker in (" (", ":", ";"):
         if marker in reason[20:]:
             reason = reason[:20 + reason[20:].index(marker)]
-    return reason[:110]
+    return re.sub(r"[-+]?\d[\d.e+-]*", "#", reason)[:110]
 
 
 def main(argv=None):
@@ -955,6 +957,9 @@ def main(argv=None):
     print(f"wall time {time.perf_counter() - started:.0f} s on {args.workers} process(es) (certification "
           f"{totals.seconds:.0f} s of process time; the rest is building the truth and checking)")
     for family, tally in table.items():
+        used = ", ".join(f"{d} digits: {n}" for d, n in sorted(tally.digits.items()))
+        print(f"precision in {family}: {used}")
+    for family, tally in table.items():
         for line in tally.falsehoods[:20]:
             print(f"FALSE [{family}] {line}")
         if tally.reasons:
@@ -964,7 +969,8 @@ def main(argv=None):
             "digits": args.digits, "max_digits": options.limit, "seed": args.seed, "quick": args.quick,
             "families": {f: {k: getattr(t, k) for k in ("issued", "certified", "exact", "refuted", "undecided",
                                                          "false", "claim_errors", "seconds")}
-                         | {"undecided_reasons": dict(t.reasons), "falsehoods": t.falsehoods}
+                         | {"undecided_reasons": dict(t.reasons), "falsehoods": t.falsehoods,
+                            "digits_used": {str(d): n for d, n in t.digits.items()}}
                          for f, t in table.items()}}, indent=2))
     return 1 if totals.false else 0
 

@@ -2304,6 +2304,23 @@ def _box_around(point, digits):
 _MAX_RANK_MINORS = 2000
 
 
+def _with_rising_precision(attempt, options):
+    """Run ``attempt(options)`` -> (certificate, more digits might help) from ``options.digits``, doubling up
+    to ``options.limit`` while it is undecided for a reason precision can fix; ``digits_tried`` lists all."""
+    digits, tried = options.digits, []
+    while True:
+        current = replace(options, digits=digits, max_digits=max(options.limit, digits))
+        certificate, more = attempt(current)
+        tried.extend(d for d in (certificate.digits_tried or [digits]) if d not in tried)
+        if certificate.status != Status.UNDECIDED or not more or digits >= options.limit:
+            break
+        digits = min(options.limit, 2 * max(digits, certificate.digits))
+    certificate.digits_tried = sorted(tried)
+    if certificate.status == Status.UNDECIDED and more and options.limit > options.digits:
+        certificate.reason += f" (still undecided at the limit of {options.limit} digits)"
+    return certificate
+
+
 def certify_smooth_point(system, point, codimension, options=None, projective=None):
     """Prove that X is smooth at a point near ``point``: one point of X in a box, rank J >= c over the box.
 
@@ -2371,13 +2388,22 @@ def certify_smooth_point(system, point, codimension, options=None, projective=No
         certificate.lower_singular_value = None if bound is None else _float_up(bound)
         return certificate
 
-    certificate = _in_chart(polynomials, point, projective, run)
+    def attempt(current):
+        nonlocal options
+        saved, options = options, current
+        try:
+            certificate = _in_chart(polynomials, point, projective, run)
+        finally:
+            options = saved
+        if certificate.certified and c > 0 and (certificate.rank_lower is None or certificate.rank_lower < c):
+            certificate.status = Status.UNDECIDED
+            certificate.reason = (f"the box holds a point of X, but sigma_{c}(J) could not be bounded away from 0 "
+                                  f"over it at {certificate.digits} digits")
+            return certificate, True
+        return certificate, False
+
+    certificate = _with_rising_precision(attempt, options)
     if not certificate.certified:
-        return certificate
-    if c > 0 and (certificate.rank_lower is None or certificate.rank_lower < c):
-        certificate.status = Status.UNDECIDED
-        certificate.reason = (f"the box holds a point of X, but sigma_{c}(J) could not be bounded away from 0 "
-                              f"over it at {certificate.digits} digits")
         return certificate
     check = _codimension_check(polynomials, certificate, c, "exactly")
     if check is None:
@@ -2394,7 +2420,7 @@ def certify_smooth_point(system, point, codimension, options=None, projective=No
                               f"there ({check.how})")
         return certificate
     certificate.rank_lower = min(certificate.rank_lower, c) if c else 0
-    if check.status == ClaimStatus.PROVED and m == c:
+    if check.status == ClaimStatus.PROVED and m == c and certificate.backward_error is None:
         certificate.kind = Kind.EXACT
         certificate.exact_method = "implicit function theorem"
         certificate.notes.append(f"proved: the box holds exactly one point of X on the slices, and rank J >= {c} = "
@@ -2442,7 +2468,7 @@ def certify_rank(system, point, options=None, projective=None):
     polynomials = list(system.polynomials)
     point = np.asarray(point, dtype=complex)
 
-    def run(chart_polynomials, affine):
+    def run(chart_polynomials, affine, current):
         n = len(affine)
         located = _gauss_newton_double(chart_polynomials, affine)
         full = min(len(chart_polynomials), n)
@@ -2451,12 +2477,16 @@ def certify_rank(system, point, options=None, projective=None):
         # of the rank is tried first, from the lowest rank the numbers allow
         certificate = None
         for r in range(low, high + 1):
-            certificate = _rank_at(chart_polynomials, affine, r, full, options)
+            certificate = _rank_at(chart_polynomials, affine, r, full, current)
             if certificate.certified or r == high:
                 break
         return certificate
 
-    return _in_chart(polynomials, point, projective, run)
+    def attempt(current):
+        certificate = _in_chart(polynomials, point, projective, lambda f, a: run(f, a, current))
+        return certificate, certificate.status == Status.UNDECIDED and certificate.rank_lower is not None
+
+    return _with_rising_precision(attempt, options)
 
 
 def _rank_at(chart_polynomials, affine, r, full, options):
