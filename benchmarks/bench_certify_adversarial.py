@@ -266,10 +266,6 @@ def truth_in_box(case, certificate, center, radii, points):
     return [p for p in points if inside(normalised(p, certificate.chart), center, radii)]
 
 
-def free_coordinates(certificate):
-    return [j for j, r in enumerate(certificate.radii) if r > 0]
-
-
 def chart_functions(case, certificate, polys, symbols):
     """The polynomials with the exact coordinates of the box (chart = 1, proved zeros = 0) substituted."""
     fixed = {}
@@ -645,10 +641,10 @@ def near_misses(count, digits, rng):
             exact = (t ** 2 - 1, t * (t ** 2 - 1))
             point = tuple(mp_of(v, digits) for v in exact)
             origin = (mpmath.mpc(0), mpmath.mpc(0))
-            cases.append(Case("near misses", "smooth point 1e-12 from a node", "smooth", node_system(node),
+            cases.append(Case("near misses", "smooth point 1e-12 from a node", "smooth", system_of(node),
                               node.symbols, node.polys, np.array([complex(v) for v in point]),
                               Truth(singular=[origin], codimension=1), codimension=1))
-            cases.append(Case("near misses", "rank 1e-12 from a node", "rank", node_system(node), node.symbols,
+            cases.append(Case("near misses", "rank 1e-12 from a node", "rank", system_of(node), node.symbols,
                               node.polys, np.array([complex(v) for v in point]),
                               Truth(singular=[origin], codimension=1)))
         else:
@@ -672,10 +668,6 @@ def system_of(base):
         _SYSTEMS[id(base)] = (base, parse_system([to_text(p, base.symbols) for p in base.polys], base.names,
                                                  projective=base.projective))
     return _SYSTEMS[id(base)][1]
-
-
-def node_system(base):
-    return system_of(base)
 
 
 def clusters(count, digits, rng):

@@ -1352,11 +1352,11 @@ def _settle(required, point, options, claim, digits, pinned, exact_check, box, r
             if outcome.outcome == "refuted" and not pure:
                 outcome = _ExactOutcome("none", note="the exact zero of the deflated square subsystem is not a zero "
                                                      "of the claim (other zeros of the claim may lie in the box)")
-            _apply_exact(certificate, outcome, rest_index, n)
+            _apply_exact(certificate, outcome)
             if outcome.outcome != "none":
                 return certificate, None
         if exact_allowed and rest and _is_rational(required + list(chosen)):
-            proved, needed, note = _separation(list(chosen), rest, accounting, n, interval_box)
+            proved, needed, note = _separation(list(chosen), rest, accounting)
             certificate.notes.append(note)
             if proved:
                 certificate.status, certificate.kind = Status.CERTIFIED, Kind.EXACT
@@ -1611,7 +1611,7 @@ def _exact_route(square, required, chosen, center, radii, options, digits):
                                       "coefficient field)")
 
 
-def _apply_exact(certificate, outcome, rest_index, n):
+def _apply_exact(certificate, outcome):
     if outcome.outcome == "none":
         certificate.notes.append(outcome.note)
         return
@@ -1779,7 +1779,7 @@ def separation_exponent(square, other):
     return -float(variables * d ** variables * math.log10(3 * d * c)) - math.log10(lcm)
 
 
-def _separation(chosen, rest, accounting, n, interval_box):
+def _separation(chosen, rest, accounting):
     """Root separation for every equation outside the square subsystem: (proved, digits needed, note)."""
     exponents = [separation_exponent(chosen, g) for g in rest]
     mp = mpmath.mp
@@ -2248,10 +2248,11 @@ def certify_singular_point(system, point, codimension=None, options=None, projec
     certificate.lower_singular_value = None if bound is None or bound == mpmath.mp.inf else _float_up(bound)
     if certificate.kind == Kind.EXACT:
         certificate.rank_upper = codimension - 1
-    if at_infinity:
-        return certificate
     check = _codimension_check(polynomials, certificate, codimension, "at least")
-    if check is None:
+    if check is None and at_infinity:
+        check = ClaimCheck("codimension", codimension, None, ClaimStatus.UNVERIFIED,
+                           "points at infinity: no points of the closure are sampled")
+    elif check is None:
         check = _sampled_check(jacobian_polys, _chart_center(certificate, chart), codimension, options.seed)
     certificate.claim_checks.append(check)
     if check.status == ClaimStatus.REFUTED:

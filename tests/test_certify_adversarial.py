@@ -5,7 +5,6 @@ the logic): the truth of every instance comes from sympy's exact solver, the che
 the certificate's digits, never in numag's arithmetic.
 """
 
-import copy
 import json
 import pathlib
 import sys
