@@ -55,7 +55,7 @@ import sympy
 import checkout  # noqa: F401  (this checkout's numag, not an installed one)
 from numag.certify import (CertifyOptions, certify_rank, certify_regular_zero, certify_singular_point,
                            certify_smooth_point)
-from numag.parse import parse_system
+from numag.parse import parse_polynomial, parse_system
 
 PROBLEMS = pathlib.Path(__file__).resolve().parent.parent / "tests" / "data" / "problems.json"
 FAMILIES = ("badly scaled", "multiple roots", "at infinity", "near misses", "clusters", "changed units",
@@ -134,18 +134,32 @@ def gauss_newton(polys, rows, x, iterations=40):
     for _ in range(iterations):
         values = mpmath.matrix([p.value(x) for p in polys])
         jac = evaluate_jacobian(rows, x)
-        try:
-            if jac.rows >= jac.cols:
-                step = mpmath.qr_solve(jac, values)[0]
-            else:
-                h = jac.H
-                step = h * mpmath.lu_solve(jac * h, values)
-        except ZeroDivisionError:
+        step = minimum_norm_solution(jac, values)
+        if step is None:
             break
         x = [a - b for a, b in zip(x, step)]
         if mpmath.norm(step) <= tolerance * (1 + mpmath.norm(mpmath.matrix(x))):
             break
     return x
+
+
+def minimum_norm_solution(matrix, values):
+    """The least-squares step of least norm, by the SVD (singular values below 10^-(dps/2) of the largest
+    dropped: Gauss-Newton at a singular zero of an overdetermined system)."""
+    try:
+        u, s, v = mpmath.svd_c(matrix)
+    except (ZeroDivisionError, ValueError):
+        return None
+    largest = max([abs(x) for x in s] + [mpmath.mpf(0)])
+    if largest == 0:
+        return None
+    cut = largest * mpmath.mpf(10) ** (-(mpmath.mp.dps // 2))
+    coefficients = u.H * values
+    step = mpmath.matrix(matrix.cols, 1)
+    for k in range(len(s)):
+        if abs(s[k]) > cut:
+            step += v.H[:, k] * (coefficients[k] / s[k])
+    return step
 
 
 def singular_values(matrix):
@@ -161,7 +175,9 @@ class Truth:
     """The exact answer of one instance, in its coordinates (homogeneous ones for projective points).
 
     ``points``: every point where the claim's equations vanish (complete: a certified box without one
-    of them is false), as mpmath values at the checking precision. ``singular``: singular points of X
+    of them is false), as mpmath values at the checking precision; None where sympy cannot give them
+    (Barth's sextic, a union of quadrics): then Gauss-Newton at twice the digits on the claim's equations
+    must find a zero of all of them in the box. ``singular``: singular points of X
     (smooth claims). ``codimension``: that of X. ``multiplicity``: per point (regular-zero claims).
     ``line``: for a positive-dimensional truth set, a test whether a box meets it.
     """
@@ -186,6 +202,7 @@ class Case:
     codimension: object = None
     multiplicity: object = None
     moved_from: object = None   # a point a certified box must not hold (the moved place of a near miss)
+    slices: int = 0             # a witness point of a positive-dimensional singular component
 
 
 def certify(case, options):
@@ -193,7 +210,7 @@ def certify(case, options):
         return certify_regular_zero(case.system, case.point, options, at_infinity=case.claim == "infinity",
                                     multiplicity=case.multiplicity)
     if case.claim == "singular":
-        return certify_singular_point(case.system, case.point, case.codimension, options)
+        return certify_singular_point(case.system, case.point, case.codimension, options, slices=case.slices)
     if case.claim == "smooth":
         return certify_smooth_point(case.system, case.point, case.codimension, options)
     return certify_rank(case.system, case.point, options)
@@ -278,8 +295,9 @@ def chart_functions(case, certificate, polys, symbols):
     return [p for p in substituted if p != 0], free, [j for j, s in enumerate(symbols) if s not in fixed]
 
 
-def backward_holds(case, certificate, center, radii):
-    """A point of the box where every equation of the claim is below the threshold, relative to its terms."""
+def backward_holds(case, certificate, center, radii, threshold=None):
+    """A point of the box where every equation of the claim is below the threshold (the certificate's, by
+    default), relative to the size of its terms."""
     symbols, polys = claim_equations(case, certificate)
     functions, free, positions = chart_functions(case, certificate, polys, symbols)
     if any(sympy.Poly(p, *free).is_ground for p in functions):  # a nonzero constant: nothing vanishes
@@ -293,12 +311,48 @@ def backward_holds(case, certificate, center, radii):
         full[j] = v
     if not inside(full, center, radii):
         return False
-    threshold = mpmath.mpf(certificate.threshold) * (1 + mpmath.mpf("1e-6"))
+    threshold = mpmath.mpf(certificate.threshold if threshold is None else threshold) * (1 + mpmath.mpf("1e-6"))
     for p in mpolys:
         size = p.size(x)
         if size == 0:
             continue
         if abs(p.value(x)) > threshold * size:
+            return False
+    return True
+
+
+def exact_point_holds(case, certificate, center, radii):
+    """For recognised coordinates in the coefficient field: whether every equation of the claim vanishes there
+    (sympy, exactly) and the point lies in the box; None when there are none to check this way."""
+    if certificate.exact_coordinates is None or certificate.minimal_polynomial is not None:
+        return None
+    values = [to_sympy(parse_polynomial(text, []), []) for text in certificate.exact_coordinates]
+    point = [mpmath.mpc(complex_parts(v)) for v in values]
+    if not inside(point, center, radii):
+        return False
+    symbols, polys = claim_equations(case, certificate)
+    substitution = dict(zip(symbols, values))
+    return all(sympy.simplify(sympy.expand(p.subs(substitution))) == 0 for p in polys)
+
+
+def normwise_zero_in_box(case, certificate, center, radii):
+    """Gauss-Newton at twice the digits from the centre: a point of the box where every equation of the claim
+    is below 10^-(digits - 20) of its coefficients' size times max(1, |x|)^degree."""
+    symbols, polys = claim_equations(case, certificate)
+    functions, free, positions = chart_functions(case, certificate, polys, symbols)
+    mpolys = [MPoly(p, free) for p in functions]
+    x = gauss_newton(mpolys, jacobian(functions, free), [center[j] for j in positions]) if free else []
+    full = list(center)
+    for j, v in zip(positions, x):
+        full[j] = v
+    if not inside(full, center, radii):
+        return False
+    tiny = mpmath.mpf(10) ** (-(mpmath.mp.dps - 20))
+    size = max([abs(v) for v in x] + [mpmath.mpf(1)])
+    for p in mpolys:
+        natural = mpmath.fsum(abs(c) for _, c in p._coefficients()) * size ** max((sum(e) for e, _ in p.terms),
+                                                                                 default=0)
+        if abs(p.value(x)) > tiny * natural:
             return False
     return True
 
@@ -350,6 +404,14 @@ def check(case, certificate):
             return check_smooth(case, certificate, center, radii) + (errors,)
         if case.claim == "rank":
             return check_rank(case, certificate, center, radii) + (errors,)
+        if case.truth.points is None:  # no exact truth: the exact coordinates by sympy, or mpmath
+            exact = exact_point_holds(case, certificate, center, radii)
+            if exact is not None:
+                return ("true", "exact coordinates checked by sympy", errors) if exact else \
+                    ("false", "the exact coordinates are no zero of the claim (sympy)", errors)
+            if normwise_zero_in_box(case, certificate, center, radii):
+                return "true", "a zero of every equation to twice the digits (no exact truth)", errors
+            return "false", "Gauss-Newton at twice the digits finds no zero of the claim in the box", errors
         if truth_in_box(case, certificate, center, radii, case.truth.points) or (
                 case.truth.line is not None and case.truth.line(center, radii)):
             return "true", "", errors
@@ -371,6 +433,10 @@ def check_refuted(case, certificate, center, radii):
         if found is not None and not any(inside(normalised(s, certificate.chart), center, radii)
                                          for s in case.truth.singular):
             return "false", "refuted, but the box holds a smooth point of X"
+        return "true", ""
+    if case.truth.points is None:
+        if backward_holds(case, certificate, center, radii, mpmath.mpf(10) ** (-(mpmath.mp.dps - 20))):
+            return "false", "refuted, but Gauss-Newton at twice the digits finds a zero in the box"
         return "true", ""
     if truth_in_box(case, certificate, center, radii, case.truth.points):
         return "false", "refuted, but an exact point of the claim lies in the box"
@@ -708,22 +774,27 @@ def changed_units(count, digits, rng, names=None):
     problems = load_problems()
     names = names or ["cusp", "node", "tacnode", "four_generic_lines", "chebyshev_T4x_eq_T5y",
                       "trifolium_triple_point", "cone_over_smooth_plane_cubic", "cayley_cubic",
-                      "affine_cone_over_twisted_cubic", "whitney_umbrella", "kummer_quartic_mu2_eq_2"]
-    prepared = []
+                      "affine_cone_over_twisted_cubic", "whitney_umbrella", "kummer_quartic_mu2_eq_2",
+                      "smooth_conic", "barth_sextic_exact", "two_quadrics_union"]
+    prepared, found = [], {}
     for name in names:
         entry = problems[name]
         base = Base(entry["equations"], entry["variables"], digits, projective=entry["projective"])
         codimension = entry.get("codim", 1) if len(base.polys) > 1 else 1
+        if name in ("barth_sextic_exact", "two_quadrics_union"):
+            found[name] = numag_singular_points(system_of(base))
         if name == "affine_cone_over_twisted_cubic":
             singular = [tuple(mpmath.mpc(0) for _ in base.symbols)]
-        elif name == "whitney_umbrella":
+        elif name in ("whitney_umbrella", "smooth_conic"):
             singular = []
+        elif name in ("barth_sextic_exact", "two_quadrics_union"):
+            singular = None  # no exact truth (sympy does not finish): checked at twice the digits instead
         elif entry["projective"]:
             partials = [sympy.diff(base.polys[0], s) for s in base.symbols]
             singular = _projective_zeros(partials, list(base.symbols), digits)
         else:
             singular = base.singular_points()
-        smooth = smooth_points(base, rng, digits) if len(base.polys) == 1 else []
+        smooth = smooth_points(base, rng, digits) if len(base.polys) == 1 and singular is not None else []
         prepared.append((name, base, codimension, singular, smooth))
     cases = []
     while len(cases) < count:
@@ -732,6 +803,9 @@ def changed_units(count, digits, rng, names=None):
         system, polys = scaled_case_system(base.polys, base.symbols, exponents, [0] * len(base.polys), base.names)
         if base.projective:
             system = parse_system([to_text(p, base.symbols) for p in polys], base.names, projective=True)
+        if singular is None:  # the points to certify from numag itself; the check does not use numag
+            cases.extend(found_by_numag(name, system, base, polys, exponents, found[name]))
+            continue
         points = [scale_point(s, exponents, digits) for s in singular]
         line = None
         if name == "whitney_umbrella":  # x^2 = y^2 z: singular along the line x = y = 0
@@ -753,6 +827,27 @@ def changed_units(count, digits, rng, names=None):
                               base.symbols, polys, given(p, 0.0, rng), Truth(singular=points, codimension=1),
                               codimension=1))
     return cases[:count]
+
+
+def numag_singular_points(system):
+    """(point, dimension, codimension) of the singular locus numag finds (in the original units)."""
+    from numag.singular import singular_locus
+    locus = singular_locus(system, seed=1)
+    return [(np.asarray(point, dtype=complex), c.dimension, c.codimension) for c in locus.components
+            if c.kind == "singular" and not c.at_infinity for point in c.points[:2]]
+
+
+def found_by_numag(name, system, base, polys, exponents, points):
+    """Singular points of a problem without exact truth, as numag's singular locus finds them in the original
+    units, moved to the new ones (the given points); each certificate is checked by Gauss-Newton at twice
+    the digits on the claim's equations, without numag."""
+    cases = []
+    for point, dimension, codimension in points:
+        scaled = point / 10.0 ** np.asarray(exponents, dtype=float)
+        cases.append(Case("changed units", f"{name} 10^{exponents} (dimension {dimension})", "singular", system,
+                          base.symbols, polys, scaled, Truth(None, codimension=codimension),
+                          codimension=codimension, slices=dimension))
+    return cases
 
 
 def smooth_points(base, rng, digits, count=4):

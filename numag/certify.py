@@ -1024,9 +1024,11 @@ def _publish(square, box, digits):
 
 
 def _refute(polynomials, point, radius, digits):
-    """The index of an equation that provably has no zero in the box of ``radius`` around ``point``, or None."""
+    """The index of an equation that provably has no zero in the box around ``point`` (``radius``: one for
+    every coordinate, or a list of them), or None."""
+    radii = radius if isinstance(radius, (list, tuple)) else [radius] * len(point)
     with working_digits(digits):
-        box = _iv_box([mpmath.mp.mpc(complex(v)) for v in point], [mpmath.mp.mpf(radius)] * len(point))
+        box = _iv_box([mpmath.mp.mpc(complex(v)) for v in point], [mpmath.mp.mpf(r) for r in radii])
         values = PrecisionEvaluator(polynomials).evaluate(box, mpmath.iv, jacobian=False)
         for i in range(values.rows):
             if _excludes_zero(values[i]):
@@ -1134,12 +1136,21 @@ def _certify_zero_at(required, point, options, claim, digits, pinned, exact_chec
     threshold = 10.0 ** (-(digits - options.guard_digits))
 
     def failed(reason, wanted=None, **extra):
-        refuting = _refute(required, point, reach, max(digits, 20))
-        if refuting is not None:
-            return Certificate(Status.REFUTED, Kind.NUMERICAL, claim, point, [_text(v, 17) for v in point], reach,
-                               digits, method="interval exclusion", threshold=threshold,
-                               reason=f"no zero within {reach:.3g} of the point: equation {refuting + 1} of the "
-                                      f"claim is nonzero over that box; before that: {reason}", **extra), None
+        # a box of the reach around the point, or one of the match radius relative to each coordinate
+        # (a coordinate of size 1e-4 beside one of 1e4 would otherwise get a box that holds 0)
+        magnitudes = np.abs(point)
+        relative = [float(options.match_radius * max(a, 1e-8 * magnitudes.max(initial=0.0), 1e-300))
+                    for a in magnitudes]
+        for radii in ([reach] * len(point), relative):
+            refuting = _refute(required, point, radii, max(digits, 20))
+            if refuting is not None:
+                size = "{:.3g}".format(reach) if radii[0] == reach and len(set(radii)) == 1 else \
+                    f"{options.match_radius:.3g} of each coordinate's size"
+                return Certificate(Status.REFUTED, Kind.NUMERICAL, claim, point, [_text(v, 17) for v in point],
+                                   max(radii), digits, method="interval exclusion", threshold=threshold,
+                                   radii=list(radii), reason=f"no zero within {size} of the point: equation "
+                                   f"{refuting + 1} of the claim is nonzero over that box; before that: {reason}",
+                                   **extra), None
         return _undecided(claim, point, digits, reason, threshold=threshold, **extra), wanted
 
     if exact_check and options.exact and not pinned:
