@@ -1052,6 +1052,7 @@ def main(argv=None):
         if tally.reasons:
             print(f"undecided in {family}: " + "; ".join(f"{n} x {r}" for r, n in tally.reasons.most_common(6)))
     if args.json:
+        pathlib.Path(args.json).parent.mkdir(parents=True, exist_ok=True)
         pathlib.Path(args.json).write_text(json.dumps({
             "digits": args.digits, "max_digits": options.limit, "seed": args.seed, "quick": args.quick,
             "families": {f: {k: getattr(t, k) for k in ("issued", "certified", "exact", "refuted", "undecided",
