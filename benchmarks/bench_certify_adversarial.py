@@ -561,8 +561,10 @@ def badly_scaled(count, digits, rng):
     prepared = [(Base(t, n, digits), t, n) for t, n in bases]
     prepared = [(b, b.solutions()) for b, _, _ in prepared]
     cases = []
-    while len(cases) < count:
-        base, solutions = prepared[len(cases) % len(prepared)]
+    for turn in itertools.count():  # every base in turn, until there are enough cases
+        if len(cases) >= count:
+            break
+        base, solutions = prepared[turn % len(prepared)]
         exponents = [int(k) for k in rng.integers(-6, 7, size=len(base.symbols))]
         factors = [int(r) for r in rng.integers(-12, 13, size=len(base.polys))]
         system, polys = scaled_case_system(base.polys, base.symbols, exponents, factors, base.names)
@@ -592,8 +594,10 @@ def multiple_roots(count, digits, rng):
             multiplicities = multiplicities * len(solutions)
         prepared.append((base, solutions, multiplicities))
     cases = []
-    while len(cases) < count:
-        base, solutions, multiplicities = prepared[len(cases) % len(prepared)]
+    for turn in itertools.count():  # every base in turn, until there are enough cases
+        if len(cases) >= count:
+            break
+        base, solutions, multiplicities = prepared[turn % len(prepared)]
         exponents = [int(k) for k in rng.integers(-4, 5, size=2)]
         factors = [int(r) for r in rng.integers(-8, 9, size=len(base.polys))]
         system, polys = scaled_case_system(base.polys, base.symbols, exponents, factors, base.names)
@@ -640,8 +644,10 @@ def at_infinity(count, digits, rng):
         zeros = [(mpmath.mpc(0),) + z for z in _projective_zeros(forms, list(base.symbols), digits)]
         prepared.append((base, zeros))
     cases = []
-    while len(cases) < count:
-        base, zeros = prepared[len(cases) % len(prepared)]
+    for turn in itertools.count():  # every base in turn, until there are enough cases
+        if len(cases) >= count:
+            break
+        base, zeros = prepared[turn % len(prepared)]
         exponents = [int(k) for k in rng.integers(-3, 4, size=len(base.symbols))]
         factors = [int(r) for r in rng.integers(-6, 7, size=len(base.polys))]
         system, polys = scaled_case_system(base.polys, base.symbols, exponents, factors, base.names)
@@ -760,8 +766,10 @@ def clusters(count, digits, rng):
             points = [(mp_of(r, digits), mp_of(r, digits)) for r in univariate.all_roots()]
         prepared.append((base, points, label))
     cases = []
-    while len(cases) < count:
-        base, points, label = prepared[len(cases) % len(prepared)]
+    for turn in itertools.count():  # every base in turn, until there are enough cases
+        if len(cases) >= count:
+            break
+        base, points, label = prepared[turn % len(prepared)]
         system = system_of(base)
         for s in points:
             noise = float(rng.choice([0.0, 1e-15, 1e-12]))
@@ -797,8 +805,10 @@ def changed_units(count, digits, rng, names=None):
         smooth = smooth_points(base, rng, digits) if len(base.polys) == 1 and singular is not None else []
         prepared.append((name, base, codimension, singular, smooth))
     cases = []
-    while len(cases) < count:
-        name, base, codimension, singular, smooth = prepared[len(cases) % len(prepared)]
+    for turn in itertools.count():  # every base in turn, until there are enough cases
+        if len(cases) >= count:
+            break
+        name, base, codimension, singular, smooth = prepared[turn % len(prepared)]
         exponents = [int(k) for k in rng.integers(-3, 4, size=len(base.symbols))]
         system, polys = scaled_case_system(base.polys, base.symbols, exponents, [0] * len(base.polys), base.names)
         if base.projective:
@@ -896,8 +906,10 @@ def wrong_claims(count, digits, rng):
     for name in ("node", "four_generic_lines", "cusp", "chebyshev_T4x_eq_T5y"):
         base = Base(problems[name]["equations"], problems[name]["variables"], digits)
         prepared.append((name, base, base.singular_points(), smooth_points(base, rng, digits)))
-    while len(cases) < count:
-        name, base, singular, smooth = prepared[len(cases) % len(prepared)]
+    for turn in itertools.count():  # every base in turn, until there are enough cases
+        if len(cases) >= count:
+            break
+        name, base, singular, smooth = prepared[turn % len(prepared)]
         system = system_of(base)
         for s in singular:
             for codimension in (0, 1, 2):
