@@ -303,22 +303,19 @@ def backward_holds(case, certificate, center, radii, threshold=None):
     if any(sympy.Poly(p, *free).is_ground for p in functions):  # a nonzero constant: nothing vanishes
         return False
     mpolys = [MPoly(p, free) for p in functions]
-    rows = jacobian(functions, free)
+    threshold = mpmath.mpf(certificate.threshold if threshold is None else threshold) * (1 + mpmath.mpf("1e-6"))
+
+    def below(x):
+        return all(p.size(x) == 0 and p.value(x) == 0 or abs(p.value(x)) <= threshold * p.size(x) for p in mpolys)
+
     start = [center[j] for j in positions]
-    x = gauss_newton(mpolys, rows, start) if free else []
+    if below(start):  # the centre is a point of the box
+        return True
+    x = gauss_newton(mpolys, jacobian(functions, free), start) if free else []
     full = list(center)
     for j, v in zip(positions, x):
         full[j] = v
-    if not inside(full, center, radii):
-        return False
-    threshold = mpmath.mpf(certificate.threshold if threshold is None else threshold) * (1 + mpmath.mpf("1e-6"))
-    for p in mpolys:
-        size = p.size(x)
-        if size == 0:
-            continue
-        if abs(p.value(x)) > threshold * size:
-            return False
-    return True
+    return inside(full, center, radii) and below(x)
 
 
 def exact_point_holds(case, certificate, center, radii):

@@ -1251,8 +1251,8 @@ def _locate(required, pinned, point, options, digits, squares, reach, absolute):
             center, converged = square.newton(x, digits)
             center = [center[j] for j in range(n)]
             moved = float(max((abs(complex(center[j]) - point[j]) for j in range(n)), default=0.0))
-            if not converged:
-                problem, wanted = "Newton's method on the square subsystem did not converge", None
+            if not converged:  # a multiple zero, or a cluster that more digits may separate
+                problem, wanted = "Newton's method on the square subsystem did not converge", 2 * digits
             elif moved > reach:
                 problem, wanted = (f"the zero of the square subsystem near the point lies {moved:.3g} away "
                                    f"(more than {reach:.3g})"), None
@@ -1262,6 +1262,10 @@ def _locate(required, pinned, point, options, digits, squares, reach, absolute):
                     return (box, rows, deflations, square, chosen), "", None, deflations
                 problem, wanted = (f"neither Krawczyk's test nor the alpha test succeeded at {digits} digits "
                                    "(ill-conditioned)"), 2 * digits
+                # Newton converged quadratically: a regular zero too ill-conditioned for these digits (roots
+                # 1e-8 apart at 30 digits), not a multiple one; deflating would certify the nearby multiple
+                # zero of a perturbed system instead of this one, so more digits are asked for
+                break
         if deflations == options.max_deflations or not _near_zero(equations, x):
             break
         if float(np.max(np.abs(x - point))) > reach:
