@@ -1319,7 +1319,10 @@ def _settle(required, point, options, claim, digits, pinned, exact_check, box, r
             residual_bound=None if accounting.residual is None else _float_up(accounting.residual), **common)
         if deflations:
             certificate.notes.append(f"{deflations} round(s) of isosingular deflation made the zero regular; "
-                                     "every equation of the claim is still accounted for")
+                                     "every equation of the claim is still accounted for; numerically, this is an "
+                                     "exact multiple zero of equations within the backward error, and the given "
+                                     "ones may have a cluster of simple zeros here instead (more digits, or an "
+                                     "exact certificate, tell them apart)")
         # Only when the square subsystem consists of equations of the claim is every zero of the claim in
         # the box a zero of it, so that its unique zero speaks for the whole box; deflation minors and
         # slices through the point are not met by every zero of the claim.
