@@ -1262,10 +1262,12 @@ def _locate(required, pinned, point, options, digits, squares, reach, absolute):
                     return (box, rows, deflations, square, chosen), "", None, deflations
                 problem, wanted = (f"neither Krawczyk's test nor the alpha test succeeded at {digits} digits "
                                    "(ill-conditioned)"), 2 * digits
-                # Newton converged quadratically: a regular zero too ill-conditioned for these digits (roots
-                # 1e-8 apart at 30 digits), not a multiple one; deflating would certify the nearby multiple
-                # zero of a perturbed system instead of this one, so more digits are asked for
-                break
+                if digits < options.limit:
+                    # Newton converged, Krawczyk could not enclose: a regular zero too ill-conditioned for these
+                    # digits (roots 1e-8 apart at 30 digits) looks just like a multiple one; deflation would
+                    # certify the multiple zero of a nearby system instead, so more digits come first and
+                    # deflation only at the last precision allowed
+                    break
         if deflations == options.max_deflations or not _near_zero(equations, x):
             break
         if float(np.max(np.abs(x - point))) > reach:
