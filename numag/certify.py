@@ -2400,8 +2400,10 @@ def certify_smooth_point(system, point, codimension, options=None, projective=No
         for _ in range(n - c):
             weights = rng.standard_normal(n) + 1j * rng.standard_normal(n)
             slices.append(Polynomial.linear(weights, -complex(weights @ affine)))
-        certificate = _certify_zero(chart_polynomials, affine, options, Claim.SMOOTH_POINT, pinned=slices,
-                                    exact_check=False)
+        # no deflation: a point where F and the slices meet singularly is no point to prove smooth, and a
+        # deflated subsystem would put the box at a zero of a nearby system, beside X (a node's neighbour)
+        certificate = _certify_zero(chart_polynomials, affine, replace(options, max_deflations=0),
+                                    Claim.SMOOTH_POINT, pinned=slices, exact_check=False)
         if not certificate.certified or c == 0:
             return certificate
         certificate.rank_lower, bound = _proved_rank(chart_polynomials, certificate,
@@ -2525,8 +2527,8 @@ def _rank_at(chart_polynomials, affine, r, full, options):
         for _ in range(n - r):
             weights = rng.standard_normal(n) + 1j * rng.standard_normal(n)
             slices.append(Polynomial.linear(weights, -complex(weights @ affine)))
-        certificate = _certify_zero(chart_polynomials, affine, options, Claim.RANK, pinned=slices,
-                                    exact_check=False)
+        certificate = _certify_zero(chart_polynomials, affine, replace(options, max_deflations=0), Claim.RANK,
+                                    pinned=slices, exact_check=False)
     certificate.claim = Claim.RANK
     certificate.notes.extend(notes)
     if certificate.status == Status.REFUTED:
