@@ -971,7 +971,7 @@ def _work(indices):
 
 
 def run_family(family, count, options, seed, progress=None, workers=1):
-    cases = build(family, count, options.digits, seed)
+    cases = build(family, count, options.limit, seed)  # the truth to twice the highest precision used
     tally = Tally()
     _WORK.update(cases=cases, options=options)
     chunks = [list(range(k, min(k + 20, len(cases)))) for k in range(0, len(cases), 20)]
