@@ -355,22 +355,41 @@ def normwise_zero_in_box(case, certificate, center, radii):
 
 
 def point_of_x_in_box(case, certificate, center, radii):
-    """Gauss-Newton on F from the centre: a point of X in the box (or None)."""
+    """A point of X in the box, by Newton at twice the digits (or None).
+
+    First Newton in the m widest coordinates of the box with the others held at the centre (a box may be a
+    thin slab, which a least-norm step would leave), then least-norm Gauss-Newton in all of them.
+    """
     symbols = list(case.symbols)
     functions, free, positions = chart_functions(case, certificate, list(case.polys), symbols)
     if not free:
         return None
     mpolys = [MPoly(p, free) for p in functions]
     rows = jacobian(functions, free)
-    x = gauss_newton(mpolys, rows, [center[j] for j in positions])
-    full = list(center)
-    for j, v in zip(positions, x):
-        full[j] = v
-    if not inside(full, center, radii):
-        return None
-    if any(abs(p.value(x)) > mpmath.mpf(10) ** (-(mpmath.mp.dps // 2)) * (1 + p.size(x)) for p in mpolys):
-        return None
-    return x, rows
+    start = [center[j] for j in positions]
+    tries = []
+    if len(functions) < len(free):
+        widest = sorted(range(len(free)), key=lambda k: -radii[positions[k]])[:len(functions)]
+        held = {free[k]: start[k] for k in range(len(free)) if k not in widest}
+        moving = [free[k] for k in widest]
+        reduced = [MPoly(sympy.expand(p.subs(held)), moving) if held else MPoly(p, moving) for p in functions]
+        solved = gauss_newton(reduced, jacobian([sympy.expand(p.subs(held)) for p in functions], moving),
+                              [start[k] for k in widest])
+        x = list(start)
+        for k, v in zip(widest, solved):
+            x[k] = v
+        tries.append(x)
+    tries.append(gauss_newton(mpolys, rows, start))
+    for x in tries:
+        full = list(center)
+        for j, v in zip(positions, x):
+            full[j] = v
+        if not inside(full, center, radii):
+            continue
+        if any(abs(p.value(x)) > mpmath.mpf(10) ** (-(mpmath.mp.dps // 2)) * (1 + p.size(x)) for p in mpolys):
+            continue
+        return x, rows
+    return None
 
 
 def rank_at(rows, x, c):
