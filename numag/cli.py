@@ -154,6 +154,9 @@ def build_parser():
                          help="write the certified report here (default: replace REPORT atomically)")
     certify.add_argument("--digits", type=int, default=CertifyOptions.digits, metavar="D",
                          help="precision (decimal digits) of refinement and interval arithmetic (default %(default)s)")
+    certify.add_argument("--max-digits", type=int, metavar="M",
+                         help="raise the precision up to M digits while a certificate stays undecided for lack of "
+                              "it (default: D, no raising)")
     certify.add_argument("--numerical-only", action="store_true",
                          help="do not try to recognise exact coordinates (faster)")
     certify.add_argument("--workers", type=_count(1, _MAX_WORKERS), metavar="N",
@@ -378,11 +381,16 @@ def _run_check(args, out):
     return EXIT_UNDECIDED if report.undecided or _doubtful(data) else EXIT_OK
 
 
+#: Certificates of ``--certify`` start at this precision and rise up to the command's --digits when needed.
+_CERTIFY_START_DIGITS = 30
+
+
 def _certified(data, args):
-    """The report with certificates when ``--certify`` was given."""
+    """The report with certificates when ``--certify`` was given (from 30 digits up to --digits)."""
     if not getattr(args, "certify", False):
         return data
-    return certify_report(data, CertifyOptions(digits=args.digits), progress=_Messages(args.json))
+    options = CertifyOptions(digits=min(args.digits, _CERTIFY_START_DIGITS), max_digits=args.digits)
+    return certify_report(data, options, progress=_Messages(args.json))
 
 
 def _with_warnings(data):
@@ -397,31 +405,66 @@ def _print_warnings(data, out):
 
 
 def _doubtful(data):
-    """True when a certificate is undecided or refuted."""
+    """True when a certificate is undecided or refuted, or a claim of the report failed its check."""
     summary = data.get("certification")
-    return bool(summary) and (summary["counts"]["undecided"] + summary["counts"]["refuted"]) > 0
+    if not summary:
+        return False
+    return (summary["counts"]["undecided"] + summary["counts"]["refuted"] + summary.get("claims_failed", 0)) > 0
+
+
+def _rank_text(c):
+    lower, upper = c.get("rank_lower"), c.get("rank_upper")
+    if lower is None:
+        return None
+    text = f"rank J >= {lower} on the box"
+    if c.get("lower_singular_value") is not None:
+        text += f" (sigma_{lower} >= {c['lower_singular_value']:.2g})"
+    if upper is not None and upper == lower:
+        text = f"rank J = {lower}: >= {lower} on the box, <= {upper} at the exact point"
+    return text
 
 
 def _certificate_line(certificate):
     c = certificate
+    extra = []
+    for check in c.get("claim_checks", []):
+        if check["status"] != "proved":
+            found = "" if check["found"] is None else f", F gives {check['found']}"
+            extra.append(f"claim {check['name']} {check['reported']}: {check['status']}{found} ({check['how']})")
+    rank = _rank_text(c)
     if c["status"] != "certified":
-        return f"{c['status']}: {c['reason']}"
-    parts = [f"certified ({c['kind']}, {c['method']}, {c['claim']})", f"radius {c['radius']:.1e}"]
-    if c["real"] is True:
-        parts.append("real")
-    if c["backward_error"] is not None:
-        parts.append(f"backward error {c['backward_error']:.1e}")
-    if c["lower_singular_value"] is not None:
-        parts.append(f"sigma_min >= {c['lower_singular_value']:.2g}")
-    if c["deflations"]:
-        parts.append(f"{c['deflations']} deflation(s)")
-    if c["distinct"] is False:
-        parts.append("BOX MEETS ANOTHER BOX")
-    text = ", ".join(parts)
-    if c["exact_coordinates"] is not None:
-        text += "\n            exact: (" + ", ".join(c["exact_coordinates"]) + ")"
-        if c["minimal_polynomial"]:
-            text += f" where t is the root of {c['minimal_polynomial']} near the centre"
+        text = f"{c['status']}: {c['reason']}"
+        if rank is not None:
+            text += f"\n            {rank}"
+    else:
+        kind = c["kind"] + (f", {c['exact_method']}" if c.get("exact_method") else "")
+        method = "" if c["method"] == c.get("exact_method") else f"{c['method']}, "
+        parts = [f"certified ({kind}, {method}{c['claim']})", f"radius {c['radius']:.1e}"]
+        if c.get("at_infinity"):
+            parts.append(f"at infinity (w = 0 exactly, chart {c['chart']})")
+        if c["real"] is True:
+            parts.append("real")
+        if c["kind"] == "numerical" and isinstance(c["backward_error"], float):
+            parts.append(f"backward error {c['backward_error']:.1e} (< {c['threshold']:.0e})")
+        if c["deflations"]:
+            parts.append(f"{c['deflations']} deflation(s)")
+        if c.get("multiplicity") is not None:
+            parts.append(f"multiplicity {c['multiplicity']} ({c['multiplicity_method']})")
+        if c.get("distance"):
+            parts.append(f"{c['distance']:.1e} from the given point")
+        if len(c.get("digits_tried", [])) > 1:
+            parts.append(f"at {c['digits']} digits (tried {', '.join(str(d) for d in c['digits_tried'])})")
+        if c["distinct"] is False:
+            parts.append("BOX MEETS ANOTHER BOX")
+        text = ", ".join(parts)
+        if rank is not None:
+            text += f"\n            {rank}"
+        if c["exact_coordinates"] is not None:
+            text += "\n            exact: (" + ", ".join(c["exact_coordinates"]) + ")"
+            if c["minimal_polynomial"]:
+                text += f" where t is the root of {c['minimal_polynomial']} near the centre"
+    for line in extra:
+        text += f"\n            {line}"
     return text
 
 
@@ -450,8 +493,11 @@ def _print_certification(data, out):
     if summary["all_distinct"] is not None:
         out.write("; certified boxes pairwise disjoint" if summary["all_distinct"] else
                   f"; {summary['overlapping_pairs']} pair(s) of boxes meet (points may coincide)")
-    out.write("\n  numerical: exactly one zero of a square subsystem in the box, the other equations bounded "
-              "(backward error);\n  exact: proved for the exact equations (only these prove a point singular).\n")
+    if summary.get("claims_failed"):
+        out.write(f"\n  {summary['claims_failed']} claim(s) of the report did not hold")
+    out.write("\n  numerical: exactly one zero of a square subsystem in the box, every other equation bounded "
+              "over it (backward error);\n  exact: proved for the exact equations (only these prove a point "
+              "singular).\n")
 
 
 class _Progress:
@@ -752,7 +798,7 @@ def _run_compare(args, out):
 
 def _run_certify(args, out):
     data = read_report(args.report_file)
-    options = CertifyOptions(digits=args.digits, exact=not args.numerical_only).validated()
+    options = CertifyOptions(digits=args.digits, max_digits=args.max_digits, exact=not args.numerical_only).validated()
     with make_executor(args.workers or 1) as executor:
         certified = certify_report(data, options, progress=_Messages(args.json), executor=executor)
     write_report(args.output or args.report_file, certified)

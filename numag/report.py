@@ -21,6 +21,7 @@ Examples
 """
 
 import copy
+from dataclasses import dataclass
 import json
 import math
 import os
@@ -29,8 +30,9 @@ import time
 import numpy as np
 
 from . import __version__
-from .certify import (ALPHA_ZERO_TEXT, STATUSES, Certificate, CertifyOptions, certify_regular_zero,
-                      certify_singular_point, certify_smooth_point, overlapping_pairs)
+from .certify import (ALPHA_ZERO_TEXT, STATUSES, Certificate, CertifyOptions, Claim, ClaimCheck, ClaimStatus, Kind,
+                      Status, certify_rank, certify_regular_zero, certify_singular_point, certify_smooth_point,
+                      overlapping_pairs)
 from .errors import InputError
 from .safeio import MAX_INPUT_BYTES, loads_json, read_limited, write_file
 from .executor import InProcess
@@ -464,17 +466,29 @@ def singular_from_dict(data):
 _CERTIFIABLE = ("solve", "singular", "check")
 
 
+def _claim_check_to_dict(check):
+    return {"name": check.name, "reported": check.reported, "found": check.found, "status": check.status,
+            "how": check.how}
+
+
 def certificate_to_dict(c):
-    """A :class:`~numag.certify.Certificate` as JSON (status, kind, radius, backward error, ...)."""
+    """A :class:`~numag.certify.Certificate` as JSON (status, kind, box, backward error, rank, claim checks...)."""
     return {"status": c.status, "kind": c.kind, "claim": c.claim, "center": encode_point(c.center),
-            "center_text": list(c.center_text), "radius": _encode_float(c.radius), "digits": c.digits,
+            "center_text": list(c.center_text), "radius": _encode_float(c.radius),
+            "radii": None if c.radii is None else [_encode_float(r) for r in c.radii], "digits": c.digits,
+            "digits_tried": [int(d) for d in c.digits_tried],
             "method": c.method, "real": c.real, "backward_error": _encode_float(c.backward_error),
-            "residual_bound": _encode_float(c.residual_bound), "alpha": _encode_float(c.alpha),
-            "alpha_certified": c.alpha_certified, "alpha_radius": _encode_float(c.alpha_radius),
-            "deflations": c.deflations, "square_equations": [int(k) for k in c.square_equations],
-            "chart": c.chart, "exact_coordinates": c.exact_coordinates,
-            "minimal_polynomial": c.minimal_polynomial,
-            "lower_singular_value": _encode_float(c.lower_singular_value), "distinct": c.distinct,
+            "residual_bound": _encode_float(c.residual_bound), "threshold": _encode_float(c.threshold),
+            "alpha": _encode_float(c.alpha), "alpha_certified": c.alpha_certified,
+            "alpha_radius": _encode_float(c.alpha_radius), "deflations": c.deflations,
+            "square_equations": [int(k) for k in c.square_equations], "chart": c.chart,
+            "zero_coordinates": [int(k) for k in c.zero_coordinates], "at_infinity": c.at_infinity,
+            "exact_coordinates": c.exact_coordinates, "minimal_polynomial": c.minimal_polynomial,
+            "exact_method": c.exact_method, "multiplicity": c.multiplicity,
+            "multiplicity_method": c.multiplicity_method,
+            "lower_singular_value": _encode_float(c.lower_singular_value), "rank_lower": c.rank_lower,
+            "rank_upper": c.rank_upper, "distance": _encode_float(c.distance), "distinct": c.distinct,
+            "claim_checks": [_claim_check_to_dict(k) for k in c.claim_checks],
             "reason": c.reason, "notes": list(c.notes)}
 
 
@@ -483,52 +497,86 @@ def certificate_from_dict(d):
     try:
         if d["status"] not in STATUSES:
             raise InputError(f"unknown certificate status {d['status']!r}")
+        checks = [ClaimCheck(k["name"], k["reported"], k["found"], ClaimStatus(k["status"]), k.get("how", ""))
+                  for k in d.get("claim_checks", [])]
+        radii = d.get("radii")
         return Certificate(
-            status=d["status"], kind=d["kind"], claim=d["claim"], center=decode_point(d["center"]),
-            center_text=list(d["center_text"]), radius=_decode_float(d["radius"]), digits=int(d["digits"]),
-            method=d["method"], real=d["real"], backward_error=_decode_float(d["backward_error"]),
-            residual_bound=_decode_float(d["residual_bound"]), alpha=_decode_float(d["alpha"]),
+            status=Status(d["status"]), kind=Kind(d["kind"]), claim=d["claim"] and Claim(d["claim"]),
+            center=decode_point(d["center"]), center_text=list(d["center_text"]),
+            radius=_decode_float(d["radius"]), digits=int(d["digits"]), method=d["method"], real=d["real"],
+            backward_error=_decode_float(d["backward_error"]), residual_bound=_decode_float(d["residual_bound"]),
+            threshold=_decode_float(d.get("threshold")), alpha=_decode_float(d["alpha"]),
             alpha_certified=bool(d["alpha_certified"]), alpha_radius=_decode_float(d["alpha_radius"]),
             deflations=int(d["deflations"]), square_equations=list(d["square_equations"]), chart=d["chart"],
+            radii=None if radii is None else [_decode_float(r) for r in radii],
+            zero_coordinates=list(d.get("zero_coordinates", [])), at_infinity=bool(d.get("at_infinity", False)),
             exact_coordinates=d["exact_coordinates"], minimal_polynomial=d["minimal_polynomial"],
-            lower_singular_value=_decode_float(d["lower_singular_value"]), distinct=d["distinct"],
-            reason=d["reason"], notes=list(d["notes"]))
-    except (KeyError, TypeError) as err:
-        raise InputError(f"a certificate lacks the key {err}") from None
+            exact_method=d.get("exact_method"), multiplicity=d.get("multiplicity"),
+            multiplicity_method=d.get("multiplicity_method", ""),
+            lower_singular_value=_decode_float(d["lower_singular_value"]), rank_lower=d.get("rank_lower"),
+            rank_upper=d.get("rank_upper"), distance=_decode_float(d.get("distance")), distinct=d["distinct"],
+            claim_checks=checks, digits_tried=list(d.get("digits_tried", [])), reason=d["reason"],
+            notes=list(d["notes"]))
+    except (KeyError, TypeError, ValueError) as err:
+        raise InputError(f"a certificate is malformed ({type(err).__name__}: {err})") from None
 
 
 def _not_certified(reason, point, digits):
-    return Certificate("undecided", "numerical", "", np.asarray(point, dtype=complex), [], None, digits,
+    return Certificate(Status.UNDECIDED, Kind.NUMERICAL, "", np.asarray(point, dtype=complex), [], None, digits,
                        reason=reason)
 
 
-def _homogenized(system):
-    """F^h in (w, x): the space where an affine report's points at infinity live."""
-    return PolynomialSystem(["(w)"] + list(system.variables), [p.homogenize(0) for p in system.polynomials],
-                            projective=True)
+@dataclass
+class _Task:
+    """One point to certify (travels to worker processes)."""
+
+    claim: str                # "regular", "smooth", "singular" or "rank"
+    system: PolynomialSystem
+    point: np.ndarray
+    options: CertifyOptions
+    codimension: object = None
+    slices: int = 0
+    at_infinity: bool = False
+    multiplicity: object = None
+
+
+def _run_task(task):
+    if task.claim == "regular":
+        return certify_regular_zero(task.system, task.point, task.options, at_infinity=task.at_infinity,
+                                    multiplicity=task.multiplicity)
+    if task.claim == "smooth":
+        return certify_smooth_point(task.system, task.point, task.codimension, task.options)
+    if task.claim == "rank":
+        return certify_rank(task.system, task.point, task.options)
+    return certify_singular_point(task.system, task.point, task.codimension, task.options, slices=task.slices,
+                                  at_infinity=task.at_infinity)
 
 
 def _certify_batch(batch):
-    """Certify a batch of (claim, system, point, codimension, slices, options) tasks (runs on workers)."""
-    results = []
-    for claim, system, point, codimension, slices, options in batch:
-        if claim == "regular":
-            results.append(certify_regular_zero(system, point, options))
-        elif claim == "smooth":
-            results.append(certify_smooth_point(system, point, codimension, options))
-        else:
-            results.append(certify_singular_point(system, point, codimension, options, slices=slices))
-    return results
+    """Certify a batch of tasks (runs on workers)."""
+    return [_run_task(task) for task in batch]
 
 
-def _singular_tasks(system, component, options):
+def _point_of(entry, key, system, at_infinity, where):
+    """A report's point, checked for its number of coordinates (one-line error naming where)."""
+    point = decode_point(entry[key])
+    expected = system.n_variables + (1 if at_infinity else 0)
+    if point.shape != (expected,):
+        raise InputError(f"{where}: the point has {len(point)} coordinates, expected {expected}")
+    if not np.all(np.isfinite(point)):
+        raise InputError(f"{where}: the point has non-finite coordinates")
+    return point
+
+
+def _singular_tasks(system, component, options, where):
     """Tasks (or finished 'undecided' certificates) for the points of one singular component."""
-    points = [decode_point(p) for p in component["points"]]
+    at_infinity = bool(component["at_infinity"]) and not system.projective
+    points = [_point_of({"p": p}, "p", system, at_infinity, f"{where}, point {k}")
+              for k, p in enumerate(component["points"], 1)]
     digits = options.digits
     if component["kind"] == "non-reduced":
         return [_not_certified("a generically non-reduced component of X: the equations cannot tell whether "
                                "the variety is smooth there", p, digits) for p in points]
-    target = _homogenized(system) if component["at_infinity"] and not system.projective else system
     codimension = component.get("codimension")
     if codimension is None:
         if system.n_equations != 1:
@@ -536,20 +584,18 @@ def _singular_tasks(system, component, options):
                     for p in points]
         codimension = 1
     dimension = int(component["dimension"])
-    return [("singular", target, p, int(codimension), dimension, options) for p in points]
+    return [_Task("singular", system, p, options, int(codimension), dimension, at_infinity) for p in points]
 
 
-def _check_task(system, verdict, options):
-    point = decode_point(verdict["point"])
+def _check_task(system, verdict, options, where):
+    point = _point_of(verdict, "point", system, False, where)
     codimension = verdict.get("codimension")
-    if codimension is None:
-        return _not_certified("the report gives no codimension at this point", point, options.digits)
-    if verdict["verdict"] == "smooth":
-        return ("smooth", system, point, int(codimension), 0, options)
-    if verdict["verdict"] == "singular" and codimension >= 1:
-        return ("singular", system, point, int(codimension), 0, options)
-    return _not_certified(f"the rank decision is {verdict['verdict']}: there is no claim to certify",
-                          point, options.digits)
+    if verdict["verdict"] == "smooth" and codimension is not None:
+        return _Task("smooth", system, point, options, int(codimension))
+    if verdict["verdict"] == "singular" and codimension is not None:
+        return _Task("singular", system, point, options, int(codimension))
+    # no claim the certificate could prove (or no codimension to prove it with): the rank of J, proved
+    return _Task("rank", system, point, options)
 
 
 def _require(condition, where, what):
@@ -603,6 +649,10 @@ def _validated_for_certify(data, command, system):
 def certify_report(data, options=None, progress=None, executor=None):
     """Certificates for the points of a saved report of ``solve``, ``singular`` or ``check``.
 
+    Nothing the report claims is trusted: its points are where to look, and its claims (a codimension,
+    a multiplicity, a point being at infinity, a verdict) are checked against the system; a claim that
+    does not hold is listed in the certificate's ``claim_checks`` and counted.
+
     Parameters
     ----------
     data : dict
@@ -618,8 +668,10 @@ def certify_report(data, options=None, progress=None, executor=None):
     dict
         A copy with a ``certificate`` for each solution (``solve``), a ``certificates`` list
         parallel to ``points`` for each component (``singular``), a ``certificate`` per point
-        (``check``), and a ``certification`` summary: counts by status and kind, overlapping
-        boxes (``all_distinct`` true when no two certified boxes meet), digits and time.
+        (``check``: the verdict's, with the rank of J proved on its box; a rank certificate where the
+        verdict claims nothing), and a ``certification`` summary: counts by status and kind, claims
+        that failed, proved ranks, overlapping boxes (``all_distinct`` true when no two certified
+        boxes meet), digits and time.
 
     Examples
     --------
@@ -639,25 +691,32 @@ def certify_report(data, options=None, progress=None, executor=None):
     system = _report_system(data, command)
     _validated_for_certify(data, command, system)
     data = copy.deepcopy(data)
-    # slots: (entry, key, space) -> a task or a finished certificate; space groups boxes for disjointness
+    # slots: (entry, key, space, task or finished certificate); space groups boxes for disjointness
     slots = []
-    if command == "solve":
-        for key, at_infinity in (("solutions", False), ("at_infinity", True)):
-            for entry in data[key]:
-                target = _homogenized(system) if at_infinity and not system.projective else system
-                slots.append((entry, "certificate", "infinity" if target is not system else "affine",
-                              ("regular", target, decode_point(entry["point"]), None, 0, options)))
-    elif command == "singular":
-        for component in data["components"]:
-            component["certificates"] = []
-            space = "infinity" if component["at_infinity"] and not system.projective else "affine"
-            for task in _singular_tasks(system, component, options):
-                slots.append((component, "certificates", space if component["dimension"] == 0 else None, task))
-    else:
-        for verdict in data["points"]:
-            slots.append((verdict, "certificate", None, _check_task(system, verdict, options)))
-    pending = [k for k, slot in enumerate(slots) if isinstance(slot[3], tuple)]
-    results = {k: slot[3] for k, slot in enumerate(slots) if not isinstance(slot[3], tuple)}
+    try:
+        if command == "solve":
+            for key, at_infinity in (("solutions", False), ("at_infinity", True)):
+                for k, entry in enumerate(data[key], 1):
+                    infinity = at_infinity and not system.projective
+                    point = _point_of(entry, "point", system, infinity, f"{key} {k}")
+                    task = _Task("regular", system, point, options, at_infinity=infinity,
+                                 multiplicity=None if infinity else entry.get("multiplicity"))
+                    slots.append((entry, "certificate", "infinity" if infinity else "affine", task))
+        elif command == "singular":
+            for component in data["components"]:
+                component["certificates"] = []
+                space = "infinity" if component["at_infinity"] and not system.projective else "affine"
+                where = f"component {component.get('id')}"
+                for task in _singular_tasks(system, component, options, where):
+                    slots.append((component, "certificates", space if component["dimension"] == 0 else None,
+                                  task))
+        else:
+            for k, verdict in enumerate(data["points"], 1):
+                slots.append((verdict, "certificate", None, _check_task(system, verdict, options, f"point {k}")))
+    except (KeyError, TypeError) as err:
+        raise InputError(f"the report lacks or garbles the key {err}") from None
+    pending = [k for k, slot in enumerate(slots) if isinstance(slot[3], _Task)]
+    results = {k: slot[3] for k, slot in enumerate(slots) if not isinstance(slot[3], _Task)}
     size = 4
     batches = [pending[i:i + size] for i in range(0, len(pending), size)]
     owned = executor is None
@@ -671,7 +730,7 @@ def certify_report(data, options=None, progress=None, executor=None):
         for failure in executor.failures:
             for k in batches[failure.index]:
                 results[k] = _not_certified(f"certification failed on a worker: {failure.error}",
-                                            slots[k][3][2], options.digits)
+                                            slots[k][3].point, options.digits)
     finally:
         if owned:
             executor.close()
@@ -690,14 +749,22 @@ def certify_report(data, options=None, progress=None, executor=None):
             entry[key] = encoded
     counts = {status: sum(c.status == status for c in every) for status in STATUSES}
     kinds = {kind: sum(c.status == "certified" and c.kind == kind for c in every) for kind in ("numerical", "exact")}
+    failed_claims = [f"{check.name}: reported {check.reported}, {check.status} ({check.how})"
+                     for c in every for check in c.failed_claims]
     data["certification"] = {
-        "digits": options.digits, "exact_attempted": options.exact, "counts": counts, "certified_by_kind": kinds,
+        "digits": options.digits, "max_digits": options.limit, "exact_attempted": options.exact,
+        "counts": counts, "certified_by_kind": kinds,
+        "claims_failed": len(failed_claims), "failed_claims": failed_claims,
+        "ranks": {"lower_bound_proved": sum(c.rank_lower is not None for c in every),
+                  "exact": sum(c.rank_lower is not None and c.rank_lower == c.rank_upper for c in every)},
         "overlapping_pairs": overlapping, "all_distinct": overlapping == 0 if command != "check" else None,
         "alpha_constant": ALPHA_ZERO_TEXT, "seconds": time.perf_counter() - started,
         "executor": executor.describe(),
-        "meaning": ("numerical: a box provably holding exactly one zero of a square subsystem, the other "
-                    "equations bounded over it (backward error); exact: proved for the exact equations. "
-                    "Being singular is not an open condition: only exact certificates prove it."),
+        "meaning": ("numerical: a box provably holding exactly one zero of a square subsystem, every other "
+                    "equation of the claim bounded over it below the threshold relative to its terms "
+                    "(backward error); exact: proved for the exact equations (recognised coordinates, "
+                    "root separation). Being singular is not an open condition: only exact certificates "
+                    "prove it. A report's claims are checked, not trusted (claim_checks)."),
     }
     return data
 

@@ -42,10 +42,13 @@ def test_barth_sextic_nodes_numerical_certificates(problems):
     problem = problems["barth_sextic_exact"]
     locus, certificates = _certify_locus(_system(problem), CertifyOptions(digits=30, exact=False))
     assert len(certificates) == problem["expected"]["singular_points"]
-    assert all(c.status == "certified" and c.kind == "numerical" for c in certificates)
+    assert all(c.status == "certified" for c in certificates)
     assert overlapping_pairs(certificates) == []
     for c in certificates:
-        assert c.backward_error is not None and 0 <= c.backward_error < 1e-20
+        if c.kind == "numerical":
+            assert c.backward_error is not None and 0 <= c.backward_error < c.threshold <= 1e-20
+        else:  # nodes at coordinate points: every equation vanishes identically where the other coordinates do
+            assert c.exact_method == "identically zero" and len(c.zero_coordinates) == 3
         assert c.radius < 1e-20
 
 
@@ -179,7 +182,13 @@ def test_regular_solutions_certified_real_and_distinct():
 def test_non_isolated_zero_is_undecided_and_far_point_refuted():
     # x(x - y) = x(x + y) = 0 is the line x = 0 with an embedded point: not an isolated zero
     system = parse_system(["x*(x - y)", "x*(x + y)"], ["x", "y"])
-    assert certify_regular_zero(system, [0.0, 0.5]).status == "undecided"
+    near = certify_regular_zero(system, [1e-12, 0.5])
+    # not certified; a refutation speaks of a box too small to reach the line (each coordinate's own size)
+    assert near.status == "undecided" or (near.status == "refuted" and near.radii[0] < 1e-12)
+    # the point (0, 1/2) itself is an exact zero (not an isolated one: no multiplicity)
+    given = certify_regular_zero(system, [0.0, 0.5])
+    assert given.status == "certified" and given.claim == "zero" and given.method == "exact substitution"
+    assert given.exact_coordinates == ["0", "1/2"] and given.multiplicity is None
     assert certify_regular_zero(system, [3.0, 0.5]).status == "refuted"
 
 
@@ -205,3 +214,95 @@ def test_options_and_input_are_checked():
         singularity_equations(system, 3)
     with pytest.raises(InputError, match="codimension is needed"):
         certify_singular_point(parse_system(["x", "y"], ["x", "y"]), [0, 0])
+
+
+def test_root_separation_proves_an_exact_zero_when_recognition_is_not_tried():
+    # x^2 = 2, y = x, x y = 2: the common zeros are (+-sqrt 2, +-sqrt 2) (worked by hand). With recognition
+    # limited to rational points, exactness comes from root separation (Canny's gap theorem, J. Canny,
+    # "Generalized characteristic polynomials", 1990 -- from memory): the bound for x y - 2 at a zero of the
+    # first two is 10^-30.1, reached by raising the precision
+    system = parse_system(["x^2 - 2", "y - x", "x*y - 2"], ["x", "y"])
+    options = CertifyOptions(digits=30, max_digits=80, exact_max_degree=1)
+    certificate = certify_regular_zero(system, [1.41421356, 1.41421356], options)
+    assert certificate.status == "certified" and certificate.kind == "exact"
+    assert certificate.exact_method == "root separation" and certificate.exact_coordinates is None
+    assert certificate.digits_tried[0] == 30 and certificate.digits > 30
+    with working_digits(certificate.digits * 2):
+        for text, radius in zip(certificate.center_text, certificate.radii):
+            assert abs(_parse_center(text) - mpmath.sqrt(2)) <= radius
+
+
+def test_a_nearby_system_is_never_proved_exact():
+    # x y = 2 + 10^-40 has no common zero with x^2 = 2, y = x (2 != 2 + 10^-40; worked by hand): numerically
+    # the point is within the backward error at 30 digits, never exact; at 60 digits the box excludes it
+    system = parse_system(["x^2 - 2", "y - x", "x*y - 2 - 1/10^40"], ["x", "y"])
+    low = certify_regular_zero(system, [1.41421356, 1.41421356],
+                               CertifyOptions(digits=30, max_digits=120, exact_max_degree=1))
+    assert low.kind != "exact"
+    assert low.status != "certified" or low.backward_error <= low.threshold
+    high = certify_regular_zero(system, [1.41421356, 1.41421356], CertifyOptions(digits=60))
+    assert high.status == "refuted"
+
+
+def test_exact_refutation_where_intervals_cannot_decide():
+    # y^2 - x^2 - x^3 + 10^-90: its partials vanish only at (0, 0) and (-2/3, 0), where the polynomial is
+    # 10^-90 and 4/27 + 10^-90, so it has no singular point (worked by hand); at 30 digits the box around
+    # the origin is too wide for intervals, the exact value at the recognised point is not
+    system = parse_system(["y^2 - x^2 - x^3 + 1/10^90"], ["x", "y"])
+    certificate = certify_singular_point(system, [1e-12, 0.0])
+    assert certificate.status == "refuted" and certificate.kind == "exact"
+    numerical = certify_singular_point(system, [1e-12, 0.0], options=CertifyOptions(exact=False))
+    assert numerical.status != "certified"
+
+
+def test_point_at_infinity_certified_with_its_chart_and_w_exactly_zero():
+    # x^2 - y^2 = 1, x - y = 1: the top-degree forms x^2 - y^2 and x - y meet only at (x : y) = (1 : 1), so
+    # (w : x : y) = (0 : 1 : 1) is the one point at infinity (worked by hand)
+    system = parse_system(["x^2 - y^2 - 1", "x - y - 1"], ["x", "y"])
+    certificate = certify_regular_zero(system, [1e-9, 1.0, 1.0 + 1e-9], at_infinity=True)
+    assert certificate.status == "certified" and certificate.at_infinity
+    assert 0 in certificate.zero_coordinates and certificate.radii[0] == 0.0
+    assert certificate.chart in (1, 2) and certificate.center_text[certificate.chart] == "1"
+    assert any(check.name == "at infinity" and check.status == "proved" for check in certificate.claim_checks)
+    fake = certify_regular_zero(system, [0.0, 1.0, 2.0], at_infinity=True)
+    assert fake.status == "refuted"
+
+
+def test_reported_multiplicity_is_checked():
+    # x^2 + y^2 = 5, x y = 2 has four simple solutions (worked by hand): a reported multiplicity 2 is refuted
+    system = parse_system(["x^2 + y^2 - 5", "x*y - 2"], ["x", "y"])
+    certificate = certify_regular_zero(system, [1.0, 2.0], multiplicity=2)
+    assert certificate.status == "certified" and certificate.multiplicity == 1
+    check = certificate.claim_checks[0]
+    assert check.name == "multiplicity" and check.status == "refuted" and check.fails
+    # y = x^2, y = 2 x - 1 are tangent at (1, 1): a double root (worked by hand)
+    tangent = parse_system(["y - x^2", "y - 2*x + 1"], ["x", "y"])
+    double = certify_regular_zero(tangent, [1 + 1e-9, 1.0], multiplicity=2)
+    assert double.status == "certified" and double.multiplicity == 2 and double.claim == "zero"
+    assert double.claim_checks[0].status == "numerical"
+
+
+@pytest.mark.parametrize("units", [(-6, 6), (6, -6), (3, -4)])
+def test_certificates_do_not_depend_on_units(units):
+    # x^2 + y^2 = 5, x y = 2 at (1, 2) with x in units of 10^a and y of 10^b (exact rescaling): the same point,
+    # certified with a box of each coordinate's own size (common practice, no source)
+    a, b = units
+    system = parse_system([f"(1e{a}*x)^2 + (1e{b}*y)^2 - 5", f"(1e{a}*x)*(1e{b}*y) - 2"], ["x", "y"])
+    point = np.array([1.0 / 10.0 ** a, 2.0 / 10.0 ** b])
+    certificate = certify_regular_zero(system, point * (1 + 1e-12))
+    assert certificate.status == "certified" and certificate.kind == "exact"
+    relative = np.asarray(certificate.radii) / np.abs(point)
+    assert np.all(relative < 1e-20)
+
+
+def test_no_refutation_from_a_deflated_subsystem():
+    # x^2 = 10^-90, y = 0 has the two zeros (+-10^-45, 0) (worked by hand); around the origin, between them,
+    # the deflated square subsystem (2 x, y) has its zero at the origin where x^2 - 10^-90 is not 0, yet the
+    # box there holds both zeros of the claim: the answer must not be "refuted"
+    system = parse_system(["x^2 - 1/10^90", "y"], ["x", "y"])
+    between = certify_regular_zero(system, [0.0, 0.0])
+    assert between.status == "undecided"
+    near = certify_regular_zero(system, [3e-45, 0.0])
+    assert near.status == "certified" and near.kind == "exact"
+    with working_digits(100):
+        assert abs(_parse_center(near.center_text[0]) - mpmath.mpf(10) ** -45) <= near.radii[0]

@@ -185,10 +185,12 @@ def test_solve_and_check_with_certify_switch(tmp_path):
     assert code == EXIT_OK and data["certification"]["counts"]["certified"] == 4
     assert all(s["certificate"]["real"] is True for s in data["solutions"])
     code, text = run(["check", str(path), "--point", "x=1,y=2", "--certify"])
-    assert code == EXIT_OK and "certified (exact, Krawczyk, smooth point)" in text
+    assert code == EXIT_OK and "certified (exact, implicit function theorem, Krawczyk, smooth point)" in text
+    assert "rank J >= 2 on the box" in text
     code, text = run(["check", str(EXAMPLES / "parallel_linkage.toml"), "--point", "c1=1,s1=0,c2=1,s2=0",
                       "--certify", "--seed", "1"])
-    assert code == EXIT_OK and "certified (exact, Krawczyk, singular point)" in text
+    assert code == EXIT_OK and "certified (exact, exact substitution, singular point)" in text
+    assert "rank J = 2: >= 2 on the box, <= 2 at the exact point" in text
 
 
 def test_certify_refuses_what_it_cannot_read(tmp_path, capsys):
