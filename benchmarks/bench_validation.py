@@ -21,12 +21,9 @@ numag's answer, outcome, differences, seconds). Exit code 0 when everything matc
 import argparse
 import dataclasses
 import json
-import multiprocessing
 import pathlib
-import resource
 import sys
 import time
-import traceback
 
 import checkout  # noqa: F401  (this checkout's numag, not an installed one)
 
@@ -35,49 +32,6 @@ import corpus  # noqa: E402
 from corpus import Outcome, Task, Transform  # noqa: E402
 
 RESULTS = checkout.ROOT / "benchmarks" / "results"
-#: Address-space limit of a child (bytes): a runaway problem fails alone instead of taking the machine.
-MEMORY_LIMIT = 6 * 2**30
-
-
-def _child(problem, task, seed, connection):
-    resource.setrlimit(resource.RLIMIT_AS, (MEMORY_LIMIT, MEMORY_LIMIT))
-    try:
-        connection.send(("ok", corpus.run(problem, task, seed)))
-    except BaseException as err:  # noqa: BLE001 -- every failure is reported, none kills the benchmark
-        where = traceback.extract_tb(err.__traceback__)[-1]
-        connection.send(("error", f"{type(err).__name__}: {err} ({pathlib.Path(where.filename).name}:{where.lineno})"))
-    finally:
-        connection.close()
-
-
-def run_with_limit(problem, task, seed, limit):
-    """(Outcome, differences, answer or None, seconds) for one problem and task, in a child process."""
-    context = multiprocessing.get_context("fork")
-    receiver, sender = context.Pipe(duplex=False)
-    process = context.Process(target=_child, args=(problem, task, seed, sender), daemon=True)
-    started = time.perf_counter()
-    process.start()
-    sender.close()
-    message = None
-    try:
-        if receiver.poll(limit):
-            message = receiver.recv()
-    except EOFError:  # the child died without a word (killed by the memory limit's MemoryError path, a signal)
-        message = ("error", f"child exited with code {process.exitcode}")
-    seconds = time.perf_counter() - started
-    if process.is_alive():
-        process.kill()  # this child only (by its own handle), never a name pattern
-    process.join(5)
-    receiver.close()
-    if message is None:
-        return Outcome.TIMEOUT, [f"no answer within {limit:.0f} s"], None, seconds
-    if message[0] == "error":
-        return Outcome.ERROR, [message[1]], None, seconds
-    answer = message[1]
-    outcome, differences = corpus.compare(problem, answer, task)
-    return outcome, differences, answer, seconds
-
-
 def _plain(value):
     if dataclasses.is_dataclass(value):
         return {k: _plain(v) for k, v in dataclasses.asdict(value).items()}
@@ -169,7 +123,7 @@ def main(argv=None):
 
     records = []
     for index, (problem, task) in enumerate(jobs, 1):
-        outcome, differences, answer, seconds = run_with_limit(problem, task, args.seed, args.time_limit)
+        outcome, differences, answer, seconds = corpus.run_limited(problem, task, args.seed, args.time_limit)
         records.append({
             "name": problem.name, "family": problem.family, "base": problem.base, "transform": problem.transform.value,
             "detail": problem.detail, "task": task.value, "outcome": outcome.value, "differences": differences,

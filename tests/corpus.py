@@ -114,7 +114,8 @@ class Expected:
     non_reduced : tuple of (dimension, degree)
         Components of X of multiplicity > 1 (sorted).
     at_infinity : int or None
-        Isolated singular points of the closure at infinity (affine plane curves only).
+        Isolated singular points of the closure at infinity (affine plane curves only); for ``solve``,
+        the number of solutions at infinity.
     solutions, real_solutions : int or None
         Isolated regular solutions of a square system (task ``solve``).
     scheme_length : int or None
@@ -247,7 +248,7 @@ def decimal_text(value):
 
 def _coefficient_text(value):
     """Text of an exact coefficient: a rational, or a sum of rationals times square roots (and I)."""
-    value = sympy.nsimplify(value) if not value.is_Rational else value
+    value = sympy.expand(value)
     if value.is_Rational:
         return decimal_text(value)
     parts = []
@@ -277,7 +278,7 @@ def polynomial_text(expression, symbols):
     --------
     >>> x, y = sympy.symbols("x y")
     >>> polynomial_text(sympy.Rational(1, 10**6) * (x - 2)**2 - y, (x, y))
-    '1e-6*x^2 - 4e-6*x + 4e-6 - y'
+    '1e-6*x^2 - 4e-6*x - y + 4e-6'
     """
     poly = sympy.Poly(sympy.expand(expression), *symbols)
     if poly.is_zero:
@@ -320,7 +321,7 @@ def small_rational_matrix(n, rng, max_condition=100.0):
     Examples
     --------
     >>> m = small_rational_matrix(3, np.random.default_rng(0))
-    >>> m.det() != 0 and np.linalg.cond(np.array(m, dtype=float)) <= 100
+    >>> bool(m.det() != 0 and np.linalg.cond(np.array(m, dtype=float)) <= 100)
     True
     """
     for _ in range(10000):
@@ -630,9 +631,23 @@ def plane_unions(rng, quick=False):
         out.append(Construction(
             f"{k}-planes", "plane_unions", symbols, [sympy.Mul(*forms)],
             Expected(variety=_pieces(*[(2, 1)] * k), singular_points=0, real_singular_points=0,
-                     singular_components=_pieces(*[(1, 1)] * math.comb(k, 2)), non_reduced=()),
-            "k planes in general position: singular exactly along the C(k,2) lines where two meet (common "
-            "practice, no source)", checks=checks))
+                     singular_components=_pieces(*[(1, 1)] * math.comb(k, 2)), non_reduced=(), at_infinity=0),
+            "k planes in general position: singular exactly along the C(k,2) lines where two meet; every singular "
+            "point of the closure at infinity lies on such a line, none is isolated (common practice, no source)",
+            checks=checks))
+    if quick:
+        return out
+    # three planes whose lines of intersection lie in coordinate planes: two of them in x = 0
+    for label, forms in (("coordinate-planes", [x, y, z]), ("two-lines-in-x=0", [x, y - z, y + 2 * z])):
+        out.append(Construction(
+            label, "plane_unions", symbols, [sympy.expand(sympy.Mul(*forms))],
+            Expected(variety=((2, 1),) * 3, singular_points=0, real_singular_points=0,
+                     singular_components=((1, 1),) * 3, at_infinity=0),
+            "three planes through the origin meeting pairwise in three distinct lines (for xyz = 0 the axes; for "
+            "x (y - z)(y + 2z) = 0 two of the lines lie in x = 0); common practice, no source",
+            checks=[((sympy.Integer(0), sympy.Integer(0), sympy.Integer(3)), "singular", "a point of the z-axis")
+                    if label == "coordinate-planes" else
+                    ((sympy.Integer(0), sympy.Integer(2), sympy.Integer(2)), "singular", "a point of the line x = 0, y = z")]))
     return out
 
 
@@ -801,7 +816,8 @@ def quadric_unions(rng, quick=False):
     out = []
     source = ("surfaces meeting transversally along smooth irreducible curves: the union is singular exactly "
               "there; degrees by Bezout (quadric and quadric 4, plane and quadric 2, plane and plane 1); "
-              "smoothness of each piece checked by sympy; common practice, no source")
+              "smoothness of each piece and of its closure checked by sympy, so no singular point at infinity is "
+              "isolated; common practice, no source")
     cases = [("two-quadrics", 2, 0)] if quick else [("two-quadrics", 2, 0), ("plane-and-quadric", 1, 1),
                                                     ("two-planes-and-quadric", 1, 2)]
     for label, quadrics, planes in cases:
@@ -809,7 +825,7 @@ def quadric_unions(rng, quick=False):
             factors = [_random_quadric(rng, symbols) for _ in range(quadrics)]
             factors += [sum(_nonzero_int(rng, 4) * s for s in symbols) + int(rng.integers(-4, 5))
                         for _ in range(planes)]
-            if all(_is_smooth_hypersurface(f, symbols) for f in factors) and all(
+            if all(_projective_closure_is_smooth(f, symbols) for f in factors) and all(
                     _is_smooth_complete_intersection([f, g], symbols) for f, g in itertools.combinations(factors, 2)):
                 break
         variety = [(2, 2)] * quadrics + [(2, 1)] * planes
@@ -818,8 +834,16 @@ def quadric_unions(rng, quick=False):
         out.append(Construction(
             label, "quadric_unions", symbols, [sympy.expand(sympy.Mul(*factors))],
             Expected(variety=_pieces(*variety), singular_points=0, real_singular_points=0,
-                     singular_components=_pieces(*curves)), source))
+                     singular_components=_pieces(*curves), at_infinity=0), source))
     return out
+
+
+def _projective_closure_is_smooth(f, symbols):
+    """True when the closure of V(f) in P^n is smooth: the partials of F^h vanish together only at 0 (sympy)."""
+    w = sympy.Symbol("w_closure")
+    homogeneous = _homogenize(f, symbols, w)
+    variables = tuple(symbols) + (w,)
+    return _nilpotent_point_length([sympy.diff(homogeneous, v) for v in variables], variables) is not None
 
 
 def _is_smooth_complete_intersection(polynomials, symbols):
@@ -872,7 +896,7 @@ def chebyshev_surfaces(rng, quick=False):
         out.append(Construction(
             f"T{d}-sum={c}", "chebyshev_surfaces", symbols, [f],
             Expected(variety=((2, d),), singular_points=len(points), real_singular_points=len(points),
-                     scheme_length=len(points)),
+                     scheme_length=len(points), at_infinity=0),
             "critical points of T_d(x) + T_d(y) + T_d(z): coordinates cos(k pi/d), each non-degenerate, value "
             "(-1)^i + (-1)^j + (-1)^k; those with value c are the nodes (real); the closure is smooth at infinity "
             "(Fermat curve) and the surface irreducible; common practice, no source (the family is Chmutov's, "
@@ -931,12 +955,17 @@ def determinantal(rng, quick=False):
                   for rows in itertools.combinations(range(m), r + 1)
                   for cols in itertools.combinations(range(n), r + 1)]
         dimension, degree = r * (m + n - r), determinantal_degree(m, n, r)
+        # homogeneous equations: the closure is a cone, singular at infinity only along positive-dimensional
+        # sets (rank <= r - 1 matrices at infinity), so no isolated singular point there
+        at_infinity = 0 if len(minors) == 1 else None
         if r == 1:
-            expected = Expected(variety=((dimension, degree),), singular_points=1, real_singular_points=1)
+            expected = Expected(variety=((dimension, degree),), singular_points=1, real_singular_points=1,
+                                at_infinity=at_infinity)
             points = [tuple(sympy.Integer(0) for _ in names)]
         else:
             expected = Expected(variety=((dimension, degree),), singular_points=0, real_singular_points=0,
-                                singular_components=(((r - 1) * (m + n - r + 1), determinantal_degree(m, n, r - 1)),))
+                                singular_components=(((r - 1) * (m + n - r + 1), determinantal_degree(m, n, r - 1)),),
+                                at_infinity=at_infinity)
             points = None
         out.append(Construction(f"{m}x{n}-rank-{r}", "determinantal", symbols, [sympy.expand(g) for g in minors],
                                 expected, source, points=points))
@@ -1064,8 +1093,11 @@ def moved_singularities(rng, quick=False):
         germ, weights, milnor, degree = _SURFACE_GERMS[name]
         for _ in range(200):
             f = _germ_with_terms(germ, weights, degree, surface_symbols, rng)
+            top = sum(c * sympy.Mul(*[s ** k for s, k in zip(surface_symbols, e)])
+                      for e, c in sympy.Poly(f, *surface_symbols).terms() if sum(e) == degree)
             if (_nilpotent_point_length([f] + [sympy.diff(f, s) for s in surface_symbols], surface_symbols) == milnor
-                    and _irreducible_over_q(f)):
+                    and _irreducible_over_q(f)
+                    and _nilpotent_point_length([sympy.diff(top, s) for s in surface_symbols], surface_symbols)):
                 break
         else:
             raise RuntimeError(f"no surface with one {name} point found")
@@ -1075,10 +1107,12 @@ def moved_singularities(rng, quick=False):
         smooth = _smooth_point_on_surface(moved, *surface_symbols, [point])
         out.append(Construction(
             f"surface-{name}", "moved_singularities", surface_symbols, [moved],
-            Expected(variety=((2, degree),), singular_points=1, real_singular_points=1, scheme_length=milnor),
+            Expected(variety=((2, degree),), singular_points=1, real_singular_points=1, scheme_length=milnor,
+                     at_infinity=0),
             f"the normal form of an {name} surface singularity (Arnold's list, common practice) plus random terms of "
             "higher weighted degree, moved by a random rational affine map; sympy checked: the singular locus is "
-            f"that point alone with Tjurina number {milnor}, irreducible over Q",
+            f"that point alone with Tjurina number {milnor}, irreducible over Q, the top-degree form a smooth plane "
+            "curve (so the closure is smooth at infinity)",
             points=[point], checks=[(point, "singular", f"the {name} point"), (smooth, "smooth", "a point of X")]))
     return out
 
@@ -1202,7 +1236,8 @@ def smooth(rng, quick=False):
         point = tuple(solution.get(s, values.get(s)) for s in symbols)
         out.append(Construction(
             f"linear-space-{n - m}-in-C{n}", "smooth", symbols, equations,
-            Expected(variety=((n - m, 1),), **nothing), words.format("a linear space"),
+            Expected(variety=((n - m, 1),), at_infinity=0 if m == 1 else None, **nothing),
+            words.format("a linear space"),
             checks=[(point, "smooth", "a point of the space")]))
     for d in (3, 5):
         f = x ** d + y ** d - 1
@@ -1213,13 +1248,13 @@ def smooth(rng, quick=False):
             checks=[((sympy.Integer(1), sympy.Integer(0)), "smooth", "the point (1, 0)")]))
     f = x ** 3 + y ** 3 + z ** 3 - 1
     out.append(Construction(
-        "fermat-surface-3", "smooth", space, [f], Expected(variety=((2, 3),), **nothing),
+        "fermat-surface-3", "smooth", space, [f], Expected(variety=((2, 3),), at_infinity=0, **nothing),
         words.format("the gradient vanishes only at the origin, not on X"),
         checks=[((sympy.Integer(0), sympy.Integer(1), sympy.Integer(0)), "smooth", "the point (0, 1, 0)")]))
     for d in (3, 4):
         f = sympy.expand(chebyshev(d, x) + chebyshev(d, y) + chebyshev(d, z))
         out.append(Construction(
-            f"T{d}-sum=0", "smooth", space, [f], Expected(variety=((2, d),), **nothing),
+            f"T{d}-sum=0", "smooth", space, [f], Expected(variety=((2, d),), at_infinity=0, **nothing),
             words.format("the critical values of T_d(x) + T_d(y) + T_d(z) are odd integers, never 0")))
     # two diagonal quadrics with distinct ratios: a smooth complete intersection (as in the projective family)
     f1, f2 = x ** 2 + y ** 2 + z ** 2 - 1, x ** 2 + 2 * y ** 2 + 3 * z ** 2 - 4
@@ -1240,13 +1275,15 @@ def smooth(rng, quick=False):
 
 
 def nonreduced_and_nonisolated(rng, quick=False):
+    """Non-reduced and non-isolated singular loci. At infinity: every singular point of the closure lies on the
+    closure of the positive-dimensional piece, so none is isolated (at_infinity = 0)."""
     out = []
     x, y, z = space = _symbols(["x", "y", "z"])
     plane = space[:2]
     line = 2 * x - 3 * y + 1
     out.append(Construction(
         "double-line", "nonreduced_and_nonisolated", plane, [sympy.expand(line ** 2)],
-        Expected(variety=((1, 1),), singular_points=0, real_singular_points=0, non_reduced=((1, 1),)),
+        Expected(variety=((1, 1),), singular_points=0, real_singular_points=0, non_reduced=((1, 1),), at_infinity=0),
         "l^2 = 0 is the line l = 0 with multiplicity 2: non-reduced, the Jacobian vanishes along it (common practice, "
         "no source)",
         checks=[((sympy.Integer(1), sympy.Integer(1)), "non-reduced", "a point of the double line")]))
@@ -1255,31 +1292,53 @@ def nonreduced_and_nonisolated(rng, quick=False):
     conic = x ** 2 + 2 * y ** 2 - 3
     out.append(Construction(
         "double-conic", "nonreduced_and_nonisolated", plane, [sympy.expand(conic ** 2)],
-        Expected(variety=((1, 2),), singular_points=0, real_singular_points=0, non_reduced=((1, 2),)),
+        Expected(variety=((1, 2),), singular_points=0, real_singular_points=0, non_reduced=((1, 2),), at_infinity=0),
         "q^2 = 0 for a smooth conic q: non-reduced (common practice, no source)",
         checks=[((sympy.Integer(1), sympy.Integer(1)), "non-reduced", "a point of the double conic")]))
     plane_form = x + 2 * y - z + 3
     out.append(Construction(
         "double-plane", "nonreduced_and_nonisolated", space, [sympy.expand(plane_form ** 2)],
-        Expected(variety=((2, 1),), singular_points=0, real_singular_points=0, non_reduced=((2, 1),)),
+        Expected(variety=((2, 1),), singular_points=0, real_singular_points=0, non_reduced=((2, 1),), at_infinity=0),
         "a double plane: non-reduced (common practice, no source)"))
     out.append(Construction(
         "whitney-umbrella", "nonreduced_and_nonisolated", space, [x ** 2 - y ** 2 * z],
-        Expected(variety=((2, 3),), singular_points=0, real_singular_points=0, singular_components=((1, 1),)),
+        Expected(variety=((2, 3),), singular_points=0, real_singular_points=0, singular_components=((1, 1),),
+                 at_infinity=0),
         "x^2 = y^2 z is singular exactly along the z-axis (common practice, no source)",
         checks=[((sympy.Integer(0), sympy.Integer(0), sympy.Integer(2)), "singular", "a point of the z-axis"),
                 ((sympy.Integer(2), sympy.Integer(1), sympy.Integer(4)), "smooth", "the point (2, 1, 4)")]))
     out.append(Construction(
         "nodal-cylinder", "nonreduced_and_nonisolated", space, [y ** 2 - x ** 2 * (x + 1)],
-        Expected(variety=((2, 3),), singular_points=0, real_singular_points=0, singular_components=((1, 1),)),
+        Expected(variety=((2, 3),), singular_points=0, real_singular_points=0, singular_components=((1, 1),),
+                 at_infinity=0),
         "the cylinder over the nodal cubic is singular along the line over the node (common practice, no source)",
         checks=[((sympy.Integer(0), sympy.Integer(0), sympy.Integer(5)), "singular", "a point over the node")]))
     out.append(Construction(
         "two-conjugate-planes", "nonreduced_and_nonisolated", space, [x ** 2 + y ** 2],
         Expected(variety=((2, 1), (2, 1)), singular_points=0, real_singular_points=0,
-                 singular_components=((1, 1),)),
+                 singular_components=((1, 1),), at_infinity=0),
         "x^2 + y^2 = (x + iy)(x - iy): two planes meeting along the z-axis (common practice, no source)"))
     return out
+
+
+def linkages(rng, quick=False):
+    """A four-bar linkage at a change point (ground 4, crank 2, coupler 3, rocker 3: 2 + 4 = 3 + 3)."""
+    symbols = _symbols(["ax", "ay", "bx", "by"])
+    ax, ay, bx, by = symbols
+    equations = [ax ** 2 + ay ** 2 - 4, (bx - 4) ** 2 + by ** 2 - 9, (ax - bx) ** 2 + (ay - by) ** 2 - 9]
+    folded = (sympy.Integer(-2), sympy.Integer(0), sympy.Integer(1), sympy.Integer(0))
+    # crank at 90 degrees: A = (0, 2); B on both circles
+    solution = sorted(sympy.solve([e.subs({ax: 0, ay: 2}) for e in equations[1:]], [bx, by], dict=True),
+                      key=lambda v: sympy.N(v[bx]))[0]
+    smooth = (sympy.Integer(0), sympy.Integer(2), solution[bx], solution[by])
+    return [Construction(
+        "four-bar-change-point", "linkages", symbols, [sympy.expand(e) for e in equations],
+        Expected(variety=((1, 6),), singular_points=1, real_singular_points=1, scheme_length=1),
+        "a Grashof equality four-bar (ground 4, crank 2, coupler 3, rocker 3; common practice, no source): X one "
+        "curve of degree 6 (issue 15, sympy Groebner basis) singular only at the folded configuration "
+        "A = (-2, 0), B = (1, 0), where its two branches of motion cross",
+        points=[folded], checks=[(folded, "singular", "the folded configuration"),
+                                 (smooth, "smooth", "crank at 90 degrees")])]
 
 
 def solve_family(rng, quick=False):
@@ -1291,7 +1350,8 @@ def solve_family(rng, quick=False):
         roots = [(sympy.exp(2 * sympy.pi * sympy.I * k / n),) for k in range(n)]
         out.append(Construction(
             f"x^{n}-1", "solve", single, [u ** n - 1],
-            Expected(solutions=n, real_solutions=2 if n % 2 == 0 else 1), source, task=Task.SOLVE, points=roots))
+            Expected(solutions=n, real_solutions=2 if n % 2 == 0 else 1, at_infinity=0), source, task=Task.SOLVE,
+            points=roots))
     if quick:
         return out
     cases = [("x^3-1,y^4-2", [x ** 3 - 1, y ** 4 - 2], 3, 1, 4, 2),
@@ -1302,9 +1362,9 @@ def solve_family(rng, quick=False):
         points = [(s[x], s[y]) for s in solutions]
         real = sum(1 for p in points if all(sympy.im(sympy.N(c, DIGITS)) == 0 for c in p))
         out.append(Construction(
-            label, "solve", symbols, equations, Expected(solutions=len(points), real_solutions=real),
-            "a triangular system: roots of one variable, then of the other (common practice, no source; the roots "
-            "by sympy)", task=Task.SOLVE, points=points))
+            label, "solve", symbols, equations, Expected(solutions=len(points), real_solutions=real, at_infinity=0),
+            "a triangular system: roots of one variable, then of the other, as many as the Bezout number, so none at "
+            "infinity (common practice, no source; the roots by sympy)", task=Task.SOLVE, points=points))
     # a triangular system with rational solutions: prod (x - a_i), y - q(x)
     a_values = [sympy.Integer(v) for v in (-2, 1, 3)]
     equations = [sympy.expand(sympy.Mul(*[x - a for a in a_values])), y - (x ** 2 - x + 2)]
@@ -1330,6 +1390,8 @@ FAMILIES = {
     "projective": projective,
     "smooth": smooth,
     "nonreduced_and_nonisolated": nonreduced_and_nonisolated,
+    "linkages": linkages,
+    "shared": lambda rng, quick=False: shared_problems(quick),
     "solve": solve_family,
 }
 
@@ -1394,9 +1456,34 @@ def corpus(seed=0, quick=False, families=None, transforms=None, extra_seeds=0):
     return out
 
 
+def text_problem(name, variables, equations, expected, source, projective=False, task=Task.SINGULAR, checks=(),
+                 family="trust"):
+    """A :class:`Problem` written directly as text (the checks of tests/test_trust.py).
+
+    Examples
+    --------
+    >>> problem = text_problem("circle", ["x", "y"], ["x^2 + y^2 - 1"], Expected(variety=((1, 2),)), "common practice")
+    >>> problem.name, problem.transform.value
+    ('trust/circle', 'base')
+    """
+    return Problem(f"{family}/{name}", family, f"{family}/{name}", Transform.BASE, "as written", tuple(variables),
+                   tuple(equations), projective, task, expected, tuple(checks), source)
+
+
 # ---------------------------------------------------------------------------------------------
 # The shared problems (tests/data/problems.json) as constructions
 # ---------------------------------------------------------------------------------------------
+
+SHARED_PROBLEMS = __import__("pathlib").Path(__file__).resolve().parent / "data" / "problems.json"
+
+
+def shared_problems(quick=False):
+    """The shared problems (tests/data/problems.json) as constructions, each with its verified answer."""
+    import json
+    with open(SHARED_PROBLEMS) as handle:
+        entries = json.load(handle)
+    return [shared_construction(entry) for entry in (entries[:1] if quick else entries)]
+
 
 def shared_construction(entry):
     """A shared problem with its verified answer, read by numag's parser and rebuilt in sympy term by term."""
@@ -1481,6 +1568,7 @@ def answer_from_solve(result):
     """An :class:`Answer` from a :class:`numag.solve.SolveResult` (finite isolated solutions)."""
     finite = [s for s in result.solutions if not s.at_infinity]
     return Answer(solutions=len(finite), real_solutions=sum(bool(s.real) for s in finite),
+                  at_infinity=len(result.at_infinity),
                   points=tuple(tuple(complex(v) for v in s.point) for s in finite),
                   solution_multiplicities=tuple(sorted(int(s.multiplicity) for s in finite)),
                   failed_paths=_failed(result.path_counts()),
@@ -1529,6 +1617,62 @@ def run(problem, task=None, seed=0):
     return answer
 
 
+#: Address-space limit of a child of :func:`run_limited` (bytes): a runaway problem fails alone.
+MEMORY_LIMIT = 6 * 2**30
+
+
+def _child(problem, task, seed, connection):
+    import pathlib
+    import resource
+    import traceback
+    resource.setrlimit(resource.RLIMIT_AS, (MEMORY_LIMIT, MEMORY_LIMIT))
+    try:
+        connection.send(("ok", run(problem, task, seed)))
+    except BaseException as err:  # noqa: BLE001 -- every failure is reported to the parent
+        where = traceback.extract_tb(err.__traceback__)[-1]
+        connection.send(("error", f"{type(err).__name__}: {err} ({pathlib.Path(where.filename).name}:{where.lineno})"))
+    finally:
+        connection.close()
+
+
+def run_limited(problem, task=None, seed=0, limit=120.0):
+    """:func:`run` in a child process under a time limit, compared with the expected answer.
+
+    Returns
+    -------
+    (Outcome, list of str, Answer or None, float)
+        The outcome (TIMEOUT and ERROR included), the differences or the error, numag's answer, and
+        the wall time. The child is killed by its own handle when the limit passes.
+    """
+    import multiprocessing
+    import time
+    task = task or problem.task
+    context = multiprocessing.get_context("fork")
+    receiver, sender = context.Pipe(duplex=False)
+    process = context.Process(target=_child, args=(problem, task, seed, sender), daemon=True)
+    started = time.perf_counter()
+    process.start()
+    sender.close()
+    message = None
+    try:
+        if receiver.poll(limit):
+            message = receiver.recv()
+    except EOFError:  # the child died without a word (a signal, the memory limit)
+        process.join(5)
+        message = ("error", f"child exited with code {process.exitcode}")
+    seconds = time.perf_counter() - started
+    if process.is_alive():
+        process.kill()
+    process.join(5)
+    receiver.close()
+    if message is None:
+        return Outcome.TIMEOUT, [f"no answer within {limit:.0f} s"], None, seconds
+    if message[0] == "error":
+        return Outcome.ERROR, [message[1]], None, seconds
+    outcome, differences = compare(problem, message[1], task)
+    return outcome, differences, message[1], seconds
+
+
 def _close(a, b, projective):
     a, b = np.asarray(a, dtype=complex), np.asarray(b, dtype=complex)
     if projective:  # as lines: |<a, b>| against |a| |b|
@@ -1573,6 +1717,7 @@ def compare(problem, answer, task=None):
     elif task is Task.SOLVE:
         differ("solutions", expected.solutions, answer.solutions)
         differ("real solutions", expected.real_solutions, answer.real_solutions)
+        differ("solutions at infinity", expected.at_infinity, answer.at_infinity)
         if expected.solutions is not None:
             differ("multiplicities", (1,) * expected.solutions, answer.solution_multiplicities)
         if expected.points is not None and answer.solutions == expected.solutions and \
