@@ -843,7 +843,10 @@ def _projective_closure_is_smooth(f, symbols):
     w = sympy.Symbol("w_closure")
     homogeneous = _homogenize(f, symbols, w)
     variables = tuple(symbols) + (w,)
-    return _nilpotent_point_length([sympy.diff(homogeneous, v) for v in variables], variables) is not None
+    partials = [sympy.diff(homogeneous, v) for v in variables]
+    if list(sympy.groebner(partials, *variables, order="grevlex").exprs) == [1]:  # a plane: no common zero at all
+        return True
+    return _nilpotent_point_length(partials, variables) is not None
 
 
 def _is_smooth_complete_intersection(polynomials, symbols):
