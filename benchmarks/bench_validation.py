@@ -29,7 +29,7 @@ import checkout  # noqa: F401  (this checkout's numag, not an installed one)
 
 sys.path.insert(0, str(checkout.ROOT / "tests"))
 import corpus  # noqa: E402
-from corpus import Outcome, Task, Transform  # noqa: E402
+from corpus import Outcome, Task  # noqa: E402
 
 RESULTS = checkout.ROOT / "benchmarks" / "results"
 def _plain(value):
