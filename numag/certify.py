@@ -1215,7 +1215,8 @@ def _exact_at_point(required, point, claim, digits, threshold):
     certificate = Certificate(Status.CERTIFIED, Kind.EXACT, claim, np.asarray(point, dtype=complex), texts,
                               max(radii, default=0.0), digits, method="exact substitution", threshold=threshold,
                               radii=radii, backward_error=0.0, residual_bound=0.0, distance=0.0,
-                              exact_method="exact substitution", exact_coordinates=[q.to_text() for q in exact])
+                              exact_method="exact substitution", exact_coordinates=[q.to_text() for q in exact],
+                              real=bool(np.all(np.asarray(point, dtype=complex).imag == 0)))
     certificate.notes.append("the given point is an exact zero of every equation of the claim (its coordinates "
                              "are the exact binary values given)")
     return certificate

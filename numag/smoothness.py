@@ -292,7 +292,10 @@ class _Checker:
         drop = RankDropSystem(self.system, rank, [complex(v) for v in point], ctx)
         z, converged, _, _ = mp_gauss_newton(drop, drop.initial(point), ctx,
                                              tolerance=zero_tolerance(digits, (self.m, self.n)), anchored=True)
-        return drop.point_of(z) if converged else None
+        if not converged:
+            return None
+        self.last_drop_precise = [z[j] for j in range(self.n)]  # the rank is judged here, not at its rounding
+        return drop.point_of(z)
 
     # -- one point ---------------------------------------------------------------------------------
     def escalate(self, given, exact_given, refined, codim):
@@ -313,9 +316,20 @@ class _Checker:
                 values, scales = self.scaled_values_mp(on_x, ctx)
                 history.append(values[codim - 1] if codim - 1 < len(values) else 0.0)
                 found = self.find_rank_drop(on_x, codim - 1, ctx, digits)
+                if found is None or self.distance(given, found) > tolerance:
+                    # Where the rank drops further (a cone's vertex, J = 0), "rank <= codim - 1" has a
+                    # family of kernels at the point and Newton stalls; "rank <= r" for the lower r the
+                    # point has is regular there. Such a point has rank <= codim - 1 as well.
+                    for lower in range(codim - 2, -1, -1):
+                        deeper = self.find_rank_drop(on_x, lower, ctx, digits)
+                        if deeper is not None and self.distance(given, deeper) <= tolerance:
+                            found = deeper
+                            break
+                    else:  # none: judge the first one found (if any) at its own precise point
+                        found = self.find_rank_drop(on_x, codim - 1, ctx, digits) if found is not None else None
                 if found is not None:
                     distance = self.distance(given, found)
-                    at_found, scales_found = self.scaled_values_mp([ctx.mpc(v) for v in found], ctx)
+                    at_found, scales_found = self.scaled_values_mp(self.last_drop_precise, ctx)
                     if distance <= tolerance:
                         return dict(outcome="singular", point=found, values=at_found, scales=scales_found,
                                     digits=digits, drop=found, drop_distance=distance)

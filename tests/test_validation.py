@@ -3,8 +3,7 @@ properties over the shared problems (hypothesis draws units, equation scalings, 
 coordinates, translations and seeds).
 
 The full corpus runs in ``benchmarks/bench_validation.py``. Every numag call here runs in a child process
-under a time limit (``corpus.run_limited``). A check that fails today because of a pipeline bug is kept and
-marked ``xfail(strict=True)`` naming the bug, so that the fix is noticed.
+under a time limit (``corpus.run_limited``).
 """
 
 import json
@@ -23,10 +22,6 @@ from numag.parse import parse_system
 from numag.reference import _expressions, system_to_plain
 
 TIME_LIMIT = 60.0
-
-
-def bug(reason):
-    return pytest.mark.xfail(strict=True, reason=reason)
 
 
 def assert_match(problem, task=None, seed=0):
@@ -121,42 +116,38 @@ def test_transformed_answers_agree_with_sympy(name, kind, constructions):
 SAMPLE_FAMILIES = ["line_unions", "plane_unions", "conic_unions", "chebyshev_curves", "chebyshev_surfaces",
                    "curve_products", "determinantal", "moved_singularities", "projective", "smooth",
                    "nonreduced_and_nonisolated", "solve"]
-UNITS_BUG = "decisions against unscaled coefficient norms"
-# "problem name:task" -> None (matches today) or the bug that makes it fail
-SAMPLE = {
-    "line_unions/3-lines/base:singular": None,
-    "line_unions/3-lines/base:check": None,
-    "line_unions/3-lines/units:singular": f"{UNITS_BUG}: 1 of 3 nodes found, and a singular point at infinity that "
-                                          "is not there",
-    "line_unions/3-lines/units:check": f"{UNITS_BUG}: a smooth point of one line judged singular",
-    "line_unions/3-lines/linear:singular": None,
-    "plane_unions/2-planes/units:singular": None,
-    "plane_unions/2-planes/translate:check": None,
-    "conic_unions/conic-pair-4-real/base:singular": None,
-    "conic_unions/conic-pair-4-real/units:singular": f"{UNITS_BUG}: one of the four nodes left undecided",
-    "conic_unions/conic-pair-4-real/translate:check": None,
-    "chebyshev_curves/T2(x)=T3(y)/units:singular": None,
-    "chebyshev_curves/T2(x)=T3(y)/linear:check": None,
-    "chebyshev_surfaces/T3-sum=-1/base:singular": None,
-    "chebyshev_surfaces/T3-sum=-1/units:singular": f"{UNITS_BUG}: the three nodes left undecided",
-    "curve_products/node-x-conic/base:singular": None,
-    "curve_products/node-x-conic/linear:check": None,
-    "determinantal/2x2-rank-1/linear:singular": None,
-    "determinantal/2x3-rank-1/base:singular": None,
-    "moved_singularities/curve-A1/units:singular": None,
-    "moved_singularities/curve-A2/base:check": None,
-    "moved_singularities/curve-A2/units:singular": f"{UNITS_BUG}: X reported as a line, the cusp lost",
-    "projective/4-lines-P2/base:singular": None,
-    "projective/4-lines-P2/units:singular": f"{UNITS_BUG}: the gradient system refuses ('positive-dimensional "
-                                            "singular locus') on four lines of P^2",
-    "smooth/graph-curve-degree-3/base:singular": "a Jacobian minor that is a nonzero constant: IndexError in "
-                                                 "witness.py",
-    "smooth/graph-curve-degree-3/base:check": None,
-    "nonreduced_and_nonisolated/double-line/linear:singular": None,
-    "nonreduced_and_nonisolated/double-line/units:check": None,
-    "solve/x^7-1/units:solve": None,
-    "solve/x^7-1/translate:solve": None,
-}
+#: "problem name:task" pairs of the sample (each must match)
+SAMPLE = [
+    "line_unions/3-lines/base:singular",
+    "line_unions/3-lines/base:check",
+    "line_unions/3-lines/units:singular",
+    "line_unions/3-lines/units:check",
+    "line_unions/3-lines/linear:singular",
+    "plane_unions/2-planes/units:singular",
+    "plane_unions/2-planes/translate:check",
+    "conic_unions/conic-pair-4-real/base:singular",
+    "conic_unions/conic-pair-4-real/units:singular",
+    "conic_unions/conic-pair-4-real/translate:check",
+    "chebyshev_curves/T2(x)=T3(y)/units:singular",
+    "chebyshev_curves/T2(x)=T3(y)/linear:check",
+    "chebyshev_surfaces/T3-sum=-1/base:singular",
+    "chebyshev_surfaces/T3-sum=-1/units:singular",
+    "curve_products/node-x-conic/base:singular",
+    "curve_products/node-x-conic/linear:check",
+    "determinantal/2x2-rank-1/linear:singular",
+    "determinantal/2x3-rank-1/base:singular",
+    "moved_singularities/curve-A1/units:singular",
+    "moved_singularities/curve-A2/base:check",
+    "moved_singularities/curve-A2/units:singular",
+    "projective/4-lines-P2/base:singular",
+    "projective/4-lines-P2/units:singular",
+    "smooth/graph-curve-degree-3/base:singular",
+    "smooth/graph-curve-degree-3/base:check",
+    "nonreduced_and_nonisolated/double-line/linear:singular",
+    "nonreduced_and_nonisolated/double-line/units:check",
+    "solve/x^7-1/units:solve",
+    "solve/x^7-1/translate:solve",
+]
 
 
 @pytest.fixture(scope="module")
@@ -168,9 +159,9 @@ def sample_problems():
 
 
 def _sample_cases():
-    for key, reason in SAMPLE.items():
+    for key in SAMPLE:
         name, task = key.rsplit(":", 1)
-        yield pytest.param(name, Task(task), id=key, marks=[bug(reason)] if reason else [])
+        yield pytest.param(name, Task(task), id=key)
 
 
 @pytest.mark.parametrize("name, task", list(_sample_cases()))
@@ -232,7 +223,6 @@ def _invariance(data, kind, names):
     assert_match(corpus.materialise(construction, change), seed=1)
 
 
-@bug("units: decisions against unscaled coefficient norms (nodes lost, X split; see benchmarks/bench_validation.py)")
 @PROPERTY
 @given(st.data())
 def test_invariance_under_units(data):
