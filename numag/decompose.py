@@ -177,11 +177,13 @@ def random_minor(polynomials, size, rng, n):
     return combined_minor(gradients, a, b)
 
 
-def holding_equations(system, codimension, points, rng, threshold=1e-6, max_rounds=4):
+def holding_equations(system, codimension, points, rng, threshold=1e-6, max_rounds=4, simple=False):
     """Affine equations with X's components through ``points`` among their solutions, of full rank there.
 
-    The system itself when rank J = codimension at every point; otherwise random
-    minors of J (size rank + 1) are added until it is (isosingular deflation).
+    The system itself when rank J = codimension at every point (or the points are ``simple``: each
+    the end of one path, a simple root of a square subsystem, so the rank is full whatever the size of
+    its singular values); otherwise random minors of J (size rank + 1) are added until it is
+    (isosingular deflation).
 
     Returns
     -------
@@ -194,7 +196,7 @@ def holding_equations(system, codimension, points, rng, threshold=1e-6, max_roun
     equations = [p.numeric() for p in system.polynomials]
     deflated = False
     points = np.atleast_2d(points)
-    for _ in range(max_rounds):
+    for _ in range(0 if simple else max_rounds):
         evaluator = BatchEvaluator(equations)
         ranks = jacobian_rank(evaluator, TermSizes(equations), points, threshold) if len(points) \
             else np.array([codimension])
@@ -217,14 +219,14 @@ def holding_equations(system, codimension, points, rng, threshold=1e-6, max_roun
 class _Mover:
     """Moves the witness points of one dimension between slices, on the held equations."""
 
-    def __init__(self, system, codimension, points, slice_rows, rng, options, counts):
+    def __init__(self, system, codimension, points, slice_rows, rng, options, counts, simple=False):
         self.n = system.n_variables
         self.codimension = codimension
         self.rng = rng
         self.options = options
         self.counts = counts
         equations, self.deflated = holding_equations(system, codimension, points, rng,
-                                                     options.witness.rank_threshold)
+                                                     options.witness.rank_threshold, simple=simple)
         self.held = combine_equations([p.homogenize(0) for p in equations], codimension, rng)
         self.slice_rows = slice_rows
 
@@ -316,7 +318,51 @@ def _split(mover, points, rng, options, loops_run):
             quiet = 0
             _join_by_trace(graph, status(), defects, scale, options.trace_tolerance)
     loops_run.append(loops)
-    return status()
+    if defects is None:
+        return status()
+    result = []
+    for group, done, defect in status():
+        if done and len(group) > 1:
+            result.extend(_complete_parts(group, defects, scale, options.trace_tolerance))
+        else:
+            result.append((group, done, defect))
+    return result
+
+
+#: Largest confirmed group whose parts are all tried by the trace test (2^(k-1) sums).
+_PARTS_LIMIT = 16
+
+
+def _complete_parts(group, defects, scale, tolerance):
+    """A confirmed group split where a proper part of it also passes the trace test.
+
+    The traces of an irreducible component's points sum to a linear function only over the whole
+    component (for a generic projection and translation): a proper part that passes means the
+    monodromy joined two components (a path jumped where they meet), and the union of complete
+    components passes the test as well. Parts are tried smallest first; both sides are split again.
+    Groups larger than ``_PARTS_LIMIT`` are kept as they are.
+
+    Examples
+    --------
+    >>> _complete_parts([0, 1, 2], np.array([1.0, -1.0, 0.0]), 1.0, 1e-10)
+    [([0, 1], True, 0.0), ([2], True, 0.0)]
+    """
+    group = list(group)
+    k = len(group)
+    values = defects[group]
+    if 1 < k <= _PARTS_LIMIT:
+        masks = np.arange(1, 2 ** (k - 1), dtype=np.int64)  # each part or its complement, once
+        members = (masks[:, None] >> np.arange(k)) & 1
+        sums = np.abs(members @ values) / scale
+        sizes = members.sum(axis=1)
+        passing = np.nonzero(sums <= tolerance)[0]
+        if len(passing):
+            best = passing[np.argmin(sizes[passing])]
+            part = [g for g, inside in zip(group, members[best]) if inside]
+            rest = [g for g, inside in zip(group, members[best]) if not inside]
+            return (_complete_parts(part, defects, scale, tolerance)
+                    + _complete_parts(rest, defects, scale, tolerance))
+    return [(group, True, float(abs(np.sum(values)) / scale))]
 
 
 def _join_by_trace(graph, groups, defects, scale, tolerance):
@@ -397,6 +443,11 @@ def _decompose(system, options, seed, progress):
         evaluator = BatchEvaluator([p.numeric() for p in system.polynomials])
         ranks = jacobian_rank(evaluator, TermSizes(system.polynomials), witness.points,
                               options.witness.rank_threshold)
+        # A witness point at the end of exactly one path is a simple root of a square subsystem and
+        # the slice, so J has full rank there however small its scaled singular values (a reduced
+        # quintic whose far branches nearly cancel: 1e-7). Only multiple ends can be rank-deficient.
+        simple = witness.multiplicity == 1
+        ranks = np.where(simple, np.maximum(ranks, codimension), ranks)
         groups, movers = [], []
         if witness.dimension == 0:
             groups = [([k], True, 0.0) for k in range(len(witness.points))]
@@ -411,7 +462,7 @@ def _decompose(system, options, seed, progress):
             for value in np.unique(signature):
                 members = np.nonzero(signature == value)[0]
                 mover = _Mover(system, codimension, witness.points[members], witness.slice_rows, rng, options,
-                               move_counts)
+                               move_counts, simple=bool(np.all(simple[members])))
                 counted = []
                 for group, confirmed, defect in _split(mover, witness.points[members], rng, options, counted):
                     groups.append((members[group].tolist(), confirmed, defect))
@@ -518,13 +569,20 @@ def components_through(decomposition, point, seed=0, options=None):
         hits = components_through(computed, scaling.to_computed(point), seed, options)
         return [decomposition.components[found[id(c)]] for c in hits]
     system = decomposition.system
+    components = decomposition.components
+    if system.n_equations == 1 and len(components) == 1 and components[0].confirmed \
+            and components[0].dimension == system.n_variables - 1:
+        # V(f) is the union of its components, all of dimension n - 1: when there is one, every point
+        # of X lies on it (the homotopy test can lose its paths at a singular point of high multiplicity).
+        return list(components)
     rng = np.random.default_rng(seed)
     n = system.n_variables
     found = []
     counts = {}
     for component in decomposition.components:  # highest dimension first
         codimension = n - component.dimension
-        equations, _ = holding_equations(system, codimension, component.points, rng, options.witness.rank_threshold)
+        equations, _ = holding_equations(system, codimension, component.points, rng, options.witness.rank_threshold,
+                                         simple=component.reduced and component.multiplicity == 1)
         held = combine_equations([p.homogenize(0) for p in equations], codimension, rng)
         hits = membership(held, component.slice_rows, component.points, point, rng, options.witness, counts)
         if np.any(hits):

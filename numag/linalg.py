@@ -23,6 +23,8 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
+from .errors import LimitError
+
 __all__ = [
     "DOUBLE_DIGITS",
     "RankEvidence",
@@ -146,11 +148,30 @@ class RankEvidence:
 
 # --- arbitrary precision ------------------------------------------------------------------------
 
+def _svd(ctx, matrix, **options):
+    """``ctx.svd_c`` that retries at higher working precision when its QR iteration does not converge.
+
+    mpmath's iteration has a fixed count; on matrices with entries of very different sizes (a
+    rank-drop system near a point where the rank drops further) it can run out. More digits
+    separate the values; the results are returned at the caller's precision.
+    """
+    for extra in (0, 1, 2):
+        try:
+            if extra == 0:
+                return ctx.svd_c(matrix, **options)
+            with ctx.extradps(ctx.dps * extra):
+                result = ctx.svd_c(matrix, **options)
+            return tuple(+part for part in result) if isinstance(result, tuple) else +result
+        except RuntimeError as error:
+            last = error
+    raise LimitError(f"the singular value decomposition did not converge at {3 * ctx.dps} digits ({last})")
+
+
 def mp_singular_values(matrix, ctx):
     """Singular values (descending, as mpf) of an mpmath matrix."""
     if matrix.rows == 0 or matrix.cols == 0:
         return []
-    values = ctx.svd_c(matrix, compute_uv=False)
+    values = _svd(ctx, matrix, compute_uv=False)
     return sorted((values[k] for k in range(values.rows)), reverse=True)
 
 
@@ -167,7 +188,7 @@ def mp_right_singular_vectors(matrix, ctx):
             for j in range(cols):
                 padded[i, j] = matrix[i, j]
         matrix = padded
-    _, values, vh = ctx.svd_c(matrix, full_matrices=True)
+    _, values, vh = _svd(ctx, matrix, full_matrices=True)
     order = sorted(range(values.rows), key=lambda k: -values[k])
     basis = ctx.matrix(cols, cols)
     for new, old in enumerate(order):
@@ -184,7 +205,7 @@ def mp_least_squares(matrix, rhs, ctx, rcond):
     points happens).
     """
     rows, cols = matrix.rows, matrix.cols
-    u, values, vh = ctx.svd_c(matrix, full_matrices=False)
+    u, values, vh = _svd(ctx, matrix, full_matrices=False)
     top = max((values[k] for k in range(values.rows)), default=ctx.mpf(0))
     solution = ctx.matrix(cols, 1)
     if top == 0:

@@ -66,6 +66,10 @@ _AS_GIVEN = ("The verdict is about the equations as given: it describes the vari
              "generate its ideal near the point.")
 
 
+#: How far (relative) an unanchored polish may move a rank-drop point that the anchored solve approached.
+_POLISH_DRIFT = 1e-6
+
+
 @dataclass(frozen=True)
 class CheckOptions:
     """Options of :func:`check_points` (defaults declared once, here).
@@ -290,10 +294,17 @@ class _Checker:
     def find_rank_drop(self, point, rank, ctx, digits):
         """Solve F = 0 and rank J <= rank from ``point``; return the point (complex) or None."""
         drop = RankDropSystem(self.system, rank, [complex(v) for v in point], ctx)
-        z, converged, _, _ = mp_gauss_newton(drop, drop.initial(point), ctx,
-                                             tolerance=zero_tolerance(digits, (self.m, self.n)), anchored=True)
+        tolerance = zero_tolerance(digits, (self.m, self.n))
+        z, converged, _, _ = mp_gauss_newton(drop, drop.initial(point), ctx, tolerance=tolerance, anchored=True)
         if not converged:
-            return None
+            # The anchor keeps Newton from sliding along a set, but at a multiple zero (a tacnode: the
+            # Jacobian's weak direction shrinks with the residual) it also holds the iterate above the
+            # tolerance. Polished without it, the point may move only a little further.
+            polished, converged, _, _ = mp_gauss_newton(drop, z, ctx, tolerance=tolerance)
+            moved = float(ctx.norm(polished[:self.n, 0] - z[:self.n, 0])) if converged else float("inf")
+            if not converged or moved > _POLISH_DRIFT * (1.0 + float(ctx.norm(z[:self.n, 0]))):
+                return None
+            z = polished
         self.last_drop_precise = [z[j] for j in range(self.n)]  # the rank is judged here, not at its rounding
         return drop.point_of(z)
 

@@ -1529,6 +1529,9 @@ class Answer:
     solution_multiplicities: tuple = ()
     verdicts: tuple = ()
     flags: list = field(default_factory=list)
+    #: numag's completeness warnings (failed paths, unsettled candidates, ...): they flag a wrong answer,
+    #: and leave a right one right.
+    warnings: list = field(default_factory=list)
     failed_paths: int = 0
     notes: list = field(default_factory=list)
     seconds: float = 0.0
@@ -1545,8 +1548,16 @@ def _failed(paths):
     return int(sum(paths.get(label, 0) for label in FAILURE_LABELS))
 
 
+def _warnings_of(report):
+    """numag's own completeness warnings of a report (each makes the command line's exit code 3)."""
+    from numag.report import completeness_warnings
+    return [f"warning: {w}" for w in completeness_warnings(report)]
+
+
 def answer_from_locus(locus):
     """An :class:`Answer` from a :class:`numag.singular.SingularLocus`."""
+    from numag.report import singular_to_dict
+    from numag.singular import SingularOptions
     affine = [c for c in locus.components if not c.at_infinity]
     isolated = [c for c in affine if c.dimension == 0 and c.kind == "singular"]
     flags = [f"undecided piece of dimension {c.dimension}, degree {c.degree}"
@@ -1564,17 +1575,22 @@ def answer_from_locus(locus):
                                       if c.dimension > 0 and c.kind == "singular"]),
         non_reduced=_pieces(*[(c.dimension, c.degree) for c in affine if c.kind == "non-reduced"]),
         at_infinity=sum(1 for c in locus.components if c.at_infinity and c.dimension == 0 and c.kind == "singular"),
-        flags=flags, failed_paths=_failed(locus.paths), notes=list(locus.notes))
+        flags=flags, warnings=_warnings_of(singular_to_dict(locus, SingularOptions())),
+        failed_paths=_failed(locus.paths),
+        notes=list(locus.notes))
 
 
 def answer_from_solve(result):
     """An :class:`Answer` from a :class:`numag.solve.SolveResult` (finite isolated solutions)."""
+    from numag.report import solve_report_to_dict
+    from numag.solve import SolveOptions
     finite = [s for s in result.solutions if not s.at_infinity]
     return Answer(solutions=len(finite), real_solutions=sum(bool(s.real) for s in finite),
                   at_infinity=len(result.at_infinity),
                   points=tuple(tuple(complex(v) for v in s.point) for s in finite),
                   solution_multiplicities=tuple(sorted(int(s.multiplicity) for s in finite)),
                   failed_paths=_failed(result.path_counts()),
+                  warnings=_warnings_of(solve_report_to_dict(result, SolveOptions())),
                   notes=[f"{len(result.at_infinity)} at infinity, {len(result.not_isolated)} not isolated"])
 
 
@@ -1703,8 +1719,9 @@ def compare(problem, answer, task=None):
     Returns
     -------
     (Outcome, list of str)
-        MATCH when every stated quantity agrees exactly; UNDECIDED when numag flagged part of its
-        answer as undecided (the differences are still listed); WRONG otherwise.
+        MATCH when every stated quantity agrees exactly (and no piece is undecided); UNDECIDED when
+        numag flagged part of its answer as undecided, or the answer differs and numag warned that the
+        run may have missed something (the differences are still listed); WRONG otherwise (silent).
     """
     task = task or problem.task
     expected = problem.expected
@@ -1741,8 +1758,8 @@ def compare(problem, answer, task=None):
         if expected.points is not None and answer.singular_points == expected.singular_points and \
                 not _points_match(answer.points, expected.points, problem.projective):
             differences.append("singular points are not where they should be")
-    if answer.flags:
-        return Outcome.UNDECIDED, differences + [f"flagged: {flag}" for flag in answer.flags]
+    if answer.flags or (differences and answer.warnings):
+        return Outcome.UNDECIDED, differences + [f"flagged: {flag}" for flag in answer.flags + answer.warnings]
     return (Outcome.MATCH if not differences else Outcome.WRONG), differences
 
 

@@ -178,3 +178,23 @@ def test_same_answer_with_worker_processes():
         pooled = decompose(system, options, seed=4)
     assert [(c.dimension, c.degree) for c in alone.components] == [(c.dimension, c.degree) for c in pooled.components]
     assert np.allclose(alone.components[0].points, pooled.components[0].points)
+
+
+def test_a_jump_that_joins_two_components_is_undone_by_the_trace_test_of_the_parts(monkeypatch):
+    # A conic and a cubic (x^2 + y^2 - 1)(y - x^3) = 0: two components of degrees 2 and 3 (common practice,
+    # no source). A monodromy path that jumps where they meet joins all five witness points in one
+    # group, and the union of two components passes the trace test too; the parts of the group are
+    # then tried by the trace test and the group is split again. The jump is forced here: every loop
+    # links all the points.
+    import importlib
+    module = importlib.import_module("numag.decompose")  # the package's name is also a function
+
+    def joined_match(points, reference, tolerance):
+        return np.roll(np.arange(len(reference)), 1)[:len(points)]
+
+    monkeypatch.setattr(module, "_match", joined_match)
+    system = parse_system(["(x^2 + y^2 - 1)*(y - x^3)"], ["x", "y"])
+    for seed in (1, 2, 3):
+        result = decompose(system, seed=seed)
+        assert sorted(summary(result)) == [(1, 2), (1, 3)]
+        assert all(c.confirmed for c in result.components)
