@@ -100,7 +100,8 @@ from .records import (Certificate, CertifyOptions, Claim, ClaimCheck, ClaimStatu
 from .square import _gauss_newton_double
 from .zeros import _certify_zero
 
-__all__ = ["certify_regular_zero", "certify_singular_point", "certify_smooth_point", "certify_rank", "overlapping_pairs"]
+__all__ = ["certify_regular_zero", "certify_singular_point", "certify_smooth_point", "certify_rank",
+           "overlapping_pairs"]
 
 
 def _regular(certificate):

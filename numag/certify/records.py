@@ -19,7 +19,8 @@ import numpy as np
 
 from ..errors import InputError
 
-__all__ = ["CertifyOptions", "Certificate", "ClaimCheck", "Status", "Kind", "Claim", "ClaimStatus", "ALPHA_ZERO_TEXT", "alpha_zero", "working_digits", "STATUSES"]
+__all__ = ["CertifyOptions", "Certificate", "ClaimCheck", "Status", "Kind", "Claim", "ClaimStatus",
+           "ALPHA_ZERO_TEXT", "alpha_zero", "working_digits", "STATUSES"]
 
 
 class _TextEnum(str, Enum):
