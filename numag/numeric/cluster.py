@@ -27,7 +27,7 @@ from scipy.sparse import coo_matrix
 from scipy.sparse.csgraph import connected_components
 from scipy.spatial import cKDTree
 
-__all__ = ["cluster_labels", "groups", "normalize_projective", "line_distance"]
+__all__ = ["cluster_labels", "groups", "normalize_projective", "projective_pivot", "line_distance"]
 
 #: A fixed chart for the neighbour search of projective points (any generic vector will do; the
 #: decision itself compares lines, so the answer does not depend on it).
@@ -144,6 +144,29 @@ def line_distance(a, b):
     return np.linalg.norm(a - phase[:, None] * b, axis=1)
 
 
+def projective_pivot(points):
+    """The coordinate of largest modulus of each homogeneous point, the lowest index on near-ties (within
+    1e-12 relative): the chart a projective point is written in.
+
+    Parameters
+    ----------
+    points : array_like, shape (n,) or (P, n)
+
+    Returns
+    -------
+    int or ndarray of int, shape (P,)
+
+    Examples
+    --------
+    >>> projective_pivot([1.0, -2.0, 2.0]), projective_pivot([[3.0, 1.0], [0.0, 1j]]).tolist()
+    (1, [0, 1])
+    """
+    moduli = np.abs(np.asarray(points, dtype=complex))
+    if moduli.ndim == 1:
+        return int(np.argmax(moduli >= moduli.max() * (1 - 1e-12)))
+    return np.argmax(moduli >= moduli.max(axis=1, keepdims=True) * (1 - 1e-12), axis=1)
+
+
 def normalize_projective(points):
     """Divide homogeneous points by their coordinate of largest modulus (lowest index on near-ties).
 
@@ -162,8 +185,7 @@ def normalize_projective(points):
     points = np.asarray(points, dtype=complex)
     single = points.ndim == 1
     points = np.atleast_2d(points)
-    moduli = np.abs(points)
-    pivot = np.argmax(moduli >= moduli.max(axis=1, keepdims=True) * (1 - 1e-12), axis=1)
+    pivot = projective_pivot(points)
     result = points / points[np.arange(len(points)), pivot][:, None]
     return result[0] if single else result
 

@@ -29,7 +29,8 @@ from ..system.polynomial import Polynomial, PolynomialSystem
 from .evaluate import BatchEvaluator, PrecisionEvaluator, TermSizes
 from .linalg import batched_least_squares, mp_least_squares, mp_right_singular_vectors, scaled_singular_values
 
-__all__ = ["ProjectionResult", "project_to_variety", "mp_gauss_newton", "RankDropSystem", "IsolationTest"]
+__all__ = ["ProjectionResult", "project_to_variety", "mp_gauss_newton", "RankDropSystem", "IsolationTest",
+           "scaled_residual_norm", "largest_scaled_residual"]
 
 #: Step fractions a precision Gauss-Newton step tries before it stops for lack of progress.
 _DAMPING = (1.0, 0.5, 0.25, 0.125, 1 / 16, 1 / 32)
@@ -61,7 +62,7 @@ class ProjectionResult:
     iterations: int
 
 
-def scaled_residuals(sizes, evaluator, points):
+def scaled_residual_norm(sizes, evaluator, points):
     """Euclidean norm of the scaled residuals of F at each point, and the values and Jacobians.
 
     The Euclidean norm (not the largest entry) is what a Gauss-Newton step decreases,
@@ -77,6 +78,37 @@ def scaled_residuals(sizes, evaluator, points):
     """
     values, jacobians = evaluator.evaluate(points)
     return np.linalg.norm(values / sizes.values(points), axis=1), values, jacobians
+
+
+def largest_scaled_residual(sizes, evaluator, points):
+    """Largest scaled residual (max norm) of the equations at each affine point (inf for NaN points).
+
+    Beside :func:`scaled_residual_norm` (the Euclidean norm, which Gauss-Newton decreases): the max norm
+    says whether every equation holds to a tolerance.
+
+    Parameters
+    ----------
+    sizes : TermSizes
+        Of the polynomials: each value is divided by the size of its terms.
+    evaluator : BatchEvaluator
+        Of the same polynomials.
+    points : ndarray, shape (P, n)
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> system = parse_system(["x - 1", "y - 3"], ["x", "y"])
+    >>> sizes, evaluator = TermSizes(system.polynomials), BatchEvaluator(system.polynomials)
+    >>> largest_scaled_residual(sizes, evaluator, [[1.0, 3.0], [np.nan, 0]])
+    array([ 0., inf])
+    """
+    points = np.atleast_2d(points)
+    result = np.full(len(points), np.inf)
+    good = np.all(np.isfinite(points), axis=1)
+    if np.any(good):
+        values = evaluator.evaluate(points[good], jacobian=False)
+        result[good] = np.max(np.abs(values) / sizes.values(points[good]), axis=1)
+    return result
 
 
 def project_to_variety(system, evaluator, points, tolerance=1e-13, max_iterations=30):
@@ -99,7 +131,7 @@ def project_to_variety(system, evaluator, points, tolerance=1e-13, max_iteration
     start = np.array(points, dtype=complex, copy=True)
     current = start.copy()
     sizes = TermSizes(system.polynomials, system.projective)
-    residual, values, jacobians = scaled_residuals(sizes, evaluator, current)
+    residual, values, jacobians = scaled_residual_norm(sizes, evaluator, current)
     active = residual > tolerance
     iterations = 0
     while np.any(active) and iterations < max_iterations:
@@ -115,7 +147,7 @@ def project_to_variety(system, evaluator, points, tolerance=1e-13, max_iteration
                 break
             rows = index[trying]
             trial = current[rows] - damping * step[trying]
-            trial_residual, trial_values, trial_jacobians = scaled_residuals(sizes, evaluator, trial)
+            trial_residual, trial_values, trial_jacobians = scaled_residual_norm(sizes, evaluator, trial)
             improved = np.isfinite(trial_residual) & (trial_residual < residual[rows])
             accept = rows[improved]
             current[accept] = trial[improved]

@@ -48,6 +48,7 @@ from ..numeric.cluster import cluster_labels, groups, normalize_projective
 from ..numeric.evaluate import BatchEvaluator
 from ..numeric.refine import IsolationTest, project_to_variety
 from ..numeric.scaling import Scaling
+from ..numeric.seeds import resolved_seed
 from ..tracking.solve import SolveOptions, solve_system
 from ..tracking.tracker import FAILURE_LABELS
 from ..witness.cascade import combine_equations, linear_form, random_rows, track_moves
@@ -184,7 +185,7 @@ def _add_counts(total, counts):
 
 
 def _real_flags(system, points):
-    real_coefficients = all(np.all(np.abs(p.numeric_coefficients().imag) == 0) for p in system.polynomials)
+    real_coefficients = system.has_real_coefficients
     if not real_coefficients or len(points) == 0:
         return np.zeros(len(points), dtype=bool)
     return np.all(np.abs(points.imag) <= 1e-8 * (1 + np.abs(points)), axis=1)
@@ -374,8 +375,7 @@ def singular_locus(system, options=None, seed=None, progress=None):
     """
     options = (options or SingularOptions()).validated(system)
     require_numeric(system)
-    if seed is None:
-        seed = int(np.random.SeedSequence().entropy % (2**32))
+    seed = resolved_seed(seed)
     scaling = Scaling.balancing(system)
     locus = _singular_locus(scaling.scale_system(system), options, seed, progress)
     for component in locus.components:

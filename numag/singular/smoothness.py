@@ -46,12 +46,13 @@ import numpy as np
 from ..errors import InputError, PointError
 from ..system.exact import ExactCoefficient
 from ..system.polynomial import require_numeric
-from ..numeric.cluster import line_distance, normalize_projective
+from ..numeric.cluster import line_distance, normalize_projective, projective_pivot
 from ..numeric.evaluate import BatchEvaluator, PrecisionEvaluator, TermSizes
 from ..numeric.linalg import (DOUBLE_DIGITS, RankEvidence, mp_singular_values, numerical_rank,
                               scaled_singular_values, singular_value_gap, zero_tolerance)
 from ..numeric.refine import RankDropSystem, mp_gauss_newton, project_to_variety
 from ..numeric.scaling import Scaling
+from ..numeric.seeds import random_state
 from ..witness.decompose import components_through
 
 __all__ = ["CheckOptions", "PointVerdict", "CheckReport", "check_points",
@@ -478,7 +479,7 @@ def _as_points(points, system):
                 raise PointError("all homogeneous coordinates are zero: not a projective point", index)
             pivot_value = normalize_projective(values)
             if exact_coordinates is not None:
-                pivot = int(np.argmax(np.abs(values) >= np.abs(values).max() * (1 - 1e-12)))
+                pivot = projective_pivot(values)
                 if exact_coordinates[pivot].is_single_term():
                     inverse = exact_coordinates[pivot].reciprocal()
                     exact_coordinates = [c * inverse for c in exact_coordinates]
@@ -528,9 +529,7 @@ def check_points(system, points, options=None, seed=None, decomposition=None):
     """
     options = (options or CheckOptions()).validated(system)
     require_numeric(system)
-    if seed is None:
-        seed = int(np.random.SeedSequence().entropy % (2**32))
-    rng = np.random.default_rng(seed)
+    seed, rng = random_state(seed)
     user_given, user_exact = _as_points(points, system)
     scaling = Scaling.balancing(system)
     if len(user_given) == 0:

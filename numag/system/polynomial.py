@@ -701,6 +701,20 @@ class PolynomialSystem:
         """True when every coefficient is exact."""
         return all(p.is_exact for p in self.polynomials)
 
+    @property
+    def has_real_coefficients(self):
+        """True when every coefficient, rounded to double, has imaginary part 0 (real points may be real
+        solutions; witness slices and real flags depend on it). The exact test for proofs is
+        :func:`numag.certify.equations._is_real`.
+
+        Examples
+        --------
+        >>> from numag.system.parse import parse_system
+        >>> [parse_system([f], ["x"]).has_real_coefficients for f in ("x^2 - 2", "x - I")]
+        [True, False]
+        """
+        return all(np.all(np.abs(p.numeric_coefficients().imag) == 0) for p in self.polynomials)
+
     def jacobian_polynomials(self):
         """The Jacobian as a list of rows of partial derivatives (cached)."""
         if self._jacobian is None:

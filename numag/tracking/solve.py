@@ -32,10 +32,11 @@ from ..version import __version__
 from ..system.polynomial import PolynomialSystem, require_numeric
 from ..run.checkpoint import DamagedBatch, RunFolder, manifest_fingerprints
 from ..run.executor import InProcess, charge_paths, check_memory, make_executor
-from ..numeric.cluster import cluster_labels, groups, normalize_projective
+from ..numeric.cluster import cluster_labels, groups, normalize_projective, projective_pivot
 from ..numeric.evaluate import BatchEvaluator, PrecisionEvaluator, TermSizes
 from ..numeric.refine import IsolationTest, mp_gauss_newton
 from ..numeric.scaling import Scaling
+from ..numeric.seeds import random_state
 from .homotopy import ParameterHomotopy, StraightLineHomotopy
 from .tracker import FAILURE_LABELS, BatchTracker, PathStatus, StartArray, TrackerOptions, track_paths
 
@@ -287,9 +288,7 @@ def solve_system(system, options=None, seed=None, progress=None, execution=None)
     """
     options = (options or SolveOptions()).validated()
     require_numeric(system, allow_zero=False)
-    if seed is None:
-        seed = int(np.random.SeedSequence().entropy % (2**32))
-    rng = np.random.default_rng(seed)
+    seed, rng = random_state(seed)
     started = time.perf_counter()
     scaling = Scaling.balancing(system)
     computed = scaling.scale_system(system)
@@ -329,9 +328,7 @@ def continue_solutions(start_system, start_points, target_system, options=None, 
     [-6, 6]
     """
     options = (options or SolveOptions()).validated()
-    if seed is None:
-        seed = int(np.random.SeedSequence().entropy % (2**32))
-    rng = np.random.default_rng(seed)
+    seed, rng = random_state(seed)
     started = time.perf_counter()
     # one set of units for both ends, so that the homotopy between them stays a straight line
     scaling = Scaling.balancing(target_system)
@@ -584,7 +581,7 @@ def _crossed_paths(system, endpoints, status, options):
 
 
 def _collect(system, endpoints, status, winding, condition, options, rng):
-    real_coefficients = all(np.all(np.abs(p.numeric_coefficients().imag) == 0) for p in system.polynomials)
+    real_coefficients = system.has_real_coefficients
     finite = np.nonzero((status == PathStatus.CONVERGED) | (status == PathStatus.SINGULAR_ENDPOINT))[0]
     infinite = np.nonzero(status == PathStatus.AT_INFINITY)[0]
     finite_points = _finite_points(system, endpoints, finite)
@@ -607,7 +604,7 @@ def _collect(system, endpoints, status, winding, condition, options, rng):
         singular = len(members) > 1 or np.any(status[paths] == PathStatus.SINGULAR_ENDPOINT)
         test_system, test_point, pivot = affine_system, point, None
         if system.projective:
-            pivot = int(np.argmax(np.abs(point) >= np.abs(point).max() * (1 - 1e-12)))
+            pivot = projective_pivot(point)
             test_system = PolynomialSystem([v for j, v in enumerate(system.variables) if j != pivot],
                                            [p.dehomogenize(pivot) for p in system.polynomials])
             test_point = np.delete(point, pivot)

@@ -41,12 +41,13 @@ from ..run.executor import current_executor, charge_paths
 from ..numeric.cluster import cluster_labels, groups
 from ..numeric.evaluate import BatchEvaluator, TermSizes
 from ..numeric.linalg import scaled_singular_values
-from ..numeric.refine import IsolationTest, project_to_variety
+from ..numeric.refine import IsolationTest, largest_scaled_residual, project_to_variety
+from ..numeric.seeds import random_state
 from ..tracking.homotopy import ParameterHomotopy, random_unit_complex
 from ..tracking.tracker import BatchTracker, PathStatus, StartArray, TrackerOptions
 
 __all__ = ["WitnessOptions", "WitnessSet", "WitnessSupersets", "witness_supersets", "Slicing", "track_moves",
-           "membership", "combine_equations", "random_rows", "linear_form", "jacobian_rank", "scaled_residual"]
+           "membership", "combine_equations", "random_rows", "linear_form", "jacobian_rank"]
 
 
 @dataclass(frozen=True)
@@ -339,25 +340,6 @@ def _mark_jumped(affine, status, crossed):
         affine[extra] = np.nan
 
 
-def scaled_residual(evaluator, sizes, points):
-    """Largest scaled residual of the equations at each affine point (inf for NaN points).
-
-    Parameters
-    ----------
-    evaluator : BatchEvaluator
-    sizes : TermSizes
-        Of the same polynomials: each value is divided by the size of its terms.
-    points : ndarray, shape (P, n)
-    """
-    points = np.atleast_2d(points)
-    result = np.full(len(points), np.inf)
-    good = np.all(np.isfinite(points), axis=1)
-    if np.any(good):
-        values = evaluator.evaluate(points[good], jacobian=False)
-        result[good] = np.max(np.abs(values) / sizes.values(points[good]), axis=1)
-    return result
-
-
 def jacobian_rank(evaluator, sizes, points, threshold):
     """Numerical rank of the row-scaled Jacobian at each point (rows divided by their terms' size)."""
     points = np.atleast_2d(points)
@@ -433,7 +415,7 @@ def witness_supersets(system, options=None, seed=None, progress=None):
                          "affine chart (set one coordinate to 1)")
     n = system.n_variables
     options = (options or WitnessOptions()).validated(n)
-    rng = np.random.default_rng(seed)
+    _, rng = random_state(seed)
     slicing = Slicing(system, rng)
     lowest = 0 if options.lowest_dimension is None else options.lowest_dimension
     deepest = n - lowest  # largest codimension searched
@@ -463,7 +445,7 @@ def witness_supersets(system, options=None, seed=None, progress=None):
         following = {}
         for codim in sorted(current):
             points, multiplicity = current[codim]
-            residual = scaled_residual(single, single_sizes, points)
+            residual = largest_scaled_residual(single_sizes, single, points)
             on = residual <= options.residual_tolerance
             doubtful = np.nonzero(~on & (residual <= _DOUBTFUL_RESIDUAL))[0]
             if len(doubtful):
@@ -483,7 +465,7 @@ def witness_supersets(system, options=None, seed=None, progress=None):
                                                       regenerate, options, track_counts, counts)
             if len(candidates) == 0:
                 continue
-            residual = scaled_residual(evaluator, sizes, candidates)
+            residual = largest_scaled_residual(sizes, evaluator, candidates)
             good = residual <= options.residual_tolerance
             doubtful = np.nonzero(~good & (residual <= _DOUBTFUL_RESIDUAL))[0]
             if len(doubtful):

@@ -44,6 +44,7 @@ from ..system.polynomial import combined_minor, linear_space, require_numeric
 from ..numeric.cluster import cluster_labels
 from ..numeric.evaluate import BatchEvaluator, TermSizes
 from ..numeric.scaling import Scaling
+from ..numeric.seeds import random_state, resolved_seed
 from .cascade import (WitnessOptions, combine_equations, jacobian_rank, linear_form, membership, random_rows,
                       track_moves, witness_supersets)
 
@@ -368,8 +369,7 @@ def decompose(system, options=None, seed=None, progress=None):
     """
     options = options or DecomposeOptions()
     require_numeric(system)
-    if seed is None:
-        seed = int(np.random.SeedSequence().entropy % (2**32))
+    seed = resolved_seed(seed)
     scaling = Scaling.balancing(system)
     result = _decompose(scaling.scale_system(system), options, seed, progress)
     return result.in_units(scaling, system, to_user=True)
@@ -386,7 +386,7 @@ def _decompose(system, options, seed, progress):
     counts = dict(supersets.paths)
     move_counts = {}
     n = system.n_variables
-    real_coefficients = all(np.all(np.abs(p.numeric_coefficients().imag) == 0) for p in system.polynomials)
+    real_coefficients = system.has_real_coefficients
     components, loops = [], {}
     for witness in supersets.sets:
         if len(witness.points) == 0:
@@ -483,7 +483,7 @@ def _linear_decomposition(system, options, rng, seed, started):
         matrix[len(space.pivots):] = slice_rows[:, 1:]
         right[len(space.pivots):] = -slice_rows[:, 0]
         point = np.linalg.solve(matrix, right)
-        real = bool(all(np.all(np.abs(p.numeric_coefficients().imag) == 0) for p in system.polynomials))
+        real = system.has_real_coefficients
         components.append(Component(1, space.dimension, 1, point[None, :], np.array([real]), 1, True, slice_rows,
                                     True, 0.0))
     return Decomposition(system, components, list(range(n, lowest - 1, -1)), counts, {}, seed,
@@ -518,7 +518,7 @@ def components_through(decomposition, point, seed=0, options=None):
         hits = components_through(computed, scaling.to_computed(point), seed, options)
         return [decomposition.components[found[id(c)]] for c in hits]
     system = decomposition.system
-    rng = np.random.default_rng(seed)
+    _, rng = random_state(seed)
     n = system.n_variables
     found = []
     counts = {}

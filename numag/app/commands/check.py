@@ -1,9 +1,8 @@
 """``numag check``: smooth or singular at given points (the Jacobian criterion, with evidence)."""
 
-import numpy as np
-
 from ...errors import NumagError
 from ...system.files import load_points, parse_point_assignment
+from ...numeric.seeds import resolved_seed
 from ...witness.decompose import decompose
 from ...singular.smoothness import CheckOptions, check_points
 from ..report import CAUTION, check_report_to_dict, dumps
@@ -89,7 +88,7 @@ def run(args, out):
                            max_digits=args.digits)
     options.validated(system)
     decomposition = None
-    seed = args.seed if args.seed is not None else int(np.random.SeedSequence().entropy % (2**32))
+    seed = resolved_seed(args.seed)
     if args.local_dimension is None and not args.without_components and not system.projective:
         _guard_paths(args, system, "check")
         decomposition = decompose(system, seed=seed, progress=_Messages(args.json))

@@ -1,10 +1,9 @@
 """``numag solve``: isolated solutions of a square system, with run folders and ``--resume``."""
 
-import numpy as np
-
 from ...errors import NumagError
 from ...system.files import system_from_mapping
 from ...run.checkpoint import RunFolder
+from ...numeric.seeds import resolved_seed
 from ...tracking.solve import Execution, SolveOptions, solve_system
 from ..report import CAUTION, dumps, solve_report_to_dict
 from .certify import _certified, _doubtful, _print_certification
@@ -115,7 +114,7 @@ def run(args, out):
         options = SolveOptions(refine_digits=args.digits, square_up=args.square_up, batch_size=args.batch_size)
         seed = args.seed
         if args.run_folder and seed is None:  # a saved run must be reproducible: fix the seed now
-            seed = int(np.random.SeedSequence().entropy % (2**32))
+            seed = resolved_seed(seed)
     execution = Execution(workers=args.workers, scheduler=args.scheduler, local_dask=args.local_dask,
                           run_folder=args.resume or args.run_folder, resume=bool(args.resume))
     result = solve_system(system, options, seed=seed, progress=_Progress(args.json), execution=execution)
