@@ -18,9 +18,10 @@ import pathlib
 import time
 
 import checkout  # noqa: F401  (this checkout's numag, not an installed one)
-from numag.certify import CertifyOptions, certify_singular_point, overlapping_pairs
-from numag.parse import parse_system
-from numag.singular import singular_locus
+from numag.certify.certificates import certify_singular_point, overlapping_pairs
+from numag.certify.records import CertifyOptions
+from numag.system.parse import parse_system
+from numag.singular.locus import singular_locus
 
 PROBLEMS = pathlib.Path(__file__).resolve().parent.parent / "tests" / "data" / "problems.json"
 GOAL_SECONDS = 10.0

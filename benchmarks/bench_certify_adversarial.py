@@ -53,9 +53,10 @@ import numpy as np
 import sympy
 
 import checkout  # noqa: F401  (this checkout's numag, not an installed one)
-from numag.certify import (CertifyOptions, certify_rank, certify_regular_zero, certify_singular_point,
-                           certify_smooth_point)
-from numag.parse import parse_polynomial, parse_system
+from numag.certify.certificates import (certify_rank, certify_regular_zero, certify_singular_point,
+                                        certify_smooth_point)
+from numag.certify.records import CertifyOptions
+from numag.system.parse import parse_polynomial, parse_system
 
 PROBLEMS = pathlib.Path(__file__).resolve().parent.parent / "tests" / "data" / "problems.json"
 FAMILIES = ("badly scaled", "multiple roots", "at infinity", "near misses", "clusters", "changed units",
@@ -857,7 +858,7 @@ def changed_units(count, digits, rng, names=None):
 
 def numag_singular_points(system):
     """(point, dimension, codimension) of the singular locus numag finds (in the original units)."""
-    from numag.singular import singular_locus
+    from numag.singular.locus import singular_locus
     locus = singular_locus(system, seed=1)
     return [(np.asarray(point, dtype=complex), c.dimension, c.codimension) for c in locus.components
             if c.kind == "singular" and not c.at_infinity for point in c.points[:2]]

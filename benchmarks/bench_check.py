@@ -13,8 +13,8 @@ import time
 import numpy as np
 
 import checkout  # noqa: F401  (this checkout's numag, not an installed one)
-from numag.parse import parse_system
-from numag.smoothness import check_points
+from numag.system.parse import parse_system
+from numag.singular.smoothness import check_points
 
 
 def surface_points(count, rng):

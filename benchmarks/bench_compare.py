@@ -38,9 +38,9 @@ import numpy as np
 
 import checkout  # noqa: F401  (this checkout's numag, not an installed one)
 from families import chebyshev, quadric_unions as shared_quadric_unions
-from numag.compare import compare_system
-from numag.parse import parse_system
-from numag.polynomial import PolynomialSystem
+from numag.app.compare import compare_system
+from numag.system.parse import parse_system
+from numag.system.polynomial import PolynomialSystem
 
 ROOT = pathlib.Path(__file__).resolve().parent.parent
 PROBLEMS = ROOT / "tests" / "data" / "problems.json"

@@ -21,8 +21,8 @@ import time
 
 import checkout  # noqa: F401  (this checkout's numag, not an installed one)
 from reference_timing import run_with_time_limit
-from numag.decompose import decompose
-from numag.polynomial import Polynomial, PolynomialSystem
+from numag.witness.decompose import decompose
+from numag.system.polynomial import Polynomial, PolynomialSystem
 
 
 def determinantal_system(rows, cols, rank):

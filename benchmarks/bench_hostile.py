@@ -38,10 +38,10 @@ import checkout  # noqa: F401  (this checkout's numag, not an installed one)
 import numpy as np
 
 import numag
-from numag.checkpoint import RunFolder
-from numag.cli import main
+from numag.run.checkpoint import RunFolder
+from numag.app.cli import main
 from numag.errors import InputError
-from numag.parse import parse_polynomial
+from numag.system.parse import parse_polynomial
 
 ROOT = pathlib.Path(numag.__file__).resolve().parent.parent
 EXAMPLES = ROOT / "numag" / "examples"
@@ -600,7 +600,7 @@ def isolation(tally, folder, rng, quick):
     system = _system(planted, "cusp", ["x", "y"], ["y^2 - x^3"])
     env = dict(os.environ, PYTHONPATH=f"{ROOT}{os.pathsep}{planted}")
     result = subprocess.run([sys.executable, "-c", "import sys; sys.path.insert(0, sys.argv[1]); "
-                             "from numag.cli import main; sys.exit(main(sys.argv[2:]))", str(ROOT), "compare", system],
+                             "from numag.app.cli import main; sys.exit(main(sys.argv[2:]))", str(ROOT), "compare", system],
                             cwd=planted, env=env, capture_output=True, text=True, timeout=300)
     if marker.exists():
         tally.add("wrong", "the planted package ran")

@@ -22,8 +22,8 @@ import time
 import numpy as np
 
 import checkout  # noqa: F401  (this checkout's numag, not an installed one)
-from numag.polynomial import Polynomial, PolynomialSystem
-from numag.solve import Execution, SolveOptions, solve_system
+from numag.system.polynomial import Polynomial, PolynomialSystem
+from numag.tracking.solve import Execution, SolveOptions, solve_system
 
 
 def quadrics(n, seed=3):

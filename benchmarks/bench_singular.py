@@ -29,9 +29,9 @@ import time
 import checkout  # noqa: F401  (this checkout's numag, not an installed one)
 from families import chebyshev, quadric_unions as shared_quadric_unions
 from reference_timing import run_with_time_limit
-from numag.parse import parse_system
-from numag.polynomial import PolynomialSystem
-from numag.singular import singular_locus
+from numag.system.parse import parse_system
+from numag.system.polynomial import PolynomialSystem
+from numag.singular.locus import singular_locus
 
 PROBLEMS = pathlib.Path(__file__).resolve().parent.parent / "tests" / "data" / "problems.json"
 

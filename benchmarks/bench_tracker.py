@@ -26,9 +26,9 @@ from threadpoolctl import threadpool_limits
 import checkout  # noqa: F401  (this checkout's numag, not an installed one)
 from reference_timing import run_with_time_limit
 import numag
-from numag.homotopy import StraightLineHomotopy
-from numag.parse import parse_system
-from numag.solve import SolveOptions, solve_system
+from numag.tracking.homotopy import StraightLineHomotopy
+from numag.system.parse import parse_system
+from numag.tracking.solve import SolveOptions, solve_system
 
 
 def dense_system(n, degree, seed):

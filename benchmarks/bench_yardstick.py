@@ -18,9 +18,9 @@ import numpy as np
 from threadpoolctl import threadpool_limits
 
 import checkout  # noqa: F401  (this checkout's numag, not an installed one)
-from numag.evaluate import BatchEvaluator
-from numag.parse import parse_system
-from numag.solve import solve_system
+from numag.numeric.evaluate import BatchEvaluator
+from numag.system.parse import parse_system
+from numag.tracking.solve import solve_system
 
 
 def quadrics(n, seed):

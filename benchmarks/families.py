@@ -5,8 +5,8 @@ import itertools
 import numpy as np
 
 import checkout  # noqa: F401  (this checkout's numag, not an installed one)
-from numag.parse import parse_system
-from numag.polynomial import Polynomial
+from numag.system.parse import parse_system
+from numag.system.polynomial import Polynomial
 
 
 def chebyshev(degree, variable_index, n_variables):

@@ -8,6 +8,8 @@ The public API in brief:
 * :func:`decompose`, :func:`components_through` -- irreducible components of X with dimension, degree and
   witness points, and the components through a point (``numag decompose``);
 * :func:`singular_locus` -- every singular point and singular component of X (``numag singular``);
+* :func:`certify_regular_zero`, :func:`certify_singular_point`, :func:`certify_smooth_point`,
+  :func:`certify_rank`, :func:`overlapping_pairs` with :class:`CertifyOptions` -- certificates (``numag certify``);
 * :class:`BatchEvaluator` -- F and J at many points at once;
 * :class:`NumagError` -- the root of every error numag raises on purpose.
 
@@ -19,25 +21,28 @@ Examples
 'singular'
 """
 
-__version__ = "0.1.0"
-
-from .allocation import retain_freed_memory  # noqa: E402
+from .version import __version__
+from .run.allocation import retain_freed_memory  # noqa: E402
 
 # Batched evaluations free and reallocate megabyte arrays all the time; keeping freed memory in
-# the process halves their cost (see numag.allocation; NUMAG_KEEP_ALLOCATOR=1 opts out).
+# the process halves their cost (see numag.run.allocation; NUMAG_KEEP_ALLOCATOR=1 opts out).
 retain_freed_memory()
 
 from .errors import NumagError  # noqa: E402
-from .parse import parse_system, parse_polynomial  # noqa: E402
-from .polynomial import Polynomial, PolynomialSystem  # noqa: E402
-from .evaluate import BatchEvaluator  # noqa: E402
-from .smoothness import CheckOptions, check_points  # noqa: E402
-from .files import load_system  # noqa: E402
-from .solve import SolveOptions, continue_solutions, solve_system  # noqa: E402
-from .decompose import DecomposeOptions, components_through, decompose  # noqa: E402
-from .singular import SingularOptions, singular_locus  # noqa: E402
+from .system.parse import parse_system, parse_polynomial  # noqa: E402
+from .system.polynomial import Polynomial, PolynomialSystem  # noqa: E402
+from .numeric.evaluate import BatchEvaluator  # noqa: E402
+from .singular.smoothness import CheckOptions, check_points  # noqa: E402
+from .system.files import load_system  # noqa: E402
+from .tracking.solve import SolveOptions, continue_solutions, solve_system  # noqa: E402
+from .witness.decompose import DecomposeOptions, components_through, decompose  # noqa: E402
+from .singular.locus import SingularOptions, singular_locus  # noqa: E402
+from .certify.records import CertifyOptions  # noqa: E402
+from .certify.certificates import (certify_rank, certify_regular_zero, certify_singular_point,  # noqa: E402
+                                   certify_smooth_point, overlapping_pairs)
 
 __all__ = ["NumagError", "parse_system", "parse_polynomial", "Polynomial", "PolynomialSystem",
            "BatchEvaluator", "CheckOptions", "check_points", "load_system", "SolveOptions", "solve_system",
            "continue_solutions", "DecomposeOptions", "decompose", "components_through", "SingularOptions",
-           "singular_locus", "__version__"]
+           "singular_locus", "CertifyOptions", "certify_regular_zero", "certify_singular_point",
+           "certify_smooth_point", "certify_rank", "overlapping_pairs", "__version__"]

@@ -54,7 +54,7 @@ class LimitError(InputError):
     message : str
         What was too large.
     limit_name : str
-        Name of the limit, as in :class:`numag.polynomial.Limits`.
+        Name of the limit, as in :class:`numag.system.polynomial.Limits`.
     limit : int
         Its value.
     """

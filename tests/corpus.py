@@ -51,7 +51,7 @@ class Task(enum.Enum):
 
     SINGULAR = "singular"  # numag.singular_locus (decomposes X on the way)
     SOLVE = "solve"        # numag.solve_system
-    CHECK = "check"        # numag.decompose (affine input) then numag.check_points, as `numag check` does
+    CHECK = "check"        # numag.witness.decompose (affine input) then numag.check_points, as `numag check` does
 
 
 class Transform(enum.Enum):
@@ -1490,8 +1490,8 @@ def shared_problems(quick=False):
 
 def shared_construction(entry):
     """A shared problem with its verified answer, read by numag's parser and rebuilt in sympy term by term."""
-    from numag.parse import parse_system
-    from numag.reference import _expressions, system_to_plain
+    from numag.system.parse import parse_system
+    from numag.app.reference import _expressions, system_to_plain
     system = parse_system(entry["equations"], entry["variables"], projective=entry["projective"])
     symbols, expressions = _expressions(system_to_plain(system), sympy)
     given = entry["expected"]
@@ -1544,20 +1544,20 @@ class Answer:
 
 
 def _failed(paths):
-    from numag.tracker import FAILURE_LABELS
+    from numag.tracking.tracker import FAILURE_LABELS
     return int(sum(paths.get(label, 0) for label in FAILURE_LABELS))
 
 
 def _warnings_of(report):
     """numag's own completeness warnings of a report (each makes the command line's exit code 3)."""
-    from numag.report import completeness_warnings
+    from numag.app.report import completeness_warnings
     return [f"warning: {w}" for w in completeness_warnings(report)]
 
 
 def answer_from_locus(locus):
-    """An :class:`Answer` from a :class:`numag.singular.SingularLocus`."""
-    from numag.report import singular_to_dict
-    from numag.singular import SingularOptions
+    """An :class:`Answer` from a :class:`numag.singular.locus.SingularLocus`."""
+    from numag.app.report import singular_to_dict
+    from numag.singular.locus import SingularOptions
     affine = [c for c in locus.components if not c.at_infinity]
     isolated = [c for c in affine if c.dimension == 0 and c.kind == "singular"]
     flags = [f"undecided piece of dimension {c.dimension}, degree {c.degree}"
@@ -1581,9 +1581,9 @@ def answer_from_locus(locus):
 
 
 def answer_from_solve(result):
-    """An :class:`Answer` from a :class:`numag.solve.SolveResult` (finite isolated solutions)."""
-    from numag.report import solve_report_to_dict
-    from numag.solve import SolveOptions
+    """An :class:`Answer` from a :class:`numag.tracking.solve.SolveResult` (finite isolated solutions)."""
+    from numag.app.report import solve_report_to_dict
+    from numag.tracking.solve import SolveOptions
     finite = [s for s in result.solutions if not s.at_infinity]
     return Answer(solutions=len(finite), real_solutions=sum(bool(s.real) for s in finite),
                   at_infinity=len(result.at_infinity),
@@ -1596,7 +1596,7 @@ def answer_from_solve(result):
 
 def parse(problem):
     """The problem as a numag system (numag's own parser)."""
-    from numag.parse import parse_system
+    from numag.system.parse import parse_system
     return parse_system(list(problem.equations), list(problem.variables), projective=problem.projective,
                         name=problem.name)
 
@@ -1770,12 +1770,12 @@ def compare(problem, answer, task=None):
 def self_check(problem, seconds=60.0):
     """Differences between a problem's expected answer and sympy's Groebner-basis reference.
 
-    Uses :func:`numag.reference.exact_reference` (sympy in a child process under a time limit). Compares
+    Uses :func:`numag.app.reference.exact_reference` (sympy in a child process under a time limit). Compares
     what it computes: the dimension and top degree of X, the dimension of V(F + minors), the number of
     its distinct (and real) points or the degree of its top-dimensional part. Returns (status, list of
     differences); status is the reference's ("finished", "timed out", ...).
     """
-    from numag.reference import exact_reference
+    from numag.app.reference import exact_reference
     if problem.task is not Task.SINGULAR:
         raise ValueError("the reference computes singular loci")
     expected = problem.expected

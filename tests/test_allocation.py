@@ -7,13 +7,13 @@ import textwrap
 
 import pytest
 
-from numag.allocation import retain_freed_memory
+from numag.run.allocation import retain_freed_memory
 
 FAULTS = textwrap.dedent("""
     import resource
     import numpy as np
     import numag
-    from numag.homotopy import StraightLineHomotopy
+    from numag.tracking.homotopy import StraightLineHomotopy
     names = [f"x{j}" for j in range(8)]
     terms = [f"{names[i]}*{names[j]}" for i in range(8) for j in range(i, 8)] + names + ["1"]
     rng = np.random.default_rng(0)

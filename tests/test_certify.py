@@ -6,13 +6,18 @@ import mpmath
 import numpy as np
 import pytest
 
-from numag.certify import (Certificate, _parse_center, CertifyOptions, alpha_test, alpha_zero, certify_regular_zero,
-                           certify_singular_point, certify_smooth_point, overlapping_pairs,
-                           singularity_equations, working_digits)
+from numag.certify.certificates import (certify_regular_zero, certify_singular_point, certify_smooth_point,
+                                        overlapping_pairs)
+
+from numag.certify.equations import singularity_equations
+
+from numag.certify.records import Certificate, CertifyOptions, _parse_center, alpha_zero, working_digits
+
+from numag.certify.square import alpha_test
 from numag.errors import InputError
-from numag.parse import parse_system
-from numag.singular import singular_locus
-from numag.solve import solve_system
+from numag.system.parse import parse_system
+from numag.singular.locus import singular_locus
+from numag.tracking.solve import solve_system
 
 
 def _system(problem):

@@ -13,12 +13,14 @@ import mpmath
 import numpy as np
 import pytest
 
-from numag.certify import CertifyOptions, certify_rank, certify_regular_zero, certify_singular_point
-from numag.cli import EXIT_UNDECIDED, main
-from numag.parse import parse_system
-from numag.report import certify_report, check_report_to_dict, solve_report_to_dict
-from numag.smoothness import check_points
-from numag.solve import solve_system
+from numag.certify.certificates import certify_rank, certify_regular_zero, certify_singular_point
+
+from numag.certify.records import CertifyOptions
+from numag.app.cli import EXIT_UNDECIDED, main
+from numag.system.parse import parse_system
+from numag.app.report import certify_report, check_report_to_dict, solve_report_to_dict
+from numag.singular.smoothness import check_points
+from numag.tracking.solve import solve_system
 
 sys.path.insert(0, str(pathlib.Path(__file__).resolve().parent.parent / "benchmarks"))
 import bench_certify_adversarial as corpus  # noqa: E402
@@ -71,7 +73,7 @@ class _Capture:
 
 def _solve_report(equations):
     system = parse_system(equations, ["x", "y"])
-    from numag.solve import SolveOptions
+    from numag.tracking.solve import SolveOptions
     return solve_report_to_dict(solve_system(system, seed=1), SolveOptions())
 
 

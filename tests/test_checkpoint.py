@@ -7,7 +7,7 @@ import json
 import numpy as np
 import pytest
 
-from numag.checkpoint import DamagedBatch, RunFolder
+from numag.run.checkpoint import DamagedBatch, RunFolder
 from numag.errors import InputError
 
 

@@ -8,7 +8,7 @@ import sys
 import pytest
 
 import numag
-from numag.cli import EXIT_INPUT, EXIT_OK, EXIT_UNDECIDED, main
+from numag.app.cli import EXIT_INPUT, EXIT_OK, EXIT_UNDECIDED, main
 
 EXAMPLES = pathlib.Path(numag.__file__).parent / "examples"
 
@@ -245,7 +245,7 @@ def test_singular_and_decompose_report_their_executor():
 
 def test_progress_rate_counts_only_paths_tracked_in_this_run(capsys):
     # after a resume, paths read back from the run folder are not part of the rate (common practice)
-    from numag.cli import _Progress
+    from numag.app.commands.common import _Progress
     import time as _time
     progress = _Progress(quiet=False)
     progress.started = _time.perf_counter() - 10.0

@@ -4,7 +4,7 @@ import itertools
 
 import numpy as np
 
-from numag.cluster import cluster_labels, groups
+from numag.numeric.cluster import cluster_labels, groups
 
 
 def brute_force_groups(points, tolerance):
@@ -69,7 +69,7 @@ def test_one_huge_point_does_not_make_the_search_all_pairs():
     # The neighbour search uses each point's own radius: with one point of norm 1e12 among 2,000
     # well separated ones, only the points themselves are found (a radius from the largest norm
     # would have put every pair within reach). Common practice, no source.
-    from numag.cluster import _pairs_within
+    from numag.numeric.cluster import _pairs_within
     rng = np.random.default_rng(3)
     points = rng.standard_normal((2000, 2))
     points[0] = [1e12, 0.0]
@@ -93,7 +93,7 @@ def test_projective_points_are_compared_as_lines_not_by_normalisation():
 def test_line_distance_ignores_scale_and_phase():
     # |a/|a| - e^(i phi) b/|b|| at the best phase: 0 for multiples, about the angle otherwise
     # (common practice, no source)
-    from numag.cluster import line_distance
+    from numag.numeric.cluster import line_distance
     a = np.array([[1.0, 2.0 - 1j, 0.5]])
     assert line_distance(a, (3 - 4j) * a)[0] < 1e-15
     push = np.array([[0.0, 0.0, 1e-7]])

@@ -5,10 +5,10 @@ from dataclasses import replace
 import numpy as np
 import pytest
 
-from numag.compare import compare_answers, compare_system, numag_summary
-from numag.parse import parse_system
-from numag.reference import exact_reference
-from numag.singular import singular_locus
+from numag.app.compare import compare_answers, compare_system, numag_summary
+from numag.system.parse import parse_system
+from numag.app.reference import exact_reference
+from numag.singular.locus import singular_locus
 
 pytest.importorskip("sympy")
 

@@ -1,4 +1,4 @@
-"""Numerical irreducible decomposition (numag.decompose), checked against known varieties and sympy."""
+"""Numerical irreducible decomposition (numag.witness.decompose), checked against known varieties and sympy."""
 
 import itertools
 from fractions import Fraction
@@ -6,10 +6,10 @@ from fractions import Fraction
 import numpy as np
 import pytest
 
-from numag.decompose import DecomposeOptions, components_through, decompose
-from numag.parse import parse_system
-from numag.report import decomposition_from_dict, decomposition_to_dict, dumps
-from numag.smoothness import check_points
+from numag.witness.decompose import DecomposeOptions, components_through, decompose
+from numag.system.parse import parse_system
+from numag.app.report import decomposition_from_dict, decomposition_to_dict, dumps
+from numag.singular.smoothness import check_points
 
 
 def minors(size, rank):
@@ -169,8 +169,8 @@ def test_same_answer_with_worker_processes():
     # batches of 2 paths send every homotopy of more than 2 paths through the pool; the answer must not
     # change (the affine cone over the twisted cubic: dimension 2, degree 3, problem file)
     from dataclasses import replace as _replace
-    from numag.executor import LocalPool, using
-    from numag.witness import WitnessOptions
+    from numag.run.executor import LocalPool, using
+    from numag.witness.cascade import WitnessOptions
     system = parse_system(["x0*x2 - x1^2", "x1*x3 - x2^2", "x0*x3 - x1*x2"], ["x0", "x1", "x2", "x3"])
     options = DecomposeOptions(witness=WitnessOptions(batch_size=2))
     alone = decompose(system, options, seed=4)
@@ -187,7 +187,7 @@ def test_a_jump_that_joins_two_components_is_undone_by_the_trace_test_of_the_par
     # then tried by the trace test and the group is split again. The jump is forced here: every loop
     # links all the points.
     import importlib
-    module = importlib.import_module("numag.decompose")  # the package's name is also a function
+    module = importlib.import_module("numag.witness.decompose")
 
     def joined_match(points, reference, tolerance):
         return np.roll(np.arange(len(reference)), 1)[:len(points)]

@@ -2,8 +2,8 @@ import mpmath
 import numpy as np
 import sympy
 
-from numag.evaluate import BatchEvaluator, PrecisionEvaluator
-from numag.parse import parse_system
+from numag.numeric.evaluate import BatchEvaluator, PrecisionEvaluator
+from numag.system.parse import parse_system
 
 
 def random_system(rng, n_variables, n_equations, degree, n_terms):

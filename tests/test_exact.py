@@ -4,7 +4,7 @@ import mpmath
 import pytest
 
 from numag.errors import InputError, LimitError
-from numag.exact import ExactCoefficient, square_free_split
+from numag.system.exact import ExactCoefficient, square_free_split
 
 
 def test_square_free_split_identity():
@@ -67,7 +67,7 @@ def test_conversion_to_complex_is_correctly_rounded():
 
 def test_numbers_beyond_python_string_limits_are_written_so_that_they_read_back():
     # 3^9000 has 4,295 digits, 99999999999999999999^200 about 4,000: the text is chunked (common practice, no source)
-    from numag.parse import parse_polynomial
+    from numag.system.parse import parse_polynomial
     for text in ["(3^1000)^9*x - 1", "99999999999999999999^200*x + 1/7^1000/7^1000", "(1 + sqrt(2))^300*x"]:
         polynomial = parse_polynomial(text, ["x"])
         assert parse_polynomial(polynomial.to_text(["x"]), ["x"]) == polynomial
@@ -75,7 +75,7 @@ def test_numbers_beyond_python_string_limits_are_written_so_that_they_read_back(
 
 def test_square_root_work_is_limited_as_it_grows():
     from numag.errors import LimitError
-    from numag.exact import MAX_RADICAL_TERMS
+    from numag.system.exact import MAX_RADICAL_TERMS
     primes = [2, 3, 5, 7, 11, 13, 17, 19, 23, 29, 31, 37, 41, 43]
     total = sum((ExactCoefficient.square_root(p) for p in primes), ExactCoefficient.zero())
     with pytest.raises(LimitError, match="square-root terms"):

@@ -6,7 +6,7 @@ import pathlib
 import pytest
 
 from numag.errors import InputError
-from numag.executor import InProcess, LocalPool, make_executor
+from numag.run.executor import InProcess, LocalPool, make_executor
 
 
 def square_all(batch):
@@ -77,7 +77,7 @@ def test_default_choice_and_bad_worker_counts():
 _ORPHAN_SCRIPT = """
 import os, sys, threading, time
 sys.path.insert(0, {root!r})
-from numag.executor import LocalPool
+from numag.run.executor import LocalPool
 
 def slow(batch):
     time.sleep(600)

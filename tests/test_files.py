@@ -3,7 +3,7 @@ import json
 import pytest
 
 from numag.errors import PointError, SystemFileError
-from numag.files import load_points, load_system, parse_point_assignment, points_from_json
+from numag.system.files import load_points, load_system, parse_point_assignment, points_from_json
 
 
 def write(tmp_path, text, name="system.toml"):
@@ -13,8 +13,8 @@ def write(tmp_path, text, name="system.toml"):
 
 
 def test_bundled_example_loads():
-    import numag.files, pathlib
-    example = pathlib.Path(numag.files.__file__).parent / "examples" / "parallel_linkage.toml"
+    import numag, pathlib
+    example = pathlib.Path(numag.__file__).parent / "examples" / "parallel_linkage.toml"
     system = load_system(example)
     assert system.n_variables == 4 and system.n_equations == 3 and not system.projective
 

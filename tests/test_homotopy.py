@@ -1,10 +1,10 @@
-"""Start systems and homotopies (numag.homotopy)."""
+"""Start systems and homotopies (numag.tracking.homotopy)."""
 
 import numpy as np
 import pytest
 
-from numag.homotopy import StraightLineHomotopy, TotalDegreeStart
-from numag.parse import parse_system
+from numag.tracking.homotopy import StraightLineHomotopy, TotalDegreeStart
+from numag.system.parse import parse_system
 
 
 @pytest.mark.parametrize("degrees", [[2, 2, 2], [3, 3], [2, 3, 4]])

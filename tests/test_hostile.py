@@ -13,10 +13,10 @@ from hypothesis import HealthCheck, given, settings, strategies as st
 import pytest
 
 import numag
-from numag.cli import EXIT_INPUT, main
+from numag.app.cli import EXIT_INPUT, main
 from numag.errors import InputError
-from numag.files import load_points, load_system
-from numag.parse import MAX_NESTING, parse_polynomial
+from numag.system.files import load_points, load_system
+from numag.system.parse import MAX_NESTING, parse_polynomial
 
 _FAST = settings(max_examples=120, deadline=None, suppress_health_check=[HealthCheck.function_scoped_fixture])
 _TOKENS = ["x", "y", "I", "sqrt", "(", ")", "+", "-", "*", "/", "^", "**", "=", "0", "2", "1.5e3", "3/4",

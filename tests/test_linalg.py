@@ -1,14 +1,14 @@
 import mpmath
 import numpy as np
 
-from numag.evaluate import TermSizes
-from numag.linalg import (mp_least_squares, mp_right_singular_vectors, mp_singular_values,
+from numag.numeric.evaluate import TermSizes
+from numag.numeric.linalg import (mp_least_squares, mp_right_singular_vectors, mp_singular_values,
                           numerical_rank, scaled_singular_values, singular_value_gap, zero_tolerance)
 
 
 def test_scaled_values_ignore_coefficient_size():
     # A row with tiny coefficients is not "nearly zero" once scaled (common practice, no source)
-    from numag.parse import parse_system
+    from numag.system.parse import parse_system
     system = parse_system(["1e-12*x^2 + 1e-12*y^2 - 1e-12"], ["x", "y"])
     points = np.array([[0.6, 0.8]])
     jac = 1e-12 * np.array([[[1.2, 1.6]]])
@@ -19,7 +19,7 @@ def test_scaled_values_ignore_coefficient_size():
 def test_term_sizes_do_not_grow_with_the_degree():
     # x^100 - 1 at a root of unity: the gradient 100 x^99 has modulus 100 and its terms size 100;
     # a bound by ||(1, x)||^99 would call it 1e15 times smaller (common practice, no source)
-    from numag.parse import parse_system
+    from numag.system.parse import parse_system
     system = parse_system(["x^100 - 1"], ["x"])
     root = np.exp(2j * np.pi * 3 / 100)
     jac = np.array([[[100 * root ** 99]]])

@@ -5,8 +5,8 @@ import numpy as np
 import pytest
 
 from numag.errors import NumagError, ParseError, InputError
-from numag.exact import ExactCoefficient
-from numag.parse import parse_constant, parse_polynomial, parse_system
+from numag.system.exact import ExactCoefficient
+from numag.system.parse import parse_constant, parse_polynomial, parse_system
 
 XY = ["x", "y"]
 
@@ -139,7 +139,7 @@ def test_arbitrary_text_raises_only_our_errors(text):
 
 
 def test_nesting_tokens_and_length_limits_name_the_limit():
-    from numag.parse import MAX_EQUATION_LENGTH, MAX_NESTING, MAX_TOKENS
+    from numag.system.parse import MAX_EQUATION_LENGTH, MAX_NESTING, MAX_TOKENS
     assert parse_polynomial("(" * MAX_NESTING + "x" + ")" * MAX_NESTING, ["x"]).to_text(["x"]) == "x"
     with pytest.raises(ParseError, match=f"nested more than {MAX_NESTING}"):
         parse_polynomial("(" * (MAX_NESTING + 1) + "x" + ")" * (MAX_NESTING + 1), ["x"])

@@ -3,8 +3,8 @@ import pytest
 import sympy
 
 from numag.errors import InputError, LimitError
-from numag.parse import parse_polynomial, parse_system
-from numag.polynomial import Limits, Polynomial
+from numag.system.parse import parse_polynomial, parse_system
+from numag.system.polynomial import Limits, Polynomial
 
 XY = ["x", "y"]
 
@@ -75,8 +75,8 @@ def test_power_zero_and_one():
 
 def test_prepared_for_numerics_drops_rescales_or_refuses():
     from numag.errors import InputError
-    from numag.parse import parse_system
-    from numag.polynomial import prepared_for_numerics
+    from numag.system.parse import parse_system
+    from numag.system.polynomial import prepared_for_numerics
     kept = parse_system(["x^2 - 1"], ["x"])
     assert prepared_for_numerics(kept) == (kept, [])
     system, notes = prepared_for_numerics(parse_system(["0", "1e-300*x^2 - 1e-300"], ["x"]))
@@ -88,7 +88,7 @@ def test_prepared_for_numerics_drops_rescales_or_refuses():
 
 
 def test_regeneration_bound_counts_each_stage():
-    from numag.polynomial import regeneration_bound
+    from numag.system.polynomial import regeneration_bound
     # stages of three quadrics in three unknowns: 2, 4, 8 paths; constants add nothing
     assert regeneration_bound([2, 2, 2, 0], 3) == 14
     assert regeneration_bound([3, 1, 2], 2) == 1 + 2  # lowest degrees first, at most n stages

@@ -6,8 +6,8 @@ import time
 
 import pytest
 
-from numag.parse import parse_system
-from numag.reference import exact_reference, system_to_plain
+from numag.system.parse import parse_system
+from numag.app.reference import exact_reference, system_to_plain
 
 pytest.importorskip("sympy")
 

@@ -1,9 +1,9 @@
 import mpmath
 import numpy as np
 
-from numag.evaluate import BatchEvaluator
-from numag.parse import parse_system
-from numag.refine import RankDropSystem, mp_gauss_newton, project_to_variety
+from numag.numeric.evaluate import BatchEvaluator
+from numag.system.parse import parse_system
+from numag.numeric.refine import RankDropSystem, mp_gauss_newton, project_to_variety
 
 
 def test_projection_lands_on_the_variety_in_one_batch():

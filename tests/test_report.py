@@ -2,9 +2,9 @@ import json
 
 import numpy as np
 
-from numag.parse import parse_system
-from numag.report import check_report_to_dict, dumps, loads_check_report
-from numag.smoothness import CheckOptions, check_points
+from numag.system.parse import parse_system
+from numag.app.report import check_report_to_dict, dumps, loads_check_report
+from numag.singular.smoothness import CheckOptions, check_points
 
 
 def test_check_report_json_round_trip():
@@ -38,9 +38,10 @@ def test_envelope_shape():
 
 def test_certificate_round_trip():
     # JSON round trip of a certificate (common practice, no source)
-    from numag.certify import CertifyOptions, certify_singular_point
-    from numag.parse import parse_system
-    from numag.report import certificate_from_dict, certificate_to_dict
+    from numag.certify.certificates import certify_singular_point
+    from numag.certify.records import CertifyOptions
+    from numag.system.parse import parse_system
+    from numag.app.report import certificate_from_dict, certificate_to_dict
     certificate = certify_singular_point(parse_system(["y^2 - x^3"], ["x", "y"]), [1e-9, 0.0],
                                          options=CertifyOptions(digits=20))
     data = json.loads(json.dumps(certificate_to_dict(certificate)))
@@ -51,10 +52,10 @@ def test_certificate_round_trip():
 
 def test_certification_through_worker_processes_gives_the_same_certificates():
     # same certificates in-process and on 2 workers (common practice, no source)
-    from numag.executor import LocalPool
-    from numag.parse import parse_system
-    from numag.report import certify_report, singular_to_dict
-    from numag.singular import SingularOptions, singular_locus
+    from numag.run.executor import LocalPool
+    from numag.system.parse import parse_system
+    from numag.app.report import certify_report, singular_to_dict
+    from numag.singular.locus import SingularOptions, singular_locus
     # four lines in general position: 6 nodes (problem file: four_generic_lines)
     locus = singular_locus(parse_system(["(x - y + 1)*(2*x + y - 3)*(x + 3*y + 2)*(3*x - 2*y - 7)"], ["x", "y"]),
                            seed=3)

@@ -6,8 +6,8 @@ import stat
 import pytest
 
 from numag.errors import SystemFileError
-from numag.report import read_report, write_report
-from numag.safeio import loads_json, read_limited, sweep_temporary_files, write_file
+from numag.app.report import read_report, write_report
+from numag.system.safeio import loads_json, read_limited, sweep_temporary_files, write_file
 
 
 @pytest.mark.parametrize("device", ["/dev/zero", "/dev/urandom"])

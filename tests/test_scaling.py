@@ -1,4 +1,4 @@
-"""Units for the computation (numag.scaling): least-squares balancing of coefficient magnitudes.
+"""Units for the computation (numag.numeric.scaling): least-squares balancing of coefficient magnitudes.
 
 The method is that of Meintjes and Morgan, "A methodology for solving chemical equilibrium
 systems", Appl. Math. Comput. 1987, and Morgan, "Solving Polynomial Systems Using Continuation
@@ -10,8 +10,8 @@ from fractions import Fraction
 from hypothesis import given, settings, strategies as st
 import numpy as np
 
-from numag.parse import parse_system
-from numag.scaling import Scaling
+from numag.system.parse import parse_system
+from numag.numeric.scaling import Scaling
 
 LINKAGE = ["x1^2 + y1^2 - 4", "(x2 - 4)^2 + y2^2 - 9", "(x2 - x1)^2 + (y2 - y1)^2 - 9"]
 NAMES = ["x1", "y1", "x2", "y2"]

@@ -5,8 +5,8 @@ import pytest
 import sympy
 
 from numag.errors import InputError, PointError
-from numag.parse import parse_constant, parse_system
-from numag.smoothness import CheckOptions, check_points
+from numag.system.parse import parse_constant, parse_system
+from numag.singular.smoothness import CheckOptions, check_points
 
 
 def verdicts(system, points, **options):

@@ -9,10 +9,10 @@ import sympy
 
 import numag
 from numag.errors import InputError
-from numag.parse import parse_system
-from numag.report import dumps, solve_report_from_dict, solve_report_to_dict
-from numag.solve import SolveOptions, solve_system
-from numag.tracker import PathStatus
+from numag.system.parse import parse_system
+from numag.app.report import dumps, solve_report_from_dict, solve_report_to_dict
+from numag.tracking.solve import SolveOptions, solve_system
+from numag.tracking.tracker import PathStatus
 
 
 def cyclic(n):
@@ -139,7 +139,7 @@ def test_solve_report_round_trip():
 def test_path_jumping_is_detected_and_repaired():
     # Bezout's theorem: 2^6 solutions of 6 generic quadrics. Reckless tracker settings make paths jump
     # onto each other (two paths at one regular solution); solve must notice and track them again.
-    from numag.tracker import TrackerOptions
+    from numag.tracking.tracker import TrackerOptions
     rng = np.random.default_rng(3)
     names = [f"x{j}" for j in range(6)]
     monomials = [m for d in range(3) for m in itertools.combinations_with_replacement(names, d)]
@@ -156,7 +156,7 @@ def test_path_jumping_is_detected_and_repaired():
 def test_parameter_homotopy_agrees_with_total_degree():
     # Bezout: 3 x 2 = 6 solutions for generic coefficients; moving the solutions of one generic system to
     # another by a parameter homotopy must find the same solutions as solving the target directly
-    from numag.solve import continue_solutions
+    from numag.tracking.solve import continue_solutions
     start = parse_system(["x^3 + 2*x*y - 3*y + 1", "x*y + y^2 - 5*x + 2"], ["x", "y"])
     target = parse_system(["2*x^3 - x*y + 4*y - 7/2", "3*x*y - y^2 + x - 1"], ["x", "y"])
     first = solve_system(start, seed=0)
@@ -175,7 +175,7 @@ def test_singular_points_of_hypersurfaces_from_their_gradients(problems, name):
     # tests/data/problems.json: Chebyshev curves (Koseleff and Pecker), Cayley's 4-nodal cubic (Cayley 1869),
     # the Kummer quartic (16 nodes), Barth's sextic (65 nodes: W. Barth, "Two projective surfaces with many
     # nodes, admitting the symmetries of the icosahedron", J. Algebraic Geom. 1996).
-    from numag.polynomial import PolynomialSystem
+    from numag.system.polynomial import PolynomialSystem
     entry = problems[name]
     surface = parse_system(entry["equations"], entry["variables"], projective=entry["projective"])
     f = surface.polynomials[0]
@@ -212,7 +212,7 @@ def _cubics():
 
 def test_same_seed_same_answer_with_one_two_workers_and_dask():
     pytest.importorskip("distributed")
-    from numag.solve import Execution
+    from numag.tracking.solve import Execution
     options = SolveOptions(batch_size=5)
     one = solve_system(_cubics(), options, seed=8, execution=Execution(workers=1))
     two = solve_system(_cubics(), options, seed=8, execution=Execution(workers=2))
@@ -228,7 +228,7 @@ def test_killed_run_resumes_without_tracking_finished_batches_again(tmp_path):
     import subprocess
     import sys
     import time
-    from numag.cli import main
+    from numag.app.cli import main
     system_file = tmp_path / "quartics.toml"
     # 4 x 4 x 4 = 64 paths in batches of 2: long enough to be killed mid-way
     system_file.write_text('variables = ["x", "y", "z"]\nequations = ["x^4 + y^3*z - 2*z + 1", '
@@ -268,7 +268,7 @@ def test_killed_run_resumes_without_tracking_finished_batches_again(tmp_path):
 
 def test_a_run_folder_of_another_run_is_refused(tmp_path):
     from numag.errors import InputError
-    from numag.solve import Execution
+    from numag.tracking.solve import Execution
     solve_system(_cubics(), SolveOptions(batch_size=10), seed=1, execution=Execution(run_folder=str(tmp_path / "r")))
     with pytest.raises(InputError, match="different run"):
         solve_system(_cubics(), SolveOptions(batch_size=10), seed=2,
@@ -280,7 +280,7 @@ def test_a_run_folder_of_another_run_is_refused(tmp_path):
 def _forge(folder, index, change):
     """Change batch ``index`` of a run folder and record the new file's checksum: a consistent forgery."""
     import hashlib
-    from numag.checkpoint import RunFolder
+    from numag.run.checkpoint import RunFolder
     run = RunFolder.open(folder)
     arrays = run.read_batch(index)
     change(arrays)
@@ -290,7 +290,7 @@ def _forge(folder, index, change):
 
 @pytest.mark.parametrize("seed", [1, 4])
 def test_tampered_batches_are_tracked_again_never_trusted(tmp_path, seed):
-    from numag.solve import Execution
+    from numag.tracking.solve import Execution
     options = SolveOptions(batch_size=9)
     folder = tmp_path / "r"
     clean = solve_system(_cubics(), options, seed=seed, execution=Execution(run_folder=str(folder)))
@@ -324,8 +324,8 @@ def test_tampered_batches_are_tracked_again_never_trusted(tmp_path, seed):
 
 
 def test_an_edited_manifest_is_refused_on_resume(tmp_path):
-    from numag.cli import main
-    from numag.solve import Execution
+    from numag.app.cli import main
+    from numag.tracking.solve import Execution
     folder = tmp_path / "r"
     solve_system(_cubics(), SolveOptions(batch_size=10), seed=1, execution=Execution(run_folder=str(folder)))
     manifest = json.loads((folder / "manifest.json").read_text())

@@ -1,9 +1,9 @@
 import numpy as np
 import pytest
 
-from numag.homotopy import StraightLineHomotopy
-from numag.parse import parse_system
-from numag.tracker import PathStatus, track_paths
+from numag.tracking.homotopy import StraightLineHomotopy
+from numag.system.parse import parse_system
+from numag.tracking.tracker import PathStatus, track_paths
 
 
 def dense_system(rng, n, degree):
@@ -92,8 +92,8 @@ def test_precision_rescue_tracks_paths_double_precision_cannot():
 def test_precise_segment_agrees_with_double():
     system = parse_system(["x^2 + x*y - 1", "y^2 - x - 2"], ["x", "y"])
     homotopy = StraightLineHomotopy.total_degree(system, np.random.default_rng(6))
-    from numag.rescue import track_segment_precise
-    from numag.tracker import TrackerOptions, _advance, _Segment
+    from numag.tracking.rescue import track_segment_precise
+    from numag.tracking.tracker import TrackerOptions, _advance, _Segment
     start = homotopy.start_solutions()[:1]
     double, _, status, _ = _advance(homotopy, start, np.ones(1), np.full(1, 0.1), _Segment, np.arange(1),
                                     TrackerOptions(), np.zeros(1, dtype=np.int64))
@@ -105,7 +105,7 @@ def test_one_pass_keeps_each_path_within_the_endgame_radius():
     # The single pass from s = 1 to 0 keeps each path's first point with s in [0.025, 0.1] (the endgame
     # radius and the next one it would try): that point solves H(X, s) = 0 at its own s, and tracking on
     # from it alone reaches the same endpoint (common practice, no source).
-    from numag.tracker import TrackerOptions, _Segment, _advance
+    from numag.tracking.tracker import TrackerOptions, _Segment, _advance
     system = dense_system(np.random.default_rng(4), 3, 2)
     homotopy = StraightLineHomotopy.total_degree(system, np.random.default_rng(4))
     starts = homotopy.start_solutions()
@@ -132,7 +132,7 @@ def test_one_circle_vouches_for_its_own_endgame_estimate():
     # function: Trefethen and Weideman, SIAM Review, 2014): the endgame settles after fewer circles
     # than when it must wait for two radii to agree, and ends at the same point.
     from dataclasses import replace
-    from numag.tracker import TrackerOptions
+    from numag.tracking.tracker import TrackerOptions
     system = parse_system(["y - x^2", "y + x^2 - x^3"], ["x", "y"])
     homotopy = StraightLineHomotopy.total_degree(system, np.random.default_rng(2))
     starts = homotopy.start_solutions()

@@ -15,7 +15,7 @@ import corpus
 from corpus import Expected, Outcome, Task, Transform, text_problem
 from conftest import DATA
 
-from numag.cli import EXIT_OK, main
+from numag.app.cli import EXIT_OK, main
 
 #: Seconds a single numag call may take here (the problems are small; minutes mean a stall).
 TIME_LIMIT = 60.0
@@ -59,7 +59,7 @@ FOUR_BAR_UNITS = {"decimetres": sympy.Integer(1), "millimetres": sympy.Integer(1
 
 def test_four_bar_answer_from_sympy():
     # The expected answer of the four-bar checks below, from sympy's Groebner bases (numag's exact reference).
-    from numag.reference import exact_reference
+    from numag.app.reference import exact_reference
     answer = exact_reference(corpus.parse(four_bar(1)), seconds=120, seed=1)
     assert answer.status == "finished"
     assert (answer.variety_dimension, answer.variety_degree) == (1, 6)

@@ -18,8 +18,8 @@ import corpus
 from corpus import Change, Outcome, Task, Transform
 from conftest import DATA
 
-from numag.parse import parse_system
-from numag.reference import _expressions, system_to_plain
+from numag.system.parse import parse_system
+from numag.app.reference import _expressions, system_to_plain
 
 TIME_LIMIT = 60.0
 
@@ -93,7 +93,7 @@ def constructions():
 @pytest.mark.parametrize("name", SELF_CHECKED)
 def test_generator_answers_agree_with_sympy(name, constructions):
     # The construction's answer (Bezout, Chebyshev critical points, normal forms, products, diagonal
-    # pencils) against sympy's Groebner bases (numag.reference): dimension and degree of X, distinct and
+    # pencils) against sympy's Groebner bases (numag.app.reference): dimension and degree of X, distinct and
     # real singular points, scheme length.
     problem = corpus.materialise(constructions[name], corpus.draw_change(Transform.BASE, constructions[name], None))
     status, differences = corpus.self_check(problem, seconds=120)

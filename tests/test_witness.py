@@ -1,11 +1,11 @@
-"""Witness supersets by the regenerative cascade (numag.witness)."""
+"""Witness supersets by the regenerative cascade (numag.witness.cascade)."""
 
 import numpy as np
 import pytest
 
 from numag.errors import InputError
-from numag.parse import parse_system
-from numag.witness import WitnessOptions, witness_supersets
+from numag.system.parse import parse_system
+from numag.witness.cascade import WitnessOptions, witness_supersets
 
 
 def sizes(result):
@@ -63,7 +63,7 @@ def test_every_line_of_a_chebyshev_derivative(seed):
     # T7'(x) = 7 U6(x) vanishes at x = cos(k pi / 7), k = 1..6 (Abramowitz and Stegun, Handbook of
     # Mathematical Functions, chapter 22): in C^2 six parallel lines, each one witness point. The
     # regeneration's paths to them nearly meet; a jump must be repaired, not lose a line.
-    from numag.polynomial import Polynomial, PolynomialSystem
+    from numag.system.polynomial import Polynomial, PolynomialSystem
     x = Polynomial.variable(0, 2)
     previous, current = Polynomial.constant(1, 2), x
     for _ in range(6):

@@ -1,0 +1,111 @@
+"""The command line: ``numag <command> ...`` (also ``python -m numag``).
+
+Exit codes
+----------
+0  the job ran and every decision was reached
+1  an unexpected internal error (please report it)
+2  bad input: a file, an equation, a point or an option (one-line message)
+3  the job ran, but at least one decision is undecided (compare: the reference did not finish)
+4  compare: numag and the exact reference disagree
+"""
+
+import argparse
+import signal
+import sys
+import warnings
+
+import numpy as np
+
+from ..errors import NumagError, one_line
+from ..version import __version__
+from ..run.executor import WorkLimits, abort_workers, work_limits
+from .commands import certify, check, compare, decompose, singular, solve
+from .commands.common import EXIT_INPUT, EXIT_INTERNAL, EXIT_MISMATCH, EXIT_OK, EXIT_UNDECIDED
+
+__all__ = ["main", "build_parser", "EXIT_OK", "EXIT_INTERNAL", "EXIT_INPUT", "EXIT_UNDECIDED", "EXIT_MISMATCH"]
+
+
+class _Parser(argparse.ArgumentParser):
+    """argparse that reports usage errors as numag does: one line, exit code 2."""
+
+    def error(self, message):
+        self.exit(EXIT_INPUT, f"numag: error: {message} (see '{self.prog} --help')\n")
+
+
+def build_parser():
+    """The argument parser of the ``numag`` command."""
+    parser = _Parser(prog="numag", description="Where is a variety singular? Numerical algebraic "
+                     "geometry by homotopy continuation.")
+    parser.add_argument("--version", action="version", version=f"numag {__version__}")
+    commands = parser.add_subparsers(dest="command", metavar="COMMAND", parser_class=_Parser)
+    commands.required = True
+
+    for command in (check, solve, singular, decompose, certify, compare):
+        command.add_parser(commands)
+    return parser
+
+
+def main(argv=None, out=None):
+    """Run the command line; returns the exit code.
+
+    Examples
+    --------
+    >>> import io
+    >>> main(["check", "no-such-file.toml", "--point", "x=0"], out=io.StringIO())
+    2
+    """
+    out = out or sys.stdout
+    try:
+        args = build_parser().parse_args(argv)
+    except SystemExit as stop:  # usage errors (already printed on one line), --help, --version
+        return stop.code if isinstance(stop.code, int) else EXIT_INPUT
+    limits = WorkLimits(max_paths=getattr(args, "max_paths", WorkLimits.max_paths),
+                        max_memory=int(getattr(args, "max_memory", WorkLimits.max_memory / 1024 ** 3) * 1024 ** 3))
+    previous = _on_terminate()
+    try:
+        # numpy's floating-point warnings are not messages for the user: every result carries its
+        # own evidence (residuals, path statuses), and exit codes count what failed
+        with warnings.catch_warnings(), np.errstate(all="ignore"), work_limits(limits):
+            warnings.simplefilter("ignore", RuntimeWarning)
+            return args.run(args, out)
+    except NumagError as err:
+        sys.stderr.write(f"numag: error: {one_line(str(err))}\n")
+        return EXIT_INPUT
+    except SystemExit as stop:  # SIGTERM: temporary files were removed on the way out
+        if stop.code == 128 + signal.SIGTERM:
+            sys.stderr.write("numag: terminated\n")
+        raise
+    except KeyboardInterrupt:
+        sys.stderr.write("numag: interrupted\n")
+        return 130
+    except BrokenPipeError:  # the reader (e.g. `head`) went away: nothing more to say
+        try:
+            sys.stdout = None
+        finally:
+            return EXIT_OK
+    except Exception as err:  # noqa: BLE001 - last resort: one line, never a traceback
+        sys.stderr.write(f"numag: internal error: {type(err).__name__}: {one_line(str(err))[:300]} (please report this with the "
+                         "command and input)\n")
+        return EXIT_INTERNAL
+    finally:
+        if previous is not None:
+            signal.signal(signal.SIGTERM, previous)
+
+
+def _on_terminate():
+    """On SIGTERM: stop the workers, then leave through SystemExit so that temporary files are removed.
+
+    Returns the previous handler (None when not in the main thread, where handlers cannot be set).
+    """
+    def handler(signum, frame):
+        abort_workers()
+        raise SystemExit(128 + signum)
+
+    try:
+        return signal.signal(signal.SIGTERM, handler)
+    except ValueError:  # not the main thread (a library caller running main in a thread)
+        return None
+
+
+if __name__ == "__main__":  # pragma: no cover
+    sys.exit(main())

@@ -1,0 +1,127 @@
+"""``numag solve``: isolated solutions of a square system, with run folders and ``--resume``."""
+
+from ...errors import NumagError
+from ...system.files import system_from_mapping
+from ...run.checkpoint import RunFolder
+from ...numeric.seeds import resolved_seed
+from ...tracking.solve import Execution, SolveOptions, solve_system
+from ..report import CAUTION, dumps, solve_report_to_dict
+from .certify import _certified, _doubtful, _print_certification
+from .common import (EXIT_OK, EXIT_UNDECIDED, _Progress, _add_certify_switch, _add_executor_options,
+                     _add_work_options, _checked_seed, _count, _format_point, _load, _print_warnings, _seed,
+                     _with_notes, _with_warnings, _write_notes)
+
+
+def add_parser(commands):
+    """Add ``numag solve`` to the sub-parsers ``commands`` of the command line."""
+    solve = commands.add_parser(
+        "solve", help="isolated solutions of a square system (homotopy continuation)",
+        description="Track every path of a total-degree homotopy and report the distinct isolated "
+                    "solutions with multiplicities, the points at infinity, and every path's fate.")
+    solve.add_argument("system_file", metavar="FILE", nargs="?",
+                       help="system file (TOML); not needed with --resume (the run folder has the system)")
+    solve.add_argument("--digits", type=int, default=SolveOptions.refine_digits, metavar="D",
+                       help="precision (decimal digits) for refining singular solutions (default %(default)s)")
+    solve.add_argument("--square-up", action="store_true",
+                       help="allow more equations than unknowns (random combinations; solutions rechecked)")
+    solve.add_argument("--batch-size", type=_count(1, 10**7), default=SolveOptions.batch_size, metavar="N",
+                       help="paths tracked together (default %(default)s)")
+    solve.add_argument("--seed", type=_seed, help="seed of the random choices (recorded in the report)")
+    solve.add_argument("--json", action="store_true", help="print the report as JSON (no progress lines)")
+    _add_executor_options(solve)
+    solve.add_argument("--run-folder", metavar="DIR",
+                       help="save the run: a manifest and every finished batch (atomic writes), for --resume")
+    solve.add_argument("--resume", metavar="DIR",
+                       help="continue the run saved in DIR: finished batches are read back, not tracked again")
+    _add_certify_switch(solve)
+    _add_work_options(solve)
+    solve.set_defaults(run=run)
+
+
+def _print_solve(result, out, data=None):
+    system = result.system
+    counts = result.path_counts()
+    kind = "projective" if system.projective else "affine"
+    out.write(f"numag solve: {system.name or 'system'}: {system.n_equations} equation(s) in "
+              f"{system.n_variables} variables ({kind}), seed {result.seed}\n")
+    failed = ", ".join(f"{label} {n}" for label, n in counts["failed_by_reason"].items() if n) or "none"
+    out.write(f"paths: {counts['tracked']} tracked: {counts['converged']} converged, "
+              f"{counts['singular_endpoint']} singular endpoints, {counts['at_infinity']} at infinity, "
+              f"{counts['failed']} failed ({failed}); {counts['retracked']} re-tracked, "
+              f"{counts['rescued_in_high_precision']} of them in high precision; "
+              f"{result.seconds:.2f} s\n")
+    execution = result.extra.get("execution")
+    if execution:
+        failed = execution["failed_batches"]
+        out.write(f"run: {execution['executor']}, {execution['workers']} worker(s), {execution['batches']} batch(es) "
+                  f"of up to {execution['batch_size']} paths, {execution['batches_resumed']} read back from the run "
+                  f"folder, {execution['retries']} retried, {len(failed)} failed"
+                  + (f"; saved in {execution['run_folder']}" if execution["run_folder"] else "") + "\n")
+        for failure in failed:
+            out.write(f"  batch {failure['index']} (paths {failure['paths'][0]}-{failure['paths'][1]}) failed "
+                      f"{failure['attempts']} times: {failure['error']}\n")
+        for rejected in execution.get("batches_rejected", []):
+            out.write(f"  batch {rejected['index']} of the run folder was not trusted and was tracked again: "
+                      f"{rejected['reason']}\n")
+    if result.squared_up:
+        out.write("note: more equations than unknowns; random combinations were tracked and every "
+                  f"solution was kept only if it satisfies all equations ({len(result.discarded)} discarded)\n")
+    real = sum(1 for s in result.solutions if s.real)
+    out.write(f"\n{len(result.solutions)} isolated solution(s), {real} real\n")
+    names = system.variables
+    for k, s in enumerate(result.solutions, 1):
+        out.write(f"  {k:4d}  multiplicity {s.multiplicity}  {'real' if s.real else 'complex'}  "
+                  f"cond {s.condition:.2g}  {_format_point(names, s.point)}\n")
+    if result.at_infinity:
+        homogeneous = names if system.projective else ["(w)"] + list(names)
+        out.write(f"\n{len(result.at_infinity)} point(s) at infinity (homogeneous coordinates "
+                  f"{', '.join(homogeneous)}):\n")
+        for s in result.at_infinity:
+            out.write(f"        paths {s.multiplicity}  {_format_point(homogeneous, s.point)}\n")
+    if result.not_isolated:
+        out.write(f"\n{len(result.not_isolated)} endpoint group(s) lie on positive-dimensional solution "
+                  "sets (not counted as solutions):\n")
+        for s in result.not_isolated:
+            out.write(f"        paths {s.multiplicity}  {_format_point(names, s.point)}\n")
+    _print_warnings(data, out)
+    _print_certification(data, out)
+    out.write(f"\n{CAUTION}\n")
+
+
+def run(args, out):
+    if args.resume:
+        if args.run_folder:
+            raise NumagError("give either --run-folder (a new run) or --resume (an interrupted one), not both")
+        manifest = RunFolder.open(args.resume).manifest
+        if manifest.get("kind") != "solve":
+            raise NumagError(f"{args.resume} holds a run of {str(manifest.get('kind'))[:40]!r}, not of 'numag solve'")
+        try:
+            system = system_from_mapping({k: v for k, v in manifest["system"].items() if v is not None},
+                                         path=f"{args.resume}/manifest.json")
+            saved = manifest["options"]
+            options = SolveOptions(refine_digits=saved["refine_digits"], square_up=saved["square_up"],
+                                   batch_size=saved["batch_size"],
+                                   cluster_tolerance=saved["cluster_tolerance"]).validated()
+            seed = _checked_seed(manifest["seed"], f"the seed in {args.resume}/manifest.json")
+        except (KeyError, TypeError, AttributeError):
+            raise NumagError(f"{args.resume}/manifest.json is damaged: it does not describe a solve run") from None
+        if args.system_file is not None and _load(args).to_texts() != system.to_texts():
+            raise NumagError(f"{args.system_file} is not the system of the run in {args.resume}")
+    else:
+        if args.system_file is None:
+            raise NumagError("a system file is needed (or --resume DIR)")
+        system = _load(args)
+        options = SolveOptions(refine_digits=args.digits, square_up=args.square_up, batch_size=args.batch_size)
+        seed = args.seed
+        if args.run_folder and seed is None:  # a saved run must be reproducible: fix the seed now
+            seed = resolved_seed(seed)
+    execution = Execution(workers=args.workers, scheduler=args.scheduler, local_dask=args.local_dask,
+                          run_folder=args.resume or args.run_folder, resume=bool(args.resume))
+    result = solve_system(system, options, seed=seed, progress=_Progress(args.json), execution=execution)
+    data = _with_warnings(_certified(_with_notes(solve_report_to_dict(result, options), args), args))
+    if args.json:
+        out.write(dumps(data) + "\n")
+    else:
+        _write_notes(args, out)
+        _print_solve(result, out, data)
+    return EXIT_UNDECIDED if _doubtful(data) or data["warnings"] else EXIT_OK

@@ -1,0 +1,281 @@
+"""numag beside the exact reference (``numag compare``): counts, dimensions, degrees, distances, times.
+
+The numerical side is :func:`numag.singular.locus.singular_locus`; the exact side is
+:func:`numag.app.reference.exact_reference` (sympy Groebner bases in a child process
+under a time limit). Like is compared with like: the exact side sees
+V(F + all c x c minors of J), which holds the singular points AND the
+generically non-reduced components, so numag's components of kind "singular"
+and "non-reduced" are compared with it; affine input is compared on affine
+points only (numag's points at infinity are listed apart).
+
+Examples
+--------
+>>> from numag.system.parse import parse_system
+>>> comparison = compare_system(parse_system(["y^2 - x^3"], ["x", "y"]), seconds=60, seed=1)
+>>> comparison.verdict, [row.quantity for row in comparison.rows if row.agree][:3]
+('agree', ['dimension of X', 'degree of X', 'components of X (top dimension; degrees)'])
+"""
+
+from dataclasses import dataclass, field
+import math
+import time
+
+import numpy as np
+
+from ..singular.locus import SingularOptions, singular_locus
+from .reference import REFERENCE_SCOPE, exact_reference
+
+__all__ = ["ComparisonRow", "Comparison", "numag_summary", "compare_answers", "compare_system", "VERDICTS"]
+
+#: Outcomes of a comparison.
+VERDICTS = ("agree", "mismatch", "incomplete")
+
+
+@dataclass
+class ComparisonRow:
+    """One quantity side by side; ``agree`` is None when one side has no value."""
+
+    quantity: str
+    numag: object
+    exact: object
+    agree: object
+
+
+@dataclass
+class Comparison:
+    """Result of :func:`compare_answers`.
+
+    Attributes
+    ----------
+    system : PolynomialSystem
+    locus : SingularLocus
+        numag's answer.
+    reference : ReferenceAnswer
+        The exact side's answer (with its status).
+    rows : list of ComparisonRow
+    max_distance : float or None
+        Largest distance from an exact singular point to the nearest numerical one (relative
+        to 1 + |p|), over the points the reference could give.
+    digits : float or None
+        Digits of agreement of the coordinates: -log10(max_distance).
+    numag_seconds, reference_seconds : float
+        numag's wall time; the reference's computation time (without the child interpreter's start
+        and sympy's import) when it finished, else its wall time.
+    verdict : str
+        "agree", "mismatch" (some row disagrees) or "incomplete" (the reference did not finish,
+        or numag left a candidate undecided).
+    scope : str
+        What is compared.
+    notes : list of str
+    """
+
+    system: object
+    locus: object
+    reference: object
+    rows: list
+    max_distance: object
+    digits: object
+    numag_seconds: float
+    reference_seconds: float
+    verdict: str
+    scope: str = REFERENCE_SCOPE
+    notes: list = field(default_factory=list)
+
+    @property
+    def ratio(self):
+        """Reference seconds / numag seconds (above 1: numag faster); None when the reference did not finish."""
+        if self.reference.status != "finished" or self.numag_seconds <= 0:
+            return None
+        return self.reference_seconds / self.numag_seconds
+
+
+def numag_summary(locus):
+    """numag's answer in the reference's terms (dimensions, degrees, counts, points).
+
+    Returns
+    -------
+    dict
+        ``variety_dimension``, ``variety_degree``, ``equidimensional``, ``singular_dimension``
+        (-1 when empty), ``singular_points``, ``real_singular_points``, ``singular_degree``
+        (top-dimensional part), ``points`` (array of the isolated points), ``undecided``.
+    """
+    system = locus.system
+    component_degrees = None
+    if locus.variety is not None and locus.variety.components:
+        dims = [c.dimension for c in locus.variety.components]
+        top = max(dims)
+        degree = sum(c.degree for c in locus.variety.components if c.dimension == top)
+        equidimensional = len(set(dims)) == 1
+        component_degrees = sorted(c.degree for c in locus.variety.components if c.dimension == top)
+    else:  # the gradient shortcut of projective hypersurfaces: X itself is not decomposed
+        top = system.n_variables - 2
+        degree = system.polynomials[0].degree
+        equidimensional = True
+    compared = [c for c in locus.components if c.kind in ("singular", "non-reduced")
+                and (system.projective or not c.at_infinity)]
+    undecided = [c for c in locus.components if c.kind == "undecided"]
+    singular_dimension = max((c.dimension for c in compared), default=-1)
+    points = [c.points[0] for c in compared if c.dimension == 0]
+    summary = {"variety_dimension": top, "variety_degree": degree, "equidimensional": equidimensional,
+               "component_degrees": component_degrees,
+               "singular_dimension": singular_dimension, "singular_points": None,
+               "real_singular_points": None, "singular_degree": None,
+               "points": np.array(points, dtype=complex).reshape(len(points), system.n_variables),
+               "undecided": len(undecided)}
+    if singular_dimension <= 0:
+        summary["singular_points"] = len(points)
+        summary["real_singular_points"] = sum(bool(c.real[0]) for c in compared if c.dimension == 0)
+    else:
+        summary["singular_degree"] = sum(c.degree for c in compared if c.dimension == singular_dimension)
+    return summary
+
+
+def _in_chart(points, chart):
+    """Homogeneous points moved to the reference's chart a . x = 1."""
+    if chart is None or len(points) == 0:
+        return points
+    a = np.asarray(chart, dtype=float)
+    scale = points @ a
+    with np.errstate(divide="ignore", invalid="ignore"):
+        return points / scale[:, None]
+
+
+def _components_row(mine, exact):
+    """numag's top-dimensional component degrees against the reference's irreducible factors over Q.
+
+    Equal lists agree. Components over C refine those over Q (a factor irreducible over Q can
+    split into conjugate components over C), so numag may have more, grouped into the reference's
+    degrees; fewer, or degrees that cannot be so grouped, is a mismatch. A finer split that can be
+    grouped is undecided here (agree None): the reference cannot say whether the factor splits.
+
+    Examples
+    --------
+    >>> _components_row([3], [3]).agree, _components_row([1, 1, 1], [3]).agree, _components_row([3], [1, 2]).agree
+    (True, None, False)
+    """
+    if mine is None or exact is None:
+        return None
+    mine, exact = sorted(mine), sorted(exact)
+    agree = True if mine == exact else (None if len(mine) > len(exact) and _groups_into(mine, exact) else False)
+    return ComparisonRow("components of X (top dimension; degrees)", mine, exact, agree)
+
+
+def _groups_into(parts, totals):
+    """Can ``parts`` be split into groups whose sums are exactly ``totals``? (small lists: backtracking)"""
+    if sum(parts) != sum(totals):
+        return False
+    remaining = list(totals)
+
+    def place(k):
+        if k == len(parts):
+            return all(r == 0 for r in remaining)
+        for j in range(len(remaining)):
+            if remaining[j] >= parts[k]:
+                remaining[j] -= parts[k]
+                if place(k + 1):
+                    return True
+                remaining[j] += parts[k]
+        return False
+
+    return place(0)
+
+
+def compare_answers(system, locus, reference, numag_seconds, tolerance=1e-6):
+    """Side-by-side rows and a verdict for numag's ``locus`` against the exact ``reference``.
+
+    Parameters
+    ----------
+    system : PolynomialSystem
+    locus : SingularLocus
+    reference : ReferenceAnswer
+    numag_seconds : float
+    tolerance : float
+        Largest relative distance between matched points that still agrees.
+
+    Returns
+    -------
+    Comparison
+    """
+    ours = numag_summary(locus)
+    rows = []
+
+    def row(quantity, mine, exact):
+        agree = None if mine is None or exact is None else mine == exact
+        rows.append(ComparisonRow(quantity, mine, exact, agree))
+
+    row("dimension of X", ours["variety_dimension"], reference.variety_dimension)
+    row("degree of X", ours["variety_degree"], reference.variety_degree)
+    notes = []
+    components = _components_row(ours["component_degrees"], reference.component_degrees)
+    if components is not None:
+        rows.append(components)
+        if components.agree is None:
+            notes.append("numag splits X into more components than the reference's irreducible factors over Q "
+                         f"({components.numag} against {components.exact}); the reference does not test "
+                         "irreducibility over C, so the finer split is neither confirmed nor refuted")
+    row("dimension of V(F, minors)", ours["singular_dimension"], reference.singular_dimension)
+    exact_dimension = reference.singular_dimension
+    if exact_dimension is not None and exact_dimension <= 0 and ours["singular_dimension"] <= 0:
+        row("singular points", ours["singular_points"], reference.singular_points)
+        row("real singular points", ours["real_singular_points"], reference.real_singular_points)
+    elif exact_dimension is not None and exact_dimension > 0:
+        row("degree of the top-dimensional part", ours["singular_degree"], reference.singular_degree)
+    max_distance = digits = None
+    if reference.points is not None and len(reference.points) and len(ours["points"]):
+        mine = _in_chart(ours["points"], reference.chart) if system.projective else ours["points"]
+        worst = 0.0
+        for exact_point in np.asarray(reference.points, dtype=complex):
+            gaps = np.max(np.abs(mine - exact_point[None, :]), axis=1) / (1.0 + np.max(np.abs(exact_point)))
+            worst = max(worst, float(np.nanmin(gaps)))
+        max_distance = worst
+        digits = 16.0 if worst == 0 else min(16.0, -math.log10(worst))
+        rows.append(ComparisonRow("largest distance to an exact point", f"{worst:.1e}", f"<= {tolerance:g}",
+                                  worst <= tolerance))
+    elif reference.points is None and reference.status == "finished" and exact_dimension == 0:
+        notes.append("the reference gave counts but no coordinates (the random form was not separating)")
+    if not ours["equidimensional"]:
+        notes.append("X is not equidimensional: the reference uses the codimension of its top-dimensional part, "
+                     "so singular points on lower-dimensional components may differ")
+    if exact_dimension is not None and exact_dimension > 0:
+        notes.append("a positive-dimensional locus is compared by its top-dimensional part only")
+    if ours["undecided"]:
+        notes.append(f"numag left {ours['undecided']} candidate(s) undecided")
+    if any(r.agree is False for r in rows):
+        verdict = "mismatch"
+    elif reference.status != "finished" or ours["undecided"] or (components is not None and components.agree is None):
+        verdict = "incomplete"
+        if reference.status != "finished":
+            notes.append(f"reference {reference.status}: {reference.message}")
+    else:
+        verdict = "agree"
+    reference_seconds = reference.compute_seconds if reference.status == "finished" else reference.seconds
+    return Comparison(system, locus, reference, rows, max_distance, digits, float(numag_seconds),
+                      float(reference_seconds if reference_seconds is not None else reference.seconds), verdict,
+                      notes=notes)
+
+
+def compare_system(system, seconds=60.0, seed=None, options=None, tolerance=1e-6, progress=None):
+    """Run numag's singular locus and the exact reference on ``system``, one after the other.
+
+    Parameters
+    ----------
+    system : PolynomialSystem
+    seconds : float
+        Time limit of the exact reference.
+    seed : int, optional
+    options : SingularOptions, optional
+    tolerance : float
+    progress : callable, optional
+        One-line messages.
+
+    Returns
+    -------
+    Comparison
+    """
+    started = time.perf_counter()
+    locus = singular_locus(system, options or SingularOptions(), seed=seed, progress=progress)
+    numag_seconds = time.perf_counter() - started
+    if progress is not None:
+        progress(f"numag: {numag_seconds:.2f} s; exact reference (time limit {seconds:g} s) ...")
+    reference = exact_reference(system, seconds=seconds, seed=locus.seed)
+    return compare_answers(system, locus, reference, numag_seconds, tolerance)

@@ -1,0 +1,830 @@
+"""Reports as JSON: one envelope for every sub-command, and the round trip back to dataclasses.
+
+The envelope (documented in the README) always has
+
+* ``numag_version``, ``command``, ``seed``;
+* ``system``: ``name``, ``variables``, ``equations`` (text that reads back exactly),
+  ``projective``;
+* ``paths``: counts of tracked paths by status (``tracked``, ``converged``,
+  ``singular_endpoint``, ``at_infinity``, ``failed`` with ``failed_by_reason``);
+  they always add up, and are all zero for commands that track no paths;
+* ``components``: a list (empty for commands that compute none);
+* ``caution``: the standing caution about numerical results.
+
+A complex point is a list of ``[real, imaginary]`` pairs, one per variable.
+A gap of infinity is written as the string ``"infinity"``.
+
+Examples
+--------
+>>> encode_point(np.array([1 + 2j, 3]))
+[[1.0, 2.0], [3.0, 0.0]]
+"""
+
+import copy
+from dataclasses import dataclass
+import json
+import math
+import os
+import time
+
+import numpy as np
+
+from ..errors import InputError
+from ..version import __version__
+from ..system.files import system_from_mapping
+from ..system.polynomial import PolynomialSystem
+from ..system.safeio import MAX_INPUT_BYTES, loads_json, read_limited, write_file
+from ..run.executor import InProcess
+from ..numeric.linalg import RankEvidence
+from ..numeric.scaling import Scaling
+from ..tracking.solve import Solution, SolveOptions, SolveResult
+from ..tracking.tracker import FAILURE_LABELS, PathStatus, TrackerOptions
+from ..witness.cascade import WitnessOptions
+from ..witness.decompose import Component, Decomposition, DecomposeOptions
+from ..singular.locus import SingularComponent, SingularLocus, SingularOptions
+from ..singular.smoothness import CheckOptions, CheckReport, PointVerdict
+from ..certify.certificates import (certify_rank, certify_regular_zero, certify_singular_point,
+                                    certify_smooth_point, overlapping_pairs)
+from ..certify.records import (ALPHA_ZERO_TEXT, Certificate, CertifyOptions, Claim, ClaimCheck, ClaimStatus, Kind,
+                               STATUSES, Status)
+
+__all__ = ["CAUTION", "encode_point", "decode_point", "empty_path_counts", "system_to_dict",
+           "check_report_to_dict", "check_report_from_dict", "dumps", "loads_check_report",
+           "solve_report_to_dict", "solve_report_from_dict", "certificate_to_dict", "certificate_from_dict",
+           "certify_report", "read_report", "write_report", "compare_to_dict"]
+
+#: Printed with every result (terminal and JSON).
+CAUTION = ("Numerical results. Before relying on them for a real machine or structure, verify them with "
+           "certification and defer to the applicable standards and licensed engineering practice.")
+
+
+def encode_point(point):
+    """Complex vector -> list of [real, imaginary] pairs."""
+    return [[float(z.real), float(z.imag)] for z in np.asarray(point, dtype=complex)]
+
+
+def decode_point(pairs):
+    """List of [real, imaginary] pairs -> complex vector."""
+    try:
+        return np.array([complex(float(re), float(im)) for re, im in pairs], dtype=complex)
+    except (TypeError, ValueError):
+        raise InputError(f"a point must be a list of [real, imaginary] pairs, got {str(pairs)[:60]}") from None
+
+
+def _encode_float(value):
+    if value is None:
+        return None
+    value = float(value)
+    if value == float("inf"):
+        return "infinity"
+    return value
+
+
+def _decode_float(value):
+    if value is None:
+        return None
+    return float("inf") if value == "infinity" else float(value)
+
+
+def empty_path_counts():
+    """Path counts of a command that tracks no paths."""
+    return {"tracked": 0, "converged": 0, "singular_endpoint": 0, "at_infinity": 0, "failed": 0,
+            "failed_by_reason": {}}
+
+
+def system_to_dict(system):
+    """The system as the keys of a system file (exact text)."""
+    return {"name": system.name, "variables": list(system.variables), "equations": system.to_texts(),
+            "projective": system.projective}
+
+
+def _evidence_to_dict(evidence):
+    return {"rank": evidence.rank, "singular_values": [float(v) for v in evidence.singular_values],
+            "row_scales": [float(v) for v in evidence.row_scales], "tolerance": float(evidence.tolerance),
+            "gap": _encode_float(evidence.gap), "digits": evidence.digits, "escalated": evidence.escalated,
+            "point": encode_point(evidence.point)}
+
+
+def _evidence_from_dict(data):
+    return RankEvidence(rank=int(data["rank"]), singular_values=np.array(data["singular_values"], dtype=float),
+                        row_scales=np.array(data["row_scales"], dtype=float), tolerance=float(data["tolerance"]),
+                        gap=_decode_float(data["gap"]), digits=int(data["digits"]),
+                        escalated=bool(data["escalated"]), point=decode_point(data["point"]))
+
+
+def _verdict_to_dict(v):
+    return {
+        "index": v.index, "given": encode_point(v.given), "point": encode_point(v.point),
+        "distance": float(v.distance), "residual": float(v.residual), "verdict": v.verdict, "rank": v.rank,
+        "codimension": v.codimension, "tangent_dimension": v.tangent_dimension,
+        "local_dimension": v.local_dimension, "local_dimension_source": v.local_dimension_source,
+        "evidence": _evidence_to_dict(v.evidence),
+        "nearest_rank_drop": None if v.nearest_rank_drop is None else encode_point(v.nearest_rank_drop),
+        "nearest_rank_drop_distance": _encode_float(v.nearest_rank_drop_distance),
+        "notes": list(v.notes),
+        "components": [dict(c) for c in v.components],
+    }
+
+
+def _verdict_from_dict(d):
+    return PointVerdict(
+        index=int(d["index"]), given=decode_point(d["given"]), point=decode_point(d["point"]),
+        distance=float(d["distance"]), residual=float(d["residual"]), verdict=d["verdict"], rank=d["rank"],
+        codimension=d["codimension"], tangent_dimension=d["tangent_dimension"],
+        local_dimension=d["local_dimension"], local_dimension_source=d["local_dimension_source"],
+        evidence=_evidence_from_dict(d["evidence"]),
+        nearest_rank_drop=None if d["nearest_rank_drop"] is None else decode_point(d["nearest_rank_drop"]),
+        nearest_rank_drop_distance=_decode_float(d["nearest_rank_drop_distance"]), notes=list(d["notes"]),
+        components=[dict(c) for c in d.get("components", [])])
+
+
+def check_report_to_dict(report):
+    """A :class:`~numag.singular.smoothness.CheckReport` as the JSON envelope."""
+    options = report.options
+    return {
+        "numag_version": __version__,
+        "command": "check",
+        "seed": report.seed,
+        "system": system_to_dict(report.system),
+        "scaling": _scaling_to_dict(report.scaling, report.system),
+        "options": {"local_dimension": options.local_dimension, "point_tolerance": options.point_tolerance,
+                    "digits": options.max_digits, "suspect_threshold": options.suspect_threshold,
+                    "neighbour_samples": options.neighbour_samples,
+                    "neighbour_radius": options.neighbour_radius},
+        "paths": empty_path_counts(),
+        "components": [],
+        "counts": report.counts(),
+        "points": [_verdict_to_dict(v) for v in report.points],
+        "caution": CAUTION,
+    }
+
+
+def completeness_warnings(data):
+    """What a report's run may have missed, one sentence each (empty when nothing).
+
+    Failed paths may have led to solutions, components or singular points; candidates that could
+    not be settled on X were neither kept nor refuted; groups the trace test did not confirm may
+    be parts of larger components. Each of these makes the command's exit code 3.
+
+    Examples
+    --------
+    >>> completeness_warnings({"paths": {"failed": 2, "failed_by_reason": {"minimum_step": 2}}})[0][:34]
+    '2 path(s) failed (minimum_step 2):'
+    """
+    warnings = []
+    paths = data.get("paths") or {}
+    failed = int(paths.get("failed", 0))
+    if failed:
+        reasons = ", ".join(f"{k} {v}" for k, v in (paths.get("failed_by_reason") or {}).items() if v)
+        warnings.append(f"{failed} path(s) failed ({reasons}): what they lead to (solutions, witness points, "
+                        "singular candidates) may be missing; run again with another --seed to compare.")
+    unsettled = int((data.get("discarded") or {}).get("not_settled_on_X", 0)) if isinstance(
+        data.get("discarded"), dict) else 0
+    if unsettled:
+        warnings.append(f"{unsettled} singular candidate(s) could not be settled on X (Newton refinement "
+                        "drifted): singular points there may be missing.")
+    paths_block = data.get("paths") or {}
+    if int((paths_block.get("endpoints") or {}).get("degree_check_failed", 0)):
+        warnings.append("The components' degrees times multiplicities do not add up as Bezout's theorem requires "
+                        "for the dimension of a complete intersection: a component may be missing or counted "
+                        "twice.")
+    unconfirmed = data.get("unconfirmed", 0)
+    if unconfirmed:
+        warnings.append(f"{unconfirmed} group(s) of witness points not confirmed by the trace test: they may be "
+                        "parts of larger components (raise --max-loops or change --seed).")
+    return warnings
+
+
+def _scaling_to_dict(scaling, system):
+    return None if scaling is None else scaling.to_json(system.variables)
+
+
+def _scaling_from_dict(data, system):
+    """The report's ``scaling`` (None for reports written before it existed)."""
+    block = data.get("scaling")
+    return None if block is None else Scaling.from_json(block, system.variables)
+
+
+def _report_system(data, command):
+    """Check that ``data`` is a report of ``command`` and rebuild its system."""
+    if not isinstance(data, dict) or data.get("command") != command:
+        raise InputError(f"not a report of 'numag {command}'")
+    if not isinstance(data.get("system"), dict):
+        raise InputError(f"the report of 'numag {command}' has no 'system' table")
+    system_data = dict(data["system"])
+    if system_data.get("name") is None:
+        system_data.pop("name", None)
+    return system_from_mapping(system_data)
+
+
+def check_report_from_dict(data):
+    """Rebuild a :class:`~numag.singular.smoothness.CheckReport` from its JSON envelope."""
+    system = _report_system(data, "check")
+    o = data["options"]
+    options = CheckOptions(local_dimension=o["local_dimension"], point_tolerance=o["point_tolerance"],
+                           max_digits=o["digits"], suspect_threshold=o["suspect_threshold"],
+                           neighbour_samples=o["neighbour_samples"], neighbour_radius=o["neighbour_radius"])
+    return CheckReport(system, [_verdict_from_dict(d) for d in data["points"]], options, data["seed"],
+                       _scaling_from_dict(data, system))
+
+
+def dumps(data):
+    """JSON text of a report dictionary (strict JSON: no NaN or Infinity literals)."""
+    return json.dumps(data, indent=2, allow_nan=False)
+
+
+def loads_check_report(text):
+    """Parse JSON text of a check report."""
+    return check_report_from_dict(json.loads(text))
+
+
+# --- solve ---------------------------------------------------------------------------------------
+
+_STATUS_BY_LABEL = {status.label: status for status in PathStatus}
+
+
+def _solution_to_dict(solution):
+    return {"point": encode_point(solution.point), "multiplicity": solution.multiplicity,
+            "winding": solution.winding, "at_infinity": solution.at_infinity, "real": solution.real,
+            "condition": _encode_float(solution.condition), "isolated": solution.isolated,
+            "digits": solution.digits, "paths": [int(k) for k in solution.paths]}
+
+
+def _solution_from_dict(d):
+    return Solution(point=decode_point(d["point"]), multiplicity=int(d["multiplicity"]), winding=int(d["winding"]),
+                    at_infinity=bool(d["at_infinity"]), real=bool(d["real"]),
+                    condition=_decode_float(d["condition"]), isolated=bool(d["isolated"]),
+                    paths=np.array(d["paths"], dtype=np.int64), digits=int(d["digits"]))
+
+
+def _component(identifier, solution):
+    """Every isolated point is a component of its own: dimension 0, degree 1."""
+    return {"id": identifier, "dimension": 0, "degree": 1, "points": [encode_point(solution.point)],
+            "real": [solution.real], "multiplicity": solution.multiplicity, "at_infinity": solution.at_infinity,
+            "formulation": "square system", "slice": None}
+
+
+def solve_report_to_dict(result, options):
+    """A :class:`~numag.tracking.solve.SolveResult` as the JSON envelope."""
+    components = [_component(k + 1, s) for k, s in enumerate(result.solutions + result.at_infinity)]
+    return {
+        "numag_version": __version__,
+        "command": "solve",
+        "seed": result.seed,
+        "system": system_to_dict(result.system),
+        "scaling": _scaling_to_dict(result.scaling, result.system),
+        "options": {"digits": options.refine_digits, "cluster_tolerance": options.cluster_tolerance,
+                    "square_up": options.square_up, "batch_size": options.batch_size},
+        "paths": result.path_counts(),
+        "components": components,
+        "solutions": [_solution_to_dict(s) for s in result.solutions],
+        "at_infinity": [_solution_to_dict(s) for s in result.at_infinity],
+        "not_isolated": [_solution_to_dict(s) for s in result.not_isolated],
+        "discarded": [_solution_to_dict(s) for s in result.discarded],
+        "squared_up": result.squared_up,
+        "seconds": result.seconds,
+        "evaluations": result.evaluations,
+        "execution": result.extra.get("execution"),
+        "steps": {"median": float(np.median(result.steps)) if len(result.steps) else 0.0,
+                  "max": int(result.steps.max()) if len(result.steps) else 0},
+        "path_status": [PathStatus(int(code)).label for code in result.status],
+        "path_steps": [int(v) for v in result.steps],
+        "path_winding": [int(v) for v in result.winding],
+        "path_retracked": [bool(v) for v in result.retracked],
+        "path_digits": [int(v) for v in result.digits],
+        "caution": CAUTION,
+    }
+
+
+def solve_report_from_dict(data):
+    """Rebuild a :class:`~numag.tracking.solve.SolveResult` (and its options) from its JSON envelope."""
+    system = _report_system(data, "solve")
+    o = data["options"]
+    options = SolveOptions(tracker=TrackerOptions(), cluster_tolerance=o["cluster_tolerance"],
+                           refine_digits=o["digits"], square_up=o["square_up"], batch_size=o["batch_size"])
+    try:
+        status = np.array([int(_STATUS_BY_LABEL[label]) for label in data["path_status"]], dtype=np.int64)
+    except KeyError as err:
+        raise InputError(f"unknown path status {err}") from None
+    result = SolveResult(
+        system=system, solutions=[_solution_from_dict(d) for d in data["solutions"]],
+        at_infinity=[_solution_from_dict(d) for d in data["at_infinity"]],
+        not_isolated=[_solution_from_dict(d) for d in data["not_isolated"]], status=status,
+        steps=np.array(data["path_steps"], dtype=np.int64), winding=np.array(data["path_winding"], dtype=np.int64),
+        retracked=np.array(data["path_retracked"], dtype=bool), seed=data["seed"], seconds=float(data["seconds"]),
+        evaluations=int(data["evaluations"]), squared_up=bool(data["squared_up"]),
+        digits=np.array(data["path_digits"], dtype=np.int64),
+        discarded=[_solution_from_dict(d) for d in data["discarded"]])
+    if data.get("execution") is not None:
+        result.extra["execution"] = data["execution"]
+    result.scaling = _scaling_from_dict(data, system)
+    return result, options
+
+
+# --- decompose -----------------------------------------------------------------------------------
+
+_ENDPOINT_KEYS = ("not_on_X", "at_infinity_or_failed", "on_larger_component", "membership_paths",
+                  "degree_check_failed")
+
+
+def decomposition_path_counts(counts):
+    """The ``paths`` block of a decomposition: counts by status (adding up) and what became of endpoints."""
+    by_reason = {label: int(counts.get(label, 0)) for label in FAILURE_LABELS}
+    return {
+        "tracked": int(counts.get("tracked", 0)),
+        "converged": int(counts.get("converged", 0)),
+        "singular_endpoint": int(counts.get("singular_endpoint", 0)),
+        "at_infinity": int(counts.get("at_infinity", 0)),
+        "failed": int(sum(by_reason.values())),
+        "failed_by_reason": by_reason,
+        "endpoints": {key: int(counts.get(key, 0)) for key in _ENDPOINT_KEYS},
+    }
+
+
+def _decomposition_component(c):
+    return {"id": c.id, "dimension": c.dimension, "degree": c.degree,
+            "points": [encode_point(p) for p in c.points], "real": [bool(r) for r in c.real],
+            "multiplicity": c.multiplicity, "reduced": c.reduced, "at_infinity": False,
+            "formulation": "witness set", "confirmed": c.confirmed, "trace_defect": _encode_float(c.trace_defect),
+            "slice": [encode_point(row) for row in c.slice_rows]}
+
+
+def decomposition_to_dict(result, options):
+    """A :class:`~numag.witness.decompose.Decomposition` as the JSON envelope."""
+    return {
+        "numag_version": __version__,
+        "command": "decompose",
+        "seed": result.seed,
+        "system": system_to_dict(result.system),
+        "scaling": _scaling_to_dict(result.scaling, result.system),
+        "options": {"lowest_dimension": options.witness.lowest_dimension, "max_loops": options.max_loops,
+                    "trace_tolerance": options.trace_tolerance},
+        "dimensions_searched": list(result.dimensions_searched),
+        "paths": decomposition_path_counts(result.paths),
+        "monodromy_loops": {str(k): int(v) for k, v in result.loops.items()},
+        "components": [_decomposition_component(c) for c in result.components],
+        "unconfirmed": len(result.unconfirmed),
+        "seconds": result.seconds,
+        "caution": CAUTION,
+    }
+
+
+def _component_from_dict(d, n):
+    points = np.array([decode_point(p) for p in d["points"]], dtype=complex).reshape(-1, n)
+    rows = np.array([decode_point(r) for r in d["slice"]], dtype=complex).reshape(-1, n + 1)
+    return Component(int(d["id"]), int(d["dimension"]), int(d["degree"]), points, np.array(d["real"], dtype=bool),
+                     int(d["multiplicity"]), bool(d["reduced"]), rows, bool(d["confirmed"]),
+                     _decode_float(d["trace_defect"]))
+
+
+def _counts_from_paths(paths):
+    """Flat path counts (statuses, failure reasons, endpoint fates) from a ``paths`` block."""
+    counts = {key: paths[key] for key in ("tracked", "converged", "singular_endpoint", "at_infinity")}
+    counts.update(paths["failed_by_reason"])
+    counts.update(paths["endpoints"])
+    return counts
+
+
+def decomposition_from_dict(data):
+    """Rebuild a :class:`~numag.witness.decompose.Decomposition` (and its options) from its JSON envelope."""
+    system = _report_system(data, "decompose")
+    o = data["options"]
+    options = DecomposeOptions(witness=WitnessOptions(lowest_dimension=o["lowest_dimension"]),
+                               max_loops=int(o["max_loops"]), trace_tolerance=float(o["trace_tolerance"]))
+    components = [_component_from_dict(d, system.n_variables) for d in data["components"]]
+    counts = _counts_from_paths(data["paths"])
+    result = Decomposition(system, components, list(data["dimensions_searched"]), counts,
+                           {int(k): int(v) for k, v in data["monodromy_loops"].items()}, data["seed"],
+                           float(data["seconds"]), scaling=_scaling_from_dict(data, system))
+    return result, options
+
+
+# --- singular ------------------------------------------------------------------------------------
+
+def _singular_component(c):
+    return {"id": c.id, "dimension": c.dimension, "degree": c.degree,
+            "points": [encode_point(p) for p in c.points], "real": [bool(r) for r in c.real],
+            "multiplicity": None if c.multiplicity is None else int(c.multiplicity), "at_infinity": c.at_infinity,
+            "formulation": c.formulation, "kind": c.kind, "on_components": [int(k) for k in c.on_components],
+            "rank": c.rank, "codimension": c.codimension, "notes": list(c.notes)}
+
+
+def singular_to_dict(result, options):
+    """A :class:`~numag.singular.locus.SingularLocus` as the JSON envelope."""
+    variety = result.variety
+    return {
+        "numag_version": __version__,
+        "command": "singular",
+        "seed": result.seed,
+        "system": system_to_dict(result.system),
+        "scaling": _scaling_to_dict(result.scaling, result.system),
+        "options": {"formulation": options.formulation, "digits": options.digits,
+                    "at_infinity_for_systems": options.infinity_for_systems,
+                    "lowest_dimension": options.decompose.witness.lowest_dimension,
+                    "max_exact_minors": options.max_exact_minors},
+        "paths": decomposition_path_counts(result.paths),
+        "components": [_singular_component(c) for c in result.components],
+        # the components of X (in a random chart for projective input: only their dimensions and degrees)
+        "variety": [] if variety is None or result.system.projective else
+        [_decomposition_component(c) for c in variety.components],
+        "variety_summary": [] if variety is None else
+        [{"dimension": c.dimension, "degree": c.degree} for c in variety.components],
+        "discarded": dict(result.discarded),
+        "notes": list(result.notes),
+        "seconds": result.seconds,
+        "caution": CAUTION,
+    }
+
+
+def singular_from_dict(data):
+    """Rebuild a :class:`~numag.singular.locus.SingularLocus` (and its options) from its JSON envelope."""
+    system = _report_system(data, "singular")
+    o = data["options"]
+    options = SingularOptions(formulation=o["formulation"], digits=int(o["digits"]),
+                              infinity_for_systems=bool(o.get("at_infinity_for_systems", False)),
+                              max_exact_minors=int(o["max_exact_minors"]),
+                              decompose=DecomposeOptions(witness=WitnessOptions(lowest_dimension=o["lowest_dimension"])))
+    components = []
+    for d in data["components"]:
+        points = np.array([decode_point(p) for p in d["points"]], dtype=complex)
+        components.append(SingularComponent(int(d["id"]), int(d["dimension"]), int(d["degree"]), points,
+                                            np.array(d["real"], dtype=bool), d["multiplicity"],
+                                            bool(d["at_infinity"]), d["formulation"], d["kind"],
+                                            list(d["on_components"]), d["rank"], d["codimension"], list(d["notes"])))
+    counts = _counts_from_paths(data["paths"])
+    variety = None
+    if data["variety"]:
+        parts = [_component_from_dict(d, system.n_variables) for d in data["variety"]]
+        variety = Decomposition(system, parts, [], {}, {}, data["seed"], 0.0,
+                                scaling=_scaling_from_dict(data, system))
+    result = SingularLocus(system, components, variety, counts, dict(data["discarded"]), data["seed"],
+                           float(data["seconds"]), list(data["notes"]), _scaling_from_dict(data, system))
+    return result, options
+
+
+# --- certificates ----------------------------------------------------------------------------------
+
+_CERTIFIABLE = ("solve", "singular", "check")
+
+
+def _claim_check_to_dict(check):
+    return {"name": check.name, "reported": check.reported, "found": check.found, "status": check.status,
+            "how": check.how}
+
+
+def certificate_to_dict(c):
+    """A :class:`~numag.certify.certificates.Certificate` as JSON (status, kind, box, backward error, rank, claim checks...)."""
+    return {"status": c.status, "kind": c.kind, "claim": c.claim, "center": encode_point(c.center),
+            "center_text": list(c.center_text), "radius": _encode_float(c.radius),
+            "radii": None if c.radii is None else [_encode_float(r) for r in c.radii], "digits": c.digits,
+            "digits_tried": [int(d) for d in c.digits_tried],
+            "method": c.method, "real": c.real, "backward_error": _encode_float(c.backward_error),
+            "residual_bound": _encode_float(c.residual_bound), "threshold": _encode_float(c.threshold),
+            "alpha": _encode_float(c.alpha), "alpha_certified": c.alpha_certified,
+            "alpha_radius": _encode_float(c.alpha_radius), "deflations": c.deflations,
+            "square_equations": [int(k) for k in c.square_equations], "chart": c.chart,
+            "zero_coordinates": [int(k) for k in c.zero_coordinates], "at_infinity": c.at_infinity,
+            "exact_coordinates": c.exact_coordinates, "minimal_polynomial": c.minimal_polynomial,
+            "exact_method": c.exact_method, "multiplicity": c.multiplicity,
+            "multiplicity_method": c.multiplicity_method,
+            "lower_singular_value": _encode_float(c.lower_singular_value), "rank_lower": c.rank_lower,
+            "rank_upper": c.rank_upper, "distance": _encode_float(c.distance), "distinct": c.distinct,
+            "claim_checks": [_claim_check_to_dict(k) for k in c.claim_checks],
+            "reason": c.reason, "notes": list(c.notes)}
+
+
+def certificate_from_dict(d):
+    """Rebuild a :class:`~numag.certify.certificates.Certificate` from :func:`certificate_to_dict` output."""
+    try:
+        if d["status"] not in STATUSES:
+            raise InputError(f"unknown certificate status {d['status']!r}")
+        checks = [ClaimCheck(k["name"], k["reported"], k["found"], ClaimStatus(k["status"]), k.get("how", ""))
+                  for k in d.get("claim_checks", [])]
+        radii = d.get("radii")
+        return Certificate(
+            status=Status(d["status"]), kind=Kind(d["kind"]), claim=d["claim"] and Claim(d["claim"]),
+            center=decode_point(d["center"]), center_text=list(d["center_text"]),
+            radius=_decode_float(d["radius"]), digits=int(d["digits"]), method=d["method"], real=d["real"],
+            backward_error=_decode_float(d["backward_error"]), residual_bound=_decode_float(d["residual_bound"]),
+            threshold=_decode_float(d.get("threshold")), alpha=_decode_float(d["alpha"]),
+            alpha_certified=bool(d["alpha_certified"]), alpha_radius=_decode_float(d["alpha_radius"]),
+            deflations=int(d["deflations"]), square_equations=list(d["square_equations"]), chart=d["chart"],
+            radii=None if radii is None else [_decode_float(r) for r in radii],
+            zero_coordinates=list(d.get("zero_coordinates", [])), at_infinity=bool(d.get("at_infinity", False)),
+            exact_coordinates=d["exact_coordinates"], minimal_polynomial=d["minimal_polynomial"],
+            exact_method=d.get("exact_method"), multiplicity=d.get("multiplicity"),
+            multiplicity_method=d.get("multiplicity_method", ""),
+            lower_singular_value=_decode_float(d["lower_singular_value"]), rank_lower=d.get("rank_lower"),
+            rank_upper=d.get("rank_upper"), distance=_decode_float(d.get("distance")), distinct=d["distinct"],
+            claim_checks=checks, digits_tried=list(d.get("digits_tried", [])), reason=d["reason"],
+            notes=list(d["notes"]))
+    except (KeyError, TypeError, ValueError) as err:
+        raise InputError(f"a certificate is malformed ({type(err).__name__}: {err})") from None
+
+
+def _not_certified(reason, point, digits):
+    return Certificate(Status.UNDECIDED, Kind.NUMERICAL, "", np.asarray(point, dtype=complex), [], None, digits,
+                       reason=reason)
+
+
+@dataclass
+class _Task:
+    """One point to certify (travels to worker processes)."""
+
+    claim: str                # "regular", "smooth", "singular" or "rank"
+    system: PolynomialSystem
+    point: np.ndarray
+    options: CertifyOptions
+    codimension: object = None
+    slices: int = 0
+    at_infinity: bool = False
+    multiplicity: object = None
+
+
+def _run_task(task):
+    if task.claim == "regular":
+        return certify_regular_zero(task.system, task.point, task.options, at_infinity=task.at_infinity,
+                                    multiplicity=task.multiplicity)
+    if task.claim == "smooth":
+        return certify_smooth_point(task.system, task.point, task.codimension, task.options)
+    if task.claim == "rank":
+        return certify_rank(task.system, task.point, task.options)
+    return certify_singular_point(task.system, task.point, task.codimension, task.options, slices=task.slices,
+                                  at_infinity=task.at_infinity)
+
+
+def _certify_batch(batch):
+    """Certify a batch of tasks (runs on workers)."""
+    return [_run_task(task) for task in batch]
+
+
+def _point_of(entry, key, system, at_infinity, where):
+    """A report's point, checked for its number of coordinates (one-line error naming where)."""
+    point = decode_point(entry[key])
+    expected = system.n_variables + (1 if at_infinity else 0)
+    if point.shape != (expected,):
+        raise InputError(f"{where}: the point has {len(point)} coordinates, expected {expected}")
+    if not np.all(np.isfinite(point)):
+        raise InputError(f"{where}: the point has non-finite coordinates")
+    return point
+
+
+def _singular_tasks(system, component, options, where):
+    """Tasks (or finished 'undecided' certificates) for the points of one singular component."""
+    at_infinity = bool(component["at_infinity"]) and not system.projective
+    points = [_point_of({"p": p}, "p", system, at_infinity, f"{where}, point {k}")
+              for k, p in enumerate(component["points"], 1)]
+    digits = options.digits
+    if component["kind"] == "non-reduced":
+        return [_not_certified("a generically non-reduced component of X: the equations cannot tell whether "
+                               "the variety is smooth there", p, digits) for p in points]
+    codimension = component.get("codimension")
+    if codimension is None:
+        if system.n_equations != 1:
+            return [_not_certified("the report gives no codimension for this component", p, digits)
+                    for p in points]
+        codimension = 1
+    dimension = int(component["dimension"])
+    return [_Task("singular", system, p, options, int(codimension), dimension, at_infinity) for p in points]
+
+
+def _check_task(system, verdict, options, where):
+    point = _point_of(verdict, "point", system, False, where)
+    codimension = verdict.get("codimension")
+    if verdict["verdict"] == "smooth" and codimension is not None:
+        return _Task("smooth", system, point, options, int(codimension))
+    if verdict["verdict"] == "singular" and codimension is not None:
+        return _Task("singular", system, point, options, int(codimension))
+    # no claim the certificate could prove (or no codimension to prove it with): the rank of J, proved
+    return _Task("rank", system, point, options)
+
+
+def _require(condition, where, what):
+    if not condition:
+        raise InputError(f"the report is damaged: {where} must be {what}")
+
+
+def _require_point(point, size, where):
+    _require(isinstance(point, list) and len(point) == size and all(
+        isinstance(pair, list) and len(pair) == 2 and all(
+            isinstance(v, (int, float)) and not isinstance(v, bool) and math.isfinite(v) for v in pair)
+        for pair in point), where, f"a list of {size} [real, imaginary] pairs of finite numbers")
+
+
+def _validated_for_certify(data, command, system):
+    """Check every field certification reads, so that a damaged report is refused naming the field."""
+    n = system.n_variables
+    def entries(key):
+        _require(isinstance(data.get(key), list) and all(isinstance(e, dict) for e in data[key]), f"'{key}'",
+                 "a list of objects")
+        return data[key]
+    def codimension(entry, where):
+        value = entry.get("codimension")
+        _require(value is None or (isinstance(value, int) and not isinstance(value, bool) and 0 <= value <= n),
+                 f"{where}'s 'codimension'", f"null or an integer from 0 to {n}")
+    if command == "solve":
+        for key, size in (("solutions", n), ("at_infinity", n if system.projective else n + 1)):
+            for k, entry in enumerate(entries(key), 1):
+                _require_point(entry.get("point"), size, f"'{key}' item {k}'s 'point'")
+    elif command == "singular":
+        for k, component in enumerate(entries("components"), 1):
+            where = f"component {k}"
+            _require(isinstance(component.get("at_infinity"), bool), f"{where}'s 'at_infinity'", "true or false")
+            _require(isinstance(component.get("kind"), str), f"{where}'s 'kind'", "text")
+            dimension = component.get("dimension")
+            _require(isinstance(dimension, int) and not isinstance(dimension, bool) and 0 <= dimension <= n,
+                     f"{where}'s 'dimension'", f"an integer from 0 to {n}")
+            codimension(component, where)
+            points = component.get("points")
+            _require(isinstance(points, list), f"{where}'s 'points'", "a list")
+            size = n + 1 if component["at_infinity"] and not system.projective else n
+            for j, point in enumerate(points, 1):
+                _require_point(point, size, f"{where}'s point {j}")
+    else:
+        for k, verdict in enumerate(entries("points"), 1):
+            _require_point(verdict.get("point"), n, f"point {k}'s 'point'")
+            _require(isinstance(verdict.get("verdict"), str), f"point {k}'s 'verdict'", "text")
+            codimension(verdict, f"point {k}")
+
+
+def certify_report(data, options=None, progress=None, executor=None):
+    """Certificates for the points of a saved report of ``solve``, ``singular`` or ``check``.
+
+    Nothing the report claims is trusted: its points are where to look, and its claims (a codimension,
+    a multiplicity, a point being at infinity, a verdict) are checked against the system; a claim that
+    does not hold is listed in the certificate's ``claim_checks`` and counted.
+
+    Parameters
+    ----------
+    data : dict
+        The JSON envelope (it is not modified).
+    options : CertifyOptions, optional
+    progress : callable, optional
+        Called with a one-line message as points are certified.
+    executor : numag.run.executor.Executor, optional
+        Runs the points in batches (worker processes, Dask); default in-process.
+
+    Returns
+    -------
+    dict
+        A copy with a ``certificate`` for each solution (``solve``), a ``certificates`` list
+        parallel to ``points`` for each component (``singular``), a ``certificate`` per point
+        (``check``: the verdict's, with the rank of J proved on its box; a rank certificate where the
+        verdict claims nothing), and a ``certification`` summary: counts by status and kind, claims
+        that failed, proved ranks, overlapping boxes (``all_distinct`` true when no two certified
+        boxes meet), digits and time.
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> from numag.singular.locus import singular_locus
+    >>> locus = singular_locus(parse_system(["y^2 - x^2*(x + 1)"], ["x", "y"]), seed=1)
+    >>> report = certify_report(singular_to_dict(locus, SingularOptions()))
+    >>> report["components"][0]["certificates"][0]["status"], report["certification"]["all_distinct"]
+    ('certified', True)
+    """
+    started = time.perf_counter()
+    options = (options or CertifyOptions()).validated()
+    command = data.get("command") if isinstance(data, dict) else None
+    if command not in _CERTIFIABLE:
+        raise InputError(f"certify needs a report of 'numag solve', 'numag singular' or 'numag check', "
+                         f"not of {command!r}")
+    system = _report_system(data, command)
+    _validated_for_certify(data, command, system)
+    data = copy.deepcopy(data)
+    # slots: (entry, key, space, task or finished certificate); space groups boxes for disjointness
+    slots = []
+    try:
+        if command == "solve":
+            for key, at_infinity in (("solutions", False), ("at_infinity", True)):
+                for k, entry in enumerate(data[key], 1):
+                    infinity = at_infinity and not system.projective
+                    point = _point_of(entry, "point", system, infinity, f"{key} {k}")
+                    task = _Task("regular", system, point, options, at_infinity=infinity,
+                                 multiplicity=None if infinity else entry.get("multiplicity"))
+                    slots.append((entry, "certificate", "infinity" if infinity else "affine", task))
+        elif command == "singular":
+            for component in data["components"]:
+                component["certificates"] = []
+                space = "infinity" if component["at_infinity"] and not system.projective else "affine"
+                where = f"component {component.get('id')}"
+                for task in _singular_tasks(system, component, options, where):
+                    slots.append((component, "certificates", space if component["dimension"] == 0 else None,
+                                  task))
+        else:
+            for k, verdict in enumerate(data["points"], 1):
+                slots.append((verdict, "certificate", None, _check_task(system, verdict, options, f"point {k}")))
+    except (KeyError, TypeError) as err:
+        raise InputError(f"the report lacks or garbles the key {err}") from None
+    pending = [k for k, slot in enumerate(slots) if isinstance(slot[3], _Task)]
+    results = {k: slot[3] for k, slot in enumerate(slots) if not isinstance(slot[3], _Task)}
+    size = 4
+    batches = [pending[i:i + size] for i in range(0, len(pending), size)]
+    owned = executor is None
+    executor = executor or InProcess()
+    try:
+        for position, certificates in executor.run(_certify_batch, [[slots[k][3] for k in b] for b in batches]):
+            for k, certificate in zip(batches[position], certificates):
+                results[k] = certificate
+            if progress is not None:
+                progress(f"certified {len(results)} of {len(slots)} point(s)")
+        for failure in executor.failures:
+            for k in batches[failure.index]:
+                results[k] = _not_certified(f"certification failed on a worker: {failure.error}",
+                                            slots[k][3].point, options.digits)
+    finally:
+        if owned:
+            executor.close()
+    spaces = {}
+    for k, (entry, key, space, _) in enumerate(slots):
+        certificate = results[k]
+        if space is not None:
+            spaces.setdefault(space, []).append(certificate)
+    overlapping = sum(len(overlapping_pairs(group)) for group in spaces.values())
+    every = [results[k] for k in range(len(slots))]
+    for k, (entry, key, _, _) in enumerate(slots):
+        encoded = certificate_to_dict(results[k])
+        if key == "certificates":
+            entry[key].append(encoded)
+        else:
+            entry[key] = encoded
+    counts = {status: sum(c.status == status for c in every) for status in STATUSES}
+    kinds = {kind: sum(c.status == "certified" and c.kind == kind for c in every) for kind in ("numerical", "exact")}
+    failed_claims = [f"{check.name}: reported {check.reported}, {check.status} ({check.how})"
+                     for c in every for check in c.failed_claims]
+    data["certification"] = {
+        "digits": options.digits, "max_digits": options.limit, "exact_attempted": options.exact,
+        "counts": counts, "certified_by_kind": kinds,
+        "claims_failed": len(failed_claims), "failed_claims": failed_claims,
+        "ranks": {"lower_bound_proved": sum(c.rank_lower is not None for c in every),
+                  "exact": sum(c.rank_lower is not None and c.rank_lower == c.rank_upper for c in every)},
+        "overlapping_pairs": overlapping, "all_distinct": overlapping == 0 if command != "check" else None,
+        "alpha_constant": ALPHA_ZERO_TEXT, "seconds": time.perf_counter() - started,
+        "executor": executor.describe(),
+        "meaning": ("numerical: a box provably holding exactly one zero of a square subsystem, every other "
+                    "equation of the claim bounded over it below the threshold relative to its terms "
+                    "(backward error); exact: proved for the exact equations (recognised coordinates, "
+                    "root separation). Being singular is not an open condition: only exact certificates "
+                    "prove it. A report's claims are checked, not trusted (claim_checks)."),
+    }
+    return data
+
+
+def read_report(path):
+    """Load a saved JSON report (size-limited, strict JSON), with one-line errors naming the file."""
+    data = loads_json(read_limited(path, MAX_INPUT_BYTES, "report"), os.fspath(path))
+    if not isinstance(data, dict):
+        raise InputError(f"{os.fspath(path)}: not a numag report (a JSON object is expected)")
+    return data
+
+
+def write_report(path, data):
+    """Write a report where the user asked: regular files are replaced atomically keeping their mode,
+    links are followed to their target, devices and pipes are written through (see :func:`numag.system.safeio.write_file`)."""
+    write_file(path, (dumps(data) + "\n").encode("utf-8"))
+
+
+# --- compare -------------------------------------------------------------------------------------
+
+def _plain(value):
+    if isinstance(value, (np.integer,)):
+        return int(value)
+    if isinstance(value, (np.floating,)):
+        return float(value)
+    return value
+
+
+def compare_to_dict(comparison):
+    """A :class:`~numag.app.compare.Comparison` as the JSON envelope (numag's locus included)."""
+    reference = comparison.reference
+    locus_data = singular_to_dict(comparison.locus, SingularOptions())
+    return {
+        "numag_version": __version__,
+        "command": "compare",
+        "seed": comparison.locus.seed,
+        "system": system_to_dict(comparison.system),
+        "paths": locus_data["paths"],
+        "components": locus_data["components"],
+        "verdict": comparison.verdict,
+        "rows": [{"quantity": r.quantity, "numag": _plain(r.numag), "exact": _plain(r.exact), "agree": r.agree}
+                 for r in comparison.rows],
+        "max_distance": _encode_float(comparison.max_distance),
+        "digits_of_agreement": _encode_float(comparison.digits),
+        "numag_seconds": comparison.numag_seconds,
+        "reference_seconds": comparison.reference_seconds,
+        "ratio": _encode_float(comparison.ratio),
+        "reference": {"status": reference.status, "message": reference.message, "wall_seconds": reference.seconds,
+                      "compute_seconds": reference.compute_seconds,
+                      "variety_dimension": reference.variety_dimension, "variety_degree": reference.variety_degree,
+                      "component_degrees": reference.component_degrees,
+                      "codimension": reference.codimension, "minors": reference.minors,
+                      "singular_dimension": reference.singular_dimension,
+                      "singular_points": reference.singular_points,
+                      "real_singular_points": reference.real_singular_points,
+                      "scheme_length": reference.scheme_length, "singular_degree": reference.singular_degree,
+                      "chart": reference.chart, "exact_points": reference.exact_points,
+                      "points": None if reference.points is None else [encode_point(p) for p in reference.points]},
+        "scope": comparison.scope,
+        "notes": list(comparison.notes),
+        "caution": CAUTION,
+    }

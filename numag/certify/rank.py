@@ -1,0 +1,196 @@
+"""Rank and multiplicity: an interval lower bound on sigma_r of the Jacobian over a box (rank J >= r),
+numerical ranks in units of the point and in absolute units, the codimension sampled at points of X
+near a point, and the dimension of the local dual space (Macaulay matrices; Dayton and Zeng 2005) as
+the multiplicity of a zero.
+"""
+
+import itertools
+import math
+
+import mpmath
+import numpy as np
+import scipy.linalg
+
+from ..system.exact import ExactCoefficient
+from ..system.polynomial import PolynomialSystem
+from ..numeric.evaluate import BatchEvaluator, PrecisionEvaluator
+from ..numeric.refine import project_to_variety
+from .intervals import _SINGULAR, _frobenius_upper, _iv_box, _to_iv_matrix
+from .records import _float_up, _guarded, _parse_center, _text, working_digits
+from .square import _DEFLATION_THRESHOLD, _absolute_jacobian, _coordinate_scales, _equilibrated
+
+
+def _taylor(polynomial, center, scales):
+    """Taylor coefficients of the polynomial at ``center`` in u (x = center + scales * u), as {exponent: mpc}."""
+    mp = mpmath.mp
+    result = {}
+    for row, c in zip(polynomial.exponents, polynomial.coefficients):
+        value = c.to_context(mp) if isinstance(c, ExactCoefficient) else mp.mpc(complex(c))
+        factors = []
+        for j, a in enumerate(row):
+            a = int(a)
+            factors.append([(g, math.comb(a, g) * center[j] ** (a - g) * scales[j] ** g) for g in range(a + 1)])
+        for combination in itertools.product(*factors):
+            key = tuple(g for g, _ in combination)
+            term = value
+            for _, factor in combination:
+                term *= factor
+            result[key] = result.get(key, mp.mpc(0)) + term
+    return result
+
+
+def _dual_multiplicity(polynomials, center, max_order=12, max_columns=4000):
+    """Multiplicity of an isolated zero: dimension of the local dual space (Macaulay matrices).
+
+    Dayton and Zeng, "Computing the multiplicity structure in solving polynomial systems", ISSAC 2005:
+    the functionals sum c_a d^a/a! at the zero that vanish on every (x - z)^b f_i with |b| < k form the
+    dual space of order k; its dimension stops growing exactly at the multiplicity. Ranks in double
+    precision of the matrices built from Taylor coefficients at the working precision; numerical.
+    """
+    n = len(center)
+    if n == 0:
+        return 1
+    scales = _coordinate_scales(center, 16)
+    taylors = []
+    for p in polynomials:
+        coefficients = _taylor(p, center, scales)
+        largest = max((abs(v) for v in coefficients.values()), default=0)
+        if largest == 0:
+            continue
+        taylors.append({k: complex(v / largest) for k, v in coefficients.items()})
+    previous = None
+    for order in range(1, max_order + 1):
+        columns = [e for total in range(order + 1) for e in _exponents_of_degree(n, total)]
+        if len(columns) > max_columns:
+            return None
+        index = {e: k for k, e in enumerate(columns)}
+        rows = []
+        for taylor in taylors:
+            for total in range(order):
+                for shift in _exponents_of_degree(n, total):
+                    row = np.zeros(len(columns), dtype=complex)
+                    for e, v in taylor.items():
+                        target = tuple(a + b for a, b in zip(e, shift))
+                        if sum(target) <= order:
+                            row[index[target]] = v
+                    rows.append(row)
+        matrix = np.array(rows) if rows else np.zeros((0, len(columns)))
+        values = np.linalg.svd(matrix, compute_uv=False) if len(rows) else np.zeros(0)
+        rank = int(np.sum(values > 1e-8 * (values[0] if len(values) else 1.0)))
+        nullity = len(columns) - rank
+        if previous is not None and nullity == previous:
+            return nullity
+        previous = nullity
+    return None
+
+
+def _exponents_of_degree(n, total):
+    if n == 1:
+        return [(total,)]
+    return [(first,) + rest for first in range(total, -1, -1) for rest in _exponents_of_degree(n - 1, total - first)]
+
+
+def _rank_lower_bound(polynomials, center, radii, r):
+    """Interval lower bound on sigma_r(J) over the box (None when the Neumann bound fails)."""
+    if r == 0:
+        return mpmath.mp.inf
+    mp, iv = mpmath.mp, mpmath.iv
+    evaluator = PrecisionEvaluator(polynomials)
+    _, jac_center = evaluator.evaluate(center, mp)
+    point = np.array([complex(c) for c in center])
+    _, scaled, _ = _equilibrated(polynomials, point)
+    if not np.all(np.isfinite(scaled)):
+        return None
+    _, _, row_pivots = scipy.linalg.qr(scaled.T, pivoting=True)
+    rows = sorted(int(k) for k in row_pivots[:r])
+    _, _, col_pivots = scipy.linalg.qr(scaled[rows], pivoting=True)
+    cols = sorted(int(k) for k in col_pivots[:r])
+    sub = mp.matrix(r, r)
+    for a, i in enumerate(rows):
+        for b, j in enumerate(cols):
+            sub[a, b] = jac_center[i, j]
+    try:
+        y = _to_iv_matrix(mp.inverse(sub))
+    except _SINGULAR:
+        return None
+    _, jac_box = evaluator.evaluate(_iv_box(center, radii), iv)
+    sub_box = iv.matrix(r, r)
+    for a, i in enumerate(rows):
+        for b, j in enumerate(cols):
+            sub_box[a, b] = jac_box[i, j]
+    defect = _frobenius_upper(iv.eye(r) - y * sub_box)
+    if not defect < 1:
+        return None
+    # sigma_min(M) >= (1 - |I - Y M|) / |Y| for every M in the box; sigma_r(J) >= sigma_min(M)
+    return (1 - defect) / _frobenius_upper(y) * (1 - 8 * mp.eps)
+
+
+def _numerical_ranks(polynomials, point):
+    """Numerical ranks of J in two units: columns by each coordinate's size (blind where a coordinate is
+    near 0 but its natural unit is not: sin of a small angle) and columns by 1 (blind to badly scaled
+    variables). (smaller, larger): a rank seen in either is there; a drop must show in one of them."""
+    point = np.asarray(point, dtype=complex)
+    _, scaled, _ = _equilibrated(polynomials, point)
+    absolute = _absolute_jacobian(polynomials, point)
+    if not (np.all(np.isfinite(scaled)) and np.all(np.isfinite(absolute))):
+        return 0, 0
+    ranks = [int(np.sum(np.linalg.svd(a, compute_uv=False) > _DEFLATION_THRESHOLD)) for a in (scaled, absolute)]
+    return min(ranks), max(ranks)
+
+
+def _proved_rank(polynomials, certificate, start):
+    """Largest r <= start with sigma_r(J) > 0 proved over the certificate's box: (r, bound)."""
+    with working_digits(_guarded(certificate.digits)):
+        center = [_parse_center(v) for v in certificate.center_text]
+        radii = [mpmath.mp.mpf(r) for r in certificate.radii]
+        for r in range(start, 0, -1):
+            bound = _rank_lower_bound(polynomials, center, radii, r)
+            if bound is not None and bound > 0:
+                return r, bound
+    return 0, None
+
+
+def _sampled_codimension(polynomials, point, seed, samples=8):
+    """The codimension of X near a point, numerically: points of X sampled nearby, least rank of J there.
+
+    Random points at a relative distance 1e-3 are moved onto X; the rank of J at a generic point of a
+    reduced component equals its codimension, and the least one among the samples is that of the
+    largest component through the point. None when fewer than three samples reach X away from the point.
+    """
+    point = np.asarray(point, dtype=complex)
+    n = len(point)
+    rng = np.random.default_rng(seed)
+    radius = 1e-3 * (1 + float(np.max(np.abs(point), initial=0.0)))
+    directions = rng.standard_normal((samples, n)) + 1j * rng.standard_normal((samples, n))
+    directions /= np.linalg.norm(directions, axis=1)[:, None]
+    numeric = [p.numeric() if p.is_exact else p for p in polynomials]
+    system = PolynomialSystem([f"x{j}" for j in range(n)], numeric)
+    projected = project_to_variety(system, BatchEvaluator(numeric), point[None, :] + radius * directions)
+    ranks = [_numerical_ranks(numeric, q)[1] for q, ok in zip(projected.points, projected.converged)
+             if ok and np.linalg.norm(q - point) >= 0.1 * radius]
+    if len(ranks) < 3:
+        return None
+    return min(ranks)
+
+
+class _BoxView:
+    """A box as ``_proved_rank`` reads it: centre texts, radii and the digits they were made at."""
+
+    def __init__(self, center_text, radii, digits):
+        self.center_text, self.radii, self.digits = list(center_text), list(radii), digits
+
+
+def _chart_view(certificate, chart):
+    """The certificate's box without its chart coordinate."""
+    keep = [j for j in range(len(certificate.center_text)) if j != chart]
+    return _BoxView([certificate.center_text[j] for j in keep], [certificate.radii[j] for j in keep],
+                    certificate.digits)
+
+
+def _box_around(point, digits):
+    """A box of radius 10^-(digits - 3) times each coordinate's size around a point (no claim about it)."""
+    with working_digits(_guarded(digits)):
+        center = [mpmath.mp.mpc(v) for v in point]
+        scales = _coordinate_scales(center, digits)
+        radii = [_float_up(mpmath.mp.mpf(10) ** (-(digits - 3)) * s) for s in scales]
+        return _BoxView([_text(c, digits) for c in center], radii, digits)

@@ -1,0 +1,200 @@
+"""Grouping points that are the same point: neighbour search, then connected components.
+
+Endpoints of several paths that reach one singular solution, or the samples of
+one cluster, must be counted once with a multiplicity. Two affine points are
+neighbours when ``|a - b| <= tolerance * (1 + min(|a|, |b|))``: the radius is
+relative to each point, never to the largest one (one huge endpoint must not
+turn the neighbour search into all pairs). Two points of projective space are
+neighbours when their lines are close: ``|a/|a| - e^(i phi) b/|b||`` with the
+best phase, about the angle between the lines, is at most ``tolerance``. They
+are never compared through a normalisation by their largest coordinate, which
+flips between coordinates of nearly equal modulus and would count one point
+twice. Groups are the connected components of the neighbour graph, so a chain
+of close points is one group.
+
+Examples
+--------
+>>> import numpy as np
+>>> cluster_labels(np.array([[1.0], [1.0 + 1e-9], [2.0]]), 1e-6).tolist()
+[0, 0, 1]
+>>> a = np.array([1.0, 1.0 + 1e-13])       # one projective point, written two ways
+>>> cluster_labels(np.array([a / a[0], a / a[1]]), 1e-6, projective=True).tolist()
+[0, 0]
+"""
+
+import numpy as np
+from scipy.sparse import coo_matrix
+from scipy.sparse.csgraph import connected_components
+from scipy.spatial import cKDTree
+
+__all__ = ["cluster_labels", "groups", "normalize_projective", "projective_pivot", "line_distance"]
+
+#: A fixed chart for the neighbour search of projective points (any generic vector will do; the
+#: decision itself compares lines, so the answer does not depend on it).
+_CHART = np.random.default_rng(70_423).standard_normal(64) + 1j * np.random.default_rng(9_211).standard_normal(64)
+
+
+def cluster_labels(points, tolerance, projective=False):
+    """Label each point with its group number (groups numbered by first appearance).
+
+    Parameters
+    ----------
+    points : ndarray, shape (P, n), complex or real
+        Finite values only.
+    tolerance : float
+        Relative distance (affine) or distance between lines (projective) under which two
+        points are the same.
+    projective : bool, default False
+        Compare the rows as points of projective space (lines through 0).
+
+    Returns
+    -------
+    ndarray of int, shape (P,)
+
+    Notes
+    -----
+    Cost: building the tree O(P log P); each point's neighbours within its own radius, so
+    the work follows the number of close pairs.
+    """
+    points = np.asarray(points)
+    count = len(points)
+    if count == 0:
+        return np.zeros(0, dtype=np.int64)
+    points = points.reshape(count, -1)
+    if projective:
+        pairs = _close_lines(points.astype(complex), tolerance)
+    else:
+        pairs = _close_points(points, tolerance)
+    if len(pairs) == 0:  # every point alone (a regular run): each is its own group, in order
+        return np.arange(count, dtype=np.int64)
+    graph = coo_matrix((np.ones(len(pairs)), (pairs[:, 0], pairs[:, 1])), shape=(count, count))
+    _, components = connected_components(graph, directed=False)
+    # number the groups by their first member, so labels follow the input order
+    _, first = np.unique(components, return_index=True)
+    order = np.argsort(first, kind="stable")
+    renumber = np.empty(len(order), dtype=np.int64)
+    renumber[order] = np.arange(len(order))
+    return renumber[components]
+
+
+def _as_real(points):
+    if np.iscomplexobj(points):
+        return np.column_stack([points.real, points.imag]).astype(float)
+    return np.asarray(points, dtype=float)
+
+
+def _pairs_within(real, radii):
+    """Index pairs (i < j) with |p_i - p_j| <= radius_i, from each point's own ball."""
+    tree = cKDTree(real)
+    neighbours = tree.query_ball_point(real, r=radii, return_sorted=False)
+    sizes = np.fromiter((len(n) for n in neighbours), dtype=np.int64, count=len(neighbours))
+    if sizes.sum() <= len(real):  # only the points themselves
+        return np.zeros((0, 2), dtype=np.int64)
+    first = np.repeat(np.arange(len(real)), sizes)
+    second = np.fromiter((j for n in neighbours for j in n), dtype=np.int64, count=int(sizes.sum()))
+    keep = first < second
+    return np.column_stack([first[keep], second[keep]])
+
+
+def _close_points(points, tolerance):
+    real = _as_real(points)
+    norms = np.linalg.norm(real, axis=1)
+    pairs = _pairs_within(real, tolerance * (1 + norms))
+    if len(pairs):
+        close = np.linalg.norm(real[pairs[:, 0]] - real[pairs[:, 1]], axis=1) <= tolerance * (
+            1 + np.minimum(norms[pairs[:, 0]], norms[pairs[:, 1]]))
+        pairs = pairs[close]
+    return pairs
+
+
+def _close_lines(points, tolerance):
+    size = points.shape[1]
+    chart = _CHART[:size] if size <= len(_CHART) else np.random.default_rng(size).standard_normal(size) + 0j
+    with np.errstate(all="ignore"):
+        charted = points / (points @ chart)[:, None]
+    finite = np.all(np.isfinite(charted), axis=1)
+    charted[~finite] = 0.0  # a point on the chart's hyperplane: compared with everyone below
+    norms = np.linalg.norm(charted, axis=1)
+    # Within angle theta of a line, chart points move by at most about 2 theta (1 + |y|)^2 |chart|.
+    radii = 4 * tolerance * np.linalg.norm(chart) * (1 + norms) ** 2
+    radii[~finite] = np.inf
+    pairs = _pairs_within(_as_real(charted), radii)
+    if len(pairs):
+        distance = line_distance(points[pairs[:, 0]], points[pairs[:, 1]])
+        pairs = pairs[distance <= tolerance]
+    return pairs
+
+
+def line_distance(a, b):
+    """Distance between the lines through rows of ``a`` and ``b``: min over phases of |a/|a| - e^(i phi) b/|b||.
+
+    About the angle between the lines when it is small; 0 for the same line, at most sqrt(2).
+
+    Examples
+    --------
+    >>> float(line_distance(np.array([[1.0, 2.0]]), np.array([[-3j, -6j]]))[0]) < 1e-15
+    True
+    """
+    a = np.atleast_2d(np.asarray(a, dtype=complex))
+    b = np.atleast_2d(np.asarray(b, dtype=complex))
+    a = a / np.linalg.norm(a, axis=1, keepdims=True)
+    b = b / np.linalg.norm(b, axis=1, keepdims=True)
+    inner = np.sum(a.conj() * b, axis=1)
+    phase = np.where(np.abs(inner) > 0, inner.conj() / np.maximum(np.abs(inner), 1e-300), 1.0)
+    return np.linalg.norm(a - phase[:, None] * b, axis=1)
+
+
+def projective_pivot(points):
+    """The coordinate of largest modulus of each homogeneous point, the lowest index on near-ties (within
+    1e-12 relative): the chart a projective point is written in.
+
+    Parameters
+    ----------
+    points : array_like, shape (n,) or (P, n)
+
+    Returns
+    -------
+    int or ndarray of int, shape (P,)
+
+    Examples
+    --------
+    >>> projective_pivot([1.0, -2.0, 2.0]), projective_pivot([[3.0, 1.0], [0.0, 1j]]).tolist()
+    (1, [0, 1])
+    """
+    moduli = np.abs(np.asarray(points, dtype=complex))
+    if moduli.ndim == 1:
+        return int(np.argmax(moduli >= moduli.max() * (1 - 1e-12)))
+    return np.argmax(moduli >= moduli.max(axis=1, keepdims=True) * (1 - 1e-12), axis=1)
+
+
+def normalize_projective(points):
+    """Divide homogeneous points by their coordinate of largest modulus (lowest index on near-ties).
+
+    For display only: two points are compared as lines (:func:`line_distance`), never
+    through this normalisation, which flips between coordinates of nearly equal modulus.
+
+    Parameters
+    ----------
+    points : array_like, shape (n,) or (P, n)
+
+    Examples
+    --------
+    >>> normalize_projective(np.array([1.0, -2.0, 2.0]))
+    array([-0.5+0.j,  1. -0.j, -1. +0.j])
+    """
+    points = np.asarray(points, dtype=complex)
+    single = points.ndim == 1
+    points = np.atleast_2d(points)
+    pivot = projective_pivot(points)
+    result = points / points[np.arange(len(points)), pivot][:, None]
+    return result[0] if single else result
+
+
+def groups(labels):
+    """The member indices of each label, in label order."""
+    labels = np.asarray(labels)
+    if len(labels) == 0:
+        return []
+    order = np.argsort(labels, kind="stable")  # stable: members stay in increasing order
+    bounds = np.searchsorted(labels[order], np.arange(1, int(labels.max()) + 1))
+    return np.split(order, bounds)

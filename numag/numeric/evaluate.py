@@ -1,0 +1,333 @@
+"""Evaluation of polynomial systems and their Jacobians.
+
+Two paths:
+
+* :class:`BatchEvaluator` evaluates F and its Jacobian J at P points at once in
+  complex double precision. Everything that does not depend on the points is
+  precomputed: the union of the monomials of F and of its partial derivatives,
+  and one coefficient matrix mapping monomial values to (F, J). A call builds
+  a power table per variable, gathers the monomial values, and does one matrix
+  product. There is no Python loop over points, terms or variables.
+* :class:`PrecisionEvaluator` evaluates at one point in an mpmath context
+  (``mp`` at any number of digits, or ``iv`` for interval enclosures),
+  with exact coefficients converted at that precision.
+
+Examples
+--------
+>>> import numpy as np
+>>> from numag.system.parse import parse_system
+>>> system = parse_system(["x^2 + y^2 - 1", "x*y"], ["x", "y"])
+>>> values, jacobian = BatchEvaluator(system.polynomials).evaluate(np.array([[1.0, 2.0]]))
+>>> values.real
+array([[4., 2.]])
+>>> jacobian[0].real
+array([[2., 4.],
+       [2., 1.]])
+"""
+
+import numpy as np
+
+from ..errors import InputError
+from ..run.executor import check_memory
+
+__all__ = ["BatchEvaluator", "PrecisionEvaluator", "TermSizes"]
+
+class BatchEvaluator:
+    """Evaluate polynomials and their Jacobian at many points at once (complex double).
+
+    Parameters
+    ----------
+    polynomials : sequence of Polynomial
+        All in the same number of variables.
+    spare_columns : int, default 0
+        Zero columns appended to the output of :meth:`raw`.
+
+    Attributes
+    ----------
+    n_equations, n_variables : int
+    monomials : ndarray, shape (K, n_variables)
+        The union of the monomials of the polynomials and of their derivatives.
+
+    Notes
+    -----
+    Cost per call: building the power table (P n d), gathering the monomials
+    (P K s with s the largest number of distinct variables in one monomial) and
+    one product (P K m (n + 1)).
+    """
+
+    def __init__(self, polynomials, spare_columns=0):
+        polynomials = list(polynomials)
+        if not polynomials:
+            raise InputError("nothing to evaluate: no polynomials")
+        n = polynomials[0].n_variables
+        if any(p.n_variables != n for p in polynomials):
+            raise InputError("all polynomials must have the same number of variables")
+        self.n_equations, self.n_variables = len(polynomials), n
+        # the table below has a column per monomial of F (at least): refuse a hopeless size before building it
+        distinct = len(np.unique(np.vstack([p.exponents for p in polynomials] + [np.zeros((1, n), dtype=np.int64)]),
+                                 axis=0))
+        check_memory(2 * 16 * (self.n_equations * (n + 1) + spare_columns) * distinct,
+                     f"the evaluation table of {self.n_equations} equations in {n} variables")
+        rows = []  # (row of the output, exponents, coefficients)
+        for i, p in enumerate(polynomials):
+            rows.append((i, p.exponents, p.numeric_coefficients()))
+        for i, p in enumerate(polynomials):
+            # derivatives straight from the term arrays: lowering e_j by one maps the terms with
+            # e_j > 0 one-to-one, so nothing needs merging (building Polynomial objects for the
+            # n m derivatives was most of the set-up time of a run)
+            coefficients = p.numeric_coefficients()
+            for j in range(n):
+                powers = p.exponents[:, j]
+                has = powers > 0
+                lowered = p.exponents[has].copy()
+                lowered[:, j] -= 1
+                rows.append((self.n_equations + i * n + j, lowered, coefficients[has] * powers[has]))
+        all_exponents = np.vstack([e for _, e, _ in rows] + [np.zeros((1, n), dtype=np.int64)])
+        self.monomials, inverse = np.unique(all_exponents, axis=0, return_inverse=True)
+        inverse = inverse.reshape(-1)
+        n_rows, n_monomials = self.n_equations * (n + 1), len(self.monomials)
+        # dense (F, J) coefficient table and its transposed copy: refused before allocating when too large
+        check_memory(2 * 16 * (n_rows + spare_columns) * n_monomials,
+                     f"the evaluation table of {self.n_equations} equations in {n} variables")
+        matrix = np.zeros((n_rows, n_monomials), dtype=complex)
+        start = 0
+        for row, exponents, coefficients in rows:
+            stop = start + len(exponents)
+            np.add.at(matrix[row], inverse[start:stop], coefficients)
+            start = stop
+        # spare zero columns at the end let a caller complete a Jacobian in place (see :meth:`raw`)
+        self.spare_columns = int(spare_columns)
+        matrix = np.vstack([matrix, np.zeros((self.spare_columns, n_monomials), dtype=complex)])
+        self._matrix_t = np.ascontiguousarray(matrix.T)
+        self.max_exponent = int(self.monomials.max()) if n and n_monomials else 0
+        self._build_gather()
+
+    def _build_gather(self):
+        """Per monomial, the flat power-table indices of its variables (padded with x^0)."""
+        n, width = self.n_variables, self.max_exponent + 1
+        support = (self.monomials > 0).sum(axis=1)
+        self.support = max(int(support.max()) if len(support) else 0, 1)
+        index = np.zeros((len(self.monomials), self.support), dtype=np.int64)  # 0 -> x_0^0 = 1
+        for k, row in enumerate(self.monomials):  # precomputation only, once per system
+            nonzero = np.nonzero(row)[0]
+            index[k, :len(nonzero)] = nonzero * width + row[nonzero]
+        self._gather_index = index
+
+    def power_table(self, points):
+        """Powers x_j^e for e = 0..max exponent, shape (P, n * (max_exponent + 1))."""
+        count = len(points)
+        width = self.max_exponent + 1
+        table = np.ones((count, self.n_variables, width), dtype=complex)
+        if width > 1:
+            table[:, :, 1:] = np.cumprod(np.broadcast_to(points[:, :, None],
+                                                     (count, self.n_variables, width - 1)), axis=2)
+        return table.reshape(count, self.n_variables * width)
+
+    def monomial_values(self, points):
+        """Values of every monomial of :attr:`monomials`, shape (P, K)."""
+        table = self.power_table(points)
+        values = table[:, self._gather_index[:, 0]]
+        for k in range(1, self.support):  # a loop over the support width (at most the degree), not variables
+            values *= table[:, self._gather_index[:, k]]
+        return values
+
+    def evaluate(self, points, jacobian=True):
+        """F and (optionally) J at each point.
+
+        Parameters
+        ----------
+        points : array_like, shape (P, n_variables)
+        jacobian : bool, default True
+
+        Returns
+        -------
+        values : ndarray, shape (P, n_equations)
+        jacobians : ndarray, shape (P, n_equations, n_variables)
+            Only when ``jacobian`` is true.
+        """
+        points = self._check(points)
+        monomials = self.monomial_values(points)
+        m = self.n_equations
+        if not jacobian:
+            return monomials @ self._matrix_t[:, :m]
+        out = monomials @ self._matrix_t
+        return out[:, :m], out[:, m:m + m * self.n_variables].reshape(len(points), m, self.n_variables)
+
+    def raw(self, points):
+        """One array (P, m + m n + spare_columns): the values, the Jacobian rows, then zeros.
+
+        Row-major: ``raw[:, m:m + m n]`` reshaped to (P, m, n) is the Jacobian, as a view,
+        so a caller can complete a larger matrix in place without copying.
+        """
+        return self.monomial_values(self._check(points)) @ self._matrix_t
+
+    def _check(self, points):
+        points = np.asarray(points, dtype=complex)
+        if points.ndim == 1:
+            points = points[None, :]
+        if points.ndim != 2 or points.shape[1] != self.n_variables:
+            raise InputError(f"points must have shape (P, {self.n_variables}), got {points.shape}")
+        return points
+
+
+class PrecisionEvaluator:
+    """Evaluate polynomials and their Jacobian at one point in an mpmath context.
+
+    Parameters
+    ----------
+    polynomials : sequence of Polynomial
+        Exact coefficients are converted at the context's working precision
+        (``iv`` gives enclosures of square roots).
+
+    Examples
+    --------
+    >>> import mpmath
+    >>> from numag.system.parse import parse_system
+    >>> system = parse_system(["x^2 - 2"], ["x"])
+    >>> with mpmath.mp.workdps(30):
+    ...     values, jac = PrecisionEvaluator(system.polynomials).evaluate([mpmath.sqrt(2)], mpmath.mp)
+    ...     print(abs(values[0]) < 1e-29, mpmath.nstr(jac[0, 0].real, 10))
+    True 2.828427125
+    """
+
+    def __init__(self, polynomials):
+        self.polynomials = list(polynomials)
+        self.n_equations = len(self.polynomials)
+        self.n_variables = self.polynomials[0].n_variables if self.polynomials else 0
+        self.derivatives = [[p.derivative(j) for j in range(self.n_variables)] for p in self.polynomials]
+        self._cache = {}
+
+    def _terms(self, polynomial, ctx):
+        key = (id(polynomial), id(ctx), ctx.prec)
+        if key not in self._cache:
+            if polynomial.is_exact:
+                coefficients = [c.to_context(ctx) for c in polynomial.coefficients]
+            else:
+                coefficients = [ctx.mpc(c.real, c.imag) for c in polynomial.coefficients]
+            exponents = [[(j, int(e)) for j, e in enumerate(row) if e] for row in polynomial.exponents]
+            self._cache[key] = list(zip(coefficients, exponents))
+        return self._cache[key]
+
+    def _value(self, polynomial, powers, ctx):
+        total = ctx.mpc(0)
+        for coefficient, factors in self._terms(polynomial, ctx):
+            term = coefficient
+            for j, e in factors:
+                term = term * powers[j][e]
+            total += term
+        return total
+
+    def evaluate(self, point, ctx, jacobian=True):
+        """F and optionally J at ``point`` in context ``ctx``.
+
+        Parameters
+        ----------
+        point : sequence
+            Coordinates (anything ``ctx.mpc`` accepts, or numbers of ``ctx``).
+        ctx : mpmath context
+            ``mpmath.mp`` or ``mpmath.iv``.
+        jacobian : bool, default True
+
+        Returns
+        -------
+        values : ctx.matrix, shape (m, 1)
+        jacobian : ctx.matrix, shape (m, n), only when ``jacobian`` is true
+        """
+        if len(point) != self.n_variables:
+            raise InputError(f"point has {len(point)} coordinates, expected {self.n_variables}")
+        coordinates = [value if isinstance(value, (ctx.mpc, ctx.mpf)) else ctx.mpc(value)
+                       for value in point]
+        top = max((p.degree for p in self.polynomials), default=0)
+        powers = []
+        for value in coordinates:
+            row = [ctx.mpc(1)]
+            for _ in range(max(top, 0)):
+                row.append(row[-1] * value)
+            powers.append(row)
+        values = ctx.matrix(self.n_equations, 1)
+        for i, p in enumerate(self.polynomials):
+            values[i] = self._value(p, powers, ctx)
+        if not jacobian:
+            return values
+        matrix = ctx.matrix(self.n_equations, self.n_variables)
+        for i, row in enumerate(self.derivatives):
+            for j, d in enumerate(row):
+                matrix[i, j] = self._value(d, powers, ctx)
+        return values, matrix
+
+
+class TermSizes:
+    """How large each equation's terms are at a point: the measure of residuals and Jacobian rows.
+
+    Rounding errors in evaluating f_i at x are proportional to the sizes of its terms,
+    sum_k |c_ik| |x^a_k|, not to f_i(x) itself; a residual or a singular value is
+    small only against that. The terms are sized at the reference point rho with
+    rho_j = max(|x_j|, 1) (affine: 1 is the unit of the problem, which scaling has made
+    the size of its numbers) or rho_j = max_k |X_k| (projective: the chart of the largest
+    coordinate). A bound by the coefficient norm times ||(1, x)||^d instead over-states
+    terms by up to sqrt(n + 1)^d: 1e15 for x^100 - 1 at a root of unity.
+
+    Homogenised affine equations (``homogenized``: X_0 the homogenising coordinate, first) use
+    the affine rule in the chart X_0 = 1: rho_0 = |X_0| and rho_j = max(|X_j|, |X_0|), except
+    near infinity (|X_0| below 1e-3 max_k |X_k|), where the chart degenerates and every
+    coordinate is sized as the largest. Treating every
+    coordinate as the largest one over-states terms in the small ones: a homotopy then accepted
+    an endpoint 7e-3 away from a solution as "on the target".
+
+    Parameters
+    ----------
+    polynomials : sequence of Polynomial
+    projective : bool, default False
+    homogenized : bool, default False
+        The polynomials are homogenised affine equations, X_0 first (implies projective).
+
+    Examples
+    --------
+    >>> import numpy as np
+    >>> from numag.system.parse import parse_system
+    >>> system = parse_system(["x^100 - 1", "x*y - 2"], ["x", "y"])
+    >>> sizes = TermSizes(system.polynomials)
+    >>> sizes.values(np.array([[1j, 2.0]])).real
+    array([[2., 4.]])
+    >>> np.round(sizes.gradients(np.array([[1j, 2.0]])).real, 3)
+    array([[100.   ,   2.236]])
+    """
+
+    def __init__(self, polynomials, projective=False, homogenized=False):
+        self.projective = bool(projective) or bool(homogenized)
+        self.homogenized = bool(homogenized)
+        self._evaluator = BatchEvaluator([p.absolute() for p in polynomials])
+
+    def reference(self, points):
+        """The point rho at which the terms are sized, shape (P, n)."""
+        moduli = np.abs(np.atleast_2d(points))
+        if self.homogenized:
+            top = moduli.max(axis=1, keepdims=True)
+            chart = np.maximum(moduli, moduli[:, :1])
+            # near infinity the chart X_0 = 1 degenerates: size every coordinate as the largest there
+            return np.where(moduli[:, :1] >= _CHART_FLOOR * top, chart, top)
+        if self.projective:
+            return np.broadcast_to(moduli.max(axis=1, keepdims=True), moduli.shape).copy()
+        return np.maximum(moduli, 1.0)
+
+    def both(self, points):
+        """Sizes of the values and of the gradient rows (2-norm over the variables), each (P, m)."""
+        values, jacobian = self._evaluator.evaluate(self.reference(points))
+        return _positive(values.real), _positive(np.linalg.norm(jacobian.real, axis=2))
+
+    def values(self, points):
+        """Size of each equation's terms at each point, shape (P, m)."""
+        return _positive(self._evaluator.evaluate(self.reference(points), jacobian=False).real)
+
+    def gradients(self, points):
+        """Size of each Jacobian row's terms at each point (2-norm over the variables), shape (P, m)."""
+        return self.both(points)[1]
+
+
+#: Below this |X_0| / max |X_k| a homogenised point is sized as a projective one (near infinity).
+_CHART_FLOOR = 1e-3
+
+
+def _positive(sizes):
+    """Sizes with zeros (a zero polynomial, a constant's gradient) replaced by 1, so they divide safely."""
+    return np.where(sizes > 0, sizes, 1.0)

@@ -1,0 +1,240 @@
+"""Numerical linear algebra: scaled singular values, numerical rank, least squares at any precision.
+
+A rank decision compares singular values with the *system's own scale at the
+point*, not with the largest singular value: a hypersurface's Jacobian has a
+single singular value, the very one being tested, so a rule relative to
+sigma_1 could never call it zero. Row i of J is divided by the size of its
+terms at the point (:class:`numag.numeric.evaluate.TermSizes`), which is what rounding
+errors in it are proportional to. Columns are left alone: a column scale would
+have to come from the point itself, and a column of J that vanishes exactly
+(the thing being tested) has no scale; the units of the variables are set
+beforehand, once per problem (:mod:`numag.numeric.scaling`).
+
+Examples
+--------
+>>> import numpy as np
+>>> jac = np.array([[[1e-12, 0.0]]])          # one point, one tiny row
+>>> scales = np.array([[1e-12]])               # ... of an equation with tiny coefficients
+>>> scaled_singular_values(jac, scales)
+array([[1.]])
+"""
+
+from dataclasses import dataclass, field
+
+import numpy as np
+
+from ..errors import LimitError
+
+__all__ = [
+    "DOUBLE_DIGITS",
+    "RankEvidence",
+    "working_epsilon",
+    "zero_tolerance",
+    "scaled_singular_values",
+    "numerical_rank",
+    "singular_value_gap",
+    "mp_singular_values",
+    "mp_right_singular_vectors",
+    "mp_least_squares",
+    "batched_least_squares",
+]
+
+#: Digits reported for IEEE double precision (53 bits is 15.95 decimal digits).
+DOUBLE_DIGITS = 16
+#: Tolerance factor: singular values below SAFETY * max(m, n) * eps count as zero.
+_ZERO_SAFETY = 1000.0
+
+
+def working_epsilon(digits):
+    """Unit roundoff for ``digits`` decimal digits (the double value when ``digits`` is 16)."""
+    if digits <= DOUBLE_DIGITS:
+        return float(np.finfo(float).eps)
+    return 10.0 ** (-digits)
+
+
+def zero_tolerance(digits, shape):
+    """Scaled singular values at or below this are zero at ``digits`` digits.
+
+    Parameters
+    ----------
+    digits : int
+        Working precision.
+    shape : tuple of int
+        Shape (m, n) of the Jacobian.
+
+    Examples
+    --------
+    >>> zero_tolerance(16, (2, 3)) < 1e-11
+    True
+    """
+    return _ZERO_SAFETY * max(shape) * working_epsilon(digits)
+
+
+def scaled_singular_values(jacobians, row_scales):
+    """Singular values of ``diag(1/row_scales) @ J`` for a stack of Jacobians.
+
+    Parameters
+    ----------
+    jacobians : ndarray, shape (P, m, n)
+    row_scales : ndarray, shape (P, m)
+
+    Returns
+    -------
+    ndarray, shape (P, min(m, n)), descending.
+    """
+    scaled = jacobians / row_scales[:, :, None]
+    return np.linalg.svd(scaled, compute_uv=False)
+
+
+def numerical_rank(singular_values, tolerance):
+    """Number of singular values above ``tolerance`` (last axis).
+
+    Examples
+    --------
+    >>> numerical_rank(np.array([1.0, 0.5, 1e-15]), 1e-12)
+    2
+    """
+    counts = np.sum(np.asarray(singular_values) > tolerance, axis=-1)
+    return int(counts) if np.ndim(counts) == 0 else counts
+
+
+def singular_value_gap(singular_values, rank):
+    """``sigma_rank / sigma_(rank+1)`` (1-based): how clearly the kept values stand above the dropped.
+
+    Returns ``inf`` when nothing was dropped or the first dropped value is 0,
+    and ``None`` when nothing was kept (rank 0: there is no kept value to compare).
+    """
+    values = [float(v) for v in singular_values]
+    if rank == 0:
+        return None
+    if rank >= len(values) or values[rank] == 0.0:
+        return float("inf")
+    return values[rank - 1] / values[rank]
+
+
+@dataclass
+class RankEvidence:
+    """Everything a rank decision rests on.
+
+    Attributes
+    ----------
+    rank : int
+        Numerical rank of the Jacobian.
+    singular_values : ndarray of float
+        Singular values of the row-scaled Jacobian, descending.
+    row_scales : ndarray of float
+        The scale each row was divided by.
+    tolerance : float
+        Scaled singular values at or below it count as zero.
+    gap : float or None
+        ``sigma_rank / sigma_(rank+1)`` (see :func:`singular_value_gap`).
+    digits : int
+        Decimal digits of the arithmetic that produced the values.
+    escalated : bool
+        True when the decision needed more than double precision or a refinement test.
+    point : ndarray of complex
+        The point the decision speaks about.
+    """
+
+    rank: int
+    singular_values: np.ndarray
+    row_scales: np.ndarray
+    tolerance: float
+    gap: object
+    digits: int
+    escalated: bool
+    point: np.ndarray = field(repr=False)
+
+
+# --- arbitrary precision ------------------------------------------------------------------------
+
+def _svd(ctx, matrix, **options):
+    """``ctx.svd_c`` that retries at higher working precision when its QR iteration does not converge.
+
+    mpmath's iteration has a fixed count; on matrices with entries of very different sizes (a
+    rank-drop system near a point where the rank drops further) it can run out. More digits
+    separate the values; the results are returned at the caller's precision.
+    """
+    for extra in (0, 1, 2):
+        try:
+            if extra == 0:
+                return ctx.svd_c(matrix, **options)
+            with ctx.extradps(ctx.dps * extra):
+                result = ctx.svd_c(matrix, **options)
+            return tuple(+part for part in result) if isinstance(result, tuple) else +result
+        except RuntimeError as error:
+            last = error
+    raise LimitError(f"the singular value decomposition did not converge at {3 * ctx.dps} digits ({last})")
+
+
+def mp_singular_values(matrix, ctx):
+    """Singular values (descending, as mpf) of an mpmath matrix."""
+    if matrix.rows == 0 or matrix.cols == 0:
+        return []
+    values = _svd(ctx, matrix, compute_uv=False)
+    return sorted((values[k] for k in range(values.rows)), reverse=True)
+
+
+def mp_right_singular_vectors(matrix, ctx):
+    """All right singular vectors of an mpmath matrix, as columns of an n x n matrix.
+
+    Columns are ordered by descending singular value; the columns beyond
+    min(m, n) span the kernel's complement-free part (singular value 0).
+    """
+    rows, cols = matrix.rows, matrix.cols
+    if rows < cols:  # pad with zero rows so that the decomposition returns a full V
+        padded = ctx.matrix(cols, cols)
+        for i in range(rows):
+            for j in range(cols):
+                padded[i, j] = matrix[i, j]
+        matrix = padded
+    _, values, vh = _svd(ctx, matrix, full_matrices=True)
+    order = sorted(range(values.rows), key=lambda k: -values[k])
+    basis = ctx.matrix(cols, cols)
+    for new, old in enumerate(order):
+        for i in range(cols):
+            basis[i, new] = ctx.conj(vh[old, i])
+    return basis
+
+
+def mp_least_squares(matrix, rhs, ctx, rcond):
+    """Minimum-norm least-squares solution of ``matrix @ x = rhs`` through the SVD.
+
+    Singular values below ``rcond * sigma_1`` are treated as zero, so the step
+    stays finite at rank-deficient points (where refinement near singular
+    points happens).
+    """
+    rows, cols = matrix.rows, matrix.cols
+    u, values, vh = _svd(ctx, matrix, full_matrices=False)
+    top = max((values[k] for k in range(values.rows)), default=ctx.mpf(0))
+    solution = ctx.matrix(cols, 1)
+    if top == 0:
+        return solution
+    for k in range(values.rows):
+        if values[k] <= rcond * top:
+            continue
+        coefficient = ctx.mpc(0)
+        for i in range(rows):
+            coefficient += ctx.conj(u[i, k]) * rhs[i]
+        coefficient /= values[k]
+        for j in range(cols):
+            solution[j] += ctx.conj(vh[k, j]) * coefficient
+    return solution
+
+
+def batched_least_squares(matrices, rhs, rcond=1e-12):
+    """Minimum-norm least-squares solutions for a stack of systems (double precision).
+
+    Parameters
+    ----------
+    matrices : ndarray, shape (P, m, n)
+    rhs : ndarray, shape (P, m)
+    rcond : float
+        Relative cut-off for small singular values.
+
+    Returns
+    -------
+    ndarray, shape (P, n)
+    """
+    pseudo_inverse = np.linalg.pinv(matrices, rcond=rcond)
+    return np.einsum("pnm,pm->pn", pseudo_inverse, rhs)

@@ -1,0 +1,395 @@
+"""Newton-type refinement: onto X in double precision (batched) and onto rank-drop points at any precision.
+
+* :func:`project_to_variety` moves many points onto X = V(F) at once with the
+  minimum-norm Gauss-Newton step (J may be wide, tall or rank deficient).
+* :func:`mp_gauss_newton` is the same iteration at any precision, for a
+  residual function supplied by the caller.
+* :class:`RankDropSystem` is F together with the condition "rank J(x) <= r",
+  written with an unknown kernel basis V = N0 + Nc W of dimension n - r:
+  F(x) = 0 and J(x) V = 0. N0 spans the numerical kernel at the start point and
+  Nc its complement, so V always has full column rank and no normalising
+  equation is needed. A solution is a point of X where the rank really drops.
+
+Examples
+--------
+>>> import numpy as np
+>>> from numag.system.parse import parse_system
+>>> from numag.numeric.evaluate import BatchEvaluator
+>>> system = parse_system(["x^2 + y^2 - 1"], ["x", "y"])
+>>> result = project_to_variety(system, BatchEvaluator(system.polynomials), np.array([[0.8, 0.61]]))
+>>> bool(result.converged[0]), round(float(np.abs(result.points[0, 0]) ** 2 + np.abs(result.points[0, 1]) ** 2), 12)
+(True, 1.0)
+"""
+
+from dataclasses import dataclass
+
+import numpy as np
+
+from ..system.polynomial import Polynomial, PolynomialSystem
+from .evaluate import BatchEvaluator, PrecisionEvaluator, TermSizes
+from .linalg import batched_least_squares, mp_least_squares, mp_right_singular_vectors, scaled_singular_values
+
+__all__ = ["ProjectionResult", "project_to_variety", "mp_gauss_newton", "RankDropSystem", "IsolationTest",
+           "scaled_residual_norm", "largest_scaled_residual"]
+
+#: Step fractions a precision Gauss-Newton step tries before it stops for lack of progress.
+_DAMPING = (1.0, 0.5, 0.25, 0.125, 1 / 16, 1 / 32)
+
+
+@dataclass
+class ProjectionResult:
+    """Result of :func:`project_to_variety` (one entry per point).
+
+    Attributes
+    ----------
+    points : ndarray, shape (P, n)
+        Refined points.
+    converged : ndarray of bool, shape (P,)
+        Scaled residual at or below the tolerance.
+    residuals : ndarray, shape (P,)
+        Euclidean norm of the scaled residuals (f_i over the size of its terms, :class:`TermSizes`)
+        at the refined point.
+    distances : ndarray, shape (P,)
+        Distance moved from the start point.
+    iterations : int
+        Iterations of the whole batch.
+    """
+
+    points: np.ndarray
+    converged: np.ndarray
+    residuals: np.ndarray
+    distances: np.ndarray
+    iterations: int
+
+
+def scaled_residual_norm(sizes, evaluator, points):
+    """Euclidean norm of the scaled residuals of F at each point, and the values and Jacobians.
+
+    The Euclidean norm (not the largest entry) is what a Gauss-Newton step decreases,
+    so it is the measure steps are accepted by.
+
+    Parameters
+    ----------
+    sizes : TermSizes
+        Of the system's polynomials.
+    evaluator : BatchEvaluator
+        Of the same polynomials.
+    points : ndarray, shape (P, n)
+    """
+    values, jacobians = evaluator.evaluate(points)
+    return np.linalg.norm(values / sizes.values(points), axis=1), values, jacobians
+
+
+def largest_scaled_residual(sizes, evaluator, points):
+    """Largest scaled residual (max norm) of the equations at each affine point (inf for NaN points).
+
+    Beside :func:`scaled_residual_norm` (the Euclidean norm, which Gauss-Newton decreases): the max norm
+    says whether every equation holds to a tolerance.
+
+    Parameters
+    ----------
+    sizes : TermSizes
+        Of the polynomials: each value is divided by the size of its terms.
+    evaluator : BatchEvaluator
+        Of the same polynomials.
+    points : ndarray, shape (P, n)
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> system = parse_system(["x - 1", "y - 3"], ["x", "y"])
+    >>> sizes, evaluator = TermSizes(system.polynomials), BatchEvaluator(system.polynomials)
+    >>> largest_scaled_residual(sizes, evaluator, [[1.0, 3.0], [np.nan, 0]])
+    array([ 0., inf])
+    """
+    points = np.atleast_2d(points)
+    result = np.full(len(points), np.inf)
+    good = np.all(np.isfinite(points), axis=1)
+    if np.any(good):
+        values = evaluator.evaluate(points[good], jacobian=False)
+        result[good] = np.max(np.abs(values) / sizes.values(points[good]), axis=1)
+    return result
+
+
+def project_to_variety(system, evaluator, points, tolerance=1e-13, max_iterations=30):
+    """Move points onto X with minimum-norm Gauss-Newton steps, all points at once.
+
+    Parameters
+    ----------
+    system : PolynomialSystem
+    evaluator : BatchEvaluator
+        Evaluator of ``system.polynomials``.
+    points : ndarray, shape (P, n)
+    tolerance : float
+        Target for the scaled residual.
+    max_iterations : int
+
+    Returns
+    -------
+    ProjectionResult
+    """
+    start = np.array(points, dtype=complex, copy=True)
+    current = start.copy()
+    sizes = TermSizes(system.polynomials, system.projective)
+    residual, values, jacobians = scaled_residual_norm(sizes, evaluator, current)
+    active = residual > tolerance
+    iterations = 0
+    while np.any(active) and iterations < max_iterations:
+        iterations += 1
+        index = np.nonzero(active)[0]
+        step = batched_least_squares(jacobians[index], values[index], rcond=1e-13)
+        better = np.zeros(len(index), dtype=bool)
+        # Accept a step only where it does not make things worse, halving it a few times first
+        # (at non-reduced solution sets the full step can overshoot); stop points that stall.
+        for damping in (1.0, 0.5, 0.25, 0.125):
+            trying = np.nonzero(~better)[0]
+            if len(trying) == 0:
+                break
+            rows = index[trying]
+            trial = current[rows] - damping * step[trying]
+            trial_residual, trial_values, trial_jacobians = scaled_residual_norm(sizes, evaluator, trial)
+            improved = np.isfinite(trial_residual) & (trial_residual < residual[rows])
+            accept = rows[improved]
+            current[accept] = trial[improved]
+            residual[accept] = trial_residual[improved]
+            values[accept] = trial_values[improved]
+            jacobians[accept] = trial_jacobians[improved]
+            better[trying[improved]] = True
+        tiny_step = np.linalg.norm(step, axis=1) <= 1e-15 * (1 + np.linalg.norm(current[index], axis=1))
+        active[index] = better & (residual[index] > tolerance) & ~tiny_step
+    distances = np.linalg.norm(current - start, axis=1)
+    return ProjectionResult(current, residual <= tolerance, residual, distances, iterations)
+
+
+def mp_gauss_newton(function, start, ctx, tolerance, max_iterations=80, anchored=False):
+    """Minimum-norm Gauss-Newton at the precision of ``ctx``.
+
+    Parameters
+    ----------
+    function : callable
+        ``function(z) -> (residual, jacobian)``, both ``ctx.matrix``; the residual
+        should already be scaled.
+    start : ctx.matrix, shape (N, 1)
+    ctx : mpmath context
+    tolerance : float
+        Stop when the residual norm is at or below it.
+    max_iterations : int
+    anchored : bool, default False
+        Penalise the distance from ``start`` with a weight equal to the current
+        residual norm. On solution sets where the equations are not reduced
+        (the partials of x^2 - y^2 z along the z-axis) plain Gauss-Newton
+        converges linearly and can slide along the set, far from the start;
+        the anchor keeps it near the start and fades as the residual vanishes.
+
+    Returns
+    -------
+    (ctx.matrix, bool, mpf, int)
+        Final point, whether the residual reached the tolerance, the residual norm
+        and the number of iterations.
+    """
+    current = start.copy()
+    residual, jacobian = function(current)
+    norm = ctx.norm(residual)
+    iterations = 0
+    rcond = ctx.mpf(10) ** (-(ctx.dps * 3) // 4)
+    size = start.rows
+    while norm > tolerance and iterations < max_iterations:
+        iterations += 1
+        if anchored:
+            weight = norm
+            rows = residual.rows
+            matrix = ctx.matrix(rows + size, size)
+            rhs = ctx.matrix(rows + size, 1)
+            for i in range(rows):
+                rhs[i] = residual[i]
+                for j in range(size):
+                    matrix[i, j] = jacobian[i, j]
+            for j in range(size):
+                matrix[rows + j, j] = weight
+                rhs[rows + j] = weight * (current[j] - start[j])
+            step = mp_least_squares(matrix, rhs, ctx, rcond=rcond)
+        else:
+            step = mp_least_squares(jacobian, residual, ctx, rcond=rcond)
+        # Near a multiple solution the Jacobian is nearly rank deficient and a full step can
+        # overshoot (a tacnode's rank-drop system stalled 2.6e-7 away): halve it before giving up.
+        for damping in _DAMPING:
+            trial = current - step * damping
+            trial_residual, trial_jacobian = function(trial)
+            trial_norm = ctx.norm(trial_residual)
+            if trial_norm < norm:  # progress (this also rejects non-finite values)
+                break
+        else:
+            break
+        current, residual, jacobian, norm = trial, trial_residual, trial_jacobian, trial_norm
+        if ctx.norm(step) <= ctx.eps * (1 + ctx.norm(current)):
+            break
+    return current, bool(norm <= tolerance), norm, iterations
+
+
+class RankDropSystem:
+    """F(x) = 0 together with rank J(x) <= ``rank``, as a least-squares system in (x, W).
+
+    Parameters
+    ----------
+    system : PolynomialSystem
+    rank : int
+        The largest rank allowed; the kernel basis has ``n - rank`` columns.
+    start : sequence of complex
+        The point whose numerical kernel gives N0 and whose scales fix the row weights.
+    ctx : mpmath context
+        Context the system is evaluated in (its precision may rise between calls).
+
+    Notes
+    -----
+    Unknowns: n coordinates and (n - k) k entries of W, with k = n - rank.
+    Equations: m values and m k entries of J(x) V. The derivative of J(x) V with
+    respect to x needs the second derivatives of F, which come from evaluating
+    the Jacobian of the flattened first derivatives.
+    """
+
+    def __init__(self, system, rank, start, ctx):
+        self.system = system
+        self.ctx = ctx
+        n, m = system.n_variables, system.n_equations
+        self.n, self.m = n, m
+        self.kernel_dimension = n - rank
+        self.values = PrecisionEvaluator(system.polynomials)
+        flat = [d for row in system.jacobian_polynomials() for d in row]
+        self.first_derivatives = PrecisionEvaluator(flat)
+        start_array = np.array([complex(v) for v in start])
+        value_sizes, row_sizes = TermSizes(system.polynomials, system.projective).both(start_array[None, :])
+        self.value_weights, self.row_weights = 1.0 / value_sizes[0], 1.0 / row_sizes[0]
+        point = [ctx.mpc(v) for v in start]
+        _, jacobian = self.values.evaluate(point, ctx)
+        scaled = ctx.matrix(m, n)
+        for i in range(m):
+            for j in range(n):
+                scaled[i, j] = jacobian[i, j] * self.row_weights[i]
+        basis = mp_right_singular_vectors(scaled, ctx)
+        k = self.kernel_dimension
+        self.kernel_start = basis[:, n - k:n] if k else ctx.matrix(n, 0)
+        self.complement = basis[:, 0:n - k] if n - k else ctx.matrix(n, 0)
+
+    @property
+    def n_unknowns(self):
+        """Coordinates plus the free entries of W."""
+        return self.n + (self.n - self.kernel_dimension) * self.kernel_dimension
+
+    def initial(self, point):
+        """Unknown vector (x, W = 0) for a point."""
+        z = self.ctx.matrix(self.n_unknowns, 1)
+        for j, v in enumerate(point):
+            z[j] = self.ctx.mpc(v)
+        return z
+
+    def kernel_basis(self, z):
+        """V = N0 + Nc W for the unknown vector ``z``."""
+        ctx, n, k = self.ctx, self.n, self.kernel_dimension
+        basis = self.kernel_start.copy() if k else ctx.matrix(n, 0)
+        if k and n - k:
+            w = ctx.matrix(n - k, k)
+            for a in range(n - k):
+                for b in range(k):
+                    w[a, b] = z[n + a * k + b]
+            basis = basis + self.complement * w
+        return basis
+
+    def __call__(self, z):
+        """Scaled residual and its Jacobian at the unknown vector ``z``."""
+        ctx, n, m, k = self.ctx, self.n, self.m, self.kernel_dimension
+        x = [z[j] for j in range(n)]
+        values, jacobian = self.values.evaluate(x, ctx)
+        _, second = self.first_derivatives.evaluate(x, ctx)  # rows (i, j), columns l: d2 f_i / dx_j dx_l
+        basis = self.kernel_basis(z)
+        rows = m + m * k
+        residual = ctx.matrix(rows, 1)
+        derivative = ctx.matrix(rows, self.n_unknowns)
+        for i in range(m):
+            residual[i] = values[i] * self.value_weights[i]
+            for j in range(n):
+                derivative[i, j] = jacobian[i, j] * self.value_weights[i]
+        if k:
+            product = jacobian * basis
+            jacobian_complement = jacobian * self.complement if n - k else None
+            for i in range(m):
+                weight = self.row_weights[i]
+                for q in range(k):
+                    row = m + i * k + q
+                    residual[row] = product[i, q] * weight
+                    for l in range(n):
+                        total = ctx.mpc(0)
+                        for j in range(n):
+                            total += second[i * n + j, l] * basis[j, q]
+                        derivative[row, l] = total * weight
+                    for a in range(n - k):
+                        derivative[row, n + a * k + q] = jacobian_complement[i, a] * weight
+        return residual, derivative
+
+    def point_of(self, z):
+        """The coordinates part of an unknown vector, as complex numbers."""
+        return np.array([complex(z[j]) for j in range(self.n)])
+
+
+class IsolationTest:
+    """Is a singular endpoint isolated? Slice through a point moved along the kernel of J.
+
+    The point is moved by a small distance along a random direction d of the
+    numerical kernel of J, and F is solved together with the hyperplane through
+    the moved point orthogonal to d. A positive-dimensional solution set through
+    the point (tangent to the kernel) crosses that hyperplane nearby, so Gauss-Newton
+    converges; at an isolated solution, however multiple, the hyperplane misses it
+    and the residual stays of the order of a power of the distance. "Not isolated" is
+    positive evidence (a nearby solution off the point was found at two distances);
+    "isolated" means eight tries found none. The second, larger distance (a tenth of the
+    point's size) is what tells a point of high multiplicity mu from a curve: at distance r its
+    residual is about r^mu, below double precision for r = 1e-3 once mu >= 5.
+
+    Parameters
+    ----------
+    system : PolynomialSystem
+        Affine, at least as many equations as unknowns near the point.
+    rng : numpy.random.Generator
+
+    Examples
+    --------
+    >>> import numpy as np
+    >>> from numag.system.parse import parse_system
+    >>> rng = np.random.default_rng(0)
+    >>> IsolationTest(parse_system(["x*y", "x*z"], ["x", "y", "z"]), rng).isolated(np.zeros(3))
+    False
+    >>> IsolationTest(parse_system(["x^2", "y", "z"], ["x", "y", "z"]), rng).isolated(np.zeros(3))
+    True
+    """
+
+    def __init__(self, system, rng):
+        self.system = system
+        self.rng = rng
+        self.evaluator = BatchEvaluator(system.polynomials)
+
+    def isolated(self, point):
+        system = self.system
+        _, jacobian = self.evaluator.evaluate(point[None, :])
+        scales = TermSizes(system.polynomials).gradients(point[None, :])
+        values = scaled_singular_values(jacobian, scales)[0]
+        small = system.n_variables - int(np.sum(values > 1e-6))
+        if small == 0:
+            return True
+        _, _, vh = np.linalg.svd(jacobian[0] / scales[0][:, None])
+        kernel = vh[len(vh) - small:].conj().T
+        for _ in range(8):  # a direction nearly across the set can miss it; eight random tries
+            weights = self.rng.standard_normal(small) + 1j * self.rng.standard_normal(small)
+            direction = kernel @ weights
+            direction /= np.linalg.norm(direction)
+            if all(self._meets(point, direction, relative) for relative in (1e-3, 1e-1)):
+                return False
+        return True
+
+    def _meets(self, point, direction, relative):
+        """Does X meet the hyperplane orthogonal to ``direction`` at ``relative`` distance, near the point?"""
+        radius = relative * (1 + np.linalg.norm(point))
+        moved = point + radius * direction
+        normal = direction.conj()  # hyperplane conj(d) . x = conj(d) . moved
+        sliced = PolynomialSystem(self.system.variables, [p.numeric() for p in self.system.polynomials]
+                                  + [Polynomial.linear(normal, -complex(normal @ moved))])
+        result = project_to_variety(sliced, BatchEvaluator(sliced.polynomials), moved[None, :], max_iterations=60)
+        return bool(result.converged[0] and np.linalg.norm(result.points[0] - point) <= 10 * radius)

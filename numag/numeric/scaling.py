@@ -1,0 +1,203 @@
+"""Units for the numerical work: scale the variables and equations so that coefficients are near 1.
+
+Every threshold numag uses (rank, residual, clustering, trace, membership, "at infinity") is
+relative to numbers of order one. A linkage in millimetres has constants like 90000, a circle of
+radius 1e-12 has the constant 1e-24: measured against those, the thresholds decide wrongly. So
+before any numerical work the problem is rewritten in units of its own (Meintjes and Morgan,
+"A methodology for solving chemical equilibrium systems", Appl. Math. Comput. 1987; Morgan,
+"Solving Polynomial Systems Using Continuation for Engineering and Scientific Problems",
+Prentice-Hall 1987, chapter on scaling):
+
+    x_j = 10^(c_j) y_j,        g_i(y) = 10^(r_i) f_i(10^c y),
+
+with integers c_j and r_i chosen by linear least squares so that
+log10|a_ik| + r_i + sum_j e_ikj c_j is as close to 0 as possible over all terms a_ik x^e_ik.
+The minimum-norm solution is rounded to integers: powers of ten keep exact (rational) input
+exact, and a change of units by a power of ten changes the solution by exactly that power, so
+the scaled problem, and with it every decision, is the same in millimetres and in metres.
+
+Points are reported in the user's coordinates; :class:`Scaling` maps them both ways, together
+with slicing hyperplanes and homogeneous points at infinity.
+
+Examples
+--------
+>>> from numag.system.parse import parse_system
+>>> system = parse_system(["x^2 + y^2 - 1/10^24"], ["x", "y"])
+>>> scaling = Scaling.balancing(system)
+>>> scaling.variable_exponents, scaling.equation_exponents
+((-12, -12), (24,))
+>>> scaling.scale_system(system).to_texts()
+['x^2 + y^2 - 1']
+"""
+
+from dataclasses import dataclass
+from fractions import Fraction
+
+import numpy as np
+from scipy.sparse import csr_matrix
+from scipy.sparse.linalg import lsqr
+
+from ..errors import InputError
+from ..system.exact import ExactCoefficient
+from ..system.polynomial import Polynomial, PolynomialSystem
+
+__all__ = ["Scaling"]
+
+
+@dataclass(frozen=True)
+class Scaling:
+    """Powers of ten relating the user's problem to the one numag computes with.
+
+    Attributes
+    ----------
+    variable_exponents : tuple of int
+        c_j: the user's x_j is 10^c_j times the computed y_j.
+    equation_exponents : tuple of int
+        r_i: the computed equation i is 10^r_i times the user's (in the variables y).
+    """
+
+    variable_exponents: tuple
+    equation_exponents: tuple
+
+    # -- construction ---------------------------------------------------------------------------
+    @classmethod
+    def identity(cls, system):
+        """No change of units."""
+        return cls((0,) * system.n_variables, (0,) * system.n_equations)
+
+    @classmethod
+    def balancing(cls, system):
+        """The least-squares balancing of the system's coefficient magnitudes (see the module notes).
+
+        Parameters
+        ----------
+        system : PolynomialSystem
+
+        Returns
+        -------
+        Scaling
+        """
+        n, m = system.n_variables, system.n_equations
+        rows, cols, data, rhs = [], [], [], []
+        count = 0
+        for i, p in enumerate(system.polynomials):
+            magnitudes = np.abs(p.numeric_coefficients())
+            for exponents, magnitude in zip(p.exponents, magnitudes):
+                if not magnitude > 0 or not np.isfinite(magnitude):
+                    continue
+                rows.append(count)
+                cols.append(i)
+                data.append(1.0)
+                for j in np.nonzero(exponents)[0]:
+                    rows.append(count)
+                    cols.append(m + int(j))
+                    data.append(float(exponents[j]))
+                rhs.append(-np.log10(magnitude))
+                count += 1
+        if count == 0:
+            return cls.identity(system)
+        matrix = csr_matrix((data, (rows, cols)), shape=(count, m + n))
+        # lsqr from zero converges to the minimum-norm solution: unknowns the terms do not fix
+        # (a variable in no equation; the common factor of a projective system) stay at 0.
+        solution = lsqr(matrix, np.array(rhs), atol=1e-12, btol=1e-12, iter_lim=50 * (m + n) + 100)[0]
+        exponents = np.rint(solution).astype(np.int64)
+        return cls(tuple(int(c) for c in exponents[m:]), tuple(int(r) for r in exponents[:m]))
+
+    # -- queries --------------------------------------------------------------------------------
+    @property
+    def is_identity(self):
+        """True when nothing is scaled."""
+        return not any(self.variable_exponents) and not any(self.equation_exponents)
+
+    @property
+    def variable_factors(self):
+        """10^c_j as floats: x = variable_factors * y."""
+        return 10.0 ** np.array(self.variable_exponents, dtype=float)
+
+    # -- the system -----------------------------------------------------------------------------
+    def scale_system(self, system):
+        """The system in the computed units: g_i(y) = 10^r_i f_i(10^c y); exact input stays exact.
+
+        Parameters
+        ----------
+        system : PolynomialSystem
+
+        Returns
+        -------
+        PolynomialSystem
+            Same variable names, kind and name.
+        """
+        if len(self.variable_exponents) != system.n_variables or len(self.equation_exponents) != system.n_equations:
+            raise InputError("the scaling does not fit the system (other numbers of variables or equations)")
+        if self.is_identity:
+            return system
+        c = np.array(self.variable_exponents, dtype=np.int64)
+        scaled = []
+        for r, p in zip(self.equation_exponents, system.polynomials):
+            powers = p.exponents @ c + int(r)  # the power of ten each term is multiplied by
+            if p.is_exact:
+                coefficients = np.array([a * ExactCoefficient.rational(Fraction(10) ** int(k))
+                                         for a, k in zip(p.coefficients, powers)], dtype=object)
+            else:
+                coefficients = p.numeric_coefficients() * 10.0 ** powers.astype(float)
+            scaled.append(Polynomial(p.exponents, coefficients, p.n_variables))
+        return PolynomialSystem(system.variables, scaled, system.projective, system.name)
+
+    # -- points and hyperplanes -----------------------------------------------------------------
+    def to_user(self, points):
+        """Points in the computed units (rows y) -> the user's coordinates x = 10^c y."""
+        return np.asarray(points, dtype=complex) * self.variable_factors
+
+    def to_computed(self, points):
+        """The user's points x -> computed coordinates y = 10^-c x."""
+        return np.asarray(points, dtype=complex) / self.variable_factors
+
+    def homogeneous_to_user(self, points):
+        """Homogeneous points (w, y) of affine input (the homogenising coordinate first) -> (w, 10^c y)."""
+        points = np.asarray(points, dtype=complex)
+        return points * np.concatenate([[1.0], self.variable_factors])
+
+    def hyperplanes_to_user(self, rows):
+        """Hyperplanes a . (1, y) = 0 in computed units -> the same hyperplanes as b . (1, x) = 0.
+
+        Rows keep unit norm (the hyperplane does not change).
+
+        Examples
+        --------
+        >>> s = Scaling((3,), (0,))
+        >>> rows = np.array([[1.0, -1.0]])             # y = 1, i.e. x = 1000
+        >>> back = s.hyperplanes_to_user(rows)
+        >>> round(float((-back[0, 0] / back[0, 1]).real))
+        1000
+        """
+        rows = np.asarray(rows, dtype=complex) / np.concatenate([[1.0], self.variable_factors])
+        return _unit_rows(rows)
+
+    def hyperplanes_to_computed(self, rows):
+        """Hyperplanes b . (1, x) = 0 in the user's coordinates -> a . (1, y) = 0 (unit rows)."""
+        rows = np.asarray(rows, dtype=complex) * np.concatenate([[1.0], self.variable_factors])
+        return _unit_rows(rows)
+
+    # -- reports --------------------------------------------------------------------------------
+    def to_json(self, variables):
+        """The ``scaling`` block of a report."""
+        return {"base": 10,
+                "variables": {name: int(c) for name, c in zip(variables, self.variable_exponents)},
+                "equations": [int(r) for r in self.equation_exponents],
+                "meaning": "x = 10^variables[x] * y for each unknown; equation i is multiplied by "
+                           "10^equations[i]; every tolerance applies to the problem in y"}
+
+    @classmethod
+    def from_json(cls, block, variables):
+        """Read a ``scaling`` block back (see :meth:`to_json`)."""
+        try:
+            exponents = tuple(int(block["variables"][name]) for name in variables)
+            equations = tuple(int(r) for r in block["equations"])
+        except (KeyError, TypeError, ValueError) as err:
+            raise InputError(f"the report's scaling block is malformed ({err})") from None
+        return cls(exponents, equations)
+
+
+def _unit_rows(rows):
+    norms = np.linalg.norm(rows, axis=1, keepdims=True)
+    return rows / np.where(norms > 0, norms, 1.0)

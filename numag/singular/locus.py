@@ -1,0 +1,719 @@
+"""The singular locus of X = V(F) (``numag singular``): singular points and components, with evidence.
+
+Pipeline:
+
+1. **Components of X first** (:func:`numag.witness.decompose.decompose`), so that a
+   point is judged against the codimension of the component it lies on.
+2. **Candidates.** For each codimension c of a component of X, the augmented
+   system F together with the c x c minors of J (all of them when they are
+   few, otherwise n - c + 1 random combinations det(A J B): at a point of X where
+   rank J = c each generic combination is one more independent condition, so
+   n - c + 1 of them leave no such point on X of dimension at most n) is
+   decomposed into witness sets: isolated candidates and candidate components of
+   every dimension, each with its degree.
+3. **Verdicts.** A witness point of each candidate set is checked with the
+   ORIGINAL Jacobian (:func:`numag.singular.smoothness.check_points`, with escalation in
+   precision and the components of X through the point): singular points of X
+   (rank below the codimension, or a point where components meet) are kept;
+   a candidate that is a whole generically non-reduced component of X is
+   reported as non-reduced, not as singular; candidates the check calls smooth
+   are spurious (a whole larger component swept into V(F, minors), or a residual
+   of the randomisation) and are counted, never reported.
+4. **Projective hypersurfaces** take the shortcut of the gradient system: the
+   n + 1 partials (Euler's formula makes F = 0 automatic), solved as a square
+   system after random combination. Other projective systems are moved to a
+   random affine chart (an invertible change of coordinates with small integers
+   keeps exact equations exact and real points real) and mapped back.
+5. **At infinity** (affine hypersurfaces): the singular points of the closure
+   V(F^h) with X_0 = 0 are reported apart, in homogeneous coordinates.
+
+Examples
+--------
+>>> from numag.system.parse import parse_system
+>>> locus = singular_locus(parse_system(["y^2 - x^2*(x + 1)"], ["x", "y"]), seed=1)
+>>> [(c.dimension, c.degree, c.kind) for c in locus.components]
+[(0, 1, 'singular')]
+"""
+
+from dataclasses import dataclass, field, replace
+import itertools
+import math
+import time
+
+import numpy as np
+
+from ..errors import InputError, LimitError, PointError
+from ..system.polynomial import Polynomial, PolynomialSystem, determinant, linear_space, require_numeric
+from ..numeric.cluster import cluster_labels, groups, normalize_projective
+from ..numeric.evaluate import BatchEvaluator
+from ..numeric.refine import IsolationTest, project_to_variety
+from ..numeric.scaling import Scaling
+from ..numeric.seeds import resolved_seed
+from ..tracking.solve import SolveOptions, solve_system
+from ..tracking.tracker import FAILURE_LABELS
+from ..witness.cascade import combine_equations, linear_form, random_rows, track_moves
+from ..witness.decompose import DecomposeOptions, components_through, decompose, holding_equations, random_minor
+from .smoothness import CheckOptions, check_points
+
+__all__ = ["SingularOptions", "SingularComponent", "SingularLocus", "singular_locus", "FORMULATIONS"]
+
+#: Ways of writing "rank J < c" as equations.
+FORMULATIONS = ("auto", "minors", "null vector", "gradient")
+
+
+@dataclass(frozen=True)
+class SingularOptions:
+    """Options of :func:`singular_locus` (defaults declared once).
+
+    Attributes
+    ----------
+    formulation : str
+        "auto" (the gradient system for projective hypersurfaces; otherwise per codimension the
+        minors when they are few, else the cheaper by a path estimate of random minors and the
+        null-vector form), "minors", "null vector" or "gradient" (hypersurfaces only).
+    decompose : DecomposeOptions
+    max_exact_minors : int
+        All c x c minors are used when there are at most this many; otherwise random
+        combinations of them.
+    digits : int
+        Highest precision for escalated rank decisions.
+    infinity_for_systems : bool
+        Also search singular points at infinity for affine input of several equations (those of
+        V(F^h) on the hyperplane at infinity, in a random chart: a second computation of the same
+        size). Hypersurfaces always get them (cheap: solved on the hyperplane).
+    """
+
+    formulation: str = "auto"
+    decompose: DecomposeOptions = DecomposeOptions()
+    max_exact_minors: int = 24
+    digits: int = 50
+    infinity_for_systems: bool = False
+
+    def validated(self, system):
+        if self.formulation not in FORMULATIONS:
+            raise InputError(f"unknown formulation {self.formulation!r}; choose one of {', '.join(FORMULATIONS)}")
+        if self.formulation == "gradient" and system.n_equations != 1:
+            raise InputError("the gradient formulation is for hypersurfaces (one equation); use 'minors'")
+        return self
+
+
+@dataclass
+class SingularComponent:
+    """One piece of the singular locus.
+
+    Attributes
+    ----------
+    id : int
+    dimension, degree : int
+    points : ndarray, shape (degree, n)
+        Witness points (the point itself for dimension 0). Affine coordinates for affine
+        input; homogeneous coordinates (divided by the largest) for projective input and
+        for points at infinity (the homogenising coordinate first).
+    real : ndarray of bool
+    multiplicity : int or None
+        Paths of the formulation that ended at the point (isolated points), else None.
+    at_infinity : bool
+    formulation : str
+        "minors", "random minors", "null vector", "gradient system".
+    kind : str
+        "singular" or "non-reduced" (a whole component of X of multiplicity > 1: the
+        equations cannot tell whether the variety is smooth there), or "undecided".
+    on_components : list of int
+        Ids of the components of X through the witness point.
+    rank, codimension : int or None
+        Rank of the original Jacobian at the (first) witness point, and the rank a smooth
+        point would need.
+    notes : list of str
+    """
+
+    id: int
+    dimension: int
+    degree: int
+    points: np.ndarray
+    real: np.ndarray
+    multiplicity: object
+    at_infinity: bool
+    formulation: str
+    kind: str
+    on_components: list = field(default_factory=list)
+    rank: object = None
+    codimension: object = None
+    notes: list = field(default_factory=list)
+
+
+@dataclass
+class SingularLocus:
+    """Result of :func:`singular_locus`.
+
+    Attributes
+    ----------
+    system : PolynomialSystem
+    components : list of SingularComponent
+        Singular (and non-reduced) pieces, affine first, then those at infinity.
+    variety : Decomposition or None
+        The components of X (None on the gradient shortcut).
+    paths : dict
+        Tracked paths by status, over every homotopy run.
+    discarded : dict
+        Candidates dropped, by reason.
+    seed : int
+    seconds : float
+    notes : list of str
+    scaling : Scaling or None
+        The units the computation used (points are in the user's units).
+    """
+
+    system: object
+    components: list
+    variety: object
+    paths: dict
+    discarded: dict
+    seed: int
+    seconds: float
+    notes: list = field(default_factory=list)
+    scaling: object = None
+
+    def isolated(self):
+        """The singular points (dimension 0, kind singular)."""
+        return [c for c in self.components if c.dimension == 0 and c.kind == "singular"]
+
+
+def _add_counts(total, counts):
+    for key, value in counts.items():
+        if isinstance(value, (int, np.integer)):
+            total[key] = total.get(key, 0) + int(value)
+
+
+def _real_flags(system, points):
+    real_coefficients = system.has_real_coefficients
+    if not real_coefficients or len(points) == 0:
+        return np.zeros(len(points), dtype=bool)
+    return np.all(np.abs(points.imag) <= 1e-8 * (1 + np.abs(points)), axis=1)
+
+
+def minors_system(system, codimension, rng, max_exact):
+    """F together with equations for "rank J < codimension" (all minors, or random combinations).
+
+    Returns
+    -------
+    PolynomialSystem
+    str
+        "minors" or "random minors".
+    """
+    n, m = system.n_variables, system.n_equations
+    rows = [[p.numeric().derivative(j) for j in range(n)] for p in system.polynomials]
+    count = math.comb(m, codimension) * math.comb(n, codimension)
+    equations = [p.numeric() for p in system.polynomials]
+    if count <= max_exact:
+        kind = "minors"
+        for chosen_rows in itertools.combinations(range(m), codimension):
+            for chosen_cols in itertools.combinations(range(n), codimension):
+                minor = determinant([[rows[i][j] for j in chosen_cols] for i in chosen_rows])
+                if not minor.is_zero():
+                    equations.append(minor * (1.0 / minor.coefficient_norm()))
+    else:
+        kind = "random minors"
+        for _ in range(n - codimension + 1):
+            minor = random_minor(equations[:m], codimension, rng, n)
+            if not minor.is_zero():
+                equations.append(minor * (1.0 / minor.coefficient_norm()))
+    return PolynomialSystem(system.variables, equations, name=system.name), kind
+
+
+def null_vector_system(system, codimension, rng):
+    """F(x) = 0, lambda^T A J(x) B = 0 and b . lambda = 1 in the unknowns (x, lambda), lambda in C^c.
+
+    A (c x m), B (n x n) and b are random. Over a point x of X where rank J = c there is no lambda; over a
+    point of corank r the lambdas form an affine space of dimension r - 1 (a positive-dimensional
+    fibre when r >= 2): callers project to x and measure the dimension there.
+    """
+    n, m = system.n_variables, system.n_equations
+    total = n + codimension
+    a = (rng.standard_normal((codimension, m)) + 1j * rng.standard_normal((codimension, m))) / math.sqrt(2 * m)
+    b = rng.standard_normal(codimension) + 1j * rng.standard_normal(codimension)
+    lifted = []
+    for p in system.polynomials:  # the same polynomial in (x, lambda)
+        exponents = np.hstack([p.exponents, np.zeros((p.n_terms, codimension), dtype=np.int64)])
+        lifted.append(Polynomial(exponents, p.numeric_coefficients(), total))
+    lambdas = [Polynomial.variable(n + i, total).numeric() for i in range(codimension)]
+    # The columns are random combinations too (lambda^T A J B = 0 with B invertible, the same set):
+    # with J's own columns, one that vanishes at a special point (the linkage's sine columns at its
+    # branch points) puts a whole lambda plane over that point into the intermediate sets of the
+    # witness sweep, and paths must start from singular points there.
+    b_matrix = (rng.standard_normal((n, n)) + 1j * rng.standard_normal((n, n))) / math.sqrt(2 * n)
+    gradients = [[lifted[k].derivative(l) for l in range(n)] for k in range(m)]
+    equations = list(lifted)
+    for j in range(n):
+        row = Polynomial.zero(total)
+        for i in range(codimension):
+            combined = Polynomial.zero(total)
+            for k in range(m):
+                for l in range(n):
+                    if not gradients[k][l].is_zero():
+                        combined = combined + gradients[k][l] * complex(a[i, k] * b_matrix[l, j])
+            row = row + lambdas[i] * combined
+        if not row.is_zero():
+            equations.append(row * (1.0 / row.coefficient_norm()))
+    equations.append(Polynomial.linear(np.concatenate([np.zeros(n), b]), -1.0))
+    names = list(system.variables) + [f"lambda{i + 1}" for i in range(codimension)]
+    return PolynomialSystem(names, equations, name=system.name)
+
+
+def _estimated_paths(system, variety, codimension, kind):
+    """Rough path counts of the two formulations on the components of codimension c (for "auto")."""
+    n = system.n_variables
+    degree = sum(c.degree for c in variety.components if n - c.dimension == codimension) or 1
+    top = max(system.degrees)
+    if kind == "minors":
+        return degree * float(codimension * max(top - 1, 1)) ** (n - codimension + 1)
+    return degree * float(top) ** n
+
+
+def _tangent_dimension(augmented, component, rng):
+    """Dimension of the tangent space of a candidate component at its first witness point (deflated system)."""
+    codim = augmented.n_variables - component.dimension
+    equations, _ = holding_equations(augmented, codim, component.points, rng)
+    _, jacobian = BatchEvaluator(equations).evaluate(component.points[:1])
+    values = np.linalg.svd(jacobian[0], compute_uv=False)
+    rank = int(np.sum(values > 1e-8 * max(values.max(initial=0), 1)))
+    return augmented.n_variables - rank
+
+
+def _membership_oracle(candidates, component, seed, lift=None):
+    """``contains(x)``: does the point x lie on this candidate component? (a homotopy membership test)
+
+    ``lift`` maps a point of x-space into the candidates' space (the null-vector system's (x, lambda));
+    it returns None when no lift exists (then the point is not on the component).
+    """
+    single = replace(candidates, components=[component])
+
+    def contains(x_point):
+        point = x_point if lift is None else lift(x_point)
+        return point is not None and bool(components_through(single, point, seed=seed))
+
+    return contains
+
+
+def _null_vector_lift(null_system, n):
+    """Lift x to (x, lambda) on the null-vector system: its equations are linear in lambda for fixed x."""
+    evaluator = BatchEvaluator(null_system.polynomials)
+    extra = null_system.n_variables - n
+
+    def lift(x_point):
+        start = np.concatenate([np.asarray(x_point, dtype=complex), np.zeros(extra, dtype=complex)])
+        values, jacobian = evaluator.evaluate(start[None, :])
+        lam = np.linalg.lstsq(jacobian[0][:, n:], -values[0], rcond=None)[0]
+        lifted = np.concatenate([start[:n], lam])
+        refined = project_to_variety(null_system, evaluator, lifted[None, :])
+        if not refined.converged[0]:
+            return None
+        return refined.points[0]
+
+    return lift
+
+
+def _projected_candidates(system, null_system, candidates, rng, options, paths):
+    """Project the components of the null-vector system to x: (dimension, x points, multiplicity, oracle)."""
+    n = system.n_variables
+    result = []
+    lift = _null_vector_lift(null_system, n)
+    for component in candidates.components:
+        x_points = component.points[:, :n]
+        oracle = _membership_oracle(candidates, component, int(rng.integers(2**31)), lift)
+        if component.dimension == 0:
+            result.append((0, x_points[:1], component.multiplicity, None))
+            continue
+        codim = null_system.n_variables - component.dimension
+        equations, _ = holding_equations(null_system, codim, component.points, rng)
+        evaluator = BatchEvaluator(equations)
+        _, jacobian = evaluator.evaluate(component.points[:1])
+        _, values, vh = np.linalg.svd(jacobian[0])
+        rank = int(np.sum(values > 1e-8 * max(values.max(initial=0), 1)))
+        tangent = vh[rank:].conj().T  # kernel basis, (n + c) x dim
+        projected = int(np.linalg.matrix_rank(tangent[:n], tol=1e-6)) if tangent.size else 0
+        if projected == 0:
+            result.append((0, x_points[:1], None, None))
+            continue
+        # Degree of the projection: slices in x only (projected of them) and in lambda only (the rest).
+        fibre = component.dimension - projected
+        x_rows = random_rows(rng, projected, null_system.n_variables + 1)
+        x_rows[:, 1 + n:] = 0
+        l_rows = random_rows(rng, fibre, null_system.n_variables + 1)
+        l_rows[:, 1:1 + n] = 0
+        target_rows = np.vstack([x_rows, l_rows])
+        held = combine_equations([p.homogenize(0) for p in equations], codim, rng)
+        counts = {}
+        ends, _, _ = track_moves(held + [linear_form(r) for r in component.slice_rows],
+                                 held + [linear_form(r) for r in target_rows], component.points, rng,
+                                 options.decompose.witness.tracker, counts)
+        _add_counts(paths, counts)
+        ends = ends[np.all(np.isfinite(ends), axis=1)][:, :n]
+        if len(ends) == 0:
+            continue
+        labels = cluster_labels(ends, 1e-6)
+        distinct = np.array([ends[g[0]] for g in groups(labels)])
+        result.append((projected, distinct, None, oracle))
+    return result
+
+
+def singular_locus(system, options=None, seed=None, progress=None):
+    """Every singular point and singular component of X = V(F), with dimension, degree and evidence.
+
+    Parameters
+    ----------
+    system : PolynomialSystem
+        Affine or projective.
+    options : SingularOptions, optional
+    seed : int, optional
+        Drawn and recorded when not given.
+    progress : callable, optional
+        ``progress(message)``.
+
+    Returns
+    -------
+    SingularLocus
+    """
+    options = (options or SingularOptions()).validated(system)
+    require_numeric(system)
+    seed = resolved_seed(seed)
+    scaling = Scaling.balancing(system)
+    locus = _singular_locus(scaling.scale_system(system), options, seed, progress)
+    for component in locus.components:
+        if component.at_infinity:
+            component.points = normalize_projective(scaling.homogeneous_to_user(component.points))
+        elif system.projective:
+            component.points = normalize_projective(scaling.to_user(component.points))
+        else:
+            component.points = scaling.to_user(component.points)
+    if locus.variety is not None and not system.projective:
+        locus.variety = locus.variety.in_units(scaling, system, to_user=True)
+    locus.system, locus.scaling = system, scaling
+    return locus
+
+
+def _singular_locus(system, options, seed, progress):
+    """:func:`singular_locus` in the units of ``system`` (already scaled)."""
+    started = time.perf_counter()
+    rng = np.random.default_rng(seed)
+    paths, discarded, notes = {}, {}, []
+    if linear_space(system) is not None:  # J is constant of full rank on X: no singular point, no homotopy
+        variety = decompose(system, options.decompose, seed=int(rng.integers(2**32)), progress=progress)
+        return SingularLocus(system, [], variety, paths, discarded, seed, time.perf_counter() - started,
+                             ["every equation is linear: X is a linear space (or empty), smooth at every point, "
+                              "with no singular point"])
+    if system.projective:
+        if system.n_equations == 1 and options.formulation in ("auto", "gradient"):
+            components, variety = _projective_gradient(system, rng, paths, discarded, progress), None
+        else:
+            components, variety = _projective_chart(system, options, rng, paths, discarded, notes, progress)
+    else:
+        components, variety = _affine(system, options, rng, paths, discarded, progress, notes)
+        if system.n_equations == 1:
+            try:
+                affine_curves = any(c.dimension > 0 for c in components)
+                components += _at_infinity(system, rng, paths, progress, affine_curves)
+            except InputError:
+                notes.append("The closure of X is singular or non-reduced along a positive-dimensional set at "
+                             "infinity; its points at infinity are not listed.")
+        elif options.infinity_for_systems:
+            components += _at_infinity_of_homogenized(system, options, rng, paths, discarded, notes, progress)
+        else:
+            notes.append("Singular points at infinity are not searched for systems of several equations unless "
+                         "asked for (--at-infinity): it is a second computation of the same size, on V(F^h), "
+                         "which can be larger than the closure of X.")
+    components.sort(key=lambda c: (c.at_infinity, -c.dimension, -c.degree))
+    for k, component in enumerate(components, 1):
+        component.id = k
+    if system.n_equations == 1 and system.polynomials[0].degree >= 2:
+        # The gradient of a degree-d hypersurface has at most (d - 1)^n isolated zeros (Bezout), so no
+        # more singular points can exist; more found means one was counted twice.
+        isolated = sum(1 for c in components if c.dimension == 0 and not c.at_infinity)
+        bound = (system.polynomials[0].degree - 1) ** system.ambient_dimension
+        if isolated > bound:
+            paths["degree_check_failed"] = paths.get("degree_check_failed", 0) + 1
+            notes.append(f"{isolated} isolated singular points found, more than the (d - 1)^n = {bound} a "
+                         "hypersurface of this degree can have: some point was counted twice.")
+    return SingularLocus(system, components, variety, paths, discarded, seed, time.perf_counter() - started, notes)
+
+
+def _affine(system, options, rng, paths, discarded, progress, notes_out=None):
+    """Singular pieces of an affine X by decomposing F + minors for each codimension of X."""
+    if progress is not None:
+        progress("decomposing X")
+    notes_out = [] if notes_out is None else notes_out
+    variety = decompose(system, options.decompose, seed=int(rng.integers(2**32)), progress=progress)
+    _add_counts(paths, variety.paths)
+    n = system.n_variables
+    found, oracles = [], []  # the pieces kept, and for each positive-dimensional one its membership test
+    codimensions = sorted({n - c.dimension for c in variety.components})
+    check_options = CheckOptions(max_digits=options.digits)
+    for codimension in codimensions:
+        if codimension == 0:
+            continue
+        exact = math.comb(system.n_equations, codimension) * math.comb(n, codimension) <= options.max_exact_minors
+        formulation = options.formulation
+        if formulation in ("auto", "gradient"):
+            formulation = "minors" if exact or (_estimated_paths(system, variety, codimension, "minors")
+                                                <= _estimated_paths(system, variety, codimension, "null")) \
+                else "null vector"
+        augmented = None
+        if formulation != "null vector":
+            try:
+                augmented, kind = minors_system(system, codimension, rng, options.max_exact_minors)
+            except LimitError as err:  # the expanded minors are too large: the null-vector form has no minors
+                notes_out.append(f"codimension {codimension}: the minors are too large to expand ({err}); the "
+                                 "null-vector formulation was used instead.")
+        if augmented is None:
+            augmented, kind = null_vector_system(system, codimension, rng), "null vector"
+        if progress is not None:
+            progress(f"codimension {codimension}: decomposing the {kind} system ({augmented.n_equations} equations "
+                     f"in {augmented.n_variables} unknowns)")
+        candidates = decompose(augmented, options.decompose, seed=int(rng.integers(2**32)), progress=progress)
+        _add_counts(paths, candidates.paths)
+        failed = sum(candidates.paths.get(label, 0) for label in FAILURE_LABELS)
+        if failed:
+            notes_out.append(f"{failed} path(s) of the {kind} system for codimension {codimension} failed: singular "
+                             "points there may be missing (a singular endpoint the endgame could not settle). "
+                             "Run again with another --seed or --formulation to compare.")
+        if kind == "null vector":
+            projected = _projected_candidates(system, augmented, candidates, rng, options, paths)
+        else:
+            projected = [(c.dimension, c.points, c.multiplicity if c.dimension == 0 else None,
+                          _membership_oracle(candidates, c, int(rng.integers(2**31))) if c.dimension else None)
+                         for c in candidates.components]
+            for c in candidates.components:  # cross-check the slicing dimension by the tangent space
+                if c.dimension > 0 and _tangent_dimension(augmented, c, rng) != c.dimension:
+                    discarded["tangent_dimension_mismatch"] = discarded.get("tangent_dimension_mismatch", 0) + 1
+        for dimension, points, multiplicity, oracle in projected:
+            candidate = _Candidate(dimension, len(points), points)
+            point = points[0]
+            seen = _already(found, oracles, candidate, point)
+            if seen is not None:
+                discarded[seen] = discarded.get(seen, 0) + 1
+                continue
+            verdict = _judge(system, point, check_options, int(rng.integers(2**31)), variety)
+            if verdict is None:  # Newton cannot settle the point (a singular curve can make it drift)
+                discarded["not_settled_on_X"] = discarded.get("not_settled_on_X", 0) + 1
+                continue
+            if verdict.verdict == "smooth":
+                discarded["smooth_on_check"] = discarded.get("smooth_on_check", 0) + 1
+                continue
+            through = [c["id"] for c in verdict.components]
+            kind_of = {"singular": "singular", "non-reduced": "non-reduced"}.get(verdict.verdict, "undecided")
+            notes = []
+            if kind_of == "non-reduced":
+                whole = [c for c in verdict.components if c["dimension"] == candidate.dimension]
+                if not whole:
+                    notes.append("A proper subset of a non-reduced component of X: the Jacobian cannot decide "
+                                 "whether the variety is singular here.")
+                    kind_of = "undecided"
+            points = candidate.points
+            if candidate.dimension == 0 and np.linalg.norm(verdict.point - point) <= _CANDIDATE_TOLERANCE * (
+                    1 + np.linalg.norm(point)):
+                points = np.asarray(verdict.point, dtype=complex)[None, :]  # refined at higher precision
+                if _already(found, oracles, candidate, points[0]) is not None:  # two candidates, one point
+                    discarded["duplicate"] = discarded.get("duplicate", 0) + 1
+                    continue
+            found.append(SingularComponent(0, candidate.dimension, candidate.degree, points,
+                                           _real_flags(system, points), multiplicity, False, kind,
+                                           kind_of, through, verdict.rank, verdict.codimension,
+                                           notes + list(verdict.notes)))
+            oracles.append(oracle)
+    return found, variety
+
+
+def _judge(system, point, options, seed, variety):
+    """The check's verdict at a candidate; None if the candidate cannot be settled on X.
+
+    A looser point tolerance is tried when refinement drifts. A candidate is an approximation of a
+    singular point whose accuracy the endgame limits (1e-4 at a tacnode, where three paths meet):
+    when the check finds the rank dropping within 1e-3 of it, the verdict is taken at that point.
+    """
+    for tolerance in (options.point_tolerance, _CANDIDATE_TOLERANCE):
+        try:
+            verdict = check_points(system, [point], replace(options, point_tolerance=tolerance), seed=seed,
+                                   decomposition=variety).points[0]
+        except PointError:
+            continue
+        drop = verdict.nearest_rank_drop
+        if (verdict.verdict == "smooth" and drop is not None
+                and verdict.nearest_rank_drop_distance <= _CANDIDATE_TOLERANCE * (1 + np.linalg.norm(point))):
+            try:
+                return check_points(system, [drop], options, seed=seed, decomposition=variety).points[0]
+            except PointError:
+                return verdict
+        return verdict
+    return None
+
+
+#: How far (relative) a singular candidate may lie from the singular point it approximates.
+_CANDIDATE_TOLERANCE = 1e-3
+
+
+@dataclass
+class _Candidate:
+    dimension: int
+    degree: int
+    points: np.ndarray
+
+
+def _already(found, oracles, candidate, point):
+    """Why the candidate is not new (a key of ``discarded``), or None when it is.
+
+    The same point (isolated pieces, by distance); a positive-dimensional candidate whose
+    witness point lies on a piece of the same dimension found before (the same irreducible set:
+    a homotopy membership test on the whole point, never a comparison of one coordinate); or any
+    candidate lying on a larger piece found before.
+    """
+    for piece, contains in zip(found, oracles):
+        if piece.dimension == 0:
+            if candidate.dimension == 0 and np.linalg.norm(piece.points[0] - point) <= 1e-6 * (
+                    1 + np.linalg.norm(point)):
+                return "duplicate"
+        elif piece.dimension >= candidate.dimension and contains is not None and contains(point):
+            return "duplicate" if piece.dimension == candidate.dimension else "on_larger_singular_piece"
+    return None
+
+
+def _projective_gradient(system, rng, paths, discarded, progress):
+    """Singular points of a projective hypersurface: the zeros of its gradient (Euler: then F = 0 too)."""
+    f = system.polynomials[0].numeric()
+    gradient = PolynomialSystem(system.variables, [g for g in f.gradient() if not g.is_zero()], projective=True)
+    if progress is not None:
+        progress(f"gradient system: {gradient.n_equations} partial derivatives")
+    pieces = []
+    if gradient.n_equations == 0:
+        return pieces
+    if gradient.n_equations < system.n_variables - 1:
+        raise InputError("the hypersurface is a cone over a lower-dimensional one: use the minors formulation")
+    result = solve_system(gradient, SolveOptions(square_up=gradient.n_equations > system.n_variables - 1),
+                          seed=int(rng.integers(2**32)))
+    _add_counts(paths, result.path_counts())
+    scale = f.coefficient_norm()
+    for solution in result.solutions:
+        point = solution.point
+        if abs(f.evaluate(point)) > 1e-8 * scale * np.linalg.norm(point) ** f.degree:
+            discarded["not_on_X"] = discarded.get("not_on_X", 0) + 1
+            continue
+        pieces.append(SingularComponent(0, 0, 1, point[None, :], _real_flags(system, point[None, :]),
+                                        solution.multiplicity, False, "gradient system", "singular", [], None, 1))
+    if result.not_isolated:
+        raise InputError("the singular locus of this hypersurface is positive-dimensional; use the minors "
+                         "formulation (--formulation minors)")
+    return pieces
+
+
+def _chart(system, rng):
+    """A random invertible change of coordinates X = Q Y with small integers; the system in the chart Y_0 = 1.
+
+    Integers keep exact equations exact: a floating-point change of coordinates perturbs the
+    coefficients by rounding, and a perturbed node is no longer singular (the check at higher
+    precision then rightly finds a smooth point of the perturbed system). Real entries keep real
+    points real; the condition number is kept moderate so that the chart does not distort scales.
+    """
+    size = system.n_variables
+    while True:
+        q = rng.integers(-3, 4, size=(size, size))
+        if abs(np.linalg.det(q)) >= 0.5 and np.linalg.cond(q) <= 20 * size:
+            break
+    moved = [p.substitute_linear(q) for p in system.polynomials]
+    names = [f"y{j}" for j in range(1, size)]
+    affine = PolynomialSystem(names, [p.dehomogenize(0) for p in moved], name=system.name)
+    return affine, q
+
+
+def _projective_chart(system, options, rng, paths, discarded, notes, progress):
+    affine, q = _chart(system, rng)
+    pieces, variety = _affine(affine, options, rng, paths, discarded, progress, notes)
+    for piece in pieces:
+        homogeneous = np.column_stack([np.ones(len(piece.points)), piece.points]) @ q.T
+        piece.points = normalize_projective(homogeneous)
+        piece.real = _real_flags(system, piece.points)
+    notes.append("Projective input: computed in a random affine chart (an invertible change of coordinates with "
+                 "small integers); points are homogeneous, divided by their largest coordinate.")
+    return pieces, variety
+
+
+def _at_infinity(system, rng, paths, progress, affine_curves=True):
+    """Singular points of the closure V(F^h) of an affine hypersurface on the hyperplane X_0 = 0.
+
+    Solved on the hyperplane itself: the n + 1 partials of F^h with X_0 set to 0, in the n
+    homogeneous coordinates left (random combinations to square, every solution rechecked).
+    Tracking the whole closure instead sends paths to these points, often very singular ones.
+    ``affine_curves``: the affine singular locus has a positive-dimensional piece (then each point is
+    tested for lying on a singular set that leaves the hyperplane).
+    """
+    f = system.polynomials[0].numeric().homogenize(0)
+    restricted = []
+    for partial in f.gradient():
+        keep = partial.exponents[:, 0] == 0
+        if np.any(keep):
+            restricted.append(Polynomial(partial.exponents[keep][:, 1:], partial.coefficients[keep],
+                                         system.n_variables))
+    restricted = [p for p in restricted if not p.is_zero()]
+    if any(p.degree == 0 for p in restricted):  # a partial that is a nonzero constant there: no singular point
+        return []
+    if not restricted:
+        raise InputError("the closure is singular along the whole hyperplane at infinity")
+    if system.n_variables == 1:
+        return []
+    hyperplane = PolynomialSystem(list(system.variables), restricted, projective=True)
+    if hyperplane.n_equations < system.n_variables - 1:
+        raise InputError("the closure is singular along a positive-dimensional set at infinity")
+    if progress is not None:
+        progress("singular points at infinity")
+    result = solve_system(hyperplane, SolveOptions(square_up=hyperplane.n_equations > system.n_variables - 1),
+                          seed=int(rng.integers(2**32)))
+    _add_counts(paths, result.path_counts())
+    if result.not_isolated:
+        raise InputError("the closure is singular along a positive-dimensional set at infinity")
+    pieces = []
+    gradient = [g for g in f.gradient() if not g.is_zero()]
+    for solution in result.solutions:
+        point = np.concatenate([[0.0], solution.point])
+        # Isolated among the zeros of the whole gradient of F^h? Otherwise the point lies on a
+        # positive-dimensional singular or non-reduced set reaching infinity (x^2 = 0: the double line).
+        # Isolated within the hyperplane (solve found it so); a singular set leaving the hyperplane would
+        # have an affine part of positive dimension, so without one the point is isolated. (The local test
+        # cannot tell a point of multiplicity 16, whose residual at distance r is r^16, from a curve.)
+        if not affine_curves:
+            isolated = True
+        else:
+            pivot = int(np.argmax(np.abs(point)))
+            chart = PolynomialSystem([f"u{j}" for j in range(system.n_variables)],
+                                     [g.dehomogenize(pivot) for g in gradient])
+            isolated = IsolationTest(chart, rng).isolated(np.delete(point / point[pivot], pivot))
+        if not isolated:
+            raise InputError("the closure is singular or non-reduced along a positive-dimensional set at infinity")
+        pieces.append(SingularComponent(0, 0, 1, point[None, :], _real_flags(system, solution.point[None, :]),
+                                        solution.multiplicity, True, "gradient system at infinity", "singular",
+                                        [], None, 1))
+    return pieces
+
+
+def _at_infinity_of_homogenized(system, options, rng, paths, discarded, notes, progress):
+    """Singular pieces of V(F^h) inside the hyperplane at infinity (several equations), with the warning."""
+    if progress is not None:
+        progress("singular points at infinity (V(F^h) in a random chart)")
+    homogenized = PolynomialSystem(["w"] + list(system.variables),
+                                   [p.homogenize(0) for p in system.polynomials], projective=True,
+                                   name=system.name)
+    try:
+        pieces, _ = _projective_chart(homogenized, options, rng, paths, {}, [], None)
+    except InputError as err:
+        notes.append(f"Singular points at infinity could not be searched: {err}")
+        return []
+    kept = []
+    for piece in pieces:
+        at_w0 = np.abs(piece.points[:, 0]) <= 1e-8 * np.linalg.norm(piece.points, axis=1)
+        if np.all(at_w0):
+            piece.points = piece.points.copy()
+            piece.points[:, 0] = 0
+            piece.at_infinity = True
+            piece.on_components = []
+            piece.real = _real_flags(system, piece.points)
+            kept.append(piece)
+    notes.append("Singular points at infinity are those of V(F^h), the zero set of the homogenised equations, on "
+                 "the hyperplane w = 0. With several equations V(F^h) can be larger than the closure of X (the "
+                 "extra part lies at infinity), so a point listed at infinity may lie on that extra part only.")
+    return kept

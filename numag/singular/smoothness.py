@@ -1,0 +1,605 @@
+"""The verdict at a point: is X smooth there? (the Jacobian criterion, with its evidence).
+
+For a point a of X = V(f_1, ..., f_m) in C^n, the tangent space is the kernel
+of the Jacobian J(a) when the f_i generate the ideal of X near a, so
+dim T_a X = n - rank J(a) >= dim_a X, with equality exactly at smooth points.
+A verdict therefore needs two numbers: the numerical rank of J(a) and the
+local dimension dim_a X. This module gets the first from scaled singular
+values, tests every small one instead of guessing, and takes the second from
+the user or from the complete-intersection assumption (stated in the result).
+
+How a small singular value is tested
+------------------------------------
+1. The point is moved onto X (minimum-norm Gauss-Newton) in double precision,
+   all points in one batch; a point that cannot be moved onto X within the
+   point tolerance is refused.
+2. If the c-th scaled singular value (c = codimension) is clearly above zero,
+   the rank is c and the point is smooth.
+3. Otherwise, at rising precision (mpmath, up to ``max_digits``): refine on F;
+   solve F = 0 together with "rank J <= c - 1" (:class:`~numag.numeric.refine.RankDropSystem`).
+   If that converges to x* within the point tolerance, the rank really drops at
+   x*: the verdict is "singular" and names x* and its distance. If it
+   converges far away, the point is smooth and the nearest rank drop is
+   reported. If it does not converge, the small singular value is followed
+   across precisions: stable means a true nonzero value (smooth), shrinking
+   with the precision means zero (singular); otherwise "undecided".
+4. For a singular verdict, nearby points of X are sampled: if the rank drops
+   at all of them, X (as given by these equations) is generically non-reduced
+   there, and the verdict is "non-reduced" instead of "singular".
+
+Examples
+--------
+>>> from numag.system.parse import parse_system
+>>> system = parse_system(["y^2 - x^2*(x + 1)"], ["x", "y"])
+>>> report = check_points(system, [[0, 0], [3, 6]], seed=1)
+>>> [v.verdict for v in report.points]
+['singular', 'smooth']
+"""
+
+from dataclasses import dataclass, field, replace
+from fractions import Fraction
+import math
+
+import mpmath
+import numpy as np
+
+from ..errors import InputError, PointError
+from ..system.exact import ExactCoefficient
+from ..system.polynomial import require_numeric
+from ..numeric.cluster import line_distance, normalize_projective, projective_pivot
+from ..numeric.evaluate import BatchEvaluator, PrecisionEvaluator, TermSizes
+from ..numeric.linalg import (DOUBLE_DIGITS, RankEvidence, mp_singular_values, numerical_rank,
+                              scaled_singular_values, singular_value_gap, zero_tolerance)
+from ..numeric.refine import RankDropSystem, mp_gauss_newton, project_to_variety
+from ..numeric.scaling import Scaling
+from ..numeric.seeds import random_state
+from ..witness.decompose import components_through
+
+__all__ = ["CheckOptions", "PointVerdict", "CheckReport", "check_points",
+           "VERDICTS"]
+
+#: The possible verdicts.
+VERDICTS = ("smooth", "singular", "non-reduced", "undecided")
+#: Scaled residual (Euclidean) at which a point whose refinement stalled still counts as on X.
+_ON_VARIETY_RESIDUAL = 1e-11
+
+_AS_GIVEN = ("The verdict is about the equations as given: it describes the variety only where they "
+             "generate its ideal near the point.")
+
+
+#: How far (relative) an unanchored polish may move a rank-drop point that the anchored solve approached.
+_POLISH_DRIFT = 1e-6
+
+
+@dataclass(frozen=True)
+class CheckOptions:
+    """Options of :func:`check_points` (defaults declared once, here).
+
+    Attributes
+    ----------
+    local_dimension : int or None
+        dim_a X, when the user knows it (projective dimension for projective
+        systems). None: assume a complete intersection (codimension = number of
+        equations) when there are at most as many equations as the ambient
+        dimension.
+    point_tolerance : float
+        How far (relative to ||(1, a)||) the point a verdict speaks about may lie
+        from the given point: the given point's accuracy.
+    max_digits : int
+        Highest precision, in decimal digits, an undecided rank may be escalated to.
+    suspect_threshold : float
+        Scaled singular values below this are tested rather than trusted.
+    neighbour_samples : int
+        Nearby points sampled to tell "non-reduced" from "singular" (0 disables).
+    neighbour_radius : float
+        Relative distance of those samples.
+    """
+
+    local_dimension: object = None
+    point_tolerance: float = 1e-6
+    max_digits: int = 50
+    suspect_threshold: float = 1e-4
+    neighbour_samples: int = 3
+    neighbour_radius: float = 1e-2
+
+    def validated(self, system):
+        """Check the options against a system; raise InputError naming the bad option."""
+        if self.local_dimension is not None:
+            if not isinstance(self.local_dimension, (int, np.integer)) or isinstance(self.local_dimension, bool):
+                raise InputError(f"local_dimension must be an integer, got {self.local_dimension!r}")
+            if not 0 <= self.local_dimension <= system.ambient_dimension:
+                raise InputError(f"local_dimension must be between 0 and {system.ambient_dimension}, "
+                                 f"got {self.local_dimension}")
+        if not (isinstance(self.point_tolerance, (int, float)) and 0 < self.point_tolerance < 1):
+            raise InputError(f"point_tolerance must be in (0, 1), got {self.point_tolerance!r}")
+        if not isinstance(self.max_digits, (int, np.integer)) or not DOUBLE_DIGITS <= self.max_digits <= 10000:
+            raise InputError(f"max_digits (--digits) must be an integer from {DOUBLE_DIGITS} to 10000, "
+                             f"got {self.max_digits!r}")
+        if not 0 < self.suspect_threshold < 1:
+            raise InputError(f"suspect_threshold must be in (0, 1), got {self.suspect_threshold!r}")
+        if self.neighbour_samples < 0 or not 0 < self.neighbour_radius < 1:
+            raise InputError("neighbour_samples must be >= 0 and neighbour_radius in (0, 1)")
+        return self
+
+
+@dataclass
+class PointVerdict:
+    """The verdict at one point, with everything it rests on.
+
+    Attributes
+    ----------
+    index : int
+        1-based position of the point in the input.
+    given : ndarray of complex
+        The point as given (projective points divided by their largest coordinate).
+    point : ndarray of complex
+        The point the verdict speaks about (the given point moved onto X, or the
+        nearby point where the rank drops).
+    distance : float
+        Distance from ``given`` to ``point``.
+    residual : float
+        Largest scaled residual of F at the given point.
+    verdict : str
+        One of :data:`VERDICTS`.
+    rank : int or None
+        Numerical rank of J at ``point``.
+    codimension : int or None
+        Rank a smooth point needs (ambient dimension minus local dimension).
+    tangent_dimension : int or None
+        Dimension of the tangent space (projective dimension for projective systems).
+    local_dimension : int or None
+        dim_a X used.
+    local_dimension_source : str
+        "given", "complete intersection (Jacobian of full rank)" (no assumption: the
+        equations are independent at the point), "complete intersection (assumed)",
+        "isolated point (Jacobian injective)" or "unknown".
+    evidence : RankEvidence
+        Singular values, scales, tolerance, gap, digits, escalation.
+    nearest_rank_drop : ndarray or None
+        A point of X near the given one where the rank drops, when one was found
+        (also for smooth verdicts: how close the nearest trouble is).
+    nearest_rank_drop_distance : float or None
+    notes : list of str
+        Assumptions and caveats a reader needs.
+    components : list of dict
+        The components of X through the point (``id``, ``dimension``, ``degree``), when the
+        local dimension came from a decomposition.
+    """
+
+    index: int
+    given: np.ndarray
+    point: np.ndarray
+    distance: float
+    residual: float
+    verdict: str
+    rank: object
+    codimension: object
+    tangent_dimension: object
+    local_dimension: object
+    local_dimension_source: str
+    evidence: RankEvidence
+    nearest_rank_drop: object = None
+    nearest_rank_drop_distance: object = None
+    notes: list = field(default_factory=list)
+    components: list = field(default_factory=list)
+
+
+@dataclass
+class CheckReport:
+    """Verdicts for a list of points of one system.
+
+    Attributes
+    ----------
+    system : PolynomialSystem
+    points : list of PointVerdict
+    options : CheckOptions
+    seed : int
+        Seed of the random choices (neighbour samples), so the run can be repeated.
+    scaling : Scaling or None
+        The units the verdicts were computed in (singular values, tolerances and residuals
+        belong to that problem; points are in the user's units).
+    """
+
+    system: object
+    points: list
+    options: CheckOptions
+    seed: int
+    scaling: object = None
+
+    def counts(self):
+        """Number of points per verdict (every verdict listed, zeros included)."""
+        return {name: sum(1 for p in self.points if p.verdict == name) for name in VERDICTS}
+
+    @property
+    def undecided(self):
+        """True when at least one verdict is undecided."""
+        return any(p.verdict == "undecided" for p in self.points)
+
+
+def _size(point):
+    return math.sqrt(1.0 + float(np.linalg.norm(point)) ** 2)
+
+
+class _Checker:
+    """Carries one system's evaluators and options through the checks of many points."""
+
+    def __init__(self, system, options, rng):
+        self.system = system
+        self.options = options
+        self.rng = rng
+        self.batch = BatchEvaluator(system.polynomials)
+        self.precise = PrecisionEvaluator(system.polynomials)
+        self.m, self.n = system.n_equations, system.n_variables
+        self.sizes = TermSizes(system.polynomials, system.projective)
+
+    # -- scaled quantities ----------------------------------------------------------------------
+    def scaled_values_double(self, points):
+        _, jacobians = self.batch.evaluate(points)
+        scales = self.sizes.gradients(points)
+        return scaled_singular_values(jacobians, scales), scales
+
+    def scaled_values_mp(self, point, ctx):
+        _, jacobian = self.precise.evaluate([ctx.mpc(v) for v in point], ctx)
+        scales = self.sizes.gradients(np.array([complex(v) for v in point])[None])[0]
+        scaled = ctx.matrix(self.m, self.n)
+        for i in range(self.m):
+            for j in range(self.n):
+                scaled[i, j] = jacobian[i, j] / scales[i]
+        return [float(v) for v in mp_singular_values(scaled, ctx)], scales
+
+    def distance(self, a, b):
+        """Distance of two points (projective: between their lines, about the angle)."""
+        if self.system.projective:
+            return float(line_distance(a, b)[0])
+        return float(np.linalg.norm(np.asarray(a) - np.asarray(b)))
+
+    def tolerance_for(self, given):
+        """How far the point a verdict speaks about may be from the given one."""
+        if self.system.projective:
+            return self.options.point_tolerance
+        return self.options.point_tolerance * _size(given)
+
+    # -- local dimension -------------------------------------------------------------------------
+    def codimension(self, rank, through=None):
+        ambient = self.system.ambient_dimension
+        if self.options.local_dimension is not None:
+            return ambient - int(self.options.local_dimension), "given"
+        if through:
+            top = max(c.dimension for c in through)
+            names = ", ".join(f"{c.id} (dimension {c.dimension}, degree {c.degree})" for c in through)
+            return ambient - top, f"components through the point: {names}"
+        if self.m <= ambient:
+            if rank == self.m:  # independent equations: a smooth complete intersection, no assumption
+                return self.m, "complete intersection (Jacobian of full rank)"
+            return self.m, "complete intersection (assumed)"
+        if rank == ambient:
+            return ambient, "isolated point (Jacobian injective)"
+        return None, "unknown"
+
+    # -- refinement at precision -----------------------------------------------------------------
+    def refine_on_f(self, point, ctx, digits):
+        def function(z):
+            x = [z[j] for j in range(self.n)]
+            values, jacobian = self.precise.evaluate(x, ctx)
+            scales = self.sizes.values(np.array([complex(v) for v in x])[None])[0]
+            for i in range(self.m):
+                values[i] /= scales[i]
+                for j in range(self.n):
+                    jacobian[i, j] /= scales[i]
+            return values, jacobian
+
+        start = ctx.matrix([ctx.mpc(v) for v in point])
+        z, _, _, _ = mp_gauss_newton(function, start, ctx, tolerance=100 * 10.0 ** (-digits))
+        return [z[j] for j in range(self.n)]
+
+    def find_rank_drop(self, point, rank, ctx, digits):
+        """Solve F = 0 and rank J <= rank from ``point``; return the point (complex) or None."""
+        drop = RankDropSystem(self.system, rank, [complex(v) for v in point], ctx)
+        tolerance = zero_tolerance(digits, (self.m, self.n))
+        z, converged, _, _ = mp_gauss_newton(drop, drop.initial(point), ctx, tolerance=tolerance, anchored=True)
+        if not converged:
+            # The anchor keeps Newton from sliding along a set, but at a multiple zero (a tacnode: the
+            # Jacobian's weak direction shrinks with the residual) it also holds the iterate above the
+            # tolerance. Polished without it, the point may move only a little further.
+            polished, converged, _, _ = mp_gauss_newton(drop, z, ctx, tolerance=tolerance)
+            moved = float(ctx.norm(polished[:self.n, 0] - z[:self.n, 0])) if converged else float("inf")
+            if not converged or moved > _POLISH_DRIFT * (1.0 + float(ctx.norm(z[:self.n, 0]))):
+                return None
+            z = polished
+        self.last_drop_precise = [z[j] for j in range(self.n)]  # the rank is judged here, not at its rounding
+        return drop.point_of(z)
+
+    # -- one point ---------------------------------------------------------------------------------
+    def escalate(self, given, exact_given, refined, codim):
+        """Decide a suspect rank at rising precision. Returns a dict of the decision."""
+        opts = self.options
+        schedule = sorted({d for d in (30, 2 * 30, 4 * 30, 8 * 30) if d < opts.max_digits} | {opts.max_digits})
+        schedule = [d for d in schedule if d > DOUBLE_DIGITS] or [opts.max_digits]
+        history = []
+        tolerance = self.tolerance_for(given)
+        current = [complex(v) for v in refined]
+        for digits in schedule:
+            with mpmath.mp.workdps(digits + 10):
+                ctx = mpmath.mp
+                start = ([v.to_context(ctx) for v in exact_given] if exact_given is not None
+                         else [ctx.mpc(v) for v in current])
+                on_x = self.refine_on_f(start, ctx, digits)
+                current = [complex(v) for v in on_x]
+                values, scales = self.scaled_values_mp(on_x, ctx)
+                history.append(values[codim - 1] if codim - 1 < len(values) else 0.0)
+                found = self.find_rank_drop(on_x, codim - 1, ctx, digits)
+                if found is None or self.distance(given, found) > tolerance:
+                    # Where the rank drops further (a cone's vertex, J = 0), "rank <= codim - 1" has a
+                    # family of kernels at the point and Newton stalls; "rank <= r" for the lower r the
+                    # point has is regular there. Such a point has rank <= codim - 1 as well.
+                    for lower in range(codim - 2, -1, -1):
+                        deeper = self.find_rank_drop(on_x, lower, ctx, digits)
+                        if deeper is not None and self.distance(given, deeper) <= tolerance:
+                            found = deeper
+                            break
+                    else:  # none: judge the first one found (if any) at its own precise point
+                        found = self.find_rank_drop(on_x, codim - 1, ctx, digits) if found is not None else None
+                if found is not None:
+                    distance = self.distance(given, found)
+                    at_found, scales_found = self.scaled_values_mp(self.last_drop_precise, ctx)
+                    if distance <= tolerance:
+                        return dict(outcome="singular", point=found, values=at_found, scales=scales_found,
+                                    digits=digits, drop=found, drop_distance=distance)
+                    return dict(outcome="smooth", point=np.array(current), values=values, scales=scales,
+                                digits=digits, drop=found, drop_distance=distance)
+                zero = zero_tolerance(digits, (self.m, self.n))
+                if len(history) >= 2:
+                    previous, latest = history[-2], history[-1]
+                    if latest > zero and previous > 0 and abs(latest - previous) <= 1e-3 * previous:
+                        return dict(outcome="smooth", point=np.array(current), values=values, scales=scales,
+                                    digits=digits, drop=None, drop_distance=None)
+                    if latest <= zero and previous <= zero_tolerance(schedule[len(history) - 2], (self.m, self.n)):
+                        return dict(outcome="singular", point=np.array(current), values=values, scales=scales,
+                                    digits=digits, drop=None, drop_distance=None)
+        return dict(outcome="undecided", point=np.array(current), values=values, scales=scales,
+                    digits=schedule[-1], drop=None, drop_distance=None)
+
+    def rank_drops_near(self, point, codim):
+        """Sample nearby points of X; True when the rank drops at every one of them.
+
+        Samples that Newton pulls back onto ``point`` itself say nothing and are
+        discarded; without enough informative samples the answer is False.
+        """
+        count = self.options.neighbour_samples
+        if count == 0:
+            return False
+        radius = self.options.neighbour_radius * _size(point)
+        tries = 4 * count
+        directions = self.rng.standard_normal((tries, self.n)) + 1j * self.rng.standard_normal((tries, self.n))
+        directions /= np.linalg.norm(directions, axis=1)[:, None]
+        samples = project_to_variety(self.system, self.batch, point[None, :] + radius * directions)
+        informative = [sample for sample, ok in zip(samples.points, samples.converged)
+                       if ok and self.distance(sample, point) >= 0.1 * radius][:count]
+        if len(informative) < count:
+            return False
+        with mpmath.mp.workdps(40):
+            for sample in informative:
+                found = self.find_rank_drop([mpmath.mpc(v) for v in sample], codim - 1, mpmath.mp, 30)
+                if found is None or self.distance(found, sample) > 1e-3 * radius:
+                    return False
+        return True
+
+    def check(self, index, given, exact_given, refined, residual, values, scales, through=None):
+        opts = self.options
+        double_zero = zero_tolerance(DOUBLE_DIGITS, (self.m, self.n))
+        rank = numerical_rank(values, double_zero)
+        codim, source = self.codimension(rank, through)
+        notes = []
+        if through is not None and not through and opts.local_dimension is None:
+            notes.append("The decomposition found no component through this point (it may lie below the "
+                         "lowest dimension searched); the local dimension falls back to the rule below.")
+        if source == "complete intersection (assumed)":
+            notes.append(f"Local dimension from the assumption that X is a complete intersection at the point "
+                         f"(codimension = {self.m} equations); give the local dimension if it is not.")
+        outcome = dict(outcome=None, point=refined, values=values, scales=scales, digits=DOUBLE_DIGITS,
+                       drop=None, drop_distance=None)
+        escalated = False
+        if codim is None:
+            outcome["outcome"] = "undecided"
+            notes.append("The local dimension is unknown (more equations than the ambient dimension and a "
+                         "rank-deficient Jacobian); give it to decide.")
+        elif codim == 0:
+            outcome["outcome"] = "smooth" if rank == 0 else "undecided"
+        elif codim <= len(values) and values[codim - 1] > opts.suspect_threshold:
+            outcome["outcome"] = "smooth"
+        else:
+            escalated = True
+            outcome = self.escalate(given, exact_given, refined, codim)
+        digits = outcome["digits"]
+        zero = zero_tolerance(digits, (self.m, self.n))
+        final_values = np.array(outcome["values"], dtype=float)
+        rank = numerical_rank(final_values, zero)
+        verdict = outcome["outcome"]
+        if verdict == "smooth" and codim is not None and rank < codim:
+            rank = codim  # a stable small singular value: nonzero, only below the zero rule's reach
+        if codim is not None and rank > codim:
+            verdict = "undecided"
+            notes.append(f"The Jacobian has rank {rank}, more than the codimension {codim}: the local "
+                         f"dimension used ({self.system.ambient_dimension - codim}) is larger than the tangent "
+                         "space allows; the local dimension is wrong for this point.")
+        if verdict == "singular" and self.rank_drops_near(np.asarray(outcome["point"]), codim):
+            verdict = "non-reduced"
+            notes.append("The rank also drops at every sampled nearby point of X: the equations define X "
+                         "with multiplicity > 1 here (generically non-reduced), so the Jacobian cannot see "
+                         "whether the underlying variety is smooth. This is a sampling test, not a proof.")
+        thick = [c for c in (through or []) if not c.reduced]
+        if thick and len(through) == 1 and opts.local_dimension is None and verdict == "singular":
+            verdict = "non-reduced"
+        for c in thick:
+            notes.append(f"Component {c.id} is generically non-reduced (the Jacobian has rank below its codimension "
+                         f"at its witness points; {c.multiplicity} paths end at each): the equations define it "
+                         "with multiplicity > 1.")
+        if through and len(through) > 1 and opts.local_dimension is None:
+            ids = ", ".join(str(c.id) for c in through)
+            if verdict == "smooth":
+                # Full rank c at the point makes X a manifold of dimension n - c there (implicit
+                # function theorem): one component only. The membership test's tolerance cannot
+                # separate components that are tangent nearby (two conics 6e-5 from their tacnode).
+                notes.append(f"Components {ids} pass within the membership test's tolerance of this point, but the "
+                             "Jacobian has full rank here, so only one of them passes through it.")
+            else:
+                verdict = "singular"
+                notes.append(f"The point lies on {len(through)} components of X (ids {ids}): where components "
+                             "meet, X is not locally irreducible, so the point is singular whatever the rank.")
+        if verdict in ("singular", "non-reduced") and self.m > 1:
+            notes.append(_AS_GIVEN)
+        point = np.asarray(outcome["point"], dtype=complex)
+        if self.system.projective:
+            point = normalize_projective(point)
+        evidence = RankEvidence(rank=int(rank), singular_values=final_values,
+                                row_scales=np.asarray(outcome["scales"], dtype=float), tolerance=zero,
+                                gap=singular_value_gap(final_values, int(rank)), digits=int(digits),
+                                escalated=escalated, point=point)
+        ambient = self.system.ambient_dimension
+        local = None if codim is None else ambient - codim
+        drop = outcome["drop"]
+        return PointVerdict(
+            index=index, given=given, point=point, distance=self.distance(given, point), residual=residual,
+            verdict=verdict, rank=int(rank), codimension=codim, tangent_dimension=ambient - int(rank),
+            local_dimension=local, local_dimension_source=source, evidence=evidence,
+            nearest_rank_drop=None if drop is None else (normalize_projective(drop) if self.system.projective
+                                                         else np.asarray(drop)),
+            nearest_rank_drop_distance=outcome["drop_distance"], notes=notes,
+            components=[{"id": c.id, "dimension": c.dimension, "degree": c.degree} for c in (through or [])])
+
+
+def _as_points(points, system):
+    """Complex array of points and, where given exactly, their exact coordinates."""
+    complex_points, exact_points = [], []
+    for index, point in enumerate(points, 1):
+        coordinates = list(point)
+        if len(coordinates) != system.n_variables:
+            raise PointError(f"has {len(coordinates)} coordinates, the system has {system.n_variables} variables",
+                             index)
+        exact = all(isinstance(c, (ExactCoefficient, int)) for c in coordinates)
+        try:
+            values = np.array([complex(c) for c in coordinates], dtype=complex)
+        except (TypeError, ValueError) as err:
+            raise PointError(f"coordinates must be numbers ({err})", index) from None
+        if not np.all(np.isfinite(values)):
+            raise PointError("has a non-finite coordinate", index)
+        exact_coordinates = [c if isinstance(c, ExactCoefficient) else ExactCoefficient.rational(c)
+                             for c in coordinates] if exact else None
+        if system.projective:
+            if np.all(values == 0):
+                raise PointError("all homogeneous coordinates are zero: not a projective point", index)
+            pivot_value = normalize_projective(values)
+            if exact_coordinates is not None:
+                pivot = projective_pivot(values)
+                if exact_coordinates[pivot].is_single_term():
+                    inverse = exact_coordinates[pivot].reciprocal()
+                    exact_coordinates = [c * inverse for c in exact_coordinates]
+                else:
+                    exact_coordinates = None
+            values = pivot_value
+        complex_points.append(values)
+        exact_points.append(exact_coordinates)
+    return np.array(complex_points, dtype=complex).reshape(len(complex_points), system.n_variables), exact_points
+
+
+def check_points(system, points, options=None, seed=None, decomposition=None):
+    """Smooth or singular? The Jacobian criterion at each point, with its evidence.
+
+    Parameters
+    ----------
+    system : PolynomialSystem
+    points : sequence of sequences
+        Coordinates in variable order: numbers, or ``ExactCoefficient`` for
+        exact input (then refinement at high precision starts from the exact value).
+    options : CheckOptions, optional
+    seed : int, optional
+        Seed for the random choices; drawn and recorded when not given.
+    decomposition : Decomposition, optional
+        Components of X (:func:`numag.witness.decompose.decompose`): the local dimension at each
+        point is then the largest dimension of the components through it (homotopy
+        membership test), and a point on two components is singular. Without it (or with
+        ``options.local_dimension``), the rules of :class:`CheckOptions` apply.
+
+    Returns
+    -------
+    CheckReport
+
+    Raises
+    ------
+    PointError
+        When a point is malformed or cannot be moved onto X within the point tolerance.
+    InputError
+        For invalid options.
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> cone = parse_system(["x^2 + y^2 - z^2"], ["x", "y", "z"])
+    >>> [v.verdict for v in check_points(cone, [[0, 0, 0], [3, 4, 5]], seed=0).points]
+    ['singular', 'smooth']
+    """
+    options = (options or CheckOptions()).validated(system)
+    require_numeric(system)
+    seed, rng = random_state(seed)
+    user_given, user_exact = _as_points(points, system)
+    scaling = Scaling.balancing(system)
+    if len(user_given) == 0:
+        return CheckReport(system, [], options, seed, scaling)
+    given = scaling.to_computed(user_given)
+    divisors = [ExactCoefficient.rational(Fraction(10) ** -c) for c in scaling.variable_exponents]
+    exact = [None if e is None else [v * d for v, d in zip(e, divisors)] for e in user_exact]
+    verdicts = _check_in_units(scaling.scale_system(system), given, exact, options, seed, rng, decomposition,
+                               scaling)
+    checker = _Checker(system, options, rng)  # distances in the user's units
+    for verdict, point in zip(verdicts, user_given):
+        _to_user_units(verdict, point, scaling, checker)
+    return CheckReport(system, verdicts, options, seed, scaling)
+
+
+def _to_user_units(verdict, given, scaling, checker):
+    """Move a verdict's points from the computed units to the user's (in place)."""
+    projective = checker.system.projective
+
+    def back(point):
+        point = scaling.to_user(point)
+        return normalize_projective(point) if projective else point
+
+    verdict.given = given
+    verdict.point = back(verdict.point)
+    verdict.distance = checker.distance(given, verdict.point)
+    verdict.evidence = replace(verdict.evidence, point=back(verdict.evidence.point))
+    if verdict.nearest_rank_drop is not None:
+        verdict.nearest_rank_drop = back(verdict.nearest_rank_drop)
+        verdict.nearest_rank_drop_distance = checker.distance(given, verdict.nearest_rank_drop)
+
+
+def _check_in_units(system, given, exact, options, seed, rng, decomposition, scaling):
+    """The verdicts at points of ``system`` (already in computed units; ``decomposition`` in the user's)."""
+    checker = _Checker(system, options, rng)
+    projection = project_to_variety(system, checker.batch, given)
+    residual_given = np.max(np.abs(checker.batch.evaluate(given, jacobian=False))
+                            / checker.sizes.values(given), axis=1)
+    refined = projection.points.copy()
+    if system.projective:
+        refined = normalize_projective(refined)
+    # Gauss-Newton aims at a scaled residual of 1e-13; at a singular point it can stall just above
+    # (rounding, a rank-deficient Jacobian: 1.2e-13 seen at a linkage's branch point, which was then
+    # dropped). A point that stalls within 100 times that is on X to double precision.
+    on_variety = projection.converged | (projection.residuals <= _ON_VARIETY_RESIDUAL)
+    for k in range(len(given)):
+        tolerance = checker.tolerance_for(given[k])
+        moved = checker.distance(given[k], refined[k])
+        if not on_variety[k] or moved > tolerance:
+            raise PointError(
+                f"is not on X: scaled residual {residual_given[k]:.3g}; Newton refinement "
+                + (f"reached a point of X at distance {moved:.3g}, beyond the point tolerance {tolerance:.3g}"
+                   if on_variety[k] else
+                   f"did not reach X (scaled residual {projection.residuals[k]:.3g} after refinement)"),
+                k + 1)
+    values, scales = checker.scaled_values_double(refined)
+    through = [None] * len(given)
+    if decomposition is not None and options.local_dimension is None:
+        through = [components_through(decomposition, scaling.to_user(refined[k]), seed=seed + k)
+                   for k in range(len(given))]
+    return [checker.check(k + 1, given[k], exact[k], refined[k], float(residual_given[k]), values[k], scales[k],
+                          through[k]) for k in range(len(given))]

@@ -1,0 +1,267 @@
+"""Reading what users give numag: system files (TOML) and points.
+
+A system file is TOML (an open standard) with these keys:
+
+``variables``
+    list of names (letters, digits, ``_``; not ``I`` or ``sqrt``).
+``equations``
+    list of strings in the equation grammar (see :mod:`numag.system.parse`);
+    ``"lhs = rhs"`` means ``lhs - rhs = 0``.
+``projective``
+    boolean, default false: the equations are homogeneous and meant in
+    projective space. Homogeneous equations are *not* switched to projective
+    by themselves.
+``name``, ``description``
+    optional text for reports.
+``angles``
+    optional table ``label = ["c", "s"]`` naming variables that are the cosine and
+    sine of an angle (a mechanism's joint angles): reports of real points then also
+    give the angle in degrees.
+
+Points are written ``x=1, y=2+I/2`` (values in the equation grammar), or
+read from a JSON file: a list whose items are objects ``{"x": "1/3", "y": 2}``
+or lists of coordinates in variable order (numbers, strings, or
+``[real, imaginary]`` pairs, the shape numag's reports use); an object with a
+``points`` list (such as a saved report) works too.
+
+Examples
+--------
+>>> system = system_from_mapping({"variables": ["x", "y"], "equations": ["y^2 = x^3"]})
+>>> system.to_texts()
+['-x^3 + y^2']
+>>> [complex(c) for c in parse_point_assignment("x=1, y=1+I", system.variables)]
+[(1+0j), (1+1j)]
+"""
+
+import json
+import math
+import os
+
+from ..errors import ParseError, PointError, SystemFileError, InputError
+from .exact import ExactCoefficient
+from .parse import parse_constant, parse_system
+from .safeio import MAX_INPUT_BYTES, loads_json, read_limited
+
+try:  # Python >= 3.11
+    import tomllib as _toml
+except ModuleNotFoundError:  # pragma: no cover - older Pythons get the backport from setup.cfg
+    import tomli as _toml
+
+__all__ = ["SYSTEM_KEYS", "load_system", "system_from_mapping", "parse_point_assignment", "load_points",
+           "points_from_json", "load_angles", "angles_from_mapping"]
+
+#: Keys a system file may contain.
+SYSTEM_KEYS = ("variables", "equations", "projective", "name", "description", "angles")
+
+
+def _read_toml(path):
+    path = os.fspath(path)
+    raw = read_limited(path, MAX_INPUT_BYTES, "system file")
+    try:
+        text = raw.decode("utf-8")
+    except UnicodeDecodeError as err:
+        raise SystemFileError(f"is not UTF-8 text (byte {err.start})", path) from None
+    if not text.strip():
+        raise SystemFileError("is empty: expected the keys 'variables' and 'equations'", path)
+    try:
+        return _toml.loads(text)
+    except _toml.TOMLDecodeError as err:
+        raise SystemFileError(f"is not valid TOML: {err}", path) from None
+    except RecursionError:
+        raise SystemFileError("is nested too deeply to be a system file", path) from None
+
+
+def angles_from_mapping(data, variables, path=None):
+    """The ``angles`` table: label -> (index of the cosine variable, index of the sine variable).
+
+    Examples
+    --------
+    >>> angles_from_mapping({"angles": {"crank": ["c", "s"]}}, ["c", "s"])
+    {'crank': (0, 1)}
+    """
+    table = data.get("angles", {})
+    if not isinstance(table, dict):
+        raise SystemFileError("'angles' must be a table: label = [\"cosine variable\", \"sine variable\"]", path,
+                              "angles")
+    result = {}
+    for label, pair in table.items():
+        if (not isinstance(pair, list) or len(pair) != 2 or not all(isinstance(v, str) for v in pair)):
+            raise SystemFileError(f"angle '{label}' must be a pair of variable names [cosine, sine]", path, "angles")
+        missing = [v for v in pair if v not in variables]
+        if missing:
+            raise SystemFileError(f"angle '{label}' names {missing[0]!r}, which is not a variable", path, "angles")
+        result[label] = (variables.index(pair[0]), variables.index(pair[1]))
+    return result
+
+
+def load_angles(path, variables):
+    """The ``angles`` table of a system file (empty when there is none); see :func:`angles_from_mapping`."""
+    return angles_from_mapping(_read_toml(path), list(variables), os.fspath(path))
+
+
+def load_system(path):
+    """Read a system file.
+
+    Parameters
+    ----------
+    path : str or os.PathLike
+
+    Returns
+    -------
+    PolynomialSystem
+
+    Raises
+    ------
+    SystemFileError
+        For unreadable files, invalid TOML, unknown or missing keys, wrong
+        types; equation errors name the equation and column.
+    """
+    path = os.fspath(path)
+    return system_from_mapping(_read_toml(path), path=path)
+
+
+def system_from_mapping(data, path=None):
+    """Build a system from the keys of a system file (already parsed into a dict).
+
+    Raises
+    ------
+    SystemFileError
+        Naming the key that is unknown, missing or of the wrong type.
+    """
+    if not isinstance(data, dict):
+        raise SystemFileError("must be a table of keys", path)
+    unknown = sorted(set(data) - set(SYSTEM_KEYS))
+    if unknown:
+        raise SystemFileError(f"unknown key{'s' if len(unknown) > 1 else ''} {', '.join(map(repr, unknown))}; "
+                              f"allowed keys: {', '.join(SYSTEM_KEYS)}", path, unknown[0])
+    for key in ("variables", "equations"):
+        if key not in data:
+            raise SystemFileError(f"missing key '{key}'", path, key)
+        value = data[key]
+        if not isinstance(value, list) or not all(isinstance(item, str) for item in value):
+            raise SystemFileError(f"'{key}' must be a list of strings", path, key)
+        if not value:
+            raise SystemFileError(f"'{key}' is empty: the system needs at least one", path, key)
+    projective = data.get("projective", False)
+    if not isinstance(projective, bool):
+        raise SystemFileError("'projective' must be true or false", path, "projective")
+    for key in ("name", "description"):
+        if key in data and not isinstance(data[key], str):
+            raise SystemFileError(f"'{key}' must be a string", path, key)
+    name = data.get("name") or (os.path.splitext(os.path.basename(path))[0] if path else None)
+    angles_from_mapping(data, data["variables"], path)  # validated here, read by load_angles
+    try:
+        return parse_system(data["equations"], data["variables"], projective=projective, name=name)
+    except ParseError as err:
+        raise SystemFileError(str(err), path, "equations") from None
+    except InputError as err:
+        raise SystemFileError(str(err), path) from None
+
+
+def parse_point_assignment(text, variables, index=None):
+    """Read ``"x=1, y=2+I"`` into exact coordinates in variable order.
+
+    Raises
+    ------
+    PointError
+        For a malformed item, an unknown, repeated or missing variable, or a bad value.
+    """
+    if not isinstance(text, str) or not text.strip():
+        raise PointError("is empty; write it as name=value pairs such as x=0,y=1", index)
+    values = {}
+    for item in text.split(","):
+        name, sep, value = item.partition("=")
+        name = name.strip()
+        if not sep or not name or not value.strip():
+            raise PointError(f"'{item.strip()}' is not of the form name=value", index)
+        if name not in variables:
+            raise PointError(f"'{name}' is not a variable of the system ({', '.join(variables)})", index)
+        if name in values:
+            raise PointError(f"'{name}' is given twice", index)
+        values[name] = _coordinate(value, name, index)
+    missing = [v for v in variables if v not in values]
+    if missing:
+        raise PointError(f"no value for {', '.join(missing)}", index)
+    return [values[v] for v in variables]
+
+
+#: Largest modulus of a point's coordinate: the double range (about 1e308) less room for the powers
+#: and products of numerical work.
+MAX_COORDINATE = 1e100
+
+
+def _coordinate(value, name, index):
+    """One coordinate from text, a number, or a [real, imaginary] pair, within :data:`MAX_COORDINATE`."""
+    coordinate = _read_coordinate(value, name, index)
+    try:
+        size = abs(complex(coordinate))
+    except OverflowError:
+        size = math.inf
+    if size > MAX_COORDINATE:
+        raise PointError(f"value of {name} is beyond the range numerical work can use (modulus above "
+                         f"{MAX_COORDINATE:.0e})", index)
+    return coordinate
+
+
+def _read_coordinate(value, name, index):
+    if isinstance(value, bool):
+        raise PointError(f"value of {name} must be a number, got {value!r}", index)
+    if isinstance(value, str):
+        try:
+            return parse_constant(value.strip())
+        except ParseError as err:
+            raise PointError(f"value of {name}: {err.reason} (column {err.column})", index) from None
+    if isinstance(value, int):
+        return ExactCoefficient.rational(value)
+    if isinstance(value, float):
+        if not math.isfinite(value):
+            raise PointError(f"value of {name} is not finite", index)
+        return complex(value)
+    if (isinstance(value, list) and len(value) == 2
+            and all(isinstance(v, (int, float)) and not isinstance(v, bool) for v in value)):
+        if not all(math.isfinite(v) for v in value):
+            raise PointError(f"value of {name} is not finite", index)
+        if all(isinstance(v, int) for v in value):
+            return ExactCoefficient.rational(value[0], value[1])
+        return complex(value[0], value[1])
+    raise PointError(f"value of {name} must be a number, a string or a [real, imaginary] pair, "
+                     f"got {json.dumps(value)[:40]}", index)
+
+
+def points_from_json(data, variables):
+    """Points from decoded JSON (see the module documentation for the accepted shapes)."""
+    if isinstance(data, dict):
+        if "points" not in data:
+            raise PointError("the JSON object has no 'points' list")
+        data = data["points"]
+    if not isinstance(data, list):
+        raise PointError("expected a list of points")
+    points = []
+    for index, item in enumerate(data, 1):
+        if isinstance(item, dict) and "point" in item and not set(item) <= set(variables):
+            item = item["point"]
+        if isinstance(item, dict):
+            unknown = [k for k in item if k not in variables]
+            if unknown:
+                raise PointError(f"'{unknown[0]}' is not a variable of the system ({', '.join(variables)})",
+                                 index)
+            missing = [v for v in variables if v not in item]
+            if missing:
+                raise PointError(f"no value for {', '.join(missing)}", index)
+            points.append([_coordinate(item[v], v, index) for v in variables])
+        elif isinstance(item, list):
+            if len(item) != len(variables):
+                raise PointError(f"has {len(item)} coordinates, the system has {len(variables)} variables", index)
+            points.append([_coordinate(v, name, index) for v, name in zip(item, variables)])
+        else:
+            raise PointError("must be an object of name: value pairs or a list of coordinates", index)
+    return points
+
+
+def load_points(path, variables):
+    """Read points from a JSON file (see :func:`points_from_json`)."""
+    data = loads_json(read_limited(path, MAX_INPUT_BYTES, "points file"), os.fspath(path))
+    try:
+        return points_from_json(data, variables)
+    except PointError as err:
+        raise PointError(f"{os.fspath(path)}: {err}") from None

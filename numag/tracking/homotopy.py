@@ -1,0 +1,373 @@
+"""Homotopies between a start system and a target, in projective coordinates on a random affine patch.
+
+The target F (n equations in n affine unknowns, or homogeneous in n + 1) is
+homogenised to F^h in X = (X_0, ..., X_n), X_0 the homogenising coordinate
+first. A random linear equation a . X = 1 (the patch) makes the system square
+in n + 1 unknowns and keeps paths that go to infinity (X_0 -> 0) finite.
+
+The total-degree start system is G_i = X_i^d_i - X_0^d_i with the Bezout
+number prod d_i of known solutions. The straight-line homotopy with the
+gamma trick is
+
+    H(X, s) = (1 - s) F^h(X) + s gamma G(X),   s from 1 to 0,
+
+with gamma a random unit complex number. Start systems are classes with
+``degrees``, ``evaluate`` and ``solutions`` so that multihomogeneous or
+polyhedral starts can be added without touching the tracker.
+
+Examples
+--------
+>>> import numpy as np
+>>> from numag.system.parse import parse_system
+>>> system = parse_system(["x^2 - 2", "y - x"], ["x", "y"])
+>>> homotopy = StraightLineHomotopy.total_degree(system, np.random.default_rng(0))
+>>> homotopy.start_solutions().shape
+(2, 3)
+"""
+
+import numpy as np
+
+from ..errors import InputError
+from ..numeric.evaluate import BatchEvaluator, PrecisionEvaluator, TermSizes
+
+__all__ = ["TotalDegreeStart", "StraightLineHomotopy", "ParameterHomotopy", "random_unit_complex"]
+
+
+def random_unit_complex(rng, size=None):
+    """Random complex numbers of modulus one (uniform angle)."""
+    return np.exp(2j * np.pi * rng.random(size))
+
+
+class TotalDegreeStart:
+    """G_i = X_i^d_i - X_0^d_i in homogeneous coordinates (X_0 first).
+
+    Parameters
+    ----------
+    degrees : sequence of int
+        d_1, ..., d_n (each at least 1).
+    """
+
+    def __init__(self, degrees):
+        self.degrees = np.array(degrees, dtype=np.int64)
+        if np.any(self.degrees < 1):
+            raise InputError("every equation must have degree at least 1 for a total-degree start")
+
+    @property
+    def n_paths(self):
+        """The Bezout number prod d_i."""
+        return int(np.prod(self.degrees))
+
+    def evaluate(self, points):
+        """G and its Jacobian at points of shape (P, n + 1)."""
+        x0 = points[:, :1]
+        rest = points[:, 1:]
+        d = self.degrees[None, :]
+        values = rest ** d - x0 ** d
+        count, n = rest.shape
+        jacobian = np.zeros((count, n, n + 1), dtype=complex)
+        jacobian[:, :, 0] = -d * x0 ** (d - 1)
+        index = np.arange(n)
+        jacobian[:, index, index + 1] = d * rest ** (d - 1)
+        return values, jacobian
+
+    def evaluate_parts(self, points):
+        """G, the diagonal dG_i/dX_i and the column dG_i/dX_0 (the only nonzero Jacobian entries)."""
+        x0 = points[:, :1]
+        rest = points[:, 1:]
+        d = self.degrees[None, :]
+        rest_power = rest ** (d - 1)
+        x0_power = x0 ** (d - 1)
+        return rest_power * rest - x0_power * x0, d * rest_power, -d * x0_power
+
+    def values(self, points):
+        """G alone (what a corrector reusing an earlier Jacobian needs)."""
+        x0 = points[:, :1]
+        rest = points[:, 1:]
+        if np.all(self.degrees == self.degrees[0]):  # one degree: integer powers of a scalar (cheaper)
+            d = int(self.degrees[0])
+            return rest ** d - x0 ** d
+        return rest ** self.degrees[None, :] - x0 ** self.degrees[None, :]
+
+    def solutions(self, path_indices=None):
+        """Start solutions with X_0 = 1, in a fixed order (path k is the same whatever the batch)."""
+        total = self.n_paths
+        indices = np.arange(total) if path_indices is None else np.asarray(path_indices)
+        digits = np.empty((len(indices), len(self.degrees)), dtype=np.int64)
+        rest = indices.copy()
+        for j in range(len(self.degrees) - 1, -1, -1):  # mixed-radix digits of the path number
+            digits[:, j] = rest % self.degrees[j]
+            rest //= self.degrees[j]
+        roots = np.exp(2j * np.pi * digits / self.degrees[None, :])
+        return np.column_stack([np.ones(len(indices), dtype=complex), roots])
+
+
+class _PatchedHomotopy:
+    """What every homotopy on a random affine patch shares: the patch row and the endpoint test."""
+
+    def _precise_patch_row(self, values, jacobian, point, ctx):
+        size = self.size
+        patch = [ctx.mpc(a.real, a.imag) for a in self.patch]
+        values[size - 1] = sum(a * x for a, x in zip(patch, point)) - 1
+        for j in range(size):
+            jacobian[size - 1, j] = patch[j]
+
+    def row_scales(self, points):
+        """Size of each target row's gradient terms at points (P, n + 1) (see :class:`TermSizes`)."""
+        return self._sizes.gradients(points)
+
+    def target_residual(self, points):
+        """Norm of the scaled residuals of the target F^h at points (P, n + 1): is X an endpoint?"""
+        values = self.evaluator.evaluate(points, jacobian=False)
+        scales = self._sizes.values(points)
+        return np.linalg.norm(values / scales, axis=1)
+
+
+class StraightLineHomotopy(_PatchedHomotopy):
+    """H(X, s) = (1 - s) F^h(X) + s gamma G(X) together with the patch a . X = 1.
+
+    Parameters
+    ----------
+    target : list of Polynomial
+        Homogeneous polynomials in n + 1 variables (homogenising coordinate first).
+    start : start system object (see :class:`TotalDegreeStart`)
+    patch : ndarray, shape (n + 1,)
+    gamma : complex
+    homogenized : bool, default True
+        The target is homogenised affine equations (X_0 the homogenising coordinate): residuals
+        and row scales size the terms in the chart X_0 = 1 (see :class:`~numag.numeric.evaluate.TermSizes`).
+    """
+
+    def __init__(self, target, start, patch, gamma, homogenized=True):
+        self.target = list(target)
+        self.start = start
+        self.patch = np.asarray(patch, dtype=complex)
+        self.gamma = complex(gamma)
+        self.size = len(self.patch)
+        if len(self.target) + 1 != self.size:
+            raise InputError(f"a square system is needed: {len(self.target)} equations in {self.size - 1} unknowns")
+        self.evaluator = BatchEvaluator(self.target, spare_columns=self.size)  # room for the patch row
+        self.evaluations = 0
+        self.value_evaluations = 0
+        self._precise = None
+        self._sizes = TermSizes(self.target, projective=True, homogenized=homogenized)
+
+    @classmethod
+    def total_degree(cls, system, rng):
+        """Total-degree homotopy for a square affine system (or a projective one with n equations in n + 1)."""
+        expected = system.n_variables - (1 if system.projective else 0)
+        if system.n_equations != expected:
+            raise InputError(f"the system is not square: {system.n_equations} equations, {expected} unknowns")
+        # Each equation divided by its coefficient norm: F and G then have comparable size, so the
+        # paths do not rush away from the start points (fewer steps near s = 1); zeros are unchanged.
+        if system.projective:
+            target = [p.scaled(1.0 / p.coefficient_norm()) for p in system.polynomials]
+        else:
+            target = [p.numeric().homogenize(0).scaled(1.0 / p.coefficient_norm()) for p in system.polynomials]
+        size = len(target) + 1
+        patch = (rng.standard_normal(size) + 1j * rng.standard_normal(size)) / np.sqrt(2 * size)
+        return cls(target, TotalDegreeStart(system.degrees), patch, random_unit_complex(rng),
+                   homogenized=not system.projective)
+
+    def start_solutions(self, path_indices=None):
+        """Start solutions scaled onto the patch."""
+        points = self.start.solutions(path_indices)
+        return points / (points @ self.patch)[:, None]
+
+    def evaluate_precise(self, point, s, ctx):
+        """H, dH/dX and dH/ds at one point in an mpmath context (for re-tracking in high precision).
+
+        Returns ctx matrices of shapes (N, 1), (N, N) and (N, 1).
+        """
+        if self._precise is None:
+            self._precise = PrecisionEvaluator(self.target)
+        size = self.size
+        f_values, f_jac = self._precise.evaluate(point, ctx)
+        gamma = ctx.mpc(self.gamma.real, self.gamma.imag)
+        degrees = [int(d) for d in self.start.degrees]
+        values, jacobian, derivative = ctx.matrix(size, 1), ctx.matrix(size, size), ctx.matrix(size, 1)
+        x0 = point[0]
+        for i, d in enumerate(degrees):
+            g = point[i + 1] ** d - x0 ** d
+            values[i] = (1 - s) * f_values[i] + s * gamma * g
+            derivative[i] = gamma * g - f_values[i]
+            for j in range(size):
+                jacobian[i, j] = (1 - s) * f_jac[i, j]
+            jacobian[i, 0] += s * gamma * (-d * x0 ** (d - 1))
+            jacobian[i, i + 1] += s * gamma * d * point[i + 1] ** (d - 1)
+        self._precise_patch_row(values, jacobian, point, ctx)
+        return values, jacobian, derivative
+
+    def evaluate_values(self, points, s):
+        """H alone (with the patch row): what a corrector reusing an earlier Jacobian needs."""
+        self.value_evaluations += 1
+        g_values = self.start.values(points) if hasattr(self.start, "values") else \
+            self.start.evaluate_parts(points)[0]
+        values = np.empty((len(points), self.size), dtype=complex)
+        values[:, :-1] = (1 - s)[:, None] * self.evaluator.evaluate(points, jacobian=False) \
+            + (s * self.gamma)[:, None] * g_values
+        values[:, -1] = points @ self.patch - 1
+        return values
+
+    def evaluate(self, points, s):
+        """H, dH/dX (with the patch row) and dH/ds at points (P, n + 1) and parameters s (P,)."""
+        self.evaluations += 1
+        count, size = len(points), self.size
+        n = size - 1
+        raw = self.evaluator.raw(points)  # [F | rows of J_F | zeros for the patch row]
+        f_values = raw[:, :n]
+        g_values, g_diagonal, g_first = self.start.evaluate_parts(points)
+        weight_f = (1 - s)[:, None]
+        weight_g = (s * self.gamma)[:, None]
+        values = np.empty((count, size), dtype=complex)
+        values[:, :-1] = weight_f * f_values + weight_g * g_values
+        values[:, -1] = points @ self.patch - 1
+        jacobian = raw[:, n:].reshape(count, size, size)  # a view: (1 - s) J_F, then G, then the patch
+        jacobian[:, :-1, :] *= weight_f[:, :, None]
+        # G's Jacobian is sparse: a diagonal (in X_1..X_n) and the column of X_0
+        index = np.arange(size - 1)
+        jacobian[:, index, index + 1] += weight_g * g_diagonal
+        jacobian[:, :-1, 0] += weight_g * g_first
+        jacobian[:, -1, :] = self.patch
+        derivative = np.zeros((count, size), dtype=complex)
+        derivative[:, :-1] = self.gamma * g_values - f_values
+        return values, jacobian, derivative
+
+
+class ParameterHomotopy(_PatchedHomotopy):
+    """Move the coefficients of one system to those of another with the same variables.
+
+    H(X, s) = (1 - tau(s)) F_target^h(X) + tau(s) F_start^h(X), together with the patch, where
+    tau(s) = gamma s / (1 + (gamma - 1) s) runs from 0 (s = 0) to 1 (s = 1) along a complex
+    path (the gamma trick for parameter homotopies: for all but finitely many gamma the
+    path avoids the systems where solutions collide). The start solutions are known
+    solutions of the start system, e.g. from an earlier run; this is what witness sets
+    and monodromy loops need.
+
+    Parameters
+    ----------
+    start, target : list of Polynomial
+        Homogeneous polynomials in the same n + 1 variables (homogenising coordinate first).
+    patch : ndarray, shape (n + 1,)
+    gamma : complex
+    homogenized : bool, default True
+        As for :class:`StraightLineHomotopy`.
+
+    Examples
+    --------
+    >>> import numpy as np
+    >>> from numag.system.parse import parse_system
+    >>> start = parse_system(["x^2 - 1"], ["x"])
+    >>> target = parse_system(["x^2 - 4"], ["x"])
+    >>> homotopy = ParameterHomotopy.from_systems(start, target, np.random.default_rng(0))
+    >>> homotopy.start_solutions_from([[1.0], [-1.0]]).shape
+    (2, 2)
+    """
+
+    def __init__(self, start, target, patch, gamma, homogenized=True):
+        self.start_polynomials = list(start)
+        self.target = list(target)
+        self.patch = np.asarray(patch, dtype=complex)
+        self.gamma = complex(gamma)
+        self.size = len(self.patch)
+        if len(self.target) + 1 != self.size or len(self.start_polynomials) != len(self.target):
+            raise InputError("start and target must be square systems of the same size")
+        self.evaluator = BatchEvaluator(self.target)
+        # Rows equal in start and target (equations held fixed while slices move) are evaluated once.
+        self._moving = np.array([k for k, (a, b) in enumerate(zip(self.start_polynomials, self.target))
+                                 if not (a is b or a == b)], dtype=np.int64)
+        self.start_evaluator = (BatchEvaluator([self.start_polynomials[k] for k in self._moving])
+                                if len(self._moving) else None)
+        self.evaluations = 0
+        self.value_evaluations = 0
+        self._precise = None
+        self._precise_start = None
+        self._sizes = TermSizes(self.target, projective=True, homogenized=homogenized)
+
+    @classmethod
+    def from_systems(cls, start_system, target_system, rng):
+        """Parameter homotopy between two square systems in the same variables (affine or projective)."""
+        if start_system.variables != target_system.variables or start_system.projective != target_system.projective:
+            raise InputError("start and target systems must have the same variables and kind")
+        expected = target_system.n_variables - (1 if target_system.projective else 0)
+        if target_system.n_equations != expected or start_system.n_equations != expected:
+            raise InputError(f"the systems are not square: {target_system.n_equations} equations, {expected} unknowns")
+
+        def homogeneous(system):
+            if system.projective:
+                return [p.numeric() for p in system.polynomials]
+            # both homogenised to the target's degrees, so that the sum stays homogeneous
+            return [p.numeric().homogenize(0) for p in system.polynomials]
+
+        start, target = homogeneous(start_system), homogeneous(target_system)
+        for k, (a, b) in enumerate(zip(start, target), 1):
+            if a.degree != b.degree:
+                raise InputError(f"equation {k} has degree {a.degree} in the start system and {b.degree} in the "
+                                 "target; a parameter homotopy needs the same degrees")
+        size = len(target) + 1
+        patch = (rng.standard_normal(size) + 1j * rng.standard_normal(size)) / np.sqrt(2 * size)
+        return cls(start, target, patch, random_unit_complex(rng), homogenized=not target_system.projective)
+
+    def start_solutions_from(self, points, projective=False):
+        """Known solutions of the start system (affine, or homogeneous when ``projective``) on the patch."""
+        points = np.atleast_2d(np.asarray(points, dtype=complex))
+        if not projective:
+            points = np.column_stack([np.ones(len(points), dtype=complex), points])
+        return points / (points @ self.patch)[:, None]
+
+    def _tau(self, s):
+        denominator = 1 + (self.gamma - 1) * s
+        return self.gamma * s / denominator, self.gamma / denominator ** 2
+
+    def evaluate(self, points, s):
+        """H, dH/dX (with the patch row) and dH/ds at points (P, n + 1) and parameters s (P,)."""
+        self.evaluations += 1
+        count, size = len(points), self.size
+        f_values, f_jac = self.evaluator.evaluate(points)
+        tau, dtau = self._tau(np.asarray(s, dtype=complex))
+        values = np.empty((count, size), dtype=complex)
+        values[:, :-1] = f_values
+        values[:, -1] = points @ self.patch - 1
+        jacobian = np.empty((count, size, size), dtype=complex)
+        jacobian[:, :-1, :] = f_jac
+        jacobian[:, -1, :] = self.patch
+        derivative = np.zeros((count, size), dtype=complex)
+        moving = self._moving
+        if len(moving):
+            g_values, g_jac = self.start_evaluator.evaluate(points)
+            values[:, moving] = (1 - tau)[:, None] * f_values[:, moving] + tau[:, None] * g_values
+            jacobian[:, moving, :] = (1 - tau)[:, None, None] * f_jac[:, moving, :] + tau[:, None, None] * g_jac
+            derivative[:, moving] = (g_values - f_values[:, moving]) * dtau[:, None]
+        return values, jacobian, derivative
+
+    def evaluate_values(self, points, s):
+        """H alone (with the patch row)."""
+        self.value_evaluations += 1
+        tau, _ = self._tau(np.asarray(s, dtype=complex))
+        values = np.empty((len(points), self.size), dtype=complex)
+        values[:, :-1] = self.evaluator.evaluate(points, jacobian=False)
+        moving = self._moving
+        if len(moving):
+            values[:, moving] = (1 - tau)[:, None] * values[:, moving] \
+                + tau[:, None] * self.start_evaluator.evaluate(points, jacobian=False)
+        values[:, -1] = points @ self.patch - 1
+        return values
+
+    def evaluate_precise(self, point, s, ctx):
+        """H, dH/dX and dH/ds at one point in an mpmath context (see StraightLineHomotopy)."""
+        if self._precise is None:
+            self._precise = PrecisionEvaluator(self.target)
+            self._precise_start = PrecisionEvaluator(self.start_polynomials)
+        size = self.size
+        f_values, f_jac = self._precise.evaluate(point, ctx)
+        g_values, g_jac = self._precise_start.evaluate(point, ctx)
+        gamma = ctx.mpc(self.gamma.real, self.gamma.imag)
+        denominator = 1 + (gamma - 1) * s
+        tau, dtau = gamma * s / denominator, gamma / denominator ** 2
+        values, jacobian, derivative = ctx.matrix(size, 1), ctx.matrix(size, size), ctx.matrix(size, 1)
+        for i in range(size - 1):
+            values[i] = (1 - tau) * f_values[i] + tau * g_values[i]
+            derivative[i] = (g_values[i] - f_values[i]) * dtau
+            for j in range(size):
+                jacobian[i, j] = (1 - tau) * f_jac[i, j] + tau * g_jac[i, j]
+        self._precise_patch_row(values, jacobian, point, ctx)
+        return values, jacobian, derivative

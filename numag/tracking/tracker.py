@@ -1,0 +1,798 @@
+"""The batched path tracker: every path of a batch moves together as numpy arrays.
+
+A path is followed in a real "time" t along a curve s(t) in the complex
+parameter plane of the homotopy: a segment of the real axis (s = t) or a
+circle around 0 (s = r e^{it}, for the endgame). One step, for all running
+paths at once: a fourth-order Runge-Kutta predictor on
+dX/dt = -H_X^{-1} H_s ds/dt, then Newton corrections at the new t. A step is
+accepted when the corrections contract and end small; the step then changes as the
+predictor error measured by the first correction allows, and is halved on
+failure. Python loops run over steps, never
+over paths.
+
+The whole run (:func:`track_paths`):
+
+1. every path from s = 1 to within the endgame radius (its first point with
+   s in [0.025, 0.1] is kept);
+2. every path on to s = 0 in the same pass; an endpoint that is well conditioned
+   there is done;
+3. the others start again from their kept point with the
+   Cauchy endgame: loops around s = 0 until the path closes up (the number of
+   loops is the winding number c), the endpoint estimated as the mean of the
+   loop samples (Cauchy's integral formula), the radius shrunk until two
+   estimates agree or one circle's own error estimate (from the means of every
+   2nd and 4th sample) is below the tolerance;
+4. paths that still failed are re-tracked with a cautious step control.
+
+Statuses (:class:`PathStatus`): converged, singular endpoint, at infinity,
+and the failures (minimum step, step limit, non-finite values, endgame did
+not settle).
+
+Examples
+--------
+>>> import numpy as np
+>>> from numag.system.parse import parse_system
+>>> from numag.tracking.homotopy import StraightLineHomotopy
+>>> system = parse_system(["x^2 - 2", "y^2 - x"], ["x", "y"])
+>>> homotopy = StraightLineHomotopy.total_degree(system, np.random.default_rng(0))
+>>> result = track_paths(homotopy, homotopy.start_solutions())
+>>> result.status_counts()["converged"]
+4
+"""
+
+from dataclasses import dataclass, field, replace
+import enum
+
+import numpy as np
+
+from ..run.executor import check_memory
+from .rescue import track_segment_precise
+
+__all__ = ["PathStatus", "TrackerOptions", "TrackResult", "track_paths", "projective_condition"]
+
+
+#: Work of the precision rescue (term evaluations in mpmath, about 30 us each at 40 digits) for one path and for
+#: all the failed paths of one call of :func:`track_paths`.
+RESCUE_WORK_PER_PATH = 1_000_000
+RESCUE_WORK_PER_BATCH = 2_000_000
+
+
+class PathStatus(enum.IntEnum):
+    """How a path ended."""
+
+    RUNNING = 0
+    CONVERGED = 1
+    SINGULAR_ENDPOINT = 2
+    AT_INFINITY = 3
+    FAILED_MIN_STEP = 4
+    FAILED_STEP_LIMIT = 5
+    FAILED_NONFINITE = 6
+    FAILED_ENDGAME = 7
+    FAILED_BATCH = 8
+    FAILED_JUMP = 9
+
+    @property
+    def failed(self):
+        """True for the failure statuses."""
+        return self >= PathStatus.FAILED_MIN_STEP
+
+    @property
+    def label(self):
+        """Name used in reports."""
+        return _LABELS[self]
+
+    @property
+    def message(self):
+        """One sentence for a reader."""
+        return _MESSAGES[self]
+
+
+_LABELS = {
+    PathStatus.RUNNING: "running",
+    PathStatus.CONVERGED: "converged",
+    PathStatus.SINGULAR_ENDPOINT: "singular_endpoint",
+    PathStatus.AT_INFINITY: "at_infinity",
+    PathStatus.FAILED_MIN_STEP: "minimum_step",
+    PathStatus.FAILED_STEP_LIMIT: "step_limit",
+    PathStatus.FAILED_NONFINITE: "non_finite",
+    PathStatus.FAILED_ENDGAME: "endgame_unsettled",
+    PathStatus.FAILED_BATCH: "batch_failed",
+    PathStatus.FAILED_JUMP: "jumped",
+}
+_MESSAGES = {
+    PathStatus.RUNNING: "still being tracked",
+    PathStatus.CONVERGED: "reached a regular (well-conditioned) finite endpoint",
+    PathStatus.SINGULAR_ENDPOINT: "reached a finite endpoint where the Jacobian is singular",
+    PathStatus.AT_INFINITY: "went to infinity (the homogenising coordinate vanished)",
+    PathStatus.FAILED_MIN_STEP: "failed: the step size fell below the minimum",
+    PathStatus.FAILED_STEP_LIMIT: "failed: the step limit was reached",
+    PathStatus.FAILED_NONFINITE: "failed: non-finite values (overflow or a singular linear system)",
+    PathStatus.FAILED_ENDGAME: "failed: the endgame estimates did not settle",
+    PathStatus.FAILED_BATCH: "failed: its batch failed twice on a worker (error in the report); not tracked",
+    PathStatus.FAILED_JUMP: "failed: it kept ending where another path ends (a path jump repair could not undo)",
+}
+#: Labels of the failure reasons, in order.
+FAILURE_LABELS = [s.label for s in PathStatus if s.failed]
+
+
+@dataclass(frozen=True)
+class TrackerOptions:
+    """Tracker settings (declared once).
+
+    Attributes
+    ----------
+    initial_step, max_step, min_step : float
+        Step sizes in t (relative to the length of the current piece for circles).
+    corrector_tolerance : float
+        Relative size of the last Newton correction for a step to be accepted.
+    endgame_corrector_tolerance : float
+        The same on the endgame's circles, whose samples make the endpoint estimate.
+    corrector_iterations : int
+        Newton corrections per step.
+    max_steps : int
+        Step limit per path and piece.
+    chord_corrector : bool
+        Reuse the first correction's (inverted) Jacobian for the later corrections.
+    predictor_error : float
+        Relative predictor error the step-size control aims at (the first Newton
+        correction measures it; steps change by a factor between 0.5 and 2).
+    first_contraction : float
+        A step is rejected at once when its second correction exceeds this fraction of the
+        first: the corrections would not reach the tolerance in the iterations allowed.
+    stage_spread : float
+        A step is rejected before its last predictor stage when h ||k3 - k2|| exceeds this
+        (relative to 1 + ||x||): the two midpoint slopes disagree, the step is far too long.
+    endgame_radius : float
+        Where the endgame takes over (s = 0.1).
+    endgame_samples : int
+        Sample points per loop of the Cauchy endgame.
+    endgame_shrink : float
+        Factor by which the endgame radius shrinks between estimates.
+    endgame_rounds : int
+        Largest number of radii tried.
+    endgame_tolerance : float
+        Relative agreement of two successive endpoint estimates, or the largest error one
+        circle may estimate for its own mean.
+    max_winding : int
+        Largest winding number the endgame looks for.
+    endpoint_residual : float
+        Largest scaled residual of the target at an endgame estimate.
+    rescue_digits : int
+        Digits for re-tracking paths that failed twice in double precision (0: no rescue).
+    infinity_threshold : float
+        |X_0| / ||X|| below this means the endpoint is at infinity.
+    singular_condition : float
+        Condition number above which an endpoint is singular.
+    """
+
+    initial_step: float = 0.1
+    max_step: float = 0.5
+    min_step: float = 1e-12
+    corrector_tolerance: float = 1e-6
+    endgame_corrector_tolerance: float = 1e-10
+    corrector_iterations: int = 5
+    max_steps: int = 2000
+    predictor_error: float = 1e-2
+    stage_spread: float = 0.5
+    chord_corrector: bool = True
+    first_contraction: float = 0.1
+    endgame_radius: float = 0.1
+    endgame_samples: int = 16
+    endgame_shrink: float = 0.25
+    endgame_rounds: int = 10
+    endgame_tolerance: float = 1e-9
+    max_winding: int = 32
+    endpoint_residual: float = 1e-8
+    rescue_digits: int = 40
+    infinity_threshold: float = 1e-7
+    singular_condition: float = 1e8
+
+
+@dataclass
+class TrackResult:
+    """Endpoints and statuses of a batch of paths.
+
+    Attributes
+    ----------
+    endpoints : ndarray, shape (P, n + 1)
+        Homogeneous endpoints on the patch.
+    status : ndarray of int, shape (P,)
+        :class:`PathStatus` values.
+    steps : ndarray of int, shape (P,)
+        Steps (accepted and rejected) per path, endgame included.
+    condition : ndarray, shape (P,)
+        Condition number of H_X at the endpoint (s = 0).
+    winding : ndarray of int, shape (P,)
+        Winding number from the endgame (1 for paths that did not need it, 0 for failures).
+    endgame : ndarray of bool, shape (P,)
+        True for paths that went through the Cauchy endgame.
+    retracked : ndarray of bool, shape (P,)
+        True for paths re-tracked with the cautious step control after a failure.
+    digits : ndarray of int, shape (P,)
+        Precision of the path's last tracking: 16 (double) or the rescue digits.
+    evaluations : int
+        Batched evaluations of H made.
+    """
+
+    endpoints: np.ndarray
+    status: np.ndarray
+    steps: np.ndarray
+    condition: np.ndarray
+    winding: np.ndarray
+    endgame: np.ndarray
+    retracked: np.ndarray
+    evaluations: int = 0
+    digits: np.ndarray = None
+    extra: dict = field(default_factory=dict)
+
+    def status_counts(self):
+        """Number of paths per status label (failures by reason), every label present."""
+        return {PathStatus(code).label: int(np.sum(self.status == code)) for code in PathStatus
+                if code != PathStatus.RUNNING}
+
+
+def _solve(jacobian, rhs):
+    """Solve for one right-hand side (P, N) per matrix."""
+    return _solve_columns(jacobian, rhs[..., None])[..., 0]
+
+
+def _solve_columns(jacobian, rhs):
+    """Solve for several right-hand sides (P, N, k) at once."""
+    try:
+        return np.linalg.solve(jacobian, rhs)
+    except np.linalg.LinAlgError:
+        result = np.full(rhs.shape, np.nan, dtype=complex)
+        for k in range(len(rhs)):  # only when some matrix is exactly singular: the rare stragglers
+            try:
+                result[k] = np.linalg.solve(jacobian[k], rhs[k])
+            except np.linalg.LinAlgError:
+                pass
+        return result
+
+
+class _Segment:
+    """s(t) = t on the real axis."""
+
+    @staticmethod
+    def s(t, index):
+        return t.astype(complex)
+
+    @staticmethod
+    def ds(t, index):
+        return np.ones(len(t), dtype=complex)
+
+
+class _Circle:
+    """s(t) = r e^{it} with a radius per path."""
+
+    def __init__(self, radius):
+        self.radius = radius
+
+    def s(self, t, index):
+        return self.radius[index] * np.exp(1j * t)
+
+    def ds(self, t, index):
+        return 1j * self.radius[index] * np.exp(1j * t)
+
+
+def _correct(homotopy, points, s, tolerance, iterations, chord=False, first_contraction=0.5):
+    """Newton corrections at fixed s, only on the paths still correcting.
+
+    A path succeeds as soon as a correction is at most ``tolerance`` (relative) and every
+    correction so far has at most halved the previous one; it fails when the corrections do
+    not contract or ``iterations`` run out. Paths whose prediction was already good cost a
+    single evaluation. With ``chord``, the Jacobian of the first correction is inverted once
+    and reused (later corrections need only the values of H, a fraction of the cost).
+
+    Returns the corrected points, the success mask, the first correction's size (the
+    predictor's error) and H_X^{-1} H_s from an evaluation at the new s (the next step's first
+    predictor stage reuses it).
+    """
+    current = points.copy()
+    previous = np.full(len(points), np.inf)
+    first = np.full(len(points), np.inf)
+    ok = np.zeros(len(points), dtype=bool)
+    live = np.arange(len(points))
+    tangent = np.full(points.shape, np.nan, dtype=complex) if iterations < 1 else None
+    chord = chord and hasattr(homotopy, "evaluate_values")
+    inverse = None
+    for iteration in range(iterations):
+        if chord and iteration > 0:
+            values = homotopy.evaluate_values(current[live], s[live])
+            # rows of the inverse by position in the first iteration's live set (all rows)
+            matrices = inverse if len(live) == len(points) else inverse[live]
+            delta = (matrices @ values[:, :, None])[:, :, 0]
+        else:
+            values, jacobian, derivative = homotopy.evaluate(current[live], s[live])
+            if chord:
+                inverse = _inverse(jacobian)  # iteration 0: live is every row, in order
+                both = inverse @ np.stack([values, derivative], axis=2)
+            else:
+                both = _solve_columns(jacobian, np.stack([values, derivative], axis=2))
+            delta = both[:, :, 0]
+            if iteration == 0:
+                tangent = both[:, :, 1]  # a view of a fresh array: nothing else writes to it
+            else:
+                tangent[live] = both[:, :, 1]
+        moved = current[live] - delta
+        current[live] = moved
+        norm = np.linalg.norm(delta, axis=1) / (1 + np.linalg.norm(moved, axis=1))
+        if iteration == 0:
+            first[live] = norm
+        finite = np.isfinite(norm)
+        limit = first_contraction if iteration == 1 else 0.5
+        contracting = finite & ((norm <= limit * previous[live]) | (norm <= tolerance))
+        # Done when the correction just made was small or, once corrections contract, when the
+        # error it leaves (about norm * ratio / (1 - ratio)) is: the evaluation that would only
+        # confirm it is saved (about one value evaluation in four).
+        with np.errstate(all="ignore"):
+            ratio = norm / previous[live]
+            remaining = np.where((ratio < 0.5) & (iteration > 0), norm * ratio / (1 - ratio), np.inf)
+        done = contracting & ((norm <= tolerance) | (remaining <= tolerance))
+        ok[live[done]] = True
+        previous[live] = norm
+        live = live[contracting & ~done]
+        if len(live) == 0:
+            break
+    return current, ok, first, tangent
+
+
+def _inverse(jacobian):
+    try:
+        return np.linalg.inv(jacobian)
+    except np.linalg.LinAlgError:
+        result = np.full(jacobian.shape, np.nan, dtype=complex)
+        for k in range(len(jacobian)):  # only when some matrix is exactly singular
+            try:
+                result[k] = np.linalg.inv(jacobian[k])
+            except np.linalg.LinAlgError:
+                pass
+        return result
+
+
+def _advance(homotopy, points, t, t_end, curve, index, opts, steps, step=None, max_step=None, on_step=None,
+             window=None):
+    """Move every path from t to t_end along ``curve``; returns points, t, a status and the step per path.
+
+    ``index`` maps the rows to path numbers (for per-path curve parameters);
+    ``steps`` (per row) is updated in place; ``step`` carries step sizes over
+    from a previous piece (the endgame's arcs), ``max_step`` overrides the option;
+    ``on_step(finished)`` is told after each step how many rows have finished (or, with a
+    window, passed into it). With ``window = (near, far)`` (values of t between t and t_end,
+    ``near`` reached first) each path's first point at or past ``near`` is kept, and no step
+    skips past ``far``: three more arrays are returned, whether the row reached the window, its
+    point there and the t of that point (NaN when not). One pass instead of two pieces: the step
+    size carries over, the slow paths of both pieces share iterations, and a step is shortened
+    only when it would skip the whole window (a single stopping point would cost most paths a
+    shortened step).
+    """
+    points = points.copy()
+    t = t.astype(float).copy()
+    direction = np.sign(t_end - t)
+    step = np.full(len(t), opts.initial_step) if step is None else np.array(step, dtype=float)
+    tangent = np.full(points.shape, np.nan, dtype=complex)  # H_X^{-1} H_s at each path's current point
+    max_step = opts.max_step if max_step is None else max_step
+    status = np.zeros(len(t), dtype=np.int64)
+    taken = np.zeros(len(t), dtype=np.int64)
+    held = np.zeros(len(t), dtype=bool)
+    has_tangent = np.zeros(len(t), dtype=bool)
+    passed = np.zeros(len(t), dtype=bool)
+    if window is not None:
+        near, far = window
+        kept = np.full(points.shape, np.nan, dtype=complex)
+        kept_t = np.full(len(t), np.nan)
+        stop = np.full(len(t), float(far))
+    else:
+        stop = t_end
+    while True:
+        active = np.nonzero((status == PathStatus.RUNNING) & (np.abs(t_end - t) > 0))[0]
+        if on_step is not None:
+            on_step(len(t) - len(active) if window is None else int(np.sum(passed | (status != 0))))
+        if len(active) == 0:
+            break
+        x, tt, rows = points[active], t[active], index[active]
+        goal = stop[active]
+        h = np.minimum(step[active], np.abs(goal - tt)) * direction[active]
+
+        def velocity(y, time):
+            _, jacobian, derivative = homotopy.evaluate(y, curve.s(time, rows))
+            return -_solve(jacobian, derivative * curve.ds(time, rows)[:, None])
+
+        known = has_tangent[active]
+        if np.all(known):
+            k1 = -tangent[active] * curve.ds(tt, rows)[:, None]
+        else:
+            k1 = np.empty_like(x)
+            k1[known] = -tangent[active[known]] * curve.ds(tt[known], rows[known])[:, None]
+            fresh = ~known
+            _, jacobian, derivative = homotopy.evaluate(x[fresh], curve.s(tt[fresh], rows[fresh]))
+            k1[fresh] = -_solve(jacobian, derivative * curve.ds(tt[fresh], rows[fresh])[:, None])
+        k2 = velocity(x + 0.5 * h[:, None] * k1, tt + 0.5 * h)
+        k3 = velocity(x + 0.5 * h[:, None] * k2, tt + 0.5 * h)
+        # k2 and k3 both estimate the slope at the midpoint; when they disagree by more than half
+        # the path's size over the step, the step is far too long (near two paths' close
+        # approach the error grows much faster than h^5): reject it now, before the last stage
+        # and the corrector are paid for. On 1,024 dense quadrics this catches half the
+        # rejected steps and only one accepted step in 250.
+        with np.errstate(all="ignore"):
+            spread = np.abs(h) * np.linalg.norm(k3 - k2, axis=1) / (1 + np.linalg.norm(x, axis=1))
+        go = spread <= opts.stage_spread
+        accepted = np.zeros(len(active), dtype=bool)
+        new_t = np.where(np.abs(step[active]) >= np.abs(goal - tt), goal, tt + h)
+        if np.all(go):
+            go = slice(None)  # views, not copies, in the common case
+        else:  # rows rejected before the last stage keep NaN points and an infinite error
+            error = np.full(len(active), np.inf)
+            corrected = np.full(x.shape, np.nan, dtype=complex)
+            new_tangent = np.full(x.shape, np.nan, dtype=complex)
+        if isinstance(go, slice) or np.any(go):
+            x, rows, h, k1, k2, k3 = x[go], rows[go], h[go], k1[go], k2[go], k3[go]
+            k4 = velocity(x + h[:, None] * k3, tt[go] + h)
+            predicted = x + (h[:, None] / 6.0) * (k1 + 2 * k2 + 2 * k3 + k4)
+            fixed, ok, first, slope = _correct(homotopy, predicted, curve.s(new_t[go], rows), opts.corrector_tolerance,
+                                               opts.corrector_iterations, chord=opts.chord_corrector,
+                                               first_contraction=opts.first_contraction)
+            if isinstance(go, slice):
+                corrected, error, new_tangent = fixed, first, slope
+            else:
+                corrected[go], error[go], new_tangent[go] = fixed, first, slope
+            accepted[go] = ok & np.all(np.isfinite(fixed), axis=1)
+        taken[active] += 1
+        good = active[accepted]
+        points[good] = corrected[accepted]
+        t[good] = new_t[accepted]
+        tangent[good] = new_tangent[accepted]
+        has_tangent[good] = np.all(np.isfinite(tangent[good]), axis=1)
+        if window is not None:
+            arrived = good[(direction[good] * (t[good] - near) >= 0) & ~passed[good]]
+            passed[arrived] = True
+            kept[arrived] = points[arrived]
+            kept_t[arrived] = t[arrived]
+            stop[arrived] = t_end[arrived]
+        # The first Newton correction measures the predictor's error, which scales like h^5:
+        # aim the next step at the error the corrector removes in about two iterations.
+        with np.errstate(divide="ignore"):
+            factor = 0.8 * (opts.predictor_error / np.maximum(error[accepted], 1e-300)) ** 0.2
+        # no growth on the step after a rejection (common practice in ODE step control): near a
+        # close approach the error rises much faster than h^5 and growing again at once fails again
+        factor = np.where(held[good], np.minimum(factor, 1.0), factor)
+        held[good] = False
+        step[good] = np.minimum(step[good] * np.clip(factor, 0.5, 2.0), max_step)
+        rejected = active[~accepted]
+        held[rejected] = True
+        step[rejected] *= 0.5
+        status[rejected[step[rejected] < opts.min_step]] = PathStatus.FAILED_MIN_STEP
+        over = active[(taken[active] >= opts.max_steps) & (status[active] == PathStatus.RUNNING)]
+        status[over] = PathStatus.FAILED_STEP_LIMIT
+    steps += taken
+    bad = ~np.all(np.isfinite(points), axis=1)
+    status[bad & (status == PathStatus.RUNNING)] = PathStatus.FAILED_NONFINITE
+    if window is not None:
+        return points, t, status, step, passed, kept, kept_t
+    return points, t, status, step
+
+
+def _cauchy_endgame(homotopy, points, radius, opts, steps):
+    """Cauchy endgame for paths standing at s = radius (real, one per path): estimates, winding numbers, status."""
+    opts = replace(opts, corrector_tolerance=min(opts.corrector_tolerance, opts.endgame_corrector_tolerance))
+    count = len(points)
+    index = np.arange(count)
+    r = np.broadcast_to(np.asarray(radius, dtype=float), (count,)).copy()
+    estimate = np.full(points.shape, np.nan, dtype=complex)
+    winding = np.zeros(count, dtype=np.int64)
+    status = np.zeros(count, dtype=np.int64)
+    settled = np.zeros(count, dtype=bool)
+    # sharpen the starting points first: loop closure is judged against them
+    x, sharp, _, _ = _correct(homotopy, points, r.astype(complex), opts.corrector_tolerance, 4)
+    x = np.where(sharp[:, None] & np.all(np.isfinite(x), axis=1)[:, None], x, points)
+    samples = opts.endgame_samples
+    angles = 2 * np.pi * np.arange(samples + 1) / samples
+    for round_ in range(opts.endgame_rounds):
+        live = np.nonzero((status == PathStatus.RUNNING) & ~settled)[0]
+        if len(live) == 0:
+            break
+        circle = _Circle(r)
+        start = x[live].copy()
+        current = start.copy()
+        total = np.zeros_like(start)
+        half, quarter = np.zeros_like(start), np.zeros_like(start)  # every 2nd and every 4th sample
+        loops = np.zeros(len(live), dtype=np.int64)
+        open_ = np.ones(len(live), dtype=bool)
+        unclosed = np.zeros(len(live), dtype=bool)
+        arc = 2 * np.pi / samples
+        arc_step = np.full(len(live), arc)
+        while np.any(open_):
+            rows = np.nonzero(open_)[0]
+            for k in range(samples):
+                total[rows] += current[rows]
+                if k % 2 == 0:
+                    half[rows] += current[rows]
+                if k % 4 == 0:
+                    quarter[rows] += current[rows]
+                moved, _, piece_status, arc_step[rows] = _advance(
+                    homotopy, current[rows], np.full(len(rows), angles[k]), np.full(len(rows), angles[k + 1]),
+                    circle, live[rows], opts, steps_view := np.zeros(len(rows), dtype=np.int64),
+                    step=arc_step[rows], max_step=arc)
+                steps[live[rows]] += steps_view
+                current[rows] = moved
+                failed = piece_status != PathStatus.RUNNING
+                if np.any(failed):
+                    status[live[rows[failed]]] = piece_status[failed]
+                    open_[rows[failed]] = False
+                    rows = rows[~failed]
+            loops[rows] += 1
+            closed = np.linalg.norm(current[rows] - start[rows], axis=1) <= 1e-6 * (
+                1 + np.linalg.norm(start[rows], axis=1))
+            open_[rows[closed]] = False
+            too_many = rows[~closed & (loops[rows] >= opts.max_winding)]
+            unclosed[too_many] = True  # the circle may enclose other branch points: try a smaller one
+            open_[too_many] = False
+        done = (status[live] == PathStatus.RUNNING) & (loops > 0) & ~unclosed
+        new_estimate = np.where(done[:, None], total / (samples * np.maximum(loops, 1))[:, None], np.nan)
+        previous = estimate[live]
+        # Two estimates agreeing is not enough: circles that enclose another branch point besides 0
+        # give the same (wrong) mean at every radius. The estimate must also solve the target.
+        on_target = np.zeros(len(live), dtype=bool)
+        if np.any(done):
+            on_target[done] = homotopy.target_residual(new_estimate[done]) <= opts.endpoint_residual
+        size = 1 + np.linalg.norm(new_estimate, axis=1)
+        agree = done & on_target & (np.linalg.norm(new_estimate - previous, axis=1) <= opts.endgame_tolerance * size)
+        # One circle can also vouch for itself. The samples are a periodic analytic function of the
+        # angle, and the mean of N of them (the trapezoidal rule) has an error ~ C q^N: the means of
+        # N/2 and N/4 samples differ from it by about C q^(N/2) and C q^(N/4), so their ratio gives
+        # q^(N/4) and the error of the full mean is about d_half * ratio^2 (Trefethen and Weideman,
+        # The exponentially convergent trapezoidal rule, SIAM Review, 2014). This settles paths
+        # whose next, smaller circle would be out of reach in double precision (near a singular
+        # endpoint the Jacobian's condition grows as the radius shrinks).
+        if samples % 4 == 0:
+            with np.errstate(all="ignore"):
+                counted = np.maximum(loops, 1)[:, None]
+                d_half = np.linalg.norm(new_estimate - half / (counted * samples // 2), axis=1) / size
+                d_quarter = np.linalg.norm(new_estimate - quarter / (counted * samples // 4), axis=1) / size
+                ratio = np.where(d_quarter > 0, d_half / d_quarter, 0.0)
+                alone = (ratio <= 0.5) & (d_half * ratio ** 2 <= opts.endgame_tolerance)
+            agree |= done & on_target & alone
+        estimate[live[done]] = new_estimate[done]
+        winding[live[done]] = loops[done]
+        settled[live[agree]] = True
+        # shrink the radius for the paths not yet settled, from their point at s = r
+        shrink = (done & ~agree) | (unclosed & (status[live] == PathStatus.RUNNING))
+        move = live[shrink]
+        if len(move) and round_ + 1 < opts.endgame_rounds:
+            moved, _, piece_status, _ = _advance(homotopy, start[shrink], r[move],
+                                              r[move] * opts.endgame_shrink, _Segment, move, opts,
+                                              steps_view := np.zeros(len(move), dtype=np.int64))
+            steps[move] += steps_view
+            x[move] = moved
+            r[move] *= opts.endgame_shrink
+            failed = piece_status != PathStatus.RUNNING
+            status[move[failed]] = piece_status[failed]
+    unsettled = (status == PathStatus.RUNNING) & ~settled
+    status[unsettled] = PathStatus.FAILED_ENDGAME
+    return estimate, winding, status
+
+
+def _classify(homotopy, points, opts, settle=True):
+    """Final Newton at s = 0 (when ``settle``), condition numbers, the finite / infinite split, and
+    whether Newton settled (converged to 1e-13 within four corrections)."""
+    zeros = np.zeros(len(points))
+    settled = np.ones(len(points), dtype=bool)
+    if settle and len(points):
+        refined, settled, _, _ = _correct(homotopy, points, zeros.astype(complex), 1e-13, 4)
+        settled &= np.all(np.isfinite(refined), axis=1)
+        points = np.where(settled[:, None], refined, points)
+    _, jacobian, _ = homotopy.evaluate(points, zeros.astype(complex))
+    condition = projective_condition(jacobian, points, homotopy.row_scales(points)) if len(points) \
+        else np.zeros(0)
+    size = np.linalg.norm(points, axis=1)
+    relative_x0 = np.abs(points[:, 0]) / np.maximum(size, np.finfo(float).tiny)
+    # A regular endpoint that Newton settled is known to about condition * eps relative: X_0 is
+    # then zero (at infinity) only when it is below that accuracy, whatever its size otherwise. A
+    # fixed threshold called a finite solution at 1e9 "at infinity". Unsettled or ill-conditioned
+    # endpoints (endgame estimates) keep the fixed threshold.
+    accuracy = _ACCURACY_SAFETY * np.finfo(float).eps * np.where(np.isfinite(condition), condition, np.inf)
+    regular = settled & (condition <= opts.singular_condition)
+    at_infinity = np.where(regular, relative_x0 <= accuracy, relative_x0 <= opts.infinity_threshold)
+    return points, condition, at_infinity, settled
+
+
+#: A settled regular endpoint's X_0 is zero when below this many times condition * eps (relative).
+_ACCURACY_SAFETY = 100.0
+
+
+def projective_condition(jacobian, points, row_scales):
+    """Condition number of the homotopy's target at endpoints, independent of the patch and of scale.
+
+    The rows of F^h's Jacobian are divided by their natural scales (coefficient norm times
+    ||X||^(d - 1)) and the patch row is replaced by X^H / ||X||: the result is the condition of
+    F^h on the tangent space of projective space at X (the directions orthogonal to X), plus the
+    unit direction along X. A raw condition number grows like ||X||^(d - 1) with the size the
+    random patch gives the point (x^100 - 1 had "condition" 3e7 at a simple root).
+
+    Parameters
+    ----------
+    jacobian : ndarray, shape (P, N, N)
+        dH/dX at s = 0 with the patch as the last row.
+    points : ndarray, shape (P, N)
+    row_scales : ndarray, shape (P, N - 1)
+
+    Returns
+    -------
+    ndarray, shape (P,)
+
+    Examples
+    --------
+    >>> import numpy as np
+    >>> point = np.array([[1e3, 1e3]])                  # (X_0, X_1), a zero of X_1^2 - X_0^2
+    >>> jac = np.array([[[-2e3, 2e3], [1e-4, 9e-4]]])   # its gradient, then some patch row
+    >>> scales = np.array([[np.sqrt(2) * np.linalg.norm(point)]])
+    >>> round(float(projective_condition(jac, point, scales)[0]), 6)
+    1.414214
+    """
+    size = np.linalg.norm(points, axis=1)
+    scaled = np.array(jacobian, dtype=complex, copy=True)
+    scaled[:, :-1, :] /= row_scales[:, :, None]
+    scaled[:, -1, :] = points.conj() / np.maximum(size, np.finfo(float).tiny)[:, None]
+    with np.errstate(all="ignore"):
+        condition = np.linalg.cond(scaled)
+    return np.where(np.isfinite(condition), condition, np.inf)
+
+
+def _track(homotopy, start_points, opts, near=None, on_step=None):
+    """Track to s = 0 from the start (or, when ``near`` is given, from there at the endgame radius)."""
+    count = len(start_points) if near is None else len(near)
+    index = np.arange(count)
+    steps = np.zeros(count, dtype=np.int64)
+    status = np.zeros(count, dtype=np.int64)
+    radius = np.full(count, opts.endgame_radius)
+    if near is None:
+        # one pass from s = 1 to 0 that keeps every path's first point within the endgame radius
+        # (and not past the next, smaller radius the endgame would try)
+        final, _, status_a, _, passed, near, reached_at = _advance(
+            homotopy, start_points, np.ones(count), np.zeros(count), _Segment, index, opts, steps, on_step=on_step,
+            window=(opts.endgame_radius, opts.endgame_radius * opts.endgame_shrink))
+        radius = np.where(passed, reached_at, radius)
+        status[:] = np.where(passed, PathStatus.RUNNING, status_a)  # failed before the radius: final
+        running = np.nonzero(passed)[0]
+        near = np.where(passed[:, None], near, final)  # where the failed ones stopped
+        final = final[running]
+        status_b = status_a[running]
+    else:
+        running = np.arange(count)
+        final, _, status_b, _ = _advance(homotopy, near, radius, np.zeros(count), _Segment, running, opts, steps)
+    endpoints = near.copy()
+    condition = np.full(count, np.inf)
+    winding = np.zeros(count, dtype=np.int64)
+    endgame = np.zeros(count, dtype=bool)
+    reached = status_b == PathStatus.RUNNING
+    settled_points, cond, infinite, settled = _classify(homotopy, final[reached], opts)
+    # regular: Newton at s = 0 converges quadratically there and the Jacobian is well conditioned
+    regular = settled & (cond <= opts.singular_condition)
+    done = running[reached][regular]
+    endpoints[done] = settled_points[regular]
+    condition[done] = cond[regular]
+    winding[done] = 1
+    status[done] = np.where(infinite[regular], PathStatus.AT_INFINITY, PathStatus.CONVERGED)
+    # the rest: Cauchy endgame from the state at the endgame radius
+    rest = np.setdiff1d(running, done)
+    if len(rest):
+        endgame[rest] = True
+        estimate, loops, status_c = _cauchy_endgame(homotopy, near[rest], radius[rest], opts,
+                                                    steps_c := np.zeros(len(rest), dtype=np.int64))
+        steps[rest] += steps_c
+        ok = status_c == PathStatus.RUNNING
+        status[rest[~ok]] = status_c[~ok]
+        if np.any(ok):
+            points, cond, infinite, _ = _classify(homotopy, estimate[ok], opts, settle=False)
+            target = rest[ok]
+            endpoints[target] = points
+            condition[target] = cond
+            winding[target] = loops[ok]
+            singular = (loops[ok] > 1) | (cond > opts.singular_condition)
+            status[target] = np.where(infinite, PathStatus.AT_INFINITY,
+                                      np.where(singular, PathStatus.SINGULAR_ENDPOINT, PathStatus.CONVERGED))
+    return endpoints, status, steps, condition, winding, endgame
+
+
+def track_paths(homotopy, start_points, options=None, progress=None):
+    """Track every start point from s = 1 to s = 0 together, with the endgame and a cautious retry.
+
+    Parameters
+    ----------
+    homotopy : StraightLineHomotopy (or any object with the same ``evaluate`` and ``evaluations``)
+    start_points : ndarray, shape (P, N)
+    options : TrackerOptions, optional
+    progress : callable, optional
+        ``progress(paths)`` with the number of paths past the bulk of their tracking
+        (s = 0.1), called after every step of that phase.
+
+    Returns
+    -------
+    TrackResult
+    """
+    opts = options or TrackerOptions()
+    start_points = np.asarray(start_points, dtype=complex)
+    # the batch's working arrays: about a dozen of (P, N, N) complex (Jacobians, stages, inverses)
+    check_memory(16 * 12 * len(start_points) * start_points.shape[-1] ** 2 if start_points.ndim == 2 else 0,
+                 f"tracking {len(start_points)} paths together")
+    before = homotopy.evaluations
+    endpoints, status, steps, condition, winding, endgame = _track(homotopy, start_points, opts, on_step=progress)
+    retracked = np.zeros(len(status), dtype=bool)
+    failed = np.nonzero(status >= PathStatus.FAILED_MIN_STEP)[0]
+    if len(failed):
+        cautious = replace(opts, initial_step=opts.initial_step / 10, max_step=opts.max_step / 10,
+                           corrector_tolerance=opts.corrector_tolerance / 10, max_steps=opts.max_steps * 5)
+        again = _track(homotopy, start_points[failed], cautious)
+        retracked[failed] = True
+        endpoints[failed], status[failed], extra_steps, condition[failed], winding[failed], endgame[failed] = again
+        steps[failed] += extra_steps
+    digits = np.full(len(status), 16, dtype=np.int64)
+    failed = np.nonzero(status >= PathStatus.FAILED_MIN_STEP)[0]
+    if len(failed) and opts.rescue_digits and hasattr(homotopy, "evaluate_precise"):
+        rescued, nears = [], []
+        # The rescue's work is bounded: an mpmath step costs about 7 evaluations of every term and its
+        # derivatives, so large systems get fewer steps, and a batch gets a total budget; paths beyond
+        # it stay failed (counted and reported), instead of a 1,600-term equation running for ten minutes.
+        terms = sum(p.n_terms for p in getattr(homotopy, "target", ())) or 1
+        per_step = 7 * terms * start_points.shape[1]
+        budget = RESCUE_WORK_PER_BATCH
+        for k in failed:  # the few stragglers, one at a time in mpmath
+            allowed = min(20000, RESCUE_WORK_PER_PATH // per_step, budget // per_step)
+            if allowed < 20:
+                break
+            near, used = track_segment_precise(homotopy, start_points[k], 1.0, opts.endgame_radius,
+                                               opts.rescue_digits, max_steps=allowed)
+            budget -= used * per_step
+            steps[k] += used
+            digits[k] = opts.rescue_digits
+            if near is not None:
+                rescued.append(k)
+                nears.append(near)
+        if rescued:
+            rescued = np.array(rescued)
+            again = _track(homotopy, None, opts, near=np.array(nears))
+            endpoints[rescued], status[rescued], extra_steps, condition[rescued], winding[rescued], \
+                endgame[rescued] = again
+            steps[rescued] += extra_steps
+    return TrackResult(endpoints, status, steps, condition, winding, endgame, retracked,
+                       homotopy.evaluations - before, digits=digits)
+
+
+class BatchTracker:
+    """Tracks the paths with the given numbers; picklable, so executors can send it to worker processes.
+
+    Parameters
+    ----------
+    homotopy : object
+        As for :func:`track_paths`.
+    starts : callable
+        ``starts(indices)`` gives the start points of those paths.
+    options : TrackerOptions
+
+    Returns (when called)
+    ---------------------
+    dict of ndarray
+        ``indices``, ``endpoints``, ``status``, ``steps``, ``winding``, ``condition``, ``retracked``,
+        ``digits``, ``evaluations``: plain arrays, so that a batch can be saved with numpy alone.
+    """
+
+    def __init__(self, homotopy, starts, options=None):
+        self.homotopy, self.starts, self.options = homotopy, starts, options
+        self.progress = None  # only in-process: a callable does not cross processes
+
+    def __call__(self, indices):
+        result = track_paths(self.homotopy, self.starts(indices), self.options, progress=self.progress)
+        return {"indices": np.asarray(indices), "endpoints": result.endpoints, "status": result.status,
+                "steps": result.steps, "winding": result.winding, "condition": result.condition,
+                "retracked": result.retracked, "digits": result.digits,
+                "evaluations": np.asarray(result.evaluations)}
+
+
+class StartArray:
+    """Start points given as an array (picklable, unlike a closure)."""
+
+    def __init__(self, points):
+        self.points = points
+
+    def __call__(self, indices):
+        return self.points[indices]

@@ -1,0 +1,574 @@
+"""Witness supersets of X = V(f_1, ..., f_m) in C^n by a regenerative cascade, and membership tests.
+
+A component Z of X of codimension c (dimension n - c) meets n - c generic
+hyperplanes in deg Z points, its witness points. All dimensions are found in
+one sweep over the equations (regeneration, after Hauenstein, Sommese and
+Wampler, "Regeneration homotopies for solving polynomial systems", Math. Comp.
+2011), so that the number of paths follows the sizes of the witness sets met on
+the way instead of a Bezout number per dimension:
+
+* fixed random hyperplanes l_1, ..., l_n; the codimension-c witness points of
+  V(f_1, ..., f_i) are its points on l_{c+1} = ... = l_n = 0;
+* before any equation, the one point of l_1 = ... = l_n = 0 witnesses C^n;
+* equation f = f_{i+1} of degree d, for each codimension-c witness point w:
+  if f(w) = 0, w's component lies in V(f) and w stays a codimension-c point;
+  otherwise the component meets V(f) in codimension c + 1: the hyperplane
+  l_{c+1} through w is moved to d other random hyperplanes (d paths), and
+  their product is deformed into f (d paths again), with c random combinations
+  of f_1..f_i holding the path on w's component;
+* endpoints that do not satisfy f_1..f_{i+1}, or that lie at infinity, are
+  dropped (counted); endpoints on a component of smaller codimension are junk,
+  removed by a rank test of the Jacobian (full rank c + 1 means the point cannot
+  lie on a larger component) and otherwise by a homotopy membership test.
+
+Examples
+--------
+>>> from numag.system.parse import parse_system
+>>> system = parse_system(["x*z", "y*z"], ["x", "y", "z"])   # plane z = 0 and line x = y = 0
+>>> sets = witness_supersets(system, seed=1)
+>>> sorted((s.dimension, len(s.points)) for s in sets.sets if len(s.points))
+[(1, 1), (2, 1)]
+"""
+
+from dataclasses import dataclass, field, replace
+
+import numpy as np
+from threadpoolctl import threadpool_limits
+
+from ..errors import InputError
+from ..system.polynomial import Polynomial, PolynomialSystem
+from ..run.executor import current_executor, charge_paths
+from ..numeric.cluster import cluster_labels, groups
+from ..numeric.evaluate import BatchEvaluator, TermSizes
+from ..numeric.linalg import scaled_singular_values
+from ..numeric.refine import IsolationTest, largest_scaled_residual, project_to_variety
+from ..numeric.seeds import random_state
+from ..tracking.homotopy import ParameterHomotopy, random_unit_complex
+from ..tracking.tracker import BatchTracker, PathStatus, StartArray, TrackerOptions
+
+__all__ = ["WitnessOptions", "WitnessSet", "WitnessSupersets", "witness_supersets", "Slicing", "track_moves",
+           "membership", "combine_equations", "random_rows", "linear_form", "jacobian_rank"]
+
+
+@dataclass(frozen=True)
+class WitnessOptions:
+    """Options of the witness computations (defaults declared once).
+
+    Attributes
+    ----------
+    lowest_dimension : int or None
+        Components of smaller dimension are not searched (None: down to points).
+    tracker : TrackerOptions
+    residual_tolerance : float
+        Largest scaled residual of an original equation at a witness point.
+    cluster_tolerance : float
+        Relative distance under which endpoints are the same point.
+    rank_threshold : float
+        Scaled singular values above this count towards the rank of J.
+    batch_size : int
+    """
+
+    lowest_dimension: int = None
+    tracker: TrackerOptions = TrackerOptions()
+    residual_tolerance: float = 1e-7
+    cluster_tolerance: float = 1e-6
+    rank_threshold: float = 1e-6
+    batch_size: int = 4096
+
+    def validated(self, n_variables):
+        """Raise InputError naming an invalid option."""
+        if self.lowest_dimension is not None and not 0 <= self.lowest_dimension <= n_variables:
+            raise InputError(f"the lowest dimension to search must be from 0 to {n_variables}, "
+                             f"got {self.lowest_dimension!r}")
+        if not 0 < self.cluster_tolerance < 1:
+            raise InputError(f"cluster_tolerance must be in (0, 1), got {self.cluster_tolerance!r}")
+        return self
+
+
+@dataclass
+class WitnessSet:
+    """The witness points of the union of the components of one dimension.
+
+    Attributes
+    ----------
+    dimension : int
+    points : ndarray, shape (K, n)
+        Distinct points of X on the slice.
+    multiplicity : ndarray of int, shape (K,)
+        Paths that ended at each point (above 1 on a non-reduced component).
+    slice_rows : ndarray, shape (dimension, n + 1)
+        The hyperplanes a . (1, x) = 0 cutting the points out (constant first).
+    """
+
+    dimension: int
+    points: np.ndarray
+    multiplicity: np.ndarray
+    slice_rows: np.ndarray
+
+
+@dataclass
+class WitnessSupersets:
+    """Result of :func:`witness_supersets`.
+
+    Attributes
+    ----------
+    sets : list of WitnessSet
+        One per dimension searched, from the top down (empty ones included).
+    dimensions_searched : list of int
+    slicing : Slicing
+        The random data (hyperplanes, combinations) used, for later homotopies.
+    paths : dict
+        Tracked paths by status label, plus what happened to their endpoints.
+    """
+
+    sets: list
+    dimensions_searched: list
+    slicing: "Slicing"
+    paths: dict = field(default_factory=dict)
+
+    def of_dimension(self, dimension):
+        """The witness set of that dimension (None when it was not searched)."""
+        for witness in self.sets:
+            if witness.dimension == dimension:
+                return witness
+        return None
+
+
+class Slicing:
+    """The random hyperplanes and combinations of one computation.
+
+    Parameters
+    ----------
+    system : PolynomialSystem
+        Affine system.
+    rng : numpy.random.Generator
+    """
+
+    def __init__(self, system, rng):
+        self.system = system
+        self.n = system.n_variables
+        self.rng = rng
+        # unit-norm complex rows; hyperplane j is rows[j] . (1, x) = 0. Complex, also for real
+        # equations: a real slice can be nearly parallel to a real component (seen: a line at 0.2
+        # degrees from six vertical lines put their witness points 500 away and lost five of them);
+        # real witness points come afterwards (numag.witness.decompose moves witness sets to a real slice).
+        rows = random_rows(rng, self.n, self.n + 1)
+        center = (rng.standard_normal(self.n) + 1j * rng.standard_normal(self.n)) / np.sqrt(2)
+        # All n hyperplanes pass through a random point of moderate size (the start point of the sweep):
+        # random constants could put it far out, where scaled residuals say little.
+        center *= 1.0 / np.sqrt(self.n)
+        rows[:, 0] = -(rows[:, 1:] @ center)
+        self.rows = (rows / np.linalg.norm(rows, axis=1, keepdims=True)).astype(complex)
+        # each equation divided by its coefficient norm: comparable sizes keep the homotopies well scaled
+        # (Chebyshev curves of degree 11 have coefficients up to 1024); the zero sets are unchanged
+        self.homogeneous = [p.numeric().homogenize(0) * (1.0 / max(p.coefficient_norm(), 1e-300))
+                            for p in system.polynomials]
+        self._factors = {}
+
+    def slice_rows(self, codimension):
+        """The hyperplanes of the codimension-c witness points: l_{c+1}, ..., l_n."""
+        return self.rows[codimension:]
+
+    def factor_rows(self, position, degree):
+        """The d random hyperplanes that replace l_position in a regeneration (fixed per position)."""
+        have = self._factors.get(position, np.zeros((0, self.n + 1), dtype=complex))
+        if len(have) < degree:
+            have = np.vstack([have, random_rows(self.rng, degree - len(have), self.n + 1)])
+            self._factors[position] = have
+        return have[:degree]
+
+    def combinations(self, equations, count):
+        """``count`` random combinations of homogeneous equations (see :func:`combine_equations`)."""
+        return combine_equations(equations, count, self.rng)
+
+
+def combine_equations(equations, count, rng):
+    """``count`` random combinations of homogeneous equations in (X_0, x), raised to one degree by X_0 powers.
+
+    Parameters
+    ----------
+    equations : list of Polynomial
+        Homogeneous, in the same n + 1 variables (X_0 first).
+    count : int
+    rng : numpy.random.Generator
+
+    Returns
+    -------
+    list of Polynomial
+    """
+    if count == 0 or not equations:
+        return []
+    top = max(p.degree for p in equations)
+    x0 = Polynomial.variable(0, equations[0].n_variables).numeric()
+    raised = [p * x0.power(top - p.degree) if p.degree < top else p for p in equations]
+    weights = random_rows(rng, count, len(equations))
+    combined = []
+    for row in weights:
+        total = Polynomial.zero(equations[0].n_variables)
+        for w, p in zip(row, raised):
+            total = total + p * complex(w)
+        combined.append(total)
+    return combined
+
+
+def random_rows(rng, count, size):
+    """Random complex rows of unit norm, shape (count, size)."""
+    rows = rng.standard_normal((count, size)) + 1j * rng.standard_normal((count, size))
+    return rows / np.linalg.norm(rows, axis=1, keepdims=True)
+
+
+def linear_form(row):
+    """The homogeneous linear polynomial row . (X_0, x)."""
+    return Polynomial.linear(row)
+
+
+def _product_oflinear_form(rows):
+    product = linear_form(rows[0])
+    for row in rows[1:]:
+        product = product * linear_form(row)
+    return product
+
+
+def track_moves(start, target, points, rng, options, counts, batch_size=4096):
+    """Track affine points from the square homogeneous system ``start`` to ``target`` (parameter homotopy).
+
+    Parameters
+    ----------
+    start, target : list of Polynomial
+        n homogeneous polynomials each, in (X_0, x_1, ..., x_n), equal degrees row by row.
+    points : ndarray, shape (P, n)
+        Solutions of ``start`` (affine).
+    rng : numpy.random.Generator
+    options : TrackerOptions
+    counts : dict
+        Path counts by status label, updated in place.
+
+    Returns
+    -------
+    affine : ndarray, shape (P, n)
+        Endpoints (NaN where the path failed or went to infinity).
+    status : ndarray of int, shape (P,)
+    winding : ndarray of int, shape (P,)
+    """
+    points = np.asarray(points, dtype=complex).reshape(-1, len(start))
+    count = len(points)
+    affine = np.full(points.shape, np.nan, dtype=complex)
+    status = np.zeros(count, dtype=np.int64)
+    winding = np.zeros(count, dtype=np.int64)
+    if count == 0:
+        return affine, status, winding
+    charge_paths(count, f"a homotopy of {len(start)} equations")  # the work guard, before any tracking
+    size = len(start) + 1
+
+    def homotopy_with_fresh_gamma():
+        patch = (rng.standard_normal(size) + 1j * rng.standard_normal(size)) / np.sqrt(2 * size)
+        made = ParameterHomotopy(start, target, patch, random_unit_complex(rng))
+        return made, made.start_solutions_from(points)
+
+    homotopy, starts = homotopy_with_fresh_gamma()
+
+    def store(rows, result):
+        status[rows] = result["status"]
+        winding[rows] = result["winding"]
+        finite = (result["status"] == PathStatus.CONVERGED) | (result["status"] == PathStatus.SINGULAR_ENDPOINT)
+        with np.errstate(all="ignore"):
+            ends = result["endpoints"][:, 1:] / result["endpoints"][:, :1]
+        affine[rows] = np.where(finite[:, None], ends, np.nan)
+
+    def run(indices, tracker_options):
+        batches = [indices[first:first + batch_size] for first in range(0, len(indices), batch_size)]
+        tracker = BatchTracker(homotopy, StartArray(starts), tracker_options)
+        executor = current_executor()
+        if executor is None or len(batches) < 2:  # small moves stay here: no transfer cost
+            for rows in batches:
+                with threadpool_limits(limits=1):
+                    store(rows, tracker(rows))
+            return
+        for position, result in executor.run(tracker, batches):
+            store(batches[position], result)
+        for failure in executor.failures:  # counted as failed paths, never dropped
+            status[batches[failure.index]] = PathStatus.FAILED_BATCH
+
+    run(np.arange(count), options)
+    cautious = options
+    for round_ in range(_JUMP_ROUNDS + 1):
+        crossed = _crossed(affine, status)
+        if len(crossed) == 0:
+            break
+        if round_ == _JUMP_ROUNDS:
+            # Still two paths at one regular endpoint: the endpoint is real, the other path's own
+            # endpoint is missing. Count the extra paths of each group as failed (never merge silently).
+            _mark_jumped(affine, status, crossed)
+            break
+        counts["retracked_after_jump"] = counts.get("retracked_after_jump", 0) + len(crossed)
+        if round_ == _FRESH_GAMMA_ROUND:  # the paths nearly meet for this gamma: all again with another (a new pairing)
+            homotopy, starts = homotopy_with_fresh_gamma()
+            run(np.arange(count), cautious)
+        else:  # again with smaller steps, on the same homotopy (the pairing of starts and ends holds)
+            cautious = replace(cautious, max_step=cautious.max_step / 10,
+                               predictor_error=cautious.predictor_error / 100, max_steps=cautious.max_steps * 5,
+                               corrector_iterations=3, chord_corrector=False)
+            run(crossed, cautious)
+    for code in PathStatus:
+        if code != PathStatus.RUNNING:
+            counts[code.label] = counts.get(code.label, 0) + int(np.sum(status == code))
+    return affine, status, winding
+
+
+#: Endpoints with a scaled residual between the tolerance and this are refined before they are judged.
+_DOUBTFUL_RESIDUAL = 1e-3
+
+#: Rounds of repair of jumped paths in a move, and the round that tries a fresh gamma for every path.
+_JUMP_ROUNDS, _FRESH_GAMMA_ROUND = 5, 2
+
+
+def _crossed(affine, status):
+    """Paths that share a regular endpoint with another path (a regular solution has one path)."""
+    regular = np.nonzero((status == PathStatus.CONVERGED) & np.all(np.isfinite(affine), axis=1))[0]
+    if len(regular) < 2:
+        return np.zeros(0, dtype=np.int64)
+    labels = cluster_labels(affine[regular], 1e-6)
+    return regular[np.bincount(labels)[labels] > 1]
+
+
+def _mark_jumped(affine, status, crossed):
+    """Keep one path of each group of paths sharing a regular endpoint; mark the others as jumped (failed)."""
+    labels = cluster_labels(affine[crossed], 1e-6)
+    for members in groups(labels):
+        extra = crossed[members[1:]]
+        status[extra] = PathStatus.FAILED_JUMP
+        affine[extra] = np.nan
+
+
+def jacobian_rank(evaluator, sizes, points, threshold):
+    """Numerical rank of the row-scaled Jacobian at each point (rows divided by their terms' size)."""
+    points = np.atleast_2d(points)
+    if len(points) == 0:
+        return np.zeros(0, dtype=np.int64)
+    _, jacobian = evaluator.evaluate(points)
+    values = scaled_singular_values(jacobian, sizes.gradients(points))
+    return np.sum(values > threshold, axis=1)
+
+
+def membership(held, slice_rows, witness_points, point, rng, options, counts):
+    """Which witness points lie on a component through ``point`` (the homotopy membership test).
+
+    The slice of the witness points is moved to a random slice through the point; the
+    component of a witness point passes through the point exactly when its path ends there.
+
+    Parameters
+    ----------
+    held : list of Polynomial
+        c homogeneous equations vanishing on the components, of full rank c at their witness points.
+    slice_rows : ndarray, shape (n - c, n + 1)
+        The hyperplanes of the witness points.
+    witness_points : ndarray, shape (K, n)
+    point : ndarray, shape (n,)
+    rng : numpy.random.Generator
+    options : WitnessOptions
+    counts : dict
+        Path counts, updated.
+
+    Returns
+    -------
+    ndarray of bool, shape (K,)
+        True for the witness points whose path ended at ``point``.
+    """
+    witness_points = np.atleast_2d(witness_points)
+    n = witness_points.shape[1]
+    if len(witness_points) == 0:
+        return np.zeros(0, dtype=bool)
+    if len(slice_rows) == 0:  # isolated points: the component is the point itself
+        return np.linalg.norm(witness_points - point[None, :], axis=1) <= 1e-6 * (1 + np.linalg.norm(point))
+    through = random_rows(rng, len(slice_rows), n + 1)
+    through[:, 0] = -(through[:, 1:] @ point)  # each hyperplane passes through the point
+    start = held + [linear_form(r) for r in slice_rows]
+    target = held + [linear_form(r) for r in through]
+    ends, _, _ = track_moves(start, target, witness_points, rng, options.tracker, counts, options.batch_size)
+    distance = np.nan_to_num(np.linalg.norm(ends - point[None, :], axis=1), nan=np.inf)
+    return distance <= 1e-5 * (1 + np.linalg.norm(point))
+
+
+def witness_supersets(system, options=None, seed=None, progress=None):
+    """Witness points of every dimension of X = V(F) (affine), junk removed.
+
+    Parameters
+    ----------
+    system : PolynomialSystem
+        Affine equations in n unknowns (any number of equations).
+    options : WitnessOptions, optional
+    seed : int, optional
+    progress : callable, optional
+        ``progress(message)`` after each equation.
+
+    Returns
+    -------
+    WitnessSupersets
+
+    Raises
+    ------
+    InputError
+        For projective input or invalid options.
+    """
+    if system.projective:
+        raise InputError("witness sets are computed for affine systems; give the projective system in an "
+                         "affine chart (set one coordinate to 1)")
+    n = system.n_variables
+    options = (options or WitnessOptions()).validated(n)
+    _, rng = random_state(seed)
+    slicing = Slicing(system, rng)
+    lowest = 0 if options.lowest_dimension is None else options.lowest_dimension
+    deepest = n - lowest  # largest codimension searched
+    counts = {"tracked": 0, "not_on_X": 0, "at_infinity_or_failed": 0, "on_larger_component": 0,
+              "membership_paths": 0}
+    track_counts = {}
+    # codimension -> (points (K, n), multiplicity (K,)); the start: C^n is witnessed by one point
+    start_point = np.linalg.solve(slicing.rows[:, 1:], -slicing.rows[:, 0])
+    current = {0: (start_point[None, :], np.ones(1, dtype=np.int64))}
+    order = sorted(range(system.n_equations), key=lambda k: system.polynomials[k].degree)
+    used = []
+    for step, index in enumerate(order):
+        f = slicing.homogeneous[index]
+        if f.is_zero():
+            continue
+        if f.degree == 0:  # a nonzero constant: no point satisfies it, X is empty in every dimension
+            current = {}
+            counts["constant_equation"] = 1
+            break
+        before = used.copy()
+        used.append(index)
+        equations = [slicing.homogeneous[k] for k in used]
+        affine = [system.polynomials[k].numeric() for k in used]
+        evaluator, sizes = BatchEvaluator(affine), TermSizes(affine)
+        single = BatchEvaluator([system.polynomials[index].numeric()])
+        single_sizes = TermSizes([system.polynomials[index]])
+        following = {}
+        for codim in sorted(current):
+            points, multiplicity = current[codim]
+            residual = largest_scaled_residual(single_sizes, single, points)
+            on = residual <= options.residual_tolerance
+            doubtful = np.nonzero(~on & (residual <= _DOUBTFUL_RESIDUAL))[0]
+            if len(doubtful):
+                # A point on a multiple component is known only to about the square root of the
+                # precision: refine it on the equations so far plus f and its slice before deciding.
+                points = points.copy()
+                refined, moved = _refine_on(system, used, slicing.slice_rows(codim), points[doubtful])
+                points[doubtful[moved]] = refined[moved]
+                on[doubtful[moved]] = True
+                counts["refined_to_stay"] = counts.get("refined_to_stay", 0) + int(np.sum(moved))
+            stay_points, stay_mult = following.get(codim, (np.zeros((0, n), complex), np.zeros(0, np.int64)))
+            following[codim] = (np.vstack([stay_points, points[on]]), np.concatenate([stay_mult, multiplicity[on]]))
+            regenerate = points[~on]
+            if codim >= deepest or len(regenerate) == 0:
+                continue
+            candidates, candidate_paths = _regenerate(slicing, [slicing.homogeneous[k] for k in before], f, codim,
+                                                      regenerate, options, track_counts, counts)
+            if len(candidates) == 0:
+                continue
+            residual = largest_scaled_residual(sizes, evaluator, candidates)
+            good = residual <= options.residual_tolerance
+            doubtful = np.nonzero(~good & (residual <= _DOUBTFUL_RESIDUAL))[0]
+            if len(doubtful):
+                # An endpoint known only to 1e-6 (ill-conditioned, or a path that barely settled) can miss
+                # the residual test by a hair: refine it on the equations and the slice before dropping it
+                # (a node of a conic and a cubic was lost at 1.09e-7).
+                candidates = candidates.copy()
+                refined, moved = _refine_on(system, used, slicing.slice_rows(codim + 1), candidates[doubtful])
+                candidates[doubtful[moved]] = refined[moved]
+                good[doubtful[moved]] = True
+                counts["refined_to_keep"] = counts.get("refined_to_keep", 0) + int(np.sum(moved))
+            counts["not_on_X"] += int(np.sum(~good & np.all(np.isfinite(candidates), axis=1)))
+            counts["at_infinity_or_failed"] += int(np.sum(~np.all(np.isfinite(candidates), axis=1)))
+            candidates = candidates[good]
+            if len(candidates) == 0:
+                continue
+            labels = cluster_labels(candidates, options.cluster_tolerance)
+            members = groups(labels)
+            distinct = np.array([candidates[m[0]] for m in members])
+            paths = np.array([len(m) for m in members], dtype=np.int64)
+            keep = _not_junk(slicing, equations, evaluator, sizes, codim + 1, distinct, following,
+                             options, track_counts, counts)
+            counts["on_larger_component"] += int(np.sum(~keep))
+            have_points, have_mult = following.get(codim + 1, (np.zeros((0, n), complex),
+                                                               np.zeros(0, np.int64)))
+            following[codim + 1] = (np.vstack([have_points, distinct[keep]]),
+                                    np.concatenate([have_mult, paths[keep]]))
+        current = following
+        if progress is not None:
+            sizes = ", ".join(f"dim {n - c}: {len(current[c][0])}" for c in sorted(current) if len(current[c][0]))
+            progress(f"equation {step + 1} of {system.n_equations} done; witness points so far: {sizes or 'none'}")
+    counts["tracked"] = sum(track_counts.get(code.label, 0) for code in PathStatus if code != PathStatus.RUNNING)
+    counts.update(track_counts)
+    sets = []
+    for codim in range(0, deepest + 1):
+        points, multiplicity = current.get(codim, (np.zeros((0, n), complex), np.zeros(0, np.int64)))
+        sets.append(WitnessSet(n - codim, points, multiplicity, slicing.slice_rows(codim).copy()))
+    return WitnessSupersets(sets, list(range(n, lowest - 1, -1)), slicing, counts)
+
+
+def _refine_on(system, used, slice_rows, points):
+    """Gauss-Newton onto f_used = 0 and the slice; (refined points, mask of those that converged nearby)."""
+    n = system.n_variables
+    equations = [system.polynomials[k].numeric() for k in used] + [Polynomial.linear(r[1:], r[0]) for r in slice_rows]
+    augmented = PolynomialSystem([f"x{j}" for j in range(n)], equations)
+    result = project_to_variety(augmented, BatchEvaluator(augmented.polynomials), points, max_iterations=60)
+    near = result.distances <= 1e-5 * (1 + np.linalg.norm(points, axis=1))
+    return result.points, result.converged & near
+
+
+def _regenerate(slicing, held_equations, f, codim, points, options, track_counts, counts):
+    """Endpoints on V(held, f) of the codimension-(codim + 1) slice, from codim-c points not on V(f)."""
+    n = slicing.n
+    degree = f.degree
+    held = slicing.combinations(held_equations, codim) if held_equations else []
+    rest = [linear_form(r) for r in slicing.rows[codim + 1:]]
+    moved_rows = slicing.factor_rows(codim, degree)
+    starts = []
+    base = held + [linear_form(slicing.rows[codim])] + rest
+    for row in moved_rows:  # move l_{c+1} to each factor hyperplane: d linear moves
+        target = held + [linear_form(row)] + rest
+        ends, _, _ = track_moves(base, target, points, slicing.rng, options.tracker, track_counts,
+                                 options.batch_size)
+        starts.append(ends[np.all(np.isfinite(ends), axis=1)])
+    starts = np.vstack(starts) if starts else np.zeros((0, n), complex)
+    lost = len(points) * degree - len(starts)
+    counts["at_infinity_or_failed"] += lost
+    product = _product_oflinear_form(moved_rows)
+    ends, _, _ = track_moves(held + [product] + rest, held + [f] + rest, starts, slicing.rng, options.tracker,
+                             track_counts, options.batch_size)
+    return ends, len(starts)
+
+
+def _not_junk(slicing, equations, evaluator, sizes, codim, points, found, options, track_counts, counts):
+    """False for the points of a codimension-``codim`` candidate set that lie on a larger component."""
+    keep = np.ones(len(points), dtype=bool)
+    larger = [(c, found[c][0]) for c in sorted(found) if c < codim and len(found[c][0])]
+    if not larger or len(points) == 0:
+        return keep
+    # Full rank codim: the tangent space is too small for a larger component through the point.
+    ranks = jacobian_rank(evaluator, sizes, points, options.rank_threshold)
+    suspects = np.nonzero(ranks < codim)[0]
+    if len(suspects) == 0:
+        return keep
+    # A witness point of codimension codim is an isolated point of X_i on its slice; a point of a
+    # larger component is not. The local test finds the curve through a junk point cheaply
+    # (positive evidence); only the points it calls isolated need the homotopy membership test.
+    n = slicing.n
+    sliced = PolynomialSystem([f"x{j}" for j in range(n)], [p.dehomogenize(0) for p in equations]
+                              + [Polynomial.linear(r[1:], r[0]) for r in slicing.slice_rows(codim)])
+    local = IsolationTest(sliced, slicing.rng)
+    for k in suspects:
+        if not local.isolated(points[k]):
+            keep[k] = False
+            counts["junk_by_local_test"] = counts.get("junk_by_local_test", 0) + 1
+            continue
+        for c, witness_points in larger:
+            before = sum(track_counts.values())
+            held = slicing.combinations(equations, c)
+            hits = membership(held, slicing.slice_rows(c), witness_points, points[k], slicing.rng, options,
+                              track_counts)
+            counts["membership_paths"] += sum(track_counts.values()) - before
+            if np.any(hits):
+                keep[k] = False
+                break
+    return keep

@@ -1,0 +1,590 @@
+"""Numerical irreducible decomposition of X = V(F) (``numag decompose``) and components through a point.
+
+Per dimension, the witness points from :func:`numag.witness.cascade.witness_supersets`
+are split into irreducible components:
+
+* **monodromy**: the slice is moved around a random loop (to a random slice and
+  back, each leg with its own gamma); witness points that swap lie on the same
+  component; the swaps are edges of a networkx graph whose connected components
+  are the candidate groups;
+* **trace test** (Sommese, Verschelde, Wampler, "Symmetric functions applied to
+  decomposing solution sets of polynomial systems", SIAM J. Numer. Anal. 2002):
+  the slice is translated, x -> tr(x) = u . x summed over a complete component is
+  linear in the translation, so the defect tr(+1) + tr(-1) - 2 tr(0) of a group
+  vanishes exactly when the group is a union of components. Defects are
+  computed once per point and add up over groups, so the loops stop as soon as
+  every group is confirmed, and groups that monodromy has not yet joined can be
+  joined by the test alone.
+* **non-reduced components** (rank J below the codimension at their witness
+  points) are deflated first: random minors of J of the size rank + 1 are added
+  to the equations (isosingular deflation, Hauenstein and Wampler, "Isosingular
+  sets and deflation", Found. Comput. Math. 2013) until the Jacobian has full
+  rank there, so that the witness points can be moved.
+
+Examples
+--------
+>>> from numag.system.parse import parse_system
+>>> system = parse_system(["x*z", "y*z"], ["x", "y", "z"])
+>>> result = decompose(system, seed=1)
+>>> [(c.dimension, c.degree) for c in result.components]
+[(2, 1), (1, 1)]
+"""
+
+from dataclasses import dataclass, field, replace
+import itertools
+import math
+import time
+
+import networkx as nx
+import numpy as np
+from scipy.spatial import cKDTree
+
+from ..errors import InputError, LimitError
+from ..system.polynomial import combined_minor, linear_space, require_numeric
+from ..numeric.cluster import cluster_labels
+from ..numeric.evaluate import BatchEvaluator, TermSizes
+from ..numeric.scaling import Scaling
+from ..numeric.seeds import random_state, resolved_seed
+from .cascade import (WitnessOptions, combine_equations, jacobian_rank, linear_form, membership, random_rows,
+                      track_moves, witness_supersets)
+
+__all__ = ["Component", "Decomposition", "DecomposeOptions", "decompose", "components_through"]
+
+
+@dataclass(frozen=True)
+class DecomposeOptions:
+    """Options of :func:`decompose` (defaults declared once).
+
+    Attributes
+    ----------
+    witness : WitnessOptions
+    max_loops : int
+        Monodromy loops per dimension before the unconfirmed groups are reported as such.
+    stall_loops : int
+        Loops without a new swap after which groups are joined by the trace test alone.
+    trace_tolerance : float
+        Relative size of a trace defect that counts as zero.
+    """
+
+    witness: WitnessOptions = WitnessOptions()
+    max_loops: int = 60
+    stall_loops: int = 6
+    trace_tolerance: float = 1e-10
+
+
+@dataclass
+class Component:
+    """One irreducible component of X.
+
+    Attributes
+    ----------
+    id : int
+        1, 2, ... from the top dimension down.
+    dimension, degree : int
+    points : ndarray, shape (degree, n)
+        Witness points on :attr:`slice_rows` (for dimension 0: the point itself).
+    real : ndarray of bool, shape (degree,)
+        Witness points with negligible imaginary parts (real coefficients only). For a
+        positive-dimensional component, False everywhere means no real witness point was
+        found on this slice, not that the component has no real points.
+    multiplicity : int
+        Paths that ended at each witness point (1 for a generically reduced component).
+    reduced : bool
+        True when rank J = n - dimension at the witness points.
+    slice_rows : ndarray, shape (dimension, n + 1)
+        Hyperplanes a . (1, x) = 0 of the witness points.
+    confirmed : bool
+        The trace test confirmed the group complete (always true for degree 1).
+    trace_defect : float
+        Relative trace defect of the group (0 for degree 1).
+    """
+
+    id: int
+    dimension: int
+    degree: int
+    points: np.ndarray
+    real: np.ndarray
+    multiplicity: int
+    reduced: bool
+    slice_rows: np.ndarray
+    confirmed: bool = True
+    trace_defect: float = 0.0
+
+
+@dataclass
+class Decomposition:
+    """Result of :func:`decompose`.
+
+    Attributes
+    ----------
+    system : PolynomialSystem
+    components : list of Component
+    dimensions_searched : list of int
+    paths : dict
+        Tracked paths by status, and what became of their endpoints.
+    loops : dict
+        Monodromy loops run per dimension.
+    seed : int
+    seconds : float
+    scaling : Scaling or None
+        The units the computation used; points and slices are in the user's units.
+    """
+
+    system: object
+    components: list
+    dimensions_searched: list
+    paths: dict
+    loops: dict
+    seed: int
+    seconds: float
+    extra: dict = field(default_factory=dict)
+    scaling: object = None
+
+    def in_units(self, scaling, system, to_user):
+        """The same decomposition with points and slices moved to other units (a new object).
+
+        Parameters
+        ----------
+        scaling : Scaling
+        system : PolynomialSystem
+            The system in the target units.
+        to_user : bool
+            True: from the computed units of ``scaling`` to the user's; False: back.
+        """
+        moved = []
+        for c in self.components:
+            points = scaling.to_user(c.points) if to_user else scaling.to_computed(c.points)
+            rows = (scaling.hyperplanes_to_user(c.slice_rows) if to_user
+                    else scaling.hyperplanes_to_computed(c.slice_rows)) if len(c.slice_rows) else c.slice_rows
+            moved.append(replace(c, points=points, slice_rows=rows))
+        return replace(self, system=system, components=moved, scaling=scaling if to_user else None)
+
+    @property
+    def unconfirmed(self):
+        """Components the trace test did not confirm."""
+        return [c for c in self.components if not c.confirmed]
+
+    def dimension(self):
+        """Dimension of X (-1 when X is empty on the dimensions searched)."""
+        return max((c.dimension for c in self.components), default=-1)
+
+
+def random_minor(polynomials, size, rng, n):
+    """det(A J B) for random A (size x m), B (n x size): a random combination of the size-minors of J."""
+    m = len(polynomials)
+    a = rng.standard_normal((size, m)) + 1j * rng.standard_normal((size, m))
+    b = rng.standard_normal((n, size)) + 1j * rng.standard_normal((n, size))
+    gradients = [[p.derivative(j) for j in range(n)] for p in polynomials]
+    return combined_minor(gradients, a, b)
+
+
+def holding_equations(system, codimension, points, rng, threshold=1e-6, max_rounds=4, simple=False):
+    """Affine equations with X's components through ``points`` among their solutions, of full rank there.
+
+    The system itself when rank J = codimension at every point (or the points are ``simple``: each
+    the end of one path, a simple root of a square subsystem, so the rank is full whatever the size of
+    its singular values); otherwise random minors of J (size rank + 1) are added until it is
+    (isosingular deflation).
+
+    Returns
+    -------
+    list of Polynomial
+        Affine numeric polynomials.
+    bool
+        True when deflation was needed.
+    """
+    n = system.n_variables
+    equations = [p.numeric() for p in system.polynomials]
+    deflated = False
+    points = np.atleast_2d(points)
+    for _ in range(0 if simple else max_rounds):
+        evaluator = BatchEvaluator(equations)
+        ranks = jacobian_rank(evaluator, TermSizes(equations), points, threshold) if len(points) \
+            else np.array([codimension])
+        low = int(ranks.min())
+        if low >= codimension:
+            break
+        deflated = True
+        try:
+            for _ in range(codimension - low):
+                minor = random_minor(equations, low + 1, rng, n)
+                if not minor.is_zero():
+                    equations.append(minor * (1.0 / minor.coefficient_norm()))
+        except LimitError:
+            # The expanded minor is too large to build: stop deflating. Paths on the undeflated
+            # equations may fail; they are counted, and their groups reported as unconfirmed.
+            break
+    return equations, deflated
+
+
+class _Mover:
+    """Moves the witness points of one dimension between slices, on the held equations."""
+
+    def __init__(self, system, codimension, points, slice_rows, rng, options, counts, simple=False):
+        self.n = system.n_variables
+        self.codimension = codimension
+        self.rng = rng
+        self.options = options
+        self.counts = counts
+        equations, self.deflated = holding_equations(system, codimension, points, rng,
+                                                     options.witness.rank_threshold, simple=simple)
+        self.held = combine_equations([p.homogenize(0) for p in equations], codimension, rng)
+        self.slice_rows = slice_rows
+
+    def move(self, points, from_rows, to_rows):
+        start = self.held + [linear_form(r) for r in from_rows]
+        target = self.held + [linear_form(r) for r in to_rows]
+        # No high-precision rescue here: a loop or trace path that fails only costs another loop or
+        # translation, while re-tracking it in mpmath can take minutes (seen on three quadrics).
+        tracker = replace(self.options.witness.tracker, rescue_digits=0)
+        ends, _, _ = track_moves(start, target, points, self.rng, tracker, self.counts,
+                                 self.options.witness.batch_size)
+        return ends
+
+
+def _match(ends, points, tolerance):
+    """Index of the point each endpoint landed on (-1: none within the tolerance)."""
+    result = np.full(len(ends), -1, dtype=np.int64)
+    good = np.all(np.isfinite(ends), axis=1)
+    if not np.any(good):
+        return result
+    tree = cKDTree(np.column_stack([points.real, points.imag]))
+    query = ends[good]
+    distance, index = tree.query(np.column_stack([query.real, query.imag]))
+    scale = 1 + np.linalg.norm(points[index], axis=1)
+    result[np.nonzero(good)[0]] = np.where(distance <= tolerance * scale, index, -1)
+    return result
+
+
+def _trace_defects(mover, points, rng, tolerance):
+    """Per-point trace defects tr(+1) + tr(-1) - 2 tr(0) for a random translation of the slice, and a scale."""
+    rows = mover.slice_rows
+    for _ in range(3):  # a failed path spoils the defects: try another translation
+        shift = 0.5 * np.exp(2j * np.pi * rng.random(len(rows)))
+        projection = rng.standard_normal(mover.n) + 1j * rng.standard_normal(mover.n)
+        plus, minus = rows.copy(), rows.copy()
+        plus[:, 0] += shift
+        minus[:, 0] -= shift
+        up = mover.move(points, rows, plus)
+        down = mover.move(points, rows, minus)
+        if np.all(np.isfinite(up)) and np.all(np.isfinite(down)):
+            traces = np.column_stack([up @ projection, down @ projection, points @ projection])
+            defects = traces[:, 0] + traces[:, 1] - 2 * traces[:, 2]
+            scale = 1 + np.sum(np.abs(traces))
+            return defects, scale
+    return None, None
+
+
+def _split(mover, points, rng, options, loops_run):
+    """Groups of witness point indices, each confirmed or not, and their relative defects."""
+    count = len(points)
+    graph = nx.Graph()
+    graph.add_nodes_from(range(count))
+    if count == 1:
+        return [([0], True, 0.0)]
+    defects, scale = _trace_defects(mover, points, rng, options.trace_tolerance)
+
+    def status():
+        result = []
+        for group in nx.connected_components(graph):
+            group = sorted(group)
+            if defects is None:
+                result.append((group, False, float("nan")))
+            else:
+                defect = abs(np.sum(defects[group])) / scale
+                result.append((group, defect <= options.trace_tolerance, float(defect)))
+        return result
+
+    quiet = 0
+    loops = 0
+    while loops < options.max_loops:
+        groups = status()
+        if all(done for _, done, _ in groups):
+            break
+        open_points = sorted(i for group, done, _ in groups if not done for i in group)
+        away = random_rows(rng, len(mover.slice_rows), mover.n + 1)
+        there = mover.move(points[open_points], mover.slice_rows, away)
+        good = np.all(np.isfinite(there), axis=1)
+        back = np.full(there.shape, np.nan, dtype=complex)
+        if np.any(good):
+            back[good] = mover.move(there[good], away, mover.slice_rows)
+        landed = _match(back, points, 1e-6)
+        loops += 1
+        before = nx.number_connected_components(graph)
+        for source, target in zip(open_points, landed):
+            if target >= 0:
+                graph.add_edge(int(source), int(target))
+        quiet = quiet + 1 if nx.number_connected_components(graph) == before else 0
+        if quiet >= options.stall_loops and defects is not None:
+            quiet = 0
+            _join_by_trace(graph, status(), defects, scale, options.trace_tolerance)
+    loops_run.append(loops)
+    if defects is None:
+        return status()
+    result = []
+    for group, done, defect in status():
+        if done and len(group) > 1:
+            result.extend(_complete_parts(group, defects, scale, options.trace_tolerance))
+        else:
+            result.append((group, done, defect))
+    return result
+
+
+#: Largest confirmed group whose parts are all tried by the trace test (2^(k-1) sums).
+_PARTS_LIMIT = 16
+
+
+def _complete_parts(group, defects, scale, tolerance):
+    """A confirmed group split where a proper part of it also passes the trace test.
+
+    The traces of an irreducible component's points sum to a linear function only over the whole
+    component (for a generic projection and translation): a proper part that passes means the
+    monodromy joined two components (a path jumped where they meet), and the union of complete
+    components passes the test as well. Parts are tried smallest first; both sides are split again.
+    Groups larger than ``_PARTS_LIMIT`` are kept as they are.
+
+    Examples
+    --------
+    >>> _complete_parts([0, 1, 2], np.array([1.0, -1.0, 0.0]), 1.0, 1e-10)
+    [([0, 1], True, 0.0), ([2], True, 0.0)]
+    """
+    group = list(group)
+    k = len(group)
+    values = defects[group]
+    if 1 < k <= _PARTS_LIMIT:
+        masks = np.arange(1, 2 ** (k - 1), dtype=np.int64)  # each part or its complement, once
+        members = (masks[:, None] >> np.arange(k)) & 1
+        sums = np.abs(members @ values) / scale
+        sizes = members.sum(axis=1)
+        passing = np.nonzero(sums <= tolerance)[0]
+        if len(passing):
+            best = passing[np.argmin(sizes[passing])]
+            part = [g for g, inside in zip(group, members[best]) if inside]
+            rest = [g for g, inside in zip(group, members[best]) if not inside]
+            return (_complete_parts(part, defects, scale, tolerance)
+                    + _complete_parts(rest, defects, scale, tolerance))
+    return [(group, True, float(abs(np.sum(values)) / scale))]
+
+
+def _join_by_trace(graph, groups, defects, scale, tolerance):
+    """Join open groups whose defects cancel (a union of groups that is a complete component)."""
+    open_groups = [group for group, done, _ in groups if not done]
+    for size in range(2, min(4, len(open_groups)) + 1):
+        for chosen in itertools.combinations(range(len(open_groups)), size):
+            members = [i for k in chosen for i in open_groups[k]]
+            if abs(np.sum(defects[members])) / scale <= tolerance:
+                for a, b in zip(members, members[1:]):
+                    graph.add_edge(a, b)
+                return
+
+
+def _to_real_slice(mover, points, rows, rng):
+    """Witness points on a random real slice (real points of the component appear where there are any).
+
+    The computation itself uses complex slices (a real slice can be nearly parallel to a real
+    component); the points are moved afterwards. Kept only when every path arrives at a distinct
+    point; otherwise the complex slice stays.
+    """
+    n = points.shape[1]
+    real_rows = rng.standard_normal((len(rows), n + 1))
+    center = rng.standard_normal(n) / np.sqrt(n)
+    real_rows[:, 0] = -(real_rows[:, 1:] @ center)
+    real_rows = (real_rows / np.linalg.norm(real_rows, axis=1, keepdims=True)).astype(complex)
+    moved = mover.move(points, rows, real_rows)
+    if not np.all(np.isfinite(moved)) or len(points) != len(set(cluster_labels(moved, 1e-6))):
+        return points, rows
+    return moved, real_rows
+
+
+def decompose(system, options=None, seed=None, progress=None):
+    """Irreducible components of X = V(F) with dimension, degree and witness points.
+
+    Parameters
+    ----------
+    system : PolynomialSystem
+        Affine system (any number of equations).
+    options : DecomposeOptions, optional
+    seed : int, optional
+        Drawn and recorded when not given.
+    progress : callable, optional
+        ``progress(message)``.
+
+    Returns
+    -------
+    Decomposition
+    """
+    options = options or DecomposeOptions()
+    require_numeric(system)
+    seed = resolved_seed(seed)
+    scaling = Scaling.balancing(system)
+    result = _decompose(scaling.scale_system(system), options, seed, progress)
+    return result.in_units(scaling, system, to_user=True)
+
+
+def _decompose(system, options, seed, progress):
+    """:func:`decompose` in the units of ``system`` (already scaled)."""
+    started = time.perf_counter()
+    rng = np.random.default_rng(seed)
+    linear = _linear_decomposition(system, options, rng, seed, started)
+    if linear is not None:  # linear equations: the exact answer, no homotopy
+        return linear
+    supersets = witness_supersets(system, options.witness, seed=int(rng.integers(2**32)), progress=progress)
+    counts = dict(supersets.paths)
+    move_counts = {}
+    n = system.n_variables
+    real_coefficients = system.has_real_coefficients
+    components, loops = [], {}
+    for witness in supersets.sets:
+        if len(witness.points) == 0:
+            continue
+        codimension = n - witness.dimension
+        if progress is not None:
+            progress(f"dimension {witness.dimension}: splitting {len(witness.points)} witness points")
+        evaluator = BatchEvaluator([p.numeric() for p in system.polynomials])
+        ranks = jacobian_rank(evaluator, TermSizes(system.polynomials), witness.points,
+                              options.witness.rank_threshold)
+        # A witness point at the end of exactly one path is a simple root of a square subsystem and
+        # the slice, so J has full rank there however small its scaled singular values (a reduced
+        # quintic whose far branches nearly cancel: 1e-7). Only multiple ends can be rank-deficient.
+        simple = witness.multiplicity == 1
+        ranks = np.where(simple, np.maximum(ranks, codimension), ranks)
+        groups, movers = [], []
+        if witness.dimension == 0:
+            groups = [([k], True, 0.0) for k in range(len(witness.points))]
+            movers = [None] * len(groups)
+        else:
+            # The rank of J and the number of paths are the same at every generic point of a
+            # component, so witness points that differ in either lie on different components. Each
+            # such class is split on its own, with equations deflated for it alone: a double line's
+            # deflation minors do not vanish on a reduced curve beside it, whose moves then failed.
+            run = 0
+            signature = ranks * (int(witness.multiplicity.max()) + 1) + witness.multiplicity
+            for value in np.unique(signature):
+                members = np.nonzero(signature == value)[0]
+                mover = _Mover(system, codimension, witness.points[members], witness.slice_rows, rng, options,
+                               move_counts, simple=bool(np.all(simple[members])))
+                counted = []
+                for group, confirmed, defect in _split(mover, witness.points[members], rng, options, counted):
+                    groups.append((members[group].tolist(), confirmed, defect))
+                    movers.append(mover)
+                run += counted[0] if counted else 0
+            loops[witness.dimension] = run
+        for (group, confirmed, defect), mover in zip(groups, movers):
+            points, rows = witness.points[group], witness.slice_rows.copy()
+            real = np.zeros(len(group), dtype=bool)
+            if real_coefficients:
+                if witness.dimension > 0:
+                    points, rows = _to_real_slice(mover, points, rows, rng)
+                real = np.all(np.abs(points.imag) <= 1e-8 * (1 + np.abs(points)), axis=1)
+            components.append(Component(0, witness.dimension, len(group), points, real,
+                                        int(np.max(witness.multiplicity[group])),
+                                        bool(np.all(ranks[group] >= codimension)), rows,
+                                        bool(confirmed), 0.0 if defect != defect else float(defect)))
+    components.sort(key=lambda c: (-c.dimension, -c.degree))
+    for k, component in enumerate(components, 1):
+        component.id = k
+    counts.update(_degree_checks(system, components))
+    counts["tracked"] = counts.get("tracked", 0) + sum(move_counts.values())
+    for label, value in move_counts.items():
+        counts[label] = counts.get(label, 0) + value
+    return Decomposition(system, components, supersets.dimensions_searched, counts, loops, seed,
+                         time.perf_counter() - started)
+
+
+def _degree_checks(system, components):
+    """Bezout's theorem against the components found: ``{"degree_check_failed": 1}`` on a violation.
+
+    A hypersurface V(f) is pure: its components' degrees times multiplicities add up to deg f
+    exactly (fewer: a component was lost; more: one was counted twice). For several equations
+    the degrees of all irreducible components add up to at most d_1 ... d_m (the refined Bezout
+    theorem; Fulton, "Intersection Theory", Springer 1984, Example 8.4.6).
+    """
+    degrees = [p.degree for p in system.polynomials if not p.is_zero()]
+    if not degrees or min(degrees) < 1 or not components:
+        return {}
+    if len(degrees) == 1:
+        top = system.n_variables - 1
+        violated = sum(c.degree * c.multiplicity for c in components if c.dimension == top) != degrees[0]
+    else:
+        violated = sum(c.degree for c in components) > math.prod(degrees)
+    return {"degree_check_failed": 1} if violated else {}
+
+
+def _linear_decomposition(system, options, rng, seed, started):
+    """X of linear equations, exactly: empty, or one linear space (degree 1) with a witness point."""
+    space = linear_space(system)
+    if space is None:
+        return None
+    n = system.n_variables
+    lowest = options.witness.validated(n).lowest_dimension or 0
+    counts = {"tracked": 0, "not_on_X": 0, "at_infinity_or_failed": 0, "on_larger_component": 0,
+              "membership_paths": 0}
+    components = []
+    if not space.empty and space.dimension >= lowest:
+        # the witness point: the space met by `dimension` random real hyperplanes a . (1, x) = 0
+        slice_rows = rng.standard_normal((space.dimension, n + 1))
+        matrix = np.zeros((n, n), dtype=complex)
+        right = np.zeros(n, dtype=complex)
+        for k, row in enumerate(space.pivots.values()):
+            for column, value in row.items():
+                if column < 0:
+                    right[k] = -complex(value)
+                else:
+                    matrix[k, column] = complex(value)
+        matrix[len(space.pivots):] = slice_rows[:, 1:]
+        right[len(space.pivots):] = -slice_rows[:, 0]
+        point = np.linalg.solve(matrix, right)
+        real = system.has_real_coefficients
+        components.append(Component(1, space.dimension, 1, point[None, :], np.array([real]), 1, True, slice_rows,
+                                    True, 0.0))
+    return Decomposition(system, components, list(range(n, lowest - 1, -1)), counts, {}, seed,
+                         time.perf_counter() - started)
+
+
+def components_through(decomposition, point, seed=0, options=None):
+    """The components of a decomposition that pass through a point (homotopy membership test).
+
+    Parameters
+    ----------
+    decomposition : Decomposition
+    point : array_like, shape (n,)
+        A point of X (affine).
+    seed : int
+    options : DecomposeOptions, optional
+
+    Returns
+    -------
+    list of Component
+        Highest dimension first; the local dimension of X at the point is the first one's.
+    """
+    options = options or DecomposeOptions()
+    point = np.asarray(point, dtype=complex).reshape(-1)
+    if len(point) != decomposition.system.n_variables:
+        raise InputError(f"the point has {len(point)} coordinates, the system "
+                         f"{decomposition.system.n_variables} variables")
+    if decomposition.scaling is not None:  # membership is decided in the units the components were found in
+        scaling = decomposition.scaling
+        computed = decomposition.in_units(scaling, scaling.scale_system(decomposition.system), to_user=False)
+        found = {id(c): k for k, c in enumerate(computed.components)}
+        hits = components_through(computed, scaling.to_computed(point), seed, options)
+        return [decomposition.components[found[id(c)]] for c in hits]
+    system = decomposition.system
+    components = decomposition.components
+    if system.n_equations == 1 and len(components) == 1 and components[0].confirmed \
+            and components[0].dimension == system.n_variables - 1:
+        # V(f) is the union of its components, all of dimension n - 1: when there is one, every point
+        # of X lies on it (the homotopy test can lose its paths at a singular point of high multiplicity).
+        return list(components)
+    _, rng = random_state(seed)
+    n = system.n_variables
+    found = []
+    counts = {}
+    for component in decomposition.components:  # highest dimension first
+        codimension = n - component.dimension
+        equations, _ = holding_equations(system, codimension, component.points, rng, options.witness.rank_threshold,
+                                         simple=component.reduced and component.multiplicity == 1)
+        held = combine_equations([p.homogenize(0) for p in equations], codimension, rng)
+        hits = membership(held, component.slice_rows, component.points, point, rng, options.witness, counts)
+        if np.any(hits):
+            found.append(component)
+    return found
