@@ -45,7 +45,7 @@ import numpy as np
 from ..errors import InputError, LimitError, PointError
 from ..system.polynomial import Polynomial, PolynomialSystem, determinant, linear_space, require_numeric
 from ..numeric.cluster import cluster_labels, groups, normalize_projective
-from ..numeric.evaluate import BatchEvaluator
+from ..numeric.evaluate import BatchEvaluator, TermSizes
 from ..numeric.refine import IsolationTest, project_to_variety
 from ..numeric.scaling import Scaling
 from ..numeric.seeds import resolved_seed
@@ -575,6 +575,14 @@ def _already(found, oracles, candidate, point):
     return None
 
 
+#: Largest value of F or a partial derivative (in units of its terms) at a singular point of a projective
+#: hypersurface; the points themselves are accurate to about 1e-14, or 1e-8 where the zero is double.
+_GRADIENT_RESIDUAL = 1e-7
+#: Below this the point is a zero to working accuracy (a node: about 1e-16); between the two it is
+#: judged by the Jacobian criterion at higher precision (a double zero, or a near miss).
+_SETTLED_RESIDUAL = 1e-12
+
+
 def _projective_gradient(system, rng, paths, discarded, progress):
     """Singular points of a projective hypersurface: the zeros of its gradient (Euler: then F = 0 too)."""
     f = system.polynomials[0].numeric()
@@ -589,18 +597,62 @@ def _projective_gradient(system, rng, paths, discarded, progress):
     result = solve_system(gradient, SolveOptions(square_up=gradient.n_equations > system.n_variables - 1),
                           seed=int(rng.integers(2**32)))
     _add_counts(paths, result.path_counts())
-    scale = f.coefficient_norm()
+    # Every partial derivative (not only the random combinations tracked) and F itself must vanish,
+    # each in units of its own terms: a zero of the combinations alone is no singular point (a pair of
+    # conics once got a fifth "node", a complex point where one partial was far from 0).
+    every = [f] + list(gradient.polynomials)
+    doubtful = []
+    sizes = TermSizes(every, projective=True)
+    evaluator = BatchEvaluator(every)
     for solution in result.solutions:
         point = solution.point
-        if abs(f.evaluate(point)) > 1e-8 * scale * np.linalg.norm(point) ** f.degree:
+        values = evaluator.evaluate(point[None, :], jacobian=False)
+        residual = np.max(np.abs(values[0]) / sizes.values(point[None, :])[0])
+        if residual > _GRADIENT_RESIDUAL:
             discarded["not_on_X"] = discarded.get("not_on_X", 0) + 1
             continue
-        pieces.append(SingularComponent(0, 0, 1, point[None, :], _real_flags(system, point[None, :]),
-                                        solution.multiplicity, False, "gradient system", "singular", [], None, 1))
+        piece = SingularComponent(0, 0, 1, point[None, :], _real_flags(system, point[None, :]),
+                                  solution.multiplicity, False, "gradient system", "singular", [], None, 1)
+        (doubtful if residual > _SETTLED_RESIDUAL else pieces).append(piece)
+    pieces += _confirmed_by_check(system, doubtful, rng, discarded)
     if result.not_isolated:
         raise InputError("the singular locus of this hypersurface is positive-dimensional; use the minors "
                          "formulation (--formulation minors)")
     return pieces
+
+
+def _confirmed_by_check(system, pieces, rng, discarded):
+    """The candidate points the Jacobian criterion (with its escalation in precision) calls singular.
+
+    A zero of the partial derivatives in double precision can be a near miss: two conics nearly
+    tangent at a complex point leave F and its partials near 1e-8 of their terms there, where no
+    threshold separates it from a double zero. At higher precision the rank of J stays full there.
+    """
+    if not pieces:
+        return pieces
+    seed = int(rng.integers(2**32))
+    points = [piece.points[0] for piece in pieces]
+    try:
+        verdicts = check_points(system, points, seed=seed).points
+    except PointError:  # one point could not be settled: judge them one by one
+        verdicts = []
+        for point in points:
+            try:
+                verdicts.append(check_points(system, [point], seed=seed).points[0])
+            except PointError:
+                verdicts.append(None)
+    kept = []
+    for piece, verdict in zip(pieces, verdicts):
+        if verdict is None:
+            discarded["not_settled_on_X"] = discarded.get("not_settled_on_X", 0) + 1
+        elif verdict.verdict in ("singular", "non-reduced"):
+            kept.append(piece)
+        elif verdict.verdict == "smooth":
+            discarded["smooth_on_check"] = discarded.get("smooth_on_check", 0) + 1
+        else:
+            piece.kind = "undecided"
+            kept.append(piece)
+    return kept
 
 
 def _chart(system, rng):
