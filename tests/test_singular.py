@@ -150,3 +150,33 @@ def test_null_vector_form_finds_the_branch_points_of_the_demo_linkage(seed):
     assert points == [[-1.0, 0.0, -1.0, 0.0], [1.0, 0.0, 1.0, 0.0]]
     assert sum(locus.paths.get(label, 0) for label in ("minimum_step", "step_limit", "non_finite",
                                                        "endgame_unsettled")) == 0
+
+
+def test_failed_paths_of_a_projective_gradient_system_reach_the_report(monkeypatch):
+    # The projective gradient route solves with `solve`, whose counts hold failures in a nested block:
+    # they must reach the report's paths (and so its warnings and exit code 3). A failure is injected
+    # into a real solve of the Cayley-like cubic's gradient (common practice: the counts must add up).
+    import importlib
+    locus_module = importlib.import_module("numag.singular.locus")
+    real_solve = locus_module.solve_system
+
+    class Failing:
+        def __init__(self, result):
+            self._result = result
+
+        def __getattr__(self, name):
+            return getattr(self._result, name)
+
+        def path_counts(self):
+            counts = dict(self._result.path_counts())
+            reasons = dict(counts.get("failed_by_reason", {}))
+            reasons["endgame_unsettled"] = reasons.get("endgame_unsettled", 0) + 2
+            counts["failed_by_reason"], counts["failed"] = reasons, counts.get("failed", 0) + 2
+            return counts
+
+    monkeypatch.setattr(locus_module, "solve_system", lambda *a, **k: Failing(real_solve(*a, **k)))
+    system = parse_system(["x*y*z + y*z*w + z*w*x + w*x*y"], ["x", "y", "z", "w"], projective=True)
+    report = singular_to_dict(singular_locus(system, seed=1), SingularOptions())
+    assert report["paths"]["failed_by_reason"]["endgame_unsettled"] >= 2
+    from numag.app.report import completeness_warnings
+    assert any("failed" in w for w in completeness_warnings(report))

@@ -179,8 +179,15 @@ class SingularLocus:
 
 
 def _add_counts(total, counts):
+    """Add path counts into ``total``; failures by reason (a nested block of ``solve``) as their labels.
+
+    The report counts failed paths from the labels: a nested block skipped here made 59 failed paths
+    of a projective gradient system vanish from the report, and a run that lost 28 nodes exit 0.
+    """
     for key, value in counts.items():
-        if isinstance(value, (int, np.integer)):
+        if isinstance(value, dict):
+            _add_counts(total, value)
+        elif isinstance(value, (int, np.integer)):
             total[key] = total.get(key, 0) + int(value)
 
 
