@@ -30,10 +30,9 @@ Examples
 [(1, 1), (2, 1)]
 """
 
-from dataclasses import dataclass, field, replace
+from dataclasses import dataclass, field
 
 import numpy as np
-from threadpoolctl import threadpool_limits
 
 from ..errors import InputError
 from ..system.polynomial import Polynomial, PolynomialSystem
@@ -44,7 +43,8 @@ from ..numeric.linalg import scaled_singular_values
 from ..numeric.refine import IsolationTest, largest_scaled_residual, project_to_variety
 from ..numeric.seeds import random_state
 from ..tracking.homotopy import ParameterHomotopy, random_unit_complex
-from ..tracking.tracker import BatchTracker, PathStatus, StartArray, TrackerOptions
+from ..tracking.service import track
+from ..tracking.tracker import PathStatus, TrackerOptions
 
 __all__ = ["WitnessOptions", "WitnessSet", "WitnessSupersets", "witness_supersets", "Slicing", "track_moves",
            "membership", "combine_equations", "random_rows", "linear_form", "jacobian_rank"]
@@ -252,11 +252,8 @@ def track_moves(start, target, points, rng, options, counts, batch_size=4096):
     """
     points = np.asarray(points, dtype=complex).reshape(-1, len(start))
     count = len(points)
-    affine = np.full(points.shape, np.nan, dtype=complex)
-    status = np.zeros(count, dtype=np.int64)
-    winding = np.zeros(count, dtype=np.int64)
     if count == 0:
-        return affine, status, winding
+        return np.full(points.shape, np.nan, dtype=complex), np.zeros(0, dtype=np.int64), np.zeros(0, dtype=np.int64)
     charge_paths(count, f"a homotopy of {len(start)} equations")  # the work guard, before any tracking
     size = len(start) + 1
 
@@ -266,79 +263,16 @@ def track_moves(start, target, points, rng, options, counts, batch_size=4096):
         return made, made.start_solutions_from(points)
 
     homotopy, starts = homotopy_with_fresh_gamma()
-
-    def store(rows, result):
-        status[rows] = result["status"]
-        winding[rows] = result["winding"]
-        finite = (result["status"] == PathStatus.CONVERGED) | (result["status"] == PathStatus.SINGULAR_ENDPOINT)
-        with np.errstate(all="ignore"):
-            ends = result["endpoints"][:, 1:] / result["endpoints"][:, :1]
-        affine[rows] = np.where(finite[:, None], ends, np.nan)
-
-    def run(indices, tracker_options):
-        batches = [indices[first:first + batch_size] for first in range(0, len(indices), batch_size)]
-        tracker = BatchTracker(homotopy, StartArray(starts), tracker_options)
-        executor = current_executor()
-        if executor is None or len(batches) < 2:  # small moves stay here: no transfer cost
-            for rows in batches:
-                with threadpool_limits(limits=1):
-                    store(rows, tracker(rows))
-            return
-        for position, result in executor.run(tracker, batches):
-            store(batches[position], result)
-        for failure in executor.failures:  # counted as failed paths, never dropped
-            status[batches[failure.index]] = PathStatus.FAILED_BATCH
-
-    run(np.arange(count), options)
-    cautious = options
-    for round_ in range(_JUMP_ROUNDS + 1):
-        crossed = _crossed(affine, status)
-        if len(crossed) == 0:
-            break
-        if round_ == _JUMP_ROUNDS:
-            # Still two paths at one regular endpoint: the endpoint is real, the other path's own
-            # endpoint is missing. Count the extra paths of each group as failed (never merge silently).
-            _mark_jumped(affine, status, crossed)
-            break
-        counts["retracked_after_jump"] = counts.get("retracked_after_jump", 0) + len(crossed)
-        if round_ == _FRESH_GAMMA_ROUND:  # the paths nearly meet for this gamma: all again with another (a new pairing)
-            homotopy, starts = homotopy_with_fresh_gamma()
-            run(np.arange(count), cautious)
-        else:  # again with smaller steps, on the same homotopy (the pairing of starts and ends holds)
-            cautious = replace(cautious, max_step=cautious.max_step / 10,
-                               predictor_error=cautious.predictor_error / 100, max_steps=cautious.max_steps * 5,
-                               corrector_iterations=3, chord_corrector=False)
-            run(crossed, cautious)
-    for code in PathStatus:
-        if code != PathStatus.RUNNING:
-            counts[code.label] = counts.get(code.label, 0) + int(np.sum(status == code))
-    return affine, status, winding
+    # small moves stay in this process: no transfer cost
+    run = track(homotopy, starts, options, executor=current_executor() if count > batch_size else None,
+                batch_size=batch_size, fresh_homotopy=homotopy_with_fresh_gamma)
+    for label, value in run.counts.by_label().items():
+        counts[label] = counts.get(label, 0) + value
+    return run.affine_endpoints(), run.status, run.winding
 
 
 #: Endpoints with a scaled residual between the tolerance and this are refined before they are judged.
 _DOUBTFUL_RESIDUAL = 1e-3
-
-#: Rounds of repair of jumped paths in a move, and the round that tries a fresh gamma for every path.
-_JUMP_ROUNDS, _FRESH_GAMMA_ROUND = 5, 2
-
-
-def _crossed(affine, status):
-    """Paths that share a regular endpoint with another path (a regular solution has one path)."""
-    regular = np.nonzero((status == PathStatus.CONVERGED) & np.all(np.isfinite(affine), axis=1))[0]
-    if len(regular) < 2:
-        return np.zeros(0, dtype=np.int64)
-    labels = cluster_labels(affine[regular], 1e-6)
-    return regular[np.bincount(labels)[labels] > 1]
-
-
-def _mark_jumped(affine, status, crossed):
-    """Keep one path of each group of paths sharing a regular endpoint; mark the others as jumped (failed)."""
-    labels = cluster_labels(affine[crossed], 1e-6)
-    for members in groups(labels):
-        extra = crossed[members[1:]]
-        status[extra] = PathStatus.FAILED_JUMP
-        affine[extra] = np.nan
-
 
 def jacobian_rank(evaluator, sizes, points, threshold):
     """Numerical rank of the row-scaled Jacobian at each point (rows divided by their terms' size)."""
