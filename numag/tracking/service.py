@@ -17,11 +17,11 @@ Examples
 >>> import numpy as np
 >>> from numag.system.parse import parse_system
 >>> from numag.tracking.homotopy import StraightLineHomotopy
->>> system = parse_system(["x^2 - 2", "y^2 - x"], ["x", "y"])
->>> homotopy = StraightLineHomotopy.total_degree(system, np.random.default_rng(0))
->>> run = track(homotopy, homotopy.start_solutions(), batch_size=3)
->>> run.counts.converged, run.execution["batches"]
-(4, 2)
+>>> circle_and_line = parse_system(["x^2 + y^2 - 5", "x - y - 1"], ["x", "y"])
+>>> homotopy = StraightLineHomotopy.total_degree(circle_and_line, np.random.default_rng(1))
+>>> run = track(homotopy, homotopy.start_solutions(), batch_size=1)
+>>> run.counts.converged, run.execution["batches"], np.round(np.sort(run.affine_endpoints()[:, 0].real), 6)
+(2, 2, array([-1.,  2.]))
 """
 
 from dataclasses import dataclass, field, replace
@@ -174,6 +174,13 @@ class TrackRun:
     evaluations: int = 0
     jump_retracks: int = 0
     execution: dict = field(default_factory=dict)
+
+    @classmethod
+    def empty(cls, size, homotopy=None):
+        """A run of no paths, with endpoints of ``size`` homogeneous coordinates."""
+        none = np.zeros(0, dtype=np.int64)
+        return cls(homotopy=homotopy, endpoints=np.zeros((0, size), dtype=complex), status=none, steps=none.copy(),
+                   winding=none.copy(), condition=np.zeros(0), retracked=np.zeros(0, dtype=bool), digits=none.copy())
 
     @property
     def counts(self):
