@@ -93,10 +93,11 @@ def test_precise_segment_agrees_with_double():
     system = parse_system(["x^2 + x*y - 1", "y^2 - x - 2"], ["x", "y"])
     homotopy = StraightLineHomotopy.total_degree(system, np.random.default_rng(6))
     from numag.tracking.rescue import track_segment_precise
-    from numag.tracking.tracker import TrackerOptions, _advance, _Segment
+    from numag.tracking.tracker import Stepper, TrackerOptions, _Segment
     start = homotopy.start_solutions()[:1]
-    double, _, status, _ = _advance(homotopy, start, np.ones(1), np.full(1, 0.1), _Segment, np.arange(1),
-                                    TrackerOptions(), np.zeros(1, dtype=np.int64))
+    stepper = Stepper(homotopy, start, np.ones(1), np.full(1, 0.1), _Segment, np.arange(1), TrackerOptions())
+    stepper.run()
+    double, status = stepper.points, stepper.status
     precise, _ = track_segment_precise(homotopy, start[0], 1.0, 0.1, 30)
     assert status[0] == 0 and np.abs(precise - double[0]).max() < 1e-8
 
@@ -105,22 +106,25 @@ def test_one_pass_keeps_each_path_within_the_endgame_radius():
     # The single pass from s = 1 to 0 keeps each path's first point with s in [0.025, 0.1] (the endgame
     # radius and the next one it would try): that point solves H(X, s) = 0 at its own s, and tracking on
     # from it alone reaches the same endpoint (common practice, no source).
-    from numag.tracking.tracker import TrackerOptions, _Segment, _advance
+    from numag.tracking.tracker import Stepper, TrackerOptions, _Segment
     system = dense_system(np.random.default_rng(4), 3, 2)
     homotopy = StraightLineHomotopy.total_degree(system, np.random.default_rng(4))
     starts = homotopy.start_solutions()
     count, options = len(starts), TrackerOptions()
     window = (options.endgame_radius, options.endgame_radius * options.endgame_shrink)
-    final, t, status, _, passed, near, near_t = _advance(homotopy, starts, np.ones(count), np.zeros(count),
-                                                         _Segment, np.arange(count), options,
-                                                         np.zeros(count, dtype=np.int64), window=window)
+    stepper = Stepper(homotopy, starts, np.ones(count), np.zeros(count), _Segment, np.arange(count), options,
+                      window=window)
+    stepper.run()
+    final, t, status, passed, near, near_t = (stepper.points, stepper.t, stepper.status, stepper.passed,
+                                              stepper.kept, stepper.kept_t)
     assert passed.all() and (status == PathStatus.RUNNING).all() and (t == 0).all()
     assert np.all((near_t <= window[0]) & (near_t >= window[1]))
     assert len(np.unique(near_t)) > 1  # the steps were not all cut to land on one radius
     values = homotopy.evaluate_values(near, near_t.astype(complex))
     assert np.abs(values).max() < 1e-5
-    again, _, status_again, _ = _advance(homotopy, near, near_t, np.zeros(count),
-                                         _Segment, np.arange(count), options, np.zeros(count, dtype=np.int64))
+    again_stepper = Stepper(homotopy, near, near_t, np.zeros(count), _Segment, np.arange(count), options)
+    again_stepper.run()
+    again, status_again = again_stepper.points, again_stepper.status
     assert (status_again == PathStatus.RUNNING).all()
     assert np.abs(again - final).max() < 1e-5 * (1 + np.abs(final).max())
 

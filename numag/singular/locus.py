@@ -349,11 +349,11 @@ def _projected_candidates(system, null_system, candidates, rng, options, paths):
         l_rows[:, 1:1 + n] = 0
         target_rows = np.vstack([x_rows, l_rows])
         held = combine_equations([p.homogenize(0) for p in equations], codim, rng)
-        counts = {}
-        ends, _, _ = track_moves(held + [linear_form(r) for r in component.slice_rows],
-                                 held + [linear_form(r) for r in target_rows], component.points, rng,
-                                 options.decompose.witness.tracker, counts)
-        _add_counts(paths, counts)
+        run = track_moves(held + [linear_form(r) for r in component.slice_rows],
+                          held + [linear_form(r) for r in target_rows], component.points, rng,
+                          options.decompose.witness.tracker)
+        _add_counts(paths, run.counts.by_label())
+        ends = run.affine_endpoints()
         ends = ends[np.all(np.isfinite(ends), axis=1)][:, :n]
         if len(ends) == 0:
             continue

@@ -20,28 +20,27 @@ Examples
 [-1, 1]
 """
 
-from dataclasses import dataclass, field, replace
+from dataclasses import dataclass, field
 import time
 
 import mpmath
 import numpy as np
-from threadpoolctl import threadpool_limits
 
 from ..errors import InputError
 from ..version import __version__
 from ..system.polynomial import PolynomialSystem, require_numeric
-from ..run.checkpoint import DamagedBatch, RunFolder, manifest_fingerprints
-from ..run.executor import InProcess, charge_paths, check_memory, make_executor
+from ..run.checkpoint import RunFolder, manifest_fingerprints
+from ..run.executor import charge_paths, check_memory, make_executor
 from ..numeric.cluster import cluster_labels, groups, normalize_projective, projective_pivot
 from ..numeric.evaluate import BatchEvaluator, PrecisionEvaluator, TermSizes
 from ..numeric.refine import IsolationTest, mp_gauss_newton
 from ..numeric.scaling import Scaling
 from ..numeric.seeds import random_state
 from .homotopy import ParameterHomotopy, StraightLineHomotopy
-from .tracker import FAILURE_LABELS, BatchTracker, PathStatus, StartArray, TrackerOptions, track_paths
+from .service import PathCounts, track
+from .tracker import PathStatus, StartArray, TrackerOptions
 
-__all__ = ["SolveOptions", "Execution", "Solution", "SolveResult", "solve_system", "continue_solutions",
-           "path_counts"]
+__all__ = ["SolveOptions", "Execution", "Solution", "SolveResult", "solve_system", "continue_solutions"]
 
 
 @dataclass(frozen=True)
@@ -197,28 +196,8 @@ class SolveResult:
     scaling: object = None
 
     def path_counts(self):
-        """Counts by status; they add up to the number of tracked paths."""
-        return path_counts(self.status, self.retracked, self.digits)
-
-
-def path_counts(status, retracked=None, digits=None):
-    """The ``paths`` block of a report from per-path statuses."""
-    status = np.asarray(status)
-    by_reason = {label: int(np.sum(status == code)) for code, label in
-                 ((s, s.label) for s in PathStatus if s.failed)}
-    counts = {
-        "tracked": int(len(status)),
-        "converged": int(np.sum(status == PathStatus.CONVERGED)),
-        "singular_endpoint": int(np.sum(status == PathStatus.SINGULAR_ENDPOINT)),
-        "at_infinity": int(np.sum(status == PathStatus.AT_INFINITY)),
-        "failed": int(sum(by_reason.values())),
-        "failed_by_reason": {label: by_reason[label] for label in FAILURE_LABELS},
-    }
-    if retracked is not None:
-        counts["retracked"] = int(np.sum(retracked))
-    if digits is not None:
-        counts["rescued_in_high_precision"] = int(np.sum(np.asarray(digits) > 16))
-    return counts
+        """The ``paths`` block of a report: counts by status; they add up to the number of tracked paths."""
+        return PathCounts.of(self.status, self.retracked, self.digits).report()
 
 
 def _square_target(system, options, rng):
@@ -293,9 +272,13 @@ def solve_system(system, options=None, seed=None, progress=None, execution=None)
     scaling = Scaling.balancing(system)
     computed = scaling.scale_system(system)
     target, squared = _square_target(computed, options, rng)
-    homotopy = StraightLineHomotopy.total_degree(target, rng)
+    def fresh_homotopy():  # another gamma and patch for every path (one round of the jump repair)
+        made = StraightLineHomotopy.total_degree(target, rng)
+        return made, made.start_solutions
+
+    homotopy, _ = fresh_homotopy()
     result = _run(computed, homotopy, homotopy.start_solutions, homotopy.start.n_paths, options, rng, seed, progress,
-                  started, squared, execution, user_system=system)
+                  started, squared, execution, user_system=system, fresh_homotopy=fresh_homotopy)
     return _in_user_units(result, system, scaling)
 
 
@@ -334,12 +317,16 @@ def continue_solutions(start_system, start_points, target_system, options=None, 
     scaling = Scaling.balancing(target_system)
     if len(scaling.equation_exponents) != start_system.n_equations:
         raise InputError("start and target systems must have the same number of equations")
-    homotopy = ParameterHomotopy.from_systems(scaling.scale_system(start_system), scaling.scale_system(target_system),
+    known = scaling.to_computed(np.atleast_2d(np.asarray(start_points, complex)))
+
+    def fresh_homotopy():  # another gamma and patch for every path (one round of the jump repair)
+        made = ParameterHomotopy.from_systems(scaling.scale_system(start_system), scaling.scale_system(target_system),
                                               rng)
-    starts = homotopy.start_solutions_from(scaling.to_computed(np.atleast_2d(np.asarray(start_points, complex))),
-                                           projective=start_system.projective)
+        return made, made.start_solutions_from(known, projective=start_system.projective)
+
+    homotopy, starts = fresh_homotopy()
     result = _run(scaling.scale_system(target_system), homotopy, StartArray(starts), len(starts), options, rng, seed,
-                  progress, started, False)
+                  progress, started, False, fresh_homotopy=fresh_homotopy)
     return _in_user_units(result, target_system, scaling)
 
 
@@ -386,8 +373,8 @@ def _open_folder(execution, describe):
 
 
 def _run(system, homotopy, start_points, total, options, rng, seed, progress, started, squared, execution=None,
-         user_system=None):
-    """Track all paths in batches (through an executor, saved to a run folder), repair jumps, collect.
+         user_system=None, fresh_homotopy=None):
+    """Track all paths (:func:`~numag.tracking.service.track`), then group the endpoints into solutions.
 
     ``system`` is the system in the units of the computation; ``user_system`` (default: the
     same) is the one the run folder's manifest describes.
@@ -398,161 +385,34 @@ def _run(system, homotopy, start_points, total, options, rng, seed, progress, st
     charge_paths(total, "the total-degree homotopy (its Bezout number)" if isinstance(homotopy, StraightLineHomotopy)
                  else "the parameter homotopy")
     check_memory(total * (homotopy.size * 16 + 80), f"keeping {total} paths")
-    endpoints = np.empty((total, homotopy.size), dtype=complex)
-    status = np.empty(total, dtype=np.int64)
-    steps = np.zeros(total, dtype=np.int64)
-    winding = np.ones(total, dtype=np.int64)
-    condition = np.full(total, np.inf)
-    retracked = np.zeros(total, dtype=bool)
-    digits = np.full(total, 16, dtype=np.int64)
-    evaluations = 0
-    batches = [np.arange(first, min(total, first + options.batch_size)) for first in range(0, total, options.batch_size)]
     folder = _open_folder(execution, lambda: manifest_for(user_system, options, seed, total))
-
-    def store(result):
-        nonlocal evaluations
-        indices = result["indices"]
-        endpoints[indices], status[indices], steps[indices] = result["endpoints"], result["status"], result["steps"]
-        winding[indices], condition[indices] = result["winding"], result["condition"]
-        retracked[indices], digits[indices] = result["retracked"], result["digits"]
-        evaluations += int(result["evaluations"])
-
-    finished, rejected = set(), []
-    for k in sorted(folder.finished() if folder is not None and execution.resume else ()):
-        if k >= len(batches):
-            rejected.append({"index": k, "reason": f"batch {k} is not part of this run"})
-            continue
-        try:  # saved state is verified, never trusted: a batch that fails is tracked again
-            arrays = folder.read_batch(k)
-        except DamagedBatch as err:
-            rejected.append({"index": k, "reason": str(err)})
-            continue
-        try:
-            store(_verified_batch(arrays, batches[k], homotopy, options.tracker))
-            finished.add(k)
-        except InputError as err:
-            rejected.append({"index": k, "reason": f"{folder.batch_path(k).name}: {err}"})
-    todo = [k for k in range(len(batches)) if k not in finished]
-    done_paths = sum(len(batches[k]) for k in finished)
-    if progress is not None:
-        progress(done_paths, total)  # the starting point: paths read back from the run folder
-    executor = execution.executor or make_executor(execution.workers, execution.scheduler, execution.local_dask,
-                                                   batches=len(todo))
-    tracker = BatchTracker(homotopy, start_points, options.tracker)
-    if isinstance(executor, InProcess) and progress is not None:
-        tracker.progress = lambda done, *_: progress(done_paths + done, total)
-    tracking_started = time.perf_counter()
-    try:
-        for position, result in executor.run(tracker, [batches[k] for k in todo]):
-            store(result)
-            if folder is not None:
-                folder.write_batch(todo[position], result)
-            done_paths += len(result["indices"])
-            if progress is not None:
-                progress(done_paths, total)
-        lost = [todo[f.index] for f in executor.failures]
-        for k in lost:  # never lost silently: counted as failed paths, named in the report
-            status[batches[k]] = PathStatus.FAILED_BATCH
-            endpoints[batches[k]] = np.nan
-        description = executor.describe()
-        for failure, k in zip(description["failed_batches"], lost):
-            failure["index"] = k
-            failure["paths"] = [int(batches[k][0]), int(batches[k][-1])]
-    finally:
-        if execution.executor is None:
-            executor.close()
-    tracking = time.perf_counter() - tracking_started
-    description.update(batches=len(batches), batches_resumed=len(finished), batches_rejected=rejected,
-                       batch_size=options.batch_size,
-                       run_folder=None if folder is None else str(folder.path))
-    cautious = options.tracker
-    for round_ in range(4):
-        crossed = _crossed_paths(system, endpoints, status, options)
-        if len(crossed) == 0:
-            break
-        if round_ == 3:  # still sharing an endpoint: one path each keeps it, the others count as failed
-            labels = cluster_labels(_finite_points(system, endpoints, crossed), options.cluster_tolerance,
-                                    projective=system.projective)
-            for members in groups(labels):
-                status[crossed[members[1:]]] = PathStatus.FAILED_JUMP
-            break
-        # Two paths at one regular solution means a path jumped: track those again, more cautiously
-        # each time (smaller steps, three full Newton corrections: a smaller basin to jump into). The
-        # caution grows by round: a few paths re-tracked with tiny steps take hundreds of batch
-        # iterations of a few rows (2 jumped paths of 4,096 doubled the iterations of the run).
-        cautious = replace(cautious, max_step=cautious.max_step / 4, predictor_error=cautious.predictor_error / 10,
-                           max_steps=cautious.max_steps * 5,
-                           corrector_iterations=3, chord_corrector=False)
-        again = time.perf_counter()
-        with threadpool_limits(limits=1):
-            result = track_paths(homotopy, start_points(crossed), cautious)
-        tracking += time.perf_counter() - again
-        endpoints[crossed], status[crossed], winding[crossed] = result.endpoints, result.status, result.winding
-        condition[crossed], digits[crossed] = result.condition, result.digits
-        steps[crossed] += result.steps
-        retracked[crossed] = True
-        evaluations += result.evaluations
+    executor = execution.executor or (lambda batches: make_executor(execution.workers, execution.scheduler,
+                                                                    execution.local_dask, batches=batches))
+    run = track(homotopy, start_points, options.tracker, count=total, executor=executor, run_folder=folder,
+                batch_size=options.batch_size, progress=progress, projective=system.projective,
+                jump_tolerance=options.cluster_tolerance, fresh_homotopy=fresh_homotopy)
+    status, winding, condition = run.status, run.winding, run.condition
     if system.projective:  # X_0 = 0 is an ordinary point of projective space, not "infinity"
         ends = status == PathStatus.AT_INFINITY
         singular = (winding > 1) | (condition > options.tracker.singular_condition)
         status[ends & singular] = PathStatus.SINGULAR_ENDPOINT
         status[ends & ~singular] = PathStatus.CONVERGED
-    solutions, infinite, not_isolated = _collect(system, endpoints, status, winding, condition, options, rng)
+    solutions, infinite, not_isolated = _collect(system, run.endpoints, status, winding, condition, options, rng)
     discarded = []
     if squared:  # random combinations have extra solutions: keep only those of every equation
         kept = []
         for solution in solutions:
             (kept if _satisfies(system, solution.point) else discarded).append(solution)
         solutions = kept
-    result = SolveResult(system, solutions, infinite, not_isolated, status, steps, winding, retracked, seed,
-                         time.perf_counter() - started, evaluations, squared, digits)
+    result = SolveResult(system, solutions, infinite, not_isolated, status, run.steps, winding, run.retracked, seed,
+                         time.perf_counter() - started, run.evaluations, squared, run.digits)
     result.discarded = discarded
+    description = dict(run.execution)
+    tracking = description.pop("tracking_seconds")  # the batches and the re-tracking of jumped paths
     description["seconds"] = result.seconds
-    description["tracking_seconds"] = tracking  # the batches and the re-tracking of jumped paths
+    description["tracking_seconds"] = tracking
     result.extra["execution"] = description
     return result
-
-
-def _verified_batch(arrays, indices, homotopy, tracker_options):
-    """A batch read back from a run folder, checked against the run before it counts.
-
-    The paths must be the batch's own, the statuses known, and every endpoint said to be a
-    solution (or a point at infinity) must be one: the target's scaled residual at most 1e-6
-    (the tracker settles at 1e-8), on the patch, and at infinity exactly when it says so.
-
-    Raises
-    ------
-    InputError
-        Naming what does not match (the caller tracks the batch again).
-    """
-    expected = {"indices", "endpoints", "status", "steps", "winding", "condition", "retracked", "digits",
-                "evaluations"}
-    if set(arrays) != expected:
-        raise InputError("its arrays are not those of a batch of paths")
-    if not np.array_equal(arrays["indices"], indices):
-        raise InputError("it holds other paths than the batch's")
-    count, size = len(indices), homotopy.size
-    endpoints, status = arrays["endpoints"], arrays["status"]
-    if endpoints.shape != (count, size) or any(arrays[k].shape != (count,) for k in expected - {"endpoints", "evaluations"}):
-        raise InputError("its arrays do not have the batch's shape")
-    if not np.isin(status, [int(code) for code in PathStatus if code != PathStatus.RUNNING]).all():
-        raise InputError("it holds unknown path statuses")
-    ends = np.isin(status, [PathStatus.CONVERGED, PathStatus.SINGULAR_ENDPOINT, PathStatus.AT_INFINITY])
-    points = endpoints[ends]
-    if len(points):
-        if not np.all(np.isfinite(points)):
-            raise InputError("it holds non-finite endpoints")
-        with np.errstate(all="ignore"):
-            residual = homotopy.target_residual(points)
-            patch = np.abs(points @ homotopy.patch - 1)
-            infinite = np.abs(points[:, 0]) <= tracker_options.infinity_threshold * np.linalg.norm(points, axis=1)
-        said_infinite = status[ends] == PathStatus.AT_INFINITY
-        if not (np.all(residual <= 1e-6) and np.all(patch <= 1e-6)):
-            raise InputError(f"{int(np.sum((residual > 1e-6) | (patch > 1e-6)))} of its endpoints do not solve the system")
-        # at infinity needs X_0 ~ 0; a finite regular endpoint may have a small X_0 (a solution at 1e9)
-        if np.any(said_infinite & ~infinite):
-            raise InputError("its statuses do not match its endpoints (finite or at infinity)")
-    return arrays
 
 
 def _satisfies(system, point, tolerance=1e-8):
@@ -567,17 +427,6 @@ def _finite_points(system, endpoints, indices):
     if system.projective:
         return normalize_projective(endpoints[indices]).reshape(len(indices), -1)
     return endpoints[indices, 1:] / endpoints[indices, :1]
-
-
-def _crossed_paths(system, endpoints, status, options):
-    """Paths that share a regular (well-conditioned) endpoint with another path: a sign of path jumping."""
-    regular = np.nonzero(status == PathStatus.CONVERGED)[0]
-    if len(regular) < 2:
-        return np.zeros(0, dtype=np.int64)
-    labels = cluster_labels(_finite_points(system, endpoints, regular), options.cluster_tolerance,
-                            projective=system.projective)
-    counts = np.bincount(labels)
-    return regular[counts[labels] > 1]
 
 
 def _collect(system, endpoints, status, winding, condition, options, rng):

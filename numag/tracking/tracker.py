@@ -48,7 +48,8 @@ import numpy as np
 from ..run.executor import check_memory
 from .rescue import track_segment_precise
 
-__all__ = ["PathStatus", "TrackerOptions", "TrackResult", "track_paths", "projective_condition"]
+__all__ = ["PathStatus", "TrackerOptions", "TrackResult", "track_paths", "projective_condition", "Stepper",
+           "ButcherTableau", "RK4"]
 
 
 #: Work of the precision rescue (term evaluations in mpmath, about 30 us each at 40 digits) for one path and for
@@ -350,126 +351,254 @@ def _inverse(jacobian):
         return result
 
 
-def _advance(homotopy, points, t, t_end, curve, index, opts, steps, step=None, max_step=None, on_step=None,
-             window=None):
-    """Move every path from t to t_end along ``curve``; returns points, t, a status and the step per path.
+@dataclass(frozen=True)
+class ButcherTableau:
+    """An explicit Runge-Kutta method: stage i is k_i = f(x + h sum_j a_ij k_j, t + c_i h) and the
+    step x + h sum_i b_i k_i, with b_i = ``weights[i] / denominator``.
 
-    ``index`` maps the rows to path numbers (for per-path curve parameters);
-    ``steps`` (per row) is updated in place; ``step`` carries step sizes over
-    from a previous piece (the endgame's arcs), ``max_step`` overrides the option;
-    ``on_step(finished)`` is told after each step how many rows have finished (or, with a
-    window, passed into it). With ``window = (near, far)`` (values of t between t and t_end,
-    ``near`` reached first) each path's first point at or past ``near`` is kept, and no step
-    skips past ``far``: three more arrays are returned, whether the row reached the window, its
-    point there and the t of that point (NaN when not). One pass instead of two pieces: the step
-    size carries over, the slow paths of both pieces share iterations, and a step is shortened
-    only when it would skip the whole window (a single stopping point would cost most paths a
-    shortened step).
+    Attributes
+    ----------
+    nodes : tuple of float
+        c_i.
+    coupling : tuple of tuple
+        Row i lists the nonzero (j, a_ij) of the stage's input (a zero term could turn a NaN in an
+        unused stage into a NaN point).
+    weights : tuple of float
+        b_i times ``denominator``.
+    denominator : float
+    agreeing : tuple of int
+        Two stages that estimate the same slope; where they disagree the step is rejected before
+        the later stages are paid for (empty: no such check).
+
+    Examples
+    --------
+    >>> RK4.order, [w / RK4.denominator for w in RK4.weights]
+    (4, [0.16666666666666666, 0.3333333333333333, 0.3333333333333333, 0.16666666666666666])
     """
-    points = points.copy()
-    t = t.astype(float).copy()
-    direction = np.sign(t_end - t)
-    step = np.full(len(t), opts.initial_step) if step is None else np.array(step, dtype=float)
-    tangent = np.full(points.shape, np.nan, dtype=complex)  # H_X^{-1} H_s at each path's current point
-    max_step = opts.max_step if max_step is None else max_step
-    status = np.zeros(len(t), dtype=np.int64)
-    taken = np.zeros(len(t), dtype=np.int64)
-    held = np.zeros(len(t), dtype=bool)
-    has_tangent = np.zeros(len(t), dtype=bool)
-    passed = np.zeros(len(t), dtype=bool)
-    if window is not None:
-        near, far = window
-        kept = np.full(points.shape, np.nan, dtype=complex)
-        kept_t = np.full(len(t), np.nan)
-        stop = np.full(len(t), float(far))
-    else:
-        stop = t_end
-    while True:
-        active = np.nonzero((status == PathStatus.RUNNING) & (np.abs(t_end - t) > 0))[0]
-        if on_step is not None:
-            on_step(len(t) - len(active) if window is None else int(np.sum(passed | (status != 0))))
-        if len(active) == 0:
-            break
-        x, tt, rows = points[active], t[active], index[active]
-        goal = stop[active]
-        h = np.minimum(step[active], np.abs(goal - tt)) * direction[active]
 
-        def velocity(y, time):
-            _, jacobian, derivative = homotopy.evaluate(y, curve.s(time, rows))
-            return -_solve(jacobian, derivative * curve.ds(time, rows)[:, None])
+    nodes: tuple
+    coupling: tuple
+    weights: tuple
+    denominator: float
+    order: int
+    agreeing: tuple = ()
 
-        known = has_tangent[active]
-        if np.all(known):
-            k1 = -tangent[active] * curve.ds(tt, rows)[:, None]
+
+#: The classical fourth-order Runge-Kutta method (its two midpoint stages estimate the same slope).
+RK4 = ButcherTableau(nodes=(0.0, 0.5, 0.5, 1.0), coupling=((), ((0, 0.5),), ((1, 0.5),), ((2, 1.0),)),
+                     weights=(1.0, 2.0, 2.0, 1.0), denominator=6.0, order=4, agreeing=(1, 2))
+
+#: Step control. The first Newton correction measures the predictor's error, which scales like
+#: h^(order + 1); the next step aims at ``predictor_error`` with this safety factor ...
+STEP_SAFETY = 0.8
+#: ... and changes by at most these factors after an accepted step ...
+STEP_MIN_FACTOR, STEP_MAX_FACTOR = 0.5, 2.0
+#: ... and by this factor after a rejected one.
+STEP_REJECT_FACTOR = 0.5
+#: Errors are floored here before dividing by them.
+ERROR_FLOOR = 1e-300
+
+
+class Stepper:
+    """Moves a batch of paths from t to t_end along a curve s(t) of the homotopy's parameter.
+
+    The stepper owns the state of every row (point, t, step size, the tangent from the last
+    corrector, status) and its counters; :meth:`step` makes one batched step of the rows still
+    running, :meth:`run` steps until none is.
+
+    Parameters
+    ----------
+    homotopy : object
+        With ``evaluate(points, s)`` (and optionally ``evaluate_values`` for the chord corrector).
+    points : ndarray, shape (P, N)
+    t, t_end : ndarray, shape (P,)
+    curve : object
+        ``s(t, index)`` and ``ds(t, index)`` (:class:`_Segment`, :class:`_Circle`).
+    index : ndarray of int, shape (P,)
+        Path numbers of the rows (for per-path curve parameters).
+    options : TrackerOptions
+    step : ndarray, optional
+        Step sizes carried over from a previous piece (the endgame's arcs).
+    max_step : float, optional
+        Overrides ``options.max_step``.
+    window : tuple of float, optional
+        ``(near, far)``, values of t between t and t_end (``near`` reached first): each row's
+        first point at or past ``near`` is kept (:attr:`kept`, :attr:`kept_t`, :attr:`passed`),
+        and no step skips past ``far``. One pass instead of two pieces: the step size carries
+        over, the slow paths of both pieces share iterations, and a step is shortened only when
+        it would skip the whole window (a single stopping point would cost most paths a
+        shortened step).
+    method : ButcherTableau
+
+    Attributes
+    ----------
+    points, t, status, step_size, taken
+        Per row: where it is, its status (RUNNING while it runs or after it arrived), its next
+        step size, the steps taken (accepted and rejected).
+
+    Examples
+    --------
+    >>> import numpy as np
+    >>> from numag.system.parse import parse_system
+    >>> from numag.tracking.homotopy import StraightLineHomotopy
+    >>> system = parse_system(["x^2 - 4"], ["x"])
+    >>> homotopy = StraightLineHomotopy.total_degree(system, np.random.default_rng(0))
+    >>> starts = homotopy.start_solutions()
+    >>> stepper = Stepper(homotopy, starts, np.ones(2), np.full(2, 0.5), _Segment, np.arange(2), TrackerOptions())
+    >>> stepper.run()
+    >>> stepper.t.tolist(), int(np.sum(stepper.status == PathStatus.RUNNING))
+    ([0.5, 0.5], 2)
+    """
+
+    def __init__(self, homotopy, points, t, t_end, curve, index, options, *, step=None, max_step=None, window=None,
+                 method=RK4):
+        self.homotopy, self.curve, self.index, self.options, self.method = homotopy, curve, index, options, method
+        self.points = points.copy()
+        self.t = t.astype(float).copy()
+        self.t_end = t_end
+        self.direction = np.sign(t_end - self.t)
+        count = len(self.t)
+        self.step_size = np.full(count, options.initial_step) if step is None else np.array(step, dtype=float)
+        self.max_step = options.max_step if max_step is None else max_step
+        self.tangent = np.full(points.shape, np.nan, dtype=complex)  # H_X^{-1} H_s at each row's current point
+        self.has_tangent = np.zeros(count, dtype=bool)
+        self.status = np.zeros(count, dtype=np.int64)
+        self.taken = np.zeros(count, dtype=np.int64)
+        self.held = np.zeros(count, dtype=bool)  # the last step was rejected: no growth on the next
+        self.window = window
+        self.passed = np.zeros(count, dtype=bool)
+        if window is not None:
+            self.kept = np.full(points.shape, np.nan, dtype=complex)
+            self.kept_t = np.full(count, np.nan)
+            self.stop = np.full(count, float(window[1]))
         else:
-            k1 = np.empty_like(x)
-            k1[known] = -tangent[active[known]] * curve.ds(tt[known], rows[known])[:, None]
-            fresh = ~known
-            _, jacobian, derivative = homotopy.evaluate(x[fresh], curve.s(tt[fresh], rows[fresh]))
-            k1[fresh] = -_solve(jacobian, derivative * curve.ds(tt[fresh], rows[fresh])[:, None])
-        k2 = velocity(x + 0.5 * h[:, None] * k1, tt + 0.5 * h)
-        k3 = velocity(x + 0.5 * h[:, None] * k2, tt + 0.5 * h)
-        # k2 and k3 both estimate the slope at the midpoint; when they disagree by more than half
-        # the path's size over the step, the step is far too long (near two paths' close
-        # approach the error grows much faster than h^5): reject it now, before the last stage
-        # and the corrector are paid for. On 1,024 dense quadrics this catches half the
-        # rejected steps and only one accepted step in 250.
-        with np.errstate(all="ignore"):
-            spread = np.abs(h) * np.linalg.norm(k3 - k2, axis=1) / (1 + np.linalg.norm(x, axis=1))
-        go = spread <= opts.stage_spread
+            self.stop = t_end
+
+    def active(self):
+        """Rows still running and not yet at t_end."""
+        return np.nonzero((self.status == PathStatus.RUNNING) & (np.abs(self.t_end - self.t) > 0))[0]
+
+    def run(self, on_step=None):
+        """Step until no row runs; ``on_step(finished)`` is told after each step how many rows have
+        finished (or, with a window, passed into it). Rows with non-finite points then fail."""
+        while True:
+            active = self.active()
+            if on_step is not None:
+                on_step(len(self.t) - len(active) if self.window is None
+                        else int(np.sum(self.passed | (self.status != 0))))
+            if len(active) == 0:
+                break
+            self.step(active)
+        bad = ~np.all(np.isfinite(self.points), axis=1)
+        self.status[bad & (self.status == PathStatus.RUNNING)] = PathStatus.FAILED_NONFINITE
+
+    def _velocity(self, y, time, rows):
+        _, jacobian, derivative = self.homotopy.evaluate(y, self.curve.s(time, rows))
+        return -_solve(jacobian, derivative * self.curve.ds(time, rows)[:, None])
+
+    def _first_stage(self, active, x, tt, rows):
+        """The slope at the current points: the corrector's tangent where there is one."""
+        curve = self.curve
+        known = self.has_tangent[active]
+        if np.all(known):
+            return -self.tangent[active] * curve.ds(tt, rows)[:, None]
+        k1 = np.empty_like(x)
+        k1[known] = -self.tangent[active[known]] * curve.ds(tt[known], rows[known])[:, None]
+        fresh = ~known
+        k1[fresh] = self._velocity(x[fresh], tt[fresh], rows[fresh])
+        return k1
+
+    def _stage(self, i, x, tt, h, stages, rows):
+        y = x
+        for j, a in self.method.coupling[i]:
+            y = y + a * h[:, None] * stages[j]
+        node = self.method.nodes[i]
+        return self._velocity(y, tt + (h if node == 1.0 else node * h), rows)
+
+    def step(self, active=None):
+        """One batched step of the ``active`` rows (default: every running row)."""
+        opts, method = self.options, self.method
+        active = self.active() if active is None else active
+        x, tt, rows = self.points[active], self.t[active], self.index[active]
+        goal = self.stop[active]
+        h = np.minimum(self.step_size[active], np.abs(goal - tt)) * self.direction[active]
+        stages = [self._first_stage(active, x, tt, rows)]
+        last_checked = max(method.agreeing) if method.agreeing else 0
+        for i in range(1, last_checked + 1):
+            stages.append(self._stage(i, x, tt, h, stages, rows))
+        go = slice(None)  # views, not copies, in the common case
+        if method.agreeing:
+            # Two stages that both estimate one slope (RK4's midpoint stages): when they disagree by
+            # more than half the path's size over the step, the step is far too long (near two
+            # paths' close approach the error grows much faster than h^5): reject it now, before the
+            # later stages and the corrector are paid for. On 1,024 dense quadrics this catches half
+            # the rejected steps and only one accepted step in 250.
+            first, second = method.agreeing
+            with np.errstate(all="ignore"):
+                spread = np.abs(h) * np.linalg.norm(stages[second] - stages[first], axis=1) / (
+                    1 + np.linalg.norm(x, axis=1))
+            agree = spread <= opts.stage_spread
+            if not np.all(agree):
+                go = agree
         accepted = np.zeros(len(active), dtype=bool)
-        new_t = np.where(np.abs(step[active]) >= np.abs(goal - tt), goal, tt + h)
-        if np.all(go):
-            go = slice(None)  # views, not copies, in the common case
-        else:  # rows rejected before the last stage keep NaN points and an infinite error
+        new_t = np.where(np.abs(self.step_size[active]) >= np.abs(goal - tt), goal, tt + h)
+        if not isinstance(go, slice):  # rows rejected early keep NaN points and an infinite error
             error = np.full(len(active), np.inf)
             corrected = np.full(x.shape, np.nan, dtype=complex)
             new_tangent = np.full(x.shape, np.nan, dtype=complex)
         if isinstance(go, slice) or np.any(go):
-            x, rows, h, k1, k2, k3 = x[go], rows[go], h[go], k1[go], k2[go], k3[go]
-            k4 = velocity(x + h[:, None] * k3, tt[go] + h)
-            predicted = x + (h[:, None] / 6.0) * (k1 + 2 * k2 + 2 * k3 + k4)
-            fixed, ok, first, slope = _correct(homotopy, predicted, curve.s(new_t[go], rows), opts.corrector_tolerance,
-                                               opts.corrector_iterations, chord=opts.chord_corrector,
-                                               first_contraction=opts.first_contraction)
+            xs, ts, rs, hs = x[go], tt[go], rows[go], h[go]
+            stages = [k[go] for k in stages]
+            for i in range(last_checked + 1, len(method.nodes)):
+                stages.append(self._stage(i, xs, ts, hs, stages, rs))
+            total = method.weights[0] * stages[0] if method.weights[0] != 1.0 else stages[0]
+            for weight, k in zip(method.weights[1:], stages[1:]):
+                total = total + (k if weight == 1.0 else weight * k)
+            predicted = xs + (hs[:, None] / method.denominator) * total
+            fixed, ok, first_error, slope = _correct(self.homotopy, predicted, self.curve.s(new_t[go], rs),
+                                                     opts.corrector_tolerance, opts.corrector_iterations,
+                                                     chord=opts.chord_corrector,
+                                                     first_contraction=opts.first_contraction)
             if isinstance(go, slice):
-                corrected, error, new_tangent = fixed, first, slope
+                corrected, error, new_tangent = fixed, first_error, slope
             else:
-                corrected[go], error[go], new_tangent[go] = fixed, first, slope
+                corrected[go], error[go], new_tangent[go] = fixed, first_error, slope
             accepted[go] = ok & np.all(np.isfinite(fixed), axis=1)
-        taken[active] += 1
+        self.taken[active] += 1
         good = active[accepted]
-        points[good] = corrected[accepted]
-        t[good] = new_t[accepted]
-        tangent[good] = new_tangent[accepted]
-        has_tangent[good] = np.all(np.isfinite(tangent[good]), axis=1)
-        if window is not None:
-            arrived = good[(direction[good] * (t[good] - near) >= 0) & ~passed[good]]
-            passed[arrived] = True
-            kept[arrived] = points[arrived]
-            kept_t[arrived] = t[arrived]
-            stop[arrived] = t_end[arrived]
-        # The first Newton correction measures the predictor's error, which scales like h^5:
-        # aim the next step at the error the corrector removes in about two iterations.
+        self.points[good] = corrected[accepted]
+        self.t[good] = new_t[accepted]
+        self.tangent[good] = new_tangent[accepted]
+        self.has_tangent[good] = np.all(np.isfinite(self.tangent[good]), axis=1)
+        if self.window is not None:
+            near = self.window[0]
+            arrived = good[(self.direction[good] * (self.t[good] - near) >= 0) & ~self.passed[good]]
+            self.passed[arrived] = True
+            self.kept[arrived] = self.points[arrived]
+            self.kept_t[arrived] = self.t[arrived]
+            self.stop[arrived] = self.t_end[arrived]
+        self._control(active, accepted, good, error)
+
+    def _control(self, active, accepted, good, error):
+        """The next step sizes, and the rows that fail by the minimum step or the step limit."""
+        opts = self.options
+        # the predictor's error scales like h^(order + 1): aim the next step at the error the
+        # corrector removes in about two iterations
         with np.errstate(divide="ignore"):
-            factor = 0.8 * (opts.predictor_error / np.maximum(error[accepted], 1e-300)) ** 0.2
+            factor = STEP_SAFETY * (opts.predictor_error / np.maximum(error[accepted], ERROR_FLOOR)) ** (
+                1 / (self.method.order + 1))
         # no growth on the step after a rejection (common practice in ODE step control): near a
         # close approach the error rises much faster than h^5 and growing again at once fails again
-        factor = np.where(held[good], np.minimum(factor, 1.0), factor)
-        held[good] = False
-        step[good] = np.minimum(step[good] * np.clip(factor, 0.5, 2.0), max_step)
+        factor = np.where(self.held[good], np.minimum(factor, 1.0), factor)
+        self.held[good] = False
+        self.step_size[good] = np.minimum(self.step_size[good] * np.clip(factor, STEP_MIN_FACTOR, STEP_MAX_FACTOR),
+                                          self.max_step)
         rejected = active[~accepted]
-        held[rejected] = True
-        step[rejected] *= 0.5
-        status[rejected[step[rejected] < opts.min_step]] = PathStatus.FAILED_MIN_STEP
-        over = active[(taken[active] >= opts.max_steps) & (status[active] == PathStatus.RUNNING)]
-        status[over] = PathStatus.FAILED_STEP_LIMIT
-    steps += taken
-    bad = ~np.all(np.isfinite(points), axis=1)
-    status[bad & (status == PathStatus.RUNNING)] = PathStatus.FAILED_NONFINITE
-    if window is not None:
-        return points, t, status, step, passed, kept, kept_t
-    return points, t, status, step
+        self.held[rejected] = True
+        self.step_size[rejected] *= STEP_REJECT_FACTOR
+        self.status[rejected[self.step_size[rejected] < opts.min_step]] = PathStatus.FAILED_MIN_STEP
+        over = active[(self.taken[active] >= opts.max_steps) & (self.status[active] == PathStatus.RUNNING)]
+        self.status[over] = PathStatus.FAILED_STEP_LIMIT
 
 
 def _cauchy_endgame(homotopy, points, radius, opts, steps):
@@ -509,11 +638,12 @@ def _cauchy_endgame(homotopy, points, radius, opts, steps):
                     half[rows] += current[rows]
                 if k % 4 == 0:
                     quarter[rows] += current[rows]
-                moved, _, piece_status, arc_step[rows] = _advance(
-                    homotopy, current[rows], np.full(len(rows), angles[k]), np.full(len(rows), angles[k + 1]),
-                    circle, live[rows], opts, steps_view := np.zeros(len(rows), dtype=np.int64),
-                    step=arc_step[rows], max_step=arc)
-                steps[live[rows]] += steps_view
+                arc_piece = Stepper(homotopy, current[rows], np.full(len(rows), angles[k]),
+                                    np.full(len(rows), angles[k + 1]), circle, live[rows], opts,
+                                    step=arc_step[rows], max_step=arc)
+                arc_piece.run()
+                moved, piece_status, arc_step[rows] = arc_piece.points, arc_piece.status, arc_piece.step_size
+                steps[live[rows]] += arc_piece.taken
                 current[rows] = moved
                 failed = piece_status != PathStatus.RUNNING
                 if np.any(failed):
@@ -559,10 +689,10 @@ def _cauchy_endgame(homotopy, points, radius, opts, steps):
         shrink = (done & ~agree) | (unclosed & (status[live] == PathStatus.RUNNING))
         move = live[shrink]
         if len(move) and round_ + 1 < opts.endgame_rounds:
-            moved, _, piece_status, _ = _advance(homotopy, start[shrink], r[move],
-                                              r[move] * opts.endgame_shrink, _Segment, move, opts,
-                                              steps_view := np.zeros(len(move), dtype=np.int64))
-            steps[move] += steps_view
+            inward = Stepper(homotopy, start[shrink], r[move], r[move] * opts.endgame_shrink, _Segment, move, opts)
+            inward.run()
+            moved, piece_status = inward.points, inward.status
+            steps[move] += inward.taken
             x[move] = moved
             r[move] *= opts.endgame_shrink
             failed = piece_status != PathStatus.RUNNING
@@ -648,9 +778,12 @@ def _track(homotopy, start_points, opts, near=None, on_step=None):
     if near is None:
         # one pass from s = 1 to 0 that keeps every path's first point within the endgame radius
         # (and not past the next, smaller radius the endgame would try)
-        final, _, status_a, _, passed, near, reached_at = _advance(
-            homotopy, start_points, np.ones(count), np.zeros(count), _Segment, index, opts, steps, on_step=on_step,
-            window=(opts.endgame_radius, opts.endgame_radius * opts.endgame_shrink))
+        stepper = Stepper(homotopy, start_points, np.ones(count), np.zeros(count), _Segment, index, opts,
+                          window=(opts.endgame_radius, opts.endgame_radius * opts.endgame_shrink))
+        stepper.run(on_step)
+        steps += stepper.taken
+        final, status_a, passed, near, reached_at = (stepper.points, stepper.status, stepper.passed, stepper.kept,
+                                                     stepper.kept_t)
         radius = np.where(passed, reached_at, radius)
         status[:] = np.where(passed, PathStatus.RUNNING, status_a)  # failed before the radius: final
         running = np.nonzero(passed)[0]
@@ -659,7 +792,10 @@ def _track(homotopy, start_points, opts, near=None, on_step=None):
         status_b = status_a[running]
     else:
         running = np.arange(count)
-        final, _, status_b, _ = _advance(homotopy, near, radius, np.zeros(count), _Segment, running, opts, steps)
+        stepper = Stepper(homotopy, near, radius, np.zeros(count), _Segment, running, opts)
+        stepper.run()
+        steps += stepper.taken
+        final, status_b = stepper.points, stepper.status
     endpoints = near.copy()
     condition = np.full(count, np.inf)
     winding = np.zeros(count, dtype=np.int64)

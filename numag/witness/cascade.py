@@ -30,10 +30,9 @@ Examples
 [(1, 1), (2, 1)]
 """
 
-from dataclasses import dataclass, field, replace
+from dataclasses import dataclass, field
 
 import numpy as np
-from threadpoolctl import threadpool_limits
 
 from ..errors import InputError
 from ..system.polynomial import Polynomial, PolynomialSystem
@@ -44,7 +43,8 @@ from ..numeric.linalg import scaled_singular_values
 from ..numeric.refine import IsolationTest, largest_scaled_residual, project_to_variety
 from ..numeric.seeds import random_state
 from ..tracking.homotopy import ParameterHomotopy, random_unit_complex
-from ..tracking.tracker import BatchTracker, PathStatus, StartArray, TrackerOptions
+from ..tracking.service import PathCounts, TrackRun, track
+from ..tracking.tracker import TrackerOptions
 
 __all__ = ["WitnessOptions", "WitnessSet", "WitnessSupersets", "witness_supersets", "Slicing", "track_moves",
            "membership", "combine_equations", "random_rows", "linear_form", "jacobian_rank"]
@@ -229,7 +229,7 @@ def _product_oflinear_form(rows):
     return product
 
 
-def track_moves(start, target, points, rng, options, counts, batch_size=4096):
+def track_moves(start, target, points, rng, options, batch_size=4096):
     """Track affine points from the square homogeneous system ``start`` to ``target`` (parameter homotopy).
 
     Parameters
@@ -240,23 +240,18 @@ def track_moves(start, target, points, rng, options, counts, batch_size=4096):
         Solutions of ``start`` (affine).
     rng : numpy.random.Generator
     options : TrackerOptions
-    counts : dict
-        Path counts by status label, updated in place.
+    batch_size : int
 
     Returns
     -------
-    affine : ndarray, shape (P, n)
-        Endpoints (NaN where the path failed or went to infinity).
-    status : ndarray of int, shape (P,)
-    winding : ndarray of int, shape (P,)
+    TrackRun
+        ``affine_endpoints()`` gives the endpoints (NaN where the path failed or went to
+        infinity), ``counts`` the paths by status.
     """
     points = np.asarray(points, dtype=complex).reshape(-1, len(start))
     count = len(points)
-    affine = np.full(points.shape, np.nan, dtype=complex)
-    status = np.zeros(count, dtype=np.int64)
-    winding = np.zeros(count, dtype=np.int64)
-    if count == 0:
-        return affine, status, winding
+    if count == 0:  # nothing drawn from rng: the random data of later homotopies stays the same
+        return TrackRun.empty(len(start) + 1)
     charge_paths(count, f"a homotopy of {len(start)} equations")  # the work guard, before any tracking
     size = len(start) + 1
 
@@ -266,79 +261,13 @@ def track_moves(start, target, points, rng, options, counts, batch_size=4096):
         return made, made.start_solutions_from(points)
 
     homotopy, starts = homotopy_with_fresh_gamma()
-
-    def store(rows, result):
-        status[rows] = result["status"]
-        winding[rows] = result["winding"]
-        finite = (result["status"] == PathStatus.CONVERGED) | (result["status"] == PathStatus.SINGULAR_ENDPOINT)
-        with np.errstate(all="ignore"):
-            ends = result["endpoints"][:, 1:] / result["endpoints"][:, :1]
-        affine[rows] = np.where(finite[:, None], ends, np.nan)
-
-    def run(indices, tracker_options):
-        batches = [indices[first:first + batch_size] for first in range(0, len(indices), batch_size)]
-        tracker = BatchTracker(homotopy, StartArray(starts), tracker_options)
-        executor = current_executor()
-        if executor is None or len(batches) < 2:  # small moves stay here: no transfer cost
-            for rows in batches:
-                with threadpool_limits(limits=1):
-                    store(rows, tracker(rows))
-            return
-        for position, result in executor.run(tracker, batches):
-            store(batches[position], result)
-        for failure in executor.failures:  # counted as failed paths, never dropped
-            status[batches[failure.index]] = PathStatus.FAILED_BATCH
-
-    run(np.arange(count), options)
-    cautious = options
-    for round_ in range(_JUMP_ROUNDS + 1):
-        crossed = _crossed(affine, status)
-        if len(crossed) == 0:
-            break
-        if round_ == _JUMP_ROUNDS:
-            # Still two paths at one regular endpoint: the endpoint is real, the other path's own
-            # endpoint is missing. Count the extra paths of each group as failed (never merge silently).
-            _mark_jumped(affine, status, crossed)
-            break
-        counts["retracked_after_jump"] = counts.get("retracked_after_jump", 0) + len(crossed)
-        if round_ == _FRESH_GAMMA_ROUND:  # the paths nearly meet for this gamma: all again with another (a new pairing)
-            homotopy, starts = homotopy_with_fresh_gamma()
-            run(np.arange(count), cautious)
-        else:  # again with smaller steps, on the same homotopy (the pairing of starts and ends holds)
-            cautious = replace(cautious, max_step=cautious.max_step / 10,
-                               predictor_error=cautious.predictor_error / 100, max_steps=cautious.max_steps * 5,
-                               corrector_iterations=3, chord_corrector=False)
-            run(crossed, cautious)
-    for code in PathStatus:
-        if code != PathStatus.RUNNING:
-            counts[code.label] = counts.get(code.label, 0) + int(np.sum(status == code))
-    return affine, status, winding
+    # small moves stay in this process: no transfer cost
+    return track(homotopy, starts, options, executor=current_executor() if count > batch_size else None,
+                 batch_size=batch_size, fresh_homotopy=homotopy_with_fresh_gamma)
 
 
 #: Endpoints with a scaled residual between the tolerance and this are refined before they are judged.
 _DOUBTFUL_RESIDUAL = 1e-3
-
-#: Rounds of repair of jumped paths in a move, and the round that tries a fresh gamma for every path.
-_JUMP_ROUNDS, _FRESH_GAMMA_ROUND = 5, 2
-
-
-def _crossed(affine, status):
-    """Paths that share a regular endpoint with another path (a regular solution has one path)."""
-    regular = np.nonzero((status == PathStatus.CONVERGED) & np.all(np.isfinite(affine), axis=1))[0]
-    if len(regular) < 2:
-        return np.zeros(0, dtype=np.int64)
-    labels = cluster_labels(affine[regular], 1e-6)
-    return regular[np.bincount(labels)[labels] > 1]
-
-
-def _mark_jumped(affine, status, crossed):
-    """Keep one path of each group of paths sharing a regular endpoint; mark the others as jumped (failed)."""
-    labels = cluster_labels(affine[crossed], 1e-6)
-    for members in groups(labels):
-        extra = crossed[members[1:]]
-        status[extra] = PathStatus.FAILED_JUMP
-        affine[extra] = np.nan
-
 
 def jacobian_rank(evaluator, sizes, points, threshold):
     """Numerical rank of the row-scaled Jacobian at each point (rows divided by their terms' size)."""
@@ -350,7 +279,7 @@ def jacobian_rank(evaluator, sizes, points, threshold):
     return np.sum(values > threshold, axis=1)
 
 
-def membership(held, slice_rows, witness_points, point, rng, options, counts):
+def membership(held, slice_rows, witness_points, point, rng, options):
     """Which witness points lie on a component through ``point`` (the homotopy membership test).
 
     The slice of the witness points is moved to a random slice through the point; the
@@ -366,27 +295,28 @@ def membership(held, slice_rows, witness_points, point, rng, options, counts):
     point : ndarray, shape (n,)
     rng : numpy.random.Generator
     options : WitnessOptions
-    counts : dict
-        Path counts, updated.
 
     Returns
     -------
-    ndarray of bool, shape (K,)
+    hits : ndarray of bool, shape (K,)
         True for the witness points whose path ended at ``point``.
+    paths : PathCounts
+        The paths tracked.
     """
     witness_points = np.atleast_2d(witness_points)
     n = witness_points.shape[1]
     if len(witness_points) == 0:
-        return np.zeros(0, dtype=bool)
+        return np.zeros(0, dtype=bool), PathCounts()
     if len(slice_rows) == 0:  # isolated points: the component is the point itself
-        return np.linalg.norm(witness_points - point[None, :], axis=1) <= 1e-6 * (1 + np.linalg.norm(point))
+        return np.linalg.norm(witness_points - point[None, :], axis=1) <= 1e-6 * (1 + np.linalg.norm(point)), \
+            PathCounts()
     through = random_rows(rng, len(slice_rows), n + 1)
     through[:, 0] = -(through[:, 1:] @ point)  # each hyperplane passes through the point
     start = held + [linear_form(r) for r in slice_rows]
     target = held + [linear_form(r) for r in through]
-    ends, _, _ = track_moves(start, target, witness_points, rng, options.tracker, counts, options.batch_size)
-    distance = np.nan_to_num(np.linalg.norm(ends - point[None, :], axis=1), nan=np.inf)
-    return distance <= 1e-5 * (1 + np.linalg.norm(point))
+    run = track_moves(start, target, witness_points, rng, options.tracker, options.batch_size)
+    distance = np.nan_to_num(np.linalg.norm(run.affine_endpoints() - point[None, :], axis=1), nan=np.inf)
+    return distance <= 1e-5 * (1 + np.linalg.norm(point)), run.counts
 
 
 def witness_supersets(system, options=None, seed=None, progress=None):
@@ -421,7 +351,7 @@ def witness_supersets(system, options=None, seed=None, progress=None):
     deepest = n - lowest  # largest codimension searched
     counts = {"tracked": 0, "not_on_X": 0, "at_infinity_or_failed": 0, "on_larger_component": 0,
               "membership_paths": 0}
-    track_counts = {}
+    track_counts = PathCounts()
     # codimension -> (points (K, n), multiplicity (K,)); the start: C^n is witnessed by one point
     start_point = np.linalg.solve(slicing.rows[:, 1:], -slicing.rows[:, 0])
     current = {0: (start_point[None, :], np.ones(1, dtype=np.int64))}
@@ -461,8 +391,10 @@ def witness_supersets(system, options=None, seed=None, progress=None):
             regenerate = points[~on]
             if codim >= deepest or len(regenerate) == 0:
                 continue
-            candidates, candidate_paths = _regenerate(slicing, [slicing.homogeneous[k] for k in before], f, codim,
-                                                      regenerate, options, track_counts, counts)
+            candidates, lost, moved = _regenerate(slicing, [slicing.homogeneous[k] for k in before], f, codim,
+                                                  regenerate, options)
+            counts["at_infinity_or_failed"] += lost
+            track_counts += moved
             if len(candidates) == 0:
                 continue
             residual = largest_scaled_residual(sizes, evaluator, candidates)
@@ -486,8 +418,12 @@ def witness_supersets(system, options=None, seed=None, progress=None):
             members = groups(labels)
             distinct = np.array([candidates[m[0]] for m in members])
             paths = np.array([len(m) for m in members], dtype=np.int64)
-            keep = _not_junk(slicing, equations, evaluator, sizes, codim + 1, distinct, following,
-                             options, track_counts, counts)
+            keep, local_junk, tested = _not_junk(slicing, equations, evaluator, sizes, codim + 1, distinct,
+                                                 following, options)
+            if local_junk:
+                counts["junk_by_local_test"] = counts.get("junk_by_local_test", 0) + local_junk
+            counts["membership_paths"] += tested.runs  # re-tracks of jumped paths included
+            track_counts += tested
             counts["on_larger_component"] += int(np.sum(~keep))
             have_points, have_mult = following.get(codim + 1, (np.zeros((0, n), complex),
                                                                np.zeros(0, np.int64)))
@@ -497,8 +433,8 @@ def witness_supersets(system, options=None, seed=None, progress=None):
         if progress is not None:
             sizes = ", ".join(f"dim {n - c}: {len(current[c][0])}" for c in sorted(current) if len(current[c][0]))
             progress(f"equation {step + 1} of {system.n_equations} done; witness points so far: {sizes or 'none'}")
-    counts["tracked"] = sum(track_counts.get(code.label, 0) for code in PathStatus if code != PathStatus.RUNNING)
-    counts.update(track_counts)
+    counts["tracked"] = track_counts.tracked
+    counts.update(track_counts.by_label())
     sets = []
     for codim in range(0, deepest + 1):
         points, multiplicity = current.get(codim, (np.zeros((0, n), complex), np.zeros(0, np.int64)))
@@ -516,40 +452,49 @@ def _refine_on(system, used, slice_rows, points):
     return result.points, result.converged & near
 
 
-def _regenerate(slicing, held_equations, f, codim, points, options, track_counts, counts):
-    """Endpoints on V(held, f) of the codimension-(codim + 1) slice, from codim-c points not on V(f)."""
+def _regenerate(slicing, held_equations, f, codim, points, options):
+    """Endpoints on V(held, f) of the codimension-(codim + 1) slice, from codim-c points not on V(f).
+
+    Returns the endpoints, the number of linear-move paths lost (failed or at infinity) and the
+    paths tracked (:class:`~numag.tracking.service.PathCounts`).
+    """
     n = slicing.n
     degree = f.degree
     held = slicing.combinations(held_equations, codim) if held_equations else []
     rest = [linear_form(r) for r in slicing.rows[codim + 1:]]
     moved_rows = slicing.factor_rows(codim, degree)
-    starts = []
+    starts, paths = [], PathCounts()
     base = held + [linear_form(slicing.rows[codim])] + rest
     for row in moved_rows:  # move l_{c+1} to each factor hyperplane: d linear moves
         target = held + [linear_form(row)] + rest
-        ends, _, _ = track_moves(base, target, points, slicing.rng, options.tracker, track_counts,
-                                 options.batch_size)
+        run = track_moves(base, target, points, slicing.rng, options.tracker, options.batch_size)
+        ends = run.affine_endpoints()
+        paths += run.counts
         starts.append(ends[np.all(np.isfinite(ends), axis=1)])
     starts = np.vstack(starts) if starts else np.zeros((0, n), complex)
     lost = len(points) * degree - len(starts)
-    counts["at_infinity_or_failed"] += lost
     product = _product_oflinear_form(moved_rows)
-    ends, _, _ = track_moves(held + [product] + rest, held + [f] + rest, starts, slicing.rng, options.tracker,
-                             track_counts, options.batch_size)
-    return ends, len(starts)
+    run = track_moves(held + [product] + rest, held + [f] + rest, starts, slicing.rng, options.tracker,
+                      options.batch_size)
+    return run.affine_endpoints(), lost, paths + run.counts
 
 
-def _not_junk(slicing, equations, evaluator, sizes, codim, points, found, options, track_counts, counts):
-    """False for the points of a codimension-``codim`` candidate set that lie on a larger component."""
+def _not_junk(slicing, equations, evaluator, sizes, codim, points, found, options):
+    """Which points of a codimension-``codim`` candidate set do not lie on a larger component.
+
+    Returns the mask, the number of points the local test found junk, and the paths the membership
+    tests tracked (:class:`~numag.tracking.service.PathCounts`).
+    """
     keep = np.ones(len(points), dtype=bool)
+    paths, local_junk = PathCounts(), 0
     larger = [(c, found[c][0]) for c in sorted(found) if c < codim and len(found[c][0])]
     if not larger or len(points) == 0:
-        return keep
+        return keep, local_junk, paths
     # Full rank codim: the tangent space is too small for a larger component through the point.
     ranks = jacobian_rank(evaluator, sizes, points, options.rank_threshold)
     suspects = np.nonzero(ranks < codim)[0]
     if len(suspects) == 0:
-        return keep
+        return keep, local_junk, paths
     # A witness point of codimension codim is an isolated point of X_i on its slice; a point of a
     # larger component is not. The local test finds the curve through a junk point cheaply
     # (positive evidence); only the points it calls isolated need the homotopy membership test.
@@ -560,15 +505,13 @@ def _not_junk(slicing, equations, evaluator, sizes, codim, points, found, option
     for k in suspects:
         if not local.isolated(points[k]):
             keep[k] = False
-            counts["junk_by_local_test"] = counts.get("junk_by_local_test", 0) + 1
+            local_junk += 1
             continue
         for c, witness_points in larger:
-            before = sum(track_counts.values())
             held = slicing.combinations(equations, c)
-            hits = membership(held, slicing.slice_rows(c), witness_points, points[k], slicing.rng, options,
-                              track_counts)
-            counts["membership_paths"] += sum(track_counts.values()) - before
+            hits, tracked = membership(held, slicing.slice_rows(c), witness_points, points[k], slicing.rng, options)
+            paths += tracked
             if np.any(hits):
                 keep[k] = False
                 break
-    return keep
+    return keep, local_junk, paths

@@ -45,6 +45,7 @@ from ..numeric.cluster import cluster_labels
 from ..numeric.evaluate import BatchEvaluator, TermSizes
 from ..numeric.scaling import Scaling
 from ..numeric.seeds import random_state, resolved_seed
+from ..tracking.service import PathCounts
 from .cascade import (WitnessOptions, combine_equations, jacobian_rank, linear_form, membership, random_rows,
                       track_moves, witness_supersets)
 
@@ -220,12 +221,12 @@ def holding_equations(system, codimension, points, rng, threshold=1e-6, max_roun
 class _Mover:
     """Moves the witness points of one dimension between slices, on the held equations."""
 
-    def __init__(self, system, codimension, points, slice_rows, rng, options, counts, simple=False):
+    def __init__(self, system, codimension, points, slice_rows, rng, options, simple=False):
         self.n = system.n_variables
         self.codimension = codimension
         self.rng = rng
         self.options = options
-        self.counts = counts
+        self.paths = PathCounts()  # every path this mover tracked
         equations, self.deflated = holding_equations(system, codimension, points, rng,
                                                      options.witness.rank_threshold, simple=simple)
         self.held = combine_equations([p.homogenize(0) for p in equations], codimension, rng)
@@ -237,9 +238,9 @@ class _Mover:
         # No high-precision rescue here: a loop or trace path that fails only costs another loop or
         # translation, while re-tracking it in mpmath can take minutes (seen on three quadrics).
         tracker = replace(self.options.witness.tracker, rescue_digits=0)
-        ends, _, _ = track_moves(start, target, points, self.rng, tracker, self.counts,
-                                 self.options.witness.batch_size)
-        return ends
+        run = track_moves(start, target, points, self.rng, tracker, self.options.witness.batch_size)
+        self.paths += run.counts
+        return run.affine_endpoints()
 
 
 def _match(ends, points, tolerance):
@@ -430,7 +431,7 @@ def _decompose(system, options, seed, progress):
         return linear
     supersets = witness_supersets(system, options.witness, seed=int(rng.integers(2**32)), progress=progress)
     counts = dict(supersets.paths)
-    move_counts = {}
+    movers_made = []  # each counts the paths it tracks (loops, trace tests, moves to real slices)
     n = system.n_variables
     real_coefficients = system.has_real_coefficients
     components, loops = [], {}
@@ -462,11 +463,12 @@ def _decompose(system, options, seed, progress):
             for value in np.unique(signature):
                 members = np.nonzero(signature == value)[0]
                 mover = _Mover(system, codimension, witness.points[members], witness.slice_rows, rng, options,
-                               move_counts, simple=bool(np.all(simple[members])))
+                               simple=bool(np.all(simple[members])))
                 counted = []
                 for group, confirmed, defect in _split(mover, witness.points[members], rng, options, counted):
                     groups.append((members[group].tolist(), confirmed, defect))
                     movers.append(mover)
+                movers_made.append(mover)
                 run += counted[0] if counted else 0
             loops[witness.dimension] = run
         for (group, confirmed, defect), mover in zip(groups, movers):
@@ -484,8 +486,9 @@ def _decompose(system, options, seed, progress):
     for k, component in enumerate(components, 1):
         component.id = k
     counts.update(_degree_checks(system, components))
-    counts["tracked"] = counts.get("tracked", 0) + sum(move_counts.values())
-    for label, value in move_counts.items():
+    move_counts = sum((mover.paths for mover in movers_made), PathCounts())
+    counts["tracked"] = counts.get("tracked", 0) + move_counts.runs  # re-tracks of jumped paths included
+    for label, value in move_counts.by_label().items():
         counts[label] = counts.get(label, 0) + value
     return Decomposition(system, components, supersets.dimensions_searched, counts, loops, seed,
                          time.perf_counter() - started)
@@ -578,13 +581,12 @@ def components_through(decomposition, point, seed=0, options=None):
     _, rng = random_state(seed)
     n = system.n_variables
     found = []
-    counts = {}
     for component in decomposition.components:  # highest dimension first
         codimension = n - component.dimension
         equations, _ = holding_equations(system, codimension, component.points, rng, options.witness.rank_threshold,
                                          simple=component.reduced and component.multiplicity == 1)
         held = combine_equations([p.homogenize(0) for p in equations], codimension, rng)
-        hits = membership(held, component.slice_rows, component.points, point, rng, options.witness, counts)
+        hits, _ = membership(held, component.slice_rows, component.points, point, rng, options.witness)
         if np.any(hits):
             found.append(component)
     return found

@@ -1,0 +1,67 @@
+import numpy as np
+import pytest
+
+from numag.run.executor import InProcess
+from numag.system.parse import parse_system
+from numag.tracking.homotopy import StraightLineHomotopy
+from numag.tracking.service import JUMP_ROUNDS, PathCounts, track
+from numag.tracking.tracker import PathStatus
+
+
+def circle_and_line(seed):
+    # x^2 + y^2 = 5 and x - y = 1 meet in (2, 1) and (-1, -2) (common practice, no source)
+    system = parse_system(["x^2 + y^2 - 5", "x - y - 1"], ["x", "y"])
+    return StraightLineHomotopy.total_degree(system, np.random.default_rng(seed))
+
+
+@pytest.mark.parametrize("seed", range(3))
+def test_batches_and_executors_give_the_same_paths(seed):
+    homotopy = circle_and_line(seed)
+    starts = homotopy.start_solutions()
+    alone = track(homotopy, starts, batch_size=1)
+    with InProcess() as executor:
+        together = track(homotopy, starts, executor=executor)
+    # the same paths to rounding (batched linear algebra may round a row differently beside others)
+    assert np.allclose(alone.endpoints, together.endpoints, rtol=0, atol=1e-10)
+    assert alone.execution["batches"] == 2 and together.execution["batches"] == 1
+    ends = alone.affine_endpoints()
+    assert np.allclose(sorted(ends[:, 0].real), [-1, 2]) and np.allclose(sorted(ends[:, 1].real), [-2, 1])
+    counts = alone.counts
+    assert counts.tracked == counts.converged + counts.singular_endpoint + counts.at_infinity + counts.failed == 2
+
+
+@pytest.mark.parametrize("seed", range(3))
+def test_two_paths_from_one_start_end_as_one_kept_and_one_jumped(seed):
+    # Two copies of one start point follow one path to one regular endpoint however cautiously they are
+    # tracked again: the repair gives up after its rounds, keeps one and counts the other as jumped.
+    homotopy = circle_and_line(seed)
+    starts = homotopy.start_solutions()
+    run = track(homotopy, np.vstack([starts, starts[:1]]))
+    assert run.status.tolist().count(PathStatus.FAILED_JUMP) == 1
+    assert np.sum(run.status == PathStatus.CONVERGED) == 2
+    assert run.jump_retracks == 2 * JUMP_ROUNDS and run.counts.runs == 3 + 2 * JUMP_ROUNDS
+    assert run.counts.failed_by_reason["jumped"] == 1 and run.retracked.sum() == 2
+
+
+def test_a_fresh_gamma_round_tracks_every_path_again():
+    homotopy = circle_and_line(0)
+    starts = homotopy.start_solutions()
+    made = []
+
+    def fresh_homotopy():
+        made.append(circle_and_line(len(made) + 10))
+        return made[-1], np.vstack([made[-1].start_solutions(), made[-1].start_solutions()[:1]])
+
+    run = track(homotopy, np.vstack([starts, starts[:1]]), fresh_homotopy=fresh_homotopy)
+    assert len(made) == 1 and run.homotopy is made[0] and run.retracked.all()
+    assert run.counts.failed_by_reason["jumped"] == 1
+
+
+def test_path_counts_add_up_and_report_every_failure_label():
+    counts = PathCounts.of([PathStatus.CONVERGED, PathStatus.FAILED_MIN_STEP, PathStatus.AT_INFINITY],
+                           retracked=[False, True, False], digits=[16, 40, 16])
+    total = counts + PathCounts.of([PathStatus.FAILED_JUMP])
+    report = total.report()
+    assert report["tracked"] == 4 and report["failed"] == 2 and report["rescued_in_high_precision"] == 1
+    assert report["failed_by_reason"]["minimum_step"] == 1 and report["failed_by_reason"]["jumped"] == 1
+    assert set(total.by_label()) == {s.label for s in PathStatus if s != PathStatus.RUNNING}
