@@ -20,6 +20,7 @@ from ..errors import NumagError, one_line
 from ..version import __version__
 from ..run.executor import WorkLimits, abort_workers, work_limits
 from .commands import certify, check, compare, decompose, singular, solve
+from .commands.common import _add_at_option
 from .commands.common import EXIT_INPUT, EXIT_INTERNAL, EXIT_MISMATCH, EXIT_OK, EXIT_UNDECIDED
 
 __all__ = ["main", "build_parser", "EXIT_OK", "EXIT_INTERNAL", "EXIT_INPUT", "EXIT_UNDECIDED", "EXIT_MISMATCH"]
@@ -42,6 +43,9 @@ def build_parser():
 
     for command in (check, solve, singular, decompose, certify, compare):
         command.add_parser(commands)
+    for name, command in commands.choices.items():  # a member of a family (issue 22): one option everywhere
+        if name != "certify":  # certify reads a report, whose system is already a member
+            _add_at_option(command)
     return parser
 
 
