@@ -149,6 +149,25 @@ class Family:
             raise PointError(f"--at: {err}".replace("is not a variable of the system", "is not a parameter of "
                                                     "the family")) from None
 
+    def restricted(self, index, value):
+        """The family with parameter ``index`` fixed at ``value`` (exactly substituted; one parameter fewer).
+
+        Examples
+        --------
+        >>> from numag.system.parse import parse_system
+        >>> family = Family(parse_system(["x^3 + p*x + q"], ["x", "p", "q"]), ("p", "q"))
+        >>> line = family.restricted(0, ExactCoefficient.rational(-3))
+        >>> line.parameters, line.system.to_texts()
+        (('q',), ['x^3 - 3*x + q'])
+        """
+        position = self.n_variables + int(index)
+        polynomials = [substitute_values(p, [position], [value]) for p in self.system.polynomials]
+        names = [v for k, v in enumerate(self.system.variables) if k != position]
+        parameters = tuple(p for k, p in enumerate(self.parameters) if k != int(index))
+        system = PolynomialSystem(names, polynomials, name=f"{self.system.name or 'family'} at "
+                                  f"{self.parameters[int(index)]}={_text(value)}")
+        return Family(system, parameters, {k: v for k, v in self.ranges.items() if k in parameters})
+
     def member(self, values, name=None):
         """The system in x at p = ``values`` (exactly substituted when the values are exact).
 
