@@ -51,6 +51,7 @@ from ..system.polynomial import Polynomial, PolynomialSystem, combined_minor, de
 from ..numeric.cluster import cluster_labels, groups
 from ..numeric.evaluate import BatchEvaluator
 from ..numeric.seeds import random_state
+from ..tracking.solve import solve_system
 from ..witness.cascade import combine_equations, linear_form, track_moves
 from ..witness.decompose import DecomposeOptions, decompose, holding_equations
 from ..singular.locus import minors_system
@@ -291,12 +292,21 @@ def _finite_components(family, codimension, options, rng, paths, notes, progress
 
 def _images(incidence, n, m, kind, options, rng, paths, notes, offset=0):
     """Decompose an incidence system in (x, p) and project its components to p (the last m unknowns)."""
+    total = incidence.n_variables
+    if incidence.n_equations == total:
+        # square (one parameter, a hypersurface member): total degree and the isolation test suffice, and
+        # they do not depend on the regeneration's choices of which paths go to infinity
+        solved = solve_system(incidence, seed=int(rng.integers(2 ** 63)))
+        _add_counts(paths, solved.path_counts())
+        if not solved.not_isolated:
+            images = [DiscriminantComponent(0, 1, s.point[None, total - m:], _real_rows(s.point[None, total - m:]),
+                                            np.zeros((0, m + 1)), kind) for s in solved.solutions]
+            return _merged(images)
     decomposition = decompose(incidence, options.decompose, seed=int(rng.integers(2 ** 32)))
     _add_counts(paths, decomposition.paths)
     if decomposition.unconfirmed:
         notes.append(f"{len(decomposition.unconfirmed)} component(s) of the incidence set were not confirmed by the "
                      "trace test: their images may be unions.")
-    total = incidence.n_variables
     slices = {}  # image dimension -> real rows a . (1, p) = 0 shared by all components of that dimension
     images = []
     for component in decomposition.components:
