@@ -256,11 +256,10 @@ def discriminant(family, options=None, seed=None, progress=None):
     components = _finite_components(family, codimension, options, rng, paths, notes, progress)
     if options.at_infinity:
         components += _components_at_infinity(family, codimension, options, rng, paths, notes, progress)
-    every = [c for c in components if c.kind == ComponentKind.EVERY_MEMBER]
-    if every:
-        notes.append("Some members are singular for every parameter value (a component of the incidence set "
-                     "projects onto all of parameter space): that is no condition on the parameters and is left "
-                     "out of the regions.")
+    if any(c.kind == ComponentKind.EVERY_MEMBER for c in components):
+        notes.append("Every member is singular somewhere (at infinity in x, or at a finite point): a component of "
+                     "the incidence set projects onto all of parameter space. That is no condition on the "
+                     "parameters; it is listed as 'every member' and left out of the regions.")
     real_points = np.zeros(0)
     regions = []
     if m == 1:
@@ -374,6 +373,8 @@ def _merged(images):
     merged = []
     for image in images:
         for kept in merged:
+            if kept.kind == image.kind == ComponentKind.EVERY_MEMBER:
+                break  # all of parameter space, whichever component of the incidence set
             if (kept.dimension == image.dimension and kept.kind == image.kind and kept.degree == image.degree
                     and _same_points(kept.points, image.points)):
                 break
