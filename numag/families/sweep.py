@@ -116,6 +116,10 @@ class SweepHomotopy:
         """The value number of each point (from its label coordinate)."""
         return np.rint(points[:, -1].real / LABEL_UNIT).astype(np.int64) - 1
 
+    def system_of(self, points):
+        """The value number of each point: the tracking service never takes endpoints of two values for one."""
+        return self.labels_of(points)
+
     def start_points(self, solutions):
         """Every start solution for every target value: path k * S + j is value k, solution j."""
         solutions = np.atleast_2d(np.asarray(solutions, dtype=complex))
