@@ -117,7 +117,8 @@ def run(args, out):
     family = load_family(args.system_file)
     if not family.parameters:
         raise SystemFileError("has no 'parameters': a sweep is over a family", args.system_file, "parameters")
-    values = parse_grid(args.grid, family.parameters) if args.grid else read_values(args.values, family.parameters)
+    values = parse_grid(args.grid, family.parameters) if args.grid is not None else read_values(args.values,
+                                                                                              family.parameters)
     execution = Execution(workers=args.workers, scheduler=args.scheduler, local_dask=args.local_dask)
     result = sweep(family, values, seed=args.seed, progress=_Progress(args.json), execution=execution)
     if args.csv:
