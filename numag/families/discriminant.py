@@ -55,7 +55,7 @@ from ..tracking.solve import solve_system
 from ..witness.cascade import combine_equations, linear_form, track_moves
 from ..witness.decompose import DecomposeOptions, decompose, holding_equations
 from ..singular.locus import minors_system
-from .branches import RealCount, real_branches, real_solutions
+from .branches import RealCount, real_counts
 from .records import ComponentKind, decode_complex, decode_float, encode_complex, encode_float
 
 __all__ = ["DiscriminantOptions", "DiscriminantComponent", "Region", "Discriminant", "discriminant"]
@@ -463,21 +463,12 @@ def _minors_of(rows, codimension, rng, max_exact):
     return minors
 
 
-def _count(member, n_equations, n_variables, seed):
-    """The real count of a real member: solutions (square) or branches (curve); None otherwise."""
-    if n_equations == n_variables:
-        return real_solutions(member, seed=seed)
-    if n_equations == n_variables - 1:
-        return real_branches(member, seed=seed)
-    return RealCount()
-
-
 def _regions_on_line(family, real_points, rng, embed, line):
-    """Regions of a one-parameter family between its real discriminant points, one sample each solved."""
+    """Regions of a one-parameter family between its real discriminant points; their samples solved together."""
     points = np.asarray(real_points, dtype=float)
     cuts = [-math.inf] + points.tolist() + [math.inf]
     width = max(1.0, float(np.ptp(points)) / 2 if len(points) else 1.0)
-    regions = []
+    intervals, samples = [], []
     for low, high in zip(cuts[:-1], cuts[1:]):
         if math.isinf(low) and math.isinf(high):
             sample = 0.0
@@ -487,10 +478,11 @@ def _regions_on_line(family, real_points, rng, embed, line):
             sample = low + width
         else:
             sample = (low + high) / 2
-        member = family.member([ExactCoefficient.from_complex(sample)])
-        count = _count(member, family.system.n_equations, family.n_variables, int(rng.integers(2 ** 63)))
-        regions.append(Region(low, high, embed(sample), count, line))
-    return regions
+        intervals.append((low, high))
+        samples.append(sample)
+    counts = real_counts(family, np.array(samples)[:, None], seed=int(rng.integers(2 ** 63)))
+    return [Region(low, high, embed(sample), count, line)
+            for (low, high), sample, count in zip(intervals, samples, counts)]
 
 
 def _regions_on_lines(family, options, rng, notes, progress):

@@ -43,7 +43,7 @@ from ..tracking.solve import Execution, SolveOptions, solve_system
 from ..tracking.tracker import PathStatus, TrackerOptions
 from .records import PointKind, decode_complex, decode_float, encode_complex, encode_float
 
-__all__ = ["SweepOptions", "MemberSolutions", "SweepResult", "SweepHomotopy", "sweep", "parse_grid",
+__all__ = ["SweepOptions", "MemberSolutions", "SweepResult", "SweepHomotopy", "sweep", "move_points", "parse_grid",
            "LABEL_UNIT", "MAX_VALUES"]
 
 #: The extra coordinate of a path at value k is (k + 1) * LABEL_UNIT: small beside the patch's
@@ -89,8 +89,8 @@ class SweepHomotopy:
     ----------
     family : Family
         A square family (as many equations as variables).
-    start_values : ndarray, shape (m,)
-        p*, where the start solutions are known.
+    start_values : ndarray, shape (m,) or (K, m)
+        p*, where the start solutions are known (one per target value for :meth:`start_points_each`).
     targets : ndarray, shape (K, m)
         q_0, ..., q_{K-1}.
     patch : ndarray, shape (n + 1,)
@@ -102,8 +102,10 @@ class SweepHomotopy:
         # homogenised in x alone: the parameters are numbers along the path, not coordinates
         self.target = [_homogenized_in_x(p.numeric(), n) for p in family.system.polynomials]
         self.n, self.m = n, m
-        self.start_values = np.asarray(start_values, dtype=complex).reshape(m)
         self.targets = np.asarray(targets, dtype=complex).reshape(-1, m)
+        self.start_values = np.asarray(start_values, dtype=complex)
+        self.start_values = (self.start_values.reshape(m) if self.start_values.size == m and self.start_values.ndim < 2
+                             else self.start_values.reshape(len(self.targets), m))
         self.patch = np.asarray(patch, dtype=complex)
         self.gamma = complex(gamma)
         self.size = n + 2
@@ -134,12 +136,21 @@ class SweepHomotopy:
 
     def _parameters(self, points, s):
         """p(s) per row and dp/ds per row, each (P, m)."""
-        q = self.targets[np.clip(self.labels_of(points), 0, len(self.targets) - 1)]
+        labels = np.clip(self.labels_of(points), 0, len(self.targets) - 1)
+        q = self.targets[labels]
+        start = self.start_values[None, :] if self.start_values.ndim == 1 else self.start_values[labels]
         s = np.asarray(s, dtype=complex)
         denominator = 1 + (self.gamma - 1) * s
         tau, dtau = self.gamma * s / denominator, self.gamma / denominator ** 2
-        p = tau[:, None] * self.start_values[None, :] + (1 - tau)[:, None] * q
-        return p, dtau[:, None] * (self.start_values[None, :] - q)
+        p = tau[:, None] * start + (1 - tau)[:, None] * q
+        return p, dtau[:, None] * (start - q)
+
+    def start_points_each(self, points):
+        """One path per target value: path k starts at ``points[k]`` (a solution at ``start_values[k]``)."""
+        points = np.atleast_2d(np.asarray(points, dtype=complex))
+        homogeneous = np.column_stack([np.ones(len(points), dtype=complex), points])
+        homogeneous /= (homogeneous @ self.patch)[:, None]
+        return np.column_stack([homogeneous, (np.arange(len(points), dtype=float) + 1) * LABEL_UNIT])
 
     def _full(self, points, s):
         p, dp = self._parameters(points, s)
@@ -421,6 +432,61 @@ def sweep(family, values, options=None, seed=None, progress=None, execution=None
     counts["start_failed"] = start_failed
     return SweepResult(family.variables, family.parameters, family.system.to_texts(), members, start_parameters,
                        len(solutions), counts, seed, time.perf_counter() - started, description)
+
+
+def move_points(family, start_values, points, targets, real_segment=False, seed=None, options=None):
+    """Move one known solution per path from its own parameter value to its own target, all paths together.
+
+    Parameters
+    ----------
+    family : Family
+        Square.
+    start_values, targets : array_like, shape (K, m)
+    points : array_like, shape (K, n)
+        ``points[k]`` solves the member at ``start_values[k]``.
+    real_segment : bool
+        Move along the straight segment (gamma = 1): real points of real members stay real, and the
+        endpoint is the continuation along the real segment (what connects arcs of a real curve).
+    seed : int, optional
+    options : SweepOptions, optional
+
+    Returns
+    -------
+    ndarray, shape (K, n)
+        Endpoints (NaN where the path failed or went to infinity).
+    int
+        Failed paths.
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> family = Family(parse_system(["x^2 - b"], ["x", "b"]), ("b",))
+    >>> ends, failed = move_points(family, [[1.0], [1.0]], [[1.0], [-1.0]], [[4.0], [9.0]], real_segment=True)
+    >>> np.round(ends.real, 8).tolist(), failed
+    ([[2.0], [-3.0]], 0)
+    """
+    options = options or SweepOptions()
+    _, rng = random_state(seed)
+    targets = np.asarray(targets, dtype=complex).reshape(-1, family.n_parameters)
+    points = np.asarray(points, dtype=complex).reshape(len(targets), family.n_variables)
+    if len(targets) == 0:
+        return np.zeros((0, family.n_variables), dtype=complex), 0
+    size = family.n_variables + 2
+    charge_paths(len(targets), "moving points between members")
+
+    def fresh_homotopy():
+        patch = (rng.standard_normal(size - 1) + 1j * rng.standard_normal(size - 1)) / np.sqrt(2 * (size - 1))
+        gamma = 1.0 if real_segment else random_unit_complex(rng)
+        made = SweepHomotopy(family, start_values, targets, patch, gamma)
+        return made, made.start_points_each(points)
+
+    homotopy, starts = fresh_homotopy()
+    run = track(homotopy, starts, options.tracker, batch_size=options.batch_size, fresh_homotopy=fresh_homotopy)
+    finite = (run.status == PathStatus.CONVERGED) | (run.status == PathStatus.SINGULAR_ENDPOINT)
+    with np.errstate(all="ignore"):
+        ends = run.endpoints[:, 1:-1] / run.endpoints[:, :1]
+    ends[~finite] = np.nan
+    return ends, int(np.sum(run.status >= PathStatus.FAILED_MIN_STEP))
 
 
 def _members(family, run, values, per_value, options):
