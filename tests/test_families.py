@@ -235,3 +235,20 @@ def test_grids_and_value_files(tmp_path):
     assert main(["sweep", path, "--grid", "b=1:2"], out=io.StringIO()) == 2
     assert main(["discriminant", _write(tmp_path, "plain.toml", {"variables": ["x"], "equations": ["x^2"]})],
                 out=io.StringIO()) == 2
+
+
+def test_command_line_tables_pictures_and_saved_results(tmp_path):
+    import xml.dom.minidom
+
+    # x^2 = p has no real root for p < 0 and two for p > 0 (common practice, no source)
+    path = _write(tmp_path, "square.toml", {"variables": ["x"], "parameters": ["p"], "equations": ["x^2 - p"]})
+    out = io.StringIO()
+    saved, picture = tmp_path / "d.json", tmp_path / "d.svg"
+    assert main(["discriminant", path, "--seed", "2", "--output", str(saved), "--svg", str(picture)], out=out) == 0
+    assert "p in (-inf, 0): 0 real solution(s)" in out.getvalue() and "p in (0, inf): 2 real solution(s)" in out.getvalue()
+    assert [r.count.solutions for r in load_result(saved).regions] == [0, 2]
+    labels = [t.firstChild.data for t in xml.dom.minidom.parse(str(picture)).getElementsByTagName("text")]
+    assert "0" in labels and "2" in labels
+    picture = tmp_path / "s.svg"
+    assert main(["sweep", path, "--grid", "p=-1:1:4", "--seed", "2", "--svg", str(picture), "--json"], out=out) == 0
+    assert xml.dom.minidom.parse(str(picture)).getElementsByTagName("polyline")

@@ -4,9 +4,11 @@ import math
 
 from ...run.executor import using
 from ...system.files import load_family
+from ...system.safeio import write_file
 from ...tracking.tracker import FAILURE_LABELS
 from ...families.discriminant import DiscriminantOptions, discriminant
 from ...families.records import ComponentKind, save_result
+from ..picture import discriminant_svg, sweep_svg
 from ..report import CAUTION, dumps
 from .common import (EXIT_OK, EXIT_UNDECIDED, _Messages, _add_executor_options, _add_work_options, _format_complex,
                      _seed, _stage_executor)
@@ -28,6 +30,7 @@ def add_parser(commands):
                          help="two parameters: vertical lines across the first one's range (default %(default)s)")
     command.add_argument("--seed", type=_seed, help="seed of the random choices (recorded in the report)")
     command.add_argument("--output", metavar="JSON", help="save the result (reload with numag.load_result)")
+    command.add_argument("--svg", metavar="FILE", help="draw the result (regions and counts) as an SVG picture")
     command.add_argument("--json", action="store_true", help="print the result as JSON (no progress lines)")
     _add_executor_options(command)
     _add_work_options(command)
@@ -48,8 +51,8 @@ def _count_text(count):
 
 
 def _interval(low, high):
-    left = "-inf" if math.isinf(low) else f"{low:.10g}"
-    right = "inf" if math.isinf(high) else f"{high:.10g}"
+    left = "-inf" if math.isinf(low) else _format_complex(complex(low))
+    right = "inf" if math.isinf(high) else _format_complex(complex(high))
     return f"({left}, {right})"
 
 
@@ -65,7 +68,7 @@ def _print(result, out):
         out.write(f"  {k:3d}  {c.kind.value:13s} dimension {c.dimension}  degree {c.degree}  "
                   f"{int(sum(c.real))} real sample(s)  e.g. {sample}\n")
     if len(result.parameters) == 1:
-        points = ", ".join(f"{v:.10g}" for v in result.real_points) or "none"
+        points = ", ".join(_format_complex(complex(v)) for v in result.real_points) or "none"
         out.write(f"\nreal discriminant points ({names}): {points}\n")
     if result.regions:
         out.write("\nregions (one sample member solved in each)\n")
@@ -95,6 +98,8 @@ def run(args, out):
         result = discriminant(family, options, seed=args.seed, progress=_Messages(args.json))
     if args.output:
         save_result(result, args.output)
+    if args.svg:
+        write_file(args.svg, (discriminant_svg(result) if "discriminant" in __name__ else sweep_svg(result)).encode())
     if args.json:
         out.write(dumps(result.to_dict()) + "\n")
     else:
