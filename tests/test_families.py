@@ -16,7 +16,7 @@ from numag.families.discriminant import DiscriminantOptions, discriminant
 from numag.families.records import ComponentKind, PointKind, load_result, save_result
 from numag.families.sweep import LABEL_UNIT, SweepHomotopy, parse_grid, sweep
 from numag.system.exact import ExactCoefficient
-from numag.system.files import family_from_mapping, load_family
+from numag.system.files import family_from_mapping
 from numag.tracking.solve import solve_system
 
 CUBIC = {"variables": ["x"], "parameters": ["p", "q"], "equations": ["x^3 + p*x + q"],
@@ -152,10 +152,21 @@ def test_four_bar_branches_change_at_the_grashof_lengths(four_bar_discriminant):
 
 
 def test_four_bar_singular_at_infinity_for_every_length_is_told_apart(four_bar_discriminant):
-    # The circles all pass through the circular points at infinity, for every b: no condition on b.
-    kinds = {c.kind for c in four_bar_discriminant.components}
-    assert ComponentKind.FINITE in kinds
+    # Every circle passes through the circular points (1 : +-i : 0) at infinity (common practice, no source):
+    # the closures of all members meet there, for every b, which is no condition on b.
+    kinds = [c.kind for c in four_bar_discriminant.components]
+    assert kinds.count(ComponentKind.FINITE) == 9 and kinds.count(ComponentKind.EVERY_MEMBER) == 1
     assert all(c.dimension == 0 for c in four_bar_discriminant.components if c.kind == ComponentKind.FINITE)
+
+
+def test_solutions_running_off_to_infinity_are_told_apart():
+    # b x^2 = 1: for b -> 0 both roots x = +-1/sqrt(b) run off to infinity; no finite member is singular
+    # (common practice, no source). The value b = 0 still cuts the line: no real root below, two above.
+    family = family_from_mapping({"variables": ["x"], "parameters": ["b"], "equations": ["b*x^2 - 1"]})
+    result = discriminant(family, seed=3)
+    assert [(c.kind, c.dimension) for c in result.components] == [(ComponentKind.AT_INFINITY, 0)]
+    assert abs(result.components[0].points[0, 0]) <= 1e-10 and len(result.real_points) == 0
+    assert [r.count.solutions for r in result.regions] == [0, 2]
 
 
 def test_discriminant_round_trip(tmp_path, cubic_discriminant):

@@ -21,7 +21,6 @@ Examples
 """
 
 from dataclasses import dataclass
-import math
 
 import numpy as np
 
@@ -30,14 +29,9 @@ from ..system.family import Family
 from ..system.polynomial import Polynomial, PolynomialSystem, determinant
 from ..numeric.cluster import cluster_labels, groups
 from ..numeric.seeds import random_state
-from ..tracking.solve import solve_system
 from .sweep import move_points, sweep
-from ..tracking.tracker import PathStatus
 
-__all__ = ["RealCount", "real_solutions", "real_branches", "real_counts"]
-
-#: Relative imaginary part under which a point counts as real.
-REAL_TOLERANCE = 1e-8
+__all__ = ["RealCount", "real_branches", "real_counts"]
 
 
 @dataclass(frozen=True)
@@ -57,24 +51,6 @@ class RealCount:
     solutions: object = None
     branches: object = None
     failed: int = 0
-
-
-def _real(points):
-    return np.all(np.abs(points.imag) <= REAL_TOLERANCE * (1 + np.abs(points)), axis=1)
-
-
-def real_solutions(system, seed=None):
-    """The distinct real isolated solutions of a real square system (a :class:`RealCount`)."""
-    result = solve_system(system, seed=seed)
-    points = np.array([s.point for s in result.solutions]).reshape(-1, system.n_variables)
-    failed = int(np.sum(result.status >= PathStatus.FAILED_MIN_STEP))
-    return RealCount(solutions=int(np.sum(_real(points))) if len(points) else 0, failed=failed)
-
-
-def _with_slice(system, row, value):
-    """The system with the linear equation row . x = value appended."""
-    form = Polynomial.linear(np.asarray(row, dtype=complex), -complex(value))
-    return PolynomialSystem(system.variables, [p.numeric() for p in system.polynomials] + [form], name=system.name)
 
 
 def real_counts(family, samples, seed=None):

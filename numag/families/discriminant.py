@@ -37,7 +37,7 @@ Examples
 [(-inf, 0.0, 0), (0.0, inf, 2)]
 """
 
-from dataclasses import dataclass, field
+from dataclasses import dataclass
 import itertools
 import math
 import time
@@ -263,17 +263,23 @@ def discriminant(family, options=None, seed=None, progress=None):
     real_points = np.zeros(0)
     regions = []
     if m == 1:
-        finite_points = [c.points[0, 0] for c in components if c.kind == ComponentKind.FINITE and c.dimension == 0]
-        real_points = np.sort(np.array([z.real for z in finite_points
-                                        if abs(z.imag) <= REAL_TOLERANCE * (1 + abs(z))]))
+        real_points = _real_values(components, ComponentKind.FINITE)
         if options.regions:
-            regions = _regions_on_line(family, real_points, rng, lambda value: np.array([value]), None)
+            # solutions that run off to infinity change the real count too: those values cut the line as well
+            cuts = np.union1d(real_points, _real_values(components, ComponentKind.AT_INFINITY))
+            regions = _regions_on_line(family, cuts, rng, lambda value: np.array([value]), None)
     elif m == 2 and options.regions:
         regions = _regions_on_lines(family, options, rng, notes, progress)
     elif options.regions:
         notes.append("Regions are given for one or two parameters; with more, sweep a grid instead.")
     return Discriminant(family.variables, family.parameters, family.system.to_texts(), codimension, components,
                         real_points, regions, paths, notes, seed, time.perf_counter() - started)
+
+
+def _real_values(components, kind):
+    """The real parameter values of the isolated components of one kind (one parameter), sorted."""
+    values = [c.points[0, 0] for c in components if c.kind == kind and c.dimension == 0]
+    return np.sort(np.array([z.real for z in values if abs(z.imag) <= REAL_TOLERANCE * (1 + abs(z))]))
 
 
 def _finite_components(family, codimension, options, rng, paths, notes, progress):
@@ -436,8 +442,8 @@ def _components_at_infinity(family, codimension, options, rng, paths, notes, pro
     if progress is not None:
         progress(f"decomposing the incidence set at infinity ({system.n_equations} equations in "
                  f"{system.n_variables} unknowns)")
-    if all(p.degree == 0 and not p.is_zero() for p in system.polynomials[:1]):
-        return []
+    if any(p.degree == 0 and not p.is_zero() for p in system.polynomials):
+        return []  # a nonzero constant: no member meets infinity there
     return _images(system, n - 1, m, ComponentKind.AT_INFINITY, options, rng, paths, notes)
 
 

@@ -2,6 +2,7 @@
 
 import math
 
+from ...errors import NumagError, SystemFileError
 from ...run.executor import using
 from ...system.files import load_family
 from ...system.safeio import write_file
@@ -70,6 +71,11 @@ def _print(result, out):
     if len(result.parameters) == 1:
         points = ", ".join(_format_complex(complex(v)) for v in result.real_points) or "none"
         out.write(f"\nreal discriminant points ({names}): {points}\n")
+        infinite = [c.points[0, 0] for c in result.components if c.kind == ComponentKind.AT_INFINITY
+                    and c.dimension == 0 and c.real[0]]
+        if infinite:
+            out.write(f"real values where a member is singular at infinity in x: "
+                      f"{', '.join(_format_complex(complex(v.real)) for v in sorted(infinite, key=lambda z: z.real))}\n")
     if result.regions:
         out.write("\nregions (one sample member solved in each)\n")
         for region in result.regions:
@@ -88,10 +94,8 @@ def _print(result, out):
 def run(args, out):
     family = load_family(args.system_file)
     if not family.parameters:
-        from ...errors import SystemFileError
         raise SystemFileError("has no 'parameters': a discriminant is of a family", args.system_file, "parameters")
     if not 1 <= args.lines <= 1000:
-        from ...errors import NumagError
         raise NumagError(f"--lines must be from 1 to 1000, got {args.lines}")
     options = DiscriminantOptions(regions=not args.no_regions, at_infinity=not args.no_infinity, lines=args.lines)
     with _stage_executor(args) as executor, using(executor):
