@@ -314,6 +314,24 @@ def command_line(tally, folder, rng, quick):
     for argv in (["solve", quadrics], ["decompose", quadrics], ["singular", quadrics], ["check", quadrics, "--point",
                                                                                         point]):
         judge_cli(tally, argv)
+    # families (issue 22): bad --at, --grid, --values, ranges; discriminant and sweep of files without parameters
+    family = _system(folder, "family", ["x"], ["x^2 - b"], 'parameters = ["b"]\n[ranges]\nb = [0, 1]\n')
+    for at in ("", "b", "b=", "c=1", "b=1,b=2", "b=1e1000", "b=nan", "b=(" * 300, "b=x"):
+        judge_cli(tally, ["solve", family, "--at", at])
+    judge_cli(tally, ["solve", family])
+    judge_cli(tally, ["solve", circle, "--at", "b=1"])
+    for grid in ("", "b", "b=0:1", "b=0:1:0", "b=0:1:10000000", "b=0:inf:3", "c=0:1:3", "b=0:1:2;b=0:1:2", "b=a:b:c"):
+        judge_cli(tally, ["sweep", family, "--grid", grid])
+    for name, text in {"empty": "", "header": "c\n1\n", "nan": "b\nnan\n", "ragged": "b\n1,2\n",
+                       "words": "b\nhello\n", "only header": "b\n"}.items():
+        path = folder / f"values-{name.replace(' ', '-')}.csv"
+        path.write_text(text)
+        judge_cli(tally, ["sweep", family, "--values", str(path)])
+    for ranges in ("b = [1, 0]", "b = [0]", "c = [0, 1]", "b = ['a', 1]", "b = [0, 1e400]", "b = 3"):
+        bad = _system(folder, "bad-ranges", ["x"], ["x^2 - b"], f'parameters = ["b"]\n[ranges]\n{ranges}\n')
+        judge_cli(tally, ["discriminant", bad])
+    for command in ("discriminant", "sweep"):
+        judge_cli(tally, [command, circle] + (["--grid", "b=0:1:2"] if command == "sweep" else []))
     if not quick:
         linear = _system(folder, "linear1000", [f"x{i}" for i in range(1000)], [f"x{i} - {i}" for i in range(1000)])
         judge_cli(tally, ["solve", linear])

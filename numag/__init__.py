@@ -10,6 +10,9 @@ The public API in brief:
 * :func:`singular_locus` -- every singular point and singular component of X (``numag singular``);
 * :func:`certify_regular_zero`, :func:`certify_singular_point`, :func:`certify_smooth_point`,
   :func:`certify_rank`, :func:`overlapping_pairs` with :class:`CertifyOptions` -- certificates (``numag certify``);
+* :func:`load_family`, :func:`discriminant`, :func:`sweep`, :func:`save_result`, :func:`load_result` -- families
+  F(x; p): where members are singular, what they do between, many members at once (``numag discriminant``,
+  ``numag sweep``);
 * :class:`BatchEvaluator` -- F and J at many points at once;
 * :class:`NumagError` -- the root of every error numag raises on purpose.
 
@@ -38,6 +41,10 @@ from .tracking.solve import SolveOptions, continue_solutions, solve_system  # no
 from .witness.decompose import DecomposeOptions, components_through, decompose  # noqa: E402
 from .singular.locus import SingularOptions, singular_locus  # noqa: E402
 from .certify.records import CertifyOptions  # noqa: E402
+from .system.files import load_family  # noqa: E402
+from .families.discriminant import DiscriminantOptions, discriminant  # noqa: E402
+from .families.sweep import SweepOptions, sweep  # noqa: E402
+from .families.records import load_result, save_result  # noqa: E402
 from .certify.certificates import (certify_rank, certify_regular_zero, certify_singular_point,  # noqa: E402
                                    certify_smooth_point, overlapping_pairs)
 
@@ -45,4 +52,5 @@ __all__ = ["NumagError", "parse_system", "parse_polynomial", "Polynomial", "Poly
            "BatchEvaluator", "CheckOptions", "check_points", "load_system", "SolveOptions", "solve_system",
            "continue_solutions", "DecomposeOptions", "decompose", "components_through", "SingularOptions",
            "singular_locus", "CertifyOptions", "certify_regular_zero", "certify_singular_point",
-           "certify_smooth_point", "certify_rank", "overlapping_pairs", "__version__"]
+           "certify_smooth_point", "certify_rank", "overlapping_pairs", "load_family", "DiscriminantOptions",
+           "discriminant", "SweepOptions", "sweep", "load_result", "save_result", "__version__"]

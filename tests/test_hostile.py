@@ -10,6 +10,7 @@ import json
 import os
 
 from hypothesis import HealthCheck, given, settings, strategies as st
+import numpy as np
 import pytest
 
 import numag
@@ -214,3 +215,41 @@ def test_numbers_beyond_double_range_that_exact_arithmetic_keeps(tmp_path):
     data = json.loads(text)
     assert code == 0 and sorted(round(s["point"][0][0], 9) for s in data["solutions"]) == [-1.0, 1.0]
     assert "divided by 1e400" in data["notes"][0]
+
+
+# --- families: parameters, ranges, --at values, --grid specifications ------------------------------------
+
+@_FAST
+@given(parameters=_JSON, low=_JSON, high=_JSON)
+def test_family_files_load_or_are_refused(tmp_path, parameters, low, high):
+    from numag.system.files import load_family
+
+    path = tmp_path / "family.toml"
+    path.write_text(f'variables = ["x"]\nequations = ["x^2 - b"]\nparameters = {json.dumps(parameters)}\n'
+                    f"[ranges]\nb = [{json.dumps(low)}, {json.dumps(high)}]\n")
+    try:
+        family = load_family(path)
+    except InputError:
+        return
+    assert family.parameters == ("b",) and family.ranges["b"].low < family.ranges["b"].high
+
+
+@_FAST
+@given(at=st.text(max_size=40) | st.lists(st.sampled_from(["b", "c", "=", ",", "1", "1e400", "I", "sqrt(2)", " ",
+                                                            "x", "(", "/0"]), max_size=10).map("".join),
+       grid=st.lists(st.sampled_from(["b", "c", "=", ":", ";", "0", "10", "1001", "-1", "inf", "nan", "1e9", " "]),
+                     max_size=12).map("".join))
+def test_family_values_are_read_or_refused(at, grid):
+    from numag.families.sweep import parse_grid
+    from numag.system.files import family_from_mapping
+
+    family = family_from_mapping({"variables": ["x"], "parameters": ["b"], "equations": ["x^2 - b"]})
+    try:
+        family.member(family.values_from_text(at))
+    except InputError:
+        pass
+    try:
+        values = parse_grid(grid, ["b"])
+    except InputError:
+        return
+    assert values.shape[1] == 1 and np.all(np.isfinite(values))

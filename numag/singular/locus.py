@@ -198,8 +198,11 @@ def _real_flags(system, points):
     return np.all(np.abs(points.imag) <= 1e-8 * (1 + np.abs(points)), axis=1)
 
 
-def minors_system(system, codimension, rng, max_exact):
+def minors_system(system, codimension, rng, max_exact, n_columns=None):
     """F together with equations for "rank J < codimension" (all minors, or random combinations).
+
+    With ``n_columns``, J is taken in the first ``n_columns`` variables only (a family's x, its
+    parameters last: the incidence system of the discriminant).
 
     Returns
     -------
@@ -207,7 +210,8 @@ def minors_system(system, codimension, rng, max_exact):
     str
         "minors" or "random minors".
     """
-    n, m = system.n_variables, system.n_equations
+    m = system.n_equations
+    n = system.n_variables if n_columns is None else int(n_columns)
     rows = [[p.numeric().derivative(j) for j in range(n)] for p in system.polynomials]
     count = math.comb(m, codimension) * math.comb(n, codimension)
     equations = [p.numeric() for p in system.polynomials]

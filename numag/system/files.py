@@ -17,6 +17,12 @@ A system file is TOML (an open standard) with these keys:
     optional table ``label = ["c", "s"]`` naming variables that are the cosine and
     sine of an angle (a mechanism's joint angles): reports of real points then also
     give the angle in degrees.
+``parameters``
+    optional list of names: the file is then a *family* F(x; p), its equations use the
+    variables and the parameters (see :mod:`numag.system.family`). Commands solve one member
+    (``--at b=3``) or study the family (``numag discriminant``, ``numag sweep``).
+``ranges``
+    optional table ``b = [low, high]`` giving parameters a real interval.
 
 Points are written ``x=1, y=2+I/2`` (values in the equation grammar), or
 read from a JSON file: a list whose items are objects ``{"x": "1/3", "y": 2}``
@@ -39,6 +45,7 @@ import os
 
 from ..errors import ParseError, PointError, SystemFileError, InputError
 from .exact import ExactCoefficient
+from .family import Family, ParameterRange
 from .parse import parse_constant, parse_system
 from .safeio import MAX_INPUT_BYTES, loads_json, read_limited
 
@@ -47,11 +54,11 @@ try:  # Python >= 3.11
 except ModuleNotFoundError:  # pragma: no cover - older Pythons get the backport from setup.cfg
     import tomli as _toml
 
-__all__ = ["SYSTEM_KEYS", "load_system", "system_from_mapping", "parse_point_assignment", "load_points",
+__all__ = ["SYSTEM_KEYS", "load_system", "load_family", "family_from_mapping", "system_from_mapping", "parse_point_assignment", "load_points",
            "points_from_json", "load_angles", "angles_from_mapping"]
 
 #: Keys a system file may contain.
-SYSTEM_KEYS = ("variables", "equations", "projective", "name", "description", "angles")
+SYSTEM_KEYS = ("variables", "equations", "projective", "name", "description", "angles", "parameters", "ranges")
 
 
 def _read_toml(path):
@@ -120,8 +127,70 @@ def load_system(path):
     return system_from_mapping(_read_toml(path), path=path)
 
 
-def system_from_mapping(data, path=None):
+def load_family(path):
+    """Read a system file as a family (no ``parameters`` key: a family of no parameters).
+
+    Returns
+    -------
+    Family
+        Its ``system`` has the variables, then the parameters.
+    """
+    path = os.fspath(path)
+    return family_from_mapping(_read_toml(path), path=path)
+
+
+def family_from_mapping(data, path=None):
+    """The family of a system file's keys (already parsed); see :func:`system_from_mapping`.
+
+    Examples
+    --------
+    >>> family = family_from_mapping({"variables": ["x"], "parameters": ["p", "q"],
+    ...                               "equations": ["x^3 + p*x + q"], "ranges": {"p": [-3, 3]}})
+    >>> family.parameters, family.ranges["p"].high
+    (('p', 'q'), 3.0)
+    """
+    system = system_from_mapping(data, path=path, allow_parameters=True)
+    parameters = tuple(data.get("parameters", ()))
+    return Family(system, parameters, _ranges(data, parameters, path))
+
+
+def _parameter_names(data, path):
+    parameters = data.get("parameters", [])
+    if not isinstance(parameters, list) or not all(isinstance(item, str) for item in parameters):
+        raise SystemFileError("'parameters' must be a list of strings", path, "parameters")
+    clash = sorted(set(parameters) & set(data.get("variables", [])))
+    if clash:
+        raise SystemFileError(f"{clash[0]!r} is both a variable and a parameter", path, "parameters")
+    if len(set(parameters)) != len(parameters):
+        raise SystemFileError("a parameter is named twice", path, "parameters")
+    return parameters
+
+
+def _ranges(data, parameters, path):
+    """The ``[ranges]`` table: parameter -> ParameterRange (finite, low < high)."""
+    table = data.get("ranges", {})
+    if not isinstance(table, dict):
+        raise SystemFileError("'ranges' must be a table: parameter = [low, high]", path, "ranges")
+    result = {}
+    for name, pair in table.items():
+        if name not in parameters:
+            raise SystemFileError(f"range {name!r} names no parameter ({', '.join(parameters) or 'none declared'})",
+                                  path, "ranges")
+        if (not isinstance(pair, list) or len(pair) != 2
+                or not all(isinstance(v, (int, float)) and not isinstance(v, bool) for v in pair)
+                or not all(math.isfinite(v) and abs(v) <= MAX_COORDINATE for v in pair) or not pair[0] < pair[1]):
+            raise SystemFileError(f"range {name!r} must be [low, high] with finite numbers, low < high", path,
+                                  "ranges")
+        result[name] = ParameterRange(name, float(pair[0]), float(pair[1]))
+    return result
+
+
+def system_from_mapping(data, path=None, allow_parameters=False):
     """Build a system from the keys of a system file (already parsed into a dict).
+
+    A file with ``parameters`` describes a family: with ``allow_parameters`` the system is returned
+    in the variables and then the parameters (see :func:`family_from_mapping`); without, it is
+    refused with a message asking for their values (``--at``).
 
     Raises
     ------
@@ -150,8 +219,16 @@ def system_from_mapping(data, path=None):
             raise SystemFileError(f"'{key}' must be a string", path, key)
     name = data.get("name") or (os.path.splitext(os.path.basename(path))[0] if path else None)
     angles_from_mapping(data, data["variables"], path)  # validated here, read by load_angles
+    parameters = _parameter_names(data, path)
+    _ranges(data, parameters, path)
+    if parameters and projective:
+        raise SystemFileError("a projective family is not supported: write the family in an affine chart", path,
+                              "parameters")
+    if parameters and not allow_parameters:
+        raise SystemFileError(f"describes a family with parameters {', '.join(parameters)}: give their values "
+                              f"(--at {parameters[0]}=...)", path, "parameters")
     try:
-        return parse_system(data["equations"], data["variables"], projective=projective, name=name)
+        return parse_system(data["equations"], list(data["variables"]) + parameters, projective=projective, name=name)
     except ParseError as err:
         raise SystemFileError(str(err), path, "equations") from None
     except InputError as err:

@@ -352,7 +352,7 @@ def _repair_jumps(run, starts, options, batch_size, executor, projective, tolera
         if len(crossed) == 0:
             return
         if round_ == JUMP_ROUNDS:
-            labels = cluster_labels(_comparable(run.endpoints[crossed], projective), tolerance, projective=projective)
+            labels = _same_endpoint_labels(run.homotopy, run.endpoints[crossed], projective, tolerance)
             for members in groups(labels):
                 run.status[crossed[members[1:]]] = PathStatus.FAILED_JUMP
                 run.endpoints[crossed[members[1:]]] = np.nan
@@ -398,8 +398,21 @@ def _crossed(run, projective, tolerance):
     regular, points = regular[finite], points[finite]
     if len(regular) < 2:
         return np.zeros(0, dtype=np.int64)
-    labels = cluster_labels(points, tolerance, projective=projective)
+    labels = _same_endpoint_labels(run.homotopy, run.endpoints[regular], projective, tolerance, points)
     return regular[np.bincount(labels)[labels] > 1]
+
+
+def _same_endpoint_labels(homotopy, endpoints, projective, tolerance, points=None):
+    """Labels of equal endpoints. A homotopy that tracks several systems at once (a sweep over parameter
+    values) says which system each endpoint belongs to with ``system_of(endpoints)``: endpoints of
+    different systems are never one point, however close."""
+    points = _comparable(endpoints, projective) if points is None else points
+    labels = cluster_labels(points, tolerance, projective=projective)
+    if hasattr(homotopy, "system_of") and len(labels):
+        systems = np.asarray(homotopy.system_of(endpoints), dtype=np.int64)
+        _, labels = np.unique(np.column_stack([labels, systems]), axis=0, return_inverse=True)
+        labels = labels.reshape(-1)
+    return labels
 
 
 def _verified_batch(arrays, indices, homotopy, tracker_options):

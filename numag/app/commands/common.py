@@ -15,7 +15,7 @@ import sys
 import time
 
 from ...errors import NumagError, SystemFileError
-from ...system.files import load_system
+from ...system.files import load_family
 from ...system.polynomial import prepared_for_numerics, regeneration_bound
 from ...run.executor import WorkLimits, make_executor
 from ..report import completeness_warnings
@@ -85,9 +85,28 @@ def _add_work_options(command):
                                              "many GiB (default %(default)s)")
 
 
+def _add_at_option(command):
+    """``--at b=3,c=1/2``: every sub-command that reads a system file solves one member of a family."""
+    command.add_argument("--at", metavar="VALUES", help="for a system file with parameters: their values, "
+                         "e.g. b=3,c=1/2 (substituted exactly)")
+
+
+def _load_member(path, at):
+    """The system of a file; for a family, its member at the values of ``--at`` (exactly substituted)."""
+    family = load_family(path)
+    if not family.parameters:
+        if at:
+            raise SystemFileError("has no parameters, but --at gives values", path)
+        return family.system
+    if not at:
+        raise SystemFileError(f"describes a family with parameters {', '.join(family.parameters)}: give their "
+                              f"values (--at {family.parameters[0]}=...)", path, "parameters")
+    return family.member(family.values_from_text(at))
+
+
 def _load(args):
     """The system file as numerical work needs it (zero equations dropped, huge coefficients rescaled)."""
-    system = load_system(args.system_file)
+    system = _load_member(args.system_file, getattr(args, "at", None))
     try:
         system, args.notes = prepared_for_numerics(system)
     except NumagError as err:

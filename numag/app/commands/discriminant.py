@@ -1,0 +1,111 @@
+"""``numag discriminant``: the parameter values where a member of a family is singular, and what happens between."""
+
+import math
+
+from ...errors import NumagError, SystemFileError
+from ...run.executor import using
+from ...system.files import load_family
+from ...system.safeio import write_file
+from ...tracking.tracker import FAILURE_LABELS
+from ...families.discriminant import DiscriminantOptions, discriminant
+from ...families.records import ComponentKind, save_result
+from ..picture import discriminant_svg, sweep_svg
+from ..report import CAUTION, dumps
+from .common import (EXIT_OK, EXIT_UNDECIDED, _Messages, _add_executor_options, _add_work_options, _format_complex,
+                     _seed, _stage_executor)
+
+
+def add_parser(commands):
+    """Add ``numag discriminant`` to the sub-parsers ``commands`` of the command line."""
+    command = commands.add_parser(
+        "discriminant", help="where a member of a family is singular (parameter values), and the regions between",
+        description="For a system file with parameters: the projection to parameter space of the points (x, p) "
+                    "where F = 0 and J_x drops rank, as components with dimension, degree and real samples; "
+                    "for one parameter the points themselves and the regions between them with the number of "
+                    "real solutions or real branches of a sample member; for two, cells on lines.")
+    command.add_argument("system_file", metavar="FILE", help="system file (TOML) with 'parameters'")
+    command.add_argument("--no-regions", action="store_true", help="skip solving one sample per region")
+    command.add_argument("--no-infinity", action="store_true",
+                         help="skip members singular at infinity in x (a second computation)")
+    command.add_argument("--lines", type=int, default=DiscriminantOptions.lines, metavar="N",
+                         help="two parameters: vertical lines across the first one's range (default %(default)s)")
+    command.add_argument("--seed", type=_seed, help="seed of the random choices (recorded in the report)")
+    command.add_argument("--output", metavar="JSON", help="save the result (reload with numag.load_result)")
+    command.add_argument("--svg", metavar="FILE", help="draw the result (regions and counts) as an SVG picture")
+    command.add_argument("--json", action="store_true", help="print the result as JSON (no progress lines)")
+    _add_executor_options(command)
+    _add_work_options(command)
+    command.set_defaults(run=run)
+
+
+def _failed(result):
+    tracked = sum(result.paths.get(label, 0) for label in FAILURE_LABELS)
+    return tracked + sum(r.count.failed for r in result.regions)
+
+
+def _count_text(count):
+    if count.solutions is not None:
+        return f"{count.solutions} real solution(s)"
+    if count.branches is not None:
+        return f"{count.branches} real branch(es)"
+    return "not counted (members of dimension 2 or more)"
+
+
+def _interval(low, high):
+    left = "-inf" if math.isinf(low) else _format_complex(complex(low))
+    right = "inf" if math.isinf(high) else _format_complex(complex(high))
+    return f"({left}, {right})"
+
+
+def _print(result, out):
+    names = ", ".join(result.parameters)
+    out.write(f"numag discriminant: {len(result.equations)} equation(s) in {', '.join(result.variables)}; "
+              f"parameters {names}; members of codimension {result.codimension}; seed {result.seed}\n")
+    out.write(f"paths: {result.paths.get('tracked', 0)} tracked, {_failed(result)} failed; {result.seconds:.2f} s\n")
+    finite = [c for c in result.components if c.kind == ComponentKind.FINITE]
+    out.write(f"\n{len(finite)} component(s) of the discriminant (members singular at a finite point)\n")
+    for k, c in enumerate(result.components, 1):
+        sample = ", ".join(f"{p}={_format_complex(complex(z))}" for p, z in zip(result.parameters, c.points[0]))
+        out.write(f"  {k:3d}  {c.kind.value:13s} dimension {c.dimension}  degree {c.degree}  "
+                  f"{int(sum(c.real))} real sample(s)  e.g. {sample}\n")
+    if len(result.parameters) == 1:
+        points = ", ".join(_format_complex(complex(v)) for v in result.real_points) or "none"
+        out.write(f"\nreal discriminant points ({names}): {points}\n")
+        infinite = [c.points[0, 0] for c in result.components if c.kind == ComponentKind.AT_INFINITY
+                    and c.dimension == 0 and c.real[0]]
+        if infinite:
+            out.write(f"real values where a member is singular at infinity in x: "
+                      f"{', '.join(_format_complex(complex(v.real)) for v in sorted(infinite, key=lambda z: z.real))}\n")
+    if result.regions:
+        out.write("\nregions (one sample member solved in each)\n")
+        for region in result.regions:
+            where = _interval(region.low, region.high)
+            if region.line is not None:
+                where = f"{result.parameters[0]} = {region.line:.6g}, {result.parameters[1]} in {where}"
+            else:
+                where = f"{names} in {where}"
+            failed = f"  ({region.count.failed} path(s) failed)" if region.count.failed else ""
+            out.write(f"  {where}: {_count_text(region.count)}{failed}\n")
+    for note in result.notes:
+        out.write(f"\nnote: {note}\n")
+    out.write(f"\n{CAUTION}\n")
+
+
+def run(args, out):
+    family = load_family(args.system_file)
+    if not family.parameters:
+        raise SystemFileError("has no 'parameters': a discriminant is of a family", args.system_file, "parameters")
+    if not 1 <= args.lines <= 1000:
+        raise NumagError(f"--lines must be from 1 to 1000, got {args.lines}")
+    options = DiscriminantOptions(regions=not args.no_regions, at_infinity=not args.no_infinity, lines=args.lines)
+    with _stage_executor(args) as executor, using(executor):
+        result = discriminant(family, options, seed=args.seed, progress=_Messages(args.json))
+    if args.output:
+        save_result(result, args.output)
+    if args.svg:
+        write_file(args.svg, (discriminant_svg(result) if "discriminant" in __name__ else sweep_svg(result)).encode())
+    if args.json:
+        out.write(dumps(result.to_dict()) + "\n")
+    else:
+        _print(result, out)
+    return EXIT_UNDECIDED if _failed(result) else EXIT_OK

@@ -1,0 +1,526 @@
+"""The discriminant of a family: the parameter values p where the member X_p is singular.
+
+It is the projection to parameter space of the incidence singular set
+
+    S = {(x, p) : F(x, p) = 0, rank J_x F(x, p) < c}
+
+(c the codimension of a generic member, J taken in x only), written with the singular locus's
+minors formulation (:func:`numag.singular.locus.minors_system` with the columns of x) and decomposed
+into irreducible components (:func:`numag.witness.decompose.decompose`). The image of an
+irreducible component of S is irreducible; its dimension is the rank of the projection on the
+component's tangent space, and its degree is counted on a witness set *of the projection*: the
+component's witness points are moved (parameter homotopy) to D random real hyperplanes in parameter
+space only (D the image's dimension) and, where the fibre is positive-dimensional, random
+hyperplanes in x only; the distinct projections of the endpoints are the image's witness points.
+Images of several components that coincide are merged. Real hyperplanes make real witness points
+real samples of the discriminant.
+
+For one parameter the discriminant is a set of points; the real ones, sorted, cut the parameter
+line into regions, and one sample per region is solved: its real solutions (isolated members) or
+real branches (curve members; :mod:`numag.families.branches`). For two parameters the plane is cut
+by vertical lines at evenly spaced values of the first parameter (over its ``[ranges]`` interval),
+and each line is treated as a one-parameter family: the regions of the plane are given as cells
+(line, interval) with their counts.
+
+Members whose closure is singular at infinity in x give components told apart (kind "at infinity"),
+from the same computation on the hyperplane at infinity (x homogenised, X_0 = 0, in a random chart).
+
+Examples
+--------
+>>> from numag.system.parse import parse_system
+>>> from numag.system.family import Family
+>>> family = Family(parse_system(["x^2 - p"], ["x", "p"]), ("p",))
+>>> result = discriminant(family, seed=2)
+>>> [(c.dimension, c.degree, c.kind.value) for c in result.components]
+[(0, 1, 'finite')]
+>>> [(r.low, r.high, r.count.solutions) for r in result.regions]
+[(-inf, 0.0, 0), (0.0, inf, 2)]
+"""
+
+from dataclasses import dataclass
+import itertools
+import math
+import time
+
+import numpy as np
+
+from ..errors import InputError, LimitError
+from ..system.exact import ExactCoefficient
+from ..system.family import Family
+from ..system.polynomial import Polynomial, PolynomialSystem, combined_minor, determinant
+from ..numeric.cluster import cluster_labels, groups
+from ..numeric.evaluate import BatchEvaluator
+from ..numeric.refine import project_to_variety
+from ..numeric.seeds import random_state
+from ..tracking.solve import solve_system
+from ..witness.cascade import combine_equations, linear_form, track_moves
+from ..witness.decompose import DecomposeOptions, decompose, holding_equations
+from ..singular.locus import minors_system
+from .branches import RealCount, real_counts
+from .records import ComponentKind, decode_complex, decode_float, encode_complex, encode_float
+
+__all__ = ["DiscriminantOptions", "DiscriminantComponent", "Region", "Discriminant", "discriminant"]
+
+#: Relative imaginary part under which a parameter value is real.
+REAL_TOLERANCE = 1e-8
+
+
+@dataclass(frozen=True)
+class DiscriminantOptions:
+    """Options of :func:`discriminant` (defaults declared once).
+
+    Attributes
+    ----------
+    decompose : DecomposeOptions
+    max_exact_minors : int
+        All c x c minors of J_x when there are at most this many, else random combinations.
+    regions : bool
+        Solve one sample per region (one parameter) or per cell (two parameters).
+    lines : int
+        Two parameters: vertical lines across the first parameter's range.
+    at_infinity : bool
+        Also look for members singular at infinity in x (a second computation of the same size).
+    """
+
+    decompose: DecomposeOptions = DecomposeOptions()
+    max_exact_minors: int = 24
+    regions: bool = True
+    lines: int = 7
+    at_infinity: bool = True
+
+
+@dataclass
+class DiscriminantComponent:
+    """One irreducible component of the discriminant.
+
+    Attributes
+    ----------
+    dimension, degree : int
+        Of the image in parameter space.
+    points : ndarray, shape (degree, m)
+        Witness points of the image on :attr:`slice_rows` (for dimension 0, the point itself).
+    real : ndarray of bool
+        Real witness points (real samples of the discriminant, the slices being real).
+    slice_rows : ndarray, shape (dimension, m + 1)
+        Real hyperplanes a . (1, p) = 0 of the witness points.
+    kind : ComponentKind
+    fibre_dimension : int
+        Dimension of the set of singular points x over a point of the component.
+    """
+
+    dimension: int
+    degree: int
+    points: np.ndarray
+    real: np.ndarray
+    slice_rows: np.ndarray
+    kind: ComponentKind
+    fibre_dimension: int = 0
+
+    def to_dict(self):
+        return {"dimension": int(self.dimension), "degree": int(self.degree), "points": encode_complex(self.points),
+                "real": [bool(r) for r in self.real], "slice_rows": self.slice_rows.real.tolist(),
+                "kind": self.kind.value, "fibre_dimension": int(self.fibre_dimension)}
+
+    @classmethod
+    def from_dict(cls, data):
+        return cls(int(data["dimension"]), int(data["degree"]), decode_complex(data["points"]),
+                   np.array(data["real"], dtype=bool), np.array(data["slice_rows"], dtype=float).reshape(
+                       int(data["dimension"]), -1) if data["slice_rows"] else np.zeros((0, 0)),
+                   ComponentKind(data["kind"]), int(data["fibre_dimension"]))
+
+
+@dataclass
+class Region:
+    """An interval of a parameter line between real discriminant points, with its sample's real count.
+
+    Attributes
+    ----------
+    low, high : float
+        The interval (-inf / inf at the ends).
+    sample : ndarray of float, shape (m,)
+        The parameter value solved.
+    count : RealCount
+    line : float or None
+        Two parameters: the value of the first parameter on this line (the interval is in the second).
+    """
+
+    low: float
+    high: float
+    sample: np.ndarray
+    count: RealCount
+    line: object = None
+
+    def to_dict(self):
+        return {"low": encode_float(self.low) if self.low != -math.inf else "-infinity",
+                "high": encode_float(self.high), "sample": [float(v) for v in self.sample],
+                "real_solutions": self.count.solutions, "real_branches": self.count.branches,
+                "failed": int(self.count.failed), "line": self.line}
+
+    @classmethod
+    def from_dict(cls, data):
+        low = -math.inf if data["low"] == "-infinity" else decode_float(data["low"])
+        return cls(low, decode_float(data["high"]), np.array(data["sample"], dtype=float),
+                   RealCount(data["real_solutions"], data["real_branches"], int(data["failed"])), data["line"])
+
+
+@dataclass
+class Discriminant:
+    """Result of :func:`discriminant`.
+
+    Attributes
+    ----------
+    variables, parameters : tuple of str
+    equations : list of str
+    codimension : int
+        Codimension of a generic member (the rank J_x must reach).
+    components : list of DiscriminantComponent
+        Finite ones first, by dimension (highest first).
+    real_points : ndarray of float
+        One parameter: the real discriminant points (finite kind), sorted.
+    regions : list of Region
+    paths : dict
+        Tracked paths by status over every homotopy.
+    notes : list of str
+    seed : int
+    seconds : float
+    """
+
+    variables: tuple
+    parameters: tuple
+    equations: list
+    codimension: int
+    components: list
+    real_points: np.ndarray
+    regions: list
+    paths: dict
+    notes: list
+    seed: int
+    seconds: float
+
+    def to_dict(self):
+        return {"kind": "discriminant", "variables": list(self.variables), "parameters": list(self.parameters),
+                "equations": list(self.equations), "codimension": int(self.codimension),
+                "components": [c.to_dict() for c in self.components],
+                "real_points": [float(v) for v in self.real_points], "regions": [r.to_dict() for r in self.regions],
+                "paths": dict(self.paths), "notes": list(self.notes), "seed": int(self.seed),
+                "seconds": encode_float(self.seconds)}
+
+    @classmethod
+    def from_dict(cls, data):
+        return cls(tuple(data["variables"]), tuple(data["parameters"]), list(data["equations"]),
+                   int(data["codimension"]), [DiscriminantComponent.from_dict(c) for c in data["components"]],
+                   np.array(data["real_points"], dtype=float), [Region.from_dict(r) for r in data["regions"]],
+                   dict(data["paths"]), list(data["notes"]), int(data["seed"]), decode_float(data["seconds"]))
+
+
+def _add_counts(total, counts):
+    for key, value in counts.items():
+        if isinstance(value, dict):
+            _add_counts(total, value)
+        elif isinstance(value, (int, np.integer)):
+            total[key] = total.get(key, 0) + int(value)
+
+
+def discriminant(family, options=None, seed=None, progress=None):
+    """The discriminant of a family: components with dimension, degree, samples; regions with real counts.
+
+    Parameters
+    ----------
+    family : Family
+        One or more parameters; members are taken to be complete intersections (codimension the
+        number of equations).
+    options : DiscriminantOptions, optional
+    seed : int, optional
+    progress : callable, optional
+        ``progress(message)``.
+
+    Returns
+    -------
+    Discriminant
+
+    Raises
+    ------
+    InputError
+        For a family without parameters or with more equations than variables.
+    """
+    options = options or DiscriminantOptions()
+    if not isinstance(family, Family) or not family.parameters:
+        raise InputError("a discriminant needs a family with parameters")
+    n, m = family.n_variables, family.n_parameters
+    codimension = family.system.n_equations
+    if codimension > n:
+        raise InputError(f"the family has {codimension} equations in {n} variables: its members are empty for "
+                         "generic parameters")
+    seed, rng = random_state(seed)
+    started = time.perf_counter()
+    paths, notes = {}, []
+    components = _finite_components(family, codimension, options, rng, paths, notes, progress)
+    if options.at_infinity:
+        components += _components_at_infinity(family, codimension, options, rng, paths, notes, progress)
+    if any(c.kind == ComponentKind.EVERY_MEMBER for c in components):
+        notes.append("Every member is singular somewhere (at infinity in x, or at a finite point): a component of "
+                     "the incidence set projects onto all of parameter space. That is no condition on the "
+                     "parameters; it is listed as 'every member' and left out of the regions.")
+    real_points = np.zeros(0)
+    regions = []
+    if m == 1:
+        real_points = _real_values(components, ComponentKind.FINITE)
+        if options.regions:
+            # solutions that run off to infinity change the real count too: those values cut the line as well
+            cuts = np.union1d(real_points, _real_values(components, ComponentKind.AT_INFINITY))
+            regions = _regions_on_line(family, cuts, rng, lambda value: np.array([value]), None)
+    elif m == 2 and options.regions:
+        regions = _regions_on_lines(family, options, rng, notes, progress)
+    elif options.regions:
+        notes.append("Regions are given for one or two parameters; with more, sweep a grid instead.")
+    return Discriminant(family.variables, family.parameters, family.system.to_texts(), codimension, components,
+                        real_points, regions, paths, notes, seed, time.perf_counter() - started)
+
+
+def _real_values(components, kind):
+    """The real parameter values of the isolated components of one kind (one parameter), sorted."""
+    values = [c.points[0, 0] for c in components if c.kind == kind and c.dimension == 0]
+    return np.sort(np.array([z.real for z in values if abs(z.imag) <= REAL_TOLERANCE * (1 + abs(z))]))
+
+
+def _finite_components(family, codimension, options, rng, paths, notes, progress):
+    """Images of the components of the incidence singular set S (J in x only)."""
+    n = family.n_variables
+    try:
+        incidence, kind = minors_system(family.system, codimension, rng, options.max_exact_minors, n_columns=n)
+    except LimitError as err:
+        raise InputError(f"the minors of J_x are too large to expand ({err})") from None
+    if progress is not None:
+        progress(f"decomposing the incidence set ({kind}: {incidence.n_equations} equations in "
+                 f"{incidence.n_variables} unknowns)")
+    return _images(incidence, n, family.n_parameters, ComponentKind.FINITE, options, rng, paths, notes)
+
+
+def _images(incidence, n, m, kind, options, rng, paths, notes, offset=0):
+    """Decompose an incidence system in (x, p) and project its components to p (the last m unknowns)."""
+    total = incidence.n_variables
+    if incidence.n_equations == total:
+        # square (one parameter, a hypersurface member): total degree and the isolation test suffice, and
+        # they do not depend on the regeneration's choices of which paths go to infinity
+        solved = solve_system(incidence, seed=int(rng.integers(2 ** 63)))
+        _add_counts(paths, solved.path_counts())
+        if not solved.not_isolated:
+            images = [DiscriminantComponent(0, 1, s.point[None, total - m:], _real_rows(s.point[None, total - m:]),
+                                            np.zeros((0, m + 1)), kind) for s in solved.solutions]
+            return _merged(images)
+    decomposition = decompose(incidence, options.decompose, seed=int(rng.integers(2 ** 32)))
+    _add_counts(paths, decomposition.paths)
+    if decomposition.unconfirmed:
+        notes.append(f"{len(decomposition.unconfirmed)} component(s) of the incidence set were not confirmed by the "
+                     "trace test: their images may be unions.")
+    slices = {}  # image dimension -> real rows a . (1, p) = 0 shared by all components of that dimension
+    images = []
+    for component in decomposition.components:
+        dimension, fibre, tangent = _projected_dimension(incidence, component, total, m, rng)
+        if dimension == m:
+            images.append(DiscriminantComponent(m, 1, component.points[:1, total - m:], np.zeros(1, bool),
+                                                np.zeros((0, m + 1)), ComponentKind.EVERY_MEMBER, fibre))
+            continue
+        if dimension == 0:
+            point = _sharpened(incidence, component, rng)[:, total - m:]
+            images.append(DiscriminantComponent(0, 1, point, _real_rows(point), np.zeros((0, m + 1)), kind, fibre))
+            continue
+        if dimension not in slices:
+            rows = rng.standard_normal((dimension, m + 1))
+            slices[dimension] = rows / np.linalg.norm(rows, axis=1, keepdims=True)
+        points = _image_witness_points(incidence, component, total, m, slices[dimension], fibre, rng, options,
+                                       paths)
+        images.append(DiscriminantComponent(dimension, len(points), points, _real_rows(points),
+                                            slices[dimension].copy(), kind, fibre))
+    return _merged(images)
+
+
+def _sharpened(incidence, component, rng):
+    """A component's first witness point; an isolated multiple point sharpened on deflated equations.
+
+    Over b = 0 the four-bar has two double points: the endgame knows them to about 1e-11; with random
+    minors added until the Jacobian has full rank (isosingular deflation) Gauss-Newton gets 1e-13 or better.
+    """
+    point = component.points[:1]
+    if component.dimension or (component.reduced and component.multiplicity == 1):
+        return point
+    equations, _ = holding_equations(incidence, incidence.n_variables, point, rng)
+    moved = project_to_variety(PolynomialSystem(incidence.variables, equations), BatchEvaluator(equations), point)
+    return moved.points if bool(moved.converged[0]) else point
+
+
+def _real_rows(points):
+    return np.all(np.abs(points.imag) <= REAL_TOLERANCE * (1 + np.abs(points)), axis=1)
+
+
+def _projected_dimension(incidence, component, total, m, rng):
+    """(dimension of the image in p, dimension of the fibre, tangent basis) at the first witness point."""
+    if component.dimension == 0:
+        return 0, 0, None
+    codim = total - component.dimension
+    equations, _ = holding_equations(incidence, codim, component.points, rng)
+    _, jacobian = BatchEvaluator(equations).evaluate(component.points[:1])
+    _, values, vh = np.linalg.svd(jacobian[0])
+    rank = int(np.sum(values > 1e-8 * max(values.max(initial=0), 1)))
+    tangent = vh[rank:].conj().T
+    projected = int(np.linalg.matrix_rank(tangent[total - m:], tol=1e-6)) if tangent.size else 0
+    return projected, component.dimension - projected, tangent
+
+
+def _image_witness_points(incidence, component, total, m, p_rows, fibre, rng, options, paths):
+    """Move the component's witness points to slices in p only (and in x only for the fibre); project."""
+    codim = total - component.dimension
+    equations, _ = holding_equations(incidence, codim, component.points, rng)
+    target_rows = np.zeros((len(p_rows) + fibre, total + 1), dtype=complex)
+    target_rows[:len(p_rows), 0] = p_rows[:, 0]
+    target_rows[:len(p_rows), 1 + total - m:] = p_rows[:, 1:]
+    if fibre:
+        x_rows = rng.standard_normal((fibre, total - m + 1)) + 1j * rng.standard_normal((fibre, total - m + 1))
+        target_rows[len(p_rows):, :total - m + 1] = x_rows
+    held = combine_equations([p.homogenize(0) for p in equations], codim, rng)
+    run = track_moves(held + [linear_form(r) for r in component.slice_rows],
+                      held + [linear_form(r) for r in target_rows], component.points, rng,
+                      options.decompose.witness.tracker)
+    _add_counts(paths, run.counts.by_label())
+    ends = run.affine_endpoints()
+    ends = ends[np.all(np.isfinite(ends), axis=1)][:, total - m:]
+    if len(ends) == 0:
+        return np.zeros((0, m), dtype=complex)
+    return np.array([ends[g[0]] for g in groups(cluster_labels(ends, 1e-6))])
+
+
+def _merged(images):
+    """Images of several components that are one set (same dimension, same witness points on the same slice)."""
+    merged = []
+    for image in images:
+        for kept in merged:
+            if kept.kind == image.kind == ComponentKind.EVERY_MEMBER:
+                break  # all of parameter space, whichever component of the incidence set
+            if (kept.dimension == image.dimension and kept.kind == image.kind and kept.degree == image.degree
+                    and _same_points(kept.points, image.points)):
+                break
+        else:
+            merged.append(image)
+    merged.sort(key=lambda c: (c.kind != ComponentKind.FINITE, -c.dimension,
+                               tuple(np.round(c.points[0].real, 9)) if len(c.points) else ()))
+    return merged
+
+
+def _same_points(a, b):
+    if a.shape != b.shape:
+        return False
+    if len(a) == 0:
+        return True
+    labels = cluster_labels(np.vstack([a, b]), 1e-6)
+    return sorted(labels[:len(a)].tolist()) == sorted(labels[len(a):].tolist())
+
+
+def _components_at_infinity(family, codimension, options, rng, paths, notes, progress):
+    """Members whose closure is singular at a point at infinity in x.
+
+    x is homogenised alone (the parameters stay affine), X_0 is set to 0 and a random chart
+    X = base + N y of the hyperplane at infinity is taken; the rank of the full Jacobian in (X_0, X)
+    at such points is asked to drop below c.
+    """
+    n, m = family.n_variables, family.n_parameters
+    homogeneous = []
+    for polynomial in family.system.polynomials:
+        p = polynomial.numeric()
+        x_degrees = p.exponents[:, :n].sum(axis=1)
+        top = int(x_degrees.max())
+        homogeneous.append(Polynomial(np.column_stack([top - x_degrees, p.exponents]), p.numeric_coefficients(),
+                                      p.n_variables + 1))
+    # rows of the Jacobian in (X_0, X), then X_0 = 0
+    size = n + 1 + m
+    at_zero = np.eye(size)[:, 1:]  # drops X_0: (X_0, X, p) = (0, X, p)
+    gradients = [[h.derivative(j).substitute_linear(at_zero) for j in range(n + 1)] for h in homogeneous]
+    values = [h.substitute_linear(at_zero) for h in homogeneous]
+    if all(v.is_zero() for v in values):
+        return []
+    # a random chart of the hyperplane at infinity: X = base + N y, y in C^(n - 1)
+    base = rng.standard_normal(n) + 1j * rng.standard_normal(n)
+    directions = rng.standard_normal((n, n - 1)) + 1j * rng.standard_normal((n, n - 1))
+    chart = np.zeros((n + m, n - 1 + m), dtype=complex)
+    chart[:n, :n - 1] = directions
+    chart[n:, n - 1:] = np.eye(m)
+    offset = np.concatenate([base, np.zeros(m)])
+    equations = [v.substitute_linear(chart, offset) for v in values]
+    jacobian_rows = [[g.substitute_linear(chart, offset) for g in row] for row in gradients]
+    names = [f"y{k + 1}" for k in range(n - 1)] + list(family.parameters)
+    incidence = PolynomialSystem(names, [e for e in equations if not e.is_zero()] or equations, name="at infinity")
+    minors = _minors_of(jacobian_rows, codimension, rng, options.max_exact_minors)
+    if minors is None:
+        notes.append("The minors at infinity are too large to expand: members singular at infinity were not "
+                     "searched.")
+        return []
+    system = PolynomialSystem(names, list(incidence.polynomials) + minors, name="at infinity")
+    if progress is not None:
+        progress(f"decomposing the incidence set at infinity ({system.n_equations} equations in "
+                 f"{system.n_variables} unknowns)")
+    if any(p.degree == 0 and not p.is_zero() for p in system.polynomials):
+        return []  # a nonzero constant: no member meets infinity there
+    return _images(system, n - 1, m, ComponentKind.AT_INFINITY, options, rng, paths, notes)
+
+
+def _minors_of(rows, codimension, rng, max_exact):
+    """The c x c minors of a matrix of polynomials (all when few, else random combinations det(A J B))."""
+    k, columns = len(rows), len(rows[0])
+    if codimension > min(k, columns):
+        return []
+    minors = []
+    if math.comb(k, codimension) * math.comb(columns, codimension) <= max_exact:
+        for chosen_rows in itertools.combinations(range(k), codimension):
+            for chosen_cols in itertools.combinations(range(columns), codimension):
+                minor = determinant([[rows[i][j] for j in chosen_cols] for i in chosen_rows])
+                if not minor.is_zero():
+                    minors.append(minor * (1.0 / minor.coefficient_norm()))
+        return minors
+    for _ in range(columns - codimension + 1):
+        a = rng.standard_normal((codimension, k)) + 1j * rng.standard_normal((codimension, k))
+        b = rng.standard_normal((columns, codimension)) + 1j * rng.standard_normal((columns, codimension))
+        minor = combined_minor(rows, a, b)
+        if not minor.is_zero():
+            minors.append(minor * (1.0 / minor.coefficient_norm()))
+    return minors
+
+
+def _regions_on_line(family, real_points, rng, embed, line):
+    """Regions of a one-parameter family between its real discriminant points; their samples solved together."""
+    points = np.asarray(real_points, dtype=float)
+    cuts = [-math.inf] + points.tolist() + [math.inf]
+    width = max(1.0, float(np.ptp(points)) / 2 if len(points) else 1.0)
+    intervals, samples = [], []
+    for low, high in zip(cuts[:-1], cuts[1:]):
+        if math.isinf(low) and math.isinf(high):
+            sample = 0.0
+        elif math.isinf(low):
+            sample = high - width
+        elif math.isinf(high):
+            sample = low + width
+        else:
+            sample = (low + high) / 2
+        intervals.append((low, high))
+        samples.append(sample)
+    counts = real_counts(family, np.array(samples)[:, None], seed=int(rng.integers(2 ** 63)))
+    return [Region(low, high, embed(sample), count, line)
+            for (low, high), sample, count in zip(intervals, samples, counts)]
+
+
+def _regions_on_lines(family, options, rng, notes, progress):
+    """Two parameters: each vertical line p_1 = v as a one-parameter family, its regions as cells."""
+    first = family.parameters[0]
+    interval = family.ranges.get(first)
+    low, high = (interval.low, interval.high) if interval else (-1.0, 1.0)
+    if interval is None:
+        notes.append(f"No [ranges] interval for {first}: the cells are on lines from -1 to 1.")
+    regions = []
+    for value in np.linspace(low, high, options.lines):
+        line = family.restricted(0, ExactCoefficient.from_complex(float(value)))
+        if progress is not None:
+            progress(f"line {first} = {value:.6g}")
+        inner = DiscriminantOptions(options.decompose, options.max_exact_minors, regions=False,
+                                    at_infinity=False)
+        along = discriminant(line, inner, seed=int(rng.integers(2 ** 63)))
+        regions += _regions_on_line(line, along.real_points, rng,
+                                    lambda sample, value=value: np.array([value, sample]), float(value))
+    return regions

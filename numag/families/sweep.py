@@ -1,0 +1,537 @@
+"""Sweeps: the members of a family at many parameter values, by one batched parameter homotopy.
+
+The member at one random complex parameter value p* is solved once (total degree). Its solutions
+are then carried to every requested value q_k along p(s) = tau(s) p* + (1 - tau(s)) q_k, with
+tau(s) = gamma s / (1 + (gamma - 1) s) the gamma trick (Morgan and Sommese's coefficient-parameter
+homotopy: for all but finitely many p* the paths from p*'s solutions reach every isolated solution
+of the member at q_k). The parameters move themselves, not the coefficients: a linear combination of
+two members is in general no member of the family, and its solutions need not continue those of p*.
+
+All values and all paths are tracked together in one run of :func:`numag.tracking.service.track`
+(batches, executors, a Dask cluster, jump repair). The tracker hands the homotopy rows of points
+without path numbers, so each point carries its value's number in one extra coordinate,
+``(k + 1) * LABEL_UNIT``, held fixed by a unit row of the Jacobian with zero value and zero
+derivative (decision 0045).
+
+Examples
+--------
+>>> from numag.system.parse import parse_system
+>>> from numag.system.family import Family
+>>> family = Family(parse_system(["x^2 - b"], ["x", "b"]), ("b",))
+>>> result = sweep(family, [[1.0], [4.0], [-9.0]], seed=3)
+>>> [value.real_count for value in result.values]
+[2, 2, 0]
+>>> sorted(round(float(z.real), 8) for z in result.values[1].points[:, 0])
+[-2.0, 2.0]
+"""
+
+from dataclasses import dataclass, field
+import time
+
+import numpy as np
+
+from ..errors import InputError
+from ..system.family import Family
+from ..system.polynomial import Polynomial
+from ..run.executor import charge_paths, check_memory, make_executor
+from ..numeric.cluster import cluster_labels, groups
+from ..numeric.evaluate import BatchEvaluator, TermSizes
+from ..numeric.seeds import random_state
+from ..tracking.homotopy import random_unit_complex
+from ..tracking.service import PathCounts, track
+from ..tracking.solve import Execution, SolveOptions, solve_system
+from ..tracking.tracker import PathStatus, TrackerOptions
+from .records import PointKind, decode_complex, decode_float, encode_complex, encode_float
+
+__all__ = ["SweepOptions", "MemberSolutions", "SweepResult", "SweepHomotopy", "sweep", "move_points", "parse_grid",
+           "LABEL_UNIT", "MAX_VALUES"]
+
+#: The extra coordinate of a path at value k is (k + 1) * LABEL_UNIT: small beside the patch's
+#: coordinates (at most 1e-3 for a million values), and far above the round-off it gathers.
+LABEL_UNIT = 1e-9
+#: Largest number of parameter values in one sweep.
+MAX_VALUES = 1_000_000
+
+
+@dataclass(frozen=True)
+class SweepOptions:
+    """Options of :func:`sweep` (defaults declared once).
+
+    Attributes
+    ----------
+    tracker : TrackerOptions
+    batch_size : int
+        Paths per batch (all values' paths are cut into batches together).
+    cluster_tolerance : float
+        Relative distance under which two endpoints of one value are one point (a rank drop).
+    real_tolerance : float
+        Largest relative imaginary part of a real solution.
+    singular_condition : float
+        Condition number of J_x above which a solution is a rank-drop point.
+    """
+
+    tracker: TrackerOptions = TrackerOptions()
+    batch_size: int = 8192
+    cluster_tolerance: float = 1e-6
+    real_tolerance: float = 1e-8
+    singular_condition: float = 1e8
+
+
+class SweepHomotopy:
+    """H(X, s) = F^h(X; p_k(s)) for many target values at once, p_k(s) = tau(s) p* + (1 - tau(s)) q_k.
+
+    Points are ``(X_0, X_1, ..., X_n, label)``: homogeneous coordinates of x on the random patch
+    a . X = 1, then the label ``(k + 1) * LABEL_UNIT`` of the target value q_k. Rows: the n
+    equations, the label row (value 0, Jacobian a unit row, no s-derivative: the label never moves),
+    and the patch.
+
+    Parameters
+    ----------
+    family : Family
+        A square family (as many equations as variables).
+    start_values : ndarray, shape (m,) or (K, m)
+        p*, where the start solutions are known (one per target value for :meth:`start_points_each`).
+    targets : ndarray, shape (K, m)
+        q_0, ..., q_{K-1}.
+    patch : ndarray, shape (n + 1,)
+    gamma : complex
+    """
+
+    def __init__(self, family, start_values, targets, patch, gamma):
+        n, m = family.n_variables, family.n_parameters
+        # homogenised in x alone: the parameters are numbers along the path, not coordinates
+        self.target = [_homogenized_in_x(p.numeric(), n) for p in family.system.polynomials]
+        self.n, self.m = n, m
+        self.targets = np.asarray(targets, dtype=complex).reshape(-1, m)
+        self.start_values = np.asarray(start_values, dtype=complex)
+        self.start_values = (self.start_values.reshape(m) if self.start_values.size == m and self.start_values.ndim < 2
+                             else self.start_values.reshape(len(self.targets), m))
+        self.patch = np.asarray(patch, dtype=complex)
+        self.gamma = complex(gamma)
+        self.size = n + 2
+        self.evaluator = BatchEvaluator(self.target)
+        self._sizes = TermSizes(self.target)
+        self.evaluations = 0
+        self.value_evaluations = 0
+
+    def labels_of(self, points):
+        """The value number of each point (from its label coordinate)."""
+        return np.rint(points[:, -1].real / LABEL_UNIT).astype(np.int64) - 1
+
+    def system_of(self, points):
+        """The value number of each point: the tracking service never takes endpoints of two values for one."""
+        return self.labels_of(points)
+
+    def start_points(self, solutions):
+        """Every start solution for every target value: path k * S + j is value k, solution j."""
+        solutions = np.atleast_2d(np.asarray(solutions, dtype=complex))
+        homogeneous = np.column_stack([np.ones(len(solutions), dtype=complex), solutions])
+        homogeneous /= (homogeneous @ self.patch)[:, None]
+        count = len(self.targets)
+        labels = (np.arange(count, dtype=float) + 1) * LABEL_UNIT
+        points = np.empty((count * len(solutions), self.size), dtype=complex)
+        points[:, :-1] = np.tile(homogeneous, (count, 1))
+        points[:, -1] = np.repeat(labels, len(solutions))
+        return points
+
+    def _parameters(self, points, s):
+        """p(s) per row and dp/ds per row, each (P, m)."""
+        labels = np.clip(self.labels_of(points), 0, len(self.targets) - 1)
+        q = self.targets[labels]
+        start = self.start_values[None, :] if self.start_values.ndim == 1 else self.start_values[labels]
+        s = np.asarray(s, dtype=complex)
+        denominator = 1 + (self.gamma - 1) * s
+        tau, dtau = self.gamma * s / denominator, self.gamma / denominator ** 2
+        p = tau[:, None] * start + (1 - tau)[:, None] * q
+        return p, dtau[:, None] * (start - q)
+
+    def start_points_each(self, points):
+        """One path per target value: path k starts at ``points[k]`` (a solution at ``start_values[k]``)."""
+        points = np.atleast_2d(np.asarray(points, dtype=complex))
+        homogeneous = np.column_stack([np.ones(len(points), dtype=complex), points])
+        homogeneous /= (homogeneous @ self.patch)[:, None]
+        return np.column_stack([homogeneous, (np.arange(len(points), dtype=float) + 1) * LABEL_UNIT])
+
+    def _full(self, points, s):
+        p, dp = self._parameters(points, s)
+        return np.column_stack([points[:, :-1], p]), dp
+
+    def evaluate(self, points, s):
+        """H, dH/dX (label and patch rows included) and dH/ds at points (P, n + 2)."""
+        self.evaluations += 1
+        count, size, n = len(points), self.size, self.n
+        full, dp = self._full(points, s)
+        g_values, g_jac = self.evaluator.evaluate(full)
+        values = np.zeros((count, size), dtype=complex)
+        values[:, :n] = g_values
+        values[:, -1] = points[:, :-1] @ self.patch - 1
+        jacobian = np.zeros((count, size, size), dtype=complex)
+        jacobian[:, :n, :n + 1] = g_jac[:, :, :n + 1]
+        jacobian[:, n, n + 1] = 1.0
+        jacobian[:, -1, :n + 1] = self.patch
+        derivative = np.zeros((count, size), dtype=complex)
+        derivative[:, :n] = np.einsum("pij,pj->pi", g_jac[:, :, n + 1:], dp)
+        return values, jacobian, derivative
+
+    def evaluate_values(self, points, s):
+        """H alone (what the chord corrector needs)."""
+        self.value_evaluations += 1
+        full, _ = self._full(points, s)
+        values = np.zeros((len(points), self.size), dtype=complex)
+        values[:, :self.n] = self.evaluator.evaluate(full, jacobian=False)
+        values[:, -1] = points[:, :-1] @ self.patch - 1
+        return values
+
+    def row_scales(self, points):
+        """Sizes of the equations' gradient terms, then 1 for the label row."""
+        full, _ = self._full(points, np.zeros(len(points)))
+        return np.column_stack([self._sizes.gradients(full), np.ones(len(points))])
+
+    def target_residual(self, points):
+        """Scaled residual of the member at each point's own target value."""
+        full, _ = self._full(points, np.zeros(len(points)))
+        values = self.evaluator.evaluate(full, jacobian=False)
+        return np.linalg.norm(values / self._sizes.values(full), axis=1)
+
+
+def _homogenized_in_x(polynomial, n):
+    """X_0^(deg_x f) f(X / X_0; p): homogeneous in (X_0, X) alone, the parameters left as they are."""
+    exponents = polynomial.exponents
+    x_degrees = exponents[:, :n].sum(axis=1)
+    top = int(x_degrees.max()) if len(x_degrees) else 0
+    return Polynomial(np.column_stack([top - x_degrees, exponents]), polynomial.numeric_coefficients(),
+                      polynomial.n_variables + 1)
+
+
+@dataclass
+class MemberSolutions:
+    """The solutions of the member at one parameter value.
+
+    Attributes
+    ----------
+    parameters : ndarray of complex, shape (m,)
+    points : ndarray, shape (S, n)
+        Distinct finite endpoints.
+    real : ndarray of bool, shape (S,)
+    kinds : list of PointKind
+        REGULAR, or RANK_DROP where J_x is singular (several paths meet, or its condition is above
+        ``singular_condition``): the value lies on the discriminant.
+    paths : ndarray of int, shape (S,)
+        Paths ending at each point.
+    failed : int
+        Paths of this value that failed (counted, never dropped silently).
+    at_infinity : int
+        Paths of this value that went to infinity.
+    """
+
+    parameters: np.ndarray
+    points: np.ndarray
+    real: np.ndarray
+    kinds: list
+    paths: np.ndarray
+    failed: int = 0
+    at_infinity: int = 0
+
+    @property
+    def real_count(self):
+        """The number of distinct real solutions."""
+        return int(np.sum(self.real))
+
+    @property
+    def rank_drops(self):
+        """The points where J_x drops rank."""
+        return self.points[[k == PointKind.RANK_DROP for k in self.kinds]] if len(self.points) else self.points
+
+    def to_dict(self):
+        return {"parameters": encode_complex(self.parameters), "points": encode_complex(self.points),
+                "real": [bool(r) for r in self.real], "kinds": [k.value for k in self.kinds],
+                "paths": [int(p) for p in self.paths], "failed": int(self.failed), "at_infinity": int(self.at_infinity)}
+
+    @classmethod
+    def from_dict(cls, data):
+        points = decode_complex(data["points"]) if data["points"] else np.zeros((0, 0), dtype=complex)
+        return cls(decode_complex(data["parameters"]), points, np.array(data["real"], dtype=bool),
+                   [PointKind(k) for k in data["kinds"]], np.array(data["paths"], dtype=np.int64),
+                   int(data["failed"]), int(data["at_infinity"]))
+
+
+@dataclass
+class SweepResult:
+    """Result of :func:`sweep`.
+
+    Attributes
+    ----------
+    variables, parameters : tuple of str
+    equations : list of str
+    values : list of MemberSolutions
+        One per requested parameter value, in order.
+    start_parameters : ndarray of complex
+        The random complex value p* solved first.
+    start_solutions : int
+        Its number of isolated finite solutions (the paths per value).
+    paths : dict
+        Tracked paths by status over the whole sweep.
+    seed : int
+    seconds : float
+    execution : dict
+    """
+
+    variables: tuple
+    parameters: tuple
+    equations: list
+    values: list
+    start_parameters: np.ndarray
+    start_solutions: int
+    paths: dict
+    seed: int
+    seconds: float
+    execution: dict = field(default_factory=dict)
+
+    @property
+    def failed(self):
+        """Paths that failed, over all values."""
+        return sum(v.failed for v in self.values)
+
+    def real_counts(self):
+        """Distinct real solutions per value, shape (K,)."""
+        return np.array([v.real_count for v in self.values], dtype=np.int64)
+
+    def to_dict(self):
+        return {"kind": "sweep", "variables": list(self.variables), "parameters": list(self.parameters),
+                "equations": list(self.equations), "start_parameters": encode_complex(self.start_parameters),
+                "start_solutions": int(self.start_solutions), "paths": dict(self.paths), "seed": int(self.seed),
+                "seconds": encode_float(self.seconds), "execution": _plain(self.execution),
+                "values": [v.to_dict() for v in self.values]}
+
+    @classmethod
+    def from_dict(cls, data):
+        return cls(tuple(data["variables"]), tuple(data["parameters"]), list(data["equations"]),
+                   [MemberSolutions.from_dict(v) for v in data["values"]], decode_complex(data["start_parameters"]),
+                   int(data["start_solutions"]), dict(data["paths"]), int(data["seed"]),
+                   decode_float(data["seconds"]), dict(data.get("execution", {})))
+
+
+def _plain(data):
+    """JSON-safe copy of an execution summary."""
+    if isinstance(data, dict):
+        return {str(k): _plain(v) for k, v in data.items()}
+    if isinstance(data, (list, tuple)):
+        return [_plain(v) for v in data]
+    if isinstance(data, (np.integer,)):
+        return int(data)
+    if isinstance(data, (float, np.floating)):
+        return encode_float(data)
+    return data
+
+
+def parse_grid(text, parameters):
+    """Read ``b=0:10:1001`` (name=start:stop:count, evenly spaced, ends included; several joined by ``;``
+    make a product grid) into values, shape (K, m).
+
+    Examples
+    --------
+    >>> parse_grid("b=0:1:3", ["b"]).tolist()
+    [[0.0], [0.5], [1.0]]
+    >>> parse_grid("p=0:1:2; q=5:6:2", ["p", "q"]).shape
+    (4, 2)
+    """
+    axes = {}
+    for item in str(text).split(";"):
+        name, sep, spec = item.partition("=")
+        name = name.strip()
+        if not sep or name not in parameters:
+            raise InputError(f"--grid: {item.strip()[:40]!r} is not name=start:stop:count for a parameter "
+                             f"({', '.join(parameters)})")
+        if name in axes:
+            raise InputError(f"--grid: {name} is given twice")
+        pieces = spec.split(":")
+        try:
+            start, stop, count = float(pieces[0]), float(pieces[1]), int(pieces[2])
+        except (ValueError, IndexError):
+            raise InputError(f"--grid: {spec.strip()[:40]!r} is not start:stop:count (count an integer)") from None
+        if len(pieces) != 3 or not (np.isfinite(start) and np.isfinite(stop)) or not 1 <= count <= MAX_VALUES:
+            raise InputError(f"--grid: {name} needs finite start and stop and a count from 1 to {MAX_VALUES:,}")
+        axes[name] = np.linspace(start, stop, count)
+    missing = [p for p in parameters if p not in axes]
+    if missing:
+        raise InputError(f"--grid: no values for {', '.join(missing)}")
+    mesh = np.meshgrid(*[axes[p] for p in parameters], indexing="ij")
+    values = np.column_stack([axis.ravel() for axis in mesh])
+    if len(values) > MAX_VALUES:
+        raise InputError(f"--grid: {len(values):,} values, over the limit of {MAX_VALUES:,}")
+    return values
+
+
+def sweep(family, values, options=None, seed=None, progress=None, execution=None):
+    """Solve the members of a square family at many parameter values by one batched parameter homotopy.
+
+    Parameters
+    ----------
+    family : Family
+        As many equations as variables (isolated solutions for generic parameters).
+    values : array_like, shape (K, m)
+        Parameter values (real or complex).
+    options : SweepOptions, optional
+    seed : int, optional
+    progress : callable, optional
+        ``progress(paths_done, paths_total)``.
+    execution : Execution, optional
+        Workers or a Dask scheduler for the batches (as for ``solve_system``).
+
+    Returns
+    -------
+    SweepResult
+
+    Raises
+    ------
+    InputError
+        For a family that is not square, values of the wrong shape, or non-finite values.
+    """
+    options = options or SweepOptions()
+    if not isinstance(family, Family) or not family.parameters:
+        raise InputError("a sweep needs a family with parameters")
+    if family.system.n_equations != family.n_variables:
+        raise InputError(f"a sweep needs isolated solutions: the family has {family.system.n_equations} equations in "
+                         f"{family.n_variables} variables (add equations, e.g. fix an input angle)")
+    values = np.asarray(values, dtype=complex)
+    if values.ndim != 2 or values.shape[1] != family.n_parameters or not len(values):
+        raise InputError(f"expected parameter values of shape (K, {family.n_parameters})")
+    if not np.all(np.isfinite(values)) or len(values) > MAX_VALUES:
+        raise InputError(f"parameter values must be finite, at most {MAX_VALUES:,} of them")
+    seed, rng = random_state(seed)
+    started = time.perf_counter()
+    start_parameters = (rng.standard_normal(family.n_parameters) + 1j * rng.standard_normal(family.n_parameters))
+    start = solve_system(family.member(list(start_parameters)), SolveOptions(tracker=options.tracker),
+                         seed=int(rng.integers(2 ** 63)))
+    solutions = np.array([s.point for s in start.solutions if s.isolated and s.multiplicity == 1])
+    start_failed = int(PathCounts.of(start.status).failed)
+    size = family.n_variables + 2
+    total = len(values) * len(solutions)
+    charge_paths(total, "the sweep's parameter homotopy")
+    check_memory(total * (size * 16 + 80), f"keeping {total} paths")
+
+    def fresh_homotopy():  # another gamma and patch for every path (the jump repair's round)
+        patch = (rng.standard_normal(size - 1) + 1j * rng.standard_normal(size - 1)) / np.sqrt(2 * (size - 1))
+        made = SweepHomotopy(family, start_parameters, values, patch, random_unit_complex(rng))
+        return made, made.start_points(solutions)
+
+    homotopy, starts = fresh_homotopy()
+    execution = execution or Execution()
+    executor = execution.executor or (lambda batches: make_executor(execution.workers, execution.scheduler,
+                                                                    execution.local_dask, batches=batches))
+    if total:
+        run = track(homotopy, starts, options.tracker, executor=executor, batch_size=options.batch_size,
+                    progress=progress, fresh_homotopy=fresh_homotopy)
+        members, counts, description = _members(family, run, values, len(solutions), options), \
+            run.counts.report(), dict(run.execution)
+    else:
+        members = [MemberSolutions(v, np.zeros((0, family.n_variables), complex), np.zeros(0, bool), [],
+                                   np.zeros(0, np.int64)) for v in values]
+        counts, description = PathCounts().report(), {}
+    counts = dict(counts)
+    counts["start_failed"] = start_failed
+    return SweepResult(family.variables, family.parameters, family.system.to_texts(), members, start_parameters,
+                       len(solutions), counts, seed, time.perf_counter() - started, description)
+
+
+def move_points(family, start_values, points, targets, real_segment=False, seed=None, options=None):
+    """Move one known solution per path from its own parameter value to its own target, all paths together.
+
+    Parameters
+    ----------
+    family : Family
+        Square.
+    start_values, targets : array_like, shape (K, m)
+    points : array_like, shape (K, n)
+        ``points[k]`` solves the member at ``start_values[k]``.
+    real_segment : bool
+        Move along the straight segment (gamma = 1): real points of real members stay real, and the
+        endpoint is the continuation along the real segment (what connects arcs of a real curve).
+    seed : int, optional
+    options : SweepOptions, optional
+
+    Returns
+    -------
+    ndarray, shape (K, n)
+        Endpoints (NaN where the path failed or went to infinity).
+    int
+        Failed paths.
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> family = Family(parse_system(["x^2 - b"], ["x", "b"]), ("b",))
+    >>> ends, failed = move_points(family, [[1.0], [1.0]], [[1.0], [-1.0]], [[4.0], [9.0]], real_segment=True)
+    >>> np.round(ends.real, 8).tolist(), failed
+    ([[2.0], [-3.0]], 0)
+    """
+    options = options or SweepOptions()
+    _, rng = random_state(seed)
+    targets = np.asarray(targets, dtype=complex).reshape(-1, family.n_parameters)
+    points = np.asarray(points, dtype=complex).reshape(len(targets), family.n_variables)
+    if len(targets) == 0:
+        return np.zeros((0, family.n_variables), dtype=complex), 0
+    size = family.n_variables + 2
+    charge_paths(len(targets), "moving points between members")
+
+    def fresh_homotopy():
+        patch = (rng.standard_normal(size - 1) + 1j * rng.standard_normal(size - 1)) / np.sqrt(2 * (size - 1))
+        gamma = 1.0 if real_segment else random_unit_complex(rng)
+        made = SweepHomotopy(family, start_values, targets, patch, gamma)
+        return made, made.start_points_each(points)
+
+    homotopy, starts = fresh_homotopy()
+    run = track(homotopy, starts, options.tracker, batch_size=options.batch_size, fresh_homotopy=fresh_homotopy)
+    finite = (run.status == PathStatus.CONVERGED) | (run.status == PathStatus.SINGULAR_ENDPOINT)
+    with np.errstate(all="ignore"):
+        ends = run.endpoints[:, 1:-1] / run.endpoints[:, :1]
+    ends[~finite] = np.nan
+    return ends, int(np.sum(run.status >= PathStatus.FAILED_MIN_STEP))
+
+
+def _members(family, run, values, per_value, options):
+    """Group the endpoints by value: distinct points, real flags, rank drops, failures."""
+    n = family.n_variables
+    real_family = family.system.has_real_coefficients
+    status = run.status.reshape(len(values), per_value)
+    ends = run.endpoints.reshape(len(values), per_value, n + 2)
+    condition = run.condition.reshape(len(values), per_value)
+    finite = (status == PathStatus.CONVERGED) | (status == PathStatus.SINGULAR_ENDPOINT)
+    with np.errstate(all="ignore"):
+        affine = ends[:, :, 1:n + 1] / ends[:, :, :1]
+    members = []
+    for k, value in enumerate(values):
+        rows = np.nonzero(finite[k])[0]
+        failed = int(np.sum(status[k] >= PathStatus.FAILED_MIN_STEP))
+        infinite = int(np.sum(status[k] == PathStatus.AT_INFINITY))
+        points = affine[k, rows]
+        if len(rows) == 0:
+            members.append(MemberSolutions(value, np.zeros((0, n), complex), np.zeros(0, bool), [],
+                                           np.zeros(0, np.int64), failed, infinite))
+            continue
+        if len(rows) > 1 and _has_close_pair(points, options.cluster_tolerance):
+            labels = cluster_labels(points, options.cluster_tolerance)
+            members_of = groups(labels)
+        else:  # the common case: distinct regular endpoints, nothing to cluster
+            members_of = [np.array([j]) for j in range(len(rows))]
+        distinct, kinds, paths = [], [], []
+        for group in members_of:
+            best = group[np.argmin(condition[k, rows[group]])]
+            distinct.append(points[best])
+            singular = len(group) > 1 or np.any(status[k, rows[group]] == PathStatus.SINGULAR_ENDPOINT) \
+                or condition[k, rows[best]] > options.singular_condition
+            kinds.append(PointKind.RANK_DROP if singular else PointKind.REGULAR)
+            paths.append(len(group))
+        distinct = np.array(distinct)
+        real_value = real_family and np.all(np.abs(np.asarray(value).imag) == 0)
+        real = real_value & np.all(np.abs(distinct.imag) <= options.real_tolerance * (1 + np.abs(distinct)), axis=1)
+        members.append(MemberSolutions(value, distinct, real, kinds, np.array(paths, dtype=np.int64), failed, infinite))
+    return members
+
+
+def _has_close_pair(points, tolerance):
+    """Whether two of a few points lie within the relative tolerance (the quick test before clustering)."""
+    difference = np.linalg.norm(points[:, None, :] - points[None, :, :], axis=2)
+    scale = 1 + np.maximum(np.linalg.norm(points, axis=1)[:, None], np.linalg.norm(points, axis=1)[None, :])
+    np.fill_diagonal(difference, np.inf)
+    return bool(np.any(difference <= tolerance * scale))

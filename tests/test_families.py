@@ -1,0 +1,265 @@
+"""Families F(x; p): parameters in system files, the discriminant, regions with real counts, sweeps.
+
+The checks against something outside numag name their source beside them.
+"""
+
+import io
+import json
+import math
+
+import numpy as np
+import pytest
+
+from numag.app.cli import main
+from numag.errors import InputError, SystemFileError
+from numag.families.discriminant import DiscriminantOptions, discriminant
+from numag.families.records import ComponentKind, PointKind, load_result, save_result
+from numag.families.sweep import LABEL_UNIT, SweepHomotopy, parse_grid, sweep
+from numag.system.exact import ExactCoefficient
+from numag.system.files import family_from_mapping
+from numag.tracking.solve import solve_system
+
+CUBIC = {"variables": ["x"], "parameters": ["p", "q"], "equations": ["x^3 + p*x + q"],
+         "ranges": {"p": [-3, 3], "q": [-2, 2]}}
+# A four-bar: ground pivots (0, 0) and (4, 0), crank 2 to A = (x1, y1), rocker 3 to B = (x2, y2), coupler |AB| = b.
+FOUR_BAR = {"name": "four-bar", "variables": ["x1", "y1", "x2", "y2"], "parameters": ["b"],
+            "equations": ["x1^2 + y1^2 = 4", "(x2 - 4)^2 + y2^2 = 9", "(x2 - x1)^2 + (y2 - y1)^2 = b^2"],
+            "ranges": {"b": [0, 12]}}
+# The same linkage with the crank held at 60 degrees (x1 = 1): isolated assembly positions.
+FOUR_BAR_AT_CRANK = dict(FOUR_BAR, name="four-bar at a crank angle", equations=FOUR_BAR["equations"] + ["x1 = 1"])
+
+
+def _write(tmp_path, name, data):
+    lines = []
+    for key, value in data.items():
+        if key == "ranges":
+            continue
+        lines.append(f"{key} = {json.dumps(value)}")
+    if "ranges" in data:
+        lines.append("[ranges]")
+        lines += [f"{k} = {json.dumps(v)}" for k, v in data["ranges"].items()]
+    path = tmp_path / name
+    path.write_text("\n".join(lines) + "\n")
+    return str(path)
+
+
+# --- system files ---------------------------------------------------------------------------------------
+
+def test_a_member_is_the_exact_substitution():
+    family = family_from_mapping(CUBIC)
+    assert family.variables == ("x",) and family.parameters == ("p", "q")
+    assert family.ranges["q"].low == -2.0
+    member = family.member(family.values_from_text("p=-3, q=1/3"))
+    assert member.to_texts() == ["x^3 - 3*x + 1/3"] and member.is_exact
+
+
+@pytest.mark.parametrize("data, words", [
+    (dict(CUBIC, ranges={"r": [0, 1]}), "names no parameter"),
+    (dict(CUBIC, ranges={"p": [1, 0]}), "low < high"),
+    (dict(CUBIC, parameters=["x"]), "both a variable and a parameter"),
+    (dict(CUBIC, parameters="p"), "list of strings"),
+])
+def test_bad_families_are_named(data, words):
+    with pytest.raises(SystemFileError, match=words):
+        family_from_mapping(data)
+
+
+def test_every_command_that_reads_a_system_takes_at(tmp_path):
+    path = _write(tmp_path, "cubic.toml", CUBIC)
+    out = io.StringIO()
+    assert main(["solve", path, "--at", "p=-3,q=2", "--seed", "1"], out=out) == 0
+    assert "x=-2" in out.getvalue()  # x^3 - 3x + 2 = (x - 1)^2 (x + 2) (common practice, no source)
+    assert main(["solve", path], out=io.StringIO()) == 2             # values missing
+    assert main(["check", path, "--at", "p=1", "--point", "x=0"], out=io.StringIO()) == 2  # q missing
+    assert main(["singular", path, "--at", "p=0,q=0", "--seed", "1"], out=io.StringIO()) in (0, 3)
+
+
+# --- the cubic x^3 + p x + q ------------------------------------------------------------------------------
+
+@pytest.fixture(scope="module")
+def cubic_discriminant():
+    return discriminant(family_from_mapping(CUBIC), DiscriminantOptions(lines=5), seed=11)
+
+
+def test_cubic_discriminant_is_the_curve_of_degree_three(cubic_discriminant):
+    # The discriminant of x^3 + p x + q is 4 p^3 + 27 q^2 = 0, a curve of degree 3 (common practice, no source).
+    finite = [c for c in cubic_discriminant.components if c.kind == ComponentKind.FINITE]
+    assert [(c.dimension, c.degree) for c in finite] == [(1, 3)]
+    p, q = finite[0].points[:, 0], finite[0].points[:, 1]
+    assert np.all(np.abs(4 * p ** 3 + 27 * q ** 2) <= 1e-8 * (1 + np.abs(p) ** 3 + np.abs(q) ** 2))
+    rows = finite[0].slice_rows  # the witness points lie on the (real) slice, one line in the plane
+    assert np.allclose(rows[0, 0] + rows[0, 1] * p + rows[0, 2] * q, 0, atol=1e-9)
+
+
+def test_cubic_discriminant_has_a_cusp_at_the_origin():
+    # On the line p = -t the curve 4 p^3 + 27 q^2 = 0 has the two real points q = +-2 (t / 3)^(3/2), which meet
+    # at the origin tangent to one line (a cusp: q ~ |p|^(3/2)); on p = 0 they are one (common practice, no source).
+    family = family_from_mapping(CUBIC)
+    for t in (1e-1, 1e-3):
+        line = family.restricted(0, ExactCoefficient.rational(-1) * ExactCoefficient.from_complex(t))
+        points = discriminant(line, DiscriminantOptions(regions=False, at_infinity=False), seed=5).real_points
+        assert np.allclose(points, [-2 * (t / 3) ** 1.5, 2 * (t / 3) ** 1.5], rtol=1e-7, atol=1e-14)
+    origin = discriminant(family.restricted(0, ExactCoefficient.rational(0)),
+                          DiscriminantOptions(regions=False, at_infinity=False), seed=5)
+    assert len(origin.real_points) == 1 and abs(origin.real_points[0]) <= 1e-8
+
+
+def test_cubic_regions_count_three_real_roots_inside_the_cusp(cubic_discriminant):
+    # 3 real roots where 4 p^3 + 27 q^2 < 0, 1 where it is > 0 (common practice, no source).
+    regions = cubic_discriminant.regions
+    assert regions and all(r.count.failed == 0 for r in regions)
+    for region in regions:
+        p, q = region.sample
+        assert region.count.solutions == (3 if 4 * p ** 3 + 27 * q ** 2 < 0 else 1)
+    assert {r.count.solutions for r in regions} == {1, 3}
+
+
+# --- the four-bar with a free coupler length b --------------------------------------------------------------
+
+@pytest.fixture(scope="module")
+def four_bar_discriminant():
+    return discriminant(family_from_mapping(FOUR_BAR), seed=7)
+
+
+def test_four_bar_discriminant_points_match_the_elimination(four_bar_discriminant):
+    sympy = pytest.importorskip("sympy")
+    # sympy's elimination (lex Groebner basis of F and the 3 x 3 minors of J_x) is the reference.
+    x1, y1, x2, y2, b = sympy.symbols("x1 y1 x2 y2 b")
+    equations = [x1 ** 2 + y1 ** 2 - 4, (x2 - 4) ** 2 + y2 ** 2 - 9, (x2 - x1) ** 2 + (y2 - y1) ** 2 - b ** 2]
+    jacobian = sympy.Matrix(equations).jacobian([x1, y1, x2, y2])
+    minors = [jacobian[:, list(columns)].det() for columns in ((0, 1, 2), (0, 1, 3), (0, 2, 3), (1, 2, 3))]
+    basis = sympy.groebner(equations + minors, x1, y1, x2, y2, b, order="lex")
+    eliminant = [g for g in basis.exprs if g.free_symbols <= {b}][0]
+    roots = sorted(float(r) for r in sympy.real_roots(sympy.Poly(eliminant, b)))
+    roots = sorted(set(round(r, 12) for r in roots))
+    assert np.allclose(four_bar_discriminant.real_points, roots, atol=1e-8)
+    # with b >= 0: b = 0 and the Grashof equalities b = 1, 3, 5, 9 (common practice, no source)
+    nonnegative = four_bar_discriminant.real_points[four_bar_discriminant.real_points > -1e-8]
+    assert np.allclose(nonnegative, [0, 1, 3, 5, 9], atol=1e-8)
+
+
+def test_four_bar_branches_change_at_the_grashof_lengths(four_bar_discriminant):
+    # Lengths 4, 2, 3, b: a Grashof linkage (s + l < p + q) has two assembly branches, a non-Grashof one has one,
+    # and with b > 2 + 3 + 4 it cannot be assembled (Grashof's criterion; common practice, no source).
+    expected = {(0, 1): 2, (1, 3): 1, (3, 5): 2, (5, 9): 1, (9, math.inf): 0}
+    found = {}
+    for region in four_bar_discriminant.regions:
+        if region.low >= -1e-8:
+            found[(round(region.low), region.high if math.isinf(region.high) else round(region.high))] = \
+                region.count.branches
+    assert found == expected
+    assert all(r.count.failed == 0 for r in four_bar_discriminant.regions)
+
+
+def test_four_bar_singular_at_infinity_for_every_length_is_told_apart(four_bar_discriminant):
+    # Every circle passes through the circular points (1 : +-i : 0) at infinity (common practice, no source):
+    # the closures of all members meet there, for every b, which is no condition on b.
+    kinds = [c.kind for c in four_bar_discriminant.components]
+    assert kinds.count(ComponentKind.FINITE) == 9 and kinds.count(ComponentKind.EVERY_MEMBER) == 1
+    assert all(c.dimension == 0 for c in four_bar_discriminant.components if c.kind == ComponentKind.FINITE)
+
+
+def test_solutions_running_off_to_infinity_are_told_apart():
+    # b x^2 = 1: for b -> 0 both roots x = +-1/sqrt(b) run off to infinity; no finite member is singular
+    # (common practice, no source). The value b = 0 still cuts the line: no real root below, two above.
+    family = family_from_mapping({"variables": ["x"], "parameters": ["b"], "equations": ["b*x^2 - 1"]})
+    result = discriminant(family, seed=3)
+    assert [(c.kind, c.dimension) for c in result.components] == [(ComponentKind.AT_INFINITY, 0)]
+    assert abs(result.components[0].points[0, 0]) <= 1e-10 and len(result.real_points) == 0
+    assert [r.count.solutions for r in result.regions] == [0, 2]
+
+
+def test_discriminant_round_trip(tmp_path, cubic_discriminant):
+    path = tmp_path / "cubic.json"
+    save_result(cubic_discriminant, path)
+    again = load_result(path)
+    assert again.to_dict() == cubic_discriminant.to_dict()
+    assert again.components[0].kind == ComponentKind.FINITE
+
+
+# --- sweeps --------------------------------------------------------------------------------------------------
+
+def test_the_label_coordinate_never_moves():
+    family = family_from_mapping(FOUR_BAR_AT_CRANK)
+    rng = np.random.default_rng(0)
+    homotopy = SweepHomotopy(family, [1 + 1j], [[2.0], [3.0]], rng.standard_normal(5) + 0j, 1j)
+    points = homotopy.start_points(rng.standard_normal((3, 4)) + 0j)
+    assert homotopy.labels_of(points).tolist() == [0, 0, 0, 1, 1, 1]
+    values, jacobian, derivative = homotopy.evaluate(points, np.full(len(points), 0.5))
+    step = np.linalg.solve(jacobian, np.stack([values, derivative], axis=2))
+    assert np.all(np.abs(step[:, -1, :]) <= 1e-12 * LABEL_UNIT * 1e3 + 1e-15)
+
+
+def test_sweep_matches_direct_solves(tmp_path):
+    # 1,000 coupler lengths; the member at 20 of them solved directly (total degree) is the reference.
+    family = family_from_mapping(FOUR_BAR_AT_CRANK)
+    rng = np.random.default_rng(2024)
+    values = rng.uniform(0.2, 8.0, 1000)
+    # the assembly positions collide at b = sqrt(12) -+ 3, where A = (1, sqrt 3) is at distance sqrt 12 from
+    # the rocker pivot (common practice, no source): checks keep away from them
+    critical = np.array([math.sqrt(12) - 3, math.sqrt(12) + 3])
+    away = np.nonzero(np.min(np.abs(values[:, None] - critical[None, :]), axis=1) > 0.05)[0]
+    checked = rng.choice(away, 20, replace=False)
+    result = sweep(family, values[:, None], seed=3)
+    assert result.failed == 0 and result.start_solutions == 4
+    for k in checked:
+        direct = solve_system(family.member([ExactCoefficient.from_complex(values[k])]), seed=int(k))
+        expected = np.array([s.point for s in direct.solutions])
+        found = result.values[k].points
+        assert found.shape == expected.shape
+        distance = np.abs(found[:, None, :] - expected[None, :, :]).max(axis=2)
+        assert np.all(distance.min(axis=1) <= 1e-10 * (1 + np.abs(found).max()))
+        assert result.values[k].real_count == sum(s.real for s in direct.solutions)
+    # 4 real positions exactly for sqrt(12) - 3 < b < sqrt(12) + 3 (the triangle inequality)
+    inside = (values > critical[0]) & (values < critical[1])
+    sure = np.min(np.abs(values[:, None] - critical[None, :]), axis=1) > 1e-6
+    assert np.array_equal(result.real_counts()[sure], np.where(inside, 4, 0)[sure])
+    path = tmp_path / "sweep.json"
+    save_result(result, path)
+    assert load_result(path).to_dict() == result.to_dict()
+
+
+def test_sweep_reports_the_rank_drop_on_the_discriminant():
+    family = family_from_mapping({"variables": ["x"], "parameters": ["q"], "equations": ["x^3 - 3*x + q"]})
+    result = sweep(family, [[2.0], [0.0]], seed=4)
+    # x^3 - 3x + 2 = (x - 1)^2 (x + 2): a double root at x = 1 (common practice, no source)
+    at_two = result.values[0]
+    assert [k for k in at_two.kinds].count(PointKind.RANK_DROP) == 1
+    assert abs(at_two.rank_drops[0, 0] - 1) <= 1e-6
+    assert result.values[1].real_count == 3 and result.values[1].rank_drops.shape[0] == 0
+
+
+def test_grids_and_value_files(tmp_path):
+    assert parse_grid("b=0:10:1001", ["b"]).shape == (1001, 1)
+    for bad in ("b=0:10", "c=0:1:2", "b=0:1:0", "b=0:inf:3"):
+        with pytest.raises(InputError):
+            parse_grid(bad, ["b"])
+    path = _write(tmp_path, "bar.toml", FOUR_BAR_AT_CRANK)
+    values = tmp_path / "values.csv"
+    values.write_text("b\n1.5\n2.5\n")
+    csv_out = tmp_path / "out.csv"
+    assert main(["sweep", path, "--values", str(values), "--csv", str(csv_out), "--seed", "1"], out=io.StringIO()) == 0
+    rows = csv_out.read_text().splitlines()
+    assert rows[0].startswith("b,real_solutions") and len(rows) == 1 + 8  # 4 real positions at each length
+    values.write_text("c\n1\n")
+    assert main(["sweep", path, "--values", str(values)], out=io.StringIO()) == 2
+    assert main(["sweep", path, "--grid", "b=1:2"], out=io.StringIO()) == 2
+    assert main(["discriminant", _write(tmp_path, "plain.toml", {"variables": ["x"], "equations": ["x^2"]})],
+                out=io.StringIO()) == 2
+
+
+def test_command_line_tables_pictures_and_saved_results(tmp_path):
+    import xml.dom.minidom
+
+    # x^2 = p has no real root for p < 0 and two for p > 0 (common practice, no source)
+    path = _write(tmp_path, "square.toml", {"variables": ["x"], "parameters": ["p"], "equations": ["x^2 - p"]})
+    out = io.StringIO()
+    saved, picture = tmp_path / "d.json", tmp_path / "d.svg"
+    assert main(["discriminant", path, "--seed", "2", "--output", str(saved), "--svg", str(picture)], out=out) == 0
+    assert "p in (-inf, 0): 0 real solution(s)" in out.getvalue() and "p in (0, inf): 2 real solution(s)" in out.getvalue()
+    assert [r.count.solutions for r in load_result(saved).regions] == [0, 2]
+    labels = [t.firstChild.data for t in xml.dom.minidom.parse(str(picture)).getElementsByTagName("text")]
+    assert "0" in labels and "2" in labels
+    picture = tmp_path / "s.svg"
+    assert main(["sweep", path, "--grid", "p=-1:1:4", "--seed", "2", "--svg", str(picture), "--json"], out=out) == 0
+    assert xml.dom.minidom.parse(str(picture)).getElementsByTagName("polyline")
