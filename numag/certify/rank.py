@@ -39,7 +39,7 @@ def _taylor(polynomial, center, scales):
     return result
 
 
-def _dual_multiplicity(polynomials, center, max_order=12, max_columns=4000):
+def _dual_multiplicity(polynomials, center, max_order=12, max_columns=4000, scales=None):
     """Multiplicity of an isolated zero: dimension of the local dual space (Macaulay matrices).
 
     Dayton and Zeng, "Computing the multiplicity structure in solving polynomial systems", ISSAC 2005:
@@ -50,7 +50,9 @@ def _dual_multiplicity(polynomials, center, max_order=12, max_columns=4000):
     n = len(center)
     if n == 0:
         return 1
-    scales = _coordinate_scales(center, 16)
+    # Units of the Taylor variables: the box scales by default; callers with balanced units pass ones
+    # (box scales of coordinates at 0 are 1e-8, which would drown every term of degree 2 and more).
+    scales = _coordinate_scales(center, 16) if scales is None else list(scales)
     taylors = []
     for p in polynomials:
         coefficients = _taylor(p, center, scales)
@@ -82,6 +84,36 @@ def _dual_multiplicity(polynomials, center, max_order=12, max_columns=4000):
             return nullity
         previous = nullity
     return None
+
+
+def local_dual_dimension(polynomials, point, max_order=12):
+    """Dimension of the local dual space of the ideal of ``polynomials`` at ``point`` (its multiplicity there).
+
+    The public face of the Macaulay-matrix count above (Dayton and Zeng 2005), for other packages: the
+    Milnor number is this for the gradient, the Tjurina number for f and its gradient. Taylor variables
+    in the units of the polynomials (balance them first, :class:`numag.numeric.scaling.Scaling`).
+
+    Parameters
+    ----------
+    polynomials : list of Polynomial
+    point : array_like of complex
+    max_order : int
+        Highest order of differential functionals tried.
+
+    Returns
+    -------
+    int or None
+        None when the dimension still grows at ``max_order`` (the zero is not isolated, or deeper).
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> f = parse_system(["y^2 - x^3"], ["x", "y"]).polynomials[0]
+    >>> local_dual_dimension(f.gradient(), [0, 0])
+    2
+    """
+    center = [mpmath.mp.mpc(complex(v)) for v in point]
+    return _dual_multiplicity(list(polynomials), center, max_order=max_order, scales=[1] * len(center))
 
 
 def _exponents_of_degree(n, total):
