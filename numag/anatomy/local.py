@@ -240,6 +240,8 @@ def _attempt(held, codimension, point, witness_points, witness_rows, rng, real, 
     # branch, or far points close by)
     if np.any(np.abs(np.log(ratio[local] / options.shrink)) > np.log(3.0)):
         return picture, "a local point did not shrink with the slice"
+    if d == 1 and not len(local):
+        picture.orbits, picture.real_orbits = [], ([] if real else None)
     if d == 1 and len(local):
         problem = _orbits(picture, held, directions, point, eps1 * offsets, rng, options, real)
         if problem:

@@ -254,6 +254,8 @@ class PointAnatomy:
     motion : Motion or None
         For curves: what the real branches allow.
     notes : list of str
+    seconds : float
+        Time spent on this point.
     """
 
     point: np.ndarray
@@ -263,6 +265,7 @@ class PointAnatomy:
     branches: object = None
     motion: object = None
     notes: list = field(default_factory=list)
+    seconds: float = 0.0
 
     @property
     def real_branches(self):
@@ -295,14 +298,15 @@ class PointAnatomy:
                 "branches": None if self.branches is None else [b.to_dict() for b in self.branches],
                 "real_branches": self.real_branches,
                 "motion": None if self.motion is None else self.motion.value, "sentence": self.sentence,
-                "notes": list(self.notes)}
+                "notes": list(self.notes), "seconds": float(self.seconds)}
 
     @classmethod
     def from_dict(cls, data):
         return cls(decode_vector(data["point"]), int(data["local_dimension"]), _optional(data["multiplicity"], int),
                    None if data["hypersurface"] is None else HypersurfaceAnatomy.from_dict(data["hypersurface"]),
                    None if data["branches"] is None else [Branch.from_dict(b) for b in data["branches"]],
-                   None if data["motion"] is None else Motion(data["motion"]), list(data["notes"]))
+                   None if data["motion"] is None else Motion(data["motion"]), list(data["notes"]),
+                   float(data["seconds"]))
 
 
 @dataclass
