@@ -1,9 +1,9 @@
 """Invariants of an isolated hypersurface singularity: Hessian corank, Milnor and Tjurina numbers, type.
 
 * The Hessian's rank: singular values of the Hessian with each row divided by the size of its terms at
-  the point (the gradient's :class:`~numag.numeric.evaluate.TermSizes`), as for the Jacobian. Points come
-  from path tracking and refinement, good to about 13 digits; values at or below 1e-7 count as zero,
-  and a value between 1e-9 and 1e-5 leaves the rank unclear (no decision at the edge).
+  the point (the gradient's :class:`~numag.numeric.evaluate.TermSizes`), as for the Jacobian, split into
+  kept and zero ones at their widest gap (:func:`~numag.numeric.linalg.widest_gap_rank`); a gap narrower
+  than 3 decades leaves the rank unclear (no decision at the edge).
 * mu = dim of the local dual space of (grad f) at the point, tau the same for (f, grad f) (Dayton and
   Zeng 2005, the Macaulay matrices of :func:`numag.certify.rank.local_dual_dimension`); mu = tau exactly
   when f is quasi-homogeneous in suitable local coordinates (Saito 1971).
@@ -17,16 +17,18 @@
 import numpy as np
 
 from ..numeric.evaluate import BatchEvaluator, TermSizes
-from ..numeric.linalg import singular_value_gap
+from ..numeric.linalg import singular_value_gap, widest_gap_rank
 from ..certify.rank import local_dual_dimension
 from .records import Family, HessianEvidence, HypersurfaceAnatomy, SingularityType, TypeTest
 
 __all__ = ["hessian_evidence", "kernel_cubic", "hypersurface_anatomy", "HESSIAN_ZERO", "max_dual_order"]
 
-#: Scaled Hessian singular values at or below this are zero (points good to about 13 digits).
+#: Scaled Hessian singular values: zero ones at most 1e-7 (points good to about 13 digits), kept ones at
+#: least 1e-11 (in random coordinates the terms of f at the point cancel: a genuine value of 1e-8 is seen),
+#: split at the widest gap, which must span 3 decades or the rank is unclear (type undecided).
 HESSIAN_ZERO = 1e-7
-#: Values in this band make the rank unclear (type undecided rather than a guess).
-_UNCLEAR_BAND = (1e-9, 1e-5)
+_KEPT = 1e-11
+_CLEAR_DECADES = 3.0
 #: |covariant| / |cubic|^2 at or below this: the cubic is a cube (0 exactly for a cube, 1/9 or more
 #: after normalisation for a double root; rounding puts about 1e-12 on a cube).
 _CUBE = 1e-6
@@ -74,8 +76,8 @@ def hessian_evidence(polynomial, point):
     hessian[rows] = jacobian[0]
     scales[rows] = np.where(sizes > 0, sizes, 1.0)
     _, values, right = np.linalg.svd(hessian / scales[:, None])
-    rank = int(np.sum(values > HESSIAN_ZERO))
-    unclear = bool(np.any((values > _UNCLEAR_BAND[0]) & (values < _UNCLEAR_BAND[1])))
+    rank, width = widest_gap_rank(values, HESSIAN_ZERO, _KEPT)
+    unclear = width < _CLEAR_DECADES
     evidence = HessianEvidence(rank, [float(v) for v in values], HESSIAN_ZERO, singular_value_gap(values, rank))
     return evidence, right[rank:].conj().T, unclear
 

@@ -25,6 +25,7 @@ from dataclasses import dataclass, field
 
 import numpy as np
 import scipy.linalg
+import scipy.optimize
 
 from ..system.polynomial import PolynomialSystem
 from ..tracking.homotopy import ParameterHomotopy, random_unit_complex
@@ -41,7 +42,7 @@ _CONVERGING_RATIO = 0.6
 _STAYING_RATIO = 0.9
 #: |a . t| of the slice's unit normal and a branch's unit tangent below this: a nearly tangent slice
 #: (its far intersections come close to the point); another slice is drawn.
-_TRANSVERSAL = 0.1
+_TRANSVERSAL = 0.25
 
 
 @dataclass
@@ -59,15 +60,20 @@ class LocalOptions:
     attempts : int
         Random slices tried until one gives a clear picture.
     tracker : TrackerOptions
-        Tight corrector: local points of tangent branches are close together.
+        Tight corrector: local points of tangent branches are close together; ill-conditioned endpoints
+        (two local points of a cusp 1e-8 apart) are kept as regular ones, the shrink and loop checks
+        judge them. The endgame starts at 1 - 1e-9 only: the end slice lies eps from the place where local
+        points meet, and an endgame circle of the usual size around it would wind around that place and
+        report the local points as one multiple endpoint.
     """
 
     radius: float = 1e-3
     shrink: float = 1e-1
     loop_steps: int = 24
-    attempts: int = 4
-    tracker: TrackerOptions = field(default_factory=lambda: TrackerOptions(corrector_tolerance=1e-9,
-                                                                           rescue_digits=0))
+    attempts: int = 6
+    tracker: TrackerOptions = field(default_factory=lambda: TrackerOptions(corrector_tolerance=1e-9, rescue_digits=0,
+                                                                           singular_condition=1e13,
+                                                                           endgame_radius=1e-9))
 
 
 @dataclass
@@ -88,6 +94,8 @@ class LocalPicture:
     lost : int
         Paths that failed or went to infinity.
     notes : list of str
+    shrink : float
+        eps2 / eps1.
     """
 
     multiplicity: object
@@ -97,6 +105,7 @@ class LocalPicture:
     real_orbits: object = None
     lost: int = 0
     notes: list = field(default_factory=list)
+    shrink: float = 0.1
 
 
 def _slice_rows(directions, point, constants):
@@ -130,6 +139,43 @@ def _move(held, points, from_rows, to_rows, rng, tracker, gamma=None):
     return run.affine_endpoints()
 
 
+def line_points(polynomial, base, direction):
+    """Points of V(f) on the line base + t direction: the roots of f along it (numpy's companion matrix).
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> f = parse_system(["x^2 + y^2 - 1"], ["x", "y"]).polynomials[0].numeric()
+    >>> np.round(line_points(f, np.zeros(2), np.array([1.0, 0.0])).real, 6).tolist()
+    [[-1.0, 0.0], [1.0, 0.0]]
+    """
+    along = polynomial.substitute_linear(np.asarray(direction, dtype=complex)[:, None], np.asarray(base, dtype=complex))
+    coefficients = np.zeros(along.degree + 1, dtype=complex)
+    for exponent, value in zip(along.exponents[:, 0], along.numeric_coefficients()):
+        coefficients[along.degree - int(exponent)] += value
+    roots = np.sort_complex(np.roots(coefficients))
+    return base[None, :] + roots[:, None] * np.asarray(direction)[None, :]
+
+
+def _sliced_directly(polynomial):
+    """For a hypersurface: ``family(directions, point, offsets)`` gives ``points(lam)``, the points on the line
+    {directions (x - point) = lam offsets} as roots; f along the lines is expanded once, in (lam, t)."""
+    def family(directions, point, offsets):
+        across = np.linalg.lstsq(directions, offsets, rcond=None)[0]
+        along = scipy.linalg.null_space(directions)[:, 0]
+        expanded = polynomial.substitute_linear(np.column_stack([across, along]), point)
+        exponents, coefficients = expanded.exponents, expanded.numeric_coefficients()
+        degree = int(exponents[:, 1].max())
+
+        def points(lam):
+            row = np.zeros(degree + 1, dtype=complex)
+            np.add.at(row, degree - exponents[:, 1], coefficients * lam ** exponents[:, 0])
+            roots = np.roots(row)
+            return point[None, :] + lam * across[None, :] + roots[:, None] * along[None, :]
+        return points
+    return family
+
+
 def hypersurface_witness(polynomial, rng):
     """Witness points of V(f) on a random line: the roots of f along it, and the line as n - 1 slice rows.
 
@@ -145,12 +191,7 @@ def hypersurface_witness(polynomial, rng):
     base = rng.standard_normal(n) + 1j * rng.standard_normal(n)
     direction = rng.standard_normal(n) + 1j * rng.standard_normal(n)
     direction /= np.linalg.norm(direction)
-    along = polynomial.substitute_linear(direction[:, None], base)
-    coefficients = np.zeros(along.degree + 1, dtype=complex)
-    for exponent, value in zip(along.exponents[:, 0], along.numeric_coefficients()):
-        coefficients[along.degree - int(exponent)] += value
-    roots = np.roots(coefficients)
-    points = base[None, :] + roots[:, None] * direction[None, :]
+    points = line_points(polynomial, base, direction)
     # n - 1 hyperplanes containing the line: rows a with a . direction = 0 (bilinear, not Hermitian)
     complement = scipy.linalg.null_space(direction[None, :]).T
     return points, _slice_rows(complement, base, np.zeros(n - 1, dtype=complex))
@@ -192,9 +233,13 @@ def local_picture(polynomials, codimension, point, witness_points, witness_rows,
     point = np.asarray(point, dtype=complex)
     equations, _ = holding_equations_for(polynomials, codimension, witness_points, rng)
     held = combine_equations([p.homogenize(0) for p in equations], codimension, rng)
+    # a hypersurface's slices are lines: their points are roots, found without tracking (tracking the local
+    # points of a cusp inwards loses them once they are about 1e-5 apart)
+    direct = _sliced_directly(polynomials[0]) if len(polynomials) == 1 and codimension == 1 else None
     tried = []
     for _ in range(options.attempts):
-        picture, problem = _attempt(held, codimension, point, witness_points, witness_rows, rng, real, options)
+        picture, problem = _attempt(held, codimension, point, witness_points, witness_rows, rng, real, options,
+                                    direct)
         if not problem:
             return picture
         tried.append(problem)
@@ -203,7 +248,7 @@ def local_picture(polynomials, codimension, point, witness_points, witness_rows,
     return picture
 
 
-def _attempt(held, codimension, point, witness_points, witness_rows, rng, real, options):
+def _attempt(held, codimension, point, witness_points, witness_rows, rng, real, options, direct=None):
     """One random slice: the picture, and what makes it unclear ("" when it is clear)."""
     n = len(point)
     d = n - codimension
@@ -219,17 +264,29 @@ def _attempt(held, codimension, point, witness_points, witness_rows, rng, real, 
     eps2 = eps1 * options.shrink
     rows1 = _slice_rows(directions, point, eps1 * offsets)
     rows2 = _slice_rows(directions, point, eps2 * offsets)
-    on1 = _move(held, witness_points, witness_rows, rows1, rng, options.tracker)
-    lost = int(np.sum(~np.all(np.isfinite(on1), axis=1)))
-    on1 = on1[np.all(np.isfinite(on1), axis=1)]
-    # eps1 -> eps2 with the gamma trick: on the straight real segment a real slice can meet a real
-    # discriminant point; the detour's winding around c = 0 only permutes points within a branch
-    on2 = _move(held, on1, rows1, rows2, rng, options.tracker)
-    lost += int(np.sum(~np.all(np.isfinite(on2), axis=1)))
+    if direct is not None:
+        direct = direct(directions, point, offsets)
+        on1 = direct(eps1)
+        found = direct(eps2)
+        # pair the points of L(eps1) and L(eps2) at least total distance: in the asymptotic regime a far point
+        # moves by O(eps), a local one from eps1 t / (a . t) to eps2 t / (a . t) along its tangent t; the
+        # shrink check below tests the pairing
+        rows, cols = scipy.optimize.linear_sum_assignment(
+            np.linalg.norm(on1[:, None, :] - found[None, :, :], axis=2))
+        on2 = found[cols[np.argsort(rows)]]
+        lost = 0 if len(found) == len(on1) else abs(len(found) - len(on1))
+    else:
+        on1 = _move(held, witness_points, witness_rows, rows1, rng, options.tracker)
+        lost = int(np.sum(~np.all(np.isfinite(on1), axis=1)))
+        on1 = on1[np.all(np.isfinite(on1), axis=1)]
+        # eps1 -> eps2 along the ray (gamma = 1): a gamma-trick arc can pass close to c = 0, where the local
+        # points meet; a discriminant point on the ray means a slice not yet asymptotic, and another is drawn
+        on2 = _move(held, on1, rows1, rows2, rng, options.tracker, gamma=1.0)
+        lost += int(np.sum(~np.all(np.isfinite(on2), axis=1)))
     with np.errstate(invalid="ignore"):
         ratio = np.linalg.norm(on2 - point, axis=1) / np.linalg.norm(on1 - point, axis=1)
     local = np.nonzero(np.isfinite(ratio) & (ratio < _CONVERGING_RATIO))[0]
-    picture = LocalPicture(len(local), on1[local], on2[local], lost=lost)
+    picture = LocalPicture(len(local), on1[local], on2[local], lost=lost, shrink=options.shrink)
     if lost:
         return picture, f"{lost} path(s) failed or went to infinity"
     unclear = np.isfinite(ratio) & (ratio >= _CONVERGING_RATIO) & (ratio < _STAYING_RATIO)
@@ -238,12 +295,12 @@ def _attempt(held, codimension, point, witness_points, witness_rows, rng, real, 
     # on a slice transversal to the tangent cone every local point is about eps / |a . t| from the point:
     # it shrinks with eps; otherwise the slice is not yet in the asymptotic regime (nearly tangent to a
     # branch, or far points close by)
-    if np.any(np.abs(np.log(ratio[local] / options.shrink)) > np.log(3.0)):
+    if np.any(np.abs(np.log(ratio[local] / options.shrink)) > np.log(1.5)):
         return picture, "a local point did not shrink with the slice"
     if d == 1 and not len(local):
         picture.orbits, picture.real_orbits = [], ([] if real else None)
     if d == 1 and len(local):
-        problem = _orbits(picture, held, directions, point, eps1 * offsets, rng, options, real)
+        problem = _orbits(picture, held, directions, point, eps1 * offsets, rng, options, real, direct, eps1)
         if problem:
             return picture, problem
         for orbit in picture.orbits:
@@ -278,21 +335,35 @@ def _match(ends, starts):
     return result
 
 
-def _orbits(picture, held, directions, point, constant, rng, options, real):
+def _orbits(picture, held, directions, point, constant, rng, options, real, direct=None, radius=None):
     """Move the local points once around the circle of constants; the orbits are the branches.
 
-    Returns what went wrong ("" when the orbits, and for a real slice their reality, are set).
+    With ``direct`` (a hypersurface's line slices) the points at each angle are roots and each local point
+    is followed by matching its prediction p + (q - p) exp(i dtheta) (a branch's points turn with the
+    constant); otherwise they are tracked along chords. Returns what went wrong ("" when the orbits, and
+    for a real slice their reality, are set).
     """
     current = picture.local_points
     angles = 2 * np.pi * np.arange(options.loop_steps + 1) / options.loop_steps
     lost = 0
-    for a, b in zip(angles[:-1], angles[1:]):
-        current = _move(held, current, _slice_rows(directions, point, constant * np.exp(1j * a)),
-                        _slice_rows(directions, point, constant * np.exp(1j * b)), rng, options.tracker, gamma=1.0)
-        failed = int(np.sum(~np.all(np.isfinite(current), axis=1)))
-        lost += failed
-        if failed:
-            break
+    if direct is not None:
+        steps = 16 * options.loop_steps
+        turn = np.exp(2j * np.pi / steps)
+        for k in range(1, steps + 1):
+            found = direct(radius * np.exp(2j * np.pi * k / steps))
+            predicted = point + (current - point) * turn
+            rows, cols = scipy.optimize.linear_sum_assignment(
+                np.linalg.norm(predicted[:, None, :] - found[None, :, :], axis=2))
+            current = found[cols[np.argsort(rows)]]
+    else:
+        for a, b in zip(angles[:-1], angles[1:]):
+            current = _move(held, current, _slice_rows(directions, point, constant * np.exp(1j * a)),
+                            _slice_rows(directions, point, constant * np.exp(1j * b)), rng, options.tracker,
+                            gamma=1.0)
+            failed = int(np.sum(~np.all(np.isfinite(current), axis=1)))
+            lost += failed
+            if failed:
+                break
     permutation = _match(current - point, picture.local_points - point)
     if lost or np.any(permutation < 0) or len(set(permutation.tolist())) != len(permutation):
         return "the monodromy loop did not close up into a permutation of the local points"
@@ -316,8 +387,15 @@ def _orbits(picture, held, directions, point, constant, rng, options, real):
 
 
 def orbit_tangent(picture, orbit, point):
-    """Unit tangent of a branch: the direction of its orbit's centroid on L(eps2), seen from the point."""
-    centroid = np.mean(picture.near_points[orbit], axis=0) - point
-    tangent = centroid / np.linalg.norm(centroid)
+    """Unit tangent of a branch, from the centroids of its orbit on L(eps1) and L(eps2).
+
+    The centroid of an orbit, seen from p, is a power series in the slice's constant c (the Puiseux terms
+    that are not powers of c cancel): c T + c^2 Q + ...; one Richardson step removes the c^2 term.
+    """
+    near = np.mean(picture.near_points[orbit], axis=0) - point
+    far = np.mean(picture.local_points[orbit], axis=0) - point
+    ratio = picture.shrink  # eps2 / eps1: near - ratio^2 far = eps2 (1 - ratio) T + O(eps^3)
+    tangent = near - ratio * ratio * far
+    tangent = tangent / np.linalg.norm(tangent)
     largest = tangent[int(np.argmax(np.abs(tangent)))]
     return tangent * (abs(largest) / largest)  # the phase that makes the largest coordinate real positive

@@ -238,7 +238,7 @@ def _joined(first, second):
     real = None if first.real_orbits is None or second.real_orbits is None else first.real_orbits + second.real_orbits
     return LocalPicture(first.multiplicity + second.multiplicity, np.vstack([first.local_points, second.local_points]),
                         np.vstack([first.near_points, second.near_points]), orbits, real,
-                        first.lost + second.lost, first.notes + second.notes)
+                        first.lost + second.lost, first.notes + second.notes, first.shrink)
 
 
 # --- along positive-dimensional singular components (hypersurfaces) -----------------------------------
