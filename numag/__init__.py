@@ -10,6 +10,8 @@ The public API in brief:
 * :func:`singular_locus` -- every singular point and singular component of X (``numag singular``);
 * :func:`certify_regular_zero`, :func:`certify_singular_point`, :func:`certify_smooth_point`,
   :func:`certify_rank`, :func:`overlapping_pairs` with :class:`CertifyOptions` -- certificates (``numag certify``);
+* :func:`point_anatomy`, :func:`component_anatomy`, :func:`locus_anatomy` -- what kind of singularity
+  (multiplicity, Milnor and Tjurina numbers, Arnold's type, branches of curves; ``--anatomy``);
 * :class:`BatchEvaluator` -- F and J at many points at once;
 * :class:`NumagError` -- the root of every error numag raises on purpose.
 
@@ -40,9 +42,11 @@ from .singular.locus import SingularOptions, singular_locus  # noqa: E402
 from .certify.records import CertifyOptions  # noqa: E402
 from .certify.certificates import (certify_rank, certify_regular_zero, certify_singular_point,  # noqa: E402
                                    certify_smooth_point, overlapping_pairs)
+from .anatomy.survey import component_anatomy, locus_anatomy, point_anatomy  # noqa: E402
 
 __all__ = ["NumagError", "parse_system", "parse_polynomial", "Polynomial", "PolynomialSystem",
            "BatchEvaluator", "CheckOptions", "check_points", "load_system", "SolveOptions", "solve_system",
            "continue_solutions", "DecomposeOptions", "decompose", "components_through", "SingularOptions",
            "singular_locus", "CertifyOptions", "certify_regular_zero", "certify_singular_point",
-           "certify_smooth_point", "certify_rank", "overlapping_pairs", "__version__"]
+           "certify_smooth_point", "certify_rank", "overlapping_pairs", "point_anatomy", "component_anatomy",
+           "locus_anatomy", "__version__"]
