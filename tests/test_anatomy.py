@@ -226,3 +226,18 @@ def test_cli_singular_anatomy_on_the_demo_linkage(tmp_path):
     assert code == 0
     assert text.count("two real branches cross transversally: the mechanism can switch branch here") == 2
     assert "rocker +1.0000 deg" in text
+
+
+def test_cli_check_anatomy_json_on_a_branch_point():
+    # the crank and rocker both at 180 degrees: a branch point of the demo linkage (common practice, no source)
+    from numag.app.cli import main
+    import io
+    import contextlib
+    out = io.StringIO()
+    with contextlib.redirect_stderr(io.StringIO()):
+        code = main(["check", str(EXAMPLES / "parallel_linkage.toml"), "--point", "c1=-1,s1=0,c2=-1,s2=0",
+                     "--anatomy", "--json", "--seed", "3"], out=out)
+    data = json.loads(out.getvalue())
+    anatomy = data["points"][0]["anatomy"]
+    assert code == 0 and anatomy["real_branches"] == 2 and anatomy["motion"] == "switch"
+    assert PointAnatomy.from_dict(anatomy).to_dict() == anatomy
