@@ -241,3 +241,17 @@ def test_cli_check_anatomy_json_on_a_branch_point():
     anatomy = data["points"][0]["anatomy"]
     assert code == 0 and anatomy["real_branches"] == 2 and anatomy["motion"] == "switch"
     assert PointAnatomy.from_dict(anatomy).to_dict() == anatomy
+
+
+def test_bad_input_is_one_line():
+    # a projective system and a point of the wrong size: one-line messages, no traceback (project rule)
+    with pytest.raises(numag.NumagError, match="affine"):
+        point_anatomy(parse_system(["x^2 - y*z"], ["x", "y", "z"], projective=True), [0, 0, 1], seed=0)
+    with pytest.raises(numag.NumagError, match="coordinates"):
+        point_anatomy(parse_system(["y^2 - x^3"], ["x", "y"]), [0, 0, 0], seed=0)
+
+
+def test_a_non_isolated_point_is_reported_as_such():
+    # x^2 y^2 = 0 is singular along both axes: at the origin mu is infinite, "not isolated" (common practice)
+    anatomy = point_anatomy(parse_system(["x^2*y^2"], ["x", "y"]), [0, 0], seed=1)
+    assert anatomy.hypersurface.type.family is Family.NOT_ISOLATED and anatomy.hypersurface.milnor is None

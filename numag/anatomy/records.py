@@ -285,6 +285,13 @@ class PointAnatomy:
         return True
 
     @property
+    def incomplete(self):
+        """Something could not be decided: the multiplicity, the type, or a curve's branches."""
+        return (self.multiplicity is None
+                or (self.hypersurface is not None and self.hypersurface.type.family is Family.UNDECIDED)
+                or (self.local_dimension == 1 and self.branches is None))
+
+    @property
     def sentence(self):
         """The plain sentence for a mechanism designer (curves only), else None."""
         if self.motion is None:

@@ -71,6 +71,12 @@ class LocusAnatomy:
     seconds: float
     notes: list = field(default_factory=list)
 
+    def incomplete(self):
+        """Ids of the points and components whose anatomy is incomplete (a failure to report)."""
+        return sorted([k for k, v in self.points.items() if v.incomplete]
+                      + [k for k, v in self.components.items()
+                         if v.transversal.incomplete or any(p.incomplete for p in v.special_points)])
+
     def to_dict(self):
         return {"points": {str(k): v.to_dict() for k, v in self.points.items()},
                 "components": {str(k): v.to_dict() for k, v in self.components.items()},

@@ -108,9 +108,13 @@ def run(args, out):
     data = _certified(_with_notes(check_report_to_dict(report), args), args)
     if anatomies is not None:
         attach_to_check(data, anatomies)
+        data["anatomy_incomplete"] = sorted(k for k, a in anatomies.items() if a.incomplete)
     if args.json:
         out.write(dumps(data) + "\n")
     else:
         _write_notes(args, out)
         _print_check(report, out, data, anatomies)
-    return EXIT_UNDECIDED if report.undecided or _doubtful(data) else EXIT_OK
+    incomplete = sorted(k for k, a in (anatomies or {}).items() if a.incomplete)
+    if incomplete and not args.json:
+        out.write(f"warning: the anatomy of point(s) {', '.join(map(str, incomplete))} is incomplete (see their notes)\n")
+    return EXIT_UNDECIDED if report.undecided or _doubtful(data) or incomplete else EXIT_OK

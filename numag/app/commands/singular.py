@@ -119,6 +119,9 @@ def run(args, out):
         if anatomy is not None:
             attach_to_singular(data, anatomy)
     data = _with_warnings(_certified(data, args))
+    if anatomy is not None and anatomy.incomplete():
+        data["warnings"].append(f"the anatomy of singular component(s) {', '.join(map(str, anatomy.incomplete()))} "
+                                "is incomplete (see their notes)")
     if args.json:
         out.write(dumps(data) + "\n")
     else:
