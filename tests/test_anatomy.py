@@ -10,7 +10,7 @@ import numag
 from numag.system.parse import parse_system
 from numag.system.polynomial import PolynomialSystem
 from numag.system.files import load_angles
-from numag.anatomy.records import Family, Motion, PointAnatomy, TypeTest
+from numag.anatomy.records import ComponentAnatomy, Family, Motion, PointAnatomy, TypeTest
 from numag.anatomy.survey import LocusAnatomy, component_anatomy, locus_anatomy, point_anatomy
 
 EXAMPLES = pathlib.Path(numag.__file__).parent / "examples"
@@ -202,6 +202,8 @@ def test_whitney_umbrella_pinch_point(seed):
     pinch = anatomy.special_points[0]
     assert np.max(np.abs(pinch.point)) < 1e-8
     assert (pinch.hypersurface.type.label, pinch.hypersurface.milnor) == ("A2", 2)
+    data = json.loads(json.dumps(anatomy.to_dict(), allow_nan=False))
+    assert ComponentAnatomy.from_dict(data).to_dict() == anatomy.to_dict()
 
 
 def test_json_round_trip_of_a_locus_anatomy():

@@ -12,6 +12,8 @@ Examples
 
 import numpy as np
 
+from .commands.common import _format_point
+
 __all__ = ["write_point_anatomy", "write_component_anatomy", "attach_to_singular", "attach_to_check"]
 
 
@@ -61,7 +63,8 @@ def write_component_anatomy(anatomy, names, out, indent="        "):
                         indent + "  ")
     out.write(f"{indent}{len(anatomy.special_points)} special point(s) where the transversal type changes\n")
     for point in anatomy.special_points:
-        out.write(f"{indent}  at {', '.join(f'{n}={complex(v):.6g}' for n, v in zip(names, point.point))}:\n")
+        shown = np.where(np.abs(point.point) < 1e-12 * (1 + np.max(np.abs(point.point))), 0, point.point)
+        out.write(f"{indent}  at {_format_point(names, shown)}:\n")
         write_point_anatomy(point, [f"u{j + 1}" for j in range(len(names) - anatomy.dimension)], out, indent + "    ")
     for note in anatomy.notes:
         out.write(f"{indent}note: {note}\n")
