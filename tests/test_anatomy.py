@@ -257,3 +257,17 @@ def test_a_non_isolated_point_is_reported_as_such():
     # x^2 y^2 = 0 is singular along both axes: at the origin mu is infinite, "not isolated" (common practice)
     anatomy = point_anatomy(parse_system(["x^2*y^2"], ["x", "y"]), [0, 0], seed=1)
     assert anatomy.hypersurface.type.family is Family.NOT_ISOLATED and anatomy.hypersurface.milnor is None
+
+
+@pytest.mark.parametrize("seed", [1, 2])
+@pytest.mark.parametrize("equations, branches, motion", [
+    (["y^2 - x^3", "z - x - y"], [(2, True)], Motion.DEAD_POINT),                     # a space cusp
+    (["y^2 - x^2 - x^3", "z - x*y"], [(1, True), (1, True)], Motion.SWITCH),          # a space node
+    (["x^2 + y^2", "z - y"], [(1, False), (1, False)], Motion.LOCKED),                # two conjugate lines
+], ids=["cusp", "node", "conjugate-lines"])
+def test_branches_of_space_curves(equations, branches, motion, seed):
+    # plane curves lifted to space by a graph z = g(x, y): the same branches as the plane curve (common
+    # practice, no source); several equations go through the decomposition and tracked local slices
+    anatomy = point_anatomy(parse_system(equations, ["x", "y", "z"]), [0, 0, 0], seed=seed)
+    assert sorted((b.multiplicity, b.real) for b in anatomy.branches) == sorted(branches)
+    assert anatomy.multiplicity == 2 and anatomy.motion is motion

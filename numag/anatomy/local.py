@@ -380,6 +380,11 @@ def _orbits(picture, held, directions, point, constant, rng, options, real, dire
     picture.orbits = orbits
     if real:
         conjugate = _match(picture.local_points.conj() - point.conj(), picture.local_points - point)
+        if np.all(conjugate < 0):
+            # the conjugates of this component's local points all lie elsewhere: the component is not its own
+            # conjugate (x^2 + y^2 = 0 splits into two conjugate lines), so none of its branches is real
+            picture.real_orbits = [False] * len(orbits)
+            return ""
         if np.any(conjugate < 0):
             return "complex conjugation did not map the local points onto themselves"
         picture.real_orbits = [set(int(conjugate[j]) for j in orbit) == set(orbit) for orbit in orbits]
