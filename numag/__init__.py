@@ -13,6 +13,8 @@ The public API in brief:
 * :func:`load_family`, :func:`discriminant`, :func:`sweep`, :func:`save_result`, :func:`load_result` -- families
   F(x; p): where members are singular, what they do between, many members at once (``numag discriminant``,
   ``numag sweep``);
+* :func:`point_anatomy`, :func:`component_anatomy`, :func:`locus_anatomy` -- what kind of singularity
+  (multiplicity, Milnor and Tjurina numbers, Arnold's type, branches of curves; ``--anatomy``);
 * :class:`BatchEvaluator` -- F and J at many points at once;
 * :class:`NumagError` -- the root of every error numag raises on purpose.
 
@@ -47,10 +49,12 @@ from .families.sweep import SweepOptions, sweep  # noqa: E402
 from .families.records import load_result, save_result  # noqa: E402
 from .certify.certificates import (certify_rank, certify_regular_zero, certify_singular_point,  # noqa: E402
                                    certify_smooth_point, overlapping_pairs)
+from .anatomy.survey import component_anatomy, locus_anatomy, point_anatomy  # noqa: E402
 
 __all__ = ["NumagError", "parse_system", "parse_polynomial", "Polynomial", "PolynomialSystem",
            "BatchEvaluator", "CheckOptions", "check_points", "load_system", "SolveOptions", "solve_system",
            "continue_solutions", "DecomposeOptions", "decompose", "components_through", "SingularOptions",
            "singular_locus", "CertifyOptions", "certify_regular_zero", "certify_singular_point",
            "certify_smooth_point", "certify_rank", "overlapping_pairs", "load_family", "DiscriminantOptions",
-           "discriminant", "SweepOptions", "sweep", "load_result", "save_result", "__version__"]
+           "discriminant", "SweepOptions", "sweep", "load_result", "save_result", "point_anatomy",
+           "component_anatomy", "locus_anatomy", "__version__"]

@@ -15,6 +15,7 @@ from ..system.exact import ExactCoefficient
 from ..system.polynomial import PolynomialSystem
 from ..numeric.evaluate import BatchEvaluator, PrecisionEvaluator
 from ..numeric.refine import project_to_variety
+from ..numeric.linalg import widest_gap_rank
 from .intervals import _SINGULAR, _frobenius_upper, _iv_box, _to_iv_matrix
 from .records import _float_up, _guarded, _parse_center, _text, working_digits
 from .square import _DEFLATION_THRESHOLD, _absolute_jacobian, _coordinate_scales, _equilibrated
@@ -39,7 +40,7 @@ def _taylor(polynomial, center, scales):
     return result
 
 
-def _dual_multiplicity(polynomials, center, max_order=12, max_columns=4000):
+def _dual_multiplicity(polynomials, center, max_order=12, max_columns=4000, scales=None, by_gap=False):
     """Multiplicity of an isolated zero: dimension of the local dual space (Macaulay matrices).
 
     Dayton and Zeng, "Computing the multiplicity structure in solving polynomial systems", ISSAC 2005:
@@ -50,7 +51,9 @@ def _dual_multiplicity(polynomials, center, max_order=12, max_columns=4000):
     n = len(center)
     if n == 0:
         return 1
-    scales = _coordinate_scales(center, 16)
+    # Units of the Taylor variables: the box scales by default; callers with balanced units pass ones
+    # (box scales of coordinates at 0 are 1e-8, which would drown every term of degree 2 and more).
+    scales = _coordinate_scales(center, 16) if scales is None else list(scales)
     taylors = []
     for p in polynomials:
         coefficients = _taylor(p, center, scales)
@@ -76,12 +79,53 @@ def _dual_multiplicity(polynomials, center, max_order=12, max_columns=4000):
                     rows.append(row)
         matrix = np.array(rows) if rows else np.zeros((0, len(columns)))
         values = np.linalg.svd(matrix, compute_uv=False) if len(rows) else np.zeros(0)
-        rank = int(np.sum(values > 1e-8 * (values[0] if len(values) else 1.0)))
+        if by_gap:
+            # absolute values: each polynomial's row is divided by its largest Taylor coefficient, and at a
+            # point where every low-order coefficient vanishes the largest singular value is noise itself
+            rank = widest_gap_rank(values, _GAP_ZERO, _GAP_KEPT)[0] if len(values) else 0
+        else:
+            rank = int(np.sum(values > 1e-8 * (values[0] if len(values) else 1.0)))
         nullity = len(columns) - rank
         if previous is not None and nullity == previous:
             return nullity
         previous = nullity
     return None
+
+
+#: Macaulay matrices (rows in units of each polynomial's largest Taylor coefficient): zero singular values
+#: are at most 1e-6, kept ones at least 1e-11 (rounding in the point and the coefficients puts about 1e-13
+#: on the zero ones).
+_GAP_ZERO, _GAP_KEPT = 1e-6, 1e-11
+
+
+def local_dual_dimension(polynomials, point, max_order=12):
+    """Dimension of the local dual space of the ideal of ``polynomials`` at ``point`` (its multiplicity there).
+
+    The public face of the Macaulay-matrix count above (Dayton and Zeng 2005), for other packages: the
+    Milnor number is this for the gradient, the Tjurina number for f and its gradient. Taylor variables
+    in the units of the polynomials (balance them first, :class:`numag.numeric.scaling.Scaling`).
+
+    Parameters
+    ----------
+    polynomials : list of Polynomial
+    point : array_like of complex
+    max_order : int
+        Highest order of differential functionals tried.
+
+    Returns
+    -------
+    int or None
+        None when the dimension still grows at ``max_order`` (the zero is not isolated, or deeper).
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> f = parse_system(["y^2 - x^3"], ["x", "y"]).polynomials[0]
+    >>> local_dual_dimension(f.gradient(), [0, 0])
+    2
+    """
+    center = [mpmath.mp.mpc(complex(v)) for v in point]
+    return _dual_multiplicity(list(polynomials), center, max_order=max_order, scales=[1] * len(center), by_gap=True)
 
 
 def _exponents_of_degree(n, total):

@@ -33,6 +33,7 @@ __all__ = [
     "scaled_singular_values",
     "numerical_rank",
     "singular_value_gap",
+    "widest_gap_rank",
     "mp_singular_values",
     "mp_right_singular_vectors",
     "mp_least_squares",
@@ -110,6 +111,39 @@ def singular_value_gap(singular_values, rank):
     if rank >= len(values) or values[rank] == 0.0:
         return float("inf")
     return values[rank - 1] / values[rank]
+
+
+def widest_gap_rank(values, zero, kept):
+    """Numerical rank at the widest gap between a kept value (>= ``kept``) and a zero one (<= ``zero``).
+
+    For values where genuine small ones (1e-8, from random coordinates) sit beside rounding-level ones
+    (1e-13 and below): a fixed threshold between them would sit at an edge, the widest gap does not.
+    With no such pair, the values above ``zero`` are kept.
+
+    Returns
+    -------
+    rank : int
+    width : float
+        The gap's width in decades (inf when no value is zero or all are below ``kept``; 0 when no pair
+        was found otherwise: the rank is unclear).
+
+    Examples
+    --------
+    >>> widest_gap_rank(np.array([1.0, 1e-4, 7e-9, 1e-15, 1e-26]), 1e-6, 1e-11)
+    (3, 6.845098040014257)
+    """
+    values = np.asarray(values, dtype=float)
+    best, rank = 0.0, int(np.sum(values > zero))
+    if rank == len(values):
+        return rank, float("inf")
+    for k in range(1, len(values)):
+        if values[k] <= zero and values[k - 1] >= kept:
+            width = float(np.log10(values[k - 1] / max(values[k], 1e-300)))
+            if width > best:
+                best, rank = width, k
+    if best == 0.0 and np.all(values < kept):
+        return 0, float("inf")  # every value at rounding level: all zero
+    return rank, best
 
 
 @dataclass

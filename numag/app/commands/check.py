@@ -5,6 +5,9 @@ from ...system.files import load_points, parse_point_assignment
 from ...numeric.seeds import resolved_seed
 from ...witness.decompose import decompose
 from ...singular.smoothness import CheckOptions, check_points
+from ...system.files import load_angles
+from ...anatomy.survey import check_anatomy
+from ..anatomy_text import attach_to_check, write_point_anatomy
 from ..report import CAUTION, check_report_to_dict, dumps
 from .certify import _certified, _doubtful, _print_certification
 from .common import (EXIT_OK, EXIT_UNDECIDED, _Messages, _add_certify_switch, _add_work_options, _format_point,
@@ -34,12 +37,15 @@ def add_parser(commands):
                        help="relative accuracy of the given points (default %(default)s)")
     check.add_argument("--seed", type=_seed, help="seed for the random choices (recorded in the report)")
     check.add_argument("--json", action="store_true", help="print the report as JSON")
+    check.add_argument("--anatomy", action="store_true",
+                       help="at singular points also the anatomy: multiplicity, type, Milnor and Tjurina numbers, "
+                            "branches of curves")
     _add_certify_switch(check)
     _add_work_options(check)
     check.set_defaults(run=run)
 
 
-def _print_check(report, out, data=None):
+def _print_check(report, out, data=None, anatomies=None):
     system = report.system
     kind = "projective" if system.projective else "affine"
     out.write(f"numag check: {system.name or 'system'}: {system.n_equations} equation(s) in "
@@ -70,6 +76,9 @@ def _print_check(report, out, data=None):
             out.write(f"  components of X through the point: {names}\n")
         for note in v.notes:
             out.write(f"  note: {note}\n")
+        if anatomies and v.index in anatomies:
+            out.write("  anatomy:\n")
+            write_point_anatomy(anatomies[v.index], system.variables, out, "    ")
     counts = ", ".join(f"{n} {c}" for n, c in report.counts().items())
     out.write(f"\nsummary: {counts}\n")
     _print_certification(data, out)
@@ -93,10 +102,19 @@ def run(args, out):
         _guard_paths(args, system, "check")
         decomposition = decompose(system, seed=seed, progress=_Messages(args.json))
     report = check_points(system, points, options, seed=seed, decomposition=decomposition)
+    anatomies = None
+    if args.anatomy:
+        anatomies = check_anatomy(report, decomposition, load_angles(args.system_file, system.variables))
     data = _certified(_with_notes(check_report_to_dict(report), args), args)
+    if anatomies is not None:
+        attach_to_check(data, anatomies)
+        data["anatomy_incomplete"] = sorted(k for k, a in anatomies.items() if a.incomplete)
     if args.json:
         out.write(dumps(data) + "\n")
     else:
         _write_notes(args, out)
-        _print_check(report, out, data)
-    return EXIT_UNDECIDED if report.undecided or _doubtful(data) else EXIT_OK
+        _print_check(report, out, data, anatomies)
+    incomplete = sorted(k for k, a in (anatomies or {}).items() if a.incomplete)
+    if incomplete and not args.json:
+        out.write(f"warning: the anatomy of point(s) {', '.join(map(str, incomplete))} is incomplete (see their notes)\n")
+    return EXIT_UNDECIDED if report.undecided or _doubtful(data) or incomplete else EXIT_OK

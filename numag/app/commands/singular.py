@@ -8,6 +8,8 @@ from ...tracking.tracker import FAILURE_LABELS
 from ...witness.cascade import WitnessOptions
 from ...witness.decompose import DecomposeOptions
 from ...singular.locus import FORMULATIONS, SingularOptions, singular_locus
+from ...anatomy.survey import locus_anatomy
+from ..anatomy_text import attach_to_singular, write_component_anatomy, write_point_anatomy
 from ..report import CAUTION, dumps, singular_to_dict
 from .certify import _certified, _doubtful, _print_certification
 from .common import (EXIT_OK, EXIT_UNDECIDED, _Messages, _add_certify_switch, _add_executor_options,
@@ -35,6 +37,9 @@ def add_parser(commands):
                        help="highest precision (decimal digits) for escalated rank decisions (default %(default)s)")
     locus.add_argument("--seed", type=_seed, help="seed of the random choices (recorded in the report)")
     locus.add_argument("--json", action="store_true", help="print the report as JSON (no progress lines)")
+    locus.add_argument("--anatomy", action="store_true",
+                       help="also the anatomy of each singular point (multiplicity, type, Milnor and Tjurina numbers, "
+                            "branches of curves) and the transversal type along singular components")
     _add_executor_options(locus)
     _add_certify_switch(locus)
     _add_work_options(locus)
@@ -51,7 +56,7 @@ def _angles_text(point, angles):
     return "  (" + ", ".join(f"{label} {degrees(c, s):.4f} deg" for label, (c, s) in angles.items()) + ")"
 
 
-def _print_singular(result, out, angles, data=None):
+def _print_singular(result, out, angles, data=None, anatomy=None):
     system = result.system
     kind = "projective" if system.projective else "affine"
     out.write(f"numag singular: {system.name or 'system'}: {system.n_equations} equation(s) in "
@@ -73,6 +78,8 @@ def _print_singular(result, out, angles, data=None):
         where = f"  on components {', '.join(map(str, c.on_components))}" if c.on_components else ""
         out.write(f"  {c.id:4d}  {'real' if c.real[0] else 'complex'}  {_format_point(names, c.points[0])}"
                   f"{_angles_text(c.points[0], angles)}{where}\n")
+        if anatomy is not None and c.id in anatomy.points:
+            write_point_anatomy(anatomy.points[c.id], names, out)
     larger = [c for c in affine if c.dimension > 0 or c.kind != "singular"]
     if larger:
         out.write(f"\n{len(larger)} singular or non-reduced component(s) of positive dimension or undecided\n")
@@ -80,6 +87,8 @@ def _print_singular(result, out, angles, data=None):
             out.write(f"  {c.id:4d}  {c.kind}  dimension {c.dimension}  degree {c.degree}  "
                       f"{int(sum(c.real))} real witness point(s)  ({c.formulation})\n")
             out.write(f"        e.g. {_format_point(names, c.points[int(np.argmax(c.real))])}\n")
+            if anatomy is not None and c.id in anatomy.components:
+                write_component_anatomy(anatomy.components[c.id], names, out)
     infinite = [c for c in result.components if c.at_infinity]
     if infinite:
         homogeneous = ["(w)"] + list(names)
@@ -106,11 +115,17 @@ def run(args, out):
         result = singular_locus(system, options, seed=args.seed, progress=_Messages(args.json))
         data = _with_notes(singular_to_dict(result, options), args)
         data["execution"] = executor.describe()
+        anatomy = locus_anatomy(result, angles=angles) if args.anatomy else None
+        if anatomy is not None:
+            attach_to_singular(data, anatomy)
     data = _with_warnings(_certified(data, args))
+    if anatomy is not None and anatomy.incomplete():
+        data["warnings"].append(f"the anatomy of singular component(s) {', '.join(map(str, anatomy.incomplete()))} "
+                                "is incomplete (see their notes)")
     if args.json:
         out.write(dumps(data) + "\n")
     else:
         _write_notes(args, out)
-        _print_singular(result, out, angles, data)
+        _print_singular(result, out, angles, data, anatomy)
     undecided = any(c.kind == "undecided" for c in result.components)
     return EXIT_UNDECIDED if undecided or _doubtful(data) or data["warnings"] else EXIT_OK
