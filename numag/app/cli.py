@@ -19,7 +19,7 @@ import numpy as np
 from ..errors import NumagError, one_line
 from ..version import __version__
 from ..run.executor import WorkLimits, abort_workers, work_limits
-from .commands import certify, check, compare, decompose, singular, solve
+from .commands import certify, check, compare, decompose, plot, singular, solve
 from .commands.common import EXIT_INPUT, EXIT_INTERNAL, EXIT_MISMATCH, EXIT_OK, EXIT_UNDECIDED
 
 __all__ = ["main", "build_parser", "EXIT_OK", "EXIT_INTERNAL", "EXIT_INPUT", "EXIT_UNDECIDED", "EXIT_MISMATCH"]
@@ -40,7 +40,7 @@ def build_parser():
     commands = parser.add_subparsers(dest="command", metavar="COMMAND", parser_class=_Parser)
     commands.required = True
 
-    for command in (check, solve, singular, decompose, certify, compare):
+    for command in (check, solve, singular, decompose, certify, compare, plot):
         command.add_parser(commands)
     return parser
 

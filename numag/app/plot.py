@@ -610,12 +610,13 @@ def _draw_surface(figure, system, marked, singular_curves, options, seed, notes)
     curves = []
     singular_points = points[[k == "singular" for _, k, _ in marked]] if len(points) else points
     for component in singular_curves:
-        # the singular curve lies in V(f, df/dx, df/dy, df/dz): trace that (random real combinations)
+        # the singular curve lies in V(df/dx, df/dy, df/dz) and on f = 0: trace the first (random real
+        # combinations of the partials: lower degrees, fewer paths than with f) and keep the arcs on f = 0
         f = system.polynomials[0]
-        equations = PolynomialSystem(system.variables, [f] + list(f.gradient()), name=system.name)
+        equations = PolynomialSystem(system.variables, list(f.gradient()), name=system.name)
         box_options = RealCurveOptions(box=(low, high), resolution=options.resolution or RealCurveOptions.resolution)
         try:
-            curve = trace_real_curve(equations, box_options, seed=seed, marked=singular_points)
+            curve = trace_real_curve(equations, box_options, seed=seed, marked=singular_points, constraints=[f])
         except InputError as err:
             notes.append(f"singular curve {component['id']} was not traced ({err}); its witness points are drawn")
             witness = np.array([w for w in (_real_point(p) for p in component["points"]) if w is not None])

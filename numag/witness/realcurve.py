@@ -352,7 +352,7 @@ def _cluster(points, radius):
     return labels
 
 
-def trace_real_curve(system, options=None, seed=None, marked=()):
+def trace_real_curve(system, options=None, seed=None, marked=(), constraints=()):
     """Trace the real points of a real curve between the critical points of a random projection.
 
     Parameters
@@ -366,6 +366,9 @@ def trace_real_curve(system, options=None, seed=None, marked=()):
         Seed of the projection, the combinations and the homotopies.
     marked : array_like, shape (K, n), optional
         Known singular points (a report's): vertices near them take their coordinates.
+    constraints : sequence of Polynomial, optional
+        Equations the drawn curve must also satisfy: arcs of ``system`` off them are dropped (the
+        singular curves of a surface f = 0 are traced as V(df) with the constraint f).
 
     Returns
     -------
@@ -396,8 +399,8 @@ def trace_real_curve(system, options=None, seed=None, marked=()):
                          f"(n - 1 = {n - 1} equations are needed)")
     seed, rng = random_state(seed)
     notes = []
-    original = _Curve([p.numeric() for p in system.polynomials])
-    squared = system.n_equations > n - 1
+    original = _Curve([p.numeric() for p in list(system.polynomials) + list(constraints)])
+    squared = system.n_equations > n - 1 or len(constraints) > 0
     working_polynomials = (_real_combinations(system, n - 1, rng) if squared
                            else [p.numeric() for p in system.polynomials])
     curve = _Curve(working_polynomials)

@@ -7,6 +7,7 @@ from ...witness.decompose import decompose
 from ...singular.smoothness import CheckOptions, check_points
 from ..report import CAUTION, check_report_to_dict, dumps
 from .certify import _certified, _doubtful, _print_certification
+from .plot import add_plot_options, check_plot_request, plot_after, with_angles
 from .common import (EXIT_OK, EXIT_UNDECIDED, _Messages, _add_certify_switch, _add_work_options, _format_point,
                      _guard_paths, _load, _positive_number, _seed, _with_notes, _write_notes)
 
@@ -36,6 +37,7 @@ def add_parser(commands):
     check.add_argument("--json", action="store_true", help="print the report as JSON")
     _add_certify_switch(check)
     _add_work_options(check)
+    add_plot_options(check)
     check.set_defaults(run=run)
 
 
@@ -78,6 +80,7 @@ def _print_check(report, out, data=None):
 
 def run(args, out):
     system = _load(args)
+    check_plot_request(args, system)
     points = [parse_point_assignment(text, system.variables, index)
               for index, text in enumerate(args.point, 1)]
     if args.points_file:
@@ -93,10 +96,11 @@ def run(args, out):
         _guard_paths(args, system, "check")
         decomposition = decompose(system, seed=seed, progress=_Messages(args.json))
     report = check_points(system, points, options, seed=seed, decomposition=decomposition)
-    data = _certified(_with_notes(check_report_to_dict(report), args), args)
+    data = with_angles(_certified(_with_notes(check_report_to_dict(report), args), args), args.system_file)
     if args.json:
         out.write(dumps(data) + "\n")
     else:
         _write_notes(args, out)
         _print_check(report, out, data)
-    return EXIT_UNDECIDED if report.undecided or _doubtful(data) else EXIT_OK
+    pictured = plot_after(data, args, out)
+    return EXIT_UNDECIDED if report.undecided or _doubtful(data) or pictured else EXIT_OK
