@@ -146,6 +146,31 @@ def test_tampered_reports_are_certified_or_refused(saved_reports, capsys, which,
     assert_clear_refusal_or_answer(code, capsys.readouterr().err)
 
 
+@settings(max_examples=25, deadline=None, suppress_health_check=[HealthCheck.function_scoped_fixture])
+@given(choice=st.integers(0, 10**6), replacement=_JSON)
+def test_tampered_reports_are_drawn_or_refused(saved_reports, capsys, choice, replacement):
+    pytest.importorskip("matplotlib")
+    folder, reports = saved_reports
+    data = json.loads(json.dumps(reports["solve"]))
+    paths = list(_paths(data))
+    path = paths[choice % len(paths)]
+    if not path:
+        data = replacement
+    else:
+        parent = data
+        for key in path[:-1]:
+            parent = parent[key]
+        parent[path[-1]] = replacement
+    report = folder / "tampered-plot.json"
+    try:
+        report.write_text(json.dumps(data))
+    except ValueError:
+        report.write_text(json.dumps(data, allow_nan=True))
+    capsys.readouterr()
+    code, _ = run(["plot", str(report), "-o", str(folder / "picture.png"), "--axes", "x,y"])
+    assert_clear_refusal_or_answer(code, capsys.readouterr().err)
+
+
 # --- the command line on the red team's inputs -------------------------------------------------------
 
 _QUADRICS = [f"x{i}^2 - 1" for i in range(50)]

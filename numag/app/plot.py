@@ -197,8 +197,13 @@ def _pyplot():
     return plt
 
 
-def _real_point(pairs):
-    point = np.array([complex(re, im) for re, im in pairs])
+def _real_point(pairs, n=None):
+    """The real point of a report's ``[[re, im], ...]`` (None when it is not real); checked for ``n`` coordinates."""
+    point = np.array([complex(float(re), float(im)) for re, im in pairs])
+    if n is not None and point.shape != (n,):
+        raise ValueError(f"a point has {len(point)} coordinates, the system {n} unknowns")
+    if not np.all(np.isfinite(point)):
+        raise ValueError("a point has non-finite coordinates")
     if np.all(np.abs(point.imag) <= _REAL * (1 + np.abs(point))):
         return point.real
     return None
@@ -211,7 +216,7 @@ def _label(component):
     return f"{component['id']}" + (f" {kind}" if isinstance(kind, str) and kind else "")
 
 
-def _marked_points(data, notes):
+def _marked_points(data, n, notes):
     """(label, kind, real point) for the report's real points; complex ones are counted in ``notes``."""
     found, complex_points = [], 0
     command = data["command"]
@@ -219,22 +224,22 @@ def _marked_points(data, notes):
         for c in data["components"]:
             if c.get("at_infinity") or c.get("dimension") != 0:
                 continue
-            point = _real_point(c["points"][0])
+            point = _real_point(c["points"][0], n)
             if point is None:
                 complex_points += 1
             else:
                 found.append((_label(c), "singular", point))
     elif command == "check":
         for p in data["points"]:
-            point = _real_point(p["point"])
-            kind = "singular (check)" if p["verdict"] == "singular" else p["verdict"]
+            point = _real_point(p["point"], n)
+            kind = "singular (check)" if p["verdict"] == "singular" else str(p["verdict"])
             if point is None:
                 complex_points += 1
             else:
                 found.append((f"p{p['index']}", kind if kind in _STYLE else "undecided", point))
     elif command == "solve":
         for k, s in enumerate(data["solutions"], 1):
-            point = _real_point(s["point"])
+            point = _real_point(s["point"], n)
             if point is None:
                 complex_points += 1
             else:
@@ -244,10 +249,28 @@ def _marked_points(data, notes):
     return found
 
 
-def _singular_curve_components(data):
+def _singular_curve_components(data, n):
+    """A singular report's affine singular curves (their witness points checked)."""
     if data["command"] != "singular":
         return []
-    return [c for c in data["components"] if not c.get("at_infinity") and c.get("dimension") == 1]
+    curves = [c for c in data["components"] if not c.get("at_infinity") and c.get("dimension") == 1]
+    return [dict(c, points=[_real_point(p, n) for p in c["points"]]) for c in curves]
+
+
+def _read_report(data, seed):
+    """What a picture needs from a report, every field checked: a damaged report is refused in one line."""
+    system, angles = _system_of(data)
+    notes = []
+    try:
+        marked = _marked_points(data, system.n_variables, notes)
+        singular_curves = _singular_curve_components(data, system.n_variables)
+        seed = data.get("seed") if seed is None else seed
+        if seed is not None and not (isinstance(seed, int) and not isinstance(seed, bool) and 0 <= seed < 2 ** 63):
+            raise ValueError(f"the seed must be an integer from 0 to 2^63 - 1, got {str(seed)[:40]!r}")
+    except (KeyError, TypeError, ValueError, IndexError, AttributeError) as err:
+        raise InputError(f"the report lacks or garbles what the picture needs ({type(err).__name__}: "
+                         f"{str(err)[:80]})") from None
+    return system, angles, marked, singular_curves, resolved_seed(seed), notes
 
 
 def _system_of(data):
@@ -301,17 +324,14 @@ def plot_report(data, path, options=None):
     suffix = os.path.splitext(path)[1].lower()
     if suffix not in FORMATS:
         raise InputError(f"the picture's file name must end in {', '.join(FORMATS)}: {path!r}")
-    system, angles = _system_of(data)
+    system, angles, marked, singular_curves, seed, notes = _read_report(data, options.seed)
     if system.projective:
         raise InputError("numag plot draws affine systems (write a projective one in a chart)")
     if not system.has_real_coefficients:
         raise InputError("numag plot draws real points: the equations have complex coefficients")
     if options.resolution is not None and not 10 <= options.resolution <= 100_000:
         raise InputError(f"--resolution must be from 10 to 100000, got {options.resolution}")
-    seed = resolved_seed(options.seed if options.seed is not None else data.get("seed"))
     plt = _pyplot()
-    notes = []
-    marked = _marked_points(data, notes)
     n, m = system.n_variables, system.n_equations
     axes = parse_axes(",".join(options.axes), system.variables) if options.axes else None
     if options.angles is not None or (angles and axes is None and n > 3):
@@ -335,13 +355,13 @@ def plot_report(data, path, options=None):
         if kind == PlotKind.PLANE:
             result = _draw_plane(figure, system, marked, options, seed, notes)
         elif kind == PlotKind.SURFACE:
-            result = _draw_surface(figure, system, marked, _singular_curve_components(data), options, seed, notes)
+            result = _draw_surface(figure, system, marked, singular_curves, options, seed, notes)
         elif kind == PlotKind.ANGLES:
             result = _draw_angles(figure, system, angles, marked, options, seed, notes)
         else:
             result = _draw_projection(figure, system, axes, marked, options, seed, notes)
         curves, drawn, directions, triangles, description = result
-        title = f"{system.name or 'system'}: {data['command']} report, {kind.value}"
+        title = f"{str(system.name or 'system')[:60]}: {data['command']} report, {kind.value}"
         figure.suptitle(title, fontsize=11)
         caption = description + f"; seed {seed}. " + CAUTION
         figure.text(0.02, 0.01, "\n".join(textwrap.wrap(caption, 120)), fontsize=6.5, va="bottom", ha="left")
@@ -590,7 +610,7 @@ def _draw_surface(figure, system, marked, singular_curves, options, seed, notes)
     box = _box_pairs(options.box, 3)
     points = np.array([p for _, _, p in marked]).reshape(-1, 3)
     if box is None:
-        witness = [_real_point(p) for c in singular_curves for p in c["points"]]
+        witness = [p for c in singular_curves for p in c["points"]]
         anchors = np.vstack([points] + [w[None, :] for w in witness if w is not None] + [np.zeros((1, 3))])
         centre = 0.5 * (anchors.min(axis=0) + anchors.max(axis=0))
         half = np.maximum(0.5 * (anchors.max(axis=0) - anchors.min(axis=0)) * 1.5, 1.5)
@@ -619,7 +639,7 @@ def _draw_surface(figure, system, marked, singular_curves, options, seed, notes)
             curve = trace_real_curve(equations, box_options, seed=seed, marked=singular_points, constraints=[f])
         except InputError as err:
             notes.append(f"singular curve {component['id']} was not traced ({err}); its witness points are drawn")
-            witness = np.array([w for w in (_real_point(p) for p in component["points"]) if w is not None])
+            witness = np.array([w for w in component["points"] if w is not None]).reshape(-1, 3)
             if len(witness):
                 ax.scatter(witness[:, 0], witness[:, 1], witness[:, 2], color="tab:red", marker="^", s=40)
             continue
