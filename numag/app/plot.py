@@ -397,19 +397,25 @@ def _describe_box(low, high, names):
     return ", ".join(f"{name} in [{a:.4g}, {b:.4g}]" for name, a, b in zip(names, low, high))
 
 
-def _mark(ax, marked, coordinates_of):
-    """Draw marked points with a marker per kind and a label each; returns the MarkedPoints drawn."""
+def _mark(ax, marked, coordinates_of, legends=None):
+    """Draw marked points with a marker per kind and a label each; returns the MarkedPoints drawn.
+
+    ``legends`` replaces legend texts by kind (a singular point of a linkage is a branch point).
+    """
     drawn, seen = [], set()
     for label, kind, point in marked:
         coordinates = coordinates_of(point)
         if coordinates is None:
             continue
         marker, colour, legend = _STYLE[kind]
+        legend = (legends or {}).get(kind, legend)
+        # not clipped: a point on the window's edge (an angle of 180 degrees) is drawn whole
         ax.scatter(*[[c] for c in coordinates], marker=marker, s=70, facecolors="none" if marker == "o" else colour,
-                   edgecolors=colour, linewidths=2, zorder=5, label=None if kind in seen else legend)
+                   edgecolors=colour, linewidths=2, zorder=5, label=None if kind in seen else legend, clip_on=False)
         seen.add(kind)
         if len(coordinates) == 2:
-            ax.annotate(label, coordinates, textcoords="offset points", xytext=(7, 7), fontsize=8, color=colour)
+            ax.annotate(label, coordinates, textcoords="offset points", xytext=(9, -3), fontsize=8, color=colour,
+                        annotation_clip=False)
         else:
             ax.text(*coordinates, f" {label}", fontsize=8, color=colour)
         drawn.append(MarkedPoint(label, kind, tuple(float(c) for c in coordinates), point))
@@ -516,7 +522,8 @@ def _draw_angles(figure, system, angles, marked, options, seed, notes):
         jumps = np.nonzero(np.any(np.abs(np.diff(theta, axis=0)) > 180, axis=1))[0] + 1
         for piece in np.split(theta, jumps):
             ax.plot(piece[:, 0], piece[:, 1], color=colours[j % len(colours)], linewidth=1.6)
-    drawn = _mark(ax, marked, lambda p: tuple(float(_angle_degrees(p[None, :], pair)[0]) for pair in pairs))
+    drawn = _mark(ax, marked, lambda p: tuple(float(_angle_degrees(p[None, :], pair)[0]) for pair in pairs),
+                  legends={"singular": "branch point (singular configuration)"})
     box = _box_pairs(options.box, 2) or (np.array([-180.0, -180.0]), np.array([180.0, 180.0]))
     directions = _branch_directions(curve, pairs, drawn, ax, box)
     ax.set_xlim(box[0][0], box[1][0])
@@ -527,8 +534,8 @@ def _draw_angles(figure, system, angles, marked, options, seed, notes):
     ax.set_xlabel(f"{labels[0]} angle (degrees)")
     ax.set_ylabel(f"{labels[1]} angle (degrees)")
     ax.grid(alpha=0.3)
-    if drawn:
-        ax.legend(loc="upper right", fontsize=8)
+    if drawn:  # above the window: the corners of the torus's square often hold branch points
+        ax.legend(loc="lower left", bbox_to_anchor=(0.0, 1.01), fontsize=8, ncol=3, frameon=False)
     resolution = options.resolution or RealCurveOptions.resolution
     description = (f"Configuration curve on the torus of the angles {labels[0]} and {labels[1]} (atan2 of the "
                    f"sine and cosine unknowns); traced in {system.n_variables} unknowns in the box "
@@ -574,12 +581,14 @@ def _branch_directions(curve, pairs, drawn, ax, box):
                 unit = step / norm
                 directions.append((label, (float(unit[0]), float(unit[1]))))
                 for copy in _torus_copies(centre, box):
-                    ax.annotate("", xy=tuple(copy + 28 * unit), xytext=tuple(copy),
-                                arrowprops=dict(arrowstyle="->", color="black", linewidth=1.2), zorder=6)
+                    tip = copy + 22 * unit
+                    if np.all(tip >= box[0]) and np.all(tip <= box[1]):  # a branch into the window
+                        ax.annotate("", xy=tuple(tip), xytext=tuple(copy),
+                                    arrowprops=dict(arrowstyle="->", color="black", linewidth=1.2), zorder=6)
         for copy in _torus_copies(centre, box):
             if not np.allclose(copy, centre):
                 ax.scatter([copy[0]], [copy[1]], marker="o", s=70, facecolors="none", edgecolors="tab:red",
-                           linewidths=2, zorder=5)
+                           linewidths=2, zorder=5, clip_on=False)
     return directions
 
 
