@@ -1,14 +1,17 @@
 """How long each picture takes (``numag plot``), split into tracing the real curve and drawing.
 
-Run:  python benchmarks/bench_plot.py [--repeats R]
+Run:  python benchmarks/bench_plot.py [--repeats R] [--seeds S]
 
 For each case the report is computed once (not timed); then ``plot_report`` is timed R times (median),
 and beside it the real-curve tracing alone (``trace_real_curve``: critical points, fibres, arcs) with
 its counts: critical values, arcs, branches, traced points. The first drawing of a run also pays for
-importing matplotlib; that import is timed apart. Writes benchmarks/results/plot.txt.
+importing matplotlib; that import is timed apart. With ``--seeds S``, also the number of branches in the
+box of curves whose answer is known, traced with seeds 1..S (every seed should give it). Writes
+benchmarks/results/plot.txt.
 """
 
 import argparse
+import collections
 import pathlib
 import statistics
 import tempfile
@@ -23,7 +26,7 @@ from numag.singular.smoothness import check_points
 from numag.system.files import load_points, load_system
 from numag.system.parse import parse_system
 from numag.witness.decompose import decompose
-from numag.witness.realcurve import trace_real_curve
+from numag.witness.realcurve import RealCurveOptions, trace_real_curve
 
 LINKAGE = str(checkout.ROOT / "numag/examples/parallel_linkage.toml")
 CHECKPOINTS = str(checkout.ROOT / "numag/examples/checkpoints_linkage.json")
@@ -50,9 +53,34 @@ def cases():
         yield f"Whitney umbrella (surface, {resolution}^3)", data, PlotOptions(resolution=resolution), None
 
 
+def known_branches():
+    """(name, system, options, branches in the box): answers known by hand (common practice, no source)."""
+    yield "y^2 = x^2 (x + 1) in [-2, 2]^2", parse_system(["y^2 - x^2*(x + 1)"], ["x", "y"]), \
+        RealCurveOptions(box=((-2, -2), (2, 2))), 3
+    yield "y^2 = x^4 + x^6 in [-1.5, 1.5]^2", parse_system(["y^2 - x^4 - x^6"], ["x", "y"]), \
+        RealCurveOptions(box=((-1.5, -1.5), (1.5, 1.5))), 4
+    yield "y^2 = x^3 in [-2, 2]^2", parse_system(["y^2 - x^3"], ["x", "y"]), RealCurveOptions(box=((-2, -2), (2, 2))), 2
+    yield "two concentric circles", parse_system(["(x^2 + y^2 - 1)*(x^2 + y^2 - 4)"], ["x", "y"]), None, 2
+    yield "parallel linkage", load_system(LINKAGE), None, 4
+
+
+def sweep(seeds):
+    lines = ["", f"branches in the box over seeds 1-{seeds}: expected, then count of seeds per answer"]
+    for name, system, options, expected in known_branches():
+        counts, failed = collections.Counter(), 0
+        for seed in range(1, seeds + 1):
+            curve = trace_real_curve(system, options, seed=seed)
+            counts[len(curve.branches())] += 1
+            failed += curve.failed_arcs
+        lines.append(f"{name:40s} expected {expected}: {dict(sorted(counts.items()))}, failed arc ends {failed}")
+        print(lines[-1])
+    return lines
+
+
 def main():
     parser = argparse.ArgumentParser(description=__doc__)
     parser.add_argument("--repeats", type=int, default=3)
+    parser.add_argument("--seeds", type=int, default=0)
     args = parser.parse_args()
     started = time.perf_counter()
     import matplotlib
@@ -80,6 +108,8 @@ def main():
                 f"{branches!s:>8s} {points!s:>7s}")
         print(line)
         lines.append(line)
+    if args.seeds:
+        lines += sweep(args.seeds)
     results = checkout.ROOT / "benchmarks" / "results"
     results.mkdir(exist_ok=True)
     (results / "plot.txt").write_text("\n".join(lines) + "\n")
