@@ -125,6 +125,12 @@ def test_bad_picture_options_are_one_line_errors(tmp_path, linkage_report, capsy
     assert message in error and error.count("\n") == 1
 
 
+def test_one_unknown_is_refused(tmp_path):
+    data = singular_report(parse_system(["x^2*(x - 1)"], ["x"]))
+    with pytest.raises(InputError, match="two or more unknowns"):
+        plot_report(data, tmp_path / "x.png")
+
+
 def test_more_unknowns_need_axes_or_angles(tmp_path):
     data = singular_report(load_system(LINKAGE))  # without the angles table
     with pytest.raises(InputError, match="--axes"):

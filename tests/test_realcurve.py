@@ -99,6 +99,14 @@ def test_what_is_not_a_real_curve_is_refused_in_one_line(equations, variables, m
         trace_real_curve(parse_system(equations, variables), seed=1)
 
 
+def test_a_line_has_no_critical_point_and_crosses_the_box():
+    curve = trace_real_curve(parse_system(["x - 2*y"], ["x", "y"]), RealCurveOptions(box=((-1, -1), (1, 1))), seed=1)
+    (branch,) = curve.branches()
+    assert branch.ends == ("box exit", "box exit") and len(curve.critical_values) == 0
+    assert np.abs(branch.points[:, 0] - 2 * branch.points[:, 1]).max() <= 1e-12
+    assert branch.points[:, 0].min() == pytest.approx(-1, abs=0.02) and branch.points[:, 0].max() == pytest.approx(1, abs=0.02)
+
+
 def test_bad_box_is_refused():
     with pytest.raises(InputError, match="lower bound"):
         trace_real_curve(parse_system(["x - y"], ["x", "y"]), RealCurveOptions(box=((1, 0), (0, 1))))

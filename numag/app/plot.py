@@ -333,6 +333,8 @@ def plot_report(data, path, options=None):
         raise InputError(f"--resolution must be from 10 to 100000, got {options.resolution}")
     plt = _pyplot()
     n, m = system.n_variables, system.n_equations
+    if n < 2:
+        raise InputError("numag plot draws systems in two or more unknowns (one unknown has only points)")
     axes = parse_axes(",".join(options.axes), system.variables) if options.axes else None
     if options.angles is not None or (angles and axes is None and n > 3):
         kind = PlotKind.ANGLES
@@ -564,7 +566,9 @@ def _branch_directions(curve, pairs, drawn, ax, box):
         if kind != VertexKind.SINGULAR:
             continue
         centre = np.array([_angle_degrees(curve.vertices[vertex][None, :], pair)[0] for pair in pairs])
-        label = min(drawn, key=lambda d: np.linalg.norm(np.array(d.coordinates) - centre)).label if drawn else ""
+        near = [d for d in drawn if np.linalg.norm(np.array(d.coordinates) - centre) < 1.0]
+        # a branch point the report does not list (a decompose report lists none) is named by its angles
+        label = near[0].label if near else f"at ({centre[0]:.4g}, {centre[1]:.4g})"
         for branch in curve.branches(clip=False):
             for end, at in ((0, branch.points), (1, branch.points[::-1])):
                 if len(branch.vertices) != 2 or not np.allclose(at[0], curve.vertices[vertex], atol=1e-9 * diagonal):

@@ -413,8 +413,11 @@ def trace_real_curve(system, options=None, seed=None, marked=(), constraints=())
     critical_equation = determinant([list(row) for row in gradients] + [constants])
     if critical_equation.is_zero():
         raise InputError("the projection is critical everywhere: the equations do not cut out a reduced curve")
-    critical_system = PolynomialSystem(system.variables, working_polynomials + [critical_equation])
-    critical, not_isolated, _ = _solve_real(critical_system, int(rng.integers(2 ** 31)))
+    if critical_equation.degree < 1:  # a nonzero constant: a line has no critical point
+        critical, not_isolated = np.zeros((0, n)), False
+    else:
+        critical_system = PolynomialSystem(system.variables, working_polynomials + [critical_equation])
+        critical, not_isolated, _ = _solve_real(critical_system, int(rng.integers(2 ** 31)))
     if not_isolated:
         raise InputError("the critical points of the projection form a positive-dimensional set: the equations "
                          "do not cut out a reduced curve (a multiple or singular component?)")
