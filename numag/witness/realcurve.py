@@ -327,11 +327,14 @@ def _solve_real(system, seed):
 
 
 def _default_box(points, n):
+    """A cube around the critical and marked points: a bounded branch reaches as far across the projection as
+    along it (a circle's critical points lie on one diameter), so every side gets the largest extent."""
     if len(points) == 0:
         return np.full(n, -2.0), np.full(n, 2.0)
     low, high = points.min(axis=0), points.max(axis=0)
-    pad = np.maximum(0.5 * (high - low), 1.0)
-    return low - pad, high + pad
+    centre = 0.5 * (low + high)
+    half = max(0.75 * float(np.max(high - low)), 1.0)
+    return centre - half, centre + half
 
 
 def _cluster(points, radius):
@@ -432,15 +435,18 @@ def trace_real_curve(system, options=None, seed=None, marked=(), constraints=())
     step_max = diagonal / options.resolution
     step_min = 1e-9 * diagonal
 
-    # marked singular points replace the critical points near them (they are known more accurately)
+    # marked singular points replace the critical points near them: they are known more accurately, and
+    # a singular point of multiplicity k in the critical system is found only to about eps^(1/k)
     if len(marked):
         for point in marked:
             if len(critical):
-                near = np.linalg.norm(critical - point, axis=1) <= 1e-5 * diagonal
+                near = np.linalg.norm(critical - point, axis=1) <= 1e-3 * diagonal
                 critical = critical[~near]
             critical = np.vstack([critical, point[None, :]])
     if len(critical):
-        labels = _cluster(critical, 1e-7 * diagonal)
+        # a singular point is a multiple solution of the critical system, found only to about eps^(1/k):
+        # its copies are one vertex (distinct critical points of a random projection are rarely this close)
+        labels = _cluster(critical, 1e-4 * diagonal)
         critical = np.array([critical[labels == k][0] for k in range(labels.max() + 1)])
     values = np.sort(critical @ projection) if len(critical) else np.zeros(0)
     # critical values this close are one (two critical points in one fibre of a random projection)
@@ -561,6 +567,15 @@ def trace_real_curve(system, options=None, seed=None, marked=(), constraints=())
     if failed:
         notes.append(f"{failed} arc end(s) stalled far from every vertex or took more than {options.max_steps} "
                      "steps: the picture may miss or misjoin a piece of the curve there")
+    # a smooth vertex in the box where other than two arc ends meet: the arcs were misjoined there
+    ends = np.bincount([v for arc in arcs for v in (arc.start, arc.end)], minlength=len(vertices))
+    in_box = np.all((vertices >= low) & (vertices <= high), axis=1) if len(vertices) else np.zeros(0, dtype=bool)
+    misjoined = sum(1 for v in range(len(vertices)) if in_box[v] and kinds[v] in (VertexKind.CRITICAL, VertexKind.FIBRE)
+                    and ends[v] not in (0, 2))  # 0: a duplicate merged into another vertex, or unreached
+    if misjoined:
+        failed += misjoined
+        notes.append(f"{misjoined} smooth vertex(es) in the box where other than two arcs meet: arcs were "
+                     "misjoined near a singular point or a tight fold (try another --seed)")
     return RealCurve(system, projection, values, vertices, kinds, arcs, (low, high), options.tolerance, failed,
                      dropped, seed, time.perf_counter() - started, notes)
 
