@@ -123,11 +123,9 @@ def _paths(value, prefix=()):
             yield from _paths(item, prefix + (index,))
 
 
-@settings(max_examples=40, deadline=None, suppress_health_check=[HealthCheck.function_scoped_fixture])
-@given(which=st.sampled_from(["check", "solve"]), choice=st.integers(0, 10**6), replacement=_JSON)
-def test_tampered_reports_are_certified_or_refused(saved_reports, capsys, which, choice, replacement):
-    folder, reports = saved_reports
-    data = json.loads(json.dumps(reports[which]))
+def _write_tampered(report, data, choice, replacement):
+    """Replace the value at one place of a saved report (chosen by ``choice``) and write it to ``report``."""
+    data = json.loads(json.dumps(data))
     paths = list(_paths(data))
     path = paths[choice % len(paths)]
     if not path:
@@ -137,13 +135,32 @@ def test_tampered_reports_are_certified_or_refused(saved_reports, capsys, which,
         for key in path[:-1]:
             parent = parent[key]
         parent[path[-1]] = replacement
-    report = folder / f"tampered-{which}.json"
     try:
         report.write_text(json.dumps(data))
     except ValueError:
         report.write_text(json.dumps(data, allow_nan=True))
+
+
+@settings(max_examples=40, deadline=None, suppress_health_check=[HealthCheck.function_scoped_fixture])
+@given(which=st.sampled_from(["check", "solve"]), choice=st.integers(0, 10**6), replacement=_JSON)
+def test_tampered_reports_are_certified_or_refused(saved_reports, capsys, which, choice, replacement):
+    folder, reports = saved_reports
+    report = folder / f"tampered-{which}.json"
+    _write_tampered(report, reports[which], choice, replacement)
     capsys.readouterr()
     code, _ = run(["certify", str(report), "-o", str(folder / "out.json"), "--digits", "20", "--numerical-only"])
+    assert_clear_refusal_or_answer(code, capsys.readouterr().err)
+
+
+@settings(max_examples=25, deadline=None, suppress_health_check=[HealthCheck.function_scoped_fixture])
+@given(choice=st.integers(0, 10**6), replacement=_JSON)
+def test_tampered_reports_are_drawn_or_refused(saved_reports, capsys, choice, replacement):
+    pytest.importorskip("matplotlib")
+    folder, reports = saved_reports
+    report = folder / "tampered-plot.json"
+    _write_tampered(report, reports["solve"], choice, replacement)
+    capsys.readouterr()
+    code, _ = run(["plot", str(report), "-o", str(folder / "picture.png"), "--axes", "x,y"])
     assert_clear_refusal_or_answer(code, capsys.readouterr().err)
 
 

@@ -19,7 +19,7 @@ import numpy as np
 from ..errors import NumagError, one_line
 from ..version import __version__
 from ..run.executor import WorkLimits, abort_workers, work_limits
-from .commands import certify, check, compare, decompose, discriminant, singular, solve, sweep
+from .commands import certify, check, compare, decompose, discriminant, plot, singular, solve, sweep
 from .commands.common import _add_at_option
 from .commands.common import EXIT_INPUT, EXIT_INTERNAL, EXIT_MISMATCH, EXIT_OK, EXIT_UNDECIDED
 
@@ -41,7 +41,7 @@ def build_parser():
     commands = parser.add_subparsers(dest="command", metavar="COMMAND", parser_class=_Parser)
     commands.required = True
 
-    for command in (check, solve, singular, decompose, certify, compare, discriminant, sweep):
+    for command in (check, solve, singular, decompose, certify, compare, discriminant, sweep, plot):
         command.add_parser(commands)
     for name, command in commands.choices.items():  # a member of a family (issue 22): one option everywhere
         if name not in ("certify", "discriminant", "sweep"):  # a report's system is a member; these take families

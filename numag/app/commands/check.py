@@ -10,6 +10,7 @@ from ...anatomy.survey import check_anatomy
 from ..anatomy_text import attach_to_check, write_point_anatomy
 from ..report import CAUTION, check_report_to_dict, dumps
 from .certify import _certified, _doubtful, _print_certification
+from .plot import add_plot_options, check_plot_request, plot_after, with_angles
 from .common import (EXIT_OK, EXIT_UNDECIDED, _Messages, _add_certify_switch, _add_work_options, _format_point,
                      _guard_paths, _load, _positive_number, _seed, _with_notes, _write_notes)
 
@@ -42,6 +43,7 @@ def add_parser(commands):
                             "branches of curves")
     _add_certify_switch(check)
     _add_work_options(check)
+    add_plot_options(check)
     check.set_defaults(run=run)
 
 
@@ -87,6 +89,7 @@ def _print_check(report, out, data=None, anatomies=None):
 
 def run(args, out):
     system = _load(args)
+    check_plot_request(args, system)
     points = [parse_point_assignment(text, system.variables, index)
               for index, text in enumerate(args.point, 1)]
     if args.points_file:
@@ -105,7 +108,7 @@ def run(args, out):
     anatomies = None
     if args.anatomy:
         anatomies = check_anatomy(report, decomposition, load_angles(args.system_file, system.variables))
-    data = _certified(_with_notes(check_report_to_dict(report), args), args)
+    data = with_angles(_certified(_with_notes(check_report_to_dict(report), args), args), args.system_file)
     if anatomies is not None:
         attach_to_check(data, anatomies)
         data["anatomy_incomplete"] = sorted(k for k, a in anatomies.items() if a.incomplete)
@@ -117,4 +120,5 @@ def run(args, out):
     incomplete = sorted(k for k, a in (anatomies or {}).items() if a.incomplete)
     if incomplete and not args.json:
         out.write(f"warning: the anatomy of point(s) {', '.join(map(str, incomplete))} is incomplete (see their notes)\n")
-    return EXIT_UNDECIDED if report.undecided or _doubtful(data) or incomplete else EXIT_OK
+    pictured = plot_after(data, args, out)
+    return EXIT_UNDECIDED if report.undecided or _doubtful(data) or incomplete or pictured else EXIT_OK

@@ -8,6 +8,7 @@ from ...tracking.tracker import FAILURE_LABELS
 from ...witness.cascade import WitnessOptions
 from ...witness.decompose import DecomposeOptions, decompose
 from ..report import CAUTION, decomposition_to_dict, dumps
+from .plot import add_plot_options, check_plot_request, plot_after, with_angles
 from .common import (EXIT_OK, EXIT_UNDECIDED, _Messages, _add_executor_options, _add_work_options, _format_point,
                      _guard_paths, _load, _print_warnings, _seed, _stage_executor, _with_notes, _with_warnings,
                      _write_notes)
@@ -28,6 +29,7 @@ def add_parser(commands):
     parts.add_argument("--json", action="store_true", help="print the report as JSON (no progress lines)")
     _add_executor_options(parts)
     _add_work_options(parts)
+    add_plot_options(parts)
     parts.set_defaults(run=run)
 
 
@@ -59,6 +61,7 @@ def _print_decompose(result, out, data=None):
 def run(args, out):
     system = _load(args)
     _guard_paths(args, system, "decompose")
+    check_plot_request(args, system)
     options = DecomposeOptions(witness=WitnessOptions(lowest_dimension=args.lowest_dimension),
                                max_loops=args.max_loops)
     if args.max_loops < 1:
@@ -68,10 +71,11 @@ def run(args, out):
         execution = executor.describe()
     data = decomposition_to_dict(result, options)
     data["execution"] = execution
-    data = _with_notes(_with_warnings(data), args)
+    data = with_angles(_with_notes(_with_warnings(data), args), args.system_file)
     if args.json:
         out.write(dumps(data) + "\n")
     else:
         _write_notes(args, out)
         _print_decompose(result, out, data)
-    return EXIT_UNDECIDED if data["warnings"] else EXIT_OK
+    pictured = plot_after(data, args, out)
+    return EXIT_UNDECIDED if data["warnings"] or pictured else EXIT_OK

@@ -12,6 +12,7 @@ from ...anatomy.survey import locus_anatomy
 from ..anatomy_text import attach_to_singular, write_component_anatomy, write_point_anatomy
 from ..report import CAUTION, dumps, singular_to_dict
 from .certify import _certified, _doubtful, _print_certification
+from .plot import add_plot_options, check_plot_request, plot_after, with_angles
 from .common import (EXIT_OK, EXIT_UNDECIDED, _Messages, _add_certify_switch, _add_executor_options,
                      _add_work_options, _format_point, _guard_paths, _load, _print_warnings, _seed,
                      _stage_executor, _with_notes, _with_warnings, _write_notes)
@@ -43,6 +44,7 @@ def add_parser(commands):
     _add_executor_options(locus)
     _add_certify_switch(locus)
     _add_work_options(locus)
+    add_plot_options(locus)
     locus.set_defaults(run=run)
 
 
@@ -106,6 +108,7 @@ def _print_singular(result, out, angles, data=None, anatomy=None):
 def run(args, out):
     system = _load(args)
     _guard_paths(args, system, "singular")
+    check_plot_request(args, system)
     angles = load_angles(args.system_file, system.variables)
     options = SingularOptions(formulation=args.formulation, digits=args.digits, infinity_for_systems=args.at_infinity,
                               decompose=DecomposeOptions(witness=WitnessOptions(lowest_dimension=args.lowest_dimension)))
@@ -118,7 +121,7 @@ def run(args, out):
         anatomy = locus_anatomy(result, angles=angles) if args.anatomy else None
         if anatomy is not None:
             attach_to_singular(data, anatomy)
-    data = _with_warnings(_certified(data, args))
+    data = with_angles(_with_warnings(_certified(data, args)), args.system_file)
     if anatomy is not None and anatomy.incomplete():
         data["warnings"].append(f"the anatomy of singular component(s) {', '.join(map(str, anatomy.incomplete()))} "
                                 "is incomplete (see their notes)")
@@ -128,4 +131,5 @@ def run(args, out):
         _write_notes(args, out)
         _print_singular(result, out, angles, data, anatomy)
     undecided = any(c.kind == "undecided" for c in result.components)
-    return EXIT_UNDECIDED if undecided or _doubtful(data) or data["warnings"] else EXIT_OK
+    pictured = plot_after(data, args, out)
+    return EXIT_UNDECIDED if undecided or _doubtful(data) or data["warnings"] or pictured else EXIT_OK

@@ -7,6 +7,7 @@ from ...numeric.seeds import resolved_seed
 from ...tracking.solve import Execution, SolveOptions, solve_system
 from ..report import CAUTION, dumps, solve_report_to_dict
 from .certify import _certified, _doubtful, _print_certification
+from .plot import add_plot_options, check_plot_request, plot_after, with_angles
 from .common import (EXIT_OK, EXIT_UNDECIDED, _Progress, _add_certify_switch, _add_executor_options,
                      _add_work_options, _checked_seed, _count, _format_point, _load, _print_warnings, _seed,
                      _with_notes, _with_warnings, _write_notes)
@@ -35,6 +36,7 @@ def add_parser(commands):
                        help="continue the run saved in DIR: finished batches are read back, not tracked again")
     _add_certify_switch(solve)
     _add_work_options(solve)
+    add_plot_options(solve)
     solve.set_defaults(run=run)
 
 
@@ -115,13 +117,16 @@ def run(args, out):
         seed = args.seed
         if args.run_folder and seed is None:  # a saved run must be reproducible: fix the seed now
             seed = resolved_seed(seed)
+    check_plot_request(args, system)
     execution = Execution(workers=args.workers, scheduler=args.scheduler, local_dask=args.local_dask,
                           run_folder=args.resume or args.run_folder, resume=bool(args.resume))
     result = solve_system(system, options, seed=seed, progress=_Progress(args.json), execution=execution)
-    data = _with_warnings(_certified(_with_notes(solve_report_to_dict(result, options), args), args))
+    data = with_angles(_with_warnings(_certified(_with_notes(solve_report_to_dict(result, options), args), args)),
+                       args.system_file)
     if args.json:
         out.write(dumps(data) + "\n")
     else:
         _write_notes(args, out)
         _print_solve(result, out, data)
-    return EXIT_UNDECIDED if _doubtful(data) or data["warnings"] else EXIT_OK
+    pictured = plot_after(data, args, out)
+    return EXIT_UNDECIDED if _doubtful(data) or data["warnings"] or pictured else EXIT_OK
