@@ -51,6 +51,17 @@ def test_nodal_cubic_picture_marks_the_reports_node(tmp_path):
     assert "Numerical results" in result.caption
 
 
+def test_marked_points_are_labelled_by_their_anatomy(tmp_path):
+    # the node of y^2 = x^2 (x + 1) is of type A1 (Arnold 1972; common practice)
+    from numag.anatomy.survey import locus_anatomy
+    from numag.app.anatomy_text import attach_to_singular
+    system = parse_system(["y^2 - x^2*(x + 1)"], ["x", "y"])
+    locus = singular_locus(system, seed=2)
+    data = attach_to_singular(singular_to_dict(locus, SingularOptions()), locus_anatomy(locus))
+    result = plot_report(data, tmp_path / "nodal.svg", PlotOptions(box=(-2, 2, -2, 2), seed=3))
+    assert [m.label.split()[-1] for m in result.marked] == ["A1"]
+
+
 @pytest.mark.parametrize("seed", [1, 5])
 def test_linkage_picture_on_the_torus_of_joint_angles(tmp_path, linkage_report, seed):
     result = plot_report(linkage_report, tmp_path / "linkage.svg", PlotOptions(seed=seed))

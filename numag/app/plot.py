@@ -212,7 +212,12 @@ def _real_point(pairs, n=None):
 def _label(component):
     """A singular point's label: its id, and its type where the report names one."""
     anatomy = component.get("anatomy")
-    kind = anatomy.get("type") if isinstance(anatomy, dict) else component.get("type")
+    kind = component.get("type")
+    if isinstance(anatomy, dict):
+        # `--anatomy` reports: Arnold's type of a hypersurface point, else the branches' motion.
+        hypersurface = anatomy.get("hypersurface")
+        named = hypersurface.get("type") if isinstance(hypersurface, dict) else None
+        kind = named.get("label") if isinstance(named, dict) else anatomy.get("motion")
     return f"{component['id']}" + (f" {kind}" if isinstance(kind, str) and kind else "")
 
 
