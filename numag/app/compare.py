@@ -23,6 +23,7 @@ import time
 import numpy as np
 
 from ..singular.locus import SingularOptions, singular_locus
+from ..singular.kinds import PieceKind
 from .reference import REFERENCE_SCOPE, exact_reference
 
 __all__ = ["ComparisonRow", "Comparison", "numag_summary", "compare_answers", "compare_system", "VERDICTS"]
@@ -111,9 +112,9 @@ def numag_summary(locus):
         top = system.n_variables - 2
         degree = system.polynomials[0].degree
         equidimensional = True
-    compared = [c for c in locus.components if c.kind in ("singular", "non-reduced")
+    compared = [c for c in locus.components if c.kind in (PieceKind.SINGULAR, PieceKind.NON_REDUCED)
                 and (system.projective or not c.at_infinity)]
-    undecided = [c for c in locus.components if c.kind == "undecided"]
+    undecided = [c for c in locus.components if c.kind is PieceKind.UNDECIDED]
     singular_dimension = max((c.dimension for c in compared), default=-1)
     points = [c.points[0] for c in compared if c.dimension == 0]
     summary = {"variety_dimension": top, "variety_degree": degree, "equidimensional": equidimensional,
@@ -265,8 +266,8 @@ def compare_system(system, seconds=60.0, seed=None, options=None, tolerance=1e-6
     seed : int, optional
     options : SingularOptions, optional
     tolerance : float
-    progress : callable, optional
-        One-line messages.
+    progress : Progress, optional
+        Told one-line messages (:mod:`numag.run.progress`).
 
     Returns
     -------

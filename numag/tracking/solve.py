@@ -26,7 +26,7 @@ import time
 import mpmath
 import numpy as np
 
-from ..errors import InputError
+from ..errors import InputError, is_integer, is_number, require_option
 from ..version import __version__
 from ..system.polynomial import PolynomialSystem, require_numeric
 from ..run.checkpoint import RunFolder, manifest_fingerprints
@@ -67,14 +67,17 @@ class SolveOptions:
     square_up: bool = False
     batch_size: int = 4096
 
+    def __post_init__(self):
+        """Refuse a bad value on construction, naming the option."""
+        require_option(is_number(self.cluster_tolerance) and 0 < self.cluster_tolerance < 1, "cluster_tolerance",
+                       "in (0, 1)", self.cluster_tolerance)
+        require_option(is_integer(self.refine_digits) and 16 <= self.refine_digits <= 10000,
+                       "refine_digits (--digits)", "from 16 to 10000", self.refine_digits)
+        require_option(is_integer(self.batch_size) and self.batch_size >= 1, "batch_size", "positive",
+                       self.batch_size)
+
     def validated(self):
-        """Raise InputError naming an invalid option."""
-        if not 0 < self.cluster_tolerance < 1:
-            raise InputError(f"cluster_tolerance must be in (0, 1), got {self.cluster_tolerance!r}")
-        if not 16 <= self.refine_digits <= 10000:
-            raise InputError(f"refine_digits (--digits) must be from 16 to 10000, got {self.refine_digits!r}")
-        if self.batch_size < 1:
-            raise InputError(f"batch_size must be positive, got {self.batch_size!r}")
+        """The options (checked on construction); kept so that callers read the same as for the other options."""
         return self
 
 
@@ -247,8 +250,8 @@ def solve_system(system, options=None, seed=None, progress=None, execution=None)
     options : SolveOptions, optional
     seed : int, optional
         Seed of the random patch, gamma and tests; drawn and recorded when not given.
-    progress : callable, optional
-        Called as ``progress(paths_done, paths_total)`` after each batch.
+    progress : Progress, optional
+        Told (:mod:`numag.run.progress`) the paths done and in all after each batch.
     execution : Execution, optional
         Workers, a Dask scheduler, a run folder to save each batch in, or a run to resume.
         Same seed, same answer, whichever executor runs the batches.

@@ -39,7 +39,7 @@ import networkx as nx
 import numpy as np
 from scipy.spatial import cKDTree
 
-from ..errors import InputError, LimitError
+from ..errors import InputError, LimitError, is_integer, is_number, require_option
 from ..system.polynomial import combined_minor, linear_space, require_numeric
 from ..numeric.cluster import cluster_labels
 from ..numeric.evaluate import BatchEvaluator, TermSizes
@@ -71,6 +71,15 @@ class DecomposeOptions:
     max_loops: int = 60
     stall_loops: int = 6
     trace_tolerance: float = 1e-10
+
+    def __post_init__(self):
+        """Refuse a bad value on construction, naming the option."""
+        require_option(is_integer(self.max_loops) and self.max_loops >= 1, "max_loops (--max-loops)", "positive",
+                       self.max_loops)
+        require_option(is_integer(self.stall_loops) and self.stall_loops >= 1, "stall_loops", "positive",
+                       self.stall_loops)
+        require_option(is_number(self.trace_tolerance) and 0 < self.trace_tolerance < 1, "trace_tolerance",
+                       "in (0, 1)", self.trace_tolerance)
 
 
 @dataclass
@@ -407,8 +416,8 @@ def decompose(system, options=None, seed=None, progress=None):
     options : DecomposeOptions, optional
     seed : int, optional
         Drawn and recorded when not given.
-    progress : callable, optional
-        ``progress(message)``.
+    progress : Progress, optional
+        Told a message as each stage starts (:mod:`numag.run.progress`).
 
     Returns
     -------

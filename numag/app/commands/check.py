@@ -5,6 +5,7 @@ from ...system.files import load_points, parse_point_assignment
 from ...numeric.seeds import resolved_seed
 from ...witness.decompose import decompose
 from ...singular.smoothness import CheckOptions, check_points
+from ...singular.kinds import Verdict
 from ..report import CAUTION, check_report_to_dict, dumps
 from .certify import _certified, _doubtful, _print_certification
 from .common import (EXIT_OK, EXIT_UNDECIDED, _Messages, _add_certify_switch, _add_work_options, _format_point,
@@ -55,13 +56,13 @@ def _print_check(report, out, data=None):
         codim = "unknown" if v.codimension is None else str(v.codimension)
         out.write(f"  rank of J: {v.rank}; a smooth point needs {codim} "
                   f"(local dimension {v.local_dimension if v.local_dimension is not None else 'unknown'}: "
-                  f"{v.local_dimension_source})\n")
+                  f"{v.local_dimension_text()})\n")
         out.write(f"  tangent space dimension: {v.tangent_dimension}\n")
         values = ", ".join(f"{s:.3g}" for s in e.singular_values)
         gap = "n/a" if e.gap is None else ("infinite" if e.gap == float("inf") else f"{e.gap:.3g}")
         out.write(f"  evidence: scaled singular values [{values}], zero below {e.tolerance:.2g}, gap {gap}, "
                   f"{e.digits} digits{', escalated' if e.escalated else ''}\n")
-        if v.nearest_rank_drop is not None and v.verdict == "smooth":
+        if v.nearest_rank_drop is not None and v.verdict is Verdict.SMOOTH:
             out.write(f"  nearest point found where the rank drops: "
                       f"{_format_point(system.variables, v.nearest_rank_drop)} "
                       f"(distance {v.nearest_rank_drop_distance:.3g})\n")

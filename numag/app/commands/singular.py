@@ -8,6 +8,7 @@ from ...tracking.tracker import FAILURE_LABELS
 from ...witness.cascade import WitnessOptions
 from ...witness.decompose import DecomposeOptions
 from ...singular.locus import FORMULATIONS, SingularOptions, singular_locus
+from ...singular.kinds import PieceKind
 from ..report import CAUTION, dumps, singular_to_dict
 from .certify import _certified, _doubtful, _print_certification
 from .common import (EXIT_OK, EXIT_UNDECIDED, _Messages, _add_certify_switch, _add_executor_options,
@@ -65,7 +66,7 @@ def _print_singular(result, out, angles, data=None):
     out.write(f"paths: {counts.get('tracked', 0)} tracked, {failed} failed; candidates dropped: {dropped}; "
               f"{result.seconds:.2f} s\n")
     affine = [c for c in result.components if not c.at_infinity]
-    points = [c for c in affine if c.dimension == 0 and c.kind == "singular"]
+    points = [c for c in affine if c.dimension == 0 and c.kind is PieceKind.SINGULAR]
     real = sum(1 for c in points if c.real[0])
     out.write(f"\n{len(points)} singular point(s), {real} real\n")
     names = system.variables
@@ -73,7 +74,7 @@ def _print_singular(result, out, angles, data=None):
         where = f"  on components {', '.join(map(str, c.on_components))}" if c.on_components else ""
         out.write(f"  {c.id:4d}  {'real' if c.real[0] else 'complex'}  {_format_point(names, c.points[0])}"
                   f"{_angles_text(c.points[0], angles)}{where}\n")
-    larger = [c for c in affine if c.dimension > 0 or c.kind != "singular"]
+    larger = [c for c in affine if c.dimension > 0 or c.kind is not PieceKind.SINGULAR]
     if larger:
         out.write(f"\n{len(larger)} singular or non-reduced component(s) of positive dimension or undecided\n")
         for c in larger:
@@ -112,5 +113,5 @@ def run(args, out):
     else:
         _write_notes(args, out)
         _print_singular(result, out, angles, data)
-    undecided = any(c.kind == "undecided" for c in result.components)
+    undecided = any(c.kind is PieceKind.UNDECIDED for c in result.components)
     return EXIT_UNDECIDED if undecided or _doubtful(data) or data["warnings"] else EXIT_OK
