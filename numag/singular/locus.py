@@ -357,7 +357,7 @@ def _projected_candidates(system, null_system, candidates, rng, options, paths):
         run = track_moves(held + [linear_form(r) for r in component.slice_rows],
                           held + [linear_form(r) for r in target_rows], component.points, rng,
                           options.decompose.witness.tracker)
-        _add_counts(paths, run.counts.by_label())
+        run.counts.add_to(paths)
         ends = run.affine_endpoints()
         ends = ends[np.all(np.isfinite(ends), axis=1)][:, :n]
         if len(ends) == 0:

@@ -128,6 +128,23 @@ class PathCounts:
             labels["retracked_after_jump"] = self.retracked_after_jump
         return labels
 
+    def add_to(self, counts):
+        """Add these paths into ``counts``, a dict by label (decompositions and singular loci keep theirs so).
+
+        ``tracked`` grows by the paths, each counted once, so that the statuses still add up to it; the
+        re-tracks of jumped paths go under ``retracked_after_jump`` (what the repair cost, not more paths).
+
+        Examples
+        --------
+        >>> counts = PathCounts.of([1, 1, 4], retracked_after_jump=2).add_to({"tracked": 5, "converged": 5})
+        >>> counts["tracked"], counts["converged"], counts["minimum_step"], counts["retracked_after_jump"]
+        (8, 7, 1, 2)
+        """
+        counts["tracked"] = counts.get("tracked", 0) + self.tracked
+        for label, value in self.by_label().items():
+            counts[label] = counts.get(label, 0) + value
+        return counts
+
     def report(self):
         """The ``paths`` block of a solve report."""
         return {"tracked": self.tracked, "converged": self.converged, "singular_endpoint": self.singular_endpoint,

@@ -495,10 +495,7 @@ def _decompose(system, options, seed, progress):
     for k, component in enumerate(components, 1):
         component.id = k
     counts.update(_degree_checks(system, components))
-    move_counts = sum((mover.paths for mover in movers_made), PathCounts())
-    counts["tracked"] = counts.get("tracked", 0) + move_counts.runs  # re-tracks of jumped paths included
-    for label, value in move_counts.by_label().items():
-        counts[label] = counts.get(label, 0) + value
+    sum((mover.paths for mover in movers_made), PathCounts()).add_to(counts)
     return Decomposition(system, components, supersets.dimensions_searched, counts, loops, seed,
                          time.perf_counter() - started)
 
