@@ -12,7 +12,7 @@ import numpy as np
 import scipy.linalg
 
 from ..errors import InputError
-from ..numeric.evaluate import BatchEvaluator, PrecisionEvaluator
+from ..numeric.evaluate import BatchEvaluator, PrecisionEvaluator, TermSizes
 from .intervals import (_SINGULAR, _bounds, _excludes_zero, _frobenius_upper, _iv_box, _iv_point, _magnitude_upper,
                         _terms_lower, _to_iv_matrix, _weyl_norm_squared)
 from .records import _FLOOR_DIGITS_FRACTION, _float_up, _guarded, _parse_center, _text, alpha_zero, working_digits
@@ -197,19 +197,7 @@ def _column_scales(point):
     return np.maximum(magnitudes, 1e-8 * max(float(magnitudes.max(initial=0.0)), 1.0))
 
 
-def _term_sizes(polynomials, scales):
-    """sum_k |c_k| prod_j s_j^a_kj per polynomial: the size of its terms with |x_j| replaced by s_j."""
-    logs = np.log(scales)
-    sizes = np.empty(len(polynomials))
-    for i, p in enumerate(polynomials):
-        if p.n_terms == 0:
-            sizes[i] = 1.0
-            continue
-        sizes[i] = float(np.sum(np.abs(p.numeric_coefficients()) * np.exp(p.exponents @ logs)))
-    return np.where(sizes > 0, sizes, 1.0)
-
-
-def _equilibrated(polynomials, point, evaluator=None):
+def _equilibrated(polynomials, point, evaluator=None, term_sizes=None):
     """Values and Jacobian in units of each equation's terms (rows) and each coordinate's size (columns).
 
     Row i is divided by sum |c_k| |x^a_k| (with |x_j| floored, so a vanishing point still has a scale)
@@ -219,7 +207,7 @@ def _equilibrated(polynomials, point, evaluator=None):
     evaluator = evaluator or BatchEvaluator(polynomials)
     values, jac = evaluator.evaluate(np.asarray(point, dtype=complex)[None, :])
     scales = _column_scales(point)
-    sizes = _term_sizes(polynomials, scales)
+    sizes = (term_sizes or TermSizes(polynomials)).at(scales[None, :])[0]  # terms sized at |x_j|, floored
     return values[0] / sizes, jac[0] * scales[None, :] / sizes[:, None], scales
 
 
@@ -246,11 +234,11 @@ def _near_zero(polynomials, point):
 
 def _gauss_newton_double(polynomials, point, iterations=40):
     """Least-squares Newton in double precision on the equilibrated system; the best point seen."""
-    evaluator = BatchEvaluator(polynomials)
+    evaluator, term_sizes = BatchEvaluator(polynomials), TermSizes(polynomials)
     x = np.array(point, dtype=complex)
     best, best_residual = x.copy(), np.inf
     for _ in range(iterations):
-        values, jac, scales = _equilibrated(polynomials, x, evaluator)
+        values, jac, scales = _equilibrated(polynomials, x, evaluator, term_sizes)
         residual = np.linalg.norm(values)
         if not np.isfinite(residual) or not np.all(np.isfinite(jac)):
             break

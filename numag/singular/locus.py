@@ -42,7 +42,7 @@ import time
 
 import numpy as np
 
-from ..errors import InputError, LimitError, PointError
+from ..errors import InputError, LimitError
 from ..system.polynomial import Polynomial, PolynomialSystem, determinant, linear_space, require_numeric
 from ..numeric.cluster import cluster_labels, groups, normalize_projective
 from ..numeric.evaluate import BatchEvaluator, TermSizes
@@ -54,7 +54,7 @@ from ..tracking.tracker import FAILURE_LABELS
 from ..witness.cascade import combine_equations, linear_form, random_rows, track_moves
 from ..witness.decompose import DecomposeOptions, components_through, decompose, holding_equations, random_minor
 from .kinds import CandidateSystem, Formulation, PieceKind, Verdict
-from .smoothness import CheckOptions, check_points
+from .smoothness import CheckOptions, Unsettled, settled_points
 
 __all__ = ["SingularOptions", "SingularComponent", "SingularLocus", "singular_locus", "FORMULATIONS"]
 
@@ -545,19 +545,19 @@ def _judge(system, point, options, seed, variety):
     singular point whose accuracy the endgame limits (1e-4 at a tacnode, where three paths meet):
     when the check finds the rank dropping within 1e-3 of it, the verdict is taken at that point.
     """
+    if not np.all(np.isfinite(point)):  # no verdict can speak about it (a malformed point, never settled)
+        return None
     for tolerance in (options.point_tolerance, _CANDIDATE_TOLERANCE):
-        try:
-            verdict = check_points(system, [point], replace(options, point_tolerance=tolerance), seed=seed,
-                                   decomposition=variety).points[0]
-        except PointError:
+        report = settled_points(system, [point], replace(options, point_tolerance=tolerance), seed=seed,
+                                decomposition=variety)
+        if isinstance(report, Unsettled):
             continue
+        verdict = report.points[0]
         drop = verdict.nearest_rank_drop
         if (verdict.verdict is Verdict.SMOOTH and drop is not None
                 and verdict.nearest_rank_drop_distance <= _CANDIDATE_TOLERANCE * (1 + np.linalg.norm(point))):
-            try:
-                return check_points(system, [drop], options, seed=seed, decomposition=variety).points[0]
-            except PointError:
-                return verdict
+            at_drop = settled_points(system, [drop], options, seed=seed, decomposition=variety)
+            return verdict if isinstance(at_drop, Unsettled) else at_drop.points[0]
         return verdict
     return None
 
@@ -650,15 +650,14 @@ def _confirmed_by_check(system, pieces, rng, discarded):
         return pieces
     seed = int(rng.integers(2**32))
     points = [piece.points[0] for piece in pieces]
-    try:
-        verdicts = check_points(system, points, seed=seed).points
-    except PointError:  # one point could not be settled: judge them one by one
+    report = settled_points(system, points, seed=seed)
+    if not isinstance(report, Unsettled):
+        verdicts = report.points
+    else:  # one point could not be settled: judge them one by one
         verdicts = []
         for point in points:
-            try:
-                verdicts.append(check_points(system, [point], seed=seed).points[0])
-            except PointError:
-                verdicts.append(None)
+            one = settled_points(system, [point], seed=seed)
+            verdicts.append(None if isinstance(one, Unsettled) else one.points[0])
     kept = []
     for piece, verdict in zip(pieces, verdicts):
         if verdict is None:

@@ -56,7 +56,7 @@ from ..numeric.seeds import random_state
 from ..witness.decompose import components_through
 from .kinds import LocalDimensionSource, Verdict
 
-__all__ = ["CheckOptions", "PointVerdict", "CheckReport", "check_points",
+__all__ = ["CheckOptions", "PointVerdict", "CheckReport", "check_points", "settled_points", "Unsettled",
            "VERDICTS"]
 
 #: The possible verdicts, as text.
@@ -543,6 +543,38 @@ def check_points(system, points, options=None, seed=None, decomposition=None):
     >>> [v.verdict for v in check_points(cone, [[0, 0, 0], [3, 4, 5]], seed=0).points]
     ['singular', 'smooth']
     """
+    report = settled_points(system, points, options, seed, decomposition)
+    if isinstance(report, Unsettled):
+        raise PointError(report.reason, report.index)
+    return report
+
+
+@dataclass(frozen=True)
+class Unsettled:
+    """A point that cannot be moved onto X within the point tolerance: the answer of
+    :func:`settled_points` for a list holding one (the first such point, 1-based, and why)."""
+
+    index: int
+    reason: str
+
+
+def settled_points(system, points, options=None, seed=None, decomposition=None):
+    """:func:`check_points`, with a point that cannot be moved onto X as an answer, not an error.
+
+    Callers that try candidate points (the singular locus) branch on the value; :func:`check_points`
+    raises it as a :class:`~numag.errors.PointError` for the user.
+
+    Returns
+    -------
+    CheckReport or Unsettled
+        Unsettled names the first point that could not be moved onto X (no verdict is computed then).
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> settled_points(parse_system(["x^2 + y^2 - 1"], ["x", "y"]), [[3, 0]], seed=0).index
+    1
+    """
     options = (options or CheckOptions()).validated(system)
     require_numeric(system)
     seed, rng = random_state(seed)
@@ -555,6 +587,8 @@ def check_points(system, points, options=None, seed=None, decomposition=None):
     exact = [None if e is None else [v * d for v, d in zip(e, divisors)] for e in user_exact]
     verdicts = _check_in_units(scaling.scale_system(system), given, exact, options, seed, rng, decomposition,
                                scaling)
+    if isinstance(verdicts, Unsettled):
+        return verdicts
     checker = _Checker(system, options, rng)  # distances in the user's units
     for verdict, point in zip(verdicts, user_given):
         _to_user_units(verdict, point, scaling, checker)
@@ -579,7 +613,8 @@ def _to_user_units(verdict, given, scaling, checker):
 
 
 def _check_in_units(system, given, exact, options, seed, rng, decomposition, scaling):
-    """The verdicts at points of ``system`` (already in computed units; ``decomposition`` in the user's)."""
+    """The verdicts at points of ``system`` (already in computed units; ``decomposition`` in the user's), or
+    the first point that cannot be moved onto X (:class:`Unsettled`)."""
     checker = _Checker(system, options, rng)
     projection = project_to_variety(system, checker.batch, given)
     residual_given = np.max(np.abs(checker.batch.evaluate(given, jacobian=False))
@@ -595,12 +630,12 @@ def _check_in_units(system, given, exact, options, seed, rng, decomposition, sca
         tolerance = checker.tolerance_for(given[k])
         moved = checker.distance(given[k], refined[k])
         if not on_variety[k] or moved > tolerance:
-            raise PointError(
+            return Unsettled(
+                k + 1,
                 f"is not on X: scaled residual {residual_given[k]:.3g}; Newton refinement "
                 + (f"reached a point of X at distance {moved:.3g}, beyond the point tolerance {tolerance:.3g}"
                    if on_variety[k] else
-                   f"did not reach X (scaled residual {projection.residuals[k]:.3g} after refinement)"),
-                k + 1)
+                   f"did not reach X (scaled residual {projection.residuals[k]:.3g} after refinement)"))
     values, scales = checker.scaled_values_double(refined)
     through = [None] * len(given)
     if decomposition is not None and options.local_dimension is None:

@@ -30,7 +30,7 @@ from ..errors import InputError, is_integer, is_number, require_option
 from ..version import __version__
 from ..system.polynomial import PolynomialSystem, require_numeric
 from ..run.checkpoint import RunFolder, manifest_fingerprints
-from ..run.executor import charge_paths, check_memory, make_executor
+from ..run.executor import ambient_executor, charge_paths, check_memory, current_executor, make_executor
 from ..numeric.cluster import cluster_labels, groups, normalize_projective, projective_pivot
 from ..numeric.evaluate import BatchEvaluator, PrecisionEvaluator, TermSizes
 from ..numeric.refine import IsolationTest, mp_gauss_newton
@@ -375,6 +375,24 @@ def _open_folder(execution, describe):
     return folder
 
 
+def _executor_of(execution, batches):
+    """Who runs solve's ``batches`` batches.
+
+    An executor named by ``execution`` (``executor``, or ``workers`` / ``scheduler`` / ``local_dask`` to
+    start one for this call) comes first; otherwise the ambient one of :func:`~numag.run.executor.using`
+    by :func:`~numag.run.executor.ambient_executor`, the rule of every other stage (witness sweeps,
+    monodromy, membership, the singular locus); without either, one chosen by the number of batches
+    (in-process for one batch).
+    """
+    if execution.executor is not None:
+        return execution.executor
+    named = execution.workers is not None or execution.scheduler is not None or execution.local_dask
+    if not named and current_executor() is not None:
+        return ambient_executor(batches)
+    return lambda batches: make_executor(execution.workers, execution.scheduler, execution.local_dask,
+                                         batches=batches)
+
+
 def _run(system, homotopy, start_points, total, options, rng, seed, progress, started, squared, execution=None,
          user_system=None, fresh_homotopy=None):
     """Track all paths (:func:`~numag.tracking.service.track`), then group the endpoints into solutions.
@@ -389,8 +407,7 @@ def _run(system, homotopy, start_points, total, options, rng, seed, progress, st
                  else "the parameter homotopy")
     check_memory(total * (homotopy.size * 16 + 80), f"keeping {total} paths")
     folder = _open_folder(execution, lambda: manifest_for(user_system, options, seed, total))
-    executor = execution.executor or (lambda batches: make_executor(execution.workers, execution.scheduler,
-                                                                    execution.local_dask, batches=batches))
+    executor = _executor_of(execution, -(-total // options.batch_size))
     run = track(homotopy, start_points, options.tracker, count=total, executor=executor, run_folder=folder,
                 batch_size=options.batch_size, progress=progress, projective=system.projective,
                 jump_tolerance=options.cluster_tolerance, fresh_homotopy=fresh_homotopy)

@@ -36,7 +36,7 @@ import numpy as np
 
 from ..errors import InputError, is_integer, is_number, require_option
 from ..system.polynomial import Polynomial, PolynomialSystem
-from ..run.executor import current_executor, charge_paths
+from ..run.executor import ambient_executor, charge_paths
 from ..numeric.cluster import cluster_labels, groups
 from ..numeric.evaluate import BatchEvaluator, TermSizes
 from ..numeric.linalg import scaled_singular_values
@@ -271,8 +271,7 @@ def track_moves(start, target, points, rng, options, batch_size=4096):
         return made, made.start_solutions_from(points)
 
     homotopy, starts = homotopy_with_fresh_gamma()
-    # small moves stay in this process: no transfer cost
-    return track(homotopy, starts, options, executor=current_executor() if count > batch_size else None,
+    return track(homotopy, starts, options, executor=ambient_executor(-(-count // batch_size)),
                  batch_size=batch_size, fresh_homotopy=homotopy_with_fresh_gamma)
 
 
