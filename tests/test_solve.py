@@ -357,9 +357,10 @@ def test_solve_reaches_the_ambient_executor_like_every_stage():
     plain = solve_system(_cubics(), options, seed=4, execution=Execution(workers=1))
     with Recording() as ambient, using(ambient):
         several = solve_system(_cubics(), options, seed=4)
+        seen = ambient.batches_seen  # the 3 batches (and a fresh-gamma repair round's, if one ran)
         single = solve_system(_cubics(), SolveOptions(batch_size=64), seed=4)
         named = solve_system(_cubics(), options, seed=4, execution=Execution(workers=1))
-    assert several.extra["execution"]["executor"] == "recording" and ambient.batches_seen == 3
+    assert several.extra["execution"]["executor"] == "recording" and seen >= 3
     assert single.extra["execution"]["executor"] == "in-process"
-    assert named.extra["execution"]["executor"] == "in-process" and ambient.batches_seen == 3
+    assert named.extra["execution"]["executor"] == "in-process" and ambient.batches_seen == seen
     assert _answer(several) == _answer(plain)  # the same paths whoever runs them (decision 0006)

@@ -24,7 +24,7 @@ import numpy as np
 
 from ..singular.locus import SingularOptions, singular_locus
 from ..singular.kinds import PieceKind
-from .reference import REFERENCE_SCOPE, exact_reference
+from .reference import REFERENCE_SCOPE, ReferenceStatus, exact_reference
 
 __all__ = ["ComparisonRow", "Comparison", "numag_summary", "compare_answers", "compare_system", "VERDICTS"]
 
@@ -85,7 +85,7 @@ class Comparison:
     @property
     def ratio(self):
         """Reference seconds / numag seconds (above 1: numag faster); None when the reference did not finish."""
-        if self.reference.status != "finished" or self.numag_seconds <= 0:
+        if self.reference.status != ReferenceStatus.FINISHED or self.numag_seconds <= 0:
             return None
         return self.reference_seconds / self.numag_seconds
 
@@ -232,7 +232,7 @@ def compare_answers(system, locus, reference, numag_seconds, tolerance=1e-6):
         digits = 16.0 if worst == 0 else min(16.0, -math.log10(worst))
         rows.append(ComparisonRow("largest distance to an exact point", f"{worst:.1e}", f"<= {tolerance:g}",
                                   worst <= tolerance))
-    elif reference.points is None and reference.status == "finished" and exact_dimension == 0:
+    elif reference.points is None and reference.status == ReferenceStatus.FINISHED and exact_dimension == 0:
         notes.append("the reference gave counts but no coordinates (the random form was not separating)")
     if not ours["equidimensional"]:
         notes.append("X is not equidimensional: the reference uses the codimension of its top-dimensional part, "
@@ -243,13 +243,13 @@ def compare_answers(system, locus, reference, numag_seconds, tolerance=1e-6):
         notes.append(f"numag left {ours['undecided']} candidate(s) undecided")
     if any(r.agree is False for r in rows):
         verdict = "mismatch"
-    elif reference.status != "finished" or ours["undecided"] or (components is not None and components.agree is None):
+    elif reference.status != ReferenceStatus.FINISHED or ours["undecided"] or (components is not None and components.agree is None):
         verdict = "incomplete"
-        if reference.status != "finished":
+        if reference.status != ReferenceStatus.FINISHED:
             notes.append(f"reference {reference.status}: {reference.message}")
     else:
         verdict = "agree"
-    reference_seconds = reference.compute_seconds if reference.status == "finished" else reference.seconds
+    reference_seconds = reference.compute_seconds if reference.status == ReferenceStatus.FINISHED else reference.seconds
     return Comparison(system, locus, reference, rows, max_distance, digits, float(numag_seconds),
                       float(reference_seconds if reference_seconds is not None else reference.seconds), verdict,
                       notes=notes)

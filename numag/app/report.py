@@ -227,8 +227,8 @@ def check_report_from_dict(data):
     options = CheckOptions(local_dimension=o["local_dimension"], point_tolerance=o["point_tolerance"],
                            max_digits=o["digits"], suspect_threshold=o["suspect_threshold"],
                            neighbour_samples=o["neighbour_samples"], neighbour_radius=o["neighbour_radius"])
-    return CheckReport(system, [_verdict_from_dict(d) for d in data["points"]], options, data["seed"],
-                       _scaling_from_dict(data, system))
+    return CheckReport(system=system, points=[_verdict_from_dict(d) for d in data["points"]], options=options,
+                       seed=data["seed"], scaling=_scaling_from_dict(data, system))
 
 
 def dumps(data):
@@ -375,9 +375,10 @@ def decomposition_to_dict(result, options):
 def _component_from_dict(d, n):
     points = np.array([decode_point(p) for p in d["points"]], dtype=complex).reshape(-1, n)
     rows = np.array([decode_point(r) for r in d["slice"]], dtype=complex).reshape(-1, n + 1)
-    return Component(int(d["id"]), int(d["dimension"]), int(d["degree"]), points, np.array(d["real"], dtype=bool),
-                     int(d["multiplicity"]), bool(d["reduced"]), rows, bool(d["confirmed"]),
-                     _decode_float(d["trace_defect"]))
+    return Component(id=int(d["id"]), dimension=int(d["dimension"]), degree=int(d["degree"]), points=points,
+                     real=np.array(d["real"], dtype=bool), multiplicity=int(d["multiplicity"]),
+                     reduced=bool(d["reduced"]), slice_rows=rows, confirmed=bool(d["confirmed"]),
+                     trace_defect=_decode_float(d["trace_defect"]))
 
 
 def _counts_from_paths(paths):

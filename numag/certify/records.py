@@ -19,7 +19,8 @@ import numpy as np
 from ..errors import InputError, is_integer, is_number, require_option
 from ..kinds import TextEnum
 
-__all__ = ["CertifyOptions", "Certificate", "ClaimCheck", "Status", "Kind", "Claim", "ClaimStatus",
+__all__ = ["CertifyOptions", "Certificate", "ClaimCheck", "Status", "Kind", "Claim", "ClaimStatus", "Recognition",
+           "Enclosure", "CodimensionNeed",
            "ALPHA_ZERO_TEXT", "alpha_zero", "working_digits", "STATUSES"]
 
 
@@ -57,6 +58,30 @@ class ClaimStatus(TextEnum):
     UNVERIFIED = "not verified"
     CONTRADICTED = "contradicted"    # a numerical recomputation disagrees
     REFUTED = "refuted"              # proved false
+
+
+class Recognition(TextEnum):
+    """What exact recognition found about a point (internal: it decides a certificate's exact part)."""
+
+    ZERO = "zero"          # an exact zero, proved by substitution
+    REFUTED = "refuted"    # an exact form found, and an equation is not zero at it
+    NONE = "none"          # no exact form (the note says why)
+
+
+class Enclosure(TextEnum):
+    """The Krawczyk test on a box: the image inside it (one zero), outside it (none), or neither."""
+
+    INSIDE = "inside"
+    OUTSIDE = "outside"
+    UNKNOWN = "unknown"
+
+
+class CodimensionNeed(TextEnum):
+    """What a claim needs of a codimension: a singular point at least c (rank J < c says singular only if
+    X has codimension at least c there), a smooth point exactly c."""
+
+    AT_LEAST = "at least"
+    EXACTLY = "exactly"
 
 
 #: The three answers of a certificate, as text.

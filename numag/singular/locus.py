@@ -52,7 +52,7 @@ from ..numeric.seeds import resolved_seed
 from ..tracking.solve import SolveOptions, solve_system
 from ..tracking.tracker import FAILURE_LABELS
 from ..witness.cascade import combine_equations, linear_form, random_rows, track_moves
-from ..witness.decompose import DecomposeOptions, components_through, decompose, holding_equations, random_minor
+from ..witness.decompose import DecomposeOptions, Decomposition, components_through, decompose, holding_equations, random_minor
 from .kinds import CandidateSystem, Formulation, PieceKind, Verdict
 from .smoothness import CheckOptions, Unsettled, settled_points
 
@@ -167,15 +167,15 @@ class SingularLocus:
         The units the computation used (points are in the user's units).
     """
 
-    system: object
-    components: list
-    variety: object
-    paths: dict
-    discarded: dict
+    system: PolynomialSystem
+    components: list[SingularComponent]
+    variety: Decomposition | None
+    paths: dict[str, int]
+    discarded: dict[str, int]
     seed: int
     seconds: float
-    notes: list = field(default_factory=list)
-    scaling: object = None
+    notes: list[str] = field(default_factory=list)
+    scaling: Scaling | None = None
 
     def isolated(self):
         """The singular points (dimension 0, kind singular)."""

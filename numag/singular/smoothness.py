@@ -45,7 +45,7 @@ import numpy as np
 
 from ..errors import InputError, PointError, is_integer, is_number, require_option
 from ..system.exact import ExactCoefficient
-from ..system.polynomial import require_numeric
+from ..system.polynomial import PolynomialSystem, require_numeric
 from ..numeric.cluster import line_distance, normalize_projective, projective_pivot
 from ..numeric.evaluate import BatchEvaluator, PrecisionEvaluator, TermSizes
 from ..numeric.linalg import (DOUBLE_DIGITS, RankEvidence, mp_singular_values, numerical_rank,
@@ -126,7 +126,7 @@ class CheckOptions:
         return self
 
 
-@dataclass
+@dataclass(kw_only=True)
 class PointVerdict:
     """The verdict at one point, with everything it rests on.
 
@@ -191,7 +191,7 @@ class PointVerdict:
         return self.local_dimension_source.describe(self.components)
 
 
-@dataclass
+@dataclass(kw_only=True)
 class CheckReport:
     """Verdicts for a list of points of one system.
 
@@ -207,11 +207,11 @@ class CheckReport:
         belong to that problem; points are in the user's units).
     """
 
-    system: object
-    points: list
+    system: PolynomialSystem
+    points: list[PointVerdict]
     options: CheckOptions
     seed: int
-    scaling: object = None
+    scaling: Scaling | None = None
 
     def counts(self):
         """Number of points per verdict (every verdict listed, zeros included)."""
@@ -581,7 +581,7 @@ def settled_points(system, points, options=None, seed=None, decomposition=None):
     user_given, user_exact = _as_points(points, system)
     scaling = Scaling.balancing(system)
     if len(user_given) == 0:
-        return CheckReport(system, [], options, seed, scaling)
+        return CheckReport(system=system, points=[], options=options, seed=seed, scaling=scaling)
     given = scaling.to_computed(user_given)
     divisors = [ExactCoefficient.rational(Fraction(10) ** -c) for c in scaling.variable_exponents]
     exact = [None if e is None else [v * d for v, d in zip(e, divisors)] for e in user_exact]
@@ -592,7 +592,7 @@ def settled_points(system, points, options=None, seed=None, decomposition=None):
     checker = _Checker(system, options, rng)  # distances in the user's units
     for verdict, point in zip(verdicts, user_given):
         _to_user_units(verdict, point, scaling, checker)
-    return CheckReport(system, verdicts, options, seed, scaling)
+    return CheckReport(system=system, points=verdicts, options=options, seed=seed, scaling=scaling)
 
 
 def _to_user_units(verdict, given, scaling, checker):

@@ -82,7 +82,7 @@ class DecomposeOptions:
                        "in (0, 1)", self.trace_tolerance)
 
 
-@dataclass
+@dataclass(kw_only=True)
 class Component:
     """One irreducible component of X.
 
@@ -487,10 +487,11 @@ def _decompose(system, options, seed, progress):
                 if witness.dimension > 0:
                     points, rows = _to_real_slice(mover, points, rows, rng)
                 real = np.all(np.abs(points.imag) <= 1e-8 * (1 + np.abs(points)), axis=1)
-            components.append(Component(0, witness.dimension, len(group), points, real,
-                                        int(np.max(witness.multiplicity[group])),
-                                        bool(np.all(ranks[group] >= codimension)), rows,
-                                        bool(confirmed), 0.0 if defect != defect else float(defect)))
+            components.append(Component(id=0, dimension=witness.dimension, degree=len(group), points=points,
+                                        real=real, multiplicity=int(np.max(witness.multiplicity[group])),
+                                        reduced=bool(np.all(ranks[group] >= codimension)), slice_rows=rows,
+                                        confirmed=bool(confirmed),
+                                        trace_defect=0.0 if defect != defect else float(defect)))
     components.sort(key=lambda c: (-c.dimension, -c.degree))
     for k, component in enumerate(components, 1):
         component.id = k
@@ -544,8 +545,9 @@ def _linear_decomposition(system, options, rng, seed, started):
         right[len(space.pivots):] = -slice_rows[:, 0]
         point = np.linalg.solve(matrix, right)
         real = system.has_real_coefficients
-        components.append(Component(1, space.dimension, 1, point[None, :], np.array([real]), 1, True, slice_rows,
-                                    True, 0.0))
+        components.append(Component(id=1, dimension=space.dimension, degree=1, points=point[None, :],
+                                    real=np.array([real]), multiplicity=1, reduced=True, slice_rows=slice_rows,
+                                    confirmed=True, trace_defect=0.0))
     return Decomposition(system, components, list(range(n, lowest - 1, -1)), counts, {}, seed,
                          time.perf_counter() - started)
 
