@@ -223,6 +223,19 @@ class CheckReport:
         return any(p.verdict is Verdict.UNDECIDED for p in self.points)
 
 
+@dataclass
+class _Decision:
+    """What the rank test at one point decided, and what it rests on."""
+
+    outcome: Verdict | None
+    point: np.ndarray                 # the point the decision speaks about
+    values: object                    # scaled singular values there
+    scales: object                    # the row scales used
+    digits: int
+    drop: np.ndarray | None = None    # a nearby point where the rank drops, when one was found
+    drop_distance: float | None = None
+
+
 def _size(point):
     return math.sqrt(1.0 + float(np.linalg.norm(point)) ** 2)
 
@@ -316,7 +329,7 @@ class _Checker:
 
     # -- one point ---------------------------------------------------------------------------------
     def escalate(self, given, exact_given, refined, codim):
-        """Decide a suspect rank at rising precision. Returns a dict of the decision."""
+        """Decide a suspect rank at rising precision (a :class:`_Decision`)."""
         opts = self.options
         schedule = sorted({d for d in (30, 2 * 30, 4 * 30, 8 * 30) if d < opts.max_digits} | {opts.max_digits})
         schedule = [d for d in schedule if d > DOUBLE_DIGITS] or [opts.max_digits]
@@ -348,21 +361,21 @@ class _Checker:
                     distance = self.distance(given, found)
                     at_found, scales_found = self.scaled_values_mp(self.last_drop_precise, ctx)
                     if distance <= tolerance:
-                        return dict(outcome=Verdict.SINGULAR, point=found, values=at_found, scales=scales_found,
-                                    digits=digits, drop=found, drop_distance=distance)
-                    return dict(outcome=Verdict.SMOOTH, point=np.array(current), values=values, scales=scales,
-                                digits=digits, drop=found, drop_distance=distance)
+                        return _Decision(outcome=Verdict.SINGULAR, point=found, values=at_found, scales=scales_found,
+                                         digits=digits, drop=found, drop_distance=distance)
+                    return _Decision(outcome=Verdict.SMOOTH, point=np.array(current), values=values, scales=scales,
+                                     digits=digits, drop=found, drop_distance=distance)
                 zero = zero_tolerance(digits, (self.m, self.n))
                 if len(history) >= 2:
                     previous, latest = history[-2], history[-1]
                     if latest > zero and previous > 0 and abs(latest - previous) <= 1e-3 * previous:
-                        return dict(outcome=Verdict.SMOOTH, point=np.array(current), values=values, scales=scales,
-                                    digits=digits, drop=None, drop_distance=None)
+                        return _Decision(outcome=Verdict.SMOOTH, point=np.array(current), values=values, scales=scales,
+                                         digits=digits, drop=None, drop_distance=None)
                     if latest <= zero and previous <= zero_tolerance(schedule[len(history) - 2], (self.m, self.n)):
-                        return dict(outcome=Verdict.SINGULAR, point=np.array(current), values=values, scales=scales,
-                                    digits=digits, drop=None, drop_distance=None)
-        return dict(outcome=Verdict.UNDECIDED, point=np.array(current), values=values, scales=scales,
-                    digits=schedule[-1], drop=None, drop_distance=None)
+                        return _Decision(outcome=Verdict.SINGULAR, point=np.array(current), values=values,
+                                         scales=scales, digits=digits, drop=None, drop_distance=None)
+        return _Decision(outcome=Verdict.UNDECIDED, point=np.array(current), values=values, scales=scales,
+                         digits=schedule[-1], drop=None, drop_distance=None)
 
     def rank_drops_near(self, point, codim):
         """Sample nearby points of X; True when the rank drops at every one of them.
@@ -401,25 +414,25 @@ class _Checker:
         if source is LocalDimensionSource.ASSUMED:
             notes.append(f"Local dimension from the assumption that X is a complete intersection at the point "
                          f"(codimension = {self.m} equations); give the local dimension if it is not.")
-        outcome = dict(outcome=None, point=refined, values=values, scales=scales, digits=DOUBLE_DIGITS,
-                       drop=None, drop_distance=None)
+        decision = _Decision(outcome=None, point=refined, values=values, scales=scales, digits=DOUBLE_DIGITS,
+                             drop=None, drop_distance=None)
         escalated = False
         if codim is None:
-            outcome["outcome"] = Verdict.UNDECIDED
+            decision.outcome = Verdict.UNDECIDED
             notes.append("The local dimension is unknown (more equations than the ambient dimension and a "
                          "rank-deficient Jacobian); give it to decide.")
         elif codim == 0:
-            outcome["outcome"] = Verdict.SMOOTH if rank == 0 else Verdict.UNDECIDED
+            decision.outcome = Verdict.SMOOTH if rank == 0 else Verdict.UNDECIDED
         elif codim <= len(values) and values[codim - 1] > opts.suspect_threshold:
-            outcome["outcome"] = Verdict.SMOOTH
+            decision.outcome = Verdict.SMOOTH
         else:
             escalated = True
-            outcome = self.escalate(given, exact_given, refined, codim)
-        digits = outcome["digits"]
+            decision = self.escalate(given, exact_given, refined, codim)
+        digits = decision.digits
         zero = zero_tolerance(digits, (self.m, self.n))
-        final_values = np.array(outcome["values"], dtype=float)
+        final_values = np.array(decision.values, dtype=float)
         rank = numerical_rank(final_values, zero)
-        verdict = outcome["outcome"]
+        verdict = decision.outcome
         if verdict is Verdict.SMOOTH and codim is not None and rank < codim:
             rank = codim  # a stable small singular value: nonzero, only below the zero rule's reach
         if codim is not None and rank > codim:
@@ -427,7 +440,7 @@ class _Checker:
             notes.append(f"The Jacobian has rank {rank}, more than the codimension {codim}: the local "
                          f"dimension used ({self.system.ambient_dimension - codim}) is larger than the tangent "
                          "space allows; the local dimension is wrong for this point.")
-        if verdict is Verdict.SINGULAR and self.rank_drops_near(np.asarray(outcome["point"]), codim):
+        if verdict is Verdict.SINGULAR and self.rank_drops_near(np.asarray(decision.point), codim):
             verdict = Verdict.NON_REDUCED
             notes.append("The rank also drops at every sampled nearby point of X: the equations define X "
                          "with multiplicity > 1 here (generically non-reduced), so the Jacobian cannot see "
@@ -453,23 +466,23 @@ class _Checker:
                              "meet, X is not locally irreducible, so the point is singular whatever the rank.")
         if verdict.is_singular and self.m > 1:
             notes.append(_AS_GIVEN)
-        point = np.asarray(outcome["point"], dtype=complex)
+        point = np.asarray(decision.point, dtype=complex)
         if self.system.projective:
             point = normalize_projective(point)
         evidence = RankEvidence(rank=int(rank), singular_values=final_values,
-                                row_scales=np.asarray(outcome["scales"], dtype=float), tolerance=zero,
+                                row_scales=np.asarray(decision.scales, dtype=float), tolerance=zero,
                                 gap=singular_value_gap(final_values, int(rank)), digits=int(digits),
                                 escalated=escalated, point=point)
         ambient = self.system.ambient_dimension
         local = None if codim is None else ambient - codim
-        drop = outcome["drop"]
+        drop = decision.drop
         return PointVerdict(
             index=index, given=given, point=point, distance=self.distance(given, point), residual=residual,
             verdict=verdict, rank=int(rank), codimension=codim, tangent_dimension=ambient - int(rank),
             local_dimension=local, local_dimension_source=source, evidence=evidence,
             nearest_rank_drop=None if drop is None else (normalize_projective(drop) if self.system.projective
                                                          else np.asarray(drop)),
-            nearest_rank_drop_distance=outcome["drop_distance"], notes=notes,
+            nearest_rank_drop_distance=decision.drop_distance, notes=notes,
             components=[{"id": c.id, "dimension": c.dimension, "degree": c.degree} for c in (through or [])])
 
 
