@@ -15,6 +15,8 @@ equation 2, column 5: unexpected character '$'
         ^
 """
 
+import numbers
+
 __all__ = [
     "NumagError",
     "InputError",
@@ -23,6 +25,9 @@ __all__ = [
     "SystemFileError",
     "PointError",
     "one_line",
+    "require_option",
+    "is_number",
+    "is_integer",
 ]
 
 
@@ -44,6 +49,45 @@ class NumagError(Exception):
 
 class InputError(NumagError, ValueError):
     """The user's input (a file, an option, a point) is not acceptable."""
+
+
+def require_option(condition, name, requirement, value):
+    """Raise InputError ``"<name> must be <requirement>, got <value>"`` unless ``condition`` holds.
+
+    Options are checked on construction (``__post_init__`` of the options dataclasses) with this one
+    message form, so that a bad value is refused where it is given, naming the option.
+
+    Examples
+    --------
+    >>> require_option(0 < 2 < 1, "point_tolerance", "in (0, 1)", 2)
+    Traceback (most recent call last):
+    ...
+    numag.errors.InputError: point_tolerance must be in (0, 1), got 2
+    """
+    if not condition:
+        raise InputError(f"{name} must be {requirement}, got {value!r}")
+
+
+def is_number(value):
+    """A real number that is not a bool (options compare it with bounds).
+
+    Examples
+    --------
+    >>> is_number(0.5), is_number(True), is_number("1")
+    (True, False, False)
+    """
+    return isinstance(value, numbers.Real) and not isinstance(value, bool)
+
+
+def is_integer(value):
+    """An integer that is not a bool (numpy integers included).
+
+    Examples
+    --------
+    >>> is_integer(3), is_integer(3.0), is_integer(False)
+    (True, False, False)
+    """
+    return isinstance(value, numbers.Integral) and not isinstance(value, bool)
 
 
 class LimitError(InputError):

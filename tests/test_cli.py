@@ -249,8 +249,8 @@ def test_progress_rate_counts_only_paths_tracked_in_this_run(capsys):
     import time as _time
     progress = _Progress(quiet=False)
     progress.started = _time.perf_counter() - 10.0
-    progress(500, 1000)  # the starting point: 500 paths read back
+    progress("500 of 1000 paths tracked", done=500, total=1000)  # the starting point: 500 paths read back
     progress.last = -10.0
-    progress(600, 1000)
+    progress("600 of 1000 paths tracked", done=600, total=1000)
     line = capsys.readouterr().err.strip().splitlines()[-1]
     assert "600/1000 paths (60%)" in line and " 10 paths/s" in line and "about 40 s left" in line

@@ -198,3 +198,29 @@ def test_a_jump_that_joins_two_components_is_undone_by_the_trace_test_of_the_par
         result = decompose(system, seed=seed)
         assert sorted(summary(result)) == [(1, 2), (1, 3)]
         assert all(c.confirmed for c in result.components)
+
+
+@pytest.mark.parametrize("seed", [1, 2, 3])
+def test_path_statuses_add_up_after_a_jump_repair(seed, monkeypatch):
+    # The paths block of a report adds up (converged + singular + at infinity + failed = tracked); a
+    # jump repair re-tracks paths, counted apart (common practice, no source: each path is counted once).
+    # A jump is made to happen: the first regular endpoint of each homotopy is reported as shared once.
+    import numag.tracking.service as service
+    from numag.app.report import decomposition_path_counts
+    real_crossed, faked = service._crossed, set()
+
+    def crossed_once(run, projective, tolerance):
+        found = real_crossed(run, projective, tolerance)
+        regular = np.nonzero(run.status == service.PathStatus.CONVERGED)[0]
+        if len(found) == 0 and id(run) not in faked and len(regular):
+            faked.add(id(run))
+            return regular[:1]
+        return found
+
+    monkeypatch.setattr(service, "_crossed", crossed_once)
+    # a circle and a line through it (two components, degrees 2 and 1; common practice, no source)
+    result = decompose(parse_system(["(x^2 + y^2 - 1)*(x - 2*y)"], ["x", "y"]), seed=seed)
+    assert sorted(c.degree for c in result.components) == [1, 2]
+    assert result.paths.get("retracked_after_jump", 0) > 0
+    block = decomposition_path_counts(result.paths)
+    assert block["tracked"] == block["converged"] + block["singular_endpoint"] + block["at_infinity"] + block["failed"]

@@ -1,8 +1,9 @@
 """Imports flow one way, in pipeline order: system -> run -> numeric -> tracking -> witness -> singular -> families ->
 certify -> anatomy -> app (common practice, no source: a layered package keeps its dependency graph acyclic).
 
-A module may import its own package and any earlier package, never a later one; ``numag.errors`` and
-``numag.version`` are below every package. Within a package, the module-level imports form no cycle.
+A module may import its own package and any earlier package, never a later one; ``numag.errors``,
+``numag.kinds`` and ``numag.version`` are below every package. Within a package, the module-level
+imports form no cycle.
 """
 
 import ast
@@ -12,7 +13,7 @@ import numag
 
 # The pipeline: a package may import only itself and the packages before it. `run` (executors, run
 # folders) sits below `numeric` so that evaluation can charge memory and the tracker can use executors.
-FOUNDATION = ("errors", "version")
+FOUNDATION = ("errors", "kinds", "version")
 PACKAGES = ("system", "run", "numeric", "tracking", "witness", "singular", "families", "certify", "anatomy", "app")
 TOP = ("__init__", "__main__")
 PACKAGE_ROOT = pathlib.Path(numag.__file__).parent

@@ -338,3 +338,29 @@ def test_an_edited_manifest_is_refused_on_resume(tmp_path):
     with pytest.raises(InputError, match="fingerprint mismatch in: system"):
         solve_system(_cubics(), SolveOptions(batch_size=10), seed=1,
                      execution=Execution(run_folder=str(folder), resume=True))
+
+
+def test_solve_reaches_the_ambient_executor_like_every_stage():
+    # One way to an executor: `using` reaches solve as it reaches the witness stages; one batch stays
+    # here, several go to the ambient executor; an executor named in Execution still comes first.
+    from numag.run.executor import InProcess, using
+    from numag.tracking.solve import Execution
+
+    class Recording(InProcess):
+        name = "recording"
+
+        def run(self, function, batches, attempts=2):
+            self.batches_seen = getattr(self, "batches_seen", 0) + len(batches)
+            return super().run(function, batches, attempts)
+
+    options = SolveOptions(batch_size=10)
+    plain = solve_system(_cubics(), options, seed=4, execution=Execution(workers=1))
+    with Recording() as ambient, using(ambient):
+        several = solve_system(_cubics(), options, seed=4)
+        seen = ambient.batches_seen  # the 3 batches (and a fresh-gamma repair round's, if one ran)
+        single = solve_system(_cubics(), SolveOptions(batch_size=64), seed=4)
+        named = solve_system(_cubics(), options, seed=4, execution=Execution(workers=1))
+    assert several.extra["execution"]["executor"] == "recording" and seen >= 3
+    assert single.extra["execution"]["executor"] == "in-process"
+    assert named.extra["execution"]["executor"] == "in-process" and ambient.batches_seen == seen
+    assert _answer(several) == _answer(plain)  # the same paths whoever runs them (decision 0006)

@@ -23,7 +23,8 @@ import time
 import numpy as np
 
 from ..singular.locus import SingularOptions, singular_locus
-from .reference import REFERENCE_SCOPE, exact_reference
+from ..singular.kinds import PieceKind
+from .reference import REFERENCE_SCOPE, ReferenceStatus, exact_reference
 
 __all__ = ["ComparisonRow", "Comparison", "numag_summary", "compare_answers", "compare_system", "VERDICTS"]
 
@@ -84,7 +85,7 @@ class Comparison:
     @property
     def ratio(self):
         """Reference seconds / numag seconds (above 1: numag faster); None when the reference did not finish."""
-        if self.reference.status != "finished" or self.numag_seconds <= 0:
+        if self.reference.status != ReferenceStatus.FINISHED or self.numag_seconds <= 0:
             return None
         return self.reference_seconds / self.numag_seconds
 
@@ -111,9 +112,9 @@ def numag_summary(locus):
         top = system.n_variables - 2
         degree = system.polynomials[0].degree
         equidimensional = True
-    compared = [c for c in locus.components if c.kind in ("singular", "non-reduced")
+    compared = [c for c in locus.components if c.kind in (PieceKind.SINGULAR, PieceKind.NON_REDUCED)
                 and (system.projective or not c.at_infinity)]
-    undecided = [c for c in locus.components if c.kind == "undecided"]
+    undecided = [c for c in locus.components if c.kind is PieceKind.UNDECIDED]
     singular_dimension = max((c.dimension for c in compared), default=-1)
     points = [c.points[0] for c in compared if c.dimension == 0]
     summary = {"variety_dimension": top, "variety_degree": degree, "equidimensional": equidimensional,
@@ -231,7 +232,7 @@ def compare_answers(system, locus, reference, numag_seconds, tolerance=1e-6):
         digits = 16.0 if worst == 0 else min(16.0, -math.log10(worst))
         rows.append(ComparisonRow("largest distance to an exact point", f"{worst:.1e}", f"<= {tolerance:g}",
                                   worst <= tolerance))
-    elif reference.points is None and reference.status == "finished" and exact_dimension == 0:
+    elif reference.points is None and reference.status == ReferenceStatus.FINISHED and exact_dimension == 0:
         notes.append("the reference gave counts but no coordinates (the random form was not separating)")
     if not ours["equidimensional"]:
         notes.append("X is not equidimensional: the reference uses the codimension of its top-dimensional part, "
@@ -242,13 +243,13 @@ def compare_answers(system, locus, reference, numag_seconds, tolerance=1e-6):
         notes.append(f"numag left {ours['undecided']} candidate(s) undecided")
     if any(r.agree is False for r in rows):
         verdict = "mismatch"
-    elif reference.status != "finished" or ours["undecided"] or (components is not None and components.agree is None):
+    elif reference.status != ReferenceStatus.FINISHED or ours["undecided"] or (components is not None and components.agree is None):
         verdict = "incomplete"
-        if reference.status != "finished":
+        if reference.status != ReferenceStatus.FINISHED:
             notes.append(f"reference {reference.status}: {reference.message}")
     else:
         verdict = "agree"
-    reference_seconds = reference.compute_seconds if reference.status == "finished" else reference.seconds
+    reference_seconds = reference.compute_seconds if reference.status == ReferenceStatus.FINISHED else reference.seconds
     return Comparison(system, locus, reference, rows, max_distance, digits, float(numag_seconds),
                       float(reference_seconds if reference_seconds is not None else reference.seconds), verdict,
                       notes=notes)
@@ -265,8 +266,8 @@ def compare_system(system, seconds=60.0, seed=None, options=None, tolerance=1e-6
     seed : int, optional
     options : SingularOptions, optional
     tolerance : float
-    progress : callable, optional
-        One-line messages.
+    progress : Progress, optional
+        Told one-line messages (:mod:`numag.run.progress`).
 
     Returns
     -------

@@ -47,7 +47,9 @@ import tempfile
 import threading
 import time
 
-__all__ = ["ReferenceAnswer", "exact_reference", "system_to_plain", "REFERENCE_SCOPE"]
+from ..kinds import TextEnum
+
+__all__ = ["ReferenceAnswer", "ReferenceStatus", "exact_reference", "system_to_plain", "REFERENCE_SCOPE"]
 
 # What the child runs: this numag, found by the folder given as its first argument.
 _CHILD_ENTRY = "import sys; sys.path.insert(0, sys.argv[1]); from numag.app.reference import _main; _main()"
@@ -62,14 +64,22 @@ REFERENCE_SCOPE = ("exact reference (sympy Groebner bases): dimension and degree
                    "compared.")
 
 
+class ReferenceStatus(TextEnum):
+    """How the exact reference ended."""
+
+    FINISHED = "finished"
+    TIMED_OUT = "timed out"
+    FAILED = "failed"              # ``message`` says why
+    UNAVAILABLE = "unavailable"    # no sympy
+
+
 @dataclass
 class ReferenceAnswer:
     """The exact reference's answer (fields are None where it did not get that far).
 
     Attributes
     ----------
-    status : str
-        "finished", "timed out", "failed" (``message`` says why) or "unavailable" (no sympy).
+    status : ReferenceStatus
     seconds : float
         Wall time of the child process (with interpreter start and sympy's import).
     compute_seconds : float or None
@@ -95,7 +105,7 @@ class ReferenceAnswer:
     message : str
     """
 
-    status: str
+    status: ReferenceStatus
     seconds: float = 0.0
     compute_seconds: object = None
     variety_dimension: object = None
@@ -502,19 +512,19 @@ def exact_reference(system, seconds=60.0, seed=0):
         child.wait()
         workdir.cleanup()
     elapsed = time.perf_counter() - started
-    answer = ReferenceAnswer(status="timed out", seconds=elapsed)
+    answer = ReferenceAnswer(status=ReferenceStatus.TIMED_OUT, seconds=elapsed)
     for message in messages:
         body = message.get("partial") or message.get("final") or {}
         for key, value in body.items():
             setattr(answer, key, value)
         if "status" in message:
-            answer.status = message["status"]
+            answer.status = ReferenceStatus.parse(message["status"], "reference status")
             answer.message = message.get("message", "")
     if any("final" in m for m in messages):
-        answer.status = "finished"
-    elif answer.status == "timed out":
+        answer.status = ReferenceStatus.FINISHED
+    elif answer.status is ReferenceStatus.TIMED_OUT:
         if ended:
-            answer.status, answer.message = "failed", f"the reference process ended early (exit code {child.returncode})"
+            answer.status, answer.message = ReferenceStatus.FAILED, f"the reference process ended early (exit code {child.returncode})"
         else:
             answer.message = f"no answer within {seconds:g} s (child process killed)"
     if answer.points is not None:

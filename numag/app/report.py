@@ -43,6 +43,7 @@ from ..witness.cascade import WitnessOptions
 from ..witness.decompose import Component, Decomposition, DecomposeOptions
 from ..singular.locus import SingularComponent, SingularLocus, SingularOptions
 from ..singular.smoothness import CheckOptions, CheckReport, PointVerdict
+from ..singular.kinds import CandidateSystem, LocalDimensionSource, PieceKind, Verdict
 from ..certify.certificates import (certify_rank, certify_regular_zero, certify_singular_point,
                                     certify_smooth_point, overlapping_pairs)
 from ..certify.records import (ALPHA_ZERO_TEXT, Certificate, CertifyOptions, Claim, ClaimCheck, ClaimStatus, Kind,
@@ -117,7 +118,7 @@ def _verdict_to_dict(v):
         "index": v.index, "given": encode_point(v.given), "point": encode_point(v.point),
         "distance": float(v.distance), "residual": float(v.residual), "verdict": v.verdict, "rank": v.rank,
         "codimension": v.codimension, "tangent_dimension": v.tangent_dimension,
-        "local_dimension": v.local_dimension, "local_dimension_source": v.local_dimension_source,
+        "local_dimension": v.local_dimension, "local_dimension_source": v.local_dimension_text(),
         "evidence": _evidence_to_dict(v.evidence),
         "nearest_rank_drop": None if v.nearest_rank_drop is None else encode_point(v.nearest_rank_drop),
         "nearest_rank_drop_distance": _encode_float(v.nearest_rank_drop_distance),
@@ -129,9 +130,11 @@ def _verdict_to_dict(v):
 def _verdict_from_dict(d):
     return PointVerdict(
         index=int(d["index"]), given=decode_point(d["given"]), point=decode_point(d["point"]),
-        distance=float(d["distance"]), residual=float(d["residual"]), verdict=d["verdict"], rank=d["rank"],
+        distance=float(d["distance"]), residual=float(d["residual"]), verdict=Verdict.parse(d["verdict"], "verdict"),
+        rank=d["rank"],
         codimension=d["codimension"], tangent_dimension=d["tangent_dimension"],
-        local_dimension=d["local_dimension"], local_dimension_source=d["local_dimension_source"],
+        local_dimension=d["local_dimension"],
+        local_dimension_source=LocalDimensionSource.from_text(d["local_dimension_source"]),
         evidence=_evidence_from_dict(d["evidence"]),
         nearest_rank_drop=None if d["nearest_rank_drop"] is None else decode_point(d["nearest_rank_drop"]),
         nearest_rank_drop_distance=_decode_float(d["nearest_rank_drop_distance"]), notes=list(d["notes"]),
@@ -224,8 +227,8 @@ def check_report_from_dict(data):
     options = CheckOptions(local_dimension=o["local_dimension"], point_tolerance=o["point_tolerance"],
                            max_digits=o["digits"], suspect_threshold=o["suspect_threshold"],
                            neighbour_samples=o["neighbour_samples"], neighbour_radius=o["neighbour_radius"])
-    return CheckReport(system, [_verdict_from_dict(d) for d in data["points"]], options, data["seed"],
-                       _scaling_from_dict(data, system))
+    return CheckReport(system=system, points=[_verdict_from_dict(d) for d in data["points"]], options=options,
+                       seed=data["seed"], scaling=_scaling_from_dict(data, system))
 
 
 def dumps(data):
@@ -372,9 +375,10 @@ def decomposition_to_dict(result, options):
 def _component_from_dict(d, n):
     points = np.array([decode_point(p) for p in d["points"]], dtype=complex).reshape(-1, n)
     rows = np.array([decode_point(r) for r in d["slice"]], dtype=complex).reshape(-1, n + 1)
-    return Component(int(d["id"]), int(d["dimension"]), int(d["degree"]), points, np.array(d["real"], dtype=bool),
-                     int(d["multiplicity"]), bool(d["reduced"]), rows, bool(d["confirmed"]),
-                     _decode_float(d["trace_defect"]))
+    return Component(id=int(d["id"]), dimension=int(d["dimension"]), degree=int(d["degree"]), points=points,
+                     real=np.array(d["real"], dtype=bool), multiplicity=int(d["multiplicity"]),
+                     reduced=bool(d["reduced"]), slice_rows=rows, confirmed=bool(d["confirmed"]),
+                     trace_defect=_decode_float(d["trace_defect"]))
 
 
 def _counts_from_paths(paths):
@@ -447,18 +451,21 @@ def singular_from_dict(data):
     components = []
     for d in data["components"]:
         points = np.array([decode_point(p) for p in d["points"]], dtype=complex)
-        components.append(SingularComponent(int(d["id"]), int(d["dimension"]), int(d["degree"]), points,
-                                            np.array(d["real"], dtype=bool), d["multiplicity"],
-                                            bool(d["at_infinity"]), d["formulation"], d["kind"],
-                                            list(d["on_components"]), d["rank"], d["codimension"], list(d["notes"])))
+        components.append(SingularComponent(
+            id=int(d["id"]), dimension=int(d["dimension"]), degree=int(d["degree"]), points=points,
+            real=np.array(d["real"], dtype=bool), multiplicity=d["multiplicity"], at_infinity=bool(d["at_infinity"]),
+            formulation=CandidateSystem.parse(d["formulation"], "formulation"),
+            kind=PieceKind.parse(d["kind"], "kind"), on_components=list(d["on_components"]), rank=d["rank"],
+            codimension=d["codimension"], notes=list(d["notes"])))
     counts = _counts_from_paths(data["paths"])
     variety = None
     if data["variety"]:
         parts = [_component_from_dict(d, system.n_variables) for d in data["variety"]]
         variety = Decomposition(system, parts, [], {}, {}, data["seed"], 0.0,
                                 scaling=_scaling_from_dict(data, system))
-    result = SingularLocus(system, components, variety, counts, dict(data["discarded"]), data["seed"],
-                           float(data["seconds"]), list(data["notes"]), _scaling_from_dict(data, system))
+    result = SingularLocus(system=system, components=components, variety=variety, paths=counts,
+                           discarded=dict(data["discarded"]), seed=data["seed"], seconds=float(data["seconds"]),
+                           notes=list(data["notes"]), scaling=_scaling_from_dict(data, system))
     return result, options
 
 
@@ -531,7 +538,7 @@ def _not_certified(reason, point, digits):
 class _Task:
     """One point to certify (travels to worker processes)."""
 
-    claim: str                # "regular", "smooth", "singular" or "rank"
+    claim: Claim              # REGULAR_ZERO, SMOOTH_POINT, SINGULAR_POINT or RANK
     system: PolynomialSystem
     point: np.ndarray
     options: CertifyOptions
@@ -542,12 +549,12 @@ class _Task:
 
 
 def _run_task(task):
-    if task.claim == "regular":
+    if task.claim is Claim.REGULAR_ZERO:
         return certify_regular_zero(task.system, task.point, task.options, at_infinity=task.at_infinity,
                                     multiplicity=task.multiplicity)
-    if task.claim == "smooth":
+    if task.claim is Claim.SMOOTH_POINT:
         return certify_smooth_point(task.system, task.point, task.codimension, task.options)
-    if task.claim == "rank":
+    if task.claim is Claim.RANK:
         return certify_rank(task.system, task.point, task.options)
     return certify_singular_point(task.system, task.point, task.codimension, task.options, slices=task.slices,
                                   at_infinity=task.at_infinity)
@@ -575,7 +582,7 @@ def _singular_tasks(system, component, options, where):
     points = [_point_of({"p": p}, "p", system, at_infinity, f"{where}, point {k}")
               for k, p in enumerate(component["points"], 1)]
     digits = options.digits
-    if component["kind"] == "non-reduced":
+    if component["kind"] == PieceKind.NON_REDUCED:
         return [_not_certified("a generically non-reduced component of X: the equations cannot tell whether "
                                "the variety is smooth there", p, digits) for p in points]
     codimension = component.get("codimension")
@@ -585,18 +592,18 @@ def _singular_tasks(system, component, options, where):
                     for p in points]
         codimension = 1
     dimension = int(component["dimension"])
-    return [_Task("singular", system, p, options, int(codimension), dimension, at_infinity) for p in points]
+    return [_Task(Claim.SINGULAR_POINT, system, p, options, int(codimension), dimension, at_infinity) for p in points]
 
 
 def _check_task(system, verdict, options, where):
     point = _point_of(verdict, "point", system, False, where)
     codimension = verdict.get("codimension")
-    if verdict["verdict"] == "smooth" and codimension is not None:
-        return _Task("smooth", system, point, options, int(codimension))
-    if verdict["verdict"] == "singular" and codimension is not None:
-        return _Task("singular", system, point, options, int(codimension))
+    if verdict["verdict"] == Verdict.SMOOTH and codimension is not None:
+        return _Task(Claim.SMOOTH_POINT, system, point, options, int(codimension))
+    if verdict["verdict"] == Verdict.SINGULAR and codimension is not None:
+        return _Task(Claim.SINGULAR_POINT, system, point, options, int(codimension))
     # no claim the certificate could prove (or no codimension to prove it with): the rank of J, proved
-    return _Task("rank", system, point, options)
+    return _Task(Claim.RANK, system, point, options)
 
 
 def _require(condition, where, what):
@@ -659,8 +666,8 @@ def certify_report(data, options=None, progress=None, executor=None):
     data : dict
         The JSON envelope (it is not modified).
     options : CertifyOptions, optional
-    progress : callable, optional
-        Called with a one-line message as points are certified.
+    progress : Progress, optional
+        Told a one-line message as points are certified (:mod:`numag.run.progress`).
     executor : numag.run.executor.Executor, optional
         Runs the points in batches (worker processes, Dask); default in-process.
 
@@ -700,7 +707,7 @@ def certify_report(data, options=None, progress=None, executor=None):
                 for k, entry in enumerate(data[key], 1):
                     infinity = at_infinity and not system.projective
                     point = _point_of(entry, "point", system, infinity, f"{key} {k}")
-                    task = _Task("regular", system, point, options, at_infinity=infinity,
+                    task = _Task(Claim.REGULAR_ZERO, system, point, options, at_infinity=infinity,
                                  multiplicity=None if infinity else entry.get("multiplicity"))
                     slots.append((entry, "certificate", "infinity" if infinity else "affine", task))
         elif command == "singular":
@@ -749,7 +756,7 @@ def certify_report(data, options=None, progress=None, executor=None):
         else:
             entry[key] = encoded
     counts = {status: sum(c.status == status for c in every) for status in STATUSES}
-    kinds = {kind: sum(c.status == "certified" and c.kind == kind for c in every) for kind in ("numerical", "exact")}
+    kinds = {kind.value: sum(c.status == Status.CERTIFIED and c.kind == kind for c in every) for kind in Kind}
     failed_claims = [f"{check.name}: reported {check.reported}, {check.status} ({check.how})"
                      for c in every for check in c.failed_claims]
     data["certification"] = {

@@ -95,8 +95,8 @@ from .equations import _minor_equations, _restrict, _top_form, singularity_equat
 from .intervals import _bounds, _iv_box
 from .rank import (_box_around, _chart_view, _dual_multiplicity, _numerical_ranks, _proved_rank,
                    _sampled_codimension)
-from .records import (Certificate, CertifyOptions, Claim, ClaimCheck, ClaimStatus, Kind, Status, _float_up,
-                      _guarded, _parse_center, _text, working_digits)
+from .records import (Certificate, CertifyOptions, Claim, ClaimCheck, ClaimStatus, CodimensionNeed, Kind, Status,
+                      _float_up, _guarded, _parse_center, _text, working_digits)
 from .square import _gauss_newton_double
 from .zeros import _certify_zero
 
@@ -207,10 +207,10 @@ def _codimension_check(polynomials, certificate, codimension, claim_needs):
         return ClaimCheck("codimension", codimension, None, ClaimStatus.REFUTED,
                           f"rank J >= {certificate.rank_lower} is proved on the box, so X has codimension at least "
                           f"{certificate.rank_lower} there")
-    if claim_needs == "at least" and codimension == 1 and nonzero:
+    if claim_needs is CodimensionNeed.AT_LEAST and codimension == 1 and nonzero:
         return ClaimCheck("codimension", 1, 1, ClaimStatus.PROVED,
                           "F has a nonzero equation: codimension at least 1")
-    if claim_needs == "exactly" and codimension == m and certificate.rank_lower is not None \
+    if claim_needs is CodimensionNeed.EXACTLY and codimension == m and certificate.rank_lower is not None \
             and certificate.rank_lower >= m:
         return ClaimCheck("codimension", codimension, m, ClaimStatus.PROVED,
                           f"rank J >= {m} on the box and Krull's theorem (at most {m})")
@@ -326,7 +326,7 @@ def certify_singular_point(system, point, codimension=None, options=None, projec
     certificate.lower_singular_value = None if bound is None or bound == mpmath.mp.inf else _float_up(bound)
     if certificate.kind == Kind.EXACT:
         certificate.rank_upper = codimension - 1
-    check = _codimension_check(polynomials, certificate, codimension, "at least")
+    check = _codimension_check(polynomials, certificate, codimension, CodimensionNeed.AT_LEAST)
     if check is None and at_infinity:
         check = ClaimCheck("codimension", codimension, None, ClaimStatus.UNVERIFIED,
                            "points at infinity: no points of the closure are sampled")
@@ -453,7 +453,7 @@ def certify_smooth_point(system, point, codimension, options=None, projective=No
     certificate = _with_rising_precision(attempt, options)
     if not certificate.certified:
         return certificate
-    check = _codimension_check(polynomials, certificate, c, "exactly")
+    check = _codimension_check(polynomials, certificate, c, CodimensionNeed.EXACTLY)
     if check is None:
         check = _sampled_check(_rank_polynomials(system, certificate, projective, False)[0],
                                _chart_center(certificate, certificate.chart), c, options.seed)

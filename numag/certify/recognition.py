@@ -22,7 +22,7 @@ import numpy as np
 from ..errors import LimitError
 from ..system.exact import ExactCoefficient, square_free_split
 from .intervals import _bounds, _iv_point
-from .records import Certificate, Kind, Status, _float_up, _guarded, _parse_center, _text, working_digits
+from .records import Certificate, Kind, Recognition, Status, _float_up, _guarded, _parse_center, _text, working_digits
 from .square import _equilibrated
 
 __all__ = ["separation_exponent"]
@@ -166,7 +166,7 @@ class _Quotient:
 
 @dataclass
 class _ExactOutcome:
-    outcome: str                 # "zero", "refuted" or "none"
+    outcome: Recognition
     coordinates: object = None
     minimal_polynomial: object = None
     note: str = ""
@@ -185,7 +185,7 @@ def _exact_route(square, required, chosen, center, radii, options, digits):
     with working_digits(precision + 10):
         refined, converged = square.newton(center, precision)
         if not converged:
-            return _ExactOutcome("none", note="exact recognition skipped: high-precision refinement failed")
+            return _ExactOutcome(Recognition.NONE, note="exact recognition skipped: high-precision refinement failed")
         # each coordinate in units of its power of ten (exact): a change of units (x -> 1000 x) would
         # otherwise multiply the minimal polynomial's coefficients beyond what PSLQ finds at this precision
         negligible = mp.mpf(10) ** (-(precision // 2)) * max([abs(refined[j]) for j in range(n)] + [mp.mpf(1)])
@@ -229,20 +229,20 @@ def _exact_route(square, required, chosen, center, radii, options, digits):
             form = " + ".join(f"{w}*x{j + 1}" + (f"/10^{e}" if e else "")
                               for j, w, e in zip(range(n), itertools.cycle(weights), powers_of_ten))
             if all(required_zero):
-                return _ExactOutcome("zero", texts, minimal,
+                return _ExactOutcome(Recognition.ZERO, texts, minimal,
                                      "exact: every equation vanishes identically modulo the minimal polynomial of "
                                      f"t = {form}, and its root lies in the box (PSLQ at {precision} digits)")
             if square_zero:
-                return _ExactOutcome("refuted", texts, minimal,
+                return _ExactOutcome(Recognition.REFUTED, texts, minimal,
                                      f"the only zero of the square subsystem in the box is exact (t = {form}, PSLQ "
                                      f"at {precision} digits), and an equation of the claim is not 0 there",
                                      required_zero.index(False))
-    return _ExactOutcome("none", note=f"no exact form found (primitive element of degree up to {top} over the "
+    return _ExactOutcome(Recognition.NONE, note=f"no exact form found (primitive element of degree up to {top} over the "
                                       "coefficient field)")
 
 
 def _apply_exact(certificate, outcome):
-    if outcome.outcome == "none":
+    if outcome.outcome is Recognition.NONE:
         certificate.notes.append(outcome.note)
         return
     certificate.kind = Kind.EXACT
@@ -250,7 +250,7 @@ def _apply_exact(certificate, outcome):
     certificate.exact_coordinates = outcome.coordinates
     certificate.minimal_polynomial = outcome.minimal_polynomial
     certificate.notes.append(outcome.note)
-    if outcome.outcome == "zero":
+    if outcome.outcome is Recognition.ZERO:
         certificate.status, certificate.reason = Status.CERTIFIED, ""
         certificate.backward_error = 0.0  # an exact zero of every equation
     else:

@@ -12,28 +12,19 @@ Examples
 
 from contextlib import contextmanager
 from dataclasses import dataclass, field
-from enum import Enum
 
 import mpmath
 import numpy as np
 
-from ..errors import InputError
+from ..errors import InputError, is_integer, is_number, require_option
+from ..kinds import TextEnum
 
-__all__ = ["CertifyOptions", "Certificate", "ClaimCheck", "Status", "Kind", "Claim", "ClaimStatus",
+__all__ = ["CertifyOptions", "Certificate", "ClaimCheck", "Status", "Kind", "Claim", "ClaimStatus", "Recognition",
+           "Enclosure", "CodimensionNeed",
            "ALPHA_ZERO_TEXT", "alpha_zero", "working_digits", "STATUSES"]
 
 
-class _TextEnum(str, Enum):
-    """An enum whose members are their text (JSON and f-strings print the value)."""
-
-    __str__ = str.__str__
-    __format__ = str.__format__
-
-    def __repr__(self):
-        return repr(self.value)
-
-
-class Status(_TextEnum):
+class Status(TextEnum):
     """The three answers of a certificate."""
 
     CERTIFIED = "certified"
@@ -41,14 +32,14 @@ class Status(_TextEnum):
     UNDECIDED = "undecided"
 
 
-class Kind(_TextEnum):
+class Kind(TextEnum):
     """What a certificate rests on: interval bounds (numerical) or an exact identity (exact)."""
 
     NUMERICAL = "numerical"
     EXACT = "exact"
 
 
-class Claim(_TextEnum):
+class Claim(TextEnum):
     """What a certificate speaks about."""
 
     REGULAR_ZERO = "regular zero"
@@ -59,7 +50,7 @@ class Claim(_TextEnum):
     RANK = "rank"
 
 
-class ClaimStatus(_TextEnum):
+class ClaimStatus(TextEnum):
     """How a claim of a report fared against F."""
 
     PROVED = "proved"
@@ -67,6 +58,30 @@ class ClaimStatus(_TextEnum):
     UNVERIFIED = "not verified"
     CONTRADICTED = "contradicted"    # a numerical recomputation disagrees
     REFUTED = "refuted"              # proved false
+
+
+class Recognition(TextEnum):
+    """What exact recognition found about a point (internal: it decides a certificate's exact part)."""
+
+    ZERO = "zero"          # an exact zero, proved by substitution
+    REFUTED = "refuted"    # an exact form found, and an equation is not zero at it
+    NONE = "none"          # no exact form (the note says why)
+
+
+class Enclosure(TextEnum):
+    """The Krawczyk test on a box: the image inside it (one zero), outside it (none), or neither."""
+
+    INSIDE = "inside"
+    OUTSIDE = "outside"
+    UNKNOWN = "unknown"
+
+
+class CodimensionNeed(TextEnum):
+    """What a claim needs of a codimension: a singular point at least c (rank J < c says singular only if
+    X has codimension at least c there), a smooth point exactly c."""
+
+    AT_LEAST = "at least"
+    EXACTLY = "exactly"
 
 
 #: The three answers of a certificate, as text.
@@ -166,20 +181,25 @@ class CertifyOptions:
         """The backward error a certified point must stay below."""
         return 10.0 ** (-(self.digits - self.guard_digits))
 
+    def __post_init__(self):
+        """Refuse a bad value on construction, naming the option."""
+        require_option(is_integer(self.digits) and 16 <= self.digits <= 10000, "digits",
+                       "an integer from 16 to 10000", self.digits)
+        require_option(self.max_digits is None or (is_integer(self.max_digits)
+                                                   and self.digits <= self.max_digits <= 10000),
+                       "max_digits", f"an integer from digits ({self.digits}) to 10000", self.max_digits)
+        require_option(is_number(self.match_radius) and self.match_radius > 0, "match radius", "positive",
+                       self.match_radius)
+        require_option(is_integer(self.max_deflations) and self.max_deflations >= 0, "max_deflations", ">= 0",
+                       self.max_deflations)
+        require_option(is_integer(self.exact_max_degree) and self.exact_max_degree >= 1, "exact_max_degree", ">= 1",
+                       self.exact_max_degree)
+        require_option(is_integer(self.max_minors) and self.max_minors >= 1, "max_minors", ">= 1", self.max_minors)
+        require_option(is_integer(self.guard_digits) and 1 <= self.guard_digits <= self.digits - 8, "guard_digits",
+                       "from 1 to digits - 8", self.guard_digits)
+
     def validated(self):
-        """A copy checked for sense; raises InputError naming the bad option."""
-        if not isinstance(self.digits, int) or isinstance(self.digits, bool) or not 16 <= self.digits <= 10000:
-            raise InputError(f"digits must be an integer from 16 to 10000, got {self.digits!r}")
-        if self.max_digits is not None and (not isinstance(self.max_digits, int) or isinstance(self.max_digits, bool)
-                                            or not self.digits <= self.max_digits <= 10000):
-            raise InputError(f"max_digits must be an integer from digits ({self.digits}) to 10000, "
-                             f"got {self.max_digits!r}")
-        if not self.match_radius > 0:
-            raise InputError(f"match radius must be positive, got {self.match_radius!r}")
-        if self.max_deflations < 0 or self.exact_max_degree < 1 or self.max_minors < 1:
-            raise InputError("max_deflations must be >= 0, exact_max_degree and max_minors >= 1")
-        if not 1 <= self.guard_digits <= self.digits - 8:
-            raise InputError(f"guard_digits must be from 1 to digits - 8, got {self.guard_digits!r}")
+        """The options (checked on construction); kept so that callers read the same as for the other options."""
         return self
 
 

@@ -12,10 +12,11 @@ import numpy as np
 import scipy.linalg
 
 from ..errors import InputError
-from ..numeric.evaluate import BatchEvaluator, PrecisionEvaluator
+from ..numeric.evaluate import BatchEvaluator, PrecisionEvaluator, TermSizes
 from .intervals import (_SINGULAR, _bounds, _excludes_zero, _frobenius_upper, _iv_box, _iv_point, _magnitude_upper,
                         _terms_lower, _to_iv_matrix, _weyl_norm_squared)
-from .records import _FLOOR_DIGITS_FRACTION, _float_up, _guarded, _parse_center, _text, alpha_zero, working_digits
+from .records import (_FLOOR_DIGITS_FRACTION, Enclosure, _float_up, _guarded, _parse_center, _text, alpha_zero,
+                      working_digits)
 
 __all__ = ["alpha_test"]
 
@@ -99,7 +100,7 @@ class _Square:
         return [image[j] for j in range(n)]
 
     def krawczyk(self, center, radii, real=False):
-        """('inside' | 'outside' | 'unknown', centre used, image) for the box of ``radii`` around ``center``.
+        """(:class:`Enclosure`, centre used, image) for the box of ``radii`` around ``center``.
 
         'inside' (the image strictly inside the box) proves exactly one zero in the box, a regular
         one; 'outside' (disjoint in some coordinate) proves none. With ``real`` the centre's
@@ -110,7 +111,7 @@ class _Square:
             center = [mp.mpc(c.real, 0) for c in center]
         image = self.image(center, _iv_box(center, radii))
         if image is None:
-            return "unknown", center, None
+            return Enclosure.UNKNOWN, center, None
         inside, outside = True, False
         for j in range(self.n):
             lo_re, hi_re, lo_im, hi_im = _bounds(image[j])
@@ -120,8 +121,8 @@ class _Square:
             if hi_re < c.real - r or lo_re > c.real + r or hi_im < c.imag - r or lo_im > c.imag + r:
                 outside = True
         if outside:
-            return "outside", center, image
-        return ("inside" if inside else "unknown"), center, image
+            return Enclosure.OUTSIDE, center, image
+        return (Enclosure.INSIDE if inside else Enclosure.UNKNOWN), center, image
 
     def alpha(self, center):
         """(alpha upper bound, beta upper bound) at ``center`` in interval arithmetic, or (None, None)."""
@@ -197,19 +198,7 @@ def _column_scales(point):
     return np.maximum(magnitudes, 1e-8 * max(float(magnitudes.max(initial=0.0)), 1.0))
 
 
-def _term_sizes(polynomials, scales):
-    """sum_k |c_k| prod_j s_j^a_kj per polynomial: the size of its terms with |x_j| replaced by s_j."""
-    logs = np.log(scales)
-    sizes = np.empty(len(polynomials))
-    for i, p in enumerate(polynomials):
-        if p.n_terms == 0:
-            sizes[i] = 1.0
-            continue
-        sizes[i] = float(np.sum(np.abs(p.numeric_coefficients()) * np.exp(p.exponents @ logs)))
-    return np.where(sizes > 0, sizes, 1.0)
-
-
-def _equilibrated(polynomials, point, evaluator=None):
+def _equilibrated(polynomials, point, evaluator=None, term_sizes=None):
     """Values and Jacobian in units of each equation's terms (rows) and each coordinate's size (columns).
 
     Row i is divided by sum |c_k| |x^a_k| (with |x_j| floored, so a vanishing point still has a scale)
@@ -219,7 +208,7 @@ def _equilibrated(polynomials, point, evaluator=None):
     evaluator = evaluator or BatchEvaluator(polynomials)
     values, jac = evaluator.evaluate(np.asarray(point, dtype=complex)[None, :])
     scales = _column_scales(point)
-    sizes = _term_sizes(polynomials, scales)
+    sizes = (term_sizes or TermSizes(polynomials)).at(scales[None, :])[0]  # terms sized at |x_j|, floored
     return values[0] / sizes, jac[0] * scales[None, :] / sizes[:, None], scales
 
 
@@ -246,11 +235,11 @@ def _near_zero(polynomials, point):
 
 def _gauss_newton_double(polynomials, point, iterations=40):
     """Least-squares Newton in double precision on the equilibrated system; the best point seen."""
-    evaluator = BatchEvaluator(polynomials)
+    evaluator, term_sizes = BatchEvaluator(polynomials), TermSizes(polynomials)
     x = np.array(point, dtype=complex)
     best, best_residual = x.copy(), np.inf
     for _ in range(iterations):
-        values, jac, scales = _equilibrated(polynomials, x, evaluator)
+        values, jac, scales = _equilibrated(polynomials, x, evaluator, term_sizes)
         residual = np.linalg.norm(values)
         if not np.isfinite(residual) or not np.all(np.isfinite(jac)):
             break
@@ -360,7 +349,7 @@ def _proved_box(square, center, digits, real_coefficients):
         attempts = [True] if real_coefficients and all(abs(c.imag) < r / 4 for c, r in zip(center, radii)) else []
         for real in attempts + [False]:
             outcome, used, image = square.krawczyk(center, radii, real=real)
-            if outcome != "inside":
+            if outcome is not Enclosure.INSIDE:
                 continue
             if real:
                 realness = True  # one zero in a box symmetric under conjugation: its conjugate is itself
@@ -396,7 +385,7 @@ def _publish(square, box, digits):
         if box.method != "Krawczyk":
             return texts, radii
         outcome, _, _ = square.krawczyk(parsed, [mp.mpf(r) for r in radii])
-        if outcome == "inside":
+        if outcome is Enclosure.INSIDE:
             return texts, radii
     # not seen in practice: the written box holds the proved one (so the zero), uniqueness was shown for
     # the proved box only

@@ -12,7 +12,7 @@ from .deflation import _locate
 from .equations import _is_constant, _is_rational, _restrict
 from .intervals import _holds_zero, _iv_box
 from .recognition import _ExactOutcome, _apply_exact, _exact_at_point, _exact_route, _separation
-from .records import Certificate, Kind, Status, _float_up, _guarded, _text, alpha_zero, working_digits
+from .records import Certificate, Kind, Recognition, Status, _float_up, _guarded, _text, alpha_zero, working_digits
 from .square import _account, _publish, _refute
 
 
@@ -183,11 +183,11 @@ def _settle(required, point, options, claim, digits, pinned, exact_check, box, r
         exact_allowed = exact_check and options.exact and all(p.is_exact for p in required + list(chosen))
         if exact_allowed:
             outcome = _exact_route(square, required, list(chosen), box.center, box.radii, options, digits)
-            if outcome.outcome == "refuted" and not pure:
-                outcome = _ExactOutcome("none", note="the exact zero of the deflated square subsystem is not a zero "
+            if outcome.outcome is Recognition.REFUTED and not pure:
+                outcome = _ExactOutcome(Recognition.NONE, note="the exact zero of the deflated square subsystem is not a zero "
                                                      "of the claim (other zeros of the claim may lie in the box)")
             _apply_exact(certificate, outcome)
-            if outcome.outcome != "none":
+            if outcome.outcome is not Recognition.NONE:
                 return certificate, None
         if exact_allowed and rest and _is_rational(required + list(chosen)):
             proved, needed, note = _separation(list(chosen), rest, accounting)

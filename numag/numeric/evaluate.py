@@ -317,7 +317,21 @@ class TermSizes:
 
     def values(self, points):
         """Size of each equation's terms at each point, shape (P, m)."""
-        return _positive(self._evaluator.evaluate(self.reference(points), jacobian=False).real)
+        return self.at(self.reference(points))
+
+    def at(self, reference):
+        """Size of each equation's terms, sum_k |c_k| prod_j rho_j^a_kj, at reference points rho chosen by
+        the caller (shape (P, n), positive), shape (P, m). Certification sizes terms at |x_j| floored
+        relative to the largest coordinate (:func:`numag.certify.square._equilibrated`).
+
+        Examples
+        --------
+        >>> import numpy as np
+        >>> from numag.system.parse import parse_system
+        >>> TermSizes(parse_system(["x^2 - 3*y"], ["x", "y"]).polynomials).at(np.array([[2.0, 1e-3]]))
+        array([[4.003]])
+        """
+        return _positive(self._evaluator.evaluate(np.asarray(reference, dtype=float), jacobian=False).real)
 
     def gradients(self, points):
         """Size of each Jacobian row's terms at each point (2-norm over the variables), shape (P, m)."""

@@ -42,7 +42,8 @@ import weakref
 from ..errors import InputError, LimitError
 
 __all__ = ["Executor", "InProcess", "LocalPool", "DaskCluster", "BatchFailure", "make_executor", "default_workers",
-           "using", "current_executor", "WorkLimits", "work_limits", "charge_paths", "check_memory", "abort_workers"]
+           "using", "current_executor", "ambient_executor", "WorkLimits", "work_limits", "charge_paths", "check_memory",
+           "abort_workers"]
 
 
 @dataclass(frozen=True)
@@ -148,6 +149,22 @@ def using(executor):
 def current_executor():
     """The executor set by :func:`using`, or None (then stages run their batches in-process)."""
     return _CURRENT.get()
+
+
+def ambient_executor(batches):
+    """The executor of :func:`using` for a run of ``batches`` batches, or None to run them here.
+
+    The one rule by which every stage reaches an executor: a run of one batch stays in this process
+    (sending it to a worker costs a transfer and gains nothing), a longer one goes to the ambient
+    executor, if any.
+
+    Examples
+    --------
+    >>> with InProcess() as executor, using(executor):
+    ...     ambient_executor(3) is executor, ambient_executor(1)
+    (True, None)
+    """
+    return current_executor() if batches > 1 else None
 
 
 @dataclass

@@ -42,7 +42,7 @@ import time
 
 import numpy as np
 
-from ..errors import InputError, LimitError, PointError
+from ..errors import InputError, LimitError
 from ..system.polynomial import Polynomial, PolynomialSystem, determinant, linear_space, require_numeric
 from ..numeric.cluster import cluster_labels, groups, normalize_projective
 from ..numeric.evaluate import BatchEvaluator, TermSizes
@@ -52,13 +52,14 @@ from ..numeric.seeds import resolved_seed
 from ..tracking.solve import SolveOptions, solve_system
 from ..tracking.tracker import FAILURE_LABELS
 from ..witness.cascade import combine_equations, linear_form, random_rows, track_moves
-from ..witness.decompose import DecomposeOptions, components_through, decompose, holding_equations, random_minor
-from .smoothness import CheckOptions, check_points
+from ..witness.decompose import DecomposeOptions, Decomposition, components_through, decompose, holding_equations, random_minor
+from .kinds import CandidateSystem, Formulation, PieceKind, Verdict
+from .smoothness import CheckOptions, Unsettled, settled_points
 
 __all__ = ["SingularOptions", "SingularComponent", "SingularLocus", "singular_locus", "FORMULATIONS"]
 
-#: Ways of writing "rank J < c" as equations.
-FORMULATIONS = ("auto", "minors", "null vector", "gradient")
+#: Ways of writing "rank J < c" as equations, as text (the choices of ``--formulation``).
+FORMULATIONS = Formulation.texts()
 
 
 @dataclass(frozen=True)
@@ -67,7 +68,7 @@ class SingularOptions:
 
     Attributes
     ----------
-    formulation : str
+    formulation : Formulation or str
         "auto" (the gradient system for projective hypersurfaces; otherwise per codimension the
         minors when they are few, else the cheaper by a path estimate of random minors and the
         null-vector form), "minors", "null vector" or "gradient" (hypersurfaces only).
@@ -83,21 +84,23 @@ class SingularOptions:
         size). Hypersurfaces always get them (cheap: solved on the hyperplane).
     """
 
-    formulation: str = "auto"
+    formulation: Formulation = Formulation.AUTO
     decompose: DecomposeOptions = DecomposeOptions()
     max_exact_minors: int = 24
     digits: int = 50
     infinity_for_systems: bool = False
 
+    def __post_init__(self):
+        # Text from the command line or a report becomes a member here (InputError naming the option).
+        object.__setattr__(self, "formulation", Formulation.parse(self.formulation, "formulation"))
+
     def validated(self, system):
-        if self.formulation not in FORMULATIONS:
-            raise InputError(f"unknown formulation {self.formulation!r}; choose one of {', '.join(FORMULATIONS)}")
-        if self.formulation == "gradient" and system.n_equations != 1:
+        if self.formulation is Formulation.GRADIENT and system.n_equations != 1:
             raise InputError("the gradient formulation is for hypersurfaces (one equation); use 'minors'")
         return self
 
 
-@dataclass
+@dataclass(kw_only=True)
 class SingularComponent:
     """One piece of the singular locus.
 
@@ -113,11 +116,12 @@ class SingularComponent:
     multiplicity : int or None
         Paths of the formulation that ended at the point (isolated points), else None.
     at_infinity : bool
-    formulation : str
-        "minors", "random minors", "null vector", "gradient system".
-    kind : str
-        "singular" or "non-reduced" (a whole component of X of multiplicity > 1: the
-        equations cannot tell whether the variety is smooth there), or "undecided".
+    formulation : CandidateSystem
+        The system the piece came from: minors, random minors, null vector, gradient system
+        (at infinity).
+    kind : PieceKind
+        Singular, or non-reduced (a whole component of X of multiplicity > 1: the
+        equations cannot tell whether the variety is smooth there), or undecided.
     on_components : list of int
         Ids of the components of X through the witness point.
     rank, codimension : int or None
@@ -131,17 +135,17 @@ class SingularComponent:
     degree: int
     points: np.ndarray
     real: np.ndarray
-    multiplicity: object
+    multiplicity: int | None
     at_infinity: bool
-    formulation: str
-    kind: str
-    on_components: list = field(default_factory=list)
-    rank: object = None
-    codimension: object = None
-    notes: list = field(default_factory=list)
+    formulation: CandidateSystem
+    kind: PieceKind
+    on_components: list[int] = field(default_factory=list)
+    rank: int | None = None
+    codimension: int | None = None
+    notes: list[str] = field(default_factory=list)
 
 
-@dataclass
+@dataclass(kw_only=True)
 class SingularLocus:
     """Result of :func:`singular_locus`.
 
@@ -163,19 +167,19 @@ class SingularLocus:
         The units the computation used (points are in the user's units).
     """
 
-    system: object
-    components: list
-    variety: object
-    paths: dict
-    discarded: dict
+    system: PolynomialSystem
+    components: list[SingularComponent]
+    variety: Decomposition | None
+    paths: dict[str, int]
+    discarded: dict[str, int]
     seed: int
     seconds: float
-    notes: list = field(default_factory=list)
-    scaling: object = None
+    notes: list[str] = field(default_factory=list)
+    scaling: Scaling | None = None
 
     def isolated(self):
         """The singular points (dimension 0, kind singular)."""
-        return [c for c in self.components if c.dimension == 0 and c.kind == "singular"]
+        return [c for c in self.components if c.dimension == 0 and c.kind is PieceKind.SINGULAR]
 
 
 def _add_counts(total, counts):
@@ -207,8 +211,8 @@ def minors_system(system, codimension, rng, max_exact, n_columns=None):
     Returns
     -------
     PolynomialSystem
-    str
-        "minors" or "random minors".
+    CandidateSystem
+        MINORS or RANDOM_MINORS.
     """
     m = system.n_equations
     n = system.n_variables if n_columns is None else int(n_columns)
@@ -216,14 +220,14 @@ def minors_system(system, codimension, rng, max_exact, n_columns=None):
     count = math.comb(m, codimension) * math.comb(n, codimension)
     equations = [p.numeric() for p in system.polynomials]
     if count <= max_exact:
-        kind = "minors"
+        kind = CandidateSystem.MINORS
         for chosen_rows in itertools.combinations(range(m), codimension):
             for chosen_cols in itertools.combinations(range(n), codimension):
                 minor = determinant([[rows[i][j] for j in chosen_cols] for i in chosen_rows])
                 if not minor.is_zero():
                     equations.append(minor * (1.0 / minor.coefficient_norm()))
     else:
-        kind = "random minors"
+        kind = CandidateSystem.RANDOM_MINORS
         for _ in range(n - codimension + 1):
             minor = random_minor(equations[:m], codimension, rng, n)
             if not minor.is_zero():
@@ -271,11 +275,12 @@ def null_vector_system(system, codimension, rng):
 
 
 def _estimated_paths(system, variety, codimension, kind):
-    """Rough path counts of the two formulations on the components of codimension c (for "auto")."""
+    """Rough path counts of the two formulations (MINORS, NULL_VECTOR) on the components of codimension c
+    (for AUTO)."""
     n = system.n_variables
     degree = sum(c.degree for c in variety.components if n - c.dimension == codimension) or 1
     top = max(system.degrees)
-    if kind == "minors":
+    if kind is Formulation.MINORS:
         return degree * float(codimension * max(top - 1, 1)) ** (n - codimension + 1)
     return degree * float(top) ** n
 
@@ -356,7 +361,7 @@ def _projected_candidates(system, null_system, candidates, rng, options, paths):
         run = track_moves(held + [linear_form(r) for r in component.slice_rows],
                           held + [linear_form(r) for r in target_rows], component.points, rng,
                           options.decompose.witness.tracker)
-        _add_counts(paths, run.counts.by_label())
+        run.counts.add_to(paths)
         ends = run.affine_endpoints()
         ends = ends[np.all(np.isfinite(ends), axis=1)][:, :n]
         if len(ends) == 0:
@@ -377,8 +382,8 @@ def singular_locus(system, options=None, seed=None, progress=None):
     options : SingularOptions, optional
     seed : int, optional
         Drawn and recorded when not given.
-    progress : callable, optional
-        ``progress(message)``.
+    progress : Progress, optional
+        Told a message as each stage starts (:mod:`numag.run.progress`).
 
     Returns
     -------
@@ -409,21 +414,22 @@ def _singular_locus(system, options, seed, progress):
     paths, discarded, notes = {}, {}, []
     if linear_space(system) is not None:  # J is constant of full rank on X: no singular point, no homotopy
         variety = decompose(system, options.decompose, seed=int(rng.integers(2**32)), progress=progress)
-        return SingularLocus(system, [], variety, paths, discarded, seed, time.perf_counter() - started,
-                             ["every equation is linear: X is a linear space (or empty), smooth at every point, "
-                              "with no singular point"])
+        return SingularLocus(system=system, components=[], variety=variety, paths=paths, discarded=discarded,
+                             seed=seed, seconds=time.perf_counter() - started,
+                             notes=["every equation is linear: X is a linear space (or empty), smooth at every "
+                                    "point, with no singular point"])
     if system.projective:
-        if system.n_equations == 1 and options.formulation in ("auto", "gradient"):
+        if system.n_equations == 1 and options.formulation in (Formulation.AUTO, Formulation.GRADIENT):
             components, variety = _projective_gradient(system, rng, paths, discarded, progress), None
         else:
             components, variety = _projective_chart(system, options, rng, paths, discarded, notes, progress)
     else:
         components, variety = _affine(system, options, rng, paths, discarded, progress, notes)
         if system.n_equations == 1:
-            try:
-                affine_curves = any(c.dimension > 0 for c in components)
-                components += _at_infinity(system, rng, paths, progress, affine_curves)
-            except InputError:
+            at_infinity = _at_infinity(system, rng, paths, progress, any(c.dimension > 0 for c in components))
+            if at_infinity is not None:
+                components += at_infinity
+            else:
                 notes.append("The closure of X is singular or non-reduced along a positive-dimensional set at "
                              "infinity; its points at infinity are not listed.")
         elif options.infinity_for_systems:
@@ -444,7 +450,8 @@ def _singular_locus(system, options, seed, progress):
             paths["degree_check_failed"] = paths.get("degree_check_failed", 0) + 1
             notes.append(f"{isolated} isolated singular points found, more than the (d - 1)^n = {bound} a "
                          "hypersurface of this degree can have: some point was counted twice.")
-    return SingularLocus(system, components, variety, paths, discarded, seed, time.perf_counter() - started, notes)
+    return SingularLocus(system=system, components=components, variety=variety, paths=paths, discarded=discarded,
+                         seed=seed, seconds=time.perf_counter() - started, notes=notes)
 
 
 def _affine(system, options, rng, paths, discarded, progress, notes_out=None):
@@ -463,19 +470,20 @@ def _affine(system, options, rng, paths, discarded, progress, notes_out=None):
             continue
         exact = math.comb(system.n_equations, codimension) * math.comb(n, codimension) <= options.max_exact_minors
         formulation = options.formulation
-        if formulation in ("auto", "gradient"):
-            formulation = "minors" if exact or (_estimated_paths(system, variety, codimension, "minors")
-                                                <= _estimated_paths(system, variety, codimension, "null")) \
-                else "null vector"
+        if formulation in (Formulation.AUTO, Formulation.GRADIENT):
+            formulation = Formulation.MINORS if exact or (
+                _estimated_paths(system, variety, codimension, Formulation.MINORS)
+                <= _estimated_paths(system, variety, codimension, Formulation.NULL_VECTOR)) \
+                else Formulation.NULL_VECTOR
         augmented = None
-        if formulation != "null vector":
+        if formulation is not Formulation.NULL_VECTOR:
             try:
                 augmented, kind = minors_system(system, codimension, rng, options.max_exact_minors)
             except LimitError as err:  # the expanded minors are too large: the null-vector form has no minors
                 notes_out.append(f"codimension {codimension}: the minors are too large to expand ({err}); the "
                                  "null-vector formulation was used instead.")
         if augmented is None:
-            augmented, kind = null_vector_system(system, codimension, rng), "null vector"
+            augmented, kind = null_vector_system(system, codimension, rng), CandidateSystem.NULL_VECTOR
         if progress is not None:
             progress(f"codimension {codimension}: decomposing the {kind} system ({augmented.n_equations} equations "
                      f"in {augmented.n_variables} unknowns)")
@@ -486,7 +494,7 @@ def _affine(system, options, rng, paths, discarded, progress, notes_out=None):
             notes_out.append(f"{failed} path(s) of the {kind} system for codimension {codimension} failed: singular "
                              "points there may be missing (a singular endpoint the endgame could not settle). "
                              "Run again with another --seed or --formulation to compare.")
-        if kind == "null vector":
+        if kind is CandidateSystem.NULL_VECTOR:
             projected = _projected_candidates(system, augmented, candidates, rng, options, paths)
         else:
             projected = [(c.dimension, c.points, c.multiplicity if c.dimension == 0 else None,
@@ -506,18 +514,18 @@ def _affine(system, options, rng, paths, discarded, progress, notes_out=None):
             if verdict is None:  # Newton cannot settle the point (a singular curve can make it drift)
                 discarded["not_settled_on_X"] = discarded.get("not_settled_on_X", 0) + 1
                 continue
-            if verdict.verdict == "smooth":
+            if verdict.verdict is Verdict.SMOOTH:
                 discarded["smooth_on_check"] = discarded.get("smooth_on_check", 0) + 1
                 continue
             through = [c["id"] for c in verdict.components]
-            kind_of = {"singular": "singular", "non-reduced": "non-reduced"}.get(verdict.verdict, "undecided")
+            piece_kind = PieceKind.of_verdict(verdict.verdict)
             notes = []
-            if kind_of == "non-reduced":
+            if piece_kind is PieceKind.NON_REDUCED:
                 whole = [c for c in verdict.components if c["dimension"] == candidate.dimension]
                 if not whole:
                     notes.append("A proper subset of a non-reduced component of X: the Jacobian cannot decide "
                                  "whether the variety is singular here.")
-                    kind_of = "undecided"
+                    piece_kind = PieceKind.UNDECIDED
             points = candidate.points
             if candidate.dimension == 0 and np.linalg.norm(verdict.point - point) <= _CANDIDATE_TOLERANCE * (
                     1 + np.linalg.norm(point)):
@@ -525,10 +533,11 @@ def _affine(system, options, rng, paths, discarded, progress, notes_out=None):
                 if _already(found, oracles, candidate, points[0]) is not None:  # two candidates, one point
                     discarded["duplicate"] = discarded.get("duplicate", 0) + 1
                     continue
-            found.append(SingularComponent(0, candidate.dimension, candidate.degree, points,
-                                           _real_flags(system, points), multiplicity, False, kind,
-                                           kind_of, through, verdict.rank, verdict.codimension,
-                                           notes + list(verdict.notes)))
+            found.append(SingularComponent(
+                id=0, dimension=candidate.dimension, degree=candidate.degree, points=points,
+                real=_real_flags(system, points), multiplicity=multiplicity, at_infinity=False, formulation=kind,
+                kind=piece_kind, on_components=through, rank=verdict.rank, codimension=verdict.codimension,
+                notes=notes + list(verdict.notes)))
             oracles.append(oracle)
     return found, variety
 
@@ -540,19 +549,19 @@ def _judge(system, point, options, seed, variety):
     singular point whose accuracy the endgame limits (1e-4 at a tacnode, where three paths meet):
     when the check finds the rank dropping within 1e-3 of it, the verdict is taken at that point.
     """
+    if not np.all(np.isfinite(point)):  # no verdict can speak about it (a malformed point, never settled)
+        return None
     for tolerance in (options.point_tolerance, _CANDIDATE_TOLERANCE):
-        try:
-            verdict = check_points(system, [point], replace(options, point_tolerance=tolerance), seed=seed,
-                                   decomposition=variety).points[0]
-        except PointError:
+        report = settled_points(system, [point], replace(options, point_tolerance=tolerance), seed=seed,
+                                decomposition=variety)
+        if isinstance(report, Unsettled):
             continue
+        verdict = report.points[0]
         drop = verdict.nearest_rank_drop
-        if (verdict.verdict == "smooth" and drop is not None
+        if (verdict.verdict is Verdict.SMOOTH and drop is not None
                 and verdict.nearest_rank_drop_distance <= _CANDIDATE_TOLERANCE * (1 + np.linalg.norm(point))):
-            try:
-                return check_points(system, [drop], options, seed=seed, decomposition=variety).points[0]
-            except PointError:
-                return verdict
+            at_drop = settled_points(system, [drop], options, seed=seed, decomposition=variety)
+            return verdict if isinstance(at_drop, Unsettled) else at_drop.points[0]
         return verdict
     return None
 
@@ -622,8 +631,10 @@ def _projective_gradient(system, rng, paths, discarded, progress):
         if residual > _GRADIENT_RESIDUAL:
             discarded["not_on_X"] = discarded.get("not_on_X", 0) + 1
             continue
-        piece = SingularComponent(0, 0, 1, point[None, :], _real_flags(system, point[None, :]),
-                                  solution.multiplicity, False, "gradient system", "singular", [], None, 1)
+        piece = SingularComponent(id=0, dimension=0, degree=1, points=point[None, :],
+                                  real=_real_flags(system, point[None, :]), multiplicity=solution.multiplicity,
+                                  at_infinity=False, formulation=CandidateSystem.GRADIENT, kind=PieceKind.SINGULAR,
+                                  on_components=[], rank=None, codimension=1)
         (doubtful if residual > _SETTLED_RESIDUAL else pieces).append(piece)
     pieces += _confirmed_by_check(system, doubtful, rng, discarded)
     if result.not_isolated:
@@ -643,25 +654,24 @@ def _confirmed_by_check(system, pieces, rng, discarded):
         return pieces
     seed = int(rng.integers(2**32))
     points = [piece.points[0] for piece in pieces]
-    try:
-        verdicts = check_points(system, points, seed=seed).points
-    except PointError:  # one point could not be settled: judge them one by one
+    report = settled_points(system, points, seed=seed)
+    if not isinstance(report, Unsettled):
+        verdicts = report.points
+    else:  # one point could not be settled: judge them one by one
         verdicts = []
         for point in points:
-            try:
-                verdicts.append(check_points(system, [point], seed=seed).points[0])
-            except PointError:
-                verdicts.append(None)
+            one = settled_points(system, [point], seed=seed)
+            verdicts.append(None if isinstance(one, Unsettled) else one.points[0])
     kept = []
     for piece, verdict in zip(pieces, verdicts):
         if verdict is None:
             discarded["not_settled_on_X"] = discarded.get("not_settled_on_X", 0) + 1
-        elif verdict.verdict in ("singular", "non-reduced"):
+        elif verdict.verdict.is_singular:
             kept.append(piece)
-        elif verdict.verdict == "smooth":
+        elif verdict.verdict is Verdict.SMOOTH:
             discarded["smooth_on_check"] = discarded.get("smooth_on_check", 0) + 1
         else:
-            piece.kind = "undecided"
+            piece.kind = PieceKind.UNDECIDED
             kept.append(piece)
     return kept
 
@@ -705,6 +715,9 @@ def _at_infinity(system, rng, paths, progress, affine_curves=True):
     Tracking the whole closure instead sends paths to these points, often very singular ones.
     ``affine_curves``: the affine singular locus has a positive-dimensional piece (then each point is
     tested for lying on a singular set that leaves the hyperplane).
+
+    Returns the singular points at infinity, or None when the closure is singular (or non-reduced) along a
+    positive-dimensional set at infinity (its points are then not listed: the caller says so).
     """
     f = system.polynomials[0].numeric().homogenize(0)
     restricted = []
@@ -716,20 +729,20 @@ def _at_infinity(system, rng, paths, progress, affine_curves=True):
     restricted = [p for p in restricted if not p.is_zero()]
     if any(p.degree == 0 for p in restricted):  # a partial that is a nonzero constant there: no singular point
         return []
-    if not restricted:
-        raise InputError("the closure is singular along the whole hyperplane at infinity")
+    if not restricted:  # the closure is singular along the whole hyperplane at infinity
+        return None
     if system.n_variables == 1:
         return []
     hyperplane = PolynomialSystem(list(system.variables), restricted, projective=True)
-    if hyperplane.n_equations < system.n_variables - 1:
-        raise InputError("the closure is singular along a positive-dimensional set at infinity")
+    if hyperplane.n_equations < system.n_variables - 1:  # too few partials: a positive-dimensional set
+        return None
     if progress is not None:
         progress("singular points at infinity")
     result = solve_system(hyperplane, SolveOptions(square_up=hyperplane.n_equations > system.n_variables - 1),
                           seed=int(rng.integers(2**32)))
     _add_counts(paths, result.path_counts())
     if result.not_isolated:
-        raise InputError("the closure is singular along a positive-dimensional set at infinity")
+        return None
     pieces = []
     gradient = [g for g in f.gradient() if not g.is_zero()]
     for solution in result.solutions:
@@ -746,11 +759,12 @@ def _at_infinity(system, rng, paths, progress, affine_curves=True):
             chart = PolynomialSystem([f"u{j}" for j in range(system.n_variables)],
                                      [g.dehomogenize(pivot) for g in gradient])
             isolated = IsolationTest(chart, rng).isolated(np.delete(point / point[pivot], pivot))
-        if not isolated:
-            raise InputError("the closure is singular or non-reduced along a positive-dimensional set at infinity")
-        pieces.append(SingularComponent(0, 0, 1, point[None, :], _real_flags(system, solution.point[None, :]),
-                                        solution.multiplicity, True, "gradient system at infinity", "singular",
-                                        [], None, 1))
+        if not isolated:  # the point lies on a positive-dimensional singular or non-reduced set
+            return None
+        pieces.append(SingularComponent(
+            id=0, dimension=0, degree=1, points=point[None, :], real=_real_flags(system, solution.point[None, :]),
+            multiplicity=solution.multiplicity, at_infinity=True, formulation=CandidateSystem.GRADIENT_AT_INFINITY,
+            kind=PieceKind.SINGULAR, on_components=[], rank=None, codimension=1))
     return pieces
 
 

@@ -43,9 +43,9 @@ import math
 import mpmath
 import numpy as np
 
-from ..errors import InputError, PointError
+from ..errors import InputError, PointError, is_integer, is_number, require_option
 from ..system.exact import ExactCoefficient
-from ..system.polynomial import require_numeric
+from ..system.polynomial import PolynomialSystem, require_numeric
 from ..numeric.cluster import line_distance, normalize_projective, projective_pivot
 from ..numeric.evaluate import BatchEvaluator, PrecisionEvaluator, TermSizes
 from ..numeric.linalg import (DOUBLE_DIGITS, RankEvidence, mp_singular_values, numerical_rank,
@@ -54,12 +54,13 @@ from ..numeric.refine import RankDropSystem, mp_gauss_newton, project_to_variety
 from ..numeric.scaling import Scaling
 from ..numeric.seeds import random_state
 from ..witness.decompose import components_through
+from .kinds import LocalDimensionSource, Verdict
 
-__all__ = ["CheckOptions", "PointVerdict", "CheckReport", "check_points",
+__all__ = ["CheckOptions", "PointVerdict", "CheckReport", "check_points", "settled_points", "Unsettled",
            "VERDICTS"]
 
-#: The possible verdicts.
-VERDICTS = ("smooth", "singular", "non-reduced", "undecided")
+#: The possible verdicts, as text.
+VERDICTS = Verdict.texts()
 #: Scaled residual (Euclidean) at which a point whose refinement stalled still counts as on X.
 _ON_VARIETY_RESIDUAL = 1e-11
 
@@ -95,34 +96,37 @@ class CheckOptions:
         Relative distance of those samples.
     """
 
-    local_dimension: object = None
+    local_dimension: int | None = None
     point_tolerance: float = 1e-6
     max_digits: int = 50
     suspect_threshold: float = 1e-4
     neighbour_samples: int = 3
     neighbour_radius: float = 1e-2
 
+    def __post_init__(self):
+        """Refuse a bad value on construction, naming the option (the system's bounds: :meth:`validated`)."""
+        require_option(self.local_dimension is None or is_integer(self.local_dimension), "local_dimension",
+                       "an integer", self.local_dimension)
+        require_option(is_number(self.point_tolerance) and 0 < self.point_tolerance < 1, "point_tolerance",
+                       "in (0, 1)", self.point_tolerance)
+        require_option(is_integer(self.max_digits) and DOUBLE_DIGITS <= self.max_digits <= 10000,
+                       "max_digits (--digits)", f"an integer from {DOUBLE_DIGITS} to 10000", self.max_digits)
+        require_option(is_number(self.suspect_threshold) and 0 < self.suspect_threshold < 1, "suspect_threshold",
+                       "in (0, 1)", self.suspect_threshold)
+        require_option(is_integer(self.neighbour_samples) and self.neighbour_samples >= 0, "neighbour_samples",
+                       "an integer >= 0", self.neighbour_samples)
+        require_option(is_number(self.neighbour_radius) and 0 < self.neighbour_radius < 1, "neighbour_radius",
+                       "in (0, 1)", self.neighbour_radius)
+
     def validated(self, system):
         """Check the options against a system; raise InputError naming the bad option."""
-        if self.local_dimension is not None:
-            if not isinstance(self.local_dimension, (int, np.integer)) or isinstance(self.local_dimension, bool):
-                raise InputError(f"local_dimension must be an integer, got {self.local_dimension!r}")
-            if not 0 <= self.local_dimension <= system.ambient_dimension:
-                raise InputError(f"local_dimension must be between 0 and {system.ambient_dimension}, "
-                                 f"got {self.local_dimension}")
-        if not (isinstance(self.point_tolerance, (int, float)) and 0 < self.point_tolerance < 1):
-            raise InputError(f"point_tolerance must be in (0, 1), got {self.point_tolerance!r}")
-        if not isinstance(self.max_digits, (int, np.integer)) or not DOUBLE_DIGITS <= self.max_digits <= 10000:
-            raise InputError(f"max_digits (--digits) must be an integer from {DOUBLE_DIGITS} to 10000, "
-                             f"got {self.max_digits!r}")
-        if not 0 < self.suspect_threshold < 1:
-            raise InputError(f"suspect_threshold must be in (0, 1), got {self.suspect_threshold!r}")
-        if self.neighbour_samples < 0 or not 0 < self.neighbour_radius < 1:
-            raise InputError("neighbour_samples must be >= 0 and neighbour_radius in (0, 1)")
+        if self.local_dimension is not None and not 0 <= self.local_dimension <= system.ambient_dimension:
+            raise InputError(f"local_dimension must be between 0 and {system.ambient_dimension}, "
+                             f"got {self.local_dimension}")
         return self
 
 
-@dataclass
+@dataclass(kw_only=True)
 class PointVerdict:
     """The verdict at one point, with everything it rests on.
 
@@ -139,8 +143,7 @@ class PointVerdict:
         Distance from ``given`` to ``point``.
     residual : float
         Largest scaled residual of F at the given point.
-    verdict : str
-        One of :data:`VERDICTS`.
+    verdict : Verdict
     rank : int or None
         Numerical rank of J at ``point``.
     codimension : int or None
@@ -149,10 +152,10 @@ class PointVerdict:
         Dimension of the tangent space (projective dimension for projective systems).
     local_dimension : int or None
         dim_a X used.
-    local_dimension_source : str
-        "given", "complete intersection (Jacobian of full rank)" (no assumption: the
-        equations are independent at the point), "complete intersection (assumed)",
-        "isolated point (Jacobian injective)" or "unknown".
+    local_dimension_source : LocalDimensionSource
+        Given, the components through the point, a complete intersection (of full rank: no
+        assumption, the equations are independent at the point; or assumed), an isolated point
+        (Jacobian injective) or unknown. :meth:`local_dimension_text` is the text a report shows.
     evidence : RankEvidence
         Singular values, scales, tolerance, gap, digits, escalation.
     nearest_rank_drop : ndarray or None
@@ -171,20 +174,24 @@ class PointVerdict:
     point: np.ndarray
     distance: float
     residual: float
-    verdict: str
-    rank: object
-    codimension: object
-    tangent_dimension: object
-    local_dimension: object
-    local_dimension_source: str
+    verdict: Verdict
+    rank: int | None
+    codimension: int | None
+    tangent_dimension: int | None
+    local_dimension: int | None
+    local_dimension_source: LocalDimensionSource
     evidence: RankEvidence
-    nearest_rank_drop: object = None
-    nearest_rank_drop_distance: object = None
-    notes: list = field(default_factory=list)
-    components: list = field(default_factory=list)
+    nearest_rank_drop: np.ndarray | None = None
+    nearest_rank_drop_distance: float | None = None
+    notes: list[str] = field(default_factory=list)
+    components: list[dict] = field(default_factory=list)
+
+    def local_dimension_text(self):
+        """Where the local dimension came from, as a report shows it (with the components through the point)."""
+        return self.local_dimension_source.describe(self.components)
 
 
-@dataclass
+@dataclass(kw_only=True)
 class CheckReport:
     """Verdicts for a list of points of one system.
 
@@ -200,20 +207,33 @@ class CheckReport:
         belong to that problem; points are in the user's units).
     """
 
-    system: object
-    points: list
+    system: PolynomialSystem
+    points: list[PointVerdict]
     options: CheckOptions
     seed: int
-    scaling: object = None
+    scaling: Scaling | None = None
 
     def counts(self):
         """Number of points per verdict (every verdict listed, zeros included)."""
-        return {name: sum(1 for p in self.points if p.verdict == name) for name in VERDICTS}
+        return {verdict.value: sum(1 for p in self.points if p.verdict is verdict) for verdict in Verdict}
 
     @property
     def undecided(self):
         """True when at least one verdict is undecided."""
-        return any(p.verdict == "undecided" for p in self.points)
+        return any(p.verdict is Verdict.UNDECIDED for p in self.points)
+
+
+@dataclass
+class _Decision:
+    """What the rank test at one point decided, and what it rests on."""
+
+    outcome: Verdict | None
+    point: np.ndarray                 # the point the decision speaks about
+    values: object                    # scaled singular values there
+    scales: object                    # the row scales used
+    digits: int
+    drop: np.ndarray | None = None    # a nearby point where the rank drops, when one was found
+    drop_distance: float | None = None
 
 
 def _size(point):
@@ -263,18 +283,16 @@ class _Checker:
     def codimension(self, rank, through=None):
         ambient = self.system.ambient_dimension
         if self.options.local_dimension is not None:
-            return ambient - int(self.options.local_dimension), "given"
+            return ambient - int(self.options.local_dimension), LocalDimensionSource.GIVEN
         if through:
-            top = max(c.dimension for c in through)
-            names = ", ".join(f"{c.id} (dimension {c.dimension}, degree {c.degree})" for c in through)
-            return ambient - top, f"components through the point: {names}"
+            return ambient - max(c.dimension for c in through), LocalDimensionSource.COMPONENTS
         if self.m <= ambient:
             if rank == self.m:  # independent equations: a smooth complete intersection, no assumption
-                return self.m, "complete intersection (Jacobian of full rank)"
-            return self.m, "complete intersection (assumed)"
+                return self.m, LocalDimensionSource.FULL_RANK
+            return self.m, LocalDimensionSource.ASSUMED
         if rank == ambient:
-            return ambient, "isolated point (Jacobian injective)"
-        return None, "unknown"
+            return ambient, LocalDimensionSource.ISOLATED
+        return None, LocalDimensionSource.UNKNOWN
 
     # -- refinement at precision -----------------------------------------------------------------
     def refine_on_f(self, point, ctx, digits):
@@ -311,7 +329,7 @@ class _Checker:
 
     # -- one point ---------------------------------------------------------------------------------
     def escalate(self, given, exact_given, refined, codim):
-        """Decide a suspect rank at rising precision. Returns a dict of the decision."""
+        """Decide a suspect rank at rising precision (a :class:`_Decision`)."""
         opts = self.options
         schedule = sorted({d for d in (30, 2 * 30, 4 * 30, 8 * 30) if d < opts.max_digits} | {opts.max_digits})
         schedule = [d for d in schedule if d > DOUBLE_DIGITS] or [opts.max_digits]
@@ -343,21 +361,21 @@ class _Checker:
                     distance = self.distance(given, found)
                     at_found, scales_found = self.scaled_values_mp(self.last_drop_precise, ctx)
                     if distance <= tolerance:
-                        return dict(outcome="singular", point=found, values=at_found, scales=scales_found,
-                                    digits=digits, drop=found, drop_distance=distance)
-                    return dict(outcome="smooth", point=np.array(current), values=values, scales=scales,
-                                digits=digits, drop=found, drop_distance=distance)
+                        return _Decision(outcome=Verdict.SINGULAR, point=found, values=at_found, scales=scales_found,
+                                         digits=digits, drop=found, drop_distance=distance)
+                    return _Decision(outcome=Verdict.SMOOTH, point=np.array(current), values=values, scales=scales,
+                                     digits=digits, drop=found, drop_distance=distance)
                 zero = zero_tolerance(digits, (self.m, self.n))
                 if len(history) >= 2:
                     previous, latest = history[-2], history[-1]
                     if latest > zero and previous > 0 and abs(latest - previous) <= 1e-3 * previous:
-                        return dict(outcome="smooth", point=np.array(current), values=values, scales=scales,
-                                    digits=digits, drop=None, drop_distance=None)
+                        return _Decision(outcome=Verdict.SMOOTH, point=np.array(current), values=values, scales=scales,
+                                         digits=digits, drop=None, drop_distance=None)
                     if latest <= zero and previous <= zero_tolerance(schedule[len(history) - 2], (self.m, self.n)):
-                        return dict(outcome="singular", point=np.array(current), values=values, scales=scales,
-                                    digits=digits, drop=None, drop_distance=None)
-        return dict(outcome="undecided", point=np.array(current), values=values, scales=scales,
-                    digits=schedule[-1], drop=None, drop_distance=None)
+                        return _Decision(outcome=Verdict.SINGULAR, point=np.array(current), values=values,
+                                         scales=scales, digits=digits, drop=None, drop_distance=None)
+        return _Decision(outcome=Verdict.UNDECIDED, point=np.array(current), values=values, scales=scales,
+                         digits=schedule[-1], drop=None, drop_distance=None)
 
     def rank_drops_near(self, point, codim):
         """Sample nearby points of X; True when the rank drops at every one of them.
@@ -393,78 +411,78 @@ class _Checker:
         if through is not None and not through and opts.local_dimension is None:
             notes.append("The decomposition found no component through this point (it may lie below the "
                          "lowest dimension searched); the local dimension falls back to the rule below.")
-        if source == "complete intersection (assumed)":
+        if source is LocalDimensionSource.ASSUMED:
             notes.append(f"Local dimension from the assumption that X is a complete intersection at the point "
                          f"(codimension = {self.m} equations); give the local dimension if it is not.")
-        outcome = dict(outcome=None, point=refined, values=values, scales=scales, digits=DOUBLE_DIGITS,
-                       drop=None, drop_distance=None)
+        decision = _Decision(outcome=None, point=refined, values=values, scales=scales, digits=DOUBLE_DIGITS,
+                             drop=None, drop_distance=None)
         escalated = False
         if codim is None:
-            outcome["outcome"] = "undecided"
+            decision.outcome = Verdict.UNDECIDED
             notes.append("The local dimension is unknown (more equations than the ambient dimension and a "
                          "rank-deficient Jacobian); give it to decide.")
         elif codim == 0:
-            outcome["outcome"] = "smooth" if rank == 0 else "undecided"
+            decision.outcome = Verdict.SMOOTH if rank == 0 else Verdict.UNDECIDED
         elif codim <= len(values) and values[codim - 1] > opts.suspect_threshold:
-            outcome["outcome"] = "smooth"
+            decision.outcome = Verdict.SMOOTH
         else:
             escalated = True
-            outcome = self.escalate(given, exact_given, refined, codim)
-        digits = outcome["digits"]
+            decision = self.escalate(given, exact_given, refined, codim)
+        digits = decision.digits
         zero = zero_tolerance(digits, (self.m, self.n))
-        final_values = np.array(outcome["values"], dtype=float)
+        final_values = np.array(decision.values, dtype=float)
         rank = numerical_rank(final_values, zero)
-        verdict = outcome["outcome"]
-        if verdict == "smooth" and codim is not None and rank < codim:
+        verdict = decision.outcome
+        if verdict is Verdict.SMOOTH and codim is not None and rank < codim:
             rank = codim  # a stable small singular value: nonzero, only below the zero rule's reach
         if codim is not None and rank > codim:
-            verdict = "undecided"
+            verdict = Verdict.UNDECIDED
             notes.append(f"The Jacobian has rank {rank}, more than the codimension {codim}: the local "
                          f"dimension used ({self.system.ambient_dimension - codim}) is larger than the tangent "
                          "space allows; the local dimension is wrong for this point.")
-        if verdict == "singular" and self.rank_drops_near(np.asarray(outcome["point"]), codim):
-            verdict = "non-reduced"
+        if verdict is Verdict.SINGULAR and self.rank_drops_near(np.asarray(decision.point), codim):
+            verdict = Verdict.NON_REDUCED
             notes.append("The rank also drops at every sampled nearby point of X: the equations define X "
                          "with multiplicity > 1 here (generically non-reduced), so the Jacobian cannot see "
                          "whether the underlying variety is smooth. This is a sampling test, not a proof.")
         thick = [c for c in (through or []) if not c.reduced]
-        if thick and len(through) == 1 and opts.local_dimension is None and verdict == "singular":
-            verdict = "non-reduced"
+        if thick and len(through) == 1 and opts.local_dimension is None and verdict is Verdict.SINGULAR:
+            verdict = Verdict.NON_REDUCED
         for c in thick:
             notes.append(f"Component {c.id} is generically non-reduced (the Jacobian has rank below its codimension "
                          f"at its witness points; {c.multiplicity} paths end at each): the equations define it "
                          "with multiplicity > 1.")
         if through and len(through) > 1 and opts.local_dimension is None:
             ids = ", ".join(str(c.id) for c in through)
-            if verdict == "smooth":
+            if verdict is Verdict.SMOOTH:
                 # Full rank c at the point makes X a manifold of dimension n - c there (implicit
                 # function theorem): one component only. The membership test's tolerance cannot
                 # separate components that are tangent nearby (two conics 6e-5 from their tacnode).
                 notes.append(f"Components {ids} pass within the membership test's tolerance of this point, but the "
                              "Jacobian has full rank here, so only one of them passes through it.")
             else:
-                verdict = "singular"
+                verdict = Verdict.SINGULAR
                 notes.append(f"The point lies on {len(through)} components of X (ids {ids}): where components "
                              "meet, X is not locally irreducible, so the point is singular whatever the rank.")
-        if verdict in ("singular", "non-reduced") and self.m > 1:
+        if verdict.is_singular and self.m > 1:
             notes.append(_AS_GIVEN)
-        point = np.asarray(outcome["point"], dtype=complex)
+        point = np.asarray(decision.point, dtype=complex)
         if self.system.projective:
             point = normalize_projective(point)
         evidence = RankEvidence(rank=int(rank), singular_values=final_values,
-                                row_scales=np.asarray(outcome["scales"], dtype=float), tolerance=zero,
+                                row_scales=np.asarray(decision.scales, dtype=float), tolerance=zero,
                                 gap=singular_value_gap(final_values, int(rank)), digits=int(digits),
                                 escalated=escalated, point=point)
         ambient = self.system.ambient_dimension
         local = None if codim is None else ambient - codim
-        drop = outcome["drop"]
+        drop = decision.drop
         return PointVerdict(
             index=index, given=given, point=point, distance=self.distance(given, point), residual=residual,
             verdict=verdict, rank=int(rank), codimension=codim, tangent_dimension=ambient - int(rank),
             local_dimension=local, local_dimension_source=source, evidence=evidence,
             nearest_rank_drop=None if drop is None else (normalize_projective(drop) if self.system.projective
                                                          else np.asarray(drop)),
-            nearest_rank_drop_distance=outcome["drop_distance"], notes=notes,
+            nearest_rank_drop_distance=decision.drop_distance, notes=notes,
             components=[{"id": c.id, "dimension": c.dimension, "degree": c.degree} for c in (through or [])])
 
 
@@ -538,22 +556,56 @@ def check_points(system, points, options=None, seed=None, decomposition=None):
     >>> [v.verdict for v in check_points(cone, [[0, 0, 0], [3, 4, 5]], seed=0).points]
     ['singular', 'smooth']
     """
+    report = settled_points(system, points, options, seed, decomposition)
+    if isinstance(report, Unsettled):
+        raise PointError(report.reason, report.index)
+    return report
+
+
+@dataclass(frozen=True)
+class Unsettled:
+    """A point that cannot be moved onto X within the point tolerance: the answer of
+    :func:`settled_points` for a list holding one (the first such point, 1-based, and why)."""
+
+    index: int
+    reason: str
+
+
+def settled_points(system, points, options=None, seed=None, decomposition=None):
+    """:func:`check_points`, with a point that cannot be moved onto X as an answer, not an error.
+
+    Callers that try candidate points (the singular locus) branch on the value; :func:`check_points`
+    raises it as a :class:`~numag.errors.PointError` for the user.
+
+    Returns
+    -------
+    CheckReport or Unsettled
+        Unsettled names the first point that could not be moved onto X (no verdict is computed then).
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> settled_points(parse_system(["x^2 + y^2 - 1"], ["x", "y"]), [[3, 0]], seed=0).index
+    1
+    """
     options = (options or CheckOptions()).validated(system)
     require_numeric(system)
     seed, rng = random_state(seed)
     user_given, user_exact = _as_points(points, system)
     scaling = Scaling.balancing(system)
     if len(user_given) == 0:
-        return CheckReport(system, [], options, seed, scaling)
+        return CheckReport(system=system, points=[], options=options, seed=seed, scaling=scaling)
     given = scaling.to_computed(user_given)
     divisors = [ExactCoefficient.rational(Fraction(10) ** -c) for c in scaling.variable_exponents]
     exact = [None if e is None else [v * d for v, d in zip(e, divisors)] for e in user_exact]
     verdicts = _check_in_units(scaling.scale_system(system), given, exact, options, seed, rng, decomposition,
                                scaling)
+    if isinstance(verdicts, Unsettled):
+        return verdicts
     checker = _Checker(system, options, rng)  # distances in the user's units
     for verdict, point in zip(verdicts, user_given):
         _to_user_units(verdict, point, scaling, checker)
-    return CheckReport(system, verdicts, options, seed, scaling)
+    return CheckReport(system=system, points=verdicts, options=options, seed=seed, scaling=scaling)
 
 
 def _to_user_units(verdict, given, scaling, checker):
@@ -574,7 +626,8 @@ def _to_user_units(verdict, given, scaling, checker):
 
 
 def _check_in_units(system, given, exact, options, seed, rng, decomposition, scaling):
-    """The verdicts at points of ``system`` (already in computed units; ``decomposition`` in the user's)."""
+    """The verdicts at points of ``system`` (already in computed units; ``decomposition`` in the user's), or
+    the first point that cannot be moved onto X (:class:`Unsettled`)."""
     checker = _Checker(system, options, rng)
     projection = project_to_variety(system, checker.batch, given)
     residual_given = np.max(np.abs(checker.batch.evaluate(given, jacobian=False))
@@ -590,12 +643,12 @@ def _check_in_units(system, given, exact, options, seed, rng, decomposition, sca
         tolerance = checker.tolerance_for(given[k])
         moved = checker.distance(given[k], refined[k])
         if not on_variety[k] or moved > tolerance:
-            raise PointError(
+            return Unsettled(
+                k + 1,
                 f"is not on X: scaled residual {residual_given[k]:.3g}; Newton refinement "
                 + (f"reached a point of X at distance {moved:.3g}, beyond the point tolerance {tolerance:.3g}"
                    if on_variety[k] else
-                   f"did not reach X (scaled residual {projection.residuals[k]:.3g} after refinement)"),
-                k + 1)
+                   f"did not reach X (scaled residual {projection.residuals[k]:.3g} after refinement)"))
     values, scales = checker.scaled_values_double(refined)
     through = [None] * len(given)
     if decomposition is not None and options.local_dimension is None:

@@ -33,6 +33,7 @@ from threadpoolctl import threadpool_limits
 from ..errors import InputError
 from ..run.checkpoint import DamagedBatch
 from ..run.executor import InProcess
+from ..run.progress import tell_paths
 from ..numeric.cluster import cluster_labels, groups, normalize_projective
 from .tracker import FAILURE_LABELS, BatchTracker, PathStatus, StartArray, TrackerOptions
 
@@ -127,6 +128,23 @@ class PathCounts:
             labels["retracked_after_jump"] = self.retracked_after_jump
         return labels
 
+    def add_to(self, counts):
+        """Add these paths into ``counts``, a dict by label (decompositions and singular loci keep theirs so).
+
+        ``tracked`` grows by the paths, each counted once, so that the statuses still add up to it; the
+        re-tracks of jumped paths go under ``retracked_after_jump`` (what the repair cost, not more paths).
+
+        Examples
+        --------
+        >>> counts = PathCounts.of([1, 1, 4], retracked_after_jump=2).add_to({"tracked": 5, "converged": 5})
+        >>> counts["tracked"], counts["converged"], counts["minimum_step"], counts["retracked_after_jump"]
+        (8, 7, 1, 2)
+        """
+        counts["tracked"] = counts.get("tracked", 0) + self.tracked
+        for label, value in self.by_label().items():
+            counts[label] = counts.get(label, 0) + value
+        return counts
+
     def report(self):
         """The ``paths`` block of a solve report."""
         return {"tracked": self.tracked, "converged": self.converged, "singular_endpoint": self.singular_endpoint,
@@ -217,9 +235,9 @@ def track(homotopy, starts, options=None, *, count=None, executor=None, run_fold
         and not tracked again (a batch that fails the check is tracked again and named in
         ``execution["batches_rejected"]``).
     batch_size : int
-    progress : callable, optional
-        ``progress(paths_done, paths_total)`` before the first batch and after each one (and
-        after every step when the batches run in this process).
+    progress : Progress, optional
+        Told (:mod:`numag.run.progress`) the paths done and in all before the first batch
+        and after each one (and after every step when the batches run in this process).
     projective : bool
         Compare endpoints as projective points (lines) when looking for jumped paths; else as
         affine points X / X_0.
@@ -303,9 +321,10 @@ def _track_batches(run, homotopy, starts, options, batches, executor, *, run_fol
     numbers = list(range(len(batches))) if numbers is None else numbers
     tracker = BatchTracker(homotopy, starts, options)
     if progress is not None:
-        progress(done, total)  # the starting point: paths read back from the run folder
+        tell_paths(progress, done, total)  # the starting point: paths read back from the run folder
         if executor is None or isinstance(executor, InProcess):
-            tracker.progress = lambda paths, *_: progress(done + paths, total)
+            # a step of the running batch: its paths past the bulk, on top of the batches finished so far
+            tracker.progress = lambda message, **counts: tell_paths(progress, done + (counts["done"] or 0), total)
     if executor is None:
         for position, rows in enumerate(batches):
             with threadpool_limits(limits=1):
@@ -314,16 +333,14 @@ def _track_batches(run, homotopy, starts, options, batches, executor, *, run_fol
             done += len(rows)
             if run_folder is not None:
                 run_folder.write_batch(numbers[position], result)
-            if progress is not None:
-                progress(done, total)
+            tell_paths(progress, done, total)
         return InProcess().describe()
     for position, result in executor.run(tracker, batches):
         _store(run, batches[position], result)
         if run_folder is not None:
             run_folder.write_batch(numbers[position], result)
         done += len(result["indices"])
-        if progress is not None:
-            progress(done, total)
+        tell_paths(progress, done, total)
     description = executor.describe()
     for failure, info in zip(executor.failures, description["failed_batches"]):
         rows = batches[failure.index]

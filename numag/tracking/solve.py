@@ -26,11 +26,11 @@ import time
 import mpmath
 import numpy as np
 
-from ..errors import InputError
+from ..errors import InputError, is_integer, is_number, require_option
 from ..version import __version__
 from ..system.polynomial import PolynomialSystem, require_numeric
 from ..run.checkpoint import RunFolder, manifest_fingerprints
-from ..run.executor import charge_paths, check_memory, make_executor
+from ..run.executor import ambient_executor, charge_paths, check_memory, current_executor, make_executor
 from ..numeric.cluster import cluster_labels, groups, normalize_projective, projective_pivot
 from ..numeric.evaluate import BatchEvaluator, PrecisionEvaluator, TermSizes
 from ..numeric.refine import IsolationTest, mp_gauss_newton
@@ -67,14 +67,17 @@ class SolveOptions:
     square_up: bool = False
     batch_size: int = 4096
 
+    def __post_init__(self):
+        """Refuse a bad value on construction, naming the option."""
+        require_option(is_number(self.cluster_tolerance) and 0 < self.cluster_tolerance < 1, "cluster_tolerance",
+                       "in (0, 1)", self.cluster_tolerance)
+        require_option(is_integer(self.refine_digits) and 16 <= self.refine_digits <= 10000,
+                       "refine_digits (--digits)", "from 16 to 10000", self.refine_digits)
+        require_option(is_integer(self.batch_size) and self.batch_size >= 1, "batch_size", "positive",
+                       self.batch_size)
+
     def validated(self):
-        """Raise InputError naming an invalid option."""
-        if not 0 < self.cluster_tolerance < 1:
-            raise InputError(f"cluster_tolerance must be in (0, 1), got {self.cluster_tolerance!r}")
-        if not 16 <= self.refine_digits <= 10000:
-            raise InputError(f"refine_digits (--digits) must be from 16 to 10000, got {self.refine_digits!r}")
-        if self.batch_size < 1:
-            raise InputError(f"batch_size must be positive, got {self.batch_size!r}")
+        """The options (checked on construction); kept so that callers read the same as for the other options."""
         return self
 
 
@@ -247,8 +250,8 @@ def solve_system(system, options=None, seed=None, progress=None, execution=None)
     options : SolveOptions, optional
     seed : int, optional
         Seed of the random patch, gamma and tests; drawn and recorded when not given.
-    progress : callable, optional
-        Called as ``progress(paths_done, paths_total)`` after each batch.
+    progress : Progress, optional
+        Told (:mod:`numag.run.progress`) the paths done and in all after each batch.
     execution : Execution, optional
         Workers, a Dask scheduler, a run folder to save each batch in, or a run to resume.
         Same seed, same answer, whichever executor runs the batches.
@@ -372,6 +375,24 @@ def _open_folder(execution, describe):
     return folder
 
 
+def _executor_of(execution, batches):
+    """Who runs solve's ``batches`` batches.
+
+    An executor named by ``execution`` (``executor``, or ``workers`` / ``scheduler`` / ``local_dask`` to
+    start one for this call) comes first; otherwise the ambient one of :func:`~numag.run.executor.using`
+    by :func:`~numag.run.executor.ambient_executor`, the rule of every other stage (witness sweeps,
+    monodromy, membership, the singular locus); without either, one chosen by the number of batches
+    (in-process for one batch).
+    """
+    if execution.executor is not None:
+        return execution.executor
+    named = execution.workers is not None or execution.scheduler is not None or execution.local_dask
+    if not named and current_executor() is not None:
+        return ambient_executor(batches)
+    return lambda batches: make_executor(execution.workers, execution.scheduler, execution.local_dask,
+                                         batches=batches)
+
+
 def _run(system, homotopy, start_points, total, options, rng, seed, progress, started, squared, execution=None,
          user_system=None, fresh_homotopy=None):
     """Track all paths (:func:`~numag.tracking.service.track`), then group the endpoints into solutions.
@@ -386,8 +407,7 @@ def _run(system, homotopy, start_points, total, options, rng, seed, progress, st
                  else "the parameter homotopy")
     check_memory(total * (homotopy.size * 16 + 80), f"keeping {total} paths")
     folder = _open_folder(execution, lambda: manifest_for(user_system, options, seed, total))
-    executor = execution.executor or (lambda batches: make_executor(execution.workers, execution.scheduler,
-                                                                    execution.local_dask, batches=batches))
+    executor = _executor_of(execution, -(-total // options.batch_size))
     run = track(homotopy, start_points, options.tracker, count=total, executor=executor, run_folder=folder,
                 batch_size=options.batch_size, progress=progress, projective=system.projective,
                 jump_tolerance=options.cluster_tolerance, fresh_homotopy=fresh_homotopy)

@@ -45,6 +45,7 @@ import enum
 
 import numpy as np
 
+from ..errors import is_integer, is_number, require_option
 from ..run.executor import check_memory
 from .rescue import track_segment_precise
 
@@ -187,6 +188,21 @@ class TrackerOptions:
     rescue_digits: int = 40
     infinity_threshold: float = 1e-7
     singular_condition: float = 1e8
+
+    def __post_init__(self):
+        """Refuse a bad value on construction, naming the option: every size, tolerance and count is
+        positive (the rescue's digits may be 0: no rescue); shrinking and contraction factors are below 1."""
+        for name, value in vars(self).items():
+            if isinstance(value, bool):
+                continue
+            if name == "rescue_digits":
+                require_option(is_integer(value) and value >= 0, name, "an integer >= 0", value)
+            elif isinstance(type(self).__dataclass_fields__[name].default, int):
+                require_option(is_integer(value) and value >= 1, name, "a positive integer", value)
+            else:
+                require_option(is_number(value) and value > 0, name, "positive", value)
+        for name in ("endgame_shrink", "first_contraction"):
+            require_option(getattr(self, name) < 1, name, "below 1", getattr(self, name))
 
 
 @dataclass
@@ -838,9 +854,9 @@ def track_paths(homotopy, start_points, options=None, progress=None):
     homotopy : StraightLineHomotopy (or any object with the same ``evaluate`` and ``evaluations``)
     start_points : ndarray, shape (P, N)
     options : TrackerOptions, optional
-    progress : callable, optional
-        ``progress(paths)`` with the number of paths past the bulk of their tracking
-        (s = 0.1), called after every step of that phase.
+    progress : Progress, optional
+        Told (:mod:`numag.run.progress`) after every step of the bulk of the tracking how many paths
+        are past it (s = 0.1): ``done`` of ``total`` = the batch's paths.
 
     Returns
     -------
@@ -852,7 +868,10 @@ def track_paths(homotopy, start_points, options=None, progress=None):
     check_memory(16 * 12 * len(start_points) * start_points.shape[-1] ** 2 if start_points.ndim == 2 else 0,
                  f"tracking {len(start_points)} paths together")
     before = homotopy.evaluations
-    endpoints, status, steps, condition, winding, endgame = _track(homotopy, start_points, opts, on_step=progress)
+    on_step = None if progress is None else (
+        lambda finished: progress(f"{finished} of {len(start_points)} paths past the bulk of their tracking",
+                                  done=finished, total=len(start_points)))
+    endpoints, status, steps, condition, winding, endgame = _track(homotopy, start_points, opts, on_step=on_step)
     retracked = np.zeros(len(status), dtype=bool)
     failed = np.nonzero(status >= PathStatus.FAILED_MIN_STEP)[0]
     if len(failed):

@@ -34,9 +34,9 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from ..errors import InputError
+from ..errors import InputError, is_integer, is_number, require_option
 from ..system.polynomial import Polynomial, PolynomialSystem
-from ..run.executor import current_executor, charge_paths
+from ..run.executor import ambient_executor, charge_paths
 from ..numeric.cluster import cluster_labels, groups
 from ..numeric.evaluate import BatchEvaluator, TermSizes
 from ..numeric.linalg import scaled_singular_values
@@ -68,20 +68,30 @@ class WitnessOptions:
     batch_size : int
     """
 
-    lowest_dimension: int = None
+    lowest_dimension: int | None = None
     tracker: TrackerOptions = TrackerOptions()
     residual_tolerance: float = 1e-7
     cluster_tolerance: float = 1e-6
     rank_threshold: float = 1e-6
     batch_size: int = 4096
 
+    def __post_init__(self):
+        """Refuse a bad value on construction, naming the option (the system's bounds: :meth:`validated`)."""
+        require_option(self.lowest_dimension is None or is_integer(self.lowest_dimension),
+                       "the lowest dimension to search", "an integer", self.lowest_dimension)
+        require_option(is_number(self.cluster_tolerance) and 0 < self.cluster_tolerance < 1, "cluster_tolerance",
+                       "in (0, 1)", self.cluster_tolerance)
+        for name in ("residual_tolerance", "rank_threshold"):
+            value = getattr(self, name)
+            require_option(is_number(value) and 0 < value < 1, name, "in (0, 1)", value)
+        require_option(is_integer(self.batch_size) and self.batch_size >= 1, "batch_size", "positive",
+                       self.batch_size)
+
     def validated(self, n_variables):
-        """Raise InputError naming an invalid option."""
+        """Check the options against the number of variables; raise InputError naming the bad option."""
         if self.lowest_dimension is not None and not 0 <= self.lowest_dimension <= n_variables:
             raise InputError(f"the lowest dimension to search must be from 0 to {n_variables}, "
                              f"got {self.lowest_dimension!r}")
-        if not 0 < self.cluster_tolerance < 1:
-            raise InputError(f"cluster_tolerance must be in (0, 1), got {self.cluster_tolerance!r}")
         return self
 
 
@@ -261,8 +271,7 @@ def track_moves(start, target, points, rng, options, batch_size=4096):
         return made, made.start_solutions_from(points)
 
     homotopy, starts = homotopy_with_fresh_gamma()
-    # small moves stay in this process: no transfer cost
-    return track(homotopy, starts, options, executor=current_executor() if count > batch_size else None,
+    return track(homotopy, starts, options, executor=ambient_executor(-(-count // batch_size)),
                  batch_size=batch_size, fresh_homotopy=homotopy_with_fresh_gamma)
 
 
@@ -328,8 +337,8 @@ def witness_supersets(system, options=None, seed=None, progress=None):
         Affine equations in n unknowns (any number of equations).
     options : WitnessOptions, optional
     seed : int, optional
-    progress : callable, optional
-        ``progress(message)`` after each equation.
+    progress : Progress, optional
+        Told a message after each equation (:mod:`numag.run.progress`).
 
     Returns
     -------

@@ -39,7 +39,7 @@ import networkx as nx
 import numpy as np
 from scipy.spatial import cKDTree
 
-from ..errors import InputError, LimitError
+from ..errors import InputError, LimitError, is_integer, is_number, require_option
 from ..system.polynomial import combined_minor, linear_space, require_numeric
 from ..numeric.cluster import cluster_labels
 from ..numeric.evaluate import BatchEvaluator, TermSizes
@@ -72,8 +72,17 @@ class DecomposeOptions:
     stall_loops: int = 6
     trace_tolerance: float = 1e-10
 
+    def __post_init__(self):
+        """Refuse a bad value on construction, naming the option."""
+        require_option(is_integer(self.max_loops) and self.max_loops >= 1, "max_loops (--max-loops)", "positive",
+                       self.max_loops)
+        require_option(is_integer(self.stall_loops) and self.stall_loops >= 1, "stall_loops", "positive",
+                       self.stall_loops)
+        require_option(is_number(self.trace_tolerance) and 0 < self.trace_tolerance < 1, "trace_tolerance",
+                       "in (0, 1)", self.trace_tolerance)
 
-@dataclass
+
+@dataclass(kw_only=True)
 class Component:
     """One irreducible component of X.
 
@@ -407,8 +416,8 @@ def decompose(system, options=None, seed=None, progress=None):
     options : DecomposeOptions, optional
     seed : int, optional
         Drawn and recorded when not given.
-    progress : callable, optional
-        ``progress(message)``.
+    progress : Progress, optional
+        Told a message as each stage starts (:mod:`numag.run.progress`).
 
     Returns
     -------
@@ -478,18 +487,16 @@ def _decompose(system, options, seed, progress):
                 if witness.dimension > 0:
                     points, rows = _to_real_slice(mover, points, rows, rng)
                 real = np.all(np.abs(points.imag) <= 1e-8 * (1 + np.abs(points)), axis=1)
-            components.append(Component(0, witness.dimension, len(group), points, real,
-                                        int(np.max(witness.multiplicity[group])),
-                                        bool(np.all(ranks[group] >= codimension)), rows,
-                                        bool(confirmed), 0.0 if defect != defect else float(defect)))
+            components.append(Component(id=0, dimension=witness.dimension, degree=len(group), points=points,
+                                        real=real, multiplicity=int(np.max(witness.multiplicity[group])),
+                                        reduced=bool(np.all(ranks[group] >= codimension)), slice_rows=rows,
+                                        confirmed=bool(confirmed),
+                                        trace_defect=0.0 if defect != defect else float(defect)))
     components.sort(key=lambda c: (-c.dimension, -c.degree))
     for k, component in enumerate(components, 1):
         component.id = k
     counts.update(_degree_checks(system, components))
-    move_counts = sum((mover.paths for mover in movers_made), PathCounts())
-    counts["tracked"] = counts.get("tracked", 0) + move_counts.runs  # re-tracks of jumped paths included
-    for label, value in move_counts.by_label().items():
-        counts[label] = counts.get(label, 0) + value
+    sum((mover.paths for mover in movers_made), PathCounts()).add_to(counts)
     return Decomposition(system, components, supersets.dimensions_searched, counts, loops, seed,
                          time.perf_counter() - started)
 
@@ -538,8 +545,9 @@ def _linear_decomposition(system, options, rng, seed, started):
         right[len(space.pivots):] = -slice_rows[:, 0]
         point = np.linalg.solve(matrix, right)
         real = system.has_real_coefficients
-        components.append(Component(1, space.dimension, 1, point[None, :], np.array([real]), 1, True, slice_rows,
-                                    True, 0.0))
+        components.append(Component(id=1, dimension=space.dimension, degree=1, points=point[None, :],
+                                    real=np.array([real]), multiplicity=1, reduced=True, slice_rows=slice_rows,
+                                    confirmed=True, trace_defect=0.0))
     return Decomposition(system, components, list(range(n, lowest - 1, -1)), counts, {}, seed,
                          time.perf_counter() - started)
 

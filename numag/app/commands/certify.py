@@ -3,7 +3,7 @@ prints certificates (``--certify``).
 """
 
 from ...run.executor import make_executor
-from ...certify.records import CertifyOptions
+from ...certify.records import CertifyOptions, ClaimStatus, Kind, Status
 from ..report import CAUTION, certify_report, dumps, read_report, write_report
 from .common import EXIT_OK, EXIT_UNDECIDED, _MAX_WORKERS, _Messages, _count
 
@@ -69,11 +69,11 @@ def _certificate_line(certificate):
     c = certificate
     extra = []
     for check in c.get("claim_checks", []):
-        if check["status"] != "proved":
+        if check["status"] != ClaimStatus.PROVED:
             found = "" if check["found"] is None else f", F gives {check['found']}"
             extra.append(f"claim {check['name']} {check['reported']}: {check['status']}{found} ({check['how']})")
     rank = _rank_text(c)
-    if c["status"] != "certified":
+    if c["status"] != Status.CERTIFIED:
         text = f"{c['status']}: {c['reason']}"
         if rank is not None:
             text += f"\n            {rank}"
@@ -85,7 +85,7 @@ def _certificate_line(certificate):
             parts.append(f"at infinity (w = 0 exactly, chart {c['chart']})")
         if c["real"] is True:
             parts.append("real")
-        if c["kind"] == "numerical" and isinstance(c["backward_error"], float):
+        if c["kind"] == Kind.NUMERICAL and isinstance(c["backward_error"], float):
             parts.append(f"backward error {c['backward_error']:.1e} (< {c['threshold']:.0e})")
         if c["deflations"]:
             parts.append(f"{c['deflations']} deflation(s)")

@@ -8,6 +8,7 @@ from ...singular.smoothness import CheckOptions, check_points
 from ...system.files import load_angles
 from ...anatomy.survey import check_anatomy
 from ..anatomy_text import attach_to_check, write_point_anatomy
+from ...singular.kinds import Verdict
 from ..report import CAUTION, check_report_to_dict, dumps
 from .certify import _certified, _doubtful, _print_certification
 from .plot import add_plot_options, check_plot_request, plot_after, with_angles
@@ -63,13 +64,13 @@ def _print_check(report, out, data=None, anatomies=None):
         codim = "unknown" if v.codimension is None else str(v.codimension)
         out.write(f"  rank of J: {v.rank}; a smooth point needs {codim} "
                   f"(local dimension {v.local_dimension if v.local_dimension is not None else 'unknown'}: "
-                  f"{v.local_dimension_source})\n")
+                  f"{v.local_dimension_text()})\n")
         out.write(f"  tangent space dimension: {v.tangent_dimension}\n")
         values = ", ".join(f"{s:.3g}" for s in e.singular_values)
         gap = "n/a" if e.gap is None else ("infinite" if e.gap == float("inf") else f"{e.gap:.3g}")
         out.write(f"  evidence: scaled singular values [{values}], zero below {e.tolerance:.2g}, gap {gap}, "
                   f"{e.digits} digits{', escalated' if e.escalated else ''}\n")
-        if v.nearest_rank_drop is not None and v.verdict == "smooth":
+        if v.nearest_rank_drop is not None and v.verdict is Verdict.SMOOTH:
             out.write(f"  nearest point found where the rank drops: "
                       f"{_format_point(system.variables, v.nearest_rank_drop)} "
                       f"(distance {v.nearest_rank_drop_distance:.3g})\n")

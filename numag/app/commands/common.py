@@ -202,7 +202,10 @@ class _Progress:
         self.last_done = None
         self.base = None  # paths already done at the first report (read back from a run folder)
 
-    def __call__(self, done, total):
+    def __call__(self, message, *, done=None, total=None):
+        """A :class:`~numag.run.progress.Progress`: a line with the rate when paths are counted."""
+        if done is None or total is None:
+            return  # solve's messages all count paths
         now = time.perf_counter() - self.started
         if self.base is None:  # the first report only marks where this run starts
             self.base = done if done < total else 0
@@ -224,7 +227,8 @@ class _Messages:
         self.quiet = quiet
         self.started = time.perf_counter()
 
-    def __call__(self, message):
+    def __call__(self, message, *, done=None, total=None):
+        """A :class:`~numag.run.progress.Progress`: the message (counts are in it)."""
         now = time.perf_counter() - self.started
         if not self.quiet and now >= 2.0:
             sys.stderr.write(f"numag: {message} ({now:.0f} s)\n")

@@ -2,7 +2,6 @@
 
 import numpy as np
 
-from ...errors import NumagError
 from ...run.executor import using
 from ...tracking.tracker import FAILURE_LABELS
 from ...witness.cascade import WitnessOptions
@@ -64,8 +63,6 @@ def run(args, out):
     check_plot_request(args, system)
     options = DecomposeOptions(witness=WitnessOptions(lowest_dimension=args.lowest_dimension),
                                max_loops=args.max_loops)
-    if args.max_loops < 1:
-        raise NumagError(f"--max-loops must be positive, got {args.max_loops}")
     with _stage_executor(args) as executor, using(executor):
         result = decompose(system, options, seed=args.seed, progress=_Messages(args.json))
         execution = executor.describe()

@@ -10,6 +10,7 @@ from ...witness.decompose import DecomposeOptions
 from ...singular.locus import FORMULATIONS, SingularOptions, singular_locus
 from ...anatomy.survey import locus_anatomy
 from ..anatomy_text import attach_to_singular, write_component_anatomy, write_point_anatomy
+from ...singular.kinds import PieceKind
 from ..report import CAUTION, dumps, singular_to_dict
 from .certify import _certified, _doubtful, _print_certification
 from .plot import add_plot_options, check_plot_request, plot_after, with_angles
@@ -72,7 +73,7 @@ def _print_singular(result, out, angles, data=None, anatomy=None):
     out.write(f"paths: {counts.get('tracked', 0)} tracked, {failed} failed; candidates dropped: {dropped}; "
               f"{result.seconds:.2f} s\n")
     affine = [c for c in result.components if not c.at_infinity]
-    points = [c for c in affine if c.dimension == 0 and c.kind == "singular"]
+    points = [c for c in affine if c.dimension == 0 and c.kind is PieceKind.SINGULAR]
     real = sum(1 for c in points if c.real[0])
     out.write(f"\n{len(points)} singular point(s), {real} real\n")
     names = system.variables
@@ -82,7 +83,7 @@ def _print_singular(result, out, angles, data=None, anatomy=None):
                   f"{_angles_text(c.points[0], angles)}{where}\n")
         if anatomy is not None and c.id in anatomy.points:
             write_point_anatomy(anatomy.points[c.id], names, out)
-    larger = [c for c in affine if c.dimension > 0 or c.kind != "singular"]
+    larger = [c for c in affine if c.dimension > 0 or c.kind is not PieceKind.SINGULAR]
     if larger:
         out.write(f"\n{len(larger)} singular or non-reduced component(s) of positive dimension or undecided\n")
         for c in larger:
@@ -130,6 +131,6 @@ def run(args, out):
     else:
         _write_notes(args, out)
         _print_singular(result, out, angles, data, anatomy)
-    undecided = any(c.kind == "undecided" for c in result.components)
+    undecided = any(c.kind is PieceKind.UNDECIDED for c in result.components)
     pictured = plot_after(data, args, out)
     return EXIT_UNDECIDED if undecided or _doubtful(data) or data["warnings"] or pictured else EXIT_OK

@@ -1,0 +1,90 @@
+"""The kinds of answers of :mod:`numag.singular`: verdicts, where a local dimension came from,
+formulations of "rank J < c", the systems candidates come from, and the kinds of singular pieces.
+
+Members are their text (:class:`numag.kinds.TextEnum`): reports and the command line print the value,
+code compares members.
+
+Examples
+--------
+>>> Verdict.NON_REDUCED.is_singular, Formulation.parse("null vector", "formulation") is Formulation.NULL_VECTOR
+(True, True)
+>>> source = LocalDimensionSource.from_text("components through the point: 1 (dimension 1, degree 2)")
+>>> source is LocalDimensionSource.COMPONENTS, source.describe([{"id": 1, "dimension": 1, "degree": 2}])
+(True, 'components through the point: 1 (dimension 1, degree 2)')
+"""
+
+from ..kinds import TextEnum
+
+__all__ = ["Verdict", "LocalDimensionSource", "Formulation", "CandidateSystem", "PieceKind"]
+
+
+class Verdict(TextEnum):
+    """The verdict of the Jacobian criterion at a point."""
+
+    SMOOTH = "smooth"
+    SINGULAR = "singular"
+    NON_REDUCED = "non-reduced"    # the rank drops on a whole neighbourhood in X: multiplicity > 1
+    UNDECIDED = "undecided"
+
+    @property
+    def is_singular(self):
+        """Singular or non-reduced: the point is kept as a piece of the singular locus."""
+        return self in (Verdict.SINGULAR, Verdict.NON_REDUCED)
+
+
+class LocalDimensionSource(TextEnum):
+    """Where the local dimension dim_a X of a verdict came from."""
+
+    GIVEN = "given"
+    COMPONENTS = "components through the point"
+    FULL_RANK = "complete intersection (Jacobian of full rank)"   # independent equations: no assumption
+    ASSUMED = "complete intersection (assumed)"
+    ISOLATED = "isolated point (Jacobian injective)"
+    UNKNOWN = "unknown"
+
+    def describe(self, components=()):
+        """The text a report shows: for :attr:`COMPONENTS`, followed by the components (dicts with
+        ``id``, ``dimension``, ``degree``)."""
+        if self is not LocalDimensionSource.COMPONENTS:
+            return self.value
+        names = ", ".join(f"{c['id']} (dimension {c['dimension']}, degree {c['degree']})" for c in components)
+        return f"{self.value}: {names}"
+
+    @classmethod
+    def from_text(cls, text):
+        """The source a report's text describes (the inverse of :meth:`describe`); InputError if none."""
+        if isinstance(text, str) and text.startswith(cls.COMPONENTS.value + ":"):
+            return cls.COMPONENTS
+        return cls.parse(text, "local_dimension_source")
+
+
+class Formulation(TextEnum):
+    """How "rank J < c" is written as equations (the option of :func:`numag.singular.locus.singular_locus`)."""
+
+    AUTO = "auto"
+    MINORS = "minors"
+    NULL_VECTOR = "null vector"
+    GRADIENT = "gradient"          # projective hypersurfaces: the partial derivatives
+
+
+class CandidateSystem(TextEnum):
+    """The system whose solutions a piece of the singular locus came from (reported with the piece)."""
+
+    MINORS = "minors"
+    RANDOM_MINORS = "random minors"
+    NULL_VECTOR = "null vector"
+    GRADIENT = "gradient system"
+    GRADIENT_AT_INFINITY = "gradient system at infinity"
+
+
+class PieceKind(TextEnum):
+    """What a piece of the singular locus is."""
+
+    SINGULAR = "singular"
+    NON_REDUCED = "non-reduced"    # a whole generically non-reduced component of X
+    UNDECIDED = "undecided"
+
+    @classmethod
+    def of_verdict(cls, verdict):
+        """The kind of a piece whose witness point got ``verdict`` (smooth ones are never pieces)."""
+        return {Verdict.SINGULAR: cls.SINGULAR, Verdict.NON_REDUCED: cls.NON_REDUCED}.get(verdict, cls.UNDECIDED)
