@@ -374,7 +374,7 @@ def sweep(family, values, options=None, seed=None, progress=None, execution=None
     options : SweepOptions, optional
     seed : int, optional
     progress : callable, optional
-        ``progress(paths_done, paths_total)``.
+        a :class:`~numag.run.progress.Progress` (path counts from the tracking service).
     execution : Execution, optional
         Workers or a Dask scheduler for the batches (as for ``solve_system``).
 
