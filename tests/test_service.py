@@ -43,6 +43,24 @@ def test_two_paths_from_one_start_end_as_one_kept_and_one_jumped(seed):
     assert run.counts.failed_by_reason["jumped"] == 1 and run.retracked.sum() == 2
 
 
+@pytest.mark.parametrize("seed", range(3))
+def test_a_path_too_many_on_the_way_to_infinity_is_counted_as_jumped(seed):
+    # 3x^2 = 1 and x^3 - x + q = 0: Bezout number 6, two solutions (x = +-1/sqrt(3), q = x - x^3), and
+    # four paths to the point at infinity [0:0:1] in cycles of winding number 2 (common practice, no
+    # source: two roots of the last equation on each line x = c fall to infinity together). A copy of one
+    # of those paths makes an odd count there, which no set of whole cycles gives: one path jumped.
+    system = parse_system(["3*x^2 - 1", "x^3 - x + q"], ["x", "q"])
+    homotopy = StraightLineHomotopy.total_degree(system, np.random.default_rng(seed))
+    starts = homotopy.start_solutions()
+    run = track(homotopy, starts)
+    infinite = np.nonzero(run.status == PathStatus.AT_INFINITY)[0]
+    assert len(infinite) == 4 and set(run.winding[infinite]) == {2}
+    doubled = track(homotopy, np.vstack([starts, starts[infinite[:1]]]))
+    assert doubled.counts.failed_by_reason["jumped"] == 1
+    assert np.sum(doubled.status == PathStatus.AT_INFINITY) == 4
+    assert np.sum(doubled.status == PathStatus.CONVERGED) == 2
+
+
 def test_a_fresh_gamma_round_tracks_every_path_again():
     homotopy = circle_and_line(0)
     starts = homotopy.start_solutions()

@@ -49,6 +49,11 @@ FRESH_GAMMA_ROUND = 2
 JUMP_STEP_DIVISOR = 4.0
 #: ... and the predictor error the step control aims at divided by this (cumulative over rounds).
 JUMP_PREDICTOR_ERROR_DIVISOR = 10.0
+#: Singular endpoints (and points at infinity) reached by a cycle of winding number w are one point to
+#: about eps^(1/w) at best; endpoints this close (relative, as lines) are taken as one point when the
+#: paths of each cycle are counted. Merging two true points never hides a count that is not a multiple
+#: of w, so the tolerance errs on the loose side.
+CYCLE_TOLERANCE = 1e-4
 
 
 @dataclass(frozen=True, kw_only=True)
@@ -366,14 +371,20 @@ def _repair_jumps(run, starts, options, batch_size, executor, projective, tolera
     cautious = options
     for round_ in range(JUMP_ROUNDS + 1):
         crossed = _crossed(run, projective, tolerance)
-        if len(crossed) == 0:
+        broken = _broken_cycles(run)
+        if len(crossed) == 0 and len(broken) == 0:
             return
         if round_ == JUMP_ROUNDS:
             labels = _same_endpoint_labels(run.homotopy, run.endpoints[crossed], projective, tolerance)
             for members in groups(labels):
                 run.status[crossed[members[1:]]] = PathStatus.FAILED_JUMP
                 run.endpoints[crossed[members[1:]]] = np.nan
+            for group in broken:  # the paths beyond whole cycles: which of them jumped is unknown
+                excess = group[len(group) - len(group) % int(run.winding[group[0]]):]
+                run.status[excess] = PathStatus.FAILED_JUMP
+                run.endpoints[excess] = np.nan
             return
+        crossed = np.union1d(crossed, np.concatenate(broken)) if broken else crossed
         run.jump_retracks += len(crossed)
         if round_ == FRESH_GAMMA_ROUND and fresh_homotopy is not None:
             run.homotopy, starts = fresh_homotopy()
@@ -417,6 +428,37 @@ def _crossed(run, projective, tolerance):
         return np.zeros(0, dtype=np.int64)
     labels = _same_endpoint_labels(run.homotopy, run.endpoints[regular], projective, tolerance, points)
     return regular[np.bincount(labels)[labels] > 1]
+
+
+def _broken_cycles(run):
+    """Groups of paths at one singular endpoint (or point at infinity) whose count is not a whole number
+    of cycles: a sign of path jumping.
+
+    The Cauchy endgame gives each path the winding number w of its cycle, and the w paths of a cycle
+    end at one point; so the paths with winding number w at one endpoint come in multiples of w. A path
+    that jumped onto another one's way to infinity (where the regular-endpoint test cannot see it:
+    points at infinity are shared by many paths) leaves a count that is not (decision 0034).
+
+    Returns
+    -------
+    list of ndarray
+        Path indices of each group whose count is not a multiple of its winding number.
+    """
+    ends = np.nonzero(np.isin(run.status, [PathStatus.SINGULAR_ENDPOINT, PathStatus.AT_INFINITY])
+                      & (run.winding >= 2))[0]
+    if len(ends) == 0:
+        return []
+    points = run.endpoints[ends]
+    finite = np.all(np.isfinite(points), axis=1)
+    ends, points = ends[finite], points[finite]
+    if len(ends) == 0:
+        return []
+    labels = cluster_labels(normalize_projective(points), CYCLE_TOLERANCE, projective=True)
+    keys = [labels, run.winding[ends]]
+    if hasattr(run.homotopy, "system_of"):
+        keys.append(np.asarray(run.homotopy.system_of(points), dtype=np.int64))
+    _, labels = np.unique(np.column_stack(keys), axis=0, return_inverse=True)
+    return [ends[m] for m in groups(labels.reshape(-1)) if len(m) % int(run.winding[ends[m[0]]])]
 
 
 def _same_endpoint_labels(homotopy, endpoints, projective, tolerance, points=None):
