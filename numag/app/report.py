@@ -115,7 +115,7 @@ def _evidence_from_dict(data):
 def _verdict_to_dict(v):
     return {
         "index": v.index, "given": encode_point(v.given), "point": encode_point(v.point),
-        "distance": float(v.distance), "residual": float(v.residual), "verdict": v.verdict, "rank": v.rank,
+        "distance": _encode_float(v.distance), "residual": _encode_float(v.residual), "verdict": v.verdict, "rank": v.rank,
         "codimension": v.codimension, "tangent_dimension": v.tangent_dimension,
         "local_dimension": v.local_dimension, "local_dimension_source": v.local_dimension_source,
         "evidence": _evidence_to_dict(v.evidence),
@@ -129,7 +129,7 @@ def _verdict_to_dict(v):
 def _verdict_from_dict(d):
     return PointVerdict(
         index=int(d["index"]), given=decode_point(d["given"]), point=decode_point(d["point"]),
-        distance=float(d["distance"]), residual=float(d["residual"]), verdict=d["verdict"], rank=d["rank"],
+        distance=_decode_float(d["distance"]), residual=_decode_float(d["residual"]), verdict=d["verdict"], rank=d["rank"],
         codimension=d["codimension"], tangent_dimension=d["tangent_dimension"],
         local_dimension=d["local_dimension"], local_dimension_source=d["local_dimension_source"],
         evidence=_evidence_from_dict(d["evidence"]),
@@ -590,6 +590,9 @@ def _singular_tasks(system, component, options, where):
 
 def _check_task(system, verdict, options, where):
     point = _point_of(verdict, "point", system, False, where)
+    if verdict["verdict"] == "off":
+        return _not_certified("the point is not on X (verdict 'off'): there is nothing to certify", point,
+                              options.digits)
     codimension = verdict.get("codimension")
     if verdict["verdict"] == "smooth" and codimension is not None:
         return _Task("smooth", system, point, options, int(codimension))

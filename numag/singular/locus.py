@@ -542,13 +542,16 @@ def _judge(system, point, options, seed, variety):
                                    decomposition=variety).points[0]
         except PointError:
             continue
+        if verdict.verdict == "off":  # not settled on X at this tolerance: try the looser one
+            continue
         drop = verdict.nearest_rank_drop
         if (verdict.verdict == "smooth" and drop is not None
                 and verdict.nearest_rank_drop_distance <= _CANDIDATE_TOLERANCE * (1 + np.linalg.norm(point))):
             try:
-                return check_points(system, [drop], options, seed=seed, decomposition=variety).points[0]
+                at_drop = check_points(system, [drop], options, seed=seed, decomposition=variety).points[0]
             except PointError:
                 return verdict
+            return verdict if at_drop.verdict == "off" else at_drop
         return verdict
     return None
 
@@ -639,15 +642,8 @@ def _confirmed_by_check(system, pieces, rng, discarded):
         return pieces
     seed = int(rng.integers(2**32))
     points = [piece.points[0] for piece in pieces]
-    try:
-        verdicts = check_points(system, points, seed=seed).points
-    except PointError:  # one point could not be settled: judge them one by one
-        verdicts = []
-        for point in points:
-            try:
-                verdicts.append(check_points(system, [point], seed=seed).points[0])
-            except PointError:
-                verdicts.append(None)
+    # a point that cannot be settled on X comes back "off" (each point is judged on its own)
+    verdicts = [None if v.verdict == "off" else v for v in check_points(system, points, seed=seed).points]
     kept = []
     for piece, verdict in zip(pieces, verdicts):
         if verdict is None:

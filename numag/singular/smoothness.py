@@ -12,7 +12,9 @@ How a small singular value is tested
 ------------------------------------
 1. The point is moved onto X (minimum-norm Gauss-Newton) in double precision,
    all points in one batch; a point that cannot be moved onto X within the
-   point tolerance is refused.
+   point tolerance (relative to the point, in the balanced units of the scaled
+   problem) gets the verdict "off", with its residual and the distance Newton
+   moved it, and the other points are judged as usual.
 2. If the c-th scaled singular value (c = codimension) is clearly above zero,
    the rank is c and the point is smooth.
 3. Otherwise, at rising precision (mpmath, up to ``max_digits``): refine on F;
@@ -58,8 +60,8 @@ from ..witness.decompose import components_through
 __all__ = ["CheckOptions", "PointVerdict", "CheckReport", "check_points",
            "VERDICTS"]
 
-#: The possible verdicts.
-VERDICTS = ("smooth", "singular", "non-reduced", "undecided")
+#: The possible verdicts ("off": the point is not on X within the point tolerance, so nothing is judged there).
+VERDICTS = ("smooth", "singular", "non-reduced", "undecided", "off")
 #: Scaled residual (Euclidean) at which a point whose refinement stalled still counts as on X.
 _ON_VARIETY_RESIDUAL = 1e-11
 
@@ -214,6 +216,11 @@ class CheckReport:
     def undecided(self):
         """True when at least one verdict is undecided."""
         return any(p.verdict == "undecided" for p in self.points)
+
+    @property
+    def off(self):
+        """True when at least one point is not on X (verdict "off")."""
+        return any(p.verdict == "off" for p in self.points)
 
 
 def _size(point):
@@ -524,10 +531,14 @@ def check_points(system, points, options=None, seed=None, decomposition=None):
     -------
     CheckReport
 
+    A point that cannot be moved onto X within the point tolerance gets the verdict "off" (its
+    ``residual``, the ``distance`` Newton moved it and a note say how far off it is); the other
+    points are judged as usual.
+
     Raises
     ------
     PointError
-        When a point is malformed or cannot be moved onto X within the point tolerance.
+        When a point is malformed (wrong number of coordinates, not a number, not finite).
     InputError
         For invalid options.
 
@@ -566,7 +577,8 @@ def _to_user_units(verdict, given, scaling, checker):
 
     verdict.given = given
     verdict.point = back(verdict.point)
-    verdict.distance = checker.distance(given, verdict.point)
+    if math.isfinite(verdict.distance):  # infinite: Newton ran away from an "off" point
+        verdict.distance = checker.distance(given, verdict.point)
     verdict.evidence = replace(verdict.evidence, point=back(verdict.evidence.point))
     if verdict.nearest_rank_drop is not None:
         verdict.nearest_rank_drop = back(verdict.nearest_rank_drop)
@@ -586,20 +598,48 @@ def _check_in_units(system, given, exact, options, seed, rng, decomposition, sca
     # (rounding, a rank-deficient Jacobian: 1.2e-13 seen at a linkage's branch point, which was then
     # dropped). A point that stalls within 100 times that is on X to double precision.
     on_variety = projection.converged | (projection.residuals <= _ON_VARIETY_RESIDUAL)
-    for k in range(len(given)):
-        tolerance = checker.tolerance_for(given[k])
-        moved = checker.distance(given[k], refined[k])
-        if not on_variety[k] or moved > tolerance:
-            raise PointError(
-                f"is not on X: scaled residual {residual_given[k]:.3g}; Newton refinement "
-                + (f"reached a point of X at distance {moved:.3g}, beyond the point tolerance {tolerance:.3g}"
-                   if on_variety[k] else
-                   f"did not reach X (scaled residual {projection.residuals[k]:.3g} after refinement)"),
-                k + 1)
-    values, scales = checker.scaled_values_double(refined)
+    moved = np.array([checker.distance(given[k], refined[k]) for k in range(len(given))])
+    tolerances = np.array([checker.tolerance_for(given[k]) for k in range(len(given))])
+    off = ~on_variety | (moved > tolerances)
+    values, scales = checker.scaled_values_double(np.where(off[:, None], given, refined))
     through = [None] * len(given)
     if decomposition is not None and options.local_dimension is None:
-        through = [components_through(decomposition, scaling.to_user(refined[k]), seed=seed + k)
+        through = [None if off[k] else components_through(decomposition, scaling.to_user(refined[k]), seed=seed + k)
                    for k in range(len(given))]
-    return [checker.check(k + 1, given[k], exact[k], refined[k], float(residual_given[k]), values[k], scales[k],
+    return [_off_verdict(checker, k + 1, given[k], refined[k], float(residual_given[k]), float(moved[k]),
+                         float(tolerances[k]), bool(on_variety[k]), float(projection.residuals[k]), values[k],
+                         scales[k])
+            if off[k] else
+            checker.check(k + 1, given[k], exact[k], refined[k], float(residual_given[k]), values[k], scales[k],
                           through[k]) for k in range(len(given))]
+
+
+def _off_verdict(checker, index, given, reached, residual, moved, tolerance, on_variety, reached_residual, values,
+                 scales):
+    """The verdict "off" for a point Newton could not bring onto X within the point tolerance.
+
+    Nothing is judged about X there; the evidence is the Jacobian at the given point (in double),
+    kept for the reader, and ``point`` is where Newton ended.
+    """
+    zero = zero_tolerance(DOUBLE_DIGITS, (checker.m, checker.n))
+    rank = numerical_rank(values, zero)
+    how = (f"Newton refinement reached a point of X at distance {moved:.3g}, beyond the point tolerance "
+           f"{tolerance:.3g}" if on_variety else
+           f"Newton refinement did not reach X (scaled residual {reached_residual:.3g} after refinement, "
+           f"{moved:.3g} from the given point)")
+    note = (f"Not on X: scaled residual {residual:.3g} at the given point; {how} (both in the balanced units "
+            "of the scaled problem). Nothing is judged here; raise --point-tolerance if the point is known "
+            "to fewer digits.")
+    point = np.asarray(reached, dtype=complex)
+    if not np.all(np.isfinite(point)):  # Newton ran away: the given point is all there is to show
+        point, moved = np.asarray(given, dtype=complex), math.inf
+    if checker.system.projective:
+        point = normalize_projective(point)
+    evidence = RankEvidence(rank=int(rank), singular_values=np.asarray(values, dtype=float),
+                            row_scales=np.asarray(scales, dtype=float), tolerance=zero,
+                            gap=singular_value_gap(np.asarray(values, dtype=float), int(rank)),
+                            digits=DOUBLE_DIGITS, escalated=False, point=np.asarray(given, dtype=complex))
+    return PointVerdict(index=index, given=given, point=point, distance=moved, residual=residual, verdict="off",
+                        rank=None, codimension=None, tangent_dimension=None, local_dimension=None,
+                        local_dimension_source="not judged (the point is not on X)", evidence=evidence,
+                        notes=[note])

@@ -48,6 +48,12 @@ def _print_check(report, out, data=None):
         e = v.evidence
         out.write(f"\npoint {v.index}: {_format_point(system.variables, v.given)}\n")
         out.write(f"  verdict: {v.verdict.upper()}\n")
+        if v.verdict == "off":
+            out.write(f"  residual of F at the given point (scaled): {v.residual:.3g}\n")
+            out.write(f"  Newton moved it {v.distance:.3g} (to {_format_point(system.variables, v.point)})\n")
+            for note in v.notes:
+                out.write(f"  note: {note}\n")
+            continue
         if v.distance > 0:
             out.write(f"  speaks about: {_format_point(system.variables, v.point)} "
                       f"(distance {v.distance:.3g} from the given point)\n")
@@ -99,4 +105,4 @@ def run(args, out):
     else:
         _write_notes(args, out)
         _print_check(report, out, data)
-    return EXIT_UNDECIDED if report.undecided or _doubtful(data) else EXIT_OK
+    return EXIT_UNDECIDED if report.undecided or report.off or _doubtful(data) else EXIT_OK

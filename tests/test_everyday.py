@@ -1,0 +1,82 @@
+"""Everyday use: saved work reused (points and decompositions from reports), each point judged on its own."""
+
+import io
+import json
+
+import pytest
+
+from numag.app.cli import EXIT_INPUT, EXIT_OK, EXIT_UNDECIDED, main
+from numag.errors import PointError
+from numag.system.files import points_from_json
+
+NODAL = 'name = "nodal"\nvariables = ["x", "y"]\nequations = ["y^2 - x^2*(x + 1)"]\n'
+AXES = 'variables = ["x", "y", "z"]\nequations = ["x*y", "x*z", "y*z", "x*y*z"]\n'
+
+
+def run(argv):
+    out = io.StringIO()
+    code = main(argv, out=out)
+    return code, out.getvalue()
+
+
+def write(tmp_path, name, text):
+    path = tmp_path / name
+    path.write_text(text)
+    return str(path)
+
+
+@pytest.mark.parametrize("seed", [1, 7, 23])
+def test_one_off_point_among_good_ones_is_off_and_the_others_are_judged(tmp_path, seed):
+    # The nodal cubic y^2 = x^2 (x + 1): the origin is its only singular point, (3, 6) lies on it and is
+    # smooth, (1/2, 1/2) is off it (F = 1/4 - 3/8) (common practice, no source).
+    system = write(tmp_path, "nodal.toml", NODAL)
+    points = write(tmp_path, "points.json", json.dumps([{"x": 0, "y": 0}, {"x": 0.5, "y": 0.5}, {"x": 3, "y": 6}]))
+    code, text = run(["check", system, "--points-file", points, "--json", "--seed", str(seed)])
+    data = json.loads(text)
+    assert code == EXIT_UNDECIDED
+    assert [p["verdict"] for p in data["points"]] == ["singular", "off", "smooth"]
+    off = data["points"][1]
+    assert off["residual"] > 0.01 and off["distance"] > 1e-3 and off["rank"] is None
+    assert data["counts"]["off"] == 1
+    code, text = run(["check", system, "--points-file", points, "--seed", str(seed)])
+    assert code == EXIT_UNDECIDED and "verdict: OFF" in text and "Newton moved it" in text
+
+
+def test_points_of_saved_reports_and_single_objects(tmp_path):
+    # The node of y^2 = x^2 (x + 1) is the origin (common practice, no source); the solutions of
+    # x^2 + y^2 = 1, x = y are +-(1/sqrt 2, 1/sqrt 2) (common practice, no source).
+    nodal = write(tmp_path, "nodal.toml", NODAL)
+    square = write(tmp_path, "square.toml", 'variables = ["x", "y"]\nequations = ["x^2 + y^2 - 1", "x - y"]\n')
+    code, singular = run(["singular", nodal, "--json", "--seed", "3"])
+    assert code == EXIT_OK
+    singular_path = write(tmp_path, "singular.json", singular)
+    code, text = run(["check", nodal, "--points-file", singular_path, "--json", "--seed", "3"])
+    data = json.loads(text)
+    assert code == EXIT_OK and [p["verdict"] for p in data["points"]] == ["singular"]
+    assert max(abs(v) for pair in data["points"][0]["point"] for v in pair) < 1e-8
+
+    code, solved = run(["solve", square, "--json", "--seed", "3"])
+    assert code == EXIT_OK
+    solve_path = write(tmp_path, "solve.json", solved)
+    code, text = run(["check", square, "--points-file", solve_path, "--json", "--seed", "3"])
+    data = json.loads(text)
+    assert code == EXIT_OK and [p["verdict"] for p in data["points"]] == ["smooth", "smooth"]
+    assert sorted(round(p["point"][0][0] ** 2, 12) for p in data["points"]) == [0.5, 0.5]
+
+    check_path = write(tmp_path, "check.json", text)  # a check report's points read back
+    code, again = run(["check", square, "--points-file", check_path, "--json", "--seed", "3"])
+    assert code == EXIT_OK and [p["verdict"] for p in json.loads(again)["points"]] == ["smooth", "smooth"]
+
+    single = write(tmp_path, "single.json", '{"x": 0, "y": 0}')
+    code, text = run(["check", nodal, "--points-file", single, "--json", "--seed", "3"])
+    assert code == EXIT_OK and [p["verdict"] for p in json.loads(text)["points"]] == ["singular"]
+
+
+def test_points_of_a_report_of_another_system_are_refused():
+    report = {"numag_version": "0", "command": "solve", "system": {"variables": ["u", "v"]}, "solutions": []}
+    with pytest.raises(PointError, match="variables"):
+        points_from_json(report, ["x", "y"])
+    with pytest.raises(PointError, match="holds no points"):
+        points_from_json({"numag_version": "0", "command": "decompose"}, ["x", "y"])
+    with pytest.raises(PointError, match="neither a point"):
+        points_from_json({"x": 1, "w": 2}, ["x", "y"])
