@@ -80,3 +80,34 @@ def test_points_of_a_report_of_another_system_are_refused():
         points_from_json({"numag_version": "0", "command": "decompose"}, ["x", "y"])
     with pytest.raises(PointError, match="neither a point"):
         points_from_json({"x": 1, "w": 2}, ["x", "y"])
+
+
+@pytest.mark.parametrize("seed", [4, 11])
+def test_check_with_a_saved_decomposition_gives_the_same_verdicts(tmp_path, seed):
+    # The three coordinate axes: a point of one axis is smooth, the origin where they meet is singular
+    # (common practice, no source); the saved decomposition must give the same verdicts and components.
+    axes = write(tmp_path, "axes.toml", AXES)
+    code, parts = run(["decompose", axes, "--json", "--seed", str(seed)])
+    assert code == EXIT_OK
+    parts_path = write(tmp_path, "parts.json", parts)
+    points = ["--point", "x=0,y=0,z=1", "--point", "x=0,y=0,z=0", "--point", "x=2,y=0,z=0", "--seed", str(seed)]
+    code_fresh, fresh = run(["check", axes, "--json"] + points)
+    code_saved, saved = run(["check", axes, "--json", "--decomposition", parts_path] + points)
+    fresh, saved = json.loads(fresh), json.loads(saved)
+    assert code_fresh == code_saved == EXIT_OK
+    assert [p["verdict"] for p in saved["points"]] == [p["verdict"] for p in fresh["points"]] == \
+        ["smooth", "singular", "smooth"]
+    assert [len(p["components"]) for p in saved["points"]] == [len(p["components"]) for p in fresh["points"]]
+
+
+def test_a_decomposition_of_another_system_or_command_is_refused(tmp_path, capsys):
+    axes = write(tmp_path, "axes.toml", AXES)
+    nodal = write(tmp_path, "nodal.toml", NODAL)
+    code, parts = run(["decompose", nodal, "--json", "--seed", "1"])
+    parts_path = write(tmp_path, "parts.json", parts)
+    code, _ = run(["check", axes, "--point", "x=0,y=0,z=0", "--decomposition", parts_path])
+    assert code == EXIT_INPUT and "another system" in capsys.readouterr().err
+    code, _ = run(["check", nodal, "--point", "x=0,y=0", "--decomposition", parts_path, "--without-components"])
+    assert code == EXIT_INPUT and "excludes" in capsys.readouterr().err
+    code, _ = run(["check", nodal, "--point", "x=0,y=0", "--decomposition", nodal])
+    assert code == EXIT_INPUT and capsys.readouterr().err.count("\n") == 1

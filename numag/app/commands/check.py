@@ -5,7 +5,8 @@ from ...system.files import load_points, parse_point_assignment
 from ...numeric.seeds import resolved_seed
 from ...witness.decompose import decompose
 from ...singular.smoothness import CheckOptions, check_points
-from ..report import CAUTION, check_report_to_dict, dumps
+from ..report import (CAUTION, check_report_to_dict, decomposition_from_dict, dumps, read_report,
+                      system_to_dict)
 from .certify import _certified, _doubtful, _print_certification
 from .common import (EXIT_OK, EXIT_UNDECIDED, _Messages, _add_certify_switch, _add_work_options, _format_point,
                      _guard_paths, _load, _positive_number, _seed, _with_notes, _write_notes)
@@ -25,6 +26,9 @@ def add_parser(commands):
     check.add_argument("--local-dimension", type=int, metavar="K",
                        help="dimension of X at the points (default: computed from the components of X "
                             "through each point)")
+    check.add_argument("--decomposition", metavar="JSON",
+                       help="reuse the components of X from a saved 'numag decompose --json' report of the "
+                            "same system instead of decomposing X again")
     check.add_argument("--without-components", action="store_true",
                        help="do not decompose X: assume a complete intersection unless --local-dimension "
                             "is given (faster on large systems, wrong on reducible X)")
@@ -82,6 +86,30 @@ def _print_check(report, out, data=None):
     out.write(f"\n{CAUTION}\n")
 
 
+def _saved_decomposition(args, system):
+    """The decomposition of a saved report, refused (one line naming the file) when it is of another system."""
+    if args.local_dimension is not None or args.without_components:
+        raise NumagError("--decomposition gives the local dimension from the components of X: it excludes "
+                         "--local-dimension and --without-components")
+    if system.projective:
+        raise NumagError("--decomposition: decompositions are of affine systems, this one is projective")
+    where = args.decomposition
+    data = read_report(where)
+    if data.get("command") != "decompose":
+        raise NumagError(f"{where}: not a report of 'numag decompose' (it is of {str(data.get('command'))[:20]!r})")
+    try:
+        decomposition, _ = decomposition_from_dict(data)
+    except (KeyError, TypeError, ValueError) as err:
+        raise NumagError(f"{where}: the decomposition report is damaged ({type(err).__name__}: "
+                         f"{str(err)[:80]})") from None
+    saved, ours = system_to_dict(decomposition.system), system_to_dict(system)
+    for key in ("variables", "equations"):
+        if saved[key] != ours[key]:
+            raise NumagError(f"{where}: the decomposition is of another system (its {key} differ from "
+                             f"{args.system_file}'s)")
+    return decomposition
+
+
 def run(args, out):
     system = _load(args)
     points = [parse_point_assignment(text, system.variables, index)
@@ -95,7 +123,9 @@ def run(args, out):
     options.validated(system)
     decomposition = None
     seed = resolved_seed(args.seed)
-    if args.local_dimension is None and not args.without_components and not system.projective:
+    if args.decomposition:
+        decomposition = _saved_decomposition(args, system)
+    elif args.local_dimension is None and not args.without_components and not system.projective:
         _guard_paths(args, system, "check")
         decomposition = decompose(system, seed=seed, progress=_Messages(args.json))
     report = check_points(system, points, options, seed=seed, decomposition=decomposition)
