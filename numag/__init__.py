@@ -11,6 +11,7 @@ The public API in brief:
 * :func:`certify_regular_zero`, :func:`certify_singular_point`, :func:`certify_smooth_point`,
   :func:`certify_rank`, :func:`overlapping_pairs` with :class:`CertifyOptions` -- certificates (``numag certify``);
 * :class:`BatchEvaluator` -- F and J at many points at once;
+* :func:`save`, :func:`load` -- any result to a JSON report and back; :class:`System` (``from_sympy``, ``to_sympy``);
 * :class:`NumagError` -- the root of every error numag raises on purpose.
 
 Examples
@@ -40,9 +41,11 @@ from .singular.locus import SingularOptions, singular_locus  # noqa: E402
 from .certify.records import CertifyOptions  # noqa: E402
 from .certify.certificates import (certify_rank, certify_regular_zero, certify_singular_point,  # noqa: E402
                                    certify_smooth_point, overlapping_pairs)
+from .app.saved import load, save  # noqa: E402
+System = PolynomialSystem  # the short name of the API: System.from_sympy(...), system.to_sympy()
 
 __all__ = ["NumagError", "parse_system", "parse_polynomial", "Polynomial", "PolynomialSystem",
            "BatchEvaluator", "CheckOptions", "check_points", "load_system", "SolveOptions", "solve_system",
            "continue_solutions", "DecomposeOptions", "decompose", "components_through", "SingularOptions",
            "singular_locus", "CertifyOptions", "certify_regular_zero", "certify_singular_point",
-           "certify_smooth_point", "certify_rank", "overlapping_pairs", "__version__"]
+           "certify_smooth_point", "certify_rank", "overlapping_pairs", "save", "load", "System", "__version__"]
