@@ -419,9 +419,8 @@ def _singular_locus(system, options, seed, progress):
             try:
                 affine_curves = any(c.dimension > 0 for c in components)
                 components += _at_infinity(system, rng, paths, progress, affine_curves)
-            except InputError:
-                notes.append("The closure of X is singular or non-reduced along a positive-dimensional set at "
-                             "infinity; its points at infinity are not listed.")
+            except InputError as unlisted:  # the message says which case (each one true for its case)
+                notes.append(str(unlisted))
         elif options.infinity_for_systems:
             components += _at_infinity_of_homogenized(system, options, rng, paths, discarded, notes, progress)
         else:
@@ -709,19 +708,22 @@ def _at_infinity(system, rng, paths, progress, affine_curves=True):
     if any(p.degree == 0 for p in restricted):  # a partial that is a nonzero constant there: no singular point
         return []
     if not restricted:
-        raise InputError("the closure is singular along the whole hyperplane at infinity")
+        raise InputError("The closure of X is singular along the whole hyperplane at infinity; its points at "
+                         "infinity are not listed.")
     if system.n_variables == 1:
         return []
     hyperplane = PolynomialSystem(list(system.variables), restricted, projective=True)
+    within = ("The closure of X is singular along a positive-dimensional set inside the hyperplane at infinity "
+              "({}); its points at infinity are not listed.")
     if hyperplane.n_equations < system.n_variables - 1:
-        raise InputError("the closure is singular along a positive-dimensional set at infinity")
+        raise InputError(within.format("fewer conditions there than its dimension"))
     if progress is not None:
         progress("singular points at infinity")
     result = solve_system(hyperplane, SolveOptions(square_up=hyperplane.n_equations > system.n_variables - 1),
                           seed=int(rng.integers(2**32)))
     _add_counts(paths, result.path_counts())
     if result.not_isolated:
-        raise InputError("the closure is singular along a positive-dimensional set at infinity")
+        raise InputError(within.format(f"{len(result.not_isolated)} solution(s) there are not isolated"))
     pieces = []
     gradient = [g for g in f.gradient() if not g.is_zero()]
     for solution in result.solutions:
@@ -739,7 +741,9 @@ def _at_infinity(system, rng, paths, progress, affine_curves=True):
                                      [g.dehomogenize(pivot) for g in gradient])
             isolated = IsolationTest(chart, rng).isolated(np.delete(point / point[pivot], pivot))
         if not isolated:
-            raise InputError("the closure is singular or non-reduced along a positive-dimensional set at infinity")
+            raise InputError("A singular or non-reduced set of positive dimension of X (listed above) reaches "
+                             "infinity: the closure is singular where it arrives there, and its points at infinity "
+                             "are not listed apart.")
         pieces.append(SingularComponent(0, 0, 1, point[None, :], _real_flags(system, solution.point[None, :]),
                                         solution.multiplicity, True, "gradient system at infinity", "singular",
                                         [], None, 1))

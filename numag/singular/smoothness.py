@@ -438,9 +438,9 @@ class _Checker:
         if thick and len(through) == 1 and opts.local_dimension is None and verdict == "singular":
             verdict = "non-reduced"
         for c in thick:
+            paths = f"; {c.multiplicity} paths end at each" if c.multiplicity > 1 else ""
             notes.append(f"Component {c.id} is generically non-reduced (the Jacobian has rank below its codimension "
-                         f"at its witness points; {c.multiplicity} paths end at each): the equations define it "
-                         "with multiplicity > 1.")
+                         f"at its witness points{paths}): the equations define it with multiplicity > 1.")
         if through and len(through) > 1 and opts.local_dimension is None:
             ids = ", ".join(str(c.id) for c in through)
             if verdict == "smooth":

@@ -8,8 +8,8 @@ from ...singular.smoothness import CheckOptions, check_points
 from ..report import (CAUTION, check_report_to_dict, decomposition_from_dict, dumps, read_report,
                       system_to_dict)
 from .certify import _certified, _doubtful, _print_certification
-from .common import (EXIT_OK, EXIT_UNDECIDED, _Messages, _add_certify_switch, _add_work_options, _format_point,
-                     _guard_paths, _load, _positive_number, _seed, _with_notes, _write_notes)
+from .common import (EXIT_OK, EXIT_UNDECIDED, _Messages, _PointFormat, _add_certify_switch, _add_work_options,
+                     _format_point, _headline, _guard_paths, _load, _positive_number, _seed, _with_notes, _write_notes)
 
 
 def add_parser(commands):
@@ -45,21 +45,21 @@ def add_parser(commands):
 
 def _print_check(report, out, data=None):
     system = report.system
-    kind = "projective" if system.projective else "affine"
-    out.write(f"numag check: {system.name or 'system'}: {system.n_equations} equation(s) in "
-              f"{system.n_variables} variables ({kind}), seed {report.seed}\n")
+    out.write(_headline("check", system, report.seed))
+    text = _PointFormat()
+    accuracy = report.options.point_tolerance  # the given points' accuracy, and so of what they move to
     for v in report.points:
         e = v.evidence
         out.write(f"\npoint {v.index}: {_format_point(system.variables, v.given)}\n")
         out.write(f"  verdict: {v.verdict.upper()}\n")
         if v.verdict == "off":
             out.write(f"  residual of F at the given point (scaled): {v.residual:.3g}\n")
-            out.write(f"  Newton moved it {v.distance:.3g} (to {_format_point(system.variables, v.point)})\n")
+            out.write(f"  Newton moved it {v.distance:.3g} (to {text(system.variables, v.point, accuracy)})\n")
             for note in v.notes:
                 out.write(f"  note: {note}\n")
             continue
         if v.distance > 0:
-            out.write(f"  speaks about: {_format_point(system.variables, v.point)} "
+            out.write(f"  speaks about: {text(system.variables, v.point, accuracy)} "
                       f"(distance {v.distance:.3g} from the given point)\n")
         out.write(f"  residual of F at the given point (scaled): {v.residual:.3g}\n")
         codim = "unknown" if v.codimension is None else str(v.codimension)
@@ -73,7 +73,7 @@ def _print_check(report, out, data=None):
                   f"{e.digits} digits{', escalated' if e.escalated else ''}\n")
         if v.nearest_rank_drop is not None and v.verdict == "smooth":
             out.write(f"  nearest point found where the rank drops: "
-                      f"{_format_point(system.variables, v.nearest_rank_drop)} "
+                      f"{text(system.variables, v.nearest_rank_drop, accuracy)} "
                       f"(distance {v.nearest_rank_drop_distance:.3g})\n")
         if v.components:
             names = ", ".join(f"{c['id']} (dimension {c['dimension']}, degree {c['degree']})" for c in v.components)
@@ -83,6 +83,7 @@ def _print_check(report, out, data=None):
     counts = ", ".join(f"{n} {c}" for n, c in report.counts().items())
     out.write(f"\nsummary: {counts}\n")
     _print_certification(data, out)
+    out.write(("\n" + text.footnote()) if text.used else "")
     out.write(f"\n{CAUTION}\n")
 
 

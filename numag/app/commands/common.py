@@ -148,18 +148,96 @@ def _add_certify_switch(command):
                          help="certify the resulting points at --digits digits (see 'numag certify')")
 
 
-def _format_complex(z):
-    size = max(1.0, abs(z))
-    real = 0.0 if abs(z.real) <= 1e-14 * size else z.real
-    imag = 0.0 if abs(z.imag) <= 1e-14 * size else z.imag
+def _counted(count, noun, plural=None):
+    """A count with its noun in the right number: ``1 equation``, ``2 equations``, ``0 batches``.
+
+    Examples
+    --------
+    >>> _counted(1, "equation"), _counted(3, "batch", "batches"), _counted(0, "singular point")
+    ('1 equation', '3 batches', '0 singular points')
+    """
+    return f"{count} {noun if count == 1 else (plural or noun + 's')}"
+
+
+def _headline(command, system, seed, kind=True):
+    """The first line of a command's report: the system, its size and the seed."""
+    space = f" ({'projective' if system.projective else 'affine'})" if kind else ""
+    return (f"numag {command}: {system.name or 'system'}: {_counted(system.n_equations, 'equation')} in "
+            f"{_counted(system.n_variables, 'variable')}{space}, seed {seed}\n")
+
+
+#: Parts of a coordinate below this (relative to the point) are rounding, whatever the point's accuracy.
+_ROUNDING = 1e-14
+
+
+def _format_complex(z, floor=None):
+    """A coordinate as text; real or imaginary parts of size at most ``floor`` are printed as 0."""
+    floor = _ROUNDING * max(1.0, abs(z)) if floor is None else floor
+    real = 0.0 if abs(z.real) <= floor else z.real
+    imag = 0.0 if abs(z.imag) <= floor else z.imag
     if imag == 0.0:
         return f"{real:.10g}"
+    if real == 0.0:  # purely imaginary: no "0+" in front
+        return f"{imag:.10g}*I"
     sign = "+" if imag >= 0 else "-"
     return f"{real:.10g}{sign}{abs(imag):.10g}*I"
 
 
 def _format_point(names, point):
     return ", ".join(f"{n}={_format_complex(complex(z))}" for n, z in zip(names, point))
+
+
+#: Accuracy (relative) of witness and sample points refined on X in double precision.
+_WITNESS_ACCURACY = 1e-10
+
+
+def _root_accuracy(digits, multiplicity):
+    """Relative accuracy of a root of the given multiplicity refined at ``digits`` digits: about eps^(1/m)
+    (common practice: a root of multiplicity m moves by eps^(1/m) under perturbations of size eps).
+
+    Examples
+    --------
+    >>> _root_accuracy(16, 1), _root_accuracy(16, 2)
+    (1e-14, 1e-06)
+    """
+    return max(_ROUNDING, 100 * (10.0 ** -digits) ** (1.0 / max(1, int(multiplicity))))
+
+
+class _PointFormat:
+    """Points as text with the noise below their accuracy printed as 0, and one footnote saying so.
+
+    A computed point is known only to its accuracy (relative to ``sqrt(1 + |p|^2)``): a real or
+    imaginary part below it is noise of the computation (1e-17*I on a real point), and printed as 0.
+    The JSON report keeps every digit.
+
+    Examples
+    --------
+    >>> text = _PointFormat()
+    >>> text(["x", "y"], [1 + 3e-12j, 2e-9], accuracy=1e-8)
+    'x=1, y=0'
+    >>> text.footnote()[:40]
+    'note: real and imaginary parts below the'
+    """
+
+    def __init__(self):
+        self.used = []  # the accuracies that turned a nonzero part into 0
+
+    def __call__(self, names, point, accuracy=_ROUNDING):
+        values = [complex(z) for z in point]
+        size = math.sqrt(1.0 + sum(abs(z) ** 2 for z in values))
+        floor = max(accuracy, _ROUNDING) * size
+        if any(0 < abs(part) <= floor for z in values for part in (z.real, z.imag)) and accuracy > _ROUNDING:
+            self.used.append(accuracy)
+        return ", ".join(f"{n}={_format_complex(z, floor)}" for n, z in zip(names, values))
+
+    def footnote(self):
+        """One line for the end of the report ('' when no part was rounded to 0)."""
+        if not self.used:
+            return ""
+        low, high = min(self.used), max(self.used)
+        accuracy = f"{high:.0e}" if low == high else f"{low:.0e} to {high:.0e}"
+        return (f"note: real and imaginary parts below the points' accuracy ({accuracy}, relative to "
+                "sqrt(1 + |point|^2)) are printed as 0; the JSON report (--json) keeps every digit.\n")
 
 
 def _with_warnings(data):

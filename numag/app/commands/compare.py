@@ -3,8 +3,8 @@
 from ...errors import NumagError
 from ..compare import compare_system
 from ..report import CAUTION, compare_to_dict, dumps
-from .common import (EXIT_MISMATCH, EXIT_OK, EXIT_UNDECIDED, _Messages, _add_work_options, _guard_paths, _load,
-                     _positive_number, _seed, _with_notes, _write_notes)
+from .common import (EXIT_MISMATCH, EXIT_OK, EXIT_UNDECIDED, _Messages, _add_work_options, _guard_paths, _headline,
+                     _load, _positive_number, _seed, _with_notes, _write_notes)
 
 
 def add_parser(commands):
@@ -27,9 +27,7 @@ def add_parser(commands):
 
 def _print_compare(comparison, out):
     system = comparison.system
-    out.write(f"numag compare: {system.name or 'system'}: {system.n_equations} equation(s) in "
-              f"{system.n_variables} variables ({'projective' if system.projective else 'affine'}), "
-              f"seed {comparison.locus.seed}\n\n")
+    out.write(_headline("compare", system, comparison.locus.seed) + "\n")
     width = max(len(r.quantity) for r in comparison.rows) if comparison.rows else 10
     out.write(f"  {'quantity':{width}}  {'numag':>10}  {'exact':>10}  agree\n")
     for r in comparison.rows:

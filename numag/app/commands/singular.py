@@ -11,8 +11,8 @@ from ...singular.locus import FORMULATIONS, SingularOptions, singular_locus
 from ..report import CAUTION, dumps, singular_to_dict
 from .certify import _certified, _doubtful, _print_certification
 from .common import (EXIT_OK, EXIT_UNDECIDED, _Messages, _add_certify_switch, _add_executor_options,
-                     _add_work_options, _format_point, _guard_paths, _load, _print_warnings, _seed,
-                     _stage_executor, _with_notes, _with_warnings, _write_notes)
+                     _add_work_options, _counted, _PointFormat, _WITNESS_ACCURACY, _guard_paths, _headline, _load,
+                     _print_warnings, _seed, _stage_executor, _with_notes, _with_warnings, _write_notes)
 
 
 def add_parser(commands):
@@ -53,12 +53,10 @@ def _angles_text(point, angles):
 
 def _print_singular(result, out, angles, data=None):
     system = result.system
-    kind = "projective" if system.projective else "affine"
-    out.write(f"numag singular: {system.name or 'system'}: {system.n_equations} equation(s) in "
-              f"{system.n_variables} variables ({kind}), seed {result.seed}\n")
+    out.write(_headline("singular", system, result.seed))
     if result.variety is not None:
         parts = ", ".join(f"dimension {c.dimension} degree {c.degree}" for c in result.variety.components)
-        out.write(f"X: {len(result.variety.components)} component(s): {parts or 'empty'}\n")
+        out.write(f"X: {_counted(len(result.variety.components), 'component')}: {parts or 'empty'}\n")
     counts = result.paths
     failed = sum(counts.get(label, 0) for label in FAILURE_LABELS)
     dropped = ", ".join(f"{k.replace('_', ' ')} {v}" for k, v in result.discarded.items()) or "none"
@@ -67,30 +65,33 @@ def _print_singular(result, out, angles, data=None):
     affine = [c for c in result.components if not c.at_infinity]
     points = [c for c in affine if c.dimension == 0 and c.kind == "singular"]
     real = sum(1 for c in points if c.real[0])
-    out.write(f"\n{len(points)} singular point(s), {real} real\n")
+    out.write(f"\n{_counted(len(points), 'singular point')}, {real} real\n")
     names = system.variables
+    text = _PointFormat()
     for c in points:
         where = f"  on components {', '.join(map(str, c.on_components))}" if c.on_components else ""
-        out.write(f"  {c.id:4d}  {'real' if c.real[0] else 'complex'}  {_format_point(names, c.points[0])}"
+        out.write(f"  {c.id:4d}  {'real' if c.real[0] else 'complex'}  {text(names, c.points[0], _WITNESS_ACCURACY)}"
                   f"{_angles_text(c.points[0], angles)}{where}\n")
     larger = [c for c in affine if c.dimension > 0 or c.kind != "singular"]
     if larger:
-        out.write(f"\n{len(larger)} singular or non-reduced component(s) of positive dimension or undecided\n")
+        out.write(f"\n{_counted(len(larger), 'singular or non-reduced component')} of positive dimension or "
+                  "undecided\n")
         for c in larger:
             out.write(f"  {c.id:4d}  {c.kind}  dimension {c.dimension}  degree {c.degree}  "
-                      f"{int(sum(c.real))} real witness point(s)  ({c.formulation})\n")
-            out.write(f"        e.g. {_format_point(names, c.points[int(np.argmax(c.real))])}\n")
+                      f"{_counted(int(sum(c.real)), 'real witness point')}  ({c.formulation})\n")
+            out.write(f"        e.g. {text(names, c.points[int(np.argmax(c.real))], _WITNESS_ACCURACY)}\n")
     infinite = [c for c in result.components if c.at_infinity]
     if infinite:
         homogeneous = ["(w)"] + list(names)
-        out.write(f"\n{len(infinite)} singular point(s) at infinity of the closure (homogeneous coordinates "
+        out.write(f"\n{_counted(len(infinite), 'singular point')} at infinity of the closure (homogeneous coordinates "
                   f"{', '.join(homogeneous)}):\n")
         for c in infinite:
-            out.write(f"  {c.id:4d}  {_format_point(homogeneous, c.points[0])}\n")
+            out.write(f"  {c.id:4d}  {text(homogeneous, c.points[0], _WITNESS_ACCURACY)}\n")
     for note in result.notes:
         out.write(f"\nnote: {note}\n")
     _print_warnings(data, out)
     _print_certification(data, out)
+    out.write(("\n" + text.footnote()) if text.used else "")
     out.write(f"\n{CAUTION}\n")
 
 
