@@ -111,3 +111,19 @@ def test_a_decomposition_of_another_system_or_command_is_refused(tmp_path, capsy
     assert code == EXIT_INPUT and "excludes" in capsys.readouterr().err
     code, _ = run(["check", nodal, "--point", "x=0,y=0", "--decomposition", nodal])
     assert code == EXIT_INPUT and capsys.readouterr().err.count("\n") == 1
+
+
+@pytest.mark.parametrize("where", ["before", "after"])
+def test_debug_shows_the_traceback_of_an_internal_error(tmp_path, monkeypatch, capsys, where):
+    from numag.app.commands import check
+
+    def broken(args, out):
+        raise ZeroDivisionError("a bug")
+    monkeypatch.setattr(check, "run", broken)
+    argv = ["check", write(tmp_path, "nodal.toml", NODAL), "--point", "x=0,y=0"]
+    assert run(argv)[0] == 1
+    quiet = capsys.readouterr().err
+    assert "internal error: ZeroDivisionError: a bug" in quiet and "Traceback" not in quiet
+    assert run(["--debug"] + argv if where == "before" else argv + ["--debug"])[0] == 1
+    loud = capsys.readouterr().err
+    assert "Traceback (most recent call last)" in loud and "internal error: ZeroDivisionError" in loud

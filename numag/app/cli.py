@@ -12,6 +12,7 @@ Exit codes
 import argparse
 import signal
 import sys
+import traceback
 import warnings
 
 import numpy as np
@@ -42,7 +43,16 @@ def build_parser():
 
     for command in (check, solve, singular, decompose, certify, compare):
         command.add_parser(commands)
+    _add_debug_switch(parser, commands)
     return parser
+
+
+def _add_debug_switch(parser, commands):
+    """``--debug``, before or after the sub-command: an internal error shows its traceback."""
+    help_text = "on an internal error, show the traceback (for a bug report) besides the one-line message"
+    parser.add_argument("--debug", action="store_true", help=help_text)
+    for command in commands.choices.values():
+        command.add_argument("--debug", action="store_true", default=argparse.SUPPRESS, help=help_text)
 
 
 def main(argv=None, out=None):
@@ -83,7 +93,9 @@ def main(argv=None, out=None):
             sys.stdout = None
         finally:
             return EXIT_OK
-    except Exception as err:  # noqa: BLE001 - last resort: one line, never a traceback
+    except Exception as err:  # noqa: BLE001 - last resort: one line, a traceback only when asked for (--debug)
+        if getattr(args, "debug", False):
+            traceback.print_exc(file=sys.stderr)
         sys.stderr.write(f"numag: internal error: {type(err).__name__}: {one_line(str(err))[:300]} (please report this with the "
                          "command and input)\n")
         return EXIT_INTERNAL

@@ -25,7 +25,8 @@ import numpy as np
 from ..singular.locus import SingularOptions, singular_locus
 from .reference import REFERENCE_SCOPE, exact_reference
 
-__all__ = ["ComparisonRow", "Comparison", "numag_summary", "compare_answers", "compare_system", "VERDICTS"]
+__all__ = ["ComparisonRow", "Comparison", "numag_summary", "compare_answers", "compare_system", "agreement_digits",
+           "VERDICTS"]
 
 #: Outcomes of a comparison.
 VERDICTS = ("agree", "mismatch", "incomplete")
@@ -87,6 +88,21 @@ class Comparison:
         if self.reference.status != "finished" or self.numag_seconds <= 0:
             return None
         return self.reference_seconds / self.numag_seconds
+
+
+def agreement_digits(distance):
+    """Digits of agreement for a largest relative distance, as it is shown (two significant digits).
+
+    -log10 of the distance printed, so that the digits and the distance shown beside them agree (points
+    refined at high precision can agree far beyond 16 digits); infinity for a distance of 0.
+
+    Examples
+    --------
+    >>> round(agreement_digits(3.44e-11), 2), agreement_digits(0.0)
+    (10.46, inf)
+    """
+    shown = float(f"{distance:.1e}")
+    return math.inf if shown == 0 else -math.log10(shown)
 
 
 def numag_summary(locus):
@@ -228,7 +244,7 @@ def compare_answers(system, locus, reference, numag_seconds, tolerance=1e-6):
             gaps = np.max(np.abs(mine - exact_point[None, :]), axis=1) / (1.0 + np.max(np.abs(exact_point)))
             worst = max(worst, float(np.nanmin(gaps)))
         max_distance = worst
-        digits = 16.0 if worst == 0 else min(16.0, -math.log10(worst))
+        digits = agreement_digits(worst)
         rows.append(ComparisonRow("largest distance to an exact point", f"{worst:.1e}", f"<= {tolerance:g}",
                                   worst <= tolerance))
     elif reference.points is None and reference.status == "finished" and exact_dimension == 0:

@@ -159,6 +159,23 @@ def _counted(count, noun, plural=None):
     return f"{count} {noun if count == 1 else (plural or noun + 's')}"
 
 
+def _unsearched(lowest, dimension=None):
+    """What ``--lowest-dimension K`` left out, for the counts it affects ('' when nothing was left out).
+
+    ``dimension``: the count is of sets of this one dimension (entirely unsearched when below K).
+
+    Examples
+    --------
+    >>> _unsearched(2), _unsearched(1, dimension=0), _unsearched(None)
+    (' (dimensions below 2 not searched: --lowest-dimension 2)', ' (not searched: --lowest-dimension 1)', '')
+    """
+    if not lowest:
+        return ""
+    if dimension is not None and dimension < lowest:
+        return f" (not searched: --lowest-dimension {lowest})"
+    return f" (dimensions below {lowest} not searched: --lowest-dimension {lowest})"
+
+
 def _headline(command, system, seed, kind=True):
     """The first line of a command's report: the system, its size and the seed."""
     space = f" ({'projective' if system.projective else 'affine'})" if kind else ""

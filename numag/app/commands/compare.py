@@ -37,7 +37,8 @@ def _print_compare(comparison, out):
         out.write(f"  {r.quantity:{width}}  {mine:>10}  {exact:>10}  {mark}\n")
     reference = comparison.reference
     if comparison.digits is not None:
-        out.write(f"\n  coordinates agree to {comparison.digits:.1f} digits\n")
+        digits = "every digit" if comparison.digits == float("inf") else f"{comparison.digits:.1f} digits"
+        out.write(f"\n  coordinates agree to {digits}: largest relative distance {comparison.max_distance:.1e}\n")
     if reference.exact_points:
         out.write("  exact singular points (sympy):\n")
         for point in reference.exact_points[:20]:

@@ -9,7 +9,7 @@ from ...witness.cascade import WitnessOptions
 from ...witness.decompose import DecomposeOptions, decompose
 from ..report import CAUTION, decomposition_to_dict, dumps
 from .common import (EXIT_OK, EXIT_UNDECIDED, _Messages, _add_executor_options, _add_work_options, _counted,
-                     _PointFormat, _WITNESS_ACCURACY, _headline, _guard_paths, _load, _print_warnings, _seed,
+                     _PointFormat, _WITNESS_ACCURACY, _headline, _unsearched, _guard_paths, _load, _print_warnings, _seed,
                      _stage_executor, _with_notes, _with_warnings, _write_notes)
 
 
@@ -42,7 +42,8 @@ def _print_decompose(result, out, data=None):
               f"{counts.get('not_on_X', 0)}, at infinity or lost {counts.get('at_infinity_or_failed', 0)}, "
               f"on a larger component (removed) {counts.get('on_larger_component', 0)}; "
               f"{result.seconds:.2f} s\n")
-    out.write(f"\n{_counted(len(result.components), 'irreducible component')}\n")
+    lowest = (data or {}).get("options", {}).get("lowest_dimension")
+    out.write(f"\n{_counted(len(result.components), 'irreducible component')}{_unsearched(lowest)}\n")
     text = _PointFormat()
     for c in result.components:
         # the multiplicity (paths per witness point) says more only when above 1

@@ -11,7 +11,7 @@ from ...singular.locus import FORMULATIONS, SingularOptions, singular_locus
 from ..report import CAUTION, dumps, singular_to_dict
 from .certify import _certified, _doubtful, _print_certification
 from .common import (EXIT_OK, EXIT_UNDECIDED, _Messages, _add_certify_switch, _add_executor_options,
-                     _add_work_options, _counted, _PointFormat, _WITNESS_ACCURACY, _guard_paths, _headline, _load,
+                     _add_work_options, _counted, _PointFormat, _WITNESS_ACCURACY, _guard_paths, _headline, _unsearched, _load,
                      _print_warnings, _seed, _stage_executor, _with_notes, _with_warnings, _write_notes)
 
 
@@ -54,9 +54,11 @@ def _angles_text(point, angles):
 def _print_singular(result, out, angles, data=None):
     system = result.system
     out.write(_headline("singular", system, result.seed))
+    lowest = (data or {}).get("options", {}).get("lowest_dimension")
     if result.variety is not None:
         parts = ", ".join(f"dimension {c.dimension} degree {c.degree}" for c in result.variety.components)
-        out.write(f"X: {_counted(len(result.variety.components), 'component')}: {parts or 'empty'}\n")
+        out.write(f"X: {_counted(len(result.variety.components), 'component')}: {parts or 'empty'}"
+                  f"{_unsearched(lowest)}\n")
     counts = result.paths
     failed = sum(counts.get(label, 0) for label in FAILURE_LABELS)
     dropped = ", ".join(f"{k.replace('_', ' ')} {v}" for k, v in result.discarded.items()) or "none"
@@ -65,7 +67,7 @@ def _print_singular(result, out, angles, data=None):
     affine = [c for c in result.components if not c.at_infinity]
     points = [c for c in affine if c.dimension == 0 and c.kind == "singular"]
     real = sum(1 for c in points if c.real[0])
-    out.write(f"\n{_counted(len(points), 'singular point')}, {real} real\n")
+    out.write(f"\n{_counted(len(points), 'singular point')}, {real} real{_unsearched(lowest, dimension=0)}\n")
     names = system.variables
     text = _PointFormat()
     for c in points:
@@ -75,7 +77,7 @@ def _print_singular(result, out, angles, data=None):
     larger = [c for c in affine if c.dimension > 0 or c.kind != "singular"]
     if larger:
         out.write(f"\n{_counted(len(larger), 'singular or non-reduced component')} of positive dimension or "
-                  "undecided\n")
+                  f"undecided{_unsearched(lowest)}\n")
         for c in larger:
             out.write(f"  {c.id:4d}  {c.kind}  dimension {c.dimension}  degree {c.degree}  "
                       f"{_counted(int(sum(c.real)), 'real witness point')}  ({c.formulation})\n")
@@ -83,7 +85,8 @@ def _print_singular(result, out, angles, data=None):
     infinite = [c for c in result.components if c.at_infinity]
     if infinite:
         homogeneous = ["(w)"] + list(names)
-        out.write(f"\n{_counted(len(infinite), 'singular point')} at infinity of the closure (homogeneous coordinates "
+        out.write(f"\n{_counted(len(infinite), 'singular point')} at infinity of the closure"
+                  f"{_unsearched(lowest, dimension=0)} (homogeneous coordinates "
                   f"{', '.join(homogeneous)}):\n")
         for c in infinite:
             out.write(f"  {c.id:4d}  {text(homogeneous, c.points[0], _WITNESS_ACCURACY)}\n")
