@@ -93,3 +93,21 @@ def test_what_cannot_be_saved_or_loaded_is_one_clear_error(tmp_path):
                                    "system": {"variables": ["x"], "equations": ["x"]}}))
     with pytest.raises(InputError, match="damaged.json: the report of 'numag decompose' is damaged"):
         numag.load(damaged)
+
+
+def test_every_result_shows_itself_in_a_line_or_two_and_as_an_html_table(tmp_path):
+    # Reprs stay short whatever the size of the result (common practice, no source)
+    report = numag.check_points(NODAL, [[0, 0], [3, 6], [0.5, 0.5]], seed=2)
+    locus = numag.singular_locus(NODAL, seed=1)
+    results = [report, report.points[0], locus, locus.components[0], numag.decompose(NODAL, seed=1),
+               numag.solve_system(numag.parse_system(["x^2 + y^2 - 1", "x - y"], ["x", "y"]), seed=3),
+               numag.certify_singular_point(numag.parse_system(["y^2 - x^3"], ["x", "y"]), [1e-9, 0.0])]
+    results += [results[4].components[0], results[5].solutions[0]]
+    for result in results:
+        text = repr(result)
+        assert text.count("\n") <= 1 and len(text) < 240 and text.startswith(type(result).__name__ + "(")
+    assert repr(report) == "CheckReport(system: smooth 1, singular 1, off 1; seed 2)"
+    for result in (report, locus, results[4], results[5], results[6]):
+        table = result._repr_html_()
+        assert table.startswith("<table>") and table.count("<tr>") >= 2 and "<script" not in table
+    assert report._repr_html_().count("<tr>") == 1 + 3  # a header and one row per point

@@ -22,6 +22,7 @@ import time
 
 import numpy as np
 
+from ..system.display import html_table
 from ..singular.locus import SingularOptions, singular_locus
 from .reference import REFERENCE_SCOPE, exact_reference
 
@@ -81,6 +82,16 @@ class Comparison:
     verdict: str
     scope: str = REFERENCE_SCOPE
     notes: list = field(default_factory=list)
+
+    def __repr__(self):
+        digits = "" if self.digits is None else f", coordinates agree to {self.digits:.1f} digits"
+        return (f"Comparison({self.system.name or 'system'}: {self.verdict}, {len(self.rows)} quantities, reference "
+                f"{self.reference.status}{digits})")
+
+    def _repr_html_(self):
+        rows = [[r.quantity, "-" if r.numag is None else r.numag, "-" if r.exact is None else r.exact,
+                 {True: "yes", False: "NO", None: "-"}[r.agree]] for r in self.rows]
+        return html_table(repr(self), ["quantity", "numag", "exact", "agree"], rows)
 
     @property
     def ratio(self):

@@ -43,6 +43,7 @@ import time
 import numpy as np
 
 from ..errors import InputError, LimitError, PointError
+from ..system.display import counted, html_table, short_point
 from ..system.polynomial import Polynomial, PolynomialSystem, determinant, linear_space, require_numeric
 from ..numeric.cluster import cluster_labels, groups, normalize_projective
 from ..numeric.evaluate import BatchEvaluator, TermSizes
@@ -140,6 +141,12 @@ class SingularComponent:
     codimension: object = None
     notes: list = field(default_factory=list)
 
+    def __repr__(self):
+        where = " at infinity" if self.at_infinity else ""
+        at = f" at {short_point(self.points[0])}" if self.dimension == 0 and len(self.points) else ""
+        return (f"SingularComponent({self.id}: {self.kind}{where}, dimension {self.dimension}, degree {self.degree}"
+                f"{at})")
+
 
 @dataclass
 class SingularLocus:
@@ -172,6 +179,21 @@ class SingularLocus:
     seconds: float
     notes: list = field(default_factory=list)
     scaling: object = None
+
+    def __repr__(self):
+        affine = [c for c in self.components if not c.at_infinity]
+        points = [c for c in affine if c.dimension == 0 and c.kind == "singular"]
+        infinite = len(self.components) - len(affine)
+        return (f"SingularLocus({self.system.name or 'system'}: {counted(len(points), 'singular point')} "
+                f"({sum(bool(c.real[0]) for c in points)} real), {counted(len(affine) - len(points), 'other piece')}, "
+                f"{infinite} at infinity; seed {self.seed})")
+
+    def _repr_html_(self):
+        rows = [[c.id, c.kind, c.dimension, c.degree, "yes" if c.at_infinity else "no",
+                 ", ".join(map(str, c.on_components)), short_point(c.points[0]) if len(c.points) else ""]
+                for c in self.components]
+        return html_table(repr(self), ["id", "kind", "dimension", "degree", "at infinity", "on components of X",
+                                       "a point"], rows)
 
     def isolated(self):
         """The singular points (dimension 0, kind singular)."""

@@ -46,6 +46,7 @@ import mpmath
 import numpy as np
 
 from ..errors import InputError, PointError
+from ..system.display import html_table, short_point
 from ..system.exact import ExactCoefficient
 from ..system.polynomial import require_numeric
 from ..numeric.cluster import line_distance, normalize_projective, projective_pivot
@@ -185,6 +186,11 @@ class PointVerdict:
     notes: list = field(default_factory=list)
     components: list = field(default_factory=list)
 
+    def __repr__(self):
+        rank = "" if self.rank is None else f", rank {self.rank} of {self.codimension}"
+        return (f"PointVerdict({self.index}: {self.verdict} at {short_point(self.point)}{rank}, "
+                f"distance {self.distance:.1e})")
+
 
 @dataclass
 class CheckReport:
@@ -207,6 +213,18 @@ class CheckReport:
     options: CheckOptions
     seed: int
     scaling: object = None
+
+    def __repr__(self):
+        counts = ", ".join(f"{name} {count}" for name, count in self.counts().items() if count) or "no points"
+        return f"CheckReport({self.system.name or 'system'}: {counts}; seed {self.seed})"
+
+    def _repr_html_(self):
+        rows = [[v.index, v.verdict, short_point(v.given), short_point(v.point), f"{v.distance:.1e}",
+                 f"{v.residual:.1e}", "-" if v.rank is None else v.rank,
+                 "-" if v.codimension is None else v.codimension]
+                for v in self.points]
+        return html_table(repr(self), ["#", "verdict", "given", "speaks about", "distance", "residual", "rank of J",
+                                       "rank needed"], rows)
 
     def counts(self):
         """Number of points per verdict (every verdict listed, zeros included)."""

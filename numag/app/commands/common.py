@@ -15,6 +15,7 @@ import sys
 import time
 
 from ...errors import NumagError, SystemFileError
+from ...system.display import counted as _counted
 from ...system.files import load_system
 from ...system.polynomial import prepared_for_numerics, regeneration_bound
 from ...run.executor import WorkLimits, make_executor
@@ -146,17 +147,6 @@ def _stage_executor(args):
 def _add_certify_switch(command):
     command.add_argument("--certify", action="store_true",
                          help="certify the resulting points at --digits digits (see 'numag certify')")
-
-
-def _counted(count, noun, plural=None):
-    """A count with its noun in the right number: ``1 equation``, ``2 equations``, ``0 batches``.
-
-    Examples
-    --------
-    >>> _counted(1, "equation"), _counted(3, "batch", "batches"), _counted(0, "singular point")
-    ('1 equation', '3 batches', '0 singular points')
-    """
-    return f"{count} {noun if count == 1 else (plural or noun + 's')}"
 
 
 def _unsearched(lowest, dimension=None):
