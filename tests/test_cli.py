@@ -244,9 +244,9 @@ def test_singular_and_decompose_report_their_executor():
 
 def test_progress_rate_counts_only_paths_tracked_in_this_run(capsys):
     # after a resume, paths read back from the run folder are not part of the rate (common practice)
-    from numag.app.commands.common import _Progress
+    from numag.app.progress import Reporter
     import time as _time
-    progress = _Progress(quiet=False)
+    progress = Reporter(quiet=False, terminal=False)
     progress.started = _time.perf_counter() - 10.0
     progress(500, 1000)  # the starting point: 500 paths read back
     progress.last = -10.0

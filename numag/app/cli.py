@@ -21,7 +21,7 @@ from ..errors import NumagError, one_line
 from ..version import __version__
 from ..run.executor import WorkLimits, abort_workers, work_limits
 from .commands import certify, check, compare, decompose, singular, solve
-from .commands.common import EXIT_INPUT, EXIT_INTERNAL, EXIT_MISMATCH, EXIT_OK, EXIT_UNDECIDED
+from .commands.common import EXIT_INPUT, EXIT_INTERNAL, EXIT_MISMATCH, EXIT_OK, EXIT_UNDECIDED, _reporter
 
 __all__ = ["main", "build_parser", "EXIT_OK", "EXIT_INTERNAL", "EXIT_INPUT", "EXIT_UNDECIDED", "EXIT_MISMATCH"]
 
@@ -48,11 +48,13 @@ def build_parser():
 
 
 def _add_debug_switch(parser, commands):
-    """``--debug``, before or after the sub-command: an internal error shows its traceback."""
-    help_text = "on an internal error, show the traceback (for a bug report) besides the one-line message"
-    parser.add_argument("--debug", action="store_true", help=help_text)
-    for command in commands.choices.values():
-        command.add_argument("--debug", action="store_true", default=argparse.SUPPRESS, help=help_text)
+    """``--debug`` and ``--quiet``, before or after the sub-command."""
+    switches = {"--debug": "on an internal error, show the traceback (for a bug report) besides the one-line message",
+                "--quiet": "no progress on standard error (--json is quiet too)"}
+    for switch, help_text in switches.items():
+        parser.add_argument(switch, action="store_true", help=help_text)
+        for command in commands.choices.values():
+            command.add_argument(switch, action="store_true", default=argparse.SUPPRESS, help=help_text)
 
 
 def main(argv=None, out=None):
@@ -75,8 +77,9 @@ def main(argv=None, out=None):
     try:
         # numpy's floating-point warnings are not messages for the user: every result carries its
         # own evidence (residuals, path statuses), and exit codes count what failed
-        with warnings.catch_warnings(), np.errstate(all="ignore"), work_limits(limits):
+        with warnings.catch_warnings(), np.errstate(all="ignore"), work_limits(limits), _reporter(args) as progress:
             warnings.simplefilter("ignore", RuntimeWarning)
+            args.progress = progress  # one reporter for every stage of the run (quiet with --json, --quiet)
             return args.run(args, out)
     except NumagError as err:
         sys.stderr.write(f"numag: error: {one_line(str(err))}\n")

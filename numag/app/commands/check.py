@@ -8,8 +8,8 @@ from ...singular.smoothness import CheckOptions, check_points
 from ..report import (CAUTION, check_report_to_dict, decomposition_from_dict, dumps, read_report,
                       system_to_dict)
 from .certify import _certified, _doubtful, _print_certification
-from .common import (EXIT_OK, EXIT_UNDECIDED, _Messages, _PointFormat, _add_certify_switch, _add_work_options,
-                     _format_point, _headline, _guard_paths, _load, _positive_number, _seed, _with_notes, _write_notes)
+from .common import (EXIT_OK, EXIT_UNDECIDED, _add_certify_switch, _add_work_options, _format_point, _guard_paths,
+                     _headline, _load, _PointFormat, _positive_number, _progress, _seed, _with_notes, _write_notes)
 
 
 def add_parser(commands):
@@ -128,7 +128,8 @@ def run(args, out):
         decomposition = _saved_decomposition(args, system)
     elif args.local_dimension is None and not args.without_components and not system.projective:
         _guard_paths(args, system, "check")
-        decomposition = decompose(system, seed=seed, progress=_Messages(args.json))
+        decomposition = decompose(system, seed=seed, progress=_progress(args))
+    _progress(args)(f"judging {len(points)} point(s) by the Jacobian criterion")
     report = check_points(system, points, options, seed=seed, decomposition=decomposition)
     data = _certified(_with_notes(check_report_to_dict(report), args), args)
     if args.json:

@@ -1,6 +1,6 @@
 """What every sub-command shares: exit codes, option types and option groups (work limits, executors,
 ``--certify``), loading a system file for numerical work, the path guard, notes and warnings, point
-formatting and progress lines.
+formatting and the progress reporter.
 
 Examples
 --------
@@ -12,13 +12,13 @@ import argparse
 import math
 import re
 import sys
-import time
 
 from ...errors import NumagError, SystemFileError
 from ...system.display import counted as _counted
 from ...system.files import load_system
 from ...system.polynomial import prepared_for_numerics, regeneration_bound
 from ...run.executor import WorkLimits, make_executor
+from ..progress import Reporter
 from ..report import completeness_warnings
 
 EXIT_OK, EXIT_INTERNAL, EXIT_INPUT, EXIT_UNDECIDED, EXIT_MISMATCH = 0, 1, 2, 3, 4
@@ -258,39 +258,14 @@ def _print_warnings(data, out):
         out.write(f"\nwarning: {warning}\n")
 
 
-class _Progress:
-    """Progress on standard error for runs longer than a couple of seconds, at most once a second."""
+def _reporter(args):
+    """The progress reporter of a sub-command (see :mod:`numag.app.progress`): quiet with --json or --quiet.
 
-    def __init__(self, quiet):
-        self.quiet = quiet
-        self.started = time.perf_counter()
-        self.last = 0.0
-        self.last_done = None
-        self.base = None  # paths already done at the first report (read back from a run folder)
-
-    def __call__(self, done, total):
-        now = time.perf_counter() - self.started
-        if self.base is None:  # the first report only marks where this run starts
-            self.base = done if done < total else 0
-            if done < total:
-                return
-        if self.quiet or now < 2.0 or done == self.last_done or (now - self.last < 1.0 and done < total):
-            return
-        self.last, self.last_done = now, done
-        rate = (done - self.base) / now if now > 0 else 0.0
-        left = (total - done) / rate if rate > 0 else float("inf")
-        sys.stderr.write(f"numag: {done}/{total} paths ({100 * done / total:.0f}%), {rate:.0f} paths/s, "
-                         f"about {left:.0f} s left\n")
+    ``main`` opens one for the run and puts it in ``args.progress``; every stage of every command reports to it.
+    """
+    return Reporter(quiet=bool(getattr(args, "json", False) or getattr(args, "quiet", False)))
 
 
-class _Messages:
-    """Progress messages on standard error for runs longer than a couple of seconds."""
-
-    def __init__(self, quiet):
-        self.quiet = quiet
-        self.started = time.perf_counter()
-
-    def __call__(self, message):
-        now = time.perf_counter() - self.started
-        if not self.quiet and now >= 2.0:
-            sys.stderr.write(f"numag: {message} ({now:.0f} s)\n")
+def _progress(args):
+    """The run's progress reporter (a quiet one when a command runs without ``main``)."""
+    return getattr(args, "progress", None) or Reporter(quiet=True)

@@ -3,8 +3,8 @@
 from ...errors import NumagError
 from ..compare import compare_system
 from ..report import CAUTION, compare_to_dict, dumps
-from .common import (EXIT_MISMATCH, EXIT_OK, EXIT_UNDECIDED, _Messages, _add_work_options, _guard_paths, _headline,
-                     _load, _positive_number, _seed, _with_notes, _write_notes)
+from .common import (EXIT_MISMATCH, EXIT_OK, EXIT_UNDECIDED, _add_work_options, _guard_paths, _headline, _load,
+                     _positive_number, _progress, _seed, _with_notes, _write_notes)
 
 
 def add_parser(commands):
@@ -63,7 +63,7 @@ def run(args, out):
     if not args.tolerance > 0:
         raise NumagError(f"--tolerance must be positive, got {args.tolerance}")
     comparison = compare_system(system, seconds=args.time_limit, seed=args.seed, tolerance=args.tolerance,
-                                progress=_Messages(args.json))
+                                progress=_progress(args))
     if args.json:
         out.write(dumps(_with_notes(compare_to_dict(comparison), args)) + "\n")
     else:

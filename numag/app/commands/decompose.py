@@ -8,9 +8,9 @@ from ...tracking.tracker import FAILURE_LABELS
 from ...witness.cascade import WitnessOptions
 from ...witness.decompose import DecomposeOptions, decompose
 from ..report import CAUTION, decomposition_to_dict, dumps
-from .common import (EXIT_OK, EXIT_UNDECIDED, _Messages, _add_executor_options, _add_work_options, _counted,
-                     _PointFormat, _WITNESS_ACCURACY, _headline, _unsearched, _guard_paths, _load, _print_warnings, _seed,
-                     _stage_executor, _with_notes, _with_warnings, _write_notes)
+from .common import (EXIT_OK, EXIT_UNDECIDED, _WITNESS_ACCURACY, _add_executor_options, _add_work_options, _counted,
+                     _guard_paths, _headline, _load, _PointFormat, _print_warnings, _progress, _seed, _stage_executor,
+                     _unsearched, _with_notes, _with_warnings, _write_notes)
 
 
 def add_parser(commands):
@@ -68,7 +68,7 @@ def run(args, out):
     if args.max_loops < 1:
         raise NumagError(f"--max-loops must be positive, got {args.max_loops}")
     with _stage_executor(args) as executor, using(executor):
-        result = decompose(system, options, seed=args.seed, progress=_Messages(args.json))
+        result = decompose(system, options, seed=args.seed, progress=_progress(args))
         execution = executor.describe()
     data = decomposition_to_dict(result, options)
     data["execution"] = execution

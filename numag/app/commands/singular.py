@@ -10,9 +10,9 @@ from ...witness.decompose import DecomposeOptions
 from ...singular.locus import FORMULATIONS, SingularOptions, singular_locus
 from ..report import CAUTION, dumps, singular_to_dict
 from .certify import _certified, _doubtful, _print_certification
-from .common import (EXIT_OK, EXIT_UNDECIDED, _Messages, _add_certify_switch, _add_executor_options,
-                     _add_work_options, _counted, _PointFormat, _WITNESS_ACCURACY, _guard_paths, _headline, _unsearched, _load,
-                     _print_warnings, _seed, _stage_executor, _with_notes, _with_warnings, _write_notes)
+from .common import (EXIT_OK, EXIT_UNDECIDED, _WITNESS_ACCURACY, _add_certify_switch, _add_executor_options,
+                     _add_work_options, _counted, _guard_paths, _headline, _load, _PointFormat, _print_warnings,
+                     _progress, _seed, _stage_executor, _unsearched, _with_notes, _with_warnings, _write_notes)
 
 
 def add_parser(commands):
@@ -107,7 +107,7 @@ def run(args, out):
     if args.lowest_dimension is not None:
         options.decompose.witness.validated(system.n_variables)
     with _stage_executor(args) as executor, using(executor):
-        result = singular_locus(system, options, seed=args.seed, progress=_Messages(args.json))
+        result = singular_locus(system, options, seed=args.seed, progress=_progress(args))
         data = _with_notes(singular_to_dict(result, options), args)
         data["execution"] = executor.describe()
     data = _with_warnings(_certified(data, args))

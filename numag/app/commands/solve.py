@@ -7,10 +7,9 @@ from ...numeric.seeds import resolved_seed
 from ...tracking.solve import Execution, SolveOptions, solve_system
 from ..report import CAUTION, dumps, solve_report_to_dict
 from .certify import _certified, _doubtful, _print_certification
-from .common import (EXIT_OK, EXIT_UNDECIDED, _Progress, _add_certify_switch, _add_executor_options,
-                     _add_work_options, _checked_seed, _count, _counted, _PointFormat, _WITNESS_ACCURACY,
-                     _root_accuracy, _headline, _load, _print_warnings, _seed, _with_notes, _with_warnings,
-                     _write_notes)
+from .common import (EXIT_OK, EXIT_UNDECIDED, _WITNESS_ACCURACY, _add_certify_switch, _add_executor_options,
+                     _add_work_options, _checked_seed, _count, _counted, _headline, _load, _PointFormat,
+                     _print_warnings, _progress, _root_accuracy, _seed, _with_notes, _with_warnings, _write_notes)
 
 
 def add_parser(commands):
@@ -121,7 +120,7 @@ def run(args, out):
             seed = resolved_seed(seed)
     execution = Execution(workers=args.workers, scheduler=args.scheduler, local_dask=args.local_dask,
                           run_folder=args.resume or args.run_folder, resume=bool(args.resume))
-    result = solve_system(system, options, seed=seed, progress=_Progress(args.json), execution=execution)
+    result = solve_system(system, options, seed=seed, progress=_progress(args), execution=execution)
     data = _with_warnings(_certified(_with_notes(solve_report_to_dict(result, options), args), args))
     if args.json:
         out.write(dumps(data) + "\n")
