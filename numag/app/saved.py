@@ -105,6 +105,7 @@ def from_dict(data, with_options=False):
     result, or (result, options) when ``with_options``
     """
     command = data.get("command") if isinstance(data, dict) else None
+    command = command if isinstance(command, str) else None
     readers = {"check": lambda d: (check_report_from_dict(d), None), "solve": solve_report_from_dict,
                "decompose": decomposition_from_dict, "singular": singular_from_dict,
                "compare": lambda d: (compare_from_dict(d), None),
@@ -114,7 +115,7 @@ def from_dict(data, with_options=False):
                          f"{', '.join(readers)})")
     try:
         result, options = readers[command](data)
-    except (KeyError, TypeError, ValueError, IndexError) as err:
+    except (KeyError, TypeError, ValueError, IndexError, AttributeError, OverflowError) as err:
         if isinstance(err, InputError):
             raise
         raise InputError(f"the report of 'numag {command}' is damaged ({type(err).__name__}: {str(err)[:80]})") \

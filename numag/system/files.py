@@ -247,13 +247,13 @@ def _listed(value):
 def _report_points(data, variables):
     """The points of a saved report of check, solve or singular; refused when its variables differ."""
     command = data.get("command")
-    if command not in _REPORT_POINTS:
+    if not isinstance(command, str) or command not in _REPORT_POINTS:
         raise PointError(f"a report of 'numag {str(command)[:20]}' holds no points to check (use a report of "
                          "check, solve or singular)")
     system = data.get("system")
     named = system.get("variables") if isinstance(system, dict) else None
-    if named is not None and list(named) != list(variables):
-        raise PointError(f"the report's variables ({', '.join(map(str, named))[:80]}) differ from the "
+    if named is not None and (not isinstance(named, list) or named != list(variables)):
+        raise PointError(f"the report's variables ({str(named)[:80]}) differ from the "
                          f"system's ({', '.join(variables)})")
     points = _REPORT_POINTS[command](data)
     if not isinstance(points, list):

@@ -1,5 +1,7 @@
 """``numag check``: smooth or singular at given points (the Jacobian criterion, with evidence)."""
 
+import numpy as np
+
 from ...errors import NumagError
 from ...system.files import load_points, parse_point_assignment
 from ...numeric.seeds import resolved_seed
@@ -100,15 +102,30 @@ def _saved_decomposition(args, system):
         raise NumagError(f"{where}: not a report of 'numag decompose' (it is of {str(data.get('command'))[:20]!r})")
     try:
         decomposition, _ = decomposition_from_dict(data)
-    except (KeyError, TypeError, ValueError) as err:
+    except NumagError as err:
+        raise NumagError(f"{where}: {err}") from None
+    except (KeyError, TypeError, ValueError, AttributeError, IndexError, OverflowError) as err:
         raise NumagError(f"{where}: the decomposition report is damaged ({type(err).__name__}: "
                          f"{str(err)[:80]})") from None
+    _check_components(decomposition, where)
     saved, ours = system_to_dict(decomposition.system), system_to_dict(system)
     for key in ("variables", "equations"):
         if saved[key] != ours[key]:
             raise NumagError(f"{where}: the decomposition is of another system (its {key} differ from "
                              f"{args.system_file}'s)")
     return decomposition
+
+
+def _check_components(decomposition, where):
+    """Refuse a saved decomposition whose components cannot be witness sets of its system (one line)."""
+    n = decomposition.system.n_variables
+    for k, c in enumerate(decomposition.components, 1):
+        shapes_fit = (0 <= c.dimension <= n and c.degree >= 1 and c.multiplicity >= 1
+                      and c.points.shape == (c.degree, n) and c.slice_rows.shape == (c.dimension, n + 1)
+                      and np.ndim(c.real) == 1 and len(c.real) == c.degree)
+        if not shapes_fit or not (np.all(np.isfinite(c.points)) and np.all(np.isfinite(c.slice_rows))):
+            raise NumagError(f"{where}: component {k} is damaged (its dimension, degree, witness points and slice "
+                             "do not fit together, or are not finite)")
 
 
 def run(args, out):
