@@ -127,3 +127,28 @@ def test_debug_shows_the_traceback_of_an_internal_error(tmp_path, monkeypatch, c
     assert run(["--debug"] + argv if where == "before" else argv + ["--debug"])[0] == 1
     loud = capsys.readouterr().err
     assert "Traceback (most recent call last)" in loud and "internal error: ZeroDivisionError" in loud
+
+
+def test_a_point_where_f_overflows_is_off_and_the_report_stays_valid_json(tmp_path):
+    # x^4 y^4 = 1 holds at (1, 1) (smooth: the gradient (4, 4) is not zero); at (1e90, 1e90) F overflows
+    # double precision (common practice, no source)
+    system = write(tmp_path, "quartic.toml", 'variables = ["x", "y"]\nequations = ["x^4*y^4 - 1"]\n')
+    code, text = run(["check", system, "--point", "x=1,y=1", "--point", "x=1e90,y=1e90", "--without-components",
+                      "--json", "--seed", "1"])
+    data = json.loads(text)
+    assert code == EXIT_UNDECIDED and [p["verdict"] for p in data["points"]] == ["smooth", "off"]
+    assert data["points"][1]["residual"] == "infinity"
+
+
+def test_check_certify_leaves_an_off_point_uncertified(tmp_path):
+    # The node of y^2 = x^2 (x + 1) is certified singular exactly; (1/2, 1/2) is off the curve and gets no
+    # certificate (common practice, no source)
+    system = write(tmp_path, "nodal.toml", NODAL)
+    code, text = run(["check", system, "--point", "x=0,y=0", "--point", "x=1/2,y=1/2", "--certify", "--json",
+                      "--seed", "1"])
+    data = json.loads(text)
+    assert code == EXIT_UNDECIDED
+    assert [p["verdict"] for p in data["points"]] == ["singular", "off"]
+    assert data["points"][0]["certificate"]["status"] == "certified"
+    assert data["points"][1]["certificate"]["status"] == "undecided"
+    assert "not on X" in data["points"][1]["certificate"]["reason"]

@@ -619,7 +619,14 @@ def _check_in_units(system, given, exact, options, seed, rng, decomposition, sca
     moved = np.array([checker.distance(given[k], refined[k]) for k in range(len(given))])
     tolerances = np.array([checker.tolerance_for(given[k]) for k in range(len(given))])
     off = ~on_variety | (moved > tolerances)
-    values, scales = checker.scaled_values_double(np.where(off[:, None], given, refined))
+    values, scales = [None] * len(given), [None] * len(given)
+    on = np.nonzero(~off)[0]
+    if len(on):
+        on_values, on_scales = checker.scaled_values_double(refined[on])
+        for row, k in enumerate(on):
+            values[k], scales[k] = on_values[row], on_scales[row]
+    for k in np.nonzero(off)[0]:
+        values[k], scales[k] = _values_at_given(checker, given[k])
     through = [None] * len(given)
     if decomposition is not None and options.local_dimension is None:
         through = [None if off[k] else components_through(decomposition, scaling.to_user(refined[k]), seed=seed + k)
@@ -632,6 +639,16 @@ def _check_in_units(system, given, exact, options, seed, rng, decomposition, sca
                           through[k]) for k in range(len(given))]
 
 
+def _values_at_given(checker, point):
+    """Scaled singular values of J at a point off X, kept for the reader; none where J is not finite there."""
+    with np.errstate(all="ignore"):
+        _, jacobians = checker.batch.evaluate(point[None, :])
+        scales = checker.sizes.gradients(point[None, :])
+    if not (np.all(np.isfinite(jacobians)) and np.all(np.isfinite(scales)) and np.all(scales > 0)):
+        return np.zeros(0), np.zeros(0)
+    return scaled_singular_values(jacobians, scales)[0], scales[0]
+
+
 def _off_verdict(checker, index, given, reached, residual, moved, tolerance, on_variety, reached_residual, values,
                  scales):
     """The verdict "off" for a point Newton could not bring onto X within the point tolerance.
@@ -640,7 +657,10 @@ def _off_verdict(checker, index, given, reached, residual, moved, tolerance, on_
     kept for the reader, and ``point`` is where Newton ended.
     """
     zero = zero_tolerance(DOUBLE_DIGITS, (checker.m, checker.n))
-    rank = numerical_rank(values, zero)
+    rank = numerical_rank(values, zero) if len(values) else 0
+    # F overflows at points far out (1e90 on a degree-8 surface): the residual is then beyond any size
+    residual = residual if math.isfinite(residual) else math.inf
+    reached_residual = reached_residual if math.isfinite(reached_residual) else math.inf
     how = (f"Newton refinement reached a point of X at distance {moved:.3g}, beyond the point tolerance "
            f"{tolerance:.3g}" if on_variety else
            f"Newton refinement did not reach X (scaled residual {reached_residual:.3g} after refinement, "
