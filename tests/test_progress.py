@@ -38,7 +38,7 @@ def test_a_stage_within_the_grace_period_is_printed_when_it_ends():
 
 def test_a_long_silence_gets_a_line_saying_what_the_run_is_doing():
     progress, stream = reporter(grace=0.0, heartbeat=5.0)
-    progress("codimension 2: judging 3 candidate set(s)")
+    progress("codimension 2: judging 3 candidate sets")
     progress.beat()
     assert stream.getvalue().count("\n") == 1  # nothing new to say yet
     progress.last_output -= 6.0
@@ -74,7 +74,7 @@ def test_the_command_line_reports_its_stages_unless_quiet(tmp_path, monkeypatch,
     argv = ["check", str(system), "--point", "x=0,y=0", "--seed", "1"] + ([switch] if switch else [])
     assert main(argv, out=io.StringIO()) == 0
     err = capsys.readouterr().err
-    assert (err == "") if silent else ("numag: judging 1 point(s) by the Jacobian criterion" in err)
+    assert (err == "") if silent else ("numag: judging 1 point by the Jacobian criterion" in err)
 
 
 def test_the_heartbeat_thread_stops_with_the_run():

@@ -111,3 +111,11 @@ def test_every_result_shows_itself_in_a_line_or_two_and_as_an_html_table(tmp_pat
         table = result._repr_html_()
         assert table.startswith("<table>") and table.count("<tr>") >= 2 and "<script" not in table
     assert report._repr_html_().count("<tr>") == 1 + 3  # a header and one row per point
+
+
+def test_old_reports_keys_are_read_in_todays_style(tmp_path):
+    # reports written before the keys were unified said "non-reduced" (common practice, no source)
+    from numag.app.report import read_report
+    old = tmp_path / "old.json"
+    old.write_text(json.dumps({"numag_version": "0", "command": "check", "counts": {"smooth": 1, "non-reduced": 2}}))
+    assert read_report(old)["counts"] == {"smooth": 1, "non_reduced": 2}

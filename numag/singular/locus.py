@@ -513,7 +513,8 @@ def _affine(system, options, rng, paths, discarded, progress, notes_out=None):
                 if c.dimension > 0 and _tangent_dimension(augmented, c, rng) != c.dimension:
                     discarded["tangent_dimension_mismatch"] = discarded.get("tangent_dimension_mismatch", 0) + 1
         if progress is not None and projected:
-            progress(f"codimension {codimension}: judging {len(projected)} candidate set(s) by the Jacobian criterion")
+            progress(f"codimension {codimension}: judging {counted(len(projected), 'candidate set')} by the Jacobian "
+                     "criterion")
         for dimension, points, multiplicity, oracle in projected:
             candidate = _Candidate(dimension, len(points), points)
             point = points[0]

@@ -10,8 +10,9 @@ from ...singular.smoothness import CheckOptions, check_points
 from ..report import (CAUTION, check_report_to_dict, decomposition_from_dict, dumps, read_report,
                       system_to_dict)
 from .certify import _certified, _doubtful, _print_certification
-from .common import (EXIT_OK, EXIT_UNDECIDED, _add_certify_switch, _add_work_options, _format_point, _guard_paths,
-                     _headline, _load, _PointFormat, _positive_number, _progress, _seed, _with_notes, _write_notes)
+from .common import (EXIT_OK, EXIT_UNDECIDED, _add_certify_switch, _add_work_options, _counted, _format_point,
+                     _guard_paths, _headline, _load, _PointFormat, _positive_number, _progress, _seed, _with_notes,
+                     _write_notes)
 
 
 def add_parser(commands):
@@ -146,7 +147,7 @@ def run(args, out):
     elif args.local_dimension is None and not args.without_components and not system.projective:
         _guard_paths(args, system, "check")
         decomposition = decompose(system, seed=seed, progress=_progress(args))
-    _progress(args)(f"judging {len(points)} point(s) by the Jacobian criterion")
+    _progress(args)(f"judging {_counted(len(points), 'point')} by the Jacobian criterion")
     report = check_points(system, points, options, seed=seed, decomposition=decomposition)
     data = _certified(_with_notes(check_report_to_dict(report), args), args)
     if args.json:
