@@ -524,6 +524,28 @@ def reports(tally, folder, rng, quick):
               lambda code, out: os.path.exists("/dev/null") and not os.path.isfile("/dev/null"))
 
 
+def reused(tally, folder, rng, quick):
+    """Tampered reports reused by ``numag check``: as --decomposition and as --points-file (issue 20)."""
+    axes = _system(folder, "axes", ["x", "y", "z"], ["x*y", "x*z", "y*z", "x*y*z"])
+    saved = {}
+    for name, argv in {"decompose": ["decompose", axes],
+                       "check": ["check", axes, "--point", "x=0,y=0,z=1", "--local-dimension", "1"],
+                       "solve": ["solve", str(EXAMPLES / "mechanism_positions.toml")]}.items():
+        code, out, _ = run_cli(argv + ["--json", "--seed", "1"])
+        saved[name] = json.loads(out)
+    for round_ in range(20 if quick else 60):
+        which = rng.choice(sorted(saved))
+        path = folder / f"reused-{round_}.json"
+        path.write_text(json.dumps(_mutations(saved[which], rng)))
+        if which == "decompose":
+            judge_cli(tally, ["check", axes, "--decomposition", str(path), "--point", "x=0,y=0,z=0", "--seed", "2"])
+        elif which == "check":
+            judge_cli(tally, ["check", axes, "--points-file", str(path), "--local-dimension", "1", "--seed", "2"])
+        else:
+            judge_cli(tally, ["check", str(EXAMPLES / "mechanism_positions.toml"), "--points-file", str(path),
+                              "--without-components", "--seed", "2"])
+
+
 # --- kills -------------------------------------------------------------------------------------------
 
 def _alive(pid):
@@ -641,7 +663,8 @@ def main_bench():
     with tempfile.TemporaryDirectory(prefix="numag-hostile-") as root:
         root = pathlib.Path(root)
         for name, stage in (("grammar (API)", None), ("command line", command_line), ("run folders", run_folders),
-                            ("reports (certify)", reports), ("kills (certify, --workers 2)", kills),
+                            ("reports (certify)", reports), ("reused reports (check)", reused),
+                            ("kills (certify, --workers 2)", kills),
                             ("child isolation (compare)", isolation)):
             tally = Tally(name)
             began = time.perf_counter()

@@ -16,6 +16,7 @@ The public API in brief:
 * :func:`point_anatomy`, :func:`component_anatomy`, :func:`locus_anatomy` -- what kind of singularity
   (multiplicity, Milnor and Tjurina numbers, Arnold's type, branches of curves; ``--anatomy``);
 * :class:`BatchEvaluator` -- F and J at many points at once;
+* :func:`save`, :func:`load` -- any result to a JSON report and back; :class:`System` (``from_sympy``, ``to_sympy``);
 * :class:`NumagError` -- the root of every error numag raises on purpose.
 
 Examples
@@ -50,6 +51,8 @@ from .families.records import load_result, save_result  # noqa: E402
 from .certify.certificates import (certify_rank, certify_regular_zero, certify_singular_point,  # noqa: E402
                                    certify_smooth_point, overlapping_pairs)
 from .anatomy.survey import component_anatomy, locus_anatomy, point_anatomy  # noqa: E402
+from .app.saved import load, save  # noqa: E402
+System = PolynomialSystem  # the short name of the API: System.from_sympy(...), system.to_sympy()
 
 __all__ = ["NumagError", "parse_system", "parse_polynomial", "Polynomial", "PolynomialSystem",
            "BatchEvaluator", "CheckOptions", "check_points", "load_system", "SolveOptions", "solve_system",
@@ -57,4 +60,5 @@ __all__ = ["NumagError", "parse_system", "parse_polynomial", "Polynomial", "Poly
            "singular_locus", "CertifyOptions", "certify_regular_zero", "certify_singular_point",
            "certify_smooth_point", "certify_rank", "overlapping_pairs", "load_family", "DiscriminantOptions",
            "discriminant", "SweepOptions", "sweep", "load_result", "save_result", "point_anatomy",
-           "component_anatomy", "locus_anatomy", "__version__"]
+           "component_anatomy", "locus_anatomy", "save", "load", "System",
+           "__version__"]

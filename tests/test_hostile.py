@@ -270,3 +270,50 @@ def test_family_values_are_read_or_refused(at, grid):
     except InputError:
         return
     assert values.shape[1] == 1 and np.all(np.isfinite(values))
+
+
+# --- saved work reused: reports as points files and as decompositions (issue 20) -------------------------
+
+@pytest.fixture(scope="module")
+def reusable_reports(tmp_path_factory):
+    folder = tmp_path_factory.mktemp("reused")
+    system = folder / "axes.toml"
+    system.write_text('variables = ["x", "y", "z"]\nequations = ["x*y", "x*z", "y*z", "x*y*z"]\n')
+    reports = {}
+    for name, argv in {"decompose": ["decompose", str(system)],
+                       "check": ["check", str(system), "--point", "x=0,y=0,z=1", "--without-components",
+                                 "--local-dimension", "1"]}.items():
+        code, text = run(argv + ["--json", "--seed", "1"])
+        assert code == 0
+        reports[name] = json.loads(text)
+    return folder, system, reports
+
+
+@settings(max_examples=25, deadline=None, suppress_health_check=[HealthCheck.function_scoped_fixture])
+@given(which=st.sampled_from(["decompose", "check"]), choice=st.integers(0, 10**6), replacement=_JSON)
+def test_tampered_reports_reused_by_check_are_used_or_refused(reusable_reports, capsys, which, choice, replacement):
+    folder, system, reports = reusable_reports
+    data = json.loads(json.dumps(reports[which]))
+    paths = list(_paths(data))
+    path = paths[choice % len(paths)]
+    if not path:
+        data = replacement
+    else:
+        parent = data
+        for key in path[:-1]:
+            parent = parent[key]
+        parent[path[-1]] = replacement
+    report = folder / f"tampered-{which}.json"
+    try:
+        report.write_text(json.dumps(data))
+    except ValueError:
+        report.write_text(json.dumps(data, allow_nan=True))
+    option = "--decomposition" if which == "decompose" else "--points-file"
+    argv = ["check", str(system), option, str(report), "--seed", "2"]
+    if which == "decompose":
+        argv += ["--point", "x=0,y=0,z=0"]
+    else:
+        argv += ["--local-dimension", "1"]
+    capsys.readouterr()
+    code, _ = run(argv)
+    assert_clear_refusal_or_answer(code, capsys.readouterr().err)

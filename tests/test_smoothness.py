@@ -161,10 +161,15 @@ def test_four_lines_nodes_match_sympy(problems):
     assert result == ["singular"] * 6 + ["smooth"] * 2
 
 
-def test_point_not_on_variety_is_refused():
+def test_point_not_on_variety_is_judged_off_and_the_others_as_usual():
+    # The unit circle is smooth everywhere; (1/2, 1/2) is off it by 1/2 in F (common practice, no source).
     system = parse_system(["x^2 + y^2 - 1"], ["x", "y"])
-    with pytest.raises(PointError, match="point 2: is not on X"):
-        check_points(system, [[1, 0], [0.5, 0.5]], seed=0)
+    report = check_points(system, [[1, 0], [0.5, 0.5], [0.6, 0.8]], seed=0)
+    assert [v.verdict for v in report.points] == ["smooth", "off", "smooth"]
+    off = report.points[1]
+    assert report.off and off.rank is None and off.residual > 0.1
+    assert abs(np.linalg.norm(off.point) - 1) < 1e-10  # where Newton ended: on the circle
+    assert off.distance == pytest.approx(np.linalg.norm(off.point - off.given)) and off.distance > 1e-3
 
 
 def test_undecided_local_dimension_for_overdetermined_system():

@@ -12,6 +12,7 @@ Exit codes
 import argparse
 import signal
 import sys
+import traceback
 import warnings
 
 import numpy as np
@@ -21,7 +22,7 @@ from ..version import __version__
 from ..run.executor import WorkLimits, abort_workers, work_limits
 from .commands import certify, check, compare, decompose, discriminant, plot, singular, solve, sweep
 from .commands.common import _add_at_option
-from .commands.common import EXIT_INPUT, EXIT_INTERNAL, EXIT_MISMATCH, EXIT_OK, EXIT_UNDECIDED
+from .commands.common import EXIT_INPUT, EXIT_INTERNAL, EXIT_MISMATCH, EXIT_OK, EXIT_UNDECIDED, _reporter
 
 __all__ = ["main", "build_parser", "EXIT_OK", "EXIT_INTERNAL", "EXIT_INPUT", "EXIT_UNDECIDED", "EXIT_MISMATCH"]
 
@@ -46,7 +47,18 @@ def build_parser():
     for name, command in commands.choices.items():  # a member of a family (issue 22): one option everywhere
         if name not in ("certify", "discriminant", "sweep"):  # a report's system is a member; these take families
             _add_at_option(command)
+    _add_debug_switch(parser, commands)
     return parser
+
+
+def _add_debug_switch(parser, commands):
+    """``--debug`` and ``--quiet``, before or after the sub-command."""
+    switches = {"--debug": "on an internal error, show the traceback (for a bug report) besides the one-line message",
+                "--quiet": "no progress on standard error (--json is quiet too)"}
+    for switch, help_text in switches.items():
+        parser.add_argument(switch, action="store_true", help=help_text)
+        for command in commands.choices.values():
+            command.add_argument(switch, action="store_true", default=argparse.SUPPRESS, help=help_text)
 
 
 def main(argv=None, out=None):
@@ -69,8 +81,9 @@ def main(argv=None, out=None):
     try:
         # numpy's floating-point warnings are not messages for the user: every result carries its
         # own evidence (residuals, path statuses), and exit codes count what failed
-        with warnings.catch_warnings(), np.errstate(all="ignore"), work_limits(limits):
+        with warnings.catch_warnings(), np.errstate(all="ignore"), work_limits(limits), _reporter(args) as progress:
             warnings.simplefilter("ignore", RuntimeWarning)
+            args.progress = progress  # one reporter for every stage of the run (quiet with --json, --quiet)
             return args.run(args, out)
     except NumagError as err:
         sys.stderr.write(f"numag: error: {one_line(str(err))}\n")
@@ -87,7 +100,9 @@ def main(argv=None, out=None):
             sys.stdout = None
         finally:
             return EXIT_OK
-    except Exception as err:  # noqa: BLE001 - last resort: one line, never a traceback
+    except Exception as err:  # noqa: BLE001 - last resort: one line, a traceback only when asked for (--debug)
+        if getattr(args, "debug", False):
+            traceback.print_exc(file=sys.stderr)
         sys.stderr.write(f"numag: internal error: {type(err).__name__}: {one_line(str(err))[:300]} (please report this with the "
                          "command and input)\n")
         return EXIT_INTERNAL

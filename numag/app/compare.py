@@ -22,11 +22,13 @@ import time
 
 import numpy as np
 
+from ..system.display import html_table
 from ..singular.locus import SingularOptions, singular_locus
 from ..singular.kinds import PieceKind
 from .reference import REFERENCE_SCOPE, ReferenceStatus, exact_reference
 
-__all__ = ["ComparisonRow", "Comparison", "numag_summary", "compare_answers", "compare_system", "VERDICTS"]
+__all__ = ["ComparisonRow", "Comparison", "numag_summary", "compare_answers", "compare_system", "agreement_digits",
+           "VERDICTS"]
 
 #: Outcomes of a comparison.
 VERDICTS = ("agree", "mismatch", "incomplete")
@@ -82,12 +84,37 @@ class Comparison:
     scope: str = REFERENCE_SCOPE
     notes: list = field(default_factory=list)
 
+    def __repr__(self):
+        digits = "" if self.digits is None else f", coordinates agree to {self.digits:.1f} digits"
+        return (f"Comparison({self.system.name or 'system'}: {self.verdict}, {len(self.rows)} quantities, reference "
+                f"{self.reference.status}{digits})")
+
+    def _repr_html_(self):
+        rows = [[r.quantity, "-" if r.numag is None else r.numag, "-" if r.exact is None else r.exact,
+                 {True: "yes", False: "NO", None: "-"}[r.agree]] for r in self.rows]
+        return html_table(repr(self), ["quantity", "numag", "exact", "agree"], rows)
+
     @property
     def ratio(self):
         """Reference seconds / numag seconds (above 1: numag faster); None when the reference did not finish."""
         if self.reference.status != ReferenceStatus.FINISHED or self.numag_seconds <= 0:
             return None
         return self.reference_seconds / self.numag_seconds
+
+
+def agreement_digits(distance):
+    """Digits of agreement for a largest relative distance, as it is shown (two significant digits).
+
+    -log10 of the distance printed, so that the digits and the distance shown beside them agree (points
+    refined at high precision can agree far beyond 16 digits); infinity for a distance of 0.
+
+    Examples
+    --------
+    >>> round(agreement_digits(3.44e-11), 2), agreement_digits(0.0)
+    (10.46, inf)
+    """
+    shown = float(f"{distance:.1e}")
+    return math.inf if shown == 0 else -math.log10(shown)
 
 
 def numag_summary(locus):
@@ -229,7 +256,7 @@ def compare_answers(system, locus, reference, numag_seconds, tolerance=1e-6):
             gaps = np.max(np.abs(mine - exact_point[None, :]), axis=1) / (1.0 + np.max(np.abs(exact_point)))
             worst = max(worst, float(np.nanmin(gaps)))
         max_distance = worst
-        digits = 16.0 if worst == 0 else min(16.0, -math.log10(worst))
+        digits = agreement_digits(worst)
         rows.append(ComparisonRow("largest distance to an exact point", f"{worst:.1e}", f"<= {tolerance:g}",
                                   worst <= tolerance))
     elif reference.points is None and reference.status == ReferenceStatus.FINISHED and exact_dimension == 0:

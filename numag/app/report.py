@@ -52,7 +52,7 @@ from ..certify.records import (ALPHA_ZERO_TEXT, Certificate, CertifyOptions, Cla
 __all__ = ["CAUTION", "encode_point", "decode_point", "empty_path_counts", "system_to_dict",
            "check_report_to_dict", "check_report_from_dict", "dumps", "loads_check_report",
            "solve_report_to_dict", "solve_report_from_dict", "certificate_to_dict", "certificate_from_dict",
-           "certify_report", "read_report", "write_report", "compare_to_dict"]
+           "certify_report", "read_report", "write_report", "compare_to_dict", "compare_from_dict", "json_keys"]
 
 #: Printed with every result (terminal and JSON).
 CAUTION = ("Numerical results. Before relying on them for a real machine or structure, verify them with "
@@ -116,7 +116,7 @@ def _evidence_from_dict(data):
 def _verdict_to_dict(v):
     return {
         "index": v.index, "given": encode_point(v.given), "point": encode_point(v.point),
-        "distance": float(v.distance), "residual": float(v.residual), "verdict": v.verdict, "rank": v.rank,
+        "distance": _encode_float(v.distance), "residual": _encode_float(v.residual), "verdict": v.verdict, "rank": v.rank,
         "codimension": v.codimension, "tangent_dimension": v.tangent_dimension,
         "local_dimension": v.local_dimension, "local_dimension_source": v.local_dimension_text(),
         "evidence": _evidence_to_dict(v.evidence),
@@ -130,8 +130,8 @@ def _verdict_to_dict(v):
 def _verdict_from_dict(d):
     return PointVerdict(
         index=int(d["index"]), given=decode_point(d["given"]), point=decode_point(d["point"]),
-        distance=float(d["distance"]), residual=float(d["residual"]), verdict=Verdict.parse(d["verdict"], "verdict"),
-        rank=d["rank"],
+        distance=_decode_float(d["distance"]), residual=_decode_float(d["residual"]),
+        verdict=Verdict.parse(d["verdict"], "verdict"), rank=d["rank"],
         codimension=d["codimension"], tangent_dimension=d["tangent_dimension"],
         local_dimension=d["local_dimension"],
         local_dimension_source=LocalDimensionSource.from_text(d["local_dimension_source"]),
@@ -156,7 +156,7 @@ def check_report_to_dict(report):
                     "neighbour_radius": options.neighbour_radius},
         "paths": empty_path_counts(),
         "components": [],
-        "counts": report.counts(),
+        "counts": json_keys(report.counts()),
         "points": [_verdict_to_dict(v) for v in report.points],
         "caution": CAUTION,
     }
@@ -597,6 +597,9 @@ def _singular_tasks(system, component, options, where):
 
 def _check_task(system, verdict, options, where):
     point = _point_of(verdict, "point", system, False, where)
+    if verdict["verdict"] == "off":
+        return _not_certified("the point is not on X (verdict 'off'): there is nothing to certify", point,
+                              options.digits)
     codimension = verdict.get("codimension")
     if verdict["verdict"] == Verdict.SMOOTH and codimension is not None:
         return _Task(Claim.SMOOTH_POINT, system, point, options, int(codimension))
@@ -777,11 +780,28 @@ def certify_report(data, options=None, progress=None, executor=None):
     return data
 
 
+def json_keys(mapping):
+    """A mapping with its keys in the one style of JSON reports: words joined by ``_``.
+
+    Examples
+    --------
+    >>> json_keys({"smooth": 1, "non-reduced": 0})
+    {'smooth': 1, 'non_reduced': 0}
+    """
+    return {str(key).replace("-", "_").replace(" ", "_"): value for key, value in mapping.items()}
+
+
 def read_report(path):
-    """Load a saved JSON report (size-limited, strict JSON), with one-line errors naming the file."""
+    """Load a saved JSON report (size-limited, strict JSON), with one-line errors naming the file.
+
+    Keys of older reports are read in today's style (``counts`` of ``check``: ``non-reduced`` ->
+    ``non_reduced``).
+    """
     data = loads_json(read_limited(path, MAX_INPUT_BYTES, "report"), os.fspath(path))
     if not isinstance(data, dict):
         raise InputError(f"{os.fspath(path)}: not a numag report (a JSON object is expected)")
+    if isinstance(data.get("counts"), dict):
+        data["counts"] = json_keys(data["counts"])
     return data
 
 
@@ -833,5 +853,33 @@ def compare_to_dict(comparison):
                       "points": None if reference.points is None else [encode_point(p) for p in reference.points]},
         "scope": comparison.scope,
         "notes": list(comparison.notes),
+        # numag's whole answer, so that the comparison reads back (compare_from_dict)
+        "locus": locus_data,
         "caution": CAUTION,
     }
+
+
+def compare_from_dict(data):
+    """Rebuild a :class:`~numag.app.compare.Comparison` from :func:`compare_to_dict` output."""
+    from .compare import Comparison, ComparisonRow  # the comparison's own module; it imports no report code
+    from .reference import ReferenceAnswer
+    _report_system(data, "compare")
+    if not isinstance(data.get("locus"), dict):
+        raise InputError("the report of 'numag compare' was written before it kept numag's locus ('locus'): "
+                         "it cannot be read back as a comparison")
+    locus, _ = singular_from_dict(data["locus"])
+    r = data["reference"]
+    points = r.get("points")
+    reference = ReferenceAnswer(
+        status=r["status"], seconds=float(r["wall_seconds"]), compute_seconds=r["compute_seconds"],
+        variety_dimension=r["variety_dimension"], variety_degree=r["variety_degree"],
+        codimension=r["codimension"], minors=r["minors"], singular_dimension=r["singular_dimension"],
+        singular_points=r["singular_points"], real_singular_points=r["real_singular_points"],
+        scheme_length=r["scheme_length"], singular_degree=r["singular_degree"],
+        component_degrees=r["component_degrees"],
+        points=None if points is None else [list(decode_point(p)) for p in points],
+        exact_points=r["exact_points"], chart=r["chart"], message=r["message"])
+    rows = [ComparisonRow(row["quantity"], row["numag"], row["exact"], row["agree"]) for row in data["rows"]]
+    return Comparison(locus.system, locus, reference, rows, _decode_float(data["max_distance"]),
+                      _decode_float(data["digits_of_agreement"]), float(data["numag_seconds"]),
+                      float(data["reference_seconds"]), data["verdict"], data["scope"], list(data["notes"]))

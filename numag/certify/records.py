@@ -16,8 +16,9 @@ from dataclasses import dataclass, field
 import mpmath
 import numpy as np
 
-from ..errors import InputError, is_integer, is_number, require_option
+from ..errors import is_integer, is_number, require_option
 from ..kinds import TextEnum
+from ..system.display import html_table, short_point
 
 __all__ = ["CertifyOptions", "Certificate", "ClaimCheck", "Status", "Kind", "Claim", "ClaimStatus", "Recognition",
            "Enclosure", "CodimensionNeed",
@@ -355,6 +356,21 @@ class Certificate:
     def __post_init__(self):
         if self.radii is None and self.radius is not None:
             self.radii = [float(self.radius)] * len(self.center)
+
+    def __repr__(self):
+        claim = f" {self.claim}" if self.claim else ""
+        box = f", box radius {float(self.radius):.1e}" if self.radius is not None else ""
+        why = f": {self.reason[:60]}" if self.reason and self.status != Status.CERTIFIED else ""
+        return (f"Certificate({self.status} {self.kind}{claim} at {short_point(self.center)}{box}, "
+                f"{self.digits} digits{why})")
+
+    def _repr_html_(self):
+        rows = [["status", self.status], ["kind", self.kind], ["claim", self.claim or "-"],
+                ["center", short_point(self.center, digits=12)],
+                ["exact coordinates", ", ".join(self.exact_coordinates or []) or "-"],
+                ["box radius", "-" if self.radius is None else f"{float(self.radius):.2e}"],
+                ["digits", self.digits], ["method", self.method or "-"], ["reason", self.reason or "-"]]
+        return html_table("Certificate", ["", ""], rows)
 
     @property
     def certified(self):

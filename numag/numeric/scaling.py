@@ -44,6 +44,9 @@ from ..system.polynomial import Polynomial, PolynomialSystem
 __all__ = ["Scaling"]
 
 
+#: Largest power of ten a scaling may use (10^e and its square root stay doubles).
+_MAX_EXPONENT = 300
+
 @dataclass(frozen=True)
 class Scaling:
     """Powers of ten relating the user's problem to the one numag computes with.
@@ -195,6 +198,8 @@ class Scaling:
             equations = tuple(int(r) for r in block["equations"])
         except (KeyError, TypeError, ValueError) as err:
             raise InputError(f"the report's scaling block is malformed ({err})") from None
+        if any(abs(e) > _MAX_EXPONENT for e in exponents + equations):  # 10^e must be a double
+            raise InputError(f"the report's scaling block has a power of ten beyond 10^{_MAX_EXPONENT}")
         return cls(exponents, equations)
 
 

@@ -25,6 +25,7 @@ class Verdict(TextEnum):
     SINGULAR = "singular"
     NON_REDUCED = "non-reduced"    # the rank drops on a whole neighbourhood in X: multiplicity > 1
     UNDECIDED = "undecided"
+    OFF = "off"                    # not on X within the point tolerance: nothing is judged there
 
     @property
     def is_singular(self):
@@ -41,6 +42,7 @@ class LocalDimensionSource(TextEnum):
     ASSUMED = "complete intersection (assumed)"
     ISOLATED = "isolated point (Jacobian injective)"
     UNKNOWN = "unknown"
+    NOT_JUDGED = "not judged (the point is not on X)"   # the verdict "off"
 
     def describe(self, components=()):
         """The text a report shows: for :attr:`COMPONENTS`, followed by the components (dicts with

@@ -43,6 +43,7 @@ import time
 import numpy as np
 
 from ..errors import InputError, LimitError
+from ..system.display import counted, html_table, short_point
 from ..system.polynomial import Polynomial, PolynomialSystem, determinant, linear_space, require_numeric
 from ..numeric.cluster import cluster_labels, groups, normalize_projective
 from ..numeric.evaluate import BatchEvaluator, TermSizes
@@ -54,7 +55,7 @@ from ..tracking.tracker import FAILURE_LABELS
 from ..witness.cascade import combine_equations, linear_form, random_rows, track_moves
 from ..witness.decompose import DecomposeOptions, Decomposition, components_through, decompose, holding_equations, random_minor
 from .kinds import CandidateSystem, Formulation, PieceKind, Verdict
-from .smoothness import CheckOptions, Unsettled, settled_points
+from .smoothness import CheckOptions, check_points
 
 __all__ = ["SingularOptions", "SingularComponent", "SingularLocus", "singular_locus", "FORMULATIONS"]
 
@@ -144,6 +145,12 @@ class SingularComponent:
     codimension: int | None = None
     notes: list[str] = field(default_factory=list)
 
+    def __repr__(self):
+        where = " at infinity" if self.at_infinity else ""
+        at = f" at {short_point(self.points[0])}" if self.dimension == 0 and len(self.points) else ""
+        return (f"SingularComponent({self.id}: {self.kind}{where}, dimension {self.dimension}, degree {self.degree}"
+                f"{at})")
+
 
 @dataclass(kw_only=True)
 class SingularLocus:
@@ -176,6 +183,21 @@ class SingularLocus:
     seconds: float
     notes: list[str] = field(default_factory=list)
     scaling: Scaling | None = None
+
+    def __repr__(self):
+        affine = [c for c in self.components if not c.at_infinity]
+        points = [c for c in affine if c.dimension == 0 and c.kind == "singular"]
+        infinite = len(self.components) - len(affine)
+        return (f"SingularLocus({self.system.name or 'system'}: {counted(len(points), 'singular point')} "
+                f"({sum(bool(c.real[0]) for c in points)} real), {counted(len(affine) - len(points), 'other piece')}, "
+                f"{infinite} at infinity; seed {self.seed})")
+
+    def _repr_html_(self):
+        rows = [[c.id, c.kind, c.dimension, c.degree, "yes" if c.at_infinity else "no",
+                 ", ".join(map(str, c.on_components)), short_point(c.points[0]) if len(c.points) else ""]
+                for c in self.components]
+        return html_table(repr(self), ["id", "kind", "dimension", "degree", "at infinity", "on components of X",
+                                       "a point"], rows)
 
     def isolated(self):
         """The singular points (dimension 0, kind singular)."""
@@ -426,12 +448,11 @@ def _singular_locus(system, options, seed, progress):
     else:
         components, variety = _affine(system, options, rng, paths, discarded, progress, notes)
         if system.n_equations == 1:
-            at_infinity = _at_infinity(system, rng, paths, progress, any(c.dimension > 0 for c in components))
-            if at_infinity is not None:
-                components += at_infinity
+            listed = _at_infinity(system, rng, paths, progress, any(c.dimension > 0 for c in components))
+            if isinstance(listed, str):  # why its points at infinity are not listed (true for its case)
+                notes.append(listed)
             else:
-                notes.append("The closure of X is singular or non-reduced along a positive-dimensional set at "
-                             "infinity; its points at infinity are not listed.")
+                components += listed
         elif options.infinity_for_systems:
             components += _at_infinity_of_homogenized(system, options, rng, paths, discarded, notes, progress)
         else:
@@ -503,6 +524,9 @@ def _affine(system, options, rng, paths, discarded, progress, notes_out=None):
             for c in candidates.components:  # cross-check the slicing dimension by the tangent space
                 if c.dimension > 0 and _tangent_dimension(augmented, c, rng) != c.dimension:
                     discarded["tangent_dimension_mismatch"] = discarded.get("tangent_dimension_mismatch", 0) + 1
+        if progress is not None and projected:
+            progress(f"codimension {codimension}: judging {counted(len(projected), 'candidate set')} by the Jacobian "
+                     "criterion")
         for dimension, points, multiplicity, oracle in projected:
             candidate = _Candidate(dimension, len(points), points)
             point = points[0]
@@ -552,16 +576,16 @@ def _judge(system, point, options, seed, variety):
     if not np.all(np.isfinite(point)):  # no verdict can speak about it (a malformed point, never settled)
         return None
     for tolerance in (options.point_tolerance, _CANDIDATE_TOLERANCE):
-        report = settled_points(system, [point], replace(options, point_tolerance=tolerance), seed=seed,
+        report = check_points(system, [point], replace(options, point_tolerance=tolerance), seed=seed,
                                 decomposition=variety)
-        if isinstance(report, Unsettled):
-            continue
         verdict = report.points[0]
+        if verdict.verdict is Verdict.OFF:  # not settled on X at this tolerance: try the looser one
+            continue
         drop = verdict.nearest_rank_drop
         if (verdict.verdict is Verdict.SMOOTH and drop is not None
                 and verdict.nearest_rank_drop_distance <= _CANDIDATE_TOLERANCE * (1 + np.linalg.norm(point))):
-            at_drop = settled_points(system, [drop], options, seed=seed, decomposition=variety)
-            return verdict if isinstance(at_drop, Unsettled) else at_drop.points[0]
+            at_drop = check_points(system, [drop], options, seed=seed, decomposition=variety).points[0]
+            return verdict if at_drop.verdict is Verdict.OFF else at_drop
         return verdict
     return None
 
@@ -654,14 +678,8 @@ def _confirmed_by_check(system, pieces, rng, discarded):
         return pieces
     seed = int(rng.integers(2**32))
     points = [piece.points[0] for piece in pieces]
-    report = settled_points(system, points, seed=seed)
-    if not isinstance(report, Unsettled):
-        verdicts = report.points
-    else:  # one point could not be settled: judge them one by one
-        verdicts = []
-        for point in points:
-            one = settled_points(system, [point], seed=seed)
-            verdicts.append(None if isinstance(one, Unsettled) else one.points[0])
+    # a point that cannot be settled on X comes back "off" (each point is judged on its own)
+    verdicts = [None if v.verdict is Verdict.OFF else v for v in check_points(system, points, seed=seed).points]
     kept = []
     for piece, verdict in zip(pieces, verdicts):
         if verdict is None:
@@ -716,8 +734,9 @@ def _at_infinity(system, rng, paths, progress, affine_curves=True):
     ``affine_curves``: the affine singular locus has a positive-dimensional piece (then each point is
     tested for lying on a singular set that leaves the hyperplane).
 
-    Returns the singular points at infinity, or None when the closure is singular (or non-reduced) along a
-    positive-dimensional set at infinity (its points are then not listed: the caller says so).
+    Returns the singular points at infinity, or, when the closure is singular (or non-reduced) along a
+    positive-dimensional set at infinity, the sentence saying which case it is (its points are then not
+    listed; the caller puts the sentence in the notes).
     """
     f = system.polynomials[0].numeric().homogenize(0)
     restricted = []
@@ -729,20 +748,23 @@ def _at_infinity(system, rng, paths, progress, affine_curves=True):
     restricted = [p for p in restricted if not p.is_zero()]
     if any(p.degree == 0 for p in restricted):  # a partial that is a nonzero constant there: no singular point
         return []
-    if not restricted:  # the closure is singular along the whole hyperplane at infinity
-        return None
+    if not restricted:
+        return ("The closure of X is singular along the whole hyperplane at infinity; its points at "
+                "infinity are not listed.")
     if system.n_variables == 1:
         return []
     hyperplane = PolynomialSystem(list(system.variables), restricted, projective=True)
-    if hyperplane.n_equations < system.n_variables - 1:  # too few partials: a positive-dimensional set
-        return None
+    within = ("The closure of X is singular along a positive-dimensional set inside the hyperplane at infinity "
+              "({}); its points at infinity are not listed.")
+    if hyperplane.n_equations < system.n_variables - 1:
+        return within.format("fewer conditions there than its dimension")
     if progress is not None:
         progress("singular points at infinity")
     result = solve_system(hyperplane, SolveOptions(square_up=hyperplane.n_equations > system.n_variables - 1),
                           seed=int(rng.integers(2**32)))
     _add_counts(paths, result.path_counts())
     if result.not_isolated:
-        return None
+        return within.format(f"{counted(len(result.not_isolated), 'solution')} there are not isolated")
     pieces = []
     gradient = [g for g in f.gradient() if not g.is_zero()]
     for solution in result.solutions:
@@ -759,8 +781,10 @@ def _at_infinity(system, rng, paths, progress, affine_curves=True):
             chart = PolynomialSystem([f"u{j}" for j in range(system.n_variables)],
                                      [g.dehomogenize(pivot) for g in gradient])
             isolated = IsolationTest(chart, rng).isolated(np.delete(point / point[pivot], pivot))
-        if not isolated:  # the point lies on a positive-dimensional singular or non-reduced set
-            return None
+        if not isolated:
+            return ("A singular or non-reduced set of positive dimension of X (listed above) reaches "
+                    "infinity: the closure is singular where it arrives there, and its points at infinity "
+                    "are not listed apart.")
         pieces.append(SingularComponent(
             id=0, dimension=0, degree=1, points=point[None, :], real=_real_flags(system, solution.point[None, :]),
             multiplicity=solution.multiplicity, at_infinity=True, formulation=CandidateSystem.GRADIENT_AT_INFINITY,

@@ -12,7 +12,9 @@ How a small singular value is tested
 ------------------------------------
 1. The point is moved onto X (minimum-norm Gauss-Newton) in double precision,
    all points in one batch; a point that cannot be moved onto X within the
-   point tolerance is refused.
+   point tolerance (relative to the point, in the balanced units of the scaled
+   problem) gets the verdict "off", with its residual and the distance Newton
+   moved it, and the other points are judged as usual.
 2. If the c-th scaled singular value (c = codimension) is clearly above zero,
    the rank is c and the point is smooth.
 3. Otherwise, at rising precision (mpmath, up to ``max_digits``): refine on F;
@@ -44,6 +46,7 @@ import mpmath
 import numpy as np
 
 from ..errors import InputError, PointError, is_integer, is_number, require_option
+from ..system.display import html_table, short_point
 from ..system.exact import ExactCoefficient
 from ..system.polynomial import PolynomialSystem, require_numeric
 from ..numeric.cluster import line_distance, normalize_projective, projective_pivot
@@ -56,10 +59,11 @@ from ..numeric.seeds import random_state
 from ..witness.decompose import components_through
 from .kinds import LocalDimensionSource, Verdict
 
-__all__ = ["CheckOptions", "PointVerdict", "CheckReport", "check_points", "settled_points", "Unsettled",
+__all__ = ["CheckOptions", "PointVerdict", "CheckReport", "check_points",
            "VERDICTS"]
 
-#: The possible verdicts, as text.
+#: The possible verdicts, as text ("off": the point is not on X within the point tolerance, so nothing
+#: is judged there).
 VERDICTS = Verdict.texts()
 #: Scaled residual (Euclidean) at which a point whose refinement stalled still counts as on X.
 _ON_VARIETY_RESIDUAL = 1e-11
@@ -190,6 +194,11 @@ class PointVerdict:
         """Where the local dimension came from, as a report shows it (with the components through the point)."""
         return self.local_dimension_source.describe(self.components)
 
+    def __repr__(self):
+        rank = "" if self.rank is None else f", rank {self.rank} of {self.codimension}"
+        return (f"PointVerdict({self.index}: {self.verdict} at {short_point(self.point)}{rank}, "
+                f"distance {self.distance:.1e})")
+
 
 @dataclass(kw_only=True)
 class CheckReport:
@@ -213,6 +222,18 @@ class CheckReport:
     seed: int
     scaling: Scaling | None = None
 
+    def __repr__(self):
+        counts = ", ".join(f"{name} {count}" for name, count in self.counts().items() if count) or "no points"
+        return f"CheckReport({self.system.name or 'system'}: {counts}; seed {self.seed})"
+
+    def _repr_html_(self):
+        rows = [[v.index, v.verdict, short_point(v.given), short_point(v.point), f"{v.distance:.1e}",
+                 f"{v.residual:.1e}", "-" if v.rank is None else v.rank,
+                 "-" if v.codimension is None else v.codimension]
+                for v in self.points]
+        return html_table(repr(self), ["#", "verdict", "given", "speaks about", "distance", "residual", "rank of J",
+                                       "rank needed"], rows)
+
     def counts(self):
         """Number of points per verdict (every verdict listed, zeros included)."""
         return {verdict.value: sum(1 for p in self.points if p.verdict is verdict) for verdict in Verdict}
@@ -221,6 +242,11 @@ class CheckReport:
     def undecided(self):
         """True when at least one verdict is undecided."""
         return any(p.verdict is Verdict.UNDECIDED for p in self.points)
+
+    @property
+    def off(self):
+        """True when at least one point is not on X (verdict "off")."""
+        return any(p.verdict is Verdict.OFF for p in self.points)
 
 
 @dataclass
@@ -449,9 +475,9 @@ class _Checker:
         if thick and len(through) == 1 and opts.local_dimension is None and verdict is Verdict.SINGULAR:
             verdict = Verdict.NON_REDUCED
         for c in thick:
+            paths = f"; {c.multiplicity} paths end at each" if c.multiplicity > 1 else ""
             notes.append(f"Component {c.id} is generically non-reduced (the Jacobian has rank below its codimension "
-                         f"at its witness points; {c.multiplicity} paths end at each): the equations define it "
-                         "with multiplicity > 1.")
+                         f"at its witness points{paths}): the equations define it with multiplicity > 1.")
         if through and len(through) > 1 and opts.local_dimension is None:
             ids = ", ".join(str(c.id) for c in through)
             if verdict is Verdict.SMOOTH:
@@ -542,10 +568,14 @@ def check_points(system, points, options=None, seed=None, decomposition=None):
     -------
     CheckReport
 
+    A point that cannot be moved onto X within the point tolerance gets the verdict "off" (its
+    ``residual``, the ``distance`` Newton moved it and a note say how far off it is); the other
+    points are judged as usual.
+
     Raises
     ------
     PointError
-        When a point is malformed or cannot be moved onto X within the point tolerance.
+        When a point is malformed (wrong number of coordinates, not a number, not finite).
     InputError
         For invalid options.
 
@@ -555,38 +585,6 @@ def check_points(system, points, options=None, seed=None, decomposition=None):
     >>> cone = parse_system(["x^2 + y^2 - z^2"], ["x", "y", "z"])
     >>> [v.verdict for v in check_points(cone, [[0, 0, 0], [3, 4, 5]], seed=0).points]
     ['singular', 'smooth']
-    """
-    report = settled_points(system, points, options, seed, decomposition)
-    if isinstance(report, Unsettled):
-        raise PointError(report.reason, report.index)
-    return report
-
-
-@dataclass(frozen=True)
-class Unsettled:
-    """A point that cannot be moved onto X within the point tolerance: the answer of
-    :func:`settled_points` for a list holding one (the first such point, 1-based, and why)."""
-
-    index: int
-    reason: str
-
-
-def settled_points(system, points, options=None, seed=None, decomposition=None):
-    """:func:`check_points`, with a point that cannot be moved onto X as an answer, not an error.
-
-    Callers that try candidate points (the singular locus) branch on the value; :func:`check_points`
-    raises it as a :class:`~numag.errors.PointError` for the user.
-
-    Returns
-    -------
-    CheckReport or Unsettled
-        Unsettled names the first point that could not be moved onto X (no verdict is computed then).
-
-    Examples
-    --------
-    >>> from numag.system.parse import parse_system
-    >>> settled_points(parse_system(["x^2 + y^2 - 1"], ["x", "y"]), [[3, 0]], seed=0).index
-    1
     """
     options = (options or CheckOptions()).validated(system)
     require_numeric(system)
@@ -600,8 +598,6 @@ def settled_points(system, points, options=None, seed=None, decomposition=None):
     exact = [None if e is None else [v * d for v, d in zip(e, divisors)] for e in user_exact]
     verdicts = _check_in_units(scaling.scale_system(system), given, exact, options, seed, rng, decomposition,
                                scaling)
-    if isinstance(verdicts, Unsettled):
-        return verdicts
     checker = _Checker(system, options, rng)  # distances in the user's units
     for verdict, point in zip(verdicts, user_given):
         _to_user_units(verdict, point, scaling, checker)
@@ -618,7 +614,8 @@ def _to_user_units(verdict, given, scaling, checker):
 
     verdict.given = given
     verdict.point = back(verdict.point)
-    verdict.distance = checker.distance(given, verdict.point)
+    if math.isfinite(verdict.distance):  # infinite: Newton ran away from an "off" point
+        verdict.distance = checker.distance(given, verdict.point)
     verdict.evidence = replace(verdict.evidence, point=back(verdict.evidence.point))
     if verdict.nearest_rank_drop is not None:
         verdict.nearest_rank_drop = back(verdict.nearest_rank_drop)
@@ -626,8 +623,8 @@ def _to_user_units(verdict, given, scaling, checker):
 
 
 def _check_in_units(system, given, exact, options, seed, rng, decomposition, scaling):
-    """The verdicts at points of ``system`` (already in computed units; ``decomposition`` in the user's), or
-    the first point that cannot be moved onto X (:class:`Unsettled`)."""
+    """The verdicts at points of ``system`` (already in computed units; ``decomposition`` in the user's); a
+    point that cannot be moved onto X gets the verdict "off"."""
     checker = _Checker(system, options, rng)
     projection = project_to_variety(system, checker.batch, given)
     residual_given = np.max(np.abs(checker.batch.evaluate(given, jacobian=False))
@@ -639,20 +636,68 @@ def _check_in_units(system, given, exact, options, seed, rng, decomposition, sca
     # (rounding, a rank-deficient Jacobian: 1.2e-13 seen at a linkage's branch point, which was then
     # dropped). A point that stalls within 100 times that is on X to double precision.
     on_variety = projection.converged | (projection.residuals <= _ON_VARIETY_RESIDUAL)
-    for k in range(len(given)):
-        tolerance = checker.tolerance_for(given[k])
-        moved = checker.distance(given[k], refined[k])
-        if not on_variety[k] or moved > tolerance:
-            return Unsettled(
-                k + 1,
-                f"is not on X: scaled residual {residual_given[k]:.3g}; Newton refinement "
-                + (f"reached a point of X at distance {moved:.3g}, beyond the point tolerance {tolerance:.3g}"
-                   if on_variety[k] else
-                   f"did not reach X (scaled residual {projection.residuals[k]:.3g} after refinement)"))
-    values, scales = checker.scaled_values_double(refined)
+    moved = np.array([checker.distance(given[k], refined[k]) for k in range(len(given))])
+    tolerances = np.array([checker.tolerance_for(given[k]) for k in range(len(given))])
+    off = ~on_variety | (moved > tolerances)
+    values, scales = [None] * len(given), [None] * len(given)
+    on = np.nonzero(~off)[0]
+    if len(on):
+        on_values, on_scales = checker.scaled_values_double(refined[on])
+        for row, k in enumerate(on):
+            values[k], scales[k] = on_values[row], on_scales[row]
+    for k in np.nonzero(off)[0]:
+        values[k], scales[k] = _values_at_given(checker, given[k])
     through = [None] * len(given)
     if decomposition is not None and options.local_dimension is None:
-        through = [components_through(decomposition, scaling.to_user(refined[k]), seed=seed + k)
+        through = [None if off[k] else components_through(decomposition, scaling.to_user(refined[k]), seed=seed + k)
                    for k in range(len(given))]
-    return [checker.check(k + 1, given[k], exact[k], refined[k], float(residual_given[k]), values[k], scales[k],
+    return [_off_verdict(checker, k + 1, given[k], refined[k], float(residual_given[k]), float(moved[k]),
+                         float(tolerances[k]), bool(on_variety[k]), float(projection.residuals[k]), values[k],
+                         scales[k])
+            if off[k] else
+            checker.check(k + 1, given[k], exact[k], refined[k], float(residual_given[k]), values[k], scales[k],
                           through[k]) for k in range(len(given))]
+
+
+def _values_at_given(checker, point):
+    """Scaled singular values of J at a point off X, kept for the reader; none where J is not finite there."""
+    with np.errstate(all="ignore"):
+        _, jacobians = checker.batch.evaluate(point[None, :])
+        scales = checker.sizes.gradients(point[None, :])
+    if not (np.all(np.isfinite(jacobians)) and np.all(np.isfinite(scales)) and np.all(scales > 0)):
+        return np.zeros(0), np.zeros(0)
+    return scaled_singular_values(jacobians, scales)[0], scales[0]
+
+
+def _off_verdict(checker, index, given, reached, residual, moved, tolerance, on_variety, reached_residual, values,
+                 scales):
+    """The verdict "off" for a point Newton could not bring onto X within the point tolerance.
+
+    Nothing is judged about X there; the evidence is the Jacobian at the given point (in double),
+    kept for the reader, and ``point`` is where Newton ended.
+    """
+    zero = zero_tolerance(DOUBLE_DIGITS, (checker.m, checker.n))
+    rank = numerical_rank(values, zero) if len(values) else 0
+    # F overflows at points far out (1e90 on a degree-8 surface): the residual is then beyond any size
+    residual = residual if math.isfinite(residual) else math.inf
+    reached_residual = reached_residual if math.isfinite(reached_residual) else math.inf
+    how = (f"Newton refinement reached a point of X at distance {moved:.3g}, beyond the point tolerance "
+           f"{tolerance:.3g}" if on_variety else
+           f"Newton refinement did not reach X (scaled residual {reached_residual:.3g} after refinement, "
+           f"{moved:.3g} from the given point)")
+    note = (f"Not on X: scaled residual {residual:.3g} at the given point; {how} (both in the balanced units "
+            "of the scaled problem). Nothing is judged here; raise --point-tolerance if the point is known "
+            "to fewer digits.")
+    point = np.asarray(reached, dtype=complex)
+    if not np.all(np.isfinite(point)):  # Newton ran away: the given point is all there is to show
+        point, moved = np.asarray(given, dtype=complex), math.inf
+    if checker.system.projective:
+        point = normalize_projective(point)
+    evidence = RankEvidence(rank=int(rank), singular_values=np.asarray(values, dtype=float),
+                            row_scales=np.asarray(scales, dtype=float), tolerance=zero,
+                            gap=singular_value_gap(np.asarray(values, dtype=float), int(rank)),
+                            digits=DOUBLE_DIGITS, escalated=False, point=np.asarray(given, dtype=complex))
+    return PointVerdict(index=index, given=given, point=point, distance=moved, residual=residual,
+                        verdict=Verdict.OFF, rank=None, codimension=None, tangent_dimension=None, local_dimension=None,
+                        local_dimension_source=LocalDimensionSource.NOT_JUDGED, evidence=evidence,
+                        notes=[note])

@@ -27,8 +27,10 @@ A system file is TOML (an open standard) with these keys:
 Points are written ``x=1, y=2+I/2`` (values in the equation grammar), or
 read from a JSON file: a list whose items are objects ``{"x": "1/3", "y": 2}``
 or lists of coordinates in variable order (numbers, strings, or
-``[real, imaginary]`` pairs, the shape numag's reports use); an object with a
-``points`` list (such as a saved report) works too.
+``[real, imaginary]`` pairs, the shape numag's reports use); a single object
+``{"x": 0, "y": 1}`` is one point. Saved reports work too: the ``points`` of
+``check``, the ``solutions`` of ``solve`` and the affine points of every component
+of ``singular`` (points at infinity are left out: they have one more coordinate).
 
 Examples
 --------
@@ -305,12 +307,55 @@ def _read_coordinate(value, name, index):
                      f"got {json.dumps(value)[:40]}", index)
 
 
+#: Where the points of each saved report are: a function of the report giving its list of points.
+_REPORT_POINTS = {
+    "check": lambda report: report.get("points"),
+    "solve": lambda report: report.get("solutions"),
+    "singular": lambda report: [{"point": point} for component in _listed(report.get("components"))
+                                if isinstance(component, dict) and component.get("at_infinity") is False
+                                for point in _listed(component.get("points"))],
+}
+
+
+def _listed(value):
+    return value if isinstance(value, list) else []
+
+
+def _report_points(data, variables):
+    """The points of a saved report of check, solve or singular; refused when its variables differ."""
+    command = data.get("command")
+    if not isinstance(command, str) or command not in _REPORT_POINTS:
+        raise PointError(f"a report of 'numag {str(command)[:20]}' holds no points to check (use a report of "
+                         "check, solve or singular)")
+    system = data.get("system")
+    named = system.get("variables") if isinstance(system, dict) else None
+    if named is not None and (not isinstance(named, list) or named != list(variables)):
+        raise PointError(f"the report's variables ({str(named)[:80]}) differ from the "
+                         f"system's ({', '.join(variables)})")
+    points = _REPORT_POINTS[command](data)
+    if not isinstance(points, list):
+        raise PointError(f"the report of 'numag {command}' has no list of points")
+    return points
+
+
 def points_from_json(data, variables):
-    """Points from decoded JSON (see the module documentation for the accepted shapes)."""
+    """Points from decoded JSON (see the module documentation for the accepted shapes).
+
+    Examples
+    --------
+    >>> [[complex(c) for c in p] for p in points_from_json({"x": 0, "y": 1.5}, ["x", "y"])]
+    [[0j, (1.5+0j)]]
+    """
     if isinstance(data, dict):
-        if "points" not in data:
-            raise PointError("the JSON object has no 'points' list")
-        data = data["points"]
+        if "command" in data and "numag_version" in data:
+            data = _report_points(data, variables)
+        elif "points" in data:
+            data = data["points"]
+        elif data and set(data) <= set(variables):
+            data = [data]  # a single point {"x": 0, "y": 1}
+        else:
+            raise PointError("the JSON object is neither a point (keys: the variables), nor has a 'points' list, "
+                             "nor is a saved report of check, solve or singular")
     if not isinstance(data, list):
         raise PointError("expected a list of points")
     points = []

@@ -752,6 +752,32 @@ class PolynomialSystem:
         """The equations as text in the grammar."""
         return [p.to_text(self.variables) for p in self.polynomials]
 
+    @classmethod
+    def from_sympy(cls, expressions, symbols, projective=False, name=None, limits=DEFAULT_LIMITS):
+        """A system from sympy expressions, coefficients kept exact (see :mod:`numag.system.symbolic`).
+
+        Examples
+        --------
+        >>> import sympy
+        >>> x, y = sympy.symbols("x y")
+        >>> PolynomialSystem.from_sympy([x**2 + y**2 - sympy.Rational(1, 3)], [x, y]).to_texts()
+        ['x^2 + y^2 - 1/3']
+        """
+        from .symbolic import system_from_sympy  # sympy is optional: imported only when asked for
+        return system_from_sympy(expressions, symbols, projective=projective, name=name, limits=limits)
+
+    def to_sympy(self):
+        """The equations as sympy expressions and the variables as symbols (see :mod:`numag.system.symbolic`).
+
+        Examples
+        --------
+        >>> from numag.system.parse import parse_system
+        >>> parse_system(["x^2 - 2*I"], ["x"]).to_sympy()
+        ([x**2 - 2*I], [x])
+        """
+        from .symbolic import system_to_sympy
+        return system_to_sympy(self)
+
     def __repr__(self):
         kind = "projective" if self.projective else "affine"
         return (f"PolynomialSystem({self.n_equations} equations in {self.variables}, {kind}, "

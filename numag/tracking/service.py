@@ -219,7 +219,7 @@ class TrackRun:
 
 
 def track(homotopy, starts, options=None, *, count=None, executor=None, run_folder=None, batch_size=4096,
-          progress=None, projective=False, jump_tolerance=1e-6, fresh_homotopy=None):
+          progress=None, projective=False, jump_tolerance=1e-6, fresh_homotopy=None, whole_cycles=False):
     """Track every path of a homotopy in batches, repair jumped paths, and count how they ended.
 
     Parameters
@@ -251,6 +251,11 @@ def track(homotopy, starts, options=None, *, count=None, executor=None, run_fold
     fresh_homotopy : callable, optional
         ``fresh_homotopy()`` gives ``(homotopy, starts)`` with a fresh gamma (and patch) for the
         same paths, for the round of the repair that tracks every path again.
+    whole_cycles : bool
+        The starts are every solution of a generic start system (a total-degree start, a
+        regeneration's), so the paths of winding number w at one singular endpoint or point at
+        infinity come in whole cycles of w: a count that is not is repaired as a jump. Not for a
+        subset of the solutions (moving some points, a parameter sweep), whose cycles may be partial.
 
     Returns
     -------
@@ -276,7 +281,8 @@ def track(homotopy, starts, options=None, *, count=None, executor=None, run_fold
         description = _track_batches(run, homotopy, starts, options, [batches[k] for k in todo], executor,
                                      run_folder=run_folder, numbers=todo, progress=progress,
                                      done=sum(len(batches[k]) for k in finished), total=total)
-        _repair_jumps(run, starts, options, batch_size, executor, projective, jump_tolerance, fresh_homotopy)
+        _repair_jumps(run, starts, options, batch_size, executor, projective, jump_tolerance, fresh_homotopy,
+                      whole_cycles)
         description.update(batches=len(batches), batches_resumed=len(finished), batches_rejected=rejected,
                            batch_size=batch_size, run_folder=None if run_folder is None else str(run_folder.path),
                            tracking_seconds=time.perf_counter() - started)
@@ -356,7 +362,8 @@ def _track_batches(run, homotopy, starts, options, batches, executor, *, run_fol
     return description
 
 
-def _repair_jumps(run, starts, options, batch_size, executor, projective, tolerance, fresh_homotopy):
+def _repair_jumps(run, starts, options, batch_size, executor, projective, tolerance, fresh_homotopy,
+                  whole_cycles=False):
     """The jump-repair rule (decision 0034), in place on ``run``.
 
     Two paths at one regular endpoint mean one of them jumped (a regular solution has one path).
@@ -371,7 +378,7 @@ def _repair_jumps(run, starts, options, batch_size, executor, projective, tolera
     cautious = options
     for round_ in range(JUMP_ROUNDS + 1):
         crossed = _crossed(run, projective, tolerance)
-        broken = _broken_cycles(run)
+        broken = _broken_cycles(run) if whole_cycles else []
         if len(crossed) == 0 and len(broken) == 0:
             return
         if round_ == JUMP_ROUNDS:

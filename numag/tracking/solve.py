@@ -28,6 +28,7 @@ import numpy as np
 
 from ..errors import InputError, is_integer, is_number, require_option
 from ..version import __version__
+from ..system.display import counted, html_table, short_point
 from ..system.polynomial import PolynomialSystem, require_numeric
 from ..run.checkpoint import RunFolder, manifest_fingerprints
 from ..run.executor import ambient_executor, charge_paths, check_memory, current_executor, make_executor
@@ -147,6 +148,11 @@ class Solution:
     paths: np.ndarray
     digits: int = 16
 
+    def __repr__(self):
+        where = "at infinity" if self.at_infinity else ("real" if self.real else "complex")
+        return (f"Solution({short_point(self.point)}, {where}, multiplicity {self.multiplicity}, "
+                f"condition {self.condition:.2g})")
+
 
 @dataclass
 class SolveResult:
@@ -197,6 +203,17 @@ class SolveResult:
     discarded: list = field(default_factory=list)
     extra: dict = field(default_factory=dict)
     scaling: object = None
+
+    def __repr__(self):
+        counts = self.path_counts()
+        return (f"SolveResult({self.system.name or 'system'}: {counted(len(self.solutions), 'solution')} "
+                f"({sum(s.real for s in self.solutions)} real), {len(self.at_infinity)} at infinity, "
+                f"{counts['failed']} of {counts['tracked']} paths failed; seed {self.seed})")
+
+    def _repr_html_(self):
+        rows = [[k, short_point(s.point), s.multiplicity, "yes" if s.real else "no", f"{s.condition:.2g}"]
+                for k, s in enumerate(self.solutions, 1)]
+        return html_table(repr(self), ["#", "solution", "multiplicity", "real", "condition"], rows)
 
     def path_counts(self):
         """The ``paths`` block of a report: counts by status; they add up to the number of tracked paths."""
@@ -410,7 +427,8 @@ def _run(system, homotopy, start_points, total, options, rng, seed, progress, st
     executor = _executor_of(execution, -(-total // options.batch_size))
     run = track(homotopy, start_points, options.tracker, count=total, executor=executor, run_folder=folder,
                 batch_size=options.batch_size, progress=progress, projective=system.projective,
-                jump_tolerance=options.cluster_tolerance, fresh_homotopy=fresh_homotopy)
+                jump_tolerance=options.cluster_tolerance, fresh_homotopy=fresh_homotopy,
+                whole_cycles=isinstance(homotopy, StraightLineHomotopy))  # every start of a total-degree start
     status, winding, condition = run.status, run.winding, run.condition
     if system.projective:  # X_0 = 0 is an ordinary point of projective space, not "infinity"
         ends = status == PathStatus.AT_INFINITY

@@ -239,7 +239,7 @@ def _product_oflinear_form(rows):
     return product
 
 
-def track_moves(start, target, points, rng, options, batch_size=4096):
+def track_moves(start, target, points, rng, options, batch_size=4096, whole_cycles=False):
     """Track affine points from the square homogeneous system ``start`` to ``target`` (parameter homotopy).
 
     Parameters
@@ -251,6 +251,8 @@ def track_moves(start, target, points, rng, options, batch_size=4096):
     rng : numpy.random.Generator
     options : TrackerOptions
     batch_size : int
+    whole_cycles : bool
+        ``points`` are every solution of ``start`` that moves (see :func:`~numag.tracking.service.track`).
 
     Returns
     -------
@@ -272,7 +274,7 @@ def track_moves(start, target, points, rng, options, batch_size=4096):
 
     homotopy, starts = homotopy_with_fresh_gamma()
     return track(homotopy, starts, options, executor=ambient_executor(-(-count // batch_size)),
-                 batch_size=batch_size, fresh_homotopy=homotopy_with_fresh_gamma)
+                 batch_size=batch_size, fresh_homotopy=homotopy_with_fresh_gamma, whole_cycles=whole_cycles)
 
 
 #: Endpoints with a scaled residual between the tolerance and this are refined before they are judged.
@@ -483,8 +485,9 @@ def _regenerate(slicing, held_equations, f, codim, points, options):
     starts = np.vstack(starts) if starts else np.zeros((0, n), complex)
     lost = len(points) * degree - len(starts)
     product = _product_oflinear_form(moved_rows)
+    # every solution of the product system off V(held, f) moves: cycles at infinity are whole
     run = track_moves(held + [product] + rest, held + [f] + rest, starts, slicing.rng, options.tracker,
-                      options.batch_size)
+                      options.batch_size, whole_cycles=True)
     return run.affine_endpoints(), lost, paths + run.counts
 
 

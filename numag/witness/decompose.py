@@ -40,6 +40,7 @@ import numpy as np
 from scipy.spatial import cKDTree
 
 from ..errors import InputError, LimitError, is_integer, is_number, require_option
+from ..system.display import counted, html_table, short_point
 from ..system.polynomial import combined_minor, linear_space, require_numeric
 from ..numeric.cluster import cluster_labels
 from ..numeric.evaluate import BatchEvaluator, TermSizes
@@ -120,6 +121,13 @@ class Component:
     confirmed: bool = True
     trace_defect: float = 0.0
 
+    def __repr__(self):
+        kind = "reduced" if self.reduced else "non-reduced" + (f" (multiplicity {self.multiplicity})"
+                                                               if self.multiplicity > 1 else "")
+        sure = "confirmed" if self.confirmed else "not confirmed"
+        return (f"Component({self.id}: dimension {self.dimension}, degree {self.degree}, {kind}, {sure}, "
+                f"{int(np.sum(self.real))} real witness points)")
+
 
 @dataclass
 class Decomposition:
@@ -149,6 +157,18 @@ class Decomposition:
     seconds: float
     extra: dict = field(default_factory=dict)
     scaling: object = None
+
+    def __repr__(self):
+        parts = ", ".join(f"dimension {c.dimension} degree {c.degree}" for c in self.components) or "empty"
+        return (f"Decomposition({self.system.name or 'system'}: {counted(len(self.components), 'component')}: {parts}; "
+                f"seed {self.seed})")
+
+    def _repr_html_(self):
+        rows = [[c.id, c.dimension, c.degree, "yes" if c.reduced else f"no ({c.multiplicity} paths)",
+                 "yes" if c.confirmed else "no", int(np.sum(c.real)), short_point(c.points[0])]
+                for c in self.components]
+        return html_table(repr(self), ["id", "dimension", "degree", "reduced", "confirmed", "real witness points",
+                                       "a witness point"], rows)
 
     def in_units(self, scaling, system, to_user):
         """The same decomposition with points and slices moved to other units (a new object).

@@ -5,7 +5,7 @@ prints certificates (``--certify``).
 from ...run.executor import make_executor
 from ...certify.records import CertifyOptions, ClaimStatus, Kind, Status
 from ..report import CAUTION, certify_report, dumps, read_report, write_report
-from .common import EXIT_OK, EXIT_UNDECIDED, _MAX_WORKERS, _Messages, _count
+from .common import (EXIT_OK, EXIT_UNDECIDED, _MAX_WORKERS, _count, _progress)
 
 
 def add_parser(commands):
@@ -42,7 +42,7 @@ def _certified(data, args):
     if not getattr(args, "certify", False):
         return data
     options = CertifyOptions(digits=min(args.digits, _CERTIFY_START_DIGITS), max_digits=args.digits)
-    return certify_report(data, options, progress=_Messages(args.json))
+    return certify_report(data, options, progress=_progress(args))
 
 
 def _doubtful(data):
@@ -145,7 +145,7 @@ def run(args, out):
     data = read_report(args.report_file)
     options = CertifyOptions(digits=args.digits, max_digits=args.max_digits, exact=not args.numerical_only).validated()
     with make_executor(args.workers or 1) as executor:
-        certified = certify_report(data, options, progress=_Messages(args.json), executor=executor)
+        certified = certify_report(data, options, progress=_progress(args), executor=executor)
     write_report(args.output or args.report_file, certified)
     if args.json:
         out.write(dumps(certified) + "\n")

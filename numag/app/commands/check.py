@@ -1,5 +1,7 @@
 """``numag check``: smooth or singular at given points (the Jacobian criterion, with evidence)."""
 
+import numpy as np
+
 from ...errors import NumagError
 from ...system.files import load_points, parse_point_assignment
 from ...numeric.seeds import resolved_seed
@@ -9,11 +11,13 @@ from ...system.files import load_angles
 from ...anatomy.survey import check_anatomy
 from ..anatomy_text import attach_to_check, write_point_anatomy
 from ...singular.kinds import Verdict
-from ..report import CAUTION, check_report_to_dict, dumps
+from ..report import (CAUTION, check_report_to_dict, decomposition_from_dict, dumps, read_report,
+                      system_to_dict)
 from .certify import _certified, _doubtful, _print_certification
 from .plot import add_plot_options, check_plot_request, plot_after, with_angles
-from .common import (EXIT_OK, EXIT_UNDECIDED, _Messages, _add_certify_switch, _add_work_options, _format_point,
-                     _guard_paths, _load, _positive_number, _seed, _with_notes, _write_notes)
+from .common import (EXIT_OK, EXIT_UNDECIDED, _add_certify_switch, _add_work_options, _counted, _format_point,
+                     _guard_paths, _headline, _load, _PointFormat, _positive_number, _progress, _seed, _with_notes,
+                     _write_notes)
 
 
 def add_parser(commands):
@@ -30,6 +34,9 @@ def add_parser(commands):
     check.add_argument("--local-dimension", type=int, metavar="K",
                        help="dimension of X at the points (default: computed from the components of X "
                             "through each point)")
+    check.add_argument("--decomposition", metavar="JSON",
+                       help="reuse the components of X from a saved 'numag decompose --json' report of the "
+                            "same system instead of decomposing X again")
     check.add_argument("--without-components", action="store_true",
                        help="do not decompose X: assume a complete intersection unless --local-dimension "
                             "is given (faster on large systems, wrong on reducible X)")
@@ -50,15 +57,21 @@ def add_parser(commands):
 
 def _print_check(report, out, data=None, anatomies=None):
     system = report.system
-    kind = "projective" if system.projective else "affine"
-    out.write(f"numag check: {system.name or 'system'}: {system.n_equations} equation(s) in "
-              f"{system.n_variables} variables ({kind}), seed {report.seed}\n")
+    out.write(_headline("check", system, report.seed))
+    text = _PointFormat()
+    accuracy = report.options.point_tolerance  # the given points' accuracy, and so of what they move to
     for v in report.points:
         e = v.evidence
         out.write(f"\npoint {v.index}: {_format_point(system.variables, v.given)}\n")
         out.write(f"  verdict: {v.verdict.upper()}\n")
+        if v.verdict == "off":
+            out.write(f"  residual of F at the given point (scaled): {v.residual:.3g}\n")
+            out.write(f"  Newton moved it {v.distance:.3g} (to {text(system.variables, v.point, accuracy)})\n")
+            for note in v.notes:
+                out.write(f"  note: {note}\n")
+            continue
         if v.distance > 0:
-            out.write(f"  speaks about: {_format_point(system.variables, v.point)} "
+            out.write(f"  speaks about: {text(system.variables, v.point, accuracy)} "
                       f"(distance {v.distance:.3g} from the given point)\n")
         out.write(f"  residual of F at the given point (scaled): {v.residual:.3g}\n")
         codim = "unknown" if v.codimension is None else str(v.codimension)
@@ -72,7 +85,7 @@ def _print_check(report, out, data=None, anatomies=None):
                   f"{e.digits} digits{', escalated' if e.escalated else ''}\n")
         if v.nearest_rank_drop is not None and v.verdict is Verdict.SMOOTH:
             out.write(f"  nearest point found where the rank drops: "
-                      f"{_format_point(system.variables, v.nearest_rank_drop)} "
+                      f"{text(system.variables, v.nearest_rank_drop, accuracy)} "
                       f"(distance {v.nearest_rank_drop_distance:.3g})\n")
         if v.components:
             names = ", ".join(f"{c['id']} (dimension {c['dimension']}, degree {c['degree']})" for c in v.components)
@@ -85,7 +98,47 @@ def _print_check(report, out, data=None, anatomies=None):
     counts = ", ".join(f"{n} {c}" for n, c in report.counts().items())
     out.write(f"\nsummary: {counts}\n")
     _print_certification(data, out)
+    out.write(("\n" + text.footnote()) if text.used else "")
     out.write(f"\n{CAUTION}\n")
+
+
+def _saved_decomposition(args, system):
+    """The decomposition of a saved report, refused (one line naming the file) when it is of another system."""
+    if args.local_dimension is not None or args.without_components:
+        raise NumagError("--decomposition gives the local dimension from the components of X: it excludes "
+                         "--local-dimension and --without-components")
+    if system.projective:
+        raise NumagError("--decomposition: decompositions are of affine systems, this one is projective")
+    where = args.decomposition
+    data = read_report(where)
+    if data.get("command") != "decompose":
+        raise NumagError(f"{where}: not a report of 'numag decompose' (it is of {str(data.get('command'))[:20]!r})")
+    try:
+        decomposition, _ = decomposition_from_dict(data)
+    except NumagError as err:
+        raise NumagError(f"{where}: {err}") from None
+    except (KeyError, TypeError, ValueError, AttributeError, IndexError, OverflowError) as err:
+        raise NumagError(f"{where}: the decomposition report is damaged ({type(err).__name__}: "
+                         f"{str(err)[:80]})") from None
+    _check_components(decomposition, where)
+    saved, ours = system_to_dict(decomposition.system), system_to_dict(system)
+    for key in ("variables", "equations"):
+        if saved[key] != ours[key]:
+            raise NumagError(f"{where}: the decomposition is of another system (its {key} differ from "
+                             f"{args.system_file}'s)")
+    return decomposition
+
+
+def _check_components(decomposition, where):
+    """Refuse a saved decomposition whose components cannot be witness sets of its system (one line)."""
+    n = decomposition.system.n_variables
+    for k, c in enumerate(decomposition.components, 1):
+        shapes_fit = (0 <= c.dimension <= n and c.degree >= 1 and c.multiplicity >= 1
+                      and c.points.shape == (c.degree, n) and c.slice_rows.shape == (c.dimension, n + 1)
+                      and np.ndim(c.real) == 1 and len(c.real) == c.degree)
+        if not shapes_fit or not (np.all(np.isfinite(c.points)) and np.all(np.isfinite(c.slice_rows))):
+            raise NumagError(f"{where}: component {k} is damaged (its dimension, degree, witness points and slice "
+                             "do not fit together, or are not finite)")
 
 
 def run(args, out):
@@ -102,9 +155,12 @@ def run(args, out):
     options.validated(system)
     decomposition = None
     seed = resolved_seed(args.seed)
-    if args.local_dimension is None and not args.without_components and not system.projective:
+    if args.decomposition:
+        decomposition = _saved_decomposition(args, system)
+    elif args.local_dimension is None and not args.without_components and not system.projective:
         _guard_paths(args, system, "check")
-        decomposition = decompose(system, seed=seed, progress=_Messages(args.json))
+        decomposition = decompose(system, seed=seed, progress=_progress(args))
+    _progress(args)(f"judging {_counted(len(points), 'point')} by the Jacobian criterion")
     report = check_points(system, points, options, seed=seed, decomposition=decomposition)
     anatomies = None
     if args.anatomy:
@@ -122,4 +178,4 @@ def run(args, out):
     if incomplete and not args.json:
         out.write(f"warning: the anatomy of point(s) {', '.join(map(str, incomplete))} is incomplete (see their notes)\n")
     pictured = plot_after(data, args, out)
-    return EXIT_UNDECIDED if report.undecided or _doubtful(data) or incomplete or pictured else EXIT_OK
+    return EXIT_UNDECIDED if report.undecided or report.off or _doubtful(data) or incomplete or pictured else EXIT_OK

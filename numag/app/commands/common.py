@@ -1,6 +1,6 @@
 """What every sub-command shares: exit codes, option types and option groups (work limits, executors,
 ``--certify``), loading a system file for numerical work, the path guard, notes and warnings, point
-formatting and progress lines.
+formatting and the progress reporter.
 
 Examples
 --------
@@ -11,13 +11,13 @@ Examples
 import argparse
 import math
 import re
-import sys
-import time
 
 from ...errors import NumagError, SystemFileError
+from ...system.display import counted as _counted
 from ...system.files import load_family
 from ...system.polynomial import prepared_for_numerics, regeneration_bound
 from ...run.executor import WorkLimits, make_executor
+from ..progress import Reporter
 from ..report import completeness_warnings
 
 EXIT_OK, EXIT_INTERNAL, EXIT_INPUT, EXIT_UNDECIDED, EXIT_MISMATCH = 0, 1, 2, 3, 4
@@ -167,18 +167,102 @@ def _add_certify_switch(command):
                          help="certify the resulting points at --digits digits (see 'numag certify')")
 
 
-def _format_complex(z):
-    size = max(1.0, abs(z))
-    real = 0.0 if abs(z.real) <= 1e-14 * size else z.real
-    imag = 0.0 if abs(z.imag) <= 1e-14 * size else z.imag
+def _unsearched(lowest, dimension=None):
+    """What ``--lowest-dimension K`` left out, for the counts it affects ('' when nothing was left out).
+
+    ``dimension``: the count is of sets of this one dimension (entirely unsearched when below K).
+
+    Examples
+    --------
+    >>> _unsearched(2), _unsearched(1, dimension=0), _unsearched(None)
+    (' (dimensions below 2 not searched: --lowest-dimension 2)', ' (not searched: --lowest-dimension 1)', '')
+    """
+    if not lowest:
+        return ""
+    if dimension is not None and dimension < lowest:
+        return f" (not searched: --lowest-dimension {lowest})"
+    return f" (dimensions below {lowest} not searched: --lowest-dimension {lowest})"
+
+
+def _headline(command, system, seed, kind=True):
+    """The first line of a command's report: the system, its size and the seed."""
+    space = f" ({'projective' if system.projective else 'affine'})" if kind else ""
+    return (f"numag {command}: {system.name or 'system'}: {_counted(system.n_equations, 'equation')} in "
+            f"{_counted(system.n_variables, 'variable')}{space}, seed {seed}\n")
+
+
+#: Parts of a coordinate below this (relative to the point) are rounding, whatever the point's accuracy.
+_ROUNDING = 1e-14
+
+
+def _format_complex(z, floor=None):
+    """A coordinate as text; real or imaginary parts of size at most ``floor`` are printed as 0."""
+    floor = _ROUNDING * max(1.0, abs(z)) if floor is None else floor
+    real = 0.0 if abs(z.real) <= floor else z.real
+    imag = 0.0 if abs(z.imag) <= floor else z.imag
     if imag == 0.0:
         return f"{real:.10g}"
+    if real == 0.0:  # purely imaginary: no "0+" in front
+        return f"{imag:.10g}*I"
     sign = "+" if imag >= 0 else "-"
     return f"{real:.10g}{sign}{abs(imag):.10g}*I"
 
 
 def _format_point(names, point):
     return ", ".join(f"{n}={_format_complex(complex(z))}" for n, z in zip(names, point))
+
+
+#: Accuracy (relative) of witness and sample points refined on X in double precision.
+_WITNESS_ACCURACY = 1e-10
+
+
+def _root_accuracy(digits, multiplicity):
+    """Relative accuracy of a root of the given multiplicity refined at ``digits`` digits: about eps^(1/m)
+    (common practice: a root of multiplicity m moves by eps^(1/m) under perturbations of size eps).
+
+    Examples
+    --------
+    >>> _root_accuracy(16, 1), _root_accuracy(16, 2)
+    (1e-14, 1e-06)
+    """
+    return max(_ROUNDING, 100 * (10.0 ** -digits) ** (1.0 / max(1, int(multiplicity))))
+
+
+class _PointFormat:
+    """Points as text with the noise below their accuracy printed as 0, and one footnote saying so.
+
+    A computed point is known only to its accuracy (relative to ``sqrt(1 + |p|^2)``): a real or
+    imaginary part below it is noise of the computation (1e-17*I on a real point), and printed as 0.
+    The JSON report keeps every digit.
+
+    Examples
+    --------
+    >>> text = _PointFormat()
+    >>> text(["x", "y"], [1 + 3e-12j, 2e-9], accuracy=1e-8)
+    'x=1, y=0'
+    >>> text.footnote()[:40]
+    'note: real and imaginary parts below the'
+    """
+
+    def __init__(self):
+        self.used = []  # the accuracies that turned a nonzero part into 0
+
+    def __call__(self, names, point, accuracy=_ROUNDING):
+        values = [complex(z) for z in point]
+        size = math.sqrt(1.0 + sum(abs(z) ** 2 for z in values))
+        floor = max(accuracy, _ROUNDING) * size
+        if any(0 < abs(part) <= floor for z in values for part in (z.real, z.imag)) and accuracy > _ROUNDING:
+            self.used.append(accuracy)
+        return ", ".join(f"{n}={_format_complex(z, floor)}" for n, z in zip(names, values))
+
+    def footnote(self):
+        """One line for the end of the report ('' when no part was rounded to 0)."""
+        if not self.used:
+            return ""
+        low, high = min(self.used), max(self.used)
+        accuracy = f"{high:.0e}" if low == high else f"{low:.0e} to {high:.0e}"
+        return (f"note: real and imaginary parts below the points' accuracy ({accuracy}, relative to "
+                "sqrt(1 + |point|^2)) are printed as 0; the JSON report (--json) keeps every digit.\n")
 
 
 def _with_warnings(data):
@@ -192,43 +276,14 @@ def _print_warnings(data, out):
         out.write(f"\nwarning: {warning}\n")
 
 
-class _Progress:
-    """Progress on standard error for runs longer than a couple of seconds, at most once a second."""
+def _reporter(args):
+    """The progress reporter of a sub-command (see :mod:`numag.app.progress`): quiet with --json or --quiet.
 
-    def __init__(self, quiet):
-        self.quiet = quiet
-        self.started = time.perf_counter()
-        self.last = 0.0
-        self.last_done = None
-        self.base = None  # paths already done at the first report (read back from a run folder)
-
-    def __call__(self, message, *, done=None, total=None):
-        """A :class:`~numag.run.progress.Progress`: a line with the rate when paths are counted."""
-        if done is None or total is None:
-            return  # solve's messages all count paths
-        now = time.perf_counter() - self.started
-        if self.base is None:  # the first report only marks where this run starts
-            self.base = done if done < total else 0
-            if done < total:
-                return
-        if self.quiet or now < 2.0 or done == self.last_done or (now - self.last < 1.0 and done < total):
-            return
-        self.last, self.last_done = now, done
-        rate = (done - self.base) / now if now > 0 else 0.0
-        left = (total - done) / rate if rate > 0 else float("inf")
-        sys.stderr.write(f"numag: {done}/{total} paths ({100 * done / total:.0f}%), {rate:.0f} paths/s, "
-                         f"about {left:.0f} s left\n")
+    ``main`` opens one for the run and puts it in ``args.progress``; every stage of every command reports to it.
+    """
+    return Reporter(quiet=bool(getattr(args, "json", False) or getattr(args, "quiet", False)))
 
 
-class _Messages:
-    """Progress messages on standard error for runs longer than a couple of seconds."""
-
-    def __init__(self, quiet):
-        self.quiet = quiet
-        self.started = time.perf_counter()
-
-    def __call__(self, message, *, done=None, total=None):
-        """A :class:`~numag.run.progress.Progress`: the message (counts are in it)."""
-        now = time.perf_counter() - self.started
-        if not self.quiet and now >= 2.0:
-            sys.stderr.write(f"numag: {message} ({now:.0f} s)\n")
+def _progress(args):
+    """The run's progress reporter (a quiet one when a command runs without ``main``)."""
+    return getattr(args, "progress", None) or Reporter(quiet=True)

@@ -3,8 +3,8 @@
 from ...errors import NumagError
 from ..compare import compare_system
 from ..report import CAUTION, compare_to_dict, dumps
-from .common import (EXIT_MISMATCH, EXIT_OK, EXIT_UNDECIDED, _Messages, _add_work_options, _guard_paths, _load,
-                     _positive_number, _seed, _with_notes, _write_notes)
+from .common import (EXIT_MISMATCH, EXIT_OK, EXIT_UNDECIDED, _add_work_options, _guard_paths, _headline, _load,
+                     _positive_number, _progress, _seed, _with_notes, _write_notes)
 
 
 def add_parser(commands):
@@ -27,9 +27,7 @@ def add_parser(commands):
 
 def _print_compare(comparison, out):
     system = comparison.system
-    out.write(f"numag compare: {system.name or 'system'}: {system.n_equations} equation(s) in "
-              f"{system.n_variables} variables ({'projective' if system.projective else 'affine'}), "
-              f"seed {comparison.locus.seed}\n\n")
+    out.write(_headline("compare", system, comparison.locus.seed) + "\n")
     width = max(len(r.quantity) for r in comparison.rows) if comparison.rows else 10
     out.write(f"  {'quantity':{width}}  {'numag':>10}  {'exact':>10}  agree\n")
     for r in comparison.rows:
@@ -39,7 +37,8 @@ def _print_compare(comparison, out):
         out.write(f"  {r.quantity:{width}}  {mine:>10}  {exact:>10}  {mark}\n")
     reference = comparison.reference
     if comparison.digits is not None:
-        out.write(f"\n  coordinates agree to {comparison.digits:.1f} digits\n")
+        digits = "every digit" if comparison.digits == float("inf") else f"{comparison.digits:.1f} digits"
+        out.write(f"\n  coordinates agree to {digits}: largest relative distance {comparison.max_distance:.1e}\n")
     if reference.exact_points:
         out.write("  exact singular points (sympy):\n")
         for point in reference.exact_points[:20]:
@@ -64,7 +63,7 @@ def run(args, out):
     if not args.tolerance > 0:
         raise NumagError(f"--tolerance must be positive, got {args.tolerance}")
     comparison = compare_system(system, seconds=args.time_limit, seed=args.seed, tolerance=args.tolerance,
-                                progress=_Messages(args.json))
+                                progress=_progress(args))
     if args.json:
         out.write(dumps(_with_notes(compare_to_dict(comparison), args)) + "\n")
     else:

@@ -8,9 +8,9 @@ from ...witness.cascade import WitnessOptions
 from ...witness.decompose import DecomposeOptions, decompose
 from ..report import CAUTION, decomposition_to_dict, dumps
 from .plot import add_plot_options, check_plot_request, plot_after, with_angles
-from .common import (EXIT_OK, EXIT_UNDECIDED, _Messages, _add_executor_options, _add_work_options, _format_point,
-                     _guard_paths, _load, _print_warnings, _seed, _stage_executor, _with_notes, _with_warnings,
-                     _write_notes)
+from .common import (EXIT_OK, EXIT_UNDECIDED, _WITNESS_ACCURACY, _add_executor_options, _add_work_options, _counted,
+                     _guard_paths, _headline, _load, _PointFormat, _print_warnings, _progress, _seed, _stage_executor,
+                     _unsearched, _with_notes, _with_warnings, _write_notes)
 
 
 def add_parser(commands):
@@ -35,8 +35,7 @@ def add_parser(commands):
 def _print_decompose(result, out, data=None):
     system = result.system
     counts = result.paths
-    out.write(f"numag decompose: {system.name or 'system'}: {system.n_equations} equation(s) in "
-              f"{system.n_variables} variables, seed {result.seed}\n")
+    out.write(_headline("decompose", system, result.seed, kind=False))
     searched = result.dimensions_searched
     out.write(f"dimensions searched: {searched[0]} down to {searched[-1]}\n")
     failed = sum(counts.get(label, 0) for label in FAILURE_LABELS)
@@ -44,16 +43,21 @@ def _print_decompose(result, out, data=None):
               f"{counts.get('not_on_X', 0)}, at infinity or lost {counts.get('at_infinity_or_failed', 0)}, "
               f"on a larger component (removed) {counts.get('on_larger_component', 0)}; "
               f"{result.seconds:.2f} s\n")
-    out.write(f"\n{len(result.components)} irreducible component(s)\n")
+    lowest = (data or {}).get("options", {}).get("lowest_dimension")
+    out.write(f"\n{_counted(len(result.components), 'irreducible component')}{_unsearched(lowest)}\n")
+    text = _PointFormat()
     for c in result.components:
-        kind = "reduced" if c.reduced else f"non-reduced (multiplicity {c.multiplicity})"
+        # the multiplicity (paths per witness point) says more only when above 1
+        kind = "reduced" if c.reduced else "non-reduced" + (f" (multiplicity {c.multiplicity})"
+                                                            if c.multiplicity > 1 else "")
         sure = "confirmed by the trace test" if c.confirmed else "NOT confirmed (trace test failed)"
         real = int(sum(c.real))
         out.write(f"  {c.id:4d}  dimension {c.dimension}  degree {c.degree}  {kind}  {sure}  "
-                  f"{real} real witness point(s)\n")
+                  f"{_counted(real, 'real witness point')}\n")
         sample = c.points[int(np.argmax(c.real))] if len(c.real) else c.points[0]  # a real one if any
-        out.write(f"        e.g. {_format_point(system.variables, sample)}\n")
+        out.write(f"        e.g. {text(system.variables, sample, _WITNESS_ACCURACY)}\n")
     _print_warnings(data, out)
+    out.write(("\n" + text.footnote()) if text.used else "")
     out.write(f"\n{CAUTION}\n")
 
 
@@ -64,7 +68,7 @@ def run(args, out):
     options = DecomposeOptions(witness=WitnessOptions(lowest_dimension=args.lowest_dimension),
                                max_loops=args.max_loops)
     with _stage_executor(args) as executor, using(executor):
-        result = decompose(system, options, seed=args.seed, progress=_Messages(args.json))
+        result = decompose(system, options, seed=args.seed, progress=_progress(args))
         execution = executor.describe()
     data = decomposition_to_dict(result, options)
     data["execution"] = execution

@@ -11,7 +11,7 @@ from ...families.discriminant import DiscriminantOptions, discriminant
 from ...families.records import ComponentKind, save_result
 from ..picture import discriminant_svg, sweep_svg
 from ..report import CAUTION, dumps
-from .common import (EXIT_OK, EXIT_UNDECIDED, _Messages, _add_executor_options, _add_work_options, _format_complex,
+from .common import (EXIT_OK, EXIT_UNDECIDED, _add_executor_options, _add_work_options, _format_complex, _progress,
                      _seed, _stage_executor)
 
 
@@ -99,7 +99,7 @@ def run(args, out):
         raise NumagError(f"--lines must be from 1 to 1000, got {args.lines}")
     options = DiscriminantOptions(regions=not args.no_regions, at_infinity=not args.no_infinity, lines=args.lines)
     with _stage_executor(args) as executor, using(executor):
-        result = discriminant(family, options, seed=args.seed, progress=_Messages(args.json))
+        result = discriminant(family, options, seed=args.seed, progress=_progress(args))
     if args.output:
         save_result(result, args.output)
     if args.svg:

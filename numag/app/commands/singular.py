@@ -14,9 +14,9 @@ from ...singular.kinds import PieceKind
 from ..report import CAUTION, dumps, singular_to_dict
 from .certify import _certified, _doubtful, _print_certification
 from .plot import add_plot_options, check_plot_request, plot_after, with_angles
-from .common import (EXIT_OK, EXIT_UNDECIDED, _Messages, _add_certify_switch, _add_executor_options,
-                     _add_work_options, _format_point, _guard_paths, _load, _print_warnings, _seed,
-                     _stage_executor, _with_notes, _with_warnings, _write_notes)
+from .common import (EXIT_OK, EXIT_UNDECIDED, _WITNESS_ACCURACY, _add_certify_switch, _add_executor_options,
+                     _add_work_options, _counted, _guard_paths, _headline, _load, _PointFormat, _print_warnings,
+                     _progress, _seed, _stage_executor, _unsearched, _with_notes, _with_warnings, _write_notes)
 
 
 def add_parser(commands):
@@ -61,12 +61,12 @@ def _angles_text(point, angles):
 
 def _print_singular(result, out, angles, data=None, anatomy=None):
     system = result.system
-    kind = "projective" if system.projective else "affine"
-    out.write(f"numag singular: {system.name or 'system'}: {system.n_equations} equation(s) in "
-              f"{system.n_variables} variables ({kind}), seed {result.seed}\n")
+    out.write(_headline("singular", system, result.seed))
+    lowest = (data or {}).get("options", {}).get("lowest_dimension")
     if result.variety is not None:
         parts = ", ".join(f"dimension {c.dimension} degree {c.degree}" for c in result.variety.components)
-        out.write(f"X: {len(result.variety.components)} component(s): {parts or 'empty'}\n")
+        out.write(f"X: {_counted(len(result.variety.components), 'component')}: {parts or 'empty'}"
+                  f"{_unsearched(lowest)}\n")
     counts = result.paths
     failed = sum(counts.get(label, 0) for label in FAILURE_LABELS)
     dropped = ", ".join(f"{k.replace('_', ' ')} {v}" for k, v in result.discarded.items()) or "none"
@@ -75,34 +75,38 @@ def _print_singular(result, out, angles, data=None, anatomy=None):
     affine = [c for c in result.components if not c.at_infinity]
     points = [c for c in affine if c.dimension == 0 and c.kind is PieceKind.SINGULAR]
     real = sum(1 for c in points if c.real[0])
-    out.write(f"\n{len(points)} singular point(s), {real} real\n")
+    out.write(f"\n{_counted(len(points), 'singular point')}, {real} real{_unsearched(lowest, dimension=0)}\n")
     names = system.variables
+    text = _PointFormat()
     for c in points:
         where = f"  on components {', '.join(map(str, c.on_components))}" if c.on_components else ""
-        out.write(f"  {c.id:4d}  {'real' if c.real[0] else 'complex'}  {_format_point(names, c.points[0])}"
+        out.write(f"  {c.id:4d}  {'real' if c.real[0] else 'complex'}  {text(names, c.points[0], _WITNESS_ACCURACY)}"
                   f"{_angles_text(c.points[0], angles)}{where}\n")
         if anatomy is not None and c.id in anatomy.points:
             write_point_anatomy(anatomy.points[c.id], names, out)
     larger = [c for c in affine if c.dimension > 0 or c.kind is not PieceKind.SINGULAR]
     if larger:
-        out.write(f"\n{len(larger)} singular or non-reduced component(s) of positive dimension or undecided\n")
+        out.write(f"\n{_counted(len(larger), 'singular or non-reduced component')} of positive dimension or "
+                  f"undecided{_unsearched(lowest)}\n")
         for c in larger:
             out.write(f"  {c.id:4d}  {c.kind}  dimension {c.dimension}  degree {c.degree}  "
-                      f"{int(sum(c.real))} real witness point(s)  ({c.formulation})\n")
-            out.write(f"        e.g. {_format_point(names, c.points[int(np.argmax(c.real))])}\n")
+                      f"{_counted(int(sum(c.real)), 'real witness point')}  ({c.formulation})\n")
+            out.write(f"        e.g. {text(names, c.points[int(np.argmax(c.real))], _WITNESS_ACCURACY)}\n")
             if anatomy is not None and c.id in anatomy.components:
                 write_component_anatomy(anatomy.components[c.id], names, out)
     infinite = [c for c in result.components if c.at_infinity]
     if infinite:
         homogeneous = ["(w)"] + list(names)
-        out.write(f"\n{len(infinite)} singular point(s) at infinity of the closure (homogeneous coordinates "
+        out.write(f"\n{_counted(len(infinite), 'singular point')} at infinity of the closure"
+                  f"{_unsearched(lowest, dimension=0)} (homogeneous coordinates "
                   f"{', '.join(homogeneous)}):\n")
         for c in infinite:
-            out.write(f"  {c.id:4d}  {_format_point(homogeneous, c.points[0])}\n")
+            out.write(f"  {c.id:4d}  {text(homogeneous, c.points[0], _WITNESS_ACCURACY)}\n")
     for note in result.notes:
         out.write(f"\nnote: {note}\n")
     _print_warnings(data, out)
     _print_certification(data, out)
+    out.write(("\n" + text.footnote()) if text.used else "")
     out.write(f"\n{CAUTION}\n")
 
 
@@ -116,7 +120,7 @@ def run(args, out):
     if args.lowest_dimension is not None:
         options.decompose.witness.validated(system.n_variables)
     with _stage_executor(args) as executor, using(executor):
-        result = singular_locus(system, options, seed=args.seed, progress=_Messages(args.json))
+        result = singular_locus(system, options, seed=args.seed, progress=_progress(args))
         data = _with_notes(singular_to_dict(result, options), args)
         data["execution"] = executor.describe()
         anatomy = locus_anatomy(result, angles=angles) if args.anatomy else None

@@ -8,9 +8,9 @@ from ...tracking.solve import Execution, SolveOptions, solve_system
 from ..report import CAUTION, dumps, solve_report_to_dict
 from .certify import _certified, _doubtful, _print_certification
 from .plot import add_plot_options, check_plot_request, plot_after, with_angles
-from .common import (EXIT_OK, EXIT_UNDECIDED, _Progress, _add_certify_switch, _add_executor_options,
-                     _add_work_options, _checked_seed, _count, _format_point, _load, _print_warnings, _seed,
-                     _with_notes, _with_warnings, _write_notes)
+from .common import (EXIT_OK, EXIT_UNDECIDED, _WITNESS_ACCURACY, _add_certify_switch, _add_executor_options,
+                     _add_work_options, _checked_seed, _count, _counted, _headline, _load, _PointFormat,
+                     _print_warnings, _progress, _root_accuracy, _seed, _with_notes, _with_warnings, _write_notes)
 
 
 def add_parser(commands):
@@ -43,9 +43,7 @@ def add_parser(commands):
 def _print_solve(result, out, data=None):
     system = result.system
     counts = result.path_counts()
-    kind = "projective" if system.projective else "affine"
-    out.write(f"numag solve: {system.name or 'system'}: {system.n_equations} equation(s) in "
-              f"{system.n_variables} variables ({kind}), seed {result.seed}\n")
+    out.write(_headline("solve", system, result.seed))
     failed = ", ".join(f"{label} {n}" for label, n in counts["failed_by_reason"].items() if n) or "none"
     out.write(f"paths: {counts['tracked']} tracked: {counts['converged']} converged, "
               f"{counts['singular_endpoint']} singular endpoints, {counts['at_infinity']} at infinity, "
@@ -55,7 +53,8 @@ def _print_solve(result, out, data=None):
     execution = result.extra.get("execution")
     if execution:
         failed = execution["failed_batches"]
-        out.write(f"run: {execution['executor']}, {execution['workers']} worker(s), {execution['batches']} batch(es) "
+        out.write(f"run: {execution['executor']}, {_counted(execution['workers'], 'worker')}, "
+                  f"{_counted(execution['batches'], 'batch', 'batches')} "
                   f"of up to {execution['batch_size']} paths, {execution['batches_resumed']} read back from the run "
                   f"folder, {execution['retries']} retried, {len(failed)} failed"
                   + (f"; saved in {execution['run_folder']}" if execution["run_folder"] else "") + "\n")
@@ -69,24 +68,28 @@ def _print_solve(result, out, data=None):
         out.write("note: more equations than unknowns; random combinations were tracked and every "
                   f"solution was kept only if it satisfies all equations ({len(result.discarded)} discarded)\n")
     real = sum(1 for s in result.solutions if s.real)
-    out.write(f"\n{len(result.solutions)} isolated solution(s), {real} real\n")
+    out.write(f"\n{_counted(len(result.solutions), 'isolated solution')}, {real} real\n")
     names = system.variables
+    text = _PointFormat()
     for k, s in enumerate(result.solutions, 1):
         out.write(f"  {k:4d}  multiplicity {s.multiplicity}  {'real' if s.real else 'complex'}  "
-                  f"cond {s.condition:.2g}  {_format_point(names, s.point)}\n")
+                  f"cond {s.condition:.2g}  {text(names, s.point, _root_accuracy(s.digits, s.multiplicity))}\n")
     if result.at_infinity:
         homogeneous = names if system.projective else ["(w)"] + list(names)
-        out.write(f"\n{len(result.at_infinity)} point(s) at infinity (homogeneous coordinates "
+        out.write(f"\n{_counted(len(result.at_infinity), 'point')} at infinity (homogeneous coordinates "
                   f"{', '.join(homogeneous)}):\n")
         for s in result.at_infinity:
-            out.write(f"        paths {s.multiplicity}  {_format_point(homogeneous, s.point)}\n")
+            out.write(f"        paths {s.multiplicity}  "
+                      f"{text(homogeneous, s.point, _root_accuracy(s.digits, s.multiplicity))}\n")
     if result.not_isolated:
-        out.write(f"\n{len(result.not_isolated)} endpoint group(s) lie on positive-dimensional solution "
+        out.write(f"\n{_counted(len(result.not_isolated), 'endpoint group')} "
+                  f"{'lies' if len(result.not_isolated) == 1 else 'lie'} on positive-dimensional solution "
                   "sets (not counted as solutions):\n")
         for s in result.not_isolated:
-            out.write(f"        paths {s.multiplicity}  {_format_point(names, s.point)}\n")
+            out.write(f"        paths {s.multiplicity}  {text(names, s.point, _WITNESS_ACCURACY)}\n")
     _print_warnings(data, out)
     _print_certification(data, out)
+    out.write(("\n" + text.footnote()) if text.used else "")
     out.write(f"\n{CAUTION}\n")
 
 
@@ -120,7 +123,7 @@ def run(args, out):
     check_plot_request(args, system)
     execution = Execution(workers=args.workers, scheduler=args.scheduler, local_dask=args.local_dask,
                           run_folder=args.resume or args.run_folder, resume=bool(args.resume))
-    result = solve_system(system, options, seed=seed, progress=_Progress(args.json), execution=execution)
+    result = solve_system(system, options, seed=seed, progress=_progress(args), execution=execution)
     data = with_angles(_with_warnings(_certified(_with_notes(solve_report_to_dict(result, options), args), args)),
                        args.system_file)
     if args.json:

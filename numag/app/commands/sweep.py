@@ -13,7 +13,7 @@ from ...families.records import PointKind, save_result
 from ...families.sweep import MAX_VALUES, sweep, parse_grid
 from ..picture import discriminant_svg, sweep_svg
 from ..report import CAUTION, dumps
-from .common import (EXIT_OK, EXIT_UNDECIDED, _Progress, _add_executor_options, _add_work_options, _format_point,
+from .common import (EXIT_OK, EXIT_UNDECIDED, _add_executor_options, _add_work_options, _format_point, _progress,
                      _seed)
 
 
@@ -122,7 +122,7 @@ def run(args, out):
     values = parse_grid(args.grid, family.parameters) if args.grid is not None else read_values(args.values,
                                                                                               family.parameters)
     execution = Execution(workers=args.workers, scheduler=args.scheduler, local_dask=args.local_dask)
-    result = sweep(family, values, seed=args.seed, progress=_Progress(args.json), execution=execution)
+    result = sweep(family, values, seed=args.seed, progress=_progress(args), execution=execution)
     if args.csv:
         write_file(args.csv, _csv_text(result).encode("utf-8"))
     if args.output:

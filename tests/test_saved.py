@@ -1,0 +1,121 @@
+"""numag.save / numag.load: a JSON round trip for every result type.
+
+Each result is computed on a problem whose answer is known, saved, loaded and saved again: the
+second file must equal the first, and the loaded result must still hold the known answer.
+"""
+
+import json
+
+import numpy as np
+import pytest
+
+import numag
+from numag.app.saved import from_dict, to_dict
+from numag.errors import InputError
+
+NODAL = numag.parse_system(["y^2 - x^2*(x + 1)"], ["x", "y"])
+
+
+def round_trip(result, tmp_path, options=None):
+    first, second = tmp_path / "first.json", tmp_path / "second.json"
+    numag.save(result, first, options)
+    loaded = numag.load(first)
+    numag.save(loaded, second, options)
+    assert json.loads(first.read_text()) == json.loads(second.read_text())
+    assert type(loaded) is type(result)
+    return loaded
+
+
+def test_check_report(tmp_path):
+    # y^2 = x^2 (x + 1): singular at its node (0, 0), smooth at (3, 6) (common practice, no source)
+    report = numag.check_points(NODAL, [[0, 0], [3, 6], [0.5, 0.5]], seed=2)
+    loaded = round_trip(report, tmp_path)
+    assert [v.verdict for v in loaded.points] == ["singular", "smooth", "off"]
+    assert loaded.seed == 2 and np.array_equal(loaded.points[1].point, report.points[1].point)
+    assert json.loads((tmp_path / "first.json").read_text())["counts"]["non_reduced"] == 0
+
+
+def test_solve_result(tmp_path):
+    # x^2 + y^2 = 1, x = y: the two points +-(1/sqrt 2, 1/sqrt 2) (common practice, no source)
+    system = numag.parse_system(["x^2 + y^2 - 1", "x - y"], ["x", "y"])
+    options = numag.SolveOptions()
+    result = numag.solve_system(system, options, seed=3)
+    loaded = round_trip(result, tmp_path, options)
+    points = sorted(s.point[0].real for s in loaded.solutions)
+    assert points == pytest.approx([-0.5 ** 0.5, 0.5 ** 0.5], abs=1e-12)
+    back, recorded = numag.load(tmp_path / "first.json", with_options=True)
+    assert recorded.refine_digits == options.refine_digits and back.seed == 3
+
+
+def test_decomposition(tmp_path):
+    # V(xy, xz, yz, xyz): the three coordinate axes, lines of degree 1 (common practice, no source)
+    system = numag.parse_system(["x*y", "x*z", "y*z", "x*y*z"], ["x", "y", "z"])
+    result = numag.decompose(system, seed=5)
+    loaded = round_trip(result, tmp_path)
+    assert sorted((c.dimension, c.degree) for c in loaded.components) == [(1, 1)] * 3
+    notes = json.loads((tmp_path / "first.json").read_text())["notes"]
+    assert any("defaults" in note for note in notes)  # saved without its options: said so
+
+
+def test_singular_locus(tmp_path):
+    # The node of y^2 = x^2 (x + 1) is the origin (common practice, no source)
+    locus = numag.singular_locus(NODAL, seed=1)
+    loaded = round_trip(locus, tmp_path, numag.SingularOptions())
+    points = [c.points[0] for c in loaded.components if c.kind == "singular" and not c.at_infinity]
+    assert len(points) == 1 and np.abs(points[0]).max() < 1e-10
+
+
+def test_certificate(tmp_path):
+    # The cusp (0, 0) of y^2 = x^3 is singular; certified exactly (common practice, no source)
+    cusp = numag.parse_system(["y^2 - x^3"], ["x", "y"])
+    certificate = numag.certify_singular_point(cusp, [1e-9, 0.0], options=numag.CertifyOptions(digits=20))
+    loaded = round_trip(certificate, tmp_path)
+    assert loaded.status == "certified" and loaded.exact_coordinates == ["0", "0"]
+
+
+def test_comparison(tmp_path):
+    # numag beside sympy's exact answer (a general-purpose reference library): they agree on the nodal cubic
+    pytest.importorskip("sympy")
+    from numag.app.compare import compare_system
+    comparison = compare_system(NODAL, seconds=120, seed=1)
+    loaded = round_trip(comparison, tmp_path)
+    assert loaded.verdict == comparison.verdict == "agree"
+    assert [row.agree for row in loaded.rows] == [row.agree for row in comparison.rows]
+
+
+def test_what_cannot_be_saved_or_loaded_is_one_clear_error(tmp_path):
+    with pytest.raises(InputError, match="cannot save a list"):
+        to_dict([1, 2])
+    with pytest.raises(InputError, match="not a saved numag result"):
+        from_dict({"command": "plot"})
+    damaged = tmp_path / "damaged.json"
+    damaged.write_text(json.dumps({"numag_version": "0", "command": "decompose",
+                                   "system": {"variables": ["x"], "equations": ["x"]}}))
+    with pytest.raises(InputError, match="damaged.json: the report of 'numag decompose' is damaged"):
+        numag.load(damaged)
+
+
+def test_every_result_shows_itself_in_a_line_or_two_and_as_an_html_table(tmp_path):
+    # Reprs stay short whatever the size of the result (common practice, no source)
+    report = numag.check_points(NODAL, [[0, 0], [3, 6], [0.5, 0.5]], seed=2)
+    locus = numag.singular_locus(NODAL, seed=1)
+    results = [report, report.points[0], locus, locus.components[0], numag.decompose(NODAL, seed=1),
+               numag.solve_system(numag.parse_system(["x^2 + y^2 - 1", "x - y"], ["x", "y"]), seed=3),
+               numag.certify_singular_point(numag.parse_system(["y^2 - x^3"], ["x", "y"]), [1e-9, 0.0])]
+    results += [results[4].components[0], results[5].solutions[0]]
+    for result in results:
+        text = repr(result)
+        assert text.count("\n") <= 1 and len(text) < 240 and text.startswith(type(result).__name__ + "(")
+    assert repr(report) == "CheckReport(system: smooth 1, singular 1, off 1; seed 2)"
+    for result in (report, locus, results[4], results[5], results[6]):
+        table = result._repr_html_()
+        assert table.startswith("<table>") and table.count("<tr>") >= 2 and "<script" not in table
+    assert report._repr_html_().count("<tr>") == 1 + 3  # a header and one row per point
+
+
+def test_old_reports_keys_are_read_in_todays_style(tmp_path):
+    # reports written before the keys were unified said "non-reduced" (common practice, no source)
+    from numag.app.report import read_report
+    old = tmp_path / "old.json"
+    old.write_text(json.dumps({"numag_version": "0", "command": "check", "counts": {"smooth": 1, "non-reduced": 2}}))
+    assert read_report(old)["counts"] == {"smooth": 1, "non_reduced": 2}
