@@ -7,6 +7,7 @@ from ...witness.decompose import decompose
 from ...singular.smoothness import CheckOptions, check_points
 from ..report import CAUTION, check_report_to_dict, dumps
 from .certify import _certified, _doubtful, _print_certification
+from . import SUMMARIES
 from .common import (EXIT_OK, EXIT_UNDECIDED, _Messages, _add_certify_switch, _add_work_options, _format_point,
                      _guard_paths, _load, _positive_number, _seed, _with_notes, _write_notes)
 
@@ -14,7 +15,7 @@ from .common import (EXIT_OK, EXIT_UNDECIDED, _Messages, _add_certify_switch, _a
 def add_parser(commands):
     """Add ``numag check`` to the sub-parsers ``commands`` of the command line."""
     check = commands.add_parser(
-        "check", help="smooth or singular at given points (Jacobian criterion, with evidence)",
+        "check", help=SUMMARIES["check"],
         description="Decide for each point whether the variety is smooth there: rank of the Jacobian "
                     "against the local codimension, with small singular values tested at rising precision.")
     check.add_argument("system_file", metavar="FILE", help="system file (TOML)")

@@ -8,6 +8,7 @@ from ...tracking.tracker import FAILURE_LABELS
 from ...witness.cascade import WitnessOptions
 from ...witness.decompose import DecomposeOptions, decompose
 from ..report import CAUTION, decomposition_to_dict, dumps
+from . import SUMMARIES
 from .common import (EXIT_OK, EXIT_UNDECIDED, _Messages, _add_executor_options, _add_work_options, _format_point,
                      _guard_paths, _load, _print_warnings, _seed, _stage_executor, _with_notes, _with_warnings,
                      _write_notes)
@@ -16,7 +17,7 @@ from .common import (EXIT_OK, EXIT_UNDECIDED, _Messages, _add_executor_options, 
 def add_parser(commands):
     """Add ``numag decompose`` to the sub-parsers ``commands`` of the command line."""
     parts = commands.add_parser(
-        "decompose", help="irreducible components of X: dimension, degree, witness points",
+        "decompose", help=SUMMARIES["decompose"],
         description="Witness sets of every dimension (regenerative cascade), split into irreducible "
                     "components by monodromy loops confirmed by the trace test.")
     parts.add_argument("system_file", metavar="FILE", help="system file (TOML, affine)")

@@ -10,6 +10,7 @@ from ...witness.decompose import DecomposeOptions
 from ...singular.locus import FORMULATIONS, SingularOptions, singular_locus
 from ..report import CAUTION, dumps, singular_to_dict
 from .certify import _certified, _doubtful, _print_certification
+from . import SUMMARIES
 from .common import (EXIT_OK, EXIT_UNDECIDED, _Messages, _add_certify_switch, _add_executor_options,
                      _add_work_options, _format_point, _guard_paths, _load, _print_warnings, _seed,
                      _stage_executor, _with_notes, _with_warnings, _write_notes)
@@ -18,7 +19,7 @@ from .common import (EXIT_OK, EXIT_UNDECIDED, _Messages, _add_certify_switch, _a
 def add_parser(commands):
     """Add ``numag singular`` to the sub-parsers ``commands`` of the command line."""
     locus = commands.add_parser(
-        "singular", help="where X is singular: every singular point and component (the main job)",
+        "singular", help=SUMMARIES["singular"],
         description="Decompose X, then find every point where the Jacobian's rank drops below the codimension "
                     "of the component it lies on, or where components meet: singular points and singular "
                     "components with dimension, degree and witness points.")

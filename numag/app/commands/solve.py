@@ -7,6 +7,7 @@ from ...numeric.seeds import resolved_seed
 from ...tracking.solve import Execution, SolveOptions, solve_system
 from ..report import CAUTION, dumps, solve_report_to_dict
 from .certify import _certified, _doubtful, _print_certification
+from . import SUMMARIES
 from .common import (EXIT_OK, EXIT_UNDECIDED, _Progress, _add_certify_switch, _add_executor_options,
                      _add_work_options, _checked_seed, _count, _format_point, _load, _print_warnings, _seed,
                      _with_notes, _with_warnings, _write_notes)
@@ -15,7 +16,7 @@ from .common import (EXIT_OK, EXIT_UNDECIDED, _Progress, _add_certify_switch, _a
 def add_parser(commands):
     """Add ``numag solve`` to the sub-parsers ``commands`` of the command line."""
     solve = commands.add_parser(
-        "solve", help="isolated solutions of a square system (homotopy continuation)",
+        "solve", help=SUMMARIES["solve"],
         description="Track every path of a total-degree homotopy and report the distinct isolated "
                     "solutions with multiplicities, the points at infinity, and every path's fate.")
     solve.add_argument("system_file", metavar="FILE", nargs="?",
