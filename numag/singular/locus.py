@@ -491,14 +491,23 @@ def _affine(system, options, rng, paths, discarded, progress, notes_out=None):
             for c in candidates.components:  # cross-check the slicing dimension by the tangent space
                 if c.dimension > 0 and _tangent_dimension(augmented, c, rng) != c.dimension:
                     discarded["tangent_dimension_mismatch"] = discarded.get("tangent_dimension_mismatch", 0) + 1
+        fresh = []
         for dimension, points, multiplicity, oracle in projected:
+            seen = _already(found, oracles, _Candidate(dimension, len(points), points), points[0])
+            if seen is not None:
+                discarded[seen] = discarded.get(seen, 0) + 1
+            else:
+                fresh.append((dimension, points, multiplicity, oracle))
+        # every new candidate of this codimension judged in one batched check (decision 0038)
+        verdicts = _judge_all(system, [points[0] for _, points, _, _ in fresh], check_options,
+                              int(rng.integers(2**31)), variety)
+        for (dimension, points, multiplicity, oracle), verdict in zip(fresh, verdicts):
             candidate = _Candidate(dimension, len(points), points)
             point = points[0]
-            seen = _already(found, oracles, candidate, point)
+            seen = _already(found, oracles, candidate, point)  # two candidates of this codimension, one piece
             if seen is not None:
                 discarded[seen] = discarded.get(seen, 0) + 1
                 continue
-            verdict = _judge(system, point, check_options, int(rng.integers(2**31)), variety)
             if verdict is None:  # Newton cannot settle the point (a singular curve can make it drift)
                 discarded["not_settled_on_X"] = discarded.get("not_settled_on_X", 0) + 1
                 continue
@@ -527,6 +536,28 @@ def _affine(system, options, rng, paths, discarded, progress, notes_out=None):
                                            notes + list(verdict.notes)))
             oracles.append(oracle)
     return found, variety
+
+
+def _judge_all(system, points, options, seed, variety):
+    """:func:`_judge` for many candidates: one batched check, one at a time only if a point cannot be settled.
+
+    The check decides the clear cases of all points together in double precision and escalates only the
+    doubtful ones; one call per candidate repeated the set-up and the escalation for each.
+    """
+    if not points:
+        return []
+    try:
+        verdicts = check_points(system, points, options, seed=seed, decomposition=variety).points
+    except PointError:  # one candidate drifts: the looser tolerance of _judge, point by point
+        return [_judge(system, point, options, seed + k, variety) for k, point in enumerate(points)]
+    judged = []
+    for k, (point, verdict) in enumerate(zip(points, verdicts)):
+        drop = verdict.nearest_rank_drop
+        if (verdict.verdict == "smooth" and drop is not None
+                and verdict.nearest_rank_drop_distance <= _CANDIDATE_TOLERANCE * (1 + np.linalg.norm(point))):
+            verdict = _judge(system, point, options, seed + k, variety)  # the rule of _judge for this one
+        judged.append(verdict)
+    return judged
 
 
 def _judge(system, point, options, seed, variety):
