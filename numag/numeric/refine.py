@@ -460,7 +460,10 @@ def rank_drop_points(system, points, rank, tolerance=None, max_iterations=25):
     basis = np.conj(np.swapaxes(right, 1, 2))  # columns: right singular vectors, the kernel last
     kernel_start, complement = basis[:, :, n - k:], basis[:, :, :n - k]
     unknowns = n + (n - k) * k
-    rows = m + m * k
+    # A projective system's rank drops on whole lines, and at 0 for any degree above 1: one more
+    # row keeps x on the affine patch through its start point (conj(p0).x = |p0|^2).
+    patch = np.conj(points) / np.sum(np.abs(points) ** 2, axis=1, keepdims=True) if system.projective else None
+    rows = m + m * k + (1 if system.projective else 0)
     if tolerance is None:
         tolerance = 1000.0 * max(rows, unknowns) * np.finfo(float).eps
 
@@ -469,19 +472,24 @@ def rank_drop_points(system, points, rank, tolerance=None, max_iterations=25):
         values, jacobians = values_evaluator.evaluate(x)
         value_weight, row_weight = value_weights[chosen], row_weights[chosen]
         kernel = kernel_start[chosen] + complement[chosen] @ w
-        residual = np.concatenate([values * value_weight,
-                                   ((jacobians @ kernel) * row_weight[:, :, None]).reshape(len(x), m * k)], axis=1)
+        parts = [values * value_weight, ((jacobians @ kernel) * row_weight[:, :, None]).reshape(len(x), m * k)]
+        if patch is not None:
+            parts.append(np.sum(patch[chosen] * x, axis=1, keepdims=True) - 1.0)
+        residual = np.concatenate(parts, axis=1)
         _, second = second_evaluator.evaluate(x)  # [p, i*n + j, l] = d2 f_i / dx_j dx_l
         second = second.reshape(len(x), m, n, n)
         derivative = np.zeros((len(x), rows, unknowns), dtype=complex)
         derivative[:, :m, :n] = jacobians * value_weight[:, :, None]
         weighted = row_weight[:, :, None, None]
-        derivative[:, m:, :n] = (np.einsum("pijl,pjq->piql", second, kernel) * weighted).reshape(len(x), m * k, n)
+        derivative[:, m:m + m * k, :n] = (np.einsum("pijl,pjq->piql", second, kernel) * weighted).reshape(
+            len(x), m * k, n)
+        if patch is not None:
+            derivative[:, -1, :n] = patch[chosen]
         if n - k:
             # d(J Nc W)[i, q] / dW[a, b] = (J Nc)[i, a] when q == b: one block per kernel column
             reduced = (jacobians @ complement[chosen]) * row_weight[:, :, None]  # (p, m, n - k)
             block = np.einsum("pia,qb->piqab", reduced, np.eye(k)).reshape(len(x), m * k, (n - k) * k)
-            derivative[:, m:, n:] = block
+            derivative[:, m:m + m * k, n:] = block
         return residual, derivative
 
     x, w = points.copy(), np.zeros((count, n - k, k), dtype=complex)

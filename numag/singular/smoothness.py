@@ -79,7 +79,7 @@ _DOUBLE_CLEAR_VALUE = 1e-6
 #: ... and the rank-drop point must be within this fraction of the point tolerance (singular) or beyond
 #: this multiple of it (smooth, with a c-th singular value above _DOUBLE_CLEAR_SMOOTH). Anything else
 #: is in doubt and goes to mpmath at rising precision.
-_DOUBLE_NEAR, _DOUBLE_FAR, _DOUBLE_CLEAR_SMOOTH = 0.1, 100.0, 1e-8
+_DOUBLE_NEAR, _DOUBLE_FAR, _DOUBLE_CLEAR_SMOOTH = 0.5, 100.0, 1e-8
 
 
 @dataclass(frozen=True)
@@ -340,7 +340,8 @@ class _Checker:
                     self.options.suspect_threshold:
                 suspects.setdefault(codim, []).append(position)
         for codim, positions in suspects.items():
-            drops = rank_drop_points(self.system, refined[positions], codim - 1)
+            drops = rank_drop_points(self.system, refined[positions], codim - 1,
+                                     tolerance=0.1 * _DOUBLE_SETTLED_RESIDUAL)  # polish while it improves
             at_drop, scales_at_drop = self.scaled_values_double(drops.points)
             for row, position in enumerate(positions):
                 regular = (drops.residuals[row] <= _DOUBLE_SETTLED_RESIDUAL and at_drop[row][codim - 1] <= double_zero
@@ -361,7 +362,8 @@ class _Checker:
 
     def rank_drops_near_in_double(self, informative, codim, radius):
         """True or False when double precision decides :meth:`rank_drops_near` clearly, else None."""
-        drops = rank_drop_points(self.system, np.array(informative), codim - 1)
+        drops = rank_drop_points(self.system, np.array(informative), codim - 1,
+                                 tolerance=0.1 * _DOUBLE_SETTLED_RESIDUAL)
         settled = drops.residuals <= _DOUBLE_SETTLED_RESIDUAL
         distances = np.array([self.distance(found, sample) for found, sample in zip(drops.points, informative)])
         if np.any(settled & (distances > 0.1 * radius)):
