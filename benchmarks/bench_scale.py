@@ -12,6 +12,8 @@ since times on a shared machine are upper bounds). The goals are the issue's:
   against the plain batched tracker of ``bench_yardstick.py`` (RK4 + Newton, affine, no endgame, one BLAS
   thread; about 50 lines of numpy inside a 150-line script) on dense real quadrics: >= 3 times as fast on
   256 paths, >= 8 times on 1,024;
+* judge: the six-bar's 4 singular points judged in one batch (double first) beside mpmath for each (the
+  way before issue 19), CPU seconds and verdicts;
 * singular: the singular locus of a six-bar linkage in 10 unknowns (< 5 s), the Chebyshev curve
   T9(x) = T11(y) (40 nodes, < 2 s) and the union of three quadrics (< 10 s);
 * memory: peak resident memory of a ``numag solve`` process on 2^17 = 131,072 paths of 17 dense quadrics
@@ -185,6 +187,40 @@ def section_singular(quick):
              "; ".join(f"{v} x {k}" for k, v in sorted(pieces.items())) + f" ({expected})")
 
 
+def _six_bar_folds():
+    """The six-bar's 4 folded configurations (one loop folded, the other in either assembly position)."""
+    folds = []
+    for sign in (1, -1):
+        d = np.array([2.0, -1.0]) + sign * 2 / np.sqrt(5) * np.array([1.0, -2.0])  # |D-(4,0)| = |D-(0,-2)| = 3
+        folds.append(np.concatenate([[-2, 0], [1, 0], [0, -2], d, (np.array([1.0, 0.0]) + d) / 2]))
+        b = np.array([2.0, 1.0]) + sign * 2 / np.sqrt(5) * np.array([1.0, 2.0])  # |B-(4,0)| = |B-(0,2)| = 3
+        folds.append(np.concatenate([[0, 2], b, [-2, 0], [1, 0], (b + np.array([1.0, 0.0])) / 2]))
+    return folds
+
+
+def section_judge(quick):
+    from numag.singular import smoothness
+    print("\n== judging candidates: the six-bar's 4 singular points, 1e-9 off (as candidates are), seed 0")
+    _row("judged", "cpu s", "mpmath runs", "", "verdicts")
+    rng = np.random.default_rng(0)
+    candidates = [p + 1e-9 * rng.standard_normal(len(p)) for p in _six_bar_folds()]
+    checker = smoothness._Checker
+    escalate, settle, near = checker.escalate, checker.settle_in_double, checker.rank_drops_near_in_double
+    runs = []
+    smoothness._Checker.escalate = lambda self, *args: runs.append(1) or escalate(self, *args)
+    try:
+        for label, settling in (("batched, double first", settle), ("mpmath for each (before)", None)):
+            checker.settle_in_double = settling or (lambda self, *args: None)
+            checker.rank_drops_near_in_double = near if settling else (lambda self, *args: None)
+            runs.clear()
+            start = time.process_time()
+            report = smoothness.check_points(six_bar(), candidates, seed=0)
+            _row(label, f"{time.process_time() - start:.2f}", len(runs), "",
+                 ", ".join(v.verdict for v in report.points))
+    finally:
+        checker.escalate, checker.settle_in_double, checker.rank_drops_near_in_double = escalate, settle, near
+
+
 def section_memory(quick, exponent):
     exponent = 12 if quick else exponent
     print(f"\n== memory: `numag solve` on 2^{exponent} = {2 ** exponent:,} paths of {exponent} dense quadrics")
@@ -201,7 +237,7 @@ def section_memory(quick, exponent):
 def main():
     parser = argparse.ArgumentParser(description=__doc__, formatter_class=argparse.RawDescriptionHelpFormatter)
     parser.add_argument("--quick", action="store_true", help="smaller sizes (about a minute)")
-    parser.add_argument("--sections", default="parse,start,solve,singular,memory")
+    parser.add_argument("--sections", default="parse,start,solve,judge,singular,memory")
     parser.add_argument("--memory-exponent", type=int, default=17, help="2^N paths for the memory row")
     args = parser.parse_args()
     print(f"load average {os.getloadavg()[0]:.1f} on {os.cpu_count()} cores; numag from {ROOT}")
@@ -212,6 +248,8 @@ def main():
         section_start(args.quick)
     if "solve" in sections:
         section_solve(args.quick)
+    if "judge" in sections:
+        section_judge(args.quick)
     if "singular" in sections:
         section_singular(args.quick)
     if "memory" in sections:  # last: RUSAGE_CHILDREN keeps the largest child so far
