@@ -35,24 +35,32 @@ from .run.allocation import retain_freed_memory  # noqa: E402
 retain_freed_memory()
 
 from .errors import NumagError  # noqa: E402
-from .system.parse import parse_system, parse_polynomial  # noqa: E402
-from .system.polynomial import Polynomial, PolynomialSystem  # noqa: E402
-from .numeric.evaluate import BatchEvaluator  # noqa: E402
-from .singular.smoothness import CheckOptions, check_points  # noqa: E402
-from .system.files import load_system  # noqa: E402
-from .tracking.solve import SolveOptions, continue_solutions, solve_system  # noqa: E402
-from .witness.decompose import DecomposeOptions, components_through, decompose  # noqa: E402
-from .singular.locus import SingularOptions, singular_locus  # noqa: E402
-from .certify.records import CertifyOptions  # noqa: E402
-from .system.files import load_family  # noqa: E402
-from .families.discriminant import DiscriminantOptions, discriminant  # noqa: E402
-from .families.sweep import SweepOptions, sweep  # noqa: E402
-from .families.records import load_result, save_result  # noqa: E402
-from .certify.certificates import (certify_rank, certify_regular_zero, certify_singular_point,  # noqa: E402
-                                   certify_smooth_point, overlapping_pairs)
-from .anatomy.survey import component_anatomy, locus_anatomy, point_anatomy  # noqa: E402
-from .app.saved import load, save  # noqa: E402
-System = PolynomialSystem  # the short name of the API: System.from_sympy(...), system.to_sympy()
+
+# The public names and the module that defines each ("module:name" where the name differs). They are
+# imported on first use (module ``__getattr__``, PEP 562): the stages pull in numpy, scipy, networkx and
+# mpmath, and a command line that only prints its help, or a program that only reads a system, should
+# not wait for them.
+_PUBLIC = {
+    "parse_system": "system.parse", "parse_polynomial": "system.parse",
+    "Polynomial": "system.polynomial", "PolynomialSystem": "system.polynomial",
+    "System": "system.polynomial:PolynomialSystem",  # the short name: System.from_sympy(...), system.to_sympy()
+    "BatchEvaluator": "numeric.evaluate",
+    "CheckOptions": "singular.smoothness", "check_points": "singular.smoothness",
+    "load_system": "system.files", "load_family": "system.files",
+    "SolveOptions": "tracking.solve", "continue_solutions": "tracking.solve", "solve_system": "tracking.solve",
+    "DecomposeOptions": "witness.decompose", "components_through": "witness.decompose",
+    "decompose": "witness.decompose",
+    "SingularOptions": "singular.locus", "singular_locus": "singular.locus",
+    "DiscriminantOptions": "families.discriminant", "discriminant": "families.discriminant",
+    "SweepOptions": "families.sweep", "sweep": "families.sweep",
+    "load_result": "families.records", "save_result": "families.records",
+    "CertifyOptions": "certify.records",
+    "certify_rank": "certify.certificates", "certify_regular_zero": "certify.certificates",
+    "certify_singular_point": "certify.certificates", "certify_smooth_point": "certify.certificates",
+    "overlapping_pairs": "certify.certificates",
+    "point_anatomy": "anatomy.survey", "component_anatomy": "anatomy.survey", "locus_anatomy": "anatomy.survey",
+    "save": "app.saved", "load": "app.saved",
+}
 
 __all__ = ["NumagError", "parse_system", "parse_polynomial", "Polynomial", "PolynomialSystem",
            "BatchEvaluator", "CheckOptions", "check_points", "load_system", "SolveOptions", "solve_system",
@@ -62,3 +70,19 @@ __all__ = ["NumagError", "parse_system", "parse_polynomial", "Polynomial", "Poly
            "discriminant", "SweepOptions", "sweep", "load_result", "save_result", "point_anatomy",
            "component_anatomy", "locus_anatomy", "save", "load", "System",
            "__version__"]
+
+
+def __getattr__(name):
+    """Import a public name's module on first use and keep the name here (later look-ups are direct)."""
+    where = _PUBLIC.get(name)
+    if where is None:
+        raise AttributeError(f"module 'numag' has no attribute {name!r}")
+    import importlib
+    module_name, _, attribute = where.partition(":")
+    value = getattr(importlib.import_module(f".{module_name}", __name__), attribute or name)
+    globals()[name] = value
+    return value
+
+
+def __dir__():
+    return sorted(set(globals()) | set(_PUBLIC))

@@ -150,3 +150,38 @@ def test_nesting_tokens_and_length_limits_name_the_limit():
         parse_polynomial("x+" * MAX_TOKENS + "x", ["x"])
     with pytest.raises(ParseError, match="longer than"):
         parse_polynomial(" " * (MAX_EQUATION_LENGTH + 1), ["x"])
+
+
+def _random_expression(rng, names, symbols):
+    """Our text and the same expression built directly in sympy: a long flat sum with repeated and
+    cancelling monomials, plus products of sums and powers of sums (what the reader must expand)."""
+    import sympy
+    texts, parts = [], []
+    for _ in range(1500):  # flat terms; exponents 0..3 in three variables, so monomials repeat often
+        numerator, denominator = int(rng.integers(-50, 51)), int(rng.integers(1, 7))
+        powers = rng.integers(0, 4, size=len(names))
+        factors = [f"{name}^{k}" for name, k in zip(names, powers) if k]
+        texts.append("*".join([f"({numerator}/{denominator})"] + factors))
+        parts.append(sympy.Rational(numerator, denominator)
+                     * sympy.Mul(*[symbol ** int(k) for symbol, k in zip(symbols, powers)]))
+    for _ in range(6):  # (a + b*x + c*y)^k * (d - e*z)
+        a, b, c, d, e = (int(v) for v in rng.integers(-9, 10, size=5))
+        k = int(rng.integers(1, 5))
+        texts.append(f"({a} + {b}*{names[0]} - {-c}*{names[1]})^{k}*({d} - {e}*{names[2]})")
+        parts.append((a + b * symbols[0] + c * symbols[1]) ** k * (d - e * symbols[2]))
+    return " + ".join(texts), sympy.Add(*parts)
+
+
+@pytest.mark.parametrize("seed", [0, 1, 2])
+def test_a_long_sum_reads_as_sympy_expands_it(seed):
+    # Reference: sympy's expand and Poly.as_dict (a general-purpose computer algebra library; common
+    # practice, no source). Counts and every coefficient must agree exactly.
+    sympy = pytest.importorskip("sympy")
+    names = ["x", "y", "z"]
+    symbols = sympy.symbols(names)
+    text, expression = _random_expression(np.random.default_rng(seed), names, symbols)
+    ours = parse_polynomial(text, names)
+    reference = sympy.Poly(sympy.expand(expression), *symbols).as_dict()
+    assert ours.n_terms == len(reference)
+    for exponent, value in reference.items():
+        assert coefficient(ours, list(exponent)) == Fraction(int(value.p), int(value.q))

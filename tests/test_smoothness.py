@@ -201,3 +201,49 @@ def test_same_seed_same_report():
     a = check_points(system, [[0, 1]], seed=5)
     b = check_points(system, [[0, 1]], seed=5)
     assert a.points[0].verdict == b.points[0].verdict and a.seed == b.seed == 5
+
+
+def _six_bar_singular_points():
+    """The four folded configurations of a crank carrying two change-point four-bars at right angles
+    (ground pivots (0, 0) and (4, 0), crank 2, couplers 3, rockers 3; a Grashof change point folds where
+    crank + ground = coupler + rocker; common practice, no source): A or C at (-2, 0), each with the other
+    loop's two assembly positions (intersections of two circles of radius 3, worked by hand)."""
+    names = ["ax", "ay", "bx", "by", "cx", "cy", "dx", "dy", "ex", "ey"]
+    equations = ["ax^2 + ay^2 - 4", "(bx - 4)^2 + by^2 - 9", "(ax - bx)^2 + (ay - by)^2 - 9", "cx + ay", "cy - ax",
+                 "(dx - 4)^2 + dy^2 - 9", "(cx - dx)^2 + (cy - dy)^2 - 9", "2*ex - bx - dx", "2*ey - by - dy"]
+    points = []
+    for sign in (1, -1):
+        d = np.array([2.0, -1.0]) + sign * 2 / np.sqrt(5) * np.array([1.0, -2.0])  # |D-(4,0)| = |D-(0,-2)| = 3
+        points.append(np.concatenate([[-2, 0], [1, 0], [0, -2], d, (np.array([1.0, 0.0]) + d) / 2]))
+        b = np.array([2.0, 1.0]) + sign * 2 / np.sqrt(5) * np.array([1.0, 2.0])  # |B-(4,0)| = |B-(0,2)| = 3
+        points.append(np.concatenate([[0, 2], b, [-2, 0], [1, 0], (b + np.array([1.0, 0.0])) / 2]))
+    return parse_system(equations, names), points
+
+
+@pytest.mark.parametrize("seed", [0, 1, 2])
+def test_clear_rank_drops_are_settled_in_double_with_the_same_verdicts(seed, monkeypatch):
+    # Regular rank drops (the rank-drop system has a regular zero there) are decided by the batched
+    # double-precision test without mpmath; on small systems the verdicts equal those of the mpmath
+    # escalation alone.
+    from numag.singular import smoothness
+    system, singular = _six_bar_singular_points()
+    rng = np.random.default_rng(seed)
+    nearby = [p + 1e-9 * rng.standard_normal(len(p)) for p in singular]  # candidates are approximations
+    escalations = []
+    original = smoothness._Checker.escalate
+    monkeypatch.setattr(smoothness._Checker, "escalate",
+                        lambda self, *args: escalations.append(1) or original(self, *args))
+    assert [v.verdict for v in check_points(system, nearby, seed=seed).points] == ["singular"] * 4
+    assert not escalations
+    # a node at 0 (common practice, no source); a Grashof change-point four-bar folded at A = (-2, 0),
+    # B = (1, 0) (tests/corpus.py, linkages: common practice, no source), and smooth points of both
+    node = parse_system(["y^2 - x^2*(x + 1)"], ["x", "y"])
+    four_bar = parse_system(["ax^2 + ay^2 - 4", "(bx - 4)^2 + by^2 - 9", "(ax - bx)^2 + (ay - by)^2 - 9"],
+                            ["ax", "ay", "bx", "by"])
+    crank_up = [0, 2, 2 + 2 / np.sqrt(5) * 1, 1 + 2 / np.sqrt(5) * 2]  # |B-(4,0)| = |B-A| = 3
+    cases = [(node, [[1e-10, 0], [3, 6]]), (four_bar, [[-2, 1e-10, 1, 0], crank_up])]
+    fast = [[v.verdict for v in check_points(s, points, seed=seed).points] for s, points in cases]
+    assert fast == [["singular", "smooth"]] * 2 and not escalations
+    monkeypatch.setattr(smoothness._Checker, "settle_in_double", lambda self, *args: None)
+    assert [[v.verdict for v in check_points(s, points, seed=seed).points] for s, points in cases] == fast
+    assert len(escalations) == 2

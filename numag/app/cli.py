@@ -10,19 +10,15 @@ Exit codes
 """
 
 import argparse
+import importlib
 import signal
 import sys
 import traceback
 import warnings
 
-import numpy as np
-
 from ..errors import NumagError, one_line
 from ..version import __version__
-from ..run.executor import WorkLimits, abort_workers, work_limits
-from .commands import certify, check, compare, decompose, discriminant, plot, singular, solve, sweep
-from .commands.common import _add_at_option
-from .commands.common import EXIT_INPUT, EXIT_INTERNAL, EXIT_MISMATCH, EXIT_OK, EXIT_UNDECIDED, _reporter
+from .commands import EXIT_INPUT, EXIT_INTERNAL, EXIT_MISMATCH, EXIT_OK, EXIT_UNDECIDED, SUMMARIES
 
 __all__ = ["main", "build_parser", "EXIT_OK", "EXIT_INTERNAL", "EXIT_INPUT", "EXIT_UNDECIDED", "EXIT_MISMATCH"]
 
@@ -34,21 +30,37 @@ class _Parser(argparse.ArgumentParser):
         self.exit(EXIT_INPUT, f"numag: error: {message} (see '{self.prog} --help')\n")
 
 
-def build_parser():
-    """The argument parser of the ``numag`` command."""
+def build_parser(detailed=None):
+    """The argument parser of the ``numag`` command.
+
+    Parameters
+    ----------
+    detailed : collection of str, optional
+        The sub-commands whose options are added (their modules, and the stages behind them, are
+        imported); the others are only listed with their summaries. None: all of them.
+    """
     parser = _Parser(prog="numag", description="Where is a variety singular? Numerical algebraic "
                      "geometry by homotopy continuation.")
     parser.add_argument("--version", action="version", version=f"numag {__version__}")
     commands = parser.add_subparsers(dest="command", metavar="COMMAND", parser_class=_Parser)
     commands.required = True
 
-    for command in (check, solve, singular, decompose, certify, compare, discriminant, sweep, plot):
-        command.add_parser(commands)
-    for name, command in commands.choices.items():  # a member of a family (issue 22): one option everywhere
-        if name not in ("certify", "discriminant", "sweep"):  # a report's system is a member; these take families
-            _add_at_option(command)
+    for name, summary in SUMMARIES.items():
+        if detailed is None or name in detailed:
+            importlib.import_module(f".commands.{name}", __package__).add_parser(commands)
+        else:
+            commands.add_parser(name, help=summary)
+    if detailed is None or set(detailed) - _WITHOUT_AT:
+        from .commands.common import _add_at_option
+        for name, command in commands.choices.items():  # a member of a family (issue 22): one option everywhere
+            if name not in _WITHOUT_AT:
+                _add_at_option(command)
     _add_debug_switch(parser, commands)
     return parser
+
+
+#: Sub-commands without ``--at``: they read a report (its system is a member already) or take whole families.
+_WITHOUT_AT = {"certify", "discriminant", "sweep", "plot"}
 
 
 def _add_debug_switch(parser, commands):
@@ -59,6 +71,16 @@ def _add_debug_switch(parser, commands):
         parser.add_argument(switch, action="store_true", help=help_text)
         for command in commands.choices.values():
             command.add_argument(switch, action="store_true", default=argparse.SUPPRESS, help=help_text)
+
+
+def _requested_command(argv):
+    """The sub-command named on the command line, as a set of at most one name.
+
+    ``numag --help`` and ``numag --version`` then import no command (a second each otherwise).
+    """
+    words = sys.argv[1:] if argv is None else argv
+    first = next((word for word in words if not str(word).startswith("-")), None)
+    return {first} if first in SUMMARIES else set()
 
 
 def main(argv=None, out=None):
@@ -72,9 +94,14 @@ def main(argv=None, out=None):
     """
     out = out or sys.stdout
     try:
-        args = build_parser().parse_args(argv)
+        args = build_parser(_requested_command(argv)).parse_args(argv)
     except SystemExit as stop:  # usage errors (already printed on one line), --help, --version
         return stop.code if isinstance(stop.code, int) else EXIT_INPUT
+    import numpy as np  # here, not at the top: `numag --help` does not need numpy
+
+    from ..run.executor import WorkLimits, work_limits
+    from .commands.common import _reporter
+
     limits = WorkLimits(max_paths=getattr(args, "max_paths", WorkLimits.max_paths),
                         max_memory=int(getattr(args, "max_memory", WorkLimits.max_memory / 1024 ** 3) * 1024 ** 3))
     previous = _on_terminate()
@@ -116,6 +143,8 @@ def _on_terminate():
 
     Returns the previous handler (None when not in the main thread, where handlers cannot be set).
     """
+    from ..run.executor import abort_workers  # already imported by main: no import inside the handler
+
     def handler(signum, frame):
         abort_workers()
         raise SystemExit(128 + signum)

@@ -9,11 +9,11 @@ import math
 
 import mpmath
 import numpy as np
-import scipy.linalg
 
 from ..system.exact import ExactCoefficient
 from ..system.polynomial import PolynomialSystem
 from ..numeric.evaluate import BatchEvaluator, PrecisionEvaluator
+from ..numeric.linalg import pivot_order
 from ..numeric.refine import project_to_variety
 from ..numeric.linalg import widest_gap_rank
 from .intervals import _SINGULAR, _frobenius_upper, _iv_box, _to_iv_matrix
@@ -145,9 +145,9 @@ def _rank_lower_bound(polynomials, center, radii, r):
     _, scaled, _ = _equilibrated(polynomials, point)
     if not np.all(np.isfinite(scaled)):
         return None
-    _, _, row_pivots = scipy.linalg.qr(scaled.T, pivoting=True)
+    row_pivots = pivot_order(scaled.T)
     rows = sorted(int(k) for k in row_pivots[:r])
-    _, _, col_pivots = scipy.linalg.qr(scaled[rows], pivoting=True)
+    col_pivots = pivot_order(scaled[rows])
     cols = sorted(int(k) for k in col_pivots[:r])
     sub = mp.matrix(r, r)
     for a, i in enumerate(rows):

@@ -9,10 +9,10 @@ import math
 
 import mpmath
 import numpy as np
-import scipy.linalg
 
 from ..errors import InputError
 from ..numeric.evaluate import BatchEvaluator, PrecisionEvaluator, TermSizes
+from ..numeric.linalg import pivot_order
 from .intervals import (_SINGULAR, _bounds, _excludes_zero, _frobenius_upper, _iv_box, _iv_point, _magnitude_upper,
                         _terms_lower, _to_iv_matrix, _weyl_norm_squared)
 from .records import (_FLOOR_DIGITS_FRACTION, Enclosure, _float_up, _guarded, _parse_center, _text, alpha_zero,
@@ -278,7 +278,7 @@ def _choose_rows(equations, pinned, point):
         return [], rank
     if len(equations) < wanted:
         raise _Undecided(f"{len(equations)} equation(s) cannot pin a point in {wanted} free direction(s)")
-    _, _, pivots = scipy.linalg.qr(projected.T, pivoting=True)
+    pivots = pivot_order(projected.T)
     return sorted(int(k) for k in pivots[:wanted]), rank
 
 

@@ -23,9 +23,6 @@ Examples
 """
 
 import numpy as np
-from scipy.sparse import coo_matrix
-from scipy.sparse.csgraph import connected_components
-from scipy.spatial import cKDTree
 
 __all__ = ["cluster_labels", "groups", "normalize_projective", "projective_pivot", "line_distance"]
 
@@ -67,6 +64,9 @@ def cluster_labels(points, tolerance, projective=False):
         pairs = _close_points(points, tolerance)
     if len(pairs) == 0:  # every point alone (a regular run): each is its own group, in order
         return np.arange(count, dtype=np.int64)
+    from scipy.sparse import coo_matrix  # scipy is imported where used: `import numag` stays fast
+    from scipy.sparse.csgraph import connected_components
+
     graph = coo_matrix((np.ones(len(pairs)), (pairs[:, 0], pairs[:, 1])), shape=(count, count))
     _, components = connected_components(graph, directed=False)
     # number the groups by their first member, so labels follow the input order
@@ -85,6 +85,8 @@ def _as_real(points):
 
 def _pairs_within(real, radii):
     """Index pairs (i < j) with |p_i - p_j| <= radius_i, from each point's own ball."""
+    from scipy.spatial import cKDTree  # imported where used: `import numag` stays fast
+
     tree = cKDTree(real)
     neighbours = tree.query_ball_point(real, r=radii, return_sorted=False)
     sizes = np.fromiter((len(n) for n in neighbours), dtype=np.int64, count=len(neighbours))

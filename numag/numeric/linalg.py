@@ -38,6 +38,7 @@ __all__ = [
     "mp_right_singular_vectors",
     "mp_least_squares",
     "batched_least_squares",
+    "pivot_order",
 ]
 
 #: Digits reported for IEEE double precision (53 bits is 15.95 decimal digits).
@@ -272,3 +273,24 @@ def batched_least_squares(matrices, rhs, rcond=1e-12):
     """
     pseudo_inverse = np.linalg.pinv(matrices, rcond=rcond)
     return np.einsum("pnm,pm->pn", pseudo_inverse, rhs)
+
+
+def pivot_order(matrix):
+    """Column order of a QR factorisation with column pivoting: the most independent columns first.
+
+    Parameters
+    ----------
+    matrix : ndarray, shape (m, n)
+
+    Returns
+    -------
+    ndarray of int, shape (n,)
+
+    Examples
+    --------
+    >>> pivot_order(np.array([[0.0, 1.0, 0.0], [0.0, 0.0, 2.0]])).tolist()
+    [2, 1, 0]
+    """
+    import scipy.linalg  # imported where used: `import numag` and `numag --help` stay fast
+
+    return scipy.linalg.qr(matrix, pivoting=True, mode="r")[1]

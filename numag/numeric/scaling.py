@@ -34,8 +34,6 @@ from dataclasses import dataclass
 from fractions import Fraction
 
 import numpy as np
-from scipy.sparse import csr_matrix
-from scipy.sparse.linalg import lsqr
 
 from ..errors import InputError
 from ..system.exact import ExactCoefficient
@@ -99,6 +97,9 @@ class Scaling:
                 count += 1
         if count == 0:
             return cls.identity(system)
+        from scipy.sparse import csr_matrix  # imported where used: `import numag` stays fast
+        from scipy.sparse.linalg import lsqr
+
         matrix = csr_matrix((data, (rows, cols)), shape=(count, m + n))
         # lsqr from zero converges to the minimum-norm solution: unknowns the terms do not fix
         # (a variable in no equation; the common factor of a projective system) stay at 0.

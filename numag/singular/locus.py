@@ -527,14 +527,23 @@ def _affine(system, options, rng, paths, discarded, progress, notes_out=None):
         if progress is not None and projected:
             progress(f"codimension {codimension}: judging {counted(len(projected), 'candidate set')} by the Jacobian "
                      "criterion")
+        fresh = []
         for dimension, points, multiplicity, oracle in projected:
+            seen = _already(found, oracles, _Candidate(dimension, len(points), points), points[0])
+            if seen is not None:
+                discarded[seen] = discarded.get(seen, 0) + 1
+            else:
+                fresh.append((dimension, points, multiplicity, oracle))
+        # every new candidate of this codimension judged in one batched check (decision 0038)
+        verdicts = _judge_all(system, [points[0] for _, points, _, _ in fresh], check_options,
+                              int(rng.integers(2**31)), variety)
+        for (dimension, points, multiplicity, oracle), verdict in zip(fresh, verdicts):
             candidate = _Candidate(dimension, len(points), points)
             point = points[0]
-            seen = _already(found, oracles, candidate, point)
+            seen = _already(found, oracles, candidate, point)  # two candidates of this codimension, one piece
             if seen is not None:
                 discarded[seen] = discarded.get(seen, 0) + 1
                 continue
-            verdict = _judge(system, point, check_options, int(rng.integers(2**31)), variety)
             if verdict is None:  # Newton cannot settle the point (a singular curve can make it drift)
                 discarded["not_settled_on_X"] = discarded.get("not_settled_on_X", 0) + 1
                 continue
@@ -564,6 +573,31 @@ def _affine(system, options, rng, paths, discarded, progress, notes_out=None):
                 notes=notes + list(verdict.notes)))
             oracles.append(oracle)
     return found, variety
+
+
+def _judge_all(system, points, options, seed, variety):
+    """:func:`_judge` for many candidates: one batched check, then :func:`_judge` for the few it leaves open.
+
+    The check decides the clear cases of all points together in double precision and escalates only the
+    doubtful ones; one call per candidate repeated the set-up and the escalation for each. A candidate
+    the check finds off X (one that drifts) or smooth with a rank drop close by gets the rule of
+    :func:`_judge` (the looser tolerance, the verdict at the drop).
+    """
+    verdicts = [None] * len(points)
+    finite = [k for k, point in enumerate(points) if np.all(np.isfinite(point))]
+    if finite:
+        batch = check_points(system, [points[k] for k in finite], options, seed=seed, decomposition=variety).points
+        for k, verdict in zip(finite, batch):
+            verdicts[k] = verdict
+    judged = []
+    for k, (point, verdict) in enumerate(zip(points, verdicts)):
+        drop = None if verdict is None else verdict.nearest_rank_drop
+        if verdict is not None and (verdict.verdict is Verdict.OFF or (
+                verdict.verdict is Verdict.SMOOTH and drop is not None
+                and verdict.nearest_rank_drop_distance <= _CANDIDATE_TOLERANCE * (1 + np.linalg.norm(point)))):
+            verdict = _judge(system, point, options, seed + k, variety)
+        judged.append(verdict)
+    return judged
 
 
 def _judge(system, point, options, seed, variety):

@@ -53,7 +53,7 @@ from ..numeric.cluster import line_distance, normalize_projective, projective_pi
 from ..numeric.evaluate import BatchEvaluator, PrecisionEvaluator, TermSizes
 from ..numeric.linalg import (DOUBLE_DIGITS, RankEvidence, mp_singular_values, numerical_rank,
                               scaled_singular_values, singular_value_gap, zero_tolerance)
-from ..numeric.refine import RankDropSystem, mp_gauss_newton, project_to_variety
+from ..numeric.refine import RankDropSystem, mp_gauss_newton, project_to_variety, rank_drop_points
 from ..numeric.scaling import Scaling
 from ..numeric.seeds import random_state
 from ..witness.decompose import components_through
@@ -74,6 +74,17 @@ _AS_GIVEN = ("The verdict is about the equations as given: it describes the vari
 
 #: How far (relative) an unanchored polish may move a rank-drop point that the anchored solve approached.
 _POLISH_DRIFT = 1e-6
+#: Decided in double precision (decision 0038): the rank-drop system's scaled residual must reach this
+#: (a regular zero gets there in a few Newton steps; a near miss whose c-th singular value never vanishes
+#: stalls at that value), ...
+_DOUBLE_SETTLED_RESIDUAL = 1e-13
+#: ... the singular value just above the dropped one must stay clearly nonzero there (rank exactly c - 1,
+#: so the rank-drop system is regular and Newton's answer is trustworthy) ...
+_DOUBLE_CLEAR_VALUE = 1e-6
+#: ... and the rank-drop point must be within this fraction of the point tolerance (singular) or beyond
+#: this multiple of it (smooth, with a c-th singular value above _DOUBLE_CLEAR_SMOOTH). Anything else
+#: is in doubt and goes to mpmath at rising precision.
+_DOUBLE_NEAR, _DOUBLE_FAR, _DOUBLE_CLEAR_SMOOTH = 0.5, 100.0, 1e-8
 
 
 @dataclass(frozen=True)
@@ -273,6 +284,7 @@ class _Checker:
         self.system = system
         self.options = options
         self.rng = rng
+        self.settled = {}  # position -> outcome decided in double for a batch (settle_in_double)
         self.batch = BatchEvaluator(system.polynomials)
         self.precise = PrecisionEvaluator(system.polynomials)
         self.m, self.n = system.n_equations, system.n_variables
@@ -353,6 +365,59 @@ class _Checker:
         self.last_drop_precise = [z[j] for j in range(self.n)]  # the rank is judged here, not at its rounding
         return drop.point_of(z)
 
+    # -- all suspect points at once, in double ---------------------------------------------------
+    def settle_in_double(self, given, refined, values, scales, through, positions=None):
+        """Decide the suspect points whose decision is clear in double precision, all in one batch.
+
+        For each codimension, one batched Gauss-Newton on F = 0, rank J <= c - 1
+        (:func:`numag.numeric.refine.rank_drop_points`) from every suspect point. Clear: the rank-drop
+        system converged to a regular zero (residual at double rounding, the (c-1)-th singular value
+        clearly nonzero there), either at the point (singular) or far from it with the point's c-th
+        value clearly nonzero (smooth). The outcomes go to :attr:`settled`; the other suspect points
+        are escalated in mpmath by :meth:`check` as before. ``positions``: each point's position in the
+        batch :meth:`check` is called with (default: its own index).
+        """
+        number = list(range(len(refined))) if positions is None else [int(k) for k in positions]
+        double_zero = zero_tolerance(DOUBLE_DIGITS, (self.m, self.n))
+        suspects = {}
+        for position in range(len(refined)):
+            codim, _ = self.codimension(numerical_rank(values[position], double_zero), through[position])
+            if codim and codim <= len(values[position]) and values[position][codim - 1] <= \
+                    self.options.suspect_threshold:
+                suspects.setdefault(codim, []).append(position)
+        for codim, positions in suspects.items():
+            drops = rank_drop_points(self.system, refined[positions], codim - 1,
+                                     tolerance=0.1 * _DOUBLE_SETTLED_RESIDUAL)  # polish while it improves
+            at_drop, scales_at_drop = self.scaled_values_double(drops.points)
+            for row, position in enumerate(positions):
+                regular = (drops.residuals[row] <= _DOUBLE_SETTLED_RESIDUAL and at_drop[row][codim - 1] <= double_zero
+                           and (codim == 1 or at_drop[row][codim - 2] >= _DOUBLE_CLEAR_VALUE))
+                if not regular:
+                    continue
+                found = drops.points[row]
+                distance = self.distance(given[position], found)
+                tolerance = self.tolerance_for(given[position])
+                if distance <= _DOUBLE_NEAR * tolerance:
+                    self.settled[number[position]] = _Decision(
+                        outcome=Verdict.SINGULAR, point=found, values=at_drop[row], scales=scales_at_drop[row],
+                        digits=DOUBLE_DIGITS, drop=found, drop_distance=distance)
+                elif distance >= _DOUBLE_FAR * tolerance and values[position][codim - 1] >= _DOUBLE_CLEAR_SMOOTH:
+                    self.settled[number[position]] = _Decision(
+                        outcome=Verdict.SMOOTH, point=refined[position], values=values[position],
+                        scales=scales[position], digits=DOUBLE_DIGITS, drop=found, drop_distance=distance)
+
+    def rank_drops_near_in_double(self, informative, codim, radius):
+        """True or False when double precision decides :meth:`rank_drops_near` clearly, else None."""
+        drops = rank_drop_points(self.system, np.array(informative), codim - 1,
+                                 tolerance=0.1 * _DOUBLE_SETTLED_RESIDUAL)
+        settled = drops.residuals <= _DOUBLE_SETTLED_RESIDUAL
+        distances = np.array([self.distance(found, sample) for found, sample in zip(drops.points, informative)])
+        if np.any(settled & (distances > 0.1 * radius)):
+            return False  # the rank drops only well away from a sample: not at every nearby point
+        if np.all(settled & (distances <= 1e-4 * radius)):
+            return True
+        return None
+
     # -- one point ---------------------------------------------------------------------------------
     def escalate(self, given, exact_given, refined, codim):
         """Decide a suspect rank at rising precision (a :class:`_Decision`)."""
@@ -421,6 +486,9 @@ class _Checker:
                        if ok and self.distance(sample, point) >= 0.1 * radius][:count]
         if len(informative) < count:
             return False
+        decided = self.rank_drops_near_in_double(informative, codim, radius)
+        if decided is not None:
+            return decided
         with mpmath.mp.workdps(40):
             for sample in informative:
                 found = self.find_rank_drop([mpmath.mpc(v) for v in sample], codim - 1, mpmath.mp, 30)
@@ -428,7 +496,7 @@ class _Checker:
                     return False
         return True
 
-    def check(self, index, given, exact_given, refined, residual, values, scales, through=None):
+    def check(self, index, given, exact_given, refined, residual, values, scales, through=None, position=None):
         opts = self.options
         double_zero = zero_tolerance(DOUBLE_DIGITS, (self.m, self.n))
         rank = numerical_rank(values, double_zero)
@@ -453,7 +521,7 @@ class _Checker:
             decision.outcome = Verdict.SMOOTH
         else:
             escalated = True
-            decision = self.escalate(given, exact_given, refined, codim)
+            decision = self.settled.get(position) or self.escalate(given, exact_given, refined, codim)
         digits = decision.digits
         zero = zero_tolerance(digits, (self.m, self.n))
         final_values = np.array(decision.values, dtype=float)
@@ -651,12 +719,15 @@ def _check_in_units(system, given, exact, options, seed, rng, decomposition, sca
     if decomposition is not None and options.local_dimension is None:
         through = [None if off[k] else components_through(decomposition, scaling.to_user(refined[k]), seed=seed + k)
                    for k in range(len(given))]
+    checker.settle_in_double(given[~off], refined[~off], [values[k] for k in np.nonzero(~off)[0]],
+                             [scales[k] for k in np.nonzero(~off)[0]], [through[k] for k in np.nonzero(~off)[0]],
+                             positions=np.nonzero(~off)[0])
     return [_off_verdict(checker, k + 1, given[k], refined[k], float(residual_given[k]), float(moved[k]),
                          float(tolerances[k]), bool(on_variety[k]), float(projection.residuals[k]), values[k],
                          scales[k])
             if off[k] else
             checker.check(k + 1, given[k], exact[k], refined[k], float(residual_given[k]), values[k], scales[k],
-                          through[k]) for k in range(len(given))]
+                          through[k], position=k) for k in range(len(given))]
 
 
 def _values_at_given(checker, point):

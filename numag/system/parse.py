@@ -32,20 +32,24 @@ numag.errors.ParseError: column 2: found 'x' where an operator (+ - * / ^) was e
 """
 
 from fractions import Fraction
+import gc
+import itertools
 import re
 
+import numpy as np
+
 from ..errors import InputError, LimitError, ParseError
-from .exact import ExactCoefficient
+from .exact import MAX_COEFFICIENT_BITS, ExactCoefficient, _check_size
 from .polynomial import DEFAULT_LIMITS, RESERVED_NAMES, Polynomial, PolynomialSystem
 
 __all__ = ["parse_polynomial", "parse_system", "parse_constant", "is_valid_name", "MAX_EQUATION_LENGTH",
            "MAX_NESTING", "MAX_TOKENS"]
 
-#: Longest equation text accepted (characters).
-MAX_EQUATION_LENGTH = 1_000_000
-#: Most tokens (numbers, names, operators) in one equation: each costs a polynomial operation (tens of
-#: microseconds), so this bounds the reading time to seconds.
-MAX_TOKENS = 100_000
+#: Longest equation text accepted (characters): room for some 500,000 written-out terms.
+MAX_EQUATION_LENGTH = 16_000_000
+#: Most tokens (numbers, names, operators) in one equation. Reading is linear in the tokens (about a
+#: microsecond each, decision 0037), so this bounds the reading time to seconds.
+MAX_TOKENS = 4_000_000
 #: Deepest nesting of parentheses (and ``sqrt(``) accepted: the reader is recursive in the nesting
 #: only (five Python frames a level), so this keeps it far from Python's recursion limit.
 MAX_NESTING = 100
@@ -75,32 +79,26 @@ class _Token:
         return f"'{shown}'"
 
 
+#: One token after optional blanks; the group names its kind, ``bad`` a character no token starts with.
+#: ASCII only: ``[0-9]`` and ``[A-Za-z_]`` are literal ranges.
+_TOKEN = re.compile(r"[ \t\r\n]*(?:(?P<number>(?:[0-9]+(?:\.[0-9]*)?|\.[0-9]+)(?:[eE][+-]?[0-9]+)?)"
+                    r"|(?P<name>[A-Za-z_][A-Za-z0-9_]*)|(?P<op>\*\*|[-+*/^()=])|(?P<bad>[^ \t\r\n]))")
+
+
 def _tokenize(text):
-    tokens, i, length = [], 0, len(text)
-    while i < length:
-        ch = text[i]
-        if ch in " \t\r\n":
-            i += 1
-            continue
-        if ch.isascii() and (ch.isdigit() or (ch == "." and i + 1 < length and text[i + 1].isascii()
-                                                and text[i + 1].isdigit())):
-            match = _NUMBER.match(text, i)
-            tokens.append(_Token("number", match.group(0), i + 1))
-            i = match.end()
-            continue
-        if ch.isascii() and (ch.isalpha() or ch == "_"):
-            match = _NAME_PREFIX.match(text, i)
-            tokens.append(_Token("name", match.group(0), i + 1))
-            i = match.end()
-            continue
-        for op in _OPERATORS:
-            if text.startswith(op, i):
-                tokens.append(_Token("op", "^" if op == "**" else op, i + 1))
-                i += len(op)
-                break
-        else:
-            raise ParseError(f"unexpected character {ch!r}", column=i + 1, text=text)
-    tokens.append(_Token("end", "", length + 1))
+    """The tokens of ``text`` and an end token: one regular-expression scan (linear time)."""
+    tokens = []
+    append = tokens.append
+    for found in itertools.islice(_TOKEN.finditer(text), MAX_TOKENS + 1):
+        kind = found.lastgroup
+        value = found.group(kind)
+        if kind == "bad":
+            raise ParseError(f"unexpected character {value!r}", column=found.start(kind) + 1, text=text)
+        append(_Token(kind, "^" if value == "**" else value, found.start(kind) + 1))
+    if len(tokens) > MAX_TOKENS:  # refused before the rest is even split into tokens
+        raise ParseError(f"more than {MAX_TOKENS} numbers, names and operators in one equation (expand "
+                         "less, or write products and powers)", column=1)
+    tokens.append(_Token("end", "", len(text) + 1))
     return tokens
 
 
@@ -131,20 +129,16 @@ class _Parser:
         if len(text) > MAX_EQUATION_LENGTH:
             raise ParseError(f"text longer than {MAX_EQUATION_LENGTH} characters", column=1)
         self.tokens = _tokenize(text)
-        if len(self.tokens) > MAX_TOKENS:
-            raise ParseError(f"more than {MAX_TOKENS} numbers, names and operators in one equation (expand "
-                             "less, or write products and powers)", column=1)
         self.position = 0
+        self.current = self.tokens[0]  # an attribute, not a property: it is read several times a token
         self.depth = 0
 
     # -- helpers ------------------------------------------------------------------------------
-    @property
-    def current(self):
-        return self.tokens[self.position]
-
     def advance(self):
-        token = self.tokens[self.position]
-        self.position += 1
+        token = self.current
+        if token.kind != "end":
+            self.position += 1
+            self.current = self.tokens[self.position]
         return token
 
     def fail(self, expected, token=None, hint=""):
@@ -153,7 +147,7 @@ class _Parser:
                          column=token.column, text=self.text)
 
     def is_op(self, symbol):
-        return self.current.kind == "op" and self.current.text == symbol
+        return self.current.text == symbol and self.current.kind == "op"
 
     def guarded(self, token, operation):
         try:
@@ -163,6 +157,88 @@ class _Parser:
         except InputError as err:
             raise ParseError(str(err), column=token.column, text=self.text) from None
 
+    # -- values while reading: a _Monomial or a Polynomial ---------------------------------------
+    def as_polynomial(self, value):
+        """``value`` as a Polynomial (a monomial becomes a one-term polynomial)."""
+        return value if isinstance(value, Polynomial) else self.sum_of([value])
+
+    def sum_of(self, parts):
+        """One Polynomial from monomials and polynomials: all terms gathered, equal monomials merged once.
+
+        Merging once (a sort of the exponent rows) is what makes a long sum linear; adding term after
+        term merged the growing sum every time, quadratic in its length (decision 0037).
+        """
+        monomials = [part for part in parts if isinstance(part, _Monomial)]
+        exponents = [part.exponents for part in parts if isinstance(part, Polynomial)]
+        coefficients = [part.coefficients for part in parts if isinstance(part, Polynomial)]
+        if monomials:
+            rows, columns, powers = [], [], []
+            for row, monomial in enumerate(monomials):
+                for column, power in monomial.powers.items():
+                    rows.append(row)
+                    columns.append(column)
+                    powers.append(power)
+            table = np.zeros((len(monomials), self.n), dtype=np.int64)
+            table[rows, columns] = powers
+            values = np.empty(len(monomials), dtype=object)
+            exact = {}  # one ExactCoefficient per distinct rational: most sums repeat a few numbers
+            values[:] = [_exact(monomial.coefficient, exact) for monomial in monomials]
+            exponents.append(table)
+            coefficients.append(values)
+        return Polynomial(np.vstack(exponents), np.concatenate(coefficients), self.n)
+
+    def negated(self, value):
+        if isinstance(value, _Monomial):
+            return _Monomial(-value.coefficient, value.powers, value.degree)
+        return -value
+
+    def product(self, left, right):
+        """``left * right``; two monomials stay a monomial (no Polynomial is built)."""
+        if isinstance(left, _Monomial) and isinstance(right, _Monomial):
+            degree = left.degree + right.degree
+            if degree > self.limits.max_degree:
+                raise LimitError(f"degree {degree} exceeds the limit of {self.limits.max_degree}",
+                                 "max_degree", self.limits.max_degree)
+            coefficient = left.coefficient * right.coefficient
+            if type(coefficient) is int:  # exact coefficients check their own size
+                if coefficient.bit_length() > MAX_COEFFICIENT_BITS:
+                    _check_size(Fraction(coefficient))
+            elif type(coefficient) is Fraction:
+                _check_size(coefficient)
+            powers = dict(left.powers)
+            for variable, power in right.powers.items():
+                powers[variable] = powers.get(variable, 0) + power
+            return _Monomial(coefficient, powers, degree)
+        return self.as_polynomial(left).multiply(self.as_polynomial(right), self.limits)
+
+    def raised(self, base, exponent):
+        """``base ** exponent`` (the exponent already checked against the degree limit)."""
+        if isinstance(base, Polynomial):
+            return base.power(exponent, self.limits)
+        degree = base.degree * exponent
+        if degree > self.limits.max_degree:
+            raise LimitError(f"degree {base.degree}*{exponent} = {degree} exceeds the limit of "
+                             f"{self.limits.max_degree}", "max_degree", self.limits.max_degree)
+        coefficient = base.coefficient
+        if coefficient != 1:  # powers of numbers are rare in long sums: the exact type checks their size
+            coefficient = _exact(coefficient) ** exponent
+        return _Monomial(coefficient, {variable: power * exponent for variable, power in base.powers.items()},
+                         degree)
+
+    @staticmethod
+    def degree_of(value):
+        """Total degree; -1 for zero, as :attr:`Polynomial.degree`."""
+        if isinstance(value, _Monomial):
+            return -1 if value.coefficient == 0 else value.degree
+        return value.degree
+
+    @staticmethod
+    def constant_of(value):
+        """The value of a constant (degree <= 0)."""
+        if isinstance(value, _Monomial):
+            return _exact(value.coefficient)
+        return value.coefficients[0] if value.n_terms else ExactCoefficient.zero()
+
     # -- grammar ------------------------------------------------------------------------------
     def equation(self):
         left = self.expr()
@@ -171,20 +247,32 @@ class _Parser:
             right = self.expr()
             if self.is_op("="):
                 self.fail("the end of the equation (only one '=' is allowed)")
-            left = left - right
+            left = self.sum_of([left, self.negated(right)])
         if self.current.kind != "end":
             if self.is_op(")"):
                 self.fail("an operator or the end of the equation", hint=" (unbalanced ')')")
             self.fail("an operator (+ - * / ^) or the end of the equation")
-        return left
+        return self.as_polynomial(left)
 
     def expr(self):
-        result = self.term()
+        parts = [self.term()]
+        gathered = _size(parts[0])
+        merge_at = self.limits.max_terms
+        sign = None
         while self.current.kind == "op" and self.current.text in "+-":
             sign = self.advance()
             right = self.term()
-            result = result + right if sign.text == "+" else result - right
-            self.check_terms(result, sign)
+            parts.append(right if sign.text == "+" else self.negated(right))
+            gathered += _size(right)
+            if gathered > merge_at:  # merge now and then so that a cancelling sum stays bounded in memory
+                parts = [self.sum_of(parts)]
+                self.check_terms(parts[0], sign)
+                gathered = parts[0].n_terms
+                merge_at = max(self.limits.max_terms, 2 * gathered)  # doubling: merges stay linear in total
+        if len(parts) == 1:
+            return parts[0]
+        result = self.sum_of(parts)
+        self.check_terms(result, sign)
         return result
 
     def term(self):
@@ -194,15 +282,16 @@ class _Parser:
             start = self.current
             right = self.unary()
             if operator.text == "*":
-                result = self.guarded(operator, lambda: result.multiply(right, self.limits))
+                try:  # not self.guarded: a closure per product is a tenth of the reading time
+                    result = self.product(result, right)
+                except (LimitError, InputError) as err:
+                    raise ParseError(str(err), column=operator.column, text=self.text) from None
             else:
-                if right.degree > 0:
+                if self.degree_of(right) > 0:
                     raise ParseError("division by a polynomial is not allowed; divide only by a "
                                      "nonzero constant", column=start.column, text=self.text)
-                divisor = right.coefficients[0] if right.n_terms else ExactCoefficient.zero()
-                inverse = self.guarded(start, divisor.reciprocal)
-                result = self.guarded(operator, lambda: result.multiply(
-                    Polynomial.constant(inverse, self.n), self.limits))
+                inverse = self.guarded(start, self.constant_of(right).reciprocal)
+                result = self.guarded(operator, lambda: self.product(result, _Monomial(inverse, {}, 0)))
         return result
 
     def unary(self):
@@ -210,7 +299,7 @@ class _Parser:
         while self.current.kind == "op" and self.current.text in "+-":  # a loop: any number of signs
             negative ^= self.advance().text == "-"
         operand = self.power()
-        return -operand if negative else operand
+        return self.negated(operand) if negative else operand
 
     def power(self):
         base = self.atom()
@@ -223,7 +312,10 @@ class _Parser:
             if exponent > self.limits.max_degree:
                 raise ParseError(f"exponent {exponent} exceeds the degree limit of "
                                  f"{self.limits.max_degree}", column=operator.column, text=self.text)
-            base = self.guarded(operator, lambda: base.power(exponent, self.limits))
+            try:
+                base = self.raised(base, exponent)
+            except (LimitError, InputError) as err:
+                raise ParseError(str(err), column=operator.column, text=self.text) from None
         if self.current.kind in ("number", "name") or self.is_op("("):
             self.fail("an operator (+ - * / ^)",
                       hint="; implicit multiplication is not allowed, insert '*'")
@@ -251,15 +343,15 @@ class _Parser:
         if token.kind == "number":
             self.advance()
             value = _number_value(token, self.text)
-            return Polynomial.constant(ExactCoefficient.rational(value), self.n)
+            return _Monomial(value.numerator if value.denominator == 1 else value, {}, 0)
         if token.kind == "name":
             self.advance()
+            if token.text in self.index:
+                return _Monomial(1, {self.index[token.text]: 1}, 1)
             if token.text == "I":
-                return Polynomial.constant(ExactCoefficient.imaginary_unit(), self.n)
+                return _Monomial(ExactCoefficient.imaginary_unit(), {}, 0)
             if token.text == "sqrt":
                 return self.square_root(token)
-            if token.text in self.index:
-                return Polynomial.variable(self.index[token.text], self.n)
             declared = ", ".join(self.variables) if self.variables else "none"
             if len(declared) > 120:
                 declared = declared[:117] + "..."
@@ -282,9 +374,9 @@ class _Parser:
         if not self.is_op(")"):
             self.fail("')' closing sqrt(")
         self.advance()
-        if argument.degree > 0:
+        if self.degree_of(argument) > 0:
             raise ParseError("sqrt takes a constant, not a polynomial", column=token.column, text=self.text)
-        value = argument.coefficients[0] if argument.n_terms else ExactCoefficient.zero()
+        value = self.constant_of(argument)
         if not value.is_rational():
             raise ParseError(f"sqrt takes a rational constant, got {value.to_text()}",
                              column=token.column, text=self.text)
@@ -292,7 +384,7 @@ class _Parser:
             raise ParseError(f"sqrt of the negative number {value.to_text()}; write I*sqrt(...) "
                              "for an imaginary root", column=token.column, text=self.text)
         root = self.guarded(token, lambda: ExactCoefficient.square_root(value.as_fraction()))
-        return Polynomial.constant(root, self.n)
+        return _Monomial(root, {}, 0)
 
     def nested(self, token, read):
         """Read a parenthesised part one level deeper; refuse nesting beyond :data:`MAX_NESTING`."""
@@ -308,6 +400,38 @@ class _Parser:
         if result.n_terms > self.limits.max_terms:
             raise ParseError(f"{result.n_terms} terms exceed the limit of {self.limits.max_terms}",
                              column=token.column, text=self.text)
+
+
+class _Monomial:
+    """One term while reading: a coefficient times powers of variables ``{index: power}``.
+
+    Most of a written-out equation is such terms. Keeping them this way until a sum is complete
+    costs about a microsecond a token; building a Polynomial for every number, variable and product
+    cost tens of microseconds (decision 0037). The coefficient is a Python ``int`` or ``Fraction``
+    while it is rational (their arithmetic is ten times cheaper), an ``ExactCoefficient`` otherwise.
+    """
+
+    __slots__ = ("coefficient", "powers", "degree")
+
+    def __init__(self, coefficient, powers, degree):
+        self.coefficient, self.powers, self.degree = coefficient, powers, degree
+
+
+def _size(value):
+    """Terms a value adds to a sum (before merging)."""
+    return 1 if isinstance(value, _Monomial) else value.n_terms
+
+
+def _exact(value, cache=None):
+    """``value`` (an int, a Fraction or an ExactCoefficient) as an ExactCoefficient, through ``cache``."""
+    if isinstance(value, ExactCoefficient):
+        return value
+    if cache is None:
+        return ExactCoefficient.rational(value)
+    known = cache.get(value)
+    if known is None:
+        known = cache[value] = ExactCoefficient.rational(value)
+    return known
 
 
 def parse_polynomial(text, variables, limits=DEFAULT_LIMITS):
@@ -339,7 +463,15 @@ def parse_polynomial(text, variables, limits=DEFAULT_LIMITS):
     """
     if not isinstance(text, str):
         raise ParseError(f"an equation must be text, got {type(text).__name__}")
-    return _Parser(text, variables, limits).equation()
+    # Reading creates a million small objects and no reference cycle: the cycle collector, triggered
+    # by the allocations alone, would walk the growing token list again and again (half the time).
+    collecting = gc.isenabled()
+    gc.disable()
+    try:
+        return _Parser(text, variables, limits).equation()
+    finally:
+        if collecting:
+            gc.enable()
 
 
 def parse_constant(text):

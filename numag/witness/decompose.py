@@ -35,9 +35,7 @@ import itertools
 import math
 import time
 
-import networkx as nx
 import numpy as np
-from scipy.spatial import cKDTree
 
 from ..errors import InputError, LimitError, is_integer, is_number, require_option
 from ..system.display import counted, html_table, short_point
@@ -278,6 +276,8 @@ def _match(ends, points, tolerance):
     good = np.all(np.isfinite(ends), axis=1)
     if not np.any(good):
         return result
+    from scipy.spatial import cKDTree  # imported where used: `import numag` stays fast
+
     tree = cKDTree(np.column_stack([points.real, points.imag]))
     query = ends[good]
     distance, index = tree.query(np.column_stack([query.real, query.imag]))
@@ -308,6 +308,8 @@ def _trace_defects(mover, points, rng, tolerance):
 def _split(mover, points, rng, options, loops_run):
     """Groups of witness point indices, each confirmed or not, and their relative defects."""
     count = len(points)
+    import networkx as nx  # imported where used: `import numag` and `numag --help` stay fast
+
     graph = nx.Graph()
     graph.add_nodes_from(range(count))
     if count == 1:

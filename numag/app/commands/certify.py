@@ -5,13 +5,14 @@ prints certificates (``--certify``).
 from ...run.executor import make_executor
 from ...certify.records import CertifyOptions, ClaimStatus, Kind, Status
 from ..report import CAUTION, certify_report, dumps, read_report, write_report
+from . import SUMMARIES
 from .common import (EXIT_OK, EXIT_UNDECIDED, _MAX_WORKERS, _count, _progress)
 
 
 def add_parser(commands):
     """Add ``numag certify`` to the sub-parsers ``commands`` of the command line."""
     certify = commands.add_parser(
-        "certify", help="certify the points of a saved report (solve, singular or check)",
+        "certify", help=SUMMARIES["certify"],
         description="Prove what can be proved about each point of a saved JSON report: a box holding exactly "
                     "one zero (Krawczyk's interval test, with Smale's alpha test beside it), real where the "
                     "box is symmetric, the backward error of the other equations, exact coordinates where "

@@ -14,6 +14,7 @@ from ...singular.kinds import Verdict
 from ..report import (CAUTION, check_report_to_dict, decomposition_from_dict, dumps, read_report,
                       system_to_dict)
 from .certify import _certified, _doubtful, _print_certification
+from . import SUMMARIES
 from .plot import add_plot_options, check_plot_request, plot_after, with_angles
 from .common import (EXIT_OK, EXIT_UNDECIDED, _add_certify_switch, _add_work_options, _counted, _format_point,
                      _guard_paths, _headline, _load, _PointFormat, _positive_number, _progress, _seed, _with_notes,
@@ -23,7 +24,7 @@ from .common import (EXIT_OK, EXIT_UNDECIDED, _add_certify_switch, _add_work_opt
 def add_parser(commands):
     """Add ``numag check`` to the sub-parsers ``commands`` of the command line."""
     check = commands.add_parser(
-        "check", help="smooth or singular at given points (Jacobian criterion, with evidence)",
+        "check", help=SUMMARIES["check"],
         description="Decide for each point whether the variety is smooth there: rank of the Jacobian "
                     "against the local codimension, with small singular values tested at rising precision.")
     check.add_argument("system_file", metavar="FILE", help="system file (TOML)")

@@ -20,7 +20,7 @@ from ...run.executor import WorkLimits, make_executor
 from ..progress import Reporter
 from ..report import completeness_warnings
 
-EXIT_OK, EXIT_INTERNAL, EXIT_INPUT, EXIT_UNDECIDED, EXIT_MISMATCH = 0, 1, 2, 3, 4
+from . import EXIT_INPUT, EXIT_INTERNAL, EXIT_MISMATCH, EXIT_OK, EXIT_UNDECIDED  # noqa: F401 - re-exported
 
 
 _MAX_WORKERS = 1024

@@ -3,6 +3,7 @@
 from ...errors import NumagError
 from ..compare import compare_system
 from ..report import CAUTION, compare_to_dict, dumps
+from . import SUMMARIES
 from .common import (EXIT_MISMATCH, EXIT_OK, EXIT_UNDECIDED, _add_work_options, _guard_paths, _headline, _load,
                      _positive_number, _progress, _seed, _with_notes, _write_notes)
 
@@ -10,7 +11,7 @@ from .common import (EXIT_MISMATCH, EXIT_OK, EXIT_UNDECIDED, _add_work_options, 
 def add_parser(commands):
     """Add ``numag compare`` to the sub-parsers ``commands`` of the command line."""
     versus = commands.add_parser(
-        "compare", help="numag's singular locus beside an exact Groebner-basis reference (sympy)",
+        "compare", help=SUMMARIES["compare"],
         description="Run numag's singular locus and an exact reference (sympy Groebner bases of F and the "
                     "c x c minors, in a child process with a time limit) and print side by side: dimensions, "
                     "degrees, counts, the largest distance between numerical and exact points, both times.")

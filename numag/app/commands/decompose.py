@@ -7,6 +7,7 @@ from ...tracking.tracker import FAILURE_LABELS
 from ...witness.cascade import WitnessOptions
 from ...witness.decompose import DecomposeOptions, decompose
 from ..report import CAUTION, decomposition_to_dict, dumps
+from . import SUMMARIES
 from .plot import add_plot_options, check_plot_request, plot_after, with_angles
 from .common import (EXIT_OK, EXIT_UNDECIDED, _WITNESS_ACCURACY, _add_executor_options, _add_work_options, _counted,
                      _guard_paths, _headline, _load, _PointFormat, _print_warnings, _progress, _seed, _stage_executor,
@@ -16,7 +17,7 @@ from .common import (EXIT_OK, EXIT_UNDECIDED, _WITNESS_ACCURACY, _add_executor_o
 def add_parser(commands):
     """Add ``numag decompose`` to the sub-parsers ``commands`` of the command line."""
     parts = commands.add_parser(
-        "decompose", help="irreducible components of X: dimension, degree, witness points",
+        "decompose", help=SUMMARIES["decompose"],
         description="Witness sets of every dimension (regenerative cascade), split into irreducible "
                     "components by monodromy loops confirmed by the trace test.")
     parts.add_argument("system_file", metavar="FILE", help="system file (TOML, affine)")

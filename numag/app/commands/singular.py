@@ -13,6 +13,7 @@ from ..anatomy_text import attach_to_singular, write_component_anatomy, write_po
 from ...singular.kinds import PieceKind
 from ..report import CAUTION, dumps, singular_to_dict
 from .certify import _certified, _doubtful, _print_certification
+from . import SUMMARIES
 from .plot import add_plot_options, check_plot_request, plot_after, with_angles
 from .common import (EXIT_OK, EXIT_UNDECIDED, _WITNESS_ACCURACY, _add_certify_switch, _add_executor_options,
                      _add_work_options, _counted, _guard_paths, _headline, _load, _PointFormat, _print_warnings,
@@ -22,7 +23,7 @@ from .common import (EXIT_OK, EXIT_UNDECIDED, _WITNESS_ACCURACY, _add_certify_sw
 def add_parser(commands):
     """Add ``numag singular`` to the sub-parsers ``commands`` of the command line."""
     locus = commands.add_parser(
-        "singular", help="where X is singular: every singular point and component (the main job)",
+        "singular", help=SUMMARIES["singular"],
         description="Decompose X, then find every point where the Jacobian's rank drops below the codimension "
                     "of the component it lies on, or where components meet: singular points and singular "
                     "components with dimension, degree and witness points.")

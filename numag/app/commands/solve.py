@@ -7,6 +7,7 @@ from ...numeric.seeds import resolved_seed
 from ...tracking.solve import Execution, SolveOptions, solve_system
 from ..report import CAUTION, dumps, solve_report_to_dict
 from .certify import _certified, _doubtful, _print_certification
+from . import SUMMARIES
 from .plot import add_plot_options, check_plot_request, plot_after, with_angles
 from .common import (EXIT_OK, EXIT_UNDECIDED, _WITNESS_ACCURACY, _add_certify_switch, _add_executor_options,
                      _add_work_options, _checked_seed, _count, _counted, _headline, _load, _PointFormat,
@@ -16,7 +17,7 @@ from .common import (EXIT_OK, EXIT_UNDECIDED, _WITNESS_ACCURACY, _add_certify_sw
 def add_parser(commands):
     """Add ``numag solve`` to the sub-parsers ``commands`` of the command line."""
     solve = commands.add_parser(
-        "solve", help="isolated solutions of a square system (homotopy continuation)",
+        "solve", help=SUMMARIES["solve"],
         description="Track every path of a total-degree homotopy and report the distinct isolated "
                     "solutions with multiplicities, the points at infinity, and every path's fate.")
     solve.add_argument("system_file", metavar="FILE", nargs="?",
