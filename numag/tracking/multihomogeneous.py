@@ -224,7 +224,7 @@ def homogenized_to(polynomial, degree):
     --------
     >>> x = Polynomial.variable(0, 1)
     >>> homogenized_to(x - 1, 2).to_text(["w", "x"])
-    '-w^2 + w*x'
+    '-1.0*w^2 + 1.0*w*x'
     """
     polynomial = polynomial.numeric()
     exponents = polynomial.exponents
