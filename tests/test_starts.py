@@ -265,3 +265,24 @@ def test_null_vector_singular_points_with_the_two_homogeneous_start(problems, na
         assert distance.min(axis=1).max() < 1e-6
     assert grouped.paths < by_degree.paths
     assert grouped.start["groups"]["groups"][1] == ["lambda1"]
+
+
+@pytest.mark.parametrize("start", ["multihomogeneous", "polyhedral"])
+def test_run_folders_hold_the_structured_starts_paths(tmp_path, start):
+    # path k is computed from k alone: a run saved in batches of 2 is read back whole on resume, with the
+    # same answer, and the run folder refuses a resume with another start
+    from numag.tracking.solve import Execution
+    system = parse_system(["x*u + y*v - 1", "x*v - y + 2*u", "x + y - 1 + x*y", "u - v + 3"], ["x", "y", "u", "v"])
+    options = SolveOptions(start=start, batch_size=2)
+    folder = str(tmp_path / "run")
+    first = solve_system(system, options, seed=4, execution=Execution(run_folder=folder))
+    again = solve_system(system, options, seed=4, execution=Execution(run_folder=folder, resume=True))
+    assert again.extra["execution"]["batches_resumed"] == again.extra["execution"]["batches"] > 1
+    assert np.array_equal(first.status, again.status)
+    key = lambda point: tuple(np.round(point, 6))
+    assert np.allclose(sorted((s.point for s in first.solutions), key=key),
+                       sorted((s.point for s in again.solutions), key=key))
+    other = "polyhedral" if start == "multihomogeneous" else "multihomogeneous"
+    with pytest.raises(InputError, match="different run"):
+        solve_system(system, SolveOptions(start=other, batch_size=2), seed=4,
+                     execution=Execution(run_folder=folder, resume=True))

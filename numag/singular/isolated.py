@@ -104,7 +104,8 @@ def isolated_singular_points(system, start="multihomogeneous", seed=None, option
     options : SolveOptions, optional
         The start and groups are set here.
     tolerance : float
-        Largest scaled residual of the full null-vector system at a kept solution.
+        Largest scaled residual of the full null-vector system at a kept regular solution (its square
+        root for a multiple one).
 
     Returns
     -------
@@ -122,7 +123,11 @@ def isolated_singular_points(system, start="multihomogeneous", seed=None, option
     if len(solutions):
         values = BatchEvaluator(full.polynomials).evaluate(solutions, jacobian=False)
         sizes = TermSizes(full.polynomials).values(solutions)
-        solutions = solutions[np.max(np.abs(values) / sizes, axis=1) <= tolerance]  # drop the combinations' extras
+        # a multiple solution is known to about the m-th root of the working accuracy (a cusp's triple
+        # point to 1e-6 after refinement): it is held to the square root of the tolerance; the extras of
+        # the random combinations miss an equation of the full system by far more (order one)
+        allowed = np.array([tolerance if s.multiplicity == 1 else np.sqrt(tolerance) for s in result.solutions])
+        solutions = solutions[np.max(np.abs(values) / sizes, axis=1) <= allowed]
     x_points = solutions[:, :n]
     distinct = [x_points[members[0]] for members in groups(cluster_labels(x_points, 1e-6))] if len(x_points) else []
     counts = result.path_counts()
