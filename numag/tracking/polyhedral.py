@@ -146,6 +146,20 @@ class _Feasibility:
         return result.status == 0
 
 
+def _cell_normal(rows, slack=1e-9):
+    """The normal fixed by n edge equations if it satisfies every inequality (else None)."""
+    matrix = np.vstack([r[0] for r in rows])
+    rhs = np.concatenate([r[1] for r in rows])
+    try:
+        normal = np.linalg.solve(matrix, rhs)
+    except np.linalg.LinAlgError:  # parallel edges: a cell of volume 0
+        return None
+    for _, _, upper, upper_rhs in rows:
+        if len(upper) and np.any(upper @ normal > upper_rhs + slack * (1 + np.abs(upper_rhs))):
+            return None
+    return normal
+
+
 def mixed_cells(supports, liftings):
     """The mixed cells of a lifting, depth first with linear-program pruning.
 
@@ -178,15 +192,15 @@ def mixed_cells(supports, liftings):
     order = sorted(range(n), key=lambda i: len(candidates[i]))  # few candidates first: a narrow tree
     candidates = [candidates[i] for i in order]
     # the relation table: which edges of two supports can lie in one cell (a cheap filter before each
-    # linear program of the search; most of the pruning happens here)
+    # linear program of the search; most of the pruning happens here), filled only where the search asks
     related = {}
-    for p in range(n):
-        for q in range(p + 1, n):
-            table = np.zeros((len(candidates[p]), len(candidates[q])), dtype=bool)
-            for e, (_, _, rows_e) in enumerate(candidates[p]):
-                for f, (_, _, rows_f) in enumerate(candidates[q]):
-                    table[e, f] = feasible([rows_e, rows_f])
-            related[p, q] = table
+
+    def compatible(p, e, q, f):
+        key = (p, e, q, f)
+        if key not in related:
+            related[key] = feasible([candidates[p][e][2], candidates[q][f][2]])
+        return related[key]
+
     cells = []
 
     def extend(depth, chosen, rows, allowed):
@@ -205,13 +219,22 @@ def mixed_cells(supports, liftings):
         for e in np.nonzero(allowed[depth])[0]:
             a, b, edge_rows = candidates[depth][e]
             together = rows + [edge_rows]
+            if depth == n - 1 and depth >= 2:
+                # the last edge fixes the normal: solve for it and test the inequalities, no linear program
+                if _cell_normal(together) is not None:
+                    extend(depth + 1, chosen + [(a, b)], together, allowed)
+                continue
             # two edges were checked by the table; from three on a linear program decides
             if depth >= 2 and not feasible(together):
                 continue
             narrowed = list(allowed)
             for later in range(depth + 1, n):
-                narrowed[later] = allowed[later] & related[depth, later][e]
-            if all(narrowed[later].any() for later in range(depth + 1, n)):
+                narrowed[later] = allowed[later].copy()
+                for f in np.nonzero(allowed[later])[0]:
+                    narrowed[later][f] = compatible(depth, e, later, f)
+                if not narrowed[later].any():  # no edge of a later support fits: no cell below this one
+                    break
+            else:
                 extend(depth + 1, chosen + [(a, b)], together, narrowed)
 
     extend(0, [], [], [np.ones(len(c), dtype=bool) for c in candidates])
