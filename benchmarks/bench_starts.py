@@ -64,7 +64,8 @@ def solve_row(system, start, seed):
     seconds = time.perf_counter() - started
     block = result.extra["start"]
     counts = result.path_counts()
-    return {"family": system.name, "start": start, "paths": counts["tracked"], "failed": counts["failed"],
+    return {"family": system.name, "start": block["chosen"], "reason": block["reason"], "paths": counts["tracked"],
+            "failed": counts["failed"],
             "solutions": len(result.solutions), "setup_s": round(block["setup_seconds"].get(start, 0.0), 2),
             "total_s": round(seconds, 2), "counts": block["paths"]}
 
@@ -98,7 +99,11 @@ def main():
         for start in STARTS:
             if start == "total-degree" and system.name in ("cyclic 8",):
                 continue  # 40,320 paths: beyond this benchmark's budget on a shared machine
-            rows.append(solve_row(system, start, args.seed))
+            row = solve_row(system, start, args.seed)
+            if start != "total-degree" and row["start"] != start:
+                print(f"{system.name}: {start} fell back to {row['start']} ({row['reason']})", flush=True)
+                continue
+            rows.append(row)
             print(json.dumps(rows[-1]), flush=True)
     problems = {p["name"]: p for p in json.loads((pathlib.Path(__file__).resolve().parent.parent / "tests" / "data"
                                                    / "problems.json").read_text())}

@@ -287,6 +287,8 @@ def solve_system(system, options=None, seed=None, progress=None, execution=None)
     stage_one = None
     if choice.kind == StartKind.POLYHEDRAL:
         # the random system on the supports, solved through the mixed cells, then moved to the target
+        # (both stages count against the work limit: every path is tracked twice)
+        charge_paths(choice.n_paths, "the polyhedral homotopy's first stage (the mixed volume)")
         points, stage_one = track_cells(choice.polyhedral, rng, options.tracker, options.batch_size)
         random_system = PolynomialSystem(target.variables, choice.polyhedral.random_polynomials())
 
