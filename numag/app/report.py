@@ -178,6 +178,13 @@ def completeness_warnings(data):
         reasons = ", ".join(f"{k} {v}" for k, v in (paths.get("failed_by_reason") or {}).items() if v)
         warnings.append(f"{failed} path(s) failed ({reasons}): what they lead to (solutions, witness points, "
                         "singular candidates) may be missing; run again with another --seed to compare.")
+    first_stage = ((data.get("start") or {}).get("random_system_paths") or {}) if isinstance(data.get("start"),
+                                                                                          dict) else {}
+    lost = int(first_stage.get("tracked", 0)) - int(first_stage.get("converged", 0)) \
+        - int(first_stage.get("singular_endpoint", 0))
+    if lost > 0:  # a first-stage path that did not reach a regular solution of the random system starts no path
+        warnings.append(f"{lost} path(s) of the polyhedral start's first stage did not reach a regular solution of "
+                        "the random system: solutions they lead to may be missing; run again with another --seed.")
     unsettled = int((data.get("discarded") or {}).get("not_settled_on_X", 0)) if isinstance(
         data.get("discarded"), dict) else 0
     if unsettled:
