@@ -168,8 +168,9 @@ def choose_start(system, kind, groups=None, rng=None):
     best_other = min(others, key=lambda k: (others[k], k != StartKind.TOTAL_DEGREE.value))
     if polyhedral is not None and polyhedral.n_paths <= POLYHEDRAL_SHARE * others[best_other]:
         return StartChoice(StartKind.POLYHEDRAL, counts,
-                           f"the mixed volume {polyhedral.n_paths} is at most {POLYHEDRAL_SHARE:g} of the "
-                           f"{best_other} count {others[best_other]} (its paths are tracked in two stages)",
+                           f"the mixed volume {polyhedral.n_paths} is at most {POLYHEDRAL_SHARE:g} times the "
+                           f"{best_other} count {others[best_other]}, which pays for tracking its paths in two "
+                           "stages",
                            chosen_groups, polyhedral, seconds)
     note = "" if polyhedral is not None else \
         "; the mixed volume was not computed (the mixed-cell search would be too large to pay)"
