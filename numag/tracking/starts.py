@@ -4,10 +4,13 @@ Every start gives a count of paths before anything is tracked: the Bezout number
 multihomogeneous Bezout number of a grouping (given or found, see
 :func:`~numag.tracking.multihomogeneous.best_groups`), and the mixed volume (which needs the
 mixed cells, a set-up cost of linear programs). ``auto`` computes the first two always and the
-mixed volume when the relation table of the mixed-cell search is small enough
-(:data:`AUTO_POLYHEDRAL_TABLE`), then takes the polyhedral start only when its count is at most
-:data:`POLYHEDRAL_SHARE` of the best other count (its paths are tracked twice: through the cells,
-then to the system's coefficients), else the smaller of the other two. The choice, the reason
+mixed volume when the mixed-cell search is estimated to cost less than tracking the best other
+count's paths (:data:`SECONDS_PER_LINEAR_PROGRAM` times the entries of its relation table against
+:data:`SECONDS_PER_PATH` times the paths), then takes the polyhedral start when its set-up (its linear programs, counted) and its paths cost less than
+the best other count's paths at :data:`SECONDS_PER_PATH` each (its paths are tracked twice, through
+the cells and then to the system's coefficients, but neither stage has paths that diverge, the
+expensive ones: cyclic 5 took 4 s for 70 polyhedral paths against 21 s for 120 total-degree paths),
+else the smaller of the other two. The choice, the reason
 and every count computed go to the report's ``start`` block.
 
 Examples
@@ -30,13 +33,13 @@ from ..errors import InputError
 from .multihomogeneous import GroupSource, VariableGroups, best_groups, multihomogeneous_bezout
 from .polyhedral import PolyhedralStart
 
-__all__ = ["StartKind", "StartChoice", "choose_start", "AUTO_POLYHEDRAL_TABLE", "POLYHEDRAL_SHARE"]
+__all__ = ["StartKind", "StartChoice", "choose_start", "SECONDS_PER_LINEAR_PROGRAM", "SECONDS_PER_PATH"]
 
-#: ``auto`` computes the mixed volume when the relation table of the cell search has at most this
-#: many entries (an upper bound on its linear programs; about 3 ms each).
-AUTO_POLYHEDRAL_TABLE = 20_000
-#: ``auto`` takes the polyhedral start when the mixed volume is at most this share of the best other count.
-POLYHEDRAL_SHARE = 0.5
+#: Estimates for ``auto`` (benchmarks/bench_starts.py --quick on the shared 2-core machine, decision 0047):
+#: one linear program of the cell search (scipy's set-up dominates) ...
+SECONDS_PER_LINEAR_PROGRAM = 0.003
+#: ... and one tracked path (cyclic 6 by total degree: 232 s for 720 paths; eigenproblems 0.02 s a path).
+SECONDS_PER_PATH = 0.1
 
 
 class StartKind(enum.Enum):
@@ -157,7 +160,9 @@ def choose_start(system, kind, groups=None, rng=None):
                                    chosen_groups, setup_seconds=seconds)
             return StartChoice(kind, counts, "asked for", chosen_groups, setup_seconds=seconds)
     polyhedral = None
-    if kind == StartKind.POLYHEDRAL or _relation_table_size(system) <= AUTO_POLYHEDRAL_TABLE:
+    cheapest = min(counts.values())
+    if kind == StartKind.POLYHEDRAL or \
+            _relation_table_size(system) * SECONDS_PER_LINEAR_PROGRAM <= cheapest * SECONDS_PER_PATH:
         started = time.perf_counter()
         polyhedral = PolyhedralStart.random(system.polynomials, rng)
         counts[StartKind.POLYHEDRAL.value] = polyhedral.n_paths
@@ -166,14 +171,16 @@ def choose_start(system, kind, groups=None, rng=None):
             return StartChoice(kind, counts, "asked for", polyhedral=polyhedral, setup_seconds=seconds)
     others = {k: v for k, v in counts.items() if k != StartKind.POLYHEDRAL.value}
     best_other = min(others, key=lambda k: (others[k], k != StartKind.TOTAL_DEGREE.value))
-    if polyhedral is not None and polyhedral.n_paths <= POLYHEDRAL_SHARE * others[best_other]:
+    # the set-up estimated from the linear programs solved, not from the clock: the same seed makes the
+    # same choice on every machine
+    setup = polyhedral.linear_programs * SECONDS_PER_LINEAR_PROGRAM if polyhedral is not None else None
+    if polyhedral is not None and setup + polyhedral.n_paths * SECONDS_PER_PATH < others[best_other] * SECONDS_PER_PATH:
         return StartChoice(StartKind.POLYHEDRAL, counts,
-                           f"the mixed volume {polyhedral.n_paths} is at most {POLYHEDRAL_SHARE:g} times the "
-                           f"{best_other} count {others[best_other]}, which pays for tracking its paths in two "
-                           "stages",
-                           chosen_groups, polyhedral, seconds)
+                           f"the mixed volume {polyhedral.n_paths} is below the {best_other} count "
+                           f"{others[best_other]} by more paths than its {polyhedral.linear_programs} linear "
+                           "programs cost", chosen_groups, polyhedral, seconds)
     note = "" if polyhedral is not None else \
-        "; the mixed volume was not computed (the mixed-cell search would be too large to pay)"
+        "; the mixed volume was not computed (its cell search would cost more than tracking these paths)"
     if best_other == StartKind.MULTIHOMOGENEOUS.value and len(chosen_groups.groups) > 1:
         return StartChoice(StartKind.MULTIHOMOGENEOUS, counts, "the smallest count" + note, chosen_groups,
                            polyhedral, seconds)
