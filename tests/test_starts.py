@@ -295,3 +295,23 @@ def test_lost_first_stage_paths_become_a_warning():
     assert "2 path(s) of the polyhedral start's first stage" in completeness_warnings({"start": block})[0]
     block["random_system_paths"]["converged"] = 9
     assert completeness_warnings({"start": block}) == []
+
+
+@pytest.mark.parametrize("kind", ["total-degree", "multihomogeneous"])
+def test_precise_start_evaluation_agrees_with_double(kind):
+    # the precision rescue evaluates the homotopy in mpmath: it must be the same H, dH/dX and dH/ds as
+    # the batched double evaluation (mpmath as the reference; common practice, no source)
+    import mpmath
+    system = parse_system(["x*u + y*v - 1", "x*v - y + 2*u", "x + y - 1 + x*y", "u - v + 3"], ["x", "y", "u", "v"])
+    rng = np.random.default_rng(8)
+    homotopy = (StraightLineHomotopy.total_degree(system, rng) if kind == "total-degree" else
+                StraightLineHomotopy.multihomogeneous(system, VariableGroups.of(system, [["x", "y"], ["u", "v"]]), rng))
+    point = rng.standard_normal(5) + 1j * rng.standard_normal(5)
+    s = 0.37
+    values, jacobian, derivative = homotopy.evaluate(point[None, :], np.array([s]))
+    with mpmath.workdps(30):
+        precise = homotopy.evaluate_precise([mpmath.mpc(z.real, z.imag) for z in point], mpmath.mpf(s), mpmath.mp)
+    as_array = lambda m: np.array(m.tolist(), dtype=complex)
+    assert np.allclose(as_array(precise[0]).ravel(), values[0], rtol=1e-12, atol=1e-12)
+    assert np.allclose(as_array(precise[1]), jacobian[0], rtol=1e-12, atol=1e-12)
+    assert np.allclose(as_array(precise[2]).ravel(), derivative[0], rtol=1e-12, atol=1e-12)
