@@ -40,9 +40,13 @@ from .singular.locus import SingularOptions, singular_locus  # noqa: E402
 from .certify.records import CertifyOptions  # noqa: E402
 from .certify.certificates import (certify_rank, certify_regular_zero, certify_singular_point,  # noqa: E402
                                    certify_smooth_point, overlapping_pairs)
+from .tracking.starts import StartKind, choose_start  # noqa: E402
+from .tracking.polyhedral import mixed_volume  # noqa: E402
+from .singular.isolated import isolated_singular_points  # noqa: E402
 
 __all__ = ["NumagError", "parse_system", "parse_polynomial", "Polynomial", "PolynomialSystem",
            "BatchEvaluator", "CheckOptions", "check_points", "load_system", "SolveOptions", "solve_system",
            "continue_solutions", "DecomposeOptions", "decompose", "components_through", "SingularOptions",
            "singular_locus", "CertifyOptions", "certify_regular_zero", "certify_singular_point",
-           "certify_smooth_point", "certify_rank", "overlapping_pairs", "__version__"]
+           "certify_smooth_point", "certify_rank", "overlapping_pairs", "StartKind", "choose_start", "mixed_volume",
+           "isolated_singular_points", "__version__"]
