@@ -250,6 +250,7 @@ def command_line(tally, folder, rng, quick):
              "twice": 'variables = ["x", "x"]\nequations = ["x"]', "not homogeneous":
              'variables = ["x", "y"]\nequations = ["x - 1"]\nprojective = true',
              "angles": 'variables = ["x"]\nequations = ["x"]\nangles = { a = ["x", "q"] }',
+             "groups": 'variables = ["x", "y"]\nequations = ["x*y", "x"]\ngroups = [["x"], ["x", "y"], 3]',
              "latin1": "variables = [\"\xe9\"]", "huge": "# " + "x" * (51 * 1024 * 1024)}
     for name, text in texts.items():
         path = folder / f"text-{name.replace(' ', '-')}.toml"

@@ -60,6 +60,8 @@ _PUBLIC = {
     "overlapping_pairs": "certify.certificates",
     "point_anatomy": "anatomy.survey", "component_anatomy": "anatomy.survey", "locus_anatomy": "anatomy.survey",
     "save": "app.saved", "load": "app.saved",
+    "StartKind": "tracking.starts", "choose_start": "tracking.starts", "mixed_volume": "tracking.polyhedral",
+    "isolated_singular_points": "singular.isolated",
 }
 
 __all__ = ["NumagError", "parse_system", "parse_polynomial", "Polynomial", "PolynomialSystem",
@@ -68,8 +70,8 @@ __all__ = ["NumagError", "parse_system", "parse_polynomial", "Polynomial", "Poly
            "singular_locus", "CertifyOptions", "certify_regular_zero", "certify_singular_point",
            "certify_smooth_point", "certify_rank", "overlapping_pairs", "load_family", "DiscriminantOptions",
            "discriminant", "SweepOptions", "sweep", "load_result", "save_result", "point_anatomy",
-           "component_anatomy", "locus_anatomy", "save", "load", "System",
-           "__version__"]
+           "component_anatomy", "locus_anatomy", "save", "load", "System", "StartKind", "choose_start",
+           "mixed_volume", "isolated_singular_points", "__version__"]
 
 
 def __getattr__(name):

@@ -80,6 +80,17 @@ def test_system_files_load_or_are_refused(tmp_path, variables, equations, extra)
         pass
 
 
+@_FAST
+@given(groups=_JSON)
+def test_variable_groups_load_or_are_refused(tmp_path, groups):
+    path = tmp_path / "system.toml"
+    path.write_text(f'variables = ["x", "y"]\nequations = ["x*y - 1", "x + y"]\ngroups = {json.dumps(groups)}\n')
+    try:
+        load_system(path)
+    except InputError:
+        pass
+
+
 # --- points files (JSON) -----------------------------------------------------------------------------
 
 @_FAST

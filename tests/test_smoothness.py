@@ -244,6 +244,6 @@ def test_clear_rank_drops_are_settled_in_double_with_the_same_verdicts(seed, mon
     cases = [(node, [[1e-10, 0], [3, 6]]), (four_bar, [[-2, 1e-10, 1, 0], crank_up])]
     fast = [[v.verdict for v in check_points(s, points, seed=seed).points] for s, points in cases]
     assert fast == [["singular", "smooth"]] * 2 and not escalations
-    monkeypatch.setattr(smoothness._Checker, "settle_in_double", lambda self, *args: None)
+    monkeypatch.setattr(smoothness._Checker, "settle_in_double", lambda self, *args, **kwargs: None)
     assert [[v.verdict for v in check_points(s, points, seed=seed).points] for s, points in cases] == fast
     assert len(escalations) == 2

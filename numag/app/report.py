@@ -181,6 +181,13 @@ def completeness_warnings(data):
         reasons = ", ".join(f"{k} {v}" for k, v in (paths.get("failed_by_reason") or {}).items() if v)
         warnings.append(f"{failed} path(s) failed ({reasons}): what they lead to (solutions, witness points, "
                         "singular candidates) may be missing; run again with another --seed to compare.")
+    first_stage = ((data.get("start") or {}).get("random_system_paths") or {}) if isinstance(data.get("start"),
+                                                                                          dict) else {}
+    lost = int(first_stage.get("tracked", 0)) - int(first_stage.get("converged", 0)) \
+        - int(first_stage.get("singular_endpoint", 0))
+    if lost > 0:  # a first-stage path that did not reach a regular solution of the random system starts no path
+        warnings.append(f"{lost} path(s) of the polyhedral start's first stage did not reach a regular solution of "
+                        "the random system: solutions they lead to may be missing; run again with another --seed.")
     unsettled = int((data.get("discarded") or {}).get("not_settled_on_X", 0)) if isinstance(
         data.get("discarded"), dict) else 0
     if unsettled:
@@ -277,7 +284,7 @@ def solve_report_to_dict(result, options):
         "system": system_to_dict(result.system),
         "scaling": _scaling_to_dict(result.scaling, result.system),
         "options": {"digits": options.refine_digits, "cluster_tolerance": options.cluster_tolerance,
-                    "square_up": options.square_up, "batch_size": options.batch_size},
+                    "square_up": options.square_up, "batch_size": options.batch_size, "start": options.start},
         "paths": result.path_counts(),
         "components": components,
         "solutions": [_solution_to_dict(s) for s in result.solutions],
@@ -288,6 +295,7 @@ def solve_report_to_dict(result, options):
         "seconds": result.seconds,
         "evaluations": result.evaluations,
         "execution": result.extra.get("execution"),
+        "start": result.extra.get("start"),
         "steps": {"median": float(np.median(result.steps)) if len(result.steps) else 0.0,
                   "max": int(result.steps.max()) if len(result.steps) else 0},
         "path_status": [PathStatus(int(code)).label for code in result.status],
@@ -304,7 +312,8 @@ def solve_report_from_dict(data):
     system = _report_system(data, "solve")
     o = data["options"]
     options = SolveOptions(tracker=TrackerOptions(), cluster_tolerance=o["cluster_tolerance"],
-                           refine_digits=o["digits"], square_up=o["square_up"], batch_size=o["batch_size"])
+                           refine_digits=o["digits"], square_up=o["square_up"], batch_size=o["batch_size"],
+                           start=o.get("start", "total-degree"))
     try:
         status = np.array([int(_STATUS_BY_LABEL[label]) for label in data["path_status"]], dtype=np.int64)
     except KeyError as err:
@@ -320,6 +329,8 @@ def solve_report_from_dict(data):
         discarded=[_solution_from_dict(d) for d in data["discarded"]])
     if data.get("execution") is not None:
         result.extra["execution"] = data["execution"]
+    if data.get("start") is not None:
+        result.extra["start"] = data["start"]
     result.scaling = _scaling_from_dict(data, system)
     return result, options
 

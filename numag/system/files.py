@@ -23,6 +23,9 @@ A system file is TOML (an open standard) with these keys:
     (``--at b=3``) or study the family (``numag discriminant``, ``numag sweep``).
 ``ranges``
     optional table ``b = [low, high]`` giving parameters a real interval.
+``groups``
+    optional list of lists of variable names, ``groups = [["x", "y"], ["l"]]``: the variable
+    groups of a multihomogeneous start (``--start multihomogeneous``); every variable in one group.
 
 Points are written ``x=1, y=2+I/2`` (values in the equation grammar), or
 read from a JSON file: a list whose items are objects ``{"x": "1/3", "y": 2}``
@@ -56,11 +59,13 @@ try:  # Python >= 3.11
 except ModuleNotFoundError:  # pragma: no cover - older Pythons get the backport from setup.cfg
     import tomli as _toml
 
-__all__ = ["SYSTEM_KEYS", "load_system", "load_family", "family_from_mapping", "system_from_mapping", "parse_point_assignment", "load_points",
-           "points_from_json", "load_angles", "angles_from_mapping"]
+__all__ = ["SYSTEM_KEYS", "load_system", "load_family", "family_from_mapping", "system_from_mapping",
+           "parse_point_assignment", "load_points", "points_from_json", "load_angles", "angles_from_mapping",
+           "load_groups", "groups_from_mapping"]
 
 #: Keys a system file may contain.
-SYSTEM_KEYS = ("variables", "equations", "projective", "name", "description", "angles", "parameters", "ranges")
+SYSTEM_KEYS = ("variables", "equations", "projective", "name", "description", "angles", "parameters", "ranges",
+               "groups")
 
 
 def _read_toml(path):
@@ -106,6 +111,40 @@ def angles_from_mapping(data, variables, path=None):
 def load_angles(path, variables):
     """The ``angles`` table of a system file (empty when there is none); see :func:`angles_from_mapping`."""
     return angles_from_mapping(_read_toml(path), list(variables), os.fspath(path))
+
+
+def groups_from_mapping(data, variables, path=None):
+    """The ``groups`` list: a tuple of tuples of variable names, or None without one.
+
+    Examples
+    --------
+    >>> groups_from_mapping({"groups": [["x", "y"], ["l"]]}, ["x", "y", "l"])
+    (('x', 'y'), ('l',))
+    """
+    if "groups" not in data:
+        return None
+    groups = data["groups"]
+    if not isinstance(groups, list) or not groups or not all(
+            isinstance(g, list) and g and all(isinstance(name, str) for name in g) for g in groups):
+        raise SystemFileError("'groups' must be a list of non-empty lists of variable names", path, "groups")
+    seen = set()
+    for g, group in enumerate(groups, 1):
+        for name in group:
+            if name not in variables:
+                raise SystemFileError(f"group {g} names {name[:40]!r}, which is not a variable", path, "groups")
+            if name in seen:
+                raise SystemFileError(f"variable {name!r} is in two groups", path, "groups")
+            seen.add(name)
+    missing = [name for name in variables if name not in seen]
+    if missing:
+        raise SystemFileError(f"variable {missing[0]!r} is in no group: every variable must be in one", path,
+                              "groups")
+    return tuple(tuple(g) for g in groups)
+
+
+def load_groups(path, variables):
+    """The ``groups`` of a system file (None when there are none); see :func:`groups_from_mapping`."""
+    return groups_from_mapping(_read_toml(path), list(variables), os.fspath(path))
 
 
 def load_system(path):
@@ -229,6 +268,7 @@ def system_from_mapping(data, path=None, allow_parameters=False):
     if parameters and not allow_parameters:
         raise SystemFileError(f"describes a family with parameters {', '.join(parameters)}: give their values "
                               f"(--at {parameters[0]}=...)", path, "parameters")
+    groups_from_mapping(data, data["variables"], path)  # validated here, read by load_groups
     try:
         return parse_system(data["equations"], list(data["variables"]) + parameters, projective=projective, name=name)
     except ParseError as err:

@@ -29,6 +29,7 @@ import numpy as np
 
 from ..errors import InputError
 from ..numeric.evaluate import BatchEvaluator, PrecisionEvaluator, TermSizes
+from .multihomogeneous import MultihomogeneousStart, homogenized_to
 
 __all__ = ["TotalDegreeStart", "StraightLineHomotopy", "ParameterHomotopy", "random_unit_complex"]
 
@@ -87,6 +88,19 @@ class TotalDegreeStart:
             d = int(self.degrees[0])
             return rest ** d - x0 ** d
         return rest ** self.degrees[None, :] - x0 ** self.degrees[None, :]
+
+    def evaluate_precise(self, point, ctx):
+        """G and its Jacobian at one point in an mpmath context (lists of rows)."""
+        x0 = point[0]
+        size = len(self.degrees) + 1
+        values, jacobian = [], []
+        for i, d in enumerate(int(d) for d in self.degrees):
+            values.append(point[i + 1] ** d - x0 ** d)
+            row = [ctx.mpf(0)] * size
+            row[0] = -d * x0 ** (d - 1)
+            row[i + 1] = d * point[i + 1] ** (d - 1)
+            jacobian.append(row)
+        return values, jacobian
 
     def solutions(self, path_indices=None):
         """Start solutions with X_0 = 1, in a fixed order (path k is the same whatever the batch)."""
@@ -168,6 +182,22 @@ class StraightLineHomotopy(_PatchedHomotopy):
         return cls(target, TotalDegreeStart(system.degrees), patch, random_unit_complex(rng),
                    homogenized=not system.projective)
 
+    @classmethod
+    def multihomogeneous(cls, system, groups, rng):
+        """Homotopy from a product of random linear forms respecting ``groups`` (an affine square system).
+
+        Each target equation is homogenised to the total degree of its start equation (see
+        :mod:`numag.tracking.multihomogeneous`), then divided by its coefficient norm.
+        """
+        if system.projective or system.n_equations != system.n_variables:
+            raise InputError("a multihomogeneous start needs a square affine system")
+        start = MultihomogeneousStart.random(system.polynomials, groups, rng)
+        target = [homogenized_to(p, int(d)).scaled(1.0 / p.coefficient_norm())
+                  for p, d in zip(system.polynomials, start.degrees)]
+        size = len(target) + 1
+        patch = (rng.standard_normal(size) + 1j * rng.standard_normal(size)) / np.sqrt(2 * size)
+        return cls(target, start, patch, random_unit_complex(rng))
+
     def start_solutions(self, path_indices=None):
         """Start solutions scaled onto the patch."""
         points = self.start.solutions(path_indices)
@@ -182,18 +212,14 @@ class StraightLineHomotopy(_PatchedHomotopy):
             self._precise = PrecisionEvaluator(self.target)
         size = self.size
         f_values, f_jac = self._precise.evaluate(point, ctx)
+        g_values, g_jac = self.start.evaluate_precise(point, ctx)
         gamma = ctx.mpc(self.gamma.real, self.gamma.imag)
-        degrees = [int(d) for d in self.start.degrees]
         values, jacobian, derivative = ctx.matrix(size, 1), ctx.matrix(size, size), ctx.matrix(size, 1)
-        x0 = point[0]
-        for i, d in enumerate(degrees):
-            g = point[i + 1] ** d - x0 ** d
-            values[i] = (1 - s) * f_values[i] + s * gamma * g
-            derivative[i] = gamma * g - f_values[i]
+        for i in range(size - 1):
+            values[i] = (1 - s) * f_values[i] + s * gamma * g_values[i]
+            derivative[i] = gamma * g_values[i] - f_values[i]
             for j in range(size):
-                jacobian[i, j] = (1 - s) * f_jac[i, j]
-            jacobian[i, 0] += s * gamma * (-d * x0 ** (d - 1))
-            jacobian[i, i + 1] += s * gamma * d * point[i + 1] ** (d - 1)
+                jacobian[i, j] = (1 - s) * f_jac[i, j] + s * gamma * g_jac[i][j]
         self._precise_patch_row(values, jacobian, point, ctx)
         return values, jacobian, derivative
 
@@ -215,7 +241,11 @@ class StraightLineHomotopy(_PatchedHomotopy):
         n = size - 1
         raw = self.evaluator.raw(points)  # [F | rows of J_F | zeros for the patch row]
         f_values = raw[:, :n]
-        g_values, g_diagonal, g_first = self.start.evaluate_parts(points)
+        sparse = hasattr(self.start, "evaluate_parts")
+        if sparse:
+            g_values, g_diagonal, g_first = self.start.evaluate_parts(points)
+        else:  # a start with a dense Jacobian (products of linear forms)
+            g_values, g_jacobian = self.start.evaluate(points)
         weight_f = (1 - s)[:, None]
         weight_g = (s * self.gamma)[:, None]
         values = np.empty((count, size), dtype=complex)
@@ -223,10 +253,12 @@ class StraightLineHomotopy(_PatchedHomotopy):
         values[:, -1] = points @ self.patch - 1
         jacobian = raw[:, n:].reshape(count, size, size)  # a view: (1 - s) J_F, then G, then the patch
         jacobian[:, :-1, :] *= weight_f[:, :, None]
-        # G's Jacobian is sparse: a diagonal (in X_1..X_n) and the column of X_0
-        index = np.arange(size - 1)
-        jacobian[:, index, index + 1] += weight_g * g_diagonal
-        jacobian[:, :-1, 0] += weight_g * g_first
+        if sparse:  # the total-degree G's Jacobian: a diagonal (in X_1..X_n) and the column of X_0
+            index = np.arange(size - 1)
+            jacobian[:, index, index + 1] += weight_g * g_diagonal
+            jacobian[:, :-1, 0] += weight_g * g_first
+        else:
+            jacobian[:, :-1, :] += weight_g[:, :, None] * g_jacobian
         jacobian[:, -1, :] = self.patch
         derivative = np.zeros((count, size), dtype=complex)
         derivative[:, :-1] = self.gamma * g_values - f_values

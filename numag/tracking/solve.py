@@ -1,6 +1,7 @@
 """Isolated solutions of a square polynomial system (``numag solve``).
 
-Pipeline: total-degree homotopy in projective coordinates on a random patch
+Pipeline: a homotopy from a start system (total degree, multihomogeneous or polyhedral:
+:mod:`numag.tracking.starts`) in projective coordinates on a random patch
 (:mod:`numag.tracking.homotopy`), batched tracking with the Cauchy endgame
 (:mod:`numag.tracking.tracker`), endpoints grouped into distinct points
 (:mod:`numag.numeric.cluster`), then for every singular group a local test of
@@ -38,6 +39,8 @@ from ..numeric.refine import IsolationTest, mp_gauss_newton
 from ..numeric.scaling import Scaling
 from ..numeric.seeds import random_state
 from .homotopy import ParameterHomotopy, StraightLineHomotopy
+from .polyhedral import track_cells
+from .starts import StartKind, choose_start
 from .service import PathCounts, track
 from .tracker import PathStatus, StartArray, TrackerOptions
 
@@ -60,6 +63,11 @@ class SolveOptions:
         (this can add spurious solutions; each is then checked against all equations).
     batch_size : int
         Paths tracked together.
+    start : str
+        The start system (``--start``): "total-degree", "multihomogeneous", "polyhedral" or
+        "auto" (see :mod:`numag.tracking.starts`).
+    groups : tuple of tuple of str, optional
+        Variable groups of the multihomogeneous start (default: the grouping with the smallest count).
     """
 
     tracker: TrackerOptions = TrackerOptions()
@@ -67,9 +75,12 @@ class SolveOptions:
     refine_digits: int = 30
     square_up: bool = False
     batch_size: int = 4096
+    start: str = "total-degree"
+    groups: tuple = None
 
     def __post_init__(self):
         """Refuse a bad value on construction, naming the option."""
+        StartKind.parse(self.start)  # an unknown start is refused naming the choices
         require_option(is_number(self.cluster_tolerance) and 0 < self.cluster_tolerance < 1, "cluster_tolerance",
                        "in (0, 1)", self.cluster_tolerance)
         require_option(is_integer(self.refine_digits) and 16 <= self.refine_digits <= 10000,
@@ -257,7 +268,7 @@ def _refine_mp(system, point, digits):
 
 
 def solve_system(system, options=None, seed=None, progress=None, execution=None):
-    """Isolated solutions of a square system by total-degree homotopy continuation.
+    """Isolated solutions of a square system by homotopy continuation from the start of ``options.start``.
 
     Parameters
     ----------
@@ -292,13 +303,36 @@ def solve_system(system, options=None, seed=None, progress=None, execution=None)
     scaling = Scaling.balancing(system)
     computed = scaling.scale_system(system)
     target, squared = _square_target(computed, options, rng)
-    def fresh_homotopy():  # another gamma and patch for every path (one round of the jump repair)
-        made = StraightLineHomotopy.total_degree(target, rng)
-        return made, made.start_solutions
+    choice = choose_start(target, StartKind.parse(options.start), options.groups, rng)
+    stage_one = None
+    if choice.kind == StartKind.POLYHEDRAL:
+        # the random system on the supports, solved through the mixed cells, then moved to the target
+        # (both stages count against the work limit: every path is tracked twice)
+        charge_paths(choice.n_paths, "the polyhedral homotopy's first stage (the mixed volume)")
+        points, stage_one = track_cells(choice.polyhedral, rng, options.tracker, options.batch_size)
+        random_system = PolynomialSystem(target.variables, choice.polyhedral.random_polynomials())
 
-    homotopy, _ = fresh_homotopy()
-    result = _run(computed, homotopy, homotopy.start_solutions, homotopy.start.n_paths, options, rng, seed, progress,
-                  started, squared, execution, user_system=system, fresh_homotopy=fresh_homotopy)
+        def fresh_homotopy():  # another gamma and patch for every path (one round of the jump repair)
+            made = ParameterHomotopy.from_systems(random_system, target, rng)
+            return made, made.start_solutions_from(points)
+
+        homotopy, starts = fresh_homotopy()
+        starts, total = StartArray(starts), len(starts)
+    else:
+        def fresh_homotopy():  # another gamma and patch for every path (one round of the jump repair)
+            made = (StraightLineHomotopy.multihomogeneous(target, choice.groups, rng)
+                    if choice.kind == StartKind.MULTIHOMOGENEOUS else StraightLineHomotopy.total_degree(target, rng))
+            return made, made.start_solutions
+
+        homotopy, starts = fresh_homotopy()
+        total = homotopy.start.n_paths
+    result = _run(computed, homotopy, starts, total, options, rng, seed, progress,
+                  started, squared, execution, user_system=system, fresh_homotopy=fresh_homotopy,
+                  what=f"the {choice.kind.value} homotopy")
+    block = choice.report()
+    if stage_one is not None:
+        block["random_system_paths"] = stage_one.report()
+    result.extra["start"] = block
     return _in_user_units(result, system, scaling)
 
 
@@ -371,7 +405,9 @@ def manifest_for(system, options, seed, total):
             "system": {"variables": list(system.variables), "equations": system.to_texts(),
                        "projective": system.projective, "name": system.name},
             "options": {"batch_size": options.batch_size, "cluster_tolerance": options.cluster_tolerance,
-                        "refine_digits": options.refine_digits, "square_up": options.square_up},
+                        "refine_digits": options.refine_digits, "square_up": options.square_up,
+                        "start": options.start, "groups": None if options.groups is None else
+                        [list(g) for g in options.groups]},
             "paths": int(total), "batches": -(-int(total) // options.batch_size)}
 
 
@@ -411,7 +447,7 @@ def _executor_of(execution, batches):
 
 
 def _run(system, homotopy, start_points, total, options, rng, seed, progress, started, squared, execution=None,
-         user_system=None, fresh_homotopy=None):
+         user_system=None, fresh_homotopy=None, what="the parameter homotopy"):
     """Track all paths (:func:`~numag.tracking.service.track`), then group the endpoints into solutions.
 
     ``system`` is the system in the units of the computation; ``user_system`` (default: the
@@ -420,8 +456,7 @@ def _run(system, homotopy, start_points, total, options, rng, seed, progress, st
     execution = execution or Execution()
     user_system = system if user_system is None else user_system
     # the work guard, before anything of the paths' size is allocated
-    charge_paths(total, "the total-degree homotopy (its Bezout number)" if isinstance(homotopy, StraightLineHomotopy)
-                 else "the parameter homotopy")
+    charge_paths(total, what)
     check_memory(total * (homotopy.size * 16 + 80), f"keeping {total} paths")
     folder = _open_folder(execution, lambda: manifest_for(user_system, options, seed, total))
     executor = _executor_of(execution, -(-total // options.batch_size))

@@ -1,10 +1,11 @@
 """``numag solve``: isolated solutions of a square system, with run folders and ``--resume``."""
 
 from ...errors import NumagError
-from ...system.files import system_from_mapping
+from ...system.files import load_groups, system_from_mapping
 from ...run.checkpoint import RunFolder
 from ...numeric.seeds import resolved_seed
 from ...tracking.solve import Execution, SolveOptions, solve_system
+from ...tracking.starts import StartKind
 from ..report import CAUTION, dumps, solve_report_to_dict
 from .certify import _certified, _doubtful, _print_certification
 from . import SUMMARIES
@@ -18,7 +19,7 @@ def add_parser(commands):
     """Add ``numag solve`` to the sub-parsers ``commands`` of the command line."""
     solve = commands.add_parser(
         "solve", help=SUMMARIES["solve"],
-        description="Track every path of a total-degree homotopy and report the distinct isolated "
+        description="Track every path of a homotopy from a start system (--start) and report the distinct isolated "
                     "solutions with multiplicities, the points at infinity, and every path's fate.")
     solve.add_argument("system_file", metavar="FILE", nargs="?",
                        help="system file (TOML); not needed with --resume (the run folder has the system)")
@@ -28,6 +29,10 @@ def add_parser(commands):
                        help="allow more equations than unknowns (random combinations; solutions rechecked)")
     solve.add_argument("--batch-size", type=_count(1, 10**7), default=SolveOptions.batch_size, metavar="N",
                        help="paths tracked together (default %(default)s)")
+    solve.add_argument("--start", choices=[k.value for k in StartKind], default=SolveOptions.start,
+                       help="start system: total-degree (Bezout number of paths), multihomogeneous (variable groups "
+                            "from the file's 'groups' or the best found), polyhedral (mixed volume of paths), or auto "
+                            "(the cheapest worth its set-up; default %(default)s)")
     solve.add_argument("--seed", type=_seed, help="seed of the random choices (recorded in the report)")
     solve.add_argument("--json", action="store_true", help="print the report as JSON (no progress lines)")
     _add_executor_options(solve)
@@ -51,6 +56,13 @@ def _print_solve(result, out, data=None):
               f"{counts['failed']} failed ({failed}); {counts['retracked']} re-tracked, "
               f"{counts['rescued_in_high_precision']} of them in high precision; "
               f"{result.seconds:.2f} s\n")
+    start = result.extra.get("start")
+    if start:
+        counts = ", ".join(f"{name} {count}" for name, count in start["paths"].items())
+        out.write(f"start: {start['chosen']} ({start['reason']}); paths by start: {counts}"
+                  + (f"; groups {start['groups']['groups']}" if start["chosen"] == "multihomogeneous" else "")
+                  + (f"; roots with zero coordinates: {start['zero_coordinates']}" if start["chosen"] == "polyhedral"
+                     else "") + "\n")
     execution = result.extra.get("execution")
     if execution:
         failed = execution["failed_batches"]
@@ -105,9 +117,11 @@ def run(args, out):
             system = system_from_mapping({k: v for k, v in manifest["system"].items() if v is not None},
                                          path=f"{args.resume}/manifest.json")
             saved = manifest["options"]
+            groups = saved.get("groups")
             options = SolveOptions(refine_digits=saved["refine_digits"], square_up=saved["square_up"],
-                                   batch_size=saved["batch_size"],
-                                   cluster_tolerance=saved["cluster_tolerance"]).validated()
+                                   batch_size=saved["batch_size"], cluster_tolerance=saved["cluster_tolerance"],
+                                   start=saved.get("start", SolveOptions.start),
+                                   groups=None if groups is None else tuple(tuple(g) for g in groups)).validated()
             seed = _checked_seed(manifest["seed"], f"the seed in {args.resume}/manifest.json")
         except (KeyError, TypeError, AttributeError):
             raise NumagError(f"{args.resume}/manifest.json is damaged: it does not describe a solve run") from None
@@ -117,7 +131,11 @@ def run(args, out):
         if args.system_file is None:
             raise NumagError("a system file is needed (or --resume DIR)")
         system = _load(args)
-        options = SolveOptions(refine_digits=args.digits, square_up=args.square_up, batch_size=args.batch_size)
+        groups = load_groups(args.system_file, system.variables)
+        if groups is not None and args.start not in (StartKind.MULTIHOMOGENEOUS.value, StartKind.AUTO.value):
+            groups = None  # the file's groups serve the multihomogeneous start only
+        options = SolveOptions(refine_digits=args.digits, square_up=args.square_up, batch_size=args.batch_size,
+                               start=args.start, groups=groups)
         seed = args.seed
         if args.run_folder and seed is None:  # a saved run must be reproducible: fix the seed now
             seed = resolved_seed(seed)

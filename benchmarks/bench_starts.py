@@ -1,0 +1,126 @@
+"""Start systems side by side: paths, solutions, set-up and total time per family and start.
+
+Run:  python benchmarks/bench_starts.py [--quick] [--seed 1]
+
+Families: cyclic n-roots (70, 156, 924 and 1152 isolated roots for n = 5..8; Bjorck and Froberg
+1991, from memory; cyclic 8 also has a one-dimensional set), katsura n (2^n roots, the Bezout number;
+from memory), eigenvalue problems (A - lambda I) v = 0, c . v = 1 of random n x n matrices (n
+eigenpairs), and the square null-vector systems of shared problems with isolated singular points
+(:mod:`numag.singular.isolated`). Each is solved with every start that applies; the columns are
+the paths tracked, the isolated solutions found, the start's set-up (the grouping, or the mixed cells
+and their linear programs) and the whole solve. Results go to benchmarks/results/bench_starts.md.
+"""
+
+import argparse
+import json
+import os
+import pathlib
+import time
+
+import numpy as np
+
+import checkout  # noqa: F401  (this checkout's numag, not an installed one)
+from numag.singular.isolated import isolated_singular_points
+from numag.system.parse import parse_system
+from numag.tracking.solve import SolveOptions, solve_system
+
+STARTS = ("total-degree", "multihomogeneous", "polyhedral")
+
+
+def cyclic(n):
+    names = [f"z{i}" for i in range(n)]
+    equations = [" + ".join("*".join(names[(i + j) % n] for j in range(k)) for i in range(n)) for k in range(1, n)]
+    equations.append("*".join(names) + " - 1")
+    return parse_system(equations, names, name=f"cyclic {n}")
+
+
+def katsura(n):
+    names = [f"u{i}" for i in range(n + 1)]
+
+    def u(index):
+        return names[abs(index)] if abs(index) <= n else None
+
+    equations = []
+    for m in range(n):
+        terms = [f"{u(l)}*{u(m - l)}" for l in range(-n, n + 1) if u(l) and u(m - l)]
+        equations.append(" + ".join(terms) + f" - {names[m]}")
+    equations.append(" + ".join([names[0]] + [f"2*{v}" for v in names[1:]]) + " - 1")
+    return parse_system(equations, names, name=f"katsura {n}")
+
+
+def eigenproblem(n, seed):
+    rng = np.random.default_rng(seed)
+    matrix, normal = rng.standard_normal((n, n)), rng.standard_normal(n)
+    names = [f"v{k}" for k in range(n)]
+    equations = [" + ".join(f"({float(matrix[i, j])!r})*{names[j]}" for j in range(n)) + f" - l*{names[i]}"
+                 for i in range(n)]
+    equations.append(" + ".join(f"({float(normal[j])!r})*{names[j]}" for j in range(n)) + " - 1")
+    return parse_system(equations, names + ["l"], name=f"eigenproblem {n}x{n}")
+
+
+def solve_row(system, start, seed):
+    started = time.perf_counter()
+    result = solve_system(system, SolveOptions(start=start), seed=seed)
+    seconds = time.perf_counter() - started
+    block = result.extra["start"]
+    counts = result.path_counts()
+    return {"family": system.name, "start": block["chosen"], "reason": block["reason"], "paths": counts["tracked"],
+            "failed": counts["failed"],
+            "solutions": len(result.solutions), "setup_s": round(block["setup_seconds"].get(start, 0.0), 2),
+            "total_s": round(seconds, 2), "counts": block["paths"]}
+
+
+def null_vector_row(name, problem, start, seed):
+    system = parse_system(problem["equations"], problem["variables"])
+    started = time.perf_counter()
+    found = isolated_singular_points(system, start, seed=seed)
+    seconds = time.perf_counter() - started
+    return {"family": f"null vector of {name}", "start": start, "paths": found.paths, "failed": found.failed,
+            "solutions": len(found.points), "setup_s": round(found.start["setup_seconds"].get(start, 0.0), 2),
+            "total_s": round(seconds, 2), "counts": found.start["paths"]}
+
+
+def main():
+    parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
+    parser.add_argument("--quick", action="store_true", help="small sizes only (a few minutes)")
+    parser.add_argument("--seed", type=int, default=1)
+    args = parser.parse_args()
+    if args.quick:
+        cyclics, katsuras, eigens = (5, 6), (3, 4), (4, 6)
+        shared = ("node", "four_generic_lines", "trifolium_triple_point", "cone_over_smooth_plane_cubic")
+    else:
+        cyclics, katsuras, eigens = (5, 6, 7, 8), (3, 4, 5, 6), (4, 6, 8)
+        shared = ("node", "cusp", "four_generic_lines", "chebyshev_T4x_eq_T5y", "trifolium_triple_point",
+                  "cone_over_smooth_plane_cubic")
+    rows = []
+    systems = [cyclic(n) for n in cyclics] + [katsura(n) for n in katsuras] + \
+        [eigenproblem(n, args.seed + n) for n in eigens]
+    for system in systems:
+        for start in STARTS:
+            if start == "total-degree" and system.name in ("cyclic 8",):
+                continue  # 40,320 paths: beyond this benchmark's budget on a shared machine
+            row = solve_row(system, start, args.seed)
+            if start != "total-degree" and row["start"] != start:
+                print(f"{system.name}: {start} fell back to {row['start']} ({row['reason']})", flush=True)
+                continue
+            rows.append(row)
+            print(json.dumps(rows[-1]), flush=True)
+    problems = {p["name"]: p for p in json.loads((pathlib.Path(__file__).resolve().parent.parent / "tests" / "data"
+                                                   / "problems.json").read_text())}
+    for name in shared:
+        for start in ("total-degree", "multihomogeneous"):
+            rows.append(null_vector_row(name, problems[name], start, args.seed))
+            print(json.dumps(rows[-1]), flush=True)
+    lines = ["| family | start | paths | failed | solutions | set-up s | total s |", "|---|---|---|---|---|---|---|"]
+    lines += [f"| {r['family']} | {r['start']} | {r['paths']} | {r['failed']} | {r['solutions']} | {r['setup_s']} | "
+              f"{r['total_s']} |" for r in rows]
+    table = "\n".join(lines)
+    print(table)
+    out = pathlib.Path(__file__).resolve().parent / "results"
+    os.makedirs(out, exist_ok=True)
+    (out / ("bench_starts_quick.md" if args.quick else "bench_starts.md")).write_text(
+        f"python benchmarks/bench_starts.py{' --quick' if args.quick else ''} --seed {args.seed}\n\n{table}\n")
+
+
+if __name__ == "__main__":
+    main()

@@ -1,0 +1,317 @@
+"""Start systems: multihomogeneous counts and starts, mixed volumes and polyhedral starts, the choice."""
+
+import itertools
+import json
+import subprocess
+import sys
+
+import numpy as np
+import pytest
+from scipy.spatial import ConvexHull, QhullError
+
+from numag.errors import InputError
+from numag.numeric.cluster import cluster_labels
+from numag.numeric.evaluate import BatchEvaluator
+from numag.singular.isolated import isolated_singular_points
+from numag.system.parse import parse_system
+from numag.tracking.homotopy import StraightLineHomotopy
+from numag.tracking.multihomogeneous import VariableGroups, best_groups, multihomogeneous_bezout
+from numag.tracking.polyhedral import (PolyhedralStart, ZeroCoordinates, binomial_solutions, mixed_volume,
+                                       smith_normal_form, supports_of)
+from numag.tracking.service import track
+from numag.tracking.solve import SolveOptions, solve_system
+from numag.tracking.starts import StartKind, choose_start
+
+
+def cyclic(n):
+    names = [f"z{i}" for i in range(n)]
+    equations = [" + ".join("*".join(names[(i + j) % n] for j in range(k)) for i in range(n)) for k in range(1, n)]
+    equations.append("*".join(names) + " - 1")
+    return parse_system(equations, names)
+
+
+def eigen_system(matrix, normal):
+    """(A - lambda I) v = 0, c . v = 1 in the unknowns v_1..v_n, lambda."""
+    n = len(matrix)
+    names = [f"v{k}" for k in range(n)]
+    equations = [" + ".join(f"({float(matrix[i, j])!r})*{names[j]}" for j in range(n)) + f" - l*{names[i]}"
+                 for i in range(n)]
+    equations.append(" + ".join(f"({float(normal[j])!r})*{names[j]}" for j in range(n)) + " - 1")
+    return parse_system(equations, names + ["l"])
+
+
+# --- multihomogeneous ---------------------------------------------------------------------------
+
+def test_multihomogeneous_count_of_the_eigenvalue_problem_is_n():
+    # (A - lambda I) v = 0, c . v = 1: n bilinear equations and one linear in v; with groups v and lambda the
+    # count is the coefficient of z1^n z2 in (z1 + z2)^n z1 = n, the number of eigenpairs (Morgan and Sommese
+    # 1987, Appl. Math. Comput., from memory); one group gives the Bezout number 2^n
+    degrees = [[1, 1]] * 6 + [[1, 0]]
+    assert multihomogeneous_bezout(degrees, [6, 1]) == 6
+    assert multihomogeneous_bezout([[2]] * 6 + [[1]], [7]) == 2 ** 6
+
+
+def test_multihomogeneous_count_against_expanding_the_product():
+    # the coefficient of prod z_j^k_j in prod_i sum_j d_ij z_j, expanded term by term (common practice, no source)
+    rng = np.random.default_rng(4)
+    for _ in range(20):
+        sizes = [2, 1, 2]
+        degrees = rng.integers(0, 4, size=(5, 3))
+        expected = 0
+        for choice in itertools.product(range(3), repeat=5):
+            if [choice.count(j) for j in range(3)] == sizes:
+                expected += int(np.prod([degrees[i, j] for i, j in enumerate(choice)]))
+        assert multihomogeneous_bezout(degrees, sizes) == expected
+
+
+def test_best_grouping_of_the_eigenvalue_problem_separates_v_and_lambda():
+    rng = np.random.default_rng(0)
+    system = eigen_system(rng.standard_normal((4, 4)), rng.standard_normal(4))
+    groups, count = best_groups(system)
+    assert count == 4 and groups.names == (("v0", "v1", "v2", "v3"), ("l",))
+
+
+@pytest.mark.parametrize("seed", [0, 1, 2])
+def test_eigenvalues_of_a_random_6x6_matrix_with_six_paths(seed):
+    # the eigenvalues of A with 6 paths of the 2-homogeneous start, against numpy.linalg.eig (LAPACK)
+    rng = np.random.default_rng(100 + seed)
+    matrix = rng.standard_normal((6, 6))
+    system = eigen_system(matrix, rng.standard_normal(6))
+    result = solve_system(system, SolveOptions(start="multihomogeneous", groups=(tuple(f"v{k}" for k in range(6)),
+                                                                                   ("l",))), seed=seed)
+    assert result.path_counts()["tracked"] == 6
+    assert result.extra["start"]["paths"] == {"total-degree": 64, "multihomogeneous": 6}
+    found = np.sort_complex(np.array([s.point[-1] for s in result.solutions]))
+    expected = np.sort_complex(np.linalg.eig(matrix)[0])
+    assert len(found) == 6
+    # each eigenvalue matched to its nearest (sorting complex numbers can swap near-equal real parts)
+    assert max(np.min(np.abs(found - e)) for e in expected) < 1e-8
+    assert max(np.min(np.abs(expected - f)) for f in found) < 1e-8
+
+
+def test_multihomogeneous_start_solutions_are_solutions_and_do_not_depend_on_the_batch():
+    rng = np.random.default_rng(3)
+    system = parse_system(["x*u + y*v - 1", "x*v - y + 2*u", "x + y - 1 + x*y", "u - v + 3"], ["x", "y", "u", "v"])
+    homotopy = StraightLineHomotopy.multihomogeneous(system, VariableGroups.of(system, [["x", "y"], ["u", "v"]]), rng)
+    every = homotopy.start.solutions()
+    assert len(every) == homotopy.start.n_paths == multihomogeneous_bezout([[1, 1], [1, 1], [2, 0], [0, 1]], [2, 2])
+    assert np.max(np.abs(homotopy.start.values(every))) < 1e-12
+    assert np.allclose(homotopy.start.solutions([3, 1]), every[[3, 1]])
+    assert len(cluster_labels(every[:, 1:], 1e-8)) == len(set(cluster_labels(every[:, 1:], 1e-8)))
+
+
+def test_groups_that_are_not_a_partition_are_refused():
+    system = parse_system(["x*y - 1", "x + y"], ["x", "y"])
+    for groups, words in [([["x"]], "'y' is in no group"), ([["x", "y"], ["y"]], "two groups"),
+                          ([["x", "z"]], "not a variable")]:
+        with pytest.raises(InputError, match=words):
+            VariableGroups.of(system, groups)
+
+
+# --- polyhedral ---------------------------------------------------------------------------------
+
+@pytest.mark.parametrize("n, expected", [(5, 70), (6, 156)])
+def test_mixed_volume_of_cyclic_n(n, expected):
+    # cyclic 5: 70, cyclic 6: 156 roots, equal to their mixed volumes (Bjorck and Froberg 1991, from memory)
+    start = PolyhedralStart.random(cyclic(n).polynomials, np.random.default_rng(n))
+    assert start.zero_coordinates == ZeroCoordinates.EXCLUDED  # z_0 ... z_{n-1} = 1: no zero coordinate
+    assert start.n_paths == expected
+
+
+@pytest.mark.parametrize("degrees", [(2, 3), (2, 2, 2), (3, 1, 2)])
+def test_mixed_volume_of_a_dense_system_is_its_bezout_number(degrees):
+    # full supports {|a| <= d_i}: the mixed volume is prod d_i (Bernstein 1975; common practice, no source)
+    n = len(degrees)
+    supports = [np.array([a for a in itertools.product(range(d + 1), repeat=n) if sum(a) <= d]) for d in degrees]
+    assert mixed_volume(supports, np.random.default_rng(sum(degrees))) == int(np.prod(degrees))
+
+
+def test_mixed_area_of_a_square_and_a_triangle_by_hand():
+    # MV(P, Q) = area(P + Q) - area(P) - area(Q): unit square P (area 1), triangle Q = conv{0, 2e1, e2}
+    # (area 1); P + Q = conv{(0,0), (3,0), (3,1), (1,2), (0,2)} has area 5 (shoelace), so MV = 3
+    # (common practice, computed by hand)
+    square = np.array([[0, 0], [1, 0], [0, 1], [1, 1]])
+    triangle = np.array([[0, 0], [2, 0], [0, 1]])
+    for seed in range(3):
+        assert mixed_volume([square, triangle], np.random.default_rng(seed)) == 3
+
+
+def _volume(points):
+    try:
+        return ConvexHull(points).volume
+    except QhullError:  # a flat set: volume 0
+        return 0.0
+
+
+def _brute_force_mixed_volume(supports):
+    """Sum over nonempty S of (-1)^(n - |S|) vol(sum_{i in S} P_i) (inclusion-exclusion)."""
+    n = len(supports)
+    total = 0.0
+    for size in range(1, n + 1):
+        for subset in itertools.combinations(range(n), size):
+            points = supports[subset[0]]
+            for i in subset[1:]:
+                points = (points[:, None, :] + supports[i][None, :, :]).reshape(-1, n)
+            total += (-1) ** (n - size) * _volume(np.unique(points, axis=0).astype(float))
+    return total
+
+
+@pytest.mark.parametrize("n, seed", [(2, 0), (2, 1), (2, 2), (3, 3), (3, 4), (3, 5)])
+def test_mixed_volume_against_minkowski_sum_volumes(n, seed):
+    # the mixed volume as the alternating sum of volumes of Minkowski sums (the inclusion-exclusion
+    # formula; e.g. Cox, Little and O'Shea, "Using Algebraic Geometry", 2005, ch. 7), volumes by scipy's ConvexHull
+    rng = np.random.default_rng(seed)
+    supports = [np.unique(rng.integers(0, 3, size=(rng.integers(3, 6), n)), axis=0) for _ in range(n)]
+    expected = _brute_force_mixed_volume(supports)
+    assert abs(expected - round(expected)) < 1e-9
+    if any(len(s) < 2 for s in supports):
+        pytest.skip("a support of one point")
+    assert mixed_volume(supports, np.random.default_rng(seed + 10)) == round(expected)
+
+
+def test_smith_normal_form_and_binomial_solutions():
+    # U M W = D with U, W unimodular; x^V = beta has |det V| solutions (common practice, no source)
+    rng = np.random.default_rng(7)
+    for _ in range(10):
+        matrix = rng.integers(-3, 4, size=(3, 3))
+        if round(abs(np.linalg.det(matrix))) == 0:
+            continue
+        u, d, w = (np.array(a, dtype=object) for a in smith_normal_form(matrix.tolist()))
+        assert (u.dot(matrix.astype(object)).dot(w) == d).all()
+        assert abs(round(np.linalg.det(u.astype(float)))) == 1 and abs(round(np.linalg.det(w.astype(float)))) == 1
+        beta = rng.standard_normal(3) + 1j * rng.standard_normal(3)
+        roots = binomial_solutions(matrix, beta)
+        assert len(roots) == round(abs(np.linalg.det(matrix)))
+        powers = np.prod(roots[:, None, :] ** matrix[None, :, :], axis=2)
+        assert np.allclose(powers, beta[None, :], rtol=1e-9)
+        assert len(set(cluster_labels(roots, 1e-8))) == len(roots)
+
+
+@pytest.mark.parametrize("n, expected", [(5, 70), (6, 156)])
+def test_every_solution_of_cyclic_n_with_as_many_paths(n, expected):
+    # cyclic 5 and 6 have 70 and 156 isolated regular solutions (Bjorck and Froberg 1991, from memory)
+    system = cyclic(n)
+    result = solve_system(system, SolveOptions(start="polyhedral"), seed=n)
+    counts = result.path_counts()
+    assert counts["tracked"] == expected and result.extra["start"]["chosen"] == "polyhedral"
+    assert len(result.solutions) == expected and all(s.multiplicity == 1 for s in result.solutions)
+    points = np.array([s.point for s in result.solutions])
+    values = BatchEvaluator([p.numeric() for p in system.polynomials]).evaluate(points, jacobian=False)
+    assert np.max(np.abs(values)) < 1e-8
+
+
+def test_zero_coordinates_are_found_after_adding_the_origin():
+    # x^2 + y - x = y (y - x) = 0 by hand: y = 0 gives x^2 - x = 0 (x = 0, 1), y = x gives x^2 = 0 (x = 0 twice);
+    # the roots are (1, 0) and (0, 0) with multiplicity 3 (common practice, computed by hand)
+    system = parse_system(["x^2 + y - x", "y^2 - x*y"], ["x", "y"])
+    result = solve_system(system, SolveOptions(start="polyhedral"), seed=1)
+    assert result.extra["start"]["zero_coordinates"] == ZeroCoordinates.ORIGIN_ADDED.value
+    found = sorted((round(s.point[0].real, 6) + 0.0, round(s.point[1].real, 6) + 0.0, s.multiplicity)
+                   for s in result.solutions)
+    assert found == [(0.0, 0.0, 3), (1.0, 0.0, 1)]
+
+
+# --- the choice -------------------------------------------------------------------------------
+
+def test_auto_takes_the_polyhedral_start_for_a_sparse_system_and_says_why():
+    # x^3 y^3 - x - 1 = x^3 y^3 - y - 2 = 0: y = x - 1 and x^3 (x - 1)^3 = x + 1, six roots (by hand),
+    # against a Bezout number of 36
+    system = parse_system(["x^3*y^3 - x - 1", "x^3*y^3 - y - 2"], ["x", "y"])
+    result = solve_system(system, SolveOptions(start="auto"), seed=2)
+    block = result.extra["start"]
+    assert block["chosen"] == "polyhedral" and block["paths"]["polyhedral"] == 6 and "mixed volume" in block["reason"]
+    assert result.path_counts()["tracked"] == 6 and len(result.solutions) == 6
+
+
+def test_unknown_start_and_projective_polyhedral_are_refused():
+    with pytest.raises(InputError, match="unknown start"):
+        SolveOptions(start="simplex").validated()
+    projective = parse_system(["x^2 - y*z", "x - y"], ["x", "y", "z"], projective=True)
+    with pytest.raises(InputError, match="affine systems"):
+        choose_start(projective, StartKind.POLYHEDRAL)
+    assert choose_start(projective, StartKind.AUTO).kind == StartKind.TOTAL_DEGREE
+
+
+def test_solve_command_reads_groups_and_reports_the_start(tmp_path):
+    path = tmp_path / "eigen.toml"
+    path.write_text('variables = ["u", "v", "l"]\nequations = ["2*u + v - l*u", "u + 3*v - l*v", "u + 2*v - 1"]\n'
+                    'groups = [["u", "v"], ["l"]]\n')
+    done = subprocess.run([sys.executable, "-m", "numag", "solve", str(path), "--start", "multihomogeneous",
+                           "--seed", "1", "--json"], capture_output=True, text=True, timeout=300)
+    data = json.loads(done.stdout)
+    assert data["start"]["chosen"] == "multihomogeneous" and data["start"]["groups"]["source"] == "file"
+    assert data["paths"]["tracked"] == 2 and len(data["solutions"]) == 2
+    path.write_text('variables = ["u", "v"]\nequations = ["u*v - 1", "u + v"]\ngroups = [["u"], ["w"]]\n')
+    done = subprocess.run([sys.executable, "-m", "numag", "solve", str(path)], capture_output=True, text=True,
+                          timeout=300)
+    assert done.returncode == 2 and "not a variable" in done.stderr and "Traceback" not in done.stderr
+
+
+# --- the null-vector system -------------------------------------------------------------------
+
+@pytest.mark.parametrize("name", ["node", "cusp", "four_generic_lines", "trifolium_triple_point",
+                                  "cone_over_smooth_plane_cubic", "smooth_conic"])
+def test_null_vector_singular_points_with_the_two_homogeneous_start(problems, name):
+    # the singular points of the shared problems (each entry's "source"), the same with both starts,
+    # found with fewer paths of the 2-homogeneous start (x and lambda grouped)
+    problem = problems[name]
+    system = parse_system(problem["equations"], problem["variables"])
+    by_degree = isolated_singular_points(system, "total-degree", seed=5)
+    grouped = isolated_singular_points(system, "multihomogeneous", seed=5)
+    expected = problem["expected"]["singular_points"]
+    assert len(by_degree.points) == len(grouped.points) == expected
+    if expected:
+        distance = np.abs(by_degree.points[:, None, :] - grouped.points[None, :, :]).max(axis=2)
+        assert distance.min(axis=1).max() < 1e-6
+    assert grouped.paths < by_degree.paths
+    assert grouped.start["groups"]["groups"][1] == ["lambda1"]
+
+
+@pytest.mark.parametrize("start", ["multihomogeneous", "polyhedral"])
+def test_run_folders_hold_the_structured_starts_paths(tmp_path, start):
+    # path k is computed from k alone: a run saved in batches of 2 is read back whole on resume, with the
+    # same answer, and the run folder refuses a resume with another start
+    from numag.tracking.solve import Execution
+    system = parse_system(["x*u + y*v - 1", "x*v - y + 2*u", "x + y - 1 + x*y", "u - v + 3"], ["x", "y", "u", "v"])
+    options = SolveOptions(start=start, batch_size=2)
+    folder = str(tmp_path / "run")
+    first = solve_system(system, options, seed=4, execution=Execution(run_folder=folder))
+    again = solve_system(system, options, seed=4, execution=Execution(run_folder=folder, resume=True))
+    assert again.extra["execution"]["batches_resumed"] == again.extra["execution"]["batches"] > 1
+    assert np.array_equal(first.status, again.status)
+    key = lambda point: tuple(np.round(point, 6))
+    assert np.allclose(sorted((s.point for s in first.solutions), key=key),
+                       sorted((s.point for s in again.solutions), key=key))
+    other = "polyhedral" if start == "multihomogeneous" else "multihomogeneous"
+    with pytest.raises(InputError, match="different run"):
+        solve_system(system, SolveOptions(start=other, batch_size=2), seed=4,
+                     execution=Execution(run_folder=folder, resume=True))
+
+
+def test_lost_first_stage_paths_become_a_warning():
+    # a path of the polyhedral first stage that fails starts nothing: the report must say so (exit 3)
+    from numag.app.report import completeness_warnings
+    block = {"random_system_paths": {"tracked": 10, "converged": 7, "singular_endpoint": 1}}
+    assert "2 path(s) of the polyhedral start's first stage" in completeness_warnings({"start": block})[0]
+    block["random_system_paths"]["converged"] = 9
+    assert completeness_warnings({"start": block}) == []
+
+
+@pytest.mark.parametrize("kind", ["total-degree", "multihomogeneous"])
+def test_precise_start_evaluation_agrees_with_double(kind):
+    # the precision rescue evaluates the homotopy in mpmath: it must be the same H, dH/dX and dH/ds as
+    # the batched double evaluation (mpmath as the reference; common practice, no source)
+    import mpmath
+    system = parse_system(["x*u + y*v - 1", "x*v - y + 2*u", "x + y - 1 + x*y", "u - v + 3"], ["x", "y", "u", "v"])
+    rng = np.random.default_rng(8)
+    homotopy = (StraightLineHomotopy.total_degree(system, rng) if kind == "total-degree" else
+                StraightLineHomotopy.multihomogeneous(system, VariableGroups.of(system, [["x", "y"], ["u", "v"]]), rng))
+    point = rng.standard_normal(5) + 1j * rng.standard_normal(5)
+    s = 0.37
+    values, jacobian, derivative = homotopy.evaluate(point[None, :], np.array([s]))
+    with mpmath.workdps(30):
+        precise = homotopy.evaluate_precise([mpmath.mpc(z.real, z.imag) for z in point], mpmath.mpf(s), mpmath.mp)
+    as_array = lambda m: np.array(m.tolist(), dtype=complex)
+    assert np.allclose(as_array(precise[0]).ravel(), values[0], rtol=1e-12, atol=1e-12)
+    assert np.allclose(as_array(precise[1]), jacobian[0], rtol=1e-12, atol=1e-12)
+    assert np.allclose(as_array(precise[2]).ravel(), derivative[0], rtol=1e-12, atol=1e-12)
