@@ -74,7 +74,7 @@ class MinorWeights:
         return self.left.shape[1]
 
 
-def random_minor_weights(m, n, size, max_minors, rng, exact=False, count=None):
+def random_minor_weights(m, n, size, max_minors, rng, exact=False, count=None, keep_rows=False):
     """Every size x size minor of an m x n Jacobian when there are at most ``max_minors``, else random ones.
 
     Parameters
@@ -89,6 +89,9 @@ def random_minor_weights(m, n, size, max_minors, rng, exact=False, count=None):
         Small non-zero integer weights (combinations of exact polynomials stay exact) instead of complex
         Gaussian ones.
     count : int, optional
+    keep_rows : bool, default False
+        When size = m, take A = identity: det(A J B) = det(A) det(J B) has the same zeros, and its degree is
+        the sum of the row degrees instead of size times the largest one (fewer paths).
 
     Returns
     -------
@@ -110,7 +113,11 @@ def random_minor_weights(m, n, size, max_minors, rng, exact=False, count=None):
     count = n - size + 1 if count is None else count
     left, right = [], []
     for _ in range(count):  # drawn pair by pair: the stream of the generator does not depend on ``count``
-        if exact:
+        if keep_rows and size == m:
+            left.append(np.eye(m, dtype=np.int64))
+            right.append(_integer_weights(rng, (n, size)) if exact else
+                         rng.standard_normal((n, size)) + 1j * rng.standard_normal((n, size)))
+        elif exact:
             left.append(_integer_weights(rng, (size, m)))
             right.append(_integer_weights(rng, (n, size)))
         else:

@@ -36,23 +36,23 @@ Examples
 """
 
 from dataclasses import dataclass, field, replace
-import itertools
 import math
 import time
 
 import numpy as np
 
 from ..errors import InputError, LimitError, PointError
-from ..system.polynomial import Polynomial, PolynomialSystem, determinant, linear_space, require_numeric
+from ..system.polynomial import Polynomial, PolynomialSystem, linear_space, require_numeric
 from ..numeric.cluster import cluster_labels, groups, normalize_projective
 from ..numeric.evaluate import BatchEvaluator, TermSizes
+from ..numeric.minors import expanded_minors, random_minor_weights
 from ..numeric.refine import IsolationTest, project_to_variety
 from ..numeric.scaling import Scaling
 from ..numeric.seeds import resolved_seed
 from ..tracking.solve import SolveOptions, solve_system
 from ..tracking.tracker import FAILURE_LABELS
 from ..witness.cascade import combine_equations, linear_form, random_rows, track_moves
-from ..witness.decompose import DecomposeOptions, components_through, decompose, holding_equations, random_minor
+from ..witness.decompose import DecomposeOptions, components_through, decompose, holding_equations
 from .smoothness import CheckOptions, check_points
 
 __all__ = ["SingularOptions", "SingularComponent", "SingularLocus", "singular_locus", "FORMULATIONS"]
@@ -207,24 +207,11 @@ def minors_system(system, codimension, rng, max_exact):
     str
         "minors" or "random minors".
     """
-    n, m = system.n_variables, system.n_equations
-    rows = [[p.numeric().derivative(j) for j in range(n)] for p in system.polynomials]
-    count = math.comb(m, codimension) * math.comb(n, codimension)
     equations = [p.numeric() for p in system.polynomials]
-    if count <= max_exact:
-        kind = "minors"
-        for chosen_rows in itertools.combinations(range(m), codimension):
-            for chosen_cols in itertools.combinations(range(n), codimension):
-                minor = determinant([[rows[i][j] for j in chosen_cols] for i in chosen_rows])
-                if not minor.is_zero():
-                    equations.append(minor * (1.0 / minor.coefficient_norm()))
-    else:
-        kind = "random minors"
-        for _ in range(n - codimension + 1):
-            minor = random_minor(equations[:m], codimension, rng, n)
-            if not minor.is_zero():
-                equations.append(minor * (1.0 / minor.coefficient_norm()))
-    return PolynomialSystem(system.variables, equations, name=system.name), kind
+    weights = random_minor_weights(system.n_equations, system.n_variables, codimension, max_exact, rng)
+    minors = expanded_minors(equations, weights, normalize=True)
+    kind = "minors" if weights.complete else "random minors"
+    return PolynomialSystem(system.variables, equations + minors, name=system.name), kind
 
 
 def null_vector_system(system, codimension, rng):
