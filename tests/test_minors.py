@@ -1,6 +1,7 @@
 """Evaluated minors (numag.numeric.minors) against sympy's expanded determinants and their gradients."""
 
 import mpmath
+from numag.numeric.evaluate import BatchEvaluator
 import numpy as np
 import pytest
 
@@ -120,7 +121,6 @@ def test_expanded_and_evaluated_minors_agree():
         expanded = expanded_minors(system.polynomials, weights)
         evaluated = EvaluatedMinors.from_weights(system.polynomials, weights)
         points = rng.standard_normal((4, 4)) + 1j * rng.standard_normal((4, 4))
-        from numag.numeric.evaluate import BatchEvaluator
         reference = BatchEvaluator(expanded).evaluate(points, jacobian=False)
         mine = evaluated.evaluate(points, jacobian=False)
         nonzero = np.abs(mine).max(axis=0) > 1e-9 * np.abs(mine).max()
@@ -148,3 +148,42 @@ def test_augmented_evaluator_stacks_rows():
     assert np.allclose(raw[0, :values.shape[1]], values[0])
     sizes = both.values(point[None, :])
     assert np.all(sizes >= np.abs(values) * (1 - 1e-12))  # term sizes bound the values
+
+
+@pytest.mark.parametrize("seed", [0, 1, 2])
+def test_homotopy_with_evaluated_minors_finds_the_singular_points(seed):
+    # Cayley's cubic surface 4(x^2 + y^2 + z^2) + 16xyz - 1 = 0 (the affine form of the projective
+    # Cayley cubic, w = 1/2) has four nodes, at (1/2, 1/2, -1/2) and its images under an even number of
+    # sign changes (A. Cayley, "A memoir on cubic surfaces", Phil. Trans. R. Soc. 159 (1869) 231-326).
+    # The square system F + two random evaluated minors (combinations of the partials) is tracked;
+    # the endpoints where the gradient vanishes are the nodes, and the same homotopy with the minors
+    # expanded reaches the same endpoints.
+    from numag.numeric.cluster import cluster_labels, groups
+    from numag.system.polynomial import PolynomialSystem
+    from numag.tracking.homotopy import StraightLineHomotopy
+    from numag.tracking.service import track
+
+    system = parse_system(["4*x^2 + 4*y^2 + 4*z^2 + 16*x*y*z - 1"], ["x", "y", "z"])
+    rng = np.random.default_rng(seed)
+    weights = random_minor_weights(1, 3, 1, 0, rng, count=2)
+    found = []
+    for expand in (False, True):
+        generator = np.random.default_rng(seed + 100)
+        if expand:
+            target = PolynomialSystem(system.variables, list(system.polynomials)
+                                      + expanded_minors(system.polynomials, weights, normalize=True))
+            homotopy = StraightLineHomotopy.total_degree(target, generator)
+        else:
+            homotopy = StraightLineHomotopy.total_degree(system, generator, weights)
+        assert homotopy.start.degrees.tolist() == [3, 2, 2]
+        run = track(homotopy, homotopy.start_solutions())
+        ends = run.endpoints
+        finite = np.abs(ends[:, 0]) > 1e-6 * np.abs(ends).max(axis=1)
+        points = ends[finite, 1:] / ends[finite, :1]
+        _, jacobian = BatchEvaluator(system.polynomials).evaluate(points)
+        nodes = points[np.linalg.norm(jacobian[:, 0, :], axis=1) < 1e-5]
+        representatives = np.array([nodes[g[0]] for g in groups(cluster_labels(nodes, 1e-5))])
+        found.append(np.array(sorted(map(tuple, np.round(representatives.real, 6)))))
+    expected = np.array(sorted([(0.5, 0.5, -0.5), (0.5, -0.5, 0.5), (-0.5, 0.5, 0.5), (-0.5, -0.5, -0.5)]))
+    for nodes in found:
+        assert nodes.shape == (4, 3) and np.allclose(nodes, expected, atol=1e-5)
