@@ -187,3 +187,24 @@ def test_homotopy_with_evaluated_minors_finds_the_singular_points(seed):
     expected = np.array(sorted([(0.5, 0.5, -0.5), (0.5, -0.5, 0.5), (-0.5, 0.5, 0.5), (-0.5, -0.5, -0.5)]))
     for nodes in found:
         assert nodes.shape == (4, 3) and np.allclose(nodes, expected, atol=1e-5)
+
+
+def test_homotopy_precise_form_matches_double():
+    # The precision rescue re-tracks with evaluate_precise: at 30 digits it must agree with the batched
+    # double evaluation of H, dH/dX and dH/ds (two computations of the same quantities; common practice).
+    from numag.tracking.homotopy import StraightLineHomotopy
+
+    system = parse_system(["x^2*y + z^3 - 2", "x*y*z - 1"], ["x", "y", "z"])
+    rng = np.random.default_rng(8)
+    homotopy = StraightLineHomotopy.total_degree(system, rng, random_minor_weights(2, 3, 2, 0, rng, count=1,
+                                                                                   keep_rows=True))
+    point = rng.standard_normal(4) + 1j * rng.standard_normal(4)
+    values, jacobian, derivative = (a.copy() for a in homotopy.evaluate(point[None, :], np.array([0.4])))
+    with mpmath.workdps(30):
+        precise = homotopy.evaluate_precise([mpmath.mpc(complex(v)) for v in point], mpmath.mpf("0.4"), mpmath.mp)
+    size = homotopy.size
+    assert np.allclose([complex(precise[0][i]) for i in range(size)], values[0], rtol=1e-10, atol=1e-12)
+    assert np.allclose([[complex(precise[1][i, j]) for j in range(size)] for i in range(size)], jacobian[0],
+                       rtol=1e-10, atol=1e-12)
+    assert np.allclose([complex(precise[2][i]) for i in range(size - 1)], derivative[0, :-1], rtol=1e-10,
+                       atol=1e-12)
