@@ -5,7 +5,8 @@ Run:  python benchmarks/bench_minors.py [--quick] [--points N]
 For each case, side by side in one run: the expansion of the minors (time, number of terms, or the limit
 that refused it) and the evaluated form (set-up, values and gradients at N points in double, one point in
 mpmath at 30 digits). The cases are the ones the singular-locus pipeline builds: the c x c minors of F, and
-the random (r + 1)-minors that deflation adds to an augmented system F + minors. Results also go to
+the random (r + 1)-minors that deflation adds to an augmented system F + minors, and beside them the size of
+the same deflation step in the kernel form (new unknowns lambda, J B lambda = 0, h . lambda = 1). Results also go to
 benchmarks/results/bench_minors.json.
 """
 
@@ -19,7 +20,7 @@ import numpy as np
 
 import checkout  # noqa: F401  (this checkout's numag, not an installed one)
 from numag.errors import LimitError
-from numag.numeric.minors import EvaluatedMinors, expanded_minors, random_minor_weights
+from numag.numeric.minors import EvaluatedMinors, expanded_minors, kernel_deflation, random_minor_weights
 from numag.system.parse import parse_system
 
 SWALLOWTAIL = (["16*a^4*c - 4*a^3*b^2 - 128*a^2*c^2 + 144*a*b^2*c - 27*b^4 + 256*c^3"], ["a", "b", "c"])
@@ -82,6 +83,12 @@ def measure(name, polynomials, size, rng, points, quick):
         row["expanded_eval_seconds"] = time.perf_counter() - started
         row["max_relative_difference"] = float(np.max(np.abs(reference[:, 0] - values[:, 0])
                                                       / np.maximum(np.abs(reference[:, 0]), 1e-300)))
+    if size < n:  # the same rank condition by deflation in the kernel form: new equations, their terms
+        started = time.perf_counter()
+        kernel = kernel_deflation(polynomials, size - 1, rng)[len(polynomials):]
+        row["kernel_seconds"] = time.perf_counter() - started
+        row["kernel_terms"] = sum(p.n_terms for p in kernel)
+        row["kernel_new_unknowns"] = size
     with mpmath.workdps(30):
         started = time.perf_counter()
         minors.evaluate_precise([mpmath.mpc(complex(v)) for v in at[0]], mpmath.mp)
@@ -108,6 +115,9 @@ def main():
               f"{row['mpmath_point_seconds']:6.3f}", flush=True)
         if row["expanded_outcome"] != "built":
             print(f"    expansion {row['expanded_outcome']}")
+        if "kernel_terms" in row:
+            print(f"    kernel form: {row['kernel_new_unknowns']} new unknowns, {len(polynomials) + 1} new equations, "
+                  f"{row['kernel_terms']} terms, built in {row['kernel_seconds']:.3f} s")
         if "expanded_eval_seconds" in row:
             print(f"    expanded minor evaluated at {args.points} points in {row['expanded_eval_seconds']:.3f} s; "
                   f"largest relative difference {row['max_relative_difference']:.1e}")

@@ -208,3 +208,26 @@ def test_homotopy_precise_form_matches_double():
                        rtol=1e-10, atol=1e-12)
     assert np.allclose([complex(precise[2][i]) for i in range(size - 1)], derivative[0, :-1], rtol=1e-10,
                        atol=1e-12)
+
+
+@pytest.mark.parametrize("equations", [["x^2", "y^2"], ["x*y", "x^2 - y^3"]])
+@pytest.mark.parametrize("seed", [0, 1, 2])
+def test_kernel_deflation_makes_the_origin_a_regular_zero(equations, seed):
+    # Isolated zeros at the origin with J(0) = 0 (multiplicities 4 and 5): one step of deflation in the
+    # kernel form (Leykin, Verschelde and Zhao, Theoret. Comput. Sci. 359 (2006) 111-122) gives a system in
+    # (x, y, lambda) with (0, 0, lambda*) a zero of full column rank, i.e. a regular zero.
+    from numag.numeric.minors import kernel_deflation
+
+    system = parse_system(equations, ["x", "y"])
+    rng = np.random.default_rng(seed)
+    _, jacobian = BatchEvaluator(system.polynomials).evaluate(np.zeros((1, 2)))
+    assert np.linalg.matrix_rank(jacobian[0]) == 0  # not regular before
+    deflated = kernel_deflation(system.polynomials, 0, rng)
+    evaluator = BatchEvaluator(deflated)
+    # lambda* from h . lambda = 1 (J(0) B = 0): the last equation is linear in lambda alone
+    h = evaluator.evaluate(np.array([[0.0, 0.0, 1.0]]), jacobian=True)[1][0, -1, 2]
+    point = np.array([[0.0, 0.0, 1.0 / h]])
+    values, jacobian = evaluator.evaluate(point)
+    assert np.max(np.abs(values)) < 1e-12
+    singular_values = np.linalg.svd(jacobian[0], compute_uv=False)
+    assert singular_values[-1] > 1e-3 * singular_values[0]  # full column rank 3: regular

@@ -41,7 +41,8 @@ from ..errors import InputError
 from ..system.polynomial import DEFAULT_LIMITS, Polynomial, combined_minor, determinant
 from .evaluate import BatchEvaluator, PrecisionEvaluator, TermSizes
 
-__all__ = ["AugmentedEvaluator", "EvaluatedMinors", "MinorWeights", "expanded_minors", "random_minor_weights"]
+__all__ = ["AugmentedEvaluator", "EvaluatedMinors", "MinorWeights", "expanded_minors", "kernel_deflation",
+           "random_minor_weights"]
 
 
 class MinorWeights:
@@ -544,3 +545,63 @@ class AugmentedEvaluator:
             for j in range(n if jacobian else 0):
                 matrix[m + k, j] = g_gradients[k, j]
         return (values, matrix) if jacobian else values
+
+
+def kernel_deflation(polynomials, rank, rng):
+    """One deflation step in the kernel form: F(x) = 0, J(x) B lambda = 0, h . lambda = 1 in (x, lambda).
+
+    At a zero x* of F where J has rank ``rank`` (r), a random B (n x (r + 1)) makes J(x*) B of rank r with
+    a one-dimensional kernel, so exactly one lambda in C^(r + 1) with h . lambda = 1 completes x*; the
+    deflated system has (x*, lambda*) as a zero of lower multiplicity (Leykin, Verschelde and Zhao,
+    "Newton's method with deflation for isolated singularities of polynomial systems", Theoret. Comput.
+    Sci. 359 (2006) 111-122), regular after finitely many steps. The new equations are bilinear in the
+    entries of J and lambda: m (r + 1) times the terms of J in all, where an (r + 1)-minor has up to
+    (r + 1)! times the products of r + 1 entries.
+
+    Parameters
+    ----------
+    polynomials : sequence of Polynomial
+        F, m polynomials in n variables (numeric).
+    rank : int
+        The numerical rank of J at the point (0 <= rank < n).
+    rng : numpy.random.Generator
+
+    Returns
+    -------
+    list of Polynomial
+        F lifted to the n + r + 1 variables (x, lambda), the m rows of J B lambda (each divided by its
+        coefficient norm), and h . lambda - 1.
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> f = parse_system(["x^2", "y^2"], ["x", "y"]).polynomials
+    >>> deflated = kernel_deflation(f, 0, np.random.default_rng(0))
+    >>> len(deflated), deflated[0].n_variables
+    (5, 3)
+    """
+    polynomials = [p.numeric() for p in polynomials]
+    n = polynomials[0].n_variables
+    if not 0 <= rank < n:
+        raise InputError(f"a kernel deflation needs 0 <= rank < {n}, not {rank}")
+    width = rank + 1
+    total = n + width
+    b = (rng.standard_normal((n, width)) + 1j * rng.standard_normal((n, width))) / math.sqrt(2 * n)
+    h = rng.standard_normal(width) + 1j * rng.standard_normal(width)
+    lifted = [Polynomial(np.hstack([p.exponents, np.zeros((p.n_terms, width), dtype=np.int64)]),
+                         p.numeric_coefficients(), total) for p in polynomials]
+    lambdas = [Polynomial.variable(n + k, total).numeric() for k in range(width)]
+    equations = list(lifted)
+    for p in lifted:
+        row = Polynomial.zero(total)
+        for k in range(width):
+            combined = Polynomial.zero(total)  # (J B)_{i k} = sum_j df_i/dx_j B_{j k}
+            for j in range(n):
+                derivative = p.derivative(j)
+                if not derivative.is_zero():
+                    combined = combined + derivative * complex(b[j, k])
+            row = row + lambdas[k] * combined
+        if not row.is_zero():
+            equations.append(row * (1.0 / row.coefficient_norm()))
+    equations.append(Polynomial.linear(np.concatenate([np.zeros(n), h]), -1.0))
+    return equations
