@@ -9,21 +9,13 @@ Examples
 (True, False)
 """
 
-import itertools
-import math
-
 import numpy as np
 
 from ..errors import InputError
-from ..system.polynomial import DEFAULT_LIMITS, Polynomial, combined_minor, determinant
+from ..numeric.minors import expanded_minors, random_minor_weights
+from ..system.polynomial import DEFAULT_LIMITS, Polynomial
 
 __all__ = ["singularity_equations"]
-
-
-def _integer_weights(rng, shape):
-    """Small non-zero integer weights: random combinations that stay exact."""
-    values = rng.integers(1, 6, size=shape) * rng.choice([-1, 1], size=shape)
-    return values.astype(np.int64)
 
 
 def _minor_equations(polynomials, size, n, max_minors, rng, limits=DEFAULT_LIMITS):
@@ -31,23 +23,8 @@ def _minor_equations(polynomials, size, n, max_minors, rng, limits=DEFAULT_LIMIT
 
     Returns (equations, all_minors) where all_minors says whether every minor is among them.
     """
-    m = len(polynomials)
-    gradients = [[p.derivative(j) for j in range(n)] for p in polynomials]
-    count = math.comb(m, size) * math.comb(n, size)
-    if count <= max_minors:
-        result = []
-        for rows in itertools.combinations(range(m), size):
-            for cols in itertools.combinations(range(n), size):
-                minor = determinant([[gradients[i][j] for j in cols] for i in rows], limits)
-                if not minor.is_zero():
-                    result.append(minor)
-        return result, True
-    result = []
-    for _ in range(n - size + 1):
-        a = _integer_weights(rng, (size, m))
-        b = _integer_weights(rng, (n, size))
-        result.append(combined_minor(gradients, a, b, limits))
-    return result, False
+    weights = random_minor_weights(len(polynomials), n, size, max_minors, rng, exact=True)
+    return expanded_minors(polynomials, weights, limits), weights.complete
 
 
 def singularity_equations(system, codimension, max_minors=60, seed=0):

@@ -36,7 +36,6 @@ Examples
 """
 
 from dataclasses import dataclass, field, replace
-import itertools
 import math
 import time
 
@@ -44,16 +43,17 @@ import numpy as np
 
 from ..errors import InputError, LimitError
 from ..system.display import counted, html_table, short_point
-from ..system.polynomial import Polynomial, PolynomialSystem, determinant, linear_space, require_numeric
+from ..system.polynomial import Polynomial, PolynomialSystem, linear_space, require_numeric
 from ..numeric.cluster import cluster_labels, groups, normalize_projective
 from ..numeric.evaluate import BatchEvaluator, TermSizes
+from ..numeric.minors import expanded_minors, random_minor_weights
 from ..numeric.refine import IsolationTest, project_to_variety
 from ..numeric.scaling import Scaling
 from ..numeric.seeds import resolved_seed
 from ..tracking.solve import SolveOptions, solve_system
 from ..tracking.tracker import FAILURE_LABELS
 from ..witness.cascade import combine_equations, linear_form, random_rows, track_moves
-from ..witness.decompose import DecomposeOptions, Decomposition, components_through, decompose, holding_equations, random_minor
+from ..witness.decompose import DecomposeOptions, Decomposition, components_through, decompose, holding_equations
 from .kinds import CandidateSystem, Formulation, PieceKind, Verdict
 from .smoothness import CheckOptions, check_points
 
@@ -236,25 +236,12 @@ def minors_system(system, codimension, rng, max_exact, n_columns=None):
     CandidateSystem
         MINORS or RANDOM_MINORS.
     """
-    m = system.n_equations
-    n = system.n_variables if n_columns is None else int(n_columns)
-    rows = [[p.numeric().derivative(j) for j in range(n)] for p in system.polynomials]
-    count = math.comb(m, codimension) * math.comb(n, codimension)
     equations = [p.numeric() for p in system.polynomials]
-    if count <= max_exact:
-        kind = CandidateSystem.MINORS
-        for chosen_rows in itertools.combinations(range(m), codimension):
-            for chosen_cols in itertools.combinations(range(n), codimension):
-                minor = determinant([[rows[i][j] for j in chosen_cols] for i in chosen_rows])
-                if not minor.is_zero():
-                    equations.append(minor * (1.0 / minor.coefficient_norm()))
-    else:
-        kind = CandidateSystem.RANDOM_MINORS
-        for _ in range(n - codimension + 1):
-            minor = random_minor(equations[:m], codimension, rng, n)
-            if not minor.is_zero():
-                equations.append(minor * (1.0 / minor.coefficient_norm()))
-    return PolynomialSystem(system.variables, equations, name=system.name), kind
+    n = system.n_variables if n_columns is None else int(n_columns)
+    weights = random_minor_weights(system.n_equations, n, codimension, max_exact, rng)
+    minors = expanded_minors(equations, weights, normalize=True)
+    kind = CandidateSystem.MINORS if weights.complete else CandidateSystem.RANDOM_MINORS
+    return PolynomialSystem(system.variables, equations + minors, name=system.name), kind
 
 
 def null_vector_system(system, codimension, rng):

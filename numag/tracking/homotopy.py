@@ -30,6 +30,7 @@ import numpy as np
 from ..errors import InputError
 from ..numeric.evaluate import BatchEvaluator, PrecisionEvaluator, TermSizes
 from .multihomogeneous import MultihomogeneousStart, homogenized_to
+from ..numeric.minors import AugmentedEvaluator, EvaluatedMinors
 
 __all__ = ["TotalDegreeStart", "StraightLineHomotopy", "ParameterHomotopy", "random_unit_complex"]
 
@@ -149,38 +150,78 @@ class StraightLineHomotopy(_PatchedHomotopy):
     homogenized : bool, default True
         The target is homogenised affine equations (X_0 the homogenising coordinate): residuals
         and row scales size the terms in the chart X_0 = 1 (see :class:`~numag.numeric.evaluate.TermSizes`).
+    minors : EvaluatedMinors, optional
+        Equations evaluated from the Jacobian (homogeneous, in the same n + 1 variables), appended to the
+        target after ``target``: F plus minors that are never expanded.
     """
 
-    def __init__(self, target, start, patch, gamma, homogenized=True):
+    def __init__(self, target, start, patch, gamma, homogenized=True, minors=None):
         self.target = list(target)
         self.start = start
         self.patch = np.asarray(patch, dtype=complex)
         self.gamma = complex(gamma)
         self.size = len(self.patch)
-        if len(self.target) + 1 != self.size:
-            raise InputError(f"a square system is needed: {len(self.target)} equations in {self.size - 1} unknowns")
-        self.evaluator = BatchEvaluator(self.target, spare_columns=self.size)  # room for the patch row
+        self.minors = minors
+        rows = len(self.target) + (0 if minors is None else minors.count)
+        if rows + 1 != self.size:
+            raise InputError(f"a square system is needed: {rows} equations in {self.size - 1} unknowns")
+        if minors is None:
+            self.evaluator = BatchEvaluator(self.target, spare_columns=self.size)  # room for the patch row
+            self._sizes = TermSizes(self.target, projective=True, homogenized=homogenized)
+        else:  # the same interface: values, Jacobian rows, spare columns; term sizes; mpmath
+            self.evaluator = AugmentedEvaluator(self.target, minors, spare_columns=self.size, projective=True,
+                                                homogenized=homogenized)
+            self._sizes = self.evaluator
         self.evaluations = 0
         self.value_evaluations = 0
         self._precise = None
-        self._sizes = TermSizes(self.target, projective=True, homogenized=homogenized)
 
     @classmethod
-    def total_degree(cls, system, rng):
-        """Total-degree homotopy for a square affine system (or a projective one with n equations in n + 1)."""
+    def total_degree(cls, system, rng, minors=None):
+        """Total-degree homotopy for a square affine system (or a projective one with n equations in n + 1).
+
+        Parameters
+        ----------
+        system : PolynomialSystem
+        rng : numpy.random.Generator
+        minors : MinorWeights, optional
+            Minors det(A_k J B_k) of the system's Jacobian appended as evaluated equations (affine systems):
+            the system's equations and these minors together must be square.
+
+        Examples
+        --------
+        >>> from numag.numeric.minors import random_minor_weights
+        >>> from numag.system.parse import parse_system
+        >>> surface = parse_system(["x^2 + y^2 - z^2 - 1"], ["x", "y", "z"])
+        >>> rng = np.random.default_rng(1)
+        >>> homotopy = StraightLineHomotopy.total_degree(surface, rng, random_minor_weights(1, 3, 1, 0, rng, count=2))
+        >>> homotopy.start.degrees.tolist()
+        [2, 1, 1]
+        """
+        extra = 0 if minors is None else minors.count
         expected = system.n_variables - (1 if system.projective else 0)
-        if system.n_equations != expected:
-            raise InputError(f"the system is not square: {system.n_equations} equations, {expected} unknowns")
+        if system.n_equations + extra != expected:
+            raise InputError(f"the system is not square: {system.n_equations + extra} equations, {expected} unknowns")
+        if minors is not None and system.projective:
+            raise InputError("evaluated minors are appended to affine systems only")
         # Each equation divided by its coefficient norm: F and G then have comparable size, so the
         # paths do not rush away from the start points (fewer steps near s = 1); zeros are unchanged.
         if system.projective:
             target = [p.scaled(1.0 / p.coefficient_norm()) for p in system.polynomials]
         else:
             target = [p.numeric().homogenize(0).scaled(1.0 / p.coefficient_norm()) for p in system.polynomials]
-        size = len(target) + 1
+        size = expected + 1
+        degrees = list(system.degrees)
+        evaluated = None
+        if minors is not None:
+            # the minors of the normalised equations, divided by the size of their terms at X = (1, ..., 1)
+            normalised = [p.numeric().scaled(1.0 / p.coefficient_norm()) for p in system.polynomials]
+            evaluated = EvaluatedMinors.from_weights(normalised, minors, homogenized=True)
+            evaluated = evaluated.scaled_to_unit(np.ones((1, size)))
+            degrees += evaluated.degrees
         patch = (rng.standard_normal(size) + 1j * rng.standard_normal(size)) / np.sqrt(2 * size)
-        return cls(target, TotalDegreeStart(system.degrees), patch, random_unit_complex(rng),
-                   homogenized=not system.projective)
+        return cls(target, TotalDegreeStart(degrees), patch, random_unit_complex(rng),
+                   homogenized=not system.projective, minors=evaluated)
 
     @classmethod
     def multihomogeneous(cls, system, groups, rng):
@@ -209,9 +250,10 @@ class StraightLineHomotopy(_PatchedHomotopy):
         Returns ctx matrices of shapes (N, 1), (N, N) and (N, 1).
         """
         if self._precise is None:
-            self._precise = PrecisionEvaluator(self.target)
+            self._precise = PrecisionEvaluator(self.target) if self.minors is None else self.evaluator
         size = self.size
-        f_values, f_jac = self._precise.evaluate(point, ctx)
+        f_values, f_jac = (self._precise.evaluate(point, ctx) if self.minors is None
+                           else self._precise.evaluate_precise(point, ctx))
         g_values, g_jac = self.start.evaluate_precise(point, ctx)
         gamma = ctx.mpc(self.gamma.real, self.gamma.imag)
         values, jacobian, derivative = ctx.matrix(size, 1), ctx.matrix(size, size), ctx.matrix(size, 1)

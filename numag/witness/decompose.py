@@ -39,9 +39,10 @@ import numpy as np
 
 from ..errors import InputError, LimitError, is_integer, is_number, require_option
 from ..system.display import counted, html_table, short_point
-from ..system.polynomial import combined_minor, linear_space, require_numeric
+from ..system.polynomial import Polynomial, linear_space, require_numeric
 from ..numeric.cluster import cluster_labels
 from ..numeric.evaluate import BatchEvaluator, TermSizes
+from ..numeric.minors import expanded_minors, random_minor_weights
 from ..numeric.scaling import Scaling
 from ..numeric.seeds import random_state, resolved_seed
 from ..tracking.service import PathCounts
@@ -199,11 +200,9 @@ class Decomposition:
 
 def random_minor(polynomials, size, rng, n):
     """det(A J B) for random A (size x m), B (n x size): a random combination of the size-minors of J."""
-    m = len(polynomials)
-    a = rng.standard_normal((size, m)) + 1j * rng.standard_normal((size, m))
-    b = rng.standard_normal((n, size)) + 1j * rng.standard_normal((n, size))
-    gradients = [[p.derivative(j) for j in range(n)] for p in polynomials]
-    return combined_minor(gradients, a, b)
+    weights = random_minor_weights(len(polynomials), n, size, 0, rng, count=1)
+    minors = expanded_minors(polynomials, weights)
+    return minors[0] if minors else Polynomial.zero(n)
 
 
 def holding_equations(system, codimension, points, rng, threshold=1e-6, max_rounds=4, simple=False):

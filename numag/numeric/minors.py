@@ -1,0 +1,607 @@
+"""Minors of the Jacobian: evaluated (never expanded) for numerical work, expanded only when exact input needs it.
+
+The equations "rank J(x) < c" are c x c minors of J, or random combinations of them written
+g(x) = det(A J(x) B) with A (c x m) and B (n x c). Expanding such a determinant into a polynomial multiplies
+polynomials c times: a random 4 x 4 minor of a modest system has hundreds of thousands of terms. Numerical
+work needs only values and gradients, and both come from the evaluated Jacobian:
+
+* the value is det(M) with M = A J(x) B, a c x c matrix of numbers;
+* the gradient is Jacobi's formula, d det M / dx_l = tr(adj(M) A (dJ/dx_l) B), with dJ/dx_l from the
+  second derivatives of F (sparse polynomials, evaluated in one batch) and the adjugate taken from the
+  singular value decomposition, so that a singular M (on the very set the minors describe) is fine.
+
+:class:`EvaluatedMinors` does this in double precision over many points at once and in an mpmath context at
+one point (precision rescue, intervals for certification). :class:`AugmentedEvaluator` puts F and evaluated
+minors side by side behind the interface of :class:`~numag.numeric.evaluate.BatchEvaluator`, so that a
+homotopy can target "F plus evaluated minors". :func:`expanded_minors` is the one symbolic builder, used where
+exact input needs exact equations (certificates) and where the expansion is small.
+
+Examples
+--------
+>>> import numpy as np
+>>> from numag.system.parse import parse_system
+>>> system = parse_system(["x^2*y - z^3", "x + y + z"], ["x", "y", "z"])
+>>> minors = EvaluatedMinors(system.polynomials, left=[np.eye(2)], right=[np.eye(3)[:, :2]])
+>>> point = np.array([[1.0, 2.0, 3.0]])
+>>> values, gradients = minors.evaluate(point)
+>>> float(values[0, 0].real)      # det [[2xy, x^2], [1, 1]] = 2xy - x^2
+3.0
+>>> gradients[0, 0].real          # (2y - 2x, 2x, 0)
+array([2., 2., 0.])
+>>> minors.degrees
+[2]
+"""
+
+import itertools
+import math
+
+import numpy as np
+
+from ..errors import InputError
+from ..system.polynomial import DEFAULT_LIMITS, Polynomial, combined_minor, determinant
+from .evaluate import BatchEvaluator, PrecisionEvaluator, TermSizes
+
+__all__ = ["AugmentedEvaluator", "EvaluatedMinors", "MinorWeights", "expanded_minors", "kernel_deflation",
+           "random_minor_weights"]
+
+
+class MinorWeights:
+    """How the minors of a Jacobian are combined: the pairs (A_k, B_k) of g_k = det(A_k J B_k).
+
+    Parameters
+    ----------
+    left : array_like, shape (K, c, m)
+    right : array_like, shape (K, n, c)
+    complete : bool
+        True when the pairs select every c x c minor (0/1 rows and columns), False for random combinations.
+    """
+
+    def __init__(self, left, right, complete):
+        self.left = np.asarray(left)
+        self.right = np.asarray(right)
+        if self.left.ndim != 3 or self.right.ndim != 3 or len(self.left) != len(self.right) \
+                or self.left.shape[1] != self.right.shape[2]:
+            raise InputError(f"minor weights of shapes {self.left.shape} and {self.right.shape} do not match")
+        self.complete = bool(complete)
+
+    @property
+    def count(self):
+        """Number of minors K."""
+        return len(self.left)
+
+    @property
+    def size(self):
+        """Size c of the minors."""
+        return self.left.shape[1]
+
+
+def random_minor_weights(m, n, size, max_minors, rng, exact=False, count=None, keep_rows=False):
+    """Every size x size minor of an m x n Jacobian when there are at most ``max_minors``, else random ones.
+
+    Parameters
+    ----------
+    m, n : int
+        Rows (equations) and columns (variables) of J.
+    size : int
+    max_minors : int
+        All minors up to this many; beyond, ``count`` (default n - size + 1) random combinations.
+    rng : numpy.random.Generator
+    exact : bool, default False
+        Small non-zero integer weights (combinations of exact polynomials stay exact) instead of complex
+        Gaussian ones.
+    count : int, optional
+    keep_rows : bool, default False
+        When size = m, take A = identity: det(A J B) = det(A) det(J B) has the same zeros, and its degree is
+        the sum of the row degrees instead of size times the largest one (fewer paths).
+
+    Returns
+    -------
+    MinorWeights
+
+    Examples
+    --------
+    >>> weights = random_minor_weights(2, 3, 2, 10, np.random.default_rng(0))
+    >>> weights.count, weights.complete, weights.left.shape, weights.right.shape
+    (3, True, (3, 2, 2), (3, 3, 2))
+    """
+    if not 1 <= size <= min(m, n):
+        raise InputError(f"minors of size {size} do not exist in a {m} x {n} Jacobian")
+    if math.comb(m, size) * math.comb(n, size) <= max_minors:
+        rows, cols = np.eye(m, dtype=np.int64), np.eye(n, dtype=np.int64)
+        pairs = [(rows[list(r)], cols[:, list(c)]) for r in itertools.combinations(range(m), size)
+                 for c in itertools.combinations(range(n), size)]
+        return MinorWeights([a for a, _ in pairs], [b for _, b in pairs], True)
+    count = n - size + 1 if count is None else count
+    left, right = [], []
+    for _ in range(count):  # drawn pair by pair: the stream of the generator does not depend on ``count``
+        if keep_rows and size == m:
+            left.append(np.eye(m, dtype=np.int64))
+            right.append(_integer_weights(rng, (n, size)) if exact else
+                         rng.standard_normal((n, size)) + 1j * rng.standard_normal((n, size)))
+        elif exact:
+            left.append(_integer_weights(rng, (size, m)))
+            right.append(_integer_weights(rng, (n, size)))
+        else:
+            left.append(rng.standard_normal((size, m)) + 1j * rng.standard_normal((size, m)))
+            right.append(rng.standard_normal((n, size)) + 1j * rng.standard_normal((n, size)))
+    return MinorWeights(left, right, False)
+
+
+def _integer_weights(rng, shape):
+    """Small non-zero integer weights: random combinations that stay exact."""
+    values = rng.integers(1, 6, size=shape) * rng.choice([-1, 1], size=shape)
+    return values.astype(np.int64)
+
+
+def expanded_minors(polynomials, weights, limits=DEFAULT_LIMITS, normalize=False):
+    """The minors det(A_k J B_k) written out as polynomials (exact weights keep exact input exact).
+
+    Use it where exact equations are needed (exact certificates) or the expansion is small; numerical work
+    takes :class:`EvaluatedMinors`. Zero minors are left out. The expansion is refused with ``LimitError``
+    beyond ``limits``.
+
+    Parameters
+    ----------
+    polynomials : sequence of Polynomial
+        F, m polynomials in n variables.
+    weights : MinorWeights
+    limits : Limits
+    normalize : bool, default False
+        Divide each minor by its coefficient norm (numeric polynomials).
+
+    Returns
+    -------
+    list of Polynomial
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> system = parse_system(["y^2 - x^3"], ["x", "y"])
+    >>> weights = random_minor_weights(1, 2, 1, 10, np.random.default_rng(0))
+    >>> [p.to_text(["x", "y"]) for p in expanded_minors(system.polynomials, weights)]
+    ['-3*x^2', '2*y']
+    """
+    polynomials = list(polynomials)
+    n = weights.right.shape[1]  # J in the first n variables (all of them, or a family's x before its parameters)
+    gradients = [[p.derivative(j) for j in range(n)] for p in polynomials]
+    result = []
+    for a, b in zip(weights.left, weights.right):
+        if weights.complete:  # 0/1 selections: the minor itself, without combining
+            rows, cols = np.nonzero(a)[1], np.nonzero(b)[0]
+            minor = determinant([[gradients[i][j] for j in cols] for i in rows], limits)
+        else:
+            minor = combined_minor(gradients, a, b, limits)
+        if minor.is_zero():
+            continue
+        result.append(minor * (1.0 / minor.coefficient_norm()) if normalize else minor)
+    return result
+
+
+class EvaluatedMinors:
+    """Equations g_k(x) = s_k det(A_k J(x) B_k), evaluated from J and its derivatives, never expanded.
+
+    J is the Jacobian of ``polynomials`` with respect to the variables ``columns`` (all by default); the
+    gradient of g_k is with respect to every variable (Jacobi's formula, adjugate by SVD).
+
+    Parameters
+    ----------
+    polynomials : sequence of Polynomial
+        F, m numeric (or exact, converted) polynomials in N variables.
+    left : array_like, shape (K, c, m)
+    right : array_like, shape (K, len(columns), c)
+    columns : sequence of int, optional
+        The variables J differentiates by (default all). The homogenised form differentiates by X_1..X_n
+        and not by X_0: det(A J^h B) = X_0^d det(A J B)(X / X_0), the homogenised minor.
+    scales : array_like, shape (K,), optional
+        Factors s_k (default 1).
+
+    Attributes
+    ----------
+    degrees : list of int
+        The degree of each g_k: the sum over the rows of A_k J of the largest degree of the derivatives
+        they combine. This is the degree of the homogenised form, the one a total-degree start needs.
+
+    Notes
+    -----
+    Cost per batch of P points: one evaluation of the m |columns| first derivatives and their gradients
+    (the second derivatives of F) and P K SVDs of c x c matrices; nothing grows with the number of terms
+    that an expansion would have.
+    """
+
+    def __init__(self, polynomials, left, right, columns=None, scales=None):
+        self.polynomials = [p.numeric() for p in polynomials]
+        if not self.polynomials:
+            raise InputError("minors of an empty system")
+        self.n_variables = self.polynomials[0].n_variables
+        self.columns = list(range(self.n_variables)) if columns is None else [int(j) for j in columns]
+        self.left = np.asarray(left, dtype=complex)
+        self.right = np.asarray(right, dtype=complex)
+        m, width = len(self.polynomials), len(self.columns)
+        if self.left.ndim != 3 or self.right.ndim != 3 or self.left.shape[2] != m or self.right.shape[1] != width \
+                or self.left.shape[:2] != (len(self.right), self.right.shape[2]):
+            raise InputError(f"minor weights of shapes {self.left.shape} and {self.right.shape} do not fit "
+                             f"a {m} x {width} Jacobian")
+        self.count, self.size = self.left.shape[0], self.left.shape[1]
+        self.scales = np.ones(self.count) if scales is None else np.asarray(scales, dtype=float)
+        # J's entries as polynomials (first derivatives), flattened row-major (i, j)
+        self.derivatives = [p.derivative(j) for p in self.polynomials for j in self.columns]
+        self._evaluator = BatchEvaluator(self.derivatives)
+        self._precise = None
+        self._sizes = {}
+        row_degrees = np.array([max(p.degree - 1, 0) for p in self.polynomials])
+        used = np.abs(self.left) > 0  # (K, c, m): which equations each row of A J combines
+        self.degrees = [int(sum(row_degrees[row].max(initial=0) for row in used[k])) for k in range(self.count)]
+
+    @classmethod
+    def from_weights(cls, polynomials, weights, homogenized=False):
+        """The minors ``weights`` of ``polynomials`` (affine), in the affine or homogenised form.
+
+        In the homogenised form each polynomial is homogenised to the degree of the largest one that shares
+        a row of A with it (all to the largest when A mixes rows), so that every row of A J^h B is
+        homogeneous and the determinant is the homogenised minor.
+
+        Examples
+        --------
+        >>> from numag.system.parse import parse_system
+        >>> system = parse_system(["x^3 + y", "x*y - 1"], ["x", "y"])
+        >>> weights = random_minor_weights(2, 2, 2, 10, np.random.default_rng(0))
+        >>> minors = EvaluatedMinors.from_weights(system.polynomials, weights, homogenized=True)
+        >>> minors.n_variables, minors.columns, minors.degrees
+        (3, [1, 2], [3])
+        """
+        polynomials = [p.numeric() for p in polynomials]
+        left = np.asarray(weights.left, dtype=complex)
+        if not homogenized:
+            return cls(polynomials, left, weights.right)
+        degrees = np.array([p.degree for p in polynomials])
+        mixed = np.abs(left).sum(axis=(0, 1)) > 0
+        top = int(degrees[mixed].max(initial=0))
+        # rows of A that combine equations of different degrees need a common degree; 0/1 selections do not
+        combines = bool(np.any((np.abs(left) > 0).sum(axis=2) > 1))
+        x0 = Polynomial.variable(0, polynomials[0].n_variables + 1).numeric()
+        lifted = []
+        for p, d in zip(polynomials, degrees):
+            h = p.homogenize(0)
+            lifted.append(h * x0.power(top - int(d)) if combines and d < top else h)
+        return cls(lifted, left, weights.right, columns=range(1, polynomials[0].n_variables + 1))
+
+    def scaled_to_unit(self, points):
+        """A copy whose minors are divided by the size of their terms at ``points[0]`` (the homotopy's norm).
+
+        Examples
+        --------
+        >>> from numag.system.parse import parse_system
+        >>> f = parse_system(["100*x^2 + 100*y^2"], ["x", "y"]).polynomials
+        >>> minors = EvaluatedMinors(f, [[[1]]], [[[1], [0]]]).scaled_to_unit(np.ones((1, 2)))
+        >>> float(minors.evaluate(np.array([[1.0, 0.0]]), jacobian=False)[0, 0].real)
+        1.0
+        """
+        sizes = self.sizes(np.atleast_2d(points)[:1], projective=False)[0][0]
+        return EvaluatedMinors(self.polynomials, self.left, self.right, self.columns, self.scales / sizes)
+
+    # -- double precision, batched over points -------------------------------------------------------
+
+    def _matrices(self, points, second=True):
+        """M_k = A_k J B_k (P, K, c, c) and, with ``second``, dM_k/dx_l (P, K, c, c, N)."""
+        count, m, width = len(points), len(self.polynomials), len(self.columns)
+        if second:
+            entries, hessian = self._evaluator.evaluate(points)
+            hessian = hessian.reshape(count, m, width, self.n_variables)
+        else:
+            entries, hessian = self._evaluator.evaluate(points, jacobian=False), None
+        jacobian = entries.reshape(count, m, width)
+        matrices = np.einsum("kam,pmj,kjb->pkab", self.left, jacobian, self.right, optimize=True)
+        if not second:
+            return matrices, None
+        derivatives = np.einsum("kam,pmjl,kjb->pkabl", self.left, hessian, self.right, optimize=True)
+        return matrices, derivatives
+
+    def evaluate(self, points, jacobian=True):
+        """Values g_k and (optionally) gradients at many points.
+
+        Parameters
+        ----------
+        points : array_like, shape (P, N)
+        jacobian : bool, default True
+
+        Returns
+        -------
+        values : ndarray, shape (P, K)
+        gradients : ndarray, shape (P, K, N), only when ``jacobian`` is true
+        """
+        points = self._evaluator._check(points)
+        matrices, derivatives = self._matrices(points, second=jacobian)
+        if not jacobian:
+            return np.linalg.det(matrices) * self.scales
+        values, adjugates = _determinant_and_adjugate(matrices)
+        # Jacobi's formula: d det M = tr(adj(M) dM)
+        gradients = np.einsum("pkba,pkabl->pkl", adjugates, derivatives, optimize=True)
+        return values * self.scales, gradients * self.scales[None, :, None]
+
+    def sizes(self, points, projective=False, homogenized=False):
+        """Sizes of the terms of each g_k and of its gradient (2-norm over the variables), each (P, K).
+
+        The entries of J are sized as in :class:`~numag.numeric.evaluate.TermSizes`; a determinant of
+        c x c entries of sizes S has terms no larger than the product over its rows of the row sums of
+        |A| S |B|, and its gradient than the product rule applied to those bounds.
+        """
+        key = (bool(projective), bool(homogenized))
+        if key not in self._sizes:
+            self._sizes[key] = TermSizes(self.derivatives, projective=projective, homogenized=homogenized)
+        value_sizes, gradient_sizes = self._sizes[key].both(np.atleast_2d(points))
+        count, m, width = len(value_sizes), len(self.polynomials), len(self.columns)
+        left, right = np.abs(self.left), np.abs(self.right)
+        rows = np.einsum("kam,pmj,kjb->pkab", left, value_sizes.reshape(count, m, width), right).sum(axis=3)
+        slopes = np.einsum("kam,pmj,kjb->pkab", left, gradient_sizes.reshape(count, m, width), right).sum(axis=3)
+        values = np.prod(rows, axis=2)
+        others = _products_of_others(rows)  # (P, K, c): product of the other rows' sizes
+        gradients = np.sum(others * slopes, axis=2)
+        return values * self.scales, gradients * self.scales
+
+    # -- mpmath, one point --------------------------------------------------------------------------
+
+    def evaluate_precise(self, point, ctx, jacobian=True):
+        """Values and gradients at one point in an mpmath context (``mp``, or ``iv`` for enclosures).
+
+        The determinant and the adjugate are Laplace expansions (c is a codimension: small), which need no
+        pivoting and so enclose correctly in interval arithmetic.
+
+        Returns
+        -------
+        values : ctx.matrix, shape (K, 1)
+        gradients : ctx.matrix, shape (K, N), only when ``jacobian`` is true
+
+        Examples
+        --------
+        >>> import mpmath
+        >>> from numag.system.parse import parse_system
+        >>> f = parse_system(["x^2*y - z^3", "x + y + z"], ["x", "y", "z"]).polynomials
+        >>> minors = EvaluatedMinors(f, [np.eye(2)], [np.eye(3)[:, :2]])
+        >>> values, gradients = minors.evaluate_precise([1, 2, 3], mpmath.mp)
+        >>> mpmath.nstr(values[0].real, 5), mpmath.nstr(gradients[0, 0].real, 5)
+        ('3.0', '2.0')
+        """
+        if self._precise is None:
+            self._precise = PrecisionEvaluator(self.derivatives)
+        m, width, c, n = len(self.polynomials), len(self.columns), self.size, self.n_variables
+        result = self._precise.evaluate(point, ctx, jacobian=jacobian)
+        entries, hessian = (result[0], result[1]) if jacobian else (result, None)
+
+        def weight(value):
+            return ctx.mpc(float(value.real), float(value.imag))
+
+        values = ctx.matrix(self.count, 1)
+        gradients = ctx.matrix(self.count, n) if jacobian else None
+        for k in range(self.count):
+            a = [[weight(self.left[k, r, i]) for i in range(m)] for r in range(c)]
+            b = [[weight(self.right[k, j, s]) for s in range(c)] for j in range(width)]
+
+            def combine(table):  # A T B for T given as a function (i, j) -> entry
+                return [[sum((a[r][i] * sum((table(i, j) * b[j][s] for j in range(width)), ctx.mpc(0))
+                              for i in range(m) if self.left[k, r, i] != 0), ctx.mpc(0))
+                         for s in range(c)] for r in range(c)]
+
+            matrix = combine(lambda i, j: entries[i * width + j])
+            scale = ctx.mpf(float(self.scales[k]))
+            values[k] = scale * _laplace(matrix, ctx)
+            if not jacobian:
+                continue
+            adjugate = _adjugate(matrix, ctx)
+            for l in range(n):
+                derivative = combine(lambda i, j: hessian[i * width + j, l])
+                gradients[k, l] = scale * sum((adjugate[s][r] * derivative[r][s] for r in range(c) for s in range(c)),
+                                              ctx.mpc(0))
+        return (values, gradients) if jacobian else values
+
+
+def _products_of_others(values):
+    """For each i along the last axis, the product of the other entries (no division: zeros are fine)."""
+    size = values.shape[-1]
+    out = np.ones_like(values)
+    for i in range(size):
+        for j in range(size):
+            if i != j:
+                out[..., i] = out[..., i] * values[..., j]
+    return out
+
+
+def _determinant_and_adjugate(matrices):
+    """det(M) and adj(M) of a stack of square matrices, singular ones included.
+
+    With M = U diag(s) V^H, det M = det(U) conj(det V) prod(s) and adj(M) = det(U) conj(det V) V diag(t) U^H,
+    t_i the product of the singular values other than s_i: no inverse, so rank-deficient M (where the minors
+    vanish and their gradients matter most) is as accurate as any other.
+    """
+    u, s, vh = np.linalg.svd(matrices)
+    phase = np.linalg.det(u) * np.linalg.det(vh)
+    values = phase * np.prod(s, axis=-1)
+    others = _products_of_others(s)
+    adjugates = phase[..., None, None] * np.einsum("...ji,...j,...kj->...ik", vh.conj(), others, u.conj(),
+                                                   optimize=True)
+    return values, adjugates
+
+
+def _laplace(matrix, ctx):
+    """Determinant by Laplace expansion along the first row (small matrices, any mpmath context)."""
+    size = len(matrix)
+    if size == 0:
+        return ctx.mpc(1)
+    if size == 1:
+        return matrix[0][0]
+    total = ctx.mpc(0)
+    for j in range(size):
+        rest = [row[:j] + row[j + 1:] for row in matrix[1:]]
+        term = matrix[0][j] * _laplace(rest, ctx)
+        total = total - term if j % 2 else total + term
+    return total
+
+
+def _adjugate(matrix, ctx):
+    """adj(M)[j][i] = (-1)^(i+j) det(M without row i and column j)."""
+    size = len(matrix)
+    if size == 1:
+        return [[ctx.mpc(1)]]
+    adjugate = [[None] * size for _ in range(size)]
+    for i in range(size):
+        for j in range(size):
+            rest = [row[:j] + row[j + 1:] for r, row in enumerate(matrix) if r != i]
+            cofactor = _laplace(rest, ctx)
+            adjugate[j][i] = -cofactor if (i + j) % 2 else cofactor
+    return adjugate
+
+
+class AugmentedEvaluator:
+    """F and evaluated minors behind the interface of :class:`~numag.numeric.evaluate.BatchEvaluator`.
+
+    The rows are F's equations first, then the minors. ``evaluate``, ``raw`` (with spare zero columns for a
+    caller's extra rows), ``sizes`` (:class:`TermSizes`' ``values``, ``gradients`` and ``both``) and
+    ``evaluate_precise`` are what a homotopy needs of its target.
+
+    Parameters
+    ----------
+    polynomials : sequence of Polynomial
+    minors : EvaluatedMinors
+        In the same variables.
+    spare_columns : int, default 0
+    projective, homogenized : bool
+        Passed to the term sizes (see :class:`TermSizes`).
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> f = parse_system(["x^2 + y^2 - 1"], ["x", "y"]).polynomials
+    >>> both = AugmentedEvaluator(f, EvaluatedMinors(f, [[[1]]], [[[1], [0]]]))
+    >>> values, jacobian = both.evaluate(np.array([[1.0, 1.0]]))
+    >>> values.real, jacobian[0].real
+    (array([[1., 2.]]), array([[2., 2.],
+           [2., 0.]]))
+    """
+
+    def __init__(self, polynomials, minors, spare_columns=0, projective=False, homogenized=False):
+        self.polynomials = list(polynomials)
+        self.minors = minors
+        self.n_variables = minors.n_variables
+        if any(p.n_variables != self.n_variables for p in self.polynomials):
+            raise InputError("the minors and the polynomials must have the same variables")
+        self.n_equations = len(self.polynomials) + minors.count
+        self.spare_columns = int(spare_columns)
+        self._polynomial_evaluator = BatchEvaluator(self.polynomials) if self.polynomials else None
+        self._polynomial_sizes = TermSizes(self.polynomials, projective, homogenized) if self.polynomials else None
+        self._precise = None
+        self.projective, self.homogenized = bool(projective), bool(homogenized)
+
+    def evaluate(self, points, jacobian=True):
+        """F and the minors, and optionally their Jacobian: (P, m + K) and (P, m + K, N)."""
+        points = self.minors._evaluator._check(points)
+        parts = [] if self._polynomial_evaluator is None else [self._polynomial_evaluator.evaluate(points, jacobian)]
+        parts.append(self.minors.evaluate(points, jacobian))
+        if not jacobian:
+            return np.hstack(parts)
+        return np.hstack([v for v, _ in parts]), np.concatenate([j for _, j in parts], axis=1)
+
+    def raw(self, points):
+        """One array (P, M + M N + spare): values, Jacobian rows (row-major), zeros, as ``BatchEvaluator.raw``."""
+        values, jacobian = self.evaluate(points)
+        count, size = values.shape
+        out = np.zeros((count, size + size * self.n_variables + self.spare_columns), dtype=complex)
+        out[:, :size] = values
+        out[:, size:size + size * self.n_variables] = jacobian.reshape(count, -1)
+        return out
+
+    def both(self, points):
+        """Term sizes of the values and of the gradient rows, each (P, m + K)."""
+        minor_values, minor_gradients = self.minors.sizes(points, self.projective, self.homogenized)
+        if self._polynomial_sizes is None:
+            return minor_values, minor_gradients
+        values, gradients = self._polynomial_sizes.both(points)
+        return np.hstack([values, minor_values]), np.hstack([gradients, minor_gradients])
+
+    def values(self, points):
+        """Term sizes of the values (P, m + K)."""
+        return self.both(points)[0]
+
+    def gradients(self, points):
+        """Term sizes of the gradient rows (P, m + K)."""
+        return self.both(points)[1]
+
+    def evaluate_precise(self, point, ctx, jacobian=True):
+        """F and the minors at one point in an mpmath context: ctx matrices (M, 1) and (M, N)."""
+        if self._precise is None and self.polynomials:
+            self._precise = PrecisionEvaluator(self.polynomials)
+        m, size, n = len(self.polynomials), self.n_equations, self.n_variables
+        values = ctx.matrix(size, 1)
+        matrix = ctx.matrix(size, n) if jacobian else None
+        if m:
+            result = self._precise.evaluate(point, ctx, jacobian)
+            f_values, f_jacobian = (result[0], result[1]) if jacobian else (result, None)
+            for i in range(m):
+                values[i] = f_values[i]
+                for j in range(n if jacobian else 0):
+                    matrix[i, j] = f_jacobian[i, j]
+        result = self.minors.evaluate_precise(point, ctx, jacobian)
+        g_values, g_gradients = (result[0], result[1]) if jacobian else (result, None)
+        for k in range(self.minors.count):
+            values[m + k] = g_values[k]
+            for j in range(n if jacobian else 0):
+                matrix[m + k, j] = g_gradients[k, j]
+        return (values, matrix) if jacobian else values
+
+
+def kernel_deflation(polynomials, rank, rng):
+    """One deflation step in the kernel form: F(x) = 0, J(x) B lambda = 0, h . lambda = 1 in (x, lambda).
+
+    At a zero x* of F where J has rank ``rank`` (r), a random B (n x (r + 1)) makes J(x*) B of rank r with
+    a one-dimensional kernel, so exactly one lambda in C^(r + 1) with h . lambda = 1 completes x*; the
+    deflated system has (x*, lambda*) as a zero of lower multiplicity (Leykin, Verschelde and Zhao,
+    "Newton's method with deflation for isolated singularities of polynomial systems", Theoret. Comput.
+    Sci. 359 (2006) 111-122), regular after finitely many steps. The new equations are bilinear in the
+    entries of J and lambda: m (r + 1) times the terms of J in all, where an (r + 1)-minor has up to
+    (r + 1)! times the products of r + 1 entries.
+
+    Parameters
+    ----------
+    polynomials : sequence of Polynomial
+        F, m polynomials in n variables (numeric).
+    rank : int
+        The numerical rank of J at the point (0 <= rank < n).
+    rng : numpy.random.Generator
+
+    Returns
+    -------
+    list of Polynomial
+        F lifted to the n + r + 1 variables (x, lambda), the m rows of J B lambda (each divided by its
+        coefficient norm), and h . lambda - 1.
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> f = parse_system(["x^2", "y^2"], ["x", "y"]).polynomials
+    >>> deflated = kernel_deflation(f, 0, np.random.default_rng(0))
+    >>> len(deflated), deflated[0].n_variables
+    (5, 3)
+    """
+    polynomials = [p.numeric() for p in polynomials]
+    n = polynomials[0].n_variables
+    if not 0 <= rank < n:
+        raise InputError(f"a kernel deflation needs 0 <= rank < {n}, not {rank}")
+    width = rank + 1
+    total = n + width
+    b = (rng.standard_normal((n, width)) + 1j * rng.standard_normal((n, width))) / math.sqrt(2 * n)
+    h = rng.standard_normal(width) + 1j * rng.standard_normal(width)
+    lifted = [Polynomial(np.hstack([p.exponents, np.zeros((p.n_terms, width), dtype=np.int64)]),
+                         p.numeric_coefficients(), total) for p in polynomials]
+    lambdas = [Polynomial.variable(n + k, total).numeric() for k in range(width)]
+    equations = list(lifted)
+    for p in lifted:
+        row = Polynomial.zero(total)
+        for k in range(width):
+            combined = Polynomial.zero(total)  # (J B)_{i k} = sum_j df_i/dx_j B_{j k}
+            for j in range(n):
+                derivative = p.derivative(j)
+                if not derivative.is_zero():
+                    combined = combined + derivative * complex(b[j, k])
+            row = row + lambdas[k] * combined
+        if not row.is_zero():
+            equations.append(row * (1.0 / row.coefficient_norm()))
+    equations.append(Polynomial.linear(np.concatenate([np.zeros(n), h]), -1.0))
+    return equations
