@@ -117,14 +117,9 @@ def test_a_singular_line_reaching_infinity_is_a_note_not_an_error(seed):
     assert any("reaches infinity" in note for note in locus.notes)  # the case said as it is (issue 20)
 
 
-def test_a_point_off_x_is_an_answer_for_the_locus_and_an_error_for_the_user():
-    # (3, 0) is at distance 2 from the unit circle (common practice, no source)
-    from numag.errors import PointError
-    from numag.singular.smoothness import Unsettled, settled_points
+def test_a_point_off_x_is_an_answer_not_an_error():
+    # (3, 0) is at distance 2 from the unit circle, (1, 0) on it (common practice, no source)
     circle = parse_system(["x^2 + y^2 - 1"], ["x", "y"])
-    answer = settled_points(circle, [[1, 0], [3, 0]], seed=0)
-    assert isinstance(answer, Unsettled) and answer.index == 2 and "is not on X" in answer.reason
-    with pytest.raises(PointError, match="is not on X") as raised:
-        check_points(circle, [[1, 0], [3, 0]], seed=0)
-    assert raised.value.index == 2
-    assert [v.verdict for v in settled_points(circle, [[1, 0]], seed=0).points] == [Verdict.SMOOTH]
+    report = check_points(circle, [[1, 0], [3, 0]], seed=0)
+    assert [v.verdict for v in report.points] == [Verdict.SMOOTH, Verdict.OFF] and report.off
+    assert report.points[1].distance > 1  # Newton moved it far beyond the point tolerance
