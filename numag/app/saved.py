@@ -67,7 +67,7 @@ def to_dict(result, options=None):
 
     Parameters
     ----------
-    result : CheckReport, SolveResult, Decomposition, SingularLocus, Comparison, Certificate, SweepResult or Discriminant
+    result : CheckReport, SolveResult, Decomposition, SingularLocus, Comparison, Certificate, SweepResult, Discriminant
     options : SolveOptions, DecomposeOptions or SingularOptions, optional
         The options of the run, recorded in the envelope (solve, decompose, singular). When not
         given, the defaults are recorded and a note says so.
@@ -145,7 +145,7 @@ def save(result, path, options=None):
 
     Parameters
     ----------
-    result : CheckReport, SolveResult, Decomposition, SingularLocus, Comparison, Certificate, SweepResult or Discriminant
+    result : CheckReport, SolveResult, Decomposition, SingularLocus, Comparison, Certificate, SweepResult, Discriminant
     path : str or path-like
         Replaced atomically when it is a regular file.
     options : optional
