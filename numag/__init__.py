@@ -10,7 +10,7 @@ The public API in brief:
 * :func:`singular_locus` -- every singular point and singular component of X (``numag singular``);
 * :func:`certify_regular_zero`, :func:`certify_singular_point`, :func:`certify_smooth_point`,
   :func:`certify_rank`, :func:`overlapping_pairs` with :class:`CertifyOptions` -- certificates (``numag certify``);
-* :func:`load_family`, :func:`discriminant`, :func:`sweep`, :func:`save_result`, :func:`load_result` -- families
+* :func:`load_family`, :func:`discriminant`, :func:`sweep` -- families
   F(x; p): where members are singular, what they do between, many members at once (``numag discriminant``,
   ``numag sweep``);
 * :func:`point_anatomy`, :func:`component_anatomy`, :func:`locus_anatomy` -- what kind of singularity
@@ -53,7 +53,6 @@ _PUBLIC = {
     "SingularOptions": "singular.locus", "singular_locus": "singular.locus",
     "DiscriminantOptions": "families.discriminant", "discriminant": "families.discriminant",
     "SweepOptions": "families.sweep", "sweep": "families.sweep",
-    "load_result": "families.records", "save_result": "families.records",
     "CertifyOptions": "certify.records",
     "certify_rank": "certify.certificates", "certify_regular_zero": "certify.certificates",
     "certify_singular_point": "certify.certificates", "certify_smooth_point": "certify.certificates",
@@ -69,7 +68,7 @@ __all__ = ["NumagError", "parse_system", "parse_polynomial", "Polynomial", "Poly
            "continue_solutions", "DecomposeOptions", "decompose", "components_through", "SingularOptions",
            "singular_locus", "CertifyOptions", "certify_regular_zero", "certify_singular_point",
            "certify_smooth_point", "certify_rank", "overlapping_pairs", "load_family", "DiscriminantOptions",
-           "discriminant", "SweepOptions", "sweep", "load_result", "save_result", "point_anatomy",
+           "discriminant", "SweepOptions", "sweep", "point_anatomy",
            "component_anatomy", "locus_anatomy", "save", "load", "System", "StartKind", "choose_start",
            "mixed_volume", "isolated_singular_points", "__version__"]
 

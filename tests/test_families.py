@@ -9,11 +9,12 @@ import math
 
 import numpy as np
 import pytest
+import numag
 
 from numag.app.cli import main
 from numag.errors import InputError, SystemFileError
 from numag.families.discriminant import DiscriminantOptions, discriminant
-from numag.families.records import ComponentKind, PointKind, load_result, save_result
+from numag.families.records import ComponentKind, PointKind
 from numag.families.sweep import LABEL_UNIT, SweepHomotopy, parse_grid, sweep
 from numag.system.exact import ExactCoefficient
 from numag.system.files import family_from_mapping
@@ -171,8 +172,8 @@ def test_solutions_running_off_to_infinity_are_told_apart():
 
 def test_discriminant_round_trip(tmp_path, cubic_discriminant):
     path = tmp_path / "cubic.json"
-    save_result(cubic_discriminant, path)
-    again = load_result(path)
+    numag.save(cubic_discriminant, path)
+    again = numag.load(path)
     assert again.to_dict() == cubic_discriminant.to_dict()
     assert again.components[0].kind == ComponentKind.FINITE
 
@@ -215,8 +216,8 @@ def test_sweep_matches_direct_solves(tmp_path):
     sure = np.min(np.abs(values[:, None] - critical[None, :]), axis=1) > 1e-6
     assert np.array_equal(result.real_counts()[sure], np.where(inside, 4, 0)[sure])
     path = tmp_path / "sweep.json"
-    save_result(result, path)
-    assert load_result(path).to_dict() == result.to_dict()
+    numag.save(result, path)
+    assert numag.load(path).to_dict() == result.to_dict()
 
 
 def test_sweep_reports_the_rank_drop_on_the_discriminant():
@@ -257,7 +258,7 @@ def test_command_line_tables_pictures_and_saved_results(tmp_path):
     saved, picture = tmp_path / "d.json", tmp_path / "d.svg"
     assert main(["discriminant", path, "--seed", "2", "--output", str(saved), "--svg", str(picture)], out=out) == 0
     assert "p in (-inf, 0): 0 real solution(s)" in out.getvalue() and "p in (0, inf): 2 real solution(s)" in out.getvalue()
-    assert [r.count.solutions for r in load_result(saved).regions] == [0, 2]
+    assert [r.count.solutions for r in numag.load(saved).regions] == [0, 2]
     labels = [t.firstChild.data for t in xml.dom.minidom.parse(str(picture)).getElementsByTagName("text")]
     assert "0" in labels and "2" in labels
     picture = tmp_path / "s.svg"

@@ -83,6 +83,45 @@ def test_comparison(tmp_path):
     assert [row.agree for row in loaded.rows] == [row.agree for row in comparison.rows]
 
 
+SQUARE_ROOT = {"variables": ["x"], "parameters": ["p"], "equations": ["x^2 - p"]}
+
+
+def test_discriminant(tmp_path):
+    # x^2 = p: the members are singular at p = 0 only, with no real root below and two above (common
+    # practice, no source)
+    from numag.system.files import family_from_mapping
+    result = numag.discriminant(family_from_mapping(SQUARE_ROOT), seed=2)
+    loaded = round_trip(result, tmp_path)
+    assert loaded.to_dict() == result.to_dict()
+    assert np.abs(loaded.real_points).max() < 1e-8 and [r.count.solutions for r in loaded.regions] == [0, 2]
+    saved = json.loads((tmp_path / "first.json").read_text())
+    assert saved["command"] == saved["kind"] == "discriminant" and "caution" in saved
+
+
+def test_sweep(tmp_path):
+    # x^2 = p at p = -1 and p = 4: no real root, then the real roots +-2 (common practice, no source)
+    from numag.system.files import family_from_mapping
+    result = numag.sweep(family_from_mapping(SQUARE_ROOT), [[-1.0], [4.0]], seed=2)
+    loaded = round_trip(result, tmp_path)
+    assert loaded.to_dict() == result.to_dict()
+    assert loaded.real_counts().tolist() == [0, 2]
+    assert sorted(loaded.values[1].points[:, 0].real) == pytest.approx([-2.0, 2.0], abs=1e-10)
+
+
+def test_families_results_written_without_the_envelope_load_too(tmp_path):
+    # --json and the --output files of earlier versions hold the result's own dictionary (a "kind", no
+    # "command"): numag.load reads them as the same result
+    from numag.system.files import family_from_mapping
+    result = numag.sweep(family_from_mapping(SQUARE_ROOT), [[1.0]], seed=5)
+    bare = tmp_path / "bare.json"
+    bare.write_text(json.dumps(result.to_dict()))
+    assert numag.load(bare).to_dict() == result.to_dict()
+    damaged = tmp_path / "damaged.json"
+    damaged.write_text(json.dumps({"kind": "sweep", "variables": ["x"]}))
+    with pytest.raises(InputError, match="damaged.json: the report of 'numag sweep' is damaged"):
+        numag.load(damaged)
+
+
 def test_what_cannot_be_saved_or_loaded_is_one_clear_error(tmp_path):
     with pytest.raises(InputError, match="cannot save a list"):
         to_dict([1, 2])

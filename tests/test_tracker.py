@@ -3,6 +3,7 @@ import pytest
 
 from numag.tracking.homotopy import StraightLineHomotopy
 from numag.system.parse import parse_system
+from numag.errors import InputError
 from numag.tracking.tracker import PathStatus, track_paths
 
 
@@ -150,3 +151,24 @@ def test_one_circle_vouches_for_its_own_endgame_estimate():
         affine = ends[:, 1:] / ends[:, :1]
         assert np.abs(affine).max() < 1e-8
     assert with_check.steps[singular].sum() < radii_only.steps[singular].sum()
+
+
+def test_the_rescue_predicts_with_the_steppers_tableau():
+    # The rescue takes its predictor from the tableau it is given: with the explicit Euler method (order 1,
+    # common practice, no source) it still reaches the same point as the batched stepper with RK4, in more steps.
+    from numag.tracking.methods import ButcherTableau, HalvingStepRule
+    from numag.tracking.rescue import track_segment_precise
+    from numag.tracking.tracker import Stepper, TrackerOptions, _Segment
+    system = parse_system(["x^2 + x*y - 1", "y^2 - x - 2"], ["x", "y"])
+    homotopy = StraightLineHomotopy.total_degree(system, np.random.default_rng(6))
+    start = homotopy.start_solutions()[:1]
+    stepper = Stepper(homotopy, start, np.ones(1), np.full(1, 0.1), _Segment, np.arange(1), TrackerOptions())
+    stepper.run()
+    euler = ButcherTableau(nodes=(0.0,), coupling=((),), weights=(1.0,), denominator=1.0, order=1)
+    rk4_point, rk4_steps = track_segment_precise(homotopy, start[0], 1.0, 0.1, 30)
+    euler_point, euler_steps = track_segment_precise(homotopy, start[0], 1.0, 0.1, 30, method=euler)
+    # both corrected to 10^-20 at 30 digits; the batched stepper's corrector stops at 1e-6 relative
+    assert np.abs(rk4_point - euler_point).max() < 1e-12 and np.abs(euler_point - stepper.points[0]).max() < 1e-5
+    assert euler_steps > rk4_steps
+    with pytest.raises(InputError, match="contraction"):
+        HalvingStepRule(contraction=1.0)

@@ -541,7 +541,8 @@ def certificate_from_dict(d):
 
 
 def _not_certified(reason, point, digits):
-    return Certificate(Status.UNDECIDED, Kind.NUMERICAL, "", np.asarray(point, dtype=complex), [], None, digits,
+    return Certificate(status=Status.UNDECIDED, kind=Kind.NUMERICAL, claim="",
+                       center=np.asarray(point, dtype=complex), center_text=[], radius=None, digits=digits,
                        reason=reason)
 
 

@@ -15,7 +15,13 @@ result type                    ``command`` written  read back as
 :class:`SingularLocus`         ``singular``         ``SingularLocus``
 :class:`Comparison`            ``compare``          ``Comparison``
 :class:`Certificate`           ``certificate``      ``Certificate``
+:class:`SweepResult`           ``sweep``            ``SweepResult``
+:class:`Discriminant`          ``discriminant``     ``Discriminant``
 =============================  ===================  =====================================
+
+The families' results (``numag sweep``, ``numag discriminant``) carry their own ``kind`` beside the
+envelope's keys; files written before they had an envelope (a ``kind`` and no ``command``, as
+``--output`` wrote them) and the commands' ``--json`` output load as well.
 
 Examples
 --------
@@ -35,6 +41,8 @@ from ..tracking.solve import SolveOptions, SolveResult
 from ..witness.decompose import Decomposition, DecomposeOptions
 from ..singular.locus import SingularLocus, SingularOptions
 from ..singular.smoothness import CheckReport
+from ..families.discriminant import Discriminant
+from ..families.sweep import SweepResult
 from ..certify.records import Certificate
 from .compare import Comparison
 from .report import (CAUTION, certificate_from_dict, certificate_to_dict, check_report_from_dict,
@@ -47,6 +55,9 @@ __all__ = ["save", "load", "to_dict", "from_dict"]
 #: Results whose envelope records the options of the run: their default options.
 _DEFAULT_OPTIONS = {SolveResult: SolveOptions, Decomposition: DecomposeOptions, SingularLocus: SingularOptions}
 
+#: The families' results: they write their own dictionaries (with a ``kind``), wrapped in the envelope.
+_FAMILY_RESULTS = {"sweep": SweepResult, "discriminant": Discriminant}
+
 _DEFAULTS_NOTE = ("The options of the run were not given when the result was saved: the options recorded here "
                   "are the defaults.")
 
@@ -56,7 +67,7 @@ def to_dict(result, options=None):
 
     Parameters
     ----------
-    result : CheckReport, SolveResult, Decomposition, SingularLocus, Comparison or Certificate
+    result : CheckReport, SolveResult, Decomposition, SingularLocus, Comparison, Certificate, SweepResult, Discriminant
     options : SolveOptions, DecomposeOptions or SingularOptions, optional
         The options of the run, recorded in the envelope (solve, decompose, singular). When not
         given, the defaults are recorded and a note says so.
@@ -79,6 +90,9 @@ def to_dict(result, options=None):
     if isinstance(result, Certificate):
         return {"numag_version": __version__, "command": "certificate", "certificate": certificate_to_dict(result),
                 "caution": CAUTION}
+    for command, kind in _FAMILY_RESULTS.items():
+        if isinstance(result, kind):
+            return {"numag_version": __version__, "command": command, **result.to_dict(), "caution": CAUTION}
     for kind, write in ((SolveResult, solve_report_to_dict), (Decomposition, decomposition_to_dict),
                         (SingularLocus, singular_to_dict)):
         if isinstance(result, kind):
@@ -88,7 +102,7 @@ def to_dict(result, options=None):
                 data["notes"] = list(data.get("notes", [])) + [_DEFAULTS_NOTE]
             return data
     raise InputError(f"numag cannot save a {type(result).__name__}: give a result of check_points, solve_system, "
-                     "decompose, singular_locus, compare_system or a certificate")
+                     "decompose, singular_locus, compare_system, sweep, discriminant or a certificate")
 
 
 def from_dict(data, with_options=False):
@@ -105,11 +119,14 @@ def from_dict(data, with_options=False):
     result, or (result, options) when ``with_options``
     """
     command = data.get("command") if isinstance(data, dict) else None
+    if command is None and isinstance(data, dict) and data.get("kind") in _FAMILY_RESULTS:
+        command = data["kind"]  # a family's result without the envelope (older --output, --json)
     command = command if isinstance(command, str) else None
     readers = {"check": lambda d: (check_report_from_dict(d), None), "solve": solve_report_from_dict,
                "decompose": decomposition_from_dict, "singular": singular_from_dict,
                "compare": lambda d: (compare_from_dict(d), None),
-               "certificate": lambda d: (certificate_from_dict(d["certificate"]), None)}
+               "certificate": lambda d: (certificate_from_dict(d["certificate"]), None),
+               **{name: (lambda d, kind=kind: (kind.from_dict(d), None)) for name, kind in _FAMILY_RESULTS.items()}}
     if command not in readers:
         raise InputError(f"not a saved numag result (command {str(command)[:30]!r}; expected one of "
                          f"{', '.join(readers)})")
@@ -128,7 +145,7 @@ def save(result, path, options=None):
 
     Parameters
     ----------
-    result : CheckReport, SolveResult, Decomposition, SingularLocus, Comparison or Certificate
+    result : CheckReport, SolveResult, Decomposition, SingularLocus, Comparison, Certificate, SweepResult, Discriminant
     path : str or path-like
         Replaced atomically when it is a regular file.
     options : optional

@@ -276,8 +276,9 @@ def certify_singular_point(system, point, codimension=None, options=None, projec
         reason = (f"the claimed codimension {codimension} is impossible here: a singular point needs rank J < c "
                   f"with 1 <= c <= {min(system.n_equations, ambient)} (c <= the number of equations by Krull's "
                   "theorem)")
-        certificate = Certificate(Status.REFUTED, Kind.NUMERICAL, claim, point, [_text(v, 17) for v in point],
-                                  None, options.digits, reason=reason)
+        certificate = Certificate(status=Status.REFUTED, kind=Kind.NUMERICAL, claim=claim, center=point,
+                                  center_text=[_text(v, 17) for v in point], radius=None, digits=options.digits,
+                                  reason=reason)
         certificate.claim_checks.append(ClaimCheck("codimension", codimension, None, ClaimStatus.REFUTED, reason))
         return certificate
     target = system
@@ -412,9 +413,9 @@ def certify_smooth_point(system, point, codimension, options=None, projective=No
     elif c > m:
         refusal = f"Krull's principal ideal theorem: every component of V(F) has codimension at most {m}"
     if refusal is not None:
-        certificate = Certificate(Status.REFUTED, Kind.NUMERICAL, Claim.SMOOTH_POINT, point,
-                                  [_text(v, 17) for v in point], None, options.digits,
-                                  reason=f"the claimed codimension {c} does not hold: {refusal}")
+        certificate = Certificate(status=Status.REFUTED, kind=Kind.NUMERICAL, claim=Claim.SMOOTH_POINT,
+                                  center=point, center_text=[_text(v, 17) for v in point], radius=None,
+                                  digits=options.digits, reason=f"the claimed codimension {c} does not hold: {refusal}")
         certificate.claim_checks.append(ClaimCheck("codimension", c, None, ClaimStatus.REFUTED, refusal))
         return certificate
 
@@ -634,8 +635,10 @@ def overlapping_pairs(certificates):
 
     Examples
     --------
-    >>> a = Certificate("certified", "numerical", "zero", np.array([0j]), ["0"], 1e-3, 20)
-    >>> b = Certificate("certified", "numerical", "zero", np.array([1 + 0j]), ["1"], 1e-3, 20)
+    >>> a = Certificate(status="certified", kind="numerical", claim="zero", center=np.array([0j]),
+    ...                 center_text=["0"], radius=1e-3, digits=20)
+    >>> b = Certificate(status="certified", kind="numerical", claim="zero", center=np.array([1 + 0j]),
+    ...                 center_text=["1"], radius=1e-3, digits=20)
     >>> overlapping_pairs([a, b]), a.distinct
     ([], True)
     """

@@ -67,8 +67,10 @@ def _exact_at_point(required, point, claim, digits, threshold):
             radii.append(_float_up(max(abs(shown.real - mpmath.mp.mpf(v.real)),
                                        abs(shown.imag - mpmath.mp.mpf(v.imag)))))
             texts.append(text)
-    certificate = Certificate(Status.CERTIFIED, Kind.EXACT, claim, np.asarray(point, dtype=complex), texts,
-                              max(radii, default=0.0), digits, method="exact substitution", threshold=threshold,
+    certificate = Certificate(status=Status.CERTIFIED, kind=Kind.EXACT, claim=claim,
+                              center=np.asarray(point, dtype=complex), center_text=texts,
+                              radius=max(radii, default=0.0), digits=digits, method="exact substitution",
+                              threshold=threshold,
                               radii=radii, backward_error=0.0, residual_bound=0.0, distance=0.0,
                               exact_method="exact substitution", exact_coordinates=[q.to_text() for q in exact],
                               real=bool(np.all(np.asarray(point, dtype=complex).imag == 0)))

@@ -233,7 +233,7 @@ class ClaimCheck:
         return self.status in (ClaimStatus.REFUTED, ClaimStatus.CONTRADICTED)
 
 
-@dataclass
+@dataclass(kw_only=True)
 class Certificate:
     """What was proved about one point.
 

@@ -17,8 +17,9 @@ from .square import _account, _publish, _refute
 
 
 def _undecided(claim, point, digits, reason, **extra):
-    return Certificate(Status.UNDECIDED, Kind.NUMERICAL, claim, np.asarray(point, dtype=complex),
-                       [_text(v, 17) for v in point], None, digits, reason=reason, **extra)
+    return Certificate(status=Status.UNDECIDED, kind=Kind.NUMERICAL, claim=claim,
+                       center=np.asarray(point, dtype=complex), center_text=[_text(v, 17) for v in point],
+                       radius=None, digits=digits, reason=reason, **extra)
 
 
 def _certify_zero(required, point, options, claim, pinned=(), exact_check=True, squares=None, want_exact=None):
@@ -81,8 +82,9 @@ def _certify_zero_at(required, point, options, claim, digits, pinned, exact_chec
             if refuting is not None:
                 size = "{:.3g}".format(reach) if radii[0] == reach and len(set(radii)) == 1 else \
                     f"{options.match_radius:.3g} of each coordinate's size"
-                return Certificate(Status.REFUTED, Kind.NUMERICAL, claim, point, [_text(v, 17) for v in point],
-                                   max(radii), digits, method="interval exclusion", threshold=threshold,
+                return Certificate(status=Status.REFUTED, kind=Kind.NUMERICAL, claim=claim, center=point,
+                                   center_text=[_text(v, 17) for v in point], radius=max(radii),
+                                   digits=digits, method="interval exclusion", threshold=threshold,
                                    radii=list(radii), reason=f"no zero within {size} of the point: equation "
                                    f"{refuting + 1} of the claim is nonzero over that box; before that: {reason}",
                                    **extra), None
@@ -128,8 +130,9 @@ def _settle(required, point, options, claim, digits, pinned, exact_check, box, r
                       alpha_radius=None if beta is None else float(2 * beta), threshold=threshold,
                       radii=radii, distance=distance)
         certificate = Certificate(
-            Status.CERTIFIED, Kind.NUMERICAL, claim, np.array([complex(c) for c in box.center]),
-            texts, max(radii, default=0.0), digits,
+            status=Status.CERTIFIED, kind=Kind.NUMERICAL, claim=claim,
+            center=np.array([complex(c) for c in box.center]), center_text=texts,
+            radius=max(radii, default=0.0), digits=digits,
             method=box.method, real=box.real,
             backward_error=None if accounting.backward is None else _float_up(accounting.backward),
             residual_bound=None if accounting.residual is None else _float_up(accounting.residual), **common)
@@ -227,8 +230,8 @@ def _restricted(required, point, zero, options, claim, digits, exact_check, pinn
         with working_digits(_guarded(digits)):
             center = [mpmath.mp.mpc(0) if j in zero else mpmath.mp.mpc(point[j]) for j in range(n)]
         certificate = Certificate(
-            Status.CERTIFIED, Kind.EXACT, claim, np.array([complex(c) for c in center]),
-            ["0" if j in zero else _text(center[j], 17) for j in range(n)], 0.0, digits,
+            status=Status.CERTIFIED, kind=Kind.EXACT, claim=claim, center=np.array([complex(c) for c in center]),
+            center_text=["0" if j in zero else _text(center[j], 17) for j in range(n)], radius=0.0, digits=digits,
             method="exact substitution", threshold=threshold, radii=[0.0] * n, zero_coordinates=list(zero),
             backward_error=0.0, residual_bound=0.0,
             exact_method="identically zero", distance=float(np.max(np.abs(point - np.array(

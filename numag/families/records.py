@@ -1,8 +1,8 @@
 """Typed results of the family computations and their JSON round trip.
 
 Every result class has ``to_dict`` / ``from_dict`` (plain JSON types: complex numbers as
-``[real, imaginary]`` pairs, infinities as the string ``"infinity"``); :func:`save_result` and
-:func:`load_result` write and read them (atomic write, strict bounded read).
+``[real, imaginary]`` pairs, infinities as the string ``"infinity"``); :func:`numag.save` and
+:func:`numag.load` write and read them like every other result (:mod:`numag.app.saved`).
 
 Examples
 --------
@@ -12,16 +12,12 @@ array([1.+2.j, 3.+0.j])
 """
 
 import enum
-import json
-import os
 
 import numpy as np
 
 from ..errors import InputError
-from ..system.safeio import MAX_INPUT_BYTES, atomic_write_bytes, loads_json, read_limited
 
-__all__ = ["PointKind", "ComponentKind", "encode_complex", "decode_complex", "encode_float", "decode_float",
-           "save_result", "load_result"]
+__all__ = ["PointKind", "ComponentKind", "encode_complex", "decode_complex", "encode_float", "decode_float"]
 
 
 class PointKind(str, enum.Enum):
@@ -63,25 +59,3 @@ def encode_float(value):
 
 def decode_float(value):
     return float("inf") if value == "infinity" else float(value)
-
-
-def save_result(result, path):
-    """Write a result (anything with ``to_dict``) as JSON, atomically."""
-    atomic_write_bytes(os.fspath(path), (json.dumps(result.to_dict(), indent=1, allow_nan=False) + "\n").encode())
-
-
-def load_result(path):
-    """Read a result written by :func:`save_result` (the class is named in the file)."""
-    from .discriminant import Discriminant  # the result classes live beside their computations
-    from .sweep import SweepResult
-
-    data = loads_json(read_limited(os.fspath(path), MAX_INPUT_BYTES, "result file"), os.fspath(path))
-    kinds = {"sweep": SweepResult, "discriminant": Discriminant}
-    if not isinstance(data, dict) or data.get("kind") not in kinds:
-        raise InputError(f"{os.fspath(path)}: not a saved sweep or discriminant (no 'kind' of "
-                         f"{', '.join(kinds)})")
-    try:
-        return kinds[data["kind"]].from_dict(data)
-    except (KeyError, TypeError, ValueError) as err:
-        raise InputError(f"{os.fspath(path)}: a damaged {data['kind']} result ({type(err).__name__}: "
-                         f"{str(err)[:80]})") from None

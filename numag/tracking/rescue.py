@@ -7,84 +7,98 @@ tracks such a path from s = 1 to the endgame radius at a chosen number of
 digits; the batched tracker then finishes it (the endgame works in double
 precision on the well-separated end of the path).
 
-Written against the homotopy's ``evaluate_precise(point, s, ctx)``.
+The predictor is the batched stepper's :class:`~numag.tracking.methods.ButcherTableau` (``RK4``)
+and the step rule a named policy (:class:`~numag.tracking.methods.HalvingStepRule`), both written
+against a precision context: the homotopy's ``evaluate_precise(point, s, ctx)`` and the context's
+``matrix``, ``lu_solve`` and ``norm``, as mpmath's own contexts share them.
 """
 
 import mpmath
 import numpy as np
 
+from .methods import RESCUE_STEP_RULE, RK4, decimal
+
 __all__ = ["track_segment_precise"]
 
 
-def _velocity(homotopy, point, s, ctx):
-    _, jacobian, derivative = homotopy.evaluate_precise(point, s, ctx)
-    step = ctx.lu_solve(jacobian, derivative)
-    return [-step[k] for k in range(len(point))]
+def _corrected(homotopy, predicted, s, tolerance, rule, ctx):
+    """Newton corrections at s: the point and the last correction's relative size, or (None, None) when
+    the corrections do not contract or the Jacobian is singular."""
+    previous = None
+    for _ in range(rule.corrector_iterations):
+        values, jacobian, _ = homotopy.evaluate_precise(list(predicted), s, ctx)
+        try:
+            delta = ctx.lu_solve(jacobian, values)
+        except ZeroDivisionError:
+            return None, None
+        predicted = predicted - delta
+        size = ctx.norm(delta) / (1 + ctx.norm(predicted))
+        if previous is not None and size > rule.contraction * previous and size > tolerance:
+            return None, None
+        previous = size
+    return predicted, previous
 
 
-def _combine(point, direction, factor):
-    return [p + factor * d for p, d in zip(point, direction)]
-
-
-def track_segment_precise(homotopy, start, s_start, s_end, digits, max_steps=20000):
-    """Track one path along real s from ``s_start`` to ``s_end`` at ``digits`` digits.
+def track_segment_precise(homotopy, start, s_start, s_end, digits, max_steps=20000, *, method=RK4,
+                          rule=RESCUE_STEP_RULE, ctx=mpmath.mp):
+    """Track one path along real s from ``s_start`` down to ``s_end`` at ``digits`` digits.
 
     Parameters
     ----------
-    homotopy : object with ``evaluate_precise``
+    homotopy : object with ``evaluate_precise(point, s, ctx)``
     start : sequence of complex
     s_start, s_end : float
+        ``s_end < s_start``.
     digits : int
     max_steps : int
+    method : ButcherTableau
+        The predictor (the batched stepper's).
+    rule : HalvingStepRule
+        The step control.
+    ctx : mpmath context
+        Its ``workdps`` sets the precision.
 
     Returns
     -------
     (ndarray or None, int)
         The point at ``s_end`` (complex double) or None when the path failed, and the steps taken.
+
+    Examples
+    --------
+    >>> import numpy as np
+    >>> from numag.system.parse import parse_system
+    >>> from numag.tracking.homotopy import StraightLineHomotopy
+    >>> homotopy = StraightLineHomotopy.total_degree(parse_system(["x^2 - 4"], ["x"]), np.random.default_rng(0))
+    >>> near, steps = track_segment_precise(homotopy, homotopy.start_solutions()[0], 1.0, 0.1, 30)
+    >>> near.shape, steps > 0
+    ((2,), True)
     """
-    with mpmath.mp.workdps(digits):
-        ctx = mpmath.mp
-        point = [ctx.mpc(v) for v in start]
+    with ctx.workdps(digits):
+        point = ctx.matrix([ctx.mpc(v) for v in start])
         s = ctx.mpf(s_start)
         target = ctx.mpf(s_end)
-        step = ctx.mpf("0.01")
-        tolerance = ctx.mpf(10) ** (-(digits * 2) // 3)
-        minimum = ctx.mpf(10) ** (-(digits - 5))
+        step = decimal(ctx, rule.initial_step)
+        tolerance = rule.tolerance(ctx, digits)
+        minimum = rule.min_step(ctx, digits)
         successes = steps = 0
         while s > target and steps < max_steps:
             steps += 1
-            h = min(step, s - target)
+            h = -min(step, s - target)  # s decreases: the stepper's signed step
             try:
-                k1 = _velocity(homotopy, point, s, ctx)
-                k2 = _velocity(homotopy, _combine(point, k1, -h / 2), s - h / 2, ctx)
-                k3 = _velocity(homotopy, _combine(point, k2, -h / 2), s - h / 2, ctx)
-                k4 = _velocity(homotopy, _combine(point, k3, -h), s - h, ctx)
+                stages = [-ctx.lu_solve(*homotopy.evaluate_precise(list(point), s, ctx)[1:])]
+                for i in range(1, len(method.nodes)):
+                    _, jacobian, derivative = homotopy.evaluate_precise(
+                        list(method.stage_point(i, point, h, stages)), method.stage_time(i, s, h), ctx)
+                    stages.append(-ctx.lu_solve(jacobian, derivative))
             except ZeroDivisionError:
                 return None, steps
-            predicted = [p - h / 6 * (a + 2 * b + 2 * c + d) for p, a, b, c, d in zip(point, k1, k2, k3, k4)]
-            new_s = s - h
-            ok, previous = True, None
-            for _ in range(3):
-                values, jacobian, _ = homotopy.evaluate_precise(predicted, new_s, ctx)
-                try:
-                    delta = ctx.lu_solve(jacobian, values)
-                except ZeroDivisionError:
-                    ok = False
-                    break
-                predicted = [p - delta[k] for k, p in enumerate(predicted)]
-                size = ctx.norm(delta) / (1 + ctx.norm(ctx.matrix(predicted)))
-                if previous is not None and size > previous / 2 and size > tolerance:
-                    ok = False
-                    break
-                previous = size
-            if ok and previous <= tolerance * 1000:
-                point, s = predicted, new_s
-                successes += 1
-                if successes >= 3:
-                    step, successes = min(step * 2, ctx.mpf("0.1")), 0
+            new_s = s + h
+            corrected, last = _corrected(homotopy, method.advance(point, h, stages), new_s, tolerance, rule, ctx)
+            if corrected is not None and last <= tolerance * rule.acceptance_slack:
+                point, s = corrected, new_s
+                step, successes = rule.after_accepted(step, successes, ctx)
             else:
-                step /= 2
-                successes = 0
+                step, successes = rule.after_rejected(step)
                 if step < minimum:
                     return None, steps
         if s > target:

@@ -122,7 +122,7 @@ class Execution:
     executor: object = None
 
 
-@dataclass
+@dataclass(kw_only=True)
 class Solution:
     """One distinct endpoint (a solution, a point at infinity, or a flagged non-isolated point).
 
@@ -165,7 +165,7 @@ class Solution:
                 f"condition {self.condition:.2g})")
 
 
-@dataclass
+@dataclass(kw_only=True)
 class SolveResult:
     """Everything :func:`solve_system` found.
 
@@ -477,8 +477,10 @@ def _run(system, homotopy, start_points, total, options, rng, seed, progress, st
         for solution in solutions:
             (kept if _satisfies(system, solution.point) else discarded).append(solution)
         solutions = kept
-    result = SolveResult(system, solutions, infinite, not_isolated, status, run.steps, winding, run.retracked, seed,
-                         time.perf_counter() - started, run.evaluations, squared, run.digits)
+    result = SolveResult(system=system, solutions=solutions, at_infinity=infinite, not_isolated=not_isolated,
+                         status=status, steps=run.steps, winding=winding, retracked=run.retracked, seed=seed,
+                         seconds=time.perf_counter() - started, evaluations=run.evaluations, squared_up=squared,
+                         digits=run.digits)
     result.discarded = discarded
     description = dict(run.execution)
     tracking = description.pop("tracking_seconds")  # the batches and the re-tracking of jumped paths
@@ -518,8 +520,10 @@ def _collect(system, endpoints, status, winding, condition, options, rng):
         paths = finite[members]
         if len(members) == 1 and status[paths[0]] == converged:
             # the common case, a regular endpoint reached by one path: nothing to test or refine
-            solutions.append(Solution(finite_points[members[0]], 1, int(winding[paths[0]]), False,
-                                      bool(real_points[members[0]]), float(condition[paths[0]]), True, paths, 16))
+            solutions.append(Solution(point=finite_points[members[0]], multiplicity=1,
+                                      winding=int(winding[paths[0]]), at_infinity=False,
+                                      real=bool(real_points[members[0]]), condition=float(condition[paths[0]]),
+                                      isolated=True, paths=paths, digits=16))
             continue
         best = members[np.argmin(condition[paths])]
         point = finite_points[best]
@@ -542,8 +546,9 @@ def _collect(system, endpoints, status, winding, condition, options, rng):
                 digits = options.refine_digits
                 point = test_point if pivot is None else np.insert(test_point, pivot, 1.0)
         real = bool(real_coefficients and np.all(np.abs(point.imag) <= 1e-8 * (1 + np.abs(point))))
-        entry = Solution(point, len(members), int(winding[paths].max()), False, real,
-                         float(condition[paths].min()), isolated, paths, digits)
+        entry = Solution(point=point, multiplicity=len(members), winding=int(winding[paths].max()),
+                         at_infinity=False, real=real, condition=float(condition[paths].min()), isolated=isolated,
+                         paths=paths, digits=digits)
         (solutions if isolated else flagged).append(entry)
     at_infinity = []
     if len(infinite):
@@ -552,6 +557,7 @@ def _collect(system, endpoints, status, winding, condition, options, rng):
             paths = infinite[members]
             point = points[members[0]]
             real = bool(real_coefficients and np.all(np.abs(point.imag) <= 1e-8 * (1 + np.abs(point))))
-            at_infinity.append(Solution(point, len(members), int(winding[paths].max()), True, real,
-                                        float(condition[paths].min()), True, paths, 16))
+            at_infinity.append(Solution(point=point, multiplicity=len(members), winding=int(winding[paths].max()),
+                                        at_infinity=True, real=real, condition=float(condition[paths].min()),
+                                        isolated=True, paths=paths, digits=16))
     return solutions, at_infinity, flagged

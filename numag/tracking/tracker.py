@@ -47,6 +47,8 @@ import numpy as np
 
 from ..errors import is_integer, is_number, require_option
 from ..run.executor import check_memory
+from .methods import (ERROR_FLOOR, RK4, STEP_MAX_FACTOR, STEP_MIN_FACTOR, STEP_REJECT_FACTOR, STEP_SAFETY,  # noqa: F401
+                      ButcherTableau)
 from .rescue import track_segment_precise
 
 __all__ = ["PathStatus", "TrackerOptions", "TrackResult", "track_paths", "projective_condition", "Stepper",
@@ -367,54 +369,6 @@ def _inverse(jacobian):
         return result
 
 
-@dataclass(frozen=True)
-class ButcherTableau:
-    """An explicit Runge-Kutta method: stage i is k_i = f(x + h sum_j a_ij k_j, t + c_i h) and the
-    step x + h sum_i b_i k_i, with b_i = ``weights[i] / denominator``.
-
-    Attributes
-    ----------
-    nodes : tuple of float
-        c_i.
-    coupling : tuple of tuple
-        Row i lists the nonzero (j, a_ij) of the stage's input (a zero term could turn a NaN in an
-        unused stage into a NaN point).
-    weights : tuple of float
-        b_i times ``denominator``.
-    denominator : float
-    agreeing : tuple of int
-        Two stages that estimate the same slope; where they disagree the step is rejected before
-        the later stages are paid for (empty: no such check).
-
-    Examples
-    --------
-    >>> RK4.order, [w / RK4.denominator for w in RK4.weights]
-    (4, [0.16666666666666666, 0.3333333333333333, 0.3333333333333333, 0.16666666666666666])
-    """
-
-    nodes: tuple
-    coupling: tuple
-    weights: tuple
-    denominator: float
-    order: int
-    agreeing: tuple = ()
-
-
-#: The classical fourth-order Runge-Kutta method (its two midpoint stages estimate the same slope).
-RK4 = ButcherTableau(nodes=(0.0, 0.5, 0.5, 1.0), coupling=((), ((0, 0.5),), ((1, 0.5),), ((2, 1.0),)),
-                     weights=(1.0, 2.0, 2.0, 1.0), denominator=6.0, order=4, agreeing=(1, 2))
-
-#: Step control. The first Newton correction measures the predictor's error, which scales like
-#: h^(order + 1); the next step aims at ``predictor_error`` with this safety factor ...
-STEP_SAFETY = 0.8
-#: ... and changes by at most these factors after an accepted step ...
-STEP_MIN_FACTOR, STEP_MAX_FACTOR = 0.5, 2.0
-#: ... and by this factor after a rejected one.
-STEP_REJECT_FACTOR = 0.5
-#: Errors are floored here before dividing by them.
-ERROR_FLOOR = 1e-300
-
-
 class Stepper:
     """Moves a batch of paths from t to t_end along a curve s(t) of the homotopy's parameter.
 
@@ -525,11 +479,7 @@ class Stepper:
         return k1
 
     def _stage(self, i, x, tt, h, stages, rows):
-        y = x
-        for j, a in self.method.coupling[i]:
-            y = y + a * h[:, None] * stages[j]
-        node = self.method.nodes[i]
-        return self._velocity(y, tt + (h if node == 1.0 else node * h), rows)
+        return self._velocity(self.method.stage_point(i, x, h[:, None], stages), self.method.stage_time(i, tt, h), rows)
 
     def step(self, active=None):
         """One batched step of the ``active`` rows (default: every running row)."""
@@ -567,10 +517,7 @@ class Stepper:
             stages = [k[go] for k in stages]
             for i in range(last_checked + 1, len(method.nodes)):
                 stages.append(self._stage(i, xs, ts, hs, stages, rs))
-            total = method.weights[0] * stages[0] if method.weights[0] != 1.0 else stages[0]
-            for weight, k in zip(method.weights[1:], stages[1:]):
-                total = total + (k if weight == 1.0 else weight * k)
-            predicted = xs + (hs[:, None] / method.denominator) * total
+            predicted = method.advance(xs, hs[:, None], stages)
             fixed, ok, first_error, slope = _correct(self.homotopy, predicted, self.curve.s(new_t[go], rs),
                                                      opts.corrector_tolerance, opts.corrector_iterations,
                                                      chord=opts.chord_corrector,

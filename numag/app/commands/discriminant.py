@@ -8,9 +8,10 @@ from ...system.files import load_family
 from ...system.safeio import write_file
 from ...tracking.tracker import FAILURE_LABELS
 from ...families.discriminant import DiscriminantOptions, discriminant
-from ...families.records import ComponentKind, save_result
+from ...families.records import ComponentKind
 from ..picture import discriminant_svg, sweep_svg
 from ..report import CAUTION, dumps
+from ..saved import save
 from .common import (EXIT_OK, EXIT_UNDECIDED, _add_executor_options, _add_work_options, _format_complex, _progress,
                      _seed, _stage_executor)
 
@@ -30,7 +31,7 @@ def add_parser(commands):
     command.add_argument("--lines", type=int, default=DiscriminantOptions.lines, metavar="N",
                          help="two parameters: vertical lines across the first one's range (default %(default)s)")
     command.add_argument("--seed", type=_seed, help="seed of the random choices (recorded in the report)")
-    command.add_argument("--output", metavar="JSON", help="save the result (reload with numag.load_result)")
+    command.add_argument("--output", metavar="JSON", help="save the result (reload with numag.load)")
     command.add_argument("--svg", metavar="FILE", help="draw the result (regions and counts) as an SVG picture")
     command.add_argument("--json", action="store_true", help="print the result as JSON (no progress lines)")
     _add_executor_options(command)
@@ -101,7 +102,7 @@ def run(args, out):
     with _stage_executor(args) as executor, using(executor):
         result = discriminant(family, options, seed=args.seed, progress=_progress(args))
     if args.output:
-        save_result(result, args.output)
+        save(result, args.output)
     if args.svg:
         write_file(args.svg, (discriminant_svg(result) if "discriminant" in __name__ else sweep_svg(result)).encode())
     if args.json:

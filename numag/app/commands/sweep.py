@@ -9,10 +9,11 @@ from ...errors import InputError, SystemFileError
 from ...system.files import load_family
 from ...system.safeio import MAX_INPUT_BYTES, read_limited, write_file
 from ...tracking.solve import Execution
-from ...families.records import PointKind, save_result
+from ...families.records import PointKind
 from ...families.sweep import MAX_VALUES, sweep, parse_grid
 from ..picture import discriminant_svg, sweep_svg
 from ..report import CAUTION, dumps
+from ..saved import save
 from .common import (EXIT_OK, EXIT_UNDECIDED, _add_executor_options, _add_work_options, _format_point, _progress,
                      _seed)
 
@@ -31,7 +32,7 @@ def add_parser(commands):
     values.add_argument("--values", metavar="CSV", help="a CSV file with a header naming the parameters and one "
                         "row of values per member")
     command.add_argument("--csv", metavar="FILE", help="write one row per real solution (and per value without one)")
-    command.add_argument("--output", metavar="JSON", help="save the result (reload with numag.load_result)")
+    command.add_argument("--output", metavar="JSON", help="save the result (reload with numag.load)")
     command.add_argument("--svg", metavar="FILE", help="draw the result (regions and counts) as an SVG picture")
     command.add_argument("--json", action="store_true", help="print the result as JSON (no progress lines)")
     command.add_argument("--seed", type=_seed, help="seed of the random choices (recorded in the result)")
@@ -126,7 +127,7 @@ def run(args, out):
     if args.csv:
         write_file(args.csv, _csv_text(result).encode("utf-8"))
     if args.output:
-        save_result(result, args.output)
+        save(result, args.output)
     if args.svg:
         write_file(args.svg, (discriminant_svg(result) if "discriminant" in __name__ else sweep_svg(result)).encode())
     if args.json:
