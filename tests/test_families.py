@@ -257,7 +257,7 @@ def test_command_line_tables_pictures_and_saved_results(tmp_path):
     out = io.StringIO()
     saved, picture = tmp_path / "d.json", tmp_path / "d.svg"
     assert main(["discriminant", path, "--seed", "2", "--output", str(saved), "--svg", str(picture)], out=out) == 0
-    assert "p in (-inf, 0): 0 real solution(s)" in out.getvalue() and "p in (0, inf): 2 real solution(s)" in out.getvalue()
+    assert "p in (-inf, 0): 0 real solutions" in out.getvalue() and "p in (0, inf): 2 real solutions" in out.getvalue()
     assert [r.count.solutions for r in numag.load(saved).regions] == [0, 2]
     labels = [t.firstChild.data for t in xml.dom.minidom.parse(str(picture)).getElementsByTagName("text")]
     assert "0" in labels and "2" in labels

@@ -12,6 +12,7 @@ Examples
 
 import numpy as np
 
+from ..system.display import counted
 from .commands.common import _format_point
 
 __all__ = ["write_point_anatomy", "write_component_anatomy", "attach_to_singular", "attach_to_check"]
@@ -45,7 +46,7 @@ def write_point_anatomy(anatomy, names, out, indent="        "):
         out.write(f"{indent}  decided by: {h.decided_by.value} (scaled Hessian singular values [{values}], zero "
                   f"below {h.hessian.tolerance:.1g})\n")
     if anatomy.branches is not None:
-        out.write(f"{indent}{len(anatomy.branches)} branch(es), {anatomy.real_branches} real\n")
+        out.write(f"{indent}{counted(len(anatomy.branches), 'branch', 'branches')}, {anatomy.real_branches} real\n")
         for k, branch in enumerate(anatomy.branches, 1):
             kind = "real" if branch.real else "complex"
             where = _rates(branch.angle_rates) if branch.angle_rates else "tangent " + _direction(names, branch.tangent)
@@ -61,7 +62,7 @@ def write_component_anatomy(anatomy, names, out, indent="        "):
     out.write(f"{indent}transversal type (a generic normal slice at a generic point):\n")
     write_point_anatomy(anatomy.transversal, [f"u{j + 1}" for j in range(len(names) - anatomy.dimension)], out,
                         indent + "  ")
-    out.write(f"{indent}{len(anatomy.special_points)} special point(s) where the transversal type changes\n")
+    out.write(f"{indent}{counted(len(anatomy.special_points), 'special point')} where the transversal type changes\n")
     for point in anatomy.special_points:
         shown = np.where(np.abs(point.point) < 1e-12 * (1 + np.max(np.abs(point.point))), 0, point.point)
         out.write(f"{indent}  at {_format_point(names, shown)}:\n")

@@ -2,6 +2,7 @@
 prints certificates (``--certify``).
 """
 
+from ...system.display import counted
 from ...run.executor import make_executor
 from ...certify.records import CertifyOptions, ClaimStatus, Kind, Status
 from ..report import CAUTION, certify_report, dumps, read_report, write_report
@@ -89,7 +90,7 @@ def _certificate_line(certificate):
         if c["kind"] == Kind.NUMERICAL and isinstance(c["backward_error"], float):
             parts.append(f"backward error {c['backward_error']:.1e} (< {c['threshold']:.0e})")
         if c["deflations"]:
-            parts.append(f"{c['deflations']} deflation(s)")
+            parts.append(counted(c['deflations'], 'deflation'))
         if c.get("multiplicity") is not None:
             parts.append(f"multiplicity {c['multiplicity']} ({c['multiplicity_method']})")
         if c.get("distance"):
@@ -134,9 +135,9 @@ def _print_certification(data, out):
               f"{counts['refuted']} refuted, {counts['undecided']} undecided")
     if summary["all_distinct"] is not None:
         out.write("; certified boxes pairwise disjoint" if summary["all_distinct"] else
-                  f"; {summary['overlapping_pairs']} pair(s) of boxes meet (points may coincide)")
+                  f"; {counted(summary['overlapping_pairs'], 'pair')} of boxes meet (points may coincide)")
     if summary.get("claims_failed"):
-        out.write(f"\n  {summary['claims_failed']} claim(s) of the report did not hold")
+        out.write(f"\n  {counted(summary['claims_failed'], 'claim')} of the report did not hold")
     out.write("\n  numerical: exactly one zero of a square subsystem in the box, every other equation bounded "
               "over it (backward error);\n  exact: proved for the exact equations (only these prove a point "
               "singular).\n")

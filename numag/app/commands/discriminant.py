@@ -2,6 +2,7 @@
 
 import math
 
+from ...system.display import counted
 from ...errors import NumagError, SystemFileError
 from ...run.executor import using
 from ...system.files import load_family
@@ -46,9 +47,9 @@ def _failed(result):
 
 def _count_text(count):
     if count.solutions is not None:
-        return f"{count.solutions} real solution(s)"
+        return counted(count.solutions, "real solution")
     if count.branches is not None:
-        return f"{count.branches} real branch(es)"
+        return counted(count.branches, "real branch", "real branches")
     return "not counted (members of dimension 2 or more)"
 
 
@@ -60,11 +61,11 @@ def _interval(low, high):
 
 def _print(result, out):
     names = ", ".join(result.parameters)
-    out.write(f"numag discriminant: {len(result.equations)} equation(s) in {', '.join(result.variables)}; "
+    out.write(f"numag discriminant: {counted(len(result.equations), 'equation')} in {', '.join(result.variables)}; "
               f"parameters {names}; members of codimension {result.codimension}; seed {result.seed}\n")
     out.write(f"paths: {result.paths.get('tracked', 0)} tracked, {_failed(result)} failed; {result.seconds:.2f} s\n")
     finite = [c for c in result.components if c.kind == ComponentKind.FINITE]
-    out.write(f"\n{len(finite)} component(s) of the discriminant (members singular at a finite point)\n")
+    out.write(f"\n{counted(len(finite), 'component')} of the discriminant (members singular at a finite point)\n")
     for k, c in enumerate(result.components, 1):
         sample = ", ".join(f"{p}={_format_complex(complex(z))}" for p, z in zip(result.parameters, c.points[0]))
         out.write(f"  {k:3d}  {c.kind.value:13s} dimension {c.dimension}  degree {c.degree}  "
