@@ -21,16 +21,16 @@ def _singular_points(locus):
         -1, locus.system.n_variables)
 
 
-@pytest.mark.parametrize("seed", [3, 17])
+@pytest.mark.parametrize("start, seed", [("multihomogeneous", 3), ("multihomogeneous", 17), ("polyhedral", 3)])
 @pytest.mark.parametrize("name", ["node", "cusp", "four_generic_lines", "trifolium_triple_point", "smooth_conic",
                                   "cone_over_smooth_plane_cubic"])
-def test_two_homogeneous_start_gives_the_total_degree_answers_with_fewer_paths(name, seed):
+def test_structured_starts_give_the_total_degree_answers_with_fewer_paths(name, start, seed):
     # the number of singular points of each shared problem (tests/data/problems.json, each entry's
     # "source": common practice, no source), found by both routes, at the same places
     problem = PROBLEMS[name]
     system = parse_system(problem["equations"], problem["variables"])
     by_degree = singular_locus(system, SingularOptions(), seed=seed)
-    grouped = singular_locus(system, SingularOptions(start="multihomogeneous"), seed=seed)
+    grouped = singular_locus(system, SingularOptions(start=start), seed=seed)
     expected = problem["expected"]["singular_points"]
     points, other = _singular_points(by_degree), _singular_points(grouped)
     assert len(points) == len(other) == expected
@@ -38,15 +38,15 @@ def test_two_homogeneous_start_gives_the_total_degree_answers_with_fewer_paths(n
         distance = np.abs(points[:, None, :] - other[None, :, :]).max(axis=2)
         assert distance.min(axis=1).max() < 1e-6 and distance.min(axis=0).max() < 1e-6
     assert [c.kind for c in grouped.components] == [c.kind for c in by_degree.components]
-    # the route taken, and the square systems' paths: the 2-homogeneous count below the Bezout number
-    # (deterministic counts of the start block)
+    # the route taken, and the square systems' paths: the 2-homogeneous count (x and lambda grouped)
+    # or the mixed volume below the Bezout number (deterministic counts of the start block)
     (route,) = grouped.start["codimensions"]
     assert route["route"] == "square null-vector system"
     assert len(route["searches"]) == system.n_variables - 1  # the points, then the slices down to a curve
     for search in route["searches"]:
         counts = search["start"]["paths"]
-        assert search["start"]["chosen"] == "multihomogeneous"
-        assert search["tracked"] == counts["multihomogeneous"] < counts["total-degree"]
+        assert search["start"]["chosen"] == start
+        assert search["tracked"] == counts[start] < counts["total-degree"]
     assert by_degree.start == {"asked": "total-degree", "codimensions": []}
 
 
