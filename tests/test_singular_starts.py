@@ -12,9 +12,6 @@ from numag.singular.kinds import PieceKind
 from numag.singular.locus import SingularOptions, singular_locus
 from numag.system.parse import parse_system
 
-PROBLEMS = {p["name"]: p for p in json.load(open("tests/data/problems.json"))}
-
-
 def _singular_points(locus):
     return np.array([c.points[0] for c in locus.components
                      if c.dimension == 0 and c.kind is PieceKind.SINGULAR and not c.at_infinity]).reshape(
@@ -24,10 +21,10 @@ def _singular_points(locus):
 @pytest.mark.parametrize("start, seed", [("multihomogeneous", 3), ("multihomogeneous", 17), ("polyhedral", 3)])
 @pytest.mark.parametrize("name", ["node", "cusp", "four_generic_lines", "trifolium_triple_point", "smooth_conic",
                                   "cone_over_smooth_plane_cubic"])
-def test_structured_starts_give_the_total_degree_answers_with_fewer_paths(name, start, seed):
+def test_structured_starts_give_the_total_degree_answers_with_fewer_paths(problems, name, start, seed):
     # the number of singular points of each shared problem (tests/data/problems.json, each entry's
     # "source": common practice, no source), found by both routes, at the same places
-    problem = PROBLEMS[name]
+    problem = problems[name]
     system = parse_system(problem["equations"], problem["variables"])
     by_degree = singular_locus(system, SingularOptions(), seed=seed)
     grouped = singular_locus(system, SingularOptions(start=start), seed=seed)
@@ -50,11 +47,11 @@ def test_structured_starts_give_the_total_degree_answers_with_fewer_paths(name, 
     assert by_degree.start == {"asked": "total-degree", "codimensions": []}
 
 
-def test_a_singular_line_sends_the_search_back_to_witness_sets():
+def test_a_singular_line_sends_the_search_back_to_witness_sets(problems):
     # Whitney umbrella x^2 = y^2 z, singular along the z-axis (tests/data/problems.json
     # "whitney_umbrella": common practice, no source): the square system's endpoints on the line are
     # not isolated, so the singular line comes from the witness sets, as with the total-degree start
-    problem = PROBLEMS["whitney_umbrella"]
+    problem = problems["whitney_umbrella"]
     system = parse_system(problem["equations"], problem["variables"])
     grouped = singular_locus(system, SingularOptions(start="multihomogeneous"), seed=4)
     (route,) = grouped.start["codimensions"]
@@ -91,3 +88,15 @@ def test_report_block_round_trip_and_refusals(tmp_path):
     refused = subprocess.run([sys.executable, "-m", "numag", "singular", str(path), "--start", "multihomogeneous",
                               "--formulation", "minors"], capture_output=True, text=True, timeout=300)
     assert refused.returncode == 2 and "minors formulation" in refused.stderr and "Traceback" not in refused.stderr
+
+
+def test_a_projective_hypersurface_says_its_gradient_system_keeps_total_degree(problems):
+    # the 4-nodal cubic surface (tests/data/problems.json "cayley_cubic"; A. Cayley, "A memoir on cubic
+    # surfaces", Phil. Trans. R. Soc. 159, 1869)
+    problem = problems["cayley_cubic"]
+    system = parse_system(problem["equations"], problem["variables"], projective=True)
+    locus = singular_locus(system, SingularOptions(start="multihomogeneous"), seed=5)
+    assert len(locus.isolated()) == problem["expected"]["singular_points"]
+    (route,) = locus.start["codimensions"]
+    assert route["route"] == "gradient system (total degree)"
+    assert any("multihomogeneous start was not used" in note for note in locus.notes)

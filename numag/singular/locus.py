@@ -410,6 +410,11 @@ def _singular_locus(system, options, seed, progress):
                                     "point, with no singular point"])
     if system.projective:
         if system.n_equations == 1 and options.formulation in (Formulation.AUTO, Formulation.GRADIENT):
+            if options.start is not StartKind.TOTAL_DEGREE:
+                routes.append({"codimension": 1, "route": "gradient system (total degree)",
+                               "why": "a projective hypersurface: the zeros of its partials form a projective "
+                                      "system, which has the total-degree start only"})
+                notes.append(f"The {options.start.value} start was not used: {routes[-1]['why']}.")
             components, variety = _projective_gradient(system, rng, paths, discarded, progress), None
         else:
             components, variety = _projective_chart(system, options, rng, paths, discarded, notes, progress, routes)
