@@ -20,7 +20,7 @@ def _singular_points(locus):
 
 @pytest.mark.parametrize("start, seed", [("multihomogeneous", 3), ("multihomogeneous", 17), ("polyhedral", 3)])
 @pytest.mark.parametrize("name", ["node", "cusp", "four_generic_lines", "trifolium_triple_point", "smooth_conic",
-                                  "cone_over_smooth_plane_cubic"])
+                                  "chebyshev_T4x_eq_T5y", "cone_over_smooth_plane_cubic"])
 def test_structured_starts_give_the_total_degree_answers_with_fewer_paths(problems, name, start, seed):
     # the number of singular points of each shared problem (tests/data/problems.json, each entry's
     # "source": common practice, no source), found by both routes, at the same places
