@@ -64,13 +64,17 @@ def test_a_singular_line_sends_the_search_back_to_witness_sets(problems):
 
 
 def test_a_surface_with_a_singular_curve_is_not_taken_for_finite():
-    # x^2 = y^2 z cut by one random plane is a curve with a node where the plane meets the z-axis
-    # (common practice, no source): the slice proves the singular set positive-dimensional even
-    # when no endpoint of the first search falls on the line
+    # x^2 = y^2 z is singular along the z-axis (common practice, no source): never reported finite;
+    # what a cut sees, by hand: the plane x + 2y - 3z = 1 meets the axis at (0, 0, -1/3), the one
+    # singular point of the curve cut out (a node), found by the search the cuts run (c = 2, one linear)
     from numag.singular.isolated import finite_singular_points
-    system = parse_system(["x^2 - y^2*z"], ["x", "y", "z"])
+    surface = parse_system(["x^2 - y^2*z"], ["x", "y", "z"])
+    cut = parse_system(["x^2 - y^2*z", "x + 2*y - 3*z - 1"], ["x", "y", "z"])
     for seed in (1, 2, 3):
-        assert not finite_singular_points(system, "multihomogeneous", np.random.default_rng(seed)).finite
+        assert not finite_singular_points(surface, "multihomogeneous", np.random.default_rng(seed)).finite
+        found = finite_singular_points(cut, "multihomogeneous", np.random.default_rng(seed))
+        assert found.finite and len(found.points) == 1
+        assert np.abs(found.points[0] - np.array([0, 0, -1 / 3])).max() < 1e-8
 
 
 def test_report_block_round_trip_and_refusals(tmp_path):
