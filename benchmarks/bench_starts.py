@@ -1,6 +1,6 @@
 """Start systems side by side: paths, solutions, set-up and total time per family and start.
 
-Run:  python benchmarks/bench_starts.py [--quick] [--seed 1]
+Run:  python benchmarks/bench_starts.py [--quick] [--seed 1] [--singular-only]
 
 Families: cyclic n-roots (70, 156, 924 and 1152 isolated roots for n = 5..8; Bjorck and Froberg
 1991, from memory; cyclic 8 also has a one-dimensional set), katsura n (2^n roots, the Bezout number;
@@ -8,7 +8,10 @@ from memory), eigenvalue problems (A - lambda I) v = 0, c . v = 1 of random n x 
 eigenpairs), and the square null-vector systems of shared problems with isolated singular points
 (:mod:`numag.singular.isolated`). Each is solved with every start that applies; the columns are
 the paths tracked, the isolated solutions found, the start's set-up (the grouping, or the mixed cells
-and their linear programs) and the whole solve. Results go to benchmarks/results/bench_starts.md.
+and their linear programs) and the whole solve. A last table runs the whole singular locus of the
+shared problems with the total-degree start (witness sets) and the multihomogeneous one (the square
+null-vector system, proven finite by slices): all paths, those after X's decomposition, the points.
+Results go to benchmarks/results/bench_starts.md (bench_starts_singular.md with --singular-only).
 """
 
 import argparse
@@ -21,6 +24,8 @@ import numpy as np
 
 import checkout  # noqa: F401  (this checkout's numag, not an installed one)
 from numag.singular.isolated import isolated_singular_points
+from numag.singular.locus import SingularOptions, singular_locus
+from numag.tracking.tracker import FAILURE_LABELS
 from numag.system.parse import parse_system
 from numag.tracking.solve import SolveOptions, solve_system
 
@@ -80,10 +85,28 @@ def null_vector_row(name, problem, start, seed):
             "total_s": round(seconds, 2), "counts": found.start["paths"]}
 
 
+def singular_row(name, problem, start, seed):
+    """``numag singular`` with ``start``: all paths, those beyond X's decomposition, the points found."""
+    system = parse_system(problem["equations"], problem["variables"])
+    started = time.perf_counter()
+    locus = singular_locus(system, SingularOptions(start=start), seed=seed)
+    seconds = time.perf_counter() - started
+    tracked = locus.paths.get("tracked", 0)
+    searches = [s for route in locus.start["codimensions"] for s in route.get("searches", [])]
+    return {"family": f"singular locus of {name}", "start": start, "paths": tracked,
+            "paths_after_X": tracked - locus.variety.paths.get("tracked", 0),
+            "failed": sum(locus.paths.get(label, 0) for label in FAILURE_LABELS),
+            "solutions": len(locus.isolated()), "setup_s": 0.0, "total_s": round(seconds, 2),
+            "counts": [s["start"]["paths"] for s in searches]}
+
+
 def main():
     parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
     parser.add_argument("--quick", action="store_true", help="small sizes only (a few minutes)")
     parser.add_argument("--seed", type=int, default=1)
+    parser.add_argument("--singular-only", action="store_true",
+                        help="only the singular locus of the shared problems by each start (total-degree witness "
+                             "sets beside the square null-vector system)")
     args = parser.parse_args()
     if args.quick:
         cyclics, katsuras, eigens = (5, 6), (3, 4), (4, 6)
@@ -95,6 +118,10 @@ def main():
     rows = []
     systems = [cyclic(n) for n in cyclics] + [katsura(n) for n in katsuras] + \
         [eigenproblem(n, args.seed + n) for n in eigens]
+    if args.singular_only:
+        systems, shared_null = [], ()
+    else:
+        shared_null = shared
     for system in systems:
         for start in STARTS:
             if start == "total-degree" and system.name in ("cyclic 8",):
@@ -107,19 +134,30 @@ def main():
             print(json.dumps(rows[-1]), flush=True)
     problems = {p["name"]: p for p in json.loads((pathlib.Path(__file__).resolve().parent.parent / "tests" / "data"
                                                    / "problems.json").read_text())}
-    for name in shared:
+    for name in shared_null:
         for start in ("total-degree", "multihomogeneous"):
             rows.append(null_vector_row(name, problems[name], start, args.seed))
             print(json.dumps(rows[-1]), flush=True)
+    singular_rows = []
+    for name in shared:  # the whole singular locus: X's decomposition, the candidates, the points at infinity
+        for start in ("total-degree", "multihomogeneous"):
+            singular_rows.append(singular_row(name, problems[name], start, args.seed))
+            print(json.dumps(singular_rows[-1]), flush=True)
     lines = ["| family | start | paths | failed | solutions | set-up s | total s |", "|---|---|---|---|---|---|---|"]
     lines += [f"| {r['family']} | {r['start']} | {r['paths']} | {r['failed']} | {r['solutions']} | {r['setup_s']} | "
               f"{r['total_s']} |" for r in rows]
+    lines += ["", "| singular locus of | start | paths | paths after X | failed | singular points | total s |",
+              "|---|---|---|---|---|---|---|"]
+    lines += [f"| {r['family'][len('singular locus of '):]} | {r['start']} | {r['paths']} | {r['paths_after_X']} | "
+              f"{r['failed']} | {r['solutions']} | {r['total_s']} |" for r in singular_rows]
     table = "\n".join(lines)
     print(table)
     out = pathlib.Path(__file__).resolve().parent / "results"
     os.makedirs(out, exist_ok=True)
-    (out / ("bench_starts_quick.md" if args.quick else "bench_starts.md")).write_text(
-        f"python benchmarks/bench_starts.py{' --quick' if args.quick else ''} --seed {args.seed}\n\n{table}\n")
+    name = "bench_starts_singular" if args.singular_only else "bench_starts"
+    (out / (name + ("_quick.md" if args.quick else ".md"))).write_text(
+        f"python benchmarks/bench_starts.py{' --quick' if args.quick else ''}"
+        f"{' --singular-only' if args.singular_only else ''} --seed {args.seed}\n\n{table}\n")
 
 
 if __name__ == "__main__":

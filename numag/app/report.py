@@ -436,7 +436,8 @@ def singular_to_dict(result, options):
         "options": {"formulation": options.formulation, "digits": options.digits,
                     "at_infinity_for_systems": options.infinity_for_systems,
                     "lowest_dimension": options.decompose.witness.lowest_dimension,
-                    "max_exact_minors": options.max_exact_minors},
+                    "max_exact_minors": options.max_exact_minors, "start": options.start.value},
+        "start": result.start,
         "paths": decomposition_path_counts(result.paths),
         "components": [_singular_component(c) for c in result.components],
         # the components of X (in a random chart for projective input: only their dimensions and degrees)
@@ -457,7 +458,7 @@ def singular_from_dict(data):
     o = data["options"]
     options = SingularOptions(formulation=o["formulation"], digits=int(o["digits"]),
                               infinity_for_systems=bool(o.get("at_infinity_for_systems", False)),
-                              max_exact_minors=int(o["max_exact_minors"]),
+                              max_exact_minors=int(o["max_exact_minors"]), start=o.get("start", "total-degree"),
                               decompose=DecomposeOptions(witness=WitnessOptions(lowest_dimension=o["lowest_dimension"])))
     components = []
     for d in data["components"]:
@@ -476,7 +477,8 @@ def singular_from_dict(data):
                                 scaling=_scaling_from_dict(data, system))
     result = SingularLocus(system=system, components=components, variety=variety, paths=counts,
                            discarded=dict(data["discarded"]), seed=data["seed"], seconds=float(data["seconds"]),
-                           notes=list(data["notes"]), scaling=_scaling_from_dict(data, system))
+                           notes=list(data["notes"]), scaling=_scaling_from_dict(data, system),
+                           start=dict(data.get("start") or {}))
     return result, options
 
 

@@ -51,9 +51,11 @@ from ..numeric.refine import IsolationTest, project_to_variety
 from ..numeric.scaling import Scaling
 from ..numeric.seeds import resolved_seed
 from ..tracking.solve import SolveOptions, solve_system
+from ..tracking.starts import StartKind
 from ..tracking.tracker import FAILURE_LABELS
 from ..witness.cascade import combine_equations, linear_form, random_rows, track_moves
 from ..witness.decompose import DecomposeOptions, Decomposition, components_through, decompose, holding_equations
+from .isolated import finite_singular_points, null_vector_system
 from .kinds import CandidateSystem, Formulation, PieceKind, Verdict
 from .smoothness import CheckOptions, check_points
 
@@ -83,6 +85,13 @@ class SingularOptions:
         Also search singular points at infinity for affine input of several equations (those of
         V(F^h) on the hyperplane at infinity, in a random chart: a second computation of the same
         size). Hypersurfaces always get them (cheap: solved on the hyperplane).
+    start : StartKind or str
+        "total-degree" (witness sets of the chosen formulation), or "multihomogeneous", "polyhedral",
+        "auto": for each codimension c where X is a reduced complete intersection (c equations, every
+        component of dimension n - c, generically reduced), the singular points come from the square
+        null-vector system with that start (x and lambda grouped), proven to be all of Sing(X) by
+        slices (:func:`~numag.singular.isolated.finite_singular_points`); elsewhere, and when Sing(X)
+        turns out positive-dimensional, the witness sets (total degree) are used, with a note.
     """
 
     formulation: Formulation = Formulation.AUTO
@@ -90,14 +99,20 @@ class SingularOptions:
     max_exact_minors: int = 24
     digits: int = 50
     infinity_for_systems: bool = False
+    start: StartKind = StartKind.TOTAL_DEGREE
 
     def __post_init__(self):
         # Text from the command line or a report becomes a member here (InputError naming the option).
         object.__setattr__(self, "formulation", Formulation.parse(self.formulation, "formulation"))
+        object.__setattr__(self, "start", self.start if isinstance(self.start, StartKind)
+                           else StartKind.parse(self.start))
 
     def validated(self, system):
         if self.formulation is Formulation.GRADIENT and system.n_equations != 1:
             raise InputError("the gradient formulation is for hypersurfaces (one equation); use 'minors'")
+        if self.formulation is Formulation.MINORS and self.start is not StartKind.TOTAL_DEGREE:
+            raise InputError(f"the {self.start.value} start is used with the null-vector system; with the "
+                             "minors formulation use the total-degree start (or --formulation auto)")
         return self
 
 
@@ -172,6 +187,9 @@ class SingularLocus:
     notes : list of str
     scaling : Scaling or None
         The units the computation used (points are in the user's units).
+    start : dict
+        The report's ``start`` block: the start asked for, and per codimension the route taken
+        (``searches`` with each square system's start block, or the witness sets and why).
     """
 
     system: PolynomialSystem
@@ -183,6 +201,7 @@ class SingularLocus:
     seconds: float
     notes: list[str] = field(default_factory=list)
     scaling: Scaling | None = None
+    start: dict = field(default_factory=dict)
 
     def __repr__(self):
         affine = [c for c in self.components if not c.at_infinity]
@@ -242,45 +261,6 @@ def minors_system(system, codimension, rng, max_exact, n_columns=None):
     minors = expanded_minors(equations, weights, normalize=True)
     kind = CandidateSystem.MINORS if weights.complete else CandidateSystem.RANDOM_MINORS
     return PolynomialSystem(system.variables, equations + minors, name=system.name), kind
-
-
-def null_vector_system(system, codimension, rng):
-    """F(x) = 0, lambda^T A J(x) B = 0 and b . lambda = 1 in the unknowns (x, lambda), lambda in C^c.
-
-    A (c x m), B (n x n) and b are random. Over a point x of X where rank J = c there is no lambda; over a
-    point of corank r the lambdas form an affine space of dimension r - 1 (a positive-dimensional
-    fibre when r >= 2): callers project to x and measure the dimension there.
-    """
-    n, m = system.n_variables, system.n_equations
-    total = n + codimension
-    a = (rng.standard_normal((codimension, m)) + 1j * rng.standard_normal((codimension, m))) / math.sqrt(2 * m)
-    b = rng.standard_normal(codimension) + 1j * rng.standard_normal(codimension)
-    lifted = []
-    for p in system.polynomials:  # the same polynomial in (x, lambda)
-        exponents = np.hstack([p.exponents, np.zeros((p.n_terms, codimension), dtype=np.int64)])
-        lifted.append(Polynomial(exponents, p.numeric_coefficients(), total))
-    lambdas = [Polynomial.variable(n + i, total).numeric() for i in range(codimension)]
-    # The columns are random combinations too (lambda^T A J B = 0 with B invertible, the same set):
-    # with J's own columns, one that vanishes at a special point (the linkage's sine columns at its
-    # branch points) puts a whole lambda plane over that point into the intermediate sets of the
-    # witness sweep, and paths must start from singular points there.
-    b_matrix = (rng.standard_normal((n, n)) + 1j * rng.standard_normal((n, n))) / math.sqrt(2 * n)
-    gradients = [[lifted[k].derivative(l) for l in range(n)] for k in range(m)]
-    equations = list(lifted)
-    for j in range(n):
-        row = Polynomial.zero(total)
-        for i in range(codimension):
-            combined = Polynomial.zero(total)
-            for k in range(m):
-                for l in range(n):
-                    if not gradients[k][l].is_zero():
-                        combined = combined + gradients[k][l] * complex(a[i, k] * b_matrix[l, j])
-            row = row + lambdas[i] * combined
-        if not row.is_zero():
-            equations.append(row * (1.0 / row.coefficient_norm()))
-    equations.append(Polynomial.linear(np.concatenate([np.zeros(n), b]), -1.0))
-    names = list(system.variables) + [f"lambda{i + 1}" for i in range(codimension)]
-    return PolynomialSystem(names, equations, name=system.name)
 
 
 def _estimated_paths(system, variety, codimension, kind):
@@ -420,7 +400,8 @@ def _singular_locus(system, options, seed, progress):
     """:func:`singular_locus` in the units of ``system`` (already scaled)."""
     started = time.perf_counter()
     rng = np.random.default_rng(seed)
-    paths, discarded, notes = {}, {}, []
+    paths, discarded, notes, routes = {}, {}, [], []
+    start = {"asked": options.start.value, "codimensions": routes}
     if linear_space(system) is not None:  # J is constant of full rank on X: no singular point, no homotopy
         variety = decompose(system, options.decompose, seed=int(rng.integers(2**32)), progress=progress)
         return SingularLocus(system=system, components=[], variety=variety, paths=paths, discarded=discarded,
@@ -429,11 +410,16 @@ def _singular_locus(system, options, seed, progress):
                                     "point, with no singular point"])
     if system.projective:
         if system.n_equations == 1 and options.formulation in (Formulation.AUTO, Formulation.GRADIENT):
+            if options.start is not StartKind.TOTAL_DEGREE:
+                routes.append({"codimension": 1, "route": "gradient system (total degree)",
+                               "why": "a projective hypersurface: the zeros of its partials form a projective "
+                                      "system, which has the total-degree start only"})
+                notes.append(f"The {options.start.value} start was not used: {routes[-1]['why']}.")
             components, variety = _projective_gradient(system, rng, paths, discarded, progress), None
         else:
-            components, variety = _projective_chart(system, options, rng, paths, discarded, notes, progress)
+            components, variety = _projective_chart(system, options, rng, paths, discarded, notes, progress, routes)
     else:
-        components, variety = _affine(system, options, rng, paths, discarded, progress, notes)
+        components, variety = _affine(system, options, rng, paths, discarded, progress, notes, routes)
         if system.n_equations == 1:
             listed = _at_infinity(system, rng, paths, progress, any(c.dimension > 0 for c in components))
             if isinstance(listed, str):  # why its points at infinity are not listed (true for its case)
@@ -459,14 +445,54 @@ def _singular_locus(system, options, seed, progress):
             notes.append(f"{isolated} isolated singular points found, more than the (d - 1)^n = {bound} a "
                          "hypersurface of this degree can have: some point was counted twice.")
     return SingularLocus(system=system, components=components, variety=variety, paths=paths, discarded=discarded,
-                         seed=seed, seconds=time.perf_counter() - started, notes=notes)
+                         seed=seed, seconds=time.perf_counter() - started, notes=notes, start=start)
 
 
-def _affine(system, options, rng, paths, discarded, progress, notes_out=None):
-    """Singular pieces of an affine X by decomposing F + minors for each codimension of X."""
+def _structured_start(system, variety, codimension, options, rng, paths, progress):
+    """Sing(X) for one codimension from the square null-vector system with ``options.start``, where it applies.
+
+    Returns ``(search, route)``: the :class:`~numag.singular.isolated.FiniteSingularSearch` when it
+    proved Sing(X) finite (else None: the caller takes the witness sets), and the route's block of
+    the report (``codimension``, ``route``, ``why``, and ``searches`` when any square system was solved).
+    """
+    n = system.n_variables
+    route = {"codimension": codimension, "route": "witness sets (total degree)"}
+    lowest = options.decompose.witness.lowest_dimension
+    if system.n_equations != codimension:
+        route["why"] = (f"{system.n_equations} equations for codimension {codimension}: X is no complete "
+                        "intersection there")
+    elif any(c.dimension != n - codimension for c in variety.components):
+        route["why"] = "X has components of several dimensions"
+    elif not all(c.reduced for c in variety.components):
+        route["why"] = "X has a non-reduced component (singular along all of it)"
+    elif lowest is not None and lowest > 0:
+        route["why"] = "--lowest-dimension leaves out the singular points"
+    else:
+        if progress is not None:
+            progress(f"codimension {codimension}: the square null-vector system, {options.start.value} start")
+        try:
+            search = finite_singular_points(system, options.start.value, rng)
+        except InputError as err:  # a start that does not apply to this system (named in the message)
+            route["why"] = str(err)
+            return None, route
+        _add_counts(paths, search.path_counts)
+        route.update(why=search.reason, searches=search.searches)
+        if search.finite:
+            route["route"] = "square null-vector system"
+            return search, route
+    return None, route
+
+
+def _affine(system, options, rng, paths, discarded, progress, notes_out=None, routes=None):
+    """Singular pieces of an affine X by decomposing F + minors for each codimension of X.
+
+    ``routes`` (a list) receives the route of each codimension when a start other than total degree is
+    asked for (:func:`_structured_start`).
+    """
     if progress is not None:
         progress("decomposing X")
     notes_out = [] if notes_out is None else notes_out
+    routes = [] if routes is None else routes
     variety = decompose(system, options.decompose, seed=int(rng.integers(2**32)), progress=progress)
     _add_counts(paths, variety.paths)
     n = system.n_variables
@@ -476,41 +502,53 @@ def _affine(system, options, rng, paths, discarded, progress, notes_out=None):
     for codimension in codimensions:
         if codimension == 0:
             continue
-        exact = math.comb(system.n_equations, codimension) * math.comb(n, codimension) <= options.max_exact_minors
-        formulation = options.formulation
-        if formulation in (Formulation.AUTO, Formulation.GRADIENT):
-            formulation = Formulation.MINORS if exact or (
-                _estimated_paths(system, variety, codimension, Formulation.MINORS)
-                <= _estimated_paths(system, variety, codimension, Formulation.NULL_VECTOR)) \
-                else Formulation.NULL_VECTOR
-        augmented = None
-        if formulation is not Formulation.NULL_VECTOR:
-            try:
-                augmented, kind = minors_system(system, codimension, rng, options.max_exact_minors)
-            except LimitError as err:  # the expanded minors are too large: the null-vector form has no minors
-                notes_out.append(f"codimension {codimension}: the minors are too large to expand ({err}); the "
-                                 "null-vector formulation was used instead.")
-        if augmented is None:
-            augmented, kind = null_vector_system(system, codimension, rng), CandidateSystem.NULL_VECTOR
-        if progress is not None:
-            progress(f"codimension {codimension}: decomposing the {kind} system ({augmented.n_equations} equations "
-                     f"in {augmented.n_variables} unknowns)")
-        candidates = decompose(augmented, options.decompose, seed=int(rng.integers(2**32)), progress=progress)
-        _add_counts(paths, candidates.paths)
-        failed = sum(candidates.paths.get(label, 0) for label in FAILURE_LABELS)
-        if failed:
-            notes_out.append(f"{failed} path(s) of the {kind} system for codimension {codimension} failed: singular "
-                             "points there may be missing (a singular endpoint the endgame could not settle). "
-                             "Run again with another --seed or --formulation to compare.")
-        if kind is CandidateSystem.NULL_VECTOR:
-            projected = _projected_candidates(system, augmented, candidates, rng, options, paths)
+        search = None
+        if options.start is not StartKind.TOTAL_DEGREE:
+            search, route = _structured_start(system, variety, codimension, options, rng, paths, progress)
+            routes.append(route)
+            if search is None:
+                notes_out.append(f"codimension {codimension}: the {options.start.value} start was not used "
+                                 f"({route['why']}); witness sets from the total-degree start instead.")
+        if search is not None:  # Sing(X) proven finite: its points, with the paths ending there
+            kind = CandidateSystem.NULL_VECTOR
+            projected = [(0, point[None, :], int(multiplicity), None)
+                         for point, multiplicity in zip(search.points, search.multiplicities)]
         else:
-            projected = [(c.dimension, c.points, c.multiplicity if c.dimension == 0 else None,
-                          _membership_oracle(candidates, c, int(rng.integers(2**31))) if c.dimension else None)
-                         for c in candidates.components]
-            for c in candidates.components:  # cross-check the slicing dimension by the tangent space
-                if c.dimension > 0 and _tangent_dimension(augmented, c, rng) != c.dimension:
-                    discarded["tangent_dimension_mismatch"] = discarded.get("tangent_dimension_mismatch", 0) + 1
+            exact = math.comb(system.n_equations, codimension) * math.comb(n, codimension) <= options.max_exact_minors
+            formulation = options.formulation
+            if formulation in (Formulation.AUTO, Formulation.GRADIENT):
+                formulation = Formulation.MINORS if exact or (
+                    _estimated_paths(system, variety, codimension, Formulation.MINORS)
+                    <= _estimated_paths(system, variety, codimension, Formulation.NULL_VECTOR)) \
+                    else Formulation.NULL_VECTOR
+            augmented = None
+            if formulation is not Formulation.NULL_VECTOR:
+                try:
+                    augmented, kind = minors_system(system, codimension, rng, options.max_exact_minors)
+                except LimitError as err:  # the expanded minors are too large: the null-vector form has no minors
+                    notes_out.append(f"codimension {codimension}: the minors are too large to expand ({err}); the "
+                                     "null-vector formulation was used instead.")
+            if augmented is None:
+                augmented, kind = null_vector_system(system, codimension, rng), CandidateSystem.NULL_VECTOR
+            if progress is not None:
+                progress(f"codimension {codimension}: decomposing the {kind} system ({augmented.n_equations} equations "
+                         f"in {augmented.n_variables} unknowns)")
+            candidates = decompose(augmented, options.decompose, seed=int(rng.integers(2**32)), progress=progress)
+            _add_counts(paths, candidates.paths)
+            failed = sum(candidates.paths.get(label, 0) for label in FAILURE_LABELS)
+            if failed:
+                notes_out.append(f"{failed} path(s) of the {kind} system for codimension {codimension} failed: "
+                                 "singular points there may be missing (a singular endpoint the endgame could not "
+                                 "settle). Run again with another --seed or --formulation to compare.")
+            if kind is CandidateSystem.NULL_VECTOR:
+                projected = _projected_candidates(system, augmented, candidates, rng, options, paths)
+            else:
+                projected = [(c.dimension, c.points, c.multiplicity if c.dimension == 0 else None,
+                              _membership_oracle(candidates, c, int(rng.integers(2**31))) if c.dimension else None)
+                             for c in candidates.components]
+                for c in candidates.components:  # cross-check the slicing dimension by the tangent space
+                    if c.dimension > 0 and _tangent_dimension(augmented, c, rng) != c.dimension:
+                        discarded["tangent_dimension_mismatch"] = discarded.get("tangent_dimension_mismatch", 0) + 1
         if progress is not None and projected:
             progress(f"codimension {codimension}: judging {counted(len(projected), 'candidate set')} by the Jacobian "
                      "criterion")
@@ -734,9 +772,9 @@ def _chart(system, rng):
     return affine, q
 
 
-def _projective_chart(system, options, rng, paths, discarded, notes, progress):
+def _projective_chart(system, options, rng, paths, discarded, notes, progress, routes=None):
     affine, q = _chart(system, rng)
-    pieces, variety = _affine(affine, options, rng, paths, discarded, progress, notes)
+    pieces, variety = _affine(affine, options, rng, paths, discarded, progress, notes, routes)
     for piece in pieces:
         homogeneous = np.column_stack([np.ones(len(piece.points)), piece.points]) @ q.T
         piece.points = normalize_projective(homogeneous)

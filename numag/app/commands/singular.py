@@ -11,6 +11,7 @@ from ...singular.locus import FORMULATIONS, SingularOptions, singular_locus
 from ...anatomy.survey import locus_anatomy
 from ..anatomy_text import attach_to_singular, write_component_anatomy, write_point_anatomy
 from ...singular.kinds import PieceKind
+from ...tracking.starts import StartKind
 from ..report import CAUTION, dumps, singular_to_dict
 from .certify import _certified, _doubtful, _print_certification
 from . import SUMMARIES
@@ -31,6 +32,10 @@ def add_parser(commands):
     locus.add_argument("--formulation", choices=FORMULATIONS, default=SingularOptions.formulation,
                        help="how 'rank J < c' is written: the minors, the null-vector form, the gradient "
                             "(hypersurfaces), or chosen by estimated cost (default %(default)s)")
+    locus.add_argument("--start", choices=[k.value for k in StartKind], default=SingularOptions.start.value,
+                       help="start of the singular points' search: total-degree (witness sets), or multihomogeneous, "
+                            "polyhedral, auto (the square null-vector system, x and lambda grouped, where X is a "
+                            "reduced complete intersection; default %(default)s)")
     locus.add_argument("--lowest-dimension", type=int, metavar="K",
                        help="do not search components (of X and of the singular locus) below dimension K")
     locus.add_argument("--at-infinity", action="store_true",
@@ -73,6 +78,13 @@ def _print_singular(result, out, angles, data=None, anatomy=None):
     dropped = ", ".join(f"{k.replace('_', ' ')} {v}" for k, v in result.discarded.items()) or "none"
     out.write(f"paths: {counts.get('tracked', 0)} tracked, {failed} failed; candidates dropped: {dropped}; "
               f"{result.seconds:.2f} s\n")
+    for route in result.start.get("codimensions", []):
+        searches = "; ".join(f"{s['tracked']} paths ({s['start'].get('chosen')}; by start "
+                             + ", ".join(f"{k} {v}" for k, v in s["start"].get("paths", {}).items())
+                             + (f"; cut by {s['hyperplanes']} hyperplane(s)" if s["hyperplanes"] else "") + ")"
+                             for s in route.get("searches", []))
+        out.write(f"start for codimension {route['codimension']}: {route['route']} ({route['why']})"
+                  + (f": {searches}" if searches else "") + "\n")
     affine = [c for c in result.components if not c.at_infinity]
     points = [c for c in affine if c.dimension == 0 and c.kind is PieceKind.SINGULAR]
     real = sum(1 for c in points if c.real[0])
@@ -117,6 +129,7 @@ def run(args, out):
     check_plot_request(args, system)
     angles = load_angles(args.system_file, system.variables)
     options = SingularOptions(formulation=args.formulation, digits=args.digits, infinity_for_systems=args.at_infinity,
+                              start=args.start,
                               decompose=DecomposeOptions(witness=WitnessOptions(lowest_dimension=args.lowest_dimension)))
     if args.lowest_dimension is not None:
         options.decompose.witness.validated(system.n_variables)

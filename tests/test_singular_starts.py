@@ -1,0 +1,106 @@
+"""The singular locus with a start other than total degree: the square null-vector system, proven finite by slices."""
+
+import json
+import subprocess
+import sys
+
+import numpy as np
+import pytest
+
+from numag.app.report import singular_from_dict, singular_to_dict
+from numag.singular.kinds import PieceKind
+from numag.singular.locus import SingularOptions, singular_locus
+from numag.system.parse import parse_system
+
+def _singular_points(locus):
+    return np.array([c.points[0] for c in locus.components
+                     if c.dimension == 0 and c.kind is PieceKind.SINGULAR and not c.at_infinity]).reshape(
+        -1, locus.system.n_variables)
+
+
+@pytest.mark.parametrize("start, seed", [("multihomogeneous", 3), ("multihomogeneous", 17), ("polyhedral", 3)])
+@pytest.mark.parametrize("name", ["node", "cusp", "four_generic_lines", "trifolium_triple_point", "smooth_conic",
+                                  "chebyshev_T4x_eq_T5y", "cone_over_smooth_plane_cubic"])
+def test_structured_starts_give_the_total_degree_answers_with_fewer_paths(problems, name, start, seed):
+    # the number of singular points of each shared problem (tests/data/problems.json, each entry's
+    # "source": common practice, no source), found by both routes, at the same places
+    problem = problems[name]
+    system = parse_system(problem["equations"], problem["variables"])
+    by_degree = singular_locus(system, SingularOptions(), seed=seed)
+    grouped = singular_locus(system, SingularOptions(start=start), seed=seed)
+    expected = problem["expected"]["singular_points"]
+    points, other = _singular_points(by_degree), _singular_points(grouped)
+    assert len(points) == len(other) == expected
+    if expected:
+        distance = np.abs(points[:, None, :] - other[None, :, :]).max(axis=2)
+        assert distance.min(axis=1).max() < 1e-6 and distance.min(axis=0).max() < 1e-6
+    assert [c.kind for c in grouped.components] == [c.kind for c in by_degree.components]
+    # the route taken, and the square systems' paths: the 2-homogeneous count (x and lambda grouped)
+    # or the mixed volume below the Bezout number (deterministic counts of the start block)
+    (route,) = grouped.start["codimensions"]
+    assert route["route"] == "square null-vector system"
+    assert len(route["searches"]) == system.n_variables - 1  # the points, then the slices down to a curve
+    for search in route["searches"]:
+        counts = search["start"]["paths"]
+        assert search["start"]["chosen"] == start
+        assert search["tracked"] == counts[start] < counts["total-degree"]
+    assert by_degree.start == {"asked": "total-degree", "codimensions": []}
+
+
+def test_a_singular_line_sends_the_search_back_to_witness_sets(problems):
+    # Whitney umbrella x^2 = y^2 z, singular along the z-axis (tests/data/problems.json
+    # "whitney_umbrella": common practice, no source): the square system's endpoints on the line are
+    # not isolated, so the singular line comes from the witness sets, as with the total-degree start
+    problem = problems["whitney_umbrella"]
+    system = parse_system(problem["equations"], problem["variables"])
+    grouped = singular_locus(system, SingularOptions(start="multihomogeneous"), seed=4)
+    (route,) = grouped.start["codimensions"]
+    assert route["route"].startswith("witness sets")
+    assert any("multihomogeneous start was not used" in note for note in grouped.notes)
+    pieces = [(c.dimension, c.degree, c.kind) for c in grouped.components if not c.at_infinity]
+    assert pieces == [(d["dim"], d["degree"], PieceKind.SINGULAR) for d in problem["expected"]["components"]]
+    line = grouped.components[0].points
+    assert np.abs(line[:, :2]).max() < 1e-6  # on the z-axis
+
+
+def test_a_surface_with_a_singular_curve_is_not_taken_for_finite():
+    # x^2 = y^2 z is singular along the z-axis (common practice, no source): never reported finite;
+    # what a cut sees, by hand: the plane x + 2y - 3z = 1 meets the axis at (0, 0, -1/3), the one
+    # singular point of the curve cut out (a node), found by the search the cuts run (c = 2, one linear)
+    from numag.singular.isolated import finite_singular_points
+    surface = parse_system(["x^2 - y^2*z"], ["x", "y", "z"])
+    cut = parse_system(["x^2 - y^2*z", "x + 2*y - 3*z - 1"], ["x", "y", "z"])
+    for seed in (1, 2, 3):
+        assert not finite_singular_points(surface, "multihomogeneous", np.random.default_rng(seed)).finite
+        found = finite_singular_points(cut, "multihomogeneous", np.random.default_rng(seed))
+        assert found.finite and len(found.points) == 1
+        assert np.abs(found.points[0] - np.array([0, 0, -1 / 3])).max() < 1e-8
+
+
+def test_report_block_round_trip_and_refusals(tmp_path):
+    path = tmp_path / "lines.toml"
+    path.write_text('variables = ["x", "y"]\nequations = ["(x - y + 1)*(2*x + y - 3)*(x + 3*y + 2)"]\n')
+    done = subprocess.run([sys.executable, "-m", "numag", "singular", str(path), "--start", "multihomogeneous",
+                           "--seed", "2", "--json"], capture_output=True, text=True, timeout=300)
+    data = json.loads(done.stdout)
+    assert data["options"]["start"] == "multihomogeneous" and data["start"]["asked"] == "multihomogeneous"
+    (route,) = data["start"]["codimensions"]
+    assert route["searches"][0]["start"]["paths"] == {"total-degree": 9, "multihomogeneous": 6}
+    assert len(data["components"]) == 3  # three lines in general position meet in three points
+    result, options = singular_from_dict(data)
+    assert result.start == data["start"] and singular_to_dict(result, options)["start"] == data["start"]
+    refused = subprocess.run([sys.executable, "-m", "numag", "singular", str(path), "--start", "multihomogeneous",
+                              "--formulation", "minors"], capture_output=True, text=True, timeout=300)
+    assert refused.returncode == 2 and "minors formulation" in refused.stderr and "Traceback" not in refused.stderr
+
+
+def test_a_projective_hypersurface_says_its_gradient_system_keeps_total_degree(problems):
+    # the 4-nodal cubic surface (tests/data/problems.json "cayley_cubic"; A. Cayley, "A memoir on cubic
+    # surfaces", Phil. Trans. R. Soc. 159, 1869)
+    problem = problems["cayley_cubic"]
+    system = parse_system(problem["equations"], problem["variables"], projective=True)
+    locus = singular_locus(system, SingularOptions(start="multihomogeneous"), seed=5)
+    assert len(locus.isolated()) == problem["expected"]["singular_points"]
+    (route,) = locus.start["codimensions"]
+    assert route["route"] == "gradient system (total degree)"
+    assert any("multihomogeneous start was not used" in note for note in locus.notes)
