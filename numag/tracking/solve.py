@@ -194,6 +194,12 @@ class SolveResult:
         Per path: 16 (double precision) or the digits of the precision rescue it needed.
     discarded : list of Solution
         With ``squared_up``: solutions of the random combinations that fail an original equation.
+    unverified : list of Solution
+        Finite singular endpoint groups that the tracker reported but refinement could not settle on
+        F = 0 (Gauss-Newton at ``digits`` digits stalled): neither counted as solutions nor dropped; the
+        report counts them and warns (exit 3). Endgame estimates of paths that go to infinity, where
+        F^h leaves the homogenising coordinate determined only through a high power, end up here
+        (decision 0049).
     scaling : Scaling or None
         The units the computation used (points are reported in the user's units).
     """
@@ -214,6 +220,7 @@ class SolveResult:
     discarded: list = field(default_factory=list)
     extra: dict = field(default_factory=dict)
     scaling: object = None
+    unverified: list = field(default_factory=list)
 
     def __repr__(self):
         counts = self.path_counts()
@@ -246,7 +253,13 @@ def _square_target(system, options, rng):
 
 
 def _refine_mp(system, point, digits):
-    """Gauss-Newton on F at ``digits`` digits (linear convergence at multiple roots is enough here)."""
+    """Gauss-Newton on F at ``digits`` digits (linear convergence at multiple roots is enough here).
+
+    Returns the refined point and whether the scaled residual reached 10^-digits. An isolated
+    solution, however multiple, gets there (the residual falls like a power of the error); an
+    endgame estimate that is no solution, e.g. of a path on its way to infinity whose X_0 the
+    equations fix only through a high power, stalls (decision 0049).
+    """
     evaluator = PrecisionEvaluator(system.polynomials)
     sizes = TermSizes(system.polynomials)
     with mpmath.mp.workdps(digits + 10):
@@ -262,9 +275,9 @@ def _refine_mp(system, point, digits):
                     jacobian[i, j] /= scale[i]
             return values, jacobian
 
-        z, _, _, _ = mp_gauss_newton(function, ctx.matrix([ctx.mpc(v) for v in point]), ctx,
-                                     tolerance=ctx.mpf(10) ** (-digits), max_iterations=120)
-        return np.array([complex(z[j]) for j in range(system.n_variables)])
+        z, settled, _, _ = mp_gauss_newton(function, ctx.matrix([ctx.mpc(v) for v in point]), ctx,
+                                           tolerance=ctx.mpf(10) ** (-digits), max_iterations=120)
+        return np.array([complex(z[j]) for j in range(system.n_variables)]), bool(settled)
 
 
 def solve_system(system, options=None, seed=None, progress=None, execution=None):
@@ -390,7 +403,7 @@ def _in_user_units(result, system, scaling):
         point = scaling.to_user(point)
         return normalize_projective(point) if system.projective else point
 
-    for solution in result.solutions + result.not_isolated + result.discarded:
+    for solution in result.solutions + result.not_isolated + result.discarded + result.unverified:
         solution.point = finite(solution.point)
     for solution in result.at_infinity:
         solution.point = normalize_projective(scaling.homogeneous_to_user(solution.point))
@@ -470,7 +483,8 @@ def _run(system, homotopy, start_points, total, options, rng, seed, progress, st
         singular = (winding > 1) | (condition > options.tracker.singular_condition)
         status[ends & singular] = PathStatus.SINGULAR_ENDPOINT
         status[ends & ~singular] = PathStatus.CONVERGED
-    solutions, infinite, not_isolated = _collect(system, run.endpoints, status, winding, condition, options, rng)
+    solutions, infinite, not_isolated, unverified = _collect(system, run.endpoints, status, winding, condition,
+                                                             options, rng)
     discarded = []
     if squared:  # random combinations have extra solutions: keep only those of every equation
         kept = []
@@ -480,6 +494,7 @@ def _run(system, homotopy, start_points, total, options, rng, seed, progress, st
     result = SolveResult(system, solutions, infinite, not_isolated, status, run.steps, winding, run.retracked, seed,
                          time.perf_counter() - started, run.evaluations, squared, run.digits)
     result.discarded = discarded
+    result.unverified = unverified
     description = dict(run.execution)
     tracking = description.pop("tracking_seconds")  # the batches and the re-tracking of jumped paths
     description["seconds"] = result.seconds
@@ -508,7 +523,7 @@ def _collect(system, endpoints, status, winding, condition, options, rng):
     infinite = np.nonzero(status == PathStatus.AT_INFINITY)[0]
     finite_points = _finite_points(system, endpoints, finite)
     affine_system = None if system.projective else system
-    solutions, flagged = [], []
+    solutions, flagged, unverified = [], [], []
     labels = cluster_labels(finite_points, options.cluster_tolerance, projective=system.projective)
     with np.errstate(invalid="ignore"):
         real_points = real_coefficients & np.all(np.abs(finite_points.imag) <= 1e-8 * (1 + np.abs(finite_points)),
@@ -531,11 +546,11 @@ def _collect(system, endpoints, status, winding, condition, options, rng):
                                            [p.dehomogenize(pivot) for p in system.polynomials])
             test_point = np.delete(point, pivot)
         digits = 16
-        isolated = True
+        isolated = settled = True
         if singular:
             isolated = IsolationTest(test_system, rng).isolated(test_point)
             if isolated and test_system.n_equations >= test_system.n_variables:
-                test_point = _refine_mp(test_system, np.mean(
+                test_point, settled = _refine_mp(test_system, np.mean(
                     [finite_points[k] if pivot is None else np.delete(finite_points[k] / finite_points[k][pivot],
                                                                          pivot) for k in members], axis=0),
                     options.refine_digits)
@@ -544,7 +559,8 @@ def _collect(system, endpoints, status, winding, condition, options, rng):
         real = bool(real_coefficients and np.all(np.abs(point.imag) <= 1e-8 * (1 + np.abs(point))))
         entry = Solution(point, len(members), int(winding[paths].max()), False, real,
                          float(condition[paths].min()), isolated, paths, digits)
-        (solutions if isolated else flagged).append(entry)
+        # a group whose refinement stalled is no solution numag can vouch for (decision 0049)
+        (unverified if not settled else solutions if isolated else flagged).append(entry)
     at_infinity = []
     if len(infinite):
         points = normalize_projective(endpoints[infinite])
@@ -554,4 +570,4 @@ def _collect(system, endpoints, status, winding, condition, options, rng):
             real = bool(real_coefficients and np.all(np.abs(point.imag) <= 1e-8 * (1 + np.abs(point))))
             at_infinity.append(Solution(point, len(members), int(winding[paths].max()), True, real,
                                         float(condition[paths].min()), True, paths, 16))
-    return solutions, at_infinity, flagged
+    return solutions, at_infinity, flagged, unverified
