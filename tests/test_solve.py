@@ -50,26 +50,36 @@ def test_an_endgame_estimate_on_the_way_to_infinity_is_not_counted_as_a_solution
     # (decision 0049). There every homogenised equation but the last vanishes identically and the last is
     # -X_0^6 (from the equations themselves, common practice, no source), so an endgame estimate with
     # X_0 ~ eps^(1/6) relative passes every homogeneous residual test. Here such an estimate, with the sizes
-    # seen in that run (|X_0| / ||X|| = 4.5e-4, winding 4, condition 1e16), is handed to solve's collection
-    # step: it must not be counted as a solution but as a group refinement could not settle.
-    from numag.tracking.solve import _collect
+    # seen in that run (|X_0| / ||X|| = 4.5e-4, winding 4, condition 1e16), is classified and collected as
+    # solve does: at infinity, and no solution.
+    from numag.tracking.homotopy import StraightLineHomotopy
+    from numag.tracking.solve import _collect, _unresolved_infinity
+    from numag.tracking.tracker import TrackerOptions
     system = cyclic(6)
     rng = np.random.default_rng(seed)
+    homotopy = StraightLineHomotopy.total_degree(system, rng)
     a, b = rng.standard_normal(2) + 1j * rng.standard_normal(2)
     direction = np.array([0, a, 0, b, 0, -(a + b)])
     homogeneous = np.concatenate([[4.5e-4 * np.linalg.norm(direction)], direction])
+    homogeneous /= homogeneous @ homotopy.patch  # on the patch, as the tracker's endpoints are
     x0 = homogeneous[0]
     values = [poly.evaluate(homogeneous[1:] / x0) * x0 ** poly.degree for poly in system.polynomials]
-    assert max(abs(v) for v in values[:-1]) < 1e-12 * np.linalg.norm(homogeneous) and \
-        abs(values[-1] + x0 ** 6) < 1e-12 * np.linalg.norm(homogeneous) ** 6  # F^h = (0, ..., 0, -X_0^6) there
+    size = np.linalg.norm(homogeneous)
+    assert max(abs(v) for v in values[:-1]) < 1e-12 * size and abs(values[-1] + x0 ** 6) < 1e-12 * size ** 6
+    # ... and a genuine singular endpoint beside it: the triple root (0, 1) of x^3 = 0, y = x + 1, estimated
+    # to 1e-6, keeps its status (common practice, no source)
+    triple = parse_system(["x^3", "y - x - 1"], ["x", "y"])
+    triple_homotopy = StraightLineHomotopy.total_degree(triple, rng)
+    estimate = np.array([1.0, 1e-6, 1.0 + 1e-6], dtype=complex)
+    estimate /= estimate @ triple_homotopy.patch
+    singular = np.full(4, int(PathStatus.SINGULAR_ENDPOINT))
+    assert _unresolved_infinity(triple_homotopy, np.tile(estimate, (3, 1)), singular[:3], TrackerOptions()).size == 0
     endpoints = np.tile(homogeneous, (4, 1))
-    status = np.full(4, int(PathStatus.SINGULAR_ENDPOINT))
+    status = singular.copy()
+    status[_unresolved_infinity(homotopy, endpoints, status, TrackerOptions())] = PathStatus.AT_INFINITY
     collected = _collect(system, endpoints, status, np.full(4, 4), np.full(4, 1e16), SolveOptions(), rng)
     assert collected[0] == []  # before decision 0049 the four paths were one solution of multiplicity 4
-    solutions, infinite, flagged, unverified = collected
-    assert infinite == []
-    assert len(flagged) + len(unverified) == 1 and sum(g.multiplicity for g in flagged + unverified) == 4
-    assert len(unverified) == 1  # refinement stalls: far from any solution of F, whatever the isolation test says
+    assert len(collected[1]) == 1 and collected[1][0].multiplicity == 4 and collected[1][0].at_infinity
 
 
 def test_unverified_groups_are_reported_and_warned():
@@ -78,11 +88,11 @@ def test_unverified_groups_are_reported_and_warned():
     from numag.app.report import completeness_warnings
     result = solve_system(parse_system(["x^3", "y - x - 1"], ["x", "y"]), seed=0)
     data = solve_report_to_dict(result, SolveOptions())
-    assert data["unverified"] == [] and not any("refined" in w for w in completeness_warnings(data))
+    assert data["unverified"] == [] and not any("do not satisfy" in w for w in completeness_warnings(data))
     result.unverified = [result.solutions[0]]
     data = json.loads(dumps(solve_report_to_dict(result, SolveOptions())))
     assert len(data["unverified"]) == 1
-    assert any(w.startswith("1 singular endpoint group(s) (3 path(s)) could not be refined") for w in
+    assert any(w.startswith("1 singular endpoint group(s) (3 path(s)) do not satisfy the equations") for w in
                completeness_warnings(data))
     again, _ = solve_report_from_dict(data)
     assert len(again.unverified) == 1 and again.unverified[0].multiplicity == 3

@@ -199,11 +199,11 @@ def completeness_warnings(data):
                         "for the dimension of a complete intersection: a component may be missing or counted "
                         "twice.")
     unverified = data.get("unverified") if isinstance(data.get("unverified"), list) else []
-    if unverified:  # solve: singular endpoint groups whose refinement stalled (decision 0049)
+    if unverified:  # solve: singular endpoint groups that do not satisfy F (decision 0049)
         paths = sum(int(group.get("multiplicity", 0)) for group in unverified if isinstance(group, dict))
-        warnings.append(f"{len(unverified)} singular endpoint group(s) ({paths} path(s)) could not be refined onto "
-                        "a solution and are not counted: they may be points at infinity that the endgame could not "
-                        "resolve, or solutions missed; run again with another --seed or --start to compare.")
+        warnings.append(f"{len(unverified)} singular endpoint group(s) ({paths} path(s)) do not satisfy the equations "
+                        "after refinement and are not counted: they may be points at infinity that the endgame could "
+                        "not resolve, or solutions missed; run again with another --seed or --start to compare.")
     unconfirmed = data.get("unconfirmed", 0)
     if unconfirmed:
         warnings.append(f"{unconfirmed} group(s) of witness points not confirmed by the trace test: they may be "

@@ -195,11 +195,10 @@ class SolveResult:
     discarded : list of Solution
         With ``squared_up``: solutions of the random combinations that fail an original equation.
     unverified : list of Solution
-        Finite singular endpoint groups that the tracker reported but refinement could not settle on
-        F = 0 (Gauss-Newton at ``digits`` digits stalled): neither counted as solutions nor dropped; the
-        report counts them and warns (exit 3). Endgame estimates of paths that go to infinity, where
-        F^h leaves the homogenising coordinate determined only through a high power, end up here
-        (decision 0049).
+        Isolated singular endpoint groups whose refined point does not satisfy F in units of its
+        terms (to the tracker's ``endpoint_residual``), though the tracker accepted the endpoint on
+        F^h: neither counted as solutions nor dropped; the report counts them and warns (exit 3).
+        Endgame estimates near infinity can pass the homogeneous test and fail this one (decision 0049).
     scaling : Scaling or None
         The units the computation used (points are reported in the user's units).
     """
@@ -253,13 +252,7 @@ def _square_target(system, options, rng):
 
 
 def _refine_mp(system, point, digits):
-    """Gauss-Newton on F at ``digits`` digits (linear convergence at multiple roots is enough here).
-
-    Returns the refined point and whether the scaled residual reached 10^-digits. An isolated
-    solution, however multiple, gets there (the residual falls like a power of the error); an
-    endgame estimate that is no solution, e.g. of a path on its way to infinity whose X_0 the
-    equations fix only through a high power, stalls (decision 0049).
-    """
+    """Gauss-Newton on F at ``digits`` digits (linear convergence at multiple roots is enough here)."""
     evaluator = PrecisionEvaluator(system.polynomials)
     sizes = TermSizes(system.polynomials)
     with mpmath.mp.workdps(digits + 10):
@@ -275,9 +268,9 @@ def _refine_mp(system, point, digits):
                     jacobian[i, j] /= scale[i]
             return values, jacobian
 
-        z, settled, _, _ = mp_gauss_newton(function, ctx.matrix([ctx.mpc(v) for v in point]), ctx,
-                                           tolerance=ctx.mpf(10) ** (-digits), max_iterations=120)
-        return np.array([complex(z[j]) for j in range(system.n_variables)]), bool(settled)
+        z, _, _, _ = mp_gauss_newton(function, ctx.matrix([ctx.mpc(v) for v in point]), ctx,
+                                     tolerance=ctx.mpf(10) ** (-digits), max_iterations=120)
+        return np.array([complex(z[j]) for j in range(system.n_variables)])
 
 
 def solve_system(system, options=None, seed=None, progress=None, execution=None):
@@ -483,6 +476,8 @@ def _run(system, homotopy, start_points, total, options, rng, seed, progress, st
         singular = (winding > 1) | (condition > options.tracker.singular_condition)
         status[ends & singular] = PathStatus.SINGULAR_ENDPOINT
         status[ends & ~singular] = PathStatus.CONVERGED
+    else:
+        status[_unresolved_infinity(run.homotopy, run.endpoints, status, options.tracker)] = PathStatus.AT_INFINITY
     solutions, infinite, not_isolated, unverified = _collect(system, run.endpoints, status, winding, condition,
                                                              options, rng)
     discarded = []
@@ -501,6 +496,31 @@ def _run(system, homotopy, start_points, total, options, rng, seed, progress, st
     description["tracking_seconds"] = tracking
     result.extra["execution"] = description
     return result
+
+
+def _unresolved_infinity(homotopy, endpoints, status, tracker):
+    """Singular endpoints whose X_0 the target cannot tell from 0: paths at infinity (decision 0049).
+
+    An endgame estimate is called finite when |X_0| / ||X|| exceeds a fixed threshold; but where the
+    target's terms in X_0 all carry a high power of it, X_0 is known only to about eps^(1/power) (cyclic 6,
+    towards (0 : 0, a, 0, b, 0, c), a + b + c = 0: only -X_0^6 is left, and X_0 came out 4.5e-4). Such an
+    endpoint solves F^h just as well with X_0 = 0, within the tolerance every endpoint is held to, so
+    nothing in the equations says that it is finite.
+
+    Returns
+    -------
+    ndarray of int
+        Paths with status singular endpoint whose endpoint with X_0 = 0 has a scaled target residual at
+        or below ``tracker.endpoint_residual``.
+    """
+    singular = np.nonzero(status == PathStatus.SINGULAR_ENDPOINT)[0]
+    if len(singular) == 0:
+        return singular
+    at_infinity = endpoints[singular].copy()
+    at_infinity[:, 0] = 0
+    with np.errstate(all="ignore"):
+        residual = homotopy.target_residual(at_infinity)
+    return singular[residual <= tracker.endpoint_residual]
 
 
 def _satisfies(system, point, tolerance=1e-8):
@@ -550,17 +570,20 @@ def _collect(system, endpoints, status, winding, condition, options, rng):
         if singular:
             isolated = IsolationTest(test_system, rng).isolated(test_point)
             if isolated and test_system.n_equations >= test_system.n_variables:
-                test_point, settled = _refine_mp(test_system, np.mean(
+                test_point = _refine_mp(test_system, np.mean(
                     [finite_points[k] if pivot is None else np.delete(finite_points[k] / finite_points[k][pivot],
                                                                          pivot) for k in members], axis=0),
                     options.refine_digits)
                 digits = options.refine_digits
                 point = test_point if pivot is None else np.insert(test_point, pivot, 1.0)
+            # what is counted as a solution satisfies F in units of its terms as every endpoint must; an
+            # estimate near infinity can pass the homogeneous test and fail this one (decision 0049)
+            settled = _satisfies(test_system, test_point, options.tracker.endpoint_residual)
         real = bool(real_coefficients and np.all(np.abs(point.imag) <= 1e-8 * (1 + np.abs(point))))
         entry = Solution(point, len(members), int(winding[paths].max()), False, real,
                          float(condition[paths].min()), isolated, paths, digits)
-        # a group whose refinement stalled is no solution numag can vouch for (decision 0049)
-        (unverified if not settled else solutions if isolated else flagged).append(entry)
+        # an isolated group that does not satisfy F is no solution numag can vouch for (decision 0049)
+        ((solutions if settled else unverified) if isolated else flagged).append(entry)
     at_infinity = []
     if len(infinite):
         points = normalize_projective(endpoints[infinite])

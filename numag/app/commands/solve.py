@@ -101,8 +101,9 @@ def _print_solve(result, out, data=None):
         for s in result.not_isolated:
             out.write(f"        paths {s.multiplicity}  {text(names, s.point, _WITNESS_ACCURACY)}\n")
     if result.unverified:
-        out.write(f"\n{_counted(len(result.unverified), 'singular endpoint group')} could not be refined onto a "
-                  "solution (not counted as solutions):\n")
+        out.write(f"\n{_counted(len(result.unverified), 'singular endpoint group')} "
+                  f"{'does' if len(result.unverified) == 1 else 'do'} not satisfy the "
+                  "equations after refinement (not counted as solutions):\n")
         for s in result.unverified:
             out.write(f"        paths {s.multiplicity}  {text(names, s.point, _WITNESS_ACCURACY)}\n")
     _print_warnings(data, out)
