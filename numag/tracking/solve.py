@@ -482,6 +482,8 @@ def _run(system, homotopy, start_points, total, options, rng, seed, progress, st
                                                              options, rng)
     discarded = []
     if squared:  # random combinations have extra solutions: keep only those of every equation
+        # (a singular group that fails them is one of those extras, discarded like the regular ones)
+        discarded, unverified = unverified, []
         kept = []
         for solution in solutions:
             (kept if _satisfies(system, solution.point) else discarded).append(solution)
