@@ -71,7 +71,7 @@ def solve_row(system, start, seed):
     counts = result.path_counts()
     return {"family": system.name, "start": block["chosen"], "reason": block["reason"], "paths": counts["tracked"],
             "failed": counts["failed"],
-            "solutions": len(result.solutions), "setup_s": round(block["setup_seconds"].get(start, 0.0), 2),
+            "solutions": len(result.solutions), "unverified": len(result.unverified), "setup_s": round(block["setup_seconds"].get(start, 0.0), 2),
             "total_s": round(seconds, 2), "counts": block["paths"]}
 
 
@@ -81,7 +81,7 @@ def null_vector_row(name, problem, start, seed):
     found = isolated_singular_points(system, start, seed=seed)
     seconds = time.perf_counter() - started
     return {"family": f"null vector of {name}", "start": start, "paths": found.paths, "failed": found.failed,
-            "solutions": len(found.points), "setup_s": round(found.start["setup_seconds"].get(start, 0.0), 2),
+            "solutions": len(found.points), "unverified": 0, "setup_s": round(found.start["setup_seconds"].get(start, 0.0), 2),
             "total_s": round(seconds, 2), "counts": found.start["paths"]}
 
 
@@ -143,8 +143,10 @@ def main():
         for start in ("total-degree", "multihomogeneous"):
             singular_rows.append(singular_row(name, problems[name], start, args.seed))
             print(json.dumps(singular_rows[-1]), flush=True)
-    lines = ["| family | start | paths | failed | solutions | set-up s | total s |", "|---|---|---|---|---|---|---|"]
-    lines += [f"| {r['family']} | {r['start']} | {r['paths']} | {r['failed']} | {r['solutions']} | {r['setup_s']} | "
+    lines = ["| family | start | paths | failed | solutions | unverified | set-up s | total s |",
+             "|---|---|---|---|---|---|---|---|"]
+    lines += [f"| {r['family']} | {r['start']} | {r['paths']} | {r['failed']} | {r['solutions']} | {r['unverified']} | "
+              f"{r['setup_s']} | "
               f"{r['total_s']} |" for r in rows]
     lines += ["", "| singular locus of | start | paths | paths after X | failed | singular points | total s |",
               "|---|---|---|---|---|---|---|"]

@@ -43,6 +43,61 @@ def test_cyclic_4_positive_dimensional_set_is_flagged_not_counted():
         assert abs(z[2] + z[0]) < 1e-6 and abs(z[3] + z[1]) < 1e-6 and abs(abs(z[0] * z[1]) - 1) < 1e-6
 
 
+@pytest.mark.parametrize("seed", [0, 1, 2, 3])
+def test_an_endgame_estimate_on_the_way_to_infinity_is_not_counted_as_a_solution(seed):
+    # Cyclic 6 has 156 isolated solutions (Bjorck and Froberg 1991, from memory); its total-degree run reported
+    # 159: three cycles of 4 paths went to the points at infinity (0 : 0, a, 0, b, 0, c) with a + b + c = 0
+    # (decision 0049). There every homogenised equation but the last vanishes identically and the last is
+    # -X_0^6 (from the equations themselves, common practice, no source), so an endgame estimate with
+    # X_0 ~ eps^(1/6) relative passes every homogeneous residual test. Here such an estimate, with the sizes
+    # seen in that run (|X_0| / ||X|| = 4.5e-4, winding 4, condition 1e16), is classified and collected as
+    # solve does: at infinity, and no solution.
+    from numag.tracking.homotopy import StraightLineHomotopy
+    from numag.tracking.solve import _collect, _unresolved_infinity
+    from numag.tracking.tracker import TrackerOptions
+    system = cyclic(6)
+    rng = np.random.default_rng(seed)
+    homotopy = StraightLineHomotopy.total_degree(system, rng)
+    a, b = rng.standard_normal(2) + 1j * rng.standard_normal(2)
+    direction = np.array([0, a, 0, b, 0, -(a + b)])
+    homogeneous = np.concatenate([[4.5e-4 * np.linalg.norm(direction)], direction])
+    homogeneous /= homogeneous @ homotopy.patch  # on the patch, as the tracker's endpoints are
+    x0 = homogeneous[0]
+    values = [poly.evaluate(homogeneous[1:] / x0) * x0 ** poly.degree for poly in system.polynomials]
+    size = np.linalg.norm(homogeneous)
+    assert max(abs(v) for v in values[:-1]) < 1e-12 * size and abs(values[-1] + x0 ** 6) < 1e-12 * size ** 6
+    # ... and a genuine singular endpoint beside it: the triple root (0, 1) of x^3 = 0, y = x + 1, estimated
+    # to 1e-6, keeps its status (common practice, no source)
+    triple = parse_system(["x^3", "y - x - 1"], ["x", "y"])
+    triple_homotopy = StraightLineHomotopy.total_degree(triple, rng)
+    estimate = np.array([1.0, 1e-6, 1.0 + 1e-6], dtype=complex)
+    estimate /= estimate @ triple_homotopy.patch
+    singular = np.full(4, int(PathStatus.SINGULAR_ENDPOINT))
+    assert _unresolved_infinity(triple_homotopy, np.tile(estimate, (3, 1)), singular[:3], TrackerOptions()).size == 0
+    endpoints = np.tile(homogeneous, (4, 1))
+    status = singular.copy()
+    status[_unresolved_infinity(homotopy, endpoints, status, TrackerOptions())] = PathStatus.AT_INFINITY
+    collected = _collect(system, endpoints, status, np.full(4, 4), np.full(4, 1e16), SolveOptions(), rng)
+    assert collected[0] == []  # before decision 0049 the four paths were one solution of multiplicity 4
+    assert len(collected[1]) == 1 and collected[1][0].multiplicity == 4 and collected[1][0].at_infinity
+
+
+def test_unverified_groups_are_reported_and_warned():
+    # the JSON report keeps the groups refinement could not settle and warns (exit 3); a report of a run without
+    # them has none (common practice, no source)
+    from numag.app.report import completeness_warnings
+    result = solve_system(parse_system(["x^3", "y - x - 1"], ["x", "y"]), seed=0)
+    data = solve_report_to_dict(result, SolveOptions())
+    assert data["unverified"] == [] and not any("do not satisfy" in w for w in completeness_warnings(data))
+    result.unverified = [result.solutions[0]]
+    data = json.loads(dumps(solve_report_to_dict(result, SolveOptions())))
+    assert len(data["unverified"]) == 1
+    assert any(w.startswith("1 singular endpoint group(s) (3 path(s)) do not satisfy the equations") for w in
+               completeness_warnings(data))
+    again, _ = solve_report_from_dict(data)
+    assert len(again.unverified) == 1 and again.unverified[0].multiplicity == 3
+
+
 def test_triple_root_multiplicity_and_accuracy():
     # x^3 = 0 with y = x + 1: the root (0, 1) has multiplicity 3 (common practice, no source)
     result = solve_system(parse_system(["x^3", "y - x - 1"], ["x", "y"]), seed=1)

@@ -198,6 +198,12 @@ def completeness_warnings(data):
         warnings.append("The components' degrees times multiplicities do not add up as Bezout's theorem requires "
                         "for the dimension of a complete intersection: a component may be missing or counted "
                         "twice.")
+    unverified = data.get("unverified") if isinstance(data.get("unverified"), list) else []
+    if unverified:  # solve: singular endpoint groups that do not satisfy F (decision 0049)
+        paths = sum(int(group.get("multiplicity", 0)) for group in unverified if isinstance(group, dict))
+        warnings.append(f"{len(unverified)} singular endpoint group(s) ({paths} path(s)) do not satisfy the equations "
+                        "after refinement and are not counted: they may be points at infinity that the endgame could "
+                        "not resolve, or solutions missed; run again with another --seed or --start to compare.")
     unconfirmed = data.get("unconfirmed", 0)
     if unconfirmed:
         warnings.append(f"{unconfirmed} group(s) of witness points not confirmed by the trace test: they may be "
@@ -291,6 +297,7 @@ def solve_report_to_dict(result, options):
         "at_infinity": [_solution_to_dict(s) for s in result.at_infinity],
         "not_isolated": [_solution_to_dict(s) for s in result.not_isolated],
         "discarded": [_solution_to_dict(s) for s in result.discarded],
+        "unverified": [_solution_to_dict(s) for s in result.unverified],
         "squared_up": result.squared_up,
         "seconds": result.seconds,
         "evaluations": result.evaluations,
@@ -326,7 +333,8 @@ def solve_report_from_dict(data):
         retracked=np.array(data["path_retracked"], dtype=bool), seed=data["seed"], seconds=float(data["seconds"]),
         evaluations=int(data["evaluations"]), squared_up=bool(data["squared_up"]),
         digits=np.array(data["path_digits"], dtype=np.int64),
-        discarded=[_solution_from_dict(d) for d in data["discarded"]])
+        discarded=[_solution_from_dict(d) for d in data["discarded"]],
+        unverified=[_solution_from_dict(d) for d in data.get("unverified", [])])  # absent before decision 0049
     if data.get("execution") is not None:
         result.extra["execution"] = data["execution"]
     if data.get("start") is not None:

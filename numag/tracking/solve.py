@@ -194,6 +194,11 @@ class SolveResult:
         Per path: 16 (double precision) or the digits of the precision rescue it needed.
     discarded : list of Solution
         With ``squared_up``: solutions of the random combinations that fail an original equation.
+    unverified : list of Solution
+        Isolated singular endpoint groups whose refined point does not satisfy F in units of its
+        terms (to the tracker's ``endpoint_residual``), though the tracker accepted the endpoint on
+        F^h: neither counted as solutions nor dropped; the report counts them and warns (exit 3).
+        Endgame estimates near infinity can pass the homogeneous test and fail this one (decision 0049).
     scaling : Scaling or None
         The units the computation used (points are reported in the user's units).
     """
@@ -214,6 +219,7 @@ class SolveResult:
     discarded: list = field(default_factory=list)
     extra: dict = field(default_factory=dict)
     scaling: object = None
+    unverified: list = field(default_factory=list)
 
     def __repr__(self):
         counts = self.path_counts()
@@ -390,7 +396,7 @@ def _in_user_units(result, system, scaling):
         point = scaling.to_user(point)
         return normalize_projective(point) if system.projective else point
 
-    for solution in result.solutions + result.not_isolated + result.discarded:
+    for solution in result.solutions + result.not_isolated + result.discarded + result.unverified:
         solution.point = finite(solution.point)
     for solution in result.at_infinity:
         solution.point = normalize_projective(scaling.homogeneous_to_user(solution.point))
@@ -470,9 +476,14 @@ def _run(system, homotopy, start_points, total, options, rng, seed, progress, st
         singular = (winding > 1) | (condition > options.tracker.singular_condition)
         status[ends & singular] = PathStatus.SINGULAR_ENDPOINT
         status[ends & ~singular] = PathStatus.CONVERGED
-    solutions, infinite, not_isolated = _collect(system, run.endpoints, status, winding, condition, options, rng)
+    else:
+        status[_unresolved_infinity(run.homotopy, run.endpoints, status, options.tracker)] = PathStatus.AT_INFINITY
+    solutions, infinite, not_isolated, unverified = _collect(system, run.endpoints, status, winding, condition,
+                                                             options, rng)
     discarded = []
     if squared:  # random combinations have extra solutions: keep only those of every equation
+        # (a singular group that fails them is one of those extras, discarded like the regular ones)
+        discarded, unverified = unverified, []
         kept = []
         for solution in solutions:
             (kept if _satisfies(system, solution.point) else discarded).append(solution)
@@ -482,12 +493,38 @@ def _run(system, homotopy, start_points, total, options, rng, seed, progress, st
                          seconds=time.perf_counter() - started, evaluations=run.evaluations, squared_up=squared,
                          digits=run.digits)
     result.discarded = discarded
+    result.unverified = unverified
     description = dict(run.execution)
     tracking = description.pop("tracking_seconds")  # the batches and the re-tracking of jumped paths
     description["seconds"] = result.seconds
     description["tracking_seconds"] = tracking
     result.extra["execution"] = description
     return result
+
+
+def _unresolved_infinity(homotopy, endpoints, status, tracker):
+    """Singular endpoints whose X_0 the target cannot tell from 0: paths at infinity (decision 0049).
+
+    An endgame estimate is called finite when |X_0| / ||X|| exceeds a fixed threshold; but where the
+    target's terms in X_0 all carry a high power of it, X_0 is known only to about eps^(1/power) (cyclic 6,
+    towards (0 : 0, a, 0, b, 0, c), a + b + c = 0: only -X_0^6 is left, and X_0 came out 4.5e-4). Such an
+    endpoint solves F^h just as well with X_0 = 0, within the tolerance every endpoint is held to, so
+    nothing in the equations says that it is finite.
+
+    Returns
+    -------
+    ndarray of int
+        Paths with status singular endpoint whose endpoint with X_0 = 0 has a scaled target residual at
+        or below ``tracker.endpoint_residual``.
+    """
+    singular = np.nonzero(status == PathStatus.SINGULAR_ENDPOINT)[0]
+    if len(singular) == 0:
+        return singular
+    at_infinity = endpoints[singular].copy()
+    at_infinity[:, 0] = 0
+    with np.errstate(all="ignore"):
+        residual = homotopy.target_residual(at_infinity)
+    return singular[residual <= tracker.endpoint_residual]
 
 
 def _satisfies(system, point, tolerance=1e-8):
@@ -510,7 +547,7 @@ def _collect(system, endpoints, status, winding, condition, options, rng):
     infinite = np.nonzero(status == PathStatus.AT_INFINITY)[0]
     finite_points = _finite_points(system, endpoints, finite)
     affine_system = None if system.projective else system
-    solutions, flagged = [], []
+    solutions, flagged, unverified = [], [], []
     labels = cluster_labels(finite_points, options.cluster_tolerance, projective=system.projective)
     with np.errstate(invalid="ignore"):
         real_points = real_coefficients & np.all(np.abs(finite_points.imag) <= 1e-8 * (1 + np.abs(finite_points)),
@@ -535,7 +572,7 @@ def _collect(system, endpoints, status, winding, condition, options, rng):
                                            [p.dehomogenize(pivot) for p in system.polynomials])
             test_point = np.delete(point, pivot)
         digits = 16
-        isolated = True
+        isolated = settled = True
         if singular:
             isolated = IsolationTest(test_system, rng).isolated(test_point)
             if isolated and test_system.n_equations >= test_system.n_variables:
@@ -545,11 +582,15 @@ def _collect(system, endpoints, status, winding, condition, options, rng):
                     options.refine_digits)
                 digits = options.refine_digits
                 point = test_point if pivot is None else np.insert(test_point, pivot, 1.0)
+            # what is counted as a solution satisfies F in units of its terms as every endpoint must; an
+            # estimate near infinity can pass the homogeneous test and fail this one (decision 0049)
+            settled = _satisfies(test_system, test_point, options.tracker.endpoint_residual)
         real = bool(real_coefficients and np.all(np.abs(point.imag) <= 1e-8 * (1 + np.abs(point))))
         entry = Solution(point=point, multiplicity=len(members), winding=int(winding[paths].max()),
                          at_infinity=False, real=real, condition=float(condition[paths].min()), isolated=isolated,
                          paths=paths, digits=digits)
-        (solutions if isolated else flagged).append(entry)
+        # an isolated group that does not satisfy F is no solution numag can vouch for (decision 0049)
+        ((solutions if settled else unverified) if isolated else flagged).append(entry)
     at_infinity = []
     if len(infinite):
         points = normalize_projective(endpoints[infinite])
@@ -560,4 +601,4 @@ def _collect(system, endpoints, status, winding, condition, options, rng):
             at_infinity.append(Solution(point=point, multiplicity=len(members), winding=int(winding[paths].max()),
                                         at_infinity=True, real=real, condition=float(condition[paths].min()),
                                         isolated=True, paths=paths, digits=16))
-    return solutions, at_infinity, flagged
+    return solutions, at_infinity, flagged, unverified

@@ -100,6 +100,12 @@ def _print_solve(result, out, data=None):
                   "sets (not counted as solutions):\n")
         for s in result.not_isolated:
             out.write(f"        paths {s.multiplicity}  {text(names, s.point, _WITNESS_ACCURACY)}\n")
+    if result.unverified:
+        out.write(f"\n{_counted(len(result.unverified), 'singular endpoint group')} "
+                  f"{'does' if len(result.unverified) == 1 else 'do'} not satisfy the "
+                  "equations after refinement (not counted as solutions):\n")
+        for s in result.unverified:
+            out.write(f"        paths {s.multiplicity}  {text(names, s.point, _WITNESS_ACCURACY)}\n")
     _print_warnings(data, out)
     _print_certification(data, out)
     out.write(("\n" + text.footnote()) if text.used else "")
