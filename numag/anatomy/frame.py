@@ -145,6 +145,11 @@ def _coefficients(polynomial, count):
     return table
 
 
+#: Shear columns below this (against g's largest coefficient) are rounding; shears are capped at this size.
+_SHEAR_FLOOR = 1e-8
+_SHEAR_LIMIT = 1e2
+
+
 def _shear(polynomial, movers, plane):
     """Components along ``plane`` (len(plane) x len(movers)) that make the ``movers`` directions conjugate to
     the plane spanned by the ``plane`` coordinates.
@@ -166,12 +171,15 @@ def _shear(polynomial, movers, plane):
     if not monomials:
         return shear
     columns = np.array([[tables[k].get(m, 0) for k in plane] for m in monomials], dtype=complex)
-    if not np.linalg.norm(columns) > 0:
+    # a plane on which g vanishes (the root line of E7's cubic) has rounding for columns: no shear from it
+    if not np.linalg.norm(columns) > _SHEAR_FLOOR * float(np.max(np.abs(polynomial.numeric_coefficients()))):
         return shear
     for a, i in enumerate(movers):
         target = -np.array([tables[i].get(m, 0) for m in monomials], dtype=complex)
-        shear[:, a] = np.linalg.lstsq(columns, target, rcond=None)[0]
-    return shear
+        shear[:, a] = np.linalg.lstsq(columns, target, rcond=1e-8)[0]
+    # a shear is a correction of a frame already within a few decades of the right one
+    size = np.linalg.norm(shear)
+    return shear if size <= _SHEAR_LIMIT else shear * (_SHEAR_LIMIT / size)
 
 
 def kernel_cubic(polynomial, point, kernel):
@@ -207,11 +215,9 @@ def cubic_degeneracy(cubic):
     return float(np.linalg.norm(covariant) / np.linalg.norm(cubic) ** 2)
 
 
-#: |Hessian covariant| / |cubic|^2 of the kernel cubic at or below this: treated as a cube when the kernel
-#: basis is chosen (as in the type test; a wrong guess here costs conditioning only, never the answer).
-_NEAR_CUBE = 1e-6
-#: Root directions closer than this (|det|) are not used as a basis.
-_DISTINCT = 1e-6
+#: Root directions of the kernel cubic (unit vectors) with |det| below this are not used as a basis: the
+#: cubic is treated as a cube, its root as the first axis and the orthogonal complement, sheared, as the second.
+_APART = 0.05
 
 
 def _kernel_basis(polynomial, rank, real):
@@ -242,25 +248,37 @@ def _kernel_basis(polynomial, rank, real):
         return np.eye(2, dtype=complex), False
     directions = [turn @ np.array([z, 1.0]) for z in roots]
     directions = [v / np.linalg.norm(v) for v in directions]
-    cube = cubic_degeneracy(cubic) <= _NEAR_CUBE
+    def spread(a, b):
+        return abs(np.linalg.det(np.column_stack([a, b])))
+
     pairs = [(0, 1, 2), (0, 2, 1), (1, 2, 0)]
-    closest = min(pairs, key=lambda p: abs(np.linalg.det(np.column_stack([directions[p[0]], directions[p[1]]]))))
-    first = directions[closest[0]] + directions[closest[1]] * np.sign(np.vdot(directions[closest[0]],
-                                                                             directions[closest[1]]).real or 1)
+    # three roots within a narrow cone: a (near) cube, E_k; its complement is chosen by the shear below. The
+    # choice only costs conditioning, never the answer: every basis used here has condition below 1 / _APART
+    cube = max(spread(directions[p[0]], directions[p[1]]) for p in pairs) < _APART
+    closest = min(pairs, key=lambda p: spread(directions[p[0]], directions[p[1]]))
+
+    def aligned(a, b):
+        return b * (np.sign(np.vdot(a, b).real) or 1.0)
+
+    first = directions[closest[0]] + aligned(directions[closest[0]], directions[closest[1]])
     if cube:
-        first = sum(directions[k] * np.sign(np.vdot(directions[0], directions[k]).real or 1) for k in range(3))
+        # a perturbed cube's roots split by eps^(1/3); the kernel of its Hessian (6 l grad l grad l^T for
+        # l^3) moves by eps only: the stacked Hessians at (1, 0) and (0, 1) have the root as null vector
+        a, b, c, d = cubic
+        stacked = np.array([[3 * a, b], [b, c], [b, c], [c, 3 * d]], dtype=complex)
+        first = np.linalg.svd(stacked)[2][-1].conj()
     first = first / np.linalg.norm(first)
+    if real and np.linalg.norm(first.real) > 0.5:
+        first = first.real / np.linalg.norm(first.real)
+    second = directions[closest[2]]
     if real:
-        first = first.real / np.linalg.norm(first.real) if np.linalg.norm(first.real) > 0 else first
-    if cube:
+        second = second.real if np.linalg.norm(second.real) >= np.linalg.norm(second.imag) else second.imag
+    second = second / np.linalg.norm(second)
+    if cube or spread(first, second) < _APART:
+        cube = True
         second = np.array([-np.conj(first[1]), np.conj(first[0])])
-    else:
-        second = directions[closest[2]]
-        if real:
-            second = second.real if np.linalg.norm(second.real) > np.linalg.norm(second.imag) else second.imag
-        second = second / np.linalg.norm(second)
     basis = np.column_stack([first, second]).astype(complex)
-    if abs(np.linalg.det(basis)) < _DISTINCT:
+    if abs(np.linalg.det(basis)) < _APART / 2:
         return np.eye(2, dtype=complex), False
     return basis, cube
 
@@ -271,10 +289,23 @@ def _balanced_with(polynomial, factors):
     return Polynomial(polynomial.exponents, polynomial.numeric_coefficients() * powers, polynomial.n_variables)
 
 
+#: Terms smaller than this against the largest do not enter the fit of the units.
+_FIT_RANGE = 1e-10
+
+
 def _balanced(moved, n):
     """The diagonal units (powers of ten) that balance the Taylor coefficients, and g in them."""
-    system = PolynomialSystem([f"u{j}" for j in range(n)], [moved])
-    factors = Scaling.balancing(system).variable_factors
+    # the fit sees the terms within 10 decades of the largest: a kept term near rounding level would
+    # otherwise pull the units to extremes (measured: a frame of condition 5e15 from one such term)
+    magnitudes = np.abs(moved.numeric_coefficients())
+    fitted = magnitudes >= _FIT_RANGE * np.max(magnitudes, initial=0.0)
+    if not np.any(fitted):
+        return np.ones(n), moved
+    system = PolynomialSystem([f"u{j}" for j in range(n)],
+                              [Polynomial(moved.exponents[fitted], moved.numeric_coefficients()[fitted], n)])
+    # at most four decades per step: a fit on few terms can have a near null direction along which the units
+    # run off (a frame of condition 4e19 from four terms was measured)
+    factors = np.clip(Scaling.balancing(system).variable_factors, 1e-4, 1e4)
     return factors, _balanced_with(moved, factors)
 
 

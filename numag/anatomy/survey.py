@@ -27,7 +27,7 @@ from ..numeric.seeds import random_state
 from ..witness.decompose import decompose
 from .hypersurface import hessian_evidence, hypersurface_anatomy
 from .local import LocalOptions, LocalPicture, hypersurface_witness, local_picture, orbit_tangent
-from .records import Branch, ComponentAnatomy, Motion, PointAnatomy
+from .records import Branch, ComponentAnatomy, Family, Motion, PointAnatomy, SingularityType, TypeTest
 
 __all__ = ["AnatomyOptions", "LocusAnatomy", "point_anatomy", "component_anatomy", "locus_anatomy",
            "check_anatomy"]
@@ -197,9 +197,40 @@ def _hypersurface_point(polynomial, computed, user_point, scaling, rng, real, an
     picture = local_picture([polynomial], 1, computed, points, rows, rng, real=real, options=options.local)
     anatomy = _picture_anatomy(picture, scaling, computed, user_point, n - 1, angles, real)
     anatomy.hypersurface = hypersurface_anatomy(polynomial, computed)
+    expected = _plane_branches(anatomy.hypersurface.type) if n == 2 else None
+    if expected is not None and anatomy.branches is not None:
+        found = sorted(b.multiplicity for b in anatomy.branches)
+        if found != expected:
+            # two independent computations (the frame's dual spaces, the local monodromy) disagree: neither
+            # is reported as the type
+            anatomy.notes.append(f"the type {anatomy.hypersurface.type.label} has branches of multiplicities "
+                                 f"{expected}, the local monodromy found {found}: type undecided")
+            anatomy.hypersurface.type = SingularityType(Family.UNDECIDED, None)
+            anatomy.hypersurface.decided_by = TypeTest.BRANCHES_DISAGREE
     if anatomy.hypersurface.corank == 0 and anatomy.multiplicity not in (None, 2):
         anatomy.notes.append(f"a Morse point has multiplicity 2, the local witness set counted {anatomy.multiplicity}")
     return anatomy
+
+
+def _plane_branches(kind):
+    """Multiplicities of the local branches of a simple plane curve singularity (sorted), None otherwise.
+
+    From the normal forms (Arnold 1972): y^2 = x^(k+1) has two smooth branches for odd k, one cusp-like
+    branch of multiplicity 2 for even k; x^2 y + y^(k-1) a smooth branch y = 0 and the branches of
+    x^2 + y^(k-2); E6 and E8 one branch of multiplicity 3; E7 = x (x^2 + y^3) a line and a cusp.
+
+    Examples
+    --------
+    >>> _plane_branches(SingularityType(Family.D, 5)), _plane_branches(SingularityType(Family.E, 7))
+    ([1, 2], [1, 2])
+    """
+    if kind.family is Family.A:
+        return [1, 1] if kind.index % 2 else [2]
+    if kind.family is Family.D:
+        return [1, 1, 1] if kind.index % 2 == 0 else [1, 2]
+    if kind.family is Family.E:
+        return [1, 2] if kind.index == 7 else [3]
+    return None
 
 
 def _system_point(system, polynomials, computed, user_point, scaling, rng, real, angles, seed, decomposition,
