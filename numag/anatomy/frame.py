@@ -40,7 +40,7 @@ import numpy as np
 from ..system.polynomial import Polynomial, PolynomialSystem
 from ..numeric.scaling import Scaling
 
-__all__ = ["LocalFrame", "local_frame", "frame_hessian", "kernel_cubic", "cubic_degeneracy"]
+__all__ = ["LocalFrame", "local_frame", "frame_hessian", "kernel_cubic", "cubic_degeneracy", "cubic_root_spread"]
 
 
 @dataclass
@@ -220,6 +220,42 @@ def cubic_degeneracy(cubic):
 _APART = 0.05
 
 
+def cubic_root_spread(cubic):
+    """The smallest |det| between two unit root directions of a binary cubic (0 for a multiple root).
+
+    Examples
+    --------
+    >>> round(float(cubic_root_spread(np.array([0, 1, 0, -1]))), 6)   # u^2 v - v^3 = v (u - v)(u + v)
+    0.707107
+    """
+    directions = _cubic_roots(cubic)
+    if directions is None:
+        return 0.0
+    return min(float(abs(np.linalg.det(np.column_stack([directions[i], directions[j]]))))
+               for i, j in ((0, 1), (0, 2), (1, 2)))
+
+
+def _cubic_roots(cubic):
+    """The three root directions (unit vectors) of a binary cubic sum cubic[k] u^(3-k) v^k, or None."""
+    turn = np.array([[np.cos(0.5), -np.sin(0.5)], [np.sin(0.5), np.cos(0.5)]])
+    turned = np.zeros(4, dtype=complex)
+    u, v = np.array([turn[0, 0], turn[0, 1]]), np.array([turn[1, 0], turn[1, 1]])  # in z = s / t
+    for k, value in enumerate(cubic):  # value * u^(3-k) v^k with (u, v) = turn (z, 1)
+        term = np.array([value], dtype=complex)
+        for _ in range(3 - k):
+            term = np.polymul(term, u)
+        for _ in range(k):
+            term = np.polymul(term, v)
+        turned += np.pad(term, (4 - len(term), 0))
+    if not np.linalg.norm(turned) > 0:
+        return None
+    roots = np.roots(turned)
+    if len(roots) != 3:
+        return None
+    directions = [turn @ np.array([z, 1.0]) for z in roots]
+    return [d / np.linalg.norm(d) for d in directions]
+
+
 def _kernel_basis(polynomial, rank, real):
     """A basis of a corank-2 kernel plane from the roots of the cubic on it (2 x 2, columns in kernel
     coordinates), and whether the cubic is (nearly) a cube.
@@ -232,22 +268,10 @@ def _kernel_basis(polynomial, rank, real):
     cubic, _ = kernel_cubic(polynomial, np.zeros(n), np.eye(n)[:, rank:])
     if not np.linalg.norm(cubic) > 0:
         return np.eye(2, dtype=complex), False
-    # roots as directions (z, 1) after a fixed turn that keeps them off infinity
-    turn = np.array([[np.cos(0.5), -np.sin(0.5)], [np.sin(0.5), np.cos(0.5)]])
-    turned = np.zeros(4, dtype=complex)
-    u, v = np.array([turn[0, 0], turn[0, 1]]), np.array([turn[1, 0], turn[1, 1]])  # in z = s / t
-    for k, value in enumerate(cubic):  # value * u^(3-k) v^k with (u, v) = turn (z, 1)
-        term = np.array([value], dtype=complex)
-        for _ in range(3 - k):
-            term = np.polymul(term, u)
-        for _ in range(k):
-            term = np.polymul(term, v)
-        turned += np.pad(term, (4 - len(term), 0))
-    roots = np.roots(turned)
-    if len(roots) != 3:
+    directions = _cubic_roots(cubic)
+    if directions is None:
         return np.eye(2, dtype=complex), False
-    directions = [turn @ np.array([z, 1.0]) for z in roots]
-    directions = [v / np.linalg.norm(v) for v in directions]
+
     def spread(a, b):
         return abs(np.linalg.det(np.column_stack([a, b])))
 

@@ -19,10 +19,10 @@ import numpy as np
 from ..numeric.evaluate import BatchEvaluator, TermSizes
 from ..numeric.linalg import singular_value_gap, widest_gap_rank
 from ..certify.rank import local_dual_evidence
-from .frame import cubic_degeneracy, kernel_cubic, local_frame
+from .frame import cubic_degeneracy, cubic_root_spread, kernel_cubic, local_frame
 from .records import Family, HessianEvidence, HypersurfaceAnatomy, SingularityType, TypeTest
 
-__all__ = ["hessian_evidence", "kernel_cubic", "hypersurface_anatomy", "HESSIAN_ZERO", "max_dual_order"]
+__all__ = ["hessian_evidence", "kernel_cubic", "hypersurface_anatomy", "anatomy_in_frame", "HESSIAN_ZERO", "max_dual_order"]
 
 #: Scaled Hessian singular values: zero ones at most 1e-7 (points good to about 13 digits), kept ones at
 #: least 1e-11 (in random coordinates the terms of f at the point cancel: a genuine value of 1e-8 is seen),
@@ -39,6 +39,8 @@ _ROUNDING_LEVELS = (1e-13, 1e-15)
 #: The frame's rounding level (relative to its largest Taylor coefficient) below which an infinite mu is
 #: reported as a non-isolated singularity rather than undecided.
 _NOISE_FOR_INFINITE = 1e-8
+#: D4 is reported when the kernel cubic's unit root directions are at least this far apart (|det|) in the frame.
+_DISTINCT_ROOTS = 1e-2
 #: The cubic counts as vanishing when its coefficients are this small against the restricted f's.
 _CUBIC_ZERO = 1e-8
 
@@ -98,14 +100,7 @@ def hessian_evidence(polynomial, point):
 def hypersurface_anatomy(polynomial, point):
     """Corank, mu, tau and Arnold's type of f = 0 at a singular point (balanced units).
 
-    Parameters
-    ----------
-    polynomial : Polynomial
-    point : array_like of complex
-
-    Returns
-    -------
-    HypersurfaceAnatomy
+    See :func:`anatomy_in_frame`, which also returns the local frame.
 
     Examples
     --------
@@ -114,6 +109,31 @@ def hypersurface_anatomy(polynomial, point):
     >>> result = hypersurface_anatomy(f, [0, 0])
     >>> result.type.label, result.milnor, result.tjurina, result.decided_by.name
     ('E6', 6, 6, 'CUBIC_TRIPLE_ROOT')
+    """
+    return anatomy_in_frame(polynomial, point)[0]
+
+
+def anatomy_in_frame(polynomial, point):
+    """Corank, mu, tau and Arnold's type of f = 0 at a singular point (balanced units).
+
+    Parameters
+    ----------
+    polynomial : Polynomial
+    point : array_like of complex
+
+    Returns
+    -------
+    HypersurfaceAnatomy
+    LocalFrame
+        The frame the invariants were computed in (the local picture uses it too).
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> f = parse_system(["x^3 + y^4"], ["x", "y"]).polynomials[0]
+    >>> result, frame = anatomy_in_frame(f, [0, 0])
+    >>> result.type.label, frame.polynomial.n_variables
+    ('E6', 2)
     """
     point = np.asarray(point, dtype=complex)
     n = polynomial.n_variables
@@ -144,7 +164,7 @@ def hypersurface_anatomy(polynomial, point):
 
     def result(family, index, test):
         return HypersurfaceAnatomy(corank, evidence, mu, tau, quasi, SingularityType(family, index), test,
-                                   degeneracy, frame.condition, frame.noise_up_to((mu or 0) + 1))
+                                   degeneracy, frame.condition, frame.noise_up_to((mu or 0) + 1)), frame
 
     if unclear:
         return result(Family.UNDECIDED, None, TypeTest.UNCLEAR_RANK)
@@ -184,5 +204,9 @@ def hypersurface_anatomy(polynomial, point):
             return result(Family.NOT_SIMPLE, None, TypeTest.CUBIC_TRIPLE_ROOT_LARGE_MU)
         return result(Family.UNDECIDED, None, TypeTest.INCONSISTENT)
     if mu == 4:
+        # three distinct roots must be seen as such: a double root split by rounding (D6 after a change of
+        # condition 1e3) also gives three roots and a small count; in the frame D4's roots are far apart
+        if cubic_root_spread(cubic) < _DISTINCT_ROOTS:
+            return result(Family.UNDECIDED, None, TypeTest.CUBIC_ROOTS_CLOSE)
         return result(Family.D, 4, TypeTest.CUBIC_THREE_ROOTS)
     return result(Family.D, mu, TypeTest.CUBIC_DOUBLE_ROOT)

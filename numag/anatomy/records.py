@@ -52,6 +52,7 @@ class TypeTest(Enum):
     UNCLEAR_DUAL = "a Macaulay matrix of the local dual space shows no clear gap: mu or tau undecided"
     BEYOND_PRECISION = ("mu or tau changes when the Taylor terms at rounding level are dropped or kept: out of "
                         "reach of double precision in these coordinates, undecided")
+    CUBIC_ROOTS_CLOSE = "mu is 4 but two roots of the kernel cubic nearly coincide: D4 not confirmed, undecided"
     BRANCHES_DISAGREE = "the local branches contradict the type found from corank and mu: undecided"
 
 

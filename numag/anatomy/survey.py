@@ -25,7 +25,7 @@ from ..system.polynomial import PolynomialSystem, determinant
 from ..numeric.scaling import Scaling
 from ..numeric.seeds import random_state
 from ..witness.decompose import decompose
-from .hypersurface import hessian_evidence, hypersurface_anatomy
+from .hypersurface import anatomy_in_frame, hessian_evidence
 from .local import LocalOptions, LocalPicture, hypersurface_witness, local_picture, orbit_tangent
 from .records import Branch, ComponentAnatomy, Family, Motion, PointAnatomy, SingularityType, TypeTest
 
@@ -131,14 +131,16 @@ def _motion(real_point, branches):
     return Motion.LOCKED
 
 
-def _picture_anatomy(picture, scaling, computed_point, user_point, local_dimension, angles, real):
-    """PointAnatomy fields from a local picture (multiplicity, branches, motion)."""
+def _picture_anatomy(picture, scaling, computed_point, user_point, local_dimension, angles, real, frame=None):
+    """PointAnatomy fields from a local picture (multiplicity, branches, motion); with a local ``frame`` the
+    picture is in its coordinates u (x = p + M u) and tangents are mapped through M."""
     anatomy = PointAnatomy(np.asarray(user_point, dtype=complex), local_dimension, picture.multiplicity,
                            notes=list(picture.notes))
     if picture.orbits is not None:
         branches = []
         for k, orbit in enumerate(picture.orbits):
-            tangent = _to_user_direction(scaling, orbit_tangent(picture, orbit, computed_point))
+            tangent = orbit_tangent(picture, orbit, computed_point)
+            tangent = _to_user_direction(scaling, tangent if frame is None else frame.to_ambient(tangent))
             is_real = bool(picture.real_orbits[k]) if picture.real_orbits is not None else False
             rates = _angle_rates(anatomy.point, tangent, angles) if (angles and is_real) else {}
             branches.append(Branch(len(orbit), tangent, is_real, rates))
@@ -193,10 +195,15 @@ def point_anatomy(system, point, seed=None, decomposition=None, angles=None, loc
 
 def _hypersurface_point(polynomial, computed, user_point, scaling, rng, real, angles, options):
     n = polynomial.n_variables
-    points, rows = hypersurface_witness(polynomial, rng)
-    picture = local_picture([polynomial], 1, computed, points, rows, rng, real=real, options=options.local)
-    anatomy = _picture_anatomy(picture, scaling, computed, user_point, n - 1, angles, real)
-    anatomy.hypersurface = hypersurface_anatomy(polynomial, computed)
+    # the local witness set in the local frame too: its radius is then in units of the singularity's own
+    # scale (in the computed units a change of condition 1e3 put it outside the cusp of A4: two branches)
+    hypersurface, frame = anatomy_in_frame(polynomial, computed)
+    local = frame.polynomial
+    origin = np.zeros(n, dtype=complex)
+    points, rows = hypersurface_witness(local, rng)
+    picture = local_picture([local], 1, origin, points, rows, rng, real=real, options=options.local)
+    anatomy = _picture_anatomy(picture, scaling, origin, user_point, n - 1, angles, real, frame)
+    anatomy.hypersurface = hypersurface
     expected = _plane_branches(anatomy.hypersurface.type) if n == 2 else None
     if expected is not None and anatomy.branches is not None:
         found = sorted(b.multiplicity for b in anatomy.branches)
