@@ -14,6 +14,7 @@ Examples
 'two real branches cross transversally: the mechanism can switch branch here'
 """
 
+import dataclasses
 import itertools
 import time
 from dataclasses import dataclass, field
@@ -32,6 +33,8 @@ from .records import Branch, ComponentAnatomy, Family, Motion, PointAnatomy, Sin
 __all__ = ["AnatomyOptions", "LocusAnatomy", "point_anatomy", "component_anatomy", "locus_anatomy",
            "check_anatomy"]
 
+#: Radius of the local slices in a local frame (units of the singularity's own scale).
+_FRAME_RADIUS = 1e-2
 #: Imaginary parts below this (relative to 1 + |x|) make a point real.
 _REAL = 1e-8
 
@@ -201,7 +204,10 @@ def _hypersurface_point(polynomial, computed, user_point, scaling, rng, real, an
     local = frame.polynomial
     origin = np.zeros(n, dtype=complex)
     points, rows = hypersurface_witness(local, rng)
-    picture = local_picture([local], 1, origin, points, rows, rng, real=real, options=options.local)
+    # in the frame the singularity's terms have size one: a radius of 1e-2 stays in the asymptotic regime (the
+    # shrink check tests it) and keeps the points of a high branch apart (A6: 2 eps^3.5, 6e-11 at eps = 1e-3)
+    in_frame = dataclasses.replace(options.local, radius=max(options.local.radius, _FRAME_RADIUS))
+    picture = local_picture([local], 1, origin, points, rows, rng, real=real, options=in_frame)
     anatomy = _picture_anatomy(picture, scaling, origin, user_point, n - 1, angles, real, frame)
     anatomy.hypersurface = hypersurface
     expected = _plane_branches(anatomy.hypersurface.type) if n == 2 else None
