@@ -69,6 +69,74 @@ def test_simple_plane_curve_types(equation, label, mu, seed):
     assert anatomy.multiplicity == (2 if label.startswith("A") else 3)
 
 
+def gaussian_moved(equation, names, seed, condition):
+    """f(A (y - p)) with A = (a Gaussian matrix with its singular values set to span ``condition``) times
+    units 10^-3..10^3, and p a random point in those units. Returns (system, p)."""
+    f = parse_system([equation], names).polynomials[0]
+    rng = np.random.default_rng(500 + seed)
+    n = len(names)
+    units = 10.0 ** rng.integers(-3, 4, n)
+    left, _, right = np.linalg.svd(rng.standard_normal((n, n)))
+    matrix = left @ np.diag(np.geomspace(1.0, 1.0 / condition, n)) @ right @ np.diag(1 / units)
+    point = rng.standard_normal(n) * units
+    return PolynomialSystem(list(names), [f.numeric().substitute_linear(matrix, -matrix @ point)]), point
+
+
+# Condition 1e3 for every type whose defining terms stay above rounding there (measured, decision 0044); A5
+# and A6 at 1e2 (at 1e3 their x^6, x^7 terms sink to rounding level: see the next test).
+GAUSSIAN_CASES = [(e, "xy", label, mu, 1e2 if label in ("A5", "A6") else 1e3) for e, label, mu in PLANE_FORMS] + \
+    [(e, "xyz", label, mu, 1e3) for e, label, mu in SURFACE_FORMS]
+
+
+@pytest.mark.parametrize("seed", [1, 2, 3])
+@pytest.mark.parametrize("equation, names, label, mu, condition", GAUSSIAN_CASES,
+                         ids=[f"{c[2]}-{len(c[1])}d" for c in GAUSSIAN_CASES])
+def test_simple_types_after_an_ill_conditioned_change(equation, names, label, mu, condition, seed):
+    # Arnold 1972 (see PLANE_FORMS): the type, mu and tau are invariants of the singularity under any
+    # invertible linear change of coordinates and units (common practice); here a Gaussian matrix of
+    # condition number up to 1e3 and units 10^-3..10^3 (decision 0044).
+    # Where double precision cannot tell (a double root of the kernel cubic split by rounding), the answer is
+    # undecided and the anatomy incomplete; a type, when given, is the right one. How many are decided is
+    # checked in the next test.
+    system, point = gaussian_moved(equation, list(names), seed, condition)
+    anatomy = point_anatomy(system, point, seed=seed)
+    h = anatomy.hypersurface
+    assert anatomy.multiplicity == (2 if label.startswith("A") or len(names) == 3 else 3)
+    if h.type.family is Family.UNDECIDED:
+        assert anatomy.incomplete
+    else:
+        assert (h.type.label, h.milnor, h.tjurina) == (label, mu, mu)
+        assert not anatomy.incomplete
+
+
+def test_most_types_are_decided_after_an_ill_conditioned_change():
+    # Of the 48 cases above with seed 1..3 (condition 1e3, A5/A6 1e2), measured: 45 decided and right, 3
+    # undecided (D5 and D6: their cubic's double root splits at rounding level). At least 40 must be decided
+    # (Arnold 1972 for the expected types; the margin keeps this off the edge of any single decision).
+    decided = 0
+    for equation, names, label, mu, condition in GAUSSIAN_CASES:
+        for seed in (1, 2, 3):
+            system, point = gaussian_moved(equation, list(names), seed, condition)
+            h = point_anatomy(system, point, seed=seed).hypersurface
+            decided += h.type.label == label and h.milnor == mu
+    assert decided >= 40
+
+
+@pytest.mark.parametrize("seed", [1, 2, 3])
+@pytest.mark.parametrize("equation, label", [("y^2 - x^6", "A5"), ("y^2 - x^7", "A6")])
+def test_a_case_beyond_double_precision_is_reported_undecided(equation, label, seed):
+    # y^2 - x^7 after a change of condition 1e3 with units 10^-3..10^3: the x^7 term's coefficient sits at the
+    # rounding level of the Taylor expansion at the point (measured: its rounding level exceeds it), so no
+    # type can be read in double precision. Reported undecided (incomplete), never another type (the
+    # previous code said A9 or "not isolated"; decision 0044). The type, if given, must be the right one.
+    system, point = gaussian_moved(equation, ["x", "y"], seed, 1e3)
+    anatomy = point_anatomy(system, point, seed=seed)
+    h = anatomy.hypersurface
+    assert h.type.label == label or (h.type.family is Family.UNDECIDED and anatomy.incomplete)
+    if label == "A6":
+        assert h.type.family is Family.UNDECIDED and h.decided_by is TypeTest.BEYOND_PRECISION
+
+
 @pytest.mark.parametrize("seed", SEEDS)
 @pytest.mark.parametrize("equation, label, mu", SURFACE_FORMS, ids=[f[1] for f in SURFACE_FORMS])
 def test_simple_surface_types(equation, label, mu, seed):

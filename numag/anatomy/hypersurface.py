@@ -18,10 +18,11 @@ import numpy as np
 
 from ..numeric.evaluate import BatchEvaluator, TermSizes
 from ..numeric.linalg import singular_value_gap, widest_gap_rank
-from ..certify.rank import local_dual_dimension
+from ..certify.rank import local_dual_evidence
+from .frame import cubic_degeneracy, cubic_root_spread, kernel_cubic, local_frame
 from .records import Family, HessianEvidence, HypersurfaceAnatomy, SingularityType, TypeTest
 
-__all__ = ["hessian_evidence", "kernel_cubic", "hypersurface_anatomy", "HESSIAN_ZERO", "max_dual_order"]
+__all__ = ["hessian_evidence", "kernel_cubic", "hypersurface_anatomy", "anatomy_in_frame", "HESSIAN_ZERO", "max_dual_order"]
 
 #: Scaled Hessian singular values: zero ones at most 1e-7 (points good to about 13 digits), kept ones at
 #: least 1e-11 (in random coordinates the terms of f at the point cancel: a genuine value of 1e-8 is seen),
@@ -32,8 +33,22 @@ _CLEAR_DECADES = 3.0
 #: |covariant| / |cubic|^2 at or below this: the cubic is a cube (0 exactly for a cube, 1/9 or more
 #: after normalisation for a double root; rounding puts about 1e-12 on a cube).
 _CUBE = 1e-6
+#: Terms of f's Taylor expansion in the frame at most these times their term sizes are dropped as rounding:
+#: mu and tau are counted at both levels and must agree (about 450 and 4.5 units of rounding).
+_ROUNDING_LEVELS = (1e-13, 1e-15)
+#: The frame's rounding level (relative to its largest Taylor coefficient) below which an infinite mu is
+#: reported as a non-isolated singularity rather than undecided.
+_NOISE_FOR_INFINITE = 1e-8
+#: D4 is reported when the kernel cubic's unit root directions are at least this far apart (|det|) in the frame.
+_DISTINCT_ROOTS = 1e-2
 #: The cubic counts as vanishing when its coefficients are this small against the restricted f's.
 _CUBIC_ZERO = 1e-8
+
+
+def _real_at(polynomial, point):
+    """f has real coefficients and the point is real (the frame can be real)."""
+    return bool(np.all(np.asarray(polynomial.numeric_coefficients()).imag == 0)
+                and np.all(np.asarray(point, dtype=complex).imag == 0))
 
 
 def max_dual_order(n):
@@ -82,40 +97,23 @@ def hessian_evidence(polynomial, point):
     return evidence, right[rank:].conj().T, unclear
 
 
-def kernel_cubic(polynomial, point, kernel):
-    """The cubic term of f at the point along the kernel: coefficients of u^3, u^2 v, u v^2, v^3.
+def hypersurface_anatomy(polynomial, point):
+    """Corank, mu, tau and Arnold's type of f = 0 at a singular point (balanced units).
 
-    Returns
-    -------
-    cubic : ndarray, shape (4,)
-    size : float
-        The largest coefficient of f restricted to the kernel plane (the cubic's yardstick).
-    """
-    restricted = polynomial.numeric().substitute_linear(kernel, point)
-    cubic = np.zeros(4, dtype=complex)
-    for exponent, value in zip(restricted.exponents, restricted.numeric_coefficients()):
-        if exponent[0] + exponent[1] == 3:
-            cubic[int(exponent[1])] += value
-    size = float(np.max(np.abs(restricted.numeric_coefficients()), initial=0.0))
-    return cubic, size
-
-
-def cubic_degeneracy(cubic):
-    """|Hessian covariant| / |cubic|^2 of a binary cubic: 0 exactly when it is the cube of a linear form.
+    See :func:`anatomy_in_frame`, which also returns the local frame.
 
     Examples
     --------
-    >>> round(cubic_degeneracy(np.array([1, 0, 0, 0])), 12)    # u^3
-    0.0
-    >>> cubic_degeneracy(np.array([0, 1, 0, 0])) > 0.1        # u^2 v (a double root)
-    True
+    >>> from numag.system.parse import parse_system
+    >>> f = parse_system(["x^3 + y^4"], ["x", "y"]).polynomials[0]
+    >>> result = hypersurface_anatomy(f, [0, 0])
+    >>> result.type.label, result.milnor, result.tjurina, result.decided_by.name
+    ('E6', 6, 6, 'CUBIC_TRIPLE_ROOT')
     """
-    a, b, c, d = cubic
-    covariant = np.array([3 * a * c - b * b, 9 * a * d - b * c, 3 * b * d - c * c])
-    return float(np.linalg.norm(covariant) / np.linalg.norm(cubic) ** 2)
+    return anatomy_in_frame(polynomial, point)[0]
 
 
-def hypersurface_anatomy(polynomial, point):
+def anatomy_in_frame(polynomial, point):
     """Corank, mu, tau and Arnold's type of f = 0 at a singular point (balanced units).
 
     Parameters
@@ -126,45 +124,76 @@ def hypersurface_anatomy(polynomial, point):
     Returns
     -------
     HypersurfaceAnatomy
+    LocalFrame
+        The frame the invariants were computed in (the local picture uses it too).
 
     Examples
     --------
     >>> from numag.system.parse import parse_system
     >>> f = parse_system(["x^3 + y^4"], ["x", "y"]).polynomials[0]
-    >>> result = hypersurface_anatomy(f, [0, 0])
-    >>> result.type.label, result.milnor, result.tjurina, result.decided_by.name
-    ('E6', 6, 6, 'CUBIC_TRIPLE_ROOT')
+    >>> result, frame = anatomy_in_frame(f, [0, 0])
+    >>> result.type.label, frame.polynomial.n_variables
+    ('E6', 2)
     """
     point = np.asarray(point, dtype=complex)
     n = polynomial.n_variables
     evidence, kernel, unclear = hessian_evidence(polynomial, point)
     corank = n - evidence.rank
-    # f and grad f vanish at the point; their rounding-size values there are removed, so that the
-    # point is an exact zero of the ideals whose local dual spaces are counted
-    vanishing = [q.numeric() - complex(q.numeric().evaluate(point)) for q in [polynomial] + polynomial.gradient()]
-    order = max_dual_order(n)
-    mu = local_dual_dimension(vanishing[1:], point, order)
-    tau = local_dual_dimension(vanishing, point, order)
+    # mu, tau and the kernel cubic in the local frame (invariant under the linear change, and in units of
+    # the singularity's own scale); u = 0 is an exact zero of g and its gradient there. Twice: with the
+    # terms near rounding level dropped and kept; a count that differs rests on rounding (out of reach).
+    real = _real_at(polynomial, point)
+    counts = []
+    for level in _ROUNDING_LEVELS:
+        frame = local_frame(polynomial, point, evidence.rank, real=real, rounding_level=level)
+        g = frame.polynomial
+        origin = np.zeros(n, dtype=complex)
+        gradient = [q.numeric() for q in g.gradient()]
+        mu, mu_width = local_dual_evidence(gradient, origin, max_dual_order(n))
+        tau, tau_width = local_dual_evidence([g] + gradient, origin, max_dual_order(n))
+        counts.append((mu, tau, min(mu_width, tau_width)))
+        if level == _ROUNDING_LEVELS[0]:
+            primary = frame
+    frame = primary
+    g = frame.polynomial
+    mu, tau, width = counts[0]
+    stable = all(c[:2] == (mu, tau) for c in counts)
+    width = min(c[2] for c in counts)
     quasi = None if mu is None or tau is None else mu == tau
     degeneracy = None
 
     def result(family, index, test):
         return HypersurfaceAnatomy(corank, evidence, mu, tau, quasi, SingularityType(family, index), test,
-                                   degeneracy)
+                                   degeneracy, frame.condition, frame.noise_up_to((mu or 0) + 1)), frame
 
     if unclear:
         return result(Family.UNDECIDED, None, TypeTest.UNCLEAR_RANK)
+    if not stable:
+        return result(Family.UNDECIDED, None, TypeTest.BEYOND_PRECISION)
+    if width < _CLEAR_DECADES:
+        # a Macaulay matrix without a clear gap: its count, and "infinite", cannot be trusted
+        return result(Family.UNDECIDED, None, TypeTest.UNCLEAR_DUAL)
     if mu is None:
+        # an infinite count is also what a genuine term dropped as rounding leaves behind (y^2 - x^7 after a
+        # change of condition 1e3): claimed only when the frame's rounding level is far below every term
+        if frame.noise > _NOISE_FOR_INFINITE:
+            return result(Family.UNDECIDED, None, TypeTest.BEYOND_PRECISION)
         return result(Family.NOT_ISOLATED, None, TypeTest.MILNOR_INFINITE)
     if mu < 2 ** corank:  # the Milnor number of a corank-c point is at least 2^c
         return result(Family.UNDECIDED, None, TypeTest.INCONSISTENT)
     if corank == 0:
         return result(Family.A, 1, TypeTest.HESSIAN_FULL_RANK)
     if corank == 1:
+        # f ~ Q(u - r(v)) + phi(v) with ord phi = mu + 1 and ord Q(r(v)) >= 4: the restriction to the kernel
+        # axis has order at most mu + 1 unless two leading terms cancel. None at all: a genuine kernel term
+        # was dropped as rounding (y^2 - x^6 after a change of condition 1e3 read as A9), out of reach.
+        pure = [int(e[-1]) for e, c in zip(g.exponents, g.numeric_coefficients()) if not np.any(e[:-1]) and c != 0]
+        if not pure or min(pure) > mu + 1:
+            return result(Family.UNDECIDED, None, TypeTest.BEYOND_PRECISION)
         return result(Family.A, mu, TypeTest.CORANK_ONE)
     if corank >= 3:
         return result(Family.NOT_SIMPLE, None, TypeTest.CORANK_THREE_OR_MORE)
-    cubic, size = kernel_cubic(polynomial, point, kernel)
+    cubic, size = kernel_cubic(g, origin, np.eye(n)[:, evidence.rank:])
     if np.linalg.norm(cubic) <= _CUBIC_ZERO * max(size, 1e-300):
         return result(Family.NOT_SIMPLE, None, TypeTest.CUBIC_VANISHES)
     degeneracy = cubic_degeneracy(cubic)
@@ -175,5 +204,9 @@ def hypersurface_anatomy(polynomial, point):
             return result(Family.NOT_SIMPLE, None, TypeTest.CUBIC_TRIPLE_ROOT_LARGE_MU)
         return result(Family.UNDECIDED, None, TypeTest.INCONSISTENT)
     if mu == 4:
+        # three distinct roots must be seen as such: a double root split by rounding (D6 after a change of
+        # condition 1e3) also gives three roots and a small count; in the frame D4's roots are far apart
+        if cubic_root_spread(cubic) < _DISTINCT_ROOTS:
+            return result(Family.UNDECIDED, None, TypeTest.CUBIC_ROOTS_CLOSE)
         return result(Family.D, 4, TypeTest.CUBIC_THREE_ROOTS)
     return result(Family.D, mu, TypeTest.CUBIC_DOUBLE_ROOT)

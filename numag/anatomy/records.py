@@ -49,6 +49,11 @@ class TypeTest(Enum):
     MILNOR_INFINITE = "the gradient's local dual space keeps growing: not an isolated singularity"
     INCONSISTENT = "corank and Milnor number disagree (mu < 2^corank): undecided"
     UNCLEAR_RANK = "the Hessian's singular values show no clear gap: undecided"
+    UNCLEAR_DUAL = "a Macaulay matrix of the local dual space shows no clear gap: mu or tau undecided"
+    BEYOND_PRECISION = ("mu or tau changes when the Taylor terms at rounding level are dropped or kept: out of "
+                        "reach of double precision in these coordinates, undecided")
+    CUBIC_ROOTS_CLOSE = "mu is 4 but two roots of the kernel cubic nearly coincide: D4 not confirmed, undecided"
+    BRANCHES_DISAGREE = "the local branches contradict the type found from corank and mu: undecided"
 
 
 class Motion(Enum):
@@ -178,6 +183,11 @@ class HypersurfaceAnatomy:
     cubic_degeneracy : float or None
         Corank 2 only: |Hessian covariant of the kernel cubic| / |cubic|^2, 0 for a cube, 1 for three
         distinct roots in the normal form; the test uses it together with mu.
+    frame_condition : float or None
+        Condition number of the local frame the invariants were computed in (x = p + M u, decision 0044).
+    frame_noise : float or None
+        The rounding level of f's Taylor coefficients in the frame, relative to the largest: above about
+        1e-8 the features that decide the type are out of reach of double precision (type undecided).
     """
 
     corank: int
@@ -188,19 +198,24 @@ class HypersurfaceAnatomy:
     type: SingularityType
     decided_by: TypeTest
     cubic_degeneracy: object = None
+    frame_condition: object = None
+    frame_noise: object = None
 
     def to_dict(self):
         return {"corank": self.corank, "hessian": self.hessian.to_dict(), "milnor": self.milnor,
                 "tjurina": self.tjurina, "quasi_homogeneous": self.quasi_homogeneous, "type": self.type.to_dict(),
                 "decided_by": self.decided_by.name, "decided_by_text": self.decided_by.value,
-                "cubic_degeneracy": _optional(self.cubic_degeneracy, float)}
+                "cubic_degeneracy": _optional(self.cubic_degeneracy, float),
+                "frame_condition": _optional(self.frame_condition, float),
+                "frame_noise": _optional(self.frame_noise, float)}
 
     @classmethod
     def from_dict(cls, data):
         return cls(int(data["corank"]), HessianEvidence.from_dict(data["hessian"]), _optional(data["milnor"], int),
                    _optional(data["tjurina"], int), _optional(data["quasi_homogeneous"], bool),
                    SingularityType.from_dict(data["type"]), TypeTest[data["decided_by"]],
-                   _optional(data["cubic_degeneracy"], float))
+                   _optional(data["cubic_degeneracy"], float), _optional(data.get("frame_condition"), float),
+                   _optional(data.get("frame_noise"), float))
 
 
 @dataclass

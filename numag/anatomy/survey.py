@@ -14,6 +14,7 @@ Examples
 'two real branches cross transversally: the mechanism can switch branch here'
 """
 
+import dataclasses
 import itertools
 import time
 from dataclasses import dataclass, field
@@ -25,13 +26,15 @@ from ..system.polynomial import PolynomialSystem, determinant
 from ..numeric.scaling import Scaling
 from ..numeric.seeds import random_state
 from ..witness.decompose import decompose
-from .hypersurface import hessian_evidence, hypersurface_anatomy
+from .hypersurface import anatomy_in_frame, hessian_evidence
 from .local import LocalOptions, LocalPicture, hypersurface_witness, local_picture, orbit_tangent
-from .records import Branch, ComponentAnatomy, Motion, PointAnatomy
+from .records import Branch, ComponentAnatomy, Family, Motion, PointAnatomy, SingularityType, TypeTest
 
 __all__ = ["AnatomyOptions", "LocusAnatomy", "point_anatomy", "component_anatomy", "locus_anatomy",
            "check_anatomy"]
 
+#: Radius of the local slices in a local frame (units of the singularity's own scale).
+_FRAME_RADIUS = 1e-2
 #: Imaginary parts below this (relative to 1 + |x|) make a point real.
 _REAL = 1e-8
 
@@ -131,14 +134,16 @@ def _motion(real_point, branches):
     return Motion.LOCKED
 
 
-def _picture_anatomy(picture, scaling, computed_point, user_point, local_dimension, angles, real):
-    """PointAnatomy fields from a local picture (multiplicity, branches, motion)."""
+def _picture_anatomy(picture, scaling, computed_point, user_point, local_dimension, angles, real, frame=None):
+    """PointAnatomy fields from a local picture (multiplicity, branches, motion); with a local ``frame`` the
+    picture is in its coordinates u (x = p + M u) and tangents are mapped through M."""
     anatomy = PointAnatomy(np.asarray(user_point, dtype=complex), local_dimension, picture.multiplicity,
                            notes=list(picture.notes))
     if picture.orbits is not None:
         branches = []
         for k, orbit in enumerate(picture.orbits):
-            tangent = _to_user_direction(scaling, orbit_tangent(picture, orbit, computed_point))
+            tangent = orbit_tangent(picture, orbit, computed_point)
+            tangent = _to_user_direction(scaling, tangent if frame is None else frame.to_ambient(tangent))
             is_real = bool(picture.real_orbits[k]) if picture.real_orbits is not None else False
             rates = _angle_rates(anatomy.point, tangent, angles) if (angles and is_real) else {}
             branches.append(Branch(len(orbit), tangent, is_real, rates))
@@ -193,13 +198,52 @@ def point_anatomy(system, point, seed=None, decomposition=None, angles=None, loc
 
 def _hypersurface_point(polynomial, computed, user_point, scaling, rng, real, angles, options):
     n = polynomial.n_variables
-    points, rows = hypersurface_witness(polynomial, rng)
-    picture = local_picture([polynomial], 1, computed, points, rows, rng, real=real, options=options.local)
-    anatomy = _picture_anatomy(picture, scaling, computed, user_point, n - 1, angles, real)
-    anatomy.hypersurface = hypersurface_anatomy(polynomial, computed)
+    # the local witness set in the local frame too: its radius is then in units of the singularity's own
+    # scale (in the computed units a change of condition 1e3 put it outside the cusp of A4: two branches)
+    hypersurface, frame = anatomy_in_frame(polynomial, computed)
+    local = frame.polynomial
+    origin = np.zeros(n, dtype=complex)
+    points, rows = hypersurface_witness(local, rng)
+    # in the frame the singularity's terms have size one: a radius of 1e-2 stays in the asymptotic regime (the
+    # shrink check tests it) and keeps the points of a high branch apart (A6: 2 eps^3.5, 6e-11 at eps = 1e-3)
+    in_frame = dataclasses.replace(options.local, radius=max(options.local.radius, _FRAME_RADIUS))
+    picture = local_picture([local], 1, origin, points, rows, rng, real=real, options=in_frame)
+    anatomy = _picture_anatomy(picture, scaling, origin, user_point, n - 1, angles, real, frame)
+    anatomy.hypersurface = hypersurface
+    expected = _plane_branches(anatomy.hypersurface.type) if n == 2 else None
+    if expected is not None and anatomy.branches is not None:
+        found = sorted(b.multiplicity for b in anatomy.branches)
+        if found != expected:
+            # two independent computations (the frame's dual spaces, the local monodromy) disagree: neither
+            # is reported as the type
+            anatomy.notes.append(f"the type {anatomy.hypersurface.type.label} has branches of multiplicities "
+                                 f"{expected}, the local monodromy found {found}: type undecided")
+            anatomy.hypersurface.type = SingularityType(Family.UNDECIDED, None)
+            anatomy.hypersurface.decided_by = TypeTest.BRANCHES_DISAGREE
     if anatomy.hypersurface.corank == 0 and anatomy.multiplicity not in (None, 2):
         anatomy.notes.append(f"a Morse point has multiplicity 2, the local witness set counted {anatomy.multiplicity}")
     return anatomy
+
+
+def _plane_branches(kind):
+    """Multiplicities of the local branches of a simple plane curve singularity (sorted), None otherwise.
+
+    From the normal forms (Arnold 1972): y^2 = x^(k+1) has two smooth branches for odd k, one cusp-like
+    branch of multiplicity 2 for even k; x^2 y + y^(k-1) a smooth branch y = 0 and the branches of
+    x^2 + y^(k-2); E6 and E8 one branch of multiplicity 3; E7 = x (x^2 + y^3) a line and a cusp.
+
+    Examples
+    --------
+    >>> _plane_branches(SingularityType(Family.D, 5)), _plane_branches(SingularityType(Family.E, 7))
+    ([1, 2], [1, 2])
+    """
+    if kind.family is Family.A:
+        return [1, 1] if kind.index % 2 else [2]
+    if kind.family is Family.D:
+        return [1, 1, 1] if kind.index % 2 == 0 else [1, 2]
+    if kind.family is Family.E:
+        return [1, 2] if kind.index == 7 else [3]
+    return None
 
 
 def _system_point(system, polynomials, computed, user_point, scaling, rng, real, angles, seed, decomposition,

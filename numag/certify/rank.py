@@ -40,7 +40,7 @@ def _taylor(polynomial, center, scales):
     return result
 
 
-def _dual_multiplicity(polynomials, center, max_order=12, max_columns=4000, scales=None, by_gap=False):
+def _dual_multiplicity(polynomials, center, max_order=12, max_columns=4000, scales=None, by_gap=False, widths=None):
     """Multiplicity of an isolated zero: dimension of the local dual space (Macaulay matrices).
 
     Dayton and Zeng, "Computing the multiplicity structure in solving polynomial systems", ISSAC 2005:
@@ -82,7 +82,9 @@ def _dual_multiplicity(polynomials, center, max_order=12, max_columns=4000, scal
         if by_gap:
             # absolute values: each polynomial's row is divided by its largest Taylor coefficient, and at a
             # point where every low-order coefficient vanishes the largest singular value is noise itself
-            rank = widest_gap_rank(values, _GAP_ZERO, _GAP_KEPT)[0] if len(values) else 0
+            rank, width = widest_gap_rank(values, _GAP_ZERO, _GAP_KEPT) if len(values) else (0, float("inf"))
+            if widths is not None:
+                widths.append(width)
         else:
             rank = int(np.sum(values > 1e-8 * (values[0] if len(values) else 1.0)))
         nullity = len(columns) - rank
@@ -124,8 +126,32 @@ def local_dual_dimension(polynomials, point, max_order=12):
     >>> local_dual_dimension(f.gradient(), [0, 0])
     2
     """
+    return local_dual_evidence(polynomials, point, max_order)[0]
+
+
+def local_dual_evidence(polynomials, point, max_order=12):
+    """:func:`local_dual_dimension` and the narrowest of the rank gaps it rests on (in decades).
+
+    Returns
+    -------
+    dimension : int or None
+    width : float
+        The narrowest widest-gap width over the orders tried (inf when no order had a zero value to tell
+        apart); below about 3 decades a count is not to be trusted.
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> f = parse_system(["y^2 - x^3"], ["x", "y"]).polynomials[0]
+    >>> dimension, width = local_dual_evidence(f.gradient(), [0, 0])
+    >>> dimension, width > 3
+    (2, True)
+    """
     center = [mpmath.mp.mpc(complex(v)) for v in point]
-    return _dual_multiplicity(list(polynomials), center, max_order=max_order, scales=[1] * len(center), by_gap=True)
+    widths = []
+    dimension = _dual_multiplicity(list(polynomials), center, max_order=max_order, scales=[1] * len(center),
+                                   by_gap=True, widths=widths)
+    return dimension, min(widths, default=float("inf"))
 
 
 def _exponents_of_degree(n, total):
