@@ -70,7 +70,8 @@ def test_linkage_picture_on_the_torus_of_joint_angles(tmp_path, linkage_report, 
     # marked points: the report's singular points, as crank and rocker angles (atan2 of sine and cosine)
     expected = sorted((math.degrees(math.atan2(p[1], p[0])), math.degrees(math.atan2(p[3], p[2])))
                       for p in report_points(linkage_report))
-    assert sorted(m.coordinates for m in result.marked) == pytest.approx(expected, abs=1e-9)
+    found = sorted(m.coordinates for m in result.marked)
+    assert np.allclose(np.array(found), np.array(expected), rtol=0, atol=1e-9) and len(found) == len(expected)
     # branch directions: the tangent cone of g(a, b) = (4 + cos b - cos a)^2 + (sin b - sin a)^2 - 16 at the
     # branch points; its Hessian is [[10, -2], [-2, -6]] at (0, 0) and [[-6, -2], [-2, 10]] at (180, 180)
     # (worked out with sympy's hessian), slopes db/da of 1 and -5/3, and of 1 and -3/5
