@@ -45,12 +45,13 @@ from scipy.optimize import linprog
 
 from ..errors import InputError
 from ..numeric.evaluate import BatchEvaluator, TermSizes
+from ..numeric.feasibility import feasible as simplex_feasible
 from ..system.polynomial import Polynomial
 from .homotopy import _PatchedHomotopy
 from .service import PathCounts, track
 from .tracker import PathStatus
 
-__all__ = ["MixedCell", "ZeroCoordinates", "supports_of", "zero_coordinates_possible", "mixed_cells",
+__all__ = ["MixedCell", "ZeroCoordinates", "LinearProgramSolver", "supports_of", "zero_coordinates_possible", "mixed_cells",
            "mixed_volume", "smith_normal_form", "binomial_solutions", "PolyhedralStart", "CellHomotopy",
            "term_evaluator", "track_cells"]
 
@@ -63,6 +64,13 @@ class ZeroCoordinates(enum.Enum):
 
     EXCLUDED = "excluded: for every variable an equation is a nonzero constant where it vanishes"
     ORIGIN_ADDED = "the origin was added to every support (roots in C^n, Li and Wang 1996)"
+
+
+class LinearProgramSolver(enum.Enum):
+    """Who decides the feasibility of the cell search's linear programs."""
+
+    SIMPLEX = "numag's dense simplex (numag.numeric.feasibility)"
+    HIGHS = "scipy's linprog with HiGHS (the reference: about 3 ms a call)"
 
 
 @dataclass(frozen=True)
@@ -127,8 +135,9 @@ def _lower_edge_rows(support, lifting, a, b, n):
 class _Feasibility:
     """Feasibility of sets of lower-edge constraints, with a count of the linear programs solved."""
 
-    def __init__(self, n):
+    def __init__(self, n, solver=LinearProgramSolver.SIMPLEX):
         self.n = n
+        self.solver = solver
         self.solved = 0
 
     def __call__(self, rows):
@@ -141,6 +150,10 @@ class _Feasibility:
         uppers = [r[2] for r in rows if len(r[2])]
         a_ub = np.vstack(uppers) if uppers else None
         b_ub = np.concatenate([r[3] for r in rows if len(r[2])]) if uppers else None
+        if self.solver == LinearProgramSolver.SIMPLEX:
+            if a_ub is None:
+                a_ub, b_ub = np.zeros((0, self.n)), np.zeros(0)
+            return simplex_feasible(a_eq, b_eq, a_ub, b_ub)
         result = linprog(np.zeros(self.n), A_ub=a_ub, b_ub=b_ub, A_eq=a_eq, b_eq=b_eq, bounds=(None, None),
                          method="highs")
         return result.status == 0
@@ -160,7 +173,7 @@ def _cell_normal(rows, slack=1e-9):
     return normal
 
 
-def mixed_cells(supports, liftings):
+def mixed_cells(supports, liftings, solver=LinearProgramSolver.SIMPLEX):
     """The mixed cells of a lifting, depth first with linear-program pruning.
 
     Parameters
@@ -169,6 +182,8 @@ def mixed_cells(supports, liftings):
         n supports in Z^n (each with at least two points, else there is no cell).
     liftings : list of ndarray of float, shape (terms_i,)
         Generic (random) lifting values.
+    solver : LinearProgramSolver
+        The feasibility test (the default is the fast one; HIGHS is the reference).
 
     Returns
     -------
@@ -178,7 +193,7 @@ def mixed_cells(supports, liftings):
     n = len(supports)
     if any(s.shape[1] != n for s in supports):
         raise InputError("a mixed volume needs n supports in n variables")
-    feasible = _Feasibility(n)
+    feasible = _Feasibility(n, solver)
     # the edges of each lifted support alone that are lower edges: the only candidates in a cell
     candidates = []
     for support, lifting in zip(supports, liftings):
