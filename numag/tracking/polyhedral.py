@@ -45,7 +45,7 @@ from scipy.optimize import linprog
 
 from ..errors import InputError
 from ..numeric.evaluate import BatchEvaluator, TermSizes
-from ..numeric.feasibility import feasible as simplex_feasible
+from ..numeric.feasibility import feasible_batch
 from ..system.polynomial import Polynomial
 from .homotopy import _PatchedHomotopy
 from .service import PathCounts, track
@@ -122,59 +122,83 @@ def zero_coordinates_possible(polynomials):
     return False
 
 
-def _lower_edge_rows(support, lifting, a, b, n):
-    """Constraints on alpha making {a, b} the lowest pair of one lifted support: (A_eq, b_eq, A_ub, b_ub)."""
-    others = np.array([c for c in range(len(support)) if c != a and c != b], dtype=np.int64)
-    equality = (support[b] - support[a])[None, :].astype(float)
-    equality_rhs = np.array([lifting[a] - lifting[b]])
-    upper = -(support[others] - support[a]).astype(float).reshape(len(others), n)
-    upper_rhs = lifting[others] - lifting[a]
-    return equality, equality_rhs, upper, upper_rhs
+@dataclass
+class _EdgeRows:
+    """Pairs {a, b} of one lifted support and the constraints on alpha making each the lowest pair.
+
+    Every pair has one equality <b - a, alpha> = w(a) - w(b) and ``width`` inequalities
+    <c - a, alpha> >= w(a) - w(c) for the other points c, padded with 0 <= 1 so that the programs
+    of all supports stack into one array.
+    """
+
+    pairs: list
+    equalities: np.ndarray  # (pairs, 1, n)
+    equality_rhs: np.ndarray  # (pairs, 1)
+    inequalities: np.ndarray  # (pairs, width, n)
+    inequality_rhs: np.ndarray  # (pairs, width)
+
+    @classmethod
+    def of(cls, support, lifting, width):
+        terms, n = support.shape
+        pairs = [(a, b) for a in range(terms) for b in range(a + 1, terms)]
+        equalities = np.empty((len(pairs), 1, n))
+        equality_rhs = np.empty((len(pairs), 1))
+        inequalities = np.zeros((len(pairs), width, n))
+        inequality_rhs = np.ones((len(pairs), width))
+        for k, (a, b) in enumerate(pairs):
+            others = [c for c in range(terms) if c != a and c != b]
+            equalities[k, 0] = support[b] - support[a]
+            equality_rhs[k, 0] = lifting[a] - lifting[b]
+            inequalities[k, :len(others)] = -(support[others] - support[a])
+            inequality_rhs[k, :len(others)] = lifting[others] - lifting[a]
+        return cls(pairs, equalities, equality_rhs, inequalities, inequality_rhs)
+
+    def take(self, rows):
+        """The pairs numbered ``rows`` only."""
+        return _EdgeRows([self.pairs[r] for r in rows], self.equalities[rows], self.equality_rhs[rows],
+                         self.inequalities[rows], self.inequality_rhs[rows])
 
 
 class _Feasibility:
-    """Feasibility of sets of lower-edge constraints, with a count of the linear programs solved."""
+    """Feasibility of stacks of linear programs, with a count of the programs solved.
 
-    def __init__(self, n, solver=LinearProgramSolver.SIMPLEX):
-        self.n = n
+    Parameters
+    ----------
+    solver : LinearProgramSolver
+    chunk : int
+        Programs per call of the batched simplex (bounds its memory).
+    """
+
+    def __init__(self, solver=LinearProgramSolver.SIMPLEX, chunk=2048):
         self.solver = solver
+        self.chunk = chunk
         self.solved = 0
 
-    def __call__(self, rows):
-        self.solved += 1
+    def __call__(self, equalities, equality_rhs, inequalities, inequality_rhs):
+        """Feasible or not, for each program of the stacks (shapes as in ``feasible_batch``)."""
+        count = len(equalities)
+        self.solved += count
         if self.solved > MAX_LINEAR_PROGRAMS:
             raise InputError(f"the mixed-cell enumeration needed more than {MAX_LINEAR_PROGRAMS:,} linear programs; "
                              "use another start")
-        a_eq = np.vstack([r[0] for r in rows])
-        b_eq = np.concatenate([r[1] for r in rows])
-        uppers = [r[2] for r in rows if len(r[2])]
-        a_ub = np.vstack(uppers) if uppers else None
-        b_ub = np.concatenate([r[3] for r in rows if len(r[2])]) if uppers else None
         if self.solver == LinearProgramSolver.SIMPLEX:
-            if a_ub is None:
-                a_ub, b_ub = np.zeros((0, self.n)), np.zeros(0)
-            return simplex_feasible(a_eq, b_eq, a_ub, b_ub)
-        result = linprog(np.zeros(self.n), A_ub=a_ub, b_ub=b_ub, A_eq=a_eq, b_eq=b_eq, bounds=(None, None),
-                         method="highs")
-        return result.status == 0
-
-
-def _cell_normal(rows, slack=1e-9):
-    """The normal fixed by n edge equations if it satisfies every inequality (else None)."""
-    matrix = np.vstack([r[0] for r in rows])
-    rhs = np.concatenate([r[1] for r in rows])
-    try:
-        normal = np.linalg.solve(matrix, rhs)
-    except np.linalg.LinAlgError:  # parallel edges: a cell of volume 0
-        return None
-    for _, _, upper, upper_rhs in rows:
-        if len(upper) and np.any(upper @ normal > upper_rhs + slack * (1 + np.abs(upper_rhs))):
-            return None
-    return normal
+            return np.concatenate([np.zeros(0, dtype=bool)] + [
+                feasible_batch(equalities[k:k + self.chunk], equality_rhs[k:k + self.chunk],
+                               inequalities[k:k + self.chunk], inequality_rhs[k:k + self.chunk])
+                for k in range(0, count, self.chunk)])
+        n = equalities.shape[2]
+        return np.array([linprog(np.zeros(n), A_ub=inequalities[k], b_ub=inequality_rhs[k], A_eq=equalities[k],
+                                 b_eq=equality_rhs[k], bounds=(None, None), method="highs").status == 0
+                         for k in range(count)], dtype=bool)
 
 
 def mixed_cells(supports, liftings, solver=LinearProgramSolver.SIMPLEX):
     """The mixed cells of a lifting, depth first with linear-program pruning.
+
+    Candidate edges of each support are its lower edges alone; a relation table says which
+    candidate edges of two supports can lie in one cell (filled a row at a time, when the search
+    first needs it); from the third support on, the programs of all children of a node are solved
+    as one stack (at the last support the normal is fixed and the program is a check of signs).
 
     Parameters
     ----------
@@ -189,36 +213,52 @@ def mixed_cells(supports, liftings, solver=LinearProgramSolver.SIMPLEX):
     -------
     (list of MixedCell, int)
         The cells and the number of linear programs solved.
+
+    Examples
+    --------
+    >>> import numpy as np
+    >>> triangle = np.array([[0, 0], [1, 0], [0, 1]])
+    >>> cells, _ = mixed_cells([triangle, 2 * triangle], [np.array([0.3, 0.1, 0.7]), np.array([0.5, 0.2, 0.4])])
+    >>> sum(cell.volume for cell in cells)   # a line meets a conic twice
+    2
     """
     n = len(supports)
     if any(s.shape[1] != n for s in supports):
         raise InputError("a mixed volume needs n supports in n variables")
-    feasible = _Feasibility(n, solver)
+    feasible = _Feasibility(solver)
+    width = max(len(s) for s in supports) - 2
     # the edges of each lifted support alone that are lower edges: the only candidates in a cell
     candidates = []
     for support, lifting in zip(supports, liftings):
-        edges = []
-        for a in range(len(support)):
-            for b in range(a + 1, len(support)):
-                rows = _lower_edge_rows(support, lifting, a, b, n)
-                if feasible([rows]):
-                    edges.append((a, b, rows))
-        candidates.append(edges)
-    order = sorted(range(n), key=lambda i: len(candidates[i]))  # few candidates first: a narrow tree
+        rows = _EdgeRows.of(support, lifting, width)
+        lower = feasible(rows.equalities, rows.equality_rhs, rows.inequalities, rows.inequality_rhs)
+        candidates.append(rows.take(np.nonzero(lower)[0]))
+    order = sorted(range(n), key=lambda i: len(candidates[i].pairs))  # few candidates first: a narrow tree
     candidates = [candidates[i] for i in order]
     # the relation table: which edges of two supports can lie in one cell (a cheap filter before each
-    # linear program of the search; most of the pruning happens here), filled only where the search asks
-    related = {}
+    # linear program of the search); the row of edge e of support p against every later support is
+    # solved as one stack when the search first reaches e
+    table = {}
 
-    def compatible(p, e, q, f):
-        key = (p, e, q, f)
-        if key not in related:
-            related[key] = feasible([candidates[p][e][2], candidates[q][f][2]])
-        return related[key]
+    def related(p, e):
+        if (p, e) not in table:
+            later = range(p + 1, n)
+            sizes = [len(candidates[q].pairs) for q in later]
+
+            def paired(field, q):
+                own = getattr(candidates[p], field)[e]
+                return np.concatenate([np.broadcast_to(own, (sizes[q - p - 1],) + own.shape),
+                                       getattr(candidates[q], field)], axis=1)
+
+            stacks = [np.concatenate([paired(field, q) for q in later]) for field in
+                      ("equalities", "equality_rhs", "inequalities", "inequality_rhs")]
+            answers = feasible(*stacks) if sum(sizes) else np.zeros(0, dtype=bool)
+            table[(p, e)] = dict(zip(later, np.split(answers, np.cumsum(sizes)[:-1])))
+        return table[(p, e)]
 
     cells = []
 
-    def extend(depth, chosen, rows, allowed):
+    def extend(depth, chosen, stacks, allowed):
         if depth == n:
             pairs = [None] * n
             for i, (a, b) in zip(order, chosen):
@@ -231,28 +271,33 @@ def mixed_cells(supports, liftings, solver=LinearProgramSolver.SIMPLEX):
             normal = np.linalg.solve(matrix.astype(float), rhs)
             cells.append(MixedCell(tuple(pairs), normal, int(volume)))
             return
-        for e in np.nonzero(allowed[depth])[0]:
-            a, b, edge_rows = candidates[depth][e]
-            together = rows + [edge_rows]
-            if depth == n - 1 and depth >= 2:
-                # the last edge fixes the normal: solve for it and test the inequalities, no linear program
-                if _cell_normal(together) is not None:
-                    extend(depth + 1, chosen + [(a, b)], together, allowed)
-                continue
-            # two edges were checked by the table; from three on a linear program decides
-            if depth >= 2 and not feasible(together):
-                continue
+        edges = candidates[depth]
+        children = np.nonzero(allowed[depth])[0]
+        if depth >= 2:
+            # two edges were checked by the table; from three on, one stack of programs for all children
+            count = len(children)
+            together = [np.concatenate([np.broadcast_to(parent, (count,) + parent.shape),
+                                        getattr(edges, field)[children]], axis=1)
+                        for parent, field in zip(stacks, ("equalities", "equality_rhs", "inequalities",
+                                                          "inequality_rhs"))]
+            children = children[feasible(*together)]
+        for e in children:
+            rows = [np.concatenate([parent, getattr(edges, field)[e]])
+                    for parent, field in zip(stacks, ("equalities", "equality_rhs", "inequalities", "inequality_rhs"))]
             narrowed = list(allowed)
-            for later in range(depth + 1, n):
-                narrowed[later] = allowed[later].copy()
-                for f in np.nonzero(allowed[later])[0]:
-                    narrowed[later][f] = compatible(depth, e, later, f)
-                if not narrowed[later].any():  # no edge of a later support fits: no cell below this one
-                    break
+            if depth + 1 < n:
+                table_row = related(depth, e)
+                for later in range(depth + 1, n):
+                    narrowed[later] = allowed[later] & table_row[later]
+                    if not narrowed[later].any():  # no edge of a later support fits: no cell below this one
+                        break
+                else:
+                    extend(depth + 1, chosen + [edges.pairs[e]], rows, narrowed)
             else:
-                extend(depth + 1, chosen + [(a, b)], together, narrowed)
+                extend(depth + 1, chosen + [edges.pairs[e]], rows, narrowed)
 
-    extend(0, [], [], [np.ones(len(c), dtype=bool) for c in candidates])
+    empty = [np.zeros((0, n)), np.zeros(0), np.zeros((0, n)), np.zeros(0)]
+    extend(0, [], empty, [np.ones(len(c.pairs), dtype=bool) for c in candidates])
     return cells, feasible.solved
 
 
