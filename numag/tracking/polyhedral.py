@@ -235,69 +235,70 @@ def mixed_cells(supports, liftings, solver=LinearProgramSolver.SIMPLEX):
         candidates.append(rows.take(np.nonzero(lower)[0]))
     order = sorted(range(n), key=lambda i: len(candidates[i].pairs))  # few candidates first: a narrow tree
     candidates = [candidates[i] for i in order]
+    fields = ("equalities", "equality_rhs", "inequalities", "inequality_rhs")
     # the relation table: which edges of two supports can lie in one cell (a cheap filter before each
-    # linear program of the search); the row of edge e of support p against every later support is
-    # solved as one stack when the search first reaches e
-    table = {}
+    # linear program of the search): table[p][q] (edges of p, edges of q), its rows solved when the
+    # search first reaches an edge of p, all new rows of one level as one stack
+    table = [{q: np.zeros((len(candidates[p].pairs), len(candidates[q].pairs)), dtype=bool) for q in range(p + 1, n)}
+             for p in range(n)]
+    known = [np.zeros(len(c.pairs), dtype=bool) for c in candidates]
 
-    def related(p, e):
-        if (p, e) not in table:
-            later = range(p + 1, n)
-            sizes = [len(candidates[q].pairs) for q in later]
+    def fill_table(p, edges):
+        new = edges[~known[p][edges]]
+        if not len(new) or p + 1 == n:
+            return
+        first, second = [], []
+        for q in range(p + 1, n):
+            grid_e, grid_f = np.meshgrid(new, np.arange(len(candidates[q].pairs)), indexing="ij")
+            first.append(grid_e.ravel())
+            second.append((q, grid_f.ravel()))
+        stacks = [np.concatenate([np.concatenate([getattr(candidates[p], field)[e], getattr(candidates[q], field)[f]],
+                                                 axis=1) for e, (q, f) in zip(first, second)])
+                  for field in fields]
+        answers = feasible(*stacks)
+        start = 0
+        for e, (q, f) in zip(first, second):
+            table[p][q][e, f] = answers[start:start + len(e)]
+            start += len(e)
+        known[p][new] = True
 
-            def paired(field, q):
-                own = getattr(candidates[p], field)[e]
-                return np.concatenate([np.broadcast_to(own, (sizes[q - p - 1],) + own.shape),
-                                       getattr(candidates[q], field)], axis=1)
-
-            stacks = [np.concatenate([paired(field, q) for q in later]) for field in
-                      ("equalities", "equality_rhs", "inequalities", "inequality_rhs")]
-            answers = feasible(*stacks) if sum(sizes) else np.zeros(0, dtype=bool)
-            table[(p, e)] = dict(zip(later, np.split(answers, np.cumsum(sizes)[:-1])))
-        return table[(p, e)]
+    # breadth first: the nodes of one level are (chosen edge numbers (P, depth), allowed edges of every
+    # later support (P, edges of q)); all children of a level are tested as one stack
+    chosen = np.zeros((1, 0), dtype=np.int64)
+    allowed = {q: np.ones((1, len(candidates[q].pairs)), dtype=bool) for q in range(n)}
+    for depth in range(n):
+        node, edge = np.nonzero(allowed[depth])
+        if depth >= 2 and len(node):
+            # two edges were checked by the table; from three on, a linear program per child
+            keep = np.zeros(len(node), dtype=bool)
+            for start in range(0, len(node), feasible.chunk):
+                part = slice(start, start + feasible.chunk)
+                stacks = [np.concatenate([getattr(candidates[j], field)[chosen[node[part], j]] for j in range(depth)] +
+                                         [getattr(candidates[depth], field)[edge[part]]], axis=1) for field in fields]
+                keep[part] = feasible(*stacks)
+            node, edge = node[keep], edge[keep]
+        chosen = np.column_stack([chosen[node], edge])
+        if depth + 1 == n:
+            break
+        fill_table(depth, np.unique(edge))
+        narrowed = {q: allowed[q][node] & table[depth][q][edge] for q in range(depth + 1, n)}
+        # a later support with no edge that fits: no cell below that node
+        alive = np.all([narrowed[q].any(axis=1) for q in narrowed], axis=0)
+        chosen = chosen[alive]
+        allowed = {q: narrowed[q][alive] for q in narrowed}
 
     cells = []
-
-    def extend(depth, chosen, stacks, allowed):
-        if depth == n:
-            pairs = [None] * n
-            for i, (a, b) in zip(order, chosen):
-                pairs[i] = (a, b)
-            matrix = np.array([supports[i][b] - supports[i][a] for i, (a, b) in enumerate(pairs)], dtype=np.int64)
-            volume = abs(round(np.linalg.det(matrix.astype(float))))
-            if volume == 0:
-                return
-            rhs = np.array([liftings[i][a] - liftings[i][b] for i, (a, b) in enumerate(pairs)])
-            normal = np.linalg.solve(matrix.astype(float), rhs)
-            cells.append(MixedCell(tuple(pairs), normal, int(volume)))
-            return
-        edges = candidates[depth]
-        children = np.nonzero(allowed[depth])[0]
-        if depth >= 2:
-            # two edges were checked by the table; from three on, one stack of programs for all children
-            count = len(children)
-            together = [np.concatenate([np.broadcast_to(parent, (count,) + parent.shape),
-                                        getattr(edges, field)[children]], axis=1)
-                        for parent, field in zip(stacks, ("equalities", "equality_rhs", "inequalities",
-                                                          "inequality_rhs"))]
-            children = children[feasible(*together)]
-        for e in children:
-            rows = [np.concatenate([parent, getattr(edges, field)[e]])
-                    for parent, field in zip(stacks, ("equalities", "equality_rhs", "inequalities", "inequality_rhs"))]
-            narrowed = list(allowed)
-            if depth + 1 < n:
-                table_row = related(depth, e)
-                for later in range(depth + 1, n):
-                    narrowed[later] = allowed[later] & table_row[later]
-                    if not narrowed[later].any():  # no edge of a later support fits: no cell below this one
-                        break
-                else:
-                    extend(depth + 1, chosen + [edges.pairs[e]], rows, narrowed)
-            else:
-                extend(depth + 1, chosen + [edges.pairs[e]], rows, narrowed)
-
-    empty = [np.zeros((0, n)), np.zeros(0), np.zeros((0, n)), np.zeros(0)]
-    extend(0, [], empty, [np.ones(len(c.pairs), dtype=bool) for c in candidates])
+    for row in chosen:
+        pairs = [None] * n
+        for depth, e in enumerate(row):
+            pairs[order[depth]] = candidates[depth].pairs[e]
+        matrix = np.array([supports[i][b] - supports[i][a] for i, (a, b) in enumerate(pairs)], dtype=np.int64)
+        volume = abs(round(np.linalg.det(matrix.astype(float))))
+        if volume == 0:
+            continue
+        rhs = np.array([liftings[i][a] - liftings[i][b] for i, (a, b) in enumerate(pairs)])
+        normal = np.linalg.solve(matrix.astype(float), rhs)
+        cells.append(MixedCell(tuple(pairs), normal, int(volume)))
     return cells, feasible.solved
 
 

@@ -35,9 +35,10 @@ from .polyhedral import PolyhedralStart
 
 __all__ = ["StartKind", "StartChoice", "choose_start", "SECONDS_PER_LINEAR_PROGRAM", "SECONDS_PER_PATH"]
 
-#: Estimates for ``auto`` (benchmarks/bench_starts.py --quick on the shared 2-core machine, decision 0047):
-#: one linear program of the cell search (scipy's set-up dominates) ...
-SECONDS_PER_LINEAR_PROGRAM = 0.003
+#: Estimates for ``auto`` (benchmarks/bench_starts.py --quick on the shared 2-core machine, decisions 0047
+#: and 0055): one linear program of the cell search (50-70 microseconds in the batched simplex of
+#: numag.numeric.feasibility; 3 ms with scipy's linprog) ...
+SECONDS_PER_LINEAR_PROGRAM = 1e-4
 #: ... and one tracked path (cyclic 6 by total degree: 232 s for 720 paths; eigenproblems 0.02 s a path).
 SECONDS_PER_PATH = 0.1
 
