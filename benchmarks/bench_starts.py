@@ -100,6 +100,26 @@ def singular_row(name, problem, start, seed):
             "counts": [s["start"]["paths"] for s in searches]}
 
 
+def polyhedral_setup_rows(sizes, seed):
+    """Cyclic n by the polyhedral start: the mixed cells (set-up) against the two tracking stages."""
+    rows = []
+    for n in sizes:
+        system = cyclic(n)
+        started = time.perf_counter()
+        result = solve_system(system, SolveOptions(start="polyhedral"), seed=seed)
+        total = time.perf_counter() - started
+        block = result.extra["start"]
+        setup, first = block["setup_seconds"]["polyhedral"], block["random_system_seconds"]
+        tracking = total - setup
+        rows.append({"family": system.name, "mixed_volume": block["paths"]["polyhedral"],
+                     "cells": block["mixed_cells"], "linear_programs": block["linear_programs"],
+                     "setup_s": round(setup, 2), "first_stage_s": round(first, 2),
+                     "second_stage_s": round(tracking - first, 2), "setup_share_of_tracking": round(setup / tracking, 4),
+                     "solutions": len(result.solutions), "failed": result.path_counts()["failed"]})
+        print(json.dumps(rows[-1]), flush=True)
+    return rows
+
+
 def main():
     parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
     parser.add_argument("--quick", action="store_true", help="small sizes only (a few minutes)")
@@ -107,7 +127,23 @@ def main():
     parser.add_argument("--singular-only", action="store_true",
                         help="only the singular locus of the shared problems by each start (total-degree witness "
                              "sets beside the square null-vector system)")
+    parser.add_argument("--polyhedral-setup", type=int, nargs="+", metavar="N",
+                        help="only cyclic N by the polyhedral start: set-up (mixed cells) against tracking")
     args = parser.parse_args()
+    if args.polyhedral_setup:
+        rows = polyhedral_setup_rows(args.polyhedral_setup, args.seed)
+        lines = ["| family | mixed volume | cells | linear programs | set-up s | first stage s | second stage s | "
+                 "set-up / tracking | solutions | failed |", "|---|---|---|---|---|---|---|---|---|---|"]
+        lines += [f"| {r['family']} | {r['mixed_volume']} | {r['cells']} | {r['linear_programs']} | {r['setup_s']} | "
+                  f"{r['first_stage_s']} | {r['second_stage_s']} | {100 * r['setup_share_of_tracking']:.1f} % | "
+                  f"{r['solutions']} | {r['failed']} |" for r in rows]
+        print("\n".join(lines))
+        out = pathlib.Path(__file__).resolve().parent / "results"
+        os.makedirs(out, exist_ok=True)
+        (out / "bench_starts_polyhedral_setup.md").write_text(
+            f"`python benchmarks/bench_starts.py --polyhedral-setup {' '.join(map(str, args.polyhedral_setup))} "
+            f"--seed {args.seed}`\n\n" + "\n".join(lines) + "\n")
+        return
     if args.quick:
         cyclics, katsuras, eigens = (5, 6), (3, 4), (4, 6)
         shared = ("node", "four_generic_lines", "trifolium_triple_point", "cone_over_smooth_plane_cubic")

@@ -44,7 +44,7 @@ import numpy as np
 from scipy.optimize import linprog
 
 from ..errors import InputError
-from ..numeric.evaluate import BatchEvaluator, TermSizes
+from ..numeric.evaluate import BatchEvaluator, PrecisionEvaluator, TermSizes
 from ..numeric.feasibility import feasible_batch
 from ..system.polynomial import Polynomial
 from .homotopy import _PatchedHomotopy
@@ -53,7 +53,7 @@ from .tracker import PathStatus
 
 __all__ = ["MixedCell", "ZeroCoordinates", "LinearProgramSolver", "supports_of", "zero_coordinates_possible", "mixed_cells",
            "mixed_volume", "smith_normal_form", "binomial_solutions", "PolyhedralStart", "CellHomotopy",
-           "term_evaluator", "track_cells"]
+           "PolyhedralHomotopy", "term_evaluator", "track_cells"]
 
 #: Linear programs one mixed-cell enumeration may solve before it gives up (a guard on the set-up cost).
 MAX_LINEAR_PROGRAMS = 400_000
@@ -487,16 +487,15 @@ class CellHomotopy(_PatchedHomotopy):
         The evaluator of the random system's terms, one polynomial per term (shared by the cells).
     """
 
-    def __init__(self, start, cell, patch, terms=None):
+    def __init__(self, start, cell, patch, terms=None, shared=None):
         self.start, self.cell = start, cell
         self.patch = np.asarray(patch, dtype=complex)
         self.size = len(self.patch)
         n = self.size - 1
-        degrees = [int(s.sum(axis=1).max()) for s in start.supports]
-        homogeneous = [np.column_stack([d - s.sum(axis=1), s]) for s, d in zip(start.supports, degrees)]
-        self.target = [Polynomial(h, c, n + 1) for h, c in zip(homogeneous, start.coefficients)]
-        self.terms = terms or term_evaluator(start)
-        self.evaluator = BatchEvaluator(self.target)
+        shared = shared or _SharedTerms.of(start)
+        self.target, self.evaluator, self._sizes = shared.target, shared.evaluator, shared.sizes
+        self.terms = terms or shared.terms
+        self._shared = shared
         powers = []
         for support, lifting, (a, b) in zip(start.supports, start.liftings, cell.pairs):
             lifted = support @ cell.normal + lifting
@@ -511,7 +510,6 @@ class CellHomotopy(_PatchedHomotopy):
         self._sum[np.arange(len(self.powers)), self.equation_of_term] = 1.0
         self.evaluations = 0
         self.value_evaluations = 0
-        self._sizes = TermSizes(self.target, projective=True, homogenized=True)
 
     def start_solutions(self, path_indices=None):
         """The binomial system's solutions (homogeneous, on the patch)."""
@@ -545,6 +543,27 @@ class CellHomotopy(_PatchedHomotopy):
         derivative[:, :-1] = -((slope * term_values) @ self._sum)  # d/ds = -d/dt
         return values, jacobian, derivative
 
+    def evaluate_precise(self, point, s, ctx):
+        """H, dH/dX and dH/ds at one point in an mpmath context (the precision rescue's evaluation).
+
+        The same sums as :meth:`evaluate`, term by term: H_i = sum_a t^e_a T_a(X), t = 1 - Re s.
+        """
+        size = self.size
+        term_values, term_jacobian = self._shared.precise().evaluate(point, ctx)
+        t = 1 - ctx.re(ctx.mpc(s))
+        t = min(max(t, ctx.mpf(0)), ctx.mpf(1))
+        values, jacobian, derivative = ctx.matrix(size, 1), ctx.matrix(size, size), ctx.matrix(size, 1)
+        for k, (equation, power) in enumerate(zip(self.equation_of_term.tolist(), self.powers.tolist())):
+            power = ctx.mpf(power)
+            weight = t ** power
+            values[equation] += weight * term_values[k]
+            if power > 0:  # d/ds = -d/dt
+                derivative[equation] -= power * t ** (power - 1) * term_values[k]
+            for j in range(size):
+                jacobian[equation, j] += weight * term_jacobian[k, j]
+        self._precise_patch_row(values, jacobian, point, ctx)
+        return values, jacobian, derivative
+
     def evaluate_values(self, points, s):
         """H alone (with the patch row)."""
         self.value_evaluations += 1
@@ -555,19 +574,120 @@ class CellHomotopy(_PatchedHomotopy):
         return values
 
 
-def term_evaluator(start):
-    """One polynomial per term of the homogenised random system (values and gradients of every term)."""
+@dataclass
+class _SharedTerms:
+    """What every cell's homotopy of one start shares: the homogenised random system and its terms."""
+
+    target: list
+    evaluator: BatchEvaluator
+    sizes: TermSizes
+    terms: BatchEvaluator
+    term_polynomials: list
+    _precise: object = None
+
+    @classmethod
+    def of(cls, start):
+        n = len(start.supports)
+        degrees = [int(s.sum(axis=1).max()) for s in start.supports]
+        homogeneous = [np.column_stack([d - s.sum(axis=1), s]) for s, d in zip(start.supports, degrees)]
+        target = [Polynomial(h, c, n + 1) for h, c in zip(homogeneous, start.coefficients)]
+        polynomials = _term_polynomials(start)
+        return cls(target, BatchEvaluator(target), TermSizes(target, projective=True, homogenized=True),
+                   BatchEvaluator(polynomials), polynomials)
+
+    def precise(self):
+        """The terms' evaluator in mpmath (made when a path first needs the rescue)."""
+        if self._precise is None:
+            self._precise = PrecisionEvaluator(self.term_polynomials)
+        return self._precise
+
+
+class PolyhedralHomotopy(_PatchedHomotopy):
+    """Every cell's homotopy of one polyhedral start as one family: path k belongs to the cell whose
+    volumes, added up in order, first exceed k (so batches, executors and the jump repair see one
+    numbering of all paths).
+
+    Parameters
+    ----------
+    start : PolyhedralStart
+    patch : ndarray, shape (n + 1,)
+
+    Examples
+    --------
+    >>> import numpy as np
+    >>> from numag.system.parse import parse_system
+    >>> system = parse_system(["x*y - 1", "x^2 + y^2 - 4"], ["x", "y"])
+    >>> start = PolyhedralStart.random(system.polynomials, np.random.default_rng(0))
+    >>> family = PolyhedralHomotopy(start, np.array([0.3, 0.5 - 0.2j, 0.1j]))
+    >>> [len(positions) for _, positions in family.parts(np.arange(start.n_paths))] == [c.volume for c in start.cells]
+    True
+    """
+
+    def __init__(self, start, patch):
+        self.start = start
+        self.patch = np.asarray(patch, dtype=complex)
+        self.size = len(self.patch)
+        self._shared = _SharedTerms.of(start)
+        self.target, self.evaluator, self._sizes = self._shared.target, self._shared.evaluator, self._shared.sizes
+        self.ends = np.cumsum([cell.volume for cell in start.cells])
+        self._cells = {}
+        self.evaluations = 0
+
+    @property
+    def n_paths(self):
+        """The mixed volume."""
+        return int(self.ends[-1]) if len(self.ends) else 0
+
+    def cell_homotopy(self, number):
+        """The homotopy of cell ``number`` (made once)."""
+        if number not in self._cells:
+            self._cells[number] = CellHomotopy(self.start, self.start.cells[number], self.patch, shared=self._shared)
+        return self._cells[number]
+
+    def _cell_of(self, indices):
+        return np.searchsorted(self.ends, np.asarray(indices), side="right")
+
+    def parts(self, indices):
+        """(cell homotopy, positions in ``indices`` of its paths), cell by cell."""
+        cells = self._cell_of(indices)
+        return [(self.cell_homotopy(int(c)), np.nonzero(cells == c)[0]) for c in np.unique(cells)]
+
+    def start_solutions(self, indices=None):
+        """The start points of paths ``indices`` (all by default), homogeneous on the patch."""
+        indices = np.arange(self.n_paths) if indices is None else np.asarray(indices)
+        points = np.empty((len(indices), self.size), dtype=complex)
+        cells = self._cell_of(indices)
+        for c in np.unique(cells):
+            mine = cells == c
+            first = self.ends[c] - self.start.cells[c].volume
+            points[mine] = self.cell_homotopy(int(c)).start_solutions(indices[mine] - first)
+        return points
+
+
+def _term_polynomials(start):
+    """One polynomial per term of the homogenised random system."""
     n = len(start.supports)
     polynomials = []
     for support, coefficients in zip(start.supports, start.coefficients):
         degree = int(support.sum(axis=1).max())
         for a, c in zip(support, coefficients):
             polynomials.append(Polynomial(np.concatenate([[degree - a.sum()], a])[None, :], [c], n + 1))
-    return BatchEvaluator(polynomials)
+    return polynomials
 
 
-def track_cells(start, rng, options=None, batch_size=4096):
+def term_evaluator(start):
+    """One polynomial per term of the homogenised random system (values and gradients of every term)."""
+    return BatchEvaluator(_term_polynomials(start))
+
+
+def track_cells(start, rng, options=None, batch_size=4096, executor=None, progress=None):
     """Solve the random system of ``start`` by tracking every mixed cell's paths (one patch for all).
+
+    The paths of all cells are numbered in one family (:class:`PolyhedralHomotopy`) and go
+    through :func:`~numag.tracking.service.track` like those of any homotopy: batches on the
+    executor, the cautious retry and the precision rescue of failed paths, and the repair of
+    paths that jumped onto another's endpoint (the random system's solutions are all regular
+    and distinct).
 
     Parameters
     ----------
@@ -576,6 +696,9 @@ def track_cells(start, rng, options=None, batch_size=4096):
         For the patch.
     options : TrackerOptions, optional
     batch_size : int
+    executor : Executor or callable, optional
+        As for :func:`~numag.tracking.service.track` (None: in this process).
+    progress : Progress, optional
 
     Returns
     -------
@@ -595,13 +718,10 @@ def track_cells(start, rng, options=None, batch_size=4096):
     """
     n = len(start.supports)
     patch = (rng.standard_normal(n + 1) + 1j * rng.standard_normal(n + 1)) / np.sqrt(2 * (n + 1))
-    terms = term_evaluator(start)
-    found, counts = [], PathCounts()
-    for cell in start.cells:
-        homotopy = CellHomotopy(start, cell, patch, terms)
-        # cells are tracked one after another, each as one batch (their paths differ in the powers of t)
-        run = track(homotopy, homotopy.start_solutions(), options, batch_size=batch_size)
-        counts = counts + run.counts
-        regular = (run.status == PathStatus.CONVERGED) | (run.status == PathStatus.SINGULAR_ENDPOINT)
-        found.append(run.affine_endpoints()[regular])
-    return (np.vstack(found) if found else np.zeros((0, n), dtype=complex)), counts
+    homotopy = PolyhedralHomotopy(start, patch)
+    if homotopy.n_paths == 0:
+        return np.zeros((0, n), dtype=complex), PathCounts()
+    run = track(homotopy, homotopy.start_solutions, options, count=homotopy.n_paths, executor=executor,
+                batch_size=batch_size, progress=progress)
+    regular = (run.status == PathStatus.CONVERGED) | (run.status == PathStatus.SINGULAR_ENDPOINT)
+    return run.affine_endpoints()[regular], run.counts
