@@ -164,9 +164,9 @@ def choose_start(system, kind, groups=None, rng=None):
     cheapest = min(counts.values())
     table = _relation_table_size(system)
     # auto stays below the cell search's guard on linear programs (which would end the run, not fall back);
-    # the table is not the whole search (katsura 6: 32,718 programs for a table of 14,479), hence the half
+    # the table is not the whole search (katsura 6: 32,718 programs for a table of 14,479), hence a quarter
     if kind == StartKind.POLYHEDRAL or \
-            (table * SECONDS_PER_LINEAR_PROGRAM <= cheapest * SECONDS_PER_PATH and table <= MAX_LINEAR_PROGRAMS // 2):
+            (table * SECONDS_PER_LINEAR_PROGRAM <= cheapest * SECONDS_PER_PATH and table <= MAX_LINEAR_PROGRAMS // 4):
         started = time.perf_counter()
         polyhedral = PolyhedralStart.random(system.polynomials, rng)
         counts[StartKind.POLYHEDRAL.value] = polyhedral.n_paths
