@@ -10,9 +10,11 @@ XI, 2003; both from memory) finds them:
 1. Lift every exponent a of A_i to (a, w_i(a)) with random w. The lower facets of the lifted
    Minkowski sum give a subdivision; its *mixed cells* pick one edge {a_i, b_i} of every A_i with
    an inner normal (alpha, 1): <a, alpha> + w_i(a) is smallest on A_i exactly at a_i and b_i.
-   Their volumes |det(b_i - a_i)| add up to the mixed volume. They are enumerated depth first,
-   one support at a time, pruning with the feasibility of a linear program (scipy's ``linprog``,
-   HiGHS) on the normal.
+   Their volumes |det(b_i - a_i)| add up to the mixed volume. They are enumerated one support at
+   a time, breadth first, pruning with the feasibility of linear programs on the normal, all
+   programs of a level solved as one stack by numag's own simplex
+   (:func:`~numag.numeric.feasibility.feasible_batch`; scipy's ``linprog`` with HiGHS is the
+   reference, decision 0055).
 2. With x = y t^alpha and each equation divided by its smallest power of t, the random system
    sum_a c_a x^a t^w(a) becomes at t = 0 the binomial system c_ai y^a_i + c_bi y^b_i = 0, whose
    |det| solutions are written down from the Smith normal form of the exponent matrix
@@ -53,7 +55,7 @@ from .tracker import PathStatus
 
 __all__ = ["MixedCell", "ZeroCoordinates", "LinearProgramSolver", "supports_of", "zero_coordinates_possible", "mixed_cells",
            "mixed_volume", "smith_normal_form", "binomial_solutions", "PolyhedralStart", "CellHomotopy",
-           "PolyhedralHomotopy", "term_evaluator", "track_cells"]
+           "PolyhedralHomotopy", "track_cells"]
 
 #: Linear programs one mixed-cell enumeration may solve before it gives up (a guard on the set-up cost).
 MAX_LINEAR_PROGRAMS = 400_000
@@ -483,18 +485,19 @@ class CellHomotopy(_PatchedHomotopy):
     start : PolyhedralStart
     cell : MixedCell
     patch : ndarray, shape (n + 1,)
-    terms : BatchEvaluator, optional
-        The evaluator of the random system's terms, one polynomial per term (shared by the cells).
+    shared : _SharedTerms, optional
+        The homogenised random system and the evaluators of its terms, made once for all cells of
+        a start (by :class:`PolyhedralHomotopy`); made here when not given.
     """
 
-    def __init__(self, start, cell, patch, terms=None, shared=None):
+    def __init__(self, start, cell, patch, shared=None):
         self.start, self.cell = start, cell
         self.patch = np.asarray(patch, dtype=complex)
         self.size = len(self.patch)
         n = self.size - 1
         shared = shared or _SharedTerms.of(start)
         self.target, self.evaluator, self._sizes = shared.target, shared.evaluator, shared.sizes
-        self.terms = terms or shared.terms
+        self.terms = shared.terms
         self._shared = shared
         powers = []
         for support, lifting, (a, b) in zip(start.supports, start.liftings, cell.pairs):
@@ -673,11 +676,6 @@ def _term_polynomials(start):
         for a, c in zip(support, coefficients):
             polynomials.append(Polynomial(np.concatenate([[degree - a.sum()], a])[None, :], [c], n + 1))
     return polynomials
-
-
-def term_evaluator(start):
-    """One polynomial per term of the homogenised random system (values and gradients of every term)."""
-    return BatchEvaluator(_term_polynomials(start))
 
 
 def track_cells(start, rng, options=None, batch_size=4096, executor=None, progress=None):
