@@ -1,6 +1,8 @@
 """Start systems side by side: paths, solutions, set-up and total time per family and start.
 
 Run:  python benchmarks/bench_starts.py [--quick] [--seed 1] [--singular-only]
+      python benchmarks/bench_starts.py --polyhedral-setup 5 6 7 8   (mixed cells against tracking, cyclic n)
+      python benchmarks/bench_starts.py --mixed-cells 5 6 7 8 [--reference]   (the cells alone, per solver)
 
 Families: cyclic n-roots (70, 156, 924 and 1152 isolated roots for n = 5..8; Bjorck and Froberg
 1991, from memory; cyclic 8 also has a one-dimensional set), katsura n (2^n roots, the Bezout number;
@@ -24,6 +26,7 @@ import numpy as np
 
 import checkout  # noqa: F401  (this checkout's numag, not an installed one)
 from numag.singular.isolated import isolated_singular_points
+from numag.tracking.polyhedral import LinearProgramSolver, mixed_cells, supports_of
 from numag.singular.locus import SingularOptions, singular_locus
 from numag.tracking.tracker import FAILURE_LABELS
 from numag.system.parse import parse_system
@@ -100,6 +103,44 @@ def singular_row(name, problem, start, seed):
             "counts": [s["start"]["paths"] for s in searches]}
 
 
+def polyhedral_setup_rows(sizes, seed):
+    """Cyclic n by the polyhedral start: the mixed cells (set-up) against the two tracking stages."""
+    rows = []
+    for n in sizes:
+        system = cyclic(n)
+        started = time.perf_counter()
+        result = solve_system(system, SolveOptions(start="polyhedral"), seed=seed)
+        total = time.perf_counter() - started
+        block = result.extra["start"]
+        setup, first = block["setup_seconds"]["polyhedral"], block["random_system_seconds"]
+        tracking = total - setup
+        rows.append({"family": system.name, "mixed_volume": block["paths"]["polyhedral"],
+                     "cells": block["mixed_cells"], "linear_programs": block["linear_programs"],
+                     "setup_s": round(setup, 2), "first_stage_s": round(first, 2),
+                     "second_stage_s": round(tracking - first, 2), "setup_share_of_tracking": round(setup / tracking, 4),
+                     "solutions": len(result.solutions), "failed": result.path_counts()["failed"]})
+        print(json.dumps(rows[-1]), flush=True)
+    return rows
+
+
+def mixed_cell_rows(sizes, seed, solvers):
+    """Cyclic n: the mixed cells of one random lifting, timed with each linear-program solver."""
+    rows = []
+    for n in sizes:
+        supports = supports_of(cyclic(n).polynomials)
+        rng = np.random.default_rng(seed)
+        liftings = [rng.random(len(s)) for s in supports]
+        for solver in solvers:
+            started = time.perf_counter()
+            cells, programs = mixed_cells(supports, liftings, solver)
+            seconds = time.perf_counter() - started
+            rows.append({"family": f"cyclic {n}", "solver": solver.name.lower(), "mixed_volume": sum(c.volume for c in cells),
+                         "cells": len(cells), "linear_programs": programs, "seconds": round(seconds, 2),
+                         "ms_per_program": round(1e3 * seconds / programs, 3)})
+            print(json.dumps(rows[-1]), flush=True)
+    return rows
+
+
 def main():
     parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
     parser.add_argument("--quick", action="store_true", help="small sizes only (a few minutes)")
@@ -107,7 +148,36 @@ def main():
     parser.add_argument("--singular-only", action="store_true",
                         help="only the singular locus of the shared problems by each start (total-degree witness "
                              "sets beside the square null-vector system)")
+    parser.add_argument("--polyhedral-setup", type=int, nargs="+", metavar="N",
+                        help="only cyclic N by the polyhedral start: set-up (mixed cells) against tracking")
+    parser.add_argument("--mixed-cells", type=int, nargs="+", metavar="N",
+                        help="only the mixed cells of cyclic N, timed with numag's simplex")
+    parser.add_argument("--reference", action="store_true",
+                        help="with --mixed-cells: also with scipy's linprog (cyclic 8: about 5 minutes)")
     args = parser.parse_args()
+    if args.mixed_cells:
+        solvers = [LinearProgramSolver.SIMPLEX] + ([LinearProgramSolver.HIGHS] if args.reference else [])
+        rows = mixed_cell_rows(args.mixed_cells, args.seed, solvers)
+        lines = ["| family | solver | mixed volume | cells | linear programs | seconds | ms per program |",
+                 "|---|---|---|---|---|---|---|"]
+        lines += [f"| {r['family']} | {r['solver']} | {r['mixed_volume']} | {r['cells']} | {r['linear_programs']} | "
+                  f"{r['seconds']} | {r['ms_per_program']} |" for r in rows]
+        print("\n".join(lines))
+        return
+    if args.polyhedral_setup:
+        rows = polyhedral_setup_rows(args.polyhedral_setup, args.seed)
+        lines = ["| family | mixed volume | cells | linear programs | set-up s | first stage s | second stage s | "
+                 "set-up / tracking | solutions | failed |", "|---|---|---|---|---|---|---|---|---|---|"]
+        lines += [f"| {r['family']} | {r['mixed_volume']} | {r['cells']} | {r['linear_programs']} | {r['setup_s']} | "
+                  f"{r['first_stage_s']} | {r['second_stage_s']} | {100 * r['setup_share_of_tracking']:.1f} % | "
+                  f"{r['solutions']} | {r['failed']} |" for r in rows]
+        print("\n".join(lines))
+        out = pathlib.Path(__file__).resolve().parent / "results"
+        os.makedirs(out, exist_ok=True)
+        (out / "bench_starts_polyhedral_setup.md").write_text(
+            f"`python benchmarks/bench_starts.py --polyhedral-setup {' '.join(map(str, args.polyhedral_setup))} "
+            f"--seed {args.seed}`\n\n" + "\n".join(lines) + "\n")
+        return
     if args.quick:
         cyclics, katsuras, eigens = (5, 6), (3, 4), (4, 6)
         shared = ("node", "four_generic_lines", "trifolium_triple_point", "cone_over_smooth_plane_cubic")

@@ -16,8 +16,8 @@ from numag.singular.isolated import isolated_singular_points
 from numag.system.parse import parse_system
 from numag.tracking.homotopy import StraightLineHomotopy
 from numag.tracking.multihomogeneous import VariableGroups, best_groups, multihomogeneous_bezout
-from numag.tracking.polyhedral import (PolyhedralStart, ZeroCoordinates, binomial_solutions, mixed_volume,
-                                       smith_normal_form, supports_of)
+from numag.tracking.polyhedral import (CellHomotopy, PolyhedralStart, ZeroCoordinates, binomial_solutions,
+                                       mixed_volume, smith_normal_form, supports_of, track_cells)
 from numag.tracking.service import track
 from numag.tracking.solve import SolveOptions, solve_system
 from numag.tracking.starts import StartKind, choose_start
@@ -310,15 +310,23 @@ def test_lost_first_stage_paths_become_a_warning():
     assert completeness_warnings({"start": block}) == []
 
 
-@pytest.mark.parametrize("kind", ["total-degree", "multihomogeneous"])
+@pytest.mark.parametrize("kind", ["total-degree", "multihomogeneous", "polyhedral"])
 def test_precise_start_evaluation_agrees_with_double(kind):
     # the precision rescue evaluates the homotopy in mpmath: it must be the same H, dH/dX and dH/ds as
     # the batched double evaluation (mpmath as the reference; common practice, no source)
     import mpmath
     system = parse_system(["x*u + y*v - 1", "x*v - y + 2*u", "x + y - 1 + x*y", "u - v + 3"], ["x", "y", "u", "v"])
     rng = np.random.default_rng(8)
-    homotopy = (StraightLineHomotopy.total_degree(system, rng) if kind == "total-degree" else
-                StraightLineHomotopy.multihomogeneous(system, VariableGroups.of(system, [["x", "y"], ["u", "v"]]), rng))
+    if kind == "polyhedral":  # the cell with the most distinct powers of t
+        start = PolyhedralStart.random(system.polynomials, rng)
+        patch = rng.standard_normal(5) + 1j * rng.standard_normal(5)
+        homotopy = max((CellHomotopy(start, cell, patch) for cell in start.cells),
+                       key=lambda h: len(np.unique(h.powers)))
+        assert len(np.unique(homotopy.powers)) > 2
+    else:
+        homotopy = (StraightLineHomotopy.total_degree(system, rng) if kind == "total-degree" else
+                    StraightLineHomotopy.multihomogeneous(system, VariableGroups.of(system, [["x", "y"], ["u", "v"]]),
+                                                          rng))
     point = rng.standard_normal(5) + 1j * rng.standard_normal(5)
     s = 0.37
     values, jacobian, derivative = homotopy.evaluate(point[None, :], np.array([s]))
@@ -328,3 +336,25 @@ def test_precise_start_evaluation_agrees_with_double(kind):
     assert np.allclose(as_array(precise[0]).ravel(), values[0], rtol=1e-12, atol=1e-12)
     assert np.allclose(as_array(precise[1]), jacobian[0], rtol=1e-12, atol=1e-12)
     assert np.allclose(as_array(precise[2]).ravel(), derivative[0], rtol=1e-12, atol=1e-12)
+
+
+def test_first_stage_in_batches_on_worker_processes_reaches_the_same_points():
+    # the polyhedral first stage through the executor: 2 worker processes, batches of 2 paths mixing
+    # cells, against one batch in this process; x^3 y^3 - x - 1 = x^3 y^3 - y - 2 = 0 has six roots
+    # (y = x - 1, x^3 (x - 1)^3 = x + 1, by hand), as does the random system on its supports
+    from numag.run.executor import make_executor
+    system = parse_system(["x^3*y^3 - x - 1", "x^3*y^3 - y - 2"], ["x", "y"])
+    start = PolyhedralStart.random(system.polynomials, np.random.default_rng(5))
+    here, here_counts = track_cells(start, np.random.default_rng(6))
+    executor = make_executor(workers=2, batches=3)
+    try:
+        there, there_counts = track_cells(start, np.random.default_rng(6), batch_size=2, executor=executor)
+        assert executor.describe()["workers"] == 2
+    finally:
+        executor.close()
+    assert here_counts.converged == there_counts.converged == start.n_paths == 6
+    key = lambda point: (round(point[0].real, 6), round(point[0].imag, 6))
+    assert np.allclose(sorted(here, key=key), sorted(there, key=key), atol=1e-8)
+    values = [sum(c * np.prod(there ** a, axis=1) for a, c in zip(support, coefficients))
+              for support, coefficients in zip(start.supports, start.coefficients)]
+    assert np.max(np.abs(values)) < 1e-8

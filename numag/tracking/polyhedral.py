@@ -10,9 +10,11 @@ XI, 2003; both from memory) finds them:
 1. Lift every exponent a of A_i to (a, w_i(a)) with random w. The lower facets of the lifted
    Minkowski sum give a subdivision; its *mixed cells* pick one edge {a_i, b_i} of every A_i with
    an inner normal (alpha, 1): <a, alpha> + w_i(a) is smallest on A_i exactly at a_i and b_i.
-   Their volumes |det(b_i - a_i)| add up to the mixed volume. They are enumerated depth first,
-   one support at a time, pruning with the feasibility of a linear program (scipy's ``linprog``,
-   HiGHS) on the normal.
+   Their volumes |det(b_i - a_i)| add up to the mixed volume. They are enumerated one support at
+   a time, breadth first, pruning with the feasibility of linear programs on the normal, all
+   programs of a level solved as one stack by numag's own simplex
+   (:func:`~numag.numeric.feasibility.feasible_batch`; scipy's ``linprog`` with HiGHS is the
+   reference, decision 0055).
 2. With x = y t^alpha and each equation divided by its smallest power of t, the random system
    sum_a c_a x^a t^w(a) becomes at t = 0 the binomial system c_ai y^a_i + c_bi y^b_i = 0, whose
    |det| solutions are written down from the Smith normal form of the exponent matrix
@@ -44,15 +46,16 @@ import numpy as np
 from scipy.optimize import linprog
 
 from ..errors import InputError
-from ..numeric.evaluate import BatchEvaluator, TermSizes
+from ..numeric.evaluate import BatchEvaluator, PrecisionEvaluator, TermSizes
+from ..numeric.feasibility import feasible_batch
 from ..system.polynomial import Polynomial
 from .homotopy import _PatchedHomotopy
 from .service import PathCounts, track
 from .tracker import PathStatus
 
-__all__ = ["MixedCell", "ZeroCoordinates", "supports_of", "zero_coordinates_possible", "mixed_cells",
+__all__ = ["MixedCell", "ZeroCoordinates", "LinearProgramSolver", "supports_of", "zero_coordinates_possible", "mixed_cells",
            "mixed_volume", "smith_normal_form", "binomial_solutions", "PolyhedralStart", "CellHomotopy",
-           "term_evaluator", "track_cells"]
+           "PolyhedralHomotopy", "track_cells"]
 
 #: Linear programs one mixed-cell enumeration may solve before it gives up (a guard on the set-up cost).
 MAX_LINEAR_PROGRAMS = 400_000
@@ -63,6 +66,13 @@ class ZeroCoordinates(enum.Enum):
 
     EXCLUDED = "excluded: for every variable an equation is a nonzero constant where it vanishes"
     ORIGIN_ADDED = "the origin was added to every support (roots in C^n, Li and Wang 1996)"
+
+
+class LinearProgramSolver(enum.Enum):
+    """Who decides the feasibility of the cell search's linear programs."""
+
+    SIMPLEX = "numag's dense simplex (numag.numeric.feasibility)"
+    HIGHS = "scipy's linprog with HiGHS (the reference: about 3 ms a call)"
 
 
 @dataclass(frozen=True)
@@ -114,54 +124,83 @@ def zero_coordinates_possible(polynomials):
     return False
 
 
-def _lower_edge_rows(support, lifting, a, b, n):
-    """Constraints on alpha making {a, b} the lowest pair of one lifted support: (A_eq, b_eq, A_ub, b_ub)."""
-    others = np.array([c for c in range(len(support)) if c != a and c != b], dtype=np.int64)
-    equality = (support[b] - support[a])[None, :].astype(float)
-    equality_rhs = np.array([lifting[a] - lifting[b]])
-    upper = -(support[others] - support[a]).astype(float).reshape(len(others), n)
-    upper_rhs = lifting[others] - lifting[a]
-    return equality, equality_rhs, upper, upper_rhs
+@dataclass
+class _EdgeRows:
+    """Pairs {a, b} of one lifted support and the constraints on alpha making each the lowest pair.
+
+    Every pair has one equality <b - a, alpha> = w(a) - w(b) and ``width`` inequalities
+    <c - a, alpha> >= w(a) - w(c) for the other points c, padded with 0 <= 1 so that the programs
+    of all supports stack into one array.
+    """
+
+    pairs: list
+    equalities: np.ndarray  # (pairs, 1, n)
+    equality_rhs: np.ndarray  # (pairs, 1)
+    inequalities: np.ndarray  # (pairs, width, n)
+    inequality_rhs: np.ndarray  # (pairs, width)
+
+    @classmethod
+    def of(cls, support, lifting, width):
+        terms, n = support.shape
+        pairs = [(a, b) for a in range(terms) for b in range(a + 1, terms)]
+        equalities = np.empty((len(pairs), 1, n))
+        equality_rhs = np.empty((len(pairs), 1))
+        inequalities = np.zeros((len(pairs), width, n))
+        inequality_rhs = np.ones((len(pairs), width))
+        for k, (a, b) in enumerate(pairs):
+            others = [c for c in range(terms) if c != a and c != b]
+            equalities[k, 0] = support[b] - support[a]
+            equality_rhs[k, 0] = lifting[a] - lifting[b]
+            inequalities[k, :len(others)] = -(support[others] - support[a])
+            inequality_rhs[k, :len(others)] = lifting[others] - lifting[a]
+        return cls(pairs, equalities, equality_rhs, inequalities, inequality_rhs)
+
+    def take(self, rows):
+        """The pairs numbered ``rows`` only."""
+        return _EdgeRows([self.pairs[r] for r in rows], self.equalities[rows], self.equality_rhs[rows],
+                         self.inequalities[rows], self.inequality_rhs[rows])
 
 
 class _Feasibility:
-    """Feasibility of sets of lower-edge constraints, with a count of the linear programs solved."""
+    """Feasibility of stacks of linear programs, with a count of the programs solved.
 
-    def __init__(self, n):
-        self.n = n
+    Parameters
+    ----------
+    solver : LinearProgramSolver
+    chunk : int
+        Programs per call of the batched simplex (bounds its memory).
+    """
+
+    def __init__(self, solver=LinearProgramSolver.SIMPLEX, chunk=2048):
+        self.solver = solver
+        self.chunk = chunk
         self.solved = 0
 
-    def __call__(self, rows):
-        self.solved += 1
+    def __call__(self, equalities, equality_rhs, inequalities, inequality_rhs):
+        """Feasible or not, for each program of the stacks (shapes as in ``feasible_batch``)."""
+        count = len(equalities)
+        self.solved += count
         if self.solved > MAX_LINEAR_PROGRAMS:
             raise InputError(f"the mixed-cell enumeration needed more than {MAX_LINEAR_PROGRAMS:,} linear programs; "
                              "use another start")
-        a_eq = np.vstack([r[0] for r in rows])
-        b_eq = np.concatenate([r[1] for r in rows])
-        uppers = [r[2] for r in rows if len(r[2])]
-        a_ub = np.vstack(uppers) if uppers else None
-        b_ub = np.concatenate([r[3] for r in rows if len(r[2])]) if uppers else None
-        result = linprog(np.zeros(self.n), A_ub=a_ub, b_ub=b_ub, A_eq=a_eq, b_eq=b_eq, bounds=(None, None),
-                         method="highs")
-        return result.status == 0
+        if self.solver == LinearProgramSolver.SIMPLEX:
+            return np.concatenate([np.zeros(0, dtype=bool)] + [
+                feasible_batch(equalities[k:k + self.chunk], equality_rhs[k:k + self.chunk],
+                               inequalities[k:k + self.chunk], inequality_rhs[k:k + self.chunk])
+                for k in range(0, count, self.chunk)])
+        n = equalities.shape[2]
+        return np.array([linprog(np.zeros(n), A_ub=inequalities[k], b_ub=inequality_rhs[k], A_eq=equalities[k],
+                                 b_eq=equality_rhs[k], bounds=(None, None), method="highs").status == 0
+                         for k in range(count)], dtype=bool)
 
 
-def _cell_normal(rows, slack=1e-9):
-    """The normal fixed by n edge equations if it satisfies every inequality (else None)."""
-    matrix = np.vstack([r[0] for r in rows])
-    rhs = np.concatenate([r[1] for r in rows])
-    try:
-        normal = np.linalg.solve(matrix, rhs)
-    except np.linalg.LinAlgError:  # parallel edges: a cell of volume 0
-        return None
-    for _, _, upper, upper_rhs in rows:
-        if len(upper) and np.any(upper @ normal > upper_rhs + slack * (1 + np.abs(upper_rhs))):
-            return None
-    return normal
-
-
-def mixed_cells(supports, liftings):
+def mixed_cells(supports, liftings, solver=LinearProgramSolver.SIMPLEX):
     """The mixed cells of a lifting, depth first with linear-program pruning.
+
+    Candidate edges of each support are its lower edges alone; a relation table says which
+    candidate edges of two supports can lie in one cell (filled a row at a time, when the search
+    first needs it); from the third support on, the programs of all children of a node are solved
+    as one stack (at the last support the normal is fixed and the program is a check of signs).
 
     Parameters
     ----------
@@ -169,75 +208,99 @@ def mixed_cells(supports, liftings):
         n supports in Z^n (each with at least two points, else there is no cell).
     liftings : list of ndarray of float, shape (terms_i,)
         Generic (random) lifting values.
+    solver : LinearProgramSolver
+        The feasibility test (the default is the fast one; HIGHS is the reference).
 
     Returns
     -------
     (list of MixedCell, int)
         The cells and the number of linear programs solved.
+
+    Examples
+    --------
+    >>> import numpy as np
+    >>> triangle = np.array([[0, 0], [1, 0], [0, 1]])
+    >>> cells, _ = mixed_cells([triangle, 2 * triangle], [np.array([0.3, 0.1, 0.7]), np.array([0.5, 0.2, 0.4])])
+    >>> sum(cell.volume for cell in cells)   # a line meets a conic twice
+    2
     """
     n = len(supports)
     if any(s.shape[1] != n for s in supports):
         raise InputError("a mixed volume needs n supports in n variables")
-    feasible = _Feasibility(n)
+    feasible = _Feasibility(solver)
+    width = max(len(s) for s in supports) - 2
     # the edges of each lifted support alone that are lower edges: the only candidates in a cell
     candidates = []
     for support, lifting in zip(supports, liftings):
-        edges = []
-        for a in range(len(support)):
-            for b in range(a + 1, len(support)):
-                rows = _lower_edge_rows(support, lifting, a, b, n)
-                if feasible([rows]):
-                    edges.append((a, b, rows))
-        candidates.append(edges)
-    order = sorted(range(n), key=lambda i: len(candidates[i]))  # few candidates first: a narrow tree
+        rows = _EdgeRows.of(support, lifting, width)
+        lower = feasible(rows.equalities, rows.equality_rhs, rows.inequalities, rows.inequality_rhs)
+        candidates.append(rows.take(np.nonzero(lower)[0]))
+    order = sorted(range(n), key=lambda i: len(candidates[i].pairs))  # few candidates first: a narrow tree
     candidates = [candidates[i] for i in order]
+    fields = ("equalities", "equality_rhs", "inequalities", "inequality_rhs")
     # the relation table: which edges of two supports can lie in one cell (a cheap filter before each
-    # linear program of the search; most of the pruning happens here), filled only where the search asks
-    related = {}
+    # linear program of the search): table[p][q] (edges of p, edges of q), its rows solved when the
+    # search first reaches an edge of p, all new rows of one level as one stack
+    table = [{q: np.zeros((len(candidates[p].pairs), len(candidates[q].pairs)), dtype=bool) for q in range(p + 1, n)}
+             for p in range(n)]
+    known = [np.zeros(len(c.pairs), dtype=bool) for c in candidates]
 
-    def compatible(p, e, q, f):
-        key = (p, e, q, f)
-        if key not in related:
-            related[key] = feasible([candidates[p][e][2], candidates[q][f][2]])
-        return related[key]
+    def fill_table(p, edges):
+        new = edges[~known[p][edges]]
+        if not len(new) or p + 1 == n:
+            return
+        first, second = [], []
+        for q in range(p + 1, n):
+            grid_e, grid_f = np.meshgrid(new, np.arange(len(candidates[q].pairs)), indexing="ij")
+            first.append(grid_e.ravel())
+            second.append((q, grid_f.ravel()))
+        stacks = [np.concatenate([np.concatenate([getattr(candidates[p], field)[e], getattr(candidates[q], field)[f]],
+                                                 axis=1) for e, (q, f) in zip(first, second)])
+                  for field in fields]
+        answers = feasible(*stacks)
+        start = 0
+        for e, (q, f) in zip(first, second):
+            table[p][q][e, f] = answers[start:start + len(e)]
+            start += len(e)
+        known[p][new] = True
+
+    # breadth first: the nodes of one level are (chosen edge numbers (P, depth), allowed edges of every
+    # later support (P, edges of q)); all children of a level are tested as one stack
+    chosen = np.zeros((1, 0), dtype=np.int64)
+    allowed = {q: np.ones((1, len(candidates[q].pairs)), dtype=bool) for q in range(n)}
+    for depth in range(n):
+        node, edge = np.nonzero(allowed[depth])
+        if depth >= 2 and len(node):
+            # two edges were checked by the table; from three on, a linear program per child
+            keep = np.zeros(len(node), dtype=bool)
+            for start in range(0, len(node), feasible.chunk):
+                part = slice(start, start + feasible.chunk)
+                stacks = [np.concatenate([getattr(candidates[j], field)[chosen[node[part], j]] for j in range(depth)] +
+                                         [getattr(candidates[depth], field)[edge[part]]], axis=1) for field in fields]
+                keep[part] = feasible(*stacks)
+            node, edge = node[keep], edge[keep]
+        chosen = np.column_stack([chosen[node], edge])
+        if depth + 1 == n:
+            break
+        fill_table(depth, np.unique(edge))
+        narrowed = {q: allowed[q][node] & table[depth][q][edge] for q in range(depth + 1, n)}
+        # a later support with no edge that fits: no cell below that node
+        alive = np.all([narrowed[q].any(axis=1) for q in narrowed], axis=0)
+        chosen = chosen[alive]
+        allowed = {q: narrowed[q][alive] for q in narrowed}
 
     cells = []
-
-    def extend(depth, chosen, rows, allowed):
-        if depth == n:
-            pairs = [None] * n
-            for i, (a, b) in zip(order, chosen):
-                pairs[i] = (a, b)
-            matrix = np.array([supports[i][b] - supports[i][a] for i, (a, b) in enumerate(pairs)], dtype=np.int64)
-            volume = abs(round(np.linalg.det(matrix.astype(float))))
-            if volume == 0:
-                return
-            rhs = np.array([liftings[i][a] - liftings[i][b] for i, (a, b) in enumerate(pairs)])
-            normal = np.linalg.solve(matrix.astype(float), rhs)
-            cells.append(MixedCell(tuple(pairs), normal, int(volume)))
-            return
-        for e in np.nonzero(allowed[depth])[0]:
-            a, b, edge_rows = candidates[depth][e]
-            together = rows + [edge_rows]
-            if depth == n - 1 and depth >= 2:
-                # the last edge fixes the normal: solve for it and test the inequalities, no linear program
-                if _cell_normal(together) is not None:
-                    extend(depth + 1, chosen + [(a, b)], together, allowed)
-                continue
-            # two edges were checked by the table; from three on a linear program decides
-            if depth >= 2 and not feasible(together):
-                continue
-            narrowed = list(allowed)
-            for later in range(depth + 1, n):
-                narrowed[later] = allowed[later].copy()
-                for f in np.nonzero(allowed[later])[0]:
-                    narrowed[later][f] = compatible(depth, e, later, f)
-                if not narrowed[later].any():  # no edge of a later support fits: no cell below this one
-                    break
-            else:
-                extend(depth + 1, chosen + [(a, b)], together, narrowed)
-
-    extend(0, [], [], [np.ones(len(c), dtype=bool) for c in candidates])
+    for row in chosen:
+        pairs = [None] * n
+        for depth, e in enumerate(row):
+            pairs[order[depth]] = candidates[depth].pairs[e]
+        matrix = np.array([supports[i][b] - supports[i][a] for i, (a, b) in enumerate(pairs)], dtype=np.int64)
+        volume = abs(round(np.linalg.det(matrix.astype(float))))
+        if volume == 0:
+            continue
+        rhs = np.array([liftings[i][a] - liftings[i][b] for i, (a, b) in enumerate(pairs)])
+        normal = np.linalg.solve(matrix.astype(float), rhs)
+        cells.append(MixedCell(tuple(pairs), normal, int(volume)))
     return cells, feasible.solved
 
 
@@ -422,20 +485,20 @@ class CellHomotopy(_PatchedHomotopy):
     start : PolyhedralStart
     cell : MixedCell
     patch : ndarray, shape (n + 1,)
-    terms : BatchEvaluator, optional
-        The evaluator of the random system's terms, one polynomial per term (shared by the cells).
+    shared : _SharedTerms, optional
+        The homogenised random system and the evaluators of its terms, made once for all cells of
+        a start (by :class:`PolyhedralHomotopy`); made here when not given.
     """
 
-    def __init__(self, start, cell, patch, terms=None):
+    def __init__(self, start, cell, patch, shared=None):
         self.start, self.cell = start, cell
         self.patch = np.asarray(patch, dtype=complex)
         self.size = len(self.patch)
         n = self.size - 1
-        degrees = [int(s.sum(axis=1).max()) for s in start.supports]
-        homogeneous = [np.column_stack([d - s.sum(axis=1), s]) for s, d in zip(start.supports, degrees)]
-        self.target = [Polynomial(h, c, n + 1) for h, c in zip(homogeneous, start.coefficients)]
-        self.terms = terms or term_evaluator(start)
-        self.evaluator = BatchEvaluator(self.target)
+        shared = shared or _SharedTerms.of(start)
+        self.target, self.evaluator, self._sizes = shared.target, shared.evaluator, shared.sizes
+        self.terms = shared.terms
+        self._shared = shared
         powers = []
         for support, lifting, (a, b) in zip(start.supports, start.liftings, cell.pairs):
             lifted = support @ cell.normal + lifting
@@ -450,7 +513,6 @@ class CellHomotopy(_PatchedHomotopy):
         self._sum[np.arange(len(self.powers)), self.equation_of_term] = 1.0
         self.evaluations = 0
         self.value_evaluations = 0
-        self._sizes = TermSizes(self.target, projective=True, homogenized=True)
 
     def start_solutions(self, path_indices=None):
         """The binomial system's solutions (homogeneous, on the patch)."""
@@ -484,6 +546,27 @@ class CellHomotopy(_PatchedHomotopy):
         derivative[:, :-1] = -((slope * term_values) @ self._sum)  # d/ds = -d/dt
         return values, jacobian, derivative
 
+    def evaluate_precise(self, point, s, ctx):
+        """H, dH/dX and dH/ds at one point in an mpmath context (the precision rescue's evaluation).
+
+        The same sums as :meth:`evaluate`, term by term: H_i = sum_a t^e_a T_a(X), t = 1 - Re s.
+        """
+        size = self.size
+        term_values, term_jacobian = self._shared.precise().evaluate(point, ctx)
+        t = 1 - ctx.re(ctx.mpc(s))
+        t = min(max(t, ctx.mpf(0)), ctx.mpf(1))
+        values, jacobian, derivative = ctx.matrix(size, 1), ctx.matrix(size, size), ctx.matrix(size, 1)
+        for k, (equation, power) in enumerate(zip(self.equation_of_term.tolist(), self.powers.tolist())):
+            power = ctx.mpf(power)
+            weight = t ** power
+            values[equation] += weight * term_values[k]
+            if power > 0:  # d/ds = -d/dt
+                derivative[equation] -= power * t ** (power - 1) * term_values[k]
+            for j in range(size):
+                jacobian[equation, j] += weight * term_jacobian[k, j]
+        self._precise_patch_row(values, jacobian, point, ctx)
+        return values, jacobian, derivative
+
     def evaluate_values(self, points, s):
         """H alone (with the patch row)."""
         self.value_evaluations += 1
@@ -494,19 +577,115 @@ class CellHomotopy(_PatchedHomotopy):
         return values
 
 
-def term_evaluator(start):
-    """One polynomial per term of the homogenised random system (values and gradients of every term)."""
+@dataclass
+class _SharedTerms:
+    """What every cell's homotopy of one start shares: the homogenised random system and its terms."""
+
+    target: list
+    evaluator: BatchEvaluator
+    sizes: TermSizes
+    terms: BatchEvaluator
+    term_polynomials: list
+    _precise: object = None
+
+    @classmethod
+    def of(cls, start):
+        n = len(start.supports)
+        degrees = [int(s.sum(axis=1).max()) for s in start.supports]
+        homogeneous = [np.column_stack([d - s.sum(axis=1), s]) for s, d in zip(start.supports, degrees)]
+        target = [Polynomial(h, c, n + 1) for h, c in zip(homogeneous, start.coefficients)]
+        polynomials = _term_polynomials(start)
+        return cls(target, BatchEvaluator(target), TermSizes(target, projective=True, homogenized=True),
+                   BatchEvaluator(polynomials), polynomials)
+
+    def precise(self):
+        """The terms' evaluator in mpmath (made when a path first needs the rescue)."""
+        if self._precise is None:
+            self._precise = PrecisionEvaluator(self.term_polynomials)
+        return self._precise
+
+
+class PolyhedralHomotopy(_PatchedHomotopy):
+    """Every cell's homotopy of one polyhedral start as one family: path k belongs to the cell whose
+    volumes, added up in order, first exceed k (so batches, executors and the jump repair see one
+    numbering of all paths).
+
+    Parameters
+    ----------
+    start : PolyhedralStart
+    patch : ndarray, shape (n + 1,)
+
+    Examples
+    --------
+    >>> import numpy as np
+    >>> from numag.system.parse import parse_system
+    >>> system = parse_system(["x*y - 1", "x^2 + y^2 - 4"], ["x", "y"])
+    >>> start = PolyhedralStart.random(system.polynomials, np.random.default_rng(0))
+    >>> family = PolyhedralHomotopy(start, np.array([0.3, 0.5 - 0.2j, 0.1j]))
+    >>> [len(positions) for _, positions in family.parts(np.arange(start.n_paths))] == [c.volume for c in start.cells]
+    True
+    """
+
+    def __init__(self, start, patch):
+        self.start = start
+        self.patch = np.asarray(patch, dtype=complex)
+        self.size = len(self.patch)
+        self._shared = _SharedTerms.of(start)
+        self.target, self.evaluator, self._sizes = self._shared.target, self._shared.evaluator, self._shared.sizes
+        self.ends = np.cumsum([cell.volume for cell in start.cells])
+        self._cells = {}
+        self.evaluations = 0
+
+    @property
+    def n_paths(self):
+        """The mixed volume."""
+        return int(self.ends[-1]) if len(self.ends) else 0
+
+    def cell_homotopy(self, number):
+        """The homotopy of cell ``number`` (made once)."""
+        if number not in self._cells:
+            self._cells[number] = CellHomotopy(self.start, self.start.cells[number], self.patch, shared=self._shared)
+        return self._cells[number]
+
+    def _cell_of(self, indices):
+        return np.searchsorted(self.ends, np.asarray(indices), side="right")
+
+    def parts(self, indices):
+        """(cell homotopy, positions in ``indices`` of its paths), cell by cell."""
+        cells = self._cell_of(indices)
+        return [(self.cell_homotopy(int(c)), np.nonzero(cells == c)[0]) for c in np.unique(cells)]
+
+    def start_solutions(self, indices=None):
+        """The start points of paths ``indices`` (all by default), homogeneous on the patch."""
+        indices = np.arange(self.n_paths) if indices is None else np.asarray(indices)
+        points = np.empty((len(indices), self.size), dtype=complex)
+        cells = self._cell_of(indices)
+        for c in np.unique(cells):
+            mine = cells == c
+            first = self.ends[c] - self.start.cells[c].volume
+            points[mine] = self.cell_homotopy(int(c)).start_solutions(indices[mine] - first)
+        return points
+
+
+def _term_polynomials(start):
+    """One polynomial per term of the homogenised random system."""
     n = len(start.supports)
     polynomials = []
     for support, coefficients in zip(start.supports, start.coefficients):
         degree = int(support.sum(axis=1).max())
         for a, c in zip(support, coefficients):
             polynomials.append(Polynomial(np.concatenate([[degree - a.sum()], a])[None, :], [c], n + 1))
-    return BatchEvaluator(polynomials)
+    return polynomials
 
 
-def track_cells(start, rng, options=None, batch_size=4096):
+def track_cells(start, rng, options=None, batch_size=4096, executor=None, progress=None):
     """Solve the random system of ``start`` by tracking every mixed cell's paths (one patch for all).
+
+    The paths of all cells are numbered in one family (:class:`PolyhedralHomotopy`) and go
+    through :func:`~numag.tracking.service.track` like those of any homotopy: batches on the
+    executor, the cautious retry and the precision rescue of failed paths, and the repair of
+    paths that jumped onto another's endpoint (the random system's solutions are all regular
+    and distinct).
 
     Parameters
     ----------
@@ -515,6 +694,9 @@ def track_cells(start, rng, options=None, batch_size=4096):
         For the patch.
     options : TrackerOptions, optional
     batch_size : int
+    executor : Executor or callable, optional
+        As for :func:`~numag.tracking.service.track` (None: in this process).
+    progress : Progress, optional
 
     Returns
     -------
@@ -534,13 +716,10 @@ def track_cells(start, rng, options=None, batch_size=4096):
     """
     n = len(start.supports)
     patch = (rng.standard_normal(n + 1) + 1j * rng.standard_normal(n + 1)) / np.sqrt(2 * (n + 1))
-    terms = term_evaluator(start)
-    found, counts = [], PathCounts()
-    for cell in start.cells:
-        homotopy = CellHomotopy(start, cell, patch, terms)
-        # cells are tracked one after another, each as one batch (their paths differ in the powers of t)
-        run = track(homotopy, homotopy.start_solutions(), options, batch_size=batch_size)
-        counts = counts + run.counts
-        regular = (run.status == PathStatus.CONVERGED) | (run.status == PathStatus.SINGULAR_ENDPOINT)
-        found.append(run.affine_endpoints()[regular])
-    return (np.vstack(found) if found else np.zeros((0, n), dtype=complex)), counts
+    homotopy = PolyhedralHomotopy(start, patch)
+    if homotopy.n_paths == 0:
+        return np.zeros((0, n), dtype=complex), PathCounts()
+    run = track(homotopy, homotopy.start_solutions, options, count=homotopy.n_paths, executor=executor,
+                batch_size=batch_size, progress=progress)
+    regular = (run.status == PathStatus.CONVERGED) | (run.status == PathStatus.SINGULAR_ENDPOINT)
+    return run.affine_endpoints()[regular], run.counts

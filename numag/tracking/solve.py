@@ -315,7 +315,11 @@ def solve_system(system, options=None, seed=None, progress=None, execution=None)
         # the random system on the supports, solved through the mixed cells, then moved to the target
         # (both stages count against the work limit: every path is tracked twice)
         charge_paths(choice.n_paths, "the polyhedral homotopy's first stage (the mixed volume)")
-        points, stage_one = track_cells(choice.polyhedral, rng, options.tracker, options.batch_size)
+        stage_one_started = time.perf_counter()
+        points, stage_one = track_cells(choice.polyhedral, rng, options.tracker, options.batch_size,
+                                        executor=_executor_of(execution or Execution(),
+                                                              -(-choice.n_paths // options.batch_size)))
+        stage_one_seconds = time.perf_counter() - stage_one_started
         random_system = PolynomialSystem(target.variables, choice.polyhedral.random_polynomials())
 
         def fresh_homotopy():  # another gamma and patch for every path (one round of the jump repair)
@@ -338,6 +342,7 @@ def solve_system(system, options=None, seed=None, progress=None, execution=None)
     block = choice.report()
     if stage_one is not None:
         block["random_system_paths"] = stage_one.report()
+        block["random_system_seconds"] = round(stage_one_seconds, 4)
     result.extra["start"] = block
     return _in_user_units(result, system, scaling)
 

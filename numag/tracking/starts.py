@@ -31,13 +31,14 @@ import numpy as np
 
 from ..errors import InputError
 from .multihomogeneous import GroupSource, VariableGroups, best_groups, multihomogeneous_bezout
-from .polyhedral import PolyhedralStart
+from .polyhedral import MAX_LINEAR_PROGRAMS, PolyhedralStart
 
 __all__ = ["StartKind", "StartChoice", "choose_start", "SECONDS_PER_LINEAR_PROGRAM", "SECONDS_PER_PATH"]
 
-#: Estimates for ``auto`` (benchmarks/bench_starts.py --quick on the shared 2-core machine, decision 0047):
-#: one linear program of the cell search (scipy's set-up dominates) ...
-SECONDS_PER_LINEAR_PROGRAM = 0.003
+#: Estimates for ``auto`` (benchmarks/bench_starts.py --quick on the shared 2-core machine, decisions 0047
+#: and 0055): one linear program of the cell search (50-70 microseconds in the batched simplex of
+#: numag.numeric.feasibility; 3 ms with scipy's linprog) ...
+SECONDS_PER_LINEAR_PROGRAM = 1e-4
 #: ... and one tracked path (cyclic 6 by total degree: 232 s for 720 paths; eigenproblems 0.02 s a path).
 SECONDS_PER_PATH = 0.1
 
@@ -161,8 +162,11 @@ def choose_start(system, kind, groups=None, rng=None):
             return StartChoice(kind, counts, "asked for", chosen_groups, setup_seconds=seconds)
     polyhedral = None
     cheapest = min(counts.values())
+    table = _relation_table_size(system)
+    # auto stays below the cell search's guard on linear programs (which would end the run, not fall back);
+    # the table is not the whole search (katsura 6: 32,718 programs for a table of 14,479), hence a quarter
     if kind == StartKind.POLYHEDRAL or \
-            _relation_table_size(system) * SECONDS_PER_LINEAR_PROGRAM <= cheapest * SECONDS_PER_PATH:
+            (table * SECONDS_PER_LINEAR_PROGRAM <= cheapest * SECONDS_PER_PATH and table <= MAX_LINEAR_PROGRAMS // 4):
         started = time.perf_counter()
         polyhedral = PolyhedralStart.random(system.polynomials, rng)
         counts[StartKind.POLYHEDRAL.value] = polyhedral.n_paths
