@@ -498,7 +498,9 @@ def merge_cells(cells, curve):
     span = high - low
     # the trace reaches half the box beyond it; unbounded cells end there
     floor, ceiling = low[1] - 0.5 * span[1], high[1] + 0.5 * span[1]
-    tolerance = 1e-6 * span[1]
+    # the polyline's chords stray from the curve by up to about a trace step (1/200 of the box diagonal):
+    # a passage narrower than 1/100 of the box's height is not trusted, and the cells stay apart (the safe side)
+    tolerance = 0.01 * span[1]
     lines = sorted({c.line for c in cells})
     parent = list(range(len(cells)))
 
