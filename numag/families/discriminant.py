@@ -47,11 +47,12 @@ import numpy as np
 
 from ..errors import InputError, LimitError
 from ..system.exact import ExactCoefficient
-from ..system.family import Family
+from ..system.family import Family, ParameterRange
 from ..system.polynomial import Polynomial, PolynomialSystem, combined_minor, determinant
 from ..numeric.cluster import cluster_labels, groups
 from ..numeric.evaluate import BatchEvaluator
 from ..numeric.refine import project_to_variety
+from ..numeric.scaling import Scaling
 from ..numeric.seeds import random_state
 from ..tracking.solve import solve_system
 from ..witness.cascade import combine_equations, linear_form, track_moves
@@ -267,6 +268,17 @@ def discriminant(family, options=None, seed=None, progress=None):
         raise InputError(f"the family has {codimension} equations in {n} variables: its members are empty for "
                          "generic parameters")
     seed, rng = random_state(seed)
+    scaling = Scaling.balancing(family.system)
+    if not scaling.is_identity:
+        # every tolerance below is relative to numbers of order one: compute in balanced units (powers of ten
+        # of x and p together; exact input stays exact) and report in the user's (decision 0002)
+        factors = scaling.variable_factors[n:]
+        ranges = {name: ParameterRange(name, r.low / factors[family.parameters.index(name)],
+                                       r.high / factors[family.parameters.index(name)])
+                  for name, r in family.ranges.items()}
+        computed = discriminant(Family(scaling.scale_system(family.system), family.parameters, ranges), options,
+                                seed=seed, progress=progress)
+        return _in_user_units(computed, factors, family)
     started = time.perf_counter()
     paths, notes = {}, []
     components = _finite_components(family, codimension, options, rng, paths, notes, progress)
@@ -295,10 +307,35 @@ def discriminant(family, options=None, seed=None, progress=None):
                 notes.append(f"{conflicts} pair(s) of neighbouring cells are not separated by the traced curve but "
                              "have different counts: the trace misses an arc there (real discriminant points over "
                              "non-real singular points are not traced); those cells were kept apart.")
-    elif options.regions:
+    elif m > 2 and options.regions:
         notes.append("Regions are given for one or two parameters; with more, sweep a grid instead.")
     return Discriminant(family.variables, family.parameters, family.system.to_texts(), codimension, components,
                         real_points, regions, paths, notes, seed, time.perf_counter() - started, curve, plane_regions)
+
+
+def _in_user_units(result, factors, family):
+    """A discriminant computed in balanced units, with its parameter values multiplied back by ``factors``."""
+    scale = np.asarray(factors, dtype=float)
+    for component in result.components:
+        component.points = component.points * scale
+        if component.slice_rows.size:  # a . (1, p / f) = 0  <=>  (a_0, a / f) . (1, p) = 0
+            component.slice_rows = np.column_stack([component.slice_rows[:, :1], component.slice_rows[:, 1:] / scale])
+    result.real_points = result.real_points * scale[0] if len(scale) == 1 else result.real_points
+    along = scale[-1]  # the regions' intervals are in the last parameter (the only one, or the second of two)
+    for region in result.regions:
+        region.low, region.high = region.low * along, region.high * along
+        region.sample = region.sample * scale
+        if region.line is not None:
+            region.line = float(region.line * scale[0])
+    for region in result.plane_regions:
+        region.sample = region.sample * scale
+    if result.curve is not None:
+        result.curve.arcs = [arc * scale for arc in result.curve.arcs]
+        result.curve.box = tuple(corner * scale for corner in result.curve.box)
+        for point in result.curve.special:
+            point.point = point.point * scale
+    result.variables, result.equations = family.variables, family.system.to_texts()
+    return result
 
 
 def _traced_curve(family, codimension, options, rng, notes, progress):
