@@ -11,6 +11,7 @@ import numpy as np
 import pytest
 
 from numag.app.cli import main
+from numag.families.branches import CountKind
 from numag.families.discriminant import Discriminant, DiscriminantOptions, discriminant
 from numag.families.plane import CurvePointKind, _nodes, _refined_node, strip_blocked
 from numag.system.files import family_from_mapping
@@ -124,3 +125,15 @@ def test_crossing_pieces_of_the_quartic_give_its_node():
     delta = sympy.discriminant(x ** 4 + a * x ** 2 + b * x + 1, x)  # the reference
     at = {a: nodes[0].point[0], b: nodes[0].point[1]}
     assert abs(float(delta.subs(at))) <= 1e-9 and np.allclose(nodes[0].point, [-2, 0], atol=1e-12)
+
+
+def test_members_of_dimension_two_say_they_are_not_counted():
+    # The spheres x^2 + y^2 + z^2 = p are smooth surfaces except at p = 0, the cone's vertex (common practice,
+    # no source); surfaces get no real count, and the result says so.
+    family = family_from_mapping({"variables": ["x", "y", "z"], "parameters": ["p"],
+                                  "equations": ["x^2 + y^2 + z^2 - p"]})
+    result = discriminant(family, DiscriminantOptions(at_infinity=False), seed=3)
+    assert np.allclose(result.real_points, [0.0], atol=1e-8)
+    assert len(result.regions) == 2
+    assert all(r.count.kind is CountKind.NOT_COUNTED for r in result.regions)
+    assert all(r.to_dict()["count"] == "not counted" for r in result.regions)

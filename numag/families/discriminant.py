@@ -159,6 +159,7 @@ class Region:
     def to_dict(self):
         return {"low": encode_float(self.low) if self.low != -math.inf else "-infinity",
                 "high": encode_float(self.high), "sample": [float(v) for v in self.sample],
+                "count": self.count.kind.value,
                 "real_solutions": self.count.solutions, "real_branches": self.count.branches,
                 "failed": int(self.count.failed), "line": self.line}
 

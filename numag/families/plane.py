@@ -144,6 +144,7 @@ class PlaneRegion:
 
     def to_dict(self):
         return {"cells": [int(c) for c in self.cells], "sample": [float(v) for v in self.sample],
+                "count": self.count.kind.value,
                 "real_solutions": self.count.solutions, "real_branches": self.count.branches,
                 "failed": int(self.count.failed)}
 

@@ -9,6 +9,7 @@ from ...system.files import load_family
 from ...system.safeio import write_file
 from ...tracking.tracker import FAILURE_LABELS
 from ...families.discriminant import DiscriminantOptions, discriminant
+from ...families.branches import CountKind
 from ...families.records import ComponentKind
 from ..picture import discriminant_svg, sweep_svg
 from ..report import CAUTION, dumps
@@ -50,9 +51,9 @@ def _failed(result):
 
 
 def _count_text(count):
-    if count.solutions is not None:
+    if count.kind is CountKind.SOLUTIONS:
         return counted(count.solutions, "real solution")
-    if count.branches is not None:
+    if count.kind is CountKind.BRANCHES:
         return counted(count.branches, "real branch", "real branches")
     return "not counted (members of dimension 2 or more)"
 
