@@ -454,7 +454,7 @@ def strip_blocked(arcs, left, right):
         for k in np.nonzero(inside)[0]:
             y0 = a[k, 1] + enter[k] * (b[k, 1] - a[k, 1]) if math.isfinite(enter[k]) else a[k, 1]
             y1 = a[k, 1] + leave[k] * (b[k, 1] - a[k, 1]) if math.isfinite(leave[k]) else b[k, 1]
-            intervals.append((min(y0, y1), max(y0, y1)))
+            intervals.append((float(min(y0, y1)), float(max(y0, y1))))
     intervals.sort()
     merged = []
     for low, high in intervals:
