@@ -213,7 +213,8 @@ class Discriminant:
 
     def to_dict(self):
         return {"kind": "discriminant", "curve": None if self.curve is None else self.curve.to_dict(),
-                "plane_regions": [r.to_dict() for r in self.plane_regions], "variables": list(self.variables), "parameters": list(self.parameters),
+                "plane_regions": [r.to_dict() for r in self.plane_regions], "variables": list(self.variables),
+                "parameters": list(self.parameters),
                 "equations": list(self.equations), "codimension": int(self.codimension),
                 "components": [c.to_dict() for c in self.components],
                 "real_points": [float(v) for v in self.real_points], "regions": [r.to_dict() for r in self.regions],

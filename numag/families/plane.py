@@ -188,7 +188,6 @@ def _x_extent(incidence, n, box, lines, rng):
     S with p_1 as its only parameter is a square family after n + 1 real random combinations of its
     equations (solutions of the combinations off S only widen the box).
     """
-    total = n + 2
     order = list(range(n)) + [n + 1, n]  # (x, p_2, p_1): the parameter last
     polynomials = [_permuted(p.numeric(), order) for p in incidence.polynomials]
     if len(polynomials) > n + 1:
