@@ -342,6 +342,11 @@ def _in_user_units(result, factors, family):
 
 def _traced_curve(family, codimension, options, rng, notes, progress):
     """The real discriminant curve of two parameters (None, with a note, where it cannot be traced)."""
+    if family.system.n_equations != family.n_variables:
+        # measured: a four-bar with two free lengths had not been traced after 13 minutes (decision 0054)
+        notes.append("The real discriminant curve is traced for square members only (isolated solutions); for "
+                     "members of positive dimension the regions are the cells on lines.")
+        return None
     if progress is not None:
         progress("tracing the real discriminant curve")
     try:
