@@ -3,8 +3,9 @@
 * a sweep over one parameter: the number of real solutions against the parameter (a step line), the
   values where J_x drops rank marked;
 * a discriminant of one parameter: the parameter line with the real discriminant points and each region
-  labelled with its real count; of two parameters: the cells (line, interval) coloured by their count and
-  the real discriminant points on the lines.
+  labelled with its real count; of two parameters: the cells (line, interval) coloured by their count,
+  the real discriminant points on the lines, and (when traced) the real discriminant curve with its cusps
+  and nodes and each cell's region of the plane.
 
 Examples
 --------
@@ -135,17 +136,23 @@ def _cells_svg(result):
     y = _scale(low, high, _HEIGHT - _MARGIN, _MARGIN / 2)
     top = max([_count(r)[0] or 0 for r in result.regions] + [1])
     items = []
-    for region in result.regions:
+    region_of = {cell: number for number, region in enumerate(result.plane_regions, 1) for cell in region.cells}
+    for index, region in enumerate(result.regions):
         value, _ = _count(region)
         colour = _COLOURS[min(len(_COLOURS) - 1, int((value or 0) * (len(_COLOURS) - 1) / top))]
         left, right = x(region.line - step / 2), x(region.line + step / 2)
         bottom, upper = y(max(region.low, low)), y(min(region.high, high))
         items.append(f'<rect x="{left:.1f}" y="{upper:.1f}" width="{right - left:.1f}" height="{bottom - upper:.1f}" '
                      f'fill="{colour}" stroke="white"/>')
-        items.append(_text((left + right) / 2, (bottom + upper) / 2 + 4, "?" if value is None else value))
+        label = "?" if value is None else str(value)
+        if index in region_of:
+            label += f" (R{region_of[index]})"
+        items.append(_text((left + right) / 2, (bottom + upper) / 2 + 4, label))
         for edge in (region.low, region.high):
             if not math.isinf(edge):
                 items.append(f'<circle cx="{x(region.line):.1f}" cy="{y(edge):.1f}" r="3" fill="#d95f02"/>')
+    if result.curve is not None:
+        items += _curve_items(result.curve, x, y)
     for line in lines:
         items.append(_text(x(line), _HEIGHT - _MARGIN + 16, f"{line:.4g}"))
     for tick in np.linspace(low, high, 6):
@@ -153,6 +160,29 @@ def _cells_svg(result):
     items.append(_text(_WIDTH / 2, _HEIGHT - 14, result.parameters[0]))
     items.append(f'<text x="14" y="{_HEIGHT / 2}" transform="rotate(-90 14 {_HEIGHT / 2})" '
                  f'text-anchor="middle">{escape(result.parameters[1])}</text>')
-    items.append(_text(_WIDTH / 2, 16, f"cells on lines {result.parameters[0]} = const: real counts "
-                       "(dots: real discriminant points)"))
+    title = (f"cells on lines {result.parameters[0]} = const: real counts (Rk: region of the plane; curve: the "
+             "real discriminant; triangles: cusps, squares: nodes)" if result.curve is not None else
+             f"cells on lines {result.parameters[0]} = const: real counts (dots: real discriminant points)")
+    items.append(_text(_WIDTH / 2, 16, title, size=11))
     return _document(_WIDTH, _HEIGHT, items)
+
+
+def _curve_items(curve, x, y):
+    """The traced real discriminant curve (clipped to the picture's frame), its cusps and nodes."""
+    left, right = sorted((x(curve.box[0][0]), x(curve.box[1][0])))
+    top, bottom = sorted((y(curve.box[1][1]), y(curve.box[0][1])))
+    items = [f'<clipPath id="frame"><rect x="{min(left, _MARGIN):.1f}" y="{_MARGIN / 2:.1f}" '
+             f'width="{max(right, _WIDTH - _MARGIN / 2) - min(left, _MARGIN):.1f}" '
+             f'height="{_HEIGHT - 1.5 * _MARGIN:.1f}"/></clipPath>']
+    for arc in curve.arcs:
+        points = " ".join(f"{x(p):.1f},{y(q):.1f}" for p, q in arc)
+        items.append(f'<polyline clip-path="url(#frame)" fill="none" stroke="#d95f02" stroke-width="1.5" '
+                     f'points="{points}"/>')
+    for special in curve.special:
+        cx, cy = x(special.point[0]), y(special.point[1])
+        if special.kind.value == "cusp":
+            items.append(f'<polygon points="{cx:.1f},{cy - 6:.1f} {cx - 5:.1f},{cy + 4:.1f} {cx + 5:.1f},{cy + 4:.1f}" '
+                         'fill="#1b9e77"/>')
+        else:
+            items.append(f'<rect x="{cx - 4:.1f}" y="{cy - 4:.1f}" width="8" height="8" fill="#1b9e77"/>')
+    return items

@@ -21,6 +21,7 @@ Examples
 """
 
 from dataclasses import dataclass
+import enum
 
 import numpy as np
 
@@ -31,7 +32,15 @@ from ..numeric.cluster import cluster_labels, groups
 from ..numeric.seeds import random_state
 from .sweep import move_points, sweep
 
-__all__ = ["RealCount", "real_branches", "real_counts"]
+__all__ = ["CountKind", "RealCount", "real_branches", "real_counts"]
+
+
+class CountKind(str, enum.Enum):
+    """What the real count of a member is."""
+
+    SOLUTIONS = "real solutions"   #: isolated members: distinct real solutions
+    BRANCHES = "real branches"     #: curve members: connected components of the real points
+    NOT_COUNTED = "not counted"    #: members of dimension 2 or more: no real count is given
 
 
 @dataclass(frozen=True)
@@ -52,6 +61,15 @@ class RealCount:
     branches: object = None
     failed: int = 0
 
+    @property
+    def kind(self):
+        """SOLUTIONS, BRANCHES, or NOT_COUNTED (members of dimension 2 or more)."""
+        if self.solutions is not None:
+            return CountKind.SOLUTIONS
+        if self.branches is not None:
+            return CountKind.BRANCHES
+        return CountKind.NOT_COUNTED
+
 
 def real_counts(family, samples, seed=None):
     """The real count of the members of a real family at real sample values, all samples together.
@@ -61,7 +79,7 @@ def real_counts(family, samples, seed=None):
     points of l (a sweep of the family F = 0, det [J_x F; l] = 0), the real points over the middle of
     each interval between critical values (a sweep of the family F = 0, l . x = w with w a parameter),
     and every arc moved along the real segment to the critical values at the ends of its interval.
-    Members of larger dimension get an empty :class:`RealCount`.
+    Members of larger dimension get an empty :class:`RealCount` (kind ``CountKind.NOT_COUNTED``).
 
     Parameters
     ----------

@@ -19,8 +19,9 @@ For one parameter the discriminant is a set of points; the real ones, sorted, cu
 line into regions, and one sample per region is solved: its real solutions (isolated members) or
 real branches (curve members; :mod:`numag.families.branches`). For two parameters the plane is cut
 by vertical lines at evenly spaced values of the first parameter (over its ``[ranges]`` interval),
-and each line is treated as a one-parameter family: the regions of the plane are given as cells
-(line, interval) with their counts.
+each line treated as a one-parameter family (cells: line, interval, count); the real discriminant
+curve is traced, its cusps and nodes found, and the cells merged into regions of the plane
+(:mod:`numag.families.plane`).
 
 Members whose closure is singular at infinity in x give components told apart (kind "at infinity"),
 from the same computation on the hyperplane at infinity (x homogenised, X_0 = 0, in a random chart).
@@ -37,7 +38,7 @@ Examples
 [(-inf, 0.0, 0), (0.0, inf, 2)]
 """
 
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 import itertools
 import math
 import time
@@ -46,17 +47,19 @@ import numpy as np
 
 from ..errors import InputError, LimitError
 from ..system.exact import ExactCoefficient
-from ..system.family import Family
+from ..system.family import Family, ParameterRange
 from ..system.polynomial import Polynomial, PolynomialSystem, combined_minor, determinant
 from ..numeric.cluster import cluster_labels, groups
 from ..numeric.evaluate import BatchEvaluator
 from ..numeric.refine import project_to_variety
+from ..numeric.scaling import Scaling
 from ..numeric.seeds import random_state
 from ..tracking.solve import solve_system
 from ..witness.cascade import combine_equations, linear_form, track_moves
 from ..witness.decompose import DecomposeOptions, decompose, holding_equations
 from ..singular.locus import minors_system
 from .branches import RealCount, real_counts
+from .plane import DiscriminantCurve, PlaneRegion, merge_cells, trace_discriminant_curve
 from .records import ComponentKind, decode_complex, decode_float, encode_complex, encode_float
 
 __all__ = ["DiscriminantOptions", "DiscriminantComponent", "Region", "Discriminant", "discriminant"]
@@ -80,6 +83,8 @@ class DiscriminantOptions:
         Two parameters: vertical lines across the first parameter's range.
     at_infinity : bool
         Also look for members singular at infinity in x (a second computation of the same size).
+    curve : bool
+        Two parameters: trace the real discriminant curve, find its cusps and nodes, merge the cells.
     """
 
     decompose: DecomposeOptions = DecomposeOptions()
@@ -87,6 +92,7 @@ class DiscriminantOptions:
     regions: bool = True
     lines: int = 7
     at_infinity: bool = True
+    curve: bool = True
 
 
 @dataclass
@@ -153,6 +159,7 @@ class Region:
     def to_dict(self):
         return {"low": encode_float(self.low) if self.low != -math.inf else "-infinity",
                 "high": encode_float(self.high), "sample": [float(v) for v in self.sample],
+                "count": self.count.kind.value,
                 "real_solutions": self.count.solutions, "real_branches": self.count.branches,
                 "failed": int(self.count.failed), "line": self.line}
 
@@ -178,6 +185,11 @@ class Discriminant:
     real_points : ndarray of float
         One parameter: the real discriminant points (finite kind), sorted.
     regions : list of Region
+        One parameter: intervals of the line; two: cells (line, interval).
+    curve : DiscriminantCurve or None
+        Two parameters: the traced real discriminant curve, its cusps and nodes.
+    plane_regions : list of PlaneRegion
+        Two parameters: the cells merged into regions of the plane, each with one solved sample.
     paths : dict
         Tracked paths by status over every homotopy.
     notes : list of str
@@ -196,9 +208,13 @@ class Discriminant:
     notes: list
     seed: int
     seconds: float
+    curve: object = None
+    plane_regions: list = field(default_factory=list)
 
     def to_dict(self):
-        return {"kind": "discriminant", "variables": list(self.variables), "parameters": list(self.parameters),
+        return {"kind": "discriminant", "curve": None if self.curve is None else self.curve.to_dict(),
+                "plane_regions": [r.to_dict() for r in self.plane_regions], "variables": list(self.variables),
+                "parameters": list(self.parameters),
                 "equations": list(self.equations), "codimension": int(self.codimension),
                 "components": [c.to_dict() for c in self.components],
                 "real_points": [float(v) for v in self.real_points], "regions": [r.to_dict() for r in self.regions],
@@ -210,7 +226,9 @@ class Discriminant:
         return cls(tuple(data["variables"]), tuple(data["parameters"]), list(data["equations"]),
                    int(data["codimension"]), [DiscriminantComponent.from_dict(c) for c in data["components"]],
                    np.array(data["real_points"], dtype=float), [Region.from_dict(r) for r in data["regions"]],
-                   dict(data["paths"]), list(data["notes"]), int(data["seed"]), decode_float(data["seconds"]))
+                   dict(data["paths"]), list(data["notes"]), int(data["seed"]), decode_float(data["seconds"]),
+                   DiscriminantCurve.from_dict(data["curve"]) if data.get("curve") else None,
+                   [PlaneRegion.from_dict(r) for r in data.get("plane_regions", [])])
 
 
 def _add_counts(total, counts):
@@ -252,6 +270,17 @@ def discriminant(family, options=None, seed=None, progress=None):
         raise InputError(f"the family has {codimension} equations in {n} variables: its members are empty for "
                          "generic parameters")
     seed, rng = random_state(seed)
+    scaling = Scaling.balancing(family.system)
+    if not scaling.is_identity:
+        # every tolerance below is relative to numbers of order one: compute in balanced units (powers of ten
+        # of x and p together; exact input stays exact) and report in the user's (decision 0002)
+        factors = scaling.variable_factors[n:]
+        ranges = {name: ParameterRange(name, r.low / factors[family.parameters.index(name)],
+                                       r.high / factors[family.parameters.index(name)])
+                  for name, r in family.ranges.items()}
+        computed = discriminant(Family(scaling.scale_system(family.system), family.parameters, ranges), options,
+                                seed=seed, progress=progress)
+        return _in_user_units(computed, factors, family)
     started = time.perf_counter()
     paths, notes = {}, []
     components = _finite_components(family, codimension, options, rng, paths, notes, progress)
@@ -269,12 +298,64 @@ def discriminant(family, options=None, seed=None, progress=None):
             # solutions that run off to infinity change the real count too: those values cut the line as well
             cuts = np.union1d(real_points, _real_values(components, ComponentKind.AT_INFINITY))
             regions = _regions_on_line(family, cuts, rng, lambda value: np.array([value]), None)
-    elif m == 2 and options.regions:
+    curve, plane_regions = None, []
+    if m == 2 and options.curve:
+        curve = _traced_curve(family, codimension, options, rng, notes, progress)
+    if m == 2 and options.regions:
         regions = _regions_on_lines(family, options, rng, notes, progress)
-    elif options.regions:
+        if curve is not None:
+            plane_regions, conflicts = merge_cells(regions, curve)
+            if conflicts:
+                notes.append(f"{conflicts} pair(s) of neighbouring cells are not separated by the traced curve but "
+                             "have different counts: the trace misses an arc there (real discriminant points over "
+                             "non-real singular points are not traced); those cells were kept apart.")
+    elif m > 2 and options.regions:
         notes.append("Regions are given for one or two parameters; with more, sweep a grid instead.")
     return Discriminant(family.variables, family.parameters, family.system.to_texts(), codimension, components,
-                        real_points, regions, paths, notes, seed, time.perf_counter() - started)
+                        real_points, regions, paths, notes, seed, time.perf_counter() - started, curve, plane_regions)
+
+
+def _in_user_units(result, factors, family):
+    """A discriminant computed in balanced units, with its parameter values multiplied back by ``factors``."""
+    scale = np.asarray(factors, dtype=float)
+    for component in result.components:
+        component.points = component.points * scale
+        if component.slice_rows.size:  # a . (1, p / f) = 0  <=>  (a_0, a / f) . (1, p) = 0
+            component.slice_rows = np.column_stack([component.slice_rows[:, :1], component.slice_rows[:, 1:] / scale])
+    result.real_points = result.real_points * scale[0] if len(scale) == 1 else result.real_points
+    along = scale[-1]  # the regions' intervals are in the last parameter (the only one, or the second of two)
+    for region in result.regions:
+        region.low, region.high = region.low * along, region.high * along
+        region.sample = region.sample * scale
+        if region.line is not None:
+            region.line = float(region.line * scale[0])
+    for region in result.plane_regions:
+        region.sample = region.sample * scale
+    if result.curve is not None:
+        result.curve.arcs = [arc * scale for arc in result.curve.arcs]
+        result.curve.box = tuple(corner * scale for corner in result.curve.box)
+        for point in result.curve.special:
+            point.point = point.point * scale
+    result.variables, result.equations = family.variables, family.system.to_texts()
+    return result
+
+
+def _traced_curve(family, codimension, options, rng, notes, progress):
+    """The real discriminant curve of two parameters (None, with a note, where it cannot be traced)."""
+    if family.system.n_equations != family.n_variables:
+        # measured: a four-bar with two free lengths had not been traced after 13 minutes (decision 0054)
+        notes.append("The real discriminant curve is traced for square members only (isolated solutions); for "
+                     "members of positive dimension the regions are the cells on lines.")
+        return None
+    if progress is not None:
+        progress("tracing the real discriminant curve")
+    try:
+        curve = trace_discriminant_curve(family, codimension, options.max_exact_minors, options.lines, rng)
+    except InputError as err:
+        notes.append(f"The real discriminant curve was not traced: {err}.")
+        return None
+    notes += curve.notes
+    return curve
 
 
 def _real_values(components, kind):
@@ -519,7 +600,7 @@ def _regions_on_lines(family, options, rng, notes, progress):
         if progress is not None:
             progress(f"line {first} = {value:.6g}")
         inner = DiscriminantOptions(options.decompose, options.max_exact_minors, regions=False,
-                                    at_infinity=False)
+                                    at_infinity=False, curve=False)
         along = discriminant(line, inner, seed=int(rng.integers(2 ** 63)))
         regions += _regions_on_line(line, along.real_points, rng,
                                     lambda sample, value=value: np.array([value, sample]), float(value))

@@ -35,7 +35,8 @@ from ..system.family import Family
 from ..system.polynomial import Polynomial
 from ..run.executor import charge_paths, check_memory, make_executor
 from ..numeric.cluster import cluster_labels, groups
-from ..numeric.evaluate import BatchEvaluator, TermSizes
+from ..numeric.evaluate import BatchEvaluator, PrecisionEvaluator, TermSizes
+from ..numeric.scaling import Scaling
 from ..numeric.seeds import random_state
 from ..tracking.homotopy import random_unit_complex
 from ..tracking.service import PathCounts, track
@@ -68,6 +69,9 @@ class SweepOptions:
         Largest relative imaginary part of a real solution.
     singular_condition : float
         Condition number of J_x above which a solution is a rank-drop point.
+    balance : bool
+        Track in balanced units (:class:`~numag.numeric.scaling.Scaling` of x and p together, powers of
+        ten): a family in millimetres sweeps as in metres. Points and values are reported in the user's units.
     """
 
     tracker: TrackerOptions = TrackerOptions()
@@ -75,6 +79,7 @@ class SweepOptions:
     cluster_tolerance: float = 1e-6
     real_tolerance: float = 1e-8
     singular_condition: float = 1e8
+    balance: bool = True
 
 
 class SweepHomotopy:
@@ -113,6 +118,7 @@ class SweepHomotopy:
         self._sizes = TermSizes(self.target)
         self.evaluations = 0
         self.value_evaluations = 0
+        self._precise = None  # built on the first rescue in mpmath
 
     def labels_of(self, points):
         """The value number of each point (from its label coordinate)."""
@@ -181,6 +187,38 @@ class SweepHomotopy:
         values[:, :self.n] = self.evaluator.evaluate(full, jacobian=False)
         values[:, -1] = points[:, :-1] @ self.patch - 1
         return values
+
+    def evaluate_precise(self, point, s, ctx):
+        """H, dH/dX and dH/ds at one point in an mpmath context (the tracker's rescue of failed paths).
+
+        Same rows as :meth:`evaluate`; the label is read in double (it only names the target value).
+        Returns ctx matrices of shapes (N, 1), (N, N) and (N, 1).
+        """
+        if self._precise is None:
+            self._precise = PrecisionEvaluator(self.target)
+        n, m, size = self.n, self.m, self.size
+        label = int(np.clip(round(float(ctx.re(point[-1])) / LABEL_UNIT) - 1, 0, len(self.targets) - 1))
+        start = self.start_values if self.start_values.ndim == 1 else self.start_values[label]
+        q = [ctx.mpc(v.real, v.imag) for v in self.targets[label]]
+        p_start = [ctx.mpc(v.real, v.imag) for v in start]
+        gamma = ctx.mpc(self.gamma.real, self.gamma.imag)
+        denominator = 1 + (gamma - 1) * s
+        tau, dtau = gamma * s / denominator, gamma / denominator ** 2
+        p = [tau * a + (1 - tau) * b for a, b in zip(p_start, q)]
+        dp = [dtau * (a - b) for a, b in zip(p_start, q)]
+        f_values, f_jac = self._precise.evaluate(list(point[:n + 1]) + p, ctx)
+        values, jacobian, derivative = ctx.matrix(size, 1), ctx.matrix(size, size), ctx.matrix(size, 1)
+        for i in range(n):
+            values[i] = f_values[i]
+            derivative[i] = sum(f_jac[i, n + 1 + j] * dp[j] for j in range(m))
+            for j in range(n + 1):
+                jacobian[i, j] = f_jac[i, j]
+        jacobian[n, n + 1] = 1  # the label row: value 0, the label never moves
+        patch = [ctx.mpc(a.real, a.imag) for a in self.patch]
+        values[size - 1] = sum(a * x for a, x in zip(patch, point[:n + 1])) - 1
+        for j in range(n + 1):
+            jacobian[size - 1, j] = patch[j]
+        return values, jacobian, derivative
 
     def row_scales(self, points):
         """Sizes of the equations' gradient terms, then 1 for the label row."""
@@ -400,10 +438,14 @@ def sweep(family, values, options=None, seed=None, progress=None, execution=None
         raise InputError(f"parameter values must be finite, at most {MAX_VALUES:,} of them")
     seed, rng = random_state(seed)
     started = time.perf_counter()
+    user_family, user_values = family, values
+    family, x_factors, p_factors = _in_computed_units(family, options.balance)
+    values = values / p_factors
     start_parameters = (rng.standard_normal(family.n_parameters) + 1j * rng.standard_normal(family.n_parameters))
     start = solve_system(family.member(list(start_parameters)), SolveOptions(tracker=options.tracker),
                          seed=int(rng.integers(2 ** 63)))
-    solutions = np.array([s.point for s in start.solutions if s.isolated and s.multiplicity == 1])
+    solutions = np.array([s.point for s in start.solutions if s.isolated and s.multiplicity == 1],
+                         dtype=complex).reshape(-1, family.n_variables)
     start_failed = int(PathCounts.of(start.status).failed)
     size = family.n_variables + 2
     total = len(values) * len(solutions)
@@ -428,10 +470,30 @@ def sweep(family, values, options=None, seed=None, progress=None, execution=None
         members = [MemberSolutions(v, np.zeros((0, family.n_variables), complex), np.zeros(0, bool), [],
                                    np.zeros(0, np.int64)) for v in values]
         counts, description = PathCounts().report(), {}
+    for member, value in zip(members, user_values):  # back to the user's units
+        member.parameters = value
+        member.points = member.points * x_factors
     counts = dict(counts)
     counts["start_failed"] = start_failed
-    return SweepResult(family.variables, family.parameters, family.system.to_texts(), members, start_parameters,
-                       len(solutions), counts, seed, time.perf_counter() - started, description)
+    return SweepResult(user_family.variables, user_family.parameters, user_family.system.to_texts(), members,
+                       start_parameters * p_factors, len(solutions), counts, seed, time.perf_counter() - started,
+                       description)
+
+
+def _in_computed_units(family, balance):
+    """The family in balanced units (x and p scaled together by powers of ten) and the factors of x and p.
+
+    x_user = x_factors * x_computed, p_user = p_factors * p_computed (decision 0002: every threshold is
+    relative to numbers of order one; powers of ten keep exact input exact).
+    """
+    n = family.n_variables
+    if not balance:
+        return family, np.ones(n), np.ones(family.n_parameters)
+    scaling = Scaling.balancing(family.system)
+    if scaling.is_identity:
+        return family, np.ones(n), np.ones(family.n_parameters)
+    factors = scaling.variable_factors
+    return Family(scaling.scale_system(family.system), family.parameters), factors[:n], factors[n:]
 
 
 def move_points(family, start_values, points, targets, real_segment=False, seed=None, options=None):
@@ -471,6 +533,9 @@ def move_points(family, start_values, points, targets, real_segment=False, seed=
     points = np.asarray(points, dtype=complex).reshape(len(targets), family.n_variables)
     if len(targets) == 0:
         return np.zeros((0, family.n_variables), dtype=complex), 0
+    family, x_factors, p_factors = _in_computed_units(family, options.balance)
+    targets, points = targets / p_factors, points / x_factors
+    start_values = np.asarray(start_values, dtype=complex).reshape(len(targets), family.n_parameters) / p_factors
     size = family.n_variables + 2
     charge_paths(len(targets), "moving points between members")
 
@@ -486,7 +551,7 @@ def move_points(family, start_values, points, targets, real_segment=False, seed=
     with np.errstate(all="ignore"):
         ends = run.endpoints[:, 1:-1] / run.endpoints[:, :1]
     ends[~finite] = np.nan
-    return ends, int(np.sum(run.status >= PathStatus.FAILED_MIN_STEP))
+    return ends * x_factors, int(np.sum(run.status >= PathStatus.FAILED_MIN_STEP))
 
 
 def _members(family, run, values, per_value, options):

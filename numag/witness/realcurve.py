@@ -467,9 +467,18 @@ def trace_real_curve(system, options=None, seed=None, marked=(), constraints=())
         samples = [values[0] - 0.01 * span] + [0.5 * (a + b) for a, b in zip(values[:-1], values[1:])] + \
                   [values[-1] + 0.01 * span]
     starts, lows, highs = [], [], []
+    reach = (centre - 0.5 * span, centre + 0.5 * span)  # the values of pi on the region
     for (lower, upper), m in zip(bounds, samples):
+        fibre_seed = int(rng.integers(2 ** 31))
+        if not reach[0] <= m <= reach[1]:
+            # a sample beyond the region's values of pi (a far critical value) finds arcs that never enter it;
+            # an arc is a graph over its whole interval, so any value of the interval inside the reach will do
+            inside = (max(lower, reach[0]), min(upper, reach[1]))
+            if inside[0] >= inside[1]:
+                continue  # no arc over this interval meets the region
+            m = 0.5 * (inside[0] + inside[1])
         fibre_system = PolynomialSystem(system.variables, working_polynomials + [Polynomial.linear(projection, -float(m))])
-        points, _, _ = _solve_real(fibre_system, int(rng.integers(2 ** 31)))
+        points, _, _ = _solve_real(fibre_system, fibre_seed)
         if len(points) == 0:
             continue
         points, converged = _newton_on_level(curve, projection, points, np.full(len(points), m), options.tolerance)

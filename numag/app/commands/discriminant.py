@@ -9,6 +9,7 @@ from ...system.files import load_family
 from ...system.safeio import write_file
 from ...tracking.tracker import FAILURE_LABELS
 from ...families.discriminant import DiscriminantOptions, discriminant
+from ...families.branches import CountKind
 from ...families.records import ComponentKind
 from ..picture import discriminant_svg, sweep_svg
 from ..report import CAUTION, dumps
@@ -24,11 +25,14 @@ def add_parser(commands):
         description="For a system file with parameters: the projection to parameter space of the points (x, p) "
                     "where F = 0 and J_x drops rank, as components with dimension, degree and real samples; "
                     "for one parameter the points themselves and the regions between them with the number of "
-                    "real solutions or real branches of a sample member; for two, cells on lines.")
+                    "real solutions or real branches of a sample member; for two, the traced real curve with its "
+                    "cusps and nodes, and cells on lines merged into regions of the plane.")
     command.add_argument("system_file", metavar="FILE", help="system file (TOML) with 'parameters'")
     command.add_argument("--no-regions", action="store_true", help="skip solving one sample per region")
     command.add_argument("--no-infinity", action="store_true",
                          help="skip members singular at infinity in x (a second computation)")
+    command.add_argument("--no-curve", action="store_true",
+                         help="two parameters: skip tracing the real discriminant curve (and merging the cells)")
     command.add_argument("--lines", type=int, default=DiscriminantOptions.lines, metavar="N",
                          help="two parameters: vertical lines across the first one's range (default %(default)s)")
     command.add_argument("--seed", type=_seed, help="seed of the random choices (recorded in the report)")
@@ -42,13 +46,14 @@ def add_parser(commands):
 
 def _failed(result):
     tracked = sum(result.paths.get(label, 0) for label in FAILURE_LABELS)
-    return tracked + sum(r.count.failed for r in result.regions)
+    traced = result.curve.failed_arcs if result.curve is not None else 0
+    return tracked + sum(r.count.failed for r in result.regions) + traced
 
 
 def _count_text(count):
-    if count.solutions is not None:
+    if count.kind is CountKind.SOLUTIONS:
         return counted(count.solutions, "real solution")
-    if count.branches is not None:
+    if count.kind is CountKind.BRANCHES:
         return counted(count.branches, "real branch", "real branches")
     return "not counted (members of dimension 2 or more)"
 
@@ -88,9 +93,31 @@ def _print(result, out):
                 where = f"{names} in {where}"
             failed = f"  ({region.count.failed} path(s) failed)" if region.count.failed else ""
             out.write(f"  {where}: {_count_text(region.count)}{failed}\n")
+    if result.curve is not None:
+        _print_curve(result, out)
     for note in result.notes:
         out.write(f"\nnote: {note}\n")
     out.write(f"\n{CAUTION}\n")
+
+
+def _print_curve(result, out):
+    """Two parameters: the traced real curve, its cusps and nodes, and the regions of the plane."""
+    curve, (first, second) = result.curve, result.parameters
+    low, high = curve.box
+    out.write(f"\nreal discriminant curve: {counted(len(curve.arcs), 'traced piece')} in {first} in "
+              f"[{low[0]:.6g}, {high[0]:.6g}], {second} in [{low[1]:.6g}, {high[1]:.6g}]"
+              + (f" ({curve.failed_arcs} arc end(s) failed)" if curve.failed_arcs else "") + "\n")
+    for point in curve.special:
+        accuracy = "refined" if point.refined else "at the traced accuracy"
+        out.write(f"  {point.kind.value:5s} at {first}={point.point[0]:.10g}, {second}={point.point[1]:.10g} "
+                  f"({accuracy})\n")
+    if result.plane_regions:
+        out.write(f"\n{counted(len(result.plane_regions), 'region')} of the plane (cells joined where the curve does "
+                  "not separate them; one sample each)\n")
+        for k, region in enumerate(result.plane_regions, 1):
+            failed = f"  ({region.count.failed} path(s) failed)" if region.count.failed else ""
+            out.write(f"  {k:3d}  sample {first}={region.sample[0]:.6g}, {second}={region.sample[1]:.6g}: "
+                      f"{_count_text(region.count)}; {counted(len(region.cells), 'cell')}{failed}\n")
 
 
 def run(args, out):
@@ -99,7 +126,8 @@ def run(args, out):
         raise SystemFileError("has no 'parameters': a discriminant is of a family", args.system_file, "parameters")
     if not 1 <= args.lines <= 1000:
         raise NumagError(f"--lines must be from 1 to 1000, got {args.lines}")
-    options = DiscriminantOptions(regions=not args.no_regions, at_infinity=not args.no_infinity, lines=args.lines)
+    options = DiscriminantOptions(regions=not args.no_regions, at_infinity=not args.no_infinity, lines=args.lines,
+                                  curve=not args.no_curve)
     with _stage_executor(args) as executor, using(executor):
         result = discriminant(family, options, seed=args.seed, progress=_progress(args))
     if args.output:

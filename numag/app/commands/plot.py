@@ -14,7 +14,10 @@ import sys
 from ...errors import NumagError
 from ...system.files import load_angles
 from ..plot import FORMATS, PlotOptions, parse_axes, parse_box, plot_report
+from ..picture import discriminant_svg
 from ..report import CAUTION, read_report
+from ..saved import from_dict
+from ...system.safeio import write_file
 from .common import EXIT_OK, EXIT_UNDECIDED, _count, _seed
 
 
@@ -22,8 +25,9 @@ def add_parser(commands):
     """Add ``numag plot`` to the sub-parsers ``commands`` of the command line."""
     plot = commands.add_parser(
         "plot", help="a picture of a saved report (PNG, SVG or PDF; pip install 'numag[plot]')",
-        description="Draw a saved report of singular, decompose, solve or check: real plane curves traced "
-                    "between the critical points of a projection with the singular points marked, real surfaces "
+        description="Draw a saved report of singular, decompose, solve, check or discriminant (SVG: regions, "
+                    "the real discriminant curve, its cusps and nodes): real plane curves traced between the "
+                    "critical points of a projection with the singular points marked, real surfaces "
                     "in three unknowns by marching cubes with their singular points and curves, curves in more "
                     "unknowns projected on chosen unknowns or on two joint angles of the system file's angles "
                     "table, and check points by verdict.")
@@ -132,9 +136,27 @@ def _print_result(result, out):
         out.write(f"  note: {note}\n")
 
 
+def _discriminant_picture(data, args, out):
+    """A saved discriminant: its regions, the traced real curve, cusps and nodes, as an SVG picture."""
+    if os.path.splitext(args.output)[1].lower() != ".svg":
+        raise NumagError(f"a discriminant is drawn as SVG: give FILE.svg, not {args.output!r}")
+    result = from_dict(data)
+    write_file(args.output, discriminant_svg(result).encode())
+    out.write(f"numag plot: {args.report_file} (a report of 'numag discriminant')\npicture: {args.output}\n")
+    if result.curve is not None:
+        kinds = [p.kind.value for p in result.curve.special]
+        out.write(f"  traced: {len(result.curve.arcs)} piece(s) of the real discriminant curve, "
+                  f"{kinds.count('cusp')} cusp(s), {kinds.count('node')} node(s), "
+                  f"{result.curve.failed_arcs} failed arc end(s)\n")
+    out.write(f"\n{CAUTION}\n")
+    return EXIT_UNDECIDED if result.curve is not None and result.curve.failed_arcs else EXIT_OK
+
+
 def run(args, out):
     _check_target(args.output)
     data = read_report(args.report_file)
+    if data.get("command") == "discriminant" or data.get("kind") == "discriminant":
+        return _discriminant_picture(data, args, out)
     result = plot_report(data, args.output, _options_of(args))
     out.write(f"numag plot: {args.report_file} (a report of 'numag {data.get('command')}')\n")
     _print_result(result, out)

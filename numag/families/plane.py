@@ -1,0 +1,542 @@
+"""Two parameters: the real discriminant curve traced, its cusps and nodes, and the regions of the plane.
+
+For a family with two parameters p = (p_1, p_2) the discriminant is (in general) a plane curve. Its
+real points are traced as the image of the real curve of the incidence set
+
+    S = {(x, p) : F(x, p) = 0, all c x c minors of J_x F = 0}
+
+with :func:`numag.witness.realcurve.trace_real_curve` (the tracer of ``numag plot``) and projected to p.
+The box of the trace is the ``[ranges]`` box in p; in x it is the extent of the real points of S over a
+few lines p_1 = const (one sweep of S with p_1 as its parameter), padded.
+
+Special points of the traced curve (common practice, no source: a generic plane projection of a smooth
+space curve is smooth except where the tangent is vertical, a cusp, or where two points share an image,
+a node):
+
+* **cusp**: the projected polyline turns back on itself while the curve S does not (the tangent of S has
+  no p-part there);
+* **node**: two pieces of the projected polyline cross.
+
+For square members (as many equations as unknowns; S = {F = 0, det J_x F = 0}) both are refined by
+Newton on square systems: a cusp on {F = 0, J_x F v = 0, grad_x(det J_x F) . v = 0, c . v = 1} in
+(x, p, v) (the kernel vector v of J_x is tangent to S and has no p-part), a node on
+{G(x_1, p) = 0, G(x_2, p) = 0} with G = (F, det J_x F) in (x_1, x_2, p). Otherwise they are given at the
+traced accuracy (``refined`` false).
+
+Regions: the cells (line p_1 = v, interval of p_2 between real discriminant points) of
+:mod:`numag.families.discriminant` are merged across neighbouring lines when a horizontal segment joins
+them in the strip between the lines without crossing the traced curve (the curve's pieces in the strip
+block the p_2-ranges they span) and their sample members have the same real count; each region keeps
+the sample of its widest cell.
+
+Examples
+--------
+>>> strip_blocked([np.array([[0.0, 0.0], [1.0, 1.0]])], 0.25, 0.5)
+[(0.25, 0.5)]
+"""
+
+from dataclasses import dataclass, field
+import enum
+import math
+
+import numpy as np
+
+from ..errors import InputError, LimitError
+from ..system.family import Family
+from ..system.polynomial import Polynomial, PolynomialSystem, determinant
+from ..numeric.evaluate import BatchEvaluator
+from ..witness.realcurve import RealCurveOptions, trace_real_curve
+from ..singular.locus import minors_system
+from .branches import RealCount
+from .sweep import sweep
+
+__all__ = ["CurvePointKind", "CurvePoint", "DiscriminantCurve", "PlaneRegion", "trace_discriminant_curve",
+           "merge_cells", "strip_blocked"]
+
+#: A projected turn sharper than this (cosine between the directions before and after) is a cusp candidate.
+_TURN_COSINE = -0.5
+#: Newton is accepted when the residual is below this and the step stayed within the traced accuracy.
+_NEWTON_TOLERANCE = 1e-10
+
+
+class CurvePointKind(str, enum.Enum):
+    """What a special point of the real discriminant curve is."""
+
+    CUSP = "cusp"   #: the curve turns back on itself (a member with a degenerate singular point, e.g. a triple root)
+    NODE = "node"   #: two arcs cross (a member with two singular points)
+
+
+@dataclass
+class CurvePoint:
+    """A cusp or node of the real discriminant curve.
+
+    Attributes
+    ----------
+    kind : CurvePointKind
+    point : ndarray of float, shape (2,)
+        In the parameter plane.
+    refined : bool
+        Newton converged on the square system of its kind (else: at the traced accuracy).
+    """
+
+    kind: CurvePointKind
+    point: np.ndarray
+    refined: bool
+
+    def to_dict(self):
+        return {"kind": self.kind.value, "point": [float(v) for v in self.point], "refined": bool(self.refined)}
+
+    @classmethod
+    def from_dict(cls, data):
+        return cls(CurvePointKind(data["kind"]), np.array(data["point"], dtype=float), bool(data["refined"]))
+
+
+@dataclass
+class DiscriminantCurve:
+    """The traced real discriminant curve of a two-parameter family.
+
+    Attributes
+    ----------
+    arcs : list of ndarray, shape (P, 2)
+        Polylines in the parameter plane (traced in the box enlarged by half its size).
+    box : tuple of ndarray
+        Lower and upper corners in the parameter plane.
+    special : list of CurvePoint
+    failed_arcs : int
+        Arc ends of the trace that stalled or were misjoined (the picture may miss a piece).
+    notes : list of str
+    """
+
+    arcs: list
+    box: tuple
+    special: list
+    failed_arcs: int = 0
+    notes: list = field(default_factory=list)
+
+    def to_dict(self):
+        return {"arcs": [a.tolist() for a in self.arcs], "box": [list(map(float, c)) for c in self.box],
+                "special": [s.to_dict() for s in self.special], "failed_arcs": int(self.failed_arcs),
+                "notes": list(self.notes)}
+
+    @classmethod
+    def from_dict(cls, data):
+        return cls([np.array(a, dtype=float).reshape(-1, 2) for a in data["arcs"]],
+                   tuple(np.array(c, dtype=float) for c in data["box"]),
+                   [CurvePoint.from_dict(s) for s in data["special"]], int(data["failed_arcs"]), list(data["notes"]))
+
+
+@dataclass
+class PlaneRegion:
+    """A region of the parameter plane: cells on neighbouring lines joined without crossing the curve.
+
+    Attributes
+    ----------
+    cells : list of int
+        Indices into the discriminant's cells (``Discriminant.regions``).
+    sample : ndarray of float, shape (2,)
+        The sample member whose count is given (the widest cell's).
+    count : RealCount
+    """
+
+    cells: list
+    sample: np.ndarray
+    count: RealCount
+
+    def to_dict(self):
+        return {"cells": [int(c) for c in self.cells], "sample": [float(v) for v in self.sample],
+                "count": self.count.kind.value,
+                "real_solutions": self.count.solutions, "real_branches": self.count.branches,
+                "failed": int(self.count.failed)}
+
+    @classmethod
+    def from_dict(cls, data):
+        return cls([int(c) for c in data["cells"]], np.array(data["sample"], dtype=float),
+                   RealCount(data["real_solutions"], data["real_branches"], int(data["failed"])))
+
+
+def _box(family):
+    """The [ranges] box of the two parameters (-1..1 where no range is given) and whether one was missing."""
+    low, high, missing = [], [], []
+    for name in family.parameters:
+        interval = family.ranges.get(name)
+        low.append(interval.low if interval else -1.0)
+        high.append(interval.high if interval else 1.0)
+        if interval is None:
+            missing.append(name)
+    return np.array(low), np.array(high), missing
+
+
+def _permuted(polynomial, order):
+    """The polynomial with its variables reordered: new variable j is old variable ``order[j]``."""
+    return Polynomial(polynomial.exponents[:, order], polynomial.numeric_coefficients(), polynomial.n_variables)
+
+
+def _real_combinations(polynomials, count, rng):
+    weights = rng.standard_normal((count, len(polynomials)))
+    combined = []
+    for row in weights / np.linalg.norm(weights, axis=1, keepdims=True):
+        total = Polynomial.zero(polynomials[0].n_variables)
+        for w, p in zip(row, polynomials):
+            total = total + p * float(w)
+        combined.append(total)
+    return combined
+
+
+def _x_extent(incidence, n, box, lines, rng):
+    """Lower and upper bounds of the real points of S over lines p_1 = const in the box (None when none).
+
+    S with p_1 as its only parameter is a square family after n + 1 real random combinations of its
+    equations (solutions of the combinations off S only widen the box).
+    """
+    order = list(range(n)) + [n + 1, n]  # (x, p_2, p_1): the parameter last
+    polynomials = [_permuted(p.numeric(), order) for p in incidence.polynomials]
+    if len(polynomials) > n + 1:
+        polynomials = _real_combinations(polynomials, n + 1, rng)
+    names = [incidence.variables[k] for k in order]
+    family = Family(PolynomialSystem(names, polynomials), (names[-1],))
+    values = np.linspace(box[0][0], box[1][0], max(lines, 3))[:, None]
+    result = sweep(family, values, seed=int(rng.integers(2 ** 63)))
+    found = []
+    for member in result.values:
+        if len(member.points) == 0:
+            continue
+        points = member.points[member.real].real
+        inside = (points[:, n] >= box[0][1]) & (points[:, n] <= box[1][1]) if len(points) else []
+        found += [p[:n] for p in points[inside]] if len(points) else []
+    if not found:
+        return None
+    found = np.array(found)
+    low, high = found.min(axis=0), found.max(axis=0)
+    pad = np.maximum(0.5 * (high - low), 0.5)
+    return low - pad, high + pad
+
+
+def trace_discriminant_curve(family, codimension, max_exact_minors, lines, rng, resolution=200):
+    """The real discriminant curve of a two-parameter family, traced, with its cusps and nodes.
+
+    Parameters
+    ----------
+    family : Family
+        Two parameters, real coefficients.
+    codimension : int
+    max_exact_minors : int
+        The incidence set's minors must all be expanded (random combinations are complex).
+    lines : int
+        Lines p_1 = const on which the x-extent of the trace's box is measured.
+    rng : numpy.random.Generator
+    resolution : int
+        Largest step of the trace: the box diagonal divided by this.
+
+    Returns
+    -------
+    DiscriminantCurve
+
+    Raises
+    ------
+    InputError
+        Complex coefficients, or minors too many to expand.
+    """
+    n = family.n_variables
+    if family.n_parameters != 2:
+        raise InputError("the discriminant curve is traced for two parameters")
+    try:
+        incidence, _ = minors_system(family.system, codimension, rng, max_exact_minors, n_columns=n)
+    except LimitError as err:
+        raise InputError(f"the minors of J_x are too large to expand ({err})") from None
+    if not incidence.has_real_coefficients:
+        raise InputError("the real discriminant curve is traced for real families with all minors expanded")
+    low, high, missing = _box(family)
+    notes = []
+    if missing:
+        notes.append(f"No [ranges] interval for {', '.join(missing)}: the curve is traced for -1 to 1 there.")
+    extent = _x_extent(incidence, n, (low, high), lines, rng)
+    if extent is None:
+        extent = (np.full(n, -1.0), np.full(n, 1.0))
+        notes.append("No real singular point over the sampled lines: x was traced from -1 to 1.")
+    curve = trace_real_curve(incidence, RealCurveOptions(box=(np.concatenate([extent[0], low]),
+                                                              np.concatenate([extent[1], high])),
+                                                         resolution=resolution),
+                             seed=int(rng.integers(2 ** 31)))
+    notes += curve.notes
+    pieces = [b.points for b in curve.branches(clip=False) if len(b.points) >= 2]
+    diagonal = float(np.linalg.norm(high - low))
+    special = _cusps(family, pieces, n, diagonal) + _nodes(family, pieces, n, diagonal)
+    return DiscriminantCurve([p[:, n:].copy() for p in pieces], (low, high), special, curve.failed_arcs, notes)
+
+
+def _cusps(family, pieces, n, diagonal):
+    """Points where a piece's projection turns back (the tangent of S has no p-part)."""
+    found = []
+    for piece in pieces:
+        steps = np.diff(piece[:, n:], axis=0)
+        lengths = np.linalg.norm(steps, axis=1)
+        full = np.linalg.norm(np.diff(piece, axis=0), axis=1)
+        keep = lengths > 1e-14 * diagonal
+        if keep.sum() < 3:
+            continue
+        index = np.nonzero(keep)[0]
+        units = steps[keep] / lengths[keep, None]
+        # a cusp's turn happens over one or two steps (a step may straddle it)
+        for gap in (1, 2):
+            cosines = np.sum(units[:-gap] * units[gap:], axis=1)
+            for k in np.nonzero(cosines < _TURN_COSINE)[0]:
+                segment = index[k:k + gap + 1]
+                # the slowest projected step among those of the turn: closest to the cusp
+                slowest = segment[np.argmin(lengths[segment] / np.maximum(full[segment], 1e-300))]
+                found.append(piece[slowest] + 0.5 * (piece[slowest + 1] - piece[slowest]))
+    points = _distinct(found, 1e-3 * diagonal)
+    return [_refined_cusp(family, point, n) for point in points]
+
+
+def _nodes(family, pieces, n, diagonal):
+    """Crossings of the projected pieces (each pair of segments; pieces are short polylines)."""
+    segments, lifts = [], []
+    for number, piece in enumerate(pieces):
+        for k in range(len(piece) - 1):
+            segments.append((number, k, piece[k, n:], piece[k + 1, n:]))
+            lifts.append((piece[k], piece[k + 1]))
+    if not segments:
+        return []
+    starts = np.array([s[2] for s in segments])
+    stops = np.array([s[3] for s in segments])
+    found = []
+    # vectorised over all pairs: solve a + t (b - a) = c + u (d - c)
+    a, b = starts[:, None, :], stops[:, None, :]
+    c, d = starts[None, :, :], stops[None, :, :]
+    r, s = b - a, d - c
+    denominator = r[..., 0] * s[..., 1] - r[..., 1] * s[..., 0]
+    with np.errstate(all="ignore"):
+        t = ((c - a)[..., 0] * s[..., 1] - (c - a)[..., 1] * s[..., 0]) / denominator
+        u = ((c - a)[..., 0] * r[..., 1] - (c - a)[..., 1] * r[..., 0]) / denominator
+    crossing = (np.abs(denominator) > 0) & (t > 0) & (t < 1) & (u > 0) & (u < 1)
+    crossing &= np.triu(np.ones(crossing.shape, dtype=bool), k=1)
+    for i, j in zip(*np.nonzero(crossing)):
+        if segments[i][0] == segments[j][0] and abs(segments[i][1] - segments[j][1]) <= 2:
+            continue  # neighbouring segments of one piece: a turn, not a crossing
+        first = lifts[i][0] + t[i, j] * (lifts[i][1] - lifts[i][0])
+        second = lifts[j][0] + u[i, j] * (lifts[j][1] - lifts[j][0])
+        found.append((first, second))
+    kept, points = [], []
+    for first, second in found:
+        if all(np.linalg.norm(first[n:] - p) > 1e-3 * diagonal for p in points):
+            kept.append((first, second))
+            points.append(first[n:])
+    return [_refined_node(family, first, second, n) for first, second in kept]
+
+
+def _distinct(points, radius):
+    kept = []
+    for point in points:
+        if all(np.linalg.norm(point - k) > radius for k in kept):
+            kept.append(point)
+    return kept
+
+
+def _square_parts(family):
+    """F, the polynomial det J_x F and their x-derivatives, for square members; None otherwise."""
+    n = family.n_variables
+    if family.system.n_equations != n:
+        return None
+    polynomials = [p.numeric() for p in family.system.polynomials]
+    rows = [[p.derivative(j) for j in range(n)] for p in polynomials]
+    det = determinant(rows)
+    return polynomials, rows, det
+
+
+def _newton(residual_and_jacobian, start, iterations=30):
+    """Newton from ``start`` (square real systems); the point and whether it converged."""
+    z = np.array(start, dtype=float)
+    for _ in range(iterations):
+        values, jacobian = residual_and_jacobian(z)
+        try:
+            step = np.linalg.lstsq(jacobian, values, rcond=None)[0]
+        except np.linalg.LinAlgError:
+            return z, False
+        z = z - step
+        if not np.all(np.isfinite(z)):
+            return start, False
+        if np.linalg.norm(step) <= 1e-14 * (1 + np.linalg.norm(z)):
+            break
+    values, _ = residual_and_jacobian(z)
+    return z, bool(np.linalg.norm(values) <= _NEWTON_TOLERANCE * (1 + np.linalg.norm(z)))
+
+
+def _refined_cusp(family, point, n):
+    """Newton on {F = 0, J_x F v = 0, grad_x det . v = 0, c . v = 1} in (x, p, v) from a traced point."""
+    parts = _square_parts(family)
+    if parts is None:
+        return CurvePoint(CurvePointKind.CUSP, point[n:].copy(), False)
+    polynomials, rows, det = parts
+    values_of = BatchEvaluator(polynomials)
+    rows_of = BatchEvaluator([entry for row in rows for entry in row])
+    det_gradient = BatchEvaluator([det.derivative(j) for j in range(n)])
+    _, jacobian = values_of.evaluate(point[None, :].astype(complex))
+    vector = np.linalg.svd(jacobian[0][:, :n].real)[2][-1]
+    normal = vector.copy()  # c with c . v = 1 at the start
+
+    def residual_and_jacobian(z):
+        x_p, v = z[:n + 2], z[n + 2:]
+        f, f_j = values_of.evaluate(x_p[None, :].astype(complex))
+        j, j_j = rows_of.evaluate(x_p[None, :].astype(complex))
+        g, g_j = det_gradient.evaluate(x_p[None, :].astype(complex))
+        f, f_j, j, j_j, g, g_j = (a[0].real for a in (f, f_j, j, j_j, g, g_j))
+        matrix = j.reshape(n, n)
+        second = j_j.reshape(n, n, n + 2)  # d(dF_i/dx_k)/dz_l
+        values = np.concatenate([f, matrix @ v, [g @ v], [normal @ v - 1.0]])
+        top = np.hstack([f_j, np.zeros((n, n))])
+        middle = np.hstack([np.einsum("ikl,k->il", second, v), matrix])
+        bottom = np.hstack([v @ g_j, g])[None, :]
+        last = np.concatenate([np.zeros(n + 2), normal])[None, :]
+        return values, np.vstack([top, middle, bottom, last])
+
+    z, converged = _newton(residual_and_jacobian, np.concatenate([point, vector]))
+    moved = np.linalg.norm(z[n:n + 2] - point[n:])
+    good = converged and moved <= 0.05 * (1 + np.linalg.norm(point[n:]))
+    return CurvePoint(CurvePointKind.CUSP, (z if good else point)[n:n + 2].copy(), good)
+
+
+def _refined_node(family, first, second, n):
+    """Newton (least squares) on {G(x_1, p) = 0, G(x_2, p) = 0}, G = (F, det J_x F), from a traced crossing."""
+    parts = _square_parts(family)
+    if parts is None:
+        return CurvePoint(CurvePointKind.NODE, 0.5 * (first[n:] + second[n:]), False)
+    polynomials, _, det = parts
+    incidence = BatchEvaluator(polynomials + [det])
+
+    def residual_and_jacobian(z):
+        one, two, p = z[:n], z[n:2 * n], z[2 * n:]
+        values, jacobians = incidence.evaluate(np.array([np.concatenate([one, p]), np.concatenate([two, p])],
+                                                        dtype=complex))
+        values, jacobians = values.real, jacobians.real
+        rows = n + 1
+        matrix = np.zeros((2 * rows, 2 * n + 2))
+        matrix[:rows, :n] = jacobians[0][:, :n]
+        matrix[rows:, n:2 * n] = jacobians[1][:, :n]
+        matrix[:rows, 2 * n:] = jacobians[0][:, n:]
+        matrix[rows:, 2 * n:] = jacobians[1][:, n:]
+        return np.concatenate([values[0], values[1]]), matrix
+
+    start = np.concatenate([first[:n], second[:n], 0.5 * (first[n:] + second[n:])])
+    z, converged = _newton(residual_and_jacobian, start)
+    apart = np.linalg.norm(z[:n] - z[n:2 * n]) > 1e-6 * (1 + np.linalg.norm(z[:n]))
+    moved = np.linalg.norm(z[2 * n:] - start[2 * n:])
+    good = converged and apart and moved <= 0.05 * (1 + np.linalg.norm(start[2 * n:]))
+    return CurvePoint(CurvePointKind.NODE, (z[2 * n:] if good else start[2 * n:]).copy(), good)
+
+
+def strip_blocked(arcs, left, right):
+    """The p_2-intervals spanned by the pieces of the polylines inside the strip left <= p_1 <= right.
+
+    A connected piece inside the strip meets every horizontal segment across the strip at a height it
+    spans, so these intervals (merged) are the heights where the strip cannot be crossed.
+
+    Parameters
+    ----------
+    arcs : list of ndarray, shape (P, 2)
+    left, right : float
+
+    Returns
+    -------
+    list of (float, float)
+        Sorted, disjoint.
+    """
+    intervals = []
+    for arc in arcs:
+        a, b = arc[:-1], arc[1:]
+        dx = b[:, 0] - a[:, 0]
+        with np.errstate(divide="ignore", invalid="ignore"):
+            t_left = np.where(dx != 0, (left - a[:, 0]) / dx, np.where(a[:, 0] >= left, -np.inf, np.inf))
+            t_right = np.where(dx != 0, (right - a[:, 0]) / dx, np.where(a[:, 0] <= right, np.inf, -np.inf))
+        enter = np.maximum(0.0, np.minimum(t_left, t_right))
+        leave = np.minimum(1.0, np.maximum(t_left, t_right))
+        inside = enter <= leave
+        for k in np.nonzero(inside)[0]:
+            y0 = a[k, 1] + enter[k] * (b[k, 1] - a[k, 1]) if math.isfinite(enter[k]) else a[k, 1]
+            y1 = a[k, 1] + leave[k] * (b[k, 1] - a[k, 1]) if math.isfinite(leave[k]) else b[k, 1]
+            intervals.append((float(min(y0, y1)), float(max(y0, y1))))
+    intervals.sort()
+    merged = []
+    for low, high in intervals:
+        if merged and low <= merged[-1][1]:
+            merged[-1] = (merged[-1][0], max(merged[-1][1], high))
+        else:
+            merged.append((low, high))
+    return merged
+
+
+def _free(low, high, blocked, tolerance):
+    """Whether (low, high) minus the blocked intervals keeps a piece longer than the tolerance."""
+    position = low
+    for b_low, b_high in blocked:
+        if b_high <= position:
+            continue
+        if b_low >= high:
+            break
+        if b_low - position > tolerance:
+            return True
+        position = max(position, b_high)
+    return high - position > tolerance
+
+
+def merge_cells(cells, curve):
+    """Regions of the plane: cells on neighbouring lines joined where the strip between them is crossable.
+
+    Parameters
+    ----------
+    cells : list of Region
+        Intervals of p_2 on lines p_1 = ``line`` (from :mod:`numag.families.discriminant`).
+    curve : DiscriminantCurve
+
+    Returns
+    -------
+    regions : list of PlaneRegion
+    conflicts : int
+        Neighbouring cells the traced curve does not separate but whose counts differ (the trace missed
+        an arc there, e.g. real discriminant points over non-real singular points); they are kept apart.
+    """
+    low, high = curve.box
+    span = high - low
+    # the trace reaches half the box beyond it; unbounded cells end there
+    floor, ceiling = low[1] - 0.5 * span[1], high[1] + 0.5 * span[1]
+    # the polyline's chords stray from the curve by up to about a trace step (1/200 of the box diagonal):
+    # a passage narrower than 1/100 of the box's height is not trusted, and the cells stay apart (the safe side)
+    tolerance = 0.01 * span[1]
+    lines = sorted({c.line for c in cells})
+    parent = list(range(len(cells)))
+
+    def find(a):
+        while parent[a] != a:
+            parent[a] = parent[parent[a]]
+            a = parent[a]
+        return a
+
+    conflicts = 0
+    by_line = {line: [k for k, c in enumerate(cells) if c.line == line] for line in lines}
+    for left, right in zip(lines[:-1], lines[1:]):
+        blocked = strip_blocked(curve.arcs, left, right)
+        for i in by_line[left]:
+            for j in by_line[right]:
+                a, b = cells[i], cells[j]
+                overlap_low = max(a.low, b.low, floor)
+                overlap_high = min(a.high, b.high, ceiling)
+                if overlap_high <= overlap_low or not _free(overlap_low, overlap_high, blocked, tolerance):
+                    continue
+                if (a.count.solutions, a.count.branches) != (b.count.solutions, b.count.branches):
+                    conflicts += 1
+                    continue
+                parent[find(j)] = find(i)
+    regions = {}
+    for k in range(len(cells)):
+        regions.setdefault(find(k), []).append(k)
+
+    def width(k):
+        cell = cells[k]
+        return min(cell.high, ceiling) - max(cell.low, floor)
+
+    result = []
+    for members in regions.values():
+        widest = max(members, key=width)
+        result.append(PlaneRegion(members, cells[widest].sample.copy(), cells[widest].count))
+    result.sort(key=lambda r: (tuple(r.sample)))
+    return result, conflicts
+
