@@ -40,7 +40,8 @@ def write_point_anatomy(anatomy, names, out, indent="        "):
                                                        else ", not quasi-homogeneous")
         mu = "infinite" if h.milnor is None else str(h.milnor)
         tau = "infinite" if h.tjurina is None else str(h.tjurina)
-        out.write(f"{indent}type {h.type.label}: Hessian corank {h.corank}, Milnor number {mu}, Tjurina number "
+        paths = "" if h.milnor_by_paths is None else f" ({h.milnor_by_paths} by homotopy paths)"
+        out.write(f"{indent}type {h.type.label}: Hessian corank {h.corank}, Milnor number {mu}{paths}, Tjurina number "
                   f"{tau}{qh}\n")
         values = ", ".join(f"{v:.3g}" for v in h.hessian.singular_values)
         out.write(f"{indent}  decided by: {h.decided_by.value} (scaled Hessian singular values [{values}], zero "
