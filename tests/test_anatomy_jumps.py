@@ -103,3 +103,29 @@ def test_cuspidal_edge_has_its_special_point_where_mu_jumps():
                for p in anatomy.special_points]
     assert len(special) == 1
     assert special[0][0] < 1e-6 and special[0][1:] == ("A3", 3)
+
+
+@pytest.mark.parametrize("seed", [1, 2, 3])
+def test_transversal_type_along_a_singular_curve_of_two_equations(seed):
+    # X = V(x^2 - y^2 z, w - z^2 - x y) in C^4, a surface of codimension 2 (the Whitney umbrella carried onto
+    # the graph w = z^2 + x y; common practice, no source). Its singular locus, where the 2 x 2 minors of the
+    # Jacobian vanish on X, is the conic x = y = 0, w = z^2 (verified with sympy below); a normal slice at a
+    # generic point of it is a curve with a node: multiplicity 2, two smooth branches.
+    sympy = pytest.importorskip("sympy")
+    x, y, z, w = sympy.symbols("x y z w")
+    equations = [x**2 - y**2 * z, w - z**2 - x * y]
+    jacobian = sympy.Matrix(equations).jacobian([x, y, z, w])
+    minors = [jacobian.extract([0, 1], list(cols)).det() for cols in
+              [(0, 1), (0, 2), (0, 3), (1, 2), (1, 3), (2, 3)]]
+    solutions = sympy.solve(equations + minors, [x, y, z, w], dict=True)
+    assert solutions and all(s[x] == 0 and s[y] == 0 and sympy.simplify(s[w] - s.get(z, z)**2) == 0
+                             for s in solutions)
+
+    system = parse_system(["x^2 - y^2*z", "w - z^2 - x*y"], ["x", "y", "z", "w"])
+    locus = numag.singular_locus(system, seed=seed)
+    curves = [c for c in locus.components if c.dimension == 1]
+    assert [c.degree for c in curves] == [2]
+    anatomy = component_anatomy(system, curves[0], seed=seed)
+    transversal = anatomy.transversal
+    assert transversal.multiplicity == 2
+    assert sorted(b.multiplicity for b in transversal.branches) == [1, 1]

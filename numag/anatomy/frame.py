@@ -251,7 +251,7 @@ def _form_roots(form):
     Examples
     --------
     >>> roots = _form_roots(np.array([1, 0, 0, 0, -1]))    # u^4 - v^4: u = v, -v, i v, -i v
-    >>> sorted(round(abs(r[0] / r[1]), 6) for r in roots)
+    >>> [round(float(abs(r[0] / r[1])), 6) for r in roots]
     [1.0, 1.0, 1.0, 1.0]
     """
     degree = len(form) - 1

@@ -36,6 +36,8 @@ __all__ = ["AnatomyOptions", "LocusAnatomy", "point_anatomy", "component_anatomy
 
 #: Radius of the local slices in a local frame (units of the singularity's own scale).
 _FRAME_RADIUS = 1e-2
+#: Terms of a normal slice at most this times its largest are within the witness point's error.
+_SLICE_ROUNDING = 1e-13
 #: Imaginary parts below this (relative to 1 + |x|) make a point real.
 _REAL = 1e-8
 
@@ -451,7 +453,14 @@ def _system_component_anatomy(system, component, seed, options):
     restricted = []
     for q in polynomials:
         sliced = q.substitute_linear(normal, computed)
-        restricted.append(sliced - complex(sliced.evaluate(origin)))   # the generic point is on X: rounding
+        sliced = sliced - complex(sliced.evaluate(origin))   # the generic point is on X: its value is rounding
+        # the witness point is known to about 1e-16 only (coordinates of 1e-17 where the curve has 0): terms
+        # within that error against the slice's largest are dropped; kept (a linear term of 1e-17), the
+        # slice's curve is smoothed at the point and the local witness points were lost on every slice
+        values = sliced.numeric_coefficients()
+        keep = np.abs(values) > _SLICE_ROUNDING * float(np.max(np.abs(values), initial=0.0))
+        restricted.append(Polynomial(sliced.exponents[keep], values[keep], n - k) if np.any(keep)
+                          else Polynomial.zero(n - k))
     sliced_system = PolynomialSystem(names, restricted)
     transversal = point_anatomy(sliced_system, origin, seed=seed, options=options)
     transversal.point = generic
@@ -584,7 +593,7 @@ def locus_anatomy(locus, seed=None, angles=None, options=None):
                 components[c.id].notes.append("several singular components: the special points were not searched "
                                               "(they could not be told apart by component)")
         else:
-            notes.append(f"component {c.id}: the transversal type is computed for hypersurfaces only")
+            components[c.id] = component_anatomy(system, c, seed=seed + c.id, options=options)
     return LocusAnatomy(points, components, time.perf_counter() - started, notes)
 
 
