@@ -130,3 +130,4 @@ def test_transversal_type_along_a_singular_curve_of_two_equations(seed):
     transversal = anatomy.transversal
     assert transversal.multiplicity == 2
     assert sorted(b.multiplicity for b in transversal.branches) == [1, 1]
+    assert not anatomy.special_points_searched and not anatomy.special_points

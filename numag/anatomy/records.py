@@ -354,6 +354,9 @@ class ComponentAnatomy:
         Points of the component where the transversal type changes, each with the anatomy of its
         normal slice.
     notes : list of str
+    special_points_searched : bool
+        False when no search was made (several equations, a Hessian's rank that cannot drop or is unclear,
+        the search switched off): an empty ``special_points`` then says nothing.
     """
 
     component: int
@@ -361,12 +364,15 @@ class ComponentAnatomy:
     transversal: PointAnatomy
     special_points: list = field(default_factory=list)
     notes: list = field(default_factory=list)
+    special_points_searched: bool = True
 
     def to_dict(self):
         return {"component": self.component, "dimension": self.dimension, "transversal": self.transversal.to_dict(),
-                "special_points": [p.to_dict() for p in self.special_points], "notes": list(self.notes)}
+                "special_points": [p.to_dict() for p in self.special_points], "notes": list(self.notes),
+                "special_points_searched": self.special_points_searched}
 
     @classmethod
     def from_dict(cls, data):
         return cls(int(data["component"]), int(data["dimension"]), PointAnatomy.from_dict(data["transversal"]),
-                   [PointAnatomy.from_dict(p) for p in data["special_points"]], list(data["notes"]))
+                   [PointAnatomy.from_dict(p) for p in data["special_points"]], list(data["notes"]),
+                   bool(data.get("special_points_searched", True)))

@@ -467,7 +467,7 @@ def _system_component_anatomy(system, component, seed, options):
     transversal.motion = None  # the slice is complex: no real motion to tell
     notes = ["several equations: the transversal type is the anatomy of the normal slice (multiplicity, "
              "branches); special points along the component are not searched"]
-    return ComponentAnatomy(component.id, k, transversal, [], notes)
+    return ComponentAnatomy(component.id, k, transversal, [], notes, special_points_searched=False)
 
 
 def component_anatomy(system, component, seed=None, options=None, special_candidates=None):
@@ -521,10 +521,12 @@ def component_anatomy(system, component, seed=None, options=None, special_candid
     transversal = _slice_anatomy(f, generic, generic_user, k, rng, options)
     notes = []
     special = []
+    searched = True
     if special_candidates is not None:
         candidates = np.atleast_2d(special_candidates)
     elif options.special_points:
         evidence, _, unclear = hessian_evidence(f, generic)
+        searched = not unclear and evidence.rank > 0
         if unclear:
             notes.append("the Hessian's rank at the generic point is unclear: special points not searched")
             candidates = np.zeros((0, system.n_variables))
@@ -550,9 +552,10 @@ def component_anatomy(system, component, seed=None, options=None, special_candid
                              "searched (a jump of mu at constant rank beyond A2 is not)")
     else:
         candidates = np.zeros((0, system.n_variables))
+        searched = False
     for candidate in candidates:
         special.append(_slice_anatomy(f, scaling.to_computed(candidate), candidate, k, rng, options))
-    return ComponentAnatomy(component.id, k, transversal, special, notes)
+    return ComponentAnatomy(component.id, k, transversal, special, notes, special_points_searched=searched)
 
 
 # --- over a locus, over checked points -----------------------------------------------------------------

@@ -63,7 +63,11 @@ def write_component_anatomy(anatomy, names, out, indent="        "):
     out.write(f"{indent}transversal type (a generic normal slice at a generic point):\n")
     write_point_anatomy(anatomy.transversal, [f"u{j + 1}" for j in range(len(names) - anatomy.dimension)], out,
                         indent + "  ")
-    out.write(f"{indent}{counted(len(anatomy.special_points), 'special point')} where the transversal type changes\n")
+    if anatomy.special_points_searched:
+        found = counted(len(anatomy.special_points), "special point")
+        out.write(f"{indent}{found} where the transversal type changes\n")
+    else:
+        out.write(f"{indent}special points where the transversal type changes: not searched\n")
     for point in anatomy.special_points:
         shown = np.where(np.abs(point.point) < 1e-12 * (1 + np.max(np.abs(point.point))), 0, point.point)
         out.write(f"{indent}  at {_format_point(names, shown)}:\n")
