@@ -33,6 +33,8 @@ Examples
 (3, True)
 """
 
+import itertools
+import math
 from dataclasses import dataclass
 
 import numpy as np
@@ -40,7 +42,8 @@ import numpy as np
 from ..system.polynomial import Polynomial, PolynomialSystem
 from ..numeric.scaling import Scaling
 
-__all__ = ["LocalFrame", "local_frame", "frame_hessian", "kernel_cubic", "cubic_degeneracy", "cubic_root_spread"]
+__all__ = ["LocalFrame", "local_frame", "frame_hessian", "kernel_cubic", "cubic_degeneracy", "cubic_root_spread",
+           "cube_root_direction"]
 
 
 @dataclass
@@ -237,23 +240,127 @@ def cubic_root_spread(cubic):
 
 def _cubic_roots(cubic):
     """The three root directions (unit vectors) of a binary cubic sum cubic[k] u^(3-k) v^k, or None."""
+    return _form_roots(cubic)
+
+
+def _form_roots(form):
+    """The root directions (unit vectors) of a binary form sum form[k] u^(d-k) v^k of degree d, or None.
+
+    The form is turned by half a radian first, so that no root lies at v = 0 (infinity of z = u / v).
+
+    Examples
+    --------
+    >>> roots = _form_roots(np.array([1, 0, 0, 0, -1]))    # u^4 - v^4: u = v, -v, i v, -i v
+    >>> [round(float(abs(r[0] / r[1])), 6) for r in roots]
+    [1.0, 1.0, 1.0, 1.0]
+    """
+    degree = len(form) - 1
     turn = np.array([[np.cos(0.5), -np.sin(0.5)], [np.sin(0.5), np.cos(0.5)]])
-    turned = np.zeros(4, dtype=complex)
+    turned = np.zeros(degree + 1, dtype=complex)
     u, v = np.array([turn[0, 0], turn[0, 1]]), np.array([turn[1, 0], turn[1, 1]])  # in z = s / t
-    for k, value in enumerate(cubic):  # value * u^(3-k) v^k with (u, v) = turn (z, 1)
+    for k, value in enumerate(form):  # value * u^(d-k) v^k with (u, v) = turn (z, 1)
         term = np.array([value], dtype=complex)
-        for _ in range(3 - k):
+        for _ in range(degree - k):
             term = np.polymul(term, u)
         for _ in range(k):
             term = np.polymul(term, v)
-        turned += np.pad(term, (4 - len(term), 0))
+        turned += np.pad(term, (degree + 1 - len(term), 0))
     if not np.linalg.norm(turned) > 0:
         return None
     roots = np.roots(turned)
-    if len(roots) != 3:
+    if len(roots) != degree:
         return None
     directions = [turn @ np.array([z, 1.0]) for z in roots]
     return [d / np.linalg.norm(d) for d in directions]
+
+
+def kernel_form(polynomial, rank, degree):
+    """The form of a given degree of g restricted to its last two coordinates (a corank-2 kernel plane):
+    coefficients of u^degree, u^(degree-1) v, ..., v^degree."""
+    form = np.zeros(degree + 1, dtype=complex)
+    for exponent, value in zip(polynomial.exponents, polynomial.numeric_coefficients()):
+        if not np.any(exponent[:rank]) and exponent[rank] + exponent[rank + 1] == degree:
+            form[int(exponent[rank + 1])] += value
+    return form
+
+
+def _spread(directions):
+    """The smallest |det| of two unit directions (0 for a repeated one)."""
+    return min((float(abs(np.linalg.det(np.column_stack([a, b])))) for k, a in enumerate(directions)
+                for b in directions[k + 1:]), default=1.0)
+
+
+def _form_basis(form, real):
+    """A basis of the kernel plane (2 x 2, columns) in which the roots of a binary form of degree >= 4 lie
+    far apart, and whether its roots are (nearly) one repeated root.
+
+    A linear change of condition kappa crowds the roots of the kernel's leading form into an arc of size
+    1/kappa (x^4 + y^4 at kappa = 1e3: the dual space then counted an infinite mu); a linear change of the
+    plane moves them freely (a Moebius map of the projective line): three roots are sent to 0, infinity
+    and 1, or, for a real frame, one non-real root to i (real maps fix the upper half plane's geometry);
+    of these candidates the one whose roots end furthest apart is kept. A form with one repeated root
+    (x^4 + y^5 + x^2 y^3) gives that root as the first axis, the complement is chosen by the shear.
+    """
+    directions = _form_roots(form)
+    if directions is None:
+        return None, False
+    if _spread(directions) > 0.1:   # already well apart: keep the plane as it is
+        return None, False
+    if max(float(abs(np.linalg.det(np.column_stack([directions[0], d])))) for d in directions) < _APART:
+        # a (near) power of a linear form l^d: the (d-1)-th derivatives are multiples of l, their common
+        # null vector is the root (it moves by the perturbation, where the roots split by its d-th root)
+        degree = len(form) - 1
+        rows = []
+        for a in range(degree):  # d^(d-1) / du^(d-1-a) dv^a of the form, a linear form in (u, v)
+            row = np.zeros(2, dtype=complex)
+            for k in (a, a + 1):
+                value = form[k] * math.factorial(degree - k) * math.factorial(k)
+                row[k - a] = value
+            rows.append(row)
+        first = np.linalg.svd(np.array(rows))[2][-1].conj()
+        if real and np.linalg.norm(first.real) > 0.5:
+            first = first.real
+        first = first / np.linalg.norm(first)
+        return np.column_stack([first, [-np.conj(first[1]), np.conj(first[0])]]).astype(complex), True
+    candidates = []
+    if real:
+        for d in directions:
+            basis = np.column_stack([d.imag, d.real])  # maps (i, 1) to d: a non-real root to i
+            if abs(np.linalg.det(basis)) > 1e-12:
+                candidates.append(basis.astype(complex))
+        real_roots = [d * np.exp(-1j * np.angle(d[np.argmax(np.abs(d))])) for d in directions]
+        real_roots = [d.real for d in real_roots if np.linalg.norm(d.imag) < 1e-8]
+    else:
+        real_roots = directions
+    for first, second, third in itertools.permutations(range(len(real_roots)), 3):
+        pair = np.column_stack([real_roots[first], real_roots[second]])
+        if abs(np.linalg.det(pair)) > 1e-12:  # e1 -> first root, e2 -> second, (1, 1) -> third
+            weights = np.linalg.solve(pair, real_roots[third])
+            candidates.append((pair * weights[None, :]).astype(complex))
+    best, best_spread = None, _spread(directions)
+    for basis in candidates:
+        basis = basis / np.linalg.norm(basis, axis=0)[None, :]
+        mapped = [np.linalg.solve(basis, d) for d in directions]
+        spread = _spread([m / np.linalg.norm(m) for m in mapped])
+        if spread > best_spread:
+            best, best_spread = basis, spread
+    return best, False
+
+
+def cube_root_direction(cubic):
+    """The root direction (unit vector) of a binary cubic that is (nearly) a cube l^3.
+
+    A perturbed cube's roots split by eps^(1/3); the kernel of its Hessian (6 l grad l grad l^T for l^3)
+    moves by eps only: the stacked Hessians at (1, 0) and (0, 1) have the root as null vector.
+
+    Examples
+    --------
+    >>> np.round(np.abs(cube_root_direction(np.array([0, 0, 0, 1.0]))), 6)   # v^3: the root is v = 0
+    array([1., 0.])
+    """
+    a, b, c, d = cubic
+    stacked = np.array([[3 * a, b], [b, c], [b, c], [c, 3 * d]], dtype=complex)
+    return np.linalg.svd(stacked)[2][-1].conj()
 
 
 def _kernel_basis(polynomial, rank, real):
@@ -286,11 +393,7 @@ def _kernel_basis(polynomial, rank, real):
 
     first = directions[closest[0]] + aligned(directions[closest[0]], directions[closest[1]])
     if cube:
-        # a perturbed cube's roots split by eps^(1/3); the kernel of its Hessian (6 l grad l grad l^T for
-        # l^3) moves by eps only: the stacked Hessians at (1, 0) and (0, 1) have the root as null vector
-        a, b, c, d = cubic
-        stacked = np.array([[3 * a, b], [b, c], [b, c], [c, 3 * d]], dtype=complex)
-        first = np.linalg.svd(stacked)[2][-1].conj()
+        first = cube_root_direction(cubic)
     first = first / np.linalg.norm(first)
     if real and np.linalg.norm(first.real) > 0.5:
         first = first.real / np.linalg.norm(first.real)
@@ -305,6 +408,26 @@ def _kernel_basis(polynomial, rank, real):
     if abs(np.linalg.det(basis)) < _APART / 2:
         return np.eye(2, dtype=complex), False
     return basis, cube
+
+
+#: A kernel form whose coefficients are at most this against g's largest on the plane vanishes (as for the cubic).
+_FORM_ZERO = 1e-8
+
+
+def _leading_form_basis(polynomial, rank, real):
+    """For a corank-2 point whose kernel cubic vanishes: a basis of the kernel plane from the roots of the
+    first form of degree >= 4 that does not (see :func:`_form_basis`), or None."""
+    if polynomial.is_zero():
+        return None, False
+    size = max(float(np.max(np.abs(kernel_form(polynomial, rank, d)), initial=0.0))
+               for d in range(2, polynomial.degree + 1))
+    if not size > 0 or np.linalg.norm(kernel_form(polynomial, rank, 3)) > _FORM_ZERO * size:
+        return None, False
+    for degree in range(4, polynomial.degree + 1):
+        form = kernel_form(polynomial, rank, degree)
+        if np.linalg.norm(form) > _FORM_ZERO * size:
+            return _form_basis(form, real)
+    return None, False
 
 
 def _balanced_with(polynomial, factors):
@@ -390,6 +513,21 @@ def local_frame(polynomial, point, rank, real=False, rounding_level=_ROUNDING):
                 moved, rounding = _moved(f, matrix, point, rounding_level)
                 factors, moved = _balanced(moved, n)
                 matrix = matrix * factors[None, :]
+        for _ in range(2):  # a second pass from the first one's frame: the crowded roots are then found accurately
+            basis, repeated = _leading_form_basis(moved, rank, real)
+            if basis is None:
+                break
+            matrix = matrix.copy()
+            matrix[:, rank:] = matrix[:, rank:] @ (basis.real if real else basis)
+            moved, rounding = _moved(f, matrix, point, rounding_level)
+            factors, moved = _balanced(moved, n)
+            matrix = matrix * factors[None, :]
+            if repeated:  # the complement of a repeated root: conjugate to the root's line
+                matrix, changed = sheared(matrix, [rank + 1], [rank])
+                if changed:
+                    moved, rounding = _moved(f, matrix, point, rounding_level)
+                    factors, moved = _balanced(moved, n)
+                    matrix = matrix * factors[None, :]
     # the equation's own power of ten is a unit of f only: divide the largest coefficient out
     largest = float(np.max(np.abs(moved.numeric_coefficients()), initial=0.0))
     if largest > 0:

@@ -54,6 +54,8 @@ class TypeTest(Enum):
                         "reach of double precision in these coordinates, undecided")
     CUBIC_ROOTS_CLOSE = "mu is 4 but two roots of the kernel cubic nearly coincide: D4 not confirmed, undecided"
     BRANCHES_DISAGREE = "the local branches contradict the type found from corank and mu: undecided"
+    COUNTS_DISAGREE = ("mu from the local dual space and mu from the gradient's paths disagree (or the paths "
+                       "give no clear count): undecided")
 
 
 class Motion(Enum):
@@ -188,6 +190,9 @@ class HypersurfaceAnatomy:
     frame_noise : float or None
         The rounding level of f's Taylor coefficients in the frame, relative to the largest: above about
         1e-8 the features that decide the type are out of reach of double precision (type undecided).
+    milnor_by_paths : int or None
+        Corank 2 or more, and infinite counts: mu counted a second way, as the number of solutions of
+        grad f = eps b (b random) that converge to the point as eps -> 0; None when not counted or unclear.
     """
 
     corank: int
@@ -200,6 +205,7 @@ class HypersurfaceAnatomy:
     cubic_degeneracy: object = None
     frame_condition: object = None
     frame_noise: object = None
+    milnor_by_paths: object = None
 
     def to_dict(self):
         return {"corank": self.corank, "hessian": self.hessian.to_dict(), "milnor": self.milnor,
@@ -207,7 +213,8 @@ class HypersurfaceAnatomy:
                 "decided_by": self.decided_by.name, "decided_by_text": self.decided_by.value,
                 "cubic_degeneracy": _optional(self.cubic_degeneracy, float),
                 "frame_condition": _optional(self.frame_condition, float),
-                "frame_noise": _optional(self.frame_noise, float)}
+                "frame_noise": _optional(self.frame_noise, float),
+                "milnor_by_paths": _optional(self.milnor_by_paths, int)}
 
     @classmethod
     def from_dict(cls, data):
@@ -215,7 +222,7 @@ class HypersurfaceAnatomy:
                    _optional(data["tjurina"], int), _optional(data["quasi_homogeneous"], bool),
                    SingularityType.from_dict(data["type"]), TypeTest[data["decided_by"]],
                    _optional(data["cubic_degeneracy"], float), _optional(data.get("frame_condition"), float),
-                   _optional(data.get("frame_noise"), float))
+                   _optional(data.get("frame_noise"), float), _optional(data.get("milnor_by_paths"), int))
 
 
 @dataclass
@@ -347,6 +354,9 @@ class ComponentAnatomy:
         Points of the component where the transversal type changes, each with the anatomy of its
         normal slice.
     notes : list of str
+    special_points_searched : bool
+        False when no search was made (several equations, a Hessian's rank that cannot drop or is unclear,
+        the search switched off): an empty ``special_points`` then says nothing.
     """
 
     component: int
@@ -354,12 +364,15 @@ class ComponentAnatomy:
     transversal: PointAnatomy
     special_points: list = field(default_factory=list)
     notes: list = field(default_factory=list)
+    special_points_searched: bool = True
 
     def to_dict(self):
         return {"component": self.component, "dimension": self.dimension, "transversal": self.transversal.to_dict(),
-                "special_points": [p.to_dict() for p in self.special_points], "notes": list(self.notes)}
+                "special_points": [p.to_dict() for p in self.special_points], "notes": list(self.notes),
+                "special_points_searched": self.special_points_searched}
 
     @classmethod
     def from_dict(cls, data):
         return cls(int(data["component"]), int(data["dimension"]), PointAnatomy.from_dict(data["transversal"]),
-                   [PointAnatomy.from_dict(p) for p in data["special_points"]], list(data["notes"]))
+                   [PointAnatomy.from_dict(p) for p in data["special_points"]], list(data["notes"]),
+                   bool(data.get("special_points_searched", True)))

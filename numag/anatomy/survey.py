@@ -21,11 +21,12 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from ..errors import InputError
-from ..system.polynomial import PolynomialSystem, determinant
+from ..errors import InputError, LimitError
+from ..system.polynomial import Polynomial, PolynomialSystem, determinant
 from ..numeric.scaling import Scaling
 from ..numeric.seeds import random_state
 from ..witness.decompose import decompose
+from .frame import cube_root_direction, kernel_cubic
 from .hypersurface import anatomy_in_frame, hessian_evidence
 from .local import LocalOptions, LocalPicture, hypersurface_witness, local_picture, orbit_tangent
 from .records import Branch, ComponentAnatomy, Family, Motion, PointAnatomy, SingularityType, TypeTest
@@ -35,6 +36,8 @@ __all__ = ["AnatomyOptions", "LocusAnatomy", "point_anatomy", "component_anatomy
 
 #: Radius of the local slices in a local frame (units of the singularity's own scale).
 _FRAME_RADIUS = 1e-2
+#: Terms of a normal slice at most this times its largest are within the witness point's error.
+_SLICE_ROUNDING = 1e-13
 #: Imaginary parts below this (relative to 1 + |x|) make a point real.
 _REAL = 1e-8
 
@@ -330,6 +333,143 @@ def _hessian_jump_system(polynomial, rank):
     return [polynomial] + [g for g in gradient if not g.is_zero()] + minors
 
 
+def _cubic_jump_system(polynomial, dimension, rng):
+    """f, grad f and the cubic of f along the kernel of a fixed generic normal slice's Hessian.
+
+    Along a component of dimension k with transversal type A_m (m >= 2) the Hessian of f restricted to a
+    generic normal space N (dimension n - k) has corank 1; its kernel is spanned by w = adj(N^T H N) e for
+    a generic e (the adjugate of a corank-1 symmetric matrix is a multiple of v v^T). The transversal type
+    is A2 where the cubic D^3 f(N w, N w, N w) is non-zero (the residual function of the splitting lemma
+    starts with that cubic, Arnold 1972) and A3 or more where it vanishes; the cubic does not depend on
+    which kernel vector of the whole Hessian is used modulo the component's tangent (the derivatives of
+    H t = 0 and H v = 0 along the component). The cubic also vanishes where the adjugate does (the Hessian's
+    rank drops), so the isolated points of this system contain both kinds of special points.
+    """
+    n = polynomial.n_variables
+    size = n - dimension
+    normal = rng.standard_normal((n, size)) + 1j * rng.standard_normal((n, size))
+    normal, _ = np.linalg.qr(normal)
+    pick = rng.standard_normal(size) + 1j * rng.standard_normal(size)
+    gradient = polynomial.gradient()
+    hessian = [[g.derivative(j) for j in range(n)] for g in gradient]
+    restricted = [[sum((hessian[a][b] * complex(normal[a, i] * normal[b, j]) for a in range(n) for b in range(n)),
+                       Polynomial.zero(n)) for j in range(size)]
+                  for i in range(size)]
+
+    def cofactor(i, j):  # (-1)^(i+j) det of the matrix without row i and column j
+        if size == 1:
+            return Polynomial.constant(1.0, n)
+        rows = [r for r in range(size) if r != i]
+        cols = [c for c in range(size) if c != j]
+        return determinant([[restricted[r][c] for c in cols] for r in rows]) * ((-1.0) ** (i + j))
+
+    adjugate = [[cofactor(j, i) for j in range(size)] for i in range(size)]   # adj[i][j] = cofactor(j, i)
+    kernel = [sum((adjugate[i][j] * complex(pick[j]) for j in range(size)), Polynomial.zero(n)) for i in range(size)]
+    direction = [sum((kernel[i] * complex(normal[a, i]) for i in range(size)), Polynomial.zero(n)) for a in range(n)]
+    cubic = Polynomial.zero(n)
+    for a, b, c in itertools.product(range(n), repeat=3):
+        third = hessian[a][b].derivative(c)
+        if not third.is_zero():
+            cubic = cubic + third * direction[a] * direction[b] * direction[c]
+    return [polynomial] + [g for g in gradient if not g.is_zero()] + ([cubic] if not cubic.is_zero() else [])
+
+
+def _line_direction(polynomial, generic):
+    """The direction of a singular line through ``generic`` (computed units), or None when the component
+    through it is not a line.
+
+    Where the transversal type is A2 the Hessian's kernel is a plane holding the component's tangent t and
+    the transversal kernel direction v, and the cubic of f on it is c l^3 with l(t) = 0 (D^3 f(t, ., .)
+    vanishes on the kernel: differentiate H t = 0 and H v = 0 along the component); t is that cube's root.
+    The component is the line through the point along t when f and grad f vanish identically on it.
+    """
+    evidence, kernel, unclear = hessian_evidence(polynomial, generic)
+    if unclear or kernel.shape[1] != 2:
+        return None
+    cubic, _ = kernel_cubic(polynomial, generic, kernel)
+    direction = kernel @ cube_root_direction(cubic)
+    direction = direction / np.linalg.norm(direction)
+    # yardstick: f's largest coefficient (balanced units) at the point's scale
+    size = float(np.max(np.abs(polynomial.numeric_coefficients()))) * (1 + np.linalg.norm(generic)) ** polynomial.degree
+    for q in [polynomial] + [g.numeric() for g in polynomial.gradient()]:
+        along = q.substitute_linear(direction[:, None], generic)
+        if along.n_terms and np.max(np.abs(along.numeric_coefficients())) > 1e-8 * size:
+            return None
+    return direction
+
+
+def _cubic_jump_points(polynomial, generic, rng):
+    """The points (computed units) of a singular line where the cubic of :func:`_cubic_jump_system` vanishes,
+    or None when the component is not a line (not searched).
+
+    The system f, grad f, cubic is not reduced along the component (grad f vanishes to higher order on a
+    cuspidal edge): a witness decomposition of it was measured to return a point off the line and to miss
+    the special one, and Gauss-Newton projections onto V(f, grad f) to slide along it. On a line the
+    cubic is a polynomial in the line's parameter: its roots are the special points.
+    """
+    n = polynomial.n_variables
+    direction = _line_direction(polynomial, generic)
+    if direction is None:
+        return None
+    try:
+        equations = _cubic_jump_system(polynomial, 1, rng)
+    except LimitError:  # the cubic's expansion is too large: not searched
+        return None
+    along = equations[-1].numeric().substitute_linear(direction[:, None], generic)   # the cubic in s
+    if along.n_terms == 0 or along.degree < 1:
+        return np.zeros((0, n), dtype=complex)
+    coefficients = np.zeros(along.degree + 1, dtype=complex)
+    for exponent, value in zip(along.exponents[:, 0], along.numeric_coefficients()):
+        coefficients[along.degree - int(exponent)] += value
+    largest = float(np.max(np.abs(coefficients), initial=0.0))
+    # leading coefficients at rounding level would put roots near infinity
+    while len(coefficients) > 1 and abs(coefficients[0]) <= 1e-12 * largest:
+        coefficients = coefficients[1:]
+    roots = np.roots(coefficients) if len(coefficients) > 1 else np.zeros(0)
+    return np.array([generic + r * direction for r in roots], dtype=complex).reshape(-1, n)
+
+
+def _distinct_points(points, tolerance=1e-6):
+    """The rows of ``points`` with near duplicates (relative distance below ``tolerance``) removed."""
+    kept = []
+    for p in points:
+        if all(np.linalg.norm(p - q) > tolerance * (1 + np.linalg.norm(q)) for q in kept):
+            kept.append(p)
+    return np.array(kept, dtype=complex).reshape(-1, points.shape[1])
+
+
+def _system_component_anatomy(system, component, seed, options):
+    """The transversal type of X = V(F) (several equations) along a singular component: X cut by a random
+    normal affine space through a witness point, in the slice's own coordinates s (x = p + N s)."""
+    _, rng = random_state(seed)
+    n, k = system.n_variables, component.dimension
+    generic = np.asarray(component.points[0], dtype=complex)
+    scaling, polynomials = _balanced(system)
+    computed = scaling.to_computed(generic)
+    normal = rng.standard_normal((n, n - k)) + 1j * rng.standard_normal((n, n - k))
+    normal, _ = np.linalg.qr(normal)
+    names = [f"s{j}" for j in range(n - k)]
+    origin = np.zeros(n - k, dtype=complex)
+    restricted = []
+    for q in polynomials:
+        sliced = q.substitute_linear(normal, computed)
+        sliced = sliced - complex(sliced.evaluate(origin))   # the generic point is on X: its value is rounding
+        # the witness point is known to about 1e-16 only (coordinates of 1e-17 where the curve has 0): terms
+        # within that error against the slice's largest are dropped; kept (a linear term of 1e-17), the
+        # slice's curve is smoothed at the point and the local witness points were lost on every slice
+        values = sliced.numeric_coefficients()
+        keep = np.abs(values) > _SLICE_ROUNDING * float(np.max(np.abs(values), initial=0.0))
+        restricted.append(Polynomial(sliced.exponents[keep], values[keep], n - k) if np.any(keep)
+                          else Polynomial.zero(n - k))
+    sliced_system = PolynomialSystem(names, restricted)
+    transversal = point_anatomy(sliced_system, origin, seed=seed, options=options)
+    transversal.point = generic
+    transversal.motion = None  # the slice is complex: no real motion to tell
+    notes = ["several equations: the transversal type is the anatomy of the normal slice (multiplicity, "
+             "branches); special points along the component are not searched"]
+    return ComponentAnatomy(component.id, k, transversal, [], notes, special_points_searched=False)
+
+
 def component_anatomy(system, component, seed=None, options=None, special_candidates=None):
     """Transversal type of a hypersurface along a singular component, and the points where it changes.
 
@@ -337,13 +477,17 @@ def component_anatomy(system, component, seed=None, options=None, special_candid
     complementary dimension) at a witness point of the component. The special points are the points
     where the Hessian's rank drops below its value at the generic point (the pinch points of a double
     line): the isolated points of V(f, grad f, the minors of the Hessian one size larger than that
-    rank), each with the anatomy of its own normal slice. A change of mu at constant Hessian rank
-    (A2 -> A3 along a cuspidal edge) is not searched for.
+    rank), each with the anatomy of its own normal slice. Where the transversal type is A2 and the
+    component a line, also the points where the cubic along the kernel vanishes (A2 -> A3 on a cuspidal
+    edge at constant Hessian rank, :func:`_cubic_jump_system`).
+
+    For several equations (X of codimension 2 and more) the transversal type is the anatomy of X cut by
+    the normal slice: its multiplicity and, for a curve, its branches; special points are not searched.
 
     Parameters
     ----------
     system : PolynomialSystem
-        One equation (a hypersurface).
+        One equation (a hypersurface), or several.
     component : SingularComponent
         Of positive dimension (user's units).
     seed : int, optional
@@ -368,7 +512,7 @@ def component_anatomy(system, component, seed=None, options=None, special_candid
     options = options or AnatomyOptions()
     seed, rng = random_state(seed)
     if system.n_equations != 1:
-        raise InputError("the transversal type along a component is computed for hypersurfaces (one equation)")
+        return _system_component_anatomy(system, component, seed, options)
     scaling, polynomials = _balanced(system)
     f = polynomials[0]
     k = component.dimension
@@ -377,10 +521,12 @@ def component_anatomy(system, component, seed=None, options=None, special_candid
     transversal = _slice_anatomy(f, generic, generic_user, k, rng, options)
     notes = []
     special = []
+    searched = True
     if special_candidates is not None:
         candidates = np.atleast_2d(special_candidates)
     elif options.special_points:
         evidence, _, unclear = hessian_evidence(f, generic)
+        searched = not unclear and evidence.rank > 0
         if unclear:
             notes.append("the Hessian's rank at the generic point is unclear: special points not searched")
             candidates = np.zeros((0, system.n_variables))
@@ -392,11 +538,24 @@ def component_anatomy(system, component, seed=None, options=None, special_candid
             found = decompose(jump, seed=seed)
             candidates = scaling.to_user(np.array([c.points[0] for c in found.components if c.dimension == 0])
                                          .reshape(-1, system.n_variables))
+            kind = transversal.hypersurface.type if transversal.hypersurface is not None else None
+            if kind is not None and kind.family is Family.A and kind.index == 2:
+                # A2 -> A3 and beyond at constant Hessian rank (a cuspidal edge's special points)
+                more = _cubic_jump_points(f, generic, rng) if k == 1 else None
+                if more is None:
+                    notes.append("transversal type A2: a jump of mu at constant Hessian rank is searched on singular "
+                                 "lines only; this component is not one")
+                else:
+                    candidates = _distinct_points(np.vstack([candidates, scaling.to_user(more)]))
+            elif kind is not None and kind.family is Family.A and kind.index > 2:
+                notes.append(f"transversal type {kind.label}: only the points where the Hessian's rank drops were "
+                             "searched (a jump of mu at constant rank beyond A2 is not)")
     else:
         candidates = np.zeros((0, system.n_variables))
+        searched = False
     for candidate in candidates:
         special.append(_slice_anatomy(f, scaling.to_computed(candidate), candidate, k, rng, options))
-    return ComponentAnatomy(component.id, k, transversal, special, notes)
+    return ComponentAnatomy(component.id, k, transversal, special, notes, special_points_searched=searched)
 
 
 # --- over a locus, over checked points -----------------------------------------------------------------
@@ -437,7 +596,7 @@ def locus_anatomy(locus, seed=None, angles=None, options=None):
                 components[c.id].notes.append("several singular components: the special points were not searched "
                                               "(they could not be told apart by component)")
         else:
-            notes.append(f"component {c.id}: the transversal type is computed for hypersurfaces only")
+            components[c.id] = component_anatomy(system, c, seed=seed + c.id, options=options)
     return LocusAnatomy(points, components, time.perf_counter() - started, notes)
 
 

@@ -40,7 +40,8 @@ def write_point_anatomy(anatomy, names, out, indent="        "):
                                                        else ", not quasi-homogeneous")
         mu = "infinite" if h.milnor is None else str(h.milnor)
         tau = "infinite" if h.tjurina is None else str(h.tjurina)
-        out.write(f"{indent}type {h.type.label}: Hessian corank {h.corank}, Milnor number {mu}, Tjurina number "
+        paths = "" if h.milnor_by_paths is None else f" ({h.milnor_by_paths} by homotopy paths)"
+        out.write(f"{indent}type {h.type.label}: Hessian corank {h.corank}, Milnor number {mu}{paths}, Tjurina number "
                   f"{tau}{qh}\n")
         values = ", ".join(f"{v:.3g}" for v in h.hessian.singular_values)
         out.write(f"{indent}  decided by: {h.decided_by.value} (scaled Hessian singular values [{values}], zero "
@@ -62,7 +63,11 @@ def write_component_anatomy(anatomy, names, out, indent="        "):
     out.write(f"{indent}transversal type (a generic normal slice at a generic point):\n")
     write_point_anatomy(anatomy.transversal, [f"u{j + 1}" for j in range(len(names) - anatomy.dimension)], out,
                         indent + "  ")
-    out.write(f"{indent}{counted(len(anatomy.special_points), 'special point')} where the transversal type changes\n")
+    if anatomy.special_points_searched:
+        found = counted(len(anatomy.special_points), "special point")
+        out.write(f"{indent}{found} where the transversal type changes\n")
+    else:
+        out.write(f"{indent}special points where the transversal type changes: not searched\n")
     for point in anatomy.special_points:
         shown = np.where(np.abs(point.point) < 1e-12 * (1 + np.max(np.abs(point.point))), 0, point.point)
         out.write(f"{indent}  at {_format_point(names, shown)}:\n")
