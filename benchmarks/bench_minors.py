@@ -1,6 +1,6 @@
 """Jacobian minors expanded into polynomials against minors evaluated from the Jacobian (numeric.minors).
 
-Run:  python benchmarks/bench_minors.py [--quick] [--points N]
+Run:  python benchmarks/bench_minors.py [--quick] [--points N] [--singular] [--barth]
 
 For each case, side by side in one run: the expansion of the minors (time, number of terms, or the limit
 that refused it) and the evaluated form (set-up, values and gradients at N points in double, one point in
@@ -8,6 +8,13 @@ mpmath at 30 digits). The cases are the ones the singular-locus pipeline builds:
 the random (r + 1)-minors that deflation adds to an augmented system F + minors, and beside them the size of
 the same deflation step in the kernel form (new unknowns lambda, J B lambda = 0, h . lambda = 1). Results also go to
 benchmarks/results/bench_minors.json.
+
+Second table (decision 0050): the same deflation minors as the witness pipeline holds a homotopy with them,
+c random combinations of F and the minor raised to one degree by X_0 powers, written out by polynomial
+arithmetic (``combine_equations`` of the expanded minor) or evaluated from values and gradients
+(``CombinedRows``), and which of the two ``holding_rows`` picks (``EXPANSION_MONOMIALS``). With ``--singular``,
+``numag singular``'s computation on the swallowtail surface (time, pieces, paths); ``--barth`` adds Barth's
+sextic with the golden ratio as an unknown (many minutes on a shared 2-core machine).
 """
 
 import argparse
@@ -96,10 +103,69 @@ def measure(name, polynomials, size, rng, points, quick):
     return row
 
 
+def held_rows(name, polynomials, size, rng, points):
+    """Rows holding a homotopy on a deflated component: expanded by polynomial arithmetic against evaluated."""
+    from numag.numeric.evaluate import BatchEvaluator
+    from numag.numeric.minors import CombinedRows
+    from numag.witness.cascade import combine_equations, random_rows
+    from numag.witness.decompose import EXPANSION_MONOMIALS, expansion_bound
+    n = polynomials[0].n_variables
+    codimension = size  # the rows a component of codimension `size` is held by
+    weights = random_minor_weights(len(polynomials), n, size, 0, rng, count=1)
+    homogeneous = [p.homogenize(0) for p in polynomials]
+    row = {"case": name, "bound": expansion_bound(polynomials, size, n)}
+    row["picked"] = "evaluated" if row["bound"] > EXPANSION_MONOMIALS else "expanded"
+    at = rng.standard_normal((points, n + 1)) + 1j * rng.standard_normal((points, n + 1))
+    started = time.perf_counter()
+    try:
+        minor = expanded_minors(polynomials, weights, normalize=True)
+        combined = combine_equations(homogeneous + [p.homogenize(0) for p in minor], codimension,
+                                     np.random.default_rng(1))
+        row["expanded_build_seconds"] = time.perf_counter() - started
+        row["expanded_terms"] = sum(p.n_terms for p in combined)
+        evaluator = BatchEvaluator(combined)
+        started = time.perf_counter()
+        evaluator.evaluate(at)
+        row["expanded_eval_seconds"] = time.perf_counter() - started
+    except LimitError as err:
+        row["expanded_terms"], row["expanded_outcome"] = None, f"refused: {err}"
+    started = time.perf_counter()
+    minors = EvaluatedMinors.from_weights(polynomials, weights, homogenized=True)
+    rows = CombinedRows(homogeneous, minors, random_rows(np.random.default_rng(1), codimension,
+                                                        len(homogeneous) + 1))
+    row["evaluated_build_seconds"] = time.perf_counter() - started
+    started = time.perf_counter()
+    rows.evaluate(at)
+    row["evaluated_eval_seconds"] = time.perf_counter() - started
+    return row
+
+
+def singular_runs(barth):
+    """numag singular's computation (API, seed 1, in-process) on the swallowtail and, optionally, Barth."""
+    from numag.singular.locus import singular_locus
+    runs = [("swallowtail", SWALLOWTAIL)] + ([("Barth, golden ratio as unknown", BARTH_PHI)] if barth else [])
+    out = []
+    for name, (equations, variables) in runs:
+        started = time.perf_counter()
+        locus = singular_locus(parse_system(equations, variables), seed=1)
+        affine = [c for c in locus.components if not c.at_infinity]
+        out.append({"case": name, "seconds": time.perf_counter() - started,
+                    "points": sum(1 for c in affine if c.dimension == 0),
+                    "curves": sorted(c.degree for c in affine if c.dimension == 1),
+                    "paths": int(locus.paths.get("tracked", 0)),
+                    "failed": {k: v for k, v in locus.paths.items() if k in ("minimum_step", "step_limit",
+                                                                             "endgame_unsettled", "jumped") and v}})
+        print(f"singular {name}: {out[-1]['seconds']:.1f} s, {out[-1]['points']} affine points, curves of degrees "
+              f"{out[-1]['curves']}, {out[-1]['paths']} paths, failed {out[-1]['failed']}", flush=True)
+    return out
+
+
 def main():
     parser = argparse.ArgumentParser(description=__doc__)
     parser.add_argument("--quick", action="store_true", help="skip evaluating the expanded minors")
     parser.add_argument("--points", type=int, default=1000)
+    parser.add_argument("--singular", action="store_true", help="also time numag singular on the swallowtail")
+    parser.add_argument("--barth", action="store_true", help="with --singular: also Barth's sextic (minutes)")
     args = parser.parse_args()
     rng = np.random.default_rng(0)
     rows = []
@@ -122,6 +188,21 @@ def main():
             print(f"    expanded minor evaluated at {args.points} points in {row['expanded_eval_seconds']:.3f} s; "
                   f"largest relative difference {row['max_relative_difference']:.1e}")
     print(f"(eval s: values and gradients at {args.points} points in double; mp s: one point at 30 digits)")
+    print()
+    print(f"{'held rows (witness pipeline)':56s} {'bound':>7s} {'picked':>9s} {'terms':>7s} {'build s':>8s} "
+          f"{'eval s':>8s} {'ev build':>8s} {'ev eval':>8s}")
+    held = []
+    for name, polynomials, size in cases(rng):
+        if size == 1 or size > 3:  # small sizes by default: the 4 x 4 expansion alone takes 20 s
+            continue
+        row = held_rows(name, polynomials, size, rng, args.points)
+        held.append(row)
+        print(f"{name:56s} {row['bound']:7d} {row['picked']:>9s} {row['expanded_terms']!s:>7s} "
+              f"{row.get('expanded_build_seconds', float('nan')):8.2f} {row.get('expanded_eval_seconds', float('nan')):8.3f} "
+              f"{row['evaluated_build_seconds']:8.3f} {row['evaluated_eval_seconds']:8.3f}", flush=True)
+    rows.append({"held_rows": held})
+    if args.singular:
+        rows.append({"singular": singular_runs(args.barth)})
     folder = os.path.join(os.path.dirname(__file__), "results")
     os.makedirs(folder, exist_ok=True)
     with open(os.path.join(folder, "bench_minors.json"), "w") as handle:

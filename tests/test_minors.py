@@ -231,3 +231,50 @@ def test_kernel_deflation_makes_the_origin_a_regular_zero(equations, seed):
     assert np.max(np.abs(values)) < 1e-12
     singular_values = np.linalg.svd(jacobian[0], compute_uv=False)
     assert singular_values[-1] > 1e-3 * singular_values[0]  # full column rank 3: regular
+
+
+@pytest.mark.parametrize("seed", [0, 1, 2])
+def test_combined_rows_match_sympy(seed):
+    # Reference: sympy, a general-purpose computer algebra library used as an exact reference only. The rows
+    # sum_j W_ij X0^(D - d_j) e_j(X) with e = (homogenised F, homogenised det(A J B)) are written out by sympy
+    # and differentiated; CombinedRows gets them from evaluated values and gradients (product rule for X0).
+    from numag.numeric.minors import CombinedRows
+    rng = np.random.default_rng(seed)
+    system = parse_system(EQUATIONS, NAMES)
+    weights = random_minor_weights(3, 4, 2, 0, rng, count=1)
+    minors = EvaluatedMinors.from_weights(system.polynomials, weights, homogenized=True)
+    homogeneous = [p.numeric().homogenize(0) for p in system.polynomials]
+    combination = rng.standard_normal((2, 4)) + 1j * rng.standard_normal((2, 4))
+    rows = CombinedRows(homogeneous, minors, combination)
+    symbols = sympy.symbols(["X0"] + NAMES)
+    x0, affine = symbols[0], symbols[1:]
+    polys = SYMPY_FORMS[tuple(EQUATIONS)](*affine)
+    jacobian = sympy.Matrix([[sympy.diff(f, v) for v in affine] for f in polys])
+    minor = sympy.expand((sympy.Matrix(weights.left[0].tolist()) * jacobian * sympy.Matrix(weights.right[0].tolist()))
+                         .det())
+    base = polys + [minor]
+
+    def homogenised(f):
+        degree = sympy.Poly(f, *affine).total_degree()
+        return sympy.expand(x0 ** degree * f.subs({v: v / x0 for v in affine}, simultaneous=True)), degree
+
+    parts = [homogenised(f) for f in base]
+    top = max(d for _, d in parts)
+    assert rows.degree == top == minors.degrees[0]
+    point = rng.standard_normal(5) + 1j * rng.standard_normal(5)
+    values, gradients = rows.evaluate(point[None, :])
+    at = dict(zip(symbols, point))
+    for i in range(2):
+        row = sum(complex(combination[i, j]) * x0 ** (top - d) * h for j, (h, d) in enumerate(parts))
+        expected = complex(row.subs(at).evalf(30))
+        scale = 1 + abs(expected)
+        assert abs(values[0, i] - expected) <= 1e-9 * scale
+        for k, v in enumerate(symbols):
+            derivative = complex(sympy.diff(row, v).subs(at).evalf(30))
+            assert abs(gradients[0, i, k] - derivative) <= 1e-9 * (1 + abs(derivative))
+    # the mpmath form agrees with the double one
+    with mpmath.workdps(30):
+        precise_values, precise_gradients = rows.evaluate_precise([mpmath.mpc(v) for v in point], mpmath.mp)
+    assert np.allclose([complex(precise_values[i]) for i in range(2)], values[0], rtol=1e-10)
+    assert np.allclose([[complex(precise_gradients[i, k]) for k in range(5)] for i in range(2)], gradients[0],
+                       rtol=1e-10)

@@ -41,7 +41,7 @@ from ..errors import InputError
 from ..system.polynomial import DEFAULT_LIMITS, Polynomial, combined_minor, determinant
 from .evaluate import BatchEvaluator, PrecisionEvaluator, TermSizes
 
-__all__ = ["AugmentedEvaluator", "EvaluatedMinors", "MinorWeights", "expanded_minors", "kernel_deflation",
+__all__ = ["AugmentedEvaluator", "CombinedRows", "EvaluatedMinors", "MinorWeights", "expanded_minors", "kernel_deflation",
            "random_minor_weights"]
 
 
@@ -545,6 +545,124 @@ class AugmentedEvaluator:
             for j in range(n if jacobian else 0):
                 matrix[m + k, j] = g_gradients[k, j]
         return (values, matrix) if jacobian else values
+
+
+class CombinedRows:
+    """Random combinations of homogeneous equations, some of them evaluated minors, applied to values and gradients.
+
+    Row i is r_i(X) = sum_j W_ij X_0^(D - d_j) e_j(X), where e_1..e_m are homogeneous polynomials and
+    e_(m+1)..e_(m+K) homogenised :class:`EvaluatedMinors` (never expanded), d_j their degrees and D the largest:
+    what :func:`~numag.witness.cascade.combine_equations` builds by polynomial arithmetic, here from the
+    evaluated values and gradients (product rule for the X_0 powers). Such rows can hold a homotopy on a
+    component (see ``ParameterHomotopy(..., held=...)``) with deflation minors that were never written out.
+
+    Parameters
+    ----------
+    polynomials : sequence of Polynomial
+        Homogeneous, in n + 1 variables (X_0 first).
+    minors : EvaluatedMinors or None
+        Homogenised (``EvaluatedMinors.from_weights(..., homogenized=True)``), in the same variables.
+    weights : array_like, shape (c, m + K)
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> f = [p.homogenize(0) for p in parse_system(["x^2 + y^2 - 1"], ["x", "y"]).polynomials]
+    >>> rows = CombinedRows(f, None, [[2.0]])
+    >>> values, jacobian = rows.evaluate(np.array([[1.0, 1.0, 1.0]]))
+    >>> values.real, jacobian[0].real
+    (array([[2.]]), array([[-4.,  4.,  4.]]))
+    """
+
+    def __init__(self, polynomials, minors, weights):
+        self.polynomials = [p.numeric() for p in polynomials]
+        self.minors = minors
+        self.weights = np.atleast_2d(np.asarray(weights, dtype=complex))
+        self.n_variables = minors.n_variables if minors is not None else self.polynomials[0].n_variables
+        base_degrees = [p.degree for p in self.polynomials] + ([] if minors is None else list(minors.degrees))
+        if self.weights.shape[1] != len(base_degrees):
+            raise InputError(f"{self.weights.shape[1]} weights per row for {len(base_degrees)} equations")
+        self.base_degrees = np.array(base_degrees, dtype=np.int64)
+        self.degree = int(self.base_degrees.max(initial=0))
+        self.raise_by = self.degree - self.base_degrees  # the X_0 power of each equation
+        self.count = len(self.weights)
+        self._evaluator = AugmentedEvaluator(self.polynomials, minors, projective=True, homogenized=True) \
+            if minors is not None else None
+        self._polynomial_evaluator = BatchEvaluator(self.polynomials) if minors is None else None
+        self._polynomial_sizes = TermSizes(self.polynomials, homogenized=True) if minors is None else None
+        # only its reference point (the chart X_0 = 1 rule) is used, for the sizes of the X_0 powers
+        self._reference = TermSizes([Polynomial.variable(0, self.n_variables)], homogenized=True)
+
+    @property
+    def degrees(self):
+        """The degree of every row (all D)."""
+        return [self.degree] * self.count
+
+    def _base(self, points, jacobian=True):
+        source = self._evaluator if self._evaluator is not None else self._polynomial_evaluator
+        return source.evaluate(points, jacobian)
+
+    def evaluate(self, points, jacobian=True):
+        """Rows (P, c) and, with ``jacobian``, their gradients (P, c, n + 1)."""
+        points = np.atleast_2d(np.asarray(points, dtype=complex))
+        result = self._base(points, jacobian)
+        values, gradients = (result[0], result[1]) if jacobian else (result, None)
+        x0 = points[:, :1]
+        power = x0 ** self.raise_by[None, :]  # (P, m + K)
+        rows = (values * power) @ self.weights.T
+        if not jacobian:
+            return rows
+        lower = np.where(self.raise_by > 0, self.raise_by * x0 ** np.maximum(self.raise_by - 1, 0), 0)
+        raised = gradients * power[:, :, None]
+        raised[:, :, 0] += lower * values  # d/dX_0 of X_0^e: the product rule
+        return rows, np.einsum("ij,pjl->pil", self.weights, raised)
+
+    def both(self, points):
+        """Term sizes of the rows and of their gradients, each (P, c) (as :class:`TermSizes`)."""
+        points = np.atleast_2d(points)
+        if self._evaluator is not None:
+            values, gradients = self._evaluator.both(points)
+        else:
+            values, gradients = self._polynomial_sizes.both(points)
+        rho0 = self._reference.reference(points)[:, :1]
+        power = rho0 ** self.raise_by[None, :]
+        lower = np.where(self.raise_by > 0, self.raise_by * rho0 ** np.maximum(self.raise_by - 1, 0), 0)
+        weights = np.abs(self.weights).T
+        return (values * power) @ weights, (gradients * power + lower * values) @ weights
+
+    def values(self, points):
+        """Term sizes of the rows (P, c)."""
+        return self.both(points)[0]
+
+    def gradients(self, points):
+        """Term sizes of the gradient rows (P, c)."""
+        return self.both(points)[1]
+
+    def evaluate_precise(self, point, ctx, jacobian=True):
+        """Rows and gradients at one point in an mpmath context: ctx matrices (c, 1) and (c, n + 1)."""
+        if self._evaluator is not None:
+            result = self._evaluator.evaluate_precise(point, ctx, jacobian)
+        else:
+            result = PrecisionEvaluator(self.polynomials).evaluate(point, ctx, jacobian)
+        values, gradients = (result[0], result[1]) if jacobian else (result, None)
+        size, n = len(self.base_degrees), self.n_variables
+        x0 = point[0]
+        out_values = ctx.matrix(self.count, 1)
+        out_gradients = ctx.matrix(self.count, n) if jacobian else None
+        for i in range(self.count):
+            for j in range(size):
+                w = self.weights[i, j]
+                if w == 0:
+                    continue
+                w = ctx.mpc(float(w.real), float(w.imag))
+                e = int(self.raise_by[j])
+                out_values[i] += w * x0 ** e * values[j]
+                if jacobian:
+                    for l in range(n):
+                        out_gradients[i, l] += w * x0 ** e * gradients[j, l]
+                    if e:
+                        out_gradients[i, 0] += w * e * x0 ** (e - 1) * values[j]
+        return (out_values, out_gradients) if jacobian else out_values
 
 
 def kernel_deflation(polynomials, rank, rng):

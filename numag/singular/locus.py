@@ -53,8 +53,8 @@ from ..numeric.seeds import resolved_seed
 from ..tracking.solve import SolveOptions, solve_system
 from ..tracking.starts import StartKind
 from ..tracking.tracker import FAILURE_LABELS
-from ..witness.cascade import combine_equations, linear_form, random_rows, track_moves
-from ..witness.decompose import DecomposeOptions, Decomposition, components_through, decompose, holding_equations
+from ..witness.cascade import held_parts, linear_form, random_rows, track_moves
+from ..witness.decompose import DecomposeOptions, Decomposition, components_through, decompose, holding_rows
 from .isolated import finite_singular_points, null_vector_system
 from .kinds import CandidateSystem, Formulation, PieceKind, Verdict
 from .smoothness import CheckOptions, check_points
@@ -277,8 +277,8 @@ def _estimated_paths(system, variety, codimension, kind):
 def _tangent_dimension(augmented, component, rng):
     """Dimension of the tangent space of a candidate component at its first witness point (deflated system)."""
     codim = augmented.n_variables - component.dimension
-    equations, _ = holding_equations(augmented, codim, component.points, rng)
-    _, jacobian = BatchEvaluator(equations).evaluate(component.points[:1])
+    evaluator, _ = holding_rows(augmented, codim, component.points, rng).evaluator()
+    _, jacobian = evaluator.evaluate(component.points[:1])
     values = np.linalg.svd(jacobian[0], compute_uv=False)
     rank = int(np.sum(values > 1e-8 * max(values.max(initial=0), 1)))
     return augmented.n_variables - rank
@@ -329,9 +329,8 @@ def _projected_candidates(system, null_system, candidates, rng, options, paths):
             result.append((0, x_points[:1], component.multiplicity, None))
             continue
         codim = null_system.n_variables - component.dimension
-        equations, _ = holding_equations(null_system, codim, component.points, rng)
-        evaluator = BatchEvaluator(equations)
-        _, jacobian = evaluator.evaluate(component.points[:1])
+        equations = holding_rows(null_system, codim, component.points, rng)
+        _, jacobian = equations.evaluator()[0].evaluate(component.points[:1])
         _, values, vh = np.linalg.svd(jacobian[0])
         rank = int(np.sum(values > 1e-8 * max(values.max(initial=0), 1)))
         tangent = vh[rank:].conj().T  # kernel basis, (n + c) x dim
@@ -346,10 +345,10 @@ def _projected_candidates(system, null_system, candidates, rng, options, paths):
         l_rows = random_rows(rng, fibre, null_system.n_variables + 1)
         l_rows[:, 1:1 + n] = 0
         target_rows = np.vstack([x_rows, l_rows])
-        held = combine_equations([p.homogenize(0) for p in equations], codim, rng)
+        held, block = held_parts(equations.combined(codim, rng))
         run = track_moves(held + [linear_form(r) for r in component.slice_rows],
                           held + [linear_form(r) for r in target_rows], component.points, rng,
-                          options.decompose.witness.tracker)
+                          options.decompose.witness.tracker, held=block)
         run.counts.add_to(paths)
         ends = run.affine_endpoints()
         ends = ends[np.all(np.isfinite(ends), axis=1)][:, :n]

@@ -325,6 +325,10 @@ class ParameterHomotopy(_PatchedHomotopy):
     gamma : complex
     homogenized : bool, default True
         As for :class:`StraightLineHomotopy`.
+    held : CombinedRows, optional
+        Rows equal in start and target, evaluated rather than written out (random combinations of F and
+        evaluated minors, :class:`~numag.numeric.minors.CombinedRows`): the first rows of H, before ``start``
+        and ``target``.
 
     Examples
     --------
@@ -337,25 +341,28 @@ class ParameterHomotopy(_PatchedHomotopy):
     (2, 2)
     """
 
-    def __init__(self, start, target, patch, gamma, homogenized=True):
+    def __init__(self, start, target, patch, gamma, homogenized=True, held=None):
         self.start_polynomials = list(start)
         self.target = list(target)
         self.patch = np.asarray(patch, dtype=complex)
         self.gamma = complex(gamma)
         self.size = len(self.patch)
-        if len(self.target) + 1 != self.size or len(self.start_polynomials) != len(self.target):
+        self.held = held
+        first = 0 if held is None else held.count  # the held rows come first
+        if first + len(self.target) + 1 != self.size or len(self.start_polynomials) != len(self.target):
             raise InputError("start and target must be square systems of the same size")
-        self.evaluator = BatchEvaluator(self.target)
+        self.evaluator = BatchEvaluator(self.target) if held is None else _HeldThenPolynomials(held, self.target)
         # Rows equal in start and target (equations held fixed while slices move) are evaluated once.
-        self._moving = np.array([k for k, (a, b) in enumerate(zip(self.start_polynomials, self.target))
-                                 if not (a is b or a == b)], dtype=np.int64)
-        self.start_evaluator = (BatchEvaluator([self.start_polynomials[k] for k in self._moving])
+        self._moving = first + np.array([k for k, (a, b) in enumerate(zip(self.start_polynomials, self.target))
+                                         if not (a is b or a == b)], dtype=np.int64)
+        self.start_evaluator = (BatchEvaluator([self.start_polynomials[k - first] for k in self._moving])
                                 if len(self._moving) else None)
         self.evaluations = 0
         self.value_evaluations = 0
         self._precise = None
         self._precise_start = None
-        self._sizes = TermSizes(self.target, projective=True, homogenized=homogenized)
+        self._sizes = TermSizes(self.target, projective=True, homogenized=homogenized) if held is None \
+            else self.evaluator
 
     @classmethod
     def from_systems(cls, start_system, target_system, rng):
@@ -432,8 +439,14 @@ class ParameterHomotopy(_PatchedHomotopy):
             self._precise = PrecisionEvaluator(self.target)
             self._precise_start = PrecisionEvaluator(self.start_polynomials)
         size = self.size
-        f_values, f_jac = self._precise.evaluate(point, ctx)
+        f_values, f_jac = self._precise.evaluate(point, ctx) if self.held is None \
+            else self.evaluator.evaluate_mp(point, ctx)
         g_values, g_jac = self._precise_start.evaluate(point, ctx)
+        first = 0 if self.held is None else self.held.count
+        if first:  # held rows: the same in start and target
+            g_values = [f_values[i] for i in range(first)] + [g_values[i] for i in range(size - 1 - first)]
+            g_jac = [[f_jac[i, j] for j in range(size)] for i in range(first)] + \
+                [[g_jac[i, j] for j in range(size)] for i in range(size - 1 - first)]
         gamma = ctx.mpc(self.gamma.real, self.gamma.imag)
         denominator = 1 + (gamma - 1) * s
         tau, dtau = gamma * s / denominator, gamma / denominator ** 2
@@ -442,6 +455,51 @@ class ParameterHomotopy(_PatchedHomotopy):
             values[i] = (1 - tau) * f_values[i] + tau * g_values[i]
             derivative[i] = (g_values[i] - f_values[i]) * dtau
             for j in range(size):
-                jacobian[i, j] = (1 - tau) * f_jac[i, j] + tau * g_jac[i, j]
+                jacobian[i, j] = (1 - tau) * f_jac[i, j] + tau * (g_jac[i][j] if first else g_jac[i, j])
         self._precise_patch_row(values, jacobian, point, ctx)
         return values, jacobian, derivative
+
+
+class _HeldThenPolynomials:
+    """Evaluated held rows (:class:`~numag.numeric.minors.CombinedRows`) then polynomials, behind the interface
+    of :class:`BatchEvaluator` (``evaluate``, ``evaluate`` in mpmath) and of :class:`TermSizes` (``both``,
+    ``values``, ``gradients``)."""
+
+    def __init__(self, held, polynomials):
+        self.held = held
+        self.polynomials = list(polynomials)
+        self._evaluator = BatchEvaluator(self.polynomials)
+        self._sizes = TermSizes(self.polynomials, homogenized=True)
+        self._precise = None
+
+    def evaluate(self, points, jacobian=True):
+        if not jacobian:
+            return np.hstack([self.held.evaluate(points, False), self._evaluator.evaluate(points, jacobian=False)])
+        held_values, held_jacobian = self.held.evaluate(points)
+        values, jacobian_rows = self._evaluator.evaluate(points)
+        return np.hstack([held_values, values]), np.concatenate([held_jacobian, jacobian_rows], axis=1)
+
+    def both(self, points):
+        held_values, held_gradients = self.held.both(points)
+        values, gradients = self._sizes.both(points)
+        return np.hstack([held_values, values]), np.hstack([held_gradients, gradients])
+
+    def values(self, points):
+        return self.both(points)[0]
+
+    def gradients(self, points):
+        return self.both(points)[1]
+
+    def evaluate_mp(self, point, ctx):
+        """Values (M, 1) and Jacobian (M, N) in an mpmath context."""
+        if self._precise is None:
+            self._precise = PrecisionEvaluator(self.polynomials)
+        held_values, held_jacobian = self.held.evaluate_precise(point, ctx)
+        values, jacobian = self._precise.evaluate(point, ctx)
+        first, rest, n = self.held.count, len(self.polynomials), len(point)
+        out_values, out_jacobian = ctx.matrix(first + rest, 1), ctx.matrix(first + rest, n)
+        for i in range(first + rest):
+            out_values[i] = held_values[i] if i < first else values[i - first]
+            for j in range(n):
+                out_jacobian[i, j] = held_jacobian[i, j] if i < first else jacobian[i - first, j]
+        return out_values, out_jacobian

@@ -40,6 +40,8 @@ Examples
 4
 """
 
+import contextlib
+import contextvars
 from dataclasses import dataclass, field, replace
 import enum
 
@@ -52,13 +54,43 @@ from .methods import (ERROR_FLOOR, RK4, STEP_MAX_FACTOR, STEP_MIN_FACTOR, STEP_R
 from .rescue import track_segment_precise
 
 __all__ = ["PathStatus", "TrackerOptions", "TrackResult", "track_paths", "projective_condition", "Stepper",
-           "ButcherTableau", "RK4"]
+           "ButcherTableau", "RK4", "rescue_budget"]
 
 
 #: Work of the precision rescue (term evaluations in mpmath, about 30 us each at 40 digits) for one path and for
 #: all the failed paths of one call of :func:`track_paths`.
 RESCUE_WORK_PER_PATH = 1_000_000
 RESCUE_WORK_PER_BATCH = 2_000_000
+#: Work of the precision rescue for all the calls of :func:`track_paths` inside one :func:`rescue_budget` block
+#: (a witness cascade or a decomposition makes hundreds of calls: per call alone, the rescue of the regeneration
+#: paths of one system ran for more than ten minutes, decision 0050).
+RESCUE_WORK_PER_RUN = 6_000_000
+
+# [remaining work] shared by the track_paths calls of one block; None outside any block (each call alone)
+_RESCUE_BUDGET = contextvars.ContextVar("numag_rescue_budget", default=None)
+
+
+@contextlib.contextmanager
+def rescue_budget(work=RESCUE_WORK_PER_RUN):
+    """Share one budget of precision-rescue work among every :func:`track_paths` call inside the block.
+
+    A block inside another one draws on the outer budget (it never adds work). Batches sent to worker
+    processes keep the per-call budget (``RESCUE_WORK_PER_BATCH``) only.
+
+    Examples
+    --------
+    >>> with rescue_budget(10) as remaining:
+    ...     remaining[0]
+    10
+    """
+    if _RESCUE_BUDGET.get() is not None:
+        yield _RESCUE_BUDGET.get()
+        return
+    token = _RESCUE_BUDGET.set([int(work)])
+    try:
+        yield _RESCUE_BUDGET.get()
+    finally:
+        _RESCUE_BUDGET.reset(token)
 
 
 class PathStatus(enum.IntEnum):
@@ -837,7 +869,9 @@ def track_paths(homotopy, start_points, options=None, progress=None):
         # it stay failed (counted and reported), instead of a 1,600-term equation running for ten minutes.
         terms = sum(p.n_terms for p in getattr(homotopy, "target", ())) or 1
         per_step = 7 * terms * start_points.shape[1]
-        budget = RESCUE_WORK_PER_BATCH
+        shared = _RESCUE_BUDGET.get()
+        budget = RESCUE_WORK_PER_BATCH if shared is None else min(RESCUE_WORK_PER_BATCH, shared[0])
+        granted = budget
         for k in failed:  # the few stragglers, one at a time in mpmath
             allowed = min(20000, RESCUE_WORK_PER_PATH // per_step, budget // per_step)
             if allowed < 20:
@@ -850,6 +884,8 @@ def track_paths(homotopy, start_points, options=None, progress=None):
             if near is not None:
                 rescued.append(k)
                 nears.append(near)
+        if shared is not None:
+            shared[0] -= granted - budget
         if rescued:
             rescued = np.array(rescued)
             again = _track(homotopy, None, opts, near=np.array(nears))

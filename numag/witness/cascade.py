@@ -40,14 +40,15 @@ from ..run.executor import ambient_executor, charge_paths
 from ..numeric.cluster import cluster_labels, groups
 from ..numeric.evaluate import BatchEvaluator, TermSizes
 from ..numeric.linalg import scaled_singular_values
+from ..numeric.minors import CombinedRows
 from ..numeric.refine import IsolationTest, largest_scaled_residual, project_to_variety
 from ..numeric.seeds import random_state
 from ..tracking.homotopy import ParameterHomotopy, random_unit_complex
 from ..tracking.service import PathCounts, TrackRun, track
-from ..tracking.tracker import TrackerOptions
+from ..tracking.tracker import TrackerOptions, rescue_budget
 
 __all__ = ["WitnessOptions", "WitnessSet", "WitnessSupersets", "witness_supersets", "Slicing", "track_moves",
-           "membership", "combine_equations", "random_rows", "linear_form", "jacobian_rank"]
+           "membership", "held_parts", "combine_equations", "random_rows", "linear_form", "jacobian_rank"]
 
 
 @dataclass(frozen=True)
@@ -239,7 +240,7 @@ def _product_oflinear_form(rows):
     return product
 
 
-def track_moves(start, target, points, rng, options, batch_size=4096, whole_cycles=False):
+def track_moves(start, target, points, rng, options, batch_size=4096, whole_cycles=False, held=None):
     """Track affine points from the square homogeneous system ``start`` to ``target`` (parameter homotopy).
 
     Parameters
@@ -253,6 +254,9 @@ def track_moves(start, target, points, rng, options, batch_size=4096, whole_cycl
     batch_size : int
     whole_cycles : bool
         ``points`` are every solution of ``start`` that moves (see :func:`~numag.tracking.service.track`).
+    held : CombinedRows, optional
+        Evaluated rows common to start and target, before them (then ``start`` and ``target`` have
+        n - held.count polynomials each).
 
     Returns
     -------
@@ -260,16 +264,17 @@ def track_moves(start, target, points, rng, options, batch_size=4096, whole_cycl
         ``affine_endpoints()`` gives the endpoints (NaN where the path failed or went to
         infinity), ``counts`` the paths by status.
     """
-    points = np.asarray(points, dtype=complex).reshape(-1, len(start))
+    n = len(start) + (0 if held is None else held.count)
+    points = np.asarray(points, dtype=complex).reshape(-1, n)
     count = len(points)
     if count == 0:  # nothing drawn from rng: the random data of later homotopies stays the same
-        return TrackRun.empty(len(start) + 1)
-    charge_paths(count, f"a homotopy of {len(start)} equations")  # the work guard, before any tracking
-    size = len(start) + 1
+        return TrackRun.empty(n + 1)
+    charge_paths(count, f"a homotopy of {n} equations")  # the work guard, before any tracking
+    size = n + 1
 
     def homotopy_with_fresh_gamma():
         patch = (rng.standard_normal(size) + 1j * rng.standard_normal(size)) / np.sqrt(2 * size)
-        made = ParameterHomotopy(start, target, patch, random_unit_complex(rng))
+        made = ParameterHomotopy(start, target, patch, random_unit_complex(rng), held=held)
         return made, made.start_solutions_from(points)
 
     homotopy, starts = homotopy_with_fresh_gamma()
@@ -290,6 +295,19 @@ def jacobian_rank(evaluator, sizes, points, threshold):
     return np.sum(values > threshold, axis=1)
 
 
+def held_parts(held):
+    """Held equations as (polynomials, evaluated block): a list of polynomials, or one :class:`CombinedRows`.
+
+    Examples
+    --------
+    >>> held_parts([])
+    ([], None)
+    """
+    if isinstance(held, CombinedRows):
+        return [], held
+    return list(held), None
+
+
 def membership(held, slice_rows, witness_points, point, rng, options):
     """Which witness points lie on a component through ``point`` (the homotopy membership test).
 
@@ -298,7 +316,7 @@ def membership(held, slice_rows, witness_points, point, rng, options):
 
     Parameters
     ----------
-    held : list of Polynomial
+    held : list of Polynomial or CombinedRows
         c homogeneous equations vanishing on the components, of full rank c at their witness points.
     slice_rows : ndarray, shape (n - c, n + 1)
         The hyperplanes of the witness points.
@@ -323,9 +341,10 @@ def membership(held, slice_rows, witness_points, point, rng, options):
             PathCounts()
     through = random_rows(rng, len(slice_rows), n + 1)
     through[:, 0] = -(through[:, 1:] @ point)  # each hyperplane passes through the point
+    held, block = held_parts(held)
     start = held + [linear_form(r) for r in slice_rows]
     target = held + [linear_form(r) for r in through]
-    run = track_moves(start, target, witness_points, rng, options.tracker, options.batch_size)
+    run = track_moves(start, target, witness_points, rng, options.tracker, options.batch_size, held=block)
     distance = np.nan_to_num(np.linalg.norm(run.affine_endpoints() - point[None, :], axis=1), nan=np.inf)
     return distance <= 1e-5 * (1 + np.linalg.norm(point)), run.counts
 
@@ -354,6 +373,14 @@ def witness_supersets(system, options=None, seed=None, progress=None):
     if system.projective:
         raise InputError("witness sets are computed for affine systems; give the projective system in an "
                          "affine chart (set one coordinate to 1)")
+    # One budget of precision rescue for the whole cascade: its hundreds of homotopies each allowed the
+    # per-call budget, which let the rescue of failing regeneration paths run for many minutes (decision 0050).
+    with rescue_budget():
+        return _witness_supersets(system, options, seed, progress)
+
+
+def _witness_supersets(system, options, seed, progress):
+    """:func:`witness_supersets` inside its rescue budget."""
     n = system.n_variables
     options = (options or WitnessOptions()).validated(n)
     _, rng = random_state(seed)

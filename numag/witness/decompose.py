@@ -42,11 +42,13 @@ from ..system.display import counted, html_table, short_point
 from ..system.polynomial import Polynomial, linear_space, require_numeric
 from ..numeric.cluster import cluster_labels
 from ..numeric.evaluate import BatchEvaluator, TermSizes
-from ..numeric.minors import expanded_minors, random_minor_weights
+from ..numeric.minors import (CombinedRows, EvaluatedMinors, AugmentedEvaluator, MinorWeights, expanded_minors,
+                              random_minor_weights)
 from ..numeric.scaling import Scaling
 from ..numeric.seeds import random_state, resolved_seed
 from ..tracking.service import PathCounts
-from .cascade import (WitnessOptions, combine_equations, jacobian_rank, linear_form, membership, random_rows,
+from ..tracking.tracker import rescue_budget
+from .cascade import (WitnessOptions, combine_equations, held_parts, jacobian_rank, linear_form, membership, random_rows,
                       track_moves, witness_supersets)
 
 __all__ = ["Component", "Decomposition", "DecomposeOptions", "decompose", "components_through"]
@@ -205,13 +207,70 @@ def random_minor(polynomials, size, rng, n):
     return minors[0] if minors else Polynomial.zero(n)
 
 
+#: A deflation minor whose expansion could have more monomials than this is evaluated, never expanded. Below it
+#: the expanded polynomial is as fast to evaluate (decisions 0039 and 0050: 238 terms, expanded 2 times as fast;
+#: 877 terms, evaluated 12 times as fast); the bound C(n + D, n) over-states the terms 2 to 5 times.
+EXPANSION_MONOMIALS = 1000
+
+
+def expansion_bound(polynomials, size, n):
+    """Monomials a random size x size minor of the Jacobian of ``polynomials`` can have: C(n + D, n), D its degree.
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> expansion_bound(parse_system(["x^3 + y^3", "x*y"], ["x", "y"]).polynomials, 2, 2)  # degree 2 + 2
+    15
+    """
+    top = max((p.degree - 1 for p in polynomials), default=0)
+    return math.comb(n + size * max(top, 0), n)
+
+
+@dataclass
+class HeldEquations:
+    """Affine equations holding X's components through some points, of full rank there (see :func:`holding_rows`).
+
+    Attributes
+    ----------
+    polynomials : list of Polynomial
+        Affine numeric polynomials: F, and deflation minors that were small enough to expand.
+    minors : MinorWeights or None
+        Deflation minors of ``polynomials`` evaluated from the Jacobian (never expanded), when large.
+    deflated : bool
+    """
+
+    polynomials: list
+    minors: MinorWeights | None = None
+    deflated: bool = False
+
+    def evaluator(self):
+        """Values and Jacobian of every equation, with their term sizes: (evaluator, sizes)."""
+        if self.minors is None:
+            return BatchEvaluator(self.polynomials), TermSizes(self.polynomials)
+        both = AugmentedEvaluator(self.polynomials, EvaluatedMinors.from_weights(self.polynomials, self.minors))
+        return both, both
+
+    def combined(self, count, rng):
+        """``count`` random combinations of the homogenised equations: polynomials, or :class:`CombinedRows`.
+
+        Without evaluated minors this is :func:`combine_equations` (the same draws of ``rng``).
+        """
+        homogeneous = [p.homogenize(0) for p in self.polynomials]
+        if self.minors is None:
+            return combine_equations(homogeneous, count, rng)
+        minors = EvaluatedMinors.from_weights(self.polynomials, self.minors, homogenized=True)
+        minors = minors.scaled_to_unit(np.ones((1, minors.n_variables)))
+        return CombinedRows(homogeneous, minors, random_rows(rng, count, len(homogeneous) + minors.count))
+
+
 def holding_equations(system, codimension, points, rng, threshold=1e-6, max_rounds=4, simple=False):
     """Affine equations with X's components through ``points`` among their solutions, of full rank there.
 
     The system itself when rank J = codimension at every point (or the points are ``simple``: each
     the end of one path, a simple root of a square subsystem, so the rank is full whatever the size of
     its singular values); otherwise random minors of J (size rank + 1) are added until it is
-    (isosingular deflation).
+    (isosingular deflation). Every minor is expanded (exact work and callers that need polynomials);
+    :func:`holding_rows` evaluates the large ones instead.
 
     Returns
     -------
@@ -219,6 +278,30 @@ def holding_equations(system, codimension, points, rng, threshold=1e-6, max_roun
         Affine numeric polynomials.
     bool
         True when deflation was needed.
+    """
+    held = holding_rows(system, codimension, points, rng, threshold, max_rounds, simple, evaluate_large=False)
+    return held.polynomials, held.deflated
+
+
+def holding_rows(system, codimension, points, rng, threshold=1e-6, max_rounds=4, simple=False, evaluate_large=True):
+    """:func:`holding_equations` with the deflation minors that would expand large evaluated instead.
+
+    A minor whose expansion could exceed :data:`EXPANSION_MONOMIALS` monomials is appended as an evaluated
+    minor (:class:`~numag.numeric.minors.EvaluatedMinors`); evaluated minors are minors of polynomials, so
+    deflation stops after the round that adds them (as it stopped where an expansion was refused).
+
+    Returns
+    -------
+    HeldEquations
+
+    Examples
+    --------
+    >>> import numpy as np
+    >>> from numag.system.parse import parse_system
+    >>> double_plane = parse_system(["z^2"], ["x", "y", "z"])   # the plane z = 0, counted twice
+    >>> held = holding_rows(double_plane, 1, np.array([[0.3, 0.2, 0.0]]), np.random.default_rng(0))
+    >>> held.deflated, [p.degree for p in held.polynomials]
+    (True, [2, 1])
     """
     n = system.n_variables
     equations = [p.numeric() for p in system.polynomials]
@@ -232,6 +315,13 @@ def holding_equations(system, codimension, points, rng, threshold=1e-6, max_roun
         if low >= codimension:
             break
         deflated = True
+        if evaluate_large and expansion_bound(equations, low + 1, n) > EXPANSION_MONOMIALS:
+            # one random pair (A, B) per missing rank, minors of the equations of this round
+            weights = [random_minor_weights(len(equations), n, low + 1, 0, rng, count=1)
+                       for _ in range(codimension - low)]
+            minors = MinorWeights(np.concatenate([w.left for w in weights]),
+                                  np.concatenate([w.right for w in weights]), False)
+            return HeldEquations(equations, minors, True)
         try:
             for _ in range(codimension - low):
                 minor = random_minor(equations, low + 1, rng, n)
@@ -241,7 +331,7 @@ def holding_equations(system, codimension, points, rng, threshold=1e-6, max_roun
             # The expanded minor is too large to build: stop deflating. Paths on the undeflated
             # equations may fail; they are counted, and their groups reported as unconfirmed.
             break
-    return equations, deflated
+    return HeldEquations(equations, None, deflated)
 
 
 class _Mover:
@@ -253,18 +343,19 @@ class _Mover:
         self.rng = rng
         self.options = options
         self.paths = PathCounts()  # every path this mover tracked
-        equations, self.deflated = holding_equations(system, codimension, points, rng,
-                                                     options.witness.rank_threshold, simple=simple)
-        self.held = combine_equations([p.homogenize(0) for p in equations], codimension, rng)
+        equations = holding_rows(system, codimension, points, rng, options.witness.rank_threshold, simple=simple)
+        self.deflated = equations.deflated
+        self.held = equations.combined(codimension, rng)
         self.slice_rows = slice_rows
 
     def move(self, points, from_rows, to_rows):
-        start = self.held + [linear_form(r) for r in from_rows]
-        target = self.held + [linear_form(r) for r in to_rows]
+        held, block = held_parts(self.held)
+        start = held + [linear_form(r) for r in from_rows]
+        target = held + [linear_form(r) for r in to_rows]
         # No high-precision rescue here: a loop or trace path that fails only costs another loop or
         # translation, while re-tracking it in mpmath can take minutes (seen on three quadrics).
         tracker = replace(self.options.witness.tracker, rescue_digits=0)
-        run = track_moves(start, target, points, self.rng, tracker, self.options.witness.batch_size)
+        run = track_moves(start, target, points, self.rng, tracker, self.options.witness.batch_size, held=block)
         self.paths += run.counts
         return run.affine_endpoints()
 
@@ -448,7 +539,8 @@ def decompose(system, options=None, seed=None, progress=None):
     require_numeric(system)
     seed = resolved_seed(seed)
     scaling = Scaling.balancing(system)
-    result = _decompose(scaling.scale_system(system), options, seed, progress)
+    with rescue_budget():  # the cascade, the loops and the membership tests share one rescue budget
+        result = _decompose(scaling.scale_system(system), options, seed, progress)
     return result.in_units(scaling, system, to_user=True)
 
 
@@ -612,9 +704,8 @@ def components_through(decomposition, point, seed=0, options=None):
     found = []
     for component in decomposition.components:  # highest dimension first
         codimension = n - component.dimension
-        equations, _ = holding_equations(system, codimension, component.points, rng, options.witness.rank_threshold,
-                                         simple=component.reduced and component.multiplicity == 1)
-        held = combine_equations([p.homogenize(0) for p in equations], codimension, rng)
+        held = holding_rows(system, codimension, component.points, rng, options.witness.rank_threshold,
+                            simple=component.reduced and component.multiplicity == 1).combined(codimension, rng)
         hits, _ = membership(held, component.slice_rows, component.points, point, rng, options.witness)
         if np.any(hits):
             found.append(component)
