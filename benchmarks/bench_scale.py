@@ -353,12 +353,12 @@ def section_large(quick, numag_limit):
     system = matrix_minors_system(4, 2, "4 x 4 rank <= 2")
     from reference_timing import run_with_time_limit
     ours = run_with_time_limit(_numag_child, (system, 1), numag_limit)
-    _row(system.name, f"{ours[0]:.1f}" if ours else f"> {numag_limit}", 120, "",
+    _row(system.name, f"{ours[0]:.1f}" if ours else f"> {numag_limit} wall", 120, "",
          ours[1] if ours else "time limit")
 
 
-def section_families(quick, numag_limit, reference_limit):
-    print(f"\n== growing families (child processes; numag limit {numag_limit} s, sympy limit {reference_limit} s; "
+def section_families(quick, numag_limit, reference_limit, chosen=("nodal", "det", "quadrics")):
+    print(f"\n== growing families (child processes; wall-time limits: numag {numag_limit} s, sympy {reference_limit} s; "
           "CPU seconds of the computation, start-up excluded)")
     families = [
         ("nodal surfaces T_d(x)+T_d(x+y)+T_d(x+y+z)+1", [(d, nodal_surface(d)) for d in range(3, 7 if quick else 11)],
@@ -370,14 +370,16 @@ def section_families(quick, numag_limit, reference_limit):
                                          for k in range(2, 4 if quick else 6)],
          lambda k, _: f"{k * (k - 1) // 2} x dim 1 deg 4"),
     ]
-    for title, members, expectation in families:
+    for key, (title, members, expectation) in zip(("nodal", "det", "quadrics"), families):
+        if key not in chosen:
+            continue
         print(f"-- {title}")
         _row("size", "numag cpu s", "sympy cpu s", "sympy / numag", "numag's pieces (expected)", widths=(8, 12, 12, 14, 60))
         crossover, last_ratio = None, None
         for size, (system, expected) in members:
             ours, theirs = _timed_pair(system, 1, numag_limit, reference_limit)
-            ours_text = f"{ours[0]:.2f}" if ours else f"> {numag_limit}"
-            theirs_text = f"{theirs[0]:.2f}" if theirs else f"> {reference_limit}"
+            ours_text = f"{ours[0]:.2f}" if ours else f"> {numag_limit} wall"
+            theirs_text = f"{theirs[0]:.2f}" if theirs else f"> {reference_limit} wall"
             ratio = theirs[0] / ours[0] if ours and theirs and ours[0] > 0 else None
             if ours and theirs:
                 last_ratio = (size, ratio)
@@ -406,6 +408,7 @@ def main():
     parser = argparse.ArgumentParser(description=__doc__, formatter_class=argparse.RawDescriptionHelpFormatter)
     parser.add_argument("--quick", action="store_true", help="smaller sizes (about a minute)")
     parser.add_argument("--sections", default="parse,start,solve,judge,singular,check,large,families,memory")
+    parser.add_argument("--families", default="nodal,det,quadrics", help="which growing families (section families)")
     parser.add_argument("--reference-limit", type=float, default=600.0, help="seconds for each sympy run")
     parser.add_argument("--numag-limit", type=float, default=600.0, help="seconds for each numag child run")
     parser.add_argument("--memory-exponent", type=int, default=17, help="2^N paths for the memory row")
@@ -427,7 +430,7 @@ def main():
     if "large" in sections:
         section_large(args.quick, args.numag_limit)
     if "families" in sections:
-        section_families(args.quick, args.numag_limit, args.reference_limit)
+        section_families(args.quick, args.numag_limit, args.reference_limit, args.families.split(","))
     if "memory" in sections:  # last: RUSAGE_CHILDREN keeps the largest child so far
         section_memory(args.quick, args.memory_exponent)
 
