@@ -100,3 +100,16 @@ def test_mp_least_squares_double_route_minimum_norm_for_wide_matrices():
             with mpmath.mp.workdps(100):
                 reference = a_mp.H * mpmath.lu_solve(a_mp * a_mp.H, b_mp)
             assert mpmath.norm(x - reference) <= mpmath.mpf(10) ** -45 * mpmath.norm(reference)
+
+
+def test_mp_least_squares_double_route_below_double_range():
+    # A right-hand side of size 1e-400 (a Gauss-Newton residual at 400 digits) must not round to zero.
+    # Reference: the same system solved by mpmath's LU at 500 digits (a general-purpose reference library).
+    rng = np.random.default_rng(5)
+    a = rng.standard_normal((6, 4)) + 1j * rng.standard_normal((6, 4))
+    with mpmath.mp.workdps(420):
+        a_mp = mpmath.matrix(a.tolist())
+        b_mp = a_mp * mpmath.matrix([1, 2, 3, 4]) * mpmath.mpf(10) ** -400
+        x = mp_least_squares(a_mp, b_mp, mpmath.mp, rcond=mpmath.mpf(10) ** -300)
+        reference = mpmath.lu_solve(a_mp.H * a_mp, a_mp.H * b_mp)
+        assert mpmath.norm(x - reference) <= mpmath.mpf(10) ** -410 * mpmath.norm(reference)

@@ -288,16 +288,18 @@ def _refined_least_squares(matrix, rhs, ctx, rcond):
     for _ in range(int(ctx.dps) // 8 + 4):
         f = c - r - tall_matrix * z
         g = d - adjoint * r
-        f_double = np.array([complex(f[i]) for i in range(long_side)])
-        g_double = np.array([complex(g[j]) for j in range(short_side)])
-        if not (np.all(np.isfinite(f_double)) and np.all(np.isfinite(g_double))):
-            return None
+        # scaled to about 1 before rounding: residuals at 100 digits lie far below double's range
+        scale = max(ctx.norm(f), ctx.norm(g))
+        if scale == 0:
+            return z if tall else r
+        f_double = np.array([complex(f[i] / scale) for i in range(long_side)])
+        g_double = np.array([complex(g[j] / scale) for j in range(short_side)])
         dr, dz = correction(f_double, g_double)
-        r += to_ctx(dr)
-        z += to_ctx(dz)
+        dr, dz = to_ctx(dr) * scale, to_ctx(dz) * scale
+        r += dr
+        z += dz
         answer, change = (z, dz) if tall else (r, dr)
-        size = float(ctx.norm(answer))
-        if size == 0.0 or np.linalg.norm(change) <= 4 * float(ctx.eps) * size:
+        if ctx.norm(change) <= 4 * ctx.eps * ctx.norm(answer):
             return answer
     return None
 
