@@ -325,6 +325,10 @@ def _numag_child(system, seed, queue):
         pieces[key] = pieces.get(key, 0) + 1
     summary = "; ".join(f"{count} x dim {d} deg {g}" + (" inf" if inf else "")
                         for (d, g, inf), count in sorted(pieces.items()))
+    failed = sum(locus.paths.get(label, 0) for label in ("minimum_step", "step_limit", "non_finite",
+                                                           "endgame_unsettled", "batch_failed", "failed"))
+    if failed:  # the run's own warning: pieces may be missing
+        summary += f" [{failed} failed paths, flagged]"
     queue.put((time.process_time() - start, summary))
 
 
