@@ -1,7 +1,7 @@
 """Large systems (issue 19): reading, start-up, the whole solve process, judging candidates, memory.
 
-Run:  python benchmarks/bench_scale.py [--quick] [--sections parse,start,solve,singular,memory]
-      [--memory-exponent 17]
+Run:  python benchmarks/bench_scale.py [--quick] [--sections parse,start,solve,judge,singular,check,large,
+      families,memory] [--memory-exponent 17] [--reference-limit 600] [--numag-limit 600]
 
 Everything side by side in one run, one table per section (2 cores; the machine's load is printed first,
 since times on a shared machine are upper bounds). The goals are the issue's:
@@ -16,6 +16,14 @@ since times on a shared machine are upper bounds). The goals are the issue's:
   way before issue 19), CPU seconds and verdicts;
 * singular: the singular locus of a six-bar linkage in 10 unknowns (< 5 s), the Chebyshev curve
   T9(x) = T11(y) (40 nodes, < 2 s) and the union of three quadrics (< 10 s);
+* check: ``python -m numag check`` of one folded configuration of the six-bar (the whole process);
+* large: the singular locus of 4 x 4 matrices of rank <= 2 (rank <= 1 matrices: dimension 7, degree 20;
+  < 120 s), in a child process with a time limit;
+* families: per formulation a growing family -- nodal surfaces T_d(x) + T_d(y) + T_d(z) + 1 = 0 of degree
+  3 to 10, the determinant of n x n matrices (n = 2 to 5), unions of k quadrics -- numag's time against size
+  with sympy's Groebner time (grevlex, of F and its partials) beside it, each in a child process with a
+  time limit (``--reference-limit``, default 600 s), the crossover size and the ratio at the largest size
+  both finish;
 * memory: peak resident memory of a ``numag solve`` process on 2^17 = 131,072 paths of 17 dense quadrics
   (< 500 MB; ``--quick``: 2^12).
 
@@ -199,19 +207,26 @@ def _six_bar_folds():
 
 
 def section_judge(quick):
+    from numag.numeric import linalg
     from numag.singular import smoothness
     print("\n== judging candidates: the six-bar's 4 singular points, 1e-9 off (as candidates are), seed 0")
+    print("   (mpmath least squares: the escalation's Gauss-Newton steps through numpy's SVD refined at the working")
+    print("   precision (decision 0052), or through mpmath's pure-Python SVD for every step (before 0052))")
     _row("judged", "cpu s", "mpmath runs", "", "verdicts")
     rng = np.random.default_rng(0)
     candidates = [p + 1e-9 * rng.standard_normal(len(p)) for p in _six_bar_folds()]
     checker = smoothness._Checker
     escalate, settle, near = checker.escalate, checker.settle_in_double, checker.rank_drops_near_in_double
+    refined = linalg._refined_least_squares
     runs = []
     smoothness._Checker.escalate = lambda self, *args: runs.append(1) or escalate(self, *args)
     try:
-        for label, settling in (("batched, double first", settle), ("mpmath for each (before)", None)):
-            checker.settle_in_double = settling or (lambda self, *args: None)
-            checker.rank_drops_near_in_double = near if settling else (lambda self, *args: None)
+        for label, settling, double_route in (("batched, double first", settle, True),
+                                              ("batched, mpmath SVD steps (before 0052)", settle, False),
+                                              ("mpmath for each (before 0038)", None, False)):
+            checker.settle_in_double = settling or (lambda self, *args, **kwargs: None)
+            checker.rank_drops_near_in_double = near if settling else (lambda self, *args, **kwargs: None)
+            linalg._refined_least_squares = refined if double_route else (lambda *args: None)
             runs.clear()
             start = time.process_time()
             report = smoothness.check_points(six_bar(), candidates, seed=0)
@@ -219,6 +234,165 @@ def section_judge(quick):
                  ", ".join(v.verdict for v in report.points))
     finally:
         checker.escalate, checker.settle_in_double, checker.rank_drops_near_in_double = escalate, settle, near
+        linalg._refined_least_squares = refined
+
+
+def section_check(quick):
+    print("\n== `numag check` of one folded configuration of the six-bar (whole process, one BLAS thread)")
+    _row("point", "wall s", "cpu s", "exit", "goal s")
+    names = ["ax", "ay", "bx", "by", "cx", "cy", "dx", "dy", "ex", "ey"]
+    with tempfile.TemporaryDirectory() as folder:
+        path = _system_file(six_bar(), folder, "six_bar")
+        # A at (-2, 0): the first loop folded; D on both circles |D - (4, 0)| = |D - C| = 3 (exact, sqrt(5))
+        point = dict(zip(names, ["-2", "0", "1", "0", "0", "-2", "2+2/sqrt(5)", "-1-4/sqrt(5)",
+                                 "(3+2/sqrt(5))/2", "(-1-4/sqrt(5))/2"]))
+        text = ",".join(f"{k}={v}" for k, v in point.items())
+        for label, extra in (("with the components of X", []), ("--without-components", ["--without-components"])):
+            cpu = _children_cpu()
+            seconds, code = _numag_process(["check", path, "--point", text, "--seed", "1", "--json"] + extra)
+            _row(label, f"{seconds:.2f}", f"{_children_cpu() - cpu:.2f}", code, 5)
+
+
+def matrix_minors_system(size, rank, name):
+    """The (rank + 1)-minors of a generic size x size matrix (unknowns m11..m_nn): rank <= ``rank``."""
+    import itertools
+
+    from numag.system.polynomial import Polynomial, PolynomialSystem
+    names = [f"m{i}{j}" for i in range(1, size + 1) for j in range(1, size + 1)]
+    entries = [[Polynomial.variable(i * size + j, size * size) for j in range(size)] for i in range(size)]
+
+    def det(rows, cols):
+        if len(rows) == 1:
+            return entries[rows[0]][cols[0]]
+        total = None
+        for k, col in enumerate(cols):  # Laplace along the first row: exact, small sizes only
+            term = entries[rows[0]][col] * det(rows[1:], cols[:k] + cols[k + 1:])
+            term = term if k % 2 == 0 else term * -1
+            total = term if total is None else total + term
+        return total
+
+    minors = [det(list(r), list(c)) for r in itertools.combinations(range(size), rank + 1)
+              for c in itertools.combinations(range(size), rank + 1)]
+    return PolynomialSystem(names, minors, name=name)
+
+
+def nodal_surface(degree):
+    """T_d(u) + T_d(v) + T_d(w) + 1 = 0 with u = x, v = x + y, w = x + y + z: 3 p m^2 nodes, affine and real.
+
+    The gradient in (u, v, w) vanishes where each coordinate is a critical point cos(k pi / d) of T_d
+    (k = 1..d-1, value (-1)^k, a simple critical point); the sum is -1 for one value +1 and two values -1:
+    p = floor((d-1)/2) and m = ceil((d-1)/2) choices, in 3 orders. The top form 2^(d-1) (u^d + v^d + w^d) is
+    smooth: nothing at infinity. The unimodular change of coordinates keeps the count and makes the partials
+    in x, y, z other than univariate (in u, v, w they are a Groebner basis already, and sympy's time would say
+    nothing). (Chebyshev construction of nodal surfaces, after S. V. Chmutov 1992, "Examples of projective
+    surfaces with many singularities", J. Algebraic Geom. 1, from memory; the count is worked out here.)
+    """
+    from numag.system.polynomial import Polynomial, PolynomialSystem
+    x, y, z = (Polynomial.variable(j, 3) for j in range(3))
+
+    def chebyshev_of(form):  # T_0 = 1, T_1 = u, T_(k+1) = 2 u T_k - T_(k-1) (common practice)
+        previous, current = Polynomial.constant(1, 3), form
+        for _ in range(degree - 1):
+            previous, current = current, form * current * 2 - previous
+        return current
+
+    f = chebyshev_of(x) + chebyshev_of(x + y) + chebyshev_of(x + y + z) + Polynomial.constant(1, 3)
+    plus, minus = (degree - 1) // 2, degree // 2
+    return PolynomialSystem(["x", "y", "z"], [f], name=f"nodal surface d={degree}"), 3 * plus * minus ** 2
+
+
+def determinantal_degree(size, rank):
+    """Degree of the n x n matrices of rank <= r: prod_{i<n-r} (n+i)! i! / ((r+i)! (n-r+i)!)
+    (J. Harris, "Algebraic Geometry: A First Course", 1992, Example 19.10; from memory)."""
+    from math import factorial
+    degree = 1
+    for i in range(size - rank):
+        degree = degree * factorial(size + i) * factorial(i) // (factorial(rank + i) * factorial(size - rank + i))
+    return degree
+
+
+def _numag_child(system, seed, queue):
+    from numag.singular.locus import singular_locus
+    start = time.process_time()
+    try:
+        locus = singular_locus(system, seed=seed)
+    except Exception as error:  # reported in the table, not raised: the benchmark goes on
+        queue.put((time.process_time() - start, f"error: {type(error).__name__}: {str(error)[:80]}"))
+        return
+    pieces = {}
+    for component in locus.components:
+        key = (component.dimension, component.degree, component.at_infinity)
+        pieces[key] = pieces.get(key, 0) + 1
+    summary = "; ".join(f"{count} x dim {d} deg {g}" + (" inf" if inf else "")
+                        for (d, g, inf), count in sorted(pieces.items()))
+    failed = sum(locus.paths.get(label, 0) for label in ("minimum_step", "step_limit", "non_finite",
+                                                           "endgame_unsettled", "batch_failed", "failed"))
+    if failed:  # the run's own warning: pieces may be missing
+        summary += f" [{failed} failed paths, flagged]"
+    queue.put((time.process_time() - start, summary))
+
+
+def _sympy_child(plain, queue):
+    import sympy
+
+    from numag.app.reference import _expressions
+    symbols, expressions = _expressions(plain, sympy)
+    equations = expressions + [sympy.diff(e, s) for e in expressions for s in symbols]
+    start = time.process_time()
+    basis = sympy.groebner(equations, *symbols, order="grevlex")
+    queue.put((time.process_time() - start, f"{len(basis.exprs)} polynomials"))
+
+
+def _timed_pair(system, seed, numag_limit, reference_limit):
+    from numag.app.reference import system_to_plain
+    from reference_timing import run_with_time_limit
+    ours = run_with_time_limit(_numag_child, (system, seed), numag_limit)
+    theirs = run_with_time_limit(_sympy_child, (system_to_plain(system),), reference_limit)
+    return ours, theirs
+
+
+def section_large(quick, numag_limit):
+    print("\n== 4 x 4 matrices of rank <= 2 (the 16 3 x 3 minors): Sing X = rank <= 1, dimension 7, degree 20")
+    _row("problem", "cpu s", "goal s", "", "pieces")
+    system = matrix_minors_system(4, 2, "4 x 4 rank <= 2")
+    from reference_timing import run_with_time_limit
+    ours = run_with_time_limit(_numag_child, (system, 1), numag_limit)
+    _row(system.name, f"{ours[0]:.1f}" if ours else f"> {numag_limit} wall", 120, "",
+         ours[1] if ours else "time limit")
+
+
+def section_families(quick, numag_limit, reference_limit, chosen=("nodal", "det", "quadrics")):
+    print(f"\n== growing families (child processes; wall-time limits: numag {numag_limit} s, sympy {reference_limit} s; "
+          "CPU seconds of the computation, start-up excluded)")
+    families = [
+        ("nodal surfaces T_d(x)+T_d(x+y)+T_d(x+y+z)+1", [(d, nodal_surface(d)) for d in range(3, 7 if quick else 11)],
+         lambda d, expected: f"{expected} x dim 0 deg 1"),
+        ("det of n x n matrices", [(n, (matrix_minors_system(n, n - 1, f"det {n} x {n}"), None))
+                                   for n in range(2, 4 if quick else 6)],
+         lambda n, _: f"1 x dim {n * n - 4} deg {determinantal_degree(n, n - 2)}"),
+        ("unions of k random quadrics", [(k, (quadric_union(k, np.random.default_rng(11 + k)), None))
+                                         for k in range(2, 4 if quick else 6)],
+         lambda k, _: f"{k * (k - 1) // 2} x dim 1 deg 4"),
+    ]
+    for key, (title, members, expectation) in zip(("nodal", "det", "quadrics"), families):
+        if key not in chosen:
+            continue
+        print(f"-- {title}")
+        _row("size", "numag cpu s", "sympy cpu s", "sympy / numag", "numag's pieces (expected)", widths=(8, 12, 12, 14, 60))
+        crossover, last_ratio = None, None
+        for size, (system, expected) in members:
+            ours, theirs = _timed_pair(system, 1, numag_limit, reference_limit)
+            ours_text = f"{ours[0]:.2f}" if ours else f"> {numag_limit} wall"
+            theirs_text = f"{theirs[0]:.2f}" if theirs else f"> {reference_limit} wall"
+            ratio = theirs[0] / ours[0] if ours and theirs and ours[0] > 0 else None
+            if ours and theirs:
+                last_ratio = (size, ratio)
+            if ours and crossover is None and (theirs is None or theirs[0] > ours[0]):
+                crossover = size
+            _row(size, ours_text, theirs_text, f"{ratio:.2f}" if ratio else "",
+                 f"{ours[1] if ours else 'time limit'} ({expectation(size, expected)})", widths=(8, 12, 12, 14, 60))
+        print(f"crossover (first size where numag is ahead): {crossover}; ratio at the largest size both finish: "
+              + (f"{last_ratio[1]:.2f} at {last_ratio[0]}" if last_ratio else "none"))
 
 
 def section_memory(quick, exponent):
@@ -237,7 +411,10 @@ def section_memory(quick, exponent):
 def main():
     parser = argparse.ArgumentParser(description=__doc__, formatter_class=argparse.RawDescriptionHelpFormatter)
     parser.add_argument("--quick", action="store_true", help="smaller sizes (about a minute)")
-    parser.add_argument("--sections", default="parse,start,solve,judge,singular,memory")
+    parser.add_argument("--sections", default="parse,start,solve,judge,singular,check,large,families,memory")
+    parser.add_argument("--families", default="nodal,det,quadrics", help="which growing families (section families)")
+    parser.add_argument("--reference-limit", type=float, default=600.0, help="seconds for each sympy run")
+    parser.add_argument("--numag-limit", type=float, default=600.0, help="seconds for each numag child run")
     parser.add_argument("--memory-exponent", type=int, default=17, help="2^N paths for the memory row")
     args = parser.parse_args()
     print(f"load average {os.getloadavg()[0]:.1f} on {os.cpu_count()} cores; numag from {ROOT}")
@@ -252,6 +429,12 @@ def main():
         section_judge(args.quick)
     if "singular" in sections:
         section_singular(args.quick)
+    if "check" in sections:
+        section_check(args.quick)
+    if "large" in sections:
+        section_large(args.quick, args.numag_limit)
+    if "families" in sections:
+        section_families(args.quick, args.numag_limit, args.reference_limit, args.families.split(","))
     if "memory" in sections:  # last: RUSAGE_CHILDREN keeps the largest child so far
         section_memory(args.quick, args.memory_exponent)
 

@@ -232,13 +232,99 @@ def mp_right_singular_vectors(matrix, ctx):
     return basis
 
 
+#: The double-precision route of :func:`mp_least_squares` is taken when the smallest singular value (in
+#: double) is at least this fraction of the largest: then no value is near the cut-off ``rcond`` (which
+#: double precision could not place), and each refinement step gains about 10 digits (condition x 1e-16).
+_DOUBLE_ROUTE_CONDITION = 1e-6
+
+
+def _to_double(matrix):
+    return np.array([[complex(matrix[i, j]) for j in range(matrix.cols)] for i in range(matrix.rows)],
+                    dtype=complex)
+
+
+def _refined_least_squares(matrix, rhs, ctx, rcond):
+    """The minimum-norm least-squares solution at the precision of ``ctx`` from a double-precision SVD,
+    or None where that route does not apply.
+
+    Iterative refinement of the augmented system [I M; M^H 0] [r; z] = [c; d] (Bjorck 1967, "Iterative
+    refinement of linear least squares solutions I", BIT 7): residuals in ``ctx``, corrections from the
+    double SVD of M. With more rows than columns M = A, c = b, d = 0 and the answer is z (least squares);
+    with fewer, M = A^H, c = 0, d = b and the answer is r (A r = b with r in the row space of A: the
+    minimum-norm solution). For a matrix of full rank whose condition is below 1 / _DOUBLE_ROUTE_CONDITION
+    both converge at the working precision to the solution :func:`mp_least_squares` defines (no singular
+    value is cut off). Anything else (values near the cut-off, entries beyond double range, no
+    convergence) returns None.
+    """
+    rows, cols = matrix.rows, matrix.cols
+    if rows == 0 or cols == 0:
+        return None
+    tall = rows >= cols
+    tall_matrix = matrix if tall else matrix.H
+    dense = _to_double(tall_matrix)
+    if not np.all(np.isfinite(dense)):
+        return None
+    u, values, vh = np.linalg.svd(dense, full_matrices=False)
+    if values[0] == 0 or values[-1] < max(_DOUBLE_ROUTE_CONDITION, 1e3 * float(rcond)) * values[0]:
+        return None
+    v, uh = vh.conj().T, u.conj().T
+    long_side, short_side = dense.shape
+
+    def correction(f, g):
+        # dr + M dz = f, M^H dr = g, with M = U S V^H: U^H dr = S^-1 V^H g, the rest of dr is f's part
+        # outside range(U), and S V^H dz = U^H f - U^H dr.
+        inside = (vh @ g) / values
+        along = uh @ f
+        return f - u @ along + u @ inside, v @ ((along - inside) / values)
+
+    def to_ctx(vector):
+        return ctx.matrix([ctx.mpc(complex(entry)) for entry in vector])
+
+    adjoint = tall_matrix.H
+    c = rhs if tall else ctx.matrix(long_side, 1)
+    d = ctx.matrix(short_side, 1) if tall else rhs
+    r, z = ctx.matrix(long_side, 1), ctx.matrix(short_side, 1)
+    # Each pass gains about -log10(condition * 1e-16) >= 10 digits; a few spare passes.
+    for _ in range(int(ctx.dps) // 8 + 4):
+        f = c - r - tall_matrix * z
+        g = d - adjoint * r
+        # scaled to about 1 before rounding: residuals at 100 digits lie far below double's range
+        scale = max(ctx.norm(f), ctx.norm(g))
+        if scale == 0:
+            return z if tall else r
+        f_double = np.array([complex(f[i] / scale) for i in range(long_side)])
+        g_double = np.array([complex(g[j] / scale) for j in range(short_side)])
+        dr, dz = correction(f_double, g_double)
+        dr, dz = to_ctx(dr) * scale, to_ctx(dz) * scale
+        r += dr
+        z += dz
+        answer, change = (z, dz) if tall else (r, dr)
+        if ctx.norm(change) <= 4 * ctx.eps * ctx.norm(answer):
+            return answer
+    return None
+
+
 def mp_least_squares(matrix, rhs, ctx, rcond):
     """Minimum-norm least-squares solution of ``matrix @ x = rhs`` through the SVD.
 
     Singular values below ``rcond * sigma_1`` are treated as zero, so the step
     stays finite at rank-deficient points (where refinement near singular
-    points happens).
+    points happens). A well-conditioned matrix of full column rank is solved from numpy's SVD with
+    refinement at the working precision (:func:`_refined_least_squares`; the same solution, some hundred
+    times faster than mpmath's pure-Python SVD); the others through mpmath's SVD.
+
+    Examples
+    --------
+    >>> import mpmath
+    >>> with mpmath.mp.workdps(40):
+    ...     x = mp_least_squares(mpmath.matrix([[1, 0], [0, 3], [0, 0]]), mpmath.matrix([1, 1, 1]),
+    ...                          mpmath.mp, rcond=mpmath.mpf(10) ** -30)
+    ...     print(mpmath.nstr(x[1].real, 35))
+    0.33333333333333333333333333333333333
     """
+    refined = _refined_least_squares(matrix, rhs, ctx, rcond)
+    if refined is not None:
+        return refined
     rows, cols = matrix.rows, matrix.cols
     u, values, vh = _svd(ctx, matrix, full_matrices=False)
     top = max((values[k] for k in range(values.rows)), default=ctx.mpf(0))
