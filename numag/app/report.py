@@ -39,15 +39,6 @@ from ..numeric.linalg import RankEvidence
 from ..numeric.scaling import Scaling
 from ..tracking.solve import Solution, SolveOptions, SolveResult
 from ..tracking.tracker import FAILURE_LABELS, PathStatus, TrackerOptions
-from ..witness.cascade import WitnessOptions
-from ..witness.decompose import Component, Decomposition, DecomposeOptions
-from ..singular.locus import SingularComponent, SingularLocus, SingularOptions
-from ..singular.smoothness import CheckOptions, CheckReport, PointVerdict
-from ..singular.kinds import CandidateSystem, LocalDimensionSource, PieceKind, Verdict
-from ..certify.certificates import (certify_rank, certify_regular_zero, certify_singular_point,
-                                    certify_smooth_point, overlapping_pairs)
-from ..certify.records import (ALPHA_ZERO_TEXT, Certificate, CertifyOptions, Claim, ClaimCheck, ClaimStatus, Kind,
-                               STATUSES, Status)
 
 __all__ = ["CAUTION", "encode_point", "decode_point", "empty_path_counts", "system_to_dict",
            "check_report_to_dict", "check_report_from_dict", "dumps", "loads_check_report",
@@ -128,6 +119,8 @@ def _verdict_to_dict(v):
 
 
 def _verdict_from_dict(d):
+    from ..singular.kinds import LocalDimensionSource, Verdict
+    from ..singular.smoothness import PointVerdict
     return PointVerdict(
         index=int(d["index"]), given=decode_point(d["given"]), point=decode_point(d["point"]),
         distance=_decode_float(d["distance"]), residual=_decode_float(d["residual"]),
@@ -235,6 +228,7 @@ def _report_system(data, command):
 
 def check_report_from_dict(data):
     """Rebuild a :class:`~numag.singular.smoothness.CheckReport` from its JSON envelope."""
+    from ..singular.smoothness import CheckOptions, CheckReport
     system = _report_system(data, "check")
     o = data["options"]
     options = CheckOptions(local_dimension=o["local_dimension"], point_tolerance=o["point_tolerance"],
@@ -392,6 +386,7 @@ def decomposition_to_dict(result, options):
 
 
 def _component_from_dict(d, n):
+    from ..witness.decompose import Component
     points = np.array([decode_point(p) for p in d["points"]], dtype=complex).reshape(-1, n)
     rows = np.array([decode_point(r) for r in d["slice"]], dtype=complex).reshape(-1, n + 1)
     return Component(id=int(d["id"]), dimension=int(d["dimension"]), degree=int(d["degree"]), points=points,
@@ -410,6 +405,8 @@ def _counts_from_paths(paths):
 
 def decomposition_from_dict(data):
     """Rebuild a :class:`~numag.witness.decompose.Decomposition` (and its options) from its JSON envelope."""
+    from ..witness.cascade import WitnessOptions
+    from ..witness.decompose import DecomposeOptions, Decomposition
     system = _report_system(data, "decompose")
     o = data["options"]
     options = DecomposeOptions(witness=WitnessOptions(lowest_dimension=o["lowest_dimension"]),
@@ -462,6 +459,10 @@ def singular_to_dict(result, options):
 
 def singular_from_dict(data):
     """Rebuild a :class:`~numag.singular.locus.SingularLocus` (and its options) from its JSON envelope."""
+    from ..singular.kinds import CandidateSystem, PieceKind
+    from ..singular.locus import SingularComponent, SingularLocus, SingularOptions
+    from ..witness.cascade import WitnessOptions
+    from ..witness.decompose import DecomposeOptions, Decomposition
     system = _report_system(data, "singular")
     o = data["options"]
     options = SingularOptions(formulation=o["formulation"], digits=int(o["digits"]),
@@ -523,6 +524,7 @@ def certificate_to_dict(c):
 
 def certificate_from_dict(d):
     """Rebuild a :class:`~numag.certify.certificates.Certificate` from :func:`certificate_to_dict` output."""
+    from ..certify.records import Certificate, Claim, ClaimCheck, ClaimStatus, Kind, STATUSES, Status
     try:
         if d["status"] not in STATUSES:
             raise InputError(f"unknown certificate status {d['status']!r}")
@@ -551,6 +553,7 @@ def certificate_from_dict(d):
 
 
 def _not_certified(reason, point, digits):
+    from ..certify.records import Certificate, Kind, Status
     return Certificate(status=Status.UNDECIDED, kind=Kind.NUMERICAL, claim="",
                        center=np.asarray(point, dtype=complex), center_text=[], radius=None, digits=digits,
                        reason=reason)
@@ -560,10 +563,10 @@ def _not_certified(reason, point, digits):
 class _Task:
     """One point to certify (travels to worker processes)."""
 
-    claim: Claim              # REGULAR_ZERO, SMOOTH_POINT, SINGULAR_POINT or RANK
+    claim: "Claim"            # REGULAR_ZERO, SMOOTH_POINT, SINGULAR_POINT or RANK
     system: PolynomialSystem
     point: np.ndarray
-    options: CertifyOptions
+    options: "CertifyOptions"  # certify/records.py, imported where certification runs
     codimension: object = None
     slices: int = 0
     at_infinity: bool = False
@@ -571,6 +574,8 @@ class _Task:
 
 
 def _run_task(task):
+    from ..certify.certificates import certify_rank, certify_regular_zero, certify_singular_point, certify_smooth_point
+    from ..certify.records import Claim
     if task.claim is Claim.REGULAR_ZERO:
         return certify_regular_zero(task.system, task.point, task.options, at_infinity=task.at_infinity,
                                     multiplicity=task.multiplicity)
@@ -600,6 +605,8 @@ def _point_of(entry, key, system, at_infinity, where):
 
 def _singular_tasks(system, component, options, where):
     """Tasks (or finished 'undecided' certificates) for the points of one singular component."""
+    from ..certify.records import Claim
+    from ..singular.kinds import PieceKind
     at_infinity = bool(component["at_infinity"]) and not system.projective
     points = [_point_of({"p": p}, "p", system, at_infinity, f"{where}, point {k}")
               for k, p in enumerate(component["points"], 1)]
@@ -618,6 +625,8 @@ def _singular_tasks(system, component, options, where):
 
 
 def _check_task(system, verdict, options, where):
+    from ..certify.records import Claim
+    from ..singular.kinds import Verdict
     point = _point_of(verdict, "point", system, False, where)
     if verdict["verdict"] == "off":
         return _not_certified("the point is not on X (verdict 'off'): there is nothing to certify", point,
@@ -715,6 +724,8 @@ def certify_report(data, options=None, progress=None, executor=None):
     >>> report["components"][0]["certificates"][0]["status"], report["certification"]["all_distinct"]
     ('certified', True)
     """
+    from ..certify.certificates import overlapping_pairs
+    from ..certify.records import ALPHA_ZERO_TEXT, CertifyOptions, Claim, Kind, STATUSES, Status
     started = time.perf_counter()
     options = (options or CertifyOptions()).validated()
     command = data.get("command") if isinstance(data, dict) else None
@@ -845,6 +856,7 @@ def _plain(value):
 
 def compare_to_dict(comparison):
     """A :class:`~numag.app.compare.Comparison` as the JSON envelope (numag's locus included)."""
+    from ..singular.locus import SingularOptions
     reference = comparison.reference
     locus_data = singular_to_dict(comparison.locus, SingularOptions())
     return {

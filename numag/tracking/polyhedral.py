@@ -41,7 +41,6 @@ from dataclasses import dataclass, field
 import enum
 
 import numpy as np
-from scipy.optimize import linprog
 
 from ..errors import InputError
 from ..numeric.evaluate import BatchEvaluator, TermSizes
@@ -141,6 +140,7 @@ class _Feasibility:
         uppers = [r[2] for r in rows if len(r[2])]
         a_ub = np.vstack(uppers) if uppers else None
         b_ub = np.concatenate([r[3] for r in rows if len(r[2])]) if uppers else None
+        from scipy.optimize import linprog  # here, not at import: half a second that plain solves never use
         result = linprog(np.zeros(self.n), A_ub=a_ub, b_ub=b_ub, A_eq=a_eq, b_eq=b_eq, bounds=(None, None),
                          method="highs")
         return result.status == 0
