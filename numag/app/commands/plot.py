@@ -13,7 +13,6 @@ import sys
 
 from ...errors import NumagError
 from ...system.files import load_angles
-from ..plot import FORMATS, PlotOptions, parse_axes, parse_box, plot_report
 from ..report import CAUTION, read_report
 from .common import EXIT_OK, EXIT_UNDECIDED, _count, _seed
 
@@ -57,6 +56,7 @@ def add_plot_options(command):
 
 
 def _options_of(args, prefix="", seed=None):
+    from ..plot import PlotOptions, parse_box  # drawing (and its stages) only when asked
     def value(name):
         return getattr(args, prefix + name, None)
 
@@ -70,6 +70,7 @@ def _options_of(args, prefix="", seed=None):
 
 
 def _check_target(path):
+    from ..plot import FORMATS  # drawing (and its stages) only when asked
     if os.path.splitext(path)[1].lower() not in FORMATS:
         raise NumagError(f"the picture's file name must end in {', '.join(FORMATS)}: {path!r}")
 
@@ -78,6 +79,7 @@ def check_plot_request(args, system):
     """Refuse bad ``--plot`` options before any computation (one-line errors); nothing when no ``--plot``."""
     if not getattr(args, "plot", None):
         return
+    from ..plot import parse_axes  # drawing (and its stages) only when asked
     _check_target(args.plot)
     options = _options_of(args, "plot_")
     if options.axes is not None:
@@ -106,6 +108,7 @@ def plot_after(data, args, out):
     """
     if not getattr(args, "plot", None):
         return EXIT_OK
+    from ..plot import plot_report  # drawing (and its stages) only when asked
     stream = sys.stderr if getattr(args, "json", False) else out
     try:
         result = plot_report(data, args.plot, _options_of(args, "plot_", seed=data.get("seed")))
@@ -133,6 +136,7 @@ def _print_result(result, out):
 
 
 def run(args, out):
+    from ..plot import plot_report  # drawing (and its stages) only when asked
     _check_target(args.output)
     data = read_report(args.report_file)
     result = plot_report(data, args.output, _options_of(args))
