@@ -125,9 +125,10 @@ def _pairs_within(real, radii):
     projection = real @ direction
     order = np.argsort(projection, kind="stable")
     ordered = projection[order]
+    window = radii * (1 + 1e-9)  # a little wider than the balls: rounding of the projections loses no pair
     with np.errstate(invalid="ignore"):
-        low = np.searchsorted(ordered, projection - radii, side="left")
-        high = np.searchsorted(ordered, projection + radii, side="right")
+        low = np.searchsorted(ordered, projection - window, side="left")
+        high = np.searchsorted(ordered, projection + window, side="right")
     if np.all(np.isfinite(radii)) and np.isfinite(projection).all():
         sizes = high - low
         if sizes.sum() <= _SWEEP_PAIRS_PER_POINT * count + 64:
