@@ -7,8 +7,8 @@ import math
 import numpy as np
 import pytest
 
-from numag.app.report import (EncodedSequence, certify_report, dumps, json_chunks, solve_report_to_dict,
-                              solve_report_from_dict, write_json)
+from numag.app.report import (EncodedSequence, certify_report, dumps, solve_report_to_dict, solve_report_from_dict,
+                              write_json)
 from numag.system.parse import parse_system
 from numag.tracking.solve import SolveOptions, solve_system
 

@@ -22,6 +22,7 @@ Examples
 
 import copy
 from dataclasses import dataclass
+from typing import TYPE_CHECKING
 import json
 import math
 import os
@@ -39,6 +40,9 @@ from ..numeric.linalg import RankEvidence
 from ..numeric.scaling import Scaling
 from ..tracking.solve import Solution, SolveOptions, SolveResult
 from ..tracking.tracker import FAILURE_LABELS, PathStatus, TrackerOptions
+
+if TYPE_CHECKING:  # the stages are imported where their results are converted: `numag solve` starts faster
+    from ..certify.records import CertifyOptions, Claim
 
 __all__ = ["CAUTION", "encode_point", "decode_point", "empty_path_counts", "system_to_dict",
            "check_report_to_dict", "check_report_from_dict", "dumps", "json_chunks", "write_json", "EncodedSequence",

@@ -399,6 +399,7 @@ def _float_up(value):
 
 
 def _parse_center(text):
+    import mpmath
     mp = mpmath.mp
     text = text.replace(" ", "")
     if text.endswith("*I"):
