@@ -25,7 +25,7 @@ since times on a shared machine are upper bounds). The goals are the issue's:
   time limit (``--reference-limit``, default 600 s), the crossover size and the ratio at the largest size
   both finish;
 * memory: peak resident memory of a ``numag solve`` process on 2^17 = 131,072 paths of 17 dense quadrics
-  (< 500 MB; ``--quick``: 2^12).
+  (< 500 MB; ``--quick``: 2^12), beside 2^14 paths for the bytes per path (both above one batch).
 
 The problems are built here; where each comes from is printed beside it.
 """
@@ -122,33 +122,61 @@ def _system_file(system, folder, name):
     return path
 
 
-def _numag_process(arguments):
-    """Wall seconds and exit code of one ``python -m numag`` child (one BLAS thread)."""
-    environment = dict(os.environ, **_ONE_THREAD)
+def _child_environment(cache):
+    """One BLAS thread, and compiled bytecode in ``cache`` as an installed package has it.
+
+    This machine sets PYTHONDONTWRITEBYTECODE, which makes every child compile numag's sources again
+    (0.2 s of a small solve); a user's installation has its .pyc files.
+    """
+    environment = dict(os.environ, **_ONE_THREAD, PYTHONPYCACHEPREFIX=cache)
+    environment.pop("PYTHONDONTWRITEBYTECODE", None)
+    return environment
+
+
+def _numag_process(arguments, cache):
+    """Wall seconds, CPU seconds, peak resident MB and exit code of one ``python -m numag`` child.
+
+    CPU and peak memory are the child's own (``os.wait4``): the CPU column does not depend on what
+    else the shared machine runs; the peak is the main process's (and any worker's, if larger).
+    """
     start = time.perf_counter()
-    completed = subprocess.run([sys.executable, "-m", "numag"] + arguments, cwd=ROOT, env=environment,
-                               stdout=subprocess.DEVNULL, stderr=subprocess.PIPE, text=True)
+    child = subprocess.Popen([sys.executable, "-m", "numag"] + arguments, cwd=ROOT, env=_child_environment(cache),
+                             stdout=subprocess.DEVNULL, stderr=subprocess.PIPE, text=True)
+    _, status, usage = os.wait4(child.pid, 0)
     seconds = time.perf_counter() - start
-    if completed.returncode not in (0, 3):
-        raise SystemExit(f"numag {' '.join(arguments)} failed: {completed.stderr.strip()[-300:]}")
-    return seconds, completed.returncode
+    code = os.waitstatus_to_exitcode(status)
+    message = child.stderr.read()
+    child.stderr.close()
+    if code not in (0, 3):
+        raise SystemExit(f"numag {' '.join(arguments)} failed: {message.strip()[-300:]}")
+    return seconds, usage.ru_utime + usage.ru_stime, usage.ru_maxrss / 1024, code
 
 
-def section_solve(quick):
+def section_solve(quick, repeats=3):
     from threadpoolctl import threadpool_limits
     print("\n== the whole `numag solve` process against the plain tracker (dense real quadrics, seed 7)")
-    print("   (the plain tracker's time is tracking alone, in this process; numag's is the whole child process)")
-    _row("paths", "plain s", "numag s", "ratio", "goal")
+    print("   (the plain tracker's time is tracking alone, in this process; numag's is the whole child process,")
+    print(f"   start-up included, with compiled bytecode; median of {repeats}; CPU seconds are the reliable column")
+    print("   on a shared machine)")
+    _row("paths", "plain wall/cpu", "numag wall/cpu", "ratio wall/cpu", "goal", widths=(8, 16, 16, 16, 8))
     with tempfile.TemporaryDirectory() as folder:
         for n, goal in ((8, 3), (10, 8)):
             system = quadrics(n, 7)
+            plain_wall, plain_cpu = [], []
             with threadpool_limits(limits=1):
-                start = time.perf_counter()
-                plain_tracker(system, 7)
-                plain = time.perf_counter() - start
+                for _ in range(repeats):
+                    start, start_cpu = time.perf_counter(), time.process_time()
+                    plain_tracker(system, 7)
+                    plain_wall.append(time.perf_counter() - start)
+                    plain_cpu.append(time.process_time() - start_cpu)
             path = _system_file(system, folder, f"quadrics{n}")
-            ours, _ = _numag_process(["solve", path, "--seed", "7", "--json"])
-            _row(2 ** n, f"{plain:.2f}", f"{ours:.2f}", f"{plain / ours:.2f}", f">= {goal}")
+            arguments = ["solve", path, "--seed", "7", "--json"]
+            _numag_process(arguments, folder)  # compiles the bytecode once, untimed
+            runs = [_numag_process(arguments, folder) for _ in range(repeats)]
+            plain = statistics.median(plain_wall), statistics.median(plain_cpu)
+            ours = statistics.median(r[0] for r in runs), statistics.median(r[1] for r in runs)
+            _row(2 ** n, f"{plain[0]:.2f} / {plain[1]:.2f}", f"{ours[0]:.2f} / {ours[1]:.2f}",
+                 f"{plain[0] / ours[0]:.2f} / {plain[1] / ours[1]:.2f}", f">= {goal}", widths=(8, 16, 16, 16, 8))
 
 
 def six_bar():
@@ -397,15 +425,25 @@ def section_families(quick, numag_limit, reference_limit, chosen=("nodal", "det"
 
 def section_memory(quick, exponent):
     exponent = 12 if quick else exponent
-    print(f"\n== memory: `numag solve` on 2^{exponent} = {2 ** exponent:,} paths of {exponent} dense quadrics")
-    _row("paths", "seconds", "peak RSS MB", "goal MB", "")
+    # the bytes per path come from two sizes above one batch (4,096 paths): a single batch is tracked in
+    # the main process, and its working arrays would be counted as if they grew with the paths
+    sizes = (exponent,) if quick or exponent <= 14 else (14, exponent)
+    print(f"\n== memory: `numag solve --json` on 2^k paths of k dense quadrics (k = {', '.join(map(str, sizes))}); "
+          "peak resident memory of the child (os.wait4)")
+    _row("paths", "wall s", "cpu s", "peak RSS MB", "goal MB", widths=(10, 10, 10, 14, 10))
+    peaks = {}
     with tempfile.TemporaryDirectory() as folder:
-        path = _system_file(quadrics(exponent, 5), folder, f"quadrics{exponent}")
-        before = resource.getrusage(resource.RUSAGE_CHILDREN).ru_maxrss
-        seconds, _ = _numag_process(["solve", path, "--seed", "5", "--json", "--max-paths", str(2 ** exponent)])
-        peak = resource.getrusage(resource.RUSAGE_CHILDREN).ru_maxrss / 1024  # kilobytes on Linux
-        note = "" if peak * 1024 > before else "(an earlier child was larger: upper bound)"
-        _row(2 ** exponent, f"{seconds:.1f}", f"{peak:.0f}", 500, note)
+        for k in sizes:
+            path = _system_file(quadrics(k, 5), folder, f"quadrics{k}")
+            seconds, cpu, peak, _ = _numag_process(["solve", path, "--seed", "5", "--json", "--max-paths",
+                                                    str(2 ** k)], folder)
+            peaks[k] = peak
+            _row(f"{2 ** k:,}", f"{seconds:.1f}", f"{cpu:.1f}", f"{peak:.0f}", 500, widths=(10, 10, 10, 14, 10))
+    if len(sizes) == 2:
+        small = sizes[0]
+        per_path = (peaks[exponent] - peaks[small]) * 2 ** 20 / (2 ** exponent - 2 ** small)
+        print(f"about {per_path:,.0f} bytes per path between the two sizes (the report is written solution by "
+              f"solution); 100,000 paths: about {peaks[small] + per_path * (100_000 - 2 ** small) / 2 ** 20:.0f} MB")
 
 
 def main():
@@ -435,7 +473,7 @@ def main():
         section_large(args.quick, args.numag_limit)
     if "families" in sections:
         section_families(args.quick, args.numag_limit, args.reference_limit, args.families.split(","))
-    if "memory" in sections:  # last: RUSAGE_CHILDREN keeps the largest child so far
+    if "memory" in sections:
         section_memory(args.quick, args.memory_exponent)
 
 

@@ -13,7 +13,6 @@ Examples
 from contextlib import contextmanager
 from dataclasses import dataclass, field
 
-import mpmath
 import numpy as np
 
 from ..errors import is_integer, is_number, require_option
@@ -104,10 +103,12 @@ def working_digits(digits):
 
     Examples
     --------
+    >>> import mpmath
     >>> with working_digits(40):
     ...     mpmath.iv.dps
     40
     """
+    import mpmath  # here, not at import: the command line reads these records without computing
     saved = mpmath.mp.prec, mpmath.iv.prec
     try:
         mpmath.mp.dps = digits
@@ -383,6 +384,7 @@ class Certificate:
 
 
 def _text(value, digits):
+    import mpmath
     mp = mpmath.mp
     value = mp.mpc(value)
     if value.imag == 0:
@@ -397,6 +399,7 @@ def _float_up(value):
 
 
 def _parse_center(text):
+    import mpmath
     mp = mpmath.mp
     text = text.replace(" ", "")
     if text.endswith("*I"):

@@ -249,6 +249,13 @@ class ExactCoefficient:
         other = self._coerce(other)
         if other is NotImplemented:
             return other
+        if len(self._parts) > len(other._parts) or (len(self._parts) == len(other._parts) == 1 and 1 in other._parts):
+            self, other = other, self  # a real rational, if there is one, is ``self`` below
+        if len(self._parts) == 1 and self._parts.get(1, (0, 1))[1] == 0:
+            # a real rational factor scales every part: two Fraction products a part instead of eight
+            # operations (units and powers of ten in the balancing, coefficients while reading)
+            factor = self._parts[1][0]
+            return ExactCoefficient({r: (a * factor, b * factor) for r, (a, b) in other._parts.items()})
         if len(self._parts) * len(other._parts) > 4 * MAX_RADICAL_TERMS ** 2:  # work checked before it is done
             raise LimitError(f"a product of exact numbers with {len(self._parts)} and {len(other._parts)} "
                              "square-root terms is too much work", "max_radical_terms", MAX_RADICAL_TERMS)

@@ -799,6 +799,31 @@ def _log10_size(coefficient):
     return math.log10(abs(complex(coefficient)))
 
 
+#: Sizes (log10) within +-99 leave an equation unchanged whatever their last bits (the limits are +-100 and
+#: a spread of 200), so the rough sizes of :func:`_rough_log10_sizes` decide it without mpmath.
+_SURELY_INSIDE = MAX_COEFFICIENT_SPREAD / 2 - 1
+
+
+def _rough_log10_sizes(polynomial):
+    """log10 |c| of each coefficient in double precision when all are rational or numeric, else None.
+
+    ``math.log10`` takes integers of any size, so p/q needs no mpmath: the exact sizes (mpmath,
+    :func:`_log10_size`) cost a tenth of a small ``numag solve`` and are needed only near the limits.
+    """
+    sizes = []
+    for coefficient in polynomial.coefficients:
+        if isinstance(coefficient, ExactCoefficient):
+            if not coefficient.is_rational():
+                return None
+            value = coefficient.as_fraction()
+            if value == 0:
+                return None
+            sizes.append(math.log10(abs(value.numerator)) - math.log10(value.denominator))
+        else:
+            sizes.append(_log10_size(coefficient))
+    return np.array(sizes)
+
+
 def prepared_for_numerics(system):
     """The system as numerical work needs it, and notes saying what was changed.
 
@@ -834,7 +859,9 @@ def prepared_for_numerics(system):
         if polynomial.is_zero():
             notes.append(f"equation {number} is zero (it holds everywhere) and was dropped")
             continue
-        sizes = np.array([_log10_size(c) for c in polynomial.coefficients])
+        sizes = _rough_log10_sizes(polynomial)
+        if sizes is None or not (sizes.max() < _SURELY_INSIDE and sizes.min() > -_SURELY_INSIDE):
+            sizes = np.array([_log10_size(c) for c in polynomial.coefficients])
         high, low = int(np.argmax(sizes)), int(np.argmin(sizes))
         if sizes[high] - sizes[low] > MAX_COEFFICIENT_SPREAD:
             def term(k):

@@ -43,7 +43,6 @@ from dataclasses import dataclass, field
 import enum
 
 import numpy as np
-from scipy.optimize import linprog
 
 from ..errors import InputError
 from ..numeric.evaluate import BatchEvaluator, PrecisionEvaluator, TermSizes
@@ -189,6 +188,7 @@ class _Feasibility:
                                inequalities[k:k + self.chunk], inequality_rhs[k:k + self.chunk])
                 for k in range(0, count, self.chunk)])
         n = equalities.shape[2]
+        from scipy.optimize import linprog  # here, not at import: half a second that plain solves never use
         return np.array([linprog(np.zeros(n), A_ub=inequalities[k], b_ub=inequality_rhs[k], A_eq=equalities[k],
                                  b_eq=equality_rhs[k], bounds=(None, None), method="highs").status == 0
                          for k in range(count)], dtype=bool)

@@ -13,7 +13,6 @@ against a precision context: the homotopy's ``evaluate_precise(point, s, ctx)`` 
 ``matrix``, ``lu_solve`` and ``norm``, as mpmath's own contexts share them.
 """
 
-import mpmath
 import numpy as np
 
 from .methods import RESCUE_STEP_RULE, RK4, decimal
@@ -40,7 +39,7 @@ def _corrected(homotopy, predicted, s, tolerance, rule, ctx):
 
 
 def track_segment_precise(homotopy, start, s_start, s_end, digits, max_steps=20000, *, method=RK4,
-                          rule=RESCUE_STEP_RULE, ctx=mpmath.mp):
+                          rule=RESCUE_STEP_RULE, ctx=None):
     """Track one path along real s from ``s_start`` down to ``s_end`` at ``digits`` digits.
 
     Parameters
@@ -55,8 +54,8 @@ def track_segment_precise(homotopy, start, s_start, s_end, digits, max_steps=200
         The predictor (the batched stepper's).
     rule : HalvingStepRule
         The step control.
-    ctx : mpmath context
-        Its ``workdps`` sets the precision.
+    ctx : mpmath context, optional
+        Its ``workdps`` sets the precision (default ``mpmath.mp``).
 
     Returns
     -------
@@ -73,6 +72,9 @@ def track_segment_precise(homotopy, start, s_start, s_end, digits, max_steps=200
     >>> near.shape, steps > 0
     ((2,), True)
     """
+    if ctx is None:
+        import mpmath  # here, not at import: a double-precision solve never needs it
+        ctx = mpmath.mp
     with ctx.workdps(digits):
         point = ctx.matrix([ctx.mpc(v) for v in start])
         s = ctx.mpf(s_start)

@@ -24,7 +24,6 @@ Examples
 from dataclasses import dataclass, field
 import time
 
-import mpmath
 import numpy as np
 
 from ..errors import InputError, is_integer, is_number, require_option
@@ -253,6 +252,7 @@ def _square_target(system, options, rng):
 
 def _refine_mp(system, point, digits):
     """Gauss-Newton on F at ``digits`` digits (linear convergence at multiple roots is enough here)."""
+    import mpmath  # here, not at import: only singular endpoints are refined in mpmath
     evaluator = PrecisionEvaluator(system.polynomials)
     sizes = TermSizes(system.polynomials)
     with mpmath.mp.workdps(digits + 10):

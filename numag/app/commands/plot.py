@@ -13,8 +13,6 @@ import sys
 
 from ...errors import NumagError
 from ...system.files import load_angles
-from ..plot import FORMATS, PlotOptions, parse_axes, parse_box, plot_report
-from ..picture import discriminant_svg
 from ..report import CAUTION, read_report
 from ..saved import from_dict
 from ...system.safeio import write_file
@@ -61,6 +59,7 @@ def add_plot_options(command):
 
 
 def _options_of(args, prefix="", seed=None):
+    from ..plot import PlotOptions, parse_box  # drawing (and its stages) only when asked
     def value(name):
         return getattr(args, prefix + name, None)
 
@@ -74,6 +73,7 @@ def _options_of(args, prefix="", seed=None):
 
 
 def _check_target(path):
+    from ..plot import FORMATS  # drawing (and its stages) only when asked
     if os.path.splitext(path)[1].lower() not in FORMATS:
         raise NumagError(f"the picture's file name must end in {', '.join(FORMATS)}: {path!r}")
 
@@ -82,6 +82,7 @@ def check_plot_request(args, system):
     """Refuse bad ``--plot`` options before any computation (one-line errors); nothing when no ``--plot``."""
     if not getattr(args, "plot", None):
         return
+    from ..plot import parse_axes  # drawing (and its stages) only when asked
     _check_target(args.plot)
     options = _options_of(args, "plot_")
     if options.axes is not None:
@@ -110,6 +111,7 @@ def plot_after(data, args, out):
     """
     if not getattr(args, "plot", None):
         return EXIT_OK
+    from ..plot import plot_report  # drawing (and its stages) only when asked
     stream = sys.stderr if getattr(args, "json", False) else out
     try:
         result = plot_report(data, args.plot, _options_of(args, "plot_", seed=data.get("seed")))
@@ -141,6 +143,7 @@ def _discriminant_picture(data, args, out):
     if os.path.splitext(args.output)[1].lower() != ".svg":
         raise NumagError(f"a discriminant is drawn as SVG: give FILE.svg, not {args.output!r}")
     result = from_dict(data)
+    from ..picture import discriminant_svg  # drawing only when asked
     write_file(args.output, discriminant_svg(result).encode())
     out.write(f"numag plot: {args.report_file} (a report of 'numag discriminant')\npicture: {args.output}\n")
     if result.curve is not None:
@@ -153,6 +156,7 @@ def _discriminant_picture(data, args, out):
 
 
 def run(args, out):
+    from ..plot import plot_report  # drawing (and its stages) only when asked
     _check_target(args.output)
     data = read_report(args.report_file)
     if data.get("command") == "discriminant" or data.get("kind") == "discriminant":

@@ -6,7 +6,7 @@ from ...run.checkpoint import RunFolder
 from ...numeric.seeds import resolved_seed
 from ...tracking.solve import Execution, SolveOptions, solve_system
 from ...tracking.starts import StartKind
-from ..report import CAUTION, dumps, solve_report_to_dict
+from ..report import CAUTION, solve_report_to_dict, write_json
 from .certify import _certified, _doubtful, _print_certification
 from . import SUMMARIES
 from .plot import add_plot_options, check_plot_request, plot_after, with_angles
@@ -149,10 +149,11 @@ def run(args, out):
     execution = Execution(workers=args.workers, scheduler=args.scheduler, local_dask=args.local_dask,
                           run_folder=args.resume or args.run_folder, resume=bool(args.resume))
     result = solve_system(system, options, seed=seed, progress=_progress(args), execution=execution)
-    data = with_angles(_with_warnings(_certified(_with_notes(solve_report_to_dict(result, options), args), args)),
-                       args.system_file)
+    # lazy: each solution's dictionary is made as it is written, never all at once (issue 19, item 5)
+    report = solve_report_to_dict(result, options, lazy=True)
+    data = with_angles(_with_warnings(_certified(_with_notes(report, args), args)), args.system_file)
     if args.json:
-        out.write(dumps(data) + "\n")
+        write_json(data, out)
     else:
         _write_notes(args, out)
         _print_solve(result, out, data)
