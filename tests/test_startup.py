@@ -58,3 +58,13 @@ def test_star_import_gives_the_public_api():
                                capture_output=True, text=True, timeout=120)
     for name in ("solve_system", "singular_locus", "certify_rank", "NumagError"):
         assert f"'{name}'" in completed.stdout
+
+
+def test_a_plain_solve_loads_neither_scipy_nor_mpmath(tmp_path):
+    # a total-degree solve of a small regular system needs numpy only (decision 0051): scipy's optimizer and
+    # mpmath are imported where a polyhedral start, a rescue or a certificate needs them
+    path = tmp_path / "circle.toml"
+    path.write_text('variables = ["x", "y"]\nequations = ["x^2 + y^2 - 1", "x - y"]\n')
+    loaded = _modules_after(f"from numag.app.cli import main\nmain(['solve', {str(path)!r}, '--seed', '1'])")
+    assert "numag.tracking.solve" in loaded
+    assert not loaded & {"scipy", "mpmath", "networkx", "sympy"}

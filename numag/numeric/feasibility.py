@@ -33,7 +33,6 @@ False
 """
 
 import numpy as np
-from scipy.optimize import linprog
 
 __all__ = ["feasible", "feasible_batch", "TOLERANCE", "MAX_PIVOTS"]
 
@@ -140,6 +139,7 @@ def _farkas_feasible(matrix, rhs):
 
 def _reference(equalities, equality_rhs, inequalities, inequality_rhs):
     """scipy's linprog on one program (for the rare program the simplex above did not finish)."""
+    from scipy.optimize import linprog  # here, not at import: half a second that plain solves never use
     n = inequalities.shape[1]
     outcome = linprog(np.zeros(n), A_ub=inequalities if len(inequalities) else None,
                       b_ub=inequality_rhs if len(inequalities) else None,

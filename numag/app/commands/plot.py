@@ -14,7 +14,6 @@ import sys
 from ...errors import NumagError
 from ...system.files import load_angles
 from ..report import CAUTION, read_report
-from ..saved import from_dict
 from ...system.safeio import write_file
 from .common import EXIT_OK, EXIT_UNDECIDED, _count, _seed
 
@@ -142,6 +141,7 @@ def _discriminant_picture(data, args, out):
     """A saved discriminant: its regions, the traced real curve, cusps and nodes, as an SVG picture."""
     if os.path.splitext(args.output)[1].lower() != ".svg":
         raise NumagError(f"a discriminant is drawn as SVG: give FILE.svg, not {args.output!r}")
+    from ..saved import from_dict  # the stages' records only for a saved result
     result = from_dict(data)
     from ..picture import discriminant_svg  # drawing only when asked
     write_file(args.output, discriminant_svg(result).encode())
