@@ -10,6 +10,7 @@ import numag
 from numag.system.parse import parse_system
 from numag.system.polynomial import PolynomialSystem
 from numag.system.files import load_angles
+from numag.anatomy.local import LocalOptions, hypersurface_witness, local_picture
 from numag.anatomy.records import ComponentAnatomy, Family, Motion, PointAnatomy, TypeTest
 from numag.anatomy.survey import LocusAnatomy, component_anatomy, locus_anatomy, point_anatomy
 
@@ -339,3 +340,17 @@ def test_branches_of_space_curves(equations, branches, motion, seed):
     anatomy = point_anatomy(parse_system(equations, ["x", "y", "z"]), [0, 0, 0], seed=seed)
     assert sorted((b.multiplicity, b.real) for b in anatomy.branches) == sorted(branches)
     assert anatomy.multiplicity == 2 and anatomy.motion is motion
+
+
+def test_an_unclear_local_picture_counts_nothing():
+    # A slice moved by 0.75 instead of 0.1 leaves every local point of the node y^2 = x^2 + x^3 between
+    # "converging" and "staying" on every attempt (common practice, no source: the local points of a node lie
+    # about eps / |a . t| from it, so they move by the factor eps2 / eps1). The picture is then unclear, and an
+    # unclear picture must not report a multiplicity or branches (before, the last attempt's count was kept).
+    f = parse_system(["y^2 - x^2 - x^3"], ["x", "y"]).polynomials[0].numeric()
+    rng = np.random.default_rng(4)
+    points, rows = hypersurface_witness(f, rng)
+    picture = local_picture([f], 1, np.zeros(2), points, rows, rng, real=True,
+                            options=LocalOptions(shrink=0.75, attempts=2))
+    assert (picture.multiplicity, picture.orbits, picture.real_orbits) == (None, None, None)
+    assert any("not counted" in note for note in picture.notes)

@@ -243,8 +243,11 @@ def local_picture(polynomials, codimension, point, witness_points, witness_rows,
         if not problem:
             return picture
         tried.append(problem)
+    # an unclear picture is not a count: the last slice's number of converging points is no evidence (a far
+    # point that came close counts as local), so the multiplicity and the branches stay undecided
+    picture.multiplicity, picture.orbits, picture.real_orbits = None, None, None
     picture.notes.append(f"no clear local picture after {options.attempts} random slices ({'; '.join(tried)}): "
-                         "the last one is reported")
+                         "the multiplicity and the branches are not counted")
     return picture
 
 

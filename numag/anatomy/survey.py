@@ -273,7 +273,7 @@ def _system_point(system, polynomials, computed, user_point, scaling, rng, real,
             part = local_picture(polynomials, n - d, computed, c.points, c.slice_rows, rng, real=real,
                                  options=options.local)
             picture = part if picture is None else _joined(picture, part)
-        if picture is not None and picture.multiplicity:
+        if picture is not None and picture.multiplicity != 0:  # a count, or None: undecided, said in its notes
             anatomy = _picture_anatomy(picture, scaling, computed, user_point, d, angles, real)
             anatomy.notes = notes + anatomy.notes
             return anatomy
@@ -289,7 +289,9 @@ def _joined(first, second):
     orbits = None if first.orbits is None or second.orbits is None else \
         first.orbits + [[k + offset for k in o] for o in second.orbits]
     real = None if first.real_orbits is None or second.real_orbits is None else first.real_orbits + second.real_orbits
-    return LocalPicture(first.multiplicity + second.multiplicity, np.vstack([first.local_points, second.local_points]),
+    counted = None if first.multiplicity is None or second.multiplicity is None else \
+        first.multiplicity + second.multiplicity
+    return LocalPicture(counted, np.vstack([first.local_points, second.local_points]),
                         np.vstack([first.near_points, second.near_points]), orbits, real,
                         first.lost + second.lost, first.notes + second.notes, first.shrink)
 
