@@ -55,7 +55,7 @@ def test_label_propagation_gives_the_connected_components(seed):
         pairs = rng.integers(0, count, (int(rng.integers(1, 2 * count)), 2))
         graph = coo_matrix((np.ones(len(pairs)), (pairs[:, 0], pairs[:, 1])), shape=(count, count))
         _, expected = connected_components(graph, directed=False)
-        found = cluster._components(count, pairs)
+        found = cluster.connected_components(count, pairs)
         assert len(set(zip(expected.tolist(), found.tolist()))) == len(set(expected.tolist())) == found.max() + 1
 
 

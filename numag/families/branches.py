@@ -28,7 +28,7 @@ import numpy as np
 from ..errors import InputError
 from ..system.family import Family
 from ..system.polynomial import Polynomial, PolynomialSystem, determinant
-from ..numeric.cluster import cluster_labels, groups
+from ..numeric.cluster import cluster_labels, connected_components, groups
 from ..numeric.seeds import random_state
 from .sweep import move_points, sweep
 
@@ -161,14 +161,7 @@ def _branches(family, samples, rng):
         for (index, _), end in zip(which, ends):
             if not np.all(np.isfinite(end)):
                 failed[arcs[index][0]] += 1
-    parent = list(range(len(arcs)))
-
-    def find(a):
-        while parent[a] != a:
-            parent[a] = parent[parent[a]]
-            a = parent[a]
-        return a
-
+    joined = []  # pairs of arcs of one branch
     meeting = {}
     for (index, side), end in zip(which, ends):
         if np.all(np.isfinite(end)):
@@ -179,11 +172,11 @@ def _branches(family, samples, rng):
         found = np.array([end for _, end in here])
         # arc ends meeting at a fold converge only like the square root of the precision
         for members in groups(cluster_labels(found.astype(complex), 1e-5)):
-            for other in members[1:]:
-                parent[find(here[other][0])] = find(here[members[0]][0])
+            joined.extend((here[other][0], here[members[0]][0]) for other in members[1:])
+    branch_of = connected_components(len(arcs), joined)
     counts = []
     for r in range(len(samples)):
-        roots = {find(a) for a, arc in enumerate(arcs) if arc[0] == r}
+        roots = {int(branch_of[a]) for a, arc in enumerate(arcs) if arc[0] == r}
         counts.append(RealCount(branches=len(roots), failed=int(failed[r])))
     return counts
 

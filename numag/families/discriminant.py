@@ -239,7 +239,7 @@ def _add_counts(total, counts):
             total[key] = total.get(key, 0) + int(value)
 
 
-def discriminant(family, options=None, seed=None, progress=None):
+def discriminant(family, options=None, seed=None, progress=None, *, _balanced=False):
     """The discriminant of a family: components with dimension, degree, samples; regions with real counts.
 
     Parameters
@@ -271,7 +271,9 @@ def discriminant(family, options=None, seed=None, progress=None):
                          "generic parameters")
     seed, rng = random_state(seed)
     scaling = Scaling.balancing(family.system)
-    if not scaling.is_identity:
+    # once: balancing the balanced family need not give the identity (a coefficient of 1e-3 beside ones
+    # moves a power of ten again), and asking again would never end
+    if not _balanced and not scaling.is_identity:
         # every tolerance below is relative to numbers of order one: compute in balanced units (powers of ten
         # of x and p together; exact input stays exact) and report in the user's (decision 0002)
         factors = scaling.variable_factors[n:]
@@ -279,7 +281,7 @@ def discriminant(family, options=None, seed=None, progress=None):
                                        r.high / factors[family.parameters.index(name)])
                   for name, r in family.ranges.items()}
         computed = discriminant(Family(scaling.scale_system(family.system), family.parameters, ranges), options,
-                                seed=seed, progress=progress)
+                                seed=seed, progress=progress, _balanced=True)
         return _in_user_units(computed, factors, family)
     started = time.perf_counter()
     paths, notes = {}, []

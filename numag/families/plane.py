@@ -44,6 +44,7 @@ import numpy as np
 from ..errors import InputError, LimitError
 from ..system.family import Family
 from ..system.polynomial import Polynomial, PolynomialSystem, determinant
+from ..numeric.cluster import connected_components
 from ..numeric.evaluate import BatchEvaluator
 from ..witness.realcurve import RealCurveOptions, trace_real_curve
 from ..singular.locus import minors_system
@@ -502,14 +503,7 @@ def merge_cells(cells, curve):
     # a passage narrower than 1/100 of the box's height is not trusted, and the cells stay apart (the safe side)
     tolerance = 0.01 * span[1]
     lines = sorted({c.line for c in cells})
-    parent = list(range(len(cells)))
-
-    def find(a):
-        while parent[a] != a:
-            parent[a] = parent[parent[a]]
-            a = parent[a]
-        return a
-
+    joined = []  # pairs of cells of one region
     conflicts = 0
     by_line = {line: [k for k, c in enumerate(cells) if c.line == line] for line in lines}
     for left, right in zip(lines[:-1], lines[1:]):
@@ -524,10 +518,11 @@ def merge_cells(cells, curve):
                 if (a.count.solutions, a.count.branches) != (b.count.solutions, b.count.branches):
                     conflicts += 1
                     continue
-                parent[find(j)] = find(i)
+                joined.append((i, j))
+    region_of = connected_components(len(cells), joined)
     regions = {}
     for k in range(len(cells)):
-        regions.setdefault(find(k), []).append(k)
+        regions.setdefault(int(region_of[k]), []).append(k)
 
     def width(k):
         cell = cells[k]

@@ -64,7 +64,7 @@ def cluster_labels(points, tolerance, projective=False):
         pairs = _close_points(points, tolerance)
     if len(pairs) == 0:  # every point alone (a regular run): each is its own group, in order
         return np.arange(count, dtype=np.int64)
-    components = _components(count, pairs)
+    components = connected_components(count, pairs)
     # number the groups by their first member, so labels follow the input order
     _, first = np.unique(components, return_index=True)
     order = np.argsort(first, kind="stable")
@@ -79,13 +79,20 @@ def _as_real(points):
     return np.asarray(points, dtype=float)
 
 
-def _components(count, pairs):
-    """Connected components of the graph on ``count`` nodes with edges ``pairs`` (numbers 0, 1, ...): each
-    node's smallest reachable index, by label propagation along the edges and pointer jumping (no scipy).
+def connected_components(count, pairs):
+    """Connected components of the graph on ``count`` nodes with edges ``pairs``: each node's component
+    number (0, 1, ... in the order of their smallest nodes), by label propagation along the edges and pointer
+    jumping (no scipy).
 
     Each round halves the distance to a component's smallest node or more, so the rounds are about the
     logarithm of the longest chain; each is vectorised over the edges.
+
+    Examples
+    --------
+    >>> connected_components(5, [(3, 1), (4, 0)]).tolist()
+    [0, 1, 2, 1, 0]
     """
+    pairs = np.asarray(pairs, dtype=np.int64).reshape(-1, 2)
     labels = np.arange(count, dtype=np.int64)
     first, second = pairs[:, 0], pairs[:, 1]
     while True:
