@@ -56,6 +56,7 @@ import checkout  # noqa: F401  (this checkout's numag, not an installed one)
 from numag.certify.certificates import (certify_rank, certify_regular_zero, certify_singular_point,
                                         certify_smooth_point)
 from numag.certify.records import CertifyOptions
+from numag.system.display import counted
 from numag.system.parse import parse_polynomial, parse_system
 
 PROBLEMS = pathlib.Path(__file__).resolve().parent.parent / "tests" / "data" / "problems.json"
@@ -1070,7 +1071,7 @@ def main(argv=None):
     print(f"{'all':16s} {totals.issued:7d} {totals.certified:9d} {totals.exact:8d} {totals.refuted:8d} "
           f"{totals.undecided:9d} {totals.false:6d} {totals.claim_errors:9d} "
           f"{1000 * totals.seconds / max(totals.issued, 1):8.1f}")
-    print(f"wall time {time.perf_counter() - started:.0f} s on {args.workers} process(es) (certification "
+    print(f"wall time {time.perf_counter() - started:.0f} s on {counted(args.workers, 'process', 'processes')} (certification "
           f"{totals.seconds:.0f} s of process time; the rest is building the truth and checking)")
     for family, tally in table.items():
         used = ", ".join(f"{d} digits: {n}" for d, n in sorted(tally.digits.items()))

@@ -118,7 +118,7 @@ def test_numag_plot_reads_a_saved_report(tmp_path, linkage_report):
     code = main(["plot", str(report), "-o", str(tmp_path / "projection.png"), "--axes", "c1,c2", "--seed", "2"],
                 out=out)
     assert code == 0
-    assert "projection" in out.getvalue() and "4 branch(es)" in out.getvalue()
+    assert "projection" in out.getvalue() and "4 branches" in out.getvalue()
     assert (tmp_path / "projection.png").stat().st_size > 1000
 
 

@@ -92,7 +92,7 @@ def test_unverified_groups_are_reported_and_warned():
     result.unverified = [result.solutions[0]]
     data = json.loads(dumps(solve_report_to_dict(result, SolveOptions())))
     assert len(data["unverified"]) == 1
-    assert any(w.startswith("1 singular endpoint group(s) (3 path(s)) do not satisfy the equations") for w in
+    assert any(w.startswith("1 singular endpoint group (3 paths) does not satisfy the equations") for w in
                completeness_warnings(data))
     again, _ = solve_report_from_dict(data)
     assert len(again.unverified) == 1 and again.unverified[0].multiplicity == 3

@@ -305,7 +305,7 @@ def test_lost_first_stage_paths_become_a_warning():
     # a path of the polyhedral first stage that fails starts nothing: the report must say so (exit 3)
     from numag.app.report import completeness_warnings
     block = {"random_system_paths": {"tracked": 10, "converged": 7, "singular_endpoint": 1}}
-    assert "2 path(s) of the polyhedral start's first stage" in completeness_warnings({"start": block})[0]
+    assert "2 paths of the polyhedral start's first stage" in completeness_warnings({"start": block})[0]
     block["random_system_paths"]["converged"] = 9
     assert completeness_warnings({"start": block}) == []
 

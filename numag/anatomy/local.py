@@ -27,6 +27,7 @@ import numpy as np
 import scipy.linalg
 import scipy.optimize
 
+from ..system.display import counted
 from ..system.polynomial import PolynomialSystem
 from ..tracking.homotopy import ParameterHomotopy, random_unit_complex
 from ..tracking.service import track
@@ -291,7 +292,7 @@ def _attempt(held, codimension, point, witness_points, witness_rows, rng, real, 
     local = np.nonzero(np.isfinite(ratio) & (ratio < _CONVERGING_RATIO))[0]
     picture = LocalPicture(len(local), on1[local], on2[local], lost=lost, shrink=options.shrink)
     if lost:
-        return picture, f"{lost} path(s) failed or went to infinity"
+        return picture, f"{counted(lost, 'path')} failed or went to infinity"
     unclear = np.isfinite(ratio) & (ratio >= _CONVERGING_RATIO) & (ratio < _STAYING_RATIO)
     if np.any(unclear):
         return picture, "a point neither converged nor stayed"

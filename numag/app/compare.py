@@ -22,7 +22,7 @@ import time
 
 import numpy as np
 
-from ..system.display import html_table
+from ..system.display import counted, html_table
 from ..singular.locus import SingularOptions, singular_locus
 from ..singular.kinds import PieceKind
 from .reference import REFERENCE_SCOPE, ReferenceStatus, exact_reference
@@ -267,7 +267,7 @@ def compare_answers(system, locus, reference, numag_seconds, tolerance=1e-6):
     if exact_dimension is not None and exact_dimension > 0:
         notes.append("a positive-dimensional locus is compared by its top-dimensional part only")
     if ours["undecided"]:
-        notes.append(f"numag left {ours['undecided']} candidate(s) undecided")
+        notes.append(f"numag left {counted(ours['undecided'], 'candidate')} undecided")
     if any(r.agree is False for r in rows):
         verdict = "mismatch"
     elif reference.status != ReferenceStatus.FINISHED or ours["undecided"] or (components is not None and components.agree is None):

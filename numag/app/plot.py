@@ -32,6 +32,7 @@ import time
 import numpy as np
 
 from ..errors import InputError, NumagError
+from ..system.display import counted
 from ..system.files import angles_from_mapping, system_from_mapping
 from ..system.polynomial import PolynomialSystem
 from ..system.safeio import write_file
@@ -250,7 +251,8 @@ def _marked_points(data, n, notes):
             else:
                 found.append((f"s{k}", "solution", point))
     if complex_points:
-        notes.append(f"{complex_points} point(s) of the report are not real and are not drawn")
+        verb = "is" if complex_points == 1 else "are"
+        notes.append(f"{counted(complex_points, 'point')} of the report {verb} not real and {verb} not drawn")
     return found
 
 
@@ -355,8 +357,8 @@ def plot_report(data, path, options=None):
                                  + (" (or --angles, from the system file's angles table)" if angles else ""))
             axes = tuple(range(n))
         if m < n - 1:
-            raise InputError(f"{m} equation(s) in {n} unknowns: numag plot draws curves in any number of "
-                             "unknowns and surfaces in three")
+            raise InputError(f"{counted(m, 'equation')} in {counted(n, 'unknown')}: numag plot draws curves in any "
+                             "number of unknowns and surfaces in three")
     figure = plt.figure(figsize=(7.5, 7.5) if kind != PlotKind.SURFACE else (8, 8))
     try:
         if kind == PlotKind.PLANE:
@@ -516,8 +518,8 @@ def _draw_angles(figure, system, angles, marked, options, seed, notes):
     if missing:
         raise InputError(f"--angles names {missing[0]!r}, which is not in the angles table ({', '.join(angles)})")
     if system.n_equations < system.n_variables - 1:
-        raise InputError(f"{system.n_equations} equation(s) in {system.n_variables} unknowns: the configuration "
-                         "set is not a curve, numag plot draws configuration curves")
+        raise InputError(f"{counted(system.n_equations, 'equation')} in {counted(system.n_variables, 'unknown')}: "
+                         "the configuration set is not a curve, numag plot draws configuration curves")
     pairs = [angles[label] for label in labels]
     ax = figure.add_subplot(1, 1, 1)
     singular = np.array([p for _, kind, p in marked if kind == "singular"]).reshape(-1, system.n_variables)

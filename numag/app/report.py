@@ -32,6 +32,7 @@ import numpy as np
 
 from ..errors import InputError
 from ..version import __version__
+from ..system.display import counted
 from ..system.files import system_from_mapping
 from ..system.polynomial import PolynomialSystem
 from ..system.safeio import MAX_INPUT_BYTES, loads_json, read_limited, write_file
@@ -169,27 +170,28 @@ def completeness_warnings(data):
 
     Examples
     --------
-    >>> completeness_warnings({"paths": {"failed": 2, "failed_by_reason": {"minimum_step": 2}}})[0][:34]
-    '2 path(s) failed (minimum_step 2):'
+    >>> completeness_warnings({"paths": {"failed": 2, "failed_by_reason": {"minimum_step": 2}}})[0][:32]
+    '2 paths failed (minimum_step 2):'
     """
     warnings = []
     paths = data.get("paths") or {}
     failed = int(paths.get("failed", 0))
     if failed:
         reasons = ", ".join(f"{k} {v}" for k, v in (paths.get("failed_by_reason") or {}).items() if v)
-        warnings.append(f"{failed} path(s) failed ({reasons}): what they lead to (solutions, witness points, "
+        warnings.append(f"{counted(failed, 'path')} failed ({reasons}): what they lead to (solutions, witness points, "
                         "singular candidates) may be missing; run again with another --seed to compare.")
     first_stage = ((data.get("start") or {}).get("random_system_paths") or {}) if isinstance(data.get("start"),
                                                                                           dict) else {}
     lost = int(first_stage.get("tracked", 0)) - int(first_stage.get("converged", 0)) \
         - int(first_stage.get("singular_endpoint", 0))
     if lost > 0:  # a first-stage path that did not reach a regular solution of the random system starts no path
-        warnings.append(f"{lost} path(s) of the polyhedral start's first stage did not reach a regular solution of "
-                        "the random system: solutions they lead to may be missing; run again with another --seed.")
+        warnings.append(f"{counted(lost, 'path')} of the polyhedral start's first stage did not reach a regular "
+                        "solution of the random system: solutions they lead to may be missing; run again with "
+                        "another --seed.")
     unsettled = int((data.get("discarded") or {}).get("not_settled_on_X", 0)) if isinstance(
         data.get("discarded"), dict) else 0
     if unsettled:
-        warnings.append(f"{unsettled} singular candidate(s) could not be settled on X (Newton refinement "
+        warnings.append(f"{counted(unsettled, 'singular candidate')} could not be settled on X (Newton refinement "
                         "drifted): singular points there may be missing.")
     paths_block = data.get("paths") or {}
     if int((paths_block.get("endpoints") or {}).get("degree_check_failed", 0)):
@@ -199,13 +201,14 @@ def completeness_warnings(data):
     unverified = data.get("unverified") if isinstance(data.get("unverified"), list) else []
     if unverified:  # solve: singular endpoint groups that do not satisfy F (decision 0049)
         paths = sum(int(group.get("multiplicity", 0)) for group in unverified if isinstance(group, dict))
-        warnings.append(f"{len(unverified)} singular endpoint group(s) ({paths} path(s)) do not satisfy the equations "
+        warnings.append(f"{counted(len(unverified), 'singular endpoint group')} ({counted(paths, 'path')}) "
+                        f"{'does' if len(unverified) == 1 else 'do'} not satisfy the equations "
                         "after refinement and are not counted: they may be points at infinity that the endgame could "
                         "not resolve, or solutions missed; run again with another --seed or --start to compare.")
     unconfirmed = data.get("unconfirmed", 0)
     if unconfirmed:
-        warnings.append(f"{unconfirmed} group(s) of witness points not confirmed by the trace test: they may be "
-                        "parts of larger components (raise --max-loops or change --seed).")
+        warnings.append(f"{counted(unconfirmed, 'group')} of witness points not confirmed by the trace test: they "
+                        "may be parts of larger components (raise --max-loops or change --seed).")
     return warnings
 
 
@@ -891,7 +894,7 @@ def certify_report(data, options=None, progress=None, executor=None):
             for k, certificate in zip(batches[position], certificates):
                 results[k] = certificate
             if progress is not None:
-                progress(f"certified {len(results)} of {len(slots)} point(s)")
+                progress(f"certified {len(results)} of {counted(len(slots), 'point')}")
         for failure in executor.failures:
             for k in batches[failure.index]:
                 results[k] = _not_certified(f"certification failed on a worker: {failure.error}",

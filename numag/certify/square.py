@@ -11,6 +11,7 @@ import mpmath
 import numpy as np
 
 from ..errors import InputError
+from ..system.display import counted
 from ..numeric.evaluate import BatchEvaluator, PrecisionEvaluator, TermSizes
 from ..numeric.linalg import pivot_order
 from .intervals import (_SINGULAR, _bounds, _excludes_zero, _frobenius_upper, _iv_box, _iv_point, _magnitude_upper,
@@ -277,7 +278,8 @@ def _choose_rows(equations, pinned, point):
     if wanted == 0:
         return [], rank
     if len(equations) < wanted:
-        raise _Undecided(f"{len(equations)} equation(s) cannot pin a point in {wanted} free direction(s)")
+        raise _Undecided(f"{counted(len(equations), 'equation')} cannot pin a point in "
+                         f"{counted(wanted, 'free direction')}")
     pivots = pivot_order(projected.T)
     return sorted(int(k) for k in pivots[:wanted]), rank
 

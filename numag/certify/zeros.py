@@ -8,6 +8,7 @@ import mpmath
 import numpy as np
 
 from ..errors import InputError
+from ..system.display import counted
 from .deflation import _locate
 from .equations import _is_constant, _is_rational, _restrict
 from .intervals import _holds_zero, _iv_box
@@ -103,7 +104,7 @@ def _certify_zero_at(required, point, options, claim, digits, pinned, exact_chec
             found, problem, wanted, deflations = again
     if found is None:
         if deflations and problem:
-            problem += f" (after {deflations} round(s) of isosingular deflation)"
+            problem += f" (after {counted(deflations, 'round')} of isosingular deflation)"
         return failed(problem, wanted, deflations=deflations)
     box, rows, deflations, square, chosen = found
     return _settle(required, point, options, claim, digits, pinned, exact_check, box, rows, deflations, square,
@@ -137,7 +138,7 @@ def _settle(required, point, options, claim, digits, pinned, exact_check, box, r
             backward_error=None if accounting.backward is None else _float_up(accounting.backward),
             residual_bound=None if accounting.residual is None else _float_up(accounting.residual), **common)
         if deflations:
-            certificate.notes.append(f"{deflations} round(s) of isosingular deflation made the zero regular; "
+            certificate.notes.append(f"{counted(deflations, 'round')} of isosingular deflation made the zero regular; "
                                      "every equation of the claim is still accounted for; numerically, this is an "
                                      "exact multiple zero of equations within the backward error, and the given "
                                      "ones may have a cluster of simple zeros here instead (more digits, or an "

@@ -46,6 +46,7 @@ import time
 import numpy as np
 
 from ..errors import InputError, LimitError
+from ..system.display import counted
 from ..system.exact import ExactCoefficient
 from ..system.family import Family, ParameterRange
 from ..system.polynomial import Polynomial, PolynomialSystem, combined_minor, determinant
@@ -308,9 +309,10 @@ def discriminant(family, options=None, seed=None, progress=None, *, _balanced=Fa
         if curve is not None:
             plane_regions, conflicts = merge_cells(regions, curve)
             if conflicts:
-                notes.append(f"{conflicts} pair(s) of neighbouring cells are not separated by the traced curve but "
-                             "have different counts: the trace misses an arc there (real discriminant points over "
-                             "non-real singular points are not traced); those cells were kept apart.")
+                notes.append(f"{counted(conflicts, 'pair')} of neighbouring cells {'is' if conflicts == 1 else 'are'} "
+                             "not separated by the traced curve but have different counts: the trace misses an arc "
+                             "there (real discriminant points over non-real singular points are not traced); those "
+                             "cells were kept apart.")
     elif m > 2 and options.regions:
         notes.append("Regions are given for one or two parameters; with more, sweep a grid instead.")
     return Discriminant(family.variables, family.parameters, family.system.to_texts(), codimension, components,
@@ -394,8 +396,11 @@ def _images(incidence, n, m, kind, options, rng, paths, notes, offset=0):
     decomposition = decompose(incidence, options.decompose, seed=int(rng.integers(2 ** 32)))
     _add_counts(paths, decomposition.paths)
     if decomposition.unconfirmed:
-        notes.append(f"{len(decomposition.unconfirmed)} component(s) of the incidence set were not confirmed by the "
-                     "trace test: their images may be unions.")
+        unconfirmed = len(decomposition.unconfirmed)
+        verb, images = (("was", "its image may be a union") if unconfirmed == 1
+                        else ("were", "their images may be unions"))
+        notes.append(f"{counted(unconfirmed, 'component')} of the incidence set {verb} not confirmed by the trace "
+                     f"test: {images}.")
     slices = {}  # image dimension -> real rows a . (1, p) = 0 shared by all components of that dimension
     images = []
     for component in decomposition.components:

@@ -35,6 +35,7 @@ from ..errors import InputError
 from ..numeric.cluster import cluster_labels, groups
 from ..numeric.evaluate import BatchEvaluator, TermSizes
 from ..numeric.seeds import random_state
+from ..system.display import counted
 from ..system.polynomial import Polynomial, PolynomialSystem
 from ..tracking.solve import SolveOptions, solve_system
 from ..tracking.starts import StartKind
@@ -271,8 +272,9 @@ def finite_singular_points(system, start, rng, options=None):
         _added_counts(total, found.path_counts)
         searches.append({"hyperplanes": hyperplanes, "start": found.start, "tracked": found.paths})
         if found.failed or found.not_isolated:
-            return found, (f"{found.failed} failed path(s) and {found.not_isolated} endpoint(s) on a "
-                           f"positive-dimensional set of the null-vector system cut by {hyperplanes} hyperplane(s)")
+            return found, (f"{counted(found.failed, 'failed path')} and {counted(found.not_isolated, 'endpoint')} "
+                           "on a positive-dimensional set of the null-vector system cut by "
+                           f"{counted(hyperplanes, 'hyperplane')}")
         return found, None
 
     found, trouble = search(system, 0)
@@ -288,7 +290,8 @@ def finite_singular_points(system, start, rng, options=None):
                                name=system.name)
         probe, trouble = search(cut, hyperplanes)
         if trouble is None and len(probe.points):
-            trouble = (f"X cut by {hyperplanes} random hyperplane(s) has {len(probe.points)} singular point(s): "
+            trouble = (f"X cut by {counted(hyperplanes, 'random hyperplane')} has "
+                       f"{counted(len(probe.points), 'singular point')}: "
                        f"the singular set has dimension at least {hyperplanes}")
         if trouble:
             return FiniteSingularSearch(found.points, found.multiplicities, False, trouble, total, searches)

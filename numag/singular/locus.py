@@ -536,9 +536,9 @@ def _affine(system, options, rng, paths, discarded, progress, notes_out=None, ro
             _add_counts(paths, candidates.paths)
             failed = sum(candidates.paths.get(label, 0) for label in FAILURE_LABELS)
             if failed:
-                notes_out.append(f"{failed} path(s) of the {kind} system for codimension {codimension} failed: "
-                                 "singular points there may be missing (a singular endpoint the endgame could not "
-                                 "settle). Run again with another --seed or --formulation to compare.")
+                notes_out.append(f"{counted(failed, 'path')} of the {kind} system for codimension {codimension} "
+                                 "failed: singular points there may be missing (a singular endpoint the endgame could "
+                                 "not settle). Run again with another --seed or --formulation to compare.")
             if kind is CandidateSystem.NULL_VECTOR:
                 projected = _projected_candidates(system, augmented, candidates, rng, options, paths)
             else:

@@ -39,6 +39,7 @@ import time
 import numpy as np
 
 from ..errors import InputError
+from ..system.display import counted
 from ..system.polynomial import Polynomial, PolynomialSystem, determinant
 from ..numeric.evaluate import BatchEvaluator, TermSizes
 from ..numeric.seeds import random_state
@@ -398,7 +399,7 @@ def trace_real_curve(system, options=None, seed=None, marked=(), constraints=())
     if not system.has_real_coefficients:
         raise InputError("real curves are traced for equations with real coefficients only")
     if n < 2 or system.n_equations < n - 1:
-        raise InputError(f"{system.n_equations} equation(s) in {n} unknowns do not cut out a curve "
+        raise InputError(f"{counted(system.n_equations, 'equation')} in {counted(n, 'unknown')} do not cut out a curve "
                          f"(n - 1 = {n - 1} equations are needed)")
     seed, rng = random_state(seed)
     notes = []
@@ -487,7 +488,7 @@ def trace_real_curve(system, options=None, seed=None, marked=(), constraints=())
             lows.append(lower)
             highs.append(upper)
         if np.any(~converged):
-            notes.append(f"{int(np.sum(~converged))} real fibre point(s) over {m:.6g} did not refine onto the "
+            notes.append(f"{counted(int(np.sum(~converged)), 'real fibre point')} over {m:.6g} did not refine onto the "
                          "curve and were not traced")
     starts = np.array(starts, dtype=float).reshape(-1, n)
 
@@ -574,8 +575,8 @@ def trace_real_curve(system, options=None, seed=None, marked=(), constraints=())
         failed += int(kinds[start_v] == VertexKind.UNRESOLVED) + int(kinds[end_v] == VertexKind.UNRESOLVED)
         arcs.append(RealArc(points, start_v, end_v))
     if failed:
-        notes.append(f"{failed} arc end(s) stalled far from every vertex or took more than {options.max_steps} "
-                     "steps: the picture may miss or misjoin a piece of the curve there")
+        notes.append(f"{counted(failed, 'arc end')} stalled far from every vertex or took more than "
+                     f"{options.max_steps} steps: the picture may miss or misjoin a piece of the curve there")
     # a smooth vertex in the box where other than two arc ends meet: the arcs were misjoined there
     ends = np.bincount([v for arc in arcs for v in (arc.start, arc.end)], minlength=len(vertices))
     in_box = np.all((vertices >= low) & (vertices <= high), axis=1) if len(vertices) else np.zeros(0, dtype=bool)
@@ -583,8 +584,8 @@ def trace_real_curve(system, options=None, seed=None, marked=(), constraints=())
                     and ends[v] not in (0, 2))  # 0: a duplicate merged into another vertex, or unreached
     if misjoined:
         failed += misjoined
-        notes.append(f"{misjoined} smooth vertex(es) in the box where other than two arcs meet: arcs were "
-                     "misjoined near a singular point or a tight fold (try another --seed)")
+        notes.append(f"{counted(misjoined, 'smooth vertex', 'smooth vertices')} in the box where other than two "
+                     "arcs meet: arcs were misjoined near a singular point or a tight fold (try another --seed)")
     return RealCurve(system, projection, values, vertices, kinds, arcs, (low, high), options.tolerance, failed,
                      dropped, seed, time.perf_counter() - started, notes)
 

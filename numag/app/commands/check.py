@@ -177,6 +177,8 @@ def run(args, out):
         _print_check(report, out, data, anatomies)
     incomplete = sorted(k for k, a in (anatomies or {}).items() if a.incomplete)
     if incomplete and not args.json:
-        out.write(f"warning: the anatomy of point(s) {', '.join(map(str, incomplete))} is incomplete (see their notes)\n")
+        noun, pronoun = ("point", "its") if len(incomplete) == 1 else ("points", "their")
+        out.write(f"warning: the anatomy of {noun} {', '.join(map(str, incomplete))} is incomplete "
+                  f"(see {pronoun} notes)\n")
     pictured = plot_after(data, args, out)
     return EXIT_UNDECIDED if report.undecided or report.off or _doubtful(data) or incomplete or pictured else EXIT_OK

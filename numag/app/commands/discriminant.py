@@ -74,7 +74,7 @@ def _print(result, out):
     for k, c in enumerate(result.components, 1):
         sample = ", ".join(f"{p}={_format_complex(complex(z))}" for p, z in zip(result.parameters, c.points[0]))
         out.write(f"  {k:3d}  {c.kind.value:13s} dimension {c.dimension}  degree {c.degree}  "
-                  f"{int(sum(c.real))} real sample(s)  e.g. {sample}\n")
+                  f"{counted(int(sum(c.real)), 'real sample')}  e.g. {sample}\n")
     if len(result.parameters) == 1:
         points = ", ".join(_format_complex(complex(v)) for v in result.real_points) or "none"
         out.write(f"\nreal discriminant points ({names}): {points}\n")
@@ -91,7 +91,7 @@ def _print(result, out):
                 where = f"{result.parameters[0]} = {region.line:.6g}, {result.parameters[1]} in {where}"
             else:
                 where = f"{names} in {where}"
-            failed = f"  ({region.count.failed} path(s) failed)" if region.count.failed else ""
+            failed = f"  ({counted(region.count.failed, 'path')} failed)" if region.count.failed else ""
             out.write(f"  {where}: {_count_text(region.count)}{failed}\n")
     if result.curve is not None:
         _print_curve(result, out)
@@ -106,7 +106,7 @@ def _print_curve(result, out):
     low, high = curve.box
     out.write(f"\nreal discriminant curve: {counted(len(curve.arcs), 'traced piece')} in {first} in "
               f"[{low[0]:.6g}, {high[0]:.6g}], {second} in [{low[1]:.6g}, {high[1]:.6g}]"
-              + (f" ({curve.failed_arcs} arc end(s) failed)" if curve.failed_arcs else "") + "\n")
+              + (f" ({counted(curve.failed_arcs, 'arc end')} failed)" if curve.failed_arcs else "") + "\n")
     for point in curve.special:
         accuracy = "refined" if point.refined else "at the traced accuracy"
         out.write(f"  {point.kind.value:5s} at {first}={point.point[0]:.10g}, {second}={point.point[1]:.10g} "
@@ -115,7 +115,7 @@ def _print_curve(result, out):
         out.write(f"\n{counted(len(result.plane_regions), 'region')} of the plane (cells joined where the curve does "
                   "not separate them; one sample each)\n")
         for k, region in enumerate(result.plane_regions, 1):
-            failed = f"  ({region.count.failed} path(s) failed)" if region.count.failed else ""
+            failed = f"  ({counted(region.count.failed, 'path')} failed)" if region.count.failed else ""
             out.write(f"  {k:3d}  sample {first}={region.sample[0]:.6g}, {second}={region.sample[1]:.6g}: "
                       f"{_count_text(region.count)}; {counted(len(region.cells), 'cell')}{failed}\n")
 

@@ -14,6 +14,7 @@ import sys
 from ...errors import NumagError
 from ...system.files import load_angles
 from ..report import CAUTION, read_report
+from ...system.display import counted
 from ...system.safeio import write_file
 from .common import EXIT_OK, EXIT_UNDECIDED, _count, _seed
 
@@ -131,8 +132,9 @@ def _print_result(result, out):
                   f"{direction[1]:.4f})\n")
     for curve in result.curves:
         branches = curve.branches()
-        out.write(f"  traced: {len(curve.arcs)} arc(s), {len(branches)} branch(es) in the box, "
-                  f"{len(curve.critical_values)} critical value(s), {curve.failed_arcs} failed arc end(s)\n")
+        out.write(f"  traced: {counted(len(curve.arcs), 'arc')}, {counted(len(branches), 'branch', 'branches')} "
+                  f"in the box, {counted(len(curve.critical_values), 'critical value')}, "
+                  f"{counted(curve.failed_arcs, 'failed arc end')}\n")
     for note in result.notes:
         out.write(f"  note: {note}\n")
 
@@ -148,9 +150,9 @@ def _discriminant_picture(data, args, out):
     out.write(f"numag plot: {args.report_file} (a report of 'numag discriminant')\npicture: {args.output}\n")
     if result.curve is not None:
         kinds = [p.kind.value for p in result.curve.special]
-        out.write(f"  traced: {len(result.curve.arcs)} piece(s) of the real discriminant curve, "
-                  f"{kinds.count('cusp')} cusp(s), {kinds.count('node')} node(s), "
-                  f"{result.curve.failed_arcs} failed arc end(s)\n")
+        out.write(f"  traced: {counted(len(result.curve.arcs), 'piece')} of the real discriminant curve, "
+                  f"{counted(kinds.count('cusp'), 'cusp')}, {counted(kinds.count('node'), 'node')}, "
+                  f"{counted(result.curve.failed_arcs, 'failed arc end')}\n")
     out.write(f"\n{CAUTION}\n")
     return EXIT_UNDECIDED if result.curve is not None and result.curve.failed_arcs else EXIT_OK
 

@@ -81,7 +81,8 @@ def _print_singular(result, out, angles, data=None, anatomy=None):
     for route in result.start.get("codimensions", []):
         searches = "; ".join(f"{s['tracked']} paths ({s['start'].get('chosen')}; by start "
                              + ", ".join(f"{k} {v}" for k, v in s["start"].get("paths", {}).items())
-                             + (f"; cut by {s['hyperplanes']} hyperplane(s)" if s["hyperplanes"] else "") + ")"
+                             + (f"; cut by {_counted(s['hyperplanes'], 'hyperplane')}" if s["hyperplanes"] else "")
+                             + ")"
                              for s in route.get("searches", []))
         out.write(f"start for codimension {route['codimension']}: {route['route']} ({route['why']})"
                   + (f": {searches}" if searches else "") + "\n")
@@ -142,8 +143,10 @@ def run(args, out):
             attach_to_singular(data, anatomy)
     data = with_angles(_with_warnings(_certified(data, args)), args.system_file)
     if anatomy is not None and anatomy.incomplete():
-        data["warnings"].append(f"the anatomy of singular component(s) {', '.join(map(str, anatomy.incomplete()))} "
-                                "is incomplete (see their notes)")
+        incomplete = anatomy.incomplete()
+        noun, pronoun = ("component", "its") if len(incomplete) == 1 else ("components", "their")
+        data["warnings"].append(f"the anatomy of singular {noun} {', '.join(map(str, incomplete))} "
+                                f"is incomplete (see {pronoun} notes)")
     if args.json:
         out.write(dumps(data) + "\n")
     else:

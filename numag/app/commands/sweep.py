@@ -6,6 +6,7 @@ import io
 import numpy as np
 
 from ...errors import InputError, SystemFileError
+from ...system.display import counted
 from ...system.files import load_family
 from ...system.safeio import MAX_INPUT_BYTES, read_limited, write_file
 from ...tracking.solve import Execution
@@ -94,8 +95,9 @@ def _csv_text(result):
 
 def _print(result, out):
     counts = result.real_counts()
-    out.write(f"numag sweep: {len(result.values)} value(s) of {', '.join(result.parameters)}; "
-              f"{result.start_solutions} solution(s) per member (from a random complex member); seed {result.seed}\n")
+    out.write(f"numag sweep: {counted(len(result.values), 'value')} of {', '.join(result.parameters)}; "
+              f"{counted(result.start_solutions, 'solution')} per member (from a random complex member); "
+              f"seed {result.seed}\n")
     out.write(f"paths: {result.paths.get('tracked', 0)} tracked, {result.failed} failed; {result.seconds:.2f} s\n\n")
     out.write("real solutions by value (runs of equal counts)\n")
     start = 0
@@ -108,7 +110,7 @@ def _print(result, out):
             out.write(f"  {span}: {counts[start]}\n")
             start = k
     drops = [(m, p) for m in result.values for p, kind in zip(m.points, m.kinds) if kind == PointKind.RANK_DROP]
-    out.write(f"\n{len(drops)} point(s) where J_x drops rank\n")
+    out.write(f"\n{counted(len(drops), 'point')} where J_x drops rank\n")
     for member, point in drops[:20]:
         out.write(f"  at {_format_point(names, member.parameters)}: {_format_point(result.variables, point)}\n")
     if len(drops) > 20:
