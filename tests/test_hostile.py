@@ -185,7 +185,7 @@ _QUADRICS = [f"x{i}^2 - 1" for i in range(50)]
     (["x"], ["3^1000*x - 1"], ["solve"], "beyond double precision"),
     (["x"], ["1" * 1000 + "*x - 1"], ["solve"], "beyond double precision"),
     (["x"], ["1e308*x^2 - 1"], ["solve"], "orders of magnitude apart"),
-    (["x", "y"], ["x - x", "y - 1"], ["solve"], "1 equations in 2 unknowns"),
+    (["x", "y"], ["x - x", "y - 1"], ["solve"], "1 equation in 2 unknowns"),
     (["x"], ["0"], ["singular"], "every equation is zero"),
     (["x", "y"], ["x^2 + y^2 - 1"], ["solve", "--seed", "-1"], "--seed"),
     (["x", "y"], ["x^2 + y^2 - 1"], ["solve", "--scheduler", "file:///etc/passwd"], "scheduler address"),

@@ -268,7 +268,7 @@ def discriminant(family, options=None, seed=None, progress=None, *, _balanced=Fa
     n, m = family.n_variables, family.n_parameters
     codimension = family.system.n_equations
     if codimension > n:
-        raise InputError(f"the family has {codimension} equations in {n} variables: its members are empty for "
+        raise InputError(f"the family has {counted(codimension, 'equation')} in {counted(n, 'variable')}: its members are empty for "
                          "generic parameters")
     seed, rng = random_state(seed)
     scaling = Scaling.balancing(family.system)

@@ -128,7 +128,7 @@ def square_null_vector_system(system, rng):
         raise InputError("isolated singular points by the null-vector system are for affine systems")
     n, c = system.n_variables, system.n_equations
     if c > n:
-        raise InputError(f"{c} equations in {n} unknowns: a complete intersection has at most n equations")
+        raise InputError(f"{counted(c, 'equation')} in {counted(n, 'unknown')}: a complete intersection has at most n equations")
     full = null_vector_system(system, c, rng)
     rows = full.polynomials[c:-1]
     if len(rows) < 2:

@@ -27,6 +27,7 @@ Examples
 
 import numpy as np
 
+from ..system.display import counted
 from ..errors import InputError
 from ..numeric.evaluate import BatchEvaluator, PrecisionEvaluator, TermSizes
 from .multihomogeneous import MultihomogeneousStart, homogenized_to
@@ -164,7 +165,7 @@ class StraightLineHomotopy(_PatchedHomotopy):
         self.minors = minors
         rows = len(self.target) + (0 if minors is None else minors.count)
         if rows + 1 != self.size:
-            raise InputError(f"a square system is needed: {rows} equations in {self.size - 1} unknowns")
+            raise InputError(f"a square system is needed: {counted(rows, 'equation')} in {counted(self.size - 1, 'unknown')}")
         if minors is None:
             self.evaluator = BatchEvaluator(self.target, spare_columns=self.size)  # room for the patch row
             self._sizes = TermSizes(self.target, projective=True, homogenized=homogenized)

@@ -241,10 +241,10 @@ def _square_target(system, options, rng):
     if system.n_equations == expected:
         return system, False
     if system.n_equations < expected:
-        raise InputError(f"the system has {system.n_equations} equations in {expected} unknowns: its solutions "
+        raise InputError(f"the system has {counted(system.n_equations, 'equation')} in {counted(expected, 'unknown')}: its solutions "
                          "are not isolated; 'numag solve' needs a square system")
     if not options.square_up:
-        raise InputError(f"the system has {system.n_equations} equations in {expected} unknowns; use "
+        raise InputError(f"the system has {counted(system.n_equations, 'equation')} in {counted(expected, 'unknown')}; use "
                          "--square-up to replace them by random combinations (each solution is then checked "
                          "against all equations)")
     return system.random_combinations(expected, rng), True
