@@ -136,6 +136,9 @@ def test_a_case_beyond_double_precision_is_reported_undecided(equation, label, s
     assert h.type.label == label or (h.type.family is Family.UNDECIDED and anatomy.incomplete)
     if label == "A6":
         assert h.type.family is Family.UNDECIDED and h.decided_by is TypeTest.BEYOND_PRECISION
+    if h.type.family is Family.UNDECIDED:
+        # an undecided reading of the point says nothing about what a mechanism can do there
+        assert anatomy.motion is None and anatomy.sentence is None
 
 
 @pytest.mark.parametrize("seed", SEEDS)
@@ -354,3 +357,15 @@ def test_an_unclear_local_picture_counts_nothing():
                             options=LocalOptions(shrink=0.75, attempts=2))
     assert (picture.multiplicity, picture.orbits, picture.real_orbits) == (None, None, None)
     assert any("not counted" in note for note in picture.notes)
+
+
+@pytest.mark.parametrize("seed", [1, 2, 3])
+def test_a_real_point_with_rounding_in_its_imaginary_parts_has_real_branches(seed):
+    # x^4 - y^4 = (x - y)(x + y)(x^2 + y^2): two real lines and two complex conjugate ones through the origin
+    # (common practice, no source). A computed singular point carries rounding in its imaginary parts; it is
+    # the real point, and its branches are read on real slices (before: 0 or 4 real branches by the seed).
+    system = parse_system(["x^4 - y^4"], ["x", "y"])
+    anatomy = point_anatomy(system, np.array([3e-13j, -2e-13j]), seed=seed)
+    assert anatomy.multiplicity == 4
+    assert sorted(b.real for b in anatomy.branches) == [False, False, True, True]
+    assert anatomy.motion is Motion.SWITCH

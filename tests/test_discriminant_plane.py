@@ -65,6 +65,10 @@ def test_cells_merge_into_the_two_regions_of_the_cubic(cubic):
             p, q = cubic.regions[cell].sample
             assert (_cubic_form(p, q) < 0) == (region.count.solutions == 3)
     assert sorted(c for r in regions for c in r.cells) == list(range(len(cubic.regions)))
+    # two regions of different counts: nothing to say about pieces of one region; what the trace cannot see
+    # (isolated real points over non-real singular points) is always said
+    assert not any("pieces of one region" in note for note in cubic.notes)
+    assert any("are not traced" in note for note in cubic.notes)
 
 
 def test_plane_results_round_trip_and_are_drawn(cubic, tmp_path):

@@ -187,9 +187,14 @@ def point_anatomy(system, point, seed=None, decomposition=None, angles=None, loc
     point = np.asarray(point, dtype=complex).reshape(-1)
     if len(point) != system.n_variables:
         raise InputError(f"the point has {len(point)} coordinates, the system {system.n_variables} variables")
+    real = _is_real(point) and system.has_real_coefficients
+    if real:
+        # a real point given with rounding in its imaginary parts (a computed singular point) is the real
+        # point: the local frame and the slices are real only at an exactly real point, and without them the
+        # reality of the branches would be decided on complex slices (x^4 - y^4 read as 0 or 4 real branches)
+        point = point.real.astype(complex)
     scaling, polynomials = _balanced(system)
     computed = scaling.to_computed(point)
-    real = _is_real(point) and system.has_real_coefficients
     if system.n_equations == 1:
         anatomy = _hypersurface_point(polynomials[0], computed, point, scaling, rng, real, angles, options)
     else:
@@ -223,6 +228,11 @@ def _hypersurface_point(polynomial, computed, user_point, scaling, rng, real, an
                                  f"{expected}, the local monodromy found {found}: type undecided")
             anatomy.hypersurface.type = SingularityType(Family.UNDECIDED, None)
             anatomy.hypersurface.decided_by = TypeTest.BRANCHES_DISAGREE
+    if anatomy.hypersurface.type.family is Family.UNDECIDED and anatomy.motion is not None:
+        # the branches are one of two independent readings of the point, and the other one did not settle
+        # (the type is undecided): what they allow a mechanism (switch, pass, locked) is not said
+        anatomy.motion = None
+        anatomy.notes.append("the type is undecided, so what the branches allow (switch, pass, locked) is not said")
     if anatomy.hypersurface.corank == 0 and anatomy.multiplicity not in (None, 2):
         anatomy.notes.append(f"a Morse point has multiplicity 2, the local witness set counted {anatomy.multiplicity}")
     return anatomy

@@ -313,7 +313,18 @@ def discriminant(family, options=None, seed=None, progress=None, *, _balanced=Fa
                              "not separated by the traced curve but have different counts: the trace misses an arc "
                              "there (real discriminant points over non-real singular points are not traced); those "
                              "cells were kept apart.")
-    elif m > 2 and options.regions:
+            counts = [(r.count.solutions, r.count.branches) for r in plane_regions]
+            if len(set(counts)) < len(counts):
+                # cells join only where cells of neighbouring lines overlap: a region narrower than the line
+                # spacing (the horn next to a cusp) can come out in pieces
+                notes.append("Regions with the same count may be pieces of one region: cells are joined only where "
+                             "cells of neighbouring lines overlap, so the number of regions is an upper bound.")
+    if curve is not None:
+        # a real member singular only at non-real points is singular at a conjugate pair: two conditions, so
+        # such parameter values are isolated points of the real plane, off the traced real incidence set
+        notes.append("Isolated real points of the discriminant whose singular points are not real (a member with "
+                     "a conjugate pair of double roots) are not traced; the real counts do not change there.")
+    if m > 2 and options.regions:
         notes.append("Regions are given for one or two parameters; with more, sweep a grid instead.")
     return Discriminant(family.variables, family.parameters, family.system.to_texts(), codimension, components,
                         real_points, regions, paths, notes, seed, time.perf_counter() - started, curve, plane_regions)
