@@ -264,3 +264,18 @@ def test_command_line_tables_pictures_and_saved_results(tmp_path):
     picture = tmp_path / "s.svg"
     assert main(["sweep", path, "--grid", "p=-1:1:4", "--seed", "2", "--svg", str(picture), "--json"], out=out) == 0
     assert xml.dom.minidom.parse(str(picture)).getElementsByTagName("polyline")
+
+
+def test_an_undecided_discriminant_says_why():
+    # exit 3 must come with its reason, in the text and in the JSON: failed paths are named by kind
+    from numag.app.commands.discriminant import _warnings
+    result = discriminant(numag_family("x^3 - 3*x + b"), DiscriminantOptions(regions=False), seed=1)
+    assert _warnings(result) == []
+    result.paths["endgame_unsettled"] = 3
+    (warning,) = _warnings(result)
+    assert "3 paths" in warning and "3 endgame_unsettled" in warning
+
+
+def numag_family(equation):
+    from numag.system.files import family_from_mapping
+    return family_from_mapping({"variables": ["x"], "parameters": ["b"], "equations": [equation]})

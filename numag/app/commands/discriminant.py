@@ -118,6 +118,8 @@ def _print_curve(result, out):
             failed = f"  ({counted(region.count.failed, 'path')} failed)" if region.count.failed else ""
             out.write(f"  {k:3d}  sample {first}={region.sample[0]:.6g}, {second}={region.sample[1]:.6g}: "
                       f"{_count_text(region.count)}; {counted(len(region.cells), 'cell')}{failed}\n")
+    for warning in _warnings(result):
+        out.write(f"warning: {warning}\n")
 
 
 def run(args, out):
@@ -135,7 +137,24 @@ def run(args, out):
     if args.svg:
         write_file(args.svg, (discriminant_svg(result) if "discriminant" in __name__ else sweep_svg(result)).encode())
     if args.json:
-        out.write(dumps(result.to_dict()) + "\n")
+        data = result.to_dict()
+        data["warnings"] = _warnings(result)
+        out.write(dumps(data) + "\n")
     else:
         _print(result, out)
     return EXIT_UNDECIDED if _failed(result) else EXIT_OK
+
+
+def _warnings(result):
+    """Why the exit code says undecided: the failed paths by kind, the failed region counts and arc ends."""
+    kinds = [f"{result.paths[label]} {label}" for label in FAILURE_LABELS if result.paths.get(label, 0)]
+    warnings = [f"{counted(sum(result.paths.get(label, 0) for label in FAILURE_LABELS), 'path')} of the "
+                f"incidence systems failed ({', '.join(kinds)}): components of the discriminant may be missing"] \
+        if kinds else []
+    region_failures = sum(r.count.failed for r in result.regions)
+    if region_failures:
+        warnings.append(f"{counted(region_failures, 'path')} of the regions' sample members failed: their counts "
+                        "may be low")
+    if result.curve is not None and result.curve.failed_arcs:
+        warnings.append(f"{counted(result.curve.failed_arcs, 'arc end')} of the traced curve failed")
+    return warnings
