@@ -235,8 +235,9 @@ class Branch:
         Points of the branch on a nearby generic slice (the orbit's size).
     tangent : ndarray of complex
         Unit tangent direction, in the user's units (real up to a common phase for a real branch).
-    real : bool
-        The branch is its own complex conjugate (it carries real configurations).
+    real : bool or None
+        The branch is its own complex conjugate (it carries real configurations); None where its reality
+        was not decided (a complex slice, or a point that is not real).
     angle_rates : dict
         For files with an ``angles`` table and real branches: label -> rate of that angle along the
         branch, in degrees per degree of the fastest one.
@@ -244,7 +245,7 @@ class Branch:
 
     multiplicity: int
     tangent: np.ndarray
-    real: bool
+    real: object
     angle_rates: dict = field(default_factory=dict)
 
     def to_dict(self):
@@ -253,7 +254,7 @@ class Branch:
 
     @classmethod
     def from_dict(cls, data):
-        return cls(int(data["multiplicity"]), decode_vector(data["tangent"]), bool(data["real"]),
+        return cls(int(data["multiplicity"]), decode_vector(data["tangent"]), None if data["real"] is None else bool(data["real"]),
                    {k: float(v) for k, v in data["angle_rates"].items()})
 
 
@@ -291,8 +292,10 @@ class PointAnatomy:
 
     @property
     def real_branches(self):
-        """Number of real branches (None when the branches were not computed)."""
-        return None if self.branches is None else sum(1 for b in self.branches if b.real)
+        """Number of real branches (None when the branches, or their reality, were not decided)."""
+        if self.branches is None or any(b.real is None for b in self.branches):
+            return None
+        return sum(1 for b in self.branches if b.real)
 
     @property
     def transversal(self):

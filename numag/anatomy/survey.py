@@ -147,7 +147,8 @@ def _picture_anatomy(picture, scaling, computed_point, user_point, local_dimensi
         for k, orbit in enumerate(picture.orbits):
             tangent = orbit_tangent(picture, orbit, computed_point)
             tangent = _to_user_direction(scaling, tangent if frame is None else frame.to_ambient(tangent))
-            is_real = bool(picture.real_orbits[k]) if picture.real_orbits is not None else False
+            # at a point that is not real no branch is real; at a real one without a real slice it is undecided
+            is_real = bool(picture.real_orbits[k]) if picture.real_orbits is not None else (None if real else False)
             rates = _angle_rates(anatomy.point, tangent, angles) if (angles and is_real) else {}
             branches.append(Branch(len(orbit), tangent, is_real, rates))
         anatomy.branches = branches
@@ -326,8 +327,15 @@ def _slice_anatomy(polynomial, computed, user_point, dimension, rng, options):
     anatomy = _hypersurface_point(restricted, origin, np.asarray(user_point, dtype=complex), identity, rng, False,
                                   None, options)
     anatomy.local_dimension = restricted.n_variables - 1
-    anatomy.motion = None
+    _complex_slice(anatomy)
     return anatomy
+
+
+def _complex_slice(anatomy):
+    """A transversal anatomy read on a complex slice: no motion, and the branches' reality undecided."""
+    anatomy.motion = None
+    for branch in anatomy.branches or []:
+        branch.real, branch.angle_rates = None, {}
 
 
 def _hessian_jump_system(polynomial, rank):
@@ -476,7 +484,7 @@ def _system_component_anatomy(system, component, seed, options):
     sliced_system = PolynomialSystem(names, restricted)
     transversal = point_anatomy(sliced_system, origin, seed=seed, options=options)
     transversal.point = generic
-    transversal.motion = None  # the slice is complex: no real motion to tell
+    _complex_slice(transversal)  # the slice is complex: no real motion to tell
     notes = ["several equations: the transversal type is the anatomy of the normal slice (multiplicity, "
              "branches); special points along the component are not searched"]
     return ComponentAnatomy(component.id, k, transversal, [], notes, special_points_searched=False)

@@ -47,9 +47,10 @@ def write_point_anatomy(anatomy, names, out, indent="        "):
         out.write(f"{indent}  decided by: {h.decided_by.value} (scaled Hessian singular values [{values}], zero "
                   f"below {h.hessian.tolerance:.1g})\n")
     if anatomy.branches is not None:
-        out.write(f"{indent}{counted(len(anatomy.branches), 'branch', 'branches')}, {anatomy.real_branches} real\n")
+        reality = "reality not decided" if anatomy.real_branches is None else f"{anatomy.real_branches} real"
+        out.write(f"{indent}{counted(len(anatomy.branches), 'branch', 'branches')}, {reality}\n")
         for k, branch in enumerate(anatomy.branches, 1):
-            kind = "real" if branch.real else "complex"
+            kind = "reality not decided" if branch.real is None else ("real" if branch.real else "complex")
             where = _rates(branch.angle_rates) if branch.angle_rates else "tangent " + _direction(names, branch.tangent)
             out.write(f"{indent}  branch {k}: {kind}, multiplicity {branch.multiplicity}, {where}\n")
     if anatomy.sentence:
