@@ -270,6 +270,10 @@ def test_whitney_umbrella_pinch_point(seed):
     line = [c for c in locus.components if c.dimension == 1][0]
     anatomy = component_anatomy(umbrella, line, seed=seed)
     assert anatomy.transversal.hypersurface.type.label == "A1" and anatomy.transversal.multiplicity == 2
+    # the normal slice is complex: its branches' reality is not decided (not "0 real"), no motion is told
+    transversal = anatomy.transversal
+    assert transversal.real_branches is None and transversal.motion is None
+    assert all(b.real is None for b in transversal.branches or [])
     assert len(anatomy.special_points) == 1
     pinch = anatomy.special_points[0]
     assert np.max(np.abs(pinch.point)) < 1e-8
