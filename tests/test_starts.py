@@ -16,7 +16,7 @@ from numag.singular.isolated import isolated_singular_points
 from numag.system.parse import parse_system
 from numag.tracking.homotopy import StraightLineHomotopy
 from numag.tracking.multihomogeneous import VariableGroups, best_groups, multihomogeneous_bezout
-from numag.tracking.polyhedral import (CellHomotopy, PolyhedralStart, ZeroCoordinates, binomial_solutions,
+from numag.tracking.polyhedral import (PolyhedralHomotopy, PolyhedralStart, ZeroCoordinates, binomial_solutions,
                                        mixed_volume, smith_normal_form, supports_of, track_cells)
 from numag.tracking.service import track
 from numag.tracking.solve import SolveOptions, solve_system
@@ -317,17 +317,18 @@ def test_precise_start_evaluation_agrees_with_double(kind):
     import mpmath
     system = parse_system(["x*u + y*v - 1", "x*v - y + 2*u", "x + y - 1 + x*y", "u - v + 3"], ["x", "y", "u", "v"])
     rng = np.random.default_rng(8)
-    if kind == "polyhedral":  # the cell with the most distinct powers of t
+    point = rng.standard_normal(5) + 1j * rng.standard_normal(5)
+    if kind == "polyhedral":  # a point of the cell with the most distinct powers of t (its label appended)
         start = PolyhedralStart.random(system.polynomials, rng)
-        patch = rng.standard_normal(5) + 1j * rng.standard_normal(5)
-        homotopy = max((CellHomotopy(start, cell, patch) for cell in start.cells),
-                       key=lambda h: len(np.unique(h.powers)))
-        assert len(np.unique(homotopy.powers)) > 2
+        homotopy = PolyhedralHomotopy(start, rng.standard_normal(5) + 1j * rng.standard_normal(5))
+        cell = max(range(len(start.cells)), key=lambda c: len(np.unique(homotopy.powers[c])))
+        assert len(np.unique(homotopy.powers[cell])) > 2
+        point = np.append(point, homotopy.start_solutions([homotopy.ends[cell] - 1])[0, -1])
+        assert homotopy.cell_of(point[None, :])[0] == cell
     else:
         homotopy = (StraightLineHomotopy.total_degree(system, rng) if kind == "total-degree" else
                     StraightLineHomotopy.multihomogeneous(system, VariableGroups.of(system, [["x", "y"], ["u", "v"]]),
                                                           rng))
-    point = rng.standard_normal(5) + 1j * rng.standard_normal(5)
     s = 0.37
     values, jacobian, derivative = homotopy.evaluate(point[None, :], np.array([s]))
     with mpmath.workdps(30):

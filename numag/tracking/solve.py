@@ -316,9 +316,15 @@ def solve_system(system, options=None, seed=None, progress=None, execution=None)
         # (both stages count against the work limit: every path is tracked twice)
         charge_paths(choice.n_paths, "the polyhedral homotopy's first stage (the mixed volume)")
         stage_one_started = time.perf_counter()
+        if progress is not None:
+            progress(f"the polyhedral first stage: {counted(len(choice.polyhedral.cells), 'mixed cell')}, "
+                     f"{counted(choice.n_paths, 'path')} to the random system")
         points, stage_one = track_cells(choice.polyhedral, rng, options.tracker, options.batch_size,
                                         executor=_executor_of(execution or Execution(),
-                                                              -(-choice.n_paths // options.batch_size)))
+                                                              -(-choice.n_paths // options.batch_size)),
+                                        progress=progress)
+        if progress is not None:
+            progress("the polyhedral second stage: from the random system to the system's own coefficients")
         stage_one_seconds = time.perf_counter() - stage_one_started
         random_system = PolynomialSystem(target.variables, choice.polyhedral.random_polynomials())
 
