@@ -616,12 +616,28 @@ class PolyhedralHomotopy(_PatchedHomotopy):
             return points[:, 1:-1] / points[:, :1]
 
     def _weights(self, points, s):
-        """t^e and d(t^e)/dt per row and term, t = 1 - Re s (the powers of each row's cell)."""
-        t = np.clip(1 - np.real(np.asarray(s)), 0.0, 1.0)[:, None]
+        """t^e and d(t^e)/dt per row and term, t = 1 - s (the powers of each row's cell).
+
+        On the real segment t is real in [0, 1]. Off it (the endgame's loops around s = 0) t^e is
+        the principal branch exp(e log t), holomorphic in the disc |s| < 1 that the loops stay in:
+        the Cauchy endgame integrates a holomorphic homotopy, not the one of t = 1 - Re s.
+        """
+        s = np.asarray(s)
         powers = self.powers[self.cell_of(points)]
+        if np.all(np.imag(s) == 0):
+            t = np.clip(1 - np.real(s), 0.0, 1.0)[:, None]
+        else:
+            t = (1 - s.astype(complex))[:, None]
         with np.errstate(divide="ignore", invalid="ignore"):
             weight = t ** powers
-            slope = np.where(powers > 0, powers * t ** (powers - 1), 0.0)
+            slope = powers * t ** (powers - 1)
+        # t = 0 (the start): t^0 = 1, and the slope of t^e is 1 for e = 1 (the smallest positive
+        # power), 0 for e > 1 and for the pair's e = 0
+        zero = t[:, 0] == 0
+        if np.any(zero):
+            weight[zero] = powers[zero] == 0
+            slope[zero] = powers[zero] == 1
+        slope = np.where(powers > 0, slope, 0.0)
         return weight, slope
 
     def evaluate(self, points, s):
@@ -653,21 +669,24 @@ class PolyhedralHomotopy(_PatchedHomotopy):
     def evaluate_precise(self, point, s, ctx):
         """H, dH/dX and dH/ds at one point in an mpmath context (the precision rescue's evaluation).
 
-        The same sums as :meth:`evaluate`, term by term: H_i = sum_a t^e_a T_a(X), t = 1 - Re s; the
+        The same sums as :meth:`evaluate`, term by term: H_i = sum_a t^e_a T_a(X), t = 1 - s; the
         label is read in double (it only names the cell).
         """
         size, n = self.size, self.n
         cell = int(np.clip(round(float(ctx.re(point[-1])) / CELL_LABEL_UNIT) - 1, 0, len(self.ends) - 1))
         term_values, term_jacobian = self._shared.precise().evaluate(list(point[:n + 1]), ctx)
-        t = 1 - ctx.re(ctx.mpc(s))
-        t = min(max(t, ctx.mpf(0)), ctx.mpf(1))
+        s = ctx.mpc(s)
+        if ctx.im(s) == 0:  # the segment: t real in [0, 1], as in :meth:`_weights`
+            t = min(max(1 - ctx.re(s), ctx.mpf(0)), ctx.mpf(1))
+        else:
+            t = 1 - s
         values, jacobian, derivative = ctx.matrix(size, 1), ctx.matrix(size, size), ctx.matrix(size, 1)
         for k, (equation, power) in enumerate(zip(self.equation_of_term.tolist(), self.powers[cell].tolist())):
             power = ctx.mpf(power)
-            weight = t ** power
+            weight = t ** power if power > 0 else ctx.mpf(1)
             values[equation] += weight * term_values[k]
             if power > 0:  # d/ds = -d/dt
-                derivative[equation] -= power * t ** (power - 1) * term_values[k]
+                derivative[equation] -= power * (t ** (power - 1) if power != 1 else 1) * term_values[k]
             for j in range(n + 1):
                 jacobian[equation, j] += weight * term_jacobian[k, j]
         jacobian[n, n + 1] = 1  # the label row: value 0, the label never moves
