@@ -430,3 +430,21 @@ def test_the_polyhedral_first_stage_reports_its_paths():
     assert len(first) == len(second) == 1 and first[0] < second[0]
     counts = [(done, total) for _, done, total in seen[first[0]:second[0]] if total is not None]
     assert counts and counts[-1] == (70, 70) and all(total == 70 for _, total in counts)
+
+
+@pytest.mark.parametrize("seed", [0, 3, 5])
+def test_badly_scaled_simple_roots_of_the_random_system_are_reached_as_regular(seed):
+    # A random system on the supports, then x -> 1000 x, z -> z / 1000: its roots stay simple (a generic
+    # system's roots in the torus are: Bernstein 1975, "The number of roots of a system of equations",
+    # from memory) but their projective condition numbers reach 1e9 and more. The first stage judges an
+    # endpoint by Newton settling on it, not by its condition: every path converges, and the points are
+    # the unscaled system's roots scaled back (a diagonal change of variables, by hand).
+    system = parse_system(["x*y + y*z + z*x + x + 1", "x*y*z - 2*x + y - 3", "x^2*z + y^2 + z - 1"], ["x", "y", "z"])
+    scale = np.array([1e3, 1.0, 1e-3])
+    start = PolyhedralStart.random(system.polynomials, np.random.default_rng(seed))
+    plain, plain_counts = track_cells(start, np.random.default_rng(seed + 10))
+    start.coefficients = [c * np.prod(scale ** -s, axis=1) for c, s in zip(start.coefficients, start.supports)]
+    scaled, counts = track_cells(start, np.random.default_rng(seed + 10))
+    assert counts.converged == plain_counts.converged == start.n_paths
+    key = lambda point: (round(point[1].real, 5), round(point[1].imag, 5))
+    assert np.allclose(sorted(scaled / scale, key=key), sorted(plain, key=key), rtol=1e-7, atol=1e-9)
