@@ -593,6 +593,10 @@ def _collect(system, endpoints, status, winding, condition, options, rng):
                     options.refine_digits)
                 digits = options.refine_digits
                 point = test_point if pivot is None else np.insert(test_point, pivot, 1.0)
+                # the test saw an endgame estimate: on a positive-dimensional set such a point can pass for
+                # isolated (cyclic 8: 2 of 599 points of its curves, reported as isolated double points);
+                # the refined point is tested once more
+                isolated = IsolationTest(test_system, rng).isolated(test_point)
             # what is counted as a solution satisfies F in units of its terms as every endpoint must; an
             # estimate near infinity can pass the homogeneous test and fail this one (decision 0049)
             settled = _satisfies(test_system, test_point, options.tracker.endpoint_residual)
