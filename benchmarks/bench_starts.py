@@ -118,7 +118,11 @@ def polyhedral_setup_rows(sizes, seed):
                      "cells": block["mixed_cells"], "linear_programs": block["linear_programs"],
                      "setup_s": round(setup, 2), "first_stage_s": round(first, 2),
                      "second_stage_s": round(tracking - first, 2), "setup_share_of_tracking": round(setup / tracking, 4),
-                     "solutions": len(result.solutions), "failed": result.path_counts()["failed"]})
+                     "solutions": len(result.solutions), "failed": result.path_counts()["failed"],
+                     "first_stage_lost": block["random_system_paths"]["tracked"]
+                     - block["random_system_paths"]["converged"] - block["random_system_paths"]["singular_endpoint"],
+                     "multiple": sum(1 for s in result.solutions if s.multiplicity > 1),
+                     "not_isolated": len(result.not_isolated)})
         print(json.dumps(rows[-1]), flush=True)
     return rows
 
@@ -167,10 +171,12 @@ def main():
     if args.polyhedral_setup:
         rows = polyhedral_setup_rows(args.polyhedral_setup, args.seed)
         lines = ["| family | mixed volume | cells | linear programs | set-up s | first stage s | second stage s | "
-                 "set-up / tracking | solutions | failed |", "|---|---|---|---|---|---|---|---|---|---|"]
+                 "set-up / tracking | solutions | of them multiple | not isolated | failed | first stage lost |",
+                 "|---|---|---|---|---|---|---|---|---|---|---|---|---|"]
         lines += [f"| {r['family']} | {r['mixed_volume']} | {r['cells']} | {r['linear_programs']} | {r['setup_s']} | "
                   f"{r['first_stage_s']} | {r['second_stage_s']} | {100 * r['setup_share_of_tracking']:.1f} % | "
-                  f"{r['solutions']} | {r['failed']} |" for r in rows]
+                  f"{r['solutions']} | {r['multiple']} | {r['not_isolated']} | {r['failed']} | {r['first_stage_lost']} |"
+                  for r in rows]
         print("\n".join(lines))
         out = pathlib.Path(__file__).resolve().parent / "results"
         os.makedirs(out, exist_ok=True)

@@ -16,7 +16,7 @@ from numag.singular.isolated import isolated_singular_points
 from numag.system.parse import parse_system
 from numag.tracking.homotopy import StraightLineHomotopy
 from numag.tracking.multihomogeneous import VariableGroups, best_groups, multihomogeneous_bezout
-from numag.tracking.polyhedral import (CellHomotopy, PolyhedralStart, ZeroCoordinates, binomial_solutions,
+from numag.tracking.polyhedral import (PolyhedralHomotopy, PolyhedralStart, ZeroCoordinates, binomial_solutions,
                                        mixed_volume, smith_normal_form, supports_of, track_cells)
 from numag.tracking.service import track
 from numag.tracking.solve import SolveOptions, solve_system
@@ -317,17 +317,18 @@ def test_precise_start_evaluation_agrees_with_double(kind):
     import mpmath
     system = parse_system(["x*u + y*v - 1", "x*v - y + 2*u", "x + y - 1 + x*y", "u - v + 3"], ["x", "y", "u", "v"])
     rng = np.random.default_rng(8)
-    if kind == "polyhedral":  # the cell with the most distinct powers of t
+    point = rng.standard_normal(5) + 1j * rng.standard_normal(5)
+    if kind == "polyhedral":  # a point of the cell with the most distinct powers of t (its label appended)
         start = PolyhedralStart.random(system.polynomials, rng)
-        patch = rng.standard_normal(5) + 1j * rng.standard_normal(5)
-        homotopy = max((CellHomotopy(start, cell, patch) for cell in start.cells),
-                       key=lambda h: len(np.unique(h.powers)))
-        assert len(np.unique(homotopy.powers)) > 2
+        homotopy = PolyhedralHomotopy(start, rng.standard_normal(5) + 1j * rng.standard_normal(5))
+        cell = max(range(len(start.cells)), key=lambda c: len(np.unique(homotopy.powers[c])))
+        assert len(np.unique(homotopy.powers[cell])) > 2
+        point = np.append(point, homotopy.start_solutions([homotopy.ends[cell] - 1])[0, -1])
+        assert homotopy.cell_of(point[None, :])[0] == cell
     else:
         homotopy = (StraightLineHomotopy.total_degree(system, rng) if kind == "total-degree" else
                     StraightLineHomotopy.multihomogeneous(system, VariableGroups.of(system, [["x", "y"], ["u", "v"]]),
                                                           rng))
-    point = rng.standard_normal(5) + 1j * rng.standard_normal(5)
     s = 0.37
     values, jacobian, derivative = homotopy.evaluate(point[None, :], np.array([s]))
     with mpmath.workdps(30):
@@ -358,3 +359,92 @@ def test_first_stage_in_batches_on_worker_processes_reaches_the_same_points():
     values = [sum(c * np.prod(there ** a, axis=1) for a, c in zip(support, coefficients))
               for support, coefficients in zip(start.supports, start.coefficients)]
     assert np.max(np.abs(values)) < 1e-8
+
+
+@pytest.mark.parametrize("seed", [0, 1, 2])
+def test_one_batch_of_many_cells_is_each_cell_s_own_homotopy(seed):
+    # the batched polyhedral homotopy against the formula written out here, row by row: H_i = sum_a c_a
+    # t^e_ca X^a on the homogenised terms with the powers e_ca = (<a, alpha_c> + w(a) - beta_ci) / e_min
+    # of each row's own cell (Huber and Sturmfels 1995, "A polyhedral method for solving sparse polynomial
+    # systems", Math. Comp.; from memory), and dH/ds against a central difference (common practice, no source)
+    system = parse_system(["x*u + y*v - 1", "x*v - y + 2*u", "x + y - 1 + x*y", "u - v + 3"], ["x", "y", "u", "v"])
+    rng = np.random.default_rng(seed)
+    start = PolyhedralStart.random(system.polynomials, rng)
+    homotopy = PolyhedralHomotopy(start, rng.standard_normal(5) + 1j * rng.standard_normal(5))
+    paths = rng.permutation(start.n_paths)  # every cell's paths, mixed up in one batch
+    points = homotopy.start_solutions(paths)
+    points[:, :-1] += 0.3 * (rng.standard_normal((len(paths), 5)) + 1j * rng.standard_normal((len(paths), 5)))
+    s = rng.random(len(paths))
+    values, _, derivative = homotopy.evaluate(points, s)
+    cells = np.searchsorted(np.cumsum([c.volume for c in start.cells]), paths, side="right")
+    for row, cell in enumerate(cells):
+        normal = start.cells[cell].normal
+        lifted = [support @ normal + lifting for support, lifting in zip(start.supports, start.liftings)]
+        powers = [l - l[list(start.cells[cell].pairs[i])].min() for i, l in enumerate(lifted)]
+        positive = np.concatenate(powers)
+        scale = positive[positive > 1e-12].min()
+        x0, x = points[row, 0], points[row, 1:-1]
+
+        def h(t):
+            out = []
+            for support, coefficients, e in zip(start.supports, start.coefficients, powers):
+                degree = support.sum(axis=1).max()
+                out.append(sum(c * t ** max(p / scale, 0) * np.prod(x ** a) * x0 ** (degree - a.sum())
+                               for a, c, p in zip(support, coefficients, e)))
+            return np.array(out)
+
+        t = 1 - s[row]
+        assert np.allclose(values[row, :4], h(t), rtol=1e-10, atol=1e-10)
+        step = 1e-6
+        assert np.allclose(derivative[row, :4], -(h(t + step) - h(t - step)) / (2 * step), rtol=1e-5, atol=1e-6)
+    assert np.array_equal(homotopy.cell_of(points), cells)
+    assert np.all(values[:, 4] == 0)  # the label row
+
+
+@pytest.mark.parametrize("seed", [3, 4])
+def test_the_polyhedral_homotopy_is_holomorphic_on_the_endgame_loops(seed):
+    # the Cauchy endgame integrates around s = 0: there dH/ds must be the complex derivative of H (a
+    # difference quotient in a complex direction agrees with it; common practice, no source). With
+    # t = 1 - Re s it was not.
+    system = parse_system(["x^2*y + 3*x - 1", "x*y^2 - y + 2"], ["x", "y"])
+    rng = np.random.default_rng(seed)
+    start = PolyhedralStart.random(system.polynomials, rng)
+    homotopy = PolyhedralHomotopy(start, rng.standard_normal(3) + 1j * rng.standard_normal(3))
+    points = homotopy.start_solutions()
+    points[:, :-1] += 0.2 * (rng.standard_normal(points[:, :-1].shape) + 1j * rng.standard_normal(points[:, :-1].shape))
+    s = 0.1 * np.exp(2j * np.pi * rng.random(len(points)))
+    _, _, derivative = homotopy.evaluate(points, s)
+    step = 1e-6 * np.exp(1j * 0.7)
+    difference = (homotopy.evaluate_values(points, s + step) - homotopy.evaluate_values(points, s - step)) / (2 * step)
+    assert np.allclose(derivative[:, :2], difference[:, :2], rtol=1e-5, atol=1e-6)
+
+
+def test_the_polyhedral_first_stage_reports_its_paths():
+    # progress of the first stage in the one protocol: a stage sentence, then paths done of the mixed volume
+    # (cyclic 5 has mixed volume 70: Bjorck and Froberg 1991, from memory)
+    seen = []
+    solve_system(cyclic(5), SolveOptions(start="polyhedral"), seed=2,
+                 progress=lambda message, done=None, total=None: seen.append((message, done, total)))
+    first = [k for k, (message, _, _) in enumerate(seen) if message.startswith("the polyhedral first stage")]
+    second = [k for k, (message, _, _) in enumerate(seen) if message.startswith("the polyhedral second stage")]
+    assert len(first) == len(second) == 1 and first[0] < second[0]
+    counts = [(done, total) for _, done, total in seen[first[0]:second[0]] if total is not None]
+    assert counts and counts[-1] == (70, 70) and all(total == 70 for _, total in counts)
+
+
+@pytest.mark.parametrize("seed", [0, 3, 5])
+def test_badly_scaled_simple_roots_of_the_random_system_are_reached_as_regular(seed):
+    # A random system on the supports, then x -> 1000 x, z -> z / 1000: its roots stay simple (a generic
+    # system's roots in the torus are: Bernstein 1975, "The number of roots of a system of equations",
+    # from memory) but their projective condition numbers reach 1e9 and more. The first stage judges an
+    # endpoint by Newton settling on it, not by its condition: every path converges, and the points are
+    # the unscaled system's roots scaled back (a diagonal change of variables, by hand).
+    system = parse_system(["x*y + y*z + z*x + x + 1", "x*y*z - 2*x + y - 3", "x^2*z + y^2 + z - 1"], ["x", "y", "z"])
+    scale = np.array([1e3, 1.0, 1e-3])
+    start = PolyhedralStart.random(system.polynomials, np.random.default_rng(seed))
+    plain, plain_counts = track_cells(start, np.random.default_rng(seed + 10))
+    start.coefficients = [c * np.prod(scale ** -s, axis=1) for c, s in zip(start.coefficients, start.supports)]
+    scaled, counts = track_cells(start, np.random.default_rng(seed + 10))
+    assert counts.converged == plain_counts.converged == start.n_paths
+    key = lambda point: (round(point[1].real, 5), round(point[1].imag, 5))
+    assert np.allclose(sorted(scaled / scale, key=key), sorted(plain, key=key), rtol=1e-7, atol=1e-9)

@@ -415,6 +415,12 @@ def _repair_jumps(run, starts, options, batch_size, executor, projective, tolera
         run.retracked[crossed] = True
 
 
+def _coordinates(homotopy, endpoints):
+    """The columns of endpoints that are coordinates: a homotopy whose points carry a label (the cell of a
+    polyhedral path) names them with ``point_columns()``, and labels never keep two endpoints apart."""
+    return endpoints[:, homotopy.point_columns()] if hasattr(homotopy, "point_columns") else endpoints
+
+
 def _comparable(endpoints, projective):
     """Endpoints as affine points X / X_0, or normalised homogeneous ones for projective systems."""
     if projective:
@@ -428,7 +434,7 @@ def _crossed(run, projective, tolerance):
     regular = np.nonzero(run.status == PathStatus.CONVERGED)[0]
     if len(regular) < 2:
         return np.zeros(0, dtype=np.int64)
-    points = _comparable(run.endpoints[regular], projective)
+    points = _comparable(_coordinates(run.homotopy, run.endpoints[regular]), projective)
     finite = np.all(np.isfinite(points), axis=1)
     regular, points = regular[finite], points[finite]
     if len(regular) < 2:
@@ -460,7 +466,8 @@ def _broken_cycles(run):
     ends, points = ends[finite], points[finite]
     if len(ends) == 0:
         return []
-    labels = cluster_labels(normalize_projective(points), CYCLE_TOLERANCE, projective=True)
+    labels = cluster_labels(normalize_projective(_coordinates(run.homotopy, points)), CYCLE_TOLERANCE,
+                            projective=True)
     keys = [labels, run.winding[ends]]
     if hasattr(run.homotopy, "system_of"):
         keys.append(np.asarray(run.homotopy.system_of(points), dtype=np.int64))
@@ -472,7 +479,7 @@ def _same_endpoint_labels(homotopy, endpoints, projective, tolerance, points=Non
     """Labels of equal endpoints. A homotopy that tracks several systems at once (a sweep over parameter
     values) says which system each endpoint belongs to with ``system_of(endpoints)``: endpoints of
     different systems are never one point, however close."""
-    points = _comparable(endpoints, projective) if points is None else points
+    points = _comparable(_coordinates(homotopy, endpoints), projective) if points is None else points
     labels = cluster_labels(points, tolerance, projective=projective)
     if hasattr(homotopy, "system_of") and len(labels):
         systems = np.asarray(homotopy.system_of(endpoints), dtype=np.int64)

@@ -902,8 +902,7 @@ class BatchTracker:
     Parameters
     ----------
     homotopy : object
-        As for :func:`track_paths`; or a family of homotopies whose ``parts(indices)`` gives pairs
-        (homotopy, positions in ``indices``) of the paths each one tracks.
+        As for :func:`track_paths`.
     starts : callable
         ``starts(indices)`` gives the start points of those paths.
     options : TrackerOptions
@@ -922,27 +921,11 @@ class BatchTracker:
     def __call__(self, indices):
         indices = np.asarray(indices)
         starts = self.starts(indices)
-        if not hasattr(self.homotopy, "parts"):
-            result = track_paths(self.homotopy, starts, self.options, progress=self.progress)
-            return {"indices": indices, "endpoints": result.endpoints, "status": result.status,
-                    "steps": result.steps, "winding": result.winding, "condition": result.condition,
-                    "retracked": result.retracked, "digits": result.digits,
-                    "evaluations": np.asarray(result.evaluations)}
-        # a family of homotopies, one per group of paths (the polyhedral homotopy's cells): each group
-        # is tracked with its own, into the batch's arrays
-        count = len(indices)
-        batch = {"indices": indices, "endpoints": np.full((count, starts.shape[1]), np.nan, dtype=complex),
-                 "status": np.zeros(count, dtype=np.int64), "steps": np.zeros(count, dtype=np.int64),
-                 "winding": np.ones(count, dtype=np.int64), "condition": np.full(count, np.inf),
-                 "retracked": np.zeros(count, dtype=bool), "digits": np.full(count, 16, dtype=np.int64)}
-        evaluations = 0
-        for homotopy, positions in self.homotopy.parts(indices):
-            result = track_paths(homotopy, starts[positions], self.options, progress=self.progress)
-            for name in ("endpoints", "status", "steps", "winding", "condition", "retracked", "digits"):
-                batch[name][positions] = getattr(result, name)
-            evaluations += result.evaluations
-        batch["evaluations"] = np.asarray(evaluations)
-        return batch
+        result = track_paths(self.homotopy, starts, self.options, progress=self.progress)
+        return {"indices": indices, "endpoints": result.endpoints, "status": result.status,
+                "steps": result.steps, "winding": result.winding, "condition": result.condition,
+                "retracked": result.retracked, "digits": result.digits,
+                "evaluations": np.asarray(result.evaluations)}
 
 
 class StartArray:
