@@ -92,6 +92,15 @@ def test_cubic_discriminant_is_the_curve_of_degree_three(cubic_discriminant):
     assert np.allclose(rows[0, 0] + rows[0, 1] * p + rows[0, 2] * q, 0, atol=1e-9)
 
 
+def test_discriminant_path_counts_add_up(cubic_discriminant):
+    # The blocks of several homotopies are added; the total of failures is the sum of its reasons and the
+    # statuses add up to the paths tracked (the README's promise for every 'paths' block).
+    from numag.tracking.tracker import FAILURE_LABELS
+    paths = cubic_discriminant.paths
+    assert paths["failed"] == sum(paths.get(label, 0) for label in FAILURE_LABELS)
+    assert paths["converged"] + paths["singular_endpoint"] + paths["at_infinity"] + paths["failed"] == paths["tracked"]
+
+
 def test_cubic_discriminant_has_a_cusp_at_the_origin():
     # On the line p = -t the curve 4 p^3 + 27 q^2 = 0 has the two real points q = +-2 (t / 3)^(3/2), which meet
     # at the origin tangent to one line (a cusp: q ~ |p|^(3/2)); on p = 0 they are one (common practice, no source).

@@ -56,6 +56,7 @@ from ..numeric.refine import project_to_variety
 from ..numeric.scaling import Scaling
 from ..numeric.seeds import random_state
 from ..tracking.solve import solve_system
+from ..tracking.tracker import FAILURE_LABELS
 from ..witness.cascade import combine_equations, linear_form, track_moves
 from ..witness.decompose import DecomposeOptions, decompose, holding_equations
 from ..singular.locus import minors_system
@@ -326,6 +327,8 @@ def discriminant(family, options=None, seed=None, progress=None, *, _balanced=Fa
                      "a conjugate pair of double roots) are not traced; the real counts do not change there.")
     if m > 2 and options.regions:
         notes.append("Regions are given for one or two parameters; with more, sweep a grid instead.")
+    # the blocks added up come with and without a total of failures: the total is the sum of its reasons
+    paths["failed"] = sum(paths.get(label, 0) for label in FAILURE_LABELS)
     return Discriminant(family.variables, family.parameters, family.system.to_texts(), codimension, components,
                         real_points, regions, paths, notes, seed, time.perf_counter() - started, curve, plane_regions)
 
@@ -480,7 +483,7 @@ def _image_witness_points(incidence, component, total, m, p_rows, fibre, rng, op
     run = track_moves(held + [linear_form(r) for r in component.slice_rows],
                       held + [linear_form(r) for r in target_rows], component.points, rng,
                       options.decompose.witness.tracker)
-    _add_counts(paths, run.counts.by_label())
+    run.counts.add_to(paths)
     ends = run.affine_endpoints()
     ends = ends[np.all(np.isfinite(ends), axis=1)][:, total - m:]
     if len(ends) == 0:

@@ -14,8 +14,8 @@ from ...families.records import ComponentKind
 from ..picture import discriminant_svg, sweep_svg
 from ..report import CAUTION, dumps
 from ..saved import save
-from .common import (EXIT_OK, EXIT_UNDECIDED, _add_executor_options, _add_work_options, _format_complex, _progress,
-                     _seed, _stage_executor)
+from .common import (EXIT_OK, EXIT_UNDECIDED, _add_executor_options, _add_work_options, _ROUNDING, _format_complex,
+                     _progress, _seed, _stage_executor)
 
 
 def add_parser(commands):
@@ -58,10 +58,23 @@ def _count_text(count):
     return "not counted (members of dimension 2 or more)"
 
 
-def _interval(low, high):
-    left = "-inf" if math.isinf(low) else _format_complex(complex(low))
-    right = "inf" if math.isinf(high) else _format_complex(complex(high))
+def _interval(low, high, floor=None):
+    left = "-inf" if math.isinf(low) else _format_complex(complex(low), floor)
+    right = "inf" if math.isinf(high) else _format_complex(complex(high), floor)
     return f"({left}, {right})"
+
+
+def _rounding_floor(result):
+    """Parts below this are printed as 0: rounding relative to the largest value of one parameter found.
+
+    With one parameter a discriminant point at 0 comes out as 1e-13 beside points near 200; printed
+    alone it would read as a value.
+    """
+    if len(result.parameters) != 1:
+        return None
+    values = [abs(complex(v)) for v in result.real_points]
+    values += [abs(complex(c.points[0, 0])) for c in result.components if c.dimension == 0 and len(c.points)]
+    return _ROUNDING * max([1.0] + values)  # as _format_complex: never below its own floor
 
 
 def _print(result, out):
@@ -69,14 +82,17 @@ def _print(result, out):
     out.write(f"numag discriminant: {counted(len(result.equations), 'equation')} in {', '.join(result.variables)}; "
               f"parameters {names}; members of codimension {result.codimension}; seed {result.seed}\n")
     out.write(f"paths: {result.paths.get('tracked', 0)} tracked, {_failed(result)} failed; {result.seconds:.2f} s\n")
+    floor = _rounding_floor(result)
     finite = [c for c in result.components if c.kind == ComponentKind.FINITE]
-    out.write(f"\n{counted(len(finite), 'component')} of the discriminant (members singular at a finite point)\n")
+    others = len(result.components) - len(finite)
+    out.write(f"\n{counted(len(result.components), 'component')} of the discriminant ({len(finite)} with members "
+              f"singular at a finite point{f', {others} of another kind' if others else ''})\n")
     for k, c in enumerate(result.components, 1):
-        sample = ", ".join(f"{p}={_format_complex(complex(z))}" for p, z in zip(result.parameters, c.points[0]))
+        sample = ", ".join(f"{p}={_format_complex(complex(z), floor)}" for p, z in zip(result.parameters, c.points[0]))
         out.write(f"  {k:3d}  {c.kind.value:13s} dimension {c.dimension}  degree {c.degree}  "
                   f"{counted(int(sum(c.real)), 'real sample')}  e.g. {sample}\n")
     if len(result.parameters) == 1:
-        points = ", ".join(_format_complex(complex(v)) for v in result.real_points) or "none"
+        points = ", ".join(_format_complex(complex(v), floor) for v in result.real_points) or "none"
         out.write(f"\nreal discriminant points ({names}): {points}\n")
         infinite = [c.points[0, 0] for c in result.components if c.kind == ComponentKind.AT_INFINITY
                     and c.dimension == 0 and c.real[0]]
@@ -86,7 +102,7 @@ def _print(result, out):
     if result.regions:
         out.write("\nregions (one sample member solved in each)\n")
         for region in result.regions:
-            where = _interval(region.low, region.high)
+            where = _interval(region.low, region.high, floor)
             if region.line is not None:
                 where = f"{result.parameters[0]} = {region.line:.6g}, {result.parameters[1]} in {where}"
             else:
@@ -97,6 +113,8 @@ def _print(result, out):
         _print_curve(result, out)
     for note in result.notes:
         out.write(f"\nnote: {note}\n")
+    for warning in _warnings(result):
+        out.write(f"warning: {warning}\n")
     out.write(f"\n{CAUTION}\n")
 
 
@@ -118,8 +136,6 @@ def _print_curve(result, out):
             failed = f"  ({counted(region.count.failed, 'path')} failed)" if region.count.failed else ""
             out.write(f"  {k:3d}  sample {first}={region.sample[0]:.6g}, {second}={region.sample[1]:.6g}: "
                       f"{_count_text(region.count)}; {counted(len(region.cells), 'cell')}{failed}\n")
-    for warning in _warnings(result):
-        out.write(f"warning: {warning}\n")
 
 
 def run(args, out):
