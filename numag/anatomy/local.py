@@ -21,6 +21,7 @@ point that neither converges nor stays, a lost path, a slice nearly tangent to a
 by another random one.
 """
 
+import dataclasses
 from dataclasses import dataclass, field
 
 import numpy as np
@@ -44,6 +45,11 @@ _STAYING_RATIO = 0.9
 #: |a . t| of the slice's unit normal and a branch's unit tangent below this: a nearly tangent slice
 #: (its far intersections come close to the point); another slice is drawn.
 _TRANSVERSAL = 0.25
+#: What is unknown about the equation (rounding, the point's distance to the singular point) may move a local
+#: point by at most this fraction of its distances to the point and to the slice's other points: else the
+#: picture may be that of another curve, and a wider slice is tried (decision 0056). The reading tolerates
+#: far more (shrink within a factor 1.5, matching within a quarter of a separation).
+_RESOLVED = 1e-2
 
 
 @dataclass
@@ -59,7 +65,10 @@ class LocalOptions:
     loop_steps : int
         Chords of the monodromy loop.
     attempts : int
-        Random slices tried until one gives a clear picture.
+        Random slices tried at each radius until one gives a clear picture.
+    widen : tuple of float
+        Radii tried in turn, as multiples of ``radius``, when the local points lie where the equation's
+        terms are not above what is unknown about them (only with a measure of that, ``unresolved``).
     tracker : TrackerOptions
         Tight corrector: local points of tangent branches are close together; ill-conditioned endpoints
         (two local points of a cusp 1e-8 apart) are kept as regular ones, the shrink and loop checks
@@ -72,6 +81,7 @@ class LocalOptions:
     shrink: float = 1e-1
     loop_steps: int = 24
     attempts: int = 6
+    widen: tuple = (1.0, 3.0, 10.0, 30.0)
     tracker: TrackerOptions = field(default_factory=lambda: TrackerOptions(corrector_tolerance=1e-9, rescue_digits=0,
                                                                            singular_condition=1e13,
                                                                            endgame_radius=1e-9))
@@ -198,7 +208,8 @@ def hypersurface_witness(polynomial, rng):
     return points, _slice_rows(complement, base, np.zeros(n - 1, dtype=complex))
 
 
-def local_picture(polynomials, codimension, point, witness_points, witness_rows, rng, real=False, options=None):
+def local_picture(polynomials, codimension, point, witness_points, witness_rows, rng, real=False, options=None,
+                  unresolved=None):
     """The local witness set of X at ``point`` and, for curves, the branches as monodromy orbits.
 
     Parameters
@@ -215,6 +226,10 @@ def local_picture(polynomials, codimension, point, witness_points, witness_rows,
     real : bool
         The point and the equations are real: use a real slice, and tell real branches.
     options : LocalOptions, optional
+    unresolved : callable, optional
+        ``unresolved(points)`` -> what is unknown about the equation at each point relative to the size of its
+        terms there (:meth:`numag.anatomy.frame.LocalFrame.unresolved`). A slice whose local points are not
+        resolved is no evidence; the radius is widened (``options.widen``) instead.
 
     Returns
     -------
@@ -238,21 +253,48 @@ def local_picture(polynomials, codimension, point, witness_points, witness_rows,
     # points of a cusp inwards loses them once they are about 1e-5 apart)
     direct = _sliced_directly(polynomials[0]) if len(polynomials) == 1 and codimension == 1 else None
     tried = []
-    for _ in range(options.attempts):
-        picture, problem = _attempt(held, codimension, point, witness_points, witness_rows, rng, real, options,
-                                    direct)
-        if not problem:
-            return picture
-        tried.append(problem)
+    widen = options.widen if unresolved is not None else options.widen[:1]
+    for factor in widen:
+        at_radius = dataclasses.replace(options, radius=options.radius * factor)
+        for _ in range(options.attempts):
+            picture, problem = _attempt(held, codimension, point, witness_points, witness_rows, rng, real,
+                                        at_radius, direct, unresolved)
+            if not problem:
+                return picture
+            tried.append(problem)
+            if problem == _UNRESOLVED:  # a property of the radius more than of the slice: widen it
+                break
     # an unclear picture is not a count: the last slice's number of converging points is no evidence (a far
     # point that came close counts as local), so the multiplicity and the branches stay undecided
     picture.multiplicity, picture.orbits, picture.real_orbits = None, None, None
-    picture.notes.append(f"no clear local picture after {options.attempts} random slices ({'; '.join(tried)}): "
-                         "the multiplicity and the branches are not counted")
+    picture.notes.append(f"no clear local picture after {counted(len(tried), 'random slice')} "
+                         f"({'; '.join(_summarised(tried))}): the multiplicity and the branches are not counted")
     return picture
 
 
-def _attempt(held, codimension, point, witness_points, witness_rows, rng, real, options, direct=None):
+#: The problem of a slice whose local points lie where the equation is not known well enough.
+_UNRESOLVED = "the equation's terms at the local points were not above what is unknown about them"
+
+
+def _resolved(unresolved, points, local, point):
+    """What is unknown about the equation moves each local point by at most ``_RESOLVED`` times the distances
+    the picture is read from: to the point, and to the nearest other point of the slice."""
+    gaps = np.linalg.norm(points[local][:, None, :] - points[None, :, :], axis=2)
+    gaps[np.arange(len(local)), local] = np.inf
+    apart = np.minimum(gaps.min(axis=1), np.linalg.norm(points[local] - point, axis=1))
+    return bool(np.all(unresolved(points[local] - point, apart) <= _RESOLVED))
+
+
+def _summarised(problems):
+    """Distinct problems with their counts, in the order first met."""
+    counts = {}
+    for problem in problems:
+        counts[problem] = counts.get(problem, 0) + 1
+    return [problem if count == 1 else f"{problem} (x{count})" for problem, count in counts.items()]
+
+
+def _attempt(held, codimension, point, witness_points, witness_rows, rng, real, options, direct=None,
+             unresolved=None):
     """One random slice: the picture, and what makes it unclear ("" when it is clear)."""
     n = len(point)
     d = n - codimension
@@ -293,6 +335,11 @@ def _attempt(held, codimension, point, witness_points, witness_rows, rng, real, 
     picture = LocalPicture(len(local), on1[local], on2[local], lost=lost, shrink=options.shrink)
     if lost:
         return picture, f"{counted(lost, 'path')} failed or went to infinity"
+    # the picture is that of the equation as computed; it is f's only where what is unknown about the terms
+    # (rounding, a point off the singular point) is small beside them, at the local points of both slices
+    if unresolved is not None and len(local) and not (_resolved(unresolved, on1, local, point) and
+                                                      _resolved(unresolved, on2, local, point)):
+        return picture, _UNRESOLVED
     unclear = np.isfinite(ratio) & (ratio >= _CONVERGING_RATIO) & (ratio < _STAYING_RATIO)
     if np.any(unclear):
         return picture, "a point neither converged nor stayed"

@@ -216,7 +216,10 @@ def _hypersurface_point(polynomial, computed, user_point, scaling, rng, real, an
     # in the frame the singularity's terms have size one: a radius of 1e-2 stays in the asymptotic regime (the
     # shrink check tests it) and keeps the points of a high branch apart (A6: 2 eps^3.5, 6e-11 at eps = 1e-3)
     in_frame = dataclasses.replace(options.local, radius=max(options.local.radius, _FRAME_RADIUS))
-    picture = local_picture([local], 1, origin, points, rows, rng, real=real, options=in_frame)
+    # with what is unknown about g at the local points (rounding, a point off the singular point) weighed
+    # against its terms there: widened slices where the smallest one cannot tell (decision 0056)
+    picture = local_picture([local], 1, origin, points, rows, rng, real=real, options=in_frame,
+                            unresolved=frame.unresolved)
     anatomy = _picture_anatomy(picture, scaling, origin, user_point, n - 1, angles, real, frame)
     anatomy.hypersurface = hypersurface
     expected = _plane_branches(anatomy.hypersurface.type) if n == 2 else None
