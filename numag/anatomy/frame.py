@@ -178,16 +178,19 @@ def _term_total(polynomial, points):
 _PICTURE_ROUNDING = 1e-15
 
 
-def _uncertainty(f, matrix, point):
-    """Term by term, how much f(p + M u) is unknown: the rounding level of each Taylor coefficient, and for
-    the terms of degree 0 and 1 (which the frame drops) at least their computed size (absolute values)."""
+def _uncertainty(f, matrix, point, kept):
+    """Term by term, how much the frame polynomial ``kept`` may differ from f(p + M u): the rounding level of
+    each Taylor coefficient, and at least what the frame dropped of it (the terms of degree 0 and 1, which
+    are not rounding when p lies off the singular point, and the terms taken for rounding). Absolute values.
+    """
     moved = f.substitute_linear(matrix, point)
     sizes = f.absolute().substitute_linear(np.abs(matrix), np.abs(point))
-    value_of = {tuple(e): abs(c) for e, c in zip(moved.exponents.tolist(), moved.numeric_coefficients())}
+    value_of = {tuple(e): c for e, c in zip(moved.exponents.tolist(), moved.numeric_coefficients())}
+    for e, c in zip(kept.exponents.tolist(), kept.numeric_coefficients()):
+        value_of[tuple(e)] = value_of.get(tuple(e), 0.0) - c
     levels = _PICTURE_ROUNDING * np.abs(sizes.numeric_coefficients())
-    low = sizes.exponents.sum(axis=1) < 2
-    levels[low] = np.maximum(levels[low], [value_of.get(tuple(e), 0.0) for e in sizes.exponents[low].tolist()])
-    return Polynomial(sizes.exponents, levels.astype(complex), f.n_variables)
+    dropped = np.abs([value_of.get(tuple(e), 0.0) for e in sizes.exponents.tolist()])
+    return Polynomial(sizes.exponents, np.maximum(levels, dropped).astype(complex), f.n_variables)
 
 
 def _ordered_directions(hessian, real):
@@ -597,7 +600,7 @@ def local_frame(polynomial, point, rank, real=False, rounding_level=_ROUNDING):
     in_units = _balanced_with(rounding, factors)
     levels = np.abs(in_units.numeric_coefficients()) / largest if largest > 0 else np.full(in_units.n_terms, np.inf)
     noise = float(np.max(levels, initial=0.0))
-    uncertainty = _uncertainty(f, matrix, point)
+    uncertainty = _uncertainty(f, matrix, point, moved.scaled(largest) if largest > 0 else moved)
     if largest > 0:
         uncertainty = uncertainty.scaled(1.0 / largest)
     return LocalFrame(point, matrix, moved, rank, float(np.linalg.cond(matrix)), noise,
