@@ -261,6 +261,7 @@ def local_picture(polynomials, codimension, point, witness_points, witness_rows,
     radii = [options.radius * factor for factor in widen if options.radius * factor < options.ceiling]
     if len(radii) < len(widen):  # the widening stops at the ceiling, and tries the ceiling itself
         radii.append(options.ceiling)
+    counted_only = None  # the first picture whose count is resolved and its branches not
     for radius in radii:
         at_radius = dataclasses.replace(options, radius=radius)
         unresolved_here = 0
@@ -270,9 +271,16 @@ def local_picture(polynomials, codimension, point, witness_points, witness_rows,
             if not problem:
                 return picture
             tried.append(problem)
-            unresolved_here += problem == _UNRESOLVED
+            if problem == _BRANCHES_UNRESOLVED and counted_only is None:
+                counted_only = picture
+            unresolved_here += problem in (_UNRESOLVED, _BRANCHES_UNRESOLVED)
             if unresolved_here == _UNRESOLVED_TRIES:  # a property of the radius more than of the slice: widen
                 break
+    if counted_only is not None:
+        counted_only.orbits, counted_only.real_orbits = None, None
+        counted_only.notes.append(f"the local points are counted, but no slice resolved them against each other "
+                                  f"({'; '.join(_summarised(tried))}): the branches are not told")
+        return counted_only
     # an unclear picture is not a count: the last slice's number of converging points is no evidence (a far
     # point that came close counts as local), so the multiplicity and the branches stay undecided
     picture.multiplicity, picture.orbits, picture.real_orbits = None, None, None
@@ -283,16 +291,22 @@ def local_picture(polynomials, codimension, point, witness_points, witness_rows,
 
 #: Slices whose local points are not resolved before the radius is widened (it depends a little on the slice).
 _UNRESOLVED_TRIES = 2
+#: The problem of a slice whose local points are resolved against their distance to the point (the count
+#: stands) but not against each other (the branches do not).
+_BRANCHES_UNRESOLVED = "the local points were not resolved against each other"
 #: The problem of a slice whose local points lie where the equation is not known well enough.
 _UNRESOLVED = "the equation's terms at the local points were not above what is unknown about them"
 
 
-def _resolved(unresolved, points, local, point):
-    """What is unknown about the equation moves each local point by at most ``_RESOLVED`` times the distances
-    the picture is read from: to the point, and to the nearest other point of the slice."""
-    gaps = np.linalg.norm(points[local][:, None, :] - points[None, :, :], axis=2)
-    gaps[np.arange(len(local)), local] = np.inf
-    apart = np.minimum(gaps.min(axis=1), np.linalg.norm(points[local] - point, axis=1))
+def _resolved(unresolved, points, local, point, apart=True):
+    """What is unknown about the equation moves each local point by at most ``_RESOLVED`` times its distance
+    to the point and, with ``apart``, to the nearest other point of the slice (what the branches are read
+    from)."""
+    apart = np.linalg.norm(points[local] - point, axis=1) if not apart else None
+    if apart is None:
+        gaps = np.linalg.norm(points[local][:, None, :] - points[None, :, :], axis=2)
+        gaps[np.arange(len(local)), local] = np.inf
+        apart = np.minimum(gaps.min(axis=1), np.linalg.norm(points[local] - point, axis=1))
     return bool(np.all(unresolved(points[local] - point, apart) <= _RESOLVED))
 
 
@@ -348,8 +362,8 @@ def _attempt(held, codimension, point, witness_points, witness_rows, rng, real, 
         return picture, f"{counted(lost, 'path')} failed or went to infinity"
     # the picture is that of the equation as computed; it is f's only where what is unknown about the terms
     # (rounding, a point off the singular point) is small beside them, at the local points of both slices
-    if unresolved is not None and len(local) and not (_resolved(unresolved, on1, local, point) and
-                                                      _resolved(unresolved, on2, local, point)):
+    if unresolved is not None and len(local) and not (_resolved(unresolved, on1, local, point, False) and
+                                                      _resolved(unresolved, on2, local, point, False)):
         return picture, _UNRESOLVED
     unclear = np.isfinite(ratio) & (ratio >= _CONVERGING_RATIO) & (ratio < _STAYING_RATIO)
     if np.any(unclear):
@@ -361,6 +375,11 @@ def _attempt(held, codimension, point, witness_points, witness_rows, rng, real, 
         return picture, "a local point did not shrink with the slice"
     if d == 1 and not len(local):
         picture.orbits, picture.real_orbits = [], ([] if real else None)
+    if d == 1 and len(local) and unresolved is not None and not (_resolved(unresolved, on1, local, point) and
+                                                                 _resolved(unresolved, on2, local, point)):
+        # the count stands (each local point is resolved against its distance to p), the branches do not (a
+        # point may move by more than its distance to the nearest other one, as A6's pair 2 eps^3.5 apart)
+        return picture, _BRANCHES_UNRESOLVED
     if d == 1 and len(local):
         problem = _orbits(picture, held, directions, point, eps1 * offsets, rng, options, real, direct, eps1)
         if problem:
