@@ -311,9 +311,9 @@ def _joined(first, second):
     orbits = None if first.orbits is None or second.orbits is None else \
         first.orbits + [[k + offset for k in o] for o in second.orbits]
     real = None if first.real_orbits is None or second.real_orbits is None else first.real_orbits + second.real_orbits
-    counted = None if first.multiplicity is None or second.multiplicity is None else \
+    multiplicity = None if first.multiplicity is None or second.multiplicity is None else \
         first.multiplicity + second.multiplicity
-    return LocalPicture(counted, np.vstack([first.local_points, second.local_points]),
+    return LocalPicture(multiplicity, np.vstack([first.local_points, second.local_points]),
                         np.vstack([first.near_points, second.near_points]), orbits, real,
                         first.lost + second.lost, first.notes + second.notes, first.shrink)
 
