@@ -39,6 +39,41 @@ CASES = [  # equation, variables, expected label (Arnold 1972; "not simple": x^4
 #: sympy's Groebner basis in tests/test_anatomy.py).
 NOT_SIMPLE_MU = {"x^4 + y^4": 9, "x^4 + y^5 + x^2*y^3": 12}
 
+#: Multiplicities of the local branches of the plane cases that are not simple (x^4 + y^4: four lines, common
+#: practice, no source; x^4 + y^5 + x^2 y^3 is left unchecked: its branches are not tabled here).
+NOT_SIMPLE_BRANCHES = {"x^4 + y^4": [1, 1, 1, 1]}
+
+
+def expected_picture(equation, names, label):
+    """Multiplicity and sorted branch multiplicities (plane curves; None for surfaces) of a case.
+
+    The multiplicity is the order of the normal form's lowest term (common practice); the branches of a simple
+    plane curve singularity from Arnold 1972's normal forms (the same table as ``survey._plane_branches``:
+    A_k [1, 1] odd k, [2] even; D_k [1, 1, 1] even, [1, 2] odd; E7 [1, 2]; E6, E8 [3]).
+    """
+    if len(names) == 3:
+        return 2, None
+    if label == "not simple":
+        return 4, NOT_SIMPLE_BRANCHES.get(equation)
+    family, index = label[0], int(label[1:])
+    if family == "A":
+        return 2, [1, 1] if index % 2 else [2]
+    if family == "D":
+        return 3, [1, 1, 1] if index % 2 == 0 else [1, 2]
+    return 3, [1, 2] if index == 7 else [3]
+
+
+def picture_verdict(anatomy, equation, names, label):
+    """"right", "undecided" (no multiplicity, or no branches of a plane curve) or "wrong" for the local picture."""
+    multiplicity, branches = expected_picture(equation, names, label)
+    if anatomy.multiplicity is None or (len(names) == 2 and anatomy.branches is None):
+        return "undecided"
+    if anatomy.multiplicity != multiplicity:
+        return "wrong"
+    if branches is not None and sorted(b.multiplicity for b in anatomy.branches) != branches:
+        return "wrong"
+    return "right"
+
 
 def moved(equation, names, seed):
     f = parse_system([equation], names).polynomials[0]
@@ -74,10 +109,12 @@ def main():
     parser.add_argument("--no-extras", action="store_true", help="skip the linkage and the umbrella")
     args = parser.parse_args()
     counts = {"right": 0, "undecided": 0, "wrong": 0}
+    pictures = {"right": 0, "undecided": 0, "wrong": 0}
     print(f"{'equation':28s} {'expected':10s} {'found':>10s} {'mu':>4s} {'tau':>4s} {'mult':>4s} "
-          f"{'branches':>12s} {'median s':>9s}  right")
+          f"{'branches':>12s} {'median s':>9s}  right  picture r/u/w")
     for equation, names, expected in CASES:
         found, times, row = set(), [], None
+        case_pictures = {"right": 0, "undecided": 0, "wrong": 0}
         for seed in range(args.seeds + 1):
             system, point = moved(equation, list(names), seed) if args.condition is None else \
                 gaussian(equation, list(names), seed, args.condition)
@@ -90,6 +127,7 @@ def main():
                 label = f"mu {h.milnor}"
             found.add(label)
             counts["right" if label == expected else ("undecided" if label == "undecided" else "wrong")] += 1
+            case_pictures[picture_verdict(anatomy, equation, names, expected)] += 1
             if row is None:
                 branches = "-" if anatomy.branches is None else \
                     "+".join(f"{b.multiplicity}{'r' if b.real else 'c'}" for b in anatomy.branches)
@@ -97,8 +135,14 @@ def main():
         label = ",".join(sorted(found))
         print(f"{equation:28s} {expected:10s} {label:>10s} {str(row[0]):>4s} {str(row[1]):>4s} {str(row[2]):>4s} "
               f"{row[3]:>12s} {np.median(times):9.3f}  "
-              f"{'yes' if found == {expected} else ('undecided' if found == {expected, 'undecided'} else 'WRONG')}")
+              f"{'yes' if found == {expected} else ('undecided' if found == {expected, 'undecided'} else 'WRONG'):9s}  "
+              f"{case_pictures['right']}/{case_pictures['undecided']}/{case_pictures['wrong']}"
+              f"{'  PICTURE WRONG' if case_pictures['wrong'] else ''}")
+        for key in pictures:
+            pictures[key] += case_pictures[key]
     print(f"\nplacements: {counts['right']} right, {counts['undecided']} undecided, {counts['wrong']} wrong")
+    print(f"local pictures (multiplicity and branches): {pictures['right']} right, {pictures['undecided']} "
+          f"undecided, {pictures['wrong']} wrong")
     if args.no_extras:
         return
     path = pathlib.Path(numag.__file__).parent / "examples" / "parallel_linkage.toml"

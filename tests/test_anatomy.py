@@ -99,15 +99,19 @@ def test_simple_types_after_an_ill_conditioned_change(equation, names, label, mu
     # Where double precision cannot tell (a double root of the kernel cubic split by rounding), the answer is
     # undecided and the anatomy incomplete; a type, when given, is the right one. How many are decided is
     # checked in the next test.
+    # The local picture likewise: where what is unknown about the frame polynomial (rounding magnified by the
+    # change) moves its local points by more than 1% of their distances at every radius tried, the multiplicity
+    # or the branches are left untold (decision 0056: E7, E8 and D6 at some placements); a count is the right one.
     system, point = gaussian_moved(equation, list(names), seed, condition)
     anatomy = point_anatomy(system, point, seed=seed)
     h = anatomy.hypersurface
-    assert anatomy.multiplicity == (2 if label.startswith("A") or len(names) == 3 else 3)
+    assert anatomy.multiplicity in (None, 2 if label.startswith("A") or len(names) == 3 else 3)
     if h.type.family is Family.UNDECIDED:
         assert anatomy.incomplete
     else:
         assert (h.type.label, h.milnor, h.tjurina) == (label, mu, mu)
-        assert not anatomy.incomplete
+        picture_told = anatomy.multiplicity is not None and (len(names) == 3 or anatomy.branches is not None)
+        assert anatomy.incomplete == (not picture_told)
 
 
 def test_most_types_are_decided_after_an_ill_conditioned_change():

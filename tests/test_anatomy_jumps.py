@@ -131,3 +131,38 @@ def test_transversal_type_along_a_singular_curve_of_two_equations(seed):
     assert transversal.multiplicity == 2
     assert sorted(b.multiplicity for b in transversal.branches) == [1, 1]
     assert not anatomy.special_points_searched and not anatomy.special_points
+
+
+def test_candidate_special_points_off_the_component_are_rejected_and_counted():
+    # The Whitney umbrella x^2 = y^2 z is singular exactly along the z-axis (common practice, no source: the
+    # gradient (2x, -2yz, -y^2) vanishes where x = y = 0). (1, 1, 1) lies on the surface but off the axis, and
+    # (0, 0, 5) on the axis but given as an isolated singular point of the locus: both are rejected and counted,
+    # the origin (the pinch point) is kept.
+    umbrella = parse_system(["x^2 - y^2*z"], ["x", "y", "z"])
+    locus = numag.singular_locus(umbrella, seed=2)
+    line = [c for c in locus.components if c.dimension == 1][0]
+    anatomy = component_anatomy(umbrella, line, seed=2, special_candidates=np.array([[0, 0, 0], [1, 1, 1], [0, 0, 5]]),
+                                isolated=np.array([[0, 0, 5.0]]))
+    assert anatomy.rejected_candidates == 2
+    assert [np.round(p.point.real, 8).tolist() for p in anatomy.special_points] == [[0, 0, 0]]
+    assert any("rejected" in note for note in anatomy.notes)
+    assert type(anatomy).from_dict(anatomy.to_dict()).rejected_candidates == 2
+
+
+@pytest.mark.parametrize("seed", [1, 2, 3])
+@pytest.mark.parametrize("equation, multiplicity, branches", [
+    ("y^2 - x^3", 2, [2]), ("y^2 - x^4", 2, [1, 1]), ("x^3 + x*y^3", 3, [1, 2])])
+def test_a_point_off_the_singular_point_gives_no_wrong_local_picture(equation, multiplicity, branches, seed):
+    # Arnold 1972 (see tests/test_anatomy.py::PLANE_FORMS): the cusp has one branch of multiplicity 2, the
+    # tacnode two smooth ones, E7 = x (x^2 + y^3) a line and a cusp. A computed singular point is off by
+    # rounding and more (a root of multiplicity mu of the gradient is known to about eps^(1/mu)); here 1e-10
+    # relative per coordinate. The frame polynomial then differs from f by its dropped linear terms: before
+    # decision 0056 the picture was read on it and came out wrong (the cusp as two branches, E7 as three). Now a
+    # multiplicity and branches, when given, are the right ones.
+    from test_anatomy import moved
+    system, point = moved(equation, ["x", "y"], seed)
+    off = point + 1e-10 * np.abs(point) * np.random.default_rng(seed + 77).standard_normal(2)
+    anatomy = point_anatomy(system, off, seed=seed)
+    assert anatomy.multiplicity in (None, multiplicity)
+    if anatomy.multiplicity is not None:
+        assert sorted(b.multiplicity for b in anatomy.branches) == branches

@@ -74,6 +74,33 @@ class LocalFrame:
     noise: float
     rounding_degrees: np.ndarray = None
     rounding_levels: np.ndarray = None
+    uncertainty: Polynomial = None
+
+    def unresolved(self, points, apart=None):
+        """How far what is unknown about g may move its zeros at points u, against how far apart they are
+        (vectorised).
+
+        ``uncertainty`` bounds, term by term, what g may differ from f(p + M u) (in the frame's units, relative
+        to g's largest coefficient): the rounding of every Taylor coefficient and, for the dropped terms of
+        degree 0 and 1, their computed values, which are not rounding when p lies off the singular point. A
+        zero of g at u moves by about uncertainty(|u|) / |grad g(u)| under such a change. The ratio is that
+        move over ``apart`` (the distance to the nearest other zero, say), or over |u| when ``apart`` is not
+        given; no absolute length enters.
+
+        Examples
+        --------
+        >>> g = Polynomial(np.array([[2, 0], [0, 2]]), np.array([1.0, -1.0]), 2)
+        >>> noise = Polynomial(np.array([[0, 0]]), np.array([1e-12]), 2)
+        >>> frame = LocalFrame(np.zeros(2), np.eye(2), g, 2, 1.0, 0.0, uncertainty=noise)
+        >>> [f"{r:.1e}" for r in frame.unresolved(np.array([[1e-2, 1e-2], [1e-5, 1e-5]]))]
+        ['2.5e-09', '2.5e-03']
+        """
+        points = np.asarray(points, dtype=complex)
+        apart = np.linalg.norm(points, axis=1) if apart is None else np.asarray(apart, dtype=float)
+        slope = np.sqrt(sum(np.abs(_values(q, points)) ** 2 for q in self.polynomial.gradient()))
+        with np.errstate(divide="ignore", invalid="ignore"):
+            ratio = _term_total(self.uncertainty, points) / (slope * apart)
+        return np.where(np.isnan(ratio), np.inf, ratio)
 
     def noise_up_to(self, degree):
         """The largest rounding level (relative, frame units) of a Taylor coefficient of degree <= ``degree``.
@@ -127,6 +154,43 @@ def _moved(f, matrix, point, level=_ROUNDING):
     if not np.any(keep):
         return Polynomial.zero(f.n_variables), rounding
     return Polynomial(moved.exponents[keep], coefficients[keep], f.n_variables), rounding
+
+
+def _values(polynomial, points):
+    """A polynomial's values at each row of ``points`` (vectorised)."""
+    polynomial = polynomial.numeric()
+    if polynomial.n_terms == 0:
+        return np.zeros(len(points), dtype=complex)
+    return np.prod(points[:, None, :] ** polynomial.exponents[None, :, :], axis=2) @ polynomial.numeric_coefficients()
+
+
+def _term_total(polynomial, points):
+    """The sum of the moduli of a polynomial's terms at each point (rows of ``points``), vectorised."""
+    if polynomial is None or polynomial.n_terms == 0:
+        return np.zeros(len(points))
+    powers = np.prod(np.abs(np.asarray(points))[:, None, :] ** polynomial.exponents[None, :, :], axis=2)
+    return powers @ np.abs(polynomial.numeric_coefficients())
+
+
+#: The rounding of a Taylor coefficient against its term size, as the local picture weighs it: a few units of
+#: rounding (the frame's dropping rule, ``_ROUNDING``, is deliberately wider: there a kept rounding term is
+#: read as genuine, here a term's size only limits how small a slice can be).
+_PICTURE_ROUNDING = 1e-15
+
+
+def _uncertainty(f, matrix, point, kept):
+    """Term by term, how much the frame polynomial ``kept`` may differ from f(p + M u): the rounding level of
+    each Taylor coefficient, and at least what the frame dropped of it (the terms of degree 0 and 1, which
+    are not rounding when p lies off the singular point, and the terms taken for rounding). Absolute values.
+    """
+    moved = f.substitute_linear(matrix, point)
+    sizes = f.absolute().substitute_linear(np.abs(matrix), np.abs(point))
+    value_of = {tuple(e): c for e, c in zip(moved.exponents.tolist(), moved.numeric_coefficients())}
+    for e, c in zip(kept.exponents.tolist(), kept.numeric_coefficients()):
+        value_of[tuple(e)] = value_of.get(tuple(e), 0.0) - c
+    levels = _PICTURE_ROUNDING * np.abs(sizes.numeric_coefficients())
+    dropped = np.abs([value_of.get(tuple(e), 0.0) for e in sizes.exponents.tolist()])
+    return Polynomial(sizes.exponents, np.maximum(levels, dropped).astype(complex), f.n_variables)
 
 
 def _ordered_directions(hessian, real):
@@ -536,5 +600,8 @@ def local_frame(polynomial, point, rank, real=False, rounding_level=_ROUNDING):
     in_units = _balanced_with(rounding, factors)
     levels = np.abs(in_units.numeric_coefficients()) / largest if largest > 0 else np.full(in_units.n_terms, np.inf)
     noise = float(np.max(levels, initial=0.0))
+    uncertainty = _uncertainty(f, matrix, point, moved.scaled(largest) if largest > 0 else moved)
+    if largest > 0:
+        uncertainty = uncertainty.scaled(1.0 / largest)
     return LocalFrame(point, matrix, moved, rank, float(np.linalg.cond(matrix)), noise,
-                      in_units.exponents.sum(axis=1), levels)
+                      in_units.exponents.sum(axis=1), levels, uncertainty)

@@ -21,6 +21,7 @@ point that neither converges nor stays, a lost path, a slice nearly tangent to a
 by another random one.
 """
 
+import dataclasses
 from dataclasses import dataclass, field
 
 import numpy as np
@@ -35,7 +36,7 @@ from ..tracking.tracker import TrackerOptions
 from ..witness.cascade import combine_equations, linear_form
 from ..witness.decompose import holding_equations
 
-__all__ = ["LocalOptions", "LocalPicture", "local_picture", "hypersurface_witness", "orbit_tangent"]
+__all__ = ["LocalOptions", "LocalPicture", "local_picture", "hypersurface_witness", "orbit_tangent", "order_radius"]
 
 #: A local point moves towards p by about eps2/eps1 (0.1), the others by a factor near 1. A ratio
 #: between these two means a slice too close to special: another slice is drawn.
@@ -44,6 +45,11 @@ _STAYING_RATIO = 0.9
 #: |a . t| of the slice's unit normal and a branch's unit tangent below this: a nearly tangent slice
 #: (its far intersections come close to the point); another slice is drawn.
 _TRANSVERSAL = 0.25
+#: What is unknown about the equation (rounding, the point's distance to the singular point) may move a local
+#: point by at most this fraction of its distances to the point and to the slice's other points: else the
+#: picture may be that of another curve, and a wider slice is tried (decision 0056). The reading tolerates
+#: far more (shrink within a factor 1.5, matching within a quarter of a separation).
+_RESOLVED = 1e-2
 
 
 @dataclass
@@ -59,7 +65,13 @@ class LocalOptions:
     loop_steps : int
         Chords of the monodromy loop.
     attempts : int
-        Random slices tried until one gives a clear picture.
+        Random slices tried at each radius until one gives a clear picture.
+    widen : tuple of float
+        Radii tried in turn, as multiples of ``radius``, when the local points lie where the equation's
+        terms are not above what is unknown about them (only with a measure of that, ``unresolved``).
+    ceiling : float
+        No radius beyond this: where the equation's higher terms overtake its lowest one (see
+        :func:`order_radius`), farther points are not local yet.
     tracker : TrackerOptions
         Tight corrector: local points of tangent branches are close together; ill-conditioned endpoints
         (two local points of a cusp 1e-8 apart) are kept as regular ones, the shrink and loop checks
@@ -72,6 +84,8 @@ class LocalOptions:
     shrink: float = 1e-1
     loop_steps: int = 24
     attempts: int = 6
+    widen: tuple = (1.0, 3.0, 10.0, 30.0)
+    ceiling: float = np.inf
     tracker: TrackerOptions = field(default_factory=lambda: TrackerOptions(corrector_tolerance=1e-9, rescue_digits=0,
                                                                            singular_condition=1e13,
                                                                            endgame_radius=1e-9))
@@ -198,7 +212,8 @@ def hypersurface_witness(polynomial, rng):
     return points, _slice_rows(complement, base, np.zeros(n - 1, dtype=complex))
 
 
-def local_picture(polynomials, codimension, point, witness_points, witness_rows, rng, real=False, options=None):
+def local_picture(polynomials, codimension, point, witness_points, witness_rows, rng, real=False, options=None,
+                  unresolved=None):
     """The local witness set of X at ``point`` and, for curves, the branches as monodromy orbits.
 
     Parameters
@@ -215,6 +230,10 @@ def local_picture(polynomials, codimension, point, witness_points, witness_rows,
     real : bool
         The point and the equations are real: use a real slice, and tell real branches.
     options : LocalOptions, optional
+    unresolved : callable, optional
+        ``unresolved(points)`` -> what is unknown about the equation at each point relative to the size of its
+        terms there (:meth:`numag.anatomy.frame.LocalFrame.unresolved`). A slice whose local points are not
+        resolved is no evidence; the radius is widened (``options.widen``) instead.
 
     Returns
     -------
@@ -238,21 +257,69 @@ def local_picture(polynomials, codimension, point, witness_points, witness_rows,
     # points of a cusp inwards loses them once they are about 1e-5 apart)
     direct = _sliced_directly(polynomials[0]) if len(polynomials) == 1 and codimension == 1 else None
     tried = []
-    for _ in range(options.attempts):
-        picture, problem = _attempt(held, codimension, point, witness_points, witness_rows, rng, real, options,
-                                    direct)
-        if not problem:
-            return picture
-        tried.append(problem)
+    widen = options.widen if unresolved is not None else options.widen[:1]
+    radii = [options.radius * factor for factor in widen if options.radius * factor < options.ceiling]
+    if len(radii) < len(widen):  # the widening stops at the ceiling, and tries the ceiling itself
+        radii.append(options.ceiling)
+    counted_only = None  # the first picture whose count is resolved and its branches not
+    for radius in radii:
+        at_radius = dataclasses.replace(options, radius=radius)
+        unresolved_here = 0
+        for _ in range(options.attempts):
+            picture, problem = _attempt(held, codimension, point, witness_points, witness_rows, rng, real,
+                                        at_radius, direct, unresolved)
+            if not problem:
+                return picture
+            tried.append(problem)
+            if problem == _BRANCHES_UNRESOLVED and counted_only is None:
+                counted_only = picture
+            unresolved_here += problem in (_UNRESOLVED, _BRANCHES_UNRESOLVED)
+            if unresolved_here == _UNRESOLVED_TRIES:  # a property of the radius more than of the slice: widen
+                break
+    if counted_only is not None:
+        counted_only.orbits, counted_only.real_orbits = None, None
+        counted_only.notes.append(f"the local points are counted, but no slice resolved them against each other "
+                                  f"({'; '.join(_summarised(tried))}): the branches are not told")
+        return counted_only
     # an unclear picture is not a count: the last slice's number of converging points is no evidence (a far
     # point that came close counts as local), so the multiplicity and the branches stay undecided
     picture.multiplicity, picture.orbits, picture.real_orbits = None, None, None
-    picture.notes.append(f"no clear local picture after {options.attempts} random slices ({'; '.join(tried)}): "
-                         "the multiplicity and the branches are not counted")
+    picture.notes.append(f"no clear local picture after {counted(len(tried), 'random slice')} "
+                         f"({'; '.join(_summarised(tried))}): the multiplicity and the branches are not counted")
     return picture
 
 
-def _attempt(held, codimension, point, witness_points, witness_rows, rng, real, options, direct=None):
+#: Slices whose local points are not resolved before the radius is widened (it depends a little on the slice).
+_UNRESOLVED_TRIES = 2
+#: The problem of a slice whose local points are resolved against their distance to the point (the count
+#: stands) but not against each other (the branches do not).
+_BRANCHES_UNRESOLVED = "the local points were not resolved against each other"
+#: The problem of a slice whose local points lie where the equation is not known well enough.
+_UNRESOLVED = "the equation's terms at the local points were not above what is unknown about them"
+
+
+def _resolved(unresolved, points, local, point, apart=True):
+    """What is unknown about the equation moves each local point by at most ``_RESOLVED`` times its distance
+    to the point and, with ``apart``, to the nearest other point of the slice (what the branches are read
+    from)."""
+    apart = np.linalg.norm(points[local] - point, axis=1) if not apart else None
+    if apart is None:
+        gaps = np.linalg.norm(points[local][:, None, :] - points[None, :, :], axis=2)
+        gaps[np.arange(len(local)), local] = np.inf
+        apart = np.minimum(gaps.min(axis=1), np.linalg.norm(points[local] - point, axis=1))
+    return bool(np.all(unresolved(points[local] - point, apart) <= _RESOLVED))
+
+
+def _summarised(problems):
+    """Distinct problems with their counts, in the order first met."""
+    counts = {}
+    for problem in problems:
+        counts[problem] = counts.get(problem, 0) + 1
+    return [problem if count == 1 else f"{problem} (x{count})" for problem, count in counts.items()]
+
+
+def _attempt(held, codimension, point, witness_points, witness_rows, rng, real, options, direct=None,
+             unresolved=None):
     """One random slice: the picture, and what makes it unclear ("" when it is clear)."""
     n = len(point)
     d = n - codimension
@@ -293,6 +360,11 @@ def _attempt(held, codimension, point, witness_points, witness_rows, rng, real, 
     picture = LocalPicture(len(local), on1[local], on2[local], lost=lost, shrink=options.shrink)
     if lost:
         return picture, f"{counted(lost, 'path')} failed or went to infinity"
+    # the picture is that of the equation as computed; it is f's only where what is unknown about the terms
+    # (rounding, a point off the singular point) is small beside them, at the local points of both slices
+    if unresolved is not None and len(local) and not (_resolved(unresolved, on1, local, point, False) and
+                                                      _resolved(unresolved, on2, local, point, False)):
+        return picture, _UNRESOLVED
     unclear = np.isfinite(ratio) & (ratio >= _CONVERGING_RATIO) & (ratio < _STAYING_RATIO)
     if np.any(unclear):
         return picture, "a point neither converged nor stayed"
@@ -303,6 +375,11 @@ def _attempt(held, codimension, point, witness_points, witness_rows, rng, real, 
         return picture, "a local point did not shrink with the slice"
     if d == 1 and not len(local):
         picture.orbits, picture.real_orbits = [], ([] if real else None)
+    if d == 1 and len(local) and unresolved is not None and not (_resolved(unresolved, on1, local, point) and
+                                                                 _resolved(unresolved, on2, local, point)):
+        # the count stands (each local point is resolved against its distance to p), the branches do not (a
+        # point may move by more than its distance to the nearest other one, as A6's pair 2 eps^3.5 apart)
+        return picture, _BRANCHES_UNRESOLVED
     if d == 1 and len(local):
         problem = _orbits(picture, held, directions, point, eps1 * offsets, rng, options, real, direct, eps1)
         if problem:
@@ -312,6 +389,30 @@ def _attempt(held, codimension, point, witness_points, witness_rows, rng, real, 
             if abs(directions[0] @ tangent) < _TRANSVERSAL:
                 return picture, "the slice was nearly tangent to a branch"
     return picture, ""
+
+
+def order_radius(polynomial):
+    """The radius within which the lowest homogeneous form of g (at u = 0) dominates the higher ones.
+
+    With N_k the sum of the moduli of the degree-k coefficients and m the lowest degree present, the form of
+    degree k overtakes the lowest one near |u| = (N_m / N_k)^(1 / (k - m)); the smallest of these. A slice
+    farther out sees the higher forms' zeros as local ones (a frame whose cubic came out 1e-6 beside a
+    quartic of size one counted four local points of E6 at |u| = 1e-2).
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> g = parse_system(["1e-6*x^3 + y^4 + x^2*y^2"], ["x", "y"]).polynomials[0].numeric()
+    >>> float(order_radius(g))
+    5e-07
+    """
+    degrees = polynomial.exponents.sum(axis=1)
+    sizes = np.bincount(degrees, weights=np.abs(polynomial.numeric_coefficients()))
+    present = np.nonzero(sizes > 0)[0]
+    if len(present) < 2:
+        return np.inf
+    lowest = present[0]
+    return float(min((sizes[lowest] / sizes[k]) ** (1.0 / (k - lowest)) for k in present[1:]))
 
 
 def holding_equations_for(polynomials, codimension, points, rng):

@@ -360,6 +360,9 @@ class ComponentAnatomy:
     special_points_searched : bool
         False when no search was made (several equations, a Hessian's rank that cannot drop or is unclear,
         the search switched off): an empty ``special_points`` then says nothing.
+    rejected_candidates : int
+        Candidate special points that failed the check that they lie on this component (equations of the
+        singular locus not met in term units, or an isolated singular point of the locus).
     """
 
     component: int
@@ -368,14 +371,16 @@ class ComponentAnatomy:
     special_points: list = field(default_factory=list)
     notes: list = field(default_factory=list)
     special_points_searched: bool = True
+    rejected_candidates: int = 0
 
     def to_dict(self):
         return {"component": self.component, "dimension": self.dimension, "transversal": self.transversal.to_dict(),
                 "special_points": [p.to_dict() for p in self.special_points], "notes": list(self.notes),
-                "special_points_searched": self.special_points_searched}
+                "special_points_searched": self.special_points_searched,
+                "rejected_candidates": self.rejected_candidates}
 
     @classmethod
     def from_dict(cls, data):
         return cls(int(data["component"]), int(data["dimension"]), PointAnatomy.from_dict(data["transversal"]),
                    [PointAnatomy.from_dict(p) for p in data["special_points"]], list(data["notes"]),
-                   bool(data.get("special_points_searched", True)))
+                   bool(data.get("special_points_searched", True)), int(data.get("rejected_candidates", 0)))

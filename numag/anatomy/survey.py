@@ -23,12 +23,15 @@ import numpy as np
 
 from ..errors import InputError, LimitError
 from ..system.polynomial import Polynomial, PolynomialSystem, determinant
+from ..numeric.evaluate import BatchEvaluator, TermSizes
+from ..numeric.refine import largest_scaled_residual
 from ..numeric.scaling import Scaling
+from ..system.display import counted
 from ..numeric.seeds import random_state
 from ..witness.decompose import decompose
 from .frame import cube_root_direction, kernel_cubic
 from .hypersurface import anatomy_in_frame, hessian_evidence
-from .local import LocalOptions, LocalPicture, hypersurface_witness, local_picture, orbit_tangent
+from .local import LocalOptions, LocalPicture, hypersurface_witness, local_picture, order_radius, orbit_tangent
 from .records import Branch, ComponentAnatomy, Family, Motion, PointAnatomy, SingularityType, TypeTest
 
 __all__ = ["AnatomyOptions", "LocusAnatomy", "point_anatomy", "component_anatomy", "locus_anatomy",
@@ -36,6 +39,9 @@ __all__ = ["AnatomyOptions", "LocusAnatomy", "point_anatomy", "component_anatomy
 
 #: Radius of the local slices in a local frame (units of the singularity's own scale).
 _FRAME_RADIUS = 1e-2
+#: The local slices of a hypersurface stay within this share of the radius where the higher forms of the frame
+#: polynomial overtake its lowest one (``local.order_radius``).
+_ORDER_SHARE = 0.5
 #: Terms of a normal slice at most this times its largest are within the witness point's error.
 _SLICE_ROUNDING = 1e-13
 #: Imaginary parts below this (relative to 1 + |x|) make a point real.
@@ -215,8 +221,13 @@ def _hypersurface_point(polynomial, computed, user_point, scaling, rng, real, an
     points, rows = hypersurface_witness(local, rng)
     # in the frame the singularity's terms have size one: a radius of 1e-2 stays in the asymptotic regime (the
     # shrink check tests it) and keeps the points of a high branch apart (A6: 2 eps^3.5, 6e-11 at eps = 1e-3)
-    in_frame = dataclasses.replace(options.local, radius=max(options.local.radius, _FRAME_RADIUS))
-    picture = local_picture([local], 1, origin, points, rows, rng, real=real, options=in_frame)
+    # and it stays within half the radius where g's higher forms overtake its lowest (decision 0056)
+    in_frame = dataclasses.replace(options.local, radius=max(options.local.radius, _FRAME_RADIUS),
+                                   ceiling=_ORDER_SHARE * order_radius(local))
+    # with what is unknown about g at the local points (rounding, a point off the singular point) weighed
+    # against its terms there: widened slices where the smallest one cannot tell (decision 0056)
+    picture = local_picture([local], 1, origin, points, rows, rng, real=real, options=in_frame,
+                            unresolved=frame.unresolved)
     anatomy = _picture_anatomy(picture, scaling, origin, user_point, n - 1, angles, real, frame)
     anatomy.hypersurface = hypersurface
     expected = _plane_branches(anatomy.hypersurface.type) if n == 2 else None
@@ -300,9 +311,9 @@ def _joined(first, second):
     orbits = None if first.orbits is None or second.orbits is None else \
         first.orbits + [[k + offset for k in o] for o in second.orbits]
     real = None if first.real_orbits is None or second.real_orbits is None else first.real_orbits + second.real_orbits
-    counted = None if first.multiplicity is None or second.multiplicity is None else \
+    multiplicity = None if first.multiplicity is None or second.multiplicity is None else \
         first.multiplicity + second.multiplicity
-    return LocalPicture(counted, np.vstack([first.local_points, second.local_points]),
+    return LocalPicture(multiplicity, np.vstack([first.local_points, second.local_points]),
                         np.vstack([first.near_points, second.near_points]), orbits, real,
                         first.lost + second.lost, first.notes + second.notes, first.shrink)
 
@@ -490,7 +501,7 @@ def _system_component_anatomy(system, component, seed, options):
     return ComponentAnatomy(component.id, k, transversal, [], notes, special_points_searched=False)
 
 
-def component_anatomy(system, component, seed=None, options=None, special_candidates=None):
+def component_anatomy(system, component, seed=None, options=None, special_candidates=None, isolated=None):
     """Transversal type of a hypersurface along a singular component, and the points where it changes.
 
     The transversal type is the anatomy of f restricted to a random normal slice (an affine space of
@@ -514,6 +525,9 @@ def component_anatomy(system, component, seed=None, options=None, special_candid
     options : AnatomyOptions, optional
     special_candidates : ndarray, optional
         Points (user's units) to use as the special points instead of searching them.
+    isolated : ndarray, optional
+        The isolated singular points of the locus (user's units): candidates at one of them are not on this
+        component and are rejected (counted in ``rejected_candidates``).
 
     Returns
     -------
@@ -573,9 +587,44 @@ def component_anatomy(system, component, seed=None, options=None, special_candid
     else:
         candidates = np.zeros((0, system.n_variables))
         searched = False
-    for candidate in candidates:
+    on_component = _on_component(f, scaling, candidates, isolated)
+    rejected = int(np.sum(~on_component))
+    if rejected:
+        notes.append(f"{counted(rejected, 'candidate special point')} rejected: not on this component (the singular "
+                     "locus's equations not met in term units, or an isolated singular point of the locus)")
+    for candidate in candidates[on_component]:
         special.append(_slice_anatomy(f, scaling.to_computed(candidate), candidate, k, rng, options))
-    return ComponentAnatomy(component.id, k, transversal, special, notes, special_points_searched=searched)
+    return ComponentAnatomy(component.id, k, transversal, special, notes, special_points_searched=searched,
+                            rejected_candidates=rejected)
+
+
+#: A candidate special point must meet f and grad f to this (largest residual over the size of the terms).
+_ON_LOCUS = 1e-8
+
+
+def _on_component(polynomial, scaling, candidates, isolated):
+    """Which candidates (user's units) lie on the component: f and grad f vanish there in term units, and the
+    point is none of the locus's isolated singular points (those lie on no positive-dimensional piece).
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> system = parse_system(["x^2 - y^2*z"], ["x", "y", "z"])
+    >>> scaling = Scaling.identity(system)
+    >>> _on_component(system.polynomials[0].numeric(), scaling, np.array([[0, 0, 0], [0, 0, 5], [1, 1, 1]]),
+    ...               np.array([[0, 0, 5.0]])).tolist()
+    [True, False, False]
+    """
+    candidates = np.asarray(candidates, dtype=complex).reshape(-1, polynomial.n_variables)
+    if not len(candidates):
+        return np.zeros(0, dtype=bool)
+    equations = [polynomial] + [g.numeric() for g in polynomial.gradient() if not g.is_zero()]
+    residual = largest_scaled_residual(TermSizes(equations), BatchEvaluator(equations),
+                                       scaling.to_computed(candidates))
+    result = residual <= _ON_LOCUS
+    for point in np.asarray(isolated if isolated is not None else [], dtype=complex).reshape(-1, len(candidates[0])):
+        result &= np.linalg.norm(candidates - point[None, :], axis=1) > 1e-6 * (1 + np.linalg.norm(point))
+    return result
 
 
 # --- over a locus, over checked points -----------------------------------------------------------------
@@ -602,6 +651,9 @@ def locus_anatomy(locus, seed=None, angles=None, options=None):
     points, components, notes = {}, {}, []
     if system.projective:
         return LocusAnatomy({}, {}, 0.0, ["the anatomy is computed for affine systems"])
+    isolated = np.array([c.points[0] for c in locus.components
+                         if c.dimension == 0 and not c.at_infinity and c.kind == "singular"],
+                        dtype=complex).reshape(-1, system.n_variables)
     for c in locus.components:
         if c.at_infinity or c.kind != "singular":
             continue
@@ -611,7 +663,8 @@ def locus_anatomy(locus, seed=None, angles=None, options=None):
         elif system.n_equations == 1:
             positive = [d for d in locus.components if d.dimension > 0 and not d.at_infinity and d.kind == "singular"]
             options_here = options if len(positive) == 1 else AnatomyOptions(options.local, special_points=False)
-            components[c.id] = component_anatomy(system, c, seed=seed + c.id, options=options_here)
+            components[c.id] = component_anatomy(system, c, seed=seed + c.id, options=options_here,
+                                                 isolated=isolated)
             if len(positive) > 1 and options.special_points:
                 components[c.id].notes.append("several singular components: the special points were not searched "
                                               "(they could not be told apart by component)")

@@ -67,6 +67,8 @@ def write_component_anatomy(anatomy, names, out, indent="        "):
     if anatomy.special_points_searched:
         found = counted(len(anatomy.special_points), "special point")
         out.write(f"{indent}{found} where the transversal type changes\n")
+        if anatomy.rejected_candidates:
+            out.write(f"{indent}{counted(anatomy.rejected_candidates, 'candidate')} rejected: not on this component\n")
     else:
         out.write(f"{indent}special points where the transversal type changes: not searched\n")
     for point in anatomy.special_points:
