@@ -51,7 +51,7 @@ __all__ = ["LineDiscriminant", "line_family", "discriminant_on_lines"]
 _SAME_T = 1e-6
 #: A moved point reached a real point of the next line when closer than this (relative, in (x, lambda, t)).
 _SAME_POINT = 1e-6
-#: Multiple points and fold ends are linked across at most this many line spacings.
+#: Multiple points are linked across at most this many line spacings.
 _REACH = 10.0
 
 
@@ -68,9 +68,9 @@ class LineDiscriminant:
     cuts : list of (float, ndarray)
         Per vertical line p_1 = v: v and the sorted distinct real discriminant values of p_2 on it.
     failed : int
-        Paths that failed (sweep and moves); the picture may miss a piece where it is not zero.
+        Paths of the sweep that failed; the picture may miss a piece where it is not zero.
     lost_links : int
-        Real points whose move reached no real point of the next line (folds, ends, failures).
+        Arc ends whose move to the neighbouring line was lost and that were joined to no neighbour (a gap).
     notes : list of str
     """
 
@@ -226,33 +226,35 @@ def discriminant_on_lines(family, codimension, box, verticals, trace_lines, rng)
                                                                                    values)]
     cuts = [(float(v), _real_points(member, np.array([v, 0.0]), np.array([0.0, 1.0])).t_values)
             for v, member in zip(verticals, swept.values[len(offsets):])]
-    for line in traced:  # only the points in the enlarged box are traced
-        inside = np.all((line.plane(line.cluster) >= outer_low) & (line.plane(line.cluster) <= outer_high), axis=1) \
+    # the points a little beyond the lines' reach are kept too: a fold's other arc may leave the box there
+    keep_low, keep_high = low - 1.25 * span, high + 1.25 * span
+    for line in traced:
+        inside = np.all((line.plane(line.cluster) >= keep_low) & (line.plane(line.cluster) <= keep_high), axis=1) \
             if len(line.points) else np.zeros(0, bool)
         line.points, line.multiple, line.cluster = line.points[inside], line.multiple[inside], line.cluster[inside]
-    edges, moved_failed, lost = _links(lines, traced, spacing, rng)
+    edges, lost = _links(lines, traced, spacing, rng)
     arcs, lifts = _polylines(traced, edges, family.n_variables)
     notes = []
-    if failed + moved_failed:
-        notes.append(f"{failed + moved_failed} paths of the traced discriminant curve failed: a piece of the picture "
-                     "may be missing.")
-    return LineDiscriminant(arcs, lifts, cuts, failed + moved_failed, lost, notes)
+    if failed:
+        notes.append(f"{failed} paths of the sweep across the lines failed: a piece of the curve may be missing.")
+    if lost:
+        notes.append(f"{lost} arc {'end' if lost == 1 else 'ends'} of the traced curve could not be continued to the "
+                     "next line and joined to no neighbour: the picture may have a gap there.")
+    return LineDiscriminant(arcs, lifts, cuts, failed, lost, notes)
 
 
 def _moves(lines_family, traced, moves, rng):
     """Move real points (line k, point i) to line k2 along the real segment, all together.
 
     Returns, per move, the index of the real point of line k2 reached (None where none) and whether the
-    move was lost (failed, or reached a non-real point: the real pair turned complex at a fold), and the
-    number of failed paths.
+    move was lost (failed, or reached a non-real point: the real pair turned complex at a fold).
     """
     if not moves:
-        return [], 0
+        return []
     starts = [np.concatenate([traced[k].origin, traced[k].direction]) for k, _, _ in moves]
     targets = [np.concatenate([traced[k2].origin, traced[k2].direction]) for _, _, k2 in moves]
     points = [traced[k].points[i] for k, i, _ in moves]
-    ends, failed = move_points(lines_family, starts, points, targets, real_segment=True,
-                               seed=int(rng.integers(2 ** 63)))
+    ends, _ = move_points(lines_family, starts, points, targets, real_segment=True, seed=int(rng.integers(2 ** 63)))
     results = []
     for (_, _, k2), end in zip(moves, ends):
         there = traced[k2]
@@ -267,14 +269,14 @@ def _moves(lines_family, traced, moves, rng):
                 continue
         t = end[-1]
         results.append((None, abs(t.imag) > REAL_TOLERANCE * (1 + abs(t))))
-    return results, failed
+    return results
 
 
 def _links(lines_family, traced, spacing, rng):
-    """Edges between clusters (line, t-cluster) of the same or neighbouring lines; failed paths; lost ends."""
+    """Edges between clusters (line, t-cluster) of the same or neighbouring lines, and the lost ends left unjoined."""
     edges = set()
     moves = [(k, int(i), k + 1) for k in range(len(traced) - 1) for i in np.nonzero(~traced[k].multiple)[0]]
-    results, failed = _moves(lines_family, traced, moves, rng)
+    results = _moves(lines_family, traced, moves, rng)
     linked, lost_forward = set(), set()
     for (k, i, k2), (reached, lost) in zip(moves, results):
         node = (k, int(traced[k].cluster[i]))
@@ -288,8 +290,7 @@ def _links(lines_family, traced, spacing, rng):
     targets = {b for _, b in edges}
     backward = [(k, int(i), k - 1) for k in range(1, len(traced)) for i in np.nonzero(~traced[k].multiple)[0]
                 if (k, int(traced[k].cluster[i])) not in targets]
-    results, more = _moves(lines_family, traced, backward, rng)
-    failed += more
+    results = _moves(lines_family, traced, backward, rng)
     lost_backward, linked = set(), set()
     for (k, i, k2), (reached, lost) in zip(backward, results):
         node = (k, int(traced[k].cluster[i]))
@@ -320,9 +321,14 @@ def _links(lines_family, traced, spacing, rng):
             clusters.sort()
             values = traced[k].t_values
             for first, second in zip(clusters[:-1], clusters[1:]):
-                if second == first + 1 and values[second] - values[first] <= _REACH * spacing:
+                # a real pair turns complex only by meeting: two neighbours whose moves both went complex met
+                # between the lines, however far apart they are on this one (a flat fold)
+                if second == first + 1:
                     edges.add(((k, first), (k, second)))
-    return edges, failed, len(lost_forward) + len(lost_backward)
+    joined = {node for a, b in edges if a[0] == b[0] for node in (a, b)}
+    # failed moves are not counted as failures: at a fold the real path meets a branch point and the tracker
+    # stops there; an end that is left unjoined is counted instead
+    return edges, len((lost_forward | lost_backward) - joined)
 
 
 def _polylines(traced, edges, n):
