@@ -153,7 +153,7 @@ def test_line_points_are_the_discriminant_of_a_circle_family():
     # x^2 + y^2 = r^2 + s is singular (at the origin) exactly where r^2 + s = 0 (common practice, no source): on the
     # vertical lines r = v the real discriminant point is s = -v^2, and the traced curve is the parabola.
     family = Family(parse_system(["x^2 + y^2 - r^2 - s"], ["x", "y", "r", "s"]), ("r", "s"))
-    found = discriminant_on_lines(family, 1, ((-2.0, -4.0), (2.0, 1.0)), [-1.5, 0.25, 1.0], 16,
+    found = discriminant_on_lines(family, 1, ((-2.0, -4.0), (2.0, 1.0)), [-1.5, 0.25, 1.0], 30,
                                   np.random.default_rng(3))
     for value, cuts in found.cuts:
         assert np.allclose(cuts, [-value ** 2], atol=1e-9)

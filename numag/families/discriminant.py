@@ -392,8 +392,9 @@ def _curve_and_cells_on_lines(family, codimension, options, rng, notes, progress
                  "are among the components), and cusps are not told apart; crossings are given at the traced "
                  "accuracy.")
     special = _nodes(family, found.lifts, family.n_variables, float(np.linalg.norm(high - low)))
-    curve = DiscriminantCurve(found.arcs, (low, high), special, found.failed) if options.curve or options.regions \
-        else None
+    # failed paths of the sweep and arc ends that could be neither continued nor joined: where the picture may
+    # miss a piece (counted like the stalled arc ends of the other tracer)
+    curve = DiscriminantCurve(found.arcs, (low, high), special, found.failed + found.lost_links)
     cells = []
     if options.regions:
         if progress is not None:
