@@ -316,7 +316,7 @@ def discriminant(family, options=None, seed=None, progress=None, *, _balanced=Fa
     # members that are not finite sets of points (curves): the curve and the cells from lines (decision 0060)
     on_lines = m == 2 and codimension != n and (options.curve or options.regions)
     if on_lines:
-        curve, regions = _curve_and_cells_on_lines(family, codimension, options, rng, notes, progress)
+        curve, regions = _curve_and_cells_on_lines(family, codimension, options, rng, paths, notes, progress)
     elif m == 2 and options.curve:
         curve = _traced_curve(family, codimension, options, rng, notes, progress)
     if m == 2 and options.regions:
@@ -371,7 +371,7 @@ def _in_user_units(result, factors, family):
     return result
 
 
-def _curve_and_cells_on_lines(family, codimension, options, rng, notes, progress):
+def _curve_and_cells_on_lines(family, codimension, options, rng, paths, notes, progress):
     """Two parameters, members not finite: the curve traced across lines and the cells of vertical lines.
 
     One sweep of the null-vector system on lines (:mod:`numag.families.lines`); the cells' samples are
@@ -385,11 +385,12 @@ def _curve_and_cells_on_lines(family, codimension, options, rng, notes, progress
         progress(f"the discriminant on {options.trace_lines} lines across the plane")
     verticals = np.linspace(low[0], high[0], options.lines) if options.regions else []
     found = discriminant_on_lines(family, codimension, (low, high), verticals, options.trace_lines, rng)
+    _add_counts(paths, found.paths)
     notes += found.notes
     notes.append("The curve was traced across lines of the parameter plane (the members are not finite sets of "
                  "points): parts of the discriminant over multiple solutions of the line system (where a parameter "
-                 "enters only squared, such as a length 0 of a linkage) are neither traced nor cut the cells (they "
-                 "are among the components), and cusps are not told apart; crossings are given at the traced "
+                 "enters only squared, such as a length 0 of a linkage) are neither traced nor cut the cells (the "
+                 "components list them when computed), and cusps are not told apart; crossings are given at the traced "
                  "accuracy.")
     special = _nodes(family, found.lifts, family.n_variables, float(np.linalg.norm(high - low)))
     # failed paths of the sweep and arc ends that could be neither continued nor joined: where the picture may

@@ -72,6 +72,8 @@ class LineDiscriminant:
     lost_links : int
         Arc ends whose move to the neighbouring line was lost and that were joined to no neighbour (a gap).
     notes : list of str
+    paths : dict
+        The sweep's tracked paths by status.
     """
 
     arcs: list
@@ -80,6 +82,7 @@ class LineDiscriminant:
     failed: int = 0
     lost_links: int = 0
     notes: list = field(default_factory=list)
+    paths: dict = field(default_factory=dict)
 
 
 def _free_name(base, taken):
@@ -240,7 +243,7 @@ def discriminant_on_lines(family, codimension, box, verticals, trace_lines, rng)
     if lost:
         notes.append(f"{lost} arc {'end' if lost == 1 else 'ends'} of the traced curve could not be continued to the "
                      "next line and joined to no neighbour: the picture may have a gap there.")
-    return LineDiscriminant(arcs, lifts, cuts, failed, lost, notes)
+    return LineDiscriminant(arcs, lifts, cuts, failed, lost, notes, dict(swept.paths))
 
 
 def _moves(lines_family, traced, moves, rng):
