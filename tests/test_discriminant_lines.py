@@ -161,3 +161,13 @@ def test_line_points_are_the_discriminant_of_a_circle_family():
     assert np.abs(points[:, 1] + points[:, 0] ** 2).max() <= 1e-9
     assert points[:, 0].min() <= -1.9 and points[:, 0].max() >= 1.9  # traced through the box
     assert len(line_family(family, 1, np.random.default_rng(0)).parameters) == 4
+
+
+def test_a_bad_number_of_trace_lines_is_one_line_and_exit_2(tmp_path, capsys):
+    import io
+    from numag.app.cli import main
+    path = tmp_path / "bar.toml"
+    path.write_text('variables = ["x", "y"]\nparameters = ["r", "s"]\nequations = ["x^2 + y^2 - r^2 - s"]\n')
+    assert main(["discriminant", str(path), "--trace-lines", "1"], out=io.StringIO()) == 2
+    err = capsys.readouterr().err
+    assert "--trace-lines must be from 2" in err and "Traceback" not in err
