@@ -7,11 +7,11 @@ Run:  python benchmarks/bench_discriminant_plane.py [--seeds 2] [--quartic] [--f
   on the traced points, the cusp's distance to the origin, the number of regions.
 * With ``--quartic``: x^4 + a x^2 + b x + 1 on [-3, -1] x [-1, 1], one node at (-2, 0) where the member is
   (x^2 - 1)^2 (common practice, no source); one to two minutes per seed (the tracer's critical solve).
-* With ``--four-bar`` (instead of the cubic): a four-bar with ground 4, crank 2 and the coupler b in [0.5, 8] and rocker c in [1, 5]
-  free (members are curves; the curve is traced across lines, decision 0060): seconds (wall and this process's
-  processor time), the traced arcs' largest distance to the Grashof lines 4 +- 2 +- b +- c = 0 (common practice,
-  no source), the nodes, the cells whose branch count differs from Grashof's criterion. ``--components`` also
-  decomposes the incidence set (the components' dimensions and degrees; minutes).
+* With ``--four-bar`` (instead of the cubic): a four-bar with ground 4, crank 2, coupler b in [0.5, 8] and
+  rocker c in [1, 5] free (members are curves; the curve is traced across lines, decision 0060): seconds
+  (wall and this process's processor time), the traced arcs' largest distance to the Grashof lines
+  4 +- 2 +- b +- c = 0 (common practice, no source), the nodes, the cells whose branch count differs from
+  Grashof's criterion. ``--components`` also decomposes the incidence set (dimensions and degrees; minutes).
 
 Results are written to benchmarks/results/discriminant_plane.json.
 """

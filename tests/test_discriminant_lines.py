@@ -171,3 +171,18 @@ def test_a_bad_number_of_trace_lines_is_one_line_and_exit_2(tmp_path, capsys):
     assert main(["discriminant", str(path), "--trace-lines", "1"], out=io.StringIO()) == 2
     err = capsys.readouterr().err
     assert "--trace-lines must be from 2" in err and "Traceback" not in err
+
+
+def test_cells_without_the_curve_count_circles():
+    # x^2 + y^2 = r^2 + s is a circle (one real branch) where r^2 + s > 0 and has no real point where it is < 0
+    # (common practice, no source); --no-curve: the cells alone, no curve and no merged regions.
+    family = family_from_mapping({"variables": ["x", "y"], "parameters": ["r", "s"],
+                                  "equations": ["x^2 + y^2 - r^2 - s"], "ranges": {"r": [-1, 2], "s": [-3, 3]}})
+    options = DiscriminantOptions(lines=3, curve=False, components=False, at_infinity=False)
+    result = discriminant(family, options, seed=2)
+    assert result.curve is None and result.plane_regions == []
+    assert len(result.regions) == 6
+    for cell in result.regions:
+        r, s = cell.sample
+        assert cell.count.branches == (1 if r * r + s > 0 else 0) and cell.count.failed == 0
+        assert min(abs(cell.low + r * r), abs(cell.high + r * r)) <= 1e-9  # cut at s = -r^2

@@ -381,21 +381,26 @@ def _curve_and_cells_on_lines(family, codimension, options, rng, paths, notes, p
     if missing:
         notes.append(f"No [ranges] interval for {', '.join(missing)}: the curve is traced and the cells are on "
                      "lines for -1 to 1 there.")
-    if progress is not None:
-        progress(f"the discriminant on {options.trace_lines} lines across the plane")
     verticals = np.linspace(low[0], high[0], options.lines) if options.regions else []
-    found = discriminant_on_lines(family, codimension, (low, high), verticals, options.trace_lines, rng)
+    # without the curve (--no-curve) two trace lines are the least the sweep takes; their links are dropped
+    trace_lines = options.trace_lines if options.curve else 2
+    if progress is not None:
+        progress(f"the discriminant on {trace_lines + len(verticals)} lines across the plane")
+    found = discriminant_on_lines(family, codimension, (low, high), verticals, trace_lines, rng)
     _add_counts(paths, found.paths)
     notes += found.notes
-    notes.append("The curve was traced across lines of the parameter plane (the members are not finite sets of "
-                 "points): parts of the discriminant over multiple solutions of the line system (where a parameter "
-                 "enters only squared, such as a length 0 of a linkage) are neither traced nor cut the cells (the "
-                 "components list them when computed), and cusps are not told apart; crossings are given at the traced "
-                 "accuracy.")
-    special = _nodes(family, found.lifts, family.n_variables, float(np.linalg.norm(high - low)))
+    notes.append("The discriminant was met on lines of the parameter plane (the members are not finite sets of "
+                 "points): parts of it over multiple solutions of the line system (where a parameter enters only "
+                 "squared, such as a length 0 of a linkage) are neither traced nor cut the cells (the components "
+                 "list them when computed)"
+                 + ("; cusps are not told apart, crossings are given at the traced accuracy." if options.curve
+                    else "."))
+    special = _nodes(family, found.lifts, family.n_variables, float(np.linalg.norm(high - low))) \
+        if options.curve else []
     # failed paths of the sweep and arc ends that could be neither continued nor joined: where the picture may
     # miss a piece (counted like the stalled arc ends of the other tracer)
-    curve = DiscriminantCurve(found.arcs, (low, high), special, found.failed + found.lost_links)
+    curve = DiscriminantCurve(found.arcs, (low, high), special, found.failed + found.lost_links) \
+        if options.curve else None
     cells = []
     if options.regions:
         if progress is not None:
