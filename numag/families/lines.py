@@ -40,6 +40,7 @@ import numpy as np
 from ..system.family import Family
 from ..system.polynomial import Polynomial, PolynomialSystem
 from ..numeric.cluster import cluster_labels, connected_components, groups
+from ..tracking.tracker import TrackerOptions
 from ..singular.isolated import null_vector_system
 from .records import REAL_TOLERANCE, PointKind
 from .sweep import SweepOptions, move_points, sweep
@@ -53,6 +54,8 @@ _SAME_T = 1e-6
 _SAME_POINT = 1e-6
 #: Multiple points are linked across at most this many line spacings.
 _REACH = 10.0
+#: Moves between lines are tracked in double precision only.
+_NO_RESCUE = SweepOptions(tracker=TrackerOptions(rescue_digits=0))
 
 
 @dataclass
@@ -257,7 +260,11 @@ def _moves(lines_family, traced, moves, rng):
     starts = [np.concatenate([traced[k].origin, traced[k].direction]) for k, _, _ in moves]
     targets = [np.concatenate([traced[k2].origin, traced[k2].direction]) for _, _, k2 in moves]
     points = [traced[k].points[i] for k, i, _ in moves]
-    ends, _ = move_points(lines_family, starts, points, targets, real_segment=True, seed=int(rng.integers(2 ** 63)))
+    # no mpmath rescue: a move that fails in double precision along the real segment meets a fold (a branch point
+    # on the segment), where more digits cannot help (measured: a parabola's fold cost 3,658 precise evaluations,
+    # most of the trace's time)
+    ends, _ = move_points(lines_family, starts, points, targets, real_segment=True, seed=int(rng.integers(2 ** 63)),
+                          options=_NO_RESCUE)
     results = []
     for (_, _, k2), end in zip(moves, ends):
         there = traced[k2]
