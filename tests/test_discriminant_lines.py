@@ -161,6 +161,27 @@ def test_line_points_are_the_discriminant_of_a_circle_family():
     assert np.abs(points[:, 1] + points[:, 0] ** 2).max() <= 1e-9
     assert points[:, 0].min() <= -1.9 and points[:, 0].max() >= 1.9  # traced through the box
     assert len(line_family(family, 1, np.random.default_rng(0)).parameters) == 4
+    assert found.cusps == []  # the parabola folds over the lines (its ends joined) but has no cusp
+
+
+@pytest.mark.parametrize("seed", [1, 2])
+def test_curves_of_the_cubic_family_have_the_cuspidal_discriminant_and_two_or_one_branches(seed):
+    # y^2 = x^3 + p x + q is singular where the cubic has a double root: 4 p^3 + 27 q^2 = 0, a cusp at the origin;
+    # its real points form two components where the cubic has three real roots (4 p^3 + 27 q^2 < 0) and one
+    # elsewhere (common practice, no source: the real picture of plane cubics).
+    family = family_from_mapping({"variables": ["x", "y"], "parameters": ["p", "q"],
+                                  "equations": ["y^2 - x^3 - p*x - q"], "ranges": {"p": [-3, 3], "q": [-3, 3]}})
+    options = DiscriminantOptions(lines=5, trace_lines=40, components=False, at_infinity=False)
+    result = discriminant(family, options, seed=seed)
+    points = np.vstack(result.curve.arcs)
+    assert np.abs(4 * points[:, 0] ** 3 + 27 * points[:, 1] ** 2).max() <= 1e-8 * (1 + np.abs(points).max() ** 3)
+    assert result.curve.failed_arcs == 0
+    cusps = [s.point for s in result.curve.special if s.kind == CurvePointKind.CUSP]
+    assert len(cusps) == 1 and np.linalg.norm(cusps[0]) <= 0.5  # within a line spacing (about 0.48 here)
+    for cell in result.regions:
+        p, q = cell.sample
+        assert cell.count.branches == (2 if 4 * p ** 3 + 27 * q ** 2 < 0 else 1) and cell.count.failed == 0
+    assert sorted(r.count.branches for r in result.plane_regions) == [1, 2]
 
 
 def test_a_bad_number_of_trace_lines_is_one_line_and_exit_2(tmp_path, capsys):

@@ -61,7 +61,7 @@ from ..witness.decompose import DecomposeOptions, decompose, holding_equations
 from ..singular.locus import minors_system
 from .branches import RealCount, real_counts
 from .lines import discriminant_on_lines
-from .plane import DiscriminantCurve, PlaneRegion, _box as plane_box, _nodes, merge_cells, trace_discriminant_curve
+from .plane import CurvePoint, CurvePointKind, DiscriminantCurve, PlaneRegion, _box as plane_box, _nodes, merge_cells, trace_discriminant_curve
 from .records import REAL_TOLERANCE, ComponentKind, decode_complex, decode_float, encode_complex, encode_float
 
 __all__ = ["DiscriminantOptions", "DiscriminantComponent", "Region", "Discriminant", "discriminant"]
@@ -393,10 +393,10 @@ def _curve_and_cells_on_lines(family, codimension, options, rng, paths, notes, p
                  "points): parts of it over multiple solutions of the line system (where a parameter enters only "
                  "squared, such as a length 0 of a linkage) are neither traced nor cut the cells (the components "
                  "list them when computed)"
-                 + ("; cusps are not told apart, crossings are given at the traced accuracy." if options.curve
-                    else "."))
+                 + ("; cusps and crossings are given at the traced accuracy (a cusp within about a line "
+                    "spacing)." if options.curve else "."))
     special = _nodes(family, found.lifts, family.n_variables, float(np.linalg.norm(high - low))) \
-        if options.curve else []
+        + [CurvePoint(CurvePointKind.CUSP, point, False) for point in found.cusps] if options.curve else []
     # failed paths of the sweep and arc ends that could be neither continued nor joined: where the picture may
     # miss a piece (counted like the stalled arc ends of the other tracer)
     curve = DiscriminantCurve(found.arcs, (low, high), special, found.failed + found.lost_links) \

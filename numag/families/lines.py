@@ -73,10 +73,14 @@ class LineDiscriminant:
     failed : int
         Paths of the sweep that failed; the picture may miss a piece where it is not zero.
     lost_links : int
-        Arc ends whose move to the neighbouring line was lost and that were joined to no neighbour (a gap).
+        Arc ends in the box whose move to the neighbouring line was lost and that were joined to no neighbour
+        (a gap in the picture).
     notes : list of str
     paths : dict
         The sweep's tracked paths by status.
+    cusps : list of ndarray, shape (2,)
+        Joins of two arc ends that arrive side by side in one direction (a cusp, not a fold), at the traced
+        accuracy: within about a line spacing.
     """
 
     arcs: list
@@ -86,6 +90,7 @@ class LineDiscriminant:
     lost_links: int = 0
     notes: list = field(default_factory=list)
     paths: dict = field(default_factory=dict)
+    cusps: list = field(default_factory=list)
 
 
 def _free_name(base, taken):
@@ -238,15 +243,19 @@ def discriminant_on_lines(family, codimension, box, verticals, trace_lines, rng)
         inside = np.all((line.plane(line.cluster) >= keep_low) & (line.plane(line.cluster) <= keep_high), axis=1) \
             if len(line.points) else np.zeros(0, bool)
         line.points, line.multiple, line.cluster = line.points[inside], line.multiple[inside], line.cluster[inside]
-    edges, lost = _links(lines, traced, spacing, rng)
+    edges, unjoined = _links(lines, traced, spacing, rng)
+    # an unjoined end beyond the box is a fold whose other arc lies beyond the points kept: no gap in the box
+    lost = sum(bool(np.all((traced[k].plane([c])[0] >= low) & (traced[k].plane([c])[0] <= high)))
+               for k, c in unjoined)
     arcs, lifts = _polylines(traced, edges, family.n_variables)
+    cusps = _cusps_at_joins(traced, edges)
     notes = []
     if failed:
         notes.append(f"{failed} paths of the sweep across the lines failed: a piece of the curve may be missing.")
     if lost:
         notes.append(f"{lost} arc {'end' if lost == 1 else 'ends'} of the traced curve could not be continued to the "
                      "next line and joined to no neighbour: the picture may have a gap there.")
-    return LineDiscriminant(arcs, lifts, cuts, failed, lost, notes, dict(swept.paths))
+    return LineDiscriminant(arcs, lifts, cuts, failed, lost, notes, dict(swept.paths), cusps)
 
 
 def _moves(lines_family, traced, moves, rng):
@@ -283,7 +292,8 @@ def _moves(lines_family, traced, moves, rng):
 
 
 def _links(lines_family, traced, spacing, rng):
-    """Edges between clusters (line, t-cluster) of the same or neighbouring lines, and the lost ends left unjoined."""
+    """Edges between clusters (line, t-cluster) of the same or neighbouring lines, and the lost ends left unjoined
+    (a set of (line, cluster))."""
     edges = set()
     moves = [(k, int(i), k + 1) for k in range(len(traced) - 1) for i in np.nonzero(~traced[k].multiple)[0]]
     results = _moves(lines_family, traced, moves, rng)
@@ -337,8 +347,38 @@ def _links(lines_family, traced, spacing, rng):
                     edges.add(((k, first), (k, second)))
     joined = {node for a, b in edges if a[0] == b[0] for node in (a, b)}
     # failed moves are not counted as failures: at a fold the real path meets a branch point and the tracker
-    # stops there; an end that is left unjoined is counted instead
-    return edges, len((lost_forward | lost_backward) - joined)
+    # stops there; an end that is left unjoined is returned instead
+    return edges, (lost_forward | lost_backward) - joined
+
+
+#: Two arcs joined on one line arrive at a cusp when their last steps point the same way (cosine above this); at a
+#: fold they converge from opposite sides (common practice, no source: the branches of a cusp share their tangent,
+#: those of a fold of the projection continue each other).
+_CUSP_COSINE = 0.5
+
+
+def _cusps_at_joins(traced, edges):
+    """The joins of two arc ends on one line that are cusps: both arcs arrive pointing the same way."""
+    neighbours = {}
+    for a, b in edges:
+        neighbours.setdefault(a, []).append(b)
+        neighbours.setdefault(b, []).append(a)
+    cusps = []
+    for a, b in edges:
+        if a[0] != b[0]:
+            continue
+        steps = []
+        for node in (a, b):
+            before = [other for other in neighbours[node] if other[0] != node[0]]
+            if len(before) != 1:
+                break
+            here = traced[node[0]].plane([node[1]])[0]
+            steps.append(here - traced[before[0][0]].plane([before[0][1]])[0])
+        if len(steps) == 2:
+            first, second = (step / max(np.linalg.norm(step), 1e-300) for step in steps)
+            if first @ second > _CUSP_COSINE:
+                cusps.append(0.5 * (traced[a[0]].plane([a[1]])[0] + traced[b[0]].plane([b[1]])[0]))
+    return cusps
 
 
 def _polylines(traced, edges, n):
