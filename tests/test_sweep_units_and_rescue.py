@@ -114,3 +114,63 @@ def test_the_four_bar_in_millimetres_has_the_discriminant_in_metres_times_1000()
     assert all(r.count.failed == 0 for r in millimetres.regions)
     for small, large in zip(metres.regions, millimetres.regions):
         assert np.allclose(large.sample, 1000 * small.sample)
+
+
+class _HoleInDouble(SweepHomotopy):
+    """A sweep homotopy whose double-precision rows break for s in (0.4, 0.6): only the mpmath rescue passes."""
+
+    precise_calls = 0
+
+    def evaluate(self, points, s):
+        values, jacobian, derivative = super().evaluate(points, s)
+        hole = _in_hole(s, len(points))
+        values[hole] = np.nan
+        jacobian[hole] = np.nan
+        return values, jacobian, derivative
+
+    def evaluate_values(self, points, s):
+        values = super().evaluate_values(points, s)
+        values[_in_hole(s, len(points))] = np.nan
+        return values
+
+    def evaluate_precise(self, point, s, ctx):
+        type(self).precise_calls += 1
+        return super().evaluate_precise(point, s, ctx)
+
+
+def _in_hole(s, count):
+    real = np.broadcast_to(np.real(np.asarray(s)), (count,))
+    return (real > 0.4) & (real < 0.6)
+
+
+@pytest.fixture
+def double_with_a_hole(monkeypatch):
+    import numag.families.sweep as sweep_module
+    monkeypatch.setattr(sweep_module, "SweepHomotopy", _HoleInDouble)
+    _HoleInDouble.precise_calls = 0
+    return _HoleInDouble
+
+
+@pytest.mark.parametrize("seed", [4, 9])
+def test_a_sweep_that_double_precision_cannot_finish_is_finished_by_the_rescue(double_with_a_hole, seed):
+    # Every path of the sweep meets the hole: each is re-tracked in mpmath and must reach +-sqrt(b) (common
+    # practice, no source).
+    family = Family(parse_system(["x^2 - b"], ["x", "b"]), ("b",))
+    result = sweep(family, [[4.0], [9.0], [2.0]], seed=seed)
+    assert result.paths["rescued_in_high_precision"] == 6 and result.failed == 0
+    assert double_with_a_hole.precise_calls > 0
+    for member, b in zip(result.values, (4.0, 9.0, 2.0)):
+        assert np.allclose(np.sort(member.points[:, 0].real), [-b ** 0.5, b ** 0.5], atol=1e-10)
+        assert member.real_count == 2
+
+
+def test_a_discriminant_whose_regions_need_the_rescue(double_with_a_hole):
+    # x^2 + y^2 = r: singular (at the origin) only for r = 0; one real branch (a circle) for r > 0, none for
+    # r < 0 (common practice, no source). The regions' counts are three sweeps and a move of arcs, all through
+    # the broken double precision: the rescue carries them.
+    from numag.families.discriminant import DiscriminantOptions, discriminant
+    family = Family(parse_system(["x^2 + y^2 - r"], ["x", "y", "r"]), ("r",))
+    result = discriminant(family, DiscriminantOptions(at_infinity=False), seed=6)  # seed 11 alike
+    assert np.allclose(result.real_points, [0.0], atol=1e-10)
+    assert [(r.count.branches, r.count.failed) for r in result.regions] == [(0, 0), (1, 0)]
+    assert double_with_a_hole.precise_calls > 0

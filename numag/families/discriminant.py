@@ -61,13 +61,11 @@ from ..witness.cascade import combine_equations, linear_form, track_moves
 from ..witness.decompose import DecomposeOptions, decompose, holding_equations
 from ..singular.locus import minors_system
 from .branches import RealCount, real_counts
-from .plane import DiscriminantCurve, PlaneRegion, merge_cells, trace_discriminant_curve
-from .records import ComponentKind, decode_complex, decode_float, encode_complex, encode_float
+from .lines import discriminant_on_lines
+from .plane import CurvePoint, CurvePointKind, DiscriminantCurve, PlaneRegion, _box as plane_box, _nodes, merge_cells, trace_discriminant_curve
+from .records import REAL_TOLERANCE, ComponentKind, decode_complex, decode_float, encode_complex, encode_float
 
 __all__ = ["DiscriminantOptions", "DiscriminantComponent", "Region", "Discriminant", "discriminant"]
-
-#: Relative imaginary part under which a parameter value is real.
-REAL_TOLERANCE = 1e-8
 
 
 @dataclass(frozen=True)
@@ -87,6 +85,12 @@ class DiscriminantOptions:
         Also look for members singular at infinity in x (a second computation of the same size).
     curve : bool
         Two parameters: trace the real discriminant curve, find its cusps and nodes, merge the cells.
+    trace_lines : int
+        Two parameters, members that are not finite sets of points: parallel lines across which the curve is
+        traced (:mod:`numag.families.lines`).
+    components : bool
+        Decompose the incidence set into the discriminant's components (the most expensive step of a family
+        of curves with two parameters; the curve and the regions do not need it).
     """
 
     decompose: DecomposeOptions = DecomposeOptions()
@@ -95,6 +99,8 @@ class DiscriminantOptions:
     lines: int = 7
     at_infinity: bool = True
     curve: bool = True
+    trace_lines: int = 60
+    components: bool = True
 
 
 @dataclass
@@ -287,8 +293,13 @@ def discriminant(family, options=None, seed=None, progress=None, *, _balanced=Fa
         return _in_user_units(computed, factors, family)
     started = time.perf_counter()
     paths, notes = {}, []
-    components = _finite_components(family, codimension, options, rng, paths, notes, progress)
-    if options.at_infinity:
+    components = []
+    if options.components:
+        components = _finite_components(family, codimension, options, rng, paths, notes, progress)
+    else:
+        notes.append("The components of the discriminant were not computed (asked for): no dimensions, degrees or "
+                     "witness points.")
+    if options.at_infinity and options.components:
         components += _components_at_infinity(family, codimension, options, rng, paths, notes, progress)
     if any(c.kind == ComponentKind.EVERY_MEMBER for c in components):
         notes.append("Every member is singular somewhere (at infinity in x, or at a finite point): a component of "
@@ -303,10 +314,15 @@ def discriminant(family, options=None, seed=None, progress=None, *, _balanced=Fa
             cuts = np.union1d(real_points, _real_values(components, ComponentKind.AT_INFINITY))
             regions = _regions_on_line(family, cuts, rng, lambda value: np.array([value]), None)
     curve, plane_regions = None, []
-    if m == 2 and options.curve:
+    # members that are not finite sets of points (curves): the curve and the cells from lines (decision 0060)
+    on_lines = m == 2 and codimension != n and (options.curve or options.regions)
+    if on_lines:
+        curve, regions = _curve_and_cells_on_lines(family, codimension, options, rng, paths, notes, progress)
+    elif m == 2 and options.curve:
         curve = _traced_curve(family, codimension, options, rng, notes, progress)
     if m == 2 and options.regions:
-        regions = _regions_on_lines(family, options, rng, notes, progress)
+        if not on_lines:
+            regions = _regions_on_lines(family, options, rng, notes, progress)
         if curve is not None:
             plane_regions, conflicts = merge_cells(regions, curve)
             if conflicts:
@@ -356,6 +372,44 @@ def _in_user_units(result, factors, family):
             point.point = point.point * scale
     result.variables, result.equations = family.variables, family.system.to_texts()
     return result
+
+
+def _curve_and_cells_on_lines(family, codimension, options, rng, paths, notes, progress):
+    """Two parameters, members not finite: the curve traced across lines and the cells of vertical lines.
+
+    One sweep of the null-vector system on lines (:mod:`numag.families.lines`); the cells' samples are
+    counted together in one call.
+    """
+    low, high, missing = plane_box(family)
+    if missing:
+        notes.append(f"No [ranges] interval for {', '.join(missing)}: the curve is traced and the cells are on "
+                     "lines for -1 to 1 there.")
+    verticals = np.linspace(low[0], high[0], options.lines) if options.regions else []
+    # without the curve (--no-curve) two trace lines are the least the sweep takes; their links are dropped
+    trace_lines = options.trace_lines if options.curve else 2
+    if progress is not None:
+        progress(f"the discriminant on {trace_lines + len(verticals)} lines across the plane")
+    found = discriminant_on_lines(family, codimension, (low, high), verticals, trace_lines, rng)
+    _add_counts(paths, found.paths)
+    notes += found.notes
+    notes.append("The discriminant was met on lines of the parameter plane (the members are not finite sets of "
+                 "points): parts of it over multiple solutions of the line system (where a parameter enters only "
+                 "squared, such as a length 0 of a linkage) are neither traced nor cut the cells (the components "
+                 "list them when computed)"
+                 + ("; cusps and crossings are given at the traced accuracy (a cusp within about a line "
+                    "spacing)." if options.curve else "."))
+    special = _nodes(family, found.lifts, family.n_variables, float(np.linalg.norm(high - low))) \
+        + [CurvePoint(CurvePointKind.CUSP, point, False) for point in found.cusps] if options.curve else []
+    # failed paths of the sweep and arc ends that could be neither continued nor joined: where the picture may
+    # miss a piece (counted like the stalled arc ends of the other tracer)
+    curve = DiscriminantCurve(found.arcs, (low, high), special, found.failed + found.lost_links) \
+        if options.curve else None
+    cells = []
+    if options.regions:
+        if progress is not None:
+            progress("counting the real branches of one member per cell")
+        cells = _cells(family, found.cuts, rng)
+    return curve, cells
 
 
 def _traced_curve(family, codimension, options, rng, notes, progress):
@@ -586,8 +640,11 @@ def _minors_of(rows, codimension, rng, max_exact):
     return minors
 
 
-def _regions_on_line(family, real_points, rng, embed, line):
-    """Regions of a one-parameter family between its real discriminant points; their samples solved together."""
+def _intervals(real_points, fraction=0.5):
+    """The intervals of a line between its real discriminant points and one sample inside each.
+
+    A bounded interval's sample is at ``fraction`` of its length from its lower end.
+    """
     points = np.asarray(real_points, dtype=float)
     cuts = [-math.inf] + points.tolist() + [math.inf]
     width = max(1.0, float(np.ptp(points)) / 2 if len(points) else 1.0)
@@ -600,12 +657,36 @@ def _regions_on_line(family, real_points, rng, embed, line):
         elif math.isinf(high):
             sample = low + width
         else:
-            sample = (low + high) / 2
+            sample = low + fraction * (high - low)
         intervals.append((low, high))
         samples.append(sample)
+    return intervals, samples
+
+
+#: Where in a cell of a vertical line its sample is taken (from the lower end, as a fraction of its length).
+_CELL_FRACTION = 0.4
+
+
+def _regions_on_line(family, real_points, rng, embed, line):
+    """Regions of a one-parameter family between its real discriminant points; their samples solved together."""
+    intervals, samples = _intervals(real_points)
     counts = real_counts(family, np.array(samples)[:, None], seed=int(rng.integers(2 ** 63)))
     return [Region(low, high, embed(sample), count, line)
             for (low, high), sample, count in zip(intervals, samples, counts)]
+
+
+def _cells(family, cuts, rng):
+    """Cells of vertical lines p_1 = v cut at real discriminant values of p_2; all samples counted together."""
+    cells, samples = [], []
+    for value, points in cuts:
+        # off the middle: where a parameter enters only squared, the discriminant line p_2 = 0 (a length 0), which
+        # the line system does not see (decision 0060), lies exactly in the middle of the cell around it
+        intervals, along = _intervals(points, _CELL_FRACTION)
+        cells += [(value, low, high) for low, high in intervals]
+        samples += [[value, sample] for sample in along]
+    counts = real_counts(family, np.array(samples).reshape(-1, 2), seed=int(rng.integers(2 ** 63)))
+    return [Region(low, high, np.array(sample), count, value)
+            for (value, low, high), sample, count in zip(cells, samples, counts)]
 
 
 def _regions_on_lines(family, options, rng, notes, progress):

@@ -17,7 +17,10 @@ import numpy as np
 
 from ..errors import InputError
 
-__all__ = ["PointKind", "ComponentKind", "encode_complex", "decode_complex", "encode_float", "decode_float"]
+__all__ = ["REAL_TOLERANCE", "PointKind", "ComponentKind", "encode_complex", "decode_complex", "encode_float", "decode_float"]
+
+#: Relative imaginary part under which a parameter value is real.
+REAL_TOLERANCE = 1e-8
 
 
 class PointKind(str, enum.Enum):

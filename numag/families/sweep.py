@@ -72,6 +72,9 @@ class SweepOptions:
     balance : bool
         Track in balanced units (:class:`~numag.numeric.scaling.Scaling` of x and p together, powers of
         ten): a family in millimetres sweeps as in metres. Points and values are reported in the user's units.
+    start : str
+        The start system of the one solve at the random value ("total-degree", "polyhedral", ...; see
+        :class:`~numag.tracking.solve.SolveOptions`).
     """
 
     tracker: TrackerOptions = TrackerOptions()
@@ -80,6 +83,7 @@ class SweepOptions:
     real_tolerance: float = 1e-8
     singular_condition: float = 1e8
     balance: bool = True
+    start: str = "total-degree"
 
 
 class SweepHomotopy:
@@ -121,8 +125,9 @@ class SweepHomotopy:
         self._precise = None  # built on the first rescue in mpmath
 
     def labels_of(self, points):
-        """The value number of each point (from its label coordinate)."""
-        return np.rint(points[:, -1].real / LABEL_UNIT).astype(np.int64) - 1
+        """The value number of each point (from its label coordinate; -1 for a failed path's non-finite point)."""
+        label = np.nan_to_num(points[:, -1].real / LABEL_UNIT, nan=0.0, posinf=0.0, neginf=0.0)
+        return np.rint(label).astype(np.int64) - 1
 
     def system_of(self, points):
         """The value number of each point: the tracking service never takes endpoints of two values for one."""
@@ -442,7 +447,7 @@ def sweep(family, values, options=None, seed=None, progress=None, execution=None
     family, x_factors, p_factors = _in_computed_units(family, options.balance)
     values = values / p_factors
     start_parameters = (rng.standard_normal(family.n_parameters) + 1j * rng.standard_normal(family.n_parameters))
-    start = solve_system(family.member(list(start_parameters)), SolveOptions(tracker=options.tracker),
+    start = solve_system(family.member(list(start_parameters)), SolveOptions(tracker=options.tracker, start=options.start),
                          seed=int(rng.integers(2 ** 63)))
     solutions = np.array([s.point for s in start.solutions if s.isolated and s.multiplicity == 1],
                          dtype=complex).reshape(-1, family.n_variables)

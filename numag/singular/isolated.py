@@ -76,14 +76,33 @@ class IsolatedSingularPoints:
     not_isolated: int = 0
 
 
-def null_vector_system(system, codimension, rng):
+def null_vector_system(system, codimension, rng, n_columns=None):
     """F(x) = 0, lambda^T A J(x) B = 0 and b . lambda = 1 in the unknowns (x, lambda), lambda in C^c.
 
     A (c x m), B (n x n) and b are random. Over a point x of X where rank J = c there is no lambda; over a
     point of corank r the lambdas form an affine space of dimension r - 1 (a positive-dimensional
-    fibre when r >= 2): callers project to x and measure the dimension there.
+    fibre when r >= 2): callers project to x and measure the dimension there. b is complex on purpose:
+    with a real b, b . lambda = 0 at isolated real points of a real curve of rank drops, and lambda runs
+    off to infinity there (measured: arcs of a traced discriminant broke at such points).
+
+    Parameters
+    ----------
+    system : PolynomialSystem
+    codimension : int
+    rng : numpy.random.Generator
+    n_columns : int, optional
+        Only the first ``n_columns`` columns of J (the x of a family F(x, p), whose parameters follow
+        x): the rank in x alone. All columns when omitted.
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> family = parse_system(["x^2 + y^2 - r"], ["x", "y", "r"])
+    >>> null_vector_system(family, 1, np.random.default_rng(1), n_columns=2).n_equations
+    4
     """
     n, m = system.n_variables, system.n_equations
+    columns = n if n_columns is None else int(n_columns)
     total = n + codimension
     a = (rng.standard_normal((codimension, m)) + 1j * rng.standard_normal((codimension, m))) / math.sqrt(2 * m)
     b = rng.standard_normal(codimension) + 1j * rng.standard_normal(codimension)
@@ -96,15 +115,16 @@ def null_vector_system(system, codimension, rng):
     # with J's own columns, one that vanishes at a special point (the linkage's sine columns at its
     # branch points) puts a whole lambda plane over that point into the intermediate sets of the
     # witness sweep, and paths must start from singular points there.
-    b_matrix = (rng.standard_normal((n, n)) + 1j * rng.standard_normal((n, n))) / math.sqrt(2 * n)
-    gradients = [[lifted[k].derivative(l) for l in range(n)] for k in range(m)]
+    b_matrix = (rng.standard_normal((columns, columns)) + 1j * rng.standard_normal((columns, columns))) \
+        / math.sqrt(2 * columns)
+    gradients = [[lifted[k].derivative(l) for l in range(columns)] for k in range(m)]
     equations = list(lifted)
-    for j in range(n):
+    for j in range(columns):
         row = Polynomial.zero(total)
         for i in range(codimension):
             combined = Polynomial.zero(total)
             for k in range(m):
-                for l in range(n):
+                for l in range(columns):
                     if not gradients[k][l].is_zero():
                         combined = combined + gradients[k][l] * complex(a[i, k] * b_matrix[l, j])
             row = row + lambdas[i] * combined

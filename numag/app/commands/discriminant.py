@@ -35,6 +35,12 @@ def add_parser(commands):
                          help="two parameters: skip tracing the real discriminant curve (and merging the cells)")
     command.add_argument("--lines", type=int, default=DiscriminantOptions.lines, metavar="N",
                          help="two parameters: vertical lines across the first one's range (default %(default)s)")
+    command.add_argument("--trace-lines", type=int, default=DiscriminantOptions.trace_lines, metavar="N",
+                         help="two parameters, members that are curves: parallel lines the curve is traced across "
+                              "(default %(default)s)")
+    command.add_argument("--no-components", action="store_true",
+                         help="skip decomposing the incidence set (no dimensions or degrees; the curve and the "
+                              "regions remain)")
     command.add_argument("--seed", type=_seed, help="seed of the random choices (recorded in the report)")
     command.add_argument("--output", metavar="JSON", help="save the result (reload with numag.load)")
     command.add_argument("--svg", metavar="FILE", help="draw the result (regions and counts) as an SVG picture")
@@ -144,8 +150,11 @@ def run(args, out):
         raise SystemFileError("has no 'parameters': a discriminant is of a family", args.system_file, "parameters")
     if not 1 <= args.lines <= 1000:
         raise NumagError(f"--lines must be from 1 to 1000, got {args.lines}")
+    if not 2 <= args.trace_lines <= 10000:
+        raise NumagError(f"--trace-lines must be from 2 to 10000, got {args.trace_lines}")
     options = DiscriminantOptions(regions=not args.no_regions, at_infinity=not args.no_infinity, lines=args.lines,
-                                  curve=not args.no_curve)
+                                  curve=not args.no_curve, trace_lines=args.trace_lines,
+                                  components=not args.no_components)
     with _stage_executor(args) as executor, using(executor):
         result = discriminant(family, options, seed=args.seed, progress=_progress(args))
     if args.output:

@@ -1,0 +1,420 @@
+"""Two parameters, met on lines: the real discriminant curve and the cells of the plane from one sweep.
+
+For a family whose members are curves (a linkage with two free lengths) the incidence set S in (x, p)
+has more equations than unknowns, and tracing its real curve was measured far too slow (decision 0054:
+a four-bar with two free lengths was not traced after 15 minutes). Here the discriminant is met on lines
+of the parameter plane. On the line p = o + t d the null-vector system
+
+    F(x, o + t d) = 0,   lambda^T A J_x F(x, o + t d) B = 0,   b . lambda = 1
+
+(:func:`numag.singular.isolated.null_vector_system` with the columns of x only)
+is square in (x, lambda, t); its solutions are the singular points of the members on the line, and their
+real t are the line's real discriminant points (also those over non-real singular points). With (o, d)
+as the four parameters of one family every line is one member, and one sweep solves all lines together.
+
+* **Trace** (:func:`discriminant_on_lines`): parallel lines in a random real direction across the box;
+  each real point is moved along the real segment (gamma = 1: the continuation of the real curve) to the
+  next line and linked to the real point it reaches. A point where several paths meet (a double line of
+  the discriminant, such as a length 0 of a linkage) cannot be moved in double precision: it is linked to
+  the nearest such point of the next line. Two arc ends on one line whose moves were lost (the real pair
+  turned complex: a fold of the curve between the lines) and that are neighbours on the line are joined.
+  Chains of links are the polylines.
+* **Cells**: the real points on vertical lines p_1 = v cut each line into intervals (the caller counts
+  one sample per interval, all in one call).
+
+Examples
+--------
+>>> from numag.system.parse import parse_system
+>>> from numag.system.family import Family
+>>> circle = Family(parse_system(["x^2 + y^2 - r - s"], ["x", "y", "r", "s"]), ("r", "s"))
+>>> found = discriminant_on_lines(circle, 1, ((-1.0, -1.0), (1.0, 1.0)), [0.0], 12, np.random.default_rng(1))
+>>> [np.round(cuts, 8).tolist() for _, cuts in found.cuts]   # r + s = 0 meets r = 0 at s = 0
+[[0.0]]
+"""
+
+from dataclasses import dataclass, field
+import math
+
+import numpy as np
+
+from ..system.family import Family
+from ..system.polynomial import Polynomial, PolynomialSystem
+from ..numeric.cluster import cluster_labels, connected_components, groups
+from ..tracking.tracker import TrackerOptions
+from ..singular.isolated import null_vector_system
+from .records import REAL_TOLERANCE, PointKind
+from .sweep import SweepOptions, move_points, sweep
+
+__all__ = ["LineDiscriminant", "line_family", "discriminant_on_lines"]
+
+#: Real t values of one line closer than this (relative) are one discriminant point: a double root of the
+#: line's discriminant is known to about the square root of the precision.
+_SAME_T = 1e-6
+#: A moved point reached a real point of the next line when closer than this (relative, in (x, lambda, t)).
+_SAME_POINT = 1e-6
+#: Multiple points are linked across at most this many line spacings.
+_REACH = 10.0
+#: Moves between lines are tracked in double precision only.
+_NO_RESCUE = SweepOptions(tracker=TrackerOptions(rescue_digits=0))
+
+
+@dataclass
+class LineDiscriminant:
+    """The real discriminant on lines of a two-parameter family.
+
+    Attributes
+    ----------
+    arcs : list of ndarray, shape (P, 2)
+        Polylines of the real discriminant curve in the parameter plane.
+    lifts : list of ndarray, shape (P, n + 2)
+        The same polylines with the real parts of a singular point x in front (for the node search).
+    cuts : list of (float, ndarray)
+        Per vertical line p_1 = v: v and the sorted distinct real discriminant values of p_2 on it.
+    failed : int
+        Paths of the sweep that failed; the picture may miss a piece where it is not zero.
+    lost_links : int
+        Arc ends in the box whose move to the neighbouring line was lost and that were joined to no neighbour
+        (a gap in the picture).
+    notes : list of str
+    paths : dict
+        The sweep's tracked paths by status.
+    cusps : list of ndarray, shape (2,)
+        Joins of two arc ends that arrive side by side in one direction (a cusp, not a fold), at the traced
+        accuracy: within about a line spacing.
+    """
+
+    arcs: list
+    lifts: list
+    cuts: list
+    failed: int = 0
+    lost_links: int = 0
+    notes: list = field(default_factory=list)
+    paths: dict = field(default_factory=dict)
+    cusps: list = field(default_factory=list)
+
+
+def _free_name(base, taken):
+    name = base
+    while name in taken:
+        name += "_"
+    return name
+
+
+def _composed(polynomial, images, size):
+    """The polynomial with variable j replaced by the polynomial ``images[j]`` (in ``size`` variables)."""
+    result = Polynomial.zero(size)
+    powers = {}
+    for row, coefficient in zip(polynomial.exponents, polynomial.numeric_coefficients()):
+        term = Polynomial.constant(complex(coefficient), size)
+        for j in np.nonzero(row)[0]:
+            key = (int(j), int(row[j]))
+            if key not in powers:
+                powers[key] = images[j] ** int(row[j])
+            term = term * powers[key]
+        result = result + term
+    return result
+
+
+def line_family(family, codimension, rng):
+    """The null-vector system of a two-parameter family on the line p = o + t d, (o, d) its parameters.
+
+    Parameters
+    ----------
+    family : Family
+        Two parameters.
+    codimension : int
+        Of a generic member (the rank J_x must reach).
+    rng : numpy.random.Generator
+
+    Returns
+    -------
+    Family
+        Unknowns (x, lambda, t), parameters (o_1, o_2, d_1, d_2): square.
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> circle = Family(parse_system(["x^2 + y^2 - r"], ["x", "y", "r", "s"]), ("r", "s"))
+    >>> lines = line_family(circle, 1, np.random.default_rng(0))
+    >>> lines.n_variables, lines.system.n_equations, lines.parameters[0]
+    (4, 4, 'o1')
+    """
+    n, c = family.n_variables, codimension
+    augmented = null_vector_system(family.system, c, rng, n_columns=n)  # unknowns (x, p, lambda)
+    taken = set(augmented.variables)
+    t = _free_name("t", taken)
+    parameters = [_free_name(name, taken | {t}) for name in ("o1", "o2", "d1", "d2")]
+    size = n + c + 1 + 4
+    variable = [Polynomial.variable(j, size) for j in range(size)]
+    along = variable[n + c]
+    images = variable[:n] + [variable[n + c + 1 + i] + along * variable[n + c + 3 + i] for i in range(2)] \
+        + variable[n:n + c]
+    polynomials = [_composed(p, images, size) for p in augmented.polynomials]
+    names = list(augmented.variables[:n]) + list(augmented.variables[n + 2:]) + [t] + parameters
+    return Family(PolynomialSystem(names, polynomials, name=f"{family.system.name or 'family'} on lines"),
+                  tuple(parameters))
+
+
+@dataclass
+class _Line:
+    """The real points of one line: full points (x, lambda, t), their t-clusters, the clusters' p."""
+
+    origin: np.ndarray
+    direction: np.ndarray
+    points: np.ndarray      # (S, n + c + 1) complex, real t
+    multiple: np.ndarray    # (S,) bool: several paths meet there
+    cluster: np.ndarray     # (S,) int: index into t_values
+    t_values: np.ndarray    # (Q,) sorted distinct real t
+
+    def plane(self, clusters):
+        return self.origin + np.asarray(self.t_values)[clusters, None] * self.direction
+
+
+def _real_points(member, origin, direction):
+    points = member.points
+    if len(points) == 0:
+        return _Line(origin, direction, np.zeros((0, 0), complex), np.zeros(0, bool), np.zeros(0, np.int64),
+                     np.zeros(0))
+    t = points[:, -1]
+    real = np.abs(t.imag) <= REAL_TOLERANCE * (1 + np.abs(t))
+    points = points[real]
+    multiple = np.array([k == PointKind.RANK_DROP for k, r in zip(member.kinds, real) if r], dtype=bool)
+    values = points[:, -1].real
+    if len(values) == 0:
+        return _Line(origin, direction, points, multiple, np.zeros(0, np.int64), np.zeros(0))
+    labels = cluster_labels(values.astype(complex)[:, None], _SAME_T)
+    members_of = groups(labels)
+    means = np.array([values[g].mean() for g in members_of])
+    order = np.argsort(means)
+    rank = np.empty(len(order), dtype=np.int64)
+    rank[order] = np.arange(len(order))
+    cluster = np.empty(len(values), dtype=np.int64)
+    for g, group in enumerate(members_of):
+        cluster[group] = rank[g]
+    return _Line(origin, direction, points, multiple, cluster, means[order])
+
+
+def discriminant_on_lines(family, codimension, box, verticals, trace_lines, rng):
+    """The real discriminant curve of a two-parameter family traced across lines, and the cuts of vertical lines.
+
+    Parameters
+    ----------
+    family : Family
+        Two parameters, real coefficients.
+    codimension : int
+    box : (array_like, array_like)
+        Lower and upper corners in the parameter plane; the curve is traced in the box enlarged by half
+        its size on every side.
+    verticals : sequence of float
+        Values v of the lines p_1 = v whose real discriminant points are returned (the cells' lines).
+    trace_lines : int
+        Parallel lines of the trace (the polylines' resolution: the box's diagonal over about this).
+    rng : numpy.random.Generator
+
+    Returns
+    -------
+    LineDiscriminant
+    """
+    low, high = (np.asarray(corner, dtype=float) for corner in box)
+    lines = line_family(family, codimension, rng)
+    span = high - low
+    # the cells are joined up to half the box beyond it: the trace goes a little further, so that no arc ends
+    # a line spacing short of that edge and leaves a false passage there
+    outer_low, outer_high = low - 0.625 * span, high + 0.625 * span
+    angle = rng.uniform(0.0, math.pi)
+    direction = np.array([math.cos(angle), math.sin(angle)])
+    normal = np.array([-direction[1], direction[0]])
+    corners = np.array([[a, b] for a in (outer_low[0], outer_high[0]) for b in (outer_low[1], outer_high[1])])
+    offsets = np.linspace((corners @ normal).min(), (corners @ normal).max(), max(int(trace_lines), 2))
+    spacing = float(offsets[1] - offsets[0])
+    values = [np.concatenate([s * normal, direction]) for s in offsets]
+    values += [np.array([v, 0.0, 0.0, 1.0]) for v in verticals]
+    # measured on a four-bar with two free lengths: 48 polyhedral paths against 128 of total degree, most of
+    # them to the circular points at infinity (12.8 s against 18.5 s of processor time for the one solve)
+    swept = sweep(lines, np.array(values), SweepOptions(start="polyhedral"), seed=int(rng.integers(2 ** 63)))
+    failed = swept.failed + int(swept.paths.get("start_failed", 0))
+    traced = [_real_points(member, value[:2], value[2:]) for member, value in zip(swept.values[:len(offsets)],
+                                                                                   values)]
+    cuts = [(float(v), _real_points(member, np.array([v, 0.0]), np.array([0.0, 1.0])).t_values)
+            for v, member in zip(verticals, swept.values[len(offsets):])]
+    # the points a little beyond the lines' reach are kept too: a fold's other arc may leave the box there
+    keep_low, keep_high = low - 1.25 * span, high + 1.25 * span
+    for line in traced:
+        inside = np.all((line.plane(line.cluster) >= keep_low) & (line.plane(line.cluster) <= keep_high), axis=1) \
+            if len(line.points) else np.zeros(0, bool)
+        line.points, line.multiple, line.cluster = line.points[inside], line.multiple[inside], line.cluster[inside]
+    edges, unjoined = _links(lines, traced, spacing, rng)
+    # an unjoined end beyond the box is a fold whose other arc lies beyond the points kept: no gap in the box
+    lost = sum(bool(np.all((traced[k].plane([c])[0] >= low) & (traced[k].plane([c])[0] <= high)))
+               for k, c in unjoined)
+    arcs, lifts = _polylines(traced, edges, family.n_variables)
+    cusps = _cusps_at_joins(traced, edges)
+    notes = []
+    if failed:
+        notes.append(f"{failed} paths of the sweep across the lines failed: a piece of the curve may be missing.")
+    if lost:
+        notes.append(f"{lost} arc {'end' if lost == 1 else 'ends'} of the traced curve could not be continued to the "
+                     "next line and joined to no neighbour: the picture may have a gap there.")
+    return LineDiscriminant(arcs, lifts, cuts, failed, lost, notes, dict(swept.paths), cusps)
+
+
+def _moves(lines_family, traced, moves, rng):
+    """Move real points (line k, point i) to line k2 along the real segment, all together.
+
+    Returns, per move, the index of the real point of line k2 reached (None where none) and whether the
+    move was lost (failed, or reached a non-real point: the real pair turned complex at a fold).
+    """
+    if not moves:
+        return []
+    starts = [np.concatenate([traced[k].origin, traced[k].direction]) for k, _, _ in moves]
+    targets = [np.concatenate([traced[k2].origin, traced[k2].direction]) for _, _, k2 in moves]
+    points = [traced[k].points[i] for k, i, _ in moves]
+    # no mpmath rescue: a move that fails in double precision along the real segment meets a fold (a branch point
+    # on the segment), where more digits cannot help (measured: a parabola's fold cost 3,658 precise evaluations,
+    # most of the trace's time)
+    ends, _ = move_points(lines_family, starts, points, targets, real_segment=True, seed=int(rng.integers(2 ** 63)),
+                          options=_NO_RESCUE)
+    results = []
+    for (_, _, k2), end in zip(moves, ends):
+        there = traced[k2]
+        if not np.all(np.isfinite(end)):
+            results.append((None, True))
+            continue
+        if len(there.points):
+            distance = np.linalg.norm(there.points - end, axis=1)
+            j = int(np.argmin(distance))
+            if distance[j] <= _SAME_POINT * (1 + np.linalg.norm(end)):
+                results.append((j, False))
+                continue
+        t = end[-1]
+        results.append((None, abs(t.imag) > REAL_TOLERANCE * (1 + abs(t))))
+    return results
+
+
+def _links(lines_family, traced, spacing, rng):
+    """Edges between clusters (line, t-cluster) of the same or neighbouring lines, and the lost ends left unjoined
+    (a set of (line, cluster))."""
+    edges = set()
+    moves = [(k, int(i), k + 1) for k in range(len(traced) - 1) for i in np.nonzero(~traced[k].multiple)[0]]
+    results = _moves(lines_family, traced, moves, rng)
+    linked, lost_forward = set(), set()
+    for (k, i, k2), (reached, lost) in zip(moves, results):
+        node = (k, int(traced[k].cluster[i]))
+        if reached is not None:
+            edges.add((node, (k2, int(traced[k2].cluster[reached]))))
+            linked.add(node)
+        elif lost:
+            lost_forward.add(node)
+    lost_forward -= linked
+    # points nothing reached: moved back, to tell a fold (lost) from an arc entering the box
+    targets = {b for _, b in edges}
+    backward = [(k, int(i), k - 1) for k in range(1, len(traced)) for i in np.nonzero(~traced[k].multiple)[0]
+                if (k, int(traced[k].cluster[i])) not in targets]
+    results = _moves(lines_family, traced, backward, rng)
+    lost_backward, linked = set(), set()
+    for (k, i, k2), (reached, lost) in zip(backward, results):
+        node = (k, int(traced[k].cluster[i]))
+        if reached is not None:
+            edges.add(((k2, int(traced[k2].cluster[reached])), node))
+            linked.add(node)
+        elif lost:
+            lost_backward.add(node)
+    lost_backward -= linked
+    # several paths meeting: a double line of the discriminant; the nearest multiple point of the next line
+    for k in range(len(traced) - 1):
+        here, there = traced[k], traced[k + 1]
+        mine = np.unique(here.cluster[here.multiple])
+        theirs = np.unique(there.cluster[there.multiple])
+        if not len(mine) or not len(theirs):
+            continue
+        distance = np.linalg.norm(here.plane(mine)[:, None, :] - there.plane(theirs)[None, :, :], axis=2)
+        for row, cluster in enumerate(mine):
+            column = int(np.argmin(distance[row]))
+            if int(np.argmin(distance[:, column])) == row and distance[row, column] <= _REACH * spacing:
+                edges.add(((k, int(cluster)), (k + 1, int(theirs[column]))))
+    # two lost ends side by side on one line: a fold of the curve between this line and its neighbour
+    for ends_of in (lost_forward, lost_backward):
+        by_line = {}
+        for k, cluster in ends_of:
+            by_line.setdefault(k, []).append(cluster)
+        for k, clusters in by_line.items():
+            clusters.sort()
+            values = traced[k].t_values
+            for first, second in zip(clusters[:-1], clusters[1:]):
+                # a real pair turns complex only by meeting: two neighbours whose moves both went complex met
+                # between the lines, however far apart they are on this one (a flat fold)
+                if second == first + 1:
+                    edges.add(((k, first), (k, second)))
+    joined = {node for a, b in edges if a[0] == b[0] for node in (a, b)}
+    # failed moves are not counted as failures: at a fold the real path meets a branch point and the tracker
+    # stops there; an end that is left unjoined is returned instead
+    return edges, (lost_forward | lost_backward) - joined
+
+
+#: Two arcs joined on one line arrive at a cusp when their last steps point the same way (cosine above this); at a
+#: fold they converge from opposite sides (common practice, no source: the branches of a cusp share their tangent,
+#: those of a fold of the projection continue each other).
+_CUSP_COSINE = 0.5
+
+
+def _cusps_at_joins(traced, edges):
+    """The joins of two arc ends on one line that are cusps: both arcs arrive pointing the same way."""
+    neighbours = {}
+    for a, b in edges:
+        neighbours.setdefault(a, []).append(b)
+        neighbours.setdefault(b, []).append(a)
+    cusps = []
+    for a, b in edges:
+        if a[0] != b[0]:
+            continue
+        steps = []
+        for node in (a, b):
+            before = [other for other in neighbours[node] if other[0] != node[0]]
+            if len(before) != 1:
+                break
+            here = traced[node[0]].plane([node[1]])[0]
+            steps.append(here - traced[before[0][0]].plane([before[0][1]])[0])
+        if len(steps) == 2:
+            first, second = (step / max(np.linalg.norm(step), 1e-300) for step in steps)
+            if first @ second > _CUSP_COSINE:
+                cusps.append(0.5 * (traced[a[0]].plane([a[1]])[0] + traced[b[0]].plane([b[1]])[0]))
+    return cusps
+
+
+def _polylines(traced, edges, n):
+    """Chains of the edges as polylines (a node of more than two edges ends the chains through it)."""
+    degree = {}
+    for a, b in edges:
+        degree[a] = degree.get(a, 0) + 1
+        degree[b] = degree.get(b, 0) + 1
+    kept = [(a, b) for a, b in sorted(edges) if degree[a] <= 2 and degree[b] <= 2]
+    nodes = sorted({node for edge in kept for node in edge})
+    index = {node: k for k, node in enumerate(nodes)}
+    neighbours = {node: [] for node in nodes}
+    for a, b in kept:
+        neighbours[a].append(b)
+        neighbours[b].append(a)
+    component = connected_components(len(nodes), [(index[a], index[b]) for a, b in kept])
+    arcs, lifts = [], []
+    for label in np.unique(component):
+        members = [nodes[k] for k in np.nonzero(component == label)[0]]
+        ends = [node for node in members if len(neighbours[node]) == 1]
+        start = ends[0] if ends else members[0]  # a closed curve starts anywhere
+        walk, previous = [start], None
+        while True:
+            following = [node for node in neighbours[walk[-1]] if node != previous and node != walk[0]]
+            if not following:
+                if not ends and len(walk) > 2:
+                    walk.append(walk[0])  # close the loop
+                break
+            previous = walk[-1]
+            walk.append(following[0])
+        lift = []
+        for k, cluster in walk:
+            line = traced[k]
+            representative = line.points[np.nonzero(line.cluster == cluster)[0][0]]
+            lift.append(np.concatenate([representative[:n].real, line.plane([cluster])[0]]))
+        lift = np.array(lift)
+        arcs.append(lift[:, n:].copy())
+        lifts.append(lift)
+    return arcs, lifts
