@@ -50,7 +50,7 @@ from ..tracking.service import PathCounts
 from ..tracking.tracker import rescue_budget
 from .cascade import (WitnessOptions, combine_equations, held_parts, jacobian_rank, linear_form, membership, random_rows,
                       track_moves, witness_supersets)
-from .fibres import EMPTY_FIBRE, FiniteBlock, fibre_system, finite_block, solve_block
+from .fibres import EMPTY_FIBRE, WHOLE_FIBRE, FiniteBlock, fibre_system, finite_block, solve_block
 
 __all__ = ["Component", "Decomposition", "DecomposeOptions", "decompose", "components_through"]
 
@@ -650,8 +650,18 @@ def _fibred_decomposition(system, options, rng, seed, started, progress):
     _add_flat(counts, split.paths)
     components, loops = [], {}
     real_coefficients = system.has_real_coefficients
+    m = n - len(columns)
     for root, root_real, fibre in zip(split.roots, split.real, fibres):
-        if isinstance(fibre, str) or lowest > fibre.n_variables:  # no point over this root (or none searched)
+        if fibre is EMPTY_FIBRE or lowest > m:  # no point over this root (or none searched)
+            continue
+        if fibre is WHOLE_FIBRE:  # X_r is all of C^m: one linear component, its witness point on m random slices
+            rows = np.zeros((m, n + 1))
+            rows[:, [0] + [j + 1 for j in others]] = rng.standard_normal((m, m + 1))
+            point = np.empty(n, dtype=complex)
+            point[others], point[columns] = np.linalg.solve(rows[:, [j + 1 for j in others]], -rows[:, 0]), root
+            components.append(Component(id=0, dimension=m, degree=1, points=point[None, :],
+                                        real=np.array([bool(root_real) and real_coefficients]), multiplicity=1,
+                                        reduced=True, slice_rows=rows))
             continue
         if progress is not None:
             progress(f"the fibre over {short_point(root)} of the block in "
@@ -672,9 +682,10 @@ def _fibred_decomposition(system, options, rng, seed, started, progress):
     for k, component in enumerate(components, 1):
         component.id = k
     counts.update(_degree_checks(system, components))
-    searched = list(range(n - len(columns), lowest - 1, -1))
+    searched = list(range(m, lowest - 1, -1))
     extra = {"fibres": {"unknowns": [system.variables[j] for j in columns], "equations": list(block.equations),
-                        "roots": len(split.roots), "empty": sum(isinstance(f, str) for f in fibres)}}
+                        "roots": len(split.roots), "empty": sum(f is EMPTY_FIBRE for f in fibres),
+                        "whole": sum(f is WHOLE_FIBRE for f in fibres)}}
     return Decomposition(system, components, searched, counts, loops, seed, time.perf_counter() - started,
                          extra=extra, fibred_over=block)
 
@@ -805,6 +816,8 @@ def _components_through_fibre(decomposition, point, seed, options):
     if not same:  # the point is in no fibre of X
         return []
     fibre = fibre_system(decomposition.system, block, same[0].points[0, columns])
+    if fibre is WHOLE_FIBRE:  # X_r is the whole space: its one component holds every point of the fibre
+        return same
     if fibre is None or fibre is EMPTY_FIBRE:  # not expected for a fibre with components: test in the whole space
         return components_through(replace(decomposition, components=same, fibred_over=None), point, seed, options)
     inner = [replace(c, points=c.points[:, others], slice_rows=c.slice_rows[:, [0] + [j + 1 for j in others]])

@@ -34,7 +34,7 @@ import numpy as np
 from ..system.polynomial import PolynomialSystem, Polynomial
 from ..tracking.solve import SolveOptions, solve_system
 
-__all__ = ["FiniteBlock", "BlockSplit", "finite_block", "solve_block", "fibre_system", "EMPTY_FIBRE"]
+__all__ = ["FiniteBlock", "BlockSplit", "finite_block", "solve_block", "fibre_system", "EMPTY_FIBRE", "WHOLE_FIBRE"]
 
 #: An equation whose substituted coefficients are this small relative to the sizes of its terms vanishes on
 #: the fibre (the root carries double-precision rounding, 1e-16 relative, amplified by the degree).
@@ -79,6 +79,8 @@ class BlockSplit:
 
 #: What :func:`fibre_system` returns for a root over which some equation is a nonzero constant.
 EMPTY_FIBRE = "empty"
+#: What :func:`fibre_system` returns for a root over which every other equation vanishes (X_r is all of C^m).
+WHOLE_FIBRE = "whole"
 
 
 def finite_block(system):
@@ -165,11 +167,11 @@ def fibre_system(system, block, root):
 
     Returns
     -------
-    PolynomialSystem, EMPTY_FIBRE or None
+    PolynomialSystem, EMPTY_FIBRE, WHOLE_FIBRE or None
         The fibre's system (equations that vanish there dropped); :data:`EMPTY_FIBRE` when an equation
-        is a nonzero constant there; None when an equation's size there is too close to rounding to
-        decide whether it vanishes (then the split is not used), or when every equation vanishes (the
-        fibre is the whole space of the other unknowns, which the caller does not lift).
+        is a nonzero constant there; :data:`WHOLE_FIBRE` when every equation vanishes there (X_r is the
+        whole space of the other unknowns); None when an equation's size there is too close to rounding
+        to decide whether it vanishes (then the split is not used).
     """
     indices = list(block.variables)
     block_equations = set(block.equations)
@@ -178,8 +180,10 @@ def fibre_system(system, block, root):
         if k in block_equations:
             continue  # in the block's unknowns only: zero at every root by construction
         fixed = polynomial.fix_variables(indices, root)
-        # sizes of the terms that were merged: where they cancel, the equation vanishes on the fibre
-        sizes = polynomial.absolute().fix_variables(indices, np.abs(root))
+        # The sizes of its terms with each block coordinate at least 1 (the system is balanced: 1 is the
+        # scale of its unknowns): small beside them, the equation vanishes on the fibre, by cancellation
+        # of merged terms or by a factor of a block coordinate whose root is 0 up to rounding.
+        sizes = polynomial.absolute().fix_variables(indices, np.maximum(np.abs(root), 1.0))
         size = float(np.linalg.norm(sizes.numeric_coefficients()))
         relative = float(np.linalg.norm(fixed.numeric_coefficients())) / size if size > 0 else 0.0
         if relative <= _VANISHES:
@@ -190,6 +194,6 @@ def fibre_system(system, block, root):
             return EMPTY_FIBRE
         kept.append(fixed)
     if not kept:
-        return None
+        return WHOLE_FIBRE
     others = [name for j, name in enumerate(system.variables) if j not in set(indices)]
     return PolynomialSystem(others, kept, name=f"{system.name or 'system'} over a root of its block")
