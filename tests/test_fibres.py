@@ -96,3 +96,17 @@ def test_singular_points_with_an_auxiliary_unknown_match_sympy(seed):
         assert np.sum(np.linalg.norm(found - point, axis=1) <= 1e-8) == 1
     real = [bool(c.real[0]) for c in points]
     assert sum(real) == sum(bool(np.all(np.abs(p.imag) < 1e-12)) for p in expected)
+
+
+def test_whole_fibre_is_one_linear_component():
+    # common practice, no source: over z = 0 the first equation vanishes (the plane z = 0); over z = 1 a
+    # circle and a line; a point is on the component of its own fibre only
+    system = parse_system(["(x^2 + y^2 - 1)*(x - y)*z", "z^2 - z"], ["x", "y", "z"])
+    result = decompose(system, seed=6)
+    assert result.extra["fibres"]["whole"] == 1
+    by_kind = {(c.dimension, c.degree): c for c in result.components}
+    assert sorted(by_kind) == [(1, 1), (1, 2), (2, 1)]
+    assert components_through(result, [0.3, 0.7, 0], seed=1) == [by_kind[(2, 1)]]
+    assert components_through(result, [0.6, 0.8, 1], seed=1) == [by_kind[(1, 2)]]
+    assert components_through(result, [0.6, 0.6, 1], seed=1) == [by_kind[(1, 1)]]
+    assert components_through(result, [0.6, 0.6, 2], seed=1) == []

@@ -20,6 +20,10 @@ are split into irreducible components:
   to the equations (isosingular deflation, Hauenstein and Wampler, "Isosingular
   sets and deflation", Found. Comput. Math. 2013) until the Jacobian has full
   rank there, so that the witness points can be moved.
+* **fibres**: equations that involve only a few unknowns and fix them to finitely
+  many simple roots (an auxiliary algebraic number) are solved first, and X is
+  decomposed over each root in the other unknowns (:mod:`numag.witness.fibres`;
+  decision 0061).
 
 Examples
 --------
@@ -46,7 +50,7 @@ from ..numeric.minors import (CombinedRows, EvaluatedMinors, AugmentedEvaluator,
                               random_minor_weights)
 from ..numeric.scaling import Scaling
 from ..numeric.seeds import random_state, resolved_seed
-from ..tracking.service import PathCounts
+from ..tracking.service import PathCounts, add_path_counts
 from ..tracking.tracker import rescue_budget
 from .cascade import (WitnessOptions, combine_equations, held_parts, jacobian_rank, linear_form, membership, random_rows,
                       track_moves, witness_supersets)
@@ -647,7 +651,7 @@ def _fibred_decomposition(system, options, rng, seed, started, progress):
     lowest = options.witness.lowest_dimension or 0
     counts = {"tracked": 0, "not_on_X": 0, "at_infinity_or_failed": 0, "on_larger_component": 0,
               "membership_paths": 0}
-    _add_flat(counts, split.paths)
+    add_path_counts(counts, split.paths)
     components, loops = [], {}
     real_coefficients = system.has_real_coefficients
     m = n - len(columns)
@@ -667,7 +671,7 @@ def _fibred_decomposition(system, options, rng, seed, started, progress):
             progress(f"the fibre over {short_point(root)} of the block in "
                      f"{', '.join(system.variables[j] for j in columns)}")
         part = decompose(fibre, options, seed=int(rng.integers(2**32)), progress=progress)
-        _add_flat(counts, part.paths)
+        add_path_counts(counts, part.paths)
         for dimension, run in part.loops.items():
             loops[dimension] = loops.get(dimension, 0) + run
         for c in part.components:
@@ -688,15 +692,6 @@ def _fibred_decomposition(system, options, rng, seed, started, progress):
                         "whole": sum(f is WHOLE_FIBRE for f in fibres)}}
     return Decomposition(system, components, searched, counts, loops, seed, time.perf_counter() - started,
                          extra=extra, fibred_over=block)
-
-
-def _add_flat(total, counts):
-    """Add path counts into ``total``, the labels of nested blocks (failures by reason) at the top."""
-    for key, value in counts.items():
-        if isinstance(value, dict):
-            _add_flat(total, value)
-        elif isinstance(value, (int, np.integer)):
-            total[key] = total.get(key, 0) + int(value)
 
 
 def _degree_checks(system, components):
