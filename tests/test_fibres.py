@@ -110,3 +110,14 @@ def test_whole_fibre_is_one_linear_component():
     assert components_through(result, [0.6, 0.8, 1], seed=1) == [by_kind[(1, 2)]]
     assert components_through(result, [0.6, 0.6, 1], seed=1) == [by_kind[(1, 1)]]
     assert components_through(result, [0.6, 0.6, 2], seed=1) == []
+
+
+@pytest.mark.parametrize("seed", range(6))
+def test_root_zero_with_rounding(seed):
+    # common practice, no source: the node y^2 = x^2 (x + 1) with its partials has the one point (0, 0);
+    # the block -3x^2 - 2x = 0 gives x = 0 up to rounding, which must not leave a constant 1e-34 over it
+    system = parse_system(["y^2 - x^2*(x + 1)", "-3*x^2 - 2*x", "2*y"], ["x", "y"])
+    result = decompose(system, seed=seed)
+    assert result.fibred_over is not None
+    assert [(c.dimension, c.degree) for c in result.components] == [(0, 1)]
+    assert np.linalg.norm(result.components[0].points[0]) <= 1e-12

@@ -41,6 +41,9 @@ __all__ = ["FiniteBlock", "BlockSplit", "finite_block", "solve_block", "fibre_sy
 _VANISHES = 1e-10
 #: Above this relative size an equation clearly does not vanish there; between the two the split is not used.
 _SURVIVES = 1e-6
+#: A coefficient this small beside the terms merged into it is rounding of zero (far below the 1e-7 residual
+#: tolerance of witness points, far above the 1e-16 rounding of a root).
+_ROUNDING = 1e-12
 
 
 @dataclass(frozen=True)
@@ -182,10 +185,9 @@ def fibre_system(system, block, root):
     for k, polynomial in enumerate(system.polynomials):
         if k in block_equations:
             continue  # in the block's unknowns only: zero at every root by construction
-        fixed = polynomial.fix_variables(indices, root)
-        # The sizes of its terms with each block coordinate at least 1 (the system is balanced: 1 is the
-        # scale of its unknowns): small beside them, the equation vanishes on the fibre, by cancellation
-        # of merged terms or by a factor of a block coordinate whose root is 0 up to rounding.
+        fixed = _fixed_without_rounding(polynomial, indices, root)
+        # the sizes of its terms with each block coordinate at least 1 (the system is balanced: 1 is the
+        # scale of its unknowns): small beside them, the equation vanishes on the fibre
         sizes = polynomial.absolute().fix_variables(indices, np.maximum(np.abs(root), 1.0))
         size = float(np.linalg.norm(sizes.numeric_coefficients()))
         relative = float(np.linalg.norm(fixed.numeric_coefficients())) / size if size > 0 else 0.0
@@ -200,3 +202,20 @@ def fibre_system(system, block, root):
         return WHOLE_FIBRE
     others = [name for j, name in enumerate(system.variables) if j not in set(indices)]
     return PolynomialSystem(others, kept, name=f"{system.name or 'system'} over a root of its block")
+
+
+def _fixed_without_rounding(polynomial, indices, root):
+    """``polynomial.fix_variables(indices, root)`` without the coefficients that are rounding of zero.
+
+    A coefficient below ``_ROUNDING`` times the sizes of the terms merged into it (block coordinates taken
+    at least 1) is zero up to the root's rounding: a root 0 computed as 1e-17 left y^2 - 1e-34 of
+    y^2 - x^2 (x + 1) over x = 0, whose point y = 0 then failed its residual in units of its terms.
+    """
+    fixed = polynomial.fix_variables(indices, root)
+    sizes = polynomial.absolute().fix_variables(indices, np.maximum(np.abs(root), 1.0))
+    size_of = {tuple(row): abs(value) for row, value in zip(sizes.exponents.tolist(), sizes.numeric_coefficients())}
+    keep = np.array([abs(value) > _ROUNDING * size_of[tuple(row)]
+                     for row, value in zip(fixed.exponents.tolist(), fixed.numeric_coefficients())], dtype=bool)
+    if np.all(keep):
+        return fixed
+    return Polynomial(fixed.exponents[keep], fixed.numeric_coefficients()[keep], fixed.n_variables)
