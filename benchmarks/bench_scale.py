@@ -2,6 +2,7 @@
 
 Run:  python benchmarks/bench_scale.py [--quick] [--sections parse,start,solve,judge,singular,check,large,
       families,memory] [--memory-exponent 17] [--reference-limit 600] [--numag-limit 600]
+      [--golden [--golden-seeds 1,2]]
 
 Everything side by side in one run, one table per section (2 cores; the machine's load is printed first,
 since times on a shared machine are upper bounds). The goals are the issue's:
@@ -24,6 +25,8 @@ since times on a shared machine are upper bounds). The goals are the issue's:
   with sympy's Groebner time (grevlex, of F and its partials) beside it, each in a child process with a
   time limit (``--reference-limit``, default 600 s), the crossover size and the ratio at the largest size
   both finish;
+* golden (``--golden``, not in the default run): Barth's sextic with the golden ratio as an unknown p
+  (p^2 - p - 1 = 0) in two affine charts, and the swallowtail, each in a child process (decision 0061);
 * memory: peak resident memory of a ``numag solve`` process on 2^17 = 131,072 paths of 17 dense quadrics
   (< 500 MB; ``--quick``: 2^12), beside 2^14 paths for the bytes per path (both above one batch).
 
@@ -423,6 +426,81 @@ def section_families(quick, numag_limit, reference_limit, chosen=("nodal", "det"
               + (f"{last_ratio[1]:.2f} at {last_ratio[0]}" if last_ratio else "none"))
 
 
+BARTH_GOLDEN = ["4*(p^2*x^2 - y^2)*(p^2*y^2 - z^2)*(p^2*z^2 - x^2) - (1 + 2*p)*(x^2 + y^2 + z^2 - w^2)^2*w^2",
+                "p^2 - p - 1"]
+SWALLOWTAIL = "16*a^4*c - 4*a^3*b^2 - 128*a^2*c^2 + 144*a*b^2*c - 27*b^4 + 256*c^3"
+
+
+def barth_golden(chart):
+    """Barth's sextic with the golden ratio as an unknown p (p^2 - p - 1 = 0) in an affine chart of P^3.
+
+    ``chart`` "w = 1": the chart of tests/data/problems.json (50 nodes per conjugate there, 15 at infinity);
+    "w = 1 - (x + 2y + 3z)/7": a chart whose hyperplane at infinity misses the 65 nodes (all affine there).
+    Source of the 65 real nodes: W. Barth, "Two projective surfaces with many nodes, admitting the
+    symmetries of the icosahedron", J. Algebraic Geom. 5 (1996) 173-186 (as in tests/data/problems.json).
+    """
+    w = "1" if chart == "w = 1" else "(1 - (x + 2*y + 3*z)/7)"
+    return parse_system([BARTH_GOLDEN[0].replace("w", w), BARTH_GOLDEN[1]], ["x", "y", "z", "p"],
+                        name=f"Barth, p golden, {chart}")
+
+
+def _golden_child(chart, seed, queue):
+    start = time.process_time()
+    locus = singular_locus(barth_golden(chart), seed=seed)
+    points = [c for c in locus.components if c.dimension == 0 and not c.at_infinity]
+    phi = (1 + 5 ** 0.5) / 2
+    over_phi = [c for c in points if abs(c.points[0][3] - phi) <= 1e-8]
+    failed = sum(locus.paths.get(label, 0) for label in ("minimum_step", "step_limit", "non_finite",
+                                                           "endgame_unsettled", "batch_failed"))
+    queue.put((time.process_time() - start,
+               f"{len(points)} points ({sum(c.kind == 'singular' for c in points)} singular), {len(over_phi)} with "
+               f"p = phi ({sum(bool(c.real[0]) for c in over_phi)} real), other pieces "
+               f"{len(locus.components) - len(points)}, {locus.paths.get('tracked', 0)} paths, {failed} failed, "
+               f"split over {(locus.variety.extra.get('fibres') or {}).get('unknowns')}"))
+
+
+def _swallowtail_child(seed, queue):
+    start = time.process_time()
+    locus = singular_locus(parse_system([SWALLOWTAIL], ["a", "b", "c"]), seed=seed)
+    # The quartic t^4 + a t^2 + b t + c with a triple root, (t - s)^3 (t + 3 s): a = -6 s^2, b = 8 s^3,
+    # c = -3 s^4, the curve {8 a^3 + 27 b^2 = 0, a^2 + 12 c = 0} of degree 4; with two double roots,
+    # (t^2 - s^2)^2: the conic {b = 0, a^2 - 4 c = 0} (common practice, no source: expanded by hand).
+    curves = {4: lambda a, b, c: (8 * a ** 3 + 27 * b ** 2, a ** 2 + 12 * c), 2: lambda a, b, c: (b, a ** 2 - 4 * c)}
+    pieces = []
+    for component in (c for c in locus.components if not c.at_infinity):
+        equations = curves.get(component.degree) if component.dimension == 1 else None
+        on = equations is not None and all(
+            max(abs(v) for v in equations(*point)) <= 1e-6 * (1 + np.linalg.norm(point)) ** 3
+            for point in component.points)
+        pieces.append(f"dim {component.dimension} deg {component.degree} {component.kind}"
+                      + (" (on the expected curve)" if on else " (NOT the expected curve)"))
+    infinite = sum(c.at_infinity for c in locus.components)
+    failed = sum(locus.paths.get(label, 0) for label in ("minimum_step", "step_limit", "non_finite",
+                                                           "endgame_unsettled", "batch_failed"))
+    queue.put((time.process_time() - start, "; ".join(pieces) + f"; {infinite} at infinity; {failed} failed paths"))
+
+
+def section_golden(numag_limit, seeds):
+    print("\n== an auxiliary algebraic unknown (issue 19, decision 0061): Barth's sextic with p^2 - p - 1 = 0, and "
+          "the swallowtail (discriminant of the quartic) in three unknowns; child processes, CPU seconds")
+    from reference_timing import run_with_time_limit
+    _row("problem", "seed", "cpu s", "wall s", "result (expected)", widths=(38, 6, 10, 10, 60))
+    expectations = {"w = 1": "100 points, 50 with p = phi, all real (50 affine nodes per conjugate)",
+                    "w = 1 - (x + 2y + 3z)/7": "130 points, 65 with p = phi, all real (Barth's 65 nodes)"}
+    for seed in seeds:
+        for chart, expected in expectations.items():
+            started = time.perf_counter()
+            ours = run_with_time_limit(_golden_child, (chart, seed), numag_limit)
+            _row(f"Barth, p golden, {chart}", seed, f"{ours[0]:.1f}" if ours else "-",
+                 f"{time.perf_counter() - started:.1f}", f"{ours[1] if ours else 'time limit'} ({expected})",
+                 widths=(38, 6, 10, 10, 60))
+        started = time.perf_counter()
+        ours = run_with_time_limit(_swallowtail_child, (seed,), numag_limit)
+        _row("swallowtail (quartic discriminant)", seed, f"{ours[0]:.1f}" if ours else "-",
+             f"{time.perf_counter() - started:.1f}",
+             f"{ours[1] if ours else 'time limit'} (curves of degree 4 and 2)", widths=(38, 6, 10, 10, 60))
+
+
 def section_memory(quick, exponent):
     exponent = 12 if quick else exponent
     # the bytes per path come from two sizes above one batch (4,096 paths): a single batch is tracked in
@@ -454,6 +532,9 @@ def main():
     parser.add_argument("--reference-limit", type=float, default=600.0, help="seconds for each sympy run")
     parser.add_argument("--numag-limit", type=float, default=600.0, help="seconds for each numag child run")
     parser.add_argument("--memory-exponent", type=int, default=17, help="2^N paths for the memory row")
+    parser.add_argument("--golden", action="store_true", help="also Barth's sextic with the golden ratio as an "
+                        "unknown in two charts and the swallowtail (several minutes per seed)")
+    parser.add_argument("--golden-seeds", default="1", help="seeds of the --golden rows, comma-separated")
     args = parser.parse_args()
     print(f"load average {os.getloadavg()[0]:.1f} on {os.cpu_count()} cores; numag from {ROOT}")
     sections = args.sections.split(",")
@@ -475,6 +556,8 @@ def main():
         section_families(args.quick, args.numag_limit, args.reference_limit, args.families.split(","))
     if "memory" in sections:
         section_memory(args.quick, args.memory_exponent)
+    if args.golden:
+        section_golden(args.numag_limit, [int(seed) for seed in args.golden_seeds.split(",")])
 
 
 if __name__ == "__main__":

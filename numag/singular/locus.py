@@ -52,6 +52,7 @@ from ..numeric.scaling import Scaling
 from ..numeric.seeds import resolved_seed
 from ..tracking.solve import SolveOptions, solve_system
 from ..tracking.starts import StartKind
+from ..tracking.service import add_path_counts
 from ..tracking.tracker import FAILURE_LABELS
 from ..witness.cascade import held_parts, linear_form, random_rows, track_moves
 from ..witness.decompose import DecomposeOptions, Decomposition, components_through, decompose, holding_rows
@@ -221,19 +222,6 @@ class SingularLocus:
     def isolated(self):
         """The singular points (dimension 0, kind singular)."""
         return [c for c in self.components if c.dimension == 0 and c.kind is PieceKind.SINGULAR]
-
-
-def _add_counts(total, counts):
-    """Add path counts into ``total``; failures by reason (a nested block of ``solve``) as their labels.
-
-    The report counts failed paths from the labels: a nested block skipped here made 59 failed paths
-    of a projective gradient system vanish from the report, and a run that lost 28 nodes exit 0.
-    """
-    for key, value in counts.items():
-        if isinstance(value, dict):
-            _add_counts(total, value)
-        elif isinstance(value, (int, np.integer)):
-            total[key] = total.get(key, 0) + int(value)
 
 
 def _real_flags(system, points):
@@ -474,7 +462,7 @@ def _structured_start(system, variety, codimension, options, rng, paths, progres
         except InputError as err:  # a start that does not apply to this system (named in the message)
             route["why"] = str(err)
             return None, route
-        _add_counts(paths, search.path_counts)
+        add_path_counts(paths, search.path_counts)
         route.update(why=search.reason, searches=search.searches)
         if search.finite:
             route["route"] = "square null-vector system"
@@ -493,7 +481,7 @@ def _affine(system, options, rng, paths, discarded, progress, notes_out=None, ro
     notes_out = [] if notes_out is None else notes_out
     routes = [] if routes is None else routes
     variety = decompose(system, options.decompose, seed=int(rng.integers(2**32)), progress=progress)
-    _add_counts(paths, variety.paths)
+    add_path_counts(paths, variety.paths)
     n = system.n_variables
     found, oracles = [], []  # the pieces kept, and for each positive-dimensional one its membership test
     codimensions = sorted({n - c.dimension for c in variety.components})
@@ -533,7 +521,7 @@ def _affine(system, options, rng, paths, discarded, progress, notes_out=None, ro
                 progress(f"codimension {codimension}: decomposing the {kind} system ({augmented.n_equations} equations "
                          f"in {augmented.n_variables} unknowns)")
             candidates = decompose(augmented, options.decompose, seed=int(rng.integers(2**32)), progress=progress)
-            _add_counts(paths, candidates.paths)
+            add_path_counts(paths, candidates.paths)
             failed = sum(candidates.paths.get(label, 0) for label in FAILURE_LABELS)
             if failed:
                 notes_out.append(f"{counted(failed, 'path')} of the {kind} system for codimension {codimension} "
@@ -698,7 +686,7 @@ def _projective_gradient(system, rng, paths, discarded, progress):
         raise InputError("the hypersurface is a cone over a lower-dimensional one: use the minors formulation")
     result = solve_system(gradient, SolveOptions(square_up=gradient.n_equations > system.n_variables - 1),
                           seed=int(rng.integers(2**32)))
-    _add_counts(paths, result.path_counts())
+    add_path_counts(paths, result.path_counts())
     # Every partial derivative (not only the random combinations tracked) and F itself must vanish,
     # each in units of its own terms: a zero of the combinations alone is no singular point (a pair of
     # conics once got a fifth "node", a complex point where one partial was far from 0).
@@ -820,7 +808,7 @@ def _at_infinity(system, rng, paths, progress, affine_curves=True):
         progress("singular points at infinity")
     result = solve_system(hyperplane, SolveOptions(square_up=hyperplane.n_equations > system.n_variables - 1),
                           seed=int(rng.integers(2**32)))
-    _add_counts(paths, result.path_counts())
+    add_path_counts(paths, result.path_counts())
     if result.not_isolated:
         return within.format(f"{counted(len(result.not_isolated), 'solution')} there are not isolated")
     pieces = []

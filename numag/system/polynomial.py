@@ -466,6 +466,37 @@ class Polynomial:
             result = result + term
         return result
 
+    def fix_variables(self, indices, values):
+        """The polynomial in the other variables after setting variables ``indices`` to ``values``.
+
+        Parameters
+        ----------
+        indices : sequence of int
+            Variables to fix (they are removed; the others keep their order).
+        values : array_like of complex
+            One value per index.
+
+        Returns
+        -------
+        Polynomial
+            In ``n_variables - len(indices)`` variables, with complex coefficients (equal monomials merged).
+
+        Examples
+        --------
+        >>> x, p = Polynomial.variable(0, 2), Polynomial.variable(1, 2)
+        >>> (p * x * x - p - 1).fix_variables([1], [2.0]).to_text(["x"])
+        '2.0*x^2 - 3.0'
+        """
+        indices = [int(k) for k in indices]
+        values = np.asarray(values, dtype=complex).reshape(-1)
+        if len(values) != len(indices) or len(set(indices)) != len(indices) or not all(
+                0 <= k < self.n_variables for k in indices):
+            raise InputError(f"fix_variables needs distinct variable indices below {self.n_variables} and one value "
+                             f"each, got {indices} and {len(values)} values")
+        kept = [k for k in range(self.n_variables) if k not in set(indices)]
+        factors = np.prod(values[None, :] ** self.exponents[:, indices], axis=1) if indices else 1.0
+        return Polynomial(self.exponents[:, kept], self.numeric_coefficients() * factors, len(kept))
+
     def evaluate(self, point):
         """Value at one point in complex double precision (the slow, simple path; see ``numag.numeric.evaluate``)."""
         point = np.asarray(point, dtype=complex)

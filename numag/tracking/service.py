@@ -37,7 +37,7 @@ from ..run.progress import tell_paths
 from ..numeric.cluster import cluster_labels, groups, normalize_projective
 from .tracker import FAILURE_LABELS, BatchTracker, PathStatus, StartArray, TrackerOptions
 
-__all__ = ["PathCounts", "TrackRun", "track", "JUMP_ROUNDS", "FRESH_GAMMA_ROUND", "JUMP_STEP_DIVISOR",
+__all__ = ["PathCounts", "add_path_counts", "TrackRun", "track", "JUMP_ROUNDS", "FRESH_GAMMA_ROUND", "JUMP_STEP_DIVISOR",
            "JUMP_PREDICTOR_ERROR_DIVISOR"]
 
 #: The jump-repair rule (decision 0034). Rounds of repair before the paths still sharing a regular
@@ -156,6 +156,26 @@ class PathCounts:
                 "at_infinity": self.at_infinity, "failed": self.failed,
                 "failed_by_reason": dict(self.failed_by_reason), "retracked": self.retracked,
                 "rescued_in_high_precision": self.rescued_in_high_precision}
+
+
+def add_path_counts(total, counts):
+    """Add a ``paths`` block into ``total`` (in place), the labels of nested blocks at the top level.
+
+    The failures by reason of a nested block (``solve``'s report) are counted under their labels: a nested
+    block skipped made failed paths vanish from a singular-locus report.
+
+    Examples
+    --------
+    >>> total = {"tracked": 2}
+    >>> add_path_counts(total, {"tracked": 3, "failed_by_reason": {"minimum_step": 1}})
+    >>> total
+    {'tracked': 5, 'minimum_step': 1}
+    """
+    for key, value in counts.items():
+        if isinstance(value, dict):
+            add_path_counts(total, value)
+        elif isinstance(value, (int, np.integer)):
+            total[key] = total.get(key, 0) + int(value)
 
 
 @dataclass(kw_only=True)

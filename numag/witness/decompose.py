@@ -20,6 +20,10 @@ are split into irreducible components:
   to the equations (isosingular deflation, Hauenstein and Wampler, "Isosingular
   sets and deflation", Found. Comput. Math. 2013) until the Jacobian has full
   rank there, so that the witness points can be moved.
+* **fibres**: equations that involve only a few unknowns and fix them to finitely
+  many simple roots (an auxiliary algebraic number) are solved first, and X is
+  decomposed over each root in the other unknowns (:mod:`numag.witness.fibres`;
+  decision 0061).
 
 Examples
 --------
@@ -46,10 +50,11 @@ from ..numeric.minors import (CombinedRows, EvaluatedMinors, AugmentedEvaluator,
                               random_minor_weights)
 from ..numeric.scaling import Scaling
 from ..numeric.seeds import random_state, resolved_seed
-from ..tracking.service import PathCounts
+from ..tracking.service import PathCounts, add_path_counts
 from ..tracking.tracker import rescue_budget
 from .cascade import (WitnessOptions, combine_equations, held_parts, jacobian_rank, linear_form, membership, random_rows,
                       track_moves, witness_supersets)
+from .fibres import EMPTY_FIBRE, WHOLE_FIBRE, FiniteBlock, fibre_system, finite_block, solve_block
 
 __all__ = ["Component", "Decomposition", "DecomposeOptions", "decompose", "components_through"]
 
@@ -147,6 +152,10 @@ class Decomposition:
     seconds : float
     scaling : Scaling or None
         The units the computation used; points and slices are in the user's units.
+    fibred_over : FiniteBlock or None
+        Set when X was decomposed root by root of a block of equations in a few unknowns (module
+        :mod:`~numag.witness.fibres`): each component lies in one fibre, its slices have zero
+        coefficients on the block's unknowns.
     """
 
     system: object
@@ -158,6 +167,7 @@ class Decomposition:
     seconds: float
     extra: dict = field(default_factory=dict)
     scaling: object = None
+    fibred_over: FiniteBlock | None = None
 
     def __repr__(self):
         parts = ", ".join(f"dimension {c.dimension} degree {c.degree}" for c in self.components) or "empty"
@@ -551,6 +561,9 @@ def _decompose(system, options, seed, progress):
     linear = _linear_decomposition(system, options, rng, seed, started)
     if linear is not None:  # linear equations: the exact answer, no homotopy
         return linear
+    fibred = _fibred_decomposition(system, options, rng, seed, started, progress)
+    if fibred is not None:  # equations that fix some unknowns to finitely many simple roots: per root
+        return fibred
     supersets = witness_supersets(system, options.witness, seed=int(rng.integers(2**32)), progress=progress)
     counts = dict(supersets.paths)
     movers_made = []  # each counts the paths it tracks (loops, trace tests, moves to real slices)
@@ -612,6 +625,73 @@ def _decompose(system, options, seed, progress):
     sum((mover.paths for mover in movers_made), PathCounts()).add_to(counts)
     return Decomposition(system, components, supersets.dimensions_searched, counts, loops, seed,
                          time.perf_counter() - started)
+
+
+def _fibred_decomposition(system, options, rng, seed, started, progress):
+    """X as the union of {r} x X_r over the simple roots r of a closed block of equations, or None.
+
+    The block (:func:`~numag.witness.fibres.finite_block`) is solved first; each fibre X_r is decomposed
+    in the other unknowns and its components are lifted: the block's coordinates inserted in the
+    witness points, zero coefficients for them in the slices (the same hyperplanes on {r} x C^m).
+    Ranks and codimensions both grow by the block's size k there (module :mod:`~numag.witness.fibres`),
+    so ``reduced`` and the multiplicities carry over. None (no draw of ``rng``) when there is no block;
+    None after solving when the roots are not all simple or a fibre cannot be written (decision 0061).
+    """
+    block = finite_block(system)
+    if block is None:
+        return None
+    split = solve_block(system, block, seed=int(rng.integers(2**32)))
+    if split is None:
+        return None
+    fibres = [fibre_system(system, block, root) for root in split.roots]
+    if any(fibre is None for fibre in fibres):
+        return None
+    n, columns = system.n_variables, list(block.variables)
+    others = [j for j in range(n) if j not in set(columns)]
+    lowest = options.witness.lowest_dimension or 0
+    counts = {"tracked": 0, "not_on_X": 0, "at_infinity_or_failed": 0, "on_larger_component": 0,
+              "membership_paths": 0}
+    add_path_counts(counts, split.paths)
+    components, loops = [], {}
+    real_coefficients = system.has_real_coefficients
+    m = n - len(columns)
+    for root, root_real, fibre in zip(split.roots, split.real, fibres):
+        if fibre is EMPTY_FIBRE or lowest > m:  # no point over this root (or none searched)
+            continue
+        if fibre is WHOLE_FIBRE:  # X_r is all of C^m: one linear component, its witness point on m random slices
+            rows = np.zeros((m, n + 1))
+            rows[:, [0] + [j + 1 for j in others]] = rng.standard_normal((m, m + 1))
+            point = np.empty(n, dtype=complex)
+            point[others], point[columns] = np.linalg.solve(rows[:, [j + 1 for j in others]], -rows[:, 0]), root
+            components.append(Component(id=0, dimension=m, degree=1, points=point[None, :],
+                                        real=np.array([bool(root_real) and real_coefficients]), multiplicity=1,
+                                        reduced=True, slice_rows=rows))
+            continue
+        if progress is not None:
+            progress(f"the fibre over {short_point(root)} of the block in "
+                     f"{', '.join(system.variables[j] for j in columns)}")
+        part = decompose(fibre, options, seed=int(rng.integers(2**32)), progress=progress)
+        add_path_counts(counts, part.paths)
+        for dimension, run in part.loops.items():
+            loops[dimension] = loops.get(dimension, 0) + run
+        for c in part.components:
+            points = np.empty((len(c.points), n), dtype=complex)
+            points[:, others], points[:, columns] = c.points, root
+            rows = np.zeros((len(c.slice_rows), n + 1), dtype=c.slice_rows.dtype if len(c.slice_rows) else complex)
+            if len(c.slice_rows):
+                rows[:, [0] + [j + 1 for j in others]] = c.slice_rows
+            real = np.asarray(c.real, dtype=bool) & bool(root_real) & real_coefficients
+            components.append(replace(c, id=0, points=points, slice_rows=rows, real=real))
+    components.sort(key=lambda c: (-c.dimension, -c.degree))
+    for k, component in enumerate(components, 1):
+        component.id = k
+    counts.update(_degree_checks(system, components))
+    searched = list(range(m, lowest - 1, -1))
+    extra = {"fibres": {"unknowns": [system.variables[j] for j in columns], "equations": list(block.equations),
+                        "roots": len(split.roots), "empty": sum(f is EMPTY_FIBRE for f in fibres),
+                        "whole": sum(f is WHOLE_FIBRE for f in fibres)}}
+    return Decomposition(system, components, searched, counts, loops, seed, time.perf_counter() - started,
+                         extra=extra, fibred_over=block)
 
 
 def _degree_checks(system, components):
@@ -692,6 +772,8 @@ def components_through(decomposition, point, seed=0, options=None):
         found = {id(c): k for k, c in enumerate(computed.components)}
         hits = components_through(computed, scaling.to_computed(point), seed, options)
         return [decomposition.components[found[id(c)]] for c in hits]
+    if decomposition.fibred_over is not None:
+        return _components_through_fibre(decomposition, point, seed, options)
     system = decomposition.system
     components = decomposition.components
     if system.n_equations == 1 and len(components) == 1 and components[0].confirmed \
@@ -710,3 +792,31 @@ def components_through(decomposition, point, seed=0, options=None):
         if np.any(hits):
             found.append(component)
     return found
+
+
+def _components_through_fibre(decomposition, point, seed, options):
+    """:func:`components_through` for a decomposition made root by root: tested in the point's fibre only.
+
+    A point lies only on components of its own fibre (the block's coordinates equal there); those are
+    tested in the fibre's unknowns, where a fibre that is one hypersurface needs no homotopy. Membership
+    homotopies in the whole space cost 100 times more on Barth's sextic with the golden ratio as an
+    unknown (a rescue per singular candidate; decision 0061).
+    """
+    block = decomposition.fibred_over
+    columns = list(block.variables)
+    others = [j for j in range(decomposition.system.n_variables) if j not in set(columns)]
+    where = point[columns]
+    same = [c for c in decomposition.components
+            if np.linalg.norm(c.points[0, columns] - where) <= 1e-6 * (1 + np.linalg.norm(where))]
+    if not same:  # the point is in no fibre of X
+        return []
+    fibre = fibre_system(decomposition.system, block, same[0].points[0, columns])
+    if fibre is WHOLE_FIBRE:  # X_r is the whole space: its one component holds every point of the fibre
+        return same
+    if fibre is None or fibre is EMPTY_FIBRE:  # not expected for a fibre with components: test in the whole space
+        return components_through(replace(decomposition, components=same, fibred_over=None), point, seed, options)
+    inner = [replace(c, points=c.points[:, others], slice_rows=c.slice_rows[:, [0] + [j + 1 for j in others]])
+             for c in same]
+    part = Decomposition(fibre, inner, [], {}, {}, decomposition.seed, 0.0)
+    hits = {id(c) for c in components_through(part, point[others], seed, options)}
+    return [outer for outer, c in zip(same, inner) if id(c) in hits]
