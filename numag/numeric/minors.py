@@ -32,17 +32,18 @@ array([2., 2., 0.])
 [2]
 """
 
+import copy
 import itertools
 import math
 
 import numpy as np
 
 from ..errors import InputError
-from ..system.polynomial import DEFAULT_LIMITS, Polynomial, combined_minor, determinant
+from ..system.polynomial import DEFAULT_LIMITS, Polynomial, PolynomialSystem, combined_minor, determinant
 from .evaluate import BatchEvaluator, PrecisionEvaluator, TermSizes
 
-__all__ = ["AugmentedEvaluator", "CombinedRows", "EvaluatedMinors", "MinorWeights", "expanded_minors", "kernel_deflation",
-           "random_minor_weights"]
+__all__ = ["AugmentedEvaluator", "CombinedRows", "EvaluatedMinors", "MinorWeights", "MinorsSystem", "equation_evaluator", "expanded_minors", "kernel_deflation",
+           "random_minor_weights", "split_equations"]
 
 
 class MinorWeights:
@@ -278,6 +279,24 @@ class EvaluatedMinors:
         """
         sizes = self.sizes(np.atleast_2d(points)[:1], projective=False)[0][0]
         return EvaluatedMinors(self.polynomials, self.left, self.right, self.columns, self.scales / sizes)
+
+    def subset(self, indices):
+        """The minors ``indices`` only (the evaluator of J and its term sizes shared, nothing rebuilt).
+
+        Examples
+        --------
+        >>> from numag.system.parse import parse_system
+        >>> f = parse_system(["x^2*y", "x + y^3"], ["x", "y"]).polynomials
+        >>> minors = EvaluatedMinors(f, [[[1, 0]], [[0, 1]]], [[[1], [0]], [[0], [1]]])
+        >>> minors.subset([1]).count, minors.subset([1]).degrees
+        (1, [2])
+        """
+        indices = np.asarray(indices, dtype=np.int64).reshape(-1)
+        part = copy.copy(self)
+        part.left, part.right, part.scales = self.left[indices], self.right[indices], self.scales[indices]
+        part.count = len(indices)
+        part.degrees = [self.degrees[k] for k in indices]
+        return part
 
     # -- double precision, batched over points -------------------------------------------------------
 
@@ -547,6 +566,115 @@ class AugmentedEvaluator:
         return (values, matrix) if jacobian else values
 
 
+class MinorsSystem(PolynomialSystem):
+    """F together with minors det(A_k J_F B_k) that are evaluated, never expanded: the equations of "rank J < c".
+
+    ``polynomials`` are F's equations only; the minors are always those of the Jacobian of the current
+    ``polynomials`` (in their first ``weights.right.shape[1]`` variables), so that rescaling F's equations and
+    unknowns (:class:`~numag.numeric.scaling.Scaling`) rescales the minors with them: det(A S J D B) is another
+    random combination of the same minors, with the same common zeros with F. ``n_equations`` and ``degrees``
+    count F and the minors (equation k >= len(polynomials) is minor k - len(polynomials)); code that walks
+    ``polynomials`` alone must ask :attr:`minors` too (the witness cascade, :func:`holding_rows`).
+
+    Parameters
+    ----------
+    variables : sequence of str
+    polynomials : sequence of Polynomial
+        F (numeric).
+    minors : MinorWeights
+    name : str, optional
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> f = parse_system(["x^2 + y^2 + z^2 - 1"], ["x", "y", "z"])
+    >>> weights = random_minor_weights(1, 3, 1, 0, np.random.default_rng(0), count=3)
+    >>> system = MinorsSystem(f.variables, f.polynomials, weights)
+    >>> system.n_equations, system.degrees, system.has_real_coefficients
+    (4, [2, 1, 1, 1], False)
+    """
+
+    def __init__(self, variables, polynomials, minors, name=None):
+        super().__init__(variables, [p.numeric() for p in polynomials], name=name)
+        if minors.left.shape[2] != len(self.polynomials) or minors.right.shape[1] > len(self.variables):
+            raise InputError(f"minor weights of shapes {minors.left.shape} and {minors.right.shape} do not fit "
+                             f"{len(self.polynomials)} equations in {len(self.variables)} unknowns")
+        self.minors = minors
+        self._affine = None
+
+    @property
+    def n_equations(self):
+        """F's equations and the minors."""
+        return len(self.polynomials) + self.minors.count
+
+    @property
+    def degrees(self):
+        """Degrees of F's equations, then of the minors."""
+        return [p.degree for p in self.polynomials] + list(self.evaluated().degrees)
+
+    @property
+    def has_real_coefficients(self):
+        """Real only when F and the weights of the minors are real."""
+        return super().has_real_coefficients and not np.iscomplexobj(self.minors.left) \
+            and not np.iscomplexobj(self.minors.right)
+
+    def evaluated(self, homogenized=False):
+        """The minors as :class:`EvaluatedMinors` (affine; or homogenised, in (X_0, x))."""
+        if homogenized:
+            return EvaluatedMinors.from_weights(self.polynomials, self.minors, homogenized=True)
+        if self._affine is None:
+            self._affine = EvaluatedMinors.from_weights(self.polynomials, self.minors)
+        return self._affine
+
+    def with_polynomials(self, polynomials):
+        """The same minors of other equations F' (F rescaled), as a new system."""
+        return MinorsSystem(self.variables, polynomials, self.minors, self.name)
+
+
+def split_equations(system, indices):
+    """Equations ``indices`` of a system, F's and evaluated minors apart: (polynomials, EvaluatedMinors or None).
+
+    Parameters
+    ----------
+    system : PolynomialSystem or MinorsSystem
+    indices : sequence of int
+        Equation numbers; in a :class:`MinorsSystem` those from ``len(system.polynomials)`` on are minors.
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> split_equations(parse_system(["x", "y^2"], ["x", "y"]), [1])[0][0].degree
+    2
+    """
+    m = len(system.polynomials)
+    polynomials = [system.polynomials[k].numeric() for k in indices if k < m]
+    minors = [k - m for k in indices if k >= m]
+    if not minors:
+        return polynomials, None
+    return polynomials, system.evaluated().subset(minors)
+
+
+def equation_evaluator(system, indices=None):
+    """Values, Jacobians and term sizes of equations ``indices`` (default all) of a system: (evaluator, sizes).
+
+    A :class:`~numag.numeric.evaluate.BatchEvaluator` and :class:`~numag.numeric.evaluate.TermSizes` for
+    polynomials; an :class:`AugmentedEvaluator` (both roles) when evaluated minors are among them.
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> evaluator, sizes = equation_evaluator(parse_system(["x^2 - y"], ["x", "y"]))
+    >>> evaluator.evaluate(np.array([[2.0, 1.0]]), jacobian=False).real
+    array([[3.]])
+    """
+    indices = range(system.n_equations) if indices is None else indices
+    polynomials, minors = split_equations(system, indices)
+    if minors is None:
+        return BatchEvaluator(polynomials), TermSizes(polynomials)
+    both = AugmentedEvaluator(polynomials, minors)
+    return both, both
+
+
 class CombinedRows:
     """Random combinations of homogeneous equations, some of them evaluated minors, applied to values and gradients.
 
@@ -583,8 +711,12 @@ class CombinedRows:
         if self.weights.shape[1] != len(base_degrees):
             raise InputError(f"{self.weights.shape[1]} weights per row for {len(base_degrees)} equations")
         self.base_degrees = np.array(base_degrees, dtype=np.int64)
-        self.degree = int(self.base_degrees.max(initial=0))
-        self.raise_by = self.degree - self.base_degrees  # the X_0 power of each equation
+        # each row raised to the largest degree among the equations it combines (a row that is one equation,
+        # the moving row of a regeneration, keeps that equation's degree); rows of random weights combine all
+        used = np.abs(self.weights) > 0
+        self.row_degrees = np.array([int(self.base_degrees[row].max(initial=0)) for row in used], dtype=np.int64)
+        self.degree = int(self.row_degrees.max(initial=0))
+        self.raise_by = np.where(used, self.row_degrees[:, None] - self.base_degrees[None, :], 0)  # X_0 powers (c, m + K)
         self.count = len(self.weights)
         self._evaluator = AugmentedEvaluator(self.polynomials, minors, projective=True, homogenized=True) \
             if minors is not None else None
@@ -595,8 +727,8 @@ class CombinedRows:
 
     @property
     def degrees(self):
-        """The degree of every row (all D)."""
-        return [self.degree] * self.count
+        """The degree of every row."""
+        return [int(d) for d in self.row_degrees]
 
     def _base(self, points, jacobian=True):
         source = self._evaluator if self._evaluator is not None else self._polynomial_evaluator
@@ -607,15 +739,16 @@ class CombinedRows:
         points = np.atleast_2d(np.asarray(points, dtype=complex))
         result = self._base(points, jacobian)
         values, gradients = (result[0], result[1]) if jacobian else (result, None)
-        x0 = points[:, :1]
-        power = x0 ** self.raise_by[None, :]  # (P, m + K)
-        rows = (values * power) @ self.weights.T
+        x0 = points[:, :1, None]
+        power = x0 ** self.raise_by[None, :, :]  # (P, c, m + K)
+        weighted = self.weights[None, :, :] * power
+        rows = np.einsum("pij,pj->pi", weighted, values)
         if not jacobian:
             return rows
         lower = np.where(self.raise_by > 0, self.raise_by * x0 ** np.maximum(self.raise_by - 1, 0), 0)
-        raised = gradients * power[:, :, None]
-        raised[:, :, 0] += lower * values  # d/dX_0 of X_0^e: the product rule
-        return rows, np.einsum("ij,pjl->pil", self.weights, raised)
+        row_gradients = np.einsum("pij,pjl->pil", weighted, gradients)
+        row_gradients[:, :, 0] += np.einsum("pij,pj->pi", self.weights[None, :, :] * lower, values)  # product rule
+        return rows, row_gradients
 
     def both(self, points):
         """Term sizes of the rows and of their gradients, each (P, c) (as :class:`TermSizes`)."""
@@ -624,11 +757,12 @@ class CombinedRows:
             values, gradients = self._evaluator.both(points)
         else:
             values, gradients = self._polynomial_sizes.both(points)
-        rho0 = self._reference.reference(points)[:, :1]
-        power = rho0 ** self.raise_by[None, :]
+        rho0 = self._reference.reference(points)[:, :1, None]
+        power = rho0 ** self.raise_by[None, :, :]  # (P, c, m + K)
         lower = np.where(self.raise_by > 0, self.raise_by * rho0 ** np.maximum(self.raise_by - 1, 0), 0)
-        weights = np.abs(self.weights).T
-        return (values * power) @ weights, (gradients * power + lower * values) @ weights
+        weights = np.abs(self.weights)[None, :, :]
+        return np.einsum("pij,pj->pi", weights * power, values), \
+            np.einsum("pij,pj->pi", weights * power, gradients) + np.einsum("pij,pj->pi", weights * lower, values)
 
     def values(self, points):
         """Term sizes of the rows (P, c)."""
@@ -655,7 +789,7 @@ class CombinedRows:
                 if w == 0:
                     continue
                 w = ctx.mpc(float(w.real), float(w.imag))
-                e = int(self.raise_by[j])
+                e = int(self.raise_by[i, j])
                 out_values[i] += w * x0 ** e * values[j]
                 if jacobian:
                     for l in range(n):
