@@ -42,7 +42,7 @@ from ..errors import InputError
 from ..system.polynomial import DEFAULT_LIMITS, Polynomial, PolynomialSystem, combined_minor, determinant
 from .evaluate import BatchEvaluator, PrecisionEvaluator, TermSizes
 
-__all__ = ["AugmentedEvaluator", "CombinedRows", "EvaluatedMinors", "MinorWeights", "MinorsSystem", "equation_evaluator", "expanded_minors", "kernel_deflation",
+__all__ = ["AugmentedEvaluator", "CombinedRows", "EvaluatedMinors", "LinearFormProduct", "MinorWeights", "MinorsSystem", "equation_evaluator", "expanded_minors", "kernel_deflation",
            "random_minor_weights", "split_equations"]
 
 
@@ -797,6 +797,56 @@ class CombinedRows:
                     if e:
                         out_gradients[i, 0] += w * e * x0 ** (e - 1) * values[j]
         return (out_values, out_gradients) if jacobian else out_values
+
+
+class LinearFormProduct:
+    """The product of linear forms prod_k (r_k . X), evaluated (never expanded), with its gradient.
+
+    The start row of a regeneration towards an evaluated minor of degree D is a product of D linear forms in
+    n + 1 homogeneous variables; written out it has up to C(n + D, n) terms (245,157 refused for D = 8,
+    n = 16).
+
+    Parameters
+    ----------
+    rows : array_like, shape (D, N)
+
+    Examples
+    --------
+    >>> product = LinearFormProduct([[1.0, 2.0], [0.0, 1.0]])   # (X0 + 2 x) x
+    >>> values, gradients = product.evaluate(np.array([[1.0, 3.0]]))
+    >>> values.real, gradients[0].real
+    (array([[21.]]), array([[ 3., 13.]]))
+    """
+
+    def __init__(self, rows):
+        self.rows = np.atleast_2d(np.asarray(rows, dtype=complex))
+        self.degree = len(self.rows)
+        self.n_variables = self.rows.shape[1]
+        self.count = 1
+
+    def evaluate(self, points, jacobian=True):
+        """Values (P, 1) and, with ``jacobian``, gradients (P, 1, N)."""
+        forms = np.atleast_2d(points) @ self.rows.T  # (P, D)
+        values = np.prod(forms, axis=1, keepdims=True)
+        if not jacobian:
+            return values
+        others = _products_of_others(forms[:, None, :])[:, 0, :]  # (P, D): the product of the other forms
+        return values, (others @ self.rows)[:, None, :]
+
+    def evaluate_precise(self, point, ctx, jacobian=True):
+        """Value (1, 1) and gradient (1, N) at one point in an mpmath context."""
+        rows = [[ctx.mpc(complex(a).real, complex(a).imag) for a in row] for row in self.rows]
+        forms = [ctx.fsum(a * x for a, x in zip(row, point)) for row in rows]
+        value = ctx.matrix(1, 1)
+        value[0] = ctx.fprod(forms)
+        if not jacobian:
+            return value
+        gradient = ctx.matrix(1, self.n_variables)
+        for k, row in enumerate(rows):
+            others = ctx.fprod(forms[:k] + forms[k + 1:])
+            for j in range(self.n_variables):
+                gradient[0, j] += others * row[j]
+        return value, gradient
 
 
 def kernel_deflation(polynomials, rank, rng):

@@ -28,6 +28,7 @@ Examples
 import numpy as np
 
 from ..system.display import counted
+from ..system.polynomial import Polynomial
 from ..errors import InputError
 from ..numeric.evaluate import BatchEvaluator, PrecisionEvaluator, TermSizes
 from .multihomogeneous import MultihomogeneousStart, homogenized_to
@@ -332,7 +333,8 @@ class ParameterHomotopy(_PatchedHomotopy):
         and ``target``.
     held_start : list of (Polynomial or None), optional
         One entry per held row: None where the row is the same in start and target, else the homogeneous
-        polynomial it starts from (a regeneration moves a product of linear forms to an evaluated minor).
+        polynomial (or evaluated row, e.g. :class:`~numag.numeric.minors.LinearFormProduct`) it starts from (a
+        regeneration moves a product of linear forms to an evaluated minor).
 
     Examples
     --------
@@ -366,7 +368,7 @@ class ParameterHomotopy(_PatchedHomotopy):
                                                                                                self.target))
                                                      if not (a is b or a == b)], dtype=np.int64)
         moving_start = self._held_start + [self.start_polynomials[k - first] for k in self._moving[len(self._held_moving):]]
-        self.start_evaluator = BatchEvaluator(moving_start) if len(self._moving) else None
+        self.start_evaluator = _StartRows(moving_start) if len(self._moving) else None
         self.evaluations = 0
         self.value_evaluations = 0
         self._precise = None
@@ -455,7 +457,7 @@ class ParameterHomotopy(_PatchedHomotopy):
         first = 0 if self.held is None else self.held.count
         if first:  # held rows: the same in start and target, except those that move from a polynomial
             moved = dict(zip(self._held_moving, range(len(self._held_moving))))
-            start_values, start_jac = PrecisionEvaluator(self._held_start).evaluate(point, ctx) if moved else (None, None)
+            start_values, start_jac = _StartRows(self._held_start).evaluate_precise(point, ctx) if moved else (None, None)
             g_values = [start_values[moved[i]] if i in moved else f_values[i] for i in range(first)] + \
                 [g_values[i] for i in range(size - 1 - first)]
             g_jac = [[start_jac[moved[i], j] if i in moved else f_jac[i, j] for j in range(size)]
@@ -471,6 +473,54 @@ class ParameterHomotopy(_PatchedHomotopy):
                 jacobian[i, j] = (1 - tau) * f_jac[i, j] + tau * (g_jac[i][j] if first else g_jac[i, j])
         self._precise_patch_row(values, jacobian, point, ctx)
         return values, jacobian, derivative
+
+
+class _StartRows:
+    """The start rows of moving equations: polynomials (one batched evaluator) and evaluated rows (objects with
+    ``evaluate`` and ``evaluate_precise``, such as :class:`~numag.numeric.minors.LinearFormProduct`), in order."""
+
+    def __init__(self, rows):
+        self.rows = list(rows)
+        self._polynomial_at = [k for k, row in enumerate(self.rows) if isinstance(row, Polynomial)]
+        self._evaluated_at = [k for k, row in enumerate(self.rows) if not isinstance(row, Polynomial)]
+        polynomials = [self.rows[k] for k in self._polynomial_at]
+        self._evaluator = BatchEvaluator(polynomials) if polynomials else None
+        self._precise = None
+
+    def evaluate(self, points, jacobian=True):
+        count, size = len(points), len(self.rows)
+        values = np.empty((count, size), dtype=complex)
+        gradients = np.empty((count, size, points.shape[1]), dtype=complex) if jacobian else None
+        if self._evaluator is not None:
+            result = self._evaluator.evaluate(points, jacobian)
+            values[:, self._polynomial_at] = result[0] if jacobian else result
+            if jacobian:
+                gradients[:, self._polynomial_at] = result[1]
+        for k in self._evaluated_at:
+            result = self.rows[k].evaluate(points, jacobian)
+            values[:, k] = (result[0] if jacobian else result)[:, 0]
+            if jacobian:
+                gradients[:, k] = result[1][:, 0]
+        return (values, gradients) if jacobian else values
+
+    def evaluate_precise(self, point, ctx):
+        """Values (M, 1) and Jacobian (M, N) in an mpmath context."""
+        size, n = len(self.rows), len(point)
+        values, jacobian = ctx.matrix(size, 1), ctx.matrix(size, n)
+        if self._polynomial_at:
+            if self._precise is None:
+                self._precise = PrecisionEvaluator([self.rows[k] for k in self._polynomial_at])
+            part_values, part_jacobian = self._precise.evaluate(point, ctx)
+            for i, k in enumerate(self._polynomial_at):
+                values[k] = part_values[i]
+                for j in range(n):
+                    jacobian[k, j] = part_jacobian[i, j]
+        for k in self._evaluated_at:
+            row_value, row_gradient = self.rows[k].evaluate_precise(point, ctx)
+            values[k] = row_value[0]
+            for j in range(n):
+                jacobian[k, j] = row_gradient[0, j]
+        return values, jacobian
 
 
 class _HeldThenPolynomials:

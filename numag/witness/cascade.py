@@ -40,7 +40,8 @@ from ..run.executor import ambient_executor, charge_paths
 from ..numeric.cluster import cluster_labels, groups
 from ..numeric.evaluate import BatchEvaluator, TermSizes
 from ..numeric.linalg import scaled_singular_values
-from ..numeric.minors import AugmentedEvaluator, CombinedRows, MinorsSystem, equation_evaluator, split_equations
+from ..numeric.minors import (AugmentedEvaluator, CombinedRows, LinearFormProduct, MinorsSystem, equation_evaluator,
+                              split_equations)
 from ..numeric.refine import IsolationTest, largest_scaled_residual, project_to_variety
 from ..numeric.seeds import random_state
 from ..tracking.homotopy import ParameterHomotopy, random_unit_complex
@@ -580,12 +581,14 @@ def _regenerate(slicing, before, index, codim, points, options):
         starts.append(ends[np.all(np.isfinite(ends), axis=1)])
     starts = np.vstack(starts) if starts else np.zeros((0, n), complex)
     lost = len(points) * degree - len(starts)
-    product = _product_oflinear_form(moved_rows)
     # every solution of the product system off V(held, f) moves: cycles at infinity are whole
     if evaluated:  # the combinations (same weights) and then f are the held rows, f starting from the product
+        # the product of deg f linear forms evaluated too: written out it has up to C(n + deg f, n) terms
+        product = LinearFormProduct(moved_rows)
         run = track_moves(rest, rest, starts, slicing.rng, options.tracker, options.batch_size,
                           whole_cycles=True, held=with_f, held_start=[None] * (with_f.count - 1) + [product])
     else:
+        product = _product_oflinear_form(moved_rows)
         f = slicing.homogeneous[index]
         run = track_moves(held + [product] + rest, held + [f] + rest, starts, slicing.rng, options.tracker,
                           options.batch_size, whole_cycles=True, held=block)
