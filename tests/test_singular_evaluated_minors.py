@@ -74,3 +74,25 @@ def test_combined_row_of_one_equation_keeps_its_degree():
     assert np.allclose(values[0], [0.5 * (x * x + x0 * y) + x0 * (x0 + 2 * x), x0 + 2 * x])
     assert np.allclose(gradients[0, 0], [0.5 * y + 2 * x0 + 2 * x, x + 2 * x0, 0.5 * x0])
     assert np.allclose(gradients[0, 1], [1.0, 2.0, 0.0])
+
+
+@pytest.mark.parametrize("seed", [0, 1])
+def test_product_of_linear_forms_value_gradient_and_precise(seed):
+    # Value against the product computed form by form, gradient against central differences (common
+    # practice, no source), the mpmath form against the double one.
+    import mpmath
+
+    from numag.numeric.minors import LinearFormProduct
+    rng = np.random.default_rng(seed)
+    rows = rng.standard_normal((6, 4)) + 1j * rng.standard_normal((6, 4))
+    point = rng.standard_normal(4) + 1j * rng.standard_normal(4)
+    product = LinearFormProduct(rows)
+    values, gradients = product.evaluate(point[None, :])
+    assert np.isclose(values[0, 0], np.prod([row @ point for row in rows]), rtol=1e-12)
+    step = 1e-6
+    differences = [(product.evaluate((point + step * e)[None, :], False)[0, 0]
+                    - product.evaluate((point - step * e)[None, :], False)[0, 0]) / (2 * step) for e in np.eye(4)]
+    assert np.allclose(gradients[0, 0], differences, rtol=1e-6, atol=1e-6 * np.abs(values[0, 0]))
+    precise_value, precise_gradient = product.evaluate_precise([mpmath.mpc(z.real, z.imag) for z in point], mpmath.mp)
+    assert np.isclose(complex(precise_value[0]), values[0, 0], rtol=1e-12)
+    assert np.allclose([complex(precise_gradient[0, j]) for j in range(4)], gradients[0, 0], rtol=1e-12)
