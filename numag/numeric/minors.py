@@ -355,6 +355,17 @@ class EvaluatedMinors:
         values = np.prod(rows, axis=2)
         others = _products_of_others(rows)  # (P, K, c): product of the other rows' sizes
         gradients = np.sum(others * slopes, axis=2)
+        if self.size > 1:
+            # The product of row bounds compounds their slack c times: at generic points of a 4 x 4 random minor of
+            # sixteen cubics it was 1e7 to 1e8 times |det M|, so a minor that does not vanish passed a 1e-7
+            # residual test. With N = M / rows (rows of 2-norm <= 1), |det M| = prod(rows) prod sigma_i(N), so
+            # prod(rows) prod_{i < c} sigma_i(N) is still >= |det M| and the scaled value is sigma_min(N): the
+            # row-scaled distance of M from the singular matrices, first order in the distance to the minor's zeros.
+            matrices, _ = self._matrices(np.atleast_2d(points), second=False)
+            safe_rows = np.where(rows > 0, rows, 1.0)
+            singular = np.linalg.svd(matrices / safe_rows[..., :, None], compute_uv=False)  # (P, K, c), descending
+            factor = np.maximum(np.prod(singular[..., :-1], axis=-1), 1e-300)
+            values, gradients = values * factor, gradients * factor
         return values * self.scales, gradients * self.scales
 
     # -- mpmath, one point --------------------------------------------------------------------------
