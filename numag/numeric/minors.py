@@ -363,7 +363,10 @@ class EvaluatedMinors:
             # row-scaled distance of M from the singular matrices, first order in the distance to the minor's zeros.
             matrices, _ = self._matrices(np.atleast_2d(points), second=False)
             safe_rows = np.where(rows > 0, rows, 1.0)
-            singular = np.linalg.svd(matrices / safe_rows[..., :, None], compute_uv=False)  # (P, K, c), descending
+            scaled = matrices / safe_rows[..., :, None]
+            singular = np.full(scaled.shape[:-1], np.nan)
+            finite = np.all(np.isfinite(scaled), axis=(-2, -1))  # NaN sizes for a diverging path, as its values
+            singular[finite] = np.linalg.svd(scaled[finite], compute_uv=False)  # (P, K, c), descending
             factor = np.maximum(np.prod(singular[..., :-1], axis=-1), 1e-300)
             values, gradients = values * factor, gradients * factor
         return values * self.scales, gradients * self.scales
@@ -442,6 +445,13 @@ def _determinant_and_adjugate(matrices):
     t_i the product of the singular values other than s_i: no inverse, so rank-deficient M (where the minors
     vanish and their gradients matter most) is as accurate as any other.
     """
+    finite = np.all(np.isfinite(matrices), axis=(-2, -1))
+    if not np.all(finite):  # a diverging path: NaN there (LAPACK's SVD does not converge on it), the rest as usual
+        values = np.full(matrices.shape[:-2], np.nan, dtype=complex)
+        adjugates = np.full(matrices.shape, np.nan, dtype=complex)
+        if np.any(finite):
+            values[finite], adjugates[finite] = _determinant_and_adjugate(matrices[finite])
+        return values, adjugates
     u, s, vh = np.linalg.svd(matrices)
     phase = np.linalg.det(u) * np.linalg.det(vh)
     values = phase * np.prod(s, axis=-1)
