@@ -1,7 +1,7 @@
 """Large systems (issue 19): reading, start-up, the whole solve process, judging candidates, memory.
 
-Run:  python benchmarks/bench_scale.py [--quick] [--sections parse,start,solve,judge,singular,check,large,
-      families,memory] [--memory-exponent 17] [--reference-limit 600] [--numag-limit 600]
+Run:  python benchmarks/bench_scale.py [--quick] [--full] [--sections parse,start,solve,judge,singular,check,large,
+      conjugates,families,memory] [--memory-exponent 17] [--reference-limit 600] [--numag-limit 600]
       [--golden [--golden-seeds 1,2]]
 
 Everything side by side in one run, one table per section (2 cores; the machine's load is printed first,
@@ -18,8 +18,11 @@ since times on a shared machine are upper bounds). The goals are the issue's:
 * singular: the singular locus of a six-bar linkage in 10 unknowns (< 5 s), the Chebyshev curve
   T9(x) = T11(y) (40 nodes, < 2 s) and the union of three quadrics (< 10 s);
 * check: ``python -m numag check`` of one folded configuration of the six-bar (the whole process);
-* large: the singular locus of 4 x 4 matrices of rank <= 2 (rank <= 1 matrices: dimension 7, degree 20;
-  < 120 s), in a child process with a time limit;
+* large: the singular locus of 3 x 3 matrices of rank <= 1 (``--full``: 4 x 4 matrices of rank <= 2, whose
+  singular locus is the rank <= 1 matrices, dimension 7, degree 20; < 120 s), with the minors formulation
+  (large minors evaluated, decision 0058) and with auto, each in a child process with a time limit;
+* conjugates: nodes of two conjugate Cayley cubics (``--full``: four conjugate Togliatti quintics, 124
+  nodes, < 60 s), the generator of the number field an unknown;
 * families: per formulation a growing family -- nodal surfaces T_d(x) + T_d(y) + T_d(z) + 1 = 0 of degree
   3 to 10, the determinant of n x n matrices (n = 2 to 5), unions of k quadrics -- numag's time against size
   with sympy's Groebner time (grevlex, of F and its partials) beside it, each in a child process with a
@@ -343,10 +346,14 @@ def determinantal_degree(size, rank):
 
 
 def _numag_child(system, seed, queue):
-    from numag.singular.locus import singular_locus
+    _numag_child_with(system, seed, "auto", queue)
+
+
+def _numag_child_with(system, seed, formulation, queue):
+    from numag.singular.locus import SingularOptions, singular_locus
     start = time.process_time()
     try:
-        locus = singular_locus(system, seed=seed)
+        locus = singular_locus(system, SingularOptions(formulation=formulation), seed=seed)
     except Exception as error:  # reported in the table, not raised: the benchmark goes on
         queue.put((time.process_time() - start, f"error: {type(error).__name__}: {str(error)[:80]}"))
         return
@@ -382,14 +389,87 @@ def _timed_pair(system, seed, numag_limit, reference_limit):
     return ours, theirs
 
 
-def section_large(quick, numag_limit):
-    print("\n== 4 x 4 matrices of rank <= 2 (the 16 3 x 3 minors): Sing X = rank <= 1, dimension 7, degree 20")
-    _row("problem", "cpu s", "goal s", "", "pieces")
-    system = matrix_minors_system(4, 2, "4 x 4 rank <= 2")
+def section_large(full, numag_limit):
+    """Determinantal varieties, both formulations (the minors one evaluates its large minors, decision 0058).
+
+    Default: 3 x 3 matrices of rank <= 1 (the 9 2 x 2 minors; Sing X = the zero matrix, one point). ``--full``:
+    4 x 4 matrices of rank <= 2 (the 16 3 x 3 minors; Sing X = rank <= 1, dimension 7, degree 20 = C(6, 3),
+    the Segre variety P^3 x P^3; J. Harris, "Algebraic Geometry: A First Course", 1992, Example 19.10, from
+    memory; degree checked on a random slice by :func:`segre_slice_count`). Goal for the full size: < 120 s.
+    """
+    size, rank, expected = (4, 2, "1 x dim 7 deg 20") if full else (3, 1, "1 x dim 0 deg 1")
+    print(f"\n== {size} x {size} matrices of rank <= {rank}: Sing X = rank <= {rank - 1} ({expected}); child processes, "
+          f"wall-time limit {numag_limit} s")
+    _row("problem", "cpu s", "goal s", "formulation", "pieces (expected: " + expected + ")")
+    system = matrix_minors_system(size, rank, f"{size} x {size} rank <= {rank}")
     from reference_timing import run_with_time_limit
-    ours = run_with_time_limit(_numag_child, (system, 1), numag_limit)
-    _row(system.name, f"{ours[0]:.1f}" if ours else f"> {numag_limit} wall", 120, "",
-         ours[1] if ours else "time limit")
+    # the minors formulation only at the full size: its regeneration meets X in deg X * D^k points after k random
+    # minors (3 x 3: 1,536 after 13 equations, not finished in 600 s; decision 0058)
+    for formulation in ("minors", "auto") if full else ("auto",):
+        ours = run_with_time_limit(_numag_child_with, (system, 1, formulation), numag_limit)
+        _row(system.name, f"{ours[0]:.1f}" if ours else f"> {numag_limit} wall", 120 if full else "", formulation,
+             ours[1] if ours else "time limit")
+    if full:
+        print(f"  degree of rank <= 1 4 x 4 matrices on a random slice (sympy Groebner basis): {segre_slice_count(4)}")
+
+
+def segre_slice_count(size, seed=3):
+    """Points of the rank <= 1 size x size matrices M = u v^T on 2 size - 1 random rational affine hyperplanes.
+
+    Counted exactly with sympy: a Groebner basis (grevlex) of the sliced equations in the chart u_1 = 1, and the
+    standard monomials (the dimension of the quotient ring, the number of points with multiplicity). This is
+    the degree of the variety without any numag code.
+    """
+    import itertools
+
+    import sympy
+    rng = np.random.default_rng(seed)
+    u = [sympy.Integer(1)] + list(sympy.symbols(f"u2:{size + 1}"))
+    v = list(sympy.symbols(f"v1:{size + 1}"))
+    equations = []
+    for _ in range(2 * size - 1):
+        a = rng.integers(-9, 10, size=(size, size))
+        b = int(rng.integers(1, 10))
+        equations.append(sympy.expand(sum(int(a[i, j]) * u[i] * v[j] for i in range(size) for j in range(size)) - b))
+    unknowns = u[1:] + v
+    basis = sympy.groebner(equations, *unknowns, order="grevlex")
+    if not basis.is_zero_dimensional:
+        return "not zero-dimensional"
+    leads = [sympy.Poly(g, *unknowns).monoms(order="grevlex")[0] for g in basis.exprs]
+    top = max(max(lead) for lead in leads) + 1
+    return sum(1 for exponent in itertools.product(range(top), repeat=len(unknowns))
+               if not any(all(e >= l for e, l in zip(exponent, lead)) for lead in leads))
+
+
+def conjugate_surfaces(full):
+    """Two equations in four unknowns: a surface with coefficients in Q(a), and a's minimal polynomial.
+
+    ``full``: Togliatti's quintic with 31 nodes (E. G. Togliatti 1940, in the form with w = 1,
+    64 (x - 1)(x^4 - 4 x^3 - 10 x^2 y^2 - 4 x^2 + 16 x - 20 x y^2 + 5 y^4 + 16 - 20 y^2)
+    - 5 a (2 z - a)(4 (x^2 + y^2 - z^2) + 1 + 3 s)^2 with a = sqrt(5 - sqrt 5), s = sqrt 5 = 5 - a^2; from
+    memory), a^4 - 10 a^2 + 20 = 0: four conjugate quintics, 4 x 31 = 124 nodes when all are affine. Default:
+    the Cayley cubic 4 (x^2 + y^2 + z^2) + 16 x y z - 1 (4 nodes (+-1/2, +-1/2, +-1/2) with product -1/8, worked
+    out by hand) scaled by a with a^2 = 2: 4 a (x^2 + y^2 + z^2) + 16 x y z - 2 a, two conjugate cubics, 8 nodes.
+    """
+    if full:
+        s = "(5 - a^2)"
+        quintic = (f"64*(x - 1)*(x^4 - 4*x^3 - 10*x^2*y^2 - 4*x^2 + 16*x - 20*x*y^2 + 5*y^4 + 16 - 20*y^2)"
+                   f" - 5*a*(2*z - a)*(4*(x^2 + y^2 - z^2) + 1 + 3*{s})^2")
+        return parse_system([quintic, "a^4 - 10*a^2 + 20"], ["x", "y", "z", "a"], name="4 conjugate quintics"), 124
+    return parse_system(["4*a*(x^2 + y^2 + z^2) + 16*x*y*z - 2*a", "a^2 - 2"], ["x", "y", "z", "a"],
+                        name="2 conjugate Cayley cubics"), 8
+
+
+def section_conjugates(full, numag_limit):
+    """Nodes of conjugate surfaces given with the number field's generator as an unknown (goal: < 60 s, full)."""
+    system, expected = conjugate_surfaces(full)
+    print(f"\n== {system.name} (two equations in four unknowns; child processes, wall-time limit {numag_limit} s)")
+    _row("problem", "cpu s", "goal s", "formulation", f"pieces (expected: {expected} x dim 0 deg 1)")
+    from reference_timing import run_with_time_limit
+    for formulation in ("minors", "auto"):
+        ours = run_with_time_limit(_numag_child_with, (system, 1, formulation), numag_limit)
+        _row(system.name, f"{ours[0]:.1f}" if ours else f"> {numag_limit} wall", 60 if full else "", formulation,
+             ours[1] if ours else "time limit")
 
 
 def section_families(quick, numag_limit, reference_limit, chosen=("nodal", "det", "quadrics")):
@@ -527,7 +607,8 @@ def section_memory(quick, exponent):
 def main():
     parser = argparse.ArgumentParser(description=__doc__, formatter_class=argparse.RawDescriptionHelpFormatter)
     parser.add_argument("--quick", action="store_true", help="smaller sizes (about a minute)")
-    parser.add_argument("--sections", default="parse,start,solve,judge,singular,check,large,families,memory")
+    parser.add_argument("--sections",
+                        default="parse,start,solve,judge,singular,check,large,conjugates,families,memory")
     parser.add_argument("--families", default="nodal,det,quadrics", help="which growing families (section families)")
     parser.add_argument("--reference-limit", type=float, default=600.0, help="seconds for each sympy run")
     parser.add_argument("--numag-limit", type=float, default=600.0, help="seconds for each numag child run")
@@ -535,6 +616,8 @@ def main():
     parser.add_argument("--golden", action="store_true", help="also Barth's sextic with the golden ratio as an "
                         "unknown in two charts and the swallowtail (several minutes per seed)")
     parser.add_argument("--golden-seeds", default="1", help="seeds of the --golden rows, comma-separated")
+    parser.add_argument("--full", action="store_true",
+                        help="sections large and conjugates at the issue's sizes (4 x 4 rank <= 2; four quintics)")
     args = parser.parse_args()
     print(f"load average {os.getloadavg()[0]:.1f} on {os.cpu_count()} cores; numag from {ROOT}")
     sections = args.sections.split(",")
@@ -551,7 +634,9 @@ def main():
     if "check" in sections:
         section_check(args.quick)
     if "large" in sections:
-        section_large(args.quick, args.numag_limit)
+        section_large(args.full, args.numag_limit)
+    if "conjugates" in sections:
+        section_conjugates(args.full, args.numag_limit)
     if "families" in sections:
         section_families(args.quick, args.numag_limit, args.reference_limit, args.families.split(","))
     if "memory" in sections:

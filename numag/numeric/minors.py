@@ -32,17 +32,18 @@ array([2., 2., 0.])
 [2]
 """
 
+import copy
 import itertools
 import math
 
 import numpy as np
 
 from ..errors import InputError
-from ..system.polynomial import DEFAULT_LIMITS, Polynomial, combined_minor, determinant
+from ..system.polynomial import DEFAULT_LIMITS, Polynomial, PolynomialSystem, combined_minor, determinant
 from .evaluate import BatchEvaluator, PrecisionEvaluator, TermSizes
 
-__all__ = ["AugmentedEvaluator", "CombinedRows", "EvaluatedMinors", "MinorWeights", "expanded_minors", "kernel_deflation",
-           "random_minor_weights"]
+__all__ = ["AugmentedEvaluator", "CombinedRows", "EvaluatedMinors", "LinearFormProduct", "MinorWeights", "MinorsSystem", "equation_evaluator", "expanded_minors", "kernel_deflation",
+           "random_minor_weights", "split_equations"]
 
 
 class MinorWeights:
@@ -279,6 +280,24 @@ class EvaluatedMinors:
         sizes = self.sizes(np.atleast_2d(points)[:1], projective=False)[0][0]
         return EvaluatedMinors(self.polynomials, self.left, self.right, self.columns, self.scales / sizes)
 
+    def subset(self, indices):
+        """The minors ``indices`` only (the evaluator of J and its term sizes shared, nothing rebuilt).
+
+        Examples
+        --------
+        >>> from numag.system.parse import parse_system
+        >>> f = parse_system(["x^2*y", "x + y^3"], ["x", "y"]).polynomials
+        >>> minors = EvaluatedMinors(f, [[[1, 0]], [[0, 1]]], [[[1], [0]], [[0], [1]]])
+        >>> minors.subset([1]).count, minors.subset([1]).degrees
+        (1, [2])
+        """
+        indices = np.asarray(indices, dtype=np.int64).reshape(-1)
+        part = copy.copy(self)
+        part.left, part.right, part.scales = self.left[indices], self.right[indices], self.scales[indices]
+        part.count = len(indices)
+        part.degrees = [self.degrees[k] for k in indices]
+        return part
+
     # -- double precision, batched over points -------------------------------------------------------
 
     def _matrices(self, points, second=True):
@@ -336,6 +355,20 @@ class EvaluatedMinors:
         values = np.prod(rows, axis=2)
         others = _products_of_others(rows)  # (P, K, c): product of the other rows' sizes
         gradients = np.sum(others * slopes, axis=2)
+        if self.size > 1:
+            # The product of row bounds compounds their slack c times: at generic points of a 4 x 4 random minor of
+            # sixteen cubics it was 1e7 to 1e8 times |det M|, so a minor that does not vanish passed a 1e-7
+            # residual test. With N = M / rows (rows of 2-norm <= 1), |det M| = prod(rows) prod sigma_i(N), so
+            # prod(rows) prod_{i < c} sigma_i(N) is still >= |det M| and the scaled value is sigma_min(N): the
+            # row-scaled distance of M from the singular matrices, first order in the distance to the minor's zeros.
+            matrices, _ = self._matrices(np.atleast_2d(points), second=False)
+            safe_rows = np.where(rows > 0, rows, 1.0)
+            scaled = matrices / safe_rows[..., :, None]
+            singular = np.full(scaled.shape[:-1], np.nan)
+            finite = np.all(np.isfinite(scaled), axis=(-2, -1))  # NaN sizes for a diverging path, as its values
+            singular[finite] = np.linalg.svd(scaled[finite], compute_uv=False)  # (P, K, c), descending
+            factor = np.maximum(np.prod(singular[..., :-1], axis=-1), 1e-300)
+            values, gradients = values * factor, gradients * factor
         return values * self.scales, gradients * self.scales
 
     # -- mpmath, one point --------------------------------------------------------------------------
@@ -412,6 +445,13 @@ def _determinant_and_adjugate(matrices):
     t_i the product of the singular values other than s_i: no inverse, so rank-deficient M (where the minors
     vanish and their gradients matter most) is as accurate as any other.
     """
+    finite = np.all(np.isfinite(matrices), axis=(-2, -1))
+    if not np.all(finite):  # a diverging path: NaN there (LAPACK's SVD does not converge on it), the rest as usual
+        values = np.full(matrices.shape[:-2], np.nan, dtype=complex)
+        adjugates = np.full(matrices.shape, np.nan, dtype=complex)
+        if np.any(finite):
+            values[finite], adjugates[finite] = _determinant_and_adjugate(matrices[finite])
+        return values, adjugates
     u, s, vh = np.linalg.svd(matrices)
     phase = np.linalg.det(u) * np.linalg.det(vh)
     values = phase * np.prod(s, axis=-1)
@@ -547,6 +587,115 @@ class AugmentedEvaluator:
         return (values, matrix) if jacobian else values
 
 
+class MinorsSystem(PolynomialSystem):
+    """F together with minors det(A_k J_F B_k) that are evaluated, never expanded: the equations of "rank J < c".
+
+    ``polynomials`` are F's equations only; the minors are always those of the Jacobian of the current
+    ``polynomials`` (in their first ``weights.right.shape[1]`` variables), so that rescaling F's equations and
+    unknowns (:class:`~numag.numeric.scaling.Scaling`) rescales the minors with them: det(A S J D B) is another
+    random combination of the same minors, with the same common zeros with F. ``n_equations`` and ``degrees``
+    count F and the minors (equation k >= len(polynomials) is minor k - len(polynomials)); code that walks
+    ``polynomials`` alone must ask :attr:`minors` too (the witness cascade, :func:`holding_rows`).
+
+    Parameters
+    ----------
+    variables : sequence of str
+    polynomials : sequence of Polynomial
+        F (numeric).
+    minors : MinorWeights
+    name : str, optional
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> f = parse_system(["x^2 + y^2 + z^2 - 1"], ["x", "y", "z"])
+    >>> weights = random_minor_weights(1, 3, 1, 0, np.random.default_rng(0), count=3)
+    >>> system = MinorsSystem(f.variables, f.polynomials, weights)
+    >>> system.n_equations, system.degrees, system.has_real_coefficients
+    (4, [2, 1, 1, 1], False)
+    """
+
+    def __init__(self, variables, polynomials, minors, name=None):
+        super().__init__(variables, [p.numeric() for p in polynomials], name=name)
+        if minors.left.shape[2] != len(self.polynomials) or minors.right.shape[1] > len(self.variables):
+            raise InputError(f"minor weights of shapes {minors.left.shape} and {minors.right.shape} do not fit "
+                             f"{len(self.polynomials)} equations in {len(self.variables)} unknowns")
+        self.minors = minors
+        self._affine = None
+
+    @property
+    def n_equations(self):
+        """F's equations and the minors."""
+        return len(self.polynomials) + self.minors.count
+
+    @property
+    def degrees(self):
+        """Degrees of F's equations, then of the minors."""
+        return [p.degree for p in self.polynomials] + list(self.evaluated().degrees)
+
+    @property
+    def has_real_coefficients(self):
+        """Real only when F and the weights of the minors are real."""
+        return super().has_real_coefficients and not np.iscomplexobj(self.minors.left) \
+            and not np.iscomplexobj(self.minors.right)
+
+    def evaluated(self, homogenized=False):
+        """The minors as :class:`EvaluatedMinors` (affine; or homogenised, in (X_0, x))."""
+        if homogenized:
+            return EvaluatedMinors.from_weights(self.polynomials, self.minors, homogenized=True)
+        if self._affine is None:
+            self._affine = EvaluatedMinors.from_weights(self.polynomials, self.minors)
+        return self._affine
+
+    def with_polynomials(self, polynomials):
+        """The same minors of other equations F' (F rescaled), as a new system."""
+        return MinorsSystem(self.variables, polynomials, self.minors, self.name)
+
+
+def split_equations(system, indices):
+    """Equations ``indices`` of a system, F's and evaluated minors apart: (polynomials, EvaluatedMinors or None).
+
+    Parameters
+    ----------
+    system : PolynomialSystem or MinorsSystem
+    indices : sequence of int
+        Equation numbers; in a :class:`MinorsSystem` those from ``len(system.polynomials)`` on are minors.
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> split_equations(parse_system(["x", "y^2"], ["x", "y"]), [1])[0][0].degree
+    2
+    """
+    m = len(system.polynomials)
+    polynomials = [system.polynomials[k].numeric() for k in indices if k < m]
+    minors = [k - m for k in indices if k >= m]
+    if not minors:
+        return polynomials, None
+    return polynomials, system.evaluated().subset(minors)
+
+
+def equation_evaluator(system, indices=None):
+    """Values, Jacobians and term sizes of equations ``indices`` (default all) of a system: (evaluator, sizes).
+
+    A :class:`~numag.numeric.evaluate.BatchEvaluator` and :class:`~numag.numeric.evaluate.TermSizes` for
+    polynomials; an :class:`AugmentedEvaluator` (both roles) when evaluated minors are among them.
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> evaluator, sizes = equation_evaluator(parse_system(["x^2 - y"], ["x", "y"]))
+    >>> evaluator.evaluate(np.array([[2.0, 1.0]]), jacobian=False).real
+    array([[3.]])
+    """
+    indices = range(system.n_equations) if indices is None else indices
+    polynomials, minors = split_equations(system, indices)
+    if minors is None:
+        return BatchEvaluator(polynomials), TermSizes(polynomials)
+    both = AugmentedEvaluator(polynomials, minors)
+    return both, both
+
+
 class CombinedRows:
     """Random combinations of homogeneous equations, some of them evaluated minors, applied to values and gradients.
 
@@ -583,8 +732,12 @@ class CombinedRows:
         if self.weights.shape[1] != len(base_degrees):
             raise InputError(f"{self.weights.shape[1]} weights per row for {len(base_degrees)} equations")
         self.base_degrees = np.array(base_degrees, dtype=np.int64)
-        self.degree = int(self.base_degrees.max(initial=0))
-        self.raise_by = self.degree - self.base_degrees  # the X_0 power of each equation
+        # each row raised to the largest degree among the equations it combines (a row that is one equation,
+        # the moving row of a regeneration, keeps that equation's degree); rows of random weights combine all
+        used = np.abs(self.weights) > 0
+        self.row_degrees = np.array([int(self.base_degrees[row].max(initial=0)) for row in used], dtype=np.int64)
+        self.degree = int(self.row_degrees.max(initial=0))
+        self.raise_by = np.where(used, self.row_degrees[:, None] - self.base_degrees[None, :], 0)  # X_0 powers (c, m + K)
         self.count = len(self.weights)
         self._evaluator = AugmentedEvaluator(self.polynomials, minors, projective=True, homogenized=True) \
             if minors is not None else None
@@ -595,8 +748,8 @@ class CombinedRows:
 
     @property
     def degrees(self):
-        """The degree of every row (all D)."""
-        return [self.degree] * self.count
+        """The degree of every row."""
+        return [int(d) for d in self.row_degrees]
 
     def _base(self, points, jacobian=True):
         source = self._evaluator if self._evaluator is not None else self._polynomial_evaluator
@@ -607,15 +760,16 @@ class CombinedRows:
         points = np.atleast_2d(np.asarray(points, dtype=complex))
         result = self._base(points, jacobian)
         values, gradients = (result[0], result[1]) if jacobian else (result, None)
-        x0 = points[:, :1]
-        power = x0 ** self.raise_by[None, :]  # (P, m + K)
-        rows = (values * power) @ self.weights.T
+        x0 = points[:, :1, None]
+        power = x0 ** self.raise_by[None, :, :]  # (P, c, m + K)
+        weighted = self.weights[None, :, :] * power
+        rows = np.einsum("pij,pj->pi", weighted, values)
         if not jacobian:
             return rows
         lower = np.where(self.raise_by > 0, self.raise_by * x0 ** np.maximum(self.raise_by - 1, 0), 0)
-        raised = gradients * power[:, :, None]
-        raised[:, :, 0] += lower * values  # d/dX_0 of X_0^e: the product rule
-        return rows, np.einsum("ij,pjl->pil", self.weights, raised)
+        row_gradients = np.einsum("pij,pjl->pil", weighted, gradients)
+        row_gradients[:, :, 0] += np.einsum("pij,pj->pi", self.weights[None, :, :] * lower, values)  # product rule
+        return rows, row_gradients
 
     def both(self, points):
         """Term sizes of the rows and of their gradients, each (P, c) (as :class:`TermSizes`)."""
@@ -624,11 +778,12 @@ class CombinedRows:
             values, gradients = self._evaluator.both(points)
         else:
             values, gradients = self._polynomial_sizes.both(points)
-        rho0 = self._reference.reference(points)[:, :1]
-        power = rho0 ** self.raise_by[None, :]
+        rho0 = self._reference.reference(points)[:, :1, None]
+        power = rho0 ** self.raise_by[None, :, :]  # (P, c, m + K)
         lower = np.where(self.raise_by > 0, self.raise_by * rho0 ** np.maximum(self.raise_by - 1, 0), 0)
-        weights = np.abs(self.weights).T
-        return (values * power) @ weights, (gradients * power + lower * values) @ weights
+        weights = np.abs(self.weights)[None, :, :]
+        return np.einsum("pij,pj->pi", weights * power, values), \
+            np.einsum("pij,pj->pi", weights * power, gradients) + np.einsum("pij,pj->pi", weights * lower, values)
 
     def values(self, points):
         """Term sizes of the rows (P, c)."""
@@ -655,7 +810,7 @@ class CombinedRows:
                 if w == 0:
                     continue
                 w = ctx.mpc(float(w.real), float(w.imag))
-                e = int(self.raise_by[j])
+                e = int(self.raise_by[i, j])
                 out_values[i] += w * x0 ** e * values[j]
                 if jacobian:
                     for l in range(n):
@@ -663,6 +818,56 @@ class CombinedRows:
                     if e:
                         out_gradients[i, 0] += w * e * x0 ** (e - 1) * values[j]
         return (out_values, out_gradients) if jacobian else out_values
+
+
+class LinearFormProduct:
+    """The product of linear forms prod_k (r_k . X), evaluated (never expanded), with its gradient.
+
+    The start row of a regeneration towards an evaluated minor of degree D is a product of D linear forms in
+    n + 1 homogeneous variables; written out it has up to C(n + D, n) terms (245,157 refused for D = 8,
+    n = 16).
+
+    Parameters
+    ----------
+    rows : array_like, shape (D, N)
+
+    Examples
+    --------
+    >>> product = LinearFormProduct([[1.0, 2.0], [0.0, 1.0]])   # (X0 + 2 x) x
+    >>> values, gradients = product.evaluate(np.array([[1.0, 3.0]]))
+    >>> values.real, gradients[0].real
+    (array([[21.]]), array([[ 3., 13.]]))
+    """
+
+    def __init__(self, rows):
+        self.rows = np.atleast_2d(np.asarray(rows, dtype=complex))
+        self.degree = len(self.rows)
+        self.n_variables = self.rows.shape[1]
+        self.count = 1
+
+    def evaluate(self, points, jacobian=True):
+        """Values (P, 1) and, with ``jacobian``, gradients (P, 1, N)."""
+        forms = np.atleast_2d(points) @ self.rows.T  # (P, D)
+        values = np.prod(forms, axis=1, keepdims=True)
+        if not jacobian:
+            return values
+        others = _products_of_others(forms[:, None, :])[:, 0, :]  # (P, D): the product of the other forms
+        return values, (others @ self.rows)[:, None, :]
+
+    def evaluate_precise(self, point, ctx, jacobian=True):
+        """Value (1, 1) and gradient (1, N) at one point in an mpmath context."""
+        rows = [[ctx.mpc(complex(a).real, complex(a).imag) for a in row] for row in self.rows]
+        forms = [ctx.fsum(a * x for a, x in zip(row, point)) for row in rows]
+        value = ctx.matrix(1, 1)
+        value[0] = ctx.fprod(forms)
+        if not jacobian:
+            return value
+        gradient = ctx.matrix(1, self.n_variables)
+        for k, row in enumerate(rows):
+            others = ctx.fprod(forms[:k] + forms[k + 1:])
+            for j in range(self.n_variables):
+                gradient[0, j] += others * row[j]
+        return value, gradient
 
 
 def kernel_deflation(polynomials, rank, rng):

@@ -27,6 +27,7 @@ import numpy as np
 
 from ..system.polynomial import Polynomial, PolynomialSystem
 from .evaluate import BatchEvaluator, PrecisionEvaluator, TermSizes
+from .minors import AugmentedEvaluator
 from .linalg import batched_least_squares, mp_least_squares, mp_right_singular_vectors, scaled_singular_values
 
 __all__ = ["ProjectionResult", "project_to_variety", "mp_gauss_newton", "RankDropSystem", "IsolationTest",
@@ -111,7 +112,7 @@ def largest_scaled_residual(sizes, evaluator, points):
     return result
 
 
-def project_to_variety(system, evaluator, points, tolerance=1e-13, max_iterations=30):
+def project_to_variety(system, evaluator, points, tolerance=1e-13, max_iterations=30, sizes=None):
     """Move points onto X with minimum-norm Gauss-Newton steps, all points at once.
 
     Parameters
@@ -123,6 +124,9 @@ def project_to_variety(system, evaluator, points, tolerance=1e-13, max_iteration
     tolerance : float
         Target for the scaled residual.
     max_iterations : int
+    sizes : TermSizes, optional
+        Term sizes of the equations ``evaluator`` evaluates (default those of ``system.polynomials``; give
+        them when the evaluator has more rows, e.g. evaluated minors).
 
     Returns
     -------
@@ -130,7 +134,7 @@ def project_to_variety(system, evaluator, points, tolerance=1e-13, max_iteration
     """
     start = np.array(points, dtype=complex, copy=True)
     current = start.copy()
-    sizes = TermSizes(system.polynomials, system.projective)
+    sizes = TermSizes(system.polynomials, system.projective) if sizes is None else sizes
     residual, values, jacobians = scaled_residual_norm(sizes, evaluator, current)
     active = residual > tolerance
     iterations = 0
@@ -349,6 +353,8 @@ class IsolationTest:
     system : PolynomialSystem
         Affine, at least as many equations as unknowns near the point.
     rng : numpy.random.Generator
+    minors : EvaluatedMinors, optional
+        Further equations, evaluated minors in the same variables (never expanded).
 
     Examples
     --------
@@ -361,15 +367,17 @@ class IsolationTest:
     True
     """
 
-    def __init__(self, system, rng):
+    def __init__(self, system, rng, minors=None):
         self.system = system
         self.rng = rng
-        self.evaluator = BatchEvaluator(system.polynomials)
+        self.minors = minors  # EvaluatedMinors that are equations too (after the polynomials), or None
+        self.evaluator = BatchEvaluator(system.polynomials) if minors is None \
+            else AugmentedEvaluator(system.polynomials, minors)
 
     def isolated(self, point):
         system = self.system
         _, jacobian = self.evaluator.evaluate(point[None, :])
-        scales = TermSizes(system.polynomials).gradients(point[None, :])
+        scales = (TermSizes(system.polynomials) if self.minors is None else self.evaluator).gradients(point[None, :])
         values = scaled_singular_values(jacobian, scales)[0]
         small = system.n_variables - int(np.sum(values > 1e-6))
         if small == 0:
@@ -391,7 +399,11 @@ class IsolationTest:
         normal = direction.conj()  # hyperplane conj(d) . x = conj(d) . moved
         sliced = PolynomialSystem(self.system.variables, [p.numeric() for p in self.system.polynomials]
                                   + [Polynomial.linear(normal, -complex(normal @ moved))])
-        result = project_to_variety(sliced, BatchEvaluator(sliced.polynomials), moved[None, :], max_iterations=60)
+        if self.minors is None:
+            result = project_to_variety(sliced, BatchEvaluator(sliced.polynomials), moved[None, :], max_iterations=60)
+        else:
+            both = AugmentedEvaluator(sliced.polynomials, self.minors)
+            result = project_to_variety(sliced, both, moved[None, :], max_iterations=60, sizes=both)
         return bool(result.converged[0] and np.linalg.norm(result.points[0] - point) <= 10 * radius)
 
 

@@ -46,7 +46,7 @@ from ..system.display import counted, html_table, short_point
 from ..system.polynomial import Polynomial, PolynomialSystem, linear_space, require_numeric
 from ..numeric.cluster import cluster_labels, groups, normalize_projective
 from ..numeric.evaluate import BatchEvaluator, TermSizes
-from ..numeric.minors import expanded_minors, random_minor_weights
+from ..numeric.minors import MinorsSystem, expanded_minors, random_minor_weights
 from ..numeric.refine import IsolationTest, project_to_variety
 from ..numeric.scaling import Scaling
 from ..numeric.seeds import resolved_seed
@@ -55,7 +55,8 @@ from ..tracking.starts import StartKind
 from ..tracking.service import add_path_counts
 from ..tracking.tracker import FAILURE_LABELS
 from ..witness.cascade import held_parts, linear_form, random_rows, track_moves
-from ..witness.decompose import DecomposeOptions, Decomposition, components_through, decompose, holding_rows
+from ..witness.decompose import (EXPANSION_MONOMIALS, DecomposeOptions, Decomposition, components_through, decompose,
+                                 expansion_bound, holding_rows)
 from .isolated import finite_singular_points, null_vector_system
 from .kinds import CandidateSystem, Formulation, PieceKind, Verdict
 from .smoothness import CheckOptions, check_points
@@ -231,21 +232,40 @@ def _real_flags(system, points):
     return np.all(np.abs(points.imag) <= 1e-8 * (1 + np.abs(points)), axis=1)
 
 
-def minors_system(system, codimension, rng, max_exact, n_columns=None):
+def minors_system(system, codimension, rng, max_exact, n_columns=None, evaluate_large=False):
     """F together with equations for "rank J < codimension" (all minors, or random combinations).
 
     With ``n_columns``, J is taken in the first ``n_columns`` variables only (a family's x, its
     parameters last: the incidence system of the discriminant).
+
+    With ``evaluate_large``, minors of size 2 or more whose expansion could have more than
+    ``EXPANSION_MONOMIALS`` monomials are not written out: the result is a
+    :class:`~numag.numeric.minors.MinorsSystem` (F, and the minors evaluated from J), which the witness
+    cascade and the decomposition take as they take polynomials. The random weights are the same draws
+    either way, so small cases get the same equations as before.
 
     Returns
     -------
     PolynomialSystem
     CandidateSystem
         MINORS or RANDOM_MINORS.
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> system = parse_system(["x^2 + y^2 - z^2"], ["x", "y", "z"])   # a cone
+    >>> augmented, kind = minors_system(system, 1, np.random.default_rng(0), 24)
+    >>> augmented.n_equations, kind.value
+    (4, 'minors')
     """
     equations = [p.numeric() for p in system.polynomials]
     n = system.n_variables if n_columns is None else int(n_columns)
     weights = random_minor_weights(system.n_equations, n, codimension, max_exact, rng)
+    if evaluate_large and n_columns is None and codimension >= 2 \
+            and expansion_bound(equations, codimension, n) > EXPANSION_MONOMIALS:
+        # a c x c determinant of polynomials multiplies c of them: written out it can have C(n + D, n) terms
+        kind = CandidateSystem.MINORS if weights.complete else CandidateSystem.RANDOM_MINORS
+        return MinorsSystem(system.variables, equations, weights, name=system.name), kind
     minors = expanded_minors(equations, weights, normalize=True)
     kind = CandidateSystem.MINORS if weights.complete else CandidateSystem.RANDOM_MINORS
     return PolynomialSystem(system.variables, equations + minors, name=system.name), kind
@@ -511,7 +531,8 @@ def _affine(system, options, rng, paths, discarded, progress, notes_out=None, ro
             augmented = None
             if formulation is not Formulation.NULL_VECTOR:
                 try:
-                    augmented, kind = minors_system(system, codimension, rng, options.max_exact_minors)
+                    augmented, kind = minors_system(system, codimension, rng, options.max_exact_minors,
+                                                    evaluate_large=True)
                 except LimitError as err:  # the expanded minors are too large: the null-vector form has no minors
                     notes_out.append(f"codimension {codimension}: the minors are too large to expand ({err}); the "
                                      "null-vector formulation was used instead.")

@@ -28,6 +28,7 @@ Examples
 import numpy as np
 
 from ..system.display import counted
+from ..system.polynomial import Polynomial
 from ..errors import InputError
 from ..numeric.evaluate import BatchEvaluator, PrecisionEvaluator, TermSizes
 from .multihomogeneous import MultihomogeneousStart, homogenized_to
@@ -330,6 +331,10 @@ class ParameterHomotopy(_PatchedHomotopy):
         Rows equal in start and target, evaluated rather than written out (random combinations of F and
         evaluated minors, :class:`~numag.numeric.minors.CombinedRows`): the first rows of H, before ``start``
         and ``target``.
+    held_start : list of (Polynomial or None), optional
+        One entry per held row: None where the row is the same in start and target, else the homogeneous
+        polynomial (or evaluated row, e.g. :class:`~numag.numeric.minors.LinearFormProduct`) it starts from (a
+        regeneration moves a product of linear forms to an evaluated minor).
 
     Examples
     --------
@@ -342,7 +347,7 @@ class ParameterHomotopy(_PatchedHomotopy):
     (2, 2)
     """
 
-    def __init__(self, start, target, patch, gamma, homogenized=True, held=None):
+    def __init__(self, start, target, patch, gamma, homogenized=True, held=None, held_start=None):
         self.start_polynomials = list(start)
         self.target = list(target)
         self.patch = np.asarray(patch, dtype=complex)
@@ -354,10 +359,16 @@ class ParameterHomotopy(_PatchedHomotopy):
             raise InputError("start and target must be square systems of the same size")
         self.evaluator = BatchEvaluator(self.target) if held is None else _HeldThenPolynomials(held, self.target)
         # Rows equal in start and target (equations held fixed while slices move) are evaluated once.
-        self._moving = first + np.array([k for k, (a, b) in enumerate(zip(self.start_polynomials, self.target))
-                                         if not (a is b or a == b)], dtype=np.int64)
-        self.start_evaluator = (BatchEvaluator([self.start_polynomials[k - first] for k in self._moving])
-                                if len(self._moving) else None)
+        held_start = [None] * first if held_start is None else list(held_start)
+        if len(held_start) != first:
+            raise InputError(f"{len(held_start)} start rows given for {first} held rows")
+        self._held_moving = [k for k, p in enumerate(held_start) if p is not None]
+        self._held_start = [held_start[k] for k in self._held_moving]
+        self._moving = np.array(self._held_moving + [first + k for k, (a, b) in enumerate(zip(self.start_polynomials,
+                                                                                               self.target))
+                                                     if not (a is b or a == b)], dtype=np.int64)
+        moving_start = self._held_start + [self.start_polynomials[k - first] for k in self._moving[len(self._held_moving):]]
+        self.start_evaluator = _StartRows(moving_start) if len(self._moving) else None
         self.evaluations = 0
         self.value_evaluations = 0
         self._precise = None
@@ -437,17 +448,20 @@ class ParameterHomotopy(_PatchedHomotopy):
     def evaluate_precise(self, point, s, ctx):
         """H, dH/dX and dH/ds at one point in an mpmath context (see StraightLineHomotopy)."""
         if self._precise is None:
-            self._precise = PrecisionEvaluator(self.target)
-            self._precise_start = PrecisionEvaluator(self.start_polynomials)
+            self._precise = PrecisionEvaluator(self.target) if self.held is None else self.evaluator
+            self._precise_start = PrecisionEvaluator(self.start_polynomials) if self.start_polynomials else None
         size = self.size
         f_values, f_jac = self._precise.evaluate(point, ctx) if self.held is None \
             else self.evaluator.evaluate_mp(point, ctx)
-        g_values, g_jac = self._precise_start.evaluate(point, ctx)
+        g_values, g_jac = self._precise_start.evaluate(point, ctx) if self._precise_start is not None else ([], [])
         first = 0 if self.held is None else self.held.count
-        if first:  # held rows: the same in start and target
-            g_values = [f_values[i] for i in range(first)] + [g_values[i] for i in range(size - 1 - first)]
-            g_jac = [[f_jac[i, j] for j in range(size)] for i in range(first)] + \
-                [[g_jac[i, j] for j in range(size)] for i in range(size - 1 - first)]
+        if first:  # held rows: the same in start and target, except those that move from a polynomial
+            moved = dict(zip(self._held_moving, range(len(self._held_moving))))
+            start_values, start_jac = _StartRows(self._held_start).evaluate_precise(point, ctx) if moved else (None, None)
+            g_values = [start_values[moved[i]] if i in moved else f_values[i] for i in range(first)] + \
+                [g_values[i] for i in range(size - 1 - first)]
+            g_jac = [[start_jac[moved[i], j] if i in moved else f_jac[i, j] for j in range(size)]
+                     for i in range(first)] + [[g_jac[i, j] for j in range(size)] for i in range(size - 1 - first)]
         gamma = ctx.mpc(self.gamma.real, self.gamma.imag)
         denominator = 1 + (gamma - 1) * s
         tau, dtau = gamma * s / denominator, gamma / denominator ** 2
@@ -461,6 +475,54 @@ class ParameterHomotopy(_PatchedHomotopy):
         return values, jacobian, derivative
 
 
+class _StartRows:
+    """The start rows of moving equations: polynomials (one batched evaluator) and evaluated rows (objects with
+    ``evaluate`` and ``evaluate_precise``, such as :class:`~numag.numeric.minors.LinearFormProduct`), in order."""
+
+    def __init__(self, rows):
+        self.rows = list(rows)
+        self._polynomial_at = [k for k, row in enumerate(self.rows) if isinstance(row, Polynomial)]
+        self._evaluated_at = [k for k, row in enumerate(self.rows) if not isinstance(row, Polynomial)]
+        polynomials = [self.rows[k] for k in self._polynomial_at]
+        self._evaluator = BatchEvaluator(polynomials) if polynomials else None
+        self._precise = None
+
+    def evaluate(self, points, jacobian=True):
+        count, size = len(points), len(self.rows)
+        values = np.empty((count, size), dtype=complex)
+        gradients = np.empty((count, size, points.shape[1]), dtype=complex) if jacobian else None
+        if self._evaluator is not None:
+            result = self._evaluator.evaluate(points, jacobian)
+            values[:, self._polynomial_at] = result[0] if jacobian else result
+            if jacobian:
+                gradients[:, self._polynomial_at] = result[1]
+        for k in self._evaluated_at:
+            result = self.rows[k].evaluate(points, jacobian)
+            values[:, k] = (result[0] if jacobian else result)[:, 0]
+            if jacobian:
+                gradients[:, k] = result[1][:, 0]
+        return (values, gradients) if jacobian else values
+
+    def evaluate_precise(self, point, ctx):
+        """Values (M, 1) and Jacobian (M, N) in an mpmath context."""
+        size, n = len(self.rows), len(point)
+        values, jacobian = ctx.matrix(size, 1), ctx.matrix(size, n)
+        if self._polynomial_at:
+            if self._precise is None:
+                self._precise = PrecisionEvaluator([self.rows[k] for k in self._polynomial_at])
+            part_values, part_jacobian = self._precise.evaluate(point, ctx)
+            for i, k in enumerate(self._polynomial_at):
+                values[k] = part_values[i]
+                for j in range(n):
+                    jacobian[k, j] = part_jacobian[i, j]
+        for k in self._evaluated_at:
+            row_value, row_gradient = self.rows[k].evaluate_precise(point, ctx)
+            values[k] = row_value[0]
+            for j in range(n):
+                jacobian[k, j] = row_gradient[0, j]
+        return values, jacobian
+
+
 class _HeldThenPolynomials:
     """Evaluated held rows (:class:`~numag.numeric.minors.CombinedRows`) then polynomials, behind the interface
     of :class:`BatchEvaluator` (``evaluate``, ``evaluate`` in mpmath) and of :class:`TermSizes` (``both``,
@@ -469,11 +531,14 @@ class _HeldThenPolynomials:
     def __init__(self, held, polynomials):
         self.held = held
         self.polynomials = list(polynomials)
-        self._evaluator = BatchEvaluator(self.polynomials)
-        self._sizes = TermSizes(self.polynomials, homogenized=True)
+        # every row can be held (a regeneration's last step moves an evaluated row with no slice left)
+        self._evaluator = BatchEvaluator(self.polynomials) if self.polynomials else None
+        self._sizes = TermSizes(self.polynomials, homogenized=True) if self.polynomials else None
         self._precise = None
 
     def evaluate(self, points, jacobian=True):
+        if self._evaluator is None:
+            return self.held.evaluate(points, jacobian)
         if not jacobian:
             return np.hstack([self.held.evaluate(points, False), self._evaluator.evaluate(points, jacobian=False)])
         held_values, held_jacobian = self.held.evaluate(points)
@@ -482,6 +547,8 @@ class _HeldThenPolynomials:
 
     def both(self, points):
         held_values, held_gradients = self.held.both(points)
+        if self._sizes is None:
+            return held_values, held_gradients
         values, gradients = self._sizes.both(points)
         return np.hstack([held_values, values]), np.hstack([held_gradients, gradients])
 
@@ -493,9 +560,11 @@ class _HeldThenPolynomials:
 
     def evaluate_mp(self, point, ctx):
         """Values (M, 1) and Jacobian (M, N) in an mpmath context."""
+        held_values, held_jacobian = self.held.evaluate_precise(point, ctx)
+        if not self.polynomials:
+            return held_values, held_jacobian
         if self._precise is None:
             self._precise = PrecisionEvaluator(self.polynomials)
-        held_values, held_jacobian = self.held.evaluate_precise(point, ctx)
         values, jacobian = self._precise.evaluate(point, ctx)
         first, rest, n = self.held.count, len(self.polynomials), len(point)
         out_values, out_jacobian = ctx.matrix(first + rest, 1), ctx.matrix(first + rest, n)

@@ -40,7 +40,8 @@ from ..run.executor import ambient_executor, charge_paths
 from ..numeric.cluster import cluster_labels, groups
 from ..numeric.evaluate import BatchEvaluator, TermSizes
 from ..numeric.linalg import scaled_singular_values
-from ..numeric.minors import CombinedRows
+from ..numeric.minors import (AugmentedEvaluator, CombinedRows, LinearFormProduct, MinorsSystem, equation_evaluator,
+                              split_equations)
 from ..numeric.refine import IsolationTest, largest_scaled_residual, project_to_variety
 from ..numeric.seeds import random_state
 from ..tracking.homotopy import ParameterHomotopy, random_unit_complex
@@ -174,7 +175,14 @@ class Slicing:
         # (Chebyshev curves of degree 11 have coefficients up to 1024); the zero sets are unchanged
         self.homogeneous = [p.numeric().homogenize(0) * (1.0 / max(p.coefficient_norm(), 1e-300))
                             for p in system.polynomials]
+        # evaluated minors (a MinorsSystem): homogenised, divided by the size of their terms at (1, ..., 1)
+        self.minors = system.evaluated(homogenized=True).scaled_to_unit(np.ones((1, self.n + 1))) \
+            if isinstance(system, MinorsSystem) else None
         self._factors = {}
+
+    def evaluated(self, index):
+        """Is equation ``index`` an evaluated minor (not one of the polynomials)?"""
+        return index >= len(self.homogeneous)
 
     def slice_rows(self, codimension):
         """The hyperplanes of the codimension-c witness points: l_{c+1}, ..., l_n."""
@@ -191,6 +199,46 @@ class Slicing:
     def combinations(self, equations, count):
         """``count`` random combinations of homogeneous equations (see :func:`combine_equations`)."""
         return combine_equations(equations, count, self.rng)
+
+    def held_rows(self, indices, count, moving=None):
+        """``count`` random combinations of the equations ``indices`` (homogeneous), polynomials or evaluated rows.
+
+        Without evaluated minors this is :meth:`combinations` of those equations (the same draws). With
+        them (among ``indices``, or ``moving`` one), the combinations are a :class:`CombinedRows`.
+
+        Parameters
+        ----------
+        indices : list of int
+            Equation numbers (those from ``len(system.polynomials)`` on are evaluated minors).
+        count : int
+        moving : int, optional
+            An evaluated equation to append as one more row by itself (the target of a regeneration).
+
+        Returns
+        -------
+        held : list of Polynomial or CombinedRows
+            The combinations.
+        with_moving : CombinedRows or None
+            The same combinations (same weights) and the row of ``moving`` last; None without ``moving``.
+        """
+        m = len(self.homogeneous)
+        minors = [k - m for k in indices if k >= m]
+        if not minors and (moving is None or moving < m):
+            return combine_equations([self.homogeneous[k] for k in indices], count, self.rng), None
+        polynomials = [self.homogeneous[k] for k in indices if k < m]
+        # columns: the polynomials, then the minors (random weights: the order is immaterial)
+        weights = random_rows(self.rng, count, len(indices)) if count and indices \
+            else np.zeros((count, len(indices)), dtype=complex)
+        if minors:
+            held = CombinedRows(polynomials, self.minors.subset(minors), weights)
+        else:
+            held = _combine_with(polynomials, weights)
+        if moving is None:
+            return held, None
+        last = np.zeros((1, len(indices) + 1), dtype=complex)
+        last[0, -1] = 1.0
+        rows = np.vstack([np.hstack([weights, np.zeros((count, 1))]), last])
+        return held, CombinedRows(polynomials, self.minors.subset(minors + [moving - m]), rows)
 
 
 def combine_equations(equations, count, rng):
@@ -209,10 +257,16 @@ def combine_equations(equations, count, rng):
     """
     if count == 0 or not equations:
         return []
+    return _combine_with(equations, random_rows(rng, count, len(equations)))
+
+
+def _combine_with(equations, weights):
+    """The combinations ``weights`` (rows) of homogeneous equations, raised to one degree by X_0 powers."""
+    if len(weights) == 0 or not equations:
+        return []
     top = max(p.degree for p in equations)
     x0 = Polynomial.variable(0, equations[0].n_variables).numeric()
     raised = [p * x0.power(top - p.degree) if p.degree < top else p for p in equations]
-    weights = random_rows(rng, count, len(equations))
     combined = []
     for row in weights:
         total = Polynomial.zero(equations[0].n_variables)
@@ -240,7 +294,8 @@ def _product_oflinear_form(rows):
     return product
 
 
-def track_moves(start, target, points, rng, options, batch_size=4096, whole_cycles=False, held=None):
+def track_moves(start, target, points, rng, options, batch_size=4096, whole_cycles=False, held=None,
+                held_start=None):
     """Track affine points from the square homogeneous system ``start`` to ``target`` (parameter homotopy).
 
     Parameters
@@ -257,6 +312,8 @@ def track_moves(start, target, points, rng, options, batch_size=4096, whole_cycl
     held : CombinedRows, optional
         Evaluated rows common to start and target, before them (then ``start`` and ``target`` have
         n - held.count polynomials each).
+    held_start : list of (Polynomial or None), optional
+        Held rows that move: the polynomial each starts from (see :class:`ParameterHomotopy`).
 
     Returns
     -------
@@ -274,7 +331,7 @@ def track_moves(start, target, points, rng, options, batch_size=4096, whole_cycl
 
     def homotopy_with_fresh_gamma():
         patch = (rng.standard_normal(size) + 1j * rng.standard_normal(size)) / np.sqrt(2 * size)
-        made = ParameterHomotopy(start, target, patch, random_unit_complex(rng), held=held)
+        made = ParameterHomotopy(start, target, patch, random_unit_complex(rng), held=held, held_start=held_start)
         return made, made.start_solutions_from(points)
 
     homotopy, starts = homotopy_with_fresh_gamma()
@@ -393,23 +450,26 @@ def _witness_supersets(system, options, seed, progress):
     # codimension -> (points (K, n), multiplicity (K,)); the start: C^n is witnessed by one point
     start_point = np.linalg.solve(slicing.rows[:, 1:], -slicing.rows[:, 0])
     current = {0: (start_point[None, :], np.ones(1, dtype=np.int64))}
-    order = sorted(range(system.n_equations), key=lambda k: system.polynomials[k].degree)
+    degrees = system.degrees  # F's equations, then any evaluated minors (a MinorsSystem)
+    order = sorted(range(system.n_equations), key=lambda k: degrees[k])
     used = []
     for step, index in enumerate(order):
-        f = slicing.homogeneous[index]
-        if f.is_zero():
-            continue
-        if f.degree == 0:  # a nonzero constant: no point satisfies it, X is empty in every dimension
-            current = {}
-            counts["constant_equation"] = 1
-            break
+        if not slicing.evaluated(index):
+            f = slicing.homogeneous[index]
+            if f.is_zero():
+                continue
+            if f.degree == 0:  # a nonzero constant: no point satisfies it, X is empty in every dimension
+                current = {}
+                counts["constant_equation"] = 1
+                break
         before = used.copy()
         used.append(index)
-        equations = [slicing.homogeneous[k] for k in used]
-        affine = [system.polynomials[k].numeric() for k in used]
-        evaluator, sizes = BatchEvaluator(affine), TermSizes(affine)
-        single = BatchEvaluator([system.polynomials[index].numeric()])
-        single_sizes = TermSizes([system.polynomials[index]])
+        evaluator, sizes = equation_evaluator(system, used)
+        if slicing.evaluated(index):
+            single, single_sizes = equation_evaluator(system, [index])
+        else:
+            single = BatchEvaluator([system.polynomials[index].numeric()])
+            single_sizes = TermSizes([system.polynomials[index]])
         following = {}
         for codim in sorted(current):
             points, multiplicity = current[codim]
@@ -429,8 +489,7 @@ def _witness_supersets(system, options, seed, progress):
             regenerate = points[~on]
             if codim >= deepest or len(regenerate) == 0:
                 continue
-            candidates, lost, moved = _regenerate(slicing, [slicing.homogeneous[k] for k in before], f, codim,
-                                                  regenerate, options)
+            candidates, lost, moved = _regenerate(slicing, before, index, codim, regenerate, options)
             counts["at_infinity_or_failed"] += lost
             track_counts += moved
             if len(candidates) == 0:
@@ -456,7 +515,7 @@ def _witness_supersets(system, options, seed, progress):
             members = groups(labels)
             distinct = np.array([candidates[m[0]] for m in members])
             paths = np.array([len(m) for m in members], dtype=np.int64)
-            keep, local_junk, tested = _not_junk(slicing, equations, evaluator, sizes, codim + 1, distinct,
+            keep, local_junk, tested = _not_junk(slicing, used, evaluator, sizes, codim + 1, distinct,
                                                  following, options)
             if local_junk:
                 counts["junk_by_local_test"] = counts.get("junk_by_local_test", 0) + local_junk
@@ -483,42 +542,60 @@ def _witness_supersets(system, options, seed, progress):
 def _refine_on(system, used, slice_rows, points):
     """Gauss-Newton onto f_used = 0 and the slice; (refined points, mask of those that converged nearby)."""
     n = system.n_variables
-    equations = [system.polynomials[k].numeric() for k in used] + [Polynomial.linear(r[1:], r[0]) for r in slice_rows]
+    polynomials, minors = split_equations(system, used)
+    equations = polynomials + [Polynomial.linear(r[1:], r[0]) for r in slice_rows]
     augmented = PolynomialSystem([f"x{j}" for j in range(n)], equations)
-    result = project_to_variety(augmented, BatchEvaluator(augmented.polynomials), points, max_iterations=60)
+    if minors is None:
+        result = project_to_variety(augmented, BatchEvaluator(augmented.polynomials), points, max_iterations=60)
+    else:
+        both = AugmentedEvaluator(equations, minors)
+        result = project_to_variety(augmented, both, points, max_iterations=60, sizes=both)
     near = result.distances <= 1e-5 * (1 + np.linalg.norm(points, axis=1))
     return result.points, result.converged & near
 
 
-def _regenerate(slicing, held_equations, f, codim, points, options):
+def _regenerate(slicing, before, index, codim, points, options):
     """Endpoints on V(held, f) of the codimension-(codim + 1) slice, from codim-c points not on V(f).
+
+    ``before`` are the equations so far (numbers), ``index`` the number of f (a polynomial, or an evaluated
+    minor: then the moving row goes from the product of linear forms to the evaluated f).
 
     Returns the endpoints, the number of linear-move paths lost (failed or at infinity) and the
     paths tracked (:class:`~numag.tracking.service.PathCounts`).
     """
     n = slicing.n
-    degree = f.degree
-    held = slicing.combinations(held_equations, codim) if held_equations else []
+    evaluated = slicing.evaluated(index)
+    degree = slicing.system.degrees[index]
+    held, with_f = slicing.held_rows(before, codim, moving=index if evaluated else None) if before or evaluated \
+        else ([], None)
+    held, block = held_parts(held)
     rest = [linear_form(r) for r in slicing.rows[codim + 1:]]
     moved_rows = slicing.factor_rows(codim, degree)
     starts, paths = [], PathCounts()
     base = held + [linear_form(slicing.rows[codim])] + rest
     for row in moved_rows:  # move l_{c+1} to each factor hyperplane: d linear moves
         target = held + [linear_form(row)] + rest
-        run = track_moves(base, target, points, slicing.rng, options.tracker, options.batch_size)
+        run = track_moves(base, target, points, slicing.rng, options.tracker, options.batch_size, held=block)
         ends = run.affine_endpoints()
         paths += run.counts
         starts.append(ends[np.all(np.isfinite(ends), axis=1)])
     starts = np.vstack(starts) if starts else np.zeros((0, n), complex)
     lost = len(points) * degree - len(starts)
-    product = _product_oflinear_form(moved_rows)
     # every solution of the product system off V(held, f) moves: cycles at infinity are whole
-    run = track_moves(held + [product] + rest, held + [f] + rest, starts, slicing.rng, options.tracker,
-                      options.batch_size, whole_cycles=True)
+    if evaluated:  # the combinations (same weights) and then f are the held rows, f starting from the product
+        # the product of deg f linear forms evaluated too: written out it has up to C(n + deg f, n) terms
+        product = LinearFormProduct(moved_rows)
+        run = track_moves(rest, rest, starts, slicing.rng, options.tracker, options.batch_size,
+                          whole_cycles=True, held=with_f, held_start=[None] * (with_f.count - 1) + [product])
+    else:
+        product = _product_oflinear_form(moved_rows)
+        f = slicing.homogeneous[index]
+        run = track_moves(held + [product] + rest, held + [f] + rest, starts, slicing.rng, options.tracker,
+                          options.batch_size, whole_cycles=True, held=block)
     return run.affine_endpoints(), lost, paths + run.counts
 
 
-def _not_junk(slicing, equations, evaluator, sizes, codim, points, found, options):
+def _not_junk(slicing, used, evaluator, sizes, codim, points, found, options):
     """Which points of a codimension-``codim`` candidate set do not lie on a larger component.
 
     Returns the mask, the number of points the local test found junk, and the paths the membership
@@ -538,16 +615,18 @@ def _not_junk(slicing, equations, evaluator, sizes, codim, points, found, option
     # larger component is not. The local test finds the curve through a junk point cheaply
     # (positive evidence); only the points it calls isolated need the homotopy membership test.
     n = slicing.n
-    sliced = PolynomialSystem([f"x{j}" for j in range(n)], [p.dehomogenize(0) for p in equations]
+    _, minors = split_equations(slicing.system, used)
+    sliced = PolynomialSystem([f"x{j}" for j in range(n)],
+                              [slicing.homogeneous[k].dehomogenize(0) for k in used if not slicing.evaluated(k)]
                               + [Polynomial.linear(r[1:], r[0]) for r in slicing.slice_rows(codim)])
-    local = IsolationTest(sliced, slicing.rng)
+    local = IsolationTest(sliced, slicing.rng, minors=minors)
     for k in suspects:
         if not local.isolated(points[k]):
             keep[k] = False
             local_junk += 1
             continue
         for c, witness_points in larger:
-            held = slicing.combinations(equations, c)
+            held, _ = slicing.held_rows(used, c)
             hits, tracked = membership(held, slicing.slice_rows(c), witness_points, points[k], slicing.rng, options)
             paths += tracked
             if np.any(hits):

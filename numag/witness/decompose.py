@@ -43,11 +43,11 @@ import numpy as np
 
 from ..errors import InputError, LimitError, is_integer, is_number, require_option
 from ..system.display import counted, html_table, short_point
-from ..system.polynomial import Polynomial, linear_space, require_numeric
+from ..system.polynomial import Polynomial, PolynomialSystem, linear_space, require_numeric
 from ..numeric.cluster import cluster_labels
 from ..numeric.evaluate import BatchEvaluator, TermSizes
-from ..numeric.minors import (CombinedRows, EvaluatedMinors, AugmentedEvaluator, MinorWeights, expanded_minors,
-                              random_minor_weights)
+from ..numeric.minors import (CombinedRows, EvaluatedMinors, AugmentedEvaluator, MinorsSystem, MinorWeights,
+                              equation_evaluator, expanded_minors, random_minor_weights)
 from ..numeric.scaling import Scaling
 from ..numeric.seeds import random_state, resolved_seed
 from ..tracking.service import PathCounts, add_path_counts
@@ -317,6 +317,10 @@ def holding_rows(system, codimension, points, rng, threshold=1e-6, max_rounds=4,
     equations = [p.numeric() for p in system.polynomials]
     deflated = False
     points = np.atleast_2d(points)
+    if isinstance(system, MinorsSystem):
+        # F and evaluated minors: deflating would need minors of minors (third derivatives of F), so the
+        # equations stay as they are; paths on a rank-deficient component may fail and are counted.
+        return HeldEquations(equations, system.minors, False)
     for _ in range(0 if simple else max_rounds):
         evaluator = BatchEvaluator(equations)
         ranks = jacobian_rank(evaluator, TermSizes(equations), points, threshold) if len(points) \
@@ -548,17 +552,31 @@ def decompose(system, options=None, seed=None, progress=None):
     options = options or DecomposeOptions()
     require_numeric(system)
     seed = resolved_seed(seed)
-    scaling = Scaling.balancing(system)
+    scaling = Scaling.balancing(_polynomial_part(system))
     with rescue_budget():  # the cascade, the loops and the membership tests share one rescue budget
-        result = _decompose(scaling.scale_system(system), options, seed, progress)
+        result = _decompose(_scaled(scaling, system), options, seed, progress)
     return result.in_units(scaling, system, to_user=True)
+
+
+def _polynomial_part(system):
+    """F alone of a :class:`MinorsSystem` (whose minors follow F's scaling), else the system."""
+    if isinstance(system, MinorsSystem):
+        return PolynomialSystem(system.variables, system.polynomials, name=system.name)
+    return system
+
+
+def _scaled(scaling, system):
+    """The system in the computed units; a :class:`MinorsSystem` keeps its minors, of the rescaled F."""
+    if isinstance(system, MinorsSystem):
+        return system.with_polynomials(scaling.scale_system(_polynomial_part(system)).polynomials)
+    return scaling.scale_system(system)
 
 
 def _decompose(system, options, seed, progress):
     """:func:`decompose` in the units of ``system`` (already scaled)."""
     started = time.perf_counter()
     rng = np.random.default_rng(seed)
-    linear = _linear_decomposition(system, options, rng, seed, started)
+    linear = None if isinstance(system, MinorsSystem) else _linear_decomposition(system, options, rng, seed, started)
     if linear is not None:  # linear equations: the exact answer, no homotopy
         return linear
     fibred = _fibred_decomposition(system, options, rng, seed, started, progress)
@@ -576,9 +594,11 @@ def _decompose(system, options, seed, progress):
         codimension = n - witness.dimension
         if progress is not None:
             progress(f"dimension {witness.dimension}: splitting {len(witness.points)} witness points")
-        evaluator = BatchEvaluator([p.numeric() for p in system.polynomials])
-        ranks = jacobian_rank(evaluator, TermSizes(system.polynomials), witness.points,
-                              options.witness.rank_threshold)
+        if isinstance(system, MinorsSystem):
+            evaluator, sizes = equation_evaluator(system)
+        else:
+            evaluator, sizes = BatchEvaluator([p.numeric() for p in system.polynomials]), TermSizes(system.polynomials)
+        ranks = jacobian_rank(evaluator, sizes, witness.points, options.witness.rank_threshold)
         # A witness point at the end of exactly one path is a simple root of a square subsystem and
         # the slice, so J has full rank there however small its scaled singular values (a reduced
         # quintic whose far branches nearly cancel: 1e-7). Only multiple ends can be rank-deficient.
@@ -703,6 +723,8 @@ def _degree_checks(system, components):
     theorem; Fulton, "Intersection Theory", Springer 1984, Example 8.4.6).
     """
     degrees = [p.degree for p in system.polynomials if not p.is_zero()]
+    if isinstance(system, MinorsSystem):
+        degrees += system.evaluated().degrees
     if not degrees or min(degrees) < 1 or not components:
         return {}
     if len(degrees) == 1:
@@ -768,7 +790,7 @@ def components_through(decomposition, point, seed=0, options=None):
                          f"{decomposition.system.n_variables} variables")
     if decomposition.scaling is not None:  # membership is decided in the units the components were found in
         scaling = decomposition.scaling
-        computed = decomposition.in_units(scaling, scaling.scale_system(decomposition.system), to_user=False)
+        computed = decomposition.in_units(scaling, _scaled(scaling, decomposition.system), to_user=False)
         found = {id(c): k for k, c in enumerate(computed.components)}
         hits = components_through(computed, scaling.to_computed(point), seed, options)
         return [decomposition.components[found[id(c)]] for c in hits]
