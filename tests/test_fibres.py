@@ -121,3 +121,22 @@ def test_root_zero_with_rounding(seed):
     assert result.fibred_over is not None
     assert [(c.dimension, c.degree) for c in result.components] == [(0, 1)]
     assert np.linalg.norm(result.components[0].points[0]) <= 1e-12
+
+
+def test_evaluated_minors_are_never_split_by_fibres():
+    # common practice, no source: a fibre of F alone is X's fibre, not the rank-drop locus; a system whose minors
+    # are evaluated from the whole Jacobian must be decomposed whole (split, it gave X's surfaces as candidates)
+    from numag.numeric.minors import MinorsSystem, random_minor_weights
+    system = parse_system(*AUXILIARY)
+    equations = [p.numeric() for p in system.polynomials]
+    weights = random_minor_weights(2, 4, 2, 24, np.random.default_rng(0))
+    evaluated = MinorsSystem(system.variables, equations, weights)
+    assert finite_block(system) is not None
+    assert decompose(evaluated, seed=3).fibred_over is None
+
+
+def test_a_mismatched_tangent_dimension_is_a_warning():
+    # a rank-drop component whose tangent space disagrees with its slicing makes the run undecided (exit 3)
+    from numag.app.report import completeness_warnings
+    assert not completeness_warnings({"discarded": {"smooth_on_check": 2}})
+    assert any("tangent space" in w for w in completeness_warnings({"discarded": {"tangent_dimension_mismatch": 1}}))

@@ -193,6 +193,12 @@ def completeness_warnings(data):
     if unsettled:
         warnings.append(f"{counted(unsettled, 'singular candidate')} could not be settled on X (Newton refinement "
                         "drifted): singular points there may be missing.")
+    mismatched = int((data.get("discarded") or {}).get("tangent_dimension_mismatch", 0)) if isinstance(
+        data.get("discarded"), dict) else 0
+    if mismatched:  # the rank-drop system's decomposition disagrees with itself: its pieces cannot be trusted
+        warnings.append(f"{counted(mismatched, 'candidate component')} of the rank-drop system had a tangent space of "
+                        "another dimension than its witness slicing: that decomposition may be wrong and singular "
+                        "pieces may be missing; run again with another --seed or --formulation to compare.")
     paths_block = data.get("paths") or {}
     if int((paths_block.get("endpoints") or {}).get("degree_check_failed", 0)):
         warnings.append("The components' degrees times multiplicities do not add up as Bezout's theorem requires "

@@ -55,6 +55,7 @@ from ..tracking.starts import StartKind
 from ..tracking.service import add_path_counts
 from ..tracking.tracker import FAILURE_LABELS
 from ..witness.cascade import held_parts, linear_form, random_rows, track_moves
+from ..witness.fibres import finite_block
 from ..witness.decompose import (EXPANSION_MONOMIALS, DecomposeOptions, Decomposition, components_through, decompose,
                                  expansion_bound, holding_rows)
 from .isolated import finite_singular_points, null_vector_system
@@ -261,7 +262,9 @@ def minors_system(system, codimension, rng, max_exact, n_columns=None, evaluate_
     equations = [p.numeric() for p in system.polynomials]
     n = system.n_variables if n_columns is None else int(n_columns)
     weights = random_minor_weights(system.n_equations, n, codimension, max_exact, rng)
-    if evaluate_large and n_columns is None and codimension >= 2 \
+    # a closed block of equations (an auxiliary algebraic number) is split root by root, which needs the
+    # minors as polynomials (decision 0061); too large to expand, they go to the null-vector form instead
+    if evaluate_large and n_columns is None and codimension >= 2 and finite_block(system) is None \
             and expansion_bound(equations, codimension, n) > EXPANSION_MONOMIALS:
         # a c x c determinant of polynomials multiplies c of them: written out it can have C(n + D, n) terms
         kind = CandidateSystem.MINORS if weights.complete else CandidateSystem.RANDOM_MINORS

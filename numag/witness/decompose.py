@@ -657,6 +657,10 @@ def _fibred_decomposition(system, options, rng, seed, started, progress):
     so ``reduced`` and the multiplicities carry over. None (no draw of ``rng``) when there is no block;
     None after solving when the roots are not all simple or a fibre cannot be written (decision 0061).
     """
+    if isinstance(system, MinorsSystem):
+        # its minors are evaluated from the whole Jacobian, not polynomials a fibre could carry: splitting F
+        # alone would decompose X instead of F plus minors
+        return None
     block = finite_block(system)
     if block is None:
         return None
