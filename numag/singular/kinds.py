@@ -85,6 +85,8 @@ class PieceKind(TextEnum):
     SINGULAR = "singular"
     NON_REDUCED = "non-reduced"    # a whole generically non-reduced component of X
     UNDECIDED = "undecided"
+    NEAR_SINGULAR = "near-singular"   # smooth as written, singular after a change of the coefficients within
+    #                                   their precision (decision 0062): listed apart, never a piece
 
     @classmethod
     def of_verdict(cls, verdict):

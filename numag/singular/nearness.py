@@ -40,7 +40,7 @@ import numpy as np
 
 from ..system.exact import ExactCoefficient
 from ..numeric.refine import RankDropSystem, mp_gauss_newton
-from .kinds import CoefficientPrecision
+from .kinds import CoefficientPrecision, PieceKind
 
 __all__ = ["NearSingularPoint", "coefficient_precision", "input_tolerance", "backward_error",
            "nearest_backward_error", "DOUBLE_SIGNIFICANT_DIGITS"]
@@ -80,6 +80,8 @@ class NearSingularPoint:
         The rank a smooth point needs.
     real : bool
     precision : CoefficientPrecision
+    kind : PieceKind
+        Always :attr:`PieceKind.NEAR_SINGULAR`.
     """
 
     point: np.ndarray
@@ -88,6 +90,27 @@ class NearSingularPoint:
     codimension: int
     real: bool
     precision: CoefficientPrecision = CoefficientPrecision.DOUBLE
+    kind: PieceKind = PieceKind.NEAR_SINGULAR
+
+    def to_dict(self, encode):
+        """The report's entry (``encode`` writes a point as JSON)."""
+        return {"kind": self.kind, "point": encode(self.point), "real": self.real,
+                "backward_error": self.backward_error, "tolerance": self.tolerance,
+                "codimension": self.codimension, "precision": self.precision}
+
+    @classmethod
+    def from_dict(cls, data, decode):
+        """The entry of :meth:`to_dict` read back (``decode`` reads a point)."""
+        return cls(point=np.asarray(decode(data["point"]), dtype=complex), backward_error=float(data["backward_error"]),
+                   tolerance=float(data["tolerance"]), codimension=int(data["codimension"]), real=bool(data["real"]),
+                   precision=CoefficientPrecision.parse(data["precision"], "precision"),
+                   kind=PieceKind.parse(data["kind"], "kind"))
+
+    def explanation(self):
+        """The sentence a report prints beside the point."""
+        return (f"smooth for the coefficients as written, singular after a relative change of at most "
+                f"{self.backward_error:.1e} of them (within the {self.tolerance:.1e} that {self.precision} "
+                "coefficients cannot resolve)")
 
     def __repr__(self):
         return f"NearSingularPoint(backward error {self.backward_error:.1e} <= {self.tolerance:.1e})"
