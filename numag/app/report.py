@@ -121,6 +121,9 @@ def _verdict_to_dict(v):
         "nearest_rank_drop_distance": _encode_float(v.nearest_rank_drop_distance),
         "notes": list(v.notes),
         "components": [dict(c) for c in v.components],
+        "backward_error": _encode_float(v.backward_error),
+        "backward_tolerance": _encode_float(v.backward_tolerance),
+        "near_singular": v.near_singular,
     }
 
 
@@ -137,7 +140,8 @@ def _verdict_from_dict(d):
         evidence=_evidence_from_dict(d["evidence"]),
         nearest_rank_drop=None if d["nearest_rank_drop"] is None else decode_point(d["nearest_rank_drop"]),
         nearest_rank_drop_distance=_decode_float(d["nearest_rank_drop_distance"]), notes=list(d["notes"]),
-        components=[dict(c) for c in d.get("components", [])])
+        components=[dict(c) for c in d.get("components", [])],
+        backward_error=_decode_float(d.get("backward_error")), backward_tolerance=_decode_float(d.get("backward_tolerance")))
 
 
 def check_report_to_dict(report):

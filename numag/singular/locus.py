@@ -534,7 +534,7 @@ def _affine(system, options, rng, paths, discarded, progress, notes_out=None, ro
     n = system.n_variables
     found, oracles = [], []  # the pieces kept, and for each positive-dimensional one its membership test
     codimensions = sorted({n - c.dimension for c in variety.components})
-    check_options = CheckOptions(max_digits=options.digits)
+    check_options = CheckOptions(max_digits=options.digits, backward_errors=False)  # measured in _near_singular
     for codimension in codimensions:
         if codimension == 0:
             continue
