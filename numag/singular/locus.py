@@ -405,20 +405,19 @@ def singular_locus(system, options=None, seed=None, progress=None):
 def _near_singular(system, scaling, dropped, discarded):
     """The dropped candidates the input's precision cannot tell from singular points (decision 0062).
 
-    Each candidate's backward error (:func:`~numag.singular.nearness.backward_error`) is measured in the
-    user's units (the coefficients as written) at the candidate itself and at the point of X the check
-    refined it to; the smaller counts. Those within :func:`~numag.singular.nearness.input_tolerance` are
+    Each candidate's backward error (:func:`~numag.singular.nearness.backward_error`) is measured for the
+    coefficients as written (in the balanced units) at the candidate itself, at the point of X the check
+    refined it to and where the singular-point system settles from it; the smallest counts. Those within :func:`~numag.singular.nearness.input_tolerance` are
     returned and no longer counted as dropped.
     """
     tolerance = input_tolerance(system)
     if tolerance is None or not dropped:
         return []
-    near = []
+    near, balanced = [], scaling.scale_system(system)  # measured in the balanced units (1: the numbers' size)
     for candidate in dropped:
-        points = [scaling.to_user(p) for p in (candidate.candidate, candidate.refined)]
-        if system.projective:
-            points = [normalize_projective(p) for p in points]
-        error, point = nearest_backward_error(system, points, candidate.codimension)
+        error, point = nearest_backward_error(balanced, [candidate.candidate, candidate.refined],
+                                              candidate.codimension)
+        point = normalize_projective(scaling.to_user(point)) if system.projective else scaling.to_user(point)
         if error <= tolerance:
             near.append(NearSingularPoint(point=point, backward_error=error, tolerance=tolerance,
                                           codimension=candidate.codimension,

@@ -1,31 +1,30 @@
 """How close a smooth verdict is to a singular one: the backward error of a point as a singular point.
 
 A point x is a singular point of X = V(f_1, ..., f_m) of codimension c when F(x) = 0 and
-rank J(x) < c. Both conditions are linear in the coefficients for a fixed x, so the smallest
-relative change of the coefficients that makes x an exact singular point is a linear problem:
-write each coefficient as c_ik (1 + delta_ik); then f_i(x) + sum_k delta_ik t_ik = 0 (t_ik the
-terms c_ik x^a_k at x) and the Jacobian moves by sum_k delta_ik dt_ik/dx. The Jacobian, its rows
-in units of their terms (the :class:`~numag.numeric.evaluate.TermSizes` rule, sized at x itself),
-loses its singular values from the c-th on (the nearest matrix of rank c - 1); each equation's
-coefficients then solve their own n + 1 linear conditions, the least-squares (minimum-norm)
-solution. The largest |delta_ik| is the **backward error**: a change of at most that size of each
-coefficient, relative to itself, makes x an exact singular point (an upper bound of the smallest
-such change; the largest scaled residual of the conditions is a lower one).
+rank J(x) < c. Both conditions are linear in the coefficients for a fixed x, so the smallest change
+of the equations that makes x an exact singular point is a linear problem. The Jacobian, its rows in
+units of their terms, loses its singular values from the c-th on (the nearest matrix of rank c - 1);
+each equation then changes by the minimum-norm polynomial of its degree that cancels F(x) and moves
+its row there, each coefficient's change counted in units of the equation's terms (the scaled
+residuals' measure, :class:`~numag.numeric.evaluate.TermSizes`). The largest such change is the
+**backward error**: a change of each coefficient by at most that much of the equation's scale makes
+x an exact singular point (an upper bound of the smallest; the largest scaled residual of the
+conditions is a lower one).
 
 Whether that is "within what the input can carry" depends on how the coefficients were written
 (decision 0062): exact integers, rationals and short decimals are exact, and the exact verdict
-stands; a decimal with 15 or more significant digits is taken for a double-precision number, which
-is only known to a relative 2^-53, so a backward error below :func:`input_tolerance` means the
-input cannot tell the point from a singular one.
+stands; a decimal with 15 or more significant digits is taken for a double-precision number, known
+only to about 2^-53 of the equation's scale, so a backward error below :func:`input_tolerance` means
+the input cannot tell the point from a singular one.
 
 Examples
 --------
 >>> from numag.system.parse import parse_system
->>> cusp = parse_system(["y^2 - x^3 + 1e-12*x"], ["x", "y"])
+>>> cusp = parse_system(["y^2 - x^3 + 1/1000000"], ["x", "y"])
 >>> coefficient_precision(cusp) is CoefficientPrecision.EXACT
 True
->>> print(f"{backward_error(cusp, [0, 0], 1):.0e}")
-1e+00
+>>> print(f"{backward_error(cusp, [0, 0], 1):.1e}")
+5.0e-07
 >>> near = parse_system(["y^2 - x^3 + 0.1000000000000000055511151231257827*x"], ["x", "y"])
 >>> coefficient_precision(near) is CoefficientPrecision.DOUBLE
 True
@@ -33,13 +32,14 @@ True
 
 from dataclasses import dataclass
 from fractions import Fraction
-import math
+import itertools
 
 import mpmath
 import numpy as np
 
 from ..system.exact import ExactCoefficient
-from ..numeric.refine import RankDropSystem, mp_gauss_newton
+from ..numeric.evaluate import TermSizes
+from ..numeric.refine import RankDropSystem
 from .kinds import CoefficientPrecision, PieceKind
 
 __all__ = ["NearSingularPoint", "coefficient_precision", "input_tolerance", "backward_error",
@@ -182,7 +182,16 @@ def _mp_coefficient(coefficient, ctx):
 
 
 def backward_error(system, point, codimension):
-    """The largest relative change of a coefficient that makes ``point`` an exact singular point.
+    """The smallest change of the equations, in units of their terms, that makes ``point`` an exact singular point.
+
+    Each equation f_i may change by any polynomial of its degree, sum_b e_b x^b; the change of monomial b
+    counts as |e_b| rho^b / S_i, with rho the :class:`~numag.numeric.evaluate.TermSizes` reference point
+    (rho_j = max(|x_j|, 1), affine; the largest coordinate, projective) and S_i = sum_k |c_ik| rho^a_k the
+    size of f_i's terms there: a change of each coefficient relative to the whole equation's scale, the
+    measure of the scaled residuals. Rounding a coefficient to double precision changes it by 2^-53 of itself,
+    at most 2^-53 in these units; rounding a coefficient that is the sum of larger terms (a change of
+    coordinates) by 2^-53 of those terms, also a few units. Give the system in balanced units (the
+    computation's units, :class:`~numag.numeric.scaling.Scaling`): 1 is then the size of its numbers.
 
     Parameters
     ----------
@@ -195,73 +204,67 @@ def backward_error(system, point, codimension):
     Returns
     -------
     float
-        ``inf`` when no change of the existing coefficients does it (too few terms to move).
+        The largest change of a coefficient of the minimum-norm change, in those units.
 
     Examples
     --------
     >>> from numag.system.parse import parse_system
-    >>> circle = parse_system(["x^2 + y^2 - 1"], ["x", "y"])
-    >>> round(backward_error(circle, [1, 0], 1), 3)
-    1.0
+    >>> cusp = parse_system(["y^2 - x^3 + 1/1000000"], ["x", "y"])
+    >>> print(f"{backward_error(cusp, [0, 0], 1):.1e}")
+    5.0e-07
     """
     ctx = mpmath.mp
     n = system.n_variables
     x = np.asarray(point, dtype=complex)
+    sizes = TermSizes(system.polynomials, system.projective)
+    rho = sizes.reference(x[None, :])[0]
+    value_sizes, row_sizes = sizes.both(x[None, :])
     with ctx.workdps(_DIGITS):
         xs = [ctx.mpc(v) for v in x]
-        rows = []  # per equation: terms (K,), derivative terms (n, K), as complex after the mp sums
-        values, jacobian, scales = [], [], []
+        values, jacobian = [], []
         for polynomial in system.polynomials:
-            terms, derivatives = [], [[] for _ in range(n)]
+            value, gradient = ctx.mpc(0), [ctx.mpc(0)] * n
             for exponent, coefficient in zip(polynomial.exponents, polynomial.coefficients):
                 c = _mp_coefficient(coefficient, ctx)
-                monomial = ctx.mpf(1)
-                for v, e in zip(xs, exponent):
-                    monomial *= v ** int(e)
-                terms.append(c * monomial)
-                for j in range(n):
-                    e = int(exponent[j])
-                    partial = c * e * _monomial_without(xs, exponent, j, ctx) if e else ctx.mpf(0)
-                    derivatives[j].append(partial)
-            value = ctx.fsum(terms)
-            gradient = [ctx.fsum(d) for d in derivatives]
-            # the row's unit: the size of its derivative terms at the point (TermSizes, sized at x itself)
-            scale = math.sqrt(sum(float(ctx.fsum(abs(t) for t in d)) ** 2 for d in derivatives)) or 1.0
-            rows.append((terms, derivatives))
+                value += c * _monomial_without(xs, exponent, None, ctx)
+                gradient = [g + (c * int(exponent[j]) * _monomial_without(xs, exponent, j, ctx) if exponent[j] else 0)
+                            for j, g in enumerate(gradient)]
             values.append(value)
             jacobian.append(gradient)
-            scales.append(scale)
         m = len(values)
         wanted = [[ctx.mpc(0)] * n for _ in range(m)]
         if codimension > 0:
-            scaled = ctx.matrix([[jacobian[i][j] / scales[i] for j in range(n)] for i in range(m)])
-            u, s, v = ctx.svd_c(scaled)
-            kept = min(codimension - 1, len(s))
-            for k in range(kept, len(s)):  # remove the singular values from the c-th on: rank < c
+            scaled = ctx.matrix([[jacobian[i][j] / row_sizes[0, i] for j in range(n)] for i in range(m)])
+            u, singular, v = ctx.svd_c(scaled)
+            for k in range(min(codimension - 1, len(singular)), len(singular)):  # the nearest rank c - 1
                 for i in range(m):
                     for j in range(n):
-                        wanted[i][j] -= s[k] * u[i, k] * v[k, j] * scales[i]
-        worst = 0.0
-        for i, (terms, derivatives) in enumerate(rows):
-            matrix = np.array([[complex(t) for t in terms]]
-                              + [[complex(t) for t in derivatives[j]] for j in range(n)], dtype=complex)
-            target = np.array([complex(-values[i])] + [complex(wanted[i][j]) for j in range(n)], dtype=complex)
-            norms = np.linalg.norm(matrix, axis=1)
-            live = norms > 0
-            if np.any(np.abs(target[~live]) > 0):  # a condition no coefficient can move (its terms vanish)
-                return math.inf
-            if not np.any(live):
-                continue
-            a, b = matrix[live] / norms[live, None], target[live] / norms[live]
-            delta = np.linalg.lstsq(a, b, rcond=None)[0]
-            if np.linalg.norm(a @ delta - b) > 1e-6 * max(np.linalg.norm(b), 1e-300):
-                return math.inf
-            worst = max(worst, float(np.max(np.abs(delta), initial=0.0)))
+                        wanted[i][j] -= singular[k] * u[i, k] * v[k, j] * row_sizes[0, i]
+        targets = [np.array([complex(-values[i])] + [complex(wanted[i][j]) for j in range(n)], dtype=complex)
+                   for i in range(m)]
+    worst = 0.0
+    for i, polynomial in enumerate(system.polynomials):
+        exponents = _monomials(polynomial.degree, n, system.projective)
+        # monomials in units of the reference point: x^b / rho^b and the derivatives' b_j x^(b - e_j) / rho^b
+        scale = np.prod(rho[None, :] ** exponents, axis=1)
+        with np.errstate(divide="ignore", invalid="ignore"):
+            lowered = [np.where(exponents[:, j] > 0, exponents[:, j] * np.prod(
+                x[None, :] ** np.maximum(exponents - np.eye(n, dtype=int)[j], 0), axis=1), 0) for j in range(n)]
+        matrix = value_sizes[0, i] * np.vstack([np.prod(x[None, :] ** exponents, axis=1)] + lowered) / scale
+        delta = np.linalg.lstsq(matrix, targets[i], rcond=None)[0]
+        worst = max(worst, float(np.max(np.abs(delta), initial=0.0)))
     return worst
 
 
+def _monomials(degree, n, homogeneous):
+    """Exponents of every monomial of the given degree (homogeneous) or up to it, shape (K, n)."""
+    rows = [e for e in itertools.product(range(degree + 1), repeat=n)
+            if (sum(e) == degree if homogeneous else sum(e) <= degree)] if n else [()]
+    return np.array(rows, dtype=int).reshape(len(rows), n)
+
+
 def _monomial_without(xs, exponent, j, ctx):
-    """x^(a - e_j) (a_j >= 1), computed without dividing by x_j."""
+    """x^(a - e_j) (a_j >= 1; x^a for j None), computed without dividing by x_j."""
     monomial = ctx.mpf(1)
     for k, (v, e) in enumerate(zip(xs, exponent)):
         monomial *= v ** (int(e) - (1 if k == j else 0))
@@ -301,12 +304,7 @@ def nearest_backward_error(system, points, codimension):
     ctx = mpmath.mp
     with ctx.workdps(_DIGITS):
         try:
-            drop = RankDropSystem(system, codimension - 1, candidates[0], ctx)
-            polished, _, _, _ = mp_gauss_newton(drop, drop.initial(candidates[0]), ctx, tolerance=0,
-                                                max_iterations=_POLISH_STEPS, anchored=True)
-            point = drop.point_of(polished)
-            if np.all(np.isfinite(point)):
-                candidates.append(point)
+            candidates += _polished(system, candidates[0], codimension, ctx)
         except (ZeroDivisionError, ValueError, ArithmeticError):  # a degenerate start: the given points only
             pass
     if system.has_real_coefficients:  # a nearly real point of a real system: its real part is a candidate too
@@ -314,3 +312,35 @@ def nearest_backward_error(system, points, codimension):
                        if np.linalg.norm(p.imag) <= 1e-6 * (1 + np.linalg.norm(p))]
     measured = [(backward_error(system, p, codimension), p) for p in candidates]
     return min(measured, key=lambda pair: pair[0])
+
+
+def _polished(system, start, codimension, ctx):
+    """Gauss-Newton iterates of F = 0, rank J <= c - 1 from ``start`` (each a point to measure).
+
+    The steps use the pseudo-inverse truncated at a relative 1e-8: at a degenerate singular point (a cusp)
+    the system's Jacobian is nearly rank deficient, a plain step overshoots along the weak direction and no
+    damping helps, while the residual along that direction grows only quadratically and can be left alone.
+    """
+    drop = RankDropSystem(system, codimension - 1, start, ctx)
+    z = drop.initial(start)
+    points = []
+    for _ in range(_POLISH_STEPS):
+        residual, derivative = drop(z)
+        u, values, v = ctx.svd_c(derivative)
+        top = max((abs(values[k]) for k in range(len(values))), default=0)
+        if top == 0:
+            break
+        step = ctx.matrix(derivative.cols, 1)
+        for k in range(len(values)):
+            if values[k] > top * ctx.mpf("1e-8"):
+                coefficient = sum(ctx.conj(u[i, k]) * residual[i] for i in range(residual.rows)) / values[k]
+                for j in range(derivative.cols):
+                    step[j] += ctx.conj(v[k, j]) * coefficient
+        z = z - step
+        point = drop.point_of(z)
+        if not np.all(np.isfinite(point)):
+            break
+        points.append(point)
+        if ctx.norm(step) <= ctx.mpf(10) ** (-_DIGITS + 5) * (1 + ctx.norm(z)):
+            break
+    return points

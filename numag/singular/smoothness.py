@@ -694,7 +694,7 @@ def check_points(system, points, options=None, seed=None, decomposition=None):
     for verdict, point in zip(verdicts, user_given):
         _to_user_units(verdict, point, scaling, checker)
     if options.backward_errors:
-        _measure_backward_errors(system, verdicts, options)
+        _measure_backward_errors(system, scaling, verdicts, options)
     return CheckReport(system=system, points=verdicts, options=options, seed=seed, scaling=scaling)
 
 
@@ -704,22 +704,28 @@ def check_points(system, points, options=None, seed=None, decomposition=None):
 _POLISH_BELOW = 1e-4
 
 
-def _measure_backward_errors(system, verdicts, options):
-    """Set the backward error of each smooth verdict of double-precision input (decision 0062), in place."""
+def _measure_backward_errors(system, scaling, verdicts, options):
+    """Set the backward error of each smooth verdict of double-precision input (decision 0062), in place.
+
+    Measured in the balanced units of ``scaling`` (verdicts are in the user's units).
+    """
     tolerance = input_tolerance(system)
     if tolerance is None:
         return
+    balanced = scaling.scale_system(system)
     for verdict in verdicts:
         if verdict.verdict is not Verdict.SMOOTH or not verdict.codimension:
             continue
         values = verdict.evidence.singular_values
-        points = [verdict.given, verdict.point]
+        points = [scaling.to_computed(p) for p in (verdict.given, verdict.point)]
+        if system.projective:
+            points = [normalize_projective(p) for p in points]
         close = len(values) >= verdict.codimension and values[verdict.codimension - 1] <= max(
             _POLISH_BELOW, options.suspect_threshold)
         if close:
-            error, _ = nearest_backward_error(system, points, verdict.codimension)
+            error, _ = nearest_backward_error(balanced, points, verdict.codimension)
         else:
-            error = min(backward_error(system, p, verdict.codimension) for p in points)
+            error = min(backward_error(balanced, p, verdict.codimension) for p in points)
         verdict.backward_error, verdict.backward_tolerance = float(error), tolerance
         if verdict.near_singular:
             verdict.notes.append(f"Smooth for the coefficients as written, singular after a relative change of at "
