@@ -13,6 +13,7 @@ import pytest
 import sympy
 
 from numag.app.cli import EXIT_OK, EXIT_UNDECIDED, main
+from numag.app.report import singular_from_dict
 from numag.singular.kinds import CoefficientPrecision, PieceKind
 from numag.singular.nearness import backward_error, coefficient_precision, input_tolerance
 from numag.system.parse import parse_system
@@ -66,6 +67,8 @@ def test_moved_cusp_is_reported_near_singular(tmp_path, capsys, seed):
     # the rounding moves the cusp by about the square root of the unit roundoff at most (a double zero)
     assert np.linalg.norm(point - cusp) <= 1e-5 * (1 + np.linalg.norm(cusp))
     assert any("near-singular" in w for w in report["warnings"])
+    locus, _ = singular_from_dict(report)  # a saved report keeps them
+    assert [p.backward_error for p in locus.near_singular] == [near["backward_error"]]
 
 
 @pytest.mark.parametrize("seed", SEEDS)
