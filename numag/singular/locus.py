@@ -785,7 +785,8 @@ def _confirmed_by_check(system, pieces, rng, discarded, dropped=None):
     seed = int(rng.integers(2**32))
     points = [piece.points[0] for piece in pieces]
     # a point that cannot be settled on X comes back "off" (each point is judged on its own)
-    verdicts = [None if v.verdict is Verdict.OFF else v for v in check_points(system, points, seed=seed).points]
+    verdicts = [None if v.verdict is Verdict.OFF else v
+                for v in check_points(system, points, CheckOptions(backward_errors=False), seed=seed).points]
     kept = []
     for piece, verdict in zip(pieces, verdicts):
         if verdict is None:
