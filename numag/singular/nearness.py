@@ -33,6 +33,7 @@ True
 from dataclasses import dataclass
 from fractions import Fraction
 import itertools
+import math
 
 import mpmath
 import numpy as np
@@ -60,12 +61,15 @@ _DIGITS = 40
 #: Gauss-Newton steps of the polish (:func:`nearest_backward_error`): near a degenerate singular point the
 #: singular-point system is rank deficient and converges linearly, a few digits a step.
 _POLISH_STEPS = 12
+#: Beyond this many monomials of an equation's degree only its own monomials may change (the linear problem
+#: stays small; a change of the existing coefficients is still one the input's rounding can make).
+_MAX_MONOMIALS = 4000
 
 
 @dataclass(kw_only=True)
 class NearSingularPoint:
-    """A candidate the check called smooth, which a relative change of the coefficients within the
-    input's precision makes an exact singular point.
+    """A candidate the check called smooth, which a change of the coefficients within the input's precision
+    makes an exact singular point.
 
     Attributes
     ----------
@@ -73,7 +77,8 @@ class NearSingularPoint:
         Where the backward error was smallest (the candidate itself, or the point of X it was refined to),
         in the user's units.
     backward_error : float
-        The largest relative change of a coefficient that makes ``point`` an exact singular point.
+        The largest change of a coefficient, in units of its equation's terms
+        (:func:`backward_error`), that makes ``point`` an exact singular point.
     tolerance : float
         What the input's coefficients can carry (:func:`input_tolerance`).
     codimension : int
@@ -109,8 +114,8 @@ class NearSingularPoint:
     def explanation(self):
         """The sentence a report prints beside the point."""
         return (f"smooth for the coefficients as written, singular after a relative change of at most "
-                f"{self.backward_error:.1e} of them (within the {self.tolerance:.1e} that {self.precision} "
-                "coefficients cannot resolve)")
+                f"{self.backward_error:.1e} of them, in units of each equation's terms (within the "
+                f"{self.tolerance:.1e} that {self.precision} coefficients cannot resolve)")
 
     def __repr__(self):
         return f"NearSingularPoint(backward error {self.backward_error:.1e} <= {self.tolerance:.1e})"
@@ -244,7 +249,7 @@ def backward_error(system, point, codimension):
                    for i in range(m)]
     worst = 0.0
     for i, polynomial in enumerate(system.polynomials):
-        exponents = _monomials(polynomial.degree, n, system.projective)
+        exponents = _monomials(polynomial, n, system.projective)
         # monomials in units of the reference point: x^b / rho^b and the derivatives' b_j x^(b - e_j) / rho^b
         scale = np.prod(rho[None, :] ** exponents, axis=1)
         with np.errstate(divide="ignore", invalid="ignore"):
@@ -256,10 +261,17 @@ def backward_error(system, point, codimension):
     return worst
 
 
-def _monomials(degree, n, homogeneous):
-    """Exponents of every monomial of the given degree (homogeneous) or up to it, shape (K, n)."""
-    rows = [e for e in itertools.product(range(degree + 1), repeat=n)
-            if (sum(e) == degree if homogeneous else sum(e) <= degree)] if n else [()]
+def _monomials(polynomial, n, homogeneous):
+    """Exponents of every monomial of the polynomial's degree (homogeneous) or up to it, shape (K, n); the
+    polynomial's own monomials when there are more than :data:`_MAX_MONOMIALS` of those."""
+    degree = polynomial.degree
+    lowest = degree if homogeneous else 0
+    if sum(math.comb(n + k - 1, k) for k in range(lowest, degree + 1)) > _MAX_MONOMIALS:
+        return np.asarray(polynomial.exponents, dtype=int)
+    rows = []
+    for k in range(lowest, degree + 1):  # a monomial of degree k: a multiset of k variables
+        for chosen in itertools.combinations_with_replacement(range(n), k):
+            rows.append(np.bincount(np.array(chosen, dtype=int), minlength=n))
     return np.array(rows, dtype=int).reshape(len(rows), n)
 
 
