@@ -138,6 +138,8 @@ class CheckOptions:
                        "an integer >= 0", self.neighbour_samples)
         require_option(is_number(self.neighbour_radius) and 0 < self.neighbour_radius < 1, "neighbour_radius",
                        "in (0, 1)", self.neighbour_radius)
+        require_option(isinstance(self.backward_errors, bool), "backward_errors", "True or False",
+                       self.backward_errors)
 
     def validated(self, system):
         """Check the options against a system; raise InputError naming the bad option."""
@@ -722,10 +724,11 @@ def _measure_backward_errors(system, scaling, verdicts, options):
             points = [normalize_projective(p) for p in points]
         close = len(values) >= verdict.codimension and values[verdict.codimension - 1] <= max(
             _POLISH_BELOW, options.suspect_threshold)
-        if close:
-            error, _ = nearest_backward_error(balanced, points, verdict.codimension)
-        else:
-            error = min(backward_error(balanced, p, verdict.codimension) for p in points)
+        error = min(backward_error(balanced, p, verdict.codimension) for p in points)
+        if close:  # a point next to it where the conditions come closer, if within the given point's accuracy
+            nearest, where = nearest_backward_error(balanced, points, verdict.codimension)
+            if np.linalg.norm(where - points[0]) <= options.point_tolerance * _size(points[0]):
+                error = min(error, nearest)
         verdict.backward_error, verdict.backward_tolerance = float(error), tolerance
         if verdict.near_singular:
             verdict.notes.append(f"Smooth for the coefficients as written, singular after a relative change of at "
