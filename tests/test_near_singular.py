@@ -151,3 +151,10 @@ def test_backward_error_by_hand():
     assert backward_error(node, [0, 0], 1) == pytest.approx(0.001 / 2.001, rel=1e-12)
     # y^2 - x^3 at its cusp: already singular, backward error 0
     assert backward_error(parse_system(["y^2 - x^3"], ["x", "y"]), [0, 0], 1) == 0.0
+
+
+def test_backward_errors_option_is_checked():
+    from numag.errors import InputError
+    from numag.singular.smoothness import CheckOptions
+    with pytest.raises(InputError, match="backward_errors"):
+        CheckOptions(backward_errors="yes")
