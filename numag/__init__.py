@@ -61,6 +61,7 @@ _PUBLIC = {
     "save": "app.saved", "load": "app.saved",
     "StartKind": "tracking.starts", "choose_start": "tracking.starts", "mixed_volume": "tracking.polyhedral",
     "isolated_singular_points": "singular.isolated",
+    "backward_error": "singular.nearness", "coefficient_precision": "singular.nearness",
 }
 
 __all__ = ["NumagError", "parse_system", "parse_polynomial", "Polynomial", "PolynomialSystem",

@@ -121,6 +121,9 @@ def _verdict_to_dict(v):
         "nearest_rank_drop_distance": _encode_float(v.nearest_rank_drop_distance),
         "notes": list(v.notes),
         "components": [dict(c) for c in v.components],
+        "backward_error": _encode_float(v.backward_error),
+        "backward_tolerance": _encode_float(v.backward_tolerance),
+        "near_singular": v.near_singular,
     }
 
 
@@ -137,7 +140,8 @@ def _verdict_from_dict(d):
         evidence=_evidence_from_dict(d["evidence"]),
         nearest_rank_drop=None if d["nearest_rank_drop"] is None else decode_point(d["nearest_rank_drop"]),
         nearest_rank_drop_distance=_decode_float(d["nearest_rank_drop_distance"]), notes=list(d["notes"]),
-        components=[dict(c) for c in d.get("components", [])])
+        components=[dict(c) for c in d.get("components", [])],
+        backward_error=_decode_float(d.get("backward_error")), backward_tolerance=_decode_float(d.get("backward_tolerance")))
 
 
 def check_report_to_dict(report):
@@ -211,6 +215,12 @@ def completeness_warnings(data):
                         f"{'does' if len(unverified) == 1 else 'do'} not satisfy the equations "
                         "after refinement and are not counted: they may be points at infinity that the endgame could "
                         "not resolve, or solutions missed; run again with another --seed or --start to compare.")
+    near = data.get("near_singular") if isinstance(data.get("near_singular"), list) else []
+    if near:  # decision 0062: smooth as written, singular within the coefficients' precision
+        warnings.append(f"{counted(len(near), 'candidate')} the check calls smooth for the coefficients as written "
+                        f"{'is a singular point' if len(near) == 1 else 'are singular points'} after a relative "
+                        "change of the coefficients within their precision (listed as near-singular): the input "
+                        "cannot tell which is meant; give exact coefficients to decide.")
     unconfirmed = data.get("unconfirmed", 0)
     if unconfirmed:
         warnings.append(f"{counted(unconfirmed, 'group')} of witness points not confirmed by the trace test: they "
@@ -580,6 +590,7 @@ def singular_to_dict(result, options):
         "variety_summary": [] if variety is None else
         [{"dimension": c.dimension, "degree": c.degree} for c in variety.components],
         "discarded": dict(result.discarded),
+        "near_singular": [p.to_dict(encode_point) for p in result.near_singular],
         "notes": list(result.notes),
         "seconds": result.seconds,
         "caution": CAUTION,
@@ -590,6 +601,7 @@ def singular_from_dict(data):
     """Rebuild a :class:`~numag.singular.locus.SingularLocus` (and its options) from its JSON envelope."""
     from ..singular.kinds import CandidateSystem, PieceKind
     from ..singular.locus import SingularComponent, SingularLocus, SingularOptions
+    from ..singular.nearness import NearSingularPoint
     from ..witness.cascade import WitnessOptions
     from ..witness.decompose import DecomposeOptions, Decomposition
     system = _report_system(data, "singular")
@@ -616,7 +628,9 @@ def singular_from_dict(data):
     result = SingularLocus(system=system, components=components, variety=variety, paths=counts,
                            discarded=dict(data["discarded"]), seed=data["seed"], seconds=float(data["seconds"]),
                            notes=list(data["notes"]), scaling=_scaling_from_dict(data, system),
-                           start=dict(data.get("start") or {}))
+                           start=dict(data.get("start") or {}),
+                           near_singular=[NearSingularPoint.from_dict(d, decode_point)
+                                          for d in data.get("near_singular") or []])
     return result, options
 
 

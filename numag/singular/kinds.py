@@ -15,7 +15,7 @@ Examples
 
 from ..kinds import TextEnum
 
-__all__ = ["Verdict", "LocalDimensionSource", "Formulation", "CandidateSystem", "PieceKind"]
+__all__ = ["Verdict", "LocalDimensionSource", "Formulation", "CandidateSystem", "PieceKind", "CoefficientPrecision"]
 
 
 class Verdict(TextEnum):
@@ -85,8 +85,17 @@ class PieceKind(TextEnum):
     SINGULAR = "singular"
     NON_REDUCED = "non-reduced"    # a whole generically non-reduced component of X
     UNDECIDED = "undecided"
+    NEAR_SINGULAR = "near-singular"   # smooth as written, singular after a change of the coefficients within
+    #                                   their precision (decision 0062): listed apart, never a piece
 
     @classmethod
     def of_verdict(cls, verdict):
         """The kind of a piece whose witness point got ``verdict`` (smooth ones are never pieces)."""
         return {Verdict.SINGULAR: cls.SINGULAR, Verdict.NON_REDUCED: cls.NON_REDUCED}.get(verdict, cls.UNDECIDED)
+
+
+class CoefficientPrecision(TextEnum):
+    """How precisely the input's coefficients are known (decision 0062)."""
+
+    EXACT = "exact"                        # integers, rationals, short decimals: the numbers as written
+    DOUBLE = "double precision"            # decimals of 15 or more significant digits, or stored floats

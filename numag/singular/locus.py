@@ -60,6 +60,7 @@ from ..witness.decompose import (EXPANSION_MONOMIALS, DecomposeOptions, Decompos
                                  expansion_bound, holding_rows)
 from .isolated import finite_singular_points, null_vector_system
 from .kinds import CandidateSystem, Formulation, PieceKind, Verdict
+from .nearness import NearSingularPoint, input_tolerance, nearest_backward_error
 from .smoothness import CheckOptions, check_points
 
 __all__ = ["SingularOptions", "SingularComponent", "SingularLocus", "singular_locus", "FORMULATIONS"]
@@ -190,6 +191,10 @@ class SingularLocus:
     notes : list of str
     scaling : Scaling or None
         The units the computation used (points are in the user's units).
+    near_singular : list of NearSingularPoint
+        Candidates the check called smooth for the coefficients as written, which a relative change of the
+        coefficients within the input's precision makes singular points (decision 0062): undecided which the
+        user means, never dropped silently.
     start : dict
         The report's ``start`` block: the start asked for, and per codimension the route taken
         (``searches`` with each square system's start block, or the witness sets and why).
@@ -205,6 +210,7 @@ class SingularLocus:
     notes: list[str] = field(default_factory=list)
     scaling: Scaling | None = None
     start: dict = field(default_factory=dict)
+    near_singular: list[NearSingularPoint] = field(default_factory=list)
 
     def __repr__(self):
         affine = [c for c in self.components if not c.at_infinity]
@@ -392,7 +398,7 @@ def singular_locus(system, options=None, seed=None, progress=None):
     require_numeric(system)
     seed = resolved_seed(seed)
     scaling = Scaling.balancing(system)
-    locus = _singular_locus(scaling.scale_system(system), options, seed, progress)
+    locus, dropped = _singular_locus(scaling.scale_system(system), options, seed, progress)
     for component in locus.components:
         if component.at_infinity:
             component.points = normalize_projective(scaling.homogeneous_to_user(component.points))
@@ -403,7 +409,34 @@ def singular_locus(system, options=None, seed=None, progress=None):
     if locus.variety is not None and not system.projective:
         locus.variety = locus.variety.in_units(scaling, system, to_user=True)
     locus.system, locus.scaling = system, scaling
+    locus.near_singular = _near_singular(system, scaling, dropped, locus.discarded)
     return locus
+
+
+def _near_singular(system, scaling, dropped, discarded):
+    """The dropped candidates the input's precision cannot tell from singular points (decision 0062).
+
+    Each candidate's backward error (:func:`~numag.singular.nearness.backward_error`) is measured for the
+    coefficients as written (in the balanced units) at the candidate itself, at the point of X the check
+    refined it to and where the singular-point system settles from it; the smallest counts. Those within :func:`~numag.singular.nearness.input_tolerance` are
+    returned and no longer counted as dropped.
+    """
+    tolerance = input_tolerance(system)
+    if tolerance is None or not dropped:
+        return []
+    near, balanced = [], scaling.scale_system(system)  # measured in the balanced units (1: the numbers' size)
+    for candidate in dropped:
+        error, point = nearest_backward_error(balanced, [candidate.candidate, candidate.refined],
+                                              candidate.codimension)
+        point = normalize_projective(scaling.to_user(point)) if system.projective else scaling.to_user(point)
+        if error <= tolerance:
+            near.append(NearSingularPoint(point=point, backward_error=error, tolerance=tolerance,
+                                          codimension=candidate.codimension,
+                                          real=bool(_real_flags(system, point[None, :])[0])))
+            discarded["smooth_on_check"] -= 1
+    if discarded.get("smooth_on_check") == 0:
+        del discarded["smooth_on_check"]
+    return near
 
 
 def _singular_locus(system, options, seed, progress):
@@ -411,13 +444,14 @@ def _singular_locus(system, options, seed, progress):
     started = time.perf_counter()
     rng = np.random.default_rng(seed)
     paths, discarded, notes, routes = {}, {}, [], []
+    dropped = []  # isolated candidates the check called smooth: their backward errors are measured
     start = {"asked": options.start.value, "codimensions": routes}
     if linear_space(system) is not None:  # J is constant of full rank on X: no singular point, no homotopy
         variety = decompose(system, options.decompose, seed=int(rng.integers(2**32)), progress=progress)
         return SingularLocus(system=system, components=[], variety=variety, paths=paths, discarded=discarded,
                              seed=seed, seconds=time.perf_counter() - started,
                              notes=["every equation is linear: X is a linear space (or empty), smooth at every "
-                                    "point, with no singular point"])
+                                    "point, with no singular point"]), dropped
     if system.projective:
         if system.n_equations == 1 and options.formulation in (Formulation.AUTO, Formulation.GRADIENT):
             if options.start is not StartKind.TOTAL_DEGREE:
@@ -425,11 +459,12 @@ def _singular_locus(system, options, seed, progress):
                                "why": "a projective hypersurface: the zeros of its partials form a projective "
                                       "system, which has the total-degree start only"})
                 notes.append(f"The {options.start.value} start was not used: {routes[-1]['why']}.")
-            components, variety = _projective_gradient(system, rng, paths, discarded, progress), None
+            components, variety = _projective_gradient(system, rng, paths, discarded, progress, dropped), None
         else:
-            components, variety = _projective_chart(system, options, rng, paths, discarded, notes, progress, routes)
+            components, variety = _projective_chart(system, options, rng, paths, discarded, notes, progress, routes,
+                                                    dropped)
     else:
-        components, variety = _affine(system, options, rng, paths, discarded, progress, notes, routes)
+        components, variety = _affine(system, options, rng, paths, discarded, progress, notes, routes, dropped)
         if system.n_equations == 1:
             listed = _at_infinity(system, rng, paths, progress, any(c.dimension > 0 for c in components))
             if isinstance(listed, str):  # why its points at infinity are not listed (true for its case)
@@ -455,7 +490,7 @@ def _singular_locus(system, options, seed, progress):
             notes.append(f"{isolated} isolated singular points found, more than the (d - 1)^n = {bound} a "
                          "hypersurface of this degree can have: some point was counted twice.")
     return SingularLocus(system=system, components=components, variety=variety, paths=paths, discarded=discarded,
-                         seed=seed, seconds=time.perf_counter() - started, notes=notes, start=start)
+                         seed=seed, seconds=time.perf_counter() - started, notes=notes, start=start), dropped
 
 
 def _structured_start(system, variety, codimension, options, rng, paths, progress):
@@ -493,11 +528,12 @@ def _structured_start(system, variety, codimension, options, rng, paths, progres
     return None, route
 
 
-def _affine(system, options, rng, paths, discarded, progress, notes_out=None, routes=None):
+def _affine(system, options, rng, paths, discarded, progress, notes_out=None, routes=None, dropped=None):
     """Singular pieces of an affine X by decomposing F + minors for each codimension of X.
 
     ``routes`` (a list) receives the route of each codimension when a start other than total degree is
-    asked for (:func:`_structured_start`).
+    asked for (:func:`_structured_start`); ``dropped`` (a list) the isolated candidates the check called
+    smooth (:class:`_Dropped`), for their backward errors.
     """
     if progress is not None:
         progress("decomposing X")
@@ -508,7 +544,7 @@ def _affine(system, options, rng, paths, discarded, progress, notes_out=None, ro
     n = system.n_variables
     found, oracles = [], []  # the pieces kept, and for each positive-dimensional one its membership test
     codimensions = sorted({n - c.dimension for c in variety.components})
-    check_options = CheckOptions(max_digits=options.digits)
+    check_options = CheckOptions(max_digits=options.digits, backward_errors=False)  # measured in _near_singular
     for codimension in codimensions:
         if codimension == 0:
             continue
@@ -585,6 +621,8 @@ def _affine(system, options, rng, paths, discarded, progress, notes_out=None, ro
                 continue
             if verdict.verdict is Verdict.SMOOTH:
                 discarded["smooth_on_check"] = discarded.get("smooth_on_check", 0) + 1
+                if dropped is not None and candidate.dimension == 0 and verdict.codimension is not None:
+                    dropped.append(_Dropped(point, np.asarray(verdict.point, dtype=complex), verdict.codimension))
                 continue
             through = [c["id"] for c in verdict.components]
             piece_kind = PieceKind.of_verdict(verdict.verdict)
@@ -665,6 +703,16 @@ _CANDIDATE_TOLERANCE = 1e-3
 
 
 @dataclass
+class _Dropped:
+    """An isolated candidate the check called smooth: the candidate point, where the check refined it (both in
+    the computed units, homogeneous for projective input) and the codimension it was judged against."""
+
+    candidate: np.ndarray
+    refined: np.ndarray
+    codimension: int
+
+
+@dataclass
 class _Candidate:
     dimension: int
     degree: int
@@ -697,7 +745,7 @@ _GRADIENT_RESIDUAL = 1e-7
 _SETTLED_RESIDUAL = 1e-12
 
 
-def _projective_gradient(system, rng, paths, discarded, progress):
+def _projective_gradient(system, rng, paths, discarded, progress, dropped=None):
     """Singular points of a projective hypersurface: the zeros of its gradient (Euler: then F = 0 too)."""
     f = system.polynomials[0].numeric()
     gradient = PolynomialSystem(system.variables, [g for g in f.gradient() if not g.is_zero()], projective=True)
@@ -730,14 +778,14 @@ def _projective_gradient(system, rng, paths, discarded, progress):
                                   at_infinity=False, formulation=CandidateSystem.GRADIENT, kind=PieceKind.SINGULAR,
                                   on_components=[], rank=None, codimension=1)
         (doubtful if residual > _SETTLED_RESIDUAL else pieces).append(piece)
-    pieces += _confirmed_by_check(system, doubtful, rng, discarded)
+    pieces += _confirmed_by_check(system, doubtful, rng, discarded, dropped)
     if result.not_isolated:
         raise InputError("the singular locus of this hypersurface is positive-dimensional; use the minors "
                          "formulation (--formulation minors)")
     return pieces
 
 
-def _confirmed_by_check(system, pieces, rng, discarded):
+def _confirmed_by_check(system, pieces, rng, discarded, dropped=None):
     """The candidate points the Jacobian criterion (with its escalation in precision) calls singular.
 
     A zero of the partial derivatives in double precision can be a near miss: two conics nearly
@@ -749,7 +797,8 @@ def _confirmed_by_check(system, pieces, rng, discarded):
     seed = int(rng.integers(2**32))
     points = [piece.points[0] for piece in pieces]
     # a point that cannot be settled on X comes back "off" (each point is judged on its own)
-    verdicts = [None if v.verdict is Verdict.OFF else v for v in check_points(system, points, seed=seed).points]
+    verdicts = [None if v.verdict is Verdict.OFF else v
+                for v in check_points(system, points, CheckOptions(backward_errors=False), seed=seed).points]
     kept = []
     for piece, verdict in zip(pieces, verdicts):
         if verdict is None:
@@ -758,6 +807,9 @@ def _confirmed_by_check(system, pieces, rng, discarded):
             kept.append(piece)
         elif verdict.verdict is Verdict.SMOOTH:
             discarded["smooth_on_check"] = discarded.get("smooth_on_check", 0) + 1
+            if dropped is not None and verdict.codimension is not None:
+                dropped.append(_Dropped(piece.points[0], np.asarray(verdict.point, dtype=complex),
+                                        verdict.codimension))
         else:
             piece.kind = PieceKind.UNDECIDED
             kept.append(piece)
@@ -783,9 +835,13 @@ def _chart(system, rng):
     return affine, q
 
 
-def _projective_chart(system, options, rng, paths, discarded, notes, progress, routes=None):
+def _projective_chart(system, options, rng, paths, discarded, notes, progress, routes=None, dropped=None):
     affine, q = _chart(system, rng)
-    pieces, variety = _affine(affine, options, rng, paths, discarded, progress, notes, routes)
+    in_chart = []
+    pieces, variety = _affine(affine, options, rng, paths, discarded, progress, notes, routes, in_chart)
+    if dropped is not None:  # back to homogeneous coordinates, like the pieces
+        dropped += [_Dropped(*(normalize_projective(np.concatenate([[1.0], p]) @ q.T)
+                               for p in (d.candidate, d.refined)), d.codimension) for d in in_chart]
     for piece in pieces:
         homogeneous = np.column_stack([np.ones(len(piece.points)), piece.points]) @ q.T
         piece.points = normalize_projective(homogeneous)

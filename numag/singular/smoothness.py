@@ -58,6 +58,7 @@ from ..numeric.scaling import Scaling
 from ..numeric.seeds import random_state
 from ..witness.decompose import components_through
 from .kinds import LocalDimensionSource, Verdict
+from .nearness import backward_error, input_tolerance, nearest_backward_error
 
 __all__ = ["CheckOptions", "PointVerdict", "CheckReport", "check_points",
            "VERDICTS"]
@@ -109,6 +110,10 @@ class CheckOptions:
         Nearby points sampled to tell "non-reduced" from "singular" (0 disables).
     neighbour_radius : float
         Relative distance of those samples.
+    backward_errors : bool
+        For double-precision input (decision 0062), measure at each smooth verdict the backward error: the
+        relative change of the coefficients that makes the point singular (the singular locus, which
+        measures it for its own candidates, turns this off).
     """
 
     local_dimension: int | None = None
@@ -117,6 +122,7 @@ class CheckOptions:
     suspect_threshold: float = 1e-4
     neighbour_samples: int = 3
     neighbour_radius: float = 1e-2
+    backward_errors: bool = True
 
     def __post_init__(self):
         """Refuse a bad value on construction, naming the option (the system's bounds: :meth:`validated`)."""
@@ -132,6 +138,8 @@ class CheckOptions:
                        "an integer >= 0", self.neighbour_samples)
         require_option(is_number(self.neighbour_radius) and 0 < self.neighbour_radius < 1, "neighbour_radius",
                        "in (0, 1)", self.neighbour_radius)
+        require_option(isinstance(self.backward_errors, bool), "backward_errors", "True or False",
+                       self.backward_errors)
 
     def validated(self, system):
         """Check the options against a system; raise InputError naming the bad option."""
@@ -182,6 +190,11 @@ class PointVerdict:
     components : list of dict
         The components of X through the point (``id``, ``dimension``, ``degree``), when the
         local dimension came from a decomposition.
+    backward_error : float or None
+        Smooth verdicts on double-precision input: the relative change of the coefficients that makes
+        the point (or one next to it) an exact singular point (:mod:`numag.singular.nearness`).
+    backward_tolerance : float or None
+        What the input's coefficients cannot resolve (decision 0062); :attr:`near_singular` compares.
     """
 
     index: int
@@ -200,6 +213,14 @@ class PointVerdict:
     nearest_rank_drop_distance: float | None = None
     notes: list[str] = field(default_factory=list)
     components: list[dict] = field(default_factory=list)
+    backward_error: float | None = None
+    backward_tolerance: float | None = None
+
+    @property
+    def near_singular(self):
+        """Smooth for the coefficients as written, singular after a change within their precision."""
+        return (self.verdict is Verdict.SMOOTH and self.backward_error is not None
+                and self.backward_tolerance is not None and self.backward_error <= self.backward_tolerance)
 
     def local_dimension_text(self):
         """Where the local dimension came from, as a report shows it (with the components through the point)."""
@@ -258,6 +279,11 @@ class CheckReport:
     def off(self):
         """True when at least one point is not on X (verdict "off")."""
         return any(p.verdict is Verdict.OFF for p in self.points)
+
+    @property
+    def near_singular(self):
+        """True when a smooth verdict is singular after a change of the coefficients within their precision."""
+        return any(p.near_singular for p in self.points)
 
 
 @dataclass
@@ -669,7 +695,46 @@ def check_points(system, points, options=None, seed=None, decomposition=None):
     checker = _Checker(system, options, rng)  # distances in the user's units
     for verdict, point in zip(verdicts, user_given):
         _to_user_units(verdict, point, scaling, checker)
+    if options.backward_errors:
+        _measure_backward_errors(system, scaling, verdicts, options)
     return CheckReport(system=system, points=verdicts, options=options, seed=seed, scaling=scaling)
+
+
+#: Below this c-th scaled singular value a smooth verdict's backward error is also sought next to the point
+#: (a polish of the singular-point system): a given point is known to a few digits, the input's rounding
+#: can hide a singular point within that distance.
+_POLISH_BELOW = 1e-4
+
+
+def _measure_backward_errors(system, scaling, verdicts, options):
+    """Set the backward error of each smooth verdict of double-precision input (decision 0062), in place.
+
+    Measured in the balanced units of ``scaling`` (verdicts are in the user's units).
+    """
+    tolerance = input_tolerance(system)
+    if tolerance is None:
+        return
+    balanced = scaling.scale_system(system)
+    for verdict in verdicts:
+        if verdict.verdict is not Verdict.SMOOTH or not verdict.codimension:
+            continue
+        values = verdict.evidence.singular_values
+        points = [scaling.to_computed(p) for p in (verdict.given, verdict.point)]
+        if system.projective:
+            points = [normalize_projective(p) for p in points]
+        close = len(values) >= verdict.codimension and values[verdict.codimension - 1] <= max(
+            _POLISH_BELOW, options.suspect_threshold)
+        error = min(backward_error(balanced, p, verdict.codimension) for p in points)
+        if close:  # a point next to it where the conditions come closer, if within the given point's accuracy
+            nearest, where = nearest_backward_error(balanced, points, verdict.codimension)
+            if np.linalg.norm(where - points[0]) <= options.point_tolerance * _size(points[0]):
+                error = min(error, nearest)
+        verdict.backward_error, verdict.backward_tolerance = float(error), tolerance
+        if verdict.near_singular:
+            verdict.notes.append(f"Smooth for the coefficients as written, singular after a relative change of at "
+                                 f"most {error:.1e} of them, within the {tolerance:.1e} that double-precision "
+                                 "coefficients cannot resolve: the input cannot tell which is meant; give exact "
+                                 "coefficients to decide.")
 
 
 def _to_user_units(verdict, given, scaling, checker):

@@ -84,6 +84,10 @@ def _print_check(report, out, data=None, anatomies=None):
         gap = "n/a" if e.gap is None else ("infinite" if e.gap == float("inf") else f"{e.gap:.3g}")
         out.write(f"  evidence: scaled singular values [{values}], zero below {e.tolerance:.2g}, gap {gap}, "
                   f"{e.digits} digits{', escalated' if e.escalated else ''}\n")
+        if v.backward_error is not None:
+            out.write(f"  backward error: a relative change of {v.backward_error:.3g} of the coefficients makes it "
+                      f"singular (double-precision input resolves {v.backward_tolerance:.2g}; "
+                      f"{'near-singular' if v.near_singular else 'clear'})\n")
         if v.nearest_rank_drop is not None and v.verdict is Verdict.SMOOTH:
             out.write(f"  nearest point found where the rank drops: "
                       f"{text(system.variables, v.nearest_rank_drop, accuracy)} "
@@ -181,4 +185,9 @@ def run(args, out):
         out.write(f"warning: the anatomy of {noun} {', '.join(map(str, incomplete))} is incomplete "
                   f"(see {pronoun} notes)\n")
     pictured = plot_after(data, args, out)
-    return EXIT_UNDECIDED if report.undecided or report.off or _doubtful(data) or incomplete or pictured else EXIT_OK
+    if report.near_singular and not args.json:  # decision 0062: the same warning as the singular locus
+        near = [str(v.index) for v in report.points if v.near_singular]
+        out.write(f"warning: point {', '.join(near)}: smooth for the coefficients as written, singular after a "
+                  "relative change of them within their precision; the input cannot tell which is meant.\n")
+    return EXIT_UNDECIDED if (report.undecided or report.off or report.near_singular or _doubtful(data) or incomplete
+                              or pictured) else EXIT_OK

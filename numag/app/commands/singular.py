@@ -98,6 +98,12 @@ def _print_singular(result, out, angles, data=None, anatomy=None):
                   f"{_angles_text(c.points[0], angles)}{where}\n")
         if anatomy is not None and c.id in anatomy.points:
             write_point_anatomy(anatomy.points[c.id], names, out)
+    if result.near_singular:  # decision 0062: never dropped silently
+        out.write(f"\n{_counted(len(result.near_singular), 'near-singular point')} (smooth as written; the input's "
+                  "precision cannot tell them from singular points)\n")
+        for k, near in enumerate(result.near_singular, 1):
+            out.write(f"  {k:4d}  {'real' if near.real else 'complex'}  "
+                      f"{text(names, near.point, _WITNESS_ACCURACY)}\n        {near.explanation()}\n")
     larger = [c for c in affine if c.dimension > 0 or c.kind is not PieceKind.SINGULAR]
     if larger:
         out.write(f"\n{_counted(len(larger), 'singular or non-reduced component')} of positive dimension or "
