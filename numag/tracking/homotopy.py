@@ -29,7 +29,7 @@ import numpy as np
 
 from ..system.display import counted
 from ..errors import InputError
-from ..numeric.evaluate import BatchEvaluator, PrecisionEvaluator, TermSizes
+from ..numeric.evaluate import BatchEvaluator, LinearProduct, PrecisionEvaluator, TermSizes
 from .multihomogeneous import MultihomogeneousStart, homogenized_to
 from ..numeric.minors import AugmentedEvaluator, EvaluatedMinors
 
@@ -126,6 +126,12 @@ class _PatchedHomotopy:
         values[size - 1] = sum(a * x for a, x in zip(patch, point)) - 1
         for j in range(size):
             jacobian[size - 1, j] = patch[j]
+
+    @property
+    def projective_patch(self):
+        """The patch a (points are homogeneous coordinates X with a . X = 1): the endgame may average in
+        another chart and come back."""
+        return self.patch
 
     def row_scales(self, points):
         """Size of each target row's gradient terms at points (P, n + 1) (see :class:`TermSizes`)."""
@@ -321,7 +327,8 @@ class ParameterHomotopy(_PatchedHomotopy):
     Parameters
     ----------
     start, target : list of Polynomial
-        Homogeneous polynomials in the same n + 1 variables (homogenising coordinate first).
+        Homogeneous polynomials in the same n + 1 variables (homogenising coordinate first). A start row
+        may be a :class:`~numag.numeric.evaluate.LinearProduct` (evaluated as a product, never expanded).
     patch : ndarray, shape (n + 1,)
     gamma : complex
     homogenized : bool, default True
@@ -356,8 +363,10 @@ class ParameterHomotopy(_PatchedHomotopy):
         # Rows equal in start and target (equations held fixed while slices move) are evaluated once.
         self._moving = first + np.array([k for k, (a, b) in enumerate(zip(self.start_polynomials, self.target))
                                          if not (a is b or a == b)], dtype=np.int64)
-        self.start_evaluator = (BatchEvaluator([self.start_polynomials[k - first] for k in self._moving])
-                                if len(self._moving) else None)
+        moving_start = [self.start_polynomials[k - first] for k in self._moving]
+        self.start_evaluator = (None if not moving_start else _RowsInOrder(moving_start)
+                                if any(isinstance(p, LinearProduct) for p in moving_start)
+                                else BatchEvaluator(moving_start))
         self.evaluations = 0
         self.value_evaluations = 0
         self._precise = None
@@ -438,7 +447,8 @@ class ParameterHomotopy(_PatchedHomotopy):
         """H, dH/dX and dH/ds at one point in an mpmath context (see StraightLineHomotopy)."""
         if self._precise is None:
             self._precise = PrecisionEvaluator(self.target)
-            self._precise_start = PrecisionEvaluator(self.start_polynomials)
+            self._precise_start = PrecisionEvaluator([p.expanded() if isinstance(p, LinearProduct) else p
+                                                      for p in self.start_polynomials])
         size = self.size
         f_values, f_jac = self._precise.evaluate(point, ctx) if self.held is None \
             else self.evaluator.evaluate_mp(point, ctx)
@@ -459,6 +469,33 @@ class ParameterHomotopy(_PatchedHomotopy):
                 jacobian[i, j] = (1 - tau) * f_jac[i, j] + tau * (g_jac[i][j] if first else g_jac[i, j])
         self._precise_patch_row(values, jacobian, point, ctx)
         return values, jacobian, derivative
+
+
+class _RowsInOrder:
+    """Start rows some of which are :class:`~numag.numeric.evaluate.LinearProduct` (evaluated as products), the
+    others polynomials (one :class:`BatchEvaluator`), behind the ``evaluate`` of a :class:`BatchEvaluator`."""
+
+    def __init__(self, rows):
+        self.products = [(k, row) for k, row in enumerate(rows) if isinstance(row, LinearProduct)]
+        self.polynomial_rows = [k for k, row in enumerate(rows) if not isinstance(row, LinearProduct)]
+        self.polynomials = BatchEvaluator([rows[k] for k in self.polynomial_rows]) if self.polynomial_rows else None
+        self.n_equations = len(rows)
+
+    def evaluate(self, points, jacobian=True):
+        count, size = len(points), points.shape[1]
+        values = np.empty((count, self.n_equations), dtype=complex)
+        gradients = np.empty((count, self.n_equations, size), dtype=complex) if jacobian else None
+        if self.polynomials is not None:
+            part = self.polynomials.evaluate(points, jacobian)
+            values[:, self.polynomial_rows] = part[0] if jacobian else part
+            if jacobian:
+                gradients[:, self.polynomial_rows, :] = part[1]
+        for k, product in self.products:
+            part = product.evaluate(points, jacobian)
+            values[:, k] = (part[0] if jacobian else part)[:, 0]
+            if jacobian:
+                gradients[:, k, :] = part[1][:, 0, :]
+        return (values, gradients) if jacobian else values
 
 
 class _HeldThenPolynomials:

@@ -38,7 +38,7 @@ from ..errors import InputError, is_integer, is_number, require_option
 from ..system.polynomial import Polynomial, PolynomialSystem
 from ..run.executor import ambient_executor, charge_paths
 from ..numeric.cluster import cluster_labels, groups
-from ..numeric.evaluate import BatchEvaluator, TermSizes
+from ..numeric.evaluate import BatchEvaluator, LinearProduct, TermSizes
 from ..numeric.linalg import scaled_singular_values
 from ..numeric.minors import CombinedRows
 from ..numeric.refine import IsolationTest, largest_scaled_residual, project_to_variety
@@ -231,13 +231,6 @@ def random_rows(rng, count, size):
 def linear_form(row):
     """The homogeneous linear polynomial row . (X_0, x)."""
     return Polynomial.linear(row)
-
-
-def _product_oflinear_form(rows):
-    product = linear_form(rows[0])
-    for row in rows[1:]:
-        product = product * linear_form(row)
-    return product
 
 
 def track_moves(start, target, points, rng, options, batch_size=4096, whole_cycles=False, held=None):
@@ -511,7 +504,7 @@ def _regenerate(slicing, held_equations, f, codim, points, options):
         starts.append(ends[np.all(np.isfinite(ends), axis=1)])
     starts = np.vstack(starts) if starts else np.zeros((0, n), complex)
     lost = len(points) * degree - len(starts)
-    product = _product_oflinear_form(moved_rows)
+    product = LinearProduct(moved_rows)  # evaluated as a product: written out it has C(n + d, d) terms
     # every solution of the product system off V(held, f) moves: cycles at infinity are whole
     run = track_moves(held + [product] + rest, held + [f] + rest, starts, slicing.rng, options.tracker,
                       options.batch_size, whole_cycles=True)
