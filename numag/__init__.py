@@ -45,6 +45,7 @@ _PUBLIC = {
     "Polynomial": "system.polynomial", "PolynomialSystem": "system.polynomial",
     "System": "system.polynomial:PolynomialSystem",  # the short name: System.from_sympy(...), system.to_sympy()
     "BatchEvaluator": "numeric.evaluate",
+    "LinearProduct": "numeric.evaluate",
     "CheckOptions": "singular.smoothness", "check_points": "singular.smoothness",
     "load_system": "system.files", "load_family": "system.files",
     "SolveOptions": "tracking.solve", "continue_solutions": "tracking.solve", "solve_system": "tracking.solve",
