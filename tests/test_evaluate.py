@@ -3,6 +3,8 @@ import numpy as np
 import sympy
 
 from numag.numeric.evaluate import BatchEvaluator, PrecisionEvaluator
+from numag.numeric.minors import LinearFormProduct
+from numag.system.polynomial import Polynomial
 from numag.system.parse import parse_system
 
 
@@ -68,3 +70,33 @@ def test_many_points_one_call_agree_with_one_at_a_time():
     for k in (0, 500, 999):
         v, j = evaluator.evaluate(points[k:k + 1])
         assert np.allclose(v[0], values[k]) and np.allclose(j[0], jacobians[k])
+
+
+def test_product_of_linear_forms_matches_sympy_and_its_expansion():
+    # sympy (Meurer et al., PeerJ CS 2017) differentiates the product; a point where one form vanishes
+    # checks the gradient there (the product rule leaves the other forms' product)
+    rng = np.random.default_rng(3)
+    for degree, size in ((1, 2), (3, 4), (5, 6)):
+        rows = rng.integers(-5, 6, size=(degree, size)) + 1j * rng.integers(-5, 6, size=(degree, size))
+        product = LinearFormProduct(rows)
+        written_out = Polynomial.linear(rows[0])
+        for row in rows[1:]:
+            written_out = written_out * Polynomial.linear(row)
+        symbols = sympy.symbols(f"x0:{size}")
+        expression = sympy.Mul(*[sum(sympy.Integer(int(c.real)) * s + sympy.I * int(c.imag) * s
+                                     for c, s in zip(row, symbols)) for row in rows])
+        gradient = [sympy.diff(expression, s) for s in symbols]
+        points = rng.standard_normal((4, size)) + 1j * rng.standard_normal((4, size))
+        points[0, -1] = -(rows[0, :-1] @ points[0, :-1]) / rows[0, -1] if rows[0, -1] else points[0, -1]
+        values, jacobian = product.evaluate(points)
+        expanded_values, expanded_jacobian = BatchEvaluator([written_out]).evaluate(points)
+        for p, point in enumerate(points):
+            at = dict(zip(symbols, point))
+            expected = complex(expression.subs(at))
+            expected_gradient = np.array([complex(g.subs(at)) for g in gradient])
+            scale = 1 + np.abs(expected_gradient).max()
+            assert abs(values[p, 0] - expected) <= 1e-12 * scale
+            assert np.abs(jacobian[p, 0] - expected_gradient).max() <= 1e-12 * scale
+            assert abs(expanded_values[p, 0] - expected) <= 1e-12 * scale
+            assert np.abs(expanded_jacobian[p, 0] - expected_gradient).max() <= 1e-12 * scale
+        assert np.allclose(product.evaluate(points, jacobian=False), values, rtol=0, atol=0)

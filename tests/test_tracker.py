@@ -172,3 +172,21 @@ def test_the_rescue_predicts_with_the_steppers_tableau():
     assert euler_steps > rk4_steps
     with pytest.raises(InputError, match="contraction"):
         HalvingStepRule(contraction=1.0)
+
+
+
+@pytest.mark.parametrize("seed", range(4))
+def test_a_tenfold_point_of_a_binary_form_is_found_with_winding_number_ten(seed):
+    # 11264 y^10 on the projective line (the partials of T9(x) - T11(y) on the line at infinity) has the one
+    # zero (1:0), of multiplicity 10 (worked by hand): all 10 paths end there in one cycle of winding number
+    # 10. The endgame's first circles have |u| = r^(1/10) near 0.7, where a pole of the random patch can lie:
+    # a mean off the target is taken again in the chart of the largest coordinate.
+    from numag.system.polynomial import PolynomialSystem
+    system = parse_system(["11264*y^10"], ["x", "y"])
+    projective = PolynomialSystem(["x", "y"], system.polynomials, projective=True)
+    homotopy = StraightLineHomotopy.total_degree(projective, np.random.default_rng(seed))
+    result = track_paths(homotopy, homotopy.start_solutions())
+    assert (result.status == PathStatus.SINGULAR_ENDPOINT).all()
+    assert (result.winding == 10).all()
+    lines = result.endpoints / result.endpoints[:, :1]
+    assert np.abs(lines[:, 1]).max() < 1e-8

@@ -128,6 +128,12 @@ class _PatchedHomotopy:
         for j in range(size):
             jacobian[size - 1, j] = patch[j]
 
+    @property
+    def projective_patch(self):
+        """The patch a (points are homogeneous coordinates X with a . X = 1): the endgame may average in
+        another chart and come back."""
+        return self.patch
+
     def row_scales(self, points):
         """Size of each target row's gradient terms at points (P, n + 1) (see :class:`TermSizes`)."""
         return self._sizes.gradients(points)
@@ -322,7 +328,8 @@ class ParameterHomotopy(_PatchedHomotopy):
     Parameters
     ----------
     start, target : list of Polynomial
-        Homogeneous polynomials in the same n + 1 variables (homogenising coordinate first).
+        Homogeneous polynomials in the same n + 1 variables (homogenising coordinate first). A start row
+        may be a :class:`~numag.numeric.minors.LinearFormProduct` (evaluated as a product, never expanded).
     patch : ndarray, shape (n + 1,)
     gamma : complex
     homogenized : bool, default True
@@ -449,11 +456,13 @@ class ParameterHomotopy(_PatchedHomotopy):
         """H, dH/dX and dH/ds at one point in an mpmath context (see StraightLineHomotopy)."""
         if self._precise is None:
             self._precise = PrecisionEvaluator(self.target) if self.held is None else self.evaluator
-            self._precise_start = PrecisionEvaluator(self.start_polynomials) if self.start_polynomials else None
+            # start rows may be evaluated products of linear forms: the same row-by-row evaluation as in double
+            self._precise_start = _StartRows(self.start_polynomials) if self.start_polynomials else None
         size = self.size
         f_values, f_jac = self._precise.evaluate(point, ctx) if self.held is None \
             else self.evaluator.evaluate_mp(point, ctx)
-        g_values, g_jac = self._precise_start.evaluate(point, ctx) if self._precise_start is not None else ([], [])
+        g_values, g_jac = self._precise_start.evaluate_precise(point, ctx) if self._precise_start is not None \
+            else ([], [])
         first = 0 if self.held is None else self.held.count
         if first:  # held rows: the same in start and target, except those that move from a polynomial
             moved = dict(zip(self._held_moving, range(len(self._held_moving))))

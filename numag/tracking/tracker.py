@@ -596,6 +596,41 @@ class Stepper:
         self.status[over] = PathStatus.FAILED_STEP_LIMIT
 
 
+class _Chart:
+    """Where the Cauchy endgame averages again a circle whose mean on the patch is off the target: the affine
+    chart X_k = 1 of each path's largest coordinate.
+
+    The samples on the circle are analytic in u = s^(1/c), and their mean is the endpoint only when the
+    disc |u| < r^(1/c) holds no pole. In the tracker's random patch a . X = 1 a pole is where a . X(u) = 0,
+    and for a winding number c of 10 even r = 0.025 gives a disc of radius 0.69 in u that one such pole
+    fell inside: the mean, converged to 1e-15 by its own estimate, was another point, and the radius had to
+    shrink three times. In the chart of the largest coordinate, X_k(u) stays near its largest value on the
+    disc. Only a mean off the target is replaced (a mean on the patch that solves the target stays: on a
+    positive-dimensional set at infinity the two paths of one cycle got means 1e-2 apart in the charts, and
+    the jump check split the cycle). Homotopies whose points are homogeneous coordinates on one patch say so
+    with ``projective_patch``; the others (a sweep's points carry a label) average on the patch alone.
+    """
+
+    def __init__(self, homotopy, start):
+        patch = getattr(homotopy, "projective_patch", None)
+        self.patch = patch if patch is not None and len(patch) == start.shape[1] else None
+        self.pivot = np.argmax(np.abs(start), axis=1) if self.patch is not None else None
+
+    def of(self, points, rows):
+        """The samples ``points`` of the paths ``rows`` in their charts."""
+        if self.patch is None:
+            return points
+        with np.errstate(all="ignore"):  # a pivot that vanished on the circle: a NaN mean, never settled
+            return points / points[np.arange(len(rows)), self.pivot[rows]][:, None]
+
+    def back(self, means):
+        """Means in the charts (one row per path) back on the patch."""
+        if self.patch is None:
+            return means
+        with np.errstate(all="ignore"):
+            return means / (means @ self.patch)[:, None]
+
+
 def _cauchy_endgame(homotopy, points, radius, opts, steps):
     """Cauchy endgame for paths standing at s = radius (real, one per path): estimates, winding numbers, status."""
     opts = replace(opts, corrector_tolerance=min(opts.corrector_tolerance, opts.endgame_corrector_tolerance))
@@ -617,9 +652,11 @@ def _cauchy_endgame(homotopy, points, radius, opts, steps):
             break
         circle = _Circle(r)
         start = x[live].copy()
+        # a mean off the target on the patch is taken again in the chart of the largest coordinate (_Chart)
+        chart = _Chart(homotopy, start)
         current = start.copy()
-        total = np.zeros_like(start)
-        half, quarter = np.zeros_like(start), np.zeros_like(start)  # every 2nd and every 4th sample
+        # sums of the samples on the patch [0] and in the charts [1]: of all, of every 2nd, of every 4th
+        sums = np.zeros((2, 3) + start.shape, dtype=complex)
         loops = np.zeros(len(live), dtype=np.int64)
         open_ = np.ones(len(live), dtype=bool)
         unclosed = np.zeros(len(live), dtype=bool)
@@ -628,11 +665,13 @@ def _cauchy_endgame(homotopy, points, radius, opts, steps):
         while np.any(open_):
             rows = np.nonzero(open_)[0]
             for k in range(samples):
-                total[rows] += current[rows]
-                if k % 2 == 0:
-                    half[rows] += current[rows]
-                if k % 4 == 0:
-                    quarter[rows] += current[rows]
+                here = current[rows]
+                for which, sample in enumerate((here, chart.of(here, rows) if chart.patch is not None else here)):
+                    sums[which, 0, rows] += sample
+                    if k % 2 == 0:
+                        sums[which, 1, rows] += sample
+                    if k % 4 == 0:
+                        sums[which, 2, rows] += sample
                 arc_piece = Stepper(homotopy, current[rows], np.full(len(rows), angles[k]),
                                     np.full(len(rows), angles[k + 1]), circle, live[rows], opts,
                                     step=arc_step[rows], max_step=arc)
@@ -653,13 +692,25 @@ def _cauchy_endgame(homotopy, points, radius, opts, steps):
             unclosed[too_many] = True  # the circle may enclose other branch points: try a smaller one
             open_[too_many] = False
         done = (status[live] == PathStatus.RUNNING) & (loops > 0) & ~unclosed
-        new_estimate = np.where(done[:, None], total / (samples * np.maximum(loops, 1))[:, None], np.nan)
+        counted = np.maximum(loops, 1)[:, None]
+        with np.errstate(all="ignore"):
+            full, half, quarter = (sums[0, j] / (counted * (samples // parts)) for j, parts in enumerate((1, 2, 4)))
+        new_estimate = np.where(done[:, None], full, np.nan)
         previous = estimate[live]
         # Two estimates agreeing is not enough: circles that enclose another branch point besides 0
         # give the same (wrong) mean at every radius. The estimate must also solve the target.
         on_target = np.zeros(len(live), dtype=bool)
         if np.any(done):
             on_target[done] = homotopy.target_residual(new_estimate[done]) <= opts.endpoint_residual
+        retry = np.nonzero(done & ~on_target)[0] if chart.patch is not None else np.zeros(0, dtype=np.int64)
+        if len(retry):  # off the target on the patch: the means in the charts, where they are on it
+            with np.errstate(all="ignore"):
+                in_charts = [chart.back(sums[1, j, retry] / (counted[retry] * (samples // parts)))
+                             for j, parts in enumerate((1, 2, 4))]
+            hit = homotopy.target_residual(in_charts[0]) <= opts.endpoint_residual
+            use = retry[hit]
+            new_estimate[use], half[use], quarter[use] = (means[hit] for means in in_charts)
+            on_target[use] = True
         size = 1 + np.linalg.norm(new_estimate, axis=1)
         agree = done & on_target & (np.linalg.norm(new_estimate - previous, axis=1) <= opts.endgame_tolerance * size)
         # One circle can also vouch for itself. The samples are a periodic analytic function of the
@@ -671,11 +722,14 @@ def _cauchy_endgame(homotopy, points, radius, opts, steps):
         # endpoint the Jacobian's condition grows as the radius shrinks).
         if samples % 4 == 0:
             with np.errstate(all="ignore"):
-                counted = np.maximum(loops, 1)[:, None]
-                d_half = np.linalg.norm(new_estimate - half / (counted * samples // 2), axis=1) / size
-                d_quarter = np.linalg.norm(new_estimate - quarter / (counted * samples // 4), axis=1) / size
+                d_half = np.linalg.norm(new_estimate - half, axis=1) / size
+                d_quarter = np.linalg.norm(new_estimate - quarter, axis=1) / size
                 ratio = np.where(d_quarter > 0, d_half / d_quarter, 0.0)
-                alone = (ratio <= 0.5) & (d_half * ratio ** 2 <= opts.endgame_tolerance)
+                # Or the means of every 2nd and every 4th sample already agree with the full mean to the
+                # tolerance (their ratio is then rounding noise over rounding noise): the full mean, whose
+                # error is far smaller than theirs, is settled.
+                alone = ((ratio <= 0.5) & (d_half * ratio ** 2 <= opts.endgame_tolerance)) | (
+                    np.maximum(d_half, d_quarter) <= opts.endgame_tolerance)
             agree |= done & on_target & alone
         estimate[live[done]] = new_estimate[done]
         winding[live[done]] = loops[done]

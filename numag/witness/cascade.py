@@ -287,13 +287,6 @@ def linear_form(row):
     return Polynomial.linear(row)
 
 
-def _product_oflinear_form(rows):
-    product = linear_form(rows[0])
-    for row in rows[1:]:
-        product = product * linear_form(row)
-    return product
-
-
 def track_moves(start, target, points, rng, options, batch_size=4096, whole_cycles=False, held=None,
                 held_start=None):
     """Track affine points from the square homogeneous system ``start`` to ``target`` (parameter homotopy).
@@ -582,13 +575,13 @@ def _regenerate(slicing, before, index, codim, points, options):
     starts = np.vstack(starts) if starts else np.zeros((0, n), complex)
     lost = len(points) * degree - len(starts)
     # every solution of the product system off V(held, f) moves: cycles at infinity are whole
+    # the product of deg f linear forms is evaluated as a product: written out it has up to C(n + deg f, n) terms
+    # (3,003 for five forms in eleven coordinates cost 20 times the target's rows)
+    product = LinearFormProduct(moved_rows)
     if evaluated:  # the combinations (same weights) and then f are the held rows, f starting from the product
-        # the product of deg f linear forms evaluated too: written out it has up to C(n + deg f, n) terms
-        product = LinearFormProduct(moved_rows)
         run = track_moves(rest, rest, starts, slicing.rng, options.tracker, options.batch_size,
                           whole_cycles=True, held=with_f, held_start=[None] * (with_f.count - 1) + [product])
     else:
-        product = _product_oflinear_form(moved_rows)
         f = slicing.homogeneous[index]
         run = track_moves(held + [product] + rest, held + [f] + rest, starts, slicing.rng, options.tracker,
                           options.batch_size, whole_cycles=True, held=block)
