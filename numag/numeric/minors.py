@@ -42,6 +42,7 @@ from ..system.polynomial import DEFAULT_LIMITS, Polynomial, combined_minor, dete
 from .evaluate import BatchEvaluator, PrecisionEvaluator, TermSizes
 
 __all__ = ["AugmentedEvaluator", "CombinedRows", "EvaluatedMinors", "MinorWeights", "expanded_minors", "kernel_deflation",
+           "degree_lowering_directions", "directional_gradients",
            "random_minor_weights"]
 
 
@@ -133,7 +134,158 @@ def _integer_weights(rng, shape):
     return values.astype(np.int64)
 
 
-def expanded_minors(polynomials, weights, limits=DEFAULT_LIMITS, normalize=False):
+#: A direction annihilates a homogeneous part when the part's derivative along it is below this (relative to the
+#: part's coefficients): exact input gives about 1e-16 there, and a derivative that does not vanish is of the
+#: size of the coefficients (the directions are unit vectors).
+_ANNIHILATED = 1e-10
+
+
+def _derivative_rows(polynomial, n, depth):
+    """For each t < depth, the matrix v -> coefficients of d/dv of the degree (d - t) part of ``polynomial``.
+
+    Rows are the monomials of the derivative, columns the first ``n`` variables; each matrix is divided by
+    the coefficient norm of its part (a zero part gives an empty matrix).
+    """
+    degrees = polynomial.exponents.sum(axis=1)
+    top = polynomial.degree
+    matrices = []
+    for t in range(depth):
+        part = degrees == top - t
+        rows = {}
+        for exponent, coefficient in zip(polynomial.exponents[part], polynomial.numeric_coefficients()[part]):
+            for j in range(n):
+                if exponent[j] == 0:
+                    continue
+                lowered = exponent.copy()
+                lowered[j] -= 1
+                rows.setdefault(tuple(lowered), np.zeros(n, dtype=complex))[j] += coefficient * exponent[j]
+        matrix = np.array(list(rows.values())) if rows else np.zeros((0, n), dtype=complex)
+        scale = np.linalg.norm(polynomial.numeric_coefficients()[part]) if np.any(part) else 0.0
+        matrices.append(matrix / scale if scale > 0 else matrix)
+    return matrices
+
+
+def _kernel(matrix, n):
+    """Orthonormal basis (columns) of the directions the stacked derivative rows annihilate."""
+    if len(matrix) == 0:
+        return np.eye(n, dtype=complex)
+    _, values, vh = np.linalg.svd(matrix)
+    rank = int(np.sum(values > _ANNIHILATED))
+    return vh[rank:].conj().T
+
+
+def degree_lowering_directions(polynomials, n=None):
+    """Directions v along which the derivatives of F lose the most degree, as columns of an invertible matrix.
+
+    The derivative of f along v drops below degree d - 1 exactly when v annihilates f's top homogeneous
+    part, and further when it annihilates the next parts too. These directions belong to X, not to the
+    coordinates: a curve whose top part is a power of a linear form has them whatever linear change of
+    coordinates the user applied. Taking the Jacobian along them (J B instead of J; the minors of J B
+    span the same equations as those of J, B being invertible) keeps the low degrees that good
+    coordinates happen to give, and so the paths that would end at infinity: in general coordinates the
+    minors of a curve with a very singular point at infinity send most paths there, with winding
+    numbers of 6 to 30 that double precision cannot resolve, and the affine singular points are lost.
+
+    Directions are chosen deepest first: those annihilating the most parts of every equation, then, for
+    each equation, those annihilating the most of its own parts, then an orthonormal completion.
+
+    Parameters
+    ----------
+    polynomials : sequence of Polynomial
+    n : int, optional
+        Directions in the first ``n`` variables (all by default).
+
+    Returns
+    -------
+    B : ndarray, shape (n, n), or None
+        Columns are the directions, with their levels (parts annihilated per equation) in ``levels``;
+        None when no direction lowers any degree (the Jacobian itself is as good).
+    levels : ndarray of int, shape (len(polynomials), n)
+        For each equation and column, how many top parts the direction annihilates (exactly, by
+        construction): its derivative along the column has degree at most d - 1 - level.
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> system = parse_system(["(x + 2*y)^3 - x"], ["x", "y"])     # top part a cube of x + 2y
+    >>> B, levels = degree_lowering_directions(system.polynomials)
+    >>> bool(abs(B[0, 0] + 2 * B[1, 0]) < 1e-12), levels[0].tolist()    # along (2, -1): x + 2y is constant
+    (True, [2, 0])
+    """
+    polynomials = [p for p in polynomials if not p.is_zero()]
+    if not polynomials:
+        return None, None
+    n = polynomials[0].n_variables if n is None else int(n)
+    rows = [_derivative_rows(p, n, p.degree) for p in polynomials]
+    chosen = np.zeros((n, 0), dtype=complex)
+
+    def add(space):
+        nonlocal chosen
+        if space.shape[1] == 0:
+            return
+        # the part of the space not yet spanned (an orthonormal basis of it)
+        rest = space - chosen @ (chosen.conj().T @ space)
+        u, values, _ = np.linalg.svd(rest, full_matrices=False)
+        fresh = u[:, values > 1e-8]
+        chosen = np.hstack([chosen, fresh])
+
+    def level_space(indices, level):
+        stacked = [m for k in indices for m in rows[k][:level]]
+        return _kernel(np.vstack(stacked) if stacked else np.zeros((0, n)), n)
+
+    everyone = range(len(polynomials))
+    deepest = max(p.degree for p in polynomials)
+    for level in range(deepest, 0, -1):  # common to every equation, deepest first
+        add(level_space(everyone, level))
+    for k, p in enumerate(polynomials):  # then each equation's own
+        for level in range(p.degree, 0, -1):
+            add(level_space([k], level))
+    if chosen.shape[1] == 0:
+        return None, None
+    add(np.eye(n, dtype=complex))
+    levels = np.zeros((len(polynomials), n), dtype=np.int64)
+    for k, matrices in enumerate(rows):
+        running = np.ones(n, dtype=bool)  # the parts counted must be the top ones, without a gap
+        for matrix in matrices:
+            running &= np.linalg.norm(matrix @ chosen, axis=0) <= _ANNIHILATED * np.sqrt(n)
+            levels[k] += running
+    return chosen, levels
+
+
+def directional_gradients(polynomials, directions, levels):
+    """The derivatives of each polynomial along each column of ``directions`` (numeric), with the parts that
+    vanish exactly (``levels`` from :func:`degree_lowering_directions`) removed rather than left as rounding.
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> system = parse_system(["(x + 2*y)^3 - x"], ["x", "y"])
+    >>> B, levels = degree_lowering_directions(system.polynomials)
+    >>> [g.degree for g in directional_gradients(system.polynomials, B, levels)[0]]
+    [0, 2]
+    """
+    polynomials = [p.numeric() for p in polynomials]
+    n = directions.shape[0]
+    result = []
+    for k, p in enumerate(polynomials):
+        partials = [p.derivative(j) for j in range(n)]
+        row = []
+        for column in range(directions.shape[1]):
+            combined = None
+            for j in range(n):
+                if directions[j, column] != 0 and not partials[j].is_zero():
+                    term = partials[j] * complex(directions[j, column])
+                    combined = term if combined is None else combined + term
+            if combined is None:
+                combined = Polynomial.zero(p.n_variables)
+            highest = p.degree - 1 - int(levels[k, column])
+            keep = combined.exponents.sum(axis=1) <= highest
+            row.append(Polynomial(combined.exponents[keep], combined.coefficients[keep], p.n_variables))
+        result.append(row)
+    return result
+
+
+def expanded_minors(polynomials, weights, limits=DEFAULT_LIMITS, normalize=False, gradients=None):
     """The minors det(A_k J B_k) written out as polynomials (exact weights keep exact input exact).
 
     Use it where exact equations are needed (exact certificates) or the expansion is small; numerical work
@@ -148,6 +300,9 @@ def expanded_minors(polynomials, weights, limits=DEFAULT_LIMITS, normalize=False
     limits : Limits
     normalize : bool, default False
         Divide each minor by its coefficient norm (numeric polynomials).
+    gradients : list of list of Polynomial, optional
+        The Jacobian's entries to use instead of the partial derivatives (m x n: derivatives along other
+        directions, :func:`directional_gradients`).
 
     Returns
     -------
@@ -163,7 +318,8 @@ def expanded_minors(polynomials, weights, limits=DEFAULT_LIMITS, normalize=False
     """
     polynomials = list(polynomials)
     n = weights.right.shape[1]  # J in the first n variables (all of them, or a family's x before its parameters)
-    gradients = [[p.derivative(j) for j in range(n)] for p in polynomials]
+    if gradients is None:
+        gradients = [[p.derivative(j) for j in range(n)] for p in polynomials]
     result = []
     for a, b in zip(weights.left, weights.right):
         if weights.complete:  # 0/1 selections: the minor itself, without combining

@@ -46,7 +46,7 @@ from ..system.display import counted, html_table, short_point
 from ..system.polynomial import Polynomial, PolynomialSystem, linear_space, require_numeric
 from ..numeric.cluster import cluster_labels, groups, normalize_projective
 from ..numeric.evaluate import BatchEvaluator, TermSizes
-from ..numeric.minors import expanded_minors, random_minor_weights
+from ..numeric.minors import degree_lowering_directions, directional_gradients, expanded_minors, random_minor_weights
 from ..numeric.refine import IsolationTest, project_to_variety
 from ..numeric.scaling import Scaling
 from ..numeric.seeds import resolved_seed
@@ -246,7 +246,11 @@ def minors_system(system, codimension, rng, max_exact, n_columns=None):
     equations = [p.numeric() for p in system.polynomials]
     n = system.n_variables if n_columns is None else int(n_columns)
     weights = random_minor_weights(system.n_equations, n, codimension, max_exact, rng)
-    minors = expanded_minors(equations, weights, normalize=True)
+    # the Jacobian along the directions where F's derivatives lose degree (the same minors' span, fewer
+    # paths to infinity: a linear change of coordinates must not cost the singular points)
+    directions, levels = degree_lowering_directions(equations, n)
+    gradients = None if directions is None else directional_gradients(equations, directions, levels)
+    minors = expanded_minors(equations, weights, normalize=True, gradients=gradients)
     kind = CandidateSystem.MINORS if weights.complete else CandidateSystem.RANDOM_MINORS
     return PolynomialSystem(system.variables, equations + minors, name=system.name), kind
 
