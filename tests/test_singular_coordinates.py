@@ -71,7 +71,7 @@ def test_the_degree_lowering_directions_follow_the_coordinates():
     degrees = []
     for system in (before, after):
         directions, levels = degree_lowering_directions(system.polynomials)
-        gradients = directional_gradients(system.polynomials, directions, levels)
+        gradients = directional_gradients(system.polynomials, directions)
         degrees.append(sorted(g.degree for g in gradients[0]))
     assert degrees[0] == degrees[1] == [2, 4]  # d/dy F = 2 (y - x^2); d/dx F has degree 4
 

@@ -38,6 +38,7 @@ import math
 import numpy as np
 
 from ..errors import InputError
+from ..system.exact import ExactCoefficient
 from ..system.polynomial import DEFAULT_LIMITS, Polynomial, combined_minor, determinant
 from .evaluate import BatchEvaluator, PrecisionEvaluator, TermSizes
 
@@ -134,60 +135,79 @@ def _integer_weights(rng, shape):
     return values.astype(np.int64)
 
 
-#: A direction annihilates a homogeneous part when the part's derivative along it is below this (relative to the
-#: part's coefficients): exact input gives about 1e-16 there, and a derivative that does not vanish is of the
-#: size of the coefficients (the directions are unit vectors).
-_ANNIHILATED = 1e-10
-
-
 def _derivative_rows(polynomial, n, depth):
-    """For each t < depth, the matrix v -> coefficients of d/dv of the degree (d - t) part of ``polynomial``.
+    """For each t < depth, the exact matrix v -> coefficients of d/dv of the degree (d - t) part of ``polynomial``.
 
-    Rows are the monomials of the derivative, columns the first ``n`` variables; each matrix is divided by
-    the coefficient norm of its part (a zero part gives an empty matrix).
+    Rows are the monomials of the derivative (lists of ``ExactCoefficient``), columns the first ``n`` variables.
     """
+    zero = ExactCoefficient.zero()
     degrees = polynomial.exponents.sum(axis=1)
-    top = polynomial.degree
     matrices = []
     for t in range(depth):
-        part = degrees == top - t
+        part = degrees == polynomial.degree - t
         rows = {}
-        for exponent, coefficient in zip(polynomial.exponents[part], polynomial.numeric_coefficients()[part]):
+        for exponent, coefficient in zip(polynomial.exponents[part], polynomial.coefficients[part]):
             for j in range(n):
                 if exponent[j] == 0:
                     continue
                 lowered = exponent.copy()
                 lowered[j] -= 1
-                rows.setdefault(tuple(lowered), np.zeros(n, dtype=complex))[j] += coefficient * exponent[j]
-        matrix = np.array(list(rows.values())) if rows else np.zeros((0, n), dtype=complex)
-        scale = np.linalg.norm(polynomial.numeric_coefficients()[part]) if np.any(part) else 0.0
-        matrices.append(matrix / scale if scale > 0 else matrix)
+                row = rows.setdefault(tuple(lowered), [zero] * n)
+                row[j] = row[j] + coefficient * ExactCoefficient.rational(int(exponent[j]))
+        matrices.append(list(rows.values()))
     return matrices
 
 
-def _kernel(matrix, n):
-    """Orthonormal basis (columns) of the directions the stacked derivative rows annihilate."""
-    if len(matrix) == 0:
-        return np.eye(n, dtype=complex)
-    _, values, vh = np.linalg.svd(matrix)
-    rank = int(np.sum(values > _ANNIHILATED))
-    return vh[rank:].conj().T
+def _echelon(rows, n):
+    """Reduced row echelon form over the exact numbers: (rows, pivot columns)."""
+    rows = [list(r) for r in rows]
+    pivots = []
+    for column in range(n):
+        top = len(pivots)
+        found = next((k for k in range(top, len(rows)) if not rows[k][column].is_zero()), None)
+        if found is None:
+            continue
+        rows[top], rows[found] = rows[found], rows[top]
+        inverse = rows[top][column].reciprocal()
+        rows[top] = [value * inverse for value in rows[top]]
+        for k in range(len(rows)):
+            if k != top and not rows[k][column].is_zero():
+                factor = rows[k][column]
+                rows[k] = [a - factor * b for a, b in zip(rows[k], rows[top])]
+        pivots.append(column)
+    return rows[:len(pivots)], pivots
+
+
+def _exact_kernel(rows, n):
+    """A basis (exact vectors) of the directions every row annihilates."""
+    reduced, pivots = _echelon(rows, n)
+    one, zero = ExactCoefficient.rational(1), ExactCoefficient.zero()
+    basis = []
+    for free in (c for c in range(n) if c not in pivots):
+        vector = [zero] * n
+        vector[free] = one
+        for row, pivot in zip(reduced, pivots):
+            vector[pivot] = -row[free]
+        basis.append(vector)
+    return basis
 
 
 def degree_lowering_directions(polynomials, n=None):
-    """Directions v along which the derivatives of F lose the most degree, as columns of an invertible matrix.
+    """Directions v along which the derivatives of F lose the most degree, as the columns of an invertible matrix.
 
     The derivative of f along v drops below degree d - 1 exactly when v annihilates f's top homogeneous
     part, and further when it annihilates the next parts too. These directions belong to X, not to the
     coordinates: a curve whose top part is a power of a linear form has them whatever linear change of
     coordinates the user applied. Taking the Jacobian along them (J B instead of J; the minors of J B
     span the same equations as those of J, B being invertible) keeps the low degrees that good
-    coordinates happen to give, and so the paths that would end at infinity: in general coordinates the
-    minors of a curve with a very singular point at infinity send most paths there, with winding
-    numbers of 6 to 30 that double precision cannot resolve, and the affine singular points are lost.
+    coordinates happen to give, and so keeps paths away from infinity: in general coordinates the minors
+    of a curve with a very singular point at infinity send most paths there, with winding numbers of 6 to
+    30 that double precision cannot resolve, and the affine singular points were lost (decision 0063).
 
-    Directions are chosen deepest first: those annihilating the most parts of every equation, then, for
-    each equation, those annihilating the most of its own parts, then an orthonormal completion.
+    Exact input only (the kernels are computed exactly, so a derivative's vanishing parts are exactly
+    zero and no threshold decides them). Directions are taken deepest first: those annihilating the most
+    parts of every equation, then, for each equation, those annihilating the most of its own parts, then
+    unit vectors to complete the basis.
 
     Parameters
     ----------
@@ -197,90 +217,74 @@ def degree_lowering_directions(polynomials, n=None):
 
     Returns
     -------
-    B : ndarray, shape (n, n), or None
-        Columns are the directions, with their levels (parts annihilated per equation) in ``levels``;
-        None when no direction lowers any degree (the Jacobian itself is as good).
-    levels : ndarray of int, shape (len(polynomials), n)
-        For each equation and column, how many top parts the direction annihilates (exactly, by
-        construction): its derivative along the column has degree at most d - 1 - level.
+    B : list of list of ExactCoefficient, or None
+        The directions (each a list of n coordinates); None when no direction lowers a degree or the
+        input is not exact (then the Jacobian itself is used).
+    levels : ndarray of int, shape (len(polynomials), n), or None
+        For each equation and direction, how many top parts the direction annihilates: the derivative
+        along it has degree at most d - 1 - level.
 
     Examples
     --------
     >>> from numag.system.parse import parse_system
     >>> system = parse_system(["(x + 2*y)^3 - x"], ["x", "y"])     # top part a cube of x + 2y
     >>> B, levels = degree_lowering_directions(system.polynomials)
-    >>> bool(abs(B[0, 0] + 2 * B[1, 0]) < 1e-12), levels[0].tolist()    # along (2, -1): x + 2y is constant
-    (True, [2, 0])
+    >>> [complex(c).real for c in B[0]], levels[0].tolist()       # along (-2, 1): x + 2y is constant
+    ([-2.0, 1.0], [2, 0])
     """
     polynomials = [p for p in polynomials if not p.is_zero()]
-    if not polynomials:
+    if not polynomials or not all(p.is_exact for p in polynomials):
         return None, None
     n = polynomials[0].n_variables if n is None else int(n)
     rows = [_derivative_rows(p, n, p.degree) for p in polynomials]
-    chosen = np.zeros((n, 0), dtype=complex)
+    chosen = []
 
-    def add(space):
-        nonlocal chosen
-        if space.shape[1] == 0:
-            return
-        # the part of the space not yet spanned (an orthonormal basis of it)
-        rest = space - chosen @ (chosen.conj().T @ space)
-        u, values, _ = np.linalg.svd(rest, full_matrices=False)
-        fresh = u[:, values > 1e-8]
-        chosen = np.hstack([chosen, fresh])
-
-    def level_space(indices, level):
-        stacked = [m for k in indices for m in rows[k][:level]]
-        return _kernel(np.vstack(stacked) if stacked else np.zeros((0, n)), n)
+    def add(vectors):
+        for vector in vectors:
+            if len(_echelon(chosen + [vector], n)[1]) > len(chosen):
+                chosen.append(vector)
 
     everyone = range(len(polynomials))
-    deepest = max(p.degree for p in polynomials)
-    for level in range(deepest, 0, -1):  # common to every equation, deepest first
-        add(level_space(everyone, level))
+    for level in range(max(p.degree for p in polynomials), 0, -1):  # common to every equation, deepest first
+        add(_exact_kernel([r for k in everyone for m in rows[k][:level] for r in m], n))
     for k, p in enumerate(polynomials):  # then each equation's own
         for level in range(p.degree, 0, -1):
-            add(level_space([k], level))
-    if chosen.shape[1] == 0:
+            add(_exact_kernel([r for m in rows[k][:level] for r in m], n))
+    if not chosen:
         return None, None
-    add(np.eye(n, dtype=complex))
+    one, zero = ExactCoefficient.rational(1), ExactCoefficient.zero()
+    add([[one if i == j else zero for i in range(n)] for j in range(n)])
     levels = np.zeros((len(polynomials), n), dtype=np.int64)
     for k, matrices in enumerate(rows):
-        running = np.ones(n, dtype=bool)  # the parts counted must be the top ones, without a gap
-        for matrix in matrices:
-            running &= np.linalg.norm(matrix @ chosen, axis=0) <= _ANNIHILATED * np.sqrt(n)
-            levels[k] += running
+        for column, vector in enumerate(chosen):
+            for matrix in matrices:  # the top parts, without a gap
+                if any(not sum((a * b for a, b in zip(row, vector)), zero).is_zero() for row in matrix):
+                    break
+                levels[k, column] += 1
     return chosen, levels
 
 
-def directional_gradients(polynomials, directions, levels):
-    """The derivatives of each polynomial along each column of ``directions`` (numeric), with the parts that
-    vanish exactly (``levels`` from :func:`degree_lowering_directions`) removed rather than left as rounding.
+def directional_gradients(polynomials, directions):
+    """The derivatives of each (exact) polynomial along each direction, exactly, then as numeric polynomials.
 
     Examples
     --------
     >>> from numag.system.parse import parse_system
     >>> system = parse_system(["(x + 2*y)^3 - x"], ["x", "y"])
     >>> B, levels = degree_lowering_directions(system.polynomials)
-    >>> [g.degree for g in directional_gradients(system.polynomials, B, levels)[0]]
+    >>> [g.degree for g in directional_gradients(system.polynomials, B)[0]]
     [0, 2]
     """
-    polynomials = [p.numeric() for p in polynomials]
-    n = directions.shape[0]
     result = []
-    for k, p in enumerate(polynomials):
-        partials = [p.derivative(j) for j in range(n)]
+    for p in polynomials:
+        partials = [p.derivative(j) for j in range(len(directions[0]))]
         row = []
-        for column in range(directions.shape[1]):
-            combined = None
-            for j in range(n):
-                if directions[j, column] != 0 and not partials[j].is_zero():
-                    term = partials[j] * complex(directions[j, column])
-                    combined = term if combined is None else combined + term
-            if combined is None:
-                combined = Polynomial.zero(p.n_variables)
-            highest = p.degree - 1 - int(levels[k, column])
-            keep = combined.exponents.sum(axis=1) <= highest
-            row.append(Polynomial(combined.exponents[keep], combined.coefficients[keep], p.n_variables))
+        for vector in directions:
+            combined = Polynomial.zero(p.n_variables)
+            for partial, weight in zip(partials, vector):
+                if not weight.is_zero() and not partial.is_zero():
+                    combined = combined + partial * Polynomial.constant(weight, p.n_variables)
+            row.append(combined.numeric())
         result.append(row)
     return result
 

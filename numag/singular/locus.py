@@ -246,13 +246,10 @@ def minors_system(system, codimension, rng, max_exact, n_columns=None):
     equations = [p.numeric() for p in system.polynomials]
     n = system.n_variables if n_columns is None else int(n_columns)
     weights = random_minor_weights(system.n_equations, n, codimension, max_exact, rng)
-    # A hypersurface's gradient along the directions where F's derivatives lose degree (the same minors'
-    # span, fewer paths to infinity: a linear change of coordinates must not cost the singular points).
-    # Not for several equations yet: a direction that one equation does not depend on gives minors that
-    # factor, and the planes they cut are known only to rounding; a nodal space curve then lost its nodes
-    # without a failed path (decision 0063).
-    directions, levels = degree_lowering_directions(equations, n) if len(equations) == 1 else (None, None)
-    gradients = None if directions is None else directional_gradients(equations, directions, levels)
+    # The Jacobian along the directions where F's derivatives lose degree (the same minors' span, fewer
+    # paths to infinity: a linear change of coordinates must not cost the singular points; decision 0063).
+    directions, _ = degree_lowering_directions(system.polynomials, n)
+    gradients = None if directions is None else directional_gradients(system.polynomials, directions)
     minors = expanded_minors(equations, weights, normalize=True, gradients=gradients)
     kind = CandidateSystem.MINORS if weights.complete else CandidateSystem.RANDOM_MINORS
     return PolynomialSystem(system.variables, equations + minors, name=system.name), kind
