@@ -54,6 +54,21 @@ def test_a_cusp_after_a_rational_linear_change_is_found(seed):
     assert not locus.discarded.get("not_settled_on_X"), locus.discarded
 
 
+@pytest.mark.parametrize("seed", [1, 2, 3])
+def test_a_nodal_space_curve_after_a_rational_linear_change_keeps_both_nodes(seed):
+    # y^2 = x^2 (x + 1) (x - 2)^2, z = x y + 1: nodes at (0, 0, 1) and (2, 0, 1) (common practice, no source;
+    # checked with sympy below). One equation does not depend on a direction: the minors factor there.
+    curve = [Y**2 - X**2 * (X + 1) * (X - 2)**2, Z - X * Y - 1]
+    moved, text = _changed(curve, [X, Y, Z], [["1", "1/2", "0"], ["0", "1", "-2"], ["1", "0", "1/3"]], ["1", "0", "-1"])
+    expected = _singular_points(moved, [X, Y, Z])
+    assert len(expected) == 2
+    locus = singular_locus(parse_system(text, ["x", "y", "z"]), seed=seed)
+    found = [c.points[0] for c in locus.components if not c.at_infinity and c.dimension == 0]
+    assert len(found) == 2
+    for point in expected:
+        assert min(np.linalg.norm(f - np.array(point)) for f in found) <= 1e-6 * (1 + np.linalg.norm(point))
+
+
 def test_the_minors_of_a_changed_curve_have_the_degrees_of_good_coordinates():
     # F, then its derivatives along the chosen directions: degrees 5, 2 and 4 as for the curve before the
     # change (d/dy (y - x^2)^2 = 2 (y - x^2)), not 5, 4, 4 (common practice, no source)
