@@ -39,11 +39,13 @@ import math
 import numpy as np
 
 from ..errors import InputError
+from ..system.exact import ExactCoefficient
 from ..system.polynomial import DEFAULT_LIMITS, Polynomial, PolynomialSystem, combined_minor, determinant
 from .evaluate import BatchEvaluator, PrecisionEvaluator, TermSizes
 
-__all__ = ["AugmentedEvaluator", "CombinedRows", "EvaluatedMinors", "LinearFormProduct", "MinorWeights", "MinorsSystem", "equation_evaluator", "expanded_minors", "kernel_deflation",
-           "random_minor_weights", "split_equations"]
+__all__ = ["AugmentedEvaluator", "CombinedRows", "EvaluatedMinors", "LinearFormProduct", "MinorWeights", "MinorsSystem",
+           "degree_lowering_directions", "directional_gradients", "equation_evaluator", "expanded_minors",
+           "kernel_deflation", "random_minor_weights", "split_equations"]
 
 
 class MinorWeights:
@@ -134,7 +136,161 @@ def _integer_weights(rng, shape):
     return values.astype(np.int64)
 
 
-def expanded_minors(polynomials, weights, limits=DEFAULT_LIMITS, normalize=False):
+def _derivative_rows(polynomial, n, depth):
+    """For each t < depth, the exact matrix v -> coefficients of d/dv of the degree (d - t) part of ``polynomial``.
+
+    Rows are the monomials of the derivative (lists of ``ExactCoefficient``), columns the first ``n`` variables.
+    """
+    zero = ExactCoefficient.zero()
+    degrees = polynomial.exponents.sum(axis=1)
+    matrices = []
+    for t in range(depth):
+        part = degrees == polynomial.degree - t
+        rows = {}
+        for exponent, coefficient in zip(polynomial.exponents[part], polynomial.coefficients[part]):
+            for j in range(n):
+                if exponent[j] == 0:
+                    continue
+                lowered = exponent.copy()
+                lowered[j] -= 1
+                row = rows.setdefault(tuple(lowered), [zero] * n)
+                row[j] = row[j] + coefficient * ExactCoefficient.rational(int(exponent[j]))
+        matrices.append(list(rows.values()))
+    return matrices
+
+
+def _echelon(rows, n):
+    """Reduced row echelon form over the exact numbers: (rows, pivot columns)."""
+    rows = [list(r) for r in rows]
+    pivots = []
+    for column in range(n):
+        top = len(pivots)
+        found = next((k for k in range(top, len(rows)) if not rows[k][column].is_zero()), None)
+        if found is None:
+            continue
+        rows[top], rows[found] = rows[found], rows[top]
+        inverse = rows[top][column].reciprocal()
+        rows[top] = [value * inverse for value in rows[top]]
+        for k in range(len(rows)):
+            if k != top and not rows[k][column].is_zero():
+                factor = rows[k][column]
+                rows[k] = [a - factor * b for a, b in zip(rows[k], rows[top])]
+        pivots.append(column)
+    return rows[:len(pivots)], pivots
+
+
+def _exact_kernel(rows, n):
+    """A basis (exact vectors) of the directions every row annihilates."""
+    reduced, pivots = _echelon(rows, n)
+    one, zero = ExactCoefficient.rational(1), ExactCoefficient.zero()
+    basis = []
+    for free in (c for c in range(n) if c not in pivots):
+        vector = [zero] * n
+        vector[free] = one
+        for row, pivot in zip(reduced, pivots):
+            vector[pivot] = -row[free]
+        basis.append(vector)
+    return basis
+
+
+def degree_lowering_directions(polynomials, n=None):
+    """Directions v along which the derivatives of F lose the most degree, as the columns of an invertible matrix.
+
+    The derivative of f along v drops below degree d - 1 exactly when v annihilates f's top homogeneous
+    part, and further when it annihilates the next parts too. These directions belong to X, not to the
+    coordinates: a curve whose top part is a power of a linear form has them whatever linear change of
+    coordinates the user applied. Taking the Jacobian along them (J B instead of J; the minors of J B
+    span the same equations as those of J, B being invertible) keeps the low degrees that good
+    coordinates happen to give, and so keeps paths away from infinity: in general coordinates the minors
+    of a curve with a very singular point at infinity send most paths there, with winding numbers of 6 to
+    30 that double precision cannot resolve, and the affine singular points were lost (decision 0063).
+
+    Exact input only (the kernels are computed exactly, so a derivative's vanishing parts are exactly
+    zero and no threshold decides them). Directions are taken deepest first: those annihilating the most
+    parts of every equation, then, for each equation, those annihilating the most of its own parts, then
+    unit vectors to complete the basis.
+
+    Parameters
+    ----------
+    polynomials : sequence of Polynomial
+    n : int, optional
+        Directions in the first ``n`` variables (all by default).
+
+    Returns
+    -------
+    B : list of list of ExactCoefficient, or None
+        The directions (each a list of n coordinates); None when no direction lowers a degree or the
+        input is not exact (then the Jacobian itself is used).
+    levels : ndarray of int, shape (len(polynomials), n), or None
+        For each equation and direction, how many top parts the direction annihilates: the derivative
+        along it has degree at most d - 1 - level.
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> system = parse_system(["(x + 2*y)^3 - x"], ["x", "y"])     # top part a cube of x + 2y
+    >>> B, levels = degree_lowering_directions(system.polynomials)
+    >>> [complex(c).real for c in B[0]], levels[0].tolist()       # along (-2, 1): x + 2y is constant
+    ([-2.0, 1.0], [2, 0])
+    """
+    polynomials = [p for p in polynomials if not p.is_zero()]
+    if not polynomials or not all(p.is_exact for p in polynomials):
+        return None, None
+    n = polynomials[0].n_variables if n is None else int(n)
+    rows = [_derivative_rows(p, n, p.degree) for p in polynomials]
+    chosen = []
+
+    def add(vectors):
+        for vector in vectors:
+            if len(_echelon(chosen + [vector], n)[1]) > len(chosen):
+                chosen.append(vector)
+
+    everyone = range(len(polynomials))
+    for level in range(max(p.degree for p in polynomials), 0, -1):  # common to every equation, deepest first
+        add(_exact_kernel([r for k in everyone for m in rows[k][:level] for r in m], n))
+    for k, p in enumerate(polynomials):  # then each equation's own
+        for level in range(p.degree, 0, -1):
+            add(_exact_kernel([r for m in rows[k][:level] for r in m], n))
+    if not chosen:
+        return None, None
+    one, zero = ExactCoefficient.rational(1), ExactCoefficient.zero()
+    add([[one if i == j else zero for i in range(n)] for j in range(n)])
+    levels = np.zeros((len(polynomials), n), dtype=np.int64)
+    for k, matrices in enumerate(rows):
+        for column, vector in enumerate(chosen):
+            for matrix in matrices:  # the top parts, without a gap
+                if any(not sum((a * b for a, b in zip(row, vector)), zero).is_zero() for row in matrix):
+                    break
+                levels[k, column] += 1
+    return chosen, levels
+
+
+def directional_gradients(polynomials, directions):
+    """The derivatives of each (exact) polynomial along each direction, exactly, then as numeric polynomials.
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> system = parse_system(["(x + 2*y)^3 - x"], ["x", "y"])
+    >>> B, levels = degree_lowering_directions(system.polynomials)
+    >>> [g.degree for g in directional_gradients(system.polynomials, B)[0]]
+    [0, 2]
+    """
+    result = []
+    for p in polynomials:
+        partials = [p.derivative(j) for j in range(len(directions[0]))]
+        row = []
+        for vector in directions:
+            combined = Polynomial.zero(p.n_variables)
+            for partial, weight in zip(partials, vector):
+                if not weight.is_zero() and not partial.is_zero():
+                    combined = combined + partial * Polynomial.constant(weight, p.n_variables)
+            row.append(combined.numeric())
+        result.append(row)
+    return result
+
+
+def expanded_minors(polynomials, weights, limits=DEFAULT_LIMITS, normalize=False, gradients=None):
     """The minors det(A_k J B_k) written out as polynomials (exact weights keep exact input exact).
 
     Use it where exact equations are needed (exact certificates) or the expansion is small; numerical work
@@ -149,6 +305,9 @@ def expanded_minors(polynomials, weights, limits=DEFAULT_LIMITS, normalize=False
     limits : Limits
     normalize : bool, default False
         Divide each minor by its coefficient norm (numeric polynomials).
+    gradients : list of list of Polynomial, optional
+        The Jacobian's entries to use instead of the partial derivatives (m x n: derivatives along other
+        directions, :func:`directional_gradients`).
 
     Returns
     -------
@@ -164,7 +323,8 @@ def expanded_minors(polynomials, weights, limits=DEFAULT_LIMITS, normalize=False
     """
     polynomials = list(polynomials)
     n = weights.right.shape[1]  # J in the first n variables (all of them, or a family's x before its parameters)
-    gradients = [[p.derivative(j) for j in range(n)] for p in polynomials]
+    if gradients is None:
+        gradients = [[p.derivative(j) for j in range(n)] for p in polynomials]
     result = []
     for a, b in zip(weights.left, weights.right):
         if weights.complete:  # 0/1 selections: the minor itself, without combining

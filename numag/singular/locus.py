@@ -46,7 +46,8 @@ from ..system.display import counted, html_table, short_point
 from ..system.polynomial import Polynomial, PolynomialSystem, linear_space, require_numeric
 from ..numeric.cluster import cluster_labels, groups, normalize_projective
 from ..numeric.evaluate import BatchEvaluator, TermSizes
-from ..numeric.minors import MinorsSystem, expanded_minors, random_minor_weights
+from ..numeric.minors import (MinorsSystem, degree_lowering_directions, directional_gradients, expanded_minors,
+                              random_minor_weights)
 from ..numeric.refine import IsolationTest, project_to_variety
 from ..numeric.scaling import Scaling
 from ..numeric.seeds import resolved_seed
@@ -275,7 +276,11 @@ def minors_system(system, codimension, rng, max_exact, n_columns=None, evaluate_
         # a c x c determinant of polynomials multiplies c of them: written out it can have C(n + D, n) terms
         kind = CandidateSystem.MINORS if weights.complete else CandidateSystem.RANDOM_MINORS
         return MinorsSystem(system.variables, equations, weights, name=system.name), kind
-    minors = expanded_minors(equations, weights, normalize=True)
+    # The Jacobian along the directions where F's derivatives lose degree (the same minors' span, fewer
+    # paths to infinity: a linear change of coordinates must not cost the singular points; decision 0063).
+    directions, _ = degree_lowering_directions(system.polynomials, n)
+    gradients = None if directions is None else directional_gradients(system.polynomials, directions)
+    minors = expanded_minors(equations, weights, normalize=True, gradients=gradients)
     kind = CandidateSystem.MINORS if weights.complete else CandidateSystem.RANDOM_MINORS
     return PolynomialSystem(system.variables, equations + minors, name=system.name), kind
 

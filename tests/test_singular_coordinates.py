@@ -1,0 +1,96 @@
+"""The singular locus does not depend on the coordinates: known singular points after a rational affine change.
+
+In good coordinates a partial derivative of such a curve has a low degree (the top part of F is a power of a
+linear form, its derivative along the kernel vanishes); after a general linear change every partial has the
+full degree, the minors system sends most paths to the very singular point of the closure at infinity, and
+the affine singular points were lost there (decision 0063).
+"""
+
+import numpy as np
+import pytest
+import sympy
+
+from numag.numeric.minors import degree_lowering_directions, directional_gradients
+from numag.singular.locus import minors_system, singular_locus
+from numag.system.parse import parse_system
+
+X, Y, Z = sympy.symbols("x y z")
+
+
+def _changed(expressions, variables, matrix, offset):
+    """The expressions after x -> matrix x + offset (rational), as text for the project's parser."""
+    images = [sum(sympy.Rational(matrix[i][j]) * variables[j] for j in range(len(variables))) + sympy.Rational(offset[i])
+              for i in range(len(variables))]
+    moved = [sympy.expand(e.subs(dict(zip(variables, images)), simultaneous=True)) for e in expressions]
+    return moved, [str(e).replace("**", "^") for e in moved]
+
+
+def _singular_points(expressions, variables):
+    """Points of V(F) where the Jacobian's rank drops below the number of equations, by sympy."""
+    jacobian = sympy.Matrix(expressions).jacobian(variables)
+    size = len(expressions)
+    minors = [jacobian.extract(list(range(size)), list(columns)).det()
+              for columns in __import__("itertools").combinations(range(len(variables)), size)]
+    return [tuple(complex(s[v]) for v in variables) for s in sympy.solve(list(expressions) + minors, variables, dict=True)]
+
+
+# (y - x^2)^2 - x^5: an A4 point at the origin (a cusp whose branch is tangent to order 4), and the top part -x^5
+# a fifth power; source of the type: Arnold, Gusein-Zade, Varchenko, Singularities of Differentiable Maps I, 1985
+# (A_k normal forms); the point itself is checked with sympy below.
+A4 = (Y - X**2)**2 - X**5
+CHANGE = [["1/2", "1"], ["-1", "1/3"]]
+OFFSET = ["2/3", "-1"]
+
+
+@pytest.mark.parametrize("seed", [1, 2, 3])
+def test_a_cusp_after_a_rational_linear_change_is_found(seed):
+    moved, text = _changed([A4], [X, Y], CHANGE, OFFSET)
+    expected = _singular_points(moved, [X, Y])  # sympy: the image of the origin, and nothing else
+    assert len(expected) == 1
+    locus = singular_locus(parse_system(text, ["x", "y"]), seed=seed)
+    affine = [c for c in locus.components if not c.at_infinity]
+    assert len(affine) == 1 and affine[0].dimension == 0
+    assert np.linalg.norm(affine[0].points[0] - np.array(expected[0])) <= 1e-6 * (1 + np.linalg.norm(expected[0]))
+    assert not locus.discarded.get("not_settled_on_X"), locus.discarded
+
+
+@pytest.mark.parametrize("seed", [1, 2, 3])
+def test_a_nodal_space_curve_after_a_rational_linear_change_keeps_both_nodes(seed):
+    # y^2 = x^2 (x + 1) (x - 2)^2, z = x y + 1: nodes at (0, 0, 1) and (2, 0, 1) (common practice, no source;
+    # checked with sympy below). One equation does not depend on a direction: the minors factor there.
+    curve = [Y**2 - X**2 * (X + 1) * (X - 2)**2, Z - X * Y - 1]
+    moved, text = _changed(curve, [X, Y, Z], [["1", "1/2", "0"], ["0", "1", "-2"], ["1", "0", "1/3"]], ["1", "0", "-1"])
+    expected = _singular_points(moved, [X, Y, Z])
+    assert len(expected) == 2
+    locus = singular_locus(parse_system(text, ["x", "y", "z"]), seed=seed)
+    found = [c.points[0] for c in locus.components if not c.at_infinity and c.dimension == 0]
+    assert len(found) == 2
+    for point in expected:
+        assert min(np.linalg.norm(f - np.array(point)) for f in found) <= 1e-6 * (1 + np.linalg.norm(point))
+
+
+def test_the_minors_of_a_changed_curve_have_the_degrees_of_good_coordinates():
+    # F, then its derivatives along the chosen directions: degrees 5, 2 and 4 as for the curve before the
+    # change (d/dy (y - x^2)^2 = 2 (y - x^2)), not 5, 4, 4 (common practice, no source)
+    _, text = _changed([A4], [X, Y], CHANGE, OFFSET)
+    augmented, _ = minors_system(parse_system(text, ["x", "y"]), 1, np.random.default_rng(0), 10)
+    assert sorted(p.degree for p in augmented.polynomials) == [2, 4, 5]
+
+
+def test_the_degree_lowering_directions_follow_the_coordinates():
+    # the degrees of the derivatives along the chosen directions are the same before and after the change
+    # (common practice, no source: a directional derivative of F(A x) along v is that of F along A v)
+    before = parse_system([str(sympy.expand(A4)).replace("**", "^")], ["x", "y"])
+    _, text = _changed([A4], [X, Y], CHANGE, OFFSET)
+    after = parse_system(text, ["x", "y"])
+    degrees = []
+    for system in (before, after):
+        directions, levels = degree_lowering_directions(system.polynomials)
+        gradients = directional_gradients(system.polynomials, directions)
+        degrees.append(sorted(g.degree for g in gradients[0]))
+    assert degrees[0] == degrees[1] == [2, 4]  # d/dy F = 2 (y - x^2); d/dx F has degree 4
+
+
+def test_no_direction_is_chosen_when_no_degree_drops():
+    system = parse_system(["x^2 + y^2 - 1"], ["x", "y"])  # the top part x^2 + y^2 is annihilated by no direction
+    assert degree_lowering_directions(system.polynomials) == (None, None)
