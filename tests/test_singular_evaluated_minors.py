@@ -7,7 +7,7 @@ The expansion limit is forced to 0 so that small problems, whose answers are kno
 import numpy as np
 import pytest
 
-from numag.numeric.minors import CombinedRows, MinorsSystem
+from numag.numeric.minors import CombinedRows, MinorsSystem, degree_lowering_directions
 from numag.singular import locus
 from numag.singular.locus import minors_system, singular_locus
 from numag.system.parse import parse_system
@@ -23,7 +23,10 @@ def evaluate_all(monkeypatch):
 def test_large_minors_become_a_minors_system_with_the_same_draws(evaluate_all):
     # The random weights are drawn before the choice, so both forms have the same minors (common practice,
     # no source: the same generator stream gives the same combinations).
-    system = parse_system(["x^2 - y^2*z", "w - x - 2*y + z"], ["x", "y", "z", "w"])
+    # top forms with no direction along which every derivative loses degree: the expanded minors are then
+    # those of J itself (decision 0063 takes them along such directions where there are some)
+    system = parse_system(["x^3 + y^3 + z^3 + w^3 - x*y", "x^2 + y^2 + z^2 + w^2 - 1"], ["x", "y", "z", "w"])
+    assert degree_lowering_directions(system.polynomials, 4)[0] is None
     evaluated, kind = minors_system(system, 2, np.random.default_rng(5), 0, evaluate_large=True)
     expanded, same_kind = minors_system(system, 2, np.random.default_rng(5), 0)
     assert isinstance(evaluated, MinorsSystem) and not isinstance(expanded, MinorsSystem)
