@@ -55,6 +55,7 @@ from ..numeric.evaluate import BatchEvaluator
 from ..numeric.refine import project_to_variety
 from ..numeric.scaling import Scaling
 from ..numeric.seeds import random_state
+from ..tracking.service import add_path_counts
 from ..tracking.solve import solve_system
 from ..tracking.tracker import FAILURE_LABELS
 from ..witness.cascade import combine_equations, linear_form, track_moves
@@ -239,14 +240,6 @@ class Discriminant:
                    [PlaneRegion.from_dict(r) for r in data.get("plane_regions", [])])
 
 
-def _add_counts(total, counts):
-    for key, value in counts.items():
-        if isinstance(value, dict):
-            _add_counts(total, value)
-        elif isinstance(value, (int, np.integer)):
-            total[key] = total.get(key, 0) + int(value)
-
-
 def discriminant(family, options=None, seed=None, progress=None, *, _balanced=False):
     """The discriminant of a family: components with dimension, degree, samples; regions with real counts.
 
@@ -390,7 +383,7 @@ def _curve_and_cells_on_lines(family, codimension, options, rng, paths, notes, p
     if progress is not None:
         progress(f"the discriminant on {trace_lines + len(verticals)} lines across the plane")
     found = discriminant_on_lines(family, codimension, (low, high), verticals, trace_lines, rng)
-    _add_counts(paths, found.paths)
+    add_path_counts(paths, found.paths)
     notes += found.notes
     notes.append("The discriminant was met on lines of the parameter plane (the members are not finite sets of "
                  "points): parts of it over multiple solutions of the line system (where a parameter enters only "
@@ -456,13 +449,13 @@ def _images(incidence, n, m, kind, options, rng, paths, notes, offset=0):
         # square (one parameter, a hypersurface member): total degree and the isolation test suffice, and
         # they do not depend on the regeneration's choices of which paths go to infinity
         solved = solve_system(incidence, seed=int(rng.integers(2 ** 63)))
-        _add_counts(paths, solved.path_counts())
+        add_path_counts(paths, solved.path_counts())
         if not solved.not_isolated:
             images = [DiscriminantComponent(0, 1, s.point[None, total - m:], _real_rows(s.point[None, total - m:]),
                                             np.zeros((0, m + 1)), kind) for s in solved.solutions]
             return _merged(images)
     decomposition = decompose(incidence, options.decompose, seed=int(rng.integers(2 ** 32)))
-    _add_counts(paths, decomposition.paths)
+    add_path_counts(paths, decomposition.paths)
     if decomposition.unconfirmed:
         unconfirmed = len(decomposition.unconfirmed)
         verb, images = (("was", "its image may be a union") if unconfirmed == 1
