@@ -31,17 +31,18 @@ Examples
 """
 
 from dataclasses import dataclass, field
+import math
 
 import numpy as np
 
-from ..errors import InputError, is_integer, is_number, require_option
+from ..errors import InputError, LimitError, is_integer, is_number, require_option
 from ..system.polynomial import Polynomial, PolynomialSystem
 from ..run.executor import ambient_executor, charge_paths
 from ..numeric.cluster import cluster_labels, groups
 from ..numeric.evaluate import BatchEvaluator, TermSizes
 from ..numeric.linalg import scaled_singular_values
 from ..numeric.minors import (AugmentedEvaluator, CombinedRows, LinearFormProduct, MinorsSystem, equation_evaluator,
-                              split_equations)
+                              expanded_minors, random_minor_weights, split_equations)
 from ..numeric.refine import IsolationTest, largest_scaled_residual, project_to_variety
 from ..numeric.seeds import random_state
 from ..tracking.homotopy import ParameterHomotopy, random_unit_complex
@@ -547,7 +548,7 @@ def _refine_on(system, used, slice_rows, points):
     return result.points, result.converged & near
 
 
-def _regenerate(slicing, before, index, codim, points, options):
+def _regenerate(slicing, before, index, codim, points, options, deflate=True):
     """Endpoints on V(held, f) of the codimension-(codim + 1) slice, from codim-c points not on V(f).
 
     ``before`` are the equations so far (numbers), ``index`` the number of f (a polynomial, or an evaluated
@@ -559,6 +560,15 @@ def _regenerate(slicing, before, index, codim, points, options):
     n = slicing.n
     evaluated = slicing.evaluated(index)
     degree = slicing.system.degrees[index]
+    deficient = np.zeros(len(points), dtype=bool)
+    if deflate and before and not evaluated and not any(slicing.evaluated(k) for k in before):
+        deflated, deficient = _deflated_rows(slicing, before, codim, points, options.rank_threshold)
+        if deflated is not None:  # points on a component along which the held rows lose rank (decision 0066)
+            ends, lost, paths = _regenerate_on(slicing, deflated, index, codim, points[deficient], options)
+            if np.all(deficient):
+                return ends, lost, paths
+            regular = _regenerate(slicing, before, index, codim, points[~deficient], options, deflate=False)
+            return np.vstack([regular[0], ends]), regular[1] + lost, regular[2] + paths
     held, with_f = slicing.held_rows(before, codim, moving=index if evaluated else None) if before or evaluated \
         else ([], None)
     held, block = held_parts(held)
@@ -585,6 +595,92 @@ def _regenerate(slicing, before, index, codim, points, options):
         f = slicing.homogeneous[index]
         run = track_moves(held + [product] + rest, held + [f] + rest, starts, slicing.rng, options.tracker,
                           options.batch_size, whole_cycles=True, held=block)
+    return run.affine_endpoints(), lost, paths + run.counts
+
+
+#: Deflation minors of the regeneration are written out only while they can have at most this many monomials
+#: (C(n + 1 + D, n + 1) for degree D in the homogeneous unknowns); beyond, the paths are tracked as before.
+_DEFLATION_MONOMIALS = 5000
+#: Scaled singular values above this count for the rank of deflated equations (see :func:`_deflated_rows`).
+_DEFLATED_RANK_THRESHOLD = 1e-10
+
+
+def _deflated_rows(slicing, before, codim, points, threshold, max_rounds=3):
+    """Held rows that keep full rank on a component of V(f_before) along which its Jacobian loses rank.
+
+    A point to regenerate can lie on a component Z of V(f_before) of codimension ``codim`` along which
+    rank J_before < codim (Z counted more than once, or an embedded structure): moved on the held
+    combinations, its path is singular all the way and stops at the minimum step (the swallowtail's
+    partials hold the line a = b = 0 that way). Random size-(r + 1) minors of J_before (r its rank on Z)
+    are added, round by round as in deflation (Leykin, Verschelde and Zhao 2006), until the rank is
+    ``codim`` at every such point; Z is a component of the deflated equations, where it is reduced.
+
+    Returns
+    -------
+    rows : list of Polynomial or None
+        ``codim`` random combinations of the deflated homogeneous equations; None when no point needs them
+        or deflation did not reach the rank within the rounds and the expansion bound.
+    deficient : ndarray of bool
+        The points that need them.
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> double_line = parse_system(["y^2", "z"], ["x", "y", "z"])   # the x-axis, counted twice
+    >>> slicing = Slicing(double_line, np.random.default_rng(0))
+    >>> rows, deficient = _deflated_rows(slicing, [0, 1], 2, np.array([[0.5, 0, 0], [0.1, 0.2, 0.3]]), 1e-8)
+    >>> len(rows), deficient.tolist()
+    (2, [True, False])
+    """
+    equations = [slicing.homogeneous[k] for k in before]
+    homogeneous = np.hstack([np.ones((len(points), 1), dtype=complex), np.asarray(points, dtype=complex)])
+    ranks = jacobian_rank(BatchEvaluator(equations), TermSizes(equations), homogeneous, threshold)
+    deficient = ranks < codim
+    if not np.any(deficient):
+        return None, deficient
+    at = homogeneous[deficient]
+    size = slicing.n + 1
+    for _ in range(max_rounds):
+        # The gradients a deflation minor adds are first order in the point's error on a multiple component (known
+        # to about the cube root of the precision on a triple line): the swallowtail's second round gave 2e-7 of the
+        # terms' size beside 6e-15 for the zero ones; a line between the two (decision 0066)
+        low = int(jacobian_rank(BatchEvaluator(equations), TermSizes(equations), at, _DEFLATED_RANK_THRESHOLD).min())
+        if low >= codim:
+            return combine_equations(equations, codim, slicing.rng), deficient
+        top = max(p.degree - 1 for p in equations)
+        if math.comb(size + (low + 1) * top, size) > _DEFLATION_MONOMIALS:
+            break
+        # J in all n + 1 homogeneous columns: on V(f) Euler's relation makes the X_0 column a combination of the
+        # others, so the rank is the affine one, and the minors are homogeneous
+        weights = random_minor_weights(len(equations), size, low + 1, 0, slicing.rng, count=codim - low)
+        try:
+            minors = expanded_minors(equations, weights, normalize=True)
+        except LimitError:
+            break
+        if not minors:
+            break
+        equations = equations + minors
+    return None, deficient
+
+
+def _regenerate_on(slicing, held, index, codim, points, options):
+    """:func:`_regenerate` of polynomial f on given (deflated) held rows; the points are a subset of the moving ones."""
+    degree = slicing.system.degrees[index]
+    rest = [linear_form(r) for r in slicing.rows[codim + 1:]]
+    base = held + [linear_form(slicing.rows[codim])] + rest
+    starts, paths = [], PathCounts()
+    for row in slicing.factor_rows(codim, degree):
+        run = track_moves(base, held + [linear_form(row)] + rest, points, slicing.rng, options.tracker,
+                          options.batch_size)
+        paths += run.counts
+        ends = run.affine_endpoints()
+        starts.append(ends[np.all(np.isfinite(ends), axis=1)])
+    starts = np.vstack(starts) if starts else np.zeros((0, slicing.n), complex)
+    lost = len(points) * degree - len(starts)
+    product = LinearFormProduct(slicing.factor_rows(codim, degree))
+    # a subset of the start solutions (those on the deflated component): its cycles at infinity may be partial
+    run = track_moves(held + [product] + rest, held + [slicing.homogeneous[index]] + rest, starts, slicing.rng,
+                      options.tracker, options.batch_size)
     return run.affine_endpoints(), lost, paths + run.counts
 
 
