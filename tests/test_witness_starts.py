@@ -73,8 +73,10 @@ def test_eigenvalues_by_the_grouped_regeneration_equal_numpys(seed):
     assert choice.counts == {"total-degree": 2 ** n, "multihomogeneous": n}
     grouped = witness_supersets(system, WitnessOptions(start="auto", groups=(tuple(names), ("l",))), seed=seed)
     by_degree = witness_supersets(system, WitnessOptions(), seed=seed)
-    found = np.sort_complex(grouped.of_dimension(0).points[:, -1])
-    assert np.abs(found - np.sort_complex(np.linalg.eigvals(matrix))).max() < 1e-8
+    found = grouped.of_dimension(0).points[:, -1]
+    expected = np.linalg.eigvals(matrix)
+    # matched by distance (sorting would order the two members of a conjugate pair by rounding)
+    assert len(found) == n and _same_points(found[:, None], expected[:, None])
     assert grouped.paths["tracked"] < by_degree.paths["tracked"]
 
 
