@@ -529,6 +529,7 @@ def _witness_supersets(system, options, seed, progress):
             if codim >= deepest or len(regenerate) == 0:
                 continue
             candidates, lost, moved = _regenerate(slicing, before, index, codim, regenerate, options)
+            counts["product_paths"] = counts.get("product_paths", 0) + len(candidates)  # what a start's groups save
             counts["at_infinity_or_failed"] += lost
             track_counts += moved
             if len(candidates) == 0:
