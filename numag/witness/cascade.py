@@ -605,12 +605,13 @@ def _regenerate(slicing, before, index, codim, points, options):
     """
     n = slicing.n
     evaluated = slicing.evaluated(index)
-    moved_rows = slicing.moved_rows(codim, index)  # one factor per degree (per group's degree with groups)
-    degree = len(moved_rows)
     held, with_f = slicing.held_rows(before, codim, moving=index if evaluated else None) if before or evaluated \
         else ([], None)
     held, block = held_parts(held)
     rest = [linear_form(r) for r in slicing.rows[codim + 1:]]
+    # drawn after the combinations, as before groups existed: the same seed gives the total-degree run it gave
+    moved_rows = slicing.moved_rows(codim, index)  # one factor per degree (per group's degree with groups)
+    degree = len(moved_rows)
     starts, paths = [], PathCounts()
     base = held + [linear_form(slicing.rows[codim])] + rest
     for row in moved_rows:  # move l_{c+1} to each factor hyperplane: d linear moves
