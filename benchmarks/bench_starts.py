@@ -3,6 +3,7 @@
 Run:  python benchmarks/bench_starts.py [--quick] [--seed 1] [--singular-only]
       python benchmarks/bench_starts.py --polyhedral-setup 5 6 7 8   (mixed cells against tracking, cyclic n)
       python benchmarks/bench_starts.py --mixed-cells 5 6 7 8 [--reference]   (the cells alone, per solver)
+      python benchmarks/bench_starts.py --witness [--quick]   (the regeneration's start: witness sets)
 
 Families: cyclic n-roots (70, 156, 924 and 1152 isolated roots for n = 5..8; Bjorck and Froberg
 1991, from memory; cyclic 8 also has a one-dimensional set), katsura n (2^n roots, the Bezout number;
@@ -14,6 +15,10 @@ and their linear programs) and the whole solve. A last table runs the whole sing
 shared problems with the total-degree start (witness sets) and the multihomogeneous one (the square
 null-vector system, proven finite by slices): all paths, those after X's decomposition, the points.
 Results go to benchmarks/results/bench_starts.md (bench_starts_singular.md with --singular-only).
+``--witness``: the regeneration (witness sets of every dimension) of the null-vector systems of the
+shared problems (x and lambda grouped) and of multi-graded systems, with total-degree factors and
+with factors in the groups; the witness sets found must agree (dimension and size), the paths and
+seconds are compared (bench_starts_witness.md).
 """
 
 import argparse
@@ -25,7 +30,9 @@ import time
 import numpy as np
 
 import checkout  # noqa: F401  (this checkout's numag, not an installed one)
-from numag.singular.isolated import isolated_singular_points
+from numag.singular.isolated import isolated_singular_points, null_vector_groups, null_vector_system
+from numag.tracking.multihomogeneous import GroupSource
+from numag.witness.cascade import WitnessOptions, witness_supersets
 from numag.tracking.polyhedral import LinearProgramSolver, mixed_cells, supports_of
 from numag.singular.locus import SingularOptions, singular_locus
 from numag.tracking.tracker import FAILURE_LABELS
@@ -103,6 +110,72 @@ def singular_row(name, problem, start, seed):
             "counts": [s["start"]["paths"] for s in searches]}
 
 
+def witness_rows(name, system, groups, seed, source=GroupSource.FILE):
+    """Witness supersets of ``system`` by total-degree factors and by factors in ``groups`` (and ``auto``)."""
+    rows, sets = [], {}
+    for start in ("total-degree", "multihomogeneous", "auto"):
+        started = time.perf_counter()
+        supersets = witness_supersets(system, WitnessOptions(start=start, groups=groups, group_source=source),
+                                      seed=seed)
+        seconds = time.perf_counter() - started
+        sets[start] = [(w.dimension, len(w.points)) for w in supersets.sets if len(w.points)]
+        rows.append({"family": name, "start": start, "chosen": supersets.start["chosen"],
+                     "paths": supersets.paths["tracked"], "product_paths": supersets.paths.get("product_paths", 0),
+                     "failed": sum(supersets.paths.get(label, 0) for label in FAILURE_LABELS),
+                     "witness_sets": sets[start], "same_as_total_degree": sets[start] == sets["total-degree"],
+                     "seconds": round(seconds, 2), "bounds": supersets.start["paths"]})
+        print(json.dumps(rows[-1]), flush=True)
+    return rows
+
+
+def witness_main(args, problems):
+    """The ``--witness`` tables: regenerations by start, and the singular locus through the null-vector form."""
+    rng = np.random.default_rng(args.seed)
+    shared = ("node", "cusp", "four_generic_lines", "trifolium_triple_point", "cone_over_smooth_plane_cubic")
+    if not args.quick:
+        shared += ("tacnode", "affine_cone_over_twisted_cubic", "cayley_cubic")  # Chebyshev: 240 s a run
+    cases = []
+    for name in shared:
+        problem = problems[name]
+        system = parse_system(problem["equations"], problem["variables"])
+        n = system.n_variables
+        codimension = min(system.n_equations, n - 1) if name != "affine_cone_over_twisted_cubic" else 2
+        null = null_vector_system(system, codimension, rng)
+        cases.append((f"null vector of {name}", null, null_vector_groups(null, n), GroupSource.NULL_VECTOR))
+    for n in ((3, 4) if args.quick else (3, 4, 5)):
+        system = eigenproblem(n, args.seed + n)
+        cases.append((system.name, system, [[f"v{k}" for k in range(n)], ["l"]], GroupSource.FILE))
+    rows = []
+    for name, system, groups, source in cases:
+        rows += witness_rows(name, system, groups, args.seed, source)
+    lines = ["| system | start asked | chosen | paths | of them product homotopy | failed | witness sets (dimension, "
+             "points) | same as total degree | seconds | bounds by start |", "|---|---|---|---|---|---|---|---|---|---|"]
+    lines += [f"| {r['family']} | {r['start']} | {r['chosen']} | {r['paths']} | {r['product_paths']} | {r['failed']} | "
+              f"{r['witness_sets']} | "
+              f"{'yes' if r['same_as_total_degree'] else 'NO'} | {r['seconds']} | {r['bounds']} |" for r in rows]
+    locus_rows = []
+    for name in ("affine_cone_over_twisted_cubic",) + (() if args.quick else ("whitney_umbrella",)):
+        problem = problems[name]
+        system = parse_system(problem["equations"], problem["variables"])
+        for start in ("total-degree", "multihomogeneous"):
+            started = time.perf_counter()
+            locus = singular_locus(system, SingularOptions(formulation="null vector", start=start), seed=args.seed)
+            locus_rows.append({"problem": name, "start": start, "paths": locus.paths.get("tracked", 0),
+                               "pieces": sorted((c.dimension, c.degree) for c in locus.components if not c.at_infinity),
+                               "seconds": round(time.perf_counter() - started, 2)})
+            print(json.dumps(locus_rows[-1]), flush=True)
+    lines += ["", "| singular locus (null-vector form) of | start | paths | pieces (dimension, degree) | seconds |",
+              "|---|---|---|---|---|"]
+    lines += [f"| {r['problem']} | {r['start']} | {r['paths']} | {r['pieces']} | {r['seconds']} |" for r in locus_rows]
+    table = "\n".join(lines)
+    print(table)
+    out = pathlib.Path(__file__).resolve().parent / "results"
+    os.makedirs(out, exist_ok=True)
+    (out / ("bench_starts_witness" + ("_quick.md" if args.quick else ".md"))).write_text(
+        f"python benchmarks/bench_starts.py --witness{' --quick' if args.quick else ''} --seed {args.seed}\n\n"
+        f"{table}\n")
+
+
 def polyhedral_setup_rows(sizes, seed):
     """Cyclic n by the polyhedral start: the mixed cells (set-up) against the two tracking stages."""
     rows = []
@@ -158,7 +231,13 @@ def main():
                         help="only the mixed cells of cyclic N, timed with numag's simplex")
     parser.add_argument("--reference", action="store_true",
                         help="with --mixed-cells: also with scipy's linprog (cyclic 8: about 5 minutes)")
+    parser.add_argument("--witness", action="store_true",
+                        help="only the regeneration's start: witness sets by total-degree and grouped factors")
     args = parser.parse_args()
+    if args.witness:
+        witness_main(args, {p["name"]: p for p in json.loads(
+            (pathlib.Path(__file__).resolve().parent.parent / "tests" / "data" / "problems.json").read_text())})
+        return
     if args.mixed_cells:
         solvers = [LinearProgramSolver.SIMPLEX] + ([LinearProgramSolver.HIGHS] if args.reference else [])
         rows = mixed_cell_rows(args.mixed_cells, args.seed, solvers)

@@ -513,7 +513,8 @@ def decomposition_to_dict(result, options):
         "system": system_to_dict(result.system),
         "scaling": _scaling_to_dict(result.scaling, result.system),
         "options": {"lowest_dimension": options.witness.lowest_dimension, "max_loops": options.max_loops,
-                    "trace_tolerance": options.trace_tolerance},
+                    "trace_tolerance": options.trace_tolerance, "start": options.witness.start.value},
+        "start": result.extra.get("start"),
         "dimensions_searched": list(result.dimensions_searched),
         "paths": decomposition_path_counts(result.paths),
         "monodromy_loops": {str(k): int(v) for k, v in result.loops.items()},
@@ -548,13 +549,16 @@ def decomposition_from_dict(data):
     from ..witness.decompose import DecomposeOptions, Decomposition
     system = _report_system(data, "decompose")
     o = data["options"]
-    options = DecomposeOptions(witness=WitnessOptions(lowest_dimension=o["lowest_dimension"]),
+    options = DecomposeOptions(witness=WitnessOptions(lowest_dimension=o["lowest_dimension"],
+                                                      start=o.get("start", WitnessOptions.start.value)),
                                max_loops=int(o["max_loops"]), trace_tolerance=float(o["trace_tolerance"]))
     components = [_component_from_dict(d, system.n_variables) for d in data["components"]]
     counts = _counts_from_paths(data["paths"])
     result = Decomposition(system, components, list(data["dimensions_searched"]), counts,
                            {int(k): int(v) for k, v in data["monodromy_loops"].items()}, data["seed"],
                            float(data["seconds"]), scaling=_scaling_from_dict(data, system))
+    if data.get("start"):
+        result.extra["start"] = data["start"]
     return result, options
 
 

@@ -15,7 +15,7 @@ they are (Bertini: for a generic hyperplane H, Sing(X cut by H) = Sing(X) cut by
 of a reduced complete intersection of dimension d is finite exactly when the curve X cut by d - 1
 random hyperplanes has no singular point, and a reduced curve's singular set is finite); it is the
 route :func:`~numag.singular.locus.singular_locus` takes with a start other than total degree, and
-it falls back to witness sets (total degree) when the proof fails.
+it falls back to witness sets when the proof fails.
 
 Examples
 --------
@@ -40,7 +40,7 @@ from ..system.polynomial import Polynomial, PolynomialSystem
 from ..tracking.solve import SolveOptions, solve_system
 from ..tracking.starts import StartKind
 
-__all__ = ["IsolatedSingularPoints", "null_vector_system", "square_null_vector_system", "isolated_singular_points",
+__all__ = ["IsolatedSingularPoints", "null_vector_system", "null_vector_groups", "square_null_vector_system", "isolated_singular_points",
            "FiniteSingularSearch", "finite_singular_points"]
 
 
@@ -162,7 +162,20 @@ def square_null_vector_system(system, rng):
         combined.append(total * (1.0 / total.coefficient_norm()))
     square = PolynomialSystem(full.variables, list(full.polynomials[:c]) + combined + [full.polynomials[-1]],
                               name=system.name)
-    return square, full, [list(full.variables[:n]), list(full.variables[n:])]
+    return square, full, null_vector_groups(full, n)
+
+
+def null_vector_groups(null_system, n):
+    """The variable groups of a null-vector system in n unknowns x: [x names, lambda names].
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> node = parse_system(["y^2 - x^2*(x + 1)"], ["x", "y"])
+    >>> null_vector_groups(null_vector_system(node, 1, np.random.default_rng(1)), 2)
+    [['x', 'y'], ['lambda1']]
+    """
+    return [list(null_system.variables[:n]), list(null_system.variables[n:])]
 
 
 def isolated_singular_points(system, start="multihomogeneous", seed=None, options=None, tolerance=1e-8):

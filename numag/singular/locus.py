@@ -52,6 +52,7 @@ from ..numeric.refine import IsolationTest, project_to_variety
 from ..numeric.scaling import Scaling
 from ..numeric.seeds import resolved_seed
 from ..tracking.solve import SolveOptions, solve_system
+from ..tracking.multihomogeneous import GroupSource
 from ..tracking.starts import StartKind
 from ..tracking.service import add_path_counts
 from ..tracking.tracker import FAILURE_LABELS
@@ -59,7 +60,7 @@ from ..witness.cascade import held_parts, linear_form, random_rows, track_moves
 from ..witness.fibres import finite_block
 from ..witness.decompose import (EXPANSION_MONOMIALS, DecomposeOptions, Decomposition, components_through, decompose,
                                  expansion_bound, holding_rows)
-from .isolated import finite_singular_points, null_vector_system
+from .isolated import finite_singular_points, null_vector_groups, null_vector_system
 from .kinds import CandidateSystem, Formulation, PieceKind, Verdict
 from .nearness import NearSingularPoint, input_tolerance, nearest_backward_error
 from .smoothness import CheckOptions, check_points
@@ -96,7 +97,9 @@ class SingularOptions:
         component of dimension n - c, generically reduced), the singular points come from the square
         null-vector system with that start (x and lambda grouped), proven to be all of Sing(X) by
         slices (:func:`~numag.singular.isolated.finite_singular_points`); elsewhere, and when Sing(X)
-        turns out positive-dimensional, the witness sets (total degree) are used, with a note.
+        turns out positive-dimensional, the witness sets are used, with a note. The start also chooses
+        the factors of the regenerations (X's, and the null-vector system's with x and lambda grouped;
+        :func:`~numag.tracking.starts.choose_witness_start`); their blocks are in the report's ``start``.
     """
 
     formulation: Formulation = Formulation.AUTO
@@ -470,6 +473,8 @@ def _singular_locus(system, options, seed, progress):
                                                     dropped)
     else:
         components, variety = _affine(system, options, rng, paths, discarded, progress, notes, routes, dropped)
+        if options.start is not StartKind.TOTAL_DEGREE and variety is not None and variety.extra.get("start"):
+            start["regeneration_of_X"] = variety.extra["start"]
         if system.n_equations == 1:
             listed = _at_infinity(system, rng, paths, progress, any(c.dimension > 0 for c in components))
             if isinstance(listed, str):  # why its points at infinity are not listed (true for its case)
@@ -506,7 +511,7 @@ def _structured_start(system, variety, codimension, options, rng, paths, progres
     the report (``codimension``, ``route``, ``why``, and ``searches`` when any square system was solved).
     """
     n = system.n_variables
-    route = {"codimension": codimension, "route": "witness sets (total degree)"}
+    route = {"codimension": codimension, "route": "witness sets"}
     lowest = options.decompose.witness.lowest_dimension
     if system.n_equations != codimension:
         route["why"] = (f"{system.n_equations} equations for codimension {codimension}: X is no complete "
@@ -544,7 +549,9 @@ def _affine(system, options, rng, paths, discarded, progress, notes_out=None, ro
         progress("decomposing X")
     notes_out = [] if notes_out is None else notes_out
     routes = [] if routes is None else routes
-    variety = decompose(system, options.decompose, seed=int(rng.integers(2**32)), progress=progress)
+    # the start asked for serves X's regeneration too (the file's groups, or the best found)
+    variety = decompose(system, options.decompose.with_start(options.start), seed=int(rng.integers(2**32)),
+                        progress=progress)
     add_path_counts(paths, variety.paths)
     n = system.n_variables
     found, oracles = [], []  # the pieces kept, and for each positive-dimensional one its membership test
@@ -559,7 +566,7 @@ def _affine(system, options, rng, paths, discarded, progress, notes_out=None, ro
             routes.append(route)
             if search is None:
                 notes_out.append(f"codimension {codimension}: the {options.start.value} start was not used "
-                                 f"({route['why']}); witness sets from the total-degree start instead.")
+                                 f"({route['why']}); witness sets instead.")
         if search is not None:  # Sing(X) proven finite: its points, with the paths ending there
             kind = CandidateSystem.NULL_VECTOR
             projected = [(0, point[None, :], int(multiplicity), None)
@@ -585,7 +592,13 @@ def _affine(system, options, rng, paths, discarded, progress, notes_out=None, ro
             if progress is not None:
                 progress(f"codimension {codimension}: decomposing the {kind} system ({augmented.n_equations} equations "
                          f"in {augmented.n_variables} unknowns)")
-            candidates = decompose(augmented, options.decompose, seed=int(rng.integers(2**32)), progress=progress)
+            # the null-vector system's regeneration groups x and lambda (bilinear equations: decision 0070)
+            decompose_options = options.decompose.with_start(
+                options.start, null_vector_groups(augmented, n), GroupSource.NULL_VECTOR) \
+                if kind is CandidateSystem.NULL_VECTOR else options.decompose
+            candidates = decompose(augmented, decompose_options, seed=int(rng.integers(2**32)), progress=progress)
+            if routes and routes[-1]["codimension"] == codimension:
+                routes[-1]["regeneration"] = candidates.extra.get("start")
             add_path_counts(paths, candidates.paths)
             failed = sum(candidates.paths.get(label, 0) for label in FAILURE_LABELS)
             if failed:

@@ -583,6 +583,7 @@ class PolyhedralHomotopy(_PatchedHomotopy):
         self.equation_of_term = np.concatenate([np.full(len(s), i) for i, s in enumerate(start.supports)])
         self._sum = np.zeros((len(self.equation_of_term), n), dtype=float)  # terms -> equations
         self._sum[np.arange(len(self.equation_of_term)), self.equation_of_term] = 1.0
+        self._build_entries()
         self.evaluations = 0
         self.value_evaluations = 0
 
@@ -590,6 +591,42 @@ class PolyhedralHomotopy(_PatchedHomotopy):
     def n_paths(self):
         """The mixed volume."""
         return int(self.ends[-1]) if len(self.ends) else 0
+
+    def _build_entries(self):
+        """Tables that give H and dH/dX from the terms' monomial values and each row's weights t^e.
+
+        Every term T_a = c_a X^a (homogenised) reads its value from one monomial; each of its partial
+        derivatives c_a a_j X^(a - e_j) is one entry: a monomial, the term whose weight it takes, and
+        its place in the Jacobian. Summing the weighted entries by one product with a (entries x n (n + 1))
+        matrix replaces a Jacobian per term (T x (n + 1) per point) and its contraction with the weights,
+        which made the first stage slower per path than the second (decision 0070).
+        """
+        n = self.n
+        position = {tuple(m): k for k, m in enumerate(self.terms.monomials.tolist())}
+        value_monomial, value_coefficient = [], []
+        entry_term, entry_monomial, entry_slot, entry_coefficient = [], [], [], []
+        for term, (polynomial, equation) in enumerate(zip(self._shared.term_polynomials,
+                                                           self.equation_of_term.tolist())):
+            exponent, coefficient = polynomial.exponents[0], complex(polynomial.numeric_coefficients()[0])
+            value_monomial.append(position[tuple(exponent.tolist())])
+            value_coefficient.append(coefficient)
+            for j in np.nonzero(exponent)[0].tolist():
+                lowered = exponent.copy()
+                lowered[j] -= 1
+                entry_term.append(term)
+                entry_monomial.append(position[tuple(lowered.tolist())])
+                entry_slot.append(equation * (n + 1) + j)
+                entry_coefficient.append(coefficient * exponent[j])
+        self._value_monomial = np.array(value_monomial, dtype=np.int64)
+        self._value_coefficient = np.array(value_coefficient, dtype=complex)
+        self._entry_term = np.array(entry_term, dtype=np.int64)
+        self._entry_monomial = np.array(entry_monomial, dtype=np.int64)
+        self._entry_matrix = np.zeros((len(entry_term), n * (n + 1)), dtype=complex)
+        self._entry_matrix[np.arange(len(entry_term)), entry_slot] = entry_coefficient
+
+    def _term_values(self, monomials):
+        """T_a = c_a X^a per row and term, from the monomial values (P, K)."""
+        return monomials[:, self._value_monomial] * self._value_coefficient
 
     def cell_of(self, points):
         """The cell number of each point (from its label coordinate)."""
@@ -630,7 +667,7 @@ class PolyhedralHomotopy(_PatchedHomotopy):
             t = (1 - s.astype(complex))[:, None]
         with np.errstate(divide="ignore", invalid="ignore"):
             weight = t ** powers
-            slope = powers * t ** (powers - 1)
+            slope = powers * weight / t  # e t^(e - 1) without a second power (t = 0 is set below)
         # t = 0 (the start): t^0 = 1, and the slope of t^e is 1 for e = 1 (the smallest positive
         # power), 0 for e > 1 and for the pair's e = 0
         zero = t[:, 0] == 0
@@ -644,13 +681,15 @@ class PolyhedralHomotopy(_PatchedHomotopy):
         """H, dH/dX (label and patch rows included) and dH/ds at points (P, n + 2) and parameters s (P,)."""
         self.evaluations += 1
         count, size, n = len(points), self.size, self.n
-        term_values, term_jacobian = self.terms.evaluate(points[:, :-1])
+        monomials = self.terms.monomial_values(points[:, :-1])
+        term_values = self._term_values(monomials)
         weight, slope = self._weights(points, s)
         values = np.zeros((count, size), dtype=complex)
         values[:, :n] = (weight * term_values) @ self._sum
         values[:, -1] = points @ self.patch - 1
         jacobian = np.zeros((count, size, size), dtype=complex)
-        jacobian[:, :n, :n + 1] = np.einsum("pt,ti,ptc->pic", weight, self._sum, term_jacobian, optimize=True)
+        entries = weight[:, self._entry_term] * monomials[:, self._entry_monomial]
+        jacobian[:, :n, :n + 1] = (entries @ self._entry_matrix).reshape(count, n, n + 1)
         jacobian[:, n, n + 1] = 1.0
         jacobian[:, -1, :] = self.patch
         derivative = np.zeros((count, size), dtype=complex)
@@ -662,7 +701,7 @@ class PolyhedralHomotopy(_PatchedHomotopy):
         self.value_evaluations += 1
         weight, _ = self._weights(points, s)
         values = np.zeros((len(points), self.size), dtype=complex)
-        values[:, :self.n] = (weight * self.terms.evaluate(points[:, :-1], jacobian=False)) @ self._sum
+        values[:, :self.n] = (weight * self._term_values(self.terms.monomial_values(points[:, :-1]))) @ self._sum
         values[:, -1] = points @ self.patch - 1
         return values
 

@@ -30,10 +30,12 @@ import time
 import numpy as np
 
 from ..errors import InputError
+from ..system.polynomial import Polynomial, PolynomialSystem
 from .multihomogeneous import GroupSource, VariableGroups, best_groups, multihomogeneous_bezout
 from .polyhedral import MAX_LINEAR_PROGRAMS, PolyhedralStart
 
-__all__ = ["StartKind", "StartChoice", "choose_start", "SECONDS_PER_LINEAR_PROGRAM", "SECONDS_PER_PATH"]
+__all__ = ["StartKind", "StartChoice", "choose_start", "choose_witness_start", "SECONDS_PER_LINEAR_PROGRAM",
+           "SECONDS_PER_PATH"]
 
 #: Estimates for ``auto`` (benchmarks/bench_starts.py --quick on the shared 2-core machine, decisions 0047
 #: and 0055): one linear program of the cell search (50-70 microseconds in the batched simplex of
@@ -190,3 +192,92 @@ def choose_start(system, kind, groups=None, rng=None):
                            polyhedral, seconds)
     return StartChoice(StartKind.TOTAL_DEGREE, counts, "no other start has fewer paths" + note, chosen_groups,
                        polyhedral, seconds)
+
+
+
+def _square_stand_in(system):
+    """The first n equations by degree, or all m < n of them and n - m hyperplanes (a square system).
+
+    The hyperplanes (the sum of the unknowns plus one) have degree 1 in every group, like the random
+    slices that cut out the deepest witness set: the Bezout numbers of this square system bound the
+    paths of the regeneration's last product homotopy.
+    """
+    n = system.n_variables
+    order = sorted(range(len(system.polynomials)), key=lambda k: system.polynomials[k].degree)
+    chosen = [system.polynomials[k] for k in order[:n]]
+    plane = Polynomial.linear(np.ones(n), 1.0)
+    return PolynomialSystem(system.variables, chosen + [plane] * (n - len(chosen)), name=system.name)
+
+
+def choose_witness_start(system, kind, groups=None, group_source=None):
+    """The start of a regeneration (witness sets): total degree, or products of linear forms in variable groups.
+
+    The regeneration (:mod:`numag.witness.cascade`) brings in one equation f at a time: from each witness
+    point not on f, the slice through it is moved to the factors of a product of linear forms, which is
+    then deformed into f. With variable groups, each factor involves X_0 and one group only, d_j factors
+    for f's degree d_j in group j. Where the d_j add up to f's degree (multilinear structure: the
+    null-vector equations have degree (d - 1, 1) in (x, lambda)), the moves are as many as with the
+    total-degree factors, and each reaches only the points of the current witness curve C where a factor
+    of one group vanishes, at most deg C and fewer where C is not general in that group, so the product
+    homotopy starts from at most as many points, and fewer. ``auto`` takes the grouping then; where
+    the d_j add up to more, the moves alone are more, and it keeps total degree.
+
+    The counts reported are the Bezout numbers of a square stand-in (the first n equations by degree,
+    and hyperplanes for the slices when there are fewer), a bound on the paths of the last product
+    homotopy; the paths a regeneration tracks depend on the witness sets met on the way. The polyhedral
+    start has no product form: asked for, the regeneration proceeds as with ``auto``.
+
+    Parameters
+    ----------
+    system : PolynomialSystem
+        Affine, any number of equations (a :class:`~numag.numeric.minors.MinorsSystem`'s evaluated
+        minors have no exponents: they keep total-degree factors whatever the start).
+    kind : StartKind
+    groups : sequence of sequence of str, optional
+        Variable names per group; names that are not the system's variables are left out (a fibre of a
+        decomposition has fewer unknowns). Default: the best grouping of the stand-in.
+    group_source : GroupSource, optional
+        Where given groups come from (default: the file).
+
+    Returns
+    -------
+    StartChoice
+        Total degree or multihomogeneous (then with ``groups``).
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> pencil = parse_system(["x*l - y - 1", "y*l - 2*x"], ["x", "y", "l"])
+    >>> choice = choose_witness_start(pencil, StartKind.AUTO, groups=[["x", "y"], ["l"]])
+    >>> choice.kind.value, choice.groups.names
+    ('multihomogeneous', (('x', 'y'), ('l',)))
+    """
+    if system.projective:
+        raise InputError("witness sets are computed for affine systems")
+    stand_in = _square_stand_in(system)
+    counts = {StartKind.TOTAL_DEGREE.value: int(np.prod(stand_in.degrees))}
+    if kind == StartKind.TOTAL_DEGREE:
+        return StartChoice(kind, counts, "asked for")
+    started = time.perf_counter()
+    if groups is not None:
+        present = set(system.variables)
+        kept = [[name for name in group if name in present] for group in groups]
+        chosen = VariableGroups.of(stand_in, [g for g in kept if g], group_source or GroupSource.FILE)
+        count = multihomogeneous_bezout(chosen.degree_matrix(stand_in.polynomials), chosen.sizes)
+    else:
+        chosen, count = best_groups(stand_in)
+    counts[StartKind.MULTIHOMOGENEOUS.value] = count
+    seconds = {StartKind.MULTIHOMOGENEOUS.value: time.perf_counter() - started}
+    asked = " (the polyhedral start has no product form for a regeneration)" if kind == StartKind.POLYHEDRAL else ""
+    if len(chosen.groups) == 1:
+        return StartChoice(StartKind.TOTAL_DEGREE, counts, "one group: the same factors as the total-degree start"
+                           + asked, chosen, setup_seconds=seconds)
+    if kind == StartKind.MULTIHOMOGENEOUS:
+        return StartChoice(kind, counts, "asked for", chosen, setup_seconds=seconds)
+    matrix = chosen.degree_matrix(system.polynomials)
+    surplus = [k for k, p in enumerate(system.polynomials) if int(matrix[k].sum()) > p.degree]
+    if surplus:
+        return StartChoice(StartKind.TOTAL_DEGREE, counts, f"equation {surplus[0] + 1} has more factors in the "
+                           "groups than its degree" + asked, chosen, setup_seconds=seconds)
+    return StartChoice(StartKind.MULTIHOMOGENEOUS, counts, "every equation has as many factors in the groups as "
+                       "its degree, and fewer points to start from" + asked, chosen, setup_seconds=seconds)

@@ -46,7 +46,9 @@ from ..numeric.minors import (AugmentedEvaluator, CombinedRows, LinearFormProduc
 from ..numeric.refine import IsolationTest, largest_scaled_residual, project_to_variety
 from ..numeric.seeds import random_state
 from ..tracking.homotopy import ParameterHomotopy, random_unit_complex
+from ..tracking.multihomogeneous import GroupSource
 from ..tracking.service import PathCounts, TrackRun, track
+from ..tracking.starts import StartKind, choose_witness_start
 from ..tracking.tracker import TrackerOptions, rescue_budget
 
 __all__ = ["WitnessOptions", "WitnessSet", "WitnessSupersets", "witness_supersets", "Slicing", "track_moves",
@@ -69,6 +71,14 @@ class WitnessOptions:
     rank_threshold : float
         Scaled singular values above this count towards the rank of J.
     batch_size : int
+    start : StartKind or str
+        The regeneration's factors: total degree, or products of linear forms in variable groups
+        ("multihomogeneous"; "auto" and "polyhedral" choose, see
+        :func:`~numag.tracking.starts.choose_witness_start`).
+    groups : tuple of tuple of str, optional
+        Variable names per group for a start other than total degree (default: the best grouping found).
+    group_source : GroupSource
+        Where ``groups`` come from (reported).
     """
 
     lowest_dimension: int | None = None
@@ -77,9 +87,16 @@ class WitnessOptions:
     cluster_tolerance: float = 1e-6
     rank_threshold: float = 1e-6
     batch_size: int = 4096
+    start: StartKind = StartKind.TOTAL_DEGREE
+    groups: tuple | None = None
+    group_source: GroupSource = GroupSource.FILE
 
     def __post_init__(self):
         """Refuse a bad value on construction, naming the option (the system's bounds: :meth:`validated`)."""
+        object.__setattr__(self, "start", self.start if isinstance(self.start, StartKind)
+                           else StartKind.parse(self.start))
+        if self.groups is not None:
+            object.__setattr__(self, "groups", tuple(tuple(str(name) for name in g) for g in self.groups))
         require_option(self.lowest_dimension is None or is_integer(self.lowest_dimension),
                        "the lowest dimension to search", "an integer", self.lowest_dimension)
         require_option(is_number(self.cluster_tolerance) and 0 < self.cluster_tolerance < 1, "cluster_tolerance",
@@ -132,12 +149,15 @@ class WitnessSupersets:
         The random data (hyperplanes, combinations) used, for later homotopies.
     paths : dict
         Tracked paths by status label, plus what happened to their endpoints.
+    start : dict
+        The regeneration's start block (:meth:`~numag.tracking.starts.StartChoice.report`).
     """
 
     sets: list
     dimensions_searched: list
     slicing: "Slicing"
     paths: dict = field(default_factory=dict)
+    start: dict = field(default_factory=dict)
 
     def of_dimension(self, dimension):
         """The witness set of that dimension (None when it was not searched)."""
@@ -155,10 +175,13 @@ class Slicing:
     system : PolynomialSystem
         Affine system.
     rng : numpy.random.Generator
+    groups : VariableGroups, optional
+        Variable groups of the regeneration's factors (None: total-degree factors).
     """
 
-    def __init__(self, system, rng):
+    def __init__(self, system, rng, groups=None):
         self.system = system
+        self.groups = groups
         self.n = system.n_variables
         self.rng = rng
         # unit-norm complex rows; hyperplane j is rows[j] . (1, x) = 0. Complex, also for real
@@ -196,6 +219,28 @@ class Slicing:
             have = np.vstack([have, random_rows(self.rng, degree - len(have), self.n + 1)])
             self._factors[position] = have
         return have[:degree]
+
+    def moved_rows(self, position, index):
+        """The factors (rows over (X_0, x)) that replace l_position when equation ``index`` is regenerated.
+
+        Total-degree factors (:meth:`factor_rows`) without groups and for evaluated minors; with groups,
+        d_j random rows with zeros outside X_0 and group j for the equation's degree d_j in group j
+        (fixed per position and group, like :meth:`factor_rows`).
+        """
+        if self.groups is None or self.evaluated(index):
+            return self.factor_rows(position, self.system.degrees[index])
+        degrees = self.groups.degree_matrix([self.system.polynomials[index]])[0]
+        rows = []
+        for group, degree in zip(self.groups.groups, degrees):
+            key = (position, group)
+            have = self._factors.get(key, np.zeros((0, self.n + 1), dtype=complex))
+            if len(have) < degree:
+                drawn = np.zeros((degree - len(have), self.n + 1), dtype=complex)
+                drawn[:, [0] + [j + 1 for j in group]] = random_rows(self.rng, degree - len(have), len(group) + 1)
+                have = np.vstack([have, drawn])
+                self._factors[key] = have
+            rows.append(have[:degree])
+        return np.vstack(rows)
 
     def combinations(self, equations, count):
         """``count`` random combinations of homogeneous equations (see :func:`combine_equations`)."""
@@ -435,7 +480,8 @@ def _witness_supersets(system, options, seed, progress):
     n = system.n_variables
     options = (options or WitnessOptions()).validated(n)
     _, rng = random_state(seed)
-    slicing = Slicing(system, rng)
+    choice = choose_witness_start(system, options.start, options.groups, options.group_source)
+    slicing = Slicing(system, rng, choice.groups if choice.kind is StartKind.MULTIHOMOGENEOUS else None)
     lowest = 0 if options.lowest_dimension is None else options.lowest_dimension
     deepest = n - lowest  # largest codimension searched
     counts = {"tracked": 0, "not_on_X": 0, "at_infinity_or_failed": 0, "on_larger_component": 0,
@@ -484,6 +530,7 @@ def _witness_supersets(system, options, seed, progress):
             if codim >= deepest or len(regenerate) == 0:
                 continue
             candidates, lost, moved = _regenerate(slicing, before, index, codim, regenerate, options)
+            counts["product_paths"] = counts.get("product_paths", 0) + len(candidates)  # what a start's groups save
             counts["at_infinity_or_failed"] += lost
             track_counts += moved
             if len(candidates) == 0:
@@ -530,7 +577,7 @@ def _witness_supersets(system, options, seed, progress):
     for codim in range(0, deepest + 1):
         points, multiplicity = current.get(codim, (np.zeros((0, n), complex), np.zeros(0, np.int64)))
         sets.append(WitnessSet(n - codim, points, multiplicity, slicing.slice_rows(codim).copy()))
-    return WitnessSupersets(sets, list(range(n, lowest - 1, -1)), slicing, counts)
+    return WitnessSupersets(sets, list(range(n, lowest - 1, -1)), slicing, counts, choice.report())
 
 
 def _refine_on(system, used, slice_rows, points):
@@ -559,7 +606,6 @@ def _regenerate(slicing, before, index, codim, points, options, deflate=True):
     """
     n = slicing.n
     evaluated = slicing.evaluated(index)
-    degree = slicing.system.degrees[index]
     deficient = np.zeros(len(points), dtype=bool)
     if deflate and before and not evaluated and not any(slicing.evaluated(k) for k in before):
         deflated, deficient = _deflated_rows(slicing, before, codim, points, options.rank_threshold)
@@ -573,7 +619,9 @@ def _regenerate(slicing, before, index, codim, points, options, deflate=True):
         else ([], None)
     held, block = held_parts(held)
     rest = [linear_form(r) for r in slicing.rows[codim + 1:]]
-    moved_rows = slicing.factor_rows(codim, degree)
+    # drawn after the combinations, as before groups existed: the same seed gives the total-degree run it gave
+    moved_rows = slicing.moved_rows(codim, index)  # one factor per degree (per group's degree with groups)
+    degree = len(moved_rows)
     starts, paths = [], PathCounts()
     base = held + [linear_form(slicing.rows[codim])] + rest
     for row in moved_rows:  # move l_{c+1} to each factor hyperplane: d linear moves
@@ -593,6 +641,8 @@ def _regenerate(slicing, before, index, codim, points, options, deflate=True):
                           whole_cycles=True, held=with_f, held_start=[None] * (with_f.count - 1) + [product])
     else:
         f = slicing.homogeneous[index]
+        if degree > f.degree:  # group degrees adding up to more than f's: raised to the product's degree
+            f = f * Polynomial.variable(0, n + 1).numeric().power(degree - f.degree)
         run = track_moves(held + [product] + rest, held + [f] + rest, starts, slicing.rng, options.tracker,
                           options.batch_size, whole_cycles=True, held=block)
     return run.affine_endpoints(), lost, paths + run.counts

@@ -88,6 +88,20 @@ class DecomposeOptions:
         require_option(is_number(self.trace_tolerance) and 0 < self.trace_tolerance < 1, "trace_tolerance",
                        "in (0, 1)", self.trace_tolerance)
 
+    def with_start(self, start, groups=None, source=None):
+        """These options with the regeneration's start (and groups, kept when None) replaced.
+
+        Examples
+        --------
+        >>> DecomposeOptions().with_start("auto", [["x"], ["l"]]).witness.groups
+        (('x',), ('l',))
+        """
+        witness = self.witness
+        changes = {"start": start}
+        if groups is not None:
+            changes.update(groups=groups, group_source=source or witness.group_source)
+        return replace(self, witness=replace(witness, **changes))
+
 
 @dataclass(kw_only=True)
 class Component:
@@ -644,7 +658,7 @@ def _decompose(system, options, seed, progress):
     counts.update(_degree_checks(system, components))
     sum((mover.paths for mover in movers_made), PathCounts()).add_to(counts)
     return Decomposition(system, components, supersets.dimensions_searched, counts, loops, seed,
-                         time.perf_counter() - started)
+                         time.perf_counter() - started, extra={"start": supersets.start})
 
 
 def _fibred_decomposition(system, options, rng, seed, started, progress):
@@ -676,7 +690,7 @@ def _fibred_decomposition(system, options, rng, seed, started, progress):
     counts = {"tracked": 0, "not_on_X": 0, "at_infinity_or_failed": 0, "on_larger_component": 0,
               "membership_paths": 0}
     add_path_counts(counts, split.paths)
-    components, loops = [], {}
+    components, loops, start = [], {}, None
     real_coefficients = system.has_real_coefficients
     m = n - len(columns)
     for root, root_real, fibre in zip(split.roots, split.real, fibres):
@@ -696,6 +710,7 @@ def _fibred_decomposition(system, options, rng, seed, started, progress):
                      f"{', '.join(system.variables[j] for j in columns)}")
         part = decompose(fibre, options, seed=int(rng.integers(2**32)), progress=progress)
         add_path_counts(counts, part.paths)
+        start = start or part.extra.get("start")  # the same options for every fibre: the first fibre's block
         for dimension, run in part.loops.items():
             loops[dimension] = loops.get(dimension, 0) + run
         for c in part.components:
@@ -714,6 +729,8 @@ def _fibred_decomposition(system, options, rng, seed, started, progress):
     extra = {"fibres": {"unknowns": [system.variables[j] for j in columns], "equations": list(block.equations),
                         "roots": len(split.roots), "empty": sum(f is EMPTY_FIBRE for f in fibres),
                         "whole": sum(f is WHOLE_FIBRE for f in fibres)}}
+    if start:
+        extra["start"] = start
     return Decomposition(system, components, searched, counts, loops, seed, time.perf_counter() - started,
                          extra=extra, fibred_over=block)
 

@@ -3,6 +3,8 @@
 import numpy as np
 
 from ...run.executor import using
+from ...system.files import load_groups
+from ...tracking.starts import StartKind
 from ...tracking.tracker import FAILURE_LABELS
 from ...witness.cascade import WitnessOptions
 from ...witness.decompose import DecomposeOptions, decompose
@@ -25,6 +27,11 @@ def add_parser(commands):
                        help="do not search components of dimension below K (default: down to points)")
     parts.add_argument("--max-loops", type=int, default=DecomposeOptions.max_loops, metavar="N",
                        help="monodromy loops per dimension before giving up confirming (default %(default)s)")
+    parts.add_argument("--start", choices=[k.value for k in StartKind], default=WitnessOptions.start.value,
+                       help="factors of the regeneration: total-degree, multihomogeneous (in the file's 'groups' or "
+                            "the best grouping found), or auto (the groups where every equation has as many "
+                            "factors in them as its degree; polyhedral has no product form and acts as auto; "
+                            "default %(default)s)")
     parts.add_argument("--seed", type=_seed, help="seed of the random choices (recorded in the report)")
     parts.add_argument("--json", action="store_true", help="print the report as JSON (no progress lines)")
     _add_executor_options(parts)
@@ -44,6 +51,11 @@ def _print_decompose(result, out, data=None):
               f"{counts.get('not_on_X', 0)}, at infinity or lost {counts.get('at_infinity_or_failed', 0)}, "
               f"on a larger component (removed) {counts.get('on_larger_component', 0)}; "
               f"{result.seconds:.2f} s\n")
+    start = result.extra.get("start")
+    if start and start["chosen"] != StartKind.TOTAL_DEGREE.value or start and len(start["paths"]) > 1:
+        out.write(f"start: {start['chosen']} ({start['reason']}; bounds by start "
+                  + ", ".join(f"{k} {v}" for k, v in start["paths"].items())
+                  + (f"; groups {start['groups']['groups']}" if "groups" in start else "") + ")\n")
     lowest = (data or {}).get("options", {}).get("lowest_dimension")
     out.write(f"\n{_counted(len(result.components), 'irreducible component')}{_unsearched(lowest)}\n")
     text = _PointFormat()
@@ -66,8 +78,9 @@ def run(args, out):
     system = _load(args)
     _guard_paths(args, system, "decompose")
     check_plot_request(args, system)
-    options = DecomposeOptions(witness=WitnessOptions(lowest_dimension=args.lowest_dimension),
-                               max_loops=args.max_loops)
+    groups = load_groups(args.system_file, system.variables) if args.start != StartKind.TOTAL_DEGREE.value else None
+    options = DecomposeOptions(witness=WitnessOptions(lowest_dimension=args.lowest_dimension, start=args.start,
+                                                      groups=groups), max_loops=args.max_loops)
     with _stage_executor(args) as executor, using(executor):
         result = decompose(system, options, seed=args.seed, progress=_progress(args))
         execution = executor.describe()

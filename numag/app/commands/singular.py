@@ -2,7 +2,7 @@
 
 import numpy as np
 
-from ...system.files import load_angles
+from ...system.files import load_angles, load_groups
 from ...run.executor import using
 from ...tracking.tracker import FAILURE_LABELS
 from ...witness.cascade import WitnessOptions
@@ -84,8 +84,11 @@ def _print_singular(result, out, angles, data=None, anatomy=None):
                              + (f"; cut by {_counted(s['hyperplanes'], 'hyperplane')}" if s["hyperplanes"] else "")
                              + ")"
                              for s in route.get("searches", []))
+        regeneration = route.get("regeneration")
         out.write(f"start for codimension {route['codimension']}: {route['route']} ({route['why']})"
-                  + (f": {searches}" if searches else "") + "\n")
+                  + (f": {searches}" if searches else "")
+                  + (f"; regeneration {regeneration['chosen']} ({regeneration['reason']})" if regeneration else "")
+                  + "\n")
     affine = [c for c in result.components if not c.at_infinity]
     points = [c for c in affine if c.dimension == 0 and c.kind is PieceKind.SINGULAR]
     real = sum(1 for c in points if c.real[0])
@@ -137,7 +140,10 @@ def run(args, out):
     angles = load_angles(args.system_file, system.variables)
     options = SingularOptions(formulation=args.formulation, digits=args.digits, infinity_for_systems=args.at_infinity,
                               start=args.start,
-                              decompose=DecomposeOptions(witness=WitnessOptions(lowest_dimension=args.lowest_dimension)))
+                              decompose=DecomposeOptions(witness=WitnessOptions(
+                                  lowest_dimension=args.lowest_dimension,
+                                  groups=None if args.start == StartKind.TOTAL_DEGREE.value
+                                  else load_groups(args.system_file, system.variables))))
     if args.lowest_dimension is not None:
         options.decompose.witness.validated(system.n_variables)
     with _stage_executor(args) as executor, using(executor):
