@@ -13,7 +13,7 @@ import pytest
 from numag.app.cli import main
 from numag.families.branches import CountKind
 from numag.families.discriminant import Discriminant, DiscriminantOptions, discriminant
-from numag.families.plane import CurvePointKind, _nodes, _refined_node, strip_blocked
+from numag.families.plane import CurvePointKind, SingularIncidence, _nodes, strip_blocked
 from numag.system.files import family_from_mapping
 
 CUBIC = {"variables": ["x"], "parameters": ["p", "q"], "equations": ["x^3 + p*x + q"],
@@ -104,7 +104,7 @@ def test_node_of_the_quartic_refined_and_checked_with_sympy():
         # starts near the two lifts (x, a, b) = (+-1, -2, 0), as a crossing of two traced arcs gives them
         first = np.array([1.0, -2.0, 0.0]) + 1e-3 * rng.standard_normal(3)
         second = np.array([-1.0, -2.0, 0.0]) + 1e-3 * rng.standard_normal(3)
-        node = _refined_node(family, first, second, 1)
+        node = SingularIncidence.of(family, 1, 24).refined_node(first, second)
         assert node.refined and node.kind == CurvePointKind.NODE
         at = {a: node.point[0], b: node.point[1]}
         assert abs(float(delta.subs(at))) <= 1e-9
@@ -123,7 +123,7 @@ def test_crossing_pieces_of_the_quartic_give_its_node():
     pieces = []
     for t in (np.linspace(0.7, 1.35, 41), np.linspace(-1.3, -0.75, 37)):
         pieces.append(np.column_stack([t, (1 - 3 * t ** 4) / t ** 2, 2 * t ** 3 - 2 / t]))
-    nodes = _nodes(family_from_mapping(QUARTIC), pieces, 1, 2.0)
+    nodes = _nodes(SingularIncidence.of(family_from_mapping(QUARTIC), 1, 24), pieces, 1, 2.0)
     assert len(nodes) == 1 and nodes[0].refined
     x, a, b = sympy.symbols("x a b")
     delta = sympy.discriminant(x ** 4 + a * x ** 2 + b * x + 1, x)  # the reference

@@ -63,7 +63,8 @@ from ..witness.decompose import DecomposeOptions, decompose, holding_equations
 from ..singular.locus import minors_system
 from .branches import RealCount, real_counts
 from .lines import discriminant_on_lines
-from .plane import CurvePoint, CurvePointKind, DiscriminantCurve, PlaneRegion, _box as plane_box, _nodes, merge_cells, trace_discriminant_curve
+from .plane import (CurvePointKind, DiscriminantCurve, PlaneRegion, SingularIncidence, _box as plane_box, _cusp_point,
+                    _nodes, merge_cells, trace_discriminant_curve)
 from .records import REAL_TOLERANCE, ComponentKind, decode_complex, decode_float, encode_complex, encode_float
 
 __all__ = ["DiscriminantOptions", "DiscriminantComponent", "Region", "Discriminant", "discriminant"]
@@ -391,8 +392,15 @@ def _curve_and_cells_on_lines(family, codimension, options, rng, paths, notes, p
                  "list them when computed)"
                  + ("; cusps and crossings are given at the traced accuracy (a cusp within about a line "
                     "spacing)." if options.curve else "."))
-    special = _nodes(family, found.lifts, family.n_variables, float(np.linalg.norm(high - low))) \
-        + [CurvePoint(CurvePointKind.CUSP, point, False) for point in found.cusps] if options.curve else []
+    special = []
+    if options.curve:
+        # refined like the traced curve's (one place: plane.SingularIncidence); the traced positions are within
+        # about a line spacing, so Newton may move them that far
+        refining = SingularIncidence.of(family, codimension, options.max_exact_minors)
+        reach = 2.0 * found.spacing
+        n = family.n_variables
+        special = _nodes(refining, found.lifts, n, float(np.linalg.norm(high - low)), reach) \
+            + [_cusp_point(refining, lift, n, reach) for lift in found.cusp_lifts]
     # failed paths of the sweep and arc ends that could be neither continued nor joined: where the picture may
     # miss a piece (counted like the stalled arc ends of the other tracer)
     curve = DiscriminantCurve(found.arcs, (low, high), special, found.failed + found.lost_links) \

@@ -81,6 +81,11 @@ class LineDiscriminant:
     cusps : list of ndarray, shape (2,)
         Joins of two arc ends that arrive side by side in one direction (a cusp, not a fold), at the traced
         accuracy: within about a line spacing.
+    cusp_lifts : list of ndarray, shape (n + 2,)
+        The same joins with the mean of the real parts of the two ends' singular points x in front (where the
+        refinement starts).
+    spacing : float
+        Distance between neighbouring trace lines.
     """
 
     arcs: list
@@ -91,6 +96,8 @@ class LineDiscriminant:
     notes: list = field(default_factory=list)
     paths: dict = field(default_factory=dict)
     cusps: list = field(default_factory=list)
+    cusp_lifts: list = field(default_factory=list)
+    spacing: float = 0.0
 
 
 def _free_name(base, taken):
@@ -248,14 +255,15 @@ def discriminant_on_lines(family, codimension, box, verticals, trace_lines, rng)
     lost = sum(bool(np.all((traced[k].plane([c])[0] >= low) & (traced[k].plane([c])[0] <= high)))
                for k, c in unjoined)
     arcs, lifts = _polylines(traced, edges, family.n_variables)
-    cusps = _cusps_at_joins(traced, edges)
+    cusp_lifts = _cusps_at_joins(traced, edges, family.n_variables)
+    cusps = [lift[family.n_variables:].copy() for lift in cusp_lifts]
     notes = []
     if failed:
         notes.append(f"{failed} paths of the sweep across the lines failed: a piece of the curve may be missing.")
     if lost:
         notes.append(f"{lost} arc {'end' if lost == 1 else 'ends'} of the traced curve could not be continued to the "
                      "next line and joined to no neighbour: the picture may have a gap there.")
-    return LineDiscriminant(arcs, lifts, cuts, failed, lost, notes, dict(swept.paths), cusps)
+    return LineDiscriminant(arcs, lifts, cuts, failed, lost, notes, dict(swept.paths), cusps, cusp_lifts, spacing)
 
 
 def _moves(lines_family, traced, moves, rng):
@@ -357,8 +365,9 @@ def _links(lines_family, traced, spacing, rng):
 _CUSP_COSINE = 0.5
 
 
-def _cusps_at_joins(traced, edges):
-    """The joins of two arc ends on one line that are cusps: both arcs arrive pointing the same way."""
+def _cusps_at_joins(traced, edges, n):
+    """The joins of two arc ends on one line that are cusps (both arcs arrive pointing the same way), as lifts
+    (mean real x of the two ends, middle of the join in the plane)."""
     neighbours = {}
     for a, b in edges:
         neighbours.setdefault(a, []).append(b)
@@ -377,7 +386,10 @@ def _cusps_at_joins(traced, edges):
         if len(steps) == 2:
             first, second = (step / max(np.linalg.norm(step), 1e-300) for step in steps)
             if first @ second > _CUSP_COSINE:
-                cusps.append(0.5 * (traced[a[0]].plane([a[1]])[0] + traced[b[0]].plane([b[1]])[0]))
+                line = traced[a[0]]
+                x = [line.points[np.nonzero(line.cluster == end)[0][0], :n].real for end in (a[1], b[1])]
+                cusps.append(np.concatenate([0.5 * (x[0] + x[1]),
+                                             0.5 * (line.plane([a[1]])[0] + line.plane([b[1]])[0])]))
     return cusps
 
 
