@@ -104,7 +104,22 @@ def test_each_grashof_line_across_the_box_is_traced_through(four_bar, eliminant_
                 covered |= np.linalg.norm(start + t[:, None] * step - inside, axis=1) <= 1e-6
         assert covered.all()
     assert crossing == 5  # b + c = 2, b + c = 6, b - c = 2, c - b = 2 and b - c = 6 cross the box [0.5, 8] x [1, 5]
-    assert any("length 0" in note for note in four_bar.notes)
+
+
+def test_the_double_lines_of_zero_length_are_found_flagged_and_cut_the_cells(four_bar, eliminant_lines):
+    # b = 0 and c = 0 are the factors of power 2 of sympy's eliminant (above): there the member splits (a circle of
+    # radius 0 is a pair of complex lines) and the line system has double solutions on every line
+    double = [line for line in eliminant_lines if line[1] == 2]
+    assert any("multiple point" in note and "length 0" in note for note in four_bar.notes)
+    curve = four_bar.curve
+    assert len(curve.multiple) == len(curve.arcs) and any(curve.multiple)
+    for arc, flagged in zip(curve.arcs, curve.multiple):
+        on_double = max(min(_distance_to(p, line) for line in double) for p in arc) <= 1e-8
+        assert flagged == on_double
+    # c = 0 crosses every vertical line b = v of the cells: each has a cut there
+    for value, cuts in {c.line: None for c in four_bar.regions}.items():
+        lows = [c.low for c in four_bar.regions if c.line == value]
+        assert min(abs(low) for low in lows) <= 1e-8
 
 
 def test_crossings_of_the_grashof_lines_are_the_nodes(four_bar, eliminant_lines):
@@ -112,9 +127,8 @@ def test_crossings_of_the_grashof_lines_are_the_nodes(four_bar, eliminant_lines)
     # source: b + c = 6 meets b - c = 2 and c - b = 2).
     nodes = [s.point for s in four_bar.curve.special if s.kind == CurvePointKind.NODE]
     assert not any(s.kind == CurvePointKind.CUSP for s in four_bar.curve.special)
-    simple = [line for line in eliminant_lines if line[1] == 1]
-    crossings = []
-    for (first, _), (second, _) in itertools.combinations(simple, 2):
+    crossings = []  # of all lines of the eliminant: b = 0 and c = 0 are traced too
+    for (first, _), (second, _) in itertools.combinations(eliminant_lines, 2):
         matrix = np.array([first[:2], second[:2]])
         if abs(np.linalg.det(matrix)) > 1e-9:
             crossings.append(np.linalg.solve(matrix, -np.array([first[2], second[2]])))

@@ -387,11 +387,8 @@ def _curve_and_cells_on_lines(family, codimension, options, rng, paths, notes, p
     add_path_counts(paths, found.paths)
     notes += found.notes
     notes.append("The discriminant was met on lines of the parameter plane (the members are not finite sets of "
-                 "points): parts of it over multiple solutions of the line system (where a parameter enters only "
-                 "squared, such as a length 0 of a linkage) are neither traced nor cut the cells (the components "
-                 "list them when computed)"
-                 + ("; cusps and crossings are given at the traced accuracy (a cusp within about a line "
-                    "spacing)." if options.curve else "."))
+                 "points)" + ("; cusps and crossings that Newton could not refine (e.g. on a multiple component) are "
+                              "given at the traced accuracy (within about a line spacing)." if options.curve else "."))
     special = []
     if options.curve:
         # refined like the traced curve's (one place: plane.SingularIncidence); the traced positions are within
@@ -403,8 +400,8 @@ def _curve_and_cells_on_lines(family, codimension, options, rng, paths, notes, p
             + [_cusp_point(refining, lift, n, reach) for lift in found.cusp_lifts]
     # failed paths of the sweep and arc ends that could be neither continued nor joined: where the picture may
     # miss a piece (counted like the stalled arc ends of the other tracer)
-    curve = DiscriminantCurve(found.arcs, (low, high), special, found.failed + found.lost_links) \
-        if options.curve else None
+    curve = DiscriminantCurve(found.arcs, (low, high), special, found.failed + found.lost_links,
+                              multiple=list(found.multiple_arcs)) if options.curve else None
     cells = []
     if options.regions:
         if progress is not None:
@@ -680,8 +677,8 @@ def _cells(family, cuts, rng):
     """Cells of vertical lines p_1 = v cut at real discriminant values of p_2; all samples counted together."""
     cells, samples = [], []
     for value, points in cuts:
-        # off the middle: where a parameter enters only squared, the discriminant line p_2 = 0 (a length 0), which
-        # the line system does not see (decision 0060), lies exactly in the middle of the cell around it
+        # off the middle: where a parameter enters only squared, the discriminant line p_2 = 0 (a length 0) lies
+        # exactly in the middle of the cell around it if its deflated moves failed (decision 0060; 0069)
         intervals, along = _intervals(points, _CELL_FRACTION)
         cells += [(value, low, high) for low, high in intervals]
         samples += [[value, sample] for sample in along]

@@ -107,6 +107,9 @@ class DiscriminantCurve:
     failed_arcs : int
         Arc ends of the trace that stalled or were misjoined (the picture may miss a piece).
     notes : list of str
+    multiple : list of bool
+        Per arc: on a multiple component of the discriminant (the member's singular points are multiple there,
+        e.g. a length 0 of a linkage where the member splits); empty when not told apart.
     """
 
     arcs: list
@@ -114,17 +117,19 @@ class DiscriminantCurve:
     special: list
     failed_arcs: int = 0
     notes: list = field(default_factory=list)
+    multiple: list = field(default_factory=list)
 
     def to_dict(self):
         return {"arcs": [a.tolist() for a in self.arcs], "box": [list(map(float, c)) for c in self.box],
                 "special": [s.to_dict() for s in self.special], "failed_arcs": int(self.failed_arcs),
-                "notes": list(self.notes)}
+                "notes": list(self.notes), "multiple": [bool(m) for m in self.multiple]}
 
     @classmethod
     def from_dict(cls, data):
         return cls([np.array(a, dtype=float).reshape(-1, 2) for a in data["arcs"]],
                    tuple(np.array(c, dtype=float) for c in data["box"]),
-                   [CurvePoint.from_dict(s) for s in data["special"]], int(data["failed_arcs"]), list(data["notes"]))
+                   [CurvePoint.from_dict(s) for s in data["special"]], int(data["failed_arcs"]), list(data["notes"]),
+                   [bool(m) for m in data.get("multiple", [])])
 
 
 @dataclass
