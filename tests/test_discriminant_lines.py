@@ -84,7 +84,7 @@ def test_each_grashof_line_across_the_box_is_traced_through(four_bar, eliminant_
     for line in eliminant_lines:
         (a, b0, c0), power = line
         if power != 1:
-            continue  # b = 0 and c = 0 are outside the box and double: not traced (a note says so)
+            continue  # b = 0 and c = 0 lie outside the box (traced as multiple components: the test below)
         direction = np.array([-b0, a]) / math.hypot(a, b0)
         foot = -c0 * np.array([a, b0]) / (a * a + b0 * b0)
         ts = np.linspace(-20, 20, 4001)

@@ -47,12 +47,15 @@ from ..system.family import Family
 from ..system.polynomial import Polynomial, PolynomialSystem
 from ..numeric.cluster import connected_components
 from ..numeric.evaluate import BatchEvaluator
+from ..tracking.solve import solve_system
 from ..witness.realcurve import RealCurveOptions, trace_real_curve
 from ..singular.locus import minors_system
 from .branches import RealCount
+from .records import REAL_TOLERANCE
 from .sweep import sweep
 
-__all__ = ["CurvePointKind", "CurvePoint", "DiscriminantCurve", "PlaneRegion", "SingularIncidence", "trace_discriminant_curve",
+__all__ = ["CurvePointKind", "CurvePoint", "DiscriminantCurve", "PlaneRegion", "SingularIncidence", "conjugate_pair_points",
+           "trace_discriminant_curve",
            "merge_cells", "strip_blocked"]
 
 #: A projected turn sharper than this (cosine between the directions before and after) is a cusp candidate.
@@ -66,6 +69,8 @@ class CurvePointKind(str, enum.Enum):
 
     CUSP = "cusp"   #: the curve turns back on itself (a member with a degenerate singular point, e.g. a triple root)
     NODE = "node"   #: two arcs cross (a member with two singular points)
+    #: an isolated real point of the discriminant: the real member is singular only at a conjugate pair of points
+    ISOLATED = "isolated"
 
 
 @dataclass
@@ -267,7 +272,7 @@ def trace_discriminant_curve(family, codimension, max_exact_minors, lines, rng, 
     notes += curve.notes
     pieces = [b.points for b in curve.branches(clip=False) if len(b.points) >= 2]
     diagonal = float(np.linalg.norm(high - low))
-    refining = SingularIncidence(incidence, n)
+    refining = SingularIncidence(incidence, n, codimension)
     special = _cusps(refining, pieces, n, diagonal) + _nodes(refining, pieces, n, diagonal)
     return DiscriminantCurve([p[:, n:].copy() for p in pieces], (low, high), special, curve.failed_arcs, notes)
 
@@ -370,8 +375,9 @@ class SingularIncidence:
     (True, True)
     """
 
-    def __init__(self, incidence, n):
+    def __init__(self, incidence, n, codimension):
         self.n = n
+        self.codimension = codimension
         self.polynomials = [p.numeric() for p in incidence.polynomials]
         self.values_of = BatchEvaluator(self.polynomials)
         # the rows of J_x G, one polynomial per entry, with their own derivatives in (x, p) for the cusp's Newton
@@ -389,7 +395,7 @@ class SingularIncidence:
             return None
         if not incidence.has_real_coefficients:
             return None
-        return cls(incidence, n)
+        return cls(incidence, n, codimension)
 
     def _evaluate(self, evaluator, z):
         values, jacobian = evaluator.evaluate(np.asarray(z, dtype=complex)[None, :])
@@ -462,6 +468,92 @@ class SingularIncidence:
         limit = 0.05 * (1 + np.linalg.norm(start[2 * n:])) if reach is None else reach
         good = converged and apart and moved <= limit
         return CurvePoint(CurvePointKind.NODE, (z[2 * n:] if good else start[2 * n:]).copy(), good)
+
+
+#: The system of two singular points over one parameter value is solved when its total degree is at most this
+#: (x^4 + a x^2 + b x + 1: 144; a four-bar with two free lengths: 5,184, left out).
+MAX_PAIR_PATHS = 2000
+
+
+def _embedded(polynomial, columns, size):
+    """The polynomial with its variable j moved to position ``columns[j]`` of ``size`` variables."""
+    exponents = np.zeros((polynomial.n_terms, size), dtype=np.int64)
+    exponents[:, columns] = polynomial.exponents
+    return Polynomial(exponents, polynomial.numeric_coefficients(), size)
+
+
+def conjugate_pair_points(incidence, rng, max_paths=MAX_PAIR_PATHS):
+    """Isolated real points of the discriminant: real p whose member is singular at a conjugate pair x, conj(x) only.
+
+    A real member singular at a non-real point x is singular at conj(x) too: two conditions on p, so such values
+    are isolated points of the real plane, off the real curve of S that the tracers follow. They are among the
+    solutions of the square system {G(x_1, p) = 0, G(x_2, p) = 0} in (x_1, x_2, p), G = (F, the minors of J_x)
+    with the minors replaced by n + 1 - c real random combinations (solutions of the combinations off S are
+    dropped by the check of all minors). The diagonal x_1 = x_2 is a curve of solutions, never isolated; the real
+    p with x_2 = conj(x_1) not real are kept unless the same member also has a real singular point (then p lies
+    on a real arc).
+
+    Parameters
+    ----------
+    incidence : SingularIncidence
+    rng : numpy.random.Generator
+    max_paths : int
+        Skip (return None) when the system's total degree is larger.
+
+    Returns
+    -------
+    list of ndarray, shape (2,), or None
+        The points, sorted; None when not searched (too many paths).
+    dict
+        Tracked paths by status.
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> quartic = Family(parse_system(["x^4 + a*x^2 + b*x + 1"], ["x", "a", "b"]), ("a", "b"))
+    >>> points, _ = conjugate_pair_points(SingularIncidence.of(quartic, 1, 24), np.random.default_rng(1))
+    >>> np.round(np.array(points), 8).tolist()   # the member (x^2 + 1)^2
+    [[2.0, 0.0]]
+    """
+    n, c = incidence.n, incidence.codimension
+    equations, minors = incidence.polynomials[:c], incidence.polynomials[c:]
+    if len(minors) > n + 1 - c:
+        minors = _real_combinations(minors, n + 1 - c, rng)
+    per_copy = equations + minors
+    size = 2 * n + 2
+    first = list(range(n)) + [2 * n, 2 * n + 1]
+    second = list(range(n, 2 * n)) + [2 * n, 2 * n + 1]
+    polynomials = [_embedded(p, first, size) for p in per_copy] + [_embedded(p, second, size) for p in per_copy]
+    if math.prod(p.degree for p in polynomials) > max_paths:
+        return None, {}
+    names = [f"u{k + 1}" for k in range(2 * n)] + ["p1", "p2"]
+    solved = solve_system(PolynomialSystem(names, polynomials, name="two singular points"),
+                          seed=int(rng.integers(2 ** 63)))
+    points = np.array([s.point for s in solved.solutions if s.isolated], dtype=complex).reshape(-1, size)
+    found = []
+    if len(points):
+        p = points[:, 2 * n:]
+        real_p = np.all(np.abs(p.imag) <= REAL_TOLERANCE * (1 + np.abs(p)), axis=1)
+        full = np.array([incidence.values_of.evaluate(np.hstack([points[:, :n], p]), jacobian=False),
+                         incidence.values_of.evaluate(np.hstack([points[:, n:2 * n], p]), jacobian=False)])
+        on_s = np.all(np.linalg.norm(full, axis=2) <= 1e-8 * (1 + np.linalg.norm(points, axis=1)), axis=0)
+
+        def real(x):
+            return np.all(np.abs(x.imag) <= REAL_TOLERANCE * (1 + np.abs(x)), axis=1)
+
+        one, two = points[:, :n], points[:, n:2 * n]
+        scale = 1 + np.linalg.norm(one, axis=1)
+        conjugate = (np.linalg.norm(two - one.conj(), axis=1) <= 1e-6 * scale) & ~real(one)
+        real_singular = real_p & on_s & (real(one) | real(two))
+        for k in np.nonzero(real_p & on_s & conjugate)[0]:
+            value = p[k].real
+            same = np.linalg.norm(p.real - value, axis=1) <= 1e-6 * (1 + np.linalg.norm(value))
+            if np.any(same & real_singular):
+                continue  # the member also has a real singular point: p lies on a real arc
+            if all(np.linalg.norm(value - f) > 1e-6 * (1 + np.linalg.norm(value)) for f in found):
+                found.append(value)
+    found.sort(key=tuple)
+    return found, solved.path_counts()
 
 
 def _newton(residual_and_jacobian, start, iterations=30):
