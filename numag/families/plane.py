@@ -435,7 +435,7 @@ class SingularIncidence:
         z, converged = _newton(residual_and_jacobian, np.concatenate([start, vector]))
         moved = np.linalg.norm(z[n:n + 2] - start[n:])
         limit = 0.05 * (1 + np.linalg.norm(start[n:])) if reach is None else reach
-        good = converged and moved <= limit
+        good = bool(converged and moved <= limit)
         return CurvePoint(CurvePointKind.CUSP, (z if good else start)[n:n + 2].copy(), good)
 
     def refined_node(self, first, second, reach=None):
@@ -466,7 +466,7 @@ class SingularIncidence:
         apart = np.linalg.norm(z[:n] - z[n:2 * n]) > 1e-6 * (1 + np.linalg.norm(z[:n]))
         moved = np.linalg.norm(z[2 * n:] - start[2 * n:])
         limit = 0.05 * (1 + np.linalg.norm(start[2 * n:])) if reach is None else reach
-        good = converged and apart and moved <= limit
+        good = bool(converged and apart and moved <= limit)
         return CurvePoint(CurvePointKind.NODE, (z[2 * n:] if good else start[2 * n:]).copy(), good)
 
 
