@@ -84,7 +84,7 @@ def test_each_grashof_line_across_the_box_is_traced_through(four_bar, eliminant_
     for line in eliminant_lines:
         (a, b0, c0), power = line
         if power != 1:
-            continue  # b = 0 and c = 0 are outside the box and double: not traced (a note says so)
+            continue  # b = 0 and c = 0 lie outside the box (traced as multiple components: the test below)
         direction = np.array([-b0, a]) / math.hypot(a, b0)
         foot = -c0 * np.array([a, b0]) / (a * a + b0 * b0)
         ts = np.linspace(-20, 20, 4001)
@@ -104,7 +104,22 @@ def test_each_grashof_line_across_the_box_is_traced_through(four_bar, eliminant_
                 covered |= np.linalg.norm(start + t[:, None] * step - inside, axis=1) <= 1e-6
         assert covered.all()
     assert crossing == 5  # b + c = 2, b + c = 6, b - c = 2, c - b = 2 and b - c = 6 cross the box [0.5, 8] x [1, 5]
-    assert any("length 0" in note for note in four_bar.notes)
+
+
+def test_the_double_lines_of_zero_length_are_found_flagged_and_cut_the_cells(four_bar, eliminant_lines):
+    # b = 0 and c = 0 are the factors of power 2 of sympy's eliminant (above): there the member splits (a circle of
+    # radius 0 is a pair of complex lines) and the line system has double solutions on every line
+    double = [line for line in eliminant_lines if line[1] == 2]
+    assert any("multiple point" in note and "length 0" in note for note in four_bar.notes)
+    curve = four_bar.curve
+    assert len(curve.multiple) == len(curve.arcs) and any(curve.multiple)
+    for arc, flagged in zip(curve.arcs, curve.multiple):
+        on_double = max(min(_distance_to(p, line) for line in double) for p in arc) <= 1e-8
+        assert flagged == on_double
+    # c = 0 crosses every vertical line b = v of the cells: each has a cut there
+    for value, cuts in {c.line: None for c in four_bar.regions}.items():
+        lows = [c.low for c in four_bar.regions if c.line == value]
+        assert min(abs(low) for low in lows) <= 1e-8
 
 
 def test_crossings_of_the_grashof_lines_are_the_nodes(four_bar, eliminant_lines):
@@ -112,14 +127,19 @@ def test_crossings_of_the_grashof_lines_are_the_nodes(four_bar, eliminant_lines)
     # source: b + c = 6 meets b - c = 2 and c - b = 2).
     nodes = [s.point for s in four_bar.curve.special if s.kind == CurvePointKind.NODE]
     assert not any(s.kind == CurvePointKind.CUSP for s in four_bar.curve.special)
-    simple = [line for line in eliminant_lines if line[1] == 1]
-    crossings = []
-    for (first, _), (second, _) in itertools.combinations(simple, 2):
+    crossings = []  # of all lines of the eliminant: b = 0 and c = 0 are traced too
+    for (first, _), (second, _) in itertools.combinations(eliminant_lines, 2):
         matrix = np.array([first[:2], second[:2]])
         if abs(np.linalg.det(matrix)) > 1e-9:
             crossings.append(np.linalg.solve(matrix, -np.array([first[2], second[2]])))
     for node in nodes:
         assert min(np.linalg.norm(node - c) for c in crossings) <= 1e-6
+    # refined by Gauss-Newton on two copies of (F, the 3 x 3 minors of J_x) over one (b, c); crossings on the
+    # double lines b = 0, c = 0 (where X splits) are not regular solutions of that system and are not required to be
+    off_double_lines = [s for s in four_bar.curve.special if np.abs(s.point).min() > 1e-6]
+    assert off_double_lines and all(s.refined for s in off_double_lines)
+    for expected in ([4.0, 2.0], [2.0, 4.0]):
+        assert min(np.linalg.norm(node - expected) for node in nodes) <= 1e-10
     for expected in ([4.0, 2.0], [2.0, 4.0]):
         assert min(np.linalg.norm(node - expected) for node in nodes) <= 1e-6
 
@@ -177,7 +197,8 @@ def test_curves_of_the_cubic_family_have_the_cuspidal_discriminant_and_two_or_on
     assert np.abs(4 * points[:, 0] ** 3 + 27 * points[:, 1] ** 2).max() <= 1e-8 * (1 + np.abs(points).max() ** 3)
     assert result.curve.failed_arcs == 0
     cusps = [s.point for s in result.curve.special if s.kind == CurvePointKind.CUSP]
-    assert len(cusps) == 1 and np.linalg.norm(cusps[0]) <= 0.5  # within a line spacing (about 0.48 here)
+    assert len(cusps) == 1 and np.linalg.norm(cusps[0]) <= 1e-8  # refined from about a line spacing (0.48) away
+    assert all(s.refined for s in result.curve.special)
     for cell in result.regions:
         p, q = cell.sample
         assert cell.count.branches == (2 if 4 * p ** 3 + 27 * q ** 2 < 0 else 1) and cell.count.failed == 0

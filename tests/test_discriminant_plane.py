@@ -13,7 +13,7 @@ import pytest
 from numag.app.cli import main
 from numag.families.branches import CountKind
 from numag.families.discriminant import Discriminant, DiscriminantOptions, discriminant
-from numag.families.plane import CurvePointKind, _nodes, _refined_node, strip_blocked
+from numag.families.plane import CurvePointKind, SingularIncidence, _nodes, strip_blocked
 from numag.system.files import family_from_mapping
 
 CUBIC = {"variables": ["x"], "parameters": ["p", "q"], "equations": ["x^3 + p*x + q"],
@@ -66,9 +66,9 @@ def test_cells_merge_into_the_two_regions_of_the_cubic(cubic):
             assert (_cubic_form(p, q) < 0) == (region.count.solutions == 3)
     assert sorted(c for r in regions for c in r.cells) == list(range(len(cubic.regions)))
     # two regions of different counts: nothing to say about pieces of one region; what the trace cannot see
-    # (isolated real points over non-real singular points) is always said
+    # (isolated real points over non-real singular points, unless asked for) is always said
     assert not any("pieces of one region" in note for note in cubic.notes)
-    assert any("are not traced" in note for note in cubic.notes)
+    assert any("conjugate pair of singular points) were not searched" in note for note in cubic.notes)
 
 
 def test_plane_results_round_trip_and_are_drawn(cubic, tmp_path):
@@ -104,7 +104,7 @@ def test_node_of_the_quartic_refined_and_checked_with_sympy():
         # starts near the two lifts (x, a, b) = (+-1, -2, 0), as a crossing of two traced arcs gives them
         first = np.array([1.0, -2.0, 0.0]) + 1e-3 * rng.standard_normal(3)
         second = np.array([-1.0, -2.0, 0.0]) + 1e-3 * rng.standard_normal(3)
-        node = _refined_node(family, first, second, 1)
+        node = SingularIncidence.of(family, 1, 24).refined_node(first, second)
         assert node.refined and node.kind == CurvePointKind.NODE
         at = {a: node.point[0], b: node.point[1]}
         assert abs(float(delta.subs(at))) <= 1e-9
@@ -123,7 +123,7 @@ def test_crossing_pieces_of_the_quartic_give_its_node():
     pieces = []
     for t in (np.linspace(0.7, 1.35, 41), np.linspace(-1.3, -0.75, 37)):
         pieces.append(np.column_stack([t, (1 - 3 * t ** 4) / t ** 2, 2 * t ** 3 - 2 / t]))
-    nodes = _nodes(family_from_mapping(QUARTIC), pieces, 1, 2.0)
+    nodes = _nodes(SingularIncidence.of(family_from_mapping(QUARTIC), 1, 24), pieces, 1, 2.0)
     assert len(nodes) == 1 and nodes[0].refined
     x, a, b = sympy.symbols("x a b")
     delta = sympy.discriminant(x ** 4 + a * x ** 2 + b * x + 1, x)  # the reference
@@ -141,3 +141,22 @@ def test_members_of_dimension_two_say_they_are_not_counted():
     assert len(result.regions) == 2
     assert all(r.count.kind is CountKind.NOT_COUNTED for r in result.regions)
     assert all(r.to_dict()["count"] == "not counted" for r in result.regions)
+
+
+def test_isolated_real_point_of_the_quartic_over_a_conjugate_pair():
+    # At (a, b) = (2, 0) the member is (x^2 + 1)^2: double roots at x = i and -i only, so (2, 0) is an isolated real
+    # point of the discriminant, off every traced arc (common practice, no source). sympy's discriminant is the
+    # reference: zero with zero gradient and a definite Hessian there (no real tangent).
+    sympy = pytest.importorskip("sympy")
+    from numag.families.plane import conjugate_pair_points
+    x, a, b = sympy.symbols("x a b")
+    delta = sympy.discriminant(x ** 4 + a * x ** 2 + b * x + 1, x)
+    points, paths = conjugate_pair_points(SingularIncidence.of(family_from_mapping(QUARTIC), 1, 24),
+                                          np.random.default_rng(1))
+    assert paths["tracked"] == 144 and len(points) == 1  # (-2, 0), over the real pair x = 1, -1, is left out
+    at = {a: points[0][0], b: points[0][1]}
+    assert abs(float(delta.subs(at))) <= 1e-9
+    assert max(abs(float(sympy.diff(delta, v).subs(at))) for v in (a, b)) <= 1e-7
+    hessian = np.array([[float(sympy.diff(delta, u, v).subs(at)) for v in (a, b)] for u in (a, b)])
+    assert np.all(np.linalg.eigvalsh(hessian) > 1.0)  # definite: an isolated real point
+    assert np.allclose(points[0], [2.0, 0.0], atol=1e-10)

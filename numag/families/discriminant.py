@@ -63,7 +63,8 @@ from ..witness.decompose import DecomposeOptions, decompose, holding_equations
 from ..singular.locus import minors_system
 from .branches import RealCount, real_counts
 from .lines import discriminant_on_lines
-from .plane import CurvePoint, CurvePointKind, DiscriminantCurve, PlaneRegion, _box as plane_box, _nodes, merge_cells, trace_discriminant_curve
+from .plane import (CurvePoint, CurvePointKind, DiscriminantCurve, PlaneRegion, SingularIncidence, _box as plane_box,
+                    _cusp_point, _nodes, conjugate_pair_points, merge_cells, trace_discriminant_curve)
 from .records import REAL_TOLERANCE, ComponentKind, decode_complex, decode_float, encode_complex, encode_float
 
 __all__ = ["DiscriminantOptions", "DiscriminantComponent", "Region", "Discriminant", "discriminant"]
@@ -92,6 +93,10 @@ class DiscriminantOptions:
     components : bool
         Decompose the incidence set into the discriminant's components (the most expensive step of a family
         of curves with two parameters; the curve and the regions do not need it).
+    isolated_points : bool
+        Two parameters, with the curve: also solve for isolated real points of the discriminant over conjugate
+        pairs of singular points (:func:`numag.families.plane.conjugate_pair_points`; x^4 + a x^2 + b x + 1:
+        144 paths, about 4 minutes at load 10 on the shared machine, hence off by default).
     """
 
     decompose: DecomposeOptions = DecomposeOptions()
@@ -102,6 +107,7 @@ class DiscriminantOptions:
     curve: bool = True
     trace_lines: int = 60
     components: bool = True
+    isolated_points: bool = False
 
 
 @dataclass
@@ -332,8 +338,7 @@ def discriminant(family, options=None, seed=None, progress=None, *, _balanced=Fa
     if curve is not None:
         # a real member singular only at non-real points is singular at a conjugate pair: two conditions, so
         # such parameter values are isolated points of the real plane, off the traced real incidence set
-        notes.append("Isolated real points of the discriminant whose singular points are not real (a member with "
-                     "a conjugate pair of double roots) are not traced; the real counts do not change there.")
+        _isolated_points(family, codimension, options, seed, curve, paths, notes)
     if m > 2 and options.regions:
         notes.append("Regions are given for one or two parameters; with more, sweep a grid instead.")
     # the blocks added up come with and without a total of failures: the total is the sum of its reasons
@@ -386,23 +391,47 @@ def _curve_and_cells_on_lines(family, codimension, options, rng, paths, notes, p
     add_path_counts(paths, found.paths)
     notes += found.notes
     notes.append("The discriminant was met on lines of the parameter plane (the members are not finite sets of "
-                 "points): parts of it over multiple solutions of the line system (where a parameter enters only "
-                 "squared, such as a length 0 of a linkage) are neither traced nor cut the cells (the components "
-                 "list them when computed)"
-                 + ("; cusps and crossings are given at the traced accuracy (a cusp within about a line "
-                    "spacing)." if options.curve else "."))
-    special = _nodes(family, found.lifts, family.n_variables, float(np.linalg.norm(high - low))) \
-        + [CurvePoint(CurvePointKind.CUSP, point, False) for point in found.cusps] if options.curve else []
+                 "points)" + ("; cusps and crossings that Newton could not refine (e.g. on a multiple component) are "
+                              "given at the traced accuracy (within about a line spacing)." if options.curve else "."))
+    special = []
+    if options.curve:
+        # refined like the traced curve's (one place: plane.SingularIncidence); the traced positions are within
+        # about a line spacing, so Newton may move them that far
+        refining = SingularIncidence.of(family, codimension, options.max_exact_minors)
+        reach = 2.0 * found.spacing
+        n = family.n_variables
+        special = _nodes(refining, found.lifts, n, float(np.linalg.norm(high - low)), reach) \
+            + [_cusp_point(refining, lift, n, reach) for lift in found.cusp_lifts]
     # failed paths of the sweep and arc ends that could be neither continued nor joined: where the picture may
     # miss a piece (counted like the stalled arc ends of the other tracer)
-    curve = DiscriminantCurve(found.arcs, (low, high), special, found.failed + found.lost_links) \
-        if options.curve else None
+    curve = DiscriminantCurve(found.arcs, (low, high), special, found.failed + found.lost_links,
+                              multiple=list(found.multiple_arcs)) if options.curve else None
     cells = []
     if options.regions:
         if progress is not None:
             progress("counting the real branches of one member per cell")
         cells = _cells(family, found.cuts, rng)
     return curve, cells
+
+
+def _isolated_points(family, codimension, options, seed, curve, paths, notes):
+    """Isolated real points over conjugate pairs of singular points, added to the curve's special points."""
+    searched = None
+    if options.isolated_points:
+        incidence = SingularIncidence.of(family, codimension, options.max_exact_minors)
+        if incidence is not None:
+            # its own generator: the draws of the rest of the computation stay as without the search
+            searched, counts = conjugate_pair_points(incidence, np.random.default_rng([int(seed), 70]))
+            add_path_counts(paths, counts)
+    if searched is None:
+        reason = "not searched (asked for with isolated_points)" if not options.isolated_points \
+            else "not searched (too many paths, or minors not all expanded)"
+        notes.append("Isolated real points of the discriminant whose singular points are not real (a member with "
+                     f"a conjugate pair of singular points) were {reason}; the real counts do not change there.")
+        return
+    curve.special += [CurvePoint(CurvePointKind.ISOLATED, point, True) for point in searched]
+    notes.append(f"Isolated real points of the discriminant over conjugate pairs of singular points: {len(searched)} "
+                 "(they do not cut regions: the real counts do not change there).")
 
 
 def _traced_curve(family, codimension, options, rng, notes, progress):
@@ -672,8 +701,8 @@ def _cells(family, cuts, rng):
     """Cells of vertical lines p_1 = v cut at real discriminant values of p_2; all samples counted together."""
     cells, samples = [], []
     for value, points in cuts:
-        # off the middle: where a parameter enters only squared, the discriminant line p_2 = 0 (a length 0), which
-        # the line system does not see (decision 0060), lies exactly in the middle of the cell around it
+        # off the middle: where a parameter enters only squared, the discriminant line p_2 = 0 (a length 0) lies
+        # exactly in the middle of the cell around it if its deflated moves failed (decision 0060; 0069)
         intervals, along = _intervals(points, _CELL_FRACTION)
         cells += [(value, low, high) for low, high in intervals]
         samples += [[value, sample] for sample in along]

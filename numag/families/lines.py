@@ -19,6 +19,11 @@ as the four parameters of one family every line is one member, and one sweep sol
   the nearest such point of the next line. Two arc ends on one line whose moves were lost (the real pair
   turned complex: a fold of the curve between the lines) and that are neighbours on the line are joined.
   Chains of links are the polylines.
+* **Multiple components** (a double line such as a length 0 that enters squared, where the member splits):
+  every line meets them in multiple solutions of the line system, which the sweep drops. The multiple
+  solutions of the sweep's start member are moved to every line on the line system deflated once and
+  squared by random combinations (:func:`_deflated`), kept where the unsquared equations hold; their real
+  points are traced and cut the cells like the others, and their arcs are flagged.
 * **Cells**: the real points on vertical lines p_1 = v cut each line into intervals (the caller counts
   one sample per interval, all in one call).
 
@@ -39,7 +44,9 @@ import numpy as np
 
 from ..system.family import Family
 from ..system.polynomial import Polynomial, PolynomialSystem
+from ..system.display import counted
 from ..numeric.cluster import cluster_labels, connected_components, groups
+from ..numeric.evaluate import BatchEvaluator
 from ..tracking.tracker import TrackerOptions
 from ..singular.isolated import null_vector_system
 from .records import REAL_TOLERANCE, PointKind
@@ -81,6 +88,16 @@ class LineDiscriminant:
     cusps : list of ndarray, shape (2,)
         Joins of two arc ends that arrive side by side in one direction (a cusp, not a fold), at the traced
         accuracy: within about a line spacing.
+    cusp_lifts : list of ndarray, shape (n + 2,)
+        The same joins with the mean of the real parts of the two ends' singular points x in front (where the
+        refinement starts).
+    spacing : float
+        Distance between neighbouring trace lines.
+    multiple_arcs : list of bool
+        Per arc: made of multiple points only (a multiple component of the discriminant, e.g. a length 0).
+    multiple_degree : int
+        Distinct multiple points of the line system on a generic (random complex) line: the degree of the
+        discriminant's multiple components together (0: none).
     """
 
     arcs: list
@@ -91,6 +108,10 @@ class LineDiscriminant:
     notes: list = field(default_factory=list)
     paths: dict = field(default_factory=dict)
     cusps: list = field(default_factory=list)
+    cusp_lifts: list = field(default_factory=list)
+    spacing: float = 0.0
+    multiple_arcs: list = field(default_factory=list)
+    multiple_degree: int = 0
 
 
 def _free_name(base, taken):
@@ -170,15 +191,21 @@ class _Line:
         return self.origin + np.asarray(self.t_values)[clusters, None] * self.direction
 
 
-def _real_points(member, origin, direction):
+def _real_points(member, origin, direction, double=None):
+    """The real points of one line: the sweep's member there, and the points of multiple components (``double``,
+    shape (D, n + c + 1), flagged multiple)."""
     points = member.points
+    flags = np.array([k == PointKind.RANK_DROP for k in member.kinds], dtype=bool)
+    if double is not None and len(double):
+        points = np.vstack([points.reshape(-1, double.shape[1]), double])
+        flags = np.concatenate([flags, np.ones(len(double), dtype=bool)])
     if len(points) == 0:
         return _Line(origin, direction, np.zeros((0, 0), complex), np.zeros(0, bool), np.zeros(0, np.int64),
                      np.zeros(0))
     t = points[:, -1]
     real = np.abs(t.imag) <= REAL_TOLERANCE * (1 + np.abs(t))
     points = points[real]
-    multiple = np.array([k == PointKind.RANK_DROP for k, r in zip(member.kinds, real) if r], dtype=bool)
+    multiple = flags[real]
     values = points[:, -1].real
     if len(values) == 0:
         return _Line(origin, direction, points, multiple, np.zeros(0, np.int64), np.zeros(0))
@@ -233,10 +260,16 @@ def discriminant_on_lines(family, codimension, box, verticals, trace_lines, rng)
     # them to the circular points at infinity (12.8 s against 18.5 s of processor time for the one solve)
     swept = sweep(lines, np.array(values), SweepOptions(start="polyhedral"), seed=int(rng.integers(2 ** 63)))
     failed = swept.failed + int(swept.paths.get("start_failed", 0))
-    traced = [_real_points(member, value[:2], value[2:]) for member, value in zip(swept.values[:len(offsets)],
-                                                                                   values)]
-    cuts = [(float(v), _real_points(member, np.array([v, 0.0]), np.array([0.0, 1.0])).t_values)
-            for v, member in zip(verticals, swept.values[len(offsets):])]
+    # multiple components of the discriminant (the start member's multiple points): followed on a deflated system
+    # its own generator, seeded from the sweep's recorded seed: the draws of everything after stay those of a family
+    # without multiple components
+    double, double_degree, double_failed = _multiple_components(
+        lines, swept, np.array(values), np.random.default_rng([int(swept.seed), 69]))
+    double_moves = len(swept.start_multiple) * len(values)
+    traced = [_real_points(member, value[:2], value[2:], double[k])
+              for k, (member, value) in enumerate(zip(swept.values[:len(offsets)], values))]
+    cuts = [(float(v), _real_points(member, np.array([v, 0.0]), np.array([0.0, 1.0]), double[len(offsets) + k]).t_values)
+            for k, (v, member) in enumerate(zip(verticals, swept.values[len(offsets):]))]
     # the points a little beyond the lines' reach are kept too: a fold's other arc may leave the box there
     keep_low, keep_high = low - 1.25 * span, high + 1.25 * span
     for line in traced:
@@ -247,15 +280,138 @@ def discriminant_on_lines(family, codimension, box, verticals, trace_lines, rng)
     # an unjoined end beyond the box is a fold whose other arc lies beyond the points kept: no gap in the box
     lost = sum(bool(np.all((traced[k].plane([c])[0] >= low) & (traced[k].plane([c])[0] <= high)))
                for k, c in unjoined)
-    arcs, lifts = _polylines(traced, edges, family.n_variables)
-    cusps = _cusps_at_joins(traced, edges)
+    arcs, lifts, multiple_arcs = _polylines(traced, edges, family.n_variables)
+    cusp_lifts = _cusps_at_joins(traced, edges, family.n_variables)
+    cusps = [lift[family.n_variables:].copy() for lift in cusp_lifts]
     notes = []
     if failed:
         notes.append(f"{failed} paths of the sweep across the lines failed: a piece of the curve may be missing.")
     if lost:
         notes.append(f"{lost} arc {'end' if lost == 1 else 'ends'} of the traced curve could not be continued to the "
                      "next line and joined to no neighbour: the picture may have a gap there.")
-    return LineDiscriminant(arcs, lifts, cuts, failed, lost, notes, dict(swept.paths), cusps)
+    if double_degree:
+        notes.append(f"The discriminant has {counted(double_degree, 'multiple point')} on a generic line: a component "
+                     "along which the member's singular points are multiple solutions of the line system (a double "
+                     "structure, such as a length 0 of a linkage entering squared, where the member splits); its real "
+                     f"points were followed on a deflated system ({counted(sum(multiple_arcs), 'traced arc')}"
+                     + (f"; {double_failed} of {double_moves} moves onto lines failed, so some lines may miss its "
+                        "points" if double_failed else "") + ").")
+    return LineDiscriminant(arcs, lifts, cuts, failed, lost, notes, dict(swept.paths), cusps, cusp_lifts, spacing,
+                            multiple_arcs, double_degree)
+
+
+#: A point moved on the deflated system is on the multiple component when the full (not squared) system holds to
+#: this (relative): the squared system also holds at every regular point of the line system.
+_DEFLATED_RESIDUAL = 1e-8
+#: Rounds of retrying a failed move on the deflated system through a random value between.
+_DEFLATED_RETRIES = 3
+
+
+def _deflated(lines_family, rng):
+    """The line system with one deflation step, squared: unknowns (z, w), z = (x, lambda, t), parameters (o, d).
+
+    The 2N equations G(z) = 0 and J_z G(z) B (w, 1) = 0 (B random, N x N), of which 2N - 1 random
+    combinations A (G, J_z G B (w, 1)) are taken: at a double solution of G = 0 whose kernel is a line the
+    2N equations have a Jacobian of full column rank (the one-step deflation of a multiplicity-2 root), and
+    generic combinations of all of them keep it (measured: combining only the rows J_z G B (w, 1) left the
+    square system singular, since those rows alone can always absorb the second-order term). The 2N equations
+    themselves are returned too, for the check.
+
+    Returns
+    -------
+    Family
+        Square, unknowns (z, w), the same parameters.
+    BatchEvaluator
+        G and the full rows J_z G B (w, 1), in (z, w, o, d).
+    """
+    big = lines_family.n_variables
+    system = lines_family.system
+    size = 2 * big - 1 + 4
+    variable = [Polynomial.variable(j, size) for j in range(size)]
+    images = variable[:big] + variable[2 * big - 1:]  # z, then (o, d) after w
+    equations = [_composed(p.numeric(), images, size) for p in system.polynomials]
+    b_matrix = (rng.standard_normal((big, big)) + 1j * rng.standard_normal((big, big))) / math.sqrt(2 * big)
+    a_matrix = (rng.standard_normal((2 * big - 1, 2 * big)) + 1j * rng.standard_normal((2 * big - 1, 2 * big))) \
+        / math.sqrt(4 * big)
+    kernel = [Polynomial.constant(complex(b_matrix[j, -1]), size)
+              + sum((variable[big + k] * complex(b_matrix[j, k]) for k in range(big - 1)), Polynomial.zero(size))
+              for j in range(big)]
+    rows = []
+    for p in system.polynomials:
+        derivative = [_composed(p.numeric().derivative(j), images, size) for j in range(big)]
+        rows.append(sum((d * w for d, w in zip(derivative, kernel)), Polynomial.zero(size)))
+    squared = [sum((r * complex(a) for r, a in zip(equations + rows, weights)), Polynomial.zero(size))
+               for weights in a_matrix]
+    names = list(system.variables[:big]) + [_free_name(f"w{k + 1}", set(system.variables)) for k in range(big - 1)] \
+        + list(lines_family.parameters)
+    family = Family(PolynomialSystem(names, squared, name="deflated lines"), lines_family.parameters)
+    return family, BatchEvaluator(equations + rows), b_matrix
+
+
+def _multiple_components(lines_family, swept, values, rng):
+    """Real points of the discriminant's multiple components on every line, and their degree.
+
+    The start member's multiple points (every line meets a multiple component in multiple solutions of the line
+    system, so the sweep cannot move them) are moved to every line on the deflated system (:func:`_deflated`).
+
+    Returns
+    -------
+    list of ndarray, shape (D_k, N)
+        Per line (the order of ``values``): the distinct points z = (x, lambda, t) reached, real t or not.
+    int
+        Distinct multiple points of the start member in the parameter plane (the degree).
+    int
+        Failed paths.
+    """
+    starts = swept.start_multiple
+    big = lines_family.n_variables
+    empty = [np.zeros((0, big), dtype=complex) for _ in values]
+    if len(starts) == 0:
+        return empty, 0, 0
+    start_value = np.asarray(swept.start_parameters, dtype=complex)
+    plane = start_value[:2] + starts[:, -1:] * start_value[2:]
+    degree = len(groups(cluster_labels(plane, _SAME_T)))
+    family, full, b_matrix = _deflated(lines_family, rng)
+    # the kernel of J_z G at each start, in the coordinates w of B (w, 1)
+    _, jacobians = BatchEvaluator([p.numeric() for p in lines_family.system.polynomials]).evaluate(
+        np.hstack([starts, np.tile(start_value, (len(starts), 1))]))
+    kernels = np.array([np.linalg.svd(j[:, :big])[2][-1].conj() for j in jacobians])
+    coordinates = np.linalg.solve(b_matrix, kernels.T).T
+    with np.errstate(all="ignore"):
+        coordinates = coordinates[:, :-1] / coordinates[:, -1:]
+    points = np.hstack([starts, coordinates])
+    moves = [(i, k) for k in range(len(values)) for i in range(len(starts))]
+    targets = values[[k for _, k in moves]]
+    ends, failed = move_points(family, np.tile(start_value, (len(moves), 1)), points[[i for i, _ in moves]],
+                               targets, seed=int(rng.integers(2 ** 63)), options=_NO_RESCUE)
+    # measured (four-bar, c = 0): about half the direct moves fail at the minimum step while the same move in two
+    # halves succeeds; failed moves are retried through a value between, a random one each round
+    for _ in range(_DEFLATED_RETRIES):
+        lost = np.nonzero(~np.all(np.isfinite(ends), axis=1))[0]
+        if not len(lost):
+            break
+        between = 0.5 * (start_value + targets[lost]) + 0.25 * (rng.standard_normal((len(lost), 4))
+                                                                + 1j * rng.standard_normal((len(lost), 4)))
+        halfway, _ = move_points(family, np.tile(start_value, (len(lost), 1)), points[[moves[j][0] for j in lost]],
+                                 between, seed=int(rng.integers(2 ** 63)), options=_NO_RESCUE)
+        reached = np.all(np.isfinite(halfway), axis=1)
+        if reached.any():
+            again, _ = move_points(family, between[reached], halfway[reached], targets[lost[reached]],
+                                   seed=int(rng.integers(2 ** 63)), options=_NO_RESCUE)
+            ends[lost[reached]] = again
+    failed = int(np.sum(~np.all(np.isfinite(ends), axis=1)))
+    finite = np.all(np.isfinite(ends), axis=1)
+    check = np.zeros(len(moves), dtype=bool)
+    if finite.any():
+        residual = full.evaluate(np.hstack([ends[finite], targets[finite]]), jacobian=False)
+        size = 1 + np.linalg.norm(ends[finite], axis=1)
+        check[finite] = np.linalg.norm(residual, axis=1) <= _DEFLATED_RESIDUAL * size
+    found = [[] for _ in values]
+    for (_, k), end, good in zip(moves, ends, check):
+        if good and all(np.linalg.norm(end[:big] - other) > _SAME_POINT * (1 + np.linalg.norm(end[:big]))
+                        for other in found[k]):
+            found[k].append(end[:big])
+    return [np.array(f, dtype=complex).reshape(-1, big) for f in found], degree, int(failed)
 
 
 def _moves(lines_family, traced, moves, rng):
@@ -357,8 +513,9 @@ def _links(lines_family, traced, spacing, rng):
 _CUSP_COSINE = 0.5
 
 
-def _cusps_at_joins(traced, edges):
-    """The joins of two arc ends on one line that are cusps: both arcs arrive pointing the same way."""
+def _cusps_at_joins(traced, edges, n):
+    """The joins of two arc ends on one line that are cusps (both arcs arrive pointing the same way), as lifts
+    (mean real x of the two ends, middle of the join in the plane)."""
     neighbours = {}
     for a, b in edges:
         neighbours.setdefault(a, []).append(b)
@@ -377,7 +534,10 @@ def _cusps_at_joins(traced, edges):
         if len(steps) == 2:
             first, second = (step / max(np.linalg.norm(step), 1e-300) for step in steps)
             if first @ second > _CUSP_COSINE:
-                cusps.append(0.5 * (traced[a[0]].plane([a[1]])[0] + traced[b[0]].plane([b[1]])[0]))
+                line = traced[a[0]]
+                x = [line.points[np.nonzero(line.cluster == end)[0][0], :n].real for end in (a[1], b[1])]
+                cusps.append(np.concatenate([0.5 * (x[0] + x[1]),
+                                             0.5 * (line.plane([a[1]])[0] + line.plane([b[1]])[0])]))
     return cusps
 
 
@@ -395,7 +555,7 @@ def _polylines(traced, edges, n):
         neighbours[a].append(b)
         neighbours[b].append(a)
     component = connected_components(len(nodes), [(index[a], index[b]) for a, b in kept])
-    arcs, lifts = [], []
+    arcs, lifts, multiple = [], [], []
     for label in np.unique(component):
         members = [nodes[k] for k in np.nonzero(component == label)[0]]
         ends = [node for node in members if len(neighbours[node]) == 1]
@@ -409,12 +569,15 @@ def _polylines(traced, edges, n):
                 break
             previous = walk[-1]
             walk.append(following[0])
-        lift = []
+        lift, all_multiple = [], True
         for k, cluster in walk:
             line = traced[k]
-            representative = line.points[np.nonzero(line.cluster == cluster)[0][0]]
+            inside = np.nonzero(line.cluster == cluster)[0]
+            representative = line.points[inside[0]]
+            all_multiple &= bool(np.all(line.multiple[inside]))
             lift.append(np.concatenate([representative[:n].real, line.plane([cluster])[0]]))
         lift = np.array(lift)
         arcs.append(lift[:, n:].copy())
         lifts.append(lift)
-    return arcs, lifts
+        multiple.append(all_multiple)
+    return arcs, lifts, multiple

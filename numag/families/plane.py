@@ -17,11 +17,12 @@ a node):
   no p-part there);
 * **node**: two pieces of the projected polyline cross.
 
-For square members (as many equations as unknowns; S = {F = 0, det J_x F = 0}) both are refined by
-Newton on square systems: a cusp on {F = 0, J_x F v = 0, grad_x(det J_x F) . v = 0, c . v = 1} in
-(x, p, v) (the kernel vector v of J_x is tangent to S and has no p-part), a node on
-{G(x_1, p) = 0, G(x_2, p) = 0} with G = (F, det J_x F) in (x_1, x_2, p). Otherwise they are given at the
-traced accuracy (``refined`` false).
+Both are refined by (Gauss-)Newton with G = (F, the c x c minors of J_x F) (:class:`SingularIncidence`, also
+used for the curve traced across lines, :mod:`numag.families.lines`): a cusp on {G = 0, J_x G v = 0, c . v = 1}
+in (x, p, v) (a kernel vector v in x alone is tangent to S and has no p-part; for square members this is
+{F = 0, J_x F v = 0, grad_x(det J_x F) . v = 0, c . v = 1}), a node on {G(x_1, p) = 0, G(x_2, p) = 0} in
+(x_1, x_2, p). Where the minors are not all expanded (random complex combinations) or Newton does not
+converge near the traced point they are given at the traced accuracy (``refined`` false).
 
 Regions: the cells (line p_1 = v, interval of p_2 between real discriminant points) of
 :mod:`numag.families.discriminant` are merged across neighbouring lines when a horizontal segment joins
@@ -43,15 +44,18 @@ import numpy as np
 
 from ..errors import InputError, LimitError
 from ..system.family import Family
-from ..system.polynomial import Polynomial, PolynomialSystem, determinant
+from ..system.polynomial import Polynomial, PolynomialSystem
 from ..numeric.cluster import connected_components
 from ..numeric.evaluate import BatchEvaluator
+from ..tracking.solve import solve_system
 from ..witness.realcurve import RealCurveOptions, trace_real_curve
 from ..singular.locus import minors_system
 from .branches import RealCount
+from .records import REAL_TOLERANCE
 from .sweep import sweep
 
-__all__ = ["CurvePointKind", "CurvePoint", "DiscriminantCurve", "PlaneRegion", "trace_discriminant_curve",
+__all__ = ["CurvePointKind", "CurvePoint", "DiscriminantCurve", "PlaneRegion", "SingularIncidence", "conjugate_pair_points",
+           "trace_discriminant_curve",
            "merge_cells", "strip_blocked"]
 
 #: A projected turn sharper than this (cosine between the directions before and after) is a cusp candidate.
@@ -65,6 +69,8 @@ class CurvePointKind(str, enum.Enum):
 
     CUSP = "cusp"   #: the curve turns back on itself (a member with a degenerate singular point, e.g. a triple root)
     NODE = "node"   #: two arcs cross (a member with two singular points)
+    #: an isolated real point of the discriminant: the real member is singular only at a conjugate pair of points
+    ISOLATED = "isolated"
 
 
 @dataclass
@@ -106,6 +112,9 @@ class DiscriminantCurve:
     failed_arcs : int
         Arc ends of the trace that stalled or were misjoined (the picture may miss a piece).
     notes : list of str
+    multiple : list of bool
+        Per arc: on a multiple component of the discriminant (the member's singular points are multiple there,
+        e.g. a length 0 of a linkage where the member splits); empty when not told apart.
     """
 
     arcs: list
@@ -113,17 +122,19 @@ class DiscriminantCurve:
     special: list
     failed_arcs: int = 0
     notes: list = field(default_factory=list)
+    multiple: list = field(default_factory=list)
 
     def to_dict(self):
         return {"arcs": [a.tolist() for a in self.arcs], "box": [list(map(float, c)) for c in self.box],
                 "special": [s.to_dict() for s in self.special], "failed_arcs": int(self.failed_arcs),
-                "notes": list(self.notes)}
+                "notes": list(self.notes), "multiple": [bool(m) for m in self.multiple]}
 
     @classmethod
     def from_dict(cls, data):
         return cls([np.array(a, dtype=float).reshape(-1, 2) for a in data["arcs"]],
                    tuple(np.array(c, dtype=float) for c in data["box"]),
-                   [CurvePoint.from_dict(s) for s in data["special"]], int(data["failed_arcs"]), list(data["notes"]))
+                   [CurvePoint.from_dict(s) for s in data["special"]], int(data["failed_arcs"]), list(data["notes"]),
+                   [bool(m) for m in data.get("multiple", [])])
 
 
 @dataclass
@@ -261,11 +272,12 @@ def trace_discriminant_curve(family, codimension, max_exact_minors, lines, rng, 
     notes += curve.notes
     pieces = [b.points for b in curve.branches(clip=False) if len(b.points) >= 2]
     diagonal = float(np.linalg.norm(high - low))
-    special = _cusps(family, pieces, n, diagonal) + _nodes(family, pieces, n, diagonal)
+    refining = SingularIncidence(incidence, n, codimension)
+    special = _cusps(refining, pieces, n, diagonal) + _nodes(refining, pieces, n, diagonal)
     return DiscriminantCurve([p[:, n:].copy() for p in pieces], (low, high), special, curve.failed_arcs, notes)
 
 
-def _cusps(family, pieces, n, diagonal):
+def _cusps(incidence, pieces, n, diagonal):
     """Points where a piece's projection turns back (the tangent of S has no p-part)."""
     found = []
     for piece in pieces:
@@ -286,10 +298,10 @@ def _cusps(family, pieces, n, diagonal):
                 slowest = segment[np.argmin(lengths[segment] / np.maximum(full[segment], 1e-300))]
                 found.append(piece[slowest] + 0.5 * (piece[slowest + 1] - piece[slowest]))
     points = _distinct(found, 1e-3 * diagonal)
-    return [_refined_cusp(family, point, n) for point in points]
+    return [_cusp_point(incidence, point, n) for point in points]
 
 
-def _nodes(family, pieces, n, diagonal):
+def _nodes(incidence, pieces, n, diagonal, reach=None):
     """Crossings of the projected pieces (each pair of segments; pieces are short polylines)."""
     segments, lifts = [], []
     for number, piece in enumerate(pieces):
@@ -322,7 +334,7 @@ def _nodes(family, pieces, n, diagonal):
         if all(np.linalg.norm(first[n:] - p) > 1e-3 * diagonal for p in points):
             kept.append((first, second))
             points.append(first[n:])
-    return [_refined_node(family, first, second, n) for first, second in kept]
+    return [_node_point(incidence, first, second, n, reach) for first, second in kept]
 
 
 def _distinct(points, radius):
@@ -333,19 +345,219 @@ def _distinct(points, radius):
     return kept
 
 
-def _square_parts(family):
-    """F, the polynomial det J_x F and their x-derivatives, for square members; None otherwise."""
-    n = family.n_variables
-    if family.system.n_equations != n:
-        return None
-    polynomials = [p.numeric() for p in family.system.polynomials]
-    rows = [[p.derivative(j) for j in range(n)] for p in polynomials]
-    det = determinant(rows)
-    return polynomials, rows, det
+class SingularIncidence:
+    """G = (F, the c x c minors of J_x F) as real polynomials in (x, p), ready for Newton refinement.
+
+    One place for the refinement of special points of the discriminant curve, whatever the members' dimension:
+    for square members G = (F, det J_x F); for members that are curves (more unknowns than equations) all the
+    minors, and the refining systems below are overdetermined but consistent (solved by Gauss-Newton, which
+    converges quadratically to a solution where the Jacobian has full column rank).
+
+    * cusp: {G = 0, J_x G v = 0, c . v = 1} in (x, p, v) (the tangent of S has no p-part: a vector v in x alone
+      is tangent to S; for square members J_x G v = 0 reads J_x F v = 0, grad_x det . v = 0);
+    * node: {G(x_1, p) = 0, G(x_2, p) = 0} in (x_1, x_2, p), x_1 != x_2.
+
+    Parameters
+    ----------
+    family : Family
+        Two parameters.
+    codimension : int
+    max_exact_minors : int
+        The minors are all expanded (real) when there are at most this many; otherwise :meth:`of` gives None.
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> cubic = Family(parse_system(["x^3 + p*x + q"], ["x", "p", "q"]), ("p", "q"))
+    >>> incidence = SingularIncidence.of(cubic, 1, 24)
+    >>> cusp = incidence.refined_cusp(np.array([0.01, -0.02, 0.01]), reach=0.5)
+    >>> cusp.refined, bool(np.abs(cusp.point).max() < 1e-8)
+    (True, True)
+    """
+
+    def __init__(self, incidence, n, codimension):
+        self.n = n
+        self.codimension = codimension
+        self.polynomials = [p.numeric() for p in incidence.polynomials]
+        self.values_of = BatchEvaluator(self.polynomials)
+        # the rows of J_x G, one polynomial per entry, with their own derivatives in (x, p) for the cusp's Newton
+        self.rows_of = BatchEvaluator([p.derivative(j) for p in self.polynomials for j in range(n)])
+
+    @classmethod
+    def of(cls, family, codimension, max_exact_minors):
+        """The incidence of a family, or None when its minors are not all expanded with real coefficients."""
+        n = family.n_variables
+        try:
+            # the generator is only drawn from for random combinations of minors, which are refused below
+            incidence, _ = minors_system(family.system, codimension, np.random.default_rng(0), max_exact_minors,
+                                         n_columns=n)
+        except LimitError:
+            return None
+        if not incidence.has_real_coefficients:
+            return None
+        return cls(incidence, n, codimension)
+
+    def _evaluate(self, evaluator, z):
+        values, jacobian = evaluator.evaluate(np.asarray(z, dtype=complex)[None, :])
+        return values[0].real, jacobian[0].real
+
+    def refined_cusp(self, start, reach=None):
+        """Newton from a traced point (x, p) of S near a cusp of the projection.
+
+        Parameters
+        ----------
+        start : ndarray, shape (n + 2,)
+        reach : float, optional
+            Largest accepted move in p (default 5 % of 1 + |p|: the traced accuracy of the curve tracer).
+
+        Returns
+        -------
+        CurvePoint
+        """
+        n = self.n
+        rows = len(self.polynomials)
+        _, jacobian = self._evaluate(self.values_of, start)
+        vector = np.linalg.svd(jacobian[:, :n])[2][-1]
+        normal = vector.copy()  # c with c . v = 1 at the start
+
+        def residual_and_jacobian(z):
+            x_p, v = z[:n + 2], z[n + 2:]
+            g, g_j = self._evaluate(self.values_of, x_p)
+            j, j_j = self._evaluate(self.rows_of, x_p)
+            matrix = j.reshape(rows, n)
+            second = j_j.reshape(rows, n, n + 2)  # d(dG_i/dx_k)/dz_l
+            values = np.concatenate([g, matrix @ v, [normal @ v - 1.0]])
+            top = np.hstack([g_j, np.zeros((rows, n))])
+            middle = np.hstack([np.einsum("ikl,k->il", second, v), matrix])
+            last = np.concatenate([np.zeros(n + 2), normal])[None, :]
+            return values, np.vstack([top, middle, last])
+
+        z, converged = _newton(residual_and_jacobian, np.concatenate([start, vector]))
+        moved = np.linalg.norm(z[n:n + 2] - start[n:])
+        limit = 0.05 * (1 + np.linalg.norm(start[n:])) if reach is None else reach
+        good = bool(converged and moved <= limit)
+        return CurvePoint(CurvePointKind.CUSP, (z if good else start)[n:n + 2].copy(), good)
+
+    def refined_node(self, first, second, reach=None):
+        """Newton on {G(x_1, p) = 0, G(x_2, p) = 0} from a traced crossing (two lifts (x, p) of one p).
+
+        Returns
+        -------
+        CurvePoint
+            Not ``refined`` when Newton fails, the two points meet, or p moves further than ``reach``.
+        """
+        n = self.n
+        rows = len(self.polynomials)
+
+        def residual_and_jacobian(z):
+            one, two, p = z[:n], z[n:2 * n], z[2 * n:]
+            values, jacobians = self.values_of.evaluate(np.array([np.concatenate([one, p]), np.concatenate([two, p])],
+                                                                 dtype=complex))
+            values, jacobians = values.real, jacobians.real
+            matrix = np.zeros((2 * rows, 2 * n + 2))
+            matrix[:rows, :n] = jacobians[0][:, :n]
+            matrix[rows:, n:2 * n] = jacobians[1][:, :n]
+            matrix[:rows, 2 * n:] = jacobians[0][:, n:]
+            matrix[rows:, 2 * n:] = jacobians[1][:, n:]
+            return np.concatenate([values[0], values[1]]), matrix
+
+        start = np.concatenate([first[:n], second[:n], 0.5 * (first[n:] + second[n:])])
+        z, converged = _newton(residual_and_jacobian, start)
+        apart = np.linalg.norm(z[:n] - z[n:2 * n]) > 1e-6 * (1 + np.linalg.norm(z[:n]))
+        moved = np.linalg.norm(z[2 * n:] - start[2 * n:])
+        limit = 0.05 * (1 + np.linalg.norm(start[2 * n:])) if reach is None else reach
+        good = bool(converged and apart and moved <= limit)
+        return CurvePoint(CurvePointKind.NODE, (z[2 * n:] if good else start[2 * n:]).copy(), good)
+
+
+#: The system of two singular points over one parameter value is solved when its total degree is at most this
+#: (x^4 + a x^2 + b x + 1: 144; a four-bar with two free lengths: 5,184, left out).
+MAX_PAIR_PATHS = 2000
+
+
+def _embedded(polynomial, columns, size):
+    """The polynomial with its variable j moved to position ``columns[j]`` of ``size`` variables."""
+    exponents = np.zeros((polynomial.n_terms, size), dtype=np.int64)
+    exponents[:, columns] = polynomial.exponents
+    return Polynomial(exponents, polynomial.numeric_coefficients(), size)
+
+
+def conjugate_pair_points(incidence, rng, max_paths=MAX_PAIR_PATHS):
+    """Isolated real points of the discriminant: real p whose member is singular at a conjugate pair x, conj(x) only.
+
+    A real member singular at a non-real point x is singular at conj(x) too: two conditions on p, so such values
+    are isolated points of the real plane, off the real curve of S that the tracers follow. They are among the
+    solutions of the square system {G(x_1, p) = 0, G(x_2, p) = 0} in (x_1, x_2, p), G = (F, the minors of J_x)
+    with the minors replaced by n + 1 - c real random combinations (solutions of the combinations off S are
+    dropped by the check of all minors). The diagonal x_1 = x_2 is a curve of solutions, never isolated; the real
+    p with x_2 = conj(x_1) not real are kept unless the same member also has a real singular point (then p lies
+    on a real arc).
+
+    Parameters
+    ----------
+    incidence : SingularIncidence
+    rng : numpy.random.Generator
+    max_paths : int
+        Skip (return None) when the system's total degree is larger.
+
+    Returns
+    -------
+    list of ndarray, shape (2,), or None
+        The points, sorted; None when not searched (too many paths).
+    dict
+        Tracked paths by status.
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> quartic = Family(parse_system(["x^4 + a*x^2 + b*x + 1"], ["x", "a", "b"]), ("a", "b"))
+    >>> points, _ = conjugate_pair_points(SingularIncidence.of(quartic, 1, 24), np.random.default_rng(1))
+    >>> np.round(np.array(points), 8).tolist()   # the member (x^2 + 1)^2
+    [[2.0, 0.0]]
+    """
+    n, c = incidence.n, incidence.codimension
+    equations, minors = incidence.polynomials[:c], incidence.polynomials[c:]
+    if len(minors) > n + 1 - c:
+        minors = _real_combinations(minors, n + 1 - c, rng)
+    per_copy = equations + minors
+    size = 2 * n + 2
+    first = list(range(n)) + [2 * n, 2 * n + 1]
+    second = list(range(n, 2 * n)) + [2 * n, 2 * n + 1]
+    polynomials = [_embedded(p, first, size) for p in per_copy] + [_embedded(p, second, size) for p in per_copy]
+    if math.prod(p.degree for p in polynomials) > max_paths:
+        return None, {}
+    names = [f"u{k + 1}" for k in range(2 * n)] + ["p1", "p2"]
+    solved = solve_system(PolynomialSystem(names, polynomials, name="two singular points"),
+                          seed=int(rng.integers(2 ** 63)))
+    points = np.array([s.point for s in solved.solutions if s.isolated], dtype=complex).reshape(-1, size)
+    found = []
+    if len(points):
+        p = points[:, 2 * n:]
+        real_p = np.all(np.abs(p.imag) <= REAL_TOLERANCE * (1 + np.abs(p)), axis=1)
+        full = np.array([incidence.values_of.evaluate(np.hstack([points[:, :n], p]), jacobian=False),
+                         incidence.values_of.evaluate(np.hstack([points[:, n:2 * n], p]), jacobian=False)])
+        on_s = np.all(np.linalg.norm(full, axis=2) <= 1e-8 * (1 + np.linalg.norm(points, axis=1)), axis=0)
+
+        def real(x):
+            return np.all(np.abs(x.imag) <= REAL_TOLERANCE * (1 + np.abs(x)), axis=1)
+
+        one, two = points[:, :n], points[:, n:2 * n]
+        scale = 1 + np.linalg.norm(one, axis=1)
+        conjugate = (np.linalg.norm(two - one.conj(), axis=1) <= 1e-6 * scale) & ~real(one)
+        real_singular = real_p & on_s & (real(one) | real(two))
+        for k in np.nonzero(real_p & on_s & conjugate)[0]:
+            value = p[k].real
+            same = np.linalg.norm(p.real - value, axis=1) <= 1e-6 * (1 + np.linalg.norm(value))
+            if np.any(same & real_singular):
+                continue  # the member also has a real singular point: p lies on a real arc
+            if all(np.linalg.norm(value - f) > 1e-6 * (1 + np.linalg.norm(value)) for f in found):
+                found.append(value)
+    found.sort(key=tuple)
+    return found, solved.path_counts()
 
 
 def _newton(residual_and_jacobian, start, iterations=30):
-    """Newton from ``start`` (square real systems); the point and whether it converged."""
+    """Gauss-Newton from ``start`` (real systems, square or overdetermined); the point and whether it converged."""
     z = np.array(start, dtype=float)
     for _ in range(iterations):
         values, jacobian = residual_and_jacobian(z)
@@ -362,67 +574,18 @@ def _newton(residual_and_jacobian, start, iterations=30):
     return z, bool(np.linalg.norm(values) <= _NEWTON_TOLERANCE * (1 + np.linalg.norm(z)))
 
 
-def _refined_cusp(family, point, n):
-    """Newton on {F = 0, J_x F v = 0, grad_x det . v = 0, c . v = 1} in (x, p, v) from a traced point."""
-    parts = _square_parts(family)
-    if parts is None:
-        return CurvePoint(CurvePointKind.CUSP, point[n:].copy(), False)
-    polynomials, rows, det = parts
-    values_of = BatchEvaluator(polynomials)
-    rows_of = BatchEvaluator([entry for row in rows for entry in row])
-    det_gradient = BatchEvaluator([det.derivative(j) for j in range(n)])
-    _, jacobian = values_of.evaluate(point[None, :].astype(complex))
-    vector = np.linalg.svd(jacobian[0][:, :n].real)[2][-1]
-    normal = vector.copy()  # c with c . v = 1 at the start
-
-    def residual_and_jacobian(z):
-        x_p, v = z[:n + 2], z[n + 2:]
-        f, f_j = values_of.evaluate(x_p[None, :].astype(complex))
-        j, j_j = rows_of.evaluate(x_p[None, :].astype(complex))
-        g, g_j = det_gradient.evaluate(x_p[None, :].astype(complex))
-        f, f_j, j, j_j, g, g_j = (a[0].real for a in (f, f_j, j, j_j, g, g_j))
-        matrix = j.reshape(n, n)
-        second = j_j.reshape(n, n, n + 2)  # d(dF_i/dx_k)/dz_l
-        values = np.concatenate([f, matrix @ v, [g @ v], [normal @ v - 1.0]])
-        top = np.hstack([f_j, np.zeros((n, n))])
-        middle = np.hstack([np.einsum("ikl,k->il", second, v), matrix])
-        bottom = np.hstack([v @ g_j, g])[None, :]
-        last = np.concatenate([np.zeros(n + 2), normal])[None, :]
-        return values, np.vstack([top, middle, bottom, last])
-
-    z, converged = _newton(residual_and_jacobian, np.concatenate([point, vector]))
-    moved = np.linalg.norm(z[n:n + 2] - point[n:])
-    good = converged and moved <= 0.05 * (1 + np.linalg.norm(point[n:]))
-    return CurvePoint(CurvePointKind.CUSP, (z if good else point)[n:n + 2].copy(), good)
+def _cusp_point(incidence, point, n, reach=None):
+    """A cusp refined on the incidence, or at the traced position when there is none to refine on."""
+    if incidence is None:
+        return CurvePoint(CurvePointKind.CUSP, np.asarray(point[n:], dtype=float).copy(), False)
+    return incidence.refined_cusp(np.asarray(point, dtype=float), reach)
 
 
-def _refined_node(family, first, second, n):
-    """Newton (least squares) on {G(x_1, p) = 0, G(x_2, p) = 0}, G = (F, det J_x F), from a traced crossing."""
-    parts = _square_parts(family)
-    if parts is None:
+def _node_point(incidence, first, second, n, reach=None):
+    """A node refined on the incidence, or the middle of the traced crossing."""
+    if incidence is None:
         return CurvePoint(CurvePointKind.NODE, 0.5 * (first[n:] + second[n:]), False)
-    polynomials, _, det = parts
-    incidence = BatchEvaluator(polynomials + [det])
-
-    def residual_and_jacobian(z):
-        one, two, p = z[:n], z[n:2 * n], z[2 * n:]
-        values, jacobians = incidence.evaluate(np.array([np.concatenate([one, p]), np.concatenate([two, p])],
-                                                        dtype=complex))
-        values, jacobians = values.real, jacobians.real
-        rows = n + 1
-        matrix = np.zeros((2 * rows, 2 * n + 2))
-        matrix[:rows, :n] = jacobians[0][:, :n]
-        matrix[rows:, n:2 * n] = jacobians[1][:, :n]
-        matrix[:rows, 2 * n:] = jacobians[0][:, n:]
-        matrix[rows:, 2 * n:] = jacobians[1][:, n:]
-        return np.concatenate([values[0], values[1]]), matrix
-
-    start = np.concatenate([first[:n], second[:n], 0.5 * (first[n:] + second[n:])])
-    z, converged = _newton(residual_and_jacobian, start)
-    apart = np.linalg.norm(z[:n] - z[n:2 * n]) > 1e-6 * (1 + np.linalg.norm(z[:n]))
-    moved = np.linalg.norm(z[2 * n:] - start[2 * n:])
-    good = converged and apart and moved <= 0.05 * (1 + np.linalg.norm(start[2 * n:]))
-    return CurvePoint(CurvePointKind.NODE, (z[2 * n:] if good else start[2 * n:]).copy(), good)
+    return incidence.refined_node(np.asarray(first, dtype=float), np.asarray(second, dtype=float), reach)
 
 
 def strip_blocked(arcs, left, right):

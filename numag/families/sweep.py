@@ -317,6 +317,10 @@ class SweepResult:
     seed : int
     seconds : float
     execution : dict
+    start_multiple : ndarray of complex, shape (M, n)
+        Isolated solutions of multiplicity 2 or more of the member at p* (not moved: a path through a multiple
+        point is singular all along; where that happens for a random p* the discriminant has a multiple
+        component, such as a length 0 of a linkage that enters squared). Not saved.
     """
 
     variables: tuple
@@ -329,6 +333,7 @@ class SweepResult:
     seed: int
     seconds: float
     execution: dict = field(default_factory=dict)
+    start_multiple: np.ndarray = field(default_factory=lambda: np.zeros((0, 0), dtype=complex))
 
     @property
     def failed(self):
@@ -452,6 +457,8 @@ def sweep(family, values, options=None, seed=None, progress=None, execution=None
     solutions = np.array([s.point for s in start.solutions if s.isolated and s.multiplicity == 1],
                          dtype=complex).reshape(-1, family.n_variables)
     start_failed = int(PathCounts.of(start.status).failed)
+    multiple = np.array([s.point for s in start.solutions if s.isolated and s.multiplicity > 1],
+                        dtype=complex).reshape(-1, family.n_variables)
     size = family.n_variables + 2
     total = len(values) * len(solutions)
     charge_paths(total, "the sweep's parameter homotopy")
@@ -482,7 +489,7 @@ def sweep(family, values, options=None, seed=None, progress=None, execution=None
     counts["start_failed"] = start_failed
     return SweepResult(user_family.variables, user_family.parameters, user_family.system.to_texts(), members,
                        start_parameters * p_factors, len(solutions), counts, seed, time.perf_counter() - started,
-                       description)
+                       description, multiple * x_factors)
 
 
 def _in_computed_units(family, balance):
