@@ -89,7 +89,8 @@ class Deflation:
     steps : int
         Deflation steps taken (0: the zero was regular already).
     distance : float
-        How far the point moved, in the local frame's units (the singularity's own scale).
+        How far the point moved, relative to 1 + |p| (computed units); for a kept point, how far the deflation's
+        stages had moved it when they stopped (more than rounding: the given point is off the singular point).
     residual_before, residual_after : float
         Largest scaled residual of (f, grad f) at the given and at the returned point (term sizes).
     """
@@ -267,8 +268,12 @@ def onto_singular_point(polynomial, point, seed=0):
     before = _singular_residual(f, point)
     rng = np.random.default_rng(seed)
 
+    current = np.zeros(n, dtype=complex)
+
     def kept(outcome, steps):
-        return Deflation(point, outcome, steps, 0.0, before, before)
+        # how far the stages that ran moved the point (a deflation short of regular still moves it towards p*)
+        return Deflation(point, outcome, steps, float(np.linalg.norm(current[:n]) / (1.0 + np.linalg.norm(point))),
+                         before, before)
 
     # f(p + u) whole, in the computed units: its constant and linear terms say where the singular point lies.
     # (Not in the local frame: built at a point off the singular point it is distorted by the offset -- a
@@ -279,7 +284,6 @@ def onto_singular_point(polynomial, point, seed=0):
     largest = float(np.max(np.abs(whole.numeric_coefficients()[high]), initial=0.0)) or 1.0
     whole = whole.scaled(1.0 / largest)
     equations = [whole] + [q for q in whole.gradient() if not q.is_zero()]
-    current = np.zeros(n, dtype=complex)
     steps = 0
     while True:
         current = _gauss_newton(equations, current)
