@@ -166,3 +166,25 @@ def test_a_point_off_the_singular_point_gives_no_wrong_local_picture(equation, m
     assert anatomy.multiplicity in (None, multiplicity)
     if anatomy.multiplicity is not None:
         assert sorted(b.multiplicity for b in anatomy.branches) == branches
+
+
+@pytest.mark.parametrize("seed", [1, 2, 3])
+def test_pinch_point_on_a_curved_double_curve(seed):
+    # The Whitney umbrella x^2 = y^2 z (A1 transversally along the z-axis, pinch point at the origin; common
+    # practice, no source) carried by the polynomial automorphism x -> x - z^2, which keeps every local type:
+    # its double curve becomes the parabola x = z^2, y = 0 (verified with sympy below) and the pinch point stays
+    # at the origin, where the Hessian's rank drops (the search of decision 0053 is not restricted to lines).
+    sympy = pytest.importorskip("sympy")
+    x, y, z = sympy.symbols("x y z")
+    f = (x - z**2)**2 - y**2 * z
+    solutions = sympy.solve([f] + [sympy.diff(f, v) for v in (x, y, z)], [x, y, z], dict=True)
+    assert solutions and all(s[y] == 0 and sympy.simplify(s[x] - s.get(z, z)**2) == 0 for s in solutions)
+
+    system = parse_system(["(x - z^2)^2 - y^2*z"], ["x", "y", "z"])
+    locus = numag.singular_locus(system, seed=seed)
+    curves = [c for c in locus.components if c.dimension == 1]
+    assert [c.degree for c in curves] == [2]
+    anatomy = component_anatomy(system, curves[0], seed=seed)
+    assert anatomy.transversal.hypersurface.type.label == "A1"
+    assert anatomy.special_points_searched
+    assert [np.abs(p.point).max() < 1e-8 for p in anatomy.special_points] == [True]

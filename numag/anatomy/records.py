@@ -279,6 +279,9 @@ class PointAnatomy:
     notes : list of str
     seconds : float
         Time spent on this point.
+    moved_by : float or None
+        How far (user's units) the given point was moved onto the singular point before it was read (one
+        equation); None when it was read where it was given.
     """
 
     point: np.ndarray
@@ -289,6 +292,7 @@ class PointAnatomy:
     motion: object = None
     notes: list = field(default_factory=list)
     seconds: float = 0.0
+    moved_by: object = None
 
     @property
     def real_branches(self):
@@ -330,7 +334,7 @@ class PointAnatomy:
                 "branches": None if self.branches is None else [b.to_dict() for b in self.branches],
                 "real_branches": self.real_branches,
                 "motion": None if self.motion is None else self.motion.value, "sentence": self.sentence,
-                "notes": list(self.notes), "seconds": float(self.seconds)}
+                "notes": list(self.notes), "seconds": float(self.seconds), "moved_by": self.moved_by}
 
     @classmethod
     def from_dict(cls, data):
@@ -338,7 +342,7 @@ class PointAnatomy:
                    None if data["hypersurface"] is None else HypersurfaceAnatomy.from_dict(data["hypersurface"]),
                    None if data["branches"] is None else [Branch.from_dict(b) for b in data["branches"]],
                    None if data["motion"] is None else Motion(data["motion"]), list(data["notes"]),
-                   float(data["seconds"]))
+                   float(data["seconds"]), _optional(data.get("moved_by"), float))
 
 
 @dataclass

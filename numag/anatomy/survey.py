@@ -31,6 +31,7 @@ from ..numeric.seeds import random_state
 from ..witness.decompose import decompose
 from .frame import cube_root_direction, kernel_cubic
 from .hypersurface import anatomy_in_frame, hessian_evidence
+from .deflation import DeflationOutcome, onto_singular_point
 from .local import LocalOptions, LocalPicture, hypersurface_witness, local_picture, order_radius, orbit_tangent
 from .records import Branch, ComponentAnatomy, Family, Motion, PointAnatomy, SingularityType, TypeTest
 
@@ -58,10 +59,14 @@ class AnatomyOptions:
         Radii, loop steps and tracker of the local witness sets.
     special_points : bool
         Search the points where the transversal type changes along singular components.
+    onto_singular_point : bool
+        Move a hypersurface's point onto the singular point by deflation before its type and picture are read
+        (decision 0068); off, the point is taken as exact.
     """
 
     local: LocalOptions = field(default_factory=LocalOptions)
     special_points: bool = True
+    onto_singular_point: bool = True
 
 
 @dataclass
@@ -213,6 +218,15 @@ def point_anatomy(system, point, seed=None, decomposition=None, angles=None, loc
 
 def _hypersurface_point(polynomial, computed, user_point, scaling, rng, real, angles, options):
     n = polynomial.n_variables
+    deflation = None
+    if options.onto_singular_point:
+        # read at a point off the singular point, the Taylor coefficients are those of a neighbouring function
+        # (a cusp read 1e-10 off is a node): the type and the picture are read at the point deflation finds
+        deflation = onto_singular_point(polynomial, computed)  # its own fixed seed: the slices draw as before
+        if deflation.moved:
+            moved = scaling.to_user(deflation.point[None, :])[0]
+            moved_by = float(np.linalg.norm(moved - user_point))
+            computed, user_point = deflation.point, moved
     # the local witness set in the local frame too: its radius is then in units of the singularity's own
     # scale (in the computed units a change of condition 1e3 put it outside the cusp of A4: two branches)
     hypersurface, frame = anatomy_in_frame(polynomial, computed)
@@ -230,6 +244,14 @@ def _hypersurface_point(polynomial, computed, user_point, scaling, rng, real, an
                             unresolved=frame.unresolved)
     anatomy = _picture_anatomy(picture, scaling, origin, user_point, n - 1, angles, real, frame)
     anatomy.hypersurface = hypersurface
+    if deflation is not None:
+        if deflation.moved:
+            anatomy.moved_by = moved_by
+            if deflation.steps:
+                anatomy.notes.append(f"moved onto the singular point by {moved_by:.2g} ({deflation.steps} "
+                                     f"deflation step{'s' if deflation.steps > 1 else ''})")
+        elif deflation.outcome is not DeflationOutcome.ALREADY_THERE:
+            anatomy.notes.append(f"read at the given point: {deflation.outcome.value}")
     expected = _plane_branches(anatomy.hypersurface.type) if n == 2 else None
     if expected is not None and anatomy.branches is not None:
         found = sorted(b.multiplicity for b in anatomy.branches)

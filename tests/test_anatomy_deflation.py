@@ -1,0 +1,76 @@
+"""Moving a point given off an isolated hypersurface singularity onto it by deflation (decision 0068)."""
+
+import numpy as np
+import pytest
+
+from numag.system.parse import parse_system
+from numag.anatomy.deflation import DeflationOutcome, onto_singular_point
+from numag.anatomy.survey import AnatomyOptions, point_anatomy
+from numag.numeric.scaling import Scaling
+
+from test_anatomy import moved
+
+# Normal forms of simple plane curve singularities and their types (Arnold, "Normal forms of functions near
+# degenerate critical points, the Weyl groups A_k, D_k, E_k and Lagrangian singularities", Funct. Anal. Appl.
+# 6, 1972); each is singular exactly at the origin (common practice: the gradient of a quasi-homogeneous f
+# with an isolated critical point vanishes only there, near it), so after the placement of ``moved`` the
+# singular point is the ``point`` it returns.
+FORMS = [("y^2 - x^3", "A2"), ("y^2 - x^4", "A3"), ("y^2 - x^5", "A4"), ("x^2*y - y^3", "D4"),
+         ("x^2*y + y^4", "D5"), ("x^3 + y^4", "E6"), ("x^3 + x*y^3", "E7")]
+
+
+def _off(point, seed, relative=1e-10):
+    return point + relative * np.abs(point) * np.random.default_rng(seed + 77).standard_normal(len(point))
+
+
+def test_points_off_by_1e_10_are_moved_onto_the_singular_point():
+    # off by 1e-10 relative, a moved point lands on the singular point to about rounding (measured 2e-16..3e-15
+    # relative, D5 at seed 3 2e-13; asserted 1e-11, between that and the offset); a kept one is returned unchanged.
+    # Measured: 20 of the 21 placements moved (A4 at seed 3 kept: a rank of its second step unclear).
+    moved_count = 0
+    for equation, _ in FORMS:
+        for seed in (1, 2, 3):
+            system, point = moved(equation, ["x", "y"], seed)
+            scaling = Scaling.balancing(system)
+            f = scaling.scale_system(system).polynomials[0].numeric()
+            start = scaling.to_computed(_off(point, seed))
+            result = onto_singular_point(f, start)
+            if not result.moved:
+                assert np.array_equal(result.point, start)
+                continue
+            moved_count += 1
+            assert result.outcome is DeflationOutcome.MOVED and result.steps >= 1
+            found = scaling.to_user(result.point[None, :])[0]
+            assert np.abs(found - point).max() <= 1e-11 * np.abs(point).max(), (equation, seed)
+    assert moved_count >= 18
+
+
+def test_a_morse_point_needs_no_deflation():
+    # x^2 + y^2 has a nondegenerate critical point at 0 (A1): Newton on the gradient converges quadratically
+    f = parse_system(["x^2 + y^2"], ["x", "y"]).polynomials[0].numeric()
+    result = onto_singular_point(f, np.array([1e-9, -2e-9]))
+    assert result.outcome is DeflationOutcome.REGULAR_START and result.steps == 0
+    assert np.abs(result.point).max() < 1e-15
+
+
+def test_a_smooth_point_is_not_moved():
+    # (1, 1) is a smooth point of the cusp y^2 = x^3 (gradient (-3, 2)); its singular point lies at distance
+    # sqrt(2), far beyond the local frame: the point is kept and the outcome says why
+    f = parse_system(["y^2 - x^3"], ["x", "y"]).polynomials[0].numeric()
+    result = onto_singular_point(f, np.array([1.0, 1.0]))
+    assert not result.moved
+    assert np.array_equal(result.point, [1.0, 1.0])
+
+
+@pytest.mark.parametrize("seed", [1, 2, 4])
+@pytest.mark.parametrize("equation, label", [("y^2 - x^4", "A3"), ("x^3 + x*y^3", "E7")])
+def test_types_read_at_a_point_off_the_singular_point(equation, label, seed):
+    # Arnold 1972 (see FORMS). Read where it was given (1e-10 off), the tacnode was taken for a cusp (A2) and
+    # E7 for A7 or D4 (decision 0068's measurements); moved onto the singular point first it is read right.
+    system, point = moved(equation, ["x", "y"], seed)
+    anatomy = point_anatomy(system, _off(point, seed), seed=seed)
+    assert anatomy.hypersurface.type.label == label
+    assert anatomy.moved_by is not None and anatomy.moved_by <= 1e-8 * np.abs(point).max()
+    assert np.abs(anatomy.point - point).max() <= 1e-12 * np.abs(point).max()
+    kept = point_anatomy(system, _off(point, seed), seed=seed, options=AnatomyOptions(onto_singular_point=False))
+    assert kept.moved_by is None and np.array_equal(kept.point, _off(point, seed))
