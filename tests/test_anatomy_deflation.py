@@ -74,3 +74,14 @@ def test_types_read_at_a_point_off_the_singular_point(equation, label, seed):
     assert np.abs(anatomy.point - point).max() <= 1e-12 * np.abs(point).max()
     kept = point_anatomy(system, _off(point, seed), seed=seed, options=AnatomyOptions(onto_singular_point=False))
     assert kept.moved_by is None and np.array_equal(kept.point, _off(point, seed))
+
+
+def test_a_point_kept_off_the_singular_point_is_flagged_and_one_kept_at_it_is_not():
+    # the rule behind TypeTest.POINT_OFF (common practice, no source): a point the deflation could not move is
+    # read only when (f, grad f) vanish there to rounding
+    from numag.anatomy.deflation import ROUNDING_RESIDUAL, Deflation, DeflationOutcome
+    point = np.zeros(2, dtype=complex)
+    off = Deflation(point, DeflationOutcome.NOT_REGULAR, 3, 1e-9, 1e3 * ROUNDING_RESIDUAL, 1e3 * ROUNDING_RESIDUAL)
+    at = Deflation(point, DeflationOutcome.NOT_REGULAR, 3, 1e-9, 1e-3 * ROUNDING_RESIDUAL, 1e-3 * ROUNDING_RESIDUAL)
+    moved = Deflation(point, DeflationOutcome.MOVED, 2, 1e-9, 1e3 * ROUNDING_RESIDUAL, 1e-16)
+    assert off.kept_off and not at.kept_off and not moved.kept_off

@@ -42,7 +42,7 @@ from ..numeric.refine import project_to_variety
 from ..system.polynomial import Polynomial, PolynomialSystem
 from .hypersurface import HESSIAN_ZERO
 
-__all__ = ["Deflation", "DeflationOutcome", "onto_singular_point", "deflated_system"]
+__all__ = ["Deflation", "DeflationOutcome", "onto_singular_point", "deflated_system", "ROUNDING_RESIDUAL"]
 
 #: A value of the current system's Jacobian (rows divided by their term sizes) above HESSIAN_ZERO but below this
 #: many times it leaves the rank unclear: the point is left where it was given.
@@ -61,7 +61,7 @@ _SINGULAR = 1e-8
 #: A move of at most this (relative to 1 + |p|) is rounding: the given point is kept as the singular point.
 _ROUNDING_MOVE = 1e-14
 #: Residuals of (f, grad f) below this are rounding: the moved point is not judged worse by them.
-_ROUNDING_RESIDUAL = 1e-12
+ROUNDING_RESIDUAL = 1e-12
 
 
 class DeflationOutcome(enum.Enum):
@@ -105,6 +105,13 @@ class Deflation:
     @property
     def moved(self):
         return self.outcome in (DeflationOutcome.MOVED, DeflationOutcome.REGULAR_START)
+
+    @property
+    def kept_off(self):
+        """The point was kept although it is not the singular point to rounding (its scaled residual of
+        (f, grad f) is above rounding): the Taylor coefficients there are those of a neighbouring function."""
+        return not self.moved and self.outcome is not DeflationOutcome.ALREADY_THERE \
+            and self.residual_before > ROUNDING_RESIDUAL
 
 
 def _padded(polynomial, n_variables):
@@ -314,7 +321,7 @@ def onto_singular_point(polynomial, point, seed=0):
         return kept(DeflationOutcome.ALREADY_THERE, steps)
     found = point + u
     after = _singular_residual(f, found)
-    if after > max(before, _ROUNDING_RESIDUAL):
+    if after > max(before, ROUNDING_RESIDUAL):
         # both at rounding level (1e-17..1e-15) is no evidence either way: comparing them flipped D6 and E7
         return kept(DeflationOutcome.NO_BETTER, steps)
     if after > _SINGULAR:

@@ -54,6 +54,8 @@ class TypeTest(Enum):
                         "reach of double precision in these coordinates, undecided")
     CUBIC_ROOTS_CLOSE = "mu is 4 but two roots of the kernel cubic nearly coincide: D4 not confirmed, undecided"
     BRANCHES_DISAGREE = "the local branches contradict the type found from corank and mu: undecided"
+    POINT_OFF = ("the point is off the singular point by more than rounding and could not be moved onto it: "
+                 "what is read there belongs to a neighbouring function, undecided")
     COUNTS_DISAGREE = ("mu from the local dual space and mu from the gradient's paths disagree (or the paths "
                        "give no clear count): undecided")
 
@@ -175,7 +177,8 @@ class HypersurfaceAnatomy:
         n minus the rank of the Hessian.
     hessian : HessianEvidence
     milnor : int or None
-        mu: the multiplicity of the point as a zero of grad f (local dual space); None when infinite.
+        mu: the multiplicity of the point as a zero of grad f (local dual space); None when infinite
+        (``decided_by`` is MILNOR_INFINITE) or undecided (the other undecided tests).
     tjurina : int or None
         tau: the same for (f, grad f).
     quasi_homogeneous : bool or None

@@ -252,6 +252,12 @@ def _hypersurface_point(polynomial, computed, user_point, scaling, rng, real, an
                                      f"deflation step{'s' if deflation.steps > 1 else ''})")
         elif deflation.outcome is not DeflationOutcome.ALREADY_THERE:
             anatomy.notes.append(f"read at the given point: {deflation.outcome.value}")
+    if deflation is not None and deflation.kept_off and anatomy.hypersurface.corank > 0:
+        # read off the singular point, mu, tau and the type are those of a neighbouring function (an A5 read 1e-10
+        # off is an A4): none of them is reported (a Morse point, corank 0, is stable under the offset)
+        _undecided(anatomy.hypersurface, TypeTest.POINT_OFF)
+        anatomy.notes.append(f"the point is off the singular point (scaled residual of (f, grad f) "
+                             f"{deflation.residual_before:.1e}) and was not moved onto it: type, mu and tau undecided")
     expected = _plane_branches(anatomy.hypersurface.type) if n == 2 else None
     if expected is not None and anatomy.branches is not None:
         found = sorted(b.multiplicity for b in anatomy.branches)
@@ -260,8 +266,8 @@ def _hypersurface_point(polynomial, computed, user_point, scaling, rng, real, an
             # is reported as the type
             anatomy.notes.append(f"the type {anatomy.hypersurface.type.label} has branches of multiplicities "
                                  f"{expected}, the local monodromy found {found}: type undecided")
-            anatomy.hypersurface.type = SingularityType(Family.UNDECIDED, None)
-            anatomy.hypersurface.decided_by = TypeTest.BRANCHES_DISAGREE
+            # mu and tau were read by the same frame that gave the contradicted type: not reported either
+            _undecided(anatomy.hypersurface, TypeTest.BRANCHES_DISAGREE)
     if anatomy.hypersurface.type.family is Family.UNDECIDED and anatomy.motion is not None:
         # the branches are one of two independent readings of the point, and the other one did not settle
         # (the type is undecided): what they allow a mechanism (switch, pass, locked) is not said
@@ -270,6 +276,13 @@ def _hypersurface_point(polynomial, computed, user_point, scaling, rng, real, an
     if anatomy.hypersurface.corank == 0 and anatomy.multiplicity not in (None, 2):
         anatomy.notes.append(f"a Morse point has multiplicity 2, the local witness set counted {anatomy.multiplicity}")
     return anatomy
+
+
+def _undecided(hypersurface, test):
+    """Set a hypersurface reading to undecided by ``test``: no type, and no mu, tau or quasi-homogeneity."""
+    hypersurface.type = SingularityType(Family.UNDECIDED, None)
+    hypersurface.decided_by = test
+    hypersurface.milnor = hypersurface.tjurina = hypersurface.quasi_homogeneous = None
 
 
 def _plane_branches(kind):

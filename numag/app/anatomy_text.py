@@ -12,6 +12,7 @@ Examples
 
 import numpy as np
 
+from ..anatomy.records import TypeTest
 from ..system.display import counted
 from .commands.common import _format_point
 
@@ -38,8 +39,10 @@ def write_point_anatomy(anatomy, names, out, indent="        "):
     if h is not None:
         qh = "" if h.quasi_homogeneous is None else (", quasi-homogeneous" if h.quasi_homogeneous
                                                        else ", not quasi-homogeneous")
-        mu = "infinite" if h.milnor is None else str(h.milnor)
-        tau = "infinite" if h.tjurina is None else str(h.tjurina)
+        # None is infinite for a non-isolated singularity, and undecided where the reading was not trusted
+        unknown = "infinite" if h.decided_by is TypeTest.MILNOR_INFINITE else "undecided"
+        mu = unknown if h.milnor is None else str(h.milnor)
+        tau = unknown if h.tjurina is None else str(h.tjurina)
         paths = "" if h.milnor_by_paths is None else f" ({h.milnor_by_paths} by homotopy paths)"
         out.write(f"{indent}type {h.type.label}: Hessian corank {h.corank}, Milnor number {mu}{paths}, Tjurina number "
                   f"{tau}{qh}\n")
