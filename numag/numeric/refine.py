@@ -25,12 +25,13 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from ..kinds import TextEnum
 from ..system.polynomial import Polynomial, PolynomialSystem
 from .evaluate import BatchEvaluator, PrecisionEvaluator, TermSizes
 from .minors import AugmentedEvaluator
 from .linalg import batched_least_squares, mp_least_squares, mp_right_singular_vectors, scaled_singular_values
 
-__all__ = ["ProjectionResult", "project_to_variety", "mp_gauss_newton", "RankDropSystem", "IsolationTest",
+__all__ = ["ProjectionResult", "project_to_variety", "ZeroKind", "ZeroTest", "newton_zero_test", "mp_gauss_newton", "RankDropSystem", "IsolationTest",
            "scaled_residual_norm", "largest_scaled_residual", "RankDropResult", "rank_drop_points"]
 
 #: Step fractions a precision Gauss-Newton step tries before it stops for lack of progress.
@@ -163,6 +164,100 @@ def project_to_variety(system, evaluator, points, tolerance=1e-13, max_iteration
         active[index] = better & (residual[index] > tolerance) & ~tiny_step
     distances = np.linalg.norm(current - start, axis=1)
     return ProjectionResult(current, residual <= tolerance, residual, distances, iterations)
+
+
+#: Scaled residual within the rounding of double-precision evaluation (with a margin): a point Newton leaves
+#: there is a zero as far as double precision can tell.
+ROUNDING_RESIDUAL = 1e-11
+#: A Gauss-Newton run that ends above :data:`ROUNDING_RESIDUAL` with at least this fraction of the residual it
+#: started with has not been explained by the linear model: no zero is near (decision 0064). At a zero of
+#: multiplicity m each step divides the residual by at least e = 2.718... (by (m / (m - 1))^m), over a run by
+#: orders of magnitude; at a stationary point of |F| off V(F) the step is 0 and the ratio stays near 1.
+_NOT_EXPLAINED_RATIO = 0.5
+
+
+class ZeroKind(TextEnum):
+    """What Newton's method says about a point as a zero of a system (decision 0064)."""
+
+    ZERO = "zero"                  # refined to the rounding of double precision
+    NOT_A_ZERO = "not a zero"      # Newton could not even halve the residual: a stationary point of |F| off V(F)
+    UNDECIDED = "undecided"        # the residual fell, but not to rounding (a singular zero Newton cannot finish)
+
+
+@dataclass
+class ZeroTest:
+    """Result of :func:`newton_zero_test` (one entry per point).
+
+    Attributes
+    ----------
+    points : ndarray, shape (P, n)
+        The refined points.
+    kinds : list of ZeroKind
+    before, after : ndarray, shape (P,)
+        Scaled residuals (Euclidean norm, :func:`scaled_residual_norm`) at the given and at the refined points.
+    distances : ndarray, shape (P,)
+        How far refinement moved each point.
+    """
+
+    points: np.ndarray
+    kinds: list
+    before: np.ndarray
+    after: np.ndarray
+    distances: np.ndarray
+
+    def mask(self, kind):
+        """Boolean mask of the points of one :class:`ZeroKind`."""
+        return np.array([k is kind for k in self.kinds], dtype=bool)
+
+
+def newton_zero_test(system, evaluator, points, sizes=None, max_iterations=60):
+    """Whether each point is a zero of the system, by what Newton's method does there, not by a residual bound.
+
+    A residual bound needs a unit: terms are sized at max(|x_j|, 1) (:class:`TermSizes`), and a feature much
+    smaller than that unit (a loop of size 1e-2 whose centre is a zero of F's derivatives, where F is a few
+    1e-8 of its terms) passes any bound that lets through the endpoints of tracked paths. What Newton does does
+    not depend on the unit: near a zero, regular or multiple, the linear model explains the residual and
+    Gauss-Newton drives it down to rounding; at a stationary point of |F| off V(F) the step vanishes and the
+    residual stays. A point is a :attr:`ZeroKind.ZERO` when refinement leaves its scaled residual within
+    rounding (:data:`ROUNDING_RESIDUAL`), :attr:`ZeroKind.NOT_A_ZERO` when the residual ends above rounding at
+    half or more of what it started at, and :attr:`ZeroKind.UNDECIDED` otherwise. Below rounding double
+    precision cannot tell a zero from a feature smaller than about the square root of the rounding (relative to
+    the unit): such points count as zeros.
+
+    Parameters
+    ----------
+    system : PolynomialSystem
+    evaluator : BatchEvaluator
+        Of ``system.polynomials`` (or with more rows, then give ``sizes``).
+    points : ndarray, shape (P, n)
+    sizes : TermSizes, optional
+        As in :func:`project_to_variety`.
+    max_iterations : int
+
+    Returns
+    -------
+    ZeroTest
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> # the critical point (-1/150, 0) of a small loop: f_x = f_y = 0 there, f is 1.5e-5 (a few 1e-7 of its terms)
+    >>> system = parse_system(["x^2 - y^2 + 100*x^3", "2*x + 300*x^2", "-2*y"], ["x", "y"])
+    >>> test = newton_zero_test(system, BatchEvaluator(system.polynomials), np.array([[-1 / 150, 1e-9], [1e-9, 0]]))
+    >>> [str(kind) for kind in test.kinds]
+    ['not a zero', 'zero']
+    """
+    points = np.atleast_2d(np.asarray(points, dtype=complex))
+    sizes = TermSizes(system.polynomials, system.projective) if sizes is None else sizes
+    before, _, _ = scaled_residual_norm(sizes, evaluator, points)
+    result = project_to_variety(system, evaluator, points, max_iterations=max_iterations, sizes=sizes)
+    after = result.residuals
+    with np.errstate(invalid="ignore"):
+        zero = np.isfinite(after) & (after <= ROUNDING_RESIDUAL)
+        unexplained = ~zero & ~(after < _NOT_EXPLAINED_RATIO * before)
+    kinds = [ZeroKind.ZERO if z else ZeroKind.NOT_A_ZERO if u else ZeroKind.UNDECIDED
+             for z, u in zip(zero, unexplained)]
+    return ZeroTest(result.points, kinds, before, after, result.distances)
 
 
 def mp_gauss_newton(function, start, ctx, tolerance, max_iterations=80, anchored=False):
