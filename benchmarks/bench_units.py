@@ -1,6 +1,6 @@
 """Residual tests that do not depend on the unit (decision 0064): systems x units x seeds.
 
-Run:  python benchmarks/bench_units.py [--quick] [--seeds 1 2 3] [--units 1e-3 1 1e3]
+Run:  python benchmarks/bench_units.py [--quick] [--seeds 1 2 3] [--units 1/1000 1 1000] [--start polyhedral]
 
 Each geometry is written with its lengths multiplied by a unit u (x -> x / u: the same curve in
 millimetres, metres, kilometres), exact rational coefficients unless the name says "doubles". Per run:
@@ -8,7 +8,8 @@ the singular points found against the number the construction has, the candidate
 whether the run warns (exit 3 on the command line) and the check's verdicts at known points (the centre
 of an ellipse is off the curve; a point of the curve is smooth; a node or cusp is singular). A run is
 "right" when the count is the construction's, no warning is raised and every check verdict is the
-expected one; "undecided" when it warns and nothing reported is false; "wrong" otherwise.
+expected one; "undecided" when it warns and nothing reported is false; "wrong" otherwise. "newton": witness
+points a residual bound would have kept that Newton's method refused (not a zero) / kept while still undecided.
 
 Geometries (their singular points by construction; common practice, no source):
 - tiny ellipse: ((x - 1/10) / a)^2 + ((y + 1/20) / (2 a))^2 = 1, a = 6/1000: smooth, centre off X.
@@ -36,6 +37,7 @@ from numag.app.report import completeness_warnings, singular_to_dict
 from numag.singular.locus import SingularOptions
 from numag.system.parse import parse_system
 from numag.system.polynomial import PolynomialSystem
+from numag.tracking.starts import StartKind
 
 
 def _q(value):
@@ -94,12 +96,13 @@ GEOMETRIES = {
 }
 
 
-def run(name, unit, seed):
+def run(name, unit, seed, start="total-degree"):
     """One row of the table (a dict)."""
     system, expected, checks = GEOMETRIES[name](Fraction(unit))
     started = time.perf_counter()
-    locus = singular_locus(system, seed=seed)
-    warnings = completeness_warnings(singular_to_dict(locus, SingularOptions()))
+    options = SingularOptions(start=StartKind.parse(start))
+    locus = singular_locus(system, options, seed=seed)
+    warnings = completeness_warnings(singular_to_dict(locus, options))
     found = len(locus.isolated())
     report = check_points(system, [point for point, _ in checks], seed=seed)
     verdicts = [v.verdict.value for v in report.points]
@@ -111,7 +114,8 @@ def run(name, unit, seed):
     else:
         outcome = "wrong"
     return {"found": found, "expected": expected, "dropped": dict(locus.discarded), "warnings": len(warnings),
-            "checks": "/".join(verdicts), "outcome": outcome, "seconds": time.perf_counter() - started}
+            "checks": "/".join(verdicts), "outcome": outcome, "seconds": time.perf_counter() - started,
+            "newton": f"{locus.paths.get('residual_not_explained', 0)}/{locus.paths.get('zero_undecided', 0)}"}
 
 
 def main():
@@ -120,20 +124,22 @@ def main():
     parser.add_argument("--units", type=str, nargs="+", default=["1/1000", "1", "1000"])
     parser.add_argument("--quick", action="store_true", help="seed 1 only")
     parser.add_argument("--only", type=str, default=None, help="geometries whose name contains this")
+    parser.add_argument("--start", type=str, default="total-degree",
+                        help="the singular locus's start (multihomogeneous, polyhedral: square null-vector systems)")
     args = parser.parse_args()
     seeds = args.seeds[:1] if args.quick else args.seeds
     print(f"{'geometry':24s} {'unit':>6s} {'seed':>4s} {'found':>5s} {'exp':>3s} {'warn':>4s} "
-          f"{'checks':18s} {'outcome':9s} {'s':>5s}  dropped")
+          f"{'checks':18s} {'outcome':9s} {'s':>5s} {'newton':>6s}  dropped")
     totals = collections.Counter()
     for name in GEOMETRIES:
         if args.only and args.only not in name:
             continue
         for unit in args.units:
             for seed in seeds:
-                row = run(name, unit, seed)
+                row = run(name, unit, seed, args.start)
                 totals[row["outcome"]] += 1
                 print(f"{name:24s} {float(Fraction(unit)):6.0e} {seed:4d} {row['found']:5d} {row['expected']:3d} "
-                      f"{row['warnings']:4d} {row['checks']:18s} {row['outcome']:9s} {row['seconds']:5.1f}  "
+                      f"{row['warnings']:4d} {row['checks']:18s} {row['outcome']:9s} {row['seconds']:5.1f} {row['newton']:>6s}  "
                       f"{row['dropped'] or ''}", flush=True)
     print("totals:", dict(totals))
 

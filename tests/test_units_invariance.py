@@ -54,12 +54,23 @@ def test_newton_tells_a_stationary_point_of_the_residual_from_a_zero():
     system = parse_system(["x^2 - y^2 + 100*x^3", "2*x + 300*x^2", "-2*y"], ["x", "y"])
     evaluator = BatchEvaluator(system.polynomials)
     rng = np.random.default_rng(7)
-    for _ in range(3):
-        offsets = 1e-9 * (rng.standard_normal((2, 2)) + 1j * rng.standard_normal((2, 2)))
+    for distance in (1e-9, 1e-6, 1e-4):  # however far the start: the residual of the offset goes, f's value stays
+        offsets = distance * (rng.standard_normal((2, 2)) + 1j * rng.standard_normal((2, 2)))
         test = newton_zero_test(system, evaluator, np.array([[-1 / 150, 0], [0, 0]]) + offsets)
         assert test.kinds == [ZeroKind.NOT_A_ZERO, ZeroKind.ZERO]
         assert test.after[0] > 1e-9 and test.after[1] < 1e-11
         assert np.linalg.norm(test.points[1]) < 1e-7  # the node, refined
+
+
+def test_newton_not_finished_near_a_multiple_zero_is_undecided():
+    # Construction: the cusp's system (f, f_x, f_y) = (y^2 - x^3, -3 x^2, 2 y) from (1e-3, 1e-3): Newton converges
+    # linearly in x (the residual 3 x^2 falls by 4 per step); after 3 steps it is still 1e-8, far above rounding,
+    # and the linear model explains it: undecided, not "not a zero". Given 60 steps it reaches rounding: a zero.
+    system = parse_system(["y^2 - x^3", "-3*x^2", "2*y"], ["x", "y"])
+    evaluator = BatchEvaluator(system.polynomials)
+    start = np.array([[1e-3, 1e-3]])
+    assert newton_zero_test(system, evaluator, start, max_iterations=3).kinds == [ZeroKind.UNDECIDED]
+    assert newton_zero_test(system, evaluator, start).kinds == [ZeroKind.ZERO]
 
 
 @pytest.mark.parametrize("seed", SEEDS)

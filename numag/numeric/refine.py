@@ -31,7 +31,7 @@ from .evaluate import BatchEvaluator, PrecisionEvaluator, TermSizes
 from .minors import AugmentedEvaluator
 from .linalg import batched_least_squares, mp_least_squares, mp_right_singular_vectors, scaled_singular_values
 
-__all__ = ["ProjectionResult", "project_to_variety", "ZeroKind", "ZeroTest", "newton_zero_test", "mp_gauss_newton", "RankDropSystem", "IsolationTest",
+__all__ = ["ProjectionResult", "project_to_variety", "ZeroKind", "ZeroTest", "newton_zero_test", "explained_share", "mp_gauss_newton", "RankDropSystem", "IsolationTest",
            "scaled_residual_norm", "largest_scaled_residual", "RankDropResult", "rank_drop_points"]
 
 #: Step fractions a precision Gauss-Newton step tries before it stops for lack of progress.
@@ -169,19 +169,50 @@ def project_to_variety(system, evaluator, points, tolerance=1e-13, max_iteration
 #: Scaled residual within the rounding of double-precision evaluation (with a margin): a point Newton leaves
 #: there is a zero as far as double precision can tell.
 ROUNDING_RESIDUAL = 1e-11
-#: A Gauss-Newton run that ends above :data:`ROUNDING_RESIDUAL` with at least this fraction of the residual it
-#: started with has not been explained by the linear model: no zero is near (decision 0064). At a zero of
-#: multiplicity m each step divides the residual by at least e = 2.718... (by (m / (m - 1))^m), over a run by
-#: orders of magnitude; at a stationary point of |F| off V(F) the step is 0 and the ratio stays near 1.
-_NOT_EXPLAINED_RATIO = 0.5
+#: A Gauss-Newton run that ends above :data:`ROUNDING_RESIDUAL` with less than this share of the residual in the
+#: range of the Jacobian has not been explained by the linear model: no zero is near (decision 0064). Measured:
+#: stationary points of |F| 1e-15 to 1e-10, points near zeros (a tacnode's stalled ones included) 1.0.
+_EXPLAINED_SHARE = 1e-2
+#: Singular values of J below this fraction of the largest span no direction of the range (rounding).
+_RANGE_RCOND = 1e-13
+
+
+def explained_share(jacobians, values):
+    """The share |P F| / |F| of each residual in the range of its Jacobian (P the orthogonal projection).
+
+    Parameters
+    ----------
+    jacobians : ndarray, shape (P, m, n)
+    values : ndarray, shape (P, m)
+
+    Returns
+    -------
+    ndarray, shape (P,)
+        1 where the linear model can explain the whole residual, 0 at a stationary point of |F|
+        (J^H F = 0); 1 where F is 0.
+
+    Examples
+    --------
+    >>> jacobians = np.array([[[0.0, 0.0], [2.0, 0.0], [0.0, 2.0]], [[1.0, 0.0], [0.0, 1.0], [0.0, 0.0]]])
+    >>> explained_share(jacobians, np.array([[1e-5, 0, 0], [1.0, 1.0, 0.0]])).round(12).tolist()
+    [0.0, 1.0]
+    """
+    jacobians, values = np.asarray(jacobians), np.asarray(values)
+    left, singular, _ = np.linalg.svd(jacobians, full_matrices=False)
+    keep = singular > _RANGE_RCOND * singular[:, :1]
+    coefficients = np.einsum("pmk,pm->pk", left.conj(), values) * keep
+    norms = np.linalg.norm(values, axis=1)
+    with np.errstate(invalid="ignore", divide="ignore"):
+        share = np.linalg.norm(coefficients, axis=1) / norms
+    return np.where(norms > 0, share, 1.0)
 
 
 class ZeroKind(TextEnum):
     """What Newton's method says about a point as a zero of a system (decision 0064)."""
 
     ZERO = "zero"                  # refined to the rounding of double precision
-    NOT_A_ZERO = "not a zero"      # Newton could not even halve the residual: a stationary point of |F| off V(F)
-    UNDECIDED = "undecided"        # the residual fell, but not to rounding (a singular zero Newton cannot finish)
+    NOT_A_ZERO = "not a zero"      # refinement ends at a stationary point of |F| off V(F): the residual unexplained
+    UNDECIDED = "undecided"        # explained by the linear model, not brought to rounding (a multiple zero)
 
 
 @dataclass
@@ -219,8 +250,10 @@ def newton_zero_test(system, evaluator, points, sizes=None, max_iterations=60):
     not depend on the unit: near a zero, regular or multiple, the linear model explains the residual and
     Gauss-Newton drives it down to rounding; at a stationary point of |F| off V(F) the step vanishes and the
     residual stays. A point is a :attr:`ZeroKind.ZERO` when refinement leaves its scaled residual within
-    rounding (:data:`ROUNDING_RESIDUAL`), :attr:`ZeroKind.NOT_A_ZERO` when the residual ends above rounding at
-    half or more of what it started at, and :attr:`ZeroKind.UNDECIDED` otherwise. Below rounding double
+    rounding (:data:`ROUNDING_RESIDUAL`), :attr:`ZeroKind.NOT_A_ZERO` when refinement ends above rounding with
+    almost none of the residual in the range of the Jacobian (:func:`explained_share`: Gauss-Newton has found
+    a stationary point of |F|), and :attr:`ZeroKind.UNDECIDED` otherwise (the linear model explains the
+    residual but refinement could not finish: a multiple zero where the step overshoots). Below rounding double
     precision cannot tell a zero from a feature smaller than about the square root of the rounding (relative to
     the unit): such points count as zeros.
 
@@ -254,7 +287,16 @@ def newton_zero_test(system, evaluator, points, sizes=None, max_iterations=60):
     after = result.residuals
     with np.errstate(invalid="ignore"):
         zero = np.isfinite(after) & (after <= ROUNDING_RESIDUAL)
-        unexplained = ~zero & ~(after < _NOT_EXPLAINED_RATIO * before)
+    # Where refinement ended above rounding: how much of the residual does the linear model explain (the share
+    # of F(x) in the range of J(x), the directions Gauss-Newton can move it in)? At a stationary point of |F|
+    # off V(F), J^H F = 0: none (1e-10 and less measured). Near a zero, regular or multiple, almost all of it
+    # (1.0 where a tacnode's ill-conditioned step overshoots and refinement stalls at 1e-9).
+    unexplained = np.zeros(len(points), dtype=bool)
+    open_rows = np.nonzero(~zero & np.all(np.isfinite(result.points), axis=1))[0]
+    if len(open_rows):
+        _, values, jacobians = scaled_residual_norm(sizes, evaluator, result.points[open_rows])
+        unexplained[open_rows] = explained_share(jacobians, values) < _EXPLAINED_SHARE
+    unexplained |= ~zero & ~np.all(np.isfinite(result.points), axis=1)
     kinds = [ZeroKind.ZERO if z else ZeroKind.NOT_A_ZERO if u else ZeroKind.UNDECIDED
              for z, u in zip(zero, unexplained)]
     return ZeroTest(result.points, kinds, before, after, result.distances)

@@ -525,11 +525,11 @@ def _settle_on(system, used, slice_rows, points, residual, options, counts, labe
     """Which points lie on V(f_used) and the slice: (points, refined where Newton settled them; mask).
 
     A point within rounding is on. Between rounding and :data:`_DOUBTFUL_RESIDUAL` Newton decides
-    (:func:`~numag.numeric.refine.newton_zero_test`, decision 0064): a zero it reaches nearby is on (counted
-    under ``label`` when the residual tolerance would have dropped it); a point where it cannot even halve the
-    residual is not (counted as ``residual_not_explained`` when the tolerance would have kept it: a stationary
-    point of the residual, such as the centre of a loop much smaller than the unit); a point where it reduces the
-    residual but cannot finish keeps the tolerance's answer (counted as ``zero_undecided`` when kept).
+    (:func:`~numag.numeric.refine.newton_zero_test`, decision 0064): a zero it reaches nearby is on (refined,
+    and counted under ``label``, when the residual tolerance would have dropped it); a point where refinement ends at a
+    stationary point of the residual is not (counted as ``residual_not_explained`` when the tolerance would have
+    kept it: the centre of a loop much smaller than the unit); any other point keeps the tolerance's answer
+    (counted as ``zero_undecided`` when kept while the linear model explained the residual Newton left).
     """
     on = residual <= ROUNDING_RESIDUAL
     asked = np.nonzero(~on & (residual <= _DOUBTFUL_RESIDUAL))[0]
@@ -538,12 +538,14 @@ def _settle_on(system, used, slice_rows, points, residual, options, counts, labe
     test, near = _refine_on(system, used, slice_rows, points[asked])
     within = residual[asked] <= options.residual_tolerance
     zero = test.mask(ZeroKind.ZERO) & near
-    undecided = test.mask(ZeroKind.UNDECIDED) & within
+    not_a_zero = test.mask(ZeroKind.NOT_A_ZERO)
     points = points.copy()
-    points[asked[zero]] = test.points[zero]
-    on[asked[zero | undecided]] = True
-    for key, mask in ((label, zero & ~within), ("residual_not_explained", test.mask(ZeroKind.NOT_A_ZERO) & within),
-                      ("zero_undecided", undecided)):
+    points[asked[zero & ~within]] = test.points[zero & ~within]
+    # within the tolerance a point stays where it is, as before (refined, two endpoints of one multiple point 5e-6
+    # apart no longer clustered: an A4 point came out twice); only "not a zero" overrules the tolerance
+    on[asked[zero | (within & ~not_a_zero)]] = True
+    for key, mask in ((label, zero & ~within), ("residual_not_explained", not_a_zero & within),
+                      ("zero_undecided", test.mask(ZeroKind.UNDECIDED) & within)):
         if np.any(mask):
             counts[key] = counts.get(key, 0) + int(np.sum(mask))
     return points, on
