@@ -124,10 +124,12 @@ def _verdict_to_dict(v):
         "backward_error": _encode_float(v.backward_error),
         "backward_tolerance": _encode_float(v.backward_tolerance),
         "near_singular": v.near_singular,
+        "newton": None if v.newton is None else v.newton.value,
     }
 
 
 def _verdict_from_dict(d):
+    from ..numeric.refine import ZeroKind
     from ..singular.kinds import LocalDimensionSource, Verdict
     from ..singular.smoothness import PointVerdict
     return PointVerdict(
@@ -141,7 +143,8 @@ def _verdict_from_dict(d):
         nearest_rank_drop=None if d["nearest_rank_drop"] is None else decode_point(d["nearest_rank_drop"]),
         nearest_rank_drop_distance=_decode_float(d["nearest_rank_drop_distance"]), notes=list(d["notes"]),
         components=[dict(c) for c in d.get("components", [])],
-        backward_error=_decode_float(d.get("backward_error")), backward_tolerance=_decode_float(d.get("backward_tolerance")))
+        backward_error=_decode_float(d.get("backward_error")), backward_tolerance=_decode_float(d.get("backward_tolerance")),
+        newton=None if d.get("newton") is None else ZeroKind.parse(d["newton"], "newton"))
 
 
 def check_report_to_dict(report):
@@ -479,7 +482,7 @@ def solve_report_from_dict(data):
 # --- decompose -----------------------------------------------------------------------------------
 
 _ENDPOINT_KEYS = ("not_on_X", "at_infinity_or_failed", "on_larger_component", "membership_paths",
-                  "degree_check_failed")
+                  "degree_check_failed", "residual_not_explained", "zero_undecided")  # the last two: decision 0064
 
 
 def decomposition_path_counts(counts):

@@ -25,12 +25,13 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from ..kinds import TextEnum
 from ..system.polynomial import Polynomial, PolynomialSystem
 from .evaluate import BatchEvaluator, PrecisionEvaluator, TermSizes
 from .minors import AugmentedEvaluator
 from .linalg import batched_least_squares, mp_least_squares, mp_right_singular_vectors, scaled_singular_values
 
-__all__ = ["ProjectionResult", "project_to_variety", "mp_gauss_newton", "RankDropSystem", "IsolationTest",
+__all__ = ["ProjectionResult", "project_to_variety", "ZeroKind", "ZeroTest", "newton_zero_test", "explained_share", "mp_gauss_newton", "RankDropSystem", "IsolationTest",
            "scaled_residual_norm", "largest_scaled_residual", "RankDropResult", "rank_drop_points"]
 
 #: Step fractions a precision Gauss-Newton step tries before it stops for lack of progress.
@@ -163,6 +164,142 @@ def project_to_variety(system, evaluator, points, tolerance=1e-13, max_iteration
         active[index] = better & (residual[index] > tolerance) & ~tiny_step
     distances = np.linalg.norm(current - start, axis=1)
     return ProjectionResult(current, residual <= tolerance, residual, distances, iterations)
+
+
+#: Scaled residual within the rounding of double-precision evaluation (with a margin): a point Newton leaves
+#: there is a zero as far as double precision can tell.
+ROUNDING_RESIDUAL = 1e-11
+#: A Gauss-Newton run that ends above :data:`ROUNDING_RESIDUAL` with less than this share of the residual in the
+#: range of the Jacobian has not been explained by the linear model: no zero is near (decision 0064). Measured:
+#: stationary points of |F| 1e-15 to 1e-10, points near zeros (a tacnode's stalled ones included) 1.0.
+_EXPLAINED_SHARE = 1e-2
+#: Singular values of J below this fraction of the largest span no direction of the range (rounding).
+_RANGE_RCOND = 1e-13
+
+
+def explained_share(jacobians, values):
+    """The share |P F| / |F| of each residual in the range of its Jacobian (P the orthogonal projection).
+
+    Parameters
+    ----------
+    jacobians : ndarray, shape (P, m, n)
+    values : ndarray, shape (P, m)
+
+    Returns
+    -------
+    ndarray, shape (P,)
+        1 where the linear model can explain the whole residual, 0 at a stationary point of |F|
+        (J^H F = 0); 1 where F is 0.
+
+    Examples
+    --------
+    >>> jacobians = np.array([[[0.0, 0.0], [2.0, 0.0], [0.0, 2.0]], [[1.0, 0.0], [0.0, 1.0], [0.0, 0.0]]])
+    >>> explained_share(jacobians, np.array([[1e-5, 0, 0], [1.0, 1.0, 0.0]])).round(12).tolist()
+    [0.0, 1.0]
+    """
+    jacobians, values = np.asarray(jacobians), np.asarray(values)
+    left, singular, _ = np.linalg.svd(jacobians, full_matrices=False)
+    keep = singular > _RANGE_RCOND * singular[:, :1]
+    coefficients = np.einsum("pmk,pm->pk", left.conj(), values) * keep
+    norms = np.linalg.norm(values, axis=1)
+    with np.errstate(invalid="ignore", divide="ignore"):
+        share = np.linalg.norm(coefficients, axis=1) / norms
+    return np.where(norms > 0, share, 1.0)
+
+
+class ZeroKind(TextEnum):
+    """What Newton's method says about a point as a zero of a system (decision 0064)."""
+
+    ZERO = "zero"                  # refined to the rounding of double precision
+    NOT_A_ZERO = "not a zero"      # refinement ends at a stationary point of |F| off V(F): the residual unexplained
+    UNDECIDED = "undecided"        # explained by the linear model, not brought to rounding (a multiple zero)
+
+
+@dataclass
+class ZeroTest:
+    """Result of :func:`newton_zero_test` (one entry per point).
+
+    Attributes
+    ----------
+    points : ndarray, shape (P, n)
+        The refined points.
+    kinds : list of ZeroKind
+    before, after : ndarray, shape (P,)
+        Scaled residuals (Euclidean norm, :func:`scaled_residual_norm`) at the given and at the refined points.
+    distances : ndarray, shape (P,)
+        How far refinement moved each point.
+    """
+
+    points: np.ndarray
+    kinds: list
+    before: np.ndarray
+    after: np.ndarray
+    distances: np.ndarray
+
+    def mask(self, kind):
+        """Boolean mask of the points of one :class:`ZeroKind`."""
+        return np.array([k is kind for k in self.kinds], dtype=bool)
+
+
+def newton_zero_test(system, evaluator, points, sizes=None, max_iterations=60):
+    """Whether each point is a zero of the system, by what Newton's method does there, not by a residual bound.
+
+    A residual bound needs a unit: terms are sized at max(|x_j|, 1) (:class:`TermSizes`), and a feature much
+    smaller than that unit (a loop of size 1e-2 whose centre is a zero of F's derivatives, where F is a few
+    1e-8 of its terms) passes any bound that lets through the endpoints of tracked paths. What Newton does does
+    not depend on the unit: near a zero, regular or multiple, the linear model explains the residual and
+    Gauss-Newton drives it down to rounding; at a stationary point of |F| off V(F) the step vanishes and the
+    residual stays. A point is a :attr:`ZeroKind.ZERO` when refinement leaves its scaled residual within
+    rounding (:data:`ROUNDING_RESIDUAL`), :attr:`ZeroKind.NOT_A_ZERO` when refinement ends above rounding with
+    almost none of the residual in the range of the Jacobian (:func:`explained_share`: Gauss-Newton has found
+    a stationary point of |F|), and :attr:`ZeroKind.UNDECIDED` otherwise (the linear model explains the
+    residual but refinement could not finish: a multiple zero where the step overshoots). Below rounding double
+    precision cannot tell a zero from a feature smaller than about the square root of the rounding (relative to
+    the unit): such points count as zeros.
+
+    Parameters
+    ----------
+    system : PolynomialSystem
+    evaluator : BatchEvaluator
+        Of ``system.polynomials`` (or with more rows, then give ``sizes``).
+    points : ndarray, shape (P, n)
+    sizes : TermSizes, optional
+        As in :func:`project_to_variety`.
+    max_iterations : int
+
+    Returns
+    -------
+    ZeroTest
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> # the critical point (-1/150, 0) of a small loop: f_x = f_y = 0 there, f is 1.5e-5 (a few 1e-7 of its terms)
+    >>> system = parse_system(["x^2 - y^2 + 100*x^3", "2*x + 300*x^2", "-2*y"], ["x", "y"])
+    >>> test = newton_zero_test(system, BatchEvaluator(system.polynomials), np.array([[-1 / 150, 1e-9], [1e-9, 0]]))
+    >>> [str(kind) for kind in test.kinds]
+    ['not a zero', 'zero']
+    """
+    points = np.atleast_2d(np.asarray(points, dtype=complex))
+    sizes = TermSizes(system.polynomials, system.projective) if sizes is None else sizes
+    before, _, _ = scaled_residual_norm(sizes, evaluator, points)
+    result = project_to_variety(system, evaluator, points, max_iterations=max_iterations, sizes=sizes)
+    after = result.residuals
+    with np.errstate(invalid="ignore"):
+        zero = np.isfinite(after) & (after <= ROUNDING_RESIDUAL)
+    # Where refinement ended above rounding: how much of the residual does the linear model explain (the share
+    # of F(x) in the range of J(x), the directions Gauss-Newton can move it in)? At a stationary point of |F|
+    # off V(F), J^H F = 0: none (1e-10 and less measured). Near a zero, regular or multiple, almost all of it
+    # (1.0 where a tacnode's ill-conditioned step overshoots and refinement stalls at 1e-9).
+    unexplained = np.zeros(len(points), dtype=bool)
+    open_rows = np.nonzero(~zero & np.all(np.isfinite(result.points), axis=1))[0]
+    if len(open_rows):
+        _, values, jacobians = scaled_residual_norm(sizes, evaluator, result.points[open_rows])
+        unexplained[open_rows] = explained_share(jacobians, values) < _EXPLAINED_SHARE
+    unexplained |= ~zero & ~np.all(np.isfinite(result.points), axis=1)
+    kinds = [ZeroKind.ZERO if z else ZeroKind.NOT_A_ZERO if u else ZeroKind.UNDECIDED
+             for z, u in zip(zero, unexplained)]
+    return ZeroTest(result.points, kinds, before, after, result.distances)
 
 
 def mp_gauss_newton(function, start, ctx, tolerance, max_iterations=80, anchored=False):

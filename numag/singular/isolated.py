@@ -34,6 +34,7 @@ import numpy as np
 from ..errors import InputError
 from ..numeric.cluster import cluster_labels, groups
 from ..numeric.evaluate import BatchEvaluator, TermSizes
+from ..numeric.refine import ZeroKind, newton_zero_test
 from ..numeric.seeds import random_state
 from ..system.display import counted
 from ..system.polynomial import Polynomial, PolynomialSystem
@@ -216,6 +217,11 @@ def isolated_singular_points(system, start="multihomogeneous", seed=None, option
         # the random combinations miss an equation of the full system by far more (order one)
         allowed = np.array([tolerance if s.multiplicity == 1 else np.sqrt(tolerance) for s in result.solutions])
         keep = np.max(np.abs(values) / sizes, axis=1) <= allowed
+        # ... and a residual bound in units of terms sized at max(|x_j|, 1) lets through a stationary point
+        # of the residual much smaller than the unit (decision 0064): refinement on the full system must not end
+        # at a stationary point of its residual ("not a zero").
+        newton = newton_zero_test(full, BatchEvaluator(full.polynomials), solutions)
+        keep &= ~newton.mask(ZeroKind.NOT_A_ZERO)
         solutions = solutions[keep]
     x_points = solutions[:, :n]
     kept = [s for s, ok in zip(result.solutions, keep) if ok]

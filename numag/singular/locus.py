@@ -48,7 +48,7 @@ from ..numeric.cluster import cluster_labels, groups, normalize_projective
 from ..numeric.evaluate import BatchEvaluator, TermSizes
 from ..numeric.minors import (MinorsSystem, degree_lowering_directions, directional_gradients, expanded_minors,
                               random_minor_weights)
-from ..numeric.refine import IsolationTest, project_to_variety
+from ..numeric.refine import IsolationTest, ZeroKind, project_to_variety
 from ..numeric.scaling import Scaling
 from ..numeric.seeds import resolved_seed
 from ..tracking.solve import SolveOptions, solve_system
@@ -637,6 +637,9 @@ def _affine(system, options, rng, paths, discarded, progress, notes_out=None, ro
             if verdict is None:  # Newton cannot settle the point (a singular curve can make it drift)
                 discarded["not_settled_on_X"] = discarded.get("not_settled_on_X", 0) + 1
                 continue
+            if verdict.verdict is Verdict.OFF:  # refinement ends at a stationary point of |F|: no point of X is near
+                discarded["not_on_X"] = discarded.get("not_on_X", 0) + 1
+                continue
             if verdict.verdict is Verdict.SMOOTH:
                 discarded["smooth_on_check"] = discarded.get("smooth_on_check", 0) + 1
                 if dropped is not None and candidate.dimension == 0 and verdict.codimension is not None:
@@ -693,7 +696,8 @@ def _judge_all(system, points, options, seed, variety):
 
 
 def _judge(system, point, options, seed, variety):
-    """The check's verdict at a candidate; None if the candidate cannot be settled on X.
+    """The check's verdict at a candidate; None if the candidate cannot be settled on X, "off" when refinement
+    ends at a stationary point of F's residual (no point of X near, decision 0064).
 
     A looser point tolerance is tried when refinement drifts. A candidate is an approximation of a
     singular point whose accuracy the endgame limits (1e-4 at a tacnode, where three paths meet):
@@ -705,6 +709,8 @@ def _judge(system, point, options, seed, variety):
         report = check_points(system, [point], replace(options, point_tolerance=tolerance), seed=seed,
                                 decomposition=variety)
         verdict = report.points[0]
+        if verdict.verdict is Verdict.OFF and verdict.newton is ZeroKind.NOT_A_ZERO:
+            return verdict  # no point of X near at all, at any tolerance (decision 0064)
         if verdict.verdict is Verdict.OFF:  # not settled on X at this tolerance: try the looser one
             continue
         drop = verdict.nearest_rank_drop
@@ -815,12 +821,12 @@ def _confirmed_by_check(system, pieces, rng, discarded, dropped=None):
     seed = int(rng.integers(2**32))
     points = [piece.points[0] for piece in pieces]
     # a point that cannot be settled on X comes back "off" (each point is judged on its own)
-    verdicts = [None if v.verdict is Verdict.OFF else v
-                for v in check_points(system, points, CheckOptions(backward_errors=False), seed=seed).points]
+    verdicts = check_points(system, points, CheckOptions(backward_errors=False), seed=seed).points
     kept = []
     for piece, verdict in zip(pieces, verdicts):
-        if verdict is None:
-            discarded["not_settled_on_X"] = discarded.get("not_settled_on_X", 0) + 1
+        if verdict.verdict is Verdict.OFF:  # no point of X near (decision 0064), or Newton drifted
+            reason = "not_on_X" if verdict.newton is ZeroKind.NOT_A_ZERO else "not_settled_on_X"
+            discarded[reason] = discarded.get(reason, 0) + 1
         elif verdict.verdict.is_singular:
             kept.append(piece)
         elif verdict.verdict is Verdict.SMOOTH:

@@ -53,7 +53,8 @@ from ..numeric.cluster import line_distance, normalize_projective, projective_pi
 from ..numeric.evaluate import BatchEvaluator, PrecisionEvaluator, TermSizes
 from ..numeric.linalg import (DOUBLE_DIGITS, RankEvidence, mp_singular_values, numerical_rank,
                               scaled_singular_values, singular_value_gap, zero_tolerance)
-from ..numeric.refine import RankDropSystem, mp_gauss_newton, project_to_variety, rank_drop_points
+from ..numeric.refine import (RankDropSystem, ZeroKind, mp_gauss_newton, newton_zero_test, project_to_variety,
+                              rank_drop_points)
 from ..numeric.scaling import Scaling
 from ..numeric.seeds import random_state
 from ..witness.decompose import components_through
@@ -66,9 +67,6 @@ __all__ = ["CheckOptions", "PointVerdict", "CheckReport", "check_points",
 #: The possible verdicts, as text ("off": the point is not on X within the point tolerance, so nothing
 #: is judged there).
 VERDICTS = Verdict.texts()
-#: Scaled residual (Euclidean) at which a point whose refinement stalled still counts as on X.
-_ON_VARIETY_RESIDUAL = 1e-11
-
 _AS_GIVEN = ("The verdict is about the equations as given: it describes the variety only where they "
              "generate its ideal near the point.")
 
@@ -195,6 +193,10 @@ class PointVerdict:
         the point (or one next to it) an exact singular point (:mod:`numag.singular.nearness`).
     backward_tolerance : float or None
         What the input's coefficients cannot resolve (decision 0062); :attr:`near_singular` compares.
+    newton : ZeroKind or None
+        Verdicts "off": what Newton's method found from the given point (decision 0064): X too far away
+        (``zero``), no point of X near at all (``not a zero``: refinement ended at a stationary point of the
+        residual, which the linear model does not explain) or ``undecided`` (refinement could not finish).
     """
 
     index: int
@@ -215,6 +217,7 @@ class PointVerdict:
     components: list[dict] = field(default_factory=list)
     backward_error: float | None = None
     backward_tolerance: float | None = None
+    newton: ZeroKind | None = None
 
     @property
     def near_singular(self):
@@ -759,16 +762,16 @@ def _check_in_units(system, given, exact, options, seed, rng, decomposition, sca
     """The verdicts at points of ``system`` (already in computed units; ``decomposition`` in the user's); a
     point that cannot be moved onto X gets the verdict "off"."""
     checker = _Checker(system, options, rng)
-    projection = project_to_variety(system, checker.batch, given)
+    # On X is what Newton's method reaches, not a residual bound (decision 0064): Gauss-Newton aims at a scaled
+    # residual of 1e-13 and, at a singular point, can stall just above (rounding, a rank-deficient Jacobian:
+    # 1.2e-13 seen at a linkage's branch point, which was then dropped); within rounding it is on X.
+    projection = newton_zero_test(system, checker.batch, given, sizes=checker.sizes, max_iterations=30)
     residual_given = np.max(np.abs(checker.batch.evaluate(given, jacobian=False))
                             / checker.sizes.values(given), axis=1)
     refined = projection.points.copy()
     if system.projective:
         refined = normalize_projective(refined)
-    # Gauss-Newton aims at a scaled residual of 1e-13; at a singular point it can stall just above
-    # (rounding, a rank-deficient Jacobian: 1.2e-13 seen at a linkage's branch point, which was then
-    # dropped). A point that stalls within 100 times that is on X to double precision.
-    on_variety = projection.converged | (projection.residuals <= _ON_VARIETY_RESIDUAL)
+    on_variety = projection.mask(ZeroKind.ZERO)
     moved = np.array([checker.distance(given[k], refined[k]) for k in range(len(given))])
     tolerances = np.array([checker.tolerance_for(given[k]) for k in range(len(given))])
     off = ~on_variety | (moved > tolerances)
@@ -788,7 +791,7 @@ def _check_in_units(system, given, exact, options, seed, rng, decomposition, sca
                              [scales[k] for k in np.nonzero(~off)[0]], [through[k] for k in np.nonzero(~off)[0]],
                              positions=np.nonzero(~off)[0])
     return [_off_verdict(checker, k + 1, given[k], refined[k], float(residual_given[k]), float(moved[k]),
-                         float(tolerances[k]), bool(on_variety[k]), float(projection.residuals[k]), values[k],
+                         float(tolerances[k]), projection.kinds[k], float(projection.after[k]), values[k],
                          scales[k])
             if off[k] else
             checker.check(k + 1, given[k], exact[k], refined[k], float(residual_given[k]), values[k], scales[k],
@@ -805,13 +808,15 @@ def _values_at_given(checker, point):
     return scaled_singular_values(jacobians, scales)[0], scales[0]
 
 
-def _off_verdict(checker, index, given, reached, residual, moved, tolerance, on_variety, reached_residual, values,
+def _off_verdict(checker, index, given, reached, residual, moved, tolerance, newton, reached_residual, values,
                  scales):
     """The verdict "off" for a point Newton could not bring onto X within the point tolerance.
 
     Nothing is judged about X there; the evidence is the Jacobian at the given point (in double),
-    kept for the reader, and ``point`` is where Newton ended.
+    kept for the reader, and ``point`` is where Newton ended. ``newton`` (a :class:`ZeroKind`) is what
+    Newton's method found: X reached (too far), no zero near (the residual not explained), or undecided.
     """
+    on_variety = newton is ZeroKind.ZERO
     zero = zero_tolerance(DOUBLE_DIGITS, (checker.m, checker.n))
     rank = numerical_rank(values, zero) if len(values) else 0
     # F overflows at points far out (1e90 on a degree-8 surface): the residual is then beyond any size
@@ -820,7 +825,10 @@ def _off_verdict(checker, index, given, reached, residual, moved, tolerance, on_
     how = (f"Newton refinement reached a point of X at distance {moved:.3g}, beyond the point tolerance "
            f"{tolerance:.3g}" if on_variety else
            f"Newton refinement did not reach X (scaled residual {reached_residual:.3g} after refinement, "
-           f"{moved:.3g} from the given point)")
+           f"{moved:.3g} from the given point)" + (
+               ": it ended at a stationary point of the residual, which the Jacobian cannot explain, so no point of X "
+               "is near"
+               if newton is ZeroKind.NOT_A_ZERO else ""))
     note = (f"Not on X: scaled residual {residual:.3g} at the given point; {how} (both in the balanced units "
             "of the scaled problem). Nothing is judged here; raise --point-tolerance if the point is known "
             "to fewer digits.")
@@ -836,4 +844,4 @@ def _off_verdict(checker, index, given, reached, residual, moved, tolerance, on_
     return PointVerdict(index=index, given=given, point=point, distance=moved, residual=residual,
                         verdict=Verdict.OFF, rank=None, codimension=None, tangent_dimension=None, local_dimension=None,
                         local_dimension_source=LocalDimensionSource.NOT_JUDGED, evidence=evidence,
-                        notes=[note])
+                        notes=[note], newton=newton)

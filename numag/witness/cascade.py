@@ -43,7 +43,7 @@ from ..numeric.evaluate import BatchEvaluator, TermSizes
 from ..numeric.linalg import scaled_singular_values
 from ..numeric.minors import (AugmentedEvaluator, CombinedRows, LinearFormProduct, MinorsSystem, equation_evaluator,
                               expanded_minors, random_minor_weights, split_equations)
-from ..numeric.refine import IsolationTest, largest_scaled_residual, project_to_variety
+from ..numeric.refine import ROUNDING_RESIDUAL, IsolationTest, ZeroKind, largest_scaled_residual, newton_zero_test
 from ..numeric.seeds import random_state
 from ..tracking.homotopy import ParameterHomotopy, random_unit_complex
 from ..tracking.multihomogeneous import GroupSource
@@ -514,16 +514,11 @@ def _witness_supersets(system, options, seed, progress):
         for codim in sorted(current):
             points, multiplicity = current[codim]
             residual = largest_scaled_residual(single_sizes, single, points)
-            on = residual <= options.residual_tolerance
-            doubtful = np.nonzero(~on & (residual <= _DOUBTFUL_RESIDUAL))[0]
-            if len(doubtful):
-                # A point on a multiple component is known only to about the square root of the
-                # precision: refine it on the equations so far plus f and its slice before deciding.
-                points = points.copy()
-                refined, moved = _refine_on(system, used, slicing.slice_rows(codim), points[doubtful])
-                points[doubtful[moved]] = refined[moved]
-                on[doubtful[moved]] = True
-                counts["refined_to_stay"] = counts.get("refined_to_stay", 0) + int(np.sum(moved))
+            # A point on a multiple component is known only to about the square root of the precision, and a
+            # point where f is small only against terms sized in the unit (decision 0064) is no point of V(f):
+            # Newton on the equations so far plus f and its slice decides both.
+            points, on = _settle_on(system, used, slicing.slice_rows(codim), points, residual, options, counts,
+                                    "refined_to_stay")
             stay_points, stay_mult = following.get(codim, (np.zeros((0, n), complex), np.zeros(0, np.int64)))
             following[codim] = (np.vstack([stay_points, points[on]]), np.concatenate([stay_mult, multiplicity[on]]))
             regenerate = points[~on]
@@ -536,17 +531,11 @@ def _witness_supersets(system, options, seed, progress):
             if len(candidates) == 0:
                 continue
             residual = largest_scaled_residual(sizes, evaluator, candidates)
-            good = residual <= options.residual_tolerance
-            doubtful = np.nonzero(~good & (residual <= _DOUBTFUL_RESIDUAL))[0]
-            if len(doubtful):
-                # An endpoint known only to 1e-6 (ill-conditioned, or a path that barely settled) can miss
-                # the residual test by a hair: refine it on the equations and the slice before dropping it
-                # (a node of a conic and a cubic was lost at 1.09e-7).
-                candidates = candidates.copy()
-                refined, moved = _refine_on(system, used, slicing.slice_rows(codim + 1), candidates[doubtful])
-                candidates[doubtful[moved]] = refined[moved]
-                good[doubtful[moved]] = True
-                counts["refined_to_keep"] = counts.get("refined_to_keep", 0) + int(np.sum(moved))
+            # An endpoint known only to 1e-6 (ill-conditioned, or a path that barely settled) can miss the
+            # residual test by a hair (a node of a conic and a cubic was lost at 1.09e-7), and a stationary
+            # point of the residual can pass it (decision 0064): Newton on the equations and the slice decides.
+            candidates, good = _settle_on(system, used, slicing.slice_rows(codim + 1), candidates, residual,
+                                          options, counts, "refined_to_keep")
             counts["not_on_X"] += int(np.sum(~good & np.all(np.isfinite(candidates), axis=1)))
             counts["at_infinity_or_failed"] += int(np.sum(~np.all(np.isfinite(candidates), axis=1)))
             candidates = candidates[good]
@@ -580,19 +569,50 @@ def _witness_supersets(system, options, seed, progress):
     return WitnessSupersets(sets, list(range(n, lowest - 1, -1)), slicing, counts, choice.report())
 
 
+def _settle_on(system, used, slice_rows, points, residual, options, counts, label):
+    """Which points lie on V(f_used) and the slice: (points, refined where Newton settled them; mask).
+
+    A point within rounding is on. Between rounding and :data:`_DOUBTFUL_RESIDUAL` Newton decides
+    (:func:`~numag.numeric.refine.newton_zero_test`, decision 0064): a zero it reaches nearby is on (refined,
+    and counted under ``label``, when the residual tolerance would have dropped it); a point where refinement ends at a
+    stationary point of the residual is not (counted as ``residual_not_explained`` when the tolerance would have
+    kept it: the centre of a loop much smaller than the unit); any other point keeps the tolerance's answer
+    (counted as ``zero_undecided`` when kept while the linear model explained the residual Newton left).
+    """
+    on = residual <= ROUNDING_RESIDUAL
+    asked = np.nonzero(~on & (residual <= _DOUBTFUL_RESIDUAL))[0]
+    if len(asked) == 0:
+        return points, on
+    test, near = _refine_on(system, used, slice_rows, points[asked])
+    within = residual[asked] <= options.residual_tolerance
+    zero = test.mask(ZeroKind.ZERO) & near
+    not_a_zero = test.mask(ZeroKind.NOT_A_ZERO)
+    points = points.copy()
+    points[asked[zero & ~within]] = test.points[zero & ~within]
+    # within the tolerance a point stays where it is, as before (refined, two endpoints of one multiple point 5e-6
+    # apart no longer clustered: an A4 point came out twice); only "not a zero" overrules the tolerance
+    on[asked[zero | (within & ~not_a_zero)]] = True
+    for key, mask in ((label, zero & ~within), ("residual_not_explained", not_a_zero & within),
+                      ("zero_undecided", test.mask(ZeroKind.UNDECIDED) & within)):
+        if np.any(mask):
+            counts[key] = counts.get(key, 0) + int(np.sum(mask))
+    return points, on
+
+
 def _refine_on(system, used, slice_rows, points):
-    """Gauss-Newton onto f_used = 0 and the slice; (refined points, mask of those that converged nearby)."""
+    """Newton's test on f_used = 0 and the slice: (:class:`~numag.numeric.refine.ZeroTest`, mask of the points
+    it moved only a little)."""
     n = system.n_variables
     polynomials, minors = split_equations(system, used)
     equations = polynomials + [Polynomial.linear(r[1:], r[0]) for r in slice_rows]
     augmented = PolynomialSystem([f"x{j}" for j in range(n)], equations)
     if minors is None:
-        result = project_to_variety(augmented, BatchEvaluator(augmented.polynomials), points, max_iterations=60)
+        test = newton_zero_test(augmented, BatchEvaluator(augmented.polynomials), points)
     else:
         both = AugmentedEvaluator(equations, minors)
-        result = project_to_variety(augmented, both, points, max_iterations=60, sizes=both)
-    near = result.distances <= 1e-5 * (1 + np.linalg.norm(points, axis=1))
-    return result.points, result.converged & near
+        test = newton_zero_test(augmented, both, points, sizes=both)
+    near = test.distances <= 1e-5 * (1 + np.linalg.norm(points, axis=1))
+    return test, near
 
 
 def _regenerate(slicing, before, index, codim, points, options, deflate=True):
