@@ -94,3 +94,21 @@ def test_the_degree_lowering_directions_follow_the_coordinates():
 def test_no_direction_is_chosen_when_no_degree_drops():
     system = parse_system(["x^2 + y^2 - 1"], ["x", "y"])  # the top part x^2 + y^2 is annihilated by no direction
     assert degree_lowering_directions(system.polynomials) == (None, None)
+
+
+@pytest.mark.parametrize("seed", [1, 2, 4])
+def test_a_tacnode_space_curve_after_a_rational_linear_change_loses_no_path(seed):
+    # y^2 = x^4 + x^5, z = x^2 + y: a tacnode (A3) at the origin (Arnold, Gusein-Zade, Varchenko, Singularities
+    # of Differentiable Maps I, 1985: A_k normal forms), checked with sympy below. After this change three
+    # regeneration paths of the rank-drop system go to infinity along the point's tangent and settle only at
+    # radii below the first ten (decision 0065): they ended "endgame unsettled" at every seed before.
+    curve = [Y**2 - X**4 - X**5, Z - X**2 - Y]
+    moved, text = _changed(curve, [X, Y, Z], [["1", "1/2", "2"], ["0", "1", "-1"], ["1/3", "0", "1"]], ["0", "0", "0"])
+    expected = _singular_points(moved, [X, Y, Z])
+    assert len(expected) == 1 and np.allclose(expected[0], 0)
+    locus = singular_locus(parse_system(text, ["x", "y", "z"]), seed=seed)
+    found = [c.points[0] for c in locus.components if not c.at_infinity and c.dimension == 0]
+    assert len(found) == 1 and np.linalg.norm(found[0]) <= 1e-6
+    failed = sum(locus.paths.get(label, 0) for label in ("minimum_step", "step_limit", "non_finite",
+                                                         "endgame_unsettled", "batch_failed", "jumped"))
+    assert failed == 0, locus.paths
