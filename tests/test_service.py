@@ -86,3 +86,21 @@ def test_path_counts_add_up_and_report_every_failure_label():
     assert report["tracked"] == 4 and report["failed"] == 2 and report["rescued_in_high_precision"] == 1
     assert report["failed_by_reason"]["minimum_step"] == 1 and report["failed_by_reason"]["jumped"] == 1
     assert set(total.by_label()) == {s.label for s in PathStatus if s != PathStatus.RUNNING}
+
+
+@pytest.mark.parametrize("seed", range(3))
+def test_a_singular_point_reached_by_part_of_its_cycle_is_kept_but_counted_as_jumped(seed):
+    # x^3 = 0, y = 1: a triple root, its three paths one cycle of winding number 3 (common practice, no
+    # source: x^3 = s c near s = 0 has three roots that a loop around 0 permutes). One of the three paths
+    # said to be every start is a broken cycle whatever the repair does: counted as jumped, yet its point is
+    # a limit the endgame settled on the target, so a search for points gets it (decision 0065).
+    system = parse_system(["x^3", "y - 1"], ["x", "y"])
+    homotopy = StraightLineHomotopy.total_degree(system, np.random.default_rng(seed))
+    run = track(homotopy, homotopy.start_solutions()[:1], whole_cycles=True)
+    assert run.counts.failed_by_reason["jumped"] == 1 and run.counts.singular_endpoint == 0
+    assert np.all(np.isnan(run.affine_endpoints()))
+    kept = run.affine_endpoints(jumped_limits=True)
+    assert np.allclose(kept, [[0, 1]], atol=1e-6)
+    # the whole cycle: nothing jumped, the three paths at the triple root
+    whole = track(homotopy, homotopy.start_solutions(), whole_cycles=True)
+    assert whole.counts.singular_endpoint == 3 and whole.counts.failed == 0 and set(whole.winding) == {3}

@@ -230,9 +230,16 @@ class TrackRun:
         """The paths by status, as :class:`PathCounts`."""
         return PathCounts.of(self.status, self.retracked, self.digits, self.jump_retracks)
 
-    def affine_endpoints(self):
-        """Endpoints divided by X_0 (NaN where the path failed or went to infinity)."""
+    def affine_endpoints(self, jumped_limits=False):
+        """Endpoints divided by X_0 (NaN where the path failed or went to infinity).
+
+        With ``jumped_limits``, also the singular endpoints that the jump repair could not fit into whole
+        cycles (:func:`track` with ``whole_cycles``): counted as jumped paths, but their points are limits
+        the endgame settled on the target (a search for points takes them; a count of paths must not).
+        """
         finite = (self.status == PathStatus.CONVERGED) | (self.status == PathStatus.SINGULAR_ENDPOINT)
+        if jumped_limits:
+            finite |= (self.status == PathStatus.FAILED_JUMP) & np.all(np.isfinite(self.endpoints), axis=1)
         with np.errstate(all="ignore"):
             ends = self.endpoints[:, 1:] / self.endpoints[:, :1]
         return np.where(finite[:, None], ends, np.nan)
@@ -408,8 +415,13 @@ def _repair_jumps(run, starts, options, batch_size, executor, projective, tolera
                 run.endpoints[crossed[members[1:]]] = np.nan
             for group in broken:  # the paths beyond whole cycles: which of them jumped is unknown
                 excess = group[len(group) - len(group) % int(run.winding[group[0]]):]
+                # A group of fewer paths than one cycle is all excess, yet its point is a limit the endgame
+                # settled on the target: the point exists whichever path jumped. One path keeps it (still
+                # counted as jumped) for callers that ask for such limits (decision 0065); a tacnode's
+                # rank-drop system lost its only singular point here.
+                keep = len(excess) == len(group) and run.status[group[0]] == PathStatus.SINGULAR_ENDPOINT
                 run.status[excess] = PathStatus.FAILED_JUMP
-                run.endpoints[excess] = np.nan
+                run.endpoints[excess[1:] if keep else excess] = np.nan
             return
         crossed = np.union1d(crossed, np.concatenate(broken)) if broken else crossed
         run.jump_retracks += len(crossed)

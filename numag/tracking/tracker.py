@@ -22,7 +22,8 @@ The whole run (:func:`track_paths`):
    loop samples (Cauchy's integral formula), the radius shrunk until two
    estimates agree or one circle's own error estimate (from the means of every
    2nd and 4th sample) is below the tolerance;
-4. paths that still failed are re-tracked with a cautious step control.
+4. paths that still failed are re-tracked with a cautious step control and an endgame that goes
+   :data:`DEEPER_ENDGAME_ROUNDS` times as many radii deep (and so does the precision rescue's endgame).
 
 Statuses (:class:`PathStatus`): converged, singular endpoint, at infinity,
 and the failures (minimum step, step limit, non-finite values, endgame did
@@ -65,6 +66,12 @@ RESCUE_WORK_PER_BATCH = 2_000_000
 #: (a witness cascade or a decomposition makes hundreds of calls: per call alone, the rescue of the regeneration
 #: paths of one system ran for more than ten minutes, decision 0050).
 RESCUE_WORK_PER_RUN = 6_000_000
+#: The retries (cautious, precision rescue) run the endgame over this many times ``endgame_rounds`` radii. A
+#: point of high multiplicity beside a point at infinity along its tangent (a tacnode's rank-drop system after
+#: a linear change, decision 0065) has circles that enclose branch points down to r ~ 1e-7, where ten
+#: radii end: the next radii settle every path (3 at infinity, winding 4; one at the point, winding 3)
+#: instead of three unsettled. Only paths that already failed pay for the deeper rounds.
+DEEPER_ENDGAME_ROUNDS = 2
 
 # [remaining work] shared by the track_paths calls of one block; None outside any block (each call alone)
 _RESCUE_BUDGET = contextvars.ContextVar("numag_rescue_budget", default=None)
@@ -909,7 +916,8 @@ def track_paths(homotopy, start_points, options=None, progress=None):
     failed = np.nonzero(status >= PathStatus.FAILED_MIN_STEP)[0]
     if len(failed):
         cautious = replace(opts, initial_step=opts.initial_step / 10, max_step=opts.max_step / 10,
-                           corrector_tolerance=opts.corrector_tolerance / 10, max_steps=opts.max_steps * 5)
+                           corrector_tolerance=opts.corrector_tolerance / 10, max_steps=opts.max_steps * 5,
+                           endgame_rounds=opts.endgame_rounds * DEEPER_ENDGAME_ROUNDS)
         again = _track(homotopy, start_points[failed], cautious)
         retracked[failed] = True
         endpoints[failed], status[failed], extra_steps, condition[failed], winding[failed], endgame[failed] = again
@@ -942,7 +950,8 @@ def track_paths(homotopy, start_points, options=None, progress=None):
             shared[0] -= granted - budget
         if rescued:
             rescued = np.array(rescued)
-            again = _track(homotopy, None, opts, near=np.array(nears))
+            deeper = replace(opts, endgame_rounds=opts.endgame_rounds * DEEPER_ENDGAME_ROUNDS)
+            again = _track(homotopy, None, deeper, near=np.array(nears))
             endpoints[rescued], status[rescued], extra_steps, condition[rescued], winding[rescued], \
                 endgame[rescued] = again
             steps[rescued] += extra_steps

@@ -665,7 +665,8 @@ def _regenerate(slicing, before, index, codim, points, options, deflate=True):
             f = f * Polynomial.variable(0, n + 1).numeric().power(degree - f.degree)
         run = track_moves(held + [product] + rest, held + [f] + rest, starts, slicing.rng, options.tracker,
                           options.batch_size, whole_cycles=True, held=block)
-    return run.affine_endpoints(), lost, paths + run.counts
+    # a point reached only by a broken cycle is still a point of V(held, f): kept (its paths counted as jumped)
+    return run.affine_endpoints(jumped_limits=True), lost, paths + run.counts
 
 
 #: Deflation minors of the regeneration are written out only while they can have at most this many monomials

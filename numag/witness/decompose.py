@@ -51,7 +51,7 @@ from ..numeric.minors import (CombinedRows, EvaluatedMinors, AugmentedEvaluator,
 from ..numeric.scaling import Scaling
 from ..numeric.seeds import random_state, resolved_seed
 from ..tracking.service import PathCounts, add_path_counts
-from ..tracking.tracker import rescue_budget
+from ..tracking.tracker import PathStatus, rescue_budget
 from .cascade import (WitnessOptions, combine_equations, held_parts, jacobian_rank, linear_form, membership, random_rows,
                       track_moves, witness_supersets)
 from .fibres import EMPTY_FIBRE, WHOLE_FIBRE, FiniteBlock, fibre_system, finite_block, solve_block
@@ -362,6 +362,10 @@ def holding_rows(system, codimension, points, rng, threshold=1e-6, max_rounds=4,
     return HeldEquations(equations, None, deflated)
 
 
+#: Path statuses of a failure (a detour may undo them).
+_FAILED_STATUSES = [int(code) for code in PathStatus if code.failed]
+
+
 class _Mover:
     """Moves the witness points of one dimension between slices, on the held equations."""
 
@@ -376,16 +380,40 @@ class _Mover:
         self.held = equations.combined(codimension, rng)
         self.slice_rows = slice_rows
 
-    def move(self, points, from_rows, to_rows):
-        held, block = held_parts(self.held)
-        start = held + [linear_form(r) for r in from_rows]
-        target = held + [linear_form(r) for r in to_rows]
+    def move(self, points, from_rows, to_rows, detour=False):
+        """The points moved from the slice ``from_rows`` to ``to_rows`` (NaN rows where a path failed).
+
+        With ``detour``, for callers that need the set of endpoints and not which point went where (a
+        monodromy loop: any closed loop gives a valid permutation; a move to a real slice): a failed path is
+        tracked again through a random slice between the two, and counted as re-tracked when it arrives.
+        """
         # No high-precision rescue here: a loop or trace path that fails only costs another loop or
         # translation, while re-tracking it in mpmath can take minutes (seen on three quadrics).
         tracker = replace(self.options.witness.tracker, rescue_digits=0)
-        run = track_moves(start, target, points, self.rng, tracker, self.options.witness.batch_size, held=block)
+        run = self._track(points, from_rows, to_rows, tracker)
+        failed = np.nonzero(np.isin(run.status, _FAILED_STATUSES))[0]
+        if detour and len(failed):
+            # The pencil between two slices holds a slice through each singular point of X's closure; a path
+            # whose slice passes near one meets clustered sheets and stops at the minimum step (decision
+            # 0065). Another pencil, through a random slice, passes near none of them.
+            middle = random_rows(self.rng, len(from_rows), self.n + 1)
+            halfway = self._track(points[failed], from_rows, middle, tracker).affine_endpoints()
+            arrived = np.all(np.isfinite(halfway), axis=1)
+            if np.any(arrived):
+                last = self._track(halfway[arrived], middle, to_rows, tracker)
+                ends = np.isin(last.status, [PathStatus.CONVERGED, PathStatus.SINGULAR_ENDPOINT])
+                rows = failed[arrived][ends]
+                run.endpoints[rows], run.status[rows] = last.endpoints[ends], last.status[ends]
+                run.winding[rows], run.condition[rows] = last.winding[ends], last.condition[ends]
+                run.retracked[rows] = True
         self.paths += run.counts
         return run.affine_endpoints()
+
+    def _track(self, points, from_rows, to_rows, tracker):
+        held, block = held_parts(self.held)
+        start = held + [linear_form(r) for r in from_rows]
+        target = held + [linear_form(r) for r in to_rows]
+        return track_moves(start, target, points, self.rng, tracker, self.options.witness.batch_size, held=block)
 
 
 def _match(ends, points, tolerance):
@@ -453,11 +481,11 @@ def _split(mover, points, rng, options, loops_run):
             break
         open_points = sorted(i for group, done, _ in groups if not done for i in group)
         away = random_rows(rng, len(mover.slice_rows), mover.n + 1)
-        there = mover.move(points[open_points], mover.slice_rows, away)
+        there = mover.move(points[open_points], mover.slice_rows, away, detour=True)
         good = np.all(np.isfinite(there), axis=1)
         back = np.full(there.shape, np.nan, dtype=complex)
         if np.any(good):
-            back[good] = mover.move(there[good], away, mover.slice_rows)
+            back[good] = mover.move(there[good], away, mover.slice_rows, detour=True)
         landed = _match(back, points, 1e-6)
         loops += 1
         before = nx.number_connected_components(graph)
@@ -540,7 +568,7 @@ def _to_real_slice(mover, points, rows, rng):
     center = rng.standard_normal(n) / np.sqrt(n)
     real_rows[:, 0] = -(real_rows[:, 1:] @ center)
     real_rows = (real_rows / np.linalg.norm(real_rows, axis=1, keepdims=True)).astype(complex)
-    moved = mover.move(points, rows, real_rows)
+    moved = mover.move(points, rows, real_rows, detour=True)
     if not np.all(np.isfinite(moved)) or len(points) != len(set(cluster_labels(moved, 1e-6))):
         return points, rows
     return moved, real_rows
