@@ -295,7 +295,11 @@ def newton_zero_test(system, evaluator, points, sizes=None, max_iterations=60):
     open_rows = np.nonzero(~zero & np.all(np.isfinite(result.points), axis=1))[0]
     if len(open_rows):
         _, values, jacobians = scaled_residual_norm(sizes, evaluator, result.points[open_rows])
-        unexplained[open_rows] = explained_share(jacobians, values) < _EXPLAINED_SHARE
+        # F or J overflowing at a finite point (|x| = 1e90 in a quartic): no zero there, and no SVD of infinities
+        finite = np.all(np.isfinite(values), axis=1) & np.all(np.isfinite(jacobians), axis=(1, 2))
+        unexplained[open_rows[~finite]] = True
+        if np.any(finite):
+            unexplained[open_rows[finite]] = explained_share(jacobians[finite], values[finite]) < _EXPLAINED_SHARE
     unexplained |= ~zero & ~np.all(np.isfinite(result.points), axis=1)
     kinds = [ZeroKind.ZERO if z else ZeroKind.NOT_A_ZERO if u else ZeroKind.UNDECIDED
              for z, u in zip(zero, unexplained)]
