@@ -641,14 +641,19 @@ class EvaluatedMinors:
 
 
 def _products_of_others(values):
-    """For each i along the last axis, the product of the other entries (no division: zeros are fine)."""
-    size = values.shape[-1]
-    out = np.ones_like(values)
-    for i in range(size):
-        for j in range(size):
-            if i != j:
-                out[..., i] = out[..., i] * values[..., j]
-    return out
+    """For each i along the last axis, the product of the other entries (no division: zeros are fine).
+
+    Prefix times suffix products (2 cumulative products instead of size^2 array passes; decision 0067).
+
+    Examples
+    --------
+    >>> _products_of_others(np.array([[2.0, 3.0, 0.0, 5.0]]))
+    array([[ 0.,  0., 30.,  0.]])
+    """
+    ones = np.ones(values.shape[:-1] + (1,), dtype=values.dtype)
+    before = np.cumprod(np.concatenate([ones, values[..., :-1]], axis=-1), axis=-1)
+    after = np.cumprod(np.concatenate([ones, values[..., :0:-1]], axis=-1), axis=-1)[..., ::-1]
+    return before * after
 
 
 def _determinant_and_adjugate(matrices):
