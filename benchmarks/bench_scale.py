@@ -24,8 +24,9 @@ since times on a shared machine are upper bounds). The goals are the issue's:
 * conjugates: nodes of two conjugate Cayley cubics (``--full``: four conjugate Togliatti quintics, 124
   nodes, < 60 s), the generator of the number field an unknown;
 * families: per formulation a growing family -- nodal surfaces T_d(x) + T_d(y) + T_d(z) + 1 = 0 of degree
-  3 to 10, the determinant of n x n matrices (n = 2 to 5), unions of k quadrics -- numag's time against size
-  with sympy's Groebner time (grevlex, of F and its partials) beside it, each in a child process with a
+  3 to 10, the determinant of n x n matrices (n = 2 to 5), unions of k quadrics, mechanisms of a crank driving k
+  change-point four-bars (k = 1 to 5) -- numag's time against size with sympy's Groebner time (grevlex, of F and
+  its partials; for the mechanisms F and the maximal minors of its Jacobian) beside it, each in a child process with a
   time limit (``--reference-limit``, default 600 s), the crossover size and the ratio at the largest size
   both finish;
 * golden (``--golden``, not in the default run): Barth's sextic with the golden ratio as an unknown p
@@ -381,11 +382,54 @@ def _sympy_child(plain, queue):
     queue.put((time.process_time() - start, f"{len(basis.exprs)} polynomials"))
 
 
-def _timed_pair(system, seed, numag_limit, reference_limit):
+# rotations with rational entries (Pythagorean triples), so the loops' folds sit at distinct crank angles and
+# no two loops are folded at once: 0, 90 degrees, atan(4/3), atan(12/5) + 90 degrees, atan(3/4) + 180 degrees
+_ROTATIONS = [("1", "0"), ("0", "1"), ("3/5", "4/5"), ("-12/13", "5/13"), ("-4/5", "-3/5")]
+
+
+def loop_mechanism(loops):
+    """A crank carrying ``loops`` change-point four-bars at rational angles: 2 + 2 * loops links.
+
+    The crank tip A (|A| = 2, pivot at the origin) turned by the loop's rotation R_j drives a coupler of length 3
+    to B_j, on a rocker of length 3 pivoted at (4, 0): |B_j - (4, 0)| = 3, |B_j - R_j A| = 3 (written with R_j A
+    substituted, so 2 + 2 * loops unknowns and 1 + 2 * loops equations; two loops are the six-bar of
+    :func:`six_bar` without its coupler midpoint). crank + ground = coupler + rocker (a Grashof change point;
+    common practice, no source): loop j folds where R_j A = (-2, 0) (then B_j = (1, 0)), and there every other
+    loop, whose crank is then neither at (2, 0) nor at (-2, 0), has two real assembly positions: the
+    configuration curve has loops * 2^(loops - 1) real singular points (by construction, worked out by hand;
+    the run checks the count).
+    """
+    names = ["ax", "ay"] + [f"b{j}{axis}" for j in range(1, loops + 1) for axis in "xy"]
+    equations = ["ax^2 + ay^2 - 4"]
+    for j, (cos, sin) in enumerate(_ROTATIONS[:loops], 1):
+        cx, cy = f"({cos}*ax - {sin}*ay)", f"({sin}*ax + {cos}*ay)"
+        equations += [f"(b{j}x - 4)^2 + b{j}y^2 - 9", f"({cx} - b{j}x)^2 + ({cy} - b{j}y)^2 - 9"]
+    return parse_system(equations, names, name=f"{2 + 2 * loops} links")
+
+
+def _sympy_minors_child(plain, queue):
+    """sympy's Groebner basis (grevlex) of F and all maximal minors of its Jacobian (the minors are formed
+    before the clock starts: only the basis is timed)."""
+    import itertools
+
+    import sympy
+
+    from numag.app.reference import _expressions
+    symbols, expressions = _expressions(plain, sympy)
+    jacobian = sympy.Matrix([[sympy.diff(e, s) for s in symbols] for e in expressions])
+    size = len(expressions)
+    minors = [sympy.expand(jacobian[:, list(columns)].det(method="berkowitz"))
+              for columns in itertools.combinations(range(len(symbols)), size)]
+    start = time.process_time()
+    basis = sympy.groebner(expressions + [m for m in minors if m != 0], *symbols, order="grevlex")
+    queue.put((time.process_time() - start, f"{len(basis.exprs)} polynomials"))
+
+
+def _timed_pair(system, seed, numag_limit, reference_limit, reference=None):
     from numag.app.reference import system_to_plain
     from reference_timing import run_with_time_limit
     ours = run_with_time_limit(_numag_child, (system, seed), numag_limit)
-    theirs = run_with_time_limit(_sympy_child, (system_to_plain(system),), reference_limit)
+    theirs = run_with_time_limit(reference or _sympy_child, (system_to_plain(system),), reference_limit)
     return ours, theirs
 
 
@@ -472,7 +516,7 @@ def section_conjugates(full, numag_limit):
              ours[1] if ours else "time limit")
 
 
-def section_families(quick, numag_limit, reference_limit, chosen=("nodal", "det", "quadrics")):
+def section_families(quick, numag_limit, reference_limit, chosen=("nodal", "det", "quadrics", "mechanisms")):
     print(f"\n== growing families (child processes; wall-time limits: numag {numag_limit} s, sympy {reference_limit} s; "
           "CPU seconds of the computation, start-up excluded)")
     families = [
@@ -484,15 +528,19 @@ def section_families(quick, numag_limit, reference_limit, chosen=("nodal", "det"
         ("unions of k random quadrics", [(k, (quadric_union(k, np.random.default_rng(11 + k)), None))
                                          for k in range(2, 4 if quick else 6)],
          lambda k, _: f"{k * (k - 1) // 2} x dim 1 deg 4"),
+        ("mechanisms: a crank driving k change-point four-bars (2 + 2k links)",
+         [(k, (loop_mechanism(k), None)) for k in range(1, 4 if quick else 6)],
+         lambda k, _: f"{k * 2 ** (k - 1)} x dim 0 deg 1"),
     ]
-    for key, (title, members, expectation) in zip(("nodal", "det", "quadrics"), families):
+    references = {"mechanisms": _sympy_minors_child}
+    for key, (title, members, expectation) in zip(("nodal", "det", "quadrics", "mechanisms"), families):
         if key not in chosen:
             continue
         print(f"-- {title}")
         _row("size", "numag cpu s", "sympy cpu s", "sympy / numag", "numag's pieces (expected)", widths=(8, 12, 12, 14, 60))
         crossover, last_ratio = None, None
         for size, (system, expected) in members:
-            ours, theirs = _timed_pair(system, 1, numag_limit, reference_limit)
+            ours, theirs = _timed_pair(system, 1, numag_limit, reference_limit, references.get(key))
             ours_text = f"{ours[0]:.2f}" if ours else f"> {numag_limit} wall"
             theirs_text = f"{theirs[0]:.2f}" if theirs else f"> {reference_limit} wall"
             ratio = theirs[0] / ours[0] if ours and theirs and ours[0] > 0 else None
@@ -609,7 +657,7 @@ def main():
     parser.add_argument("--quick", action="store_true", help="smaller sizes (about a minute)")
     parser.add_argument("--sections",
                         default="parse,start,solve,judge,singular,check,large,conjugates,families,memory")
-    parser.add_argument("--families", default="nodal,det,quadrics", help="which growing families (section families)")
+    parser.add_argument("--families", default="nodal,det,quadrics,mechanisms", help="which growing families (section families)")
     parser.add_argument("--reference-limit", type=float, default=600.0, help="seconds for each sympy run")
     parser.add_argument("--numag-limit", type=float, default=600.0, help="seconds for each numag child run")
     parser.add_argument("--memory-exponent", type=int, default=17, help="2^N paths for the memory row")

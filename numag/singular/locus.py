@@ -47,6 +47,7 @@ from ..system.polynomial import Polynomial, PolynomialSystem, linear_space, requ
 from ..numeric.cluster import cluster_labels, groups, normalize_projective
 from ..numeric.evaluate import BatchEvaluator, TermSizes
 from ..numeric.minors import (MinorsSystem, degree_lowering_directions, directional_gradients, expanded_minors,
+                              minor_term_bound,
                               random_minor_weights)
 from ..numeric.refine import IsolationTest, ZeroKind, project_to_variety
 from ..numeric.scaling import Scaling
@@ -275,8 +276,10 @@ def minors_system(system, codimension, rng, max_exact, n_columns=None, evaluate_
     # a closed block of equations (an auxiliary algebraic number) is split root by root, which needs the
     # minors as polynomials (decision 0061); too large to expand, they go to the null-vector form instead
     if evaluate_large and n_columns is None and codimension >= 2 and finite_block(system) is None \
-            and expansion_bound(equations, codimension, n) > EXPANSION_MONOMIALS:
-        # a c x c determinant of polynomials multiplies c of them: written out it can have C(n + D, n) terms
+            and expansion_bound(equations, codimension, n) > EXPANSION_MONOMIALS \
+            and minor_term_bound(equations, weights) > EXPANSION_MONOMIALS:
+        # a c x c determinant of polynomials multiplies c of them: written out it can have C(n + D, n) terms,
+        # and perm(term counts) before cancellation; sparse Jacobians (mechanisms) stay small and exact
         kind = CandidateSystem.MINORS if weights.complete else CandidateSystem.RANDOM_MINORS
         return MinorsSystem(system.variables, equations, weights, name=system.name), kind
     # The Jacobian along the directions where F's derivatives lose degree (the same minors' span, fewer
