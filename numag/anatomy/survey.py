@@ -30,7 +30,7 @@ from ..system.display import counted
 from ..numeric.seeds import random_state
 from ..witness.decompose import decompose
 from .frame import cube_root_direction, kernel_cubic
-from .hypersurface import anatomy_in_frame, hessian_evidence
+from .hypersurface import anatomy_in_frame, hessian_evidence, higher_a_nearby
 from .deflation import DeflationOutcome, onto_singular_point
 from .local import LocalOptions, LocalPicture, hypersurface_witness, local_picture, order_radius, orbit_tangent
 from .records import Branch, ComponentAnatomy, Family, Motion, PointAnatomy, SingularityType, TypeTest
@@ -258,6 +258,15 @@ def _hypersurface_point(polynomial, computed, user_point, scaling, rng, real, an
         _undecided(anatomy.hypersurface, TypeTest.POINT_OFF)
         anatomy.notes.append(f"the point is off the singular point (scaled residual of (f, grad f) "
                              f"{deflation.residual_before:.1e}) and was not moved onto it: type, mu and tau undecided")
+    kind = anatomy.hypersurface.type
+    if deflation is not None and not deflation.moved and deflation.outcome is not DeflationOutcome.ALREADY_THERE \
+            and kind.family is Family.A and kind.index >= 2 and higher_a_nearby(frame, kind.index):
+        # the deflation stopped short (A5 and beyond need more steps) and the residual of (f, grad f) can be at
+        # rounding 1e-10 off (term sizes at |p| of 1e2 dwarf the offset's terms): an A5 read there is an A4
+        # with a tiny v^5 term, and next to it the data fit a higher A_k as well (scale-free, in the frame)
+        _undecided(anatomy.hypersurface, TypeTest.POINT_OFF)
+        anatomy.notes.append(f"the point may be off the singular point: an {kind.label} read there is, to within "
+                             "rounding, also a more degenerate singularity next to it; type, mu and tau undecided")
     expected = _plane_branches(anatomy.hypersurface.type) if n == 2 else None
     if expected is not None and anatomy.branches is not None:
         found = sorted(b.multiplicity for b in anatomy.branches)
