@@ -115,3 +115,21 @@ def test_a_higher_a_next_to_the_point(offset):
     rounding = Polynomial(np.array([[0, 0], [1, 0], [0, 1]]), np.full(3, 1e-16, dtype=complex), 2)
     frame = LocalFrame(np.zeros(2), np.eye(2), g, 1, 1.0, 0.0, uncertainty=rounding)
     assert higher_a_nearby(frame, 4) is (offset > 0)
+
+
+def test_a_frame_without_terms_above_rounding_gives_no_traceback():
+    # Arnold 1972 (see FORMS): x^3 + y^5 is E8. After a change of condition 1e3 and read 1e-10 off (the placement
+    # of benchmarks/bench_anatomy_off.py --condition 1000, seed 6), every Taylor term in the frame was dropped as
+    # rounding and the local picture raised a ValueError; now the picture is not counted (an incomplete anatomy)
+    # and the type is E8 or undecided.
+    from numag.system.polynomial import PolynomialSystem
+    rng = np.random.default_rng(506)  # the benchmark's draws for seed 6
+    units = 10.0 ** rng.integers(-3, 4, 2)
+    left, _, right = np.linalg.svd(rng.standard_normal((2, 2)))
+    matrix = left @ np.diag([1.0, 1e-3]) @ right @ np.diag(1 / units)
+    point = rng.standard_normal(2) * units
+    f = parse_system(["x^3 + y^5"], ["x", "y"]).polynomials[0].numeric()
+    system = PolynomialSystem(["x", "y"], [f.substitute_linear(matrix, -matrix @ point)])
+    anatomy = point_anatomy(system, _off(point, 6), seed=6)
+    assert anatomy.hypersurface.type.label in ("E8", "undecided")
+    assert anatomy.multiplicity in (None, 3)

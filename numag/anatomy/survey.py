@@ -232,17 +232,13 @@ def _hypersurface_point(polynomial, computed, user_point, scaling, rng, real, an
     hypersurface, frame = anatomy_in_frame(polynomial, computed)
     local = frame.polynomial
     origin = np.zeros(n, dtype=complex)
-    points, rows = hypersurface_witness(local, rng)
-    # in the frame the singularity's terms have size one: a radius of 1e-2 stays in the asymptotic regime (the
-    # shrink check tests it) and keeps the points of a high branch apart (A6: 2 eps^3.5, 6e-11 at eps = 1e-3)
-    # and it stays within half the radius where g's higher forms overtake its lowest (decision 0056)
-    in_frame = dataclasses.replace(options.local, radius=max(options.local.radius, _FRAME_RADIUS),
-                                   ceiling=_ORDER_SHARE * order_radius(local))
-    # with what is unknown about g at the local points (rounding, a point off the singular point) weighed
-    # against its terms there: widened slices where the smallest one cannot tell (decision 0056)
-    picture = local_picture([local], 1, origin, points, rows, rng, real=real, options=in_frame,
-                            unresolved=frame.unresolved)
-    anatomy = _picture_anatomy(picture, scaling, origin, user_point, n - 1, angles, real, frame)
+    if local.is_zero():
+        # every Taylor term of degree 2 and more was at rounding level (E8 after a change of condition 1e3, read
+        # 1e-10 off): there is nothing to slice, and the multiplicity and branches are not counted
+        anatomy = PointAnatomy(np.asarray(user_point, dtype=complex), n - 1, None,
+                               notes=["every Taylor term at the point is at rounding level: no local picture"])
+    else:
+        anatomy = _local_anatomy(local, frame, origin, user_point, scaling, rng, real, angles, options)
     anatomy.hypersurface = hypersurface
     if deflation is not None:
         if deflation.moved:
@@ -285,6 +281,22 @@ def _hypersurface_point(polynomial, computed, user_point, scaling, rng, real, an
     if anatomy.hypersurface.corank == 0 and anatomy.multiplicity not in (None, 2):
         anatomy.notes.append(f"a Morse point has multiplicity 2, the local witness set counted {anatomy.multiplicity}")
     return anatomy
+
+
+def _local_anatomy(local, frame, origin, user_point, scaling, rng, real, angles, options):
+    """The local picture of the frame polynomial g at u = 0 (multiplicity, branches) as a PointAnatomy."""
+    n = local.n_variables
+    points, rows = hypersurface_witness(local, rng)
+    # in the frame the singularity's terms have size one: a radius of 1e-2 stays in the asymptotic regime (the
+    # shrink check tests it) and keeps the points of a high branch apart (A6: 2 eps^3.5, 6e-11 at eps = 1e-3)
+    # and it stays within half the radius where g's higher forms overtake its lowest (decision 0056)
+    in_frame = dataclasses.replace(options.local, radius=max(options.local.radius, _FRAME_RADIUS),
+                                   ceiling=_ORDER_SHARE * order_radius(local))
+    # with what is unknown about g at the local points (rounding, a point off the singular point) weighed
+    # against its terms there: widened slices where the smallest one cannot tell (decision 0056)
+    picture = local_picture([local], 1, origin, points, rows, rng, real=real, options=in_frame,
+                            unresolved=frame.unresolved)
+    return _picture_anatomy(picture, scaling, origin, user_point, n - 1, angles, real, frame)
 
 
 def _undecided(hypersurface, test):
