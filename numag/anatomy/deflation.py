@@ -93,6 +93,9 @@ class Deflation:
         stages had moved it when they stopped (more than rounding: the given point is off the singular point).
     residual_before, residual_after : float
         Largest scaled residual of (f, grad f) at the given and at the returned point (term sizes).
+    reached : ndarray of complex, shape (n,), optional
+        For a kept point, where the deflation's stages had taken it when they stopped (same units; closer to
+        the singular point than the given one when that is off it); None otherwise.
     """
 
     point: np.ndarray
@@ -101,6 +104,7 @@ class Deflation:
     distance: float
     residual_before: float
     residual_after: float
+    reached: np.ndarray = None
 
     @property
     def moved(self):
@@ -279,8 +283,10 @@ def onto_singular_point(polynomial, point, seed=0):
 
     def kept(outcome, steps):
         # how far the stages that ran moved the point (a deflation short of regular still moves it towards p*)
+        shift = current[:n].real.astype(complex) if real else current[:n]
+        reached = point + shift if np.all(np.isfinite(shift)) else None
         return Deflation(point, outcome, steps, float(np.linalg.norm(current[:n]) / (1.0 + np.linalg.norm(point))),
-                         before, before)
+                         before, before, reached)
 
     # f(p + u) whole, in the computed units: its constant and linear terms say where the singular point lies.
     # (Not in the local frame: built at a point off the singular point it is distorted by the offset -- a

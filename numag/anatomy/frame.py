@@ -102,6 +102,28 @@ class LocalFrame:
             ratio = _term_total(self.uncertainty, points) / (slope * apart)
         return np.where(np.isnan(ratio), np.inf, ratio)
 
+    def singular_within_uncertainty(self, points):
+        """Whether g and its gradient vanish at points u to within what is unknown about g there (vectorised).
+
+        ``uncertainty`` bounds g's terms (rounding, and the dropped terms of degree 0 and 1); at a point where
+        |g| and every |dg/du_j| are at most the same bound summed over the uncertainty's terms (and their
+        derivatives'), f may as well be singular there as at u = 0: the data cannot tell the two apart.
+
+        Examples
+        --------
+        >>> g = Polynomial(np.array([[2, 0], [0, 5], [0, 6]]), np.array([1.0, 1e-9, 1.0]), 2)
+        >>> noise = Polynomial(np.array([[0, 0], [0, 1]]), np.array([1e-16, 1e-16]), 2)
+        >>> frame = LocalFrame(np.zeros(2), np.eye(2), g, 1, 1.0, 0.0, uncertainty=noise)
+        >>> frame.singular_within_uncertainty(np.array([[0, -1e-9 / 6], [0, 0.5]])).tolist()
+        [True, False]
+        """
+        points = np.asarray(points, dtype=complex)
+        within = np.abs(_values(self.polynomial, points)) <= _term_total(self.uncertainty, points)
+        bound = self.uncertainty if self.uncertainty is not None else Polynomial.zero(self.polynomial.n_variables)
+        for j, derivative in enumerate(self.polynomial.gradient()):
+            within &= np.abs(_values(derivative, points)) <= _term_total(bound.derivative(j), points)
+        return within
+
     def noise_up_to(self, degree):
         """The largest rounding level (relative, frame units) of a Taylor coefficient of degree <= ``degree``.
 

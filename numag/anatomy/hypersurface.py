@@ -25,7 +25,7 @@ from .frame import cubic_degeneracy, cubic_root_spread, kernel_cubic, local_fram
 from .records import Family, HessianEvidence, HypersurfaceAnatomy, SingularityType, TypeTest
 
 __all__ = ["hessian_evidence", "kernel_cubic", "hypersurface_anatomy", "anatomy_in_frame", "milnor_by_paths",
-           "critical_set_not_isolated",
+           "critical_set_not_isolated", "higher_a_nearby",
            "HESSIAN_ZERO", "max_dual_order"]
 
 #: Scaled Hessian singular values: zero ones at most 1e-7 (points good to about 13 digits), kept ones at
@@ -241,6 +241,52 @@ def hypersurface_anatomy(polynomial, point, seed=0):
     ('E6', 6, 6, 'CUBIC_TRIPLE_ROOT')
     """
     return anatomy_in_frame(polynomial, point, seed)[0]
+
+
+def higher_a_nearby(frame, index):
+    """Whether an A_index read in ``frame`` could as well be a higher A_k at a point next to u = 0.
+
+    At a point off the singular point of an A_k, f(p + u) is that A_k's expansion moved by the offset d: its
+    lower coefficients are powers of d (below rounding), and its v^k coefficient is about (k + 1) d, so the
+    reading is A_(k-1). The data cannot tell that from a genuine A_(k-1) with a small v^k term: both are read
+    the same. What tells them apart is scale-free: the point s on the kernel axis where the kernel's
+    v^(index + 1) coefficient vanishes (s = -a_(index+1) / ((index + 2) a_(index+2)), first order), and
+    whether g and grad g vanish there to within what is unknown about them (``frame.uncertainty``: rounding,
+    and the dropped terms of degree 0 and 1). If they do, a more degenerate singular point at s is as
+    consistent with the data as the A_index at 0, and the type cannot be told.
+
+    Parameters
+    ----------
+    frame : LocalFrame
+        Of Hessian rank n - 1 (the kernel variable last).
+    index : int
+        The k of the A_k read there.
+
+    Returns
+    -------
+    bool
+
+    Examples
+    --------
+    >>> g = Polynomial(np.array([[2, 0], [0, 5], [0, 6]]), np.array([1.0, 6e-9, 1.0]), 2)
+    >>> noise = Polynomial(np.array([[0, 0], [0, 1]]), np.array([1e-16, 1e-16]), 2)
+    >>> from .frame import LocalFrame
+    >>> higher_a_nearby(LocalFrame(np.zeros(2), np.eye(2), g, 1, 1.0, 0.0, uncertainty=noise), 4)
+    True
+    >>> genuine = Polynomial(np.array([[2, 0], [0, 5], [0, 6]]), np.array([1.0, 1.0, 1.0]), 2)
+    >>> higher_a_nearby(LocalFrame(np.zeros(2), np.eye(2), genuine, 1, 1.0, 0.0, uncertainty=noise), 4)
+    False
+    """
+    g = frame.polynomial
+    n = g.n_variables
+    pure = {int(e[-1]): c for e, c in zip(g.exponents, g.numeric_coefficients()) if not np.any(e[:-1])}
+    leading, next_one = pure.get(index + 1, 0), pure.get(index + 2, 0)
+    if leading == 0 or next_one == 0:
+        return False
+    shift = -leading / ((index + 2) * next_one)
+    point = np.zeros((1, n), dtype=complex)
+    point[0, -1] = shift
+    return bool(frame.singular_within_uncertainty(point)[0])
 
 
 def anatomy_in_frame(polynomial, point, seed=0):

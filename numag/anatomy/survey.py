@@ -30,7 +30,7 @@ from ..system.display import counted
 from ..numeric.seeds import random_state
 from ..witness.decompose import decompose
 from .frame import cube_root_direction, kernel_cubic
-from .hypersurface import anatomy_in_frame, hessian_evidence
+from .hypersurface import anatomy_in_frame, hessian_evidence, higher_a_nearby
 from .deflation import DeflationOutcome, onto_singular_point
 from .local import LocalOptions, LocalPicture, hypersurface_witness, local_picture, order_radius, orbit_tangent
 from .records import Branch, ComponentAnatomy, Family, Motion, PointAnatomy, SingularityType, TypeTest
@@ -232,17 +232,13 @@ def _hypersurface_point(polynomial, computed, user_point, scaling, rng, real, an
     hypersurface, frame = anatomy_in_frame(polynomial, computed)
     local = frame.polynomial
     origin = np.zeros(n, dtype=complex)
-    points, rows = hypersurface_witness(local, rng)
-    # in the frame the singularity's terms have size one: a radius of 1e-2 stays in the asymptotic regime (the
-    # shrink check tests it) and keeps the points of a high branch apart (A6: 2 eps^3.5, 6e-11 at eps = 1e-3)
-    # and it stays within half the radius where g's higher forms overtake its lowest (decision 0056)
-    in_frame = dataclasses.replace(options.local, radius=max(options.local.radius, _FRAME_RADIUS),
-                                   ceiling=_ORDER_SHARE * order_radius(local))
-    # with what is unknown about g at the local points (rounding, a point off the singular point) weighed
-    # against its terms there: widened slices where the smallest one cannot tell (decision 0056)
-    picture = local_picture([local], 1, origin, points, rows, rng, real=real, options=in_frame,
-                            unresolved=frame.unresolved)
-    anatomy = _picture_anatomy(picture, scaling, origin, user_point, n - 1, angles, real, frame)
+    if local.is_zero():
+        # every Taylor term of degree 2 and more was at rounding level (E8 after a change of condition 1e3, read
+        # 1e-10 off): there is nothing to slice, and the multiplicity and branches are not counted
+        anatomy = PointAnatomy(np.asarray(user_point, dtype=complex), n - 1, None,
+                               notes=["every Taylor term at the point is at rounding level: no local picture"])
+    else:
+        anatomy = _local_anatomy(local, frame, origin, user_point, scaling, rng, real, angles, options)
     anatomy.hypersurface = hypersurface
     if deflation is not None:
         if deflation.moved:
@@ -258,6 +254,15 @@ def _hypersurface_point(polynomial, computed, user_point, scaling, rng, real, an
         _undecided(anatomy.hypersurface, TypeTest.POINT_OFF)
         anatomy.notes.append(f"the point is off the singular point (scaled residual of (f, grad f) "
                              f"{deflation.residual_before:.1e}) and was not moved onto it: type, mu and tau undecided")
+    kind = anatomy.hypersurface.type
+    if deflation is not None and not deflation.moved and deflation.outcome is not DeflationOutcome.ALREADY_THERE \
+            and kind.family is Family.A and kind.index >= 2 and higher_a_nearby(frame, kind.index):
+        # the deflation stopped short (A5 and beyond need more steps) and the residual of (f, grad f) can be at
+        # rounding 1e-10 off (term sizes at |p| of 1e2 dwarf the offset's terms): an A5 read there is an A4
+        # with a tiny v^5 term, and next to it the data fit a higher A_k as well (scale-free, in the frame)
+        _undecided(anatomy.hypersurface, TypeTest.POINT_OFF)
+        anatomy.notes.append(f"the point may be off the singular point: an {kind.label} read there is, to within "
+                             "rounding, also a more degenerate singularity next to it; type, mu and tau undecided")
     expected = _plane_branches(anatomy.hypersurface.type) if n == 2 else None
     if expected is not None and anatomy.branches is not None:
         found = sorted(b.multiplicity for b in anatomy.branches)
@@ -276,6 +281,22 @@ def _hypersurface_point(polynomial, computed, user_point, scaling, rng, real, an
     if anatomy.hypersurface.corank == 0 and anatomy.multiplicity not in (None, 2):
         anatomy.notes.append(f"a Morse point has multiplicity 2, the local witness set counted {anatomy.multiplicity}")
     return anatomy
+
+
+def _local_anatomy(local, frame, origin, user_point, scaling, rng, real, angles, options):
+    """The local picture of the frame polynomial g at u = 0 (multiplicity, branches) as a PointAnatomy."""
+    n = local.n_variables
+    points, rows = hypersurface_witness(local, rng)
+    # in the frame the singularity's terms have size one: a radius of 1e-2 stays in the asymptotic regime (the
+    # shrink check tests it) and keeps the points of a high branch apart (A6: 2 eps^3.5, 6e-11 at eps = 1e-3)
+    # and it stays within half the radius where g's higher forms overtake its lowest (decision 0056)
+    in_frame = dataclasses.replace(options.local, radius=max(options.local.radius, _FRAME_RADIUS),
+                                   ceiling=_ORDER_SHARE * order_radius(local))
+    # with what is unknown about g at the local points (rounding, a point off the singular point) weighed
+    # against its terms there: widened slices where the smallest one cannot tell (decision 0056)
+    picture = local_picture([local], 1, origin, points, rows, rng, real=real, options=in_frame,
+                            unresolved=frame.unresolved)
+    return _picture_anatomy(picture, scaling, origin, user_point, n - 1, angles, real, frame)
 
 
 def _undecided(hypersurface, test):
