@@ -190,11 +190,11 @@ def _die_with_parent(parent):
     second that the parent is still the same process and ends the worker when it is not.
     """
     import ctypes  # only workers need it: not imported at the start of every process
-    import ctypes.util
     signal.signal(signal.SIGTERM, signal.SIG_DFL)  # the parent's handler is not the worker's
     signal.signal(signal.SIGINT, signal.SIG_IGN)  # Ctrl-C is the parent's to handle
     try:
-        libc = ctypes.CDLL(ctypes.util.find_library("c") or "libc.so.6", use_errno=True)
+        # the process's loaded symbols include the C library's (find_library would run ldconfig per worker)
+        libc = ctypes.CDLL(None, use_errno=True)
         libc.prctl(1, signal.SIGKILL, 0, 0, 0)  # 1 = PR_SET_PDEATHSIG
     except (OSError, AttributeError):  # pragma: no cover - not Linux
         pass
