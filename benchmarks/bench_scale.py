@@ -660,6 +660,7 @@ def main():
     parser.add_argument("--families", default="nodal,det,quadrics,mechanisms", help="which growing families (section families)")
     parser.add_argument("--reference-limit", type=float, default=600.0, help="seconds for each sympy run")
     parser.add_argument("--numag-limit", type=float, default=600.0, help="seconds for each numag child run")
+    parser.add_argument("--repeats", type=int, default=3, help="runs of each size in section solve (median)")
     parser.add_argument("--memory-exponent", type=int, default=17, help="2^N paths for the memory row")
     parser.add_argument("--golden", action="store_true", help="also Barth's sextic with the golden ratio as an "
                         "unknown in two charts and the swallowtail (several minutes per seed)")
@@ -674,7 +675,7 @@ def main():
     if "start" in sections:
         section_start(args.quick)
     if "solve" in sections:
-        section_solve(args.quick)
+        section_solve(args.quick, args.repeats)
     if "judge" in sections:
         section_judge(args.quick)
     if "singular" in sections:

@@ -68,3 +68,7 @@ def test_a_plain_solve_loads_neither_scipy_nor_mpmath(tmp_path):
     loaded = _modules_after(f"from numag.app.cli import main\nmain(['solve', {str(path)!r}, '--seed', '1'])")
     assert "numag.tracking.solve" in loaded
     assert not loaded & {"scipy", "mpmath", "networkx", "sympy"}
+    # in-process tracking from a total-degree start of regular endpoints: no process pool, no cell search,
+    # no refinement, and no numpy.ma (numpy imports it for a plain np.unique; decision 0067)
+    assert not loaded & {"concurrent.futures", "multiprocessing", "numag.tracking.polyhedral", "numag.numeric.refine",
+                         "numpy.ma"}

@@ -25,14 +25,9 @@ Examples
 {0: 1, 1: 2, 2: 3}
 """
 
-from concurrent.futures import FIRST_COMPLETED, ProcessPoolExecutor, wait
-from concurrent.futures.process import BrokenProcessPool
 from contextlib import contextmanager
 import contextvars
-import ctypes
-import ctypes.util
 from dataclasses import dataclass
-import multiprocessing
 import os
 import signal
 import threading
@@ -194,10 +189,12 @@ def _die_with_parent(parent):
     which holds even for SIGKILL of the parent); everywhere a daemon thread also checks once a
     second that the parent is still the same process and ends the worker when it is not.
     """
+    import ctypes  # only workers need it: not imported at the start of every process
     signal.signal(signal.SIGTERM, signal.SIG_DFL)  # the parent's handler is not the worker's
     signal.signal(signal.SIGINT, signal.SIG_IGN)  # Ctrl-C is the parent's to handle
     try:
-        libc = ctypes.CDLL(ctypes.util.find_library("c") or "libc.so.6", use_errno=True)
+        # the process's loaded symbols include the C library's (find_library would run ldconfig per worker)
+        libc = ctypes.CDLL(None, use_errno=True)
         libc.prctl(1, signal.SIGKILL, 0, 0, 0)  # 1 = PR_SET_PDEATHSIG
     except (OSError, AttributeError):  # pragma: no cover - not Linux
         pass
@@ -294,12 +291,16 @@ class LocalPool(Executor):
     name = "process pool"
 
     def __init__(self, workers=None):
+        # multiprocessing and concurrent.futures are imported here, where a pool is made, not at start-up
+        # (about 10 ms of every `numag` process that runs in-process; decision 0067)
+        import multiprocessing
         super().__init__(workers or default_workers())
         methods = multiprocessing.get_all_start_methods()
         self._context = multiprocessing.get_context("fork" if "fork" in methods else "spawn")
         self._pool = None
 
     def _fresh_pool(self):
+        from concurrent.futures import ProcessPoolExecutor
         if self._pool is not None:
             self._pool.shutdown(wait=False, cancel_futures=True)
         self._pool = ProcessPoolExecutor(max_workers=self.workers, mp_context=self._context,
@@ -319,6 +320,8 @@ class LocalPool(Executor):
                 pass
 
     def run(self, function, batches, attempts=2):
+        from concurrent.futures import FIRST_COMPLETED, wait
+        from concurrent.futures.process import BrokenProcessPool
         self.failures = []
         pool = self._pool or self._fresh_pool()
         tries = {index: 0 for index in range(len(batches))}

@@ -12,7 +12,6 @@ Examples
 '<table><caption>2 points</caption><thead><tr><th>#</th><th>ve'
 """
 
-import html
 import math
 
 __all__ = ["counted", "short_number", "short_point", "html_table"]
@@ -59,6 +58,8 @@ def short_point(point, digits=6):
 
 def html_table(caption, header, rows):
     """An HTML table (every cell escaped) with a caption, for ``_repr_html_``."""
+    import html  # here: the html package loads its entity table, and only notebooks ask for HTML
+
     def cells(tag, values):
         return "".join(f"<{tag}>{html.escape(str(v))}</{tag}>" for v in values)
     body = "".join(f"<tr>{cells('td', row)}</tr>" for row in rows)

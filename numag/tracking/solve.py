@@ -34,11 +34,9 @@ from ..run.checkpoint import RunFolder, manifest_fingerprints
 from ..run.executor import ambient_executor, charge_paths, check_memory, current_executor, make_executor
 from ..numeric.cluster import cluster_labels, groups, normalize_projective, projective_pivot
 from ..numeric.evaluate import BatchEvaluator, PrecisionEvaluator, TermSizes
-from ..numeric.refine import IsolationTest, mp_gauss_newton
 from ..numeric.scaling import Scaling
 from ..numeric.seeds import random_state
 from .homotopy import ParameterHomotopy, StraightLineHomotopy
-from .polyhedral import track_cells
 from .starts import StartKind, choose_start
 from .service import PathCounts, track
 from .tracker import PathStatus, StartArray, TrackerOptions
@@ -253,6 +251,7 @@ def _square_target(system, options, rng):
 def _refine_mp(system, point, digits):
     """Gauss-Newton on F at ``digits`` digits (linear convergence at multiple roots is enough here)."""
     import mpmath  # here, not at import: only singular endpoints are refined in mpmath
+    from ..numeric.refine import mp_gauss_newton
     evaluator = PrecisionEvaluator(system.polynomials)
     sizes = TermSizes(system.polynomials)
     with mpmath.mp.workdps(digits + 10):
@@ -319,6 +318,7 @@ def solve_system(system, options=None, seed=None, progress=None, execution=None)
         if progress is not None:
             progress(f"the polyhedral first stage: {counted(len(choice.polyhedral.cells), 'mixed cell')}, "
                      f"{counted(choice.n_paths, 'path')} to the random system")
+        from .polyhedral import track_cells  # here: a total-degree start never needs it (decision 0067)
         points, stage_one = track_cells(choice.polyhedral, rng, options.tracker, options.batch_size,
                                         executor=_executor_of(execution or Execution(),
                                                               -(-choice.n_paths // options.batch_size)),
@@ -585,6 +585,7 @@ def _collect(system, endpoints, status, winding, condition, options, rng):
         digits = 16
         isolated = settled = True
         if singular:
+            from ..numeric.refine import IsolationTest  # here: a run of regular endpoints never needs it
             isolated = IsolationTest(test_system, rng).isolated(test_point)
             if isolated and test_system.n_equations >= test_system.n_variables:
                 test_point = _refine_mp(test_system, np.mean(

@@ -32,7 +32,6 @@ import numpy as np
 from ..errors import InputError
 from ..system.polynomial import Polynomial, PolynomialSystem
 from .multihomogeneous import GroupSource, VariableGroups, best_groups, multihomogeneous_bezout
-from .polyhedral import MAX_LINEAR_PROGRAMS, PolyhedralStart
 
 __all__ = ["StartKind", "StartChoice", "choose_start", "choose_witness_start", "SECONDS_PER_LINEAR_PROGRAM",
            "SECONDS_PER_PATH"]
@@ -167,6 +166,9 @@ def choose_start(system, kind, groups=None, rng=None):
     table = _relation_table_size(system)
     # auto stays below the cell search's guard on linear programs (which would end the run, not fall back);
     # the table is not the whole search (katsura 6: 32,718 programs for a table of 14,479), hence a quarter
+    if kind == StartKind.POLYHEDRAL or table * SECONDS_PER_LINEAR_PROGRAM <= cheapest * SECONDS_PER_PATH:
+        # imported here, not at start-up: a run whose cell search is too dear never needs it (decision 0067)
+        from .polyhedral import MAX_LINEAR_PROGRAMS, PolyhedralStart
     if kind == StartKind.POLYHEDRAL or \
             (table * SECONDS_PER_LINEAR_PROGRAM <= cheapest * SECONDS_PER_PATH and table <= MAX_LINEAR_PROGRAMS // 4):
         started = time.perf_counter()

@@ -866,7 +866,11 @@ def _track(homotopy, start_points, opts, near=None, on_step=None):
     winding[done] = 1
     status[done] = np.where(infinite[regular], PathStatus.AT_INFINITY, PathStatus.CONVERGED)
     # the rest: Cauchy endgame from the state at the endgame radius
-    rest = np.setdiff1d(running, done)
+    # (running is sorted and distinct, so masking out the regular ones is np.setdiff1d(running, done); the mask
+    # avoids np.unique, which imports numpy.ma in every solve process; decision 0067)
+    finished = np.zeros(len(running), dtype=bool)
+    finished[np.flatnonzero(reached)[regular]] = True
+    rest = running[~finished]
     if len(rest):
         endgame[rest] = True
         estimate, loops, status_c = _cauchy_endgame(homotopy, near[rest], radius[rest], opts,

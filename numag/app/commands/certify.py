@@ -4,7 +4,6 @@ prints certificates (``--certify``).
 
 from ...system.display import counted
 from ...run.executor import make_executor
-from ...certify.records import CertifyOptions, ClaimStatus, Kind, Status
 from ..report import CAUTION, certify_report, dumps, read_report, write_report
 from . import SUMMARIES
 from .common import (EXIT_OK, EXIT_UNDECIDED, _MAX_WORKERS, _count, _progress)
@@ -12,6 +11,7 @@ from .common import (EXIT_OK, EXIT_UNDECIDED, _MAX_WORKERS, _count, _progress)
 
 def add_parser(commands):
     """Add ``numag certify`` to the sub-parsers ``commands`` of the command line."""
+    from ...certify.records import CertifyOptions
     certify = commands.add_parser(
         "certify", help=SUMMARIES["certify"],
         description="Prove what can be proved about each point of a saved JSON report: a box holding exactly "
@@ -43,6 +43,9 @@ def _certified(data, args):
     """The report with certificates when ``--certify`` was given (from 30 digits up to --digits)."""
     if not getattr(args, "certify", False):
         return data
+    # the certificate records are imported where certificates are made or printed: every command calls these
+    # helpers, and a run without --certify should not pay for the import (decision 0067)
+    from ...certify.records import CertifyOptions
     options = CertifyOptions(digits=min(args.digits, _CERTIFY_START_DIGITS), max_digits=args.digits)
     return certify_report(data, options, progress=_progress(args))
 
@@ -68,6 +71,7 @@ def _rank_text(c):
 
 
 def _certificate_line(certificate):
+    from ...certify.records import ClaimStatus, Kind, Status
     c = certificate
     extra = []
     for check in c.get("claim_checks", []):
@@ -144,6 +148,7 @@ def _print_certification(data, out):
 
 
 def run(args, out):
+    from ...certify.records import CertifyOptions
     data = read_report(args.report_file)
     options = CertifyOptions(digits=args.digits, max_digits=args.max_digits, exact=not args.numerical_only).validated()
     with make_executor(args.workers or 1) as executor:
