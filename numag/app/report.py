@@ -200,6 +200,13 @@ def completeness_warnings(data):
     if unsettled:
         warnings.append(f"{counted(unsettled, 'singular candidate')} could not be settled on X (Newton refinement "
                         "drifted): singular points there may be missing.")
+    vanishing = int((data.get("discarded") or {}).get("smooth_with_vanishing_jacobian", 0)) if isinstance(
+        data.get("discarded"), dict) else 0
+    if vanishing:  # features far smaller than the coordinates' unit look like this (decision 0064, addendum)
+        warnings.append(f"{counted(vanishing, 'singular candidate')} judged smooth where the Jacobian nearly "
+                        "vanishes relative to its terms (below 1e-8): features there may be far smaller than the "
+                        "coordinates' unit and singular points nearby may be missing; move the origin near them "
+                        "and rescale the coordinates to decide.")
     mismatched = int((data.get("discarded") or {}).get("tangent_dimension_mismatch", 0)) if isinstance(
         data.get("discarded"), dict) else 0
     if mismatched:  # the rank-drop system's decomposition disagrees with itself: its pieces cannot be trusted

@@ -421,6 +421,7 @@ def singular_locus(system, options=None, seed=None, progress=None):
         locus.variety = locus.variety.in_units(scaling, system, to_user=True)
     locus.system, locus.scaling = system, scaling
     locus.near_singular = _near_singular(system, scaling, dropped, locus.discarded)
+    _vanishing_jacobians(dropped, locus.discarded)
     return locus
 
 
@@ -445,6 +446,7 @@ def _near_singular(system, scaling, dropped, discarded):
                                           codimension=candidate.codimension,
                                           real=bool(_real_flags(system, point[None, :])[0])))
             discarded["smooth_on_check"] -= 1
+            candidate.near_singular = True
     if discarded.get("smooth_on_check") == 0:
         del discarded["smooth_on_check"]
     return near
@@ -646,7 +648,8 @@ def _affine(system, options, rng, paths, discarded, progress, notes_out=None, ro
             if verdict.verdict is Verdict.SMOOTH:
                 discarded["smooth_on_check"] = discarded.get("smooth_on_check", 0) + 1
                 if dropped is not None and candidate.dimension == 0 and verdict.codimension is not None:
-                    dropped.append(_Dropped(point, np.asarray(verdict.point, dtype=complex), verdict.codimension))
+                    dropped.append(_Dropped(point, np.asarray(verdict.point, dtype=complex), verdict.codimension,
+                                            _smallest_value(verdict)))
                 continue
             through = [c["id"] for c in verdict.components]
             piece_kind = PieceKind.of_verdict(verdict.verdict)
@@ -737,6 +740,38 @@ class _Dropped:
     candidate: np.ndarray
     refined: np.ndarray
     codimension: int
+    #: the check's c-th scaled singular value of J there (None when not known)
+    smallest: float | None = None
+    #: measured within the input's precision of a singular point (decision 0062)
+    near_singular: bool = False
+
+
+def _smallest_value(verdict):
+    """The c-th scaled singular value of J behind a smooth verdict (None when the evidence lacks it)."""
+    values = verdict.evidence.singular_values if verdict.evidence is not None else None
+    if values is None or verdict.codimension is None or len(values) < verdict.codimension:
+        return None
+    return float(values[verdict.codimension - 1])
+
+
+#: A candidate called smooth with J's c-th scaled singular value below this (in units of its terms) is not
+#: dropped silently: J nearly vanishes there relative to its terms, which is what features far smaller than
+#: the coordinates' unit look like (two nodes 2e-3 apart at (1, 2): the centre between them, a stationary point
+#: of f with f at 1e-12 of its terms, was the only candidate, at 5e-14). Typical smooth candidates are 1e-3..1.
+_VANISHING_JACOBIAN = 1e-8
+
+
+def _vanishing_jacobians(dropped, discarded):
+    """Move the dropped candidates whose Jacobian nearly vanishes from "smooth_on_check" to
+    "smooth_with_vanishing_jacobian" (a completeness warning: singular points nearby may be missing)."""
+    for candidate in dropped:
+        if candidate.near_singular or candidate.smallest is None or candidate.smallest >= _VANISHING_JACOBIAN:
+            continue
+        if discarded.get("smooth_on_check", 0) > 0:
+            discarded["smooth_on_check"] -= 1
+            discarded["smooth_with_vanishing_jacobian"] = discarded.get("smooth_with_vanishing_jacobian", 0) + 1
+    if discarded.get("smooth_on_check") == 0:
+        del discarded["smooth_on_check"]
 
 
 @dataclass
@@ -836,7 +871,7 @@ def _confirmed_by_check(system, pieces, rng, discarded, dropped=None):
             discarded["smooth_on_check"] = discarded.get("smooth_on_check", 0) + 1
             if dropped is not None and verdict.codimension is not None:
                 dropped.append(_Dropped(piece.points[0], np.asarray(verdict.point, dtype=complex),
-                                        verdict.codimension))
+                                        verdict.codimension, _smallest_value(verdict)))
         else:
             piece.kind = PieceKind.UNDECIDED
             kept.append(piece)
@@ -868,7 +903,7 @@ def _projective_chart(system, options, rng, paths, discarded, notes, progress, r
     pieces, variety = _affine(affine, options, rng, paths, discarded, progress, notes, routes, in_chart)
     if dropped is not None:  # back to homogeneous coordinates, like the pieces
         dropped += [_Dropped(*(normalize_projective(np.concatenate([[1.0], p]) @ q.T)
-                               for p in (d.candidate, d.refined)), d.codimension) for d in in_chart]
+                               for p in (d.candidate, d.refined)), d.codimension, d.smallest) for d in in_chart]
     for piece in pieces:
         homogeneous = np.column_stack([np.ones(len(piece.points)), piece.points]) @ q.T
         piece.points = normalize_projective(homogeneous)
