@@ -209,6 +209,16 @@ def chebyshev_curve(a, b):
     return PolynomialSystem(["x", "y"], [chebyshev(a, 0, 2) - chebyshev(b, 1, 2)], name=f"T{a}(x) = T{b}(y)")
 
 
+def pieces_of(locus):
+    """A singular locus's pieces, counted by dimension, degree, place and kind ("2 x dim 0 deg 1 singular")."""
+    pieces = {}
+    for component in locus.components:
+        key = (f"dim {component.dimension} deg {component.degree}"
+               + (" at infinity" if component.at_infinity else "") + f" {component.kind}")
+        pieces[key] = pieces.get(key, 0) + 1
+    return "; ".join(f"{v} x {k}" for k, v in sorted(pieces.items()))
+
+
 def section_singular(quick):
     print("\n== singular loci (in this process, seed 1)")
     _row("problem", "wall s", "cpu s", "goal s", "pieces (expected)")
@@ -221,13 +231,7 @@ def section_singular(quick):
         start, start_cpu = time.perf_counter(), time.process_time()
         locus = singular_locus(system, seed=1)
         seconds, cpu = time.perf_counter() - start, time.process_time() - start_cpu
-        pieces = {}
-        for component in locus.components:
-            key = (f"dim {component.dimension} deg {component.degree}"
-                   + (" at infinity" if component.at_infinity else "") + f" {component.kind}")
-            pieces[key] = pieces.get(key, 0) + 1
-        _row(system.name, f"{seconds:.2f}", f"{cpu:.2f}", goal,
-             "; ".join(f"{v} x {k}" for k, v in sorted(pieces.items())) + f" ({expected})")
+        _row(system.name, f"{seconds:.2f}", f"{cpu:.2f}", goal, f"{pieces_of(locus)} ({expected})")
 
 
 def _six_bar_folds():

@@ -24,7 +24,7 @@ from numag.singular.locus import singular_locus
 from numag.tracking import tracker
 
 sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
-from bench_scale import chebyshev_curve, six_bar  # noqa: E402
+from bench_scale import chebyshev_curve, pieces_of, six_bar  # noqa: E402
 from families import quadric_union  # noqa: E402
 
 PROBLEMS = {
@@ -64,15 +64,9 @@ def measure(name, seed):
         wall, cpu = time.perf_counter(), time.process_time()
         locus = singular_locus(system, seed=seed)
         wall, cpu = time.perf_counter() - wall, time.process_time() - cpu
-    pieces = {}
-    for component in locus.components:
-        key = (f"dim {component.dimension} deg {component.degree}"
-               + (" at infinity" if component.at_infinity else "") + f" {component.kind}")
-        pieces[key] = pieces.get(key, 0) + 1
     paths, evaluations, steps, endgame = counts.totals()
     print(f"{system.name:<18} {seed:>4} {cpu:>7.2f} {wall:>7.2f} {paths:>6} {evaluations:>11,} {steps:>9,} "
-          f"{endgame:>9,}  " + "; ".join(f"{v} x {k}" for k, v in sorted(pieces.items())) + f" ({expected})",
-          flush=True)
+          f"{endgame:>9,}  {pieces_of(locus)} ({expected})", flush=True)
 
 
 def main():

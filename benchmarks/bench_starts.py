@@ -25,6 +25,7 @@ import argparse
 import json
 import os
 import pathlib
+import sys
 import time
 
 import numpy as np
@@ -38,6 +39,9 @@ from numag.singular.locus import SingularOptions, singular_locus
 from numag.tracking.tracker import FAILURE_LABELS
 from numag.system.parse import parse_system
 from numag.tracking.solve import SolveOptions, solve_system
+
+sys.path.insert(0, str(pathlib.Path(__file__).resolve().parent.parent / "tests"))
+from test_witness_starts import eigenproblem_parts  # noqa: E402  (the tests' builder)
 
 STARTS = ("total-degree", "multihomogeneous", "polyhedral")
 
@@ -64,13 +68,8 @@ def katsura(n):
 
 
 def eigenproblem(n, seed):
-    rng = np.random.default_rng(seed)
-    matrix, normal = rng.standard_normal((n, n)), rng.standard_normal(n)
-    names = [f"v{k}" for k in range(n)]
-    equations = [" + ".join(f"({float(matrix[i, j])!r})*{names[j]}" for j in range(n)) + f" - l*{names[i]}"
-                 for i in range(n)]
-    equations.append(" + ".join(f"({float(normal[j])!r})*{names[j]}" for j in range(n)) + " - 1")
-    return parse_system(equations, names + ["l"], name=f"eigenproblem {n}x{n}")
+    """The eigenproblem of a random n x n matrix as a polynomial system (the tests' builder)."""
+    return eigenproblem_parts(n, seed, name=f"eigenproblem {n}x{n}")[0]
 
 
 def solve_row(system, start, seed):

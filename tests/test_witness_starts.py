@@ -17,14 +17,15 @@ from numag.tracking.starts import StartKind, choose_witness_start
 from numag.witness.cascade import WitnessOptions, witness_supersets
 
 
-def _eigenproblem(n, seed):
+def eigenproblem_parts(n, seed, name=None):
+    """(A - l I) v = 0, c . v = 1 for a random n x n matrix A: (system, A, the names of v)."""
     rng = np.random.default_rng(seed)
     matrix, normal = rng.standard_normal((n, n)), rng.standard_normal(n)
     names = [f"v{k}" for k in range(n)]
     equations = [" + ".join(f"({float(matrix[i, j])!r})*{names[j]}" for j in range(n)) + f" - l*{names[i]}"
                  for i in range(n)]
     equations.append(" + ".join(f"({float(normal[j])!r})*{names[j]}" for j in range(n)) + " - 1")
-    return parse_system(equations, names + ["l"]), matrix, names
+    return parse_system(equations, names + ["l"], name=name), matrix, names
 
 
 def _same_points(a, b):
@@ -67,7 +68,7 @@ def test_eigenvalues_by_the_grouped_regeneration_equal_numpys(seed):
     # its 2-homogeneous Bezout number is n against 2^n (Morgan and Sommese 1987, "A homotopy for solving
     # general polynomial systems that respects m-homogeneous structures", Appl. Math. Comput.; from memory)
     n = 4
-    system, matrix, names = _eigenproblem(n, seed)
+    system, matrix, names = eigenproblem_parts(n, seed)
     choice = choose_witness_start(system, StartKind.AUTO, groups=[names, ["l"]])
     assert choice.kind is StartKind.MULTIHOMOGENEOUS
     assert choice.counts == {"total-degree": 2 ** n, "multihomogeneous": n}
