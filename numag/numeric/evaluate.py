@@ -136,10 +136,14 @@ class BatchEvaluator:
         """Powers x_j^e for e = 0..max exponent, shape (P, n * (max_exponent + 1))."""
         count = len(points)
         width = self.max_exponent + 1
-        table = np.ones((count, self.n_variables, width), dtype=complex)
+        table = np.empty((count, self.n_variables, width), dtype=complex)
+        table[:, :, 0] = 1
         if width > 1:
-            table[:, :, 1:] = np.cumprod(np.broadcast_to(points[:, :, None],
-                                                     (count, self.n_variables, width - 1)), axis=2)
+            table[:, :, 1] = points
+        # repeated multiplication, one power at a time: the same products in the same order as a cumulative
+        # product, without its broadcast set-up (most systems have small exponents: one or two passes)
+        for power in range(2, width):
+            np.multiply(table[:, :, power - 1], points, out=table[:, :, power])
         return table.reshape(count, self.n_variables * width)
 
     def monomial_values(self, points, columns=slice(None)):
