@@ -79,8 +79,11 @@ class TotalDegreeStart:
         x0 = points[:, :1]
         rest = points[:, 1:]
         d = self.degrees[None, :]
-        rest_power = rest ** (d - 1)
-        x0_power = x0 ** (d - 1)
+        if np.all(self.degrees == self.degrees[0]):  # one degree: powers of a scalar (an array of exponents
+            lower = int(self.degrees[0]) - 1       # takes numpy's general complex power, several times slower)
+            rest_power, x0_power = rest ** lower, x0 ** lower
+        else:
+            rest_power, x0_power = rest ** (d - 1), x0 ** (d - 1)
         return rest_power * rest - x0_power * x0, d * rest_power, -d * x0_power
 
     def values(self, points):
