@@ -18,7 +18,8 @@ the phases keep their own speed). Printed per phase: median CPU milliseconds ove
 
 Then the deterministic counts, this checkout only: per path, the plain tracker's steps and evaluations (rows of
 F and J) and numag's steps, evaluations with the Jacobian and value-only evaluations. Counts decide; the CPU
-milliseconds say where the cost sits (decision 0022).
+milliseconds say where the cost sits (decision 0022). Last, one homotopy evaluation (H with J, H alone) on 1,024
+points of the 10 quadrics and of cyclic 6 (mixed degrees), per checkout.
 """
 
 import argparse
@@ -93,6 +94,48 @@ def _child(root, path, cache):
     if result["code"] not in (0, 3):
         raise SystemExit(f"{root}: numag solve exited with {result['code']}")
     return result["spent"]
+
+
+_EVALUATIONS = r"""
+import sys, time
+sys.path.insert(0, {root!r})
+import numpy as np
+from numag.system.parse import parse_system
+from numag.tracking.homotopy import StraightLineHomotopy
+names = [f"z{{i}}" for i in range(6)]
+cyclic = [" + ".join("*".join(names[(i + j) % 6] for j in range(k)) for i in range(6)) for k in range(1, 6)]
+systems = {{"10 dense quadrics": parse_system({quadrics!r}, [f"x{{j}}" for j in range(10)]),
+           "cyclic 6": parse_system(cyclic + ["*".join(names) + " - 1"], names)}}
+for label, system in systems.items():
+    homotopy = StraightLineHomotopy.total_degree(system, np.random.default_rng(1))
+    points = np.random.default_rng(2).standard_normal((1024, homotopy.size)) + 1j
+    s = np.full(1024, 0.3)
+    for what, call in (("H, J", lambda: homotopy.evaluate(points, s)), ("H alone", lambda: homotopy.evaluate_values(points, s))):
+        call()
+        start = time.process_time()
+        for _ in range(100):
+            call()
+        print(f"{{label}}|{{what}}|{{(time.process_time() - start) * 10:.3f}}")
+"""
+
+
+def _evaluation_costs(roots, cache_folder):
+    """CPU ms of one homotopy evaluation on 1,024 points (H with J, H alone), per checkout (median of 3 runs)."""
+    equations = [p.to_text(quadrics(10, 7).variables) for p in quadrics(10, 7).polynomials]
+    print("\n== one evaluation of the homotopy on 1,024 points, CPU ms (median of 3 children)")
+    rows = {}
+    for root in roots:
+        runs = []
+        for _ in range(3):
+            done = subprocess.run([sys.executable, "-c", _EVALUATIONS.format(root=str(root), quadrics=equations)],
+                                  cwd=root, env=_child_environment(cache_folder), capture_output=True, text=True,
+                                  check=True)
+            runs.append({tuple(line.split("|")[:2]): float(line.split("|")[2])
+                         for line in done.stdout.strip().splitlines()})
+        rows[root] = {key: statistics.median(r[key] for r in runs) for key in runs[0]}
+    print(f"{'system, evaluation':30s}" + "".join(f"{os.path.basename(r) or r:>16s}" for r in roots))
+    for key in rows[roots[0]]:
+        print(f"{', '.join(key):30s}" + "".join(f"{rows[r][key]:16.3f}" for r in roots))
 
 
 def _interpreter(cache):
@@ -183,6 +226,7 @@ def main():
                 for r in roots))
             counts = _counts(n)
             print("counts per path (this checkout): " + ", ".join(f"{k} {v:.1f}" for k, v in counts.items()))
+        _evaluation_costs(roots, os.path.join(folder, "cache-evaluations"))
 
 
 if __name__ == "__main__":
