@@ -100,3 +100,33 @@ def test_product_of_linear_forms_matches_sympy_and_its_expansion():
             assert abs(expanded_values[p, 0] - expected) <= 1e-12 * scale
             assert np.abs(expanded_jacobian[p, 0] - expected_gradient).max() <= 1e-12 * scale
         assert np.allclose(product.evaluate(points, jacobian=False), values, rtol=0, atol=0)
+
+
+def test_values_and_weighted_jacobian_from_their_own_monomials_match_sympy():
+    # sympy (Meurer et al., PeerJ CS 2017) as the reference library for differentiation and evaluation. The
+    # systems make every group of monomials appear: homogeneous quadrics (F's and J's monomials disjoint), mixed
+    # degrees (shared monomials), a constant equation (no Jacobian monomial) and a linear one (J constant).
+    rng = np.random.default_rng(11)
+    names = ["x", "y", "z"]
+    systems = [["2*x^2 - 3*x*y + z^2", "x*z + 5*y^2 - 7*y*z", "x^2 + y^2 + z^2"],
+               ["x^3*y - 2*z + 1", "x*y*z - 4", "y^2 - x + 3*z^4"],
+               ["7", "x - 2*y + 3*z", "x*y^2 - z"]]
+    symbols = sympy.symbols(names)
+    for equations in systems:
+        evaluator = BatchEvaluator(parse_system(equations, names).polynomials, spare_columns=2)
+        points = rng.standard_normal((4, 3)) + 1j * rng.standard_normal((4, 3))
+        weights = rng.standard_normal(4) + 1j * rng.standard_normal(4)
+        raw = evaluator.raw(points, jacobian_weights=weights)
+        alone = evaluator.evaluate(points, jacobian=False)
+        exprs = [sympy.sympify(e.replace("^", "**"), locals=dict(zip(names, symbols))) for e in equations]
+        f_num = sympy.lambdify(symbols, exprs, "numpy")
+        j_num = sympy.lambdify(symbols, sympy.Matrix(exprs).jacobian(symbols), "numpy")
+        for p, point in enumerate(points):
+            expected_values = np.array(f_num(*point), dtype=complex)
+            expected_jacobian = weights[p] * np.array(j_num(*point), dtype=complex)
+            value_scale = 1 + np.abs(expected_values).max()
+            assert np.abs(raw[p, :3] - expected_values).max() < 1e-12 * value_scale
+            assert np.abs(alone[p] - expected_values).max() < 1e-12 * value_scale
+            assert np.abs(raw[p, 3:12].reshape(3, 3) - expected_jacobian).max() < 1e-12 * (
+                1 + np.abs(expected_jacobian).max())
+            assert np.all(raw[p, 12:] == 0)  # the spare columns a caller fills in place

@@ -806,13 +806,16 @@ class AugmentedEvaluator:
             return np.hstack(parts)
         return np.hstack([v for v, _ in parts]), np.concatenate([j for _, j in parts], axis=1)
 
-    def raw(self, points):
-        """One array (P, M + M N + spare): values, Jacobian rows (row-major), zeros, as ``BatchEvaluator.raw``."""
+    def raw(self, points, jacobian_weights=None):
+        """One array (P, M + M N + spare): values, Jacobian rows (row-major, times ``jacobian_weights`` (P,) when
+        given), zeros, as ``BatchEvaluator.raw``."""
         values, jacobian = self.evaluate(points)
         count, size = values.shape
         out = np.zeros((count, size + size * self.n_variables + self.spare_columns), dtype=complex)
         out[:, :size] = values
         out[:, size:size + size * self.n_variables] = jacobian.reshape(count, -1)
+        if jacobian_weights is not None:
+            out[:, size:size + size * self.n_variables] *= np.asarray(jacobian_weights)[:, None]
         return out
 
     def both(self, points):

@@ -149,8 +149,10 @@ class Scaling:
         for r, p in zip(self.equation_exponents, system.polynomials):
             powers = p.exponents @ c + int(r)  # the power of ten each term is multiplied by
             if p.is_exact:
-                coefficients = np.array([a * ExactCoefficient.rational(Fraction(10) ** int(k))
-                                         for a, k in zip(p.coefficients, powers)], dtype=object)
+                # one exact factor per power of ten; a term multiplied by 10^0 is kept as it is
+                factors = {k: ExactCoefficient.rational(Fraction(10) ** k) for k in set(powers.tolist()) if k}
+                coefficients = np.array([a * factors[k] if k else a for a, k in zip(p.coefficients, powers.tolist())],
+                                        dtype=object)
             else:
                 coefficients = p.numeric_coefficients() * 10.0 ** powers.astype(float)
             scaled.append(Polynomial(p.exponents, coefficients, p.n_variables))

@@ -79,8 +79,11 @@ class TotalDegreeStart:
         x0 = points[:, :1]
         rest = points[:, 1:]
         d = self.degrees[None, :]
-        rest_power = rest ** (d - 1)
-        x0_power = x0 ** (d - 1)
+        if np.all(self.degrees == self.degrees[0]):  # one degree: powers of a scalar (an array of exponents
+            lower = int(self.degrees[0]) - 1       # takes numpy's general complex power, several times slower)
+            rest_power, x0_power = rest ** lower, x0 ** lower
+        else:
+            rest_power, x0_power = rest ** (d - 1), x0 ** (d - 1)
         return rest_power * rest - x0_power * x0, d * rest_power, -d * x0_power
 
     def values(self, points):
@@ -289,20 +292,20 @@ class StraightLineHomotopy(_PatchedHomotopy):
         self.evaluations += 1
         count, size = len(points), self.size
         n = size - 1
-        raw = self.evaluator.raw(points)  # [F | rows of J_F | zeros for the patch row]
+        weight_f = (1 - s)[:, None]
+        # [F | rows of (1 - s) J_F | zeros for the patch row]: the evaluator weights J's few monomials
+        raw = self.evaluator.raw(points, jacobian_weights=weight_f[:, 0])
         f_values = raw[:, :n]
         sparse = hasattr(self.start, "evaluate_parts")
         if sparse:
             g_values, g_diagonal, g_first = self.start.evaluate_parts(points)
         else:  # a start with a dense Jacobian (products of linear forms)
             g_values, g_jacobian = self.start.evaluate(points)
-        weight_f = (1 - s)[:, None]
         weight_g = (s * self.gamma)[:, None]
         values = np.empty((count, size), dtype=complex)
         values[:, :-1] = weight_f * f_values + weight_g * g_values
         values[:, -1] = points @ self.patch - 1
         jacobian = raw[:, n:].reshape(count, size, size)  # a view: (1 - s) J_F, then G, then the patch
-        jacobian[:, :-1, :] *= weight_f[:, :, None]
         if sparse:  # the total-degree G's Jacobian: a diagonal (in X_1..X_n) and the column of X_0
             index = np.arange(size - 1)
             jacobian[:, index, index + 1] += weight_g * g_diagonal
