@@ -74,8 +74,9 @@ FORMULATIONS = Formulation.texts()
 #: ``singular --start auto``: one path of the square null-vector route costs about this many paths of the
 #: witness sets. Every path of the square system that reaches Sing(X) ends at a singular endpoint (F's rows
 #: of the Jacobian are dependent there), so it goes through the endgame; the witness sets' paths end at
-#: regular points of the minors or null-vector system. Measured per path (decision 0077, seed 1): 5 to 7
-#: times (four lines, trifolium, Chebyshev T4 = T5), 13 (cone over a plane cubic), 24 (Kummer's quartic).
+#: regular points of the minors or null-vector system. Measured per path after X's decomposition (decision
+#: 0077, seed 1): about 8 and 9 times (four lines, trifolium), 19 (cone over a plane cubic), 27 (Kummer's
+#: quartic); at 15, a wrong choice costs at most about twice the witness sets' time.
 SQUARE_ROUTE_PATH_COST = 15
 
 
