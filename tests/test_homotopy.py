@@ -47,7 +47,7 @@ def test_parameter_homotopy_on_shared_monomials_is_the_convex_combination(seed):
     target = parse_system(["x^2*y + 3*y - 1", "x*y^2 - 2*x + 5"], ["x", "y"])
     a, b, c = rng.uniform(0.5, 2.0, 3)
     start = parse_system([f"{a:.6f}*x^2*y - {b:.6f}*y - 1", f"x*y^2 + {c:.6f}*x + 2"], ["x", "y"])
-    homotopy = ParameterHomotopy.from_systems(start, target, rng)
+    homotopy = ParameterHomotopy.from_systems(start, target, rng, shared_evaluator=True)
     assert homotopy._joint is not None  # the shared evaluator is the one under test
     points = rng.standard_normal((8, 3)) + 1j * rng.standard_normal((8, 3))
     s = rng.random(8) + 0j

@@ -354,7 +354,8 @@ class ParameterHomotopy(_PatchedHomotopy):
     (2, 2)
     """
 
-    def __init__(self, start, target, patch, gamma, homogenized=True, held=None, held_start=None):
+    def __init__(self, start, target, patch, gamma, homogenized=True, held=None, held_start=None,
+                 shared_evaluator=False):
         self.start_polynomials = list(start)
         self.target = list(target)
         self.patch = np.asarray(patch, dtype=complex)
@@ -375,16 +376,19 @@ class ParameterHomotopy(_PatchedHomotopy):
                                                                                                self.target))
                                                      if not (a is b or a == b)], dtype=np.int64)
         moving_start = self._held_start + [self.start_polynomials[k - first] for k in self._moving[len(self._held_moving):]]
-        self.start_evaluator = _StartRows(moving_start) if len(self._moving) else None
-        # Start rows that are polynomials on (nearly) the target's monomials (the polyhedral second stage:
-        # the same supports, random coefficients) share one table of monomial values with the target: one
-        # evaluator for both halves instead of two, which computed every monomial twice (decision 0077)
+        # ``shared_evaluator``: start rows that are polynomials on (nearly) the target's monomials (the polyhedral
+        # second stage: the same supports, random coefficients) share one table of monomial values with the
+        # target: one evaluator for both halves instead of two, which computed every monomial twice (decision
+        # 0077). Asked for, not automatic: its sums round differently in the last bits, and other callers'
+        # decisions (a local anatomy's deflation) were seen to flip on such bits.
         self._joint = None
-        if held is None and len(self._moving) and all(isinstance(p, Polynomial) for p in moving_start):
+        if shared_evaluator and held is None and len(self._moving) and \
+                all(isinstance(p, Polynomial) for p in moving_start):
             target_monomials = {tuple(e) for p in self.target for e in p.exponents}
             extra = {tuple(e) for p in moving_start for e in p.exponents} - target_monomials
             if len(extra) <= len(target_monomials) // 4:
                 self._joint = BatchEvaluator(self.target + moving_start)
+        self.start_evaluator = _StartRows(moving_start) if len(self._moving) and self._joint is None else None
         self.evaluations = 0
         self.value_evaluations = 0
         self._precise = None
@@ -393,8 +397,11 @@ class ParameterHomotopy(_PatchedHomotopy):
             else self.evaluator
 
     @classmethod
-    def from_systems(cls, start_system, target_system, rng):
-        """Parameter homotopy between two square systems in the same variables (affine or projective)."""
+    def from_systems(cls, start_system, target_system, rng, shared_evaluator=False):
+        """Parameter homotopy between two square systems in the same variables (affine or projective).
+
+        ``shared_evaluator``: evaluate both systems with one evaluator when their monomials nearly agree.
+        """
         if start_system.variables != target_system.variables or start_system.projective != target_system.projective:
             raise InputError("start and target systems must have the same variables and kind")
         expected = target_system.n_variables - (1 if target_system.projective else 0)
@@ -414,7 +421,8 @@ class ParameterHomotopy(_PatchedHomotopy):
                                  "target; a parameter homotopy needs the same degrees")
         size = len(target) + 1
         patch = (rng.standard_normal(size) + 1j * rng.standard_normal(size)) / np.sqrt(2 * size)
-        return cls(start, target, patch, random_unit_complex(rng), homogenized=not target_system.projective)
+        return cls(start, target, patch, random_unit_complex(rng), homogenized=not target_system.projective,
+                   shared_evaluator=shared_evaluator)
 
     def start_solutions_from(self, points, projective=False):
         """Known solutions of the start system (affine, or homogeneous when ``projective``) on the patch."""

@@ -330,7 +330,7 @@ def solve_system(system, options=None, seed=None, progress=None, execution=None)
         random_system = PolynomialSystem(target.variables, choice.polyhedral.random_polynomials())
 
         def fresh_homotopy():  # another gamma and patch for every path (one round of the jump repair)
-            made = ParameterHomotopy.from_systems(random_system, target, rng)
+            made = ParameterHomotopy.from_systems(random_system, target, rng, shared_evaluator=True)
             return made, made.start_solutions_from(points)
 
         homotopy, starts = fresh_homotopy()
@@ -569,6 +569,7 @@ def _collect(system, endpoints, status, winding, condition, options, rng):
         real_points = real_coefficients & np.all(np.abs(finite_points.imag) <= 1e-8 * (1 + np.abs(finite_points)),
                                                  axis=1)
     converged = int(PathStatus.CONVERGED)  # looked up once: enum attributes are slow in a loop of P
+    testers = {}  # chart pivot (None: affine) -> IsolationTest
     for members in groups(labels):
         paths = finite[members]
         if len(members) == 1 and status[paths[0]] == converged:
@@ -591,7 +592,10 @@ def _collect(system, endpoints, status, winding, condition, options, rng):
         isolated = settled = True
         if singular:
             from ..numeric.refine import IsolationTest  # here: a run of regular endpoints never needs it
-            isolated = IsolationTest(test_system, rng).isolated(test_point)
+            if pivot not in testers:  # one test per chart (its evaluators are built once, not per point)
+                testers[pivot] = IsolationTest(test_system, rng)
+            tester = testers[pivot]
+            isolated = tester.isolated(test_point)
             if isolated and test_system.n_equations >= test_system.n_variables:
                 test_point = _refine_mp(test_system, np.mean(
                     [finite_points[k] if pivot is None else np.delete(finite_points[k] / finite_points[k][pivot],
@@ -602,7 +606,7 @@ def _collect(system, endpoints, status, winding, condition, options, rng):
                 # the test saw an endgame estimate: on a positive-dimensional set such a point can pass for
                 # isolated (cyclic 8: 2 of 599 points of its curves, reported as isolated double points);
                 # the refined point is tested once more
-                isolated = IsolationTest(test_system, rng).isolated(test_point)
+                isolated = tester.isolated(test_point)
             # what is counted as a solution satisfies F in units of its terms as every endpoint must; an
             # estimate near infinity can pass the homogeneous test and fail this one (decision 0049)
             settled = _satisfies(test_system, test_point, options.tracker.endpoint_residual)
