@@ -3,7 +3,7 @@
 import numpy as np
 import pytest
 
-from numag.tracking.homotopy import StraightLineHomotopy, TotalDegreeStart
+from numag.tracking.homotopy import ParameterHomotopy, StraightLineHomotopy, TotalDegreeStart
 from numag.system.parse import parse_system
 
 
@@ -36,3 +36,33 @@ def test_value_evaluation_matches_the_full_evaluation():
     s = rng.random(10) + 0j
     full, _, _ = homotopy.evaluate(points, s)
     assert np.allclose(homotopy.evaluate_values(points, s), full, rtol=1e-13, atol=1e-14)
+
+
+@pytest.mark.parametrize("seed", [5, 12])
+def test_parameter_homotopy_on_shared_monomials_is_the_convex_combination(seed):
+    # the polyhedral second stage's homotopy (start and target on the same monomials, one evaluator for
+    # both): H = (1 - tau) F^h + tau G^h with tau = gamma s / (1 + (gamma - 1) s), written out from the two
+    # systems' own evaluations (the gamma trick as usually stated; common practice, no source)
+    rng = np.random.default_rng(seed)
+    target = parse_system(["x^2*y + 3*y - 1", "x*y^2 - 2*x + 5"], ["x", "y"])
+    a, b, c = rng.uniform(0.5, 2.0, 3)
+    start = parse_system([f"{a:.6f}*x^2*y - {b:.6f}*y - 1", f"x*y^2 + {c:.6f}*x + 2"], ["x", "y"])
+    homotopy = ParameterHomotopy.from_systems(start, target, rng, shared_evaluator=True)
+    assert homotopy._joint is not None  # the shared evaluator is the one under test
+    points = rng.standard_normal((8, 3)) + 1j * rng.standard_normal((8, 3))
+    s = rng.random(8) + 0j
+    values, jacobian, derivative = homotopy.evaluate(points, s)
+    tau = homotopy.gamma * s / (1 + (homotopy.gamma - 1) * s)
+
+    def homogeneous_values(system, point):
+        x, y = point[1] / point[0], point[2] / point[0]
+        return np.array([p.numeric().evaluate([x, y]) for p in system.polynomials]) * point[0] ** 3
+
+    for k, point in enumerate(points):
+        f, g = homogeneous_values(target, point), homogeneous_values(start, point)
+        assert np.allclose(values[k, :2], (1 - tau[k]) * f + tau[k] * g, rtol=1e-12, atol=1e-12)
+        step = 1e-6
+        ahead = ParameterHomotopy.evaluate(homotopy, points[k:k + 1], s[k:k + 1] + step)[0][0, :2]
+        behind = ParameterHomotopy.evaluate(homotopy, points[k:k + 1], s[k:k + 1] - step)[0][0, :2]
+        assert np.allclose(derivative[k, :2], (ahead - behind) / (2 * step), rtol=1e-6, atol=1e-6)
+    assert np.allclose(homotopy.evaluate_values(points, s), values, rtol=1e-13, atol=1e-14)

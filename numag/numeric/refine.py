@@ -475,6 +475,32 @@ class RankDropSystem:
         return np.array([complex(z[j]) for j in range(self.n)])
 
 
+class _WithSlice:
+    """F's evaluator and term sizes with one hyperplane row ``normal . x - offset`` appended.
+
+    Evaluates as a ``BatchEvaluator`` of F and the hyperplane would, and sizes the row's terms as
+    ``TermSizes`` would (sum_j |normal_j| max(|x_j|, 1) + |offset|), without building either.
+    """
+
+    def __init__(self, evaluator, sizes, normal, offset):
+        self.evaluator, self.sizes = evaluator, sizes
+        self.normal, self.offset = np.asarray(normal, dtype=complex), complex(offset)
+
+    def evaluate(self, points, jacobian=True):
+        points = np.atleast_2d(np.asarray(points, dtype=complex))
+        row = (points @ self.normal - self.offset)[:, None]
+        if not jacobian:
+            return np.hstack([self.evaluator.evaluate(points, jacobian=False), row])
+        values, jacobians = self.evaluator.evaluate(points)
+        gradient = np.broadcast_to(self.normal, (len(points), 1, len(self.normal)))
+        return np.hstack([values, row]), np.concatenate([jacobians, gradient], axis=1)
+
+    def values(self, points):
+        points = np.atleast_2d(points)
+        row = np.maximum(np.abs(points), 1.0) @ np.abs(self.normal) + abs(self.offset)
+        return np.hstack([self.sizes.values(points), row[:, None]])
+
+
 class IsolationTest:
     """Is a singular endpoint isolated? Slice through a point moved along the kernel of J.
 
@@ -514,13 +540,15 @@ class IsolationTest:
         self.minors = minors  # EvaluatedMinors that are equations too (after the polynomials), or None
         self.evaluator = BatchEvaluator(system.polynomials) if minors is None \
             else AugmentedEvaluator(system.polynomials, minors)
+        # F's term sizes, built once: the slices of every try reuse F's evaluator and these (a sliced system's
+        # own evaluator per try was 5,337 evaluators for cyclic 8's 601 tested points; decision 0077)
+        self.sizes = TermSizes(system.polynomials) if minors is None else self.evaluator
 
     def isolated(self, point):
-        system = self.system
         _, jacobian = self.evaluator.evaluate(point[None, :])
-        scales = (TermSizes(system.polynomials) if self.minors is None else self.evaluator).gradients(point[None, :])
+        scales = self.sizes.gradients(point[None, :])
         values = scaled_singular_values(jacobian, scales)[0]
-        small = system.n_variables - int(np.sum(values > 1e-6))
+        small = self.system.n_variables - int(np.sum(values > 1e-6))
         if small == 0:
             return True
         _, _, vh = np.linalg.svd(jacobian[0] / scales[0][:, None])
@@ -541,7 +569,8 @@ class IsolationTest:
         sliced = PolynomialSystem(self.system.variables, [p.numeric() for p in self.system.polynomials]
                                   + [Polynomial.linear(normal, -complex(normal @ moved))])
         if self.minors is None:
-            result = project_to_variety(sliced, BatchEvaluator(sliced.polynomials), moved[None, :], max_iterations=60)
+            with_slice = _WithSlice(self.evaluator, self.sizes, normal, complex(normal @ moved))
+            result = project_to_variety(sliced, with_slice, moved[None, :], max_iterations=60, sizes=with_slice)
         else:
             both = AugmentedEvaluator(sliced.polynomials, self.minors)
             result = project_to_variety(sliced, both, moved[None, :], max_iterations=60, sizes=both)

@@ -38,11 +38,12 @@ from ..numeric.refine import ZeroKind, newton_zero_test
 from ..numeric.seeds import random_state
 from ..system.display import counted
 from ..system.polynomial import Polynomial, PolynomialSystem
+from ..tracking.multihomogeneous import multihomogeneous_bezout
 from ..tracking.solve import SolveOptions, solve_system
 from ..tracking.starts import StartKind
 
 __all__ = ["IsolatedSingularPoints", "null_vector_system", "null_vector_groups", "square_null_vector_system", "isolated_singular_points",
-           "FiniteSingularSearch", "finite_singular_points"]
+           "FiniteSingularSearch", "finite_singular_points", "square_route_paths"]
 
 
 @dataclass
@@ -338,3 +339,38 @@ def finite_singular_points(system, start, rng, options=None):
                                 "finite: " + ("X is a curve" if n - c <= 1 else
                                               f"no singular point on X cut by 1 to {n - c - 1} random hyperplanes"),
                                 total, searches)
+
+
+def square_route_paths(system):
+    """Paths of each square solve :func:`finite_singular_points` would make with x and lambda grouped (a bound).
+
+    The square null-vector system of X cut by k hyperplanes (k = 0, ..., dim X - 1) has F (degree
+    (d_i, 0) in the groups x and lambda), the k hyperplanes ((1, 0)), n - 1 combinations of Jacobian
+    rows (at most (max d_i - 1, 1)) and the normalisation ((0, 1)), with c + k entries in lambda; its
+    2-homogeneous Bezout number bounds the paths of its multihomogeneous start (and of the polyhedral
+    one, which is never larger). Counted from the degrees alone: nothing is built or tracked.
+
+    Parameters
+    ----------
+    system : PolynomialSystem
+        Affine, c equations in n unknowns (c < n).
+
+    Returns
+    -------
+    list of int
+        One count per search, the uncut X first.
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> quartic = parse_system(["x^4 + y^4 + z^4 - 1"], ["x", "y", "z"])
+    >>> square_route_paths(quartic)   # d (d - 1)^(n - 1), then d (n - 1) (d - 1)^(n - 2)
+    [36, 24]
+    """
+    n, c = system.n_variables, system.n_equations
+    top = max(system.degrees)
+    counts = []
+    for cuts in range(max(n - c, 1)):
+        rows = [[d, 0] for d in system.degrees] + [[1, 0]] * cuts + [[max(top - 1, 0), 1]] * (n - 1) + [[0, 1]]
+        counts.append(multihomogeneous_bezout(rows, [n, c + cuts]))
+    return counts

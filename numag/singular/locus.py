@@ -61,7 +61,7 @@ from ..witness.cascade import held_parts, linear_form, random_rows, track_moves
 from ..witness.fibres import finite_block
 from ..witness.decompose import (EXPANSION_MONOMIALS, DecomposeOptions, Decomposition, components_through, decompose,
                                  expansion_bound, holding_rows)
-from .isolated import finite_singular_points, null_vector_groups, null_vector_system
+from .isolated import finite_singular_points, null_vector_groups, null_vector_system, square_route_paths
 from .kinds import CandidateSystem, Formulation, PieceKind, Verdict
 from .nearness import NearSingularPoint, input_tolerance, nearest_backward_error
 from .smoothness import CheckOptions, check_points
@@ -70,6 +70,14 @@ __all__ = ["SingularOptions", "SingularComponent", "SingularLocus", "singular_lo
 
 #: Ways of writing "rank J < c" as equations, as text (the choices of ``--formulation``).
 FORMULATIONS = Formulation.texts()
+
+#: ``singular --start auto``: one path of the square null-vector route costs about this many paths of the
+#: witness sets. Every path of the square system that reaches Sing(X) ends at a singular endpoint (F's rows
+#: of the Jacobian are dependent there), so it goes through the endgame; the witness sets' paths end at
+#: regular points of the minors or null-vector system. Measured per path after X's decomposition (decision
+#: 0077, seed 1): about 8 and 9 times (four lines, trifolium), 19 (cone over a plane cubic), 27 (Kummer's
+#: quartic); at 15, a wrong choice costs at most about twice the witness sets' time.
+SQUARE_ROUTE_PATH_COST = 15
 
 
 @dataclass(frozen=True)
@@ -98,7 +106,9 @@ class SingularOptions:
         component of dimension n - c, generically reduced), the singular points come from the square
         null-vector system with that start (x and lambda grouped), proven to be all of Sing(X) by
         slices (:func:`~numag.singular.isolated.finite_singular_points`); elsewhere, and when Sing(X)
-        turns out positive-dimensional, the witness sets are used, with a note. The start also chooses
+        turns out positive-dimensional, the witness sets are used, with a note. ``auto`` takes that
+        route only where its estimated cost is below the witness sets' (:func:`_square_route_pays`: paths
+        times a cost per path; the estimates are in the route's block). The start also chooses
         the factors of the regenerations (X's, and the null-vector system's with x and lambda grouped;
         :func:`~numag.tracking.starts.choose_witness_start`); their blocks are in the report's ``start``.
     """
@@ -527,6 +537,10 @@ def _structured_start(system, variety, codimension, options, rng, paths, progres
         route["why"] = "X has a non-reduced component (singular along all of it)"
     elif lowest is not None and lowest > 0:
         route["why"] = "--lowest-dimension leaves out the singular points"
+    elif options.start is StartKind.AUTO and not _square_route_pays(system, variety, codimension, options, route):
+        route["why"] = (f"the witness sets cost less (an estimated {route['estimates']['witness sets']} paths, against "
+                        f"{sum(route['estimates']['square null-vector system'])} of the square null-vector system at "
+                        f"{SQUARE_ROUTE_PATH_COST} times the cost of each, their endpoints on Sing(X) being singular)")
     else:
         if progress is not None:
             progress(f"codimension {codimension}: the square null-vector system, {options.start.value} start")
@@ -541,6 +555,35 @@ def _structured_start(system, variety, codimension, options, rng, paths, progres
             route["route"] = "square null-vector system"
             return search, route
     return None, route
+
+
+def _witness_formulation(system, variety, codimension, options):
+    """The formulation of the witness sets for this codimension (AUTO and GRADIENT resolved by estimated paths)."""
+    formulation = options.formulation
+    if formulation in (Formulation.AUTO, Formulation.GRADIENT):
+        n = system.n_variables
+        exact = math.comb(system.n_equations, codimension) * math.comb(n, codimension) <= options.max_exact_minors
+        formulation = Formulation.MINORS if exact or (
+            _estimated_paths(system, variety, codimension, Formulation.MINORS)
+            <= _estimated_paths(system, variety, codimension, Formulation.NULL_VECTOR)) \
+            else Formulation.NULL_VECTOR
+    return formulation
+
+
+def _square_route_pays(system, variety, codimension, options, route):
+    """``auto``: is the square null-vector route estimated to cost less than the witness sets?
+
+    Both estimates are counts (the same choice on every machine): the 2-homogeneous Bezout numbers of the
+    square solves (:func:`~numag.singular.isolated.square_route_paths`), each path weighted by
+    :data:`SQUARE_ROUTE_PATH_COST`, against the witness sets' estimated paths (:func:`_estimated_paths`
+    of the formulation they would use). Both go to ``route["estimates"]``.
+    """
+    square = square_route_paths(system)
+    formulation = _witness_formulation(system, variety, codimension, options)
+    witness = int(math.ceil(_estimated_paths(system, variety, codimension, formulation)))
+    route["estimates"] = {"square null-vector system": square, "witness sets": witness,
+                          "witness formulation": formulation.value, "square path cost": SQUARE_ROUTE_PATH_COST}
+    return sum(square) * SQUARE_ROUTE_PATH_COST < witness
 
 
 def _affine(system, options, rng, paths, discarded, progress, notes_out=None, routes=None, dropped=None):
@@ -577,13 +620,7 @@ def _affine(system, options, rng, paths, discarded, progress, notes_out=None, ro
             projected = [(0, point[None, :], int(multiplicity), None)
                          for point, multiplicity in zip(search.points, search.multiplicities)]
         else:
-            exact = math.comb(system.n_equations, codimension) * math.comb(n, codimension) <= options.max_exact_minors
-            formulation = options.formulation
-            if formulation in (Formulation.AUTO, Formulation.GRADIENT):
-                formulation = Formulation.MINORS if exact or (
-                    _estimated_paths(system, variety, codimension, Formulation.MINORS)
-                    <= _estimated_paths(system, variety, codimension, Formulation.NULL_VECTOR)) \
-                    else Formulation.NULL_VECTOR
+            formulation = _witness_formulation(system, variety, codimension, options)
             augmented = None
             if formulation is not Formulation.NULL_VECTOR:
                 try:

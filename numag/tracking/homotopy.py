@@ -357,7 +357,8 @@ class ParameterHomotopy(_PatchedHomotopy):
     (2, 2)
     """
 
-    def __init__(self, start, target, patch, gamma, homogenized=True, held=None, held_start=None):
+    def __init__(self, start, target, patch, gamma, homogenized=True, held=None, held_start=None,
+                 shared_evaluator=False):
         self.start_polynomials = list(start)
         self.target = list(target)
         self.patch = np.asarray(patch, dtype=complex)
@@ -378,7 +379,19 @@ class ParameterHomotopy(_PatchedHomotopy):
                                                                                                self.target))
                                                      if not (a is b or a == b)], dtype=np.int64)
         moving_start = self._held_start + [self.start_polynomials[k - first] for k in self._moving[len(self._held_moving):]]
-        self.start_evaluator = _StartRows(moving_start) if len(self._moving) else None
+        # ``shared_evaluator``: start rows that are polynomials on (nearly) the target's monomials (the polyhedral
+        # second stage: the same supports, random coefficients) share one table of monomial values with the
+        # target: one evaluator for both halves instead of two, which computed every monomial twice (decision
+        # 0077). Asked for, not automatic: its sums round differently in the last bits, and other callers'
+        # decisions (a local anatomy's deflation) were seen to flip on such bits.
+        self._joint = None
+        if shared_evaluator and held is None and len(self._moving) and \
+                all(isinstance(p, Polynomial) for p in moving_start):
+            target_monomials = {tuple(e) for p in self.target for e in p.exponents}
+            extra = {tuple(e) for p in moving_start for e in p.exponents} - target_monomials
+            if len(extra) <= len(target_monomials) // 4:
+                self._joint = BatchEvaluator(self.target + moving_start)
+        self.start_evaluator = _StartRows(moving_start) if len(self._moving) and self._joint is None else None
         self.evaluations = 0
         self.value_evaluations = 0
         self._precise = None
@@ -387,8 +400,11 @@ class ParameterHomotopy(_PatchedHomotopy):
             else self.evaluator
 
     @classmethod
-    def from_systems(cls, start_system, target_system, rng):
-        """Parameter homotopy between two square systems in the same variables (affine or projective)."""
+    def from_systems(cls, start_system, target_system, rng, shared_evaluator=False):
+        """Parameter homotopy between two square systems in the same variables (affine or projective).
+
+        ``shared_evaluator``: evaluate both systems with one evaluator when their monomials nearly agree.
+        """
         if start_system.variables != target_system.variables or start_system.projective != target_system.projective:
             raise InputError("start and target systems must have the same variables and kind")
         expected = target_system.n_variables - (1 if target_system.projective else 0)
@@ -408,7 +424,8 @@ class ParameterHomotopy(_PatchedHomotopy):
                                  "target; a parameter homotopy needs the same degrees")
         size = len(target) + 1
         patch = (rng.standard_normal(size) + 1j * rng.standard_normal(size)) / np.sqrt(2 * size)
-        return cls(start, target, patch, random_unit_complex(rng), homogenized=not target_system.projective)
+        return cls(start, target, patch, random_unit_complex(rng), homogenized=not target_system.projective,
+                   shared_evaluator=shared_evaluator)
 
     def start_solutions_from(self, points, projective=False):
         """Known solutions of the start system (affine, or homogeneous when ``projective``) on the patch."""
@@ -425,7 +442,12 @@ class ParameterHomotopy(_PatchedHomotopy):
         """H, dH/dX (with the patch row) and dH/ds at points (P, n + 1) and parameters s (P,)."""
         self.evaluations += 1
         count, size = len(points), self.size
-        f_values, f_jac = self.evaluator.evaluate(points)
+        m = len(self.target)
+        if self._joint is not None:
+            joint_values, joint_jac = self._joint.evaluate(points)
+            f_values, f_jac = joint_values[:, :m], joint_jac[:, :m]
+        else:
+            f_values, f_jac = self.evaluator.evaluate(points)
         tau, dtau = self._tau(np.asarray(s, dtype=complex))
         values = np.empty((count, size), dtype=complex)
         values[:, :-1] = f_values
@@ -436,7 +458,8 @@ class ParameterHomotopy(_PatchedHomotopy):
         derivative = np.zeros((count, size), dtype=complex)
         moving = self._moving
         if len(moving):
-            g_values, g_jac = self.start_evaluator.evaluate(points)
+            g_values, g_jac = (joint_values[:, m:], joint_jac[:, m:]) if self._joint is not None \
+                else self.start_evaluator.evaluate(points)
             values[:, moving] = (1 - tau)[:, None] * f_values[:, moving] + tau[:, None] * g_values
             jacobian[:, moving, :] = (1 - tau)[:, None, None] * f_jac[:, moving, :] + tau[:, None, None] * g_jac
             derivative[:, moving] = (g_values - f_values[:, moving]) * dtau[:, None]
@@ -447,11 +470,14 @@ class ParameterHomotopy(_PatchedHomotopy):
         self.value_evaluations += 1
         tau, _ = self._tau(np.asarray(s, dtype=complex))
         values = np.empty((len(points), self.size), dtype=complex)
-        values[:, :-1] = self.evaluator.evaluate(points, jacobian=False)
+        m = len(self.target)
+        joint = self._joint.evaluate(points, jacobian=False) if self._joint is not None else None
+        values[:, :-1] = joint[:, :m] if joint is not None else self.evaluator.evaluate(points, jacobian=False)
         moving = self._moving
         if len(moving):
             values[:, moving] = (1 - tau)[:, None] * values[:, moving] \
-                + tau[:, None] * self.start_evaluator.evaluate(points, jacobian=False)
+                + tau[:, None] * (joint[:, m:] if joint is not None else self.start_evaluator.evaluate(points,
+                                                                                                      jacobian=False))
         values[:, -1] = points @ self.patch - 1
         return values
 
