@@ -389,9 +389,10 @@ def _multiple_components(lines_family, swept, values, rng):
     # that meet b = 0 far outside the box (|c| of 12 to 80: the member's singular points are then near the
     # circular points at infinity, |x| of 20 to 800, where every member is singular and the deflated system
     # degenerates) and to the vertical lines b = v, which never meet b = 0; of the moves to points inside the
-    # region kept, one failed. A point of a multiple component on a line is continued from its neighbours
-    # among the parallel lines instead (only the offset o moves: a short move, and the point stays finite):
-    # the points in the region are reached, the far ones stay failed, cheaply.
+    # region kept, one failed. A failed move is continued instead from the point reached on a line of the same
+    # direction (only the offset o moves, so the point stays finite between two lines crossing the component
+    # in the region): the points in the region are reached, the far ones stay failed, each tried once
+    # (decision 0076).
     index = {move: j for j, move in enumerate(moves)}
     directions = np.round(values[:, 2:].real, 12)
     groups_of_lines = [np.nonzero(np.all(directions == direction, axis=1))[0]
