@@ -15,7 +15,7 @@ from numag.app.cli import main
 from numag.errors import InputError, SystemFileError
 from numag.families.discriminant import DiscriminantOptions, discriminant
 from numag.families.records import ComponentKind, PointKind
-from numag.families.sweep import LABEL_UNIT, SweepHomotopy, parse_grid, sweep
+from numag.families.sweep import LABEL_UNIT, SweepHomotopy, parse_grid, real_by_separation, sweep
 from numag.system.exact import ExactCoefficient
 from numag.system.files import family_from_mapping
 from numag.tracking.solve import solve_system
@@ -227,6 +227,27 @@ def test_sweep_matches_direct_solves(tmp_path):
     path = tmp_path / "sweep.json"
     numag.save(result, path)
     assert numag.load(path).to_dict() == result.to_dict()
+
+
+@pytest.mark.parametrize("scale", [1e-6, 1.0, 1e6])
+def test_realness_by_separation_is_scale_free(scale):
+    # A real polynomial's non-real roots come in conjugate pairs (common practice, no source): (x - 1)(x - 1 - d)
+    # (x^2 + 1) with d = 1e-6 has two real roots 1e-6 apart, computed here with imaginary parts of 1e-10 (as near
+    # a fold), and the pair +-i; the verdict is the same at every scale of x.
+    roots = scale * np.array([[1 + 1e-10j], [1 + 1e-6 - 1e-10j], [1j], [-1j]])
+    assert real_by_separation(roots).tolist() == [True, True, False, False]
+    assert real_by_separation(np.zeros((0, 1))).shape == (0,)
+
+
+@pytest.mark.parametrize("seed", [1, 2, 3])
+def test_real_counts_next_to_the_discriminant_do_not_depend_on_the_seed(seed):
+    # x^3 - 3x + q has 3 real roots for |q| < 2 and 1 for |q| > 2 (the discriminant 108 - 27 q^2; common practice,
+    # no source); values 1e-7 from q = +-2, where two real roots are about 4e-4 apart
+    family = family_from_mapping({"variables": ["x"], "parameters": ["q"], "equations": ["x^3 - 3*x + q"]})
+    values = np.array([2 - 1e-7, 2 + 1e-7, -2 + 1e-7, -2 - 1e-7, 0.5, 3.0])
+    result = sweep(family, values[:, None], seed=seed)
+    assert result.failed == 0
+    assert result.real_counts().tolist() == [3, 1, 3, 1, 3, 1]
 
 
 def test_sweep_reports_the_rank_drop_on_the_discriminant():

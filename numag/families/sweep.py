@@ -45,7 +45,7 @@ from ..tracking.tracker import PathStatus, TrackerOptions
 from .records import PointKind, decode_complex, decode_float, encode_complex, encode_float
 
 __all__ = ["SweepOptions", "MemberSolutions", "SweepResult", "SweepHomotopy", "sweep", "move_points", "parse_grid",
-           "LABEL_UNIT", "MAX_VALUES"]
+           "real_by_separation", "LABEL_UNIT", "MAX_VALUES"]
 
 #: The extra coordinate of a path at value k is (k + 1) * LABEL_UNIT: small beside the patch's
 #: coordinates (at most 1e-3 for a million values), and far above the round-off it gathers.
@@ -66,7 +66,12 @@ class SweepOptions:
     cluster_tolerance : float
         Relative distance under which two endpoints of one value are one point (a rank drop).
     real_tolerance : float
-        Largest relative imaginary part of a real solution.
+        Largest relative imaginary part of a real solution. A solution whose imaginary part is larger is still
+        real when it is below ``real_separation`` of its distance to the member's nearest other solution and no
+        path of the member failed (:func:`real_by_separation`).
+    real_separation : float
+        The scale-free realness test's fraction (a non-real solution of a real member has its conjugate among
+        the solutions: its imaginary part is at least half its distance to the nearest one).
     singular_condition : float
         Condition number of J_x above which a solution is a rank-drop point.
     balance : bool
@@ -81,6 +86,7 @@ class SweepOptions:
     batch_size: int = 8192
     cluster_tolerance: float = 1e-6
     real_tolerance: float = 1e-8
+    real_separation: float = 1e-3
     singular_condition: float = 1e8
     balance: bool = True
     start: str = "total-degree"
@@ -508,7 +514,7 @@ def _in_computed_units(family, balance):
     return Family(scaling.scale_system(family.system), family.parameters), factors[:n], factors[n:]
 
 
-def move_points(family, start_values, points, targets, real_segment=False, seed=None, options=None):
+def move_points(family, start_values, points, targets, real_segment=False, seed=None, options=None, *, per_path=False):
     """Move one known solution per path from its own parameter value to its own target, all paths together.
 
     Parameters
@@ -523,13 +529,16 @@ def move_points(family, start_values, points, targets, real_segment=False, seed=
         endpoint is the continuation along the real segment (what connects arcs of a real curve).
     seed : int, optional
     options : SweepOptions, optional
+    per_path : bool
+        Return which paths failed instead of their number (a NaN endpoint of a path that did not fail went
+        to infinity).
 
     Returns
     -------
     ndarray, shape (K, n)
         Endpoints (NaN where the path failed or went to infinity).
-    int
-        Failed paths.
+    int, or ndarray of bool, shape (K,)
+        Failed paths (their number, or which with ``per_path``).
 
     Examples
     --------
@@ -544,7 +553,7 @@ def move_points(family, start_values, points, targets, real_segment=False, seed=
     targets = np.asarray(targets, dtype=complex).reshape(-1, family.n_parameters)
     points = np.asarray(points, dtype=complex).reshape(len(targets), family.n_variables)
     if len(targets) == 0:
-        return np.zeros((0, family.n_variables), dtype=complex), 0
+        return np.zeros((0, family.n_variables), dtype=complex), (np.zeros(0, dtype=bool) if per_path else 0)
     family, x_factors, p_factors = _in_computed_units(family, options.balance)
     targets, points = targets / p_factors, points / x_factors
     start_values = np.asarray(start_values, dtype=complex).reshape(len(targets), family.n_parameters) / p_factors
@@ -563,7 +572,8 @@ def move_points(family, start_values, points, targets, real_segment=False, seed=
     with np.errstate(all="ignore"):
         ends = run.endpoints[:, 1:-1] / run.endpoints[:, :1]
     ends[~finite] = np.nan
-    return ends * x_factors, int(np.sum(run.status >= PathStatus.FAILED_MIN_STEP))
+    failed = run.status >= PathStatus.FAILED_MIN_STEP
+    return ends * x_factors, (failed if per_path else int(np.sum(failed)))
 
 
 def _members(family, run, values, per_value, options):
@@ -602,8 +612,46 @@ def _members(family, run, values, per_value, options):
         distinct = np.array(distinct)
         real_value = real_family and np.all(np.abs(np.asarray(value).imag) == 0)
         real = real_value & np.all(np.abs(distinct.imag) <= options.real_tolerance * (1 + np.abs(distinct)), axis=1)
+        if real_value and failed == 0:
+            # near the discriminant a real solution is computed only to about the square root of the precision:
+            # its imaginary part sits at the fixed tolerance, and the count flipped with the seed
+            real |= real_by_separation(distinct, options.real_separation)
         members.append(MemberSolutions(value, distinct, real, kinds, np.array(paths, dtype=np.int64), failed, infinite))
     return members
+
+
+def real_by_separation(points, fraction=1e-3):
+    """Which solutions of a real member are real, judged against their distance to the other solutions.
+
+    The solutions of a real system are closed under conjugation: a non-real solution z has conj(z) among
+    them, at distance 2 |Im z|, so its imaginary part is at least half its distance to the nearest other
+    solution. A solution whose imaginary part is below ``fraction`` of that distance is therefore real, at
+    any scale (no absolute or relative-to-the-origin tolerance; common practice, no source). Valid only when
+    every solution of the member is given (no failed path: a lost conjugate would make its partner look real).
+
+    Parameters
+    ----------
+    points : ndarray, shape (S, n)
+        The distinct solutions of one real member.
+    fraction : float
+
+    Returns
+    -------
+    ndarray of bool, shape (S,)
+
+    Examples
+    --------
+    >>> near_fold = np.array([[1 + 1e-7j], [1.001 - 1e-7j], [5 + 2j], [5 - 2j]])
+    >>> real_by_separation(near_fold).tolist()
+    [True, True, False, False]
+    """
+    points = np.atleast_2d(np.asarray(points, dtype=complex))
+    if len(points) == 0:
+        return np.zeros(0, dtype=bool)
+    imaginary = np.linalg.norm(points.imag, axis=1)
+    distance = np.linalg.norm(points[:, None, :] - points[None, :, :], axis=2)
+    np.fill_diagonal(distance, np.inf)
+    return imaginary <= fraction * distance.min(axis=1)
 
 
 def _has_close_pair(points, tolerance):
