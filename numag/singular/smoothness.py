@@ -463,23 +463,22 @@ class _Checker:
             function = self.scaled_equations(ctx)
             tolerance = 100 * ctx.mpf(10) ** (-_NEAREST_DIGITS)
             residual, jacobian = function(ctx.matrix(x0))
-            starts = [ctx.matrix(x0)]
-            if min(self.n, self.m) and mp_singular_values(jacobian, ctx)[min(self.n, self.m) - 1] <= ctx.mpf(
-                    10) ** (-DOUBLE_DIGITS) * max(ctx.norm(residual), 1e-300) ** 0.5:
+            z, converged, _, _ = mp_gauss_newton(function, ctx.matrix(x0), ctx, tolerance=tolerance,
+                                                 max_iterations=40)
+            best, best_distance = (z, float(ctx.norm(z - ctx.matrix(x0)))) if converged else (None, math.inf)
+            stuck = min(self.n, self.m) and mp_singular_values(jacobian, ctx)[min(self.n, self.m) - 1] <= ctx.mpf(
+                10) ** (-DOUBLE_DIGITS) * max(ctx.norm(residual), 1e-300) ** 0.5
+            if stuck or not converged:
                 reach = float(ctx.norm(residual)) ** 0.5 * _size(np.array([complex(v) for v in x0]))
                 real = all(ctx.im(v) == 0 for v in x0)
-                for _ in range(4):
+                for _ in range(4 if reach > 0 else 0):
                     direction = self.rng.standard_normal(self.n) + (0 if real else 1j * self.rng.standard_normal(self.n))
                     direction *= reach / np.linalg.norm(direction)
-                    starts.append(ctx.matrix([v + ctx.mpc(d) for v, d in zip(x0, direction)]))
-            best, best_distance = None, math.inf
-            for begin in starts:
-                z, converged, _, _ = mp_gauss_newton(function, begin, ctx, tolerance=tolerance, max_iterations=40)
-                if not converged:
-                    continue
-                distance = float(ctx.norm(ctx.matrix([z[j] - x0[j] for j in range(self.n)])))
-                if distance < best_distance:
-                    best, best_distance = z, distance
+                    begin = ctx.matrix([v + ctx.mpc(d) for v, d in zip(x0, direction)])
+                    z, converged, _, _ = mp_gauss_newton(function, begin, ctx, tolerance=tolerance, max_iterations=40)
+                    distance = float(ctx.norm(z - ctx.matrix(x0)))
+                    if converged and distance < best_distance:
+                        best, best_distance = z, distance
             if best is None:
                 return np.array([complex(v) for v in x0]), False
             return np.array([complex(best[j]) for j in range(self.n)]), True
@@ -818,9 +817,9 @@ def check_points(system, points, options=None, seed=None, decomposition=None):
             for e, r in zip(exact, user_radii)]
     radii = [float(np.linalg.norm(scaling.to_computed(r[None, :].astype(complex))[0])) if not system.projective
              else float(np.linalg.norm(r)) for r in user_radii]
-    coefficient_radius = 0.0 if exact_coefficients else math.sqrt(input_tolerance(system) or 0.0)
     verdicts = _check_in_units(scaling.scale_system(system), given, exact, options, seed, rng, decomposition,
-                               scaling, _DataRule(data=data, radii=radii, coefficient_radius=coefficient_radius))
+                               scaling, _DataRule(data=data, radii=radii,
+                                                  coefficient_tolerance=input_tolerance(system) or 0.0))
     checker = _Checker(system, options, rng)  # distances in the user's units
     for verdict, point in zip(verdicts, user_given):
         _to_user_units(verdict, point, scaling, checker)
@@ -858,7 +857,11 @@ def _measure_backward_errors(system, scaling, verdicts, options):
         error = min(backward_error(balanced, p, verdict.codimension) for p in points)
         if close:  # a point next to it where the conditions come closer, if within the given point's accuracy
             nearest, where = nearest_backward_error(balanced, points, verdict.codimension)
-            if np.linalg.norm(where - points[0]) <= options.point_tolerance * _size(points[0]):
+            if options.point_tolerance is not None:
+                accuracy = options.point_tolerance
+            else:  # the data's own reach (decision 0072), relative
+                accuracy = DATA_MARGIN * ((verdict.data_radius or 0.0) / _size(verdict.given) + 2.0 ** -52)
+            if np.linalg.norm(where - points[0]) <= accuracy * _size(points[0]):
                 error = min(error, nearest)
         verdict.backward_error, verdict.backward_tolerance = float(error), tolerance
         if verdict.near_singular:
@@ -907,18 +910,30 @@ class _DataRule:
 
     data: list
     radii: list
-    coefficient_radius: float   # relative: sqrt of the input tolerance (a rounded equation moves X by
-    #                             about that much near a singular point), 0 for exact coefficients
+    coefficient_tolerance: float  # what the coefficients cannot resolve (decision 0062's input tolerance), 0 exact
+
+    @property
+    def coefficient_radius(self):
+        """Relative: how far rounded coefficients can move X near a singular point (sqrt of their tolerance,
+        the reach of a node; 0 for exact coefficients)."""
+        return math.sqrt(self.coefficient_tolerance)
 
     def exact_data(self, k):
         """Exact coefficients and an exact point (with or without a tolerance)."""
         return self.data[k] is _PointData.EXACT or (self.data[k] is _PointData.TOLERANCE and self.radii[k] == 0
                                                     and self.coefficient_radius == 0)
 
-    def reach(self, k, given):
-        """Rounded data: how far the point a verdict speaks about may be from the given one."""
+    def reach(self, k, given, coefficients=True):
+        """Rounded data: how far the point a verdict speaks about may be from the given one (with or without
+        what the coefficients' rounding can move X)."""
         # distances are measured between doubles: their rounding (2^-52 of the point) is a floor of the radius
-        return DATA_MARGIN * (self.radii[k] + (2.0 ** -52 + self.coefficient_radius) * _size(given))
+        share = self.coefficient_radius if coefficients else 0.0
+        return DATA_MARGIN * (self.radii[k] + (2.0 ** -52 + share) * _size(given))
+
+    def on_within_coefficients(self, residual):
+        """Rounded coefficients: a scaled residual they explain (a relative change of them within their
+        tolerance makes F vanish at the point) is on X as far as the data can say."""
+        return residual <= DATA_MARGIN * self.coefficient_tolerance
 
 
 def _check_in_units(system, given, exact, options, seed, rng, decomposition, scaling, rule):
@@ -955,10 +970,16 @@ def _check_in_units(system, given, exact, options, seed, rng, decomposition, sca
             # the nearest point of X to the data itself (exact decimals or the rounded digits), in mpmath: in
             # double the rounding of F near a singular point moves Newton's point by more than the data's radius
             found, converged = checker.nearest_on_x(exact[k] if exact[k] is not None else given[k])
-            refined[k] = normalize_projective(found) if system.projective else found
-            on_variety[k], moved[k] = converged, checker.distance(given[k], refined[k])
+            if converged:  # else double precision's answer stands (slow convergence at a cusp, say)
+                refined[k] = normalize_projective(found) if system.projective else found
+                on_variety[k], moved[k] = True, checker.distance(given[k], refined[k])
     tolerances = np.array([checker.tolerance_for(given[k], k) for k in range(len(given))])
     off = ~on_variety | (moved > tolerances)
+    for k in range(len(given)):
+        if rule.data[k] is _PointData.ROUNDED:
+            # on X when Newton's point is within the digits' reach, or the coefficients' rounding explains F there
+            off[k] = not rule.on_within_coefficients(float(residual_given[k])) and (
+                not on_variety[k] or moved[k] > rule.reach(k, given[k], coefficients=False))
     values, scales = [None] * len(given), [None] * len(given)
     on = np.nonzero(~off)[0]
     if len(on):
