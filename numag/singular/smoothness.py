@@ -1015,6 +1015,8 @@ def _state_what_the_data_says(verdict, kind, radius, n_variables):
     say which point was judged and why."""
     if kind is not _PointData.TOLERANCE:
         verdict.data_radius = radius
+    if verdict.judged is JudgedPoint.GIVEN:  # the given point itself, not its round trip through the balanced units
+        verdict.point, verdict.distance = np.asarray(verdict.given, dtype=complex), 0.0
     if verdict.verdict is Verdict.OFF:
         verdict.judged = JudgedPoint.NONE
         if kind is _PointData.EXACT:
