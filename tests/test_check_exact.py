@@ -18,7 +18,7 @@ import sympy
 from numag.app.cli import EXIT_OK, EXIT_UNDECIDED, main
 from numag.singular.kinds import JudgedPoint, Verdict
 from numag.singular.smoothness import CheckOptions, check_points
-from numag.system.parse import parse_system
+from numag.system.parse import parse_constant, parse_system
 
 SEEDS = (1, 2, 3)
 
@@ -53,12 +53,8 @@ def system_of(expression, names):
 
 
 def exact_text(point):
-    return [parse_point(str(p)) for p in point]
-
-
-def parse_point(text):
-    from numag.system.parse import parse_constant
-    return parse_constant(text)
+    """The point's coordinates read by numag's own parser, exactly as a user would write them."""
+    return [parse_constant(str(p)) for p in point]
 
 
 def test_the_reference_numbers():

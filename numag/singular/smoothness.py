@@ -14,7 +14,11 @@ How a small singular value is tested
    all points in one batch; a point that cannot be moved onto X within the
    point tolerance (relative to the point, in the balanced units of the scaled
    problem) gets the verdict "off", with its residual and the distance Newton
-   moved it, and the other points are judged as usual.
+   moved it, and the other points are judged as usual. Without a point
+   tolerance the data sets it (decision 0072): exact data is on X only when F
+   vanishes there in exact arithmetic, and then the rank of J at the point,
+   also exact, decides; rounded data reaches as far as its last digit, and a
+   rank drop within that reach leaves the verdict "undecided".
 2. If the c-th scaled singular value (c = codimension) is clearly above zero,
    the rank is c and the point is smooth.
 3. Otherwise, at rising precision (mpmath, up to ``max_digits``): refine on F;
@@ -786,7 +790,10 @@ def check_points(system, points, options=None, seed=None, decomposition=None):
 
     A point that cannot be moved onto X within the point tolerance gets the verdict "off" (its
     ``residual``, the ``distance`` Newton moved it and a note say how far off it is); the other
-    points are judged as usual.
+    points are judged as usual. Without ``options.point_tolerance`` the data decides (decision 0072):
+    exact data is on X only when F vanishes there in exact arithmetic and is judged at the point itself;
+    rounded data (decimals of 15 or more digits, computed floats) is undecided when a rank drop is within
+    the reach of its last digit. Each verdict's ``judged`` names the point it is about.
 
     Raises
     ------
@@ -1010,6 +1017,11 @@ def _check_in_units(system, given, exact, options, seed, rng, decomposition, sca
     return verdicts
 
 
+def _away(distance):
+    """A distance between two points stored as doubles, as a note says it (0: they round to the same doubles)."""
+    return f"{distance:.3g} away" if distance > 0 else "within double rounding of it"
+
+
 def _state_what_the_data_says(verdict, kind, radius, n_variables):
     """Decision 0072, in the user's units (in place): rounded data near a rank drop is undecided, and the notes
     say which point was judged and why."""
@@ -1043,8 +1055,8 @@ def _state_what_the_data_says(verdict, kind, radius, n_variables):
         drop = verdict.nearest_rank_drop_distance
         verdict.verdict, verdict.judged = Verdict.UNDECIDED, JudgedPoint.NONE
         verdict.notes.insert(0, f"Undecided: the digits given let the point be off by about {radius:.3g}; the "
-                                f"nearest point of X found is {verdict.distance:.3g} away and a point where "
-                                f"the rank drops {'an unmeasured distance' if drop is None else f'{drop:.3g}'} away, "
+                                f"nearest point of X found is {_away(verdict.distance)} and a point where the rank "
+                                f"drops {'at an unmeasured distance' if drop is None else _away(drop)}, "
                                 "and the data cannot tell them apart. Give the point exactly (rationals or short "
                                 "decimals) to judge it, or --point-tolerance to accept the singular point.")
 
