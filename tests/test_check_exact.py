@@ -146,7 +146,8 @@ def test_rounded_points_are_judged_to_their_last_digit(factor, seed):
 
 def run_cli(tmp_path, capsys, expression, names, *extra):
     path = tmp_path / "system.toml"
-    path.write_text(f'variables = {json.dumps(names)}\nequations = [{json.dumps(str(expression).replace("**", "^"))}]\n')
+    equation = json.dumps(str(expression).replace("**", "^"))
+    path.write_text(f'variables = {json.dumps(names)}\nequations = [{equation}]\n')
     code = main(["check", str(path), "--json", "--without-components", *extra])
     return code, json.loads(capsys.readouterr().out)
 

@@ -15,7 +15,8 @@ Examples
 
 from ..kinds import TextEnum
 
-__all__ = ["Verdict", "JudgedPoint", "LocalDimensionSource", "Formulation", "CandidateSystem", "PieceKind", "CoefficientPrecision"]
+__all__ = ["Verdict", "JudgedPoint", "LocalDimensionSource", "Formulation", "CandidateSystem", "PieceKind",
+           "CoefficientPrecision"]
 
 
 class Verdict(TextEnum):

@@ -476,7 +476,8 @@ class _Checker:
                 reach = float(ctx.norm(residual)) ** 0.5 * _size(np.array([complex(v) for v in x0]))
                 real = all(ctx.im(v) == 0 for v in x0)
                 for _ in range(4 if reach > 0 else 0):
-                    direction = self.rng.standard_normal(self.n) + (0 if real else 1j * self.rng.standard_normal(self.n))
+                    direction = self.rng.standard_normal(self.n) + (
+                        0 if real else 1j * self.rng.standard_normal(self.n))
                     direction *= reach / np.linalg.norm(direction)
                     begin = ctx.matrix([v + ctx.mpc(d) for v, d in zip(x0, direction)])
                     z, converged, _, _ = mp_gauss_newton(function, begin, ctx, tolerance=tolerance, max_iterations=40)
@@ -831,7 +832,7 @@ def check_points(system, points, options=None, seed=None, decomposition=None):
     for verdict, point in zip(verdicts, user_given):
         _to_user_units(verdict, point, scaling, checker)
     for verdict, kind, point_radii in zip(verdicts, data, user_radii):
-        _state_what_the_data_says(verdict, kind, float(np.linalg.norm(point_radii)), system.n_variables)
+        _state_what_the_data_says(verdict, kind, float(np.linalg.norm(point_radii)))
     if options.backward_errors:
         _measure_backward_errors(system, scaling, verdicts, options)
     return CheckReport(system=system, points=verdicts, options=options, seed=seed, scaling=scaling)
@@ -1022,7 +1023,7 @@ def _away(distance):
     return f"{distance:.3g} away" if distance > 0 else "within double rounding of it"
 
 
-def _state_what_the_data_says(verdict, kind, radius, n_variables):
+def _state_what_the_data_says(verdict, kind, radius):
     """Decision 0072, in the user's units (in place): rounded data near a rank drop is undecided, and the notes
     say which point was judged and why."""
     if kind is not _PointData.TOLERANCE:
@@ -1033,8 +1034,9 @@ def _state_what_the_data_says(verdict, kind, radius, n_variables):
         verdict.judged = JudgedPoint.NONE
         if kind is _PointData.EXACT:
             size = _size(verdict.given)
-            verdict.notes = [f"Not on X: F does not vanish at the given point in exact arithmetic. The nearest point of "
-                             f"X found is at distance {verdict.distance:.3g} (relative {verdict.distance / size:.3g}); "
+            verdict.notes = [f"Not on X: F does not vanish at the given point in exact arithmetic. The nearest "
+                             f"point of X found is at distance {verdict.distance:.3g} (relative "
+                             f"{verdict.distance / size:.3g}); "
                              "give --point-tolerance (relative) above that to judge that point instead."
                              if math.isfinite(verdict.distance) and verdict.newton is ZeroKind.ZERO else
                              "Not on X: F does not vanish at the given point in exact arithmetic, and Newton's method "
