@@ -55,7 +55,9 @@ def test_point_near_node_names_the_refined_singular_point():
     system = parse_system(["y^2 - x^2*(x + 1)"], ["x", "y"])
     offset = 1e-12
     point = [offset, offset * np.sqrt(1 + offset)]
-    (verdict,), report = verdicts(system, [point])
+    # with a point tolerance given, a rank drop within it names the point (decision 0072: without one, these
+    # 17-digit coordinates are judged to their last digit, and the point 1.4e-12 from the node is smooth)
+    (verdict,), report = verdicts(system, [point], point_tolerance=1e-6)
     v = report.points[0]
     assert verdict == "singular"
     assert np.abs(v.point).max() < 1e-20  # the node itself (common practice, no source)
@@ -233,7 +235,8 @@ def test_clear_rank_drops_are_settled_in_double_with_the_same_verdicts(seed, mon
     original = smoothness._Checker.escalate
     monkeypatch.setattr(smoothness._Checker, "escalate",
                         lambda self, *args: escalations.append(1) or original(self, *args))
-    assert [v.verdict for v in check_points(system, nearby, seed=seed).points] == ["singular"] * 4
+    candidates = CheckOptions(point_tolerance=1e-6)  # the locus's tolerance for computed candidates
+    assert [v.verdict for v in check_points(system, nearby, candidates, seed=seed).points] == ["singular"] * 4
     assert len(escalations) == 4
     # a node at 0 (common practice, no source); a Grashof change-point four-bar folded at A = (-2, 0),
     # B = (1, 0) (tests/corpus.py, linkages: common practice, no source), and smooth points of both
@@ -243,7 +246,7 @@ def test_clear_rank_drops_are_settled_in_double_with_the_same_verdicts(seed, mon
     crank_up = [0, 2, 2 + 2 / np.sqrt(5) * 1, 1 + 2 / np.sqrt(5) * 2]  # |B-(4,0)| = |B-A| = 3
     cases = [(node, [[1e-10, 0], [3, 6]]), (four_bar, [[-2, 1e-10, 1, 0], crank_up])]
     escalations.clear()
-    fast = [[v.verdict for v in check_points(s, points, seed=seed).points] for s, points in cases]
+    fast = [[v.verdict for v in check_points(s, points, candidates, seed=seed).points] for s, points in cases]
     assert fast == [["singular", "smooth"]] * 2 and len(escalations) == 2  # the two singular points only
     monkeypatch.setattr(smoothness._Checker, "settle_in_double", lambda self, *args, **kwargs: None)
-    assert [[v.verdict for v in check_points(s, points, seed=seed).points] for s, points in cases] == fast
+    assert [[v.verdict for v in check_points(s, points, candidates, seed=seed).points] for s, points in cases] == fast

@@ -125,12 +125,15 @@ def _verdict_to_dict(v):
         "backward_tolerance": _encode_float(v.backward_tolerance),
         "near_singular": v.near_singular,
         "newton": None if v.newton is None else v.newton.value,
+        "judged": None if v.judged is None else v.judged.value,
+        "on_x_exactly": v.on_x_exactly,
+        "data_radius": _encode_float(v.data_radius),
     }
 
 
 def _verdict_from_dict(d):
     from ..numeric.refine import ZeroKind
-    from ..singular.kinds import LocalDimensionSource, Verdict
+    from ..singular.kinds import JudgedPoint, LocalDimensionSource, Verdict
     from ..singular.smoothness import PointVerdict
     return PointVerdict(
         index=int(d["index"]), given=decode_point(d["given"]), point=decode_point(d["point"]),
@@ -144,7 +147,10 @@ def _verdict_from_dict(d):
         nearest_rank_drop_distance=_decode_float(d["nearest_rank_drop_distance"]), notes=list(d["notes"]),
         components=[dict(c) for c in d.get("components", [])],
         backward_error=_decode_float(d.get("backward_error")), backward_tolerance=_decode_float(d.get("backward_tolerance")),
-        newton=None if d.get("newton") is None else ZeroKind.parse(d["newton"], "newton"))
+        newton=None if d.get("newton") is None else ZeroKind.parse(d["newton"], "newton"),
+        judged=None if d.get("judged") is None else JudgedPoint.parse(d["judged"], "judged"),
+        on_x_exactly=d.get("on_x_exactly") if isinstance(d.get("on_x_exactly"), bool) else None,
+        data_radius=_decode_float(d.get("data_radius")))
 
 
 def check_report_to_dict(report):

@@ -46,18 +46,8 @@ def _exact_at_point(required, point, claim, digits, threshold):
         return None  # not even nearly a zero in double precision: no exact zero there
     exact = [ExactCoefficient.from_complex(v) for v in point]
     powers = [[ExactCoefficient.rational(1)] for _ in exact]
-    for p in required:
-        total = ExactCoefficient.zero()
-        for row, c in zip(p.exponents, p.coefficients):
-            term = c
-            for j, e in enumerate(row):
-                if e:
-                    while len(powers[j]) <= e:
-                        powers[j].append(powers[j][-1] * exact[j])
-                    term = term * powers[j][int(e)]
-            total = total + term
-        if not total.is_zero():
-            return None
+    if not all(p.evaluate_exact(exact, powers).is_zero() for p in required):
+        return None
     texts, radii = [], []
     with working_digits(_guarded(digits)):
         for v, q in zip(point, exact):

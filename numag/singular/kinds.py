@@ -15,7 +15,8 @@ Examples
 
 from ..kinds import TextEnum
 
-__all__ = ["Verdict", "LocalDimensionSource", "Formulation", "CandidateSystem", "PieceKind", "CoefficientPrecision"]
+__all__ = ["Verdict", "JudgedPoint", "LocalDimensionSource", "Formulation", "CandidateSystem", "PieceKind",
+           "CoefficientPrecision"]
 
 
 class Verdict(TextEnum):
@@ -31,6 +32,15 @@ class Verdict(TextEnum):
     def is_singular(self):
         """Singular or non-reduced: the point is kept as a piece of the singular locus."""
         return self in (Verdict.SINGULAR, Verdict.NON_REDUCED)
+
+
+class JudgedPoint(TextEnum):
+    """Which point a verdict of the check is about (decision 0072)."""
+
+    GIVEN = "the given point"                          # exact data on X: judged exactly where given
+    NEAREST_ON_X = "the nearest point of X found"       # the given point moved onto X by Newton's method
+    RANK_DROP = "a point where the rank drops"          # within the point tolerance of the given point
+    NONE = "none"                                       # "off", or undecided between two points the data allows
 
 
 class LocalDimensionSource(TextEnum):

@@ -604,7 +604,8 @@ def _affine(system, options, rng, paths, discarded, progress, notes_out=None, ro
     n = system.n_variables
     found, oracles = [], []  # the pieces kept, and for each positive-dimensional one its membership test
     codimensions = sorted({n - c.dimension for c in variety.components})
-    check_options = CheckOptions(max_digits=options.digits, backward_errors=False)  # measured in _near_singular
+    check_options = CheckOptions(max_digits=options.digits, backward_errors=False,  # measured in _near_singular
+                                 point_tolerance=_POINT_TOLERANCE)
     for codimension in codimensions:
         if codimension == 0:
             continue
@@ -767,6 +768,9 @@ def _judge(system, point, options, seed, variety):
 
 #: How far (relative) a singular candidate may lie from the singular point it approximates.
 _CANDIDATE_TOLERANCE = 1e-3
+#: The check's point tolerance for candidates first (relative): computed points, whose accuracy the endgame sets,
+#: not their digits (decision 0072 judges user data by its digits; candidates keep the check's former default).
+_POINT_TOLERANCE = 1e-6
 
 
 @dataclass
@@ -896,7 +900,8 @@ def _confirmed_by_check(system, pieces, rng, discarded, dropped=None):
     seed = int(rng.integers(2**32))
     points = [piece.points[0] for piece in pieces]
     # a point that cannot be settled on X comes back "off" (each point is judged on its own)
-    verdicts = check_points(system, points, CheckOptions(backward_errors=False), seed=seed).points
+    verdicts = check_points(system, points, CheckOptions(backward_errors=False, point_tolerance=_POINT_TOLERANCE),
+                            seed=seed).points
     kept = []
     for piece, verdict in zip(pieces, verdicts):
         if verdict.verdict is Verdict.OFF:  # no point of X near (decision 0064), or Newton drifted

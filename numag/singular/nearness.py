@@ -43,7 +43,7 @@ from ..numeric.evaluate import TermSizes
 from ..numeric.refine import RankDropSystem
 from .kinds import CoefficientPrecision, PieceKind
 
-__all__ = ["NearSingularPoint", "coefficient_precision", "input_tolerance", "backward_error",
+__all__ = ["NearSingularPoint", "coefficient_precision", "point_precision", "input_tolerance", "backward_error",
            "nearest_backward_error", "DOUBLE_SIGNIFICANT_DIGITS"]
 
 #: A decimal coefficient with this many significant digits or more is read as a double-precision number
@@ -136,6 +136,62 @@ def _significant_digits(value):
     while mantissa % 10 == 0:
         mantissa //= 10
     return len(str(mantissa))
+
+
+def _last_digit_unit(value):
+    """The unit of the last digit of a terminating decimal (``Fraction``): 10^-k for k decimal places."""
+    denominator, twos, fives = value.denominator, 0, 0
+    while denominator % 2 == 0:
+        denominator, twos = denominator // 2, twos + 1
+    while denominator % 5 == 0:
+        denominator, fives = denominator // 5, fives + 1
+    return 10.0 ** -max(twos, fives)
+
+
+def point_precision(coordinates):
+    """A point's coordinates as exact numbers, and how far the digits given let each one be off.
+
+    The rule of :func:`coefficient_precision`, for a point (decision 0072): a decimal of
+    :data:`DOUBLE_SIGNIFICANT_DIGITS` or more significant digits (what printing a double gives) is
+    rounded data, known to half a unit of its last digit; integers, rationals and shorter decimals are
+    exact. A float is read as the shortest decimal that gives it back (``repr``): 0.5 is exactly 1/2,
+    a computed 0.30000000000000004 is rounded data. The radius is in the point's own units, so it
+    follows a change of units.
+
+    Parameters
+    ----------
+    coordinates : sequence of int, float, complex or ExactCoefficient
+
+    Returns
+    -------
+    (list of ExactCoefficient, ndarray of float)
+        The coordinates as exact numbers (the decimals as written) and each one's radius (0 when exact).
+
+    Examples
+    --------
+    >>> exact, radii = point_precision([1, 0.5, 0.1 + 0.2])
+    >>> [c.to_text() for c in exact[:2]], [float(r) for r in radii]
+    (['1', '1/2'], [0.0, 0.0, 2.7755575615628914e-17])
+    """
+    exact, radii = [], []
+    for coordinate in coordinates:
+        if isinstance(coordinate, ExactCoefficient):
+            value = coordinate
+        elif isinstance(coordinate, (int, np.integer)) and not isinstance(coordinate, bool):
+            value = ExactCoefficient.rational(int(coordinate))
+        else:
+            z = complex(coordinate)
+            value = ExactCoefficient.rational(Fraction(repr(float(z.real))), Fraction(repr(float(z.imag))))
+        # a stored double is known to half its spacing, which its shortest decimal can undercut
+        spacing = 0.0 if isinstance(coordinate, ExactCoefficient) else 0.5 * math.ulp(abs(complex(coordinate)))
+        squares = 0.0
+        for radicand, (re, im) in value.parts.items():
+            for part in (Fraction(re), Fraction(im)):
+                if radicand == 1 and _significant_digits(part) >= DOUBLE_SIGNIFICANT_DIGITS:
+                    squares += max(0.5 * _last_digit_unit(part), spacing) ** 2
+        exact.append(value)
+        radii.append(math.sqrt(squares))
+    return exact, np.array(radii, dtype=float)
 
 
 def coefficient_precision(system):

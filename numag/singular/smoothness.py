@@ -14,7 +14,11 @@ How a small singular value is tested
    all points in one batch; a point that cannot be moved onto X within the
    point tolerance (relative to the point, in the balanced units of the scaled
    problem) gets the verdict "off", with its residual and the distance Newton
-   moved it, and the other points are judged as usual.
+   moved it, and the other points are judged as usual. Without a point
+   tolerance the data sets it (decision 0072): exact data is on X only when F
+   vanishes there in exact arithmetic, and then the rank of J at the point,
+   also exact, decides; rounded data reaches as far as its last digit, and a
+   rank drop within that reach leaves the verdict "undecided".
 2. If the c-th scaled singular value (c = codimension) is clearly above zero,
    the rank is c and the point is smooth.
 3. Otherwise, at rising precision (mpmath, up to ``max_digits``): refine on F;
@@ -45,6 +49,7 @@ import math
 import mpmath
 import numpy as np
 
+from ..kinds import TextEnum
 from ..errors import InputError, PointError, is_integer, is_number, require_option
 from ..system.display import html_table, short_point
 from ..system.exact import ExactCoefficient
@@ -58,8 +63,9 @@ from ..numeric.refine import (RankDropSystem, ZeroKind, mp_gauss_newton, newton_
 from ..numeric.scaling import Scaling
 from ..numeric.seeds import random_state
 from ..witness.decompose import components_through
-from .kinds import LocalDimensionSource, Verdict
-from .nearness import backward_error, input_tolerance, nearest_backward_error
+from .kinds import CoefficientPrecision, JudgedPoint, LocalDimensionSource, Verdict
+from .nearness import (backward_error, coefficient_precision, input_tolerance, nearest_backward_error,
+                       point_precision)
 
 __all__ = ["CheckOptions", "PointVerdict", "CheckReport", "check_points",
            "VERDICTS"]
@@ -84,6 +90,14 @@ _DOUBLE_CLEAR_VALUE = 1e-6
 #: this multiple of it (smooth, with a c-th singular value above _DOUBLE_CLEAR_SMOOTH). Anything else
 #: is in doubt and goes to mpmath at rising precision.
 _DOUBLE_NEAR, _DOUBLE_FAR, _DOUBLE_CLEAR_SMOOTH = 0.5, 100.0, 1e-8
+#: Rounded data without a point tolerance (decision 0072): the nearest point of X must be within this many data
+#: radii of the given point (else "off"), and a rank drop within as many radii leaves the verdict undecided.
+DATA_MARGIN = 10.0
+#: Exact data: equations with at most this many terms in all are evaluated in exact arithmetic at the point;
+#: larger ones in mpmath at the check's highest precision.
+_EXACT_TERMS = 5000
+#: Digits of the mpmath Gauss-Newton that finds the nearest point of X to exact or rounded data.
+_NEAREST_DIGITS = 30
 
 
 @dataclass(frozen=True)
@@ -97,9 +111,15 @@ class CheckOptions:
         systems). None: assume a complete intersection (codimension = number of
         equations) when there are at most as many equations as the ambient
         dimension.
-    point_tolerance : float
+    point_tolerance : float or None
         How far (relative to ||(1, a)||) the point a verdict speaks about may lie
-        from the given point: the given point's accuracy.
+        from the given point: the given point's accuracy. None (the default): from the data
+        (decision 0072). Exact data (exact coefficients, a point of integers, rationals or decimals
+        of under 15 significant digits) is judged exactly: on X only when F vanishes there in exact
+        arithmetic (else "off", with the distance to the nearest point of X found), and the rank of
+        J at the point itself. Rounded data (decimals of 15 or more digits, as printed doubles, or
+        double-precision coefficients) is judged within :data:`DATA_MARGIN` radii of what its digits
+        allow: "off" beyond, "undecided" when a rank drop is within that reach.
     max_digits : int
         Highest precision, in decimal digits, an undecided rank may be escalated to.
     suspect_threshold : float
@@ -115,7 +135,7 @@ class CheckOptions:
     """
 
     local_dimension: int | None = None
-    point_tolerance: float = 1e-6
+    point_tolerance: float | None = None
     max_digits: int = 50
     suspect_threshold: float = 1e-4
     neighbour_samples: int = 3
@@ -126,8 +146,9 @@ class CheckOptions:
         """Refuse a bad value on construction, naming the option (the system's bounds: :meth:`validated`)."""
         require_option(self.local_dimension is None or is_integer(self.local_dimension), "local_dimension",
                        "an integer", self.local_dimension)
-        require_option(is_number(self.point_tolerance) and 0 < self.point_tolerance < 1, "point_tolerance",
-                       "in (0, 1)", self.point_tolerance)
+        require_option(self.point_tolerance is None or (is_number(self.point_tolerance)
+                                                        and 0 < self.point_tolerance < 1),
+                       "point_tolerance (--point-tolerance)", "None or in (0, 1)", self.point_tolerance)
         require_option(is_integer(self.max_digits) and DOUBLE_DIGITS <= self.max_digits <= 10000,
                        "max_digits (--digits)", f"an integer from {DOUBLE_DIGITS} to 10000", self.max_digits)
         require_option(is_number(self.suspect_threshold) and 0 < self.suspect_threshold < 1, "suspect_threshold",
@@ -197,6 +218,14 @@ class PointVerdict:
         Verdicts "off": what Newton's method found from the given point (decision 0064): X too far away
         (``zero``), no point of X near at all (``not a zero``: refinement ended at a stationary point of the
         residual, which the linear model does not explain) or ``undecided`` (refinement could not finish).
+    judged : JudgedPoint or None
+        Which point the verdict is about (decision 0072): the given point itself, the nearest point of X
+        found, a point where the rank drops within the point tolerance, or none.
+    on_x_exactly : bool or None
+        Exact data: whether F vanishes at the given point in exact arithmetic (None: not decided so).
+    data_radius : float or None
+        How far the digits given let the point be off (user's units; 0 for exact data); None when a point
+        tolerance was given.
     """
 
     index: int
@@ -218,6 +247,9 @@ class PointVerdict:
     backward_error: float | None = None
     backward_tolerance: float | None = None
     newton: ZeroKind | None = None
+    judged: JudgedPoint | None = None
+    on_x_exactly: bool | None = None
+    data_radius: float | None = None
 
     @property
     def near_singular(self):
@@ -314,6 +346,7 @@ class _Checker:
         self.options = options
         self.rng = rng
         self.settled = {}  # position -> outcome decided in double for a batch (settle_in_double)
+        self.tolerances = {}  # position -> absolute point tolerance (computed units) when set per point
         self.batch = BatchEvaluator(system.polynomials)
         self.precise = PrecisionEvaluator(system.polynomials)
         self.m, self.n = system.n_equations, system.n_variables
@@ -340,8 +373,10 @@ class _Checker:
             return float(line_distance(a, b)[0])
         return float(np.linalg.norm(np.asarray(a) - np.asarray(b)))
 
-    def tolerance_for(self, given):
-        """How far the point a verdict speaks about may be from the given one."""
+    def tolerance_for(self, given, position=None):
+        """How far the point a verdict speaks about may be from the given one (the point's own, when set)."""
+        if position in self.tolerances:
+            return self.tolerances[position]
         if self.system.projective:
             return self.options.point_tolerance
         return self.options.point_tolerance * _size(given)
@@ -362,7 +397,8 @@ class _Checker:
         return None, LocalDimensionSource.UNKNOWN
 
     # -- refinement at precision -----------------------------------------------------------------
-    def refine_on_f(self, point, ctx, digits):
+    def scaled_equations(self, ctx):
+        """F and J at the precision of ``ctx``, rows in units of their terms (the function Gauss-Newton takes)."""
         def function(z):
             x = [z[j] for j in range(self.n)]
             values, jacobian = self.precise.evaluate(x, ctx)
@@ -372,10 +408,85 @@ class _Checker:
                 for j in range(self.n):
                     jacobian[i, j] /= scales[i]
             return values, jacobian
+        return function
 
+    def refine_on_f(self, point, ctx, digits):
         start = ctx.matrix([ctx.mpc(v) for v in point])
-        z, _, _, _ = mp_gauss_newton(function, start, ctx, tolerance=100 * 10.0 ** (-digits))
+        z, _, _, _ = mp_gauss_newton(self.scaled_equations(ctx), start, ctx, tolerance=100 * 10.0 ** (-digits))
         return [z[j] for j in range(self.n)]
+
+    # -- exact data (decision 0072) -----------------------------------------------------------------
+    def exact_small_enough(self):
+        """True when the equations are exact and small enough to be evaluated in exact arithmetic."""
+        return (all(p.is_exact for p in self.system.polynomials)
+                and sum(p.n_terms for p in self.system.polynomials) <= _EXACT_TERMS)
+
+    def vanishes_exactly(self, exact_point):
+        """Whether F is zero at an exact point: in exact arithmetic, or in mpmath at the highest precision
+        (scaled residual at most 10^(5 - digits)) when the equations are too large for it."""
+        if self.exact_small_enough():
+            powers = [[ExactCoefficient.rational(1)] for _ in exact_point]
+            return all(p.evaluate_exact(exact_point, powers).is_zero() for p in self.system.polynomials)
+        digits = self.options.max_digits
+        with mpmath.mp.workdps(digits + 10):
+            values, _ = self.scaled_equations(mpmath.mp)(mpmath.mp.matrix([c.to_context(mpmath.mp)
+                                                                          for c in exact_point]))
+            return bool(mpmath.mp.norm(values) <= mpmath.mp.mpf(10) ** (5 - digits))
+
+    def exact_rank(self, exact_point):
+        """The rank of J at an exact point in exact arithmetic; None when the equations are too large."""
+        if not self.exact_small_enough():
+            return None
+        powers = [[ExactCoefficient.rational(1)] for _ in exact_point]
+        rows = [[d.evaluate_exact(exact_point, powers) for d in row] for row in self.system.jacobian_polynomials()]
+        rank = 0
+        for column in range(self.n):  # Gaussian elimination: exact numbers, so a zero test is exact
+            pivot = next((i for i in range(rank, len(rows)) if not rows[i][column].is_zero()), None)
+            if pivot is None:
+                continue
+            rows[rank], rows[pivot] = rows[pivot], rows[rank]
+            inverse = rows[rank][column].reciprocal()
+            for i in range(rank + 1, len(rows)):
+                if not rows[i][column].is_zero():
+                    factor = rows[i][column] * inverse
+                    rows[i] = [a - factor * b for a, b in zip(rows[i], rows[rank])]
+            rank += 1
+        return rank
+
+    def nearest_on_x(self, start):
+        """The nearest point of X found from ``start`` (exact or complex coordinates) by Gauss-Newton in mpmath.
+
+        Returns (point as complex ndarray, converged). Minimum-norm steps go to a nearby point of X; where
+        J vanishes at the start (a saddle of f between two branches) no step moves it, so Gauss-Newton
+        also starts from a few points around it at the distance the residual suggests (sqrt of the
+        scaled residual, the reach of a quadratic), and the nearest point reached is kept.
+        """
+        with mpmath.mp.workdps(_NEAREST_DIGITS + 10):
+            ctx = mpmath.mp
+            x0 = [c.to_context(ctx) if isinstance(c, ExactCoefficient) else ctx.mpc(c) for c in start]
+            function = self.scaled_equations(ctx)
+            tolerance = 100 * ctx.mpf(10) ** (-_NEAREST_DIGITS)
+            residual, jacobian = function(ctx.matrix(x0))
+            z, converged, _, _ = mp_gauss_newton(function, ctx.matrix(x0), ctx, tolerance=tolerance,
+                                                 max_iterations=40)
+            best, best_distance = (z, float(ctx.norm(z - ctx.matrix(x0)))) if converged else (None, math.inf)
+            stuck = min(self.n, self.m) and mp_singular_values(jacobian, ctx)[min(self.n, self.m) - 1] <= ctx.mpf(
+                10) ** (-DOUBLE_DIGITS) * max(ctx.norm(residual), 1e-300) ** 0.5
+            if stuck or not converged:
+                reach = float(ctx.norm(residual)) ** 0.5 * _size(np.array([complex(v) for v in x0]))
+                real = all(ctx.im(v) == 0 for v in x0)
+                for _ in range(4 if reach > 0 else 0):
+                    direction = self.rng.standard_normal(self.n) + (
+                        0 if real else 1j * self.rng.standard_normal(self.n))
+                    direction *= reach / np.linalg.norm(direction)
+                    begin = ctx.matrix([v + ctx.mpc(d) for v, d in zip(x0, direction)])
+                    z, converged, _, _ = mp_gauss_newton(function, begin, ctx, tolerance=tolerance, max_iterations=40)
+                    distance = float(ctx.norm(z - ctx.matrix(x0)))
+                    if converged and distance < best_distance:
+                        best, best_distance = z, distance
+            if best is None:
+                return np.array([complex(v) for v in x0]), False
+            return np.array([complex(best[j]) for j in range(self.n)]), True
 
     def find_rank_drop(self, point, rank, ctx, digits):
         """Solve F = 0 and rank J <= rank from ``point``; return the point (complex) or None."""
@@ -425,7 +536,7 @@ class _Checker:
                     continue
                 found = drops.points[row]
                 distance = self.distance(given[position], found)
-                tolerance = self.tolerance_for(given[position])
+                tolerance = self.tolerance_for(given[position], number[position])
                 # Only "smooth" is settled here. A rank drop found in double at the point is left to the
                 # escalation: at a singular point of Milnor number > 1 (a tacnode) the rank-drop system is
                 # not regular, Gauss-Newton stops 1e-5 away, and that point (never refined) split one tacnode
@@ -448,13 +559,13 @@ class _Checker:
         return None
 
     # -- one point ---------------------------------------------------------------------------------
-    def escalate(self, given, exact_given, refined, codim):
+    def escalate(self, given, exact_given, refined, codim, position=None):
         """Decide a suspect rank at rising precision (a :class:`_Decision`)."""
         opts = self.options
         schedule = sorted({d for d in (30, 2 * 30, 4 * 30, 8 * 30) if d < opts.max_digits} | {opts.max_digits})
         schedule = [d for d in schedule if d > DOUBLE_DIGITS] or [opts.max_digits]
         history = []
-        tolerance = self.tolerance_for(given)
+        tolerance = self.tolerance_for(given, position)
         current = [complex(v) for v in refined]
         for digits in schedule:
             with mpmath.mp.workdps(digits + 10):
@@ -525,7 +636,10 @@ class _Checker:
                     return False
         return True
 
-    def check(self, index, given, exact_given, refined, residual, values, scales, through=None, position=None):
+    def check(self, index, given, exact_given, refined, residual, values, scales, through=None, position=None,
+              exact_rank=None):
+        """The verdict at one point; ``exact_rank``: the rank of J at an exact point of X (exact data), which
+        then decides."""
         opts = self.options
         double_zero = zero_tolerance(DOUBLE_DIGITS, (self.m, self.n))
         rank = numerical_rank(values, double_zero)
@@ -550,7 +664,13 @@ class _Checker:
             decision.outcome = Verdict.SMOOTH
         else:
             escalated = True
-            decision = self.settled.get(position) or self.escalate(given, exact_given, refined, codim)
+            decision = self.settled.get(position) or self.escalate(given, exact_given, refined, codim, position)
+        if exact_rank is not None and codim:  # F(p) = 0 exactly: the rank at p, in exact arithmetic, decides
+            decision.outcome = Verdict.SMOOTH if exact_rank >= codim else Verdict.SINGULAR
+            if decision.outcome is Verdict.SINGULAR:
+                decision.point, decision.drop, decision.drop_distance = refined, refined, 0.0
+            notes.append(f"Decided exactly: F vanishes at the given point and J has rank {exact_rank} there in "
+                         "exact arithmetic.")
         digits = decision.digits
         zero = zero_tolerance(digits, (self.m, self.n))
         final_values = np.array(decision.values, dtype=float)
@@ -599,33 +719,34 @@ class _Checker:
         ambient = self.system.ambient_dimension
         local = None if codim is None else ambient - codim
         drop = decision.drop
+        at = self.distance(refined, point)
+        judged = (JudgedPoint.RANK_DROP if verdict.is_singular and drop is not None and at > 0 else
+                  JudgedPoint.GIVEN if self.distance(given, point) == 0 else JudgedPoint.NEAREST_ON_X)
         return PointVerdict(
             index=index, given=given, point=point, distance=self.distance(given, point), residual=residual,
             verdict=verdict, rank=int(rank), codimension=codim, tangent_dimension=ambient - int(rank),
             local_dimension=local, local_dimension_source=source, evidence=evidence,
             nearest_rank_drop=None if drop is None else (normalize_projective(drop) if self.system.projective
                                                          else np.asarray(drop)),
-            nearest_rank_drop_distance=decision.drop_distance, notes=notes,
+            nearest_rank_drop_distance=decision.drop_distance, notes=notes, judged=judged,
             components=[{"id": c.id, "dimension": c.dimension, "degree": c.degree} for c in (through or [])])
 
 
 def _as_points(points, system):
-    """Complex array of points and, where given exactly, their exact coordinates."""
-    complex_points, exact_points = [], []
+    """Complex array of points, their exact coordinates (the digits as written) and each coordinate's radius."""
+    complex_points, exact_points, radii = [], [], []
     for index, point in enumerate(points, 1):
         coordinates = list(point)
         if len(coordinates) != system.n_variables:
             raise PointError(f"has {len(coordinates)} coordinates, the system has {system.n_variables} variables",
                              index)
-        exact = all(isinstance(c, (ExactCoefficient, int)) for c in coordinates)
         try:
             values = np.array([complex(c) for c in coordinates], dtype=complex)
         except (TypeError, ValueError) as err:
             raise PointError(f"coordinates must be numbers ({err})", index) from None
         if not np.all(np.isfinite(values)):
             raise PointError("has a non-finite coordinate", index)
-        exact_coordinates = [c if isinstance(c, ExactCoefficient) else ExactCoefficient.rational(c)
-                             for c in coordinates] if exact else None
+        exact_coordinates, point_radii = point_precision(coordinates)  # decision 0072: the digits given
         if system.projective:
             if np.all(values == 0):
                 raise PointError("all homogeneous coordinates are zero: not a projective point", index)
@@ -637,10 +758,13 @@ def _as_points(points, system):
                     exact_coordinates = [c * inverse for c in exact_coordinates]
                 else:
                     exact_coordinates = None
+            point_radii = point_radii / abs(values[projective_pivot(values)])
             values = pivot_value
         complex_points.append(values)
         exact_points.append(exact_coordinates)
-    return np.array(complex_points, dtype=complex).reshape(len(complex_points), system.n_variables), exact_points
+        radii.append(point_radii)
+    return (np.array(complex_points, dtype=complex).reshape(len(complex_points), system.n_variables), exact_points,
+            radii)
 
 
 def check_points(system, points, options=None, seed=None, decomposition=None):
@@ -667,7 +791,10 @@ def check_points(system, points, options=None, seed=None, decomposition=None):
 
     A point that cannot be moved onto X within the point tolerance gets the verdict "off" (its
     ``residual``, the ``distance`` Newton moved it and a note say how far off it is); the other
-    points are judged as usual.
+    points are judged as usual. Without ``options.point_tolerance`` the data decides (decision 0072):
+    exact data is on X only when F vanishes there in exact arithmetic and is judged at the point itself;
+    rounded data (decimals of 15 or more digits, computed floats) is undecided when a rank drop is within
+    the reach of its last digit. Each verdict's ``judged`` names the point it is about.
 
     Raises
     ------
@@ -686,18 +813,26 @@ def check_points(system, points, options=None, seed=None, decomposition=None):
     options = (options or CheckOptions()).validated(system)
     require_numeric(system)
     seed, rng = random_state(seed)
-    user_given, user_exact = _as_points(points, system)
+    user_given, user_exact, user_radii = _as_points(points, system)
     scaling = Scaling.balancing(system)
     if len(user_given) == 0:
         return CheckReport(system=system, points=[], options=options, seed=seed, scaling=scaling)
     given = scaling.to_computed(user_given)
     divisors = [ExactCoefficient.rational(Fraction(10) ** -c) for c in scaling.variable_exponents]
     exact = [None if e is None else [v * d for v, d in zip(e, divisors)] for e in user_exact]
+    exact_coefficients = coefficient_precision(system) is CoefficientPrecision.EXACT
+    data = [_PointData.of(options, exact_coefficients, e is not None and not np.any(r > 0))
+            for e, r in zip(exact, user_radii)]
+    radii = [float(np.linalg.norm(scaling.to_computed(r[None, :].astype(complex))[0])) if not system.projective
+             else float(np.linalg.norm(r)) for r in user_radii]
     verdicts = _check_in_units(scaling.scale_system(system), given, exact, options, seed, rng, decomposition,
-                               scaling)
+                               scaling, _DataRule(data=data, radii=radii,
+                                                  coefficient_tolerance=input_tolerance(system) or 0.0))
     checker = _Checker(system, options, rng)  # distances in the user's units
     for verdict, point in zip(verdicts, user_given):
         _to_user_units(verdict, point, scaling, checker)
+    for verdict, kind, point_radii in zip(verdicts, data, user_radii):
+        _state_what_the_data_says(verdict, kind, float(np.linalg.norm(point_radii)))
     if options.backward_errors:
         _measure_backward_errors(system, scaling, verdicts, options)
     return CheckReport(system=system, points=verdicts, options=options, seed=seed, scaling=scaling)
@@ -730,7 +865,11 @@ def _measure_backward_errors(system, scaling, verdicts, options):
         error = min(backward_error(balanced, p, verdict.codimension) for p in points)
         if close:  # a point next to it where the conditions come closer, if within the given point's accuracy
             nearest, where = nearest_backward_error(balanced, points, verdict.codimension)
-            if np.linalg.norm(where - points[0]) <= options.point_tolerance * _size(points[0]):
+            if options.point_tolerance is not None:
+                accuracy = options.point_tolerance
+            else:  # the data's own reach (decision 0072), relative
+                accuracy = DATA_MARGIN * ((verdict.data_radius or 0.0) / _size(verdict.given) + 2.0 ** -52)
+            if np.linalg.norm(where - points[0]) <= accuracy * _size(points[0]):
                 error = min(error, nearest)
         verdict.backward_error, verdict.backward_tolerance = float(error), tolerance
         if verdict.near_singular:
@@ -758,9 +897,56 @@ def _to_user_units(verdict, given, scaling, checker):
         verdict.nearest_rank_drop_distance = checker.distance(given, verdict.nearest_rank_drop)
 
 
-def _check_in_units(system, given, exact, options, seed, rng, decomposition, scaling):
+class _PointData(TextEnum):
+    """How a point's verdict is reached (decision 0072)."""
+
+    TOLERANCE = "point tolerance given"     # the user's tolerance; exact data still gets exact membership
+    EXACT = "exact data"                    # exact coefficients and point: judged exactly where given
+    ROUNDED = "rounded data"                # the digits given (and the coefficients' rounding) set the reach
+
+    @classmethod
+    def of(cls, options, exact_coefficients, exact_point):
+        """The rule for a point: the options' tolerance when given, else what the data is."""
+        if options.point_tolerance is not None:
+            return cls.TOLERANCE
+        return cls.EXACT if exact_coefficients and exact_point else cls.ROUNDED
+
+
+@dataclass(frozen=True)
+class _DataRule:
+    """Each point's :class:`_PointData`, its data radius (computed units) and the coefficients' share."""
+
+    data: list
+    radii: list
+    coefficient_tolerance: float  # what the coefficients cannot resolve (decision 0062's input tolerance), 0 exact
+
+    @property
+    def coefficient_radius(self):
+        """Relative: how far rounded coefficients can move X near a singular point (sqrt of their tolerance,
+        the reach of a node; 0 for exact coefficients)."""
+        return math.sqrt(self.coefficient_tolerance)
+
+    def exact_data(self, k):
+        """Exact coefficients and an exact point (with or without a tolerance)."""
+        return self.data[k] is _PointData.EXACT or (self.data[k] is _PointData.TOLERANCE and self.radii[k] == 0
+                                                    and self.coefficient_radius == 0)
+
+    def reach(self, k, given, coefficients=True):
+        """Rounded data: how far the point a verdict speaks about may be from the given one (with or without
+        what the coefficients' rounding can move X)."""
+        # distances are measured between doubles: their rounding (2^-52 of the point) is a floor of the radius
+        share = self.coefficient_radius if coefficients else 0.0
+        return DATA_MARGIN * (self.radii[k] + (2.0 ** -52 + share) * _size(given))
+
+    def on_within_coefficients(self, residual):
+        """Rounded coefficients: a scaled residual they explain (a relative change of them within their
+        tolerance makes F vanish at the point) is on X as far as the data can say."""
+        return residual <= DATA_MARGIN * self.coefficient_tolerance
+
+
+def _check_in_units(system, given, exact, options, seed, rng, decomposition, scaling, rule):
     """The verdicts at points of ``system`` (already in computed units; ``decomposition`` in the user's); a
-    point that cannot be moved onto X gets the verdict "off"."""
+    point that cannot be moved onto X gets the verdict "off". ``rule``: a :class:`_DataRule`."""
     checker = _Checker(system, options, rng)
     # On X is what Newton's method reaches, not a residual bound (decision 0064): Gauss-Newton aims at a scaled
     # residual of 1e-13 and, at a singular point, can stall just above (rounding, a rank-deficient Jacobian:
@@ -773,8 +959,35 @@ def _check_in_units(system, given, exact, options, seed, rng, decomposition, sca
         refined = normalize_projective(refined)
     on_variety = projection.mask(ZeroKind.ZERO)
     moved = np.array([checker.distance(given[k], refined[k]) for k in range(len(given))])
-    tolerances = np.array([checker.tolerance_for(given[k]) for k in range(len(given))])
+    exact_ranks, on_exactly = [None] * len(given), [None] * len(given)
+    for k in range(len(given)):
+        kind = rule.data[k]
+        if kind is not _PointData.TOLERANCE:
+            checker.tolerances[k] = 0.0 if kind is _PointData.EXACT else rule.reach(k, given[k])
+        if rule.exact_data(k) and exact[k] is not None:
+            # Decision 0072: membership of exact data in exact arithmetic, not by a residual in double
+            on_exactly[k] = checker.vanishes_exactly(exact[k])
+            if on_exactly[k]:
+                refined[k], on_variety[k], moved[k] = given[k], True, 0.0
+                if kind is _PointData.EXACT:
+                    exact_ranks[k] = checker.exact_rank(exact[k])
+                    if exact_ranks[k] is None:  # too large for exact arithmetic: a rank drop at mpmath's reach
+                        checker.tolerances[k] = 10.0 ** -DOUBLE_DIGITS * _size(given[k])
+                continue
+        if kind is not _PointData.TOLERANCE or on_exactly[k] is False:
+            # the nearest point of X to the data itself (exact decimals or the rounded digits), in mpmath: in
+            # double the rounding of F near a singular point moves Newton's point by more than the data's radius
+            found, converged = checker.nearest_on_x(exact[k] if exact[k] is not None else given[k])
+            if converged:  # else double precision's answer stands (slow convergence at a cusp, say)
+                refined[k] = normalize_projective(found) if system.projective else found
+                on_variety[k], moved[k] = True, checker.distance(given[k], refined[k])
+    tolerances = np.array([checker.tolerance_for(given[k], k) for k in range(len(given))])
     off = ~on_variety | (moved > tolerances)
+    for k in range(len(given)):
+        if rule.data[k] is _PointData.ROUNDED:
+            # on X when Newton's point is within the digits' reach, or the coefficients' rounding explains F there
+            off[k] = not rule.on_within_coefficients(float(residual_given[k])) and (
+                not on_variety[k] or moved[k] > rule.reach(k, given[k], coefficients=False))
     values, scales = [None] * len(given), [None] * len(given)
     on = np.nonzero(~off)[0]
     if len(on):
@@ -790,12 +1003,64 @@ def _check_in_units(system, given, exact, options, seed, rng, decomposition, sca
     checker.settle_in_double(given[~off], refined[~off], [values[k] for k in np.nonzero(~off)[0]],
                              [scales[k] for k in np.nonzero(~off)[0]], [through[k] for k in np.nonzero(~off)[0]],
                              positions=np.nonzero(~off)[0])
-    return [_off_verdict(checker, k + 1, given[k], refined[k], float(residual_given[k]), float(moved[k]),
-                         float(tolerances[k]), projection.kinds[k], float(projection.after[k]), values[k],
-                         scales[k])
-            if off[k] else
-            checker.check(k + 1, given[k], exact[k], refined[k], float(residual_given[k]), values[k], scales[k],
-                          through[k], position=k) for k in range(len(given))]
+    verdicts = [_off_verdict(checker, k + 1, given[k], refined[k], float(residual_given[k]), float(moved[k]),
+                             float(tolerances[k]), ZeroKind.ZERO if on_variety[k] else projection.kinds[k],
+                             float(projection.after[k]), values[k], scales[k])
+                if off[k] else
+                checker.check(k + 1, given[k], None if on_exactly[k] is False else exact[k], refined[k],
+                              float(residual_given[k]), values[k], scales[k], through[k], position=k,
+                              exact_rank=exact_ranks[k]) for k in range(len(given))]
+    for k, verdict in enumerate(verdicts):
+        verdict.on_x_exactly = on_exactly[k]
+        if rule.data[k] is _PointData.ROUNDED and verdict.verdict.is_singular:
+            # undecided between two points (decision 0072): the nearest point of X found beside the rank drop
+            verdict.point, verdict.distance = refined[k], float(moved[k])
+    return verdicts
+
+
+def _away(distance):
+    """A distance between two points stored as doubles, as a note says it (0: they round to the same doubles)."""
+    return f"{distance:.3g} away" if distance > 0 else "within double rounding of it"
+
+
+def _state_what_the_data_says(verdict, kind, radius):
+    """Decision 0072, in the user's units (in place): rounded data near a rank drop is undecided, and the notes
+    say which point was judged and why."""
+    if kind is not _PointData.TOLERANCE:
+        verdict.data_radius = radius
+    if verdict.judged is JudgedPoint.GIVEN:  # the given point itself, not its round trip through the balanced units
+        verdict.point, verdict.distance = np.asarray(verdict.given, dtype=complex), 0.0
+    if verdict.verdict is Verdict.OFF:
+        verdict.judged = JudgedPoint.NONE
+        if kind is _PointData.EXACT:
+            size = _size(verdict.given)
+            verdict.notes = [f"Not on X: F does not vanish at the given point in exact arithmetic. The nearest "
+                             f"point of X found is at distance {verdict.distance:.3g} (relative "
+                             f"{verdict.distance / size:.3g}); "
+                             "give --point-tolerance (relative) above that to judge that point instead."
+                             if math.isfinite(verdict.distance) and verdict.newton is ZeroKind.ZERO else
+                             "Not on X: F does not vanish at the given point in exact arithmetic, and Newton's method "
+                             "found no point of X near it."]
+        elif kind is _PointData.ROUNDED:
+            verdict.notes.insert(0, f"The digits given (and the coefficients' rounding) let the point be off by about "
+                                    f"{radius:.3g}; the nearest point of X found is farther than {DATA_MARGIN:g} times "
+                                    "that.")
+        return
+    if verdict.on_x_exactly is False:  # a tolerance was given: the nearest point of X was judged
+        verdict.notes.insert(0, f"The given point is not on X (F does not vanish there in exact arithmetic); the "
+                                f"verdict is about {verdict.judged.value if verdict.judged else 'the nearest point'}, "
+                                f"within the point tolerance (the nearest point of X found is "
+                                f"{verdict.distance if verdict.judged is JudgedPoint.NEAREST_ON_X else 0:.3g} away).")
+    if kind is _PointData.ROUNDED and verdict.judged is JudgedPoint.GIVEN:
+        verdict.judged = JudgedPoint.NEAREST_ON_X  # rounded data: the point of X it stands for, at double's reach
+    if kind is _PointData.ROUNDED and verdict.verdict.is_singular:
+        drop = verdict.nearest_rank_drop_distance
+        verdict.verdict, verdict.judged = Verdict.UNDECIDED, JudgedPoint.NONE
+        verdict.notes.insert(0, f"Undecided: the digits given let the point be off by about {radius:.3g}; the "
+                                f"nearest point of X found is {_away(verdict.distance)} and a point where the rank "
+                                f"drops {'at an unmeasured distance' if drop is None else _away(drop)}, "
+                                "and the data cannot tell them apart. Give the point exactly (rationals or short "
+                                "decimals) to judge it, or --point-tolerance to accept the singular point.")
 
 
 def _values_at_given(checker, point):

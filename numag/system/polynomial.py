@@ -502,6 +502,37 @@ class Polynomial:
         point = np.asarray(point, dtype=complex)
         return complex(np.sum(self.numeric_coefficients() * np.prod(point ** self.exponents, axis=1)))
 
+    def evaluate_exact(self, point, powers=None):
+        """Value at a point of exact coordinates, in exact arithmetic (an exact polynomial only).
+
+        Parameters
+        ----------
+        point : sequence of ExactCoefficient
+        powers : list of lists, optional
+            A cache of the coordinates' powers (``powers[j][e]`` is ``point[j] ** e``), shared by the
+            polynomials of one system at one point; filled as needed.
+
+        Examples
+        --------
+        >>> from numag.system.parse import parse_polynomial
+        >>> f = parse_polynomial("(y - 2)^2 - ((x - 1)^2 - 1/1000000)^2", ["x", "y"])
+        >>> f.evaluate_exact([ExactCoefficient.rational(1), ExactCoefficient.rational(2)]).to_text()
+        '-1/1000000000000'
+        """
+        if not self.is_exact:
+            raise ValueError("evaluate_exact needs exact coefficients")
+        powers = [[ExactCoefficient.rational(1)] for _ in point] if powers is None else powers
+        total = ExactCoefficient.zero()
+        for row, coefficient in zip(self.exponents, self.coefficients):
+            term = coefficient
+            for j, e in enumerate(row):
+                if e:
+                    while len(powers[j]) <= e:
+                        powers[j].append(powers[j][-1] * point[j])
+                    term = term * powers[j][int(e)]
+            total = total + term
+        return total
+
     # -- text -----------------------------------------------------------------------------------
     def to_text(self, names):
         """Text in the equation grammar; :func:`numag.system.parse.parse_polynomial` reads it back exactly.

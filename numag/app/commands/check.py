@@ -44,7 +44,8 @@ def add_parser(commands):
     check.add_argument("--digits", type=int, default=CheckOptions.max_digits, metavar="D",
                        help="highest precision (decimal digits) for undecided ranks (default %(default)s)")
     check.add_argument("--point-tolerance", type=_positive_number, default=CheckOptions.point_tolerance, metavar="T",
-                       help="relative accuracy of the given points (default %(default)s)")
+                       help="relative accuracy of the given points (default: from the data: exact points are "
+                            "judged exactly, decimals of 15 or more digits to their last digit)")
     check.add_argument("--seed", type=_seed, help="seed for the random choices (recorded in the report)")
     check.add_argument("--json", action="store_true", help="print the report as JSON")
     check.add_argument("--anatomy", action="store_true",
@@ -60,7 +61,8 @@ def _print_check(report, out, data=None, anatomies=None):
     system = report.system
     out.write(_headline("check", system, report.seed))
     text = _PointFormat()
-    accuracy = report.options.point_tolerance  # the given points' accuracy, and so of what they move to
+    # the given points' accuracy, and so of what they move to (None: from the data, decision 0072)
+    accuracy = report.options.point_tolerance or 0.0
     for v in report.points:
         e = v.evidence
         out.write(f"\npoint {v.index}: {_format_point(system.variables, v.given)}\n")
@@ -75,6 +77,13 @@ def _print_check(report, out, data=None, anatomies=None):
             out.write(f"  speaks about: {text(system.variables, v.point, accuracy)} "
                       f"(distance {v.distance:.3g} from the given point)\n")
         out.write(f"  residual of F at the given point (scaled): {v.residual:.3g}\n")
+        if v.judged is not None:  # decision 0072: which point the verdict is about
+            out.write(f"  judged: {v.judged}"
+                      + (f" (the digits given allow it to be off by {v.data_radius:.3g})" if v.data_radius else "")
+                      + "\n")
+        if v.on_x_exactly is not None:
+            out.write(f"  membership: F {'vanishes' if v.on_x_exactly else 'does not vanish'} at the given point "
+                      "in exact arithmetic\n")
         codim = "unknown" if v.codimension is None else str(v.codimension)
         out.write(f"  rank of J: {v.rank}; a smooth point needs {codim} "
                   f"(local dimension {v.local_dimension if v.local_dimension is not None else 'unknown'}: "
