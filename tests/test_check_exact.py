@@ -137,9 +137,9 @@ def test_rounded_points_are_judged_to_their_last_digit(factor, seed):
     assert CAYLEY.subs({X: 1, Y: 1, Z: 1 + sympy.Rational(1, 10 ** 9)}) != 0
     points = [rounded(p, f) for p in (node, near, off)]
     at_node, smooth, not_on = check_points(system, points, seed=seed).points
-    assert at_node.verdict is Verdict.UNDECIDED and at_node.judged is JudgedPoint.NONE
+    assert at_node.verdict is Verdict.SINGULAR and at_node.judged is JudgedPoint.RANK_DROP
     assert at_node.nearest_rank_drop_distance is not None and at_node.data_radius > 0
-    assert "cannot tell" in at_node.notes[0]
+    assert "within the data's precision" in at_node.notes[0]
     assert smooth.verdict is Verdict.SMOOTH and smooth.judged is JudgedPoint.NEAREST_ON_X
     assert not_on.verdict is Verdict.OFF
 
@@ -164,14 +164,14 @@ def test_command_line_exact_point_off_then_judged_with_a_tolerance(tmp_path, cap
 
 
 def test_command_line_decimals_of_seventeen_digits_are_rounded_data(tmp_path, capsys):
-    # the node (1/3, 2/7, 8/9) of the moved Cayley cubic, written as a double prints it: undecided (exit 3);
-    # written exactly: singular (exit 0)
+    # the node (1/3, 2/7, 8/9) of the moved Cayley cubic, written as a double prints it: singular about the rank
+    # drop within the digits' reach; written exactly: singular at the given point (exit 0 both)
     moved = sympy.expand(CAYLEY.subs({X: X + sympy.Rational(2, 3), Y: Y + sympy.Rational(5, 7),
                                       Z: Z + sympy.Rational(1, 9)}, simultaneous=True))
     printed = ",".join(f"{n}={float(Fraction(v))!r}" for n, v in zip("xyz", ("1/3", "2/7", "8/9")))
     code, report = run_cli(tmp_path, capsys, moved, ["x", "y", "z"], "--point", printed, "--seed", "2")
-    assert code == EXIT_UNDECIDED and report["points"][0]["verdict"] == "undecided"
-    assert report["points"][0]["data_radius"] > 0
+    assert code == EXIT_OK and report["points"][0]["verdict"] == "singular"
+    assert report["points"][0]["judged"] == "a point where the rank drops" and report["points"][0]["data_radius"] > 0
     code, report = run_cli(tmp_path, capsys, moved, ["x", "y", "z"], "--point", "x=1/3,y=2/7,z=8/9", "--seed", "2")
     assert code == EXIT_OK and report["points"][0]["verdict"] == "singular"
     assert report["points"][0]["judged"] == "the given point" and report["points"][0]["on_x_exactly"] is True

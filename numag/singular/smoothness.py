@@ -18,7 +18,7 @@ How a small singular value is tested
    tolerance the data sets it (decision 0072): exact data is on X only when F
    vanishes there in exact arithmetic, and then the rank of J at the point,
    also exact, decides; rounded data reaches as far as its last digit, and a
-   rank drop within that reach leaves the verdict "undecided".
+   rank drop within that reach makes the verdict "singular", about that point.
 2. If the c-th scaled singular value (c = codimension) is clearly above zero,
    the rank is c and the point is smooth.
 3. Otherwise, at rising precision (mpmath, up to ``max_digits``): refine on F;
@@ -1054,13 +1054,15 @@ def _state_what_the_data_says(verdict, kind, radius):
     if kind is _PointData.ROUNDED and verdict.judged is JudgedPoint.GIVEN:
         verdict.judged = JudgedPoint.NEAREST_ON_X  # rounded data: the point of X it stands for, at double's reach
     if kind is _PointData.ROUNDED and verdict.verdict.is_singular:
+        # Rounded data stand for every point within their reach: a rank drop there is what the data say (the
+        # point a user pastes from a computed singular point is singular), and the verdict names that point.
         drop = verdict.nearest_rank_drop_distance
-        verdict.verdict, verdict.judged = Verdict.UNDECIDED, JudgedPoint.NONE
-        verdict.notes.insert(0, f"Undecided: the digits given let the point be off by about {radius:.3g}; the "
-                                f"nearest point of X found is {_away(verdict.distance)} and a point where the rank "
-                                f"drops {'at an unmeasured distance' if drop is None else _away(drop)}, "
-                                "and the data cannot tell them apart. Give the point exactly (rationals or short "
-                                "decimals) to judge it, or --point-tolerance to accept the singular point.")
+        verdict.judged = JudgedPoint.RANK_DROP
+        verdict.notes.insert(0, f"Singular within the data's precision: the digits given let the point be off by "
+                                f"about {radius:.3g}, and a point where the rank drops is "
+                                f"{'within that reach' if drop is None else _away(drop)}; the verdict is about that "
+                                "point (smooth points of X are as close: give the point exactly to judge the given "
+                                "point itself).")
 
 
 def _values_at_given(checker, point):
