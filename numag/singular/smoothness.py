@@ -98,6 +98,9 @@ DATA_MARGIN = 10.0
 _EXACT_TERMS = 5000
 #: Digits of the mpmath Gauss-Newton that finds the nearest point of X to exact or rounded data.
 _NEAREST_DIGITS = 30
+#: Extra working digits tried in turn: an expanded polynomial far from the origin cancels many digits (a quartic
+#: moved to 3456 loses 13 of them), and Gauss-Newton then stalls above its tolerance at the first precision.
+_NEAREST_EXTRA_DIGITS = (10, 40)
 
 
 @dataclass(frozen=True)
@@ -461,7 +464,15 @@ class _Checker:
         also starts from a few points around it at the distance the residual suggests (sqrt of the
         scaled residual, the reach of a quadratic), and the nearest point reached is kept.
         """
-        with mpmath.mp.workdps(_NEAREST_DIGITS + 10):
+        for extra in _NEAREST_EXTRA_DIGITS:
+            found, converged = self._nearest_on_x_at(start, _NEAREST_DIGITS + extra)
+            if converged:
+                break
+        return found, converged
+
+    def _nearest_on_x_at(self, start, digits):
+        """:meth:`nearest_on_x` at ``digits`` working digits."""
+        with mpmath.mp.workdps(digits):
             ctx = mpmath.mp
             x0 = [c.to_context(ctx) if isinstance(c, ExactCoefficient) else ctx.mpc(c) for c in start]
             function = self.scaled_equations(ctx)
@@ -981,6 +992,10 @@ def _check_in_units(system, given, exact, options, seed, rng, decomposition, sca
             if converged:  # else double precision's answer stands (slow convergence at a cusp, say)
                 refined[k] = normalize_projective(found) if system.projective else found
                 on_variety[k], moved[k] = True, checker.distance(given[k], refined[k])
+            elif on_exactly[k] is False and moved[k] == 0:
+                # ... but not where double accepted the given point itself, which exact arithmetic refutes (the
+                # rounding of an expanded polynomial far from the origin hides F there)
+                on_variety[k] = False
     tolerances = np.array([checker.tolerance_for(given[k], k) for k in range(len(given))])
     off = ~on_variety | (moved > tolerances)
     for k in range(len(given)):
