@@ -63,6 +63,7 @@ from ..witness.decompose import (EXPANSION_MONOMIALS, DecomposeOptions, Decompos
                                  expansion_bound, holding_rows)
 from .isolated import finite_singular_points, null_vector_groups, null_vector_system
 from .kinds import CandidateSystem, Formulation, PieceKind, Verdict
+from .centred import centre_near, centred_system, within
 from .nearness import NearSingularPoint, input_tolerance, nearest_backward_error
 from .smoothness import CheckOptions, check_points
 
@@ -408,6 +409,14 @@ def singular_locus(system, options=None, seed=None, progress=None):
     options = (options or SingularOptions()).validated(system)
     require_numeric(system)
     seed = resolved_seed(seed)
+    locus, dropped = _in_user_units(system, options, seed, progress)
+    if not system.projective:
+        _judged_centred(system, options, seed, progress, locus, dropped)
+    return locus
+
+
+def _in_user_units(system, options, seed, progress):
+    """:func:`singular_locus` without the centred second look: (locus, dropped candidates in the user's units)."""
     scaling = Scaling.balancing(system)
     locus, dropped = _singular_locus(scaling.scale_system(system), options, seed, progress)
     for component in locus.components:
@@ -422,7 +431,90 @@ def singular_locus(system, options=None, seed=None, progress=None):
     locus.system, locus.scaling = system, scaling
     locus.near_singular = _near_singular(system, scaling, dropped, locus.discarded)
     _vanishing_jacobians(dropped, locus.discarded)
-    return locus
+    if not system.projective:
+        for candidate in dropped:
+            candidate.candidate, candidate.refined = scaling.to_user(np.array([candidate.candidate,
+                                                                                candidate.refined]))
+    return locus, dropped
+
+
+def _doubtful(candidate):
+    """Whether a dropped candidate left a completeness warning that a centred second look may settle."""
+    return candidate.merged or (not candidate.near_singular and candidate.smallest is not None
+                                and candidate.smallest < _VANISHING_JACOBIAN)
+
+
+def _judged_centred(system, options, seed, progress, locus, dropped):
+    """Settle doubtful candidates by solving again in coordinates centred at them (decision 0071), in place.
+
+    A candidate judged smooth where J nearly vanishes, or refined onto a point found before, is what features
+    far smaller than their distance from the origin look like: double precision cannot see them in the expanded
+    polynomial. Around each such candidate (``_CANDIDATE_TOLERANCE`` relative: the region a candidate speaks
+    for) the system is written exactly in y = x - s (:mod:`numag.singular.centred`) and its singular locus
+    computed; when that run is clean in the region, its isolated points there replace the first run's and the
+    warnings it settles are withdrawn. Otherwise the warnings stay (exit 3).
+    """
+    doubts = [candidate for candidate in dropped if _doubtful(candidate)]
+    centrings, members = [], []
+    for candidate in doubts:
+        point = np.asarray(candidate.candidate, dtype=complex)
+        if not np.all(np.isfinite(point)):
+            continue
+        radius = _CANDIDATE_TOLERANCE * (1 + float(np.linalg.norm(point)))
+        if np.linalg.norm(point.imag) <= radius:  # a real centre keeps real equations real (conjugate pairs)
+            point = point.real.astype(complex)
+        home = next((k for k, c in enumerate(centrings) if within(point[None, :], c)[0]), None)
+        if home is None:
+            centrings.append(centre_near(point, radius))
+            members.append([])
+            home = len(centrings) - 1
+        members[home].append(candidate)
+    for centring, settled in zip(centrings, members):
+        if progress is not None:
+            progress(f"judging {counted(len(settled), 'doubtful candidate')} again in coordinates centred at "
+                     f"{short_point(centring.point)}")
+        try:
+            local, local_dropped = _in_user_units(centred_system(system, centring), options, seed, None)
+        except LimitError as err:  # the centred polynomial is too large to write: the warnings stay
+            locus.notes.append(f"Centred coordinates at {short_point(centring.point)} not tried ({err}).")
+            continue
+        add_path_counts(locus.paths, {key: value for key, value in local.paths.items()
+                                      if key not in ("degree_check_failed",)})
+        here = replace(centring, point=np.zeros_like(centring.point))  # the region in the centred coordinates
+        doubt = (sum(local.paths.get(label, 0) for label in FAILURE_LABELS)
+                 or any(local.discarded.get(key, 0) for key in _GLOBAL_DOUBTS)
+                 or any(_doubtful(d) and within(d.candidate[None, :], here)[0] for d in local_dropped)
+                 or any(within(p.point[None, :], here)[0] for p in local.near_singular)
+                 or any(not c.at_infinity and c.dimension > 0 for c in local.components))
+        if doubt:
+            locus.notes.append(f"Coordinates centred at {short_point(centring.point)} did not settle "
+                               f"{counted(len(settled), 'doubtful candidate')} there either.")
+            continue
+        kept = [c for c in locus.components if c.at_infinity or c.dimension > 0
+                or not within(c.points[:1], centring)[0]]
+        for component in local.components:
+            if component.at_infinity or component.dimension > 0 or not within(component.points[:1], here)[0]:
+                continue
+            points = component.points + centring.point[None, :]
+            kept.append(replace(component, points=points, real=_real_flags(system, points),
+                                notes=component.notes + ["Found in coordinates centred nearby (decision 0071)."]))
+        locus.components = sorted(kept, key=lambda c: (c.at_infinity, -c.dimension, -c.degree))
+        for k, component in enumerate(locus.components, 1):
+            component.id = k
+        for candidate in settled:
+            key = "merged_on_refinement" if candidate.merged else "smooth_with_vanishing_jacobian"
+            locus.discarded[key] -= 1
+            if locus.discarded[key] == 0:
+                del locus.discarded[key]
+            locus.discarded["settled_in_centred_coordinates"] = \
+                locus.discarded.get("settled_in_centred_coordinates", 0) + 1
+        locus.notes.append(f"{counted(len(settled), 'doubtful candidate')} near {short_point(centring.point)} "
+                           "judged again in coordinates centred there (features far smaller than their distance "
+                           "from the origin; decision 0071).")
+
+
+#: Counts of a centred run that leave doubt anywhere, so also in the region it was asked about.
+_GLOBAL_DOUBTS = ("not_settled_on_X", "tangent_dimension_mismatch")
 
 
 def _near_singular(system, scaling, dropped, discarded):
@@ -437,7 +529,7 @@ def _near_singular(system, scaling, dropped, discarded):
     if tolerance is None or not dropped:
         return []
     near, balanced = [], scaling.scale_system(system)  # measured in the balanced units (1: the numbers' size)
-    for candidate in dropped:
+    for candidate in (d for d in dropped if not d.merged):
         error, point = nearest_backward_error(balanced, [candidate.candidate, candidate.refined],
                                               candidate.codimension)
         point = normalize_projective(scaling.to_user(point)) if system.projective else scaling.to_user(point)
@@ -664,8 +756,14 @@ def _affine(system, options, rng, paths, discarded, progress, notes_out=None, ro
             if candidate.dimension == 0 and np.linalg.norm(verdict.point - point) <= _CANDIDATE_TOLERANCE * (
                     1 + np.linalg.norm(point)):
                 points = np.asarray(verdict.point, dtype=complex)[None, :]  # refined at higher precision
-                if _already(found, oracles, candidate, points[0]) is not None:  # two candidates, one point
-                    discarded["duplicate"] = discarded.get("duplicate", 0) + 1
+                if _already(found, oracles, candidate, points[0]) is not None:
+                    # Two candidates apart before refinement, one point after: a double endpoint the endgame left
+                    # in two pieces, or two features closer than the unit lets double precision see, one of them
+                    # lost (an ellipse of 2e-5 cut by a line far from the origin: both crossings refined to one).
+                    # Judged again in coordinates centred there (decision 0071); a warning if that cannot decide.
+                    discarded["merged_on_refinement"] = discarded.get("merged_on_refinement", 0) + 1
+                    if dropped is not None:
+                        dropped.append(_Dropped(point, points[0], verdict.codimension, None, merged=True))
                     continue
             found.append(SingularComponent(
                 id=0, dimension=candidate.dimension, degree=candidate.degree, points=points,
@@ -744,6 +842,8 @@ class _Dropped:
     smallest: float | None = None
     #: measured within the input's precision of a singular point (decision 0062)
     near_singular: bool = False
+    #: not judged smooth: refined onto a singular point found before (decision 0071)
+    merged: bool = False
 
 
 def _smallest_value(verdict):
@@ -765,7 +865,8 @@ def _vanishing_jacobians(dropped, discarded):
     """Move the dropped candidates whose Jacobian nearly vanishes from "smooth_on_check" to
     "smooth_with_vanishing_jacobian" (a completeness warning: singular points nearby may be missing)."""
     for candidate in dropped:
-        if candidate.near_singular or candidate.smallest is None or candidate.smallest >= _VANISHING_JACOBIAN:
+        if (candidate.merged or candidate.near_singular or candidate.smallest is None
+                or candidate.smallest >= _VANISHING_JACOBIAN):
             continue
         if discarded.get("smooth_on_check", 0) > 0:
             discarded["smooth_on_check"] -= 1
@@ -903,7 +1004,8 @@ def _projective_chart(system, options, rng, paths, discarded, notes, progress, r
     pieces, variety = _affine(affine, options, rng, paths, discarded, progress, notes, routes, in_chart)
     if dropped is not None:  # back to homogeneous coordinates, like the pieces
         dropped += [_Dropped(*(normalize_projective(np.concatenate([[1.0], p]) @ q.T)
-                               for p in (d.candidate, d.refined)), d.codimension, d.smallest) for d in in_chart]
+                               for p in (d.candidate, d.refined)), d.codimension, d.smallest, merged=d.merged)
+                    for d in in_chart]
     for piece in pieces:
         homogeneous = np.column_stack([np.ones(len(piece.points)), piece.points]) @ q.T
         piece.points = normalize_projective(homogeneous)
