@@ -440,19 +440,28 @@ def _in_user_units(system, options, seed, progress):
 
 def _doubtful(candidate):
     """Whether a dropped candidate left a completeness warning that a centred second look may settle."""
-    return candidate.merged or (not candidate.near_singular and candidate.smallest is not None
+    return candidate.merged or candidate.unresolved or (not candidate.near_singular and candidate.smallest is not None
                                 and candidate.smallest < _VANISHING_JACOBIAN)
 
 
 def _judged_centred(system, options, seed, progress, locus, dropped):
     """Settle doubtful candidates by solving again in coordinates centred at them (decision 0071), in place.
 
-    A candidate judged smooth where J nearly vanishes, or refined onto a point found before, is what features
-    far smaller than their distance from the origin look like: double precision cannot see them in the expanded
-    polynomial. Around each such candidate (``_CANDIDATE_TOLERANCE`` relative: the region a candidate speaks
-    for) the system is written exactly in y = x - s (:mod:`numag.singular.centred`) and its singular locus
+    A candidate judged smooth where J nearly vanishes, one refined onto a point found before, or a multiple
+    endpoint that refinement moved farther than two points are told apart is what features far smaller than
+    their distance from the origin look like: double precision cannot see them in the expanded polynomial.
+    Around each such candidate (``_CANDIDATE_TOLERANCE`` relative, and at least twice the way refinement moved
+    it) the system is written exactly in y = x - s (:mod:`numag.singular.centred`) and its singular locus
     computed; when that run is clean in the region, its isolated points there replace the first run's and the
-    warnings it settles are withdrawn. Otherwise the warnings stay (exit 3).
+    warnings it settles are withdrawn. Otherwise the warnings stay (exit 3); a multiple endpoint had none.
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> # two nodes 2e-3 apart at (1, 2): the first run's only candidate is the stationary point between them
+    >>> locus = singular_locus(parse_system(["(y - 2)^2 - ((x - 1)^2 - 1/1000000)^2"], ["x", "y"]), seed=1)
+    >>> sorted(round(c.points[0][0].real, 6) for c in locus.isolated())
+    [0.999, 1.001]
     """
     doubts = [candidate for candidate in dropped if _doubtful(candidate)]
     centrings, members = [], []
@@ -460,7 +469,10 @@ def _judged_centred(system, options, seed, progress, locus, dropped):
         point = np.asarray(candidate.candidate, dtype=complex)
         if not np.all(np.isfinite(point)):
             continue
-        radius = _CANDIDATE_TOLERANCE * (1 + float(np.linalg.norm(point)))
+        # the region a candidate speaks for, and at least twice the way refinement moved it (the points it may
+        # have stood for lie around where it was, up to there)
+        moved = float(np.linalg.norm(np.asarray(candidate.refined, dtype=complex) - point))
+        radius = max(_CANDIDATE_TOLERANCE * (1 + float(np.linalg.norm(point))), 2 * moved if np.isfinite(moved) else 0)
         if np.linalg.norm(point.imag) <= radius:  # a real centre keeps real equations real (conjugate pairs)
             point = point.real.astype(complex)
         home = next((k for k, c in enumerate(centrings) if within(point[None, :], c)[0]), None)
@@ -502,6 +514,8 @@ def _judged_centred(system, options, seed, progress, locus, dropped):
         for k, component in enumerate(locus.components, 1):
             component.id = k
         for candidate in settled:
+            if candidate.unresolved:  # kept, not counted: nothing to withdraw
+                continue
             key = "merged_on_refinement" if candidate.merged else "smooth_with_vanishing_jacobian"
             locus.discarded[key] -= 1
             if locus.discarded[key] == 0:
@@ -529,7 +543,7 @@ def _near_singular(system, scaling, dropped, discarded):
     if tolerance is None or not dropped:
         return []
     near, balanced = [], scaling.scale_system(system)  # measured in the balanced units (1: the numbers' size)
-    for candidate in (d for d in dropped if not d.merged):
+    for candidate in (d for d in dropped if not (d.merged or d.unresolved)):
         error, point = nearest_backward_error(balanced, [candidate.candidate, candidate.refined],
                                               candidate.codimension)
         point = normalize_projective(scaling.to_user(point)) if system.projective else scaling.to_user(point)
@@ -765,6 +779,12 @@ def _affine(system, options, rng, paths, discarded, progress, notes_out=None, ro
                     if dropped is not None:
                         dropped.append(_Dropped(point, points[0], verdict.codimension, None, merged=True))
                     continue
+            if (dropped is not None and candidate.dimension == 0 and (multiplicity or 1) > 1
+                    and np.linalg.norm(points[0] - point) > _DUPLICATE_RADIUS * (1 + np.linalg.norm(point))):
+                # Several paths ended together and refinement moved their endpoint farther than two points are
+                # told apart: the endgame may have taken a cluster of nearby singular points for one multiple
+                # point (a cusp with three crossings within 2e-3 at (7, 7)); a centred second look (decision 0071)
+                dropped.append(_Dropped(point, points[0], verdict.codimension, None, unresolved=True))
             found.append(SingularComponent(
                 id=0, dimension=candidate.dimension, degree=candidate.degree, points=points,
                 real=_real_flags(system, points), multiplicity=multiplicity, at_infinity=False, formulation=kind,
@@ -828,6 +848,8 @@ def _judge(system, point, options, seed, variety):
 
 #: How far (relative) a singular candidate may lie from the singular point it approximates.
 _CANDIDATE_TOLERANCE = 1e-3
+#: Isolated singular points closer than this (relative) are one point.
+_DUPLICATE_RADIUS = 1e-6
 
 
 @dataclass
@@ -844,6 +866,8 @@ class _Dropped:
     near_singular: bool = False
     #: not judged smooth: refined onto a singular point found before (decision 0071)
     merged: bool = False
+    #: not dropped: a multiple endpoint kept as a singular point after refinement moved it (decision 0071)
+    unresolved: bool = False
 
 
 def _smallest_value(verdict):
@@ -865,7 +889,7 @@ def _vanishing_jacobians(dropped, discarded):
     """Move the dropped candidates whose Jacobian nearly vanishes from "smooth_on_check" to
     "smooth_with_vanishing_jacobian" (a completeness warning: singular points nearby may be missing)."""
     for candidate in dropped:
-        if (candidate.merged or candidate.near_singular or candidate.smallest is None
+        if (candidate.merged or candidate.unresolved or candidate.near_singular or candidate.smallest is None
                 or candidate.smallest >= _VANISHING_JACOBIAN):
             continue
         if discarded.get("smooth_on_check", 0) > 0:
@@ -892,7 +916,7 @@ def _already(found, oracles, candidate, point):
     """
     for piece, contains in zip(found, oracles):
         if piece.dimension == 0:
-            if candidate.dimension == 0 and np.linalg.norm(piece.points[0] - point) <= 1e-6 * (
+            if candidate.dimension == 0 and np.linalg.norm(piece.points[0] - point) <= _DUPLICATE_RADIUS * (
                     1 + np.linalg.norm(point)):
                 return "duplicate"
         elif piece.dimension >= candidate.dimension and contains is not None and contains(point):
@@ -1004,7 +1028,8 @@ def _projective_chart(system, options, rng, paths, discarded, notes, progress, r
     pieces, variety = _affine(affine, options, rng, paths, discarded, progress, notes, routes, in_chart)
     if dropped is not None:  # back to homogeneous coordinates, like the pieces
         dropped += [_Dropped(*(normalize_projective(np.concatenate([[1.0], p]) @ q.T)
-                               for p in (d.candidate, d.refined)), d.codimension, d.smallest, merged=d.merged)
+                               for p in (d.candidate, d.refined)), d.codimension, d.smallest, merged=d.merged,
+                             unresolved=d.unresolved)
                     for d in in_chart]
     for piece in pieces:
         homogeneous = np.column_stack([np.ones(len(piece.points)), piece.points]) @ q.T
