@@ -439,9 +439,9 @@ def _in_user_units(system, options, seed, progress):
 
 
 def _doubtful(candidate):
-    """Whether a dropped candidate left a completeness warning that a centred second look may settle."""
-    return candidate.merged or candidate.unresolved or (not candidate.near_singular and candidate.smallest is not None
-                                and candidate.smallest < _VANISHING_JACOBIAN)
+    """Whether a dropped isolated candidate left a doubt that a centred second look may settle."""
+    return candidate.dimension == 0 and (candidate.merged or candidate.unresolved or (
+        candidate.smallest is not None and candidate.smallest < _VANISHING_JACOBIAN))
 
 
 def _judged_centred(system, options, seed, progress, locus, dropped):
@@ -513,8 +513,12 @@ def _judged_centred(system, options, seed, progress, locus, dropped):
         locus.components = sorted(kept, key=lambda c: (c.at_infinity, -c.dimension, -c.degree))
         for k, component in enumerate(locus.components, 1):
             component.id = k
+        inside = [c for c in locus.components if not c.at_infinity and c.dimension == 0
+                  and within(c.points[:1], centring)[0]]
+        if inside:  # singular as written: a near-singular report there (smooth as written) is withdrawn
+            locus.near_singular = [p for p in locus.near_singular if not within(p.point[None, :], centring)[0]]
         for candidate in settled:
-            if candidate.unresolved:  # kept, not counted: nothing to withdraw
+            if candidate.unresolved or candidate.near_singular:  # kept, or a near-singular report: not counted
                 continue
             key = "merged_on_refinement" if candidate.merged else "smooth_with_vanishing_jacobian"
             locus.discarded[key] -= 1
@@ -543,7 +547,7 @@ def _near_singular(system, scaling, dropped, discarded):
     if tolerance is None or not dropped:
         return []
     near, balanced = [], scaling.scale_system(system)  # measured in the balanced units (1: the numbers' size)
-    for candidate in (d for d in dropped if not (d.merged or d.unresolved)):
+    for candidate in (d for d in dropped if not (d.merged or d.unresolved or d.dimension)):
         error, point = nearest_backward_error(balanced, [candidate.candidate, candidate.refined],
                                               candidate.codimension)
         point = normalize_projective(scaling.to_user(point)) if system.projective else scaling.to_user(point)
@@ -753,9 +757,10 @@ def _affine(system, options, rng, paths, discarded, progress, notes_out=None, ro
                 continue
             if verdict.verdict is Verdict.SMOOTH:
                 discarded["smooth_on_check"] = discarded.get("smooth_on_check", 0) + 1
-                if dropped is not None and candidate.dimension == 0 and verdict.codimension is not None:
+                if dropped is not None and verdict.codimension is not None:
+                    # a candidate curve too: two circles of radius 7e-5 at (100, -50) look like two double lines
                     dropped.append(_Dropped(point, np.asarray(verdict.point, dtype=complex), verdict.codimension,
-                                            _smallest_value(verdict)))
+                                            _smallest_value(verdict), dimension=candidate.dimension))
                 continue
             through = [c["id"] for c in verdict.components]
             piece_kind = PieceKind.of_verdict(verdict.verdict)
@@ -868,6 +873,8 @@ class _Dropped:
     merged: bool = False
     #: not dropped: a multiple endpoint kept as a singular point after refinement moved it (decision 0071)
     unresolved: bool = False
+    #: of the candidate set (0: a point; a candidate curve's witness point otherwise)
+    dimension: int = 0
 
 
 def _smallest_value(verdict):
@@ -1029,7 +1036,7 @@ def _projective_chart(system, options, rng, paths, discarded, notes, progress, r
     if dropped is not None:  # back to homogeneous coordinates, like the pieces
         dropped += [_Dropped(*(normalize_projective(np.concatenate([[1.0], p]) @ q.T)
                                for p in (d.candidate, d.refined)), d.codimension, d.smallest, merged=d.merged,
-                             unresolved=d.unresolved)
+                             unresolved=d.unresolved, dimension=d.dimension)
                     for d in in_chart]
     for piece in pieces:
         homogeneous = np.column_stack([np.ones(len(piece.points)), piece.points]) @ q.T
