@@ -493,8 +493,13 @@ def _judged_centred(system, options, seed, progress, locus, dropped):
         add_path_counts(locus.paths, {key: value for key, value in local.paths.items()
                                       if key not in ("degree_check_failed",)})
         here = replace(centring, point=np.zeros_like(centring.point))  # the region in the centred coordinates
+        # a candidate the centred run could not settle counts where it was (twice the region: it may have drifted)
+        near = replace(here, radius=2 * here.radius)
         doubt = (sum(local.paths.get(label, 0) for label in FAILURE_LABELS)
                  or any(local.discarded.get(key, 0) for key in _GLOBAL_DOUBTS)
+                 or any(d.unsettled and not (np.all(np.isfinite(d.candidate)) and not within(d.candidate[None, :],
+                                                                                             near)[0])
+                        for d in local_dropped)
                  or any(_doubtful(d) and within(d.candidate[None, :], here)[0] for d in local_dropped)
                  or any(within(p.point[None, :], here)[0] for p in local.near_singular)
                  or any(not c.at_infinity and c.dimension > 0 for c in local.components))
@@ -532,7 +537,7 @@ def _judged_centred(system, options, seed, progress, locus, dropped):
 
 
 #: Counts of a centred run that leave doubt anywhere, so also in the region it was asked about.
-_GLOBAL_DOUBTS = ("not_settled_on_X", "tangent_dimension_mismatch")
+_GLOBAL_DOUBTS = ("tangent_dimension_mismatch",)
 
 
 def _near_singular(system, scaling, dropped, discarded):
@@ -547,7 +552,7 @@ def _near_singular(system, scaling, dropped, discarded):
     if tolerance is None or not dropped:
         return []
     near, balanced = [], scaling.scale_system(system)  # measured in the balanced units (1: the numbers' size)
-    for candidate in (d for d in dropped if not (d.merged or d.unresolved or d.dimension)):
+    for candidate in (d for d in dropped if d.judged_smooth):
         error, point = nearest_backward_error(balanced, [candidate.candidate, candidate.refined],
                                               candidate.codimension)
         point = normalize_projective(scaling.to_user(point)) if system.projective else scaling.to_user(point)
@@ -751,6 +756,9 @@ def _affine(system, options, rng, paths, discarded, progress, notes_out=None, ro
                 continue
             if verdict is None:  # Newton cannot settle the point (a singular curve can make it drift)
                 discarded["not_settled_on_X"] = discarded.get("not_settled_on_X", 0) + 1
+                if dropped is not None:  # where: a centred look asks whether it lies in its region
+                    dropped.append(_Dropped(point, point, codimension, None, unsettled=True,
+                                            dimension=candidate.dimension))
                 continue
             if verdict.verdict is Verdict.OFF:  # refinement ends at a stationary point of |F|: no point of X is near
                 discarded["not_on_X"] = discarded.get("not_on_X", 0) + 1
@@ -875,6 +883,13 @@ class _Dropped:
     unresolved: bool = False
     #: of the candidate set (0: a point; a candidate curve's witness point otherwise)
     dimension: int = 0
+    #: not judged: Newton could not settle it on X (counted ``not_settled_on_X``)
+    unsettled: bool = False
+
+    @property
+    def judged_smooth(self):
+        """An isolated candidate the check called smooth (the ones whose backward errors are measured)."""
+        return self.dimension == 0 and not (self.merged or self.unresolved or self.unsettled)
 
 
 def _smallest_value(verdict):
@@ -896,7 +911,7 @@ def _vanishing_jacobians(dropped, discarded):
     """Move the dropped candidates whose Jacobian nearly vanishes from "smooth_on_check" to
     "smooth_with_vanishing_jacobian" (a completeness warning: singular points nearby may be missing)."""
     for candidate in dropped:
-        if (candidate.merged or candidate.unresolved or candidate.near_singular or candidate.smallest is None
+        if (candidate.merged or candidate.unresolved or candidate.unsettled or candidate.near_singular or candidate.smallest is None
                 or candidate.smallest >= _VANISHING_JACOBIAN):
             continue
         if discarded.get("smooth_on_check", 0) > 0:
@@ -1036,7 +1051,7 @@ def _projective_chart(system, options, rng, paths, discarded, notes, progress, r
     if dropped is not None:  # back to homogeneous coordinates, like the pieces
         dropped += [_Dropped(*(normalize_projective(np.concatenate([[1.0], p]) @ q.T)
                                for p in (d.candidate, d.refined)), d.codimension, d.smallest, merged=d.merged,
-                             unresolved=d.unresolved, dimension=d.dimension)
+                             unresolved=d.unresolved, dimension=d.dimension, unsettled=d.unsettled)
                     for d in in_chart]
     for piece in pieces:
         homogeneous = np.column_stack([np.ones(len(piece.points)), piece.points]) @ q.T
