@@ -911,8 +911,8 @@ def _vanishing_jacobians(dropped, discarded):
     """Move the dropped candidates whose Jacobian nearly vanishes from "smooth_on_check" to
     "smooth_with_vanishing_jacobian" (a completeness warning: singular points nearby may be missing)."""
     for candidate in dropped:
-        if (candidate.merged or candidate.unresolved or candidate.unsettled or candidate.near_singular or candidate.smallest is None
-                or candidate.smallest >= _VANISHING_JACOBIAN):
+        if (candidate.merged or candidate.unresolved or candidate.unsettled or candidate.near_singular
+                or candidate.smallest is None or candidate.smallest >= _VANISHING_JACOBIAN):
             continue
         if discarded.get("smooth_on_check", 0) > 0:
             discarded["smooth_on_check"] -= 1

@@ -435,7 +435,8 @@ class Polynomial:
         'u^2 - v^2'
         """
         exact_offset = offset is None or np.asarray(offset).dtype.kind in "iu" or all(
-            isinstance(value, (int, Fraction, ExactCoefficient)) for value in np.ravel(np.asarray(offset, dtype=object)))
+            isinstance(value, (int, Fraction, ExactCoefficient))
+            for value in np.ravel(np.asarray(offset, dtype=object)))
         exact = self.is_exact and np.asarray(matrix).dtype.kind in "iu" and exact_offset
         matrix = np.asarray(matrix, dtype=np.int64 if exact else complex)
         if matrix.ndim != 2 or matrix.shape[0] != self.n_variables:
