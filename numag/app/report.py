@@ -213,6 +213,12 @@ def completeness_warnings(data):
                         "vanishes relative to its terms (below 1e-8): features there may be far smaller than the "
                         "coordinates' unit and singular points nearby may be missing; move the origin near them "
                         "and rescale the coordinates to decide.")
+    merged = int((data.get("discarded") or {}).get("merged_on_refinement", 0)) if isinstance(
+        data.get("discarded"), dict) else 0
+    if merged:  # two candidates refined onto one point, not settled in centred coordinates (decision 0071)
+        warnings.append(f"{counted(merged, 'singular candidate')} refined onto a singular point found from another "
+                        "candidate, and coordinates centred there did not settle it: a singular point nearby may be "
+                        "missing; move the origin near it and rescale the coordinates to decide.")
     mismatched = int((data.get("discarded") or {}).get("tangent_dimension_mismatch", 0)) if isinstance(
         data.get("discarded"), dict) else 0
     if mismatched:  # the rank-drop system's decomposition disagrees with itself: its pieces cannot be trusted

@@ -63,6 +63,7 @@ from ..witness.decompose import (EXPANSION_MONOMIALS, DecomposeOptions, Decompos
                                  expansion_bound, holding_rows)
 from .isolated import finite_singular_points, null_vector_groups, null_vector_system, square_route_paths
 from .kinds import CandidateSystem, Formulation, PieceKind, Verdict
+from .centred import centre_near, centred_system, within
 from .nearness import NearSingularPoint, input_tolerance, nearest_backward_error
 from .smoothness import CheckOptions, check_points
 
@@ -418,6 +419,14 @@ def singular_locus(system, options=None, seed=None, progress=None):
     options = (options or SingularOptions()).validated(system)
     require_numeric(system)
     seed = resolved_seed(seed)
+    locus, dropped = _in_user_units(system, options, seed, progress)
+    if not system.projective:
+        _judged_centred(system, options, seed, progress, locus, dropped)
+    return locus
+
+
+def _in_user_units(system, options, seed, progress):
+    """:func:`singular_locus` without the centred second look: (locus, dropped candidates in the user's units)."""
     scaling = Scaling.balancing(system)
     locus, dropped = _singular_locus(scaling.scale_system(system), options, seed, progress)
     for component in locus.components:
@@ -432,7 +441,113 @@ def singular_locus(system, options=None, seed=None, progress=None):
     locus.system, locus.scaling = system, scaling
     locus.near_singular = _near_singular(system, scaling, dropped, locus.discarded)
     _vanishing_jacobians(dropped, locus.discarded)
-    return locus
+    if not system.projective:
+        for candidate in dropped:
+            candidate.candidate, candidate.refined = scaling.to_user(np.array([candidate.candidate,
+                                                                                candidate.refined]))
+    return locus, dropped
+
+
+def _doubtful(candidate):
+    """Whether a dropped isolated candidate left a doubt that a centred second look may settle."""
+    return candidate.dimension == 0 and (candidate.merged or candidate.unresolved or (
+        candidate.smallest is not None and candidate.smallest < _VANISHING_JACOBIAN))
+
+
+def _judged_centred(system, options, seed, progress, locus, dropped):
+    """Settle doubtful candidates by solving again in coordinates centred at them (decision 0071), in place.
+
+    A candidate judged smooth where J nearly vanishes, one refined onto a point found before, or a multiple
+    endpoint that refinement moved farther than two points are told apart is what features far smaller than
+    their distance from the origin look like: double precision cannot see them in the expanded polynomial.
+    Around each such candidate (``_CANDIDATE_TOLERANCE`` relative, and at least twice the way refinement moved
+    it) the system is written exactly in y = x - s (:mod:`numag.singular.centred`) and its singular locus
+    computed; when that run is clean in the region, its isolated points there replace the first run's and the
+    warnings it settles are withdrawn. Otherwise the warnings stay (exit 3); a multiple endpoint had none.
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> # two nodes 2e-3 apart at (1, 2): the first run's only candidate is the stationary point between them
+    >>> locus = singular_locus(parse_system(["(y - 2)^2 - ((x - 1)^2 - 1/1000000)^2"], ["x", "y"]), seed=1)
+    >>> sorted(float(round(c.points[0][0].real, 6)) for c in locus.isolated() if not c.at_infinity)
+    [0.999, 1.001]
+    """
+    doubts = [candidate for candidate in dropped if _doubtful(candidate)]
+    centrings, members = [], []
+    for candidate in doubts:
+        point = np.asarray(candidate.candidate, dtype=complex)
+        if not np.all(np.isfinite(point)):
+            continue
+        # the region a candidate speaks for, and at least twice the way refinement moved it (the points it may
+        # have stood for lie around where it was, up to there)
+        moved = float(np.linalg.norm(np.asarray(candidate.refined, dtype=complex) - point))
+        radius = max(_CANDIDATE_TOLERANCE * (1 + float(np.linalg.norm(point))), 2 * moved if np.isfinite(moved) else 0)
+        if np.linalg.norm(point.imag) <= radius:  # a real centre keeps real equations real (conjugate pairs)
+            point = point.real.astype(complex)
+        home = next((k for k, c in enumerate(centrings) if within(point[None, :], c)[0]), None)
+        if home is None:
+            centrings.append(centre_near(point, radius))
+            members.append([])
+            home = len(centrings) - 1
+        members[home].append(candidate)
+    for centring, settled in zip(centrings, members):
+        if progress is not None:
+            progress(f"judging {counted(len(settled), 'doubtful candidate')} again in coordinates centred at "
+                     f"{short_point(centring.point)}")
+        try:
+            local, local_dropped = _in_user_units(centred_system(system, centring), options, seed, None)
+        except LimitError as err:  # the centred polynomial is too large to write: the warnings stay
+            locus.notes.append(f"Centred coordinates at {short_point(centring.point)} not tried ({err}).")
+            continue
+        add_path_counts(locus.paths, {key: value for key, value in local.paths.items()
+                                      if key not in ("degree_check_failed",)})
+        here = replace(centring, point=np.zeros_like(centring.point))  # the region in the centred coordinates
+        # a candidate the centred run could not settle counts where it was (twice the region: it may have drifted)
+        near = replace(here, radius=2 * here.radius)
+        doubt = (sum(local.paths.get(label, 0) for label in FAILURE_LABELS)
+                 or any(local.discarded.get(key, 0) for key in _GLOBAL_DOUBTS)
+                 or any(d.unsettled and not (np.all(np.isfinite(d.candidate)) and not within(d.candidate[None, :],
+                                                                                             near)[0])
+                        for d in local_dropped)
+                 or any(_doubtful(d) and within(d.candidate[None, :], here)[0] for d in local_dropped)
+                 or any(within(p.point[None, :], here)[0] for p in local.near_singular)
+                 or any(not c.at_infinity and c.dimension > 0 for c in local.components))
+        if doubt:
+            locus.notes.append(f"Coordinates centred at {short_point(centring.point)} did not settle "
+                               f"{counted(len(settled), 'doubtful candidate')} there either.")
+            continue
+        kept = [c for c in locus.components if c.at_infinity or c.dimension > 0
+                or not within(c.points[:1], centring)[0]]
+        for component in local.components:
+            if component.at_infinity or component.dimension > 0 or not within(component.points[:1], here)[0]:
+                continue
+            points = component.points + centring.point[None, :]
+            kept.append(replace(component, points=points, real=_real_flags(system, points),
+                                notes=component.notes + ["Found in coordinates centred nearby (decision 0071)."]))
+        locus.components = sorted(kept, key=lambda c: (c.at_infinity, -c.dimension, -c.degree))
+        for k, component in enumerate(locus.components, 1):
+            component.id = k
+        inside = [c for c in locus.components if not c.at_infinity and c.dimension == 0
+                  and within(c.points[:1], centring)[0]]
+        if inside:  # singular as written: a near-singular report there (smooth as written) is withdrawn
+            locus.near_singular = [p for p in locus.near_singular if not within(p.point[None, :], centring)[0]]
+        for candidate in settled:
+            if candidate.unresolved or candidate.near_singular:  # kept, or a near-singular report: not counted
+                continue
+            key = "merged_on_refinement" if candidate.merged else "smooth_with_vanishing_jacobian"
+            locus.discarded[key] -= 1
+            if locus.discarded[key] == 0:
+                del locus.discarded[key]
+            locus.discarded["settled_in_centred_coordinates"] = \
+                locus.discarded.get("settled_in_centred_coordinates", 0) + 1
+        locus.notes.append(f"{counted(len(settled), 'doubtful candidate')} near {short_point(centring.point)} "
+                           "judged again in coordinates centred there (features far smaller than their distance "
+                           "from the origin; decision 0071).")
+
+
+#: Counts of a centred run that leave doubt anywhere, so also in the region it was asked about.
+_GLOBAL_DOUBTS = ("tangent_dimension_mismatch",)
 
 
 def _near_singular(system, scaling, dropped, discarded):
@@ -447,7 +562,7 @@ def _near_singular(system, scaling, dropped, discarded):
     if tolerance is None or not dropped:
         return []
     near, balanced = [], scaling.scale_system(system)  # measured in the balanced units (1: the numbers' size)
-    for candidate in dropped:
+    for candidate in (d for d in dropped if d.judged_smooth):
         error, point = nearest_backward_error(balanced, [candidate.candidate, candidate.refined],
                                               candidate.codimension)
         point = normalize_projective(scaling.to_user(point)) if system.projective else scaling.to_user(point)
@@ -679,15 +794,19 @@ def _affine(system, options, rng, paths, discarded, progress, notes_out=None, ro
                 continue
             if verdict is None:  # Newton cannot settle the point (a singular curve can make it drift)
                 discarded["not_settled_on_X"] = discarded.get("not_settled_on_X", 0) + 1
+                if dropped is not None:  # where: a centred look asks whether it lies in its region
+                    dropped.append(_Dropped(point, point, codimension, None, unsettled=True,
+                                            dimension=candidate.dimension))
                 continue
             if verdict.verdict is Verdict.OFF:  # refinement ends at a stationary point of |F|: no point of X is near
                 discarded["not_on_X"] = discarded.get("not_on_X", 0) + 1
                 continue
             if verdict.verdict is Verdict.SMOOTH:
                 discarded["smooth_on_check"] = discarded.get("smooth_on_check", 0) + 1
-                if dropped is not None and candidate.dimension == 0 and verdict.codimension is not None:
+                if dropped is not None and verdict.codimension is not None:
+                    # a candidate curve too: two circles of radius 7e-5 at (100, -50) look like two double lines
                     dropped.append(_Dropped(point, np.asarray(verdict.point, dtype=complex), verdict.codimension,
-                                            _smallest_value(verdict)))
+                                            _smallest_value(verdict), dimension=candidate.dimension))
                 continue
             through = [c["id"] for c in verdict.components]
             piece_kind = PieceKind.of_verdict(verdict.verdict)
@@ -702,9 +821,21 @@ def _affine(system, options, rng, paths, discarded, progress, notes_out=None, ro
             if candidate.dimension == 0 and np.linalg.norm(verdict.point - point) <= _CANDIDATE_TOLERANCE * (
                     1 + np.linalg.norm(point)):
                 points = np.asarray(verdict.point, dtype=complex)[None, :]  # refined at higher precision
-                if _already(found, oracles, candidate, points[0]) is not None:  # two candidates, one point
-                    discarded["duplicate"] = discarded.get("duplicate", 0) + 1
+                if _already(found, oracles, candidate, points[0]) is not None:
+                    # Two candidates apart before refinement, one point after: a double endpoint the endgame left
+                    # in two pieces, or two features closer than the unit lets double precision see, one of them
+                    # lost (an ellipse of 2e-5 cut by a line far from the origin: both crossings refined to one).
+                    # Judged again in coordinates centred there (decision 0071); a warning if that cannot decide.
+                    discarded["merged_on_refinement"] = discarded.get("merged_on_refinement", 0) + 1
+                    if dropped is not None:
+                        dropped.append(_Dropped(point, points[0], verdict.codimension, None, merged=True))
                     continue
+            if (dropped is not None and candidate.dimension == 0 and (multiplicity or 1) > 1
+                    and np.linalg.norm(points[0] - point) > _DUPLICATE_RADIUS * (1 + np.linalg.norm(point))):
+                # Several paths ended together and refinement moved their endpoint farther than two points are
+                # told apart: the endgame may have taken a cluster of nearby singular points for one multiple
+                # point (a cusp with three crossings within 2e-3 at (7, 7)); a centred second look (decision 0071)
+                dropped.append(_Dropped(point, points[0], verdict.codimension, None, unresolved=True))
             found.append(SingularComponent(
                 id=0, dimension=candidate.dimension, degree=candidate.degree, points=points,
                 real=_real_flags(system, points), multiplicity=multiplicity, at_infinity=False, formulation=kind,
@@ -771,6 +902,8 @@ _CANDIDATE_TOLERANCE = 1e-3
 #: The check's point tolerance for candidates first (relative): computed points, whose accuracy the endgame sets,
 #: not their digits (decision 0072 judges user data by its digits; candidates keep the check's former default).
 _POINT_TOLERANCE = 1e-6
+#: Isolated singular points closer than this (relative) are one point.
+_DUPLICATE_RADIUS = 1e-6
 
 
 @dataclass
@@ -785,6 +918,19 @@ class _Dropped:
     smallest: float | None = None
     #: measured within the input's precision of a singular point (decision 0062)
     near_singular: bool = False
+    #: not judged smooth: refined onto a singular point found before (decision 0071)
+    merged: bool = False
+    #: not dropped: a multiple endpoint kept as a singular point after refinement moved it (decision 0071)
+    unresolved: bool = False
+    #: of the candidate set (0: a point; a candidate curve's witness point otherwise)
+    dimension: int = 0
+    #: not judged: Newton could not settle it on X (counted ``not_settled_on_X``)
+    unsettled: bool = False
+
+    @property
+    def judged_smooth(self):
+        """An isolated candidate the check called smooth (the ones whose backward errors are measured)."""
+        return self.dimension == 0 and not (self.merged or self.unresolved or self.unsettled)
 
 
 def _smallest_value(verdict):
@@ -806,7 +952,8 @@ def _vanishing_jacobians(dropped, discarded):
     """Move the dropped candidates whose Jacobian nearly vanishes from "smooth_on_check" to
     "smooth_with_vanishing_jacobian" (a completeness warning: singular points nearby may be missing)."""
     for candidate in dropped:
-        if candidate.near_singular or candidate.smallest is None or candidate.smallest >= _VANISHING_JACOBIAN:
+        if (candidate.merged or candidate.unresolved or candidate.unsettled or candidate.near_singular
+                or candidate.smallest is None or candidate.smallest >= _VANISHING_JACOBIAN):
             continue
         if discarded.get("smooth_on_check", 0) > 0:
             discarded["smooth_on_check"] -= 1
@@ -832,7 +979,7 @@ def _already(found, oracles, candidate, point):
     """
     for piece, contains in zip(found, oracles):
         if piece.dimension == 0:
-            if candidate.dimension == 0 and np.linalg.norm(piece.points[0] - point) <= 1e-6 * (
+            if candidate.dimension == 0 and np.linalg.norm(piece.points[0] - point) <= _DUPLICATE_RADIUS * (
                     1 + np.linalg.norm(point)):
                 return "duplicate"
         elif piece.dimension >= candidate.dimension and contains is not None and contains(point):
@@ -945,7 +1092,9 @@ def _projective_chart(system, options, rng, paths, discarded, notes, progress, r
     pieces, variety = _affine(affine, options, rng, paths, discarded, progress, notes, routes, in_chart)
     if dropped is not None:  # back to homogeneous coordinates, like the pieces
         dropped += [_Dropped(*(normalize_projective(np.concatenate([[1.0], p]) @ q.T)
-                               for p in (d.candidate, d.refined)), d.codimension, d.smallest) for d in in_chart]
+                               for p in (d.candidate, d.refined)), d.codimension, d.smallest, merged=d.merged,
+                             unresolved=d.unresolved, dimension=d.dimension, unsettled=d.unsettled)
+                    for d in in_chart]
     for piece in pieces:
         homogeneous = np.column_stack([np.ones(len(piece.points)), piece.points]) @ q.T
         piece.points = normalize_projective(homogeneous)

@@ -424,8 +424,9 @@ class Polynomial:
         Returns
         -------
         Polynomial
-            In ``k`` variables: exact when the polynomial is exact and ``matrix`` and ``offset``
-            are integers, otherwise with complex coefficients.
+            In ``k`` variables: exact when the polynomial is exact, ``matrix`` holds integers and ``offset``
+            integers, fractions or exact numbers (a centring shift, decision 0071), otherwise with complex
+            coefficients.
 
         Examples
         --------
@@ -433,17 +434,20 @@ class Polynomial:
         >>> (x * y).substitute_linear(np.array([[1, 1], [1, -1]])).to_text(["u", "v"])
         'u^2 - v^2'
         """
-        integral = np.asarray(matrix).dtype.kind in "iu" and (offset is None or np.asarray(offset).dtype.kind in "iu")
-        exact = self.is_exact and integral
+        exact_offset = offset is None or np.asarray(offset).dtype.kind in "iu" or all(
+            isinstance(value, (int, Fraction, ExactCoefficient))
+            for value in np.ravel(np.asarray(offset, dtype=object)))
+        exact = self.is_exact and np.asarray(matrix).dtype.kind in "iu" and exact_offset
         matrix = np.asarray(matrix, dtype=np.int64 if exact else complex)
         if matrix.ndim != 2 or matrix.shape[0] != self.n_variables:
             raise InputError(f"matrix must have shape ({self.n_variables}, k), got {matrix.shape}")
         k = matrix.shape[1]
         if exact:  # integer weights keep exact coefficients exact (a singular point stays exactly singular)
-            offset = np.zeros(self.n_variables, dtype=np.int64) if offset is None else np.asarray(offset, np.int64)
+            offset = [0] * self.n_variables if offset is None else [
+                value if isinstance(value, (Fraction, ExactCoefficient)) else int(value) for value in offset]
             forms = []
             for j in range(self.n_variables):
-                form = Polynomial.constant(int(offset[j]), k)
+                form = Polynomial.constant(offset[j], k)
                 for col in np.nonzero(matrix[j])[0]:
                     form = form + Polynomial.variable(int(col), k) * int(matrix[j, col])
                 forms.append(form)

@@ -49,7 +49,7 @@ from ..tracking.homotopy import ParameterHomotopy, random_unit_complex
 from ..tracking.multihomogeneous import GroupSource
 from ..tracking.service import PathCounts, TrackRun, track
 from ..tracking.starts import StartKind, choose_witness_start
-from ..tracking.tracker import TrackerOptions, rescue_budget
+from ..tracking.tracker import FAILURE_LABELS, PathStatus, TrackerOptions, rescue_budget
 
 __all__ = ["WitnessOptions", "WitnessSet", "WitnessSupersets", "witness_supersets", "Slicing", "track_moves",
            "membership", "held_parts", "combine_equations", "random_rows", "linear_form", "jacobian_rank"]
@@ -524,7 +524,7 @@ def _witness_supersets(system, options, seed, progress):
             regenerate = points[~on]
             if codim >= deepest or len(regenerate) == 0:
                 continue
-            candidates, lost, moved = _regenerate(slicing, before, index, codim, regenerate, options)
+            candidates, lost, moved, status = _regenerate(slicing, before, index, codim, regenerate, options)
             counts["product_paths"] = counts.get("product_paths", 0) + len(candidates)  # what a start's groups save
             counts["at_infinity_or_failed"] += lost
             track_counts += moved
@@ -536,7 +536,20 @@ def _witness_supersets(system, options, seed, progress):
             # point of the residual can pass it (decision 0064): Newton on the equations and the slice decides.
             candidates, good = _settle_on(system, used, slicing.slice_rows(codim + 1), candidates, residual,
                                           options, counts, "refined_to_keep")
-            counts["not_on_X"] += int(np.sum(~good & np.all(np.isfinite(candidates), axis=1)))
+            finite = np.all(np.isfinite(candidates), axis=1)
+            # A path the endgame called settled on the target, ending where the target is far from zero (no bound
+            # of any unit keeps it, no refinement reaches V(f_used)), did not settle: its limit is unknown and what
+            # it led to may be lost (two nodes 1e-3 apart at (3, 9): four paths averaged two nodes with two paths
+            # to infinity). Counted as failed (decision 0071), not as an endpoint off X.
+            off_target = finite & ~good & ~(residual <= _DOUBTFUL_RESIDUAL) & np.isin(
+                status, [PathStatus.CONVERGED, PathStatus.SINGULAR_ENDPOINT])
+            if np.any(off_target):
+                track_counts += PathCounts(
+                    converged=-int(np.sum(off_target & (status == PathStatus.CONVERGED))),
+                    singular_endpoint=-int(np.sum(off_target & (status == PathStatus.SINGULAR_ENDPOINT))),
+                    failed_by_reason={label: int(np.sum(off_target)) if label == PathStatus.FAILED_ENDGAME.label
+                                      else 0 for label in FAILURE_LABELS})
+            counts["not_on_X"] += int(np.sum(~good & finite & ~off_target))
             counts["at_infinity_or_failed"] += int(np.sum(~np.all(np.isfinite(candidates), axis=1)))
             candidates = candidates[good]
             if len(candidates) == 0:
@@ -630,11 +643,12 @@ def _regenerate(slicing, before, index, codim, points, options, deflate=True):
     if deflate and before and not evaluated and not any(slicing.evaluated(k) for k in before):
         deflated, deficient = _deflated_rows(slicing, before, codim, points, options.rank_threshold)
         if deflated is not None:  # points on a component along which the held rows lose rank (decision 0066)
-            ends, lost, paths = _regenerate_on(slicing, deflated, index, codim, points[deficient], options)
+            ends, lost, paths, status = _regenerate_on(slicing, deflated, index, codim, points[deficient], options)
             if np.all(deficient):
-                return ends, lost, paths
+                return ends, lost, paths, status
             regular = _regenerate(slicing, before, index, codim, points[~deficient], options, deflate=False)
-            return np.vstack([regular[0], ends]), regular[1] + lost, regular[2] + paths
+            return (np.vstack([regular[0], ends]), regular[1] + lost, regular[2] + paths,
+                    np.concatenate([regular[3], status]))
     held, with_f = slicing.held_rows(before, codim, moving=index if evaluated else None) if before or evaluated \
         else ([], None)
     held, block = held_parts(held)
@@ -666,7 +680,7 @@ def _regenerate(slicing, before, index, codim, points, options, deflate=True):
         run = track_moves(held + [product] + rest, held + [f] + rest, starts, slicing.rng, options.tracker,
                           options.batch_size, whole_cycles=True, held=block)
     # a point reached only by a broken cycle is still a point of V(held, f): kept (its paths counted as jumped)
-    return run.affine_endpoints(jumped_limits=True), lost, paths + run.counts
+    return run.affine_endpoints(jumped_limits=True), lost, paths + run.counts, run.status
 
 
 #: Deflation minors of the regeneration are written out only while they can have at most this many monomials
@@ -752,7 +766,7 @@ def _regenerate_on(slicing, held, index, codim, points, options):
     # a subset of the start solutions (those on the deflated component): its cycles at infinity may be partial
     run = track_moves(held + [product] + rest, held + [slicing.homogeneous[index]] + rest, starts, slicing.rng,
                       options.tracker, options.batch_size)
-    return run.affine_endpoints(), lost, paths + run.counts
+    return run.affine_endpoints(), lost, paths + run.counts, run.status
 
 
 def _not_junk(slicing, used, evaluator, sizes, codim, points, found, options):

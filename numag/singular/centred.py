@@ -1,0 +1,115 @@
+"""Singular features far smaller than their distance from the origin, judged again in centred coordinates.
+
+Term sizes and the balancing (decisions 0002, 0003) take rho_j = max(|x_j|, 1): the unit a decision sees is
+set by where a feature sits, not by its size. Two nodes 1e-4 apart at (100, -50) are, in the expanded
+polynomial, a cancellation of terms of size 100^d down to values of size 1e-8 and less: double precision
+cannot see them there, whatever the scale (decision 0071). The same curve written in coordinates centred at
+the features, y = x - s with s an exact rational near them, has coefficients of the features' own sizes, and
+the balancing then sees them as it sees features at the origin.
+
+This module writes that centred system exactly (double coefficients are dyadic rationals, so they are
+translated exactly too) and says which points a region around the centre holds. The caller
+(:func:`numag.singular.locus.singular_locus`) decides where to centre and merges the results.
+
+Examples
+--------
+>>> from numag.system.parse import parse_system
+>>> system = parse_system(["(y - 2)^2 - ((x - 1)^2 - 1/1000000)^2"], ["x", "y"])
+>>> centred_system(system, centre_near(np.array([1.0, 2.0]), 1e-2)).to_texts()  # the nodes at (+-1/1000, 0)
+['-x^4 + 1/500000*x^2 + y^2 - 1/1000000000000']
+"""
+
+from dataclasses import dataclass
+from fractions import Fraction
+
+import numpy as np
+
+from ..system.exact import ExactCoefficient
+from ..system.polynomial import Polynomial, PolynomialSystem
+
+__all__ = ["Centring", "centre_near", "centred_system", "within"]
+
+
+@dataclass(frozen=True)
+class Centring:
+    """A translation x = s + y, with s exact (Gaussian rationals), and the region it speaks for.
+
+    Attributes
+    ----------
+    centre : tuple of ExactCoefficient
+        s, exact.
+    point : ndarray, shape (n,)
+        s as complex numbers.
+    radius : float
+        Points within this distance of s are taken from the centred run, the others from the first one.
+    """
+
+    centre: tuple
+    point: np.ndarray
+    radius: float
+
+
+def centre_near(point, radius, digits=12):
+    """An exact rational centre within 10^-digits (relative to 1 + |point|) of ``point``.
+
+    Rounding to a decimal grid keeps the numbers short (denominators 10^k); the offset it adds is far below
+    any feature the centred run is asked about (``radius``).
+
+    Parameters
+    ----------
+    point : array_like, shape (n,)
+        Complex; an imaginary part below the grid is dropped, so real features keep a real centre.
+    radius : float
+        The region the centring speaks for (recorded).
+    digits : int
+
+    Returns
+    -------
+    Centring
+
+    Examples
+    --------
+    >>> centre_near(np.array([0.1 + 0j, 2.5]), 1e-3).centre[0].to_text()
+    '1/10'
+    """
+    point = np.asarray(point, dtype=complex)
+    # the grid is a power of ten below the point's size (relative), so the exact numbers stay short
+    exponent = int(np.ceil(np.log10(1 + float(np.linalg.norm(point))))) - digits
+    grid = Fraction(10) ** exponent
+    centre = tuple(ExactCoefficient.rational(Fraction(round(Fraction(z.real) / grid)) * grid,
+                                             Fraction(round(Fraction(z.imag) / grid)) * grid) for z in point)
+    return Centring(centre=centre, point=np.array([complex(c) for c in centre]), radius=float(radius))
+
+
+def centred_system(system, centring):
+    """The system in the coordinates y = x - s, exact (a double coefficient is translated as the rational it is).
+
+    Parameters
+    ----------
+    system : PolynomialSystem
+        Affine.
+    centring : Centring
+
+    Returns
+    -------
+    PolynomialSystem
+        Same variable names and equations, exact coefficients.
+    """
+    n = system.n_variables
+    identity = np.eye(n, dtype=np.int64)
+    polynomials = []
+    for polynomial in system.polynomials:
+        if not polynomial.is_exact:  # every double is a dyadic rational: the translation stays exact
+            polynomial = Polynomial(polynomial.exponents,
+                                    np.array([ExactCoefficient.from_complex(c) for c in polynomial.coefficients],
+                                             dtype=object), n)
+        polynomials.append(polynomial.substitute_linear(identity, list(centring.centre)))
+    return PolynomialSystem(list(system.variables), polynomials, name=system.name)
+
+
+def within(points, centring):
+    """Which rows of ``points`` (in the original coordinates) lie in the centring's region."""
+    points = np.atleast_2d(np.asarray(points, dtype=complex))
+    if points.shape[0] == 0:
+        return np.zeros(0, dtype=bool)
+    return np.linalg.norm(points - centring.point[None, :], axis=1) <= centring.radius
