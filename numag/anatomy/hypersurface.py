@@ -14,6 +14,8 @@
   not simple. mu enters as an integer, so no decision rests on a threshold except the two below.
 """
 
+from dataclasses import dataclass
+
 import numpy as np
 
 from ..numeric.evaluate import BatchEvaluator, TermSizes
@@ -25,7 +27,7 @@ from .frame import cubic_degeneracy, cubic_root_spread, kernel_cubic, local_fram
 from .records import Family, HessianEvidence, HypersurfaceAnatomy, SingularityType, TypeTest
 
 __all__ = ["hessian_evidence", "kernel_cubic", "hypersurface_anatomy", "anatomy_in_frame", "milnor_by_paths",
-           "critical_set_not_isolated", "higher_a_nearby",
+           "critical_set_not_isolated", "higher_a_nearby", "morse_alpha", "MorseTest",
            "HESSIAN_ZERO", "max_dual_order"]
 
 #: Scaled Hessian singular values: zero ones at most 1e-7 (points good to about 13 digits), kept ones at
@@ -175,6 +177,105 @@ def critical_set_not_isolated(polynomial, seed=0):
     return bool(near(result.not_isolated)) and not near(result.solutions)
 
 
+#: Smale's alpha of grad f at the point below this: a regular zero of grad f (a Morse point) lies within 2 beta
+#: (Smale 1986, "Newton's method estimates from data at one point"; the theorem needs alpha < 0.157, and beta,
+#: gamma here are upper bounds). A point off an A_k (k >= 2) by d has beta about d / k and gamma about 1 / (2 d)
+#: whatever d is: measured 0.29 (A2), 0.45 (A3), 0.72 (A5), 1.6 (D4), 2.0 (E6). A node whose two branches'
+#: other crossing lies 2e-4 away at distance 1 from the origin: 6e-3 (the Taylor rounding of the gradient,
+#: about a^3 / delta^3 times 6e-15, is what limits it: at 1e-5 of its distance such a node is undecided).
+_MORSE_ALPHA = 0.05
+#: The Hessian's rounding (term sizes times this) times |H^-1| at most this: the inverse is not rounding.
+_MORSE_HESSIAN_NOISE = 1e-3
+#: The rounding of a Taylor coefficient summed in double, against the sizes of the terms it was summed from.
+_TAYLOR_ROUNDING = 1e-15
+
+
+@dataclass
+class MorseTest:
+    """Whether a point is near a regular zero of grad f (a Morse point), by Smale's alpha.
+
+    Unlike a threshold on the Hessian's singular values, alpha = beta gamma does not change with the units, the
+    distance from the origin or a scaling of f: beta is the Newton step of grad f (what the point may be off),
+    gamma the inverse of the distance over which the Hessian may change by its own size.
+
+    Attributes
+    ----------
+    alpha, beta, gamma : float
+        inf when the Hessian is not invertible beyond its rounding.
+    step : ndarray of complex, shape (n,)
+        The Newton step -H^-1 grad f (computed units); zeros when alpha is inf.
+    """
+
+    alpha: float
+    beta: float
+    gamma: float
+    step: np.ndarray
+
+    @property
+    def morse(self):
+        return self.alpha < _MORSE_ALPHA
+
+
+def morse_alpha(polynomial, point):
+    """Smale's alpha test of grad f at a point: is it near a regular zero of the gradient?
+
+    The Taylor coefficients of grad f at p are summed in double; the rounding of each (term sizes times
+    1e-15) is added to the gradient's value in beta, and the Hessian must be invertible beyond its own rounding.
+    gamma is bounded by summing the moduli of H^-1 times each Taylor coefficient of degree k (k >= 2).
+
+    Parameters
+    ----------
+    polynomial : Polynomial
+    point : array_like of complex
+
+    Returns
+    -------
+    MorseTest
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> node = parse_system(["(y - 2)^2 - ((x - 1)^2 - 1/100000000)^2"], ["x", "y"]).polynomials[0]
+    >>> morse_alpha(node, [1.0001, 2.0]).morse, morse_alpha(node, [1.0, 2.0]).morse
+    (True, True)
+    >>> cusp = parse_system(["y^2 - x^3"], ["x", "y"]).polynomials[0]
+    >>> morse_alpha(cusp, [1e-9, 0.0]).morse
+    False
+    """
+    point = np.asarray(point, dtype=complex).reshape(-1)
+    n = len(point)
+    identity = np.eye(n)
+    never = MorseTest(float("inf"), float("inf"), float("inf"), np.zeros(n, dtype=complex))
+    tables, noise = [], []
+    for q in polynomial.numeric().gradient():
+        moved = q.substitute_linear(identity, point) if not q.is_zero() else Polynomial.zero(n)
+        sizes = q.absolute().substitute_linear(identity, np.abs(point)) if not q.is_zero() else Polynomial.zero(n)
+        tables.append({tuple(int(v) for v in e): c for e, c in zip(moved.exponents, moved.numeric_coefficients())})
+        noise.append({tuple(int(v) for v in e): _TAYLOR_ROUNDING * abs(c)
+                      for e, c in zip(sizes.exponents, sizes.numeric_coefficients())})
+    units = [tuple(int(v) for v in row) for row in identity.astype(int)]
+    zero = (0,) * n
+    hessian = np.array([[t.get(e, 0) for e in units] for t in tables], dtype=complex)
+    hessian_noise = np.array([[r.get(e, 0.0) for e in units] for r in noise])
+    if not np.all(np.isfinite(hessian)) or np.linalg.cond(hessian) > 1e15:
+        return never
+    inverse = np.linalg.inv(hessian)
+    if np.linalg.norm(inverse, 2) * np.linalg.norm(hessian_noise) > _MORSE_HESSIAN_NOISE:
+        return never
+    value = np.array([t.get(zero, 0) for t in tables], dtype=complex)
+    value_noise = np.array([r.get(zero, 0.0) for r in noise])
+    step = -inverse @ value
+    beta = float(np.linalg.norm(np.abs(inverse) @ (np.abs(value) + value_noise)))
+    by_degree = {}
+    for exponent in set().union(*tables):
+        degree = sum(exponent)
+        if degree >= 2:
+            column = np.array([t.get(exponent, 0) for t in tables], dtype=complex)
+            by_degree[degree] = by_degree.get(degree, 0.0) + float(np.linalg.norm(inverse @ column))
+    gamma = max((size ** (1.0 / (degree - 1)) for degree, size in by_degree.items()), default=0.0)
+    return MorseTest(beta * gamma, beta, gamma, step)
+
+
 def _real_at(polynomial, point):
     """f has real coefficients and the point is real (the frame can be real)."""
     return bool(np.all(np.asarray(polynomial.numeric_coefficients()).imag == 0)
@@ -221,7 +322,12 @@ def hessian_evidence(polynomial, point):
     hessian[rows] = jacobian[0]
     scales[rows] = np.where(sizes > 0, sizes, 1.0)
     _, values, right = np.linalg.svd(hessian / scales[:, None])
-    rank, width = widest_gap_rank(values, HESSIAN_ZERO, _KEPT)
+    if morse_alpha(polynomial, point[0]).morse:
+        # near a regular zero of grad f by Smale's alpha, which no unit or distance from the origin changes: a
+        # small singular value (4e-8 at a node whose crossing neighbour lies 2e-4 away) is genuine, not zero
+        rank, width = n, np.inf
+    else:
+        rank, width = widest_gap_rank(values, HESSIAN_ZERO, _KEPT)
     unclear = width < _CLEAR_DECADES
     evidence = HessianEvidence(rank, [float(v) for v in values], HESSIAN_ZERO, singular_value_gap(values, rank))
     return evidence, right[rank:].conj().T, unclear
@@ -337,6 +443,11 @@ def anatomy_in_frame(polynomial, point, seed=0):
     mu, tau, width = counts[0]
     stable = all(c[:2] == (mu, tau) for c in counts)
     width = min(c[2] for c in counts)
+    if corank == 0 and morse_alpha(polynomial, point).morse:
+        # a regular zero of grad f (Smale's alpha) has multiplicity one, and tau <= mu: the certificate is the
+        # count. The frame's balancing can shrink a small Hessian value to 1e-8 beside a cubic term, which the
+        # dual space's rank rule reads as zero (a node with a neighbour 2e-4 away counted mu = 2).
+        mu, tau, width, stable = 1, 1, np.inf, True
     quasi = None if mu is None or tau is None else mu == tau
     degeneracy = None
     by_paths = None
