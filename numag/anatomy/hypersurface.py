@@ -27,7 +27,7 @@ from .frame import cubic_degeneracy, cubic_root_spread, kernel_cubic, local_fram
 from .records import Family, HessianEvidence, HypersurfaceAnatomy, SingularityType, TypeTest
 
 __all__ = ["hessian_evidence", "kernel_cubic", "hypersurface_anatomy", "anatomy_in_frame", "milnor_by_paths",
-           "critical_set_not_isolated", "higher_a_nearby", "morse_alpha", "MorseTest",
+           "critical_set_not_isolated", "higher_a_nearby", "higher_a_shift", "morse_alpha", "MorseTest",
            "HESSIAN_ZERO", "max_dual_order"]
 
 #: Scaled Hessian singular values: zero ones at most 1e-7 (points good to about 13 digits), kept ones at
@@ -383,16 +383,33 @@ def higher_a_nearby(frame, index):
     >>> higher_a_nearby(LocalFrame(np.zeros(2), np.eye(2), genuine, 1, 1.0, 0.0, uncertainty=noise), 4)
     False
     """
+    return higher_a_shift(frame, index) is not None
+
+
+def higher_a_shift(frame, index):
+    """The point s (frame units, shape (n,)) of :func:`higher_a_nearby`, or None when no higher A_k fits there.
+
+    s is the first-order position of the more degenerate point on the kernel axis: moving the point there (and
+    reading again) is a step of a deflation that keeps the Hessian's kernel (the v^(index + 1) coefficient of
+    the reduced function is a regular zero where f's gradient is not).
+
+    Examples
+    --------
+    >>> g = Polynomial(np.array([[2, 0], [0, 5], [0, 6]]), np.array([1.0, 6e-9, 1.0]), 2)
+    >>> noise = Polynomial(np.array([[0, 0], [0, 1]]), np.array([1e-16, 1e-16]), 2)
+    >>> from .frame import LocalFrame
+    >>> higher_a_shift(LocalFrame(np.zeros(2), np.eye(2), g, 1, 1.0, 0.0, uncertainty=noise), 4).real.tolist()
+    [0.0, -1e-09]
+    """
     g = frame.polynomial
     n = g.n_variables
     pure = {int(e[-1]): c for e, c in zip(g.exponents, g.numeric_coefficients()) if not np.any(e[:-1])}
     leading, next_one = pure.get(index + 1, 0), pure.get(index + 2, 0)
     if leading == 0 or next_one == 0:
-        return False
-    shift = -leading / ((index + 2) * next_one)
+        return None
     point = np.zeros((1, n), dtype=complex)
-    point[0, -1] = shift
-    return bool(frame.singular_within_uncertainty(point)[0])
+    point[0, -1] = -leading / ((index + 2) * next_one)
+    return point[0] if frame.singular_within_uncertainty(point)[0] else None
 
 
 def anatomy_in_frame(polynomial, point, seed=0):
