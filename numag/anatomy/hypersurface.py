@@ -23,11 +23,11 @@ from ..numeric.linalg import singular_value_gap, widest_gap_rank
 from ..system.polynomial import Polynomial, PolynomialSystem
 from ..tracking.solve import solve_system
 from ..certify.rank import local_dual_evidence
-from .frame import cubic_degeneracy, cubic_root_spread, kernel_cubic, local_frame
+from .frame import _term_total, _values, cubic_degeneracy, cubic_root_spread, kernel_cubic, local_frame
 from .records import Family, HessianEvidence, HypersurfaceAnatomy, SingularityType, TypeTest
 
 __all__ = ["hessian_evidence", "kernel_cubic", "hypersurface_anatomy", "anatomy_in_frame", "milnor_by_paths",
-           "critical_set_not_isolated", "higher_a_nearby", "higher_a_shift", "morse_alpha", "MorseTest",
+           "critical_set_not_isolated", "higher_a_nearby", "higher_a_shift", "corank_jump_shift", "morse_alpha", "MorseTest",
            "HESSIAN_ZERO", "max_dual_order"]
 
 #: Scaled Hessian singular values: zero ones at most 1e-7 (points good to about 13 digits), kept ones at
@@ -410,6 +410,63 @@ def higher_a_shift(frame, index):
     point = np.zeros((1, n), dtype=complex)
     point[0, -1] = -leading / ((index + 2) * next_one)
     return point[0] if frame.singular_within_uncertainty(point)[0] else None
+
+
+def corank_jump_shift(frame):
+    """A point s next to u = 0 (frame units, shape (n,)) where the Hessian's corank is one more and f is singular
+    to within what is unknown about g, or None.
+
+    Read d off a corank-2 point (D4 x^3 + y^3 after a change of condition 1e3), the Hessian has a value of the
+    size of d (1.3e-11) that a rank rule keeps: the reading is corank 1 (A4). In the frame that value is g's
+    smallest u_m^2 coefficient beside cubic terms of size one. s solves, to first order, for the Hessian of g on
+    the kernel and u_m vanishing (least squares, smallest s); if g, grad g and that Hessian block vanish at s
+    to within ``frame.uncertainty`` (and its derivatives), a more degenerate point fits the data as well as
+    u = 0 does. Scale-free: no length enters (a genuine A_k has its u^2 coefficient of size one in the frame,
+    and s then lies at distance one, far outside the uncertainty).
+
+    Examples
+    --------
+    >>> from .frame import LocalFrame
+    >>> g = Polynomial(np.array([[3, 0], [0, 3], [2, 0]]), np.array([-1.0, 1.0, -1.8e-11]), 2)
+    >>> noise = Polynomial(np.array([[0, 0], [1, 0], [0, 1]]), np.array([1e-30, 1e-20, 1e-20]), 2)
+    >>> frame = LocalFrame(np.zeros(2), np.eye(2), g, 1, 1.0, 0.0, uncertainty=noise)
+    >>> [f"{abs(v):.1e}" for v in corank_jump_shift(frame)]
+    ['6.0e-12', '0.0e+00']
+    >>> genuine = Polynomial(np.array([[2, 0], [0, 4], [3, 0]]), np.array([1.0, 1.0, 1.0]), 2)
+    >>> corank_jump_shift(LocalFrame(np.zeros(2), np.eye(2), genuine, 1, 1.0, 0.0, uncertainty=noise)) is None
+    True
+    """
+    g = frame.polynomial
+    n = g.n_variables
+    if frame.rank == 0 or g.is_zero():
+        return None
+    diagonal = {}
+    for exponent, value in zip(g.exponents, g.numeric_coefficients()):
+        if exponent.sum() == 2 and exponent.max() == 2:
+            diagonal[int(np.argmax(exponent))] = abs(value)
+    smallest = min(range(frame.rank), key=lambda i: diagonal.get(i, 0.0))
+    block = [smallest] + list(range(frame.rank, n))
+    entries = [g.derivative(i).derivative(j) for a, i in enumerate(block) for j in block[a:]]
+    origin = np.zeros((1, n), dtype=complex)
+    unit = np.eye(n, dtype=complex)
+    constants = np.array([_values(h, origin)[0] for h in entries])
+    slopes = np.array([[_values(h, unit[k][None, :])[0] - c for k in range(n)] for h, c in zip(entries, constants)])
+    if not np.any(slopes):
+        return None
+    shift = np.linalg.lstsq(slopes, -constants, rcond=None)[0]
+    point = shift[None, :]
+    if not frame.singular_within_uncertainty(point)[0]:
+        return None
+    bound = frame.uncertainty if frame.uncertainty is not None else Polynomial.zero(n)
+    for a, i in enumerate(block):
+        for j in block[a:]:
+            second = g.derivative(i).derivative(j)
+            # what g's coefficients may be off by, and the rounding of the evaluation itself at s
+            allowed = _term_total(bound.derivative(i).derivative(j), point)[0] + \
+                _TAYLOR_ROUNDING * _term_total(second, point)[0]
+            if abs(_values(second, point)[0]) > allowed:
+                return None
+    return shift
 
 
 def anatomy_in_frame(polynomial, point, seed=0):
