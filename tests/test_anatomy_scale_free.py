@@ -28,6 +28,8 @@ def test_a_node_next_to_another_is_a_node_in_any_unit(x_of, y_of, node, seed):
     # the local picture agrees: two real branches (the two parabolas)
     assert anatomy.branches is not None and len(anatomy.branches) == 2
     assert all(branch.real for branch in anatomy.branches)
+    # a node's branches cross transversally (Morse lemma), although their slopes differ by 4e-4 only
+    assert anatomy.transversal and "cross transversally" in anatomy.sentence
 
 
 @pytest.mark.parametrize("seed", [1, 2, 3])

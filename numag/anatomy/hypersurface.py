@@ -27,7 +27,8 @@ from .frame import _term_total, _values, cubic_degeneracy, cubic_root_spread, ke
 from .records import Family, HessianEvidence, HypersurfaceAnatomy, SingularityType, TypeTest
 
 __all__ = ["hessian_evidence", "kernel_cubic", "hypersurface_anatomy", "anatomy_in_frame", "milnor_by_paths",
-           "critical_set_not_isolated", "higher_a_nearby", "higher_a_shift", "corank_jump_shift", "morse_alpha", "MorseTest",
+           "critical_set_not_isolated", "higher_a_nearby", "higher_a_shift", "corank_jump_shift", "morse_alpha",
+           "MorseTest", "MORSE_ALPHA",
            "HESSIAN_ZERO", "max_dual_order"]
 
 #: Scaled Hessian singular values: zero ones at most 1e-7 (points good to about 13 digits), kept ones at
@@ -183,7 +184,7 @@ def critical_set_not_isolated(polynomial, seed=0):
 #: whatever d is: measured 0.29 (A2), 0.45 (A3), 0.72 (A5), 1.6 (D4), 2.0 (E6). A node whose two branches'
 #: other crossing lies 2e-4 away at distance 1 from the origin: 6e-3 (the Taylor rounding of the gradient,
 #: about a^3 / delta^3 times 6e-15, is what limits it: at 1e-5 of its distance such a node is undecided).
-_MORSE_ALPHA = 0.05
+MORSE_ALPHA = 0.05
 #: The Hessian's rounding (term sizes times this) times |H^-1| at most this: the inverse is not rounding.
 _MORSE_HESSIAN_NOISE = 1e-3
 #: The rounding of a Taylor coefficient summed in double, against the sizes of the terms it was summed from.
@@ -213,7 +214,7 @@ class MorseTest:
 
     @property
     def morse(self):
-        return self.alpha < _MORSE_ALPHA
+        return self.alpha < MORSE_ALPHA
 
 
 def morse_alpha(polynomial, point):

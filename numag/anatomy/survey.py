@@ -30,7 +30,8 @@ from ..system.display import counted
 from ..numeric.seeds import random_state
 from ..witness.decompose import decompose
 from .frame import cube_root_direction, frame_hessian, kernel_cubic
-from .hypersurface import anatomy_in_frame, corank_jump_shift, hessian_evidence, higher_a_shift
+from .hypersurface import anatomy_in_frame, corank_jump_shift, hessian_evidence, higher_a_shift, morse_alpha, \
+    MORSE_ALPHA
 from .deflation import DeflationOutcome, onto_singular_point
 from .local import LocalOptions, LocalPicture, hypersurface_witness, local_picture, order_radius, orbit_tangent
 from .records import Branch, ComponentAnatomy, Family, Motion, PointAnatomy, SingularityType, TypeTest
@@ -269,6 +270,12 @@ def _hypersurface_point(polynomial, computed, user_point, scaling, rng, real, an
         _undecided(anatomy.hypersurface, TypeTest.POINT_OFF)
         anatomy.notes.append(f"the point is off the singular point (scaled residual of (f, grad f) "
                              f"{deflation.residual_before:.1e}) and was not moved onto it: type, mu and tau undecided")
+    evidence = anatomy.hypersurface.hessian
+    if anatomy.hypersurface.corank == 0 and min(evidence.singular_values, default=1.0) <= evidence.tolerance:
+        # the rank was not read from the values (a node with a neighbour 2e-4 away has one of 2e-9): say why
+        alpha = morse_alpha(polynomial, computed).alpha
+        anatomy.notes.append(f"a Morse point by Smale's alpha ({alpha:.1e}, below {MORSE_ALPHA:g}): its small "
+                             "Hessian values are genuine, not zero")
     kind = anatomy.hypersurface.type
     if along_kernel is None and deflation is not None and not deflation.moved \
             and deflation.outcome is not DeflationOutcome.ALREADY_THERE \
