@@ -341,10 +341,11 @@ def onto_singular_point(polynomial, point, seed=0):
         # point inexact (E6's local picture was then not resolved)
         return kept(DeflationOutcome.ALREADY_THERE, steps)
     found = point + u
-    if morse_alpha(f, found).morse:
-        # the end is a regular zero of grad f, but the start was not within its alpha-basin (else the test at the
-        # start would have found it): the stages went to another critical point (a node's neighbour 1.4e-4 away
-        # after a linear change, reached from a Hessian value read as zero); no length threshold decides this
+    if morse_alpha(f, found).hessian_regular:
+        # the end's Hessian is invertible beyond its rounding: no degenerate point, and the start was not within
+        # its alpha-basin (else the test at the start would have found it): the stages went to another critical
+        # point (the middle one of two nodes 2e-4 apart, 4.2e-5 away, reached from a Hessian value read as zero,
+        # at a residual that rounding cannot tell from the start's); no length threshold decides this
         return kept(DeflationOutcome.ANOTHER_POINT, steps)
     after = _singular_residual(f, found)
     if after > max(before, ROUNDING_RESIDUAL):
