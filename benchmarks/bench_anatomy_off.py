@@ -1,6 +1,7 @@
 """Types and local pictures read at a point given off the singular point (decisions 0056, 0068).
 
 Run:  python benchmarks/bench_anatomy_off.py [--seeds 8] [--off 1e-10] [--condition K]
+      python benchmarks/bench_anatomy_off.py --far [--seeds 3] [--off 1e-10]    (decision 0073)
 
 The twelve simple plane curve normal forms of Arnold 1972 (A1..A6, D4..D6, E6..E8) and x^3 + y^3 (D4), each
 after ``--seeds`` random changes of coordinates and units moved to a random point (``bench_anatomy.moved``,
@@ -8,6 +9,11 @@ condition <= 4; or ``bench_anatomy.gaussian`` with ``--condition``); the point h
 ``numag.point_anatomy`` is the singular point plus ``off`` |p| N(0, 1) per coordinate
 (``default_rng(seed + 77)``). Prints per case the type verdicts and the picture verdicts (right / undecided /
 wrong), the totals, and the median time per point.
+
+``--far``: the simple types A1..A7, D4..D6, E6..E8 with the singular point moved far from the origin, to
+(100, -30) times a unit of 1e-3, 1 or 1e3, after a random rotation and stretch by 2^U(-1, 1) per seed
+(``far_placement``); one row per type and unit. Far out the expanded coefficients' rounding (|p|^degree times
+1e-16) reaches the features of the high types: undecided is then the right answer, wrong never is.
 """
 
 import argparse
@@ -19,11 +25,54 @@ import checkout  # noqa: F401  (this checkout's numag, not an installed one)
 import numag
 from bench_anatomy import gaussian, moved, picture_verdict
 from numag.anatomy.survey import AnatomyOptions
+from numag.system.parse import parse_system
+from numag.system.polynomial import PolynomialSystem
 
 # Arnold 1972's normal forms and their types; x^3 + y^3 is three distinct lines, D4 (common practice).
 CASES = [("x^2 + y^2", "A1"), ("y^2 - x^3", "A2"), ("y^2 - x^4", "A3"), ("y^2 - x^5", "A4"), ("y^2 - x^6", "A5"),
          ("y^2 - x^7", "A6"), ("x^2*y - y^3", "D4"), ("x^2*y + y^4", "D5"), ("x^2*y + y^5", "D6"),
          ("x^3 + y^4", "E6"), ("x^3 + x*y^3", "E7"), ("x^3 + y^5", "E8"), ("x^3 + y^3", "D4")]
+
+
+# The simple plane types of Arnold 1972 (normal forms) for the far table.
+FAR_CASES = [("x^2 + y^2", "A1"), ("y^2 - x^3", "A2"), ("y^2 - x^4", "A3"), ("y^2 - x^5", "A4"),
+             ("y^2 - x^6", "A5"), ("y^2 - x^7", "A6"), ("y^2 - x^8", "A7"), ("x^2*y - y^3", "D4"),
+             ("x^2*y + y^4", "D5"), ("x^2*y + y^5", "D6"), ("x^3 + y^4", "E6"), ("x^3 + x*y^3", "E7"),
+             ("x^3 + y^5", "E8")]
+FAR_UNITS = (1e-3, 1.0, 1e3)
+
+
+def far_placement(equation, seed, unit, centre=(100.0, -30.0)):
+    """The normal form after a rotation and stretch (seeded) in units of ``unit``, its singular point at
+    ``centre`` times ``unit``: f(R S (x - c) / unit), expanded in double. Returns (system, singular point)."""
+    f = parse_system([equation], ["x", "y"]).polynomials[0]
+    rng = np.random.default_rng(900 + seed)
+    rotation, _ = np.linalg.qr(rng.standard_normal((2, 2)))
+    matrix = rotation @ np.diag(2.0 ** rng.uniform(-1, 1, 2)) / unit
+    point = np.array(centre) * unit
+    return PolynomialSystem(["x", "y"], [f.numeric().substitute_linear(matrix, -matrix @ point)]), point
+
+
+def far_table(args):
+    """One row per type and unit: the type verdicts of seeds 1..args.seeds."""
+    totals = {"right": 0, "undecided": 0, "wrong": 0}
+    times = []
+    for equation, label in FAR_CASES:
+        for unit in FAR_UNITS:
+            verdicts = []
+            for seed in range(1, args.seeds + 1):
+                system, point = far_placement(equation, seed, unit)
+                off = point + args.off * np.abs(point) * np.random.default_rng(seed + 77).standard_normal(2)
+                started = time.perf_counter()
+                anatomy = numag.point_anatomy(system, off, seed=seed)
+                times.append(time.perf_counter() - started)
+                found = anatomy.hypersurface.type.label
+                verdict = "right" if found == label else ("undecided" if found == "undecided" else "wrong")
+                totals[verdict] += 1
+                verdicts.append(verdict[0] if verdict != "wrong" else f"W:{found}")
+            print(f"{equation:14s} {label:3s} unit {unit:6g}  {' '.join(verdicts)}", flush=True)
+    print(f"types: {totals['right']} right, {totals['undecided']} undecided, {totals['wrong']} wrong")
+    print(f"median time per point {np.median(times):.3f} s, max {np.max(times):.3f} s")
 
 
 def main():
@@ -34,7 +83,12 @@ def main():
     parser.add_argument("--keep-point", action="store_true",
                         help="read the type where the point is given (no deflation onto the singular point)")
     parser.add_argument("--cases", default=None, help="comma-separated indices of CASES to run")
+    parser.add_argument("--far", action="store_true",
+                        help="the table of the simple types moved to (100, -30) in units 1e-3, 1, 1e3 (decision 0073)")
     args = parser.parse_args()
+    if args.far:
+        far_table(args)
+        return
     types = {"right": 0, "undecided": 0, "wrong": 0}
     pictures = {"right": 0, "undecided": 0, "wrong": 0}
     times = []

@@ -40,7 +40,7 @@ import numpy as np
 from ..numeric.evaluate import BatchEvaluator, TermSizes
 from ..numeric.refine import project_to_variety
 from ..system.polynomial import Polynomial, PolynomialSystem
-from .hypersurface import HESSIAN_ZERO
+from .hypersurface import HESSIAN_ZERO, morse_alpha
 
 __all__ = ["Deflation", "DeflationOutcome", "onto_singular_point", "deflated_system", "ROUNDING_RESIDUAL"]
 
@@ -75,6 +75,8 @@ class DeflationOutcome(enum.Enum):
     TOO_FAR = "deflation ended far from the point: the point was kept"
     NO_BETTER = "the moved point is no closer to being singular: the point was kept"
     NOT_SINGULAR = "no singular point near the point: it was kept"
+    ANOTHER_POINT = ("deflation ended at a Morse point that the given point is not close to by Smale's alpha "
+                     "(another critical point): the point was kept")
 
 
 @dataclass
@@ -278,6 +280,19 @@ def onto_singular_point(polynomial, point, seed=0):
     real = bool(np.all(f.numeric_coefficients().imag == 0) and np.all(point.imag == 0))
     before = _singular_residual(f, point)
     rng = np.random.default_rng(seed)
+    morse = morse_alpha(f, point)
+    if morse.morse:
+        # a regular zero of grad f within 2 beta (Smale's alpha: no threshold in units or residuals); one Newton
+        # step lands on it to about beta^2 gamma. Deflating instead at a small Hessian value (4e-8 at a node whose
+        # neighbour lies 2e-4 away) moved such a node 4e-5 onto a neighbouring critical point, typed A2.
+        u = morse.step.real.astype(complex) if real else morse.step
+        distance = float(np.linalg.norm(u) / (1.0 + np.linalg.norm(point)))
+        if distance <= _ROUNDING_MOVE:
+            return Deflation(point, DeflationOutcome.ALREADY_THERE, 0, distance, before, before)
+        after = _singular_residual(f, point + u)
+        if after > _SINGULAR:
+            return Deflation(point, DeflationOutcome.NOT_SINGULAR, 0, distance, before, before)
+        return Deflation(point + u, DeflationOutcome.REGULAR_START, 0, distance, before, after)
 
     current = np.zeros(n, dtype=complex)
 
@@ -326,6 +341,12 @@ def onto_singular_point(polynomial, point, seed=0):
         # point inexact (E6's local picture was then not resolved)
         return kept(DeflationOutcome.ALREADY_THERE, steps)
     found = point + u
+    if morse_alpha(f, found).hessian_regular:
+        # the end's Hessian is invertible beyond its rounding: no degenerate point, and the start was not within
+        # its alpha-basin (else the test at the start would have found it): the stages went to another critical
+        # point (the middle one of two nodes 2e-4 apart, 4.2e-5 away, reached from a Hessian value read as zero,
+        # at a residual that rounding cannot tell from the start's); no length threshold decides this
+        return kept(DeflationOutcome.ANOTHER_POINT, steps)
     after = _singular_residual(f, found)
     if after > max(before, ROUNDING_RESIDUAL):
         # both at rounding level (1e-17..1e-15) is no evidence either way: comparing them flipped D6 and E7

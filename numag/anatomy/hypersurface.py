@@ -14,6 +14,8 @@
   not simple. mu enters as an integer, so no decision rests on a threshold except the two below.
 """
 
+from dataclasses import dataclass
+
 import numpy as np
 
 from ..numeric.evaluate import BatchEvaluator, TermSizes
@@ -21,11 +23,12 @@ from ..numeric.linalg import singular_value_gap, widest_gap_rank
 from ..system.polynomial import Polynomial, PolynomialSystem
 from ..tracking.solve import solve_system
 from ..certify.rank import local_dual_evidence
-from .frame import cubic_degeneracy, cubic_root_spread, kernel_cubic, local_frame
+from .frame import _term_total, _values, cubic_degeneracy, cubic_root_spread, kernel_cubic, local_frame
 from .records import Family, HessianEvidence, HypersurfaceAnatomy, SingularityType, TypeTest
 
 __all__ = ["hessian_evidence", "kernel_cubic", "hypersurface_anatomy", "anatomy_in_frame", "milnor_by_paths",
-           "critical_set_not_isolated", "higher_a_nearby",
+           "critical_set_not_isolated", "higher_a_nearby", "higher_a_shift", "corank_jump_shift", "morse_alpha",
+           "MorseTest", "MORSE_ALPHA",
            "HESSIAN_ZERO", "max_dual_order"]
 
 #: Scaled Hessian singular values: zero ones at most 1e-7 (points good to about 13 digits), kept ones at
@@ -175,6 +178,110 @@ def critical_set_not_isolated(polynomial, seed=0):
     return bool(near(result.not_isolated)) and not near(result.solutions)
 
 
+#: Smale's alpha of grad f at the point below this: a regular zero of grad f (a Morse point) lies within 2 beta
+#: (Smale 1986, "Newton's method estimates from data at one point"; the theorem needs alpha < 0.157, and beta,
+#: gamma here are upper bounds). A point off an A_k (k >= 2) by d has beta about d / k and gamma about 1 / (2 d)
+#: whatever d is: measured 0.29 (A2), 0.45 (A3), 0.72 (A5), 1.6 (D4), 2.0 (E6). A node whose two branches'
+#: other crossing lies 2e-4 away at distance 1 from the origin: 6e-3 (the Taylor rounding of the gradient,
+#: about a^3 / delta^3 times 6e-15, is what limits it: at 1e-5 of its distance such a node is undecided).
+MORSE_ALPHA = 0.05
+#: The Hessian's rounding (term sizes times this) times |H^-1| at most this: the inverse is not rounding.
+_MORSE_HESSIAN_NOISE = 1e-3
+#: The rounding of a Taylor coefficient summed in double, against the sizes of the terms it was summed from.
+_TAYLOR_ROUNDING = 1e-15
+
+
+@dataclass
+class MorseTest:
+    """Whether a point is near a regular zero of grad f (a Morse point), by Smale's alpha.
+
+    Unlike a threshold on the Hessian's singular values, alpha = beta gamma does not change with the units, the
+    distance from the origin or a scaling of f: beta is the Newton step of grad f (what the point may be off),
+    gamma the inverse of the distance over which the Hessian may change by its own size.
+
+    Attributes
+    ----------
+    alpha, beta, gamma : float
+        inf when the Hessian is not invertible beyond its rounding.
+    step : ndarray of complex, shape (n,)
+        The Newton step -H^-1 grad f (computed units); zeros when alpha is inf.
+    """
+
+    alpha: float
+    beta: float
+    gamma: float
+    step: np.ndarray
+
+    @property
+    def morse(self):
+        return self.alpha < MORSE_ALPHA
+
+    @property
+    def hessian_regular(self):
+        """The Hessian is invertible beyond its own rounding (corank 0 in the data), whatever alpha is."""
+        return bool(np.isfinite(self.gamma))
+
+
+def morse_alpha(polynomial, point):
+    """Smale's alpha test of grad f at a point: is it near a regular zero of the gradient?
+
+    The Taylor coefficients of grad f at p are summed in double; the rounding of each (term sizes times
+    1e-15) is added to the gradient's value in beta, and the Hessian must be invertible beyond its own rounding.
+    gamma is bounded by summing the moduli of H^-1 times each Taylor coefficient of degree k (k >= 2).
+
+    Parameters
+    ----------
+    polynomial : Polynomial
+    point : array_like of complex
+
+    Returns
+    -------
+    MorseTest
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> node = parse_system(["(y - 2)^2 - ((x - 1)^2 - 1/100000000)^2"], ["x", "y"]).polynomials[0]
+    >>> morse_alpha(node, [1.0001, 2.0]).morse, morse_alpha(node, [1.0, 2.0]).morse
+    (True, True)
+    >>> cusp = parse_system(["y^2 - x^3"], ["x", "y"]).polynomials[0]
+    >>> morse_alpha(cusp, [1e-9, 0.0]).morse
+    False
+    """
+    point = np.asarray(point, dtype=complex).reshape(-1)
+    n = len(point)
+    identity = np.eye(n)
+    never = MorseTest(float("inf"), float("inf"), float("inf"), np.zeros(n, dtype=complex))
+    tables, noise = [], []
+    for q in polynomial.numeric().gradient():
+        moved = q.substitute_linear(identity, point) if not q.is_zero() else Polynomial.zero(n)
+        sizes = q.absolute().substitute_linear(identity, np.abs(point)) if not q.is_zero() else Polynomial.zero(n)
+        tables.append({tuple(int(v) for v in e): c for e, c in zip(moved.exponents, moved.numeric_coefficients())})
+        noise.append({tuple(int(v) for v in e): _TAYLOR_ROUNDING * abs(c)
+                      for e, c in zip(sizes.exponents, sizes.numeric_coefficients())})
+    units = [tuple(int(v) for v in row) for row in identity.astype(int)]
+    zero = (0,) * n
+    hessian = np.array([[t.get(e, 0) for e in units] for t in tables], dtype=complex)
+    hessian_noise = np.array([[r.get(e, 0.0) for e in units] for r in noise])
+    if not np.all(np.isfinite(hessian)) or np.linalg.cond(hessian) > 1e15:
+        return never
+    inverse = np.linalg.inv(hessian)
+    if np.linalg.norm(inverse, 2) * np.linalg.norm(hessian_noise) > _MORSE_HESSIAN_NOISE:
+        return never
+    value = np.array([t.get(zero, 0) for t in tables], dtype=complex)
+    value_noise = np.array([r.get(zero, 0.0) for r in noise])
+    step = -inverse @ value
+    beta = float(np.linalg.norm(np.abs(inverse) @ (np.abs(value) + value_noise)))
+    by_degree = {}
+    for exponent in set().union(*tables):
+        degree = sum(exponent)
+        if degree >= 2:
+            column = np.array([t.get(exponent, 0) for t in tables], dtype=complex)
+            by_degree[degree] = by_degree.get(degree, 0.0) + float(np.linalg.norm(inverse @ column))
+    gamma = max((size ** (1.0 / (degree - 1)) for degree, size in by_degree.items()), default=0.0)
+    return MorseTest(beta * gamma, beta, gamma, step)
+
+
 def _real_at(polynomial, point):
     """f has real coefficients and the point is real (the frame can be real)."""
     return bool(np.all(np.asarray(polynomial.numeric_coefficients()).imag == 0)
@@ -221,7 +328,19 @@ def hessian_evidence(polynomial, point):
     hessian[rows] = jacobian[0]
     scales[rows] = np.where(sizes > 0, sizes, 1.0)
     _, values, right = np.linalg.svd(hessian / scales[:, None])
-    rank, width = widest_gap_rank(values, HESSIAN_ZERO, _KEPT)
+    morse = morse_alpha(polynomial, point[0])
+    if morse.morse:
+        # near a regular zero of grad f by Smale's alpha, which no unit or distance from the origin changes: a
+        # small singular value (4e-8 at a node whose crossing neighbour lies 2e-4 away) is genuine, not zero
+        rank, width = n, np.inf
+    elif morse.hessian_regular:
+        # the Hessian is invertible beyond its rounding, yet the point is not certified near a critical point: a
+        # Morse point whose position is lost in the gradient's rounding, or a point off a degenerate one (its
+        # small value the offset's trace). A rank rule would read either as corank 1 (the middle critical point
+        # of two nodes 2e-4 apart, after a change of variables, typed A2): unclear
+        rank, width = widest_gap_rank(values, HESSIAN_ZERO, _KEPT)[0], 0.0
+    else:
+        rank, width = widest_gap_rank(values, HESSIAN_ZERO, _KEPT)
     unclear = width < _CLEAR_DECADES
     evidence = HessianEvidence(rank, [float(v) for v in values], HESSIAN_ZERO, singular_value_gap(values, rank))
     return evidence, right[rank:].conj().T, unclear
@@ -277,16 +396,90 @@ def higher_a_nearby(frame, index):
     >>> higher_a_nearby(LocalFrame(np.zeros(2), np.eye(2), genuine, 1, 1.0, 0.0, uncertainty=noise), 4)
     False
     """
+    return higher_a_shift(frame, index) is not None
+
+
+def higher_a_shift(frame, index):
+    """The point s (frame units, shape (n,)) of :func:`higher_a_nearby`, or None when no higher A_k fits there.
+
+    s is the first-order position of the more degenerate point on the kernel axis: moving the point there (and
+    reading again) is a step of a deflation that keeps the Hessian's kernel (the v^(index + 1) coefficient of
+    the reduced function is a regular zero where f's gradient is not).
+
+    Examples
+    --------
+    >>> g = Polynomial(np.array([[2, 0], [0, 5], [0, 6]]), np.array([1.0, 6e-9, 1.0]), 2)
+    >>> noise = Polynomial(np.array([[0, 0], [0, 1]]), np.array([1e-16, 1e-16]), 2)
+    >>> from .frame import LocalFrame
+    >>> higher_a_shift(LocalFrame(np.zeros(2), np.eye(2), g, 1, 1.0, 0.0, uncertainty=noise), 4).real.tolist()
+    [0.0, -1e-09]
+    """
     g = frame.polynomial
     n = g.n_variables
     pure = {int(e[-1]): c for e, c in zip(g.exponents, g.numeric_coefficients()) if not np.any(e[:-1])}
     leading, next_one = pure.get(index + 1, 0), pure.get(index + 2, 0)
     if leading == 0 or next_one == 0:
-        return False
-    shift = -leading / ((index + 2) * next_one)
+        return None
     point = np.zeros((1, n), dtype=complex)
-    point[0, -1] = shift
-    return bool(frame.singular_within_uncertainty(point)[0])
+    point[0, -1] = -leading / ((index + 2) * next_one)
+    return point[0] if frame.singular_within_uncertainty(point)[0] else None
+
+
+def corank_jump_shift(frame):
+    """A point s next to u = 0 (frame units, shape (n,)) where the Hessian's corank is one more and f is singular
+    to within what is unknown about g, or None.
+
+    Read d off a corank-2 point (D4 x^3 + y^3 after a change of condition 1e3), the Hessian has a value of the
+    size of d (1.3e-11) that a rank rule keeps: the reading is corank 1 (A4). In the frame that value is g's
+    smallest u_m^2 coefficient beside cubic terms of size one. s solves, to first order, for the Hessian of g on
+    the kernel and u_m vanishing (least squares, smallest s); if g, grad g and that Hessian block vanish at s
+    to within ``frame.uncertainty`` (and its derivatives), a more degenerate point fits the data as well as
+    u = 0 does. Scale-free: no length enters (a genuine A_k has its u^2 coefficient of size one in the frame,
+    and s then lies at distance one, far outside the uncertainty).
+
+    Examples
+    --------
+    >>> from .frame import LocalFrame
+    >>> g = Polynomial(np.array([[3, 0], [0, 3], [2, 0]]), np.array([-1.0, 1.0, -1.8e-11]), 2)
+    >>> noise = Polynomial(np.array([[0, 0], [1, 0], [0, 1]]), np.array([1e-30, 1e-20, 1e-20]), 2)
+    >>> frame = LocalFrame(np.zeros(2), np.eye(2), g, 1, 1.0, 0.0, uncertainty=noise)
+    >>> [f"{abs(v):.1e}" for v in corank_jump_shift(frame)]
+    ['6.0e-12', '0.0e+00']
+    >>> genuine = Polynomial(np.array([[2, 0], [0, 4], [3, 0]]), np.array([1.0, 1.0, 1.0]), 2)
+    >>> corank_jump_shift(LocalFrame(np.zeros(2), np.eye(2), genuine, 1, 1.0, 0.0, uncertainty=noise)) is None
+    True
+    """
+    g = frame.polynomial
+    n = g.n_variables
+    if frame.rank == 0 or g.is_zero():
+        return None
+    diagonal = {}
+    for exponent, value in zip(g.exponents, g.numeric_coefficients()):
+        if exponent.sum() == 2 and exponent.max() == 2:
+            diagonal[int(np.argmax(exponent))] = abs(value)
+    smallest = min(range(frame.rank), key=lambda i: diagonal.get(i, 0.0))
+    block = [smallest] + list(range(frame.rank, n))
+    entries = [g.derivative(i).derivative(j) for a, i in enumerate(block) for j in block[a:]]
+    origin = np.zeros((1, n), dtype=complex)
+    unit = np.eye(n, dtype=complex)
+    constants = np.array([_values(h, origin)[0] for h in entries])
+    slopes = np.array([[_values(h, unit[k][None, :])[0] - c for k in range(n)] for h, c in zip(entries, constants)])
+    if not np.any(slopes):
+        return None
+    shift = np.linalg.lstsq(slopes, -constants, rcond=None)[0]
+    point = shift[None, :]
+    if not frame.singular_within_uncertainty(point)[0]:
+        return None
+    bound = frame.uncertainty if frame.uncertainty is not None else Polynomial.zero(n)
+    for a, i in enumerate(block):
+        for j in block[a:]:
+            second = g.derivative(i).derivative(j)
+            # what g's coefficients may be off by, and the rounding of the evaluation itself at s
+            allowed = _term_total(bound.derivative(i).derivative(j), point)[0] + \
+                _TAYLOR_ROUNDING * _term_total(second, point)[0]
+            if abs(_values(second, point)[0]) > allowed:
+                return None
+    return shift
 
 
 def anatomy_in_frame(polynomial, point, seed=0):
@@ -337,6 +530,11 @@ def anatomy_in_frame(polynomial, point, seed=0):
     mu, tau, width = counts[0]
     stable = all(c[:2] == (mu, tau) for c in counts)
     width = min(c[2] for c in counts)
+    if corank == 0 and morse_alpha(polynomial, point).morse:
+        # a regular zero of grad f (Smale's alpha) has multiplicity one, and tau <= mu: the certificate is the
+        # count. The frame's balancing can shrink a small Hessian value to 1e-8 beside a cubic term, which the
+        # dual space's rank rule reads as zero (a node with a neighbour 2e-4 away counted mu = 2).
+        mu, tau, width, stable = 1, 1, np.inf, True
     quasi = None if mu is None or tau is None else mu == tau
     degeneracy = None
     by_paths = None

@@ -306,10 +306,19 @@ class PointAnatomy:
 
     @property
     def transversal(self):
-        """The real branches are smooth with pairwise distinct tangents."""
+        """The real branches are smooth with pairwise distinct tangents.
+
+        For a plane curve whose type is known this follows from the type (Arnold 1972's normal forms): A1 and D4
+        have pairwise distinct tangents, every other simple type does not. An angle between computed tangents
+        depends on the units (a node whose branches' slopes are +-2e-4 read as "a common tangent"); it is used
+        only when the type does not tell.
+        """
         real = [b for b in self.branches or [] if b.real]
         if any(b.multiplicity > 1 for b in real):
             return False
+        kind = self.hypersurface.type if self.hypersurface is not None else None
+        if kind is not None and kind.simple and self.local_dimension == 1 and len(self.point) == 2:
+            return (kind.family is Family.A and kind.index == 1) or (kind.family is Family.D and kind.index == 4)
         for i in range(len(real)):
             for j in range(i):
                 if abs(np.vdot(real[i].tangent, real[j].tangent)) > 1 - 1e-6:

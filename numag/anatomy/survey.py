@@ -29,8 +29,9 @@ from ..numeric.scaling import Scaling
 from ..system.display import counted
 from ..numeric.seeds import random_state
 from ..witness.decompose import decompose
-from .frame import cube_root_direction, kernel_cubic
-from .hypersurface import anatomy_in_frame, hessian_evidence, higher_a_nearby
+from .frame import cube_root_direction, frame_hessian, kernel_cubic
+from .hypersurface import anatomy_in_frame, corank_jump_shift, hessian_evidence, higher_a_shift, morse_alpha, \
+    MORSE_ALPHA
 from .deflation import DeflationOutcome, onto_singular_point
 from .local import LocalOptions, LocalPicture, hypersurface_witness, local_picture, order_radius, orbit_tangent
 from .records import Branch, ComponentAnatomy, Family, Motion, PointAnatomy, SingularityType, TypeTest
@@ -230,6 +231,17 @@ def _hypersurface_point(polynomial, computed, user_point, scaling, rng, real, an
     # the local witness set in the local frame too: its radius is then in units of the singularity's own
     # scale (in the computed units a change of condition 1e3 put it outside the cusp of A4: two branches)
     hypersurface, frame = anatomy_in_frame(polynomial, computed)
+    along_kernel = None
+    if deflation is not None and not deflation.moved and deflation.outcome is not DeflationOutcome.ALREADY_THERE:
+        # deflation stopped short (A5 and beyond need 4 steps and more); an A_k read here may be a higher A next
+        # to the point: move along the kernel to where it fits and read again (decision 0073)
+        along_kernel = _onto_higher_corank(polynomial, computed, hypersurface, frame, real) \
+            or _along_the_kernel(polynomial, computed, hypersurface, frame, real)
+        if along_kernel is not None:
+            computed, hypersurface, frame = along_kernel
+            moved = scaling.to_user(computed[None, :])[0]
+            moved_by = float(np.linalg.norm(moved - user_point))
+            user_point = moved
     local = frame.polynomial
     origin = np.zeros(n, dtype=complex)
     if local.is_zero():
@@ -240,7 +252,11 @@ def _hypersurface_point(polynomial, computed, user_point, scaling, rng, real, an
     else:
         anatomy = _local_anatomy(local, frame, origin, user_point, scaling, rng, real, angles, options)
     anatomy.hypersurface = hypersurface
-    if deflation is not None:
+    if along_kernel is not None:
+        anatomy.moved_by = moved_by
+        anatomy.notes.append(f"moved onto the singular point by {moved_by:.2g} to where a more degenerate point fits "
+                             f"(deflation had stopped: {deflation.outcome.value})")
+    elif deflation is not None:
         if deflation.moved:
             anatomy.moved_by = moved_by
             if deflation.steps:
@@ -248,15 +264,22 @@ def _hypersurface_point(polynomial, computed, user_point, scaling, rng, real, an
                                      f"deflation step{'s' if deflation.steps > 1 else ''})")
         elif deflation.outcome is not DeflationOutcome.ALREADY_THERE:
             anatomy.notes.append(f"read at the given point: {deflation.outcome.value}")
-    if deflation is not None and deflation.kept_off and anatomy.hypersurface.corank > 0:
+    if along_kernel is None and deflation is not None and deflation.kept_off and anatomy.hypersurface.corank > 0:
         # read off the singular point, mu, tau and the type are those of a neighbouring function (an A5 read 1e-10
         # off is an A4): none of them is reported (a Morse point, corank 0, is stable under the offset)
         _undecided(anatomy.hypersurface, TypeTest.POINT_OFF)
         anatomy.notes.append(f"the point is off the singular point (scaled residual of (f, grad f) "
                              f"{deflation.residual_before:.1e}) and was not moved onto it: type, mu and tau undecided")
+    evidence = anatomy.hypersurface.hessian
+    if anatomy.hypersurface.corank == 0 and min(evidence.singular_values, default=1.0) <= evidence.tolerance:
+        # the rank was not read from the values (a node with a neighbour 2e-4 away has one of 2e-9): say why
+        alpha = morse_alpha(polynomial, computed).alpha
+        anatomy.notes.append(f"a Morse point by Smale's alpha ({alpha:.1e}, below {MORSE_ALPHA:g}): its small "
+                             "Hessian values are genuine, not zero")
     kind = anatomy.hypersurface.type
-    if deflation is not None and not deflation.moved and deflation.outcome is not DeflationOutcome.ALREADY_THERE \
-            and kind.family is Family.A and kind.index >= 2 and higher_a_nearby(frame, kind.index):
+    if along_kernel is None and deflation is not None and not deflation.moved \
+            and deflation.outcome is not DeflationOutcome.ALREADY_THERE \
+            and kind.family is Family.A and kind.index >= 2 and higher_a_shift(frame, kind.index) is not None:
         # the deflation stopped short (A5 and beyond need more steps) and the residual of (f, grad f) can be at
         # rounding 1e-10 off (term sizes at |p| of 1e2 dwarf the offset's terms): an A5 read there is an A4
         # with a tiny v^5 term, and next to it the data fit a higher A_k as well (scale-free, in the frame)
@@ -281,6 +304,100 @@ def _hypersurface_point(polynomial, computed, user_point, scaling, rng, real, an
     if anatomy.hypersurface.corank == 0 and anatomy.multiplicity not in (None, 2):
         anatomy.notes.append(f"a Morse point has multiplicity 2, the local witness set counted {anatomy.multiplicity}")
     return anatomy
+
+
+#: Moves along the kernel (each a first-order step: the error after it is about its square, frame units).
+_KERNEL_MOVES = 4
+
+
+def _along_the_kernel(polynomial, computed, hypersurface, frame, real):
+    """Move a point read as A_k onto the higher A_j next to it, if one fits (:func:`higher_a_shift`).
+
+    Read d off an A_j, the point looks like an A_(j-1) with a small v^j term; the first-order position s of the
+    A_j on the kernel axis is where the v^j coefficient of the reduced function vanishes, a regular zero (the
+    rank of the kernel is kept, unlike the deflation's doubling systems, which A5 needed 4 steps and 55 s for).
+    The point is moved to p + M s and read again, up to ``_KERNEL_MOVES`` times, until no higher A fits next to
+    it. The move is kept only when the reading there is an A of higher index than the given one and no higher
+    A fits next to it any more: the two readings then agree on where the singular point is. No length enters.
+
+    Returns
+    -------
+    (computed point, HypersurfaceAnatomy, LocalFrame) or None
+        None when no higher A fits next to the point or the moves did not settle.
+    """
+    kind = hypersurface.type
+    if kind.family is not Family.A or kind.index is None or kind.index < 2:
+        return None
+    start_index = kind.index
+    for _ in range(_KERNEL_MOVES):
+        shift = higher_a_shift(frame, kind.index)
+        if shift is None:
+            return (computed, hypersurface, frame) if kind.index > start_index else None
+        step = frame.matrix @ shift
+        computed = _onto_range_critical(polynomial, computed + (step.real.astype(complex) if real else step),
+                                        frame.matrix[:, :frame.rank], real)
+        hypersurface, frame = anatomy_in_frame(polynomial, computed)
+        kind = hypersurface.type
+        if kind.family is not Family.A or kind.index is None or kind.index < start_index:
+            return None
+    return (computed, hypersurface, frame) if higher_a_shift(frame, kind.index) is None \
+        and kind.index > start_index else None
+
+
+def _onto_higher_corank(polynomial, computed, hypersurface, frame, real):
+    """Move a point whose Hessian has a small value next to a point of higher corank onto it, if one fits
+    (:func:`corank_jump_shift`), and read again there.
+
+    Kept only when the reading there is decided, of higher corank, and no further jump fits next to it (the two
+    readings agree on where the singular point is); the Hessian's other range directions are then solved for
+    by Newton (:func:`_onto_range_critical`). D4 x^3 + y^3 after a change of condition 1e3, read 1e-10 off with
+    a Hessian value of 1.3e-11 (kept by the rank rule), was typed A4.
+
+    Returns
+    -------
+    (computed point, HypersurfaceAnatomy, LocalFrame) or None
+    """
+    if hypersurface.corank == 0 or hypersurface.type.family is Family.UNDECIDED:
+        return None
+    shift = corank_jump_shift(frame)
+    if shift is None:
+        return None
+    step = frame.matrix @ shift
+    moved = computed + (step.real.astype(complex) if real else step)
+    again, moved_frame = anatomy_in_frame(polynomial, moved)
+    if again.corank <= hypersurface.corank or not again.type.simple:
+        return None
+    moved = _onto_range_critical(polynomial, moved, moved_frame.matrix[:, :moved_frame.rank], real)
+    again, moved_frame = anatomy_in_frame(polynomial, moved)
+    if again.corank <= hypersurface.corank or not again.type.simple or corank_jump_shift(moved_frame) is not None:
+        return None
+    return moved, again, moved_frame
+
+
+#: Newton steps on the range part of the gradient after a move along the kernel (quadratic: the whitened range
+#: Hessian is about the identity).
+_RANGE_STEPS = 2
+
+
+def _onto_range_critical(polynomial, point, range_directions, real):
+    """Newton on the gradient's components along the Hessian's range, R^T grad f(p + R w) = 0 in w.
+
+    The frame drops f's linear terms, so a move along the kernel leaves an offset across it (A5 read 1e-10 off
+    kept that offset); along the range the zero is regular (R^T H R is the whitened identity).
+    """
+    if range_directions.shape[1] == 0:
+        return point
+    gradient = [q.numeric() for q in polynomial.gradient()]
+    for _ in range(_RANGE_STEPS):
+        values = np.array([complex(q.evaluate(point)) if not q.is_zero() else 0j for q in gradient])
+        block = range_directions.T @ frame_hessian(polynomial, point) @ range_directions
+        try:
+            w = -np.linalg.solve(block, range_directions.T @ values)
+        except np.linalg.LinAlgError:
+            return point
+        step = range_directions @ w
+        point = point + (step.real.astype(complex) if real else step)
+    return point
 
 
 def _local_anatomy(local, frame, origin, user_point, scaling, rng, real, angles, options):
