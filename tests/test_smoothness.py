@@ -222,9 +222,10 @@ def _six_bar_singular_points():
 
 @pytest.mark.parametrize("seed", [0, 1, 2])
 def test_clear_rank_drops_are_settled_in_double_with_the_same_verdicts(seed, monkeypatch):
-    # The batched double-precision test settles only clear "smooth" decisions; a rank drop at the point
-    # is always escalated (refined at higher precision), and the verdicts equal those of the mpmath
-    # escalation alone.
+    # The batched double-precision test settles clear decisions: "smooth" far from a regular rank-drop zero,
+    # "singular" at one where the rank-drop system is well conditioned (decision 0074). Cusps and tacnodes
+    # (Milnor number > 1: that system is not regular there) are escalated. Every verdict equals the one of
+    # the mpmath escalation alone.
     from numag.singular import smoothness
     system, singular = _six_bar_singular_points()
     rng = np.random.default_rng(seed)
@@ -233,17 +234,26 @@ def test_clear_rank_drops_are_settled_in_double_with_the_same_verdicts(seed, mon
     original = smoothness._Checker.escalate
     monkeypatch.setattr(smoothness._Checker, "escalate",
                         lambda self, *args: escalations.append(1) or original(self, *args))
-    assert [v.verdict for v in check_points(system, nearby, seed=seed).points] == ["singular"] * 4
-    assert len(escalations) == 4
-    # a node at 0 (common practice, no source); a Grashof change-point four-bar folded at A = (-2, 0),
-    # B = (1, 0) (tests/corpus.py, linkages: common practice, no source), and smooth points of both
+    settled = check_points(system, nearby, seed=seed).points
+    assert [v.verdict for v in settled] == ["singular"] * 4 and not escalations
+    for verdict, exact in zip(settled, singular):  # the folds themselves, to double rounding
+        assert np.linalg.norm(verdict.point - exact) <= 1e-12 * np.linalg.norm(exact)
+    # a node at 0, a cusp and a tacnode at 0 (common practice, no source); a Grashof change-point four-bar
+    # folded at A = (-2, 0), B = (1, 0) (tests/corpus.py, linkages: common practice, no source), and smooth
+    # points of each
     node = parse_system(["y^2 - x^2*(x + 1)"], ["x", "y"])
+    cusp = parse_system(["y^2 - x^3"], ["x", "y"])
+    tacnode = parse_system(["y^2 - x^4"], ["x", "y"])
     four_bar = parse_system(["ax^2 + ay^2 - 4", "(bx - 4)^2 + by^2 - 9", "(ax - bx)^2 + (ay - by)^2 - 9"],
                             ["ax", "ay", "bx", "by"])
     crank_up = [0, 2, 2 + 2 / np.sqrt(5) * 1, 1 + 2 / np.sqrt(5) * 2]  # |B-(4,0)| = |B-A| = 3
-    cases = [(node, [[1e-10, 0], [3, 6]]), (four_bar, [[-2, 1e-10, 1, 0], crank_up])]
+    cases = [(node, [[1e-10, 0], [3, 6]]), (four_bar, [[-2, 1e-10, 1, 0], crank_up]),
+             (cusp, [[1e-9, 0], [4, 8]]), (tacnode, [[1e-8, 0], [1, 1]])]
     escalations.clear()
     fast = [[v.verdict for v in check_points(s, points, seed=seed).points] for s, points in cases]
-    assert fast == [["singular", "smooth"]] * 2 and len(escalations) == 2  # the two singular points only
+    assert fast == [["singular", "smooth"]] * 4 and len(escalations) == 2  # the cusp and the tacnode only
+    escalations.clear()
     monkeypatch.setattr(smoothness._Checker, "settle_in_double", lambda self, *args, **kwargs: None)
     assert [[v.verdict for v in check_points(s, points, seed=seed).points] for s, points in cases] == fast
+    assert [v.verdict for v in check_points(system, nearby, seed=seed).points] == ["singular"] * 4
+    assert len(escalations) == 4 + 4

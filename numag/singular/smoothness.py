@@ -84,6 +84,10 @@ _DOUBLE_CLEAR_VALUE = 1e-6
 #: this multiple of it (smooth, with a c-th singular value above _DOUBLE_CLEAR_SMOOTH). Anything else
 #: is in doubt and goes to mpmath at rising precision.
 _DOUBLE_NEAR, _DOUBLE_FAR, _DOUBLE_CLEAR_SMOOTH = 0.5, 100.0, 1e-8
+#: A rank drop at the point is settled in double only where the rank-drop system's scaled Jacobian has
+#: smallest / largest singular value at least this (decision 0074): 0.02-1 at nodes and linkage folds,
+#: 1e-7 at a cusp, 1e-10 at a tacnode (where Newton in double stops short of the point).
+_DOUBLE_REGULAR = 1e-4
 
 
 @dataclass(frozen=True)
@@ -395,16 +399,18 @@ class _Checker:
         return drop.point_of(z)
 
     # -- all suspect points at once, in double ---------------------------------------------------
-    def settle_in_double(self, given, refined, values, scales, through, positions=None):
+    def settle_in_double(self, given, refined, values, scales, through, positions=None, exact=None):
         """Decide the suspect points whose decision is clear in double precision, all in one batch.
 
         For each codimension, one batched Gauss-Newton on F = 0, rank J <= c - 1
         (:func:`numag.numeric.refine.rank_drop_points`) from every suspect point. Clear: the rank-drop
         system converged to a regular zero (residual at double rounding, the (c-1)-th singular value
-        clearly nonzero there), either at the point (singular) or far from it with the point's c-th
-        value clearly nonzero (smooth). The outcomes go to :attr:`settled`; the other suspect points
-        are escalated in mpmath by :meth:`check` as before. ``positions``: each point's position in the
-        batch :meth:`check` is called with (default: its own index).
+        clearly nonzero there), either at the point (singular, when the rank-drop system's own Jacobian is
+        well conditioned there: decision 0074) or far from it with the point's c-th value clearly nonzero
+        (smooth). The outcomes go to :attr:`settled`; the other suspect points are escalated in mpmath by
+        :meth:`check` as before. ``positions``: each point's position in the batch :meth:`check` is called
+        with (default: its own index). ``exact``: the exact coordinates of each point, or None; a point given
+        exactly is refined from them at higher precision, so its rank drop is left to the escalation.
         """
         number = list(range(len(refined))) if positions is None else [int(k) for k in positions]
         double_zero = zero_tolerance(DOUBLE_DIGITS, (self.m, self.n))
@@ -415,8 +421,9 @@ class _Checker:
                     self.options.suspect_threshold:
                 suspects.setdefault(codim, []).append(position)
         for codim, positions in suspects.items():
-            drops = rank_drop_points(self.system, refined[positions], codim - 1,
-                                     tolerance=0.1 * _DOUBLE_SETTLED_RESIDUAL)  # polish while it improves
+            # tolerance 0: Newton goes on while a step reduces the residual, so a regular zero is polished to
+            # rounding (quadratic convergence: one or two steps past the settled residual)
+            drops = rank_drop_points(self.system, refined[positions], codim - 1, tolerance=0.0)
             at_drop, scales_at_drop = self.scaled_values_double(drops.points)
             for row, position in enumerate(positions):
                 regular = (drops.residuals[row] <= _DOUBLE_SETTLED_RESIDUAL and at_drop[row][codim - 1] <= double_zero
@@ -426,11 +433,17 @@ class _Checker:
                 found = drops.points[row]
                 distance = self.distance(given[position], found)
                 tolerance = self.tolerance_for(given[position])
-                # Only "smooth" is settled here. A rank drop found in double at the point is left to the
-                # escalation: at a singular point of Milnor number > 1 (a tacnode) the rank-drop system is
-                # not regular, Gauss-Newton stops 1e-5 away, and that point (never refined) split one tacnode
-                # into two pieces and lost its realness (tests/test_trust.py, bitangent conics).
-                if distance >= _DOUBLE_FAR * tolerance and values[position][codim - 1] >= _DOUBLE_CLEAR_SMOOTH:
+                # A rank drop at the point is settled only where the rank-drop system is regular there (its
+                # Jacobian well conditioned: a node, a linkage's fold). At a singular point of Milnor number > 1
+                # (a tacnode, a cusp) it is not: Gauss-Newton stops 1e-5 away with a tiny residual, and that
+                # point split one tacnode into two pieces and lost its realness (tests/test_trust.py, bitangent
+                # conics; decision 0038's amendment); those, and points given exactly, go to the escalation.
+                if (distance <= _DOUBLE_NEAR * tolerance and drops.conditioning[row] >= _DOUBLE_REGULAR
+                        and (exact is None or exact[position] is None)):
+                    self.settled[number[position]] = _Decision(
+                        outcome=Verdict.SINGULAR, point=found, values=at_drop[row], scales=scales_at_drop[row],
+                        digits=DOUBLE_DIGITS, drop=found, drop_distance=distance)
+                elif distance >= _DOUBLE_FAR * tolerance and values[position][codim - 1] >= _DOUBLE_CLEAR_SMOOTH:
                     self.settled[number[position]] = _Decision(
                         outcome=Verdict.SMOOTH, point=refined[position], values=values[position],
                         scales=scales[position], digits=DOUBLE_DIGITS, drop=found, drop_distance=distance)
@@ -789,7 +802,7 @@ def _check_in_units(system, given, exact, options, seed, rng, decomposition, sca
                    for k in range(len(given))]
     checker.settle_in_double(given[~off], refined[~off], [values[k] for k in np.nonzero(~off)[0]],
                              [scales[k] for k in np.nonzero(~off)[0]], [through[k] for k in np.nonzero(~off)[0]],
-                             positions=np.nonzero(~off)[0])
+                             positions=np.nonzero(~off)[0], exact=[exact[k] for k in np.nonzero(~off)[0]])
     return [_off_verdict(checker, k + 1, given[k], refined[k], float(residual_given[k]), float(moved[k]),
                          float(tolerances[k]), projection.kinds[k], float(projection.after[k]), values[k],
                          scales[k])
