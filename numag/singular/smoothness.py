@@ -57,7 +57,7 @@ from ..numeric.refine import (RankDropSystem, ZeroKind, mp_gauss_newton, newton_
                               rank_drop_points)
 from ..numeric.scaling import Scaling
 from ..numeric.seeds import random_state
-from ..witness.decompose import components_through
+from ..witness.decompose import components_through_points
 from .kinds import LocalDimensionSource, Verdict
 from .nearness import backward_error, input_tolerance, nearest_backward_error
 
@@ -798,8 +798,10 @@ def _check_in_units(system, given, exact, options, seed, rng, decomposition, sca
         values[k], scales[k] = _values_at_given(checker, given[k])
     through = [None] * len(given)
     if decomposition is not None and options.local_dimension is None:
-        through = [None if off[k] else components_through(decomposition, scaling.to_user(refined[k]), seed=seed + k)
-                   for k in range(len(given))]
+        on = np.nonzero(~off)[0]  # one shared call: a decomposition of X with one component needs no homotopy
+        for k, hits in zip(on, components_through_points(decomposition, [scaling.to_user(refined[k]) for k in on],
+                                                         [seed + k for k in on])):
+            through[k] = hits
     checker.settle_in_double(given[~off], refined[~off], [values[k] for k in np.nonzero(~off)[0]],
                              [scales[k] for k in np.nonzero(~off)[0]], [through[k] for k in np.nonzero(~off)[0]],
                              positions=np.nonzero(~off)[0], exact=[exact[k] for k in np.nonzero(~off)[0]])
