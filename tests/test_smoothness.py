@@ -257,3 +257,23 @@ def test_clear_rank_drops_are_settled_in_double_with_the_same_verdicts(seed, mon
     assert [[v.verdict for v in check_points(s, points, seed=seed).points] for s, points in cases] == fast
     assert [v.verdict for v in check_points(system, nearby, seed=seed).points] == ["singular"] * 4
     assert len(escalations) == 4 + 4
+
+
+@pytest.mark.parametrize("seed", [0, 1, 2])
+def test_non_reduced_sampling_of_many_points_in_one_batch_matches_one_at_a_time(seed):
+    # (x^2 + y^2 - 1)^2 (y - 2) = 0: the circle counted twice (non-reduced along it) and the line y = 2 meeting
+    # it nowhere; (x^2 + y^2 - 1)(y - x) has nodes where the line crosses the circle (common practice, no
+    # source). The sampling of all singular points shares batches (decision 0074); each verdict is the one of
+    # its own call.
+    thick = parse_system(["(x^2 + y^2 - 1)^2*(y - 2)"], ["x", "y"])
+    crossing = parse_system(["(x^2 + y^2 - 1)*(y - x)"], ["x", "y"])
+    r = 1 / np.sqrt(2)
+    cases = [(thick, [[0.6, 0.8], [0, 1], [3, 2]]), (crossing, [[r, r], [-r, -r], [0, 0], [0.6, 0.8]])]
+    for system, points in cases:
+        together = [v.verdict for v in check_points(system, points, seed=seed).points]
+        alone = [check_points(system, [point], seed=seed).points[0].verdict for point in points]
+        assert together == alone
+    assert [v.verdict for v in check_points(cases[0][0], cases[0][1], seed=seed).points] == \
+        ["non-reduced", "non-reduced", "smooth"]
+    assert [v.verdict for v in check_points(cases[1][0], cases[1][1], seed=seed).points] == \
+        ["singular", "singular", "smooth", "smooth"]

@@ -306,6 +306,22 @@ class _Decision:
     drop_distance: float | None = None
 
 
+@dataclass
+class _Judged:
+    """A point's rank decision and what :meth:`_Checker.check` builds its verdict from."""
+
+    decision: _Decision
+    verdict: Verdict | None
+    rank: int
+    codim: int | None
+    source: LocalDimensionSource
+    notes: list
+    escalated: bool
+    final_values: np.ndarray
+    digits: int
+    zero: float
+
+
 def _size(point):
     return math.sqrt(1.0 + float(np.linalg.norm(point)) ** 2)
 
@@ -318,6 +334,8 @@ class _Checker:
         self.options = options
         self.rng = rng
         self.settled = {}  # position -> outcome decided in double for a batch (settle_in_double)
+        self.judged = {}  # position -> _Judged, decided for a whole batch before its sampling
+        self.drops_near = {}  # position -> the non-reduced sampling's answer, for a whole batch at once
         self.batch = BatchEvaluator(system.polynomials)
         self.precise = PrecisionEvaluator(system.polynomials)
         self.m, self.n = system.n_equations, system.n_variables
@@ -448,17 +466,27 @@ class _Checker:
                         outcome=Verdict.SMOOTH, point=refined[position], values=values[position],
                         scales=scales[position], digits=DOUBLE_DIGITS, drop=found, drop_distance=distance)
 
-    def rank_drops_near_in_double(self, informative, codim, radius):
-        """True or False when double precision decides :meth:`rank_drops_near` clearly, else None."""
-        drops = rank_drop_points(self.system, np.array(informative), codim - 1,
+    def rank_drops_near_in_double(self, groups, codim, radii):
+        """For each group of samples (of one codimension): True or False when double precision decides
+        :meth:`rank_drops_near` clearly, else None. All samples in one batched Gauss-Newton."""
+        if not groups:
+            return []
+        drops = rank_drop_points(self.system, np.concatenate([np.array(g) for g in groups]), codim - 1,
                                  tolerance=0.1 * _DOUBLE_SETTLED_RESIDUAL)
-        settled = drops.residuals <= _DOUBLE_SETTLED_RESIDUAL
-        distances = np.array([self.distance(found, sample) for found, sample in zip(drops.points, informative)])
-        if np.any(settled & (distances > 0.1 * radius)):
-            return False  # the rank drops only well away from a sample: not at every nearby point
-        if np.all(settled & (distances <= 1e-4 * radius)):
-            return True
-        return None
+        answers, first = [], 0
+        for informative, radius in zip(groups, radii):
+            rows = slice(first, first + len(informative))
+            first += len(informative)
+            settled = drops.residuals[rows] <= _DOUBLE_SETTLED_RESIDUAL
+            distances = np.array([self.distance(found, sample)
+                                  for found, sample in zip(drops.points[rows], informative)])
+            if np.any(settled & (distances > 0.1 * radius)):
+                answers.append(False)  # the rank drops only well away from a sample: not at every nearby point
+            elif np.all(settled & (distances <= 1e-4 * radius)):
+                answers.append(True)
+            else:
+                answers.append(None)
+        return answers
 
     # -- one point ---------------------------------------------------------------------------------
     def escalate(self, given, exact_given, refined, codim):
@@ -516,21 +544,45 @@ class _Checker:
         Samples that Newton pulls back onto ``point`` itself say nothing and are
         discarded; without enough informative samples the answer is False.
         """
+        return self.rank_drops_near_all([(point, codim)])[0]
+
+    def rank_drops_near_all(self, items):
+        """:meth:`rank_drops_near` for many ``(point, codim)`` pairs, in shared batches (decision 0074).
+
+        The samples are drawn point by point in order (the random numbers of one call per point), moved onto X
+        in one batch and tested in double in one batch per codimension; mpmath only for a point that leaves open.
+        """
         count = self.options.neighbour_samples
-        if count == 0:
-            return False
-        radius = self.options.neighbour_radius * _size(point)
+        if count == 0 or not items:
+            return [False] * len(items)
         tries = 4 * count
-        directions = self.rng.standard_normal((tries, self.n)) + 1j * self.rng.standard_normal((tries, self.n))
-        directions /= np.linalg.norm(directions, axis=1)[:, None]
-        samples = project_to_variety(self.system, self.batch, point[None, :] + radius * directions)
-        informative = [sample for sample, ok in zip(samples.points, samples.converged)
-                       if ok and self.distance(sample, point) >= 0.1 * radius][:count]
-        if len(informative) < count:
-            return False
-        decided = self.rank_drops_near_in_double(informative, codim, radius)
-        if decided is not None:
-            return decided
+        starts, radii = [], []
+        for point, _ in items:
+            radii.append(self.options.neighbour_radius * _size(point))
+            directions = self.rng.standard_normal((tries, self.n)) + 1j * self.rng.standard_normal((tries, self.n))
+            directions /= np.linalg.norm(directions, axis=1)[:, None]
+            starts.append(np.asarray(point)[None, :] + radii[-1] * directions)
+        samples = project_to_variety(self.system, self.batch, np.concatenate(starts))
+        answers, informative_of = [None] * len(items), [None] * len(items)
+        for j, (point, _) in enumerate(items):
+            rows = slice(j * tries, (j + 1) * tries)
+            informative_of[j] = [sample for sample, ok in zip(samples.points[rows], samples.converged[rows])
+                                 if ok and self.distance(sample, point) >= 0.1 * radii[j]][:count]
+            if len(informative_of[j]) < count:
+                answers[j] = False
+        for codim in sorted({codim for _, codim in items}):
+            open_items = [j for j, (_, c) in enumerate(items) if c == codim and answers[j] is None]
+            decided = self.rank_drops_near_in_double([informative_of[j] for j in open_items], codim,
+                                                     [radii[j] for j in open_items])
+            for j, answer in zip(open_items, decided or [None] * len(open_items)):
+                answers[j] = answer
+        for j, (_, codim) in enumerate(items):
+            if answers[j] is None:
+                answers[j] = self._rank_drops_at_samples_mp(informative_of[j], codim, radii[j])
+        return answers
+
+    def _rank_drops_at_samples_mp(self, informative, codim, radius):
+        """The sampling test in mpmath (30 digits): True when the rank drops at (next to) every sample."""
         with mpmath.mp.workdps(40):
             for sample in informative:
                 found = self.find_rank_drop([mpmath.mpc(v) for v in sample], codim - 1, mpmath.mp, 30)
@@ -538,7 +590,8 @@ class _Checker:
                     return False
         return True
 
-    def check(self, index, given, exact_given, refined, residual, values, scales, through=None, position=None):
+    def decide(self, given, exact_given, refined, values, scales, through=None, position=None):
+        """The rank decision at one point before the non-reduced sampling (a :class:`_Judged`)."""
         opts = self.options
         double_zero = zero_tolerance(DOUBLE_DIGITS, (self.m, self.n))
         rank = numerical_rank(values, double_zero)
@@ -576,7 +629,27 @@ class _Checker:
             notes.append(f"The Jacobian has rank {rank}, more than the codimension {codim}: the local "
                          f"dimension used ({self.system.ambient_dimension - codim}) is larger than the tangent "
                          "space allows; the local dimension is wrong for this point.")
-        if verdict is Verdict.SINGULAR and self.rank_drops_near(np.asarray(decision.point), codim):
+        return _Judged(decision=decision, verdict=verdict, rank=rank, codim=codim, source=source, notes=notes,
+                       escalated=escalated, final_values=final_values, digits=digits, zero=zero)
+
+    def check(self, index, given, exact_given, refined, residual, values, scales, through=None, position=None):
+        """The verdict at one point (:meth:`decide`, then the non-reduced sampling), as a :class:`PointVerdict`.
+
+        ``position``: the point's place in a batch whose decisions (:attr:`judged`) and sampling answers
+        (:attr:`drops_near`) were worked out together; a point not found there is decided here.
+        """
+        opts = self.options
+        judged = self.judged.pop(position, None) if position is not None else None
+        if judged is None:
+            judged = self.decide(given, exact_given, refined, values, scales, through, position)
+        decision, verdict, rank, codim = judged.decision, judged.verdict, judged.rank, judged.codim
+        source, notes, escalated = judged.source, judged.notes, judged.escalated
+        final_values, digits, zero = judged.final_values, judged.digits, judged.zero
+        if verdict is Verdict.SINGULAR:
+            near = self.drops_near.pop(position, None) if position is not None else None
+            if near is None:
+                near = self.rank_drops_near(np.asarray(decision.point), codim)
+        if verdict is Verdict.SINGULAR and near:
             verdict = Verdict.NON_REDUCED
             notes.append("The rank also drops at every sampled nearby point of X: the equations define X "
                          "with multiplicity > 1 here (generically non-reduced), so the Jacobian cannot see "
@@ -805,6 +878,14 @@ def _check_in_units(system, given, exact, options, seed, rng, decomposition, sca
     checker.settle_in_double(given[~off], refined[~off], [values[k] for k in np.nonzero(~off)[0]],
                              [scales[k] for k in np.nonzero(~off)[0]], [through[k] for k in np.nonzero(~off)[0]],
                              positions=np.nonzero(~off)[0], exact=[exact[k] for k in np.nonzero(~off)[0]])
+    # decisions first, then the non-reduced sampling of every singular one in shared batches (the same random
+    # draws, in the same order, as one sampling per point), then the verdicts
+    for k in np.nonzero(~off)[0]:
+        checker.judged[k] = checker.decide(given[k], exact[k], refined[k], values[k], scales[k], through[k], position=k)
+    singular = [k for k, judged in checker.judged.items() if judged.verdict is Verdict.SINGULAR]
+    answers = checker.rank_drops_near_all([(np.asarray(checker.judged[k].decision.point), checker.judged[k].codim)
+                                           for k in singular])
+    checker.drops_near.update(zip(singular, answers))
     return [_off_verdict(checker, k + 1, given[k], refined[k], float(residual_given[k]), float(moved[k]),
                          float(tolerances[k]), projection.kinds[k], float(projection.after[k]), values[k],
                          scales[k])
