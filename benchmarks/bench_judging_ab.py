@@ -27,6 +27,9 @@ import sys
 import checkout  # noqa: F401  (this checkout's numag, not an installed one)
 from checkout import ROOT
 
+sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
+from bench_start_ab import checkout_roots  # noqa: E402
+
 _CHILD = r"""
 import json, sys, time
 sys.path.insert(0, "benchmarks")
@@ -84,10 +87,7 @@ def main():
     parser.add_argument("--repeats", type=int, default=3)
     parser.add_argument("--cases", default="six-bar,T9/T11,folds")
     args = parser.parse_args()
-    roots = {"before": os.path.abspath(args.before), "after": os.path.abspath(args.after)}
-    for root in roots.values():
-        if not os.path.isfile(os.path.join(root, "numag", "__init__.py")):
-            raise SystemExit(f"{root}: not a numag checkout (no numag/__init__.py)")
+    roots = checkout_roots(args.before, args.after)
     print(f"load average {os.getloadavg()[0]:.1f}; median of {args.repeats} runs; CPU seconds (start-up excluded)")
     for label, root in roots.items():
         print(f"  {label}: {root}")
