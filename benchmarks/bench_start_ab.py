@@ -39,16 +39,22 @@ def _timed(root, arguments, cache):
     return seconds, usage.ru_utime + usage.ru_stime
 
 
+def checkout_roots(before, after):
+    """``{"before": path, "after": path}`` of two numag checkouts (SystemExit naming a folder that is not one)."""
+    roots = {"before": os.path.abspath(before), "after": os.path.abspath(after)}
+    for root in roots.values():
+        if not os.path.isfile(os.path.join(root, "numag", "__init__.py")):
+            raise SystemExit(f"{root}: not a numag checkout (no numag/__init__.py)")
+    return roots
+
+
 def main():
     parser = argparse.ArgumentParser(description=__doc__, formatter_class=argparse.RawDescriptionHelpFormatter)
     parser.add_argument("--before", required=True, help="the other checkout (e.g. the main branch's worktree)")
     parser.add_argument("--after", default=str(ROOT), help="this checkout (default)")
     parser.add_argument("--repeats", type=int, default=5)
     args = parser.parse_args()
-    roots = {"before": os.path.abspath(args.before), "after": os.path.abspath(args.after)}
-    for root in roots.values():
-        if not os.path.isfile(os.path.join(root, "numag", "__init__.py")):
-            raise SystemExit(f"{root}: not a numag checkout (no numag/__init__.py)")
+    roots = checkout_roots(args.before, args.after)
     print(f"load average {os.getloadavg()[0]:.1f}; median of {args.repeats}; wall s / CPU s")
     for label, root in roots.items():
         print(f"  {label}: {root}")

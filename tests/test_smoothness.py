@@ -224,9 +224,10 @@ def _six_bar_singular_points():
 
 @pytest.mark.parametrize("seed", [0, 1, 2])
 def test_clear_rank_drops_are_settled_in_double_with_the_same_verdicts(seed, monkeypatch):
-    # The batched double-precision test settles only clear "smooth" decisions; a rank drop at the point
-    # is always escalated (refined at higher precision), and the verdicts equal those of the mpmath
-    # escalation alone.
+    # The batched double-precision test settles clear decisions: "smooth" far from a regular rank-drop zero,
+    # "singular" at one where the rank-drop system is well conditioned (decision 0074). Cusps and tacnodes
+    # (Milnor number > 1: that system is not regular there) are escalated. Every verdict equals the one of
+    # the mpmath escalation alone.
     from numag.singular import smoothness
     system, singular = _six_bar_singular_points()
     rng = np.random.default_rng(seed)
@@ -236,17 +237,47 @@ def test_clear_rank_drops_are_settled_in_double_with_the_same_verdicts(seed, mon
     monkeypatch.setattr(smoothness._Checker, "escalate",
                         lambda self, *args: escalations.append(1) or original(self, *args))
     candidates = CheckOptions(point_tolerance=1e-6)  # the locus's tolerance for computed candidates
-    assert [v.verdict for v in check_points(system, nearby, candidates, seed=seed).points] == ["singular"] * 4
-    assert len(escalations) == 4
-    # a node at 0 (common practice, no source); a Grashof change-point four-bar folded at A = (-2, 0),
-    # B = (1, 0) (tests/corpus.py, linkages: common practice, no source), and smooth points of both
+    settled = check_points(system, nearby, candidates, seed=seed).points
+    assert [v.verdict for v in settled] == ["singular"] * 4 and not escalations
+    for verdict, exact in zip(settled, singular):  # the folds themselves, to double rounding
+        assert np.linalg.norm(verdict.point - exact) <= 1e-12 * np.linalg.norm(exact)
+    # a node at 0, a cusp and a tacnode at 0 (common practice, no source); a Grashof change-point four-bar
+    # folded at A = (-2, 0), B = (1, 0) (tests/corpus.py, linkages: common practice, no source), and smooth
+    # points of each
     node = parse_system(["y^2 - x^2*(x + 1)"], ["x", "y"])
+    cusp = parse_system(["y^2 - x^3"], ["x", "y"])
+    tacnode = parse_system(["y^2 - x^4"], ["x", "y"])
     four_bar = parse_system(["ax^2 + ay^2 - 4", "(bx - 4)^2 + by^2 - 9", "(ax - bx)^2 + (ay - by)^2 - 9"],
                             ["ax", "ay", "bx", "by"])
     crank_up = [0, 2, 2 + 2 / np.sqrt(5) * 1, 1 + 2 / np.sqrt(5) * 2]  # |B-(4,0)| = |B-A| = 3
-    cases = [(node, [[1e-10, 0], [3, 6]]), (four_bar, [[-2, 1e-10, 1, 0], crank_up])]
+    cases = [(node, [[1e-10, 0], [3, 6]]), (four_bar, [[-2, 1e-10, 1, 0], crank_up]),
+             (cusp, [[1e-9, 0], [4, 8]]), (tacnode, [[1e-8, 0], [1, 1]])]
     escalations.clear()
     fast = [[v.verdict for v in check_points(s, points, candidates, seed=seed).points] for s, points in cases]
-    assert fast == [["singular", "smooth"]] * 2 and len(escalations) == 2  # the two singular points only
+    assert fast == [["singular", "smooth"]] * 4 and len(escalations) == 2  # the cusp and the tacnode only
+    escalations.clear()
     monkeypatch.setattr(smoothness._Checker, "settle_in_double", lambda self, *args, **kwargs: None)
     assert [[v.verdict for v in check_points(s, points, candidates, seed=seed).points] for s, points in cases] == fast
+    assert [v.verdict for v in check_points(system, nearby, candidates, seed=seed).points] == ["singular"] * 4
+    assert len(escalations) == 4 + 4
+
+
+@pytest.mark.parametrize("seed", [0, 1, 2])
+def test_non_reduced_sampling_of_many_points_in_one_batch_matches_one_at_a_time(seed):
+    # (x^2 + y^2 - 1)^2 (y - 2) = 0: the circle counted twice (non-reduced along it) and the line y = 2 meeting
+    # it nowhere; (x^2 + y^2 - 1)(y - x) has nodes where the line crosses the circle (common practice, no
+    # source). The sampling of all singular points shares batches (decision 0074); each verdict is the one of
+    # its own call.
+    candidates = CheckOptions(point_tolerance=1e-6)  # computed points: the locus's tolerance
+    thick = parse_system(["(x^2 + y^2 - 1)^2*(y - 2)"], ["x", "y"])
+    crossing = parse_system(["(x^2 + y^2 - 1)*(y - x)"], ["x", "y"])
+    r = 1 / np.sqrt(2)
+    cases = [(thick, [[0.6, 0.8], [0, 1], [3, 2]]), (crossing, [[r, r], [-r, -r], [0, 0], [0.6, 0.8]])]
+    for system, points in cases:
+        together = [v.verdict for v in check_points(system, points, candidates, seed=seed).points]
+        alone = [check_points(system, [point], candidates, seed=seed).points[0].verdict for point in points]
+        assert together == alone
+    assert [v.verdict for v in check_points(cases[0][0], cases[0][1], candidates, seed=seed).points] == \
+        ["non-reduced", "non-reduced", "smooth"]
+    assert [v.verdict for v in check_points(cases[1][0], cases[1][1], candidates, seed=seed).points] == \
+        ["singular", "singular", "smooth", "smooth"]

@@ -589,11 +589,17 @@ class RankDropResult:
         Scaled residual of the whole rank-drop system at or below the tolerance.
     residuals : ndarray, shape (P,)
         Euclidean norm of that scaled residual.
+    conditioning : ndarray, shape (P,)
+        Smallest over largest singular value of the rank-drop system's scaled Jacobian in (x, W) where
+        Newton ended (0 when it has fewer rows than unknowns): clearly above 0 at a regular zero (a node,
+        a fold of a linkage), where Newton's answer is accurate to rounding times its inverse; about 0 where
+        the zero is not regular (a cusp, a tacnode: Milnor number > 1), where Newton stalls short of it.
     """
 
     points: np.ndarray
     converged: np.ndarray
     residuals: np.ndarray
+    conditioning: np.ndarray
 
 
 def rank_drop_points(system, points, rank, tolerance=None, max_iterations=25):
@@ -632,7 +638,7 @@ def rank_drop_points(system, points, rank, tolerance=None, max_iterations=25):
     count, n, m = len(points), system.n_variables, system.n_equations
     k = n - rank
     if count == 0:
-        return RankDropResult(points, np.zeros(0, dtype=bool), np.zeros(0))
+        return RankDropResult(points, np.zeros(0, dtype=bool), np.zeros(0), np.zeros(0))
     values_evaluator = BatchEvaluator(system.polynomials)
     second_evaluator = BatchEvaluator([d for row in system.jacobian_polynomials() for d in row])
     value_sizes, row_sizes = TermSizes(system.polynomials, system.projective).both(points)
@@ -701,4 +707,18 @@ def rank_drop_points(system, points, rank, tolerance=None, max_iterations=25):
             improved[np.nonzero(pending)[0][better]] = True
         active[index[~improved]] = False  # stalled: no damped step reduced the residual
         active &= norms > tolerance
-    return RankDropResult(x, norms <= tolerance, norms)
+    return RankDropResult(x, norms <= tolerance, norms, _conditioning(derivative))
+
+
+def _conditioning(matrices):
+    """Smallest over largest singular value of each matrix of a stack (0: fewer rows than columns, or not
+    finite), by one batched SVD."""
+    count, rows, columns = matrices.shape
+    conditioning = np.zeros(count)
+    finite = np.all(np.isfinite(matrices.reshape(count, -1)), axis=1)
+    if rows < columns or not np.any(finite):
+        return conditioning
+    values = np.linalg.svd(matrices[finite], compute_uv=False)
+    largest = values[:, 0]
+    conditioning[finite] = np.where(largest > 0, values[:, -1] / np.where(largest > 0, largest, 1.0), 0.0)
+    return conditioning

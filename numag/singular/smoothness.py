@@ -62,7 +62,7 @@ from ..numeric.refine import (RankDropSystem, ZeroKind, mp_gauss_newton, newton_
                               rank_drop_points)
 from ..numeric.scaling import Scaling
 from ..numeric.seeds import random_state
-from ..witness.decompose import components_through
+from ..witness.decompose import components_through_points
 from .kinds import CoefficientPrecision, JudgedPoint, LocalDimensionSource, Verdict
 from .nearness import (backward_error, coefficient_precision, input_tolerance, nearest_backward_error,
                        point_precision)
@@ -101,6 +101,10 @@ _NEAREST_DIGITS = 30
 #: Extra working digits tried in turn: an expanded polynomial far from the origin cancels many digits (a quartic
 #: moved to 3456 loses 13 of them), and Gauss-Newton then stalls above its tolerance at the first precision.
 _NEAREST_EXTRA_DIGITS = (10, 40)
+#: A rank drop at the point is settled in double only where the rank-drop system's scaled Jacobian has
+#: smallest / largest singular value at least this (decision 0074): 0.02-1 at nodes and linkage folds,
+#: 1e-7 at a cusp, 1e-10 at a tacnode (where Newton in double stops short of the point).
+_DOUBLE_REGULAR = 1e-4
 
 
 @dataclass(frozen=True)
@@ -337,6 +341,22 @@ class _Decision:
     drop_distance: float | None = None
 
 
+@dataclass
+class _Judged:
+    """A point's rank decision and what :meth:`_Checker.check` builds its verdict from."""
+
+    decision: _Decision
+    verdict: Verdict | None
+    rank: int
+    codim: int | None
+    source: LocalDimensionSource
+    notes: list
+    escalated: bool
+    final_values: np.ndarray
+    digits: int
+    zero: float
+
+
 def _size(point):
     return math.sqrt(1.0 + float(np.linalg.norm(point)) ** 2)
 
@@ -350,6 +370,8 @@ class _Checker:
         self.rng = rng
         self.settled = {}  # position -> outcome decided in double for a batch (settle_in_double)
         self.tolerances = {}  # position -> absolute point tolerance (computed units) when set per point
+        self.judged = {}  # position -> _Judged, decided for a whole batch before its sampling
+        self.drops_near = {}  # position -> the non-reduced sampling's answer, for a whole batch at once
         self.batch = BatchEvaluator(system.polynomials)
         self.precise = PrecisionEvaluator(system.polynomials)
         self.m, self.n = system.n_equations, system.n_variables
@@ -517,16 +539,18 @@ class _Checker:
         return drop.point_of(z)
 
     # -- all suspect points at once, in double ---------------------------------------------------
-    def settle_in_double(self, given, refined, values, scales, through, positions=None):
+    def settle_in_double(self, given, refined, values, scales, through, positions=None, exact=None):
         """Decide the suspect points whose decision is clear in double precision, all in one batch.
 
         For each codimension, one batched Gauss-Newton on F = 0, rank J <= c - 1
         (:func:`numag.numeric.refine.rank_drop_points`) from every suspect point. Clear: the rank-drop
         system converged to a regular zero (residual at double rounding, the (c-1)-th singular value
-        clearly nonzero there), either at the point (singular) or far from it with the point's c-th
-        value clearly nonzero (smooth). The outcomes go to :attr:`settled`; the other suspect points
-        are escalated in mpmath by :meth:`check` as before. ``positions``: each point's position in the
-        batch :meth:`check` is called with (default: its own index).
+        clearly nonzero there), either at the point (singular, when the rank-drop system's own Jacobian is
+        well conditioned there: decision 0074) or far from it with the point's c-th value clearly nonzero
+        (smooth). The outcomes go to :attr:`settled`; the other suspect points are escalated in mpmath by
+        :meth:`check` as before. ``positions``: each point's position in the batch :meth:`check` is called
+        with (default: its own index). ``exact``: the exact coordinates of each point, or None; a point given
+        exactly is refined from them at higher precision, so its rank drop is left to the escalation.
         """
         number = list(range(len(refined))) if positions is None else [int(k) for k in positions]
         double_zero = zero_tolerance(DOUBLE_DIGITS, (self.m, self.n))
@@ -537,8 +561,9 @@ class _Checker:
                     self.options.suspect_threshold:
                 suspects.setdefault(codim, []).append(position)
         for codim, positions in suspects.items():
-            drops = rank_drop_points(self.system, refined[positions], codim - 1,
-                                     tolerance=0.1 * _DOUBLE_SETTLED_RESIDUAL)  # polish while it improves
+            # tolerance 0: Newton goes on while a step reduces the residual, so a regular zero is polished to
+            # rounding (quadratic convergence: one or two steps past the settled residual)
+            drops = rank_drop_points(self.system, refined[positions], codim - 1, tolerance=0.0)
             at_drop, scales_at_drop = self.scaled_values_double(drops.points)
             for row, position in enumerate(positions):
                 regular = (drops.residuals[row] <= _DOUBLE_SETTLED_RESIDUAL and at_drop[row][codim - 1] <= double_zero
@@ -548,26 +573,42 @@ class _Checker:
                 found = drops.points[row]
                 distance = self.distance(given[position], found)
                 tolerance = self.tolerance_for(given[position], number[position])
-                # Only "smooth" is settled here. A rank drop found in double at the point is left to the
-                # escalation: at a singular point of Milnor number > 1 (a tacnode) the rank-drop system is
-                # not regular, Gauss-Newton stops 1e-5 away, and that point (never refined) split one tacnode
-                # into two pieces and lost its realness (tests/test_trust.py, bitangent conics).
-                if distance >= _DOUBLE_FAR * tolerance and values[position][codim - 1] >= _DOUBLE_CLEAR_SMOOTH:
+                # A rank drop at the point is settled only where the rank-drop system is regular there (its
+                # Jacobian well conditioned: a node, a linkage's fold). At a singular point of Milnor number > 1
+                # (a tacnode, a cusp) it is not: Gauss-Newton stops 1e-5 away with a tiny residual, and that
+                # point split one tacnode into two pieces and lost its realness (tests/test_trust.py, bitangent
+                # conics; decision 0038's amendment); those, and points given exactly, go to the escalation.
+                if (distance <= _DOUBLE_NEAR * tolerance and drops.conditioning[row] >= _DOUBLE_REGULAR
+                        and (exact is None or exact[position] is None)):
+                    self.settled[number[position]] = _Decision(
+                        outcome=Verdict.SINGULAR, point=found, values=at_drop[row], scales=scales_at_drop[row],
+                        digits=DOUBLE_DIGITS, drop=found, drop_distance=distance)
+                elif distance >= _DOUBLE_FAR * tolerance and values[position][codim - 1] >= _DOUBLE_CLEAR_SMOOTH:
                     self.settled[number[position]] = _Decision(
                         outcome=Verdict.SMOOTH, point=refined[position], values=values[position],
                         scales=scales[position], digits=DOUBLE_DIGITS, drop=found, drop_distance=distance)
 
-    def rank_drops_near_in_double(self, informative, codim, radius):
-        """True or False when double precision decides :meth:`rank_drops_near` clearly, else None."""
-        drops = rank_drop_points(self.system, np.array(informative), codim - 1,
+    def rank_drops_near_in_double(self, groups, codim, radii):
+        """For each group of samples (of one codimension): True or False when double precision decides
+        :meth:`rank_drops_near` clearly, else None. All samples in one batched Gauss-Newton."""
+        if not groups:
+            return []
+        drops = rank_drop_points(self.system, np.concatenate([np.array(g) for g in groups]), codim - 1,
                                  tolerance=0.1 * _DOUBLE_SETTLED_RESIDUAL)
-        settled = drops.residuals <= _DOUBLE_SETTLED_RESIDUAL
-        distances = np.array([self.distance(found, sample) for found, sample in zip(drops.points, informative)])
-        if np.any(settled & (distances > 0.1 * radius)):
-            return False  # the rank drops only well away from a sample: not at every nearby point
-        if np.all(settled & (distances <= 1e-4 * radius)):
-            return True
-        return None
+        answers, first = [], 0
+        for informative, radius in zip(groups, radii):
+            rows = slice(first, first + len(informative))
+            first += len(informative)
+            settled = drops.residuals[rows] <= _DOUBLE_SETTLED_RESIDUAL
+            distances = np.array([self.distance(found, sample)
+                                  for found, sample in zip(drops.points[rows], informative)])
+            if np.any(settled & (distances > 0.1 * radius)):
+                answers.append(False)  # the rank drops only well away from a sample: not at every nearby point
+            elif np.all(settled & (distances <= 1e-4 * radius)):
+                answers.append(True)
+            else:
+                answers.append(None)
+        return answers
 
     # -- one point ---------------------------------------------------------------------------------
     def escalate(self, given, exact_given, refined, codim, position=None):
@@ -625,21 +666,45 @@ class _Checker:
         Samples that Newton pulls back onto ``point`` itself say nothing and are
         discarded; without enough informative samples the answer is False.
         """
+        return self.rank_drops_near_all([(point, codim)])[0]
+
+    def rank_drops_near_all(self, items):
+        """:meth:`rank_drops_near` for many ``(point, codim)`` pairs, in shared batches (decision 0074).
+
+        The samples are drawn point by point in order (the random numbers of one call per point), moved onto X
+        in one batch and tested in double in one batch per codimension; mpmath only for a point that leaves open.
+        """
         count = self.options.neighbour_samples
-        if count == 0:
-            return False
-        radius = self.options.neighbour_radius * _size(point)
+        if count == 0 or not items:
+            return [False] * len(items)
         tries = 4 * count
-        directions = self.rng.standard_normal((tries, self.n)) + 1j * self.rng.standard_normal((tries, self.n))
-        directions /= np.linalg.norm(directions, axis=1)[:, None]
-        samples = project_to_variety(self.system, self.batch, point[None, :] + radius * directions)
-        informative = [sample for sample, ok in zip(samples.points, samples.converged)
-                       if ok and self.distance(sample, point) >= 0.1 * radius][:count]
-        if len(informative) < count:
-            return False
-        decided = self.rank_drops_near_in_double(informative, codim, radius)
-        if decided is not None:
-            return decided
+        starts, radii = [], []
+        for point, _ in items:
+            radii.append(self.options.neighbour_radius * _size(point))
+            directions = self.rng.standard_normal((tries, self.n)) + 1j * self.rng.standard_normal((tries, self.n))
+            directions /= np.linalg.norm(directions, axis=1)[:, None]
+            starts.append(np.asarray(point)[None, :] + radii[-1] * directions)
+        samples = project_to_variety(self.system, self.batch, np.concatenate(starts))
+        answers, informative_of = [None] * len(items), [None] * len(items)
+        for j, (point, _) in enumerate(items):
+            rows = slice(j * tries, (j + 1) * tries)
+            informative_of[j] = [sample for sample, ok in zip(samples.points[rows], samples.converged[rows])
+                                 if ok and self.distance(sample, point) >= 0.1 * radii[j]][:count]
+            if len(informative_of[j]) < count:
+                answers[j] = False
+        for codim in sorted({codim for _, codim in items}):
+            open_items = [j for j, (_, c) in enumerate(items) if c == codim and answers[j] is None]
+            decided = self.rank_drops_near_in_double([informative_of[j] for j in open_items], codim,
+                                                     [radii[j] for j in open_items])
+            for j, answer in zip(open_items, decided or [None] * len(open_items)):
+                answers[j] = answer
+        for j, (_, codim) in enumerate(items):
+            if answers[j] is None:
+                answers[j] = self._rank_drops_at_samples_mp(informative_of[j], codim, radii[j])
+        return answers
+
+    def _rank_drops_at_samples_mp(self, informative, codim, radius):
+        """The sampling test in mpmath (30 digits): True when the rank drops at (next to) every sample."""
         with mpmath.mp.workdps(40):
             for sample in informative:
                 found = self.find_rank_drop([mpmath.mpc(v) for v in sample], codim - 1, mpmath.mp, 30)
@@ -647,10 +712,9 @@ class _Checker:
                     return False
         return True
 
-    def check(self, index, given, exact_given, refined, residual, values, scales, through=None, position=None,
-              exact_rank=None):
-        """The verdict at one point; ``exact_rank``: the rank of J at an exact point of X (exact data), which
-        then decides."""
+    def decide(self, given, exact_given, refined, values, scales, through=None, position=None, exact_rank=None):
+        """The rank decision at one point before the non-reduced sampling (a :class:`_Judged`); ``exact_rank``:
+        the rank of J at an exact point of X (exact data), which then decides."""
         opts = self.options
         double_zero = zero_tolerance(DOUBLE_DIGITS, (self.m, self.n))
         rank = numerical_rank(values, double_zero)
@@ -694,7 +758,28 @@ class _Checker:
             notes.append(f"The Jacobian has rank {rank}, more than the codimension {codim}: the local "
                          f"dimension used ({self.system.ambient_dimension - codim}) is larger than the tangent "
                          "space allows; the local dimension is wrong for this point.")
-        if verdict is Verdict.SINGULAR and self.rank_drops_near(np.asarray(decision.point), codim):
+        return _Judged(decision=decision, verdict=verdict, rank=rank, codim=codim, source=source, notes=notes,
+                       escalated=escalated, final_values=final_values, digits=digits, zero=zero)
+
+    def check(self, index, given, exact_given, refined, residual, values, scales, through=None, position=None,
+              exact_rank=None):
+        """The verdict at one point (:meth:`decide`, then the non-reduced sampling), as a :class:`PointVerdict`.
+
+        ``position``: the point's place in a batch whose decisions (:attr:`judged`) and sampling answers
+        (:attr:`drops_near`) were worked out together; a point not found there is decided here.
+        """
+        opts = self.options
+        judged = self.judged.pop(position, None) if position is not None else None
+        if judged is None:
+            judged = self.decide(given, exact_given, refined, values, scales, through, position, exact_rank)
+        decision, verdict, rank, codim = judged.decision, judged.verdict, judged.rank, judged.codim
+        source, notes, escalated = judged.source, judged.notes, judged.escalated
+        final_values, digits, zero = judged.final_values, judged.digits, judged.zero
+        if verdict is Verdict.SINGULAR:
+            near = self.drops_near.pop(position, None) if position is not None else None
+            if near is None:
+                near = self.rank_drops_near(np.asarray(decision.point), codim)
+        if verdict is Verdict.SINGULAR and near:
             verdict = Verdict.NON_REDUCED
             notes.append("The rank also drops at every sampled nearby point of X: the equations define X "
                          "with multiplicity > 1 here (generically non-reduced), so the Jacobian cannot see "
@@ -1013,11 +1098,23 @@ def _check_in_units(system, given, exact, options, seed, rng, decomposition, sca
         values[k], scales[k] = _values_at_given(checker, given[k])
     through = [None] * len(given)
     if decomposition is not None and options.local_dimension is None:
-        through = [None if off[k] else components_through(decomposition, scaling.to_user(refined[k]), seed=seed + k)
-                   for k in range(len(given))]
+        on = np.nonzero(~off)[0]  # one shared call: a decomposition of X with one component needs no homotopy
+        for k, hits in zip(on, components_through_points(decomposition, [scaling.to_user(refined[k]) for k in on],
+                                                         [seed + k for k in on])):
+            through[k] = hits
     checker.settle_in_double(given[~off], refined[~off], [values[k] for k in np.nonzero(~off)[0]],
                              [scales[k] for k in np.nonzero(~off)[0]], [through[k] for k in np.nonzero(~off)[0]],
-                             positions=np.nonzero(~off)[0])
+                             positions=np.nonzero(~off)[0], exact=[None if on_exactly[k] is False else exact[k]
+                                                                   for k in np.nonzero(~off)[0]])
+    # decisions first, then the non-reduced sampling of every singular one in shared batches (the same random
+    # draws, in the same order, as one sampling per point), then the verdicts
+    for k in np.nonzero(~off)[0]:
+        checker.judged[k] = checker.decide(given[k], None if on_exactly[k] is False else exact[k], refined[k],
+                                           values[k], scales[k], through[k], position=k, exact_rank=exact_ranks[k])
+    singular = [k for k, judged in checker.judged.items() if judged.verdict is Verdict.SINGULAR]
+    answers = checker.rank_drops_near_all([(np.asarray(checker.judged[k].decision.point), checker.judged[k].codim)
+                                           for k in singular])
+    checker.drops_near.update(zip(singular, answers))
     verdicts = [_off_verdict(checker, k + 1, given[k], refined[k], float(residual_given[k]), float(moved[k]),
                              float(tolerances[k]), ZeroKind.ZERO if on_variety[k] else projection.kinds[k],
                              float(projection.after[k]), values[k], scales[k])
@@ -1028,7 +1125,7 @@ def _check_in_units(system, given, exact, options, seed, rng, decomposition, sca
     for k, verdict in enumerate(verdicts):
         verdict.on_x_exactly = on_exactly[k]
         if rule.data[k] is _PointData.ROUNDED and verdict.verdict.is_singular:
-            # undecided between two points (decision 0072): the nearest point of X found beside the rank drop
+            # the nearest point of X found, kept beside the rank drop the verdict speaks about (decision 0072)
             verdict.point, verdict.distance = refined[k], float(moved[k])
     return verdicts
 
