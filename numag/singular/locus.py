@@ -203,6 +203,8 @@ class SingularLocus:
     start : dict
         The report's ``start`` block: the start asked for, and per codimension the route taken
         (``searches`` with each square system's start block, or the witness sets and why).
+    options : SingularOptions or None
+        The options of the run (recorded when the result is saved; None for a result built by hand).
     """
 
     system: PolynomialSystem
@@ -216,6 +218,7 @@ class SingularLocus:
     scaling: Scaling | None = None
     start: dict = field(default_factory=dict)
     near_singular: list[NearSingularPoint] = field(default_factory=list)
+    options: SingularOptions | None = None
 
     def __repr__(self):
         affine = [c for c in self.components if not c.at_infinity]
@@ -422,6 +425,7 @@ def singular_locus(system, options=None, seed=None, progress=None):
     locus.system, locus.scaling = system, scaling
     locus.near_singular = _near_singular(system, scaling, dropped, locus.discarded)
     _vanishing_jacobians(dropped, locus.discarded)
+    locus.options = options
     return locus
 
 
