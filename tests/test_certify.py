@@ -311,3 +311,46 @@ def test_no_refutation_from_a_deflated_subsystem():
     assert near.status == "certified" and near.kind == "exact"
     with working_digits(100):
         assert abs(_parse_center(near.center_text[0]) - mpmath.mpf(10) ** -45) <= near.radii[0]
+
+
+_SLIDER_UNITS = {
+    # lengths in mm (native), in m, in micrometres, and mm with the frame's origin moved (translation)
+    "mm": (["x1^2 + y1^2 - 900", "(s - x1)^2 + (20 - y1)^2 - 2500"], (0, -30, 0)),
+    "m": (["x1^2 + y1^2 - 9/10000", "(s - x1)^2 + (1/50 - y1)^2 - 1/400"], (0, -3 / 100, 0)),
+    "um": (["x1^2 + y1^2 - 900000000", "(s - x1)^2 + (20000 - y1)^2 - 2500000000"], (0, -30000, 0)),
+    "moved": (["(x1 - 1234)^2 + (y1 + 2345)^2 - 900", "((s - 3456) - (x1 - 1234))^2 + (20 - (y1 + 2345))^2 - 2500"],
+              (1234, -2375, 3456)),
+}
+
+
+@pytest.mark.parametrize("seed", [1, 2, 3])
+@pytest.mark.parametrize("units", sorted(_SLIDER_UNITS))
+def test_offset_slider_codimension_claim_holds_in_every_unit(units, seed):
+    # Offset slider-crank (crank 30, coupler 50, offset 20): X is a curve in C^3, codimension 2. By hand, the
+    # crank pointing straight down (x1 = s = 0, y1 = -30 in mm) puts the coupler along the slider's normal:
+    # J = [[0, -60, 0], [0, -100, 0]] has rank 1 there, a singular point; at points of X nearby J has rank 2
+    # (sympy's rank of J at an exact point of X beside it). Common practice, no source: the answer must not
+    # depend on the units of the lengths nor on where the frame's origin is.
+    sympy = pytest.importorskip("sympy")
+    equations, singular = _SLIDER_UNITS[units]
+    system = parse_system(equations, ["x1", "y1", "s"])
+    x1, y1, s = sympy.symbols("x1 y1 s")
+    exact = [sympy.sympify(e.replace("^", "**")) for e in equations]  # the test's own equations, not user input
+    jacobian = sympy.Matrix(exact).jacobian([x1, y1, s])
+    at_singular = dict(zip((x1, y1, s), (sympy.nsimplify(v) for v in singular)))
+    assert jacobian.subs(at_singular).rank() == 1
+    crank = sympy.sqrt(sympy.nsimplify(equations[0].split(" - ")[-1]))  # 30 in the system's units
+    centre_x, centre_y = at_singular[x1], at_singular[y1] + crank  # the crank's pivot
+    beside = {x1: centre_x + crank * sympy.Rational(3, 5), y1: centre_y - crank * sympy.Rational(4, 5)}
+    coupler_end = sympy.solve(exact[1].subs(beside), s)  # a point of X with the crank turned a little
+    assert all(e.subs({**beside, s: coupler_end[0]}).equals(0) for e in exact)
+    assert jacobian.subs({**beside, s: coupler_end[0]}).rank() == 2
+
+    locus = singular_locus(system, seed=seed)
+    found = [c for c in locus.components
+             if np.allclose(np.asarray(c.points[0], dtype=complex), singular, rtol=1e-8, atol=1e-8 * float(crank))]
+    assert len(found) == 1 and found[0].codimension == 2
+    certificate = certify_singular_point(system, found[0].points[0], 2, CertifyOptions(digits=30, seed=seed))
+    codimension_checks = [c for c in certificate.claim_checks if c.name == "codimension"]
+    assert certificate.status == "certified", certificate.reason
+    assert [(c.found, str(c.status)) for c in codimension_checks] in ([(2, "numerical")], [(2, "proved")])

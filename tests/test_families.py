@@ -298,7 +298,7 @@ def test_command_line_tables_pictures_and_saved_results(tmp_path):
 
 def test_an_undecided_discriminant_says_why():
     # exit 3 must come with its reason, in the text and in the JSON: failed paths are named by kind
-    from numag.app.commands.discriminant import _warnings
+    from numag.app.report import discriminant_warnings as _warnings
     result = discriminant(numag_family("x^3 - 3*x + b"), DiscriminantOptions(regions=False), seed=1)
     assert _warnings(result) == []
     result.paths["endgame_unsettled"] = 3

@@ -53,8 +53,13 @@ def test_decomposition(tmp_path):
     result = numag.decompose(system, seed=5)
     loaded = round_trip(result, tmp_path)
     assert sorted((c.dimension, c.degree) for c in loaded.components) == [(1, 1)] * 3
-    notes = json.loads((tmp_path / "first.json").read_text())["notes"]
-    assert any("defaults" in note for note in notes)  # saved without its options: said so
+    assert "notes" not in json.loads((tmp_path / "first.json").read_text())  # the run's options are recorded
+    result.options = None  # a result that does not know its options: the defaults are recorded, and said so
+    numag.save(result, tmp_path / "unknown.json")
+    notes = json.loads((tmp_path / "unknown.json").read_text())["notes"]
+    assert sum("defaults" in note for note in notes) == 1
+    numag.save(numag.load(tmp_path / "unknown.json"), tmp_path / "again.json")
+    assert (tmp_path / "again.json").read_text() == (tmp_path / "unknown.json").read_text()
 
 
 def test_singular_locus(tmp_path):
@@ -158,3 +163,89 @@ def test_old_reports_keys_are_read_in_todays_style(tmp_path):
     old = tmp_path / "old.json"
     old.write_text(json.dumps({"numag_version": "0", "command": "check", "counts": {"smooth": 1, "non-reduced": 2}}))
     assert read_report(old)["counts"] == {"smooth": 1, "non_reduced": 2}
+
+
+def _same(a, b, where="result"):
+    """Field by field equality of two results (dataclasses, arrays, enums, nested lists and dicts)."""
+    import dataclasses
+    import enum
+    if isinstance(a, numag.PolynomialSystem):
+        from numag.app.report import system_to_dict
+        assert isinstance(b, numag.PolynomialSystem) and system_to_dict(a) == system_to_dict(b), where
+    elif dataclasses.is_dataclass(a) and not isinstance(a, type):
+        assert type(a) is type(b), where
+        for f in dataclasses.fields(a):
+            _same(getattr(a, f.name), getattr(b, f.name), f"{where}.{f.name}")
+    elif isinstance(a, np.ndarray) or isinstance(b, np.ndarray):
+        a, b = np.asarray(a), np.asarray(b)
+        assert a.shape == b.shape and np.array_equal(a, b, equal_nan=a.dtype.kind in "fc"), where
+    elif isinstance(a, (list, tuple)):
+        assert isinstance(b, (list, tuple)) and len(a) == len(b), where
+        for k, (x, y) in enumerate(zip(a, b)):
+            _same(x, y, f"{where}[{k}]")
+    elif isinstance(a, dict):
+        assert isinstance(b, dict) and set(a) == set(b), f"{where}: keys {sorted(map(str, set(a) ^ set(b)))}"
+        for key in a:
+            _same(a[key], b[key], f"{where}[{key!r}]")
+    elif isinstance(a, float) and isinstance(b, float) and np.isnan(a):
+        assert np.isnan(b), where
+    elif isinstance(a, enum.Enum) or isinstance(b, enum.Enum):
+        assert str(a) == str(b), where
+    else:
+        assert a == b, f"{where}: {a!r} != {b!r}"
+
+
+def _failing_solve():
+    # a tracker too impatient to finish: paths fail, the report warns
+    from numag.tracking.tracker import TrackerOptions
+    system = numag.parse_system(["x^3 - 2*x*y + 1", "y^3 - x - 3"], ["x", "y"])
+    return numag.solve_system(system, numag.SolveOptions(tracker=TrackerOptions(max_steps=3)), seed=4)
+
+
+def _run(kind, seed):
+    from numag.system.files import family_from_mapping
+    if kind == "check":
+        return numag.check_points(NODAL, [[0, 0], [3, 6]], seed=seed)
+    if kind == "solve":
+        return numag.solve_system(numag.parse_system(["x^2 + y^2 - 1", "x - y"], ["x", "y"]),
+                                  numag.SolveOptions(start="polyhedral"), seed=seed)
+    if kind == "solve with failures":
+        return _failing_solve()
+    if kind == "decompose":
+        return numag.decompose(numag.parse_system(["x*y", "x*z"], ["x", "y", "z"]), seed=seed)
+    if kind == "singular":
+        return numag.singular_locus(NODAL, numag.SingularOptions(start="polyhedral"), seed=seed)
+    if kind == "certificate":
+        return numag.certify_singular_point(numag.parse_system(["y^2 - x^3"], ["x", "y"]), [1e-9, 0.0],
+                                            options=numag.CertifyOptions(digits=20, seed=seed))
+    if kind == "compare":
+        pytest.importorskip("sympy")
+        from numag.app.compare import compare_system
+        return compare_system(NODAL, seconds=120, seed=seed)
+    if kind == "sweep":
+        return numag.sweep(family_from_mapping(SQUARE_ROOT), [[-1.0], [4.0]], seed=seed)
+    return numag.discriminant(family_from_mapping(SQUARE_ROOT), seed=seed)
+
+
+_KINDS = ["check", "solve", "solve with failures", "decompose", "singular", "certificate", "compare", "sweep",
+          "discriminant"]
+
+
+@pytest.mark.parametrize("seed", [1, 2])
+@pytest.mark.parametrize("kind", _KINDS)
+def test_every_result_round_trips_whole(kind, seed, tmp_path):
+    # save, load, save again (common practice, no source): the same text, and the loaded result equal to the
+    # run's field by field; the options of the run and the warnings are kept without being passed again
+    result = _run(kind, seed)
+    first, second = tmp_path / "first.json", tmp_path / "second.json"
+    numag.save(result, first)
+    loaded = numag.load(first)
+    _same(result, loaded)
+    numag.save(loaded, second)
+    assert second.read_text() == first.read_text()
+    saved = json.loads(first.read_text())
+    if kind in ("solve", "singular"):
+        assert saved["options"]["start"] == "polyhedral"
+        assert not any("defaults" in note for note in saved.get("notes", []))
+    if kind == "solve with failures":
+        assert saved["paths"]["failed"] > 0 and any("failed" in w for w in saved["warnings"])

@@ -21,7 +21,9 @@ Examples
 """
 
 import copy
+import dataclasses
 from dataclasses import dataclass
+import enum
 from typing import TYPE_CHECKING
 import json
 import math
@@ -250,6 +252,78 @@ def completeness_warnings(data):
     return warnings
 
 
+def discriminant_warnings(result):
+    """Why a discriminant's exit code says undecided: the failed paths by kind, failed region counts and arc ends.
+
+    The ``warnings`` of its report, written by the command line and by :func:`numag.save` alike.
+    """
+    kinds = [f"{result.paths[label]} {label}" for label in FAILURE_LABELS if result.paths.get(label, 0)]
+    warnings = [f"{counted(sum(result.paths.get(label, 0) for label in FAILURE_LABELS), 'path')} of the "
+                f"incidence systems failed ({', '.join(kinds)}): components of the discriminant may be missing"] \
+        if kinds else []
+    region_failures = sum(r.count.failed for r in result.regions)
+    if region_failures:
+        warnings.append(f"{counted(region_failures, 'path')} of the regions' sample members failed: their counts "
+                        "may be low")
+    if result.curve is not None and result.curve.failed_arcs:
+        warnings.append(f"{counted(result.curve.failed_arcs, 'arc end')} of the traced curve failed")
+    return warnings
+
+
+def options_to_dict(options):
+    """Every field of a run's options (nested options too) as JSON values: kinds by their text, tuples as lists.
+
+    The report's ``options_in_full``, read back by :func:`options_from_dict`; the ``options`` block beside it
+    keeps the few a reader looks at.
+
+    Examples
+    --------
+    >>> options_to_dict(SolveOptions(start="polyhedral"))["start"]
+    'polyhedral'
+    >>> options_to_dict(SolveOptions())["tracker"]["max_steps"]
+    2000
+    """
+    def plain(value):
+        if dataclasses.is_dataclass(value):
+            return options_to_dict(value)
+        if isinstance(value, enum.Enum):
+            return value.value
+        if isinstance(value, (tuple, list)):
+            return [plain(v) for v in value]
+        return value
+    return {f.name: plain(getattr(options, f.name)) for f in dataclasses.fields(options)}
+
+
+def options_from_dict(kind, data):
+    """The options of class ``kind`` that :func:`options_to_dict` wrote (fields it lacks keep their defaults).
+
+    Examples
+    --------
+    >>> options_from_dict(SolveOptions, options_to_dict(SolveOptions(refine_digits=40))) == SolveOptions(refine_digits=40)
+    True
+    """
+    if not isinstance(data, dict):
+        raise InputError(f"options of {kind.__name__} are not a mapping")
+    defaults = kind()
+
+    def typed(value, default, name):
+        if dataclasses.is_dataclass(default):
+            return options_from_dict(type(default), value)
+        if isinstance(default, enum.Enum):
+            try:
+                return type(default)(value)
+            except ValueError:
+                raise InputError(f"unknown {name} {str(value)[:30]!r}") from None
+        if isinstance(value, list):
+            return tuple(typed(v, None, name) for v in value)
+        return value
+    known = {f.name for f in dataclasses.fields(kind)}
+    unknown = sorted(set(data) - known)
+    if unknown:
+        raise InputError(f"unknown option {unknown[0]!r} of {kind.__name__}")
+    return kind(**{name: typed(value, getattr(defaults, name), name) for name, value in data.items()})
+
+
 def _scaling_to_dict(scaling, system):
     return None if scaling is None else scaling.to_json(system.variables)
 
@@ -446,6 +520,7 @@ def solve_report_to_dict(result, options, lazy=False):
         "scaling": _scaling_to_dict(result.scaling, result.system),
         "options": {"digits": options.refine_digits, "cluster_tolerance": options.cluster_tolerance,
                     "square_up": options.square_up, "batch_size": options.batch_size, "start": options.start},
+        "options_in_full": options_to_dict(options),
         "paths": result.path_counts(),
         "components": components,
         "solutions": solutions,
@@ -476,6 +551,8 @@ def solve_report_from_dict(data):
     options = SolveOptions(tracker=TrackerOptions(), cluster_tolerance=o["cluster_tolerance"],
                            refine_digits=o["digits"], square_up=o["square_up"], batch_size=o["batch_size"],
                            start=o.get("start", "total-degree"))
+    if data.get("options_in_full") is not None:  # absent before decision 0078
+        options = options_from_dict(SolveOptions, data["options_in_full"])
     try:
         status = np.array([int(_STATUS_BY_LABEL[label]) for label in data["path_status"]], dtype=np.int64)
     except KeyError as err:
@@ -536,9 +613,11 @@ def decomposition_to_dict(result, options):
         "scaling": _scaling_to_dict(result.scaling, result.system),
         "options": {"lowest_dimension": options.witness.lowest_dimension, "max_loops": options.max_loops,
                     "trace_tolerance": options.trace_tolerance, "start": options.witness.start.value},
+        "options_in_full": options_to_dict(options),
         "start": result.extra.get("start"),
         "dimensions_searched": list(result.dimensions_searched),
         "paths": decomposition_path_counts(result.paths),
+        "path_counts": {str(k): int(v) for k, v in result.paths.items()},  # every count, as the run kept it
         "monodromy_loops": {str(k): int(v) for k, v in result.loops.items()},
         "components": [_decomposition_component(c) for c in result.components],
         "unconfirmed": len(result.unconfirmed),
@@ -555,6 +634,13 @@ def _component_from_dict(d, n):
                      real=np.array(d["real"], dtype=bool), multiplicity=int(d["multiplicity"]),
                      reduced=bool(d["reduced"]), slice_rows=rows, confirmed=bool(d["confirmed"]),
                      trace_defect=_decode_float(d["trace_defect"]))
+
+
+def _path_counts_from_dict(data):
+    """The run's path counts: as kept (``path_counts``, from decision 0078 on) or rebuilt from ``paths``."""
+    if data.get("path_counts") is not None:
+        return {str(k): int(v) for k, v in data["path_counts"].items()}
+    return _counts_from_paths(data["paths"])
 
 
 def _counts_from_paths(paths):
@@ -574,8 +660,10 @@ def decomposition_from_dict(data):
     options = DecomposeOptions(witness=WitnessOptions(lowest_dimension=o["lowest_dimension"],
                                                       start=o.get("start", WitnessOptions.start.value)),
                                max_loops=int(o["max_loops"]), trace_tolerance=float(o["trace_tolerance"]))
+    if data.get("options_in_full") is not None:  # absent before decision 0078
+        options = options_from_dict(DecomposeOptions, data["options_in_full"])
     components = [_component_from_dict(d, system.n_variables) for d in data["components"]]
-    counts = _counts_from_paths(data["paths"])
+    counts = _path_counts_from_dict(data)
     result = Decomposition(system, components, list(data["dimensions_searched"]), counts,
                            {int(k): int(v) for k, v in data["monodromy_loops"].items()}, data["seed"],
                            float(data["seconds"]), scaling=_scaling_from_dict(data, system))
@@ -607,14 +695,23 @@ def singular_to_dict(result, options):
                     "at_infinity_for_systems": options.infinity_for_systems,
                     "lowest_dimension": options.decompose.witness.lowest_dimension,
                     "max_exact_minors": options.max_exact_minors, "start": options.start.value},
+        "options_in_full": options_to_dict(options),
         "start": result.start,
         "paths": decomposition_path_counts(result.paths),
+        "path_counts": {str(k): int(v) for k, v in result.paths.items()},  # every count, as the run kept it
         "components": [_singular_component(c) for c in result.components],
         # the components of X (in a random chart for projective input: only their dimensions and degrees)
         "variety": [] if variety is None or result.system.projective else
         [_decomposition_component(c) for c in variety.components],
         "variety_summary": [] if variety is None else
         [{"dimension": c.dimension, "degree": c.degree} for c in variety.components],
+        # the rest of X's decomposition run, so that the report loads whole (decision 0078)
+        "variety_run": None if variety is None or result.system.projective else
+        {"dimensions_searched": [int(d) for d in variety.dimensions_searched],
+         "path_counts": {str(k): int(v) for k, v in variety.paths.items()},
+         "monodromy_loops": {str(k): int(v) for k, v in variety.loops.items()}, "seed": variety.seed,
+         "seconds": variety.seconds, "start": variety.extra.get("start"),
+         "options_in_full": None if variety.options is None else options_to_dict(variety.options)},
         "discarded": dict(result.discarded),
         "near_singular": [p.to_dict(encode_point) for p in result.near_singular],
         "notes": list(result.notes),
@@ -636,6 +733,8 @@ def singular_from_dict(data):
                               infinity_for_systems=bool(o.get("at_infinity_for_systems", False)),
                               max_exact_minors=int(o["max_exact_minors"]), start=o.get("start", "total-degree"),
                               decompose=DecomposeOptions(witness=WitnessOptions(lowest_dimension=o["lowest_dimension"])))
+    if data.get("options_in_full") is not None:  # absent before decision 0078
+        options = options_from_dict(SingularOptions, data["options_in_full"])
     components = []
     for d in data["components"]:
         points = np.array([decode_point(p) for p in d["points"]], dtype=complex)
@@ -645,12 +744,20 @@ def singular_from_dict(data):
             formulation=CandidateSystem.parse(d["formulation"], "formulation"),
             kind=PieceKind.parse(d["kind"], "kind"), on_components=list(d["on_components"]), rank=d["rank"],
             codimension=d["codimension"], notes=list(d["notes"])))
-    counts = _counts_from_paths(data["paths"])
+    counts = _path_counts_from_dict(data)
     variety = None
     if data["variety"]:
         parts = [_component_from_dict(d, system.n_variables) for d in data["variety"]]
-        variety = Decomposition(system, parts, [], {}, {}, data["seed"], 0.0,
+        run = data.get("variety_run") or {}  # absent before decision 0078
+        variety = Decomposition(system, parts, list(run.get("dimensions_searched", [])),
+                                {str(k): int(v) for k, v in (run.get("path_counts") or {}).items()},
+                                {int(k): int(v) for k, v in (run.get("monodromy_loops") or {}).items()},
+                                run.get("seed", data["seed"]), float(run.get("seconds", 0.0)),
                                 scaling=_scaling_from_dict(data, system))
+        if run.get("start"):
+            variety.extra["start"] = run["start"]
+        if run.get("options_in_full") is not None:
+            variety.options = options_from_dict(DecomposeOptions, run["options_in_full"])
     result = SingularLocus(system=system, components=components, variety=variety, paths=counts,
                            discarded=dict(data["discarded"]), seed=data["seed"], seconds=float(data["seconds"]),
                            notes=list(data["notes"]), scaling=_scaling_from_dict(data, system),
@@ -1028,7 +1135,8 @@ def compare_to_dict(comparison):
     """A :class:`~numag.app.compare.Comparison` as the JSON envelope (numag's locus included)."""
     from ..singular.locus import SingularOptions
     reference = comparison.reference
-    locus_data = singular_to_dict(comparison.locus, SingularOptions())
+    locus_data = singular_to_dict(comparison.locus, comparison.locus.options or SingularOptions())
+    locus_data["options_known"] = comparison.locus.options is not None
     return {
         "numag_version": __version__,
         "command": "compare",
@@ -1071,7 +1179,8 @@ def compare_from_dict(data):
     if not isinstance(data.get("locus"), dict):
         raise InputError("the report of 'numag compare' was written before it kept numag's locus ('locus'): "
                          "it cannot be read back as a comparison")
-    locus, _ = singular_from_dict(data["locus"])
+    locus, options = singular_from_dict(data["locus"])
+    locus.options = options if data["locus"].get("options_known") else None  # absent before decision 0078
     r = data["reference"]
     points = r.get("points")
     reference = ReferenceAnswer(

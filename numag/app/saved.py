@@ -46,7 +46,7 @@ from ..families.sweep import SweepResult
 from ..certify.records import Certificate
 from .compare import Comparison
 from .report import (CAUTION, certificate_from_dict, certificate_to_dict, check_report_from_dict,
-                     check_report_to_dict, compare_from_dict, compare_to_dict, decomposition_from_dict,
+                     check_report_to_dict, completeness_warnings, discriminant_warnings, compare_from_dict, compare_to_dict, decomposition_from_dict,
                      decomposition_to_dict, read_report, singular_from_dict, singular_to_dict,
                      solve_report_from_dict, solve_report_to_dict, write_report)
 
@@ -70,7 +70,8 @@ def to_dict(result, options=None):
     result : CheckReport, SolveResult, Decomposition, SingularLocus, Comparison, Certificate, SweepResult, Discriminant
     options : SolveOptions, DecomposeOptions or SingularOptions, optional
         The options of the run, recorded in the envelope (solve, decompose, singular). When not
-        given, the defaults are recorded and a note says so.
+        given, the result's own ``options`` (those of its run, or those its report recorded); when it has
+        none either, the defaults are recorded and a note says so.
 
     Returns
     -------
@@ -92,14 +93,19 @@ def to_dict(result, options=None):
                 "caution": CAUTION}
     for command, kind in _FAMILY_RESULTS.items():
         if isinstance(result, kind):
-            return {"numag_version": __version__, "command": command, **result.to_dict(), "caution": CAUTION}
+            data = {"numag_version": __version__, "command": command, **result.to_dict(), "caution": CAUTION}
+            if kind is Discriminant:
+                data["warnings"] = discriminant_warnings(result)  # as the command line writes them
+            return data
     for kind, write in ((SolveResult, solve_report_to_dict), (Decomposition, decomposition_to_dict),
                         (SingularLocus, singular_to_dict)):
         if isinstance(result, kind):
+            options = result.options if options is None else options
             defaults = options is None
             data = write(result, _DEFAULT_OPTIONS[kind]() if defaults else options)
-            if defaults:
+            if defaults and _DEFAULTS_NOTE not in data.get("notes", []):
                 data["notes"] = list(data.get("notes", [])) + [_DEFAULTS_NOTE]
+            data["warnings"] = completeness_warnings(data)  # as the command line writes them
             return data
     raise InputError(f"numag cannot save a {type(result).__name__}: give a result of check_points, solve_system, "
                      "decompose, singular_locus, compare_system, sweep, discriminant or a certificate")
@@ -132,12 +138,23 @@ def from_dict(data, with_options=False):
                          f"{', '.join(readers)})")
     try:
         result, options = readers[command](data)
+        if isinstance(result, tuple(_DEFAULT_OPTIONS)):
+            _record_options(result, options, data)
     except (KeyError, TypeError, ValueError, IndexError, AttributeError, OverflowError) as err:
         if isinstance(err, InputError):
             raise
         raise InputError(f"the report of 'numag {command}' is damaged ({type(err).__name__}: {str(err)[:80]})") \
             from None
     return (result, options) if with_options else result
+
+
+def _record_options(result, options, data):
+    """Give a loaded result the options its report records (None where they were only the defaults)."""
+    assumed = _DEFAULTS_NOTE in (data.get("notes") or [])
+    result.options = None if assumed else options
+    if isinstance(result, SingularLocus):
+        if assumed:  # the note is the envelope's, not the run's: saving again writes it again
+            result.notes = [note for note in result.notes if note != _DEFAULTS_NOTE]
 
 
 def save(result, path, options=None):

@@ -15,7 +15,7 @@ from ..system.polynomial import PolynomialSystem
 from ..numeric.evaluate import BatchEvaluator, PrecisionEvaluator
 from ..numeric.linalg import pivot_order
 from ..numeric.refine import project_to_variety
-from ..numeric.linalg import widest_gap_rank
+from ..numeric.linalg import widest_gap_rank, zero_tolerance
 from .intervals import _SINGULAR, _frobenius_upper, _iv_box, _to_iv_matrix
 from .records import _float_up, _guarded, _parse_center, _text, working_digits
 from .square import _DEFLATION_THRESHOLD, _absolute_jacobian, _coordinate_scales, _equilibrated
@@ -220,12 +220,50 @@ def _proved_rank(polynomials, certificate, start):
     return 0, None
 
 
+#: At a sampled point of X a singular value of J relative to the largest counts as nonzero above this. A sample
+#: sits at a relative distance 1e-4 to 1e-3 from the point, so a value the point's singularity makes small is
+#: there of that order (1e-4), or its square (1e-8) where a column is scaled by a coordinate that is small at
+#: the point; values that vanish on X are at rounding level (below ``zero_tolerance``, about 1e-12).
+_SAMPLED_NONZERO = 1e-10
+
+
+def _sampled_rank_bounds(polynomials, point):
+    """(low, high): ranks of J at a sampled point of X that are surely reached and possibly reached.
+
+    A singular value relative to the largest counts (low) when it clears :data:`_SAMPLED_NONZERO` in either
+    unit of :func:`_numerical_ranks`, and is ruled out (high) only when it is at rounding level in both.
+    Ratios, not a fixed threshold on the values: they do not change when an equation or a variable is
+    rescaled (decision 0078).
+    """
+    point = np.asarray(point, dtype=complex)
+    _, scaled, _ = _equilibrated(polynomials, point)
+    absolute = _absolute_jacobian(polynomials, point)
+    if not (np.all(np.isfinite(scaled)) and np.all(np.isfinite(absolute))):
+        return 0, min(scaled.shape)
+    zero = zero_tolerance(16, scaled.shape)
+    ratios = []
+    for matrix in (scaled, absolute):
+        values = np.linalg.svd(matrix, compute_uv=False)
+        ratios.append(values / values[0] if values[0] > 0 else np.zeros_like(values))
+    low = max(int(np.sum(r > _SAMPLED_NONZERO)) for r in ratios)
+    high = max(int(np.sum(r > zero)) for r in ratios)
+    return low, high
+
+
 def _sampled_codimension(polynomials, point, seed, samples=8):
     """The codimension of X near a point, numerically: points of X sampled nearby, least rank of J there.
 
     Random points at a relative distance 1e-3 are moved onto X; the rank of J at a generic point of a
     reduced component equals its codimension, and the least one among the samples is that of the
-    largest component through the point. None when fewer than three samples reach X away from the point.
+    largest component through the point. None when fewer than three samples reach X away from the point,
+    or when the least rank is not clear (a singular value between rounding level and a clear size).
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> circle_and_line = parse_system(["x^2 + y^2 - 1", "z"], ["x", "y", "z"])
+    >>> _sampled_codimension(circle_and_line.polynomials, [1.0, 0.0, 0.0], seed=1)
+    2
     """
     point = np.asarray(point, dtype=complex)
     n = len(point)
@@ -236,11 +274,13 @@ def _sampled_codimension(polynomials, point, seed, samples=8):
     numeric = [p.numeric() if p.is_exact else p for p in polynomials]
     system = PolynomialSystem([f"x{j}" for j in range(n)], numeric)
     projected = project_to_variety(system, BatchEvaluator(numeric), point[None, :] + radius * directions)
-    ranks = [_numerical_ranks(numeric, q)[1] for q, ok in zip(projected.points, projected.converged)
-             if ok and np.linalg.norm(q - point) >= 0.1 * radius]
-    if len(ranks) < 3:
+    bounds = [_sampled_rank_bounds(numeric, q) for q, ok in zip(projected.points, projected.converged)
+              if ok and np.linalg.norm(q - point) >= 0.1 * radius]
+    if len(bounds) < 3:
         return None
-    return min(ranks)
+    least_sure, least_possible = min(low for low, _ in bounds), min(high for _, high in bounds)
+    # A sample whose rank could be lower than the least clear one leaves the codimension open.
+    return least_sure if least_sure == least_possible else None
 
 
 class _BoxView:

@@ -140,13 +140,15 @@ class DiscriminantComponent:
     def to_dict(self):
         return {"dimension": int(self.dimension), "degree": int(self.degree), "points": encode_complex(self.points),
                 "real": [bool(r) for r in self.real], "slice_rows": self.slice_rows.real.tolist(),
-                "kind": self.kind.value, "fibre_dimension": int(self.fibre_dimension)}
+                "kind": self.kind.value, "fibre_dimension": int(self.fibre_dimension),
+                "slice_columns": int(self.slice_rows.shape[1]) if self.slice_rows.ndim == 2 else 0}
 
     @classmethod
     def from_dict(cls, data):
         return cls(int(data["dimension"]), int(data["degree"]), decode_complex(data["points"]),
                    np.array(data["real"], dtype=bool), np.array(data["slice_rows"], dtype=float).reshape(
-                       int(data["dimension"]), -1) if data["slice_rows"] else np.zeros((0, 0)),
+                       int(data["dimension"]), -1) if data["slice_rows"] else
+                   np.zeros((0, int(data.get("slice_columns", 0)))),
                    ComponentKind(data["kind"]), int(data["fibre_dimension"]))
 
 

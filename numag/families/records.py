@@ -52,7 +52,24 @@ def decode_complex(pairs):
         raise InputError(f"expected [real, imaginary] pairs, got {str(pairs)[:60]}") from None
     if array.ndim == 0 or array.shape[-1] != 2:
         raise InputError(f"expected [real, imaginary] pairs, got {str(pairs)[:60]}")
-    return array[..., 0] + 1j * array[..., 1]
+    values = np.empty(array.shape[:-1], dtype=complex)
+    values.real, values.imag = array[..., 0], array[..., 1]  # not re + 1j * im: that turns -0.0 into 0.0
+    return values
+
+
+def decode_complex_rows(pairs, columns):
+    """Rows of ``columns`` complex numbers from :func:`encode_complex` (an empty list gives no rows of that width).
+
+    Examples
+    --------
+    >>> decode_complex_rows([], 3).shape
+    (0, 3)
+    >>> decode_complex_rows([[[1.0, 2.0]]], 1)
+    array([[1.+2.j]])
+    """
+    if len(pairs) == 0:
+        return np.zeros((0, int(columns)), dtype=complex)
+    return decode_complex(pairs).reshape(-1, int(columns))
 
 
 def encode_float(value):

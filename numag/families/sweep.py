@@ -42,7 +42,7 @@ from ..tracking.homotopy import random_unit_complex
 from ..tracking.service import PathCounts, track
 from ..tracking.solve import Execution, SolveOptions, solve_system
 from ..tracking.tracker import PathStatus, TrackerOptions
-from .records import PointKind, decode_complex, decode_float, encode_complex, encode_float
+from .records import PointKind, decode_complex, decode_complex_rows, decode_float, encode_complex, encode_float
 
 __all__ = ["SweepOptions", "MemberSolutions", "SweepResult", "SweepHomotopy", "sweep", "move_points", "parse_grid",
            "real_by_separation", "LABEL_UNIT", "MAX_VALUES"]
@@ -355,14 +355,19 @@ class SweepResult:
                 "equations": list(self.equations), "start_parameters": encode_complex(self.start_parameters),
                 "start_solutions": int(self.start_solutions), "paths": dict(self.paths), "seed": int(self.seed),
                 "seconds": encode_float(self.seconds), "execution": _plain(self.execution),
-                "values": [v.to_dict() for v in self.values]}
+                "values": [v.to_dict() for v in self.values],
+                "start_multiple": encode_complex(self.start_multiple),
+                "start_multiple_columns": int(self.start_multiple.shape[1])}
 
     @classmethod
     def from_dict(cls, data):
-        return cls(tuple(data["variables"]), tuple(data["parameters"]), list(data["equations"]),
-                   [MemberSolutions.from_dict(v) for v in data["values"]], decode_complex(data["start_parameters"]),
-                   int(data["start_solutions"]), dict(data["paths"]), int(data["seed"]),
-                   decode_float(data["seconds"]), dict(data.get("execution", {})))
+        result = cls(tuple(data["variables"]), tuple(data["parameters"]), list(data["equations"]),
+                     [MemberSolutions.from_dict(v) for v in data["values"]], decode_complex(data["start_parameters"]),
+                     int(data["start_solutions"]), dict(data["paths"]), int(data["seed"]),
+                     decode_float(data["seconds"]), dict(data.get("execution", {})))
+        if "start_multiple" in data:  # absent before decision 0078
+            result.start_multiple = decode_complex_rows(data["start_multiple"], data["start_multiple_columns"])
+        return result
 
 
 def _plain(data):

@@ -214,6 +214,8 @@ class SingularLocus:
     start : dict
         The report's ``start`` block: the start asked for, and per codimension the route taken
         (``searches`` with each square system's start block, or the witness sets and why).
+    options : SingularOptions or None
+        The options of the run (recorded when the result is saved; None for a result built by hand).
     """
 
     system: PolynomialSystem
@@ -227,6 +229,7 @@ class SingularLocus:
     scaling: Scaling | None = None
     start: dict = field(default_factory=dict)
     near_singular: list[NearSingularPoint] = field(default_factory=list)
+    options: SingularOptions | None = None
 
     def __repr__(self):
         affine = [c for c in self.components if not c.at_infinity]
@@ -445,6 +448,7 @@ def _in_user_units(system, options, seed, progress):
         for candidate in dropped:
             candidate.candidate, candidate.refined = scaling.to_user(np.array([candidate.candidate,
                                                                                 candidate.refined]))
+    locus.options = options
     return locus, dropped
 
 

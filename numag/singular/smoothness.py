@@ -1104,8 +1104,9 @@ def _check_in_units(system, given, exact, options, seed, rng, decomposition, sca
             through[k] = hits
     checker.settle_in_double(given[~off], refined[~off], [values[k] for k in np.nonzero(~off)[0]],
                              [scales[k] for k in np.nonzero(~off)[0]], [through[k] for k in np.nonzero(~off)[0]],
-                             positions=np.nonzero(~off)[0], exact=[None if on_exactly[k] is False else exact[k]
-                                                                   for k in np.nonzero(~off)[0]])
+                             positions=np.nonzero(~off)[0],
+                             exact=[exact[k] if rule.data[k] is _PointData.EXACT and on_exactly[k] is not False
+                                    else None for k in np.nonzero(~off)[0]])  # exact data: left to exact ranks
     # decisions first, then the non-reduced sampling of every singular one in shared batches (the same random
     # draws, in the same order, as one sampling per point), then the verdicts
     for k in np.nonzero(~off)[0]:

@@ -199,6 +199,8 @@ class SolveResult:
         Endgame estimates near infinity can pass the homogeneous test and fail this one (decision 0049).
     scaling : Scaling or None
         The units the computation used (points are reported in the user's units).
+    options : SolveOptions or None
+        The options of the run (recorded when the result is saved; None for a result built by hand).
     """
 
     system: PolynomialSystem
@@ -218,6 +220,7 @@ class SolveResult:
     extra: dict = field(default_factory=dict)
     scaling: object = None
     unverified: list = field(default_factory=list)
+    options: SolveOptions | None = None
 
     def __repr__(self):
         counts = self.path_counts()
@@ -515,6 +518,7 @@ def _run(system, homotopy, start_points, total, options, rng, seed, progress, st
     description["seconds"] = result.seconds
     description["tracking_seconds"] = tracking
     result.extra["execution"] = description
+    result.options = options
     return result
 
 

@@ -170,6 +170,8 @@ class Decomposition:
         Set when X was decomposed root by root of a block of equations in a few unknowns (module
         :mod:`~numag.witness.fibres`): each component lies in one fibre, its slices have zero
         coefficients on the block's unknowns.
+    options : DecomposeOptions or None
+        The options of the run (recorded when the result is saved; None for a result built by hand).
     """
 
     system: object
@@ -182,6 +184,7 @@ class Decomposition:
     extra: dict = field(default_factory=dict)
     scaling: object = None
     fibred_over: FiniteBlock | None = None
+    options: DecomposeOptions | None = None
 
     def __repr__(self):
         parts = ", ".join(f"dimension {c.dimension} degree {c.degree}" for c in self.components) or "empty"
@@ -597,6 +600,7 @@ def decompose(system, options=None, seed=None, progress=None):
     scaling = Scaling.balancing(_polynomial_part(system))
     with rescue_budget():  # the cascade, the loops and the membership tests share one rescue budget
         result = _decompose(_scaled(scaling, system), options, seed, progress)
+    result.options = options
     return result.in_units(scaling, system, to_user=True)
 
 

@@ -12,7 +12,7 @@ from ...families.discriminant import DiscriminantOptions, discriminant
 from ...families.branches import CountKind
 from ...families.records import ComponentKind
 from ..picture import discriminant_svg, sweep_svg
-from ..report import CAUTION, dumps
+from ..report import CAUTION, discriminant_warnings, dumps
 from ..saved import save
 from .common import (EXIT_OK, EXIT_UNDECIDED, _add_executor_options, _add_work_options, _ROUNDING, _format_complex,
                      _progress, _seed, _stage_executor)
@@ -119,7 +119,7 @@ def _print(result, out):
         _print_curve(result, out)
     for note in result.notes:
         out.write(f"\nnote: {note}\n")
-    for warning in _warnings(result):
+    for warning in discriminant_warnings(result):
         out.write(f"warning: {warning}\n")
     out.write(f"\n{CAUTION}\n")
 
@@ -163,23 +163,8 @@ def run(args, out):
         write_file(args.svg, (discriminant_svg(result) if "discriminant" in __name__ else sweep_svg(result)).encode())
     if args.json:
         data = result.to_dict()
-        data["warnings"] = _warnings(result)
+        data["warnings"] = discriminant_warnings(result)
         out.write(dumps(data) + "\n")
     else:
         _print(result, out)
     return EXIT_UNDECIDED if _failed(result) else EXIT_OK
-
-
-def _warnings(result):
-    """Why the exit code says undecided: the failed paths by kind, the failed region counts and arc ends."""
-    kinds = [f"{result.paths[label]} {label}" for label in FAILURE_LABELS if result.paths.get(label, 0)]
-    warnings = [f"{counted(sum(result.paths.get(label, 0) for label in FAILURE_LABELS), 'path')} of the "
-                f"incidence systems failed ({', '.join(kinds)}): components of the discriminant may be missing"] \
-        if kinds else []
-    region_failures = sum(r.count.failed for r in result.regions)
-    if region_failures:
-        warnings.append(f"{counted(region_failures, 'path')} of the regions' sample members failed: their counts "
-                        "may be low")
-    if result.curve is not None and result.curve.failed_arcs:
-        warnings.append(f"{counted(result.curve.failed_arcs, 'arc end')} of the traced curve failed")
-    return warnings
