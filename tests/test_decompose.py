@@ -224,3 +224,18 @@ def test_path_statuses_add_up_after_a_jump_repair(seed, monkeypatch):
     assert result.paths.get("retracked_after_jump", 0) > 0
     block = decomposition_path_counts(result.paths)
     assert block["tracked"] == block["converged"] + block["singular_endpoint"] + block["at_infinity"] + block["failed"]
+
+
+def test_membership_on_a_combined_system_is_confirmed_across_seeds():
+    # A sphere of radius 13 and the line x = 3, y = 4 through two of its points (3, 4, +-12) (common practice,
+    # no source: the line meets the sphere where z^2 = 169 - 9 - 16). The sphere's test system combines both
+    # equations, whose combination also vanishes on a plane holding the whole line: a far point of the line
+    # must not be put on the sphere at any seed, and the crossing must be on both components at every seed.
+    system = parse_system(["(x^2 + y^2 + z^2 - 169)*(x - 3)", "(x^2 + y^2 + z^2 - 169)*(y - 4)"], ["x", "y", "z"])
+    decomposition = decompose(system, seed=1)
+    assert sorted((c.dimension, c.degree) for c in decomposition.components) == [(1, 1), (2, 2)]
+    for seed in range(1, 13):
+        far = components_through(decomposition, [3, 4, 1000], seed=seed)
+        assert [(c.dimension, c.degree) for c in far] == [(1, 1)], seed
+        crossing = components_through(decomposition, [3, 4, 12], seed=seed)
+        assert sorted((c.dimension, c.degree) for c in crossing) == [(1, 1), (2, 2)], seed
