@@ -158,3 +158,16 @@ def test_backward_errors_option_is_checked():
     from numag.singular.smoothness import CheckOptions
     with pytest.raises(InputError, match="backward_errors"):
         CheckOptions(backward_errors="yes")
+
+
+def test_exact_input_far_from_the_origin_stays_exact_after_expansion():
+    # (x - 1234.5)^4 expands to exact decimals of 17 and more digits (1234.5^4 = 2322432610.0625 ... ): the
+    # numbers as written are short, so the input is exact (decision 0062 reads printed doubles by the digits
+    # the user wrote; common practice, no source). A long literal is still read as a printed double.
+    from numag.singular.nearness import coefficient_precision
+    from numag.system.parse import parse_system
+    far = parse_system(["(x - 1234.5)^4*(2/5) + (y + 2345.25)^3 - 1"], ["x", "y"])
+    assert far.literal_digits == 6
+    assert coefficient_precision(far).value == "exact"
+    printed = parse_system(["x^2 + 0.30000000000000004*y - 1"], ["x", "y"])
+    assert coefficient_precision(printed).value == "double precision"

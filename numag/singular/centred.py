@@ -104,7 +104,9 @@ def centred_system(system, centring):
                                     np.array([ExactCoefficient.from_complex(c) for c in polynomial.coefficients],
                                              dtype=object), n)
         polynomials.append(polynomial.substitute_linear(identity, list(centring.centre)))
-    return PolynomialSystem(list(system.variables), polynomials, name=system.name)
+    centred = PolynomialSystem(list(system.variables), polynomials, name=system.name)
+    centred.literal_digits = system.literal_digits  # the same numbers, written about another origin
+    return centred
 
 
 def within(points, centring):

@@ -198,9 +198,10 @@ def coefficient_precision(system):
     """How precisely the system's coefficients are known: exact, or double precision.
 
     Double precision when a coefficient is stored as a floating-point number (a system built from
-    numbers, not parsed text), or when one is a decimal fraction with at least
+    numbers, not parsed text), or when a number the user wrote is a decimal fraction with at least
     :data:`DOUBLE_SIGNIFICANT_DIGITS` significant digits (what printing a double gives). Integers,
-    rationals and shorter decimals are exact.
+    rationals and shorter decimals are exact, and so are the long decimals their exact expansion makes
+    (``(x - 1234.5)^4``). Systems not read from text are judged by their coefficients.
 
     Examples
     --------
@@ -208,9 +209,12 @@ def coefficient_precision(system):
     >>> coefficient_precision(parse_system(["0.25*x^2 - 2/3*y"], ["x", "y"])).value
     'exact'
     """
+    if any(not polynomial.is_exact for polynomial in system.polynomials):
+        return CoefficientPrecision.DOUBLE
+    written = getattr(system, "literal_digits", None)
+    if written is not None:  # read from text: the numbers as written decide, not their exact expansion
+        return CoefficientPrecision.DOUBLE if written >= DOUBLE_SIGNIFICANT_DIGITS else CoefficientPrecision.EXACT
     for polynomial in system.polynomials:
-        if not polynomial.is_exact:
-            return CoefficientPrecision.DOUBLE
         for coefficient in polynomial.coefficients:
             for re, im in coefficient.parts.values():
                 if max(_significant_digits(Fraction(re)), _significant_digits(Fraction(im))) \

@@ -102,6 +102,26 @@ def _tokenize(text):
     return tokens
 
 
+def literal_digits(literal):
+    """Significant digits of a number literal that is not an integer as written (``0.30000000000000004``: 17);
+    0 for an integer value. Decision 0062 reads 17 or more as a printed double: the digits the user wrote, not
+    those of the expanded coefficients (an exact ``(x - 1234.5)^4`` expands to long exact decimals).
+
+    Examples
+    --------
+    >>> literal_digits("2.5"), literal_digits("120"), literal_digits("1.50e-3"), literal_digits("3e2")
+    (2, 0, 2, 0)
+    """
+    match = _NUMBER.fullmatch(literal)
+    if match is None:
+        return 0
+    mantissa, exponent = match.group(1), int(match.group(2) or 0)
+    whole, _, fraction = mantissa.partition(".")
+    digits = (whole + fraction).lstrip("0").rstrip("0")
+    places = len(fraction.rstrip("0")) - exponent  # decimal places of the value
+    return len(digits) if places > 0 else 0
+
+
 def _number_value(token, text):
     match = _NUMBER.fullmatch(token.text)
     mantissa, exponent = match.group(1), match.group(2)
@@ -126,6 +146,7 @@ class _Parser:
         self.variables = list(variables)
         self.n = len(variables)
         self.limits = limits
+        self.literal_digits = 0  # the most significant digits of a non-integer literal read (decision 0062)
         if len(text) > MAX_EQUATION_LENGTH:
             raise ParseError(f"text longer than {MAX_EQUATION_LENGTH} characters", column=1)
         self.tokens = _tokenize(text)
@@ -349,6 +370,8 @@ class _Parser:
         if token.kind == "number":
             self.advance()
             value = _number_value(token, self.text)
+            if value.denominator != 1:
+                self.literal_digits = max(self.literal_digits, literal_digits(token.text))
             return _Monomial(value.numerator if value.denominator == 1 else value, {}, 0)
         if token.kind == "name":
             self.advance()
@@ -467,6 +490,11 @@ def parse_polynomial(text, variables, limits=DEFAULT_LIMITS):
     >>> parse_polynomial("x**2 = y^3", ["x", "y"]).to_text(["x", "y"])
     '-y^3 + x^2'
     """
+    return _parse(text, variables, limits)[0]
+
+
+def _parse(text, variables, limits):
+    """:func:`parse_polynomial`, and the most significant digits of a non-integer literal in the text."""
     if not isinstance(text, str):
         raise ParseError(f"an equation must be text, got {type(text).__name__}")
     # Reading creates a million small objects and no reference cycle: the cycle collector, triggered
@@ -474,7 +502,8 @@ def parse_polynomial(text, variables, limits=DEFAULT_LIMITS):
     collecting = gc.isenabled()
     gc.disable()
     try:
-        return _Parser(text, variables, limits).equation()
+        parser = _Parser(text, variables, limits)
+        return parser.equation(), parser.literal_digits
     finally:
         if collecting:
             gc.enable()
@@ -538,10 +567,14 @@ def parse_system(equations, variables, projective=False, name=None, limits=DEFAU
                 raise InputError(f"variable {position}: '{variable}' is reserved by the grammar")
             raise InputError(f"variable {position}: {variable!r} is not a valid name "
                              "(letters, digits and '_', not starting with a digit)")
-    polynomials = []
+    polynomials, digits = [], 0
     for number, text in enumerate(equations, 1):
         try:
-            polynomials.append(parse_polynomial(text, variables, limits))
+            polynomial, written = _parse(text, variables, limits)
         except ParseError as err:
             raise err.located(equation=number) from None
-    return PolynomialSystem(variables, polynomials, projective=projective, name=name, limits=limits)
+        polynomials.append(polynomial)
+        digits = max(digits, written)
+    system = PolynomialSystem(variables, polynomials, projective=projective, name=name, limits=limits)
+    system.literal_digits = digits
+    return system

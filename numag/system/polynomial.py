@@ -740,6 +740,9 @@ class PolynomialSystem:
         self.polynomials = polynomials
         self.projective = bool(projective)
         self.name = name
+        #: The most significant digits of a non-integer number the user wrote (decision 0062), when the system
+        #: was read from text; None for systems built otherwise (their coefficients are judged instead).
+        self.literal_digits = None
         self._jacobian = None
 
     @property
