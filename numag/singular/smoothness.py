@@ -786,7 +786,15 @@ class _Checker:
                          "whether the underlying variety is smooth. This is a sampling test, not a proof.")
         thick = [c for c in (through or []) if not c.reduced]
         if thick and len(through) == 1 and opts.local_dimension is None and verdict is Verdict.SINGULAR:
-            verdict = Verdict.NON_REDUCED
+            if near is False:
+                # the rank is full at sampled points of X next to this one: X is not generically non-reduced
+                # here, whatever the decomposition's witness points said (rounding far from the origin made 8
+                # distinct witness points of a reduced curve look like one point of multiplicity 8)
+                notes.append(f"The decomposition calls component {thick[0].id} non-reduced, but the Jacobian has "
+                             "full rank at sampled points of X next to this one: that claim is contradicted here, "
+                             "and the point is reported singular.")
+            else:
+                verdict = Verdict.NON_REDUCED
         for c in thick:
             paths = f"; {c.multiplicity} paths end at each" if c.multiplicity > 1 else ""
             notes.append(f"Component {c.id} is generically non-reduced (the Jacobian has rank below its codimension "

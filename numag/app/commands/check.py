@@ -5,13 +5,14 @@ import numpy as np
 from ...errors import NumagError
 from ...system.files import load_points, parse_point_assignment
 from ...numeric.seeds import resolved_seed
-from ...witness.decompose import decompose
+from ...witness.decompose import DecomposeOptions, decompose
 from ...singular.smoothness import CheckOptions, check_points
 from ...system.files import load_angles
 from ...anatomy.survey import check_anatomy
 from ..anatomy_text import attach_to_check, write_point_anatomy
 from ...singular.kinds import Verdict
-from ..report import (CAUTION, check_report_to_dict, decomposition_from_dict, dumps, read_report,
+from ..report import (CAUTION, check_report_to_dict, completeness_warnings, decomposition_from_dict,
+                      decomposition_to_dict, dumps, read_report,
                       system_to_dict)
 from .certify import _certified, _doubtful, _print_certification
 from . import SUMMARIES
@@ -180,6 +181,12 @@ def run(args, out):
     if args.anatomy:
         anatomies = check_anatomy(report, decomposition, load_angles(args.system_file, system.variables))
     data = with_angles(_certified(_with_notes(check_report_to_dict(report), args), args), args.system_file)
+    # The components through each point and the local dimension come from the decomposition: what its run may
+    # have missed (failed paths, groups the trace test did not confirm) is said here too, and exit code 3.
+    components_doubts = [] if decomposition is None else completeness_warnings(
+        decomposition_to_dict(decomposition, decomposition.options or DecomposeOptions()))
+    if components_doubts:
+        data["decomposition_warnings"] = components_doubts
     if anatomies is not None:
         attach_to_check(data, anatomies)
         data["anatomy_incomplete"] = sorted(k for k, a in anatomies.items() if a.incomplete)
@@ -193,10 +200,13 @@ def run(args, out):
         noun, pronoun = ("point", "its") if len(incomplete) == 1 else ("points", "their")
         out.write(f"warning: the anatomy of {noun} {', '.join(map(str, incomplete))} is incomplete "
                   f"(see {pronoun} notes)\n")
+    if components_doubts and not args.json:
+        for warning in components_doubts:
+            out.write(f"warning: decomposing X (the components through the points): {warning}\n")
     pictured = plot_after(data, args, out)
     if report.near_singular and not args.json:  # decision 0062: the same warning as the singular locus
         near = [str(v.index) for v in report.points if v.near_singular]
         out.write(f"warning: point {', '.join(near)}: smooth for the coefficients as written, singular after a "
                   "relative change of them within their precision; the input cannot tell which is meant.\n")
     return EXIT_UNDECIDED if (report.undecided or report.off or report.near_singular or _doubtful(data) or incomplete
-                              or pictured) else EXIT_OK
+                              or pictured or components_doubts) else EXIT_OK
