@@ -175,3 +175,23 @@ def test_command_line_decimals_of_seventeen_digits_are_rounded_data(tmp_path, ca
     code, report = run_cli(tmp_path, capsys, moved, ["x", "y", "z"], "--point", "x=1/3,y=2/7,z=8/9", "--seed", "2")
     assert code == EXIT_OK and report["points"][0]["verdict"] == "singular"
     assert report["points"][0]["judged"] == "the given point" and report["points"][0]["on_x_exactly"] is True
+
+
+@pytest.mark.parametrize("seed", [1, 2, 3])
+def test_a_reduced_curve_far_from_the_origin_is_never_called_non_reduced(tmp_path, capsys, seed):
+    # An E6 point u^3 + v^4 (v = -2/5 u + w + u^2: an analytic change; Arnold 1972, normal forms) moved to
+    # (1234, -2345): f is squarefree (sympy's factorization below), so X is reduced and the point is singular
+    # (J = 0 there, exactly). Decomposing X so far from the origin may be unsure; what it may have missed is
+    # warned (exit 3), and it must never turn the verdict into "non-reduced".
+    u, w = X - 1234, Y + 2345
+    f = sympy.expand((u + w / 3) ** 3 + (-sympy.Rational(2, 5) * u + w + u ** 2) ** 4)
+    assert all(multiplicity == 1 for _, multiplicity in sympy.factor_list(f)[1])
+    assert all(sympy.diff(f, s).subs({X: 1234, Y: -2345}) == 0 for s in (X, Y))
+    equation = "((x-1234)+1/3*(y+2345))^3+(-2/5*(x-1234)+(y+2345)+(x-1234)^2)^4"
+    path = tmp_path / "system.toml"
+    path.write_text(f'variables = ["x", "y"]\nequations = ["{equation}"]\n')
+    code = main(["check", str(path), "--json", "--point", "x=1234,y=-2345", "--seed", str(seed)])
+    report = json.loads(capsys.readouterr().out)
+    assert report["points"][0]["verdict"] == "singular"
+    if report.get("decomposition_warnings"):  # said, and reflected in the exit code
+        assert code == EXIT_UNDECIDED
