@@ -416,6 +416,11 @@ class _Checker:
         if self.m <= ambient:
             if rank == self.m:  # independent equations: a smooth complete intersection, no assumption
                 return self.m, LocalDimensionSource.FULL_RANK
+            if through is not None:
+                # X was decomposed and no component passes through this point of X: the decomposition missed
+                # what is here (a sphere far from the origin whose membership test failed), and assuming a
+                # complete intersection would guess the verdict
+                return None, LocalDimensionSource.UNKNOWN
             return self.m, LocalDimensionSource.ASSUMED
         if rank == ambient:
             return ambient, LocalDimensionSource.ISOLATED
@@ -731,7 +736,10 @@ class _Checker:
         escalated = False
         if codim is None:
             decision.outcome = Verdict.UNDECIDED
-            notes.append("The local dimension is unknown (more equations than the ambient dimension and a "
+            notes.append("The local dimension is unknown (no component of the decomposition passes through the "
+                         "point, and the Jacobian's rank does not settle it); give it to decide."
+                         if through is not None and not through else
+                         "The local dimension is unknown (more equations than the ambient dimension and a "
                          "rank-deficient Jacobian); give it to decide.")
         elif codim == 0:
             decision.outcome = Verdict.SMOOTH if rank == 0 else Verdict.UNDECIDED
