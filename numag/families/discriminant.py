@@ -64,7 +64,8 @@ from ..singular.locus import minors_system
 from .branches import RealCount, real_counts
 from .lines import discriminant_on_lines
 from .plane import (CurvePoint, CurvePointKind, DiscriminantCurve, PlaneRegion, SingularIncidence, _box as plane_box,
-                    _cusp_point, _nodes, conjugate_pair_points, merge_cells, trace_discriminant_curve)
+                    _nodes, classify_join, clipped, conjugate_pair_points, merge_cells, reach_box,
+                    trace_discriminant_curve)
 from .records import REAL_TOLERANCE, ComponentKind, decode_complex, decode_float, encode_complex, encode_float
 
 __all__ = ["DiscriminantOptions", "DiscriminantComponent", "Region", "Discriminant", "discriminant"]
@@ -400,12 +401,16 @@ def _curve_and_cells_on_lines(family, codimension, options, rng, paths, notes, p
         refining = SingularIncidence.of(family, codimension, options.max_exact_minors)
         reach = 2.0 * found.spacing
         n = family.n_variables
+        # a join's middle is not a point of the curve: Newton tells a cusp from a fold (not reported) (decision 0079)
+        joins = [classify_join(refining, lift, found.direction, n, reach) for lift in found.cusp_lifts]
         special = _nodes(refining, found.lifts, n, float(np.linalg.norm(high - low)), reach) \
-            + [_cusp_point(refining, lift, n, reach) for lift in found.cusp_lifts]
+            + [point for point in joins if point is not None]
     # failed paths of the sweep and arc ends that could be neither continued nor joined: where the picture may
     # miss a piece (counted like the stalled arc ends of the other tracer)
-    curve = DiscriminantCurve(found.arcs, (low, high), special, found.failed + found.lost_links,
-                              multiple=list(found.multiple_arcs)) if options.curve else None
+    arcs, sources = clipped(found.arcs, *reach_box(low, high))
+    curve = DiscriminantCurve(arcs, (low, high), special, found.failed + found.lost_links,
+                              multiple=[bool(found.multiple_arcs[k]) for k in sources] if found.multiple_arcs else []) \
+        if options.curve else None
     cells = []
     if options.regions:
         if progress is not None:

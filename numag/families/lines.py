@@ -97,7 +97,8 @@ class LineDiscriminant:
         Per arc: made of multiple points only (a multiple component of the discriminant, e.g. a length 0).
     multiple_degree : int
         Distinct multiple points of the line system on a generic (random complex) line: the degree of the
-        discriminant's multiple components together (0: none).
+        discriminant's multiple components together (0: none).    direction : ndarray, shape (2,)
+        The direction of the trace lines (a fold of the curve between two lines has its tangent along it).
     """
 
     arcs: list
@@ -112,6 +113,7 @@ class LineDiscriminant:
     spacing: float = 0.0
     multiple_arcs: list = field(default_factory=list)
     multiple_degree: int = 0
+    direction: np.ndarray = None
 
 
 def _free_name(base, taken):
@@ -297,7 +299,7 @@ def discriminant_on_lines(family, codimension, box, verticals, trace_lines, rng)
                      + (f"; {double_failed} of {double_moves} moves onto lines failed, so some lines may miss its "
                         "points" if double_failed else "") + ").")
     return LineDiscriminant(arcs, lifts, cuts, failed, lost, notes, dict(swept.paths), cusps, cusp_lifts, spacing,
-                            multiple_arcs, double_degree)
+                            multiple_arcs, double_degree, direction)
 
 
 #: A point moved on the deflated system is on the multiple component when the full (not squared) system holds to

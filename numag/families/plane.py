@@ -55,7 +55,7 @@ from .records import REAL_TOLERANCE
 from .sweep import sweep
 
 __all__ = ["CurvePointKind", "CurvePoint", "DiscriminantCurve", "PlaneRegion", "SingularIncidence", "conjugate_pair_points",
-           "trace_discriminant_curve", "classify_join", "meeting_points", "clipped",
+           "trace_discriminant_curve", "classify_join", "meeting_points", "clipped", "reach_box",
            "merge_cells", "strip_blocked"]
 
 #: A projected turn sharper than this (cosine between the directions before and after) is a cusp candidate.
@@ -133,7 +133,7 @@ class DiscriminantCurve:
     Attributes
     ----------
     arcs : list of ndarray, shape (P, 2)
-        Polylines in the parameter plane (traced in the box enlarged by half its size).
+        Polylines in the parameter plane, cut to the box enlarged by half its size on every side (:func:`reach_box`).
     box : tuple of ndarray
         Lower and upper corners in the parameter plane.
     special : list of CurvePoint
@@ -301,8 +301,23 @@ def trace_discriminant_curve(family, codimension, max_exact_minors, lines, rng, 
     pieces = [b.points for b in curve.branches(clip=False) if len(b.points) >= 2]
     diagonal = float(np.linalg.norm(high - low))
     refining = SingularIncidence(incidence, n, codimension)
-    special = _cusps(refining, pieces, n, diagonal) + _nodes(refining, pieces, n, diagonal)
-    return DiscriminantCurve([p[:, n:].copy() for p in pieces], (low, high), special, curve.failed_arcs, notes)
+    special = _cusps(refining, pieces, n, diagonal) + _nodes(refining, pieces, n, diagonal) \
+        + meeting_points(refining, curve, n, low, high)
+    # the tracer's region reaches past the box; the arcs are given up to half the box beyond it (what the regions use)
+    arcs, _ = clipped([p[:, n:] for p in pieces], *reach_box(low, high))
+    return DiscriminantCurve(arcs, (low, high), special, curve.failed_arcs, notes)
+
+
+def reach_box(low, high):
+    """The [ranges] box enlarged by half its size on every side: where the curve's arcs are given.
+
+    Examples
+    --------
+    >>> [c.tolist() for c in reach_box(np.array([-3.0, 0.0]), np.array([3.0, 2.0]))]
+    [[-6.0, -1.0], [6.0, 3.0]]
+    """
+    span = high - low
+    return low - 0.5 * span, high + 0.5 * span
 
 
 def _cusps(incidence, pieces, n, diagonal):

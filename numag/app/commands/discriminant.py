@@ -52,8 +52,13 @@ def add_parser(commands):
 
 def _failed(result):
     tracked = sum(result.paths.get(label, 0) for label in FAILURE_LABELS)
-    traced = result.curve.failed_arcs if result.curve is not None else 0
+    traced = result.curve.failed_arcs + _undecided(result.curve) if result.curve is not None else 0
     return tracked + sum(r.count.failed for r in result.regions) + traced
+
+
+def _undecided(curve):
+    """Special points of the curve that Newton neither confirmed nor ruled out."""
+    return sum(point.refined is False and point.candidate is not None for point in curve.special)
 
 
 def _count_text(count):
@@ -130,10 +135,13 @@ def _print_curve(result, out):
     low, high = curve.box
     out.write(f"\nreal discriminant curve: {counted(len(curve.arcs), 'traced piece')} in {first} in "
               f"[{low[0]:.6g}, {high[0]:.6g}], {second} in [{low[1]:.6g}, {high[1]:.6g}]"
-              + (f" ({counted(curve.failed_arcs, 'arc end')} failed)" if curve.failed_arcs else "") + "\n")
+              + (f" ({counted(curve.failed_arcs, 'arc end')} failed)" if curve.failed_arcs else "")
+              + "; the arcs run on to half the box beyond it\n")
     for point in curve.special:
-        accuracy = "refined" if point.refined else "at the traced accuracy"
-        out.write(f"  {point.kind.value:5s} at {first}={point.point[0]:.10g}, {second}={point.point[1]:.10g} "
+        accuracy = "refined" if point.refined else \
+            f"a {point.candidate.value} candidate at the traced accuracy: not confirmed" if point.candidate else \
+            "at the traced accuracy"
+        out.write(f"  {point.kind.value:9s} at {first}={point.point[0]:.10g}, {second}={point.point[1]:.10g} "
                   f"({accuracy})\n")
     if result.plane_regions:
         out.write(f"\n{counted(len(result.plane_regions), 'region')} of the plane (cells joined where the curve does "
@@ -182,4 +190,7 @@ def _warnings(result):
                         "may be low")
     if result.curve is not None and result.curve.failed_arcs:
         warnings.append(f"{counted(result.curve.failed_arcs, 'arc end')} of the traced curve failed")
+    if result.curve is not None and _undecided(result.curve):
+        warnings.append(f"{counted(_undecided(result.curve), 'special point')} of the traced curve could not be "
+                        "refined (undecided)")
     return warnings
