@@ -519,25 +519,32 @@ class SingularIncidence:
             self._gradients_of = BatchEvaluator([p.derivative(j) for p in self.polynomials for j in range(self.n + 2)])
         return self._gradients_of
 
-    def is_fold(self, start, direction, reach):
-        """Whether a fold of the projection, not a cusp, lies within ``reach`` (in p) of a traced point (x, p).
+    def fold_point(self, start, direction, reach):
+        """A fold of the projection towards lines along ``direction``, sought from a point (x, p) of S.
 
-        A fold towards lines along ``direction`` is a smooth point of S whose tangent's p-part is along the lines
-        (a critical point of the p-coordinate across them): Gauss-Newton on {G = 0, J G v = 0, m . v_p = 0,
-        c . v = 1} in (x, p, v), v in (x, p), m the lines' normal. A cusp solves the same system with v_p = 0,
-        so a fold is a solution with a p-part of v as long as its x-part (balanced units, decision 0002).
+        A fold is a smooth point of S whose tangent's p-part is along the lines (a critical point of the
+        p-coordinate across them): Gauss-Newton on {G = 0, J G v = 0, m . v_p = 0, c . v = 1} in (x, p, v), v in
+        (x, p), m the lines' normal. A cusp (v_p = 0) solves it too: the caller tells them apart.
+
+        Returns
+        -------
+        ndarray, shape (n + 2,), or None
+            The point (x, p), or None when Newton fails or p moves further than ``reach``.
 
         Examples
         --------
         >>> from numag.system.parse import parse_system
         >>> circle = Family(parse_system(["x^2 + a^2 + b^2 - 1"], ["x", "a", "b"]), ("a", "b"))
-        >>> SingularIncidence.of(circle, 1, 24).is_fold(np.array([0.0, 0.1, 0.97]), np.array([1.0, 0.0]), 0.2)
-        True
+        >>> start = np.array([0.0, 0.6, 0.8])   # on the circle a^2 + b^2 = 1 (x = 0)
+        >>> fold = SingularIncidence.of(circle, 1, 24).fold_point(start, np.array([1.0, 0.0]), 1.0)
+        >>> np.round(fold, 10).tolist()   # the top of the circle: the tangent along a
+        [0.0, 0.0, 1.0]
         """
         n, size = self.n, self.n + 2
         rows = len(self.polynomials)
         gradients = self._second_derivatives()
         normal = np.array([-direction[1], direction[0]], dtype=float)
+        start = np.asarray(start, dtype=float)
         _, jacobian = self._evaluate(self.values_of, start)
         vector = np.linalg.svd(jacobian)[2][-1]
         scale = vector.copy()
@@ -556,9 +563,9 @@ class SingularIncidence:
             return values, np.vstack([top, middle, across, last])
 
         z, converged = _newton(residual_and_jacobian, np.concatenate([start, vector]))
-        moved = np.linalg.norm(z[n:size] - start[n:])
-        v = z[size:]
-        return bool(converged and moved <= reach and np.linalg.norm(v[n:]) >= np.linalg.norm(v[:n]))
+        if not converged or np.linalg.norm(z[n:size] - start[n:]) > reach:
+            return None
+        return z[:size]
 
     def refined_meeting(self, start, reach):
         """Gauss-Newton from a singular point of the traced S onto {G = 0, w^T J G = 0, c . w = 1} in (x, p, w).
@@ -604,22 +611,52 @@ class SingularIncidence:
         return CurvePoint.found(CurvePointKind.MEETING, z[n:size] if good else start[n:], good)
 
 
-def classify_join(incidence, lift, direction, n, reach):
+def classify_join(incidence, lift, ends, n, reach):
     """A join of two arc ends on one trace line: a refined cusp, nothing (a fold), or an UNDECIDED candidate.
 
-    The join's middle is not a point of the curve (the two ends are); only Newton decides: a cusp within
-    ``reach`` is reported, a fold (:meth:`SingularIncidence.is_fold`) is not, and what is neither is UNDECIDED.
+    The join's middle is not a point of the curve (its two ends are): Newton decides. A cusp refined from the
+    middle within ``reach`` is reported. Else a fold is sought from each end (:meth:`SingularIncidence.fold_point`,
+    within ``reach`` beyond the join's length, the lines along the join); a fold found is a cusp if the cusp's
+    Newton converges from it, else nothing is reported. What is neither is UNDECIDED.
+
+    Parameters
+    ----------
+    incidence : SingularIncidence or None
+    lift : ndarray, shape (n + 2,)
+        Mean x of the two ends, middle of the join in p.
+    ends : ndarray, shape (2, n + 2)
+        The two ends (points of S).
+    n : int
+    reach : float
 
     Returns
     -------
     CurvePoint or None
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> circle = SingularIncidence.of(Family(parse_system(["x^2 + a^2 + b^2 - 1"], ["x", "a", "b"]), ("a", "b")), 1, 24)
+    >>> ends = np.array([[0.0, -0.6, 0.8], [0.0, 0.6, 0.8]])   # a chord of the circle, below its top
+    >>> print(classify_join(circle, ends.mean(axis=0), ends, 1, 0.5))
+    None
     """
-    lift = np.asarray(lift, dtype=float)
+    lift, ends = np.asarray(lift, dtype=float), np.asarray(ends, dtype=float)
     if incidence is None:
         return CurvePoint.found(CurvePointKind.CUSP, lift[n:], False)
     cusp = incidence.refined_cusp(lift, reach)
-    if cusp.refined or incidence.is_fold(lift, direction, reach):
-        return cusp if cusp.refined else None
+    if cusp.refined:
+        return cusp
+    chord = ends[1, n:] - ends[0, n:]
+    length = float(np.linalg.norm(chord))
+    if length > 0:
+        for end in ends:
+            fold = incidence.fold_point(end, chord / length, reach + length)
+            if fold is None:
+                continue
+            # a cusp also has a tangent with no p-part across the lines: the cusp's own Newton tells
+            at_fold = incidence.refined_cusp(fold, reach)
+            return at_fold if at_fold.refined else None
     return cusp
 
 
