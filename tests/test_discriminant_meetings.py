@@ -95,9 +95,7 @@ def test_the_arm_discriminant_is_four_circles_without_special_points(arm_runs, u
     margin = 1e-6 * (high - low)
     inner = points[np.all((points > low + margin) & (points < high - margin), axis=1)]
     distance = np.min(np.abs(np.hypot(inner[:, 0], inner[:, 1])[:, None] - radii[None, :]), axis=1)
-    on_lines = distance <= 1e-6 * radii.max()
-    # joins of two ends at a fold are chords of a circle between its points: all other points are on a circle
-    assert on_lines.mean() >= 0.9
+    assert len(inner) > 20 and np.all(distance <= 1e-6 * radii.max())
 
 
 def test_the_arm_is_the_same_in_mm_and_in_m(arm_runs):
