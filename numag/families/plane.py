@@ -304,7 +304,8 @@ def trace_discriminant_curve(family, codimension, max_exact_minors, lines, rng, 
     special = _cusps(refining, pieces, n, diagonal) + _nodes(refining, pieces, n, diagonal) \
         + meeting_points(refining, curve, n, low, high)
     # the tracer's region reaches past the box; the arcs are given up to half the box beyond it (what the regions use)
-    arcs, _ = clipped([p[:, n:] for p in pieces], *reach_box(low, high))
+    lifts, _ = clipped(pieces, *reach_box(low, high))
+    arcs = [snapped_ends(refining, lift, *reach_box(low, high))[:, n:] for lift in lifts]
     return DiscriminantCurve(arcs, (low, high), special, curve.failed_arcs, notes)
 
 
@@ -689,6 +690,9 @@ def meeting_points(incidence, curve, n, low, high):
 def clipped(arcs, low, high):
     """The polylines cut to the box (low, high): the pieces inside, ending on its boundary, and their arc indices.
 
+    The box bounds the last ``len(low)`` columns (the parameters of lifts (x, p)); an end on the boundary is
+    interpolated on the segment that leaves the box, with its bounded coordinate set to the bound exactly.
+
     Examples
     --------
     >>> pieces, sources = clipped([np.array([[0.0, 0.0], [2.0, 0.0], [2.0, 2.0]])], np.zeros(2), np.ones(2))
@@ -697,7 +701,7 @@ def clipped(arcs, low, high):
     """
     pieces, sources = [], []
     for number, arc in enumerate(arcs):
-        inside = np.all((arc >= low) & (arc <= high), axis=1)
+        inside = np.all((arc[:, -len(low):] >= low) & (arc[:, -len(low):] <= high), axis=1)
         current = []
         for k in range(len(arc)):
             if inside[k]:
@@ -718,11 +722,57 @@ def clipped(arcs, low, high):
 
 
 def _boundary(inside, outside, low, high):
-    """Where the segment from a point inside the box to one outside leaves it."""
+    """Where the segment from a point inside the box to one outside leaves it (bounds on the last columns)."""
     step = outside - inside
+    tail = slice(len(inside) - len(low), len(inside))
     with np.errstate(divide="ignore", invalid="ignore"):
-        limits = np.where(step > 0, (high - inside) / step, np.where(step < 0, (low - inside) / step, np.inf))
-    return inside + min(1.0, float(limits.min())) * step
+        limits = np.where(step[tail] > 0, (high - inside[tail]) / step[tail],
+                          np.where(step[tail] < 0, (low - inside[tail]) / step[tail], np.inf))
+    axis = int(np.argmin(limits))
+    point = inside + min(1.0, float(limits[axis])) * step
+    if limits[axis] <= 1.0:
+        point[tail.start + axis] = high[axis] if step[tail][axis] > 0 else low[axis]
+    return point
+
+
+def snapped_ends(incidence, lift, low, high):
+    """A clipped lift (x, p) with its ends on the box's boundary moved onto S along the boundary.
+
+    An end cut from a chord lies off the curve by the chord's sag; Gauss-Newton on G with the bounded
+    coordinate held puts it back, when it converges within the last step. Ends it does not are kept.
+
+    Parameters
+    ----------
+    incidence : SingularIncidence or None
+    lift : ndarray, shape (P, n + 2)
+    low, high : ndarray, shape (2,)
+
+    Returns
+    -------
+    ndarray, shape (P, n + 2)
+    """
+    lift = np.array(lift, dtype=float)
+    if incidence is None or len(lift) < 2:
+        return lift
+    n = incidence.n
+    for end, neighbour in ((0, 1), (-1, -2)):
+        on_bound = np.nonzero((lift[end, n:] == low) | (lift[end, n:] == high))[0]
+        if len(on_bound) != 1:
+            continue
+        held = n + int(on_bound[0])
+        free = [k for k in range(n + 2) if k != held]
+
+        def residual_and_jacobian(z, start=lift[end]):
+            point = start.copy()
+            point[free] = z
+            values, jacobian = incidence._evaluate(incidence.values_of, point)
+            return values, jacobian[:, free]
+
+        z, converged = _newton(residual_and_jacobian, lift[end, free])
+        step = np.linalg.norm(lift[end] - lift[neighbour])
+        if converged and np.linalg.norm(z - lift[end, free]) <= step:
+            lift[end, free] = z
+    return lift
 
 
 #: The system of two singular points over one parameter value is solved when its total degree is at most this
