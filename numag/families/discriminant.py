@@ -407,11 +407,14 @@ def _curve_and_cells_on_lines(family, codimension, options, rng, paths, notes, p
             + [point for point in joins if point is not None]
     # failed paths of the sweep and arc ends that could be neither continued nor joined: where the picture may
     # miss a piece (counted like the stalled arc ends of the other tracer)
-    # cut to where the regions are merged; the ends cut from a chord are put back on the curve
+    # cut to where the regions are merged; the ends cut from a chord are put back on the curve, except on a multiple
+    # component (G vanishes to second order there: a small residual is no sign of being on it)
     lifts, sources = clipped(found.lifts, *reach_box(low, high))
-    arcs = [snapped_ends(refining, lift, *reach_box(low, high))[:, n:] for lift in lifts]
+    on_multiple = [bool(found.multiple_arcs[k]) if found.multiple_arcs else False for k in sources]
+    arcs = [(lift if multiple else snapped_ends(refining, lift, *reach_box(low, high)))[:, n:]
+            for lift, multiple in zip(lifts, on_multiple)]
     curve = DiscriminantCurve(arcs, (low, high), special, found.failed + found.lost_links,
-                              multiple=[bool(found.multiple_arcs[k]) for k in sources] if found.multiple_arcs else []) \
+                              multiple=on_multiple if found.multiple_arcs else []) \
         if options.curve else None
     cells = []
     if options.regions:
