@@ -183,6 +183,9 @@ def _curve_items(curve, x, y):
         if special.kind.value == "cusp":
             items.append(f'<polygon points="{cx:.1f},{cy - 6:.1f} {cx - 5:.1f},{cy + 4:.1f} {cx + 5:.1f},{cy + 4:.1f}" '
                          'fill="#1b9e77"/>')
+        elif special.kind.value == "undecided":  # hollow: not confirmed
+            items.append(f'<rect x="{cx - 4:.1f}" y="{cy - 4:.1f}" width="8" height="8" fill="none" '
+                         'stroke="#1b9e77"/>')
         else:
             items.append(f'<rect x="{cx - 4:.1f}" y="{cy - 4:.1f}" width="8" height="8" fill="#1b9e77"/>')
     return items

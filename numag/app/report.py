@@ -267,7 +267,15 @@ def discriminant_warnings(result):
                         "may be low")
     if result.curve is not None and result.curve.failed_arcs:
         warnings.append(f"{counted(result.curve.failed_arcs, 'arc end')} of the traced curve failed")
+    if result.curve is not None and undecided_special_points(result.curve):
+        warnings.append(f"{counted(undecided_special_points(result.curve), 'special point')} of the traced curve "
+                        "could not be refined (undecided)")
     return warnings
+
+
+def undecided_special_points(curve):
+    """How many special points of a traced discriminant curve Newton neither confirmed nor ruled out."""
+    return sum(point.refined is False and point.candidate is not None for point in curve.special)
 
 
 def options_to_dict(options):

@@ -64,7 +64,8 @@ from ..singular.locus import minors_system
 from .branches import RealCount, real_counts
 from .lines import discriminant_on_lines
 from .plane import (CurvePoint, CurvePointKind, DiscriminantCurve, PlaneRegion, SingularIncidence, _box as plane_box,
-                    _cusp_point, _nodes, conjugate_pair_points, merge_cells, trace_discriminant_curve)
+                    _nodes, classify_join, clipped, conjugate_pair_points, merge_cells, reach_box, snapped_ends,
+                    trace_discriminant_curve)
 from .records import REAL_TOLERANCE, ComponentKind, decode_complex, decode_float, encode_complex, encode_float
 
 __all__ = ["DiscriminantOptions", "DiscriminantComponent", "Region", "Discriminant", "discriminant"]
@@ -395,19 +396,28 @@ def _curve_and_cells_on_lines(family, codimension, options, rng, paths, notes, p
     notes.append("The discriminant was met on lines of the parameter plane (the members are not finite sets of "
                  "points)" + ("; cusps and crossings that Newton could not refine (e.g. on a multiple component) are "
                               "given at the traced accuracy (within about a line spacing)." if options.curve else "."))
-    special = []
+    special, refining, n = [], None, family.n_variables
     if options.curve:
         # refined like the traced curve's (one place: plane.SingularIncidence); the traced positions are within
         # about a line spacing, so Newton may move them that far
         refining = SingularIncidence.of(family, codimension, options.max_exact_minors)
         reach = 2.0 * found.spacing
-        n = family.n_variables
+        # a join's middle is not a point of the curve: Newton tells a cusp from a fold (not reported) (decision 0079)
+        joins = [classify_join(refining, lift, ends, n, reach)
+                 for lift, ends in zip(found.cusp_lifts, found.cusp_ends)]
         special = _nodes(refining, found.lifts, n, float(np.linalg.norm(high - low)), reach) \
-            + [_cusp_point(refining, lift, n, reach) for lift in found.cusp_lifts]
+            + [point for point in joins if point is not None]
     # failed paths of the sweep and arc ends that could be neither continued nor joined: where the picture may
     # miss a piece (counted like the stalled arc ends of the other tracer)
-    curve = DiscriminantCurve(found.arcs, (low, high), special, found.failed + found.lost_links,
-                              multiple=list(found.multiple_arcs)) if options.curve else None
+    # cut to where the regions are merged; the ends cut from a chord are put back on the curve, except on a multiple
+    # component (G vanishes to second order there: a small residual is no sign of being on it)
+    lifts, sources = clipped(found.lifts, *reach_box(low, high))
+    on_multiple = [bool(found.multiple_arcs[k]) if found.multiple_arcs else False for k in sources]
+    arcs = [(lift if multiple else snapped_ends(refining, lift, *reach_box(low, high)))[:, n:]
+            for lift, multiple in zip(lifts, on_multiple)]
+    curve = DiscriminantCurve(arcs, (low, high), special, found.failed + found.lost_links,
+                              multiple=on_multiple if found.multiple_arcs else []) \
+        if options.curve else None
     cells = []
     if options.regions:
         if progress is not None:

@@ -91,6 +91,8 @@ class LineDiscriminant:
     cusp_lifts : list of ndarray, shape (n + 2,)
         The same joins with the mean of the real parts of the two ends' singular points x in front (where the
         refinement starts).
+    cusp_ends : list of ndarray, shape (2, n + 2)
+        The same joins' two ends (points of the incidence set: where a fold between the lines is sought from).
     spacing : float
         Distance between neighbouring trace lines.
     multiple_arcs : list of bool
@@ -109,6 +111,7 @@ class LineDiscriminant:
     paths: dict = field(default_factory=dict)
     cusps: list = field(default_factory=list)
     cusp_lifts: list = field(default_factory=list)
+    cusp_ends: list = field(default_factory=list)
     spacing: float = 0.0
     multiple_arcs: list = field(default_factory=list)
     multiple_degree: int = 0
@@ -281,7 +284,7 @@ def discriminant_on_lines(family, codimension, box, verticals, trace_lines, rng)
     lost = sum(bool(np.all((traced[k].plane([c])[0] >= low) & (traced[k].plane([c])[0] <= high)))
                for k, c in unjoined)
     arcs, lifts, multiple_arcs = _polylines(traced, edges, family.n_variables)
-    cusp_lifts = _cusps_at_joins(traced, edges, family.n_variables)
+    cusp_lifts, cusp_ends = _cusps_at_joins(traced, edges, family.n_variables)
     cusps = [lift[family.n_variables:].copy() for lift in cusp_lifts]
     notes = []
     if failed:
@@ -296,8 +299,8 @@ def discriminant_on_lines(family, codimension, box, verticals, trace_lines, rng)
                      f"points were followed on a deflated system ({counted(sum(multiple_arcs), 'traced arc')}"
                      + (f"; {double_failed} of {double_moves} moves onto lines failed, so some lines may miss its "
                         "points" if double_failed else "") + ").")
-    return LineDiscriminant(arcs, lifts, cuts, failed, lost, notes, dict(swept.paths), cusps, cusp_lifts, spacing,
-                            multiple_arcs, double_degree)
+    return LineDiscriminant(arcs, lifts, cuts, failed, lost, notes, dict(swept.paths), cusps, cusp_lifts, cusp_ends,
+                            spacing, multiple_arcs, double_degree)
 
 
 #: A point moved on the deflated system is on the multiple component when the full (not squared) system holds to
@@ -557,13 +560,13 @@ _CUSP_COSINE = 0.5
 
 
 def _cusps_at_joins(traced, edges, n):
-    """The joins of two arc ends on one line that are cusps (both arcs arrive pointing the same way), as lifts
-    (mean real x of the two ends, middle of the join in the plane)."""
+    """The joins of two arc ends on one line that may be cusps (both arcs arrive pointing the same way), as lifts
+    (mean real x of the two ends, middle of the join in the plane), and their two ends as lifts."""
     neighbours = {}
     for a, b in edges:
         neighbours.setdefault(a, []).append(b)
         neighbours.setdefault(b, []).append(a)
-    cusps = []
+    cusps, ends = [], []
     for a, b in edges:
         if a[0] != b[0]:
             continue
@@ -581,7 +584,8 @@ def _cusps_at_joins(traced, edges, n):
                 x = [line.points[np.nonzero(line.cluster == end)[0][0], :n].real for end in (a[1], b[1])]
                 cusps.append(np.concatenate([0.5 * (x[0] + x[1]),
                                              0.5 * (line.plane([a[1]])[0] + line.plane([b[1]])[0])]))
-    return cusps
+                ends.append(np.array([np.concatenate([x[k], line.plane([end])[0]]) for k, end in enumerate((a[1], b[1]))]))
+    return cusps, ends
 
 
 def _polylines(traced, edges, n):

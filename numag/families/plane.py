@@ -48,14 +48,14 @@ from ..system.polynomial import Polynomial, PolynomialSystem
 from ..numeric.cluster import connected_components
 from ..numeric.evaluate import BatchEvaluator
 from ..tracking.solve import solve_system
-from ..witness.realcurve import RealCurveOptions, trace_real_curve
+from ..witness.realcurve import RealCurveOptions, VertexKind, trace_real_curve
 from ..singular.locus import minors_system
 from .branches import RealCount
 from .records import REAL_TOLERANCE
 from .sweep import sweep
 
 __all__ = ["CurvePointKind", "CurvePoint", "DiscriminantCurve", "PlaneRegion", "SingularIncidence", "conjugate_pair_points",
-           "trace_discriminant_curve",
+           "trace_discriminant_curve", "classify_join", "meeting_points", "clipped", "reach_box",
            "merge_cells", "strip_blocked"]
 
 #: A projected turn sharper than this (cosine between the directions before and after) is a cusp candidate.
@@ -71,6 +71,12 @@ class CurvePointKind(str, enum.Enum):
     NODE = "node"   #: two arcs cross (a member with two singular points)
     #: an isolated real point of the discriminant: the real member is singular only at a conjugate pair of points
     ISOLATED = "isolated"
+    #: arcs of the discriminant meet at the image of a singular point of the incidence set S (e.g. two components
+    #: meeting, transversally or tangentially: x^3 + a x^2 + b at a = b = 0, the triple root)
+    MEETING = "meeting"
+    #: a candidate (``candidate``: the kind it was taken for) that Newton did not refine: neither confirmed nor
+    #: ruled out, given at the traced accuracy
+    UNDECIDED = "undecided"
 
 
 @dataclass
@@ -83,19 +89,41 @@ class CurvePoint:
     point : ndarray of float, shape (2,)
         In the parameter plane.
     refined : bool
-        Newton converged on the square system of its kind (else: at the traced accuracy).
+        Newton converged on the system of its kind (else: at the traced accuracy, and the kind is UNDECIDED).
+    candidate : CurvePointKind or None
+        For an UNDECIDED point: the kind it was a candidate for.
     """
 
     kind: CurvePointKind
     point: np.ndarray
     refined: bool
+    candidate: object = None
 
     def to_dict(self):
-        return {"kind": self.kind.value, "point": [float(v) for v in self.point], "refined": bool(self.refined)}
+        data = {"kind": self.kind.value, "point": [float(v) for v in self.point], "refined": bool(self.refined)}
+        if self.candidate is not None:
+            data["candidate"] = self.candidate.value
+        return data
 
     @classmethod
     def from_dict(cls, data):
-        return cls(CurvePointKind(data["kind"]), np.array(data["point"], dtype=float), bool(data["refined"]))
+        candidate = data.get("candidate")
+        return cls(CurvePointKind(data["kind"]), np.array(data["point"], dtype=float), bool(data["refined"]),
+                   None if candidate is None else CurvePointKind(candidate))
+
+    @classmethod
+    def found(cls, kind, point, refined):
+        """A special point of ``kind`` if Newton refined it, else an UNDECIDED candidate for that kind.
+
+        Examples
+        --------
+        >>> CurvePoint.found(CurvePointKind.CUSP, np.zeros(2), False).kind.value
+        'undecided'
+        """
+        point = np.asarray(point, dtype=float).copy()
+        if refined:
+            return cls(kind, point, True)
+        return cls(CurvePointKind.UNDECIDED, point, False, kind)
 
 
 @dataclass
@@ -105,7 +133,7 @@ class DiscriminantCurve:
     Attributes
     ----------
     arcs : list of ndarray, shape (P, 2)
-        Polylines in the parameter plane (traced in the box enlarged by half its size).
+        Polylines in the parameter plane, cut to the box enlarged by half its size on every side (:func:`reach_box`).
     box : tuple of ndarray
         Lower and upper corners in the parameter plane.
     special : list of CurvePoint
@@ -273,8 +301,24 @@ def trace_discriminant_curve(family, codimension, max_exact_minors, lines, rng, 
     pieces = [b.points for b in curve.branches(clip=False) if len(b.points) >= 2]
     diagonal = float(np.linalg.norm(high - low))
     refining = SingularIncidence(incidence, n, codimension)
-    special = _cusps(refining, pieces, n, diagonal) + _nodes(refining, pieces, n, diagonal)
-    return DiscriminantCurve([p[:, n:].copy() for p in pieces], (low, high), special, curve.failed_arcs, notes)
+    special = _cusps(refining, pieces, n, diagonal) + _nodes(refining, pieces, n, diagonal) \
+        + meeting_points(refining, curve, n, low, high)
+    # the tracer's region reaches past the box; the arcs are given up to half the box beyond it (what the regions use)
+    lifts, _ = clipped(pieces, *reach_box(low, high))
+    arcs = [snapped_ends(refining, lift, *reach_box(low, high))[:, n:] for lift in lifts]
+    return DiscriminantCurve(arcs, (low, high), special, curve.failed_arcs, notes)
+
+
+def reach_box(low, high):
+    """The [ranges] box enlarged by half its size on every side: where the curve's arcs are given.
+
+    Examples
+    --------
+    >>> [c.tolist() for c in reach_box(np.array([-3.0, 0.0]), np.array([3.0, 2.0]))]
+    [[-6.0, -1.0], [6.0, 3.0]]
+    """
+    span = high - low
+    return low - 0.5 * span, high + 0.5 * span
 
 
 def _cusps(incidence, pieces, n, diagonal):
@@ -436,7 +480,7 @@ class SingularIncidence:
         moved = np.linalg.norm(z[n:n + 2] - start[n:])
         limit = 0.05 * (1 + np.linalg.norm(start[n:])) if reach is None else reach
         good = bool(converged and moved <= limit)
-        return CurvePoint(CurvePointKind.CUSP, (z if good else start)[n:n + 2].copy(), good)
+        return CurvePoint.found(CurvePointKind.CUSP, (z if good else start)[n:n + 2], good)
 
     def refined_node(self, first, second, reach=None):
         """Newton on {G(x_1, p) = 0, G(x_2, p) = 0} from a traced crossing (two lifts (x, p) of one p).
@@ -467,7 +511,268 @@ class SingularIncidence:
         moved = np.linalg.norm(z[2 * n:] - start[2 * n:])
         limit = 0.05 * (1 + np.linalg.norm(start[2 * n:])) if reach is None else reach
         good = bool(converged and apart and moved <= limit)
-        return CurvePoint(CurvePointKind.NODE, (z[2 * n:] if good else start[2 * n:]).copy(), good)
+        return CurvePoint.found(CurvePointKind.NODE, z[2 * n:] if good else start[2 * n:], good)
+
+
+    def _second_derivatives(self):
+        """The rows of the full Jacobian of G (in x and p), one polynomial per entry, ready to evaluate."""
+        if not hasattr(self, "_gradients_of"):
+            self._gradients_of = BatchEvaluator([p.derivative(j) for p in self.polynomials for j in range(self.n + 2)])
+        return self._gradients_of
+
+    def fold_point(self, start, direction, reach):
+        """A fold of the projection towards lines along ``direction``, sought from a point (x, p) of S.
+
+        A fold is a smooth point of S whose tangent's p-part is along the lines (a critical point of the
+        p-coordinate across them): Gauss-Newton on {G = 0, J G v = 0, m . v_p = 0, c . v = 1} in (x, p, v), v in
+        (x, p), m the lines' normal. A cusp (v_p = 0) solves it too: the caller tells them apart.
+
+        Returns
+        -------
+        ndarray, shape (n + 2,), or None
+            The point (x, p), or None when Newton fails or p moves further than ``reach``.
+
+        Examples
+        --------
+        >>> from numag.system.parse import parse_system
+        >>> circle = Family(parse_system(["x^2 + a^2 + b^2 - 1"], ["x", "a", "b"]), ("a", "b"))
+        >>> start = np.array([0.0, 0.6, 0.8])   # on the circle a^2 + b^2 = 1 (x = 0)
+        >>> fold = SingularIncidence.of(circle, 1, 24).fold_point(start, np.array([1.0, 0.0]), 1.0)
+        >>> np.round(fold, 10).tolist()   # the top of the circle: the tangent along a
+        [0.0, 0.0, 1.0]
+        """
+        n, size = self.n, self.n + 2
+        rows = len(self.polynomials)
+        gradients = self._second_derivatives()
+        normal = np.array([-direction[1], direction[0]], dtype=float)
+        start = np.asarray(start, dtype=float)
+        _, jacobian = self._evaluate(self.values_of, start)
+        vector = np.linalg.svd(jacobian)[2][-1]
+        scale = vector.copy()
+
+        def residual_and_jacobian(z):
+            point, v = z[:size], z[size:]
+            g, g_j = self._evaluate(self.values_of, point)
+            j, j_j = self._evaluate(gradients, point)
+            matrix = j.reshape(rows, size)
+            second = j_j.reshape(rows, size, size)
+            values = np.concatenate([g, matrix @ v, [normal @ v[n:], scale @ v - 1.0]])
+            top = np.hstack([g_j, np.zeros((rows, size))])
+            middle = np.hstack([np.einsum("ikl,k->il", second, v), matrix])
+            across = np.concatenate([np.zeros(size + n), normal])[None, :]
+            last = np.concatenate([np.zeros(size), scale])[None, :]
+            return values, np.vstack([top, middle, across, last])
+
+        z, converged = _newton(residual_and_jacobian, np.concatenate([start, vector]))
+        if not converged or np.linalg.norm(z[n:size] - start[n:]) > reach:
+            return None
+        return z[:size]
+
+    def refined_meeting(self, start, reach):
+        """Gauss-Newton from a singular point of the traced S onto {G = 0, w^T J G = 0, c . w = 1} in (x, p, w).
+
+        Where two components of S meet (or S is otherwise singular) the rank of J G drops: a left null vector w
+        exists. Converges quadratically where the meeting is an ordinary one (distinct tangents of S).
+
+        Returns
+        -------
+        CurvePoint
+            MEETING when converged within ``reach`` (in p) of the start, else UNDECIDED.
+
+        Examples
+        --------
+        >>> from numag.system.parse import parse_system
+        >>> cubic = Family(parse_system(["x^3 + a*x^2 + b"], ["x", "a", "b"]), ("a", "b"))
+        >>> meeting = SingularIncidence.of(cubic, 1, 24).refined_meeting(np.array([1e-4, -2e-4, 1e-5]), 0.1)
+        >>> meeting.kind.value, bool(np.abs(meeting.point).max() < 1e-10)
+        ('meeting', True)
+        """
+        n, size = self.n, self.n + 2
+        rows = len(self.polynomials)
+        gradients = self._second_derivatives()
+        _, jacobian = self._evaluate(self.values_of, start)
+        left = np.linalg.svd(jacobian)[0][:, -1]
+        scale = left.copy()
+
+        def residual_and_jacobian(z):
+            point, w = z[:size], z[size:]
+            g, g_j = self._evaluate(self.values_of, point)
+            j, j_j = self._evaluate(gradients, point)
+            matrix = j.reshape(rows, size)
+            second = j_j.reshape(rows, size, size)
+            values = np.concatenate([g, w @ matrix, [scale @ w - 1.0]])
+            top = np.hstack([g_j, np.zeros((rows, rows))])
+            middle = np.hstack([np.einsum("ikl,i->kl", second, w), matrix.T])
+            last = np.concatenate([np.zeros(size), scale])[None, :]
+            return values, np.vstack([top, middle, last])
+
+        z, converged = _newton(residual_and_jacobian, np.concatenate([start, left]))
+        moved = np.linalg.norm(z[n:size] - start[n:])
+        good = bool(converged and moved <= reach)
+        return CurvePoint.found(CurvePointKind.MEETING, z[n:size] if good else start[n:], good)
+
+
+def classify_join(incidence, lift, ends, n, reach):
+    """A join of two arc ends on one trace line: a refined cusp, nothing (a fold), or an UNDECIDED candidate.
+
+    The join's middle is not a point of the curve (its two ends are): Newton decides. A cusp refined from the
+    middle within ``reach`` is reported. Else a fold is sought from each end (:meth:`SingularIncidence.fold_point`,
+    within ``reach`` beyond the join's length, the lines along the join); a fold found is a cusp if the cusp's
+    Newton converges from it, else nothing is reported. What is neither is UNDECIDED.
+
+    Parameters
+    ----------
+    incidence : SingularIncidence or None
+    lift : ndarray, shape (n + 2,)
+        Mean x of the two ends, middle of the join in p.
+    ends : ndarray, shape (2, n + 2)
+        The two ends (points of S).
+    n : int
+    reach : float
+
+    Returns
+    -------
+    CurvePoint or None
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> circle = SingularIncidence.of(Family(parse_system(["x^2 + a^2 + b^2 - 1"], ["x", "a", "b"]), ("a", "b")), 1, 24)
+    >>> ends = np.array([[0.0, -0.6, 0.8], [0.0, 0.6, 0.8]])   # a chord of the circle, below its top
+    >>> print(classify_join(circle, ends.mean(axis=0), ends, 1, 0.5))
+    None
+    """
+    lift, ends = np.asarray(lift, dtype=float), np.asarray(ends, dtype=float)
+    if incidence is None:
+        return CurvePoint.found(CurvePointKind.CUSP, lift[n:], False)
+    cusp = incidence.refined_cusp(lift, reach)
+    if cusp.refined:
+        return cusp
+    chord = ends[1, n:] - ends[0, n:]
+    length = float(np.linalg.norm(chord))
+    if length > 0:
+        for end in ends:
+            fold = incidence.fold_point(end, chord / length, reach + length)
+            if fold is None:
+                continue
+            # a cusp also has a tangent with no p-part across the lines: the cusp's own Newton tells
+            at_fold = incidence.refined_cusp(fold, reach)
+            return at_fold if at_fold.refined else None
+    return cusp
+
+
+def meeting_points(incidence, curve, n, low, high):
+    """The images of the singular vertices of the traced S inside the box (low, high), refined.
+
+    Parameters
+    ----------
+    incidence : SingularIncidence
+    curve : RealCurve
+        The trace of S in (x, p).
+    low, high : ndarray, shape (2,)
+
+    Returns
+    -------
+    list of CurvePoint
+    """
+    diagonal = float(np.linalg.norm(high - low))
+    found = []
+    for vertex, kind in zip(curve.vertices, curve.vertex_kinds):
+        if kind != VertexKind.SINGULAR or not np.all((vertex[n:] >= low) & (vertex[n:] <= high)):
+            continue
+        # the tracer knows a singular point of multiplicity k to about eps^(1/k): Newton may move it that far
+        point = incidence.refined_meeting(np.asarray(vertex, dtype=float), 1e-3 * diagonal)
+        if all(np.linalg.norm(point.point - f.point) > 1e-6 * diagonal for f in found):
+            found.append(point)
+    return found
+
+
+def clipped(arcs, low, high):
+    """The polylines cut to the box (low, high): the pieces inside, ending on its boundary, and their arc indices.
+
+    The box bounds the last ``len(low)`` columns (the parameters of lifts (x, p)); an end on the boundary is
+    interpolated on the segment that leaves the box, with its bounded coordinate set to the bound exactly.
+
+    Examples
+    --------
+    >>> pieces, sources = clipped([np.array([[0.0, 0.0], [2.0, 0.0], [2.0, 2.0]])], np.zeros(2), np.ones(2))
+    >>> [p.tolist() for p in pieces], sources
+    ([[[0.0, 0.0], [1.0, 0.0]]], [0])
+    """
+    pieces, sources = [], []
+    for number, arc in enumerate(arcs):
+        inside = np.all((arc[:, -len(low):] >= low) & (arc[:, -len(low):] <= high), axis=1)
+        current = []
+        for k in range(len(arc)):
+            if inside[k]:
+                if not current and k > 0:
+                    current.append(_boundary(arc[k], arc[k - 1], low, high))
+                current.append(arc[k])
+                continue
+            if current:
+                current.append(_boundary(arc[k - 1], arc[k], low, high))
+                pieces.append(np.array(current))
+                sources.append(number)
+                current = []
+        if current:
+            pieces.append(np.array(current))
+            sources.append(number)
+    keep = [k for k, piece in enumerate(pieces) if len(piece) >= 2]
+    return [pieces[k] for k in keep], [sources[k] for k in keep]
+
+
+def _boundary(inside, outside, low, high):
+    """Where the segment from a point inside the box to one outside leaves it (bounds on the last columns)."""
+    step = outside - inside
+    tail = slice(len(inside) - len(low), len(inside))
+    with np.errstate(divide="ignore", invalid="ignore"):
+        limits = np.where(step[tail] > 0, (high - inside[tail]) / step[tail],
+                          np.where(step[tail] < 0, (low - inside[tail]) / step[tail], np.inf))
+    axis = int(np.argmin(limits))
+    point = inside + min(1.0, float(limits[axis])) * step
+    if limits[axis] <= 1.0:
+        point[tail.start + axis] = high[axis] if step[tail][axis] > 0 else low[axis]
+    return point
+
+
+def snapped_ends(incidence, lift, low, high):
+    """A clipped lift (x, p) with its ends on the box's boundary moved onto S along the boundary.
+
+    An end cut from a chord lies off the curve by the chord's sag; Gauss-Newton on G with the bounded
+    coordinate held puts it back, when it converges within the last step. Ends it does not are kept.
+
+    Parameters
+    ----------
+    incidence : SingularIncidence or None
+    lift : ndarray, shape (P, n + 2)
+    low, high : ndarray, shape (2,)
+
+    Returns
+    -------
+    ndarray, shape (P, n + 2)
+    """
+    lift = np.array(lift, dtype=float)
+    if incidence is None or len(lift) < 2:
+        return lift
+    n = incidence.n
+    for end, neighbour in ((0, 1), (-1, -2)):
+        on_bound = np.nonzero((lift[end, n:] == low) | (lift[end, n:] == high))[0]
+        if len(on_bound) != 1:
+            continue
+        held = n + int(on_bound[0])
+        free = [k for k in range(n + 2) if k != held]
+
+        def residual_and_jacobian(z, start=lift[end]):
+            point = start.copy()
+            point[free] = z
+            values, jacobian = incidence._evaluate(incidence.values_of, point)
+            return values, jacobian[:, free]
+
+        z, converged = _newton(residual_and_jacobian, lift[end, free])
+        step = np.linalg.norm(lift[end] - lift[neighbour])
+        if converged and np.linalg.norm(z - lift[end, free]) <= step:
+            lift[end, free] = z
+    return lift
 
 
 #: The system of two singular points over one parameter value is solved when its total degree is at most this
@@ -577,14 +882,14 @@ def _newton(residual_and_jacobian, start, iterations=30):
 def _cusp_point(incidence, point, n, reach=None):
     """A cusp refined on the incidence, or at the traced position when there is none to refine on."""
     if incidence is None:
-        return CurvePoint(CurvePointKind.CUSP, np.asarray(point[n:], dtype=float).copy(), False)
+        return CurvePoint.found(CurvePointKind.CUSP, point[n:], False)
     return incidence.refined_cusp(np.asarray(point, dtype=float), reach)
 
 
 def _node_point(incidence, first, second, n, reach=None):
     """A node refined on the incidence, or the middle of the traced crossing."""
     if incidence is None:
-        return CurvePoint(CurvePointKind.NODE, 0.5 * (first[n:] + second[n:]), False)
+        return CurvePoint.found(CurvePointKind.NODE, 0.5 * (first[n:] + second[n:]), False)
     return incidence.refined_node(np.asarray(first, dtype=float), np.asarray(second, dtype=float), reach)
 
 

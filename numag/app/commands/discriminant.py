@@ -12,7 +12,7 @@ from ...families.discriminant import DiscriminantOptions, discriminant
 from ...families.branches import CountKind
 from ...families.records import ComponentKind
 from ..picture import discriminant_svg, sweep_svg
-from ..report import CAUTION, discriminant_warnings, dumps
+from ..report import CAUTION, discriminant_warnings, dumps, undecided_special_points
 from ..saved import save
 from .common import (EXIT_OK, EXIT_UNDECIDED, _add_executor_options, _add_work_options, _ROUNDING, _format_complex,
                      _progress, _seed, _stage_executor)
@@ -52,7 +52,7 @@ def add_parser(commands):
 
 def _failed(result):
     tracked = sum(result.paths.get(label, 0) for label in FAILURE_LABELS)
-    traced = result.curve.failed_arcs if result.curve is not None else 0
+    traced = result.curve.failed_arcs + undecided_special_points(result.curve) if result.curve is not None else 0
     return tracked + sum(r.count.failed for r in result.regions) + traced
 
 
@@ -130,10 +130,13 @@ def _print_curve(result, out):
     low, high = curve.box
     out.write(f"\nreal discriminant curve: {counted(len(curve.arcs), 'traced piece')} in {first} in "
               f"[{low[0]:.6g}, {high[0]:.6g}], {second} in [{low[1]:.6g}, {high[1]:.6g}]"
-              + (f" ({counted(curve.failed_arcs, 'arc end')} failed)" if curve.failed_arcs else "") + "\n")
+              + (f" ({counted(curve.failed_arcs, 'arc end')} failed)" if curve.failed_arcs else "")
+              + "; the arcs run on to half the box beyond it\n")
     for point in curve.special:
-        accuracy = "refined" if point.refined else "at the traced accuracy"
-        out.write(f"  {point.kind.value:5s} at {first}={point.point[0]:.10g}, {second}={point.point[1]:.10g} "
+        accuracy = "refined" if point.refined else \
+            f"a {point.candidate.value} candidate at the traced accuracy: not confirmed" if point.candidate else \
+            "at the traced accuracy"
+        out.write(f"  {point.kind.value:9s} at {first}={point.point[0]:.10g}, {second}={point.point[1]:.10g} "
                   f"({accuracy})\n")
     if result.plane_regions:
         out.write(f"\n{counted(len(result.plane_regions), 'region')} of the plane (cells joined where the curve does "
