@@ -523,9 +523,11 @@ def _judged_centred(system, options, seed, progress, locus, dropped):
             # points there may lie on a piece it missed)
             if not (any(not c.at_infinity and c.dimension > 0 for c in local.components)
                     or any(local.discarded.get(key, 0) for key in _GLOBAL_DOUBTS)):
-                added = [c for c in _centred_points(system, centring, here, local)
-                         if not any(_same_point(c, d) for d in locus.components)]
-                _set_components(locus, locus.components + added)
+                # one point found by both runs is taken from the centred one (computed in the features' own units:
+                # a multiple endpoint of the first run can refine to within 1e-6 of the point only)
+                centred = _centred_points(system, centring, here, local)
+                _set_components(locus, [c for c in locus.components if not any(_same_point(d, c) for d in centred)]
+                                + centred)
             unresolved = sum(1 for candidate in settled if candidate.unresolved)
             if unresolved:
                 locus.discarded["unresolved_multiple_endpoint"] = \
