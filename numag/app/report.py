@@ -221,6 +221,13 @@ def completeness_warnings(data):
         warnings.append(f"{counted(merged, 'singular candidate')} refined onto a singular point found from another "
                         "candidate, and coordinates centred there did not settle it: a singular point nearby may be "
                         "missing; move the origin near it and rescale the coordinates to decide.")
+    unresolved = int((data.get("discarded") or {}).get("unresolved_multiple_endpoint", 0)) if isinstance(
+        data.get("discarded"), dict) else 0
+    if unresolved:  # several paths ended together far from the point refinement found (decision 0071, addendum)
+        warnings.append(f"{counted(unresolved, 'multiple endpoint')} refined onto a singular point far from where "
+                        "the paths ended, and coordinates centred there did not settle the points nearby: several "
+                        "singular points close together may have been taken for one, and some may be missing; "
+                        "move the origin near them and rescale the coordinates to decide.")
     mismatched = int((data.get("discarded") or {}).get("tangent_dimension_mismatch", 0)) if isinstance(
         data.get("discarded"), dict) else 0
     if mismatched:  # the rank-drop system's decomposition disagrees with itself: its pieces cannot be trusted

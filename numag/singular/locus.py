@@ -518,20 +518,30 @@ def _judged_centred(system, options, seed, progress, locus, dropped):
                  or any(within(p.point[None, :], here)[0] for p in local.near_singular)
                  or any(not c.at_infinity and c.dimension > 0 for c in local.components))
         if doubt:
+            # Not settled, but what the centred run found is found: its singular points in the region join the
+            # first run's (the cusp at (7, 7): the first run's two multiple endpoints refined onto 2 of the 4
+            # points, the centred run found all 4 and one candidate it could not settle on X). A multiple endpoint
+            # kept as a singular point had no warning of its own: it is counted now, so that a point it stood for
+            # and that neither run found is never lost silently (decision 0071, addendum).
+            # (not where the centred run found a singular curve, or doubts its own decomposition: isolated
+            # points there may lie on a piece it missed)
+            if not (any(not c.at_infinity and c.dimension > 0 for c in local.components)
+                    or any(local.discarded.get(key, 0) for key in _GLOBAL_DOUBTS)):
+                # one point found by both runs is taken from the centred one (computed in the features' own units:
+                # a multiple endpoint of the first run can refine to within 1e-6 of the point only)
+                centred = _centred_points(system, centring, here, local)
+                _set_components(locus, [c for c in locus.components if not any(_same_point(d, c) for d in centred)]
+                                + centred)
+            unresolved = sum(1 for candidate in settled if candidate.unresolved)
+            if unresolved:
+                locus.discarded["unresolved_multiple_endpoint"] = \
+                    locus.discarded.get("unresolved_multiple_endpoint", 0) + unresolved
             locus.notes.append(f"Coordinates centred at {short_point(centring.point)} did not settle "
                                f"{counted(len(settled), 'doubtful candidate')} there either.")
             continue
-        kept = [c for c in locus.components if c.at_infinity or c.dimension > 0
-                or not within(c.points[:1], centring)[0]]
-        for component in local.components:
-            if component.at_infinity or component.dimension > 0 or not within(component.points[:1], here)[0]:
-                continue
-            points = component.points + centring.point[None, :]
-            kept.append(replace(component, points=points, real=_real_flags(system, points),
-                                notes=component.notes + ["Found in coordinates centred nearby (decision 0071)."]))
-        locus.components = sorted(kept, key=lambda c: (c.at_infinity, -c.dimension, -c.degree))
-        for k, component in enumerate(locus.components, 1):
-            component.id = k
+        _set_components(locus, [c for c in locus.components if c.at_infinity or c.dimension > 0
+                                or not within(c.points[:1], centring)[0]]
+                        + _centred_points(system, centring, here, local))
         inside = [c for c in locus.components if not c.at_infinity and c.dimension == 0
                   and within(c.points[:1], centring)[0]]
         if inside:  # singular as written: a near-singular report there (smooth as written) is withdrawn
@@ -548,6 +558,33 @@ def _judged_centred(system, options, seed, progress, locus, dropped):
         locus.notes.append(f"{counted(len(settled), 'doubtful candidate')} near {short_point(centring.point)} "
                            "judged again in coordinates centred there (features far smaller than their distance "
                            "from the origin; decision 0071).")
+
+
+def _centred_points(system, centring, here, local):
+    """The centred run's isolated singular points in the region, moved back to the original coordinates."""
+    moved = []
+    for component in local.components:
+        if component.at_infinity or component.dimension > 0 or not within(component.points[:1], here)[0]:
+            continue
+        points = component.points + centring.point[None, :]
+        moved.append(replace(component, points=points, real=_real_flags(system, points),
+                             notes=component.notes + ["Found in coordinates centred nearby (decision 0071)."]))
+    return moved
+
+
+def _same_point(piece, other):
+    """Whether two isolated affine pieces are one point (within ``_DUPLICATE_RADIUS``, relative)."""
+    if piece.at_infinity or other.at_infinity or piece.dimension > 0 or other.dimension > 0:
+        return False
+    point = piece.points[0]
+    return bool(np.linalg.norm(other.points[0] - point) <= _DUPLICATE_RADIUS * (1 + np.linalg.norm(point)))
+
+
+def _set_components(locus, components):
+    """Replace the locus' pieces, in the report's order and numbered from 1."""
+    locus.components = sorted(components, key=lambda c: (c.at_infinity, -c.dimension, -c.degree))
+    for k, component in enumerate(locus.components, 1):
+        component.id = k
 
 
 #: Counts of a centred run that leave doubt anywhere, so also in the region it was asked about.
