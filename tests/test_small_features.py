@@ -48,6 +48,7 @@ import sympy  # noqa: E402  (the exact reference of the cases below)
 
 from numag.app.report import singular_to_dict  # noqa: E402
 from numag.singular.locus import SingularOptions  # noqa: E402
+from numag.singular.kinds import PieceKind  # noqa: E402
 from numag.system.polynomial import PolynomialSystem  # noqa: E402
 
 #: A cusp at (7, 7) and a line 1e-4 from it: the cusp and three crossings (one real) within 2e-3 (sympy).
@@ -56,8 +57,9 @@ CUSP_AND_LINE = ("cusp at (7, 7) and a line 1e-4 away", "(((y - 7) - (2/5)*(x - 
 
 
 def warnings_of(locus):
-    """The completeness warnings of a locus, as the command line would print them (exit 3 when any)."""
-    return completeness_warnings(singular_to_dict(locus, SingularOptions()))
+    """What makes the command line exit 3: the completeness warnings of a locus and its undecided pieces."""
+    undecided = [f"piece {c.id} undecided" for c in locus.components if c.kind is PieceKind.UNDECIDED]
+    return completeness_warnings(singular_to_dict(locus, SingularOptions())) + undecided
 
 #: (label, equation, variables). Each has its singular features at 1e-5..2e-3 of their distance from the origin.
 FAR_FEATURES = [
