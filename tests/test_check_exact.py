@@ -195,3 +195,18 @@ def test_a_reduced_curve_far_from_the_origin_is_never_called_non_reduced(tmp_pat
     assert report["points"][0]["verdict"] == "singular"
     if report.get("decomposition_warnings"):  # said, and reflected in the exit code
         assert code == EXIT_UNDECIDED
+
+
+@pytest.mark.parametrize("seed", [1, 2, 3])
+def test_nodes_of_a_plane_curve_far_from_the_origin_are_singular_whatever_the_membership(tmp_path, capsys, seed):
+    # Two circles of radius 5 about (1234, -2345) and (1240, -2345) cross at (1237, -2341) and (1237, -2349)
+    # (3-4-5 triangles; common practice, no source). One equation: every component of X has dimension 1
+    # (Krull's principal ideal theorem), so the verdict never waits for the membership test to find a component.
+    f = ((X - 1234) ** 2 + (Y + 2345) ** 2 - 25) * ((X - 1240) ** 2 + (Y + 2345) ** 2 - 25)
+    for node in ((1237, -2341), (1237, -2349)):
+        assert all(g.subs({X: node[0], Y: node[1]}) == 0 for g in (f, sympy.diff(f, X), sympy.diff(f, Y)))
+    path = tmp_path / "system.toml"
+    path.write_text('variables = ["x", "y"]\nequations = ["((x-1234)^2+(y+2345)^2-25)*((x-1240)^2+(y+2345)^2-25)"]\n')
+    main(["check", str(path), "--json", "--point", "x=1237,y=-2341", "--point", "x=1237,y=-2349", "--seed", str(seed)])
+    report = json.loads(capsys.readouterr().out)
+    assert [p["verdict"] for p in report["points"]] == ["singular", "singular"]

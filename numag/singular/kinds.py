@@ -50,6 +50,7 @@ class LocalDimensionSource(TextEnum):
     COMPONENTS = "components through the point"
     FULL_RANK = "complete intersection (Jacobian of full rank)"   # independent equations: no assumption
     ASSUMED = "complete intersection (assumed)"
+    HYPERSURFACE = "one equation (every component of X has dimension n - 1)"   # Krull: no assumption
     ISOLATED = "isolated point (Jacobian injective)"
     UNKNOWN = "unknown"
     NOT_JUDGED = "not judged (the point is not on X)"   # the verdict "off"

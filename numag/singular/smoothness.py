@@ -416,6 +416,8 @@ class _Checker:
         if self.m <= ambient:
             if rank == self.m:  # independent equations: a smooth complete intersection, no assumption
                 return self.m, LocalDimensionSource.FULL_RANK
+            if self.m == 1:  # every component of a hypersurface has codimension 1 (Krull's principal ideal theorem)
+                return 1, LocalDimensionSource.HYPERSURFACE
             if through is not None:
                 # X was decomposed and no component passes through this point of X: the decomposition missed
                 # what is here (a sphere far from the origin whose membership test failed), and assuming a
