@@ -32,7 +32,6 @@ Examples
 """
 
 import enum
-import itertools
 from dataclasses import dataclass
 
 import numpy as np
@@ -40,7 +39,7 @@ import numpy as np
 from ..numeric.evaluate import BatchEvaluator, TermSizes
 from ..numeric.refine import project_to_variety
 from ..system.polynomial import Polynomial, PolynomialSystem
-from .hypersurface import HESSIAN_ZERO, morse_alpha
+from .hypersurface import HESSIAN_ZERO, morse_alpha, taylor_at
 
 __all__ = ["Deflation", "DeflationOutcome", "onto_singular_point", "deflated_system", "ROUNDING_RESIDUAL"]
 
@@ -190,47 +189,6 @@ def deflated_system(polynomials, jacobian, rank, rng, real):
     rhs[-1] = 1.0
     lam = np.linalg.lstsq(stacked, rhs, rcond=None)[0]
     return padded + [a for a in added if not a.is_zero()], lam
-
-
-#: Digits of the Taylor expansion at the point (:func:`taylor_at`).
-_TAYLOR_DIGITS = 60
-
-
-def taylor_at(polynomial, point, digits=_TAYLOR_DIGITS):
-    """f(p + u) as a polynomial in u, its coefficients summed in mpmath and rounded once to double.
-
-    Summed in double (``substitute_linear``), every coefficient carries rounding of the size of the terms it is
-    summed from, which at a point off a singular point is larger than the small coefficients the deflation
-    reads (the offset's traces in the linear and quadratic terms). The binomial expansion
-    sum_a c_a C(a, b) p^(a - b) u^b at 60 digits gives each coefficient of the given f to its own relative
-    precision (f's coefficients are taken as exact).
-
-    Examples
-    --------
-    >>> cusp = Polynomial(np.array([[0, 2], [3, 0]]), np.array([1.0, -1.0]), 2)
-    >>> moved = taylor_at(cusp, np.array([1e-9, 0.0]))
-    >>> sorted((tuple(e), f"{abs(c):.3g}") for e, c in zip(moved.exponents.tolist(), moved.numeric_coefficients()))
-    [((0, 0), '1e-27'), ((0, 2), '1'), ((1, 0), '3e-18'), ((2, 0), '3e-09'), ((3, 0), '1')]
-    """
-    import mpmath
-
-    n = polynomial.n_variables
-    point = np.asarray(point, dtype=complex)
-    sums = {}
-    with mpmath.workdps(digits):
-        base = [mpmath.mpc(complex(v)) for v in point]
-        for exponent, coefficient in zip(polynomial.exponents.tolist(), polynomial.numeric_coefficients()):
-            c = mpmath.mpc(complex(coefficient))
-            for lower in itertools.product(*[range(e + 1) for e in exponent]):
-                term = c
-                for j in range(n):
-                    if exponent[j] > lower[j]:
-                        term *= mpmath.binomial(exponent[j], lower[j]) * base[j] ** (exponent[j] - lower[j])
-                sums[lower] = sums.get(lower, 0) + term
-        exponents = np.array(list(sums.keys()), dtype=polynomial.exponents.dtype).reshape(-1, n)
-        coefficients = np.array([complex(v) for v in sums.values()], dtype=complex)
-    keep = coefficients != 0
-    return Polynomial(exponents[keep], coefficients[keep], n)
 
 
 def _singular_residual(polynomial, point):
