@@ -59,6 +59,10 @@ _FARTHEST = 1e-3
 _SINGULAR = 1e-8
 #: A move of at most this (relative to 1 + |p|) is rounding: the given point is kept as the singular point.
 _ROUNDING_MOVE = 1e-14
+#: A deflation end further than this many Newton steps of grad f (Smale's beta at the start, where the Hessian is
+#: invertible beyond its rounding) went to another critical point: off an A_k the step is 1/k of the offset
+#: (k <= 8 is read), off a node 2e-4 from another one after a linear change the end was 500 steps away.
+_NEWTON_STEPS = 50.0
 #: Residuals of (f, grad f) below this are rounding: the moved point is not judged worse by them.
 ROUNDING_RESIDUAL = 1e-12
 
@@ -74,6 +78,8 @@ class DeflationOutcome(enum.Enum):
     TOO_FAR = "deflation ended far from the point: the point was kept"
     NO_BETTER = "the moved point is no closer to being singular: the point was kept"
     NOT_SINGULAR = "no singular point near the point: it was kept"
+    BEYOND_NEWTON = ("deflation ended many Newton steps of grad f away from a point whose Hessian is invertible "
+                     "(another critical point): the point was kept")
     ANOTHER_POINT = ("deflation ended at a Morse point that the given point is not close to by Smale's alpha "
                      "(another critical point): the point was kept")
 
@@ -266,6 +272,9 @@ def onto_singular_point(polynomial, point, seed=0):
     # tacnode read 3e-6 off got a unit of 1e-4 along its kernel from a Hessian value of 1e-10 -- and the
     # ranks below were misread.)
     whole = taylor_at(f, point)
+    # Smale's alpha on the expansion at the start (u = 0): its Newton step beta is what the point is off a
+    # critical point whose Hessian is the start's (scale-free)
+    start = morse_alpha(whole, np.zeros(n, dtype=complex))
     high = whole.exponents.sum(axis=1) >= 2
     largest = float(np.max(np.abs(whole.numeric_coefficients()[high]), initial=0.0)) or 1.0
     whole = whole.scaled(1.0 / largest)
@@ -299,6 +308,13 @@ def onto_singular_point(polynomial, point, seed=0):
         # point inexact (E6's local picture was then not resolved)
         return kept(DeflationOutcome.ALREADY_THERE, steps)
     found = point + u
+    if start.hessian_regular and np.linalg.norm(u) > _NEWTON_STEPS * start.beta:
+        # the start's Hessian is invertible beyond its rounding, and the end lies many of its Newton steps away:
+        # off an A_k (or D, E) point the Newton step of grad f is a fixed share of the offset (1/2 off A2, 1/k
+        # off A_k), whereas a node after X = 2x + y, Y = x + y went 500 steps onto the critical point between it
+        # and its neighbour (residuals at rounding at both ends: nothing else objects). Lengths compared with
+        # lengths at the same point: no unit enters.
+        return kept(DeflationOutcome.BEYOND_NEWTON, steps)
     if morse_alpha(f, found).hessian_regular:
         # the end's Hessian is invertible beyond its rounding: no degenerate point, and the start was not within
         # its alpha-basin (else the test at the start would have found it): the stages went to another critical
