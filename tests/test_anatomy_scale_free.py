@@ -63,3 +63,67 @@ def test_smale_alpha_does_not_change_with_the_unit():
         equation = NODES.replace("X", x_of.replace("X", "x")).replace("Y", y_of.replace("Y", "y"))
         values.append(morse_alpha(parse_system([equation], ["x", "y"]).polynomials[0], node).alpha)
     assert max(values) < 3 * min(values) and max(values) < 0.01
+
+
+def _changed(x_of, y_of, unit):
+    """The nodes' equation after a linear change (X, Y as polynomials in x, y), with x, y in another unit."""
+    scale = {1e-3: "(x/1000)", 1.0: "x", 1e3: "(1000*x)"}[unit], {1e-3: "(y/1000)", 1.0: "y", 1e3: "(1000*y)"}[unit]
+    substitute = lambda text: text.replace("x", "\0").replace("y", scale[1]).replace("\0", scale[0])
+    return NODES.replace("X", substitute(x_of)).replace("Y", substitute(y_of))
+
+
+def _sympy_hessian_determinant(x_of, y_of, node):
+    """Reference: sympy's Hessian of the changed equation at the exact rational node (unit 1)."""
+    import sympy
+
+    x, y = sympy.symbols("x y")
+    X, Y = sympy.sympify(x_of, locals={"x": x, "y": y}), sympy.sympify(y_of, locals={"x": x, "y": y})
+    f = (Y - 2) ** 2 - ((X - 1) ** 2 - sympy.Rational(1, 10 ** 8)) ** 2
+    at = {x: node[0], y: node[1]}
+    assert all(sympy.diff(f, v).subs(at) == 0 for v in (x, y)) and f.subs(at) == 0   # a singular point
+    return sympy.hessian(f, (x, y)).subs(at).det()
+
+
+# X = x - y/3 (Y = y): the node X = 1 + 1e-4, Y = 2 is at x = 1.0001 + 2/3, y = 2 (exact: 10001/10000 + 2/3).
+SHEAR = ("(x - y/3)", "y")
+SHEAR_NODE = (1.0001 + 2 / 3, 2.0)
+# X = 2x + y, Y = x + y: the node is at x = -0.9999, y = 2.9999.
+RATIONAL = ("(2*x + y)", "(x + y)")
+RATIONAL_NODE = (-0.9999, 2.9999)
+
+
+@pytest.mark.parametrize("unit", [1e-3, 1.0, 1e3])
+@pytest.mark.parametrize("seed", [1, 2, 3])
+def test_a_node_after_a_shear_is_a_node_in_any_unit(unit, seed):
+    # Reference: the node's two branches (two parabolas crossing transversally; common practice, no source) and
+    # sympy's Hessian at the exact node: nonzero determinant, so a Morse point, A1 with mu = 1. Summed in
+    # double the Taylor coefficients' rounding hid the Hessian's small value and the deflation went 4.2e-5 onto
+    # the critical point between the two nodes, read A2 (decision 0073, addendum).
+    import sympy
+
+    exact = (sympy.Rational(10001, 10000) + sympy.Rational(2, 3), sympy.Integer(2))
+    assert _sympy_hessian_determinant(*SHEAR, exact) != 0
+    system = parse_system([_changed(*SHEAR, unit)], ["x", "y"])
+    anatomy = point_anatomy(system, np.array(SHEAR_NODE) / unit, seed=seed)
+    h = anatomy.hypersurface
+    assert h.type.label == "A1" and h.milnor == 1 and h.corank == 0, (unit, seed, h.type.label, anatomy.notes)
+    assert not any("deflation step" in note for note in anatomy.notes)
+    if anatomy.branches is not None:
+        assert len(anatomy.branches) == 2 and all(branch.real for branch in anatomy.branches)
+
+
+@pytest.mark.parametrize("unit", [1e-3, 1.0, 1e3])
+@pytest.mark.parametrize("seed", [1, 2, 3])
+def test_a_node_after_a_rational_change_is_not_said_moved_onto_another_point(unit, seed):
+    # Reference as above (sympy's Hessian at the exact node is invertible: A1). The balanced double polynomial
+    # cannot certify the node (decision 0073), so A1 or undecided; the deflation went 500 Newton steps onto
+    # the critical point between the nodes, and a note said the point was "moved onto the singular point".
+    import sympy
+
+    exact = (sympy.Rational(-9999, 10000), sympy.Rational(29999, 10000))
+    assert _sympy_hessian_determinant(*RATIONAL, exact) != 0
+    system = parse_system([_changed(*RATIONAL, unit)], ["x", "y"])
+    anatomy = point_anatomy(system, np.array(RATIONAL_NODE) / unit, seed=seed)
+    kind = anatomy.hypersurface.type
+    assert kind.family in (Family.A, Family.UNDECIDED) and kind.index in (1, None), (unit, seed, kind.label)
+    assert not any("moved onto the singular point" in note for note in anatomy.notes), anatomy.notes

@@ -32,7 +32,6 @@ Examples
 """
 
 import enum
-import itertools
 from dataclasses import dataclass
 
 import numpy as np
@@ -40,7 +39,7 @@ import numpy as np
 from ..numeric.evaluate import BatchEvaluator, TermSizes
 from ..numeric.refine import project_to_variety
 from ..system.polynomial import Polynomial, PolynomialSystem
-from .hypersurface import HESSIAN_ZERO, morse_alpha
+from .hypersurface import HESSIAN_ZERO, morse_alpha, taylor_at
 
 __all__ = ["Deflation", "DeflationOutcome", "onto_singular_point", "deflated_system", "ROUNDING_RESIDUAL"]
 
@@ -60,6 +59,10 @@ _FARTHEST = 1e-3
 _SINGULAR = 1e-8
 #: A move of at most this (relative to 1 + |p|) is rounding: the given point is kept as the singular point.
 _ROUNDING_MOVE = 1e-14
+#: A deflation end further than this many Newton steps of grad f (Smale's beta at the start, where the Hessian is
+#: invertible beyond its rounding) went to another critical point: off an A_k the step is 1/k of the offset
+#: (k <= 8 is read), off a node 2e-4 from another one after a linear change the end was 500 steps away.
+_NEWTON_STEPS = 50.0
 #: Residuals of (f, grad f) below this are rounding: the moved point is not judged worse by them.
 ROUNDING_RESIDUAL = 1e-12
 
@@ -75,6 +78,8 @@ class DeflationOutcome(enum.Enum):
     TOO_FAR = "deflation ended far from the point: the point was kept"
     NO_BETTER = "the moved point is no closer to being singular: the point was kept"
     NOT_SINGULAR = "no singular point near the point: it was kept"
+    BEYOND_NEWTON = ("deflation ended many Newton steps of grad f away from a point whose Hessian is invertible "
+                     "(another critical point): the point was kept")
     ANOTHER_POINT = ("deflation ended at a Morse point that the given point is not close to by Smale's alpha "
                      "(another critical point): the point was kept")
 
@@ -192,47 +197,6 @@ def deflated_system(polynomials, jacobian, rank, rng, real):
     return padded + [a for a in added if not a.is_zero()], lam
 
 
-#: Digits of the Taylor expansion at the point (:func:`taylor_at`).
-_TAYLOR_DIGITS = 60
-
-
-def taylor_at(polynomial, point, digits=_TAYLOR_DIGITS):
-    """f(p + u) as a polynomial in u, its coefficients summed in mpmath and rounded once to double.
-
-    Summed in double (``substitute_linear``), every coefficient carries rounding of the size of the terms it is
-    summed from, which at a point off a singular point is larger than the small coefficients the deflation
-    reads (the offset's traces in the linear and quadratic terms). The binomial expansion
-    sum_a c_a C(a, b) p^(a - b) u^b at 60 digits gives each coefficient of the given f to its own relative
-    precision (f's coefficients are taken as exact).
-
-    Examples
-    --------
-    >>> cusp = Polynomial(np.array([[0, 2], [3, 0]]), np.array([1.0, -1.0]), 2)
-    >>> moved = taylor_at(cusp, np.array([1e-9, 0.0]))
-    >>> sorted((tuple(e), f"{abs(c):.3g}") for e, c in zip(moved.exponents.tolist(), moved.numeric_coefficients()))
-    [((0, 0), '1e-27'), ((0, 2), '1'), ((1, 0), '3e-18'), ((2, 0), '3e-09'), ((3, 0), '1')]
-    """
-    import mpmath
-
-    n = polynomial.n_variables
-    point = np.asarray(point, dtype=complex)
-    sums = {}
-    with mpmath.workdps(digits):
-        base = [mpmath.mpc(complex(v)) for v in point]
-        for exponent, coefficient in zip(polynomial.exponents.tolist(), polynomial.numeric_coefficients()):
-            c = mpmath.mpc(complex(coefficient))
-            for lower in itertools.product(*[range(e + 1) for e in exponent]):
-                term = c
-                for j in range(n):
-                    if exponent[j] > lower[j]:
-                        term *= mpmath.binomial(exponent[j], lower[j]) * base[j] ** (exponent[j] - lower[j])
-                sums[lower] = sums.get(lower, 0) + term
-        exponents = np.array(list(sums.keys()), dtype=polynomial.exponents.dtype).reshape(-1, n)
-        coefficients = np.array([complex(v) for v in sums.values()], dtype=complex)
-    keep = coefficients != 0
-    return Polynomial(exponents[keep], coefficients[keep], n)
-
-
 def _singular_residual(polynomial, point):
     """Largest scaled residual of (f, grad f) at a point (term sizes)."""
     equations = [polynomial] + [q for q in polynomial.gradient() if not q.is_zero()]
@@ -308,6 +272,9 @@ def onto_singular_point(polynomial, point, seed=0):
     # tacnode read 3e-6 off got a unit of 1e-4 along its kernel from a Hessian value of 1e-10 -- and the
     # ranks below were misread.)
     whole = taylor_at(f, point)
+    # Smale's alpha on the expansion at the start (u = 0): its Newton step beta is what the point is off a
+    # critical point whose Hessian is the start's (scale-free)
+    start = morse_alpha(whole, np.zeros(n, dtype=complex))
     high = whole.exponents.sum(axis=1) >= 2
     largest = float(np.max(np.abs(whole.numeric_coefficients()[high]), initial=0.0)) or 1.0
     whole = whole.scaled(1.0 / largest)
@@ -341,6 +308,13 @@ def onto_singular_point(polynomial, point, seed=0):
         # point inexact (E6's local picture was then not resolved)
         return kept(DeflationOutcome.ALREADY_THERE, steps)
     found = point + u
+    if start.hessian_regular and np.linalg.norm(u) > _NEWTON_STEPS * start.beta:
+        # the start's Hessian is invertible beyond its rounding, and the end lies many of its Newton steps away:
+        # off an A_k (or D, E) point the Newton step of grad f is a fixed share of the offset (1/2 off A2, 1/k
+        # off A_k), whereas a node after X = 2x + y, Y = x + y went 500 steps onto the critical point between it
+        # and its neighbour (residuals at rounding at both ends: nothing else objects). Lengths compared with
+        # lengths at the same point: no unit enters.
+        return kept(DeflationOutcome.BEYOND_NEWTON, steps)
     if morse_alpha(f, found).hessian_regular:
         # the end's Hessian is invertible beyond its rounding: no degenerate point, and the start was not within
         # its alpha-basin (else the test at the start would have found it): the stages went to another critical
