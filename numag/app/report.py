@@ -176,6 +176,12 @@ def check_report_to_dict(report):
     }
 
 
+def _discarded(data, reason):
+    """How many candidates a report's ``discarded`` block counts for ``reason`` (0 when it has none)."""
+    discarded = data.get("discarded")
+    return int(discarded.get(reason, 0)) if isinstance(discarded, dict) else 0
+
+
 def completeness_warnings(data):
     """What a report's run may have missed, one sentence each (empty when nothing).
 
@@ -203,33 +209,28 @@ def completeness_warnings(data):
         warnings.append(f"{counted(lost, 'path')} of the polyhedral start's first stage did not reach a regular "
                         "solution of the random system: solutions they lead to may be missing; run again with "
                         "another --seed.")
-    unsettled = int((data.get("discarded") or {}).get("not_settled_on_X", 0)) if isinstance(
-        data.get("discarded"), dict) else 0
+    unsettled = _discarded(data, "not_settled_on_X")
     if unsettled:
         warnings.append(f"{counted(unsettled, 'singular candidate')} could not be settled on X (Newton refinement "
                         "drifted): singular points there may be missing.")
-    vanishing = int((data.get("discarded") or {}).get("smooth_with_vanishing_jacobian", 0)) if isinstance(
-        data.get("discarded"), dict) else 0
+    vanishing = _discarded(data, "smooth_with_vanishing_jacobian")
     if vanishing:  # features far smaller than the coordinates' unit look like this (decision 0064, addendum)
         warnings.append(f"{counted(vanishing, 'singular candidate')} judged smooth where the Jacobian nearly "
                         "vanishes relative to its terms (below 1e-8): features there may be far smaller than the "
                         "coordinates' unit and singular points nearby may be missing; move the origin near them "
                         "and rescale the coordinates to decide.")
-    merged = int((data.get("discarded") or {}).get("merged_on_refinement", 0)) if isinstance(
-        data.get("discarded"), dict) else 0
+    merged = _discarded(data, "merged_on_refinement")
     if merged:  # two candidates refined onto one point, not settled in centred coordinates (decision 0071)
         warnings.append(f"{counted(merged, 'singular candidate')} refined onto a singular point found from another "
                         "candidate, and coordinates centred there did not settle it: a singular point nearby may be "
                         "missing; move the origin near it and rescale the coordinates to decide.")
-    unresolved = int((data.get("discarded") or {}).get("unresolved_multiple_endpoint", 0)) if isinstance(
-        data.get("discarded"), dict) else 0
+    unresolved = _discarded(data, "unresolved_multiple_endpoint")
     if unresolved:  # several paths ended together far from the point refinement found (decision 0071, addendum)
         warnings.append(f"{counted(unresolved, 'multiple endpoint')} refined onto a singular point far from where "
                         "the paths ended, and coordinates centred there did not settle the points nearby: several "
                         "singular points close together may have been taken for one, and some may be missing; "
                         "move the origin near them and rescale the coordinates to decide.")
-    mismatched = int((data.get("discarded") or {}).get("tangent_dimension_mismatch", 0)) if isinstance(
-        data.get("discarded"), dict) else 0
+    mismatched = _discarded(data, "tangent_dimension_mismatch")
     if mismatched:  # the rank-drop system's decomposition disagrees with itself: its pieces cannot be trusted
         warnings.append(f"{counted(mismatched, 'candidate component')} of the rank-drop system had a tangent space of "
                         "another dimension than its witness slicing: that decomposition may be wrong and singular "
