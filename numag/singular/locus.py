@@ -63,7 +63,7 @@ from ..witness.decompose import (EXPANSION_MONOMIALS, DecomposeOptions, Decompos
                                  expansion_bound, holding_rows)
 from .isolated import finite_singular_points, null_vector_groups, null_vector_system, square_route_paths
 from .kinds import CandidateSystem, Formulation, PieceKind, Verdict
-from .centred import centre_near, centred_system, within
+from ..system.centred import centre_near, centred_system, within
 from .nearness import NearSingularPoint, input_tolerance, nearest_backward_error
 from .smoothness import CheckOptions, check_points
 
@@ -465,7 +465,7 @@ def _judged_centred(system, options, seed, progress, locus, dropped):
     endpoint that refinement moved farther than two points are told apart is what features far smaller than
     their distance from the origin look like: double precision cannot see them in the expanded polynomial.
     Around each such candidate (``_CANDIDATE_TOLERANCE`` relative, and at least twice the way refinement moved
-    it) the system is written exactly in y = x - s (:mod:`numag.singular.centred`) and its singular locus
+    it) the system is written exactly in y = x - s (:mod:`numag.system.centred`) and its singular locus
     computed; when that run is clean in the region, its isolated points there replace the first run's and the
     warnings it settles are withdrawn. Otherwise the warnings stay (exit 3); a multiple endpoint had none.
 

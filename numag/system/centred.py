@@ -9,7 +9,7 @@ the balancing then sees them as it sees features at the origin.
 
 This module writes that centred system exactly (double coefficients are dyadic rationals, so they are
 translated exactly too) and says which points a region around the centre holds. The caller
-(:func:`numag.singular.locus.singular_locus`) decides where to centre and merges the results.
+(:func:`numag.singular.locus.singular_locus`, the solver) decides where to centre and merges the results.
 
 Examples
 --------
@@ -24,8 +24,8 @@ from fractions import Fraction
 
 import numpy as np
 
-from ..system.exact import ExactCoefficient
-from ..system.polynomial import Polynomial, PolynomialSystem
+from .exact import ExactCoefficient
+from .polynomial import Polynomial, PolynomialSystem
 
 __all__ = ["Centring", "centre_near", "centred_system", "within"]
 
