@@ -173,3 +173,30 @@ def test_null_vector_singular_locus_with_the_two_homogeneous_start_against_total
     else:
         assert route["route"] == "witness sets" and attempt > 0
         assert route["regeneration"]["chosen"] in ("multihomogeneous", "total-degree")
+
+
+def test_a_lost_first_stage_path_keeps_the_square_route_from_calling_sing_x_complete(monkeypatch):
+    # A path of the polyhedral first stage that reaches no root of the random system starts nothing (seen
+    # once: the cone over a plane cubic, seed 3, 11 of its 12 paths went on): the square route must count it
+    # as failed and leave the singular points to the witness sets, as it does for a failed path. The loss is
+    # forced here (one first-stage path marked lost), so the test does not wait for a rare seed.
+    import numag.singular.isolated as isolated
+    real_solve = isolated.solve_system
+
+    def losing_one(*args, **kwargs):
+        result = real_solve(*args, **kwargs)
+        first = result.extra["start"]["random_system_paths"]
+        first["converged"] -= 1
+        first["at_infinity"] = first.get("at_infinity", 0) + 1
+        return result
+
+    monkeypatch.setattr(isolated, "solve_system", losing_one)
+    # the node y^2 = x^2 (x + 1): one singular point (common practice, no source)
+    node = parse_system(["y^2 - x^2*(x + 1)"], ["x", "y"])
+    found = isolated.isolated_singular_points(node, "polyhedral", seed=1)
+    assert found.failed == 1 and len(found.points) == 1
+    search = isolated.finite_singular_points(node, "polyhedral", np.random.default_rng(1))
+    assert not search.finite and "1 failed path" in search.reason
+    locus = singular_locus(node, SingularOptions(start="polyhedral"), seed=1)
+    (route,) = locus.start["codimensions"]
+    assert route["route"] == "witness sets" and len(_singular_points(locus)) == 1
