@@ -214,8 +214,7 @@ def choose_start(system, kind, groups=None, rng=None):
                                    chosen_groups, setup_seconds=seconds)
             return StartChoice(kind, counts, "asked for", chosen_groups, setup_seconds=seconds)
     polyhedral = None
-    kinds = {k.value: k for k in StartKind}
-    costs = {name: estimated_cost(kinds[name], count) for name, count in counts.items()}
+    costs = {name: estimated_cost(StartKind(name), count) for name, count in counts.items()}
     cheapest = min(costs.values())
     table = _relation_table_size(system)
     # the cell search estimated by its relation table (an upper bound on its linear programs)
