@@ -4,6 +4,8 @@ Run:  python benchmarks/bench_starts.py [--quick] [--seed 1] [--singular-only]
       python benchmarks/bench_starts.py --polyhedral-setup 5 6 7 8   (mixed cells against tracking, cyclic n)
       python benchmarks/bench_starts.py --mixed-cells 5 6 7 8 [--reference]   (the cells alone, per solver)
       python benchmarks/bench_starts.py --witness [--quick]   (the regeneration's start: witness sets)
+      python benchmarks/bench_starts.py --null-vector-locus [--quick]   (singular locus, null-vector form, by start)
+      python benchmarks/bench_starts.py --square-null-vector 1 2 3   (square null-vector systems by start, per seed)
 
 Families: cyclic n-roots (70, 156, 924 and 1152 isolated roots for n = 5..8; Bjorck and Froberg
 1991, from memory; cyclic 8 also has a one-dimensional set), katsura n (2^n roots, the Bezout number;
@@ -19,6 +21,10 @@ Results go to benchmarks/results/bench_starts.md (bench_starts_singular.md with 
 shared problems (x and lambda grouped) and of multi-graded systems, with total-degree factors and
 with factors in the groups; the witness sets found must agree (dimension and size), the paths and
 seconds are compared (bench_starts_witness.md).
+``--null-vector-locus``: the whole singular locus of the affine shared problems through the null-vector
+form, by the total-degree and the 2-homogeneous start (x and lambda grouped): pieces, paths (all, and
+those of the square attempt), failed paths, seconds (bench_starts_null_vector_locus.md; the test
+tests/test_singular_starts.py checks the same answers and fewer paths where Sing(X) is finite).
 """
 
 import argparse
@@ -177,6 +183,27 @@ def witness_main(args, problems):
         f"{table}\n")
 
 
+def null_vector_locus_rows(problems, names, seed):
+    """The singular locus through the null-vector form by the total-degree and the 2-homogeneous start."""
+    rows = []
+    for name in names:
+        problem = problems[name]
+        system = parse_system(problem["equations"], problem["variables"])
+        for start in ("total-degree", "multihomogeneous"):
+            started = time.perf_counter()
+            locus = singular_locus(system, SingularOptions(formulation="null vector", start=start), seed=seed)
+            seconds = time.perf_counter() - started
+            routes = locus.start.get("codimensions", [])
+            rows.append({"problem": name, "start": start, "paths": locus.paths.get("tracked", 0),
+                         "square_system": sum(s["tracked"] for r in routes for s in r.get("searches", [])),
+                         "route": ", ".join(r["route"] for r in routes) or "witness sets",
+                         "failed": sum(locus.paths.get(label, 0) for label in FAILURE_LABELS),
+                         "pieces": sorted((c.dimension, c.degree) for c in locus.components if not c.at_infinity),
+                         "seconds": round(seconds, 2)})
+            print(json.dumps(rows[-1]), flush=True)
+    return rows
+
+
 def polyhedral_setup_rows(sizes, seed):
     """Cyclic n by the polyhedral start: the mixed cells (set-up) against the two tracking stages."""
     rows = []
@@ -256,7 +283,47 @@ def main():
                         help="with --mixed-cells: also with scipy's linprog (cyclic 8: about 5 minutes)")
     parser.add_argument("--witness", action="store_true",
                         help="only the regeneration's start: witness sets by total-degree and grouped factors")
+    parser.add_argument("--square-null-vector", type=int, nargs="+", metavar="SEED",
+                        help="only the square null-vector systems of five shared problems by each start, per seed")
+    parser.add_argument("--null-vector-locus", action="store_true",
+                        help="only the singular locus through the null-vector form, total-degree against grouped")
     args = parser.parse_args()
+    if args.square_null_vector:
+        problems = {p["name"]: p for p in json.loads(
+            (pathlib.Path(__file__).resolve().parent.parent / "tests" / "data" / "problems.json").read_text())}
+        lines = ["| problem | seed | start | paths | singular points | failed | seconds |", "|---|---|---|---|---|---|---|"]
+        for name in ("node", "four_generic_lines", "trifolium_triple_point", "cone_over_smooth_plane_cubic", "tacnode"):
+            for seed in args.square_null_vector:
+                for start in STARTS[:3]:
+                    r = null_vector_row(name, problems[name], start, seed)
+                    lines.append(f"| {name} | {seed} | {start} | {r['paths']} | {r['solutions']} | {r['failed']} | "
+                                 f"{r['total_s']} |")
+                    print(lines[-1], flush=True)
+        out = pathlib.Path(__file__).resolve().parent / "results"
+        os.makedirs(out, exist_ok=True)
+        (out / "bench_starts_square_null_vector.md").write_text(
+            f"python benchmarks/bench_starts.py --square-null-vector {' '.join(map(str, args.square_null_vector))}\n\n"
+            + "\n".join(lines) + "\n")
+        return
+    if args.null_vector_locus:
+        problems = {p["name"]: p for p in json.loads(
+            (pathlib.Path(__file__).resolve().parent.parent / "tests" / "data" / "problems.json").read_text())}
+        names = ["cusp", "node", "tacnode", "smooth_conic", "four_generic_lines", "trifolium_triple_point",
+                 "cone_over_smooth_plane_cubic", "whitney_umbrella", "two_quadrics_union",
+                 "affine_cone_over_twisted_cubic"] + ([] if args.quick else ["chebyshev_T4x_eq_T5y"])
+        rows = null_vector_locus_rows(problems, names, args.seed)
+        lines = ["| problem | start | route | paths | of them the square null-vector system | failed | pieces (dimension, degree) | "
+                 "seconds |", "|---|---|---|---|---|---|---|---|"]
+        lines += [f"| {r['problem']} | {r['start']} | {r['route']} | {r['paths']} | {r['square_system']} | "
+                  f"{r['failed']} | {r['pieces']} | {r['seconds']} |" for r in rows]
+        table = "\n".join(lines)
+        print(table)
+        out = pathlib.Path(__file__).resolve().parent / "results"
+        os.makedirs(out, exist_ok=True)
+        (out / ("bench_starts_null_vector_locus" + ("_quick.md" if args.quick else ".md"))).write_text(
+            f"python benchmarks/bench_starts.py --null-vector-locus{' --quick' if args.quick else ''} "
+            f"--seed {args.seed}\n\n{table}\n")
+        return
     if args.witness:
         witness_main(args, {p["name"]: p for p in json.loads(
             (pathlib.Path(__file__).resolve().parent.parent / "tests" / "data" / "problems.json").read_text())})

@@ -41,7 +41,7 @@ from ..system.safeio import MAX_INPUT_BYTES, loads_json, read_limited, write_fil
 from ..run.executor import InProcess
 from ..numeric.linalg import RankEvidence
 from ..numeric.scaling import Scaling
-from ..tracking.solve import Solution, SolveOptions, SolveResult
+from ..tracking.solve import Solution, SolveOptions, SolveResult, lost_first_stage_paths
 from ..tracking.tracker import FAILURE_LABELS, PathStatus, TrackerOptions
 
 if TYPE_CHECKING:  # the stages are imported where their results are converted: `numag solve` starts faster
@@ -201,10 +201,7 @@ def completeness_warnings(data):
         reasons = ", ".join(f"{k} {v}" for k, v in (paths.get("failed_by_reason") or {}).items() if v)
         warnings.append(f"{counted(failed, 'path')} failed ({reasons}): what they lead to (solutions, witness points, "
                         "singular candidates) may be missing; run again with another --seed to compare.")
-    first_stage = ((data.get("start") or {}).get("random_system_paths") or {}) if isinstance(data.get("start"),
-                                                                                          dict) else {}
-    lost = int(first_stage.get("tracked", 0)) - int(first_stage.get("converged", 0)) \
-        - int(first_stage.get("singular_endpoint", 0))
+    lost = lost_first_stage_paths(data.get("start"))
     if lost > 0:  # a first-stage path that did not reach a regular solution of the random system starts no path
         warnings.append(f"{counted(lost, 'path')} of the polyhedral start's first stage did not reach a regular "
                         "solution of the random system: solutions they lead to may be missing; run again with "

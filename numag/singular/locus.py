@@ -54,7 +54,7 @@ from ..numeric.scaling import Scaling
 from ..numeric.seeds import resolved_seed
 from ..tracking.solve import SolveOptions, solve_system
 from ..tracking.multihomogeneous import GroupSource
-from ..tracking.starts import StartKind
+from ..tracking.starts import StartKind, estimated_cost
 from ..tracking.service import add_path_counts
 from ..tracking.tracker import FAILURE_LABELS
 from ..witness.cascade import held_parts, linear_form, random_rows, track_moves
@@ -73,12 +73,13 @@ __all__ = ["SingularOptions", "SingularComponent", "SingularLocus", "singular_lo
 FORMULATIONS = Formulation.texts()
 
 #: ``singular --start auto``: one path of the square null-vector route costs about this many paths of the
-#: witness sets. Every path of the square system that reaches Sing(X) ends at a singular endpoint (F's rows
-#: of the Jacobian are dependent there), so it goes through the endgame; the witness sets' paths end at
-#: regular points of the minors or null-vector system. Measured per path after X's decomposition (decision
-#: 0077, seed 1): about 8 and 9 times (four lines, trifolium), 19 (cone over a plane cubic), 27 (Kummer's
-#: quartic); at 15, a wrong choice costs at most about twice the witness sets' time.
-SQUARE_ROUTE_PATH_COST = 15
+#: witness sets: a 2-homogeneous path that ends at a singular endpoint (F's Jacobian rows are dependent on
+#: Sing(X), so it goes through the endgame), by the one cost rule of the starts
+#: (:func:`~numag.tracking.starts.estimated_cost`); the witness sets' paths end at regular points. Measured
+#: per path after X's decomposition (decision 0077, seed 1): about 8 and 9 times (four lines, trifolium), 19
+#: (cone over a plane cubic), 27 (Kummer's quartic); at 15, a wrong choice costs at most about twice the
+#: witness sets' time.
+SQUARE_ROUTE_PATH_COST = int(estimated_cost(StartKind.MULTIHOMOGENEOUS, 1, singular_endpoints=1))
 
 
 @dataclass(frozen=True)
@@ -739,7 +740,8 @@ def _square_route_pays(system, variety, codimension, options, route):
     witness = int(math.ceil(_estimated_paths(system, variety, codimension, formulation)))
     route["estimates"] = {"square null-vector system": square, "witness sets": witness,
                           "witness formulation": formulation.value, "square path cost": SQUARE_ROUTE_PATH_COST}
-    return sum(square) * SQUARE_ROUTE_PATH_COST < witness
+    return estimated_cost(StartKind.MULTIHOMOGENEOUS, sum(square), singular_endpoints=sum(square)) < \
+        estimated_cost(StartKind.TOTAL_DEGREE, witness)
 
 
 def _affine(system, options, rng, paths, discarded, progress, notes_out=None, routes=None, dropped=None):

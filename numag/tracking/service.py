@@ -38,7 +38,7 @@ from ..numeric.cluster import cluster_labels, groups, normalize_projective
 from .tracker import FAILURE_LABELS, BatchTracker, PathStatus, StartArray, TrackerOptions
 
 __all__ = ["PathCounts", "add_path_counts", "TrackRun", "track", "JUMP_ROUNDS", "FRESH_GAMMA_ROUND", "JUMP_STEP_DIVISOR",
-           "JUMP_PREDICTOR_ERROR_DIVISOR"]
+           "JUMP_PREDICTOR_ERROR_DIVISOR", "JUMP_TOLERANCE"]
 
 #: The jump-repair rule (decision 0034). Rounds of repair before the paths still sharing a regular
 #: endpoint are counted as failed.
@@ -49,6 +49,8 @@ FRESH_GAMMA_ROUND = 2
 JUMP_STEP_DIVISOR = 4.0
 #: ... and the predictor error the step control aims at divided by this (cumulative over rounds).
 JUMP_PREDICTOR_ERROR_DIVISOR = 10.0
+#: Two regular endpoints closer than this (relative) are one point: the paths that share it jumped.
+JUMP_TOLERANCE = 1e-6
 #: Singular endpoints (and points at infinity) reached by a cycle of winding number w are one point to
 #: about eps^(1/w) at best; endpoints this close (relative, as lines) are taken as one point when the
 #: paths of each cycle are counted. Merging two true points never hides a count that is not a multiple
@@ -246,7 +248,7 @@ class TrackRun:
 
 
 def track(homotopy, starts, options=None, *, count=None, executor=None, run_folder=None, batch_size=4096,
-          progress=None, projective=False, jump_tolerance=1e-6, fresh_homotopy=None, whole_cycles=False):
+          progress=None, projective=False, jump_tolerance=JUMP_TOLERANCE, fresh_homotopy=None, whole_cycles=False):
     """Track every path of a homotopy in batches, repair jumped paths, and count how they ended.
 
     Parameters

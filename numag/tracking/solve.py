@@ -42,7 +42,36 @@ from .starts import StartKind, choose_start
 from .service import PathCounts, track
 from .tracker import PathStatus, StartArray, TrackerOptions
 
-__all__ = ["SolveOptions", "Execution", "Solution", "SolveResult", "solve_system", "continue_solutions"]
+__all__ = ["SolveOptions", "Execution", "Solution", "SolveResult", "solve_system", "continue_solutions",
+           "lost_first_stage_paths"]
+
+
+def lost_first_stage_paths(start_block):
+    """Paths of the polyhedral first stage that reached no regular solution of the random system.
+
+    Each starts no path of the second stage, so what it would have led to may be missing: a failure to
+    count, like a failed path (the report warns, the square null-vector route does not call Sing(X) complete).
+
+    Parameters
+    ----------
+    start_block : dict or None
+        A report's ``start`` block (:meth:`~numag.tracking.starts.StartChoice.report` and the first stage's
+        ``random_system_paths``).
+
+    Returns
+    -------
+    int
+
+    Examples
+    --------
+    >>> lost_first_stage_paths({"random_system_paths": {"tracked": 12, "converged": 11, "at_infinity": 1}})
+    1
+    >>> lost_first_stage_paths({"chosen": "total-degree"})
+    0
+    """
+    first_stage = (start_block.get("random_system_paths") or {}) if isinstance(start_block, dict) else {}
+    return max(int(first_stage.get("tracked", 0)) - int(first_stage.get("converged", 0))
+               - int(first_stage.get("singular_endpoint", 0)), 0)
 
 
 @dataclass(frozen=True)

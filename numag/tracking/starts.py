@@ -3,15 +3,15 @@
 Every start gives a count of paths before anything is tracked: the Bezout number, the
 multihomogeneous Bezout number of a grouping (given or found, see
 :func:`~numag.tracking.multihomogeneous.best_groups`), and the mixed volume (which needs the
-mixed cells, a set-up cost of linear programs). ``auto`` computes the first two always and the
-mixed volume when the mixed-cell search is estimated to cost less than tracking the best other
-count's paths (:data:`SECONDS_PER_LINEAR_PROGRAM` times the entries of its relation table against
-:data:`SECONDS_PER_PATH` times the paths), then takes the polyhedral start when its set-up (its linear programs, counted) and its paths cost less than
-the best other count's paths at :data:`SECONDS_PER_PATH` each (its paths are tracked twice, through
-the cells and then to the system's coefficients, but neither stage has paths that diverge, the
-expensive ones: cyclic 5 took 4 s for 70 polyhedral paths against 21 s for 120 total-degree paths),
-else the smaller of the other two. The choice, the reason
-and every count computed go to the report's ``start`` block.
+mixed cells, a set-up cost of linear programs). ``auto`` decides by estimated cost
+(:func:`estimated_cost`, the one cost rule of the package, also used by ``singular --start auto``):
+a start's paths times the work of one of its paths (:data:`PATH_WEIGHTS`: a path of products of
+linear forms costs about twice a total-degree path), plus the linear programs of the cell search.
+It computes the first two counts always and the mixed volume when the cell search (the entries of
+its relation table) is estimated to cost less than the cheapest other start, then takes the start
+of least estimated cost (ties to the total-degree start). Counts, not the clock: the same seed makes
+the same choice on every machine. The choice, the reason, every count computed and the estimated
+costs go to the report's ``start`` block.
 
 Examples
 --------
@@ -33,8 +33,8 @@ from ..errors import InputError
 from ..system.polynomial import Polynomial, PolynomialSystem
 from .multihomogeneous import GroupSource, VariableGroups, best_groups, multihomogeneous_bezout
 
-__all__ = ["StartKind", "StartChoice", "choose_start", "choose_witness_start", "SECONDS_PER_LINEAR_PROGRAM",
-           "SECONDS_PER_PATH"]
+__all__ = ["StartKind", "StartChoice", "choose_start", "choose_witness_start", "estimated_cost", "PATH_WEIGHTS",
+           "SINGULAR_ENDPOINT_WEIGHT", "SECONDS_PER_LINEAR_PROGRAM", "SECONDS_PER_PATH"]
 
 #: Estimates for ``auto`` (benchmarks/bench_starts.py --quick on the shared 2-core machine, decisions 0047
 #: and 0055): one linear program of the cell search (50-70 microseconds in the batched simplex of
@@ -61,6 +61,53 @@ class StartKind(enum.Enum):
         raise InputError(f"unknown start {str(text)[:40]!r}: choose from {', '.join(k.value for k in cls)}")
 
 
+#: Work of one path by start, in paths of the total-degree start (decision 0088: the square null-vector
+#: systems of five shared problems, seeds 1-3, the same endpoints by every start: a path of the
+#: 2-homogeneous start took 0.6 to 4.1 times a total-degree path, median 1.8 (its start Jacobian is
+#: dense and products of linear forms make longer paths; cyclic 5 with one group, decision 0048: 3.7);
+#: a polyhedral path, both stages, 0.5 to 3.4 times, median 1.0).
+PATH_WEIGHTS = {StartKind.TOTAL_DEGREE: 1.0, StartKind.MULTIHOMOGENEOUS: 2.0, StartKind.POLYHEDRAL: 1.0}
+#: A path ending at a singular endpoint (the endgame) costs this many paths of the same start ending at a
+#: regular point: with the 2-homogeneous weight, a path of the square null-vector route costs 15 paths of
+#: the witness sets, measured between 8 and 27 (decision 0077).
+SINGULAR_ENDPOINT_WEIGHT = 7.5
+
+
+def estimated_cost(kind, paths, singular_endpoints=0, linear_programs=0):
+    """Estimated work of a start, in regular paths of the total-degree start (the one cost rule of ``auto``).
+
+    Counts, not the clock, so that the same seed makes the same choice on every machine: the paths
+    weighted by the start (:data:`PATH_WEIGHTS`), those expected to end at singular endpoints weighted
+    again (:data:`SINGULAR_ENDPOINT_WEIGHT`), and the linear programs of a cell search at
+    :data:`SECONDS_PER_LINEAR_PROGRAM` against :data:`SECONDS_PER_PATH`.
+
+    Parameters
+    ----------
+    kind : StartKind
+        Not AUTO.
+    paths : int
+        Paths tracked from the start.
+    singular_endpoints : int
+        Of them, those expected to end at singular endpoints.
+    linear_programs : int
+        The set-up's linear programs (the polyhedral start's cell search, or an estimate of it).
+
+    Returns
+    -------
+    float
+
+    Examples
+    --------
+    >>> estimated_cost(StartKind.TOTAL_DEGREE, 27), estimated_cost(StartKind.MULTIHOMOGENEOUS, 12)
+    (27.0, 24.0)
+    >>> estimated_cost(StartKind.MULTIHOMOGENEOUS, 1, singular_endpoints=1)   # a square-route path
+    15.0
+    """
+    weight = PATH_WEIGHTS[kind]
+    return float(weight * (paths + (SINGULAR_ENDPOINT_WEIGHT - 1) * singular_endpoints)
+                 + linear_programs * SECONDS_PER_LINEAR_PROGRAM / SECONDS_PER_PATH)
+
+
 @dataclass
 class StartChoice:
     """The start chosen, why, and the path counts of the starts considered.
@@ -78,6 +125,8 @@ class StartChoice:
         The mixed cells, when they were computed (reused to track).
     setup_seconds : dict
         Start name -> seconds spent on its count (the mixed cells for the polyhedral one).
+    costs : dict
+        ``auto``: start name -> estimated cost in total-degree paths (:func:`estimated_cost`).
     """
 
     kind: StartKind
@@ -86,6 +135,7 @@ class StartChoice:
     groups: object = None
     polyhedral: object = None
     setup_seconds: dict = field(default_factory=dict)
+    costs: dict = field(default_factory=dict)
 
     @property
     def n_paths(self):
@@ -96,6 +146,8 @@ class StartChoice:
         """The ``start`` block of a report."""
         block = {"chosen": self.kind.value, "reason": self.reason, "paths": self.counts,
                  "setup_seconds": {k: round(v, 4) for k, v in self.setup_seconds.items()}}
+        if self.costs:
+            block["estimated_cost"] = dict(self.costs)
         if self.groups is not None:
             block["groups"] = self.groups.report()
         if self.polyhedral is not None:
@@ -162,39 +214,44 @@ def choose_start(system, kind, groups=None, rng=None):
                                    chosen_groups, setup_seconds=seconds)
             return StartChoice(kind, counts, "asked for", chosen_groups, setup_seconds=seconds)
     polyhedral = None
-    cheapest = min(counts.values())
+    costs = {name: estimated_cost(StartKind(name), count) for name, count in counts.items()}
+    cheapest = min(costs.values())
     table = _relation_table_size(system)
-    # auto stays below the cell search's guard on linear programs (which would end the run, not fall back);
-    # the table is not the whole search (katsura 6: 32,718 programs for a table of 14,479), hence a quarter
-    if kind == StartKind.POLYHEDRAL or table * SECONDS_PER_LINEAR_PROGRAM <= cheapest * SECONDS_PER_PATH:
+    # the cell search estimated by its relation table (an upper bound on its linear programs)
+    search_pays = estimated_cost(StartKind.POLYHEDRAL, 0, linear_programs=table) <= cheapest
+    if kind == StartKind.POLYHEDRAL or search_pays:
         # imported here, not at start-up: a run whose cell search is too dear never needs it (decision 0067)
         from .polyhedral import MAX_LINEAR_PROGRAMS, PolyhedralStart
-    if kind == StartKind.POLYHEDRAL or \
-            (table * SECONDS_PER_LINEAR_PROGRAM <= cheapest * SECONDS_PER_PATH and table <= MAX_LINEAR_PROGRAMS // 4):
+    # auto stays below the cell search's guard on linear programs (which would end the run, not fall back);
+    # the table is not the whole search (katsura 6: 32,718 programs for a table of 14,479), hence a quarter
+    if kind == StartKind.POLYHEDRAL or (search_pays and table <= MAX_LINEAR_PROGRAMS // 4):
         started = time.perf_counter()
         polyhedral = PolyhedralStart.random(system.polynomials, rng)
         counts[StartKind.POLYHEDRAL.value] = polyhedral.n_paths
         seconds[StartKind.POLYHEDRAL.value] = time.perf_counter() - started
+        # the linear programs solved, not the clock: the same seed makes the same choice on every machine
+        costs[StartKind.POLYHEDRAL.value] = estimated_cost(StartKind.POLYHEDRAL, polyhedral.n_paths,
+                                                           linear_programs=polyhedral.linear_programs)
         if kind == StartKind.POLYHEDRAL:
             return StartChoice(kind, counts, "asked for", polyhedral=polyhedral, setup_seconds=seconds)
-    others = {k: v for k, v in counts.items() if k != StartKind.POLYHEDRAL.value}
+    if len(chosen_groups.groups) == 1:  # one group is the total-degree start (decision 0048)
+        costs.pop(StartKind.MULTIHOMOGENEOUS.value)
+    costs = {name: round(cost, 2) for name, cost in costs.items()}
+    others = {k: v for k, v in costs.items() if k != StartKind.POLYHEDRAL.value}
     best_other = min(others, key=lambda k: (others[k], k != StartKind.TOTAL_DEGREE.value))
-    # the set-up estimated from the linear programs solved, not from the clock: the same seed makes the
-    # same choice on every machine
-    setup = polyhedral.linear_programs * SECONDS_PER_LINEAR_PROGRAM if polyhedral is not None else None
-    if polyhedral is not None and setup + polyhedral.n_paths * SECONDS_PER_PATH < others[best_other] * SECONDS_PER_PATH:
+    figures = ", ".join(f"{name} {costs[name]:g}" for name in costs)
+    if polyhedral is not None and costs[StartKind.POLYHEDRAL.value] < others[best_other]:
         return StartChoice(StartKind.POLYHEDRAL, counts,
-                           f"the mixed volume {polyhedral.n_paths} is below the {best_other} count "
-                           f"{others[best_other]} by more paths than its {polyhedral.linear_programs} linear "
-                           "programs cost", chosen_groups, polyhedral, seconds)
+                           f"the least estimated cost (in total-degree paths: {figures}): the mixed volume "
+                           f"{polyhedral.n_paths} with its {polyhedral.linear_programs} linear programs", chosen_groups,
+                           polyhedral, seconds, costs)
     note = "" if polyhedral is not None else \
         "; the mixed volume was not computed (its cell search would cost more than tracking these paths)"
-    if best_other == StartKind.MULTIHOMOGENEOUS.value and len(chosen_groups.groups) > 1:
-        return StartChoice(StartKind.MULTIHOMOGENEOUS, counts, "the smallest count" + note, chosen_groups,
-                           polyhedral, seconds)
-    return StartChoice(StartKind.TOTAL_DEGREE, counts, "no other start has fewer paths" + note, chosen_groups,
-                       polyhedral, seconds)
-
+    if best_other == StartKind.MULTIHOMOGENEOUS.value:
+        return StartChoice(StartKind.MULTIHOMOGENEOUS, counts, f"the least estimated cost (in total-degree paths: "
+                           f"{figures}){note}", chosen_groups, polyhedral, seconds, costs)
+    return StartChoice(StartKind.TOTAL_DEGREE, counts, f"no other start costs less (estimated in total-degree paths: "
+                       f"{figures}){note}", chosen_groups, polyhedral, seconds, costs)
 
 
 def _square_stand_in(system):
