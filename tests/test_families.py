@@ -148,6 +148,19 @@ def test_four_bar_discriminant_points_match_the_elimination(four_bar_discriminan
     assert np.allclose(nonnegative, [0, 1, 3, 5, 9], atol=1e-8)
 
 
+def test_four_bar_picture_labels_the_lengths_as_the_text_does(four_bar_discriminant):
+    import xml.dom.minidom
+    from numag.app.commands.common import _rounding_floor
+    from numag.app.picture import discriminant_svg
+
+    # The dots are labelled b = 0, +-1, +-3, +-5, +-9 (sympy's eliminant b^2 (b^2 - 1)(b^2 - 9)(b^2 - 25)(b^2 - 81),
+    # as above); b = 0 computes as a rounding error, which the picture must not print as a value.
+    svg = discriminant_svg(four_bar_discriminant, _rounding_floor(four_bar_discriminant))
+    labels = [t.firstChild.data for t in xml.dom.minidom.parseString(svg).getElementsByTagName("text")
+              if t.getAttribute("font-size") == "10"]
+    assert labels == ["-9", "-5", "-3", "-1", "0", "1", "3", "5", "9"]
+
+
 def test_four_bar_branches_change_at_the_grashof_lengths(four_bar_discriminant):
     # Lengths 4, 2, 3, b: a Grashof linkage (s + l < p + q) has two assembly branches, a non-Grashof one has one,
     # and with b > 2 + 3 + 4 it cannot be assembled (Grashof's criterion; common practice, no source).
