@@ -263,6 +263,29 @@ def test_real_counts_next_to_the_discriminant_do_not_depend_on_the_seed(seed):
     assert result.real_counts().tolist() == [3, 1, 3, 1, 3, 1]
 
 
+@pytest.mark.parametrize("seed", [1, 2, 3])
+def test_roots_closer_than_double_precision_resolves_are_pulled_apart(seed):
+    sympy = pytest.importorskip("sympy")
+    # x^3 - 3x + q from 1e-11 to 1e-14 of q = +-2, where two roots are 4e-6 to 1e-7 apart (real inside, a conjugate
+    # pair outside): the tracked endpoints merge them; sympy's real root isolation (Meurer et al., "SymPy: symbolic
+    # computing in Python", PeerJ Computer Science, 2017) on the exact binary value of each q gives the count.
+    family = family_from_mapping({"variables": ["x"], "parameters": ["q"], "equations": ["x^3 - 3*x + q"]})
+    offsets = 10.0 ** -np.arange(11, 15)
+    values = np.concatenate([2 - offsets, 2 + offsets, -2 + offsets, -2 - offsets, [2.0]])
+    x = sympy.symbols("x")
+    expected = [len(sympy.Poly(x ** 3 - 3 * x + sympy.Rational(float(q)), x).real_roots(multiple=True))
+                for q in values]
+    result = sweep(family, values[:, None], seed=seed)
+    assert result.failed == 0 and expected[:-1] == [3] * 4 + [1] * 4 + [3] * 4 + [1] * 4
+    assert result.real_counts().tolist()[:-1] == expected[:-1]
+    separated = result.values[0]  # 1e-11 below 2: the roots 1 -+ sqrt(1e-11 / 3), each its own regular point
+    assert separated.kinds == [PointKind.REGULAR] * 3 and separated.paths.tolist() == [1, 1, 1]
+    # q = 2 exactly: the double root x = 1 stays one point where J_x drops rank (sympy counts it twice)
+    on = result.values[-1]
+    assert on.real_count == 2 and on.kinds.count(PointKind.RANK_DROP) == 1 and expected[-1] == 3
+    assert abs(on.rank_drops[0, 0] - 1) <= 1e-6
+
+
 def test_sweep_reports_the_rank_drop_on_the_discriminant():
     family = family_from_mapping({"variables": ["x"], "parameters": ["q"], "equations": ["x^3 - 3*x + q"]})
     result = sweep(family, [[2.0], [0.0]], seed=4)
