@@ -286,6 +286,18 @@ def test_roots_closer_than_double_precision_resolves_are_pulled_apart(seed):
     assert abs(on.rank_drops[0, 0] - 1) <= 1e-6
 
 
+@pytest.mark.parametrize("seed", [1, 2, 3])
+def test_a_four_bar_within_1e_12_of_a_branch_point_keeps_its_four_positions(seed):
+    # Crank at 60 degrees: A = (1, +-sqrt 3), 2 sqrt 3 from the rocker pivot (4, 0). The coupler circle about A
+    # (radius b) meets the rocker circle (radius 3) in two real points when |b - 3| < 2 sqrt 3 < b + 3 and in none
+    # beyond (two circles; common practice, no source): 4 positions just below b = 3 + 2 sqrt 3, 0 just above.
+    family = family_from_mapping(FOUR_BAR_AT_CRANK)
+    edge = 3 + 2 * math.sqrt(3)
+    result = sweep(family, [[edge - 1e-12], [edge + 1e-12], [edge - 1e-3]], seed=seed)
+    assert result.failed == 0 and result.real_counts().tolist() == [4, 0, 4]
+    assert all(kind == PointKind.REGULAR for member in result.values for kind in member.kinds)
+
+
 def test_sweep_reports_the_rank_drop_on_the_discriminant():
     family = family_from_mapping({"variables": ["x"], "parameters": ["q"], "equations": ["x^3 - 3*x + q"]})
     result = sweep(family, [[2.0], [0.0]], seed=4)

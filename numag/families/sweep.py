@@ -76,7 +76,8 @@ class SweepOptions:
         Condition number of J_x above which a solution is a rank-drop point.
     split_clusters : bool
         Pull apart several paths of one value ending at one point (:func:`split_cluster`): roots of a member
-        within about 1e-10 of the discriminant are closer than the endpoints' accuracy.
+        within about 1e-10 of the discriminant are closer than the endpoints' accuracy. At most 64 clusters
+        per sweep are tried (a family whose every member has a multiple root would pay it at every value).
     balance : bool
         Track in balanced units (:class:`~numag.numeric.scaling.Scaling` of x and p together, powers of
         ten): a family in millimetres sweeps as in metres. Points and values are reported in the user's units.
@@ -600,7 +601,7 @@ def _members(family, run, values, per_value, options, exact=None):
     finite = (status == PathStatus.CONVERGED) | (status == PathStatus.SINGULAR_ENDPOINT)
     with np.errstate(all="ignore"):
         affine = ends[:, :, 1:n + 1] / ends[:, :, :1]
-    members, evaluator = [], None
+    members, evaluator, tries = [], None, 0
     for k, value in enumerate(values):
         rows = np.nonzero(finite[k])[0]
         failed = int(np.sum(status[k] >= PathStatus.FAILED_MIN_STEP))
@@ -619,7 +620,8 @@ def _members(family, run, values, per_value, options, exact=None):
         for group in members_of:
             best = group[np.argmin(condition[k, rows[group]])]
             split = None
-            if len(group) > 1 and options.split_clusters:
+            if len(group) > 1 and options.split_clusters and tries < _SPLIT_TRIES:
+                tries += 1
                 # roots closer than the endpoints' accuracy (within about 1e-10 of the discriminant) came back
                 # as one point: pulled apart at 40 digits, or left as a rank drop if they are one root
                 user_family, x_factors, user_values = exact or (family, np.ones(n), values)
@@ -659,6 +661,9 @@ _SPLIT_DIGITS = 40
 _SPLIT_STEP = 1e-25
 #: Clusters of more paths than this are left as they are (a rank drop).
 _SPLIT_MAX_PATHS = 4
+#: Clusters tried per sweep: a try costs about 0.05 s (one unknown) to 0.5 s (four), and a family whose every
+#: member has a multiple root would otherwise pay it at every value; the rest stay rank drops, as before.
+_SPLIT_TRIES = 64
 
 
 def split_cluster(evaluator, point, value, paths):
@@ -747,7 +752,8 @@ def split_cluster(evaluator, point, value, paths):
         size = 1.0 + float(np.linalg.norm(point))
         samples = 8 * paths
         circle = np.exp(2j * np.pi * np.arange(samples) / samples)
-        for radius in size * 10.0 ** -np.arange(2.0, 12.5, 0.5):
+        # endpoints cluster within 1e-6 of their size (SweepOptions.cluster_tolerance): the roots sought are that close
+        for radius in size * 10.0 ** -np.arange(4.0, 12.5, 0.5):
             reached, guess = [], [ctx.mpc(0)] * (n - 1)
             for w in circle:
                 found = reduced(ctx.mpf(radius) * complex(w), guess)
@@ -781,8 +787,12 @@ def split_cluster(evaluator, point, value, paths):
     return None
 
 
-def _newton_on_member(system, start, ctx, iterations=40):
-    """Newton on the member from ``start`` (mp); the point if the last step is below the accepted size."""
+def _newton_on_member(system, start, ctx, iterations=15):
+    """Newton on the member from ``start`` (mp); the point if the last step is below the accepted size.
+
+    From the fitted roots Newton converges quadratically in a few steps; at a multiple root it is linear (each
+    step halves the error), and 15 steps end it far above the accepted size.
+    """
     x = ctx.matrix(start)
     for _ in range(iterations):
         values, jacobian = system(list(x))
