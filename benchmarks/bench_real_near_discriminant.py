@@ -1,5 +1,5 @@
 """Real counts next to the discriminant: x^3 - 3x + q swept at q = +-(2 - 10^-k), with and without the realness
-test by separation (decision 0076).
+test by separation (decision 0076) and the clusters of endpoints split at 40 digits (decision 0087).
 
 Run:  python benchmarks/bench_real_near_discriminant.py [--seeds 10]
 
@@ -28,7 +28,9 @@ def main():
     family = family_from_mapping(CUBIC)
     values = np.array([2 - 10.0 ** -k for k in POWERS] + [-2 + 10.0 ** -k for k in POWERS])
     report = {}
-    for name, options in (("fixed tolerance", SweepOptions(real_separation=0.0)), ("with separation", SweepOptions())):
+    for name, options in (("fixed tolerance", SweepOptions(real_separation=0.0, split_clusters=False)),
+                          ("with separation", SweepOptions(split_clusters=False)),
+                          ("separation and clusters split (default)", SweepOptions())):
         counts = np.array([sweep(family, values[:, None], options, seed=seed).real_counts()
                            for seed in range(1, args.seeds + 1)])
         report[name] = {f"{sign}(2 - 1e-{k})": counts[:, j + offset].tolist()

@@ -96,6 +96,26 @@ def test_the_arm_discriminant_is_four_circles_without_special_points(arm_runs, u
     assert len(inner) > 20 and np.all(distance <= 1e-6 * radii.max())
 
 
+@pytest.mark.parametrize("unit, seed", [(1.0, 1), (1.0, 2), (1.0, 3), (1000.0, 1)])
+def test_the_arm_plane_has_five_regions_one_per_annulus(arm_runs, unit, seed):
+    # The four circles cut the box and half its size around it into five connected pieces, r < 50, 50 < r < 250,
+    # 250 < r < 350, 350 < r < 650 and r > 650 mm (r the distance of the end from the base). The chain closed by r
+    # is a four-bar with links 300, 200, 150, r: two assembly branches where it is Grashof (shortest plus longest
+    # below the other two), one where it is not, none beyond 650 (Grashof's criterion; common practice, no source).
+    # Before the flood fill the 250 < r < 350 piece came out twice (its two cells are on one line) and cells far
+    # outside the box were regions of their own: 20 regions.
+    result = arm_runs[(unit, seed)]
+    expected = {0: 2, 1: 1, 2: 2, 3: 1, 4: 0}  # annulus number: branches
+    radii = np.array([50.0, 250.0, 350.0, 650.0]) / unit
+    found = {}
+    for region in result.plane_regions:
+        for cell in region.cells:
+            sample = result.regions[cell].sample
+            found.setdefault(int(np.searchsorted(radii, np.hypot(*sample))), set()).add(region.count.branches)
+    assert len(result.plane_regions) == 5 and found == {k: {v} for k, v in expected.items()}
+    assert not any("not separate have different counts" in note for note in result.notes)
+
+
 def test_the_arm_is_the_same_in_mm_and_in_m(arm_runs):
     in_mm, in_m = arm_runs[(1.0, 1)], arm_runs[(1000.0, 1)]
     assert [s.kind for s in in_mm.curve.special] == [s.kind for s in in_m.curve.special]

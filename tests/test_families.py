@@ -148,6 +148,19 @@ def test_four_bar_discriminant_points_match_the_elimination(four_bar_discriminan
     assert np.allclose(nonnegative, [0, 1, 3, 5, 9], atol=1e-8)
 
 
+def test_four_bar_picture_labels_the_lengths_as_the_text_does(four_bar_discriminant):
+    import xml.dom.minidom
+    from numag.app.commands.common import _rounding_floor
+    from numag.app.picture import discriminant_svg
+
+    # The dots are labelled b = 0, +-1, +-3, +-5, +-9 (sympy's eliminant b^2 (b^2 - 1)(b^2 - 9)(b^2 - 25)(b^2 - 81),
+    # as above); b = 0 computes as a rounding error, which the picture must not print as a value.
+    svg = discriminant_svg(four_bar_discriminant, _rounding_floor(four_bar_discriminant))
+    labels = [t.firstChild.data for t in xml.dom.minidom.parseString(svg).getElementsByTagName("text")
+              if t.getAttribute("font-size") == "10"]
+    assert labels == ["-9", "-5", "-3", "-1", "0", "1", "3", "5", "9"]
+
+
 def test_four_bar_branches_change_at_the_grashof_lengths(four_bar_discriminant):
     # Lengths 4, 2, 3, b: a Grashof linkage (s + l < p + q) has two assembly branches, a non-Grashof one has one,
     # and with b > 2 + 3 + 4 it cannot be assembled (Grashof's criterion; common practice, no source).
@@ -248,6 +261,41 @@ def test_real_counts_next_to_the_discriminant_do_not_depend_on_the_seed(seed):
     result = sweep(family, values[:, None], seed=seed)
     assert result.failed == 0
     assert result.real_counts().tolist() == [3, 1, 3, 1, 3, 1]
+
+
+@pytest.mark.parametrize("seed", [1, 2, 3])
+def test_roots_closer_than_double_precision_resolves_are_pulled_apart(seed):
+    sympy = pytest.importorskip("sympy")
+    # x^3 - 3x + q from 1e-11 to 1e-14 of q = +-2, where two roots are 4e-6 to 1e-7 apart (real inside, a conjugate
+    # pair outside): the tracked endpoints merge them; sympy's real root isolation (Meurer et al., "SymPy: symbolic
+    # computing in Python", PeerJ Computer Science, 2017) on the exact binary value of each q gives the count.
+    family = family_from_mapping({"variables": ["x"], "parameters": ["q"], "equations": ["x^3 - 3*x + q"]})
+    offsets = 10.0 ** -np.arange(11, 15)
+    values = np.concatenate([2 - offsets, 2 + offsets, -2 + offsets, -2 - offsets, [2.0]])
+    x = sympy.symbols("x")
+    expected = [len(sympy.Poly(x ** 3 - 3 * x + sympy.Rational(float(q)), x).real_roots(multiple=True))
+                for q in values]
+    result = sweep(family, values[:, None], seed=seed)
+    assert result.failed == 0 and expected[:-1] == [3] * 4 + [1] * 4 + [3] * 4 + [1] * 4
+    assert result.real_counts().tolist()[:-1] == expected[:-1]
+    separated = result.values[0]  # 1e-11 below 2: the roots 1 -+ sqrt(1e-11 / 3), each its own regular point
+    assert separated.kinds == [PointKind.REGULAR] * 3 and separated.paths.tolist() == [1, 1, 1]
+    # q = 2 exactly: the double root x = 1 stays one point where J_x drops rank (sympy counts it twice)
+    on = result.values[-1]
+    assert on.real_count == 2 and on.kinds.count(PointKind.RANK_DROP) == 1 and expected[-1] == 3
+    assert abs(on.rank_drops[0, 0] - 1) <= 1e-6
+
+
+@pytest.mark.parametrize("seed", [1, 2, 3])
+def test_a_four_bar_within_1e_12_of_a_branch_point_keeps_its_four_positions(seed):
+    # Crank at 60 degrees: A = (1, +-sqrt 3), 2 sqrt 3 from the rocker pivot (4, 0). The coupler circle about A
+    # (radius b) meets the rocker circle (radius 3) in two real points when |b - 3| < 2 sqrt 3 < b + 3 and in none
+    # beyond (two circles; common practice, no source): 4 positions just below b = 3 + 2 sqrt 3, 0 just above.
+    family = family_from_mapping(FOUR_BAR_AT_CRANK)
+    edge = 3 + 2 * math.sqrt(3)
+    result = sweep(family, [[edge - 1e-12], [edge + 1e-12], [edge - 1e-3]], seed=seed)
+    assert result.failed == 0 and result.real_counts().tolist() == [4, 0, 4]
+    assert all(kind == PointKind.REGULAR for member in result.values for kind in member.kinds)
 
 
 def test_sweep_reports_the_rank_drop_on_the_discriminant():

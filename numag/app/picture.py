@@ -19,6 +19,8 @@ from xml.sax.saxutils import escape
 
 import numpy as np
 
+from ..system.display import short_number
+
 __all__ = ["sweep_svg", "discriminant_svg"]
 
 _WIDTH, _HEIGHT, _MARGIN = 720, 360, 56
@@ -88,10 +90,21 @@ def _count(region):
     return None, "not counted"
 
 
-def discriminant_svg(result):
-    """The regions of a discriminant with their real counts (SVG text); one or two parameters."""
+def discriminant_svg(result, floor=None):
+    """The regions of a discriminant with their real counts (SVG text); one or two parameters.
+
+    ``floor``: discriminant points of one parameter at most this far from 0 are labelled 0, as in the text
+    report (a point at 0 computes as 1e-17 or so; labelled as it is, it would read as a value).
+
+    Examples
+    --------
+    >>> from numag.families.discriminant import Discriminant
+    >>> result = Discriminant(("x",), ("b",), [], 1, [], np.array([-3.9e-17, 1.0]), [], {}, [], 1, 0.0)
+    >>> [label in discriminant_svg(result, floor=1e-14) for label in (">0<", ">1<", "e-17")]
+    [True, True, False]
+    """
     if len(result.parameters) == 1:
-        return _line_svg(result)
+        return _line_svg(result, floor or 0.0)
     return _cells_svg(result)
 
 
@@ -103,7 +116,7 @@ def _finite_bounds(regions, points):
     return low - pad, high + pad
 
 
-def _line_svg(result):
+def _line_svg(result, floor):
     low, high = _finite_bounds(result.regions, result.real_points)
     x = _scale(low, high, _MARGIN, _WIDTH - _MARGIN)
     middle = _HEIGHT / 2
@@ -121,7 +134,7 @@ def _line_svg(result):
             items.append(_text(_MARGIN, middle - 60, f"numbers: {what}", anchor="start"))
     for point in result.real_points:
         items.append(f'<circle cx="{x(point):.1f}" cy="{middle}" r="4" fill="#d95f02"/>')
-        items.append(_text(x(point), middle + 20, f"{point:.6g}", size=10))
+        items.append(_text(x(point), middle + 20, short_number(point, floor), size=10))
     items.append(_text(_WIDTH / 2, _HEIGHT - 14, f"{result.parameters[0]} (dots: real discriminant points)"))
     return _document(_WIDTH, _HEIGHT, items)
 

@@ -326,18 +326,9 @@ def discriminant(family, options=None, seed=None, progress=None, *, _balanced=Fa
         if not on_lines:
             regions = _regions_on_lines(family, options, rng, notes, progress)
         if curve is not None:
-            plane_regions, conflicts = merge_cells(regions, curve)
-            if conflicts:
-                notes.append(f"{counted(conflicts, 'pair')} of neighbouring cells {'is' if conflicts == 1 else 'are'} "
-                             "not separated by the traced curve but have different counts: the trace misses an arc "
-                             "there (real discriminant points over non-real singular points are not traced); those "
-                             "cells were kept apart.")
-            counts = [(r.count.solutions, r.count.branches) for r in plane_regions]
-            if len(set(counts)) < len(counts):
-                # cells join only where cells of neighbouring lines overlap: a region narrower than the line
-                # spacing (the horn next to a cusp) can come out in pieces
-                notes.append("Regions with the same count may be pieces of one region: cells are joined only where "
-                             "cells of neighbouring lines overlap, so the number of regions is an upper bound.")
+            merged = merge_cells(regions, curve)
+            plane_regions = merged.regions
+            notes += merged.notes()
     if curve is not None:
         # a real member singular only at non-real points is singular at a conjugate pair: two conditions, so
         # such parameter values are isolated points of the real plane, off the traced real incidence set

@@ -43,6 +43,7 @@ import math
 import numpy as np
 
 from ..errors import InputError, LimitError
+from ..system.display import counted
 from ..system.family import Family
 from ..system.polynomial import Polynomial, PolynomialSystem
 from ..numeric.cluster import connected_components
@@ -56,7 +57,7 @@ from .sweep import sweep
 
 __all__ = ["CurvePointKind", "CurvePoint", "DiscriminantCurve", "PlaneRegion", "SingularIncidence", "conjugate_pair_points",
            "trace_discriminant_curve", "classify_join", "meeting_points", "clipped", "reach_box",
-           "merge_cells", "strip_blocked"]
+           "merge_cells", "strip_blocked", "CellMerge"]
 
 #: A projected turn sharper than this (cosine between the directions before and after) is a cusp candidate.
 _TURN_COSINE = -0.5
@@ -947,8 +948,145 @@ def _free(low, high, blocked, tolerance):
     return high - position > tolerance
 
 
+#: Pixels on each side of the raster the reach box is cut into by the traced arcs (decision 0087): a pixel is
+#: 1/400 of the reach box, 1/200 of the [ranges] box.
+_RASTER = 400
+#: Half the width of a drawn arc, in pixels: 8-connected strokes this wide leave no 4-connected leak.
+_WALL = 1.5
+#: A dangling arc end is bridged to the nearest other arc within this part of the reach box (a trace step or a
+#: line spacing left open at a fold): a bridge can only keep pieces apart, never join them.
+_BRIDGE = 0.1
+
+
+@dataclass
+class CellMerge:
+    """Result of :func:`merge_cells`.
+
+    Attributes
+    ----------
+    regions : list of PlaneRegion
+        Regions of the reach box (the [ranges] box and half its size around it, where the curve is traced).
+    conflicts : int
+        Pairs of neighbouring cells, or pieces between the arcs, holding cells that the traced curve does not
+        separate but whose counts differ (the trace missed an arc
+        there, e.g. real discriminant points over non-real singular points); they were kept apart.
+    beyond : int
+        Cells wholly outside the reach box, in no region (the curve is not known there).
+    unmet : int
+        Pieces of the [ranges] box between the traced arcs that no line crosses: regions whose count is unknown.
+    """
+
+    regions: list
+    conflicts: int = 0
+    beyond: int = 0
+    unmet: int = 0
+
+    def notes(self):
+        """What the regions cannot say, as sentences for the discriminant's notes."""
+        notes = []
+        if self.conflicts:
+            notes.append(f"In {counted(self.conflicts, 'place')} cells that the traced curve does not separate have "
+                         "different counts: the trace misses an arc there (real discriminant points over non-real "
+                         "singular points are not traced); those cells were kept apart.")
+        if self.beyond:
+            notes.append(f"{counted(self.beyond, 'cell')} {'lies' if self.beyond == 1 else 'lie'} wholly beyond half "
+                         "the box around it, where the curve is not traced: in no region of the plane.")
+        if self.unmet:
+            verb = "is" if self.unmet == 1 else "are"
+            notes.append(f"{counted(self.unmet, 'piece')} of the box between the traced arcs {verb} crossed by no "
+                         "line: a region (or a part of one) whose count is not known; more --lines would sample it.")
+        counts = [(r.count.solutions, r.count.branches) for r in self.regions]
+        if len(set(counts)) < len(counts):
+            # cells join where the traced arcs leave a passage; a passage narrower than the raster or a region
+            # narrower than the line spacing (the horn next to a cusp) can leave one region in pieces
+            notes.append("Regions with the same count may be pieces of one region: cells are joined where the "
+                         "traced arcs leave a passage between them, so the number of regions is an upper bound.")
+        return notes
+
+
+def _segments_drawn(arcs, low, high, resolution):
+    """Walls: the pixels within :data:`_WALL` of the polylines (coordinates scaled to the unit square)."""
+    walls = np.zeros((resolution, resolution), dtype=bool)
+    scale = (resolution - 1) / (high - low)
+    step = 0.5  # samples per pixel along a segment: no pixel the segment passes is skipped
+    for arc in arcs:
+        if len(arc) < 2:
+            continue
+        a, b = (arc[:-1] - low) * scale, (arc[1:] - low) * scale
+        lengths = np.linalg.norm(b - a, axis=1)
+        counts = np.maximum(1, np.ceil(lengths / step).astype(int)) + 1
+        which = np.repeat(np.arange(len(a)), counts)
+        t = np.concatenate([np.linspace(0.0, 1.0, c) for c in counts])
+        points = a[which] + t[:, None] * (b[which] - a[which])
+        reach = int(math.ceil(_WALL))
+        for di in range(-reach, reach + 1):
+            for dj in range(-reach, reach + 1):
+                if di * di + dj * dj > _WALL * _WALL + 0.5:
+                    continue
+                i = np.rint(points[:, 0]).astype(int) + di
+                j = np.rint(points[:, 1]).astype(int) + dj
+                keep = (i >= 0) & (i < resolution) & (j >= 0) & (j < resolution)
+                walls[i[keep], j[keep]] = True
+    return walls
+
+
+def _bridges(arcs, low, high):
+    """Segments from each arc end inside the box that touches nothing to the nearest point of another arc."""
+    span = high - low
+    unit = [(arc - low) / span for arc in arcs if len(arc) >= 2]
+    near = 2.0 / _RASTER
+    bridges = []
+    for k, arc in enumerate(unit):
+        others = [u for m, u in enumerate(unit) if m != k]
+        for end, far in ((arc[0], arc[-1]), (arc[-1], arc[0])):
+            if np.any(end <= near) or np.any(end >= 1 - near):
+                continue  # cut at the reach box: nothing lies beyond
+            candidates = np.vstack(others + [far[None, :]])
+            distance = np.linalg.norm(candidates - end, axis=1)
+            nearest = int(np.argmin(distance))
+            if near < distance[nearest] <= _BRIDGE:
+                bridges.append(np.vstack([end, candidates[nearest]]) * span + low)
+    return bridges
+
+
+def _pieces_of(arcs, low, high):
+    """Label of every pixel of the reach box: the 4-connected pieces between the arcs (0 on the arcs)."""
+    from scipy import ndimage  # imported where used: `import numag` stays fast
+
+    walls = _segments_drawn(list(arcs) + _bridges(arcs, low, high), low, high, _RASTER)
+    labels, _ = ndimage.label(~walls)
+    return labels
+
+
+def _piece_of_cell(labels, cell, low, high):
+    """The one piece the middle half of a cell (clipped to the reach box) lies in, or None (none or several)."""
+    bottom, top = max(cell.low, low[1]), min(cell.high, high[1])
+    if not low[0] <= cell.line <= high[0] or top <= bottom:
+        return None
+    heights = bottom + (top - bottom) * np.linspace(0.25, 0.75, 9)
+    scale = (_RASTER - 1) / (high - low)
+    i = int(np.rint((cell.line - low[0]) * scale[0]))
+    j = np.rint((heights - low[1]) * scale[1]).astype(int)
+    found = set(labels[i, j].tolist()) - {0}
+    return found.pop() if len(found) == 1 else None
+
+
+def _pieces_in_box(labels, low, high, box_low, box_high):
+    """The labels of the pieces that meet the [ranges] box."""
+    scale = (_RASTER - 1) / (high - low)
+    i0, j0 = np.ceil((box_low - low) * scale).astype(int)
+    i1, j1 = np.floor((box_high - low) * scale).astype(int)
+    return set(np.unique(labels[i0:i1 + 1, j0:j1 + 1]).tolist()) - {0}
+
+
 def merge_cells(cells, curve):
-    """Regions of the plane: cells on neighbouring lines joined where the strip between them is crossable.
+    """Regions of the plane: cells joined where the traced curve does not separate them.
+
+    Two joins, both only between cells of equal counts: cells on neighbouring lines where the strip between
+    them is crossable (intervals the arcs leave free), and cells whose middles lie in one piece of the reach
+    box cut by the arcs (a flood fill of a raster, :data:`_RASTER` pixels a side), which joins cells of lines
+    that are not neighbours and around arcs that end between two lines. A piece holding cells of different
+    counts leaks (an arc the trace missed): it joins nothing.
 
     Parameters
     ----------
@@ -958,22 +1096,40 @@ def merge_cells(cells, curve):
 
     Returns
     -------
-    regions : list of PlaneRegion
-    conflicts : int
-        Neighbouring cells the traced curve does not separate but whose counts differ (the trace missed
-        an arc there, e.g. real discriminant points over non-real singular points); they are kept apart.
+    CellMerge
+
+    Examples
+    --------
+    >>> from numag.families.discriminant import Region
+    >>> circle = np.column_stack([np.cos(np.linspace(0, 2 * np.pi, 60)), np.sin(np.linspace(0, 2 * np.pi, 60))])
+    >>> curve = DiscriminantCurve([circle], (np.array([-2.0, -2.0]), np.array([2.0, 2.0])), [], 0, [])
+    >>> inside, outside = RealCount(2, None, 0), RealCount(0, None, 0)
+    >>> cells = [Region(-np.inf, np.inf, np.array([-1.5, 0.0]), outside, -1.5),
+    ...          Region(-np.inf, -0.8, np.array([0.0, -2.0]), outside, 0.0),
+    ...          Region(-0.8, 0.8, np.array([0.0, 0.0]), inside, 0.0),
+    ...          Region(0.8, np.inf, np.array([0.0, 2.0]), outside, 0.0)]
+    >>> sorted(sorted(r.cells) for r in merge_cells(cells, curve).regions)
+    [[0, 1, 3], [2]]
     """
     low, high = curve.box
     span = high - low
+    reach_low, reach_high = reach_box(low, high)
     # the trace reaches half the box beyond it; unbounded cells end there
-    floor, ceiling = low[1] - 0.5 * span[1], high[1] + 0.5 * span[1]
+    floor, ceiling = reach_low[1], reach_high[1]
     # the polyline's chords stray from the curve by up to about a trace step (1/200 of the box diagonal):
     # a passage narrower than 1/100 of the box's height is not trusted, and the cells stay apart (the safe side)
     tolerance = 0.01 * span[1]
     lines = sorted({c.line for c in cells})
+    inside = [k for k, c in enumerate(cells) if c.low < ceiling and c.high > floor]
     joined = []  # pairs of cells of one region
     conflicts = 0
-    by_line = {line: [k for k, c in enumerate(cells) if c.line == line] for line in lines}
+    by_line = {line: [k for k in inside if cells[k].line == line] for line in lines}
+
+    def count(k):
+        return cells[k].count.solutions, cells[k].count.branches
+
+    labels = _pieces_of(curve.arcs, reach_low, reach_high)
+    piece_of = {k: _piece_of_cell(labels, cells[k], reach_low, reach_high) for k in inside}
     for left, right in zip(lines[:-1], lines[1:]):
         blocked = strip_blocked(curve.arcs, left, right)
         for i in by_line[left]:
@@ -983,13 +1139,25 @@ def merge_cells(cells, curve):
                 overlap_high = min(a.high, b.high, ceiling)
                 if overlap_high <= overlap_low or not _free(overlap_low, overlap_high, blocked, tolerance):
                     continue
-                if (a.count.solutions, a.count.branches) != (b.count.solutions, b.count.branches):
+                if count(i) == count(j):
+                    joined.append((i, j))
+                elif piece_of[i] is None or piece_of[i] == piece_of[j]:
+                    # a coarse polygon's chord can open a passage the curve does not have; the flood fill,
+                    # which looks at the cells' middles, then sees them apart and this is no conflict
                     conflicts += 1
-                    continue
-                joined.append((i, j))
+    in_piece = {}
+    for k in inside:
+        if piece_of[k] is not None:
+            in_piece.setdefault(piece_of[k], []).append(k)
+    for members in in_piece.values():
+        if len({count(k) for k in members}) == 1:
+            joined += [(members[0], k) for k in members[1:]]
+        else:
+            conflicts += 1
+    unmet = len(_pieces_in_box(labels, reach_low, reach_high, low, high) - set(in_piece))
     region_of = connected_components(len(cells), joined)
     regions = {}
-    for k in range(len(cells)):
+    for k in inside:
         regions.setdefault(int(region_of[k]), []).append(k)
 
     def width(k):
@@ -1001,5 +1169,4 @@ def merge_cells(cells, curve):
         widest = max(members, key=width)
         result.append(PlaneRegion(members, cells[widest].sample.copy(), cells[widest].count))
     result.sort(key=lambda r: (tuple(r.sample)))
-    return result, conflicts
-
+    return CellMerge(result, conflicts, len(cells) - len(inside), unmet)

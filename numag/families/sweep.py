@@ -74,6 +74,10 @@ class SweepOptions:
         the solutions: its imaginary part is at least half its distance to the nearest one).
     singular_condition : float
         Condition number of J_x above which a solution is a rank-drop point.
+    split_clusters : bool
+        Pull apart several paths of one value ending at one point (:func:`split_cluster`): roots of a member
+        within about 1e-10 of the discriminant are closer than the endpoints' accuracy. At most 64 clusters
+        per sweep are tried (a family whose every member has a multiple root would pay it at every value).
     balance : bool
         Track in balanced units (:class:`~numag.numeric.scaling.Scaling` of x and p together, powers of
         ten): a family in millimetres sweeps as in metres. Points and values are reported in the user's units.
@@ -88,6 +92,7 @@ class SweepOptions:
     real_tolerance: float = 1e-8
     real_separation: float = 1e-3
     singular_condition: float = 1e8
+    split_clusters: bool = True
     balance: bool = True
     start: str = "total-degree"
 
@@ -487,7 +492,8 @@ def sweep(family, values, options=None, seed=None, progress=None, execution=None
     if total:
         run = track(homotopy, starts, options.tracker, executor=executor, batch_size=options.batch_size,
                     progress=progress, fresh_homotopy=fresh_homotopy)
-        members, counts, description = _members(family, run, values, len(solutions), options), \
+        exact = (user_family, x_factors, user_values)
+        members, counts, description = _members(family, run, values, len(solutions), options, exact), \
             run.counts.report(), dict(run.execution)
     else:
         members = [MemberSolutions(v, np.zeros((0, family.n_variables), complex), np.zeros(0, bool), [],
@@ -581,8 +587,12 @@ def move_points(family, start_values, points, targets, real_segment=False, seed=
     return ends * x_factors, (failed if per_path else int(np.sum(failed)))
 
 
-def _members(family, run, values, per_value, options):
-    """Group the endpoints by value: distinct points, real flags, rank drops, failures."""
+def _members(family, run, values, per_value, options, exact=None):
+    """Group the endpoints by value: distinct points, real flags, rank drops, failures.
+
+    ``exact``: (the user's family, the factors of x, the user's values), where clusters are split: a value
+    such as q = 2 is exact in binary in the user's units but not once divided by a power of ten.
+    """
     n = family.n_variables
     real_family = family.system.has_real_coefficients
     status = run.status.reshape(len(values), per_value)
@@ -591,7 +601,7 @@ def _members(family, run, values, per_value, options):
     finite = (status == PathStatus.CONVERGED) | (status == PathStatus.SINGULAR_ENDPOINT)
     with np.errstate(all="ignore"):
         affine = ends[:, :, 1:n + 1] / ends[:, :, :1]
-    members = []
+    members, evaluator, tries = [], None, 0
     for k, value in enumerate(values):
         rows = np.nonzero(finite[k])[0]
         failed = int(np.sum(status[k] >= PathStatus.FAILED_MIN_STEP))
@@ -606,9 +616,25 @@ def _members(family, run, values, per_value, options):
             members_of = groups(labels)
         else:  # the common case: distinct regular endpoints, nothing to cluster
             members_of = [np.array([j]) for j in range(len(rows))]
-        distinct, kinds, paths = [], [], []
+        distinct, kinds, paths, settled = [], [], [], {}
         for group in members_of:
             best = group[np.argmin(condition[k, rows[group]])]
+            split = None
+            if len(group) > 1 and options.split_clusters and tries < _SPLIT_TRIES:
+                tries += 1
+                # roots closer than the endpoints' accuracy (within about 1e-10 of the discriminant) came back
+                # as one point: pulled apart at 40 digits, or left as a rank drop if they are one root
+                user_family, x_factors, user_values = exact or (family, np.ones(n), values)
+                evaluator = evaluator or PrecisionEvaluator(user_family.system.polynomials)
+                split = split_cluster(evaluator, points[best] * x_factors, np.asarray(user_values[k]), len(group))
+                split = None if split is None else (split[0] / x_factors, split[1])
+            if split is not None:
+                for point, is_real in zip(*split):
+                    settled[len(distinct)] = bool(is_real)
+                    distinct.append(point)
+                    kinds.append(PointKind.REGULAR)
+                    paths.append(1)
+                continue
             distinct.append(points[best])
             singular = len(group) > 1 or np.any(status[k, rows[group]] == PathStatus.SINGULAR_ENDPOINT) \
                 or condition[k, rows[best]] > options.singular_condition
@@ -621,8 +647,163 @@ def _members(family, run, values, per_value, options):
             # near the discriminant a real solution is computed only to about the square root of the precision:
             # its imaginary part sits at the fixed tolerance, and the count flipped with the seed
             real |= real_by_separation(distinct, options.real_separation)
+        for index, is_real in settled.items():  # decided at 40 digits
+            real[index] = real_value and is_real
         members.append(MemberSolutions(value, distinct, real, kinds, np.array(paths, dtype=np.int64), failed, infinite))
     return members
+
+
+#: Digits of the arithmetic that pulls a cluster of endpoints apart (decision 0087): a member's parameter value is
+#: a double, exact in binary, so its roots are resolved far below the double precision of the tracked endpoints.
+_SPLIT_DIGITS = 40
+#: A split root is accepted when its last Newton step is below this relative size (quadratic convergence at
+#: a simple root reaches it in a few steps; at a true multiple root Newton is linear and never does).
+_SPLIT_STEP = 1e-25
+#: Clusters of more paths than this are left as they are (a rank drop).
+_SPLIT_MAX_PATHS = 4
+#: Clusters tried per sweep: a try costs about 0.05 s (one unknown) to 0.5 s (four), and a family whose every
+#: member has a multiple root would otherwise pay it at every value; the rest stay rank drops, as before.
+_SPLIT_TRIES = 64
+
+
+def split_cluster(evaluator, point, value, paths):
+    """The ``paths`` distinct solutions near ``point`` of the member at ``value``, or None if they are one point.
+
+    Several paths of one member ending at one point mean either a member on the discriminant (a multiple
+    root) or roots closer than double precision resolves at the end of the tracking (the member lies within
+    about 1e-10 of the discriminant). The member's equations are reduced to one function of one unknown t
+    along the null vector v of J_x at the point (Lyapunov-Schmidt reduction: the other n - 1 unknowns solve
+    the other n - 1 equations by Newton for each t; common practice, no source), sampled on a circle of
+    radius r at 40 digits. Where it winds ``paths`` times around 0 (exactly that many roots inside) and a
+    polynomial of degree ``paths`` fits it, its roots start Newton on the member at 40 digits; the result
+    is accepted only if every start converges quadratically and the limits are distinct.
+
+    Parameters
+    ----------
+    evaluator : PrecisionEvaluator
+        The family's incidence system in (x, p).
+    point : ndarray of complex, shape (n,)
+    value : ndarray of complex, shape (m,)
+    paths : int
+
+    Returns
+    -------
+    (ndarray of complex, shape (paths, n), ndarray of bool) or None
+        The solutions, and which are real to 40 digits (only meaningful for a real member).
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> cubic = PrecisionEvaluator(parse_system(["x^3 - 3*x + q"], ["x", "q"]).polynomials)
+    >>> roots, real = split_cluster(cubic, np.array([1.0 + 0j]), np.array([2 - 2.0 ** -43]), 2)  # 1.1e-13 below 2
+    >>> expected = np.array([-1, 1]) * 2.0 ** -21.5 / 3 ** 0.5  # 1 -+ sqrt(2^-43 / 3)
+    >>> bool(np.allclose(np.sort(roots[:, 0].real) - 1, expected, rtol=1e-6, atol=0)), real.tolist()
+    (True, [True, True])
+    >>> split_cluster(cubic, np.array([1.0 + 0j]), np.array([2.0]), 2) is None  # on the discriminant: a double root
+    True
+    """
+    import mpmath
+
+    n = len(point)
+    if not 2 <= paths <= _SPLIT_MAX_PATHS:
+        return None
+    ctx = mpmath.mp
+    with ctx.workdps(_SPLIT_DIGITS):
+        parameters = [ctx.mpc(complex(v)) for v in value]
+
+        def system(x):
+            values, jacobian = evaluator.evaluate(list(x) + parameters, ctx)
+            return values, jacobian[:, :n]
+
+        _, jacobian = system([ctx.mpc(complex(z)) for z in point])
+        matrix = np.array(jacobian.tolist(), dtype=complex)
+        left, singular, right = np.linalg.svd(matrix)
+        if n > 1 and singular[-2] <= 1e-6 * singular[0]:
+            return None  # a kernel of two or more dimensions: not one function of one unknown
+        null, others = right[-1].conj(), right[:-1].conj().T  # x = point + t null + others y
+        left_others = left[:, :-1].conj().T  # the equations that fix y for each t
+        start = [ctx.mpc(complex(z)) for z in point]
+
+        def reduced(t, guess):
+            """u^H F at the point of the slice t, with y solved by Newton; (value, y) or None."""
+            y = list(guess)
+            base = [start[j] + t * complex(null[j]) for j in range(n)]
+            for _ in range(12):
+                x = [base[j] + sum(complex(others[j, i]) * y[i] for i in range(n - 1)) for j in range(n)]
+                values, jac = system(x)
+                if n == 1:
+                    break
+                rows = [[sum(complex(left_others[a, b]) * jac[b, c] for b in range(n)) for c in range(n)]
+                        for a in range(n - 1)]
+                residual = ctx.matrix([sum(complex(left_others[a, b]) * values[b] for b in range(n))
+                                       for a in range(n - 1)])
+                reduced_jacobian = ctx.matrix([[sum(rows[a][c] * complex(others[c, i]) for c in range(n))
+                                                for i in range(n - 1)] for a in range(n - 1)])
+                try:
+                    step = ctx.lu_solve(reduced_jacobian, residual)
+                except ZeroDivisionError:
+                    return None
+                y = [y[i] - step[i] for i in range(n - 1)]
+                if ctx.norm(step) <= ctx.eps * 1e3:
+                    break
+            values, _ = system(x)
+            return sum(complex(left[b, -1].conjugate()) * values[b] for b in range(n)), y
+
+        size = 1.0 + float(np.linalg.norm(point))
+        samples = 8 * paths
+        circle = np.exp(2j * np.pi * np.arange(samples) / samples)
+        # endpoints cluster within 1e-6 of their size (SweepOptions.cluster_tolerance): the roots sought are that close
+        for radius in size * 10.0 ** -np.arange(4.0, 12.5, 0.5):
+            reached, guess = [], [ctx.mpc(0)] * (n - 1)
+            for w in circle:
+                found = reduced(ctx.mpf(radius) * complex(w), guess)
+                if found is None:
+                    return None
+                reached.append(complex(found[0]))
+                guess = found[1]
+            reached = np.array(reached)
+            turns = np.angle(np.roll(reached, -1) / reached)
+            winding = int(round(np.sum(turns) / (2 * np.pi)))
+            if winding < paths:
+                return None  # the roots left the circle before a radius showed them alone
+            if winding > paths:
+                continue  # other roots inside: a smaller circle
+            coefficients = np.fft.fft(reached) / samples  # c_j = a_j r^j of the Taylor series
+            head = np.max(np.abs(coefficients[:paths + 1]))
+            if np.max(np.abs(coefficients[paths + 1:])) > 1e-3 * head:
+                continue  # not yet a polynomial of degree `paths` on this circle
+            roots = np.roots(coefficients[:paths + 1][::-1]) * radius
+            refined = [_newton_on_member(system, [start[j] + complex(t * null[j]) for j in range(n)], ctx)
+                       for t in roots]
+            if any(r is None for r in refined):
+                return None
+            points = np.array([[complex(z) for z in r] for r in refined])
+            exact_distance = [float(ctx.norm(ctx.matrix(refined[a]) - ctx.matrix(refined[b])))
+                              for a in range(paths) for b in range(a + 1, paths)]
+            if min(exact_distance) <= 1e3 * _SPLIT_STEP * size:
+                return None  # two starts reached one root
+            real = np.array([max(abs(float(z.imag)) for z in r) <= _SPLIT_STEP * size for r in refined])
+            return points, real
+    return None
+
+
+def _newton_on_member(system, start, ctx, iterations=15):
+    """Newton on the member from ``start`` (mp); the point if the last step is below the accepted size.
+
+    From the fitted roots Newton converges quadratically in a few steps; at a multiple root it is linear (each
+    step halves the error), and 15 steps end it far above the accepted size.
+    """
+    x = ctx.matrix(start)
+    for _ in range(iterations):
+        values, jacobian = system(list(x))
+        try:
+            step = ctx.lu_solve(jacobian, values)
+        except ZeroDivisionError:
+            return None
+        x = x - step
+        if ctx.norm(step) <= _SPLIT_STEP * (1 + ctx.norm(x)):
+            return list(x)
+    return None
 
 
 def real_by_separation(points, fraction=1e-3):

@@ -208,6 +208,19 @@ def _format_complex(z, floor=None):
     return f"{real:.10g}{sign}{abs(imag):.10g}*I"
 
 
+def _rounding_floor(result):
+    """Parts below this are printed as 0: rounding relative to the largest value of one parameter found.
+
+    With one parameter a discriminant point at 0 comes out as 1e-13 beside points near 200; printed
+    alone it would read as a value.
+    """
+    if len(result.parameters) != 1:
+        return None
+    values = [abs(complex(v)) for v in result.real_points]
+    values += [abs(complex(c.points[0, 0])) for c in result.components if c.dimension == 0 and len(c.points)]
+    return _ROUNDING * max([1.0] + values)  # as _format_complex: never below its own floor
+
+
 def _format_point(names, point):
     return ", ".join(f"{n}={_format_complex(complex(z))}" for n, z in zip(names, point))
 

@@ -14,8 +14,8 @@ from ...families.records import ComponentKind
 from ..picture import discriminant_svg, sweep_svg
 from ..report import CAUTION, discriminant_warnings, dumps, undecided_special_points
 from ..saved import save
-from .common import (EXIT_OK, EXIT_UNDECIDED, _add_executor_options, _add_work_options, _ROUNDING, _format_complex,
-                     _progress, _seed, _stage_executor)
+from .common import (EXIT_OK, EXIT_UNDECIDED, _add_executor_options, _add_work_options, _format_complex,
+                     _progress, _rounding_floor, _seed, _stage_executor)
 
 
 def add_parser(commands):
@@ -68,19 +68,6 @@ def _interval(low, high, floor=None):
     left = "-inf" if math.isinf(low) else _format_complex(complex(low), floor)
     right = "inf" if math.isinf(high) else _format_complex(complex(high), floor)
     return f"({left}, {right})"
-
-
-def _rounding_floor(result):
-    """Parts below this are printed as 0: rounding relative to the largest value of one parameter found.
-
-    With one parameter a discriminant point at 0 comes out as 1e-13 beside points near 200; printed
-    alone it would read as a value.
-    """
-    if len(result.parameters) != 1:
-        return None
-    values = [abs(complex(v)) for v in result.real_points]
-    values += [abs(complex(c.points[0, 0])) for c in result.components if c.dimension == 0 and len(c.points)]
-    return _ROUNDING * max([1.0] + values)  # as _format_complex: never below its own floor
 
 
 def _print(result, out):
@@ -163,7 +150,7 @@ def run(args, out):
     if args.output:
         save(result, args.output)
     if args.svg:
-        write_file(args.svg, (discriminant_svg(result) if "discriminant" in __name__ else sweep_svg(result)).encode())
+        write_file(args.svg, (discriminant_svg(result, _rounding_floor(result)) if "discriminant" in __name__ else sweep_svg(result)).encode())
     if args.json:
         data = result.to_dict()
         data["warnings"] = discriminant_warnings(result)

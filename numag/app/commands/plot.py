@@ -16,7 +16,7 @@ from ...system.files import load_angles
 from ..report import CAUTION, read_report
 from ...system.display import counted
 from ...system.safeio import write_file
-from .common import EXIT_OK, EXIT_UNDECIDED, _count, _seed
+from .common import EXIT_OK, EXIT_UNDECIDED, _count, _rounding_floor, _seed
 
 
 def add_parser(commands):
@@ -146,7 +146,7 @@ def _discriminant_picture(data, args, out):
     from ..saved import from_dict  # the stages' records only for a saved result
     result = from_dict(data)
     from ..picture import discriminant_svg  # drawing only when asked
-    write_file(args.output, discriminant_svg(result).encode())
+    write_file(args.output, discriminant_svg(result, _rounding_floor(result)).encode())
     out.write(f"numag plot: {args.report_file} (a report of 'numag discriminant')\npicture: {args.output}\n")
     if result.curve is not None:
         kinds = [p.kind.value for p in result.curve.special]
