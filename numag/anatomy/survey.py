@@ -209,7 +209,8 @@ def point_anatomy(system, point, seed=None, decomposition=None, angles=None, loc
     scaling, polynomials = _balanced(system)
     computed = scaling.to_computed(point)
     if system.n_equations == 1:
-        anatomy = _hypersurface_point(polynomials[0], computed, point, scaling, rng, real, angles, options)
+        anatomy = _hypersurface_point(polynomials[0], computed, point, scaling, rng, real, angles, options,
+                                      scaling.to_user)
     else:
         anatomy = _system_point(system, polynomials, computed, point, scaling, rng, real, angles, seed,
                                 decomposition, local_dimension, options)
@@ -217,7 +218,10 @@ def point_anatomy(system, point, seed=None, decomposition=None, angles=None, loc
     return anatomy
 
 
-def _hypersurface_point(polynomial, computed, user_point, scaling, rng, real, angles, options):
+def _hypersurface_point(polynomial, computed, user_point, scaling, rng, real, angles, options, to_user):
+    """The anatomy of f = 0 at ``computed`` (f's own coordinates); ``to_user`` maps rows of points in f's
+    coordinates to the user's, which for a normal slice are the ambient space's (more coordinates than f's):
+    a point moved onto the singular point is reported there, and its move measured there."""
     n = polynomial.n_variables
     deflation = None
     if options.onto_singular_point:
@@ -225,7 +229,7 @@ def _hypersurface_point(polynomial, computed, user_point, scaling, rng, real, an
         # (a cusp read 1e-10 off is a node): the type and the picture are read at the point deflation finds
         deflation = onto_singular_point(polynomial, computed)  # its own fixed seed: the slices draw as before
         if deflation.moved:
-            moved = scaling.to_user(deflation.point[None, :])[0]
+            moved = to_user(deflation.point[None, :])[0]
             moved_by = float(np.linalg.norm(moved - user_point))
             computed, user_point = deflation.point, moved
     # the local witness set in the local frame too: its radius is then in units of the singularity's own
@@ -239,7 +243,7 @@ def _hypersurface_point(polynomial, computed, user_point, scaling, rng, real, an
             or _along_the_kernel(polynomial, computed, hypersurface, frame, real)
         if along_kernel is not None:
             computed, hypersurface, frame = along_kernel
-            moved = scaling.to_user(computed[None, :])[0]
+            moved = to_user(computed[None, :])[0]
             moved_by = float(np.linalg.norm(moved - user_point))
             user_point = moved
     local = frame.polynomial
@@ -494,22 +498,32 @@ def _joined(first, second):
 # --- along positive-dimensional singular components (hypersurfaces) -----------------------------------
 
 def _normal_slice(polynomial, point, dimension, rng):
-    """f restricted to a random affine space of dimension n - k through the point (a normal slice)."""
+    """f restricted to a random affine space of dimension n - k through the point (a normal slice), and the
+    space's orthonormal columns N (x = point + N s)."""
     n = polynomial.n_variables
     frame = rng.standard_normal((n, n - dimension)) + 1j * rng.standard_normal((n, n - dimension))
     frame, _ = np.linalg.qr(frame)
-    return polynomial.substitute_linear(frame, point)
+    return polynomial.substitute_linear(frame, point), frame
 
 
-def _slice_anatomy(polynomial, computed, user_point, dimension, rng, options):
-    """The anatomy of the normal slice of f = 0 at a point of a singular component of dimension k."""
-    restricted = _normal_slice(polynomial, computed, dimension, rng)
+def _slice_anatomy(polynomial, computed, user_point, dimension, rng, options, scaling):
+    """The anatomy of the normal slice of f = 0 at a point of a singular component of dimension k.
+
+    ``computed`` is the point in the balanced units of ``scaling``; a point moved onto the singular point of the
+    slice (a candidate pinch point given off it) is reported in the ambient space, x = computed + N s.
+    """
+    restricted, normal = _normal_slice(polynomial, computed, dimension, rng)
     restricted = restricted - complex(restricted.evaluate(np.zeros(restricted.n_variables)))
     origin = np.zeros(restricted.n_variables, dtype=complex)
     identity = Scaling.identity(PolynomialSystem([f"u{j}" for j in range(restricted.n_variables)], [restricted]))
     # the slice's coordinates are complex: no real branches to tell, no angles
+    computed = np.asarray(computed, dtype=complex)
+
+    def to_user(points):  # slice coordinates s -> the ambient space, user's units
+        return scaling.to_user(computed[None, :] + np.asarray(points, dtype=complex) @ normal.T)
+
     anatomy = _hypersurface_point(restricted, origin, np.asarray(user_point, dtype=complex), identity, rng, False,
-                                  None, options)
+                                  None, options, to_user)
     anatomy.local_dimension = restricted.n_variables - 1
     _complex_slice(anatomy)
     return anatomy
@@ -725,7 +739,7 @@ def component_anatomy(system, component, seed=None, options=None, special_candid
     k = component.dimension
     generic_user = np.asarray(component.points[0], dtype=complex)
     generic = scaling.to_computed(generic_user)
-    transversal = _slice_anatomy(f, generic, generic_user, k, rng, options)
+    transversal = _slice_anatomy(f, generic, generic_user, k, rng, options, scaling)
     notes = []
     special = []
     searched = True
@@ -766,7 +780,7 @@ def component_anatomy(system, component, seed=None, options=None, special_candid
         notes.append(f"{counted(rejected, 'candidate special point')} rejected: not on this component (the singular "
                      "locus's equations not met in term units, or an isolated singular point of the locus)")
     for candidate in candidates[on_component]:
-        special.append(_slice_anatomy(f, scaling.to_computed(candidate), candidate, k, rng, options))
+        special.append(_slice_anatomy(f, scaling.to_computed(candidate), candidate, k, rng, options, scaling))
     return ComponentAnatomy(component.id, k, transversal, special, notes, special_points_searched=searched,
                             rejected_candidates=rejected)
 
