@@ -33,11 +33,12 @@ from .frame import cube_root_direction, frame_hessian, kernel_cubic
 from .hypersurface import anatomy_in_frame, corank_jump_shift, hessian_evidence, higher_a_shift, morse_alpha, \
     MORSE_ALPHA
 from .deflation import DeflationOutcome, onto_singular_point
+from .intersection import complete_intersection_milnor, curve_delta
 from .local import LocalOptions, LocalPicture, hypersurface_witness, local_picture, order_radius, orbit_tangent
 from .records import Branch, ComponentAnatomy, Family, Motion, PointAnatomy, SingularityType, TypeTest
 
 __all__ = ["AnatomyOptions", "LocusAnatomy", "point_anatomy", "component_anatomy", "locus_anatomy",
-           "check_anatomy"]
+           "check_anatomy", "infinity_chart"]
 
 #: Radius of the local slices in a local frame (units of the singularity's own scale).
 _FRAME_RADIUS = 1e-2
@@ -475,11 +476,26 @@ def _system_point(system, polynomials, computed, user_point, scaling, rng, real,
         if picture is not None and picture.multiplicity != 0:  # a count, or None: undecided, said in its notes
             anatomy = _picture_anatomy(picture, scaling, computed, user_point, d, angles, real)
             anatomy.notes = notes + anatomy.notes
+            if len(polynomials) == n - d >= 2:
+                anatomy.intersection = _intersection_milnor(polynomials, computed, anatomy, seed)
             return anatomy
     anatomy = PointAnatomy(np.asarray(user_point, dtype=complex), local_dimension or 0, None,
                            notes=notes + ["no component of positive dimension of X passes through the point "
                                           "(or its local witness set was lost)"])
     return anatomy
+
+
+def _intersection_milnor(polynomials, computed, anatomy, seed):
+    """mu of a complete intersection at the point (Le-Greuel), checked against a curve's counted branches: mu + r - 1
+    = 2 delta must be even and non-negative (Buchweitz and Greuel 1980); if not, mu is undecided."""
+    reading = complete_intersection_milnor(polynomials, computed, seed=0 if seed is None else seed)
+    if reading.decided and anatomy.local_dimension == 1 and anatomy.branches is not None:
+        reading.delta = curve_delta(reading.milnor, len(anatomy.branches))
+        if reading.delta is None:
+            reading.notes.append(f"mu = {reading.milnor} and {len(anatomy.branches)} branches do not fit "
+                                 "mu = 2 delta - r + 1: mu undecided")
+            reading.milnor = None
+    return reading
 
 
 def _joined(first, second):
@@ -841,6 +857,13 @@ def locus_anatomy(locus, seed=None, angles=None, options=None):
     isolated = np.array([c.points[0] for c in locus.components
                          if c.dimension == 0 and not c.at_infinity and c.kind == "singular"],
                         dtype=complex).reshape(-1, system.n_variables)
+    at_infinity = [c for c in locus.components if c.at_infinity and c.kind == "singular"]
+    for c in at_infinity:
+        if c.dimension == 0 and system.n_equations == 1:
+            points[c.id] = _chart_anatomy(system, c.points[0], seed + c.id, options)
+    if len(at_infinity) > len([c for c in at_infinity if c.id in points]):
+        notes.append("singular pieces at infinity of several equations, or of positive dimension, have no anatomy "
+                     "(undecided): write the system in an affine chart that contains them")
     for c in locus.components:
         if c.at_infinity or c.kind != "singular":
             continue
@@ -858,6 +881,49 @@ def locus_anatomy(locus, seed=None, angles=None, options=None):
         else:
             components[c.id] = component_anatomy(system, c, seed=seed + c.id, options=options)
     return LocusAnatomy(points, components, time.perf_counter() - started, notes)
+
+
+def infinity_chart(system, homogeneous):
+    """The affine chart a point at infinity (w : x_1 : ... : x_n) is read in: the index j (0 is w) of its largest
+    x_j, set to 1, and the chart's variable names (w first, named apart from the user's).
+
+    Examples
+    --------
+    >>> import numag
+    >>> infinity_chart(numag.parse_system(["x^2*y - 1"], ["x", "y"]), np.array([0, 0.1, 1.0]))
+    (2, ['w', 'x'])
+    """
+    j = 1 + int(np.argmax(np.abs(np.asarray(homogeneous)[1:])))
+    w = next(name for name in ("w", "w0", "w_inf", "w_infinity") if name not in system.variables)
+    return j, [w] + [v for k, v in enumerate(system.variables) if k != j - 1]
+
+
+def _chart_anatomy(system, homogeneous, seed, options):
+    """The anatomy of a hypersurface's closure at a singular point at infinity, read in an affine chart.
+
+    The point (w : x_1 : ... : x_n), w = 0, is read in the chart x_j = 1 of its largest coordinate: the closure
+    there is f^h(w, x) with x_j = 1, a polynomial in w and the other x_k, and the point is (0, x_k / x_j). Every
+    local invariant (multiplicity, corank, mu, tau, type, branches) is the same in any chart; the point and the
+    branches' tangents are given in the chart's coordinates, which a note names.
+
+    Examples
+    --------
+    >>> import numag
+    >>> curve = numag.parse_system(["x^2*y - 1"], ["x", "y"])   # closure x^2 y = w^3: a cusp at (0 : 0 : 1)
+    >>> anatomy = _chart_anatomy(curve, np.array([0, 0, 1.0]), 1, AnatomyOptions())
+    >>> anatomy.hypersurface.type.label, anatomy.point.real.tolist()
+    ('A2', [0.0, 0.0])
+    """
+    homogeneous = np.asarray(homogeneous, dtype=complex)
+    j, names = infinity_chart(system, homogeneous)
+    chart_variable, w = system.variables[j - 1], names[0]
+    chart = PolynomialSystem(names, [system.polynomials[0].homogenize(0).dehomogenize(j)])
+    point = np.delete(homogeneous, j) / homogeneous[j]
+    anatomy = point_anatomy(chart, point, seed=seed, options=options)
+    anatomy.motion = None  # no configuration of a mechanism lies at infinity: no sentence about its motion
+    anatomy.notes.insert(0, f"at infinity: read in the affine chart {chart_variable} = 1 of the closure, coordinates "
+                            f"({', '.join(names)}) with {w} = 1/{chart_variable}; the point and tangents are in them")
+    return anatomy
 
 
 def check_anatomy(report, decomposition=None, angles=None, options=None):
