@@ -894,7 +894,8 @@ def infinity_chart(system, homogeneous):
     (2, ['w', 'x'])
     """
     j = 1 + int(np.argmax(np.abs(np.asarray(homogeneous)[1:])))
-    w = next(name for name in ("w", "w0", "w_inf", "w_infinity") if name not in system.variables)
+    w = next(name for name in itertools.chain(["w"], (f"w{k}" for k in itertools.count()))
+             if name not in system.variables)
     return j, [w] + [v for k, v in enumerate(system.variables) if k != j - 1]
 
 
