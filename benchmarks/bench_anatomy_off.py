@@ -1,7 +1,7 @@
 """Types and local pictures read at a point given off the singular point (decisions 0056, 0068).
 
 Run:  python benchmarks/bench_anatomy_off.py [--seeds 8] [--off 1e-10] [--condition K]
-      python benchmarks/bench_anatomy_off.py --far [--seeds 3] [--off 1e-10]    (decision 0073)
+      python benchmarks/bench_anatomy_off.py --far [--exact] [--seeds 3] [--off 1e-10]    (decisions 0073, 0086)
 
 The twelve simple plane curve normal forms of Arnold 1972 (A1..A6, D4..D6, E6..E8) and x^3 + y^3 (D4), each
 after ``--seeds`` random changes of coordinates and units moved to a random point (``bench_anatomy.moved``,
@@ -13,11 +13,13 @@ wrong), the totals, and the median time per point.
 ``--far``: the simple types A1..A7, D4..D6, E6..E8 with the singular point moved far from the origin, to
 (100, -30) times a unit of 1e-3, 1 or 1e3, after a random rotation and stretch by 2^U(-1, 1) per seed
 (``far_placement``); one row per type and unit. Far out the expanded coefficients' rounding (|p|^degree times
-1e-16) reaches the features of the high types: undecided is then the right answer, wrong never is.
+1e-16) reaches the features of the high types: undecided is then the right answer, wrong never is. With
+``--exact`` the placement is written exactly (``far_placement_exact``): the singularity is then exactly there.
 """
 
 import argparse
 import time
+from fractions import Fraction
 
 import numpy as np
 
@@ -53,6 +55,24 @@ def far_placement(equation, seed, unit, centre=(100.0, -30.0)):
     return PolynomialSystem(["x", "y"], [f.numeric().substitute_linear(matrix, -matrix @ point)]), point
 
 
+def far_placement_exact(equation, seed, unit, centre=(100, -30)):
+    """As :func:`far_placement`, exact: the rotation and stretch rounded to 4 decimals and written as rationals,
+    the centre and the unit exact, and the equation expanded by the parser in exact arithmetic. The singular
+    point is then exactly at ``centre`` times ``unit`` (the double placement's coefficients are rounded at
+    |p|^d eps, which far out changes the singularity itself). Returns (system, singular point)."""
+    rng = np.random.default_rng(900 + seed)
+    rotation, _ = np.linalg.qr(rng.standard_normal((2, 2)))
+    matrix = rotation @ np.diag(2.0 ** rng.uniform(-1, 1, 2))
+    scale = Fraction(1) / Fraction(unit).limit_denominator(10**6)
+    point = [Fraction(c) * Fraction(unit).limit_denominator(10**6) for c in centre]
+    entries = [[Fraction(round(v * 10**4), 10**4) * scale for v in row] for row in matrix]
+    shifted = [f"(x - ({point[0]}))", f"(y - ({point[1]}))"]
+    forms = [f"(({row[0]})*{shifted[0]} + ({row[1]})*{shifted[1]})" for row in entries]
+    # x and y of the normal form replaced by the two forms (placeholders first: the forms contain x and y)
+    text = equation.replace("x", "{X}").replace("y", "{Y}").format(X=forms[0], Y=forms[1])
+    return parse_system([text], ["x", "y"]), np.array([float(v) for v in point])
+
+
 def far_table(args):
     """One row per type and unit: the type verdicts of seeds 1..args.seeds."""
     totals = {"right": 0, "undecided": 0, "wrong": 0}
@@ -61,7 +81,7 @@ def far_table(args):
         for unit in FAR_UNITS:
             verdicts = []
             for seed in range(1, args.seeds + 1):
-                system, point = far_placement(equation, seed, unit)
+                system, point = (far_placement_exact if args.exact else far_placement)(equation, seed, unit)
                 off = point + args.off * np.abs(point) * np.random.default_rng(seed + 77).standard_normal(2)
                 started = time.perf_counter()
                 anatomy = numag.point_anatomy(system, off, seed=seed)
@@ -85,6 +105,8 @@ def main():
     parser.add_argument("--cases", default=None, help="comma-separated indices of CASES to run")
     parser.add_argument("--far", action="store_true",
                         help="the table of the simple types moved to (100, -30) in units 1e-3, 1, 1e3 (decision 0073)")
+    parser.add_argument("--exact", action="store_true",
+                        help="with --far: the placement written exactly (rational coefficients; decision 0086)")
     args = parser.parse_args()
     if args.far:
         far_table(args)

@@ -58,6 +58,7 @@ _PUBLIC = {
     "certify_singular_point": "certify.certificates", "certify_smooth_point": "certify.certificates",
     "overlapping_pairs": "certify.certificates",
     "point_anatomy": "anatomy.survey", "component_anatomy": "anatomy.survey", "locus_anatomy": "anatomy.survey",
+    "complete_intersection_milnor": "anatomy.intersection",
     "save": "app.saved", "load": "app.saved",
     "StartKind": "tracking.starts", "choose_start": "tracking.starts", "mixed_volume": "tracking.polyhedral",
     "choose_witness_start": "tracking.starts", "estimated_cost": "tracking.starts",
@@ -72,7 +73,8 @@ __all__ = ["NumagError", "parse_system", "parse_polynomial", "Polynomial", "Poly
            "certify_smooth_point", "certify_rank", "overlapping_pairs", "load_family", "DiscriminantOptions",
            "discriminant", "SweepOptions", "sweep", "point_anatomy",
            "component_anatomy", "locus_anatomy", "save", "load", "System", "StartKind", "choose_start",
-           "mixed_volume", "isolated_singular_points", "choose_witness_start", "estimated_cost", "__version__"]
+           "mixed_volume", "isolated_singular_points", "choose_witness_start", "estimated_cost",
+           "complete_intersection_milnor", "__version__"]
 
 
 def __getattr__(name):

@@ -188,3 +188,22 @@ def test_pinch_point_on_a_curved_double_curve(seed):
     assert anatomy.transversal.hypersurface.type.label == "A1"
     assert anatomy.special_points_searched
     assert [np.abs(p.point).max() < 1e-8 for p in anatomy.special_points] == [True]
+
+
+@pytest.mark.parametrize("seed", [1, 2, 3])
+def test_a_pinch_point_given_off_itself_is_moved_in_the_ambient_space(seed):
+    # The Whitney umbrella x^2 = y^2 z: its pinch point is the origin, where the normal slice is a cusp, A2
+    # (common practice, no source). A candidate given 1e-12 off it (as a computed one is) is moved onto the
+    # singular point of its normal slice; that move is in the slice's two coordinates and must be reported in
+    # the ambient three. Before, the two were subtracted as they were (shapes (2,) and (3,)): a ValueError
+    # whenever the deflation moved a slice's point, which last-bit changes of the computed candidate decided.
+    umbrella = parse_system(["x^2 - y^2*z"], ["x", "y", "z"])
+    locus = numag.singular_locus(umbrella, seed=seed)
+    line = [c for c in locus.components if c.dimension == 1][0]
+    off = 1e-12 * np.random.default_rng(seed).standard_normal(3)
+    anatomy = component_anatomy(umbrella, line, seed=seed, special_candidates=off[None, :])
+    assert len(anatomy.special_points) == 1
+    pinch = anatomy.special_points[0]
+    assert pinch.point.shape == (3,) and np.abs(pinch.point).max() < 1e-8
+    assert pinch.moved_by is None or pinch.moved_by < 1e-8
+    assert pinch.hypersurface.type.label in ("A2", "undecided")

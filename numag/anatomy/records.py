@@ -21,7 +21,7 @@ from enum import Enum
 import numpy as np
 
 __all__ = ["Family", "TypeTest", "Motion", "SingularityType", "HessianEvidence", "HypersurfaceAnatomy",
-           "Branch", "PointAnatomy", "ComponentAnatomy", "encode_vector", "decode_vector"]
+           "Branch", "IntersectionMilnor", "PointAnatomy", "ComponentAnatomy", "encode_vector", "decode_vector"]
 
 
 class Family(Enum):
@@ -262,6 +262,46 @@ class Branch:
 
 
 @dataclass
+class IntersectionMilnor:
+    """mu of an ICIS at a point by the Le-Greuel formula, with the evidence.
+
+    Attributes
+    ----------
+    milnor : int or None
+        None when undecided (a length unclear or infinite, or the two choices disagree).
+    lengths : list of list of int or None
+        Per choice of the generic equations, dim O / (g_1..g_(j-1), j-minors) for j = 1..k.
+    narrowest_gap : float
+        The narrowest rank gap (decades) of the Macaulay matrices behind the lengths.
+    delta : int or None
+        For a curve with counted branches: delta = (mu + r - 1) / 2 (Buchweitz and Greuel 1980).
+    notes : list of str
+    """
+
+    milnor: object
+    lengths: list
+    narrowest_gap: float
+    notes: list = field(default_factory=list)
+    delta: object = None
+
+    @property
+    def decided(self):
+        return self.milnor is not None
+
+    def to_dict(self):
+        return {"milnor": self.milnor, "lengths": [list(c) for c in self.lengths],
+                "narrowest_gap": None if not np.isfinite(self.narrowest_gap) else float(self.narrowest_gap),
+                "delta": self.delta, "notes": list(self.notes)}
+
+    @classmethod
+    def from_dict(cls, data):
+        gap = data.get("narrowest_gap")
+        return cls(None if data["milnor"] is None else int(data["milnor"]), [list(c) for c in data["lengths"]],
+                   float("inf") if gap is None else float(gap), list(data.get("notes", [])),
+                   _optional(data.get("delta"), int))
+
+
+@dataclass
 class PointAnatomy:
     """The anatomy of X (or of a normal slice of X) at one point.
 
@@ -285,6 +325,8 @@ class PointAnatomy:
     moved_by : float or None
         How far (user's units) the given point was moved onto the singular point before it was read (one
         equation); None when it was read where it was given.
+    intersection : IntersectionMilnor or None
+        For a complete intersection of k >= 2 equations and positive dimension: its Milnor number (Le-Greuel).
     """
 
     point: np.ndarray
@@ -296,6 +338,7 @@ class PointAnatomy:
     notes: list = field(default_factory=list)
     seconds: float = 0.0
     moved_by: object = None
+    intersection: object = None
 
     @property
     def real_branches(self):
@@ -330,7 +373,8 @@ class PointAnatomy:
         """Something could not be decided: the multiplicity, the type, or a curve's branches."""
         return (self.multiplicity is None
                 or (self.hypersurface is not None and self.hypersurface.type.family is Family.UNDECIDED)
-                or (self.local_dimension == 1 and self.branches is None))
+                or (self.local_dimension == 1 and self.branches is None)
+                or (self.intersection is not None and not self.intersection.decided))
 
     @property
     def sentence(self):
@@ -346,7 +390,8 @@ class PointAnatomy:
                 "branches": None if self.branches is None else [b.to_dict() for b in self.branches],
                 "real_branches": self.real_branches,
                 "motion": None if self.motion is None else self.motion.value, "sentence": self.sentence,
-                "notes": list(self.notes), "seconds": float(self.seconds), "moved_by": self.moved_by}
+                "notes": list(self.notes), "seconds": float(self.seconds), "moved_by": self.moved_by,
+                "intersection": None if self.intersection is None else self.intersection.to_dict()}
 
     @classmethod
     def from_dict(cls, data):
@@ -354,7 +399,8 @@ class PointAnatomy:
                    None if data["hypersurface"] is None else HypersurfaceAnatomy.from_dict(data["hypersurface"]),
                    None if data["branches"] is None else [Branch.from_dict(b) for b in data["branches"]],
                    None if data["motion"] is None else Motion(data["motion"]), list(data["notes"]),
-                   float(data["seconds"]), _optional(data.get("moved_by"), float))
+                   float(data["seconds"]), _optional(data.get("moved_by"), float),
+                   None if data.get("intersection") is None else IntersectionMilnor.from_dict(data["intersection"]))
 
 
 @dataclass

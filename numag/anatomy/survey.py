@@ -33,11 +33,12 @@ from .frame import cube_root_direction, frame_hessian, kernel_cubic
 from .hypersurface import anatomy_in_frame, corank_jump_shift, hessian_evidence, higher_a_shift, morse_alpha, \
     MORSE_ALPHA
 from .deflation import DeflationOutcome, onto_singular_point
+from .intersection import complete_intersection_milnor, curve_delta
 from .local import LocalOptions, LocalPicture, hypersurface_witness, local_picture, order_radius, orbit_tangent
 from .records import Branch, ComponentAnatomy, Family, Motion, PointAnatomy, SingularityType, TypeTest
 
 __all__ = ["AnatomyOptions", "LocusAnatomy", "point_anatomy", "component_anatomy", "locus_anatomy",
-           "check_anatomy"]
+           "check_anatomy", "infinity_chart"]
 
 #: Radius of the local slices in a local frame (units of the singularity's own scale).
 _FRAME_RADIUS = 1e-2
@@ -209,7 +210,8 @@ def point_anatomy(system, point, seed=None, decomposition=None, angles=None, loc
     scaling, polynomials = _balanced(system)
     computed = scaling.to_computed(point)
     if system.n_equations == 1:
-        anatomy = _hypersurface_point(polynomials[0], computed, point, scaling, rng, real, angles, options)
+        anatomy = _hypersurface_point(polynomials[0], computed, point, scaling, rng, real, angles, options,
+                                      scaling.to_user)
     else:
         anatomy = _system_point(system, polynomials, computed, point, scaling, rng, real, angles, seed,
                                 decomposition, local_dimension, options)
@@ -217,7 +219,10 @@ def point_anatomy(system, point, seed=None, decomposition=None, angles=None, loc
     return anatomy
 
 
-def _hypersurface_point(polynomial, computed, user_point, scaling, rng, real, angles, options):
+def _hypersurface_point(polynomial, computed, user_point, scaling, rng, real, angles, options, to_user):
+    """The anatomy of f = 0 at ``computed`` (f's own coordinates); ``to_user`` maps rows of points in f's
+    coordinates to the user's, which for a normal slice are the ambient space's (more coordinates than f's):
+    a point moved onto the singular point is reported there, and its move measured there."""
     n = polynomial.n_variables
     deflation = None
     if options.onto_singular_point:
@@ -225,7 +230,7 @@ def _hypersurface_point(polynomial, computed, user_point, scaling, rng, real, an
         # (a cusp read 1e-10 off is a node): the type and the picture are read at the point deflation finds
         deflation = onto_singular_point(polynomial, computed)  # its own fixed seed: the slices draw as before
         if deflation.moved:
-            moved = scaling.to_user(deflation.point[None, :])[0]
+            moved = to_user(deflation.point[None, :])[0]
             moved_by = float(np.linalg.norm(moved - user_point))
             computed, user_point = deflation.point, moved
     # the local witness set in the local frame too: its radius is then in units of the singularity's own
@@ -239,7 +244,7 @@ def _hypersurface_point(polynomial, computed, user_point, scaling, rng, real, an
             or _along_the_kernel(polynomial, computed, hypersurface, frame, real)
         if along_kernel is not None:
             computed, hypersurface, frame = along_kernel
-            moved = scaling.to_user(computed[None, :])[0]
+            moved = to_user(computed[None, :])[0]
             moved_by = float(np.linalg.norm(moved - user_point))
             user_point = moved
     local = frame.polynomial
@@ -471,11 +476,26 @@ def _system_point(system, polynomials, computed, user_point, scaling, rng, real,
         if picture is not None and picture.multiplicity != 0:  # a count, or None: undecided, said in its notes
             anatomy = _picture_anatomy(picture, scaling, computed, user_point, d, angles, real)
             anatomy.notes = notes + anatomy.notes
+            if len(polynomials) == n - d >= 2:
+                anatomy.intersection = _intersection_milnor(polynomials, computed, anatomy, seed)
             return anatomy
     anatomy = PointAnatomy(np.asarray(user_point, dtype=complex), local_dimension or 0, None,
                            notes=notes + ["no component of positive dimension of X passes through the point "
                                           "(or its local witness set was lost)"])
     return anatomy
+
+
+def _intersection_milnor(polynomials, computed, anatomy, seed):
+    """mu of a complete intersection at the point (Le-Greuel), checked against a curve's counted branches: mu + r - 1
+    = 2 delta must be even and non-negative (Buchweitz and Greuel 1980); if not, mu is undecided."""
+    reading = complete_intersection_milnor(polynomials, computed, seed=0 if seed is None else seed)
+    if reading.decided and anatomy.local_dimension == 1 and anatomy.branches is not None:
+        reading.delta = curve_delta(reading.milnor, len(anatomy.branches))
+        if reading.delta is None:
+            reading.notes.append(f"mu = {reading.milnor} and {len(anatomy.branches)} branches do not fit "
+                                 "mu = 2 delta - r + 1: mu undecided")
+            reading.milnor = None
+    return reading
 
 
 def _joined(first, second):
@@ -494,22 +514,32 @@ def _joined(first, second):
 # --- along positive-dimensional singular components (hypersurfaces) -----------------------------------
 
 def _normal_slice(polynomial, point, dimension, rng):
-    """f restricted to a random affine space of dimension n - k through the point (a normal slice)."""
+    """f restricted to a random affine space of dimension n - k through the point (a normal slice), and the
+    space's orthonormal columns N (x = point + N s)."""
     n = polynomial.n_variables
     frame = rng.standard_normal((n, n - dimension)) + 1j * rng.standard_normal((n, n - dimension))
     frame, _ = np.linalg.qr(frame)
-    return polynomial.substitute_linear(frame, point)
+    return polynomial.substitute_linear(frame, point), frame
 
 
-def _slice_anatomy(polynomial, computed, user_point, dimension, rng, options):
-    """The anatomy of the normal slice of f = 0 at a point of a singular component of dimension k."""
-    restricted = _normal_slice(polynomial, computed, dimension, rng)
+def _slice_anatomy(polynomial, computed, user_point, dimension, rng, options, scaling):
+    """The anatomy of the normal slice of f = 0 at a point of a singular component of dimension k.
+
+    ``computed`` is the point in the balanced units of ``scaling``; a point moved onto the singular point of the
+    slice (a candidate pinch point given off it) is reported in the ambient space, x = computed + N s.
+    """
+    restricted, normal = _normal_slice(polynomial, computed, dimension, rng)
     restricted = restricted - complex(restricted.evaluate(np.zeros(restricted.n_variables)))
     origin = np.zeros(restricted.n_variables, dtype=complex)
     identity = Scaling.identity(PolynomialSystem([f"u{j}" for j in range(restricted.n_variables)], [restricted]))
     # the slice's coordinates are complex: no real branches to tell, no angles
+    computed = np.asarray(computed, dtype=complex)
+
+    def to_user(points):  # slice coordinates s -> the ambient space, user's units
+        return scaling.to_user(computed[None, :] + np.asarray(points, dtype=complex) @ normal.T)
+
     anatomy = _hypersurface_point(restricted, origin, np.asarray(user_point, dtype=complex), identity, rng, False,
-                                  None, options)
+                                  None, options, to_user)
     anatomy.local_dimension = restricted.n_variables - 1
     _complex_slice(anatomy)
     return anatomy
@@ -725,7 +755,7 @@ def component_anatomy(system, component, seed=None, options=None, special_candid
     k = component.dimension
     generic_user = np.asarray(component.points[0], dtype=complex)
     generic = scaling.to_computed(generic_user)
-    transversal = _slice_anatomy(f, generic, generic_user, k, rng, options)
+    transversal = _slice_anatomy(f, generic, generic_user, k, rng, options, scaling)
     notes = []
     special = []
     searched = True
@@ -766,7 +796,7 @@ def component_anatomy(system, component, seed=None, options=None, special_candid
         notes.append(f"{counted(rejected, 'candidate special point')} rejected: not on this component (the singular "
                      "locus's equations not met in term units, or an isolated singular point of the locus)")
     for candidate in candidates[on_component]:
-        special.append(_slice_anatomy(f, scaling.to_computed(candidate), candidate, k, rng, options))
+        special.append(_slice_anatomy(f, scaling.to_computed(candidate), candidate, k, rng, options, scaling))
     return ComponentAnatomy(component.id, k, transversal, special, notes, special_points_searched=searched,
                             rejected_candidates=rejected)
 
@@ -827,6 +857,13 @@ def locus_anatomy(locus, seed=None, angles=None, options=None):
     isolated = np.array([c.points[0] for c in locus.components
                          if c.dimension == 0 and not c.at_infinity and c.kind == "singular"],
                         dtype=complex).reshape(-1, system.n_variables)
+    at_infinity = [c for c in locus.components if c.at_infinity and c.kind == "singular"]
+    for c in at_infinity:
+        if c.dimension == 0 and system.n_equations == 1:
+            points[c.id] = _chart_anatomy(system, c.points[0], seed + c.id, options)
+    if len(at_infinity) > len([c for c in at_infinity if c.id in points]):
+        notes.append("singular pieces at infinity of several equations, or of positive dimension, have no anatomy "
+                     "(undecided): write the system in an affine chart that contains them")
     for c in locus.components:
         if c.at_infinity or c.kind != "singular":
             continue
@@ -844,6 +881,50 @@ def locus_anatomy(locus, seed=None, angles=None, options=None):
         else:
             components[c.id] = component_anatomy(system, c, seed=seed + c.id, options=options)
     return LocusAnatomy(points, components, time.perf_counter() - started, notes)
+
+
+def infinity_chart(system, homogeneous):
+    """The affine chart a point at infinity (w : x_1 : ... : x_n) is read in: the index j (0 is w) of its largest
+    x_j, set to 1, and the chart's variable names (w first, named apart from the user's).
+
+    Examples
+    --------
+    >>> import numag
+    >>> infinity_chart(numag.parse_system(["x^2*y - 1"], ["x", "y"]), np.array([0, 0.1, 1.0]))
+    (2, ['w', 'x'])
+    """
+    j = 1 + int(np.argmax(np.abs(np.asarray(homogeneous)[1:])))
+    w = next(name for name in itertools.chain(["w"], (f"w{k}" for k in itertools.count()))
+             if name not in system.variables)
+    return j, [w] + [v for k, v in enumerate(system.variables) if k != j - 1]
+
+
+def _chart_anatomy(system, homogeneous, seed, options):
+    """The anatomy of a hypersurface's closure at a singular point at infinity, read in an affine chart.
+
+    The point (w : x_1 : ... : x_n), w = 0, is read in the chart x_j = 1 of its largest coordinate: the closure
+    there is f^h(w, x) with x_j = 1, a polynomial in w and the other x_k, and the point is (0, x_k / x_j). Every
+    local invariant (multiplicity, corank, mu, tau, type, branches) is the same in any chart; the point and the
+    branches' tangents are given in the chart's coordinates, which a note names.
+
+    Examples
+    --------
+    >>> import numag
+    >>> curve = numag.parse_system(["x^2*y - 1"], ["x", "y"])   # closure x^2 y = w^3: a cusp at (0 : 0 : 1)
+    >>> anatomy = _chart_anatomy(curve, np.array([0, 0, 1.0]), 1, AnatomyOptions())
+    >>> anatomy.hypersurface.type.label, anatomy.point.real.tolist()
+    ('A2', [0.0, 0.0])
+    """
+    homogeneous = np.asarray(homogeneous, dtype=complex)
+    j, names = infinity_chart(system, homogeneous)
+    chart_variable, w = system.variables[j - 1], names[0]
+    chart = PolynomialSystem(names, [system.polynomials[0].homogenize(0).dehomogenize(j)])
+    point = np.delete(homogeneous, j) / homogeneous[j]
+    anatomy = point_anatomy(chart, point, seed=seed, options=options)
+    anatomy.motion = None  # no configuration of a mechanism lies at infinity: no sentence about its motion
+    anatomy.notes.insert(0, f"at infinity: read in the affine chart {chart_variable} = 1 of the closure, coordinates "
+                            f"({', '.join(names)}) with {w} = 1/{chart_variable}; the point and tangents are in them")
+    return anatomy
 
 
 def check_anatomy(report, decomposition=None, angles=None, options=None):

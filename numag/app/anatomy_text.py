@@ -49,6 +49,13 @@ def write_point_anatomy(anatomy, names, out, indent="        "):
         values = ", ".join(f"{v:.3g}" for v in h.hessian.singular_values)
         out.write(f"{indent}  decided by: {h.decided_by.value} (scaled Hessian singular values [{values}], zero "
                   f"below {h.hessian.tolerance:.1g})\n")
+    if anatomy.intersection is not None:
+        reading = anatomy.intersection
+        mu = "undecided" if reading.milnor is None else str(reading.milnor)
+        delta = "" if reading.delta is None else f", delta {reading.delta} (mu = 2 delta - r + 1)"
+        out.write(f"{indent}complete intersection: Milnor number {mu} (Le-Greuel formula){delta}\n")
+        for note in reading.notes:
+            out.write(f"{indent}  note: {note}\n")
     if anatomy.branches is not None:
         reality = "reality not decided" if anatomy.real_branches is None else f"{anatomy.real_branches} real"
         out.write(f"{indent}{counted(len(anatomy.branches), 'branch', 'branches')}, {reality}\n")

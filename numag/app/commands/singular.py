@@ -8,7 +8,7 @@ from ...tracking.tracker import FAILURE_LABELS
 from ...witness.cascade import WitnessOptions
 from ...witness.decompose import DecomposeOptions
 from ...singular.locus import FORMULATIONS, SingularOptions, singular_locus
-from ...anatomy.survey import locus_anatomy
+from ...anatomy.survey import infinity_chart, locus_anatomy
 from ..anatomy_text import attach_to_singular, write_component_anatomy, write_point_anatomy
 from ...singular.kinds import PieceKind
 from ...tracking.starts import StartKind
@@ -125,7 +125,9 @@ def _print_singular(result, out, angles, data=None, anatomy=None):
                   f"{', '.join(homogeneous)}):\n")
         for c in infinite:
             out.write(f"  {c.id:4d}  {text(homogeneous, c.points[0], _WITNESS_ACCURACY)}\n")
-    for note in result.notes:
+            if anatomy is not None and c.id in anatomy.points:  # read in an affine chart, its names
+                write_point_anatomy(anatomy.points[c.id], infinity_chart(system, c.points[0])[1], out)
+    for note in result.notes + (anatomy.notes if anatomy is not None else []):
         out.write(f"\nnote: {note}\n")
     _print_warnings(data, out)
     _print_certification(data, out)
