@@ -8,8 +8,8 @@ curve family (y + 2345)^2 = (x - 1234)^3 + a (x - 1234) + b its discriminant cur
 A translation of x alone changes nothing a discriminant or a sweep reports in parameter space (the real
 counts, the discriminant's points, curve and regions), and a point x of a member maps back by adding the
 centre. So the family is located first: the incidence set S = {F = 0, rank J_x F < c} cut by random real
-hyperplanes in p only (at the middle of the ranges) is a finite set of singular points (x, p) of members
-near the ranges; their x-parts say where the features are. When they sit far from the origin compared with
+hyperplanes in p only (through a random point of the ranges) is a finite set of singular points (x, p) of members
+in the ranges; their x-parts say where the features are. When they sit far from the origin compared with
 how far apart they are, the family is written exactly in y = x - s (:func:`numag.system.centred.centred_system`,
 parameters kept: their centre is 0) and the work is done there. The translation is exact, so the decision to
 centre changes the working coordinates only, never the answer: it is no threshold a result can flip on.
@@ -117,7 +117,7 @@ def locate(family, codimension, seed=None, max_exact_minors=24):
     """Locate the singular points of members near the parameter ranges, and choose a centring from them.
 
     S = {F(x, p) = 0, rank J_x F < c} has dimension m - 1 in (x, p) for a family whose discriminant is a
-    hypersurface; m - 1 random real hyperplanes in p through the middle of the ranges cut it to points.
+    hypersurface; m - 1 random real hyperplanes in p through a random point of the ranges cut it to points.
 
     Parameters
     ----------
@@ -139,14 +139,15 @@ def locate(family, codimension, seed=None, max_exact_minors=24):
         incidence, _ = minors_system(family.system, codimension, rng, max_exact_minors, n_columns=n)
     except LimitError:
         return Located(nothing, None, "the minors of J_x are too large to expand")
-    middle = np.array([_middle(family, name) for name in family.parameters])
+    # through a random point of the ranges' box, not its middle: a symmetric family's middle is often a cusp
+    through = np.array([_random_in_range(family, name, rng) for name in family.parameters])
     cuts = []
     for _ in range(m - 1):
         direction = rng.standard_normal(m)
-        # direction . (p - middle) = 0, a real hyperplane in p only
+        # direction . (p - through) = 0, a real hyperplane in p only
         exponents = np.zeros((m + 1, n + m), dtype=np.int64)
         exponents[1:, n:] = np.eye(m, dtype=np.int64)
-        coefficients = np.concatenate([[-float(direction @ middle)], direction]).astype(complex)
+        coefficients = np.concatenate([[-float(direction @ through)], direction]).astype(complex)
         cuts.append(Polynomial(exponents, coefficients, n + m))
     system = PolynomialSystem(list(incidence.variables), list(incidence.polynomials) + cuts, name="located")
     if system.n_equations != system.n_variables:
@@ -158,11 +159,24 @@ def locate(family, codimension, seed=None, max_exact_minors=24):
         solved = solve_system(system, SolveOptions(), seed=int(rng.integers(2 ** 63)))
     except (InputError, LimitError) as err:
         return Located(nothing, None, f"its locating system was not solved ({err})")
-    points = np.array([s.point[:n] for s in solved.solutions + list(solved.not_isolated)
-                       if not s.at_infinity and np.all(np.isfinite(s.point))], dtype=complex).reshape(-1, n)
+    found = np.array([s.point for s in solved.solutions + list(solved.not_isolated)
+                      if not s.at_infinity and np.all(np.isfinite(s.point))], dtype=complex).reshape(-1, n + m)
+    # a cut nearly parallel to the discriminant meets it far outside the ranges, where the singular points may be
+    # far from those of the members asked about: those are left out when any is left
+    low, high = np.array([_range(family, name) for name in family.parameters]).T
+    reach = high - low
+    inside = np.all((found[:, n:].real >= low - reach) & (found[:, n:].real <= high + reach), axis=1)
+    points = found[inside if np.any(inside) else slice(None), :n]
     return Located(points, centre_of_points(points, m), "" if len(points) else "no finite singular point was found")
 
 
-def _middle(family, name):
+def _range(family, name):
+    """The parameter's range ([-1, 1] without one)."""
     interval = family.ranges.get(name)
-    return 0.0 if interval is None else (interval.low + interval.high) / 2
+    return (-1.0, 1.0) if interval is None else (float(interval.low), float(interval.high))
+
+
+def _random_in_range(family, name, rng):
+    """A random value in the middle half of the parameter's range."""
+    low, high = _range(family, name)
+    return float(low + (high - low) * rng.uniform(0.25, 0.75))
