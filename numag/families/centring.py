@@ -39,7 +39,7 @@ from ..numeric.seeds import random_state
 from ..tracking.solve import SolveOptions, solve_system
 from ..singular.locus import minors_system
 
-__all__ = ["Located", "locate", "centred_family", "centre_of_points", "FAR_FACTOR", "LOCATE_MAX_PATHS"]
+__all__ = ["Located", "locate", "locate_members", "centred_family", "centre_of_points", "FAR_FACTOR", "LOCATE_MAX_PATHS"]
 
 #: A family is centred when its located singular points are farther from the origin than this many times
 #: (1 + their spread). The translation is exact, so this only chooses the working coordinates.
@@ -168,6 +168,45 @@ def locate(family, codimension, seed=None, max_exact_minors=24):
     inside = np.all((found[:, n:].real >= low - reach) & (found[:, n:].real <= high + reach), axis=1)
     points = found[inside if np.any(inside) else slice(None), :n]
     return Located(points, centre_of_points(points, m), "" if len(points) else "no finite singular point was found")
+
+
+def locate_members(family, values, seed=None):
+    """Locate the solutions of a square family's members near ``values``, and choose a centring from them.
+
+    One member is solved, at a random complex value about the values' middle (of their spread's size), in the
+    user's units: a balanced member would be taken where the balancing puts it, which for a family far from the
+    origin is far from the values asked about (the constant of (x - 1234)^3 + p is 2e9: p is scaled by 1e10).
+
+    Parameters
+    ----------
+    family : Family
+        As many equations as variables.
+    values : ndarray, shape (K, m)
+    seed : int, optional
+
+    Returns
+    -------
+    Located
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> family = Family(parse_system(["(x - 1234)^3 - 3*(x - 1234) + p"], ["x", "p"]), ("p",))
+    >>> [c.to_text() for c in locate_members(family, np.array([[-5.0], [5.0]]), seed=1).centring.centre]
+    ['1234', '0']
+    """
+    _, rng = random_state(seed)
+    n, m = family.n_variables, family.n_parameters
+    values = np.asarray(values, dtype=complex).reshape(-1, m)
+    middle = values.mean(axis=0)
+    size = 1 + float(np.max(np.abs(values - middle[None, :]))) if len(values) else 1.0
+    at = middle + size * (rng.standard_normal(m) + 1j * rng.standard_normal(m)) / 2
+    try:
+        solved = solve_system(family.member(list(at)), SolveOptions(), seed=int(rng.integers(2 ** 63)))
+    except (InputError, LimitError) as err:
+        return Located(np.zeros((0, n), dtype=complex), None, f"its member was not solved ({err})")
+    points = np.array([s.point for s in solved.solutions], dtype=complex).reshape(-1, n)
+    return Located(points, centre_of_points(points, m), "" if len(points) else "no finite solution was found")
 
 
 def _range(family, name):
