@@ -192,8 +192,9 @@ def locate_members(family, values, seed=None):
     --------
     >>> from numag.system.parse import parse_system
     >>> family = Family(parse_system(["(x - 1234)^3 - 3*(x - 1234) + p"], ["x", "p"]), ("p",))
-    >>> [c.to_text() for c in locate_members(family, np.array([[-5.0], [5.0]]), seed=1).centring.centre]
-    ['1234', '0']
+    >>> centring = locate_members(family, np.array([[-5.0], [5.0]]), seed=1).centring
+    >>> bool(abs(centring.point[0] - 1234) < 1), centring.centre[1].to_text()   # near the solutions; p kept
+    (True, '0')
     """
     _, rng = random_state(seed)
     n, m = family.n_variables, family.n_parameters
