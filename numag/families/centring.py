@@ -41,8 +41,8 @@ from ..singular.locus import minors_system
 
 __all__ = ["Located", "locate", "locate_members", "centred_family", "centre_of_points", "FAR_FACTOR", "LOCATE_MAX_PATHS"]
 
-#: A family is centred when its located singular points are farther from the origin than this many times
-#: (1 + their spread). The translation is exact, so this only chooses the working coordinates.
+#: A family is centred when its located points' centroid is farther from the origin than this many times
+#: their spread (their largest distance from it). The translation is exact, so this only chooses the working coordinates.
 FAR_FACTOR = 10.0
 #: The locating solve is skipped (with a note) when its total degree is larger: it is a look, not the work.
 LOCATE_MAX_PATHS = 2000
@@ -93,18 +93,23 @@ def centre_of_points(points, m):
     '1234'
     >>> centre_of_points(np.array([[-1.7], [1.7]]), 1) is None
     True
+    >>> centre_of_points(np.array([[0.1223], [0.1237]]), 1).centre[0].to_text()   # the same in other units
+    '123/1000'
+
     """
     points = np.asarray(points, dtype=complex)
     if len(points) == 0:
         return None
     # real features keep a real centre (a non-real one would make the real members' equations non-real)
     centroid = points.mean(axis=0).real
+    distance = float(np.linalg.norm(centroid))
     spread = float(np.max(np.linalg.norm(points - centroid[None, :], axis=1)))
-    if np.linalg.norm(centroid) <= FAR_FACTOR * (1 + spread):
+    # scale-free: 0.123 +- 0.001 (millimetres of the same geometry) is as far as 123 +- 1
+    if distance == 0 or distance <= FAR_FACTOR * spread:
         return None
-    # a grid of about a tenth of the spread: short numbers, and the centre within the features' own size
-    digits = max(1, int(math.ceil(math.log10(1 + float(np.linalg.norm(centroid)))))
-                 - int(math.floor(math.log10(0.1 + spread))))
+    # a grid of a tenth of the spread or finer: short numbers, and the centre within the features' own size
+    size = max(spread, 1e-9 * distance)
+    digits = max(1, int(math.ceil(math.log10(1 + distance))) - int(math.floor(math.log10(size))) + 1)
     return centre_near(np.concatenate([centroid, np.zeros(m)]), spread, digits=digits)
 
 
