@@ -286,11 +286,14 @@ def discriminant(family, options=None, seed=None, progress=None, *, _balanced=Fa
         # x-coordinates centred there (exact; nothing in parameter space moves; decision 0082)
         found = locate(family, codimension, seed=int(np.random.default_rng([seed, 82]).integers(2 ** 63)),
                        max_exact_minors=options.max_exact_minors)
-        if found.centring is not None:
+        try:
+            centred = None if found.centring is None else centred_family(family, found.centring)
+        except LimitError:  # too large to write out about another origin: computed where it is, as before
+            centred = None
+        if centred is not None:
             if progress is not None:
                 progress(f"working in x-coordinates centred at {short_point(found.x_centre)}")
-            computed = discriminant(centred_family(family, found.centring), options, seed=seed, progress=progress,
-                                    _located=True)
+            computed = discriminant(centred, options, seed=seed, progress=progress, _located=True)
             computed.variables, computed.equations = family.variables, family.system.to_texts()
             computed.notes.append(f"Computed in x-coordinates centred at {short_point(found.x_centre)} (written "
                                   "exactly): the members' singular points lie far from the origin compared with "

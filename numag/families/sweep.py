@@ -30,7 +30,7 @@ import time
 
 import numpy as np
 
-from ..errors import InputError
+from ..errors import InputError, LimitError
 from ..system.family import Family
 from ..system.polynomial import Polynomial
 from ..run.executor import charge_paths, check_memory, make_executor
@@ -475,11 +475,15 @@ def sweep(family, values, options=None, seed=None, progress=None, execution=None
     # its own generator: the sweep's draws stay as without the look
     centring = locate_members(user_family, user_values, seed=int(np.random.default_rng([seed, 82]).integers(
         2 ** 63))).centring if options.centre else None
-    if centring is not None:
+    try:
+        centred = None if centring is None else centred_family(user_family, centring)
+    except LimitError:  # too large to write out about another origin: swept where it is, as before
+        centred = None
+    if centred is not None:
         # solutions far from the origin compared with their distances: their features are cancellations double
         # precision cannot see (decision 0082); the same sweep in exact centred x-coordinates, points moved back
         x_centre = centring.point[:family.n_variables]
-        family, x_factors, p_factors = _in_computed_units(centred_family(user_family, centring), options.balance)
+        family, x_factors, p_factors = _in_computed_units(centred, options.balance)
         values = user_values / p_factors
         start = solve_system(family.member(list(start_parameters)),
                              SolveOptions(tracker=options.tracker, start=options.start), seed=int(rng.integers(2 ** 63)))
