@@ -64,8 +64,8 @@ CURVE_CUTS = {v: sorted({float(r) for r in sympy.real_roots(sympy.Poly(
 def _lines_right(data):
     right = 0
     for line, expected in CURVE_CUTS.items():
-        cuts = sorted({r["high"] for r in data["regions"] if r["line"] == line and r["high"] not in ("infinity", None)
-                       and abs(float(r["high"])) < 1e300})
+        cuts = sorted({r["high"] for r in data["regions"]
+                       if r["line"] == line and r["high"] not in ("infinity", None) and abs(float(r["high"])) < 1e300})
         right += len(cuts) == len(expected) and all(abs(float(c) - e) < 1e-6 for c, e in zip(cuts, expected))
     return right
 
@@ -73,7 +73,8 @@ def _lines_right(data):
 def run(checkout, command, text, seed, folder):
     path = pathlib.Path(folder) / "system.toml"
     path.write_text(text)
-    child = subprocess.run([sys.executable, "-m", "numag", *command.split()[:1], str(path), *command.split()[1:], "--seed", str(seed), "--json"],
+    name, *options = command.split()  # a sub-command and its options: "sweep --grid p=-4.5:4.5:10"
+    child = subprocess.run([sys.executable, "-m", "numag", name, str(path), *options, "--seed", str(seed), "--json"],
                            cwd=checkout, capture_output=True, text=True, timeout=600)
     try:
         return json.loads(child.stdout), child.returncode

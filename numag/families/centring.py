@@ -39,10 +39,12 @@ from ..numeric.seeds import random_state
 from ..tracking.solve import SolveOptions, solve_system
 from ..singular.locus import minors_system
 
-__all__ = ["Located", "locate", "locate_members", "centred_family", "centre_of_points", "FAR_FACTOR", "LOCATE_MAX_PATHS"]
+__all__ = ["Located", "locate", "locate_members", "centred_family", "centre_of_points", "FAR_FACTOR",
+           "LOCATE_MAX_PATHS"]
 
 #: A family is centred when its located points' centroid is farther from the origin than this many times
-#: their spread (their largest distance from it). The translation is exact, so this only chooses the working coordinates.
+#: their spread (their largest distance from it). The translation is exact: this only chooses the working
+#: coordinates.
 FAR_FACTOR = 10.0
 #: The locating solve is skipped (with a note) when its total degree is larger: it is a look, not the work.
 LOCATE_MAX_PATHS = 2000

@@ -485,8 +485,9 @@ def sweep(family, values, options=None, seed=None, progress=None, execution=None
         x_centre = centring.point[:family.n_variables]
         family, x_factors, p_factors = _in_computed_units(centred, options.balance)
         values = user_values / p_factors
-        start = solve_system(family.member(list(start_parameters)),
-                             SolveOptions(tracker=options.tracker, start=options.start), seed=int(rng.integers(2 ** 63)))
+        start = solve_system(family.member(list(start_parameters)), SolveOptions(tracker=options.tracker,
+                                                                                 start=options.start),
+                             seed=int(rng.integers(2 ** 63)))
     solutions = np.array([s.point for s in start.solutions if s.isolated and s.multiplicity == 1],
                          dtype=complex).reshape(-1, family.n_variables)
     start_failed = int(PathCounts.of(start.status).failed)
