@@ -46,7 +46,7 @@ import time
 import numpy as np
 
 from ..errors import InputError, LimitError
-from ..system.display import counted
+from ..system.display import counted, short_point
 from ..system.exact import ExactCoefficient
 from ..system.family import Family, ParameterRange
 from ..system.polynomial import Polynomial, PolynomialSystem, combined_minor, determinant
@@ -62,6 +62,7 @@ from ..witness.cascade import combine_equations, linear_form, track_moves
 from ..witness.decompose import DecomposeOptions, decompose, holding_equations
 from ..singular.locus import minors_system
 from .branches import RealCount, real_counts
+from .centring import centred_family, locate
 from .lines import discriminant_on_lines
 from .plane import (CurvePoint, CurvePointKind, DiscriminantCurve, PlaneRegion, SingularIncidence, _box as plane_box,
                     _nodes, classify_join, clipped, conjugate_pair_points, merge_cells, reach_box, snapped_ends,
@@ -249,7 +250,7 @@ class Discriminant:
                    [PlaneRegion.from_dict(r) for r in data.get("plane_regions", [])])
 
 
-def discriminant(family, options=None, seed=None, progress=None, *, _balanced=False):
+def discriminant(family, options=None, seed=None, progress=None, *, _balanced=False, _located=False):
     """The discriminant of a family: components with dimension, degree, samples; regions with real counts.
 
     Parameters
@@ -280,6 +281,24 @@ def discriminant(family, options=None, seed=None, progress=None, *, _balanced=Fa
         raise InputError(f"the family has {counted(codimension, 'equation')} in {counted(n, 'variable')}: its members are empty for "
                          "generic parameters")
     seed, rng = random_state(seed)
+    if not (_balanced or _located):
+        # features far from the origin are cancellations double precision cannot see: locate them, and work in
+        # x-coordinates centred there (exact; nothing in parameter space moves; decision 0082)
+        found = locate(family, codimension, seed=int(np.random.default_rng([seed, 82]).integers(2 ** 63)),
+                       max_exact_minors=options.max_exact_minors)
+        try:
+            centred = None if found.centring is None else centred_family(family, found.centring)
+        except LimitError:  # too large to write out about another origin: computed where it is, as before
+            centred = None
+        if centred is not None:
+            if progress is not None:
+                progress(f"working in x-coordinates centred at {short_point(found.x_centre)}")
+            computed = discriminant(centred, options, seed=seed, progress=progress, _located=True)
+            computed.variables, computed.equations = family.variables, family.system.to_texts()
+            computed.notes.append(f"Computed in x-coordinates centred at {short_point(found.x_centre)} (written "
+                                  "exactly): the members' singular points lie far from the origin compared with "
+                                  "their distances.")
+            return computed
     scaling = Scaling.balancing(family.system)
     # once: balancing the balanced family need not give the identity (a coefficient of 1e-3 beside ones
     # moves a power of ten again), and asking again would never end
@@ -291,7 +310,7 @@ def discriminant(family, options=None, seed=None, progress=None, *, _balanced=Fa
                                        r.high / factors[family.parameters.index(name)])
                   for name, r in family.ranges.items()}
         computed = discriminant(Family(scaling.scale_system(family.system), family.parameters, ranges), options,
-                                seed=seed, progress=progress, _balanced=True)
+                                seed=seed, progress=progress, _balanced=True, _located=True)
         return _in_user_units(computed, factors, family)
     started = time.perf_counter()
     paths, notes = {}, []
@@ -728,7 +747,7 @@ def _regions_on_lines(family, options, rng, notes, progress):
             progress(f"line {first} = {value:.6g}")
         inner = DiscriminantOptions(options.decompose, options.max_exact_minors, regions=False,
                                     at_infinity=False, curve=False)
-        along = discriminant(line, inner, seed=int(rng.integers(2 ** 63)))
+        along = discriminant(line, inner, seed=int(rng.integers(2 ** 63)), _located=True)
         regions += _regions_on_line(line, along.real_points, rng,
                                     lambda sample, value=value: np.array([value, sample]), float(value))
     return regions

@@ -30,7 +30,7 @@ import time
 
 import numpy as np
 
-from ..errors import InputError
+from ..errors import InputError, LimitError
 from ..system.family import Family
 from ..system.polynomial import Polynomial
 from ..run.executor import charge_paths, check_memory, make_executor
@@ -42,6 +42,7 @@ from ..tracking.homotopy import random_unit_complex
 from ..tracking.service import PathCounts, track
 from ..tracking.solve import Execution, SolveOptions, solve_system
 from ..tracking.tracker import PathStatus, TrackerOptions
+from .centring import centred_family, locate_members
 from .records import PointKind, decode_complex, decode_complex_rows, decode_float, encode_complex, encode_float
 
 __all__ = ["SweepOptions", "MemberSolutions", "SweepResult", "SweepHomotopy", "sweep", "move_points", "parse_grid",
@@ -84,6 +85,10 @@ class SweepOptions:
     start : str
         The start system of the one solve at the random value ("total-degree", "polyhedral", ...; see
         :class:`~numag.tracking.solve.SolveOptions`).
+    centre : bool
+        Where the random member's solutions lie far from the origin compared with their distances, sweep the
+        family written exactly in x-coordinates centred at them (:mod:`numag.families.centring`, decision 0082);
+        points are reported in the user's coordinates.
     """
 
     tracker: TrackerOptions = TrackerOptions()
@@ -95,6 +100,7 @@ class SweepOptions:
     split_clusters: bool = True
     balance: bool = True
     start: str = "total-degree"
+    centre: bool = True
 
 
 class SweepHomotopy:
@@ -470,6 +476,23 @@ def sweep(family, values, options=None, seed=None, progress=None, execution=None
     start_parameters = (rng.standard_normal(family.n_parameters) + 1j * rng.standard_normal(family.n_parameters))
     start = solve_system(family.member(list(start_parameters)), SolveOptions(tracker=options.tracker, start=options.start),
                          seed=int(rng.integers(2 ** 63)))
+    x_centre = np.zeros(family.n_variables)
+    # its own generator: the sweep's draws stay as without the look
+    centring = locate_members(user_family, user_values, seed=int(np.random.default_rng([seed, 82]).integers(
+        2 ** 63))).centring if options.centre else None
+    try:
+        centred = None if centring is None else centred_family(user_family, centring)
+    except LimitError:  # too large to write out about another origin: swept where it is, as before
+        centred = None
+    if centred is not None:
+        # solutions far from the origin compared with their distances: their features are cancellations double
+        # precision cannot see (decision 0082); the same sweep in exact centred x-coordinates, points moved back
+        x_centre = centring.point[:family.n_variables]
+        family, x_factors, p_factors = _in_computed_units(centred, options.balance)
+        values = user_values / p_factors
+        start = solve_system(family.member(list(start_parameters)), SolveOptions(tracker=options.tracker,
+                                                                                 start=options.start),
+                             seed=int(rng.integers(2 ** 63)))
     solutions = np.array([s.point for s in start.solutions if s.isolated and s.multiplicity == 1],
                          dtype=complex).reshape(-1, family.n_variables)
     start_failed = int(PathCounts.of(start.status).failed)
@@ -501,12 +524,12 @@ def sweep(family, values, options=None, seed=None, progress=None, execution=None
         counts, description = PathCounts().report(), {}
     for member, value in zip(members, user_values):  # back to the user's units
         member.parameters = value
-        member.points = member.points * x_factors
+        member.points = member.points * x_factors + x_centre
     counts = dict(counts)
     counts["start_failed"] = start_failed
     return SweepResult(user_family.variables, user_family.parameters, user_family.system.to_texts(), members,
                        start_parameters * p_factors, len(solutions), counts, seed, time.perf_counter() - started,
-                       description, multiple * x_factors)
+                       description, multiple * x_factors + x_centre)
 
 
 def _in_computed_units(family, balance):

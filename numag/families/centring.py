@@ -1,0 +1,229 @@
+"""A family written exactly in x-coordinates centred where its singular members are singular (decision 0082).
+
+The balancing and the term sizes take rho_j = max(|x_j|, 1) (decisions 0002, 0003): features of size 1 at
+x = 1234 are cancellations of terms of size 1234^d in the expanded polynomial, which double precision cannot
+see (decision 0071). (x - 1234)^3 - 3 (x - 1234) + p lost its discriminant point p = -2 that way, and the
+curve family (y + 2345)^2 = (x - 1234)^3 + a (x - 1234) + b its discriminant curve 4 a^3 + 27 b^2 = 0.
+
+A translation of x alone changes nothing a discriminant or a sweep reports in parameter space (the real
+counts, the discriminant's points, curve and regions), and a point x of a member maps back by adding the
+centre. So the family is located first: the incidence set S = {F = 0, rank J_x F < c} cut by random real
+hyperplanes in p only (through a random point of the ranges) is a finite set of singular points (x, p) of members
+in the ranges; their x-parts say where the features are. When they sit far from the origin compared with
+how far apart they are, the family is written exactly in y = x - s (:func:`numag.system.centred.centred_system`,
+parameters kept: their centre is 0) and the work is done there. The translation is exact, so the decision to
+centre changes the working coordinates only, never the answer: it is no threshold a result can flip on.
+
+Examples
+--------
+>>> from numag.system.parse import parse_system
+>>> from numag.system.family import Family
+>>> family = Family(parse_system(["(x - 1234)^3 - 3*(x - 1234) + p"], ["x", "p"]), ("p",))
+>>> found = locate(family, 1, seed=1)
+>>> found.centring is not None, [c.to_text() for c in found.centring.centre]
+(True, ['1234', '0'])
+>>> centred_family(family, found.centring).system.to_texts()
+['x^3 - 3*x + p']
+"""
+
+from dataclasses import dataclass
+import math
+
+import numpy as np
+
+from ..errors import InputError, LimitError
+from ..system.centred import centre_near, centred_system
+from ..system.family import Family
+from ..system.polynomial import Polynomial, PolynomialSystem
+from ..numeric.seeds import random_state
+from ..tracking.solve import SolveOptions, solve_system
+from ..singular.locus import minors_system
+
+__all__ = ["Located", "locate", "locate_members", "centred_family", "centre_of_points", "FAR_FACTOR",
+           "LOCATE_MAX_PATHS"]
+
+#: A family is centred when its located points' centroid is farther from the origin than this many times
+#: their spread (their largest distance from it). The translation is exact: this only chooses the working
+#: coordinates.
+FAR_FACTOR = 10.0
+#: The locating solve is skipped (with a note) when its total degree is larger: it is a look, not the work.
+LOCATE_MAX_PATHS = 2000
+
+
+@dataclass(frozen=True)
+class Located:
+    """Where a family's singular members are singular, and the centring chosen from it.
+
+    Attributes
+    ----------
+    points : ndarray, shape (K, n)
+        x-parts of the located finite singular points (the user's coordinates).
+    centring : Centring or None
+        Over (x, p) with p's centre 0; None when the points are near the origin (or none was located).
+    note : str
+        Why nothing was located, or empty.
+    """
+
+    points: np.ndarray
+    centring: object
+    note: str = ""
+
+    @property
+    def x_centre(self):
+        """The centre's x-part (zeros without a centring)."""
+        n = self.points.shape[1]
+        return np.zeros(n, dtype=complex) if self.centring is None else self.centring.point[:n]
+
+
+def centre_of_points(points, m):
+    """The exact centring (x-part the points' centroid, p-part 0) when the points are far from the origin.
+
+    Parameters
+    ----------
+    points : ndarray, shape (K, n)
+        Finite points (x-parts).
+    m : int
+        Number of parameters (their centre is 0: the parameters are kept).
+
+    Returns
+    -------
+    Centring or None
+
+    Examples
+    --------
+    >>> centre_of_points(np.array([[1232.3], [1235.7]]), 1).centre[0].to_text()
+    '1234'
+    >>> centre_of_points(np.array([[-1.7], [1.7]]), 1) is None
+    True
+    >>> centre_of_points(np.array([[0.1223], [0.1237]]), 1).centre[0].to_text()   # the same in other units
+    '123/1000'
+
+    """
+    points = np.asarray(points, dtype=complex)
+    if len(points) == 0:
+        return None
+    # real features keep a real centre (a non-real one would make the real members' equations non-real)
+    centroid = points.mean(axis=0).real
+    distance = float(np.linalg.norm(centroid))
+    spread = float(np.max(np.linalg.norm(points - centroid[None, :], axis=1)))
+    # scale-free: 0.123 +- 0.001 (millimetres of the same geometry) is as far as 123 +- 1
+    if distance == 0 or distance <= FAR_FACTOR * spread:
+        return None
+    # a grid of a tenth of the spread or finer: short numbers, and the centre within the features' own size
+    size = max(spread, 1e-9 * distance)
+    digits = max(1, int(math.ceil(math.log10(1 + distance))) - int(math.floor(math.log10(size))) + 1)
+    return centre_near(np.concatenate([centroid, np.zeros(m)]), spread, digits=digits)
+
+
+def centred_family(family, centring):
+    """The family written exactly in y = x - s (the parameters kept), with the same names and ranges."""
+    return Family(centred_system(family.system, centring), family.parameters, dict(family.ranges))
+
+
+def locate(family, codimension, seed=None, max_exact_minors=24):
+    """Locate the singular points of members near the parameter ranges, and choose a centring from them.
+
+    S = {F(x, p) = 0, rank J_x F < c} has dimension m - 1 in (x, p) for a family whose discriminant is a
+    hypersurface; m - 1 random real hyperplanes in p through a random point of the ranges cut it to points.
+
+    Parameters
+    ----------
+    family : Family
+    codimension : int
+        Of a generic member.
+    seed : int, optional
+    max_exact_minors : int
+
+    Returns
+    -------
+    Located
+        No centring (and a note saying why) where the cut system is not square or too large to solve.
+    """
+    _, rng = random_state(seed)
+    n, m = family.n_variables, family.n_parameters
+    nothing = np.zeros((0, n), dtype=complex)
+    try:
+        incidence, _ = minors_system(family.system, codimension, rng, max_exact_minors, n_columns=n)
+    except LimitError:
+        return Located(nothing, None, "the minors of J_x are too large to expand")
+    # through a random point of the ranges' box, not its middle: a symmetric family's middle is often a cusp
+    through = np.array([_random_in_range(family, name, rng) for name in family.parameters])
+    cuts = []
+    for _ in range(m - 1):
+        direction = rng.standard_normal(m)
+        # direction . (p - through) = 0, a real hyperplane in p only
+        exponents = np.zeros((m + 1, n + m), dtype=np.int64)
+        exponents[1:, n:] = np.eye(m, dtype=np.int64)
+        coefficients = np.concatenate([[-float(direction @ through)], direction]).astype(complex)
+        cuts.append(Polynomial(exponents, coefficients, n + m))
+    system = PolynomialSystem(list(incidence.variables), list(incidence.polynomials) + cuts, name="located")
+    if system.n_equations != system.n_variables:
+        return Located(nothing, None, f"the singular incidence set cut in p is {system.n_equations} equations in "
+                                      f"{system.n_variables} unknowns, not square")
+    if math.prod(max(p.degree, 1) for p in system.polynomials) > LOCATE_MAX_PATHS:
+        return Located(nothing, None, f"its locating system has more than {LOCATE_MAX_PATHS} paths")
+    try:
+        solved = solve_system(system, SolveOptions(), seed=int(rng.integers(2 ** 63)))
+    except (InputError, LimitError) as err:
+        return Located(nothing, None, f"its locating system was not solved ({err})")
+    found = np.array([s.point for s in solved.solutions + list(solved.not_isolated)
+                      if not s.at_infinity and np.all(np.isfinite(s.point))], dtype=complex).reshape(-1, n + m)
+    # a cut nearly parallel to the discriminant meets it far outside the ranges, where the singular points may be
+    # far from those of the members asked about: those are left out when any is left
+    low, high = np.array([_range(family, name) for name in family.parameters]).T
+    reach = high - low
+    inside = np.all((found[:, n:].real >= low - reach) & (found[:, n:].real <= high + reach), axis=1)
+    points = found[inside if np.any(inside) else slice(None), :n]
+    return Located(points, centre_of_points(points, m), "" if len(points) else "no finite singular point was found")
+
+
+def locate_members(family, values, seed=None):
+    """Locate the solutions of a square family's members near ``values``, and choose a centring from them.
+
+    One member is solved, at a random complex value about the values' middle (of their spread's size), in the
+    user's units: a balanced member would be taken where the balancing puts it, which for a family far from the
+    origin is far from the values asked about (the constant of (x - 1234)^3 + p is 2e9: p is scaled by 1e10).
+
+    Parameters
+    ----------
+    family : Family
+        As many equations as variables.
+    values : ndarray, shape (K, m)
+    seed : int, optional
+
+    Returns
+    -------
+    Located
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> family = Family(parse_system(["(x - 1234)^3 - 3*(x - 1234) + p"], ["x", "p"]), ("p",))
+    >>> centring = locate_members(family, np.array([[-5.0], [5.0]]), seed=1).centring
+    >>> bool(abs(centring.point[0] - 1234) < 1), centring.centre[1].to_text()   # near the solutions; p kept
+    (True, '0')
+    """
+    _, rng = random_state(seed)
+    n, m = family.n_variables, family.n_parameters
+    values = np.asarray(values, dtype=complex).reshape(-1, m)
+    middle = values.mean(axis=0)
+    size = 1 + float(np.max(np.abs(values - middle[None, :]))) if len(values) else 1.0
+    at = middle + size * (rng.standard_normal(m) + 1j * rng.standard_normal(m)) / 2
+    try:
+        solved = solve_system(family.member(list(at)), SolveOptions(), seed=int(rng.integers(2 ** 63)))
+    except (InputError, LimitError) as err:
+        return Located(np.zeros((0, n), dtype=complex), None, f"its member was not solved ({err})")
+    points = np.array([s.point for s in solved.solutions], dtype=complex).reshape(-1, n)
+    return Located(points, centre_of_points(points, m), "" if len(points) else "no finite solution was found")
+
+
+def _range(family, name):
+    """The parameter's range ([-1, 1] without one)."""
+    interval = family.ranges.get(name)
+    return (-1.0, 1.0) if interval is None else (float(interval.low), float(interval.high))
+
+
+def _random_in_range(family, name, rng):
+    """A random value in the middle half of the parameter's range."""
+    low, high = _range(family, name)
+    return float(low + (high - low) * rng.uniform(0.25, 0.75))
