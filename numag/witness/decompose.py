@@ -43,7 +43,7 @@ import numpy as np
 
 from ..errors import InputError, LimitError, is_integer, is_number, require_option
 from ..system.display import counted, html_table, short_point
-from ..system.centred import centre_near, centred_system
+from ..system.centred import centre_near, centred_system, translated_terms
 from ..system.polynomial import Polynomial, PolynomialSystem, linear_space, require_numeric
 from ..numeric.cluster import cluster_labels
 from ..numeric.evaluate import BatchEvaluator, TermSizes
@@ -888,8 +888,9 @@ def components_through(decomposition, point, seed=0, options=None):
 
 
 #: Centring expands each term (y + s)^e into prod(e_j + 1) terms: above this many in all, the centred system is
-#: too large to write out and membership is run in the decomposition's own coordinates.
-_CENTRING_TERMS = 20000
+#: too large to write out, and the second look in centred coordinates is skipped (membership, the non-reduced
+#: sampling of :mod:`numag.singular.smoothness`).
+CENTRING_TERMS = 20000
 
 
 def _centred_at(decomposition, point):
@@ -897,14 +898,13 @@ def _centred_at(decomposition, point):
 
     Returns ``(decomposition, centring)``, or None where centring does not apply: a decomposition made fibre by
     fibre (its blocks belong to the original equations), a system with evaluated minors, a point that is not
-    finite, or a system whose translation would be too large (:data:`_CENTRING_TERMS`).
+    finite, or a system whose translation would be too large (:data:`CENTRING_TERMS`).
     """
     system = decomposition.system
     if (decomposition.fibred_over is not None or type(system) is not PolynomialSystem or system.projective
             or not np.all(np.isfinite(point)) or not decomposition.components):
         return None
-    expanded = sum(int(np.sum(np.prod(np.asarray(p.exponents) + 1, axis=1))) for p in system.polynomials)
-    if expanded > _CENTRING_TERMS:
+    if translated_terms(system) > CENTRING_TERMS:
         return None
     centring = centre_near(point, radius=0.0)
     moved_system = centred_system(system, centring)
