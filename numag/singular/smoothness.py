@@ -63,7 +63,7 @@ from ..numeric.refine import (RankDropSystem, ZeroKind, mp_gauss_newton, newton_
                               rank_drop_points)
 from ..numeric.scaling import Scaling
 from ..numeric.seeds import random_state
-from ..witness.decompose import CENTRING_TERMS, components_through_points
+from ..witness.decompose import CENTRED_BALANCING_FLOOR, CENTRING_TERMS, components_through_points
 from .kinds import CoefficientPrecision, JudgedPoint, LocalDimensionSource, Verdict
 from .nearness import (backward_error, coefficient_precision, input_tolerance, nearest_backward_error,
                        point_precision)
@@ -779,7 +779,7 @@ class _Checker:
             return None
         centring = centre_near(point, 0.0)
         centred = centred_system(self.system, centring)
-        scaling = Scaling.balancing(centred)
+        scaling = Scaling.balancing(centred, CENTRED_BALANCING_FLOOR)
         here = scaling.to_computed((np.asarray(point, dtype=complex) - centring.point)[None, :])[0]
         return _Checker(scaling.scale_system(centred), self.options, self.rng), here
 

@@ -866,31 +866,29 @@ def components_through(decomposition, point, seed=0, options=None):
     if len(point) != decomposition.system.n_variables:
         raise InputError(f"the point has {len(point)} coordinates, the system "
                          f"{decomposition.system.n_variables} variables")
-    hits = _components_through_here(decomposition, point, seed, options)
-    missed = [k for k, c in enumerate(decomposition.components) if not any(c is h for h in hits)]
-    centred = _centred_at(decomposition, point) if missed else None
-    if centred is not None:
-        # Decision 0084: a component missed is tested again in coordinates centred exactly at the point and
-        # balanced anew. Far from the origin the units are set by where the point sits, not by the features
-        # around it: a sphere of radius 13 through (1237, -2341, 3468) is 3e-3 of that distance, and the
-        # membership path's endgame ended 1e-3 (in those units) off the crossing, so the sphere was missed at 11
-        # seeds of 12. A hit there is kept only when a path aimed next to the point ends on X next to it
-        # (:func:`_lands_on_x_next_to`): centred at a point of the line far from the sphere, the balancing crushes
-        # the sphere onto the plane of its test system and paths jumped to the point at 4 seeds of 30.
-        moved, centring = centred
-        subset = replace(moved, components=[moved.components[k] for k in missed])
-        second = _components_through_here(subset, point - centring.point, seed, options, whole=False,
-                                          verify=True)
-        again = {id(c) for c in second}
-        hits = [c for k, c in enumerate(decomposition.components)
-                if any(c is h for h in hits) or (k in missed and id(moved.components[k]) in again)]
-    return hits
+    centred = _centred_at(decomposition, point)
+    if centred is None:
+        return _components_through_here(decomposition, point, seed, options)
+    # Decision 0084: membership in coordinates centred exactly at the point and balanced anew. In the
+    # decomposition's own units the paths' accuracy and the test's tolerance (1e-5 of 1 + |point|) are set by
+    # where the point sits, not by the features around it: a sphere of radius 13 through (1237, -2341, 3468) was
+    # missed at 11 seeds of 12 (the endgame ended 1e-3 of those units off the crossing), and in units 1000 times
+    # smaller the whole sphere lay within the tolerance of a point of the line. A hit is kept only when a path
+    # aimed next to the point ends on X next to it (:func:`_lands_on_x_next_to`): centred at a point of the line
+    # far from the sphere, the balancing crushes the sphere onto the plane of its test system, and paths jumped to
+    # the point at 4 seeds of 30 without that test.
+    moved, centring = centred
+    hits = {id(c) for c in _components_through_here(moved, point - centring.point, seed, options, verify=True)}
+    return [c for c, m in zip(decomposition.components, moved.components) if id(m) in hits]
 
 
 #: Centring expands each term (y + s)^e into prod(e_j + 1) terms: above this many in all, the centred system is
 #: too large to write out, and the second look in centred coordinates is skipped (membership, the non-reduced
 #: sampling of :mod:`numag.singular.smoothness`).
 CENTRING_TERMS = 20000
+#: The balancing of a centred system leaves out terms below this fraction of the largest of their polynomial
+#: (:meth:`~numag.numeric.scaling.Scaling.balancing`): the centre is rounded to 12 digits of the point.
+CENTRED_BALANCING_FLOOR = 1e-8
 
 
 def _centred_at(decomposition, point):
@@ -919,15 +917,14 @@ def _centred_at(decomposition, point):
             rows /= np.linalg.norm(rows, axis=1)[:, None]
         components.append(replace(c, points=np.asarray(c.points) - centring.point[None, :], slice_rows=rows))
     moved = replace(decomposition, system=moved_system, components=components,
-                    scaling=Scaling.balancing(moved_system))
+                    scaling=Scaling.balancing(moved_system, CENTRED_BALANCING_FLOOR))
     return moved, centring
 
 
-def _components_through_here(decomposition, point, seed, options, whole=True, verify=False):
+def _components_through_here(decomposition, point, seed, options, verify=False):
     """:func:`components_through` in the decomposition's own coordinates.
 
-    ``whole``: the decomposition holds all of X's components (a subset does not allow the shortcut for one
-    hypersurface). ``verify``: a hit whose test system combines more equations than the codimension must also
+    ``verify``: a hit whose test system combines more equations than the codimension must also
     pass :func:`_lands_on_x_next_to`.
     """
     if decomposition.scaling is not None:  # membership is decided in the units the components were found in
@@ -935,13 +932,13 @@ def _components_through_here(decomposition, point, seed, options, whole=True, ve
         computed = decomposition.in_units(scaling, _scaled(scaling, decomposition.system), to_user=False)
         found = {id(c): k for k, c in enumerate(computed.components)}
         hits = _components_through_here(replace(computed, scaling=None), scaling.to_computed(point), seed, options,
-                                        whole, verify)
+                                        verify)
         return [decomposition.components[found[id(c)]] for c in hits]
     if decomposition.fibred_over is not None:
         return _components_through_fibre(decomposition, point, seed, options)
     system = decomposition.system
     components = decomposition.components
-    if whole and system.n_equations == 1 and len(components) == 1 and components[0].confirmed \
+    if system.n_equations == 1 and len(components) == 1 and components[0].confirmed \
             and components[0].dimension == system.n_variables - 1:
         # V(f) is the union of its components, all of dimension n - 1: when there is one, every point
         # of X lies on it (the homotopy test can lose its paths at a singular point of high multiplicity).
