@@ -883,8 +883,8 @@ def components_through(decomposition, point, seed=0, options=None):
 
 
 #: Centring expands each term (y + s)^e into prod(e_j + 1) terms: above this many in all, the centred system is
-#: too large to write out, and the second look in centred coordinates is skipped (membership, the non-reduced
-#: sampling of :mod:`numag.singular.smoothness`).
+#: too large to write out, and membership (and the non-reduced sampling of :mod:`numag.singular.smoothness`) run
+#: in the system's own units as before decision 0084.
 CENTRING_TERMS = 20000
 #: The balancing of a centred system leaves out terms below this fraction of the largest of their polynomial
 #: (:meth:`~numag.numeric.scaling.Scaling.balancing`): the centre is rounded to 12 digits of the point.
