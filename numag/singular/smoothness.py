@@ -52,6 +52,7 @@ import numpy as np
 from ..kinds import TextEnum
 from ..errors import InputError, PointError, is_integer, is_number, require_option
 from ..system.display import html_table, short_point
+from ..system.centred import centre_near, centred_system, translated_terms
 from ..system.exact import ExactCoefficient
 from ..system.polynomial import PolynomialSystem, require_numeric
 from ..numeric.cluster import line_distance, normalize_projective, projective_pivot
@@ -62,7 +63,7 @@ from ..numeric.refine import (RankDropSystem, ZeroKind, mp_gauss_newton, newton_
                               rank_drop_points)
 from ..numeric.scaling import Scaling
 from ..numeric.seeds import random_state
-from ..witness.decompose import components_through_points
+from ..witness.decompose import CENTRED_BALANCING_FLOOR, CENTRING_TERMS, components_through_points
 from .kinds import CoefficientPrecision, JudgedPoint, LocalDimensionSource, Verdict
 from .nearness import (backward_error, coefficient_precision, input_tolerance, nearest_backward_error,
                        point_precision)
@@ -105,6 +106,13 @@ _NEAREST_EXTRA_DIGITS = (10, 40)
 #: smallest / largest singular value at least this (decision 0074): 0.02-1 at nodes and linkage folds,
 #: 1e-7 at a cusp, 1e-10 at a tacnode (where Newton in double stops short of the point).
 _DOUBLE_REGULAR = 1e-4
+#: The test of :meth:`_Checker.larger_dimension_at`: steps of this fraction of the sampling radius along the kernel
+#: of J, in this many random directions per sample; a sample is on a manifold of the kernel's dimension when Newton
+#: moves every step back by at most this fraction of it (1e-5 seen on a sphere; the part of a random direction
+#: normal to a non-reduced component is below 1e-2 with probability 1e-4 per direction).
+_KERNEL_STEP = 1e-3
+_KERNEL_DIRECTIONS = 3
+_KERNEL_STAYS = 1e-2
 
 
 @dataclass(frozen=True)
@@ -339,6 +347,23 @@ class _Decision:
     digits: int
     drop: np.ndarray | None = None    # a nearby point where the rank drops, when one was found
     drop_distance: float | None = None
+
+
+@dataclass
+class _Nearby:
+    """What the sampling next to a point found (:meth:`_Checker.rank_drops_near`).
+
+    Attributes
+    ----------
+    drops : bool
+        The rank drops at every informative sample (the "non-reduced" evidence).
+    larger : int or None
+        A dimension of X at a sample larger than the local dimension used (decision 0084): the rank drops there
+        because the samples lie on a larger component, so ``drops`` is False.
+    """
+
+    drops: bool
+    larger: int | None = None
 
 
 @dataclass
@@ -668,47 +693,137 @@ class _Checker:
                          digits=schedule[-1], drop=None, drop_distance=None)
 
     def rank_drops_near(self, point, codim):
-        """Sample nearby points of X; True when the rank drops at every one of them.
+        """Sample nearby points of X: does the rank drop at every one of them? (a :class:`_Nearby`)
 
         Samples that Newton pulls back onto ``point`` itself say nothing and are
-        discarded; without enough informative samples the answer is False.
+        discarded; without enough informative samples the answer is no.
         """
         return self.rank_drops_near_all([(point, codim)])[0]
 
     def rank_drops_near_all(self, items):
-        """:meth:`rank_drops_near` for many ``(point, codim)`` pairs, in shared batches (decision 0074).
+        """:meth:`rank_drops_near` for many ``(point, codim)`` pairs (a list of :class:`_Nearby`).
 
-        The samples are drawn point by point in order (the random numbers of one call per point), moved onto X
-        in one batch and tested in double in one batch per codimension; mpmath only for a point that leaves open.
+        Decision 0084: each point is sampled in coordinates centred exactly at it and balanced anew
+        (:meth:`centred_at`), so that the sampling radius and the term sizes are those of the features around it,
+        not of its distance from the origin (a doubled sphere at (1234, -2345, 3456) showed "full rank" at its
+        samples, 40 units away across a sphere of radius 13). Points that cannot be centred (projective systems,
+        systems too large to translate) share batches as before (decision 0074).
         """
+        if self.options.neighbour_samples == 0 or not items:
+            return [_Nearby(drops=False) for _ in items]
+        results, plain = [None] * len(items), []
+        for j, (point, codim) in enumerate(items):
+            centred = self.centred_at(point)
+            if centred is None:
+                plain.append(j)
+                continue
+            checker, here = centred
+            results[j] = checker._sampled([(here, codim)])[0]
+        for j, result in zip(plain, self._sampled([items[j] for j in plain])):
+            results[j] = result
+        return results
+
+    def _sampled(self, items):
+        """:meth:`rank_drops_near_all` in this checker's units, in shared batches."""
+        if not items:
+            return []
         count = self.options.neighbour_samples
-        if count == 0 or not items:
-            return [False] * len(items)
-        tries = 4 * count
-        starts, radii = [], []
-        for point, _ in items:
-            radii.append(self.options.neighbour_radius * _size(point))
-            directions = self.rng.standard_normal((tries, self.n)) + 1j * self.rng.standard_normal((tries, self.n))
-            directions /= np.linalg.norm(directions, axis=1)[:, None]
-            starts.append(np.asarray(point)[None, :] + radii[-1] * directions)
-        samples = project_to_variety(self.system, self.batch, np.concatenate(starts))
-        answers, informative_of = [None] * len(items), [None] * len(items)
-        for j, (point, _) in enumerate(items):
-            rows = slice(j * tries, (j + 1) * tries)
-            informative_of[j] = [sample for sample, ok in zip(samples.points[rows], samples.converged[rows])
-                                 if ok and self.distance(sample, point) >= 0.1 * radii[j]][:count]
-            if len(informative_of[j]) < count:
-                answers[j] = False
+        informative_of, radii = self.samples_near([point for point, _ in items])
+        answers = [False if len(informative) < count else None for informative in informative_of]
         for codim in sorted({codim for _, codim in items}):
             open_items = [j for j, (_, c) in enumerate(items) if c == codim and answers[j] is None]
             decided = self.rank_drops_near_in_double([informative_of[j] for j in open_items], codim,
                                                      [radii[j] for j in open_items])
             for j, answer in zip(open_items, decided or [None] * len(open_items)):
                 answers[j] = answer
+        results = []
         for j, (_, codim) in enumerate(items):
             if answers[j] is None:
                 answers[j] = self._rank_drops_at_samples_mp(informative_of[j], codim, radii[j])
-        return answers
+            larger = self.larger_dimension_at(informative_of[j], codim, radii[j]) if answers[j] else None
+            if larger is not None and larger > self.system.ambient_dimension - codim:
+                results.append(_Nearby(drops=False, larger=larger))
+            else:
+                results.append(_Nearby(drops=bool(answers[j])))
+        return results
+
+    def samples_near(self, points):
+        """Points of X next to each of ``points`` (Newton from random points at :attr:`CheckOptions.neighbour_radius`,
+        relative), the ones Newton did not pull back onto the point itself, at most ``neighbour_samples`` each.
+
+        Returns (list of lists of samples, list of radii). The random numbers are drawn point by point in order;
+        the projection is one batch.
+        """
+        count = self.options.neighbour_samples
+        tries = 4 * count
+        starts, radii = [], []
+        for point in points:
+            radii.append(self.options.neighbour_radius * _size(point))
+            directions = self.rng.standard_normal((tries, self.n)) + 1j * self.rng.standard_normal((tries, self.n))
+            directions /= np.linalg.norm(directions, axis=1)[:, None]
+            starts.append(np.asarray(point)[None, :] + radii[-1] * directions)
+        samples = project_to_variety(self.system, self.batch, np.concatenate(starts))
+        informative_of = []
+        for j, point in enumerate(points):
+            rows = slice(j * tries, (j + 1) * tries)
+            informative_of.append([sample for sample, ok in zip(samples.points[rows], samples.converged[rows])
+                                   if ok and self.distance(sample, point) >= 0.1 * radii[j]][:count])
+        return informative_of, radii
+
+    # -- the non-reduced claim, looked at again where the features are (decision 0084) -------------------
+    def centred_at(self, point):
+        """A checker of the same equations in coordinates centred exactly at ``point`` and balanced anew, and the
+        point in its units; None where centring does not apply (projective or too large to translate)."""
+        if (self.system.projective or type(self.system) is not PolynomialSystem
+                or translated_terms(self.system) > CENTRING_TERMS or not np.all(np.isfinite(point))):
+            return None
+        centring = centre_near(point, 0.0)
+        centred = centred_system(self.system, centring)
+        scaling = Scaling.balancing(centred, CENTRED_BALANCING_FLOOR)
+        here = scaling.to_computed((np.asarray(point, dtype=complex) - centring.point)[None, :])[0]
+        return _Checker(scaling.scale_system(centred), self.options, self.rng), here
+
+    def larger_dimension_at(self, samples, codim, radius):
+        """The dimension n - r of X at a sample where J has rank r < ``codim`` and X is a manifold of that dimension
+        (steps along the kernel of J stay on X to second order); None when no sample shows one.
+
+        A rank drop at the samples says "non-reduced" only when they lie on the component of codimension
+        ``codim``; on a component of larger dimension (a sphere through a point of a line) the rank drops there
+        for that reason. Scale-free: steps of :data:`_KERNEL_STEP` of the sampling radius in random directions of
+        the kernel; on a manifold with that tangent space Newton moves them back by about step^2 / feature (1e-5
+        of a step here), on a non-reduced component by the step's part normal to it (of the order of the step).
+        """
+        samples = np.atleast_2d(np.asarray(samples, dtype=complex))
+        if len(samples) == 0:
+            return None
+        values, scales = self.scaled_values_double(samples)
+        _, jacobians = self.batch.evaluate(samples)
+        zero = zero_tolerance(DOUBLE_DIGITS, (self.m, self.n))
+        step = _KERNEL_STEP * radius
+        starts, owners = [], []
+        for row, (sample, jacobian, row_scales, sample_values) in enumerate(zip(samples, jacobians, scales, values)):
+            rank = numerical_rank(sample_values, zero)
+            if rank >= codim:
+                continue
+            kernel = np.linalg.svd(jacobian / row_scales[:, None])[2][rank:].conj().T  # n x (n - rank)
+            for _ in range(_KERNEL_DIRECTIONS):
+                mix = self.rng.standard_normal(self.n - rank) + 1j * self.rng.standard_normal(self.n - rank)
+                direction = kernel @ mix
+                starts.append(sample + step * direction / np.linalg.norm(direction))
+                owners.append((row, self.n - rank))
+        if not starts:
+            return None
+        starts = np.array(starts)
+        # tolerance 0: Newton goes on while a step lowers the residual, so a point off a non-reduced component is
+        # pulled back even where its residual (the step to a power) is already tiny
+        back = project_to_variety(self.system, self.batch, starts, tolerance=0.0).points
+        moved = np.nan_to_num(np.linalg.norm(back - starts, axis=1), nan=np.inf) / step
+        found = None
+        for row in sorted({row for row, _ in owners}):
+            mine = [k for k, (owner, _) in enumerate(owners) if owner == row]
+            if np.all(moved[mine] <= _KERNEL_STAYS):
+                found = max(found or 0, owners[mine[0]][1])
+        return found
 
     def _rank_drops_at_samples_mp(self, informative, codim, radius):
         """The sampling test in mpmath (30 digits): True when the rank drops at (next to) every sample."""
@@ -789,6 +904,13 @@ class _Checker:
             near = self.drops_near.pop(position, None) if position is not None else None
             if near is None:
                 near = self.rank_drops_near(np.asarray(decision.point), codim)
+        if verdict is Verdict.SINGULAR and near.larger is not None:
+            verdict = Verdict.UNDECIDED
+            notes.append(f"The rank also drops at sampled points of X next to this one, but X is a manifold of "
+                         f"dimension {near.larger} there, more than the local dimension used "
+                         f"({self.system.ambient_dimension - codim}): they lie on a larger component, and whether "
+                         "it passes through this point is not settled; give the local dimension to decide.")
+        near = near.drops if verdict is Verdict.SINGULAR else None
         if verdict is Verdict.SINGULAR and near:
             verdict = Verdict.NON_REDUCED
             notes.append("The rank also drops at every sampled nearby point of X: the equations define X "

@@ -27,7 +27,7 @@ import numpy as np
 from .exact import ExactCoefficient
 from .polynomial import Polynomial, PolynomialSystem
 
-__all__ = ["Centring", "centre_near", "centred_system", "within"]
+__all__ = ["Centring", "centre_near", "centred_system", "translated_terms", "within"]
 
 
 @dataclass(frozen=True)
@@ -115,3 +115,19 @@ def within(points, centring):
     if points.shape[0] == 0:
         return np.zeros(0, dtype=bool)
     return np.linalg.norm(points - centring.point[None, :], axis=1) <= centring.radius
+
+
+def translated_terms(system):
+    """How many terms the centred system can have at most: each term x^e becomes prod(e_j + 1) terms.
+
+    Callers that centre for every point (membership, the non-reduced sampling: decision 0084) skip systems above
+    a bound, where writing the translation out would cost more than the test.
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> translated_terms(parse_system(["x^2*y - 1"], ["x", "y"]))  # x^2 y -> 3 * 2 terms, 1 -> 1
+    7
+    """
+    return sum(int(np.sum(np.prod(np.asarray(p.exponents, dtype=np.int64) + 1, axis=1))) if p.n_terms else 0
+               for p in system.polynomials)

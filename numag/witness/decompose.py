@@ -43,6 +43,7 @@ import numpy as np
 
 from ..errors import InputError, LimitError, is_integer, is_number, require_option
 from ..system.display import counted, html_table, short_point
+from ..system.centred import centre_near, centred_system, translated_terms
 from ..system.polynomial import Polynomial, PolynomialSystem, linear_space, require_numeric
 from ..numeric.cluster import cluster_labels
 from ..numeric.evaluate import BatchEvaluator, TermSizes
@@ -865,11 +866,73 @@ def components_through(decomposition, point, seed=0, options=None):
     if len(point) != decomposition.system.n_variables:
         raise InputError(f"the point has {len(point)} coordinates, the system "
                          f"{decomposition.system.n_variables} variables")
+    centred = _centred_at(decomposition, point)
+    if centred is None:
+        return _components_through_here(decomposition, point, seed, options)
+    # Decision 0084: membership in coordinates centred exactly at the point and balanced anew. In the
+    # decomposition's own units the paths' accuracy and the test's tolerance (1e-5 of 1 + |point|) are set by
+    # where the point sits, not by the features around it: a sphere of radius 13 through (1237, -2341, 3468) was
+    # missed at 11 seeds of 12 (the endgame ended 1e-3 of those units off the crossing), and in units 1000 times
+    # smaller the whole sphere lay within the tolerance of a point of the line. A hit is kept only when a path
+    # aimed next to the point ends on X next to it (:func:`_lands_on_x_next_to`): centred at a point of the line
+    # far from the sphere, the balancing crushes the sphere onto the plane of its test system, and paths jumped to
+    # the point at 4 seeds of 30 without that test.
+    moved, centring = centred
+    hits = {id(c) for c in _components_through_here(moved, point - centring.point, seed, options, verify=True)}
+    return [c for c, m in zip(decomposition.components, moved.components) if id(m) in hits]
+
+
+#: Centring expands each term (y + s)^e into prod(e_j + 1) terms: above this many in all, the centred system is
+#: too large to write out, and membership (and the non-reduced sampling of :mod:`numag.singular.smoothness`) run
+#: in the system's own units as before decision 0084.
+CENTRING_TERMS = 20000
+#: The balancing of a centred system leaves out terms below this fraction of the largest of their polynomial
+#: (:meth:`~numag.numeric.scaling.Scaling.balancing`): the centre is rounded to 12 digits of the point.
+CENTRED_BALANCING_FLOOR = 1e-8
+
+
+def _centred_at(decomposition, point):
+    """The decomposition written in coordinates y = x - s centred (exactly) at ``point``, balanced anew.
+
+    Returns ``(decomposition, centring)``, or None where centring does not apply: a decomposition made fibre by
+    fibre (its blocks belong to the original equations), a system with evaluated minors, a point that is not
+    finite, or a system whose translation would be too large (:data:`CENTRING_TERMS`).
+    """
+    system = decomposition.system
+    if (decomposition.fibred_over is not None or type(system) is not PolynomialSystem or system.projective
+            or not np.all(np.isfinite(point)) or not decomposition.components):
+        return None
+    if translated_terms(system) > CENTRING_TERMS:
+        return None
+    centring = centre_near(point, radius=0.0)
+    moved_system = centred_system(system, centring)
+    shift = np.concatenate([[1.0], centring.point])
+    components = []
+    for c in decomposition.components:
+        rows = np.asarray(c.slice_rows, dtype=complex)
+        if len(rows):
+            # a0 + a . x = 0 with x = y + s is (a0 + a . s) + a . y = 0
+            rows = rows.copy()
+            rows[:, 0] = rows @ shift
+            rows /= np.linalg.norm(rows, axis=1)[:, None]
+        components.append(replace(c, points=np.asarray(c.points) - centring.point[None, :], slice_rows=rows))
+    moved = replace(decomposition, system=moved_system, components=components,
+                    scaling=Scaling.balancing(moved_system, CENTRED_BALANCING_FLOOR))
+    return moved, centring
+
+
+def _components_through_here(decomposition, point, seed, options, verify=False):
+    """:func:`components_through` in the decomposition's own coordinates.
+
+    ``verify``: a hit whose test system combines more equations than the codimension must also
+    pass :func:`_lands_on_x_next_to`.
+    """
     if decomposition.scaling is not None:  # membership is decided in the units the components were found in
         scaling = decomposition.scaling
         computed = decomposition.in_units(scaling, _scaled(scaling, decomposition.system), to_user=False)
         found = {id(c): k for k, c in enumerate(computed.components)}
-        hits = components_through(computed, scaling.to_computed(point), seed, options)
+        hits = _components_through_here(replace(computed, scaling=None), scaling.to_computed(point), seed, options,
+                                        verify)
         return [decomposition.components[found[id(c)]] for c in hits]
     if decomposition.fibred_over is not None:
         return _components_through_fibre(decomposition, point, seed, options)
@@ -897,9 +960,60 @@ def components_through(decomposition, point, seed=0, options=None):
             second = _member(system, component, codimension, point, rng, options)
             if not np.any(second):
                 hits = _member(system, component, codimension, point, rng, options)
+            if verify and np.any(hits):
+                hits = _lands_on_x_next_to(system, component, codimension, point, rng, options)
         if np.any(hits):
             found.append(component)
     return found
+
+
+#: :func:`_lands_on_x_next_to` aims at a point this far from the given one (relative to 1 + its norm, in units
+#: where the features near it have size about 1: centred and balanced), and accepts endpoints within
+#: :data:`_NEXT_TO_REACH` times that distance whose scaled residual of F is at most :data:`_ON_X_RESIDUAL`.
+_NEXT_TO_OFFSET = 1e-3
+_NEXT_TO_REACH = 100.0
+#: An endpoint on the component has F at rounding (1e-14); one on a spurious component of the combined test system
+#: next to a point of X has F of the offset's size (1e-3 where the component does not pass, 1e-6 at a crossing).
+_ON_X_RESIDUAL = 1e-9
+
+
+def _lands_on_x_next_to(system, component, codimension, point, rng, options):
+    """Whether ``component`` has a point next to ``point``, reached on the component itself (not on a spurious
+    component of its test system).
+
+    The witness points are moved, on a fresh random combination, to a random slice through a point at
+    :data:`_NEXT_TO_OFFSET` from ``point`` in a random direction. A component through ``point`` meets that slice
+    next to it; an endpoint counts when it is near (:data:`_NEXT_TO_REACH` offsets) and on X for all the
+    equations, not only the combination: a path that jumped to the plane a (x - 3) + b (y - 4) = 0 of the
+    sphere's combined test system ends on the plane, where F is of the offset's size.
+
+    Returns
+    -------
+    ndarray of bool, shape (degree,)
+        The witness points whose paths pass the test.
+    """
+    n = system.n_variables
+    size = 1.0 + float(np.linalg.norm(point))
+    direction = rng.standard_normal(n) + 1j * rng.standard_normal(n)
+    aim = point + _NEXT_TO_OFFSET * size * direction / np.linalg.norm(direction)
+    held = holding_rows(system, codimension, component.points, rng, options.witness.rank_threshold,
+                        simple=True).combined(codimension, rng)
+    through = random_rows(rng, len(component.slice_rows), n + 1)
+    through[:, 0] = -(through[:, 1:] @ aim)
+    held, block = held_parts(held)
+    run = track_moves(held + [linear_form(r) for r in component.slice_rows], held + [linear_form(r) for r in through],
+                      component.points, rng, options.witness.tracker, options.witness.batch_size, held=block)
+    ends = run.affine_endpoints()
+    finite = np.all(np.isfinite(ends), axis=1)
+    near = np.zeros(len(ends), dtype=bool)
+    near[finite] = np.linalg.norm(ends[finite] - point[None, :], axis=1) <= _NEXT_TO_REACH * _NEXT_TO_OFFSET * size
+    if not np.any(near):
+        return near
+    polynomials = _polynomial_part(system).polynomials
+    values = BatchEvaluator(polynomials).evaluate(ends[near], jacobian=False)
+    residuals = np.max(np.abs(values) / TermSizes(polynomials, False).values(ends[near]), axis=1)
+    near[np.nonzero(near)[0]] = residuals <= _ON_X_RESIDUAL
+    return near
 
 
 def _member(system, component, codimension, point, rng, options):
