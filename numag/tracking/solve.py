@@ -36,6 +36,7 @@ from ..run.checkpoint import RunFolder, manifest_fingerprints
 from ..run.executor import ambient_executor, charge_paths, check_memory, current_executor, make_executor
 from ..numeric.cluster import cluster_labels, groups, normalize_projective, projective_pivot
 from ..numeric.evaluate import BatchEvaluator, PrecisionEvaluator, TermSizes
+from ..numeric.linalg import batched_least_squares
 from ..numeric.scaling import Scaling
 from ..numeric.seeds import random_state
 from .homotopy import ParameterHomotopy, StraightLineHomotopy
@@ -383,6 +384,8 @@ _MAX_CENTRED_RUNS = 8
 #: within this factor of it (a point on the border would be in one run's region and out of the other's).
 _BORDER_FACTOR = 1.5
 _RADIUS_HALVINGS = 16
+#: A Newton step on F longer than this (relative to the point, computed units) at a regular endpoint: no root.
+_NEWTON_STEP = 1e-8
 
 
 def _multiple_groups_centred(result, options, progress, execution):
@@ -414,6 +417,7 @@ def _multiple_groups_centred(result, options, progress, execution):
     system = result.system
     kinds = ("solutions", "unverified", "not_isolated", "discarded")
     triggers = [s for s in result.solutions + result.unverified if s.multiplicity > 1 or s.winding > 1]
+    triggers += _not_converged(result)
     records = result.extra.setdefault("centred", [])
     for group in triggers:
         if not any(group is s for s in result.solutions + result.unverified):
@@ -428,7 +432,9 @@ def _multiple_groups_centred(result, options, progress, execution):
             _remove(result, [group], kinds)
             continue
         point = np.asarray(group.point, dtype=complex)
-        centring = centre_near(point.real if group.real else point, 0.0)
+        if system.has_real_coefficients and np.linalg.norm(scaling.to_computed(point.imag[None, :])) <= distance / 4:
+            point = point.real.astype(complex)  # a real centre keeps real equations real (conjugate pairs)
+        centring = centre_near(point, 0.0)
         if progress is not None:
             progress(f"a group of {counted(group.multiplicity, 'path')} judged again in coordinates centred at "
                      f"{short_point(centring.point)}")
@@ -451,13 +457,14 @@ def _multiple_groups_centred(result, options, progress, execution):
         first_in = [s for s in first if radius is not None and _within(scaling, centre, radius, s)]
         second_in = [s for s in second if radius is not None and _within(scaling, centre, radius, s)]
         first_paths = sum(s.multiplicity for s in first_in)
-        settled = radius is not None and first_paths == sum(s.multiplicity for s in second_in)
+        settled = (radius is not None and any(group is s for s in first_in)
+                   and first_paths == sum(s.multiplicity for s in second_in))
         records.append({"centre": short_point(centring.point), "radius_computed_units": radius,
                         "paths_first_run": first_paths, "paths_centred_run": sum(s.multiplicity for s in second_in),
                         "centred_run_failed_paths": local.path_counts()["failed"], "settled": settled})
         if not settled:
-            doubtful = [s for s in (first_in or [group]) if (s.multiplicity > 1 or s.winding > 1)
-                        and any(s is t for t in result.solutions)]
+            doubtful = [s for s in first_in if (s.multiplicity > 1 or s.winding > 1) and s is not group]
+            doubtful = [s for s in [group] + doubtful if any(s is t for t in result.solutions)]
             _remove(result, doubtful, ("solutions",))
             result.undecided.extend(doubtful)
             continue
@@ -471,6 +478,31 @@ def _multiple_groups_centred(result, options, progress, execution):
                     solution.paths = pooled[start:start + solution.multiplicity]
                     start += solution.multiplicity
                     getattr(result, kind).append(solution)
+
+
+def _newton_steps(system, scaling, points):
+    """The length of one Newton step on F at each point, relative to the point's size (both in computed units)."""
+    values, jacobians = BatchEvaluator(system.polynomials).evaluate(points)
+    with np.errstate(all="ignore"):
+        steps = batched_least_squares(jacobians, values)
+        moved = scaling.to_computed(points - steps) - scaling.to_computed(points)
+        size = 1 + np.linalg.norm(scaling.to_computed(points), axis=1)
+        return np.linalg.norm(moved, axis=1) / size
+
+
+def _not_converged(result):
+    """Regular endpoints (one path each) where one Newton step on F moves the point farther than a root's own error.
+
+    A Cauchy endgame whose circle encloses the branch points of two close roots far from the origin averages
+    them; the mean passes the residual test in units of the terms (F cancels there from terms of the size of the
+    coordinates' powers) without being a root (decision 0081). At a root the step is rounding.
+    """
+    single = [s for s in result.solutions if s.multiplicity == 1 and s.winding <= 1]
+    if not single or result.system.n_equations != result.system.n_variables:
+        return []
+    points = np.array([np.asarray(s.point, dtype=complex) for s in single])
+    steps = _newton_steps(result.system, result.scaling, points)
+    return [s for s, step in zip(single, steps) if not step <= _NEWTON_STEP]
 
 
 def _within(scaling, centre, radius, solution):
