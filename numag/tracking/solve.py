@@ -484,7 +484,10 @@ def _newton_steps(system, scaling, points):
     """The length of one Newton step on F at each point, relative to the point's size (both in computed units)."""
     values, jacobians = BatchEvaluator(system.polynomials).evaluate(points)
     with np.errstate(all="ignore"):
-        steps = batched_least_squares(jacobians, values)
+        try:  # square and regular at regular endpoints: a batched solve (a tenth of the least squares' time)
+            steps = np.linalg.solve(jacobians, values[:, :, None])[:, :, 0]
+        except np.linalg.LinAlgError:
+            steps = batched_least_squares(jacobians, values)
         moved = scaling.to_computed(points - steps) - scaling.to_computed(points)
         size = 1 + np.linalg.norm(scaling.to_computed(points), axis=1)
         return np.linalg.norm(moved, axis=1) / size
