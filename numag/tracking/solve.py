@@ -418,7 +418,7 @@ def _multiple_groups_centred(result, options, progress, execution):
     kinds = ("solutions", "unverified", "not_isolated", "discarded")
     triggers = [s for s in result.solutions + result.unverified if s.multiplicity > 1 or s.winding > 1]
     triggers += _not_converged(result)
-    records = result.extra.setdefault("centred", [])
+    records = []
     for group in triggers:
         if not any(group is s for s in result.solutions + result.unverified):
             continue  # replaced by an earlier centred run's region
@@ -478,6 +478,8 @@ def _multiple_groups_centred(result, options, progress, execution):
                     solution.paths = pooled[start:start + solution.multiplicity]
                     start += solution.multiplicity
                     getattr(result, kind).append(solution)
+    if records:  # absent when nothing was centred, as in a saved result read back
+        result.extra["centred"] = records
 
 
 def _newton_steps(system, scaling, points):
