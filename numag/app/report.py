@@ -244,6 +244,13 @@ def completeness_warnings(data):
                         f"{'does' if len(unverified) == 1 else 'do'} not satisfy the equations "
                         "after refinement and are not counted: they may be points at infinity that the endgame could "
                         "not resolve, or solutions missed; run again with another --seed or --start to compare.")
+    undecided = data.get("undecided") if isinstance(data.get("undecided"), list) else []
+    if undecided:  # solve: multiple groups far from the origin that centred coordinates did not confirm (0081)
+        paths = sum(int(group.get("multiplicity", 0)) for group in undecided if isinstance(group, dict))
+        warnings.append(f"{counted(len(undecided), 'multiple endpoint group')} ({counted(paths, 'path')}) away from "
+                        "the origin could not be settled in coordinates centred there (the two runs count different "
+                        "paths near it) and are not counted: several simple solutions close together may have been "
+                        "taken for one; move the origin near them and rescale the coordinates to decide.")
     near = data.get("near_singular") if isinstance(data.get("near_singular"), list) else []
     if near:  # decision 0062: smooth as written, singular within the coefficients' precision
         warnings.append(f"{counted(len(near), 'candidate')} the check calls smooth for the coefficients as written "
@@ -541,6 +548,8 @@ def solve_report_to_dict(result, options, lazy=False):
         "not_isolated": [_solution_to_dict(s) for s in result.not_isolated],
         "discarded": [_solution_to_dict(s) for s in result.discarded],
         "unverified": [_solution_to_dict(s) for s in result.unverified],
+        "undecided": [_solution_to_dict(s) for s in result.undecided],
+        "centred": result.extra.get("centred") or [],
         "squared_up": result.squared_up,
         "seconds": result.seconds,
         "evaluations": result.evaluations,
@@ -579,7 +588,10 @@ def solve_report_from_dict(data):
         evaluations=int(data["evaluations"]), squared_up=bool(data["squared_up"]),
         digits=np.array(data["path_digits"], dtype=np.int64),
         discarded=[_solution_from_dict(d) for d in data["discarded"]],
-        unverified=[_solution_from_dict(d) for d in data.get("unverified", [])])  # absent before decision 0049
+        unverified=[_solution_from_dict(d) for d in data.get("unverified", [])],  # absent before decision 0049
+        undecided=[_solution_from_dict(d) for d in data.get("undecided", [])])  # absent before decision 0081
+    if data.get("centred"):
+        result.extra["centred"] = data["centred"]
     if data.get("execution") is not None:
         result.extra["execution"] = data["execution"]
     if data.get("start") is not None:

@@ -27,14 +27,16 @@ import time
 import numpy as np
 from threadpoolctl import threadpool_limits
 
-from ..errors import InputError, is_integer, is_number, require_option
+from ..errors import InputError, LimitError, is_integer, is_number, require_option
 from ..version import __version__
 from ..system.display import counted, html_table, short_point
+from ..system.centred import centre_near, centred_system
 from ..system.polynomial import PolynomialSystem, require_numeric
 from ..run.checkpoint import RunFolder, manifest_fingerprints
 from ..run.executor import ambient_executor, charge_paths, check_memory, current_executor, make_executor
 from ..numeric.cluster import cluster_labels, groups, normalize_projective, projective_pivot
 from ..numeric.evaluate import BatchEvaluator, PrecisionEvaluator, TermSizes
+from ..numeric.linalg import batched_least_squares
 from ..numeric.scaling import Scaling
 from ..numeric.seeds import random_state
 from .homotopy import ParameterHomotopy, StraightLineHomotopy
@@ -221,6 +223,10 @@ class SolveResult:
         Per path: 16 (double precision) or the digits of the precision rescue it needed.
     discarded : list of Solution
         With ``squared_up``: solutions of the random combinations that fail an original equation.
+    undecided : list of Solution
+        Endpoint groups judged multiple away from the origin that a run in coordinates centred at them did not
+        confirm (the two runs disagree on how many paths end near them, decision 0081): neither counted as
+        solutions nor dropped; the report counts them and warns (exit 3).
     unverified : list of Solution
         Isolated singular endpoint groups whose refined point does not satisfy F in units of its
         terms (to the tracker's ``endpoint_residual``), though the tracker accepted the endpoint on
@@ -250,6 +256,7 @@ class SolveResult:
     scaling: object = None
     unverified: list = field(default_factory=list)
     options: SolveOptions | None = None
+    undecided: list = field(default_factory=list)
 
     def __repr__(self):
         counts = self.path_counts()
@@ -333,8 +340,22 @@ def solve_system(system, options=None, seed=None, progress=None, execution=None)
     InputError
         For a system that is not square (unless ``square_up``), invalid options, or a run
         folder that does not belong to this run.
+
+    Notes
+    -----
+    An endpoint group judged multiple away from the origin is solved again in coordinates centred at it
+    (decision 0081): several simple roots close together far from the origin can end as one multiple group.
+    ``extra["centred"]`` describes each such run; a region the two runs disagree on is ``undecided``.
     """
     options = (options or SolveOptions()).validated()
+    result = _solve(system, options, seed, progress, execution)
+    if not system.projective:
+        _multiple_groups_centred(result, options, progress, execution or Execution())
+    return result
+
+
+def _solve(system, options, seed, progress, execution):
+    """:func:`solve_system` without the centred second look."""
     require_numeric(system, allow_zero=False)
     seed, rng = random_state(seed)
     started = time.perf_counter()
@@ -384,6 +405,164 @@ def solve_system(system, options=None, seed=None, progress=None, execution=None)
         block["random_system_seconds"] = round(stage_one_seconds, 4)
     result.extra["start"] = block
     return _in_user_units(result, system, scaling)
+
+
+#: Centred runs one solve may start (each solves the whole system again); further groups are left as found.
+_MAX_CENTRED_RUNS = 8
+#: A region's radius is halved from half the group's distance to the origin until no point of either run lies
+#: within this factor of it (a point on the border would be in one run's region and out of the other's).
+_BORDER_FACTOR = 1.5
+_RADIUS_HALVINGS = 16
+#: A Newton step on F longer than this (relative to the point, computed units) at a regular endpoint: no root.
+_NEWTON_STEP = 1e-8
+
+
+def _multiple_groups_centred(result, options, progress, execution):
+    """Solve again in coordinates centred at each multiple group away from the origin (decision 0081), in place.
+
+    Several simple roots close together far from the origin can end as one group of winding number > 1: the
+    start system's term is of the size of the coordinates' powers while F varies by the features' own sizes, so
+    the paths come together long before t = 0 and the endgame's cycle encloses the branch points. Centred at the
+    group, y = x - s with s an exact rational near it (:mod:`numag.system.centred`), the features sit at the
+    origin of a system balanced anew. Both runs track the same number of paths of the same system, so in any
+    region they must count the same paths: where they do, the centred run's points there replace the first
+    run's (a genuine multiple root stays multiple, measured where it is seen best); where they do not, the
+    first run's multiple groups there become ``undecided`` (warning, exit 3).
+
+    The region (in the computed units of the first run) is a ball about s of radius at most half the group's
+    distance to the origin -- beyond that the centred coordinates see no better -- halved until no point of
+    either run lies near its border. A group within the cluster tolerance of the origin is not centred: it
+    already sits where the centring would put it.
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> # three simple roots 1234 and 1234 +- sqrt 3: the first run can end them as one triple group
+    >>> result = solve_system(parse_system(["(x - 1234)^3 - 3*(x - 1234)"], ["x"]), seed=1)
+    >>> sorted(round(float(s.point[0].real), 4) for s in result.solutions), result.undecided
+    ([1232.2679, 1234.0, 1235.7321], [])
+    """
+    scaling = result.scaling
+    system = result.system
+    kinds = ("solutions", "unverified", "not_isolated", "discarded")
+    triggers = [s for s in result.solutions + result.unverified if s.multiplicity > 1 or s.winding > 1]
+    triggers += _not_converged(result)
+    records = []
+    for group in triggers:
+        if not any(group is s for s in result.solutions + result.unverified):
+            continue  # replaced by an earlier centred run's region
+        here = scaling.to_computed(np.asarray(group.point, dtype=complex)[None, :])[0]
+        distance = float(np.linalg.norm(here))
+        if not np.isfinite(distance) or distance <= options.cluster_tolerance:
+            continue
+        if len(records) >= _MAX_CENTRED_RUNS:
+            records.append({"centre": short_point(group.point), "settled": False, "reason": "too many centred runs"})
+            result.undecided.append(group)
+            _remove(result, [group], kinds)
+            continue
+        point = np.asarray(group.point, dtype=complex)
+        if system.has_real_coefficients and np.linalg.norm(scaling.to_computed(point.imag[None, :])) <= distance / 4:
+            point = point.real.astype(complex)  # a real centre keeps real equations real (conjugate pairs)
+        centring = centre_near(point, 0.0)
+        if progress is not None:
+            progress(f"a group of {counted(group.multiplicity, 'path')} judged again in coordinates centred at "
+                     f"{short_point(centring.point)}")
+        try:
+            local = _solve(centred_system(system, centring), options, result.seed, None,
+                           Execution(executor=execution.executor))
+        except LimitError as err:  # the centred polynomial is too large to write: the group stays undecided
+            records.append({"centre": short_point(centring.point), "settled": False, "reason": str(err)})
+            result.undecided.append(group)
+            _remove(result, [group], kinds)
+            continue
+        for kind in kinds:
+            for solution in getattr(local, kind):
+                solution.point = solution.point + centring.point
+        result.evaluations += local.evaluations
+        centre = scaling.to_computed(centring.point[None, :])[0]
+        first = [s for kind in kinds for s in getattr(result, kind)]
+        second = [s for kind in kinds for s in getattr(local, kind)]
+        radius = _region_radius(scaling, centre, distance / 2, first + second)
+        first_in = [s for s in first if radius is not None and _within(scaling, centre, radius, s)]
+        second_in = [s for s in second if radius is not None and _within(scaling, centre, radius, s)]
+        first_paths = sum(s.multiplicity for s in first_in)
+        settled = (radius is not None and any(group is s for s in first_in)
+                   and first_paths == sum(s.multiplicity for s in second_in))
+        records.append({"centre": short_point(centring.point), "radius_computed_units": radius,
+                        "paths_first_run": first_paths, "paths_centred_run": sum(s.multiplicity for s in second_in),
+                        "centred_run_failed_paths": local.path_counts()["failed"], "settled": settled})
+        if not settled:
+            doubtful = [s for s in first_in if (s.multiplicity > 1 or s.winding > 1) and s is not group]
+            doubtful = [s for s in [group] + doubtful if any(s is t for t in result.solutions)]
+            _remove(result, doubtful, ("solutions",))
+            result.undecided.extend(doubtful)
+            continue
+        # the first run's paths that ended in the region, shared out in order (the centred run numbers its own)
+        pooled = np.sort(np.concatenate([np.asarray(s.paths, dtype=np.int64) for s in first_in]))
+        _remove(result, first_in, kinds)
+        start = 0
+        for kind in kinds:
+            for solution in getattr(local, kind):
+                if any(solution is s for s in second_in):
+                    solution.paths = pooled[start:start + solution.multiplicity]
+                    start += solution.multiplicity
+                    getattr(result, kind).append(solution)
+    if records:  # absent when nothing was centred, as in a saved result read back
+        result.extra["centred"] = records
+
+
+def _newton_steps(system, scaling, points):
+    """The length of one Newton step on F at each point, relative to the point's size (both in computed units)."""
+    values, jacobians = BatchEvaluator(system.polynomials).evaluate(points)
+    with np.errstate(all="ignore"):
+        try:  # square and regular at regular endpoints: a batched solve (a tenth of the least squares' time)
+            steps = np.linalg.solve(jacobians, values[:, :, None])[:, :, 0]
+        except np.linalg.LinAlgError:
+            steps = batched_least_squares(jacobians, values)
+        moved = scaling.to_computed(points - steps) - scaling.to_computed(points)
+        size = 1 + np.linalg.norm(scaling.to_computed(points), axis=1)
+        return np.linalg.norm(moved, axis=1) / size
+
+
+def _not_converged(result):
+    """Regular endpoints (one path each) where one Newton step on F moves the point farther than a root's own error.
+
+    A Cauchy endgame whose circle encloses the branch points of two close roots far from the origin averages
+    them; the mean passes the residual test in units of the terms (F cancels there from terms of the size of the
+    coordinates' powers) without being a root (decision 0081). At a root the step is rounding.
+    """
+    single = [s for s in result.solutions if s.multiplicity == 1 and s.winding <= 1]
+    if not single or result.system.n_equations != result.system.n_variables:
+        return []
+    points = np.array([np.asarray(s.point, dtype=complex) for s in single])
+    steps = _newton_steps(result.system, result.scaling, points)
+    return [s for s, step in zip(single, steps) if not step <= _NEWTON_STEP]
+
+
+def _within(scaling, centre, radius, solution):
+    """Whether ``solution`` lies within ``radius`` of ``centre`` (both in computed units)."""
+    return float(np.linalg.norm(scaling.to_computed(np.asarray(solution.point, complex)[None, :])[0] - centre)) \
+        <= radius
+
+
+def _region_radius(scaling, centre, largest, solutions):
+    """A radius at most ``largest`` with no solution within ``_BORDER_FACTOR`` of it (None: none found)."""
+    if not solutions:
+        return largest
+    points = scaling.to_computed(np.array([np.asarray(s.point, complex) for s in solutions]))
+    distances = np.linalg.norm(points - centre[None, :], axis=1)
+    radius = largest
+    for _ in range(_RADIUS_HALVINGS):
+        if not np.any((distances >= radius / _BORDER_FACTOR) & (distances <= radius * _BORDER_FACTOR)):
+            return radius
+        radius /= 2
+    return None
+
+
+def _remove(result, solutions, kinds):
+    """Take ``solutions`` out of the result's lists named by ``kinds`` (compared by identity)."""
+    for kind in kinds:
+        setattr(result, kind, [s for s in getattr(result, kind) if not any(s is t for t in solutions)])
 
 
 def continue_solutions(start_system, start_points, target_system, options=None, seed=None, progress=None):

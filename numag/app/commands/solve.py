@@ -77,6 +77,13 @@ def _print_solve(result, out, data=None):
         for rejected in execution.get("batches_rejected", []):
             out.write(f"  batch {rejected['index']} of the run folder was not trusted and was tracked again: "
                       f"{rejected['reason']}\n")
+    for record in result.extra.get("centred") or []:  # decision 0081: the paths there are those of the first run
+        if record["settled"]:
+            verdict = f"{record['paths_first_run']} paths nearby in both runs, settled"
+        else:
+            verdict = "not settled (" + (record.get("reason") or f"{record['paths_first_run']} paths nearby in the first "
+                                         f"run, {record['paths_centred_run']} in the centred one") + ")"
+        out.write(f"centred at {record['centre']}: a multiple group solved again there, {verdict}\n")
     if result.squared_up:
         out.write("note: more equations than unknowns; random combinations were tracked and every "
                   f"solution was kept only if it satisfies all equations ({len(result.discarded)} discarded)\n")
@@ -105,6 +112,11 @@ def _print_solve(result, out, data=None):
                   f"{'does' if len(result.unverified) == 1 else 'do'} not satisfy the "
                   "equations after refinement (not counted as solutions):\n")
         for s in result.unverified:
+            out.write(f"        paths {s.multiplicity}  {text(names, s.point, _WITNESS_ACCURACY)}\n")
+    if result.undecided:  # decision 0081: centred coordinates did not confirm these multiple groups
+        out.write(f"\n{_counted(len(result.undecided), 'multiple endpoint group')} away from the origin "
+                  "not settled in centred coordinates (not counted as solutions):\n")
+        for s in result.undecided:
             out.write(f"        paths {s.multiplicity}  {text(names, s.point, _WITNESS_ACCURACY)}\n")
     _print_warnings(data, out)
     _print_certification(data, out)
