@@ -80,9 +80,10 @@ FORMULATIONS = Formulation.texts()
 #: quartic); at 15, a wrong choice costs at most about twice the witness sets' time.
 SQUARE_ROUTE_PATH_COST = 15
 #: Where the endgame of the candidate systems' regeneration moves (product of linear forms -> equation) starts:
-#: the six-bar's minors settled their 64 paths to X's points at infinity and 12 to its folds at radii 4e-4 to
-#: 6e-6, after 5 to 7 rounds of up to six loops each from 0.1 (decision 0085).
-CANDIDATE_ENDGAME_RADIUS = 1e-3
+#: the six-bar's minors settled their 64 paths to X's points at infinity and 12 to its folds only at radii 4e-4 to
+#: 6e-6, after 5 to 7 rounds of up to six loops each from 0.1. Not smaller: from 5e-3 down, paths into the
+#: rank <= 1 3 x 3 matrices' point of multiplicity 146 stopped at the minimum step on the way (decision 0085).
+CANDIDATE_ENDGAME_RADIUS = 1e-2
 
 
 @dataclass(frozen=True)

@@ -82,7 +82,7 @@ class WitnessOptions:
     moved_endgame_radius : float, optional
         Where the Cauchy endgame of the regeneration's moves from a product of linear forms to an equation
         starts, when smaller than the tracker's ``endgame_radius`` (None: the tracker's). The singular locus
-        decomposes its candidate systems with 1e-3: their multiple endpoints (the singular points, and X's
+        decomposes its candidate systems with 1e-2: their multiple endpoints (the singular points, and X's
         points at infinity, where the minors vanish to high order) settled only at radii of 1e-3 to 1e-5,
         after rounds of up to six loops at every larger radius (decision 0085).
     """
