@@ -34,7 +34,7 @@ from checkout import ROOT
 
 sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
 from bench_scale import _child_environment, _system_file  # noqa: E402
-from bench_yardstick import plain_tracker, quadrics  # noqa: E402
+from bench_yardstick import PlainQuadrics, plain_tracker, quadrics  # noqa: E402
 
 #: (label, module, attribute path) of the wrapped functions, in the order printed.
 PHASES = [("reading", "numag.system.parse", "parse_system"),
@@ -150,38 +150,30 @@ def _counts(n):
     import numpy as np
     from threadpoolctl import threadpool_limits
 
-    from numag.numeric.evaluate import BatchEvaluator
     from numag.tracking import homotopy
     from numag.tracking.solve import solve_system
 
     system, paths = quadrics(n, 7), 2 ** n
-    rows = {"plain": 0, "full": 0, "values": 0}
-    original = BatchEvaluator.evaluate, homotopy.StraightLineHomotopy.evaluate, \
-        homotopy.StraightLineHomotopy.evaluate_values
-
-    def plain_rows(self, points, jacobian=True):
-        rows["plain"] += len(points)
-        return original[0](self, points, jacobian)
+    rows = {"full": 0, "values": 0}
+    original = homotopy.StraightLineHomotopy.evaluate, homotopy.StraightLineHomotopy.evaluate_values
 
     def full_rows(self, points, s):
         rows["full"] += len(points)
-        return original[1](self, points, s)
+        return original[0](self, points, s)
 
     def value_rows(self, points, s):
         rows["values"] += len(points)
-        return original[2](self, points, s)
+        return original[1](self, points, s)
 
+    plain = PlainQuadrics(system)  # the yardstick's own evaluator counts its rows
     with threadpool_limits(limits=1):
-        BatchEvaluator.evaluate = plain_rows
-        try:
-            plain_tracker(system, 7)
-        finally:
-            BatchEvaluator.evaluate = original[0]
+        plain_tracker(system, 7, plain)
+        rows["plain"] = plain.rows
         homotopy.StraightLineHomotopy.evaluate, homotopy.StraightLineHomotopy.evaluate_values = full_rows, value_rows
         try:
             result = solve_system(system, seed=7)
         finally:
-            homotopy.StraightLineHomotopy.evaluate, homotopy.StraightLineHomotopy.evaluate_values = original[1:]
+            homotopy.StraightLineHomotopy.evaluate, homotopy.StraightLineHomotopy.evaluate_values = original
     # the plain tracker makes 7 evaluations a step (4 stages, 3 Newton corrections), every one with J
     steps = float(np.mean(result.steps))
     return {"plain steps": rows["plain"] / 7 / paths, "plain evaluations": rows["plain"] / paths,

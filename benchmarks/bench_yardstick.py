@@ -2,12 +2,12 @@
 
 Run:  python benchmarks/bench_yardstick.py [--n 10]
 
-The plain tracker is the yardstick of the tracker issue: an RK4 predictor,
-three Newton corrections, step halving and doubling, affine coordinates, no
-endgame, one BLAS thread, the same evaluation code. Both track the 2^n paths
-of n dense quadrics in n unknowns with real random coefficients. numag does
-more (projective coordinates, endgame, classification, clustering) and should
-still be at least 3 times faster.
+The plain tracker is the yardstick of issue 19: an RK4 predictor, three Newton corrections, step halving and
+doubling, affine coordinates, no endgame, one BLAS thread, and its own straightforward numpy evaluation of the
+dense quadrics (:class:`PlainQuadrics`: f_i(x) = c_i + b_i . x + x^T A_i x and its Jacobian from the coefficient
+arrays, written here; it does not use numag's evaluator, so a faster numag evaluator shows in the ratio; decision
+0085). Both track the 2^n paths of n dense quadrics in n unknowns with real random coefficients. numag does more
+(projective coordinates, endgame, classification, clustering).
 """
 
 import argparse
@@ -18,7 +18,6 @@ import numpy as np
 from threadpoolctl import threadpool_limits
 
 import checkout  # noqa: F401  (this checkout's numag, not an installed one)
-from numag.numeric.evaluate import BatchEvaluator
 from numag.system.parse import parse_system
 from numag.tracking.solve import solve_system
 
@@ -32,11 +31,66 @@ def quadrics(n, seed):
     return parse_system(equations, names)
 
 
-def plain_tracker(system, seed):
-    """The yardstick: affine straight-line homotopy, RK4 + 3 Newton steps, halve/double step control."""
+class PlainQuadrics:
+    """Dense quadrics f_i(x) = c_i + b_i . x + x^T A_i x evaluated by two numpy products (the yardstick's own).
+
+    The coefficients are read once from the system's terms (degree <= 2); values and the Jacobian
+    (J_i = b_i + x^T (A_i + A_i^T)) are then plain array arithmetic, nothing of numag's.
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> quadric = PlainQuadrics(parse_system(["1 + 2*x + 3*x*y - y^2"], ["x", "y"]))
+    >>> values, jacobian = quadric.evaluate(np.array([[1.0 + 0j, 2.0]]))
+    >>> values.real.tolist(), jacobian.real.tolist()
+    ([[5.0]], [[[8.0, -1.0]]])
+    """
+
+    def __init__(self, system):
+        n = system.n_variables
+        count = len(system.polynomials)
+        self.constant = np.zeros(count, dtype=complex)
+        self.linear = np.zeros((count, n), dtype=complex)
+        self.quadratic = np.zeros((count, n, n), dtype=complex)
+        for i, polynomial in enumerate(system.polynomials):
+            polynomial = polynomial.numeric()
+            for exponent, coefficient in zip(polynomial.exponents, polynomial.coefficients):
+                places = np.repeat(np.arange(n), exponent)  # the variables of the monomial, with repeats
+                if len(places) == 0:
+                    self.constant[i] += coefficient
+                elif len(places) == 1:
+                    self.linear[i, places[0]] += coefficient
+                elif len(places) == 2:
+                    self.quadratic[i, places[0], places[1]] += coefficient
+                else:
+                    raise ValueError(f"equation {i + 1} is not a quadric")
+        # x^T A_i for every i in one product: the matrices side by side, (n, m n)
+        self.left = self.quadratic.transpose(1, 0, 2).reshape(n, count * n)
+        symmetric = self.quadratic + self.quadratic.transpose(0, 2, 1)  # d(x^T A x)/dx = x^T (A + A^T)
+        self.symmetric = symmetric.transpose(1, 0, 2).reshape(n, count * n)
+        self.shape = (count, n)
+        self.rows = 0  # points evaluated (the profile's count of evaluation rows)
+
+    def evaluate(self, points):
+        """Values (P, m) and Jacobians (P, m, n) at ``points`` (P, n)."""
+        self.rows += len(points)
+        count = len(points)
+        gradients = self.linear + (points @ self.symmetric).reshape((count,) + self.shape)
+        # x^T A x + b . x + c = (b + x^T A) . x + c
+        half = self.linear + (points @ self.left).reshape((count,) + self.shape)
+        values = self.constant + (half @ points[:, :, None])[:, :, 0]
+        return values, gradients
+
+
+def plain_tracker(system, seed, evaluator=None):
+    """The yardstick: affine straight-line homotopy, RK4 + 3 Newton steps, halve/double step control.
+
+    ``evaluator``: a :class:`PlainQuadrics` of ``system`` (made here when not given; a caller passes its own to
+    count the evaluation rows).
+    """
     rng = np.random.default_rng(seed)
     n = system.n_variables
-    evaluator = BatchEvaluator(system.polynomials)
+    evaluator = PlainQuadrics(system) if evaluator is None else evaluator
     gamma = np.exp(2j * np.pi * rng.random())
     roots = np.array(list(itertools.product([1, -1], repeat=n)), dtype=complex)  # x_i^2 - 1 = 0
     x, s = roots.copy(), np.ones(len(roots))

@@ -80,6 +80,11 @@ FORMULATIONS = Formulation.texts()
 #: (cone over a plane cubic), 27 (Kummer's quartic); at 15, a wrong choice costs at most about twice the
 #: witness sets' time.
 SQUARE_ROUTE_PATH_COST = int(estimated_cost(StartKind.MULTIHOMOGENEOUS, 1, singular_endpoints=1))
+#: Where the endgame of the candidate systems' regeneration moves (product of linear forms -> equation) starts:
+#: the six-bar's minors settled their 64 paths to X's points at infinity and 12 to its folds only at radii 4e-4 to
+#: 6e-6, after 5 to 7 rounds of up to six loops each from 0.1. Not smaller: from 5e-3 down, paths into the
+#: rank <= 1 3 x 3 matrices' point of multiplicity 146 stopped at the minimum step on the way (decision 0085).
+CANDIDATE_ENDGAME_RADIUS = 1e-2
 
 
 @dataclass(frozen=True)
@@ -797,6 +802,9 @@ def _affine(system, options, rng, paths, discarded, progress, notes_out=None, ro
             decompose_options = options.decompose.with_start(
                 options.start, null_vector_groups(augmented, n), GroupSource.NULL_VECTOR) \
                 if kind is CandidateSystem.NULL_VECTOR else options.decompose
+            # the candidates' multiple endpoints settle only at small radii (decision 0085)
+            decompose_options = replace(decompose_options, witness=replace(
+                decompose_options.witness, moved_endgame_radius=CANDIDATE_ENDGAME_RADIUS))
             candidates = decompose(augmented, decompose_options, seed=int(rng.integers(2**32)), progress=progress)
             if routes and routes[-1]["codimension"] == codimension:
                 routes[-1]["regeneration"] = candidates.extra.get("start")

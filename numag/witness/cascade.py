@@ -30,7 +30,7 @@ Examples
 [(1, 1), (2, 1)]
 """
 
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 import math
 
 import numpy as np
@@ -79,6 +79,12 @@ class WitnessOptions:
         Variable names per group for a start other than total degree (default: the best grouping found).
     group_source : GroupSource
         Where ``groups`` come from (reported).
+    moved_endgame_radius : float, optional
+        Where the Cauchy endgame of the regeneration's moves from a product of linear forms to an equation
+        starts, when smaller than the tracker's ``endgame_radius`` (None: the tracker's). The singular locus
+        decomposes its candidate systems with 1e-2: their multiple endpoints (the singular points, and X's
+        points at infinity, where the minors vanish to high order) settled only at radii of 1e-3 to 1e-5,
+        after rounds of up to six loops at every larger radius (decision 0085).
     """
 
     lowest_dimension: int | None = None
@@ -90,6 +96,7 @@ class WitnessOptions:
     start: StartKind = StartKind.TOTAL_DEGREE
     groups: tuple | None = None
     group_source: GroupSource = GroupSource.FILE
+    moved_endgame_radius: float | None = None
 
     def __post_init__(self):
         """Refuse a bad value on construction, naming the option (the system's bounds: :meth:`validated`)."""
@@ -106,6 +113,9 @@ class WitnessOptions:
             require_option(is_number(value) and 0 < value < 1, name, "in (0, 1)", value)
         require_option(is_integer(self.batch_size) and self.batch_size >= 1, "batch_size", "positive",
                        self.batch_size)
+        require_option(self.moved_endgame_radius is None or (is_number(self.moved_endgame_radius)
+                                                             and 0 < self.moved_endgame_radius <= 1),
+                       "moved_endgame_radius", "in (0, 1]", self.moved_endgame_radius)
 
     def validated(self, n_variables):
         """Check the options against the number of variables; raise InputError naming the bad option."""
@@ -670,14 +680,16 @@ def _regenerate(slicing, before, index, codim, points, options, deflate=True):
     # the product of deg f linear forms is evaluated as a product: written out it has up to C(n + deg f, n) terms
     # (3,003 for five forms in eleven coordinates cost 20 times the target's rows)
     product = LinearFormProduct(moved_rows)
+    tracker = options.tracker if options.moved_endgame_radius is None else replace(
+        options.tracker, endgame_radius=min(options.tracker.endgame_radius, options.moved_endgame_radius))
     if evaluated:  # the combinations (same weights) and then f are the held rows, f starting from the product
-        run = track_moves(rest, rest, starts, slicing.rng, options.tracker, options.batch_size,
+        run = track_moves(rest, rest, starts, slicing.rng, tracker, options.batch_size,
                           whole_cycles=True, held=with_f, held_start=[None] * (with_f.count - 1) + [product])
     else:
         f = slicing.homogeneous[index]
         if degree > f.degree:  # group degrees adding up to more than f's: raised to the product's degree
             f = f * Polynomial.variable(0, n + 1).numeric().power(degree - f.degree)
-        run = track_moves(held + [product] + rest, held + [f] + rest, starts, slicing.rng, options.tracker,
+        run = track_moves(held + [product] + rest, held + [f] + rest, starts, slicing.rng, tracker,
                           options.batch_size, whole_cycles=True, held=block)
     # a point reached only by a broken cycle is still a point of V(held, f): kept (its paths counted as jumped)
     return run.affine_endpoints(jumped_limits=True), lost, paths + run.counts, run.status

@@ -5,7 +5,7 @@ are split into irreducible components:
 
 * **monodromy**: the slice is moved around a random loop (to a random slice and
   back, each leg with its own gamma); witness points that swap lie on the same
-  component; the swaps are edges of a networkx graph whose connected components
+  component; the swaps are edges of a graph whose connected components
   are the candidate groups;
 * **trace test** (Sommese, Verschelde, Wampler, "Symmetric functions applied to
   decomposing solution sets of polynomial systems", SIAM J. Numer. Anal. 2002):
@@ -45,7 +45,7 @@ from ..errors import InputError, LimitError, is_integer, is_number, require_opti
 from ..system.display import counted, html_table, short_point
 from ..system.centred import centre_near, centred_system, translated_terms
 from ..system.polynomial import Polynomial, PolynomialSystem, linear_space, require_numeric
-from ..numeric.cluster import cluster_labels
+from ..numeric.cluster import cluster_labels, connected_components, groups as label_groups
 from ..numeric.evaluate import BatchEvaluator, TermSizes
 from ..numeric.minors import (CombinedRows, EvaluatedMinors, AugmentedEvaluator, MinorsSystem, MinorWeights,
                               equation_evaluator, expanded_minors, random_minor_weights)
@@ -421,19 +421,77 @@ class _Mover:
 
 
 def _match(ends, points, tolerance):
-    """Index of the point each endpoint landed on (-1: none within the tolerance)."""
+    """Index of the point each endpoint landed on (-1: none within the tolerance).
+
+    Witness sets are small (a few hundred points at most in the usual run): the nearest point is found from all
+    the distances, in blocks, without scipy, whose k-d tree cost a fifth of a second of import in every
+    decomposition (decision 0085); many points and endpoints together still go to the k-d tree.
+
+    Examples
+    --------
+    >>> points = np.array([[0.0 + 0j, 1.0], [2.0, 0.0]])
+    >>> _match(np.array([[2.0 + 1e-9j, 0.0], [5.0, 5.0], [np.nan, 0.0]]), points, 1e-6).tolist()
+    [1, -1, -1]
+    """
     result = np.full(len(ends), -1, dtype=np.int64)
     good = np.all(np.isfinite(ends), axis=1)
-    if not np.any(good):
+    if not np.any(good) or len(points) == 0:
         return result
-    from scipy.spatial import cKDTree  # imported where used: `import numag` stays fast
-
-    tree = cKDTree(np.column_stack([points.real, points.imag]))
+    stacked = np.column_stack([points.real, points.imag])
     query = ends[good]
-    distance, index = tree.query(np.column_stack([query.real, query.imag]))
+    query = np.column_stack([query.real, query.imag])
+    if len(query) * len(stacked) <= _MATCH_PAIRS:
+        index = np.empty(len(query), dtype=np.int64)
+        block = max(1, _MATCH_BLOCK // len(stacked))
+        for first in range(0, len(query), block):
+            here = query[first:first + block]
+            index[first:first + block] = np.argmin(
+                np.sum((here[:, None, :] - stacked[None, :, :]) ** 2, axis=2), axis=1)
+        distance = np.linalg.norm(query - stacked[index], axis=1)
+    else:
+        from scipy.spatial import cKDTree  # imported where used: `import numag` stays fast
+
+        distance, index = cKDTree(stacked).query(query)
     scale = 1 + np.linalg.norm(points[index], axis=1)
     result[np.nonzero(good)[0]] = np.where(distance <= tolerance * scale, index, -1)
     return result
+
+
+#: Up to this many (endpoint, witness point) pairs :func:`_match` compares all distances (numpy, no scipy), in
+#: blocks of about :data:`_MATCH_BLOCK` pairs.
+_MATCH_PAIRS = 4_000_000
+_MATCH_BLOCK = 65_536
+
+
+class _Swaps:
+    """Witness points joined by monodromy (a swap seen on a loop) or by the trace test: the edges, and the groups
+    they make (connected components, in the order of their smallest points, members increasing).
+
+    numpy's label propagation (:func:`~numag.numeric.cluster.connected_components`) instead of a networkx graph,
+    whose import cost 0.07 s of every decomposition (decision 0085).
+
+    Examples
+    --------
+    >>> swaps = _Swaps(4)
+    >>> swaps.add_edge(3, 1)
+    >>> swaps.groups(), swaps.count()
+    ([[0], [1, 3], [2]], 3)
+    """
+
+    def __init__(self, size):
+        self.size = size
+        self.edges = []
+
+    def add_edge(self, a, b):
+        self.edges.append((int(a), int(b)))
+
+    def groups(self):
+        """The groups, each a sorted list of point indices."""
+        return [m.tolist() for m in label_groups(connected_components(self.size, self.edges))]
+
+    def count(self):
+        """The number of groups."""
+        return len(self.groups())
 
 
 def _trace_defects(mover, points, rng, tolerance):
@@ -458,18 +516,14 @@ def _trace_defects(mover, points, rng, tolerance):
 def _split(mover, points, rng, options, loops_run):
     """Groups of witness point indices, each confirmed or not, and their relative defects."""
     count = len(points)
-    import networkx as nx  # imported where used: `import numag` and `numag --help` stay fast
-
-    graph = nx.Graph()
-    graph.add_nodes_from(range(count))
+    graph = _Swaps(count)
     if count == 1:
         return [([0], True, 0.0)]
     defects, scale = _trace_defects(mover, points, rng, options.trace_tolerance)
 
     def status():
         result = []
-        for group in nx.connected_components(graph):
-            group = sorted(group)
+        for group in graph.groups():
             if defects is None:
                 result.append((group, False, float("nan")))
             else:
@@ -492,11 +546,11 @@ def _split(mover, points, rng, options, loops_run):
             back[good] = mover.move(there[good], away, mover.slice_rows, detour=True)
         landed = _match(back, points, 1e-6)
         loops += 1
-        before = nx.number_connected_components(graph)
+        before = graph.count()
         for source, target in zip(open_points, landed):
             if target >= 0:
                 graph.add_edge(int(source), int(target))
-        quiet = quiet + 1 if nx.number_connected_components(graph) == before else 0
+        quiet = quiet + 1 if graph.count() == before else 0
         if quiet >= options.stall_loops and defects is not None:
             quiet = 0
             _join_by_trace(graph, status(), defects, scale, options.trace_tolerance)
