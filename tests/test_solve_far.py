@@ -137,8 +137,8 @@ def test_a_region_the_runs_disagree_on_is_undecided(monkeypatch, tmp_path):
     solve = solve_module._solve
     calls = []
 
-    def losing(system, *args):
-        found = solve(system, *args)
+    def losing(system, *args, **keywords):
+        found = solve(system, *args, **keywords)
         calls.append(system)
         if len(calls) > 1:
             found.solutions = found.solutions[1:]
@@ -151,6 +151,9 @@ def test_a_region_the_runs_disagree_on_is_undecided(monkeypatch, tmp_path):
     # the first run's multiple group (at seed 1 all three paths end together) is undecided, nothing else is
     assert len(result.undecided) == 1 and result.undecided[0].multiplicity > 1
     assert all(s.multiplicity == 1 for s in result.solutions)
+    # its paths count as failed, so that callers which read only the path counts (singular loci, witness sets)
+    # report the gap too
+    assert result.path_counts()["failed"] == result.undecided[0].multiplicity
     data = solve_report_to_dict(result, result.options)
     assert any("could not be settled in coordinates centred there" in w for w in completeness_warnings(data))
     back, _ = solve_report_from_dict(data)

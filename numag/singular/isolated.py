@@ -203,7 +203,9 @@ def isolated_singular_points(system, start="multihomogeneous", seed=None, option
     seed, rng = random_state(seed)
     square, full, groups_of = square_null_vector_system(system, rng)
     kind = StartKind.parse(start)
-    options = SolveOptions(**{**(options or SolveOptions()).__dict__, "start": kind.value,
+    # no second look of solve's own (decision 0081): every candidate here is a multiple endpoint, judged by the
+    # locus in centred coordinates where in doubt (decision 0071)
+    options = SolveOptions(**{**(options or SolveOptions()).__dict__, "start": kind.value, "second_look": False,
                               "groups": tuple(tuple(g) for g in groups_of)
                               if kind in (StartKind.MULTIHOMOGENEOUS, StartKind.AUTO) else None})
     result = solve_system(square, options, seed=int(rng.integers(2**32)))

@@ -52,7 +52,7 @@ import numpy as np
 from ..kinds import TextEnum
 from ..errors import InputError, PointError, is_integer, is_number, require_option
 from ..system.display import html_table, short_point
-from ..system.centred import centre_near, centred_system, translated_terms
+from ..system.centred import CENTRED_BALANCING_FLOOR, centre_near, centred_system, translated_terms
 from ..system.exact import ExactCoefficient
 from ..system.polynomial import PolynomialSystem, require_numeric
 from ..numeric.cluster import line_distance, normalize_projective, projective_pivot
@@ -63,7 +63,7 @@ from ..numeric.refine import (RankDropSystem, ZeroKind, mp_gauss_newton, newton_
                               rank_drop_points)
 from ..numeric.scaling import Scaling
 from ..numeric.seeds import random_state
-from ..witness.decompose import CENTRED_BALANCING_FLOOR, CENTRING_TERMS, components_through_points
+from ..witness.decompose import CENTRING_TERMS, components_through_points
 from .kinds import CoefficientPrecision, JudgedPoint, LocalDimensionSource, Verdict
 from .nearness import (backward_error, coefficient_precision, input_tolerance, nearest_backward_error,
                        point_precision)

@@ -27,7 +27,14 @@ import numpy as np
 from .exact import ExactCoefficient
 from .polynomial import Polynomial, PolynomialSystem
 
-__all__ = ["Centring", "centre_near", "centred_system", "translated_terms", "within"]
+__all__ = ["CENTRED_BALANCING_FLOOR", "Centring", "centre_near", "centred_system", "translated_terms",
+           "within"]
+
+#: The balancing of a centred system leaves out terms below this fraction of the largest of their polynomial
+#: (:meth:`~numag.numeric.scaling.Scaling.balancing`): the centre is rounded to 12 digits of the point, and a
+#: coordinate that is zero up to rounding (1e-11) leaves terms of that size, which must not set the units
+#: (decisions 0081, 0084).
+CENTRED_BALANCING_FLOOR = 1e-8
 
 
 @dataclass(frozen=True)

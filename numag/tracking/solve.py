@@ -30,7 +30,7 @@ from threadpoolctl import threadpool_limits
 from ..errors import InputError, LimitError, is_integer, is_number, require_option
 from ..version import __version__
 from ..system.display import counted, html_table, short_point
-from ..system.centred import centre_near, centred_system
+from ..system.centred import CENTRED_BALANCING_FLOOR, centre_near, centred_system
 from ..system.polynomial import PolynomialSystem, require_numeric
 from ..run.checkpoint import RunFolder, manifest_fingerprints
 from ..run.executor import ambient_executor, charge_paths, check_memory, current_executor, make_executor
@@ -97,6 +97,10 @@ class SolveOptions:
         "auto" (see :mod:`numag.tracking.starts`).
     groups : tuple of tuple of str, optional
         Variable groups of the multihomogeneous start (default: the grouping with the smallest count).
+    second_look : bool
+        Solve again in centred coordinates where a multiple group lies away from the origin (decision 0081).
+        Off inside the singular locus's square null-vector route, whose candidates are all multiple and are
+        judged there in centred coordinates already (decision 0071).
     """
 
     tracker: TrackerOptions = TrackerOptions()
@@ -106,6 +110,7 @@ class SolveOptions:
     batch_size: int = 4096
     start: str = "total-degree"
     groups: tuple = None
+    second_look: bool = True
 
     def __post_init__(self):
         """Refuse a bad value on construction, naming the option."""
@@ -349,17 +354,17 @@ def solve_system(system, options=None, seed=None, progress=None, execution=None)
     """
     options = (options or SolveOptions()).validated()
     result = _solve(system, options, seed, progress, execution)
-    if not system.projective:
+    if options.second_look and not system.projective:
         _multiple_groups_centred(result, options, progress, execution or Execution())
     return result
 
 
-def _solve(system, options, seed, progress, execution):
-    """:func:`solve_system` without the centred second look."""
+def _solve(system, options, seed, progress, execution, balancing_floor=None):
+    """:func:`solve_system` without the centred second look (``balancing_floor``: see ``Scaling.balancing``)."""
     require_numeric(system, allow_zero=False)
     seed, rng = random_state(seed)
     started = time.perf_counter()
-    scaling = Scaling.balancing(system)
+    scaling = Scaling.balancing(system, balancing_floor)
     computed = scaling.scale_system(system)
     target, squared = _square_target(computed, options, rng)
     choice = choose_start(target, StartKind.parse(options.start), options.groups, rng)
@@ -469,7 +474,7 @@ def _multiple_groups_centred(result, options, progress, execution):
                      f"{short_point(centring.point)}")
         try:
             local = _solve(centred_system(system, centring), options, result.seed, None,
-                           Execution(executor=execution.executor))
+                           Execution(executor=execution.executor), balancing_floor=CENTRED_BALANCING_FLOOR)
         except LimitError as err:  # the centred polynomial is too large to write: the group stays undecided
             records.append({"centre": short_point(centring.point), "settled": False, "reason": str(err)})
             result.undecided.append(group)
@@ -509,6 +514,10 @@ def _multiple_groups_centred(result, options, progress, execution):
                     getattr(result, kind).append(solution)
     if records:  # absent when nothing was centred, as in a saved result read back
         result.extra["centred"] = records
+    for group in result.undecided:
+        # the two runs disagree there: the first run's endgame did not settle the region. Counted as failed
+        # paths, so that every caller (singular loci, witness sets, families) reports the gap, not only `solve`
+        result.status[np.asarray(group.paths, dtype=np.int64)] = PathStatus.FAILED_ENDGAME
 
 
 def _newton_steps(system, scaling, points):

@@ -43,7 +43,7 @@ import numpy as np
 
 from ..errors import InputError, LimitError, is_integer, is_number, require_option
 from ..system.display import counted, html_table, short_point
-from ..system.centred import centre_near, centred_system, translated_terms
+from ..system.centred import CENTRED_BALANCING_FLOOR, centre_near, centred_system, translated_terms
 from ..system.polynomial import Polynomial, PolynomialSystem, linear_space, require_numeric
 from ..numeric.cluster import cluster_labels, connected_components, groups as label_groups
 from ..numeric.evaluate import BatchEvaluator, TermSizes
@@ -940,9 +940,6 @@ def components_through(decomposition, point, seed=0, options=None):
 #: too large to write out, and membership (and the non-reduced sampling of :mod:`numag.singular.smoothness`) run
 #: in the system's own units as before decision 0084.
 CENTRING_TERMS = 20000
-#: The balancing of a centred system leaves out terms below this fraction of the largest of their polynomial
-#: (:meth:`~numag.numeric.scaling.Scaling.balancing`): the centre is rounded to 12 digits of the point.
-CENTRED_BALANCING_FLOOR = 1e-8
 
 
 def _centred_at(decomposition, point):
