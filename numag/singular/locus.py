@@ -424,6 +424,11 @@ def singular_locus(system, options=None, seed=None, progress=None):
     seed = resolved_seed(seed)
     locus, dropped = _in_user_units(system, options, seed, progress)
     if not system.projective:
+        centring = _far_centring(locus, dropped)
+        if centring is not None:  # the candidates sit far from the origin relative to their spread (decision 0083)
+            whole = _computed_centred(system, options, seed, progress, locus, centring)
+            if whole is not None:
+                return whole
         _judged_centred(system, options, seed, progress, locus, dropped)
     return locus
 
@@ -450,6 +455,106 @@ def _in_user_units(system, options, seed, progress):
                                                                                 candidate.refined]))
     locus.options = options
     return locus, dropped
+
+
+#: The first run's singular candidates whose centre lies farther from the origin than this many times their spread
+#: are computed again, all of them, in coordinates centred there (decision 0083). Ratios met: two circles of radius
+#: 5 about (c, -2c), (c + 6, -2c) give about 0.5 at c = 0, 5 at c = 12, 46 at c = 123, 460 at c = 1234.
+_FAR_RATIO = 10
+
+
+def _far_centring(locus, dropped):
+    """Where to centre the whole computation when the first run's candidates sit far from the origin, or None.
+
+    The candidates (singular points kept, isolated candidates dropped, wherever they were) mark where X's singular
+    features are; their bounding box says how large that region is. When its centre lies more than
+    ``_FAR_RATIO`` times the region's radius from the origin, double precision sees the features through
+    cancellations of terms of the size of the distance (two circles of radius 5 about (1234, -2468): both nodes
+    lost to failed paths, or silently). The centre is an exact decimal on a grid a tenth of the region's
+    radius, so the centred coefficients stay short (integers for the circles). The rule is translation- and
+    scale-free: only the ratio of the distance to the spread counts. Fewer than two distinct candidates tell no
+    spread: None (decision 0071's look at doubtful candidates remains).
+
+    Examples
+    --------
+    >>> from types import SimpleNamespace
+    >>> far = SimpleNamespace(components=[])
+    >>> points = [np.array([1231.17, -2468.0]), np.array([1242.83, -2468.0]), np.array([1237.0, -2468.0])]
+    >>> dropped = [_Dropped(p, p, 1) for p in points]
+    >>> [c.to_text() for c in _far_centring(far, dropped).centre]
+    ['1237', '-2468']
+    >>> _far_centring(far, [_Dropped(p - points[2], p, 1) for p in points]) is None  # the same at the origin
+    True
+    """
+    points = [c.points[0] for c in locus.components if not c.at_infinity and c.dimension == 0 and len(c.points)]
+    points += [d.candidate for d in dropped if d.dimension == 0]
+    points = np.array([p for p in points if np.all(np.isfinite(p))], dtype=complex)
+    if len(points) < 2:
+        return None
+    centre = (points.real.min(0) + points.real.max(0)) / 2 + 1j * (points.imag.min(0) + points.imag.max(0)) / 2
+    spread = float(np.max(np.linalg.norm(points - centre[None, :], axis=1)))
+    distance = float(np.linalg.norm(centre))
+    if spread <= _DUPLICATE_RADIUS * (1 + distance) or distance <= _FAR_RATIO * spread:
+        return None
+    if np.linalg.norm(centre.imag) <= spread:  # a real centre keeps real equations real (conjugate pairs)
+        centre = centre.real.astype(complex)
+    # a grid of 10^floor(log10(spread / 10)) moves the centre by 5% of the spread at most (centre_near's digits
+    # count from the centre's size)
+    digits = int(np.ceil(np.log10(1 + distance))) - int(np.floor(np.log10(spread / 10)))
+    return centre_near(centre, np.inf, digits=digits)
+
+
+def _computed_centred(system, options, seed, progress, first, centring):
+    """The whole singular locus computed in coordinates centred at ``centring``, moved back (decision 0083).
+
+    The centred run (with its own look at doubtful candidates, decision 0071) is the answer: it is what the same
+    geometry gets at the origin. A singular point of the first run it lacks is kept (it passed the Jacobian
+    check) and counted ``missed_in_centred_coordinates`` (the two runs disagree: exit 3). None when the centred
+    system is too large to write.
+    """
+    if progress is not None:
+        progress(f"the singular candidates lie far from the origin: computing again in coordinates centred at "
+                 f"{short_point(centring.point)}")
+    try:
+        centred = centred_system(system, centring)
+    except LimitError as err:
+        first.notes.append(f"Centred coordinates at {short_point(centring.point)} not tried ({err}).")
+        return None
+    locus, dropped = _in_user_units(centred, options, seed, progress)
+    _judged_centred(centred, options, seed, progress, locus, dropped)
+    shift = centring.point
+    for component in locus.components:
+        if not component.at_infinity:  # points at infinity do not move under a translation
+            component.points = component.points + shift[None, :]
+            component.real = _real_flags(system, component.points)
+    for point in locus.near_singular:
+        point.point = point.point + shift
+    if locus.variety is not None:
+        locus.variety = _translated(locus.variety, system, shift)
+    kept = [c for c in first.components if not c.at_infinity and c.dimension == 0 and c.kind is PieceKind.SINGULAR
+            and not any(_same_point(c, other) for other in locus.components)]
+    if kept:
+        locus.discarded["missed_in_centred_coordinates"] = len(kept)
+        _set_components(locus, locus.components + kept)
+    failed = sum(first.paths.get(label, 0) for label in FAILURE_LABELS)
+    locus.notes.append(f"The singular candidates lie far from the origin relative to their spread: computed in "
+                       f"coordinates centred at {short_point(shift)} (decision 0083); the first run in the user's "
+                       f"coordinates ({counted(first.paths.get('tracked', 0), 'path')}, {failed} failed) was replaced.")
+    locus.system, locus.seed = system, first.seed
+    locus.seconds += first.seconds
+    return locus
+
+
+def _translated(variety, system, shift):
+    """A decomposition computed in y = x - s moved to x: points + s, slices a0 + a.y = 0 -> (a0 - a.s) + a.x = 0."""
+    moved = []
+    for component in variety.components:
+        rows = np.asarray(component.slice_rows, dtype=complex)
+        if len(rows):
+            rows = np.concatenate([rows[:, :1] - rows[:, 1:] @ shift[:, None], rows[:, 1:]], axis=1)
+            rows = rows / np.linalg.norm(rows, axis=1, keepdims=True)  # unit rows, as everywhere else
+        moved.append(replace(component, points=component.points + shift[None, :], slice_rows=rows))
+    return replace(variety, system=system, components=moved)
 
 
 def _doubtful(candidate):
