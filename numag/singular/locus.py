@@ -63,7 +63,7 @@ from ..witness.decompose import (EXPANSION_MONOMIALS, DecomposeOptions, Decompos
                                  expansion_bound, holding_rows)
 from .isolated import finite_singular_points, null_vector_groups, null_vector_system, square_route_paths
 from .kinds import CandidateSystem, Formulation, PieceKind, Verdict
-from ..system.centred import centre_near, centred_system, within
+from ..system.centred import centre_near, centred_system, subleading_centre, within
 from .nearness import NearSingularPoint, input_tolerance, nearest_backward_error
 from .smoothness import CheckOptions, check_points
 
@@ -422,21 +422,39 @@ def singular_locus(system, options=None, seed=None, progress=None):
     options = (options or SingularOptions()).validated(system)
     require_numeric(system)
     seed = resolved_seed(seed)
-    locus, dropped = _in_user_units(system, options, seed, progress)
-    if not system.projective:
-        centring = _far_centring(locus, dropped)
-        if centring is not None:  # the candidates sit far from the origin relative to their spread (decision 0083)
-            whole = _computed_centred(system, options, seed, progress, locus, centring)
-            if whole is not None:
-                return whole
-        _judged_centred(system, options, seed, progress, locus, dropped)
+    if system.projective:
+        return _in_user_units(system, options, seed, progress)[0]
+    try:
+        locus, dropped = _in_user_units(system, options, seed, progress, stop_when_far=True)
+    except _FarCandidates as far:  # the candidates sit far from the origin relative to their spread (decision 0083)
+        whole = _computed_centred(system, options, seed, progress, far.centring, far.paths)
+        if whole is not None:
+            return whole
+        locus, dropped = _in_user_units(system, options, seed, progress)
+    if _left_doubt(locus):  # a second look centred where the equations' subleading forms vanish (decision 0083)
+        centring = _subleading_centring(system)
+        whole = None if centring is None else _computed_centred(system, options, seed, progress, centring,
+                                                                locus.paths, first=locus)
+        if whole is not None:
+            return whole
+    _judged_centred(system, options, seed, progress, locus, dropped)
     return locus
 
 
-def _in_user_units(system, options, seed, progress):
-    """:func:`singular_locus` without the centred second look: (locus, dropped candidates in the user's units)."""
+def _in_user_units(system, options, seed, progress, stop_when_far=False):
+    """:func:`singular_locus` without the centred second look: (locus, dropped candidates in the user's units).
+
+    ``stop_when_far``: raise :class:`_FarCandidates` as soon as a codimension's isolated candidates sit far from the
+    origin relative to their spread (:func:`_far_centring`), before they are judged (decision 0083).
+    """
     scaling = Scaling.balancing(system)
-    locus, dropped = _singular_locus(scaling.scale_system(system), options, seed, progress)
+    stop = None
+    if stop_when_far:
+        def stop(points, paths):  # points in the computed units
+            centring = _far_centring(scaling.to_user(points)) if len(points) > 1 else None
+            if centring is not None:
+                raise _FarCandidates(centring, dict(paths))
+    locus, dropped = _singular_locus(scaling.scale_system(system), options, seed, progress, stop)
     for component in locus.components:
         if component.at_infinity:
             component.points = normalize_projective(scaling.homogeneous_to_user(component.points))
@@ -463,32 +481,46 @@ def _in_user_units(system, options, seed, progress):
 _FAR_RATIO = 10
 
 
-def _far_centring(locus, dropped):
-    """Where to centre the whole computation when the first run's candidates sit far from the origin, or None.
+class _FarCandidates(Exception):
+    """The first run's isolated candidates sit far from the origin relative to their spread: where to centre, and
+    the paths tracked so far (for the note)."""
 
-    The candidates (singular points kept, isolated candidates dropped, wherever they were) mark where X's singular
-    features are; their bounding box says how large that region is. When its centre lies more than
-    ``_FAR_RATIO`` times the region's radius from the origin, double precision sees the features through
-    cancellations of terms of the size of the distance (two circles of radius 5 about (1234, -2468): both nodes
-    lost to failed paths, or silently). The centre is an exact decimal on a grid a tenth of the region's
-    radius, so the centred coefficients stay short (integers for the circles). The rule is translation- and
-    scale-free: only the ratio of the distance to the spread counts. Fewer than two distinct candidates tell no
-    spread: None (decision 0071's look at doubtful candidates remains).
+    def __init__(self, centring, paths):
+        super().__init__("singular candidates far from the origin")
+        self.centring, self.paths = centring, paths
+
+
+def _far_centring(points):
+    """Where to centre the whole computation when singular candidates sit far from the origin, or None.
+
+    The isolated candidates of a codimension (endpoints of the minors or null-vector system, before they are
+    judged) mark where X's singular features are; their bounding box says how large that region is. When its
+    centre lies more than ``_FAR_RATIO`` times the region's radius from the origin, double precision sees the
+    features through cancellations of terms of the size of the distance (two circles of radius 5 about
+    (1234, -2468): both nodes lost to failed paths, or silently in units of 1000). The centre is an exact decimal
+    on a grid a tenth of the region's radius, so the centred coefficients stay short (integers for the circles).
+    The rule is translation- and scale-free: only the ratio of the distance to the spread counts. Fewer than two
+    distinct candidates tell no spread: None.
+
+    Parameters
+    ----------
+    points : ndarray, shape (K, n)
+        Candidates in the user's coordinates (non-finite rows are ignored).
+
+    Returns
+    -------
+    Centring or None
 
     Examples
     --------
-    >>> from types import SimpleNamespace
-    >>> far = SimpleNamespace(components=[])
-    >>> points = [np.array([1231.17, -2468.0]), np.array([1242.83, -2468.0]), np.array([1237.0, -2468.0])]
-    >>> dropped = [_Dropped(p, p, 1) for p in points]
-    >>> [c.to_text() for c in _far_centring(far, dropped).centre]
+    >>> points = np.array([[1231.17, -2468.0], [1242.83, -2468.0], [1237.0, -2468.0]])
+    >>> [c.to_text() for c in _far_centring(points).centre]
     ['1237', '-2468']
-    >>> _far_centring(far, [_Dropped(p - points[2], p, 1) for p in points]) is None  # the same at the origin
+    >>> _far_centring(points - points[2]) is None  # the same geometry at the origin
     True
     """
-    points = [c.points[0] for c in locus.components if not c.at_infinity and c.dimension == 0 and len(c.points)]
-    points += [d.candidate for d in dropped if d.dimension == 0]
-    points = np.array([p for p in points if np.all(np.isfinite(p))], dtype=complex)
+    points = np.asarray(points, dtype=complex)
+    points = points[np.all(np.isfinite(points), axis=1)]
     if len(points) < 2:
         return None
     centre = (points.real.min(0) + points.real.max(0)) / 2 + 1j * (points.imag.min(0) + points.imag.max(0)) / 2
@@ -504,24 +536,61 @@ def _far_centring(locus, dropped):
     return centre_near(centre, np.inf, digits=digits)
 
 
-def _computed_centred(system, options, seed, progress, first, centring):
+#: Counts of a run that leave doubt whether every singular point was found (each is a completeness warning).
+_DOUBT_COUNTS = ("not_settled_on_X", "smooth_with_vanishing_jacobian", "merged_on_refinement",
+                 "unresolved_multiple_endpoint", "tangent_dimension_mismatch", "missed_in_centred_coordinates")
+
+
+def _left_doubt(locus):
+    """Whether a run left doubt that every singular point was found (failed paths, unsettled candidates, ...)."""
+    return bool(sum(locus.paths.get(label, 0) for label in FAILURE_LABELS)
+                or any(locus.discarded.get(key, 0) for key in _DOUBT_COUNTS) or locus.near_singular
+                or (locus.variety is not None and locus.variety.unconfirmed))
+
+
+def _subleading_centring(system):
+    """An exact centre where every equation's subleading form vanishes (:func:`subleading_centre`), or None.
+
+    None too when that centre is the origin (nothing to move) or the leading forms do not determine it.
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> surface = parse_system(["(x - 1234)^4 - (x - 1234)^2 + (y + 2345)^4 - (y + 2345)^2 - 1/4"], ["x", "y"])
+    >>> [c.to_text() for c in _subleading_centring(surface).centre]
+    ['1234', '-2345']
+    """
+    centre = subleading_centre(system)
+    if centre is None:
+        return None
+    if np.linalg.norm(centre.imag) <= 1e-12 * (1 + np.linalg.norm(centre)) and system.has_real_coefficients:
+        centre = centre.real.astype(complex)  # rounding only: real equations keep a real centre
+    centring = centre_near(centre, np.inf)
+    return None if not np.any(centring.point) else centring
+
+
+def _computed_centred(system, options, seed, progress, centring, first_paths, first=None):
     """The whole singular locus computed in coordinates centred at ``centring``, moved back (decision 0083).
 
     The centred run (with its own look at doubtful candidates, decision 0071) is the answer: it is what the same
-    geometry gets at the origin. A singular point of the first run it lacks is kept (it passed the Jacobian
-    check) and counted ``missed_in_centred_coordinates`` (the two runs disagree: exit 3). None when the centred
-    system is too large to write.
+    geometry gets at the origin. ``first_paths``: the paths the first run tracked (for the note). ``first``: the
+    first run when it was completed and left doubt (the subleading centre); then a singular point of it the
+    centred run lacks is kept (it passed the Jacobian check) and counted ``missed_in_centred_coordinates`` (the
+    two runs disagree: exit 3), and a centred run that left doubt itself does not replace it (None). None too
+    when the centred system is too large to write.
     """
     if progress is not None:
-        progress(f"the singular candidates lie far from the origin: computing again in coordinates centred at "
-                 f"{short_point(centring.point)}")
+        progress(f"computing the singular locus again in coordinates centred at {short_point(centring.point)}")
     try:
         centred = centred_system(system, centring)
-    except LimitError as err:
-        first.notes.append(f"Centred coordinates at {short_point(centring.point)} not tried ({err}).")
+    except LimitError:  # the first run (again, in full) is the answer
         return None
     locus, dropped = _in_user_units(centred, options, seed, progress)
     _judged_centred(centred, options, seed, progress, locus, dropped)
+    if first is not None and _left_doubt(locus):
+        first.notes.append(f"Coordinates centred at {short_point(centring.point)} (where the equations' subleading "
+                           "forms vanish) left doubt too: the first run's answer is kept (decision 0083).")
+        return None
     shift = centring.point
     for component in locus.components:
         if not component.at_infinity:  # points at infinity do not move under a translation
@@ -531,17 +600,21 @@ def _computed_centred(system, options, seed, progress, first, centring):
         point.point = point.point + shift
     if locus.variety is not None:
         locus.variety = _translated(locus.variety, system, shift)
-    kept = [c for c in first.components if not c.at_infinity and c.dimension == 0 and c.kind is PieceKind.SINGULAR
-            and not any(_same_point(c, other) for other in locus.components)]
+    kept = [] if first is None else [
+        c for c in first.components if not c.at_infinity and c.dimension == 0 and c.kind is PieceKind.SINGULAR
+        and not any(_same_point(c, other) for other in locus.components)]
     if kept:
         locus.discarded["missed_in_centred_coordinates"] = len(kept)
         _set_components(locus, locus.components + kept)
-    failed = sum(first.paths.get(label, 0) for label in FAILURE_LABELS)
-    locus.notes.append(f"The singular candidates lie far from the origin relative to their spread: computed in "
-                       f"coordinates centred at {short_point(shift)} (decision 0083); the first run in the user's "
-                       f"coordinates ({counted(first.paths.get('tracked', 0), 'path')}, {failed} failed) was replaced.")
-    locus.system, locus.seed = system, first.seed
-    locus.seconds += first.seconds
+    failed = sum(first_paths.get(label, 0) for label in FAILURE_LABELS)
+    why = ("the first run left doubt; the equations' subleading forms vanish there" if first is not None
+           else "the singular candidates lie far from the origin relative to their spread")
+    locus.notes.append(f"Computed in coordinates centred at {short_point(shift)} ({why}; decision 0083); the first "
+                       f"run in the user's coordinates ({counted(first_paths.get('tracked', 0), 'path')}, {failed} "
+                       "failed) was replaced.")
+    locus.system = system
+    if first is not None:
+        locus.seconds += first.seconds
     return locus
 
 
@@ -723,8 +796,8 @@ def _near_singular(system, scaling, dropped, discarded):
     return near
 
 
-def _singular_locus(system, options, seed, progress):
-    """:func:`singular_locus` in the units of ``system`` (already scaled)."""
+def _singular_locus(system, options, seed, progress, stop=None):
+    """:func:`singular_locus` in the units of ``system`` (already scaled); ``stop`` as in :func:`_affine`."""
     started = time.perf_counter()
     rng = np.random.default_rng(seed)
     paths, discarded, notes, routes = {}, {}, [], []
@@ -748,7 +821,8 @@ def _singular_locus(system, options, seed, progress):
             components, variety = _projective_chart(system, options, rng, paths, discarded, notes, progress, routes,
                                                     dropped)
     else:
-        components, variety = _affine(system, options, rng, paths, discarded, progress, notes, routes, dropped)
+        components, variety = _affine(system, options, rng, paths, discarded, progress, notes, routes, dropped,
+                                      stop)
         if options.start is not StartKind.TOTAL_DEGREE and variety is not None and variety.extra.get("start"):
             start["regeneration_of_X"] = variety.extra["start"]
         if system.n_equations == 1:
@@ -847,12 +921,14 @@ def _square_route_pays(system, variety, codimension, options, route):
     return sum(square) * SQUARE_ROUTE_PATH_COST < witness
 
 
-def _affine(system, options, rng, paths, discarded, progress, notes_out=None, routes=None, dropped=None):
+def _affine(system, options, rng, paths, discarded, progress, notes_out=None, routes=None, dropped=None,
+            stop=None):
     """Singular pieces of an affine X by decomposing F + minors for each codimension of X.
 
     ``routes`` (a list) receives the route of each codimension when a start other than total degree is
     asked for (:func:`_structured_start`); ``dropped`` (a list) the isolated candidates the check called
-    smooth (:class:`_Dropped`), for their backward errors.
+    smooth (:class:`_Dropped`), for their backward errors. ``stop(points, paths)`` (optional) is shown each
+    codimension's isolated candidates before they are judged, and may raise to end the run (decision 0083).
     """
     if progress is not None:
         progress("decomposing X")
@@ -918,6 +994,9 @@ def _affine(system, options, rng, paths, discarded, progress, notes_out=None, ro
                 for c in candidates.components:  # cross-check the slicing dimension by the tangent space
                     if c.dimension > 0 and _tangent_dimension(augmented, c, rng) != c.dimension:
                         discarded["tangent_dimension_mismatch"] = discarded.get("tangent_dimension_mismatch", 0) + 1
+        if stop is not None:  # candidates far from the origin relative to their spread: judged in centred coordinates
+            stop(np.array([points[0] for dimension, points, _, _ in projected if dimension == 0],
+                          dtype=complex).reshape(-1, n), paths)
         if progress is not None and projected:
             progress(f"codimension {codimension}: judging {counted(len(projected), 'candidate set')} by the Jacobian "
                      "criterion")
