@@ -121,3 +121,9 @@ def test_at_the_origin_no_second_run():
     equations, names = two_circles(0)
     locus = assert_found(equations, names, 1, 1)
     assert not any("decision 0083" in note for note in locus.notes)
+
+
+def test_a_disagreement_of_the_two_runs_is_a_warning():
+    # a point found only in the user's coordinates makes the command exit 3 (decision 0083; common practice, no
+    # source: a count of the report, not a result of the mathematics)
+    assert completeness_warnings({"discarded": {"missed_in_centred_coordinates": 1}})
