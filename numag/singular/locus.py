@@ -46,10 +46,11 @@ from ..system.display import counted, html_table, short_point
 from ..system.polynomial import Polynomial, PolynomialSystem, linear_space, require_numeric
 from ..numeric.cluster import cluster_labels, groups, normalize_projective
 from ..numeric.evaluate import BatchEvaluator, TermSizes
-from ..numeric.minors import (MinorsSystem, degree_lowering_directions, directional_gradients, expanded_minors,
+from ..numeric.minors import (MinorsSystem, degree_lowering_directions, directional_gradients, equation_evaluator,
+                              expanded_minors,
                               minor_term_bound,
                               random_minor_weights)
-from ..numeric.refine import IsolationTest, ZeroKind, project_to_variety
+from ..numeric.refine import IsolationTest, ZeroKind, largest_scaled_residual, project_to_variety
 from ..numeric.scaling import Scaling
 from ..numeric.seeds import resolved_seed
 from ..tracking.solve import SolveOptions, solve_system
@@ -536,6 +537,10 @@ def _far_centring(points):
     return centre_near(centre, np.inf, digits=digits)
 
 
+#: A point whose largest scaled residual is above this is off X (no refinement is tried from there; the cascade's
+#: bound for endpoints alike).
+_OFF_X_RESIDUAL = 1e-3
+
 #: Counts of a run that leave doubt whether every singular point was found (each is a completeness warning).
 _DOUBT_COUNTS = ("not_settled_on_X", "smooth_with_vanishing_jacobian", "merged_on_refinement",
                  "unresolved_multiple_endpoint", "tangent_dimension_mismatch", "missed_in_centred_coordinates")
@@ -575,7 +580,8 @@ def _computed_centred(system, options, seed, progress, centring, first_paths, fi
     The centred run (with its own look at doubtful candidates, decision 0071) is the answer: it is what the same
     geometry gets at the origin. ``first_paths``: the paths the first run tracked (for the note). ``first``: the
     first run when it was completed and left doubt (the subleading centre); then a singular point of it the
-    centred run lacks is kept (it passed the Jacobian check) and counted ``missed_in_centred_coordinates`` (the
+    centred run lacks is kept (it passed the Jacobian check; judged again in the centred coordinates, it is dropped
+    there when off X or smooth) and counted ``missed_in_centred_coordinates`` (the
     two runs disagree: exit 3), and a centred run that left doubt itself does not replace it (None). None too
     when the centred system is too large to write.
     """
@@ -592,6 +598,25 @@ def _computed_centred(system, options, seed, progress, centring, first_paths, fi
                            "forms vanish) left doubt too: the first run's answer is kept (decision 0083).")
         return None
     shift = centring.point
+    kept = [] if first is None else [
+        c for c in first.components if not c.at_infinity and c.dimension == 0 and c.kind is PieceKind.SINGULAR
+        and not any(_same_point(c, other) for other in _centred_points(system, centring, replace(
+            centring, point=np.zeros_like(shift)), locus))]
+    if kept:  # judged again where the features have their own sizes: a point off X there was no singular point
+        check_options = CheckOptions(max_digits=options.digits, backward_errors=False, point_tolerance=_POINT_TOLERANCE)
+        moved = np.array([c.points[0] - shift for c in kept])
+        verdicts = _judge_all(centred, list(moved), check_options, seed, locus.variety)
+        # Newton cannot settle a point where f is far from zero and J vanishes (the quartic's centre, f = 4 there,
+        # taken for a node in the first run's units): off X when its residual is far above any tolerance
+        evaluator, sizes = equation_evaluator(centred)
+        off = largest_scaled_residual(sizes, evaluator, moved) > _OFF_X_RESIDUAL
+        refuted = [(v is None and far_off) or (v is not None and v.verdict in (Verdict.OFF, Verdict.SMOOTH))
+                   for v, far_off in zip(verdicts, off)]
+        kept = [c for c, no in zip(kept, refuted) if not no]
+        refuted = sum(refuted)
+        if refuted:
+            locus.notes.append(f"{counted(refuted, 'singular point')} of the first run judged again in the centred "
+                               "coordinates: not singular points of X there (decision 0083).")
     for component in locus.components:
         if not component.at_infinity:  # points at infinity do not move under a translation
             component.points = component.points + shift[None, :]
@@ -600,9 +625,6 @@ def _computed_centred(system, options, seed, progress, centring, first_paths, fi
         point.point = point.point + shift
     if locus.variety is not None:
         locus.variety = _translated(locus.variety, system, shift)
-    kept = [] if first is None else [
-        c for c in first.components if not c.at_infinity and c.dimension == 0 and c.kind is PieceKind.SINGULAR
-        and not any(_same_point(c, other) for other in locus.components)]
     if kept:
         locus.discarded["missed_in_centred_coordinates"] = len(kept)
         _set_components(locus, locus.components + kept)
