@@ -425,11 +425,13 @@ def singular_locus(system, options=None, seed=None, progress=None):
     seed = resolved_seed(seed)
     if system.projective:
         return _in_user_units(system, options, seed, progress)[0]
+    started = time.perf_counter()
     try:
         locus, dropped = _in_user_units(system, options, seed, progress, stop_when_far=True)
     except _FarCandidates as far:  # the candidates sit far from the origin relative to their spread (decision 0083)
         whole = _computed_centred(system, options, seed, progress, far.centring, far.paths)
         if whole is not None:
+            whole.seconds = time.perf_counter() - started  # both runs
             return whole
         locus, dropped = _in_user_units(system, options, seed, progress)
     if _left_doubt(locus):  # a second look centred where the equations' subleading forms vanish (decision 0083)
