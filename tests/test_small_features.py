@@ -84,7 +84,9 @@ def sympy_singular_points(system):
     f = sympy.Integer(0)
     for exponents, coefficient in zip(polynomial.exponents, polynomial.coefficients):
         value = complex(coefficient) if not polynomial.is_exact else None
-        term = sympy.nsimplify(sympy.sympify(coefficient.to_text().replace("^", "**"))) if value is None else \
+        # exact text read exactly (nsimplify rounded -12500000000003/312500000 to -40000, which made the two circles'
+        # nodes disappear from the reference; decision 0083)
+        term = sympy.sympify(coefficient.to_text().replace("^", "**")) if value is None else \
             sympy.Rational(*value.real.as_integer_ratio()) + sympy.I * sympy.Rational(*value.imag.as_integer_ratio())
         for symbol, power in zip(symbols, exponents):
             term *= symbol ** int(power)

@@ -227,6 +227,11 @@ def completeness_warnings(data):
                         "the paths ended, and coordinates centred there did not settle the points nearby: several "
                         "singular points close together may have been taken for one, and some may be missing; "
                         "move the origin near them and rescale the coordinates to decide.")
+    missed = _discarded(data, "missed_in_centred_coordinates")
+    if missed:  # the run in centred coordinates lacked singular points the first run found (decision 0083)
+        warnings.append(f"{counted(missed, 'singular point')} found in the user's coordinates but not in coordinates "
+                        "centred at the features: the two runs disagree and other points may be missing; run again "
+                        "with another --seed to compare.")
     mismatched = _discarded(data, "tangent_dimension_mismatch")
     if mismatched:  # the rank-drop system's decomposition disagrees with itself: its pieces cannot be trusted
         warnings.append(f"{counted(mismatched, 'candidate component')} of the rank-drop system had a tangent space of "

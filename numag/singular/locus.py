@@ -46,10 +46,11 @@ from ..system.display import counted, html_table, short_point
 from ..system.polynomial import Polynomial, PolynomialSystem, linear_space, require_numeric
 from ..numeric.cluster import cluster_labels, groups, normalize_projective
 from ..numeric.evaluate import BatchEvaluator, TermSizes
-from ..numeric.minors import (MinorsSystem, degree_lowering_directions, directional_gradients, expanded_minors,
+from ..numeric.minors import (MinorsSystem, degree_lowering_directions, directional_gradients, equation_evaluator,
+                              expanded_minors,
                               minor_term_bound,
                               random_minor_weights)
-from ..numeric.refine import IsolationTest, ZeroKind, project_to_variety
+from ..numeric.refine import IsolationTest, ZeroKind, largest_scaled_residual, project_to_variety
 from ..numeric.scaling import Scaling
 from ..numeric.seeds import resolved_seed
 from ..tracking.solve import SolveOptions, solve_system
@@ -63,7 +64,7 @@ from ..witness.decompose import (EXPANSION_MONOMIALS, DecomposeOptions, Decompos
                                  expansion_bound, holding_rows)
 from .isolated import finite_singular_points, null_vector_groups, null_vector_system, square_route_paths
 from .kinds import CandidateSystem, Formulation, PieceKind, Verdict
-from ..system.centred import centre_near, centred_system, within
+from ..system.centred import centre_near, centred_system, subleading_centre, within
 from .nearness import NearSingularPoint, input_tolerance, nearest_backward_error
 from .smoothness import CheckOptions, check_points
 
@@ -428,16 +429,41 @@ def singular_locus(system, options=None, seed=None, progress=None):
     options = (options or SingularOptions()).validated(system)
     require_numeric(system)
     seed = resolved_seed(seed)
-    locus, dropped = _in_user_units(system, options, seed, progress)
-    if not system.projective:
-        _judged_centred(system, options, seed, progress, locus, dropped)
+    if system.projective:
+        return _in_user_units(system, options, seed, progress)[0]
+    started = time.perf_counter()
+    try:
+        locus, dropped = _in_user_units(system, options, seed, progress, stop_when_far=True)
+    except _FarCandidates as far:  # the candidates sit far from the origin relative to their spread (decision 0083)
+        whole = _computed_centred(system, options, seed, progress, far.centring, far.paths)
+        if whole is not None:
+            whole.seconds = time.perf_counter() - started  # both runs
+            return whole
+        locus, dropped = _in_user_units(system, options, seed, progress)
+    if _left_doubt(locus):  # a second look centred where the equations' subleading forms vanish (decision 0083)
+        centring = _subleading_centring(system)
+        whole = None if centring is None else _computed_centred(system, options, seed, progress, centring,
+                                                                locus.paths, first=locus)
+        if whole is not None:
+            return whole
+    _judged_centred(system, options, seed, progress, locus, dropped)
     return locus
 
 
-def _in_user_units(system, options, seed, progress):
-    """:func:`singular_locus` without the centred second look: (locus, dropped candidates in the user's units)."""
+def _in_user_units(system, options, seed, progress, stop_when_far=False):
+    """:func:`singular_locus` without the centred second look: (locus, dropped candidates in the user's units).
+
+    ``stop_when_far``: raise :class:`_FarCandidates` as soon as a codimension's isolated candidates sit far from the
+    origin relative to their spread (:func:`_far_centring`), before they are judged (decision 0083).
+    """
     scaling = Scaling.balancing(system)
-    locus, dropped = _singular_locus(scaling.scale_system(system), options, seed, progress)
+    stop = None
+    if stop_when_far:
+        def stop(points, paths):  # points in the computed units
+            centring = _far_centring(scaling.to_user(points)) if len(points) > 1 else None
+            if centring is not None:
+                raise _FarCandidates(centring, dict(paths))
+    locus, dropped = _singular_locus(scaling.scale_system(system), options, seed, progress, stop)
     for component in locus.components:
         if component.at_infinity:
             component.points = normalize_projective(scaling.homogeneous_to_user(component.points))
@@ -456,6 +482,182 @@ def _in_user_units(system, options, seed, progress):
                                                                                 candidate.refined]))
     locus.options = options
     return locus, dropped
+
+
+#: The first run's singular candidates whose centre lies farther from the origin than this many times their spread
+#: are computed again, all of them, in coordinates centred there (decision 0083). Ratios met: two circles of radius
+#: 5 about (c, -2c), (c + 6, -2c) give about 0.5 at c = 0, 5 at c = 12, 46 at c = 123, 460 at c = 1234.
+_FAR_RATIO = 10
+
+
+class _FarCandidates(Exception):
+    """The first run's isolated candidates sit far from the origin relative to their spread: where to centre, and
+    the paths tracked so far (for the note)."""
+
+    def __init__(self, centring, paths):
+        super().__init__("singular candidates far from the origin")
+        self.centring, self.paths = centring, paths
+
+
+def _far_centring(points):
+    """Where to centre the whole computation when singular candidates sit far from the origin, or None.
+
+    The isolated candidates of a codimension (endpoints of the minors or null-vector system, before they are
+    judged) mark where X's singular features are; their bounding box says how large that region is. When its
+    centre lies more than ``_FAR_RATIO`` times the region's radius from the origin, double precision sees the
+    features through cancellations of terms of the size of the distance (two circles of radius 5 about
+    (1234, -2468): both nodes lost to failed paths, or silently in units of 1000). The centre is an exact decimal
+    on a grid a tenth of the region's radius, so the centred coefficients stay short (integers for the circles).
+    The rule is translation- and scale-free: only the ratio of the distance to the spread counts. Fewer than two
+    distinct candidates tell no spread: None.
+
+    Parameters
+    ----------
+    points : ndarray, shape (K, n)
+        Candidates in the user's coordinates (non-finite rows are ignored).
+
+    Returns
+    -------
+    Centring or None
+
+    Examples
+    --------
+    >>> points = np.array([[1231.17, -2468.0], [1242.83, -2468.0], [1237.0, -2468.0]])
+    >>> [c.to_text() for c in _far_centring(points).centre]
+    ['1237', '-2468']
+    >>> _far_centring(points - points[2]) is None  # the same geometry at the origin
+    True
+    """
+    points = np.asarray(points, dtype=complex)
+    points = points[np.all(np.isfinite(points), axis=1)]
+    if len(points) < 2:
+        return None
+    centre = (points.real.min(0) + points.real.max(0)) / 2 + 1j * (points.imag.min(0) + points.imag.max(0)) / 2
+    spread = float(np.max(np.linalg.norm(points - centre[None, :], axis=1)))
+    distance = float(np.linalg.norm(centre))
+    if spread <= _DUPLICATE_RADIUS * (1 + distance) or distance <= _FAR_RATIO * spread:
+        return None
+    if np.linalg.norm(centre.imag) <= spread:  # a real centre keeps real equations real (conjugate pairs)
+        centre = centre.real.astype(complex)
+    # a grid of 10^floor(log10(spread / 10)) moves the centre by 5% of the spread at most (centre_near's digits
+    # count from the centre's size)
+    digits = int(np.ceil(np.log10(1 + distance))) - int(np.floor(np.log10(spread / 10)))
+    return centre_near(centre, np.inf, digits=digits)
+
+
+#: A point whose largest scaled residual is above this is off X (no refinement is tried from there; the cascade's
+#: bound for endpoints alike).
+_OFF_X_RESIDUAL = 1e-3
+
+#: Counts of a run that leave doubt whether every singular point was found (each is a completeness warning).
+_DOUBT_COUNTS = ("not_settled_on_X", "smooth_with_vanishing_jacobian", "merged_on_refinement",
+                 "unresolved_multiple_endpoint", "tangent_dimension_mismatch", "missed_in_centred_coordinates")
+
+
+def _left_doubt(locus):
+    """Whether a run left doubt that every singular point was found (failed paths, unsettled candidates, ...)."""
+    return bool(sum(locus.paths.get(label, 0) for label in FAILURE_LABELS)
+                or any(locus.discarded.get(key, 0) for key in _DOUBT_COUNTS) or locus.near_singular
+                or (locus.variety is not None and locus.variety.unconfirmed))
+
+
+def _subleading_centring(system):
+    """An exact centre where every equation's subleading form vanishes (:func:`subleading_centre`), or None.
+
+    None too when that centre is the origin (nothing to move) or the leading forms do not determine it.
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> surface = parse_system(["(x - 1234)^4 - (x - 1234)^2 + (y + 2345)^4 - (y + 2345)^2 - 1/4"], ["x", "y"])
+    >>> [c.to_text() for c in _subleading_centring(surface).centre]
+    ['1234', '-2345']
+    """
+    centre = subleading_centre(system)
+    if centre is None:
+        return None
+    if np.linalg.norm(centre.imag) <= 1e-12 * (1 + np.linalg.norm(centre)) and system.has_real_coefficients:
+        centre = centre.real.astype(complex)  # rounding only: real equations keep a real centre
+    centring = centre_near(centre, np.inf)
+    return None if not np.any(centring.point) else centring
+
+
+def _computed_centred(system, options, seed, progress, centring, first_paths, first=None):
+    """The whole singular locus computed in coordinates centred at ``centring``, moved back (decision 0083).
+
+    The centred run (with its own look at doubtful candidates, decision 0071) is the answer: it is what the same
+    geometry gets at the origin. ``first_paths``: the paths the first run tracked (for the note). ``first``: the
+    first run when it was completed and left doubt (the subleading centre); then a singular point of it the
+    centred run lacks is kept (it passed the Jacobian check; judged again in the centred coordinates, it is dropped
+    there when off X or smooth) and counted ``missed_in_centred_coordinates`` (the
+    two runs disagree: exit 3), and a centred run that left doubt itself does not replace it (None). None too
+    when the centred system is too large to write.
+    """
+    if progress is not None:
+        progress(f"computing the singular locus again in coordinates centred at {short_point(centring.point)}")
+    try:
+        centred = centred_system(system, centring)
+    except LimitError:  # the first run (again, in full) is the answer
+        return None
+    locus, dropped = _in_user_units(centred, options, seed, progress)
+    _judged_centred(centred, options, seed, progress, locus, dropped)
+    if first is not None and _left_doubt(locus):
+        first.notes.append(f"Coordinates centred at {short_point(centring.point)} (where the equations' subleading "
+                           "forms vanish) left doubt too: the first run's answer is kept (decision 0083).")
+        return None
+    shift = centring.point
+    kept = [] if first is None else [
+        c for c in first.components if not c.at_infinity and c.dimension == 0 and c.kind is PieceKind.SINGULAR
+        and not any(_same_point(c, other) for other in _centred_points(system, centring, replace(
+            centring, point=np.zeros_like(shift)), locus))]
+    if kept:  # judged again where the features have their own sizes: a point off X there was no singular point
+        check_options = CheckOptions(max_digits=options.digits, backward_errors=False, point_tolerance=_POINT_TOLERANCE)
+        moved = np.array([c.points[0] - shift for c in kept])
+        verdicts = _judge_all(centred, list(moved), check_options, seed, locus.variety)
+        # Newton cannot settle a point where f is far from zero and J vanishes (the quartic's centre, f = 4 there,
+        # taken for a node in the first run's units): off X when its residual is far above any tolerance
+        evaluator, sizes = equation_evaluator(centred)
+        off = largest_scaled_residual(sizes, evaluator, moved) > _OFF_X_RESIDUAL
+        refuted = [(v is None and far_off) or (v is not None and v.verdict in (Verdict.OFF, Verdict.SMOOTH))
+                   for v, far_off in zip(verdicts, off)]
+        kept = [c for c, no in zip(kept, refuted) if not no]
+        refuted = sum(refuted)
+        if refuted:
+            locus.notes.append(f"{counted(refuted, 'singular point')} of the first run judged again in the centred "
+                               "coordinates: not singular points of X there (decision 0083).")
+    for component in locus.components:
+        if not component.at_infinity:  # points at infinity do not move under a translation
+            component.points = component.points + shift[None, :]
+            component.real = _real_flags(system, component.points)
+    for point in locus.near_singular:
+        point.point = point.point + shift
+    if locus.variety is not None:
+        locus.variety = _translated(locus.variety, system, shift)
+    if kept:
+        locus.discarded["missed_in_centred_coordinates"] = len(kept)
+        _set_components(locus, locus.components + kept)
+    failed = sum(first_paths.get(label, 0) for label in FAILURE_LABELS)
+    why = ("the first run left doubt; the equations' subleading forms vanish there" if first is not None
+           else "the singular candidates lie far from the origin relative to their spread")
+    locus.notes.append(f"Computed in coordinates centred at {short_point(shift)} ({why}; decision 0083); the first "
+                       f"run in the user's coordinates ({counted(first_paths.get('tracked', 0), 'path')}, {failed} "
+                       "failed) was replaced.")
+    locus.system = system
+    if first is not None:
+        locus.seconds += first.seconds
+    return locus
+
+
+def _translated(variety, system, shift):
+    """A decomposition computed in y = x - s moved to x: points + s, slices a0 + a.y = 0 -> (a0 - a.s) + a.x = 0."""
+    moved = []
+    for component in variety.components:
+        rows = np.asarray(component.slice_rows, dtype=complex)
+        if len(rows):
+            rows = np.concatenate([rows[:, :1] - rows[:, 1:] @ shift[:, None], rows[:, 1:]], axis=1)
+            rows = rows / np.linalg.norm(rows, axis=1, keepdims=True)  # unit rows, as everywhere else
+        moved.append(replace(component, points=component.points + shift[None, :], slice_rows=rows))
+    return replace(variety, system=system, components=moved)
 
 
 def _doubtful(candidate):
@@ -624,8 +826,8 @@ def _near_singular(system, scaling, dropped, discarded):
     return near
 
 
-def _singular_locus(system, options, seed, progress):
-    """:func:`singular_locus` in the units of ``system`` (already scaled)."""
+def _singular_locus(system, options, seed, progress, stop=None):
+    """:func:`singular_locus` in the units of ``system`` (already scaled); ``stop`` as in :func:`_affine`."""
     started = time.perf_counter()
     rng = np.random.default_rng(seed)
     paths, discarded, notes, routes = {}, {}, [], []
@@ -649,7 +851,8 @@ def _singular_locus(system, options, seed, progress):
             components, variety = _projective_chart(system, options, rng, paths, discarded, notes, progress, routes,
                                                     dropped)
     else:
-        components, variety = _affine(system, options, rng, paths, discarded, progress, notes, routes, dropped)
+        components, variety = _affine(system, options, rng, paths, discarded, progress, notes, routes, dropped,
+                                      stop)
         if options.start is not StartKind.TOTAL_DEGREE and variety is not None and variety.extra.get("start"):
             start["regeneration_of_X"] = variety.extra["start"]
         if system.n_equations == 1:
@@ -749,12 +952,14 @@ def _square_route_pays(system, variety, codimension, options, route):
         estimated_cost(StartKind.TOTAL_DEGREE, witness)
 
 
-def _affine(system, options, rng, paths, discarded, progress, notes_out=None, routes=None, dropped=None):
+def _affine(system, options, rng, paths, discarded, progress, notes_out=None, routes=None, dropped=None,
+            stop=None):
     """Singular pieces of an affine X by decomposing F + minors for each codimension of X.
 
     ``routes`` (a list) receives the route of each codimension when a start other than total degree is
     asked for (:func:`_structured_start`); ``dropped`` (a list) the isolated candidates the check called
-    smooth (:class:`_Dropped`), for their backward errors.
+    smooth (:class:`_Dropped`), for their backward errors. ``stop(points, paths)`` (optional) is shown each
+    codimension's isolated candidates before they are judged, and may raise to end the run (decision 0083).
     """
     if progress is not None:
         progress("decomposing X")
@@ -823,6 +1028,9 @@ def _affine(system, options, rng, paths, discarded, progress, notes_out=None, ro
                 for c in candidates.components:  # cross-check the slicing dimension by the tangent space
                     if c.dimension > 0 and _tangent_dimension(augmented, c, rng) != c.dimension:
                         discarded["tangent_dimension_mismatch"] = discarded.get("tangent_dimension_mismatch", 0) + 1
+        if stop is not None:  # candidates far from the origin relative to their spread: judged in centred coordinates
+            stop(np.array([points[0] for dimension, points, _, _ in projected if dimension == 0],
+                          dtype=complex).reshape(-1, n), paths)
         if progress is not None and projected:
             progress(f"codimension {codimension}: judging {counted(len(projected), 'candidate set')} by the Jacobian "
                      "criterion")

@@ -27,8 +27,8 @@ import numpy as np
 from .exact import ExactCoefficient
 from .polynomial import Polynomial, PolynomialSystem
 
-__all__ = ["CENTRED_BALANCING_FLOOR", "Centring", "centre_near", "centred_system", "translated_terms",
-           "within"]
+__all__ = ["CENTRED_BALANCING_FLOOR", "Centring", "centre_near", "centred_system", "subleading_centre",
+           "translated_terms", "within"]
 
 #: The balancing of a centred system leaves out terms below this fraction of the largest of their polynomial
 #: (:meth:`~numag.numeric.scaling.Scaling.balancing`): the centre is rounded to 12 digits of the point, and a
@@ -138,3 +138,63 @@ def translated_terms(system):
     """
     return sum(int(np.sum(np.prod(np.asarray(p.exponents, dtype=np.int64) + 1, axis=1))) if p.n_terms else 0
                for p in system.polynomials)
+
+
+def subleading_centre(system):
+    """The translation that clears every equation's subleading form, when the leading forms determine it; else None.
+
+    Writing F(x) = G(x - c) with each g of degree d having no terms of degree d - 1 gives, per equation,
+    f_{d-1}(x) + grad f_d(x) . c = 0: linear in c, one row per monomial of degree d - 1. Solved by least
+    squares over all equations (each equation's rows scaled to its largest, so units do not weigh), it moves with
+    the input: translating F by t moves the result by t exactly, so a run centred there does not depend on where
+    the user put the origin. It locates the centre of symmetric features (a Chebyshev-type surface, circles); it
+    says nothing in directions the leading forms do not see (x^5 + y: no row for y), and then None is returned.
+
+    Parameters
+    ----------
+    system : PolynomialSystem
+        Affine.
+
+    Returns
+    -------
+    ndarray, shape (n,), or None
+        c (complex doubles); None when the rows do not determine every coordinate (scaled singular values
+        below 1e-8) or no equation has degree 1 or more.
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> surface = parse_system(["(x - 1234)^4 - (x - 1234)^2 + (y + 2345)^4 - (y + 2345)^2 - 1/4"], ["x", "y"])
+    >>> np.round(subleading_centre(surface).real, 9).tolist()
+    [1234.0, -2345.0]
+    >>> subleading_centre(parse_system(["x^5 + y"], ["x", "y"])) is None
+    True
+    """
+    n = system.n_variables
+    blocks, right = [], []
+    for polynomial in system.polynomials:
+        polynomial = polynomial.numeric()
+        d = polynomial.degree
+        if d < 1:
+            continue
+        degrees = polynomial.exponents.sum(axis=1)
+        leading = Polynomial(polynomial.exponents[degrees == d], polynomial.coefficients[degrees == d], n)
+        below = {tuple(e): c for e, c in zip(polynomial.exponents[degrees == d - 1],
+                                               polynomial.coefficients[degrees == d - 1])}
+        partials = [{tuple(e): c for e, c in zip(p.exponents, p.coefficients)} for p in leading.gradient()]
+        monomials = sorted(set(below).union(*partials))
+        block = np.array([[partial.get(m, 0) for partial in partials] for m in monomials], dtype=complex)
+        column = -np.array([below.get(m, 0) for m in monomials], dtype=complex)
+        size = np.max(np.abs(block)) if block.size else 0.0
+        if size > 0:
+            blocks.append(block / size)
+            right.append(column / size)
+    if not blocks:
+        return None
+    rows, values = np.vstack(blocks), np.concatenate(right)
+    if rows.shape[0] < n:
+        return None
+    singular_values = np.linalg.svd(rows, compute_uv=False)
+    if singular_values[-1] <= 1e-8 * singular_values[0]:
+        return None
+    return np.linalg.lstsq(rows, values, rcond=None)[0]

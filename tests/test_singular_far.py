@@ -1,0 +1,129 @@
+"""Singular points of features far from the origin relative to their size (decision 0083).
+
+The same geometry is moved far from the origin and into other units; the singular points must be found, with no
+warning, wherever it sits. Reference: sympy's exact solution of F = 0 with every c x c minor of the Jacobian = 0
+(c the codimension of X; the Jacobian criterion for a reduced complete intersection), on the very polynomials given
+to numag (Meurer et al., "SymPy: symbolic computing in Python", PeerJ Computer Science 3:e103, 2017).
+"""
+
+from fractions import Fraction
+import itertools
+
+import numpy as np
+import pytest
+import sympy
+
+from numag import singular_locus
+from numag.app.report import completeness_warnings, singular_to_dict
+from numag.singular.kinds import PieceKind
+from numag.singular.locus import SingularOptions
+from numag.system.parse import parse_system
+
+
+def shifted(name, offset):
+    """``(name - offset)`` as text, the offset an exact rational."""
+    return f"({name} - ({Fraction(offset)}))"
+
+
+def two_circles(shift, unit=1):
+    """Two circles of radius 5 about (c, -2c) and (c + 6, -2c) (in units of ``unit``): two nodes, (c + 3, -2c +- 4)."""
+    x1, x2, y = shifted("x", shift * unit), shifted("x", (shift + 6) * unit), shifted("y", -2 * shift * unit)
+    radius = Fraction(25) * unit * unit
+    return [f"({x1}^2 + {y}^2 - {radius})*({x2}^2 + {y}^2 - {radius})"], ["x", "y"]
+
+
+def cayley_cubic(centre):
+    """Cayley's nodal cubic surface x^2 + y^2 + z^2 - 2xyz = 1 moved to ``centre``: four nodes (+-1, +-1, +-1) with an
+    even number of minus signs, moved too."""
+    x, y, z = (shifted(name, c) for name, c in zip("xyz", centre))
+    return [f"{x}^2 + {y}^2 + {z}^2 - 2*{x}*{y}*{z} - 1"], ["x", "y", "z"]
+
+
+def nodal_space_curve(centre):
+    """A nodal plane cubic y^2 = x^2 (x + 1) in the plane z = x + 2y of C^3, moved to ``centre``: one node."""
+    x, y, z = (shifted(name, c) for name, c in zip("xyz", centre))
+    return [f"{z} - {x} - 2*{y}", f"{y}^2 - {x}^2*({x} + 1)"], ["x", "y", "z"]
+
+
+def sympy_singular_points(equations, names, codimension):
+    """Every solution of F = 0 and the codimension-sized minors of J = 0, by sympy (exact, over C)."""
+    symbols = sympy.symbols(names)
+    local = dict(zip(names, symbols))
+    polynomials = [sympy.expand(sympy.parse_expr(e.replace("^", "**"), local_dict=local)) for e in equations]
+    jacobian = sympy.Matrix([[sympy.diff(p, s) for s in symbols] for p in polynomials])
+    minors = [jacobian.extract(list(rows), list(columns)).det()
+              for rows in itertools.combinations(range(len(polynomials)), codimension)
+              for columns in itertools.combinations(range(len(symbols)), codimension)]
+    solutions = sympy.solve(polynomials + minors, symbols, dict=True)
+    return np.array([[complex(sympy.N(s[v], 30)) for v in symbols] for s in solutions], dtype=complex)
+
+
+def affine_points(locus):
+    rows = [c.points[0] for c in locus.isolated() if not c.at_infinity]
+    return np.array(rows) if rows else np.zeros((0, locus.system.n_variables), dtype=complex)
+
+
+def warnings_of(locus):
+    """What makes the command line exit 3: completeness warnings and undecided pieces."""
+    undecided = [f"piece {c.id} undecided" for c in locus.components if c.kind is PieceKind.UNDECIDED]
+    return completeness_warnings(singular_to_dict(locus, SingularOptions())) + undecided
+
+
+def assert_found(equations, names, codimension, seed):
+    reference = sympy_singular_points(equations, names, codimension)
+    locus = singular_locus(parse_system(equations, names), seed=seed)
+    points = affine_points(locus)
+    # the refined points sit within 1e-12 (relative) of the true ones; the features are 1e-3 (relative) apart
+    matched = [bool(len(points)) and bool(np.any(np.linalg.norm(points - r, axis=1) <= 1e-7 * (1 + np.linalg.norm(r))))
+               for r in reference]
+    assert len(points) == len(reference) and all(matched), (points, reference, locus.discarded, locus.notes)
+    assert not warnings_of(locus), warnings_of(locus)
+    return locus
+
+
+@pytest.mark.parametrize("seed", [1, 2, 3])
+@pytest.mark.parametrize("shift, unit", [(0, 1), (123, 1), (1234, 1), (1234, 1000), (1234, Fraction(1, 1000))],
+                         ids=["at 0", "at 123", "at 1234", "at 1234 x1000", "at 1234 x0.001"])
+def test_two_circles_nodes_are_found_wherever_they_sit(shift, unit, seed):
+    equations, names = two_circles(shift, unit)
+    assert_found(equations, names, 1, seed)
+
+
+@pytest.mark.parametrize("seed", [1, 2, 3])
+def test_cayley_cubic_far_from_the_origin(seed):
+    equations, names = cayley_cubic((1234, -2345, 3456))
+    assert_found(equations, names, 1, seed)
+
+
+@pytest.mark.parametrize("seed", [1, 2, 3])
+def test_space_curve_with_a_node_far_from_the_origin(seed):
+    equations, names = nodal_space_curve((1234, -2345, 3456))
+    assert_found(equations, names, 2, seed)
+
+
+@pytest.mark.parametrize("seed", [1, 2])
+def test_far_circles_are_computed_in_centred_coordinates_and_mapped_back(seed):
+    # the centred run's report is in the user's coordinates: X's witness points lie on X and on their slices
+    equations, names = two_circles(1234)
+    locus = assert_found(equations, names, 1, seed)
+    assert any("decision 0083" in note for note in locus.notes)
+    system = parse_system(equations, names)
+    for component in locus.variety.components:
+        values = np.array([[complex(p.evaluate(point)) for p in system.polynomials] for point in component.points])
+        on_slices = component.slice_rows @ np.vstack([np.ones(len(component.points)), component.points.T])
+        # common practice, no source: residuals relative to the terms' size (2e13 at this distance)
+        assert np.all(np.abs(values) <= 1e-6 * 1234.0 ** 4), values
+        assert np.all(np.abs(on_slices) <= 1e-9 * (1 + np.abs(component.points).max())), on_slices
+
+
+def test_at_the_origin_no_second_run():
+    # no extra cost at the origin: the candidates sit within their spread of it, nothing is computed again
+    equations, names = two_circles(0)
+    locus = assert_found(equations, names, 1, 1)
+    assert not any("decision 0083" in note for note in locus.notes)
+
+
+def test_a_disagreement_of_the_two_runs_is_a_warning():
+    # a point found only in the user's coordinates makes the command exit 3 (decision 0083; common practice, no
+    # source: a count of the report, not a result of the mathematics)
+    assert completeness_warnings({"discarded": {"missed_in_centred_coordinates": 1}})
