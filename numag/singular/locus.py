@@ -457,12 +457,12 @@ def _in_user_units(system, options, seed, progress, stop_when_far=False):
     origin relative to their spread (:func:`_far_centring`), before they are judged (decision 0083).
     """
     scaling = Scaling.balancing(system)
-    stop = None
-    if stop_when_far:
-        def stop(points, paths):  # points in the computed units
-            centring = _far_centring(scaling.to_user(points)) if len(points) > 1 else None
-            if centring is not None:
-                raise _FarCandidates(centring, dict(paths))
+    def stop_if_far(points, paths):  # points in the computed units
+        centring = _far_centring(scaling.to_user(points)) if len(points) > 1 else None
+        if centring is not None:
+            raise _FarCandidates(centring, dict(paths))
+
+    stop = stop_if_far if stop_when_far else None
     locus, dropped = _singular_locus(scaling.scale_system(system), options, seed, progress, stop)
     for component in locus.components:
         if component.at_infinity:
