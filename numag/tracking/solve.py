@@ -30,7 +30,7 @@ from threadpoolctl import threadpool_limits
 from ..errors import InputError, LimitError, is_integer, is_number, require_option
 from ..version import __version__
 from ..system.display import counted, html_table, short_point
-from ..system.centred import CENTRED_BALANCING_FLOOR, centre_near, centred_system
+from ..system.centred import centre_near, centred_system
 from ..system.polynomial import PolynomialSystem, require_numeric
 from ..run.checkpoint import RunFolder, manifest_fingerprints
 from ..run.executor import ambient_executor, charge_paths, check_memory, current_executor, make_executor
@@ -359,12 +359,12 @@ def solve_system(system, options=None, seed=None, progress=None, execution=None)
     return result
 
 
-def _solve(system, options, seed, progress, execution, balancing_floor=None):
-    """:func:`solve_system` without the centred second look (``balancing_floor``: see ``Scaling.balancing``)."""
+def _solve(system, options, seed, progress, execution):
+    """:func:`solve_system` without the centred second look."""
     require_numeric(system, allow_zero=False)
     seed, rng = random_state(seed)
     started = time.perf_counter()
-    scaling = Scaling.balancing(system, balancing_floor)
+    scaling = Scaling.balancing(system)
     computed = scaling.scale_system(system)
     target, squared = _square_target(computed, options, rng)
     choice = choose_start(target, StartKind.parse(options.start), options.groups, rng)
@@ -468,13 +468,13 @@ def _multiple_groups_centred(result, options, progress, execution):
         point = np.asarray(group.point, dtype=complex)
         if system.has_real_coefficients and np.linalg.norm(scaling.to_computed(point.imag[None, :])) <= distance / 4:
             point = point.real.astype(complex)  # a real centre keeps real equations real (conjugate pairs)
-        centring = centre_near(point, 0.0)
+        centring = centre_near(point, 0.0, digits=_centre_digits(group))
         if progress is not None:
             progress(f"a group of {counted(group.multiplicity, 'path')} judged again in coordinates centred at "
                      f"{short_point(centring.point)}")
         try:
             local = _solve(centred_system(system, centring), options, result.seed, None,
-                           Execution(executor=execution.executor), balancing_floor=CENTRED_BALANCING_FLOOR)
+                           Execution(executor=execution.executor))
         except LimitError as err:  # the centred polynomial is too large to write: the group stays undecided
             records.append({"centre": short_point(centring.point), "settled": False, "reason": str(err)})
             result.undecided.append(group)
@@ -518,6 +518,18 @@ def _multiple_groups_centred(result, options, progress, execution):
         # the two runs disagree there: the first run's endgame did not settle the region. Counted as failed
         # paths, so that every caller (singular loci, witness sets, families) reports the gap, not only `solve`
         result.status[np.asarray(group.paths, dtype=np.int64)] = PathStatus.FAILED_ENDGAME
+
+
+def _centre_digits(group):
+    """Digits of the centre of a group of multiplicity m: about what the group's point is known to, 16 / m.
+
+    A coordinate that is zero up to the group's error (6e-11 beside 0.86 in a cusp's null-vector endpoint) is
+    then exactly zero in the centre: its powers would otherwise be terms of that size in the centred system, and
+    the balancing would take them for the features' size (every centred path went to infinity). Never fewer
+    than 6 digits: a coarser centre would leave the features far from the centred origin again (roots 1e-6 apart
+    at 1234: centred at 1234.000, they are found; at 1230, they would merge as before).
+    """
+    return max(6, min(12, 16 // max(1, int(group.multiplicity), int(group.winding))))
 
 
 def _newton_steps(system, scaling, points):
