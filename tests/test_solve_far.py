@@ -95,10 +95,14 @@ TANGENT = (["(u - 1)^2 + v^2 - 1", "(u + 1)^2 + v^2 - 1"], (1234, -2345))
 # 4 solutions about 1/2 apart (u^2 - uv - v^2 = 0 meets the circle u^2 + v^2 = 1/2 four times), and 1/100 the size
 THREE = (["u^2 + v^2 - 1/2", "u^2 - v^2 + w", "w + u*v"], (1234, -2345, 3456))
 THREE_SMALL = (["u^2 + v^2 - 1/20000", "u^2 - v^2 + w/100", "w/100 + u*v"], (1234, -2345, 3456))
+# four simple roots u = +-1e-6, v^2 = u + 1e-8 (a tester's case: one root of multiplicity 4 when the centred run
+# was balanced without its 1e-12 constant)
+FOUR_TINY = (["u^2 - 1/1000000000000", "v^2 - u - 1/100000000"], (1234, -2345))
 
 
-@pytest.mark.parametrize("case", [CUBIC_SMALL, CIRCLES, CIRCLES_SMALL, THREE, THREE_SMALL],
-                         ids=["cubic-small", "circles", "circles-small", "three-unknowns", "three-unknowns-small"])
+@pytest.mark.parametrize("case", [CUBIC_SMALL, CIRCLES, CIRCLES_SMALL, THREE, THREE_SMALL, FOUR_TINY],
+                         ids=["cubic-small", "circles", "circles-small", "three-unknowns", "three-unknowns-small",
+                              "four-tiny"])
 @pytest.mark.parametrize("unit,change,seed", SETTINGS)
 def test_simple_solutions_close_together_far_away_are_all_found(case, unit, change, seed):
     result, warnings, right = check(*case, unit, change, seed)
