@@ -179,3 +179,20 @@ def test_a_doubled_sphere_is_non_reduced_near_and_far(shift):
         (verdict,) = check_points(system, [[Fraction(c) for c in point]], seed=seed,
                                   decomposition=decompose(system, seed=seed)).points
         assert verdict.verdict is Verdict.NON_REDUCED, verdict.notes
+
+
+@pytest.mark.parametrize("shift, offset, seed", [(0, sympy.Rational(1, 10 ** 9), 1), (0, sympy.Rational(1, 10 ** 12), 2),
+                                                 (1234, sympy.Rational(1, 10 ** 9), 3)])
+def test_a_point_of_the_line_just_off_the_plane_is_smooth(shift, offset, seed):
+    # On the line x = 3, y = 4 of the plane-and-line union, a point 1e-9 (1e-12) above the crossing is only on
+    # the line: exactly, J has rank 2 there, and the tangent space (dimension 3 - 2 = 1) cannot hold the plane
+    # (dimension 2): smooth. Tangent space dimension >= local dimension at every point of V(F) (common practice,
+    # from memory: I. R. Shafarevich, "Basic Algebraic Geometry 1", ch. II). sympy's verdict agrees. Before, the
+    # membership test's tolerance put the plane through the point and made it "singular".
+    equations, variables, points = changed("plane and line", shift, "unit")
+    point = [points[0][0], points[0][1], points[0][2] + offset]
+    assert sympy_verdict(equations, variables, point) is Verdict.SMOOTH
+    system = system_of(equations, variables)
+    (verdict,) = check_points(system, [exact_text(point)], seed=seed, decomposition=decompose(system, seed=seed)).points
+    assert verdict.verdict is Verdict.SMOOTH, verdict.notes
+    assert [(c["dimension"], c["degree"]) for c in verdict.components] == [(1, 1)]

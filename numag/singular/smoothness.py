@@ -1242,6 +1242,15 @@ def _check_in_units(system, given, exact, options, seed, rng, decomposition, sca
         for k, hits in zip(on, components_through_points(decomposition, [scaling.to_user(refined[k]) for k in on],
                                                          [seed + k for k in on])):
             through[k] = hits
+    # The tangent space at p has dimension n - rank J(p), at least the dimension of every component of X through
+    # p: with the rank exact, a component of larger dimension does not pass through p, however close the
+    # membership test put it (a point 1e-9 off a plane, on a line through it, had been "on both")
+    excluded = {}
+    for k in range(len(given)):
+        if exact_ranks[k] is not None and through[k] and not system.projective:
+            room = system.ambient_dimension - exact_ranks[k]
+            excluded[k] = [c for c in through[k] if c.dimension > room]
+            through[k] = [c for c in through[k] if c.dimension <= room]
     checker.settle_in_double(given[~off], refined[~off], [values[k] for k in np.nonzero(~off)[0]],
                              [scales[k] for k in np.nonzero(~off)[0]], [through[k] for k in np.nonzero(~off)[0]],
                              positions=np.nonzero(~off)[0],
@@ -1265,6 +1274,11 @@ def _check_in_units(system, given, exact, options, seed, rng, decomposition, sca
                               exact_rank=exact_ranks[k]) for k in range(len(given))]
     for k, verdict in enumerate(verdicts):
         verdict.on_x_exactly = on_exactly[k]
+        if excluded.get(k):
+            ids = ", ".join(str(c.id) for c in excluded[k])
+            verdict.notes.append(f"The membership test put component(s) {ids} through this point, but J has rank "
+                                 f"{exact_ranks[k]} here in exact arithmetic, so no component of dimension above "
+                                 f"{system.ambient_dimension - exact_ranks[k]} passes through it: left out.")
         if rule.data[k] is _PointData.ROUNDED and verdict.verdict.is_singular:
             # the nearest point of X found, kept beside the rank drop the verdict speaks about (decision 0072)
             verdict.point, verdict.distance = refined[k], float(moved[k])
