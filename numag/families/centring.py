@@ -163,7 +163,7 @@ def locate(family, codimension, seed=None, max_exact_minors=24):
     if math.prod(max(p.degree, 1) for p in system.polynomials) > LOCATE_MAX_PATHS:
         return Located(nothing, None, f"its locating system has more than {LOCATE_MAX_PATHS} paths")
     try:
-        solved = solve_system(system, SolveOptions(), seed=int(rng.integers(2 ** 63)))
+        solved = solve_system(system, SolveOptions(second_look=False), seed=int(rng.integers(2 ** 63)))
     except (InputError, LimitError) as err:
         return Located(nothing, None, f"its locating system was not solved ({err})")
     found = np.array([s.point for s in solved.solutions + list(solved.not_isolated)
@@ -210,7 +210,7 @@ def locate_members(family, values, seed=None):
     size = 1 + float(np.max(np.abs(values - middle[None, :]))) if len(values) else 1.0
     at = middle + size * (rng.standard_normal(m) + 1j * rng.standard_normal(m)) / 2
     try:
-        solved = solve_system(family.member(list(at)), SolveOptions(), seed=int(rng.integers(2 ** 63)))
+        solved = solve_system(family.member(list(at)), SolveOptions(second_look=False), seed=int(rng.integers(2 ** 63)))
     except (InputError, LimitError) as err:
         return Located(np.zeros((0, n), dtype=complex), None, f"its member was not solved ({err})")
     points = np.array([s.point for s in solved.solutions], dtype=complex).reshape(-1, n)

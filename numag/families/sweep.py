@@ -474,7 +474,10 @@ def sweep(family, values, options=None, seed=None, progress=None, execution=None
     family, x_factors, p_factors = _in_computed_units(family, options.balance)
     values = values / p_factors
     start_parameters = (rng.standard_normal(family.n_parameters) + 1j * rng.standard_normal(family.n_parameters))
-    start = solve_system(family.member(list(start_parameters)), SolveOptions(tracker=options.tracker, start=options.start),
+    # no second look of solve's own (decision 0081): the sweep centres its family itself (decision 0082), and the
+    # start member's points must be the paths' own ends, each moved to every value
+    start = solve_system(family.member(list(start_parameters)),
+                         SolveOptions(tracker=options.tracker, start=options.start, second_look=False),
                          seed=int(rng.integers(2 ** 63)))
     x_centre = np.zeros(family.n_variables)
     # its own generator: the sweep's draws stay as without the look
@@ -490,8 +493,8 @@ def sweep(family, values, options=None, seed=None, progress=None, execution=None
         x_centre = centring.point[:family.n_variables]
         family, x_factors, p_factors = _in_computed_units(centred, options.balance)
         values = user_values / p_factors
-        start = solve_system(family.member(list(start_parameters)), SolveOptions(tracker=options.tracker,
-                                                                                 start=options.start),
+        start = solve_system(family.member(list(start_parameters)),
+                             SolveOptions(tracker=options.tracker, start=options.start, second_look=False),
                              seed=int(rng.integers(2 ** 63)))
     solutions = np.array([s.point for s in start.solutions if s.isolated and s.multiplicity == 1],
                          dtype=complex).reshape(-1, family.n_variables)
