@@ -130,3 +130,22 @@ def test_values_and_weighted_jacobian_from_their_own_monomials_match_sympy():
             assert np.abs(raw[p, 3:12].reshape(3, 3) - expected_jacobian).max() < 1e-12 * (
                 1 + np.abs(expected_jacobian).max())
             assert np.all(raw[p, 12:] == 0)  # the spare columns a caller fills in place
+
+
+def test_monomial_table_rows_as_numpy_orders_them():
+    # numpy's np.unique(rows, axis=0) as the reference (common practice, no source): the evaluator's monomials
+    # come from sorted_unique_rows (decision 0094) and must be numpy's rows, order and inverse exactly
+    from numag.system.polynomial import sorted_unique_rows
+    for seed in (1, 2, 3):
+        rng = np.random.default_rng(seed)
+        for _ in range(30):
+            rows, columns = int(rng.integers(1, 80)), int(rng.integers(1, 12))
+            table = rng.integers(0, int(rng.integers(1, 6)), size=(rows, columns))
+            unique, inverse = sorted_unique_rows(table)
+            expected, expected_inverse = np.unique(table, axis=0, return_inverse=True)
+            assert np.array_equal(unique, expected)
+            assert np.array_equal(inverse, expected_inverse.reshape(-1))
+        names, equations = random_system(rng, 3, 2, degree=3, n_terms=5)
+        evaluator = BatchEvaluator(parse_system(equations, names).polynomials)
+        assert np.array_equal(evaluator.monomials[np.lexsort(evaluator.monomials.T[::-1])],
+                              np.unique(evaluator.monomials, axis=0))

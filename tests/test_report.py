@@ -1,4 +1,5 @@
 import json
+import math
 
 import numpy as np
 
@@ -69,3 +70,23 @@ def test_certification_through_worker_processes_gives_the_same_certificates():
     assert strip(alone) == strip(pooled)
     assert sum(len(c) for c in strip(pooled)) == 6 and pooled["certification"]["counts"]["certified"] == 6
     assert pooled["certification"]["executor"]["executor"] == "process pool"
+
+
+def test_points_and_lines_as_the_standard_library_writes_them():
+    # Python's own float() and json module as the reference (common practice, no source): encode_point reads the
+    # complex memory as pairs and json_chunks reuses one encoder (decision 0094); the numbers and text must not move
+    from numag.app.report import encode_point, json_chunks
+    for seed in (1, 2, 3):
+        rng = np.random.default_rng(seed)
+        point = (rng.standard_normal(7) + 1j * rng.standard_normal(7)) * 10.0 ** rng.integers(-300, 300, 7)
+        point[0] = complex(-0.0, 0.0)
+        strided = np.concatenate([point, point])[::2]  # not contiguous
+        for vector in (point, strided, list(point)):
+            encoded = encode_point(vector)
+            assert encoded == [[float(z.real), float(z.imag)] for z in vector]
+            assert [math.copysign(1, pair[0]) for pair in encoded] == [math.copysign(1, z.real) for z in vector]
+        data = {"points": [encode_point(point), encode_point(strided)], "labels": ["a", "b"], "n": [1, 2.5]}
+        text = "".join(json_chunks(data))
+        assert json.loads(text) == json.loads(json.dumps(data))
+        assert "".join(json_chunks(data["points"][0])) == "[\n" + ",\n".join(
+            "  " + json.dumps(pair) for pair in data["points"][0]) + "\n]"

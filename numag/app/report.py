@@ -60,7 +60,9 @@ CAUTION = ("Numerical results. Before relying on them for a real machine or stru
 
 def encode_point(point):
     """Complex vector -> list of [real, imaginary] pairs."""
-    return [[float(z.real), float(z.imag)] for z in np.asarray(point, dtype=complex)]
+    # the complex numbers' memory read as (real, imaginary) pairs of floats, converted at once: a float() per
+    # number was a third of the Python work of a 1,024-solution report
+    return np.ascontiguousarray(point, dtype=complex).view(np.float64).reshape(-1, 2).tolist()
 
 
 def decode_point(pairs):
@@ -425,10 +427,14 @@ def json_chunks(data, indent=0):
         inner = " " * (indent + 2)
         yield "["
         for k, entry in enumerate(data):
-            yield ("\n" if k == 0 else ",\n") + inner + json.dumps(entry, allow_nan=False)
+            yield ("\n" if k == 0 else ",\n") + inner + _ENCODER.encode(entry)
         yield "\n" + " " * indent + "]"
     else:
-        yield json.dumps(list(data) if isinstance(data, EncodedSequence) else data, allow_nan=False)
+        yield _ENCODER.encode(list(data) if isinstance(data, EncodedSequence) else data)
+
+
+#: json.dumps(entry, allow_nan=False) made a new encoder for every entry (a line per solution, per path status)
+_ENCODER = json.JSONEncoder(allow_nan=False)
 
 
 def _nested(entries):

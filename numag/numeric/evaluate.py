@@ -30,6 +30,7 @@ array([[2., 4.],
 import numpy as np
 
 from ..errors import InputError
+from ..system.polynomial import sorted_unique_rows
 from ..run.executor import check_memory
 
 __all__ = ["BatchEvaluator", "PrecisionEvaluator", "TermSizes"]
@@ -69,10 +70,10 @@ class BatchEvaluator:
             raise InputError("all polynomials must have the same number of variables")
         self.n_equations, self.n_variables = len(polynomials), n
         # the table below has a column per monomial of F (at least): refuse a hopeless size before building it
-        # (counts asked for only because numpy's plain np.unique imports numpy.ma, 5-15 ms of every process
-        # that builds an evaluator; the distinct rows are the same; decision 0067)
-        distinct = len(np.unique(np.vstack([p.exponents for p in polynomials] + [np.zeros((1, n), dtype=np.int64)]),
-                                 axis=0, return_counts=True)[0])
+        # (rows made distinct by a lexicographic sort, as np.unique's row mode orders them: that mode builds a
+        # structured type with a field per column, and its sorts were half of this set-up; decision 0094)
+        distinct = len(sorted_unique_rows(np.vstack([p.exponents for p in polynomials]
+                                                    + [np.zeros((1, n), dtype=np.int64)]))[0])
         check_memory(2 * 16 * (self.n_equations * (n + 1) + spare_columns) * distinct,
                      f"the evaluation table of {self.n_equations} equations in {n} variables")
         rows = []  # (row of the output, exponents, coefficients)
@@ -90,8 +91,7 @@ class BatchEvaluator:
                 lowered[:, j] -= 1
                 rows.append((self.n_equations + i * n + j, lowered, coefficients[has] * powers[has]))
         all_exponents = np.vstack([e for _, e, _ in rows] + [np.zeros((1, n), dtype=np.int64)])
-        self.monomials, inverse = np.unique(all_exponents, axis=0, return_inverse=True)
-        inverse = inverse.reshape(-1)
+        self.monomials, inverse = sorted_unique_rows(all_exponents)
         n_rows, n_monomials = self.n_equations * (n + 1), len(self.monomials)
         # dense (F, J) coefficient table and its transposed copy: refused before allocating when too large
         check_memory(2 * 16 * (n_rows + spare_columns) * n_monomials,

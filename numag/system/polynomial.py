@@ -31,7 +31,7 @@ from .exact import ExactCoefficient
 
 __all__ = ["Limits", "DEFAULT_LIMITS", "Polynomial", "PolynomialSystem", "RESERVED_NAMES", "determinant",
            "prepared_for_numerics", "MAX_COEFFICIENT_SPREAD", "regeneration_bound",
-           "require_numeric", "LinearSpace", "linear_space"]
+           "require_numeric", "LinearSpace", "linear_space", "sorted_unique_rows"]
 
 #: Names the grammar reserves; no variable may use them.
 RESERVED_NAMES = frozenset({"I", "sqrt"})
@@ -643,12 +643,18 @@ def _from_gaussian(data, n_variables):
     return Polynomial(exponents.reshape(len(coefficients), n_variables), coefficients, n_variables)
 
 
-def _sorted_unique_rows(exponents):
+def sorted_unique_rows(exponents):
     """``np.unique(rows, axis=0, return_inverse=True)`` by a lexicographic sort of the columns.
 
     The same sorted rows and inverse; np.unique's row mode builds a structured type with a field per
     column, which took 8 ms for a two-term equation in 1,000 variables (a system of 1,000 linear
-    equations spent half a minute here).
+    equations spent half a minute here; the evaluator's monomial table, 5-10 ms of every `numag solve`).
+
+    Examples
+    --------
+    >>> rows, inverse = sorted_unique_rows(np.array([[1, 0], [0, 2], [1, 0]]))
+    >>> rows.tolist(), inverse.tolist()
+    ([[0, 2], [1, 0]], [1, 0, 1])
     """
     if exponents.shape[1] == 0:
         return exponents[:1], np.zeros(len(exponents), dtype=np.int64)
@@ -666,7 +672,7 @@ def _merge_terms(exponents, coefficients):
     n = exponents.shape[1]
     if len(exponents) == 0:
         return exponents.reshape(0, n), coefficients[:0]
-    unique, inverse = _sorted_unique_rows(exponents)
+    unique, inverse = sorted_unique_rows(exponents)
     if len(unique) == len(exponents):
         merged = np.empty_like(coefficients)
         merged[inverse] = coefficients
