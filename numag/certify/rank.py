@@ -11,6 +11,7 @@ import mpmath
 import numpy as np
 
 from ..system.exact import ExactCoefficient
+from ..system.centred import centre_near, centred_system, translated_terms
 from ..system.polynomial import PolynomialSystem
 from ..numeric.evaluate import BatchEvaluator, PrecisionEvaluator
 from ..numeric.linalg import pivot_order
@@ -271,7 +272,14 @@ def _sampled_codimension(polynomials, point, seed, samples=8):
     radius = 1e-3 * (1 + float(np.max(np.abs(point), initial=0.0)))
     directions = rng.standard_normal((samples, n)) + 1j * rng.standard_normal((samples, n))
     directions /= np.linalg.norm(directions, axis=1)[:, None]
-    numeric = [p.numeric() if p.is_exact else p for p in polynomials]
+    framed = _sampling_frame(polynomials, point, radius)
+    if framed is not None:
+        # x = s + radius * u: residuals and ranks relative to the sampling radius, not to the unit 1 (samples at
+        # 1e-3 of a crossing at the origin passed the unit's residual test while 1e-6 off X; decision 0098)
+        point, radius = np.zeros(n, dtype=complex), 1.0
+        numeric = framed
+    else:
+        numeric = [p.numeric() if p.is_exact else p for p in polynomials]
     system = PolynomialSystem([f"x{j}" for j in range(n)], numeric)
     projected = project_to_variety(system, BatchEvaluator(numeric), point[None, :] + radius * directions)
     bounds = [_sampled_rank_bounds(numeric, q) for q, ok in zip(projected.points, projected.converged)
@@ -281,6 +289,32 @@ def _sampled_codimension(polynomials, point, seed, samples=8):
     least_sure, least_possible = min(low for low, _ in bounds), min(high for _, high in bounds)
     # A sample whose rank could be lower than the least clear one leaves the codimension open.
     return least_sure if least_sure == least_possible else None
+
+
+#: Systems whose translation to the point would have more terms than this are sampled in the given coordinates.
+_FRAME_TERMS = 20000
+
+
+def _sampling_frame(polynomials, point, radius):
+    """The polynomials in u with x = s + radius * u (s an exact centre at ``point``), numeric; None when too large.
+
+    The translation is exact, so no cancellation of large terms hides the local geometry far from the origin;
+    the scaling by ``radius`` then makes the sampling ball the unit ball.
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> framed = _sampling_frame(parse_system(["x*y"], ["x", "y"]).polynomials, np.array([0.0, 5.0]), 1e-3)
+    >>> framed[0].evaluate([1.0, 0.0])  # (0 + 1e-3 u)(5 + 1e-3 v) at u = 1, v = 0
+    (0.005+0j)
+    """
+    n = len(point)
+    system = PolynomialSystem([f"x{j}" for j in range(n)], list(polynomials))
+    if translated_terms(system) > _FRAME_TERMS or not np.all(np.isfinite(point)):
+        return None
+    centred = centred_system(system, centre_near(point, radius))
+    scale = radius * np.eye(n)
+    return [p.numeric().substitute_linear(scale) for p in centred.polynomials]
 
 
 class _BoxView:

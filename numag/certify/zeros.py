@@ -73,12 +73,28 @@ def _certify_zero_at(required, point, options, claim, digits, pinned, exact_chec
     threshold = 10.0 ** (-(digits - options.guard_digits))
 
     def failed(reason, wanted=None, **extra):
+        # coordinates inside the reach of 0 are rounding of exact zeros more often than not (a point at 1e-49
+        # after a change of coordinates, where the numerical routes fail): the point with them snapped to 0 is
+        # tried exactly before anything is refuted (decision 0098)
+        snapped = np.where(np.abs(point) <= reach, 0, point)
+        if exact_check and options.exact and not pinned and np.any(snapped != point):
+            exact = _exact_at_point(required, snapped, claim, digits, threshold)
+            if exact is not None:
+                exact.distance = float(np.max(np.abs(snapped - point)))
+                exact.notes.append("coordinates within the reach of 0 were taken as exact zeros")
+                return exact, None
         # a box of the reach around the point, or one of the match radius relative to each coordinate
         # (a coordinate of size 1e-4 beside one of 1e4 would otherwise get a box that holds 0)
         magnitudes = np.abs(point)
         relative = [float(options.match_radius * max(a, 1e-8 * magnitudes.max(initial=0.0), 1e-300))
                     for a in magnitudes]
-        for radii in ([reach] * len(point), relative):
+        boxes = [[reach] * len(point)]
+        # the relative box is no refutation of the claim where the point, with every coordinate inside the
+        # reach snapped to 0, is itself a zero: a point of size 1e-49 stands for the origin, and a box of
+        # 1e-55 around it proves nothing about the zero the computation approximated
+        if not np.any(snapped != point) or _refute(required, snapped, 0.0, max(digits, 20)) is not None:
+            boxes.append(relative)
+        for radii in boxes:
             refuting = _refute(required, point, radii, max(digits, 20))
             if refuting is not None:
                 size = "{:.3g}".format(reach) if radii[0] == reach and len(set(radii)) == 1 else \
