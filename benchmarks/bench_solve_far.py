@@ -33,8 +33,9 @@ import test_solve_far as far  # noqa: E402
 
 CASES = {"cubic": far.CUBIC, "cubic-small": far.CUBIC_SMALL, "double-and-simple": far.DOUBLE_AND_SIMPLE,
          "circles": far.CIRCLES, "circles-small": far.CIRCLES_SMALL, "tangent": far.TANGENT, "three": far.THREE,
-         "three-small": far.THREE_SMALL}
-MULTIPLICITIES = {"tangent": [2]}
+         "three-small": far.THREE_SMALL, "triple-and-infinity": far.TRIPLE_AND_INFINITY,
+         "double-point": far.DOUBLE_POINT}
+MULTIPLICITIES = {"tangent": [2], "triple-and-infinity": [3], "double-point": [2]}
 
 
 def main():

@@ -170,3 +170,54 @@ def test_a_region_the_runs_disagree_on_is_undecided(monkeypatch, tmp_path):
     with contextlib.redirect_stderr(io.StringIO()):
         code = main(["solve", str(path), "--seed", "1"], out=out)
     assert code == 3 and "not settled in centred coordinates" in out.getvalue()
+
+
+# a triple root and six paths at infinity: u^3 = 0 meets v - u^2 + u v^2 = 0 only at the origin, with intersection
+# multiplicity 3 (the second curve is smooth there, v = u^2 + ..., and u^3 has order 3 along it; W. Fulton,
+# "Algebraic Curves", 1969, ch. 3, from memory); Bezout's 9 less 3 go to (0 : 1 : 0). The endgame could average the
+# root with infinity into one 9-path group "not isolated" at a point where F does not vanish (decision 0089)
+TRIPLE_AND_INFINITY = (["u^3", "v - u^2 + u*v^2"], (1234, -2345))
+# a double point seen after a linear change of coordinates (the grid's change mixes u and v): (u^2, v)
+DOUBLE_POINT = (["u^2", "v"], (1234, -2345))
+# a double line u = 0 and the simple point (2, 1) (sympy: u + v - 3 = u - v - 1 = 0), moved far from the origin
+LINE_AND_POINT = (["u^2*(u + v - 3)", "u^2*(u - v - 1)"], (1234, -2345))
+
+
+@pytest.mark.parametrize("unit,change,seed", SETTINGS)
+def test_a_group_that_is_no_zero_is_never_reported_on_a_curve(unit, change, seed):
+    result, warnings, right = check(*TRIPLE_AND_INFINITY, unit, change, seed, [3])
+    # right, or flagged (a seed may lose every path to the jump rule); never a curve through a point off X
+    assert right or warnings, ([(s.point, s.multiplicity) for s in result.solutions], warnings)
+    assert not result.not_isolated
+    if right:
+        assert sum(s.multiplicity for s in result.at_infinity) == 6
+
+
+@pytest.mark.parametrize("unit,change,seed", SETTINGS)
+def test_true_positive_dimensional_groups_far_away_stay_so(unit, change, seed):
+    system, to_user = moved(*LINE_AND_POINT, unit, change)
+    result = solve_system(system, seed=seed)
+    warnings = completeness_warnings(solve_report_to_dict(result, result.options))
+    point = to_user((2, 1))
+    found = [s for s in result.solutions if np.linalg.norm(s.point - point) <= 1e-8 * (1 + np.linalg.norm(point))]
+    # the simple point found, or the run flagged (its paths can end averaged with the line's; such a group is no
+    # zero and is left undecided, never reported on the line)
+    assert (len(found) == len(result.solutions) == 1) or warnings
+    assert result.not_isolated
+    # every not-isolated group lies on the line u = 0 (sympy's map back of two of its points)
+    line = [to_user((0, 0)), to_user((0, 1))]
+    direction = line[1] - line[0]
+    for group in result.not_isolated:
+        offset = group.point - line[0]
+        across = offset - direction * (np.vdot(direction, offset) / np.vdot(direction, direction))
+        assert np.linalg.norm(across) <= 1e-6 * (1 + np.linalg.norm(group.point))
+
+
+@pytest.mark.parametrize("seed", [1, 2, 3])
+def test_positive_dimensional_groups_at_the_origin_are_not_centred(seed):
+    # (x - 5)^2 (x + y - 3), (x - 5)^2 (x - y - 1): the line x = 5 and the point (2, 1) (sympy on the linear
+    # factors); every not-isolated group is a zero, so nothing is solved again
+    result = solve_system(parse_system(["(x - 5)^2*(x + y - 3)", "(x - 5)^2*(x - y - 1)"], ["x", "y"]), seed=seed)
+    assert [np.round(s.point.real, 8).tolist() for s in result.solutions] == [[2.0, 1.0]]
+    assert result.not_isolated and all(abs(s.point[0] - 5) <= 1e-6 for s in result.not_isolated)
+    assert not result.extra.get("not_zeros") and not result.extra.get("centred") and not result.undecided

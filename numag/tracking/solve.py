@@ -293,28 +293,38 @@ def _square_target(system, options, rng):
     return system.random_combinations(expected, rng), True
 
 
-def _refine_mp(system, point, digits):
-    """Gauss-Newton on F at ``digits`` digits (linear convergence at multiple roots is enough here)."""
-    import mpmath  # here, not at import: only singular endpoints are refined in mpmath
-    from ..numeric.refine import mp_gauss_newton
+def _mp_scaled(system, ctx):
+    """F and J at the precision of ``ctx``, each equation in units of its terms at the point (for Gauss-Newton)."""
     evaluator = PrecisionEvaluator(system.polynomials)
     sizes = TermSizes(system.polynomials)
+
+    def function(z):
+        x = [z[j] for j in range(system.n_variables)]
+        values, jacobian = evaluator.evaluate(x, ctx)
+        scale = sizes.values(np.array([complex(v) for v in x])[None])[0]
+        for i in range(system.n_equations):
+            values[i] /= scale[i]
+            for j in range(system.n_variables):
+                jacobian[i, j] /= scale[i]
+        return values, jacobian
+
+    return function
+
+
+def _refine_mp(system, point, digits, anchored=False, converged=False):
+    """Gauss-Newton on F at ``digits`` digits (linear convergence at multiple roots is enough here).
+
+    With ``converged``, returns (point, whether the scaled residual reached 10^-digits) instead of the point.
+    """
+    import mpmath  # here, not at import: only singular endpoints are refined in mpmath
+    from ..numeric.refine import mp_gauss_newton
     with mpmath.mp.workdps(digits + 10):
         ctx = mpmath.mp
-
-        def function(z):
-            x = [z[j] for j in range(system.n_variables)]
-            values, jacobian = evaluator.evaluate(x, ctx)
-            scale = sizes.values(np.array([complex(v) for v in x])[None])[0]
-            for i in range(system.n_equations):
-                values[i] /= scale[i]
-                for j in range(system.n_variables):
-                    jacobian[i, j] /= scale[i]
-            return values, jacobian
-
-        z, _, _, _ = mp_gauss_newton(function, ctx.matrix([ctx.mpc(v) for v in point]), ctx,
-                                     tolerance=ctx.mpf(10) ** (-digits), max_iterations=120)
-        return np.array([complex(z[j]) for j in range(system.n_variables)])
+        z, reached, _, _ = mp_gauss_newton(_mp_scaled(system, ctx), ctx.matrix([ctx.mpc(v) for v in point]), ctx,
+                                           tolerance=ctx.mpf(10) ** (-digits), max_iterations=120,
+                                           anchored=anchored)
+        refined = np.array([complex(z[j]) for j in range(system.n_variables)])
+        return (refined, bool(reached)) if converged else refined
 
 
 def solve_system(system, options=None, seed=None, progress=None, execution=None):
@@ -450,11 +460,18 @@ def _multiple_groups_centred(result, options, progress, execution):
     scaling = result.scaling
     system = result.system
     kinds = ("solutions", "unverified", "not_isolated", "discarded")
+    # failed paths counted before any region is left undecided (whose paths are then counted failed too)
+    failed_first = result.path_counts()["failed"]
+    misplaced = _not_zeros(result, options)
     triggers = [s for s in result.solutions + result.unverified if s.multiplicity > 1 or s.winding > 1]
     triggers += _not_converged(result)
+    triggers += [s for s in result.not_isolated if id(s) in misplaced]
     records = []
+    adopted = False
     for group in triggers:
-        if not any(group is s for s in result.solutions + result.unverified):
+        if adopted:
+            break
+        if not any(group is s for s in result.solutions + result.unverified + result.not_isolated):
             continue  # replaced by an earlier centred run's region
         here = scaling.to_computed(np.asarray(group.point, dtype=complex)[None, :])[0]
         distance = float(np.linalg.norm(here))
@@ -465,7 +482,8 @@ def _multiple_groups_centred(result, options, progress, execution):
             result.undecided.append(group)
             _remove(result, [group], kinds)
             continue
-        point = np.asarray(group.point, dtype=complex)
+        # a group that is no zero is centred at the zero Gauss-Newton reaches from it (decision 0089)
+        point = np.asarray(misplaced[id(group)][0] if id(group) in misplaced else group.point, dtype=complex)
         if system.has_real_coefficients and np.linalg.norm(scaling.to_computed(point.imag[None, :])) <= distance / 4:
             point = point.real.astype(complex)  # a real centre keeps real equations real (conjugate pairs)
         centring = centre_near(point, 0.0, digits=_centre_digits(group))
@@ -480,26 +498,38 @@ def _multiple_groups_centred(result, options, progress, execution):
             result.undecided.append(group)
             _remove(result, [group], kinds)
             continue
-        for kind in kinds:
-            for solution in getattr(local, kind):
-                solution.point = solution.point + centring.point
+        whole = _whole(local, options)
+        # the zero a misplaced group was drawn to, found again at the centred origin (judged before moving back)
+        confirmed = id(group) in misplaced and misplaced[id(group)][1] and _found_at_origin(local, options)
+        _moved_back(local, centring, kinds)
         result.evaluations += local.evaluations
         centre = scaling.to_computed(centring.point[None, :])[0]
         first = [s for kind in kinds for s in getattr(result, kind)]
         second = [s for kind in kinds for s in getattr(local, kind)]
-        radius = _region_radius(scaling, centre, distance / 2, first + second)
+        radius = _region_radius(scaling, centre, max(distance, float(np.linalg.norm(centre))) / 2, first + second)
         first_in = [s for s in first if radius is not None and _within(scaling, centre, radius, s)]
         second_in = [s for s in second if radius is not None and _within(scaling, centre, radius, s)]
         first_paths = sum(s.multiplicity for s in first_in)
         settled = (radius is not None and any(group is s for s in first_in)
                    and first_paths == sum(s.multiplicity for s in second_in))
-        records.append({"centre": short_point(centring.point), "radius_computed_units": radius,
-                        "paths_first_run": first_paths, "paths_centred_run": sum(s.multiplicity for s in second_in),
-                        "centred_run_failed_paths": local.path_counts()["failed"], "settled": settled})
+        accounted = (not settled and confirmed and radius is not None and any(group is s for s in first_in)
+                     and _accounted(result, local, group, first_in, second_in, first + second))
+        whole = whole or accounted
+        record = {"centre": short_point(centring.point), "radius_computed_units": radius,
+                  "paths_first_run": first_paths, "paths_centred_run": sum(s.multiplicity for s in second_in),
+                  "centred_run_failed_paths": local.path_counts()["failed"], "settled": settled or whole}
+        records.append(record)
+        if not settled and whole:
+            # the regions disagree, but the centred run accounts for every path by itself: it replaces the first
+            record["adopted"] = True
+            _adopt(result, local)
+            adopted = True
+            continue
         if not settled:
-            doubtful = [s for s in first_in if (s.multiplicity > 1 or s.winding > 1) and s is not group]
-            doubtful = [s for s in [group] + doubtful if any(s is t for t in result.solutions)]
-            _remove(result, doubtful, ("solutions",))
+            doubtful = [s for s in first_in if (s.multiplicity > 1 or s.winding > 1) and s is not group
+                        and any(s is t for t in result.solutions)]
+            doubtful = [s for s in [group] + doubtful if any(s is t for kind in kinds for t in getattr(result, kind))]
+            _remove(result, doubtful, kinds)
             result.undecided.extend(doubtful)
             continue
         # the first run's paths that ended in the region, shared out in order (the centred run numbers its own)
@@ -512,12 +542,179 @@ def _multiple_groups_centred(result, options, progress, execution):
                     solution.paths = pooled[start:start + solution.multiplicity]
                     start += solution.multiplicity
                     getattr(result, kind).append(solution)
+    if not adopted and failed_first and len(records) < _MAX_CENTRED_RUNS:
+        record = _failed_paths_centred(result, options, execution, kinds)
+        if record is not None:
+            records.append(record)
+    if misplaced:
+        result.extra["not_zeros"] = len(misplaced)
     if records:  # absent when nothing was centred, as in a saved result read back
         result.extra["centred"] = records
     for group in result.undecided:
         # the two runs disagree there: the first run's endgame did not settle the region. Counted as failed
         # paths, so that every caller (singular loci, witness sets, families) reports the gap, not only `solve`
         result.status[np.asarray(group.paths, dtype=np.int64)] = PathStatus.FAILED_ENDGAME
+
+
+def _failed_paths_centred(result, options, execution, kinds):
+    """After failed paths: one centred run at the finite endpoints' mean, adopted only when it is whole.
+
+    Paths that failed (jumped, stalled) near features far from the origin have no endpoint to centre at; the
+    groups that were found are the best guess of where the features are. A region count cannot settle paths
+    without endpoints, so the centred run is taken only when it accounts for every path by itself
+    (:func:`_whole`); else the first run stands, its failed paths reported as before. Returns the record, or None
+    when the finite endpoints are not away from the origin (their spread reaches it: centring would not help).
+    """
+    found = [s for kind in ("solutions", "unverified", "not_isolated") for s in getattr(result, kind)]
+    if not found:
+        return None
+    points = result.scaling.to_computed(np.array([np.asarray(s.point, complex) for s in found]))
+    weights = np.array([s.multiplicity for s in found], dtype=float)
+    middle = weights @ points / weights.sum()
+    distance = float(np.linalg.norm(middle))
+    spread = float(np.max(np.linalg.norm(points - middle[None, :], axis=1)))
+    if not np.isfinite(distance) or distance <= max(spread, options.cluster_tolerance):
+        return None
+    point = result.scaling.to_user(middle[None, :])[0]
+    if result.system.has_real_coefficients:
+        point = point.real.astype(complex)
+    centring = centre_near(point, 0.0, digits=6)
+    try:
+        local = _solve(centred_system(result.system, centring), options, result.seed, None,
+                       Execution(executor=execution.executor))
+    except LimitError as err:
+        return {"centre": short_point(centring.point), "settled": False, "reason": str(err)}
+    whole = _whole(local, options)
+    result.evaluations += local.evaluations
+    record = {"centre": short_point(centring.point), "after_failed_paths": result.path_counts()["failed"],
+              "centred_run_failed_paths": local.path_counts()["failed"], "settled": whole}
+    if whole:
+        _moved_back(local, centring, kinds)
+        _adopt(result, local)
+        record["adopted"] = True
+    return record
+
+
+def _moved_back(local, centring, kinds):
+    """A centred run's points in the user's coordinates: finite points moved by s, points at infinity as lines.
+
+    x = y + s: the homogeneous point (y_0 : y) is (y_0 : y + s y_0); at infinity (y_0 = 0) it is the same.
+    """
+    for kind in kinds:
+        for solution in getattr(local, kind):
+            solution.point = solution.point + centring.point
+    for solution in local.at_infinity:
+        point = np.asarray(solution.point, dtype=complex).copy()
+        point[1:] = point[1:] + centring.point * point[0]
+        solution.point = normalize_projective(point[None, :])[0]
+
+
+def _whole(local, options):
+    """Whether a centred run accounts for every path by itself, as any run numag reports with exit 0 must.
+
+    No failed or lost path, nothing unverified, not isolated or discarded; every regular endpoint converged
+    (one Newton step moves it by rounding only, :func:`_not_converged`); every multiple group at the centred
+    origin, where the centring put the feature and the run sees it best (one far from it could be several roots
+    merged, decision 0081). Then the run passes every test a first run is held to, in coordinates centred at the
+    features. With no path at infinity, the Bezout number of distinct regular roots, it is complete outright
+    (refined Bezout theorem: the isolated solutions' multiplicities add up to at most the product of the degrees,
+    W. Fulton, "Intersection Theory", 1984, ch. 12, from memory). Judged before the points are moved back.
+    """
+    if (local.path_counts()["failed"] or lost_first_stage_paths(local.extra.get("start"))
+            or local.unverified or local.not_isolated or local.discarded or local.undecided or local.at_infinity):
+        return False
+    if any(s.multiplicity > 1 or s.winding > 1 for s in local.solutions):
+        return False
+    return len(local.solutions) == len(local.status) and not _not_converged(local)
+
+
+def _adopt(result, local):
+    """The first run's answer replaced by a whole centred run's (its points already moved back)."""
+    for kind in ("solutions", "unverified", "not_isolated", "discarded", "at_infinity", "undecided"):
+        setattr(result, kind, list(getattr(local, kind)))
+    result.status, result.steps, result.winding = local.status, local.steps, local.winding
+    result.retracked, result.digits = local.retracked, local.digits
+    result.extra["start"] = local.extra.get("start")
+
+
+def _found_at_origin(local, options):
+    """Whether a centred run (points not yet moved back) has a solution group at its origin and no failed path."""
+    if local.path_counts()["failed"] or lost_first_stage_paths(local.extra.get("start")):
+        return False
+    return any(float(np.linalg.norm(local.scaling.to_computed(np.asarray(s.point, complex)[None, :])[0]))
+               <= options.cluster_tolerance for s in local.solutions)
+
+
+def _accounted(result, local, group, first_in, second_in, every):
+    """Whether a centred run accounts for a misplaced group's paths (decision 0089).
+
+    The group is no zero: its paths ended nowhere the equations say, like failed paths. The centred run, whose
+    origin is the zero the group was drawn to and which found a solution there, must then agree with the first
+    run everywhere else -- in the region less the group, outside it, at infinity -- and place the group's paths
+    in the region or at infinity: as many more there as the group had.
+    """
+    others_in = sum(s.multiplicity for s in first_in if s is not group)
+    extra_in = sum(s.multiplicity for s in second_in) - others_in
+    extra_infinity = (sum(s.multiplicity for s in local.at_infinity)
+                      - sum(s.multiplicity for s in result.at_infinity))
+    inside = {id(s) for s in first_in + second_in}
+    first_out = sum(s.multiplicity for kind in ("solutions", "unverified", "not_isolated", "discarded")
+                    for s in getattr(result, kind) if id(s) not in inside)
+    second_out = sum(s.multiplicity for kind in ("solutions", "unverified", "not_isolated", "discarded")
+                     for s in getattr(local, kind) if id(s) not in inside)
+    return (extra_in >= 0 and extra_infinity >= 0 and extra_in + extra_infinity == group.multiplicity
+            and first_out == second_out and result.path_counts()["failed"] == 0
+            and len(result.status) == len(local.status))
+
+
+#: Not-isolated groups checked in extended precision per solve for being zeros at all (the largest residuals first).
+_MAX_ZERO_CHECKS = 32
+
+
+def _not_zeros(result, options):
+    """Not-isolated groups away from the origin that are no zeros of F: {id(group): where to centre}.
+
+    A cycle of the endgame can enclose a multiple root far from the origin and paths going to infinity: its mean
+    lies on the line between them, nowhere near a zero, and the paths form one group. In double precision far from
+    the origin such a point can look like a zero on a curve: F is known there only to rounding of terms of the
+    size of the coordinates' powers, and a flat equation ((x - 1234)^3) is within that of zero over a whole
+    strip; the isolation test then meets that strip (decision 0089). Gauss-Newton on the system's own
+    coefficients in extended precision (the refinement digits), anchored at the point, settles it: on a
+    positive-dimensional set the point is a zero up to the endgame's error and the residual vanishes in at most
+    a few steps, moving it less than the cluster tolerance; off one there is no zero near the point to reach. The centre is where Gauss-Newton unanchored
+    goes from there (the zero the group was drawn to) when it lies within half the group's distance to the
+    origin, else the point itself. Values: (centre, whether it is such a zero).
+    """
+    system, scaling = result.system, result.scaling
+    if not result.not_isolated or system.n_equations != system.n_variables:
+        return {}
+    far = [s for s in result.not_isolated
+           if float(np.linalg.norm(scaling.to_computed(np.asarray(s.point, complex)[None, :])[0]))
+           > options.cluster_tolerance]
+    if not far:
+        return {}
+    points = np.array([np.asarray(s.point, complex) for s in far])
+    values = BatchEvaluator(system.polynomials).evaluate(points, jacobian=False)
+    with np.errstate(all="ignore"):
+        residuals = np.max(np.abs(values) / TermSizes(system.polynomials).values(points), axis=1)
+    order = np.argsort(-np.nan_to_num(residuals, nan=np.inf))
+    if len(order) > _MAX_ZERO_CHECKS:
+        result.extra["not_isolated_unchecked"] = int(len(order) - _MAX_ZERO_CHECKS)
+    misplaced = {}
+    for index in order[:_MAX_ZERO_CHECKS]:
+        group = far[index]
+        point = np.asarray(group.point, dtype=complex)
+        anchored, reached = _refine_mp(system, point, options.refine_digits, anchored=True, converged=True)
+        here, there = scaling.to_computed(np.array([point, anchored]))
+        # a zero on a set through the point: reached without moving farther than endpoints of one point differ
+        if reached and np.linalg.norm(there - here) <= options.cluster_tolerance * (1 + np.linalg.norm(here)):
+            continue
+        zero, reached = _refine_mp(system, point, options.refine_digits, converged=True)
+        here, there = scaling.to_computed(np.array([point, zero]))
+        # a zero beyond half the group's distance is not where the centred run could speak for the group
+        near = reached and bool(np.all(np.isfinite(zero))) and np.linalg.norm(there - here) <= np.linalg.norm(here) / 2
+        misplaced[id(group)] = (zero, True) if near else (point, False)
+    return misplaced
 
 
 def _centre_digits(group):
