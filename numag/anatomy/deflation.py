@@ -41,7 +41,8 @@ from ..numeric.refine import project_to_variety
 from ..system.polynomial import Polynomial, PolynomialSystem
 from .hypersurface import HESSIAN_ZERO, morse_alpha, taylor_at
 
-__all__ = ["Deflation", "DeflationOutcome", "onto_singular_point", "deflated_system", "ROUNDING_RESIDUAL"]
+__all__ = ["Deflation", "DeflationOutcome", "onto_singular_point", "deflated_system", "ROUNDING_RESIDUAL",
+           "ROUNDING_MOVE"]
 
 #: A value of the current system's Jacobian (rows divided by their term sizes) above HESSIAN_ZERO but below this
 #: many times it leaves the rank unclear: the point is left where it was given.
@@ -58,7 +59,7 @@ _FARTHEST = 1e-3
 #: that is not singular leaves at least the size of its own distance from one.
 _SINGULAR = 1e-8
 #: A move of at most this (relative to 1 + |p|) is rounding: the given point is kept as the singular point.
-_ROUNDING_MOVE = 1e-14
+ROUNDING_MOVE = 1e-14
 #: A deflation end further than this many Newton steps of grad f (Smale's beta at the start, where the Hessian is
 #: invertible beyond its rounding) went to another critical point: off an A_k the step is 1/k of the offset
 #: (k <= 8 is read), off a node 2e-4 from another one after a linear change the end was 500 steps away.
@@ -251,7 +252,7 @@ def onto_singular_point(polynomial, point, seed=0):
         # neighbour lies 2e-4 away) moved such a node 4e-5 onto a neighbouring critical point, typed A2.
         u = morse.step.real.astype(complex) if real else morse.step
         distance = float(np.linalg.norm(u) / (1.0 + np.linalg.norm(point)))
-        if distance <= _ROUNDING_MOVE:
+        if distance <= ROUNDING_MOVE:
             return Deflation(point, DeflationOutcome.ALREADY_THERE, 0, distance, before, before)
         after = _singular_residual(f, point + u)
         if after > _SINGULAR:
@@ -303,7 +304,7 @@ def onto_singular_point(polynomial, point, seed=0):
     distance = float(np.linalg.norm(u) / (1.0 + np.linalg.norm(point)))
     if distance > _FARTHEST:
         return kept(DeflationOutcome.TOO_FAR, steps)
-    if distance <= _ROUNDING_MOVE:
+    if distance <= ROUNDING_MOVE:
         # the given point is the singular point to rounding: a move of 1e-31 at an exact origin only made the
         # point inexact (E6's local picture was then not resolved)
         return kept(DeflationOutcome.ALREADY_THERE, steps)

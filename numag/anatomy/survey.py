@@ -28,11 +28,12 @@ from ..numeric.refine import largest_scaled_residual
 from ..numeric.scaling import Scaling
 from ..system.display import counted
 from ..numeric.seeds import random_state
-from ..witness.decompose import decompose
+from ..system.centred import CENTRED_BALANCING_FLOOR, centre_near, centred_system, translated_terms
+from ..witness.decompose import CENTRING_TERMS, centred_decomposition, decompose
 from .frame import cube_root_direction, frame_hessian, kernel_cubic
 from .hypersurface import anatomy_in_frame, corank_jump_shift, hessian_evidence, higher_a_shift, morse_alpha, \
     MORSE_ALPHA
-from .deflation import DeflationOutcome, onto_singular_point
+from .deflation import DeflationOutcome, ROUNDING_MOVE, onto_singular_point
 from .intersection import complete_intersection_milnor, curve_delta
 from .local import LocalOptions, LocalPicture, hypersurface_witness, local_picture, order_radius, orbit_tangent
 from .records import Branch, ComponentAnatomy, Family, Motion, PointAnatomy, SingularityType, TypeTest
@@ -209,7 +210,20 @@ def point_anatomy(system, point, seed=None, decomposition=None, angles=None, loc
         point = point.real.astype(complex)
     scaling, polynomials = _balanced(system)
     computed = scaling.to_computed(point)
-    if system.n_equations == 1:
+    centred = _exactly_centred(system, point) if system.n_equations == 1 else None
+    if centred is not None:
+        # exact f read in coordinates centred exactly at a rational next to the point (decision 0091): expanded
+        # about the origin, its coefficients' rounding (|p|^d eps) dwarfs the features of a far singularity
+        local_scaling, local, centre = centred
+        here = local_scaling.to_computed((point - centre)[None, :])[0]
+        if np.linalg.norm(here) <= ROUNDING_MOVE:
+            # the point is the exact centre to rounding (deflation's rule, now in the units of the features around
+            # it): read there. Read at the offset itself, exact f has the Taylor terms of a point 1e-25 off a D5
+            # (a computed singular point at the origin), whose Hessian of size 1e-25 is "regular": undecided
+            here = np.zeros_like(here)
+        anatomy = _hypersurface_point(local, here, point, local_scaling, rng, real, angles, options,
+                                      lambda rows: local_scaling.to_user(rows) + centre[None, :])
+    elif system.n_equations == 1:
         anatomy = _hypersurface_point(polynomials[0], computed, point, scaling, rng, real, angles, options,
                                       scaling.to_user)
     else:
@@ -217,6 +231,46 @@ def point_anatomy(system, point, seed=None, decomposition=None, angles=None, loc
                                 decomposition, local_dimension, options)
     anatomy.seconds = time.perf_counter() - started
     return anatomy
+
+
+def _exactly_centred(system, point):
+    """An exact single equation written in coordinates centred exactly at a rational within 1e-12 (1 + |p|) of
+    ``point`` and balanced anew: (scaling, numeric polynomial in its units, the centre as complex numbers); None for
+    double coefficients (their rounding at |p| is part of the equation: decision 0086), projective systems and
+    systems too large to translate."""
+    if (system.projective or type(system) is not PolynomialSystem or not system.polynomials[0].is_exact
+            or translated_terms(system) > CENTRING_TERMS or not np.all(np.isfinite(point))):
+        return None
+    centring = centre_near(point, 0.0)
+    centred = centred_system(system, centring)
+    # The units are fitted to the terms of degree 2 and more: at a point next to a singular point the constant and
+    # linear terms are the offset's (deflation removes them). Terms below the floor (1e-8 of the largest) are left
+    # out as judged in the previous balancing's units, from one without the floor, until the set settles: in the
+    # user's units coefficients of different degrees differ by the unit to that degree (A4 in units of 1e3 lost its
+    # x^5 terms, 1e-15 beside y^2's 1e-6), and fitted, the offset's terms of 1e-15 set the units (A4 given 1e-8 of
+    # its size off balanced to units 1e-8 and 1e-6: no local picture). Each step moves with a power-of-ten unit.
+    f = centred.polynomials[0]
+    high = f.exponents.sum(axis=1) >= 2
+    if not np.any(high):
+        return None
+    own = PolynomialSystem(list(centred.variables), [Polynomial(f.exponents[high], f.coefficients[high],
+                                                                f.n_variables)])
+    scaling = Scaling.balancing(own)
+    kept = np.ones(int(np.sum(high)), dtype=bool)
+    for _ in range(_FLOOR_PASSES):
+        sizes = np.abs(scaling.scale_system(own).polynomials[0].numeric_coefficients())
+        below = sizes < CENTRED_BALANCING_FLOOR * float(np.max(sizes))
+        if np.array_equal(~below, kept):
+            break
+        kept = ~below
+        scaling = Scaling.balancing(PolynomialSystem(list(centred.variables), [
+            Polynomial(own.polynomials[0].exponents[kept], own.polynomials[0].coefficients[kept], f.n_variables)]))
+    return scaling, scaling.scale_system(centred).polynomials[0].numeric(), centring.point
+
+
+#: Balancings of a centred equation without its terms below the floor in the previous one's units (they settle
+#: in one or two).
+_FLOOR_PASSES = 4
 
 
 def _hypersurface_point(polynomial, computed, user_point, scaling, rng, real, angles, options, to_user):
@@ -265,7 +319,9 @@ def _hypersurface_point(polynomial, computed, user_point, scaling, rng, real, an
         if deflation.moved:
             anatomy.moved_by = moved_by
             if deflation.steps:
-                anatomy.notes.append(f"moved onto the singular point by {moved_by:.2g} ({deflation.steps} "
+                # a move below the rounding of the reported coordinates (centred exactly, decision 0091) shows as 0
+                by = f"{moved_by:.2g}" if moved_by > 0 else "less than the rounding of its coordinates"
+                anatomy.notes.append(f"moved onto the singular point by {by} ({deflation.steps} "
                                      f"deflation step{'s' if deflation.steps > 1 else ''})")
         elif deflation.outcome is not DeflationOutcome.ALREADY_THERE:
             anatomy.notes.append(f"read at the given point: {deflation.outcome.value}")
@@ -454,8 +510,20 @@ def _system_point(system, polynomials, computed, user_point, scaling, rng, real,
     n = system.n_variables
     if decomposition is None:
         decomposition = decompose(system, seed=seed)
-    # the decomposition is in the user's units: its points and slices into the balanced ones
-    in_computed = decomposition.in_units(scaling, scaling.scale_system(system), to_user=False)
+    # The local slices in coordinates centred exactly at the point and balanced anew (decision 0091): their radius
+    # is a share of 1 + |point| in balanced units, and in the system's own units that is set by where the point
+    # sits, not by the size of the features around it (two parabolas of size one crossing at (1213, 2141, 2850)
+    # were sliced 4.5 units out, where each looked like one branch of multiplicity 2 through the point).
+    centred = centred_decomposition(decomposition, user_point)
+    local_scaling, local_polynomials, local_point = scaling, polynomials, computed
+    if centred is not None:
+        decomposition, centring = centred
+        local_scaling = decomposition.scaling
+        local_polynomials = [p.numeric() for p in local_scaling.scale_system(decomposition.system).polynomials]
+        local_point = local_scaling.to_computed((np.asarray(user_point, dtype=complex) - centring.point)[None, :])[0]
+    # the decomposition is in the user's units (centred or not): its points and slices into the balanced ones
+    in_computed = decomposition.in_units(local_scaling, local_scaling.scale_system(decomposition.system),
+                                         to_user=False)
     notes = []
     dimensions = sorted({c.dimension for c in in_computed.components if c.dimension > 0}, reverse=True)
     if local_dimension is not None:
@@ -470,11 +538,11 @@ def _system_point(system, polynomials, computed, user_point, scaling, rng, real,
         # each component on its own slices: multiplicities add up, and a branch lies on one component
         picture = None
         for c in chosen:
-            part = local_picture(polynomials, n - d, computed, c.points, c.slice_rows, rng, real=real,
+            part = local_picture(local_polynomials, n - d, local_point, c.points, c.slice_rows, rng, real=real,
                                  options=options.local)
             picture = part if picture is None else _joined(picture, part)
         if picture is not None and picture.multiplicity != 0:  # a count, or None: undecided, said in its notes
-            anatomy = _picture_anatomy(picture, scaling, computed, user_point, d, angles, real)
+            anatomy = _picture_anatomy(picture, local_scaling, local_point, user_point, d, angles, real)
             anatomy.notes = notes + anatomy.notes
             if len(polynomials) == n - d >= 2:
                 anatomy.intersection = _intersection_milnor(polynomials, computed, anatomy, seed)

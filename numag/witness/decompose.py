@@ -57,7 +57,8 @@ from .cascade import (WitnessOptions, combine_equations, held_parts, jacobian_ra
                       track_moves, witness_supersets)
 from .fibres import EMPTY_FIBRE, WHOLE_FIBRE, FiniteBlock, fibre_system, finite_block, solve_block
 
-__all__ = ["Component", "Decomposition", "DecomposeOptions", "decompose", "components_through"]
+__all__ = ["Component", "Decomposition", "DecomposeOptions", "decompose", "components_through",
+           "centred_decomposition"]
 
 
 @dataclass(frozen=True)
@@ -920,7 +921,7 @@ def components_through(decomposition, point, seed=0, options=None):
     if len(point) != decomposition.system.n_variables:
         raise InputError(f"the point has {len(point)} coordinates, the system "
                          f"{decomposition.system.n_variables} variables")
-    centred = _centred_at(decomposition, point)
+    centred = centred_decomposition(decomposition, point)
     if centred is None:
         return _components_through_here(decomposition, point, seed, options)
     # Decision 0084: membership in coordinates centred exactly at the point and balanced anew. In the
@@ -942,7 +943,7 @@ def components_through(decomposition, point, seed=0, options=None):
 CENTRING_TERMS = 20000
 
 
-def _centred_at(decomposition, point):
+def centred_decomposition(decomposition, point):
     """The decomposition written in coordinates y = x - s centred (exactly) at ``point``, balanced anew.
 
     Returns ``(decomposition, centring)``, or None where centring does not apply: a decomposition made fibre by
