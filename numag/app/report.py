@@ -234,6 +234,11 @@ def completeness_warnings(data):
         warnings.append(f"{counted(missed, 'singular point')} found in the user's coordinates but not in coordinates "
                         "centred at the features: the two runs disagree and other points may be missing; run again "
                         "with another --seed to compare.")
+    unexplained = _discarded(data, "unexplained_endpoint")
+    if unexplained:  # endpoints Newton dropped, and coordinates centred there did not settle them (decision 0090)
+        warnings.append(f"{counted(unexplained, 'endpoint')} of the singular candidates' system where Newton stalled "
+                        "(not a zero in the computed units), and coordinates centred there did not settle them: a "
+                        "singular point there may be missing; move the origin near it and rescale to decide.")
     mismatched = _discarded(data, "tangent_dimension_mismatch")
     if mismatched:  # the rank-drop system's decomposition disagrees with itself: its pieces cannot be trusted
         warnings.append(f"{counted(mismatched, 'candidate component')} of the rank-drop system had a tangent space of "

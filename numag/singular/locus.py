@@ -64,7 +64,7 @@ from ..witness.decompose import (EXPANSION_MONOMIALS, DecomposeOptions, Decompos
                                  expansion_bound, holding_rows)
 from .isolated import finite_singular_points, null_vector_groups, null_vector_system, square_route_paths
 from .kinds import CandidateSystem, Formulation, PieceKind, Verdict
-from ..system.centred import centre_near, centred_system, subleading_centre, within
+from ..system.centred import centre_in_region, centre_near, centred_system, subleading_centre, within
 from .nearness import NearSingularPoint, input_tolerance, nearest_backward_error
 from .smoothness import CheckOptions, check_points
 
@@ -539,10 +539,8 @@ def _far_centring(points):
         return None
     if np.linalg.norm(centre.imag) <= spread:  # a real centre keeps real equations real (conjugate pairs)
         centre = centre.real.astype(complex)
-    # a grid of 10^floor(log10(spread / 10)) moves the centre by 5% of the spread at most (centre_near's digits
-    # count from the centre's size)
-    digits = int(np.ceil(np.log10(1 + distance))) - int(np.floor(np.log10(spread / 10)))
-    return centre_near(centre, np.inf, digits=digits)
+    # on a grid a tenth of the spread (short decimals); the whole computation is centred: no region
+    return replace(centre_in_region(centre, spread), radius=np.inf)
 
 
 #: A point whose largest scaled residual is above this is off X (no refinement is tried from there; the cascade's
@@ -551,7 +549,8 @@ _OFF_X_RESIDUAL = 1e-3
 
 #: Counts of a run that leave doubt whether every singular point was found (each is a completeness warning).
 _DOUBT_COUNTS = ("not_settled_on_X", "smooth_with_vanishing_jacobian", "merged_on_refinement",
-                 "unresolved_multiple_endpoint", "tangent_dimension_mismatch", "missed_in_centred_coordinates")
+                 "unresolved_multiple_endpoint", "tangent_dimension_mismatch", "missed_in_centred_coordinates",
+                 "unexplained_endpoint")
 
 
 def _left_doubt(locus):
@@ -610,21 +609,7 @@ def _computed_centred(system, options, seed, progress, centring, first_paths, fi
         c for c in first.components if not c.at_infinity and c.dimension == 0 and c.kind is PieceKind.SINGULAR
         and not any(_same_point(c, other) for other in _centred_points(system, centring, replace(
             centring, point=np.zeros_like(shift)), locus))]
-    if kept:  # judged again where the features have their own sizes: a point off X there was no singular point
-        check_options = CheckOptions(max_digits=options.digits, backward_errors=False, point_tolerance=_POINT_TOLERANCE)
-        moved = np.array([c.points[0] - shift for c in kept])
-        verdicts = _judge_all(centred, list(moved), check_options, seed, locus.variety)
-        # Newton cannot settle a point where f is far from zero and J vanishes (the quartic's centre, f = 4 there,
-        # taken for a node in the first run's units): off X when its residual is far above any tolerance
-        evaluator, sizes = equation_evaluator(centred)
-        off = largest_scaled_residual(sizes, evaluator, moved) > _OFF_X_RESIDUAL
-        refuted = [(v is None and far_off) or (v is not None and v.verdict in (Verdict.OFF, Verdict.SMOOTH))
-                   for v, far_off in zip(verdicts, off)]
-        kept = [c for c, no in zip(kept, refuted) if not no]
-        refuted = sum(refuted)
-        if refuted:
-            locus.notes.append(f"{counted(refuted, 'singular point')} of the first run judged again in the centred "
-                               "coordinates: not singular points of X there (decision 0083).")
+    kept = _judged_again(centred, shift, kept, locus, locus.notes, options, seed, "decision 0083")
     for component in locus.components:
         if not component.at_infinity:  # points at infinity do not move under a translation
             component.points = component.points + shift[None, :]
@@ -648,6 +633,55 @@ def _computed_centred(system, options, seed, progress, centring, first_paths, fi
     return locus
 
 
+def _judged_again(centred, shift, pieces, local, notes, options, seed, why):
+    """The first run's singular points that a centred run lacks, judged again in its coordinates: those to keep.
+
+    Judged where the features have their own sizes, a point off X or smooth there was no singular point (dropped,
+    with a note); one that refines onto a point the centred run found is that point (dropped). The others passed
+    the Jacobian check in both coordinates and the centred run missed them: they are returned (the caller keeps
+    them and counts ``missed_in_centred_coordinates``, exit 3), so the two runs' disagreement is never silent.
+
+    Parameters
+    ----------
+    centred : PolynomialSystem
+        The system in y = x - ``shift``.
+    shift : ndarray
+    pieces : list of SingularComponent
+        Isolated affine singular points of the first run, in the original coordinates.
+    local : SingularLocus
+        The centred run (its points in the centred coordinates).
+    notes : list of str
+        Where the note on refuted points goes.
+    options : SingularOptions
+    seed : int
+    why : str
+        The decision the note names.
+
+    Returns
+    -------
+    list of SingularComponent
+    """
+    if not pieces:
+        return []
+    check_options = CheckOptions(max_digits=options.digits, backward_errors=False, point_tolerance=_POINT_TOLERANCE)
+    moved = np.array([c.points[0] - shift for c in pieces])
+    verdicts = _judge_all(centred, list(moved), check_options, seed, local.variety)
+    # Newton cannot settle a point where f is far from zero and J vanishes (the quartic's centre, f = 4 there,
+    # taken for a node in the first run's units): off X when its residual is far above any tolerance
+    evaluator, sizes = equation_evaluator(centred)
+    off = largest_scaled_residual(sizes, evaluator, moved) > _OFF_X_RESIDUAL
+    refuted = [(v is None and far_off) or (v is not None and v.verdict in (Verdict.OFF, Verdict.SMOOTH))
+               for v, far_off in zip(verdicts, off)]
+    found = [c.points[0] for c in local.components if not c.at_infinity and c.dimension == 0]
+    same = [v is not None and v.verdict is Verdict.SINGULAR and any(
+        np.linalg.norm(np.asarray(v.point) - f) <= _DUPLICATE_RADIUS * (1 + np.linalg.norm(f + shift))
+        for f in found) for v in verdicts]
+    if sum(refuted):
+        notes.append(f"{counted(sum(refuted), 'singular point')} of the first run judged again in the centred "
+                     f"coordinates: not singular points of X there ({why}).")
+    return [c for c, no, known in zip(pieces, refuted, same) if not (no or known)]
+
+
 def _translated(variety, system, shift):
     """A decomposition computed in y = x - s moved to x: points + s, slices a0 + a.y = 0 -> (a0 - a.s) + a.x = 0."""
     moved = []
@@ -662,8 +696,22 @@ def _translated(variety, system, shift):
 
 def _doubtful(candidate):
     """Whether a dropped isolated candidate left a doubt that a centred second look may settle."""
-    return candidate.dimension == 0 and (candidate.merged or candidate.unresolved or (
-        candidate.smallest is not None and candidate.smallest < _VANISHING_JACOBIAN))
+    if candidate.dimension != 0:
+        return False
+    if candidate.unexplained:
+        # not where its region's centre rounds to the origin: there Newton judged it in its own units (decision
+        # 0064: a loop's centre, a stationary point of f off X), and centring would change nothing (decision 0090)
+        point = np.asarray(candidate.candidate, dtype=complex)
+        return bool(np.all(np.isfinite(point))) and bool(np.any(centre_in_region(
+            point, _CANDIDATE_TOLERANCE * (1 + float(np.linalg.norm(point))), grid=_REGION_GRID).point))
+    return candidate.merged or candidate.unresolved or (
+        candidate.smallest is not None and candidate.smallest < _VANISHING_JACOBIAN)
+
+
+#: A doubtful candidate's region is centred on a decimal grid this fraction of its radius (decision 0090): coarse
+#: enough that an endpoint's error (1e-9 relative) leaves no terms in the centred system, fine enough for the
+#: smallest features decision 0071 settles (a loop of 1e-5 in a region of 3e-3).
+_REGION_GRID = 1e-3
 
 
 def _judged_centred(system, options, seed, progress, locus, dropped):
@@ -699,7 +747,9 @@ def _judged_centred(system, options, seed, progress, locus, dropped):
             point = point.real.astype(complex)
         home = next((k for k, c in enumerate(centrings) if within(point[None, :], c)[0]), None)
         if home is None:
-            centrings.append(centre_near(point, radius))
+            # a short decimal, no terms of the endpoint's error; fine enough for features 1e-3 of the region
+            # (a loop of 1e-5 in a region of 3e-3: a grid of radius / 10 moved the centre 5 times the loop)
+            centrings.append(centre_in_region(point, radius, grid=_REGION_GRID))
             members.append([])
             home = len(centrings) - 1
         members[home].append(candidate)
@@ -708,7 +758,8 @@ def _judged_centred(system, options, seed, progress, locus, dropped):
             progress(f"judging {counted(len(settled), 'doubtful candidate')} again in coordinates centred at "
                      f"{short_point(centring.point)}")
         try:
-            local, local_dropped = _in_user_units(centred_system(system, centring), options, seed, None)
+            centred = centred_system(system, centring)
+            local, local_dropped = _in_user_units(centred, options, seed, None)
         except LimitError as err:  # the centred polynomial is too large to write: the warnings stay
             locus.notes.append(f"Centred coordinates at {short_point(centring.point)} not tried ({err}).")
             continue
@@ -744,18 +795,29 @@ def _judged_centred(system, options, seed, progress, locus, dropped):
             if unresolved:
                 locus.discarded["unresolved_multiple_endpoint"] = \
                     locus.discarded.get("unresolved_multiple_endpoint", 0) + unresolved
+            unexplained = sum(1 for candidate in settled if candidate.unexplained)
+            if unexplained:  # where they ended nothing is settled: a point they stood for may be missing
+                locus.discarded["unexplained_endpoint"] = locus.discarded.get("unexplained_endpoint", 0) + unexplained
             locus.notes.append(f"Coordinates centred at {short_point(centring.point)} did not settle "
                                f"{counted(len(settled), 'doubtful candidate')} there either.")
             continue
-        _set_components(locus, [c for c in locus.components if c.at_infinity or c.dimension > 0
-                                or not within(c.points[:1], centring)[0]]
-                        + _centred_points(system, centring, here, local))
+        found = _centred_points(system, centring, here, local)
+        replaced = [c for c in locus.components if not (c.at_infinity or c.dimension > 0)
+                    and within(c.points[:1], centring)[0]]
+        # a singular point of the first run the centred run lacks is judged again there, never dropped unseen
+        # (a centred run that decomposed X wrong had found nothing and lost a node: decision 0090)
+        missed = _judged_again(centred, centring.point, [c for c in replaced if not any(
+            _same_point(c, d) for d in found)], local, locus.notes, options, seed, "decision 0090")
+        _set_components(locus, [c for c in locus.components if not any(c is r for r in replaced)] + found + missed)
+        if missed:
+            locus.discarded["missed_in_centred_coordinates"] = \
+                locus.discarded.get("missed_in_centred_coordinates", 0) + len(missed)
         inside = [c for c in locus.components if not c.at_infinity and c.dimension == 0
                   and within(c.points[:1], centring)[0]]
         if inside:  # singular as written: a near-singular report there (smooth as written) is withdrawn
             locus.near_singular = [p for p in locus.near_singular if not within(p.point[None, :], centring)[0]]
         for candidate in settled:
-            if candidate.unresolved or candidate.near_singular:  # kept, or a near-singular report: not counted
+            if candidate.unresolved or candidate.near_singular or candidate.unexplained:  # no count to withdraw
                 continue
             key = "merged_on_refinement" if candidate.merged else "smooth_with_vanishing_jacobian"
             locus.discarded[key] -= 1
@@ -1014,6 +1076,13 @@ def _affine(system, options, rng, paths, discarded, progress, notes_out=None, ro
             if routes and routes[-1]["codimension"] == codimension:
                 routes[-1]["regeneration"] = candidates.extra.get("start")
             add_path_counts(paths, candidates.paths)
+            unexplained = candidates.extra.get("unexplained")
+            if dropped is not None and unexplained is not None:
+                # endpoints dropped where Newton stalled: a stationary point of the residual, or a singular point
+                # too degenerate for Newton in these units (a tacnode at (1234, -2345): every path to it dropped,
+                # no candidate left, exit 0): looked at again in centred coordinates (decision 0090)
+                dropped.extend(_Dropped(point, point, codimension, None, unexplained=True)
+                               for point in np.asarray(unexplained)[:, :n])
             failed = sum(candidates.paths.get(label, 0) for label in FAILURE_LABELS)
             if failed:
                 notes_out.append(f"{counted(failed, 'path')} of the {kind} system for codimension {codimension} "
@@ -1185,11 +1254,13 @@ class _Dropped:
     dimension: int = 0
     #: not judged: Newton could not settle it on X (counted ``not_settled_on_X``)
     unsettled: bool = False
+    #: not judged: an endpoint of the candidates' system that Newton dropped (``residual_not_explained``, 0090)
+    unexplained: bool = False
 
     @property
     def judged_smooth(self):
         """An isolated candidate the check called smooth (the ones whose backward errors are measured)."""
-        return self.dimension == 0 and not (self.merged or self.unresolved or self.unsettled)
+        return self.dimension == 0 and not (self.merged or self.unresolved or self.unsettled or self.unexplained)
 
 
 def _smallest_value(verdict):

@@ -161,6 +161,9 @@ class WitnessSupersets:
         Tracked paths by status label, plus what happened to their endpoints.
     start : dict
         The regeneration's start block (:meth:`~numag.tracking.starts.StartChoice.report`).
+    unexplained : ndarray, shape (K, n)
+        The endpoints counted ``residual_not_explained`` (dropped: Newton ended at a stationary point of the
+        residual), for callers that look again where they were (the singular candidates, decision 0090).
     """
 
     sets: list
@@ -168,6 +171,7 @@ class WitnessSupersets:
     slicing: "Slicing"
     paths: dict = field(default_factory=dict)
     start: dict = field(default_factory=dict)
+    unexplained: np.ndarray = None
 
     def of_dimension(self, dimension):
         """The witness set of that dimension (None when it was not searched)."""
@@ -497,6 +501,7 @@ def _witness_supersets(system, options, seed, progress):
     counts = {"tracked": 0, "not_on_X": 0, "at_infinity_or_failed": 0, "on_larger_component": 0,
               "membership_paths": 0}
     track_counts = PathCounts()
+    unexplained = []  # where the endpoints dropped as residual_not_explained were
     # codimension -> (points (K, n), multiplicity (K,)); the start: C^n is witnessed by one point
     start_point = np.linalg.solve(slicing.rows[:, 1:], -slicing.rows[:, 0])
     current = {0: (start_point[None, :], np.ones(1, dtype=np.int64))}
@@ -528,7 +533,7 @@ def _witness_supersets(system, options, seed, progress):
             # point where f is small only against terms sized in the unit (decision 0064) is no point of V(f):
             # Newton on the equations so far plus f and its slice decides both.
             points, on = _settle_on(system, used, slicing.slice_rows(codim), points, residual, options, counts,
-                                    "refined_to_stay")
+                                    "refined_to_stay", unexplained)
             stay_points, stay_mult = following.get(codim, (np.zeros((0, n), complex), np.zeros(0, np.int64)))
             following[codim] = (np.vstack([stay_points, points[on]]), np.concatenate([stay_mult, multiplicity[on]]))
             regenerate = points[~on]
@@ -545,7 +550,7 @@ def _witness_supersets(system, options, seed, progress):
             # residual test by a hair (a node of a conic and a cubic was lost at 1.09e-7), and a stationary
             # point of the residual can pass it (decision 0064): Newton on the equations and the slice decides.
             candidates, good = _settle_on(system, used, slicing.slice_rows(codim + 1), candidates, residual,
-                                          options, counts, "refined_to_keep")
+                                          options, counts, "refined_to_keep", unexplained)
             finite = np.all(np.isfinite(candidates), axis=1)
             # A path the endgame called settled on the target, ending where the target is far from zero (no bound
             # of any unit keeps it, no refinement reaches V(f_used)), did not settle: its limit is unknown and what
@@ -589,10 +594,11 @@ def _witness_supersets(system, options, seed, progress):
     for codim in range(0, deepest + 1):
         points, multiplicity = current.get(codim, (np.zeros((0, n), complex), np.zeros(0, np.int64)))
         sets.append(WitnessSet(n - codim, points, multiplicity, slicing.slice_rows(codim).copy()))
-    return WitnessSupersets(sets, list(range(n, lowest - 1, -1)), slicing, counts, choice.report())
+    return WitnessSupersets(sets, list(range(n, lowest - 1, -1)), slicing, counts, choice.report(),
+                            np.vstack(unexplained) if unexplained else np.zeros((0, n), dtype=complex))
 
 
-def _settle_on(system, used, slice_rows, points, residual, options, counts, label):
+def _settle_on(system, used, slice_rows, points, residual, options, counts, label, unexplained=None):
     """Which points lie on V(f_used) and the slice: (points, refined where Newton settled them; mask).
 
     A point within rounding is on. Between rounding and :data:`_DOUBTFUL_RESIDUAL` Newton decides
@@ -615,6 +621,8 @@ def _settle_on(system, used, slice_rows, points, residual, options, counts, labe
     # within the tolerance a point stays where it is, as before (refined, two endpoints of one multiple point 5e-6
     # apart no longer clustered: an A4 point came out twice); only "not a zero" overrules the tolerance
     on[asked[zero | (within & ~not_a_zero)]] = True
+    if unexplained is not None and np.any(not_a_zero & within):  # where they were (``unexplained``: appended)
+        unexplained.append(points[asked[not_a_zero & within]])
     for key, mask in ((label, zero & ~within), ("residual_not_explained", not_a_zero & within),
                       ("zero_undecided", test.mask(ZeroKind.UNDECIDED) & within)):
         if np.any(mask):

@@ -217,7 +217,11 @@ class Decomposition:
             rows = (scaling.hyperplanes_to_user(c.slice_rows) if to_user
                     else scaling.hyperplanes_to_computed(c.slice_rows)) if len(c.slice_rows) else c.slice_rows
             moved.append(replace(c, points=points, slice_rows=rows))
-        return replace(self, system=system, components=moved, scaling=scaling if to_user else None)
+        extra = dict(self.extra)
+        if extra.get("unexplained") is not None and len(extra["unexplained"]):  # points too (decision 0090)
+            lost = extra["unexplained"]
+            extra["unexplained"] = scaling.to_user(lost) if to_user else scaling.to_computed(lost)
+        return replace(self, system=system, components=moved, scaling=scaling if to_user else None, extra=extra)
 
     @property
     def unconfirmed(self):
@@ -746,7 +750,8 @@ def _decompose(system, options, seed, progress):
     counts.update(_degree_checks(system, components))
     sum((mover.paths for mover in movers_made), PathCounts()).add_to(counts)
     return Decomposition(system, components, supersets.dimensions_searched, counts, loops, seed,
-                         time.perf_counter() - started, extra={"start": supersets.start})
+                         time.perf_counter() - started,
+                         extra={"start": supersets.start, "unexplained": supersets.unexplained})
 
 
 # A closed block is solved first only when its start system is small (decision 0067): the split is meant for
@@ -802,7 +807,7 @@ def _fibred_decomposition(system, options, rng, seed, started, progress):
     counts = {"tracked": 0, "not_on_X": 0, "at_infinity_or_failed": 0, "on_larger_component": 0,
               "membership_paths": 0}
     add_path_counts(counts, split.paths)
-    components, loops, start = [], {}, None
+    components, loops, start, unexplained = [], {}, None, []
     real_coefficients = system.has_real_coefficients
     m = n - len(columns)
     for root, root_real, fibre in zip(split.roots, split.real, fibres):
@@ -822,6 +827,11 @@ def _fibred_decomposition(system, options, rng, seed, started, progress):
                      f"{', '.join(system.variables[j] for j in columns)}")
         part = decompose(fibre, options, seed=int(rng.integers(2**32)), progress=progress)
         add_path_counts(counts, part.paths)
+        lost = part.extra.get("unexplained")
+        if lost is not None and len(lost):  # lifted like the witness points
+            lifted = np.empty((len(lost), n), dtype=complex)
+            lifted[:, others], lifted[:, columns] = lost, root
+            unexplained.append(lifted)
         start = start or part.extra.get("start")  # the same options for every fibre: the first fibre's block
         for dimension, run in part.loops.items():
             loops[dimension] = loops.get(dimension, 0) + run
@@ -843,6 +853,8 @@ def _fibred_decomposition(system, options, rng, seed, started, progress):
                         "whole": sum(f is WHOLE_FIBRE for f in fibres)}}
     if start:
         extra["start"] = start
+    if unexplained:
+        extra["unexplained"] = np.vstack(unexplained)
     return Decomposition(system, components, searched, counts, loops, seed, time.perf_counter() - started,
                          extra=extra, fibred_over=block)
 
