@@ -21,6 +21,7 @@ Examples
 
 from dataclasses import dataclass
 from fractions import Fraction
+import math
 
 import numpy as np
 
@@ -143,6 +144,10 @@ def centred_system(system, centring):
     identity = np.eye(n, dtype=np.int64)
     polynomials = []
     for polynomial in system.polynomials:
+        shifted = _translated_gaussian(polynomial, centring.centre)
+        if shifted is not None:
+            polynomials.append(shifted)
+            continue
         if not polynomial.is_exact:  # every double is a dyadic rational: the translation stays exact
             polynomial = Polynomial(polynomial.exponents,
                                     np.array([ExactCoefficient.from_complex(c) for c in polynomial.coefficients],
@@ -151,6 +156,87 @@ def centred_system(system, centring):
     centred = PolynomialSystem(list(system.variables), polynomials, name=system.name)
     centred.literal_digits = system.literal_digits  # the same numbers, written about another origin
     return centred
+
+
+#: The direct translation (:func:`_translated_gaussian`) writes at most this many (term, shifted term) pairs of one
+#: polynomial; beyond, the general substitution with its size limits is used.
+_DIRECT_TRANSLATION_PAIRS = 200_000
+
+
+def _gaussian_parts(value):
+    """(real, imaginary) Fractions of a Gaussian rational (exact, or a double read as the dyadic rational it is);
+    None for a number with a square root."""
+    if isinstance(value, ExactCoefficient):
+        parts = value.parts
+        if any(radicand != 1 for radicand in parts):
+            return None
+        return parts.get(1, (Fraction(0), Fraction(0)))
+    value = complex(value)
+    if not (np.isfinite(value.real) and np.isfinite(value.imag)):
+        return None
+    return Fraction(value.real), Fraction(value.imag)
+
+
+def _translated_gaussian(polynomial, centre):
+    """p(y + s) written out in Gaussian integers over one common denominator; None where it does not apply.
+
+    Every term x^e gives the terms prod_j C(e_j, k_j) s_j^(e_j - k_j) y^k (the binomial theorem, coordinate by
+    coordinate). With the coefficients (a + b i) / D and the centre (A_j + B_j i) / Q, all on one denominator
+    D Q^deg, every product is of Python integers: the general substitution multiplies sums of exact numbers and
+    spent 0.1 s per point on a sextic surface (the non-reduced sampling centres every candidate, decision 0084).
+    Applies to Gaussian rational coefficients and centres (every double is one) up to
+    :data:`_DIRECT_TRANSLATION_PAIRS` pairs; exactly the polynomial :meth:`Polynomial.substitute_linear` gives.
+    """
+    n = polynomial.n_variables
+    exponents = np.asarray(polynomial.exponents, dtype=np.int64)
+    if len(exponents) == 0:
+        return None
+    if int(np.sum(np.prod(exponents + 1, axis=1))) > _DIRECT_TRANSLATION_PAIRS:
+        return None
+    coefficients = [_gaussian_parts(c) for c in polynomial.coefficients]
+    shift = [_gaussian_parts(c) for c in centre]
+    if any(c is None for c in coefficients) or any(c is None for c in shift) or len(shift) != n:
+        return None
+    denominator = math.lcm(*(q.denominator for pair in coefficients for q in pair))
+    common = math.lcm(*(q.denominator for pair in shift for q in pair))
+    numerators = [(int(re * denominator), int(im * denominator)) for re, im in coefficients]
+    centre_integers = [(int(re * common), int(im * common)) for re, im in shift]
+    degree = int(exponents.sum(axis=1).max())
+    top = exponents.max(axis=0)
+    powers = []  # powers[j][m] = (A_j + B_j i)^m, Gaussian integers
+    for j in range(n):
+        a, b = centre_integers[j]
+        column = [(1, 0)]
+        for _ in range(int(top[j])):
+            re, im = column[-1]
+            column.append((re * a - im * b, re * b + im * a))
+        powers.append(column)
+    common_powers = [common ** m for m in range(degree + 1)]
+    sums = {}
+    for (re0, im0), exponent in zip(numerators, exponents.tolist()):
+        # the expansions of the coordinates one after the other: (shifted exponent, Gaussian integer, drop in degree)
+        partial = [((), re0, im0, 0)]
+        for j, e in enumerate(exponent):
+            grown = []
+            for head, re, im, drop in partial:
+                for k in range(e + 1):
+                    binomial = math.comb(e, k)
+                    pa, pb = powers[j][e - k]
+                    grown.append((head + (k,), binomial * (re * pa - im * pb), binomial * (re * pb + im * pa),
+                                  drop + e - k))
+            partial = grown
+        for head, re, im, drop in partial:
+            # s^m carries Q^-m: on the common denominator Q^deg the term takes Q^(deg - m)
+            scale = common_powers[degree - drop]
+            total = sums.get(head)
+            sums[head] = (re * scale, im * scale) if total is None else (total[0] + re * scale, total[1] + im * scale)
+    kept = [(head, re, im) for head, (re, im) in sums.items() if re or im]
+    if not kept:
+        return Polynomial.zero(n)
+    whole = denominator * common_powers[degree]
+    return Polynomial(np.array([head for head, _, _ in kept], dtype=np.int64).reshape(len(kept), n),
+                      np.array([ExactCoefficient.rational(Fraction(re, whole), Fraction(im, whole))
+                                for _, re, im in kept], dtype=object), n)
 
 
 def within(points, centring):

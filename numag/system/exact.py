@@ -273,6 +273,21 @@ class ExactCoefficient:
 
     __rmul__ = __mul__
 
+    def times_integer(self, k):
+        """``self * k`` for a Python integer ``k``: two Fraction products a part, no coercion (derivatives).
+
+        Examples
+        --------
+        >>> ExactCoefficient.rational(Fraction(3, 4), 1).times_integer(2).to_text()
+        '(3/2 + 2*I)'
+        """
+        if k == 0:
+            return ExactCoefficient()
+        scaled = object.__new__(ExactCoefficient)
+        scaled._parts = {r: (_check_size(a * k), _check_size(b * k)) for r, (a, b) in self._parts.items()}
+        scaled._hash = None
+        return scaled
+
     def reciprocal(self):
         """``1/self`` for a nonzero number.
 

@@ -383,8 +383,8 @@ class Polynomial:
         exponents = self.exponents[keep].copy()
         exponents[:, index] -= 1
         if self.is_exact:
-            coefficients = np.array([c * int(k) for c, k in zip(self.coefficients[keep], powers[keep])],
-                                    dtype=object)
+            coefficients = np.array([c.times_integer(int(k)) if isinstance(c, ExactCoefficient) else c * int(k)
+                                     for c, k in zip(self.coefficients[keep], powers[keep])], dtype=object)
         else:
             coefficients = self.coefficients[keep] * powers[keep]
         return Polynomial(exponents, coefficients, self.n_variables)
