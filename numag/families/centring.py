@@ -109,8 +109,11 @@ def centre_of_points(points, m):
     # scale-free: 0.123 +- 0.001 (millimetres of the same geometry) is as far as 123 +- 1
     if distance == 0 or distance <= FAR_FACTOR * spread:
         return None
-    # a grid of a tenth of the spread or finer: short numbers, and the centre within the features' own size
-    size = max(spread, 1e-9 * distance)
+    # a grid of a tenth of the spread or finer: short numbers, and the centre within the features' own size. One
+    # point (no spread) is rounded at 1e-6 of its distance: a multiple point far out is located to about 1e-7 of
+    # it, and a centre at that noise (1233.9999998 for 1234) leaves terms of 1e-12 that the balancing fits as if
+    # they were the problem's size (decision 0092)
+    size = max(spread, 1e-6 * distance)
     digits = max(1, int(math.ceil(math.log10(1 + distance))) - int(math.floor(math.log10(size))) + 1)
     return centre_near(np.concatenate([centroid, np.zeros(m)]), spread, digits=digits)
 
@@ -125,6 +128,9 @@ def locate(family, codimension, seed=None, max_exact_minors=24):
 
     S = {F(x, p) = 0, rank J_x F < c} has dimension m - 1 in (x, p) for a family whose discriminant is a
     hypersurface; m - 1 random real hyperplanes in p through a random point of the ranges cut it to points.
+    When they are far from the origin, they are located once more in the coordinates centred at them: the first
+    look is itself a solve far from the origin, which can miss points and place a multiple one to only 1e-7 of
+    its distance (decision 0092).
 
     Parameters
     ----------
@@ -141,11 +147,33 @@ def locate(family, codimension, seed=None, max_exact_minors=24):
     """
     _, rng = random_state(seed)
     n, m = family.n_variables, family.n_parameters
+    points, note = _singular_points(family, codimension, rng, max_exact_minors)
+    centring = centre_of_points(points, m)
+    if centring is None:
+        return Located(points, None, note)
+    # (x - 1234)^4 - 5 (x - 1234)^2 + 4 - p far out: 1 of the 3 points, at 1233.99999976; centred at its rounding
+    # 6169999999/5000000 the family had terms of 1e-12, and the discriminant's solve lost every point (decision
+    # 0092). Seen from the centre, the points are near the origin: located there, they give the centroid and
+    # the spread that round the centre (to 1234).
+    try:
+        centred = centred_family(family, centring)
+    except LimitError:
+        return Located(points, centring, note)
+    again, _ = _singular_points(centred, codimension, rng, max_exact_minors)
+    if len(again) == 0:
+        return Located(points, centring, note)
+    points = again + centring.point[None, :n]
+    return Located(points, centre_of_points(points, m), note)
+
+
+def _singular_points(family, codimension, rng, max_exact_minors):
+    """x-parts of the singular incidence set cut by m - 1 random real hyperplanes in p, and a note if none."""
+    n, m = family.n_variables, family.n_parameters
     nothing = np.zeros((0, n), dtype=complex)
     try:
         incidence, _ = minors_system(family.system, codimension, rng, max_exact_minors, n_columns=n)
     except LimitError:
-        return Located(nothing, None, "the minors of J_x are too large to expand")
+        return nothing, "the minors of J_x are too large to expand"
     # through a random point of the ranges' box, not its middle: a symmetric family's middle is often a cusp
     through = np.array([_random_in_range(family, name, rng) for name in family.parameters])
     cuts = []
@@ -158,14 +186,14 @@ def locate(family, codimension, seed=None, max_exact_minors=24):
         cuts.append(Polynomial(exponents, coefficients, n + m))
     system = PolynomialSystem(list(incidence.variables), list(incidence.polynomials) + cuts, name="located")
     if system.n_equations != system.n_variables:
-        return Located(nothing, None, f"the singular incidence set cut in p is {system.n_equations} equations in "
-                                      f"{system.n_variables} unknowns, not square")
+        return nothing, (f"the singular incidence set cut in p is {system.n_equations} equations in "
+                         f"{system.n_variables} unknowns, not square")
     if math.prod(max(p.degree, 1) for p in system.polynomials) > LOCATE_MAX_PATHS:
-        return Located(nothing, None, f"its locating system has more than {LOCATE_MAX_PATHS} paths")
+        return nothing, f"its locating system has more than {LOCATE_MAX_PATHS} paths"
     try:
         solved = solve_system(system, SolveOptions(second_look=False), seed=int(rng.integers(2 ** 63)))
     except (InputError, LimitError) as err:
-        return Located(nothing, None, f"its locating system was not solved ({err})")
+        return nothing, f"its locating system was not solved ({err})"
     found = np.array([s.point for s in solved.solutions + list(solved.not_isolated)
                       if not s.at_infinity and np.all(np.isfinite(s.point))], dtype=complex).reshape(-1, n + m)
     # a cut nearly parallel to the discriminant meets it far outside the ranges, where the singular points may be
@@ -174,7 +202,7 @@ def locate(family, codimension, seed=None, max_exact_minors=24):
     reach = high - low
     inside = np.all((found[:, n:].real >= low - reach) & (found[:, n:].real <= high + reach), axis=1)
     points = found[inside if np.any(inside) else slice(None), :n]
-    return Located(points, centre_of_points(points, m), "" if len(points) else "no finite singular point was found")
+    return points, "" if len(points) else "no finite singular point was found"
 
 
 def locate_members(family, values, seed=None):

@@ -415,7 +415,7 @@ def _curve_and_cells_on_lines(family, codimension, options, rng, paths, notes, p
         # a join's middle is not a point of the curve: Newton tells a cusp from a fold (not reported) (decision 0079)
         joins = [classify_join(refining, lift, ends, n, reach)
                  for lift, ends in zip(found.cusp_lifts, found.cusp_ends)]
-        special = _nodes(refining, found.lifts, n, float(np.linalg.norm(high - low)), reach) \
+        special = _nodes(refining, found.lifts, n, float(np.linalg.norm(high - low)), reach, span=high - low) \
             + [point for point in joins if point is not None]
     # failed paths of the sweep and arc ends that could be neither continued nor joined: where the picture may
     # miss a piece (counted like the stalled arc ends of the other tracer)

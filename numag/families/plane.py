@@ -302,7 +302,7 @@ def trace_discriminant_curve(family, codimension, max_exact_minors, lines, rng, 
     pieces = [b.points for b in curve.branches(clip=False) if len(b.points) >= 2]
     diagonal = float(np.linalg.norm(high - low))
     refining = SingularIncidence(incidence, n, codimension)
-    special = _cusps(refining, pieces, n, diagonal) + _nodes(refining, pieces, n, diagonal) \
+    special = _cusps(refining, pieces, n, diagonal) + _nodes(refining, pieces, n, diagonal, span=high - low) \
         + meeting_points(refining, curve, n, low, high)
     # the tracer's region reaches past the box; the arcs are given up to half the box beyond it (what the regions use)
     lifts, _ = clipped(pieces, *reach_box(low, high))
@@ -346,8 +346,11 @@ def _cusps(incidence, pieces, n, diagonal):
     return [_cusp_point(incidence, point, n) for point in points]
 
 
-def _nodes(incidence, pieces, n, diagonal, reach=None):
-    """Crossings of the projected pieces (each pair of segments; pieces are short polylines)."""
+def _nodes(incidence, pieces, n, diagonal, reach=None, span=None):
+    """Crossings of the projected pieces (each pair of segments; pieces are short polylines), refined.
+
+    Crossings of two lifts of one arc covered twice by S are no nodes and are left out (decision 0092).
+    """
     segments, lifts = [], []
     for number, piece in enumerate(pieces):
         for k in range(len(piece) - 1):
@@ -379,7 +382,8 @@ def _nodes(incidence, pieces, n, diagonal, reach=None):
         if all(np.linalg.norm(first[n:] - p) > 1e-3 * diagonal for p in points):
             kept.append((first, second))
             points.append(first[n:])
-    return [_node_point(incidence, first, second, n, reach) for first, second in kept]
+    nodes = [_node_point(incidence, first, second, n, reach, span) for first, second in kept]
+    return [node for node in nodes if node is not None]
 
 
 def _distinct(points, radius):
@@ -483,13 +487,23 @@ class SingularIncidence:
         good = bool(converged and moved <= limit)
         return CurvePoint.found(CurvePointKind.CUSP, (z if good else start)[n:n + 2], good)
 
-    def refined_node(self, first, second, reach=None):
+    def refined_node(self, first, second, reach=None, span=None):
         """Newton on {G(x_1, p) = 0, G(x_2, p) = 0} from a traced crossing (two lifts (x, p) of one p).
+
+        Parameters
+        ----------
+        first, second : ndarray
+            The lifts (x, p).
+        reach : float, optional
+        span : ndarray, optional
+            The box's size per parameter (the units in which p is moved to test that the node is isolated).
 
         Returns
         -------
-        CurvePoint
-            Not ``refined`` when Newton fails, the two points meet, or p moves further than ``reach``.
+        CurvePoint or None
+            Not ``refined`` when Newton fails, the two points meet, or p moves further than ``reach``; None when
+            the node system's solutions through it form a curve (an arc of the discriminant covered twice by S:
+            no node).
         """
         n = self.n
         rows = len(self.polynomials)
@@ -512,7 +526,43 @@ class SingularIncidence:
         moved = np.linalg.norm(z[2 * n:] - start[2 * n:])
         limit = 0.05 * (1 + np.linalg.norm(start[2 * n:])) if reach is None else reach
         good = bool(converged and apart and moved <= limit)
+        if good and self._node_continues(residual_and_jacobian, z, span):
+            # not a point at all: every member along this arc has the two singular points (the arc is covered
+            # twice by S; x^2 + y^2 = a, y = x^2 + b along a + b = -1/4, with x and -x), and the two lifts'
+            # traced polylines, lying on one another, "cross" anywhere (decision 0092)
+            return None
         return CurvePoint.found(CurvePointKind.NODE, z[2 * n:] if good else start[2 * n:], good)
+
+    def _node_continues(self, residual_and_jacobian, z, span):
+        """Whether the node system's solution through ``z`` goes on along a curve (the arc is covered twice by S).
+
+        A node is an isolated solution of {G(x_1, p) = 0, G(x_2, p) = 0}. Along the null direction of its Jacobian
+        (columns scaled: unit-free), p is moved by 1e-3 of the box (``span`` per parameter) and pinned there on a
+        hyperplane; if Newton still solves the system there with the two points apart, the solutions form a curve.
+        At a node (transversal or tangential) there is no solution off it: Newton's residual stays of the step's
+        size (or its square), far above the tolerance.
+        """
+        n = self.n
+        span = np.ones(len(z) - 2 * n) if span is None else np.asarray(span, dtype=float)
+        _, jacobian = residual_and_jacobian(z)
+        columns = np.linalg.norm(jacobian, axis=0)
+        columns[columns == 0] = 1.0
+        null = np.linalg.svd(jacobian / columns[None, :])[2][-1] / columns
+        direction = null[2 * n:] / span  # in units of the box
+        if not np.linalg.norm(direction) > 0:
+            return False
+        null = null / np.linalg.norm(direction)
+        target = z + 1e-3 * null
+        normal = null[2 * n:] / span ** 2  # the hyperplane through target, normal to the step in the box's units
+
+        def pinned(w):
+            values, matrix = residual_and_jacobian(w)
+            row = np.concatenate([np.zeros(2 * n), normal])
+            return np.concatenate([values, [normal @ (w[2 * n:] - target[2 * n:])]]), np.vstack([matrix, row])
+
+        moved, converged = _newton(pinned, target)
+        apart = np.linalg.norm(moved[:n] - moved[n:2 * n]) > 1e-6 * (1 + np.linalg.norm(moved[:n]))
+        return bool(converged and apart)
 
 
     def _second_derivatives(self):
@@ -887,11 +937,11 @@ def _cusp_point(incidence, point, n, reach=None):
     return incidence.refined_cusp(np.asarray(point, dtype=float), reach)
 
 
-def _node_point(incidence, first, second, n, reach=None):
-    """A node refined on the incidence, or the middle of the traced crossing."""
+def _node_point(incidence, first, second, n, reach=None, span=None):
+    """A node refined on the incidence, or the middle of the traced crossing; None for an arc covered twice."""
     if incidence is None:
         return CurvePoint.found(CurvePointKind.NODE, 0.5 * (first[n:] + second[n:]), False)
-    return incidence.refined_node(np.asarray(first, dtype=float), np.asarray(second, dtype=float), reach)
+    return incidence.refined_node(np.asarray(first, dtype=float), np.asarray(second, dtype=float), reach, span)
 
 
 def strip_blocked(arcs, left, right):
