@@ -156,7 +156,7 @@ def test_a_point_the_centred_run_lacks_is_kept_and_flagged(seed, monkeypatch):
     import numag.singular.locus as locus_module
 
     monkeypatch.setattr(locus_module, "_far_centring", lambda points: None)
-    monkeypatch.setattr(locus_module, "centre_in_region", lambda point, radius: locus_module.centre_near(point, radius))
+    monkeypatch.setattr(locus_module, "centre_in_region", lambda point, radius, grid=None: locus_module.centre_near(point, radius))
     equations, names = node_space_curve_far()
     reference = sympy_singular_points(equations, names, 2)
     locus = singular_locus(parse_system(equations, names), seed=seed)

@@ -242,7 +242,23 @@ def locate_members(family, values, seed=None):
     except (InputError, LimitError) as err:
         return Located(np.zeros((0, n), dtype=complex), None, f"its member was not solved ({err})")
     points = np.array([s.point for s in solved.solutions], dtype=complex).reshape(-1, n)
-    return Located(points, centre_of_points(points, m), "" if len(points) else "no finite solution was found")
+    note = "" if len(points) else "no finite solution was found"
+    centring = centre_of_points(points, m)
+    if centring is None:
+        return Located(points, None, note)
+    # as in :func:`locate`: the far member's solve can merge its roots into one group (the cubic at 1234: one
+    # point 2 away from the roots' centroid); seen from that centre they are near the origin and come out apart
+    try:
+        centred = centred_family(family, centring)
+        again = solve_system(centred.member(list(at)), SolveOptions(second_look=False),
+                             seed=int(rng.integers(2 ** 63)))
+    except (InputError, LimitError):
+        return Located(points, centring, note)
+    found = np.array([s.point for s in again.solutions], dtype=complex).reshape(-1, n)
+    if len(found) < len(points):
+        return Located(points, centring, note)
+    points = found + centring.point[None, :n]
+    return Located(points, centre_of_points(points, m), note)
 
 
 def _range(family, name):
