@@ -144,6 +144,25 @@ def test_crossings_of_the_grashof_lines_are_the_nodes(four_bar, eliminant_lines)
         assert min(np.linalg.norm(node - expected) for node in nodes) <= 1e-6
 
 
+def test_crossings_on_the_double_lines_are_located_on_circles_of_lines(four_bar, eliminant_lines):
+    # Where a Grashof line meets b = 0 or c = 0 the singular points of the two arcs coincide (x = (2, 0, 4, 0) at
+    # (b, c) = (2, 0)): neither the node's nor the meeting's Newton has a regular solution there (decision 0087).
+    # Located by Cauchy integrals on a circle of line offsets (decision 0093), they are meetings at the exact
+    # crossings of sympy's eliminant lines (common practice, no source), and nothing is left undecided.
+    crossings = []
+    for (first, _), (second, _) in itertools.combinations(eliminant_lines, 2):
+        matrix = np.array([first[:2], second[:2]])
+        if abs(np.linalg.det(matrix)) > 1e-9:
+            crossings.append(np.linalg.solve(matrix, -np.array([first[2], second[2]])))
+    special = four_bar.curve.special
+    assert not [s for s in special if s.kind == CurvePointKind.UNDECIDED]
+    on_double_lines = [s for s in special if np.abs(s.point).min() <= 1e-6]
+    assert len(on_double_lines) >= 4  # (0, +-2), (+-2, 0) at least lie within the traced region
+    for point in on_double_lines:
+        assert point.kind == CurvePointKind.MEETING and point.refined
+        assert min(np.linalg.norm(point.point - c) for c in crossings) <= 1e-8
+
+
 def _grashof_branches(b, c):
     """Real assembly branches of the four-bar with lengths 4, 2, |b|, |c| (Grashof's criterion; common practice,
     no source): none when the longest link exceeds the sum of the others, two when s + l < p + q, else one."""

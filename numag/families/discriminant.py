@@ -417,6 +417,7 @@ def _curve_and_cells_on_lines(family, codimension, options, rng, paths, notes, p
                  for lift, ends in zip(found.cusp_lifts, found.cusp_ends)]
         special = _nodes(refining, found.lifts, n, float(np.linalg.norm(high - low)), reach, span=high - low) \
             + [point for point in joins if point is not None]
+        special = _settled_crossings(found, special, notes)
     # failed paths of the sweep and arc ends that could be neither continued nor joined: where the picture may
     # miss a piece (counted like the stalled arc ends of the other tracer)
     # cut to where the regions are merged; the ends cut from a chord are put back on the curve, except on a multiple
@@ -434,6 +435,32 @@ def _curve_and_cells_on_lines(family, codimension, options, rng, paths, notes, p
             progress("counting the real branches of one member per cell")
         cells = _cells(family, found.cuts, rng)
     return curve, cells
+
+
+def _settled_crossings(found, special, notes):
+    """Crossings located on circles of line offsets (lines.CrossingCircle, decision 0093); those that stay
+    undecided are named with their reason in a note.
+
+    Newton's nodes too: on a double line (a length 0) the node's system has a curve of solutions (the member has
+    two singular points all along it), and Gauss-Newton stopped on it 5e-9 from the crossing, calling a meeting a
+    node (measured: the four-bar with two lengths, seed 1, at (0, 6) and (-6, 0)). Where the circle cannot settle
+    a node Newton refined, Newton's answer stays.
+    """
+    kept, reasons = [], {}
+    for point in special:
+        undecided = point.kind == CurvePointKind.UNDECIDED and point.candidate == CurvePointKind.NODE
+        if undecided or point.kind == CurvePointKind.NODE:
+            settled, reason = found.settled(point)
+            if reason is None:
+                point = settled
+            elif undecided:  # the points are in computed units here: the reasons are counted, not placed
+                reasons[reason] = reasons.get(reason, 0) + 1
+        kept.append(point)
+    if reasons:
+        notes.append("Crossings of the curve left undecided (neither Newton nor a circle of lines around them located "
+                     "them; more --trace-lines may separate them): "
+                     + "; ".join(f"{reason} ({count})" for reason, count in reasons.items()) + ".")
+    return kept
 
 
 def _isolated_points(family, codimension, options, seed, curve, paths, notes):

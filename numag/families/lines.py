@@ -50,9 +50,10 @@ from ..numeric.evaluate import BatchEvaluator
 from ..tracking.tracker import TrackerOptions
 from ..singular.isolated import null_vector_system
 from .records import REAL_TOLERANCE, PointKind
+from .plane import CurvePoint, CurvePointKind
 from .sweep import SweepOptions, move_points, sweep
 
-__all__ = ["LineDiscriminant", "line_family", "discriminant_on_lines"]
+__all__ = ["LineDiscriminant", "line_family", "discriminant_on_lines", "CrossingCircle"]
 
 #: Real t values of one line closer than this (relative) are one discriminant point: a double root of the
 #: line's discriminant is known to about the square root of the precision.
@@ -115,6 +116,22 @@ class LineDiscriminant:
     spacing: float = 0.0
     multiple_arcs: list = field(default_factory=list)
     multiple_degree: int = 0
+    #: settles crossings that Newton could not refine (:meth:`settled`); not saved with results
+    crossings: object = field(default=None, repr=False, compare=False)
+
+    def settled(self, point):
+        """A crossing that Newton left UNDECIDED, located by Cauchy integrals on a circle (:class:`CrossingCircle`).
+
+        Returns
+        -------
+        CurvePoint
+            A refined NODE or MEETING, or ``point`` itself when it stays undecided.
+        str or None
+            Why it stays undecided (None when settled).
+        """
+        if self.crossings is None:
+            return point, "no lines to settle it on"
+        return self.crossings.settle(point)
 
 
 def _free_name(base, taken):
@@ -299,8 +316,9 @@ def discriminant_on_lines(family, codimension, box, verticals, trace_lines, rng)
                      f"points were followed on a deflated system ({counted(sum(multiple_arcs), 'traced arc')}"
                      + (f"; {double_failed} of {double_moves} moves onto lines failed, so some lines may miss its "
                         "points" if double_failed else "") + ").")
+    crossings = CrossingCircle(lines, family.n_variables, traced, normal, direction, spacing, swept.seed)
     return LineDiscriminant(arcs, lifts, cuts, failed, lost, notes, dict(swept.paths), cusps, cusp_lifts, cusp_ends,
-                            spacing, multiple_arcs, double_degree)
+                            spacing, multiple_arcs, double_degree, crossings)
 
 
 #: A point moved on the deflated system is on the multiple component when the full (not squared) system holds to
@@ -628,3 +646,248 @@ def _polylines(traced, edges, n):
         lifts.append(lift)
         multiple.append(all_multiple)
     return arcs, lifts, multiple
+
+
+#: Points on the circle around a crossing (Cauchy integrals by the FFT) and steps from the start line onto it.
+_CIRCLE_POINTS = 128
+_ONTO_CIRCLE = 16
+#: The circle's radius in trace-line spacings: it holds the start line (0.3 to 1.2 spacings from the estimate).
+_CIRCLE_RADIUS = 1.6
+#: Taylor coefficients of the second half below this (relative to the largest): the samples resolve the functions.
+_TAIL = 1e-9
+#: A settled crossing lies within this (relative to the circle's radius) of the real line of offsets.
+_REAL_OFFSET = 1e-7
+
+
+def _newton_along(evaluate, unknowns, z, values):
+    """Continue the roots z (K, U) of ``evaluate`` through the parameter values ``values`` (L, K, 4), Newton from a
+    secant predictor; the roots at every value (L, K, U) and whether every step converged (K,)."""
+    path = np.empty((len(values),) + z.shape, dtype=complex)
+    good = np.ones(len(z), dtype=bool)
+    previous = z.copy()
+    for step, value in enumerate(values):
+        guess = z + (z - previous) if step else z.copy()
+        previous = z
+        for _ in range(8):
+            residual, jacobian = evaluate(np.hstack([guess, value]))
+            delta = np.array([np.linalg.lstsq(j[:, :unknowns], r, rcond=None)[0] for j, r in zip(jacobian, residual)])
+            guess = guess - delta
+            if np.all(np.linalg.norm(delta, axis=1) <= 1e-13 * (1 + np.linalg.norm(guess, axis=1))):
+                break
+        residual = evaluate(np.hstack([guess, value]))[0]
+        good &= np.linalg.norm(residual, axis=1) <= 1e-10 * (1 + np.linalg.norm(guess, axis=1))
+        z = guess
+        path[step] = z
+    return path, good
+
+
+class CrossingCircle:
+    """Crossings of the traced curve located by Cauchy integrals on a circle of complex line offsets.
+
+    Where two arcs of the real discriminant cross at a point whose singular points coincide (a simple arc meeting a
+    multiple one, such as a Grashof line of a four-bar meeting the length 0), neither the node's system nor the
+    meeting's Newton has a regular solution (decision 0076's diagnosis, 0093). On the parallel trace lines
+    p = s n + t d each arc is an analytic function t_i(s) of the offset s (a regular root of the line system, or of
+    its once deflated system on a multiple arc), also for complex s. The roots near the estimate are continued from
+    a trace line onto the circle |s - s_0| = r (1.6 spacings) and once around it by Newton; a root that does not come
+    back to itself met a branch point inside (undecided). For each pair, f = t_i - t_j winds once around the circle
+    exactly when the arcs cross inside it, at the root of the Taylor series of f (its coefficients from the FFT of
+    the samples); the crossing is t_i's Taylor series there. Two arcs whose singular points x coincide there meet
+    (MEETING), else they cross (NODE).
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> family = Family(parse_system(["x^2 - (r - s) * (r + s)"], ["x", "r", "s"]), ("r", "s"))
+    >>> found = discriminant_on_lines(family, 1, ((-1.0, -1.0), (1.0, 1.0)), [], 12, np.random.default_rng(3))
+    >>> point, reason = found.settled(CurvePoint.found(CurvePointKind.NODE, np.array([0.01, -0.02]), False))
+    >>> point.kind.value, bool(np.abs(point.point).max() < 1e-10), reason
+    ('meeting', True, None)
+    """
+
+    def __init__(self, lines_family, n, traced, normal, direction, spacing, seed):
+        self.traced, self.normal, self.direction, self.spacing = traced, normal, direction, spacing
+        self.n = n
+        self.size = lines_family.n_variables
+        self.simple = BatchEvaluator([p.numeric() for p in lines_family.system.polynomials])
+        self.lines_family, self.seed = lines_family, seed
+        self._deflation = None  # (full evaluator, B) of :func:`_deflated`, built when a multiple root is followed
+        self.offsets = np.array([line.origin @ normal for line in traced])
+
+    def settle(self, point):
+        """``point`` (an UNDECIDED crossing) settled, or kept with the reason."""
+        estimate = np.asarray(point.point, dtype=float)
+        s0, t0 = float(estimate @ self.normal), float(estimate @ self.direction)
+        radius = _CIRCLE_RADIUS * self.spacing
+        distance = np.abs(self.offsets - s0)
+        usable = np.nonzero((distance >= 0.3 * self.spacing) & (distance <= 1.2 * self.spacing))[0]
+        if not len(usable):
+            return point, "no trace line near it"
+        line = self.traced[usable[np.argmin(distance[usable])]]
+        near = np.abs(line.points[:, -1].real - t0) <= 2.0 * radius if len(line.points) else np.zeros(0, bool)
+        if np.sum(near) < 2:
+            return point, "fewer than two arcs near it"
+        s_start = float(line.origin @ self.normal)
+        rise = math.sqrt(radius ** 2 - (s_start - s0) ** 2)
+        angle = math.atan2(rise, s_start - s0)
+        onto = s_start + 1j * rise * np.linspace(0.0, 1.0, _ONTO_CIRCLE + 1)[1:]
+        around = s0 + radius * np.exp(1j * (angle + 2 * math.pi * np.arange(1, _CIRCLE_POINTS + 1) / _CIRCLE_POINTS))
+        offsets = np.concatenate([onto, around])
+        arcs = []  # per arc near it: its t, and the x of its singular points, sampled on the circle
+        for multiple in (False, True):
+            chosen = line.points[near & (line.multiple == multiple)]
+            if not len(chosen):
+                continue
+            found, reason = self._around(chosen, multiple, np.concatenate([line.origin, line.direction]), offsets)
+            if found is None:
+                return point, reason
+            arcs += found
+        arcs = _distinct_arcs(arcs)
+        settled = []
+        for i in range(len(arcs)):
+            for j in range(i + 1, len(arcs)):
+                difference = arcs[i].t - arcs[j].t
+                if np.max(np.abs(difference)) <= 1e-10 * (1 + np.max(np.abs(arcs[i].t))):
+                    continue  # one arc in the plane with two singular points over it
+                turns = np.sum(np.angle(np.roll(difference, -1) / difference)) / (2 * math.pi)
+                winding = int(round(float(turns)))
+                if winding == 0:
+                    continue
+                if winding != 1:
+                    return point, "arcs touching or crossing more than once near it"
+                u = _root_on_circle(difference)
+                if u is None:
+                    return point, "the circle's samples do not resolve the arcs"
+                offset = s0 + radius * np.exp(1j * angle) * u
+                if abs(offset.imag) > _REAL_OFFSET * radius:
+                    return point, "the arcs cross at a non-real offset"
+                at = offset.real * self.normal + _series_at(arcs[i].t, u).real * self.direction
+                one, two = arcs[i].x_at(u), arcs[j].x_at(u)
+                if one is None or two is None:
+                    return point, "singular points of a multiple arc meet near it, not where the arcs cross"
+                settled.append((at, np.linalg.norm(one - two) <= 1e-6 * (1 + np.linalg.norm(one))))  # same x
+        if not settled:
+            return point, "no two arcs cross near it"
+        spread = max(np.linalg.norm(at - settled[0][0]) for at, _ in settled)
+        if spread > 1e-8 * radius:
+            return point, "several crossings near it"
+        kind = CurvePointKind.MEETING if any(meets for _, meets in settled) else CurvePointKind.NODE
+        return CurvePoint(kind, settled[0][0], True), None
+
+    def _around(self, chosen, multiple, start_value, offsets):
+        """Per root, (x, t) sampled on the circle (M, n + 1; the first sample at the angle reached), or None."""
+        size = self.size
+        values = np.array([np.concatenate([s * self.normal, self.direction]) for s in offsets], dtype=complex)
+        if multiple:
+            if self._deflation is None:
+                # its own generator: the draws of the rest of the computation stay the same
+                deflated = _deflated(self.lines_family, np.random.default_rng([int(self.seed), 93]))
+                self._deflation = deflated[1:]
+            full, b_matrix = self._deflation
+            # the kernel of J_z G at each multiple root, in the coordinates w of B (w, 1), as in _multiple_components
+            _, jacobians = self.simple.evaluate(np.hstack([chosen, np.tile(start_value, (len(chosen), 1))]))
+            kernels = np.array([np.linalg.svd(j[:, :size])[2][-1].conj() for j in jacobians])
+            w = np.linalg.solve(b_matrix, kernels.T).T
+            with np.errstate(all="ignore"):
+                z = np.hstack([chosen, w[:, :-1] / w[:, -1:]])
+            if not np.all(np.isfinite(z)):
+                return None, "no kernel at a multiple root near it"
+            evaluate, unknowns = full.evaluate, 2 * size - 1
+        else:
+            z, evaluate, unknowns = chosen.copy(), self.simple.evaluate, size
+        path, good = _newton_along(evaluate, unknowns, z, np.repeat(values[:, None, :], len(z), axis=1))
+        if not np.all(good):
+            return None, "Newton lost a root near it on the circle"
+        n = self.n
+        # samples at angle + 2 pi j / M, j = 1 .. M; the last is the first point on the circle again
+        circle = np.roll(path[-_CIRCLE_POINTS:, :, :size], 1, axis=0)
+        first = path[_ONTO_CIRCLE - 1, :, :size]
+        # after one turn each root is back, or at another one: a branch point inside the circle
+        apart = np.linalg.norm(path[-1, :, :size][:, None, :] - first[None, :, :], axis=2) \
+            / (1 + np.linalg.norm(first, axis=1))[None, :]
+        ends = np.argmin(apart, axis=1)
+        if np.any(apart[np.arange(len(z)), ends] > 1e-8) or len(set(ends.tolist())) != len(z):
+            return None, "a root near it came back to no root after a turn"
+        arcs = []
+        for k in range(len(z)):
+            if ends[k] == k:
+                arcs.append(_CircleArc(circle[:, k, -1], circle[:, k, :n], None))
+            elif ends[ends[k]] == k and k < ends[k]:
+                # two singular points over one arc, exchanged around a branch point (a linkage's double line, where
+                # the two points of the split member merge): t is one function, x is known by the pair's mean
+                # and squared half difference
+                j = ends[k]
+                if np.max(np.abs(circle[:, k, -1] - circle[:, j, -1])) > 1e-8 * (1 + np.max(np.abs(circle[:, k, -1]))):
+                    return None, "an arc turns back near it (a branch point of the curve)"
+                # at every sample k and j are the two singular points over that offset: their symmetric functions
+                # are single-valued
+                pair_k, pair_j = circle[:, k, :n], circle[:, j, :n]
+                arcs.append(_CircleArc(circle[:, k, -1], 0.5 * (pair_k + pair_j), (0.5 * (pair_k - pair_j)) ** 2))
+            elif ends[ends[k]] != k:
+                return None, "three or more singular points exchanged near it"
+        return arcs, None
+
+
+@dataclass
+class _CircleArc:
+    """One arc near a crossing sampled on the circle: t, and x (or, for two singular points exchanged around the
+    circle, their mean and squared half difference)."""
+
+    t: np.ndarray
+    x: np.ndarray
+    spread: object = None
+
+    def x_at(self, u):
+        """x at u (None where two exchanged singular points have not merged there)."""
+        mean = _series_at(self.x, u)
+        if self.spread is None:
+            return mean
+        half = _series_at(self.spread, u)
+        return mean if np.linalg.norm(half) <= 1e-12 * (1 + np.linalg.norm(mean)) ** 2 else None
+
+
+def _distinct_arcs(arcs):
+    """The arcs without repeats (a multiple root found both by the sweep and on the deflated system)."""
+    kept = []
+    for arc in arcs:
+        if all(np.max(np.abs(arc.x - other.x)) > 1e-8 * (1 + np.max(np.abs(other.x)))
+               or np.max(np.abs(arc.t - other.t)) > 1e-8 * (1 + np.max(np.abs(other.t))) for other in kept):
+            kept.append(arc)
+    return kept
+
+
+def _taylor(samples):
+    """Taylor coefficients in u = (s - s_0) / (r e^(i angle)) of equally spaced samples on the circle (FFT), and
+    whether their second half is negligible."""
+    coefficients = np.fft.fft(samples, axis=0) / len(samples)
+    half = len(samples) // 2
+    head = np.max(np.abs(coefficients[:half]))
+    return coefficients[:half], bool(np.max(np.abs(coefficients[half:])) <= _TAIL * max(head, 1e-300))
+
+
+def _root_on_circle(difference):
+    """The one root inside the unit disc of the Taylor series of the samples ``difference`` (None: not resolved)."""
+    coefficients, resolved = _taylor(difference)
+    if not resolved:
+        return None
+    keep = np.abs(coefficients) > 1e-15 * np.max(np.abs(coefficients))
+    degree = int(np.nonzero(keep)[0].max())
+    roots = np.roots(coefficients[:degree + 1][::-1])
+    inside = roots[np.abs(roots) < 1.0]
+    if len(inside) != 1:
+        return None
+    u = complex(inside[0])
+    for _ in range(5):  # polish on the series itself
+        powers = u ** np.arange(degree + 1)
+        value = coefficients[:degree + 1] @ powers
+        slope = (np.arange(1, degree + 1) * coefficients[1:degree + 1]) @ powers[:-1]
+        if slope == 0:
+            break
+        u -= value / slope
+    return u
+
+
+def _series_at(samples, u):
+    """The sampled functions (columns) at u in the unit disc, from their Taylor series."""
+    coefficients, _ = _taylor(samples)
+    return (u ** np.arange(len(coefficients))) @ coefficients

@@ -90,7 +90,8 @@ class CurvePoint:
     point : ndarray of float, shape (2,)
         In the parameter plane.
     refined : bool
-        Newton converged on the system of its kind (else: at the traced accuracy, and the kind is UNDECIDED).
+        Newton converged on the system of its kind, or a crossing was located on a circle of line offsets
+        (decision 0093); else: at the traced accuracy, and the kind is UNDECIDED.
     candidate : CurvePointKind or None
         For an UNDECIDED point: the kind it was a candidate for.
     """

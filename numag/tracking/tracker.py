@@ -206,6 +206,11 @@ class TrackerOptions:
         |X_0| / ||X|| below this means the endpoint is at infinity.
     singular_condition : float
         Condition number above which an endpoint is singular.
+    endgame_if_settled : bool
+        Send endpoints that Newton settled at s = 0 (quadratic convergence to 1e-13: a simple root) but whose
+        condition is above ``singular_condition`` through the Cauchy endgame as well. Off for callers that only
+        match endpoints to known points (moves of witness points between slices, decision 0093): the endgame
+        then only confirms winding 1 at the point Newton gave, at the cost of its circles.
     """
 
     initial_step: float = 0.1
@@ -229,6 +234,7 @@ class TrackerOptions:
     rescue_digits: int = 40
     infinity_threshold: float = 1e-7
     singular_condition: float = 1e8
+    endgame_if_settled: bool = True
 
     def __post_init__(self):
         """Refuse a bad value on construction, naming the option: every size, tolerance and count is
@@ -870,6 +876,15 @@ def _track(homotopy, start_points, opts, near=None, on_step=None):
     # avoids np.unique, which imports numpy.ma in every solve process; decision 0067)
     finished = np.zeros(len(running), dtype=bool)
     finished[np.flatnonzero(reached)[regular]] = True
+    if not opts.endgame_if_settled:
+        # settled but ill-conditioned: a simple root known to condition * eps; no circles around it (decision 0093)
+        quiet = settled & ~regular
+        kept = running[reached][quiet]
+        endpoints[kept] = settled_points[quiet]
+        condition[kept] = cond[quiet]
+        winding[kept] = 1
+        status[kept] = np.where(infinite[quiet], PathStatus.AT_INFINITY, PathStatus.SINGULAR_ENDPOINT)
+        finished[np.flatnonzero(reached)[quiet]] = True
     rest = running[~finished]
     if len(rest):
         endgame[rest] = True

@@ -398,7 +398,9 @@ class _Mover:
         """
         # No high-precision rescue here: a loop or trace path that fails only costs another loop or
         # translation, while re-tracking it in mpmath can take minutes (seen on three quadrics).
-        tracker = replace(self.options.witness.tracker, rescue_digits=0)
+        # The endpoints are only matched to witness points (within 1e-6): a settled ill-conditioned endpoint (the
+        # points of a double component, e.g. a linkage's length 0) needs no Cauchy endgame (decision 0093).
+        tracker = replace(self.options.witness.tracker, rescue_digits=0, endgame_if_settled=False)
         run = self._track(points, from_rows, to_rows, tracker)
         failed = np.nonzero(np.isin(run.status, _FAILED_STATUSES))[0]
         if detour and len(failed):
