@@ -142,6 +142,8 @@ def numag_summary(locus):
     compared = [c for c in locus.components if c.kind in (PieceKind.SINGULAR, PieceKind.NON_REDUCED)
                 and (system.projective or not c.at_infinity)]
     undecided = [c for c in locus.components if c.kind is PieceKind.UNDECIDED]
+    # the generically non-reduced components of X (top dimension: those of one equation, the reference's case)
+    non_reduced = sorted(c.degree for c in compared if c.kind is PieceKind.NON_REDUCED and c.dimension == top)
     singular_dimension = max((c.dimension for c in compared), default=-1)
     points = [c.points[0] for c in compared if c.dimension == 0]
     summary = {"variety_dimension": top, "variety_degree": degree, "equidimensional": equidimensional,
@@ -149,7 +151,7 @@ def numag_summary(locus):
                "singular_dimension": singular_dimension, "singular_points": None,
                "real_singular_points": None, "singular_degree": None,
                "points": np.array(points, dtype=complex).reshape(len(points), system.n_variables),
-               "undecided": len(undecided)}
+               "undecided": len(undecided), "non_reduced_degrees": non_reduced}
     if singular_dimension <= 0:
         summary["singular_points"] = len(points)
         summary["real_singular_points"] = sum(bool(c.real[0]) for c in compared if c.dimension == 0)
@@ -186,6 +188,25 @@ def _components_row(mine, exact):
     mine, exact = sorted(mine), sorted(exact)
     agree = True if mine == exact else (None if len(mine) > len(exact) and _groups_into(mine, exact) else False)
     return ComparisonRow("components of X (top dimension; degrees)", mine, exact, agree)
+
+
+def _kinds_row(mine, exact):
+    """numag's generically non-reduced components of X (degrees) against the reference's repeated factors.
+
+    V(F, minors) holds singular points and non-reduced components alike, so dimensions and degrees cannot
+    tell a doubled plane reported "singular" from one reported "non-reduced"; the kinds are compared here.
+    A repeated factor over Q may split over C (grouped as in :func:`_components_row`: undecided).
+
+    Examples
+    --------
+    >>> _kinds_row([1], [1]).agree, _kinds_row([], [1]).agree, _kinds_row([1, 1], [2]).agree, _kinds_row([1], None)
+    (True, False, None, None)
+    """
+    if mine is None or exact is None:
+        return None
+    mine, exact = sorted(mine), sorted(exact)
+    agree = True if mine == exact else (None if len(mine) > len(exact) and _groups_into(mine, exact) else False)
+    return ComparisonRow("non-reduced components of X (degrees)", mine, exact, agree)
 
 
 def _groups_into(parts, totals):
@@ -241,6 +262,12 @@ def compare_answers(system, locus, reference, numag_seconds, tolerance=1e-6):
             notes.append("numag splits X into more components than the reference's irreducible factors over Q "
                          f"({components.numag} against {components.exact}); the reference does not test "
                          "irreducibility over C, so the finer split is neither confirmed nor refuted")
+    kinds = _kinds_row(ours["non_reduced_degrees"], reference.non_reduced_degrees)
+    if kinds is not None:
+        rows.append(kinds)
+    elif reference.status == ReferenceStatus.FINISHED and ours["singular_dimension"] >= 0:
+        notes.append("kinds not compared: the reference knows which components are non-reduced for one "
+                     "equation only (its repeated factors)")
     row("dimension of V(F, minors)", ours["singular_dimension"], reference.singular_dimension)
     exact_dimension = reference.singular_dimension
     if exact_dimension is not None and exact_dimension <= 0 and ours["singular_dimension"] <= 0:
@@ -270,7 +297,8 @@ def compare_answers(system, locus, reference, numag_seconds, tolerance=1e-6):
         notes.append(f"numag left {counted(ours['undecided'], 'candidate')} undecided")
     if any(r.agree is False for r in rows):
         verdict = "mismatch"
-    elif reference.status != ReferenceStatus.FINISHED or ours["undecided"] or (components is not None and components.agree is None):
+    elif (reference.status != ReferenceStatus.FINISHED or ours["undecided"]
+          or any(r is not None and r.agree is None for r in (components, kinds))):
         verdict = "incomplete"
         if reference.status != ReferenceStatus.FINISHED:
             notes.append(f"reference {reference.status}: {reference.message}")

@@ -56,7 +56,8 @@ _CHILD_ENTRY = "import sys; sys.path.insert(0, sys.argv[1]); from numag.app.refe
 
 #: What the reference compares (printed with every comparison).
 REFERENCE_SCOPE = ("exact reference (sympy Groebner bases): dimension and degree of X and the degrees of its "
-                   "top-dimensional irreducible components over Q; V(F + all c x c minors of J) "
+                   "top-dimensional irreducible components over Q (one equation: which are repeated factors, "
+                   "the non-reduced components); V(F + all c x c minors of J) "
                    "with c the codimension of X -- its dimension, and when finite the distinct points (and "
                    "real ones, length with multiplicity, exact coordinates when sympy solves the basis), "
                    "otherwise the degree of its top-dimensional part. Affine input: affine points only. "
@@ -96,6 +97,10 @@ class ReferenceAnswer:
     component_degrees : list of int or None
         Degrees of the irreducible components over Q of X's top-dimensional part (X of positive
         dimension), ascending.
+    non_reduced_degrees : list of int or None
+        One equation only: degrees of its irreducible factors over Q that divide it more than once
+        (the generically non-reduced components of X, a factor of degree d counted once), ascending;
+        None for several equations, where the reference does not know which components are non-reduced.
     points : list of list of complex or None
         Coordinates of the exact points (affine; projective input: in the chart a . x = 1).
     exact_points : list of list of str or None
@@ -118,6 +123,7 @@ class ReferenceAnswer:
     scheme_length: object = None
     singular_degree: object = None
     component_degrees: object = None
+    non_reduced_degrees: object = None
     points: object = None
     exact_points: object = None
     chart: object = None
@@ -398,6 +404,10 @@ def _child(text, seed, channel):
         channel.put(json.dumps({"partial": result}))
         if dimension > 0:
             result["component_degrees"] = _top_components(equations + slicing, symbols, dimension, rng, sympy)
+            if len(equations) == 1:  # a factor of multiplicity > 1 is a generically non-reduced component
+                _, factors = sympy.factor_list(sympy.expand(equations[0]), *symbols)
+                result["non_reduced_degrees"] = sorted(sympy.Poly(f, *symbols).total_degree() for f, power in factors
+                                                       if power > 1 and sympy.Poly(f, *symbols).total_degree() > 0)
             result["compute_seconds"] = time.perf_counter() - clock
             channel.put(json.dumps({"partial": result}))
         jacobian = sympy.Matrix([[sympy.diff(f, s) for s in symbols] for f in equations])

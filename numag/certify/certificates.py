@@ -253,7 +253,8 @@ def certify_singular_point(system, point, codimension=None, options=None, projec
         Claim "singular point" (or "point of the singular locus" with slices), with ``rank_upper``
         = c - 1 when the zero of the minors is exact, ``rank_lower`` the rank proved over the box,
         and the codimension's check in ``claim_checks`` (proved for c = 1; for c >= 2 against
-        sampled points of X).
+        sampled points of X); when certified, the hypothesis "reduced at the point" there as well,
+        unverified (the variety, not only the equations, is singular there only under it).
 
     Examples
     --------
@@ -344,6 +345,15 @@ def certify_singular_point(system, point, codimension=None, options=None, projec
     elif codimension >= 2:
         certificate.notes.append(f"rank J <= {codimension - 1} is what is proved; X is singular there because its "
                                  f"codimension there is {codimension} ({check.status}: {check.how})")
+    if certificate.status == Status.CERTIFIED:
+        # Decision 0096: rank J < c at an exact point of V(F) makes the point singular for the equations as
+        # written; the variety is singular there only where they define it with multiplicity 1. On a doubled
+        # component (x^2 (z - 1) = 0 along x = 0) the rank drops at every point, smooth ones of the plane too.
+        certificate.claim_checks.append(ClaimCheck(
+            "reduced", "at the point", None, ClaimStatus.UNVERIFIED,
+            "the Jacobian criterion proves the variety singular only where F defines it with multiplicity 1; "
+            "on a generically non-reduced component rank J < c everywhere: not proved here, the report's "
+            "sampling of nearby points is the evidence"))
     return certificate
 
 
