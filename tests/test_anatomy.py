@@ -36,7 +36,7 @@ PLANE_FORMS = [
 ]
 # A_k surfaces x^2 + y^2 + z^(k+1) (Arnold 1972, same normal forms with a square added).
 SURFACE_FORMS = [("x^2 + y^2 + z^2", "A1", 1), ("x^2 + y^2 + z^3", "A2", 2), ("x^2 + y^2 + z^4", "A3", 3),
-                 ("x^2*y - y^3 + z^2", "D4", 4)]
+                 ("x^2 + y^2 + z^5", "A4", 4), ("x^2 + y^2 + z^6", "A5", 5), ("x^2*y - y^3 + z^2", "D4", 4)]
 
 
 def moved(equation, names, seed):
