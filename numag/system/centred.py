@@ -28,14 +28,19 @@ import numpy as np
 from .exact import ExactCoefficient
 from .polynomial import Polynomial, PolynomialSystem
 
-__all__ = ["CENTRED_BALANCING_FLOOR", "Centring", "centre_in_region", "centre_near", "centred_system",
-           "subleading_centre", "translated_terms", "within"]
+__all__ = ["CENTRED_BALANCING_FLOOR", "CENTRING_TERMS", "Centring", "centre_in_region", "centre_near",
+           "centred_system", "subleading_centre", "translated_terms", "within"]
 
 #: The balancing of a centred system leaves out terms below this fraction of the largest of their polynomial
 #: (:meth:`~numag.numeric.scaling.Scaling.balancing`): the centre is rounded to 12 digits of the point, and a
 #: coordinate that is zero up to rounding (1e-11) leaves terms of that size, which must not set the units
 #: (decisions 0081, 0084).
 CENTRED_BALANCING_FLOOR = 1e-8
+
+#: Centring expands each term (y + s)^e into prod(e_j + 1) terms: above this many in all, the centred system is
+#: too large to write out, and membership (and the non-reduced sampling of :mod:`numag.singular.smoothness`, the
+#: cascade's rank test of junk candidates: decision 0097) run in the system's own units as before decision 0084.
+CENTRING_TERMS = 20000
 
 
 @dataclass(frozen=True)

@@ -35,7 +35,9 @@ import math
 
 import numpy as np
 
+from ..kinds import TextEnum
 from ..errors import InputError, LimitError, is_integer, is_number, require_option
+from ..system.centred import CENTRED_BALANCING_FLOOR, CENTRING_TERMS, centre_near, centred_system, translated_terms
 from ..system.polynomial import Polynomial, PolynomialSystem
 from ..run.executor import ambient_executor, charge_paths
 from ..numeric.cluster import cluster_labels, groups
@@ -43,6 +45,7 @@ from ..numeric.evaluate import BatchEvaluator, TermSizes
 from ..numeric.linalg import scaled_singular_values
 from ..numeric.minors import (AugmentedEvaluator, CombinedRows, LinearFormProduct, MinorsSystem, equation_evaluator,
                               expanded_minors, random_minor_weights, split_equations)
+from ..numeric.scaling import Scaling
 from ..numeric.refine import ROUNDING_RESIDUAL, IsolationTest, ZeroKind, largest_scaled_residual, newton_zero_test
 from ..numeric.seeds import random_state
 from ..tracking.homotopy import ParameterHomotopy, random_unit_complex
@@ -559,27 +562,26 @@ def _witness_supersets(system, options, seed, progress):
             off_target = finite & ~good & ~(residual <= _DOUBTFUL_RESIDUAL) & np.isin(
                 status, [PathStatus.CONVERGED, PathStatus.SINGULAR_ENDPOINT])
             if np.any(off_target):
-                track_counts += PathCounts(
-                    converged=-int(np.sum(off_target & (status == PathStatus.CONVERGED))),
-                    singular_endpoint=-int(np.sum(off_target & (status == PathStatus.SINGULAR_ENDPOINT))),
-                    failed_by_reason={label: int(np.sum(off_target)) if label == PathStatus.FAILED_ENDGAME.label
-                                      else 0 for label in FAILURE_LABELS})
+                track_counts += _not_settled(status[off_target])
             counts["not_on_X"] += int(np.sum(~good & finite & ~off_target))
             counts["at_infinity_or_failed"] += int(np.sum(~np.all(np.isfinite(candidates), axis=1)))
-            candidates = candidates[good]
+            candidates, status = candidates[good], status[good]
             if len(candidates) == 0:
                 continue
             labels = cluster_labels(candidates, options.cluster_tolerance)
             members = groups(labels)
             distinct = np.array([candidates[m[0]] for m in members])
             paths = np.array([len(m) for m in members], dtype=np.int64)
-            keep, local_junk, tested = _not_junk(slicing, used, evaluator, sizes, codim + 1, distinct,
-                                                 following, options)
+            keep, local_junk, tested, unsettled = _not_junk(slicing, used, evaluator, sizes, codim + 1, distinct,
+                                                            following, options)
             if local_junk:
                 counts["junk_by_local_test"] = counts.get("junk_by_local_test", 0) + local_junk
             counts["membership_paths"] += tested.runs  # re-tracks of jumped paths included
             track_counts += tested
-            counts["on_larger_component"] += int(np.sum(~keep))
+            if len(unsettled):  # endpoints Newton does not settle in centred coordinates (decision 0097)
+                track_counts += _not_settled(status[np.concatenate([members[k] for k in unsettled])])
+                counts["not_settled_centred"] = counts.get("not_settled_centred", 0) + len(unsettled)
+            counts["on_larger_component"] += int(np.sum(~keep)) - len(unsettled)
             have_points, have_mult = following.get(codim + 1, (np.zeros((0, n), complex),
                                                                np.zeros(0, np.int64)))
             following[codim + 1] = (np.vstack([have_points, distinct[keep]]),
@@ -596,6 +598,17 @@ def _witness_supersets(system, options, seed, progress):
         sets.append(WitnessSet(n - codim, points, multiplicity, slicing.slice_rows(codim).copy()))
     return WitnessSupersets(sets, list(range(n, lowest - 1, -1)), slicing, counts, choice.report(),
                             np.vstack(unexplained) if unexplained else np.zeros((0, n), dtype=complex))
+
+
+def _not_settled(status):
+    """The path counts moved from converged (or singular endpoint) to failed in the endgame, for paths ``status``
+    whose endpoint turned out not to be settled on the target (jumped paths already count as failed)."""
+    status = np.asarray(status)
+    converged = int(np.sum(status == PathStatus.CONVERGED))
+    singular = int(np.sum(status == PathStatus.SINGULAR_ENDPOINT))
+    return PathCounts(converged=-converged, singular_endpoint=-singular,
+                      failed_by_reason={label: converged + singular if label == PathStatus.FAILED_ENDGAME.label
+                                        else 0 for label in FAILURE_LABELS})
 
 
 def _settle_on(system, used, slice_rows, points, residual, options, counts, label, unexplained=None):
@@ -789,22 +802,109 @@ def _regenerate_on(slicing, held, index, codim, points, options):
     return run.affine_endpoints(), lost, paths + run.counts, run.status
 
 
+class _Centred(TextEnum):
+    """What the centred look at a junk candidate says (:func:`_judged_centred`, decision 0097)."""
+
+    FULL_RANK = "full rank"
+    RANK_DEFICIENT = "rank deficient"
+    NOT_SETTLED = "not settled"
+    NOT_JUDGED = "not judged"
+
+
+def _judged_centred(system, used, slice_rows, points, codim, threshold):
+    """Junk candidates of codimension ``codim`` judged again in coordinates centred exactly at each (decision 0097).
+
+    The exact bound (common practice): the tangent space of X_used at p has dimension n - rank J(p), at least the
+    dimension of every component through p, so rank J(p) = codim puts p on no component of smaller codimension.
+    Judged in the system's own coordinates, J's rows and F are measured against term sizes that grow with |p|: at
+    a point 2000 units out whose features are of size 1 those terms cancel down to J and F, and two simple roots
+    0.2 apart (an isolated point and a hyperplane beside it, after a linear change) ended as one "double" endpoint
+    at their midpoint, rank 3 of 4 and residual within rounding there. In coordinates y = x - s centred exactly
+    at the point and balanced anew (decision 0084's centring) the terms are of the features' own size: Newton on
+    f_used and the slice settles a true endpoint where it is, and the rank is the one seen at the origin.
+
+    Parameters
+    ----------
+    system : PolynomialSystem or MinorsSystem
+        The cascade's system (its computed units).
+    used : list of int
+        The equations so far.
+    slice_rows : ndarray, shape (n - codim, n + 1)
+    points : ndarray, shape (K, n)
+    codim : int
+    threshold : float
+        The rank threshold (:attr:`WitnessOptions.rank_threshold`).
+
+    Returns
+    -------
+    list of _Centred
+        Per point: full rank (no larger component passes through it), rank deficient, not settled (Newton does
+        not leave a zero next to it: the endpoint is not a point of X_used and its paths did not settle), not
+        judged (evaluated minors among the equations, a translation too large to write out, a point not finite,
+        Newton undecided or reaching a zero only farther away).
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> far = parse_system(["(x - 3000)*(y - 2000)", "(y - 2000)*(y - 2001)"], ["x", "y"])
+    >>> at = np.array([[3000.0, 2001.0], [5.0, 2000.0], [3000.0, 2000.5]])
+    >>> [str(v) for v in _judged_centred(far, [0, 1], np.zeros((0, 3)), at, 2, 1e-6)]
+    ['full rank', 'rank deficient', 'not settled']
+    """
+    verdicts = [_Centred.NOT_JUDGED] * len(points)
+    polynomials, minors = split_equations(system, used)
+    equations = polynomials + [Polynomial.linear(r[1:], r[0]) for r in slice_rows]
+    augmented = PolynomialSystem(list(system.variables), equations)
+    if minors is not None or system.projective or translated_terms(augmented) > CENTRING_TERMS:
+        return verdicts
+    for k, point in enumerate(points):
+        if not np.all(np.isfinite(point)):
+            continue
+        centring = centre_near(point, radius=0.0)
+        centred = centred_system(augmented, centring)
+        scaling = Scaling.balancing(centred, CENTRED_BALANCING_FLOOR)
+        scaled = scaling.scale_system(centred)
+        at = scaling.to_computed(point - centring.point)[None, :]
+        test = newton_zero_test(scaled, BatchEvaluator([p.numeric() for p in scaled.polynomials]), at)
+        if test.mask(ZeroKind.ZERO)[0] and test.distances[0] <= 1e-5 * (1 + np.linalg.norm(at)):
+            own = scaled.polynomials[:len(polynomials)]  # f_used alone: the slice adds no rank to X_used
+            rank = jacobian_rank(BatchEvaluator([p.numeric() for p in own]), TermSizes(own), test.points, threshold)
+            verdicts[k] = _Centred.FULL_RANK if rank[0] >= codim else _Centred.RANK_DEFICIENT
+        elif test.mask(ZeroKind.NOT_A_ZERO)[0] or not test.after[0] <= _DOUBTFUL_RESIDUAL:
+            # not a zero, or a residual no endpoint on X has (the bound the cascade uses in its own units for
+            # endpoints off the target): two simple roots' midpoint left 4e-2 where Newton stalled on its
+            # singular J. A zero Newton reached only farther away (a point of a hyperplane without its slice:
+            # the step runs along the hyperplane) is left to the tests below, not judged here.
+            verdicts[k] = _Centred.NOT_SETTLED
+    return verdicts
+
+
 def _not_junk(slicing, used, evaluator, sizes, codim, points, found, options):
     """Which points of a codimension-``codim`` candidate set do not lie on a larger component.
 
-    Returns the mask, the number of points the local test found junk, and the paths the membership
-    tests tracked (:class:`~numag.tracking.service.PathCounts`).
+    Returns the mask, the number of points the local test found junk, the paths the membership
+    tests tracked (:class:`~numag.tracking.service.PathCounts`), and the indices of the points that, judged
+    centred, are no endpoints of settled paths (left out of the mask; their paths count as failed).
     """
     keep = np.ones(len(points), dtype=bool)
     paths, local_junk = PathCounts(), 0
     larger = [(c, found[c][0]) for c in sorted(found) if c < codim and len(found[c][0])]
+    unsettled = np.zeros(0, dtype=np.int64)
     if not larger or len(points) == 0:
-        return keep, local_junk, paths
+        return keep, local_junk, paths, unsettled
     # Full rank codim: the tangent space is too small for a larger component through the point.
     ranks = jacobian_rank(evaluator, sizes, points, options.rank_threshold)
     suspects = np.nonzero(ranks < codim)[0]
     if len(suspects) == 0:
-        return keep, local_junk, paths
+        return keep, local_junk, paths, unsettled
+    # Far from the origin the rank above is judged against term sizes that grow with |x| (decision 0097).
+    verdicts = _judged_centred(slicing.system, used, slicing.slice_rows(codim), points[suspects], codim,
+                               options.rank_threshold)
+    unsettled = suspects[[v is _Centred.NOT_SETTLED for v in verdicts]].astype(np.int64)
+    keep[unsettled] = False
+    suspects = suspects[[v in (_Centred.RANK_DEFICIENT, _Centred.NOT_JUDGED) for v in verdicts]].astype(np.int64)
+    if len(suspects) == 0:
+        return keep, local_junk, paths, unsettled
     # A witness point of codimension codim is an isolated point of X_i on its slice; a point of a
     # larger component is not. The local test finds the curve through a junk point cheaply
     # (positive evidence); only the points it calls isolated need the homotopy membership test.
@@ -826,4 +926,4 @@ def _not_junk(slicing, used, evaluator, sizes, codim, points, found, options):
             if np.any(hits):
                 keep[k] = False
                 break
-    return keep, local_junk, paths
+    return keep, local_junk, paths, unsettled

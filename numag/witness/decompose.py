@@ -43,7 +43,7 @@ import numpy as np
 
 from ..errors import InputError, LimitError, is_integer, is_number, require_option
 from ..system.display import counted, html_table, short_point
-from ..system.centred import CENTRED_BALANCING_FLOOR, centre_near, centred_system, translated_terms
+from ..system.centred import CENTRED_BALANCING_FLOOR, CENTRING_TERMS, centre_near, centred_system, translated_terms
 from ..system.polynomial import Polynomial, PolynomialSystem, linear_space, require_numeric
 from ..numeric.cluster import cluster_labels, connected_components, groups as label_groups
 from ..numeric.evaluate import BatchEvaluator, TermSizes
@@ -949,12 +949,6 @@ def components_through(decomposition, point, seed=0, options=None):
     moved, centring = centred
     hits = {id(c) for c in _components_through_here(moved, point - centring.point, seed, options, verify=True)}
     return [c for c, m in zip(decomposition.components, moved.components) if id(m) in hits]
-
-
-#: Centring expands each term (y + s)^e into prod(e_j + 1) terms: above this many in all, the centred system is
-#: too large to write out, and membership (and the non-reduced sampling of :mod:`numag.singular.smoothness`) run
-#: in the system's own units as before decision 0084.
-CENTRING_TERMS = 20000
 
 
 def centred_decomposition(decomposition, point):
