@@ -112,3 +112,31 @@ def test_locating_centres_far_features_only():
     assert centred.system.to_texts() == ["x^3 - 3*x + p"] and centred.ranges["p"].high == 5
     # points spread as far as they are from the origin: no single centre (left in the first coordinates)
     assert centre_of_points(np.array([[0.0], [1234.0]]), 1) is None
+
+
+def _far_four_bar(unit):
+    # ground pivots at (1234, -2345) and (1238, -2345), crank 2, rocker 3, coupler b: lengths times ``unit``
+    ground_x, ground_y = [Fraction(v) * unit for v in (1234, -2345)]
+    return family_from_mapping({
+        "variables": ["x1", "y1", "x2", "y2"], "parameters": ["b"],
+        "equations": [f"(x1 - {ground_x})^2 + (y1 - {ground_y})^2 = {4 * unit ** 2}",
+                      f"(x2 - {ground_x + 4 * unit})^2 + (y2 - {ground_y})^2 = {9 * unit ** 2}",
+                      "(x2 - x1)^2 + (y2 - y1)^2 = b^2"],
+        "ranges": {"b": [0, 10 * unit]}})
+
+
+@pytest.mark.parametrize("unit, seed", [(1, 1), (1000, 2)])
+def test_a_four_bar_far_from_the_origin_is_located_by_its_members(unit, seed):
+    # Members are curves, so the singular incidence set cut in b is not square and locates nothing; one member
+    # sliced through the centre of its circles locates the linkage (decision 0101). Before, 4 of 9 points and 21
+    # failed paths (exit 3). Reference: sympy's eliminant of the four-bar at the origin,
+    # b^2 (b^2 - 1)(b^2 - 9)(b^2 - 25)(b^2 - 81) (see test_families.py), which a translation does not change.
+    family = _far_four_bar(unit)
+    found = locate(family, 3, seed=seed)
+    assert found.centring is not None
+    assert np.linalg.norm(found.centring.point[:2] - np.array([1234, -2345]) * unit) < 5 * unit
+    b = sympy.symbols("b")
+    eliminant = b ** 2 * (b ** 2 - 1) * (b ** 2 - 9) * (b ** 2 - 25) * (b ** 2 - 81)
+    expected = sorted(set(float(r) * unit for r in sympy.real_roots(sympy.Poly(eliminant, b))))
+    result = discriminant(family, DiscriminantOptions(regions=False), seed=seed)
+    assert np.allclose(result.real_points, expected, atol=1e-8 * unit)

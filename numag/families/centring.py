@@ -32,7 +32,7 @@ import math
 import numpy as np
 
 from ..errors import InputError, LimitError
-from ..system.centred import centre_near, centred_system
+from ..system.centred import centre_near, centred_system, subleading_centre
 from ..system.family import Family
 from ..system.polynomial import Polynomial, PolynomialSystem
 from ..numeric.seeds import random_state
@@ -148,6 +148,11 @@ def locate(family, codimension, seed=None, max_exact_minors=24):
     _, rng = random_state(seed)
     n, m = family.n_variables, family.n_parameters
     points, note = _singular_points(family, codimension, rng, max_exact_minors)
+    if len(points) == 0 and family.system.n_equations < n:
+        # members of positive dimension (a four-bar's curve of configurations): their singular incidence set cut in
+        # p is not square; points of one member near its features locate it instead (decision 0101)
+        points = _member_points(family, rng)
+        note = note if len(points) else note + "; no point of a member was found either"
     centring = centre_of_points(points, m)
     if centring is None:
         return Located(points, None, note)
@@ -203,6 +208,39 @@ def _singular_points(family, codimension, rng, max_exact_minors):
     inside = np.all((found[:, n:].real >= low - reach) & (found[:, n:].real <= high + reach), axis=1)
     points = found[inside if np.any(inside) else slice(None), :n]
     return points, "" if len(points) else "no finite singular point was found"
+
+
+def _member_points(family, rng):
+    """x-points of one member (a random real parameter value in the ranges) on random complex linear slices through
+    the point where its subleading forms vanish (the centre of circles, of symmetric features); none when that
+    point is not determined or the sliced member is not solved.
+
+    A complex line through the centre of a circle of radius r meets it within about r of the centre, so the points
+    spread as the features do and :func:`centre_of_points` judges them as it judges located singular points.
+    """
+    n = family.n_variables
+    at = [_random_in_range(family, name, rng) for name in family.parameters]
+    try:
+        member = family.member(at)
+    except (InputError, LimitError):
+        return np.zeros((0, n), dtype=complex)
+    centre = subleading_centre(member)
+    dimension = n - member.n_equations
+    if centre is None or dimension < 1 or not np.all(np.isfinite(centre)):
+        return np.zeros((0, n), dtype=complex)
+    slices = []
+    for _ in range(dimension):
+        weights = rng.standard_normal(n) + 1j * rng.standard_normal(n)
+        slices.append(Polynomial.linear(weights, -complex(weights @ centre)))
+    sliced = PolynomialSystem(list(member.variables), list(member.polynomials) + slices, name="member on slices")
+    if math.prod(max(p.degree, 1) for p in sliced.polynomials) > LOCATE_MAX_PATHS:
+        return np.zeros((0, n), dtype=complex)
+    try:
+        solved = solve_system(sliced, SolveOptions(second_look=False), seed=int(rng.integers(2 ** 63)))
+    except (InputError, LimitError):
+        return np.zeros((0, n), dtype=complex)
+    return np.array([s.point for s in solved.solutions if np.all(np.isfinite(s.point))],
+                    dtype=complex).reshape(-1, n)
 
 
 def locate_members(family, values, seed=None):
