@@ -7,6 +7,7 @@ for Engineering and Scientific Problems", Prentice-Hall 1987 (chapter on scaling
 
 from fractions import Fraction
 
+import pytest
 from hypothesis import given, settings, strategies as st
 import numpy as np
 
@@ -73,3 +74,17 @@ def test_exact_input_stays_exact_and_json_round_trips():
     scaled = scaling.scale_system(system)
     assert scaled.is_exact
     assert Scaling.from_json(scaling.to_json(system.variables), system.variables) == scaling
+
+
+@pytest.mark.parametrize("powers", [(0, 0), (3, -3), (-3, 3), (2, 5)])
+def test_tiny_terms_do_not_set_the_units(powers):
+    # p = x^4 - 5 x^2 + 4 with tiny x^3 and x terms, and its x-derivative: the solutions are x = 0, +-sqrt(5/2)
+    # and p = 4, -9/4 (solved by hand; common practice, no source). p is in one term, so its unit follows its
+    # equation's power of ten; fitted with equal weight, the two tiny terms (1e-6 of the rest) put the solutions'
+    # p at 10^3 in the computed units. In any units, balanced, the solutions are of order one (decision 0099).
+    equations = ["x^4 - 1/1250000*x^3 - 5*x^2 + 1/500000*x - p + 4", "4*x^3 - 3/1250000*x^2 - 10*x + 1/500000"]
+    system = in_units(equations, ["x", "p"], powers)
+    scaling = Scaling.balancing(system)
+    solutions = np.array([[0.0, 4.0], [2.5 ** 0.5, -2.25], [-(2.5 ** 0.5), -2.25]]) * 10.0 ** np.array(powers)
+    computed = np.abs(scaling.to_computed(solutions))
+    assert computed.max() <= 10 and computed[1:].min() >= 0.1

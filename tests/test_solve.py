@@ -419,3 +419,38 @@ def test_solve_reaches_the_ambient_executor_like_every_stage():
     assert single.extra["execution"]["executor"] == "in-process"
     assert named.extra["execution"]["executor"] == "in-process" and ambient.batches_seen == seen
     assert _answer(several) == _answer(plain)  # the same paths whoever runs them (decision 0006)
+
+
+#: p as a quartic in x, with two tiny odd terms, and the cubic x where its derivative in x vanishes.
+PERTURBED = ["x^4 - 1/1250000*x^3 - 62499999999997/12500000000000*x^2 + 62499999999999/31250000000000000000*x - p"
+             " + 2499999999999875000000000001/625000000000000000000000000",
+             "4*x^3 - 3/1250000*x^2 - 2*62499999999997/12500000000000*x + 62499999999999/31250000000000000000"]
+
+
+def perturbed_in_units(kx, kp):
+    """PERTURBED with x -> x / 10^kx, p -> p / 10^kp, and its three solutions from sympy's exact cubic roots."""
+    x, p = sympy.symbols("x p")
+    first, second = (sympy.sympify(e.replace("^", "**")) for e in PERTURBED)
+    moved = [sympy.expand(e.subs({x: x / sympy.Integer(10) ** kx, p: p / sympy.Integer(10) ** kp},
+                                 simultaneous=True)) for e in (first, second)]
+    roots = sympy.Poly(second, x).nroots(n=40)
+    truth = [(complex(r) * 10.0 ** kx, complex(sympy.solve(first.subs(x, r), p)[0]) * 10.0 ** kp) for r in roots]
+    return parse_system([str(e).replace("**", "^") for e in moved], ["x", "p"]), np.array(truth)
+
+
+@pytest.mark.parametrize("seed, kx, kp, start", [(1, 0, 0, "total-degree"), (2, -3, 3, "total-degree"),
+                                                 (3, 3, -3, "total-degree"), (1, 3, 3, "polyhedral"),
+                                                 (2, -3, -3, "polyhedral"), (3, 0, 3, "polyhedral")])
+def test_finite_regular_solutions_next_to_tiny_terms_are_found(seed, kx, kp, start):
+    # The cubic's three simple real roots (sympy's exact polynomial roots, as reference) give three regular
+    # solutions. Tiny terms of the first equation dragged its power of ten in the balancing by 10^3, p's unit
+    # with it (p is in one term): the solutions then had projective condition 1e11 and every path was
+    # reported at infinity, 0 solutions, exit 0 (decision 0099). In any units, from either start, all three.
+    system, truth = perturbed_in_units(kx, kp)
+    result = solve_system(system, SolveOptions(start=start), seed=seed)
+    assert len(result.solutions) == 3 and all(s.multiplicity == 1 for s in result.solutions)
+    found = np.array([s.point for s in result.solutions])
+    for expected in truth:
+        closest = np.min(np.max(np.abs(found - expected) / np.abs(expected)[None, :].clip(1e-300), axis=1))
+        assert closest < 1e-6
+    assert result.path_counts()["failed"] == 0
