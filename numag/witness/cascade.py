@@ -542,7 +542,8 @@ def _witness_supersets(system, options, seed, progress):
             regenerate = points[~on]
             if codim >= deepest or len(regenerate) == 0:
                 continue
-            candidates, lost, moved, status = _regenerate(slicing, before, index, codim, regenerate, options)
+            candidates, lost, moved, status, weight = _regenerate(slicing, before, index, codim, regenerate, options,
+                                                                  multiplicity=multiplicity[~on])
             counts["product_paths"] = counts.get("product_paths", 0) + len(candidates)  # what a start's groups save
             counts["at_infinity_or_failed"] += lost
             track_counts += moved
@@ -565,13 +566,18 @@ def _witness_supersets(system, options, seed, progress):
                 track_counts += _not_settled(status[off_target])
             counts["not_on_X"] += int(np.sum(~good & finite & ~off_target))
             counts["at_infinity_or_failed"] += int(np.sum(~np.all(np.isfinite(candidates), axis=1)))
-            candidates, status = candidates[good], status[good]
+            candidates, status, weight = candidates[good], status[good], weight[good]
             if len(candidates) == 0:
                 continue
             labels = cluster_labels(candidates, options.cluster_tolerance)
             members = groups(labels)
             distinct = np.array([candidates[m[0]] for m in members])
-            paths = np.array([len(m) for m in members], dtype=np.int64)
+            # A path leaving a point of multiplicity m (a component of V(f_before) counted m times, moved once on
+            # deflated rows) stands for m paths: the intersection with V(f) of a component counted m times is
+            # counted m times (a complete intersection is Cohen-Macaulay: multiplicities multiply; Fulton,
+            # "Intersection Theory", Springer 1984, Prop. 7.1, from memory). Without it the doubled conic
+            # (x - y)^2 = z - x^2 = 0 came out as two simple points, "reduced", and its moves failed.
+            paths = np.array([int(weight[m].sum()) for m in members], dtype=np.int64)
             keep, local_junk, tested, unsettled = _not_junk(slicing, used, evaluator, sizes, codim + 1, distinct,
                                                             following, options)
             if local_junk:
@@ -659,27 +665,32 @@ def _refine_on(system, used, slice_rows, points):
     return test, near
 
 
-def _regenerate(slicing, before, index, codim, points, options, deflate=True):
+def _regenerate(slicing, before, index, codim, points, options, deflate=True, multiplicity=None):
     """Endpoints on V(held, f) of the codimension-(codim + 1) slice, from codim-c points not on V(f).
 
     ``before`` are the equations so far (numbers), ``index`` the number of f (a polynomial, or an evaluated
-    minor: then the moving row goes from the product of linear forms to the evaluated f).
+    minor: then the moving row goes from the product of linear forms to the evaluated f). ``multiplicity``
+    (default 1) is the number of paths each point stands for.
 
-    Returns the endpoints, the number of linear-move paths lost (failed or at infinity) and the
-    paths tracked (:class:`~numag.tracking.service.PathCounts`).
+    Returns the endpoints, the number of linear-move paths lost (failed or at infinity), the
+    paths tracked (:class:`~numag.tracking.service.PathCounts`), their statuses and the multiplicity of the
+    point each endpoint's path started from.
     """
     n = slicing.n
+    multiplicity = np.ones(len(points), np.int64) if multiplicity is None else np.asarray(multiplicity, np.int64)
     evaluated = slicing.evaluated(index)
     deficient = np.zeros(len(points), dtype=bool)
     if deflate and before and not evaluated and not any(slicing.evaluated(k) for k in before):
         deflated, deficient = _deflated_rows(slicing, before, codim, points, options.rank_threshold)
         if deflated is not None:  # points on a component along which the held rows lose rank (decision 0066)
-            ends, lost, paths, status = _regenerate_on(slicing, deflated, index, codim, points[deficient], options)
+            ends, lost, paths, status, weight = _regenerate_on(slicing, deflated, index, codim, points[deficient],
+                                                               options, multiplicity[deficient])
             if np.all(deficient):
-                return ends, lost, paths, status
-            regular = _regenerate(slicing, before, index, codim, points[~deficient], options, deflate=False)
+                return ends, lost, paths, status, weight
+            regular = _regenerate(slicing, before, index, codim, points[~deficient], options, deflate=False,
+                                  multiplicity=multiplicity[~deficient])
             return (np.vstack([regular[0], ends]), regular[1] + lost, regular[2] + paths,
-                    np.concatenate([regular[3], status]))
+                    np.concatenate([regular[3], status]), np.concatenate([regular[4], weight]))
     held, with_f = slicing.held_rows(before, codim, moving=index if evaluated else None) if before or evaluated \
         else ([], None)
     held, block = held_parts(held)
@@ -687,15 +698,18 @@ def _regenerate(slicing, before, index, codim, points, options, deflate=True):
     # drawn after the combinations, as before groups existed: the same seed gives the total-degree run it gave
     moved_rows = slicing.moved_rows(codim, index)  # one factor per degree (per group's degree with groups)
     degree = len(moved_rows)
-    starts, paths = [], PathCounts()
+    starts, weights, paths = [], [], PathCounts()
     base = held + [linear_form(slicing.rows[codim])] + rest
     for row in moved_rows:  # move l_{c+1} to each factor hyperplane: d linear moves
         target = held + [linear_form(row)] + rest
         run = track_moves(base, target, points, slicing.rng, options.tracker, options.batch_size, held=block)
         ends = run.affine_endpoints()
         paths += run.counts
-        starts.append(ends[np.all(np.isfinite(ends), axis=1)])
+        finite = np.all(np.isfinite(ends), axis=1)
+        starts.append(ends[finite])
+        weights.append(multiplicity[finite])
     starts = np.vstack(starts) if starts else np.zeros((0, n), complex)
+    weights = np.concatenate(weights) if weights else np.zeros(0, np.int64)
     lost = len(points) * degree - len(starts)
     # every solution of the product system off V(held, f) moves: cycles at infinity are whole
     # the product of deg f linear forms is evaluated as a product: written out it has up to C(n + deg f, n) terms
@@ -713,7 +727,7 @@ def _regenerate(slicing, before, index, codim, points, options, deflate=True):
         run = track_moves(held + [product] + rest, held + [f] + rest, starts, slicing.rng, tracker,
                           options.batch_size, whole_cycles=True, held=block)
     # a point reached only by a broken cycle is still a point of V(held, f): kept (its paths counted as jumped)
-    return run.affine_endpoints(jumped_limits=True), lost, paths + run.counts, run.status
+    return run.affine_endpoints(jumped_limits=True), lost, paths + run.counts, run.status, weights
 
 
 #: Deflation minors of the regeneration are written out only while they can have at most this many monomials
@@ -781,25 +795,28 @@ def _deflated_rows(slicing, before, codim, points, threshold, max_rounds=3):
     return None, deficient
 
 
-def _regenerate_on(slicing, held, index, codim, points, options):
+def _regenerate_on(slicing, held, index, codim, points, options, multiplicity):
     """:func:`_regenerate` of polynomial f on given (deflated) held rows; the points are a subset of the moving ones."""
     degree = slicing.system.degrees[index]
     rest = [linear_form(r) for r in slicing.rows[codim + 1:]]
     base = held + [linear_form(slicing.rows[codim])] + rest
-    starts, paths = [], PathCounts()
+    starts, weights, paths = [], [], PathCounts()
     for row in slicing.factor_rows(codim, degree):
         run = track_moves(base, held + [linear_form(row)] + rest, points, slicing.rng, options.tracker,
                           options.batch_size)
         paths += run.counts
         ends = run.affine_endpoints()
-        starts.append(ends[np.all(np.isfinite(ends), axis=1)])
+        finite = np.all(np.isfinite(ends), axis=1)
+        starts.append(ends[finite])
+        weights.append(multiplicity[finite])
     starts = np.vstack(starts) if starts else np.zeros((0, slicing.n), complex)
+    weights = np.concatenate(weights) if weights else np.zeros(0, np.int64)
     lost = len(points) * degree - len(starts)
     product = LinearFormProduct(slicing.factor_rows(codim, degree))
     # a subset of the start solutions (those on the deflated component): its cycles at infinity may be partial
     run = track_moves(held + [product] + rest, held + [slicing.homogeneous[index]] + rest, starts, slicing.rng,
                       options.tracker, options.batch_size)
-    return run.affine_endpoints(), lost, paths + run.counts, run.status
+    return run.affine_endpoints(), lost, paths + run.counts, run.status, weights
 
 
 class _Centred(TextEnum):
