@@ -76,6 +76,7 @@ def test_exact_input_stays_exact_and_json_round_trips():
     assert Scaling.from_json(scaling.to_json(system.variables), system.variables) == scaling
 
 
+@pytest.mark.xfail(reason="tiny terms still set the units: decision 0099's reweighted balancing was taken back (it made two far and small-unit cases undecided or wrong); decision 0031", strict=False)
 @pytest.mark.parametrize("powers", [(0, 0), (3, -3), (-3, 3), (2, 5)])
 def test_tiny_terms_do_not_set_the_units(powers):
     # p = x^4 - 5 x^2 + 4 with tiny x^3 and x terms, and its x-derivative: the solutions are x = 0, +-sqrt(5/2)

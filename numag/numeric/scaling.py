@@ -12,11 +12,9 @@ Prentice-Hall 1987, chapter on scaling):
 
 with integers c_j and r_i chosen by linear least squares so that
 log10|a_ik| + r_i + sum_j e_ikj c_j is as close to 0 as possible over all terms a_ik x^e_ik.
-The fit is repeated with each term weighted by its balanced size in its equation (tiny terms, a
-perturbation rather than a unit, must not set the units; decision 0099). The minimum-norm solution
-is rounded to integers: powers of ten keep exact (rational) input exact, and a change of units by
-a power of ten changes the solution by exactly that power, so the scaled problem, and with it
-every decision, is the same in millimetres and in metres.
+The minimum-norm solution is rounded to integers: powers of ten keep exact (rational) input
+exact, and a change of units by a power of ten changes the solution by exactly that power, so
+the scaled problem, and with it every decision, is the same in millimetres and in metres.
 
 Points are reported in the user's coordinates; :class:`Scaling` maps them both ways, together
 with slicing hyperplanes and homogeneous points at infinity.
@@ -46,46 +44,8 @@ __all__ = ["Scaling"]
 
 #: Largest power of ten a scaling may use (10^e and its square root stay doubles).
 _MAX_EXPONENT = 300
-#: Fits of the balancing after the first, each weighting the terms by their balanced size in their equation.
-_REWEIGHTINGS = 3
-#: A term 10^-k of its equation's largest (balanced) counts with weight 10^(-k * _WEIGHT_POWER), at least
-#: _LEAST_WEIGHT: a term that alone fixes an unknown keeps fixing it (the solvers' rank tests are relative).
-_WEIGHT_POWER = 0.5
-_LEAST_WEIGHT = 1e-3
-#: The reweighted fits stop when no power of ten moves by more than this (they are rounded to integers).
-_SETTLED = 0.01
 #: Up to this many matrix entries (terms times unknowns) the balancing is solved dense (8 MB).
 _DENSE_BALANCING_ENTRIES = 1_000_000
-
-
-def _equation_of_terms(rows, cols, m, count):
-    """The equation of each term (its entry in the first m columns)."""
-    equation_of = np.zeros(count, dtype=np.int64)
-    own = cols < m
-    equation_of[rows[own]] = cols[own]
-    return equation_of
-
-
-def _least_squares(rows, cols, data, rhs, weights, count, width, start=None):
-    """The minimum-norm weighted least-squares solution of the balancing's terms (rows scaled by ``weights``).
-
-    Both solvers give the minimum-norm solution: unknowns the terms do not fix (a variable in no
-    equation; the common factor of a projective system) stay at 0. lsqr may start from ``start``, an
-    earlier solution (in the row space, which weights do not change: the result is still of minimum norm).
-    """
-    values = data * weights[rows]
-    if count * width <= _DENSE_BALANCING_ENTRIES:
-        # numpy's SVD-based solver: no scipy import (a third of a small solve's start; decision 0051)
-        matrix = np.zeros((count, width))
-        np.add.at(matrix, (rows, cols), values)
-        return np.linalg.lstsq(matrix, rhs * weights, rcond=None)[0]
-    from scipy.sparse import csr_matrix  # imported where used: `import numag` stays fast
-    from scipy.sparse.linalg import lsqr
-
-    matrix = csr_matrix((values, (rows, cols)), shape=(count, width))
-    # lsqr from zero converges to the minimum-norm solution
-    return lsqr(matrix, rhs * weights, atol=1e-12, btol=1e-12, iter_lim=50 * width + 100, x0=start)[0]
-
 
 @dataclass(frozen=True)
 class Scaling:
@@ -145,26 +105,20 @@ class Scaling:
                 count += 1
         if count == 0:
             return cls.identity(system)
-        rows, cols, data, rhs = np.array(rows), np.array(cols), np.array(data), np.array(rhs)
-        equation_of = _equation_of_terms(rows, cols, m, count)
-        solution = _least_squares(rows, cols, data, rhs, np.ones(count), count, m + n)
-        for _ in range(_REWEIGHTINGS):
-            # A solution's size is set by the largest terms of each equation, which must cancel: a term
-            # many decades below them (a small perturbation, not a unit) is no evidence of the units.
-            # Fitted with equal weight, such terms drag the equation's power of ten towards them, and a
-            # variable fixed by one term of that equation then lands 10^3 from its solutions (where the
-            # projective condition was 1e11 against 10 in the user's units). So the fit is repeated with
-            # each term weighted by sqrt(its balanced size / the largest of its equation): ratios in the
-            # balanced units, the same in every unit, so the balancing stays a change of units.
-            size = np.zeros(count)
-            np.add.at(size, rows, data * solution[cols])
-            size -= rhs  # log10 of each term's balanced magnitude
-            largest = np.full(m, -np.inf)
-            np.maximum.at(largest, equation_of, size)
-            weights = np.maximum(10.0 ** (_WEIGHT_POWER * (size - largest[equation_of])), _LEAST_WEIGHT)
-            previous, solution = solution, _least_squares(rows, cols, data, rhs, weights, count, m + n, solution)
-            if np.max(np.abs(solution - previous), initial=0.0) <= _SETTLED:
-                break
+        # Both solvers give the minimum-norm least-squares solution: unknowns the terms do not fix
+        # (a variable in no equation; the common factor of a projective system) stay at 0.
+        if count * (m + n) <= _DENSE_BALANCING_ENTRIES:
+            # numpy's SVD-based solver: no scipy import (a third of a small solve's start; decision 0051)
+            matrix = np.zeros((count, m + n))
+            np.add.at(matrix, (np.array(rows), np.array(cols)), np.array(data))
+            solution = np.linalg.lstsq(matrix, np.array(rhs), rcond=None)[0]
+        else:
+            from scipy.sparse import csr_matrix  # imported where used: `import numag` stays fast
+            from scipy.sparse.linalg import lsqr
+
+            matrix = csr_matrix((data, (rows, cols)), shape=(count, m + n))
+            # lsqr from zero converges to the minimum-norm solution
+            solution = lsqr(matrix, np.array(rhs), atol=1e-12, btol=1e-12, iter_lim=50 * (m + n) + 100)[0]
         exponents = np.rint(solution).astype(np.int64)
         return cls(tuple(int(c) for c in exponents[m:]), tuple(int(r) for r in exponents[:m]))
 
