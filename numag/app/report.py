@@ -656,6 +656,7 @@ def decomposition_to_dict(result, options):
                     "trace_tolerance": options.trace_tolerance, "start": options.witness.start.value},
         "options_in_full": options_to_dict(options),
         "start": result.extra.get("start"),
+        "unexplained": _encode_points(result.extra.get("unexplained")),
         "dimensions_searched": list(result.dimensions_searched),
         "paths": decomposition_path_counts(result.paths),
         "path_counts": {str(k): int(v) for k, v in result.paths.items()},  # every count, as the run kept it
@@ -665,6 +666,16 @@ def decomposition_to_dict(result, options):
         "seconds": result.seconds,
         "caution": CAUTION,
     }
+
+
+def _encode_points(points):
+    """Points kept beside a run (e.g. where Newton stalled, decision 0090) as JSON, or None when there are none kept."""
+    return None if points is None else [encode_point(p) for p in np.asarray(points)]
+
+
+def _decode_points(encoded, n):
+    """The inverse of :func:`_encode_points`: an array of shape (K, n)."""
+    return np.array([decode_point(p) for p in encoded], dtype=complex).reshape(-1, n)
 
 
 def _component_from_dict(d, n):
@@ -710,6 +721,8 @@ def decomposition_from_dict(data):
                            float(data["seconds"]), scaling=_scaling_from_dict(data, system))
     if data.get("start"):
         result.extra["start"] = data["start"]
+    if data.get("unexplained") is not None:  # absent before it was saved
+        result.extra["unexplained"] = _decode_points(data["unexplained"], system.n_variables)
     return result, options
 
 
@@ -752,6 +765,7 @@ def singular_to_dict(result, options):
          "path_counts": {str(k): int(v) for k, v in variety.paths.items()},
          "monodromy_loops": {str(k): int(v) for k, v in variety.loops.items()}, "seed": variety.seed,
          "seconds": variety.seconds, "start": variety.extra.get("start"),
+         "unexplained": _encode_points(variety.extra.get("unexplained")),
          "options_in_full": None if variety.options is None else options_to_dict(variety.options)},
         "discarded": dict(result.discarded),
         "near_singular": [p.to_dict(encode_point) for p in result.near_singular],
@@ -797,6 +811,8 @@ def singular_from_dict(data):
                                 scaling=_scaling_from_dict(data, system))
         if run.get("start"):
             variety.extra["start"] = run["start"]
+        if run.get("unexplained") is not None:  # absent before it was saved
+            variety.extra["unexplained"] = _decode_points(run["unexplained"], system.n_variables)
         if run.get("options_in_full") is not None:
             variety.options = options_from_dict(DecomposeOptions, run["options_in_full"])
     result = SingularLocus(system=system, components=components, variety=variety, paths=counts,
@@ -1203,6 +1219,7 @@ def compare_to_dict(comparison):
                       "real_singular_points": reference.real_singular_points,
                       "scheme_length": reference.scheme_length, "singular_degree": reference.singular_degree,
                       "chart": reference.chart, "exact_points": reference.exact_points,
+                      "non_reduced_degrees": reference.non_reduced_degrees,
                       "points": None if reference.points is None else [encode_point(p) for p in reference.points]},
         "scope": comparison.scope,
         "notes": list(comparison.notes),
@@ -1232,7 +1249,8 @@ def compare_from_dict(data):
         scheme_length=r["scheme_length"], singular_degree=r["singular_degree"],
         component_degrees=r["component_degrees"],
         points=None if points is None else [list(decode_point(p)) for p in points],
-        exact_points=r["exact_points"], chart=r["chart"], message=r["message"])
+        exact_points=r["exact_points"], chart=r["chart"], message=r["message"],
+        non_reduced_degrees=r.get("non_reduced_degrees"))  # absent before decision 0096
     rows = [ComparisonRow(row["quantity"], row["numag"], row["exact"], row["agree"]) for row in data["rows"]]
     return Comparison(locus.system, locus, reference, rows, _decode_float(data["max_distance"]),
                       _decode_float(data["digits_of_agreement"]), float(data["numag_seconds"]),
