@@ -560,6 +560,15 @@ def _left_doubt(locus):
                 or (locus.variety is not None and locus.variety.unconfirmed))
 
 
+def _doubt_beyond_regions(locus):
+    """Whether a run left doubt that no regional look (:func:`_judged_centred`) withdraws: failed paths, an
+    unconfirmed decomposition, or counts other than the doubtful candidates' own."""
+    withdrawn = ("smooth_with_vanishing_jacobian", "merged_on_refinement")
+    return bool(sum(locus.paths.get(label, 0) for label in FAILURE_LABELS)
+                or any(locus.discarded.get(key, 0) for key in _DOUBT_COUNTS if key not in withdrawn)
+                or (locus.variety is not None and locus.variety.unconfirmed))
+
+
 def _subleading_centring(system):
     """An exact centre where every equation's subleading form vanishes (:func:`subleading_centre`), or None.
 
@@ -599,7 +608,10 @@ def _computed_centred(system, options, seed, progress, centring, first_paths, fi
     except LimitError:  # the first run (again, in full) is the answer
         return None
     locus, dropped = _in_user_units(centred, options, seed, progress)
-    _judged_centred(centred, options, seed, progress, locus, dropped)
+    if first is None or not _doubt_beyond_regions(locus):
+        # (the regional looks withdraw only their candidates' counts: a centred run with other doubt is not taken
+        # after them either, and they would repeat the regional looks the first run gets next)
+        _judged_centred(centred, options, seed, progress, locus, dropped)
     if first is not None and _left_doubt(locus):
         first.notes.append(f"Coordinates centred at {short_point(centring.point)} (where the equations' subleading "
                            "forms vanish) left doubt too: the first run's answer is kept (decision 0083).")
@@ -1193,14 +1205,17 @@ def _judge_all(system, points, options, seed, variety):
         if verdict is not None and (verdict.verdict is Verdict.OFF or (
                 verdict.verdict is Verdict.SMOOTH and drop is not None
                 and verdict.nearest_rank_drop_distance <= _CANDIDATE_TOLERANCE * (1 + np.linalg.norm(point)))):
-            verdict = _judge(system, point, options, seed + k, variety)
+            verdict = _judge(system, point, options, seed + k, variety, first=verdict)
         judged.append(verdict)
     return judged
 
 
-def _judge(system, point, options, seed, variety):
+def _judge(system, point, options, seed, variety, first=None):
     """The check's verdict at a candidate; None if the candidate cannot be settled on X, "off" when refinement
     ends at a stationary point of F's residual (no point of X near, decision 0064).
+
+    ``first``: the check's verdict at ``options``' own point tolerance when the caller has it already (a batched
+    check): not computed again.
 
     A looser point tolerance is tried when refinement drifts. A candidate is an approximation of a
     singular point whose accuracy the endgame limits (1e-4 at a tacnode, where three paths meet):
@@ -1209,9 +1224,11 @@ def _judge(system, point, options, seed, variety):
     if not np.all(np.isfinite(point)):  # no verdict can speak about it (a malformed point, never settled)
         return None
     for tolerance in (options.point_tolerance, _CANDIDATE_TOLERANCE):
-        report = check_points(system, [point], replace(options, point_tolerance=tolerance), seed=seed,
-                                decomposition=variety)
-        verdict = report.points[0]
+        if first is not None and tolerance == options.point_tolerance:
+            verdict = first
+        else:
+            verdict = check_points(system, [point], replace(options, point_tolerance=tolerance), seed=seed,
+                                   decomposition=variety).points[0]
         if verdict.verdict is Verdict.OFF and verdict.newton is ZeroKind.NOT_A_ZERO:
             return verdict  # no point of X near at all, at any tolerance (decision 0064)
         if verdict.verdict is Verdict.OFF:  # not settled on X at this tolerance: try the looser one

@@ -662,6 +662,7 @@ class _Checker:
                 values, scales = self.scaled_values_mp(on_x, ctx)
                 history.append(values[codim - 1] if codim - 1 < len(values) else 0.0)
                 found = self.find_rank_drop(on_x, codim - 1, ctx, digits)
+                found_precise = self.last_drop_precise if found is not None else None
                 if found is None or self.distance(given, found) > tolerance:
                     # Where the rank drops further (a cone's vertex, J = 0), "rank <= codim - 1" has a
                     # family of kernels at the point and Newton stalls; "rank <= r" for the lower r the
@@ -672,7 +673,7 @@ class _Checker:
                             found = deeper
                             break
                     else:  # none: judge the first one found (if any) at its own precise point
-                        found = self.find_rank_drop(on_x, codim - 1, ctx, digits) if found is not None else None
+                        self.last_drop_precise = found_precise
                 if found is not None:
                     distance = self.distance(given, found)
                     at_found, scales_found = self.scaled_values_mp(self.last_drop_precise, ctx)
