@@ -76,16 +76,28 @@ def test_exact_input_stays_exact_and_json_round_trips():
     assert Scaling.from_json(scaling.to_json(system.variables), system.variables) == scaling
 
 
-@pytest.mark.xfail(reason="tiny terms still set the units: decision 0099's reweighted balancing was taken back (it made two far and small-unit cases undecided or wrong); decision 0031", strict=False)
+
 @pytest.mark.parametrize("powers", [(0, 0), (3, -3), (-3, 3), (2, 5)])
 def test_tiny_terms_do_not_set_the_units(powers):
     # p = x^4 - 5 x^2 + 4 with tiny x^3 and x terms, and its x-derivative: the solutions are x = 0, +-sqrt(5/2)
     # and p = 4, -9/4 (solved by hand; common practice, no source). p is in one term, so its unit follows its
     # equation's power of ten; fitted with equal weight, the two tiny terms (1e-6 of the rest) put the solutions'
-    # p at 10^3 in the computed units. In any units, balanced, the solutions are of order one (decision 0099).
+    # p at 10^3 in the computed units. In any units, balanced without the tiny terms, the solutions are of order one (decisions 0099, 0102).
     equations = ["x^4 - 1/1250000*x^3 - 5*x^2 + 1/500000*x - p + 4", "4*x^3 - 3/1250000*x^2 - 10*x + 1/500000"]
     system = in_units(equations, ["x", "p"], powers)
-    scaling = Scaling.balancing(system)
+    scaling = Scaling.balancing(system, ignore_tiny=True)  # as solve's first run (decision 0102)
     solutions = np.array([[0.0, 4.0], [2.5 ** 0.5, -2.25], [-(2.5 ** 0.5), -2.25]]) * 10.0 ** np.array(powers)
     computed = np.abs(scaling.to_computed(solutions))
     assert computed.max() <= 10 and computed[1:].min() >= 0.1
+
+
+@pytest.mark.parametrize("powers", [(1, -2), (3, 3), (-4, 2)])
+def test_units_fitted_without_tiny_terms_are_still_a_change_of_units(powers):
+    # leaving tiny terms out (decision 0102) keeps the balancing equivariant: in units x -> 10^k x the exponents
+    # move by exactly k, and the balanced problem is the same (a property of the method)
+    equations = ["x^4 - 1/1250000*x^3 - 5*x^2 + 1/500000*x - p + 4", "4*x^3 - 3/1250000*x^2 - 10*x + 1/500000"]
+    base = in_units(equations, ["x", "p"], (0, 0))
+    moved = in_units(equations, ["x", "p"], powers)
+    first, second = Scaling.balancing(base, ignore_tiny=True), Scaling.balancing(moved, ignore_tiny=True)
+    assert first.scale_system(base).to_texts() == second.scale_system(moved).to_texts()
+    assert np.all(np.array(second.variable_exponents) - np.array(first.variable_exponents) == np.array(powers))

@@ -44,6 +44,8 @@ __all__ = ["Scaling"]
 
 #: Largest power of ten a scaling may use (10^e and its square root stay doubles).
 _MAX_EXPONENT = 300
+#: A term below this fraction of its equation's largest (in the balanced units) does not set the units (decision 0102).
+TINY_TERM = 1e-5
 #: Up to this many matrix entries (terms times unknowns) the balancing is solved dense (8 MB).
 _DENSE_BALANCING_ENTRIES = 1_000_000
 
@@ -69,7 +71,7 @@ class Scaling:
         return cls((0,) * system.n_variables, (0,) * system.n_equations)
 
     @classmethod
-    def balancing(cls, system, floor=None):
+    def balancing(cls, system, floor=None, ignore_tiny=False):
         """The least-squares balancing of the system's coefficient magnitudes (see the module notes).
 
         Parameters
@@ -80,19 +82,62 @@ class Scaling:
             centred at a point known to 12 digits (decision 0084) has constant and linear terms of that rounding's
             size where F and J vanish at the point; fitted like the others, they set the units (1e-8 of the
             features' size seen at a crossing of a plane and a line).
+        ignore_tiny : bool, default False
+            Fit a second time without the terms below :data:`TINY_TERM` of their equation's largest in the first
+            fit's units (decision 0102; `solve`'s first run). Not with a ``floor``.
 
         Returns
         -------
         Scaling
         """
+        fitted = cls._fitted(system, floor)
+        if not ignore_tiny or floor is not None:
+            return fitted
+        # Tiny terms do not set the units (decision 0102): terms below TINY_TERM of their equation's largest, in
+        # the fitted units (ratios there are the same in any units), are left out of a second fit, unless an
+        # unknown is in no other term. A perturbation of 1e-6 beside terms of 1 put the solutions of
+        # p = x^4 - 5 x^2 + 4 + (tiny terms) at p = 4000 in the computed units, where the endgame merged them with
+        # the point at infinity (every path "at infinity", exit 0).
+        tiny = fitted._tiny_terms(system)
+        if not any(np.any(t) for t in tiny):
+            return fitted
+        return cls._fitted(system, None, tiny)
+
+    def _tiny_terms(self, system):
+        """Per polynomial, a mask of the terms below :data:`TINY_TERM` of the largest in these units (an unknown
+        whose every term is tiny keeps them: nothing else would fix its unit)."""
+        variable = np.asarray(self.variable_exponents, dtype=float)
+        masks, exponent_arrays = [], []
+        held = np.zeros(system.n_variables, dtype=bool)  # unknowns in some term that stays
+        for i, p in enumerate(system.polynomials):
+            exponents = np.asarray(p.exponents, dtype=float).reshape(-1, system.n_variables)
+            with np.errstate(divide="ignore"):
+                sizes = np.log10(np.abs(np.asarray(p.numeric_coefficients(), dtype=complex))) \
+                    + self.equation_exponents[i] + exponents @ variable
+            finite = np.isfinite(sizes)
+            top = float(np.max(sizes[finite])) if np.any(finite) else 0.0
+            mask = finite & (sizes < top + np.log10(TINY_TERM))
+            held |= np.any(exponents[finite & ~mask] > 0, axis=0)
+            masks.append(mask)
+            exponent_arrays.append(exponents)
+        if not np.all(held):
+            for mask, exponents in zip(masks, exponent_arrays):
+                mask &= ~np.any(exponents[:, ~held] > 0, axis=1)
+        return masks
+
+    @classmethod
+    def _fitted(cls, system, floor, left_out=None):
+        """The least-squares fit itself, without the terms ``floor`` or ``left_out`` (masks per polynomial) leave out."""
         n, m = system.n_variables, system.n_equations
         rows, cols, data, rhs = [], [], [], []
         count = 0
         for i, p in enumerate(system.polynomials):
             magnitudes = np.abs(p.numeric_coefficients())
             least = floor * float(np.max(magnitudes, initial=0.0)) if floor else 0.0
-            for exponents, magnitude in zip(p.exponents, magnitudes):
+            for k, (exponents, magnitude) in enumerate(zip(p.exponents, magnitudes)):
                 if not magnitude > least or not np.isfinite(magnitude):
+                    continue
+                if left_out is not None and left_out[i][k]:
                     continue
                 rows.append(count)
                 cols.append(i)

@@ -363,18 +363,22 @@ def solve_system(system, options=None, seed=None, progress=None, execution=None)
     ``extra["centred"]`` describes each such run; a region the two runs disagree on is ``undecided``.
     """
     options = (options or SolveOptions()).validated()
-    result = _solve(system, options, seed, progress, execution)
+    result = _solve(system, options, seed, progress, execution, ignore_tiny=True)
     if options.second_look and not system.projective:
         _multiple_groups_centred(result, options, progress, execution or Execution())
     return result
 
 
-def _solve(system, options, seed, progress, execution):
-    """:func:`solve_system` without the centred second look."""
+def _solve(system, options, seed, progress, execution, ignore_tiny=False):
+    """:func:`solve_system` without the centred second look.
+
+    ``ignore_tiny``: units fitted without tiny terms (decision 0102): the first run's. A centred run's small terms
+    are its centre's rounding, balanced as decisions 0081 and 0084 say.
+    """
     require_numeric(system, allow_zero=False)
     seed, rng = random_state(seed)
     started = time.perf_counter()
-    scaling = Scaling.balancing(system)
+    scaling = Scaling.balancing(system, ignore_tiny=ignore_tiny)
     computed = scaling.scale_system(system)
     target, squared = _square_target(computed, options, rng)
     choice = choose_start(target, StartKind.parse(options.start), options.groups, rng)

@@ -241,6 +241,10 @@ def _root_accuracy(digits, multiplicity):
     return max(_ROUNDING, 100 * (10.0 ** -digits) ** (1.0 / max(1, int(multiplicity))))
 
 
+#: The coarsest relative accuracy a printed point is rounded to.
+_COARSEST = 0.1
+
+
 class _PointFormat:
     """Points as text with the noise below their accuracy printed as 0, and one footnote saying so.
 
@@ -253,6 +257,8 @@ class _PointFormat:
     >>> text = _PointFormat()
     >>> text(["x", "y"], [1 + 3e-12j, 2e-9], accuracy=1e-8)
     'x=1, y=0'
+    >>> text(["w", "x", "p"], [1e-13, 1e-13, 1.0], accuracy=1.7)  # a point at infinity of multiplicity 9
+    'w=0, x=0, p=1'
     >>> text.footnote()[:40]
     'note: real and imaginary parts below the'
     """
@@ -263,7 +269,9 @@ class _PointFormat:
     def __call__(self, names, point, accuracy=_ROUNDING):
         values = [complex(z) for z in point]
         size = math.sqrt(1.0 + sum(abs(z) ** 2 for z in values))
-        floor = max(accuracy, _ROUNDING) * size
+        # at most 0.1: a root of multiplicity 9 is known to about 100 eps^(1/9) > 1, and its largest coordinate (1
+        # for a point at infinity) was printed as 0
+        floor = min(max(accuracy, _ROUNDING), _COARSEST) * size
         if any(0 < abs(part) <= floor for z in values for part in (z.real, z.imag)) and accuracy > _ROUNDING:
             self.used.append(accuracy)
         return ", ".join(f"{n}={_format_complex(z, floor)}" for n, z in zip(names, values))
