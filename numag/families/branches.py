@@ -166,13 +166,16 @@ def _branches(family, samples, rng):
     for (index, side), end in zip(which, ends):
         if np.all(np.isfinite(end)):
             meeting.setdefault((arcs[index][0], side), []).append((index, end.real))
-    for here in meeting.values():
-        if len(here) < 2:
-            continue
+    for (r, _), here in meeting.items():
         found = np.array([end for _, end in here])
         # arc ends meeting at a fold converge only like the square root of the precision
         for members in groups(cluster_labels(found.astype(complex), 1e-5)):
             joined.extend((here[other][0], here[members[0]][0]) for other in members[1:])
+            if len(members) == 1:
+                # A real curve has no end points: an arc end that meets no other one at its critical value
+                # (the arc on the other side, or its partner at a fold) means an arc or a critical point was
+                # missed, and the count may be wrong (3 branches for 1 was seen): the region's count is not sure
+                failed[r] += 1
     branch_of = connected_components(len(arcs), joined)
     counts = []
     for r in range(len(samples)):

@@ -299,7 +299,7 @@ def discriminant(family, options=None, seed=None, progress=None, *, _balanced=Fa
                                   "exactly): the members' singular points lie far from the origin compared with "
                                   "their distances.")
             return computed
-    scaling = Scaling.balancing(family.system)
+    scaling = Scaling.balancing(family.system, fixed=_range_units(family))
     # once: balancing the balanced family need not give the identity (a coefficient of 1e-3 beside ones
     # moves a power of ten again), and asking again would never end
     if not _balanced and not scaling.is_identity:
@@ -358,6 +358,28 @@ def discriminant(family, options=None, seed=None, progress=None, *, _balanced=Fa
     paths["failed"] = sum(paths.get(label, 0) for label in FAILURE_LABELS)
     return Discriminant(family.variables, family.parameters, family.system.to_texts(), codimension, components,
                         real_points, regions, paths, notes, seed, time.perf_counter() - started, curve, plane_regions)
+
+
+def _range_units(family):
+    """Each parameter with a range: its power of ten from the range (the larger end, rounded in log10; decision
+    0102), so that the terms do not set it (an off-centre cubic family put a in units of 1e-3 and b of 1e-5, where
+    its cuts on a < 0 were not found).
+
+    Examples
+    --------
+    >>> from numag.system.files import family_from_mapping
+    >>> family = family_from_mapping({"variables": ["x"], "parameters": ["a", "b"], "equations": ["x^2 - a*x - b"],
+    ...                               "ranges": {"a": [-3, 3], "b": [0, 20000]}})
+    >>> _range_units(family)
+    {1: 0, 2: 4}
+    """
+    n = len(family.system.variables) - len(family.parameters)
+    units = {}
+    for name, r in family.ranges.items():
+        largest = max(abs(float(r.low)), abs(float(r.high)))
+        if largest > 0 and math.isfinite(largest):
+            units[n + family.parameters.index(name)] = int(round(math.log10(largest)))
+    return units
 
 
 def _in_user_units(result, factors, family):

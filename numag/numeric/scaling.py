@@ -71,7 +71,7 @@ class Scaling:
         return cls((0,) * system.n_variables, (0,) * system.n_equations)
 
     @classmethod
-    def balancing(cls, system, floor=None, ignore_tiny=False):
+    def balancing(cls, system, floor=None, ignore_tiny=False, fixed=None):
         """The least-squares balancing of the system's coefficient magnitudes (see the module notes).
 
         Parameters
@@ -85,12 +85,15 @@ class Scaling:
         ignore_tiny : bool, default False
             Fit a second time without the terms below :data:`TINY_TERM` of their equation's largest in the first
             fit's units (decision 0102; `solve`'s first run). Not with a ``floor``.
+        fixed : dict, optional
+            Variable index -> power of ten given beforehand (a parameter's unit from its range, decision 0102);
+            the other powers are fitted around them.
 
         Returns
         -------
         Scaling
         """
-        fitted = cls._fitted(system, floor)
+        fitted = cls._fitted(system, floor, fixed=fixed)
         if not ignore_tiny or floor is not None:
             return fitted
         # Tiny terms do not set the units (decision 0102): terms below TINY_TERM of their equation's largest, in
@@ -101,7 +104,7 @@ class Scaling:
         tiny = fitted._tiny_terms(system)
         if not any(np.any(t) for t in tiny):
             return fitted
-        return cls._fitted(system, None, tiny)
+        return cls._fitted(system, None, tiny, fixed=fixed)
 
     def _tiny_terms(self, system):
         """Per polynomial, a mask of the terms below :data:`TINY_TERM` of the largest in these units (an unknown
@@ -126,9 +129,11 @@ class Scaling:
         return masks
 
     @classmethod
-    def _fitted(cls, system, floor, left_out=None):
-        """The least-squares fit itself, without the terms ``floor`` or ``left_out`` (masks per polynomial) leave out."""
+    def _fitted(cls, system, floor, left_out=None, fixed=None):
+        """The least-squares fit itself, without the terms ``floor`` or ``left_out`` (masks per polynomial) leave out,
+        with the powers of ``fixed`` (variable index -> power) given."""
         n, m = system.n_variables, system.n_equations
+        fixed = {int(j): int(c) for j, c in (fixed or {}).items()}
         rows, cols, data, rhs = [], [], [], []
         count = 0
         for i, p in enumerate(system.polynomials):
@@ -142,11 +147,15 @@ class Scaling:
                 rows.append(count)
                 cols.append(i)
                 data.append(1.0)
+                given = 0.0
                 for j in np.nonzero(exponents)[0]:
+                    if int(j) in fixed:  # its power is known: its share moves to the right-hand side
+                        given += float(exponents[j]) * fixed[int(j)]
+                        continue
                     rows.append(count)
                     cols.append(m + int(j))
                     data.append(float(exponents[j]))
-                rhs.append(-np.log10(magnitude))
+                rhs.append(-np.log10(magnitude) - given)
                 count += 1
         if count == 0:
             return cls.identity(system)
@@ -165,6 +174,8 @@ class Scaling:
             # lsqr from zero converges to the minimum-norm solution
             solution = lsqr(matrix, np.array(rhs), atol=1e-12, btol=1e-12, iter_lim=50 * (m + n) + 100)[0]
         exponents = np.rint(solution).astype(np.int64)
+        for j, power in fixed.items():  # their columns were empty: the minimum-norm solution left them at 0
+            exponents[m + j] = power
         return cls(tuple(int(c) for c in exponents[m:]), tuple(int(r) for r in exponents[:m]))
 
     # -- queries --------------------------------------------------------------------------------
