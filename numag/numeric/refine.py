@@ -31,7 +31,7 @@ from .evaluate import BatchEvaluator, PrecisionEvaluator, TermSizes
 from .minors import AugmentedEvaluator
 from .linalg import batched_least_squares, mp_least_squares, mp_right_singular_vectors, scaled_singular_values
 
-__all__ = ["ProjectionResult", "project_to_variety", "ZeroKind", "ZeroTest", "newton_zero_test", "explained_share", "mp_gauss_newton", "RankDropSystem", "IsolationTest",
+__all__ = ["ProjectionResult", "project_to_variety", "ZeroKind", "ZeroTest", "newton_zero_test", "explained_share", "mp_gauss_newton", "mp_scaled_equations", "RankDropSystem", "IsolationTest",
            "scaled_residual_norm", "largest_scaled_residual", "RankDropResult", "rank_drop_points"]
 
 #: Step fractions a precision Gauss-Newton step tries before it stops for lack of progress.
@@ -304,6 +304,42 @@ def newton_zero_test(system, evaluator, points, sizes=None, max_iterations=60):
     kinds = [ZeroKind.ZERO if z else ZeroKind.NOT_A_ZERO if u else ZeroKind.UNDECIDED
              for z, u in zip(zero, unexplained)]
     return ZeroTest(result.points, kinds, before, after, result.distances)
+
+
+def mp_scaled_equations(evaluator, sizes, ctx):
+    """F and J at the precision of ``ctx``, each equation in units of its terms at the point: the function
+    :func:`mp_gauss_newton` takes.
+
+    Parameters
+    ----------
+    evaluator : PrecisionEvaluator
+        Of the system's polynomials.
+    sizes : TermSizes
+        Of the same polynomials (the units of each equation at a point).
+    ctx : mpmath context
+
+    Examples
+    --------
+    >>> import mpmath
+    >>> from numag.system.parse import parse_system
+    >>> system = parse_system(["x^2 - 4", "x*y - 2"], ["x", "y"])
+    >>> function = mp_scaled_equations(PrecisionEvaluator(system.polynomials), TermSizes(system.polynomials), mpmath.mp)
+    >>> z, reached, _, _ = mp_gauss_newton(function, mpmath.matrix([2.1, 0.9]), mpmath.mp, tolerance=1e-12)
+    >>> reached, round(float(z[0].real), 12), round(float(z[1].real), 12)
+    (True, 2.0, 1.0)
+    """
+    def function(z):
+        n = z.rows
+        x = [z[j] for j in range(n)]
+        values, jacobian = evaluator.evaluate(x, ctx)
+        scales = sizes.values(np.array([complex(v) for v in x])[None])[0]
+        for i in range(len(scales)):
+            values[i] /= scales[i]
+            for j in range(n):
+                jacobian[i, j] /= scales[i]
+        return values, jacobian
+
+    return function
 
 
 def mp_gauss_newton(function, start, ctx, tolerance, max_iterations=80, anchored=False):

@@ -59,8 +59,8 @@ from ..numeric.cluster import line_distance, normalize_projective, projective_pi
 from ..numeric.evaluate import BatchEvaluator, PrecisionEvaluator, TermSizes
 from ..numeric.linalg import (DOUBLE_DIGITS, RankEvidence, mp_singular_values, numerical_rank,
                               scaled_singular_values, singular_value_gap, zero_tolerance)
-from ..numeric.refine import (RankDropSystem, ZeroKind, mp_gauss_newton, newton_zero_test, project_to_variety,
-                              rank_drop_points)
+from ..numeric.refine import (RankDropSystem, ZeroKind, mp_gauss_newton, mp_scaled_equations, newton_zero_test,
+                              project_to_variety, rank_drop_points)
 from ..numeric.scaling import Scaling
 from ..numeric.seeds import random_state
 from ..witness.decompose import CENTRING_TERMS, components_through_points
@@ -456,16 +456,7 @@ class _Checker:
     # -- refinement at precision -----------------------------------------------------------------
     def scaled_equations(self, ctx):
         """F and J at the precision of ``ctx``, rows in units of their terms (the function Gauss-Newton takes)."""
-        def function(z):
-            x = [z[j] for j in range(self.n)]
-            values, jacobian = self.precise.evaluate(x, ctx)
-            scales = self.sizes.values(np.array([complex(v) for v in x])[None])[0]
-            for i in range(self.m):
-                values[i] /= scales[i]
-                for j in range(self.n):
-                    jacobian[i, j] /= scales[i]
-            return values, jacobian
-        return function
+        return mp_scaled_equations(self.precise, self.sizes, ctx)
 
     def refine_on_f(self, point, ctx, digits):
         start = ctx.matrix([ctx.mpc(v) for v in point])

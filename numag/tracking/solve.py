@@ -293,34 +293,17 @@ def _square_target(system, options, rng):
     return system.random_combinations(expected, rng), True
 
 
-def _mp_scaled(system, ctx):
-    """F and J at the precision of ``ctx``, each equation in units of its terms at the point (for Gauss-Newton)."""
-    evaluator = PrecisionEvaluator(system.polynomials)
-    sizes = TermSizes(system.polynomials)
-
-    def function(z):
-        x = [z[j] for j in range(system.n_variables)]
-        values, jacobian = evaluator.evaluate(x, ctx)
-        scale = sizes.values(np.array([complex(v) for v in x])[None])[0]
-        for i in range(system.n_equations):
-            values[i] /= scale[i]
-            for j in range(system.n_variables):
-                jacobian[i, j] /= scale[i]
-        return values, jacobian
-
-    return function
-
-
 def _refine_mp(system, point, digits, anchored=False, converged=False):
     """Gauss-Newton on F at ``digits`` digits (linear convergence at multiple roots is enough here).
 
     With ``converged``, returns (point, whether the scaled residual reached 10^-digits) instead of the point.
     """
     import mpmath  # here, not at import: only singular endpoints are refined in mpmath
-    from ..numeric.refine import mp_gauss_newton
+    from ..numeric.refine import mp_gauss_newton, mp_scaled_equations
     with mpmath.mp.workdps(digits + 10):
         ctx = mpmath.mp
-        z, reached, _, _ = mp_gauss_newton(_mp_scaled(system, ctx), ctx.matrix([ctx.mpc(v) for v in point]), ctx,
+        equations = mp_scaled_equations(PrecisionEvaluator(system.polynomials), TermSizes(system.polynomials), ctx)
+        z, reached, _, _ = mp_gauss_newton(equations, ctx.matrix([ctx.mpc(v) for v in point]), ctx,
                                            tolerance=ctx.mpf(10) ** (-digits), max_iterations=120,
                                            anchored=anchored)
         refined = np.array([complex(z[j]) for j in range(system.n_variables)])
