@@ -716,7 +716,7 @@ def decomposition_from_dict(data):
         options = options_from_dict(DecomposeOptions, data["options_in_full"])
     components = [_component_from_dict(d, system.n_variables) for d in data["components"]]
     counts = _path_counts_from_dict(data)
-    result = Decomposition(system, components, list(data["dimensions_searched"]), counts,
+    result = Decomposition(system, components, [int(d) for d in data["dimensions_searched"]], counts,
                            {int(k): int(v) for k, v in data["monodromy_loops"].items()}, data["seed"],
                            float(data["seconds"]), scaling=_scaling_from_dict(data, system))
     if data.get("start"):
@@ -804,7 +804,7 @@ def singular_from_dict(data):
     if data["variety"]:
         parts = [_component_from_dict(d, system.n_variables) for d in data["variety"]]
         run = data.get("variety_run") or {}  # absent before decision 0078
-        variety = Decomposition(system, parts, list(run.get("dimensions_searched", [])),
+        variety = Decomposition(system, parts, [int(d) for d in run.get("dimensions_searched", [])],
                                 {str(k): int(v) for k, v in (run.get("path_counts") or {}).items()},
                                 {int(k): int(v) for k, v in (run.get("monodromy_loops") or {}).items()},
                                 run.get("seed", data["seed"]), float(run.get("seconds", 0.0)),
