@@ -328,3 +328,25 @@ def test_tampered_reports_reused_by_check_are_used_or_refused(reusable_reports, 
     capsys.readouterr()
     code, _ = run(argv)
     assert_clear_refusal_or_answer(code, capsys.readouterr().err)
+
+
+@pytest.mark.parametrize("key", ["dimensions_searched", "monodromy_loops", "seed"])
+def test_saved_decomposition_with_null_fields_is_refused_or_used(reusable_reports, capsys, key):
+    """A null where a saved decomposition keeps integers is a clear refusal, never an internal error.
+
+    Found by the property test above on CI: ``dimensions_searched: [null, 2, 1, 0]`` crashed the comparison of
+    dimensions inside ``check --decomposition``.  Common practice, no source.
+    """
+    folder, system, reports = reusable_reports
+    data = json.loads(json.dumps(reports["decompose"]))
+    if isinstance(data[key], list):
+        data[key] = [None] + data[key][1:]
+    elif isinstance(data[key], dict):
+        data[key] = {k: None for k in data[key]}
+    else:
+        data[key] = None
+    report = folder / f"null-{key}.json"
+    report.write_text(json.dumps(data))
+    capsys.readouterr()
+    code, _ = run(["check", str(system), "--decomposition", str(report), "--seed", "2", "--point", "x=0,y=0,z=0"])
+    assert_clear_refusal_or_answer(code, capsys.readouterr().err)
