@@ -160,3 +160,19 @@ def test_isolated_real_point_of_the_quartic_over_a_conjugate_pair():
     hessian = np.array([[float(sympy.diff(delta, u, v).subs(at)) for v in (a, b)] for u in (a, b)])
     assert np.all(np.linalg.eigvalsh(hessian) > 1.0)  # definite: an isolated real point
     assert np.allclose(points[0], [2.0, 0.0], atol=1e-10)
+
+
+def test_progress_tells_lines_in_the_users_units():
+    """A family balanced into other units still reports its lines in the units of its [ranges].
+
+    Two circles of radius 1/1000 and q whose centres are p/10^6 apart (elementary geometry: common practice,
+    no source); the lines are evenly spaced across the range of p, which the user wrote in thousands.
+    """
+    family = family_from_mapping({"variables": ["x", "y"], "parameters": ["p", "q"],
+                                  "equations": ["x^2 + y^2 - 1/10^6", "(x - p/10^6)^2 + y^2 - q^2"],
+                                  "ranges": {"p": [0, 5000], "q": [0, 0.005]}})
+    told = []
+    discriminant(family, DiscriminantOptions(lines=3, curve=False, components=False, at_infinity=False), seed=1,
+                 progress=told.append)
+    lines = [float(message.split("=")[1]) for message in told if message.startswith("line p =")]
+    assert np.allclose(lines, [0.0, 2500.0, 5000.0], rtol=1e-5)

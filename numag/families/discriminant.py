@@ -250,7 +250,8 @@ class Discriminant:
                    [PlaneRegion.from_dict(r) for r in data.get("plane_regions", [])])
 
 
-def discriminant(family, options=None, seed=None, progress=None, *, _balanced=False, _located=False):
+def discriminant(family, options=None, seed=None, progress=None, *, _balanced=False, _located=False,
+                 _shown_factors=None):
     """The discriminant of a family: components with dimension, degree, samples; regions with real counts.
 
     Parameters
@@ -310,7 +311,8 @@ def discriminant(family, options=None, seed=None, progress=None, *, _balanced=Fa
                                        r.high / factors[family.parameters.index(name)])
                   for name, r in family.ranges.items()}
         computed = discriminant(Family(scaling.scale_system(family.system), family.parameters, ranges), options,
-                                seed=seed, progress=progress, _balanced=True, _located=True)
+                                seed=seed, progress=progress, _balanced=True, _located=True,
+                                _shown_factors=factors)
         return _in_user_units(computed, factors, family)
     started = time.perf_counter()
     paths, notes = {}, []
@@ -343,7 +345,7 @@ def discriminant(family, options=None, seed=None, progress=None, *, _balanced=Fa
         curve = _traced_curve(family, codimension, options, rng, notes, progress)
     if m == 2 and options.regions:
         if not on_lines:
-            regions = _regions_on_lines(family, options, rng, notes, progress)
+            regions = _regions_on_lines(family, options, rng, notes, progress, _shown_factors)
         if curve is not None:
             merged = merge_cells(regions, curve)
             plane_regions = merged.regions
@@ -782,8 +784,12 @@ def _cells(family, cuts, rng):
             for (value, low, high), sample, count in zip(cells, samples, counts)]
 
 
-def _regions_on_lines(family, options, rng, notes, progress):
-    """Two parameters: each vertical line p_1 = v as a one-parameter family, its regions as cells."""
+def _regions_on_lines(family, options, rng, notes, progress, shown_factors=None):
+    """Two parameters: each vertical line p_1 = v as a one-parameter family, its regions as cells.
+
+    ``shown_factors`` are the parameters' units when the family was balanced: progress is told in the user's.
+    """
+    shown = 1.0 if shown_factors is None else float(shown_factors[0])
     first = family.parameters[0]
     interval = family.ranges.get(first)
     low, high = (interval.low, interval.high) if interval else (-1.0, 1.0)
@@ -793,7 +799,7 @@ def _regions_on_lines(family, options, rng, notes, progress):
     for value in np.linspace(low, high, options.lines):
         line = family.restricted(0, ExactCoefficient.from_complex(float(value)))
         if progress is not None:
-            progress(f"line {first} = {value:.6g}")
+            progress(f"line {first} = {value * shown:.6g}")
         inner = DiscriminantOptions(options.decompose, options.max_exact_minors, regions=False,
                                     at_infinity=False, curve=False)
         along = discriminant(line, inner, seed=int(rng.integers(2 ** 63)), _located=True)
