@@ -25,6 +25,9 @@ class Verdict(TextEnum):
     SMOOTH = "smooth"
     SINGULAR = "singular"
     NON_REDUCED = "non-reduced"    # the rank drops on a whole neighbourhood in X: multiplicity > 1
+    # the rank drops at the point only, which lies on one reduced component of X with local multiplicity 1: X is
+    # smooth there and the equations do not cut it out reduced at the point (an embedded point, decision 0105)
+    EMBEDDED = "embedded point"
     UNDECIDED = "undecided"
     OFF = "off"                    # not on X within the point tolerance: nothing is judged there
 
