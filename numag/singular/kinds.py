@@ -104,7 +104,8 @@ class PieceKind(TextEnum):
 
     @classmethod
     def of_verdict(cls, verdict):
-        """The kind of a piece whose witness point got ``verdict`` (smooth ones are never pieces)."""
+        """The kind of a piece whose witness point got ``verdict`` (smooth points and embedded points are never
+        pieces)."""
         return {Verdict.SINGULAR: cls.SINGULAR, Verdict.NON_REDUCED: cls.NON_REDUCED}.get(verdict, cls.UNDECIDED)
 
 
