@@ -10,7 +10,7 @@ import numag
 from numag.system.parse import parse_system
 from numag.system.polynomial import PolynomialSystem
 from numag.system.files import load_angles
-from numag.anatomy.local import LocalOptions, hypersurface_witness, local_picture
+from numag.witness.local import LocalOptions, hypersurface_witness, local_picture
 from numag.anatomy.records import ComponentAnatomy, Family, Motion, PointAnatomy, TypeTest
 from numag.anatomy.survey import LocusAnatomy, component_anatomy, locus_anatomy, point_anatomy
 

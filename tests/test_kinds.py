@@ -45,10 +45,11 @@ def test_local_dimension_source_reads_back_from_every_text():
 
 
 def test_piece_kind_of_each_verdict():
+    # smooth, singular, non-reduced, embedded point (decision 0105: X smooth there, never a piece), undecided, off
     assert [PieceKind.of_verdict(v) for v in Verdict] == [PieceKind.UNDECIDED, PieceKind.SINGULAR,
                                                           PieceKind.NON_REDUCED, PieceKind.UNDECIDED,
-                                                          PieceKind.UNDECIDED]
-    assert [v.is_singular for v in Verdict] == [False, True, True, False, False]
+                                                          PieceKind.UNDECIDED, PieceKind.UNDECIDED]
+    assert [v.is_singular for v in Verdict] == [False, True, True, False, False, False]
 
 
 @pytest.mark.parametrize("build, option", [

@@ -35,7 +35,7 @@ from .hypersurface import anatomy_in_frame, corank_jump_shift, hessian_evidence,
     MORSE_ALPHA
 from .deflation import DeflationOutcome, ROUNDING_MOVE, onto_singular_point
 from .intersection import complete_intersection_milnor, curve_delta
-from .local import LocalOptions, LocalPicture, hypersurface_witness, local_picture, order_radius, orbit_tangent
+from ..witness.local import LocalOptions, LocalPicture, hypersurface_witness, local_picture, order_radius, orbit_tangent
 from .records import Branch, ComponentAnatomy, Family, Motion, PointAnatomy, SingularityType, TypeTest
 
 __all__ = ["AnatomyOptions", "LocusAnatomy", "point_anatomy", "component_anatomy", "locus_anatomy",

@@ -268,7 +268,19 @@ def compare_answers(system, locus, reference, numag_seconds, tolerance=1e-6):
     elif reference.status == ReferenceStatus.FINISHED and ours["singular_dimension"] >= 0:
         notes.append("kinds not compared: the reference knows which components are non-reduced for one "
                      "equation only (its repeated factors)")
-    row("dimension of V(F, minors)", ours["singular_dimension"], reference.singular_dimension)
+    embedded = locus.discarded.get("embedded_point", 0)
+    if reference.embedded_points is not None:
+        # decision 0105: the reference saturated away the equations' embedded points, so its singular locus is X's
+        row("embedded points of the equations (X smooth there)", embedded, reference.embedded_points)
+        row("dimension of Sing(X) (V(F, minors) without embedded points)", ours["singular_dimension"],
+            reference.singular_dimension)
+    else:
+        row("dimension of V(F, minors)", ours["singular_dimension"], reference.singular_dimension)
+        if embedded:
+            ours["undecided"] += embedded
+            notes.append(f"numag calls {counted(embedded, 'point')} of V(F, minors) embedded points of the equations "
+                         "(X smooth there, decision 0105); the reference did not separate them (it does when V(F, "
+                         "minors) is finite), so they count as undecided here")
     exact_dimension = reference.singular_dimension
     if exact_dimension is not None and exact_dimension <= 0 and ours["singular_dimension"] <= 0:
         row("singular points", ours["singular_points"], reference.singular_points)

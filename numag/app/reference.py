@@ -17,7 +17,11 @@ random rational hyperplane a . x = 1, which meets every projective point once):
    form), how many are real (Sturm sequences: real values of a real generic
    form come from real points), and, when sympy can solve the basis, exact
    coordinates; when it is positive-dimensional, the degree of its
-   top-dimensional part (by slicing). sympy has no radical, Hilbert polynomial
+   top-dimensional part (by slicing). More affine equations than the
+   codimension, with that set finite: the equations' ideal saturated by a
+   random combination of the minors (its embedded points removed, decision
+   0105) and the same counts again, which are then X's singular points.
+   sympy has no radical, Hilbert polynomial
    or primary decomposition routine; these counts are built on its Groebner
    bases here.
 
@@ -60,7 +64,9 @@ REFERENCE_SCOPE = ("exact reference (sympy Groebner bases): dimension and degree
                    "the non-reduced components); V(F + all c x c minors of J) "
                    "with c the codimension of X -- its dimension, and when finite the distinct points (and "
                    "real ones, length with multiplicity, exact coordinates when sympy solves the basis), "
-                   "otherwise the degree of its top-dimensional part. Affine input: affine points only. "
+                   "otherwise the degree of its top-dimensional part; more affine equations than the "
+                   "codimension and that set finite: its embedded points saturated away first, so that the "
+                   "points compared are X's singular points. Affine input: affine points only. "
                    "Assumes X equidimensional; lower-dimensional parts of a positive-dimensional locus are not "
                    "compared.")
 
@@ -101,6 +107,10 @@ class ReferenceAnswer:
         One equation only: degrees of its irreducible factors over Q that divide it more than once
         (the generically non-reduced components of X, a factor of degree d counted once), ascending;
         None for several equations, where the reference does not know which components are non-reduced.
+    rank_drop_points, embedded_points : int or None
+        Several affine equations, more than the codimension, with V(F + minors) finite: its distinct points, and
+        how many of them are embedded points of the equations, where X is smooth (decision 0105); the singular
+        points (and their coordinates) are then those of the saturated ideal. None where not computed.
     points : list of list of complex or None
         Coordinates of the exact points (affine; projective input: in the chart a . x = 1).
     exact_points : list of list of str or None
@@ -124,6 +134,8 @@ class ReferenceAnswer:
     singular_degree: object = None
     component_degrees: object = None
     non_reduced_degrees: object = None
+    rank_drop_points: object = None
+    embedded_points: object = None
     points: object = None
     exact_points: object = None
     chart: object = None
@@ -370,6 +382,39 @@ def _top_components(equations, symbols, dimension, rng, sympy):
     return sorted(sympy.Poly(f, *kept).total_degree() for f, _ in factors if sympy.Poly(f, *kept).total_degree() > 0)
 
 
+def _rank_drops(equations, slicing, symbols, codimension, sympy):
+    """The c x c minors of the equations' Jacobian, the ideal F + minors (+ the chart), its grevlex basis and the
+    dimension of its zero set."""
+    n = len(symbols)
+    jacobian = sympy.Matrix([[sympy.diff(f, s) for s in symbols] for f in equations])
+    minors = []
+    if codimension >= 1:
+        for rows in itertools.combinations(range(len(equations)), codimension):
+            for cols in itertools.combinations(range(n), codimension):
+                minor = sympy.expand(jacobian.extract(list(rows), list(cols)).det(method="berkowitz"))
+                if minor != 0:
+                    minors.append(minor)
+    ideal = equations + minors + slicing
+    basis = sympy.groebner(ideal, *symbols, order="grevlex", extension=True)
+    return minors, ideal, basis, _dimension(_leading_monomials(basis, symbols, sympy), n)
+
+
+def _without_embedded_points(equations, minors, symbols, rng, sympy):
+    """Generators of I : h^oo, h a random integer combination of the minors (I the equations' ideal, V(I + minors)
+    finite, X of positive dimension): the ideal without its embedded points (decision 0105).
+
+    The embedded primes of I lie where I's Jacobian drops rank (where R/I is not reduced it is not regular), a
+    finite set here, so each is the maximal ideal of a point where h vanishes; h vanishes on no component of X
+    (the minors do not all vanish on one: V(I + minors) is finite). Saturating by h removes exactly those points'
+    primary components: what is left is unmixed and generically reduced, hence radical -- X's ideal (assumes X
+    equidimensional without isolated points where the rank drops). Elimination: (I + (1 - t h)) without t (lex).
+    """
+    h = sum(int(rng.integers(1, 98)) * (1 if rng.integers(2) else -1) * m for m in minors)
+    t = sympy.Dummy("t")
+    basis = sympy.groebner(list(equations) + [1 - t * h], t, *symbols, order="lex")
+    return [g for g in basis.exprs if t not in g.free_symbols]
+
+
 def _child(text, seed, channel):
     """Runs in the child process; sends JSON messages (partial results first)."""
     import numpy as np
@@ -410,22 +455,24 @@ def _child(text, seed, channel):
                                                        if power > 1 and sympy.Poly(f, *symbols).total_degree() > 0)
             result["compute_seconds"] = time.perf_counter() - clock
             channel.put(json.dumps({"partial": result}))
-        jacobian = sympy.Matrix([[sympy.diff(f, s) for s in symbols] for f in equations])
-        minors = []
-        if codimension >= 1:
-            for rows in itertools.combinations(range(len(equations)), codimension):
-                for cols in itertools.combinations(range(n), codimension):
-                    minor = sympy.expand(jacobian.extract(list(rows), list(cols)).det(method="berkowitz"))
-                    if minor != 0:
-                        minors.append(minor)
+        minors, ideal, singular, singular_dimension = _rank_drops(equations, slicing, symbols, codimension, sympy)
         result["minors"] = len(minors)
-        ideal = equations + minors + slicing
-        singular = sympy.groebner(ideal, *symbols, order="grevlex", extension=True)
-        singular_dimension = _dimension(_leading_monomials(singular, symbols, sympy), n)
         result["singular_dimension"] = singular_dimension
         if singular_dimension == 0:
             distinct, real, length, (standard, index) = _finite_counts(singular, symbols, rng, sympy)
             result.update(singular_points=distinct, real_singular_points=real, scheme_length=length)
+            if not plain["projective"] and dimension > 0 and len(equations) > codimension and distinct:
+                # Decision 0105: more equations than the codimension may have embedded points where their Jacobian
+                # drops rank and X is smooth. Without them (saturated) they generate X's ideal: the singular locus
+                # of X is V(J + J's minors). The one of the given equations is kept as rank_drop_points.
+                saturated = _without_embedded_points(equations, minors, symbols, rng, sympy)
+                _, ideal, singular, singular_dimension = _rank_drops(saturated, [], symbols, codimension, sympy)
+                if singular_dimension == 0:
+                    kept, real, length, (standard, index) = _finite_counts(singular, symbols, rng, sympy)
+                else:  # the saturated locus lies in a finite set: empty
+                    kept, real, length = 0, 0, 0
+                result.update(rank_drop_points=distinct, embedded_points=distinct - kept, singular_points=kept,
+                              real_singular_points=real, scheme_length=length, singular_dimension=singular_dimension)
         elif singular_dimension > 0:
             result["singular_degree"] = _slice_degree(ideal, symbols, singular_dimension, rng, sympy)
         elif singular_dimension < 0:

@@ -769,6 +769,7 @@ def singular_to_dict(result, options):
          "options_in_full": None if variety.options is None else options_to_dict(variety.options)},
         "discarded": dict(result.discarded),
         "near_singular": [p.to_dict(encode_point) for p in result.near_singular],
+        "embedded_points": [encode_point(p) for p in result.embedded],  # decision 0105: X smooth there
         "notes": list(result.notes),
         "seconds": result.seconds,
         "caution": CAUTION,
@@ -820,7 +821,9 @@ def singular_from_dict(data):
                            notes=list(data["notes"]), scaling=_scaling_from_dict(data, system),
                            start=dict(data.get("start") or {}),
                            near_singular=[NearSingularPoint.from_dict(d, decode_point)
-                                          for d in data.get("near_singular") or []])
+                                          for d in data.get("near_singular") or []],
+                           embedded=[np.asarray(decode_point(p), dtype=complex)  # absent before decision 0105
+                                     for p in data.get("embedded_points") or []])
     return result, options
 
 
@@ -1220,6 +1223,7 @@ def compare_to_dict(comparison):
                       "scheme_length": reference.scheme_length, "singular_degree": reference.singular_degree,
                       "chart": reference.chart, "exact_points": reference.exact_points,
                       "non_reduced_degrees": reference.non_reduced_degrees,
+                      "rank_drop_points": reference.rank_drop_points, "embedded_points": reference.embedded_points,
                       "points": None if reference.points is None else [encode_point(p) for p in reference.points]},
         "scope": comparison.scope,
         "notes": list(comparison.notes),
@@ -1250,7 +1254,8 @@ def compare_from_dict(data):
         component_degrees=r["component_degrees"],
         points=None if points is None else [list(decode_point(p)) for p in points],
         exact_points=r["exact_points"], chart=r["chart"], message=r["message"],
-        non_reduced_degrees=r.get("non_reduced_degrees"))  # absent before decision 0096
+        non_reduced_degrees=r.get("non_reduced_degrees"),  # absent before decision 0096
+        rank_drop_points=r.get("rank_drop_points"), embedded_points=r.get("embedded_points"))  # ... before 0105
     rows = [ComparisonRow(row["quantity"], row["numag"], row["exact"], row["agree"]) for row in data["rows"]]
     return Comparison(locus.system, locus, reference, rows, _decode_float(data["max_distance"]),
                       _decode_float(data["digits_of_agreement"]), float(data["numag_seconds"]),

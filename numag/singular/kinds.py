@@ -25,6 +25,9 @@ class Verdict(TextEnum):
     SMOOTH = "smooth"
     SINGULAR = "singular"
     NON_REDUCED = "non-reduced"    # the rank drops on a whole neighbourhood in X: multiplicity > 1
+    # the rank drops at the point only, which lies on one reduced component of X with local multiplicity 1: X is
+    # smooth there and the equations do not cut it out reduced at the point (an embedded point, decision 0105)
+    EMBEDDED = "embedded point"
     UNDECIDED = "undecided"
     OFF = "off"                    # not on X within the point tolerance: nothing is judged there
 
@@ -101,7 +104,8 @@ class PieceKind(TextEnum):
 
     @classmethod
     def of_verdict(cls, verdict):
-        """The kind of a piece whose witness point got ``verdict`` (smooth ones are never pieces)."""
+        """The kind of a piece whose witness point got ``verdict`` (smooth points and embedded points are never
+        pieces)."""
         return {Verdict.SINGULAR: cls.SINGULAR, Verdict.NON_REDUCED: cls.NON_REDUCED}.get(verdict, cls.UNDECIDED)
 
 

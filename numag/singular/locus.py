@@ -223,6 +223,9 @@ class SingularLocus:
         (``searches`` with each square system's start block, or the witness sets and why).
     options : SingularOptions or None
         The options of the run (recorded when the result is saved; None for a result built by hand).
+    embedded : list of ndarray
+        Points where the given equations' Jacobian drops rank and X is smooth (one reduced component of
+        multiplicity 1 there): embedded points of the equations, listed apart, not pieces (decision 0105).
     """
 
     system: PolynomialSystem
@@ -237,6 +240,7 @@ class SingularLocus:
     start: dict = field(default_factory=dict)
     near_singular: list[NearSingularPoint] = field(default_factory=list)
     options: SingularOptions | None = None
+    embedded: list = field(default_factory=list)
 
     def __repr__(self):
         affine = [c for c in self.components if not c.at_infinity]
@@ -473,6 +477,7 @@ def _in_user_units(system, options, seed, progress, stop_when_far=False):
             component.points = scaling.to_user(component.points)
     if locus.variety is not None and not system.projective:
         locus.variety = locus.variety.in_units(scaling, system, to_user=True)
+    locus.embedded = [scaling.to_user(point) for point in locus.embedded]  # affine points only (_affine)
     locus.system, locus.scaling = system, scaling
     locus.near_singular = _near_singular(system, scaling, dropped, locus.discarded)
     _vanishing_jacobians(dropped, locus.discarded)
@@ -628,6 +633,7 @@ def _computed_centred(system, options, seed, progress, centring, first_paths, fi
             component.real = _real_flags(system, component.points)
     for point in locus.near_singular:
         point.point = point.point + shift
+    locus.embedded = [point + shift for point in locus.embedded]
     if locus.variety is not None:
         locus.variety = _translated(locus.variety, system, shift)
     if kept:
@@ -682,7 +688,8 @@ def _judged_again(centred, shift, pieces, local, notes, options, seed, why):
     # taken for a node in the first run's units): off X when its residual is far above any tolerance
     evaluator, sizes = equation_evaluator(centred)
     off = largest_scaled_residual(sizes, evaluator, moved) > _OFF_X_RESIDUAL
-    refuted = [(v is None and far_off) or (v is not None and v.verdict in (Verdict.OFF, Verdict.SMOOTH))
+    refuted = [(v is None and far_off) or (v is not None and v.verdict in (Verdict.OFF, Verdict.SMOOTH,
+                                                                           Verdict.EMBEDDED))
                for v, far_off in zip(verdicts, off)]
     found = [c.points[0] for c in local.components if not c.at_infinity and c.dimension == 0]
     same = [v is not None and v.verdict is Verdict.SINGULAR and any(
@@ -906,6 +913,7 @@ def _singular_locus(system, options, seed, progress, stop=None):
     rng = np.random.default_rng(seed)
     paths, discarded, notes, routes = {}, {}, [], []
     dropped = []  # isolated candidates the check called smooth: their backward errors are measured
+    embedded = []  # candidates the check called embedded points of the equations (decision 0105)
     start = {"asked": options.start.value, "codimensions": routes}
     if linear_space(system) is not None:  # J is constant of full rank on X: no singular point, no homotopy
         variety = decompose(system, options.decompose, seed=int(rng.integers(2**32)), progress=progress)
@@ -926,7 +934,7 @@ def _singular_locus(system, options, seed, progress, stop=None):
                                                     dropped)
     else:
         components, variety = _affine(system, options, rng, paths, discarded, progress, notes, routes, dropped,
-                                      stop)
+                                      stop, embedded)
         if options.start is not StartKind.TOTAL_DEGREE and variety is not None and variety.extra.get("start"):
             start["regeneration_of_X"] = variety.extra["start"]
         if system.n_equations == 1:
@@ -954,7 +962,8 @@ def _singular_locus(system, options, seed, progress, stop=None):
             notes.append(f"{isolated} isolated singular points found, more than the (d - 1)^n = {bound} a "
                          "hypersurface of this degree can have: some point was counted twice.")
     return SingularLocus(system=system, components=components, variety=variety, paths=paths, discarded=discarded,
-                         seed=seed, seconds=time.perf_counter() - started, notes=notes, start=start), dropped
+                         seed=seed, seconds=time.perf_counter() - started, notes=notes, start=start,
+                         embedded=embedded), dropped
 
 
 def _structured_start(system, variety, codimension, options, rng, paths, progress):
@@ -1026,8 +1035,14 @@ def _square_route_pays(system, variety, codimension, options, route):
         estimated_cost(StartKind.TOTAL_DEGREE, witness)
 
 
+#: What an embedded point of the equations is (decision 0105), said with the points a locus lists apart.
+EMBEDDED_EXPLANATION = ("the Jacobian of the given equations drops rank there, but each lies on one reduced component "
+                        "of X with multiplicity 1 at it, so X is smooth there: the equations do not cut X out "
+                        "reduced at these points (embedded points), which are not singular points of X")
+
+
 def _affine(system, options, rng, paths, discarded, progress, notes_out=None, routes=None, dropped=None,
-            stop=None):
+            stop=None, embedded=None):
     """Singular pieces of an affine X by decomposing F + minors for each codimension of X.
 
     ``routes`` (a list) receives the route of each codimension when a start other than total degree is
@@ -1140,6 +1155,14 @@ def _affine(system, options, rng, paths, discarded, progress, notes_out=None, ro
                 continue
             if verdict.verdict is Verdict.OFF:  # refinement ends at a stationary point of |F|: no point of X is near
                 discarded["not_on_X"] = discarded.get("not_on_X", 0) + 1
+                continue
+            if verdict.verdict is Verdict.EMBEDDED:  # X smooth there, listed apart (decision 0105)
+                discarded["embedded_point"] = discarded.get("embedded_point", 0) + 1
+                if embedded is not None:  # its point, moved to the user's units with the pieces
+                    embedded.append(np.asarray(verdict.point, dtype=complex))
+                else:
+                    notes_out.append(f"A candidate (dimension {candidate.dimension}) is no singular point of X: "
+                                     f"{EMBEDDED_EXPLANATION} (decision 0105).")
                 continue
             if verdict.verdict is Verdict.SMOOTH:
                 discarded["smooth_on_check"] = discarded.get("smooth_on_check", 0) + 1
@@ -1403,6 +1426,8 @@ def _confirmed_by_check(system, pieces, rng, discarded, dropped=None):
             discarded[reason] = discarded.get(reason, 0) + 1
         elif verdict.verdict.is_singular:
             kept.append(piece)
+        elif verdict.verdict is Verdict.EMBEDDED:  # X smooth there (decision 0105)
+            discarded["embedded_point"] = discarded.get("embedded_point", 0) + 1
         elif verdict.verdict is Verdict.SMOOTH:
             discarded["smooth_on_check"] = discarded.get("smooth_on_check", 0) + 1
             if dropped is not None and verdict.codimension is not None:

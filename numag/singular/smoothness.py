@@ -32,6 +32,11 @@ How a small singular value is tested
 4. For a singular verdict, nearby points of X are sampled: if the rank drops
    at all of them, X (as given by these equations) is generically non-reduced
    there, and the verdict is "non-reduced" instead of "singular".
+5. For a singular verdict at a point of one reduced component, with more equations than
+   its codimension: the component's multiplicity at the point (its local witness set,
+   :func:`numag.witness.local.component_multiplicity`). 1 means X is smooth there and the
+   equations have an embedded point (verdict "embedded point", decision 0105); 2 or more
+   keeps "singular"; no clear count makes it "undecided".
 
 Examples
 --------
@@ -64,6 +69,7 @@ from ..numeric.refine import (RankDropSystem, ZeroKind, mp_gauss_newton, mp_scal
 from ..numeric.scaling import Scaling
 from ..numeric.seeds import random_state
 from ..witness.decompose import CENTRING_TERMS, components_through_points
+from ..witness.local import component_multiplicity
 from .kinds import CoefficientPrecision, JudgedPoint, LocalDimensionSource, Verdict
 from .nearness import (backward_error, coefficient_precision, input_tolerance, nearest_backward_error,
                        point_precision)
@@ -401,6 +407,9 @@ class _Checker:
         self.precise = PrecisionEvaluator(system.polynomials)
         self.m, self.n = system.n_equations, system.n_variables
         self.sizes = TermSizes(system.polynomials, system.projective)
+        # the decomposition (user's units) and the units of this checker, when the local multiplicity of a
+        # component can be measured (decision 0105)
+        self.decomposition, self.user_scaling = None, None
 
     # -- scaled quantities ----------------------------------------------------------------------
     def scaled_values_double(self, points):
@@ -827,6 +836,43 @@ class _Checker:
                     return False
         return True
 
+    def embedded_or_singular(self, point, component, notes):
+        """At a rank drop on one reduced component, with more equations than the codimension: the component's
+        multiplicity at the point decides between a singular point of X and an embedded point of the equations
+        (decision 0105). Notes are added in place; returns the verdict.
+
+        The Jacobian criterion is about the ideal of X; more equations than the codimension need not generate it
+        near the point ({x^2, x y} cut out the line x = 0 with an embedded point at the origin: rank J drops
+        there, the line is smooth). A point of one reduced component where that component has multiplicity 1 is
+        a smooth point of X (an unmixed local ring of multiplicity 1 is regular: Nagata). The multiplicity is the
+        local witness set's count (:func:`numag.witness.local.component_multiplicity`); a complete intersection
+        (as many equations as the codimension) is unmixed and needs none.
+        """
+        if self.decomposition is None:
+            return Verdict.SINGULAR
+        user_point = self.user_scaling.to_user(point[None, :])[0] if self.user_scaling is not None else point
+        picture = component_multiplicity(self.decomposition, component, user_point,
+                                         seed=int(self.rng.integers(2**31)))
+        count = picture.multiplicity
+        if count == 1:
+            notes.append(f"X is smooth here: the point lies on one component of X (component {component.id}, "
+                         "generically reduced), which has multiplicity 1 at it (one of its points on a generic slice "
+                         "next to the point converges to it), so X is a manifold of the component's dimension "
+                         f"here. The Jacobian of the {self.m} equations drops rank only because they do not cut X "
+                         "out reduced at this point (an embedded point of the equations, not a singular point of X).")
+            return Verdict.EMBEDDED
+        if count is not None and count > 1:
+            notes.append(f"Component {component.id} has multiplicity {count} at the point ({count} of its points on a "
+                         "generic slice next to the point converge to it): a singular point of X, whatever "
+                         "equations cut X out.")
+            return Verdict.SINGULAR
+        why = "; ".join(picture.notes) or "no local point converged to it"
+        notes.append(f"The Jacobian drops rank here, but {self.m} equations for codimension "
+                     f"{self.system.ambient_dimension - component.dimension} need not cut X out reduced: whether this "
+                     "is a singular point of X or an embedded point of the equations (X smooth) rests on the local "
+                     f"multiplicity of component {component.id}, which was not counted ({why}).")
+        return Verdict.UNDECIDED
+
     def decide(self, given, exact_given, refined, values, scales, through=None, position=None, exact_rank=None):
         """The rank decision at one point before the non-reduced sampling (a :class:`_Judged`); ``exact_rank``:
         the rank of J at an exact point of X (exact data), which then decides."""
@@ -936,6 +982,9 @@ class _Checker:
                 verdict = Verdict.SINGULAR
                 notes.append(f"The point lies on {len(through)} components of X (ids {ids}): where components "
                              "meet, X is not locally irreducible, so the point is singular whatever the rank.")
+        if (verdict is Verdict.SINGULAR and through and len(through) == 1 and opts.local_dimension is None
+                and self.m > codim and through[0].reduced):
+            verdict = self.embedded_or_singular(np.asarray(decision.point), through[0], notes)
         if verdict.is_singular and self.m > 1:
             notes.append(_AS_GIVEN)
         point = np.asarray(decision.point, dtype=complex)
@@ -949,7 +998,8 @@ class _Checker:
         local = None if codim is None else ambient - codim
         drop = decision.drop
         at = self.distance(refined, point)
-        judged = (JudgedPoint.RANK_DROP if verdict.is_singular and drop is not None and at > 0 else
+        judged = (JudgedPoint.RANK_DROP if (verdict.is_singular or verdict is Verdict.EMBEDDED) and drop is not None
+                  and at > 0 else
                   JudgedPoint.GIVEN if self.distance(given, point) == 0 else JudgedPoint.NEAREST_ON_X)
         return PointVerdict(
             index=index, given=given, point=point, distance=self.distance(given, point), residual=residual,
@@ -1177,6 +1227,7 @@ def _check_in_units(system, given, exact, options, seed, rng, decomposition, sca
     """The verdicts at points of ``system`` (already in computed units; ``decomposition`` in the user's); a
     point that cannot be moved onto X gets the verdict "off". ``rule``: a :class:`_DataRule`."""
     checker = _Checker(system, options, rng)
+    checker.decomposition, checker.user_scaling = decomposition, scaling
     # On X is what Newton's method reaches, not a residual bound (decision 0064): Gauss-Newton aims at a scaled
     # residual of 1e-13 and, at a singular point, can stall just above (rounding, a rank-deficient Jacobian:
     # 1.2e-13 seen at a linkage's branch point, which was then dropped); within rounding it is on X.

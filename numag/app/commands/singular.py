@@ -7,7 +7,7 @@ from ...run.executor import using
 from ...tracking.tracker import FAILURE_LABELS
 from ...witness.cascade import WitnessOptions
 from ...witness.decompose import DecomposeOptions
-from ...singular.locus import FORMULATIONS, SingularOptions, singular_locus
+from ...singular.locus import EMBEDDED_EXPLANATION, FORMULATIONS, SingularOptions, singular_locus
 from ...anatomy.survey import infinity_chart, locus_anatomy
 from ..anatomy_text import attach_to_singular, write_component_anatomy, write_point_anatomy
 from ...singular.kinds import PieceKind
@@ -107,6 +107,12 @@ def _print_singular(result, out, angles, data=None, anatomy=None):
         for k, near in enumerate(result.near_singular, 1):
             out.write(f"  {k:4d}  {'real' if near.real else 'complex'}  "
                       f"{text(names, near.point, _WITNESS_ACCURACY)}\n        {near.explanation()}\n")
+    if result.embedded:  # decision 0105: listed apart, never among X's singular points
+        out.write(f"\n{_counted(len(result.embedded), 'embedded point')} of the equations, not singular points of X "
+                  f"({EMBEDDED_EXPLANATION})\n")
+        for k, point in enumerate(result.embedded, 1):
+            real = bool(np.all(np.abs(np.imag(point)) <= _WITNESS_ACCURACY * (1 + np.linalg.norm(point))))
+            out.write(f"  {k:4d}  {'real' if real else 'complex'}  {text(names, point, _WITNESS_ACCURACY)}\n")
     larger = [c for c in affine if c.dimension > 0 or c.kind is not PieceKind.SINGULAR]
     if larger:
         out.write(f"\n{_counted(len(larger), 'singular or non-reduced component')} of positive dimension or "

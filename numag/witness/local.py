@@ -22,7 +22,7 @@ by another random one.
 """
 
 import dataclasses
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 
 import numpy as np
 import scipy.linalg
@@ -33,10 +33,12 @@ from ..system.polynomial import PolynomialSystem
 from ..tracking.homotopy import ParameterHomotopy, random_unit_complex
 from ..tracking.service import track
 from ..tracking.tracker import TrackerOptions
-from ..witness.cascade import combine_equations, linear_form
-from ..witness.decompose import holding_equations
+from .cascade import combine_equations, linear_form
+from ..numeric.seeds import random_state
+from .decompose import _polynomial_part, centred_decomposition, holding_equations
 
-__all__ = ["LocalOptions", "LocalPicture", "local_picture", "hypersurface_witness", "orbit_tangent", "order_radius"]
+__all__ = ["LocalOptions", "LocalPicture", "local_picture", "hypersurface_witness", "orbit_tangent", "order_radius",
+           "LocalSetting", "local_setting", "component_multiplicity"]
 
 #: A local point moves towards p by about eps2/eps1 (0.1), the others by a factor near 1. A ratio
 #: between these two means a slice too close to special: another slice is drawn.
@@ -72,6 +74,9 @@ class LocalOptions:
     ceiling : float
         No radius beyond this: where the equation's higher terms overtake its lowest one (see
         :func:`order_radius`), farther points are not local yet.
+    branches : bool
+        For curves, also the branches (monodromy orbits); False: the count only (the check's local
+        multiplicity, decision 0105).
     tracker : TrackerOptions
         Tight corrector: local points of tangent branches are close together; ill-conditioned endpoints
         (two local points of a cusp 1e-8 apart) are kept as regular ones, the shrink and loop checks
@@ -86,6 +91,7 @@ class LocalOptions:
     attempts: int = 6
     widen: tuple = (1.0, 3.0, 10.0, 30.0)
     ceiling: float = np.inf
+    branches: bool = True
     tracker: TrackerOptions = field(default_factory=lambda: TrackerOptions(corrector_tolerance=1e-9, rescue_digits=0,
                                                                            singular_condition=1e13,
                                                                            endgame_radius=1e-9))
@@ -373,6 +379,8 @@ def _attempt(held, codimension, point, witness_points, witness_rows, rng, real, 
     # branch, or far points close by)
     if np.any(np.abs(np.log(ratio[local] / options.shrink)) > np.log(1.5)):
         return picture, "a local point did not shrink with the slice"
+    if not options.branches:
+        return picture, ""
     if d == 1 and not len(local):
         picture.orbits, picture.real_orbits = [], ([] if real else None)
     if d == 1 and len(local) and unresolved is not None and not (_resolved(unresolved, on1, local, point) and
@@ -509,3 +517,101 @@ def orbit_tangent(picture, orbit, point):
     tangent = tangent / np.linalg.norm(tangent)
     largest = tangent[int(np.argmax(np.abs(tangent)))]
     return tangent * (abs(largest) / largest)  # the phase that makes the largest coordinate real positive
+
+
+@dataclass
+class LocalSetting:
+    """A decomposition written where the local slices at a point are drawn (:func:`local_setting`).
+
+    Attributes
+    ----------
+    decomposition : Decomposition
+        Points and slices in the balanced units of ``scaling`` (centred at the point when that applies).
+    polynomials : list of Polynomial
+        F in those units (numeric, affine).
+    point : ndarray, shape (n,)
+        The point in those units (the origin when centred).
+    scaling : Scaling or None
+        The units (None: the decomposition's own coordinates, unscaled).
+    centring : object or None
+        The exact centre (:func:`numag.system.centred.centre_near`), when centred.
+    """
+
+    decomposition: object
+    polynomials: list
+    point: np.ndarray
+    scaling: object = None
+    centring: object = None
+
+
+def local_setting(decomposition, user_point, scaling=None):
+    """The decomposition, F and the point in coordinates centred exactly at the point and balanced anew
+    (decision 0091), or in ``scaling``'s units where centring does not apply.
+
+    The local slices' radius is a share of 1 + |point| in balanced units; in the system's own units that is set by
+    where the point sits, not by the size of the features around it (two parabolas of size one crossing at (1213,
+    2141, 2850) were sliced 4.5 units out, where each looked like one branch of multiplicity 2 through the point).
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> from numag.witness.decompose import decompose
+    >>> line = decompose(parse_system(["x^2", "x*y"], ["x", "y"]), seed=1)
+    >>> local_setting(line, [0, 5]).point.tolist()
+    [0j, 0j]
+    """
+    user_point = np.asarray(user_point, dtype=complex).reshape(-1)
+    # a decomposition made fibre by fibre is centred like any other here: only F, the witness points and their
+    # slices are used (a component in a fibre is cut generically by its slice, whatever the block's coefficients)
+    centred = centred_decomposition(replace(decomposition, fibred_over=None), user_point)
+    if centred is not None:
+        decomposition, centring = centred
+        scaling = decomposition.scaling
+        point = scaling.to_computed((user_point - centring.point)[None, :])[0]
+    else:
+        centring = None
+        point = user_point if scaling is None else scaling.to_computed(user_point[None, :])[0]
+    system = _polynomial_part(decomposition.system)
+    if scaling is not None:
+        system = scaling.scale_system(system)
+        decomposition = decomposition.in_units(scaling, system, to_user=False)
+    return LocalSetting(decomposition, [p.numeric() for p in system.polynomials], point, scaling, centring)
+
+
+def component_multiplicity(decomposition, component, user_point, seed=0, options=None):
+    """The multiplicity at a point of one reduced component of X: the number of its points on a generic affine
+    slice of complementary dimension near the point that converge to it (the local witness set, decision 0105).
+
+    1 at a smooth point of the component; at least 2 at a singular one (a node, a cusp). Counted in coordinates
+    centred at the point (:func:`local_setting`); branches are not told (``options.branches`` is set False).
+
+    Parameters
+    ----------
+    decomposition : Decomposition
+    component : Component
+        One of ``decomposition.components`` (generically reduced), through the point.
+    user_point : array_like, shape (n,)
+        A point of the component, in the decomposition's (user's) units.
+    seed : int
+    options : LocalOptions, optional
+
+    Returns
+    -------
+    LocalPicture
+        ``multiplicity`` None when no slice gave a clear count (its ``notes`` say why).
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> from numag.witness.decompose import decompose
+    >>> line = decompose(parse_system(["x^2", "x*y"], ["x", "y"]), seed=1)
+    >>> component_multiplicity(line, line.components[0], [0, 0], seed=1).multiplicity
+    1
+    """
+    options = replace(options or LocalOptions(), branches=False)
+    _, rng = random_state(seed)
+    setting = local_setting(decomposition, user_point, decomposition.scaling)
+    index = [id(c) for c in decomposition.components].index(id(component))
+    moved = setting.decomposition.components[index]
+    return local_picture(setting.polynomials, len(setting.point) - moved.dimension, setting.point, moved.points,
+                         moved.slice_rows, rng, options=options)
