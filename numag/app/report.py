@@ -289,6 +289,10 @@ def discriminant_warnings(result):
     if region_failures:
         warnings.append(f"{counted(region_failures, 'path')} of the regions' sample members failed: their counts "
                         "may be low")
+    region_undecided = sum(r.count.undecided for r in result.regions)
+    if region_undecided:
+        warnings.append(f"{counted(region_undecided, 'solution')} of the regions' sample members could be told "
+                        "neither real nor paired with a conjugate: those real counts are undecided")
     if result.curve is not None and result.curve.failed_arcs:
         warnings.append(f"{counted(result.curve.failed_arcs, 'arc end')} of the traced curve failed")
     if result.curve is not None and undecided_special_points(result.curve):

@@ -55,11 +55,20 @@ class RealCount:
         Real branches (curve members).
     failed : int
         Paths that failed on the way (the count may then be low).
+    undecided : int
+        Solutions that could be told neither real nor paired with their conjugate (decision 0104): the count
+        is not sure.
     """
 
     solutions: object = None
     branches: object = None
     failed: int = 0
+    undecided: int = 0
+
+    @property
+    def sure(self):
+        """Whether nothing failed and every real or complex judgement was made."""
+        return not self.failed and not self.undecided
 
     @property
     def kind(self):
@@ -98,12 +107,41 @@ def real_counts(family, samples, seed=None):
     if len(samples) == 0:
         return []
     if k == n:
-        result = sweep(family, samples, seed=int(rng.integers(2 ** 63)))
-        extra = int(result.paths.get("start_failed", 0))
-        return [RealCount(solutions=member.real_count, failed=member.failed + extra) for member in result.values]
+        return _solution_counts(family, samples, rng)
     if k != n - 1:
         return [RealCount() for _ in samples]
     return _branches(family, samples, rng)
+
+
+def _solution_counts(family, samples, rng):
+    """Real solutions of square members at the samples, checked by a second sweep where in doubt (decision 0104).
+
+    A path from a generic member's finite solution reaches infinity only where the member lies on the
+    discriminant at infinity, and then in every run; a path that jumped onto a point at infinity that every member
+    has (two circles share the circular points) does so in one run only, and the lost solution may be real. So a
+    sample with paths at infinity, or with a solution neither real nor paired with its conjugate
+    (:func:`~numag.families.sweep.judge_real`), is swept once more from another random member. A second count
+    that is sure with no path at infinity is taken; one that repeats the first (the same real count and the same
+    paths at infinity) confirms it; otherwise the first run's paths at infinity count as failed.
+    """
+    def counted(result):
+        extra = int(result.paths.get("start_failed", 0))
+        return [(RealCount(solutions=member.real_count, failed=member.failed + extra, undecided=member.undecided),
+                 member.at_infinity) for member in result.values]
+
+    first = counted(sweep(family, samples, seed=int(rng.integers(2 ** 63))))
+    counts = [count for count, _ in first]
+    doubtful = [r for r, (count, infinite) in enumerate(first) if count.undecided or infinite]
+    if not doubtful:
+        return counts
+    second = counted(sweep(family, samples[doubtful], seed=int(rng.integers(2 ** 63))))
+    for r, (again, infinite) in zip(doubtful, second):
+        count, before = first[r]
+        if again.sure and not infinite:
+            counts[r] = again
+        elif not (again.sure and count.sure and infinite == before and again.solutions == count.solutions):
+            counts[r] = RealCount(solutions=count.solutions, failed=count.failed + before, undecided=count.undecided)
+    return counts
 
 
 def _branches(family, samples, rng):
@@ -117,6 +155,7 @@ def _branches(family, samples, rng):
     gradients = [[p.derivative(j) for j in range(n)] for p in polynomials] + [[form.derivative(j) for j in range(n)]]
     critical_equation = determinant(gradients)
     failed = np.zeros(len(samples), dtype=np.int64)
+    undecided = np.zeros(len(samples), dtype=np.int64)
     critical = [np.zeros(0) for _ in samples]
     if not critical_equation.is_zero() and critical_equation.exponents[:, :n].sum(axis=1).max() > 0:
         system = PolynomialSystem(family.system.variables,
@@ -124,6 +163,7 @@ def _branches(family, samples, rng):
         result = sweep(Family(system, family.parameters), samples, seed=int(rng.integers(2 ** 63)))
         for r, member in enumerate(result.values):
             failed[r] += member.failed + int(result.paths.get("start_failed", 0))
+            undecided[r] += member.undecided
             points = member.points[member.real].real if len(member.points) else np.zeros((0, n))
             critical[r] = _distinct(points @ row) if len(points) else np.zeros(0)
     # the slice l . x = w, w one more parameter
@@ -145,6 +185,7 @@ def _branches(family, samples, rng):
     arcs = []  # (region, interval, point)
     for (r, i, _), member in zip(middles, over.values):
         failed[r] += member.failed + int(over.paths.get("start_failed", 0))
+        undecided[r] += member.undecided
         arcs += [(r, i, point.real) for point, real in zip(member.points, member.real) if real]
     starts, targets, points, which = [], [], [], []
     middle_of = {(r, i): w for r, i, w in middles}
@@ -180,7 +221,7 @@ def _branches(family, samples, rng):
     counts = []
     for r in range(len(samples)):
         roots = {int(branch_of[a]) for a, arc in enumerate(arcs) if arc[0] == r}
-        counts.append(RealCount(branches=len(roots), failed=int(failed[r])))
+        counts.append(RealCount(branches=len(roots), failed=int(failed[r]), undecided=int(undecided[r])))
     return counts
 
 

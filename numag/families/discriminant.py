@@ -180,13 +180,14 @@ class Region:
                 "high": encode_float(self.high), "sample": [float(v) for v in self.sample],
                 "count": self.count.kind.value,
                 "real_solutions": self.count.solutions, "real_branches": self.count.branches,
-                "failed": int(self.count.failed), "line": self.line}
+                "failed": int(self.count.failed), "undecided": int(self.count.undecided), "line": self.line}
 
     @classmethod
     def from_dict(cls, data):
         low = -math.inf if data["low"] == "-infinity" else decode_float(data["low"])
         return cls(low, decode_float(data["high"]), np.array(data["sample"], dtype=float),
-                   RealCount(data["real_solutions"], data["real_branches"], int(data["failed"])), data["line"])
+                   RealCount(data["real_solutions"], data["real_branches"], int(data["failed"]),
+                             int(data.get("undecided", 0))), data["line"])
 
 
 @dataclass

@@ -188,12 +188,13 @@ class PlaneRegion:
         return {"cells": [int(c) for c in self.cells], "sample": [float(v) for v in self.sample],
                 "count": self.count.kind.value,
                 "real_solutions": self.count.solutions, "real_branches": self.count.branches,
-                "failed": int(self.count.failed)}
+                "failed": int(self.count.failed), "undecided": int(self.count.undecided)}
 
     @classmethod
     def from_dict(cls, data):
         return cls([int(c) for c in data["cells"]], np.array(data["sample"], dtype=float),
-                   RealCount(data["real_solutions"], data["real_branches"], int(data["failed"])))
+                   RealCount(data["real_solutions"], data["real_branches"], int(data["failed"]),
+                             int(data.get("undecided", 0))))
 
 
 def _box(family):

@@ -46,11 +46,14 @@ from .centring import centred_family, locate_members
 from .records import PointKind, decode_complex, decode_complex_rows, decode_float, encode_complex, encode_float
 
 __all__ = ["SweepOptions", "MemberSolutions", "SweepResult", "SweepHomotopy", "sweep", "move_points", "parse_grid",
-           "real_by_separation", "LABEL_UNIT", "MAX_VALUES"]
+           "real_by_separation", "judge_real", "LABEL_UNIT", "MAX_VALUES"]
 
 #: The extra coordinate of a path at value k is (k + 1) * LABEL_UNIT: small beside the patch's
 #: coordinates (at most 1e-3 for a million values), and far above the round-off it gathers.
 LABEL_UNIT = 1e-9
+#: Scaled residual under which an endpoint solves the member at another parameter value too (the tracker
+#: settles endpoints at 1e-8; a point that is no solution there has a residual of order one).
+STATIONARY_RESIDUAL = 1e-6
 #: Largest number of parameter values in one sweep.
 MAX_VALUES = 1_000_000
 
@@ -247,6 +250,13 @@ class SweepHomotopy:
         full, _ = self._full(points, np.zeros(len(points)))
         return np.column_stack([self._sizes.gradients(full), np.ones(len(points))])
 
+    def stationary(self, points):
+        """Which points solve the homotopy at every s (checked at s = 1 and s = 1/2 besides the target): points
+        at infinity that every member has, where no path from a finite start ends regularly (decision 0104)."""
+        full = [self._full(points, np.full(len(points), s))[0] for s in (1.0, 0.5)]
+        return np.all([np.linalg.norm(self.evaluator.evaluate(f, jacobian=False) / self._sizes.values(f), axis=1)
+                       <= STATIONARY_RESIDUAL for f in full], axis=0)
+
     def target_residual(self, points):
         """Scaled residual of the member at each point's own target value."""
         full, _ = self._full(points, np.zeros(len(points)))
@@ -282,6 +292,8 @@ class MemberSolutions:
         Paths of this value that failed (counted, never dropped silently).
     at_infinity : int
         Paths of this value that went to infinity.
+    undecided : int
+        Points neither real nor paired with their conjugate (:func:`judge_real`): the real count is not sure.
     """
 
     parameters: np.ndarray
@@ -291,6 +303,7 @@ class MemberSolutions:
     paths: np.ndarray
     failed: int = 0
     at_infinity: int = 0
+    undecided: int = 0
 
     @property
     def real_count(self):
@@ -305,14 +318,15 @@ class MemberSolutions:
     def to_dict(self):
         return {"parameters": encode_complex(self.parameters), "points": encode_complex(self.points),
                 "real": [bool(r) for r in self.real], "kinds": [k.value for k in self.kinds],
-                "paths": [int(p) for p in self.paths], "failed": int(self.failed), "at_infinity": int(self.at_infinity)}
+                "paths": [int(p) for p in self.paths], "failed": int(self.failed), "at_infinity": int(self.at_infinity),
+                "undecided": int(self.undecided)}
 
     @classmethod
     def from_dict(cls, data):
         points = decode_complex(data["points"]) if data["points"] else np.zeros((0, 0), dtype=complex)
         return cls(decode_complex(data["parameters"]), points, np.array(data["real"], dtype=bool),
                    [PointKind(k) for k in data["kinds"]], np.array(data["paths"], dtype=np.int64),
-                   int(data["failed"]), int(data["at_infinity"]))
+                   int(data["failed"]), int(data["at_infinity"]), int(data.get("undecided", 0)))
 
 
 @dataclass
@@ -356,6 +370,11 @@ class SweepResult:
     def failed(self):
         """Paths that failed, over all values."""
         return sum(v.failed for v in self.values)
+
+    @property
+    def undecided(self):
+        """Points whose real or complex judgement is undecided, over all values (decision 0104)."""
+        return sum(v.undecided for v in self.values)
 
     def real_counts(self):
         """Distinct real solutions per value, shape (K,)."""
@@ -668,14 +687,18 @@ def _members(family, run, values, per_value, options, exact=None):
             paths.append(len(group))
         distinct = np.array(distinct)
         real_value = real_family and np.all(np.abs(np.asarray(value).imag) == 0)
-        real = real_value & np.all(np.abs(distinct.imag) <= options.real_tolerance * (1 + np.abs(distinct)), axis=1)
-        if real_value and failed == 0:
-            # near the discriminant a real solution is computed only to about the square root of the precision:
-            # its imaginary part sits at the fixed tolerance, and the count flipped with the seed
-            real |= real_by_separation(distinct, options.real_separation)
+        undecided = np.zeros(len(distinct), dtype=bool)
+        if real_value:
+            # every path of the member ended at a finite point: no conjugate can be missing (decision 0104)
+            real, undecided = judge_real(distinct, failed == 0 and infinite == 0, options.real_tolerance,
+                                         options.real_separation)
+        else:
+            real = np.zeros(len(distinct), dtype=bool)
         for index, is_real in settled.items():  # decided at 40 digits
             real[index] = real_value and is_real
-        members.append(MemberSolutions(value, distinct, real, kinds, np.array(paths, dtype=np.int64), failed, infinite))
+            undecided[index] = False
+        members.append(MemberSolutions(value, distinct, real, kinds, np.array(paths, dtype=np.int64), failed, infinite,
+                                       int(np.sum(undecided))))
     return members
 
 
@@ -864,6 +887,57 @@ def real_by_separation(points, fraction=1e-3):
     distance = np.linalg.norm(points[:, None, :] - points[None, :, :], axis=2)
     np.fill_diagonal(distance, np.inf)
     return imaginary <= fraction * distance.min(axis=1)
+
+
+def judge_real(points, complete, tolerance=1e-8, fraction=1e-3):
+    """Which solutions of a real member are real, which are not, and which cannot be told (decision 0104).
+
+    The solutions of a real system are closed under conjugation. A solution is *real* when its imaginary part
+    is below ``tolerance`` of its size (plus one: points are in balanced units), or, when the member is
+    ``complete`` (every path ended at a finite point), below ``fraction`` of its distance to the nearest other
+    solution (:func:`real_by_separation`). Any other solution is not real, so its conjugate must be among the
+    solutions: another point nearer to conj(z) than a quarter of |z - conj(z)|, each the other's nearest. A
+    non-real point without that partner is a contradiction (a conjugate lost: a path jumped onto a point at
+    infinity that every member has, or a point too inaccurate to be told real): it is *undecided*, and so
+    is the member's real count. With every non-real point paired, the real count has the parity of the number
+    of solutions, as it must. Both tests compare distances within one member: scale-free, and unchanged by a
+    real change of coordinates up to its condition (common practice, no source).
+
+    Parameters
+    ----------
+    points : ndarray, shape (S, n)
+        The distinct finite solutions of one real member.
+    complete : bool
+        Whether no path of the member failed or went to infinity.
+    tolerance, fraction : float
+
+    Returns
+    -------
+    real, undecided : ndarray of bool, shape (S,)
+
+    Examples
+    --------
+    >>> pair = np.array([[2.6 + 0j, -2.4j], [2.6 + 0j, 2.4j]])
+    >>> [flags.tolist() for flags in judge_real(pair, complete=True)]
+    [[False, False], [False, False]]
+    >>> [flags.tolist() for flags in judge_real(pair[:1], complete=False)]  # its conjugate was lost
+    [[False], [True]]
+    """
+    points = np.atleast_2d(np.asarray(points, dtype=complex))
+    if len(points) == 0:
+        return np.zeros(0, dtype=bool), np.zeros(0, dtype=bool)
+    real = np.all(np.abs(points.imag) <= tolerance * (1 + np.abs(points)), axis=1)
+    if complete:
+        # near the discriminant a real solution is computed only to about the square root of the precision:
+        # its imaginary part sits at the fixed tolerance, and the count flipped with the seed
+        real |= real_by_separation(points, fraction)
+    to_conjugates = np.linalg.norm(points.conj()[:, None, :] - points[None, :, :], axis=2)
+    np.fill_diagonal(to_conjugates, np.inf)
+    partner = np.argmin(to_conjugates, axis=1)
+    imaginary = np.linalg.norm(points.imag, axis=1)
+    paired = (to_conjugates[np.arange(len(points)), partner] <= imaginary / 2) \
+        & (partner[partner] == np.arange(len(points))) & ~real[partner]
+    return real, ~real & ~paired
 
 
 def _has_close_pair(points, tolerance):

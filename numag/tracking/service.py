@@ -408,9 +408,12 @@ def _repair_jumps(run, starts, options, batch_size, executor, projective, tolera
     for round_ in range(JUMP_ROUNDS + 1):
         crossed = _crossed(run, projective, tolerance)
         broken = _broken_cycles(run) if whole_cycles else []
-        if len(crossed) == 0 and len(broken) == 0:
+        stationary = _on_stationary_points(run, options.singular_condition)
+        if len(crossed) == 0 and len(broken) == 0 and len(stationary) == 0:
             return
         if round_ == JUMP_ROUNDS:
+            run.status[stationary] = PathStatus.FAILED_JUMP
+            run.endpoints[stationary] = np.nan
             labels = _same_endpoint_labels(run.homotopy, run.endpoints[crossed], projective, tolerance)
             for members in groups(labels):
                 run.status[crossed[members[1:]]] = PathStatus.FAILED_JUMP
@@ -426,6 +429,7 @@ def _repair_jumps(run, starts, options, batch_size, executor, projective, tolera
                 run.endpoints[excess[1:] if keep else excess] = np.nan
             return
         crossed = np.union1d(crossed, np.concatenate(broken)) if broken else crossed
+        crossed = np.union1d(crossed, stationary).astype(np.int64)
         run.jump_retracks += len(crossed)
         if round_ == FRESH_GAMMA_ROUND and fresh_homotopy is not None:
             run.homotopy, starts = fresh_homotopy()
@@ -475,6 +479,27 @@ def _crossed(run, projective, tolerance):
         return np.zeros(0, dtype=np.int64)
     labels = _same_endpoint_labels(run.homotopy, run.endpoints[regular], projective, tolerance, points)
     return regular[np.bincount(labels)[labels] > 1]
+
+
+def _on_stationary_points(run, singular_condition):
+    """Paths that ended regularly at a point at infinity that the homotopy has at every s: they jumped.
+
+    Through a regular solution of H(X, s) = 0 passes one solution curve; at a point that solves H for every s
+    that curve is the constant one, so a path from a finite start cannot end there with winding number 1
+    (two circles share the circular points at infinity in every member of a family, and a sweep's path that
+    jumped onto one lost a real solution without a trace; decision 0104). A homotopy says which of its points
+    are such points with ``stationary(points)``; others have none.
+    """
+    if not hasattr(run.homotopy, "stationary"):
+        return np.zeros(0, dtype=np.int64)
+    # regular: winding number 1 and a well-conditioned endpoint (where a finite solution runs into such a point at a
+    # special member the endpoint is singular, and the argument says nothing)
+    ends = np.nonzero((run.status == PathStatus.AT_INFINITY) & (run.winding == 1)
+                      & (run.condition <= singular_condition))[0]
+    ends = ends[np.all(np.isfinite(run.endpoints[ends]), axis=1)]
+    if len(ends) == 0:
+        return ends
+    return ends[np.asarray(run.homotopy.stationary(run.endpoints[ends]), dtype=bool)]
 
 
 def _broken_cycles(run):

@@ -53,7 +53,7 @@ def add_parser(commands):
 def _failed(result):
     tracked = sum(result.paths.get(label, 0) for label in FAILURE_LABELS)
     traced = result.curve.failed_arcs + undecided_special_points(result.curve) if result.curve is not None else 0
-    return tracked + sum(r.count.failed for r in result.regions) + traced
+    return tracked + sum(r.count.failed + r.count.undecided for r in result.regions) + traced
 
 
 def _count_text(count):
@@ -62,6 +62,14 @@ def _count_text(count):
     if count.kind is CountKind.BRANCHES:
         return counted(count.branches, "real branch", "real branches")
     return "not counted (members of dimension 2 or more)"
+
+
+def _unsure_text(count):
+    """Why a region's count is not sure: failed paths, solutions not told real or complex (decision 0104)."""
+    why = ([f"{counted(count.failed, 'path')} failed"] if count.failed else []) + \
+        ([f"{counted(count.undecided, 'solution')} neither real nor paired with its conjugate: undecided"]
+         if count.undecided else [])
+    return f"  ({'; '.join(why)})" if why else ""
 
 
 def _interval(low, high, floor=None):
@@ -100,8 +108,7 @@ def _print(result, out):
                 where = f"{result.parameters[0]} = {region.line:.6g}, {result.parameters[1]} in {where}"
             else:
                 where = f"{names} in {where}"
-            failed = f"  ({counted(region.count.failed, 'path')} failed)" if region.count.failed else ""
-            out.write(f"  {where}: {_count_text(region.count)}{failed}\n")
+            out.write(f"  {where}: {_count_text(region.count)}{_unsure_text(region.count)}\n")
     if result.curve is not None:
         _print_curve(result, out)
     for note in result.notes:
@@ -129,9 +136,9 @@ def _print_curve(result, out):
         out.write(f"\n{counted(len(result.plane_regions), 'region')} of the plane (cells joined where the curve does "
                   "not separate them; one sample each)\n")
         for k, region in enumerate(result.plane_regions, 1):
-            failed = f"  ({counted(region.count.failed, 'path')} failed)" if region.count.failed else ""
             out.write(f"  {k:3d}  sample {first}={region.sample[0]:.6g}, {second}={region.sample[1]:.6g}: "
-                      f"{_count_text(region.count)}; {counted(len(region.cells), 'cell')}{failed}\n")
+                      f"{_count_text(region.count)}; {counted(len(region.cells), 'cell')}"
+                      f"{_unsure_text(region.count)}\n")
 
 
 def run(args, out):

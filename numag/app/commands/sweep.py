@@ -99,6 +99,9 @@ def _print(result, out):
               f"{counted(result.start_solutions, 'solution')} per member (from a random complex member); "
               f"seed {result.seed}\n")
     out.write(f"paths: {result.paths.get('tracked', 0)} tracked, {result.failed} failed; {result.seconds:.2f} s\n\n")
+    if result.undecided:
+        out.write(f"warning: {counted(result.undecided, 'solution')} neither real nor paired with its conjugate: "
+                  "the real counts of their values are undecided (see --csv or --output)\n\n")
     out.write("real solutions by value (runs of equal counts)\n")
     start = 0
     names = result.parameters
@@ -136,4 +139,4 @@ def run(args, out):
         out.write(dumps(result.to_dict()) + "\n")
     else:
         _print(result, out)
-    return EXIT_UNDECIDED if result.failed or result.paths.get("start_failed") else EXIT_OK
+    return EXIT_UNDECIDED if result.failed or result.undecided or result.paths.get("start_failed") else EXIT_OK
