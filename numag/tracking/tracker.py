@@ -906,12 +906,18 @@ def _track(homotopy, start_points, opts, near=None, on_step=None):
                                       np.where(singular, PathStatus.SINGULAR_ENDPOINT, PathStatus.CONVERGED))
             # an estimate called infinite is confirmed from the path's own point at s = 0 (decision 0103)
             tracked = final[~finished][ok]
-            doubt = reached[~finished][ok] & ((status[target] == PathStatus.AT_INFINITY) | (
-                (status[target] == PathStatus.SINGULAR_ENDPOINT) & x0_invisible(homotopy, points, opts)))
+            # (or a singular endpoint that decision 0049's test would send there: solve's plane system after a
+            # linear change; such a one changes only to a zero regular by the tracker's own standard, since at a
+            # finite point of high multiplicity with X_0 invisible (a cone's vertex) Newton stalls far from it)
+            infinite_now = status[target] == PathStatus.AT_INFINITY
+            invisible = (status[target] == PathStatus.SINGULAR_ENDPOINT) & x0_invisible(homotopy, points, opts)
+            doubt = reached[~finished][ok] & (infinite_now | invisible)
             if np.any(doubt):
                 paths = target[doubt]
                 verdict, point, cond = confirm_infinity(homotopy, tracked[doubt])
-                finite = verdict == InfinityVerdict.FINITE
+                regular_enough = infinite_now[doubt] | (cond <= opts.singular_condition)
+                finite = (verdict == InfinityVerdict.FINITE) & regular_enough
+                verdict[~infinite_now[doubt] & ~finite] = InfinityVerdict.AT_INFINITY  # the endgame's verdict stands
                 if np.any(finite):
                     # a cycle that held a finite regular zero was not one branch at infinity: the winding numbers
                     # of the paths that shared its estimate are unknown, 1 is all that is sure (decision 0103)
@@ -1012,12 +1018,17 @@ def confirm_infinity(homotopy, points, iterations=CONFIRM_ITERATIONS):
     x = np.array(points, dtype=complex, copy=True)
     zeros = np.zeros(len(x), dtype=complex)
     last = before = np.full(len(x), np.inf)
+    halfway = x
     with np.errstate(all="ignore"):
-        for _ in range(iterations):
+        for k in range(iterations):
             values, jacobian, _ = homotopy.evaluate(x, zeros)
             delta = _solve(jacobian, values)
             x = x - delta
             before, last = last, np.linalg.norm(delta, axis=1) / np.linalg.norm(x, axis=1)
+            if k + 1 == iterations // 2:
+                halfway = x
+        # a regular zero: Newton has stood still at its rounding over the second half; a singular one: it crept on
+        moved = np.linalg.norm(x - halfway, axis=1) / np.linalg.norm(x, axis=1)
         known = np.all(np.isfinite(x), axis=1)  # Newton that left every bound (a singular J) tells nothing
         condition = np.full(len(x), np.inf)
         if np.any(known):
@@ -1029,9 +1040,10 @@ def confirm_infinity(homotopy, points, iterations=CONFIRM_ITERATIONS):
                                                         homotopy.row_scales(x[known]))
         relative_x0 = np.abs(x[:, 0]) / np.linalg.norm(x, axis=1)
         accuracy = np.maximum(np.maximum(last, before), np.finfo(float).eps * condition)
+        still = moved <= CONFIRM_MARGIN * accuracy
     known &= np.isfinite(accuracy) & np.isfinite(relative_x0)
-    finite = known & (relative_x0 > CONFIRM_MARGIN * accuracy)
-    undecided = known & ~finite & (relative_x0 > accuracy)
+    finite = known & still & (relative_x0 > CONFIRM_MARGIN * accuracy)
+    undecided = known & still & ~finite & (relative_x0 > accuracy)
     verdict = np.full(len(x), InfinityVerdict.AT_INFINITY, dtype=object)
     verdict[finite] = InfinityVerdict.FINITE
     verdict[undecided] = InfinityVerdict.UNDECIDED
