@@ -42,7 +42,7 @@ from ..numeric.seeds import random_state
 from .homotopy import ParameterHomotopy, StraightLineHomotopy
 from .starts import StartKind, choose_start
 from .service import PathCounts, track
-from .tracker import PathStatus, StartArray, TrackerOptions
+from .tracker import PathStatus, StartArray, TrackerOptions, x0_invisible
 
 __all__ = ["SolveOptions", "Execution", "Solution", "SolveResult", "solve_system", "continue_solutions",
            "lost_first_stage_paths"]
@@ -741,7 +741,51 @@ def _not_converged(result):
         return []
     points = np.array([np.asarray(s.point, dtype=complex) for s in single])
     steps = _newton_steps(result.system, result.scaling, points)
-    return [s for s, step in zip(single, steps) if not step <= _NEWTON_STEP]
+    digits = (result.options or SolveOptions()).refine_digits
+    return [s for s, step in zip(single, steps)
+            if not step <= _NEWTON_STEP and not _rounded_root(result.system, result.scaling, s, digits)]
+
+
+#: Newton's second step at most this fraction of its first (extended precision): the point lies where Newton
+#: converges quadratically to one root, no other root within about 1 / this many times its error (decision 0103).
+_CONTRACTION = 1e-2
+
+
+def _rounded_root(system, scaling, solution, digits):
+    """Whether a regular endpoint that one Newton step in double precision moves too far is a root known to rounding.
+
+    A regular root whose unknowns mix large and small sizes (a finite solution of size 1e3 after a linear change of
+    coordinates, decision 0103) is known in double precision only to condition * eps, and one Newton step there is
+    that rounding, above ``_NEWTON_STEP``. A mean of two close roots (the case :func:`_not_converged` is for) is
+    as far from both as they are from each other. Newton in extended precision tells them apart by its rate: from
+    a root's rounded point the second step is the square of the first (relative to the distance to other roots),
+    from the mean of two it is about half the first. When the second step is at most ``_CONTRACTION`` of the first,
+    the solution's point becomes the refined one (its rounding removed; the real test is taken again).
+    """
+    import mpmath  # here, not at import: only regular endpoints Newton moves too far are looked at
+    from ..numeric.refine import mp_scaled_equations
+    point = np.asarray(solution.point, dtype=complex)
+    with mpmath.mp.workdps(digits + 10):
+        ctx = mpmath.mp
+        equations = mp_scaled_equations(PrecisionEvaluator(system.polynomials), TermSizes(system.polynomials), ctx)
+        z = ctx.matrix([ctx.mpc(v) for v in point])
+        sizes = []
+        try:
+            for _ in range(3):
+                values, jacobian = equations(z)
+                step = ctx.lu_solve(jacobian, values)
+                z = z - step
+                moved = scaling.to_computed(np.array([[complex(z[j]) for j in range(z.rows)],
+                                                      [complex(z[j] + step[j]) for j in range(z.rows)]]))
+                sizes.append(float(np.linalg.norm(moved[0] - moved[1]) / (1 + np.linalg.norm(moved[0]))))
+        except (ZeroDivisionError, ValueError):  # a singular Jacobian on the way: no root known to rounding
+            return False
+    refined = np.array([complex(z[j]) for j in range(z.rows)])
+    if not (np.all(np.isfinite(refined)) and sizes[1] <= _CONTRACTION * sizes[0]):
+        return False
+    solution.point = refined
+    solution.real = bool(system.has_real_coefficients and np.all(np.abs(refined.imag) <= 1e-8 * (1 + np.abs(refined))))
+    return True
 
 
 def _within(scaling, centre, radius, solution):
@@ -953,11 +997,7 @@ def _unresolved_infinity(homotopy, endpoints, status, tracker):
     singular = np.nonzero(status == PathStatus.SINGULAR_ENDPOINT)[0]
     if len(singular) == 0:
         return singular
-    at_infinity = endpoints[singular].copy()
-    at_infinity[:, 0] = 0
-    with np.errstate(all="ignore"):
-        residual = homotopy.target_residual(at_infinity)
-    return singular[residual <= tracker.endpoint_residual]
+    return singular[x0_invisible(homotopy, endpoints[singular], tracker)]
 
 
 def _satisfies(system, point, tolerance=1e-8):

@@ -49,13 +49,15 @@ import enum
 import numpy as np
 
 from ..errors import is_integer, is_number, require_option
+from ..kinds import TextEnum
 from ..run.executor import check_memory
+from ..numeric.cluster import cluster_labels, normalize_projective
 from .methods import (ERROR_FLOOR, RK4, STEP_MAX_FACTOR, STEP_MIN_FACTOR, STEP_REJECT_FACTOR, STEP_SAFETY,  # noqa: F401
                       ButcherTableau)
 from .rescue import track_segment_precise
 
 __all__ = ["PathStatus", "TrackerOptions", "TrackResult", "track_paths", "projective_condition", "Stepper",
-           "ButcherTableau", "RK4", "rescue_budget"]
+           "ButcherTableau", "RK4", "rescue_budget", "x0_invisible", "confirm_infinity", "InfinityVerdict"]
 
 
 #: Work of the precision rescue (term evaluations in mpmath, about 30 us each at 40 digits) for one path and for
@@ -902,7 +904,150 @@ def _track(homotopy, start_points, opts, near=None, on_step=None):
             singular = (loops[ok] > 1) | (cond > opts.singular_condition)
             status[target] = np.where(infinite, PathStatus.AT_INFINITY,
                                       np.where(singular, PathStatus.SINGULAR_ENDPOINT, PathStatus.CONVERGED))
+            # an estimate called infinite is confirmed from the path's own point at s = 0 (decision 0103)
+            tracked = final[~finished][ok]
+            # (or a singular endpoint that decision 0049's test would send there: solve's plane system after a
+            # linear change; such a one changes only to a zero regular by the tracker's own standard, since at a
+            # finite point of high multiplicity with X_0 invisible (a cone's vertex) Newton stalls far from it)
+            infinite_now = status[target] == PathStatus.AT_INFINITY
+            invisible = (status[target] == PathStatus.SINGULAR_ENDPOINT) & x0_invisible(homotopy, points, opts)
+            doubt = reached[~finished][ok] & (infinite_now | invisible)
+            if np.any(doubt):
+                paths = target[doubt]
+                verdict, point, cond = confirm_infinity(homotopy, tracked[doubt])
+                regular_enough = infinite_now[doubt] | (cond <= opts.singular_condition)
+                finite = (verdict == InfinityVerdict.FINITE) & regular_enough
+                verdict[~infinite_now[doubt] & ~finite] = InfinityVerdict.AT_INFINITY  # the endgame's verdict stands
+                if np.any(finite):
+                    # a cycle that held a finite regular zero was not one branch at infinity: the winding numbers
+                    # of the paths that shared its estimate are unknown, 1 is all that is sure (decision 0103)
+                    labels = cluster_labels(normalize_projective(endpoints[target]), _CYCLE_ESTIMATES,
+                                            projective=True)
+                    shared = np.isin(labels, labels[doubt][finite])
+                    winding[target[shared]] = 1
+                endpoints[paths[finite]] = point[finite]
+                condition[paths[finite]] = cond[finite]
+                winding[paths[finite]] = 1
+                status[paths[finite]] = PathStatus.CONVERGED
+                status[paths[verdict == InfinityVerdict.UNDECIDED]] = PathStatus.FAILED_ENDGAME
     return endpoints, status, steps, condition, winding, endgame
+
+
+def x0_invisible(homotopy, points, opts):
+    """Whether the target cannot tell each point's X_0 from 0: with X_0 = 0 its scaled residual is at most
+    ``opts.endpoint_residual`` (decision 0049: such an endgame estimate is called a point at infinity).
+
+    Examples
+    --------
+    >>> import numpy as np
+    >>> from numag.system.parse import parse_system
+    >>> from numag.tracking.homotopy import StraightLineHomotopy
+    >>> homotopy = StraightLineHomotopy.total_degree(parse_system(["x*y - 1", "x^2 - 1"], ["x", "y"]),
+    ...                                              np.random.default_rng(0))
+    >>> x0_invisible(homotopy, np.array([[1e-12, 0, 1], [1, 1, 1]], dtype=complex), TrackerOptions()).tolist()
+    [True, False]
+    """
+    moved = np.array(points, dtype=complex, copy=True)
+    moved[:, 0] = 0
+    with np.errstate(all="ignore"):
+        residual = homotopy.target_residual(moved)
+    return residual <= opts.endpoint_residual
+
+
+class InfinityVerdict(TextEnum):
+    """What Newton on the target says of a path the endgame called infinite (:func:`confirm_infinity`)."""
+
+    FINITE = "finite"
+    AT_INFINITY = "at_infinity"
+    UNDECIDED = "undecided"
+
+
+#: Endgame estimates this close (relative, as lines) came from one cycle (the loose tolerance of cycle counts).
+_CYCLE_ESTIMATES = 1e-4
+#: Newton corrections on the target from a path's point at s = 0 when its endgame estimate was called infinite.
+#: Enough for a path creeping to a singular point at infinity (halving its distance at a double point) to get
+#: far below the accuracy where X_0 could still count as nonzero, while a regular zero stays where it is.
+CONFIRM_ITERATIONS = 16
+#: X_0 / ||X|| must exceed this many times the point's accuracy for a finite verdict; between 1 and this many
+#: times the accuracy the path is undecided.
+CONFIRM_MARGIN = 10.0
+
+
+def confirm_infinity(homotopy, points, iterations=CONFIRM_ITERATIONS):
+    """Judge again paths whose endgame estimate was called infinite, from their points at s = 0 (decision 0103).
+
+    The endgame averages over circles, and where finite regular zeros lie within 1e-3 of a multiple point at
+    infinity (a finite solution of size 1e3, which no change of units can bring nearer when the coordinates mix
+    large and small ones) one circle encloses them all: the estimate is the point at infinity. The path's own
+    point at s = 0 is near its own zero. Newton on the target from there stays at a regular zero (its corrections
+    fall to its accuracy) and creeps towards a singular one (by a fixed ratio per correction), so after
+    ``iterations`` corrections a path to a singular point at infinity has X_0 far below its accuracy. The
+    accuracy of X_0 / ||X|| is the larger of the last two corrections and eps times the projective condition:
+    above ``CONFIRM_MARGIN`` times it the zero is finite, at most once it the endgame's verdict stands, between
+    the two numag cannot tell.
+
+    Parameters
+    ----------
+    homotopy : Homotopy
+        Its points are homogeneous coordinates on a patch, X_0 first.
+    points : ndarray, shape (P, N)
+        The paths' points at s = 0.
+    iterations : int
+
+    Returns
+    -------
+    verdict : ndarray of InfinityVerdict (object)
+    points : ndarray, shape (P, N)
+        Where Newton ended.
+    condition : ndarray, shape (P,)
+        Projective condition there.
+
+    Examples
+    --------
+    >>> import numpy as np
+    >>> from numag.system.parse import parse_system
+    >>> from numag.tracking.homotopy import StraightLineHomotopy
+    >>> system = parse_system(["x - 1000*y", "y^2 - 1"], ["x", "y"])
+    >>> homotopy = StraightLineHomotopy.total_degree(system, np.random.default_rng(0))
+    >>> near = np.array([[1e-3, 1, 1e-3]]) * (1 + 1e-6)
+    >>> near = near / (near @ homotopy.projective_patch)[:, None]
+    >>> verdict, point, _ = confirm_infinity(homotopy, near)
+    >>> verdict[0].value, round(float((point[0, 1] / point[0, 0]).real))
+    ('finite', 1000)
+    """
+    x = np.array(points, dtype=complex, copy=True)
+    zeros = np.zeros(len(x), dtype=complex)
+    last = before = np.full(len(x), np.inf)
+    halfway = x
+    with np.errstate(all="ignore"):
+        for k in range(iterations):
+            values, jacobian, _ = homotopy.evaluate(x, zeros)
+            delta = _solve(jacobian, values)
+            x = x - delta
+            before, last = last, np.linalg.norm(delta, axis=1) / np.linalg.norm(x, axis=1)
+            if k + 1 == iterations // 2:
+                halfway = x
+        # a regular zero: Newton has stood still at its rounding over the second half; a singular one: it crept on
+        moved = np.linalg.norm(x - halfway, axis=1) / np.linalg.norm(x, axis=1)
+        known = np.all(np.isfinite(x), axis=1)  # Newton that left every bound (a singular J) tells nothing
+        condition = np.full(len(x), np.inf)
+        if np.any(known):
+            _, jacobian, _ = homotopy.evaluate(x[known], zeros[known])
+            usable = np.all(np.isfinite(jacobian), axis=(1, 2))
+            known[known] = usable
+            if np.any(usable):
+                condition[known] = projective_condition(jacobian[usable], x[known],
+                                                        homotopy.row_scales(x[known]))
+        relative_x0 = np.abs(x[:, 0]) / np.linalg.norm(x, axis=1)
+        accuracy = np.maximum(np.maximum(last, before), np.finfo(float).eps * condition)
+        still = moved <= CONFIRM_MARGIN * accuracy
+    known &= np.isfinite(accuracy) & np.isfinite(relative_x0)
+    finite = known & still & (relative_x0 > CONFIRM_MARGIN * accuracy)
+    undecided = known & still & ~finite & (relative_x0 > accuracy)
+    verdict = np.full(len(x), InfinityVerdict.AT_INFINITY, dtype=object)
+    verdict[finite] = InfinityVerdict.FINITE
+    verdict[undecided] = InfinityVerdict.UNDECIDED
+    return verdict, x, condition
 
 
 def track_paths(homotopy, start_points, options=None, progress=None):
