@@ -28,7 +28,7 @@ from numag.witness.decompose import decompose
 
 from test_check_far import exact_text, system_of
 
-X, Y, Z = sympy.symbols("x y z")
+X, Y, Z, W = sympy.symbols("x y z w")
 
 #: name -> (equations F, variables, generators R of X's ideal (by hand), the point, X singular there). The equations
 #: are common practice, no source; the embedded point of (x^2, x y): Cox, Little and O'Shea 2015, ch. 4 sec. 8.
@@ -42,6 +42,14 @@ CASES = {
     "cusp in a doubled plane": ([Y ** 2 - X ** 3, X * Z, Y * Z, Z ** 2], (X, Y, Z), [Z, Y ** 2 - X ** 3], (0, 0, 0),
                                 True),
     "two crossing lines": ([X * Y, Z, X * Z], (X, Y, Z), [Z, X * Y], (0, 0, 0), True),
+    # a point of an embedded curve: Newton's samples of X next to it fall onto that curve (x and y halve together)
+    # and once made it "non-reduced"; the plane is reduced and smooth there
+    "plane, embedded line": ([X ** 2, X * Y], (X, Y, Z), [X], (0, 0, 5), False),
+    "plane, embedded parabola": ([Z ** 2, Z * (X - Y ** 2)], (X, Y, Z), [Z], (1, 1, 0), False),
+    # the Whitney umbrella x^2 = y^2 z in the hyperplane w = 0, cut out with w's multiples: a point of its double
+    # line is singular (its ideal there is the reduced complete intersection (w, x^2 - y^2 z)), not non-reduced
+    "umbrella in a doubled hyperplane": ([W ** 2, W * X, W * Y, W * Z, X ** 2 - Y ** 2 * Z], (X, Y, Z, W),
+                                         [W, X ** 2 - Y ** 2 * Z], (0, 0, 1, 0), True),
 }
 
 #: the user's coordinates u with the model's m = M u: units 1000 times larger and smaller, a rational linear change
@@ -49,8 +57,8 @@ CHANGES = {
     "unit": lambda n: sympy.eye(n),
     "times 1000": lambda n: sympy.eye(n) / 1000,
     "times 1/1000": lambda n: sympy.eye(n) * 1000,
-    "linear": lambda n: sympy.Matrix([[1, sympy.Rational(1, 2), 0], [0, 1, sympy.Rational(1, 3)],
-                                      [sympy.Rational(1, 5), 0, 1]])[:n, :n],
+    "linear": lambda n: sympy.Matrix([[1, sympy.Rational(1, 2), 0, 0], [0, 1, sympy.Rational(1, 3), 0],
+                                      [sympy.Rational(1, 5), 0, 1, 0], [0, 0, sympy.Rational(1, 7), 1]])[:n, :n],
 }
 
 
@@ -59,7 +67,7 @@ def changed(name, change):
     equations, variables, radical, point, singular = CASES[name]
     n = len(variables)
     matrix = CHANGES[change](n)
-    user = sympy.symbols("u v s")[:n]
+    user = sympy.symbols("u v s t")[:n]
     substitution = dict(zip(variables, matrix * sympy.Matrix(user)))
 
     def moved(expressions):

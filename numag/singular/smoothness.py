@@ -950,7 +950,18 @@ class _Checker:
                          f"({self.system.ambient_dimension - codim}): they lie on a larger component, and whether "
                          "it passes through this point is not settled; give the local dimension to decide.")
         near = near.drops if verdict is Verdict.SINGULAR else None
-        if verdict is Verdict.SINGULAR and near:
+        reduced_here = bool(through and len(through) == 1 and opts.local_dimension is None and through[0].reduced)
+        if verdict is Verdict.SINGULAR and near and reduced_here:
+            # The decomposition found the Jacobian of full rank at the component's witness points, generic points
+            # of it: it is generically reduced, whatever the samples say. Newton's projection onto V(F) follows
+            # the equations' non-reduced structure into a lower-dimensional set where the rank drops ((x^2, x y):
+            # each step halves y with x, so every sample lands on the embedded line x = y = 0). The point is
+            # judged as on a reduced component (X's local multiplicity, decision 0105, when there are more
+            # equations than the codimension).
+            notes.append(f"The rank also drops at the sampled points of X next to this one, but component "
+                         f"{through[0].id} has full rank at its witness points (generically reduced): the samples "
+                         "lie where the equations are not reduced, not on generic points of X.")
+        elif verdict is Verdict.SINGULAR and near:
             verdict = Verdict.NON_REDUCED
             notes.append("The rank also drops at every sampled nearby point of X: the equations define X "
                          "with multiplicity > 1 here (generically non-reduced), so the Jacobian cannot see "
