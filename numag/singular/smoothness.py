@@ -950,7 +950,11 @@ class _Checker:
                          f"({self.system.ambient_dimension - codim}): they lie on a larger component, and whether "
                          "it passes through this point is not settled; give the local dimension to decide.")
         near = near.drops if verdict is Verdict.SINGULAR else None
-        reduced_here = bool(through and len(through) == 1 and opts.local_dimension is None and through[0].reduced)
+        # Only with more equations than the codimension: a complete intersection's ideal is unmixed (no embedded
+        # set for the samples to fall onto), and there the samples keep overruling a "reduced" that rounding gave
+        # the decomposition (a doubled plane shifted to (1234, -2345, 3456): its witness point looked regular)
+        reduced_here = bool(through and len(through) == 1 and opts.local_dimension is None and through[0].reduced
+                            and codim is not None and self.m > codim)
         if verdict is Verdict.SINGULAR and near and reduced_here:
             # The decomposition found the Jacobian of full rank at the component's witness points, generic points
             # of it: it is generically reduced, whatever the samples say. Newton's projection onto V(F) follows
