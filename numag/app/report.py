@@ -244,6 +244,11 @@ def completeness_warnings(data):
         warnings.append(f"{counted(mismatched, 'candidate component')} of the rank-drop system had a tangent space of "
                         "another dimension than its witness slicing: that decomposition may be wrong and singular "
                         "pieces may be missing; run again with another --seed or --formulation to compare.")
+    inside = _discarded(data, "embedded_component_unsearched")
+    if inside:  # the minors vanish all along an embedded component: its singular points are no candidates (0108)
+        warnings.append(f"{counted(inside, 'embedded component')} of the equations (the Jacobian drops rank all "
+                        "along it, X smooth at its generic point): singular points of X inside it are not separated "
+                        "by the rank condition and were not searched; undecided there.")
     paths_block = data.get("paths") or {}
     if int((paths_block.get("endpoints") or {}).get("degree_check_failed", 0)):
         warnings.append("The components' degrees times multiplicities do not add up as Bezout's theorem requires "
@@ -774,6 +779,7 @@ def singular_to_dict(result, options):
         "discarded": dict(result.discarded),
         "near_singular": [p.to_dict(encode_point) for p in result.near_singular],
         "embedded_points": [encode_point(p) for p in result.embedded],  # decision 0105: X smooth there
+        "embedded_components": [_singular_component(c) for c in result.embedded_components],  # decision 0108
         "notes": list(result.notes),
         "seconds": result.seconds,
         "caution": CAUTION,
@@ -795,15 +801,16 @@ def singular_from_dict(data):
                               decompose=DecomposeOptions(witness=WitnessOptions(lowest_dimension=o["lowest_dimension"])))
     if data.get("options_in_full") is not None:  # absent before decision 0078
         options = options_from_dict(SingularOptions, data["options_in_full"])
-    components = []
-    for d in data["components"]:
+    def piece(d):
         points = np.array([decode_point(p) for p in d["points"]], dtype=complex)
-        components.append(SingularComponent(
+        return SingularComponent(
             id=int(d["id"]), dimension=int(d["dimension"]), degree=int(d["degree"]), points=points,
             real=np.array(d["real"], dtype=bool), multiplicity=d["multiplicity"], at_infinity=bool(d["at_infinity"]),
             formulation=CandidateSystem.parse(d["formulation"], "formulation"),
             kind=PieceKind.parse(d["kind"], "kind"), on_components=list(d["on_components"]), rank=d["rank"],
-            codimension=d["codimension"], notes=list(d["notes"])))
+            codimension=d["codimension"], notes=list(d["notes"]))
+
+    components = [piece(d) for d in data["components"]]
     counts = _path_counts_from_dict(data)
     variety = None
     if data["variety"]:
@@ -827,7 +834,8 @@ def singular_from_dict(data):
                            near_singular=[NearSingularPoint.from_dict(d, decode_point)
                                           for d in data.get("near_singular") or []],
                            embedded=[np.asarray(decode_point(p), dtype=complex)  # absent before decision 0105
-                                     for p in data.get("embedded_points") or []])
+                                     for p in data.get("embedded_points") or []],
+                           embedded_components=[piece(d) for d in data.get("embedded_components") or []])  # 0108
     return result, options
 
 
@@ -1228,6 +1236,8 @@ def compare_to_dict(comparison):
                       "chart": reference.chart, "exact_points": reference.exact_points,
                       "non_reduced_degrees": reference.non_reduced_degrees,
                       "rank_drop_points": reference.rank_drop_points, "embedded_points": reference.embedded_points,
+                      "rank_drop_dimension": reference.rank_drop_dimension,
+                      "rank_drop_degree": reference.rank_drop_degree,
                       "points": None if reference.points is None else [encode_point(p) for p in reference.points]},
         "scope": comparison.scope,
         "notes": list(comparison.notes),
@@ -1259,7 +1269,8 @@ def compare_from_dict(data):
         points=None if points is None else [list(decode_point(p)) for p in points],
         exact_points=r["exact_points"], chart=r["chart"], message=r["message"],
         non_reduced_degrees=r.get("non_reduced_degrees"),  # absent before decision 0096
-        rank_drop_points=r.get("rank_drop_points"), embedded_points=r.get("embedded_points"))  # ... before 0105
+        rank_drop_points=r.get("rank_drop_points"), embedded_points=r.get("embedded_points"),  # ... before 0105
+        rank_drop_dimension=r.get("rank_drop_dimension"), rank_drop_degree=r.get("rank_drop_degree"))  # ... 0108
     rows = [ComparisonRow(row["quantity"], row["numag"], row["exact"], row["agree"]) for row in data["rows"]]
     return Comparison(locus.system, locus, reference, rows, _decode_float(data["max_distance"]),
                       _decode_float(data["digits_of_agreement"]), float(data["numag_seconds"]),
