@@ -110,6 +110,8 @@ def test_each_point_at_infinity_once_at_the_top_forms_zero_or_flagged(name, vari
     flagged, wrong, missing = judge(result, directions, finite, bezout)
     # a point printed must be right even when the run is flagged; unflagged, every point is there once
     assert wrong == 0 and missing == 0, (flagged, result.at_infinity, [np.round(d, 6) for d in directions])
+    # every exact point at infinity of these systems is real (sympy above): printed as real
+    assert all(np.all(d.imag == 0) for d in directions) and all(s.real for s in result.at_infinity)
 
 
 @pytest.mark.parametrize("seed", [1, 2, 3])

@@ -1089,18 +1089,21 @@ def _collect(system, endpoints, status, winding, condition, options, rng, forms=
     if len(infinite):
         if forms is None:  # the paths of random combinations: their points at infinity are the combinations'
             points = normalize_projective(endpoints[infinite])
-            found = [(members, points[members[0]]) for members in
+            found = [(members, points[members[0]], 1e-8) for members in
                      groups(cluster_labels(points, options.cluster_tolerance, projective=True))]
         else:
             # located on the top-degree forms and grouped by their accuracy; what cannot be decided is failed
             # (decision 0106)
             located = locate_at_infinity(forms, endpoints[infinite], options.cluster_tolerance)
-            found = [(members, normalize_projective(located.point(members))) for members in located.groups]
+            # a multiple point is known to its refinement's accuracy (1e-8 at a double one): below it, an
+            # imaginary part does not make the point complex
+            found = [(members, normalize_projective(located.point(members)),
+                      max(1e-8, float(located.accuracy[members].max()))) for members in located.groups]
             if located.undecided:
                 unsettled = infinite[np.concatenate(located.undecided)]
-        for members, point in found:
+        for members, point, accuracy in found:
             paths = infinite[members]
-            real = bool(real_coefficients and np.all(np.abs(point.imag) <= 1e-8 * (1 + np.abs(point))))
+            real = bool(real_coefficients and np.all(np.abs(point.imag) <= accuracy * (1 + np.abs(point))))
             at_infinity.append(Solution(point=point, multiplicity=len(members), winding=int(winding[paths].max()),
                                         at_infinity=True, real=real, condition=float(condition[paths].min()),
                                         isolated=True, paths=paths, digits=16))
