@@ -294,3 +294,19 @@ def test_a_line_that_misses_a_real_crossing_of_a_double_line_in_the_region_is_co
     # a crossing beyond the region does not count: the region cut to b, c in [0.2, 10]
     far = (np.array([0.2, 0.2]), np.array([10.0, 10.0]))
     assert _lines_missing_points(t_values, twice, moves, classes, values, far).tolist() == [0] * 6
+
+
+def test_points_missed_on_lines_reach_the_warnings_and_the_exit_code():
+    from numag.app.commands.discriminant import _failed
+    from numag.app.report import discriminant_warnings
+    from numag.families.discriminant import Discriminant
+
+    def result(missed):
+        paths = {"tracked": 10, MISSED_ON_LINES: missed} if missed else {"tracked": 10}
+        return Discriminant(("x",), ("b", "c"), ["x"], 1, [], np.zeros(0), [], paths, [], 1, 0.0)
+
+    assert _failed(result(0)) == 0 and discriminant_warnings(result(0)) == []
+    assert _failed(result(2)) == 2
+    assert any("2 points of multiple components" in w for w in discriminant_warnings(result(2)))
+    again = Discriminant.from_dict(result(2).to_dict())  # saved and reloaded, still counted
+    assert _failed(again) == 2
