@@ -327,6 +327,31 @@ def test_grids_and_value_files(tmp_path):
                 out=io.StringIO()) == 2
 
 
+def test_the_sweep_csv_has_an_undecided_column_as_the_readme_says(tmp_path):
+    import csv
+    import dataclasses
+    import pathlib
+    import re
+
+    from numag.app.commands.sweep import _csv_text
+
+    # x^2 = p: two real roots for p > 0, none for p < 0 (common practice, no source)
+    family = family_from_mapping({"variables": ["x"], "parameters": ["p"], "equations": ["x^2 - p"]})
+    result = sweep(family, [[1.0], [-1.0]], seed=1)
+    rows = list(csv.DictReader(io.StringIO(_csv_text(result))))
+    assert [(r["p"], r["real_solutions"], r["undecided"]) for r in rows] == [("1", "2", "0"), ("1", "2", "0"),
+                                                                             ("-1", "0", "0")]
+    assert sorted(float(r["x"]) for r in rows[:2]) == pytest.approx([-1.0, 1.0], abs=1e-12)
+    # a value whose count is undecided (decision 0104) says so in its rows
+    doubtful = dataclasses.replace(result, values=[dataclasses.replace(result.values[1], undecided=2)])
+    assert [r["undecided"] for r in csv.DictReader(io.StringIO(_csv_text(doubtful)))] == ["2"]
+    # the README documents the header the command writes
+    readme = (pathlib.Path(__file__).resolve().parents[1] / "README.md").read_text()
+    header = next(csv.reader(io.StringIO(_csv_text(result))))
+    documented = re.search(r"`--csv` writes one row per real solution.*?then the unknowns", readme, re.S).group(0)
+    assert all(f"`{name}`" in documented for name in header[1:-1])
+
+
 def test_command_line_tables_pictures_and_saved_results(tmp_path):
     import xml.dom.minidom
 

@@ -43,6 +43,7 @@ from ..numeric.linalg import RankEvidence
 from ..numeric.scaling import Scaling
 from ..tracking.solve import Solution, SolveOptions, SolveResult, lost_first_stage_paths
 from ..tracking.tracker import FAILURE_LABELS, PathStatus, TrackerOptions
+from ..families.records import MISSED_ON_LINES
 
 if TYPE_CHECKING:  # the stages are imported where their results are converted: `numag solve` starts faster
     from ..certify.records import CertifyOptions, Claim
@@ -298,6 +299,10 @@ def discriminant_warnings(result):
     if region_undecided:
         warnings.append(f"{counted(region_undecided, 'solution')} of the regions' sample members could be told "
                         "neither real nor paired with a conjugate: those real counts are undecided")
+    missed = result.paths.get(MISSED_ON_LINES, 0)
+    if missed:
+        warnings.append(f"{counted(missed, 'point')} of multiple components of the discriminant missed on the lines "
+                        "they cross (their moves failed): the curve or the cells may lack them there")
     if result.curve is not None and result.curve.failed_arcs:
         warnings.append(f"{counted(result.curve.failed_arcs, 'arc end')} of the traced curve failed")
     if result.curve is not None and undecided_special_points(result.curve):

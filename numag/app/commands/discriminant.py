@@ -10,7 +10,7 @@ from ...system.safeio import write_file
 from ...tracking.tracker import FAILURE_LABELS
 from ...families.discriminant import DiscriminantOptions, discriminant
 from ...families.branches import CountKind
-from ...families.records import ComponentKind
+from ...families.records import MISSED_ON_LINES, ComponentKind
 from ..picture import discriminant_svg, sweep_svg
 from ..report import CAUTION, discriminant_warnings, dumps, undecided_special_points
 from ..saved import save
@@ -53,7 +53,8 @@ def add_parser(commands):
 def _failed(result):
     tracked = sum(result.paths.get(label, 0) for label in FAILURE_LABELS)
     traced = result.curve.failed_arcs + undecided_special_points(result.curve) if result.curve is not None else 0
-    return tracked + sum(r.count.failed + r.count.undecided for r in result.regions) + traced
+    return tracked + sum(r.count.failed + r.count.undecided for r in result.regions) + traced \
+        + result.paths.get(MISSED_ON_LINES, 0)
 
 
 def _count_text(count):

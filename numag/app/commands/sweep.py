@@ -80,11 +80,13 @@ def read_values(path, parameters):
 def _csv_text(result):
     out = io.StringIO()
     writer = csv.writer(out, lineterminator="\n")
-    writer.writerow(list(result.parameters) + ["real_solutions", "rank_drops", "failed_paths", "solution", "kind"]
-                    + list(result.variables))
+    # undecided: solutions of the value told neither real nor paired with their conjugate (decision 0104); where
+    # it is not 0 the real count beside it is not sure (the command exits 3)
+    writer.writerow(list(result.parameters) + ["real_solutions", "rank_drops", "failed_paths", "undecided", "solution",
+                                               "kind"] + list(result.variables))
     for member in result.values:
         head = [f"{complex(v).real:.17g}" for v in member.parameters] + [
-            member.real_count, len(member.rank_drops), member.failed]
+            member.real_count, len(member.rank_drops), member.failed, member.undecided]
         real = np.nonzero(member.real)[0]
         if len(real) == 0:
             writer.writerow(head + ["", ""] + [""] * len(result.variables))
