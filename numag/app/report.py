@@ -743,11 +743,15 @@ def decomposition_from_dict(data):
 # --- singular ------------------------------------------------------------------------------------
 
 def _singular_component(c):
+    from ..singular.locus import POINT_TOLERANCE
     return {"id": c.id, "dimension": c.dimension, "degree": c.degree,
             "points": [encode_point(p) for p in c.points], "real": [bool(r) for r in c.real],
             "multiplicity": None if c.multiplicity is None else int(c.multiplicity), "at_infinity": c.at_infinity,
             "formulation": c.formulation, "kind": c.kind, "on_components": [int(k) for k in c.on_components],
-            "rank": c.rank, "codimension": c.codimension, "notes": list(c.notes)}
+            "rank": c.rank, "codimension": c.codimension, "notes": list(c.notes),
+            # the relative tolerance the points were judged singular at: what `check --points-file` takes as
+            # their accuracy (decision 0110), not the 17 digits they are printed with
+            "point_tolerance": POINT_TOLERANCE}
 
 
 def singular_to_dict(result, options):
@@ -1141,6 +1145,13 @@ def certify_report(data, options=None, progress=None, executor=None):
     every = [results[k] for k in range(len(slots))]
     for k, (entry, key, _, _) in enumerate(slots):
         encoded = certificate_to_dict(results[k])
+        if command == "check" and encoded.get("status") == Status.CERTIFIED:
+            # decision 0110: a box that does not hold the point the verdict is about is no proof for that point
+            # (the point is stored in doubles: its rounding, a few units of 2^-52 of its size, is not a distance)
+            size = math.sqrt(1.0 + sum(re * re + im * im for re, im in entry["point"]))
+            encoded["holds_judged_point"] = not (isinstance(encoded.get("distance"), float)
+                                                 and isinstance(encoded.get("radius"), float)
+                                                 and encoded["distance"] > encoded["radius"] + 2.0 ** -48 * size)
         if key == "certificates":
             entry[key].append(encoded)
         else:

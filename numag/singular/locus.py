@@ -692,7 +692,7 @@ def _judged_again(centred, shift, pieces, local, notes, options, seed, why):
     """
     if not pieces:
         return []
-    check_options = CheckOptions(max_digits=options.digits, backward_errors=False, point_tolerance=_POINT_TOLERANCE)
+    check_options = CheckOptions(max_digits=options.digits, backward_errors=False, point_tolerance=POINT_TOLERANCE)
     moved = np.array([c.points[0] - shift for c in pieces])
     verdicts = _judge_all(centred, list(moved), check_options, seed, local.variety)
     # Newton cannot settle a point where f is far from zero and J vanishes (the quartic's centre, f = 4 there,
@@ -1074,7 +1074,7 @@ def _affine(system, options, rng, paths, discarded, progress, notes_out=None, ro
     found, oracles = [], []  # the pieces kept, and for each positive-dimensional one its membership test
     codimensions = sorted({n - c.dimension for c in variety.components})
     check_options = CheckOptions(max_digits=options.digits, backward_errors=False,  # measured in _near_singular
-                                 point_tolerance=_POINT_TOLERANCE)
+                                 point_tolerance=POINT_TOLERANCE)
     for codimension in codimensions:
         if codimension == 0:
             continue
@@ -1311,7 +1311,8 @@ def _judge(system, point, options, seed, variety, first=None):
 _CANDIDATE_TOLERANCE = 1e-3
 #: The check's point tolerance for candidates first (relative): computed points, whose accuracy the endgame sets,
 #: not their digits (decision 0072 judges user data by its digits; candidates keep the check's former default).
-_POINT_TOLERANCE = 1e-6
+#: Saved with each piece as its points' stated accuracy, which `check --points-file` uses (decision 0110).
+POINT_TOLERANCE = 1e-6
 #: Isolated singular points closer than this (relative) are one point.
 _DUPLICATE_RADIUS = 1e-6
 
@@ -1459,7 +1460,7 @@ def _confirmed_by_check(system, pieces, rng, discarded, dropped=None):
     seed = int(rng.integers(2**32))
     points = [piece.points[0] for piece in pieces]
     # a point that cannot be settled on X comes back "off" (each point is judged on its own)
-    verdicts = check_points(system, points, CheckOptions(backward_errors=False, point_tolerance=_POINT_TOLERANCE),
+    verdicts = check_points(system, points, CheckOptions(backward_errors=False, point_tolerance=POINT_TOLERANCE),
                             seed=seed).points
     kept = []
     for piece, verdict in zip(pieces, verdicts):
