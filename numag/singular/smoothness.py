@@ -97,6 +97,10 @@ _DOUBLE_CLEAR_VALUE = 1e-6
 #: this multiple of it (smooth, with a c-th singular value above _DOUBLE_CLEAR_SMOOTH). Anything else
 #: is in doubt and goes to mpmath at rising precision.
 _DOUBLE_NEAR, _DOUBLE_FAR, _DOUBLE_CLEAR_SMOOTH = 0.5, 100.0, 1e-8
+#: Exact input (decision 0109): a rank drop settled in double (scaled residual 1e-13, Gauss-Newton's acceptance at
+#: about 17 digits) already separates it from a change of the coefficients' last written digit when the separation
+#: digits are at most this (integer Chebyshev curves: 14, the six-bar: 12); beyond, it is confirmed in mpmath.
+_DOUBLE_SEPARATES = DOUBLE_DIGITS + 1
 #: Rounded data without a point tolerance (decision 0072): the nearest point of X must be within this many data
 #: radii of the given point (else "off"), and a rank drop within as many radii leaves the verdict undecided.
 DATA_MARGIN = 10.0
@@ -640,7 +644,8 @@ class _Checker:
                 # conics; decision 0038's amendment); those, and points given exactly, go to the escalation.
                 if (distance <= _DOUBLE_NEAR * tolerance and drops.conditioning[row] >= _DOUBLE_REGULAR
                         and (exact is None or exact[position] is None)):
-                    if self.exact_input:  # confirmed beyond the input's last digit, else escalated (0109)
+                    if self.exact_input and self.separation(found) > _DOUBLE_SEPARATES:
+                        # confirmed beyond the input's last digit, else escalated (decision 0109)
                         confirmed = self.confirmed_in_exact_input(found, codim, given[position], tolerance)
                         if confirmed is not None:
                             self.settled[number[position]] = confirmed
