@@ -75,6 +75,31 @@ def test_every_command_that_reads_a_system_takes_at(tmp_path):
     assert main(["singular", path, "--at", "p=0,q=0", "--seed", "1"], out=io.StringIO()) in (0, 3)
 
 
+
+@pytest.mark.parametrize("seed", [1, 2, 3])
+def test_family_commands_fix_some_parameters_with_at(tmp_path, seed):
+    # x^3 + p x + q at p = -3: the discriminant -4 p^3 - 27 q^2 = 108 - 27 q^2 vanishes at q = +-2, with 3 real
+    # roots between and 1 outside (common practice, no source)
+    path = _write(tmp_path, "cubic.toml", CUBIC)
+    out = io.StringIO()
+    assert main(["discriminant", path, "--at", "p=-3", "--seed", str(seed), "--json"], out=out) == 0
+    data = json.loads(out.getvalue())
+    assert data["parameters"] == ["q"]
+    assert np.allclose(sorted(complex(*v).real if isinstance(v, list) else float(v) for v in data["real_points"]),
+                       [-2, 2], atol=1e-8)
+    out = io.StringIO()
+    assert main(["sweep", path, "--at", "p=-3", "--grid", "q=-3:3:7", "--seed", str(seed)], out=out) == 0
+    assert "q=-1 to q=1: 3" in out.getvalue() and "q=-3: 1" in out.getvalue()
+
+
+@pytest.mark.parametrize("at, words", [("p=-3,q=1", "leave at least one free"), ("r=1", "not a parameter"),
+                                       ("p=", "not of the form")])
+def test_fixing_every_or_an_unknown_parameter_is_refused(tmp_path, capsys, at, words):
+    path = _write(tmp_path, "cubic.toml", CUBIC)
+    for command in (["discriminant", path], ["sweep", path, "--grid", "q=0:1:2"]):
+        assert main(command + ["--at", at], out=io.StringIO()) == 2
+        assert words in capsys.readouterr().err
+
 # --- the cubic x^3 + p x + q ------------------------------------------------------------------------------
 
 @pytest.fixture(scope="module")

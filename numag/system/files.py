@@ -277,8 +277,10 @@ def system_from_mapping(data, path=None, allow_parameters=False):
         raise SystemFileError(str(err), path) from None
 
 
-def parse_point_assignment(text, variables, index=None):
+def parse_point_assignment(text, variables, index=None, partial=False):
     """Read ``"x=1, y=2+I"`` into exact coordinates in variable order.
+
+    With ``partial``, variables may be left out: a dictionary of the given ones (name -> value) is returned.
 
     Raises
     ------
@@ -298,6 +300,8 @@ def parse_point_assignment(text, variables, index=None):
         if name in values:
             raise PointError(f"'{name}' is given twice", index)
         values[name] = _coordinate(value, name, index)
+    if partial:
+        return {v: values[v] for v in variables if v in values}
     missing = [v for v in variables if v not in values]
     if missing:
         raise PointError(f"no value for {', '.join(missing)}", index)
