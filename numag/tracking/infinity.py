@@ -19,7 +19,6 @@ import numpy as np
 from ..numeric.cluster import close_line_pairs, connected_components, groups, line_distance
 from ..numeric.evaluate import BatchEvaluator, TermSizes
 from ..numeric.linalg import batched_least_squares
-from ..numeric.refine import ROUNDING_RESIDUAL
 from ..system.polynomial import Polynomial
 
 __all__ = ["InfinityPoints", "top_forms", "locate_at_infinity"]
@@ -176,6 +175,9 @@ def locate_at_infinity(polynomials, endpoints, tolerance):
     >>> bool(abs(located.point(located.groups[0])[1]) < 1e-6)
     True
     """
+    # refine (with its mpmath helpers) is loaded only where points at infinity are located: a plain solve of
+    # finite solutions imports numpy alone (decision 0051; tests/test_startup.py)
+    from ..numeric.refine import ROUNDING_RESIDUAL
     endpoints = np.atleast_2d(np.asarray(endpoints, dtype=complex))
     count = len(endpoints)
     if count == 0:
