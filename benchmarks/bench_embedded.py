@@ -13,10 +13,9 @@ counted, the wrong ones, and the CPU seconds of check (decomposition included). 
 import argparse
 import collections
 import os
-import sys
 import time
 
-import checkout  # noqa: F401  (this checkout's numag, not an installed one)
+import checkout  # this checkout's numag, not an installed one
 
 
 def main():
@@ -24,12 +23,7 @@ def main():
     parser.add_argument("--quick", action="store_true", help="units x1 and the linear change only, seed 1")
     parser.add_argument("--checkout", help="the numag checkout to measure (default: this one)")
     args = parser.parse_args()
-    here = os.path.dirname(os.path.dirname(os.path.abspath(__file__)))
-    if args.checkout:
-        sys.path.insert(0, os.path.abspath(args.checkout))
-        for name in [m for m in sys.modules if m == "numag" or m.startswith("numag.")]:
-            del sys.modules[name]
-    sys.path.insert(0, os.path.join(here, "tests"))
+    checkout.measure_other(args.checkout)
     from test_check_embedded import CASES, CHANGES, changed, radical_by_hand  # the cases and their sympy check
     from test_check_far import exact_text, system_of
     import numag

@@ -21,10 +21,9 @@ embedded point).
 import argparse
 import collections
 import os
-import sys
 import time
 
-import checkout  # noqa: F401  (this checkout's numag, not an installed one)
+import checkout  # this checkout's numag, not an installed one
 
 
 def main():
@@ -34,12 +33,7 @@ def main():
     parser.add_argument("--umbrella", action="store_true", help="also the umbrella in a doubled hyperplane (slow)")
     parser.add_argument("--only", help="run only the cases whose name contains this text")
     args = parser.parse_args()
-    here = os.path.dirname(os.path.dirname(os.path.abspath(__file__)))
-    if args.checkout:
-        sys.path.insert(0, os.path.abspath(args.checkout))
-        for name in [m for m in sys.modules if m == "numag" or m.startswith("numag.")]:
-            del sys.modules[name]
-    sys.path.insert(0, os.path.join(here, "tests"))
+    checkout.measure_other(args.checkout)
     import sympy
     from test_embedded_locus import CASES, CHANGES, changed  # the cases and their sympy check
     from test_check_far import system_of
