@@ -102,6 +102,17 @@ def test_a_computed_point_just_off_the_circle_is_not_smooth_and_singular_within_
     (verdict,) = check_points(system, points, seed=seed, accuracies=accuracies).points
     assert verdict.verdict is Verdict.SINGULAR and verdict.judged is JudgedPoint.RANK_DROP
     assert any("accuracy stated" in note for note in verdict.notes)
+    # a report written before reports stated it: its points are computed all the same, and `check` reads them with
+    # the tolerance singular judges at (before: taken as exact 17-digit data)
+    del report["components"][0]["point_tolerance"]
+    accuracies = []
+    points = points_from_json(report, ["X", "Y", "Z"], accuracies, unstated_tolerance=1e-6)
+    assert accuracies == [1e-6]
+    (verdict,) = check_points(system, points, seed=seed, accuracies=accuracies).points
+    assert verdict.verdict is Verdict.SINGULAR and verdict.judged is JudgedPoint.RANK_DROP
+    accuracies = []
+    points_from_json(report, ["X", "Y", "Z"], accuracies)  # a reader that supplies none: the point is data
+    assert accuracies == [None]
 
 
 @pytest.mark.parametrize("seed", SEEDS)

@@ -356,12 +356,17 @@ _REPORT_POINTS = {
     "check": lambda report: report.get("points"),
     "solve": lambda report: report.get("solutions"),
     # each point with the relative accuracy its report states (the tolerance it was judged singular at,
-    # decision 0110), absent in reports written before it was saved
-    "singular": lambda report: [{"point": point, "point_tolerance": component.get("point_tolerance")}
+    # decision 0110); reports written before it was saved state none (UNSTATED: the reader supplies it)
+    "singular": lambda report: [{"point": point, "point_tolerance": component.get("point_tolerance", UNSTATED)}
                                 for component in _listed(report.get("components"))
                                 if isinstance(component, dict) and component.get("at_infinity") is False
                                 for point in _listed(component.get("points"))],
 }
+
+
+#: The ``point_tolerance`` of a point of a saved ``singular`` report that states none (written before decision
+#: 0110): its points are numerical all the same, so the reader's ``unstated_tolerance`` stands for it.
+UNSTATED = object()  # not a JSON value: a report cannot state it
 
 
 def _listed(value):
@@ -385,11 +390,13 @@ def _report_points(data, variables):
     return points
 
 
-def points_from_json(data, variables, accuracies=None):
+def points_from_json(data, variables, accuracies=None, unstated_tolerance=None):
     """Points from decoded JSON (see the module documentation for the accepted shapes).
 
     ``accuracies``: a list to which each point's stated relative accuracy is appended (an item's
     ``point_tolerance``, as a saved report of ``singular`` gives it; None where not stated).
+    ``unstated_tolerance``: the accuracy of the points of a saved ``singular`` report that states none (one
+    written before the reports stated it): its points were computed, never exact, whatever digits they carry.
 
     Examples
     --------
@@ -412,7 +419,8 @@ def points_from_json(data, variables, accuracies=None):
     for index, item in enumerate(data, 1):
         accuracy = None
         if isinstance(item, dict) and "point" in item and not set(item) <= set(variables):
-            accuracy = _stated_accuracy(item.get("point_tolerance"), index)
+            stated = item.get("point_tolerance")
+            accuracy = unstated_tolerance if stated is UNSTATED else _stated_accuracy(stated, index)
             item = item["point"]
         if accuracies is not None:
             accuracies.append(accuracy)
@@ -443,10 +451,11 @@ def _stated_accuracy(value, index):
     return float(value)
 
 
-def load_points(path, variables, accuracies=None):
-    """Read points from a JSON file (see :func:`points_from_json`, also for ``accuracies``)."""
+def load_points(path, variables, accuracies=None, unstated_tolerance=None):
+    """Read points from a JSON file (see :func:`points_from_json`, also for ``accuracies`` and
+    ``unstated_tolerance``)."""
     data = loads_json(read_limited(path, MAX_INPUT_BYTES, "points file"), os.fspath(path))
     try:
-        return points_from_json(data, variables, accuracies)
+        return points_from_json(data, variables, accuracies, unstated_tolerance)
     except PointError as err:
         raise PointError(f"{os.fspath(path)}: {err}") from None

@@ -163,7 +163,9 @@ def run(args, out):
               for index, text in enumerate(args.point, 1)]
     accuracies = [None] * len(points)  # a saved singular report states its points' accuracy (decision 0110)
     if args.points_file:
-        points += load_points(args.points_file, system.variables, accuracies)
+        from ...singular.locus import POINT_TOLERANCE  # here: the module is large, and --help needs none of it
+        # an older singular report states no accuracy: its points get the tolerance they were judged at
+        points += load_points(args.points_file, system.variables, accuracies, unstated_tolerance=POINT_TOLERANCE)
     if not points:
         raise NumagError("no points to check: give --point x=..,y=.. or --points-file FILE.json")
     options = CheckOptions(local_dimension=args.local_dimension, point_tolerance=args.point_tolerance,
