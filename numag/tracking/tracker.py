@@ -980,7 +980,8 @@ def x0_invisible(homotopy, points, opts):
 INFINITY_SAMPLES = 14
 #: The local exponents alpha_k = log|X_0(s_k+1) / X_0(s_k)| / log(shrink) of this many last samples must agree ...
 INFINITY_STEADY_SAMPLES = 4
-#: ... to within this fraction of their mean (a finite limit has alpha_k -> 0, never a steady positive value) ...
+#: ... to within this fraction of their mean, which must exceed 1 / (2 max_winding) (a branch to infinity of winding
+#: number w has alpha >= 1 / w; a finite limit has alpha_k -> 0, never a steady positive value) ...
 INFINITY_STEADY_SPREAD = 0.25
 #: ... and Newton on the target from the path's point at s = 0 must take X_0 / ||X|| below the tracker's
 #: ``infinity_threshold`` within this many corrections, never rising over the second half of them.
@@ -1054,7 +1055,7 @@ def heading_to_infinity(homotopy, points, radius, ends, opts):
         alpha = np.log(x0[1:] / x0[:-1]) / np.log(opts.endgame_shrink)
         recent = alpha[-INFINITY_STEADY_SAMPLES:]
         mean = np.mean(recent, axis=0)
-        steady = (np.all(np.isfinite(recent), axis=0) & (mean > 0)
+        steady = (np.all(np.isfinite(recent), axis=0) & (mean > 0.5 / opts.max_winding)
                   & (np.max(recent, axis=0) - np.min(recent, axis=0) <= INFINITY_STEADY_SPREAD * mean))
     last = samples[-1]
     heading = np.zeros(count, dtype=bool)
