@@ -35,7 +35,7 @@ from ..run.checkpoint import DamagedBatch
 from ..run.executor import InProcess
 from ..run.progress import tell_paths
 from ..numeric.cluster import cluster_labels, groups, normalize_projective
-from .tracker import FAILURE_LABELS, BatchTracker, PathStatus, StartArray, TrackerOptions
+from .tracker import FAILURE_LABELS, BatchTracker, PathStatus, StartArray, TrackerOptions, stopped_early
 
 __all__ = ["PathCounts", "add_path_counts", "TrackRun", "track", "JUMP_ROUNDS", "FRESH_GAMMA_ROUND", "JUMP_STEP_DIVISOR",
            "JUMP_PREDICTOR_ERROR_DIVISOR", "JUMP_TOLERANCE"]
@@ -74,6 +74,9 @@ class PathCounts:
         Re-tracks of paths that shared a regular endpoint, summed over the repair rounds.
     rescued_in_high_precision : int
         Paths whose last tracking ran in mpmath.
+    stopped_at_infinity : int
+        Of the paths at infinity, those stopped on their way there before the endgame, where the caller did not
+        want their ends (:func:`~numag.tracking.tracker.heading_to_infinity`, decision 0113).
 
     Examples
     --------
@@ -92,10 +95,12 @@ class PathCounts:
     retracked: int = 0
     retracked_after_jump: int = 0
     rescued_in_high_precision: int = 0
+    stopped_at_infinity: int = 0
 
     @classmethod
-    def of(cls, status, retracked=None, digits=None, retracked_after_jump=0):
-        """Counts from per-path statuses (and, optionally, the re-tracked flags and digits per path)."""
+    def of(cls, status, retracked=None, digits=None, retracked_after_jump=0, winding=None):
+        """Counts from per-path statuses (and, optionally, the re-tracked flags, digits and winding numbers per
+        path)."""
         status = np.asarray(status)
         return cls(tracked=int(len(status)),
                    converged=int(np.sum(status == PathStatus.CONVERGED)),
@@ -104,7 +109,8 @@ class PathCounts:
                    failed_by_reason={code.label: int(np.sum(status == code)) for code in PathStatus if code.failed},
                    retracked=0 if retracked is None else int(np.sum(retracked)),
                    retracked_after_jump=int(retracked_after_jump),
-                   rescued_in_high_precision=0 if digits is None else int(np.sum(np.asarray(digits) > 16)))
+                   rescued_in_high_precision=0 if digits is None else int(np.sum(np.asarray(digits) > 16)),
+                   stopped_at_infinity=0 if winding is None else int(np.sum(stopped_early(status, winding))))
 
     @property
     def failed(self):
@@ -125,14 +131,18 @@ class PathCounts:
                           retracked=self.retracked + other.retracked,
                           retracked_after_jump=self.retracked_after_jump + other.retracked_after_jump,
                           rescued_in_high_precision=self.rescued_in_high_precision
-                          + other.rescued_in_high_precision)
+                          + other.rescued_in_high_precision,
+                          stopped_at_infinity=self.stopped_at_infinity + other.stopped_at_infinity)
 
     def by_label(self):
-        """Paths per status label (failures by reason), plus ``retracked_after_jump`` when there were any."""
+        """Paths per status label (failures by reason), plus ``retracked_after_jump`` and ``stopped_at_infinity``
+        (a part of ``at_infinity``) when there were any."""
         labels = {"converged": self.converged, "singular_endpoint": self.singular_endpoint,
                   "at_infinity": self.at_infinity, **self.failed_by_reason}
         if self.retracked_after_jump:
             labels["retracked_after_jump"] = self.retracked_after_jump
+        if self.stopped_at_infinity:
+            labels["stopped_at_infinity"] = self.stopped_at_infinity
         return labels
 
     def add_to(self, counts):
@@ -157,7 +167,8 @@ class PathCounts:
         return {"tracked": self.tracked, "converged": self.converged, "singular_endpoint": self.singular_endpoint,
                 "at_infinity": self.at_infinity, "failed": self.failed,
                 "failed_by_reason": dict(self.failed_by_reason), "retracked": self.retracked,
-                "rescued_in_high_precision": self.rescued_in_high_precision}
+                "rescued_in_high_precision": self.rescued_in_high_precision,
+                "stopped_at_infinity": self.stopped_at_infinity}
 
 
 def add_path_counts(total, counts):
@@ -230,7 +241,7 @@ class TrackRun:
     @property
     def counts(self):
         """The paths by status, as :class:`PathCounts`."""
-        return PathCounts.of(self.status, self.retracked, self.digits, self.jump_retracks)
+        return PathCounts.of(self.status, self.retracked, self.digits, self.jump_retracks, self.winding)
 
     def affine_endpoints(self, jumped_limits=False):
         """Endpoints divided by X_0 (NaN where the path failed or went to infinity).
@@ -516,8 +527,11 @@ def _broken_cycles(run):
     list of ndarray
         Path indices of each group whose count is not a multiple of its winding number.
     """
-    ends = np.nonzero(np.isin(run.status, [PathStatus.SINGULAR_ENDPOINT, PathStatus.AT_INFINITY])
-                      & (run.winding >= 2))[0]
+    # once paths were stopped on their way to infinity (decision 0113), the paths at a point at infinity are no
+    # longer whole cycles: only singular endpoints are counted (two stopped paths on one track were caught there)
+    kinds = [PathStatus.SINGULAR_ENDPOINT] if np.any(stopped_early(run.status, run.winding)) \
+        else [PathStatus.SINGULAR_ENDPOINT, PathStatus.AT_INFINITY]
+    ends = np.nonzero(np.isin(run.status, kinds) & (run.winding >= 2))[0]
     if len(ends) == 0:
         return []
     points = run.endpoints[ends]
@@ -571,7 +585,9 @@ def _verified_batch(arrays, indices, homotopy, tracker_options):
         raise InputError("its arrays do not have the batch's shape")
     if not np.isin(status, [int(code) for code in PathStatus if code != PathStatus.RUNNING]).all():
         raise InputError("it holds unknown path statuses")
-    ends = np.isin(status, [PathStatus.CONVERGED, PathStatus.SINGULAR_ENDPOINT, PathStatus.AT_INFINITY])
+    # a path stopped on its way to infinity ends at its last sample, which solves no target (decision 0113)
+    ends = np.isin(status, [PathStatus.CONVERGED, PathStatus.SINGULAR_ENDPOINT, PathStatus.AT_INFINITY]) \
+        & ~stopped_early(status, arrays["winding"])
     points = endpoints[ends]
     if len(points):
         if not np.all(np.isfinite(points)):

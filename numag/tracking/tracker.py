@@ -57,7 +57,8 @@ from .methods import (ERROR_FLOOR, RK4, STEP_MAX_FACTOR, STEP_MIN_FACTOR, STEP_R
 from .rescue import track_segment_precise
 
 __all__ = ["PathStatus", "TrackerOptions", "TrackResult", "track_paths", "projective_condition", "Stepper",
-           "ButcherTableau", "RK4", "rescue_budget", "x0_invisible", "confirm_infinity", "InfinityVerdict"]
+           "ButcherTableau", "RK4", "rescue_budget", "x0_invisible", "confirm_infinity", "InfinityVerdict",
+           "heading_to_infinity", "stopped_early"]
 
 
 #: Work of the precision rescue (term evaluations in mpmath, about 30 us each at 40 digits) for one path and for
@@ -213,6 +214,11 @@ class TrackerOptions:
         condition is above ``singular_condition`` through the Cauchy endgame as well. Off for callers that only
         match endpoints to known points (moves of witness points between slices, decision 0093): the endgame
         then only confirms winding 1 at the point Newton gave, at the cost of its circles.
+    infinity_wanted : bool
+        Off for callers that discard endpoints at infinity (a regeneration, a cascade): a path that
+        :func:`heading_to_infinity` shows on its way there is stopped before the Cauchy endgame, with status
+        at infinity and winding number 0 (decision 0113). On (``numag solve``): every point at infinity is
+        located by the endgame.
     """
 
     initial_step: float = 0.1
@@ -237,6 +243,7 @@ class TrackerOptions:
     infinity_threshold: float = 1e-7
     singular_condition: float = 1e8
     endgame_if_settled: bool = True
+    infinity_wanted: bool = True
 
     def __post_init__(self):
         """Refuse a bad value on construction, naming the option: every size, tolerance and count is
@@ -887,6 +894,19 @@ def _track(homotopy, start_points, opts, near=None, on_step=None):
         winding[kept] = 1
         status[kept] = np.where(infinite[quiet], PathStatus.AT_INFINITY, PathStatus.SINGULAR_ENDPOINT)
         finished[np.flatnonzero(reached)[quiet]] = True
+    if not opts.infinity_wanted and np.any(~finished):
+        # paths heading to infinity stop here, before the endgame's circles, where their ends are not wanted
+        # (decision 0113): status at infinity, winding number 0 (not measured), the last sample as endpoint
+        position = np.flatnonzero(~finished)
+        paths = running[position]
+        ends = np.where(reached[position][:, None], final[position], np.nan)
+        heading, last, extra = heading_to_infinity(homotopy, near[paths], radius[paths], ends, opts)
+        steps[paths] += extra
+        stopped = paths[heading]
+        endpoints[stopped] = last[heading]
+        status[stopped] = PathStatus.AT_INFINITY
+        winding[stopped] = 0
+        finished[position[heading]] = True
     rest = running[~finished]
     if len(rest):
         endgame[rest] = True
@@ -952,6 +972,132 @@ def x0_invisible(homotopy, points, opts):
     with np.errstate(all="ignore"):
         residual = homotopy.target_residual(moved)
     return residual <= opts.endpoint_residual
+
+
+#: Samples of a path on its way to s = 0 at s = endgame_radius * endgame_shrink^k, k = 1 .. this (decision 0113):
+#: down to s ~ 4e-10 with the defaults, where X_0 of a branch of winding number 6 follows its power of s to a few
+#: per cent.
+INFINITY_SAMPLES = 14
+#: The local exponents alpha_k = log|X_0(s_k+1) / X_0(s_k)| / log(shrink) of this many last samples must agree ...
+INFINITY_STEADY_SAMPLES = 4
+#: ... to within this fraction of their mean, which must exceed 1 / (2 max_winding) (a branch to infinity of winding
+#: number w has alpha >= 1 / w; a finite limit has alpha_k -> 0, never a steady positive value) ...
+INFINITY_STEADY_SPREAD = 0.25
+#: ... and Newton on the target from the path's point at s = 0 must take X_0 / ||X|| below the tracker's
+#: ``infinity_threshold`` within this many corrections, never rising over the second half of them.
+INFINITY_NEWTON = 64
+
+
+def heading_to_infinity(homotopy, points, radius, ends, opts):
+    """Which paths are heading to a point at infinity, decided before the endgame (decision 0113).
+
+    Two tests, both needed. The path is followed on the segment to s_k = ``endgame_radius`` * ``endgame_shrink``^k;
+    on a branch to a point at infinity X_0 ~ c s^alpha with alpha = m / w > 0 (w the winding number), so the
+    local exponents log|X_0(s_k+1) / X_0(s_k)| / log(shrink) settle at one positive value, while towards a finite
+    limit they fall to 0. A steady positive exponent over the last samples is only a trend, since a far finite
+    zero with X_0 = b_0 looks the same while |c| s^alpha >> |b_0|. So Newton on the target at s = 0, from the path's
+    own point there (or its last sample), must also take X_0 / ||X|| below ``opts.infinity_threshold``, the level
+    at which the endgame calls its own estimates infinite. Newton goes to the path's own zero and creeps
+    towards a singular one, so it stops at |b_0| for a finite zero and never gets below it. A path that fails either
+    test, or whose last sample is shared with another path of the batch (a jump), goes on to the endgame.
+
+    Parameters
+    ----------
+    homotopy : object
+        Points are homogeneous coordinates on a patch, X_0 first.
+    points : ndarray, shape (P, N)
+        The paths at s = ``radius`` (at most ``endgame_radius``).
+    radius : ndarray, shape (P,)
+    ends : ndarray, shape (P, N)
+        The paths' points at s = 0 (NaN where the tracking did not get there).
+    opts : TrackerOptions
+
+    Returns
+    -------
+    heading : ndarray of bool, shape (P,)
+    last : ndarray, shape (P, N)
+        The last sample (NaN where the path failed on the way).
+    steps : ndarray of int, shape (P,)
+        Steps taken.
+
+    Examples
+    --------
+    >>> import numpy as np
+    >>> from numag.system.parse import parse_system
+    >>> from numag.tracking.homotopy import StraightLineHomotopy
+    >>> homotopy = StraightLineHomotopy.total_degree(parse_system(["x*y - 1", "x^2 - 4"], ["x", "y"]),
+    ...                                              np.random.default_rng(1))
+    >>> result = track_paths(homotopy, homotopy.start_solutions(), TrackerOptions(infinity_wanted=False))
+    >>> result.status_counts()["converged"], result.status_counts()["at_infinity"]
+    (2, 2)
+    """
+    count = len(points)
+    steps = np.zeros(count, dtype=np.int64)
+    grid = opts.endgame_radius * opts.endgame_shrink ** np.arange(1, INFINITY_SAMPLES + 1)
+    samples = np.full((len(grid),) + points.shape, np.nan, dtype=complex)
+    x = np.array(points, dtype=complex, copy=True)
+    t = np.array(radius, dtype=float)  # at least grid[0]: the kept points lie in [endgame_radius * shrink, radius]
+    alive = np.ones(count, dtype=bool)
+    for k, s in enumerate(grid):
+        rows = np.flatnonzero(alive)
+        if len(rows) == 0:
+            break
+        inward = Stepper(homotopy, x[rows], t[rows], np.full(len(rows), s), _Segment, rows, opts)
+        inward.run()
+        steps[rows] += inward.taken
+        ok = inward.status == PathStatus.RUNNING
+        x[rows[ok]] = inward.points[ok]
+        t[rows[ok]] = s
+        samples[k, rows[ok]] = inward.points[ok]
+        alive[rows[~ok]] = False
+    with np.errstate(all="ignore"):
+        x0 = np.abs(samples[:, :, 0]) / np.linalg.norm(samples, axis=2)
+        alpha = np.log(x0[1:] / x0[:-1]) / np.log(opts.endgame_shrink)
+        recent = alpha[-INFINITY_STEADY_SAMPLES:]
+        mean = np.mean(recent, axis=0)
+        steady = (np.all(np.isfinite(recent), axis=0) & (mean > 0.5 / opts.max_winding)
+                  & (np.max(recent, axis=0) - np.min(recent, axis=0) <= INFINITY_STEADY_SPREAD * mean))
+    last = samples[-1]
+    heading = np.zeros(count, dtype=bool)
+    if not np.any(steady):
+        return heading, last, steps
+    # Newton at s = 0 from the path's own point there, or from its last sample
+    rows = np.flatnonzero(steady)
+    start = np.where(np.all(np.isfinite(ends[rows]), axis=1)[:, None], ends[rows], last[rows])
+    z = start.copy()
+    zeros = np.zeros(len(rows), dtype=complex)
+    history = np.full((INFINITY_NEWTON, len(rows)), np.nan, dtype=complex)
+    with np.errstate(all="ignore"):
+        for k in range(INFINITY_NEWTON):
+            values, jacobian, _ = homotopy.evaluate(z, zeros)
+            z = z - _solve(jacobian, values)
+            history[k] = z[:, 0] / np.linalg.norm(z, axis=1)
+        # Aitken's extrapolation of X_0 / ||X|| from three consecutive corrections (common practice, no source):
+        # Newton's error shrinks by a steady ratio near a singular zero, so x_k = b_0 + a r^k + O(error^2)
+        steps_ = np.diff(history, axis=0)
+        limit = history[2:] - steps_[1:] ** 2 / (steps_[1:] - steps_[:-1])
+        small = np.abs(limit) <= opts.infinity_threshold  # NaN (no progress at all) is never small
+        three = small[:-2] & small[1:-1] & small[2:]
+        below = np.any(three, axis=0) & (np.abs(history[-1]) <= x0[-1, rows])
+    heading[rows[below]] = True
+    # two stopped paths at one point of one s are one path: a jump, which the endgame's cycle counts would see
+    chosen = np.flatnonzero(heading)
+    if len(chosen) > 1:
+        labels = cluster_labels(normalize_projective(last[chosen]), _CYCLE_ESTIMATES ** 1.5, projective=True)
+        heading[chosen[np.bincount(labels)[labels] > 1]] = False
+    return heading, last, steps
+
+
+def stopped_early(status, winding):
+    """Paths stopped on their way to infinity before the endgame (:func:`heading_to_infinity`): status at infinity
+    with winding number 0, the one mark they carry (their endpoint is their last sample, not a point at infinity).
+
+    Examples
+    --------
+    >>> stopped_early([PathStatus.AT_INFINITY, PathStatus.AT_INFINITY, PathStatus.FAILED_ENDGAME], [0, 2, 0]).tolist()
+    [True, False, False]
+    """
+    return (np.asarray(status) == PathStatus.AT_INFINITY) & (np.asarray(winding) == 0)
 
 
 class InfinityVerdict(TextEnum):

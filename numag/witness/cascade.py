@@ -391,6 +391,8 @@ def track_moves(start, target, points, rng, options, batch_size=4096, whole_cycl
         return made, made.start_solutions_from(points)
 
     homotopy, starts = homotopy_with_fresh_gamma()
+    # endpoints at infinity are dropped here: paths heading there stop before the endgame (decision 0113)
+    options = replace(options or TrackerOptions(), infinity_wanted=False)
     return track(homotopy, starts, options, executor=ambient_executor(-(-count // batch_size)),
                  batch_size=batch_size, fresh_homotopy=homotopy_with_fresh_gamma, whole_cycles=whole_cycles)
 
