@@ -30,7 +30,7 @@ from ..numeric.scaling import Scaling
 from ..system.display import counted
 from ..numeric.seeds import random_state
 from ..system.centred import CENTRED_BALANCING_FLOOR, centre_near, centred_system, translated_terms
-from ..witness.decompose import CENTRING_TERMS, centred_decomposition, decompose
+from ..witness.decompose import CENTRING_TERMS, centred_decomposition, curve_meets_hypersurface, decompose
 from .frame import cube_root_direction, frame_hessian, kernel_cubic
 from .hypersurface import anatomy_in_frame, corank_jump_shift, hessian_evidence, higher_a_shift, morse_alpha, \
     MORSE_ALPHA, HESSIAN_ZERO
@@ -784,7 +784,8 @@ def _system_component_anatomy(system, component, seed, options, isolated=None):
     notes = ["several equations: the transversal type is the anatomy of the normal slice (multiplicity, branches)"]
     if not options.special_points:
         return ComponentAnatomy(component.id, k, transversal, [], notes, special_points_searched=False)
-    candidates, why_not = _lagrangian_special_points(polynomials, generic, k, rng)
+    candidates, why_not = _lagrangian_special_points(
+        polynomials, scaling.to_computed(np.asarray(component.points, dtype=complex)), k, rng)
     if candidates is None:
         notes.append(f"special points not searched: {why_not}")
         return ComponentAnatomy(component.id, k, transversal, [], notes, special_points_searched=False)
@@ -800,7 +801,7 @@ def _system_component_anatomy(system, component, seed, options, isolated=None):
                             rejected_candidates=rejected)
 
 
-def _lagrangian_special_points(polynomials, generic, dimension, rng):
+def _lagrangian_special_points(polynomials, witness, dimension, rng):
     """Candidate special points (computed units) of a singular component of X = V(f_1, ..., f_c), or
     (None, why) when they cannot be searched.
 
@@ -824,6 +825,10 @@ def _lagrangian_special_points(polynomials, generic, dimension, rng):
     [[0.0, 0.0, 0.0, 0.0]]
     """
     c, n = len(polynomials), polynomials[0].n_variables
+    witness = np.atleast_2d(np.asarray(witness, dtype=complex))
+    if dimension != 1:
+        return None, "special points are searched on singular curves"
+    generic = witness[0]
     _, jacobians = BatchEvaluator(polynomials).evaluate(np.asarray(generic, dtype=complex)[None, :])
     sizes = TermSizes(polynomials).gradients(np.asarray(generic, dtype=complex)[None, :])[0]
     rows = np.where(sizes > 0, sizes, 1.0)
@@ -844,6 +849,45 @@ def _lagrangian_special_points(polynomials, generic, dimension, rng):
     evidence, _, unclear = hessian_evidence(lagrangian, np.concatenate([generic, null]))
     if unclear:
         return None, "the rank of the Lagrangian's Hessian at the generic point is unclear"
+    try:
+        determinants, minors = _lagrangian_determinants(polynomials, dimension, evidence.rank, rng)
+    except LimitError:
+        return None, "the compressed Hessian of the Lagrangian is too large to expand"
+    curve = list(polynomials) + [m * (1.0 / m.coefficient_norm()) for m in minors if not m.is_zero()]
+    found, _ = curve_meets_hypersurface(curve, witness, determinants[0], rng)
+    points = []
+    for point in _distinct_points(found):
+        # the rank of the whole bordered matrix there, with lambda from J's own left null vector
+        _, jacobians_here = BatchEvaluator(polynomials).evaluate(point[None, :])
+        null_here = np.linalg.svd(jacobians_here[0])[0][:, -1].conj()
+        at_point, _, unclear_here = hessian_evidence(lagrangian, np.concatenate([point, null_here]))
+        if unclear_here or at_point.rank < evidence.rank:   # an unclear rank is kept: its slice decides
+            points.append(point)
+    if c >= 2:
+        # where J drops rank by two or more: the curve's points on a random combination of J's (c-1)-minors,
+        # kept where the scaled Jacobian's rank is below c - 1 there (or unclear: the slice decides)
+        jacobian = [[f.derivative(j) for j in range(n)] for f in polynomials]
+        smaller = [determinant([[jacobian[i][j] for j in cols] for i in rows_])
+                   for rows_ in itertools.combinations(range(c), c - 1)
+                   for cols in itertools.combinations(range(n), c - 1)]
+        smaller = [m * (1.0 / m.coefficient_norm()) for m in smaller if not m.is_zero()]
+        weights = rng.standard_normal(len(smaller)) + 1j * rng.standard_normal(len(smaller))
+        deeper, _ = curve_meets_hypersurface(curve, witness, _combination(smaller, weights), rng)
+        for point in _distinct_points(deeper):
+            _, jacobians_here = BatchEvaluator(polynomials).evaluate(point[None, :])
+            sizes_here = TermSizes(polynomials).gradients(point[None, :])[0]
+            values_here = np.linalg.svd(jacobians_here[0] / np.where(sizes_here > 0, sizes_here, 1.0)[:, None],
+                                        compute_uv=False)
+            rank_here, width_here = widest_gap_rank(values_here, HESSIAN_ZERO, _KEPT_JACOBIAN)
+            if width_here < _CLEAR_DECADES or rank_here < c - 1:
+                points.append(point)
+    return _distinct_points(np.array(points, dtype=complex).reshape(-1, n)), None
+
+
+def _lagrangian_determinants(polynomials, dimension, rank, rng):
+    """(determinants, minors): ``dimension + 1`` compressed determinants of the bordered Hessian of the
+    Lagrangian in x alone (rank ``rank`` at a generic point of the component), and the c x c minors of J."""
+    c, n = len(polynomials), polynomials[0].n_variables
     # In x alone (a system in (x, lambda) with every minor was measured at 20 s for the umbrella on a graph in
     # C^4 and over 18 min after a linear change): lambda(x) as the generalised cross product of J R_1 (R_1 a
     # random n x (c - 1) matrix; J's rank is c - 1 along the component, so J R_1's is too at all but finitely
@@ -853,51 +897,24 @@ def _lagrangian_special_points(polynomials, generic, dimension, rng):
     jacobian = [[f.derivative(j) for j in range(n)] for f in polynomials]
     reduce = rng.standard_normal((n, c - 1)) + 1j * rng.standard_normal((n, c - 1))
     reduced = [[_combination(jacobian[i], reduce[:, m]) for m in range(c - 1)] for i in range(c)]
-    try:
-        multipliers = [determinant([reduced[r] for r in range(c) if r != i]) * ((-1.0) ** i) if c > 1
-                       else Polynomial.constant(1.0, n) for i in range(c)]
-        hessians = [[[g.derivative(j) for j in range(n)] for g in row] for row in jacobian]
-        lagrangian_hessian = [[_combination([hessians[i][a][b] for i in range(c)], multipliers)
-                               for b in range(n)] for a in range(n)]
-        bordered = [lagrangian_hessian[a] + [jacobian[i][a] for i in range(c)] for a in range(n)] + \
-                   [jacobian[i] + [Polynomial.zero(n)] * c for i in range(c)]
-        determinants = []
-        for _ in range(dimension + 1):
-            compress = rng.standard_normal((n + c, evidence.rank)) + 1j * rng.standard_normal((n + c, evidence.rank))
-            left = [[_combination([bordered[a][b] for a in range(n + c)], compress[:, i]) for b in range(n + c)]
-                    for i in range(evidence.rank)]
-            compressed = [[_combination(left[i], compress[:, j]) for j in range(evidence.rank)]
-                          for i in range(evidence.rank)]
-            determinants.append(determinant(compressed))
-        minors = [determinant([[jacobian[i][j] for j in cols] for i in range(c)])
-                  for cols in itertools.combinations(range(n), c)]
-    except LimitError:
-        return None, "the compressed Hessian of the Lagrangian is too large to expand"
-    names = [f"x{j}" for j in range(n)]
-    found = decompose(PolynomialSystem(names, list(polynomials) + [m for m in minors if not m.is_zero()]
-                                       + determinants), seed=int(rng.integers(2 ** 31)))
-    points = []
-    for comp in found.components:
-        if comp.dimension != 0:
-            continue
-        point = np.asarray(comp.points[0], dtype=complex)
-        # the rank of the whole bordered matrix there, with lambda from J's own left null vector
-        _, jacobians_here = BatchEvaluator(polynomials).evaluate(point[None, :])
-        null_here = np.linalg.svd(jacobians_here[0])[0][:, -1].conj()
-        at_point, _, unclear_here = hessian_evidence(lagrangian, np.concatenate([point, null_here]))
-        if unclear_here or at_point.rank < evidence.rank:   # an unclear rank is kept: its slice decides
-            points.append(point)
-    if c >= 2:
-        # where J drops rank by two or more: the (c-1)-minors of J with F
-        jacobian = [[f.derivative(j) for j in range(n)] for f in polynomials]
-        minors = [determinant([[jacobian[i][j] for j in cols] for i in rows_])
-                  for rows_ in itertools.combinations(range(c), c - 1)
-                  for cols in itertools.combinations(range(n), c - 1)]
-        deeper = decompose(PolynomialSystem([f"x{j}" for j in range(n)],
-                                            list(polynomials) + [m for m in minors if not m.is_zero()]),
-                           seed=int(rng.integers(2 ** 31)))
-        points += [np.asarray(comp.points[0], dtype=complex) for comp in deeper.components if comp.dimension == 0]
-    return _distinct_points(np.array(points, dtype=complex).reshape(-1, n)), None
+    multipliers = [determinant([reduced[r] for r in range(c) if r != i]) * ((-1.0) ** i) if c > 1
+                   else Polynomial.constant(1.0, n) for i in range(c)]
+    hessians = [[[g.derivative(j) for j in range(n)] for g in row] for row in jacobian]
+    lagrangian_hessian = [[_combination([hessians[i][a][b] for i in range(c)], multipliers)
+                           for b in range(n)] for a in range(n)]
+    bordered = [lagrangian_hessian[a] + [jacobian[i][a] for i in range(c)] for a in range(n)] + \
+               [jacobian[i] + [Polynomial.zero(n)] * c for i in range(c)]
+    determinants = []
+    for _ in range(dimension + 1):
+        compress = rng.standard_normal((n + c, rank)) + 1j * rng.standard_normal((n + c, rank))
+        left = [[_combination([bordered[a][b] for a in range(n + c)], compress[:, i]) for b in range(n + c)]
+                for i in range(rank)]
+        compressed = [[_combination(left[i], compress[:, j]) for j in range(rank)]
+                      for i in range(rank)]
+        determinants.append(determinant(compressed))
+    minors = [determinant([[jacobian[i][j] for j in cols] for i in range(c)])
+              for cols in itertools.combinations(range(n), c)]
+    return determinants, minors
 
 
 def _combination(polynomials, weights):
