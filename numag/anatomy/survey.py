@@ -854,7 +854,33 @@ def _lagrangian_special_points(polynomials, witness, dimension, rng):
     except LimitError:
         return None, "the compressed Hessian of the Lagrangian is too large to expand"
     curve = list(polynomials) + [m * (1.0 / m.coefficient_norm()) for m in minors if not m.is_zero()]
-    found, _ = curve_meets_hypersurface(curve, witness, determinants[0], rng)
+    import os
+    if os.environ.get("LIFT"):
+        size = n + c
+        hessian = [[lagrangian.derivative(a).derivative(b) for b in range(size)] for a in range(size)]
+        compress = rng.standard_normal((size, evidence.rank)) + 1j * rng.standard_normal((size, evidence.rank))
+        left_rows = [[_combination([hessian[a][b] for a in range(size)], compress[:, i]) for b in range(size)]
+                     for i in range(evidence.rank)]
+        lifted_g = determinant([[_combination(left_rows[i], compress[:, j]) for j in range(evidence.rank)]
+                                for i in range(evidence.rank)])
+        padded_f = [Polynomial(np.hstack([f.exponents, np.zeros((f.n_terms, c), dtype=np.int64)]),
+                               f.numeric_coefficients(), size) for f in polynomials]
+        normalise = Polynomial.constant(-1.0, size)
+        for i in range(c):
+            normalise = normalise + Polynomial.variable(n + i, size) * complex(pick[i])
+        lifted_curve = padded_f + [lagrangian.derivative(j) for j in range(n)] + [normalise]
+        lifted = []
+        for x in witness:
+            _, jx = BatchEvaluator(polynomials).evaluate(x[None, :])
+            sx = TermSizes(polynomials).gradients(x[None, :])[0]
+            rx = np.where(sx > 0, sx, 1.0)
+            lam = np.linalg.svd(jx[0] / rx[:, None])[0][:, -1].conj() / rx
+            lifted.append(np.concatenate([x, lam / (pick @ lam)]))
+        print("lifted g degree", lifted_g.degree, lifted_g.n_terms)
+        found_lifted, _ = curve_meets_hypersurface(lifted_curve, np.array(lifted), lifted_g, rng)
+        found = found_lifted[:, :n]
+    else:
+        found, _ = curve_meets_hypersurface(curve, witness, determinants[0], rng)
     points = []
     for point in _distinct_points(found):
         # the rank of the whole bordered matrix there, with lambda from J's own left null vector
