@@ -13,7 +13,6 @@ without a warning; then per case: right, flagged, silent, centred runs. ``--chec
 
 import argparse
 import pathlib
-import sys
 import time
 from fractions import Fraction
 
@@ -24,11 +23,7 @@ parser.add_argument("--checkout", type=pathlib.Path, default=None)
 args = parser.parse_args()
 import checkout  # noqa: E402,F401  (this checkout's numag ...)
 
-HERE = checkout.ROOT
-if args.checkout is not None:  # ... unless --checkout names another (put before it)
-    sys.path.insert(0, str(args.checkout.resolve()))
-
-sys.path.insert(1, str(HERE / "tests"))
+checkout.measure_other(args.checkout)  # ... unless --checkout names another
 import test_solve_far as far  # noqa: E402
 
 CASES = {"cubic": far.CUBIC, "cubic-small": far.CUBIC_SMALL, "double-and-simple": far.DOUBLE_AND_SIMPLE,

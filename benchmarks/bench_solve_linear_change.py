@@ -12,7 +12,6 @@ warning (exit 0). ``--checkout`` measures another checkout (the cases are read f
 import argparse
 import itertools
 import pathlib
-import sys
 import time
 
 parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
@@ -21,11 +20,7 @@ parser.add_argument("--checkout", type=pathlib.Path, default=None)
 args = parser.parse_args()
 import checkout  # noqa: E402,F401  (this checkout's numag ...)
 
-HERE = checkout.ROOT
-if args.checkout is not None:  # ... unless --checkout names another (put before it)
-    sys.path.insert(0, str(args.checkout.resolve()))
-
-sys.path.insert(1, str(HERE / "tests"))
+checkout.measure_other(args.checkout)  # ... unless --checkout names another
 import numpy as np  # noqa: E402
 import test_solve_linear_change as cases  # noqa: E402
 from numag.tracking.solve import solve_system  # noqa: E402

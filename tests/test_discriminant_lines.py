@@ -13,6 +13,7 @@ from numag.families.branches import CountKind
 from numag.families.discriminant import DiscriminantOptions, discriminant
 from numag.families.lines import discriminant_on_lines, line_family
 from numag.families.plane import CurvePointKind, reach_box
+from numag.families.records import MISSED_ON_LINES
 from numag.system.family import Family
 from numag.system.files import family_from_mapping
 from numag.system.parse import parse_system
@@ -111,6 +112,8 @@ def test_the_double_lines_of_zero_length_are_found_flagged_and_cut_the_cells(fou
     # radius 0 is a pair of complex lines) and the line system has double solutions on every line
     double = [line for line in eliminant_lines if line[1] == 2]
     assert any("multiple point" in note and "length 0" in note for note in four_bar.notes)
+    # every line crossing b = 0 or c = 0 in the region got that point (decision 0107: a miss would be counted)
+    assert four_bar.paths.get(MISSED_ON_LINES, 0) == 0
     curve = four_bar.curve
     assert len(curve.multiple) == len(curve.arcs) and any(curve.multiple)
     for arc, flagged in zip(curve.arcs, curve.multiple):
@@ -250,3 +253,60 @@ def test_cells_without_the_curve_count_circles():
         r, s = cell.sample
         assert cell.count.branches == (1 if r * r + s > 0 else 0) and cell.count.failed == 0
         assert min(abs(cell.low + r * r), abs(cell.high + r * r)) <= 1e-9  # cut at s = -r^2
+
+
+def test_a_line_that_misses_a_real_crossing_of_a_double_line_in_the_region_is_counted():
+    # The double lines b = 0 and c = 0 cross the line p = o + t d at t = -o_b / d_b and t = -o_c / d_c (elementary
+    # geometry, no source); b = 0 is parallel to the vertical lines b = v and meets them only at infinity.
+    from numag.families.lines import _lines_missing_points
+
+    slope = np.array([1.0, 0.6]) / np.linalg.norm([1.0, 0.6])
+    lines = [np.concatenate([[0.0, s], slope]) for s in (-2.0, -1.0, 0.5, 1.5)] + \
+        [np.array([v, 0.0, 0.0, 1.0]) for v in (1.0, 4.0)]
+    values = np.array(lines, dtype=complex)
+    region = (np.array([-5.0, -5.0]), np.array([10.0, 10.0]))
+    moves, t_values, reached = [], [], []
+    for k, (o, d) in enumerate((v[:2].real, v[2:].real) for v in values):
+        for start, axis in ((0, 0), (1, 0), (2, 1), (3, 1)):  # two starts over b = 0, two over c = 0
+            moves.append((start, k))
+            parallel = abs(d[axis]) < 1e-12
+            t_values.append(0.0 if parallel else -o[axis] / d[axis])
+            reached.append(not parallel)
+    moves_of = {move: j for j, move in enumerate(moves)}
+    classes = np.array([0, 0, 1, 1])
+    reached = np.array(reached)
+    t_values = np.array(t_values, dtype=complex)
+    # every line got its points, the vertical ones only c = 0's: nothing missed
+    assert _lines_missing_points(t_values, reached, moves, classes, values, region).tolist() == [0] * 6
+    # one start over b = 0 failed on the second line, its partner reached the point: no miss
+    once = reached.copy()
+    once[moves_of[(0, 1)]] = False
+    assert _lines_missing_points(t_values, once, moves, classes, values, region).tolist() == [0] * 6
+    # both starts over b = 0 failed there: b = 0 crosses that line between its neighbours, a miss
+    twice = once.copy()
+    twice[moves_of[(1, 1)]] = False
+    assert _lines_missing_points(t_values, twice, moves, classes, values, region).tolist() == [0, 1, 0, 0, 0, 0]
+    # c = 0 missed on the vertical line b = 1 (its real points elsewhere lie on both sides of b = 1) and on the
+    # outermost sloped line (its neighbour has a real point of c = 0 in the region)
+    vertical = reached.copy()
+    vertical[[moves_of[(2, 4)], moves_of[(3, 4)], moves_of[(2, 0)], moves_of[(3, 0)]]] = False
+    assert _lines_missing_points(t_values, vertical, moves, classes, values, region).tolist() == [1, 0, 0, 0, 1, 0]
+    # a crossing beyond the region does not count: the region cut to b, c in [0.2, 10]
+    far = (np.array([0.2, 0.2]), np.array([10.0, 10.0]))
+    assert _lines_missing_points(t_values, twice, moves, classes, values, far).tolist() == [0] * 6
+
+
+def test_points_missed_on_lines_reach_the_warnings_and_the_exit_code():
+    from numag.app.commands.discriminant import _failed
+    from numag.app.report import discriminant_warnings
+    from numag.families.discriminant import Discriminant
+
+    def result(missed):
+        paths = {"tracked": 10, MISSED_ON_LINES: missed} if missed else {"tracked": 10}
+        return Discriminant(("x",), ("b", "c"), ["x"], 1, [], np.zeros(0), [], paths, [], 1, 0.0)
+
+    assert _failed(result(0)) == 0 and discriminant_warnings(result(0)) == []
+    assert _failed(result(2)) == 2
+    assert any("2 points of multiple components" in w for w in discriminant_warnings(result(2)))
+    again = Discriminant.from_dict(result(2).to_dict())  # saved and reloaded, still counted
+    assert _failed(again) == 2

@@ -109,3 +109,31 @@ def test_an_undecided_count_is_saved_and_printed_as_undecided():
     again = Region.from_dict(region.to_dict())
     assert again.count.undecided == 1 and not again.count.sure
     assert "undecided" in _unsure_text(again.count) and _unsure_text(RealCount(solutions=0)) == ""
+
+
+def test_a_doubtful_branch_count_is_counted_again_and_only_a_lasting_doubt_is_undecided(monkeypatch):
+    # x^2 + y^2 = r: one real branch (a circle) for r > 0, none for r < 0 (common practice, no source). The first
+    # count of the sample r = 1 is made doubtful the way a missed arc makes it (3 branches, an arc end failed).
+    import numag.families.branches as branches
+
+    family = family_from_mapping({"variables": ["x", "y"], "parameters": ["r"], "equations": ["x^2 + y^2 - r"]})
+    honest = branches._branches
+    calls = []
+
+    def first_run_misses(family, samples, rng, spoil=1):
+        counts = honest(family, samples, rng)
+        calls.append(len(samples))
+        if len(calls) <= spoil:
+            counts[0] = branches.RealCount(branches=3, failed=1)
+        return counts
+
+    for seed in (1, 2, 3):
+        calls.clear()
+        monkeypatch.setattr(branches, "_branches", first_run_misses)
+        counts = branches.real_counts(family, [[1.0], [-1.0], [4.0]], seed=seed)
+        assert [c.branches for c in counts] == [1, 0, 1] and all(c.sure for c in counts)
+        assert calls == [3, 1]  # only the doubtful sample is counted again
+        calls.clear()
+        monkeypatch.setattr(branches, "_branches", lambda f, s, g: first_run_misses(f, s, g, spoil=2))
+        counts = branches.real_counts(family, [[1.0], [-1.0]], seed=seed)
+        assert not counts[0].sure and counts[1].branches == 0 and counts[1].sure

@@ -75,6 +75,31 @@ def test_every_command_that_reads_a_system_takes_at(tmp_path):
     assert main(["singular", path, "--at", "p=0,q=0", "--seed", "1"], out=io.StringIO()) in (0, 3)
 
 
+
+@pytest.mark.parametrize("seed", [1, 2, 3])
+def test_family_commands_fix_some_parameters_with_at(tmp_path, seed):
+    # x^3 + p x + q at p = -3: the discriminant -4 p^3 - 27 q^2 = 108 - 27 q^2 vanishes at q = +-2, with 3 real
+    # roots between and 1 outside (common practice, no source)
+    path = _write(tmp_path, "cubic.toml", CUBIC)
+    out = io.StringIO()
+    assert main(["discriminant", path, "--at", "p=-3", "--seed", str(seed), "--json"], out=out) == 0
+    data = json.loads(out.getvalue())
+    assert data["parameters"] == ["q"]
+    assert np.allclose(sorted(complex(*v).real if isinstance(v, list) else float(v) for v in data["real_points"]),
+                       [-2, 2], atol=1e-8)
+    out = io.StringIO()
+    assert main(["sweep", path, "--at", "p=-3", "--grid", "q=-3:3:7", "--seed", str(seed)], out=out) == 0
+    assert "q=-1 to q=1: 3" in out.getvalue() and "q=-3: 1" in out.getvalue()
+
+
+@pytest.mark.parametrize("at, words", [("p=-3,q=1", "leave at least one free"), ("r=1", "not a parameter"),
+                                       ("p=", "not of the form")])
+def test_fixing_every_or_an_unknown_parameter_is_refused(tmp_path, capsys, at, words):
+    path = _write(tmp_path, "cubic.toml", CUBIC)
+    for command in (["discriminant", path], ["sweep", path, "--grid", "q=0:1:2"]):
+        assert main(command + ["--at", at], out=io.StringIO()) == 2
+        assert words in capsys.readouterr().err
+
 # --- the cubic x^3 + p x + q ------------------------------------------------------------------------------
 
 @pytest.fixture(scope="module")
@@ -325,6 +350,31 @@ def test_grids_and_value_files(tmp_path):
     assert main(["sweep", path, "--grid", "b=1:2"], out=io.StringIO()) == 2
     assert main(["discriminant", _write(tmp_path, "plain.toml", {"variables": ["x"], "equations": ["x^2"]})],
                 out=io.StringIO()) == 2
+
+
+def test_the_sweep_csv_has_an_undecided_column_as_the_readme_says(tmp_path):
+    import csv
+    import dataclasses
+    import pathlib
+    import re
+
+    from numag.app.commands.sweep import _csv_text
+
+    # x^2 = p: two real roots for p > 0, none for p < 0 (common practice, no source)
+    family = family_from_mapping({"variables": ["x"], "parameters": ["p"], "equations": ["x^2 - p"]})
+    result = sweep(family, [[1.0], [-1.0]], seed=1)
+    rows = list(csv.DictReader(io.StringIO(_csv_text(result))))
+    assert [(r["p"], r["real_solutions"], r["undecided"]) for r in rows] == [("1", "2", "0"), ("1", "2", "0"),
+                                                                             ("-1", "0", "0")]
+    assert sorted(float(r["x"]) for r in rows[:2]) == pytest.approx([-1.0, 1.0], abs=1e-12)
+    # a value whose count is undecided (decision 0104) says so in its rows
+    doubtful = dataclasses.replace(result, values=[dataclasses.replace(result.values[1], undecided=2)])
+    assert [r["undecided"] for r in csv.DictReader(io.StringIO(_csv_text(doubtful)))] == ["2"]
+    # the README documents the header the command writes
+    readme = (pathlib.Path(__file__).resolve().parents[1] / "README.md").read_text()
+    header = next(csv.reader(io.StringIO(_csv_text(result))))
+    documented = re.search(r"`--csv` writes one row per real solution.*?then the unknowns", readme, re.S).group(0)
+    assert all(f"`{name}`" in documented for name in header[1:-1])
 
 
 def test_command_line_tables_pictures_and_saved_results(tmp_path):

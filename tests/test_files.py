@@ -69,3 +69,17 @@ def test_points_json_shapes(tmp_path):
         points_from_json([{"x": 1}], names)
     with pytest.raises(PointError, match="point 1: has 3 coordinates"):
         points_from_json([[1, 2, 3]], names)
+
+
+@pytest.mark.parametrize("stated", [5, -1e-6, "1e-6", True, [1e-6]])
+def test_a_singular_reports_stated_accuracy_is_checked(stated):
+    # decision 0110: a saved singular report's `point_tolerance` is read as each point's accuracy, a number in (0, 1)
+    # (common practice, no source)
+    report = {"command": "singular", "numag_version": "0", "system": {"variables": ["x", "y"]},
+              "components": [{"at_infinity": False, "points": [[[0.5, 0.0], [1.5, 0.0]]], "point_tolerance": 1e-6}]}
+    accuracies = []
+    assert [[complex(c) for c in p] for p in points_from_json(report, ["x", "y"], accuracies)] == [[0.5, 1.5]]
+    assert accuracies == [1e-6]
+    report["components"][0]["point_tolerance"] = stated
+    with pytest.raises(PointError, match="point_tolerance"):
+        points_from_json(report, ["x", "y"], [])

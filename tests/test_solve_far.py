@@ -221,3 +221,23 @@ def test_positive_dimensional_groups_at_the_origin_are_not_centred(seed):
     assert [np.round(s.point.real, 8).tolist() for s in result.solutions] == [[2.0, 1.0]]
     assert result.not_isolated and all(abs(s.point[0] - 5) <= 1e-6 for s in result.not_isolated)
     assert not result.extra.get("not_zeros") and not result.extra.get("centred") and not result.undecided
+
+
+@pytest.mark.parametrize("settled", [True, False])
+def test_every_kind_of_centred_record_is_printed(settled):
+    # A run solved again at a centre after failed paths records no regions (decision 0081's second kind of
+    # record); the text report once assumed every record had them and ended in an internal error. Common practice,
+    # no source: every record the solver writes is printed.
+    from numag.app.commands.solve import _print_solve
+    result = solve_system(parse_system(["x^2 - 4", "y - 1"], ["x", "y"]), seed=1)
+    result.extra["centred"] = [
+        {"centre": "(-198.81, 1271.23)", "after_failed_paths": 3, "centred_run_failed_paths": 0, "settled": settled},
+        {"centre": "(1, 2)", "settled": False, "reason": "too many centred runs"},
+        {"centre": "(3, 4)", "radius_computed_units": 0.1, "paths_first_run": 2, "paths_centred_run": 2,
+         "centred_run_failed_paths": 0, "settled": True}]
+    out = io.StringIO()
+    _print_solve(result, out)
+    lines = [line for line in out.getvalue().splitlines() if line.startswith("centred at")]
+    assert len(lines) == 3
+    assert "after 3 failed paths" in lines[0] and ("not settled" in lines[0]) != settled
+    assert "too many centred runs" in lines[1] and "2 paths nearby in both runs, settled" in lines[2]

@@ -20,7 +20,9 @@ random rational hyperplane a . x = 1, which meets every projective point once):
    top-dimensional part (by slicing). More affine equations than the
    codimension, with that set finite: the equations' ideal saturated by a
    random combination of the minors (its embedded points removed, decision
-   0105) and the same counts again, which are then X's singular points.
+   0105) and the same counts again, which are then X's singular points;
+   that set of positive dimension but below X's: the same saturation
+   removes the embedded components of any dimension (decision 0108).
    sympy has no radical, Hilbert polynomial
    or primary decomposition routine; these counts are built on its Groebner
    bases here.
@@ -66,7 +68,8 @@ REFERENCE_SCOPE = ("exact reference (sympy Groebner bases): dimension and degree
                    "real ones, length with multiplicity, exact coordinates when sympy solves the basis), "
                    "otherwise the degree of its top-dimensional part; more affine equations than the "
                    "codimension and that set finite: its embedded points saturated away first, so that the "
-                   "points compared are X's singular points. Affine input: affine points only. "
+                   "points compared are X's singular points (and when it has positive dimension below X's, its embedded "
+                   "components saturated away likewise: Sing(X) is compared beside it). Affine input: affine points only. "
                    "Assumes X equidimensional; lower-dimensional parts of a positive-dimensional locus are not "
                    "compared.")
 
@@ -111,6 +114,11 @@ class ReferenceAnswer:
         Several affine equations, more than the codimension, with V(F + minors) finite: its distinct points, and
         how many of them are embedded points of the equations, where X is smooth (decision 0105); the singular
         points (and their coordinates) are then those of the saturated ideal. None where not computed.
+    rank_drop_dimension, rank_drop_degree : int or None
+        Several affine equations, more than the codimension, with V(F + minors) of positive dimension below X's:
+        its dimension and top degree; the ``singular_*`` fields are then those of the ideal saturated by a
+        combination of the minors, X's ideal: Sing(X) without the equations' embedded components (decision 0108).
+        None where not computed.
     points : list of list of complex or None
         Coordinates of the exact points (affine; projective input: in the chart a . x = 1).
     exact_points : list of list of str or None
@@ -136,6 +144,8 @@ class ReferenceAnswer:
     non_reduced_degrees: object = None
     rank_drop_points: object = None
     embedded_points: object = None
+    rank_drop_dimension: object = None
+    rank_drop_degree: object = None
     points: object = None
     exact_points: object = None
     chart: object = None
@@ -475,6 +485,22 @@ def _child(text, seed, channel):
                               real_singular_points=real, scheme_length=length, singular_dimension=singular_dimension)
         elif singular_dimension > 0:
             result["singular_degree"] = _slice_degree(ideal, symbols, singular_dimension, rng, sympy)
+            if (not plain["projective"] and len(equations) > codimension
+                    and singular_dimension < dimension):
+                # Decision 0108: an embedded component of positive dimension lies in V(F + minors) too; saturated
+                # away, what is left generates X's ideal (X equidimensional, generically reduced: the minors vanish
+                # on no component, V(F + minors) being smaller than X), and V(J + J's minors) is Sing(X).
+                result.update(rank_drop_dimension=singular_dimension, rank_drop_degree=result["singular_degree"])
+                saturated = _without_embedded_points(equations, minors, symbols, rng, sympy)
+                _, ideal, singular, singular_dimension = _rank_drops(saturated, [], symbols, codimension, sympy)
+                result.update(singular_dimension=singular_dimension, singular_degree=None)
+                if singular_dimension > 0:
+                    result["singular_degree"] = _slice_degree(ideal, symbols, singular_dimension, rng, sympy)
+                elif singular_dimension == 0:
+                    distinct, real, length, (standard, index) = _finite_counts(singular, symbols, rng, sympy)
+                    result.update(singular_points=distinct, real_singular_points=real, scheme_length=length)
+                else:
+                    result.update(singular_points=0, real_singular_points=0, scheme_length=0)
         elif singular_dimension < 0:
             result.update(singular_points=0, real_singular_points=0, scheme_length=0)
         result["compute_seconds"] = time.perf_counter() - clock

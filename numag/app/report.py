@@ -43,6 +43,7 @@ from ..numeric.linalg import RankEvidence
 from ..numeric.scaling import Scaling
 from ..tracking.solve import Solution, SolveOptions, SolveResult, lost_first_stage_paths
 from ..tracking.tracker import FAILURE_LABELS, PathStatus, TrackerOptions
+from ..families.records import MISSED_ON_LINES
 
 if TYPE_CHECKING:  # the stages are imported where their results are converted: `numag solve` starts faster
     from ..certify.records import CertifyOptions, Claim
@@ -244,6 +245,11 @@ def completeness_warnings(data):
         warnings.append(f"{counted(mismatched, 'candidate component')} of the rank-drop system had a tangent space of "
                         "another dimension than its witness slicing: that decomposition may be wrong and singular "
                         "pieces may be missing; run again with another --seed or --formulation to compare.")
+    inside = _discarded(data, "embedded_component_unsearched")
+    if inside:  # the minors vanish all along an embedded component: its singular points are no candidates (0108)
+        warnings.append(f"{counted(inside, 'embedded component')} of the equations (the Jacobian drops rank all "
+                        "along it, X smooth at its generic point): singular points of X inside it are not separated "
+                        "by the rank condition and were not searched; undecided there.")
     paths_block = data.get("paths") or {}
     if int((paths_block.get("endpoints") or {}).get("degree_check_failed", 0)):
         warnings.append("The components' degrees times multiplicities do not add up as Bezout's theorem requires "
@@ -293,6 +299,10 @@ def discriminant_warnings(result):
     if region_undecided:
         warnings.append(f"{counted(region_undecided, 'solution')} of the regions' sample members could be told "
                         "neither real nor paired with a conjugate: those real counts are undecided")
+    missed = result.paths.get(MISSED_ON_LINES, 0)
+    if missed:
+        warnings.append(f"{counted(missed, 'point')} of multiple components of the discriminant missed on the lines "
+                        "they cross (their moves failed): the curve or the cells may lack them there")
     if result.curve is not None and result.curve.failed_arcs:
         warnings.append(f"{counted(result.curve.failed_arcs, 'arc end')} of the traced curve failed")
     if result.curve is not None and undecided_special_points(result.curve):
@@ -733,11 +743,15 @@ def decomposition_from_dict(data):
 # --- singular ------------------------------------------------------------------------------------
 
 def _singular_component(c):
+    from ..singular.locus import POINT_TOLERANCE
     return {"id": c.id, "dimension": c.dimension, "degree": c.degree,
             "points": [encode_point(p) for p in c.points], "real": [bool(r) for r in c.real],
             "multiplicity": None if c.multiplicity is None else int(c.multiplicity), "at_infinity": c.at_infinity,
             "formulation": c.formulation, "kind": c.kind, "on_components": [int(k) for k in c.on_components],
-            "rank": c.rank, "codimension": c.codimension, "notes": list(c.notes)}
+            "rank": c.rank, "codimension": c.codimension, "notes": list(c.notes),
+            # the relative tolerance the points were judged singular at: what `check --points-file` takes as
+            # their accuracy (decision 0110), not the 17 digits they are printed with
+            "point_tolerance": POINT_TOLERANCE}
 
 
 def singular_to_dict(result, options):
@@ -774,6 +788,7 @@ def singular_to_dict(result, options):
         "discarded": dict(result.discarded),
         "near_singular": [p.to_dict(encode_point) for p in result.near_singular],
         "embedded_points": [encode_point(p) for p in result.embedded],  # decision 0105: X smooth there
+        "embedded_components": [_singular_component(c) for c in result.embedded_components],  # decision 0108
         "notes": list(result.notes),
         "seconds": result.seconds,
         "caution": CAUTION,
@@ -795,15 +810,16 @@ def singular_from_dict(data):
                               decompose=DecomposeOptions(witness=WitnessOptions(lowest_dimension=o["lowest_dimension"])))
     if data.get("options_in_full") is not None:  # absent before decision 0078
         options = options_from_dict(SingularOptions, data["options_in_full"])
-    components = []
-    for d in data["components"]:
+    def piece(d):
         points = np.array([decode_point(p) for p in d["points"]], dtype=complex)
-        components.append(SingularComponent(
+        return SingularComponent(
             id=int(d["id"]), dimension=int(d["dimension"]), degree=int(d["degree"]), points=points,
             real=np.array(d["real"], dtype=bool), multiplicity=d["multiplicity"], at_infinity=bool(d["at_infinity"]),
             formulation=CandidateSystem.parse(d["formulation"], "formulation"),
             kind=PieceKind.parse(d["kind"], "kind"), on_components=list(d["on_components"]), rank=d["rank"],
-            codimension=d["codimension"], notes=list(d["notes"])))
+            codimension=d["codimension"], notes=list(d["notes"]))
+
+    components = [piece(d) for d in data["components"]]
     counts = _path_counts_from_dict(data)
     variety = None
     if data["variety"]:
@@ -827,7 +843,8 @@ def singular_from_dict(data):
                            near_singular=[NearSingularPoint.from_dict(d, decode_point)
                                           for d in data.get("near_singular") or []],
                            embedded=[np.asarray(decode_point(p), dtype=complex)  # absent before decision 0105
-                                     for p in data.get("embedded_points") or []])
+                                     for p in data.get("embedded_points") or []],
+                           embedded_components=[piece(d) for d in data.get("embedded_components") or []])  # 0108
     return result, options
 
 
@@ -1128,6 +1145,13 @@ def certify_report(data, options=None, progress=None, executor=None):
     every = [results[k] for k in range(len(slots))]
     for k, (entry, key, _, _) in enumerate(slots):
         encoded = certificate_to_dict(results[k])
+        if command == "check" and encoded.get("status") == Status.CERTIFIED:
+            # decision 0110: a box that does not hold the point the verdict is about is no proof for that point
+            # (the point is stored in doubles: its rounding, a few units of 2^-52 of its size, is not a distance)
+            size = math.sqrt(1.0 + sum(re * re + im * im for re, im in entry["point"]))
+            encoded["holds_judged_point"] = not (isinstance(encoded.get("distance"), float)
+                                                 and isinstance(encoded.get("radius"), float)
+                                                 and encoded["distance"] > encoded["radius"] + 2.0 ** -48 * size)
         if key == "certificates":
             entry[key].append(encoded)
         else:
@@ -1228,6 +1252,8 @@ def compare_to_dict(comparison):
                       "chart": reference.chart, "exact_points": reference.exact_points,
                       "non_reduced_degrees": reference.non_reduced_degrees,
                       "rank_drop_points": reference.rank_drop_points, "embedded_points": reference.embedded_points,
+                      "rank_drop_dimension": reference.rank_drop_dimension,
+                      "rank_drop_degree": reference.rank_drop_degree,
                       "points": None if reference.points is None else [encode_point(p) for p in reference.points]},
         "scope": comparison.scope,
         "notes": list(comparison.notes),
@@ -1259,7 +1285,8 @@ def compare_from_dict(data):
         points=None if points is None else [list(decode_point(p)) for p in points],
         exact_points=r["exact_points"], chart=r["chart"], message=r["message"],
         non_reduced_degrees=r.get("non_reduced_degrees"),  # absent before decision 0096
-        rank_drop_points=r.get("rank_drop_points"), embedded_points=r.get("embedded_points"))  # ... before 0105
+        rank_drop_points=r.get("rank_drop_points"), embedded_points=r.get("embedded_points"),  # ... before 0105
+        rank_drop_dimension=r.get("rank_drop_dimension"), rank_drop_degree=r.get("rank_drop_degree"))  # ... 0108
     rows = [ComparisonRow(row["quantity"], row["numag"], row["exact"], row["agree"]) for row in data["rows"]]
     return Comparison(locus.system, locus, reference, rows, _decode_float(data["max_distance"]),
                       _decode_float(data["digits_of_agreement"]), float(data["numag_seconds"]),

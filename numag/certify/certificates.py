@@ -90,8 +90,9 @@ import numpy as np
 
 from ..errors import InputError
 from ..system.polynomial import Polynomial, PolynomialSystem
+from ..tracking.infinity import top_forms
 from .charts import _SYSTEM_CACHE, _at_infinity, _chart_center, _in_chart, _rank_polynomials
-from .equations import _minor_equations, _restrict, _top_form, singularity_equations
+from .equations import _minor_equations, _restrict, singularity_equations
 from .intervals import _bounds, _iv_box
 from .rank import (_box_around, _chart_view, _dual_multiplicity, _numerical_ranks, _proved_rank,
                    _sampled_codimension)
@@ -188,7 +189,7 @@ def certify_regular_zero(system, point, options=None, projective=None, at_infini
         point = np.asarray(point, dtype=complex)
         if point.shape != (system.n_variables + 1,):
             raise InputError(f"a point at infinity has {system.n_variables + 1} homogeneous coordinates (w first)")
-        top = [_top_form(p) for p in system.polynomials]
+        top = top_forms(system.polynomials)
         return _at_infinity(top, point, run, reach=2 * options.match_radius)
     return _in_chart(system.polynomials, point, projective, run)
 

@@ -68,11 +68,6 @@ def _restrict(polynomial, indices):
     return Polynomial(exponents, polynomial.coefficients[keep], polynomial.n_variables - len(indices))
 
 
-def _top_form(polynomial):
-    """The terms of highest degree: F^h with the homogenising coordinate set to 0."""
-    return _restrict(polynomial.homogenize(0), [0])
-
-
 def _is_constant(polynomial):
     return polynomial.n_terms == 0 or (polynomial.n_terms == 1 and not polynomial.exponents.any())
 

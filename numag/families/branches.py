@@ -110,7 +110,7 @@ def real_counts(family, samples, seed=None):
         return _solution_counts(family, samples, rng)
     if k != n - 1:
         return [RealCount() for _ in samples]
-    return _branches(family, samples, rng)
+    return _branch_counts(family, samples, rng)
 
 
 def _solution_counts(family, samples, rng):
@@ -141,6 +141,24 @@ def _solution_counts(family, samples, rng):
             counts[r] = again
         elif not (again.sure and count.sure and infinite == before and again.solutions == count.solutions):
             counts[r] = RealCount(solutions=count.solutions, failed=count.failed + before, undecided=count.undecided)
+    return counts
+
+
+def _branch_counts(family, samples, rng):
+    """Real branches of curve members at the samples, counted again where in doubt (decision 0107).
+
+    A count is in doubt when a path failed, a point could be told neither real nor paired with its conjugate, or
+    an arc end met no other end at its critical value (an arc or a critical point was missed: 3 branches for 1
+    was seen). Such a sample is counted once more with fresh random choices (another linear function l, other
+    start members): a miss of one run is not repeated in the next, while the branches are the same in every
+    run. A second count that is sure is taken; otherwise the first stays, flagged (undecided, exit 3).
+    """
+    counts = _branches(family, samples, rng)
+    doubtful = [r for r, count in enumerate(counts) if not count.sure]
+    if doubtful:
+        for r, again in zip(doubtful, _branches(family, samples[doubtful], rng)):
+            if again.sure:
+                counts[r] = again
     return counts
 
 

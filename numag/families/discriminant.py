@@ -67,7 +67,7 @@ from .lines import discriminant_on_lines
 from .plane import (CurvePoint, CurvePointKind, DiscriminantCurve, PlaneRegion, SingularIncidence, _box as plane_box,
                     _nodes, classify_join, clipped, conjugate_pair_points, merge_cells, reach_box, snapped_ends,
                     trace_discriminant_curve)
-from .records import REAL_TOLERANCE, ComponentKind, decode_complex, decode_float, encode_complex, encode_float
+from .records import MISSED_ON_LINES, REAL_TOLERANCE, ComponentKind, decode_complex, decode_float, encode_complex, encode_float
 
 __all__ = ["DiscriminantOptions", "DiscriminantComponent", "Region", "Discriminant", "discriminant"]
 
@@ -427,6 +427,9 @@ def _curve_and_cells_on_lines(family, codimension, options, rng, paths, notes, p
         progress(f"the discriminant on {trace_lines + len(verticals)} lines across the plane")
     found = discriminant_on_lines(family, codimension, (low, high), verticals, trace_lines, rng)
     add_path_counts(paths, found.paths)
+    if found.missed_multiple:
+        # lines that miss points of a multiple component (decision 0107): failures, like failed paths
+        paths[MISSED_ON_LINES] = paths.get(MISSED_ON_LINES, 0) + found.missed_multiple
     notes += found.notes
     notes.append("The discriminant was met on lines of the parameter plane (the members are not finite sets of "
                  "points)" + ("; cusps and crossings that Newton could not refine (e.g. on a multiple component) are "

@@ -101,6 +101,9 @@ class LineDiscriminant:
     multiple_degree : int
         Distinct multiple points of the line system on a generic (random complex) line: the degree of the
         discriminant's multiple components together (0: none).
+    missed_multiple : int
+        Points of the multiple components that lines miss after every retry (fewer distinct points on a line
+        than the degree, less its points at infinity): failures, counted in the exit code.
     """
 
     arcs: list
@@ -118,6 +121,8 @@ class LineDiscriminant:
     multiple_degree: int = 0
     #: settles crossings that Newton could not refine (:meth:`settled`); not saved with results
     crossings: object = field(default=None, repr=False, compare=False)
+    #: points of the multiple components that lines miss after every retry (failures: decision 0107)
+    missed_multiple: int = 0
 
     def settled(self, point):
         """A crossing that Newton left UNDECIDED, located by Cauchy integrals on a circle (:class:`CrossingCircle`).
@@ -279,19 +284,19 @@ def discriminant_on_lines(family, codimension, box, verticals, trace_lines, rng)
     # measured on a four-bar with two free lengths: 48 polyhedral paths against 128 of total degree, most of
     # them to the circular points at infinity (12.8 s against 18.5 s of processor time for the one solve)
     swept = sweep(lines, np.array(values), SweepOptions(start="polyhedral"), seed=int(rng.integers(2 ** 63)))
+    # the points a little beyond the lines' reach are kept too: a fold's other arc may leave the box there
+    keep_low, keep_high = low - 1.25 * span, high + 1.25 * span
     failed = swept.failed + int(swept.paths.get("start_failed", 0))
     # multiple components of the discriminant (the start member's multiple points): followed on a deflated system
     # its own generator, seeded from the sweep's recorded seed: the draws of everything after stay those of a family
     # without multiple components
-    double, double_degree, double_failed = _multiple_components(
-        lines, swept, np.array(values), np.random.default_rng([int(swept.seed), 69]))
+    double, double_degree, double_failed, double_missed = _multiple_components(
+        lines, swept, np.array(values), np.random.default_rng([int(swept.seed), 69]), (keep_low, keep_high))
     double_moves = len(swept.start_multiple) * len(values)
     traced = [_real_points(member, value[:2], value[2:], double[k])
               for k, (member, value) in enumerate(zip(swept.values[:len(offsets)], values))]
     cuts = [(float(v), _real_points(member, np.array([v, 0.0]), np.array([0.0, 1.0]), double[len(offsets) + k]).t_values)
             for k, (v, member) in enumerate(zip(verticals, swept.values[len(offsets):]))]
-    # the points a little beyond the lines' reach are kept too: a fold's other arc may leave the box there
-    keep_low, keep_high = low - 1.25 * span, high + 1.25 * span
     for line in traced:
         inside = np.all((line.plane(line.cluster) >= keep_low) & (line.plane(line.cluster) <= keep_high), axis=1) \
             if len(line.points) else np.zeros(0, bool)
@@ -314,11 +319,16 @@ def discriminant_on_lines(family, codimension, box, verticals, trace_lines, rng)
                      "along which the member's singular points are multiple solutions of the line system (a double "
                      "structure, such as a length 0 of a linkage entering squared, where the member splits); its real "
                      f"points were followed on a deflated system ({counted(sum(multiple_arcs), 'traced arc')}"
-                     + (f"; {double_failed} of {double_moves} moves onto lines failed, so some lines may miss its "
-                        "points" if double_failed else "") + ").")
+                     + (f"; {double_failed} of {double_moves} moves onto lines failed" if double_failed else "")
+                     + (f"; {counted(int(np.count_nonzero(double_missed)), 'line')} of {len(values)} "
+                        f"{'misses' if np.count_nonzero(double_missed) == 1 else 'miss'} "
+                        f"{counted(int(double_missed.sum()), 'real point')} of it in the region, counted as failed"
+                        if double_missed.any() else "; no line misses a real point of it in the region"
+                        if double_failed else "")
+                     + ").")
     crossings = CrossingCircle(lines, family.n_variables, traced, normal, direction, spacing, swept.seed)
     return LineDiscriminant(arcs, lifts, cuts, failed, lost, notes, dict(swept.paths), cusps, cusp_lifts, cusp_ends,
-                            spacing, multiple_arcs, double_degree, crossings)
+                            spacing, multiple_arcs, double_degree, crossings, int(double_missed.sum()))
 
 
 #: A point moved on the deflated system is on the multiple component when the full (not squared) system holds to
@@ -369,11 +379,13 @@ def _deflated(lines_family, rng):
     return family, BatchEvaluator(equations + rows), b_matrix
 
 
-def _multiple_components(lines_family, swept, values, rng):
+def _multiple_components(lines_family, swept, values, rng, region):
     """Real points of the discriminant's multiple components on every line, and their degree.
 
     The start member's multiple points (every line meets a multiple component in multiple solutions of the line
     system, so the sweep cannot move them) are moved to every line on the deflated system (:func:`_deflated`).
+
+    ``region`` (lower and upper corners) is the part of the plane kept: misses beyond it do not count.
 
     Returns
     -------
@@ -383,15 +395,18 @@ def _multiple_components(lines_family, swept, values, rng):
         Distinct multiple points of the start member in the parameter plane (the degree).
     int
         Failed paths.
+    ndarray of int, shape (len(values),)
+        Per line, the real points of the multiple components in ``region`` it misses (:func:`_lines_missing_points`).
     """
     starts = swept.start_multiple
     big = lines_family.n_variables
     empty = [np.zeros((0, big), dtype=complex) for _ in values]
     if len(starts) == 0:
-        return empty, 0, 0
+        return empty, 0, 0, np.zeros(len(values), dtype=np.int64)
     start_value = np.asarray(swept.start_parameters, dtype=complex)
     plane = start_value[:2] + starts[:, -1:] * start_value[2:]
-    degree = len(groups(cluster_labels(plane, _SAME_T)))
+    start_class = cluster_labels(plane, _SAME_T)
+    degree = len(groups(start_class))
     family, full, b_matrix = _deflated(lines_family, rng)
     # the kernel of J_z G at each start, in the coordinates w of B (w, 1)
     _, jacobians = BatchEvaluator([p.numeric() for p in lines_family.system.polynomials]).evaluate(
@@ -475,7 +490,89 @@ def _multiple_components(lines_family, swept, values, rng):
         if good and all(np.linalg.norm(end[:big] - other) > _SAME_POINT * (1 + np.linalg.norm(end[:big]))
                         for other in found[k]):
             found[k].append(end[:big])
-    return [np.array(f, dtype=complex).reshape(-1, big) for f in found], degree, int(failed)
+    found = [np.array(f, dtype=complex).reshape(-1, big) for f in found]
+    t_values = np.where(finite, ends[:, big - 1], 0.0)
+    return found, degree, int(failed), _lines_missing_points(t_values, check, moves, start_class, values, region)
+
+
+def _lines_missing_points(t_values, reached, moves, start_class, values, region):
+    """Per line, the real points of the multiple components in the region that its moves missed.
+
+    A line meets the multiple components in ``degree`` points of the projective plane, but a move may fail where
+    the point is far out (near the circular points at infinity, where every member is singular) or at infinity
+    (a line parallel to a component, such as b = v beside b = 0); neither changes the picture or the cells, which
+    see real points in the region only. The starts over one plane point (a class) stay on one component along
+    every move. So a class that no move reached on a line is a miss that counts when its real points reached on
+    the other lines, inside the region, lie on both sides of that line (its real arc crosses the line there), or
+    when a neighbouring parallel line has one (the outermost lines).
+    A failed move whose line still got its point (another start of the class reached it) is no miss.
+
+    Parameters
+    ----------
+    t_values : ndarray of complex, shape (M,)
+        Per move, the line parameter t reached (any value where not reached).
+    reached : ndarray of bool, shape (M,)
+        Per move: it reached a point of the multiple components.
+    moves : list of (int, int)
+        (start, line) of every move.
+    start_class : ndarray of int
+        Per start point, its plane point (starts over one plane point share a class).
+    values : ndarray, shape (L, 4)
+        The lines (o, d).
+    region : (ndarray, ndarray)
+        Lower and upper corners of the part of the plane kept.
+
+    Returns
+    -------
+    ndarray of int, shape (L,)
+        Per line, the classes missed whose real arc crosses it in the region.
+
+    Examples
+    --------
+    >>> values = np.array([[0, -1, 1, 0], [0, 0, 1, 0], [0, 1, 1, 0]], dtype=complex)
+    >>> moves = [(0, 0), (0, 1), (0, 2)]
+    >>> box = (np.array([-5.0, -5.0]), np.array([5.0, 5.0]))
+    >>> _lines_missing_points(np.zeros(3), np.array([True, False, True]), moves, np.array([0]), values, box).tolist()
+    [0, 1, 0]
+    """
+    low, high = region
+    lines_of = {}
+    points_of = {}
+    for (i, k), t, good in zip(moves, t_values, reached):
+        g = int(start_class[i])
+        if not good:
+            continue
+        lines_of.setdefault(g, set()).add(k)
+        if abs(t.imag) <= REAL_TOLERANCE * (1 + abs(t)):
+            point = values[k, :2].real + t.real * values[k, 2:].real
+            if np.all((point >= low) & (point <= high)):
+                points_of.setdefault(g, []).append((k, point))
+    # the neighbours of each line among its parallel lines (by offset): an outermost line has one
+    directions = np.round(values[:, 2:].real, 12)
+    neighbours = [set() for _ in values]
+    for direction in np.unique(directions, axis=0):
+        same = np.nonzero(np.all(directions == direction, axis=1))[0]
+        normal = np.array([-direction[1], direction[0]])
+        order = same[np.argsort(values[same, :2].real @ normal)]
+        for a, b in zip(order[:-1], order[1:]):
+            neighbours[a].add(int(b))
+            neighbours[b].add(int(a))
+    scale = float(np.linalg.norm(high - low))
+    missing = np.zeros(len(values), dtype=np.int64)
+    for k in range(len(values)):
+        origin, direction = values[k, :2].real, values[k, 2:].real
+        normal = np.array([-direction[1], direction[0]])
+        for g in {int(c) for c in start_class}:
+            if k in lines_of.get(g, ()):
+                continue
+            others = [(line, point) for line, point in points_of.get(g, []) if line != k]
+            side = np.array([float((point - origin) @ normal) for _, point in others])
+            across = len(side) and side.max() > _SAME_T * scale and side.min() < -_SAME_T * scale
+            # an outermost line has its real points on one side only: a neighbour's real point in the region counts
+            beside = any(line in neighbours[k] for line, _ in others)
+            if across or beside:
+                missing[k] += 1
+    return missing
 
 
 def _moves(lines_family, traced, moves, rng):

@@ -17,10 +17,12 @@ import numpy as np
 
 from ..errors import InputError
 
-__all__ = ["REAL_TOLERANCE", "PointKind", "ComponentKind", "encode_complex", "decode_complex", "encode_float", "decode_float"]
+__all__ = ["REAL_TOLERANCE", "MISSED_ON_LINES", "PointKind", "ComponentKind", "encode_complex", "decode_complex", "encode_float", "decode_float"]
 
 #: Relative imaginary part under which a parameter value is real.
 REAL_TOLERANCE = 1e-8
+#: Key of a discriminant's ``paths``: points of a multiple component that lines missed (failures, decision 0107).
+MISSED_ON_LINES = "missed_on_lines"
 
 
 class PointKind(str, enum.Enum):

@@ -24,7 +24,7 @@ Examples
 
 import numpy as np
 
-__all__ = ["cluster_labels", "groups", "normalize_projective", "projective_pivot", "line_distance"]
+__all__ = ["cluster_labels", "groups", "normalize_projective", "projective_pivot", "line_distance", "close_line_pairs"]
 
 #: A fixed chart for the neighbour search of projective points (any generic vector will do; the
 #: decision itself compares lines, so the answer does not depend on it).
@@ -191,6 +191,22 @@ def _close_lines(points, tolerance):
         distance = line_distance(points[pairs[:, 0]], points[pairs[:, 1]])
         pairs = pairs[distance <= tolerance]
     return pairs
+
+
+def close_line_pairs(points, tolerance):
+    """Index pairs (i < j) of homogeneous points whose lines are within ``tolerance`` (:func:`line_distance`).
+
+    The neighbour search of :func:`cluster_labels` for a caller that judges each pair by its own rule.
+
+    Examples
+    --------
+    >>> close_line_pairs(np.array([[1.0, 2.0], [2.0, 4.0 + 1e-9], [1.0, 0.0]]), 1e-6).tolist()
+    [[0, 1]]
+    """
+    points = np.asarray(points, dtype=complex)
+    if len(points) < 2:
+        return np.zeros((0, 2), dtype=np.int64)
+    return _close_lines(points.reshape(len(points), -1), tolerance)
 
 
 def line_distance(a, b):

@@ -101,6 +101,10 @@ class PieceKind(TextEnum):
     UNDECIDED = "undecided"
     NEAR_SINGULAR = "near-singular"   # smooth as written, singular after a change of the coefficients within
     #                                   their precision (decision 0062): listed apart, never a piece
+    # a set of positive dimension where the equations' Jacobian drops rank and X is smooth at its generic point (one
+    # reduced component of multiplicity 1 there): an embedded component of the equations (decision 0108): listed
+    # apart, never a piece
+    EMBEDDED = "embedded"
 
     @classmethod
     def of_verdict(cls, verdict):

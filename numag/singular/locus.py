@@ -226,6 +226,11 @@ class SingularLocus:
     embedded : list of ndarray
         Points where the given equations' Jacobian drops rank and X is smooth (one reduced component of
         multiplicity 1 there): embedded points of the equations, listed apart, not pieces (decision 0105).
+    embedded_components : list of SingularComponent
+        Sets of positive dimension where the equations' Jacobian drops rank and X is smooth at a generic point
+        (kind ``embedded``, with witness points): embedded components of the equations, listed apart, not pieces
+        (decision 0108). Singular points of X inside one are searched only where that is decided
+        (``discarded["embedded_component_unsearched"]`` counts the others: a completeness warning).
     """
 
     system: PolynomialSystem
@@ -241,6 +246,7 @@ class SingularLocus:
     near_singular: list[NearSingularPoint] = field(default_factory=list)
     options: SingularOptions | None = None
     embedded: list = field(default_factory=list)
+    embedded_components: list[SingularComponent] = field(default_factory=list)
 
     def __repr__(self):
         affine = [c for c in self.components if not c.at_infinity]
@@ -478,6 +484,8 @@ def _in_user_units(system, options, seed, progress, stop_when_far=False):
     if locus.variety is not None and not system.projective:
         locus.variety = locus.variety.in_units(scaling, system, to_user=True)
     locus.embedded = [scaling.to_user(point) for point in locus.embedded]  # affine points only (_affine)
+    for component in locus.embedded_components:  # affine only (_affine)
+        component.points = scaling.to_user(component.points)
     locus.system, locus.scaling = system, scaling
     locus.near_singular = _near_singular(system, scaling, dropped, locus.discarded)
     _vanishing_jacobians(dropped, locus.discarded)
@@ -634,6 +642,9 @@ def _computed_centred(system, options, seed, progress, centring, first_paths, fi
     for point in locus.near_singular:
         point.point = point.point + shift
     locus.embedded = [point + shift for point in locus.embedded]
+    for component in locus.embedded_components:
+        component.points = component.points + shift[None, :]
+        component.real = _real_flags(system, component.points)
     if locus.variety is not None:
         locus.variety = _translated(locus.variety, system, shift)
     if kept:
@@ -681,7 +692,7 @@ def _judged_again(centred, shift, pieces, local, notes, options, seed, why):
     """
     if not pieces:
         return []
-    check_options = CheckOptions(max_digits=options.digits, backward_errors=False, point_tolerance=_POINT_TOLERANCE)
+    check_options = CheckOptions(max_digits=options.digits, backward_errors=False, point_tolerance=POINT_TOLERANCE)
     moved = np.array([c.points[0] - shift for c in pieces])
     verdicts = _judge_all(centred, list(moved), check_options, seed, local.variety)
     # Newton cannot settle a point where f is far from zero and J vanishes (the quartic's centre, f = 4 there,
@@ -914,6 +925,7 @@ def _singular_locus(system, options, seed, progress, stop=None):
     paths, discarded, notes, routes = {}, {}, [], []
     dropped = []  # isolated candidates the check called smooth: their backward errors are measured
     embedded = []  # candidates the check called embedded points of the equations (decision 0105)
+    embedded_components = []  # ... and candidate sets of positive dimension so called at a witness point (0108)
     start = {"asked": options.start.value, "codimensions": routes}
     if linear_space(system) is not None:  # J is constant of full rank on X: no singular point, no homotopy
         variety = decompose(system, options.decompose, seed=int(rng.integers(2**32)), progress=progress)
@@ -934,7 +946,7 @@ def _singular_locus(system, options, seed, progress, stop=None):
                                                     dropped)
     else:
         components, variety = _affine(system, options, rng, paths, discarded, progress, notes, routes, dropped,
-                                      stop, embedded)
+                                      stop, embedded, embedded_components)
         if options.start is not StartKind.TOTAL_DEGREE and variety is not None and variety.extra.get("start"):
             start["regeneration_of_X"] = variety.extra["start"]
         if system.n_equations == 1:
@@ -963,7 +975,7 @@ def _singular_locus(system, options, seed, progress, stop=None):
                          "hypersurface of this degree can have: some point was counted twice.")
     return SingularLocus(system=system, components=components, variety=variety, paths=paths, discarded=discarded,
                          seed=seed, seconds=time.perf_counter() - started, notes=notes, start=start,
-                         embedded=embedded), dropped
+                         embedded=embedded, embedded_components=embedded_components), dropped
 
 
 def _structured_start(system, variety, codimension, options, rng, paths, progress):
@@ -1042,7 +1054,7 @@ EMBEDDED_EXPLANATION = ("the Jacobian of the given equations drops rank there, b
 
 
 def _affine(system, options, rng, paths, discarded, progress, notes_out=None, routes=None, dropped=None,
-            stop=None, embedded=None):
+            stop=None, embedded=None, embedded_components=None):
     """Singular pieces of an affine X by decomposing F + minors for each codimension of X.
 
     ``routes`` (a list) receives the route of each codimension when a start other than total degree is
@@ -1062,7 +1074,7 @@ def _affine(system, options, rng, paths, discarded, progress, notes_out=None, ro
     found, oracles = [], []  # the pieces kept, and for each positive-dimensional one its membership test
     codimensions = sorted({n - c.dimension for c in variety.components})
     check_options = CheckOptions(max_digits=options.digits, backward_errors=False,  # measured in _near_singular
-                                 point_tolerance=_POINT_TOLERANCE)
+                                 point_tolerance=POINT_TOLERANCE)
     for codimension in codimensions:
         if codimension == 0:
             continue
@@ -1156,6 +1168,22 @@ def _affine(system, options, rng, paths, discarded, progress, notes_out=None, ro
             if verdict.verdict is Verdict.OFF:  # refinement ends at a stationary point of |F|: no point of X is near
                 discarded["not_on_X"] = discarded.get("not_on_X", 0) + 1
                 continue
+            if verdict.verdict is Verdict.EMBEDDED and candidate.dimension > 0:  # decision 0108
+                discarded["embedded_component"] = discarded.get("embedded_component", 0) + 1
+                if not _smooth_along(verdict, variety):
+                    discarded["embedded_component_unsearched"] = discarded.get(
+                        "embedded_component_unsearched", 0) + 1
+                piece = SingularComponent(
+                    id=0, dimension=candidate.dimension, degree=candidate.degree, points=candidate.points,
+                    real=_real_flags(system, candidate.points), multiplicity=None, at_infinity=False,
+                    formulation=kind, kind=PieceKind.EMBEDDED, on_components=[c["id"] for c in verdict.components],
+                    rank=verdict.rank, codimension=verdict.codimension, notes=list(verdict.notes))
+                if embedded_components is not None:  # listed apart (never a piece, never hiding a candidate)
+                    embedded_components.append(piece)
+                else:
+                    notes_out.append(f"A candidate (dimension {candidate.dimension}) is no singular set of X: "
+                                     f"{EMBEDDED_EXPLANATION} (decision 0108).")
+                continue
             if verdict.verdict is Verdict.EMBEDDED:  # X smooth there, listed apart (decision 0105)
                 discarded["embedded_point"] = discarded.get("embedded_point", 0) + 1
                 if embedded is not None:  # its point, moved to the user's units with the pieces
@@ -1206,6 +1234,20 @@ def _affine(system, options, rng, paths, discarded, progress, notes_out=None, ro
                 notes=notes + list(verdict.notes)))
             oracles.append(oracle)
     return found, variety
+
+
+def _smooth_along(verdict, variety):
+    """Whether X is known smooth at every point of an embedded component whose generic point got ``verdict``.
+
+    The minors vanish all along the set, so a singular point of X inside it is no component of V(F, minors) of
+    its own and no candidate shows it (an embedded line through a cone's vertex: {x (x y - z^2), z (x y - z^2)}).
+    X is singular at a point of the set only where the component C through it is singular or meets another
+    component (decision 0108). Decided here only when C is a linear space (degree 1: smooth everywhere) and X has
+    no other component; otherwise the set is counted ``embedded_component_unsearched`` (a completeness warning).
+    """
+    if variety is None or len(verdict.components) != 1 or verdict.components[0]["degree"] != 1:
+        return False
+    return len(variety.components) == 1
 
 
 def _judge_all(system, points, options, seed, variety):
@@ -1269,7 +1311,8 @@ def _judge(system, point, options, seed, variety, first=None):
 _CANDIDATE_TOLERANCE = 1e-3
 #: The check's point tolerance for candidates first (relative): computed points, whose accuracy the endgame sets,
 #: not their digits (decision 0072 judges user data by its digits; candidates keep the check's former default).
-_POINT_TOLERANCE = 1e-6
+#: Saved with each piece as its points' stated accuracy, which `check --points-file` uses (decision 0110).
+POINT_TOLERANCE = 1e-6
 #: Isolated singular points closer than this (relative) are one point.
 _DUPLICATE_RADIUS = 1e-6
 
@@ -1417,7 +1460,7 @@ def _confirmed_by_check(system, pieces, rng, discarded, dropped=None):
     seed = int(rng.integers(2**32))
     points = [piece.points[0] for piece in pieces]
     # a point that cannot be settled on X comes back "off" (each point is judged on its own)
-    verdicts = check_points(system, points, CheckOptions(backward_errors=False, point_tolerance=_POINT_TOLERANCE),
+    verdicts = check_points(system, points, CheckOptions(backward_errors=False, point_tolerance=POINT_TOLERANCE),
                             seed=seed).points
     kept = []
     for piece, verdict in zip(pieces, verdicts):

@@ -100,6 +100,9 @@ _DOUBLE_NEAR, _DOUBLE_FAR, _DOUBLE_CLEAR_SMOOTH = 0.5, 100.0, 1e-8
 #: Rounded data without a point tolerance (decision 0072): the nearest point of X must be within this many data
 #: radii of the given point (else "off"), and a rank drop within as many radii leaves the verdict undecided.
 DATA_MARGIN = 10.0
+#: Decision 0110: rounded data's smooth verdict needs the nearest rank drop found beyond this many times the
+#: reach of its digits (an estimate: computed digits overstate their accuracy); between the two it is undecided.
+SMOOTH_MARGIN = 10.0
 #: Exact data: equations with at most this many terms in all are evaluated in exact arithmetic at the point;
 #: larger ones in mpmath at the check's highest precision.
 _EXACT_TERMS = 5000
@@ -401,6 +404,7 @@ class _Checker:
         self.rng = rng
         self.settled = {}  # position -> outcome decided in double for a batch (settle_in_double)
         self.tolerances = {}  # position -> absolute point tolerance (computed units) when set per point
+        self.inferred = set()  # positions whose tolerance is inferred from their digits (decision 0110)
         self.judged = {}  # position -> _Judged, decided for a whole batch before its sampling
         self.drops_near = {}  # position -> the non-reduced sampling's answer, for a whole batch at once
         self.batch = BatchEvaluator(system.polynomials)
@@ -680,6 +684,11 @@ class _Checker:
                     if distance <= tolerance:
                         return _Decision(outcome=Verdict.SINGULAR, point=found, values=at_found, scales=scales_found,
                                          digits=digits, drop=found, drop_distance=distance)
+                    if position in self.inferred and distance <= SMOOTH_MARGIN * tolerance:
+                        # Decision 0110: a rank drop beyond the point's uncertainty but not clearly so; the
+                        # uncertainty is itself an estimate (the digits of a computed point overstate its accuracy)
+                        return _Decision(outcome=Verdict.UNDECIDED, point=np.array(current), values=values,
+                                         scales=scales, digits=digits, drop=found, drop_distance=distance)
                     return _Decision(outcome=Verdict.SMOOTH, point=np.array(current), values=values, scales=scales,
                                      digits=digits, drop=found, drop_distance=distance)
                 zero = zero_tolerance(digits, (self.m, self.n))
@@ -873,6 +882,17 @@ class _Checker:
                      f"multiplicity of component {component.id}, which was not counted ({why}).")
         return Verdict.UNDECIDED
 
+    def not_separated(self, given, decision, position):
+        """The note of an undecided escalation: what separates the point from a rank drop (decision 0110)."""
+        tolerance = self.tolerance_for(given, position)
+        if decision.drop is not None and tolerance > 0:
+            return (f"A point where the rank drops was found {decision.drop_distance / tolerance:.3g} times the "
+                    f"point's uncertainty away: beyond it but within {SMOOTH_MARGIN:g} times it, so the "
+                    "given point cannot be told apart from a singular point; give the point exactly or to more "
+                    "accurate digits, or --point-tolerance, to decide.")
+        return ("The rank decision did not settle at the highest precision (--digits): the small singular value "
+                "neither stayed put nor shrank to zero.")
+
     def decide(self, given, exact_given, refined, values, scales, through=None, position=None, exact_rank=None):
         """The rank decision at one point before the non-reduced sampling (a :class:`_Judged`); ``exact_rank``:
         the rank of J at an exact point of X (exact data), which then decides."""
@@ -904,6 +924,8 @@ class _Checker:
         else:
             escalated = True
             decision = self.settled.get(position) or self.escalate(given, exact_given, refined, codim, position)
+            if decision.outcome is Verdict.UNDECIDED:
+                notes.append(self.not_separated(given, decision, position))
         if exact_rank is not None and codim:  # F(p) = 0 exactly: the rank at p, in exact arithmetic, decides
             decision.outcome = Verdict.SMOOTH if exact_rank >= codim else Verdict.SINGULAR
             if decision.outcome is Verdict.SINGULAR:
@@ -1061,7 +1083,7 @@ def _as_points(points, system):
             radii)
 
 
-def check_points(system, points, options=None, seed=None, decomposition=None):
+def check_points(system, points, options=None, seed=None, decomposition=None, accuracies=None):
     """Smooth or singular? The Jacobian criterion at each point, with its evidence.
 
     Parameters
@@ -1078,6 +1100,10 @@ def check_points(system, points, options=None, seed=None, decomposition=None):
         point is then the largest dimension of the components through it (homotopy
         membership test), and a point on two components is singular. Without it (or with
         ``options.local_dimension``), the rules of :class:`CheckOptions` apply.
+    accuracies : sequence of float or None, optional
+        Each point's stated relative accuracy (None: from its digits), used as its point tolerance when
+        ``options.point_tolerance`` is not given: a saved report of ``singular`` states the tolerance its points
+        were judged singular at (decision 0110).
 
     Returns
     -------
@@ -1115,18 +1141,29 @@ def check_points(system, points, options=None, seed=None, decomposition=None):
     divisors = [ExactCoefficient.rational(Fraction(10) ** -c) for c in scaling.variable_exponents]
     exact = [None if e is None else [v * d for v, d in zip(e, divisors)] for e in user_exact]
     exact_coefficients = coefficient_precision(system) is CoefficientPrecision.EXACT
-    data = [_PointData.of(options, exact_coefficients, e is not None and not np.any(r > 0))
-            for e, r in zip(exact, user_radii)]
+    stated = list(accuracies) if accuracies is not None else [None] * len(user_given)
+    if len(stated) != len(user_given) or not all(a is None or (is_number(a) and 0 < a < 1) for a in stated):
+        raise InputError("accuracies: one relative accuracy in (0, 1) or None per point")
+    if options.point_tolerance is not None:
+        stated = [None] * len(user_given)  # the user's tolerance applies to every point
+    data = [_PointData.TOLERANCE if a is not None else
+            _PointData.of(options, exact_coefficients, e is not None and not np.any(r > 0))
+            for a, e, r in zip(stated, exact, user_radii)]
     radii = [float(np.linalg.norm(scaling.to_computed(r[None, :].astype(complex))[0])) if not system.projective
              else float(np.linalg.norm(r)) for r in user_radii]
     verdicts = _check_in_units(scaling.scale_system(system), given, exact, options, seed, rng, decomposition,
                                scaling, _DataRule(data=data, radii=radii,
-                                                  coefficient_tolerance=input_tolerance(system) or 0.0))
+                                                  coefficient_tolerance=input_tolerance(system) or 0.0,
+                                                  stated=stated))
     checker = _Checker(system, options, rng)  # distances in the user's units
     for verdict, point in zip(verdicts, user_given):
         _to_user_units(verdict, point, scaling, checker)
     for verdict, kind, point_radii in zip(verdicts, data, user_radii):
         _state_what_the_data_says(verdict, kind, float(np.linalg.norm(point_radii)))
+    for verdict, accuracy in zip(verdicts, stated):
+        if accuracy is not None:  # decision 0110: the report's stated accuracy, not the digits printed
+            verdict.notes.insert(0, f"Judged within the accuracy stated with the point (relative {accuracy:.3g}, "
+                                    "the tolerance its report judged it at), not the digits it is printed with.")
     if options.backward_errors:
         _measure_backward_errors(system, scaling, verdicts, options)
     return CheckReport(system=system, points=verdicts, options=options, seed=seed, scaling=scaling)
@@ -1213,6 +1250,7 @@ class _DataRule:
     data: list
     radii: list
     coefficient_tolerance: float  # what the coefficients cannot resolve (decision 0062's input tolerance), 0 exact
+    stated: list = None  # each point's stated relative accuracy (a saved singular report's), or None
 
     @property
     def coefficient_radius(self):
@@ -1259,6 +1297,10 @@ def _check_in_units(system, given, exact, options, seed, rng, decomposition, sca
         kind = rule.data[k]
         if kind is not _PointData.TOLERANCE:
             checker.tolerances[k] = 0.0 if kind is _PointData.EXACT else rule.reach(k, given[k])
+        if kind is _PointData.ROUNDED:
+            checker.inferred.add(k)
+        if rule.stated and rule.stated[k] is not None:
+            checker.tolerances[k] = rule.stated[k] * (1.0 if system.projective else _size(given[k]))
         if rule.exact_data(k) and exact[k] is not None:
             # Decision 0072: membership of exact data in exact arithmetic, not by a residual in double
             on_exactly[k] = checker.vanishes_exactly(exact[k])
@@ -1283,6 +1325,10 @@ def _check_in_units(system, given, exact, options, seed, rng, decomposition, sca
     tolerances = np.array([checker.tolerance_for(given[k], k) for k in range(len(given))])
     off = ~on_variety | (moved > tolerances)
     for k in range(len(given)):
+        if rule.data[k] is _PointData.EXACT and on_exactly[k] is False:
+            # Decision 0110: exact data has no uncertainty, so a point where F does not vanish is off X however
+            # close Newton's point of X is (it can round to the given doubles: 1e-13 from a point 1e3 out)
+            off[k] = True
         if rule.data[k] is _PointData.ROUNDED:
             # on X when Newton's point is within the digits' reach, or the coefficients' rounding explains F there
             off[k] = not rule.on_within_coefficients(float(residual_given[k])) and (
@@ -1360,10 +1406,12 @@ def _state_what_the_data_says(verdict, kind, radius):
         verdict.judged = JudgedPoint.NONE
         if kind is _PointData.EXACT:
             size = _size(verdict.given)
+            near = (f"is at distance {verdict.distance:.3g} (relative {verdict.distance / size:.3g}); give "
+                    "--point-tolerance (relative) above that" if verdict.distance > 0 else
+                    "rounds to the same doubles as the given point (closer than double precision can show); give "
+                    "--point-tolerance (relative, at least the given digits' accuracy)")
             verdict.notes = [f"Not on X: F does not vanish at the given point in exact arithmetic. The nearest "
-                             f"point of X found is at distance {verdict.distance:.3g} (relative "
-                             f"{verdict.distance / size:.3g}); "
-                             "give --point-tolerance (relative) above that to judge that point instead."
+                             f"point of X found {near} to judge that point instead (decision 0110)."
                              if math.isfinite(verdict.distance) and verdict.newton is ZeroKind.ZERO else
                              "Not on X: F does not vanish at the given point in exact arithmetic, and Newton's method "
                              "found no point of X near it."]

@@ -141,13 +141,41 @@ class Family:
         PointError
             Naming the malformed, unknown, repeated or missing parameter.
         """
+        return self._read_values(text, partial=False)
+
+    def _read_values(self, text, partial):
         from .files import parse_point_assignment  # files builds families: imported here, not at the top
 
         try:
-            return parse_point_assignment(text, list(self.parameters))
+            return parse_point_assignment(text, list(self.parameters), partial=partial)
         except PointError as err:
             raise PointError(f"--at: {err}".replace("is not a variable of the system", "is not a parameter of "
                                                     "the family")) from None
+
+    def fixing(self, text):
+        """The family with the parameters ``text`` names fixed (``"c=4"``, exactly substituted); the others stay.
+
+        Raises
+        ------
+        PointError
+            Naming a malformed, unknown or repeated parameter, or when no parameter would be left free.
+
+        Examples
+        --------
+        >>> from numag.system.parse import parse_system
+        >>> family = Family(parse_system(["x^3 + p*x + q"], ["x", "p", "q"]), ("p", "q"))
+        >>> line = family.fixing("p=-3")
+        >>> line.parameters, line.system.to_texts()
+        (('q',), ['x^3 - 3*x + q'])
+        """
+        given = self._read_values(text, partial=True)
+        if len(given) == len(self.parameters):
+            raise PointError(f"--at: fixes every parameter ({', '.join(self.parameters)}); leave at least one free "
+                             "(one member is solved by solve, singular or check with --at)")
+        family = self
+        for name, value in given.items():
+            family = family.restricted(family.parameters.index(name), value)
+        return family
 
     def restricted(self, index, value):
         """The family with parameter ``index`` fixed at ``value`` (exactly substituted; one parameter fewer).

@@ -277,8 +277,10 @@ def system_from_mapping(data, path=None, allow_parameters=False):
         raise SystemFileError(str(err), path) from None
 
 
-def parse_point_assignment(text, variables, index=None):
+def parse_point_assignment(text, variables, index=None, partial=False):
     """Read ``"x=1, y=2+I"`` into exact coordinates in variable order.
+
+    With ``partial``, variables may be left out: a dictionary of the given ones (name -> value) is returned.
 
     Raises
     ------
@@ -298,6 +300,8 @@ def parse_point_assignment(text, variables, index=None):
         if name in values:
             raise PointError(f"'{name}' is given twice", index)
         values[name] = _coordinate(value, name, index)
+    if partial:
+        return {v: values[v] for v in variables if v in values}
     missing = [v for v in variables if v not in values]
     if missing:
         raise PointError(f"no value for {', '.join(missing)}", index)
@@ -351,7 +355,10 @@ def _read_coordinate(value, name, index):
 _REPORT_POINTS = {
     "check": lambda report: report.get("points"),
     "solve": lambda report: report.get("solutions"),
-    "singular": lambda report: [{"point": point} for component in _listed(report.get("components"))
+    # each point with the relative accuracy its report states (the tolerance it was judged singular at,
+    # decision 0110), absent in reports written before it was saved
+    "singular": lambda report: [{"point": point, "point_tolerance": component.get("point_tolerance")}
+                                for component in _listed(report.get("components"))
                                 if isinstance(component, dict) and component.get("at_infinity") is False
                                 for point in _listed(component.get("points"))],
 }
@@ -378,8 +385,11 @@ def _report_points(data, variables):
     return points
 
 
-def points_from_json(data, variables):
+def points_from_json(data, variables, accuracies=None):
     """Points from decoded JSON (see the module documentation for the accepted shapes).
+
+    ``accuracies``: a list to which each point's stated relative accuracy is appended (an item's
+    ``point_tolerance``, as a saved report of ``singular`` gives it; None where not stated).
 
     Examples
     --------
@@ -400,8 +410,12 @@ def points_from_json(data, variables):
         raise PointError("expected a list of points")
     points = []
     for index, item in enumerate(data, 1):
+        accuracy = None
         if isinstance(item, dict) and "point" in item and not set(item) <= set(variables):
+            accuracy = _stated_accuracy(item.get("point_tolerance"), index)
             item = item["point"]
+        if accuracies is not None:
+            accuracies.append(accuracy)
         if isinstance(item, dict):
             unknown = [k for k in item if k not in variables]
             if unknown:
@@ -420,10 +434,19 @@ def points_from_json(data, variables):
     return points
 
 
-def load_points(path, variables):
-    """Read points from a JSON file (see :func:`points_from_json`)."""
+def _stated_accuracy(value, index):
+    """A point's stated relative accuracy: None, or a number in (0, 1)."""
+    if value is None:
+        return None
+    if isinstance(value, bool) or not isinstance(value, (int, float)) or not 0 < value < 1:
+        raise PointError(f"point_tolerance must be a number in (0, 1), got {json.dumps(value)[:40]}", index)
+    return float(value)
+
+
+def load_points(path, variables, accuracies=None):
+    """Read points from a JSON file (see :func:`points_from_json`, also for ``accuracies``)."""
     data = loads_json(read_limited(path, MAX_INPUT_BYTES, "points file"), os.fspath(path))
     try:
-        return points_from_json(data, variables)
+        return points_from_json(data, variables, accuracies)
     except PointError as err:
         raise PointError(f"{os.fspath(path)}: {err}") from None

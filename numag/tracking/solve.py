@@ -40,6 +40,7 @@ from ..numeric.linalg import batched_least_squares
 from ..numeric.scaling import Scaling
 from ..numeric.seeds import random_state
 from .homotopy import ParameterHomotopy, StraightLineHomotopy
+from .infinity import locate_at_infinity
 from .starts import StartKind, choose_start
 from .service import PathCounts, track
 from .tracker import PathStatus, StartArray, TrackerOptions, x0_invisible
@@ -954,8 +955,11 @@ def _run(system, homotopy, start_points, total, options, rng, seed, progress, st
     # a multithreaded product of a 1 x 158 row (cyclic 8) took 5-30 ms on a loaded machine against 0.3 ms
     # (cyclic 8: 230 of 323 s in the isolation tests; decision 0077)
     with threadpool_limits(limits=1):
-        solutions, infinite, not_isolated, unverified = _collect(system, run.endpoints, status, winding, condition,
-                                                                 options, rng)
+        solutions, infinite, not_isolated, unverified, unsettled = _collect(
+            system, run.endpoints, status, winding, condition, options, rng,
+            forms=None if squared or system.projective else system.polynomials)
+    # a point at infinity that cannot be told from another, or no zero of the top-degree forms: failed paths
+    status[unsettled] = PathStatus.FAILED_ENDGAME
     discarded = []
     if squared:  # random combinations have extra solutions: keep only those of every equation
         # (a singular group that fails them is one of those extras, discarded like the regular ones)
@@ -970,6 +974,8 @@ def _run(system, homotopy, start_points, total, options, rng, seed, progress, st
                          digits=run.digits)
     result.discarded = discarded
     result.unverified = unverified
+    if len(unsettled):
+        result.extra["undecided_at_infinity"] = int(len(unsettled))
     description = dict(run.execution)
     tracking = description.pop("tracking_seconds")  # the batches and the re-tracking of jumped paths
     description["seconds"] = result.seconds
@@ -1014,7 +1020,13 @@ def _finite_points(system, endpoints, indices):
     return endpoints[indices, 1:] / endpoints[indices, :1]
 
 
-def _collect(system, endpoints, status, winding, condition, options, rng):
+def _collect(system, endpoints, status, winding, condition, options, rng, forms=None):
+    """Group the endpoints into solutions, points at infinity, flagged and unverified groups.
+
+    ``forms``: the affine target's equations, whose top-degree forms locate the points at infinity (decision
+    0106); None for random combinations, whose endpoints at infinity are clustered as they are. The last
+    value returned holds the paths at infinity whose point could not be decided.
+    """
     real_coefficients = system.has_real_coefficients
     finite = np.nonzero((status == PathStatus.CONVERGED) | (status == PathStatus.SINGULAR_ENDPOINT))[0]
     infinite = np.nonzero(status == PathStatus.AT_INFINITY)[0]
@@ -1073,14 +1085,26 @@ def _collect(system, endpoints, status, winding, condition, options, rng):
                          paths=paths, digits=digits)
         # an isolated group that does not satisfy F is no solution numag can vouch for (decision 0049)
         ((solutions if settled else unverified) if isolated else flagged).append(entry)
-    at_infinity = []
+    at_infinity, unsettled = [], np.zeros(0, dtype=np.int64)
     if len(infinite):
-        points = normalize_projective(endpoints[infinite])
-        for members in groups(cluster_labels(points, options.cluster_tolerance, projective=True)):
+        if forms is None:  # the paths of random combinations: their points at infinity are the combinations'
+            points = normalize_projective(endpoints[infinite])
+            found = [(members, points[members[0]], 1e-8) for members in
+                     groups(cluster_labels(points, options.cluster_tolerance, projective=True))]
+        else:
+            # located on the top-degree forms and grouped by their accuracy; what cannot be decided is failed
+            # (decision 0106)
+            located = locate_at_infinity(forms, endpoints[infinite], options.cluster_tolerance)
+            # a multiple point is known to its refinement's accuracy (1e-8 at a double one): below it, an
+            # imaginary part does not make the point complex
+            found = [(members, normalize_projective(located.point(members)),
+                      max(1e-8, float(located.accuracy[members].max()))) for members in located.groups]
+            if located.undecided:
+                unsettled = infinite[np.concatenate(located.undecided)]
+        for members, point, accuracy in found:
             paths = infinite[members]
-            point = points[members[0]]
-            real = bool(real_coefficients and np.all(np.abs(point.imag) <= 1e-8 * (1 + np.abs(point))))
+            real = bool(real_coefficients and np.all(np.abs(point.imag) <= accuracy * (1 + np.abs(point))))
             at_infinity.append(Solution(point=point, multiplicity=len(members), winding=int(winding[paths].max()),
                                         at_infinity=True, real=real, condition=float(condition[paths].min()),
                                         isolated=True, paths=paths, digits=16))
-    return solutions, at_infinity, flagged, unverified
+    return solutions, at_infinity, flagged, unverified, unsettled

@@ -99,6 +99,9 @@ def _certificate_line(certificate):
             parts.append(f"multiplicity {c['multiplicity']} ({c['multiplicity_method']})")
         if c.get("distance"):
             parts.append(f"{c['distance']:.1e} from the given point")
+        if c.get("holds_judged_point") is False:
+            parts.append("OF A NEARBY POINT OF X: the box does not hold the point the verdict is about, so it is "
+                         "no proof for that point")
         if len(c.get("digits_tried", [])) > 1:
             parts.append(f"at {c['digits']} digits (tried {', '.join(str(d) for d in c['digits_tried'])})")
         if c["distinct"] is False:

@@ -161,8 +161,9 @@ def run(args, out):
     check_plot_request(args, system)
     points = [parse_point_assignment(text, system.variables, index)
               for index, text in enumerate(args.point, 1)]
+    accuracies = [None] * len(points)  # a saved singular report states its points' accuracy (decision 0110)
     if args.points_file:
-        points += load_points(args.points_file, system.variables)
+        points += load_points(args.points_file, system.variables, accuracies)
     if not points:
         raise NumagError("no points to check: give --point x=..,y=.. or --points-file FILE.json")
     options = CheckOptions(local_dimension=args.local_dimension, point_tolerance=args.point_tolerance,
@@ -176,7 +177,7 @@ def run(args, out):
         _guard_paths(args, system, "check")
         decomposition = decompose(system, seed=seed, progress=_progress(args))
     _progress(args)(f"judging {_counted(len(points), 'point')} by the Jacobian criterion")
-    report = check_points(system, points, options, seed=seed, decomposition=decomposition)
+    report = check_points(system, points, options, seed=seed, decomposition=decomposition, accuracies=accuracies)
     anatomies = None
     if args.anatomy:
         anatomies = check_anatomy(report, decomposition, load_angles(args.system_file, system.variables))

@@ -91,6 +91,20 @@ def _add_at_option(command):
                          "e.g. b=3,c=1/2 (substituted exactly)")
 
 
+def _add_fixing_option(command):
+    """``--at c=4`` on the family commands: some parameters fixed (exactly), the others left free."""
+    command.add_argument("--at", metavar="VALUES", help="fix some of the parameters, e.g. c=4 (substituted "
+                         "exactly); the others stay free")
+
+
+def _load_free_family(args, purpose):
+    """The family of ``args.system_file`` with the parameters of ``--at`` fixed; refused without parameters."""
+    family = load_family(args.system_file)
+    if not family.parameters:
+        raise SystemFileError(f"has no 'parameters': {purpose}", args.system_file, "parameters")
+    return family.fixing(args.at) if getattr(args, "at", None) else family
+
+
 def _load_member(path, at):
     """The system of a file; for a family, its member at the values of ``--at`` (exactly substituted)."""
     family = load_family(path)

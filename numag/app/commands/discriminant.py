@@ -3,19 +3,18 @@
 import math
 
 from ...system.display import counted
-from ...errors import NumagError, SystemFileError
+from ...errors import NumagError
 from ...run.executor import using
-from ...system.files import load_family
 from ...system.safeio import write_file
 from ...tracking.tracker import FAILURE_LABELS
 from ...families.discriminant import DiscriminantOptions, discriminant
 from ...families.branches import CountKind
-from ...families.records import ComponentKind
+from ...families.records import MISSED_ON_LINES, ComponentKind
 from ..picture import discriminant_svg, sweep_svg
 from ..report import CAUTION, discriminant_warnings, dumps, undecided_special_points
 from ..saved import save
-from .common import (EXIT_OK, EXIT_UNDECIDED, _add_executor_options, _add_work_options, _format_complex,
-                     _progress, _rounding_floor, _seed, _stage_executor)
+from .common import (EXIT_OK, EXIT_UNDECIDED, _add_executor_options, _add_fixing_option, _add_work_options,
+                     _format_complex, _load_free_family, _progress, _rounding_floor, _seed, _stage_executor)
 
 
 def add_parser(commands):
@@ -45,6 +44,7 @@ def add_parser(commands):
     command.add_argument("--output", metavar="JSON", help="save the result (reload with numag.load)")
     command.add_argument("--svg", metavar="FILE", help="draw the result (regions and counts) as an SVG picture")
     command.add_argument("--json", action="store_true", help="print the result as JSON (no progress lines)")
+    _add_fixing_option(command)
     _add_executor_options(command)
     _add_work_options(command)
     command.set_defaults(run=run)
@@ -53,7 +53,8 @@ def add_parser(commands):
 def _failed(result):
     tracked = sum(result.paths.get(label, 0) for label in FAILURE_LABELS)
     traced = result.curve.failed_arcs + undecided_special_points(result.curve) if result.curve is not None else 0
-    return tracked + sum(r.count.failed + r.count.undecided for r in result.regions) + traced
+    return tracked + sum(r.count.failed + r.count.undecided for r in result.regions) + traced \
+        + result.paths.get(MISSED_ON_LINES, 0)
 
 
 def _count_text(count):
@@ -142,9 +143,7 @@ def _print_curve(result, out):
 
 
 def run(args, out):
-    family = load_family(args.system_file)
-    if not family.parameters:
-        raise SystemFileError("has no 'parameters': a discriminant is of a family", args.system_file, "parameters")
+    family = _load_free_family(args, "a discriminant is of a family")
     if not 1 <= args.lines <= 1000:
         raise NumagError(f"--lines must be from 1 to 1000, got {args.lines}")
     if not 2 <= args.trace_lines <= 10000:

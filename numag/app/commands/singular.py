@@ -113,6 +113,16 @@ def _print_singular(result, out, angles, data=None, anatomy=None):
         for k, point in enumerate(result.embedded, 1):
             real = bool(np.all(np.abs(np.imag(point)) <= _WITNESS_ACCURACY * (1 + np.linalg.norm(point))))
             out.write(f"  {k:4d}  {'real' if real else 'complex'}  {text(names, point, _WITNESS_ACCURACY)}\n")
+    if result.embedded_components:  # decision 0108: listed apart, never among X's singular pieces
+        out.write(f"\n{_counted(len(result.embedded_components), 'embedded component')} of the equations of positive "
+                  "dimension, not singular sets of X (the Jacobian of the given equations drops rank all along each, "
+                  "but its generic point lies on one reduced component of X with multiplicity 1 there, so X is smooth "
+                  "there)\n")
+        for k, c in enumerate(result.embedded_components, 1):
+            out.write(f"  {k:4d}  dimension {c.dimension}  degree {c.degree}  "
+                      f"{_counted(int(sum(c.real)), 'real witness point')}  on components "
+                      f"{', '.join(map(str, c.on_components))}\n")
+            out.write(f"        e.g. {text(names, c.points[int(np.argmax(c.real))], _WITNESS_ACCURACY)}\n")
     larger = [c for c in affine if c.dimension > 0 or c.kind is not PieceKind.SINGULAR]
     if larger:
         out.write(f"\n{_counted(len(larger), 'singular or non-reduced component')} of positive dimension or "

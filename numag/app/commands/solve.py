@@ -78,12 +78,20 @@ def _print_solve(result, out, data=None):
             out.write(f"  batch {rejected['index']} of the run folder was not trusted and was tracked again: "
                       f"{rejected['reason']}\n")
     for record in result.extra.get("centred") or []:  # decision 0081: the paths there are those of the first run
-        if record["settled"]:
+        if record["settled"] and "paths_first_run" not in record:
+            # solved again after failed paths (no region compared): the centred run accounted for every path
+            verdict = f"after {record['after_failed_paths']} failed paths; the centred run accounted for every path"
+        elif record["settled"]:
             verdict = f"{record['paths_first_run']} paths nearby in both runs, settled"
+        elif "paths_first_run" not in record:
+            verdict = "not settled (" + (record.get("reason") or f"after {record['after_failed_paths']} failed paths, "
+                                         "the centred run did not account for every path, "
+                                         f"{record['centred_run_failed_paths']} of its paths failed") + ")"
         else:
             verdict = "not settled (" + (record.get("reason") or f"{record['paths_first_run']} paths nearby in the first "
                                          f"run, {record['paths_centred_run']} in the centred one") + ")"
-        out.write(f"centred at {record['centre']}: a multiple group solved again there, {verdict}\n")
+        what = "a multiple group solved again there" if "paths_first_run" in record else "solved again there"
+        out.write(f"centred at {record['centre']}: {what}, {verdict}\n")
     if result.squared_up:
         out.write("note: more equations than unknowns; random combinations were tracked and every "
                   f"solution was kept only if it satisfies all equations ({len(result.discarded)} discarded)\n")

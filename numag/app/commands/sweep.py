@@ -5,9 +5,8 @@ import io
 
 import numpy as np
 
-from ...errors import InputError, SystemFileError
+from ...errors import InputError
 from ...system.display import counted
-from ...system.files import load_family
 from ...system.safeio import MAX_INPUT_BYTES, read_limited, write_file
 from ...tracking.solve import Execution
 from ...families.records import PointKind
@@ -15,8 +14,8 @@ from ...families.sweep import MAX_VALUES, sweep, parse_grid
 from ..picture import discriminant_svg, sweep_svg
 from ..report import CAUTION, dumps
 from ..saved import save
-from .common import (EXIT_OK, EXIT_UNDECIDED, _add_executor_options, _add_work_options, _format_point, _progress,
-                     _seed)
+from .common import (EXIT_OK, EXIT_UNDECIDED, _add_executor_options, _add_fixing_option, _add_work_options,
+                     _format_point, _load_free_family, _progress, _seed)
 
 
 def add_parser(commands):
@@ -37,6 +36,7 @@ def add_parser(commands):
     command.add_argument("--svg", metavar="FILE", help="draw the result (regions and counts) as an SVG picture")
     command.add_argument("--json", action="store_true", help="print the result as JSON (no progress lines)")
     command.add_argument("--seed", type=_seed, help="seed of the random choices (recorded in the result)")
+    _add_fixing_option(command)
     _add_executor_options(command)
     _add_work_options(command)
     command.set_defaults(run=run)
@@ -80,11 +80,13 @@ def read_values(path, parameters):
 def _csv_text(result):
     out = io.StringIO()
     writer = csv.writer(out, lineterminator="\n")
-    writer.writerow(list(result.parameters) + ["real_solutions", "rank_drops", "failed_paths", "solution", "kind"]
-                    + list(result.variables))
+    # undecided: solutions of the value told neither real nor paired with their conjugate (decision 0104); where
+    # it is not 0 the real count beside it is not sure (the command exits 3)
+    writer.writerow(list(result.parameters) + ["real_solutions", "rank_drops", "failed_paths", "undecided", "solution",
+                                               "kind"] + list(result.variables))
     for member in result.values:
         head = [f"{complex(v).real:.17g}" for v in member.parameters] + [
-            member.real_count, len(member.rank_drops), member.failed]
+            member.real_count, len(member.rank_drops), member.failed, member.undecided]
         real = np.nonzero(member.real)[0]
         if len(real) == 0:
             writer.writerow(head + ["", ""] + [""] * len(result.variables))
@@ -122,9 +124,7 @@ def _print(result, out):
 
 
 def run(args, out):
-    family = load_family(args.system_file)
-    if not family.parameters:
-        raise SystemFileError("has no 'parameters': a sweep is over a family", args.system_file, "parameters")
+    family = _load_free_family(args, "a sweep is over a family")
     values = parse_grid(args.grid, family.parameters) if args.grid is not None else read_values(args.values,
                                                                                               family.parameters)
     execution = Execution(workers=args.workers, scheduler=args.scheduler, local_dask=args.local_dask)

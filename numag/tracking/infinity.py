@@ -1,0 +1,215 @@
+"""Points at infinity located on the top-degree forms and grouped by their accuracy (decision 0106).
+
+An affine system's points at infinity are the common zeros of its equations' top-degree forms, directions d
+with f_i^top(d) = 0. A path that goes to infinity stops with X_0 small but not 0, and its direction is then
+off by a power of X_0 (X_0 = 1e-8 with the direction 1e-2 off, a point of multiplicity 5 after a linear
+change): clustered with a fixed tolerance, the paths of one point made two, both off. Here every such
+endpoint's direction is refined by Gauss-Newton on the top-degree forms (in units of their terms, in the
+chart normal to the endpoint's own direction). At a multiple zero Newton converges linearly, down to the
+accuracy double precision allows (about eps^(1/k)); the accuracy is read from the last corrections. Endpoints
+whose refined directions agree within their accuracies are one point; two groups that are neither clearly
+apart nor within their accuracies, or a direction that is no zero of the top-degree forms, cannot be
+decided: their paths count as failed (exit 3), never printed as points.
+"""
+
+from dataclasses import dataclass
+
+import numpy as np
+
+from ..numeric.cluster import close_line_pairs, connected_components, groups, line_distance
+from ..numeric.evaluate import BatchEvaluator, TermSizes
+from ..numeric.linalg import batched_least_squares
+from ..system.polynomial import Polynomial
+
+__all__ = ["InfinityPoints", "top_forms", "locate_at_infinity"]
+
+#: Gauss-Newton corrections at most: at a k-fold zero the distance shrinks by (k - 1) / k per correction, so
+#: from an endgame direction 1e-2 off a double zero is reached to rounding in 25, a five-fold one in about 80.
+_MAX_CORRECTIONS = 100
+#: Corrections over which stagnation is judged and the accuracy read: the largest of the last ones.
+_WINDOW = 8
+#: The accuracy is this many times the largest of the last corrections: a linear rate up to 0.9 (a ten-fold
+#: zero) leaves at most 9 times the last correction, and the largest of 8 at rate 0.9 is twice the last.
+_ACCURACY_FACTOR = 10.0
+#: A correction this small relative to the direction is rounding.
+_ROUNDING_STEP = 1e-15
+#: Two refined directions farther apart than their accuracies but within this many times them: undecided.
+_AMBIGUOUS_FACTOR = 10.0
+
+
+@dataclass
+class InfinityPoints:
+    """Endpoints at infinity grouped into points by :func:`locate_at_infinity`.
+
+    Attributes
+    ----------
+    directions : ndarray, shape (P, n)
+        Each endpoint's direction refined on the top-degree forms (unit norm).
+    accuracy : ndarray, shape (P,)
+        Each refined direction's accuracy as a distance between lines; inf where Gauss-Newton found no zero
+        of the top-degree forms.
+    groups : list of ndarray of int
+        Endpoints (indices into the input) that are one point at infinity.
+    undecided : list of ndarray of int
+        Endpoints whose point numag cannot tell: no zero of the top-degree forms near them, or groups that
+        are neither one point nor clearly two.
+    """
+
+    directions: np.ndarray
+    accuracy: np.ndarray
+    groups: list
+    undecided: list
+
+    def point(self, members):
+        """The homogeneous point (0, d) of a group: its members' directions averaged as lines."""
+        directions = self.directions[members]
+        inner = directions.conj() @ directions[0]  # each member turned to the first one's phase
+        phases = np.where(np.abs(inner) > 0, inner / np.maximum(np.abs(inner), 1e-300), 1.0)
+        mean = (phases[:, None] * directions).mean(axis=0)
+        return np.concatenate([[0.0], mean / np.linalg.norm(mean)])
+
+
+def top_forms(polynomials):
+    """Each polynomial's terms of highest degree (F^h at X_0 = 0).
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> [p.to_text(["x", "y"]) for p in top_forms(parse_system(["x*y - x + 1", "y^2 + 2*x^2 - 3"], ["x", "y"]).polynomials)]
+    ['x*y', '2*x^2 + y^2']
+    """
+    forms = []
+    for p in polynomials:
+        degrees = p.exponents.sum(axis=1)
+        keep = degrees == degrees.max() if len(degrees) else np.zeros(0, dtype=bool)
+        forms.append(Polynomial(p.exponents[keep], p.coefficients[keep], p.n_variables))
+    return forms
+
+
+def _refine(forms, directions):
+    """Gauss-Newton on the top-degree forms from each direction; returns (directions, accuracy, residual)."""
+    evaluator = BatchEvaluator(forms)
+    sizes = TermSizes(forms, projective=True)
+    current = directions / np.linalg.norm(directions, axis=1, keepdims=True)
+    normal = current.conj()  # the chart <normal, d> = 1 of each endpoint's own direction: no pivot to flip
+    steps = np.full((len(current), _MAX_CORRECTIONS), np.nan)
+    active = np.ones(len(current), dtype=bool)
+    taken = np.zeros(len(current), dtype=np.int64)
+    for k in range(_MAX_CORRECTIONS):
+        index = np.nonzero(active)[0]
+        if len(index) == 0:
+            break
+        values, jacobians = evaluator.evaluate(current[index])
+        scale = sizes.values(current[index])
+        matrices = np.concatenate([jacobians / scale[:, :, None], normal[index, None, :]], axis=1)
+        rhs = np.concatenate([values / scale, np.zeros((len(index), 1))], axis=1)
+        step = batched_least_squares(matrices, rhs, rcond=1e-14)
+        with np.errstate(invalid="ignore"):
+            current[index] -= step
+            steps[index, k] = np.linalg.norm(step, axis=1) / np.linalg.norm(current[index], axis=1)
+        taken[index] = k + 1
+        # done where a whole window of corrections is at rounding (a regular zero) or where they stopped
+        # shrinking over the last window (a multiple zero at the accuracy double precision allows, or no zero)
+        last = steps[index, max(0, k - _WINDOW + 1):k + 1]
+        rounding = (k + 1 >= _WINDOW) & (np.max(last, axis=1) <= _ROUNDING_STEP)
+        if k + 1 >= 2 * _WINDOW:
+            before = steps[index, k - 2 * _WINDOW + 1:k - _WINDOW + 1]
+            with np.errstate(invalid="ignore"):
+                stalled = ~(np.nanmax(last, axis=1) <= 0.5 * np.nanmax(before, axis=1))
+        else:
+            stalled = np.zeros(len(index), dtype=bool)
+        active[index[rounding | stalled | ~np.all(np.isfinite(current[index]), axis=1)]] = False
+    accuracy = np.empty(len(current))
+    for row in range(len(current)):
+        window = steps[row, max(0, taken[row] - _WINDOW):taken[row]]
+        accuracy[row] = _ACCURACY_FACTOR * np.max(window) if np.all(np.isfinite(window)) else np.inf
+    accuracy = np.maximum(accuracy, _ACCURACY_FACTOR * _ROUNDING_STEP)
+    finite = np.all(np.isfinite(current), axis=1)
+    residual = np.full(len(current), np.inf)
+    if np.any(finite):
+        values = evaluator.evaluate(current[finite], jacobian=False)
+        residual[finite] = np.max(np.abs(values) / sizes.values(current[finite]), axis=1)
+    norms = np.linalg.norm(current, axis=1, keepdims=True)
+    with np.errstate(invalid="ignore", divide="ignore"):
+        current = np.where(finite[:, None], current / norms, directions)
+    return current, accuracy, residual
+
+
+def locate_at_infinity(polynomials, endpoints, tolerance):
+    """Refine endpoints at infinity on the top-degree forms and group them into points by their accuracy.
+
+    Parameters
+    ----------
+    polynomials : sequence of Polynomial
+        The affine equations (n of them in n unknowns), in the units of the computation.
+    endpoints : ndarray, shape (P, n + 1)
+        Homogeneous endpoints (X_0 first) called at infinity.
+    tolerance : float
+        Endpoints whose lines are this close as the endgame left them are one point whatever their refined
+        directions say (on a set of directions at infinity of positive dimension, Newton from two nearby
+        starts stops at two nearby points of the set, both to rounding: cyclic 5, 1e-13 apart).
+
+    Returns
+    -------
+    InfinityPoints
+
+    Notes
+    -----
+    A refined direction is a point when the top-degree forms vanish there to rounding in units of their terms
+    (:data:`~numag.numeric.refine.ROUNDING_RESIDUAL`); its accuracy is ten times the largest of Gauss-Newton's
+    last eight corrections (at a k-fold zero about eps^(1/k)). Two endpoints are one point when their lines are
+    within the sum of their accuracies (or were within ``tolerance`` before refinement), and undecided when they
+    are apart but within ten times that sum. All
+    of it is a statement about lines in projective space: it holds in any linear coordinates, in any units
+    in which the endpoints are computed, whatever the seed.
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> # x y - 1, x^2 - 1: the direction x = 0, (0 : 0 : 1), is a double zero of the top forms x y, x^2
+    >>> system = parse_system(["x*y - 1", "x^2 - 1"], ["x", "y"])
+    >>> ends = np.array([[1e-9, 3e-3, 1.0], [1e-9, -2e-3j, 1.0]])
+    >>> located = locate_at_infinity(system.polynomials, ends, 1e-6)
+    >>> [g.tolist() for g in located.groups], located.undecided
+    ([[0, 1]], [])
+    >>> bool(abs(located.point(located.groups[0])[1]) < 1e-6)
+    True
+    """
+    # refine (with its mpmath helpers) is loaded only where points at infinity are located: a plain solve of
+    # finite solutions imports numpy alone (decision 0051; tests/test_startup.py)
+    from ..numeric.refine import ROUNDING_RESIDUAL
+    endpoints = np.atleast_2d(np.asarray(endpoints, dtype=complex))
+    count = len(endpoints)
+    if count == 0:
+        return InfinityPoints(np.zeros((0, endpoints.shape[1] - 1), complex), np.zeros(0), [], [])
+    directions, accuracy, residual = _refine(top_forms(polynomials), endpoints[:, 1:].copy())
+    with np.errstate(invalid="ignore"):
+        located = np.isfinite(accuracy) & (residual <= ROUNDING_RESIDUAL)
+    accuracy = np.where(located, accuracy, np.inf)
+    rows = np.nonzero(located)[0]
+    pairs = np.zeros((0, 2), dtype=np.int64)
+    ambiguous = np.zeros((0, 2), dtype=np.int64)
+    if len(rows) > 1:
+        # candidates within the widest ambiguous radius, then each pair judged by its own accuracies
+        candidates = close_line_pairs(directions[rows], 2 * _AMBIGUOUS_FACTOR * float(accuracy[rows].max()))
+        if len(candidates):
+            first, second = rows[candidates[:, 0]], rows[candidates[:, 1]]
+            distance = line_distance(directions[first], directions[second])
+            joint = accuracy[first] + accuracy[second]
+            same = distance <= joint
+            pairs = np.column_stack([first[same], second[same]])
+            doubt = ~same & (distance <= _AMBIGUOUS_FACTOR * joint)
+            ambiguous = np.column_stack([first[doubt], second[doubt]])
+    pairs = np.vstack([pairs, close_line_pairs(endpoints, tolerance)])
+    components = connected_components(count, pairs)
+    doubtful = np.zeros(count, dtype=bool)
+    doubtful[~located] = True
+    for i, j in ambiguous:  # a pair in doubt (not joined otherwise) leaves both of its groups undecided
+        if components[i] == components[j]:
+            continue
+        doubtful[components == components[i]] = True
+        doubtful[components == components[j]] = True
+    decided, undecided = [], []
+    for members in groups(components):
+        (undecided if doubtful[members[0]] else decided).append(np.asarray(members, dtype=np.int64))
+    return InfinityPoints(directions, accuracy, decided, undecided)
