@@ -30,7 +30,8 @@ from ..numeric.scaling import Scaling
 from ..system.display import counted
 from ..numeric.seeds import random_state
 from ..system.centred import CENTRED_BALANCING_FLOOR, centre_near, centred_system, translated_terms
-from ..witness.decompose import CENTRING_TERMS, centred_decomposition, curve_meets_hypersurface, decompose
+from ..witness.decompose import CENTRING_TERMS, centred_decomposition, decompose
+from ..witness.eliminant import MatrixDeterminant, curve_meets_hypersurface
 from .frame import cube_root_direction, frame_hessian, kernel_cubic
 from .hypersurface import anatomy_in_frame, corank_jump_shift, hessian_evidence, higher_a_shift, morse_alpha, \
     MORSE_ALPHA, HESSIAN_ZERO
@@ -98,7 +99,8 @@ class LocusAnatomy:
         """Ids of the points and components whose anatomy is incomplete (a failure to report)."""
         return sorted([k for k, v in self.points.items() if v.incomplete]
                       + [k for k, v in self.components.items()
-                         if v.transversal.incomplete or any(p.incomplete for p in v.special_points)])
+                         if v.transversal.incomplete or v.undecided_candidates
+                         or any(p.incomplete for p in v.special_points)])
 
     def to_dict(self):
         return {"points": {str(k): v.to_dict() for k, v in self.points.items()},
@@ -784,11 +786,12 @@ def _system_component_anatomy(system, component, seed, options, isolated=None):
     notes = ["several equations: the transversal type is the anatomy of the normal slice (multiplicity, branches)"]
     if not options.special_points:
         return ComponentAnatomy(component.id, k, transversal, [], notes, special_points_searched=False)
-    candidates, why_not = _lagrangian_special_points(
+    candidates, search_notes, undecided = _lagrangian_special_points(
         polynomials, scaling.to_computed(np.asarray(component.points, dtype=complex)), k, rng)
     if candidates is None:
-        notes.append(f"special points not searched: {why_not}")
+        notes.append(f"special points not searched: {search_notes[0]}")
         return ComponentAnatomy(component.id, k, transversal, [], notes, special_points_searched=False)
+    notes += search_notes
     on_component = _on_system_component(polynomials, candidates, scaling.to_computed(
         np.asarray(isolated if isolated is not None else [], dtype=complex).reshape(-1, system.n_variables)))
     rejected = int(np.sum(~on_component))
@@ -798,12 +801,12 @@ def _system_component_anatomy(system, component, seed, options, isolated=None):
     special = [_system_slice_anatomy(polynomials, candidate, scaling.to_user(candidate[None, :])[0], k, rng, options)
                for candidate in candidates[on_component]]
     return ComponentAnatomy(component.id, k, transversal, special, notes, special_points_searched=True,
-                            rejected_candidates=rejected)
+                            rejected_candidates=rejected, undecided_candidates=undecided)
 
 
 def _lagrangian_special_points(polynomials, witness, dimension, rng):
-    """Candidate special points (computed units) of a singular component of X = V(f_1, ..., f_c), or
-    (None, why) when they cannot be searched.
+    """Candidate special points (computed units) of a singular component of X = V(f_1, ..., f_c), the notes of
+    their search and the count of candidates left undecided; (None, [why], 0) when they cannot be searched.
 
     Where the Jacobian J drops rank by one along the component, X is near each of its points a hypersurface
     in the smooth manifold that c - 1 of the equations cut out, given by phi = sum_i lambda_i f_i with lambda
@@ -819,7 +822,7 @@ def _lagrangian_special_points(polynomials, witness, dimension, rng):
     --------
     >>> from numag.system.parse import parse_system
     >>> system = parse_system(["x^2 - y^2*z", "w - x - 2*y + z"], ["x", "y", "z", "w"])
-    >>> points, _ = _lagrangian_special_points([p.numeric() for p in system.polynomials],
+    >>> points, _, _ = _lagrangian_special_points([p.numeric() for p in system.polynomials],
     ...                                        np.array([0, 0, 3.0, -3.0]), 1, np.random.default_rng(1))
     >>> np.round(np.abs(points), 8).tolist()
     [[0.0, 0.0, 0.0, 0.0]]
@@ -827,7 +830,7 @@ def _lagrangian_special_points(polynomials, witness, dimension, rng):
     c, n = len(polynomials), polynomials[0].n_variables
     witness = np.atleast_2d(np.asarray(witness, dtype=complex))
     if dimension != 1:
-        return None, "special points are searched on singular curves"
+        return None, ["special points are searched on singular curves"], 0
     generic = witness[0]
     _, jacobians = BatchEvaluator(polynomials).evaluate(np.asarray(generic, dtype=complex)[None, :])
     sizes = TermSizes(polynomials).gradients(np.asarray(generic, dtype=complex)[None, :])[0]
@@ -835,8 +838,8 @@ def _lagrangian_special_points(polynomials, witness, dimension, rng):
     left, values, _ = np.linalg.svd(jacobians[0] / rows[:, None])
     rank, width = widest_gap_rank(values, HESSIAN_ZERO, _KEPT_JACOBIAN)
     if width < _CLEAR_DECADES or rank != c - 1:
-        return None, ("the Jacobian's rank along the component is unclear" if width < _CLEAR_DECADES else
-                      f"the Jacobian drops rank by {c - rank} along the component (by one is searched)")
+        return None, ["the Jacobian's rank along the component is unclear" if width < _CLEAR_DECADES else
+                      f"the Jacobian drops rank by {c - rank} along the component (by one is searched)"], 0
     # lambda for the equations as balanced, scaled by their rows: the left null vector of J itself
     null = left[:, -1].conj() / rows
     pick = rng.standard_normal(c) + 1j * rng.standard_normal(c)
@@ -848,47 +851,32 @@ def _lagrangian_special_points(polynomials, witness, dimension, rng):
         lagrangian = lagrangian + padded * Polynomial.variable(n + i, n + c)
     evidence, _, unclear = hessian_evidence(lagrangian, np.concatenate([generic, null]))
     if unclear:
-        return None, "the rank of the Lagrangian's Hessian at the generic point is unclear"
+        return None, ["the rank of the Lagrangian's Hessian at the generic point is unclear"], 0
     try:
         determinants, minors = _lagrangian_determinants(polynomials, dimension, evidence.rank, rng)
     except LimitError:
-        return None, "the compressed Hessian of the Lagrangian is too large to expand"
+        return None, ["the compressed Hessian of the Lagrangian is too large to expand"], 0
     curve = list(polynomials) + [m * (1.0 / m.coefficient_norm()) for m in minors if not m.is_zero()]
-    import os
-    if os.environ.get("LIFT"):
-        size = n + c
-        hessian = [[lagrangian.derivative(a).derivative(b) for b in range(size)] for a in range(size)]
-        compress = rng.standard_normal((size, evidence.rank)) + 1j * rng.standard_normal((size, evidence.rank))
-        left_rows = [[_combination([hessian[a][b] for a in range(size)], compress[:, i]) for b in range(size)]
-                     for i in range(evidence.rank)]
-        lifted_g = determinant([[_combination(left_rows[i], compress[:, j]) for j in range(evidence.rank)]
-                                for i in range(evidence.rank)])
-        padded_f = [Polynomial(np.hstack([f.exponents, np.zeros((f.n_terms, c), dtype=np.int64)]),
-                               f.numeric_coefficients(), size) for f in polynomials]
-        normalise = Polynomial.constant(-1.0, size)
-        for i in range(c):
-            normalise = normalise + Polynomial.variable(n + i, size) * complex(pick[i])
-        lifted_curve = padded_f + [lagrangian.derivative(j) for j in range(n)] + [normalise]
-        lifted = []
-        for x in witness:
-            _, jx = BatchEvaluator(polynomials).evaluate(x[None, :])
-            sx = TermSizes(polynomials).gradients(x[None, :])[0]
-            rx = np.where(sx > 0, sx, 1.0)
-            lam = np.linalg.svd(jx[0] / rx[:, None])[0][:, -1].conj() / rx
-            lifted.append(np.concatenate([x, lam / (pick @ lam)]))
-        print("lifted g degree", lifted_g.degree, lifted_g.n_terms)
-        found_lifted, _ = curve_meets_hypersurface(lifted_curve, np.array(lifted), lifted_g, rng)
-        found = found_lifted[:, :n]
-    else:
-        found, _ = curve_meets_hypersurface(curve, witness, determinants[0], rng)
+    meeting = curve_meets_hypersurface(curve, witness, determinants[0], rng)
+    found, undecided, notes = meeting.points, meeting.undecided, list(meeting.notes)
     points = []
     for point in _distinct_points(found):
         # the rank of the whole bordered matrix there, with lambda from J's own left null vector
         _, jacobians_here = BatchEvaluator(polynomials).evaluate(point[None, :])
         null_here = np.linalg.svd(jacobians_here[0])[0][:, -1].conj()
         at_point, _, unclear_here = hessian_evidence(lagrangian, np.concatenate([point, null_here]))
-        if unclear_here or at_point.rank < evidence.rank:   # an unclear rank is kept: its slice decides
+        # the point is read off the eliminant's samples, to about 1e-10 of its size: singular values that small are
+        # its distance from the rank drop, which the widest gap may count as a rank (a pinch point 2e-10 off:
+        # values 4e-11 and 1e-11 over a gap to 1e-22); counted below the Hessian's zero they are a drop
+        values_here = np.asarray(at_point.singular_values)
+        above_zero = int(np.sum(values_here > at_point.tolerance))
+        if unclear_here or min(at_point.rank, above_zero) < evidence.rank:   # unclear is kept: its slice decides
             points.append(point)
+        elif values_here[evidence.rank - 1] <= _NEAR_DROP * at_point.tolerance:
+            # a value just above the zero at a point known to ~1e-10: a rank drop the point's error may hide
+            undecided += 1
+            notes.append(f"a point of the curve where the bordered Hessian nearly drops rank (a singular value "
+                         f"{values_here[evidence.rank - 1]:.1e}): undecided")
     if c >= 2:
         # where J drops rank by two or more: the curve's points on a random combination of J's (c-1)-minors,
         # kept where the scaled Jacobian's rank is below c - 1 there (or unclear: the slice decides)
@@ -898,8 +886,10 @@ def _lagrangian_special_points(polynomials, witness, dimension, rng):
                    for cols in itertools.combinations(range(n), c - 1)]
         smaller = [m * (1.0 / m.coefficient_norm()) for m in smaller if not m.is_zero()]
         weights = rng.standard_normal(len(smaller)) + 1j * rng.standard_normal(len(smaller))
-        deeper, _ = curve_meets_hypersurface(curve, witness, _combination(smaller, weights), rng)
-        for point in _distinct_points(deeper):
+        deeper = curve_meets_hypersurface(curve, witness, _combination(smaller, weights), rng)
+        undecided += deeper.undecided
+        notes += deeper.notes
+        for point in _distinct_points(deeper.points):
             _, jacobians_here = BatchEvaluator(polynomials).evaluate(point[None, :])
             sizes_here = TermSizes(polynomials).gradients(point[None, :])[0]
             values_here = np.linalg.svd(jacobians_here[0] / np.where(sizes_here > 0, sizes_here, 1.0)[:, None],
@@ -907,7 +897,12 @@ def _lagrangian_special_points(polynomials, witness, dimension, rng):
             rank_here, width_here = widest_gap_rank(values_here, HESSIAN_ZERO, _KEPT_JACOBIAN)
             if width_here < _CLEAR_DECADES or rank_here < c - 1:
                 points.append(point)
-    return _distinct_points(np.array(points, dtype=complex).reshape(-1, n)), None
+    return _distinct_points(np.array(points, dtype=complex).reshape(-1, n)), notes, undecided
+
+
+#: A candidate special point whose bordered Hessian keeps its rank by a value below this times the zero is
+#: undecided (its point is known to the eliminant's accuracy only).
+_NEAR_DROP = 1e3
 
 
 def _lagrangian_determinants(polynomials, dimension, rank, rng):
@@ -937,7 +932,7 @@ def _lagrangian_determinants(polynomials, dimension, rank, rng):
                 for i in range(rank)]
         compressed = [[_combination(left[i], compress[:, j]) for j in range(rank)]
                       for i in range(rank)]
-        determinants.append(determinant(compressed))
+        determinants.append(MatrixDeterminant(compressed))
     minors = [determinant([[jacobian[i][j] for j in cols] for i in range(c)])
               for cols in itertools.combinations(range(n), c)]
     return determinants, minors

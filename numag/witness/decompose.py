@@ -48,7 +48,7 @@ from ..system.polynomial import Polynomial, PolynomialSystem, linear_space, requ
 from ..numeric.cluster import cluster_labels, connected_components, groups as label_groups
 from ..numeric.evaluate import BatchEvaluator, TermSizes
 from ..numeric.minors import (CombinedRows, EvaluatedMinors, AugmentedEvaluator, MinorsSystem, MinorWeights,
-                              LinearFormProduct, equation_evaluator, expanded_minors, random_minor_weights)
+                              equation_evaluator, expanded_minors, random_minor_weights)
 from ..numeric.scaling import Scaling
 from ..numeric.seeds import random_state, resolved_seed
 from ..tracking.service import PathCounts, add_path_counts
@@ -425,79 +425,6 @@ class _Mover:
         start = held + [linear_form(r) for r in from_rows]
         target = held + [linear_form(r) for r in to_rows]
         return track_moves(start, target, points, self.rng, tracker, self.options.witness.batch_size, held=block)
-
-
-def curve_meets_hypersurface(curve_equations, witness_points, hypersurface, rng, options=None):
-    """The points where a curve meets a hypersurface, moved there from the curve's witness points.
-
-    The curve is a component of V(``curve_equations``) (affine numeric polynomials, deflated here where they lose
-    rank along it); its witness points lie on one hyperplane, which is recovered from them. The witness set is
-    moved onto D random hyperplanes (D the degree of g, the hypersurface's polynomial), and the D * deg points
-    follow the pencil from their product to g, so every point of the curve on V(g) is the end of a path
-    (regeneration restricted to the curve: a system whose other zeros are far larger than the curve, such as the
-    curve's equations together with g, never has to be decomposed).
-
-    Parameters
-    ----------
-    curve_equations : list of Polynomial
-    witness_points : ndarray, shape (deg, n)
-        All the curve's points on one hyperplane.
-    hypersurface : Polynomial
-    rng : numpy.random.Generator
-    options : WitnessOptions, optional
-
-    Returns
-    -------
-    ndarray, shape (m, n)
-        The finite endpoints (a point met with multiplicity k repeats up to k times).
-    PathCounts
-        Every path tracked (moves and the pencil).
-
-    Examples
-    --------
-    >>> from numag.system.parse import parse_system
-    >>> circle = [p.numeric() for p in parse_system(["x^2 + y^2 - 1"], ["x", "y"]).polynomials]
-    >>> on_line = np.array([[0.6, 0.8], [0.6, -0.8]])             # the circle's points on x = 0.6
-    >>> line = parse_system(["y"], ["x", "y"]).polynomials[0].numeric()
-    >>> points, _ = curve_meets_hypersurface(circle, on_line, line, np.random.default_rng(0))
-    >>> sorted(np.round(points[:, 0].real, 8).tolist())
-    [-1.0, 1.0]
-    """
-    options = options or WitnessOptions()
-    points = np.atleast_2d(np.asarray(witness_points, dtype=complex))
-    n = points.shape[1]
-    held = holding_rows(PolynomialSystem([f"x{j}" for j in range(n)], list(curve_equations)), n - 1, points, rng,
-                        options.rank_threshold)
-    rows, block = held_parts(held.combined(n - 1, rng))
-    # the hyperplane through the witness points: a random one of those through them (any one not containing
-    # the curve meets it in exactly these deg points, since there are deg of them)
-    affine = np.hstack([np.ones((len(points), 1)), points])
-    _, values, right = np.linalg.svd(affine)
-    through = right[len(points):].conj() if len(points) < n + 1 else right[-1:].conj()
-    plane = (rng.standard_normal(len(through)) + 1j * rng.standard_normal(len(through))) @ through
-    plane = plane / np.linalg.norm(plane)
-    degree = max(hypersurface.degree, 1)
-    forms = random_rows(rng, degree, n + 1)
-    starts, paths = [], PathCounts()
-    for form in forms:
-        run = track_moves(rows + [linear_form(plane)], rows + [linear_form(form)], points, rng, options.tracker,
-                          options.batch_size, held=block)
-        paths += run.counts
-        ends = run.affine_endpoints()
-        starts.append(ends[np.all(np.isfinite(ends), axis=1)])
-    starts = np.vstack(starts)
-    # g at the size of the product of unit forms: a g of large terms would cross over near t = 0 at once
-    target = hypersurface.numeric()
-    target = target * (1.0 / max(float(np.max(TermSizes([target]).values(starts), initial=0.0)), 1e-300))
-    # measured (the umbrella on a graph in C^4 after a rational linear change, seed 2): with the default endgame
-    # the path to the pinch point (a zero of g at which the held rows lose rank) is unsettled; with these it ends
-    # there, but the 11 paths to a multiple point at infinity then cost 290 s (jumped and re-tracked)
-    tracker = replace(options.tracker, rescue_digits=0, endgame_tolerance=1e-8, endgame_corrector_tolerance=1e-8,
-                      endgame_rounds=14, endpoint_residual=1e-6)
-    run = track_moves(rows + [LinearFormProduct(forms)], rows + [target.homogenize(0)], starts, rng,
-                      tracker, options.batch_size, whole_cycles=True, held=block)
-    ends = run.affine_endpoints(jumped_limits=True)
-    return ends[np.all(np.isfinite(ends), axis=1)], paths + run.counts
 
 
 def _refined(mover, points):
