@@ -111,7 +111,9 @@ def test_transversal_type_along_a_singular_curve_of_two_equations(seed):
     # X = V(x^2 - y^2 z, w - z^2 - x y) in C^4, a surface of codimension 2 (the Whitney umbrella carried onto
     # the graph w = z^2 + x y; common practice, no source). Its singular locus, where the 2 x 2 minors of the
     # Jacobian vanish on X, is the conic x = y = 0, w = z^2 (verified with sympy below); a normal slice at a
-    # generic point of it is a curve with a node: multiplicity 2, two smooth branches.
+    # generic point of it is a curve with a node: multiplicity 2, two smooth branches. X is the graph of
+    # w = z^2 + x y over the umbrella, an isomorphism that keeps local types: the special point is the pinch point
+    # at the origin, whose normal slice is a cusp (multiplicity 2, one branch of multiplicity 2).
     sympy = pytest.importorskip("sympy")
     x, y, z, w = sympy.symbols("x y z w")
     equations = [x**2 - y**2 * z, w - z**2 - x * y]
@@ -130,7 +132,10 @@ def test_transversal_type_along_a_singular_curve_of_two_equations(seed):
     transversal = anatomy.transversal
     assert transversal.multiplicity == 2
     assert sorted(b.multiplicity for b in transversal.branches) == [1, 1]
-    assert not anatomy.special_points_searched and not anatomy.special_points
+    assert anatomy.special_points_searched and anatomy.undecided_candidates == 0
+    assert [np.abs(p.point).max() < 1e-8 for p in anatomy.special_points] == [True]
+    pinch = anatomy.special_points[0]
+    assert pinch.multiplicity == 2 and [b.multiplicity for b in pinch.branches] == [2]
 
 
 def test_candidate_special_points_off_the_component_are_rejected_and_counted():
@@ -207,3 +212,54 @@ def test_a_pinch_point_given_off_itself_is_moved_in_the_ambient_space(seed):
     assert pinch.point.shape == (3,) and np.abs(pinch.point).max() < 1e-8
     assert pinch.moved_by is None or pinch.moved_by < 1e-8
     assert pinch.hypersurface.type.label in ("A2", "undecided")
+
+
+def _carried_umbrella(transform):
+    """The Whitney umbrella on the graph w = z^2 + x y, in coordinates X with x = A X + b (and its pinch point)."""
+    sympy = pytest.importorskip("sympy")
+    X = sympy.symbols("X1:5")
+    if transform == "units":
+        matrix, shift = sympy.diag(1000, 1000, 1000, 1000), sympy.zeros(4, 1)
+    elif transform == "linear":
+        matrix = sympy.Matrix([[2, -1, 0, sympy.Rational(1, 3)], [1, 1, -2, 0], [0, sympy.Rational(1, 2), 1, 1],
+                               [1, 0, 1, -1]])
+        shift = sympy.Matrix([3, -2, 5, 1])
+    else:
+        matrix, shift = sympy.eye(4), sympy.zeros(4, 1)
+    x, y, z, w = list(matrix * sympy.Matrix(X) + shift)
+    equations = [sympy.expand(x**2 - y**2 * z), sympy.expand(w - z**2 - x * y)]
+    pinch = matrix.inv() * (-shift)   # where x = y = z = w = 0
+    texts = [str(e).replace("**", "^") for e in equations]
+    return parse_system(texts, [str(v) for v in X]), np.array([complex(v) for v in pinch])
+
+
+@pytest.mark.parametrize("transform, seed", [("identity", 1), ("linear", 2), ("units", 3), ("linear", 1)])
+def test_pinch_point_of_two_equations_in_other_coordinates(transform, seed):
+    # The Whitney umbrella x^2 = y^2 z has one special point on its double line, the pinch point at the origin,
+    # where the normal slice is a cusp (common practice, no source); carried onto the graph w = z^2 + x y and
+    # then by an affine change of coordinates (an isomorphism: local types are kept) it becomes a surface of
+    # two equations in C^4 whose special point is the image of the origin. Found where the Hessian of the
+    # Lagrangian drops rank (the singular curve's points on it read off the evaluated eliminant, decision 0114),
+    # in any units and coordinates, with nothing left undecided.
+    system, pinch = _carried_umbrella(transform)
+    locus = numag.singular_locus(system, seed=seed)
+    curves = [c for c in locus.components if c.dimension == 1]
+    assert [c.degree for c in curves] == [2]
+    anatomy = component_anatomy(system, curves[0], seed=seed)
+    assert anatomy.special_points_searched and anatomy.undecided_candidates == 0
+    scale = 1 + np.linalg.norm(pinch)
+    assert [np.linalg.norm(p.point - pinch) < 1e-6 * scale for p in anatomy.special_points] == [True]
+    assert anatomy.special_points[0].multiplicity in (2, None)
+
+
+def test_a_crossing_of_two_planes_in_four_unknowns_has_no_special_point():
+    # Two planes of C^4 meeting along a line, cut by two equations: x y = 0, w = z + x + y (the line x = y = 0,
+    # w = z). Transversally every point of the line is the same node (the pair of lines x y = 0 in the slice;
+    # common practice, no source): searched, none found.
+    system = parse_system(["x*y", "w - z - x - y"], ["x", "y", "z", "w"])
+    locus = numag.singular_locus(system, seed=1)
+    lines = [c for c in locus.components if c.dimension == 1]
+    assert [c.degree for c in lines] == [1]
+    anatomy = component_anatomy(system, lines[0], seed=1)
+    assert anatomy.special_points_searched and anatomy.special_points == []
+    assert anatomy.transversal.multiplicity == 2

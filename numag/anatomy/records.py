@@ -425,6 +425,9 @@ class ComponentAnatomy:
     rejected_candidates : int
         Candidate special points that failed the check that they lie on this component (equations of the
         singular locus not met in term units, or an isolated singular point of the locus).
+    undecided_candidates : int
+        Places where a special point may lie that the search could neither confirm nor rule out (a failure: the
+        list of special points may be incomplete).
     """
 
     component: int
@@ -434,15 +437,17 @@ class ComponentAnatomy:
     notes: list = field(default_factory=list)
     special_points_searched: bool = True
     rejected_candidates: int = 0
+    undecided_candidates: int = 0
 
     def to_dict(self):
         return {"component": self.component, "dimension": self.dimension, "transversal": self.transversal.to_dict(),
                 "special_points": [p.to_dict() for p in self.special_points], "notes": list(self.notes),
                 "special_points_searched": self.special_points_searched,
-                "rejected_candidates": self.rejected_candidates}
+                "rejected_candidates": self.rejected_candidates, "undecided_candidates": self.undecided_candidates}
 
     @classmethod
     def from_dict(cls, data):
         return cls(int(data["component"]), int(data["dimension"]), PointAnatomy.from_dict(data["transversal"]),
                    [PointAnatomy.from_dict(p) for p in data["special_points"]], list(data["notes"]),
-                   bool(data.get("special_points_searched", True)), int(data.get("rejected_candidates", 0)))
+                   bool(data.get("special_points_searched", True)), int(data.get("rejected_candidates", 0)),
+                   int(data.get("undecided_candidates", 0)))

@@ -24,15 +24,19 @@ import numpy as np
 from ..errors import InputError, LimitError
 from ..system.polynomial import Polynomial, PolynomialSystem, determinant
 from ..numeric.evaluate import BatchEvaluator, TermSizes
+from ..numeric.linalg import widest_gap_rank
 from ..numeric.refine import largest_scaled_residual
 from ..numeric.scaling import Scaling
 from ..system.display import counted
 from ..numeric.seeds import random_state
 from ..system.centred import CENTRED_BALANCING_FLOOR, centre_near, centred_system, translated_terms
 from ..witness.decompose import CENTRING_TERMS, centred_decomposition, decompose
+from ..witness.eliminant import MatrixDeterminant, curve_meets_hypersurface
 from .frame import cube_root_direction, frame_hessian, kernel_cubic
 from .hypersurface import anatomy_in_frame, corank_jump_shift, hessian_evidence, higher_a_shift, morse_alpha, \
-    MORSE_ALPHA
+    MORSE_ALPHA, HESSIAN_ZERO
+# the Jacobian's rank along a component is read with the Hessian's thresholds (scaled values, widest gap)
+from .hypersurface import _CLEAR_DECADES, _KEPT as _KEPT_JACOBIAN
 from .deflation import DeflationOutcome, ROUNDING_MOVE, onto_singular_point
 from .intersection import complete_intersection_milnor, curve_delta
 from ..witness.local import LocalOptions, LocalPicture, hypersurface_witness, local_picture, order_radius, orbit_tangent
@@ -95,7 +99,8 @@ class LocusAnatomy:
         """Ids of the points and components whose anatomy is incomplete (a failure to report)."""
         return sorted([k for k, v in self.points.items() if v.incomplete]
                       + [k for k, v in self.components.items()
-                         if v.transversal.incomplete or any(p.incomplete for p in v.special_points)])
+                         if v.transversal.incomplete or v.undecided_candidates
+                         or any(p.incomplete for p in v.special_points)])
 
     def to_dict(self):
         return {"points": {str(k): v.to_dict() for k, v in self.points.items()},
@@ -629,6 +634,8 @@ def _hessian_jump_system(polynomial, rank):
     size = rank + 1
     for rows in itertools.combinations(range(n), size):
         for cols in itertools.combinations(range(n), size):
+            if cols < rows:   # the Hessian is symmetric: that minor is the one of (cols, rows)
+                continue
             minor = determinant([[hessian[i][j] for j in cols] for i in rows])
             if not minor.is_zero():
                 minors.append(minor)
@@ -740,36 +747,231 @@ def _distinct_points(points, tolerance=1e-6):
     return np.array(kept, dtype=complex).reshape(-1, points.shape[1])
 
 
-def _system_component_anatomy(system, component, seed, options):
-    """The transversal type of X = V(F) (several equations) along a singular component: X cut by a random
-    normal affine space through a witness point, in the slice's own coordinates s (x = p + N s)."""
-    _, rng = random_state(seed)
-    n, k = system.n_variables, component.dimension
-    generic = np.asarray(component.points[0], dtype=complex)
-    scaling, polynomials = _balanced(system)
-    computed = scaling.to_computed(generic)
-    normal = rng.standard_normal((n, n - k)) + 1j * rng.standard_normal((n, n - k))
+def _system_slice_anatomy(polynomials, computed, user_point, dimension, rng, options):
+    """The anatomy of X = V(F) (several equations, balanced units) cut by a random normal affine space through
+    ``computed``, in the slice's own coordinates s (x = computed + N s)."""
+    n = polynomials[0].n_variables
+    normal = rng.standard_normal((n, n - dimension)) + 1j * rng.standard_normal((n, n - dimension))
     normal, _ = np.linalg.qr(normal)
-    names = [f"s{j}" for j in range(n - k)]
-    origin = np.zeros(n - k, dtype=complex)
+    names = [f"s{j}" for j in range(n - dimension)]
+    origin = np.zeros(n - dimension, dtype=complex)
     restricted = []
     for q in polynomials:
         sliced = q.substitute_linear(normal, computed)
-        sliced = sliced - complex(sliced.evaluate(origin))   # the generic point is on X: its value is rounding
-        # the witness point is known to about 1e-16 only (coordinates of 1e-17 where the curve has 0): terms
-        # within that error against the slice's largest are dropped; kept (a linear term of 1e-17), the
-        # slice's curve is smoothed at the point and the local witness points were lost on every slice
+        sliced = sliced - complex(sliced.evaluate(origin))   # the point is on X: its value is rounding
+        # the point is known to about 1e-16 only (coordinates of 1e-17 where the curve has 0): terms within that
+        # error against the slice's largest are dropped; kept (a linear term of 1e-17), the slice's curve is
+        # smoothed at the point and the local witness points were lost on every slice
         values = sliced.numeric_coefficients()
         keep = np.abs(values) > _SLICE_ROUNDING * float(np.max(np.abs(values), initial=0.0))
-        restricted.append(Polynomial(sliced.exponents[keep], values[keep], n - k) if np.any(keep)
-                          else Polynomial.zero(n - k))
-    sliced_system = PolynomialSystem(names, restricted)
-    transversal = point_anatomy(sliced_system, origin, seed=seed, options=options)
-    transversal.point = generic
+        restricted.append(Polynomial(sliced.exponents[keep], values[keep], n - dimension) if np.any(keep)
+                          else Polynomial.zero(n - dimension))
+    transversal = point_anatomy(PolynomialSystem(names, restricted), origin, seed=int(rng.integers(2 ** 31)),
+                                options=options)
+    transversal.point = np.asarray(user_point, dtype=complex)
     _complex_slice(transversal)  # the slice is complex: no real motion to tell
-    notes = ["several equations: the transversal type is the anatomy of the normal slice (multiplicity, "
-             "branches); special points along the component are not searched"]
-    return ComponentAnatomy(component.id, k, transversal, [], notes, special_points_searched=False)
+    return transversal
+
+
+def _system_component_anatomy(system, component, seed, options, isolated=None):
+    """The transversal type of X = V(F) (several equations) along a singular component, and the points where
+    it changes (:func:`_lagrangian_special_points`)."""
+    _, rng = random_state(seed)
+    k = component.dimension
+    generic_user = np.asarray(component.points[0], dtype=complex)
+    scaling, polynomials = _balanced(system)
+    generic = scaling.to_computed(generic_user)
+    # the slice keeps the draws it had before special points were searched: its own generator
+    transversal = _system_slice_anatomy(polynomials, generic, generic_user, k, np.random.default_rng(seed), options)
+    notes = ["several equations: the transversal type is the anatomy of the normal slice (multiplicity, branches)"]
+    if not options.special_points:
+        return ComponentAnatomy(component.id, k, transversal, [], notes, special_points_searched=False)
+    candidates, search_notes, undecided = _lagrangian_special_points(
+        polynomials, scaling.to_computed(np.asarray(component.points, dtype=complex)), k, rng)
+    if candidates is None:
+        notes.append(f"special points not searched: {search_notes[0]}")
+        return ComponentAnatomy(component.id, k, transversal, [], notes, special_points_searched=False)
+    notes += search_notes
+    on_component = _on_system_component(polynomials, candidates, scaling.to_computed(
+        np.asarray(isolated if isolated is not None else [], dtype=complex).reshape(-1, system.n_variables)))
+    rejected = int(np.sum(~on_component))
+    if rejected:
+        notes.append(f"{counted(rejected, 'candidate special point')} rejected: not on this component (F or the "
+                     "Jacobian's rank drop not met in term units, or an isolated singular point of the locus)")
+    special = [_system_slice_anatomy(polynomials, candidate, scaling.to_user(candidate[None, :])[0], k, rng, options)
+               for candidate in candidates[on_component]]
+    return ComponentAnatomy(component.id, k, transversal, special, notes, special_points_searched=True,
+                            rejected_candidates=rejected, undecided_candidates=undecided)
+
+
+def _lagrangian_special_points(polynomials, witness, dimension, rng):
+    """Candidate special points (computed units) of a singular component of X = V(f_1, ..., f_c), the notes of
+    their search and the count of candidates left undecided; (None, [why], 0) when they cannot be searched.
+
+    Where the Jacobian J drops rank by one along the component, X is near each of its points a hypersurface
+    in the smooth manifold that c - 1 of the equations cut out, given by phi = sum_i lambda_i f_i with lambda
+    the left null vector of J; phi's Hessian on that manifold is the Hessian of the Lagrangian
+    G(x, lambda) = sum_i lambda_i f_i(x) in x, restricted to ker J. All of it is the Hessian of G in (x, lambda)
+    together: the bordered matrix [[Q, J^T], [J, 0]], whose rank is rank(Q on ker J) + 2 rank J. So the
+    transversal type changes where that rank drops below its value at the generic point: the special points
+    of the hypersurface G = 0 along its critical set (:func:`_hessian_jump_system`), with lambda normalised by a
+    random affine condition. Points where J drops rank further (lambda is no longer unique) are added: the
+    isolated points of V(F, the (c-1)-minors of J).
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> system = parse_system(["x^2 - y^2*z", "w - x - 2*y + z"], ["x", "y", "z", "w"])
+    >>> points, _, _ = _lagrangian_special_points([p.numeric() for p in system.polynomials],
+    ...                                        np.array([0, 0, 3.0, -3.0]), 1, np.random.default_rng(1))
+    >>> np.round(np.abs(points), 8).tolist()
+    [[0.0, 0.0, 0.0, 0.0]]
+    """
+    c, n = len(polynomials), polynomials[0].n_variables
+    witness = np.atleast_2d(np.asarray(witness, dtype=complex))
+    if dimension != 1:
+        return None, ["special points are searched on singular curves"], 0
+    generic = witness[0]
+    _, jacobians = BatchEvaluator(polynomials).evaluate(np.asarray(generic, dtype=complex)[None, :])
+    sizes = TermSizes(polynomials).gradients(np.asarray(generic, dtype=complex)[None, :])[0]
+    rows = np.where(sizes > 0, sizes, 1.0)
+    left, values, _ = np.linalg.svd(jacobians[0] / rows[:, None])
+    rank, width = widest_gap_rank(values, HESSIAN_ZERO, _KEPT_JACOBIAN)
+    if width < _CLEAR_DECADES or rank != c - 1:
+        return None, ["the Jacobian's rank along the component is unclear" if width < _CLEAR_DECADES else
+                      f"the Jacobian drops rank by {c - rank} along the component (by one is searched)"], 0
+    # lambda for the equations as balanced, scaled by their rows: the left null vector of J itself
+    null = left[:, -1].conj() / rows
+    pick = rng.standard_normal(c) + 1j * rng.standard_normal(c)
+    null = null / (pick @ null)
+    lagrangian = Polynomial.zero(n + c)
+    for i, f in enumerate(polynomials):
+        padded = Polynomial(np.hstack([f.exponents, np.zeros((f.n_terms, c), dtype=np.int64)]),
+                            f.numeric_coefficients(), n + c)
+        lagrangian = lagrangian + padded * Polynomial.variable(n + i, n + c)
+    evidence, _, unclear = hessian_evidence(lagrangian, np.concatenate([generic, null]))
+    if unclear:
+        return None, ["the rank of the Lagrangian's Hessian at the generic point is unclear"], 0
+    try:
+        determinants, minors = _lagrangian_determinants(polynomials, dimension, evidence.rank, rng)
+    except LimitError:
+        return None, ["the compressed Hessian of the Lagrangian is too large to expand"], 0
+    curve = list(polynomials) + [m * (1.0 / m.coefficient_norm()) for m in minors if not m.is_zero()]
+    meeting = curve_meets_hypersurface(curve, witness, determinants[0], rng)
+    found, undecided, notes = meeting.points, meeting.undecided, list(meeting.notes)
+    points = []
+    for point in _distinct_points(found):
+        # the rank of the whole bordered matrix there, with lambda from J's own left null vector
+        _, jacobians_here = BatchEvaluator(polynomials).evaluate(point[None, :])
+        null_here = np.linalg.svd(jacobians_here[0])[0][:, -1].conj()
+        at_point, _, unclear_here = hessian_evidence(lagrangian, np.concatenate([point, null_here]))
+        # the point is read off the eliminant's samples, to about 1e-10 of its size: singular values that small are
+        # its distance from the rank drop, which the widest gap may count as a rank (a pinch point 2e-10 off:
+        # values 4e-11 and 1e-11 over a gap to 1e-22); counted below the Hessian's zero they are a drop
+        values_here = np.asarray(at_point.singular_values)
+        above_zero = int(np.sum(values_here > at_point.tolerance))
+        if unclear_here or min(at_point.rank, above_zero) < evidence.rank:   # unclear is kept: its slice decides
+            points.append(point)
+        elif values_here[evidence.rank - 1] <= _NEAR_DROP * at_point.tolerance:
+            # a value just above the zero at a point known to ~1e-10: a rank drop the point's error may hide
+            undecided += 1
+            notes.append(f"a point of the curve where the bordered Hessian nearly drops rank (a singular value "
+                         f"{values_here[evidence.rank - 1]:.1e}): undecided")
+    if c >= 2:
+        # where J drops rank by two or more: the curve's points on a random combination of J's (c-1)-minors,
+        # kept where the scaled Jacobian's rank is below c - 1 there (or unclear: the slice decides)
+        jacobian = [[f.derivative(j) for j in range(n)] for f in polynomials]
+        smaller = [determinant([[jacobian[i][j] for j in cols] for i in rows_])
+                   for rows_ in itertools.combinations(range(c), c - 1)
+                   for cols in itertools.combinations(range(n), c - 1)]
+        smaller = [m * (1.0 / m.coefficient_norm()) for m in smaller if not m.is_zero()]
+        weights = rng.standard_normal(len(smaller)) + 1j * rng.standard_normal(len(smaller))
+        deeper = curve_meets_hypersurface(curve, witness, _combination(smaller, weights), rng)
+        undecided += deeper.undecided
+        notes += deeper.notes
+        for point in _distinct_points(deeper.points):
+            _, jacobians_here = BatchEvaluator(polynomials).evaluate(point[None, :])
+            sizes_here = TermSizes(polynomials).gradients(point[None, :])[0]
+            values_here = np.linalg.svd(jacobians_here[0] / np.where(sizes_here > 0, sizes_here, 1.0)[:, None],
+                                        compute_uv=False)
+            rank_here, width_here = widest_gap_rank(values_here, HESSIAN_ZERO, _KEPT_JACOBIAN)
+            if width_here < _CLEAR_DECADES or rank_here < c - 1:
+                points.append(point)
+    return _distinct_points(np.array(points, dtype=complex).reshape(-1, n)), notes, undecided
+
+
+#: A candidate special point whose bordered Hessian keeps its rank by a value below this times the zero is
+#: undecided (its point is known to the eliminant's accuracy only).
+_NEAR_DROP = 1e3
+
+
+def _lagrangian_determinants(polynomials, dimension, rank, rng):
+    """(determinants, minors): ``dimension + 1`` compressed determinants of the bordered Hessian of the
+    Lagrangian in x alone (rank ``rank`` at a generic point of the component), and the c x c minors of J."""
+    c, n = len(polynomials), polynomials[0].n_variables
+    # In x alone (a system in (x, lambda) with every minor was measured at 20 s for the umbrella on a graph in
+    # C^4 and over 18 min after a linear change): lambda(x) as the generalised cross product of J R_1 (R_1 a
+    # random n x (c - 1) matrix; J's rank is c - 1 along the component, so J R_1's is too at all but finitely
+    # many of its points), the bordered matrix compressed to R^T B R by random (n + c) x rank matrices R, one
+    # determinant per dimension of the component plus one (each also vanishes where B's range turns against its
+    # R, finitely many points of the component, apart for different R), on the component's own equations
+    jacobian = [[f.derivative(j) for j in range(n)] for f in polynomials]
+    reduce = rng.standard_normal((n, c - 1)) + 1j * rng.standard_normal((n, c - 1))
+    reduced = [[_combination(jacobian[i], reduce[:, m]) for m in range(c - 1)] for i in range(c)]
+    multipliers = [determinant([reduced[r] for r in range(c) if r != i]) * ((-1.0) ** i) if c > 1
+                   else Polynomial.constant(1.0, n) for i in range(c)]
+    hessians = [[[g.derivative(j) for j in range(n)] for g in row] for row in jacobian]
+    lagrangian_hessian = [[_combination([hessians[i][a][b] for i in range(c)], multipliers)
+                           for b in range(n)] for a in range(n)]
+    bordered = [lagrangian_hessian[a] + [jacobian[i][a] for i in range(c)] for a in range(n)] + \
+               [jacobian[i] + [Polynomial.zero(n)] * c for i in range(c)]
+    determinants = []
+    for _ in range(dimension + 1):
+        compress = rng.standard_normal((n + c, rank)) + 1j * rng.standard_normal((n + c, rank))
+        left = [[_combination([bordered[a][b] for a in range(n + c)], compress[:, i]) for b in range(n + c)]
+                for i in range(rank)]
+        compressed = [[_combination(left[i], compress[:, j]) for j in range(rank)]
+                      for i in range(rank)]
+        determinants.append(MatrixDeterminant(compressed))
+    minors = [determinant([[jacobian[i][j] for j in cols] for i in range(c)])
+              for cols in itertools.combinations(range(n), c)]
+    return determinants, minors
+
+
+def _combination(polynomials, weights):
+    """sum_i weights_i polynomials_i (weights numbers or polynomials)."""
+    total = Polynomial.zero(polynomials[0].n_variables)
+    for polynomial, weight in zip(polynomials, weights):
+        if not polynomial.is_zero():
+            total = total + polynomial * (weight if isinstance(weight, Polynomial) else complex(weight))
+    return total
+
+
+def _on_system_component(polynomials, candidates, isolated):
+    """Which candidates (computed units) lie on a component of X's singular locus where J drops rank by one:
+    F vanishes and J's c-th scaled singular value is zero in term units, and the point is none of the locus's
+    isolated singular points.
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> system = parse_system(["x^2 - y^2*z", "w - x - 2*y + z"], ["x", "y", "z", "w"])
+    >>> _on_system_component([p.numeric() for p in system.polynomials],
+    ...                      np.array([[0, 0, 0, 0], [0, 0, 5, -5], [1, 1, 1, 2]]), np.array([[0, 0, 5, -5.0]])).tolist()
+    [True, False, False]
+    """
+    candidates = np.asarray(candidates, dtype=complex).reshape(-1, polynomials[0].n_variables)
+    if not len(candidates):
+        return np.zeros(0, dtype=bool)
+    residual = largest_scaled_residual(TermSizes(polynomials), BatchEvaluator(polynomials), candidates)
+    _, jacobians = BatchEvaluator(polynomials).evaluate(candidates)
+    sizes = TermSizes(polynomials).gradients(candidates)
+    scaled = jacobians / np.where(sizes > 0, sizes, 1.0)[:, :, None]
+    smallest = np.linalg.svd(scaled, compute_uv=False)[:, -1]
+    result = (residual <= _ON_LOCUS) & (smallest <= _ON_LOCUS)
+    for point in np.asarray(isolated, dtype=complex).reshape(-1, candidates.shape[1]):
+        result &= np.linalg.norm(candidates - point[None, :], axis=1) > 1e-6 * (1 + np.linalg.norm(point))
+    return result
 
 
 def component_anatomy(system, component, seed=None, options=None, special_candidates=None, isolated=None):
@@ -784,7 +986,8 @@ def component_anatomy(system, component, seed=None, options=None, special_candid
     edge at constant Hessian rank, :func:`_cubic_jump_system`).
 
     For several equations (X of codimension 2 and more) the transversal type is the anatomy of X cut by
-    the normal slice: its multiplicity and, for a curve, its branches; special points are not searched.
+    the normal slice: its multiplicity and, for a curve, its branches; the special points are where the
+    Hessian of the Lagrangian sum_i lambda_i f_i drops rank (:func:`_lagrangian_special_points`).
 
     Parameters
     ----------
@@ -817,7 +1020,7 @@ def component_anatomy(system, component, seed=None, options=None, special_candid
     options = options or AnatomyOptions()
     seed, rng = random_state(seed)
     if system.n_equations != 1:
-        return _system_component_anatomy(system, component, seed, options)
+        return _system_component_anatomy(system, component, seed, options, isolated)
     scaling, polynomials = _balanced(system)
     f = polynomials[0]
     k = component.dimension
@@ -938,7 +1141,7 @@ def locus_anatomy(locus, seed=None, angles=None, options=None):
         if c.dimension == 0:
             points[c.id] = point_anatomy(system, c.points[0], seed=seed + c.id, decomposition=locus.variety,
                                          angles=angles, options=options)
-        elif system.n_equations == 1:
+        else:
             positive = [d for d in locus.components if d.dimension > 0 and not d.at_infinity and d.kind == "singular"]
             options_here = options if len(positive) == 1 else AnatomyOptions(options.local, special_points=False)
             components[c.id] = component_anatomy(system, c, seed=seed + c.id, options=options_here,
@@ -946,8 +1149,6 @@ def locus_anatomy(locus, seed=None, angles=None, options=None):
             if len(positive) > 1 and options.special_points:
                 components[c.id].notes.append("several singular components: the special points were not searched "
                                               "(they could not be told apart by component)")
-        else:
-            components[c.id] = component_anatomy(system, c, seed=seed + c.id, options=options)
     return LocusAnatomy(points, components, time.perf_counter() - started, notes)
 
 

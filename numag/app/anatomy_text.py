@@ -79,6 +79,9 @@ def write_component_anatomy(anatomy, names, out, indent="        "):
         out.write(f"{indent}{found} where the transversal type changes\n")
         if anatomy.rejected_candidates:
             out.write(f"{indent}{counted(anatomy.rejected_candidates, 'candidate')} rejected: not on this component\n")
+        if anatomy.undecided_candidates:
+            out.write(f"{indent}{counted(anatomy.undecided_candidates, 'place')} where a special point may lie: "
+                      "undecided\n")
     else:
         out.write(f"{indent}special points where the transversal type changes: not searched\n")
     for point in anatomy.special_points:
