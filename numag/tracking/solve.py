@@ -22,6 +22,7 @@ Examples
 """
 
 from dataclasses import dataclass, field
+import copy
 import time
 
 import numpy as np
@@ -1108,12 +1109,13 @@ def _collect(system, endpoints, status, winding, condition, options, rng, forms=
             located = locate_at_infinity(forms, endpoints[infinite], options.cluster_tolerance)
             # each located endpoint's point is isolated in the set at infinity, or on a part of positive
             # dimension (then where it ends depends on the start): the local dimension by slices (decision
-            # 0112); its own generator, so that the draws after it do not depend on whether it ran
+            # 0112), drawn from a copy of the generator, so that the draws after it do not depend on whether it
+            # ran (a copy, not Generator.spawn: numpy 1.23 has none)
             grouped = np.concatenate(located.groups) if located.groups else np.zeros(0, dtype=np.int64)
             dimension = np.zeros(len(infinite), dtype=np.int64)
             doubt = np.zeros(len(infinite), dtype=bool)
             dimension[grouped], doubt[grouped] = local_dimension_at_infinity(
-                forms, located.directions[grouped], located.accuracy[grouped], rng.spawn(1)[0])
+                forms, located.directions[grouped], located.accuracy[grouped], copy.deepcopy(rng))
             undecided = list(located.undecided)
             found = []
             for members in located.groups:
