@@ -131,3 +131,18 @@ def test_local_dimension_at_exact_points_in_random_units(seed):
         found, undecided = local_dimension_at_infinity(system.polynomials, located.directions[members],
                                                        located.accuracy[members], rng)
         assert not undecided.any() and set(found.tolist()) == {dimension}, (name, found)
+
+
+def test_command_line_lists_the_set_not_points(tmp_path):
+    # the case of the issue through the command line: the triple root (1, 1, 1) (by hand above), no "points at
+    # infinity", the groups on the line at infinity with their dimension, exit 0
+    import io
+    from numag.app.cli import EXIT_OK, main
+    path = tmp_path / "line.toml"
+    path.write_text('variables = ["x", "y", "z"]\nequations = ["y - x^2", "z - x*y", "z - 3*x^2 + 3*x - 1"]\n')
+    out = io.StringIO()
+    assert main(["solve", str(path), "--seed", "2", "--quiet"], out=out) == EXIT_OK
+    text = out.getvalue()
+    assert "at infinity on positive-dimensional sets at infinity" in text and "dimension 1" in text
+    assert "point at infinity" not in text and "points at infinity" not in text
+    assert "multiplicity 3" in text
