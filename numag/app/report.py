@@ -41,6 +41,7 @@ from ..system.safeio import MAX_INPUT_BYTES, loads_json, read_limited, write_fil
 from ..run.executor import InProcess
 from ..numeric.linalg import RankEvidence
 from ..numeric.scaling import Scaling
+from ..tracking.infinity import InfinityKind
 from ..tracking.solve import Solution, SolveOptions, SolveResult, lost_first_stage_paths
 from ..tracking.tracker import FAILURE_LABELS, PathStatus, TrackerOptions
 from ..families.records import MISSED_ON_LINES
@@ -531,11 +532,18 @@ def _solution_to_dict(solution):
             "digits": solution.digits, "paths": [int(k) for k in solution.paths]}
 
 
+def _at_infinity_to_dict(solution):
+    """A group at infinity: a solution's keys, its kind in the set at infinity and that set's dimension there."""
+    kind = InfinityKind.ISOLATED if solution.set_dimension == 0 else InfinityKind.ON_POSITIVE_DIMENSIONAL_SET
+    return {**_solution_to_dict(solution), "kind": kind, "dimension": int(solution.set_dimension)}
+
+
 def _solution_from_dict(d):
     return Solution(point=decode_point(d["point"]), multiplicity=int(d["multiplicity"]), winding=int(d["winding"]),
                     at_infinity=bool(d["at_infinity"]), real=bool(d["real"]),
                     condition=_decode_float(d["condition"]), isolated=bool(d["isolated"]),
-                    paths=np.array(d["paths"], dtype=np.int64), digits=int(d["digits"]))
+                    paths=np.array(d["paths"], dtype=np.int64), digits=int(d["digits"]),
+                    set_dimension=int(d.get("dimension", 0)))  # absent before decision 0112
 
 
 def _component(identifier, solution):
@@ -557,11 +565,11 @@ def solve_report_to_dict(result, options, lazy=False):
     if lazy:
         components = EncodedSequence(range(len(found)), lambda k: _component(k + 1, found[k]))
         solutions = EncodedSequence(result.solutions, _solution_to_dict)
-        at_infinity = EncodedSequence(result.at_infinity, _solution_to_dict)
+        at_infinity = EncodedSequence(result.at_infinity, _at_infinity_to_dict)
     else:
         components = [_component(k + 1, s) for k, s in enumerate(found)]
         solutions = [_solution_to_dict(s) for s in result.solutions]
-        at_infinity = [_solution_to_dict(s) for s in result.at_infinity]
+        at_infinity = [_at_infinity_to_dict(s) for s in result.at_infinity]
     return {
         "numag_version": __version__,
         "command": "solve",
@@ -575,6 +583,7 @@ def solve_report_to_dict(result, options, lazy=False):
         "components": components,
         "solutions": solutions,
         "at_infinity": at_infinity,
+        "sets_at_infinity": [_at_infinity_to_dict(s) for s in result.sets_at_infinity],
         "not_isolated": [_solution_to_dict(s) for s in result.not_isolated],
         "discarded": [_solution_to_dict(s) for s in result.discarded],
         "unverified": [_solution_to_dict(s) for s in result.unverified],
@@ -612,6 +621,7 @@ def solve_report_from_dict(data):
     result = SolveResult(
         system=system, solutions=[_solution_from_dict(d) for d in data["solutions"]],
         at_infinity=[_solution_from_dict(d) for d in data["at_infinity"]],
+        sets_at_infinity=[_solution_from_dict(d) for d in data.get("sets_at_infinity", [])],
         not_isolated=[_solution_from_dict(d) for d in data["not_isolated"]], status=status,
         steps=np.array(data["path_steps"], dtype=np.int64), winding=np.array(data["path_winding"], dtype=np.int64),
         retracked=np.array(data["path_retracked"], dtype=bool), seed=data["seed"], seconds=float(data["seconds"]),

@@ -22,6 +22,7 @@ Examples
 """
 
 from dataclasses import dataclass, field
+import copy
 import time
 
 import numpy as np
@@ -40,7 +41,7 @@ from ..numeric.linalg import batched_least_squares
 from ..numeric.scaling import Scaling
 from ..numeric.seeds import random_state
 from .homotopy import ParameterHomotopy, StraightLineHomotopy
-from .infinity import locate_at_infinity
+from .infinity import local_dimension_at_infinity, locate_at_infinity
 from .starts import StartKind, choose_start
 from .service import PathCounts, track
 from .tracker import PathStatus, StartArray, TrackerOptions, x0_invisible
@@ -182,6 +183,9 @@ class Solution:
         Numbers of the paths ending here.
     digits : int
         Precision of the reported coordinates' last refinement (16 = double).
+    set_dimension : int
+        For an endpoint group at infinity: the dimension of the set at infinity (the top-degree forms' zeros)
+        through it, 0 where it is an isolated point at infinity (decision 0112).
     """
 
     point: np.ndarray
@@ -193,6 +197,7 @@ class Solution:
     isolated: bool
     paths: np.ndarray
     digits: int = 16
+    set_dimension: int = 0
 
     def __repr__(self):
         where = "at infinity" if self.at_infinity else ("real" if self.real else "complex")
@@ -211,7 +216,7 @@ class SolveResult:
     solutions : list of Solution
         Finite, isolated solutions.
     at_infinity : list of Solution
-        Endpoints at infinity (affine input only).
+        Isolated points at infinity (affine input only).
     not_isolated : list of Solution
         Endpoints on positive-dimensional solution sets (not counted as solutions).
     status : ndarray of int
@@ -242,6 +247,9 @@ class SolveResult:
         The units the computation used (points are reported in the user's units).
     options : SolveOptions or None
         The options of the run (recorded when the result is saved; None for a result built by hand).
+    sets_at_infinity : list of Solution
+        Endpoint groups at infinity on a set at infinity of positive dimension (``set_dimension``), not points:
+        where such a group ends depends on the start (decision 0112).
     """
 
     system: PolynomialSystem
@@ -262,6 +270,7 @@ class SolveResult:
     scaling: object = None
     unverified: list = field(default_factory=list)
     options: SolveOptions | None = None
+    sets_at_infinity: list = field(default_factory=list)
     undecided: list = field(default_factory=list)
 
     def __repr__(self):
@@ -591,7 +600,7 @@ def _moved_back(local, centring, kinds):
     for kind in kinds:
         for solution in getattr(local, kind):
             solution.point = solution.point + centring.point
-    for solution in local.at_infinity:
+    for solution in local.at_infinity + local.sets_at_infinity:
         point = np.asarray(solution.point, dtype=complex).copy()
         point[1:] = point[1:] + centring.point * point[0]
         solution.point = normalize_projective(point[None, :])[0]
@@ -609,7 +618,8 @@ def _whole(local, options):
     W. Fulton, "Intersection Theory", 1984, ch. 12, from memory). Judged before the points are moved back.
     """
     if (local.path_counts()["failed"] or lost_first_stage_paths(local.extra.get("start"))
-            or local.unverified or local.not_isolated or local.discarded or local.undecided or local.at_infinity):
+            or local.unverified or local.not_isolated or local.discarded or local.undecided or local.at_infinity
+            or local.sets_at_infinity):
         return False
     if any(s.multiplicity > 1 or s.winding > 1 for s in local.solutions):
         return False
@@ -618,7 +628,8 @@ def _whole(local, options):
 
 def _adopt(result, local):
     """The first run's answer replaced by a whole centred run's (its points already moved back)."""
-    for kind in ("solutions", "unverified", "not_isolated", "discarded", "at_infinity", "undecided"):
+    for kind in ("solutions", "unverified", "not_isolated", "discarded", "at_infinity", "undecided",
+                 "sets_at_infinity"):
         setattr(result, kind, list(getattr(local, kind)))
     result.status, result.steps, result.winding = local.status, local.steps, local.winding
     result.retracked, result.digits = local.retracked, local.digits
@@ -643,8 +654,8 @@ def _accounted(result, local, group, first_in, second_in, every):
     """
     others_in = sum(s.multiplicity for s in first_in if s is not group)
     extra_in = sum(s.multiplicity for s in second_in) - others_in
-    extra_infinity = (sum(s.multiplicity for s in local.at_infinity)
-                      - sum(s.multiplicity for s in result.at_infinity))
+    extra_infinity = (sum(s.multiplicity for s in local.at_infinity + local.sets_at_infinity)
+                      - sum(s.multiplicity for s in result.at_infinity + result.sets_at_infinity))
     inside = {id(s) for s in first_in + second_in}
     first_out = sum(s.multiplicity for kind in ("solutions", "unverified", "not_isolated", "discarded")
                     for s in getattr(result, kind) if id(s) not in inside)
@@ -871,7 +882,7 @@ def _in_user_units(result, system, scaling):
 
     for solution in result.solutions + result.not_isolated + result.discarded + result.unverified:
         solution.point = finite(solution.point)
-    for solution in result.at_infinity:
+    for solution in result.at_infinity + result.sets_at_infinity:
         solution.point = normalize_projective(scaling.homogeneous_to_user(solution.point))
     result.system = system
     result.scaling = scaling
@@ -968,10 +979,11 @@ def _run(system, homotopy, start_points, total, options, rng, seed, progress, st
         for solution in solutions:
             (kept if _satisfies(system, solution.point) else discarded).append(solution)
         solutions = kept
-    result = SolveResult(system=system, solutions=solutions, at_infinity=infinite, not_isolated=not_isolated,
-                         status=status, steps=run.steps, winding=winding, retracked=run.retracked, seed=seed,
-                         seconds=time.perf_counter() - started, evaluations=run.evaluations, squared_up=squared,
-                         digits=run.digits)
+    result = SolveResult(system=system, solutions=solutions, at_infinity=[s for s in infinite if s.isolated],
+                         not_isolated=not_isolated, status=status, steps=run.steps, winding=winding,
+                         retracked=run.retracked, seed=seed, seconds=time.perf_counter() - started,
+                         evaluations=run.evaluations, squared_up=squared, digits=run.digits,
+                         sets_at_infinity=[s for s in infinite if not s.isolated])
     result.discarded = discarded
     result.unverified = unverified
     if len(unsettled):
@@ -1089,22 +1101,39 @@ def _collect(system, endpoints, status, winding, condition, options, rng, forms=
     if len(infinite):
         if forms is None:  # the paths of random combinations: their points at infinity are the combinations'
             points = normalize_projective(endpoints[infinite])
-            found = [(members, points[members[0]], 1e-8) for members in
+            found = [(members, points[members[0]], 1e-8, 0) for members in
                      groups(cluster_labels(points, options.cluster_tolerance, projective=True))]
         else:
             # located on the top-degree forms and grouped by their accuracy; what cannot be decided is failed
             # (decision 0106)
             located = locate_at_infinity(forms, endpoints[infinite], options.cluster_tolerance)
-            # a multiple point is known to its refinement's accuracy (1e-8 at a double one): below it, an
-            # imaginary part does not make the point complex
-            found = [(members, normalize_projective(located.point(members)),
-                      max(1e-8, float(located.accuracy[members].max()))) for members in located.groups]
-            if located.undecided:
-                unsettled = infinite[np.concatenate(located.undecided)]
-        for members, point, accuracy in found:
+            # each located endpoint's point is isolated in the set at infinity, or on a part of positive
+            # dimension (then where it ends depends on the start): the local dimension by slices (decision
+            # 0112), drawn from a copy of the generator, so that the draws after it do not depend on whether it
+            # ran (a copy, not Generator.spawn: numpy 1.23 has none)
+            grouped = np.concatenate(located.groups) if located.groups else np.zeros(0, dtype=np.int64)
+            dimension = np.zeros(len(infinite), dtype=np.int64)
+            doubt = np.zeros(len(infinite), dtype=bool)
+            dimension[grouped], doubt[grouped] = local_dimension_at_infinity(
+                forms, located.directions[grouped], located.accuracy[grouped], copy.deepcopy(rng))
+            undecided = list(located.undecided)
+            found = []
+            for members in located.groups:
+                # a group whose endpoints disagree on the dimension, or one of them undecided: not decided
+                if np.any(doubt[members]) or len(set(dimension[members].tolist())) > 1:
+                    undecided.append(members)
+                    continue
+                # a multiple point is known to its refinement's accuracy (1e-8 at a double one): below it, an
+                # imaginary part does not make the point complex
+                found.append((members, normalize_projective(located.point(members)),
+                              max(1e-8, float(located.accuracy[members].max())), int(dimension[members[0]])))
+            if undecided:
+                unsettled = infinite[np.concatenate(undecided)]
+        for members, point, accuracy, set_dimension in found:
             paths = infinite[members]
             real = bool(real_coefficients and np.all(np.abs(point.imag) <= accuracy * (1 + np.abs(point))))
             at_infinity.append(Solution(point=point, multiplicity=len(members), winding=int(winding[paths].max()),
                                         at_infinity=True, real=real, condition=float(condition[paths].min()),
-                                        isolated=True, paths=paths, digits=16))
+                                        isolated=set_dimension == 0, paths=paths, digits=16,
+                                        set_dimension=set_dimension))
     return solutions, at_infinity, flagged, unverified, unsettled

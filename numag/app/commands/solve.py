@@ -109,6 +109,13 @@ def _print_solve(result, out, data=None):
         for s in result.at_infinity:
             out.write(f"        paths {s.multiplicity}  "
                       f"{text(homogeneous, s.point, _root_accuracy(s.digits, s.multiplicity))}\n")
+    if result.sets_at_infinity:  # decision 0112: where these groups end depends on the start; not points
+        homogeneous = names if system.projective else ["(w)"] + list(names)
+        out.write(f"\n{_counted(len(result.sets_at_infinity), 'endpoint group')} at infinity on positive-dimensional "
+                  f"sets at infinity, not isolated points (homogeneous coordinates {', '.join(homogeneous)}):\n")
+        for s in result.sets_at_infinity:
+            out.write(f"        paths {s.multiplicity}  dimension {s.set_dimension}  "
+                      f"{text(homogeneous, s.point, _WITNESS_ACCURACY)}\n")
     if result.not_isolated:
         out.write(f"\n{_counted(len(result.not_isolated), 'endpoint group')} "
                   f"{'lies' if len(result.not_isolated) == 1 else 'lie'} on positive-dimensional solution "
