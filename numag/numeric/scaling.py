@@ -218,7 +218,11 @@ class Scaling:
             else:
                 coefficients = p.numeric_coefficients() * 10.0 ** powers.astype(float)
             scaled.append(Polynomial(p.exponents, coefficients, p.n_variables))
-        return PolynomialSystem(system.variables, scaled, system.projective, system.name)
+        balanced = PolynomialSystem(system.variables, scaled, system.projective, system.name)
+        # the numbers as written decide whether the input is exact (decision 0062); powers of ten keep their digits,
+        # and the expanded exact coefficients times 10^k would otherwise read as printed doubles (decision 0109)
+        balanced.literal_digits = getattr(system, "literal_digits", None)
+        return balanced
 
     # -- points and hyperplanes -----------------------------------------------------------------
     def to_user(self, points):

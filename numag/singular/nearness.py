@@ -44,7 +44,7 @@ from ..numeric.refine import RankDropSystem
 from .kinds import CoefficientPrecision, PieceKind
 
 __all__ = ["NearSingularPoint", "coefficient_precision", "point_precision", "input_tolerance", "backward_error",
-           "nearest_backward_error", "DOUBLE_SIGNIFICANT_DIGITS"]
+           "nearest_backward_error", "separation_digits", "DOUBLE_SIGNIFICANT_DIGITS", "SEPARATION_MARGIN"]
 
 #: A decimal coefficient with this many significant digits or more is read as a double-precision number
 #: (17 digits identify a double; 15 are what a double is trusted to carry, so printed doubles have 15-17).
@@ -238,6 +238,72 @@ def input_tolerance(system):
     if coefficient_precision(system) is CoefficientPrecision.EXACT:
         return None
     return _TOLERANCE_FACTOR * max(max(system.degrees), 1) * _UNIT_ROUNDOFF
+
+
+#: Decimal digits a singular point of exact input is confirmed at beyond the finest change its coefficients can
+#: write (decision 0109): Gauss-Newton accepts a residual of about 10^(4 - digits), and the rank-drop system's
+#: conditioning can shrink a perturbation's residual by a few more decades.
+SEPARATION_MARGIN = 10
+
+
+def _written_digits(part):
+    """Significant digits an exact rational carries: a terminating decimal's mantissa, an integer's digits
+    without trailing zeros, numerator and denominator of any other fraction (its height)."""
+    if part == 0:
+        return 0
+    if part.denominator == 1:
+        return len(str(abs(part.numerator)).rstrip("0"))
+    return _significant_digits(part) or len(str(abs(part.numerator))) + len(str(part.denominator))
+
+
+def separation_digits(system, point):
+    """Digits at which a singular point of exact equations is told from one of equations changed in their last
+    written digit; None when a coefficient is not exact.
+
+    A coefficient written with D significant digits can be changed by 10^(1 - D) of itself and still be written
+    with as many (10.999999999999 against 11: the curve smooth as written, a node after the change). At ``point``
+    that change moves an equation by the term's size times 10^(1 - D), relative to the size of the equation's
+    terms (:class:`~numag.numeric.evaluate.TermSizes`, the scaled residuals' measure); the smallest such move over
+    all terms is the finest the input can write. A singular point confirmed at ``-log10`` of it plus
+    :data:`SEPARATION_MARGIN` digits is one of the equations as written, not of a change of their last digit. The
+    digits do not change with the units (powers of ten) nor with where the point is: far from the origin the
+    terms grow, and so do the digits needed.
+
+    Parameters
+    ----------
+    system : PolynomialSystem
+    point : array_like of complex
+
+    Returns
+    -------
+    int or None
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> near = parse_system(["y^2 - x^3 - x^2 - 1/1000000000000"], ["x", "y"])
+    >>> separation_digits(near, [0, 0])  # one digit, but 1e-12 of terms of size 3
+    23
+    >>> shifted = parse_system(["Y^2 - 10*Y - X^3 - 10*X^2 - 33*X - 10.999999999999"], ["X", "Y"])
+    >>> separation_digits(shifted, [-3, 5])  # 14 digits of 11 among terms of about 300
+    25
+    """
+    if any(not p.is_exact for p in system.polynomials):
+        return None
+    rho = TermSizes(system.polynomials, system.projective).reference(np.asarray(point, dtype=complex)[None, :])[0]
+    finest = 0.0
+    for polynomial in system.polynomials:
+        if polynomial.is_zero():
+            continue
+        with np.errstate(divide="ignore"):
+            logs = polynomial.exponents @ np.log10(rho)
+        sizes = [math.log10(abs(complex(c))) + t for c, t in zip(polynomial.coefficients, logs)]
+        digits = [max(_written_digits(Fraction(part)) for parts in c.parts.values() for part in parts)
+                  for c in polynomial.coefficients]
+        top = max(sizes)
+        total = top + math.log10(sum(10.0 ** (v - top) for v in sizes))
+        finest = max(finest, max(total - v + d - 1 for v, d in zip(sizes, digits)))
+    return int(math.ceil(finest)) + SEPARATION_MARGIN
 
 
 def _mp_coefficient(coefficient, ctx):

@@ -72,7 +72,7 @@ from ..witness.decompose import CENTRING_TERMS, components_through_points
 from ..witness.local import component_multiplicity
 from .kinds import CoefficientPrecision, JudgedPoint, LocalDimensionSource, Verdict
 from .nearness import (backward_error, coefficient_precision, input_tolerance, nearest_backward_error,
-                       point_precision)
+                       point_precision, separation_digits)
 
 __all__ = ["CheckOptions", "PointVerdict", "CheckReport", "check_points",
            "VERDICTS"]
@@ -97,6 +97,10 @@ _DOUBLE_CLEAR_VALUE = 1e-6
 #: this multiple of it (smooth, with a c-th singular value above _DOUBLE_CLEAR_SMOOTH). Anything else
 #: is in doubt and goes to mpmath at rising precision.
 _DOUBLE_NEAR, _DOUBLE_FAR, _DOUBLE_CLEAR_SMOOTH = 0.5, 100.0, 1e-8
+#: Exact input (decision 0109): a rank drop settled in double (scaled residual 1e-13, Gauss-Newton's acceptance at
+#: about 17 digits) already separates it from a change of the coefficients' last written digit when the separation
+#: digits are at most this (integer Chebyshev curves: 14, the six-bar: 12); beyond, it is confirmed in mpmath.
+_DOUBLE_SEPARATES = DOUBLE_DIGITS + 1
 #: Rounded data without a point tolerance (decision 0072): the nearest point of X must be within this many data
 #: radii of the given point (else "off"), and a rank drop within as many radii leaves the verdict undecided.
 DATA_MARGIN = 10.0
@@ -389,6 +393,9 @@ class _Judged:
     final_values: np.ndarray
     digits: int
     zero: float
+    #: exact input whose rank drop here needs more digits than max_digits to be told from one of the equations
+    #: changed in their last written digit (decision 0109): no other evidence makes it singular (decision 0111)
+    beyond_digits: bool = False
 
 
 def _size(point):
@@ -414,6 +421,9 @@ class _Checker:
         # the decomposition (user's units) and the units of this checker, when the local multiplicity of a
         # component can be measured (decision 0105)
         self.decomposition, self.user_scaling = None, None
+        # exact coefficients: a singular point is confirmed at the digits that tell it from one of the equations
+        # changed in their last written digit (decision 0109)
+        self.exact_input = False
 
     # -- scaled quantities ----------------------------------------------------------------------
     def scaled_values_double(self, points):
@@ -574,6 +584,31 @@ class _Checker:
         self.last_drop_precise = [z[j] for j in range(self.n)]  # the rank is judged here, not at its rounding
         return drop.point_of(z)
 
+    def separation(self, point):
+        """Exact input: the digits a singular point at ``point`` is confirmed at (decision 0109); else None."""
+        return separation_digits(self.system, point) if self.exact_input else None
+
+    def confirmed_in_exact_input(self, point, codim, given, tolerance):
+        """Exact input: the rank drop found in double at ``point``, polished at :meth:`separation` digits (a
+        :class:`_Decision`), or None when it is no zero there or those digits exceed ``max_digits``.
+
+        Double precision cannot tell a singular point of the equations as written from one of the equations
+        changed in their last written digit (a node's constant 10.999999999999 for 11 among terms of 300): both
+        settle at double rounding. At the separation digits only the first is a zero of the rank-drop system.
+        """
+        digits = self.separation(point)
+        if digits is None or digits > self.options.max_digits:
+            return None
+        digits = max(digits, 30)
+        with mpmath.mp.workdps(digits + 10):
+            ctx = mpmath.mp
+            found = self.find_rank_drop([ctx.mpc(v) for v in point], codim - 1, ctx, digits)
+            if found is None or self.distance(given, found) > tolerance:
+                return None
+            values, scales = self.scaled_values_mp(self.last_drop_precise, ctx)
+        return _Decision(outcome=Verdict.SINGULAR, point=found, values=values, scales=scales, digits=digits,
+                         drop=found, drop_distance=self.distance(given, found))
+
     # -- all suspect points at once, in double ---------------------------------------------------
     def settle_in_double(self, given, refined, values, scales, through, positions=None, exact=None):
         """Decide the suspect points whose decision is clear in double precision, all in one batch.
@@ -616,6 +651,12 @@ class _Checker:
                 # conics; decision 0038's amendment); those, and points given exactly, go to the escalation.
                 if (distance <= _DOUBLE_NEAR * tolerance and drops.conditioning[row] >= _DOUBLE_REGULAR
                         and (exact is None or exact[position] is None)):
+                    if self.exact_input and self.separation(found) > _DOUBLE_SEPARATES:
+                        # confirmed beyond the input's last digit, else escalated (decision 0109)
+                        confirmed = self.confirmed_in_exact_input(found, codim, given[position], tolerance)
+                        if confirmed is not None:
+                            self.settled[number[position]] = confirmed
+                        continue
                     self.settled[number[position]] = _Decision(
                         outcome=Verdict.SINGULAR, point=found, values=at_drop[row], scales=scales_at_drop[row],
                         digits=DOUBLE_DIGITS, drop=found, drop_distance=distance)
@@ -653,6 +694,14 @@ class _Checker:
         opts = self.options
         schedule = sorted({d for d in (30, 2 * 30, 4 * 30, 8 * 30) if d < opts.max_digits} | {opts.max_digits})
         schedule = [d for d in schedule if d > DOUBLE_DIGITS] or [opts.max_digits]
+        # exact input: a rank drop below the separation digits may be one of the equations changed in their last
+        # written digit (decision 0109), so "singular" is taken at those digits only; "smooth" (a drop found far
+        # away, a stable c-th value) is a fact of the equations as written at any precision, and needs the lower
+        # steps of the schedule (two steps to be seen stable: a schedule started at max_digits had one, and left a
+        # smooth point undecided, decision 0111)
+        needed = self.separation(refined)
+        if needed is not None and needed < opts.max_digits:
+            schedule = sorted(set(schedule) | {max(needed, 30)})
         history = []
         tolerance = self.tolerance_for(given, position)
         current = [complex(v) for v in refined]
@@ -678,7 +727,10 @@ class _Checker:
                             break
                     else:  # none: judge the first one found (if any) at its own precise point
                         self.last_drop_precise = found_precise
-                if found is not None:
+                # below the separation digits a drop at the point may be one of the equations changed in their last
+                # digit: more digits decide, or the c-th value's stability (smooth)
+                too_few = needed is not None and digits < needed
+                if found is not None and not (too_few and self.distance(given, found) <= tolerance):
                     distance = self.distance(given, found)
                     at_found, scales_found = self.scaled_values_mp(self.last_drop_precise, ctx)
                     if distance <= tolerance:
@@ -697,7 +749,8 @@ class _Checker:
                     if latest > zero and previous > 0 and abs(latest - previous) <= 1e-3 * previous:
                         return _Decision(outcome=Verdict.SMOOTH, point=np.array(current), values=values, scales=scales,
                                          digits=digits, drop=None, drop_distance=None)
-                    if latest <= zero and previous <= zero_tolerance(schedule[len(history) - 2], (self.m, self.n)):
+                    if (latest <= zero and previous <= zero_tolerance(schedule[len(history) - 2], (self.m, self.n))
+                            and not too_few):
                         return _Decision(outcome=Verdict.SINGULAR, point=np.array(current), values=values,
                                          scales=scales, digits=digits, drop=None, drop_distance=None)
         return _Decision(outcome=Verdict.UNDECIDED, point=np.array(current), values=values, scales=scales,
@@ -909,7 +962,7 @@ class _Checker:
                          f"(codimension = {self.m} equations); give the local dimension if it is not.")
         decision = _Decision(outcome=None, point=refined, values=values, scales=scales, digits=DOUBLE_DIGITS,
                              drop=None, drop_distance=None)
-        escalated = False
+        escalated = beyond_digits = False
         if codim is None:
             decision.outcome = Verdict.UNDECIDED
             notes.append("The local dimension is unknown (no component of the decomposition passes through the "
@@ -925,7 +978,14 @@ class _Checker:
             escalated = True
             decision = self.settled.get(position) or self.escalate(given, exact_given, refined, codim, position)
             if decision.outcome is Verdict.UNDECIDED:
-                notes.append(self.not_separated(given, decision, position))
+                needed = self.separation(refined)
+                beyond_digits = needed is not None and needed > opts.max_digits
+                if beyond_digits:
+                    notes.append(f"The coefficients are exact, and a change in their last written digit would need "
+                                 f"{needed} digits to be told from a singular point here, more than max_digits = "
+                                 f"{opts.max_digits} (--digits): undecided (decision 0109).")
+                else:
+                    notes.append(self.not_separated(given, decision, position))
         if exact_rank is not None and codim:  # F(p) = 0 exactly: the rank at p, in exact arithmetic, decides
             decision.outcome = Verdict.SMOOTH if exact_rank >= codim else Verdict.SINGULAR
             if decision.outcome is Verdict.SINGULAR:
@@ -945,7 +1005,8 @@ class _Checker:
                          f"dimension used ({self.system.ambient_dimension - codim}) is larger than the tangent "
                          "space allows; the local dimension is wrong for this point.")
         return _Judged(decision=decision, verdict=verdict, rank=rank, codim=codim, source=source, notes=notes,
-                       escalated=escalated, final_values=final_values, digits=digits, zero=zero)
+                       escalated=escalated, final_values=final_values, digits=digits, zero=zero,
+                       beyond_digits=beyond_digits and verdict is Verdict.UNDECIDED)
 
     def check(self, index, given, exact_given, refined, residual, values, scales, through=None, position=None,
               exact_rank=None):
@@ -1015,6 +1076,11 @@ class _Checker:
                 # separate components that are tangent nearby (two conics 6e-5 from their tacnode).
                 notes.append(f"Components {ids} pass within the membership test's tolerance of this point, but the "
                              "Jacobian has full rank here, so only one of them passes through it.")
+            elif judged.beyond_digits:
+                # the membership test's tolerance is no finer than the rank's: two components 5e-9 apart at
+                # (100, -50) (a node pair 1e-4 apart) both "pass" through the point between them (decision 0111)
+                notes.append(f"Components {ids} pass within the membership test's tolerance of this point, which "
+                             "cannot tell them meeting here from passing within the input's last digit: undecided.")
             else:
                 verdict = Verdict.SINGULAR
                 notes.append(f"The point lies on {len(through)} components of X (ids {ids}): where components "
@@ -1281,6 +1347,7 @@ def _check_in_units(system, given, exact, options, seed, rng, decomposition, sca
     point that cannot be moved onto X gets the verdict "off". ``rule``: a :class:`_DataRule`."""
     checker = _Checker(system, options, rng)
     checker.decomposition, checker.user_scaling = decomposition, scaling
+    checker.exact_input = rule.coefficient_tolerance == 0 and all(p.is_exact for p in system.polynomials)
     # On X is what Newton's method reaches, not a residual bound (decision 0064): Gauss-Newton aims at a scaled
     # residual of 1e-13 and, at a singular point, can stall just above (rounding, a rank-deficient Jacobian:
     # 1.2e-13 seen at a linkage's branch point, which was then dropped); within rounding it is on X.
