@@ -58,6 +58,8 @@ class TypeTest(Enum):
                  "what is read there belongs to a neighbouring function, undecided")
     COUNTS_DISAGREE = ("mu from the local dual space and mu from the gradient's paths disagree (or the paths "
                        "give no clear count): undecided")
+    NO_CHANGE = ("a candidate special point reads the component's transversal type: no change of type shown, so "
+                 "the search is not trusted there, undecided")
 
 
 class Motion(Enum):

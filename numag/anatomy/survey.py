@@ -595,11 +595,12 @@ def _normal_slice(polynomial, point, dimension, rng):
     return polynomial.substitute_linear(frame, point), frame
 
 
-def _slice_anatomy(polynomial, computed, user_point, dimension, rng, options, scaling):
+def _slice_anatomy(polynomial, computed, user_point, dimension, rng, options, scaling, centre=None):
     """The anatomy of the normal slice of f = 0 at a point of a singular component of dimension k.
 
-    ``computed`` is the point in the balanced units of ``scaling``; a point moved onto the singular point of the
-    slice (a candidate pinch point given off it) is reported in the ambient space, x = computed + N s.
+    ``computed`` is the point in the balanced units of ``scaling`` (after the translation by ``centre``, when f is
+    written centred); a point moved onto the singular point of the slice (a candidate pinch point given off it) is
+    reported in the ambient space, x = centre + computed + N s.
     """
     restricted, normal = _normal_slice(polynomial, computed, dimension, rng)
     restricted = restricted - complex(restricted.evaluate(np.zeros(restricted.n_variables)))
@@ -609,7 +610,8 @@ def _slice_anatomy(polynomial, computed, user_point, dimension, rng, options, sc
     computed = np.asarray(computed, dtype=complex)
 
     def to_user(points):  # slice coordinates s -> the ambient space, user's units
-        return scaling.to_user(computed[None, :] + np.asarray(points, dtype=complex) @ normal.T)
+        rows = scaling.to_user(computed[None, :] + np.asarray(points, dtype=complex) @ normal.T)
+        return rows if centre is None else rows + centre[None, :]
 
     anatomy = _hypersurface_point(restricted, origin, np.asarray(user_point, dtype=complex), identity, rng, False,
                                   None, options, to_user)
@@ -983,7 +985,9 @@ def component_anatomy(system, component, seed=None, options=None, special_candid
     line): the isolated points of V(f, grad f, the minors of the Hessian one size larger than that
     rank), each with the anatomy of its own normal slice. Where the transversal type is A2 and the
     component a line, also the points where the cubic along the kernel vanishes (A2 -> A3 on a cuspidal
-    edge at constant Hessian rank, :func:`_cubic_jump_system`).
+    edge at constant Hessian rank, :func:`_cubic_jump_system`). Exact f is searched and read in coordinates
+    centred exactly at the generic point and at each candidate; a candidate read as the transversal type is
+    undecided, never listed as a change (decision 0116).
 
     For several equations (X of codimension 2 and more) the transversal type is the anatomy of X cut by
     the normal slice: its multiplicity and, for a curve, its branches; the special points are where the
@@ -1022,11 +1026,19 @@ def component_anatomy(system, component, seed=None, options=None, special_candid
     if system.n_equations != 1:
         return _system_component_anatomy(system, component, seed, options, isolated)
     scaling, polynomials = _balanced(system)
-    f = polynomials[0]
     k = component.dimension
     generic_user = np.asarray(component.points[0], dtype=complex)
-    generic = scaling.to_computed(generic_user)
-    transversal = _slice_anatomy(f, generic, generic_user, k, rng, options, scaling)
+    # the transversal type and the search for special points in coordinates centred exactly at the generic point
+    # (decision 0116): expanded about a far origin, the Hessian's minors and the cubic along the line are
+    # cancellations of terms of size |p|^d, and their rounding made false special points and missed true ones
+    local_scaling, f, centre = _read_in(system, generic_user, scaling, polynomials[0])
+    generic = local_scaling.to_computed((generic_user - centre)[None, :])[0]
+    transversal = _slice_anatomy(f, generic, generic_user, k, rng, options, local_scaling, centre)
+    if transversal.moved_by is not None and np.all(np.isfinite(transversal.point)):
+        # the search starts where the slice's deflation put the generic point: a witness point of a non-reduced
+        # component (a cuspidal edge) is 1e-9 off it, and in the features' own units its Hessian shows that
+        # offset (a second value of 1e-9 made the rank 2 where it is 1, and the line test failed)
+        generic = local_scaling.to_computed((transversal.point - centre)[None, :])[0]
     notes = []
     special = []
     searched = True
@@ -1042,10 +1054,8 @@ def component_anatomy(system, component, seed=None, options=None, special_candid
             candidates = np.zeros((0, system.n_variables))
             notes.append("the Hessian vanishes along the component: no rank can drop, special points not searched")
         else:
-            jump = PolynomialSystem(list(system.variables), _hessian_jump_system(f, evidence.rank - 1))
-            found = decompose(jump, seed=seed)
-            candidates = scaling.to_user(np.array([c.points[0] for c in found.components if c.dimension == 0])
-                                         .reshape(-1, system.n_variables))
+            candidates = _rank_jump_points(system, scaling, polynomials[0], evidence.rank - 1, seed,
+                                           (local_scaling, f, centre))
             kind = transversal.hypersurface.type if transversal.hypersurface is not None else None
             if kind is not None and kind.family is Family.A and kind.index == 2:
                 # A2 -> A3 and beyond at constant Hessian rank (a cuspidal edge's special points)
@@ -1054,22 +1064,97 @@ def component_anatomy(system, component, seed=None, options=None, special_candid
                     notes.append("transversal type A2: a jump of mu at constant Hessian rank is searched on singular "
                                  "lines only; this component is not one")
                 else:
-                    candidates = _distinct_points(np.vstack([candidates, scaling.to_user(more)]))
+                    candidates = _distinct_points(np.vstack([candidates,
+                                                             local_scaling.to_user(more) + centre[None, :]]))
             elif kind is not None and kind.family is Family.A and kind.index > 2:
                 notes.append(f"transversal type {kind.label}: only the points where the Hessian's rank drops were "
                              "searched (a jump of mu at constant rank beyond A2 is not)")
     else:
         candidates = np.zeros((0, system.n_variables))
         searched = False
-    on_component = _on_component(f, scaling, candidates, isolated)
+    on_component = _on_component(f, local_scaling, candidates - centre[None, :],
+                                 None if isolated is None else np.asarray(isolated, dtype=complex) - centre[None, :])
     rejected = int(np.sum(~on_component))
     if rejected:
         notes.append(f"{counted(rejected, 'candidate special point')} rejected: not on this component (the singular "
                      "locus's equations not met in term units, or an isolated singular point of the locus)")
     for candidate in candidates[on_component]:
-        special.append(_slice_anatomy(f, scaling.to_computed(candidate), candidate, k, rng, options, scaling))
+        # each candidate read where it is, centred exactly at it (decision 0091's reading of a point)
+        here_scaling, here_f, here_centre = _read_in(system, candidate, scaling, polynomials[0])
+        here = here_scaling.to_computed((candidate - here_centre)[None, :])[0]
+        anatomy = _slice_anatomy(here_f, here, candidate, k, rng, options, here_scaling, here_centre)
+        _type_changes(anatomy, transversal)
+        special.append(anatomy)
     return ComponentAnatomy(component.id, k, transversal, special, notes, special_points_searched=searched,
                             rejected_candidates=rejected)
+
+
+def _rank_jump_points(system, scaling, polynomial, rank, seed, first):
+    """The isolated points (user's units) where the Hessian's rank drops to ``rank`` or below, each judged again in
+    coordinates centred exactly at it (decision 0116).
+
+    ``first`` = (units, f, centre) of the first search, centred at the component's generic point. Seen from there,
+    features far smaller than their distance merge: the umbrella x^2 - y^2 (z^2 + 1) after a rational linear change
+    has its pinch points 2.9 apart and 200 from the generic point, which balanced to units of 1e3, and the two came
+    out as one double point at their midpoint. Each first point is searched again centred at itself (decision
+    0084's idea for singular points), and of that run the points nearer to it than to any other first point are
+    kept: no radius enters.
+    """
+    def solutions(units, g, centre):
+        jump = PolynomialSystem(list(system.variables), _hessian_jump_system(g, rank))
+        found = decompose(jump, seed=seed)
+        points = [p for c in found.components if c.dimension == 0 for p in c.points]
+        return units.to_user(np.array(points, dtype=complex).reshape(-1, system.n_variables)) + centre[None, :]
+
+    found = solutions(*first)
+    if not _exactly_centred_at_all(system):
+        return found
+    kept = []
+    for j, candidate in enumerate(found):
+        again = solutions(*_read_in(system, candidate, scaling, polynomial))
+        mine = [p for p in again if int(np.argmin(np.linalg.norm(found - p[None, :], axis=1))) == j]
+        # none there: the point stays as found first (its reading then says whether the type changes there)
+        kept.extend(mine if mine else [candidate])
+    return _distinct_points(np.array(kept, dtype=complex).reshape(-1, system.n_variables))
+
+
+def _exactly_centred_at_all(system):
+    """Whether :func:`_exactly_centred` writes this system centred (exact, affine, small enough)."""
+    return not (system.projective or type(system) is not PolynomialSystem or not system.polynomials[0].is_exact
+                or translated_terms(system) > CENTRING_TERMS)
+
+
+def _read_in(system, point, scaling, polynomial):
+    """The coordinates a hypersurface is read in at ``point`` (user's units): exact f centred exactly at a rational
+    next to the point and balanced anew (decision 0091), else f in its balanced units (``scaling``, ``polynomial``).
+
+    Returns
+    -------
+    (Scaling, Polynomial, ndarray)
+        The units, f in them, and the centre (zero when f is not centred): x = centre + scaling.to_user(u).
+    """
+    centred = _exactly_centred(system, np.asarray(point, dtype=complex))
+    if centred is None:
+        return scaling, polynomial, np.zeros(system.n_variables, dtype=complex)
+    return centred
+
+
+def _type_changes(special, transversal):
+    """A special point must show a change of the transversal type: one read as the transversal type itself (both
+    decided) is set undecided (``NO_CHANGE``), never listed as a special point of that type (decision 0116).
+
+    Genuine candidates change the type by construction (the Hessian's rank drops, or the cubic along the kernel
+    vanishes), so such a reading means a false candidate or a wrong reading, and numag cannot tell which.
+    """
+    kind, generic = special.hypersurface.type, transversal.hypersurface.type if transversal.hypersurface else None
+    if generic is None or kind.family is Family.UNDECIDED or generic.family is Family.UNDECIDED:
+        return
+    same = (kind.family, kind.index) == (generic.family, generic.index) and \
+        (kind.simple or special.hypersurface.milnor == transversal.hypersurface.milnor)
+    if same:
+        special.notes.append(f"read as {kind.label}, the transversal type itself: no change of type shown, so this "
+                             "candidate is neither confirmed nor ruled out (undecided)")
+        _undecided(special.hypersurface, TypeTest.NO_CHANGE)
 
 
 #: A candidate special point must meet f and grad f to this (largest residual over the size of the terms).
