@@ -104,3 +104,14 @@ def test_a_singular_point_reached_by_part_of_its_cycle_is_kept_but_counted_as_ju
     # the whole cycle: nothing jumped, the three paths at the triple root
     whole = track(homotopy, homotopy.start_solutions(), whole_cycles=True)
     assert whole.counts.singular_endpoint == 3 and whole.counts.failed == 0 and set(whole.winding) == {3}
+
+
+@pytest.mark.parametrize("projective", [True, False])
+def test_no_crossed_endpoints_give_no_labels(projective):
+    # the last repair round with no crossed paths beside broken cycles or stationary ends: no labels, no
+    # error (singular on a quintic surface after a linear change ended in an internal error here)
+    # (common practice, no source)
+    from numag.tracking.service import _same_endpoint_labels
+    homotopy = circle_and_line(0)
+    none = np.zeros((0, homotopy.size), dtype=complex)
+    assert len(_same_endpoint_labels(homotopy, none, projective, 1e-8)) == 0

@@ -1075,9 +1075,15 @@ def _affine(system, options, rng, paths, discarded, progress, notes_out=None, ro
     codimensions = sorted({n - c.dimension for c in variety.components})
     check_options = CheckOptions(max_digits=options.digits, backward_errors=False,  # measured in _near_singular
                                  point_tolerance=POINT_TOLERANCE)
-    for codimension in codimensions:
+    formulations = {}  # codimension -> the formulation asked for after the minors' witness sets split (0115)
+    queue = list(codimensions)
+    while queue:
+        codimension = queue.pop(0)
         if codimension == 0:
             continue
+        # what this codimension adds, forgotten when it is computed again in another formulation (0115)
+        before = (len(found), len(notes_out), len(routes), dict(discarded),
+                  *(len(out) if out is not None else 0 for out in (dropped, embedded, embedded_components)))
         search = None
         if options.start is not StartKind.TOTAL_DEGREE:
             search, route = _structured_start(system, variety, codimension, options, rng, paths, progress)
@@ -1090,7 +1096,8 @@ def _affine(system, options, rng, paths, discarded, progress, notes_out=None, ro
             projected = [(0, point[None, :], int(multiplicity), None)
                          for point, multiplicity in zip(search.points, search.multiplicities)]
         else:
-            formulation = _witness_formulation(system, variety, codimension, options)
+            formulation = formulations.get(codimension) or _witness_formulation(system, variety, codimension,
+                                                                                options)
             augmented = None
             if formulation is not Formulation.NULL_VECTOR:
                 try:
@@ -1150,9 +1157,11 @@ def _affine(system, options, rng, paths, discarded, progress, notes_out=None, ro
             else:
                 fresh.append((dimension, points, multiplicity, oracle))
         # every new candidate of this codimension judged in one batched check (decision 0038)
+        loose = []
         verdicts = _judge_all(system, [points[0] for _, points, _, _ in fresh], check_options,
-                              int(rng.integers(2**31)), variety)
-        for (dimension, points, multiplicity, oracle), verdict in zip(fresh, verdicts):
+                              int(rng.integers(2**31)), variety, loose)
+        loosely = []  # the positive-dimensional pieces kept whose witness point is no singular point itself
+        for (dimension, points, multiplicity, oracle), verdict, settled_loosely in zip(fresh, verdicts, loose):
             candidate = _Candidate(dimension, len(points), points)
             point = points[0]
             seen = _already(found, oracles, candidate, point)  # two candidates of this codimension, one piece
@@ -1233,7 +1242,54 @@ def _affine(system, options, rng, paths, discarded, progress, notes_out=None, ro
                 kind=piece_kind, on_components=through, rank=verdict.rank, codimension=verdict.codimension,
                 notes=notes + list(verdict.notes)))
             oracles.append(oracle)
+            if settled_loosely and candidate.dimension > 0:
+                loosely.append(found[-1])
+        split = _split_pieces(loosely)
+        if split and kind is not CandidateSystem.NULL_VECTOR and options.formulation is not Formulation.MINORS:
+            # one multiple component of the minors' equations may have split into several false ones: this
+            # codimension again in the null-vector formulation, its pieces judged afresh
+            del found[before[0]:], oracles[before[0]:], notes_out[before[1]:], routes[before[2]:]
+            discarded.clear()
+            discarded.update(before[3])
+            for out, length in zip((dropped, embedded, embedded_components), before[4:]):
+                if out is not None:
+                    del out[length:]
+            formulations[codimension] = Formulation.NULL_VECTOR
+            notes_out.append(f"codimension {codimension}: {counted(len(split), 'piece')} of the minors' witness sets "
+                             "lay near a singular set without being singular points themselves (a multiple component "
+                             "split by rounding); computed again in the null-vector formulation (decision 0115).")
+            queue.insert(0, codimension)
+            continue
+        for piece in split:  # cannot be told from one component split by rounding: undecided, never silent
+            piece.kind = PieceKind.UNDECIDED
+            piece.notes.append(_SPLIT_NOTE)
     return found, variety
+
+
+#: Why a piece of :func:`_split_pieces` is undecided.
+_SPLIT_NOTE = ("Its witness points are no singular points of X themselves, only near them, as are another piece's: "
+               "these pieces may be one multiple component split by rounding (decision 0115).")
+
+
+def _split_pieces(loosely):
+    """The positive-dimensional pieces of one codimension that may be one multiple component split in several.
+
+    A component of multiplicity m in the candidates' equations has witness points accurate to about
+    eps^(1/m) of the coordinates' size only: far from the origin, where that is larger than the check's point
+    tolerance, each witness point is a singular point only at the looser candidate tolerance (a rank drop near
+    it), and the decomposition may split the m points of each witness point's cluster into m false components
+    (a triple line 25 from the origin reported as three lines, decision 0115). Two or more pieces of one
+    dimension kept that way are returned; one alone is no split.
+
+    Examples
+    --------
+    >>> _split_pieces([])
+    []
+    """
+    by_dimension = {}
+    for piece in loosely:
+        by_dimension.setdefault(piece.dimension, []).append(piece)
+    return [piece for pieces in by_dimension.values() if len(pieces) > 1 for piece in pieces]
 
 
 def _smooth_along(verdict, variety):
@@ -1250,8 +1306,11 @@ def _smooth_along(verdict, variety):
     return len(variety.components) == 1
 
 
-def _judge_all(system, points, options, seed, variety):
+def _judge_all(system, points, options, seed, variety, loose=None):
     """:func:`_judge` for many candidates: one batched check, then :func:`_judge` for the few it leaves open.
+
+    ``loose`` (a list, optional) receives for each candidate whether its verdict is not the batched check's at
+    ``options``' point tolerance (the candidate settled only at the looser one, or at a rank drop near it).
 
     The check decides the clear cases of all points together in double precision and escalates only the
     doubtful ones; one call per candidate repeated the set-up and the escalation for each. A candidate
@@ -1272,6 +1331,8 @@ def _judge_all(system, points, options, seed, variety):
                 and verdict.nearest_rank_drop_distance <= _CANDIDATE_TOLERANCE * (1 + np.linalg.norm(point)))):
             verdict = _judge(system, point, options, seed + k, variety, first=verdict)
         judged.append(verdict)
+        if loose is not None:
+            loose.append(verdict is not verdicts[k])
     return judged
 
 

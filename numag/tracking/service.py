@@ -471,8 +471,14 @@ def _coordinates(homotopy, endpoints):
 
 
 def _comparable(endpoints, projective):
-    """Endpoints as affine points X / X_0, or normalised homogeneous ones for projective systems."""
+    """Endpoints as affine points X / X_0, or normalised homogeneous ones for projective systems.
+
+    No endpoints give no rows (the last repair round may find no crossed paths beside broken cycles or
+    stationary ends; reshaping an empty array to (0, -1) is an error).
+    """
     if projective:
+        if len(endpoints) == 0:
+            return np.zeros((0,) + np.shape(endpoints)[1:], dtype=complex)
         return normalize_projective(endpoints).reshape(len(endpoints), -1)
     with np.errstate(all="ignore"):
         return endpoints[:, 1:] / endpoints[:, :1]

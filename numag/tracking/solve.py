@@ -1028,7 +1028,8 @@ def _satisfies(system, point, tolerance=1e-8):
 
 def _finite_points(system, endpoints, indices):
     if system.projective:
-        return normalize_projective(endpoints[indices]).reshape(len(indices), -1)
+        # the column count given: no finite endpoints give no rows (reshape(0, -1) is an error)
+        return normalize_projective(endpoints[indices]).reshape(len(indices), endpoints.shape[1])
     return endpoints[indices, 1:] / endpoints[indices, :1]
 
 
