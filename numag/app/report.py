@@ -535,7 +535,8 @@ def _solution_to_dict(solution):
 def _at_infinity_to_dict(solution):
     """A group at infinity: a solution's keys, its kind in the set at infinity and that set's dimension there."""
     kind = InfinityKind.ISOLATED if solution.set_dimension == 0 else InfinityKind.ON_POSITIVE_DIMENSIONAL_SET
-    return {**_solution_to_dict(solution), "kind": kind, "dimension": int(solution.set_dimension)}
+    return {**_solution_to_dict(solution), "kind": kind, "dimension": int(solution.set_dimension),
+            "dimension_at_least": bool(solution.dimension_at_least)}
 
 
 def _solution_from_dict(d):
@@ -543,7 +544,8 @@ def _solution_from_dict(d):
                     at_infinity=bool(d["at_infinity"]), real=bool(d["real"]),
                     condition=_decode_float(d["condition"]), isolated=bool(d["isolated"]),
                     paths=np.array(d["paths"], dtype=np.int64), digits=int(d["digits"]),
-                    set_dimension=int(d.get("dimension", 0)))  # absent before decision 0112
+                    set_dimension=int(d.get("dimension", 0)),  # absent before decision 0112
+                    dimension_at_least=bool(d.get("dimension_at_least", False)))
 
 
 def _component(identifier, solution):

@@ -186,6 +186,9 @@ class Solution:
     set_dimension : int
         For an endpoint group at infinity: the dimension of the set at infinity (the top-degree forms' zeros)
         through it, 0 where it is an isolated point at infinity (decision 0112).
+    dimension_at_least : bool
+        ``set_dimension`` is a lower bound: the group is on a set at infinity of positive dimension, and whether
+        that set is larger there was not decided.
     """
 
     point: np.ndarray
@@ -198,6 +201,7 @@ class Solution:
     paths: np.ndarray
     digits: int = 16
     set_dimension: int = 0
+    dimension_at_least: bool = False
 
     def __repr__(self):
         where = "at infinity" if self.at_infinity else ("real" if self.real else "complex")
@@ -1102,7 +1106,7 @@ def _collect(system, endpoints, status, winding, condition, options, rng, forms=
     if len(infinite):
         if forms is None:  # the paths of random combinations: their points at infinity are the combinations'
             points = normalize_projective(endpoints[infinite])
-            found = [(members, points[members[0]], 1e-8, 0) for members in
+            found = [(members, points[members[0]], 1e-8, 0, False) for members in
                      groups(cluster_labels(points, options.cluster_tolerance, projective=True))]
         else:
             # located on the top-degree forms and grouped by their accuracy; what cannot be decided is failed
@@ -1120,21 +1124,26 @@ def _collect(system, endpoints, status, winding, condition, options, rng, forms=
             undecided = list(located.undecided)
             found = []
             for members in located.groups:
-                # a group whose endpoints disagree on the dimension, or one of them undecided: not decided
-                if np.any(doubt[members]) or len(set(dimension[members].tolist())) > 1:
+                # a group whose endpoints disagree on the dimension, or one of them undecided about being isolated:
+                # not decided. A doubt above a dimension found (a slice met zeros next to the point: the set there is
+                # at least that large) leaves the group on a positive-dimensional set, its dimension a lower bound;
+                # its paths did reach infinity, so they are not failures (the finite solutions are whole)
+                lowest, highest = int(dimension[members].min()), int(dimension[members].max())
+                if lowest != highest or (np.any(doubt[members]) and lowest == 0):
                     undecided.append(members)
                     continue
                 # a multiple point is known to its refinement's accuracy (1e-8 at a double one): below it, an
                 # imaginary part does not make the point complex
                 found.append((members, normalize_projective(located.point(members)),
-                              max(1e-8, float(located.accuracy[members].max())), int(dimension[members[0]])))
+                              max(1e-8, float(located.accuracy[members].max())), highest,
+                              bool(np.any(doubt[members]))))
             if undecided:
                 unsettled = infinite[np.concatenate(undecided)]
-        for members, point, accuracy, set_dimension in found:
+        for members, point, accuracy, set_dimension, at_least in found:
             paths = infinite[members]
             real = bool(real_coefficients and np.all(np.abs(point.imag) <= accuracy * (1 + np.abs(point))))
             at_infinity.append(Solution(point=point, multiplicity=len(members), winding=int(winding[paths].max()),
                                         at_infinity=True, real=real, condition=float(condition[paths].min()),
                                         isolated=set_dimension == 0, paths=paths, digits=16,
-                                        set_dimension=set_dimension))
+                                        set_dimension=set_dimension, dimension_at_least=at_least))
     return solutions, at_infinity, flagged, unverified, unsettled

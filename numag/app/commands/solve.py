@@ -114,7 +114,8 @@ def _print_solve(result, out, data=None):
         out.write(f"\n{_counted(len(result.sets_at_infinity), 'endpoint group')} at infinity on positive-dimensional "
                   f"sets at infinity, not isolated points (homogeneous coordinates {', '.join(homogeneous)}):\n")
         for s in result.sets_at_infinity:
-            out.write(f"        paths {s.multiplicity}  dimension {s.set_dimension}  "
+            out.write(f"        paths {s.multiplicity}  dimension {'>= ' if s.dimension_at_least else ''}"
+                      f"{s.set_dimension}  "
                       f"{text(homogeneous, s.point, _WITNESS_ACCURACY)}\n")
     if result.not_isolated:
         out.write(f"\n{_counted(len(result.not_isolated), 'endpoint group')} "
