@@ -13,36 +13,19 @@ and of `component_anatomy`.
 import argparse
 import time
 
-import checkout  # noqa: F401  (this checkout's numag, not an installed one)
+import checkout  # this checkout's numag, not an installed one
 import numpy as np
-import sympy
 
 import numag
 from numag.anatomy.survey import component_anatomy
-
-
-def carried(frame):
-    """The umbrella on the graph in coordinates X with x = A X + b, and its pinch point there (exact, sympy)."""
-    X = sympy.symbols("X1:5")
-    if frame == "units":
-        matrix, shift = sympy.diag(1000, 1000, 1000, 1000), sympy.zeros(4, 1)
-    elif frame == "linear":
-        matrix = sympy.Matrix([[2, -1, 0, sympy.Rational(1, 3)], [1, 1, -2, 0], [0, sympy.Rational(1, 2), 1, 1],
-                               [1, 0, 1, -1]])
-        shift = sympy.Matrix([3, -2, 5, 1])
-    else:
-        matrix, shift = sympy.eye(4), sympy.zeros(4, 1)
-    x, y, z, w = list(matrix * sympy.Matrix(X) + shift)
-    equations = [sympy.expand(x**2 - y**2 * z), sympy.expand(w - z**2 - x * y)]
-    texts = [str(e).replace("**", "^") for e in equations]
-    pinch = matrix.inv() * (-shift)
-    return numag.parse_system(texts, [str(v) for v in X]), np.array([complex(v) for v in pinch])
 
 
 def main():
     parser = argparse.ArgumentParser(description=__doc__)
     parser.add_argument("--seeds", type=int, nargs="+", default=[1, 2, 3])
     args = parser.parse_args()
+    checkout.measure_other(None)  # the cases are the tests'
+    from test_anatomy_jumps import _carried_umbrella as carried
     for frame in ["identity", "units", "linear"]:
         for seed in args.seeds:
             system, pinch = carried(frame)
