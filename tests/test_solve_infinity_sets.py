@@ -106,6 +106,31 @@ def test_report_names_the_kind_and_the_dimension():
     assert [s.set_dimension for s in back.sets_at_infinity] == [e["dimension"] for e in data["sets_at_infinity"]]
 
 
+def test_an_undecided_isolation_at_infinity_is_a_warning_and_its_paths_are_not_failed():
+    # the square null-vector system of the node y^2 = x^2 (x + 1) (x, y, lambda; seed 1) has 2 endpoints at infinity
+    # whose slices cannot tell isolated from not: listed as a point at infinity of kind "undecided", with a warning,
+    # never as failed paths (a failure there gave up the square route; decision 0112, amended)
+    from numag.tracking.infinity import InfinityKind
+    from numag.tracking.solve import Solution
+    from numag.app.report import completeness_warnings, dumps, solve_report_from_dict, solve_report_to_dict
+    system, _, _, _ = case("doubled line", "original")
+    result = solve_system(system, seed=1)
+    unsure = Solution(point=np.array([0, 1, 0, 0], dtype=complex), multiplicity=2, winding=1, at_infinity=True,
+                      real=True, condition=np.inf, isolated=False, paths=np.array([0, 1]), set_dimension=0,
+                      dimension_at_least=True)
+    result.at_infinity = result.at_infinity + [unsure]
+    data = json.loads(dumps(solve_report_to_dict(result, result.options)))
+    assert data["at_infinity"][-1]["kind"] == InfinityKind.UNDECIDED
+    assert any("could not be told isolated" in w for w in completeness_warnings(data))
+    back, _ = solve_report_from_dict(data)
+    assert back.at_infinity[-1].dimension_at_least and back.at_infinity[-1].set_dimension == 0
+    # the node's null-vector system itself: no path failed for the set at infinity (common practice, no source)
+    from numag.singular.locus import SingularOptions, singular_locus
+    node = parse_system(["y^2 - x^2*(x + 1)"], ["x", "y"])
+    locus = singular_locus(node, SingularOptions(formulation="null vector", start="multihomogeneous"), seed=1)
+    assert locus.paths["failed"] == 0
+
+
 @pytest.mark.parametrize("seed", [1, 2, 3])
 def test_local_dimension_at_exact_points_in_random_units(seed):
     from numag.tracking.infinity import local_dimension_at_infinity, locate_at_infinity

@@ -263,6 +263,12 @@ def completeness_warnings(data):
                         f"{'does' if len(unverified) == 1 else 'do'} not satisfy the equations "
                         "after refinement and are not counted: they may be points at infinity that the endgame could "
                         "not resolve, or solutions missed; run again with another --seed or --start to compare.")
+    infinite = data.get("at_infinity") if isinstance(data.get("at_infinity"), (list, EncodedSequence)) else []
+    unsure = [p for p in infinite if isinstance(p, dict) and p.get("kind") == InfinityKind.UNDECIDED]
+    if unsure:  # solve: the slices could not tell an isolated point at infinity from one on a set (decision 0112)
+        warnings.append(f"{counted(len(unsure), 'group')} of endpoints at infinity could not be told isolated points "
+                        "or points of a positive-dimensional set at infinity: the list of points at infinity is "
+                        "undecided there (the finite solutions are not affected).")
     undecided = data.get("undecided") if isinstance(data.get("undecided"), list) else []
     if undecided:  # solve: multiple groups far from the origin that centred coordinates did not confirm (0081)
         paths = sum(int(group.get("multiplicity", 0)) for group in undecided if isinstance(group, dict))
@@ -534,7 +540,8 @@ def _solution_to_dict(solution):
 
 def _at_infinity_to_dict(solution):
     """A group at infinity: a solution's keys, its kind in the set at infinity and that set's dimension there."""
-    kind = InfinityKind.ISOLATED if solution.set_dimension == 0 else InfinityKind.ON_POSITIVE_DIMENSIONAL_SET
+    kind = (InfinityKind.ON_POSITIVE_DIMENSIONAL_SET if solution.set_dimension > 0
+            else InfinityKind.UNDECIDED if solution.dimension_at_least else InfinityKind.ISOLATED)
     return {**_solution_to_dict(solution), "kind": kind, "dimension": int(solution.set_dimension),
             "dimension_at_least": bool(solution.dimension_at_least)}
 

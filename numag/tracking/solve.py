@@ -220,7 +220,7 @@ class SolveResult:
     solutions : list of Solution
         Finite, isolated solutions.
     at_infinity : list of Solution
-        Isolated points at infinity (affine input only).
+        Points at infinity (affine input only): isolated, or of undecided isolation (``dimension_at_least``).
     not_isolated : list of Solution
         Endpoints on positive-dimensional solution sets (not counted as solutions).
     status : ndarray of int
@@ -983,11 +983,11 @@ def _run(system, homotopy, start_points, total, options, rng, seed, progress, st
         for solution in solutions:
             (kept if _satisfies(system, solution.point) else discarded).append(solution)
         solutions = kept
-    result = SolveResult(system=system, solutions=solutions, at_infinity=[s for s in infinite if s.isolated],
+    result = SolveResult(system=system, solutions=solutions, at_infinity=[s for s in infinite if s.set_dimension == 0],
                          not_isolated=not_isolated, status=status, steps=run.steps, winding=winding,
                          retracked=run.retracked, seed=seed, seconds=time.perf_counter() - started,
                          evaluations=run.evaluations, squared_up=squared, digits=run.digits,
-                         sets_at_infinity=[s for s in infinite if not s.isolated])
+                         sets_at_infinity=[s for s in infinite if s.set_dimension > 0])
     result.discarded = discarded
     result.unverified = unverified
     if len(unsettled):
@@ -1124,19 +1124,18 @@ def _collect(system, endpoints, status, winding, condition, options, rng, forms=
             undecided = list(located.undecided)
             found = []
             for members in located.groups:
-                # a group whose endpoints disagree on the dimension, or one of them undecided about being isolated:
-                # not decided. A doubt above a dimension found (a slice met zeros next to the point: the set there is
-                # at least that large) leaves the group on a positive-dimensional set, its dimension a lower bound;
-                # its paths did reach infinity, so they are not failures (the finite solutions are whole)
+                # where every endpoint found the same dimension without doubt, it is decided. Otherwise the lowest
+                # dimension found is a lower bound (a slice met zeros next to the point: the set is at least that
+                # large there): >= 1 is on a positive-dimensional set; 0 leaves the group's isolation undecided (a
+                # warning of the command, exit 3). The paths reached infinity either way and are not failures:
+                # callers that want the finite solutions (the square null-vector system, the families' tracers)
+                # must not lose them to a question about the set at infinity
                 lowest, highest = int(dimension[members].min()), int(dimension[members].max())
-                if lowest != highest or (np.any(doubt[members]) and lowest == 0):
-                    undecided.append(members)
-                    continue
+                at_least = bool(np.any(doubt[members])) or lowest != highest
                 # a multiple point is known to its refinement's accuracy (1e-8 at a double one): below it, an
                 # imaginary part does not make the point complex
                 found.append((members, normalize_projective(located.point(members)),
-                              max(1e-8, float(located.accuracy[members].max())), highest,
-                              bool(np.any(doubt[members]))))
+                              max(1e-8, float(located.accuracy[members].max())), lowest, at_least))
             if undecided:
                 unsettled = infinite[np.concatenate(undecided)]
         for members, point, accuracy, set_dimension, at_least in found:
@@ -1144,6 +1143,6 @@ def _collect(system, endpoints, status, winding, condition, options, rng, forms=
             real = bool(real_coefficients and np.all(np.abs(point.imag) <= accuracy * (1 + np.abs(point))))
             at_infinity.append(Solution(point=point, multiplicity=len(members), winding=int(winding[paths].max()),
                                         at_infinity=True, real=real, condition=float(condition[paths].min()),
-                                        isolated=set_dimension == 0, paths=paths, digits=16,
+                                        isolated=set_dimension == 0 and not at_least, paths=paths, digits=16,
                                         set_dimension=set_dimension, dimension_at_least=at_least))
     return solutions, at_infinity, flagged, unverified, unsettled

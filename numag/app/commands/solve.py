@@ -107,8 +107,9 @@ def _print_solve(result, out, data=None):
         out.write(f"\n{_counted(len(result.at_infinity), 'point')} at infinity (homogeneous coordinates "
                   f"{', '.join(homogeneous)}):\n")
         for s in result.at_infinity:
+            unsure = "  isolated or on a set at infinity: undecided" if s.dimension_at_least else ""
             out.write(f"        paths {s.multiplicity}  "
-                      f"{text(homogeneous, s.point, _root_accuracy(s.digits, s.multiplicity))}\n")
+                      f"{text(homogeneous, s.point, _root_accuracy(s.digits, s.multiplicity))}{unsure}\n")
     if result.sets_at_infinity:  # decision 0112: where these groups end depends on the start; not points
         homogeneous = names if system.projective else ["(w)"] + list(names)
         out.write(f"\n{_counted(len(result.sets_at_infinity), 'endpoint group')} at infinity on positive-dimensional "
