@@ -126,6 +126,16 @@ _DOUBLE_REGULAR = 1e-4
 _KERNEL_STEP = 1e-3
 _KERNEL_DIRECTIONS = 3
 _KERNEL_STAYS = 1e-2
+#: The non-reduced sampling asks whether the rank drops within this fraction of the sampling radius of each sample
+#: (:meth:`_Checker._rank_drops_at_samples_mp`); decided in double where J clearly has full rank on that whole ball
+#: (:meth:`_Checker.full_rank_around`, decision 0117): the c-th scaled singular value at the sample above this
+#: multiple of the estimated most it can fall over the ball (the margin covers the estimate's higher orders, which
+#: are 1e-3 of the sampling radius smaller, and the Schur complement's factor (1 + |E| / (sigma_(c-1) - |E|))^2), ...
+_SAMPLE_DROP_REACH = 1e-3
+_FULL_RANK_MARGIN = 10.0
+#: ... and above this multiple of sqrt(scaled residual) (a sample d off a k-fold component: residual d^k, c-th value
+#: about d^(k - 1) <= sqrt(residual); on a reduced component the residual is at rounding, 1e-13 at most: 3e-5).
+_OFF_NON_REDUCED_MARGIN = 100.0
 
 
 @dataclass(frozen=True)
@@ -667,26 +677,113 @@ class _Checker:
 
     def rank_drops_near_in_double(self, groups, codim, radii):
         """For each group of samples (of one codimension): True or False when double precision decides
-        :meth:`rank_drops_near` clearly, else None. All samples in one batched Gauss-Newton."""
+        :meth:`rank_drops_near` clearly, else None.
+
+        False when J has full rank c clearly on the whole ball of radius 1e-3 of the sampling radius around one of
+        the group's samples (:meth:`full_rank_around`, decision 0117): no rank drop is that near it, which is what
+        the test in mpmath asks. True when a batched Gauss-Newton on the rank-drop system reaches a regular zero at
+        every sample. All samples in one batch each.
+        """
         if not groups:
             return []
-        drops = rank_drop_points(self.system, np.concatenate([np.array(g) for g in groups]), codim - 1,
-                                 tolerance=0.1 * _DOUBLE_SETTLED_RESIDUAL)
-        answers, first = [], 0
-        for informative, radius in zip(groups, radii):
-            rows = slice(first, first + len(informative))
-            first += len(informative)
-            settled = drops.residuals[rows] <= _DOUBLE_SETTLED_RESIDUAL
-            distances = np.array([self.distance(found, sample)
-                                  for found, sample in zip(drops.points[rows], informative)])
-            # A drop found well away from a sample is no proof of full rank there: on a doubled component
-            # (x^2 (z - 1)) Gauss-Newton on (F, J V) halves x while the linear rows pull along z, and it ends where
-            # the doubled component meets another one (z = 1), a unit away. The anchored search in mpmath decides.
-            if np.all(settled & (distances <= 1e-4 * radius)):
-                answers.append(True)
+        sizes = [len(g) for g in groups]
+        samples = np.concatenate([np.array(g) for g in groups])
+        reach = np.repeat(_SAMPLE_DROP_REACH * np.asarray(radii, dtype=float), sizes)
+        clear = self.full_rank_around(samples, codim, reach)
+        answers, first, open_rows, open_groups = [], 0, [], []
+        for j, size in enumerate(sizes):
+            rows = np.arange(first, first + size)
+            first += size
+            if np.any(clear[rows]):
+                answers.append(False)
             else:
                 answers.append(None)
+                open_rows.append(rows)
+                open_groups.append(j)
+        if not open_groups:
+            return answers
+        drops = rank_drop_points(self.system, samples[np.concatenate(open_rows)], codim - 1,
+                                 tolerance=0.1 * _DOUBLE_SETTLED_RESIDUAL)
+        first = 0
+        for j, rows in zip(open_groups, open_rows):
+            mine = slice(first, first + len(rows))
+            first += len(rows)
+            settled = drops.residuals[mine] <= _DOUBLE_SETTLED_RESIDUAL
+            distances = np.array([self.distance(found, sample)
+                                  for found, sample in zip(drops.points[mine], samples[rows])])
+            # A drop found well away from a sample is no proof of full rank there: on a doubled component
+            # (x^2 (z - 1)) Gauss-Newton on (F, J V) halves x while the linear rows pull along z, and it ends where
+            # the doubled component meets another one (z = 1), a unit away. Full rank is shown by
+            # full_rank_around above; what neither settles, the anchored search in mpmath decides.
+            if np.all(settled & (distances <= 1e-4 * radii[j])):
+                answers[j] = True
         return answers
+
+    def full_rank_around(self, samples, codim, reach):
+        """Whether J has rank ``codim`` at every point within ``reach`` (one per sample) of each sample, clearly,
+        in double precision (decision 0117). Boolean array, one per sample.
+
+        In the checker's coordinates (balanced, and centred at the point sampled around where that applies), with
+        A = J(s) in units of its rows' terms, sigma_1 >= ... its singular values, u, v the c-th singular vectors
+        (c = ``codim``) and E = A(y) - A(s) for |y - s| <= reach (the same row units): restricted to the first c
+        right and left singular vectors, A + E is diag(sigma_1..sigma_c) + U^H E V, so (Courant-Fischer, and the
+        Schur complement of its leading (c-1) block) sigma_c(A + E) stays positive when
+
+            sigma_c > |u^H E v| + |E|^2 / (sigma_(c-1) - |E|)   and   sigma_(c-1) > |E|.
+
+        Estimated from J at s +- reach e_j (one batch): |u^H E v| by the first-order term (the norm of the vector
+        u^H (J(s + reach e_j) - J(s - reach e_j)) v / 2 over j, exact for all directions by Cauchy-Schwarz) plus n
+        times the largest second difference along an axis; |E| by the spectral norm of the stacked differences
+        J(s +- reach e_j) - J(s) (a bound for every direction to first order). Both are coordinate-free to first order
+        (unitary invariant). Clear when both inequalities hold with the margin :data:`_FULL_RANK_MARGIN`, and sigma_c
+        is above :data:`_OFF_NON_REDUCED_MARGIN` times sqrt(residual) (F in units of its terms): a sample that Newton
+        left at distance d off a k-fold component (x^k = 0) has residual d^k and sigma_c about d^(k - 1), at most
+        sqrt(residual), while a sample of a reduced component has its residual at rounding.
+
+        Examples
+        --------
+        >>> from numag.system.parse import parse_system
+        >>> checker = _Checker(parse_system(["y^2 - x^2*(x + 1)"], ["x", "y"]), CheckOptions(), None)
+        >>> sample = np.array([[0.01, 0.01 * np.sqrt(1.01)]])  # on a branch of the node, 0.01 from it
+        >>> checker.full_rank_around(sample, 1, np.array([1e-5])).tolist()  # no rank drop within 1e-5 of it
+        [True]
+        >>> checker.full_rank_around(sample, 1, np.array([1e-2])).tolist()  # within 1e-2: the node
+        [False]
+        """
+        samples = np.atleast_2d(np.asarray(samples, dtype=complex))
+        count, n = samples.shape
+        if count == 0 or not 1 <= codim <= min(self.m, n):
+            return np.zeros(count, dtype=bool)
+        reach = np.asarray(reach, dtype=float)
+        if self.system.projective:  # a line within angle `reach` has a representative within reach |s| of s
+            reach = reach * np.linalg.norm(samples, axis=1)
+        values, jacobians = self.batch.evaluate(samples)
+        row_scales = self.sizes.gradients(samples)
+        scaled = jacobians / row_scales[:, :, None]
+        left, sigmas, right = np.linalg.svd(scaled)
+        sigma = sigmas[:, codim - 1]
+        u, v = left[:, :, codim - 1], right[:, codim - 1, :].conj()
+        residual = np.linalg.norm(values / self.sizes.values(samples), axis=1)
+        steps = reach[:, None, None] * np.eye(n)[None]  # (count, n, n): row j is the step along e_j
+        shifted = np.concatenate([samples[:, None, :] + steps, samples[:, None, :] - steps], axis=1)
+        _, moved = self.batch.evaluate(shifted.reshape(-1, n))
+        moved = moved.reshape(count, 2, n, self.m, n) / row_scales[:, None, None, :, None] - scaled[:, None, None]
+        first, second = (moved[:, 0] - moved[:, 1]) / 2, (moved[:, 0] + moved[:, 1]) / 2  # (count, n, m, n)
+        along = np.linalg.norm(np.einsum("pi,pjik,pk->pj", u.conj(), first, v), axis=1)
+        along = along + n * np.linalg.norm(second, ord=2, axis=(2, 3)).max(axis=1)
+        # |E| for every direction: the spectral norm of the differences stacked (m n x n), either side
+        change = np.maximum(*(np.linalg.norm(moved[:, side].reshape(count, n * self.m, n), ord=2, axis=(1, 2))
+                              for side in (0, 1)))
+        if codim > 1:
+            above = sigmas[:, codim - 2]
+            coupled = change ** 2 / np.maximum(above - change, np.finfo(float).tiny)
+            apart = above > _FULL_RANK_MARGIN * change
+        else:
+            coupled, apart = np.zeros(count), np.ones(count, dtype=bool)
+        clear = (apart & (sigma > _FULL_RANK_MARGIN * (along + coupled))
+                 & (sigma > _OFF_NON_REDUCED_MARGIN * np.sqrt(residual)))
+        finite = np.isfinite(sigma) & np.isfinite(residual) & np.isfinite(along) & np.isfinite(change)
+        return clear & finite
 
     # -- one point ---------------------------------------------------------------------------------
     def escalate(self, given, exact_given, refined, codim, position=None):
@@ -832,6 +929,14 @@ class _Checker:
             rows = slice(j * tries, (j + 1) * tries)
             informative_of.append([sample for sample, ok in zip(samples.points[rows], samples.converged[rows])
                                    if ok and self.distance(sample, point) >= 0.1 * radii[j]][:count])
+        # Polished with tolerance 0 (Newton on while a step lowers the residual; a few steps at a regular point): on a
+        # k-fold component Newton converges only linearly, and the projection's residual 1e-13 leaves a sample
+        # 1e-13^(1/k) off it -- 5e-5 for x^3 (y - 1), beyond the 1e-5 the sampling test looks for a rank drop in, so
+        # the tripled line's points were "singular" (decision 0117).
+        chosen = [sample for informative in informative_of for sample in informative]
+        if chosen:
+            polished = iter(project_to_variety(self.system, self.batch, np.array(chosen), tolerance=0.0).points)
+            informative_of = [[next(polished) for _ in informative] for informative in informative_of]
         return informative_of, radii
 
     # -- the non-reduced claim, looked at again where the features are (decision 0084) -------------------
@@ -894,7 +999,7 @@ class _Checker:
         with mpmath.mp.workdps(40):
             for sample in informative:
                 found = self.find_rank_drop([mpmath.mpc(v) for v in sample], codim - 1, mpmath.mp, 30)
-                if found is None or self.distance(found, sample) > 1e-3 * radius:
+                if found is None or self.distance(found, sample) > _SAMPLE_DROP_REACH * radius:
                     return False
         return True
 
