@@ -278,3 +278,33 @@ def test_combined_rows_match_sympy(seed):
     assert np.allclose([complex(precise_values[i]) for i in range(2)], values[0], rtol=1e-10)
     assert np.allclose([[complex(precise_gradients[i, k]) for k in range(5)] for i in range(2)], gradients[0],
                        rtol=1e-10)
+
+
+@pytest.mark.parametrize("seed", [1, 2, 3])
+def test_generic_gradients_span_the_partials_and_keep_the_lowering_direction(seed):
+    # The derivatives along the chosen directions span exactly what the partial derivatives span (an invertible
+    # change of the directions; linear algebra, common practice, no source), the partials taken by sympy as an
+    # exact reference; the direction along which x + 2y is constant lowers the degree (decision 0063).
+    import sympy
+
+    from numag.numeric.minors import generic_gradients
+    system = parse_system(["(x + 2*y)^3 - x*y + 3*y"], ["x", "y"])
+    rows = generic_gradients(system.polynomials, rng=np.random.default_rng(seed))
+    x, y = sympy.symbols("x y")
+    f = (x + 2 * y) ** 3 - x * y + 3 * y
+    monomials = sorted({m for g in (sympy.diff(f, x), sympy.diff(f, y))
+                        for m in sympy.Poly(g, x, y).monoms()})
+
+    def vector(coefficients_of):
+        return np.array([complex(coefficients_of.get(m, 0)) for m in monomials])
+
+    partials = [vector(dict(sympy.Poly(sympy.diff(f, s), x, y).terms())) for s in (x, y)]
+    ours = []
+    for g in rows[0]:
+        terms = {tuple(int(e) for e in row): c for row, c in zip(g.exponents, g.numeric_coefficients())}
+        assert set(terms) <= set(monomials)
+        ours.append(vector(terms))
+    assert np.linalg.matrix_rank(np.array(partials), tol=1e-9) == 2
+    assert np.linalg.matrix_rank(np.array(ours + partials), tol=1e-9) == 2
+    assert np.linalg.matrix_rank(np.array(ours), tol=1e-9) == 2
+    assert sorted(g.degree for g in rows[0]) == [1, 2]

@@ -180,3 +180,46 @@ def test_failed_paths_of_a_projective_gradient_system_reach_the_report(monkeypat
     assert report["paths"]["failed_by_reason"]["endgame_unsettled"] >= 2
     from numag.app.report import completeness_warnings
     assert any("failed" in w for w in completeness_warnings(report))
+
+
+def _chebyshev_nodal_surface(degree):
+    """T_d(x) + T_d(x + y) + T_d(x + y + z) + 1: in these coordinates d/dz is a product of d - 1 planes and
+    two partials meet in d - 1 copies of one plane curve through common points at infinity."""
+    def chebyshev(u):  # T_0 = 1, T_1 = u, T_(k+1) = 2 u T_k - T_(k-1) (common practice)
+        previous, current = "1", u
+        for _ in range(degree - 1):
+            previous, current = current, f"(2*{u}*({current}) - ({previous}))"
+        return current
+
+    return parse_system([f"{chebyshev('x')} + {chebyshev('(x + y)')} + {chebyshev('(x + y + z)')} + 1"],
+                        ["x", "y", "z"])
+
+
+@pytest.mark.parametrize("seed", [1, 2, 3])
+def test_nodal_surface_whose_partials_factor_in_its_coordinates(seed):
+    # T_5(u) + T_5(v) + T_5(w) + 1 with u = x, v = x + y, w = x + y + z: the gradient in (u, v, w) vanishes where
+    # each coordinate is one of the 4 simple critical points cos(k pi / 5) of T_5 (values (-1)^k); the sum is -1
+    # for one value +1 and two values -1: 3 * 2 * 2^2 = 24 nodes, all real (Chebyshev construction of nodal
+    # surfaces after S. V. Chmutov 1992, "Examples of projective surfaces with many singularities", J.
+    # Algebraic Geom. 1, from memory; the count worked out by hand). The candidate system's partials are taken
+    # along random directions (decision 0119): no path may fail, every node found.
+    locus = singular_locus(_chebyshev_nodal_surface(5), seed=seed)
+    points = affine_points(locus)
+    assert len(points) == 24 and all(bool(c.real[0]) for c in points)
+    assert not [c for c in locus.components if c.dimension > 0]
+    assert sum(locus.paths.get(label, 0) for label in ("minimum_step", "step_limit", "failed")) == 0
+
+
+@pytest.mark.parametrize("seed", [1, 2, 3])
+def test_singular_set_of_dimension_two_reaches_infinity_without_a_search_there(seed):
+    # (x^2 + y^2 + z^2) w = 0 in C^4 (worked out by hand; common practice, no source): singular where its two
+    # components meet, the surface w = 0 = x^2 + y^2 + z^2 (dimension 2, degree 2), and along the vertex line
+    # x = y = z = 0 of the cone (dimension 1, degree 1). The closure of the surface meets the hyperplane at
+    # infinity in a conic, where the closure is singular: said so in a note, and no point at infinity is listed
+    # (decision 0119).
+    system = parse_system(["(x^2 + y^2 + z^2)*w"], ["x", "y", "z", "w"])
+    locus = singular_locus(system, seed=seed)
+    found = sorted((c.dimension, c.degree, str(c.kind)) for c in locus.components)
+    assert found == [(1, 1, "singular"), (2, 2, "singular")]
+    assert any("positive-dimensional set inside the hyperplane at infinity" in note and "in dimension 1" in note
+               for note in locus.notes)

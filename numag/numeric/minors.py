@@ -43,7 +43,7 @@ from ..system.exact import ExactCoefficient
 from ..system.polynomial import DEFAULT_LIMITS, Polynomial, PolynomialSystem, combined_minor, determinant
 from .evaluate import BatchEvaluator, PrecisionEvaluator, TermSizes
 
-__all__ = ["AugmentedEvaluator", "CombinedRows", "EvaluatedMinors", "LinearFormProduct", "MinorWeights", "MinorsSystem",
+__all__ = ["generic_gradients", "AugmentedEvaluator", "CombinedRows", "EvaluatedMinors", "LinearFormProduct", "MinorWeights", "MinorsSystem",
            "degree_lowering_directions", "directional_gradients", "equation_evaluator", "expanded_minors",
            "kernel_deflation", "random_minor_weights", "split_equations"]
 
@@ -286,6 +286,59 @@ def directional_gradients(polynomials, directions):
                 if not weight.is_zero() and not partial.is_zero():
                     combined = combined + partial * Polynomial.constant(weight, p.n_variables)
             row.append(combined.numeric())
+        result.append(row)
+    return result
+
+
+def generic_gradients(polynomials, n=None, rng=None):
+    """The Jacobian along directions free of the coordinates: those that lower degrees, then random ones.
+
+    All first partials of F (the complete 1 x 1 minors) span what the gradient along any basis spans, but
+    the equation-by-equation regeneration meets them one after the other, and the sets it passes through,
+    V(f, df/dx_1, ..., df/dx_k), belong to the coordinates. Coordinates in which the partials factor or
+    share points at infinity (T_7(x) + T_7(x + y) + T_7(x + y + z) + 1: d/dz is a product of six planes, and
+    the curve of two partials is six copies of one plane curve through six common points at infinity)
+    make those sets singular, and regeneration paths stalled there at the minimum step (decision 0119).
+    Along random directions the intermediate sets are generic polar sets, smooth away from the zeros of
+    the whole gradient (Bertini). The directions that lower degrees (:func:`degree_lowering_directions`,
+    decision 0063) are kept: they belong to X, not to the coordinates; only the unit vectors that complete
+    them are replaced by random complex directions (independent of them with probability 1).
+
+    Parameters
+    ----------
+    polynomials : sequence of Polynomial
+    n : int, optional
+        Directions in the first ``n`` variables (all by default).
+    rng : numpy.random.Generator
+
+    Returns
+    -------
+    list of list of Polynomial
+        Per equation, its (numeric) derivatives along the n directions, for ``expanded_minors(gradients=...)``.
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> system = parse_system(["(x + 2*y)^3 - x"], ["x", "y"])
+    >>> rows = generic_gradients(system.polynomials, rng=np.random.default_rng(0))
+    >>> sorted(g.degree for g in rows[0])      # the lowering direction (-2, 1) kept, one random direction
+    [0, 2]
+    """
+    polynomials = list(polynomials)
+    n = polynomials[0].n_variables if n is None else int(n)
+    directions, levels = degree_lowering_directions(polynomials, n)
+    kept = [] if directions is None else [v for column, v in enumerate(directions) if np.any(levels[:, column] > 0)]
+    exact = directional_gradients(polynomials, kept) if kept else [[] for _ in polynomials]
+    weights = rng.standard_normal((n - len(kept), n)) + 1j * rng.standard_normal((n - len(kept), n))
+    result = []
+    for p, row in zip(polynomials, exact):
+        partials = [p.derivative(j).numeric() for j in range(n)]
+        for vector in weights:
+            combined = Polynomial.zero(p.n_variables)
+            for partial, weight in zip(partials, vector):
+                if not partial.is_zero():
+                    combined = combined + partial * Polynomial.constant(complex(weight), p.n_variables)
+            row = row + [combined]
         result.append(row)
     return result
 
