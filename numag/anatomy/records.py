@@ -198,6 +198,9 @@ class HypersurfaceAnatomy:
     milnor_by_paths : int or None
         Corank 2 or more, and infinite counts: mu counted a second way, as the number of solutions of
         grad f = eps b (b random) that converge to the point as eps -> 0; None when not counted or unclear.
+    milnor_read, tjurina_read : int or None
+        Where the type is undecided: the counts the local dual space gave, kept as evidence, not as mu and tau
+        (decision 0120).
     """
 
     corank: int
@@ -211,9 +214,24 @@ class HypersurfaceAnatomy:
     frame_condition: object = None
     frame_noise: object = None
     milnor_by_paths: object = None
+    milnor_read: object = None
+    tjurina_read: object = None
+
+    @property
+    def corank_decided(self):
+        """False where the Hessian's rank was unclear: ``corank`` is then what was read, not a fact."""
+        return self.decided_by is not TypeTest.UNCLEAR_RANK
+
+    @property
+    def milnor_at_least(self):
+        """A lower bound of mu known without it: 2^corank where the corank is decided (None otherwise)."""
+        return 2 ** self.corank if self.corank_decided and self.corank > 0 else None
 
     def to_dict(self):
-        return {"corank": self.corank, "hessian": self.hessian.to_dict(), "milnor": self.milnor,
+        return {"corank": self.corank if self.corank_decided else None, "corank_read": self.corank,
+                "hessian": self.hessian.to_dict(), "milnor": self.milnor,
+                "milnor_read": _optional(self.milnor_read, int), "tjurina_read": _optional(self.tjurina_read, int),
+                "milnor_at_least": self.milnor_at_least,
                 "tjurina": self.tjurina, "quasi_homogeneous": self.quasi_homogeneous, "type": self.type.to_dict(),
                 "decided_by": self.decided_by.name, "decided_by_text": self.decided_by.value,
                 "cubic_degeneracy": _optional(self.cubic_degeneracy, float),
@@ -223,11 +241,13 @@ class HypersurfaceAnatomy:
 
     @classmethod
     def from_dict(cls, data):
-        return cls(int(data["corank"]), HessianEvidence.from_dict(data["hessian"]), _optional(data["milnor"], int),
+        corank = data["corank"] if data["corank"] is not None else data["corank_read"]
+        return cls(int(corank), HessianEvidence.from_dict(data["hessian"]), _optional(data["milnor"], int),
                    _optional(data["tjurina"], int), _optional(data["quasi_homogeneous"], bool),
                    SingularityType.from_dict(data["type"]), TypeTest[data["decided_by"]],
                    _optional(data["cubic_degeneracy"], float), _optional(data.get("frame_condition"), float),
-                   _optional(data.get("frame_noise"), float), _optional(data.get("milnor_by_paths"), int))
+                   _optional(data.get("frame_noise"), float), _optional(data.get("milnor_by_paths"), int),
+                   _optional(data.get("milnor_read"), int), _optional(data.get("tjurina_read"), int))
 
 
 @dataclass
@@ -329,6 +349,11 @@ class PointAnatomy:
         equation); None when it was read where it was given.
     intersection : IntersectionMilnor or None
         For a complete intersection of k >= 2 equations and positive dimension: its Milnor number (Le-Greuel).
+    branches_read : list of Branch or None
+        Where a plane curve's type is undecided: the branches the local monodromy read, unconfirmed by the type
+        (``branches`` is then None: their number and reality undecided, decision 0120).
+    multiplicity_read : int or None
+        The same: the local witness set's count, of which the branches are the orbits (``multiplicity`` None).
     """
 
     point: np.ndarray
@@ -341,6 +366,8 @@ class PointAnatomy:
     seconds: float = 0.0
     moved_by: object = None
     intersection: object = None
+    branches_read: object = None
+    multiplicity_read: object = None
 
     @property
     def real_branches(self):
@@ -393,16 +420,21 @@ class PointAnatomy:
                 "real_branches": self.real_branches,
                 "motion": None if self.motion is None else self.motion.value, "sentence": self.sentence,
                 "notes": list(self.notes), "seconds": float(self.seconds), "moved_by": self.moved_by,
-                "intersection": None if self.intersection is None else self.intersection.to_dict()}
+                "intersection": None if self.intersection is None else self.intersection.to_dict(),
+                "branches_read": None if self.branches_read is None else [b.to_dict() for b in self.branches_read],
+                "multiplicity_read": self.multiplicity_read}
 
     @classmethod
     def from_dict(cls, data):
+        read = data.get("branches_read")
         return cls(decode_vector(data["point"]), int(data["local_dimension"]), _optional(data["multiplicity"], int),
                    None if data["hypersurface"] is None else HypersurfaceAnatomy.from_dict(data["hypersurface"]),
                    None if data["branches"] is None else [Branch.from_dict(b) for b in data["branches"]],
                    None if data["motion"] is None else Motion(data["motion"]), list(data["notes"]),
                    float(data["seconds"]), _optional(data.get("moved_by"), float),
-                   None if data.get("intersection") is None else IntersectionMilnor.from_dict(data["intersection"]))
+                   None if data.get("intersection") is None else IntersectionMilnor.from_dict(data["intersection"]),
+                   None if read is None else [Branch.from_dict(b) for b in read],
+                   _optional(data.get("multiplicity_read"), int))
 
 
 @dataclass

@@ -352,6 +352,19 @@ def _hypersurface_point(polynomial, computed, user_point, scaling, rng, real, an
         _undecided(anatomy.hypersurface, TypeTest.POINT_OFF)
         anatomy.notes.append(f"the point may be off the singular point: an {kind.label} read there is, to within "
                              "rounding, also a more degenerate singularity next to it; type, mu and tau undecided")
+    kind = anatomy.hypersurface.type
+    if along_kernel is None and deflation is not None and not deflation.moved \
+            and deflation.outcome is not DeflationOutcome.ALREADY_THERE and n == 2 and anatomy.branches is None \
+            and anatomy.multiplicity != 2 and kind.family is Family.A and kind.index >= 2:
+        # corank one read where deflation stopped short, and nothing independent confirms it: no count by paths
+        # (corank one has none), no branches and no multiplicity 2 (a plane curve point of multiplicity 2 has a
+        # Hessian of rank one at least: corank one; D, E and J10 have 3). Read next to a point of higher corank the
+        # Hessian keeps a value of the offset's size (a J10 = y^3 + x^6 read 1e-10 off was typed A7, mu 7 beside a
+        # doubt flag): the type, mu and tau are not stated (decision 0120)
+        _undecided(anatomy.hypersurface, TypeTest.POINT_OFF)
+        anatomy.notes.append(f"read where deflation stopped ({deflation.outcome.value}), an {kind.label} is not "
+                             "confirmed by the branches (not counted): next to a point of higher corank the Hessian "
+                             "keeps a value of the offset's size; type, mu and tau undecided")
     expected = _plane_branches(anatomy.hypersurface.type) if n == 2 else None
     if expected is not None and anatomy.branches is not None:
         found = sorted(b.multiplicity for b in anatomy.branches)
@@ -369,6 +382,15 @@ def _hypersurface_point(polynomial, computed, user_point, scaling, rng, real, an
         anatomy.notes.append("the type is undecided, so what the branches allow (switch, pass, locked) is not said")
     if anatomy.hypersurface.corank == 0 and anatomy.multiplicity not in (None, 2):
         anatomy.notes.append(f"a Morse point has multiplicity 2, the local witness set counted {anatomy.multiplicity}")
+    if anatomy.hypersurface.type.family is Family.UNDECIDED:
+        # an undecided reading states no value as fact (decision 0120): mu and tau are kept as what was read,
+        # and a plane curve's branches, one of two independent readings that the other did not confirm, are
+        # kept as read, their number and reality undecided (a D5 far out read as 1 branch, 0 real)
+        _undecided(anatomy.hypersurface, anatomy.hypersurface.decided_by)
+        if n == 2 and anatomy.branches is not None:
+            # the multiplicity is the same local witness set's count (the branches are its orbits): read too
+            anatomy.branches_read, anatomy.branches = anatomy.branches, None
+            anatomy.multiplicity_read, anatomy.multiplicity = anatomy.multiplicity, None
     return anatomy
 
 
@@ -410,6 +432,10 @@ def _along_the_kernel(polynomial, computed, hypersurface, frame, real):
         and kind.index > start_index else None
 
 
+#: Readings that name no type: a move onto a point of higher corank is not kept for them.
+_NOT_A_TYPE = (Family.UNDECIDED, Family.NOT_ISOLATED)
+
+
 def _onto_higher_corank(polynomial, computed, hypersurface, frame, real):
     """Move a point whose Hessian has a small value next to a point of higher corank onto it, if one fits
     (:func:`corank_jump_shift`), and read again there.
@@ -431,11 +457,13 @@ def _onto_higher_corank(polynomial, computed, hypersurface, frame, real):
     step = frame.matrix @ shift
     moved = computed + (step.real.astype(complex) if real else step)
     again, moved_frame = anatomy_in_frame(polynomial, moved)
-    if again.corank <= hypersurface.corank or not again.type.simple:
+    # a decided type there, simple or not (a J10 = y^3 + x^6 read 1e-10 off was typed A7, decision 0120)
+    if again.corank <= hypersurface.corank or again.type.family in _NOT_A_TYPE:
         return None
     moved = _onto_range_critical(polynomial, moved, moved_frame.matrix[:, :moved_frame.rank], real)
     again, moved_frame = anatomy_in_frame(polynomial, moved)
-    if again.corank <= hypersurface.corank or not again.type.simple or corank_jump_shift(moved_frame) is not None:
+    if again.corank <= hypersurface.corank or again.type.family in _NOT_A_TYPE \
+            or corank_jump_shift(moved_frame) is not None:
         return None
     return moved, again, moved_frame
 
@@ -483,9 +511,12 @@ def _local_anatomy(local, frame, origin, user_point, scaling, rng, real, angles,
 
 
 def _undecided(hypersurface, test):
-    """Set a hypersurface reading to undecided by ``test``: no type, and no mu, tau or quasi-homogeneity."""
+    """Set a hypersurface reading to undecided by ``test``: no type, and no mu, tau or quasi-homogeneity (the
+    counts read are kept as evidence, ``milnor_read`` and ``tjurina_read``, decision 0120)."""
     hypersurface.type = SingularityType(Family.UNDECIDED, None)
     hypersurface.decided_by = test
+    if hypersurface.milnor_read is None and hypersurface.tjurina_read is None:
+        hypersurface.milnor_read, hypersurface.tjurina_read = hypersurface.milnor, hypersurface.tjurina
     hypersurface.milnor = hypersurface.tjurina = hypersurface.quasi_homogeneous = None
 
 
@@ -623,7 +654,7 @@ def _slice_anatomy(polynomial, computed, user_point, dimension, rng, options, sc
 def _complex_slice(anatomy):
     """A transversal anatomy read on a complex slice: no motion, and the branches' reality undecided."""
     anatomy.motion = None
-    for branch in anatomy.branches or []:
+    for branch in (anatomy.branches or []) + (anatomy.branches_read or []):
         branch.real, branch.angle_rates = None, {}
 
 

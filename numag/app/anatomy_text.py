@@ -34,6 +34,8 @@ def _rates(rates):
 def write_point_anatomy(anatomy, names, out, indent="        "):
     """Write a :class:`~numag.anatomy.records.PointAnatomy` as indented lines."""
     multiplicity = "not counted" if anatomy.multiplicity is None else str(anatomy.multiplicity)
+    if anatomy.multiplicity is None and anatomy.multiplicity_read is not None:  # decision 0120
+        multiplicity = f"undecided (read {anatomy.multiplicity_read}, not confirmed by the type)"
     out.write(f"{indent}multiplicity {multiplicity}\n")
     h = anatomy.hypersurface
     if h is not None:
@@ -44,7 +46,16 @@ def write_point_anatomy(anatomy, names, out, indent="        "):
         mu = unknown if h.milnor is None else str(h.milnor)
         tau = unknown if h.tjurina is None else str(h.tjurina)
         paths = "" if h.milnor_by_paths is None else f" ({h.milnor_by_paths} by homotopy paths)"
-        out.write(f"{indent}type {h.type.label}: Hessian corank {h.corank}, Milnor number {mu}{paths}, Tjurina number "
+        if h.milnor is None and unknown == "undecided":
+            # decision 0120: what was read, and the bound known, never a number as fact
+            known = ([f"at least {h.milnor_at_least}"] if h.milnor_at_least else []) + (
+                [f"read {h.milnor_read} by the local dual space"] if h.milnor_read is not None else []) + (
+                [f"{h.milnor_by_paths} by homotopy paths"] if h.milnor_by_paths is not None else [])
+            paths = f" ({'; '.join(known)})" if known else ""
+        if h.tjurina is None and unknown == "undecided" and h.tjurina_read is not None:
+            tau += f" (read {h.tjurina_read})"
+        corank = str(h.corank) if h.corank_decided else f"undecided (read {h.corank})"
+        out.write(f"{indent}type {h.type.label}: Hessian corank {corank}, Milnor number {mu}{paths}, Tjurina number "
                   f"{tau}{qh}\n")
         values = ", ".join(f"{v:.3g}" for v in h.hessian.singular_values)
         out.write(f"{indent}  decided by: {h.decided_by.value} (scaled Hessian singular values [{values}], zero "
@@ -63,6 +74,12 @@ def write_point_anatomy(anatomy, names, out, indent="        "):
             kind = "reality not decided" if branch.real is None else ("real" if branch.real else "complex")
             where = _rates(branch.angle_rates) if branch.angle_rates else "tangent " + _direction(names, branch.tangent)
             out.write(f"{indent}  branch {k}: {kind}, multiplicity {branch.multiplicity}, {where}\n")
+    elif anatomy.branches_read is not None:  # decision 0120: read, not confirmed by the type
+        read = anatomy.branches_read
+        real = "" if any(b.real is None for b in read) else f", {sum(1 for b in read if b.real)} real"
+        out.write(f"{indent}branches undecided (the local monodromy read "
+                  f"{counted(len(read), 'branch', 'branches')} of multiplicities "
+                  f"{sorted(b.multiplicity for b in read)}{real}, not confirmed by the type)\n")
     if anatomy.sentence:
         out.write(f"{indent}{anatomy.sentence}\n")
     for note in anatomy.notes:

@@ -276,6 +276,14 @@ def completeness_warnings(data):
                         "the origin could not be settled in coordinates centred there (the two runs count different "
                         "paths near it) and are not counted: several simple solutions close together may have been "
                         "taken for one; move the origin near them and rescale the coordinates to decide.")
+    solved = data.get("solutions") if data.get("command") == "solve" else None
+    unsure_real = [s for s in solved if isinstance(s, dict) and "real" in s and s["real"] is None] \
+        if isinstance(solved, (list, EncodedSequence)) else []
+    if unsure_real:  # solve: an imaginary part beyond the root's accuracy but not clearly (decision 0120)
+        warnings.append(f"{counted(len(unsure_real), 'solution')} of undecided reality: the imaginary parts are "
+                        "beyond the point's accuracy (a multiple root is known only to about the m-th root of "
+                        "its residual) but not clearly; real or complex cannot be told at this precision "
+                        "(raise --digits or move the origin near it to decide).")
     near = data.get("near_singular") if isinstance(data.get("near_singular"), list) else []
     if near:  # decision 0062: smooth as written, singular within the coefficients' precision
         warnings.append(f"{counted(len(near), 'candidate')} the check calls smooth for the coefficients as written "
@@ -548,7 +556,7 @@ def _at_infinity_to_dict(solution):
 
 def _solution_from_dict(d):
     return Solution(point=decode_point(d["point"]), multiplicity=int(d["multiplicity"]), winding=int(d["winding"]),
-                    at_infinity=bool(d["at_infinity"]), real=bool(d["real"]),
+                    at_infinity=bool(d["at_infinity"]), real=None if d["real"] is None else bool(d["real"]),
                     condition=_decode_float(d["condition"]), isolated=bool(d["isolated"]),
                     paths=np.array(d["paths"], dtype=np.int64), digits=int(d["digits"]),
                     set_dimension=int(d.get("dimension", 0)),  # absent before decision 0112

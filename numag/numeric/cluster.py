@@ -24,7 +24,8 @@ Examples
 
 import numpy as np
 
-__all__ = ["cluster_labels", "groups", "normalize_projective", "projective_pivot", "line_distance", "close_line_pairs"]
+__all__ = ["cluster_labels", "groups", "normalize_projective", "projective_pivot", "line_distance", "close_line_pairs",
+           "REAL_TOLERANCE", "root_accuracy", "reality"]
 
 #: A fixed chart for the neighbour search of projective points (any generic vector will do; the
 #: decision itself compares lines, so the answer does not depend on it).
@@ -282,3 +283,58 @@ def groups(labels):
     order = np.argsort(labels, kind="stable")  # stable: members stay in increasing order
     bounds = np.searchsorted(labels[order], np.arange(1, int(labels.max()) + 1))
     return np.split(order, bounds)
+
+
+#: The relative accuracy taken for a regular point (a simple root refined by Newton): imaginary parts below it
+#: make the point real.
+REAL_TOLERANCE = 1e-8
+#: The constant of the accuracy of a multiple root, residual^(1/m) times this: the scaled equations' local
+#: coefficients are of size one, not exactly one (decision 0120).
+_ROOT_ACCURACY_FACTOR = 100.0
+#: An imaginary part beyond this many times the point's accuracy is clearly not rounding: the point is complex.
+#: Between the accuracy and this the point's reality is undecided (decision 0120).
+CLEARLY_COMPLEX = 100.0
+
+
+def root_accuracy(residual, multiplicity):
+    """Relative accuracy of a root of multiplicity ``multiplicity`` at which the scaled residual is ``residual``.
+
+    An isolated root of multiplicity m moves by about r^(1/m) when the equations change by r (a triple root of
+    (x - 1)^3 at a residual of 1e-24 is known to 1e-8), so an endgame's or refinement's point is known to that,
+    not to the 1e-8 of a simple root. Scale-free: the residual is in units of the equations' terms and the point
+    in the computed units.
+
+    Examples
+    --------
+    >>> float(f"{root_accuracy(1e-24, 3):.1g}"), root_accuracy(1e-40, 1) == REAL_TOLERANCE
+    (1e-06, True)
+    """
+    if not np.isfinite(residual):
+        return np.inf
+    return max(REAL_TOLERANCE, _ROOT_ACCURACY_FACTOR * float(residual) ** (1.0 / max(int(multiplicity), 1)))
+
+
+def reality(point, accuracy):
+    """Whether a root of real equations is real (True), complex (False) or undecided (None) at its accuracy.
+
+    A root of real equations whose conjugate is the same point within its accuracy is real: its conjugate is a
+    root of the same multiplicity, and the point stands for one root (for an odd multiplicity the group holds a
+    real root in any case: non-real roots come in pairs). An imaginary part beyond ``CLEARLY_COMPLEX`` times the
+    accuracy is complex; between the two the point's reality is not decided. Relative to ``1 + |coordinate|``.
+
+    Examples
+    --------
+    >>> reality(np.array([1 + 1e-9j]), 1e-8), reality(np.array([1 + 1j]), 1e-6), reality(np.array([1 + 1e-7j]), 1e-8)
+    (True, False, None)
+    """
+    point = np.asarray(point, dtype=complex)
+    with np.errstate(invalid="ignore"):
+        relative = np.abs(point.imag) / (1 + np.abs(point))
+    if not np.all(np.isfinite(relative)):
+        return None
+    largest = float(relative.max()) if relative.size else 0.0
+    if largest <= accuracy:
+        return True
+    if largest > CLEARLY_COMPLEX * accuracy:
+        return False
+    return None

@@ -57,6 +57,7 @@ class LocalDimensionSource(TextEnum):
     ISOLATED = "isolated point (Jacobian injective)"
     UNKNOWN = "unknown"
     NOT_JUDGED = "not judged (the point is not on X)"   # the verdict "off"
+    NOT_REACHED = "not judged (no point of X reached)"  # undecided whether on X within the tolerance (0120)
 
     def describe(self, components=()):
         """The text a report shows: for :attr:`COMPONENTS`, followed by the components (dicts with

@@ -150,8 +150,8 @@ class CheckOptions:
         equations) when there are at most as many equations as the ambient
         dimension.
     point_tolerance : float or None
-        How far (relative to ||(1, a)||) the point a verdict speaks about may lie
-        from the given point: the given point's accuracy. None (the default): from the data
+        How far (relative to ||(1, a)||, both in the user's units: decision 0120) the point a verdict speaks
+        about may lie from the given point: the given point's accuracy. None (the default): from the data
         (decision 0072). Exact data (exact coefficients, a point of integers, rationals or decimals
         of under 15 significant digits) is judged exactly: on X only when F vanishes there in exact
         arithmetic (else "off", with the distance to the nearest point of X found), and the rank of
@@ -456,12 +456,29 @@ class _Checker:
             return float(line_distance(a, b)[0])
         return float(np.linalg.norm(np.asarray(a) - np.asarray(b)))
 
+    @property
+    def in_user_units(self):
+        """Whether distances from the given point are measured in the user's units: the user gave the point
+        tolerance, relative to the point as given (decision 0120; projective points keep the distance of lines)."""
+        return (self.options.point_tolerance is not None and not self.system.projective
+                and getattr(self, "user_scaling", None) is not None)
+
+    def from_given(self, given, point):
+        """Distance of ``point`` from the given one as the point tolerance measures it (computed-unit points):
+        in the user's units when the user's tolerance applies, else in the computed units."""
+        if self.in_user_units:
+            given, point = self.user_scaling.to_user(np.array([given, point], dtype=complex))
+        return self.distance(given, point)
+
     def tolerance_for(self, given, position=None):
-        """How far the point a verdict speaks about may be from the given one (the point's own, when set)."""
+        """How far the point a verdict speaks about may be from the given one (the point's own, when set), in the
+        units of :meth:`from_given`."""
         if position in self.tolerances:
             return self.tolerances[position]
         if self.system.projective:
             return self.options.point_tolerance
+        if self.in_user_units:
+            return self.options.point_tolerance * _size(self.user_scaling.to_user(np.asarray(given)[None, :])[0])
         return self.options.point_tolerance * _size(given)
 
     # -- local dimension -------------------------------------------------------------------------
@@ -554,6 +571,21 @@ class _Checker:
             ctx = mpmath.mp
             x0 = [c.to_context(ctx) if isinstance(c, ExactCoefficient) else ctx.mpc(c) for c in start]
             function = self.scaled_equations(ctx)
+            factors = None
+            if self.in_user_units:
+                # nearest in the user's units, where the user's tolerance measures (decision 0120): Gauss-Newton's
+                # minimum-norm steps taken in the user's coordinates w = factor * y (a node's smooth neighbour
+                # 3.6e-6 away in those units was 3.6e-5 away in the computed ones' nearest point)
+                factors = [ctx.mpf(float(f)) for f in self.user_scaling.variable_factors]
+                computed = function
+                x0 = [v * f for v, f in zip(x0, factors)]
+
+                def function(w):
+                    values, jacobian = computed(ctx.matrix([w[j] / factors[j] for j in range(w.rows)]))
+                    for i in range(jacobian.rows):
+                        for j in range(jacobian.cols):
+                            jacobian[i, j] /= factors[j]
+                    return values, jacobian
             tolerance = 100 * ctx.mpf(10) ** (-_NEAREST_DIGITS)
             residual, jacobian = function(ctx.matrix(x0))
             z, converged, _, _ = mp_gauss_newton(function, ctx.matrix(x0), ctx, tolerance=tolerance,
@@ -561,21 +593,29 @@ class _Checker:
             best, best_distance = (z, float(ctx.norm(z - ctx.matrix(x0)))) if converged else (None, math.inf)
             stuck = min(self.n, self.m) and mp_singular_values(jacobian, ctx)[min(self.n, self.m) - 1] <= ctx.mpf(
                 10) ** (-DOUBLE_DIGITS) * max(ctx.norm(residual), 1e-300) ** 0.5
-            if stuck or not converged:
-                reach = float(ctx.norm(residual)) ** 0.5 * _size(np.array([complex(v) for v in x0]))
+            reach = float(ctx.norm(residual)) ** 0.5 * _size(np.array([complex(v) for v in x0]))
+            # farther than the reach of a quadratic: J was nearly blind to the direction of the nearest points (a
+            # node's neighbour, J parallel to the branch through the node), and Newton slid to a farther one
+            if stuck or not converged or best_distance > 2 * reach:
                 real = all(ctx.im(v) == 0 for v in x0)
-                for _ in range(4 if reach > 0 else 0):
+                # a real start keeps real points real; but the nearest points of X can be complex (beside a cusp,
+                # on the side where the real curve has no points, real Gauss-Newton stalls at the residual's
+                # stationary point), so complex directions follow where no real one converged (decision 0120)
+                for attempt in range(8 if reach > 0 and real else 4 if reach > 0 else 0):
+                    if attempt == 4 and best is not None:
+                        break
                     direction = self.rng.standard_normal(self.n) + (
-                        0 if real else 1j * self.rng.standard_normal(self.n))
+                        0 if real and attempt < 4 else 1j * self.rng.standard_normal(self.n))
                     direction *= reach / np.linalg.norm(direction)
                     begin = ctx.matrix([v + ctx.mpc(d) for v, d in zip(x0, direction)])
                     z, converged, _, _ = mp_gauss_newton(function, begin, ctx, tolerance=tolerance, max_iterations=40)
                     distance = float(ctx.norm(z - ctx.matrix(x0)))
                     if converged and distance < best_distance:
                         best, best_distance = z, distance
+            back = [1] * self.n if factors is None else factors
             if best is None:
-                return np.array([complex(v) for v in x0]), False
-            return np.array([complex(best[j]) for j in range(self.n)]), True
+                return np.array([complex(v / f) for v, f in zip(x0, back)]), False
+            return np.array([complex(best[j] / back[j]) for j in range(self.n)]), True
 
     def find_rank_drop(self, point, rank, ctx, digits):
         """Solve F = 0 and rank J <= rank from ``point``; return the point (complex) or None."""
@@ -613,11 +653,11 @@ class _Checker:
         with mpmath.mp.workdps(digits + 10):
             ctx = mpmath.mp
             found = self.find_rank_drop([ctx.mpc(v) for v in point], codim - 1, ctx, digits)
-            if found is None or self.distance(given, found) > tolerance:
+            if found is None or self.from_given(given, found) > tolerance:
                 return None
             values, scales = self.scaled_values_mp(self.last_drop_precise, ctx)
         return _Decision(outcome=Verdict.SINGULAR, point=found, values=values, scales=scales, digits=digits,
-                         drop=found, drop_distance=self.distance(given, found))
+                         drop=found, drop_distance=self.from_given(given, found))
 
     # -- all suspect points at once, in double ---------------------------------------------------
     def settle_in_double(self, given, refined, values, scales, through, positions=None, exact=None):
@@ -652,7 +692,7 @@ class _Checker:
                 if not regular:
                     continue
                 found = drops.points[row]
-                distance = self.distance(given[position], found)
+                distance = self.from_given(given[position], found)
                 tolerance = self.tolerance_for(given[position], number[position])
                 # A rank drop at the point is settled only where the rank-drop system is regular there (its
                 # Jacobian well conditioned: a node, a linkage's fold). At a singular point of Milnor number > 1
@@ -813,13 +853,13 @@ class _Checker:
                 history.append(values[codim - 1] if codim - 1 < len(values) else 0.0)
                 found = self.find_rank_drop(on_x, codim - 1, ctx, digits)
                 found_precise = self.last_drop_precise if found is not None else None
-                if found is None or self.distance(given, found) > tolerance:
+                if found is None or self.from_given(given, found) > tolerance:
                     # Where the rank drops further (a cone's vertex, J = 0), "rank <= codim - 1" has a
                     # family of kernels at the point and Newton stalls; "rank <= r" for the lower r the
                     # point has is regular there. Such a point has rank <= codim - 1 as well.
                     for lower in range(codim - 2, -1, -1):
                         deeper = self.find_rank_drop(on_x, lower, ctx, digits)
-                        if deeper is not None and self.distance(given, deeper) <= tolerance:
+                        if deeper is not None and self.from_given(given, deeper) <= tolerance:
                             found = deeper
                             break
                     else:  # none: judge the first one found (if any) at its own precise point
@@ -827,8 +867,8 @@ class _Checker:
                 # below the separation digits a drop at the point may be one of the equations changed in their last
                 # digit: more digits decide, or the c-th value's stability (smooth)
                 too_few = needed is not None and digits < needed
-                if found is not None and not (too_few and self.distance(given, found) <= tolerance):
-                    distance = self.distance(given, found)
+                if found is not None and not (too_few and self.from_given(given, found) <= tolerance):
+                    distance = self.from_given(given, found)
                     at_found, scales_found = self.scaled_values_mp(self.last_drop_precise, ctx)
                     if distance <= tolerance:
                         return _Decision(outcome=Verdict.SINGULAR, point=found, values=at_found, scales=scales_found,
@@ -1463,8 +1503,9 @@ def _check_in_units(system, given, exact, options, seed, rng, decomposition, sca
     if system.projective:
         refined = normalize_projective(refined)
     on_variety = projection.mask(ZeroKind.ZERO)
-    moved = np.array([checker.distance(given[k], refined[k]) for k in range(len(given))])
+    moved = np.array([checker.from_given(given[k], refined[k]) for k in range(len(given))])
     exact_ranks, on_exactly = [None] * len(given), [None] * len(given)
+    unreached = set()  # F not zero exactly, zero in double, and extended precision reached no point of X
     for k in range(len(given)):
         kind = rule.data[k]
         if kind is not _PointData.TOLERANCE:
@@ -1489,11 +1530,14 @@ def _check_in_units(system, given, exact, options, seed, rng, decomposition, sca
             found, converged = checker.nearest_on_x(exact[k] if exact[k] is not None else given[k])
             if converged:  # else double precision's answer stands (slow convergence at a cusp, say)
                 refined[k] = normalize_projective(found) if system.projective else found
-                on_variety[k], moved[k] = True, checker.distance(given[k], refined[k])
+                on_variety[k], moved[k] = True, checker.from_given(given[k], refined[k])
             elif on_exactly[k] is False and moved[k] == 0:
                 # ... but not where double accepted the given point itself, which exact arithmetic refutes (the
-                # rounding of an expanded polynomial far from the origin hides F there)
+                # rounding of an expanded polynomial far from the origin hides F there). Nor is it off X: no
+                # point of X was reached, and double cannot tell F there from zero -- undecided (decision 0120)
                 on_variety[k] = False
+                if kind is _PointData.TOLERANCE:  # exact data without a tolerance is off X (decision 0110)
+                    unreached.add(k)
     tolerances = np.array([checker.tolerance_for(given[k], k) for k in range(len(given))])
     off = ~on_variety | (moved > tolerances)
     for k in range(len(given)):
@@ -1543,8 +1587,9 @@ def _check_in_units(system, given, exact, options, seed, rng, decomposition, sca
                                            for k in singular])
     checker.drops_near.update(zip(singular, answers))
     verdicts = [_off_verdict(checker, k + 1, given[k], refined[k], float(residual_given[k]), float(moved[k]),
-                             float(tolerances[k]), ZeroKind.ZERO if on_variety[k] else projection.kinds[k],
-                             float(projection.after[k]), values[k], scales[k])
+                             float(tolerances[k]), ZeroKind.ZERO if on_variety[k] else
+                             ZeroKind.UNDECIDED if k in unreached else projection.kinds[k],
+                             float(projection.after[k]), values[k], scales[k], unreached=k in unreached)
                 if off[k] else
                 checker.check(k + 1, given[k], None if on_exactly[k] is False else exact[k], refined[k],
                               float(residual_given[k]), values[k], scales[k], through[k], position=k,
@@ -1574,6 +1619,8 @@ def _state_what_the_data_says(verdict, kind, radius):
         verdict.data_radius = radius
     if verdict.judged is JudgedPoint.GIVEN:  # the given point itself, not its round trip through the balanced units
         verdict.point, verdict.distance = np.asarray(verdict.given, dtype=complex), 0.0
+    if verdict.verdict is Verdict.UNDECIDED and verdict.judged is JudgedPoint.NONE and verdict.rank is None:
+        return  # no point of X reached, none judged: its note says why (decision 0120)
     if verdict.verdict is Verdict.OFF:
         verdict.judged = JudgedPoint.NONE
         if kind is _PointData.EXACT:
@@ -1595,8 +1642,7 @@ def _state_what_the_data_says(verdict, kind, radius):
     if verdict.on_x_exactly is False:  # a tolerance was given: the nearest point of X was judged
         verdict.notes.insert(0, f"The given point is not on X (F does not vanish there in exact arithmetic); the "
                                 f"verdict is about {verdict.judged.value if verdict.judged else 'the nearest point'}, "
-                                f"within the point tolerance (the nearest point of X found is "
-                                f"{verdict.distance if verdict.judged is JudgedPoint.NEAREST_ON_X else 0:.3g} away).")
+                                f"within the point tolerance (that point is {verdict.distance:.3g} away).")
     if kind is _PointData.ROUNDED and verdict.judged is JudgedPoint.GIVEN:
         verdict.judged = JudgedPoint.NEAREST_ON_X  # rounded data: the point of X it stands for, at double's reach
     if kind is _PointData.ROUNDED and verdict.verdict.is_singular:
@@ -1622,12 +1668,14 @@ def _values_at_given(checker, point):
 
 
 def _off_verdict(checker, index, given, reached, residual, moved, tolerance, newton, reached_residual, values,
-                 scales):
+                 scales, unreached=False):
     """The verdict "off" for a point Newton could not bring onto X within the point tolerance.
 
     Nothing is judged about X there; the evidence is the Jacobian at the given point (in double),
     kept for the reader, and ``point`` is where Newton ended. ``newton`` (a :class:`ZeroKind`) is what
     Newton's method found: X reached (too far), no zero near (the residual not explained), or undecided.
+    With ``unreached`` (F is not zero there in exact arithmetic, double cannot tell it from zero, and Newton
+    in extended precision reached no point of X) neither on X nor off it is shown: the verdict is undecided.
     """
     on_variety = newton is ZeroKind.ZERO
     zero = zero_tolerance(DOUBLE_DIGITS, (checker.m, checker.n))
@@ -1642,9 +1690,14 @@ def _off_verdict(checker, index, given, reached, residual, moved, tolerance, new
                ": it ended at a stationary point of the residual, which the Jacobian cannot explain, so no point of X "
                "is near"
                if newton is ZeroKind.NOT_A_ZERO else ""))
-    note = (f"Not on X: scaled residual {residual:.3g} at the given point; {how} (both in the balanced units "
-            "of the scaled problem). Nothing is judged here; raise --point-tolerance if the point is known "
-            "to fewer digits.")
+    units = ("the distances in the given units, the residual in units of F's terms" if checker.in_user_units
+             else "both in the balanced units of the scaled problem")
+    note = (f"Not on X: scaled residual {residual:.3g} at the given point; {how} ({units}). Nothing is judged "
+            "here; raise --point-tolerance if the point is known to fewer digits.")
+    if unreached:
+        note = (f"On X or not within the point tolerance is undecided: F does not vanish at the given point in exact "
+                f"arithmetic, its scaled residual {residual:.3g} there is within double precision's rounding, and "
+                "Newton's method in extended precision reached no point of X from it. Nothing is judged here.")
     point = np.asarray(reached, dtype=complex)
     if not np.all(np.isfinite(point)):  # Newton ran away: the given point is all there is to show
         point, moved = np.asarray(given, dtype=complex), math.inf
@@ -1655,6 +1708,8 @@ def _off_verdict(checker, index, given, reached, residual, moved, tolerance, new
                             gap=singular_value_gap(np.asarray(values, dtype=float), int(rank)),
                             digits=DOUBLE_DIGITS, escalated=False, point=np.asarray(given, dtype=complex))
     return PointVerdict(index=index, given=given, point=point, distance=moved, residual=residual,
-                        verdict=Verdict.OFF, rank=None, codimension=None, tangent_dimension=None, local_dimension=None,
-                        local_dimension_source=LocalDimensionSource.NOT_JUDGED, evidence=evidence,
-                        notes=[note], newton=newton)
+                        verdict=Verdict.UNDECIDED if unreached else Verdict.OFF, rank=None, codimension=None,
+                        tangent_dimension=None, local_dimension=None,
+                        local_dimension_source=LocalDimensionSource.NOT_REACHED if unreached else
+                        LocalDimensionSource.NOT_JUDGED, evidence=evidence,
+                        notes=[note], newton=newton, judged=JudgedPoint.NONE if unreached else None)

@@ -35,7 +35,8 @@ from ..system.centred import centre_near, centred_system
 from ..system.polynomial import PolynomialSystem, require_numeric
 from ..run.checkpoint import RunFolder, manifest_fingerprints
 from ..run.executor import ambient_executor, charge_paths, check_memory, current_executor, make_executor
-from ..numeric.cluster import cluster_labels, groups, normalize_projective, projective_pivot
+from ..numeric.cluster import (REAL_TOLERANCE, cluster_labels, groups, normalize_projective, projective_pivot, reality,
+                               root_accuracy)
 from ..numeric.evaluate import BatchEvaluator, PrecisionEvaluator, TermSizes
 from ..numeric.linalg import batched_least_squares
 from ..numeric.scaling import Scaling
@@ -173,8 +174,10 @@ class Solution:
     winding : int
         Largest winding number seen by the endgame (a lower bound on the multiplicity).
     at_infinity : bool
-    real : bool
-        All imaginary parts below 1e-8 relative (only for real coefficients).
+    real : bool or None
+        Real coefficients only: imaginary parts within the point's accuracy (1e-8 relative for a regular root,
+        about residual^(1/m) for a root of multiplicity m); None where they are beyond it but not clearly
+        (:func:`numag.numeric.cluster.reality`, decision 0120): the reality is undecided (a warning, exit 3).
     condition : float
         Condition number of the homotopy Jacobian at the endpoint.
     isolated : bool
@@ -195,7 +198,7 @@ class Solution:
     multiplicity: int
     winding: int
     at_infinity: bool
-    real: bool
+    real: bool | None
     condition: float
     isolated: bool
     paths: np.ndarray
@@ -204,7 +207,8 @@ class Solution:
     dimension_at_least: bool = False
 
     def __repr__(self):
-        where = "at infinity" if self.at_infinity else ("real" if self.real else "complex")
+        where = "at infinity" if self.at_infinity else {True: "real", False: "complex", None: "reality undecided"}[
+            self.real]
         return (f"Solution({short_point(self.point)}, {where}, multiplicity {self.multiplicity}, "
                 f"condition {self.condition:.2g})")
 
@@ -280,12 +284,12 @@ class SolveResult:
     def __repr__(self):
         counts = self.path_counts()
         return (f"SolveResult({self.system.name or 'system'}: {counted(len(self.solutions), 'solution')} "
-                f"({sum(s.real for s in self.solutions)} real), {len(self.at_infinity)} at infinity, "
+                f"({sum(s.real is True for s in self.solutions)} real), {len(self.at_infinity)} at infinity, "
                 f"{counts['failed']} of {counts['tracked']} paths failed; seed {self.seed})")
 
     def _repr_html_(self):
-        rows = [[k, short_point(s.point), s.multiplicity, "yes" if s.real else "no", f"{s.condition:.2g}"]
-                for k, s in enumerate(self.solutions, 1)]
+        rows = [[k, short_point(s.point), s.multiplicity, {True: "yes", False: "no", None: "undecided"}[s.real],
+                 f"{s.condition:.2g}"] for k, s in enumerate(self.solutions, 1)]
         return html_table(repr(self), ["#", "solution", "multiplicity", "real", "condition"], rows)
 
     def path_counts(self):
@@ -307,20 +311,23 @@ def _square_target(system, options, rng):
     return system.random_combinations(expected, rng), True
 
 
-def _refine_mp(system, point, digits, anchored=False, converged=False):
+def _refine_mp(system, point, digits, anchored=False, converged=False, residual=False):
     """Gauss-Newton on F at ``digits`` digits (linear convergence at multiple roots is enough here).
 
-    With ``converged``, returns (point, whether the scaled residual reached 10^-digits) instead of the point.
+    With ``converged``, returns (point, whether the scaled residual reached 10^-digits) instead of the point;
+    with ``residual``, (point, the scaled residual's norm at it).
     """
     import mpmath  # here, not at import: only singular endpoints are refined in mpmath
     from ..numeric.refine import mp_gauss_newton, mp_scaled_equations
     with mpmath.mp.workdps(digits + 10):
         ctx = mpmath.mp
         equations = mp_scaled_equations(PrecisionEvaluator(system.polynomials), TermSizes(system.polynomials), ctx)
-        z, reached, _, _ = mp_gauss_newton(equations, ctx.matrix([ctx.mpc(v) for v in point]), ctx,
-                                           tolerance=ctx.mpf(10) ** (-digits), max_iterations=120,
-                                           anchored=anchored)
+        z, reached, norm, _ = mp_gauss_newton(equations, ctx.matrix([ctx.mpc(v) for v in point]), ctx,
+                                              tolerance=ctx.mpf(10) ** (-digits), max_iterations=120,
+                                              anchored=anchored)
         refined = np.array([complex(z[j]) for j in range(system.n_variables)])
+        if residual:
+            return refined, float(norm)
         return (refined, bool(reached)) if converged else refined
 
 
@@ -800,7 +807,8 @@ def _rounded_root(system, scaling, solution, digits):
     if not (np.all(np.isfinite(refined)) and sizes[1] <= _CONTRACTION * sizes[0]):
         return False
     solution.point = refined
-    solution.real = bool(system.has_real_coefficients and np.all(np.abs(refined.imag) <= 1e-8 * (1 + np.abs(refined))))
+    solution.real = bool(system.has_real_coefficients
+                         and np.all(np.abs(refined.imag) <= REAL_TOLERANCE * (1 + np.abs(refined))))
     return True
 
 
@@ -1052,8 +1060,8 @@ def _collect(system, endpoints, status, winding, condition, options, rng, forms=
     solutions, flagged, unverified = [], [], []
     labels = cluster_labels(finite_points, options.cluster_tolerance, projective=system.projective)
     with np.errstate(invalid="ignore"):
-        real_points = real_coefficients & np.all(np.abs(finite_points.imag) <= 1e-8 * (1 + np.abs(finite_points)),
-                                                 axis=1)
+        real_points = real_coefficients & np.all(
+            np.abs(finite_points.imag) <= REAL_TOLERANCE * (1 + np.abs(finite_points)), axis=1)
     converged = int(PathStatus.CONVERGED)  # looked up once: enum attributes are slow in a loop of P
     testers = {}  # chart pivot (None: affine) -> IsolationTest
     for members in groups(labels):
@@ -1076,6 +1084,7 @@ def _collect(system, endpoints, status, winding, condition, options, rng, forms=
             test_point = np.delete(point, pivot)
         digits = 16
         isolated = settled = True
+        accuracy = REAL_TOLERANCE
         if singular:
             from ..numeric.refine import IsolationTest  # here: a run of regular endpoints never needs it
             if pivot not in testers:  # one test per chart (its evaluators are built once, not per point)
@@ -1083,10 +1092,12 @@ def _collect(system, endpoints, status, winding, condition, options, rng, forms=
             tester = testers[pivot]
             isolated = tester.isolated(test_point)
             if isolated and test_system.n_equations >= test_system.n_variables:
-                test_point = _refine_mp(test_system, np.mean(
+                test_point, residual = _refine_mp(test_system, np.mean(
                     [finite_points[k] if pivot is None else np.delete(finite_points[k] / finite_points[k][pivot],
                                                                          pivot) for k in members], axis=0),
-                    options.refine_digits)
+                    options.refine_digits, residual=True)
+                # a root of multiplicity m is known to about residual^(1/m) (scaled F, computed units)
+                accuracy = root_accuracy(residual, max(len(members), int(winding[paths].max())))
                 digits = options.refine_digits
                 point = test_point if pivot is None else np.insert(test_point, pivot, 1.0)
                 # the test saw an endgame estimate: on a positive-dimensional set such a point can pass for
@@ -1096,7 +1107,7 @@ def _collect(system, endpoints, status, winding, condition, options, rng, forms=
             # what is counted as a solution satisfies F in units of its terms as every endpoint must; an
             # estimate near infinity can pass the homogeneous test and fail this one (decision 0049)
             settled = _satisfies(test_system, test_point, options.tracker.endpoint_residual)
-        real = bool(real_coefficients and np.all(np.abs(point.imag) <= 1e-8 * (1 + np.abs(point))))
+        real = reality(point, accuracy) if real_coefficients else False
         entry = Solution(point=point, multiplicity=len(members), winding=int(winding[paths].max()),
                          at_infinity=False, real=real, condition=float(condition[paths].min()), isolated=isolated,
                          paths=paths, digits=digits)

@@ -45,8 +45,9 @@ def add_parser(commands):
     check.add_argument("--digits", type=int, default=CheckOptions.max_digits, metavar="D",
                        help="highest precision (decimal digits) for undecided ranks (default %(default)s)")
     check.add_argument("--point-tolerance", type=_positive_number, default=CheckOptions.point_tolerance, metavar="T",
-                       help="relative accuracy of the given points (default: from the data: exact points are "
-                            "judged exactly, decimals of 15 or more digits to their last digit)")
+                       help="relative accuracy of the given points, in the units they are given in (default: "
+                            "from the data: exact points are judged exactly, decimals of 15 or more digits to their "
+                            "last digit)")
     check.add_argument("--seed", type=_seed, help="seed for the random choices (recorded in the report)")
     check.add_argument("--json", action="store_true", help="print the report as JSON")
     check.add_argument("--anatomy", action="store_true",
@@ -68,9 +69,11 @@ def _print_check(report, out, data=None, anatomies=None):
         e = v.evidence
         out.write(f"\npoint {v.index}: {_format_point(system.variables, v.given)}\n")
         out.write(f"  verdict: {v.verdict.upper()}\n")
-        if v.verdict == "off":
+        unreached = v.verdict == "undecided" and v.local_dimension_source == "not judged (no point of X reached)"
+        if v.verdict == "off" or unreached:  # nothing judged (undecided: no point of X reached, decision 0120)
             out.write(f"  residual of F at the given point (scaled): {v.residual:.3g}\n")
-            out.write(f"  Newton moved it {v.distance:.3g} (to {text(system.variables, v.point, accuracy)})\n")
+            if not unreached:
+                out.write(f"  Newton moved it {v.distance:.3g} (to {text(system.variables, v.point, accuracy)})\n")
             for note in v.notes:
                 out.write(f"  note: {note}\n")
             continue

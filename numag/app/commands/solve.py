@@ -46,6 +46,10 @@ def add_parser(commands):
     solve.set_defaults(run=run)
 
 
+#: A solution's reality as printed (None: undecided at the point's accuracy, decision 0120)
+_REALITY = {True: "real", False: "complex", None: "reality undecided"}
+
+
 def _print_solve(result, out, data=None):
     system = result.system
     counts = result.path_counts()
@@ -95,12 +99,14 @@ def _print_solve(result, out, data=None):
     if result.squared_up:
         out.write("note: more equations than unknowns; random combinations were tracked and every "
                   f"solution was kept only if it satisfies all equations ({len(result.discarded)} discarded)\n")
-    real = sum(1 for s in result.solutions if s.real)
-    out.write(f"\n{_counted(len(result.solutions), 'isolated solution')}, {real} real\n")
+    real = sum(1 for s in result.solutions if s.real is True)
+    unsure = sum(1 for s in result.solutions if s.real is None)
+    out.write(f"\n{_counted(len(result.solutions), 'isolated solution')}, {real} real"
+              + (f", {unsure} of undecided reality" if unsure else "") + "\n")
     names = system.variables
     text = _PointFormat()
     for k, s in enumerate(result.solutions, 1):
-        out.write(f"  {k:4d}  multiplicity {s.multiplicity}  {'real' if s.real else 'complex'}  "
+        out.write(f"  {k:4d}  multiplicity {s.multiplicity}  {_REALITY[s.real]}  "
                   f"cond {s.condition:.2g}  {text(names, s.point, _root_accuracy(s.digits, s.multiplicity))}\n")
     if result.at_infinity:
         homogeneous = names if system.projective else ["(w)"] + list(names)
