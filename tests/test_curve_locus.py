@@ -1,5 +1,5 @@
 """The singular locus of a plane curve without repeated work (decision 0118): small witness sets split by the trace
-test alone, fibres in one unknown solved, coordinate points at infinity read from the exponents."""
+test alone, coordinate points at infinity read from the exponents."""
 
 import numpy as np
 import pytest
@@ -44,39 +44,11 @@ def test_an_irreducible_curve_of_degree_twelve_is_one_component(seed):
 
 
 @pytest.mark.parametrize("seed", [1, 2, 3])
-def test_equations_in_one_unknown_give_their_common_roots(seed):
-    # the common roots by sympy's gcd
-    y = sympy.Symbol("y")
-    first, second = (y**2 - 2) * (y - 3) * (y**2 + 1), (y**2 - 2) * (y + 5) * (y**2 + 1) * (y - 7)
-    order = lambda z: (round(z.real, 6), round(z.imag, 6))  # noqa: E731
-    roots = sorted((complex(r) for r in sympy.Poly(sympy.gcd(first, second), y).nroots()), key=order)
-    system = parse_system([str(sympy.expand(p)).replace("**", "^") for p in (first, second)], ["y"])
-    result = decompose(system, seed=seed)
-    assert "univariate" in result.extra
-    found = sorted((complex(c.points[0, 0]) for c in result.components), key=order)
-    assert len(found) == len(roots) and all(abs(a - b) < 1e-9 for a, b in zip(found, roots))
-    assert [bool(c.real[0]) for c in sorted(result.components, key=lambda c: order(complex(c.points[0, 0])))] \
-        == [abs(r.imag) < 1e-9 for r in roots]
-
-
-@pytest.mark.parametrize("seed", [1, 2, 3])
-def test_a_multiple_common_root_goes_to_the_regeneration(seed):
-    # (y - 1)^2 and (y - 1)^3 meet in y = 1 only, a double root of every combination (common practice, no source):
-    # not solved as simple roots, decomposed as before, the point found
-    system = parse_system(["(y - 1)^2", "(y - 1)^3*(y + 2)"], ["y"])
-    result = decompose(system, seed=seed)
-    assert "univariate" not in result.extra
-    assert [c.dimension for c in result.components] == [0]
-    assert abs(result.components[0].points[0, 0] - 1) < 1e-5
-
-
-@pytest.mark.parametrize("seed", [1, 2, 3])
 @pytest.mark.parametrize("a, b", [(5, 7), (4, 7)])
 def test_chebyshev_curves_nodes_and_points_at_infinity(a, b, seed):
     # (a - 1)(b - 1)/2 real nodes for coprime a, b, at x = cos(i pi / a), y = cos(j pi / b) with i = j mod 2
     # (Koseleff and Pecker, "Chebyshev knots", J. Knot Theory Ramifications, 2011, from memory; tests/corpus.py);
-    # the points at infinity by sympy (corpus.plane_curve_singular_points_at_infinity). The partial in x has roots
-    # in x only: the candidates are solved fibre by fibre, each fibre in y alone.
+    # the points at infinity by sympy (corpus.plane_curve_singular_points_at_infinity).
     f = chebyshev(a, X) - chebyshev(b, Y)
     system = parse_system([str(sympy.expand(f)).replace("**", "^")], ["x", "y"])
     locus = singular_locus(system, seed=seed)

@@ -705,9 +705,6 @@ def _decompose(system, options, seed, progress):
     fibred = _fibred_decomposition(system, options, rng, seed, started, progress)
     if fibred is not None:  # equations that fix some unknowns to finitely many simple roots: per root
         return fibred
-    univariate = _univariate_decomposition(system, options, rng, seed, started)
-    if univariate is not None:  # one unknown, finitely many simple roots: solved (a fibre of a fibred system)
-        return univariate
     supersets = witness_supersets(system, options.witness, seed=int(rng.integers(2**32)), progress=progress)
     counts = dict(supersets.paths)
     movers_made = []  # each counts the paths it tracks (loops, trace tests, moves to real slices)
@@ -882,48 +879,6 @@ def _fibred_decomposition(system, options, rng, seed, started, progress):
         extra["unexplained"] = np.vstack(unexplained)
     return Decomposition(system, components, searched, counts, loops, seed, time.perf_counter() - started,
                          extra=extra, fibred_over=block)
-
-
-def _univariate_decomposition(system, options, rng, seed, started):
-    """X of equations in one unknown that have finitely many common roots, all simple: its points, or None.
-
-    Such X is the fibre of a fibred system over a root of its block (the singular candidates of a curve with a
-    partial derivative in one unknown, T_a(x) = T_b(y) or x^a + y^b = 1: one fibre per root of it). Its points
-    are the block's roots (:func:`~numag.witness.fibres.solve_block`: random square combinations, each root
-    checked against every equation; None on a failed path, a multiple or unverified root), one path each: the
-    regeneration of the equations one by one tracked twice as many paths to the same points (decision 0118).
-    None (no draw of ``rng``) when the system is not of this kind: the caller regenerates, which also decides
-    the cases left to it (no equation, a nonzero constant, a multiple root).
-
-    Examples
-    --------
-    >>> from numag.system.parse import parse_system
-    >>> system = parse_system(["y^3 - y", "y^2 - 1"], ["y"])
-    >>> started = time.perf_counter()
-    >>> result = _univariate_decomposition(system, DecomposeOptions(), np.random.default_rng(0), 1, started)
-    >>> sorted(round(float(c.points[0, 0].real), 6) for c in result.components)
-    [-1.0, 1.0]
-    """
-    if isinstance(system, MinorsSystem) or system.projective or system.n_variables != 1:
-        return None
-    equations = tuple(k for k, p in enumerate(system.polynomials) if not p.is_zero())
-    lowest = options.witness.validated(1).lowest_dimension or 0
-    if lowest > 0 or not equations or any(system.polynomials[k].degree < 1 for k in equations):
-        return None
-    split = solve_block(system, FiniteBlock(equations=equations, variables=(0,)), seed=int(rng.integers(2**32)))
-    if split is None:
-        return None
-    real_coefficients = system.has_real_coefficients
-    components = [Component(id=k, dimension=0, degree=1, points=np.asarray(root, dtype=complex)[None, :],
-                            real=np.array([bool(real) and real_coefficients]), multiplicity=1, reduced=True,
-                            slice_rows=np.zeros((0, 2), dtype=complex), confirmed=True, trace_defect=0.0)
-                  for k, (root, real) in enumerate(zip(split.roots, split.real), 1)]
-    counts = {"tracked": 0, "not_on_X": 0, "at_infinity_or_failed": 0, "on_larger_component": 0,
-              "membership_paths": 0}
-    add_path_counts(counts, split.paths)
-    counts.update(_degree_checks(system, components))
-    return Decomposition(system, components, [1, 0], counts, {}, seed, time.perf_counter() - started,
-                         extra={"univariate": {"roots": len(components)}})
 
 
 def _degree_checks(system, components):
