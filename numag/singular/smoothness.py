@@ -1080,8 +1080,9 @@ class _Checker:
             decision.outcome = Verdict.SMOOTH if rank == 0 else Verdict.UNDECIDED
         elif exact_rank is not None:
             # Decision 0122: F(p) = 0 and rank J(p) are exact, and decide below; the escalation in mpmath has
-            # nothing to add to the verdict (it took > 300 s at a node, and at a smooth point, of 14 unknowns)
-            pass
+            # nothing to add to the verdict (it took > 300 s at a node, and at a smooth point, of 14 unknowns); a
+            # rank drop nearby that the batch in double found is kept for the report
+            decision = self.settled.get(position) or decision
         elif codim <= len(values) and values[codim - 1] > opts.suspect_threshold:
             decision.outcome = Verdict.SMOOTH
         else:
