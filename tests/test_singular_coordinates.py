@@ -134,3 +134,26 @@ def test_an_a5_curve_after_a_rational_change_is_decomposed_and_searched_without_
     failed = sum(locus.paths.get(label, 0) for label in ("minimum_step", "step_limit", "non_finite",
                                                          "endgame_unsettled", "batch_failed", "jumped"))
     assert failed == 0, locus.paths
+
+
+#: x -> 1000 A x + (7/3, 14/3, 7), A rational: the four nodes of (x^2 - 1)(y^2 - 1) = z^2 near 5e-3 (a tester's case)
+FOUR_NODES_CHANGE = ([["3000", "3000", "1000"], ["0", "-1000", "1000"], ["1000", "-500", "2000/3"]], ["7/3", "14/3", "7"])
+
+
+def _four_nodes():
+    """The changed four-node surface (text), and its four nodes by sympy. (x^2 - 1)(y^2 - 1) = z^2 has the four
+    real nodes (+-1, +-1, 0) (by hand: the four nodes of (x^2 - 1)(y^2 - 1) = z^2, common practice, no source)."""
+    moved, text = _changed([(X**2 - 1) * (Y**2 - 1) - Z**2], [X, Y, Z], *FOUR_NODES_CHANGE)
+    expected = _singular_points(moved, [X, Y, Z])
+    assert len(expected) == 4
+    return text, expected
+
+
+@pytest.mark.parametrize("seed", [1, 2, 3])
+def test_four_nodes_after_a_change_in_units_of_a_thousand_keep_every_node(seed):
+    text, expected = _four_nodes()
+    locus = singular_locus(parse_system(text, ["x", "y", "z"]), seed=seed)
+    found = [c.points[0] for c in locus.components if not c.at_infinity and c.dimension == 0]
+    assert len(found) == 4
+    for point in expected:
+        assert min(np.linalg.norm(f - np.array(point)) for f in found) <= 1e-6 * (1 + np.linalg.norm(point))
