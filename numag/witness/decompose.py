@@ -535,13 +535,6 @@ def _split(mover, points, rng, options, loops_run):
     if count == 1:
         return [([0], True, 0.0)]
     defects, scale = _trace_defects(mover, points, rng, options.trace_tolerance)
-    if defects is not None and count <= _PARTS_LIMIT \
-            and abs(np.sum(defects)) / scale <= options.trace_tolerance:
-        # The whole set passes and is small enough for every part to be tried: its smallest passing parts are its
-        # components, which is what the loops end with too (they only join points of one component, and the
-        # confirmed groups are split the same way after them, decision 0033); no loop is needed (decision 0118).
-        loops_run.append(0)
-        return _complete_parts(list(range(count)), defects, scale, options.trace_tolerance)
 
     def status():
         result = []
