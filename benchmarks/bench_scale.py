@@ -1,7 +1,7 @@
 """Large systems (issue 19): reading, start-up, the whole solve process, judging candidates, memory.
 
 Run:  python benchmarks/bench_scale.py [--quick] [--full] [--sections parse,start,solve,judge,singular,check,large,
-      conjugates,families,memory] [--memory-exponent 17] [--reference-limit 600] [--numag-limit 600]
+      conjugates,families,memory] [--sizes nodal=7,quadrics=4] [--memory-exponent 17] [--reference-limit 600] [--numag-limit 600]
       [--golden [--golden-seeds 1,2]]
 
 Everything side by side in one run, one table per section (2 cores; the machine's load is printed first,
@@ -444,11 +444,20 @@ def _sympy_minors_child(plain, queue):
 
 
 def _timed_pair(system, seed, numag_limit, reference_limit, reference=None):
+    """numag's and sympy's (CPU s, summary) in child processes, None on time-out; and the CPU seconds each
+    had used when it was stopped (None where it finished)."""
     from numag.app.reference import system_to_plain
     from reference_timing import run_with_time_limit
-    ours = run_with_time_limit(_numag_child, (system, seed), numag_limit)
-    theirs = run_with_time_limit(reference or _sympy_child, (system_to_plain(system),), reference_limit)
-    return ours, theirs
+    stopped_ours, stopped_theirs = [], []
+    ours = run_with_time_limit(_numag_child, (system, seed), numag_limit, stopped_ours)
+    theirs = run_with_time_limit(reference or _sympy_child, (system_to_plain(system),), reference_limit,
+                                 stopped_theirs)
+    return ours, theirs, (stopped_ours or [None])[0], (stopped_theirs or [None])[0]
+
+
+def _stopped_text(limit, cpu):
+    """A time-out as text: the wall limit, with the CPU seconds used by then (a lower bound) where known."""
+    return f"> {limit:g} wall" + (f" ({cpu:.0f} cpu)" if cpu is not None else "")
 
 
 def section_large(full, numag_limit):
@@ -534,7 +543,10 @@ def section_conjugates(full, numag_limit):
              ours[1] if ours else "time limit")
 
 
-def section_families(quick, numag_limit, reference_limit, chosen=("nodal", "det", "quadrics", "mechanisms")):
+def section_families(quick, numag_limit, reference_limit, chosen=("nodal", "det", "quadrics", "mechanisms"),
+                     sizes=None):
+    """Time against size per family; ``sizes`` (family key -> set of sizes) keeps only those members, so that a
+    few sizes can be measured again with long limits."""
     print(f"\n== growing families (child processes; wall-time limits: numag {numag_limit} s, sympy {reference_limit} s; "
           "CPU seconds of the computation, start-up excluded)")
     families = [
@@ -555,19 +567,25 @@ def section_families(quick, numag_limit, reference_limit, chosen=("nodal", "det"
         if key not in chosen:
             continue
         print(f"-- {title}")
-        _row("size", "numag cpu s", "sympy cpu s", "sympy / numag", "numag's pieces (expected)", widths=(8, 12, 12, 14, 60))
+        _row("size", "numag cpu s", "sympy cpu s", "sympy / numag", "numag's pieces (expected)", widths=(8, 22, 22, 14, 60))
         crossover, last_ratio = None, None
         for size, (system, expected) in members:
-            ours, theirs = _timed_pair(system, 1, numag_limit, reference_limit, references.get(key))
-            ours_text = f"{ours[0]:.2f}" if ours else f"> {numag_limit} wall"
-            theirs_text = f"{theirs[0]:.2f}" if theirs else f"> {reference_limit} wall"
+            if sizes and size not in sizes.get(key, ()):
+                continue
+            ours, theirs, ours_stopped, theirs_stopped = _timed_pair(system, 1, numag_limit, reference_limit,
+                                                                     references.get(key))
+            ours_text = f"{ours[0]:.2f}" if ours else _stopped_text(numag_limit, ours_stopped)
+            theirs_text = f"{theirs[0]:.2f}" if theirs else _stopped_text(reference_limit, theirs_stopped)
             ratio = theirs[0] / ours[0] if ours and theirs and ours[0] > 0 else None
+            ratio_text = f"{ratio:.2f}" if ratio else ""
+            if ours and not theirs and theirs_stopped and ours[0] > 0:  # sympy stopped: its CPU by then, a bound
+                ratio_text = f"> {theirs_stopped / ours[0]:.1f}"
             if ours and theirs:
                 last_ratio = (size, ratio)
             if ours and crossover is None and (theirs is None or theirs[0] > ours[0]):
                 crossover = size
-            _row(size, ours_text, theirs_text, f"{ratio:.2f}" if ratio else "",
-                 f"{ours[1] if ours else 'time limit'} ({expectation(size, expected)})", widths=(8, 12, 12, 14, 60))
+            _row(size, ours_text, theirs_text, ratio_text,
+                 f"{ours[1] if ours else 'time limit'} ({expectation(size, expected)})", widths=(8, 22, 22, 14, 60))
         print(f"crossover (first size where numag is ahead): {crossover}; ratio at the largest size both finish: "
               + (f"{last_ratio[1]:.2f} at {last_ratio[0]}" if last_ratio else "none"))
 
@@ -676,6 +694,8 @@ def main():
     parser.add_argument("--sections",
                         default="parse,start,solve,judge,singular,check,large,conjugates,families,memory")
     parser.add_argument("--families", default="nodal,det,quadrics,mechanisms", help="which growing families (section families)")
+    parser.add_argument("--sizes", default="", help="only these family members, e.g. nodal=7,quadrics=4,quadrics=5 "
+                        "(section families; default: every size)")
     parser.add_argument("--reference-limit", type=float, default=600.0, help="seconds for each sympy run")
     parser.add_argument("--numag-limit", type=float, default=600.0, help="seconds for each numag child run")
     parser.add_argument("--repeats", type=int, default=3, help="runs of each size in section solve (median)")
@@ -705,7 +725,11 @@ def main():
     if "conjugates" in sections:
         section_conjugates(args.full, args.numag_limit)
     if "families" in sections:
-        section_families(args.quick, args.numag_limit, args.reference_limit, args.families.split(","))
+        sizes = {}
+        for item in filter(None, args.sizes.split(",")):
+            key, _, size = item.partition("=")
+            sizes.setdefault(key.strip(), set()).add(int(size))
+        section_families(args.quick, args.numag_limit, args.reference_limit, args.families.split(","), sizes)
     if "memory" in sections:
         section_memory(args.quick, args.memory_exponent)
     if args.golden:
