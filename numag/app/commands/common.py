@@ -209,17 +209,39 @@ def _headline(command, system, seed, kind=True):
 _ROUNDING = 1e-14
 
 
-def _format_complex(z, floor=None):
-    """A coordinate as text; real or imaginary parts of size at most ``floor`` are printed as 0."""
+def _significant_digits(part, floor, known=False):
+    """Significant digits of ``part`` worth printing: 10, or where ``known`` is set, only those above ``floor``.
+
+    A part known to ``floor`` (a triple root to 1e-8) printed with 10 digits shows noise as data
+    ("1.000000007"); its last printed digit is kept at or above the floor.
+
+    Examples
+    --------
+    >>> _significant_digits(1.000000007, 2e-8, known=True), _significant_digits(1.000000007, 2e-8)
+    (8, 10)
+    >>> _significant_digits(123.456, 0.05, known=True)
+    4
+    """
+    if not known or part == 0.0 or floor <= 0.0:
+        return 10
+    return max(1, min(10, math.floor(math.log10(abs(part))) - math.ceil(math.log10(floor)) + 1))
+
+
+def _format_complex(z, floor=None, known=False):
+    """A coordinate as text; real or imaginary parts of size at most ``floor`` are printed as 0.
+
+    With ``known`` the floor is the point's accuracy and the parts keep no digit below it.
+    """
     floor = _ROUNDING * max(1.0, abs(z)) if floor is None else floor
     real = 0.0 if abs(z.real) <= floor else z.real
     imag = 0.0 if abs(z.imag) <= floor else z.imag
+    a, b = _significant_digits(real, floor, known), _significant_digits(imag, floor, known)
     if imag == 0.0:
-        return f"{real:.10g}"
+        return f"{real:.{a}g}"
     if real == 0.0:  # purely imaginary: no "0+" in front
-        return f"{imag:.10g}*I"
+        return f"{imag:.{b}g}*I"
     sign = "+" if imag >= 0 else "-"
-    return f"{real:.10g}{sign}{abs(imag):.10g}*I"
+    return f"{real:.{a}g}{sign}{abs(imag):.{b}g}*I"
 
 
 def _rounding_floor(result):
@@ -273,6 +295,8 @@ class _PointFormat:
     'x=1, y=0'
     >>> text(["w", "x", "p"], [1e-13, 1e-13, 1.0], accuracy=1.7)  # a point at infinity of multiplicity 9
     'w=0, x=0, p=1'
+    >>> text(["x"], [1.000000007], accuracy=1e-8)  # a triple root: no digit below its accuracy
+    'x=1'
     >>> text.footnote()[:40]
     'note: real and imaginary parts below the'
     """
@@ -286,9 +310,13 @@ class _PointFormat:
         # at most 0.1: a root of multiplicity 9 is known to about 100 eps^(1/9) > 1, and its largest coordinate (1
         # for a point at infinity) was printed as 0
         floor = min(max(accuracy, _ROUNDING), _COARSEST) * size
-        if any(0 < abs(part) <= floor for z in values for part in (z.real, z.imag)) and accuracy > _ROUNDING:
+        # digits below the accuracy are noise too: a triple root known to 1e-8 is not printed as 1.000000007
+        known = accuracy > _ROUNDING
+        parts = [part for z in values for part in (z.real, z.imag)]
+        if known and any(0 < abs(part) <= floor or (abs(part) > floor and _significant_digits(part, floor, True) < 10)
+                         for part in parts):
             self.used.append(accuracy)
-        return ", ".join(f"{n}={_format_complex(z, floor)}" for n, z in zip(names, values))
+        return ", ".join(f"{n}={_format_complex(z, floor, known)}" for n, z in zip(names, values))
 
     def footnote(self):
         """One line for the end of the report ('' when no part was rounded to 0)."""
@@ -296,8 +324,9 @@ class _PointFormat:
             return ""
         low, high = min(self.used), max(self.used)
         accuracy = f"{high:.0e}" if low == high else f"{low:.0e} to {high:.0e}"
-        return (f"note: real and imaginary parts below the points' accuracy ({accuracy}, relative to "
-                "sqrt(1 + |point|^2)) are printed as 0; the JSON report (--json) keeps every digit.\n")
+        return (f"note: digits below the points' accuracy ({accuracy}, relative to sqrt(1 + |point|^2)) are not "
+                "printed, and real or imaginary parts below it are printed as 0; the JSON report (--json) keeps every "
+                "digit.\n")
 
 
 def _with_warnings(data):
