@@ -65,7 +65,8 @@ from ..witness.decompose import (EXPANSION_MONOMIALS, DecomposeOptions, Decompos
                                  expansion_bound, holding_rows)
 from .isolated import finite_singular_points, null_vector_groups, null_vector_system, square_route_paths
 from .kinds import CandidateSystem, Formulation, PieceKind, Verdict
-from ..system.centred import centre_in_region, centre_near, centred_system, subleading_centre, within
+from ..system.centred import (centre_in_region, centre_near, centred_system, has_no_zero_near_origin, subleading_centre,
+                              within)
 from .nearness import NearSingularPoint, input_tolerance, nearest_backward_error
 from .smoothness import CheckOptions, check_points
 
@@ -794,6 +795,17 @@ def _judged_centred(system, options, seed, progress, locus, dropped):
                      f"{short_point(centring.point)}")
         try:
             centred = centred_system(system, centring)
+            # endpoints Newton left at a stationary point of the residual: where an equation's Taylor coefficients
+            # there prove that X has no point in the region (twice it, as a drifted candidate is counted), there
+            # is nothing to find, and the whole singular locus is not computed again (a critical point of a
+            # nodal surface off X took minutes in centred coordinates)
+            if all(candidate.unexplained for candidate in settled) and has_no_zero_near_origin(
+                    centred, 2 * centring.radius):
+                locus.notes.append(f"{counted(len(settled), 'endpoint')} Newton left near "
+                                   f"{short_point(centring.point)} lie where X has no point within "
+                                   f"{2 * centring.radius:.1e} (a bound on the equations' Taylor coefficients "
+                                   "there): no singular point is missing there.")
+                continue
             local, local_dropped = _in_user_units(centred, options, seed, None)
         except LimitError as err:  # the centred polynomial is too large to write: the warnings stay
             locus.notes.append(f"Centred coordinates at {short_point(centring.point)} not tried ({err}).")

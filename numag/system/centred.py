@@ -244,6 +244,44 @@ def _translated_gaussian(polynomial, centre):
                                 for _, re, im in kept], dtype=object), n)
 
 
+def has_no_zero_near_origin(system, radius):
+    """Whether some equation of ``system`` provably has no zero with every |y_j| <= ``radius`` (so none in the
+    ball of that radius about the origin).
+
+    For f(y) = c_0 + sum_(a != 0) c_a y^a and |y_j| <= r, |f(y) - c_0| <= sum_(a != 0) |c_a| r^|a|; where that
+    sum is below |c_0| the equation cannot vanish there. Applied to a centred system (:func:`centred_system`,
+    exact coefficients) it proves that X has no point in a region, without a homotopy; the factor 2 covers the
+    rounding of the coefficients and the sum in double. The test is scale- and translation-free: it compares
+    the equation's own Taylor coefficients at the centre.
+
+    Parameters
+    ----------
+    system : PolynomialSystem
+    radius : float
+
+    Returns
+    -------
+    bool
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> circle = parse_system(["x^2 + y^2 - 1"], ["x", "y"])  # about its centre: no zero within 0.4
+    >>> has_no_zero_near_origin(circle, 0.4), has_no_zero_near_origin(circle, 0.8)
+    (True, False)
+    """
+    for polynomial in system.polynomials:
+        if polynomial.n_terms == 0:
+            continue
+        degrees = polynomial.exponents.sum(axis=1)
+        sizes = np.abs(polynomial.numeric_coefficients())
+        constant = float(sizes[degrees == 0].sum())
+        rest = float(np.sum(sizes[degrees > 0] * float(radius) ** degrees[degrees > 0]))
+        if constant > 2 * rest:
+            return True
+    return False
+
+
 def within(points, centring):
     """Which rows of ``points`` (in the original coordinates) lie in the centring's region."""
     points = np.atleast_2d(np.asarray(points, dtype=complex))
