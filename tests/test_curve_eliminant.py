@@ -71,3 +71,17 @@ def test_a_determinant_evaluated_unexpanded_and_a_double_meeting(seed):
     exact = _exact_points(sympy, ["y - x^2 - z", "z", "x^2 - y^2"], names)
     assert len(exact) == 3
     assert meeting.undecided == 0 and _matched(meeting.points, exact)
+
+
+@pytest.mark.parametrize("seed", [1, 2, 3])
+def test_three_meetings_close_together_far_from_the_witness_points(seed):
+    # The parabola y = x^2 (z = 1) meets (x - 3)(x - 2.99)(x - 3.01) = 0 in three points 0.01 apart (hand
+    # computation), read from witness points at x = +-20, 400 times farther: each meeting is a point of its own, or
+    # the reading is undecided; never one point where three are (read as one triple root before, exit 0; decision 0123).
+    names = ["x", "y", "z"]
+    curve = _numeric(["y - x^2", "z - 1"], names)
+    witness = np.array([[20.0, 400.0, 1.0], [-20.0, 400.0, 1.0]])
+    g = _numeric(["(x - 3)*(x - 299/100)*(x - 301/100)"], names)[0]
+    meeting = curve_meets_hypersurface(curve, witness, g, np.random.default_rng(seed))
+    exact = np.array([[x, x * x, 1.0] for x in (2.99, 3.0, 3.01)])
+    assert meeting.undecided == 0 and _matched(meeting.points, exact)

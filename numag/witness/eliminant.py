@@ -242,10 +242,13 @@ def curve_meets_hypersurface(curve_equations, witness_points, hypersurface, rng,
     readings, failure = _circle_pass(fibre, g, fibre.t0, radius, bound, notes)
     if failure:
         return CurveMeeting(np.zeros((0, fibre.n), dtype=complex), fibre.paths, 1, notes)
-    located = [r for r in readings if not r.unlocated]
-    for reading in [r for r in readings if r.unlocated]:
+    located = [r for r in readings if not r.unlocated and r.size == 1]
+    for reading in [r for r in readings if r.unlocated or r.size > 1]:
         # roots close together against the circle are located poorly (R' small at each): a circle zoomed onto
-        # this one, of twice its distance to the nearest other root, separates it; its reading there replaces it
+        # this one, of twice its distance to the nearest other root, separates it; its reading there replaces it.
+        # A multiple root "located" is zoomed onto too: roots closer than the sampling error's m-th root merge into
+        # one m-fold root at their mean (x = 2.99, 3, 3.01 on a parabola read from x = +-20: one point at 3.00001,
+        # exit 0; decision 0123); a true multiple root stays one on the zoomed circle
         others = [abs(r.t - reading.t) for r in readings if r is not reading]
         zoom = 2.0 * min(others) if others and min(others) > 0 else 0.1 * radius
         notes.append(f"{counted(reading.size, 'root')} of the eliminant located again on a circle {zoom / radius:.1e} "
@@ -253,7 +256,7 @@ def curve_meets_hypersurface(curve_equations, witness_points, hypersurface, rng,
         again, failure = _circle_pass(fibre, g, reading.t, zoom, bound, notes)
         if failure or not again:
             return CurveMeeting(np.zeros((0, fibre.n), dtype=complex), fibre.paths, 1, notes)
-        located.append(min(again, key=lambda r: abs(r.t - reading.t)))
+        located.extend(_relocated(reading, again))
     readings = located
     found, undecided = [], 0
     for reading in readings:
@@ -264,6 +267,34 @@ def curve_meets_hypersurface(curve_equations, witness_points, hypersurface, rng,
             found.append(reading.point)
     points = np.array(_distinct(np.array(found).reshape(-1, fibre.n), 1.0, 1e-6), dtype=complex).reshape(-1, fibre.n)
     return CurveMeeting(points, fibre.paths, undecided, list(dict.fromkeys(notes)))
+
+
+def _relocated(reading, again):
+    """The readings of a zoomed pass that replace an unlocated cluster of ``reading.size`` roots: the nearest ones
+    whose sizes add up to it (decision 0123), or the cluster left undecided when the nearest ones do not.
+
+    The zoomed circle separates the cluster's roots; keeping only the nearest reading dropped the others: five roots
+    of the carried umbrella's eliminant, one the pinch point, read as one cluster and then as 2 + 2 + 1, kept one
+    double root and lost the pinch point (exit 0).
+
+    Examples
+    --------
+    >>> cluster = _Reading(0j, 3, unlocated=True)
+    >>> [r.size for r in _relocated(cluster, [_Reading(0.1 + 0j, 2), _Reading(5.0 + 0j, 1), _Reading(-0.2 + 0j, 1)])]
+    [2, 1]
+    >>> [r.point for r in _relocated(cluster, [_Reading(0.1 + 0j, 2), _Reading(0.2 + 0j, 2)])]
+    [None]
+    """
+    kept, total = [], 0
+    for candidate in sorted(again, key=lambda r: abs(r.t - reading.t)):
+        if total >= reading.size:
+            break
+        kept.append(candidate)
+        total += candidate.size
+    if total != reading.size:
+        return [_Reading(reading.t, reading.size, None, f"{counted(reading.size, 'root')} of the eliminant located "
+                         f"again as {counted(total, 'root')} nearby")]
+    return kept
 
 
 @dataclass
