@@ -88,30 +88,40 @@ class LocusAnatomy:
         Singular component id (dimension > 0) -> ComponentAnatomy.
     seconds : float
     notes : list of str
+    special_points_asked : bool
+        Whether special points along the components were asked for (``AnatomyOptions.special_points``): then a
+        component where they were not searched is incomplete.
     """
 
     points: dict
     components: dict
     seconds: float
     notes: list = field(default_factory=list)
+    special_points_asked: bool = True
 
     def incomplete(self):
-        """Ids of the points and components whose anatomy is incomplete (a failure to report)."""
+        """Ids of the points and components whose anatomy is incomplete (a failure to report).
+
+        A component whose special points were not searched is incomplete too: where the transversal type
+        changes along it was asked and not answered (several singular components, a surface, an unclear rank).
+        """
         return sorted([k for k, v in self.points.items() if v.incomplete]
                       + [k for k, v in self.components.items()
                          if v.transversal.incomplete or v.undecided_candidates
+                         or (self.special_points_asked and not v.special_points_searched)
                          or any(p.incomplete for p in v.special_points)])
 
     def to_dict(self):
         return {"points": {str(k): v.to_dict() for k, v in self.points.items()},
                 "components": {str(k): v.to_dict() for k, v in self.components.items()},
-                "seconds": self.seconds, "notes": list(self.notes)}
+                "seconds": self.seconds, "notes": list(self.notes),
+                "special_points_asked": self.special_points_asked}
 
     @classmethod
     def from_dict(cls, data):
         return cls({int(k): PointAnatomy.from_dict(v) for k, v in data["points"].items()},
                    {int(k): ComponentAnatomy.from_dict(v) for k, v in data["components"].items()},
-                   float(data["seconds"]), list(data["notes"]))
+                   float(data["seconds"]), list(data["notes"]), bool(data.get("special_points_asked", True)))
 
 
 def _is_real(point):
@@ -1240,7 +1250,7 @@ def locus_anatomy(locus, seed=None, angles=None, options=None):
     system = locus.system
     points, components, notes = {}, {}, []
     if system.projective:
-        return LocusAnatomy({}, {}, 0.0, ["the anatomy is computed for affine systems"])
+        return LocusAnatomy({}, {}, 0.0, ["the anatomy is computed for affine systems"], options.special_points)
     isolated = np.array([c.points[0] for c in locus.components
                          if c.dimension == 0 and not c.at_infinity and c.kind == "singular"],
                         dtype=complex).reshape(-1, system.n_variables)
@@ -1265,7 +1275,7 @@ def locus_anatomy(locus, seed=None, angles=None, options=None):
             if len(positive) > 1 and options.special_points:
                 components[c.id].notes.append("several singular components: the special points were not searched "
                                               "(they could not be told apart by component)")
-    return LocusAnatomy(points, components, time.perf_counter() - started, notes)
+    return LocusAnatomy(points, components, time.perf_counter() - started, notes, options.special_points)
 
 
 def infinity_chart(system, homogeneous):
