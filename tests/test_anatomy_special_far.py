@@ -112,3 +112,49 @@ def test_a_candidate_read_as_the_transversal_type_is_undecided():
     assert same.hypersurface.type.family is Family.UNDECIDED and same.hypersurface.decided_by is TypeTest.NO_CHANGE
     assert same.incomplete
     assert other.hypersurface.type.label == "A2"
+
+
+#: x = M X - (1, 1, 1) with M = [[1, 2, 0], [0, 1, -1], [1, 0, 3]]: the old origin is (-5, 3, 2)
+LINSHIFT = (sympy.Matrix([[1, 2, 0], [0, 1, -1], [1, 0, 3]]), sympy.Matrix([-1, -1, -1]))
+#: the same in units 1000 times smaller (the old origin at (-5000, 3000, 2000))
+LINSHIFT_MILLI = (LINSHIFT[0] / 1000, LINSHIFT[1])
+
+#: a node turning into a cusp (A1 -> A2 where the Hessian's rank drops from 2 to 1 at the origin), and the Whitney
+#: umbrella's pinch point (A2 at the origin: common practice, no source); sympy checks the ranks below
+JUMPS = {"node to cusp": y**2 - x**3 - z * x**2, "umbrella": x**2 - y**2 * z}
+
+
+@pytest.mark.parametrize("seed", [1, 2, 3])
+@pytest.mark.parametrize("frame", [LINSHIFT, LINSHIFT_MILLI], ids=["linshift", "linshift_milli"])
+@pytest.mark.parametrize("name", sorted(JUMPS))
+def test_special_point_at_the_old_origin_after_a_linear_change(name, frame, seed):
+    # Before decision 0126 (x = M X - (1, 1, 1), seed 1): "0 special points", exit 0 for both. The search was
+    # centred at the generic point, 1e-11 off the line, and its jump system lost the point (off X, a jumped path).
+    f = JUMPS[name]
+    assert hessian_rank_on_line(f, (0, 0, 0)) == 1
+    assert all(hessian_rank_on_line(f, (0, 0, t)) == 2 for t in (1, -2, 3))
+    g, to_new = moved(f, frame)
+    anatomy, component = line_anatomy(g, seed)
+    assert_right_or_undecided(anatomy, component, [(to_new([0, 0, 0]), "A2")], "A1")
+
+
+def test_a_jump_search_that_loses_its_point_says_so():
+    # Decision 0126: the jump system centred exactly at a generic point of the line (1e-11 off it) either finds the
+    # pinch point (-5, 3, 2) of the umbrella after x = M X - (1, 1, 1) (sympy: the Hessian's rank drops there) or
+    # reports lost endpoints; never neither.
+    from numag.anatomy.survey import _exactly_centred, _hessian_jump_system, _lost_endpoints
+    from numag.witness.decompose import decompose
+    g, to_new = moved(JUMPS["umbrella"], LINSHIFT)
+    pinch = np.array(to_new([0, 0, 0]))
+    assert hessian_rank_on_line(g.subs({X: x, Y: y, Z: z}), (-5, 3, 2)) == 1
+    system = numag.parse_system([str(g).replace("**", "^")], ["X", "Y", "Z"])
+    for seed in (1, 2, 3):
+        locus = numag.singular_locus(system, seed=seed)
+        line = [c for c in locus.components if c.dimension == 1][0]
+        units, f, centre = _exactly_centred(system, np.asarray(line.points[0], dtype=complex))
+        jump = numag.PolynomialSystem(list(system.variables), _hessian_jump_system(f, 1))
+        found = decompose(jump, seed=seed)
+        points = [units.to_user(p[None, :])[0] + centre for c in found.components if c.dimension == 0
+                  for p in c.points]
+        hit = any(np.max(np.abs(p - pinch)) < 1e-6 * (1 + np.max(np.abs(pinch))) for p in points)
+        assert hit or _lost_endpoints(found)

@@ -29,7 +29,8 @@ from ..numeric.refine import largest_scaled_residual
 from ..numeric.scaling import Scaling
 from ..system.display import counted
 from ..numeric.seeds import random_state
-from ..system.centred import CENTRED_BALANCING_FLOOR, centre_near, centred_system, translated_terms
+from ..system.centred import CENTRED_BALANCING_FLOOR, centre_in_region, centre_near, centred_system, translated_terms
+from ..tracking.tracker import FAILURE_LABELS
 from ..witness.decompose import CENTRING_TERMS, centred_decomposition, decompose
 from ..witness.eliminant import MatrixDeterminant, curve_meets_hypersurface
 from .frame import cube_root_direction, frame_hessian, kernel_cubic
@@ -1080,9 +1081,11 @@ def component_anatomy(system, component, seed=None, options=None, special_candid
         # component (a cuspidal edge) is 1e-9 off it, and in the features' own units its Hessian shows that
         # offset (a second value of 1e-9 made the rank 2 where it is 1, and the line test failed)
         generic = local_scaling.to_computed((transversal.point - centre)[None, :])[0]
+    generic_here = local_scaling.to_user(generic[None, :])[0] + centre
     notes = []
     special = []
     searched = True
+    undecided = 0
     if special_candidates is not None:
         candidates = np.atleast_2d(special_candidates)
     elif options.special_points:
@@ -1095,8 +1098,12 @@ def component_anatomy(system, component, seed=None, options=None, special_candid
             candidates = np.zeros((0, system.n_variables))
             notes.append("the Hessian vanishes along the component: no rank can drop, special points not searched")
         else:
-            candidates = _rank_jump_points(system, scaling, polynomials[0], evidence.rank - 1, seed,
-                                           (local_scaling, f, centre))
+            candidates, lost = _rank_jump_points(system, scaling, polynomials[0], evidence.rank - 1, seed,
+                                                 (local_scaling, f, centre), generic_here)
+            if lost:
+                undecided += lost
+                notes.append("the search for points where the Hessian's rank drops lost endpoints (off X or failed "
+                             "paths) where such a point may lie: the special points may be incomplete (undecided)")
             kind = transversal.hypersurface.type if transversal.hypersurface is not None else None
             if kind is not None and kind.family is Family.A and kind.index == 2:
                 # A2 -> A3 and beyond at constant Hessian rank (a cuspidal edge's special points)
@@ -1127,36 +1134,58 @@ def component_anatomy(system, component, seed=None, options=None, special_candid
         _type_changes(anatomy, transversal)
         special.append(anatomy)
     return ComponentAnatomy(component.id, k, transversal, special, notes, special_points_searched=searched,
-                            rejected_candidates=rejected)
+                            rejected_candidates=rejected, undecided_candidates=undecided)
 
 
-def _rank_jump_points(system, scaling, polynomial, rank, seed, first):
+def _rank_jump_points(system, scaling, polynomial, rank, seed, first, generic):
     """The isolated points (user's units) where the Hessian's rank drops to ``rank`` or below, each judged again in
-    coordinates centred exactly at it (decision 0116).
+    coordinates centred exactly at it (decision 0116), and the count of searches that lost endpoints where such a
+    point may lie (decision 0126).
 
-    ``first`` = (units, f, centre) of the first search, centred at the component's generic point. Seen from there,
-    features far smaller than their distance merge: the umbrella x^2 - y^2 (z^2 + 1) after a rational linear change
-    has its pinch points 2.9 apart and 200 from the generic point, which balanced to units of 1e3, and the two came
-    out as one double point at their midpoint. Each first point is searched again centred at itself (decision
-    0084's idea for singular points), and of that run the points nearer to it than to any other first point are
-    kept: no radius enters.
+    ``first`` = (units, f, centre) of the reading at the component's generic point ``generic`` (user's units). The
+    first search is centred at a short decimal next to it, on a grid of a tenth of the smallest of those units
+    (:func:`~numag.system.centred.centre_in_region`), not at the generic point itself: that point is known to
+    1e-11 of the line, and centred there the jump system's constant and linear terms were that offset, terms at the
+    rounding of the others; the umbrella x^2 - y^2 z after a rational linear change lost its pinch point to them
+    (one endpoint off X, one path jumped, exit 0). A short decimal's offset is either exactly zero or the geometry's
+    own, and it moves the centre by at most 5% of the units the features are read in.
+
+    Seen from there, features far smaller than their distance merge: the umbrella x^2 - y^2 (z^2 + 1) after a
+    rational linear change has its pinch points 2.9 apart and 200 from the generic point, which balanced to units
+    of 1e3, and the two came out as one double point at their midpoint. Each first point is searched again centred
+    at itself (decision 0084's idea for singular points), and of that run the points nearer to it than to any other
+    first point are kept: no radius enters.
     """
     def solutions(units, g, centre):
         jump = PolynomialSystem(list(system.variables), _hessian_jump_system(g, rank))
         found = decompose(jump, seed=seed)
         points = [p for c in found.components if c.dimension == 0 for p in c.points]
-        return units.to_user(np.array(points, dtype=complex).reshape(-1, system.n_variables)) + centre[None, :]
+        return (units.to_user(np.array(points, dtype=complex).reshape(-1, system.n_variables)) + centre[None, :],
+                _lost_endpoints(found))
 
-    found = solutions(*first)
     if not _exactly_centred_at_all(system):
-        return found
+        found, lost = solutions(*first)
+        return found, int(lost)
+    units, _, _ = first
+    unit = float(np.min(np.abs(units.variable_factors)))
+    decimal = np.asarray(centre_in_region(generic, unit).point, dtype=complex)
+    found, lost = solutions(*_read_in(system, decimal, scaling, polynomial))
     kept = []
     for j, candidate in enumerate(found):
-        again = solutions(*_read_in(system, candidate, scaling, polynomial))
+        again, _ = solutions(*_read_in(system, candidate, scaling, polynomial))
         mine = [p for p in again if int(np.argmin(np.linalg.norm(found - p[None, :], axis=1))) == j]
         # none there: the point stays as found first (its reading then says whether the type changes there)
         kept.extend(mine if mine else [candidate])
-    return _distinct_points(np.array(kept, dtype=complex).reshape(-1, system.n_variables))
+    return _distinct_points(np.array(kept, dtype=complex).reshape(-1, system.n_variables)), int(lost)
+
+
+def _lost_endpoints(decomposition):
+    """Whether a decomposition of a jump system lost endpoints that may have been its points: failed paths (a
+    jumped one included) or endpoints off X. Paths to infinity, endpoints on a larger component and junk by the
+    local test are what a clean run of these overdetermined systems has; those are not counted."""
+    paths = decomposition.paths
+    return bool(sum(paths.get(label, 0) for label in FAILURE_LABELS) or paths.get("not_on_X", 0)
+                or paths.get("residual_not_explained", 0))
 
 
 def _exactly_centred_at_all(system):
