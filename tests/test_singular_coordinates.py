@@ -157,3 +157,21 @@ def test_four_nodes_after_a_change_in_units_of_a_thousand_keep_every_node(seed):
     assert len(found) == 4
     for point in expected:
         assert min(np.linalg.norm(f - np.array(point)) for f in found) <= 1e-6 * (1 + np.linalg.norm(point))
+
+
+@pytest.mark.parametrize("seed", [1, 2, 3])
+@pytest.mark.parametrize("unit", ["1000", "1/1000"])
+def test_four_nodes_of_another_product_after_a_change_keep_every_node(seed, unit):
+    # (x^2 - 4)(y^2 - 9) = z^2: the four nodes (+-2, +-3, 0) (by hand, as above), x -> unit A x + shift: the
+    # candidates' top forms share x y, their last move's target has a set of dimension 1 at infinity (decision 0121)
+    matrix = [[str(sympy.Rational(unit) * sympy.Rational(c)) for c in row] for row in (["2", "-1", "1/2"], ["1", "3", "0"],
+                                                                       ["-1", "1", "2"])]
+    moved, text = _changed([(X**2 - 4) * (Y**2 - 9) - Z**2], [X, Y, Z], matrix, ["5/3", "-2", "3"])
+    expected = _singular_points(moved, [X, Y, Z])
+    assert len(expected) == 4
+    locus = singular_locus(parse_system(text, ["x", "y", "z"]), seed=seed)
+    found = [c.points[0] for c in locus.components if not c.at_infinity and c.dimension == 0]
+    assert len(found) == 4
+    spread = max(np.linalg.norm(np.array(a) - np.array(b)) for a in expected for b in expected)
+    for point in expected:
+        assert min(np.linalg.norm(f - np.array(point)) for f in found) <= 1e-6 * max(np.linalg.norm(point), spread)

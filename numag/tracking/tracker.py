@@ -58,7 +58,7 @@ from .rescue import track_segment_precise
 
 __all__ = ["PathStatus", "TrackerOptions", "TrackResult", "track_paths", "projective_condition", "Stepper",
            "ButcherTableau", "RK4", "rescue_budget", "x0_invisible", "confirm_infinity", "InfinityVerdict",
-           "heading_to_infinity", "stopped_early"]
+           "heading_to_infinity", "stopped_early", "singular_at_infinity"]
 
 
 #: Work of the precision rescue (term evaluations in mpmath, about 30 us each at 40 digits) for one path and for
@@ -839,8 +839,10 @@ def projective_condition(jacobian, points, row_scales):
     return np.where(np.isfinite(condition), condition, np.inf)
 
 
-def _track(homotopy, start_points, opts, near=None, on_step=None):
-    """Track to s = 0 from the start (or, when ``near`` is given, from there at the endgame radius)."""
+def _track(homotopy, start_points, opts, near=None, on_step=None, second_look=True):
+    """Track to s = 0 from the start (or, when ``near`` is given, from there at the endgame radius); ends at
+    infinity that are dropped and lie on a singular zero set at infinity get a second look unless ``second_look``
+    is off (decision 0121)."""
     count = len(start_points) if near is None else len(near)
     index = np.arange(count)
     steps = np.zeros(count, dtype=np.int64)
@@ -894,6 +896,8 @@ def _track(homotopy, start_points, opts, near=None, on_step=None):
         winding[kept] = 1
         status[kept] = np.where(infinite[quiet], PathStatus.AT_INFINITY, PathStatus.SINGULAR_ENDPOINT)
         finished[np.flatnonzero(reached)[quiet]] = True
+    # the paths' last samples on the way to s = 0 of the test for heading to infinity (NaN where not taken)
+    deep = np.full((count, near.shape[1]), np.nan, dtype=complex)
     if not opts.infinity_wanted and np.any(~finished):
         # paths heading to infinity stop here, before the endgame's circles, where their ends are not wanted
         # (decision 0113): status at infinity, winding number 0 (not measured), the last sample as endpoint
@@ -901,6 +905,7 @@ def _track(homotopy, start_points, opts, near=None, on_step=None):
         paths = running[position]
         ends = np.where(reached[position][:, None], final[position], np.nan)
         heading, last, extra = heading_to_infinity(homotopy, near[paths], radius[paths], ends, opts)
+        deep[paths] = last
         steps[paths] += extra
         stopped = paths[heading]
         endpoints[stopped] = last[heading]
@@ -950,7 +955,107 @@ def _track(homotopy, start_points, opts, near=None, on_step=None):
                 winding[paths[finite]] = 1
                 status[paths[finite]] = PathStatus.CONVERGED
                 status[paths[verdict == InfinityVerdict.UNDECIDED]] = PathStatus.FAILED_ENDGAME
+            if not opts.infinity_wanted and second_look:
+                # an end at infinity that is dropped, on a singular zero set of the target at infinity: looked at
+                # again from deeper on the path, where the test for heading to infinity left it (decision 0121)
+                again = target[(status[target] == PathStatus.AT_INFINITY) & (winding[target] == 1)]
+                again = again[singular_at_infinity(homotopy, endpoints[again])]
+                if len(again):
+                    _look_again(homotopy, again, deep[again], opts, endpoints, status, steps, condition, winding)
     return endpoints, status, steps, condition, winding, endgame
+
+
+#: The top forms' Jacobian at a point at infinity has rank n - 1 there when its (n - 1)-th scaled singular value
+#: exceeds this fraction of the largest; below, the point is a multiple zero or on a positive-dimensional set
+#: at infinity (decision 0121). Generous on purpose: a point called singular only costs a second look.
+SINGULAR_AT_INFINITY = 1e-4
+
+
+def singular_at_infinity(homotopy, points):
+    """Whether the target's zero set at infinity is singular (a multiple point, or a set of positive dimension)
+    at each point, by the rank of the top forms' Jacobian there (decision 0121).
+
+    The target's equations at X_0 = 0 are their top-degree forms, n forms on the hyperplane at infinity (a P^(n-1)).
+    A reduced isolated zero of theirs has a Jacobian (in x_1 .. x_n, rows in units of their terms) of rank n - 1
+    (the kernel is the point's own line); on a zero set of positive dimension the rank is at most n - 2 at every
+    point. A path called infinite next to such a set may still be on its way to a finite zero (the target's own
+    zeros at infinity attract Newton and the endgame's circles alike), so its verdict is not final there.
+
+    Parameters
+    ----------
+    homotopy : object
+        Points are homogeneous coordinates on a patch, X_0 first.
+    points : ndarray, shape (P, N)
+        Points at (or next to) infinity.
+
+    Returns
+    -------
+    ndarray of bool, shape (P,)
+
+    Examples
+    --------
+    >>> import numpy as np
+    >>> from numag.system.parse import parse_system
+    >>> from numag.tracking.homotopy import StraightLineHomotopy
+    >>> # top forms x y, x z, x^2: they vanish on the whole line x = 0 at infinity
+    >>> system = parse_system(["x*y - 1", "x*z - 2", "x^2 + x - 3"], ["x", "y", "z"])
+    >>> homotopy = StraightLineHomotopy.total_degree(system, np.random.default_rng(0))
+    >>> singular_at_infinity(homotopy, np.array([[0, 0, 1, 1]], dtype=complex)).tolist()
+    [True]
+    >>> # x y, x z, x + y + z: the one reduced point (0 : 1 : -1) at infinity
+    >>> system = parse_system(["x*y - 1", "x*z - 2", "x + y + z"], ["x", "y", "z"])
+    >>> homotopy = StraightLineHomotopy.total_degree(system, np.random.default_rng(0))
+    >>> singular_at_infinity(homotopy, np.array([[0, 0, 1, -1]], dtype=complex)).tolist()
+    [False]
+    """
+    if len(points) == 0:
+        return np.zeros(0, dtype=bool)
+    points = np.array(points, dtype=complex, copy=True)
+    points[:, 0] = 0
+    n = points.shape[1] - 1
+    if n < 2:  # P^0: a point at infinity is always isolated and the rank test has no room
+        return np.zeros(len(points), dtype=bool)
+    with np.errstate(all="ignore"):
+        _, jacobian, _ = homotopy.evaluate(points, np.zeros(len(points), dtype=complex))
+        scales = homotopy.row_scales(points)
+        forms = jacobian[:, :-1, 1:] / np.where(scales > 0, scales, np.inf)[:, :, None]
+        values = np.linalg.svd(forms, compute_uv=False)
+    usable = np.all(np.isfinite(values), axis=1) & (values[:, 0] > 0)
+    # unusable (overflow, a zero Jacobian): singular, so that the verdict is looked at again
+    return ~usable | (values[:, n - 2] <= SINGULAR_AT_INFINITY * values[:, 0])
+
+
+def _look_again(homotopy, paths, deep, opts, endpoints, status, steps, condition, winding):
+    """The second look of decision 0121, in double, at paths ``paths`` whose end at infinity is in doubt.
+
+    ``deep`` holds each path's last sample of :func:`heading_to_infinity` (at s = ``endgame_radius`` *
+    ``endgame_shrink`` ^ :data:`INFINITY_SAMPLES`, 4e-9 times the endgame's radius; NaN where double precision could
+    not follow the path that deep). A path whose sample is itself at infinity by the standard of the endgame's
+    estimates (X_0 / ||X|| at most ``infinity_threshold``) was followed there far below the endgame's circles, where
+    a path to a finite zero has long arrived: its verdict stands. So does one without a sample: on a singular set
+    at infinity tracking fails where a path to a finite regular zero does not (and mpmath here cost the six-bar 27
+    s). The others are tracked again from their sample as in the first pass (the test for heading to infinity, the
+    endgame, Newton's confirmation), without a further second look; a finite end replaces the verdict. The arrays
+    ``endpoints`` .. ``winding`` are updated in place."""
+    with np.errstate(all="ignore"):
+        relative_x0 = np.abs(deep[:, 0]) / np.linalg.norm(deep, axis=1)
+    again = np.all(np.isfinite(deep), axis=1) & ~(relative_x0 <= opts.infinity_threshold)
+    if np.any(again):
+        _track_again(homotopy, paths[again], deep[again], opts.endgame_radius * opts.endgame_shrink ** INFINITY_SAMPLES,
+                     opts, endpoints, status, steps, condition, winding)
+
+
+def _track_again(homotopy, paths, points, radius, opts, endpoints, status, steps, condition, winding):
+    """Paths ``paths`` tracked again from ``points`` at s = ``radius`` (one for all) by :func:`_track`, without a
+    second look; their statuses and ends replaced where they end finite (elsewhere the first verdict stands)."""
+    ends, again, extra, cond, loops, _ = _track(homotopy, None, replace(opts, endgame_radius=radius), near=points,
+                                                second_look=False)
+    steps[paths] += extra
+    finite = (again == PathStatus.CONVERGED) | (again == PathStatus.SINGULAR_ENDPOINT)
+    status[paths[finite]] = again[finite]
+    endpoints[paths[finite]] = ends[finite]
+    condition[paths[finite]] = cond[finite]
+    winding[paths[finite]] = loops[finite]
 
 
 def x0_invisible(homotopy, points, opts):
