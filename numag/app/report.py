@@ -256,6 +256,10 @@ def completeness_warnings(data):
         warnings.append("The components' degrees times multiplicities do not add up as Bezout's theorem requires "
                         "for the dimension of a complete intersection: a component may be missing or counted "
                         "twice.")
+    if int((paths_block.get("endpoints") or {}).get("exact_profile_differs", 0)):  # decision 0128
+        warnings.append("X's components do not match the equation's exact multiplicity profile (the distinct points "
+                        "of each multiplicity a rational line meets, by square-free factorisation): components were "
+                        "merged, split, lost or given the wrong multiplicity; undecided.")
     unverified = data.get("unverified") if isinstance(data.get("unverified"), list) else []
     if unverified:  # solve: singular endpoint groups that do not satisfy F (decision 0049)
         paths = sum(int(group.get("multiplicity", 0)) for group in unverified if isinstance(group, dict))
@@ -660,7 +664,8 @@ def solve_report_from_dict(data):
 # --- decompose -----------------------------------------------------------------------------------
 
 _ENDPOINT_KEYS = ("not_on_X", "at_infinity_or_failed", "on_larger_component", "membership_paths",
-                  "degree_check_failed", "residual_not_explained", "zero_undecided")  # the last two: decision 0064
+                  "degree_check_failed", "residual_not_explained", "zero_undecided",  # the last two: decision 0064
+                  "exact_profile_differs")  # decision 0128
 
 
 def decomposition_path_counts(counts):

@@ -45,6 +45,7 @@ from ..errors import InputError, LimitError, is_integer, is_number, require_opti
 from ..system.display import counted, html_table, short_point
 from ..system.centred import CENTRED_BALANCING_FLOOR, CENTRING_TERMS, centre_near, centred_system, translated_terms
 from ..system.polynomial import Polynomial, PolynomialSystem, linear_space, require_numeric
+from ..system.univariate import multiplicity_profile
 from ..numeric.cluster import cluster_labels, connected_components, groups as label_groups
 from ..numeric.evaluate import BatchEvaluator, TermSizes
 from ..numeric.minors import (CombinedRows, EvaluatedMinors, AugmentedEvaluator, MinorsSystem, MinorWeights,
@@ -671,7 +672,50 @@ def decompose(system, options=None, seed=None, progress=None):
     with rescue_budget():  # the cascade, the loops and the membership tests share one rescue budget
         result = _decompose(_scaled(scaling, system), options, seed, progress)
     result.options = options
-    return result.in_units(scaling, system, to_user=True)
+    result = result.in_units(scaling, system, to_user=True)
+    result.paths.update(_exact_profile_check(system, result.components, seed))
+    return result
+
+
+#: Above this degree or number of terms the exact restriction to lines is not computed (Fractions grow).
+_EXACT_PROFILE_DEGREE, _EXACT_PROFILE_TERMS = 40, 2000
+
+
+def _exact_profile_check(system, components, seed):
+    """One equation with rational coefficients: X's components held against the exact multiplicity profile.
+
+    On a rational line in general position f restricts to g(t), and the square-free factorisation of g gives,
+    for each multiplicity m, the number of distinct points of multiplicity m (:mod:`numag.system.univariate`):
+    the degrees of X's components of multiplicity m add up to exactly that. Two random integer lines that agree
+    give the profile (a line tangent to X or through a singular point shows more multiplicity; two such lines
+    agreeing by chance is not expected, and a third is drawn where they differ). A decomposition that disagrees
+    (five witness points merged into one of multiplicity 5 in expanded terms of 1e16) is counted
+    ``exact_profile_differs``: a warning, exit 3. Exact, so scale-, coordinate- and seed-free (decision 0128).
+    """
+    if len(system.polynomials) != 1 or getattr(system, "projective", False):
+        return {}
+    f = system.polynomials[0]
+    if (not f.is_exact or f.degree < 1 or f.degree > _EXACT_PROFILE_DEGREE or f.n_terms > _EXACT_PROFILE_TERMS
+            or not all(c.is_rational() for c in f.coefficients)):
+        return {}
+    top = system.n_variables - 1
+    found = {}
+    for c in components:
+        if c.dimension == top:
+            found[int(c.multiplicity)] = found.get(int(c.multiplicity), 0) + int(c.degree)
+    if not found:
+        return {}
+    rng = np.random.default_rng([int(seed) % 2**32, 128])
+    profiles = []
+    for _ in range(6):
+        profile = multiplicity_profile(f, rng.integers(-97, 98, system.n_variables),
+                                       rng.integers(-97, 98, system.n_variables))
+        if profile is None:  # the line lost degree (its direction at infinity on X): another
+            continue
+        if profile in profiles:
+            return {} if profile == found else {"exact_profile_differs": 1}
+        profiles.append(profile)
+    return {}
 
 
 def _polynomial_part(system):
