@@ -297,7 +297,7 @@ class _PointFormat:
     'w=0, x=0, p=1'
     >>> text(["x"], [1.000000007], accuracy=1e-8)  # a triple root: no digit below its accuracy
     'x=1'
-    >>> text.footnote()[:23]
+    >>> text.footnote()[:22]
     'note: digits below the'
     """
 
