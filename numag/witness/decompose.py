@@ -677,8 +677,9 @@ def decompose(system, options=None, seed=None, progress=None):
     return result
 
 
-#: Above this degree or number of terms the exact restriction to lines is not computed (Fractions grow).
-_EXACT_PROFILE_DEGREE, _EXACT_PROFILE_TERMS = 40, 2000
+#: Above this degree or number of terms the exact restriction to lines is not computed: the Fractions of Euclid grow
+#: (measured per line: degree 16 in 3 unknowns, 962 terms, 0.9 CPU s; degree 24, 2.4 s; degree 40, 30 s).
+_EXACT_PROFILE_DEGREE, _EXACT_PROFILE_TERMS = 16, 600
 
 
 def _exact_profile_check(system, components, seed):
