@@ -82,21 +82,26 @@ def _derivative(p):
     return _trim([k * value for k, value in enumerate(p)][1:])
 
 
+def _subtract(a, b):
+    """a - b (coefficient lists, lowest degree first)."""
+    width = max(len(a), len(b))
+    return _trim([(a[k] if k < len(a) else 0) - (b[k] if k < len(b) else 0) for k in range(width)])
+
+
 def _square_free_degrees(g):
     """{m: degree of the product of g's irreducible factors of multiplicity m} by Yun's algorithm (exact)."""
     degrees, m = {}, 1
     a = _gcd(g, _derivative(g))
     b = _divmod(g, a)[0]
     c = _divmod(_derivative(g), a)[0]
-    d = [x - y for x, y in zip(c + [Fraction(0)] * len(b), _derivative(b) + [Fraction(0)] * (len(c) + len(b)))]
-    d = _trim(d)
+    d = _subtract(c, _derivative(b))
     while len(b) > 1:
         factor = _gcd(b, d)
         if len(factor) > 1:
             degrees[m] = len(factor) - 1
         b = _divmod(b, factor)[0]
         c = _divmod(d, factor)[0]
-        d = _trim([x - y for x, y in zip(c + [Fraction(0)] * len(b), _derivative(b) + [Fraction(0)] * (len(c) + len(b)))])
+        d = _subtract(c, _derivative(b))
         m += 1
     return degrees
 
