@@ -443,7 +443,7 @@ def _sympy_minors_child(plain, queue):
     queue.put((time.process_time() - start, f"{len(basis.exprs)} polynomials"))
 
 
-def _timed_pair(system, seed, numag_limit, reference_limit, reference=None):
+def _timed_pair(system, seed, numag_limit, reference_limit, reference=None, reference_cpu_limit=None):
     """numag's and sympy's (CPU s, summary) in child processes, None on time-out; and the CPU seconds each
     had used when it was stopped (None where it finished)."""
     from numag.app.reference import system_to_plain
@@ -451,7 +451,7 @@ def _timed_pair(system, seed, numag_limit, reference_limit, reference=None):
     stopped_ours, stopped_theirs = [], []
     ours = run_with_time_limit(_numag_child, (system, seed), numag_limit, stopped_ours)
     theirs = run_with_time_limit(reference or _sympy_child, (system_to_plain(system),), reference_limit,
-                                 stopped_theirs)
+                                 stopped_theirs, cpu_limit=reference_cpu_limit)
     return ours, theirs, (stopped_ours or [None])[0], (stopped_theirs or [None])[0]
 
 
@@ -544,11 +544,12 @@ def section_conjugates(full, numag_limit):
 
 
 def section_families(quick, numag_limit, reference_limit, chosen=("nodal", "det", "quadrics", "mechanisms"),
-                     sizes=None):
+                     sizes=None, reference_cpu_limit=None):
     """Time against size per family; ``sizes`` (family key -> set of sizes) keeps only those members, so that a
     few sizes can be measured again with long limits."""
-    print(f"\n== growing families (child processes; wall-time limits: numag {numag_limit} s, sympy {reference_limit} s; "
-          "CPU seconds of the computation, start-up excluded)")
+    print(f"\n== growing families (child processes; wall-time limits: numag {numag_limit} s, sympy {reference_limit} s"
+          + (f", sympy also stopped at {reference_cpu_limit:g} CPU s" if reference_cpu_limit else "")
+          + "; CPU seconds of the computation, start-up excluded)")
     families = [
         ("nodal surfaces T_d(x)+T_d(x+y)+T_d(x+y+z)+1", [(d, nodal_surface(d)) for d in range(3, 7 if quick else 11)],
          lambda d, expected: f"{expected} x dim 0 deg 1"),
@@ -573,9 +574,11 @@ def section_families(quick, numag_limit, reference_limit, chosen=("nodal", "det"
             if sizes and size not in sizes.get(key, ()):
                 continue
             ours, theirs, ours_stopped, theirs_stopped = _timed_pair(system, 1, numag_limit, reference_limit,
-                                                                     references.get(key))
+                                                                     references.get(key), reference_cpu_limit)
             ours_text = f"{ours[0]:.2f}" if ours else _stopped_text(numag_limit, ours_stopped)
             theirs_text = f"{theirs[0]:.2f}" if theirs else _stopped_text(reference_limit, theirs_stopped)
+            if not theirs and reference_cpu_limit and (theirs_stopped or 0) >= reference_cpu_limit:
+                theirs_text = f"> {theirs_stopped:.0f} cpu (stopped)"
             ratio = theirs[0] / ours[0] if ours and theirs and ours[0] > 0 else None
             ratio_text = f"{ratio:.2f}" if ratio else ""
             if ours and not theirs and theirs_stopped and ours[0] > 0:  # sympy stopped: its CPU by then, a bound
@@ -697,6 +700,9 @@ def main():
     parser.add_argument("--sizes", default="", help="only these family members, e.g. nodal=7,quadrics=4,quadrics=5 "
                         "(section families; default: every size)")
     parser.add_argument("--reference-limit", type=float, default=600.0, help="seconds for each sympy run")
+    parser.add_argument("--reference-cpu-limit", type=float, default=None,
+                        help="also stop each sympy run once it has used this many CPU seconds (section families; "
+                        "a bound that does not depend on the machine's load)")
     parser.add_argument("--numag-limit", type=float, default=600.0, help="seconds for each numag child run")
     parser.add_argument("--repeats", type=int, default=3, help="runs of each size in section solve (median)")
     parser.add_argument("--memory-exponent", type=int, default=17, help="2^N paths for the memory row")
@@ -729,7 +735,8 @@ def main():
         for item in filter(None, args.sizes.split(",")):
             key, _, size = item.partition("=")
             sizes.setdefault(key.strip(), set()).add(int(size))
-        section_families(args.quick, args.numag_limit, args.reference_limit, args.families.split(","), sizes)
+        section_families(args.quick, args.numag_limit, args.reference_limit, args.families.split(","), sizes,
+                         args.reference_cpu_limit)
     if "memory" in sections:
         section_memory(args.quick, args.memory_exponent)
     if args.golden:
