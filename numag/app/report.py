@@ -251,6 +251,11 @@ def completeness_warnings(data):
         warnings.append(f"{counted(inside, 'embedded component')} of the equations (the Jacobian drops rank all "
                         "along it, X smooth at its generic point): singular points of X inside it are not separated "
                         "by the rank condition and were not searched; undecided there.")
+    non_reduced = _discarded(data, "non_reduced_inside_unsearched")
+    if non_reduced:  # J vanishes along a non-reduced component: its meetings and its own singular points (0136)
+        warnings.append(f"{counted(non_reduced, 'non-reduced component')} of X (J vanishes all along it): points "
+                        "inside it where another component meets it, or where it is singular itself, are no "
+                        "separate candidates and were not searched; undecided there (check a point to judge it).")
     paths_block = data.get("paths") or {}
     if int((paths_block.get("endpoints") or {}).get("degree_check_failed", 0)):
         warnings.append("The components' degrees times multiplicities do not add up as Bezout's theorem requires "

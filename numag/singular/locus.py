@@ -1236,6 +1236,11 @@ def _affine(system, options, rng, paths, discarded, progress, notes_out=None, ro
                     notes.append("A proper subset of a non-reduced component of X: the Jacobian cannot decide "
                                  "whether the variety is singular here.")
                     piece_kind = PieceKind.UNDECIDED
+                elif candidate.dimension > 0 and not _reduced_structure_smooth(whole, variety):
+                    # J vanishes all along the component, so where another component meets it, or where it is
+                    # singular itself, no candidate of its own shows (decision 0136)
+                    discarded["non_reduced_inside_unsearched"] = discarded.get(
+                        "non_reduced_inside_unsearched", 0) + 1
             points = candidate.points
             if candidate.dimension == 0 and np.linalg.norm(verdict.point - point) <= _CANDIDATE_TOLERANCE * (
                     1 + np.linalg.norm(point)):
@@ -1321,6 +1326,26 @@ def _smooth_along(verdict, variety):
     no other component; otherwise the set is counted ``embedded_component_unsearched`` (a completeness warning).
     """
     if variety is None or len(verdict.components) != 1 or verdict.components[0]["degree"] != 1:
+        return False
+    return len(variety.components) == 1
+
+
+def _reduced_structure_smooth(whole, variety):
+    """Whether a non-reduced component of X (``whole``: the check's components of its dimension through its witness
+    point) is known to hold no singular point of X's reduced structure.
+
+    The Jacobian of F vanishes all along a component of multiplicity m > 1, so the points where X_red is singular
+    inside it -- where another component meets it ((x - y)^2 (x + y) at the origin), or where the component is
+    singular itself ((y^2 - x^3)^2 at the cusp) -- are no candidates of their own. Known smooth only when the
+    component is a linear space (degree 1) and X has no other component; otherwise the component is counted
+    ``non_reduced_inside_unsearched`` (a completeness warning, exit 3; decision 0136).
+
+    Examples
+    --------
+    >>> _reduced_structure_smooth([{"degree": 1}], None)
+    False
+    """
+    if variety is None or len(whole) != 1 or whole[0]["degree"] != 1:
         return False
     return len(variety.components) == 1
 
