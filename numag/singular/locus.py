@@ -957,7 +957,19 @@ def _singular_locus(system, options, seed, progress, stop=None):
                                "why": "a projective hypersurface: the zeros of its partials form a projective "
                                       "system, which has the total-degree start only"})
                 notes.append(f"The {options.start.value} start was not used: {routes[-1]['why']}.")
-            components, variety = _projective_gradient(system, rng, paths, discarded, progress, dropped), None
+            try:
+                components, variety = _projective_gradient(system, rng, paths, discarded, progress, dropped), None
+            except _NotIsolated as reason:
+                if options.formulation is Formulation.GRADIENT:  # asked for by name: say why it cannot serve
+                    raise InputError(f"{reason}; use the minors formulation (--formulation minors)") from None
+                # the gradient's zeros are not isolated (a singular curve, or a cone): the chart route with its
+                # minors finds sets of every dimension; the gradient paths tracked stay counted
+                discarded.clear()
+                dropped.clear()
+                routes.append({"codimension": 1, "route": "minors in a random chart",
+                               "why": f"{reason}: the gradient system finds isolated points only"})
+                components, variety = _projective_chart(system, options, rng, paths, discarded, notes, progress,
+                                                        routes, dropped)
         else:
             components, variety = _projective_chart(system, options, rng, paths, discarded, notes, progress, routes,
                                                     dropped)
@@ -1523,7 +1535,7 @@ def _projective_gradient(system, rng, paths, discarded, progress, dropped=None):
     if gradient.n_equations == 0:
         return pieces
     if gradient.n_equations < system.n_variables - 1:
-        raise InputError("the hypersurface is a cone over a lower-dimensional one: use the minors formulation")
+        raise _NotIsolated("the hypersurface is a cone over a lower-dimensional one")
     result = solve_system(gradient, SolveOptions(square_up=gradient.n_equations > system.n_variables - 1),
                           seed=int(rng.integers(2**32)))
     add_path_counts(paths, result.path_counts())
@@ -1548,9 +1560,12 @@ def _projective_gradient(system, rng, paths, discarded, progress, dropped=None):
         (doubtful if residual > _SETTLED_RESIDUAL else pieces).append(piece)
     pieces += _confirmed_by_check(system, doubtful, rng, discarded, dropped)
     if result.not_isolated:
-        raise InputError("the singular locus of this hypersurface is positive-dimensional; use the minors "
-                         "formulation (--formulation minors)")
+        raise _NotIsolated("the singular locus of this hypersurface is positive-dimensional")
     return pieces
+
+
+class _NotIsolated(Exception):
+    """The gradient system of a projective hypersurface has zeros that are not isolated (the message says why)."""
 
 
 def _confirmed_by_check(system, pieces, rng, discarded, dropped=None):
