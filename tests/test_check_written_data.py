@@ -191,3 +191,21 @@ def test_certify_does_not_certify_a_false_verdict(tmp_path, capsys, seed):
     (point,) = json.loads(capsys.readouterr().out)["points"]
     assert point["verdict"] == "smooth" and code == EXIT_OK
     assert point["certificate"]["claim"] != "singular point"
+
+
+@pytest.mark.parametrize("seed", SEEDS)
+@pytest.mark.parametrize("factor", [1, sympy.Rational(1, 1000)])
+def test_a_rank_drop_within_the_point_tolerance_is_sought(seed, factor):
+    """Finding 9: with --point-tolerance 1e-2 the node (0, 0) is within the tolerance of both (1e-3, 0) and
+    (1e-3, 1e-3) (1e-3 and 1.4e-3 from it, by hand): both singular, about the node; in units x1e-3 too (the
+    tolerance is relative to sqrt(1 + |p|^2), so units x1000 put the node beyond it: not a case of this)."""
+    from numag.singular.smoothness import CheckOptions
+    scaled = sympy.expand(NODE.subs({X: X / factor, Y: Y / factor}) * factor ** 3)
+    for point in ((sympy.Rational(1, 1000), 0), (sympy.Rational(1, 1000), sympy.Rational(1, 1000))):
+        assert _exact_facts(NODE, point)[0] != 0  # off X: the nearest point of X is judged
+        assert sympy.sqrt(point[0] ** 2 + point[1] ** 2) < sympy.Rational(1, 100)
+    system = parse_system([_text(scaled)], ["x", "y"])
+    points = [[str(factor * sympy.Rational(c)) for c in p] for p in (("1/1000", "0"), ("1/1000", "1/1000"))]
+    report = check_points(system, points, options=CheckOptions(point_tolerance=1e-2), seed=seed)
+    for verdict in report.points:
+        assert verdict.verdict is Verdict.SINGULAR and verdict.judged is JudgedPoint.RANK_DROP

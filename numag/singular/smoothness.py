@@ -1103,6 +1103,22 @@ class _Checker:
                      f"multiplicity of component {component.id}, which was not counted ({why}).")
         return Verdict.UNDECIDED
 
+    def full_rank_within_tolerance(self, given, refined, codim, position):
+        """Whether J clearly keeps rank ``codim`` on the ball of the point tolerance around ``refined`` (decision
+        0117's test), so that no rank drop is within it; True without a tolerance (exact data).
+
+        A c-th scaled singular value above the suspect threshold says the point is not at a rank drop, not that
+        none is within a tolerance the user gave: a node 1.4e-3 from a point of X judged with tolerance 1e-2
+        (decision 0132). Where the test is not clear, the escalation looks for the drop.
+        """
+        tolerance = self.tolerance_for(given, position)
+        if not tolerance:
+            return True
+        reach = tolerance + self.from_given(given, refined)
+        if self.in_user_units:  # a ball in the user's units lies within this one in the computed units
+            reach = reach / float(np.min(self.user_scaling.variable_factors))
+        return bool(self.full_rank_around(np.asarray(refined)[None, :], codim, np.array([reach]))[0])
+
     def not_separated(self, given, decision, position):
         """The note of an undecided escalation: what separates the point from a rank drop (decision 0110)."""
         tolerance = self.tolerance_for(given, position)
@@ -1150,7 +1166,8 @@ class _Checker:
             # nothing to add to the verdict (it took > 300 s at a node, and at a smooth point, of 14 unknowns); a
             # rank drop nearby that the batch in double found is kept for the report
             decision = self.settled.get(position) or decision
-        elif codim <= len(values) and values[codim - 1] > opts.suspect_threshold:
+        elif (codim <= len(values) and values[codim - 1] > opts.suspect_threshold
+              and self.full_rank_within_tolerance(given, refined, codim, position)):
             decision.outcome = Verdict.SMOOTH
         else:
             escalated = True
