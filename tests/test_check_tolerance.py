@@ -71,7 +71,7 @@ def test_the_point_tolerance_is_in_the_users_units(tmp_path, seed):
 def test_no_point_of_x_reached_is_undecided_not_off(tmp_path, monkeypatch):
     # as when Newton in extended precision reaches no point of X from a point double cannot tell from X: the
     # verdict says undecided, and its note does not claim a point of X was reached (common practice, no source)
-    def nowhere(self, start):
+    def nowhere(self, start, goal=None):
         return smoothness.np.array([complex(smoothness.mpmath.mpmathify(v.to_context(smoothness.mpmath.mp)))
                                     if hasattr(v, "to_context") else complex(v) for v in start]), False
 

@@ -34,6 +34,7 @@ from dataclasses import dataclass
 from fractions import Fraction
 import itertools
 import math
+import numbers
 
 import mpmath
 import numpy as np
@@ -151,16 +152,19 @@ def _last_digit_unit(value):
 def point_precision(coordinates):
     """A point's coordinates as exact numbers, and how far the digits given let each one be off.
 
-    The rule of :func:`coefficient_precision`, for a point (decision 0072): a decimal of
-    :data:`DOUBLE_SIGNIFICANT_DIGITS` or more significant digits (what printing a double gives) is
-    rounded data, known to half a unit of its last digit; integers, rationals and shorter decimals are
-    exact. A float is read as the shortest decimal that gives it back (``repr``): 0.5 is exactly 1/2,
-    a computed 0.30000000000000004 is rounded data. The radius is in the point's own units, so it
-    follows a change of units.
+    The rule of :func:`coefficient_precision`, for a point (decisions 0072 and 0132), by what was written,
+    not by the value: a decimal literal of :data:`DOUBLE_SIGNIFICANT_DIGITS` or more significant digits as
+    written (trailing zeros count: ``0.6000000000000000000100000`` is known to 5e-26) is rounded data, known
+    to half a unit of its last digit; integers, rationals (``Fraction``), square roots and shorter decimals
+    are exact, however long their decimal expansion (``200000000000000000001/10^40`` is exact). Text is read
+    by :func:`numag.system.parse.parse_constant`, which keeps the digits written. A float is read as the
+    shortest decimal that gives it back (``repr``): 0.5 is exactly 1/2, a computed 0.30000000000000004 is
+    rounded data. The radius is in the point's own units, so it follows a change of units.
 
     Parameters
     ----------
-    coordinates : sequence of int, float, complex or ExactCoefficient
+    coordinates : sequence of int, Fraction, float, complex or ExactCoefficient (a WrittenConstant: as written,
+        any other: exact)
 
     Returns
     -------
@@ -169,21 +173,27 @@ def point_precision(coordinates):
 
     Examples
     --------
-    >>> exact, radii = point_precision([1, 0.5, 0.1 + 0.2])
+    >>> from numag.system.parse import parse_constant
+    >>> exact, radii = point_precision([1, 0.5, 0.1 + 0.2, Fraction(1, 3), parse_constant("0.60000000000000000001")])
     >>> [c.to_text() for c in exact[:2]], [float(r) for r in radii]
-    (['1', '1/2'], [0.0, 0.0, 2.7755575615628914e-17])
+    (['1', '1/2'], [0.0, 0.0, 2.7755575615628914e-17, 0.0, 5e-21])
     """
     exact, radii = [], []
     for coordinate in coordinates:
         if isinstance(coordinate, ExactCoefficient):
-            value = coordinate
-        elif isinstance(coordinate, (int, np.integer)) and not isinstance(coordinate, bool):
-            value = ExactCoefficient.rational(int(coordinate))
-        else:
-            z = complex(coordinate)
-            value = ExactCoefficient.rational(Fraction(repr(float(z.real))), Fraction(repr(float(z.imag))))
+            # the decimals written decide (WrittenConstant: each literal's digits and what its last digit moves)
+            exact.append(coordinate)
+            radii.append(sum(coordinate.moved_by(column, unit / 2) for column, digits, unit
+                             in getattr(coordinate, "decimals", ()) if digits >= DOUBLE_SIGNIFICANT_DIGITS))
+            continue
+        if isinstance(coordinate, numbers.Rational) and not isinstance(coordinate, bool):
+            exact.append(ExactCoefficient.rational(Fraction(int(coordinate.numerator), int(coordinate.denominator))))
+            radii.append(0.0)
+            continue
+        z = complex(coordinate)
+        value = ExactCoefficient.rational(Fraction(repr(float(z.real))), Fraction(repr(float(z.imag))))
         # a stored double is known to half its spacing, which its shortest decimal can undercut
-        spacing = 0.0 if isinstance(coordinate, ExactCoefficient) else 0.5 * math.ulp(abs(complex(coordinate)))
+        spacing = 0.5 * math.ulp(abs(z))
         squares = 0.0
         for radicand, (re, im) in value.parts.items():
             for part in (Fraction(re), Fraction(im)):

@@ -55,10 +55,11 @@ import mpmath
 import numpy as np
 
 from ..kinds import TextEnum
-from ..errors import InputError, PointError, is_integer, is_number, require_option
+from ..errors import InputError, ParseError, PointError, is_integer, is_number, require_option
 from ..system.display import html_table, short_point
 from ..system.centred import CENTRED_BALANCING_FLOOR, centre_near, centred_system, translated_terms
 from ..system.exact import ExactCoefficient
+from ..system.parse import parse_constant
 from ..system.polynomial import PolynomialSystem, require_numeric
 from ..numeric.cluster import line_distance, normalize_projective, projective_pivot
 from ..numeric.evaluate import BatchEvaluator, PrecisionEvaluator, TermSizes
@@ -115,6 +116,9 @@ _NEAREST_DIGITS = 30
 #: Extra working digits tried in turn: an expanded polynomial far from the origin cancels many digits (a quartic
 #: moved to 3456 loses 13 of them), and Gauss-Newton then stalls above its tolerance at the first precision.
 _NEAREST_EXTRA_DIGITS = (10, 40)
+#: Decision 0132: rounded data finer than double precision (a decimal of 30 digits) is measured in mpmath at this many
+#: digits beyond its relative radius, so that the floor of its reach is the working precision's, not double's.
+_FINE_EXTRA_DIGITS = 10
 #: A rank drop at the point is settled in double only where the rank-drop system's scaled Jacobian has
 #: smallest / largest singular value at least this (decision 0074): 0.02-1 at nodes and linkage folds,
 #: 1e-7 at a cusp, 1e-10 at a tacnode (where Newton in double stops short of the point).
@@ -422,6 +426,9 @@ class _Checker:
         self.settled = {}  # position -> outcome decided in double for a batch (settle_in_double)
         self.tolerances = {}  # position -> absolute point tolerance (computed units) when set per point
         self.inferred = set()  # positions whose tolerance is inferred from their digits (decision 0110)
+        # decision 0132: rounded data finer than double, position -> (exact decimal, working digits); their distances
+        # are measured from the exact decimal in mpmath, not between doubles
+        self.fine = {}
         self.judged = {}  # position -> _Judged, decided for a whole batch before its sampling
         self.drops_near = {}  # position -> the non-reduced sampling's answer, for a whole batch at once
         self.batch = BatchEvaluator(system.polynomials)
@@ -469,6 +476,15 @@ class _Checker:
         if self.in_user_units:
             given, point = self.user_scaling.to_user(np.array([given, point], dtype=complex))
         return self.distance(given, point)
+
+    def from_given_precise(self, given, point, position):
+        """:meth:`from_given` of a point found in mpmath (its coordinates in :attr:`last_drop_precise`); for rounded
+        data finer than double (decision 0132) measured from the exact decimal in mpmath, at the working precision."""
+        if position not in self.fine or self.system.projective:
+            return self.from_given(given, point)
+        decimal, _ = self.fine[position]
+        ctx = mpmath.mp
+        return float(ctx.norm(ctx.matrix([p - c.to_context(ctx) for p, c in zip(self.last_drop_precise, decimal)])))
 
     def tolerance_for(self, given, position=None):
         """How far the point a verdict speaks about may be from the given one (the point's own, when set), in the
@@ -551,21 +567,23 @@ class _Checker:
             rank += 1
         return rank
 
-    def nearest_on_x(self, start):
+    def nearest_on_x(self, start, goal=_NEAREST_DIGITS):
         """The nearest point of X found from ``start`` (exact or complex coordinates) by Gauss-Newton in mpmath.
 
         Returns (point as complex ndarray, converged). Minimum-norm steps go to a nearby point of X; where
         J vanishes at the start (a saddle of f between two branches) no step moves it, so Gauss-Newton
         also starts from a few points around it at the distance the residual suggests (sqrt of the
-        scaled residual, the reach of a quadratic), and the nearest point reached is kept.
+        scaled residual, the reach of a quadratic), and the nearest point reached is kept. ``goal``: the digits
+        Gauss-Newton aims at. The offset of the point found from ``start``, measured in mpmath, is left in
+        :attr:`last_nearest_offset` (complex; decision 0132: doubles cannot show it for data finer than theirs).
         """
         for extra in _NEAREST_EXTRA_DIGITS:
-            found, converged = self._nearest_on_x_at(start, _NEAREST_DIGITS + extra)
+            found, converged = self._nearest_on_x_at(start, goal + extra, goal)
             if converged:
                 break
         return found, converged
 
-    def _nearest_on_x_at(self, start, digits):
+    def _nearest_on_x_at(self, start, digits, goal=_NEAREST_DIGITS):
         """:meth:`nearest_on_x` at ``digits`` working digits."""
         with mpmath.mp.workdps(digits):
             ctx = mpmath.mp
@@ -586,7 +604,7 @@ class _Checker:
                         for j in range(jacobian.cols):
                             jacobian[i, j] /= factors[j]
                     return values, jacobian
-            tolerance = 100 * ctx.mpf(10) ** (-_NEAREST_DIGITS)
+            tolerance = 100 * ctx.mpf(10) ** (-goal)
             residual, jacobian = function(ctx.matrix(x0))
             z, converged, _, _ = mp_gauss_newton(function, ctx.matrix(x0), ctx, tolerance=tolerance,
                                                  max_iterations=40)
@@ -613,8 +631,10 @@ class _Checker:
                     if converged and distance < best_distance:
                         best, best_distance = z, distance
             back = [1] * self.n if factors is None else factors
+            self.last_nearest_offset = None
             if best is None:
                 return np.array([complex(v / f) for v, f in zip(x0, back)]), False
+            self.last_nearest_offset = np.array([complex((best[j] - x0[j]) / back[j]) for j in range(self.n)])
             return np.array([complex(best[j] / back[j]) for j in range(self.n)]), True
 
     def find_rank_drop(self, point, rank, ctx, digits):
@@ -839,6 +859,9 @@ class _Checker:
         needed = self.separation(refined)
         if needed is not None and needed < opts.max_digits:
             schedule = sorted(set(schedule) | {max(needed, 30)})
+        if position in self.fine:  # decision 0132: below the data's own digits a distance says nothing
+            finest = self.fine[position][1]
+            schedule = sorted({d for d in schedule if d >= finest} | {finest})
         history = []
         tolerance = self.tolerance_for(given, position)
         current = [complex(v) for v in refined]
@@ -853,13 +876,13 @@ class _Checker:
                 history.append(values[codim - 1] if codim - 1 < len(values) else 0.0)
                 found = self.find_rank_drop(on_x, codim - 1, ctx, digits)
                 found_precise = self.last_drop_precise if found is not None else None
-                if found is None or self.from_given(given, found) > tolerance:
+                if found is None or self.from_given_precise(given, found, position) > tolerance:
                     # Where the rank drops further (a cone's vertex, J = 0), "rank <= codim - 1" has a
                     # family of kernels at the point and Newton stalls; "rank <= r" for the lower r the
                     # point has is regular there. Such a point has rank <= codim - 1 as well.
                     for lower in range(codim - 2, -1, -1):
                         deeper = self.find_rank_drop(on_x, lower, ctx, digits)
-                        if deeper is not None and self.from_given(given, deeper) <= tolerance:
+                        if deeper is not None and self.from_given_precise(given, deeper, position) <= tolerance:
                             found = deeper
                             break
                     else:  # none: judge the first one found (if any) at its own precise point
@@ -867,8 +890,8 @@ class _Checker:
                 # below the separation digits a drop at the point may be one of the equations changed in their last
                 # digit: more digits decide, or the c-th value's stability (smooth)
                 too_few = needed is not None and digits < needed
-                if found is not None and not (too_few and self.from_given(given, found) <= tolerance):
-                    distance = self.from_given(given, found)
+                if found is not None and not (too_few and self.from_given_precise(given, found, position) <= tolerance):
+                    distance = self.from_given_precise(given, found, position)
                     at_found, scales_found = self.scaled_values_mp(self.last_drop_precise, ctx)
                     if distance <= tolerance:
                         return _Decision(outcome=Verdict.SINGULAR, point=found, values=at_found, scales=scales_found,
@@ -1080,6 +1103,22 @@ class _Checker:
                      f"multiplicity of component {component.id}, which was not counted ({why}).")
         return Verdict.UNDECIDED
 
+    def full_rank_within_tolerance(self, given, refined, codim, position):
+        """Whether J clearly keeps rank ``codim`` on the ball of the point tolerance around ``refined`` (decision
+        0117's test), so that no rank drop is within it; True without a tolerance (exact data).
+
+        A c-th scaled singular value above the suspect threshold says the point is not at a rank drop, not that
+        none is within a tolerance the user gave: a node 1.4e-3 from a point of X judged with tolerance 1e-2
+        (decision 0132). Where the test is not clear, the escalation looks for the drop.
+        """
+        tolerance = self.tolerance_for(given, position)
+        if not tolerance:
+            return True
+        reach = tolerance + self.from_given(given, refined)
+        if self.in_user_units:  # a ball in the user's units lies within this one in the computed units
+            reach = reach / float(np.min(self.user_scaling.variable_factors))
+        return bool(self.full_rank_around(np.asarray(refined)[None, :], codim, np.array([reach]))[0])
+
     def not_separated(self, given, decision, position):
         """The note of an undecided escalation: what separates the point from a rank drop (decision 0110)."""
         tolerance = self.tolerance_for(given, position)
@@ -1099,6 +1138,10 @@ class _Checker:
         # exact data on X: the exact rank is the rank, before any numerical one (decision 0122)
         rank = exact_rank if exact_rank is not None else numerical_rank(values, double_zero)
         codim, source = self.codimension(rank, through)
+        # decision 0132: rounded data finer than double, its decimal exactly on X with J of full rank there: the
+        # given point is smooth, but the data stand for every point within their reach, so a rank drop within it
+        # is sought in mpmath (distances from the exact decimal) as for other rounded data
+        fine_full = position in self.fine and exact_rank is not None and bool(codim) and exact_rank >= codim
         notes = []
         if through is not None and not through and opts.local_dimension is None:
             notes.append("The decomposition found no component through this point (it may lie below the "
@@ -1118,12 +1161,13 @@ class _Checker:
                          "rank-deficient Jacobian); give it to decide.")
         elif codim == 0:
             decision.outcome = Verdict.SMOOTH if rank == 0 else Verdict.UNDECIDED
-        elif exact_rank is not None:
+        elif exact_rank is not None and not fine_full:
             # Decision 0122: F(p) = 0 and rank J(p) are exact, and decide below; the escalation in mpmath has
             # nothing to add to the verdict (it took > 300 s at a node, and at a smooth point, of 14 unknowns); a
             # rank drop nearby that the batch in double found is kept for the report
             decision = self.settled.get(position) or decision
-        elif codim <= len(values) and values[codim - 1] > opts.suspect_threshold:
+        elif (codim <= len(values) and values[codim - 1] > opts.suspect_threshold
+              and self.full_rank_within_tolerance(given, refined, codim, position)):
             decision.outcome = Verdict.SMOOTH
         else:
             escalated = True
@@ -1137,7 +1181,7 @@ class _Checker:
                                  f"{opts.max_digits} (--digits): undecided (decision 0109).")
                 else:
                     notes.append(self.not_separated(given, decision, position))
-        if exact_rank is not None and codim:  # F(p) = 0 exactly: the rank at p, in exact arithmetic, decides
+        if exact_rank is not None and codim and not fine_full:  # F(p) = 0 exactly: the exact rank at p decides
             decision.outcome = Verdict.SMOOTH if exact_rank >= codim else Verdict.SINGULAR
             if decision.outcome is Verdict.SINGULAR:
                 decision.point, decision.drop, decision.drop_distance = refined, refined, 0.0
@@ -1146,7 +1190,7 @@ class _Checker:
         digits = decision.digits
         zero = zero_tolerance(digits, (self.m, self.n))
         final_values = np.array(decision.values, dtype=float)
-        rank = exact_rank if exact_rank is not None and codim else numerical_rank(final_values, zero)
+        rank = exact_rank if exact_rank is not None and codim and not fine_full else numerical_rank(final_values, zero)
         verdict = decision.outcome
         if verdict is Verdict.SMOOTH and codim is not None and rank < codim:
             rank = codim  # a stable small singular value: nonzero, only below the zero rule's reach
@@ -1273,13 +1317,17 @@ def _as_points(points, system):
         if len(coordinates) != system.n_variables:
             raise PointError(f"has {len(coordinates)} coordinates, the system has {system.n_variables} variables",
                              index)
-        try:
-            values = np.array([complex(c) for c in coordinates], dtype=complex)
-        except (TypeError, ValueError) as err:
+        try:  # text is read as the command line reads a coordinate (decision 0132)
+            read = [parse_constant(c.strip()) if isinstance(c, str) else c for c in coordinates]
+            values = np.array([complex(c) for c in read], dtype=complex)
+        except ParseError as err:
+            raise PointError(f"a coordinate is not a number: {err.reason} (column {err.column})", index) from None
+        except (TypeError, ValueError, OverflowError) as err:
             raise PointError(f"coordinates must be numbers ({err})", index) from None
         if not np.all(np.isfinite(values)):
             raise PointError("has a non-finite coordinate", index)
-        exact_coordinates, point_radii = point_precision(coordinates)  # decision 0072: the digits given
+        # decisions 0072 and 0132: exact, or rounded data as far as the digits written say
+        exact_coordinates, point_radii = point_precision(read)
         if system.projective:
             if np.all(values == 0):
                 raise PointError("all homogeneous coordinates are zero: not a projective point", index)
@@ -1368,13 +1416,21 @@ def check_points(system, points, options=None, seed=None, decomposition=None, ac
             for a, e, r in zip(stated, exact, user_radii)]
     radii = [float(np.linalg.norm(scaling.to_computed(r[None, :].astype(complex))[0])) if not system.projective
              else float(np.linalg.norm(r)) for r in user_radii]
+    fine = {}  # decision 0132: rounded data finer than double, with exact coefficients, is measured in mpmath
+    for k, (kind, radius) in enumerate(zip(data, radii)):
+        relative = radius / _size(given[k])
+        if kind is _PointData.ROUNDED and exact_coefficients and not system.projective and 0 < relative < 2.0 ** -52:
+            fine[k] = min(options.max_digits, math.ceil(-math.log10(relative)) + _FINE_EXTRA_DIGITS)
+    rule = _DataRule(data=data, radii=radii, coefficient_tolerance=input_tolerance(system) or 0.0, stated=stated,
+                     fine=fine)
     verdicts = _check_in_units(scaling.scale_system(system), given, exact, options, seed, rng, decomposition,
-                               scaling, _DataRule(data=data, radii=radii,
-                                                  coefficient_tolerance=input_tolerance(system) or 0.0,
-                                                  stated=stated))
+                               scaling, rule)
     checker = _Checker(system, options, rng)  # distances in the user's units
     for verdict, point in zip(verdicts, user_given):
         _to_user_units(verdict, point, scaling, checker)
+    for k, offset in rule.offsets.items():  # decision 0132: doubles cannot show a distance finer than theirs
+        if verdicts[k].judged is not JudgedPoint.GIVEN and math.isfinite(verdicts[k].distance):
+            verdicts[k].distance = float(np.linalg.norm(np.asarray(offset) * scaling.variable_factors))
     for verdict, kind, point_radii in zip(verdicts, data, user_radii):
         _state_what_the_data_says(verdict, kind, float(np.linalg.norm(point_radii)))
     for verdict, accuracy in zip(verdicts, stated):
@@ -1468,6 +1524,14 @@ class _DataRule:
     radii: list
     coefficient_tolerance: float  # what the coefficients cannot resolve (decision 0062's input tolerance), 0 exact
     stated: list = None  # each point's stated relative accuracy (a saved singular report's), or None
+    fine: dict = None  # decision 0132: position -> working digits of rounded data finer than double
+    #: ... -> the offset of the nearest point of X found from the exact decimal (mpmath, computed units)
+    offsets: dict = field(default_factory=dict)
+
+    def floor(self, k):
+        """Relative: how finely distances from the point are measured -- between doubles (2^-52 of the point), or
+        in mpmath from the exact decimal for data finer than double (decision 0132)."""
+        return 10.0 ** -self.fine[k] if self.fine and k in self.fine else 2.0 ** -52
 
     @property
     def coefficient_radius(self):
@@ -1483,9 +1547,10 @@ class _DataRule:
     def reach(self, k, given, coefficients=True):
         """Rounded data: how far the point a verdict speaks about may be from the given one (with or without
         what the coefficients' rounding can move X)."""
-        # distances are measured between doubles: their rounding (2^-52 of the point) is a floor of the radius
+        # distances are measured between doubles (2^-52 of the point), or in mpmath for data finer than that: the
+        # precision they are measured at is a floor of the radius
         share = self.coefficient_radius if coefficients else 0.0
-        return DATA_MARGIN * (self.radii[k] + (2.0 ** -52 + share) * _size(given))
+        return DATA_MARGIN * (self.radii[k] + (self.floor(k) + share) * _size(given))
 
     def on_within_coefficients(self, residual):
         """Rounded coefficients: a scaled residual they explain (a relative change of them within their
@@ -1511,6 +1576,9 @@ def _check_in_units(system, given, exact, options, seed, rng, decomposition, sca
     on_variety = projection.mask(ZeroKind.ZERO)
     moved = np.array([checker.from_given(given[k], refined[k]) for k in range(len(given))])
     exact_ranks, on_exactly = [None] * len(given), [None] * len(given)
+    fine = rule.fine or {}
+    for k, digits in fine.items():
+        checker.fine[k] = (exact[k], digits)
     unreached = set()  # F not zero exactly, zero in double, and extended precision reached no point of X
     for k in range(len(given)):
         kind = rule.data[k]
@@ -1520,23 +1588,29 @@ def _check_in_units(system, given, exact, options, seed, rng, decomposition, sca
             checker.inferred.add(k)
         if rule.stated and rule.stated[k] is not None:
             checker.tolerances[k] = rule.stated[k] * (1.0 if system.projective else _size(given[k]))
-        if rule.exact_data(k) and exact[k] is not None:
-            # Decision 0072: membership of exact data in exact arithmetic, not by a residual in double
+        if (rule.exact_data(k) or k in fine) and exact[k] is not None:
+            # Decision 0072: membership of exact data in exact arithmetic, not by a residual in double; decision
+            # 0132: also of the decimal given, when it is finer than double (its exact rank first)
             on_exactly[k] = checker.vanishes_exactly(exact[k])
             if on_exactly[k]:
                 refined[k], on_variety[k], moved[k] = given[k], True, 0.0
-                if kind is _PointData.EXACT:
+                if kind is _PointData.EXACT or k in fine:
                     exact_ranks[k] = checker.exact_rank(exact[k])
-                    if exact_ranks[k] is None:  # too large for exact arithmetic: a rank drop at mpmath's reach
+                    # too large for exact arithmetic: a rank drop at mpmath's reach
+                    if exact_ranks[k] is None and k not in fine:
                         checker.tolerances[k] = 10.0 ** -DOUBLE_DIGITS * _size(given[k])
                 continue
         if kind is not _PointData.TOLERANCE or on_exactly[k] is False:
             # the nearest point of X to the data itself (exact decimals or the rounded digits), in mpmath: in
             # double the rounding of F near a singular point moves Newton's point by more than the data's radius
-            found, converged = checker.nearest_on_x(exact[k] if exact[k] is not None else given[k])
+            found, converged = checker.nearest_on_x(exact[k] if exact[k] is not None else given[k],
+                                                    fine.get(k, _NEAREST_DIGITS))
             if converged:  # else double precision's answer stands (slow convergence at a cusp, say)
                 refined[k] = normalize_projective(found) if system.projective else found
                 on_variety[k], moved[k] = True, checker.from_given(given[k], refined[k])
+                if k in fine:  # decision 0132: the distance from the exact decimal, measured in mpmath
+                    moved[k] = float(np.linalg.norm(checker.last_nearest_offset))
+                    rule.offsets[k] = checker.last_nearest_offset
             elif on_exactly[k] is False and moved[k] == 0:
                 # ... but not where double accepted the given point itself, which exact arithmetic refutes (the
                 # rounding of an expanded polynomial far from the origin hides F there). Nor is it off X: no
@@ -1553,8 +1627,9 @@ def _check_in_units(system, given, exact, options, seed, rng, decomposition, sca
             off[k] = True
         if rule.data[k] is _PointData.ROUNDED:
             # on X when Newton's point is within the digits' reach, or the coefficients' rounding explains F there
-            off[k] = not rule.on_within_coefficients(float(residual_given[k])) and (
-                not on_variety[k] or moved[k] > rule.reach(k, given[k], coefficients=False))
+            # (data finer than double: F exactly zero at the decimal; a residual in double says nothing there)
+            explained = on_exactly[k] if k in fine else rule.on_within_coefficients(float(residual_given[k]))
+            off[k] = not explained and (not on_variety[k] or moved[k] > rule.reach(k, given[k], coefficients=False))
     values, scales = [None] * len(given), [None] * len(given)
     on = np.nonzero(~off)[0]
     if len(on):
@@ -1581,13 +1656,15 @@ def _check_in_units(system, given, exact, options, seed, rng, decomposition, sca
     checker.settle_in_double(given[~off], refined[~off], [values[k] for k in np.nonzero(~off)[0]],
                              [scales[k] for k in np.nonzero(~off)[0]], [through[k] for k in np.nonzero(~off)[0]],
                              positions=np.nonzero(~off)[0],
-                             exact=[exact[k] if rule.data[k] is _PointData.EXACT and on_exactly[k] is not False
-                                    else None for k in np.nonzero(~off)[0]])  # exact data: left to exact ranks
+                             exact=[exact[k] if (rule.data[k] is _PointData.EXACT and on_exactly[k] is not False)
+                                    or k in fine else None for k in np.nonzero(~off)[0]])
+    # exact data: left to exact ranks; data finer than double: to mpmath (decision 0132)
     # decisions first, then the non-reduced sampling of every singular one in shared batches (the same random
     # draws, in the same order, as one sampling per point), then the verdicts
     for k in np.nonzero(~off)[0]:
-        checker.judged[k] = checker.decide(given[k], None if on_exactly[k] is False else exact[k], refined[k],
-                                           values[k], scales[k], through[k], position=k, exact_rank=exact_ranks[k])
+        checker.judged[k] = checker.decide(given[k], None if on_exactly[k] is False and k not in fine else exact[k],
+                                           refined[k], values[k], scales[k], through[k], position=k,
+                                           exact_rank=exact_ranks[k])
     singular = [k for k, judged in checker.judged.items() if judged.verdict is Verdict.SINGULAR]
     answers = checker.rank_drops_near_all([(np.asarray(checker.judged[k].decision.point), checker.judged[k].codim)
                                            for k in singular])
@@ -1597,7 +1674,8 @@ def _check_in_units(system, given, exact, options, seed, rng, decomposition, sca
                              ZeroKind.UNDECIDED if k in unreached else projection.kinds[k],
                              float(projection.after[k]), values[k], scales[k], unreached=k in unreached)
                 if off[k] else
-                checker.check(k + 1, given[k], None if on_exactly[k] is False else exact[k], refined[k],
+                checker.check(k + 1, given[k], None if on_exactly[k] is False and k not in fine else exact[k],
+                              refined[k],
                               float(residual_given[k]), values[k], scales[k], through[k], position=k,
                               exact_rank=exact_ranks[k]) for k in range(len(given))]
     for k, verdict in enumerate(verdicts):
@@ -1610,6 +1688,10 @@ def _check_in_units(system, given, exact, options, seed, rng, decomposition, sca
         if rule.data[k] is _PointData.ROUNDED and verdict.verdict.is_singular:
             # the nearest point of X found, kept beside the rank drop the verdict speaks about (decision 0072)
             verdict.point, verdict.distance = refined[k], float(moved[k])
+        if k in fine and on_exactly[k] and verdict.verdict is Verdict.SMOOTH:
+            # decision 0132: the decimal given is on X exactly, J has full rank there and no rank drop is within the
+            # data's reach: the verdict holds of the given point itself
+            verdict.judged, verdict.point, verdict.distance = JudgedPoint.GIVEN, given[k], 0.0
     return verdicts
 
 
@@ -1645,11 +1727,11 @@ def _state_what_the_data_says(verdict, kind, radius):
                                     f"{radius:.3g}; the nearest point of X found is farther than {DATA_MARGIN:g} times "
                                     "that.")
         return
-    if verdict.on_x_exactly is False:  # a tolerance was given: the nearest point of X was judged
+    if verdict.on_x_exactly is False and kind is not _PointData.ROUNDED:  # a tolerance given: the nearest point judged
         verdict.notes.insert(0, f"The given point is not on X (F does not vanish there in exact arithmetic); the "
                                 f"verdict is about {verdict.judged.value if verdict.judged else 'the nearest point'}, "
                                 f"within the point tolerance (that point is {verdict.distance:.3g} away).")
-    if kind is _PointData.ROUNDED and verdict.judged is JudgedPoint.GIVEN:
+    if kind is _PointData.ROUNDED and verdict.judged is JudgedPoint.GIVEN and not verdict.on_x_exactly:
         verdict.judged = JudgedPoint.NEAREST_ON_X  # rounded data: the point of X it stands for, at double's reach
     if kind is _PointData.ROUNDED and verdict.verdict.is_singular:
         # Rounded data stand for every point within their reach: a rank drop there is what the data say (the

@@ -331,7 +331,7 @@ def _read_coordinate(value, name, index):
         raise PointError(f"value of {name} must be a number, got {value!r}", index)
     if isinstance(value, str):
         try:
-            return parse_constant(value.strip())
+            return parse_constant(value.strip())  # with what its decimals say (decision 0132)
         except ParseError as err:
             raise PointError(f"value of {name}: {err.reason} (column {err.column})", index) from None
     if isinstance(value, int):

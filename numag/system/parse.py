@@ -42,7 +42,8 @@ from ..errors import InputError, LimitError, ParseError
 from .exact import MAX_COEFFICIENT_BITS, ExactCoefficient, _check_size
 from .polynomial import DEFAULT_LIMITS, RESERVED_NAMES, Polynomial, PolynomialSystem
 
-__all__ = ["parse_polynomial", "parse_system", "parse_constant", "is_valid_name", "MAX_EQUATION_LENGTH",
+__all__ = ["parse_polynomial", "parse_system", "parse_constant", "WrittenConstant",
+           "literal_precision", "is_valid_name", "MAX_EQUATION_LENGTH",
            "MAX_NESTING", "MAX_TOKENS"]
 
 #: Longest equation text accepted (characters): room for some 500,000 written-out terms.
@@ -122,6 +123,30 @@ def literal_digits(literal):
     return len(digits) if places > 0 else 0
 
 
+def literal_precision(literal):
+    """A number literal written with decimal places: its significant digits as written, trailing zeros included
+    (``0.500`` states three digits, ``1.000`` four), and the unit of its last written digit; None for a literal
+    written as an integer (``120``, ``1.5e3``).
+
+    What a point's coordinate written as a decimal says about its accuracy (decision 0132):
+    ``0.6000000000000000000100000`` is known to half of 1e-25, whatever its value's shortest decimal.
+
+    Examples
+    --------
+    >>> literal_precision("0.500"), literal_precision("1.50e-3"), literal_precision("120")
+    ((3, Fraction(1, 1000)), (3, Fraction(1, 100000)), None)
+    """
+    match = _NUMBER.fullmatch(literal)
+    if match is None:
+        return None
+    mantissa, exponent = match.group(1), int(match.group(2) or 0)
+    whole, _, fraction = mantissa.partition(".")
+    places = len(fraction) - exponent  # decimal places as written
+    if places <= 0:  # written as an integer
+        return None
+    return len((whole + fraction).lstrip("0")), Fraction(1, 10 ** places)
+
+
 def _number_value(token, text):
     match = _NUMBER.fullmatch(token.text)
     mantissa, exponent = match.group(1), match.group(2)
@@ -147,6 +172,8 @@ class _Parser:
         self.n = len(variables)
         self.limits = limits
         self.literal_digits = 0  # the most significant digits of a non-integer literal read (decision 0062)
+        self.decimals = []  # (column, text) of each literal not written as digits alone (decision 0132)
+        self.shifts = {}  # column -> a change of that literal's value (decision 0132: what its last digit moves)
         if len(text) > MAX_EQUATION_LENGTH:
             raise ParseError(f"text longer than {MAX_EQUATION_LENGTH} characters", column=1)
         self.tokens = _tokenize(text)
@@ -372,6 +399,9 @@ class _Parser:
             value = _number_value(token, self.text)
             if value.denominator != 1:
                 self.literal_digits = max(self.literal_digits, literal_digits(token.text))
+            if not token.text.isdigit():  # maybe decimal places written (decision 0132: literal_precision)
+                self.decimals.append((token.column, token.text))
+                value += self.shifts.get(token.column, 0)
             return _Monomial(value.numerator if value.denominator == 1 else value, {}, 0)
         if token.kind == "name":
             self.advance()
@@ -493,8 +523,11 @@ def parse_polynomial(text, variables, limits=DEFAULT_LIMITS):
     return _parse(text, variables, limits)[0]
 
 
-def _parse(text, variables, limits):
-    """:func:`parse_polynomial`, and the most significant digits of a non-integer literal in the text."""
+def _parse(text, variables, limits, shifts=None, decimals=None):
+    """:func:`parse_polynomial`, and the most significant digits of a non-integer literal in the text.
+
+    ``shifts``: column -> a change of the value of the non-integer literal there; ``decimals``: a list to which
+    the (column, text) of each non-integer literal is appended."""
     if not isinstance(text, str):
         raise ParseError(f"an equation must be text, got {type(text).__name__}")
     # Reading creates a million small objects and no reference cycle: the cycle collector, triggered
@@ -503,7 +536,11 @@ def _parse(text, variables, limits):
     gc.disable()
     try:
         parser = _Parser(text, variables, limits)
-        return parser.equation(), parser.literal_digits
+        parser.shifts = shifts or {}
+        result = parser.equation(), parser.literal_digits
+        if decimals is not None:
+            decimals.extend(parser.decimals)
+        return result
     finally:
         if collecting:
             gc.enable()
@@ -514,15 +551,54 @@ def parse_constant(text):
 
     Returns
     -------
-    ExactCoefficient
+    WrittenConstant
+        The exact value, with the decimal literals as written (an :class:`ExactCoefficient`).
 
     Examples
     --------
     >>> complex(parse_constant("1/2 - 3*I"))
     (0.5-3j)
+    >>> [(digits, float(unit)) for _, digits, unit in parse_constant("0.6000000000000000000100000 + 1/3").decimals]
+    [(25, 1e-25)]
+    >>> parse_constant("3/5 + 1/10^20").decimals
+    ()
     """
+    found = []
+    value = _constant(text, decimals=found)
+    written = WrittenConstant(value.parts)
+    written.text = text
+    written.decimals = tuple((column, *literal_precision(literal)) for column, literal in found
+                             if literal_precision(literal) is not None)
+    return written
+
+
+class WrittenConstant(ExactCoefficient):
+    """A constant as read from text: its exact value, and the decimal literals written in it.
+
+    ``decimals`` holds, for each literal that is not an integer, its column, its significant digits as written
+    (trailing zeros included) and the unit of its last written digit. Whether such a decimal is rounded data is
+    the reader's rule (decision 0132: :func:`numag.singular.nearness.point_precision`); integers, rationals and
+    square roots are exact. Arithmetic gives plain :class:`ExactCoefficient`.
+    """
+
+    __slots__ = ("text", "decimals")
+
+    def moved_by(self, column, change):
+        """How far the constant moves when the literal at ``column`` changes by ``change`` (exactly, then as a
+        float): ``0.12345678901234567*1000`` moves 1000 times its literal.
+
+        Examples
+        --------
+        >>> c = parse_constant("0.12345678901234567*1000")
+        >>> c.moved_by(c.decimals[0][0], Fraction(1, 10 ** 17))
+        1e-14
+        """
+        return abs(complex(_constant(self.text, shifts={column: change}) - self))
+
+
+def _constant(text, shifts=None, decimals=None):
     try:
-        polynomial = parse_polynomial(text, [])
+        polynomial = _parse(text, [], DEFAULT_LIMITS, shifts, decimals)[0]
     except ParseError as err:
         if err.reason.startswith("unknown variable"):
             raise ParseError(f"found {err.reason.split()[2]} where a number was expected (a value cannot "
