@@ -133,3 +133,27 @@ def test_exact_coordinates_of_another_point_are_refused():
     report["points"][0]["data_radius"] = 0.0
     with pytest.raises(InputError, match="given_exact"):
         certify_report(report, CertifyOptions(digits=20))
+
+
+E6 = "((x+2*y)/1000-1/3)^3 + ((y-3*z)/1000+5/7)^4 + ((x-z)/1000+2)^2"
+
+
+@pytest.mark.parametrize("seed", [1, 2, 3])
+@pytest.mark.parametrize("unit", [Fraction(1), Fraction(1000), Fraction(1, 1000)])
+def test_a_triple_point_given_numerically_is_certified_at_its_rational_value(seed, unit):
+    # u^3 + v^4 + w^2 with u, v, w rational linear forms (an E6 point where u = v = w = 0); sympy solves the
+    # linear system and finds F = 0 and rank J = 0 at the rational point. A point computed 1e-15 off it
+    # (relative), as the singular locus returns it, is certified at the exact point in every unit.
+    variables = ["x", "y", "z"]
+    equation = "".join(f"({ch}/({unit}))" if ch in variables else ch for ch in E6)
+    x, y, z = sympy.symbols(variables)
+    exact = sympy.solve([(x + 2 * y) / 1000 - sympy.Rational(1, 3), (y - 3 * z) / 1000 + sympy.Rational(5, 7),
+                         (x - z) / 1000 + 2], [x, y, z], dict=True)[0]
+    point = [exact[s] * sympy.Rational(str(unit)) for s in (x, y, z)]
+    value, rank = _sympy_rank(equation, variables, point)
+    assert value == 0 and rank == 0
+    given = [complex(float(c) * (1 + 2e-15), 1e-15 * abs(float(c))) for c in point]
+    certificate = certify_singular_point(parse_system([equation], variables), given, 1,
+                                         CertifyOptions(digits=30, max_digits=50, seed=seed))
+    assert certificate.status == "certified" and certificate.kind == "exact"
+    assert certificate.exact_coordinates == [str(c) for c in point] and certificate.rank_upper == rank

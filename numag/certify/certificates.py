@@ -99,7 +99,7 @@ from .equations import _minor_equations, _restrict, singularity_equations
 from .intervals import _bounds, _iv_box
 from .rank import (_box_around, _chart_view, _dual_multiplicity, _hull_view, _numerical_ranks, _proved_rank,
                    _sampled_codimension)
-from .recognition import _SUBSTITUTION_TERMS
+from .recognition import _SUBSTITUTION_TERMS, _exact_box
 from .records import (Certificate, CertifyOptions, Claim, ClaimCheck, ClaimStatus, CodimensionNeed, Kind, Status,
                       _float_up, _guarded, _parse_center, _text, working_digits)
 from .square import _gauss_newton_double
@@ -146,17 +146,7 @@ def _at_exact_point(system, exact, claim, options):
     powers = [[ExactCoefficient.rational(1)] for _ in exact]
     values = [p.evaluate_exact(exact, powers) for p in polynomials]
     digits = options.digits
-    texts, radii = [], []
-    with working_digits(_guarded(digits)):
-        for q in exact:
-            value = q.to_context(mpmath.mp)
-            text = _text(value, digits)
-            shown = _parse_center(text)
-            # the centre is written with ``digits`` digits: the box is widened by that rounding, and by the
-            # error of the guarded evaluation of an irrational coordinate, so the exact point stays inside
-            slack = mpmath.mp.mpf(10) ** (-_guarded(digits) + 3) * (1 + abs(value))
-            radii.append(_float_up(max(abs(shown.real - value.real), abs(shown.imag - value.imag)) + slack))
-            texts.append(text)
+    texts, radii = _exact_box(exact, digits)
     center = np.array([complex(q) for q in exact], dtype=complex)
     certificate = Certificate(status=Status.CERTIFIED, kind=Kind.EXACT, claim=claim, center=center,
                               center_text=texts, radius=max(radii, default=0.0), radii=radii, digits=digits,
