@@ -134,10 +134,15 @@ def test_rank_bounds_at_a_node_and_at_a_smooth_point():
     # the node of y^2 = x^2 (x + 1): J = (-3 x^2 - 2 x, 2 y) vanishes at (0, 0), rank 0 exactly; at (3, 6) on
     # the curve J = (-33, 12), rank 1 (worked by hand)
     node = parse_system(["y^2 - x^2*(x + 1)"], ["x", "y"])
-    at_node = certify_rank(node, [1e-13, -2e-13])
+    at_node = certify_rank(node, [0.0, 0.0])
     assert at_node.status == "certified" and at_node.kind == "exact"
     assert at_node.rank_lower == 0 and at_node.rank_upper == 0
     assert at_node.exact_coordinates == ["0", "0"]
+    # 2e-13 from the node J = (-2e-13, -4e-13) has rank 1: the node's rank 0 is no statement about this point
+    # (decision 0133), so it is not what gets certified there
+    beside = certify_rank(node, [1e-13, -2e-13])
+    assert not (beside.status == "certified" and beside.rank_upper == 0)
+    assert beside.status != "certified" or beside.rank_lower == 1
     smooth = certify_rank(node, [3.0, 6.0])
     assert smooth.status == "certified" and smooth.rank_lower == 1 and smooth.lower_singular_value > 0
     assert smooth.radius < 1e-20

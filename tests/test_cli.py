@@ -183,9 +183,10 @@ def test_solve_and_check_with_certify_switch(tmp_path):
     data = json.loads(text)
     assert code == EXIT_OK and data["certification"]["counts"]["certified"] == 4
     assert all(s["certificate"]["real"] is True for s in data["solutions"])
+    # (1, 2) is given exactly: F = 0 there and J = [[2, 4], [2, 1]] has rank 2 (det -6), decided exactly
     code, text = run(["check", str(path), "--point", "x=1,y=2", "--certify"])
-    assert code == EXIT_OK and "certified (exact, implicit function theorem, Krawczyk, smooth point)" in text
-    assert "rank J >= 2 on the box" in text
+    assert code == EXIT_OK and "certified (exact, exact substitution, smooth point)" in text
+    assert "rank J = 2: >= 2 on the box" in text
     code, text = run(["check", str(EXAMPLES / "parallel_linkage.toml"), "--point", "c1=1,s1=0,c2=1,s2=0",
                       "--certify", "--seed", "1"])
     assert code == EXIT_OK and "certified (exact, exact substitution, singular point)" in text

@@ -32,7 +32,7 @@ import time
 
 import numpy as np
 
-from ..errors import InputError
+from ..errors import InputError, NumagError
 from ..version import __version__
 from ..system.display import counted
 from ..system.files import system_from_mapping
@@ -965,6 +965,9 @@ class _Task:
     slices: int = 0
     at_infinity: bool = False
     multiplicity: object = None
+    exact: object = None      # the point's exact coordinates as texts, where the report gives them (decision 0133)
+    given: object = None      # exact texts of a given point the verdict is not about (it judged a nearby point)
+    verdict: str = ""
 
 
 def _run_task(task):
@@ -973,12 +976,40 @@ def _run_task(task):
     if task.claim is Claim.REGULAR_ZERO:
         return certify_regular_zero(task.system, task.point, task.options, at_infinity=task.at_infinity,
                                     multiplicity=task.multiplicity)
+    point = task.point if task.exact is None else task.exact
     if task.claim is Claim.SMOOTH_POINT:
-        return certify_smooth_point(task.system, task.point, task.codimension, task.options)
-    if task.claim is Claim.RANK:
-        return certify_rank(task.system, task.point, task.options)
-    return certify_singular_point(task.system, task.point, task.codimension, task.options, slices=task.slices,
-                                  at_infinity=task.at_infinity)
+        certificate = certify_smooth_point(task.system, point, task.codimension, task.options)
+    elif task.claim is Claim.RANK:
+        return certify_rank(task.system, point, task.options)
+    else:
+        certificate = certify_singular_point(task.system, point, task.codimension, task.options, slices=task.slices,
+                                             at_infinity=task.at_infinity)
+    if task.given is not None:
+        check = _given_point_check(task)
+        if check is not None:
+            certificate.claim_checks.append(check)
+    return certificate
+
+
+def _given_point_check(task):
+    """The verdict held against the exactly given point, where the report judged a nearby point instead (the
+    digits read as rounded data): a ClaimCheck when exact arithmetic decides it there, else None (decision 0133)."""
+    from ..certify.certificates import certify_rank
+    from ..certify.records import ClaimCheck, ClaimStatus, Kind, Status
+    from ..singular.kinds import Verdict
+    at = certify_rank(task.system, task.given, task.options)
+    if at.kind != Kind.EXACT or at.status == Status.UNDECIDED:
+        return None
+    c = int(task.codimension)
+    if at.status == Status.REFUTED:
+        found, holds = "not on X", False
+    else:
+        found = f"rank J = {at.rank_upper}"
+        holds = at.rank_upper < c if task.verdict == Verdict.SINGULAR else at.rank_upper == c
+    how = (f"exact arithmetic at the point as given ({found}, codimension {c}); the verdict is about a nearby point "
+           "that the report's reading of the digits as rounded allows")
+    return ClaimCheck("verdict at the given point", task.verdict, found,
+                      ClaimStatus.PROVED if holds else ClaimStatus.REFUTED, how)
 
 
 def _certify_batch(batch):
@@ -1018,20 +1049,58 @@ def _singular_tasks(system, component, options, where):
     return [_Task(Claim.SINGULAR_POINT, system, p, options, int(codimension), dimension, at_infinity) for p in points]
 
 
+def _exact_judged_point(system, verdict, where):
+    """The judged point's exact coordinates (texts) when the report gives them and calls the point exact data
+    (the given point judged as it is, data radius 0), else None."""
+    if verdict.get("data_radius") != 0 or verdict.get("given") != verdict.get("point"):
+        return None
+    return _exact_given_point(system, verdict, where)
+
+
+def _exact_given_point(system, verdict, where):
+    """The given point's exact coordinates (texts, checked to read as numbers) when the report gives them."""
+    texts = verdict.get("given_exact")
+    if texts is None or system.projective:
+        return None
+    _require(isinstance(texts, list) and len(texts) == system.n_variables
+             and all(isinstance(t, str) and len(t) <= _MAX_EXACT_TEXT for t in texts),
+             f"{where}'s 'given_exact'", f"a list of {system.n_variables} texts of numbers")
+    from ..system.parse import parse_constant
+    given = _point_of(verdict, "given", system, False, where)
+    for text, double in zip(texts, given):
+        try:
+            value = complex(parse_constant(text))
+        except (NumagError, ArithmeticError, ValueError) as err:
+            raise InputError(f"the report is damaged: {where}'s 'given_exact' holds {text[:40]!r} ({err})") from None
+        # the texts are the point the doubles of 'given' round: anything else is another point
+        _require(abs(value - double) <= 2.0 ** -50 * abs(double), f"{where}'s 'given_exact'",
+                 "the exact coordinates its 'given' doubles round")
+    return list(texts)
+
+
+#: Longest text of one exact coordinate read from a report (a rational of a few thousand digits).
+_MAX_EXACT_TEXT = 20000
+
+
 def _check_task(system, verdict, options, where):
     from ..certify.records import Claim
     from ..singular.kinds import Verdict
     point = _point_of(verdict, "point", system, False, where)
+    exact = _exact_judged_point(system, verdict, where)
     if verdict["verdict"] == "off":
         return _not_certified("the point is not on X (verdict 'off'): there is nothing to certify", point,
                               options.digits)
     codimension = verdict.get("codimension")
+    # an exactly given point the verdict is not about (it judged a nearby one): the verdict is held against it too
+    given = _exact_given_point(system, verdict, where) if exact is None else None
     if verdict["verdict"] == Verdict.SMOOTH and codimension is not None:
-        return _Task(Claim.SMOOTH_POINT, system, point, options, int(codimension))
+        return _Task(Claim.SMOOTH_POINT, system, point, options, int(codimension), exact=exact, given=given,
+                     verdict=Verdict.SMOOTH)
     if verdict["verdict"] == Verdict.SINGULAR and codimension is not None:
-        return _Task(Claim.SINGULAR_POINT, system, point, options, int(codimension))
+        return _Task(Claim.SINGULAR_POINT, system, point, options, int(codimension), exact=exact, given=given,
+                     verdict=Verdict.SINGULAR)
     # no claim the certificate could prove (or no codimension to prove it with): the rank of J, proved
-    return _Task(Claim.RANK, system, point, options)
+    return _Task(Claim.RANK, system, point, options, exact=exact)
 
 
 def _require(condition, where, what):
@@ -1181,14 +1250,22 @@ def certify_report(data, options=None, progress=None, executor=None):
     overlapping = sum(len(overlapping_pairs(group)) for group in spaces.values())
     every = [results[k] for k in range(len(slots))]
     for k, (entry, key, _, _) in enumerate(slots):
-        encoded = certificate_to_dict(results[k])
-        if command == "check" and encoded.get("status") == Status.CERTIFIED:
+        certificate, holds = results[k], None
+        if command == "check" and certificate.status == Status.CERTIFIED:
             # decision 0110: a box that does not hold the point the verdict is about is no proof for that point
-            # (the point is stored in doubles: its rounding, a few units of 2^-52 of its size, is not a distance)
+            # (the point is stored in doubles: its rounding, a few units of 2^-52 of its size, is not a distance);
+            # decision 0133: such a certificate is not "certified" -- the claim it proves is about another point
             size = math.sqrt(1.0 + sum(re * re + im * im for re, im in entry["point"]))
-            encoded["holds_judged_point"] = not (isinstance(encoded.get("distance"), float)
-                                                 and isinstance(encoded.get("radius"), float)
-                                                 and encoded["distance"] > encoded["radius"] + 2.0 ** -48 * size)
+            holds = not (isinstance(certificate.distance, float) and isinstance(certificate.radius, float)
+                         and certificate.distance > certificate.radius + 2.0 ** -48 * size)
+            if not holds:
+                certificate.status = Status.UNDECIDED
+                certificate.reason = (f"the box proves the claim ({certificate.claim}) at a point of X "
+                                      f"{certificate.distance:.2g} from the point the verdict is about, outside the "
+                                      f"box (radius {certificate.radius:.2g}): no proof for the judged point")
+        encoded = certificate_to_dict(certificate)
+        if holds is not None:
+            encoded["holds_judged_point"] = holds
         if key == "certificates":
             entry[key].append(encoded)
         else:

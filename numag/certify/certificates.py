@@ -82,6 +82,7 @@ Examples
 """
 
 from dataclasses import replace
+from fractions import Fraction
 import itertools
 import math
 
@@ -89,13 +90,16 @@ import mpmath
 import numpy as np
 
 from ..errors import InputError
+from ..system.exact import ExactCoefficient, exact_rank
+from ..system.parse import parse_constant
 from ..system.polynomial import Polynomial, PolynomialSystem
 from ..tracking.infinity import top_forms
 from .charts import _SYSTEM_CACHE, _at_infinity, _chart_center, _in_chart, _rank_polynomials
 from .equations import _minor_equations, _restrict, singularity_equations
 from .intervals import _bounds, _iv_box
-from .rank import (_box_around, _chart_view, _dual_multiplicity, _numerical_ranks, _proved_rank,
+from .rank import (_box_around, _chart_view, _dual_multiplicity, _hull_view, _numerical_ranks, _proved_rank,
                    _sampled_codimension)
+from .recognition import _SUBSTITUTION_TERMS, _exact_box
 from .records import (Certificate, CertifyOptions, Claim, ClaimCheck, ClaimStatus, CodimensionNeed, Kind, Status,
                       _float_up, _guarded, _parse_center, _text, working_digits)
 from .square import _gauss_newton_double
@@ -103,6 +107,66 @@ from .zeros import _certify_zero
 
 __all__ = ["certify_regular_zero", "certify_singular_point", "certify_smooth_point", "certify_rank",
            "overlapping_pairs"]
+
+
+
+def _exact_given(point):
+    """The point's exact coordinates when every one is given exactly (an int, a Fraction, an
+    ``ExactCoefficient`` or text in the equation grammar such as ``"37/60"``), else None (numbers in
+    floating point are approximations of the point the caller means)."""
+    if isinstance(point, np.ndarray) and point.dtype != object:
+        return None
+    coordinates = list(point)
+    if not coordinates or not all(isinstance(c, (int, Fraction, ExactCoefficient, str)) and not isinstance(c, bool)
+                                  for c in coordinates):
+        return None
+    exact = []
+    for c in coordinates:
+        if isinstance(c, str):
+            exact.append(parse_constant(c))
+        elif isinstance(c, ExactCoefficient):
+            exact.append(c)
+        else:
+            exact.append(ExactCoefficient.rational(Fraction(c)))
+    return exact
+
+
+def _at_exact_point(system, exact, claim, options):
+    """F and the rank of J at an exact point in exact arithmetic, as a certificate for ``claim``.
+
+    Refuted (kind exact) when an equation of F does not vanish there: the point is not on X. Otherwise
+    certified with ``rank_lower`` = ``rank_upper`` = the exact rank of J; the caller holds the claim
+    against that rank. None where exact arithmetic does not apply (inexact or large equations, a
+    projective system).
+    """
+    polynomials = list(system.polynomials)
+    if (system.projective or len(exact) != system.n_variables or not all(p.is_exact for p in polynomials)
+            or sum(p.n_terms for p in polynomials) > _SUBSTITUTION_TERMS):
+        return None
+    powers = [[ExactCoefficient.rational(1)] for _ in exact]
+    values = [p.evaluate_exact(exact, powers) for p in polynomials]
+    digits = options.digits
+    texts, radii = _exact_box(exact, digits)
+    center = np.array([complex(q) for q in exact], dtype=complex)
+    certificate = Certificate(status=Status.CERTIFIED, kind=Kind.EXACT, claim=claim, center=center,
+                              center_text=texts, radius=max(radii, default=0.0), radii=radii, digits=digits,
+                              method="exact substitution", threshold=10.0 ** (-(digits - options.guard_digits)),
+                              backward_error=0.0, residual_bound=0.0, distance=0.0,
+                              exact_method="exact substitution",
+                              exact_coordinates=[q.to_text() for q in exact],
+                              real=all(q.is_real() for q in exact))
+    certificate.digits_tried = [digits]
+    nonzero = [k for k, v in enumerate(values) if not v.is_zero()]
+    if nonzero:
+        certificate.status = Status.REFUTED
+        certificate.reason = (f"the given point is not on X: equation {nonzero[0] + 1} of F is "
+                              f"{values[nonzero[0]].to_text()} there in exact arithmetic, not 0")
+        return certificate
+    rank = exact_rank([[d.evaluate_exact(exact, powers) for d in row] for row in system.jacobian_polynomials()])
+    certificate.rank_lower = certificate.rank_upper = rank
+    certificate.notes.append(f"decided in exact arithmetic at the given point: F vanishes there and J has rank "
+                             f"{rank}")
+    return certificate
 
 
 def _regular(certificate):
@@ -273,6 +337,9 @@ def certify_singular_point(system, point, codimension=None, options=None, projec
     codimension = int(codimension)
     claim = Claim.SINGULAR_POINT if not slices else Claim.SINGULAR_LOCUS_POINT
     ambient = system.n_variables - (1 if projective else 0)
+    exact = _exact_given(point)
+    if exact is not None:
+        point = [complex(q) for q in exact]
     point = np.asarray(point, dtype=complex)
     if codimension < 1 or codimension > min(system.n_equations, ambient):
         reason = (f"the claimed codimension {codimension} is impossible here: a singular point needs rank J < c "
@@ -283,52 +350,66 @@ def certify_singular_point(system, point, codimension=None, options=None, projec
                                   reason=reason)
         certificate.claim_checks.append(ClaimCheck("codimension", codimension, None, ClaimStatus.REFUTED, reason))
         return certificate
-    target = system
-    if at_infinity:
-        if projective:
-            raise InputError("points at infinity belong to affine systems (a projective system has none)")
-        target = PolynomialSystem(["(w)"] + list(system.variables), [p.homogenize(0) for p in system.polynomials],
-                                  projective=True)
-    cache = _SYSTEM_CACHE.setdefault(system, {})
-    key = (codimension, options.max_minors, options.seed, bool(at_infinity))
-    if key not in cache:  # the minors, their charts and square subsystems serve every point of the system
-        equations, complete = singularity_equations(target, codimension, options.max_minors, options.seed)
-        if at_infinity:
-            equations = [q for q in (_restrict(p, [0]) for p in equations) if not q.is_zero()]
-        cache[key] = (equations, complete, {}, {})
-    equations, complete, charts, squares = cache[key]
     polynomials = list(system.polynomials)
-
-    def run(chart_polynomials, affine):
-        pinned = []
-        if slices:
-            rng = np.random.default_rng(options.seed + 1)
-            n = len(affine)
-            for _ in range(slices):
-                weights = rng.standard_normal(n) + 1j * rng.standard_normal(n)
-                pinned.append(Polynomial.linear(weights, -complex(weights @ affine)))
-        certificate = _certify_zero(chart_polynomials, affine, options, claim, pinned=pinned,
-                                    exact_check=not slices, squares=None if slices else squares)
-        if certificate.kind == Kind.EXACT and not complete:
-            certificate.kind = Kind.NUMERICAL
-            certificate.notes.append("the exact check covered random combinations of the minors, not every "
-                                     "minor: kind stays numerical")
-        return certificate
-
-    if at_infinity:
-        certificate = _at_infinity(equations, point, run, charts, reach=2 * options.match_radius)
+    certificate = None
+    if exact is not None and not (slices or at_infinity):
+        # an exact point is decided by exact arithmetic: F at it and the rank of J there (decision 0133)
+        certificate = _at_exact_point(system, exact, claim, options)
+    if certificate is not None:
+        if certificate.status == Status.REFUTED:
+            return certificate
+        jacobian_polys, chart = polynomials, None
+        if certificate.rank_upper >= codimension:
+            certificate.status = Status.REFUTED
+            certificate.reason = (f"rank J = {certificate.rank_upper} >= {codimension} at the given point in exact "
+                                  f"arithmetic: J does not drop below the claimed codimension {codimension} there")
+            return certificate
     else:
-        certificate = _in_chart(equations, point, projective, run, charts)
-    if not certificate.certified:
-        return certificate
-    # the rank of J: proved below on the box, dropping below c at the exact point when the zero is exact
-    jacobian_polys, chart = _rank_polynomials(system, certificate, projective, at_infinity)
-    certificate.rank_lower, bound = _proved_rank(jacobian_polys, _chart_view(certificate, chart),
-                                                 min(codimension - 1, _numerical_ranks(
-                                                     jacobian_polys, _chart_center(certificate, chart))[1]))
-    certificate.lower_singular_value = None if bound is None or bound == mpmath.mp.inf else _float_up(bound)
-    if certificate.kind == Kind.EXACT:
-        certificate.rank_upper = codimension - 1
+        target = system
+        if at_infinity:
+            if projective:
+                raise InputError("points at infinity belong to affine systems (a projective system has none)")
+            target = PolynomialSystem(["(w)"] + list(system.variables),
+                                      [p.homogenize(0) for p in system.polynomials], projective=True)
+        cache = _SYSTEM_CACHE.setdefault(system, {})
+        key = (codimension, options.max_minors, options.seed, bool(at_infinity))
+        if key not in cache:  # the minors, their charts and square subsystems serve every point of the system
+            equations, complete = singularity_equations(target, codimension, options.max_minors, options.seed)
+            if at_infinity:
+                equations = [q for q in (_restrict(p, [0]) for p in equations) if not q.is_zero()]
+            cache[key] = (equations, complete, {}, {})
+        equations, complete, charts, squares = cache[key]
+
+        def run(chart_polynomials, affine):
+            pinned = []
+            if slices:
+                rng = np.random.default_rng(options.seed + 1)
+                n = len(affine)
+                for _ in range(slices):
+                    weights = rng.standard_normal(n) + 1j * rng.standard_normal(n)
+                    pinned.append(Polynomial.linear(weights, -complex(weights @ affine)))
+            certificate = _certify_zero(chart_polynomials, affine, options, claim, pinned=pinned,
+                                        exact_check=not slices, squares=None if slices else squares)
+            if certificate.kind == Kind.EXACT and not complete:
+                certificate.kind = Kind.NUMERICAL
+                certificate.notes.append("the exact check covered random combinations of the minors, not every "
+                                         "minor: kind stays numerical")
+            return certificate
+
+        if at_infinity:
+            certificate = _at_infinity(equations, point, run, charts, reach=2 * options.match_radius)
+        else:
+            certificate = _in_chart(equations, point, projective, run, charts)
+        if not certificate.certified:
+            return certificate
+        # the rank of J: proved below on the box, dropping below c at the exact point when the zero is exact
+        jacobian_polys, chart = _rank_polynomials(system, certificate, projective, at_infinity)
+        certificate.rank_lower, bound = _proved_rank(jacobian_polys, _chart_view(certificate, chart),
+                                                     min(codimension - 1, _numerical_ranks(
+                                                         jacobian_polys, _chart_center(certificate, chart))[1]))
+        certificate.lower_singular_value = None if bound is None or bound == mpmath.mp.inf else _float_up(bound)
+        if certificate.kind == Kind.EXACT:
+            certificate.rank_upper = codimension - 1
     check = _codimension_check(polynomials, certificate, codimension, CodimensionNeed.AT_LEAST)
     if check is None and at_infinity:
         check = ClaimCheck("codimension", codimension, None, ClaimStatus.UNVERIFIED,
@@ -413,6 +494,9 @@ def certify_smooth_point(system, point, codimension, options=None, projective=No
     projective = system.projective if projective is None else projective
     c = int(codimension)
     ambient = system.n_variables - (1 if projective else 0)
+    exact = _exact_given(point)
+    if exact is not None:
+        point = [complex(q) for q in exact]
     point = np.asarray(point, dtype=complex)
     polynomials = list(system.polynomials)
     m = len(polynomials)
@@ -462,7 +546,18 @@ def certify_smooth_point(system, point, codimension, options=None, projective=No
             return certificate, True
         return certificate, False
 
-    certificate = _with_rising_precision(attempt, options)
+    # an exact point is decided by exact arithmetic: F at it and the rank of J there (decision 0133)
+    certificate = None if exact is None else _at_exact_point(system, exact, Claim.SMOOTH_POINT, options)
+    decided_exactly = certificate is not None
+    if certificate is not None and certificate.certified and certificate.rank_upper != c:
+        certificate.status = Status.REFUTED
+        certificate.reason = (
+            f"rank J = {certificate.rank_upper} < {c} at the given point in exact arithmetic: the Jacobian criterion "
+            f"fails there for codimension {c}" if certificate.rank_upper < c else
+            f"rank J = {certificate.rank_upper} > {c} at the given point in exact arithmetic: X has codimension at "
+            f"least {certificate.rank_upper} there")
+    if certificate is None:
+        certificate = _with_rising_precision(attempt, options)
     if not certificate.certified:
         return certificate
     check = _codimension_check(polynomials, certificate, c, CodimensionNeed.EXACTLY)
@@ -480,7 +575,16 @@ def certify_smooth_point(system, point, codimension, options=None, projective=No
                               f"there ({check.how})")
         return certificate
     certificate.rank_lower = min(certificate.rank_lower, c) if c else 0
-    if check.status == ClaimStatus.PROVED and m == c and certificate.backward_error is None:
+    if decided_exactly and check.status != ClaimStatus.PROVED:
+        certificate.kind = Kind.NUMERICAL  # the rank is exact; the codimension it is held against is not
+    if decided_exactly:
+        if check.status == ClaimStatus.PROVED:
+            certificate.notes.append(f"proved: F vanishes at the given point and rank J = {c} = codimension there "
+                                     "(exact arithmetic)")
+        else:
+            certificate.notes.append(f"rank J = {c} at the given point in exact arithmetic; that X is smooth there "
+                                     f"rests on its codimension {c}, {check.status}: {check.how}")
+    elif check.status == ClaimStatus.PROVED and m == c and certificate.backward_error is None:
         certificate.kind = Kind.EXACT
         certificate.exact_method = "implicit function theorem"
         certificate.notes.append(f"proved: the box holds exactly one point of X on the slices, and rank J >= {c} = "
@@ -493,12 +597,18 @@ def certify_smooth_point(system, point, codimension, options=None, projective=No
 
 
 def certify_rank(system, point, options=None, projective=None):
-    """Prove the rank of J at a point of X near ``point``: rank >= r over a box, and = r at the exact point.
+    """Prove the rank of J at ``point``: rank >= r over a box that holds the point, and = r at a point of X there.
+
+    An exactly given point (ints, Fractions, texts such as ``"37/60"``) is decided in exact arithmetic:
+    refuted when F does not vanish there, else certified with the exact rank of J. A point in floating
+    point stands for the numbers its rounding covers: the rank is proved over a box that holds it and the
+    point of X found, and a drop of the rank proved at a point of X outside that box is no certificate for
+    it (undecided, decision 0133).
 
     Parameters
     ----------
     system : PolynomialSystem
-    point : array_like of complex
+    point : array_like of complex, or of exact numbers
     options : CertifyOptions, optional
         ``max_digits`` above ``digits`` lets the precision rise until the rank is proved.
     projective : bool, optional
@@ -516,9 +626,11 @@ def certify_rank(system, point, options=None, projective=None):
     --------
     >>> from numag.system.parse import parse_system
     >>> node = parse_system(["y^2 - x^2*(x + 1)"], ["x", "y"])
-    >>> c = certify_rank(node, [1e-12, 0.0])
+    >>> c = certify_rank(node, ["0", "0"])
     >>> c.status, c.rank_lower, c.rank_upper, c.kind
     ('certified', 0, 0, 'exact')
+    >>> certify_rank(node, [1e-12, 0.0]).status  # the node's rank 0 is no statement about this point
+    'undecided'
     >>> c = certify_rank(node, [3.0, 6.0])
     >>> c.status, c.rank_lower, c.rank_upper
     ('certified', 1, 1)
@@ -526,6 +638,13 @@ def certify_rank(system, point, options=None, projective=None):
     options = (options or CertifyOptions()).validated()
     projective = system.projective if projective is None else projective
     polynomials = list(system.polynomials)
+    exact = _exact_given(point)
+    if exact is not None:
+        # an exact point is decided by exact arithmetic: F at it and the rank of J there (decision 0133)
+        certificate = _at_exact_point(system, exact, Claim.RANK, options)
+        if certificate is not None:
+            return certificate
+        point = [complex(q) for q in exact]
     point = np.asarray(point, dtype=complex)
 
     def run(chart_polynomials, affine, current):
@@ -572,7 +691,14 @@ def _rank_at(chart_polynomials, affine, r, full, options):
         certificate.reason = f"no point of X with rank J <= {r} near the point: {certificate.reason}"
         return certificate
     on_x = certificate.certified
-    box = certificate if on_x else _box_around(affine, certificate.digits)
+    holds = False
+    if on_x:
+        # the rank is proved on a box that holds the given point (and its rounding) as well as the point of X
+        # found: a lower rank within that reach (a singular line beside a smooth point 2e-16 away) is not
+        # bounded away, and the claim stays open (decision 0133)
+        box, holds = _hull_view(certificate, affine)
+    else:
+        box = _box_around(affine, certificate.digits)
     certificate.rank_lower, bound = _proved_rank(chart_polynomials, box, r)
     certificate.lower_singular_value = None if bound is None or bound == mpmath.mp.inf else _float_up(bound)
     if not on_x:
@@ -587,12 +713,23 @@ def _rank_at(chart_polynomials, affine, r, full, options):
     elif certificate.kind == Kind.EXACT:
         certificate.rank_upper = r
     if certificate.rank_lower == r and certificate.rank_upper == r:
+        if r < full and not holds:
+            # a drop of the rank proved at another point is no statement about the given one (decision 0133)
+            certificate.status = Status.UNDECIDED
+            certificate.reason = (f"rank J = {r} is proved at a point of X {certificate.distance or 0.0:.2g} from the "
+                                  "given point, in a box that does not hold the given point: no proof for it")
+            return certificate
         if r < full or certificate.backward_error is None:
             certificate.kind = Kind.EXACT
+        if not holds:
+            certificate.notes.append(f"rank J >= {r} is proved over a box that holds the given point and the point "
+                                     "of X found")
         return certificate
     certificate.status = Status.UNDECIDED
-    certificate.reason = (f"rank J >= {certificate.rank_lower} is proved on the box; rank {r} "
-                          + ("could not be bounded below" if certificate.rank_lower < r else
+    certificate.reason = (f"rank J >= {certificate.rank_lower} is proved on a box holding the given point and the "
+                          f"point of X found; rank {r} "
+                          + ("could not be bounded below there (a point of lower rank may lie within that reach)"
+                             if certificate.rank_lower < r else
                              "is not proved exact at the point (no exact certificate of the minors)")
                           + f" at {certificate.digits} digits")
     return certificate

@@ -331,6 +331,28 @@ def _chart_view(certificate, chart):
                     certificate.digits)
 
 
+#: A point given in doubles stands for any number its rounding covers: this many units of 2^-52 of each
+#: coordinate's modulus (a double's own rounding is half a unit; the rest is room for its decimal text).
+_DOUBLE_ROUNDING = 2.0 ** -50
+
+
+def _hull_view(box, point):
+    """(a box with ``box``'s centre that also holds ``point`` and its double rounding, whether ``box`` holds them).
+
+    A rank proved on the first box holds at the given point as well as at the point of X in ``box``.
+    """
+    with working_digits(_guarded(box.digits)):
+        center = [_parse_center(v) for v in box.center_text]
+        radii, holds = [], True
+        for c, r, p in zip(center, box.radii, point):
+            p = mpmath.mp.mpc(p)
+            gap = max(abs(c.real - p.real), abs(c.imag - p.imag))
+            slack = mpmath.mp.mpf(_DOUBLE_ROUNDING) * abs(p)
+            holds = holds and gap <= mpmath.mp.mpf(r) + slack
+            radii.append(_float_up(max(mpmath.mp.mpf(r), gap + slack)))
+    return _BoxView(list(box.center_text), radii, box.digits), holds
+
+
 def _box_around(point, digits):
     """A box of radius 10^-(digits - 3) times each coordinate's size around a point (no claim about it)."""
     with working_digits(_guarded(digits)):

@@ -32,41 +32,78 @@ __all__ = ["separation_exponent"]
 _SUBSTITUTION_TERMS = 5000
 
 
-def _exact_at_point(required, point, claim, digits, threshold):
+def _exact_box(exact, digits):
+    """Centre texts (``digits`` digits) and radii of a box that holds the exact point ``exact``: each radius is
+    the rounding of the text, widened by the error of a guarded evaluation of an irrational coordinate."""
+    texts, radii = [], []
+    with working_digits(_guarded(digits)):
+        for q in exact:
+            value = q.to_context(mpmath.mp)
+            text = _text(value, digits)
+            shown = _parse_center(text)
+            slack = mpmath.mp.mpf(10) ** (-_guarded(digits) + 3) * (1 + abs(value))
+            radii.append(_float_up(max(abs(shown.real - value.real), abs(shown.imag - value.imag)) + slack))
+            texts.append(text)
+    return texts, radii
+
+
+def _exact_at_point(required, point, claim, digits, threshold, exact=None):
     """A certificate for the given point itself when every equation vanishes there exactly, else None.
 
     A double is a dyadic rational, so the given coordinates are exact numbers: when the exact equations
     vanish there (a node given as (0, 0), a linkage's branch point (1, 0, 1, 0)), that point is the
-    certified zero, whatever the Jacobian does (also on a positive-dimensional set of zeros).
+    certified zero, whatever the Jacobian does (also on a positive-dimensional set of zeros). ``exact``:
+    other exact coordinates to try instead (``point`` their value in doubles).
     """
     if not all(p.is_exact for p in required) or sum(p.n_terms for p in required) > _SUBSTITUTION_TERMS:
         return None
     values, _, _ = _equilibrated(required, point)
     if not np.all(np.isfinite(values)) or np.linalg.norm(values) > 1e-12:
         return None  # not even nearly a zero in double precision: no exact zero there
-    exact = [ExactCoefficient.from_complex(v) for v in point]
+    given = exact is None
+    exact = [ExactCoefficient.from_complex(v) for v in point] if given else exact
     powers = [[ExactCoefficient.rational(1)] for _ in exact]
     if not all(p.evaluate_exact(exact, powers).is_zero() for p in required):
         return None
-    texts, radii = [], []
-    with working_digits(_guarded(digits)):
-        for v, q in zip(point, exact):
-            text = _text(mpmath.mp.mpc(v), 17)
-            shown = _parse_center(text)
-            # the text rounds the double: the box is widened by that (the exact point stays inside)
-            radii.append(_float_up(max(abs(shown.real - mpmath.mp.mpf(v.real)),
-                                       abs(shown.imag - mpmath.mp.mpf(v.imag)))))
-            texts.append(text)
+    if given:
+        texts, radii = [], []
+        with working_digits(_guarded(digits)):
+            for v in point:
+                text = _text(mpmath.mp.mpc(v), 17)
+                shown = _parse_center(text)
+                # the text rounds the double: the box is widened by that (the exact point stays inside)
+                radii.append(_float_up(max(abs(shown.real - mpmath.mp.mpf(v.real)),
+                                           abs(shown.imag - mpmath.mp.mpf(v.imag)))))
+                texts.append(text)
+    else:
+        texts, radii = _exact_box(exact, digits)
     certificate = Certificate(status=Status.CERTIFIED, kind=Kind.EXACT, claim=claim,
                               center=np.asarray(point, dtype=complex), center_text=texts,
                               radius=max(radii, default=0.0), digits=digits, method="exact substitution",
                               threshold=threshold,
                               radii=radii, backward_error=0.0, residual_bound=0.0, distance=0.0,
                               exact_method="exact substitution", exact_coordinates=[q.to_text() for q in exact],
-                              real=bool(np.all(np.asarray(point, dtype=complex).imag == 0)))
+                              real=all(q.is_real() for q in exact))
     certificate.notes.append("the given point is an exact zero of every equation of the claim (its coordinates "
-                             "are the exact binary values given)")
+                             "are the exact binary values given)" if given else
+                             "an exact zero of every equation of the claim (exact arithmetic)")
     return certificate
+
+
+def _short_rationals(point, reach):
+    """Points of Gaussian rationals with denominators up to 10, 100, ..., 10^6 within ``reach`` of ``point``
+    (each coordinate's best approximations, continued fractions): candidates for an exact zero where the
+    numerical routes failed. Any of them is a certificate only if the exact equations vanish there."""
+    seen = []
+    for k in range(1, 7):
+        bound = 10 ** k
+        parts = [(Fraction(v.real).limit_denominator(bound), Fraction(v.imag).limit_denominator(bound))
+                 for v in np.asarray(point, dtype=complex)]
+        values = np.array([complex(float(re), float(im)) for re, im in parts])
+        if np.max(np.abs(values - point), initial=0.0) > reach or parts in seen:
+            continue
+        seen.append(parts)
+        yield [ExactCoefficient.rational(re, im) for re, im in parts], values
 
 
 def _field_basis(polynomials, complex_values):

@@ -12,7 +12,8 @@ from ..system.display import counted
 from .deflation import _locate
 from .equations import _is_constant, _is_rational, _restrict
 from .intervals import _holds_zero, _iv_box
-from .recognition import _ExactOutcome, _apply_exact, _exact_at_point, _exact_route, _separation
+from .recognition import (_ExactOutcome, _apply_exact, _exact_at_point, _exact_route, _separation,
+                          _short_rationals)
 from .records import Certificate, Kind, Recognition, Status, _float_up, _guarded, _text, alpha_zero, working_digits
 from .square import _account, _publish, _refute
 
@@ -83,6 +84,16 @@ def _certify_zero_at(required, point, options, claim, digits, pinned, exact_chec
                 exact.distance = float(np.max(np.abs(snapped - point)))
                 exact.notes.append("coordinates within the reach of 0 were taken as exact zeros")
                 return exact, None
+        if exact_check and options.exact and not pinned:
+            # decision 0133: rationals of short denominators within the reach (a triple point at -215000/147 in
+            # mm, where deflated Newton fails), each proved or dropped by exact substitution
+            for rational, values in _short_rationals(point, reach):
+                exact = _exact_at_point(required, values, claim, digits, threshold, exact=rational)
+                if exact is not None:
+                    exact.distance = float(np.max(np.abs(values - point)))
+                    exact.notes.append("the coordinates, read as rationals of short denominators within the reach, "
+                                       "are an exact zero")
+                    return exact, None
         # a box of the reach around the point, or one of the match radius relative to each coordinate
         # (a coordinate of size 1e-4 beside one of 1e4 would otherwise get a box that holds 0)
         magnitudes = np.abs(point)

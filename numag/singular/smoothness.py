@@ -58,7 +58,7 @@ from ..kinds import TextEnum
 from ..errors import InputError, ParseError, PointError, is_integer, is_number, require_option
 from ..system.display import html_table, short_point
 from ..system.centred import CENTRED_BALANCING_FLOOR, centre_near, centred_system, translated_terms
-from ..system.exact import ExactCoefficient
+from ..system.exact import ExactCoefficient, exact_rank
 from ..system.parse import parse_constant
 from ..system.polynomial import PolynomialSystem, require_numeric
 from ..numeric.cluster import line_distance, normalize_projective, projective_pivot
@@ -552,20 +552,8 @@ class _Checker:
         if not self.exact_small_enough():
             return None
         powers = [[ExactCoefficient.rational(1)] for _ in exact_point]
-        rows = [[d.evaluate_exact(exact_point, powers) for d in row] for row in self.system.jacobian_polynomials()]
-        rank = 0
-        for column in range(self.n):  # Gaussian elimination: exact numbers, so a zero test is exact
-            pivot = next((i for i in range(rank, len(rows)) if not rows[i][column].is_zero()), None)
-            if pivot is None:
-                continue
-            rows[rank], rows[pivot] = rows[pivot], rows[rank]
-            inverse = rows[rank][column].reciprocal()
-            for i in range(rank + 1, len(rows)):
-                if not rows[i][column].is_zero():
-                    factor = rows[i][column] * inverse
-                    rows[i] = [a - factor * b for a, b in zip(rows[i], rows[rank])]
-            rank += 1
-        return rank
+        return exact_rank([[d.evaluate_exact(exact_point, powers) for d in row]
+                           for row in self.system.jacobian_polynomials()])
 
     def nearest_on_x(self, start, goal=_NEAREST_DIGITS):
         """The nearest point of X found from ``start`` (exact or complex coordinates) by Gauss-Newton in mpmath.

@@ -23,7 +23,8 @@ import math
 
 from ..errors import InputError, LimitError
 
-__all__ = ["ExactCoefficient", "square_free_split", "MAX_RADICAND", "MAX_COEFFICIENT_BITS", "MAX_RADICAL_TERMS"]
+__all__ = ["ExactCoefficient", "exact_rank", "square_free_split", "MAX_RADICAND", "MAX_COEFFICIENT_BITS",
+           "MAX_RADICAL_TERMS"]
 
 #: Largest numerator * denominator accepted under ``sqrt``; above it the
 #: square-free split could need more than trial division up to 10^6.
@@ -409,6 +410,40 @@ class ExactCoefficient:
 
 
 _CHUNK_DIGITS = 999  # the grammar reads literals of up to 1000 digits and decimal exponents up to 1000
+
+
+def exact_rank(rows):
+    """The rank of a matrix of exact numbers, by Gaussian elimination (a zero test on them is exact).
+
+    Parameters
+    ----------
+    rows : list of list of ExactCoefficient
+
+    Returns
+    -------
+    int
+
+    Examples
+    --------
+    >>> q = ExactCoefficient.rational
+    >>> exact_rank([[q(1), q(2)], [q(2), q(4)]]), exact_rank([[q(0), q(0)]]), exact_rank([[q(1), q(0)], [q(0), q(1)]])
+    (1, 0, 2)
+    """
+    rows = [list(row) for row in rows]
+    columns = len(rows[0]) if rows else 0
+    rank = 0
+    for column in range(columns):
+        pivot = next((i for i in range(rank, len(rows)) if not rows[i][column].is_zero()), None)
+        if pivot is None:
+            continue
+        rows[rank], rows[pivot] = rows[pivot], rows[rank]
+        inverse = rows[rank][column].reciprocal()
+        for i in range(rank + 1, len(rows)):
+            if not rows[i][column].is_zero():
+                factor = rows[i][column] * inverse
+                rows[i] = [a - factor * b for a, b in zip(rows[i], rows[rank])]
+        rank += 1
+    return rank
 
 
 def _integer_text(value):

@@ -3,6 +3,7 @@
 import numpy as np
 
 from ...errors import NumagError
+from ...system.exact import ExactCoefficient
 from ...system.files import load_points, parse_point_assignment
 from ...numeric.seeds import resolved_seed
 from ...witness.decompose import DecomposeOptions, decompose
@@ -159,6 +160,18 @@ def _check_components(decomposition, where):
                              "do not fit together, or are not finite)")
 
 
+def _with_exact_points(data, points, accuracies, system):
+    """The report with each exactly given point's coordinates as texts (``given_exact``): certificates decide
+    at such a point in exact arithmetic (decision 0133). Points a saved report states an accuracy for were
+    computed: they get none."""
+    if system.projective:
+        return data
+    for entry, point, accuracy in zip(data["points"], points, accuracies):
+        if accuracy is None and all(isinstance(c, ExactCoefficient) for c in point):
+            entry["given_exact"] = [c.to_text() for c in point]
+    return data
+
+
 def run(args, out):
     system = _load(args)
     check_plot_request(args, system)
@@ -186,7 +199,8 @@ def run(args, out):
     anatomies = None
     if args.anatomy:
         anatomies = check_anatomy(report, decomposition, load_angles(args.system_file, system.variables))
-    data = with_angles(_certified(_with_notes(check_report_to_dict(report), args), args), args.system_file)
+    data = with_angles(_certified(_with_exact_points(_with_notes(check_report_to_dict(report), args), points,
+                                                     accuracies, system), args), args.system_file)
     # The components through each point and the local dimension come from the decomposition: what its run may
     # have missed (failed paths, groups the trace test did not confirm) is said here too, and exit code 3.
     components_doubts = [] if decomposition is None else completeness_warnings(
