@@ -728,8 +728,32 @@ def _regenerate(slicing, before, index, codim, points, options, deflate=True, mu
             f = f * Polynomial.variable(0, n + 1).numeric().power(degree - f.degree)
         run = track_moves(held + [product] + rest, held + [f] + rest, starts, slicing.rng, tracker,
                           options.batch_size, whole_cycles=True, held=block)
+        if tracker is not options.tracker:
+            run = _failed_again_at_full_radius(run, held + [product] + rest, held + [f] + rest, starts, slicing,
+                                               options, block)
     # a point reached only by a broken cycle is still a point of V(held, f): kept (its paths counted as jumped)
     return run.affine_endpoints(jumped_limits=True), lost, paths + run.counts, run.status, weights
+
+
+def _failed_again_at_full_radius(run, start, target, starts, slicing, options, block):
+    """The paths of ``run`` that failed with the lowered endgame radius, tracked again with the tracker's own.
+
+    The candidates' regeneration lowers the endgame radius for speed (decision 0085); near a cluster of
+    endpoints the smaller circle can leave a path at the minimum step that the tracker's own radius settles
+    (``rank1_3x3_matrices`` failed 0-8 paths by seed with it, 0 with the full radius; decision 0129). Only the
+    failed paths are tracked again, each as a path of its own (not a whole cycle); a jumped path is a matter of
+    cycles and stays as it was. The run's arrays are spliced; the paths count as re-tracked.
+    """
+    again = np.nonzero((run.status >= PathStatus.FAILED_MIN_STEP) & (run.status != PathStatus.FAILED_JUMP))[0]
+    if len(again) == 0:
+        return run
+    second = track_moves(start, target, starts[again], slicing.rng, options.tracker, options.batch_size,
+                         held=block)
+    spliced = {name: getattr(run, name).copy() for name in ("endpoints", "status", "steps", "winding", "condition",
+                                                             "retracked", "digits")}
+    for name, array in spliced.items():
+        array[again] = True if name == "retracked" else getattr(second, name)
+    return replace(run, evaluations=run.evaluations + second.evaluations, **spliced)
 
 
 #: Deflation minors of the regeneration are written out only while they can have at most this many monomials
