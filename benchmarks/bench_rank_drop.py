@@ -40,7 +40,7 @@ def child(minors, seed, root):
         print(f"  {time.process_time() - start:8.1f} cpu s  {message}", flush=True)
 
     supersets = witness_supersets(augmented, WitnessOptions(), seed=seed, progress=progress)
-    counts = supersets.counts
+    counts = supersets.paths
     failed = sum(counts.get(label, 0) for label in ("minimum_step", "step_limit", "non_finite", "endgame_unsettled",
                                                      "batch_failed", "failed"))
     print(json.dumps({"cpu": time.process_time() - start, "tracked": counts.get("tracked", 0), "failed": failed,
