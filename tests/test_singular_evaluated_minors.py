@@ -12,6 +12,7 @@ from numag.singular import locus
 from numag.singular.locus import minors_system, singular_locus
 from numag.system.parse import parse_system
 from numag.system.polynomial import Polynomial
+from numag.witness.decompose import decompose
 
 
 @pytest.fixture
@@ -61,6 +62,31 @@ def test_umbrella_times_a_line_singular_along_a_line(evaluate_all, seed):
     assert [(c.dimension, c.degree) for c in result.components] == [(1, 1)]
     point = result.components[0].points[0]
     assert abs(point[0]) < 1e-6 and abs(point[1]) < 1e-6 and abs(point[3] + point[2]) < 1e-6
+
+
+@pytest.mark.parametrize("seed", [1, 2, 3])
+def test_cone_whose_vertex_is_the_unit_point(evaluate_all, seed):
+    # Two quadric cones with vertex (1, 1, 1, 1) meet in the cone over a quartic space curve; the curve is
+    # smooth when det(s Q1 + Q2) has four distinct roots (common practice, no source), checked with sympy
+    # below, so J drops rank at the vertex only. There J = 0: the evaluated minors, scaled by their size at the
+    # point (1, ..., 1), were scaled by 1e300 and every path towards them failed (no point, 8 failed paths;
+    # decision 0131).
+    sympy = pytest.importorskip("sympy")
+    s = sympy.symbols("s")
+    q1 = sympy.diag(1, 2, -1, -3)
+    q2 = sympy.Matrix([[0, 0, sympy.Rational(1, 2), 0], [0, 0, 0, -1], [sympy.Rational(1, 2), 0, 0, 0],
+                       [0, -1, 0, 1]])
+    pencil = sympy.Poly((s * q1 + q2).det(), s)
+    assert pencil.degree() == 4 and sympy.discriminant(pencil) != 0
+    u, v, w, t = "(x - 1)", "(y - 1)", "(z - 1)", "(r - 1)"
+    system = parse_system([f"{u}^2 + 2*{v}^2 - {w}^2 - 3*{t}^2", f"{u}*{w} - 2*{v}*{t} + {t}^2"],
+                          ["x", "y", "z", "r"])
+    # random minors (none written out): the candidates' system of the minors formulation
+    augmented, _ = minors_system(system, 2, np.random.default_rng(seed), 0, evaluate_large=True)
+    assert isinstance(augmented, MinorsSystem)
+    candidates = decompose(augmented, seed=seed)
+    assert [(c.dimension, c.degree) for c in candidates.components] == [(0, 1)]
+    assert np.linalg.norm(candidates.components[0].points[0] - 1) < 1e-6
 
 
 def test_combined_row_of_one_equation_keeps_its_degree():

@@ -540,7 +540,12 @@ class EvaluatedMinors:
         >>> float(minors.evaluate(np.array([[1.0, 0.0]]), jacobian=False)[0, 0].real)
         1.0
         """
-        sizes = self.sizes(np.atleast_2d(points)[:1], projective=False)[0][0]
+        # The terms' bound alone, not its product with the distance from the singular matrices (see
+        # :meth:`sizes`): the unit point can lie where the minors vanish (the all-ones 4 x 4 matrix has rank 1,
+        # where every 3 x 3 minor of rank <= 2 matrices has a zero Jacobian), and that factor, 0 there and
+        # floored at 1e-300, scaled each minor by 1e300: its values overflowed and every regeneration path
+        # towards it failed (decision 0131).
+        sizes = self.sizes(np.atleast_2d(points)[:1], projective=False, distance=False)[0][0]
         return EvaluatedMinors(self.polynomials, self.left, self.right, self.columns, self.scales / sizes)
 
     def subset(self, indices):
@@ -600,12 +605,14 @@ class EvaluatedMinors:
         gradients = np.einsum("pkba,pkabl->pkl", adjugates, derivatives, optimize=True)
         return values * self.scales, gradients * self.scales[None, :, None]
 
-    def sizes(self, points, projective=False, homogenized=False):
+    def sizes(self, points, projective=False, homogenized=False, distance=True):
         """Sizes of the terms of each g_k and of its gradient (2-norm over the variables), each (P, K).
 
         The entries of J are sized as in :class:`~numag.numeric.evaluate.TermSizes`; a determinant of
         c x c entries of sizes S has terms no larger than the product over its rows of the row sums of
-        |A| S |B|, and its gradient than the product rule applied to those bounds.
+        |A| S |B|, and its gradient than the product rule applied to those bounds. With ``distance`` (the
+        default, for residual tests) that bound is multiplied by the product of all but the smallest
+        singular value of the row-scaled matrix (below); without it, the terms' bound alone.
         """
         key = (bool(projective), bool(homogenized))
         if key not in self._sizes:
@@ -618,7 +625,7 @@ class EvaluatedMinors:
         values = np.prod(rows, axis=2)
         others = _products_of_others(rows)  # (P, K, c): product of the other rows' sizes
         gradients = np.sum(others * slopes, axis=2)
-        if self.size > 1:
+        if self.size > 1 and distance:
             # The product of row bounds compounds their slack c times: at generic points of a 4 x 4 random minor of
             # sixteen cubics it was 1e7 to 1e8 times |det M|, so a minor that does not vanish passed a 1e-7
             # residual test. With N = M / rows (rows of 2-norm <= 1), |det M| = prod(rows) prod sigma_i(N), so
