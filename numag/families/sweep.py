@@ -30,8 +30,9 @@ import time
 
 import numpy as np
 
-from ..errors import InputError, LimitError
+from ..errors import InputError, LimitError, ParseError
 from ..system.family import Family
+from ..system.parse import parse_constant
 from ..system.polynomial import Polynomial
 from ..run.executor import charge_paths, check_memory, make_executor
 from ..numeric.cluster import cluster_labels, groups
@@ -46,6 +47,7 @@ from .centring import centred_family, locate_members
 from .records import PointKind, decode_complex, decode_complex_rows, decode_float, encode_complex, encode_float
 
 __all__ = ["SweepOptions", "MemberSolutions", "SweepResult", "SweepHomotopy", "sweep", "move_points", "parse_grid",
+           "parse_value",
            "real_by_separation", "judge_real", "LABEL_UNIT", "MAX_VALUES"]
 
 #: The extra coordinate of a path at value k is (k + 1) * LABEL_UNIT: small beside the patch's
@@ -413,6 +415,41 @@ def _plain(data):
     return data
 
 
+def parse_value(text):
+    """A parameter value written as a rational number in the equations' grammar (``2``, ``-0.5``, ``4/2``,
+    ``1e-3``), exactly; never evaluated as code.
+
+    Returns
+    -------
+    fractions.Fraction
+
+    Raises
+    ------
+    InputError
+        For text that is not a real rational number, or one beyond the double range.
+
+    Examples
+    --------
+    >>> parse_value("4/2"), parse_value("1.9999999999")
+    (Fraction(2, 1), Fraction(19999999999, 10000000000))
+    """
+    try:
+        value = parse_constant(str(text).strip()).as_fraction()
+    except (ParseError, InputError):
+        raise InputError(f"{str(text).strip()[:40]!r} is not a rational number (such as 2, -0.5, 4/2 or 1e-3)") \
+            from None
+    _to_double(value)
+    return value
+
+
+def _to_double(value):
+    """The double nearest a Fraction (rounded once), or InputError beyond the double range."""
+    try:
+        return float(value)
+    except OverflowError:
+        raise InputError(f"{str(value)[:40]} is beyond the double range") from None
+
+
 def parse_grid(text, parameters):
     """Read ``b=0:10:1001`` (name=start:stop:count, evenly spaced, ends included; several joined by ``;``
     make a product grid) into values, shape (K, m).
@@ -435,12 +472,16 @@ def parse_grid(text, parameters):
             raise InputError(f"--grid: {name} is given twice")
         pieces = spec.split(":")
         try:
-            start, stop, count = float(pieces[0]), float(pieces[1]), int(pieces[2])
-        except (ValueError, IndexError):
-            raise InputError(f"--grid: {spec.strip()[:40]!r} is not start:stop:count (count an integer)") from None
-        if len(pieces) != 3 or not (np.isfinite(start) and np.isfinite(stop)) or not 1 <= count <= MAX_VALUES:
-            raise InputError(f"--grid: {name} needs finite start and stop and a count from 1 to {MAX_VALUES:,}")
-        axes[name] = np.linspace(start, stop, count)
+            start, stop, count = parse_value(pieces[0]), parse_value(pieces[1]), int(pieces[2])
+        except (InputError, ValueError, IndexError):
+            raise InputError(f"--grid: {spec.strip()[:40]!r} is not start:stop:count (start and stop rational "
+                             "numbers, count an integer)") from None
+        if len(pieces) != 3 or not 1 <= count <= MAX_VALUES:
+            raise InputError(f"--grid: {name} needs a count from 1 to {MAX_VALUES:,}")
+        # each value exact, a + k (b - a) / (n - 1), then rounded once: 0.2:2.6:5 holds 2 itself, not a double
+        # next to it (a member on the discriminant is not one beside it)
+        step = (stop - start) / max(count - 1, 1)
+        axes[name] = np.array([_to_double(start + k * step) for k in range(count)])
     missing = [p for p in parameters if p not in axes]
     if missing:
         raise InputError(f"--grid: no values for {', '.join(missing)}")
@@ -537,7 +578,8 @@ def sweep(family, values, options=None, seed=None, progress=None, execution=None
     if total:
         run = track(homotopy, starts, options.tracker, executor=executor, batch_size=options.batch_size,
                     progress=progress, fresh_homotopy=fresh_homotopy)
-        exact = (user_family, x_factors, user_values)
+        # the split works in the user's units about the tracked origin: the centred family where it was centred
+        exact = (user_family if centred is None else centred, x_factors, user_values)
         members, counts, description = _members(family, run, values, len(solutions), options, exact), \
             run.counts.report(), dict(run.execution)
     else:
@@ -661,19 +703,27 @@ def _members(family, run, values, per_value, options, exact=None):
             members_of = groups(labels)
         else:  # the common case: distinct regular endpoints, nothing to cluster
             members_of = [np.array([j]) for j in range(len(rows))]
-        distinct, kinds, paths, settled = [], [], [], {}
+        distinct, kinds, paths, settled, resolved, unsure = [], [], [], {}, [], 0
         for group in members_of:
             best = group[np.argmin(condition[k, rows[group]])]
+            singular = len(group) > 1 or np.any(status[k, rows[group]] == PathStatus.SINGULAR_ENDPOINT) \
+                or condition[k, rows[best]] > options.singular_condition
             split = None
-            if len(group) > 1 and options.split_clusters and tries < _SPLIT_TRIES:
+            if singular and options.split_clusters and tries < _SPLIT_TRIES:
                 tries += 1
                 # roots closer than the endpoints' accuracy (within about 1e-10 of the discriminant) came back
-                # as one point: pulled apart at 40 digits, or left as a rank drop if they are one root
+                # as one point: pulled apart at 40 digits, or left as a rank drop if they are one root. A single
+                # path at a rank drop is a contradiction (a root of multiplicity mu is the end of mu paths): the
+                # endgame took two close simple roots for one double root (decision 0134); every root near its
+                # end is found at 40 digits, without a count
                 user_family, x_factors, user_values = exact or (family, np.ones(n), values)
                 evaluator = evaluator or PrecisionEvaluator(user_family.system.polynomials)
-                split = split_cluster(evaluator, points[best] * x_factors, np.asarray(user_values[k]), len(group))
+                split = split_cluster(evaluator, points[best] * x_factors, np.asarray(user_values[k]),
+                                      len(group) if len(group) > 1 else None)
                 split = None if split is None else (split[0] / x_factors, split[1])
             if split is not None:
+                if len(group) == 1:
+                    resolved.append(range(len(distinct), len(distinct) + len(split[0])))
                 for point, is_real in zip(*split):
                     settled[len(distinct)] = bool(is_real)
                     distinct.append(point)
@@ -681,10 +731,15 @@ def _members(family, run, values, per_value, options, exact=None):
                     paths.append(1)
                 continue
             distinct.append(points[best])
-            singular = len(group) > 1 or np.any(status[k, rows[group]] == PathStatus.SINGULAR_ENDPOINT) \
-                or condition[k, rows[best]] > options.singular_condition
             kinds.append(PointKind.RANK_DROP if singular else PointKind.REGULAR)
             paths.append(len(group))
+            unsure += int(singular and len(group) == 1)  # not resolved: neither a rank drop nor a simple root
+        if resolved:
+            distinct, kinds, paths, settled = _merge_resolved(distinct, kinds, paths, settled, resolved,
+                                                              options.cluster_tolerance)
+        # each path ends at one root, mu paths at a root of multiplicity mu: another sum says a root was lost or
+        # found twice (the member's count is undecided)
+        unsure += abs(sum(p if kind == PointKind.RANK_DROP else 1 for p, kind in zip(paths, kinds)) - len(rows))
         distinct = np.array(distinct)
         real_value = real_family and np.all(np.abs(np.asarray(value).imag) == 0)
         undecided = np.zeros(len(distinct), dtype=bool)
@@ -698,8 +753,32 @@ def _members(family, run, values, per_value, options, exact=None):
             real[index] = real_value and is_real
             undecided[index] = False
         members.append(MemberSolutions(value, distinct, real, kinds, np.array(paths, dtype=np.int64), failed, infinite,
-                                       int(np.sum(undecided))))
+                                       int(np.sum(undecided)) + unsure))
     return members
+
+
+def _merge_resolved(distinct, kinds, paths, settled, resolved, tolerance):
+    """The member's points with each endpoint at a root found at 40 digits replaced by that root.
+
+    ``resolved``: the index ranges of the roots found near the end of one path (:func:`split_cluster` without a
+    count). Another path's endpoint is that root when it lies within ``tolerance`` of its size (the clustering's
+    rule) and within half the distance to the other roots found there (so two close roots keep their own paths).
+    """
+    points = np.array(distinct)
+    drop = set()
+    for found in resolved:
+        found = list(found)
+        for index in found:
+            others = [j for j in found if j != index]
+            apart = min((np.linalg.norm(points[index] - points[j]) for j in others), default=np.inf)
+            reach = min(tolerance * (1 + np.linalg.norm(points[index])), apart / 2)
+            near = [j for j in range(len(points)) if j not in found and j not in drop and kinds[j] == PointKind.REGULAR
+                    and paths[j] == 1 and np.linalg.norm(points[j] - points[index]) <= reach]
+            drop.update(near[:1])
+    keep = [j for j in range(len(points)) if j not in drop]
+    renumber = {j: i for i, j in enumerate(keep)}
+    return ([distinct[j] for j in keep], [kinds[j] for j in keep], [paths[j] for j in keep],
+            {renumber[j]: v for j, v in settled.items() if j in renumber})
 
 
 #: Digits of the arithmetic that pulls a cluster of endpoints apart (decision 0087): a member's parameter value is
@@ -727,13 +806,17 @@ def split_cluster(evaluator, point, value, paths):
     polynomial of degree ``paths`` fits it, its roots start Newton on the member at 40 digits; the result
     is accepted only if every start converges quadratically and the limits are distinct.
 
+    With ``paths=None`` the number of roots is not given: every root inside the first (largest) circle where
+    the winding number is at most :data:`_SPLIT_MAX_PATHS` and the fit is clean is returned, each a simple
+    root, or None if one of them is not (decision 0134: a single path the tracker ended at a rank drop).
+
     Parameters
     ----------
     evaluator : PrecisionEvaluator
         The family's incidence system in (x, p).
     point : ndarray of complex, shape (n,)
     value : ndarray of complex, shape (m,)
-    paths : int
+    paths : int or None
 
     Returns
     -------
@@ -750,11 +833,14 @@ def split_cluster(evaluator, point, value, paths):
     (True, [True, True])
     >>> split_cluster(cubic, np.array([1.0 + 0j]), np.array([2.0]), 2) is None  # on the discriminant: a double root
     True
+    >>> roots, _ = split_cluster(cubic, np.array([1.0 + 0j]), np.array([2 - 2.0 ** -43]), None)  # count not given
+    >>> len(roots)
+    2
     """
     import mpmath
 
     n = len(point)
-    if not 2 <= paths <= _SPLIT_MAX_PATHS:
+    if paths is not None and not 2 <= paths <= _SPLIT_MAX_PATHS:
         return None
     ctx = mpmath.mp
     with ctx.workdps(_SPLIT_DIGITS):
@@ -799,7 +885,7 @@ def split_cluster(evaluator, point, value, paths):
             return sum(complex(left[b, -1].conjugate()) * values[b] for b in range(n)), y
 
         size = 1.0 + float(np.linalg.norm(point))
-        samples = 8 * paths
+        samples = 8 * (paths or _SPLIT_MAX_PATHS)
         circle = np.exp(2j * np.pi * np.arange(samples) / samples)
         # endpoints cluster within 1e-6 of their size (SweepOptions.cluster_tolerance): the roots sought are that close
         for radius in size * 10.0 ** -np.arange(4.0, 12.5, 0.5):
@@ -813,23 +899,24 @@ def split_cluster(evaluator, point, value, paths):
             reached = np.array(reached)
             turns = np.angle(np.roll(reached, -1) / reached)
             winding = int(round(np.sum(turns) / (2 * np.pi)))
-            if winding < paths:
+            wanted = paths or winding  # without a count: every root in the first circle that shows them
+            if winding < wanted or winding == 0:
                 return None  # the roots left the circle before a radius showed them alone
-            if winding > paths:
+            if winding > wanted or winding > _SPLIT_MAX_PATHS:
                 continue  # other roots inside: a smaller circle
             coefficients = np.fft.fft(reached) / samples  # c_j = a_j r^j of the Taylor series
-            head = np.max(np.abs(coefficients[:paths + 1]))
-            if np.max(np.abs(coefficients[paths + 1:])) > 1e-3 * head:
-                continue  # not yet a polynomial of degree `paths` on this circle
-            roots = np.roots(coefficients[:paths + 1][::-1]) * radius
+            head = np.max(np.abs(coefficients[:wanted + 1]))
+            if np.max(np.abs(coefficients[wanted + 1:])) > 1e-3 * head:
+                continue  # not yet a polynomial of degree `wanted` on this circle
+            roots = np.roots(coefficients[:wanted + 1][::-1]) * radius
             refined = [_newton_on_member(system, [start[j] + complex(t * null[j]) for j in range(n)], ctx)
                        for t in roots]
             if any(r is None for r in refined):
                 return None
             points = np.array([[complex(z) for z in r] for r in refined])
             exact_distance = [float(ctx.norm(ctx.matrix(refined[a]) - ctx.matrix(refined[b])))
-                              for a in range(paths) for b in range(a + 1, paths)]
-            if min(exact_distance) <= 1e3 * _SPLIT_STEP * size:
+                              for a in range(wanted) for b in range(a + 1, wanted)]
+            if min(exact_distance, default=np.inf) <= 1e3 * _SPLIT_STEP * size:
                 return None  # two starts reached one root
             real = np.array([max(abs(float(z.imag)) for z in r) <= _SPLIT_STEP * size for r in refined])
             return points, real

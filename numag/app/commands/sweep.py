@@ -10,7 +10,7 @@ from ...system.display import counted
 from ...system.safeio import MAX_INPUT_BYTES, read_limited, write_file
 from ...tracking.solve import Execution
 from ...families.records import PointKind
-from ...families.sweep import MAX_VALUES, sweep, parse_grid
+from ...families.sweep import MAX_VALUES, sweep, parse_grid, parse_value
 from ..picture import discriminant_svg, sweep_svg
 from ..report import CAUTION, dumps
 from ..saved import save
@@ -63,12 +63,10 @@ def read_values(path, parameters):
             continue
         if len(row) != len(header):
             raise InputError(f"{path}: line {line}: {len(row)} cells, the header has {len(header)}")
-        try:
-            entry = [float(row[k]) for k in columns]
-        except ValueError:
-            raise InputError(f"{path}: line {line}: a value is not a number") from None
-        if not all(np.isfinite(entry)):
-            raise InputError(f"{path}: line {line}: a value is not finite")
+        try:  # exact rationals (4/2, 1e-3), each rounded once to a double
+            entry = [float(parse_value(row[k])) for k in columns]
+        except InputError as err:
+            raise InputError(f"{path}: line {line}: {err}") from None
         values.append(entry)
         if len(values) > MAX_VALUES:
             raise InputError(f"{path}: more than {MAX_VALUES:,} values")
