@@ -703,10 +703,13 @@ def _regenerate(slicing, before, index, codim, points, options, deflate=True, mu
     starts, weights, paths = [], [], PathCounts()
     base = held + [linear_form(slicing.rows[codim])] + rest
     for row in moved_rows:  # move l_{c+1} to each factor hyperplane: d linear moves
-        target = held + [linear_form(row)] + rest
-        run = track_moves(base, target, points, slicing.rng, options.tracker, options.batch_size, held=block)
-        ends = run.affine_endpoints()
-        paths += run.counts
+        ends = _linear_move(slicing.rows[codim + 1:], row, points, slicing.rng) if not held and block is None \
+            else None
+        if ends is None:
+            target = held + [linear_form(row)] + rest
+            run = track_moves(base, target, points, slicing.rng, options.tracker, options.batch_size, held=block)
+            ends = run.affine_endpoints()
+            paths += run.counts
         finite = np.all(np.isfinite(ends), axis=1)
         starts.append(ends[finite])
         weights.append(multiplicity[finite])
@@ -754,6 +757,35 @@ def _failed_again_at_full_radius(run, start, target, starts, slicing, options, b
     for name, array in spliced.items():
         array[again] = True if name == "retracked" else getattr(second, name)
     return replace(run, evaluations=run.evaluations + second.evaluations, **spliced)
+
+
+def _linear_move(rest, row, points, rng):
+    """Where a move with no held equation takes ``points``: the one solution of the hyperplanes ``row`` and
+    ``rest``, solved (decision 0123); None when that system is not clearly regular (then the move is tracked).
+
+    With nothing held (the first equation of the cascade) every row of the move is linear, so every start and
+    every target has exactly one solution and the path from a start point ends at the target's: T9(x) = T11(y)
+    tracked 91 such one-path moves (0.5 of 2.2 CPU s), 11 for X and 10 for each fibre of its candidates. The
+    patch and gamma a tracked move draws are drawn all the same, so that a seed gives the run it gave.
+
+    Examples
+    --------
+    >>> ends = _linear_move(np.array([[1.0, 0.0, 1.0]]), np.array([-2.0, 1.0, 0.0]), np.zeros((1, 2)),
+    ...                     np.random.default_rng(0))
+    >>> ends.real.round(12).tolist()
+    [[2.0, -1.0]]
+    """
+    rows = np.vstack([np.asarray(row, dtype=complex)[None, :], np.asarray(rest, dtype=complex)])
+    matrix = rows[:, 1:]
+    # a well-posed move: the solution moves by at most ~cond x rounding (random complex rows: cond ~ n)
+    if len(points) == 0 or matrix.shape[0] != matrix.shape[1] or not np.linalg.cond(matrix) <= 1e8:
+        return None
+    solution = np.linalg.solve(matrix, -rows[:, 0])
+    if not np.all(np.isfinite(solution)):
+        return None
+    size = rows.shape[1]
+    rng.standard_normal(size), rng.standard_normal(size), random_unit_complex(rng)  # a tracked move's draws
+    return np.tile(solution, (len(points), 1))
 
 
 #: Deflation minors of the regeneration are written out only while they can have at most this many monomials
