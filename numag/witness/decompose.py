@@ -564,7 +564,8 @@ def _trace_defects(mover, points, rng, tolerance):
     sizes : ndarray, shape (scales,), or None
         1 + the sum of the absolute traces at that scale.
     limits : ndarray, shape (scales,), or None
-        The tolerance, or :data:`_NOISE_MARGIN` times the relative defect of all the points when smaller.
+        The tolerance, or :data:`_NOISE_MARGIN` times the relative defect of all the points (at least the machine
+        epsilon) when smaller.
     """
     rows = mover.slice_rows
     defects, sizes, noises = [], [], []
@@ -576,20 +577,30 @@ def _trace_defects(mover, points, rng, tolerance):
         if scale > _TRACE_SHIFT:
             rng = mover.rng = wide
         try:
-            arrived = _trace_at(mover, points, rows, scale, rng, defects, sizes, noises)
+            arrived = _trace_at(mover, points, rows, scale, rng, defects, sizes, noises,
+                                count_discarded=scale <= _TRACE_SHIFT)
         finally:
             mover.rng = own
         if not arrived:
             return None, None, None
     sizes = np.array(sizes)
-    limits = np.minimum(tolerance, _NOISE_MARGIN * np.array(noises) / sizes)
+    # the whole set's defect is at least the rounding of the traces' sum (an exact zero at a scale would refuse
+    # every proper group)
+    limits = np.minimum(tolerance, _NOISE_MARGIN * np.maximum(np.array(noises) / sizes, np.finfo(float).eps))
     return np.array(defects), sizes, limits
 
 
-def _trace_at(mover, points, rows, scale, rng, defects, sizes, noises):
+def _trace_at(mover, points, rows, scale, rng, defects, sizes, noises, count_discarded=True):
     """Appends the per-point defects at one scale, their size and the norm of their sum over all coordinates (times
-    the projection's); False when paths failed on three translations."""
+    the projection's); False when paths failed on three translations.
+
+    Without ``count_discarded`` the paths of a translation whose defects are thrown away (a path failed) are not
+    added to the mover's counts: they lose no point of X (the translation is tried again, and when every try fails
+    the groups stay unconfirmed), and the larger scales' failures near far singular slices are not failed paths of
+    the run (decision 0135).
+    """
     for _ in range(3):  # a failed path spoils the defects: try another translation
+        counted = mover.paths
         shift = scale * np.exp(2j * np.pi * rng.random(len(rows)))
         projection = rng.standard_normal(mover.n) + 1j * rng.standard_normal(mover.n)
         plus, minus = rows.copy(), rows.copy()
@@ -603,6 +614,8 @@ def _trace_at(mover, points, rows, scale, rng, defects, sizes, noises):
             sizes.append(1 + np.sum(np.abs(traces)))
             noises.append(np.linalg.norm(np.sum(up + down - 2 * points, axis=0)) * np.linalg.norm(projection))
             return True
+        if not count_discarded:
+            mover.paths = counted
     return False
 
 
@@ -645,12 +658,18 @@ def _split(mover, points, rng, options, loops_run):
             break
         open_points = sorted(i for group, done, _ in groups if not done for i in group)
         away = random_rows(rng, len(mover.slice_rows), mover.n + 1)
-        away[:, 0] *= scales[quiet % len(scales)]  # after a loop without a new swap, the next scale
+        scale = scales[quiet % len(scales)]
+        away[:, 0] *= scale  # after a loop without a new swap, the next scale
+        counted = mover.paths
         there = mover.move(points[open_points], mover.slice_rows, away, detour=True)
         good = np.all(np.isfinite(there), axis=1)
         back = np.full(there.shape, np.nan, dtype=complex)
         if np.any(good):
             back[good] = mover.move(there[good], away, mover.slice_rows, detour=True)
+        if scale > 1 and not np.all(np.isfinite(back)):
+            # A loop at a larger scale whose path failed (near a far singular slice) loses no witness point, only a
+            # swap, and groups it leaves apart stay unconfirmed: its paths are not failed paths of the run.
+            mover.paths = counted
         landed = _match(back, points, 1e-6)
         loops += 1
         before = graph.count()
@@ -742,8 +761,11 @@ def _to_real_slice(mover, points, rows, rng):
     center = rng.standard_normal(n) / np.sqrt(n)
     real_rows[:, 0] = -(real_rows[:, 1:] @ center)
     real_rows = (real_rows / np.linalg.norm(real_rows, axis=1, keepdims=True)).astype(complex)
+    counted = mover.paths
     moved = mover.move(points, rows, real_rows, detour=True)
     if not np.all(np.isfinite(moved)) or len(points) != len(set(cluster_labels(moved, 1e-6))):
+        # the points stay where they were: a failed path of this move loses nothing (decision 0135)
+        mover.paths = counted
         return points, rows
     return moved, real_rows
 
