@@ -814,6 +814,8 @@ def singular_to_dict(result, options):
         [_decomposition_component(c) for c in variety.components],
         "variety_summary": [] if variety is None else
         [{"dimension": c.dimension, "degree": c.degree} for c in variety.components],
+        # X's components the trace test did not confirm: a warning and exit 3, as for `decompose` (decision 0135)
+        "unconfirmed": 0 if variety is None else len(variety.unconfirmed),
         # the rest of X's decomposition run, so that the report loads whole (decision 0078)
         "variety_run": None if variety is None or result.system.projective else
         {"dimensions_searched": [int(d) for d in variety.dimensions_searched],

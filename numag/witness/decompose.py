@@ -510,11 +510,98 @@ class _Swaps:
         return len(self.groups())
 
 
+#: Shift of the slice for the trace test at the smallest scale, in the computed (balanced) units.
+_TRACE_SHIFT = 0.5
+#: Largest ratio between consecutive shifts of the trace test (decision 0135). A proper part of a component whose
+#: points leave it only at slices a distance R away has a trace analytic for shifts below R: its defect at a shift
+#: s < R is about (s / R)^2 of its traces, 1e-4 at one ratio below R, far above the tolerance (1e-10).
+_TRACE_SCALE_RATIO = 100.0
+
+
+def _trace_scales(points):
+    """Shifts of the slice for the trace test: :data:`_TRACE_SHIFT` up to the spread of the witness points.
+
+    A witness set whose points lie at several scales (a near-node 1e-5 across next to a branch at distance 1) can
+    hold a proper part whose trace is linear to within any tolerance at the smaller scale (the near-node is an
+    exact hyperbola there); its points leave it only at slices as far as the other points. The shifts climb from
+    :data:`_TRACE_SHIFT` to the largest distance between two witness points in steps of at most
+    :data:`_TRACE_SCALE_RATIO` (decision 0135). The distance is translation-invariant: the origin's place does not
+    change the shifts.
+
+    Examples
+    --------
+    >>> _trace_scales(np.array([[0.0], [1e5]])).round(1).tolist()
+    [0.5, 29.2, 1710.0, 100000.0]
+    >>> _trace_scales(np.array([[0.0], [0.1]])).tolist()
+    [0.5]
+    """
+    points = np.atleast_2d(points)
+    spread = 0.0
+    if len(points) > 1 and np.all(np.isfinite(points)):
+        spread = float(np.max(np.linalg.norm(points[:, None, :] - points[None, :, :], axis=2)))
+    top = spread
+    if top <= _TRACE_SHIFT:
+        return np.array([_TRACE_SHIFT])
+    steps = int(math.ceil(math.log(top / _TRACE_SHIFT) / math.log(_TRACE_SCALE_RATIO)))
+    return _TRACE_SHIFT * (top / _TRACE_SHIFT) ** (np.arange(steps + 1) / steps)
+
+
+#: A group passes the trace test at a scale when its relative defect is at most this many times the defect of all
+#: the witness points together (decision 0135), and at most the tolerance. All the points are a union of complete
+#: components, so their defect is what the paths' accuracy leaves at that scale (its norm over all coordinates: the
+#: noise of n coordinates does not cancel at once); a proper part of a component 1e3 times above it is not noise.
+_NOISE_MARGIN = 1e3
+
+
 def _trace_defects(mover, points, rng, tolerance):
-    """Per-point trace defects tr(+1) + tr(-1) - 2 tr(0) for a random translation of the slice, and a scale."""
+    """Per-point trace defects tr(+s) + tr(-s) - 2 tr(0) for a random translation of the slice at each scale s of
+    :func:`_trace_scales`, the size each is measured against, and the relative defect each scale accepts.
+
+    Returns
+    -------
+    defects : ndarray, shape (scales, points), or None
+        None when a path failed at some scale on every one of three translations.
+    sizes : ndarray, shape (scales,), or None
+        1 + the sum of the absolute traces at that scale.
+    limits : ndarray, shape (scales,), or None
+        The tolerance, or :data:`_NOISE_MARGIN` times the relative defect of all the points (at least the machine
+        epsilon) when smaller.
+    """
     rows = mover.slice_rows
+    defects, sizes, noises = [], [], []
+    # The larger scales draw from a stream of their own, so that the smallest scale's translation, and all that
+    # follows it, is drawn as before they were added.
+    wide = np.random.default_rng(rng.bit_generator.seed_seq.spawn(1)[0])
+    own = mover.rng
+    for scale in _trace_scales(points):
+        if scale > _TRACE_SHIFT:
+            rng = mover.rng = wide
+        try:
+            arrived = _trace_at(mover, points, rows, scale, rng, defects, sizes, noises,
+                                count_discarded=scale <= _TRACE_SHIFT)
+        finally:
+            mover.rng = own
+        if not arrived:
+            return None, None, None
+    sizes = np.array(sizes)
+    # the whole set's defect is at least the rounding of the traces' sum (an exact zero at a scale would refuse
+    # every proper group)
+    limits = np.minimum(tolerance, _NOISE_MARGIN * np.maximum(np.array(noises) / sizes, np.finfo(float).eps))
+    return np.array(defects), sizes, limits
+
+
+def _trace_at(mover, points, rows, scale, rng, defects, sizes, noises, count_discarded=True):
+    """Appends the per-point defects at one scale, their size and the norm of their sum over all coordinates (times
+    the projection's); False when paths failed on three translations.
+
+    Without ``count_discarded`` the paths of a translation whose defects are thrown away (a path failed) are not
+    added to the mover's counts: they lose no point of X (the translation is tried again, and when every try fails
+    the groups stay unconfirmed), and the larger scales' failures near far singular slices are not failed paths of
+    the run (decision 0135).
+    """
     for _ in range(3):  # a failed path spoils the defects: try another translation
-        shift = 0.5 * np.exp(2j * np.pi * rng.random(len(rows)))
+        counted = mover.paths
+        shift = scale * np.exp(2j * np.pi * rng.random(len(rows)))
         projection = rng.standard_normal(mover.n) + 1j * rng.standard_normal(mover.n)
         plus, minus = rows.copy(), rows.copy()
         plus[:, 0] += shift
@@ -523,10 +610,23 @@ def _trace_defects(mover, points, rng, tolerance):
         down = mover.move(points, rows, minus)
         if np.all(np.isfinite(up)) and np.all(np.isfinite(down)):
             traces = np.column_stack([up @ projection, down @ projection, points @ projection])
-            defects = traces[:, 0] + traces[:, 1] - 2 * traces[:, 2]
-            scale = 1 + np.sum(np.abs(traces))
-            return defects, scale
-    return None, None
+            defects.append(traces[:, 0] + traces[:, 1] - 2 * traces[:, 2])
+            sizes.append(1 + np.sum(np.abs(traces)))
+            noises.append(np.linalg.norm(np.sum(up + down - 2 * points, axis=0)) * np.linalg.norm(projection))
+            return True
+        if not count_discarded:
+            mover.paths = counted
+    return False
+
+
+def _group_defect(defects, sizes, group):
+    """Relative trace defect of a group: the largest over the scales of |its summed defects| / size."""
+    return float(np.max(np.abs(np.sum(defects[:, group], axis=1)) / sizes))
+
+
+def _group_passes(defects, sizes, limits, group):
+    """Whether a group's relative trace defect is within the limit at every scale."""
+    return bool(np.all(np.abs(np.sum(defects[:, group], axis=1)) / sizes <= limits))
 
 
 def _split(mover, points, rng, options, loops_run):
@@ -535,7 +635,10 @@ def _split(mover, points, rng, options, loops_run):
     graph = _Swaps(count)
     if count == 1:
         return [([0], True, 0.0)]
-    defects, scale = _trace_defects(mover, points, rng, options.trace_tolerance)
+    defects, sizes, limits = _trace_defects(mover, points, rng, options.trace_tolerance)
+    # Loops to random slices at every scale of the trace test: the points of a part that passes at the smaller
+    # scales swap with the others only around slices as far away as those (decision 0135).
+    scales = _trace_scales(points) / _TRACE_SHIFT
 
     def status():
         result = []
@@ -543,8 +646,8 @@ def _split(mover, points, rng, options, loops_run):
             if defects is None:
                 result.append((group, False, float("nan")))
             else:
-                defect = abs(np.sum(defects[group])) / scale
-                result.append((group, defect <= options.trace_tolerance, float(defect)))
+                result.append((group, _group_passes(defects, sizes, limits, group),
+                               _group_defect(defects, sizes, group)))
         return result
 
     quiet = 0
@@ -555,11 +658,18 @@ def _split(mover, points, rng, options, loops_run):
             break
         open_points = sorted(i for group, done, _ in groups if not done for i in group)
         away = random_rows(rng, len(mover.slice_rows), mover.n + 1)
+        scale = scales[quiet % len(scales)]
+        away[:, 0] *= scale  # after a loop without a new swap, the next scale
+        counted = mover.paths
         there = mover.move(points[open_points], mover.slice_rows, away, detour=True)
         good = np.all(np.isfinite(there), axis=1)
         back = np.full(there.shape, np.nan, dtype=complex)
         if np.any(good):
             back[good] = mover.move(there[good], away, mover.slice_rows, detour=True)
+        if scale > 1 and not np.all(np.isfinite(back)):
+            # A loop at a larger scale whose path failed (near a far singular slice) loses no witness point, only a
+            # swap, and groups it leaves apart stay unconfirmed: its paths are not failed paths of the run.
+            mover.paths = counted
         landed = _match(back, points, 1e-6)
         loops += 1
         before = graph.count()
@@ -569,14 +679,14 @@ def _split(mover, points, rng, options, loops_run):
         quiet = quiet + 1 if graph.count() == before else 0
         if quiet >= options.stall_loops and defects is not None:
             quiet = 0
-            _join_by_trace(graph, status(), defects, scale, options.trace_tolerance)
+            _join_by_trace(graph, status(), defects, sizes, limits)
     loops_run.append(loops)
     if defects is None:
         return status()
     result = []
     for group, done, defect in status():
         if done and len(group) > 1:
-            result.extend(_complete_parts(group, defects, scale, options.trace_tolerance))
+            result.extend(_complete_parts(group, defects, sizes, limits))
         else:
             result.append((group, done, defect))
     return result
@@ -586,8 +696,8 @@ def _split(mover, points, rng, options, loops_run):
 _PARTS_LIMIT = 16
 
 
-def _complete_parts(group, defects, scale, tolerance):
-    """A confirmed group split where a proper part of it also passes the trace test.
+def _complete_parts(group, defects, sizes, limits):
+    """A confirmed group split where a proper part of it also passes the trace test (at every scale).
 
     The traces of an irreducible component's points sum to a linear function only over the whole
     component (for a generic projection and translation): a proper part that passes means the
@@ -595,36 +705,45 @@ def _complete_parts(group, defects, scale, tolerance):
     components passes the test as well. Parts are tried smallest first; both sides are split again.
     Groups larger than ``_PARTS_LIMIT`` are kept as they are.
 
+    Parameters
+    ----------
+    group : list of int
+    defects : ndarray, shape (scales, points)
+    sizes, limits : ndarray, shape (scales,)
+
     Examples
     --------
-    >>> _complete_parts([0, 1, 2], np.array([1.0, -1.0, 0.0]), 1.0, 1e-10)
+    >>> _complete_parts([0, 1, 2], np.array([[1.0, -1.0, 0.0]]), np.array([1.0]), np.array([1e-10]))
     [([0, 1], True, 0.0), ([2], True, 0.0)]
+    >>> two_scales = np.array([[1.0, -1.0, 0.0], [1.0, 0.0, -1.0]])  # {0, 1} cancels at one scale only
+    >>> _complete_parts([0, 1, 2], two_scales, np.array([1.0, 1.0]), np.array([1e-10, 1e-10]))
+    [([0, 1, 2], True, 0.0)]
     """
     group = list(group)
     k = len(group)
-    values = defects[group]
+    values = defects[:, group]
     if 1 < k <= _PARTS_LIMIT:
         masks = np.arange(1, 2 ** (k - 1), dtype=np.int64)  # each part or its complement, once
         members = (masks[:, None] >> np.arange(k)) & 1
-        sums = np.abs(members @ values) / scale
-        sizes = members.sum(axis=1)
-        passing = np.nonzero(sums <= tolerance)[0]
+        passes = np.all(np.abs(members @ values.T) / sizes[None, :] <= limits[None, :], axis=1)
+        sizes_of = members.sum(axis=1)
+        passing = np.nonzero(passes)[0]
         if len(passing):
-            best = passing[np.argmin(sizes[passing])]
+            best = passing[np.argmin(sizes_of[passing])]
             part = [g for g, inside in zip(group, members[best]) if inside]
             rest = [g for g, inside in zip(group, members[best]) if not inside]
-            return (_complete_parts(part, defects, scale, tolerance)
-                    + _complete_parts(rest, defects, scale, tolerance))
-    return [(group, True, float(abs(np.sum(values)) / scale))]
+            return (_complete_parts(part, defects, sizes, limits)
+                    + _complete_parts(rest, defects, sizes, limits))
+    return [(group, True, _group_defect(defects, sizes, group))]
 
 
-def _join_by_trace(graph, groups, defects, scale, tolerance):
-    """Join open groups whose defects cancel (a union of groups that is a complete component)."""
+def _join_by_trace(graph, groups, defects, sizes, limits):
+    """Join open groups whose defects cancel at every scale (a union of groups that is a complete component)."""
     open_groups = [group for group, done, _ in groups if not done]
     for size in range(2, min(4, len(open_groups)) + 1):
         for chosen in itertools.combinations(range(len(open_groups)), size):
             members = [i for k in chosen for i in open_groups[k]]
-            if abs(np.sum(defects[members])) / scale <= tolerance:
+            if _group_passes(defects, sizes, limits, members):
                 for a, b in zip(members, members[1:]):
                     graph.add_edge(a, b)
                 return
@@ -642,8 +761,11 @@ def _to_real_slice(mover, points, rows, rng):
     center = rng.standard_normal(n) / np.sqrt(n)
     real_rows[:, 0] = -(real_rows[:, 1:] @ center)
     real_rows = (real_rows / np.linalg.norm(real_rows, axis=1, keepdims=True)).astype(complex)
+    counted = mover.paths
     moved = mover.move(points, rows, real_rows, detour=True)
     if not np.all(np.isfinite(moved)) or len(points) != len(set(cluster_labels(moved, 1e-6))):
+        # the points stay where they were: a failed path of this move loses nothing (decision 0135)
+        mover.paths = counted
         return points, rows
     return moved, real_rows
 
