@@ -73,3 +73,12 @@ def test_a_far_decomposition_is_right_or_flagged(curve, seed):
     assert flagged or found == _sympy_profile(moved)
     if result.paths.get("exact_profile_differs", 0):  # never a false alarm: the flag means the answer differs
         assert found != _sympy_profile(moved)
+
+
+@pytest.mark.parametrize("seed", [1, 2, 3])
+def test_an_empty_decomposition_of_a_non_constant_equation_is_flagged(seed):
+    # A non-constant f vanishes somewhere on every line in general position (fundamental theorem of algebra;
+    # common practice, no source), so "no component" is never right: the check must say so.
+    from numag.witness.decompose import _exact_profile_check
+    system = parse_system(["(y - x^2)^2 - 3"], ["x", "y"])
+    assert _exact_profile_check(system, [], seed) == {"exact_profile_differs": 1}
