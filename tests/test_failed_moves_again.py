@@ -1,7 +1,7 @@
 """Regeneration paths that fail with the candidates' lowered endgame radius are tracked again at the tracker's own.
 
 The singular locus of 3 x 3 matrices of rank <= 1 (the Segre variety P^2 x P^2 in C^9, singular only at the zero
-matrix; J. Harris, "Algebraic Geometry: A First Course", 1992, Lecture 9, from memory; the shared problem file
+matrix; J. Harris, "Algebraic Geometry: A First Course", 1992, the Segre varieties, from memory; the shared problem file
 verifies it with sympy Groebner bases) left 0-8 candidate paths at the minimum step depending on the seed
 (decision 0129). Each failed path is now tracked again; the answer is one singular point and no path fails.
 """
