@@ -3,19 +3,23 @@
 For X of codimension c (given by m >= c equations F) and a flag Λ_k of dimension c + k - 1, the k-th polar
 variety is P_k = closure {x smooth on X : dim(T_x X ∩ Λ_k) >= k}, of codimension k in X (decision 0131).
 Its degree is the number of its points on a generic affine space L = p + im B of dimension c + k. Taking
-Λ_k = ker [ℓ; the forms vanishing on im B] for a generic form ℓ (so L's directions contain Λ_k: the points of
-P_k ∩ L are the critical points of ℓ on X ∩ L), x = p + B y is in P_k ∩ L exactly when some normal covector
+Λ_k = ker [ℓ; C] for a generic form ℓ, where C x = C p cuts out L (so L's directions contain Λ_k: the points of
+P_k ∩ L are the critical points of ℓ on X ∩ L), x is in P_k ∩ L exactly when some normal covector
 mu^T A J(x) (A: c x m random rows) agrees with ℓ on im B:
 
-    R F(p + B y) = 0 (c rows),   mu^T A J(p + B y) B = ℓ^T B (c + k rows),   unknowns y (c + k), mu (c).
+    R F(x) = 0 (c rows),   C x = C p (n - c - k rows),   mu^T A J(x) B = ℓ^T B (c + k rows),   unknowns x, mu.
 
-A square system. One solution is made by hand (x0 on X by Newton from a random point, mu0 random, p = x0,
-ℓ^T B := mu0^T A J(x0) B); if the system's Jacobian there is singular, the map to the parameters (p, ℓ) is
-not dominant and deg P_k = 0 (generic smoothness; the point is generic on the incidence). Otherwise
-monodromy loops in (p, ℓ) (three parameter homotopies of numag's tracker each) collect the solutions; the
-count is accepted when the trace of the x-coordinates is linear as p moves along a line (the slices move
-parallel, P_k stays fixed) -- the linear trace test. The loops stay on X's component of {R F = 0}: the
-incidence over X's smooth points is irreducible, so the monodromy group is transitive on P_k ∩ L.
+A square system whose coefficients are linear in the parameters (p, ℓ^T B), so that the straight segments of a
+parameter homotopy stay in the family. One solution is made by hand (x0 a smooth point of X's witness set,
+mu0 random, p = x0, ℓ^T B := mu0^T A J(x0) B); if the system's Jacobian there is singular, the map to the
+parameters is not dominant and deg P_k = 0 (generic smoothness; the point is generic on the incidence).
+Otherwise monodromy loops in (p, ℓ^T B) (three parameter homotopies of numag's tracker each) collect the
+solutions, each endpoint kept only if it is on X by all m equations with J of rank c (R F = 0 has other
+components; a jumped path lands there). The count is accepted after 5 loops without a new point and a linear
+trace test: the x-trace linear as p moves along a line (the slices move parallel, P_k stays fixed). The trace
+test passes on any union of P_k's components (a cone's polar curve made of lines passes with one of them),
+hence the quiet loops: the incidence over X's smooth points is irreducible, so the monodromy group is
+transitive on P_k ∩ L.
 
 Cases: a smooth quadric surface and a quadric cone in C^3 (hand computation below), 3 x 3 rank <= 1 and
 rank <= 2 (the Segre P2 x P2 and its dual, the determinant), and 4 x 4 rank <= 2 (issue 19).
@@ -32,11 +36,12 @@ import numpy as np
 
 import checkout  # noqa: F401  (this checkout's numag first)
 
-from numag.numeric.evaluate import BatchEvaluator
-from numag.numeric.refine import project_to_variety
+from numag.numeric.evaluate import BatchEvaluator, TermSizes
+from numag.numeric.refine import largest_scaled_residual
 from numag.system.polynomial import Polynomial, PolynomialSystem
 from numag.tracking.homotopy import ParameterHomotopy
 from numag.tracking.service import track
+from numag.witness.cascade import WitnessOptions, witness_supersets
 
 
 def quadric(signs, name):
@@ -79,6 +84,9 @@ def cases():
         # variety", 2016); its dual is the determinant (dual defect 3), whose polar degrees are reversed.
         "3x3r1": (minors_system(3, 3, 1), 4, 5, [12, 12, 6, 3, 0], "from memory (Draisma et al. 2016)"),
         "3x3r2": (minors_system(3, 3, 2), 1, 8, [6, 12, 12, 6, 0, 0, 0, 0], "from memory, the reversal of 3x3r1"),
+        # the Segre P1 x P2 is its own dual, of dual defect 1: its top polar variety (P_3 here) is empty, from memory
+        # (the dual of the m x n matrices of rank <= r is those of rank <= min(m, n) - r)
+        "2x3r1": (minors_system(2, 3, 1), 2, 4, [None, None, 0, 0], "from memory (P_3 empty: dual defect 1)"),
         "4x4r2": (minors_system(4, 4, 2), 4, 12, None, "issue 19"),
     }
 
@@ -102,6 +110,7 @@ class Lagrange:
         self.AJB = [[self._combine([AJ[r][j] for j in range(self.n)], self.B[:, s]) for s in range(self.size)]
                     for r in range(c)]
         self.evaluator = BatchEvaluator(polys)
+        self.sizes = TermSizes(polys, projective=False)
         self.polys, self.jac = polys, jac
         self.names = [f"x{i}" for i in range(self.n)] + [f"mu{i}" for i in range(c)]
         # L = p + im B is cut out by C x = C p, with C's rows spanning the forms vanishing on im B
@@ -137,23 +146,26 @@ class Lagrange:
         return np.array([[q.evaluate(x) if not q.is_zero() else 0 for q in row] for row in self.jac], dtype=complex)
 
 
-def start_point(lag, rng):
-    """x0 on X, mu0, and the parameters making (y = 0, mu0) a solution.
+def generic_point(system, c, dim, seed):
+    """A point of X's top-dimensional witness set (numag's regeneration) where J has rank c: a generic point.
 
-    x0: Newton from a random point onto X cut by a random affine hyperplane (a generic point of X; on X alone
-    the projection of a cone's point can slide to the vertex).
+    (Newton from a random point is no substitute: on the 4 x 4 minors it slides onto the rank-1 matrices,
+    Sing X, where the residual vanishes to higher order.)
     """
-    cx = lambda *shape: rng.standard_normal(shape) + 1j * rng.standard_normal(shape)
-    for _ in range(20):
-        hyperplane = Polynomial.linear(cx(lag.n), -1.0)
-        cut = PolynomialSystem(lag.system.variables, lag.polys + [hyperplane])
-        result = project_to_variety(cut, BatchEvaluator(cut.polynomials), cx(1, lag.n))
-        if result.converged[0]:
-            break
-    else:
-        raise RuntimeError("no point of X found by Newton")
-    x0 = result.points[0]
-    mu0 = cx(lag.c)
+    supersets = witness_supersets(system, WitnessOptions(lowest_dimension=dim), seed=seed)
+    witness = supersets.of_dimension(dim)
+    evaluator = BatchEvaluator([p.numeric() for p in system.polynomials])
+    _, jacobians = evaluator.evaluate(witness.points)
+    for point, jac in zip(witness.points, jacobians):
+        s = np.linalg.svd(jac, compute_uv=False)
+        if len(s) >= c and s[c - 1] > 1e-6 * s[0] and (len(s) == c or s[c] < 1e-9 * s[0]):
+            return point, len(witness.points)
+    raise RuntimeError("no smooth witness point of X")
+
+
+def start_point(lag, x0, rng):
+    """mu0 and the parameters making (x0, mu0) a solution (p = x0, lB = mu0^T A J(x0) B)."""
+    mu0 = rng.standard_normal(lag.c) + 1j * rng.standard_normal(lag.c)
     J = lag.jacobian_matrix(x0)
     lB = mu0 @ lag.A @ J @ lag.B
     return x0, mu0, lB, J
@@ -176,6 +188,23 @@ def move(lag, points, frm, to, rng):
     return ends, failed
 
 
+def on_x(lag, points):
+    """Rows that are points of X (every one of the m equations, in units of its terms) where J has rank c.
+
+    R F = 0 is X and other components of the same dimension; a path that jumps onto one of them is junk, removed
+    by all m rows (decision 0131's filter).
+    """
+    keep = np.all(np.isfinite(points), axis=1)
+    x = points[keep, :lag.n]
+    if len(x):
+        ok = largest_scaled_residual(lag.sizes, lag.evaluator, x) < 1e-8
+        _, jacobians = lag.evaluator.evaluate(x)
+        s = np.linalg.svd(jacobians, compute_uv=False)
+        ok &= s[:, lag.c - 1] > 1e-6 * s[:, 0]
+        keep[np.flatnonzero(keep)[~ok]] = False
+    return points[keep], int(np.sum(np.all(np.isfinite(points), axis=1)) - keep.sum())
+
+
 def merge(known, new, tolerance=1e-6):
     """Add the finite rows of ``new`` not already in ``known`` (relative distance)."""
     added = 0
@@ -196,27 +225,27 @@ def trace_defect(lag, points, base, rng):
     p, lB = base
     d = (rng.standard_normal(lag.n) + 1j * rng.standard_normal(lag.n)) * np.linalg.norm(p) / np.sqrt(lag.n)
     t1, t2 = 0.37 + 0.21j, -0.43 + 0.17j
-    traces, sizes, failed = [], [], 0
+    moved, failed = [], 0
     for t in (t1, t2):
         ends, f = move(lag, points, base, (p + t * d, lB), rng)
         failed += f
         if not np.all(np.isfinite(ends)):
-            return np.inf, failed
-        x = ends[:, :lag.n]
-        traces.append(x.sum(axis=0))
-        sizes.append(np.abs(x).sum(axis=0))
+            return np.inf, False, failed
+        moved.append(ends[:, :lag.n])
     x0 = points[:, :lag.n]
-    tr0 = x0.sum(axis=0)
-    slope1, slope2 = (traces[0] - tr0) / t1, (traces[1] - tr0) / t2
-    scale = np.linalg.norm(np.abs(x0).sum(axis=0) + sizes[0] + sizes[1])
-    return float(np.linalg.norm(slope1 - slope2) / scale), failed
+    slope1, slope2 = (moved[0] - x0) / t1, (moved[1] - x0) / t2
+    scale = np.linalg.norm(np.abs(x0).sum(axis=0) + np.abs(moved[0]).sum(axis=0) + np.abs(moved[1]).sum(axis=0))
+    defect = float(np.linalg.norm(slope1.sum(axis=0) - slope2.sum(axis=0)) / scale)
+    # each point's own trace linear: every point on a line (P_k a cone over points): the test certifies nothing
+    each = np.linalg.norm(slope1 - slope2, axis=1) / np.linalg.norm(np.abs(x0) + np.abs(moved[0]) + np.abs(moved[1]),
+                                                                  axis=1)
+    return defect, bool(np.all(each < 1e-7)), failed
 
 
-def polar_degree(system, c, dim, k, seed, max_loops, log):
+def polar_degree(system, c, dim, k, seed, max_loops, log, x0):
     rng = np.random.default_rng(seed)
     lag = Lagrange(system, c, dim, k, rng)
-    x0, mu0, lB, J = start_point(lag, rng)
-    sv = np.linalg.svd(J, compute_uv=False)
+    x0, mu0, lB, J = start_point(lag, x0, rng)
     point = np.concatenate([x0, mu0])
     rank, s = square_jacobian_rank(lag, x0, lB, point)
     if rank < len(point):
@@ -238,15 +267,21 @@ def polar_degree(system, c, dim, k, seed, max_loops, log):
             failed += f
             pts = ends
         failed_total += failed
+        pts, junk = on_x(lag, pts)
         known, added = merge(known, pts)
-        log(f"    k={k} loop {loops}: {len(known)} points (+{added}), {failed} failed paths")
+        log(f"    k={k} loop {loops}: {len(known)} points (+{added}), {failed} failed paths, {junk} off X or "
+            "singular dropped")
         quiet = quiet + 1 if added == 0 else 0
-        if quiet >= 2:
-            defect, f = trace_defect(lag, known, base, rng)
+        if quiet >= 5:  # a trace test passes on any union of P_k's components (a cone's lines each): loops first
+            defect, lines, f = trace_defect(lag, known, base, rng)
             tracked += 2 * len(known)
             failed_total += f
             log(f"    k={k}: trace defect {defect:.1e} with {len(known)} points ({f} failed paths)")
             if defect < 1e-7:
+                if lines:
+                    log(f"    k={k}: each point's own trace is linear (P_k is made of lines): the count is a lower "
+                        "bound from the loops, not certified")
+                    return f">= {len(known)}", tracked, failed_total, defect
                 return len(known), tracked, failed_total, defect
             quiet = 0
     return None, tracked, failed_total, np.nan
@@ -265,13 +300,24 @@ def main():
         ks = [int(k) for k in args.ks.split(",")] if args.ks else list(range(1, dim + 1))
         print(f"{system.name}: n = {system.n_variables}, c = {c}, dim X = {dim}; expected {expected} ({source})",
               flush=True)
+        start = time.process_time()
+        x0, degree_x = generic_point(system, c, dim, args.seed)
+        print(f"  deg X = deg P_0 = {degree_x} (X's witness set, {time.process_time() - start:.1f} CPU s)", flush=True)
+        degrees, cpu, paths = [degree_x], 0.0, 0
         for k in ks:
             start = time.process_time()
             degree, tracked, failed, defect = polar_degree(system, c, dim, k, args.seed, args.max_loops,
-                                                           lambda s: print(s, flush=True))
+                                                           lambda s: print(s, flush=True), x0)
             want = expected[k - 1] if expected and k - 1 < len(expected) else "?"
+            cpu, paths = cpu + time.process_time() - start, paths + tracked
+            degrees.append(degree)
             print(f"  deg P_{k} = {degree} (expected {want}); {tracked} paths, {failed} failed, "
                   f"trace defect {defect:.1e}, {time.process_time() - start:.1f} CPU s", flush=True)
+        if all(isinstance(d, int) for d in degrees):
+            top = max(p.degree for p in system.polynomials)
+            print(f"  polar degrees {degrees}, sum {sum(degrees)}; the polar-flag route's paths c (D - 1) x sum = "
+                  f"{c * (top - 1) * sum(degrees)} (decision 0131); this measurement: {paths} paths in {cpu:.1f} "
+                  f"CPU s ({1e3 * cpu / max(paths, 1):.1f} ms per path)", flush=True)
 
 
 if __name__ == "__main__":
