@@ -1,4 +1,4 @@
-"""Polar degrees deg P_k of a variety X by monodromy of the Lagrange system, completeness by the trace test (decision 0139).
+"""Polar degrees deg P_k of a variety X: monodromy of the Lagrange system and a trace test (decision 0139).
 
 For X of codimension c (given by m >= c equations F) and a flag Λ_k of dimension c + k - 1, the k-th polar
 variety is P_k = closure {x smooth on X : dim(T_x X ∩ Λ_k) >= k}, of codimension k in X (decision 0131).
@@ -17,14 +17,15 @@ Otherwise monodromy loops in (p, ℓ^T B) (three parameter homotopies of numag's
 solutions, each endpoint kept only if it is on X by all m equations with J of rank c (R F = 0 has other
 components; a jumped path lands there). The count is accepted after 5 loops without a new point and a linear
 trace test: the x-trace linear as p moves along a line (the slices move parallel, P_k stays fixed). The trace
-test passes on any union of P_k's components (a cone's polar curve made of lines passes with one of them),
-hence the quiet loops: the incidence over X's smooth points is irreducible, so the monodromy group is
-transitive on P_k ∩ L.
+test passes on any union of P_k's components (a cone's polar curve made of lines passes with one of them) and
+is empty at k = dim X (P_k finite, L the whole space: nothing moves); there the count is printed as a lower
+bound. Hence also the quiet loops: the incidence over X's smooth points is irreducible, so the monodromy group
+is transitive on P_k ∩ L.
 
-Cases: a smooth quadric surface and a quadric cone in C^3 (hand computation below), 3 x 3 rank <= 1 and
-rank <= 2 (the Segre P2 x P2 and its dual, the determinant), and 4 x 4 rank <= 2 (issue 19).
+Cases: a smooth quadric surface and a quadric cone in C^3 (hand computation below), 2 x 3 rank <= 1, 3 x 3 rank
+<= 1 and rank <= 2 (the Segre P1 x P2, P2 x P2 and its dual, the determinant), and 4 x 4 rank <= 2 (issue 19).
 
-Run:  OMP_NUM_THREADS=1 python benchmarks/bench_polar_degrees.py [--cases sphere,cone,3x3r1,3x3r2,4x4r2]
+Run:  OMP_NUM_THREADS=1 python benchmarks/bench_polar_degrees.py [--cases sphere,cone,2x3r1,3x3r1,3x3r2,4x4r2]
       [--ks 1,2,3] [--seed 1] [--max-loops 40]
 """
 
@@ -258,8 +259,9 @@ def polar_degree(system, c, dim, k, seed, max_loops, log, x0):
     while loops < max_loops:
         loops += 1
         cx = lambda *shape: rng.standard_normal(shape) + 1j * rng.standard_normal(shape)
-        q1 = (x0 + cx(lag.n) * np.linalg.norm(x0) / np.sqrt(lag.n), lB + cx(lag.size) * np.linalg.norm(lB) / np.sqrt(lag.size))
-        q2 = (x0 + cx(lag.n) * np.linalg.norm(x0) / np.sqrt(lag.n), lB + cx(lag.size) * np.linalg.norm(lB) / np.sqrt(lag.size))
+        # parameters as far from the base as the base is from 0 (a loop around a share of the branch points)
+        q1, q2 = [(x0 + cx(lag.n) * np.linalg.norm(x0) / np.sqrt(lag.n),
+                   lB + cx(lag.size) * np.linalg.norm(lB) / np.sqrt(lag.size)) for _ in range(2)]
         pts, failed = known, 0
         for frm, to in ((base, q1), (q1, q2), (q2, base)):
             ends, f = move(lag, pts[np.all(np.isfinite(pts), axis=1)], frm, to, rng)
@@ -279,8 +281,8 @@ def polar_degree(system, c, dim, k, seed, max_loops, log, x0):
             log(f"    k={k}: trace defect {defect:.1e} with {len(known)} points ({f} failed paths)")
             if defect < 1e-7:
                 if lines:
-                    log(f"    k={k}: each point's own trace is linear (P_k is made of lines): the count is a lower "
-                        "bound from the loops, not certified")
+                    log(f"    k={k}: each point's own trace is linear (P_k made of lines, or finite at k = dim X: "
+                        "nothing to move): the count is a lower bound from the loops, not certified")
                     return f">= {len(known)}", tracked, failed_total, defect
                 return len(known), tracked, failed_total, defect
             quiet = 0
@@ -289,7 +291,7 @@ def polar_degree(system, c, dim, k, seed, max_loops, log, x0):
 
 def main():
     parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
-    parser.add_argument("--cases", default="sphere,cone,3x3r1,3x3r2,4x4r2")
+    parser.add_argument("--cases", default="sphere,cone,2x3r1,3x3r1,3x3r2,4x4r2")
     parser.add_argument("--ks", default=None, help="which k (default 1..dim X)")
     parser.add_argument("--seed", type=int, default=1)
     parser.add_argument("--max-loops", type=int, default=40)
