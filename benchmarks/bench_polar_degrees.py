@@ -92,6 +92,22 @@ def cases():
     }
 
 
+def in_frame(system, frame):
+    """The same X in other units (x = 1000 y or y / 1000) or after a rational linear change (x = M y, M exact)."""
+    from fractions import Fraction
+    n = system.n_variables
+    if frame == "plain":
+        return system
+    if frame in ("x1000", "x1e-3"):
+        factor = Fraction(1000) if frame == "x1000" else Fraction(1, 1000)
+        matrix = [[factor if i == j else 0 for j in range(n)] for i in range(n)]
+    else:  # unit lower triangular plus halves above: invertible, no coordinate left alone
+        matrix = [[Fraction(1) if i == j else Fraction((i + 2 * j) % 5 - 2, 2 if j > i else 1) if (j > i or j == i - 1)
+                   else 0 for j in range(n)] for i in range(n)]
+    polys = [p.substitute_linear(np.array(matrix, dtype=object)) for p in system.polynomials]
+    return PolynomialSystem(system.variables, polys, name=f"{system.name} ({frame})")
+
+
 class Lagrange:
     """The square system of one polar degree: fixed random R, A, B; parameters p (n,) and the row lB = ℓ^T B."""
 
@@ -176,7 +192,13 @@ def square_jacobian_rank(lag, p, lB, point):
     system = lag.system_at(p, lB)
     ev = BatchEvaluator([q for q in system.polynomials])
     _, jac = ev.evaluate(point[None, :])
-    s = np.linalg.svd(jac[0], compute_uv=False)
+    # rows and columns equilibrated first: the rank is the same, and the threshold then does not depend on the
+    # units of x (cubic rows 1e9 times larger in units x1000) or on mu's size
+    jac = jac[0]
+    for _ in range(3):
+        jac = jac / np.linalg.norm(jac, axis=1, keepdims=True)
+        jac = jac / np.linalg.norm(jac, axis=0, keepdims=True)
+    s = np.linalg.svd(jac, compute_uv=False)
     return int(np.sum(s > s[0] * 1e-9)), s
 
 
@@ -274,6 +296,9 @@ def polar_degree(system, c, dim, k, seed, max_loops, log, x0):
         log(f"    k={k} loop {loops}: {len(known)} points (+{added}), {failed} failed paths, {junk} off X or "
             "singular dropped")
         quiet = quiet + 1 if added == 0 else 0
+        if quiet >= 5 and not len(lag.C):  # k = dim X: P_k finite, L the whole space, no slice to move
+            log(f"    k={k}: P_k is finite (no slice to move): the count is a lower bound from the loops")
+            return f">= {len(known)}", tracked, failed_total, np.nan
         if quiet >= 5:  # a trace test passes on any union of P_k's components (a cone's lines each): loops first
             defect, lines, f = trace_defect(lag, known, base, rng)
             tracked += 2 * len(known)
@@ -295,10 +320,13 @@ def main():
     parser.add_argument("--ks", default=None, help="which k (default 1..dim X)")
     parser.add_argument("--seed", type=int, default=1)
     parser.add_argument("--max-loops", type=int, default=40)
+    parser.add_argument("--frame", default="plain", choices=["plain", "x1000", "x1e-3", "linear"],
+                        help="the same X in other units or after a rational linear change")
     args = parser.parse_args()
     table = cases()
     for name in args.cases.split(","):
         system, c, dim, expected, source = table[name]
+        system = in_frame(system, args.frame)
         ks = [int(k) for k in args.ks.split(",")] if args.ks else list(range(1, dim + 1))
         print(f"{system.name}: n = {system.n_variables}, c = {c}, dim X = {dim}; expected {expected} ({source})",
               flush=True)
