@@ -127,9 +127,12 @@ class BatchEvaluator:
         support = (self.monomials > 0).sum(axis=1)
         self.support = max(int(support.max()) if len(support) else 0, 1)
         index = np.zeros((len(self.monomials), self.support), dtype=np.int64)  # 0 -> x_0^0 = 1
-        for k, row in enumerate(self.monomials):  # precomputation only, once per system
-            nonzero = np.nonzero(row)[0]
-            index[k, :len(nonzero)] = nonzero * width + row[nonzero]
+        # each monomial's variables in increasing order, left-aligned: the k-th nonzero exponent of a row goes to
+        # column k (its rank among the row's nonzeros), one array operation for all rows
+        rows, columns = np.nonzero(self.monomials)
+        if len(rows):
+            rank = np.arange(len(rows)) - np.searchsorted(rows, rows)
+            index[rows, rank] = columns * width + self.monomials[rows, columns]
         self._gather_index = index
 
     def power_table(self, points):
