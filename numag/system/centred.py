@@ -172,15 +172,31 @@ class CentredTerms:
     (['x^2 + 4*x + 11/3'], [36.66666666666667, 40.0, 10.0])
     """
 
-    def __init__(self, system, centring):
+    def __init__(self, system, centring, _forms=None):
         self.system = system
         self.centring = centring
+        forms = [_integer_form(p) for p in system.polynomials] if _forms is None else _forms
         # per equation: (exponents, real numerators, imaginary numerators, denominator), or the exact polynomial
         # where the direct translation does not apply (square roots, too many terms)
         self._terms = []
-        for polynomial in system.polynomials:
-            integers = _translated_integers(polynomial, centring.centre)
+        for polynomial, form in zip(system.polynomials, forms):
+            integers = None if form is None else _translated_integers(form, centring.centre)
             self._terms.append(integers if integers is not None else _substituted(polynomial, centring))
+
+    @classmethod
+    def about(cls, system):
+        """centring -> ``CentredTerms(system, centring)``, the coefficients read once (a system centred at many
+        points, one after the other).
+
+        Examples
+        --------
+        >>> from numag.system.parse import parse_system
+        >>> at = CentredTerms.about(parse_system(["x^2 - 1/3"], ["x"]))
+        >>> [at(centre_near(np.array([c]), 0.0)).exact().to_texts()[0] for c in (1.0, 2.0)]
+        ['x^2 + 2*x + 2/3', 'x^2 + 4*x + 11/3']
+        """
+        forms = [_integer_form(p) for p in system.polynomials]
+        return lambda centring: cls(system, centring, forms)
 
     def exact(self):
         """The centred system with exact coefficients (:func:`centred_system`)."""
@@ -284,9 +300,27 @@ def _gaussian_parts(value):
     return Fraction(value.real), Fraction(value.imag)
 
 
-def _translated_integers(polynomial, centre):
+def _integer_form(polynomial):
+    """A polynomial's side of :func:`_translated_integers`: (exponents, Gaussian integer numerators, their
+    denominator), or None where the direct translation does not apply (a square root, too many pairs)."""
+    exponents = np.asarray(polynomial.exponents, dtype=np.int64)
+    if len(exponents) == 0:
+        return None
+    if int(np.sum(np.prod(exponents + 1, axis=1))) > _DIRECT_TRANSLATION_PAIRS:
+        return None
+    coefficients = [_gaussian_parts(c) for c in polynomial.coefficients]
+    if any(c is None for c in coefficients):
+        return None
+    denominator = math.lcm(*(q.denominator for pair in coefficients for q in pair))
+    numerators = [(re.numerator * (denominator // re.denominator), im.numerator * (denominator // im.denominator))
+                  for re, im in coefficients]
+    return exponents, numerators, denominator
+
+
+def _translated_integers(form, centre):
     """p(y + s) as Gaussian integers over one common denominator: (exponents, real numerators, imaginary
-    numerators, denominator), the zero terms left out; None where it does not apply.
+    numerators, denominator), the zero terms left out, for the polynomial of ``form`` (:func:`_integer_form`); None
+    where the centre has a square root.
 
     With the coefficients (a + b i) / D and the centre (A_j + B_j i) / Q, D Q^deg p(y + s) is
     sum_e (a_e + b_e i) Q^(deg - |e|) prod_j (A_j + B_j i + Q y_j)^(e_j): every product is of Python integers (the
@@ -298,20 +332,12 @@ def _translated_integers(polynomial, centre):
     up to :data:`_DIRECT_TRANSLATION_PAIRS` pairs; exactly the polynomial :meth:`Polynomial.substitute_linear`
     gives.
     """
-    n = polynomial.n_variables
-    exponents = np.asarray(polynomial.exponents, dtype=np.int64)
-    if len(exponents) == 0:
-        return None
-    if int(np.sum(np.prod(exponents + 1, axis=1))) > _DIRECT_TRANSLATION_PAIRS:
-        return None
-    coefficients = [_gaussian_parts(c) for c in polynomial.coefficients]
+    exponents, numerators, denominator = form
+    n = exponents.shape[1]
     shift = [_gaussian_parts(c) for c in centre]
-    if any(c is None for c in coefficients) or any(c is None for c in shift) or len(shift) != n:
+    if any(c is None for c in shift) or len(shift) != n:
         return None
-    denominator = math.lcm(*(q.denominator for pair in coefficients for q in pair))
     common = math.lcm(*(q.denominator for pair in shift for q in pair))
-    numerators = [(re.numerator * (denominator // re.denominator), im.numerator * (denominator // im.denominator))
-                  for re, im in coefficients]
     centre_integers = [(re.numerator * (common // re.denominator), im.numerator * (common // im.denominator))
                        for re, im in shift]
     degree = int(exponents.sum(axis=1).max())

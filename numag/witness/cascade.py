@@ -932,13 +932,14 @@ def _judged_centred(system, used, slice_rows, points, codim, threshold):
     augmented = PolynomialSystem(list(system.variables), equations)
     if minors is not None or system.projective or translated_terms(augmented) > CENTRING_TERMS:
         return verdicts
+    centred_at = CentredTerms.about(augmented)  # its coefficients read once for every point
     for k, point in enumerate(points):
         if not np.all(np.isfinite(point)):
             continue
         centring = centre_near(point, radius=0.0)
         # the judgement is made in double: the centred system's coefficients rounded once from their exact values,
         # the same numbers the exact system scaled by the balancing rounds to (decision 0138)
-        terms = CentredTerms(augmented, centring)
+        terms = centred_at(centring)
         scaling = Scaling.balancing(terms.rounded(), CENTRED_BALANCING_FLOOR)
         scaled = terms.rounded(scaling.variable_exponents, scaling.equation_exponents)
         at = scaling.to_computed(point - centring.point)[None, :]
