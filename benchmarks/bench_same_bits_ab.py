@@ -1,7 +1,7 @@
 """Singular loci of two checkouts side by side: CPU seconds, and a digest of every number of the answers.
 
 Run:  python benchmarks/bench_same_bits_ab.py --before /path/to/other/checkout [--after .] [--repeats 3]
-      [--cases quadrics4:1,quadrics4:2,quadrics4:3,quadrics3:1,six-bar:1,T9/T11:1]
+      [--cases quadrics4:1,quadrics4:2,quadrics4:3,quadrics3:1,quadrics3/1000:1,quadrics3-changed:1,six-bar:1,T9/T11:1]
 
 A change made to spend less time without changing a decision (decision 0138) is checked here by the strongest
 test there is: both checkouts must give the same answer to the last bit. Each case (``name:seed``) runs in a
@@ -16,6 +16,8 @@ Cases (the same members as ``bench_scale.py``):
 * quadrics4: the union of 4 random quadrics (``families.quadric_union(4, default_rng(15))``; 6 curves of degree
   4; ``bench_scale.py --sections families --sizes quadrics=4``);
 * quadrics3: the union of 3 random quadrics (``bench_scale.py --sections singular``; 3 curves of degree 4);
+  quadrics3/1000 the same in units 1000 times larger (x = 1000 y), quadrics3-changed after the rational linear
+  change x = M y, M = [[1, 1, 0], [0, 1, 1], [1, 0, 2]];
 * six-bar: ``bench_scale.six_bar()`` (4 singular points); T9/T11: T9(x) = T11(y) (40 nodes and one at infinity).
 
 Printed per case: the median CPU seconds before and after, their ratio, the pieces, and whether every run of
@@ -23,16 +25,15 @@ both checkouts gave the same digest.
 """
 
 import argparse
-import json
 import os
 import statistics
-import subprocess
 import sys
 
 import checkout  # noqa: F401  (this checkout's numag, not an installed one)
 from checkout import ROOT
 
 sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
+from bench_judging_ab import run_child  # noqa: E402
 from bench_start_ab import checkout_roots  # noqa: E402
 
 _CHILD = r"""
@@ -69,9 +70,17 @@ def feed(digest, value):
     else:
         digest.update(repr(value).encode())
 
+def moved(system, matrix):  # x = matrix y: exact (integer matrix), the same names
+    from numag.system.polynomial import PolynomialSystem
+    return PolynomialSystem(list(system.variables), [p.substitute_linear(np.array(matrix)) for p in system.polynomials],
+                            name=system.name)
+
 name, seed = sys.argv[1].rsplit(":", 1)
 system = {"quadrics4": lambda: quadric_union(4, np.random.default_rng(15)),
           "quadrics3": lambda: quadric_union(3, np.random.default_rng(11)),
+          "quadrics3/1000": lambda: moved(quadric_union(3, np.random.default_rng(11)), 1000 * np.eye(3, dtype=int)),
+          "quadrics3-changed": lambda: moved(quadric_union(3, np.random.default_rng(11)),
+                                             [[1, 1, 0], [0, 1, 1], [1, 0, 2]]),
           "six-bar": six_bar, "T9/T11": lambda: chebyshev_curve(9, 11)}[name]()
 start = time.process_time()
 found = singular_locus(system, seed=int(seed))
@@ -82,23 +91,13 @@ print(json.dumps({"cpu": cpu, "digest": digest.hexdigest()[:16], "pieces": piece
 """
 
 
-def _run(root, case):
-    """The child's record for ``case`` run from ``root``."""
-    environment = dict(os.environ, OMP_NUM_THREADS="1", OPENBLAS_NUM_THREADS="1", MKL_NUM_THREADS="1",
-                       PYTHONPATH=root, PYTHONDONTWRITEBYTECODE="1")
-    done = subprocess.run([sys.executable, "-c", _CHILD, case], cwd=root, env=environment, capture_output=True,
-                          text=True)
-    if done.returncode != 0:
-        raise SystemExit(f"{root}: case {case} failed: {done.stderr.strip()[-400:]}")
-    return json.loads(done.stdout.strip().splitlines()[-1])
-
-
 def main():
     parser = argparse.ArgumentParser(description=__doc__, formatter_class=argparse.RawDescriptionHelpFormatter)
     parser.add_argument("--before", required=True, help="the other checkout (e.g. the main branch's worktree)")
     parser.add_argument("--after", default=str(ROOT), help="this checkout (default)")
     parser.add_argument("--repeats", type=int, default=3)
-    parser.add_argument("--cases", default="quadrics4:1,quadrics4:2,quadrics4:3,quadrics3:1,six-bar:1,T9/T11:1")
+    parser.add_argument("--cases", default="quadrics4:1,quadrics4:2,quadrics4:3,quadrics3:1,quadrics3/1000:1,"
+                        "quadrics3-changed:1,six-bar:1,T9/T11:1")
     args = parser.parse_args()
     roots = checkout_roots(args.before, args.after)
     print(f"load average {os.getloadavg()[0]:.1f}; median of {args.repeats} runs; CPU seconds (start-up excluded)")
@@ -109,7 +108,7 @@ def main():
         records = {label: [] for label in roots}
         for _ in range(args.repeats):
             for label, root in roots.items():
-                records[label].append(_run(root, case))
+                records[label].append(run_child(root, _CHILD, case))
         median = {label: statistics.median(r["cpu"] for r in runs) for label, runs in records.items()}
         digests = {r["digest"] for runs in records.values() for r in runs}
         print(f"{case:14} {median['before']:10.2f} {median['after']:10.2f} {median['after'] / median['before']:13.2f}  "
