@@ -1,7 +1,8 @@
 """Singular loci of two checkouts side by side: CPU seconds, and a digest of every number of the answers.
 
 Run:  python benchmarks/bench_same_bits_ab.py --before /path/to/other/checkout [--after .] [--repeats 3]
-      [--cases quadrics4:1,quadrics4:2,quadrics4:3,quadrics3:1,quadrics3/1000:1,quadrics3-changed:1,six-bar:1,T9/T11:1]
+      [--cases quadrics4:1,quadrics4:2,quadrics4:3,quadrics3:1,quadrics3/1000:1,quadrics3*1000:1,
+      quadrics3-changed:1,six-bar:1,T9/T11:1]
 
 A change made to spend less time without changing a decision (decision 0138) is checked here by the strongest
 test there is: both checkouts must give the same answer to the last bit. Each case (``name:seed``) runs in a
@@ -16,7 +17,8 @@ Cases (the same members as ``bench_scale.py``):
 * quadrics4: the union of 4 random quadrics (``families.quadric_union(4, default_rng(15))``; 6 curves of degree
   4; ``bench_scale.py --sections families --sizes quadrics=4``);
 * quadrics3: the union of 3 random quadrics (``bench_scale.py --sections singular``; 3 curves of degree 4);
-  quadrics3/1000 the same in units 1000 times larger (x = 1000 y), quadrics3-changed after the rational linear
+  quadrics3/1000 and quadrics3*1000 the same written in y with x = 1000 y and x = y / 1000, quadrics3-changed
+  after the rational linear
   change x = M y, M = [[1, 1, 0], [0, 1, 1], [1, 0, 2]];
 * six-bar: ``bench_scale.six_bar()`` (4 singular points); T9/T11: T9(x) = T11(y) (40 nodes and one at infinity).
 
@@ -75,10 +77,17 @@ def moved(system, matrix):  # x = matrix y: exact (integer matrix), the same nam
     return PolynomialSystem(list(system.variables), [p.substitute_linear(np.array(matrix)) for p in system.polynomials],
                             name=system.name)
 
+def in_thousandths(system):  # x = y / 1000, written exactly
+    import re
+    from numag.system.parse import parse_system
+    return parse_system([re.sub(r"\b(x|y|z)\b", r"(\1/1000)", text) for text in system.to_texts()],
+                        list(system.variables), name=system.name)
+
 name, seed = sys.argv[1].rsplit(":", 1)
 system = {"quadrics4": lambda: quadric_union(4, np.random.default_rng(15)),
           "quadrics3": lambda: quadric_union(3, np.random.default_rng(11)),
           "quadrics3/1000": lambda: moved(quadric_union(3, np.random.default_rng(11)), 1000 * np.eye(3, dtype=int)),
+          "quadrics3*1000": lambda: in_thousandths(quadric_union(3, np.random.default_rng(11))),
           "quadrics3-changed": lambda: moved(quadric_union(3, np.random.default_rng(11)),
                                              [[1, 1, 0], [0, 1, 1], [1, 0, 2]]),
           "six-bar": six_bar, "T9/T11": lambda: chebyshev_curve(9, 11)}[name]()
@@ -97,7 +106,7 @@ def main():
     parser.add_argument("--after", default=str(ROOT), help="this checkout (default)")
     parser.add_argument("--repeats", type=int, default=3)
     parser.add_argument("--cases", default="quadrics4:1,quadrics4:2,quadrics4:3,quadrics3:1,quadrics3/1000:1,"
-                        "quadrics3-changed:1,six-bar:1,T9/T11:1")
+                        "quadrics3*1000:1,quadrics3-changed:1,six-bar:1,T9/T11:1")
     args = parser.parse_args()
     roots = checkout_roots(args.before, args.after)
     print(f"load average {os.getloadavg()[0]:.1f}; median of {args.repeats} runs; CPU seconds (start-up excluded)")
