@@ -69,15 +69,21 @@ print(json.dumps({"cpu": cpu, "judging": judging[0], "escalations": len(escalati
 """
 
 
-def _run(root, case):
-    """The child's record for ``case`` run from ``root``."""
+def run_child(root, child, case):
+    """The JSON record the code ``child`` prints last, run with the argument ``case`` from ``root`` (its numag, one
+    BLAS thread)."""
     environment = dict(os.environ, OMP_NUM_THREADS="1", OPENBLAS_NUM_THREADS="1", MKL_NUM_THREADS="1",
                        PYTHONPATH=root)
-    done = subprocess.run([sys.executable, "-c", _CHILD, case], cwd=root, env=environment, capture_output=True,
+    done = subprocess.run([sys.executable, "-c", child, case], cwd=root, env=environment, capture_output=True,
                           text=True)
     if done.returncode != 0:
         raise SystemExit(f"{root}: case {case} failed: {done.stderr.strip()[-400:]}")
     return json.loads(done.stdout.strip().splitlines()[-1])
+
+
+def _run(root, case):
+    """The child's record for ``case`` run from ``root``."""
+    return run_child(root, _CHILD, case)
 
 
 def main():

@@ -127,10 +127,14 @@ class BatchEvaluator:
         support = (self.monomials > 0).sum(axis=1)
         self.support = max(int(support.max()) if len(support) else 0, 1)
         index = np.zeros((len(self.monomials), self.support), dtype=np.int64)  # 0 -> x_0^0 = 1
-        for k, row in enumerate(self.monomials):  # precomputation only, once per system
-            nonzero = np.nonzero(row)[0]
-            index[k, :len(nonzero)] = nonzero * width + row[nonzero]
+        # each monomial's variables in increasing order, left-aligned: the k-th nonzero exponent of a row goes to
+        # column k (its rank among the row's nonzeros), one array operation for all rows
+        rows, columns = np.nonzero(self.monomials)
+        if len(rows):
+            rank = np.arange(len(rows)) - np.searchsorted(rows, rows)
+            index[rows, rank] = columns * width + self.monomials[rows, columns]
         self._gather_index = index
+        self._gathers = {}  # (start, stop, step) of the columns asked for -> contiguous indices per factor
 
     def power_table(self, points):
         """Powers x_j^e for e = 0..max exponent, shape (P, n * (max_exponent + 1))."""
@@ -149,10 +153,17 @@ class BatchEvaluator:
     def monomial_values(self, points, columns=slice(None)):
         """Values of the monomials of :attr:`monomials` (those in ``columns``: all by default), shape (P, K)."""
         table = self.power_table(points)
-        index = self._gather_index[columns]
-        values = table[:, index[:, 0]]
-        for k in range(1, self.support):  # a loop over the support width (at most the degree), not variables
-            values *= table[:, index[:, k]]
+        key = (columns.start, columns.stop, columns.step)
+        gathers = self._gathers.get(key)
+        if gathers is None:  # each factor's indices contiguous, for np.take
+            index = self._gather_index[columns]
+            gathers = self._gathers[key] = [np.ascontiguousarray(index[:, k]) for k in range(self.support)]
+        # gathered through the transpose: the result is laid out as ``table[:, index]`` lays it out (Fortran order),
+        # so the products below, and the matrix products of the callers, round exactly as they did
+        columns_first = table.T
+        values = np.take(columns_first, gathers[0], axis=0).T
+        for gather in gathers[1:]:  # a loop over the support width (at most the degree), not variables
+            values *= np.take(columns_first, gather, axis=0).T
         return values
 
     def evaluate(self, points, jacobian=True):

@@ -245,12 +245,28 @@ def degree_lowering_directions(polynomials, n=None):
             if len(_echelon(chosen + [vector], n)[1]) > len(chosen):
                 chosen.append(vector)
 
-    everyone = range(len(polynomials))
-    for level in range(max(p.degree for p in polynomials), 0, -1):  # common to every equation, deepest first
-        add(_exact_kernel([r for k in everyone for m in rows[k][:level] for r in m], n))
+    kernels = {}
+
+    def kernel(equations, level):
+        # The rows of a level hold those of every shallower level, so its kernel lies in theirs: where a shallower
+        # kernel is empty, so is this one, and the same rows (one equation alone, or an equation met twice) give the
+        # same kernel. Both only spare work: the directions are those of every kernel computed in full.
+        key = (tuple(equations), level)
+        if key not in kernels:
+            shallower = kernels.get((key[0], level - 1))
+            kernels[key] = [] if shallower is not None and not shallower else _exact_kernel(
+                [r for k in equations for m in rows[k][:level] for r in m], n)
+        return kernels[key]
+
+    def deepest_first(equations, depth):
+        for level in range(1, depth + 1):  # shallowest first, so that an empty kernel spares the deeper ones
+            kernel(equations, level)
+        for level in range(depth, 0, -1):
+            add(kernel(equations, level))
+
+    deepest_first(tuple(range(len(polynomials))), max(p.degree for p in polynomials))  # common to every equation
     for k, p in enumerate(polynomials):  # then each equation's own
-        for level in range(p.degree, 0, -1):
-            add(_exact_kernel([r for m in rows[k][:level] for r in m], n))
+        deepest_first((k,), p.degree)
     if not chosen:
         return None, None
     one, zero = ExactCoefficient.rational(1), ExactCoefficient.zero()

@@ -419,6 +419,10 @@ class RankDropSystem:
         The point whose numerical kernel gives N0 and whose scales fix the row weights.
     ctx : mpmath context
         Context the system is evaluated in (its precision may rise between calls).
+    evaluators : tuple, optional
+        ``(PrecisionEvaluator(system.polynomials), PrecisionEvaluator(first derivatives flattened))``, as
+        :meth:`evaluators_of` makes them: a caller looking at several points shares their derivatives and
+        converted coefficients (the same numbers).
 
     Notes
     -----
@@ -428,15 +432,13 @@ class RankDropSystem:
     the Jacobian of the flattened first derivatives.
     """
 
-    def __init__(self, system, rank, start, ctx):
+    def __init__(self, system, rank, start, ctx, evaluators=None):
         self.system = system
         self.ctx = ctx
         n, m = system.n_variables, system.n_equations
         self.n, self.m = n, m
         self.kernel_dimension = n - rank
-        self.values = PrecisionEvaluator(system.polynomials)
-        flat = [d for row in system.jacobian_polynomials() for d in row]
-        self.first_derivatives = PrecisionEvaluator(flat)
+        self.values, self.first_derivatives = self.evaluators_of(system) if evaluators is None else evaluators
         start_array = np.array([complex(v) for v in start])
         value_sizes, row_sizes = TermSizes(system.polynomials, system.projective).both(start_array[None, :])
         self.value_weights, self.row_weights = 1.0 / value_sizes[0], 1.0 / row_sizes[0]
@@ -450,6 +452,12 @@ class RankDropSystem:
         k = self.kernel_dimension
         self.kernel_start = basis[:, n - k:n] if k else ctx.matrix(n, 0)
         self.complement = basis[:, 0:n - k] if n - k else ctx.matrix(n, 0)
+
+    @staticmethod
+    def evaluators_of(system, values=None):
+        """The evaluators of F (``values`` if given) and of its first derivatives, flattened."""
+        flat = [d for row in system.jacobian_polynomials() for d in row]
+        return (PrecisionEvaluator(system.polynomials) if values is None else values), PrecisionEvaluator(flat)
 
     @property
     def n_unknowns(self):

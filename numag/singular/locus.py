@@ -317,12 +317,13 @@ def minors_system(system, codimension, rng, max_exact, n_columns=None, evaluate_
         return MinorsSystem(system.variables, equations, weights, name=system.name), kind
     # The Jacobian along the directions where F's derivatives lose degree (the same minors' span, fewer
     # paths to infinity: a linear change of coordinates must not cost the singular points; decision 0063).
-    directions, _ = degree_lowering_directions(system.polynomials, n)
-    gradients = None if directions is None else directional_gradients(system.polynomials, directions)
     if codimension == 1 and weights.complete and n_columns is None:
         # every partial: along random directions (and the lowering ones), so that the sets the regeneration
         # passes through belong to X, not to the coordinates (decision 0119)
         gradients = generic_gradients(system.polynomials, n, rng)
+    else:
+        directions, _ = degree_lowering_directions(system.polynomials, n)
+        gradients = None if directions is None else directional_gradients(system.polynomials, directions)
     minors = expanded_minors(equations, weights, normalize=True, gradients=gradients)
     kind = CandidateSystem.MINORS if weights.complete else CandidateSystem.RANDOM_MINORS
     return PolynomialSystem(system.variables, equations + minors, name=system.name), kind

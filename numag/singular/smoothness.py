@@ -433,6 +433,7 @@ class _Checker:
         self.drops_near = {}  # position -> the non-reduced sampling's answer, for a whole batch at once
         self.batch = BatchEvaluator(system.polynomials)
         self.precise = PrecisionEvaluator(system.polynomials)
+        self._drop_evaluators = None  # (F, its first derivatives) in mpmath, made at the first rank drop sought
         self.m, self.n = system.n_equations, system.n_variables
         self.sizes = TermSizes(system.polynomials, system.projective)
         # the decomposition (user's units) and the units of this checker, when the local multiplicity of a
@@ -627,7 +628,9 @@ class _Checker:
 
     def find_rank_drop(self, point, rank, ctx, digits):
         """Solve F = 0 and rank J <= rank from ``point``; return the point (complex) or None."""
-        drop = RankDropSystem(self.system, rank, [complex(v) for v in point], ctx)
+        if self._drop_evaluators is None:  # shared by every point judged: derivatives and coefficients made once
+            self._drop_evaluators = RankDropSystem.evaluators_of(self.system, self.precise)
+        drop = RankDropSystem(self.system, rank, [complex(v) for v in point], ctx, self._drop_evaluators)
         tolerance = zero_tolerance(digits, (self.m, self.n))
         z, converged, _, _ = mp_gauss_newton(drop, drop.initial(point), ctx, tolerance=tolerance, anchored=True)
         if not converged:

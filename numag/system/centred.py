@@ -25,10 +25,10 @@ import math
 
 import numpy as np
 
-from .exact import ExactCoefficient
+from .exact import MAX_COEFFICIENT_BITS, ExactCoefficient
 from .polynomial import Polynomial, PolynomialSystem
 
-__all__ = ["CENTRED_BALANCING_FLOOR", "CENTRING_TERMS", "Centring", "centre_in_region", "centre_near",
+__all__ = ["CENTRED_BALANCING_FLOOR", "CENTRING_TERMS", "CentredTerms", "Centring", "centre_in_region", "centre_near",
            "centred_system", "subleading_centre", "translated_terms", "within"]
 
 #: The balancing of a centred system leaves out terms below this fraction of the largest of their polynomial
@@ -145,26 +145,144 @@ def centred_system(system, centring):
     PolynomialSystem
         Same variable names and equations, exact coefficients.
     """
-    n = system.n_variables
-    identity = np.eye(n, dtype=np.int64)
-    polynomials = []
-    for polynomial in system.polynomials:
-        shifted = _translated_gaussian(polynomial, centring.centre)
-        if shifted is not None:
-            polynomials.append(shifted)
-            continue
-        if not polynomial.is_exact:  # every double is a dyadic rational: the translation stays exact
-            polynomial = Polynomial(polynomial.exponents,
-                                    np.array([ExactCoefficient.from_complex(c) for c in polynomial.coefficients],
-                                             dtype=object), n)
-        polynomials.append(polynomial.substitute_linear(identity, list(centring.centre)))
-    centred = PolynomialSystem(list(system.variables), polynomials, name=system.name)
-    centred.literal_digits = system.literal_digits  # the same numbers, written about another origin
-    return centred
+    return CentredTerms(system, centring).exact()
 
 
-#: The direct translation (:func:`_translated_gaussian`) writes at most this many (term, shifted term) pairs of one
-#: polynomial; beyond, the general substitution with its size limits is used.
+class CentredTerms:
+    """A system translated to y = x - s, held as Gaussian integers over one denominator per equation.
+
+    :meth:`exact` writes the centred system exactly (:func:`centred_system`); :meth:`rounded` gives the numbers
+    a judgement in double uses -- the centred system in units of powers of ten, each coefficient rounded once
+    from its exact value -- without writing an exact number: those are the same doubles as
+    ``Scaling(c, r).scale_system(centred_system(system, centring))`` rounds to (an integer quotient is correctly
+    rounded, as a Fraction's is), so every decision made in double is the same, at a fraction of the cost
+    (the cascade judges each junk candidate centred, decision 0097; decision 0138).
+
+    Parameters
+    ----------
+    system : PolynomialSystem
+        Affine.
+    centring : Centring
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> terms = CentredTerms(parse_system(["x^2 - 1/3"], ["x"]), centre_near(np.array([2.0]), 0.0))
+    >>> terms.exact().to_texts(), terms.rounded((0,), (1,)).polynomials[0].numeric_coefficients().real.tolist()
+    (['x^2 + 4*x + 11/3'], [36.66666666666667, 40.0, 10.0])
+    """
+
+    def __init__(self, system, centring, _forms=None):
+        self.system = system
+        self.centring = centring
+        forms = [_integer_form(p) for p in system.polynomials] if _forms is None else _forms
+        # per equation: (exponents, real numerators, imaginary numerators, denominator), or the exact polynomial
+        # where the direct translation does not apply (square roots, too many terms)
+        self._terms = []
+        for polynomial, form in zip(system.polynomials, forms):
+            integers = None if form is None else _translated_integers(form, centring.centre)
+            self._terms.append(integers if integers is not None else _substituted(polynomial, centring))
+
+    @classmethod
+    def about(cls, system):
+        """centring -> ``CentredTerms(system, centring)``, the coefficients read once (a system centred at many
+        points, one after the other).
+
+        Examples
+        --------
+        >>> from numag.system.parse import parse_system
+        >>> at = CentredTerms.about(parse_system(["x^2 - 1/3"], ["x"]))
+        >>> [at(centre_near(np.array([c]), 0.0)).exact().to_texts()[0] for c in (1.0, 2.0)]
+        ['x^2 + 2*x + 2/3', 'x^2 + 4*x + 11/3']
+        """
+        forms = [_integer_form(p) for p in system.polynomials]
+        return lambda centring: cls(system, centring, forms)
+
+    def exact(self):
+        """The centred system with exact coefficients (:func:`centred_system`)."""
+        n = self.system.n_variables
+        polynomials = [_exact_polynomial(terms, n) if isinstance(terms, tuple) else terms for terms in self._terms]
+        return self._written(polynomials)
+
+    def rounded(self, variable_exponents=None, equation_exponents=None):
+        """The centred system g_i(y) = 10^r_i f_i(s + 10^c y) with complex double coefficients, each the exact
+        value rounded once.
+
+        Parameters
+        ----------
+        variable_exponents, equation_exponents : sequence of int, optional
+            c and r (:class:`~numag.numeric.scaling.Scaling`); default 0.
+
+        Returns
+        -------
+        PolynomialSystem
+        """
+        n = self.system.n_variables
+        c = np.zeros(n, dtype=np.int64) if variable_exponents is None else np.asarray(variable_exponents, np.int64)
+        rows = [0] * len(self._terms) if equation_exponents is None else list(equation_exponents)
+        polynomials = []
+        for terms, r in zip(self._terms, rows):
+            if isinstance(terms, tuple):
+                exponents, real, imaginary, whole = terms
+                powers = (exponents @ c + int(r)).tolist() if len(exponents) else []
+                values = _rounded_quotients(real, imaginary, whole, powers)
+                if values is not None:
+                    polynomials.append(Polynomial(exponents, values, n))
+                    continue
+                terms = _exact_polynomial(terms, n)  # beyond the exact size limit: raised as the exact route does
+            powers = (terms.exponents @ c + int(r)).tolist()
+            polynomials.append(Polynomial(terms.exponents, np.array(
+                [complex(a * ExactCoefficient.rational(Fraction(10) ** k)) if k else complex(a)
+                 for a, k in zip(terms.coefficients, powers)], dtype=complex), n))
+        return self._written(polynomials)
+
+    def _written(self, polynomials):
+        centred = PolynomialSystem(list(self.system.variables), polynomials, name=self.system.name)
+        centred.literal_digits = self.system.literal_digits  # the same numbers, written about another origin
+        return centred
+
+
+def _substituted(polynomial, centring):
+    """p(y + s) by the general substitution (exact; a double coefficient read as the dyadic rational it is)."""
+    n = polynomial.n_variables
+    if not polynomial.is_exact:  # every double is a dyadic rational: the translation stays exact
+        polynomial = Polynomial(polynomial.exponents,
+                                np.array([ExactCoefficient.from_complex(c) for c in polynomial.coefficients],
+                                         dtype=object), n)
+    return polynomial.substitute_linear(np.eye(n, dtype=np.int64), list(centring.centre))
+
+
+def _exact_polynomial(terms, n):
+    """The exact polynomial of :func:`_translated_integers`' terms."""
+    exponents, real, imaginary, whole = terms
+    if not len(exponents):
+        return Polynomial.zero(n)
+    return Polynomial(exponents, np.array([ExactCoefficient.rational(Fraction(re, whole), Fraction(im, whole))
+                                           for re, im in zip(real, imaginary)], dtype=object), n)
+
+
+def _rounded_quotients(real, imaginary, whole, powers):
+    """(re + i im) 10^k / whole rounded once per part (Python's integer quotient is correctly rounded, as
+    ``float(Fraction)`` is); None where the exact route would meet its size limit (it raises there)."""
+    bits = whole.bit_length() + max((abs(k) for k in powers), default=0) * 4 \
+        + max((abs(v).bit_length() for v in real + imaginary), default=0)
+    if bits > MAX_COEFFICIENT_BITS:
+        return None
+    tens = {}
+    values = np.empty(len(real), dtype=complex)
+    for t, (re, im, k) in enumerate(zip(real, imaginary, powers)):
+        if k not in tens:
+            tens[k] = 10 ** abs(k)
+        if k >= 0:
+            values[t] = complex(re * tens[k] / whole, im * tens[k] / whole)
+        else:
+            below = whole * tens[k]
+            values[t] = complex(re / below, im / below)
+    return values
+
+
+#: The direct translation (:func:`_translated_integers`) applies to polynomials with at most this many (term,
+#: shifted term) pairs; beyond, the general substitution with its size limits is used.
 _DIRECT_TRANSLATION_PAIRS = 200_000
 
 
@@ -182,66 +300,89 @@ def _gaussian_parts(value):
     return Fraction(value.real), Fraction(value.imag)
 
 
-def _translated_gaussian(polynomial, centre):
-    """p(y + s) written out in Gaussian integers over one common denominator; None where it does not apply.
-
-    Every term x^e gives the terms prod_j C(e_j, k_j) s_j^(e_j - k_j) y^k (the binomial theorem, coordinate by
-    coordinate). With the coefficients (a + b i) / D and the centre (A_j + B_j i) / Q, all on one denominator
-    D Q^deg, every product is of Python integers: the general substitution multiplies sums of exact numbers and
-    spent 0.1 s per point on a sextic surface (the non-reduced sampling centres every candidate, decision 0084).
-    Applies to Gaussian rational coefficients and centres (every double is one) up to
-    :data:`_DIRECT_TRANSLATION_PAIRS` pairs; exactly the polynomial :meth:`Polynomial.substitute_linear` gives.
-    """
-    n = polynomial.n_variables
+def _integer_form(polynomial):
+    """A polynomial's side of :func:`_translated_integers`: (exponents, Gaussian integer numerators, their
+    denominator), or None where the direct translation does not apply (a square root, too many pairs)."""
     exponents = np.asarray(polynomial.exponents, dtype=np.int64)
     if len(exponents) == 0:
         return None
     if int(np.sum(np.prod(exponents + 1, axis=1))) > _DIRECT_TRANSLATION_PAIRS:
         return None
     coefficients = [_gaussian_parts(c) for c in polynomial.coefficients]
-    shift = [_gaussian_parts(c) for c in centre]
-    if any(c is None for c in coefficients) or any(c is None for c in shift) or len(shift) != n:
+    if any(c is None for c in coefficients):
         return None
     denominator = math.lcm(*(q.denominator for pair in coefficients for q in pair))
+    numerators = [(re.numerator * (denominator // re.denominator), im.numerator * (denominator // im.denominator))
+                  for re, im in coefficients]
+    return exponents, numerators, denominator
+
+
+def _translated_integers(form, centre):
+    """p(y + s) as Gaussian integers over one common denominator: (exponents, real numerators, imaginary
+    numerators, denominator), the zero terms left out, for the polynomial of ``form`` (:func:`_integer_form`); None
+    where the centre has a square root.
+
+    With the coefficients (a + b i) / D and the centre (A_j + B_j i) / Q, D Q^deg p(y + s) is
+    sum_e (a_e + b_e i) Q^(deg - |e|) prod_j (A_j + B_j i + Q y_j)^(e_j): every product is of Python integers (the
+    general substitution multiplies sums of exact numbers and spent 0.1 s per point on a sextic surface; the
+    non-reduced sampling centres every candidate, decision 0084). The translation is made one coordinate at a
+    time, (A + Q y)^e = sum_k C(e, k) A^(e - k) Q^k y^k (the binomial theorem), merging equal monomials after
+    each coordinate, so the work is that of the terms the translation has, not of every pair of a term and a
+    shifted term (decision 0138). Applies to Gaussian rational coefficients and centres (every double is one)
+    up to :data:`_DIRECT_TRANSLATION_PAIRS` pairs; exactly the polynomial :meth:`Polynomial.substitute_linear`
+    gives.
+    """
+    exponents, numerators, denominator = form
+    n = exponents.shape[1]
+    shift = [_gaussian_parts(c) for c in centre]
+    if any(c is None for c in shift) or len(shift) != n:
+        return None
     common = math.lcm(*(q.denominator for pair in shift for q in pair))
-    numerators = [(int(re * denominator), int(im * denominator)) for re, im in coefficients]
-    centre_integers = [(int(re * common), int(im * common)) for re, im in shift]
+    centre_integers = [(re.numerator * (common // re.denominator), im.numerator * (common // im.denominator))
+                       for re, im in shift]
     degree = int(exponents.sum(axis=1).max())
-    top = exponents.max(axis=0)
-    powers = []  # powers[j][m] = (A_j + B_j i)^m, Gaussian integers
-    for j in range(n):
-        a, b = centre_integers[j]
-        column = [(1, 0)]
-        for _ in range(int(top[j])):
-            re, im = column[-1]
-            column.append((re * a - im * b, re * b + im * a))
-        powers.append(column)
     common_powers = [common ** m for m in range(degree + 1)]
-    sums = {}
-    for (re0, im0), exponent in zip(numerators, exponents.tolist()):
-        # the expansions of the coordinates one after the other: (shifted exponent, Gaussian integer, drop in degree)
-        partial = [((), re0, im0, 0)]
-        for j, e in enumerate(exponent):
-            grown = []
-            for head, re, im, drop in partial:
-                for k in range(e + 1):
-                    binomial = math.comb(e, k)
-                    pa, pb = powers[j][e - k]
-                    grown.append((head + (k,), binomial * (re * pa - im * pb), binomial * (re * pb + im * pa),
-                                  drop + e - k))
-            partial = grown
-        for head, re, im, drop in partial:
-            # s^m carries Q^-m: on the common denominator Q^deg the term takes Q^(deg - m)
-            scale = common_powers[degree - drop]
-            total = sums.get(head)
-            sums[head] = (re * scale, im * scale) if total is None else (total[0] + re * scale, total[1] + im * scale)
-    kept = [(head, re, im) for head, (re, im) in sums.items() if re or im]
-    if not kept:
-        return Polynomial.zero(n)
+    # a monomial's key is its exponent written in base degree + 1: translating coordinate j moves the key by a
+    # multiple of place[j] (integer keys: no tuples built per product)
+    base = degree + 1
+    place = [base ** j for j in range(n)]
+    keys = (exponents @ np.array(place, dtype=object)).tolist() if n else [0] * len(exponents)
+    terms = {}  # key -> (real, imaginary) of D Q^deg p, coordinates before j translated
+    for (re, im), key, total in zip(numerators, keys, exponents.sum(axis=1).tolist()):
+        scale = common_powers[degree - total]
+        terms[key] = (re * scale, im * scale)
+    top = exponents.max(axis=0).tolist()
+    for j in range(n):
+        if top[j] == 0:
+            continue
+        a, b = centre_integers[j]
+        powers = [(1, 0)]  # (A_j + B_j i)^m
+        for _ in range(top[j]):
+            re, im = powers[-1]
+            powers.append((re * a - im * b, re * b + im * a))
+        # weights[e][k] = C(e, k) (A_j + B_j i)^(e - k) Q^k, with k's step of the key
+        p = place[j]
+        weights = [[(k * p, math.comb(e, k) * common_powers[k] * powers[e - k][0],
+                     math.comb(e, k) * common_powers[k] * powers[e - k][1]) for k in range(e + 1)]
+                   for e in range(top[j] + 1)]
+        grown = {}
+        get = grown.get
+        for key, (re, im) in terms.items():
+            e = (key // p) % base
+            lowest = key - e * p
+            for step, wa, wb in weights[e]:
+                target = lowest + step
+                total = get(target)
+                if total is None:
+                    grown[target] = (re * wa - im * wb, re * wb + im * wa)
+                else:
+                    grown[target] = (total[0] + re * wa - im * wb, total[1] + re * wb + im * wa)
+        terms = grown
+    kept = [(key, re, im) for key, (re, im) in terms.items() if re or im]
     whole = denominator * common_powers[degree]
-    return Polynomial(np.array([head for head, _, _ in kept], dtype=np.int64).reshape(len(kept), n),
-                      np.array([ExactCoefficient.rational(Fraction(re, whole), Fraction(im, whole))
-                                for _, re, im in kept], dtype=object), n)
+    rows = [[(key // p) % base for p in place] for key, _, _ in kept]
+    return (np.array(rows, dtype=np.int64).reshape(len(kept), n), [re for _, re, _ in kept],
+            [im for _, _, im in kept], whole)
 
 
 def has_no_zero_near_origin(system, radius):

@@ -191,9 +191,26 @@ class Polynomial:
         """Euclidean norm of the coefficient vector."""
         return float(np.linalg.norm(self.numeric_coefficients()))
 
+    def _with_coefficients(self, coefficients):
+        """These terms with other (complex) coefficients, a fresh array the new polynomial keeps: exactly what the
+        constructor gives (zero terms dropped), without sorting and merging terms that are sorted and distinct
+        already (a numeric copy of every equation is made for each evaluator; decision 0138)."""
+        coefficients = np.asarray(coefficients, dtype=complex).reshape(-1)
+        keep = coefficients != 0
+        made = object.__new__(Polynomial)
+        made.n_variables = self.n_variables
+        if np.all(keep):
+            made.exponents, made.coefficients = self.exponents, coefficients
+        else:
+            made.exponents, made.coefficients = self.exponents[keep], coefficients[keep]
+        made.exponents.setflags(write=False)
+        made.coefficients.setflags(write=False)
+        made._numeric = None
+        return made
+
     def numeric(self):
         """The same polynomial with complex double coefficients."""
-        return Polynomial(self.exponents, np.array(self.numeric_coefficients()), self.n_variables)
+        return self._with_coefficients(np.array(self.numeric_coefficients()))
 
     def absolute(self):
         """The polynomial whose coefficients are the moduli of these (real doubles, as complex).
@@ -206,7 +223,7 @@ class Polynomial:
         >>> (x * x - 3).absolute().to_text(["x"])
         '1.0*x^2 + 3.0'
         """
-        return Polynomial(self.exponents, np.abs(self.numeric_coefficients()).astype(complex), self.n_variables)
+        return self._with_coefficients(np.abs(self.numeric_coefficients()).astype(complex))
 
     def scaled(self, factor):
         """The polynomial times a number, with complex double coefficients (one construction, no product).
@@ -217,7 +234,7 @@ class Polynomial:
         >>> (x * x + 1).scaled(0.5).to_text(["x"])
         '0.5*x^2 + 0.5'
         """
-        return Polynomial(self.exponents, np.array(self.numeric_coefficients()) * factor, self.n_variables)
+        return self._with_coefficients(np.array(self.numeric_coefficients()) * factor)
 
     def __eq__(self, other):
         if not isinstance(other, Polynomial) or other.n_variables != self.n_variables:

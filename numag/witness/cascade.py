@@ -37,7 +37,7 @@ import numpy as np
 
 from ..kinds import TextEnum
 from ..errors import InputError, LimitError, is_integer, is_number, require_option
-from ..system.centred import CENTRED_BALANCING_FLOOR, CENTRING_TERMS, centre_near, centred_system, translated_terms
+from ..system.centred import CENTRED_BALANCING_FLOOR, CENTRING_TERMS, CentredTerms, centre_near, translated_terms
 from ..system.polynomial import Polynomial, PolynomialSystem
 from ..run.executor import ambient_executor, charge_paths
 from ..numeric.cluster import cluster_labels, groups
@@ -932,13 +932,16 @@ def _judged_centred(system, used, slice_rows, points, codim, threshold):
     augmented = PolynomialSystem(list(system.variables), equations)
     if minors is not None or system.projective or translated_terms(augmented) > CENTRING_TERMS:
         return verdicts
+    centred_at = CentredTerms.about(augmented)  # its coefficients read once for every point
     for k, point in enumerate(points):
         if not np.all(np.isfinite(point)):
             continue
         centring = centre_near(point, radius=0.0)
-        centred = centred_system(augmented, centring)
-        scaling = Scaling.balancing(centred, CENTRED_BALANCING_FLOOR)
-        scaled = scaling.scale_system(centred)
+        # the judgement is made in double: the centred system's coefficients rounded once from their exact values,
+        # the same numbers the exact system scaled by the balancing rounds to (decision 0138)
+        terms = centred_at(centring)
+        scaling = Scaling.balancing(terms.rounded(), CENTRED_BALANCING_FLOOR)
+        scaled = terms.rounded(scaling.variable_exponents, scaling.equation_exponents)
         at = scaling.to_computed(point - centring.point)[None, :]
         test = newton_zero_test(scaled, BatchEvaluator([p.numeric() for p in scaled.polynomials]), at)
         if test.mask(ZeroKind.ZERO)[0] and test.distances[0] <= 1e-5 * (1 + np.linalg.norm(at)):

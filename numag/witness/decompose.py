@@ -43,7 +43,7 @@ import numpy as np
 
 from ..errors import InputError, LimitError, is_integer, is_number, require_option
 from ..system.display import counted, html_table, short_point
-from ..system.centred import CENTRED_BALANCING_FLOOR, CENTRING_TERMS, centre_near, centred_system, translated_terms
+from ..system.centred import CENTRED_BALANCING_FLOOR, CENTRING_TERMS, CentredTerms, centre_near, translated_terms
 from ..system.polynomial import Polynomial, PolynomialSystem, linear_space, require_numeric
 from ..system.univariate import multiplicity_profile
 from ..numeric.cluster import cluster_labels, connected_components, groups as label_groups
@@ -1115,7 +1115,7 @@ def components_through(decomposition, point, seed=0, options=None):
     if len(point) != decomposition.system.n_variables:
         raise InputError(f"the point has {len(point)} coordinates, the system "
                          f"{decomposition.system.n_variables} variables")
-    centred = centred_decomposition(decomposition, point)
+    centred = _centred_parts(decomposition, point)
     if centred is None:
         return _components_through_here(decomposition, point, seed, options)
     # Decision 0084: membership in coordinates centred exactly at the point and balanced anew. In the
@@ -1126,9 +1126,14 @@ def components_through(decomposition, point, seed=0, options=None):
     # aimed next to the point ends on X next to it (:func:`_lands_on_x_next_to`): centred at a point of the line
     # far from the sphere, the balancing crushes the sphere onto the plane of its test system, and paths jumped to
     # the point at 4 seeds of 30 without that test.
-    moved, centring = centred
-    hits = {id(c) for c in _components_through_here(moved, point - centring.point, seed, options, verify=True)}
-    return [c for c, m in zip(decomposition.components, moved.components) if id(m) in hits]
+    moved, centring, terms, scaling = centred
+    # in the balanced units at once: the centred coefficients rounded once from their exact values, the numbers the
+    # exact centred system scaled by the balancing rounds to (decision 0138)
+    computed = moved.in_units(scaling, terms.rounded(scaling.variable_exponents, scaling.equation_exponents),
+                              to_user=False)
+    hits = {id(c) for c in _components_through_here(computed, scaling.to_computed(point - centring.point), seed,
+                                                    options, verify=True)}
+    return [c for c, m in zip(decomposition.components, computed.components) if id(m) in hits]
 
 
 def centred_decomposition(decomposition, point):
@@ -1138,6 +1143,16 @@ def centred_decomposition(decomposition, point):
     fibre (its blocks belong to the original equations), a system with evaluated minors, a point that is not
     finite, or a system whose translation would be too large (:data:`CENTRING_TERMS`).
     """
+    parts = _centred_parts(decomposition, point)
+    if parts is None:
+        return None
+    moved, centring, terms, scaling = parts
+    return replace(moved, system=terms.exact(), scaling=scaling), centring
+
+
+def _centred_parts(decomposition, point):
+    """:func:`centred_decomposition` before its system is written: (the decomposition with moved points and slices,
+    the centring, the :class:`~numag.system.centred.CentredTerms`, the balancing), or None."""
     system = decomposition.system
     if (decomposition.fibred_over is not None or type(system) is not PolynomialSystem or system.projective
             or not np.all(np.isfinite(point)) or not decomposition.components):
@@ -1145,7 +1160,7 @@ def centred_decomposition(decomposition, point):
     if translated_terms(system) > CENTRING_TERMS:
         return None
     centring = centre_near(point, radius=0.0)
-    moved_system = centred_system(system, centring)
+    terms = CentredTerms(system, centring)
     shift = np.concatenate([[1.0], centring.point])
     components = []
     for c in decomposition.components:
@@ -1156,9 +1171,9 @@ def centred_decomposition(decomposition, point):
             rows[:, 0] = rows @ shift
             rows /= np.linalg.norm(rows, axis=1)[:, None]
         components.append(replace(c, points=np.asarray(c.points) - centring.point[None, :], slice_rows=rows))
-    moved = replace(decomposition, system=moved_system, components=components,
-                    scaling=Scaling.balancing(moved_system, CENTRED_BALANCING_FLOOR))
-    return moved, centring
+    # the balancing reads the coefficients in double: the exact ones rounded once (decision 0138)
+    scaling = Scaling.balancing(terms.rounded(), CENTRED_BALANCING_FLOOR)
+    return replace(decomposition, components=components), centring, terms, scaling
 
 
 def _components_through_here(decomposition, point, seed, options, verify=False):
