@@ -84,11 +84,15 @@ def test_the_inside_of_a_non_reduced_component_is_answered_or_flagged(name, chan
     expected_points, expected_curve_degree = _reference(equations[0], unknowns)
     locus = singular_locus(parse_system(equations, unknowns), SingularOptions(), seed=seed)
     warnings = completeness_warnings(singular_to_dict(locus, SingularOptions()))
+    undecided = [c for c in locus.components if c.kind is PieceKind.UNDECIDED and not c.at_infinity]
+    # the search must answer the cases as written at seeds 1 and 2 (deterministic runs; seed 3 of the double cusp
+    # has jumped paths in X's own candidates, exit 3 before the search)
+    assert change != "as written" or seed == 3 or not (warnings or undecided), (warnings, locus.notes)
     if locus.discarded.get("non_reduced_inside_unsearched"):  # no answer (failed paths, ...): it must say so
         assert any("non-reduced component" in w for w in warnings), warnings
         return
-    if any(c.kind is PieceKind.UNDECIDED and not c.at_infinity for c in locus.components):
-        return  # the component itself undecided (exit 3): nothing is claimed inside it
+    if undecided:
+        return  # a piece undecided (exit 3): the run claims no complete answer
     # answered: exactly sympy's points, and sympy's curve by its degree, listed as singular pieces
     inside = [c for c in locus.components if c.formulation is CandidateSystem.HIGHER_PARTIALS]
     assert all(c.kind is PieceKind.SINGULAR for c in inside)
