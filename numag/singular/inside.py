@@ -195,6 +195,13 @@ def search_inside(system, variety, component, options=None, seed=0):
         return result
     every = [p.numeric() for level in levels for p in level]
     sizes, evaluator = TermSizes(every), BatchEvaluator(every)
+    below = [p.numeric() for level in levels[:-1] for p in level]
+    if np.min(largest_scaled_residual(TermSizes(below), BatchEvaluator(below), component.points)) > INSIDE_RESIDUAL:
+        # a second guard beside the exact profile: f vanishes to order >= m on C (an m too large would miss the
+        # points of order m + 1 .. the true order; too small shows as C in the search, below). At one witness point
+        # at least: those of a multiple component far out are accurate to about eps^(1/m) of their size only
+        result.undecided = "the partials of order < m vanish at none of the component's witness points"
+        return result
     for piece in search.components:
         # every witness point meets every partial of order <= m, in units of its terms (scale-free)
         if np.any(largest_scaled_residual(sizes, evaluator, piece.points) > INSIDE_RESIDUAL):
