@@ -708,6 +708,7 @@ def decomposition_to_dict(result, options):
         "options_in_full": options_to_dict(options),
         "start": result.extra.get("start"),
         "unexplained": _encode_points(result.extra.get("unexplained")),
+        "exact_profile": _encode_profile(result.extra.get("exact_profile")),
         "dimensions_searched": list(result.dimensions_searched),
         "paths": decomposition_path_counts(result.paths),
         "path_counts": {str(k): int(v) for k, v in result.paths.items()},  # every count, as the run kept it
@@ -774,7 +775,30 @@ def decomposition_from_dict(data):
         result.extra["start"] = data["start"]
     if data.get("unexplained") is not None:  # absent before it was saved
         result.extra["unexplained"] = _decode_points(data["unexplained"], system.n_variables)
+    if _decode_profile(data.get("exact_profile")) is not None:  # absent before decision 0140
+        result.extra["exact_profile"] = _decode_profile(data["exact_profile"])
     return result, options
+
+
+def _encode_profile(profile):
+    """An exact multiplicity profile {multiplicity: sum of degrees} for JSON (keys as text), or None.
+
+    >>> _decode_profile(_encode_profile({2: 1, 1: 3}))
+    {2: 1, 1: 3}
+    """
+    return None if profile is None else {str(int(k)): int(v) for k, v in profile.items()}
+
+
+def _decode_profile(data):
+    """The inverse of :func:`_encode_profile`; None for anything else (a report edited by hand is not trusted).
+
+    >>> _decode_profile(["2", 1]) is None
+    True
+    """
+    try:
+        return {int(k): int(v) for k, v in data.items()}
+    except (AttributeError, TypeError, ValueError):
+        return None
 
 
 # --- singular ------------------------------------------------------------------------------------
@@ -823,6 +847,7 @@ def singular_to_dict(result, options):
          "monodromy_loops": {str(k): int(v) for k, v in variety.loops.items()}, "seed": variety.seed,
          "seconds": variety.seconds, "start": variety.extra.get("start"),
          "unexplained": _encode_points(variety.extra.get("unexplained")),
+         "exact_profile": _encode_profile(variety.extra.get("exact_profile")),
          "options_in_full": None if variety.options is None else options_to_dict(variety.options)},
         "discarded": dict(result.discarded),
         "near_singular": [p.to_dict(encode_point) for p in result.near_singular],
@@ -873,6 +898,8 @@ def singular_from_dict(data):
             variety.extra["start"] = run["start"]
         if run.get("unexplained") is not None:  # absent before it was saved
             variety.extra["unexplained"] = _decode_points(run["unexplained"], system.n_variables)
+        if _decode_profile(run.get("exact_profile")) is not None:  # absent before decision 0140
+            variety.extra["exact_profile"] = _decode_profile(run["exact_profile"])
         if run.get("options_in_full") is not None:
             variety.options = options_from_dict(DecomposeOptions, run["options_in_full"])
     result = SingularLocus(system=system, components=components, variety=variety, paths=counts,

@@ -92,6 +92,8 @@ class CandidateSystem(TextEnum):
     NULL_VECTOR = "null vector"
     GRADIENT = "gradient system"
     GRADIENT_AT_INFINITY = "gradient system at infinity"
+    # f and its partials up to a non-reduced component's multiplicity m: where ord f > m inside it (decision 0140)
+    HIGHER_PARTIALS = "partials up to the multiplicity"
 
 
 class PieceKind(TextEnum):

@@ -63,6 +63,7 @@ from ..witness.cascade import held_parts, linear_form, random_rows, track_moves
 from ..witness.fibres import finite_block
 from ..witness.decompose import (EXPANSION_MONOMIALS, DecomposeOptions, Decomposition, components_through, decompose,
                                  expansion_bound, holding_rows)
+from .inside import search_inside
 from .isolated import finite_singular_points, null_vector_groups, null_vector_system, square_route_paths
 from .kinds import CandidateSystem, Formulation, PieceKind, Verdict
 from ..system.centred import (centre_in_region, centre_near, centred_system, has_no_zero_near_origin, subleading_centre,
@@ -1108,6 +1109,7 @@ def _affine(system, options, rng, paths, discarded, progress, notes_out=None, ro
     check_options = CheckOptions(max_digits=options.digits, backward_errors=False,  # measured in _near_singular
                                  point_tolerance=POINT_TOLERANCE)
     formulations = {}  # codimension -> the formulation asked for after the minors' witness sets split (0115)
+    inside = []  # ids of the non-reduced components whose inside is searched (decision 0140)
     queue = list(codimensions)
     while queue:
         codimension = queue.pop(0)
@@ -1251,9 +1253,9 @@ def _affine(system, options, rng, paths, discarded, progress, notes_out=None, ro
                     piece_kind = PieceKind.UNDECIDED
                 elif candidate.dimension > 0 and not _reduced_structure_smooth(whole, variety):
                     # J vanishes all along the component, so where another component meets it, or where it is
-                    # singular itself, no candidate of its own shows (decision 0136)
-                    discarded["non_reduced_inside_unsearched"] = discarded.get(
-                        "non_reduced_inside_unsearched", 0) + 1
+                    # singular itself, no candidate of its own shows (decision 0136): searched by the order of f
+                    # after this codimension's pieces (decision 0140)
+                    inside.extend(c["id"] for c in whole)
             points = candidate.points
             if candidate.dimension == 0 and np.linalg.norm(verdict.point - point) <= _CANDIDATE_TOLERANCE * (
                     1 + np.linalg.norm(point)):
@@ -1300,7 +1302,46 @@ def _affine(system, options, rng, paths, discarded, progress, notes_out=None, ro
         for piece in split:  # cannot be told from one component split by rounding: undecided, never silent
             piece.kind = PieceKind.UNDECIDED
             piece.notes.append(_SPLIT_NOTE)
+    for component_id in dict.fromkeys(inside):  # each non-reduced component once
+        _inside_non_reduced(system, variety, component_id, options, rng, paths, discarded, notes_out, found, oracles)
     return found, variety
+
+
+def _inside_non_reduced(system, variety, component_id, options, rng, paths, discarded, notes, found, oracles):
+    """The singular points of X_red inside a non-reduced component (:func:`~numag.singular.inside.search_inside`):
+    its pieces appended to ``found`` as singular pieces, or ``non_reduced_inside_unsearched`` counted where the
+    search gives no answer (decision 0140; a completeness warning, exit 3, as in decision 0136)."""
+    component = next(c for c in variety.components if c.id == component_id)
+    # its points are multiple zeros of the search system: the candidates' endgame radius (decision 0085)
+    search_options = replace(options.decompose, witness=replace(options.decompose.witness,
+                                                                 moved_endgame_radius=CANDIDATE_ENDGAME_RADIUS))
+    search = search_inside(system, variety, component, search_options, seed=int(rng.integers(2**31)))
+    add_path_counts(paths, search.paths)
+    if search.undecided is not None:
+        discarded["non_reduced_inside_unsearched"] = discarded.get("non_reduced_inside_unsearched", 0) + 1
+        notes.append(f"Inside the non-reduced component {component_id} of X: not searched ({search.undecided}).")
+        return
+    for piece in search.pieces:
+        candidate = _Candidate(piece.dimension, piece.degree, piece.points)
+        # met by another component's search, or inside a larger singular piece (not inside a non-reduced one: the
+        # search is for the points inside those)
+        kept = [k for k, other in enumerate(found) if other.kind is not PieceKind.NON_REDUCED]
+        seen = _already([found[k] for k in kept], [oracles[k] for k in kept], candidate, piece.points[0])
+        if seen is not None:
+            discarded[seen] = discarded.get(seen, 0) + 1
+            continue
+        found.append(SingularComponent(
+            id=0, dimension=piece.dimension, degree=piece.degree, points=np.asarray(piece.points, dtype=complex),
+            real=_real_flags(system, piece.points), multiplicity=None, at_infinity=False,
+            formulation=CandidateSystem.HIGHER_PARTIALS, kind=PieceKind.SINGULAR, on_components=piece.through,
+            rank=0, codimension=1,
+            notes=[f"Inside the non-reduced component {component_id} (multiplicity {search.order}): f vanishes to "
+                   f"order > {search.order} here, so X's reduced structure is singular (decision 0140)."]))
+        oracles.append(_membership_oracle(search.decomposition, piece.component, int(rng.integers(2**31)))
+                       if piece.dimension else None)
+    if not search.pieces:
+        notes.append(f"Inside the non-reduced component {component_id} of X (multiplicity {search.order}): f vanishes "
+                     f"to order {search.order} everywhere, so X's reduced structure is smooth along it (decision 0140).")
 
 
 #: Why a piece of :func:`_split_pieces` is undecided.
@@ -1350,8 +1391,9 @@ def _reduced_structure_smooth(whole, variety):
     The Jacobian of F vanishes all along a component of multiplicity m > 1, so the points where X_red is singular
     inside it -- where another component meets it ((x - y)^2 (x + y) at the origin), or where the component is
     singular itself ((y^2 - x^3)^2 at the cusp) -- are no candidates of their own. Known smooth only when the
-    component is a linear space (degree 1) and X has no other component; otherwise the component is counted
-    ``non_reduced_inside_unsearched`` (a completeness warning, exit 3; decision 0136).
+    component is a linear space (degree 1) and X has no other component; otherwise the component is searched by
+    the order of f (:func:`_inside_non_reduced`, decision 0140), or counted ``non_reduced_inside_unsearched`` where
+    that search gives no answer (a completeness warning, exit 3; decision 0136).
 
     Examples
     --------

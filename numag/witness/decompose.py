@@ -58,8 +58,8 @@ from .cascade import (WitnessOptions, combine_equations, held_parts, jacobian_ra
                       track_moves, witness_supersets)
 from .fibres import EMPTY_FIBRE, WHOLE_FIBRE, FiniteBlock, fibre_system, finite_block, solve_block
 
-__all__ = ["Component", "Decomposition", "DecomposeOptions", "decompose", "components_through",
-           "centred_decomposition"]
+__all__ = ["Component", "Decomposition", "DecomposeOptions", "decompose", "components_through", "exact_profile",
+           "profile_of", "centred_decomposition"]
 
 
 @dataclass(frozen=True)
@@ -795,7 +795,10 @@ def decompose(system, options=None, seed=None, progress=None):
         result = _decompose(_scaled(scaling, system), options, seed, progress)
     result.options = options
     result = result.in_units(scaling, system, to_user=True)
-    result.paths.update(_exact_profile_check(system, result.components, seed))
+    profile = exact_profile(system, seed)
+    if profile is not None:  # decided exactly: the singular locus reads a component's multiplicity by it (0140)
+        result.extra["exact_profile"] = profile
+    result.paths.update(_exact_profile_check(system, result.components, profile))
     return result
 
 
@@ -804,30 +807,50 @@ def decompose(system, options=None, seed=None, progress=None):
 _EXACT_PROFILE_DEGREE, _EXACT_PROFILE_TERMS = 16, 600
 
 
-def _exact_profile_check(system, components, seed):
-    """One equation with rational coefficients: X's components held against the exact multiplicity profile.
+def profile_of(components, top):
+    """{multiplicity: sum of degrees} of the components of dimension ``top`` (what :func:`exact_profile` decides).
+
+    Examples
+    --------
+    >>> from types import SimpleNamespace as C
+    >>> profile_of([C(dimension=1, degree=1, multiplicity=2), C(dimension=1, degree=3, multiplicity=1)], 1)
+    {2: 1, 1: 3}
+    """
+    found = {}
+    for c in components:
+        if c.dimension == top:
+            found[int(c.multiplicity)] = found.get(int(c.multiplicity), 0) + int(c.degree)
+    return found
+
+
+def exact_profile(system, seed):
+    """One equation with rational coefficients: its exact multiplicity profile, or None where it is not decided.
 
     On a rational line in general position f restricts to g(t), and the square-free factorisation of g gives,
     for each multiplicity m, the number of distinct points of multiplicity m (:mod:`numag.system.univariate`):
     the degrees of X's components of multiplicity m add up to exactly that. Two random integer lines that agree
     give the profile (a line tangent to X or through a singular point shows more multiplicity; two such lines
-    agreeing by chance is not expected, and a third is drawn where they differ). A decomposition that disagrees
-    (five witness points merged into one of multiplicity 5 in expanded terms of 1e16) is counted
-    ``exact_profile_differs``: a warning, exit 3. Exact, so scale-, coordinate- and seed-free (decision 0128).
+    agreeing by chance is not expected, and a third is drawn where they differ). None for several equations,
+    projective input, inexact or non-rational coefficients, degrees or sizes beyond the exact limits, or six
+    lines without two that agree. Exact, so scale-, coordinate- and seed-free (decision 0128).
+
+    Returns
+    -------
+    dict or None
+        {multiplicity: sum of the degrees of X's components of that multiplicity}.
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> exact_profile(parse_system(["(x - y)^2*(x + y)"], ["x", "y"]), seed=1)
+    {1: 1, 2: 1}
     """
     if len(system.polynomials) != 1 or getattr(system, "projective", False):
-        return {}
+        return None
     f = system.polynomials[0]
     if (not f.is_exact or f.degree < 1 or f.degree > _EXACT_PROFILE_DEGREE or f.n_terms > _EXACT_PROFILE_TERMS
             or not all(c.is_rational() for c in f.coefficients)):
-        return {}
-    top = system.n_variables - 1
-    found = {}
-    for c in components:
-        if c.dimension == top:
-            found[int(c.multiplicity)] = found.get(int(c.multiplicity), 0) + int(c.degree)
-    # no component of top dimension is wrong too: a non-constant f vanishes on a hypersurface of C^n, whose
-    # profile is never empty (a tracker change once lost a far doubled conic entirely, and the check stood aside)
+        return None
     rng = np.random.default_rng([int(seed) % 2**32, 128])
     profiles = []
     for _ in range(6):
@@ -836,9 +859,21 @@ def _exact_profile_check(system, components, seed):
         if profile is None:  # the line lost degree (its direction at infinity on X): another
             continue
         if profile in profiles:
-            return {} if profile == found else {"exact_profile_differs": 1}
+            return profile
         profiles.append(profile)
-    return {}
+    return None
+
+
+def _exact_profile_check(system, components, profile):
+    """X's components held against the equation's exact multiplicity profile (:func:`exact_profile`; None: not
+    decided, nothing said). A decomposition that disagrees (five witness points merged into one of multiplicity 5
+    in expanded terms of 1e16) is counted ``exact_profile_differs``: a warning, exit 3 (decision 0128). No
+    component of top dimension is wrong too: a non-constant f vanishes on a hypersurface of C^n, whose profile is
+    never empty (a tracker change once lost a far doubled conic entirely, and the check stood aside).
+    """
+    if profile is None:
+        return {}
+    return {} if profile == profile_of(components, system.n_variables - 1) else {"exact_profile_differs": 1}
 
 
 def _polynomial_part(system):
