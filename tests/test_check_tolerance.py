@@ -80,3 +80,29 @@ def test_no_point_of_x_reached_is_undecided_not_off(tmp_path, monkeypatch):
     assert verdict["verdict"] == "undecided"
     assert code == EXIT_UNDECIDED
     assert not any("reached a point of X" in note for note in verdict["notes"])
+
+
+@pytest.mark.parametrize("seed", SEEDS)
+@pytest.mark.parametrize("written", ("exact", "decimal"))
+@pytest.mark.parametrize("scale", (1, 1000))
+def test_newton_sliding_to_a_node_is_not_the_nearest_point(tmp_path, seed, written, scale):
+    # decision 0141: from (t, 0), between the branches of the node y^2 = x^2 (x + 1), Gauss-Newton converges to the
+    # node (distance t, twice its first step); the nearest points of X are smooth, about t / sqrt(2) away. With the
+    # tolerance between the two the verdict is about a smooth point within it; it was "off" (exit 3). References:
+    # sympy (A. Meurer et al., "SymPy: symbolic computing in Python", PeerJ Computer Science, 2017) for the nearest
+    # point by Lagrange multipliers; the node's normal form: common practice, no source.
+    t = sympy.Rational(scale, 100)
+    f = (Y / scale) ** 2 - (X / scale) ** 2 * (X / scale + 1)
+    lam = sympy.Symbol("lam")
+    lagrange = [2 * (X - t) - lam * f.diff(X), 2 * Y - lam * f.diff(Y), f]
+    near = sympy.nsolve(lagrange, (X, Y, lam), (t / 2, t / 2, 1), prec=30)
+    d = sympy.sqrt((near[0] - t) ** 2 + near[1] ** 2)
+    assert sympy.N(f.diff(Y).subs({X: near[0], Y: near[1]})) != 0 and d < 0.75 * t  # smooth, nearer than the node
+    size = sympy.sqrt(1 + t ** 2)
+    tolerance = float((d + t) / 2 / size)
+    point = f"x={t},y=0" if written == "exact" else f"x={sympy.N(t, 20)},y=0.0"
+    code, verdict = _run(tmp_path, f"(y/{scale})^2 - (x/{scale})^2*(x/{scale} + 1)", point, seed,
+                         tolerance=f"{tolerance:.6g}")
+    assert verdict["verdict"] == "smooth", verdict["notes"]
+    assert code == EXIT_OK
+    assert verdict["distance"] <= tolerance * float(size)

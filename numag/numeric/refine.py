@@ -31,9 +31,14 @@ from .evaluate import BatchEvaluator, PrecisionEvaluator, TermSizes
 from .minors import AugmentedEvaluator
 from .linalg import batched_least_squares, mp_least_squares, mp_right_singular_vectors, scaled_singular_values
 
-__all__ = ["ProjectionResult", "project_to_variety", "ZeroKind", "ZeroTest", "newton_zero_test", "explained_share", "mp_gauss_newton", "mp_scaled_equations", "RankDropSystem", "IsolationTest",
+__all__ = ["SLID_RATIO", "ProjectionResult", "project_to_variety", "ZeroKind", "ZeroTest", "newton_zero_test", "explained_share", "mp_gauss_newton", "mp_scaled_equations", "RankDropSystem", "IsolationTest",
            "scaled_residual_norm", "largest_scaled_residual", "RankDropResult", "rank_drop_points"]
 
+#: Decision 0141: Gauss-Newton that moved more than this many times its first minimum-norm step has slid to a zero
+#: where F vanishes to higher order (twice its first step at a node or a cone's vertex from the saddle between the
+#: branches, three times at a cusp): near a regular zero the two agree to first order. Smooth points of X can be
+#: nearer the start. A ratio of lengths, so scale-free.
+SLID_RATIO = 1.5
 #: Step fractions a precision Gauss-Newton step tries before it stops for lack of progress.
 _DAMPING = (1.0, 0.5, 0.25, 0.125, 1 / 16, 1 / 32)
 
@@ -55,6 +60,9 @@ class ProjectionResult:
         Distance moved from the start point.
     iterations : int
         Iterations of the whole batch.
+    first_steps : ndarray, shape (P,), optional
+        Length of the first minimum-norm step (0 where the start was already within the tolerance): the linear
+        model's distance to X.
     """
 
     points: np.ndarray
@@ -62,6 +70,15 @@ class ProjectionResult:
     residuals: np.ndarray
     distances: np.ndarray
     iterations: int
+    first_steps: np.ndarray = None
+
+    @property
+    def slid(self):
+        """Points Newton moved more than :data:`SLID_RATIO` times their first step (decision 0141)."""
+        if self.first_steps is None:
+            return np.zeros(len(self.points), dtype=bool)
+        with np.errstate(invalid="ignore"):
+            return (self.first_steps > 0) & (self.distances > SLID_RATIO * self.first_steps)
 
 
 def scaled_residual_norm(sizes, evaluator, points):
@@ -138,11 +155,14 @@ def project_to_variety(system, evaluator, points, tolerance=1e-13, max_iteration
     sizes = TermSizes(system.polynomials, system.projective) if sizes is None else sizes
     residual, values, jacobians = scaled_residual_norm(sizes, evaluator, current)
     active = residual > tolerance
+    first_steps = np.zeros(len(current))
     iterations = 0
     while np.any(active) and iterations < max_iterations:
         iterations += 1
         index = np.nonzero(active)[0]
         step = batched_least_squares(jacobians[index], values[index], rcond=1e-13)
+        if iterations == 1:
+            first_steps[index] = np.linalg.norm(step, axis=1)
         better = np.zeros(len(index), dtype=bool)
         # Accept a step only where it does not make things worse, halving it a few times first
         # (at non-reduced solution sets the full step can overshoot); stop points that stall.
@@ -163,7 +183,7 @@ def project_to_variety(system, evaluator, points, tolerance=1e-13, max_iteration
         tiny_step = np.linalg.norm(step, axis=1) <= 1e-15 * (1 + np.linalg.norm(current[index], axis=1))
         active[index] = better & (residual[index] > tolerance) & ~tiny_step
     distances = np.linalg.norm(current - start, axis=1)
-    return ProjectionResult(current, residual <= tolerance, residual, distances, iterations)
+    return ProjectionResult(current, residual <= tolerance, residual, distances, iterations, first_steps)
 
 
 #: Scaled residual within the rounding of double-precision evaluation (with a margin): a point Newton leaves
@@ -228,6 +248,8 @@ class ZeroTest:
         Scaled residuals (Euclidean norm, :func:`scaled_residual_norm`) at the given and at the refined points.
     distances : ndarray, shape (P,)
         How far refinement moved each point.
+    slid : ndarray of bool, shape (P,), optional
+        :attr:`ProjectionResult.slid`: refinement went more than :data:`SLID_RATIO` times its first step.
     """
 
     points: np.ndarray
@@ -235,6 +257,7 @@ class ZeroTest:
     before: np.ndarray
     after: np.ndarray
     distances: np.ndarray
+    slid: np.ndarray = None
 
     def mask(self, kind):
         """Boolean mask of the points of one :class:`ZeroKind`."""
@@ -303,7 +326,7 @@ def newton_zero_test(system, evaluator, points, sizes=None, max_iterations=60):
     unexplained |= ~zero & ~np.all(np.isfinite(result.points), axis=1)
     kinds = [ZeroKind.ZERO if z else ZeroKind.NOT_A_ZERO if u else ZeroKind.UNDECIDED
              for z, u in zip(zero, unexplained)]
-    return ZeroTest(result.points, kinds, before, after, result.distances)
+    return ZeroTest(result.points, kinds, before, after, result.distances, result.slid)
 
 
 def mp_scaled_equations(evaluator, sizes, ctx):

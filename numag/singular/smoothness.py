@@ -63,9 +63,9 @@ from ..system.parse import parse_constant
 from ..system.polynomial import PolynomialSystem, require_numeric
 from ..numeric.cluster import line_distance, normalize_projective, projective_pivot
 from ..numeric.evaluate import BatchEvaluator, PrecisionEvaluator, TermSizes
-from ..numeric.linalg import (DOUBLE_DIGITS, RankEvidence, mp_singular_values, numerical_rank,
+from ..numeric.linalg import (DOUBLE_DIGITS, RankEvidence, mp_least_squares, mp_singular_values, numerical_rank,
                               scaled_singular_values, singular_value_gap, zero_tolerance)
-from ..numeric.refine import (RankDropSystem, ZeroKind, mp_gauss_newton, mp_scaled_equations, newton_zero_test,
+from ..numeric.refine import (SLID_RATIO, RankDropSystem, ZeroKind, mp_gauss_newton, mp_scaled_equations, newton_zero_test,
                               project_to_variety, rank_drop_points)
 from ..numeric.scaling import Scaling
 from ..numeric.seeds import random_state
@@ -416,6 +416,33 @@ def _size(point):
     return math.sqrt(1.0 + float(np.linalg.norm(point)) ** 2)
 
 
+def _foot_on_x(function, z, start, ctx, tolerance, rounds=20):
+    """From a point ``z`` of X, the foot of the perpendicular from ``start`` on X near it (decision 0141).
+
+    Each round moves z by the part of ``start - z`` tangent to X at z (the kernel of J), halved where that
+    overshoots, and brings it back to X by Gauss-Newton; a round is kept only when it brings z nearer to ``start``. A restart around the start lands on X
+    anywhere within its radius of the nearest points; this walks it along X to a point where ``start - z`` is
+    normal to X, a nearest point locally, so the distance kept does not depend on where the restart landed.
+    """
+    distance = ctx.norm(z - start)
+    rcond = ctx.mpf(10) ** (-(ctx.dps * 3) // 4)
+    for _ in range(rounds):
+        _, jacobian = function(z)
+        offset = start - z
+        tangent = offset - mp_least_squares(jacobian, jacobian * offset, ctx, rcond=rcond)
+        if ctx.norm(tangent) <= ctx.mpf(10) ** (-(ctx.dps // 2)) * (distance + ctx.norm(z)):
+            break
+        for damping in (1.0, 0.5, 0.25, 0.125):  # X curves away from its tangent: a shorter move where the full one overshoots
+            moved, converged, _, _ = mp_gauss_newton(function, z + tangent * damping, ctx, tolerance=tolerance,
+                                                     max_iterations=40)
+            if converged and ctx.norm(moved - start) < distance:
+                break
+        else:
+            break
+        z, distance = moved, ctx.norm(moved - start)
+    return z
+
+
 class _Checker:
     """Carries one system's evaluators and options through the checks of many points."""
 
@@ -429,6 +456,7 @@ class _Checker:
         # decision 0132: rounded data finer than double, position -> (exact decimal, working digits); their distances
         # are measured from the exact decimal in mpmath, not between doubles
         self.fine = {}
+        self.last_nearest_slid = False  # decision 0141: the last nearest point was found by a restart, Newton slid
         self.judged = {}  # position -> _Judged, decided for a whole batch before its sampling
         self.drops_near = {}  # position -> the non-reduced sampling's answer, for a whole batch at once
         self.batch = BatchEvaluator(system.polynomials)
@@ -601,24 +629,39 @@ class _Checker:
             stuck = min(self.n, self.m) and mp_singular_values(jacobian, ctx)[min(self.n, self.m) - 1] <= ctx.mpf(
                 10) ** (-DOUBLE_DIGITS) * max(ctx.norm(residual), 1e-300) ** 0.5
             reach = float(ctx.norm(residual)) ** 0.5 * _size(np.array([complex(v) for v in x0]))
+            self.last_nearest_slid = False
+            # Decision 0141: Newton went farther than its first step says X is (SLID_RATIO): it slid to a zero of
+            # higher order past smooth points of X nearer the start
+            first = float(ctx.norm(mp_least_squares(jacobian, residual, ctx,
+                                                    rcond=ctx.mpf(10) ** (-(ctx.dps * 3) // 4))))
+            # converged or not: at a node Newton converges linearly and may stop above the tolerance, still sliding
+            slid = first > 0 and float(ctx.norm(z - ctx.matrix(x0))) > SLID_RATIO * first
             # farther than the reach of a quadratic: J was nearly blind to the direction of the nearest points (a
             # node's neighbour, J parallel to the branch through the node), and Newton slid to a farther one
-            if stuck or not converged or best_distance > 2 * reach:
+            if slid and not (stuck or best_distance > 2 * reach):
+                reach = first  # restarts around the start at the distance the linear model gives
+            if stuck or not converged or slid or best_distance > 2 * reach:
                 real = all(ctx.im(v) == 0 for v in x0)
                 # a real start keeps real points real; but the nearest points of X can be complex (beside a cusp,
                 # on the side where the real curve has no points, real Gauss-Newton stalls at the residual's
                 # stationary point), so complex directions follow where no real one converged (decision 0120)
+                restarted = False
                 for attempt in range(8 if reach > 0 and real else 4 if reach > 0 else 0):
-                    if attempt == 4 and best is not None:
+                    # a point as far as a slide is no reason to stop: the nearer ones can be complex (real restarts
+                    # beside a Whitney umbrella's handle slide to its singular line again)
+                    if attempt == 4 and best is not None and (not slid or best_distance <= SLID_RATIO * first):
                         break
                     direction = self.rng.standard_normal(self.n) + (
                         0 if real and attempt < 4 else 1j * self.rng.standard_normal(self.n))
                     direction *= reach / np.linalg.norm(direction)
                     begin = ctx.matrix([v + ctx.mpc(d) for v, d in zip(x0, direction)])
                     z, converged, _, _ = mp_gauss_newton(function, begin, ctx, tolerance=tolerance, max_iterations=40)
+                    if converged:  # landed anywhere within the restart's radius: walked to the nearest point there
+                        z = _foot_on_x(function, z, ctx.matrix(x0), ctx, tolerance)
                     distance = float(ctx.norm(z - ctx.matrix(x0)))
                     if converged and distance < best_distance:
-                        best, best_distance = z, distance
+                        best, best_distance, restarted = z, distance, True
+                self.last_nearest_slid = slid and restarted
             back = [1] * self.n if factors is None else factors
             self.last_nearest_offset = None
             if best is None:
@@ -1571,6 +1614,9 @@ def _check_in_units(system, given, exact, options, seed, rng, decomposition, sca
     for k, digits in fine.items():
         checker.fine[k] = (exact[k], digits)
     unreached = set()  # F not zero exactly, zero in double, and extended precision reached no point of X
+    # decision 0141: Newton from the given point slid past nearer points of X; the escalation's refinement starts from
+    # the nearest point found, not from the given digits (from there it slides again: a node called smooth 10 away)
+    slid = set()
     for k in range(len(given)):
         kind = rule.data[k]
         if kind is not _PointData.TOLERANCE:
@@ -1591,13 +1637,16 @@ def _check_in_units(system, given, exact, options, seed, rng, decomposition, sca
                     if exact_ranks[k] is None and k not in fine:
                         checker.tolerances[k] = 10.0 ** -DOUBLE_DIGITS * _size(given[k])
                 continue
-        if kind is not _PointData.TOLERANCE or on_exactly[k] is False:
+        # decision 0141: with a tolerance, also where Newton in double slid past nearer points of X (to a node)
+        if kind is not _PointData.TOLERANCE or on_exactly[k] is False or projection.slid[k]:
             # the nearest point of X to the data itself (exact decimals or the rounded digits), in mpmath: in
             # double the rounding of F near a singular point moves Newton's point by more than the data's radius
             found, converged = checker.nearest_on_x(exact[k] if exact[k] is not None else given[k],
                                                     fine.get(k, _NEAREST_DIGITS))
             if converged:  # else double precision's answer stands (slow convergence at a cusp, say)
                 refined[k] = normalize_projective(found) if system.projective else found
+                if checker.last_nearest_slid:
+                    slid.add(k)
                 on_variety[k], moved[k] = True, checker.from_given(given[k], refined[k])
                 if k in fine:  # decision 0132: the distance from the exact decimal, measured in mpmath
                     moved[k] = float(np.linalg.norm(checker.last_nearest_offset))
@@ -1653,7 +1702,8 @@ def _check_in_units(system, given, exact, options, seed, rng, decomposition, sca
     # decisions first, then the non-reduced sampling of every singular one in shared batches (the same random
     # draws, in the same order, as one sampling per point), then the verdicts
     for k in np.nonzero(~off)[0]:
-        checker.judged[k] = checker.decide(given[k], None if on_exactly[k] is False and k not in fine else exact[k],
+        checker.judged[k] = checker.decide(given[k], None if (on_exactly[k] is False or k in slid) and k not in fine
+                                           else exact[k],
                                            refined[k], values[k], scales[k], through[k], position=k,
                                            exact_rank=exact_ranks[k])
     singular = [k for k, judged in checker.judged.items() if judged.verdict is Verdict.SINGULAR]
@@ -1665,7 +1715,7 @@ def _check_in_units(system, given, exact, options, seed, rng, decomposition, sca
                              ZeroKind.UNDECIDED if k in unreached else projection.kinds[k],
                              float(projection.after[k]), values[k], scales[k], unreached=k in unreached)
                 if off[k] else
-                checker.check(k + 1, given[k], None if on_exactly[k] is False and k not in fine else exact[k],
+                checker.check(k + 1, given[k], None if (on_exactly[k] is False or k in slid) and k not in fine else exact[k],
                               refined[k],
                               float(residual_given[k]), values[k], scales[k], through[k], position=k,
                               exact_rank=exact_ranks[k]) for k in range(len(given))]
