@@ -67,7 +67,13 @@ _STYLE = {
     "undecided": ("D", "tab:gray", "check: undecided"),
     "singular (check)": ("X", "tab:red", "check: singular"),
     "solution": ("*", "tab:purple", "solution"),
+    "non-reduced point": ("s", "tab:orange", "non-reduced point"),   # a fat point of X (decision 0145)
+    "undecided point": ("D", "tab:gray", "undecided point"),
 }
+
+
+#: the kinds of a singular report's points, where the traced curves may be singular
+_PIECES = ("singular", "non-reduced point", "undecided point")
 
 
 class PlotKind(str, enum.Enum):
@@ -234,7 +240,9 @@ def _marked_points(data, n, notes):
             if point is None:
                 complex_points += 1
             else:
-                found.append((_label(c), "singular", point))
+                kind = c.get("kind", "singular")  # the piece's kind, as `singular` lists it
+                found.append((_label(c), "singular" if kind == "singular" else
+                              "non-reduced point" if kind == "non-reduced" else "undecided point", point))
     elif command == "check":
         for p in data["points"]:
             point = _real_point(p["point"], n)
@@ -434,7 +442,7 @@ def _mark(ax, marked, coordinates_of, legends=None):
 def _draw_plane(figure, system, marked, options, seed, notes):
     ax = figure.add_subplot(1, 1, 1)
     box = _box_pairs(options.box, 2)
-    singular = np.array([p for _, kind, p in marked if kind == "singular"]).reshape(-1, 2)
+    singular = np.array([p for _, kind, p in marked if kind in _PIECES]).reshape(-1, 2)
     curves = []
     colours = ["tab:blue", "tab:olive", "tab:cyan", "tab:brown", "tab:pink"]
     for k, polynomial in enumerate(system.polynomials):
@@ -471,7 +479,7 @@ def _draw_projection(figure, system, axes, marked, options, seed, notes):
     three = len(axes) == 3
     ax = figure.add_subplot(1, 1, 1, projection="3d" if three else None)
     names = [system.variables[a] for a in axes]
-    singular = np.array([p for _, kind, p in marked if kind == "singular"]).reshape(-1, system.n_variables)
+    singular = np.array([p for _, kind, p in marked if kind in _PIECES]).reshape(-1, system.n_variables)
     curves = []
     if system.n_equations >= system.n_variables:  # isolated points: nothing to trace
         notes.append("the system has as many equations as unknowns: only its points are drawn")
@@ -522,7 +530,7 @@ def _draw_angles(figure, system, angles, marked, options, seed, notes):
                          "the configuration set is not a curve, numag plot draws configuration curves")
     pairs = [angles[label] for label in labels]
     ax = figure.add_subplot(1, 1, 1)
-    singular = np.array([p for _, kind, p in marked if kind == "singular"]).reshape(-1, system.n_variables)
+    singular = np.array([p for _, kind, p in marked if kind in _PIECES]).reshape(-1, system.n_variables)
     curve = trace_real_curve(system, _curve_options(options, None), seed=seed, marked=singular)
     colours = ["tab:blue", "tab:olive", "tab:cyan", "tab:brown", "tab:pink", "tab:purple"]
     for j, branch in enumerate(curve.branches(clip=False)):

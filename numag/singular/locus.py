@@ -1587,6 +1587,9 @@ def _projective_gradient(system, rng, paths, discarded, progress, dropped=None):
     # conics once got a fifth "node", a complex point where one partial was far from 0).
     every = [f] + list(gradient.polynomials)
     doubtful = []
+    # on P^1 every point of V(f) is a component of X (Krull): a common zero of f and its gradient is a multiple
+    # one, a non-reduced point, as check_points calls it; elsewhere an isolated singular point
+    on_a_line = PieceKind.NON_REDUCED if system.ambient_dimension == 1 else PieceKind.SINGULAR
     sizes = TermSizes(every, projective=True)
     evaluator = BatchEvaluator(every)
     for solution in result.solutions:
@@ -1598,7 +1601,7 @@ def _projective_gradient(system, rng, paths, discarded, progress, dropped=None):
             continue
         piece = SingularComponent(id=0, dimension=0, degree=1, points=point[None, :],
                                   real=_real_flags(system, point[None, :]), multiplicity=solution.multiplicity,
-                                  at_infinity=False, formulation=CandidateSystem.GRADIENT, kind=PieceKind.SINGULAR,
+                                  at_infinity=False, formulation=CandidateSystem.GRADIENT, kind=on_a_line,
                                   on_components=[], rank=None, codimension=1)
         (doubtful if residual > _SETTLED_RESIDUAL else pieces).append(piece)
     pieces += _confirmed_by_check(system, doubtful, rng, discarded, dropped)
@@ -1631,6 +1634,7 @@ def _confirmed_by_check(system, pieces, rng, discarded, dropped=None):
             reason = "not_on_X" if verdict.newton is ZeroKind.NOT_A_ZERO else "not_settled_on_X"
             discarded[reason] = discarded.get(reason, 0) + 1
         elif verdict.verdict.is_singular:
+            piece.kind = PieceKind.of_verdict(verdict.verdict)
             kept.append(piece)
         elif verdict.verdict is Verdict.EMBEDDED:  # X smooth there (decision 0105)
             discarded["embedded_point"] = discarded.get("embedded_point", 0) + 1

@@ -65,8 +65,8 @@ from ..numeric.cluster import line_distance, normalize_projective, projective_pi
 from ..numeric.evaluate import BatchEvaluator, PrecisionEvaluator, TermSizes
 from ..numeric.linalg import (DOUBLE_DIGITS, RankEvidence, mp_least_squares, mp_singular_values, numerical_rank,
                               scaled_singular_values, singular_value_gap, zero_tolerance)
-from ..numeric.refine import (SLID_RATIO, RankDropSystem, ZeroKind, mp_gauss_newton, mp_scaled_equations, newton_zero_test,
-                              project_to_variety, rank_drop_points)
+from ..numeric.refine import (SLID_RATIO, IsolationTest, RankDropSystem, ZeroKind, mp_gauss_newton,
+                              mp_scaled_equations, newton_zero_test, project_to_variety, rank_drop_points)
 from ..numeric.scaling import Scaling
 from ..numeric.seeds import random_state
 from ..witness.decompose import CENTRING_TERMS, components_through_points
@@ -204,9 +204,24 @@ class CheckOptions:
 
     def validated(self, system):
         """Check the options against a system; raise InputError naming the bad option."""
-        if self.local_dimension is not None and not 0 <= self.local_dimension <= system.ambient_dimension:
-            raise InputError(f"local_dimension must be between 0 and {system.ambient_dimension}, "
-                             f"got {self.local_dimension}")
+        if self.local_dimension is None:
+            return self
+        ambient = system.ambient_dimension
+        if not 0 <= self.local_dimension <= ambient:
+            raise InputError(f"local_dimension must be between 0 and {ambient}, got {self.local_dimension}")
+        # No point decides what the equations alone rule out (a verdict there would rest on a dimension no
+        # component has): m nonzero equations leave every component of X of dimension >= n - m (Krull's height
+        # theorem), and one nonzero equation vanishes on no open set, so every component has dimension < n
+        nonzero = sum(1 for p in system.polynomials if not p.is_zero())
+        low, high = max(0, ambient - nonzero), ambient - 1 if nonzero else ambient
+        if not low <= self.local_dimension <= high:
+            why = (f"a nonzero equation vanishes on no open set, so no component of X has dimension {ambient}"
+                   if self.local_dimension > high else
+                   f"{nonzero} nonzero equation{'s leave' if nonzero > 1 else ' leaves'} every component of X of "
+                   f"dimension at least {ambient} - {nonzero} = {low} (Krull's height theorem)")
+            allowed = f"{low}" if low == high else f"between {low} and {high}"
+            raise InputError(f"local_dimension (--local-dimension) must be {allowed} for these equations, got "
+                             f"{self.local_dimension}: {why}")
         return self
 
 
@@ -1237,6 +1252,23 @@ class _Checker:
                        escalated=escalated, final_values=final_values, digits=digits, zero=zero,
                        beyond_digits=beyond_digits and verdict is Verdict.UNDECIDED)
 
+    def isolated_here(self, codim, source, through):
+        """Why X has local dimension 0 at the point (a text), or None when that is not established.
+
+        Established by the user (``--local-dimension 0``), by the one component through the point (of dimension
+        0), or by Krull's principal ideal theorem for one equation on a line (affine or projective). Never by the
+        complete-intersection assumption, which a curve through the point would break ((x y, x y) at the origin).
+        """
+        if codim is None or codim != self.system.ambient_dimension or codim == 0:
+            return None
+        if source is LocalDimensionSource.GIVEN:
+            return "local dimension 0, as given"
+        if source is LocalDimensionSource.COMPONENTS and through and len(through) == 1 and through[0].dimension == 0:
+            return f"component {through[0].id} has dimension 0"
+        if source is LocalDimensionSource.HYPERSURFACE:
+            return "one equation on a line: every component of X is a point"
+        return None
+
     def check(self, index, given, exact_given, refined, residual, values, scales, through=None, position=None,
               exact_rank=None):
         """The verdict at one point (:meth:`decide`, then the non-reduced sampling), as a :class:`PointVerdict`.
@@ -1251,6 +1283,23 @@ class _Checker:
         decision, verdict, rank, codim = judged.decision, judged.verdict, judged.rank, judged.codim
         source, notes, escalated = judged.source, judged.notes, judged.escalated
         final_values, digits, zero = judged.final_values, judged.digits, judged.zero
+        isolated = verdict is Verdict.SINGULAR and self.isolated_here(codim, source, through)
+        if (isolated and source is LocalDimensionSource.GIVEN and not self.system.projective
+                and not IsolationTest(self.system, self.rng).isolated(np.asarray(decision.point))):
+            # a given dimension 0 is trusted, unless points of X off this one were found next to it (positive
+            # evidence: (x y, x y) at the origin is a node of two lines, not a double point)
+            isolated, verdict = None, Verdict.UNDECIDED
+            notes.append("Local dimension 0 was given, but points of X were found next to this one along the "
+                         "Jacobian's kernel: X has positive dimension here; the local dimension is wrong for this "
+                         "point.")
+        if isolated:
+            # An isolated point of X where J has rank < n is a zero of multiplicity > 1 (a regular zero is one
+            # of multiplicity 1): a component of dimension 0 that the equations define non-reduced, whose
+            # reduced structure, a point, is smooth; no point of X is next to it to sample
+            verdict = Verdict.NON_REDUCED
+            notes.append(f"X is a single point here ({isolated}), and the Jacobian has rank {rank} < "
+                         f"{self.system.ambient_dimension}: the equations define this point with multiplicity > 1, "
+                         "a non-reduced component of dimension 0 (its reduced structure, a point, is smooth).")
         if verdict is Verdict.SINGULAR:
             near = self.drops_near.pop(position, None) if position is not None else None
             if near is None:
@@ -1283,6 +1332,8 @@ class _Checker:
                          "with multiplicity > 1 here (generically non-reduced), so the Jacobian cannot see "
                          "whether the underlying variety is smooth. This is a sampling test, not a proof.")
         thick = [c for c in (through or []) if not c.reduced]
+        if isolated:
+            thick = []  # said above, once
         if thick and len(through) == 1 and opts.local_dimension is None and verdict is Verdict.SINGULAR:
             if near is False:
                 # the rank is full at sampled points of X next to this one: X is not generically non-reduced
@@ -1706,7 +1757,8 @@ def _check_in_units(system, given, exact, options, seed, rng, decomposition, sca
                                            else exact[k],
                                            refined[k], values[k], scales[k], through[k], position=k,
                                            exact_rank=exact_ranks[k])
-    singular = [k for k, judged in checker.judged.items() if judged.verdict is Verdict.SINGULAR]
+    singular = [k for k, judged in checker.judged.items() if judged.verdict is Verdict.SINGULAR
+                and not checker.isolated_here(judged.codim, judged.source, through[k])]  # nothing next to sample
     answers = checker.rank_drops_near_all([(np.asarray(checker.judged[k].decision.point), checker.judged[k].codim)
                                            for k in singular])
     checker.drops_near.update(zip(singular, answers))

@@ -125,8 +125,8 @@ def _print_singular(result, out, angles, data=None, anatomy=None):
             out.write(f"        e.g. {text(names, c.points[int(np.argmax(c.real))], _WITNESS_ACCURACY)}\n")
     larger = [c for c in affine if c.dimension > 0 or c.kind is not PieceKind.SINGULAR]
     if larger:
-        out.write(f"\n{_counted(len(larger), 'singular or non-reduced component')} of positive dimension or "
-                  f"undecided{_unsearched(lowest)}\n")
+        out.write(f"\n{_counted(len(larger), 'singular or non-reduced component')} of positive dimension, "
+                  f"non-reduced or undecided{_unsearched(lowest)}\n")
         for c in larger:
             out.write(f"  {c.id:4d}  {c.kind}  dimension {c.dimension}  degree {c.degree}  "
                       f"{_counted(int(sum(c.real)), 'real witness point')}  ({c.formulation})\n")
