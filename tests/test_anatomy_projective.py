@@ -58,3 +58,16 @@ def test_a_projective_singular_line_is_said_to_have_no_anatomy(tmp_path):
     assert len(lines) == 1 and data["anatomy_not_given"] == lines
     assert any("no anatomy" in note for note in data["anatomy_notes"])
     assert any("no anatomy given" in warning for warning in data["warnings"])
+
+
+@pytest.mark.parametrize("seed", SEEDS)
+def test_check_gives_the_anatomy_at_a_projective_singular_point(tmp_path, seed):
+    # the node of y^2 z = x^2 (x + z) at (0 : 0 : 1), given exactly: A1 with two real branches (hand, above)
+    path = tmp_path / "node.toml"
+    path.write_text(f'variables = ["x","y","z"]\nequations = ["{NODE}"]\nprojective = true\n')
+    out = io.StringIO()
+    assert main(["check", str(path), "--point", "x=0,y=0,z=1", "--anatomy", "--seed", str(seed), "--json"],
+                out=out) == 0
+    point = json.loads(out.getvalue())["points"][0]
+    assert point["verdict"] == "singular"
+    assert '"A1"' in json.dumps(point["anatomy"])

@@ -1415,7 +1415,11 @@ def check_anatomy(report, decomposition=None, angles=None, options=None):
     """
     result = {}
     for verdict in report.points:
-        if verdict.verdict != "singular" or report.system.projective:
+        if verdict.verdict != "singular":
+            continue
+        if report.system.projective:  # read in the chart of the point's largest coordinate (decision 0147)
+            result[verdict.index] = _projective_chart_anatomy(report.system, verdict.point,
+                                                              report.seed + verdict.index, options or AnatomyOptions())
             continue
         result[verdict.index] = point_anatomy(report.system, verdict.point, seed=report.seed + verdict.index,
                                               decomposition=decomposition, angles=angles,
