@@ -6,6 +6,7 @@ decimal given), and distances to the node worked out by hand from the parametris
 """
 
 from fractions import Fraction
+import io
 
 import pytest
 import sympy
@@ -209,3 +210,42 @@ def test_a_rank_drop_within_the_point_tolerance_is_sought(seed, factor):
     report = check_points(system, points, options=CheckOptions(point_tolerance=1e-2), seed=seed)
     for verdict in report.points:
         assert verdict.verdict is Verdict.SINGULAR and verdict.judged is JudgedPoint.RANK_DROP
+
+
+@pytest.mark.parametrize("seed", SEEDS)
+@pytest.mark.parametrize("equation, point", [
+    ("(y-2000)^2 - (x-1000)^2*(x-999)", "x=1000.00000000000000010,y=2000.00000000000000010"),
+    ("(y-2000000)^2 - (x-1000000)^2*(x-999000)/1000", "x=1000000.00000000000010,y=2000000.00000000000010"),  # x1000
+    ("(y-2)^2 - 1000*(x-1)^2*(x-999/1000)", "x=1.00000000000000000010,y=2.00000000000000000010"),  # x1e-3
+])
+def test_the_note_counts_a_rank_drop_in_the_radii_the_report_states(tmp_path, seed, equation, point):
+    # A node at (1000, 2000) in three units (x - 999 > 0 there: a real node, common practice, no source). Hand
+    # derivation (decision 0132's rule, checked with mpmath at 40 digits): each coordinate is written with 17 (x1000:
+    # 14, x1e-3: 20) decimal places, the trailing zero included, so it is known to half a unit of its last digit,
+    # 5e-18 (5e-15, 5e-21); the radius of the point is sqrt(2) * 5e-18 = 7.07e-18. The node is 1e-16 (1e-13, 1e-19) away in each
+    # coordinate: sqrt(2) * 1e-16, i.e. exactly 20 radii in every unit -- beyond the 10 radii of the data's reach,
+    # within 100: undecided. The note must say 20 times the uncertainty the report states, not 2.
+    import mpmath
+    with mpmath.workdps(40):
+        scale = {"x=1000.": mpmath.mpf(1), "x=100000": mpmath.mpf(1000), "x=1.000": mpmath.mpf("0.001")}
+        unit = next(v for k, v in scale.items() if point.startswith(k))
+        places = len(point.split(",")[0].split(".")[1])
+        radius = mpmath.sqrt(2) * mpmath.mpf(10) ** -places / 2
+        distance = mpmath.sqrt(2) * mpmath.mpf("1e-16") * unit
+        expected = float(distance / radius)
+    assert abs(expected - 20.0) < 1e-9
+    path = tmp_path / "node.toml"
+    path.write_text(f'variables = ["x","y"]\nequations = ["{equation}"]\n')
+    out = io.StringIO()
+    assert main(["check", str(path), "--point", point, "--seed", str(seed)], out=out) == 3
+    text = out.getvalue()
+    stated = float(text.split("allow it to be off by ")[1].split(")")[0])
+    assert abs(stated - float(radius)) <= 1e-3 * float(radius)
+    ratio = float(text.split("A point where the rank drops was found ")[1].split(" times")[0])
+    assert abs(ratio - expected) <= 1e-2 * expected
+
+
+def test_the_radius_counts_decimal_places_not_digits():
+    # "1000.00000100000025": 18 significant digits, 14 decimal places, so half a unit of 1e-14 (hand count)
+    _, radii = point_precision([parse_constant("1000.00000100000025")])
+    assert radii[0] == pytest.approx(5e-15, rel=1e-12)

@@ -407,3 +407,27 @@ def test_an_undecided_discriminant_says_why():
 def numag_family(equation):
     from numag.system.files import family_from_mapping
     return family_from_mapping({"variables": ["x"], "parameters": ["b"], "equations": [equation]})
+
+
+@pytest.mark.parametrize("seed", [1, 2, 3])
+def test_sweep_prints_neighbouring_values_apart(tmp_path, seed):
+    # x^3 - 3 x + p: discriminant 108 - 27 p^2 (= -4 a^3 - 27 b^2 for x^3 + a x + b, common practice, no source)
+    # vanishes at p = 2: 3 real roots below, a double root and a simple one at 2, 1 real root above. The five
+    # values 5e-15 apart must print as five different numbers, each within a rounding of the grid's value (hand:
+    # the grid is 1.99999999999999 + k * 5e-15, k = 0..4), in the order given.
+    path = tmp_path / "cub.toml"
+    path.write_text('variables = ["x"]\nparameters = ["p"]\nequations = ["x^3 - 3*x + p"]\n')
+    out = io.StringIO()
+    assert main(["sweep", str(path), "--grid", "p=1.99999999999999:2.00000000000001:5", "--seed", str(seed)],
+                out=out) == 0
+    text = out.getvalue()
+    lines = text.split("runs of equal counts)\n")[1].split("\n\n")[0].splitlines()
+    shown, counts = [], []
+    for line in lines:
+        span, count = line.strip().rsplit(": ", 1)
+        shown += [float(v.split("=")[1]) for v in span.split(" to ")]
+        counts.append(int(count))
+    assert counts == [3, 2, 1]
+    grid = [1.99999999999999 + k * 5e-15 for k in range(5)]
+    assert len(set(shown)) == len(shown) == 5 and shown == sorted(shown)  # runs of 2, 1 and 2 values: all shown
+    assert all(min(abs(v - g) for g in grid) < 1e-15 for v in shown)

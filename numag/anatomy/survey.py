@@ -92,6 +92,9 @@ class LocusAnatomy:
     special_points_asked : bool
         Whether special points along the components were asked for (``AnatomyOptions.special_points``): then a
         component where they were not searched is incomplete.
+    not_given : list of int
+        Ids of singular pieces with no anatomy at all (projective input; pieces at infinity of several equations
+        or of positive dimension): asked and not answered, so counted with the incomplete ones (decision 0147).
     """
 
     points: dict
@@ -99,6 +102,7 @@ class LocusAnatomy:
     seconds: float
     notes: list = field(default_factory=list)
     special_points_asked: bool = True
+    not_given: list = field(default_factory=list)
 
     def incomplete(self):
         """Ids of the points and components whose anatomy is incomplete (a failure to report).
@@ -106,7 +110,7 @@ class LocusAnatomy:
         A component whose special points were not searched is incomplete too: where the transversal type
         changes along it was asked and not answered (several singular components, a surface, an unclear rank).
         """
-        return sorted([k for k, v in self.points.items() if v.incomplete]
+        return sorted([k for k, v in self.points.items() if v.incomplete] + list(self.not_given)
                       + [k for k, v in self.components.items()
                          if v.transversal.incomplete or v.undecided_candidates
                          or (self.special_points_asked and not v.special_points_searched)
@@ -116,13 +120,14 @@ class LocusAnatomy:
         return {"points": {str(k): v.to_dict() for k, v in self.points.items()},
                 "components": {str(k): v.to_dict() for k, v in self.components.items()},
                 "seconds": self.seconds, "notes": list(self.notes),
-                "special_points_asked": self.special_points_asked}
+                "special_points_asked": self.special_points_asked, "not_given": list(self.not_given)}
 
     @classmethod
     def from_dict(cls, data):
         return cls({int(k): PointAnatomy.from_dict(v) for k, v in data["points"].items()},
                    {int(k): ComponentAnatomy.from_dict(v) for k, v in data["components"].items()},
-                   float(data["seconds"]), list(data["notes"]), bool(data.get("special_points_asked", True)))
+                   float(data["seconds"]), list(data["notes"]), bool(data.get("special_points_asked", True)),
+                   [int(k) for k in data.get("not_given", [])])
 
 
 def _is_real(point):
@@ -1279,7 +1284,19 @@ def locus_anatomy(locus, seed=None, angles=None, options=None):
     system = locus.system
     points, components, notes = {}, {}, []
     if system.projective:
-        return LocusAnatomy({}, {}, 0.0, ["the anatomy is computed for affine systems"], options.special_points)
+        # isolated points read in the affine chart of their largest coordinate (local invariants are the same in
+        # any chart); components are not, and that is said: a silent empty anatomy reads as "nothing singular to
+        # describe" (decision 0147)
+        for c in locus.components:
+            if c.kind == "singular" and c.dimension == 0:
+                points[c.id] = _projective_chart_anatomy(system, c.points[0], seed + c.id, options)
+        missing = [c.id for c in locus.components if c.kind == "singular" and c.id not in points]
+        if missing:
+            notes.append(f"no anatomy for {counted(len(missing), 'singular component')} of positive dimension "
+                         f"({', '.join(map(str, missing))}) of projective input: it is computed for affine systems "
+                         "only; write the system in an affine chart that contains the component (set a coordinate "
+                         "that is not 0 on it to 1)")
+        return LocusAnatomy(points, {}, time.perf_counter() - started, notes, options.special_points, missing)
     isolated = np.array([c.points[0] for c in locus.components
                          if c.dimension == 0 and not c.at_infinity and c.kind == "singular"],
                         dtype=complex).reshape(-1, system.n_variables)
@@ -1287,7 +1304,8 @@ def locus_anatomy(locus, seed=None, angles=None, options=None):
     for c in at_infinity:
         if c.dimension == 0 and system.n_equations == 1:
             points[c.id] = _chart_anatomy(system, c.points[0], seed + c.id, options)
-    if len(at_infinity) > len([c for c in at_infinity if c.id in points]):
+    missing = [c.id for c in at_infinity if c.id not in points]
+    if missing:
         notes.append("singular pieces at infinity of several equations, or of positive dimension, have no anatomy "
                      "(undecided): write the system in an affine chart that contains them")
     for c in locus.components:
@@ -1304,7 +1322,7 @@ def locus_anatomy(locus, seed=None, angles=None, options=None):
             if len(positive) > 1 and options.special_points:
                 components[c.id].notes.append("several singular components: the special points were not searched "
                                               "(they could not be told apart by component)")
-    return LocusAnatomy(points, components, time.perf_counter() - started, notes, options.special_points)
+    return LocusAnatomy(points, components, time.perf_counter() - started, notes, options.special_points, missing)
 
 
 def infinity_chart(system, homogeneous):
@@ -1351,6 +1369,42 @@ def _chart_anatomy(system, homogeneous, seed, options):
     return anatomy
 
 
+def projective_chart(system, homogeneous):
+    """The affine chart a projective point (x_1 : ... : x_n) is read in: the index j of its largest coordinate,
+    set to 1, and the chart's variable names (decision 0147).
+
+    Examples
+    --------
+    >>> import numag
+    >>> projective_chart(numag.parse_system(["x*z - y^2"], ["x", "y", "z"], projective=True), np.array([0.1, 0, 1]))
+    (2, ['x', 'y'])
+    """
+    j = int(np.argmax(np.abs(np.asarray(homogeneous))))
+    return j, [v for k, v in enumerate(system.variables) if k != j]
+
+
+def _projective_chart_anatomy(system, homogeneous, seed, options):
+    """The anatomy of a projective system at a singular point (x_1 : ... : x_n), read in the affine chart x_j = 1
+    of its largest coordinate: the equations with x_j = 1, at the point x / x_j. Every local invariant is the
+    same in any chart; the point and the branches' tangents are in the chart's coordinates, which a note names.
+
+    Examples
+    --------
+    >>> import numag
+    >>> cubic = numag.parse_system(["y^2*z - x^2*(x + z)"], ["x", "y", "z"], projective=True)  # a node at (0:0:1)
+    >>> anatomy = _projective_chart_anatomy(cubic, np.array([0, 0, 1.0]), 1, AnatomyOptions())
+    >>> anatomy.hypersurface.type.label, anatomy.point.real.tolist()
+    ('A1', [0.0, 0.0])
+    """
+    homogeneous = np.asarray(homogeneous, dtype=complex)
+    j, names = projective_chart(system, homogeneous)
+    chart = PolynomialSystem(names, [p.dehomogenize(j) for p in system.polynomials])
+    anatomy = point_anatomy(chart, np.delete(homogeneous, j) / homogeneous[j], seed=seed, options=options)
+    anatomy.notes.insert(0, f"projective input: read in the affine chart {system.variables[j]} = 1, coordinates "
+                            f"({', '.join(names)}); the point and tangents are in them")
+    return anatomy
+
+
 def check_anatomy(report, decomposition=None, angles=None, options=None):
     """The anatomy at every singular point of a :class:`~numag.singular.smoothness.CheckReport`.
 
@@ -1361,7 +1415,11 @@ def check_anatomy(report, decomposition=None, angles=None, options=None):
     """
     result = {}
     for verdict in report.points:
-        if verdict.verdict != "singular" or report.system.projective:
+        if verdict.verdict != "singular":
+            continue
+        if report.system.projective:  # read in the chart of the point's largest coordinate (decision 0147)
+            result[verdict.index] = _projective_chart_anatomy(report.system, verdict.point,
+                                                              report.seed + verdict.index, options or AnatomyOptions())
             continue
         result[verdict.index] = point_anatomy(report.system, verdict.point, seed=report.seed + verdict.index,
                                               decomposition=decomposition, angles=angles,

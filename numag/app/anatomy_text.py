@@ -117,6 +117,7 @@ def attach_to_singular(data, locus_anatomy):
         elif entry["id"] in locus_anatomy.components:
             entry["anatomy"] = locus_anatomy.components[entry["id"]].to_dict()
     data["anatomy_notes"] = list(locus_anatomy.notes)
+    data["anatomy_not_given"] = list(locus_anatomy.not_given)  # singular pieces with no anatomy (decision 0147)
     data["anatomy_seconds"] = locus_anatomy.seconds
     return data
 

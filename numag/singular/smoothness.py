@@ -468,6 +468,7 @@ class _Checker:
         self.settled = {}  # position -> outcome decided in double for a batch (settle_in_double)
         self.tolerances = {}  # position -> absolute point tolerance (computed units) when set per point
         self.inferred = set()  # positions whose tolerance is inferred from their digits (decision 0110)
+        self.data_reach = set()  # positions whose tolerance is DATA_MARGIN times their data radius (decision 0147)
         # decision 0132: rounded data finer than double, position -> (exact decimal, working digits); their distances
         # are measured from the exact decimal in mpmath, not between doubles
         self.fine = {}
@@ -1171,6 +1172,16 @@ class _Checker:
     def not_separated(self, given, decision, position):
         """The note of an undecided escalation: what separates the point from a rank drop (decision 0110)."""
         tolerance = self.tolerance_for(given, position)
+        if decision.drop is not None and tolerance > 0 and position in self.data_reach:
+            # the tolerance is DATA_MARGIN data radii (_DataRule.reach); the report states the radius ("the digits
+            # given allow it to be off by ..."), so the note counts in radii too (decision 0147)
+            radii = decision.drop_distance / (tolerance / DATA_MARGIN)
+            return (f"A point where the rank drops was found {radii:.3g} times the point's uncertainty away (the "
+                    "radius its digits allow, plus what rounded coefficients can move X and the precision distances are "
+                    "measured at): "
+                    f"beyond the {DATA_MARGIN:g} times within which it would be singular but within "
+                    f"{DATA_MARGIN * SMOOTH_MARGIN:g} times, so the given point cannot be told apart from a singular "
+                    "point; give the point exactly or to more accurate digits, or --point-tolerance, to decide.")
         if decision.drop is not None and tolerance > 0:
             return (f"A point where the rank drops was found {decision.drop_distance / tolerance:.3g} times the "
                     f"point's uncertainty away: beyond it but within {SMOOTH_MARGIN:g} times it, so the "
@@ -1672,10 +1683,13 @@ def _check_in_units(system, given, exact, options, seed, rng, decomposition, sca
         kind = rule.data[k]
         if kind is not _PointData.TOLERANCE:
             checker.tolerances[k] = 0.0 if kind is _PointData.EXACT else rule.reach(k, given[k])
+            if kind is not _PointData.EXACT:
+                checker.data_reach.add(k)
         if kind is _PointData.ROUNDED:
             checker.inferred.add(k)
         if rule.stated and rule.stated[k] is not None:
             checker.tolerances[k] = rule.stated[k] * (1.0 if system.projective else _size(given[k]))
+            checker.data_reach.discard(k)
         if (rule.exact_data(k) or k in fine) and exact[k] is not None:
             # Decision 0072: membership of exact data in exact arithmetic, not by a residual in double; decision
             # 0132: also of the decimal given, when it is finer than double (its exact rank first)

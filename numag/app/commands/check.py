@@ -9,7 +9,7 @@ from ...numeric.seeds import resolved_seed
 from ...witness.decompose import DecomposeOptions, decompose
 from ...singular.smoothness import CheckOptions, check_points
 from ...system.files import load_angles
-from ...anatomy.survey import check_anatomy
+from ...anatomy.survey import check_anatomy, projective_chart
 from ..anatomy_text import attach_to_check, write_point_anatomy
 from ...singular.kinds import Verdict
 from ..report import (CAUTION, check_report_to_dict, completeness_warnings, decomposition_from_dict,
@@ -113,7 +113,8 @@ def _print_check(report, out, data=None, anatomies=None):
             out.write(f"  note: {note}\n")
         if anatomies and v.index in anatomies:
             out.write("  anatomy:\n")
-            write_point_anatomy(anatomies[v.index], system.variables, out, "    ")
+            names = projective_chart(system, v.point)[1] if system.projective else system.variables
+            write_point_anatomy(anatomies[v.index], names, out, "    ")
     counts = ", ".join(f"{n} {c}" for n, c in report.counts().items())
     out.write(f"\nsummary: {counts}\n")
     _print_certification(data, out)

@@ -227,15 +227,18 @@ def _significant_digits(part, floor, known=False):
     return max(1, min(10, math.floor(math.log10(abs(part))) - math.ceil(math.log10(floor)) + 1))
 
 
-def _format_complex(z, floor=None, known=False):
+def _format_complex(z, floor=None, known=False, digits=None):
     """A coordinate as text; real or imaginary parts of size at most ``floor`` are printed as 0.
 
-    With ``known`` the floor is the point's accuracy and the parts keep no digit below it.
+    With ``known`` the floor is the point's accuracy and the parts keep no digit below it; ``digits``
+    (significant digits of each part) overrides both.
     """
     floor = _ROUNDING * max(1.0, abs(z)) if floor is None else floor
     real = 0.0 if abs(z.real) <= floor else z.real
     imag = 0.0 if abs(z.imag) <= floor else z.imag
     a, b = _significant_digits(real, floor, known), _significant_digits(imag, floor, known)
+    if digits is not None:
+        a = b = digits
     if imag == 0.0:
         return f"{real:.{a}g}"
     if real == 0.0:  # purely imaginary: no "0+" in front
@@ -259,6 +262,40 @@ def _rounding_floor(result):
 
 def _format_point(names, point):
     return ", ".join(f"{n}={_format_complex(complex(z))}" for n, z in zip(names, point))
+
+
+def _distinct_digits(values):
+    """Significant digits (10 at least, 17 at most) at which distinct ``values`` print distinct.
+
+    Values the user chose (a family's parameter values) are data, not rounding: two of them 1e-14 apart
+    printed with 10 digits read as the same value. 17 digits tell any two doubles apart (IEEE 754).
+
+    Examples
+    --------
+    >>> _distinct_digits([1.0, 2.0]), _distinct_digits([2.0, 2.0 + 1e-14]), _distinct_digits([1.0, 1.0])
+    (10, 15, 10)
+    """
+    values = [complex(v) for v in values]
+    wanted = len(set(values))
+    for digits in range(10, 17):
+        if len({_format_complex(v, 0.0, digits=digits) for v in values}) == wanted:
+            return digits
+    return 17
+
+
+def _format_values(names, points):
+    """Each of ``points`` (parameter values) as ``name=value`` text, every parameter with the digits that
+    keep its distinct values apart (``_distinct_digits``); parts are never treated as rounding.
+
+    Examples
+    --------
+    >>> _format_values(["p"], [[1.99999999999999], [2.0], [2.00000000000001]])
+    ['p=1.99999999999999', 'p=2', 'p=2.00000000000001']
+    """
+    columns = list(zip(*points)) or [[] for _ in names]
+    digits = [_distinct_digits(column) for column in columns]
+    return [", ".join(f"{n}={_format_complex(complex(z), 0.0, digits=d)}" for n, z, d in zip(names, point, digits))
+            for point in points]
 
 
 #: Accuracy (relative) of witness and sample points refined on X in double precision.

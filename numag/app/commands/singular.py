@@ -8,7 +8,7 @@ from ...tracking.tracker import FAILURE_LABELS
 from ...witness.cascade import WitnessOptions
 from ...witness.decompose import DecomposeOptions
 from ...singular.locus import EMBEDDED_EXPLANATION, FORMULATIONS, SingularOptions, singular_locus
-from ...anatomy.survey import infinity_chart, locus_anatomy
+from ...anatomy.survey import infinity_chart, locus_anatomy, projective_chart
 from ..anatomy_text import attach_to_singular, write_component_anatomy, write_point_anatomy
 from ...singular.kinds import PieceKind
 from ...tracking.starts import StartKind
@@ -99,8 +99,9 @@ def _print_singular(result, out, angles, data=None, anatomy=None):
         where = f"  on components {', '.join(map(str, c.on_components))}" if c.on_components else ""
         out.write(f"  {c.id:4d}  {'real' if c.real[0] else 'complex'}  {text(names, c.points[0], _WITNESS_ACCURACY)}"
                   f"{_angles_text(c.points[0], angles)}{where}\n")
-        if anatomy is not None and c.id in anatomy.points:
-            write_point_anatomy(anatomy.points[c.id], names, out)
+        if anatomy is not None and c.id in anatomy.points:  # projective: read in an affine chart, its names
+            chart = projective_chart(system, c.points[0])[1] if system.projective else names
+            write_point_anatomy(anatomy.points[c.id], chart, out)
     if result.near_singular:  # decision 0062: never dropped silently
         out.write(f"\n{_counted(len(result.near_singular), 'near-singular point')} (smooth as written; the input's "
                   "precision cannot tell them from singular points)\n")
@@ -173,10 +174,15 @@ def run(args, out):
             attach_to_singular(data, anatomy)
     data = with_angles(_with_warnings(_certified(data, args)), args.system_file)
     if anatomy is not None and anatomy.incomplete():
-        incomplete = anatomy.incomplete()
+        incomplete = [k for k in anatomy.incomplete() if k not in anatomy.not_given]
         noun, pronoun = ("component", "its") if len(incomplete) == 1 else ("components", "their")
-        data["warnings"].append(f"the anatomy of singular {noun} {', '.join(map(str, incomplete))} "
-                                f"is incomplete (see {pronoun} notes)")
+        if incomplete:
+            data["warnings"].append(f"the anatomy of singular {noun} {', '.join(map(str, incomplete))} "
+                                    f"is incomplete (see {pronoun} notes)")
+        if anatomy.not_given:
+            noun = "piece" if len(anatomy.not_given) == 1 else "pieces"
+            data["warnings"].append(f"no anatomy given for singular {noun} {', '.join(map(str, anatomy.not_given))} "
+                                    "(see the notes)")
     if args.json:
         out.write(dumps(data) + "\n")
     else:

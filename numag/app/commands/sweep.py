@@ -15,7 +15,7 @@ from ..picture import discriminant_svg, sweep_svg
 from ..report import CAUTION, dumps
 from ..saved import save
 from .common import (EXIT_OK, EXIT_UNDECIDED, _add_executor_options, _add_fixing_option, _add_work_options,
-                     _format_point, _load_free_family, _progress, _seed)
+                     _format_point, _format_values, _load_free_family, _progress, _seed)
 
 
 def add_parser(commands):
@@ -105,17 +105,19 @@ def _print(result, out):
     out.write("real solutions by value (runs of equal counts)\n")
     start = 0
     names = result.parameters
+    # the values as given, each with the digits that tell it from its neighbours (decision 0147)
+    texts = dict(zip((id(m) for m in result.values), _format_values(names, [m.parameters for m in result.values])))
     for k in range(1, len(counts) + 1):
         if k == len(counts) or counts[k] != counts[start]:
-            first = _format_point(names, result.values[start].parameters)
-            last = _format_point(names, result.values[k - 1].parameters)
+            first = texts[id(result.values[start])]
+            last = texts[id(result.values[k - 1])]
             span = first if k - 1 == start else f"{first} to {last}"
             out.write(f"  {span}: {counts[start]}\n")
             start = k
     drops = [(m, p) for m in result.values for p, kind in zip(m.points, m.kinds) if kind == PointKind.RANK_DROP]
     out.write(f"\n{counted(len(drops), 'point')} where J_x drops rank\n")
     for member, point in drops[:20]:
-        out.write(f"  at {_format_point(names, member.parameters)}: {_format_point(result.variables, point)}\n")
+        out.write(f"  at {texts[id(member)]}: {_format_point(result.variables, point)}\n")
     if len(drops) > 20:
         out.write(f"  ... and {len(drops) - 20} more (see --csv or --output)\n")
     out.write(f"\n{CAUTION}\n")
