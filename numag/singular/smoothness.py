@@ -570,9 +570,11 @@ class _Checker:
         return mp_scaled_equations(self.precise, self.sizes, ctx)
 
     def refine_on_f(self, point, ctx, digits):
+        """Gauss-Newton on F from ``point`` at ``digits``: (the point reached, whether F vanishes there at them)."""
         start = ctx.matrix([ctx.mpc(v) for v in point])
-        z, _, _, _ = mp_gauss_newton(self.scaled_equations(ctx), start, ctx, tolerance=100 * 10.0 ** (-digits))
-        return [z[j] for j in range(self.n)]
+        z, converged, _, _ = mp_gauss_newton(self.scaled_equations(ctx), start, ctx,
+                                             tolerance=100 * 10.0 ** (-digits))
+        return [z[j] for j in range(self.n)], bool(converged)
 
     # -- exact data (decision 0072) -----------------------------------------------------------------
     def exact_small_enough(self):
@@ -920,7 +922,7 @@ class _Checker:
                 ctx = mpmath.mp
                 start = ([v.to_context(ctx) for v in exact_given] if exact_given is not None
                          else [ctx.mpc(v) for v in current])
-                on_x = self.refine_on_f(start, ctx, digits)
+                on_x, settled = self.refine_on_f(start, ctx, digits)
                 current = [complex(v) for v in on_x]
                 values, scales = self.scaled_values_mp(on_x, ctx)
                 history.append(values[codim - 1] if codim - 1 < len(values) else 0.0)
@@ -959,8 +961,11 @@ class _Checker:
                     if latest > zero and previous > 0 and abs(latest - previous) <= 1e-3 * previous:
                         return _Decision(outcome=Verdict.SMOOTH, point=np.array(current), values=values, scales=scales,
                                          digits=digits, drop=None, drop_distance=None)
+                    # only where F vanishes at these digits: Gauss-Newton stalls at a least-squares point where J
+                    # has the rank of the drop (two simple points 1.5e-6 apart refined from their midpoint: y = 0,
+                    # and J's column along y stays exactly zero), and that point is no point of X (decision 0146)
                     if (latest <= zero and previous <= zero_tolerance(schedule[len(history) - 2], (self.m, self.n))
-                            and not too_few):
+                            and not too_few and settled):
                         return _Decision(outcome=Verdict.SINGULAR, point=np.array(current), values=values,
                                          scales=scales, digits=digits, drop=None, drop_distance=None)
         return _Decision(outcome=Verdict.UNDECIDED, point=np.array(current), values=values, scales=scales,

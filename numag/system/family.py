@@ -23,6 +23,7 @@ import numpy as np
 
 from ..errors import InputError, PointError
 from .exact import ExactCoefficient
+from .parse import PRINTED_DOUBLE_DIGITS, WrittenConstant
 from .polynomial import Polynomial, PolynomialSystem
 
 __all__ = ["Family", "ParameterRange", "substitute_values"]
@@ -194,6 +195,7 @@ class Family:
         parameters = tuple(p for k, p in enumerate(self.parameters) if k != int(index))
         system = PolynomialSystem(names, polynomials, name=f"{self.system.name or 'family'} at "
                                   f"{self.parameters[int(index)]}={_text(value)}")
+        system.literal_digits = _member_digits(self.system, [value])
         return Family(system, parameters, {k: v for k, v in self.ranges.items() if k in parameters})
 
     def member(self, values, name=None):
@@ -217,8 +219,25 @@ class Family:
                 raise InputError(f"the value of {parameter} is not finite")
         polynomials = [substitute_values(p, self.parameter_indices, values) for p in self.system.polynomials]
         label = ", ".join(f"{n}={_text(v)}" for n, v in zip(self.parameters, values))
-        return PolynomialSystem(self.variables, polynomials, projective=self.system.projective,
-                                name=name or f"{self.system.name or 'member'} at {label}")
+        system = PolynomialSystem(self.variables, polynomials, projective=self.system.projective,
+                                  name=name or f"{self.system.name or 'member'} at {label}")
+        system.literal_digits = _member_digits(self.system, values)
+        return system
+
+
+def _member_digits(system, values):
+    """The most significant digits of a decimal written in a member's equations or in its values (decision 0146),
+    as :func:`numag.system.parse.parse_system` records them; None (the coefficients judge, decision 0062) unless the
+    family was read from text and every value was written (``--at b=5+1/10^12``).
+
+    Without it, a member's expanded coefficient 25000000000010000000000001/10^24 read as a printed double, and a
+    smooth member 1e-12 from a singular one was called singular (decision 0146).
+    """
+    written = getattr(system, "literal_digits", None)
+    if written is None or not all(isinstance(v, WrittenConstant) for v in values):
+        return None
+    digits = [d for v in values for _, d, _ in v.decimals if d <= PRINTED_DOUBLE_DIGITS]
+    return max([written] + digits)
 
 
 def _text(value):

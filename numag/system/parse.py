@@ -34,6 +34,7 @@ numag.errors.ParseError: column 2: found 'x' where an operator (+ - * / ^) was e
 from fractions import Fraction
 import gc
 import itertools
+import math
 import re
 
 import numpy as np
@@ -101,6 +102,34 @@ def _tokenize(text):
                          "less, or write products and powers)", column=1)
     tokens.append(_Token("end", "", len(text) + 1))
     return tokens
+
+
+#: The most significant digits printing a double gives (its shortest round-trip decimal): a decimal literal with
+#: more was not printed from a double (decision 0146).
+PRINTED_DOUBLE_DIGITS = 17
+
+
+def printed_double(literal, value):
+    """Whether a decimal literal may be a printed double (decision 0146): up to 17 significant digits, or more
+    that are a double's exact value cut at the last written digit (within one unit of it).
+
+    5.000000000000000000000000000001 is no double (5.0 cut there is 5.000...000): exact as written;
+    0.1000000000000000055511151231257827 is the double 0.1 printed to 34 digits.
+
+    Examples
+    --------
+    >>> printed_double("5.000000000000000000000000000001", Fraction("5.000000000000000000000000000001"))
+    False
+    >>> printed_double("0.1000000000000000055511151231257827", Fraction("0.1000000000000000055511151231257827"))
+    True
+    """
+    if literal_digits(literal) <= PRINTED_DOUBLE_DIGITS:
+        return True
+    precision = literal_precision(literal)
+    if precision is None:
+        return True
+    double = float(value)
+    return math.isfinite(double) and abs(Fraction(double) - value) < precision[1]
 
 
 def literal_digits(literal):
@@ -397,7 +426,7 @@ class _Parser:
         if token.kind == "number":
             self.advance()
             value = _number_value(token, self.text)
-            if value.denominator != 1:
+            if value.denominator != 1 and printed_double(token.text, value):
                 self.literal_digits = max(self.literal_digits, literal_digits(token.text))
             if not token.text.isdigit():  # maybe decimal places written (decision 0132: literal_precision)
                 self.decimals.append((token.column, token.text))
