@@ -57,6 +57,7 @@ from ..tracking.tracker import FAILURE_LABELS, PathStatus, rescue_budget
 from .cascade import (WitnessOptions, combine_equations, held_parts, jacobian_rank, linear_form, membership, random_rows,
                       track_moves, witness_supersets)
 from .fibres import EMPTY_FIBRE, WHOLE_FIBRE, FiniteBlock, fibre_system, finite_block, solve_block
+from .precise_trace import PRECISE_TRACE_DEGREE, precise_digits, precise_verdicts
 
 __all__ = ["Component", "Decomposition", "DecomposeOptions", "decompose", "components_through", "exact_profile",
            "profile_of", "centred_decomposition"]
@@ -792,7 +793,7 @@ def decompose(system, options=None, seed=None, progress=None):
     seed = resolved_seed(seed)
     scaling = Scaling.balancing(_polynomial_part(system))
     with rescue_budget():  # the cascade, the loops and the membership tests share one rescue budget
-        result = _decompose(_scaled(scaling, system), options, seed, progress)
+        result = _decompose(_scaled(scaling, system), options, seed, progress, _precise_digits_of(system))
     result.options = options
     result = result.in_units(scaling, system, to_user=True)
     profile = exact_profile(system, seed)
@@ -890,8 +891,9 @@ def _scaled(scaling, system):
     return scaling.scale_system(system)
 
 
-def _decompose(system, options, seed, progress):
-    """:func:`decompose` in the units of ``system`` (already scaled)."""
+def _decompose(system, options, seed, progress, digits=None):
+    """:func:`decompose` in the units of ``system`` (already scaled); ``digits``: those of the precise trace test of
+    one exact equation (:func:`_precise_digits_of`, from the user's coefficients)."""
     started = time.perf_counter()
     rng = np.random.default_rng(seed)
     linear = None if isinstance(system, MinorsSystem) else _linear_decomposition(system, options, rng, seed, started)
@@ -949,6 +951,7 @@ def _decompose(system, options, seed, progress):
                 movers_made.append(mover)
                 run += counted[0] if counted else 0
             loops[witness.dimension] = run
+            groups = _precise_groups(system, witness, groups, seed, digits, counts)
         for (group, confirmed, defect), mover in zip(groups, movers):
             points, rows = witness.points[group], witness.slice_rows.copy()
             real = np.zeros(len(group), dtype=bool)
@@ -969,6 +972,43 @@ def _decompose(system, options, seed, progress):
     return Decomposition(system, components, supersets.dimensions_searched, counts, loops, seed,
                          time.perf_counter() - started,
                          extra={"start": supersets.start, "unexplained": supersets.unexplained})
+
+
+def _precise_digits_of(system):
+    """Digits of the precise trace test (decision 0144) of one exact equation of degree at most
+    :data:`PRECISE_TRACE_DEGREE`, from its coefficients as written (the same in any units); None otherwise."""
+    if len(system.polynomials) != 1 or getattr(system, "projective", False) or isinstance(system, MinorsSystem):
+        return None
+    f = system.polynomials[0]
+    if not f.is_exact or not 2 <= f.degree <= PRECISE_TRACE_DEGREE:
+        return None
+    return precise_digits(f)
+
+
+def _precise_groups(system, witness, groups, seed, digits, counts):
+    """Confirmed proper groups of a hypersurface's simple witness points held against the trace test in ``digits``
+    digits (decision 0144): a group whose trace is not linear there, or that it cannot decide, is not confirmed.
+
+    The double-precision test cannot see a trace that is linear to the paths' accuracy (two circles plus x/10^6:
+    1e-27); the roots of f on the slice and on its translations can be computed to any precision. Only for one exact
+    equation (``digits`` given), on the complex slice of the split, when every witness point is simple (multiple
+    roots are known to P/m digits only): otherwise the groups are as they were.
+    """
+    if digits is None or witness.dimension != system.n_variables - 1 or np.any(witness.multiplicity != 1):
+        return groups
+    proper = [k for k, (group, confirmed, _) in enumerate(groups) if confirmed and len(group) < len(witness.points)]
+    if not proper:
+        return groups
+    verdicts = precise_verdicts(system.polynomials[0], witness.slice_rows, witness.points,
+                                [groups[k][0] for k in proper], seed=seed, digits=digits)
+    groups = list(groups)
+    for k, verdict in zip(proper, verdicts):
+        if not verdict:
+            group, _, defect = groups[k]
+            groups[k] = (group, False, defect)
+            key = "precise_trace_not_linear" if verdict is False else "precise_trace_undecided"
+            counts[key] = counts.get(key, 0) + 1
+    return groups
 
 
 # A closed block is solved first only when its start system is small (decision 0067): the split is meant for
