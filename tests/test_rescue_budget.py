@@ -38,7 +38,8 @@ def test_calls_inside_one_block_share_the_budget(monkeypatch):
     monkeypatch.setattr(tracker, "_track", _failing_track)
     monkeypatch.setattr(tracker, "track_segment_precise", fake_rescue)
     homotopy, starts = _FailingHomotopy(), np.ones((50, 2), complex)
-    per_step = 7 * 2 * 2  # the tracker's estimate: 7 evaluations of every term and its derivatives
+    # the tracker's estimate: 7 evaluations of every term and its derivatives, and of the N x N solve
+    per_step = 7 * (2 * 2 + 2 ** 3)
 
     def work():
         return sum(min(steps_per_rescue, m) for m in rescues) * per_step

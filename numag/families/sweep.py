@@ -33,7 +33,7 @@ import numpy as np
 from ..errors import InputError, LimitError, ParseError
 from ..system.family import Family
 from ..system.parse import parse_constant
-from ..system.polynomial import Polynomial
+from ..system.polynomial import Polynomial, PolynomialSystem
 from ..run.executor import charge_paths, check_memory, make_executor
 from ..numeric.cluster import cluster_labels, groups
 from ..numeric.evaluate import BatchEvaluator, PrecisionEvaluator, TermSizes
@@ -90,6 +90,9 @@ class SweepOptions:
     start : str
         The start system of the one solve at the random value ("total-degree", "polyhedral", ...; see
         :class:`~numag.tracking.solve.SolveOptions`).
+    solve_again : bool
+        Solve members in doubt (failed paths, undecided points) again on their own, at most 16 per sweep
+        (decision 0143); an answer that is complete replaces the member's.
     centre : bool
         Where the random member's solutions lie far from the origin compared with their distances, sweep the
         family written exactly in x-coordinates centred at them (:mod:`numag.families.centring`, decision 0082);
@@ -106,6 +109,7 @@ class SweepOptions:
     balance: bool = True
     start: str = "total-degree"
     centre: bool = True
+    solve_again: bool = True
 
 
 class SweepHomotopy:
@@ -556,11 +560,8 @@ def sweep(family, values, options=None, seed=None, progress=None, execution=None
         start = solve_system(family.member(list(start_parameters)),
                              SolveOptions(tracker=options.tracker, start=options.start, second_look=False),
                              seed=int(rng.integers(2 ** 63)))
-    solutions = np.array([s.point for s in start.solutions if s.isolated and s.multiplicity == 1],
-                         dtype=complex).reshape(-1, family.n_variables)
+    solutions, multiple, unresolved = _start_solutions(family, start, start_parameters)
     start_failed = int(PathCounts.of(start.status).failed)
-    multiple = np.array([s.point for s in start.solutions if s.isolated and s.multiplicity > 1],
-                        dtype=complex).reshape(-1, family.n_variables)
     size = family.n_variables + 2
     total = len(values) * len(solutions)
     charge_paths(total, "the sweep's parameter homotopy")
@@ -588,12 +589,87 @@ def sweep(family, values, options=None, seed=None, progress=None, execution=None
         counts, description = PathCounts().report(), {}
     for member, value in zip(members, user_values):  # back to the user's units
         member.parameters = value
+        # the random member's unresolved cluster was not moved: every member may miss its roots (undecided)
+        member.undecided += unresolved
         member.points = member.points * x_factors + x_centre
+    again = _solve_again(user_family, members, len(solutions) + unresolved, options,
+                         np.random.default_rng([seed, 143])) if options.solve_again else 0  # its own draws
     counts = dict(counts)
+    counts["solved_again"] = again
     counts["start_failed"] = start_failed
     return SweepResult(user_family.variables, user_family.parameters, user_family.system.to_texts(), members,
                        start_parameters * p_factors, len(solutions), counts, seed, time.perf_counter() - started,
                        description, multiple * x_factors + x_centre)
+
+
+def _start_solutions(family, start, start_parameters):
+    """The random member's simple solutions, its unresolved multiple points, and their paths.
+
+    A family's member at a random complex value has only simple roots unless every member has a multiple root
+    or roots too close for double precision. So an endpoint group of several paths is pulled apart at 40
+    digits (:func:`split_cluster`, decision 0143): its roots join the starts. A group that stays one point is
+    not moved (a path through a multiple point is singular all along), and its paths are counted: every
+    member's count is undecided by as many roots (decision 0143), never silently short of them.
+    """
+    n = family.n_variables
+    simple, multiple, unresolved, evaluator = [], [], 0, None
+    for solution in start.solutions:
+        if not solution.isolated:
+            continue
+        if solution.multiplicity == 1:
+            simple.append(solution.point)
+            continue
+        evaluator = evaluator or PrecisionEvaluator(family.system.polynomials)
+        split = split_cluster(evaluator, np.asarray(solution.point, dtype=complex), np.asarray(start_parameters),
+                              int(solution.multiplicity))
+        if split is None:
+            multiple.append(solution.point)
+            unresolved += int(solution.multiplicity)
+        else:
+            simple.extend(split[0])
+    return (np.array(simple, dtype=complex).reshape(-1, n), np.array(multiple, dtype=complex).reshape(-1, n),
+            unresolved)
+
+
+def _solve_again(family, members, expected, options, rng):
+    """Members whose count is in doubt (failed paths, undecided points) solved on their own (decision 0143).
+
+    Each such member, up to :data:`_SOLVE_AGAIN_TRIES`, is solved from scratch at its value taken exactly (every
+    double is a rational), with solve's second look at close or multiple endpoint groups in exact centred
+    coordinates (decision 0081): roots closer than the parameter homotopy's double precision resolves along
+    the way. Its answer replaces the member's only when it is complete: no failed path, nothing undecided
+    or not isolated, every real judgement made, and the paths at its finite points (simple ones once, a
+    multiple one as often as its multiplicity) as many as the sweep's start solutions (``expected``: a
+    member of lower count keeps its doubt). Returns how many members were settled so.
+    """
+    from ..system.exact import ExactCoefficient
+    tries = settled = 0
+    for member in members:
+        if not (member.failed or member.undecided) or tries >= _SOLVE_AGAIN_TRIES:
+            continue
+        tries += 1
+        value = np.asarray(member.parameters, dtype=complex)
+        result = solve_system(family.member([ExactCoefficient.from_complex(v) for v in value]),
+                              SolveOptions(tracker=options.tracker, start=options.start),
+                              seed=int(rng.integers(2 ** 63)))
+        found = [s for s in result.solutions if s.isolated]
+        real_value = family.system.has_real_coefficients and not np.any(value.imag)
+        if (PathCounts.of(result.status).failed or result.undecided or result.not_isolated or result.discarded
+                or len(found) < len(result.solutions) or sum(s.multiplicity for s in found) != expected
+                or (real_value and any(s.real is None for s in found))):
+            continue
+        member.points = np.array([s.point for s in found], dtype=complex).reshape(-1, family.n_variables)
+        member.real = np.array([bool(real_value and s.real) for s in found], dtype=bool)
+        member.kinds = [PointKind.REGULAR if s.multiplicity == 1 else PointKind.RANK_DROP for s in found]
+        member.paths = np.array([s.multiplicity for s in found], dtype=np.int64)
+        member.failed = member.at_infinity = member.undecided = 0
+        settled += 1
+    return settled
+
+
+#: Members in doubt solved again per sweep (:func:`_solve_again`): a solve of one member costs about what the
+#: sweep's start did, and a family whose every member is in doubt would otherwise pay it at every value.
+_SOLVE_AGAIN_TRIES = 16
 
 
 def _in_computed_units(family, balance):
@@ -693,6 +769,12 @@ def _members(family, run, values, per_value, options, exact=None):
         rows = np.nonzero(finite[k])[0]
         failed = int(np.sum(status[k] >= PathStatus.FAILED_MIN_STEP))
         infinite = int(np.sum(status[k] == PathStatus.AT_INFINITY))
+        if infinite:
+            # an end at infinity needs a zero of the member's top-degree forms in x near its direction (a monic
+            # equation has none); without one the path is failed, not at infinity (decision 0143)
+            unseen = _without_zero_at_infinity(family, value, ends[k, status[k] == PathStatus.AT_INFINITY, :n + 1],
+                                               options.cluster_tolerance)
+            failed, infinite = failed + unseen, infinite - unseen
         points = affine[k, rows]
         if len(rows) == 0:
             members.append(MemberSolutions(value, np.zeros((0, n), complex), np.zeros(0, bool), [],
@@ -755,6 +837,32 @@ def _members(family, run, values, per_value, options, exact=None):
         members.append(MemberSolutions(value, distinct, real, kinds, np.array(paths, dtype=np.int64), failed, infinite,
                                        int(np.sum(undecided)) + unsure))
     return members
+
+
+def _without_zero_at_infinity(family, value, endpoints, tolerance):
+    """How many of a member's ``endpoints`` at infinity (homogeneous in x, X_0 first) have no zero of its
+    top-degree forms in x near them (:func:`~numag.tracking.infinity.locate_at_infinity`).
+
+    Examples
+    --------
+    >>> from numag.system.files import family_from_mapping
+    >>> family = family_from_mapping({"variables": ["x"], "parameters": ["p"], "equations": ["p*x^2 + x - 1"]})
+    >>> ends = np.array([[1e-9 + 0j, 1.0]])
+    >>> _without_zero_at_infinity(family, [0.0], ends, 1e-6), _without_zero_at_infinity(family, [1.0], ends, 1e-6)
+    (0, 1)
+    """
+    from ..tracking.infinity import locate_at_infinity  # loaded only where a sweep has ends at infinity
+    n = family.n_variables
+    forms = []
+    for polynomial in family.system.polynomials:
+        # the family's own top degree in x (a member's may be lower: then its whole hyperplane at infinity is a zero)
+        degrees = polynomial.exponents[:, :n].sum(axis=1)
+        keep = degrees == degrees.max() if len(degrees) else np.zeros(0, dtype=bool)
+        forms.append(Polynomial(polynomial.exponents[keep], polynomial.coefficients[keep], polynomial.n_variables))
+    top = Family(PolynomialSystem(family.system.variables, forms), family.parameters)
+    with np.errstate(all="ignore"):  # a member's form may vanish identically: every direction is a zero
+        located = locate_at_infinity(top.member(list(np.asarray(value))).polynomials, endpoints, tolerance)
+    return int(np.sum(~np.isfinite(located.accuracy)))
 
 
 def _merge_resolved(distinct, kinds, paths, settled, resolved, tolerance):

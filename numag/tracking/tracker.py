@@ -1345,7 +1345,10 @@ def track_paths(homotopy, start_points, options=None, progress=None):
         # derivatives, so large systems get fewer steps, and a batch gets a total budget; paths beyond
         # it stay failed (counted and reported), instead of a 1,600-term equation running for ten minutes.
         terms = sum(p.n_terms for p in getattr(homotopy, "target", ())) or 1
-        per_step = 7 * terms * start_points.shape[1]
+        # each of a step's ~7 evaluations also builds and solves the N x N Jacobian in mpmath (N^3 operations):
+        # with few terms that dominates (a sweep of one quadratic: 4.6 ms a step, ~55 us per term counted alone,
+        # so a batch ran for minutes; decision 0143)
+        per_step = 7 * (terms * start_points.shape[1] + start_points.shape[1] ** 3)
         shared = _RESCUE_BUDGET.get()
         budget = RESCUE_WORK_PER_BATCH if shared is None else min(RESCUE_WORK_PER_BATCH, shared[0])
         granted = budget

@@ -99,9 +99,14 @@ def _print(result, out):
               f"{counted(result.start_solutions, 'solution')} per member (from a random complex member); "
               f"seed {result.seed}\n")
     out.write(f"paths: {result.paths.get('tracked', 0)} tracked, {result.failed} failed; {result.seconds:.2f} s\n\n")
+    if len(result.start_multiple) and result.undecided:
+        # decision 0143: a multiple point of the random member that 40 digits did not pull apart was not moved;
+        # the values not solved again on their own are undecided
+        out.write(f"warning: {counted(len(result.start_multiple), 'multiple point')} of the random member not "
+                  "resolved and not moved\n")
     if result.undecided:
-        out.write(f"warning: {counted(result.undecided, 'solution')} neither real nor paired with its conjugate: "
-                  "the real counts of their values are undecided (see --csv or --output)\n\n")
+        out.write(f"warning: {counted(result.undecided, 'solution')} neither real nor paired with its conjugate "
+                  "(or not resolved): the real counts of their values are undecided (see --csv or --output)\n\n")
     out.write("real solutions by value (runs of equal counts)\n")
     start = 0
     names = result.parameters
