@@ -117,11 +117,12 @@ def settle_precise(homotopy, start, digits, rule=RESCUE_STEP_RULE, ctx=None):
     Examples
     --------
     >>> import numpy as np
-    >>> from numag.system.parse import parse_system
     >>> from numag.tracking.homotopy import StraightLineHomotopy
-    >>> homotopy = StraightLineHomotopy.total_degree(parse_system(["x^2 - 4"], ["x"]), np.random.default_rng(0))
-    >>> point = settle_precise(homotopy, np.array([1.0, 2.0 + 1e-7j]) / np.sqrt(5), 30)
-    >>> bool(abs(point[1] / point[0] - 2) < 1e-15)
+    >>> from numag.system.parse import parse_system
+    >>> start = StraightLineHomotopy.total_degree(parse_system(["x^2 - 9"], ["x"]), np.random.default_rng(1))
+    >>> near = np.array([1.0, 3.0 + 1e-7j])   # 1e-7 off the root x = 3, put on the homotopy's patch
+    >>> point = settle_precise(start, near / (start.patch @ near), 30)
+    >>> bool(abs(point[1] / point[0] - 3) < 1e-15)
     True
     """
     if ctx is None:
