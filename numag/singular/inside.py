@@ -42,7 +42,7 @@ from ..numeric.evaluate import BatchEvaluator, TermSizes
 from ..numeric.refine import largest_scaled_residual
 from ..system.polynomial import PolynomialSystem
 from ..tracking.tracker import FAILURE_LABELS
-from ..witness.decompose import DecomposeOptions, components_through, decompose, profile_of
+from ..witness.decompose import DecomposeOptions, components_through_points, decompose, profile_of
 
 __all__ = ["InsidePiece", "InsideSearch", "search_inside", "partials_up_to"]
 
@@ -139,6 +139,21 @@ def _decided_order(system, variety, component):
     return int(component.multiplicity), None
 
 
+def _through(variety, component, point, seed):
+    """X's components through a point of X (one of the search's, on f to its terms' accuracy).
+
+    Where C is X's only component, every point of X lies on it and no membership homotopy is tracked: the exact
+    profile agreed with the decomposition (:func:`_decided_order`), so C's witness points are all of X's on a general
+    line, and a hypersurface has no component of lower dimension -- X_red = C as sets, whether or not the trace test
+    confirmed C irreducible. The membership homotopy is not reliable there: at the cusp of a doubled cuspidal cubic
+    (f of order 4, C of multiplicity 2) its paths need not settle, and it placed the cusp on no component.
+    """
+    if [c.id for c in variety.components] == [component.id]:
+        return [component]
+    [through] = components_through_points(variety, [point], [seed])
+    return through
+
+
 def search_inside(system, variety, component, options=None, seed=0):
     """The special set S_C = {p in C : ord_p f > m} of a non-reduced component C of a hypersurface.
 
@@ -207,7 +222,13 @@ def search_inside(system, variety, component, options=None, seed=0):
         if np.any(largest_scaled_residual(sizes, evaluator, piece.points) > INSIDE_RESIDUAL):
             result.undecided = "a point of the search does not meet every partial of order <= m"
             return result
-        through = components_through(variety, piece.points[0], seed=int(rng.integers(2**31)))
+        through = _through(variety, component, piece.points[0], int(rng.integers(2**31)))
+        if not through:
+            # the point meets f (verified above), so it lies on a component of X: the membership test lost it. At a
+            # point of high multiplicity of C (the cusp of a doubled cuspidal cubic) its paths may not settle; the
+            # piece is then neither kept nor explained as off C, and dropping it would be a silent miss
+            result.undecided = "the membership test placed a point of the search on no component of X"
+            return result
         ids = [c.id for c in through]
         if piece.dimension == n - 1:
             # a whole component of X of larger multiplicity (its own search covers where it meets C); anything
@@ -217,6 +238,13 @@ def search_inside(system, variety, component, options=None, seed=0):
                                    "of larger multiplicity"
                 return result
             continue
-        if component.id in ids:
-            result.pieces.append(InsidePiece(piece.dimension, piece.degree, piece.points, ids, piece))
+        if component.id not in ids and any(c.multiplicity > m for c in through):
+            # inside a component D of larger multiplicity, where ord_p f >= m_D > m holds without X_red being
+            # singular: D's own search covers D n C (ord > m_D there)
+            continue
+        # Kept whatever else the membership test says: ord_p f > m at a point of X on no component of multiplicity
+        # > m makes X_red singular there (on C, or on other components only: ord_p of their product > m >= their
+        # multiplicities), so a false "not on C" cannot lose a point of S_C; the locus lists a point it already has
+        # once. Every verified point of the search is listed, explained (above) or leaves the search undecided.
+        result.pieces.append(InsidePiece(piece.dimension, piece.degree, piece.points, ids, piece))
     return result

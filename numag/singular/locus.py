@@ -1336,7 +1336,12 @@ def _inside_non_reduced(system, variety, component_id, options, rng, paths, disc
             formulation=CandidateSystem.HIGHER_PARTIALS, kind=PieceKind.SINGULAR, on_components=piece.through,
             rank=0, codimension=1,
             notes=[f"Inside the non-reduced component {component_id} (multiplicity {search.order}): f vanishes to "
-                   f"order > {search.order} here, so X's reduced structure is singular (decision 0140)."]))
+                   f"order > {search.order} here, so X's reduced structure is singular (decision 0140)."
+                   if component_id in piece.through else
+                   f"Found by the search inside the non-reduced component {component_id} (multiplicity "
+                   f"{search.order}), on X's components {piece.through}: f vanishes to order > {search.order} here "
+                   f"and none of them has a larger multiplicity, so X's reduced structure is singular (decision "
+                   f"0140)."]))
         oracles.append(_membership_oracle(search.decomposition, piece.component, int(rng.integers(2**31)))
                        if piece.dimension else None)
     if not search.pieces:
