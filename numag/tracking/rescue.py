@@ -17,7 +17,7 @@ import numpy as np
 
 from .methods import RESCUE_STEP_RULE, RK4, decimal
 
-__all__ = ["settle_precise", "track_segment_precise"]
+__all__ = ["track_segment_precise"]
 
 
 def _corrected(homotopy, predicted, s, tolerance, rule, ctx):
@@ -106,32 +106,3 @@ def track_segment_precise(homotopy, start, s_start, s_end, digits, max_steps=200
         if s > target:
             return None, steps
         return np.array([complex(v) for v in point]), steps
-
-
-def settle_precise(homotopy, start, digits, rule=RESCUE_STEP_RULE, ctx=None):
-    """Newton at s = 0 from ``start`` at ``digits`` digits: the endpoint to double precision, or None.
-
-    For a simple root whose double-precision Newton stalls above 1e-13 (its terms cancel far above its value, decision
-    0142): the corrections must contract as the rescue's do, down to the rescue's tolerance at these digits.
-
-    Examples
-    --------
-    >>> import numpy as np
-    >>> from numag.tracking.homotopy import StraightLineHomotopy
-    >>> from numag.system.parse import parse_system
-    >>> start = StraightLineHomotopy.total_degree(parse_system(["x^2 - 9"], ["x"]), np.random.default_rng(1))
-    >>> near = np.array([1.0, 3.0 + 1e-7j])   # 1e-7 off the root x = 3, put on the homotopy's patch
-    >>> point = settle_precise(start, near / (start.patch @ near), 30)
-    >>> bool(abs(point[1] / point[0] - 3) < 1e-15)
-    True
-    """
-    if ctx is None:
-        import mpmath  # here, not at import: a double-precision solve never needs it
-        ctx = mpmath.mp
-    with ctx.workdps(digits):
-        point = ctx.matrix([ctx.mpc(v) for v in start])
-        tolerance = rule.tolerance(ctx, digits)
-        corrected, last = _corrected(homotopy, point, ctx.mpf(0), tolerance, rule, ctx)
-        if corrected is None or last > tolerance * rule.acceptance_slack:
-            return None
-        return np.array([complex(v) for v in corrected])

@@ -54,7 +54,7 @@ from ..run.executor import check_memory
 from ..numeric.cluster import cluster_labels, normalize_projective
 from .methods import (ERROR_FLOOR, RK4, STEP_MAX_FACTOR, STEP_MIN_FACTOR, STEP_REJECT_FACTOR, STEP_SAFETY,  # noqa: F401
                       ButcherTableau)
-from .rescue import settle_precise, track_segment_precise
+from .rescue import track_segment_precise
 
 __all__ = ["PathStatus", "TrackerOptions", "TrackResult", "track_paths", "projective_condition", "Stepper",
            "ButcherTableau", "RK4", "rescue_budget", "x0_invisible", "confirm_infinity", "InfinityVerdict",
@@ -362,7 +362,6 @@ def _correct(homotopy, points, s, tolerance, iterations, chord=False, first_cont
     predictor stage reuses it).
     """
     current = points.copy()
-    tolerance = np.broadcast_to(np.asarray(tolerance, dtype=float), (len(points),))  # one per point allowed
     previous = np.full(len(points), np.inf)
     first = np.full(len(points), np.inf)
     ok = np.zeros(len(points), dtype=bool)
@@ -395,15 +394,14 @@ def _correct(homotopy, points, s, tolerance, iterations, chord=False, first_cont
             first[live] = norm
         finite = np.isfinite(norm)
         limit = first_contraction if iteration == 1 else 0.5
-        wanted = tolerance[live]
-        contracting = finite & ((norm <= limit * previous[live]) | (norm <= wanted))
+        contracting = finite & ((norm <= limit * previous[live]) | (norm <= tolerance))
         # Done when the correction just made was small or, once corrections contract, when the
         # error it leaves (about norm * ratio / (1 - ratio)) is: the evaluation that would only
         # confirm it is saved (about one value evaluation in four).
         with np.errstate(all="ignore"):
             ratio = norm / previous[live]
             remaining = np.where((ratio < 0.5) & (iteration > 0), norm * ratio / (1 - ratio), np.inf)
-        done = contracting & ((norm <= wanted) | (remaining <= wanted))
+        done = contracting & ((norm <= tolerance) | (remaining <= tolerance))
         ok[live[done]] = True
         previous[live] = norm
         live = live[contracting & ~done]
@@ -781,11 +779,9 @@ def _classify(homotopy, points, opts, settle=True):
     zeros = np.zeros(len(points))
     settled = np.ones(len(points), dtype=bool)
     if settle and len(points):
-        refined, settled, _, _ = _correct(homotopy, points, zeros.astype(complex), _SETTLED, 4)
+        refined, settled, _, _ = _correct(homotopy, points, zeros.astype(complex), 1e-13, 4)
         settled &= np.all(np.isfinite(refined), axis=1)
         points = np.where(settled[:, None], refined, points)
-        if not opts.endgame_if_settled:
-            points, settled = _settle_to_accuracy(homotopy, points, settled, opts)
     _, jacobian, _ = homotopy.evaluate(points, zeros.astype(complex))
     condition = projective_condition(jacobian, points, homotopy.row_scales(points)) if len(points) \
         else np.zeros(0)
@@ -803,42 +799,6 @@ def _classify(homotopy, points, opts, settle=True):
 
 #: A settled regular endpoint's X_0 is zero when below this many times condition * eps (relative).
 _ACCURACY_SAFETY = 100.0
-
-
-def _settle_to_accuracy(homotopy, points, settled, opts):
-    """Newton at s = 0 in mpmath on the endpoints double precision did not settle to 1e-13, with the digits their
-    condition takes away (:func:`~numag.tracking.rescue.settle_precise`).
-
-    A simple root whose terms cancel far above its value (a point far out on a curve whose features are small, a
-    linkage in millimetres) is known in double precision only to about condition * eps: its Newton corrections stall
-    there, above 1e-13, and it went to the Cauchy endgame, whose circles' corrector tolerance lies below that floor as
-    well, so every step on them was refused down to the minimum step (decision 0142). For callers that only need the
-    point (``endgame_if_settled`` off: moves of witness points, whose traces need every digit) it is settled to double
-    precision in mpmath instead. A root that is not simple does not contract there and goes on to the endgame.
-    """
-    if not hasattr(homotopy, "evaluate_precise") or len(points) == 0:
-        return points, settled
-    zeros = np.zeros(len(points), dtype=complex)
-    _, jacobian, _ = homotopy.evaluate(points, zeros)
-    condition = projective_condition(jacobian, points, homotopy.row_scales(points))
-    # settled to 1e-13 but known only to condition * eps above it: the digits are wanted as well
-    loose = np.nonzero(~settled | (_ACCURACY_SAFETY * np.finfo(float).eps * condition > _SETTLED))[0]
-    condition = condition[loose]
-    simple = np.isfinite(condition) & (condition * np.finfo(float).eps < 1)
-    points, settled = points.copy(), settled.copy()
-    if np.any(simple):
-        digits = 16 + int(np.ceil(np.log10(np.max(condition[simple])))) + _PRECISE_GUARD_DIGITS
-        for index in loose[simple]:
-            point = settle_precise(homotopy, points[index], digits)
-            if point is not None:
-                points[index], settled[index] = point, True
-    return points, settled
-
-
-#: Relative size of the last Newton correction of an endpoint settled at s = 0.
-_SETTLED = 1e-13
-#: Digits beyond those the condition takes away when an endpoint is settled in mpmath.
-_PRECISE_GUARD_DIGITS = 8
 
 
 def projective_condition(jacobian, points, row_scales):

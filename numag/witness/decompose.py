@@ -939,12 +939,11 @@ def _decompose(system, options, seed, progress, digits=None):
                 members = np.nonzero(signature == value)[0]
                 mover = _Mover(system, codimension, witness.points[members], witness.slice_rows, rng, options,
                                simple=bool(np.all(simple[members])))
-                # A point of a multiple component is known to about the square root of the precision (decision
-                # 0064); on the deflated rows it is a simple root: refined there (a move to the same slice), so
-                # that its trace is not off by that error (a doubled twisted cubic in millimetres: 4e-9). A simple
-                # point known only to condition * eps is settled in mpmath by the same move (decision 0142: the
-                # kite four-bar in millimetres, 3e-10 of its traces).
-                witness.points[members] = _refined(mover, witness.points[members])
+                if mover.deflated:
+                    # A point of a multiple component is known to about the square root of the precision (decision
+                    # 0064); on the deflated rows it is a simple root: refined there (a move to the same slice), so
+                    # that its trace is not off by that error (a doubled twisted cubic in millimetres: 4e-9).
+                    witness.points[members] = _refined(mover, witness.points[members])
                 counted = []
                 for group, confirmed, defect in _split(mover, witness.points[members], rng, options, counted):
                     groups.append((members[group].tolist(), confirmed, defect))
