@@ -283,7 +283,10 @@ def discriminant_on_lines(family, codimension, box, verticals, trace_lines, rng)
     values += [np.array([v, 0.0, 0.0, 1.0]) for v in verticals]
     # measured on a four-bar with two free lengths: 48 polyhedral paths against 128 of total degree, most of
     # them to the circular points at infinity (12.8 s against 18.5 s of processor time for the one solve)
-    swept = sweep(lines, np.array(values), SweepOptions(start="polyhedral"), seed=int(rng.integers(2 ** 63)))
+    # the start member's multiple points are the discriminant's multiple components, followed below on their own
+    # (decision 0107): no member is solved again for them (decision 0143 amendment)
+    swept = sweep(lines, np.array(values), SweepOptions(start="polyhedral", solve_again=False),
+                  seed=int(rng.integers(2 ** 63)))
     # the points a little beyond the lines' reach are kept too: a fold's other arc may leave the box there
     keep_low, keep_high = low - 1.25 * span, high + 1.25 * span
     failed = swept.failed + int(swept.paths.get("start_failed", 0))

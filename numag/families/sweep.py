@@ -560,7 +560,7 @@ def sweep(family, values, options=None, seed=None, progress=None, execution=None
         start = solve_system(family.member(list(start_parameters)),
                              SolveOptions(tracker=options.tracker, start=options.start, second_look=False),
                              seed=int(rng.integers(2 ** 63)))
-    solutions, multiple, unresolved = _start_solutions(family, start, start_parameters)
+    solutions, multiple, unresolved = _start_solutions(family, start, start_parameters, options.cluster_tolerance)
     start_failed = int(PathCounts.of(start.status).failed)
     size = family.n_variables + 2
     total = len(values) * len(solutions)
@@ -602,14 +602,18 @@ def sweep(family, values, options=None, seed=None, progress=None, execution=None
                        description, multiple * x_factors + x_centre)
 
 
-def _start_solutions(family, start, start_parameters):
+def _start_solutions(family, start, start_parameters, tolerance):
     """The random member's simple solutions, its unresolved multiple points, and their paths.
 
     A family's member at a random complex value has only simple roots unless every member has a multiple root
     or roots too close for double precision. So an endpoint group of several paths is pulled apart at 40
     digits (:func:`split_cluster`, decision 0143): its roots join the starts. A group that stays one point is
     not moved (a path through a multiple point is singular all along), and its paths are counted: every
-    member's count is undecided by as many roots (decision 0143), never silently short of them.
+    member's count is undecided by as many roots (decision 0143), never silently short of them. Roots split
+    apart by less than the sweep's own ``tolerance`` (relative, as its endpoints are grouped) also stay one
+    group: double precision cannot keep their paths apart, and every member would group them again
+    (decision 0143 amendment: a doubled discriminant line's pair, 1e-14 apart, had been moved and its paths
+    failed by the hundred).
     """
     n = family.n_variables
     simple, multiple, unresolved, evaluator = [], [], 0, None
@@ -622,6 +626,8 @@ def _start_solutions(family, start, start_parameters):
         evaluator = evaluator or PrecisionEvaluator(family.system.polynomials)
         split = split_cluster(evaluator, np.asarray(solution.point, dtype=complex), np.asarray(start_parameters),
                               int(solution.multiplicity))
+        if split is not None and len(split[0]) > 1 and _has_close_pair(split[0], tolerance):
+            split = None  # closer than the sweep's paths can be kept apart
         if split is None:
             multiple.append(solution.point)
             unresolved += int(solution.multiplicity)
