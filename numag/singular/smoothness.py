@@ -208,7 +208,8 @@ class CheckOptions:
             return self
         ambient = system.ambient_dimension
         if not 0 <= self.local_dimension <= ambient:
-            raise InputError(f"local_dimension must be between 0 and {ambient}, got {self.local_dimension}")
+            raise InputError(f"local_dimension (--local-dimension) must be between 0 and {ambient}, the "
+                             f"space's dimension, got {self.local_dimension}")
         # No point decides what the equations alone rule out (a verdict there would rest on a dimension no
         # component has): m nonzero equations leave every component of X of dimension >= n - m (Krull's height
         # theorem), and one nonzero equation vanishes on no open set, so every component has dimension < n
