@@ -431,3 +431,16 @@ def test_sweep_prints_neighbouring_values_apart(tmp_path, seed):
     grid = [1.99999999999999 + k * 5e-15 for k in range(5)]
     assert len(set(shown)) == len(shown) == 5 and shown == sorted(shown)  # runs of 2, 1 and 2 values: all shown
     assert all(min(abs(v - g) for g in grid) < 1e-15 for v in shown)
+
+
+@pytest.mark.parametrize("seed", [1, 2, 3])
+@pytest.mark.parametrize("unit", [1, 1000])
+def test_a_swept_rank_drop_prints_no_digit_below_its_accuracy(tmp_path, seed, unit):
+    # x^3 - 3x + 2 = (x - 1)^2 (x + 2): the double root x = 1 at p = 2 (hand computation), in units of x times
+    # `unit`. A root where two paths meet is known to about sqrt(eps): "1+6e-14*I" was rounding printed as data.
+    equation = f"x^3 - {3 * unit ** 2}*x + {2 * unit ** 3}*p / 2"
+    path = _write(tmp_path, "fold.toml", {"variables": ["x"], "parameters": ["p"], "equations": [equation]})
+    out = io.StringIO()
+    assert main(["sweep", path, "--grid", "p=1:3:5", "--seed", str(seed)], out=out) == 0
+    text = out.getvalue()
+    assert f"at p=2: x={unit}\n" in text, text

@@ -15,7 +15,7 @@ from ..picture import discriminant_svg, sweep_svg
 from ..report import CAUTION, dumps
 from ..saved import save
 from .common import (EXIT_OK, EXIT_UNDECIDED, _add_executor_options, _add_fixing_option, _add_work_options,
-                     _format_point, _format_values, _load_free_family, _progress, _seed)
+                     _format_complex, _format_values, _load_free_family, _progress, _seed, _root_accuracy)
 
 
 def add_parser(commands):
@@ -119,10 +119,15 @@ def _print(result, out):
             span = first if k - 1 == start else f"{first} to {last}"
             out.write(f"  {span}: {counts[start]}\n")
             start = k
-    drops = [(m, p) for m in result.values for p, kind in zip(m.points, m.kinds) if kind == PointKind.RANK_DROP]
+    drops = [(m, p, int(paths)) for m in result.values
+             for p, kind, paths in zip(m.points, m.kinds, m.paths) if kind == PointKind.RANK_DROP]
     out.write(f"\n{counted(len(drops), 'point')} where J_x drops rank\n")
-    for member, point in drops[:20]:
-        out.write(f"  at {texts[id(member)]}: {_format_point(result.variables, point)}\n")
+    for member, point, paths in drops[:20]:
+        # a root where `paths` paths meet is known to about eps^(1/paths) of its size: no digit below that
+        floor = _root_accuracy(16, paths) * max(1.0, float(np.linalg.norm(point)))
+        text = ", ".join(f"{name}={_format_complex(complex(z), floor, known=True)}"
+                         for name, z in zip(result.variables, point))
+        out.write(f"  at {texts[id(member)]}: {text}\n")
     if len(drops) > 20:
         out.write(f"  ... and {len(drops) - 20} more (see --csv or --output)\n")
     out.write(f"\n{CAUTION}\n")
