@@ -75,3 +75,18 @@ def test_discriminant_regions_of_close_roots(seed):
     result = discriminant(family, seed=seed)
     counts = [region.count for region in result.regions]
     assert counts and all(count.sure and count.solutions == 2 for count in counts)
+
+
+@pytest.mark.parametrize("seed", [1, 2, 3])
+def test_a_member_with_a_curve_of_solutions_is_flagged_not_a_crash(tmp_path, seed):
+    # Hand computation: x^2 + y^2 = 1 and (x - t)^2 + y^2 = 1 meet at x = t/2, y^2 = 1 - t^2/4: at t = 0 the two
+    # circles coincide (a curve of solutions), at t = +-2 they touch at one double point. Splitting the t = 0
+    # member's close endpoints met a reduced function with no root count (negative winding, zero values) and the
+    # sweep ended in an internal error; the member is in doubt, so the exit code is 3.
+    import io
+
+    from numag.app.cli import main
+    path = tmp_path / "circles.toml"
+    path.write_text('variables = ["x", "y"]\nparameters = ["t"]\n'
+                    'equations = ["x^2 + y^2 - 1", "(x - t)^2 + y^2 - 1"]\n')
+    assert main(["sweep", str(path), "--grid", "t=-2:2:3", "--seed", str(seed)], out=io.StringIO()) == 3

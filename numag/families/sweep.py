@@ -1011,12 +1011,16 @@ def split_cluster(evaluator, point, value, paths):
                 reached.append(complex(found[0]))
                 guess = found[1]
             reached = np.array(reached)
+            if not np.all(np.isfinite(reached)) or not np.all(reached != 0):
+                return None  # a value of 0 on the circle: a root on it, or a member with a curve of solutions there
             turns = np.angle(np.roll(reached, -1) / reached)
             winding = int(round(np.sum(turns) / (2 * np.pi)))
             wanted = paths or winding  # without a count: every root in the first circle that shows them
-            if winding < wanted or winding == 0:
-                return None  # the roots left the circle before a radius showed them alone
-            if winding > wanted or winding > _SPLIT_MAX_PATHS:
+            if winding < wanted or winding <= 0:
+                # the roots left the circle before a radius showed them alone; a negative winding is no count of
+                # roots at all (the reduced function is not analytic there: a member with a curve of solutions)
+                return None
+            if winding > wanted or winding > _SPLIT_MAX_PATHS or wanted + 1 >= samples:
                 continue  # other roots inside: a smaller circle
             coefficients = np.fft.fft(reached) / samples  # c_j = a_j r^j of the Taylor series
             head = np.max(np.abs(coefficients[:wanted + 1]))
