@@ -209,3 +209,21 @@ def test_a_triple_singular_line_away_from_the_origin_is_one_line_or_undecided(se
     assert len(pieces) == 1 and pieces[0].dimension == 1 and pieces[0].degree == 1
     point = pieces[0].points[0]
     assert abs(point[0] + 12) <= 1e-8 * np.linalg.norm(point) and abs(point[1] - 23) <= 1e-8 * np.linalg.norm(point)
+
+
+@pytest.mark.parametrize("seed", [1, 2, 3, 4])
+def test_a_node_beyond_a_doubtful_candidates_region_is_not_dropped(seed):
+    # y^2 = (x^3 - 3x + 1)^2 (x + 5) moved by (-1234, 567): nodes at (r - 1234, 567) for the 3 real roots r of
+    # r^3 - 3r + 1 (sympy; hand computation: f and its gradient vanish where both factors' square does). A doubtful
+    # candidate between the nodes was judged again in coordinates centred at it; the centred run found all three,
+    # but the one outside the candidate's region was dropped: 2 nodes, exit 0 (decision 0071 amendment).
+    x, y = sympy.symbols("x y")
+    u, v = x + 1234, y - 567
+    curve = sympy.expand(v ** 2 - (u ** 3 - 3 * u + 1) ** 2 * (u + 5))
+    nodes = [complex(float(r) - 1234, 567) for r in sympy.Poly(sympy.symbols("r") ** 3 - 3 * sympy.symbols("r") + 1)
+             .nroots(n=30)]
+    locus = singular_locus(parse_system([str(curve).replace("**", "^")], ["x", "y"]), seed=seed)
+    points = [c.points[0] for c in locus.components if not c.at_infinity and c.dimension == 0]
+    for node in nodes:
+        target = np.array([node.real, node.imag])
+        assert any(np.linalg.norm(p - target) <= 1e-6 * np.linalg.norm(target) for p in points), (node, points)

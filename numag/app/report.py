@@ -236,6 +236,11 @@ def completeness_warnings(data):
         warnings.append(f"{counted(missed, 'singular point')} found in the user's coordinates but not in coordinates "
                         "centred at the features: the two runs disagree and other points may be missing; run again "
                         "with another --seed to compare.")
+    beyond = _discarded(data, "found_beyond_centred_region")
+    if beyond:  # a clean run in centred coordinates found singular points the first run lacks (decision 0071)
+        warnings.append(f"{counted(beyond, 'singular point')} found in coordinates centred at a doubtful candidate, "
+                        "outside its region, but not in the user's coordinates: listed, but the two runs disagree "
+                        "and other points may be missing; run again with another --seed to compare.")
     unexplained = _discarded(data, "unexplained_endpoint")
     if unexplained:  # endpoints Newton dropped, and coordinates centred there did not settle them (decision 0090)
         warnings.append(f"{counted(unexplained, 'endpoint')} of the singular candidates' system where Newton stalled "

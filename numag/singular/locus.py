@@ -571,6 +571,7 @@ _OFF_X_RESIDUAL = 1e-3
 #: Counts of a run that leave doubt whether every singular point was found (each is a completeness warning).
 _DOUBT_COUNTS = ("not_settled_on_X", "smooth_with_vanishing_jacobian", "merged_on_refinement",
                  "unresolved_multiple_endpoint", "tangent_dimension_mismatch", "missed_in_centred_coordinates",
+                 "found_beyond_centred_region",
                  "unexplained_endpoint")
 
 
@@ -857,7 +858,16 @@ def _judged_centred(system, options, seed, progress, locus, dropped):
         # (a centred run that decomposed X wrong had found nothing and lost a node: decision 0090)
         missed = _judged_again(centred, centring.point, [c for c in replaced if not any(
             _same_point(c, d) for d in found)], local, locus.notes, options, seed, "decision 0090")
-        _set_components(locus, [c for c in locus.components if not any(c is r for r in replaced)] + found + missed)
+        # the centred run is a whole singular locus: a point it found outside the region that the first run lacks
+        # (a doubtful candidate that stood for a node 1.6 radii away) is listed and flagged, never dropped unseen:
+        # the two runs disagree there (decision 0071 amendment)
+        beyond = [c for c in _centred_points(system, centring, replace(here, radius=np.inf), local)
+                  if not within(c.points[:1], centring)[0] and not any(_same_point(c, d) for d in locus.components)]
+        _set_components(locus, [c for c in locus.components if not any(c is r for r in replaced)] + found + missed
+                        + beyond)
+        if beyond:
+            locus.discarded["found_beyond_centred_region"] = \
+                locus.discarded.get("found_beyond_centred_region", 0) + len(beyond)
         if missed:
             locus.discarded["missed_in_centred_coordinates"] = \
                 locus.discarded.get("missed_in_centred_coordinates", 0) + len(missed)
