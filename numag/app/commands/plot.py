@@ -16,7 +16,7 @@ from ...system.files import load_angles
 from ..report import CAUTION, read_report
 from ...system.display import counted
 from ...system.safeio import write_file
-from .common import EXIT_OK, EXIT_UNDECIDED, _count, _rounding_floor, _seed
+from .common import _ROUNDING, EXIT_OK, EXIT_UNDECIDED, _count, _rounding_floor, _seed
 
 
 def add_parser(commands):
@@ -125,7 +125,9 @@ def plot_after(data, args, out):
 def _print_result(result, out):
     out.write(f"picture: {result.path} ({result.kind.value}; {result.seconds:.2f} s)\n")
     for point in result.marked:
-        where = ", ".join(f"{c:.6g}" for c in point.coordinates)
+        # parts below double rounding of the point's size print as 0, as every other point numag prints
+        size = max(1.0, max((abs(float(c)) for c in point.coordinates), default=0.0))
+        where = ", ".join(f"{0.0 if abs(float(c)) <= _ROUNDING * size else float(c):.6g}" for c in point.coordinates)
         out.write(f"  {point.label}: {point.kind} at ({where})\n")
     for label, direction in result.directions:
         out.write(f"  branch point {label}: a real branch leaves in the direction ({direction[0]:.4f}, "
