@@ -15,7 +15,7 @@ from ..picture import discriminant_svg, sweep_svg
 from ..report import CAUTION, dumps
 from ..saved import save
 from .common import (EXIT_OK, EXIT_UNDECIDED, _add_executor_options, _add_fixing_option, _add_work_options,
-                     _format_complex, _format_values, _load_free_family, _progress, _seed, _root_accuracy)
+                     _PointFormat, _format_values, _load_free_family, _progress, _seed, _root_accuracy)
 
 
 def add_parser(commands):
@@ -122,12 +122,10 @@ def _print(result, out):
     drops = [(m, p, int(paths)) for m in result.values
              for p, kind, paths in zip(m.points, m.kinds, m.paths) if kind == PointKind.RANK_DROP]
     out.write(f"\n{counted(len(drops), 'point')} where J_x drops rank\n")
+    text = _PointFormat()
     for member, point, paths in drops[:20]:
         # a root where `paths` paths meet is known to about eps^(1/paths) of its size: no digit below that
-        floor = _root_accuracy(16, paths) * max(1.0, float(np.linalg.norm(point)))
-        text = ", ".join(f"{name}={_format_complex(complex(z), floor, known=True)}"
-                         for name, z in zip(result.variables, point))
-        out.write(f"  at {texts[id(member)]}: {text}\n")
+        out.write(f"  at {texts[id(member)]}: {text(result.variables, point, _root_accuracy(16, paths))}\n")
     if len(drops) > 20:
         out.write(f"  ... and {len(drops) - 20} more (see --csv or --output)\n")
     out.write(f"\n{CAUTION}\n")
