@@ -112,20 +112,27 @@ def _print(result, out):
     names = result.parameters
     # the values as given, each with the digits that tell it from its neighbours (decision 0147)
     texts = dict(zip((id(m) for m in result.values), _format_values(names, [m.parameters for m in result.values])))
+    # a value whose count is in doubt (a failed path, a solution not resolved) is never merged into a run of sure
+    # counts: its count is printed as undecided (a member that is a whole curve of solutions ends here too)
+    sure = [not (m.failed or m.undecided) for m in result.values]
     for k in range(1, len(counts) + 1):
-        if k == len(counts) or counts[k] != counts[start]:
+        if k == len(counts) or (counts[k], sure[k]) != (counts[start], sure[start]):
             first = texts[id(result.values[start])]
             last = texts[id(result.values[k - 1])]
             span = first if k - 1 == start else f"{first} to {last}"
-            out.write(f"  {span}: {counts[start]}\n")
+            out.write(f"  {span}: {counts[start]}{'' if sure[start] else ' (undecided)'}\n")
             start = k
     drops = [(m, p, int(paths)) for m in result.values
              for p, kind, paths in zip(m.points, m.kinds, m.paths) if kind == PointKind.RANK_DROP]
     out.write(f"\n{counted(len(drops), 'point')} where J_x drops rank\n")
     text = _PointFormat()
     for member, point, paths in drops[:20]:
-        # a root where `paths` paths meet is known to about eps^(1/paths) of its size: no digit below that
-        out.write(f"  at {texts[id(member)]}: {text(result.variables, point, _root_accuracy(16, paths))}\n")
+        # a root where `paths` paths meet is known to about eps^(1/paths) of its size: no digit below that. One
+        # path at a rank drop is not a multiple root (mu paths end at one): close roots not pulled apart, or a
+        # point of a curve of solutions of that member
+        where = text(result.variables, point, _root_accuracy(16, paths))
+        note = "" if paths > 1 else " (one path: not resolved; close roots or a curve of solutions)"
+        out.write(f"  at {texts[id(member)]}: {where}{note}\n")
     if len(drops) > 20:
         out.write(f"  ... and {len(drops) - 20} more (see --csv or --output)\n")
     out.write(f"\n{CAUTION}\n")
