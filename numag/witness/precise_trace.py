@@ -164,7 +164,8 @@ _WEIERSTRASS_STEPS = 40
 
 def _in_double(monic, guesses):
     """The Weierstrass iteration in double first (cheap: the digits are doubled at each step once close, so the
-    work in P digits is a few steps); the guesses as they were when it does not settle or leaves the doubles."""
+    work in P digits is a few steps); its last iterate when it does not settle (the check decides), the guesses as
+    they were when it leaves the doubles."""
     a = np.array([complex(c) for c in monic])
     z = np.array([complex(g) for g in guesses])
     if not (np.all(np.isfinite(a)) and np.all(np.isfinite(z))):
@@ -179,8 +180,8 @@ def _in_double(monic, guesses):
                 return guesses
             z = z - corrections
             if np.max(np.abs(corrections)) <= 1e-13 * np.max(np.abs(z)):
-                return z.tolist()
-    return guesses
+                break
+    return z.tolist()
 
 
 def _corrections(monic, z):
