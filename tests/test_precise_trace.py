@@ -61,3 +61,31 @@ def test_a_parabola_beside_a_line_is_linear_and_one_point_is_not():
     points = np.vstack([np.column_stack([t, 0.5 - 0.2j - (0.3 - 0.1j) * t]),
                         [[(1.5 - 0.2j) / (0.3 - 0.1j), -1.0]]])  # y = -1 on the line
     assert precise_verdicts(f, rows, points, [[0], [0, 1], [2]], seed=3) == [False, True, True]
+
+
+@pytest.mark.parametrize("seed", [1, 2, 3])
+def test_roots_from_guesses_are_the_whole_set_or_none(seed):
+    # roots chosen by hand, two of them 1e-6 apart; the polynomial's coefficients from them exactly (hand computation,
+    # common practice, no source): from guesses near the roots the Weierstrass steps give every root to the working
+    # precision; from guesses anywhere they give every root or None, never a list with a root twice or one missing
+    import mpmath
+
+    from numag.witness.precise_trace import _roots
+
+    rng = np.random.default_rng(seed)
+    with mpmath.mp.workdps(60):
+        roots = [mpmath.mpc(1), mpmath.mpc(1, 1e-6), mpmath.mpc(-2, 3), mpmath.mpc(0.5, -4), mpmath.mpc(-7)]
+        coefficients = [mpmath.mpc(1)]
+        for r in roots:  # times (t - r), lowest coefficient first
+            coefficients = [-r * coefficients[0]] + [coefficients[k - 1] - r * coefficients[k]
+                                                     for k in range(1, len(coefficients))] + [coefficients[-1]]
+        near = [complex(r) + 1e-9 * complex(*rng.standard_normal(2)) for r in roots]
+        found = _roots(coefficients, 5, guesses=near)
+        assert found is not None
+        assert all(min(abs(f - r) for f in found) < mpmath.mpf(10) ** -50 for r in roots)
+        for _ in range(5):
+            anywhere = [complex(*rng.standard_normal(2)) * 5 for _ in roots]
+            found = _roots(coefficients, 5, guesses=anywhere, polish=False)
+            if found is not None:
+                assert all(min(abs(f - r) for f in found) < 1e-7 for r in roots)
+                assert all(min(abs(r - f) for r in roots) < 1e-7 for f in found)

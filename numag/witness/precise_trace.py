@@ -56,21 +56,150 @@ def _line(rows):
 
 def _restricted_roots(evaluate, base, v, degree, radius):
     """The roots in t of f(base + t v), coefficients from d + 1 values on the circle |t| = radius."""
+    coefficients = _circle_coefficients([evaluate([base[j] + t * v[j] for j in range(len(v))])
+                                         for t in _circle(degree, radius)], radius)
+    return _roots(coefficients, degree)
+
+
+def _circle(degree, radius):
+    """The d + 1 nodes on the circle |t| = radius that give a polynomial of degree d its coefficients."""
     count = degree + 1
-    nodes = [radius * mpmath.expjpi(mpmath.mpf(2 * k) / count) for k in range(count)]
-    values = [evaluate([base[j] + t * v[j] for j in range(len(v))]) for t in nodes]
+    return [radius * mpmath.expjpi(mpmath.mpf(2 * k) / count) for k in range(count)]
+
+
+def _circle_coefficients(values, radius):
+    """Coefficients (lowest first) of the polynomial of degree len(values) - 1 with these values at
+    :func:`_circle` (a discrete Fourier transform)."""
+    count = len(values)
     coefficients = []
     for power in range(count):
         total = mpmath.fsum(values[k] * mpmath.expjpi(-mpmath.mpf(2 * k * power) / count) for k in range(count))
         coefficients.append(total / count / radius ** power)
+    return coefficients
+
+
+def _restriction(evaluate, base, v, w, degree, radius):
+    """Coefficients c[j][i] of s^i t^j in f(base + s w + t v) (total degree d: i <= d - j), from values on the
+    torus |s| = 1, |t| = radius, computed once for every translation s w of the line (decision 0148): a translated
+    line's restriction is then a few products, not d + 1 evaluations of f."""
+    nodes_s, nodes_t = _circle(degree, mpmath.mpf(1)), _circle(degree, radius)
+    n = len(v)
+    # per s, the coefficients in t; then per power of t, the coefficients in s
+    in_t = [_circle_coefficients([evaluate([base[j] + s * w[j] + t * v[j] for j in range(n)]) for t in nodes_t],
+                                 radius) for s in nodes_s]
+    return [_circle_coefficients([row[power] for row in in_t], mpmath.mpf(1))[:degree - power + 1]
+            for power in range(degree + 1)]
+
+
+def _restricted_at(restriction, s):
+    """Coefficients (lowest first) in t of f(base + s w + t v), from :func:`_restriction` (Horner in s)."""
+    coefficients = []
+    for row in restriction:
+        total = mpmath.mpc(0)
+        for c in reversed(row):
+            total = total * s + c
+        coefficients.append(total)
+    return coefficients
+
+
+def _roots(coefficients, degree, guesses=None, polish=True):
+    """The roots of the polynomial (coefficients lowest first), or None (it lost degree, or they were not found).
+
+    With ``guesses`` (the roots of a nearby polynomial) by the Weierstrass iteration from them, in double first and
+    then (``polish``) in the working precision, kept only when the discs |z - z_i| <= d |W_i| about the roots
+    found, W_i their corrections, are pairwise disjoint: each then holds exactly one root (the inclusion theorem of
+    the Weierstrass corrections), so the list is the whole set of roots whatever the guesses were; otherwise None.
+    Not polished (the steps between the slice and its translations, where the roots only tell which root went
+    where), the roots are the doubles and their discs at most a 64th of their least distance. Without guesses, by
+    ``mpmath.polyroots``.
+    """
+    coefficients = list(coefficients)
     while len(coefficients) > 1 and coefficients[-1] == 0:
         coefficients.pop()
     if len(coefficients) - 1 < degree:
         return None  # the line lost degree (a direction at infinity on X)
-    try:
-        return list(mpmath.polyroots(coefficients[::-1], maxsteps=400, extraprec=mpmath.mp.prec))
-    except mpmath.libmp.libhyper.NoConvergence:
-        return None
+    if guesses is None:
+        try:
+            return list(mpmath.polyroots(coefficients[::-1], maxsteps=400, extraprec=mpmath.mp.prec))
+        except mpmath.libmp.libhyper.NoConvergence:
+            return None
+    monic = [c / coefficients[-1] for c in coefficients[:-1]]
+    z = _in_double(monic, guesses)
+    if not polish:
+        with mpmath.mp.workprec(_CHECK_BITS):
+            z = [mpmath.mpc(a) for a in z]
+            corrections = _corrections([+c for c in monic], z)
+            if corrections is None:
+                return None
+            radii = [64 * degree * abs(c) for c in corrections]
+            return z if _disjoint(z, radii) else None
+    with mpmath.mp.workprec(mpmath.mp.prec + 32):
+        z = [mpmath.mpc(a) for a in z]
+        tolerance = mpmath.mpf(2) ** (24 - mpmath.mp.prec)
+        for _ in range(_WEIERSTRASS_STEPS):
+            corrections = _corrections(monic, z)
+            if corrections is None:
+                return None
+            z = [a - c for a, c in zip(z, corrections)]
+            if max(abs(c) for c in corrections) <= tolerance * max(abs(a) for a in z):
+                break
+        corrections = _corrections(monic, z)
+        if corrections is None or not _disjoint(z, [degree * abs(c) for c in corrections]):
+            return None
+    return [+a for a in z]
+
+
+def _disjoint(z, radii):
+    """Whether the discs about ``z`` of these radii are pairwise disjoint."""
+    return all(abs(z[i] - z[j]) > radii[i] + radii[j] for i in range(len(z)) for j in range(i + 1, len(z)))
+
+
+#: Bits of the check of roots in double (their corrections are about 1e-13 of them: far above this precision's
+#: rounding of the polynomial).
+_CHECK_BITS = 128
+#: Weierstrass iterations at most from a nearby polynomial's roots (quadratic convergence: a few suffice when the
+#: guesses are close; when they are not, the step is halved).
+_WEIERSTRASS_STEPS = 40
+
+
+def _in_double(monic, guesses):
+    """The Weierstrass iteration in double first (cheap: the digits are doubled at each step once close, so the
+    work in P digits is a few steps); its last iterate when it does not settle (the check decides), the guesses as
+    they were when it leaves the doubles."""
+    a = np.array([complex(c) for c in monic])
+    z = np.array([complex(g) for g in guesses])
+    if not (np.all(np.isfinite(a)) and np.all(np.isfinite(z))):
+        return guesses
+    off = ~np.eye(len(z), dtype=bool)
+    with np.errstate(all="ignore"):
+        for _ in range(_WEIERSTRASS_STEPS):
+            values = np.polyval(np.concatenate([[1.0], a[::-1]]), z)
+            differences = z[:, None] - z[None, :]
+            corrections = values / np.prod(np.where(off, differences, 1.0), axis=1)
+            if not np.all(np.isfinite(corrections)):
+                return guesses
+            z = z - corrections
+            if np.max(np.abs(corrections)) <= 1e-13 * np.max(np.abs(z)):
+                break
+    return z.tolist()
+
+
+def _corrections(monic, z):
+    """Weierstrass corrections p(z_i) / prod_{j != i} (z_i - z_j) of a monic polynomial (``monic``: its lower
+    coefficients, lowest first), or None when two of ``z`` are equal."""
+    corrections = []
+    for i, a in enumerate(z):
+        value = mpmath.mpc(1)
+        for c in reversed(monic):
+            value = value * a + c
+        denominator = mpmath.mpc(1)
+        for j, b in enumerate(z):
+            if j != i:
+                denominator *= a - b
+        if denominator == 0:
+            return None
+        corrections.append(value / denominator)
+    return corrections
 
 
 def _nearest(old, new):
@@ -89,13 +218,14 @@ def _nearest(old, new):
     return order
 
 
-def _followed(evaluate, p0, v, w, roots, shift, degree, radius, steps=16):
-    """The roots at the line translated by ``shift * w``, followed from shift 0 in steps that keep every match clear."""
+def _followed(restriction, roots, direction, degree, steps=16):
+    """The roots at the line translated by ``direction`` (+1 or -1) times the translation of ``restriction``,
+    followed from shift 0 in steps that keep every match clear."""
     done, step, current = mpmath.mpf(0), mpmath.mpf(1) / steps, roots
     while done < 1:
         size = min(step, 1 - done)
-        base = [p0[j] + (done + size) * shift * w[j] for j in range(len(v))]
-        new = _restricted_roots(evaluate, base, v, degree, radius)
+        new = _roots(_restricted_at(restriction, direction * (done + size)), degree, guesses=current,
+                     polish=done + size >= 1)
         order = None if new is None else _nearest(current, new)
         if order is None:
             step = size / 2
@@ -172,8 +302,9 @@ def precise_trace_defects(polynomial, rows, groups, seed=0, digits=None):
         wd = wd / np.linalg.norm(wd)
         w = [mpmath.mpc(complex(z)) for z in wd]
         shift = spread * mpmath.expjpi(2 * mpmath.mpf(float(rng.random())))
-        up = _followed(evaluate, p0, v, w, roots, shift, degree, radius)
-        down = _followed(evaluate, p0, v, w, roots, -shift, degree, radius)
+        restriction = _restriction(evaluate, p0, v, [shift * z for z in w], degree, radius)
+        up = _followed(restriction, roots, 1, degree)
+        down = _followed(restriction, roots, -1, degree)
         if up is None or down is None:
             return None, math.inf
         second = [up[k] + down[k] - 2 * roots[k] for k in range(len(roots))]
