@@ -244,19 +244,13 @@ def curve_meets_hypersurface(curve_equations, witness_points, hypersurface, rng,
         return CurveMeeting(np.zeros((0, fibre.n), dtype=complex), fibre.paths, 1, notes)
     located = [r for r in readings if not r.unlocated and r.size == 1]
     for reading in [r for r in readings if r.unlocated or r.size > 1]:
-        # roots close together against the circle are located poorly (R' small at each): a circle zoomed onto
-        # this one, of twice its distance to the nearest other root, separates it; its reading there replaces it.
         # A multiple root "located" is zoomed onto too: roots closer than the sampling error's m-th root merge into
         # one m-fold root at their mean (x = 2.99, 3, 3.01 on a parabola read from x = +-20: one point at 3.00001,
         # exit 0; decision 0123); a true multiple root stays one on the zoomed circle
-        others = [abs(r.t - reading.t) for r in readings if r is not reading]
-        zoom = 2.0 * min(others) if others and min(others) > 0 else 0.1 * radius
-        notes.append(f"{counted(reading.size, 'root')} of the eliminant located again on a circle {zoom / radius:.1e} "
-                     "times the first")
-        again, failure = _circle_pass(fibre, g, reading.t, zoom, bound, notes)
-        if failure or not again:
+        zoomed = _zoomed(fibre, g, reading, readings, radius, bound, notes, _ZOOM_LEVELS)
+        if zoomed is None:
             return CurveMeeting(np.zeros((0, fibre.n), dtype=complex), fibre.paths, 1, notes)
-        located.extend(_relocated(reading, again))
+        located.extend(zoomed)
     readings = located
     found, undecided = [], 0
     for reading in readings:
@@ -267,6 +261,39 @@ def curve_meets_hypersurface(curve_equations, witness_points, hypersurface, rng,
             found.append(reading.point)
     points = np.array(_distinct(np.array(found).reshape(-1, fibre.n), 1.0, 1e-6), dtype=complex).reshape(-1, fibre.n)
     return CurveMeeting(points, fibre.paths, undecided, list(dict.fromkeys(notes)))
+
+
+def _zoomed(fibre, g, reading, readings, radius, bound, notes, levels):
+    """The readings that replace a cluster ``reading`` of a pass on a circle of ``radius`` (among ``readings``), from
+    circles zoomed onto it; None where the first zoomed pass fails.
+
+    Roots close together against the circle are located poorly (R' small at each): a circle zoomed onto the cluster,
+    of twice its distance to the nearest other root (a tenth of the circle where there is none), separates it, and
+    its readings replace it. A reading of that pass still not located is a cluster of the zoomed circle's scale and
+    is zoomed onto again, up to ``levels`` passes deep (the same rule at every scale; the carried umbrella's five
+    roots near its pinch point read from a circle 10 times wider than they are apart came back unlocated after one
+    zoom). What the last level leaves unlocated is undecided, never guessed. A located multiple root is not zoomed
+    onto again: it stayed one root on a circle that would have split it.
+    """
+    others = [abs(r.t - reading.t) for r in readings if r is not reading]
+    zoom = 2.0 * min(others) if others and min(others) > 0 else 0.1 * radius
+    notes.append(f"{counted(reading.size, 'root')} of the eliminant located again on a circle {zoom / radius:.1e} "
+                 "times the last")
+    again, failure = _circle_pass(fibre, g, reading.t, zoom, bound, notes)
+    if failure or not again:
+        return None
+    kept = _relocated(reading, again)
+    if levels <= 1:
+        return kept
+    replaced = []
+    for candidate in kept:
+        deeper = _zoomed(fibre, g, candidate, again, zoom, bound, notes, levels - 1) if candidate.unlocated else None
+        replaced.extend([candidate] if deeper is None else deeper)  # a deeper pass that fails leaves it undecided
+    return replaced
+
+
+#: Circles zoomed onto a cluster of the eliminant's roots, one inside the other, before it is left undecided.
+_ZOOM_LEVELS = 3
 
 
 def _relocated(reading, again):
