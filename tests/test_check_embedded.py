@@ -100,8 +100,20 @@ def test_check_tells_embedded_points_from_singular_points(index):
     assert radical_by_hand(equations, radical, variables, point) is singular
     system = system_of(equations, variables)
     seed = 1 + index % 3
-    (verdict,) = check_points(system, [exact_text(point)], seed=seed,
-                              decomposition=decompose(system, seed=seed)).points
+    decomposition = decompose(system, seed=seed)
+    # every witness point lies on X = V(R) (R by hand above): a move that jumped to another component of a random
+    # combination of F once left a parabola's sample point off X, and the check at the origin undecided
+    for component in decomposition.components:
+        for sample in component.points:
+            at = dict(zip(variables, (sympy.nsimplify(complex(c).real, rational=True)
+                                      + sympy.I * sympy.nsimplify(complex(c).imag, rational=True) for c in sample)))
+            norm = float(np.linalg.norm(sample))
+            for r in radical:
+                # each term's size with every coordinate replaced by the point's norm (a term that is one
+                # coordinate, z at a point with z = 3e-307, is not its own yardstick)
+                size = sum(abs(complex(c)) * norm ** sum(m) for m, c in sympy.Poly(r, *variables).terms())
+                assert abs(complex(r.subs(at))) <= 1e-8 * size, (component.id, sample)
+    (verdict,) = check_points(system, [exact_text(point)], seed=seed, decomposition=decomposition).points
     assert verdict.verdict is (Verdict.SINGULAR if singular else Verdict.EMBEDDED), (seed, verdict.notes)
     assert not verdict.verdict.is_singular or singular
 

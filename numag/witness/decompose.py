@@ -750,7 +750,7 @@ def _join_by_trace(graph, groups, defects, sizes, limits):
                 return
 
 
-def _to_real_slice(mover, points, rows, rng):
+def _to_real_slice(system, mover, points, rows, rng):
     """Witness points on a random real slice (real points of the component appear where there are any).
 
     The computation itself uses complex slices (a real slice can be nearly parallel to a real
@@ -764,7 +764,11 @@ def _to_real_slice(mover, points, rows, rng):
     real_rows = (real_rows / np.linalg.norm(real_rows, axis=1, keepdims=True)).astype(complex)
     counted = mover.paths
     moved = mover.move(points, rows, real_rows, detour=True)
-    if not np.all(np.isfinite(moved)) or len(points) != len(set(cluster_labels(moved, 1e-6))):
+    # a path may jump to another component of the held combination (the line a x + b y = 0 of (y - x^2) x and
+    # (y - x^2) y combined): its end is finite and distinct but no point of X, and it was kept as a witness point
+    # of the parabola (a sample point off X; every later move from it went astray). All of F must vanish there.
+    if not np.all(np.isfinite(moved)) or len(points) != len(set(cluster_labels(moved, 1e-6))) \
+            or not np.all(_on_x(system, moved)):
         # the points stay where they were: a failed path of this move loses nothing (decision 0135)
         mover.paths = counted
         return points, rows
@@ -957,7 +961,7 @@ def _decompose(system, options, seed, progress, digits=None):
             real = np.zeros(len(group), dtype=bool)
             if real_coefficients:
                 if witness.dimension > 0:
-                    points, rows = _to_real_slice(mover, points, rows, rng)
+                    points, rows = _to_real_slice(system, mover, points, rows, rng)
                 real = np.all(np.abs(points.imag) <= 1e-8 * (1 + np.abs(points)), axis=1)
             components.append(Component(id=0, dimension=witness.dimension, degree=len(group), points=points,
                                         real=real, multiplicity=int(np.max(witness.multiplicity[group])),
@@ -1339,11 +1343,25 @@ def _lands_on_x_next_to(system, component, codimension, point, rng, options):
     near[finite] = np.linalg.norm(ends[finite] - point[None, :], axis=1) <= _NEXT_TO_REACH * _NEXT_TO_OFFSET * size
     if not np.any(near):
         return near
-    polynomials = _polynomial_part(system).polynomials
-    values = BatchEvaluator(polynomials).evaluate(ends[near], jacobian=False)
-    residuals = np.max(np.abs(values) / TermSizes(polynomials, False).values(ends[near]), axis=1)
-    near[np.nonzero(near)[0]] = residuals <= _ON_X_RESIDUAL
+    near[np.nonzero(near)[0]] = _on_x(system, ends[near])
     return near
+
+
+def _on_x(system, points):
+    """Whether every equation of F vanishes at each point to :data:`_ON_X_RESIDUAL` of the size of its terms (not
+    only the random combination a move held: a path that jumped to another component of it ends off X).
+
+    Examples
+    --------
+    >>> from numag.system.parse import parse_system
+    >>> system = parse_system(["(y - x^2) * x", "(y - x^2) * y"], ["x", "y"])
+    >>> _on_x(system, np.array([[2.0, 4.0], [1.0, -1.0]])).tolist()   # on the parabola; on the line x + y = 0 only
+    [True, False]
+    """
+    polynomials = _polynomial_part(system).polynomials
+    values = BatchEvaluator(polynomials).evaluate(points, jacobian=False)
+    residuals = np.max(np.abs(values) / TermSizes(polynomials, False).values(points), axis=1)
+    return residuals <= _ON_X_RESIDUAL
 
 
 def _member(system, component, codimension, point, rng, options):
