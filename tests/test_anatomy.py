@@ -377,3 +377,20 @@ def test_a_real_point_with_rounding_in_its_imaginary_parts_has_real_branches(see
     assert anatomy.multiplicity == 4
     assert sorted(b.real for b in anatomy.branches) == [False, False, True, True]
     assert anatomy.motion is Motion.SWITCH
+
+
+@pytest.mark.parametrize("seed", [1, 2, 3])
+@pytest.mark.parametrize("equation, multiplicity, motion", [
+    ("y^2 - x^3", 2, Motion.DEAD_POINT),       # (t^2, t^3): x = t^2 >= 0, the motion turns back
+    ("y^3 - x^4", 3, Motion.SINGULAR_PASS),    # (t^3, t^4): x = t^3 runs through 0, y = |x|^(4/3)
+    ("y^3 - x^5", 3, Motion.SINGULAR_PASS),    # (t^3, t^5)
+    ("y^2 - x^5", 2, Motion.DEAD_POINT),       # (t^2, t^5)
+], ids=["cusp", "y3-x4", "y3-x5", "y2-x5"])
+def test_a_real_branch_turns_back_only_at_even_multiplicity(equation, multiplicity, motion, seed):
+    # Hand computation: each curve is one real branch through the origin with the parametrisation beside it,
+    # whose multiplicity is the lower exponent; along the tangent (the x-axis) the point moves as t^m, which keeps
+    # its sign for m even (a dead point) and changes it for m odd (the motion passes). y^3 = x^4 was called a dead
+    # point because its branch is singular.
+    anatomy = point_anatomy(parse_system([equation], ["x", "y"]), [0, 0], seed=seed)
+    assert [(b.multiplicity, b.real) for b in anatomy.branches] == [(multiplicity, True)]
+    assert anatomy.motion is motion

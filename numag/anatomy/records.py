@@ -66,8 +66,9 @@ class Motion(Enum):
     """What the real branches through a real point of a curve allow a mechanism to do."""
 
     SWITCH = "switch"          # two or more real branches: the mechanism can change branch
-    DEAD_POINT = "dead point"  # one real branch, singular (a cusp): motion stops and turns back
+    DEAD_POINT = "dead point"  # one real branch of even multiplicity (a cusp): motion stops and turns back
     PASS = "pass"              # one smooth real branch (the other branches complex): motion passes
+    SINGULAR_PASS = "singular pass"  # one real branch of odd multiplicity above 1: passes, its speed vanishing there
     LOCKED = "locked"          # no real branch: an isolated real point
     COMPLEX = "complex point"  # the point is not real: no real motion through it
 
@@ -87,6 +88,9 @@ class Motion(Enum):
             return "one real branch with a cusp: a dead point (the motion stops and turns back)"
         if self is Motion.PASS:
             return "one smooth real branch passes through (the other branches are complex): no branch switch"
+        if self is Motion.SINGULAR_PASS:
+            return ("one real branch of odd multiplicity passes through without turning back, though it is singular "
+                    "here (its speed vanishes): not a dead point, no branch switch")
         if self is Motion.LOCKED:
             return "isolated real point: the real configuration is locked here"
         return "a complex point: no real configuration passes through it"

@@ -168,7 +168,12 @@ def _motion(real_point, branches):
     if len(real) >= 2:
         return Motion.SWITCH
     if len(real) == 1:
-        return Motion.DEAD_POINT if real[0].multiplicity > 1 else Motion.PASS
+        # a real branch of multiplicity m is x = t^m along its tangent, real t (from memory, the real branch's
+        # standard parametrisation): for m even the tangent coordinate keeps one sign and the motion turns back
+        # (y^2 = x^3); for m odd it changes sign and the motion passes (y^3 = x^4, the graph y = |x|^(4/3))
+        if real[0].multiplicity == 1:
+            return Motion.PASS
+        return Motion.DEAD_POINT if real[0].multiplicity % 2 == 0 else Motion.SINGULAR_PASS
     return Motion.LOCKED
 
 
