@@ -444,3 +444,12 @@ def test_a_swept_rank_drop_prints_no_digit_below_its_accuracy(tmp_path, seed, un
     assert main(["sweep", path, "--grid", "p=1:3:5", "--seed", str(seed)], out=out) == 0
     text = out.getvalue()
     assert f"at p=2: x={unit}\n" in text, text
+
+
+@pytest.mark.parametrize("text, exponent", [("1e400", 400), ("-3e-500", -500), ("12345e305", 309)])
+def test_a_value_beyond_the_double_range_is_named_by_its_size(text, exponent):
+    # the largest double is about 1.8e308 (IEEE 754, common practice, no source): the error gave the first 40
+    # digits of 10^400, which read as 10^39; a value below its range was read as 0, another member
+    from numag.families.sweep import parse_value
+    with pytest.raises(InputError, match=rf"about 10\^{exponent} is (beyond|below) the double range"):
+        parse_value(text)

@@ -447,11 +447,35 @@ def parse_value(text):
 
 
 def _to_double(value):
-    """The double nearest a Fraction (rounded once), or InputError beyond the double range."""
+    """The double nearest a Fraction (rounded once), or InputError beyond the double range (or so small that it
+    would round to 0: another member of the family)."""
     try:
-        return float(value)
+        rounded = float(value)
+        if rounded == 0 and value != 0:
+            raise InputError(f"a value of about 10^{_decimal_exponent(value)} is below the double range (it would "
+                             "be read as 0)")
+        return rounded
     except OverflowError:
-        raise InputError(f"{str(value)[:40]} is beyond the double range") from None
+        # the size in a power of ten: the first 40 digits of 10^400 read as 10^39
+        raise InputError(f"a value of about 10^{_decimal_exponent(value)} is beyond the double range "
+                         f"(about 1.8e308)") from None
+
+
+def _decimal_exponent(value):
+    """The power of ten of a Fraction's size, exactly in integers (no float: it is beyond the double range).
+
+    Examples
+    --------
+    >>> from fractions import Fraction
+    >>> _decimal_exponent(Fraction(10) ** 400), _decimal_exponent(-Fraction(3, 10 ** 500))
+    (400, -500)
+    """
+    numerator, denominator = abs(value.numerator), value.denominator
+    exponent = len(str(numerator)) - len(str(denominator))
+    # 10^e <= |value| < 10^(e + 1)
+    if numerator * 10 ** max(0, -exponent) < denominator * 10 ** max(0, exponent):
+        exponent -= 1
+    return exponent
 
 
 def parse_grid(text, parameters):
