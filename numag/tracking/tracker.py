@@ -1075,8 +1075,26 @@ def x0_invisible(homotopy, points, opts):
     moved = np.array(points, dtype=complex, copy=True)
     moved[:, 0] = 0
     with np.errstate(all="ignore"):
-        residual = homotopy.target_residual(moved)
-    return residual <= opts.endpoint_residual
+        invisible = homotopy.target_residual(moved) <= opts.endpoint_residual
+    # zero alone is not enough: a finite zero whose direction is also a zero at infinity (a block of circles and
+    # minors, where every term of the minors holds s_1 or s_2: X_0 = 0.71 at (1, 0, -1, 0)) solves F^h at X_0 = 0 too.
+    # X_0 is invisible when F^h(t X_0, X), a polynomial in t of degree at most D, is small at t = 0 and at the
+    # other (D + 1)-th roots of unity as well: then none of its terms in t is larger than a few tolerances
+    degree = _target_degree(homotopy)
+    for k in range(1, degree + 1):
+        if not np.any(invisible):
+            break
+        turned = np.array(points, dtype=complex, copy=True)
+        turned[:, 0] *= np.exp(2j * np.pi * k / (degree + 1))
+        with np.errstate(all="ignore"):
+            invisible &= homotopy.target_residual(turned) <= opts.endpoint_residual
+    return invisible
+
+
+def _target_degree(homotopy):
+    """A bound on the degree of the target in X_0 (with evaluated minors: the sum of the equations' degrees)."""
+    degrees = [int(p.degree) for p in getattr(homotopy, "target", [])] or [1]
+    return sum(degrees) if getattr(homotopy, "minors", None) is not None else max(degrees)
 
 
 #: Samples of a path on its way to s = 0 at s = endgame_radius * endgame_shrink^k, k = 1 .. this (decision 0113):

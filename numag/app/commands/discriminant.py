@@ -14,7 +14,8 @@ from ..picture import discriminant_svg, sweep_svg
 from ..report import CAUTION, discriminant_warnings, dumps, undecided_special_points
 from ..saved import save
 from .common import (EXIT_OK, EXIT_UNDECIDED, _add_executor_options, _add_fixing_option, _add_work_options,
-                     _format_complex, _load_free_family, _progress, _rounding_floor, _seed, _stage_executor)
+                     _format_complex, _load_free_family, _PointFormat, _progress, _root_accuracy, _rounding_floor, _seed,
+                     _stage_executor)
 
 
 def add_parser(commands):
@@ -73,10 +74,25 @@ def _unsure_text(count):
     return f"  ({'; '.join(why)})" if why else ""
 
 
-def _interval(low, high, floor=None):
-    left = "-inf" if math.isinf(low) else _format_complex(complex(low), floor)
-    right = "inf" if math.isinf(high) else _format_complex(complex(high), floor)
+def _interval(low, high, floor=None, known=None):
+    known = known or {}
+    left = "-inf" if math.isinf(low) else known.get(low) or _format_complex(complex(low), floor)
+    right = "inf" if math.isinf(high) else known.get(high) or _format_complex(complex(high), floor)
     return f"({left}, {right})"
+
+
+def _point_texts(result, text):
+    """One parameter: each real discriminant point as text to its accuracy (a point where m paths met is known to
+    about eps^(1/m) of the scale of the points, the sweep's rule), by value."""
+    scale = max([1.0] + [abs(float(v)) for v in result.real_points])
+    texts = {}
+    for value in result.real_points:
+        paths = max([int(c.multiplicity) for c in result.components if c.kind == ComponentKind.FINITE
+                     and c.dimension == 0 and len(c.points) and c.points[0, 0].real == value] or [1])
+        if paths > 1:  # relative to the scale of the points, not to the value (a double point at 0 beside 800)
+            accuracy = _root_accuracy(16, paths) * scale / math.sqrt(1.0 + float(value) ** 2)
+            texts[float(value)] = text([""], [value], accuracy)[1:]
+    return texts
 
 
 def _print(result, out):
@@ -85,16 +101,21 @@ def _print(result, out):
               f"parameters {names}; members of codimension {result.codimension}; seed {result.seed}\n")
     out.write(f"paths: {result.paths.get('tracked', 0)} tracked, {_failed(result)} failed; {result.seconds:.2f} s\n")
     floor = _rounding_floor(result)
+    text = _PointFormat()
+    known = _point_texts(result, text) if len(result.parameters) == 1 else {}
     finite = [c for c in result.components if c.kind == ComponentKind.FINITE]
     others = len(result.components) - len(finite)
     out.write(f"\n{counted(len(result.components), 'component')} of the discriminant ({len(finite)} with members "
               f"singular at a finite point{f', {others} of another kind' if others else ''})\n")
     for k, c in enumerate(result.components, 1):
-        sample = ", ".join(f"{p}={_format_complex(complex(z), floor)}" for p, z in zip(result.parameters, c.points[0]))
+        real_point = known.get(complex(c.points[0, 0]).real) if c.dimension == 0 and c.real[0] else None
+        sample = f"{result.parameters[0]}={real_point}" if real_point else ", ".join(
+            f"{p}={_format_complex(complex(z), floor)}" for p, z in zip(result.parameters, c.points[0]))
         out.write(f"  {k:3d}  {c.kind.value:13s} dimension {c.dimension}  degree {c.degree}  "
                   f"{counted(int(sum(c.real)), 'real sample')}  e.g. {sample}\n")
     if len(result.parameters) == 1:
-        points = ", ".join(_format_complex(complex(v), floor) for v in result.real_points) or "none"
+        points = ", ".join(known.get(float(v)) or _format_complex(complex(v), floor) for v in result.real_points) \
+            or "none"
         out.write(f"\nreal discriminant points ({names}): {points}\n")
         infinite = [c.points[0, 0] for c in result.components if c.kind == ComponentKind.AT_INFINITY
                     and c.dimension == 0 and c.real[0]]
@@ -104,7 +125,7 @@ def _print(result, out):
     if result.regions:
         out.write("\nregions (one sample member solved in each)\n")
         for region in result.regions:
-            where = _interval(region.low, region.high, floor)
+            where = _interval(region.low, region.high, floor, known)
             if region.line is not None:
                 where = f"{result.parameters[0]} = {region.line:.6g}, {result.parameters[1]} in {where}"
             else:
@@ -114,6 +135,8 @@ def _print(result, out):
         _print_curve(result, out)
     for note in result.notes:
         out.write(f"\nnote: {note}\n")
+    if text.footnote():
+        out.write(f"\n{text.footnote()}")
     for warning in discriminant_warnings(result):
         out.write(f"warning: {warning}\n")
     out.write(f"\n{CAUTION}\n")
