@@ -261,6 +261,11 @@ def completeness_warnings(data):
         warnings.append(f"{counted(non_reduced, 'non-reduced component')} of X (J vanishes all along it): points "
                         "inside it where another component meets it, or where it is singular itself, are no "
                         "separate candidates and were not searched; undecided there (check a point to judge it).")
+    hidden = _discarded(data, "null_vector_inside_unsearched")
+    if hidden:  # the random row combination vanishes along them at smooth points of X (decision 0150)
+        warnings.append(f"{counted(hidden, 'candidate set')} of the null-vector formulation lay on smooth points of X "
+                        "and the minors could not be used: points inside them where components of X meet are no "
+                        "separate candidates and were not searched; undecided there.")
     paths_block = data.get("paths") or {}
     if int((paths_block.get("endpoints") or {}).get("degree_check_failed", 0)):
         warnings.append("The components' degrees times multiplicities do not add up as Bezout's theorem requires "

@@ -1119,6 +1119,7 @@ def _affine(system, options, rng, paths, discarded, progress, notes_out=None, ro
     check_options = CheckOptions(max_digits=options.digits, backward_errors=False,  # measured in _near_singular
                                  point_tolerance=POINT_TOLERANCE)
     formulations = {}  # codimension -> the formulation asked for after the minors' witness sets split (0115)
+    minors_tried = {}  # codimensions computed again in the minors formulation (decision 0150): once each
     inside = []  # ids of the non-reduced components whose inside is searched (decision 0140)
     queue = list(codimensions)
     while queue:
@@ -1205,6 +1206,7 @@ def _affine(system, options, rng, paths, discarded, progress, notes_out=None, ro
         verdicts = _judge_all(system, [points[0] for _, points, _, _ in fresh], check_options,
                               int(rng.integers(2**31)), variety, loose)
         loosely = []  # the positive-dimensional pieces kept whose witness point is no singular point itself
+        hiding = 0  # null-vector candidate sets of this codimension judged smooth: their inside unsearched (0150)
         for (dimension, points, multiplicity, oracle), verdict, settled_loosely in zip(fresh, verdicts, loose):
             candidate = _Candidate(dimension, len(points), points)
             point = points[0]
@@ -1247,6 +1249,9 @@ def _affine(system, options, rng, paths, discarded, progress, notes_out=None, ro
                 continue
             if verdict.verdict is Verdict.SMOOTH:
                 discarded["smooth_on_check"] = discarded.get("smooth_on_check", 0) + 1
+                if (kind is CandidateSystem.NULL_VECTOR and candidate.dimension > 0
+                        and system.n_equations > codimension and verdict.codimension == codimension):
+                    hiding += 1
                 if dropped is not None and verdict.codimension is not None:
                     # a candidate curve too: two circles of radius 7e-5 at (100, -50) look like two double lines
                     dropped.append(_Dropped(point, np.asarray(verdict.point, dtype=complex), verdict.codimension,
@@ -1293,16 +1298,27 @@ def _affine(system, options, rng, paths, discarded, progress, notes_out=None, ro
             oracles.append(oracle)
             if settled_loosely and candidate.dimension > 0:
                 loosely.append(found[-1])
+        if hiding and search is None and minors_tried.get(codimension) is None:
+            # Decision 0150: with more equations than the codimension, lambda^T A J = 0 (A random, c x m) holds on a
+            # hypersurface of a component of this codimension besides its rank drops, a candidate set whose generic
+            # point is smooth; a point of X where components meet lies on it, not apart ({z x, z y}: the line
+            # a1 x + a2 y = 0 of the plane passes through the origin). The minors (rank J < c) hold only at rank drops.
+            minors_tried[codimension] = True
+            _forget(before, found, oracles, notes_out, routes, discarded, (dropped, embedded, embedded_components))
+            formulations[codimension] = Formulation.MINORS
+            notes_out.append(f"codimension {codimension}: {counted(hiding, 'candidate set')} of the null-vector "
+                             "formulation lay on X's smooth points of this codimension, where a point of X that "
+                             "components share is not found apart; computed again in the minors formulation "
+                             "(decision 0150).")
+            queue.insert(0, codimension)
+            continue
+        if hiding:  # the minors could not be used: the inside of those sets is not searched
+            discarded["null_vector_inside_unsearched"] = discarded.get("null_vector_inside_unsearched", 0) + hiding
         split = _split_pieces(loosely)
         if split and kind is not CandidateSystem.NULL_VECTOR and options.formulation is not Formulation.MINORS:
             # one multiple component of the minors' equations may have split into several false ones: this
             # codimension again in the null-vector formulation, its pieces judged afresh
-            del found[before[0]:], oracles[before[0]:], notes_out[before[1]:], routes[before[2]:]
-            discarded.clear()
-            discarded.update(before[3])
-            for out, length in zip((dropped, embedded, embedded_components), before[4:]):
-                if out is not None:
-                    del out[length:]
+            _forget(before, found, oracles, notes_out, routes, discarded, (dropped, embedded, embedded_components))
             formulations[codimension] = Formulation.NULL_VECTOR
             notes_out.append(f"codimension {codimension}: {counted(len(split), 'piece')} of the minors' witness sets "
                              "lay near a singular set without being singular points themselves (a multiple component "
@@ -1315,6 +1331,17 @@ def _affine(system, options, rng, paths, discarded, progress, notes_out=None, ro
     for component_id in dict.fromkeys(inside):  # each non-reduced component once
         _inside_non_reduced(system, variety, component_id, options, rng, paths, discarded, notes_out, found, oracles)
     return found, variety
+
+
+def _forget(before, found, oracles, notes_out, routes, discarded, outs):
+    """Undo what one codimension added (``before``: the lengths and counts taken before it), to compute it again
+    in another formulation (decisions 0115, 0150)."""
+    del found[before[0]:], oracles[before[0]:], notes_out[before[1]:], routes[before[2]:]
+    discarded.clear()
+    discarded.update(before[3])
+    for out, length in zip(outs, before[4:]):
+        if out is not None:
+            del out[length:]
 
 
 def _inside_non_reduced(system, variety, component_id, options, rng, paths, discarded, notes, found, oracles):

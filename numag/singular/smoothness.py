@@ -1122,10 +1122,10 @@ class _Checker:
                     return False
         return True
 
-    def embedded_or_singular(self, point, component, notes):
+    def embedded_or_singular(self, point, component, notes, moved=False):
         """At a rank drop on one reduced component, with more equations than the codimension: the component's
         multiplicity at the point decides between a singular point of X and an embedded point of the equations
-        (decision 0105). Notes are added in place; returns the verdict.
+        (decision 0105). Notes are added in place; returns the verdict and the components through the point.
 
         The Jacobian criterion is about the ideal of X; more equations than the codimension need not generate it
         near the point ({x^2, x y} cut out the line x = 0 with an embedded point at the origin: rank J drops
@@ -1133,10 +1133,28 @@ class _Checker:
         a smooth point of X (an unmixed local ring of multiplicity 1 is regular: Nagata). The multiplicity is the
         local witness set's count (:func:`numag.witness.local.component_multiplicity`); a complete intersection
         (as many equations as the codimension) is unmixed and needs none.
+
+        ``moved``: the point is a rank drop found away from the point whose components were tested. "One
+        component" must then be shown at this point itself (decision 0150): the membership test spoke about the
+        other point, and a component tangent to this one there passes too close to it to be seen from 1e-5 away
+        (the plane w = 0 and the curve {w = u^2, v = 0} shifted to (1234, -567, 89)).
         """
         if self.decomposition is None:
-            return Verdict.SINGULAR
+            return Verdict.SINGULAR, [component]
         user_point = self.user_scaling.to_user(point[None, :])[0] if self.user_scaling is not None else point
+        if moved:
+            here = components_through_points(self.decomposition, [user_point], [int(self.rng.integers(2**31))])[0]
+            if len(here) > 1:
+                ids = ", ".join(str(c.id) for c in here)
+                notes.append(f"The point lies on {len(here)} components of X (ids {ids}): where components meet, X "
+                             "is not locally irreducible, so the point is singular whatever the rank.")
+                return Verdict.SINGULAR, here
+            if [c.id for c in here] != [component.id]:
+                notes.append(f"The Jacobian drops rank here, next to component {component.id}, but the membership "
+                             "test at this point itself does not show that one component alone passes through it: "
+                             "whether it is a singular point of X or an embedded point of the equations is "
+                             "undecided.")
+                return Verdict.UNDECIDED, here
         picture = component_multiplicity(self.decomposition, component, user_point,
                                          seed=int(self.rng.integers(2**31)))
         count = picture.multiplicity
@@ -1146,18 +1164,18 @@ class _Checker:
                          "next to the point converges to it), so X is a manifold of the component's dimension "
                          f"here. The Jacobian of the {self.m} equations drops rank only because they do not cut X "
                          "out reduced at this point (an embedded point of the equations, not a singular point of X).")
-            return Verdict.EMBEDDED
+            return Verdict.EMBEDDED, [component]
         if count is not None and count > 1:
             notes.append(f"Component {component.id} has multiplicity {count} at the point ({count} of its points on a "
                          "generic slice next to the point converge to it): a singular point of X, whatever "
                          "equations cut X out.")
-            return Verdict.SINGULAR
+            return Verdict.SINGULAR, [component]
         why = "; ".join(picture.notes) or "no local point converged to it"
         notes.append(f"The Jacobian drops rank here, but {self.m} equations for codimension "
                      f"{self.system.ambient_dimension - component.dimension} need not cut X out reduced: whether this "
                      "is a singular point of X or an embedded point of the equations (X smooth) rests on the local "
                      f"multiplicity of component {component.id}, which was not counted ({why}).")
-        return Verdict.UNDECIDED
+        return Verdict.UNDECIDED, [component]
 
     def full_rank_within_tolerance(self, given, refined, codim, position):
         """Whether J clearly keeps rank ``codim`` on the ball of the point tolerance around ``refined`` (decision
@@ -1384,7 +1402,8 @@ class _Checker:
                              "meet, X is not locally irreducible, so the point is singular whatever the rank.")
         if (verdict is Verdict.SINGULAR and through and len(through) == 1 and opts.local_dimension is None
                 and self.m > codim and through[0].reduced):
-            verdict = self.embedded_or_singular(np.asarray(decision.point), through[0], notes)
+            verdict, through = self.embedded_or_singular(np.asarray(decision.point), through[0], notes,
+                                                         moved=self.distance(refined, decision.point) > 0)
         if verdict.is_singular and self.m > 1:
             notes.append(_AS_GIVEN)
         point = np.asarray(decision.point, dtype=complex)

@@ -153,7 +153,10 @@ def solve_block(system, block, seed=None):
     square_up = len(polynomials) > len(columns)
     result = solve_system(sub, SolveOptions(square_up=square_up), seed=seed)
     counts = result.path_counts()
-    if counts["failed"] or result.not_isolated or result.unverified or any(
+    # A path that ended at a singular endpoint reached a multiple root, whether or not the solve kept it as a
+    # solution: (x - 1.234)^2 twice, combined at random with rounded coefficients, left no solution and 0 roots,
+    # and the fibre over the double root (a point where two components of X meet) was lost (decision 0150)
+    if counts["failed"] or counts.get("singular_endpoint", 0) or result.not_isolated or result.unverified or any(
             s.multiplicity != 1 for s in result.solutions):
         return None
     if not result.solutions:
