@@ -453,3 +453,9 @@ def test_a_value_beyond_the_double_range_is_named_by_its_size(text, exponent):
     from numag.families.sweep import parse_value
     with pytest.raises(InputError, match=rf"about 10\^{exponent} is (beyond|below) the double range"):
         parse_value(text)
+
+
+def test_a_grid_end_beyond_the_double_range_says_so():
+    # the same range (IEEE 754, common practice, no source) for --grid's ends: "is not start:stop:count" hid it
+    with pytest.raises(InputError, match=r"--grid: p: a value of about 10\^400 is beyond the double range"):
+        parse_grid("p=1e400:2:3", ["p"])

@@ -501,7 +501,12 @@ def parse_grid(text, parameters):
         pieces = spec.split(":")
         try:
             start, stop, count = parse_value(pieces[0]), parse_value(pieces[1]), int(pieces[2])
-        except (InputError, ValueError, IndexError):
+        except InputError as error:
+            if "double range" in str(error):  # a number, but one a double cannot hold: say which
+                raise InputError(f"--grid: {name}: {error}") from None
+            raise InputError(f"--grid: {spec.strip()[:40]!r} is not start:stop:count (start and stop rational "
+                             "numbers, count an integer)") from None
+        except (ValueError, IndexError):
             raise InputError(f"--grid: {spec.strip()[:40]!r} is not start:stop:count (start and stop rational "
                              "numbers, count an integer)") from None
         if len(pieces) != 3 or not 1 <= count <= MAX_VALUES:
