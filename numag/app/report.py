@@ -264,8 +264,10 @@ def completeness_warnings(data):
     hidden = _discarded(data, "null_vector_inside_unsearched")
     if hidden:  # the random row combination vanishes along them at smooth points of X (decision 0150)
         warnings.append(f"{counted(hidden, 'candidate set')} of the null-vector formulation lay on smooth points of X "
-                        "and the minors could not be used: points inside them where components of X meet are no "
-                        "separate candidates and were not searched; undecided there.")
+                        "and the minors formulation was not used (too large or estimated too costly): singular points "
+                        "of X inside them (where components meet, or where one is singular) are no separate "
+                        "candidates and were not searched; undecided there (--formulation minors searches them, at "
+                        "a higher cost; decision 0153).")
     paths_block = data.get("paths") or {}
     if int((paths_block.get("endpoints") or {}).get("degree_check_failed", 0)):
         warnings.append("The components' degrees times multiplicities do not add up as Bezout's theorem requires "

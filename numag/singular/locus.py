@@ -1299,8 +1299,9 @@ def _affine(system, options, rng, paths, discarded, progress, notes_out=None, ro
             if settled_loosely and candidate.dimension > 0:
                 loosely.append(found[-1])
         # only where the null-vector formulation was asked for: chosen by `auto`, the minors of a large non-complete
-        # intersection cost far more (3 x 3 rank <= 1: 28,544 paths, 10,219 failed, against 16 s), so that case
-        # keeps the earlier behaviour (decision 0150, Left)
+        # intersection cost far more (3 x 3 rank <= 1: 28,544 paths, 10,219 failed, against 16 s; two components
+        # meeting in C^5: 4 minutes, 1,140 failed, the point still missing), so there the sets stay unsearched and
+        # counted below (a completeness warning, exit 3: decision 0153)
         if hiding and search is None and minors_tried.get(codimension) is None \
                 and options.formulation is Formulation.NULL_VECTOR:
             # Decision 0150: with more equations than the codimension, lambda^T A J = 0 (A random, c x m) holds on a
@@ -1316,7 +1317,7 @@ def _affine(system, options, rng, paths, discarded, progress, notes_out=None, ro
                              "(decision 0150).")
             queue.insert(0, codimension)
             continue
-        if hiding and options.formulation is Formulation.NULL_VECTOR:  # the minors could not be used: unsearched
+        if hiding:  # the minors could not be used, or cost too much: unsearched, never silent (decision 0153)
             discarded["null_vector_inside_unsearched"] = discarded.get("null_vector_inside_unsearched", 0) + hiding
         split = _split_pieces(loosely)
         if split and kind is not CandidateSystem.NULL_VECTOR and options.formulation is not Formulation.MINORS:
