@@ -31,7 +31,7 @@ def test_the_whitney_umbrella_reads_cleanly(tmp_path, seed):
     # point (common practice, no source)
     code, text = run(tmp_path, UMBRELLA, ["singular"], seed)
     assert "1 equation in 3 variables" in text and "equation(s)" not in text
-    assert "1 singular or non-reduced component of positive dimension" in text and "0 singular points" in text
+    assert "1 piece of positive dimension, non-reduced or undecided" in text and "0 singular points" in text
     assert "reaches infinity" in text and "positive-dimensional set at infinity" not in text
     assert not NOISE.search(text)
     assert text.count("are printed as 0") <= 1

@@ -315,6 +315,13 @@ def completeness_warnings(data):
     if unconfirmed:
         warnings.append(f"{counted(unconfirmed, 'group')} of witness points not confirmed by the trace test: they "
                         "may be parts of larger components (raise --max-loops or change --seed).")
+    pieces = data.get("components") if data.get("command") == "singular" else None
+    undecided = [c for c in pieces if isinstance(c, dict) and c.get("kind") == "undecided"] \
+        if isinstance(pieces, (list, EncodedSequence)) else []
+    if undecided:  # listed with their notes; said here too, so that every exit 3 has its warning line
+        warnings.append(f"{counted(len(undecided), 'piece')} of the singular locus undecided (listed as such, with "
+                        "notes): the Jacobian criterion could not tell singular from smooth there at this precision "
+                        "(a larger --digits, or `certify` on the saved report, may decide).")
     return warnings
 
 

@@ -126,12 +126,15 @@ def _print_singular(result, out, angles, data=None, anatomy=None):
             out.write(f"        e.g. {text(names, c.points[int(np.argmax(c.real))], _WITNESS_ACCURACY)}\n")
     larger = [c for c in affine if c.dimension > 0 or c.kind is not PieceKind.SINGULAR]
     if larger:
-        out.write(f"\n{_counted(len(larger), 'singular or non-reduced component')} of positive dimension, "
-                  f"non-reduced or undecided{_unsearched(lowest)}\n")
+        # one heading for three kinds of piece: a point is named a point, not a set of dimension 0
+        out.write(f"\n{_counted(len(larger), 'piece')} of positive dimension, non-reduced or undecided"
+                  f"{_unsearched(lowest)}\n")
         for c in larger:
-            out.write(f"  {c.id:4d}  {c.kind}  dimension {c.dimension}  degree {c.degree}  "
-                      f"{_counted(int(sum(c.real)), 'real witness point')}  ({c.formulation})\n")
-            out.write(f"        e.g. {text(names, c.points[int(np.argmax(c.real))], _WITNESS_ACCURACY)}\n")
+            shape = (f"point  {'real' if c.real[0] else 'complex'}" if c.dimension == 0 else
+                     f"dimension {c.dimension}  degree {c.degree}  {_counted(int(sum(c.real)), 'real witness point')}")
+            out.write(f"  {c.id:4d}  {c.kind}  {shape}  ({c.formulation})\n")
+            where = text(names, c.points[int(np.argmax(c.real))], _WITNESS_ACCURACY)
+            out.write(f"        {'e.g.' if c.dimension else 'at'} {where}\n")
             if anatomy is not None and c.id in anatomy.components:
                 write_component_anatomy(anatomy.components[c.id], names, out)
     infinite = [c for c in result.components if c.at_infinity]
