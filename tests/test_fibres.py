@@ -140,3 +140,28 @@ def test_a_mismatched_tangent_dimension_is_a_warning():
     from numag.app.report import completeness_warnings
     assert not completeness_warnings({"discarded": {"smooth_on_check": 2}})
     assert any("tangent space" in w for w in completeness_warnings({"discarded": {"tangent_dimension_mismatch": 1}}))
+
+
+# Blocks whose zeros are one line counted several times (what the minors of a surface singular along a line give
+# once the unknowns are changed linearly): on a random plane the line is one multiple point, which the square-up
+# solve reaches only through failed or singular endpoints. The line's equations are by construction; that the
+# zeros are exactly that line is common practice, no source (each ideal contains a power of y - 3x/2 and of
+# z - 3x/2, and all of them vanish on the line).
+MULTIPLE_LINES = {
+    "double": ["(y - 3*x/2)^2", "(z - 3*x/2)^2", "(y - 3*x/2)*(z - 3*x/2)", "(y - z)^3"],
+    "triple": ["(y - 3*x/2)^3", "(z - 3*x/2)^3", "(y - 3*x/2)^2*(z - 3*x/2)", "(y - z)^4", "x*(y - z)^3"],
+    "quadruple": ["(y - 3*x/2)^4", "(z - 3*x/2)^4", "(y - 3*x/2)^2*(z - 3*x/2)^2", "(y - z)^4 + (y - 3*x/2)^3*x"],
+}
+
+
+@pytest.mark.parametrize("name", sorted(MULTIPLE_LINES))
+@pytest.mark.parametrize("seed", [0, 1, 2])
+def test_a_multiple_line_meets_the_hyperplane(name, seed):
+    from numag.witness.fibres import _zeros_meet_a_hyperplane
+    block = parse_system(MULTIPLE_LINES[name], ["x", "y", "z"])
+    # before decision 0154 a hyperplane solve without a solution proved "finitely many" even when its paths
+    # failed: False at every seed for all three blocks, and X was then decomposed over the block's "no roots"
+    assert _zeros_meet_a_hyperplane(block, np.random.default_rng(seed))
+    system = parse_system(MULTIPLE_LINES[name] + ["w^2 - x"], ["x", "y", "z", "w"])
+    assert finite_block(system) is not None
+    assert solve_block(system, finite_block(system), seed=seed) is None
