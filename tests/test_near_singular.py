@@ -114,6 +114,7 @@ def test_check_at_the_moved_cusp_adds_the_backward_error(tmp_path, capsys, seed)
     if verdict["verdict"] == "smooth":  # smooth as written (the exact verdict): near-singular, exit 3
         assert verdict["near_singular"] and verdict["backward_error"] <= verdict["backward_tolerance"]
         assert code == EXIT_UNDECIDED
+        assert any("singular after a relative change" in w for w in report["warnings"])  # exit 3 says why
     else:  # a singular verdict would be one for a point within the point tolerance: never silently smooth
         assert verdict["verdict"] in ("singular", "undecided")
 

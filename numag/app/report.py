@@ -50,7 +50,7 @@ if TYPE_CHECKING:  # the stages are imported where their results are converted: 
     from ..certify.records import CertifyOptions, Claim
 
 __all__ = ["CAUTION", "encode_point", "decode_point", "empty_path_counts", "system_to_dict",
-           "check_report_to_dict", "check_report_from_dict", "dumps", "json_chunks", "write_json", "EncodedSequence",
+           "check_report_to_dict", "check_report_from_dict", "check_warnings", "certification_doubtful", "dumps", "json_chunks", "write_json", "EncodedSequence",
            "loads_check_report",
            "solve_report_to_dict", "solve_report_from_dict", "certificate_to_dict", "certificate_from_dict",
            "certify_report", "read_report", "write_report", "compare_to_dict", "compare_from_dict", "json_keys"]
@@ -322,6 +322,62 @@ def completeness_warnings(data):
         warnings.append(f"{counted(len(undecided), 'piece')} of the singular locus undecided (listed as such, with "
                         "notes): the Jacobian criterion could not tell singular from smooth there at this precision "
                         "(a larger --digits, or `certify` on the saved report, may decide).")
+    return warnings
+
+
+def certification_doubtful(data):
+    """True when a report's certificate is undecided or refuted, or a claim of the report failed its check.
+
+    Examples
+    --------
+    >>> certification_doubtful({"certification": {"counts": {"undecided": 1, "refuted": 0}}})
+    True
+    """
+    summary = data.get("certification")
+    if not summary:
+        return False
+    return (summary["counts"]["undecided"] + summary["counts"]["refuted"] + summary.get("claims_failed", 0)) > 0
+
+
+def check_warnings(data):
+    """Why a ``check`` report's exit code says undecided, one sentence each (empty when nothing).
+
+    Undecided points, points not on X, smooth verdicts that a change of the coefficients within their precision
+    turns singular, doubtful certificates, incomplete anatomies and what decomposing X (the components through
+    the points) may have missed.
+
+    Examples
+    --------
+    >>> check_warnings({"points": [{"index": 2, "verdict": "undecided", "near_singular": False}]})[0][:24]
+    'point 2 undecided: the J'
+    """
+    points = [p for p in data.get("points") or [] if isinstance(p, dict)]
+
+    def indices(selected):
+        numbers = [str(p.get("index")) for p in selected]
+        return ("point " if len(numbers) == 1 else "points ") + ", ".join(numbers)
+
+    warnings = []
+    undecided = [p for p in points if p.get("verdict") == "undecided"]
+    if undecided:
+        warnings.append(f"{indices(undecided)} undecided: the Jacobian criterion could not tell singular from "
+                        "smooth there at this precision (see the notes; a larger --digits or `certify` may decide).")
+    off = [p for p in points if p.get("verdict") == "off"]
+    if off:
+        warnings.append(f"{indices(off)} not on X within the point tolerance, or Newton's method could not settle "
+                        "there: no verdict (see the notes).")
+    near = [p for p in points if p.get("near_singular")]
+    if near:
+        warnings.append(f"{indices(near)}: smooth for the coefficients as written, singular after a relative change "
+                        "of them within their precision; the input cannot tell which is meant.")
+    if certification_doubtful(data):
+        warnings.append("a certificate is undecided or refuted, or a claim of the report failed its check (see "
+                        "`certification`).")
+    if data.get("anatomy_incomplete"):
+        warnings.append(f"the anatomy of {indices([{'index': k} for k in data['anatomy_incomplete']])} is "
+                        "incomplete (see the notes).")
+    warnings.extend(f"decomposing X (the components through the points): {warning}"
+                    for warning in data.get("decomposition_warnings") or [])
     return warnings
 
 

@@ -4,7 +4,7 @@ prints certificates (``--certify``).
 
 from ...system.display import counted
 from ...run.executor import make_executor
-from ..report import CAUTION, certify_report, dumps, read_report, write_report
+from ..report import CAUTION, certification_doubtful as _doubtful, certify_report, dumps, read_report, write_report
 from . import SUMMARIES
 from .common import (EXIT_OK, EXIT_UNDECIDED, _MAX_WORKERS, _count, _progress)
 
@@ -48,14 +48,6 @@ def _certified(data, args):
     from ...certify.records import CertifyOptions
     options = CertifyOptions(digits=min(args.digits, _CERTIFY_START_DIGITS), max_digits=args.digits)
     return certify_report(data, options, progress=_progress(args))
-
-
-def _doubtful(data):
-    """True when a certificate is undecided or refuted, or a claim of the report failed its check."""
-    summary = data.get("certification")
-    if not summary:
-        return False
-    return (summary["counts"]["undecided"] + summary["counts"]["refuted"] + summary.get("claims_failed", 0)) > 0
 
 
 def _rank_text(c):

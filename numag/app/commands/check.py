@@ -12,14 +12,14 @@ from ...system.files import load_angles
 from ...anatomy.survey import check_anatomy, projective_chart
 from ..anatomy_text import attach_to_check, write_point_anatomy
 from ...singular.kinds import Verdict
-from ..report import (CAUTION, check_report_to_dict, completeness_warnings, decomposition_from_dict,
+from ..report import (CAUTION, check_report_to_dict, check_warnings, completeness_warnings, decomposition_from_dict,
                       decomposition_to_dict, dumps, read_report,
                       system_to_dict)
-from .certify import _certified, _doubtful, _print_certification
+from .certify import _certified, _print_certification
 from . import SUMMARIES
 from .plot import add_plot_options, check_plot_request, plot_after, with_angles
 from .common import (EXIT_OK, EXIT_UNDECIDED, _add_certify_switch, _add_work_options, _counted, _format_point,
-                     _guard_paths, _headline, _load, _PointFormat, _positive_number, _progress, _seed, _with_notes,
+                     _guard_paths, _headline, _load, _PointFormat, _positive_number, _print_warnings, _progress, _seed, _with_notes,
                      _write_notes)
 
 
@@ -117,6 +117,7 @@ def _print_check(report, out, data=None, anatomies=None):
             write_point_anatomy(anatomies[v.index], names, out, "    ")
     counts = ", ".join(f"{n} {c}" for n, c in report.counts().items())
     out.write(f"\nsummary: {counts}\n")
+    _print_warnings(data, out)
     _print_certification(data, out)
     out.write(("\n" + text.footnote()) if text.used else "")
     out.write(f"\n{CAUTION}\n")
@@ -211,23 +212,14 @@ def run(args, out):
     if anatomies is not None:
         attach_to_check(data, anatomies)
         data["anatomy_incomplete"] = sorted(k for k, a in anatomies.items() if a.incomplete)
+    # every reason for exit 3 below, one sentence each, in the report too (as `singular` writes them)
+    data["warnings"] = check_warnings(data)
     if args.json:
         out.write(dumps(data) + "\n")
     else:
         _write_notes(args, out)
         _print_check(report, out, data, anatomies)
-    incomplete = sorted(k for k, a in (anatomies or {}).items() if a.incomplete)
-    if incomplete and not args.json:
-        noun, pronoun = ("point", "its") if len(incomplete) == 1 else ("points", "their")
-        out.write(f"warning: the anatomy of {noun} {', '.join(map(str, incomplete))} is incomplete "
-                  f"(see {pronoun} notes)\n")
-    if components_doubts and not args.json:
-        for warning in components_doubts:
-            out.write(f"warning: decomposing X (the components through the points): {warning}\n")
     pictured = plot_after(data, args, out)
-    if report.near_singular and not args.json:  # decision 0062: the same warning as the singular locus
-        near = [str(v.index) for v in report.points if v.near_singular]
-        out.write(f"warning: point {', '.join(near)}: smooth for the coefficients as written, singular after a "
-                  "relative change of them within their precision; the input cannot tell which is meant.\n")
-    return EXIT_UNDECIDED if (report.undecided or report.off or report.near_singular or _doubtful(data) or incomplete
-                              or pictured or components_doubts) else EXIT_OK
+    # the warnings name every reason (undecided or off points, near-singular verdicts, doubtful certificates,
+    # incomplete anatomies, the decomposition's doubts): one place decides both the lines and the exit code
+    return EXIT_UNDECIDED if data["warnings"] or pictured else EXIT_OK
