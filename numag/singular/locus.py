@@ -155,7 +155,8 @@ class SingularComponent:
     id : int
     dimension, degree : int
     points : ndarray, shape (degree, n)
-        Witness points (the point itself for dimension 0). Affine coordinates for affine
+        Witness points (the point itself for dimension 0; for a real linear piece of positive
+        dimension, a real point of it: decision 0155). Affine coordinates for affine
         input; homogeneous coordinates (divided by the largest) for projective input and
         for points at infinity (the homogenising coordinate first).
     real : ndarray of bool
@@ -988,6 +989,7 @@ def _singular_locus(system, options, seed, progress, stop=None):
     else:
         components, variety = _affine(system, options, rng, paths, discarded, progress, notes, routes, dropped,
                                       stop, embedded, embedded_components)
+        _real_samples_of_linear_pieces(system, components, variety, seed)
         if options.start is not StartKind.TOTAL_DEGREE and variety is not None and variety.extra.get("start"):
             start["regeneration_of_X"] = variety.extra["start"]
         if system.n_equations == 1:
@@ -1659,6 +1661,43 @@ def _projective_gradient(system, rng, paths, discarded, progress, dropped=None):
 
 class _NotIsolated(Exception):
     """The gradient system of a projective hypersurface has zeros that are not isolated (the message says why)."""
+
+
+def _real_samples_of_linear_pieces(system, pieces, variety, seed):
+    """A real sample point for each real linear piece shown with a non-real witness point (decision 0155).
+
+    A piece of degree 1 and positive dimension is an affine space C. When C is a real set (X real, C equal to its
+    conjugate), the real part of any of its points, (p + conj p) / 2, lies on C: a real point of the piece, where
+    the witness point on a complex slice is not (the candidates' systems of random complex minors cannot be moved to
+    a real slice along a non-reduced component). When C is not real, the real part lies off X for a generic slice.
+    The real part replaces the witness point only when the Jacobian criterion gives it the piece's own kind
+    (singular or non-reduced), judged with X's components ``variety``; otherwise the piece stays as it was. The run's seed is used, not its generator: the
+    later stages draw the same numbers whether or not a piece was looked at.
+
+    Examples
+    --------
+    >>> from types import SimpleNamespace as Piece
+    >>> from numag.system.parse import parse_system
+    >>> line = Piece(dimension=1, degree=1, at_infinity=False, kind=PieceKind.SINGULAR, real=np.array([False]),
+    ...              points=np.array([[0.3 + 0.7j, 0.0, 0.0]]))
+    >>> _real_samples_of_linear_pieces(parse_system(["y^2 - z^2*x"], ["x", "y", "z"]), [line], None, seed=1)
+    >>> line.points.tolist(), line.real.tolist()
+    ([[(0.3+0j), 0j, 0j]], [True])
+    """
+    if not system.has_real_coefficients:
+        return
+    chosen = [piece for piece in pieces if piece.dimension > 0 and piece.degree == 1 and not piece.at_infinity
+              and piece.kind in (PieceKind.SINGULAR, PieceKind.NON_REDUCED) and not np.any(piece.real)]
+    if not chosen:
+        return
+    parts = [piece.points[0].real.astype(complex) for piece in chosen]
+    # judged against X's components (a point of several equations needs its local dimension from them)
+    verdicts = check_points(system, parts, CheckOptions(backward_errors=False, point_tolerance=POINT_TOLERANCE),
+                            seed=seed, decomposition=variety).points
+    for piece, part, verdict in zip(chosen, parts, verdicts):
+        if PieceKind.of_verdict(verdict.verdict) is piece.kind:
+            piece.points = part[None, :]
+            piece.real = np.array([True])
 
 
 def _confirmed_by_check(system, pieces, rng, discarded, dropped=None):
