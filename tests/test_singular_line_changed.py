@@ -1,4 +1,4 @@
-"""A surface singular along a line, after a rational linear change of its unknowns: never "0 singular points" with exit 0.
+"""A surface singular along a line, after a rational linear change: never "0 singular points" with exit 0.
 
 X is given by the 2 x 2 minors of [[x, y, z], [y, z, w^2]] (a surface of degree 5 singular along the x-axis) after
 a rational linear change of x, y, z, w. Its singular locus, by sympy (Meurer et al., "SymPy: symbolic computing in

@@ -50,7 +50,8 @@ if TYPE_CHECKING:  # the stages are imported where their results are converted: 
     from ..certify.records import CertifyOptions, Claim
 
 __all__ = ["CAUTION", "encode_point", "decode_point", "empty_path_counts", "system_to_dict",
-           "check_report_to_dict", "check_report_from_dict", "check_warnings", "certification_doubtful", "dumps", "json_chunks", "write_json", "EncodedSequence",
+           "check_report_to_dict", "check_report_from_dict", "check_warnings", "certification_doubtful", "dumps",
+           "json_chunks", "write_json", "EncodedSequence",
            "loads_check_report",
            "solve_report_to_dict", "solve_report_from_dict", "certificate_to_dict", "certificate_from_dict",
            "certify_report", "read_report", "write_report", "compare_to_dict", "compare_from_dict", "json_keys"]

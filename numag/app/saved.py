@@ -46,7 +46,8 @@ from ..families.sweep import SweepResult
 from ..certify.records import Certificate
 from .compare import Comparison
 from .report import (CAUTION, certificate_from_dict, certificate_to_dict, check_report_from_dict,
-                     check_report_to_dict, check_warnings, completeness_warnings, discriminant_warnings, compare_from_dict, compare_to_dict, decomposition_from_dict,
+                     check_report_to_dict, check_warnings, completeness_warnings, discriminant_warnings,
+                     compare_from_dict, compare_to_dict, decomposition_from_dict,
                      decomposition_to_dict, read_report, singular_from_dict, singular_to_dict,
                      solve_report_from_dict, solve_report_to_dict, write_report)
 

@@ -1671,8 +1671,9 @@ def _real_samples_of_linear_pieces(system, pieces, variety, seed):
     the witness point on a complex slice is not (the candidates' systems of random complex minors cannot be moved to
     a real slice along a non-reduced component). When C is not real, the real part lies off X for a generic slice.
     The real part replaces the witness point only when the Jacobian criterion gives it the piece's own kind
-    (singular or non-reduced), judged with X's components ``variety``; otherwise the piece stays as it was. The run's seed is used, not its generator: the
-    later stages draw the same numbers whether or not a piece was looked at.
+    (singular or non-reduced), judged with X's components ``variety``; otherwise the piece stays as it was. The
+    run's seed is used, not its generator: the later stages draw the same numbers whether or not a piece was
+    looked at.
 
     Examples
     --------

@@ -19,8 +19,8 @@ from .certify import _certified, _print_certification
 from . import SUMMARIES
 from .plot import add_plot_options, check_plot_request, plot_after, with_angles
 from .common import (EXIT_OK, EXIT_UNDECIDED, _add_certify_switch, _add_work_options, _counted, _format_point,
-                     _guard_paths, _headline, _load, _PointFormat, _positive_number, _print_warnings, _progress, _seed, _with_notes,
-                     _write_notes)
+                     _guard_paths, _headline, _load, _PointFormat, _positive_number, _print_warnings, _progress, _seed,
+                     _with_notes, _write_notes)
 
 
 def add_parser(commands):
