@@ -993,13 +993,12 @@ def _singular_locus(system, options, seed, progress, stop=None):
         if options.start is not StartKind.TOTAL_DEGREE and variety is not None and variety.extra.get("start"):
             start["regeneration_of_X"] = variety.extra["start"]
         if system.n_equations == 1:
-            listed = _at_infinity(system, rng, paths, progress, any(c.dimension > 0 for c in components),
-                                  max((c.dimension for c in components if not c.at_infinity and c.kind in (
-                                      PieceKind.SINGULAR, PieceKind.NON_REDUCED)), default=-1))
-            if isinstance(listed, str):  # why its points at infinity are not listed (true for its case)
-                notes.append(listed)
-            else:
-                components += listed
+            listed, note = _at_infinity(system, rng, paths, progress, any(c.dimension > 0 for c in components),
+                                        max((c.dimension for c in components if not c.at_infinity and c.kind in (
+                                            PieceKind.SINGULAR, PieceKind.NON_REDUCED)), default=-1))
+            components += listed
+            if note is not None:  # why some points at infinity are not listed (true for its case)
+                notes.append(note)
         elif options.infinity_for_systems:
             components += _at_infinity_of_homogenized(system, options, rng, paths, discarded, notes, progress)
         else:
@@ -1785,9 +1784,16 @@ def _at_infinity(system, rng, paths, progress, affine_curves=True, singular_dime
     tested for lying on a singular set that leaves the hyperplane). ``singular_dimension``: the largest
     dimension of an affine singular (or non-reduced) piece found, -1 for none.
 
-    Returns the singular points at infinity, or, when the closure is singular (or non-reduced) along a
-    positive-dimensional set at infinity, the sentence saying which case it is (its points are then not
-    listed; the caller puts the sentence in the notes).
+    Returns
+    -------
+    pieces : list of SingularComponent
+        The isolated singular points at infinity.
+    note : str or None
+        When the closure is singular (or non-reduced) along a positive-dimensional set at infinity, the
+        sentence saying which case it is (that set's points are not listed; the caller puts the sentence in the
+        notes). Isolated points off that set are listed all the same: (p - 2)(x^2 + y^2 - 1) has its
+        cylinder's vertex (0 : 1 : 0 : 0) at infinity beside the circle where its plane meets the cylinder,
+        which reaches infinity; the vertex had been dropped with the circle's points (decision 0156).
     """
     f = system.polynomials[0].numeric().homogenize(0)
     restricted = []
@@ -1798,34 +1804,37 @@ def _at_infinity(system, rng, paths, progress, affine_curves=True, singular_dime
                                          system.n_variables))
     restricted = [p for p in restricted if not p.is_zero()]
     if any(p.degree == 0 for p in restricted):  # a partial that is a nonzero constant there: no singular point
-        return []
+        return [], None
     if not restricted:
-        return ("The closure of X is singular along the whole hyperplane at infinity; its points at "
-                "infinity are not listed.")
+        return [], ("The closure of X is singular along the whole hyperplane at infinity; its points at "
+                    "infinity are not listed.")
     if system.n_variables == 1:
-        return []
+        return [], None
     hyperplane = PolynomialSystem(list(system.variables), restricted, projective=True)
     within = ("The closure of X is singular along a positive-dimensional set inside the hyperplane at infinity "
-              "({}); its points at infinity are not listed.")
+              "({}); its points at infinity are not listed, and isolated singular points at infinity off it were "
+              "not searched for.")
     if hyperplane.n_equations < system.n_variables - 1:
-        return within.format("fewer conditions there than its dimension")
+        return [], within.format("fewer conditions there than its dimension")
     if singular_dimension >= 2:
         # Sing of the closure is closed, so it holds the closure of the affine singular set, and the closure of an
         # affine set of dimension k >= 1 meets the hyperplane in dimension exactly k - 1: the answer is known, and
         # solving the hyperplane's gradient would send every path to that set, each endpoint then refined in
         # extended precision to be found not isolated (det of 3 x 3 matrices: 256 paths, about 20 of its 23 CPU
         # seconds; decision 0119)
-        return within.format(f"where the closure of the singular set of dimension {singular_dimension} listed "
-                             f"above meets it, in dimension {singular_dimension - 1}")
+        return [], within.format(f"where the closure of the singular set of dimension {singular_dimension} listed "
+                                 f"above meets it, in dimension {singular_dimension - 1}")
     if progress is not None:
         progress("singular points at infinity")
-    zeros = _coordinate_zeros(restricted)
+    zeros, note = _coordinate_zeros(restricted), None
     if zeros is None:
         result = solve_system(hyperplane, SolveOptions(square_up=hyperplane.n_equations > system.n_variables - 1),
                               seed=int(rng.integers(2**32)))
         add_path_counts(paths, result.path_counts())
-        if result.not_isolated:
-            return within.format(f"{counted(len(result.not_isolated), 'solution')} there are not isolated")
+        if result.not_isolated:  # that set is said in a note; the isolated solutions are listed all the same
+            note = (f"The closure of X is singular along a positive-dimensional set inside the hyperplane at infinity "
+                    f"({counted(len(result.not_isolated), 'solution')} there are not isolated); the points of that set "
+                    "are not listed, the isolated singular points at infinity are.")
         zeros = [(solution.point, solution.multiplicity) for solution in result.solutions]
     pieces = []
     gradient = [g for g in f.gradient() if not g.is_zero()]
@@ -1843,15 +1852,16 @@ def _at_infinity(system, rng, paths, progress, affine_curves=True, singular_dime
             chart = PolynomialSystem([f"u{j}" for j in range(system.n_variables)],
                                      [g.dehomogenize(pivot) for g in gradient])
             isolated = IsolationTest(chart, rng).isolated(np.delete(point / point[pivot], pivot))
-        if not isolated:
-            return ("A singular or non-reduced set of positive dimension of X (listed above) reaches "
-                    "infinity: the closure is singular where it arrives there, and its points at infinity "
-                    "are not listed apart.")
+        if not isolated:  # on that set's closure: said once in a note, the other points still listed
+            note = note or ("A singular or non-reduced set of positive dimension of X (listed above) reaches "
+                            "infinity: the closure is singular where it arrives there, and its points at infinity "
+                            "are not listed apart (isolated singular points at infinity are).")
+            continue
         pieces.append(SingularComponent(
             id=0, dimension=0, degree=1, points=point[None, :], real=_real_flags(system, zero[None, :]),
             multiplicity=multiplicity, at_infinity=True, formulation=CandidateSystem.GRADIENT_AT_INFINITY,
             kind=PieceKind.SINGULAR, on_components=[], rank=None, codimension=1))
-    return pieces
+    return pieces, note
 
 
 def _coordinate_zeros(forms):
