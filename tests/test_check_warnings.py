@@ -57,3 +57,22 @@ def test_text_output_has_the_warning_line(tmp_path):
     code = main(["check", str(path), "--point", "x=2,y=0", "--seed", "1"], out=out)
     assert code == EXIT_UNDECIDED
     assert "\nwarning: point 1 not on X" in out.getvalue()
+
+
+# (p - 1)^2 = 0 and x^2 + y^2 = z^2: the cone {p = 1, x^2 + y^2 = z^2} taken twice (common practice, no source:
+# the ideal's radical adds p - 1, of which only the square is given). J has rank 1 everywhere on X, below its
+# codimension 2, so the Jacobian criterion cannot decide anywhere: the verdict is "non-reduced", and that is no
+# decision about smoothness (the tester's case: exit 0 had been given at the cone's vertex).
+DOUBLED_CONE = 'variables = ["p", "x", "y", "z"]\nequations = ["(p - 1)^2", "x^2 + y^2 - z^2"]\n'
+
+
+@pytest.mark.parametrize("seed", ["1", "2", "3"])
+def test_a_non_reduced_verdict_is_undecided_about_smoothness(tmp_path, seed):
+    path = tmp_path / "doubled_cone.toml"
+    path.write_text(DOUBLED_CONE)
+    out = io.StringIO()
+    code = main(["check", str(path), "--json", "--seed", seed, "--point", "p=1,x=0,y=0,z=0",
+                 "--point", "p=1,x=3,y=4,z=5"], out=out)
+    report = json.loads(out.getvalue())
+    assert [p["verdict"] for p in report["points"]] == ["non-reduced", "non-reduced"]
+    assert code == EXIT_UNDECIDED and any(w.startswith("points 1, 2 non-reduced") for w in report["warnings"])

@@ -343,7 +343,8 @@ def certification_doubtful(data):
 def check_warnings(data):
     """Why a ``check`` report's exit code says undecided, one sentence each (empty when nothing).
 
-    Undecided points, points not on X, smooth verdicts that a change of the coefficients within their precision
+    Undecided points, non-reduced points (smoothness of the variety undecided there), points not on X, smooth
+    verdicts that a change of the coefficients within their precision
     turns singular, doubtful certificates, incomplete anatomies and what decomposing X (the components through
     the points) may have missed.
 
@@ -363,6 +364,11 @@ def check_warnings(data):
     if undecided:
         warnings.append(f"{indices(undecided)} undecided: the Jacobian criterion could not tell singular from "
                         "smooth there at this precision (see the notes; a larger --digits or `certify` may decide).")
+    doubled = [p for p in points if p.get("verdict") == "non-reduced"]
+    if doubled:  # the verdict says what holds (multiplicity > 1), not whether the variety is smooth there
+        warnings.append(f"{indices(doubled)} non-reduced: the equations define X with multiplicity > 1 there, so the "
+                        "Jacobian criterion cannot tell whether the variety is smooth; equations of multiplicity 1 "
+                        "(the repeated factor taken once) would decide.")
     off = [p for p in points if p.get("verdict") == "off"]
     if off:
         warnings.append(f"{indices(off)} not on X within the point tolerance, or Newton's method could not settle "
