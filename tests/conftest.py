@@ -17,3 +17,15 @@ def load_problems():
 @pytest.fixture(scope="session")
 def problems():
     return load_problems()
+
+
+def run_singular_json(tmp_path, variables, equations, seed):
+    """``numag singular FILE --seed SEED --json`` on a file of these variables and equations: (exit code, report)."""
+    import io
+
+    from numag.app.cli import main
+    path = tmp_path / "system.toml"
+    path.write_text(f"variables = {json.dumps(variables)}\nequations = {json.dumps(equations)}\n")
+    out = io.StringIO()
+    code = main(["singular", str(path), "--seed", str(seed), "--json"], out=out)
+    return code, json.loads(out.getvalue())

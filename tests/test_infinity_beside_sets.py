@@ -8,14 +8,11 @@ w = 0 gives p = 0); the last two have singular sets inside the hyperplane at inf
 x^2 + y^2 = 0, w = 0). Before, any such set made numag list no point at infinity at all: exit 0, the vertex missing.
 """
 
-import io
-import json
-
 import numpy as np
 import pytest
 import sympy
 
-from numag.app.cli import main
+from conftest import run_singular_json
 
 W, P, X, Y = sympy.symbols("w p x y")
 SURFACES = {
@@ -38,11 +35,7 @@ def test_reference_the_vertex_is_singular(name):
 @pytest.mark.parametrize("seed", [1, 2, 3])
 @pytest.mark.parametrize("name", sorted(SURFACES))
 def test_the_vertex_at_infinity_is_listed(tmp_path, name, seed):
-    path = tmp_path / "surface.toml"
-    path.write_text(f'variables = ["p", "x", "y"]\nequations = ["{TEXT[name]}"]\n')
-    out = io.StringIO()
-    code = main(["singular", str(path), "--seed", str(seed), "--json"], out=out)
-    data = json.loads(out.getvalue())
+    code, data = run_singular_json(tmp_path, ["p", "x", "y"], [TEXT[name]], seed)
     at_infinity = [np.array([complex(*c) for c in piece["points"][0]]) for piece in data["components"]
                    if piece["at_infinity"]]
     vertex = np.array([0, 1, 0, 0])

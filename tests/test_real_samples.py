@@ -7,14 +7,11 @@ direction. (x^2 + y^2)^2 = z^2 is singular along the two conjugate lines x = +-i
 point but the origin, so their sample points stay non-real.
 """
 
-import io
-import json
-
 import numpy as np
 import pytest
 import sympy
 
-from numag.app.cli import main
+from conftest import run_singular_json
 
 U, V, W = sympy.symbols("u v w")
 # x = 1000 u + 2 v - w + 3, y = u - v / 1000 + 2 w, z = 3 u + w / 1000 - 1: a change of units and coordinates
@@ -37,11 +34,7 @@ def test_reference_singular_sets():
 
 
 def run(tmp_path, equation, seed):
-    path = tmp_path / "surface.toml"
-    path.write_text(f'variables = ["u", "v", "w"]\nequations = [{json.dumps(equation)}]\n')
-    out = io.StringIO()
-    code = main(["singular", str(path), "--seed", str(seed), "--json"], out=out)
-    data = json.loads(out.getvalue())
+    code, data = run_singular_json(tmp_path, ["u", "v", "w"], [equation], seed)
     return code, [c for c in data["components"] if c["dimension"] == 1]
 
 
