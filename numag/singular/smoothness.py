@@ -1341,9 +1341,12 @@ class _Checker:
                 near = self.rank_drops_near(np.asarray(decision.point), codim)
         if verdict is Verdict.SINGULAR and near.larger is not None:
             verdict = Verdict.UNDECIDED
-            notes.append(f"The rank also drops at sampled points of X next to this one, but X is a manifold of "
-                         f"dimension {near.larger} there, more than the local dimension used "
-                         f"({self.system.ambient_dimension - codim}): they lie on a larger component, and whether "
+            # a sampling conclusion, not a fact: (a - 1)^2 - b, b^2 stays on X to fourth order along a, and looked
+            # like a manifold of one dimension more than X has
+            notes.append(f"The rank also drops at sampled points of X next to this one, but X looks like a manifold "
+                         f"of dimension {near.larger} there (steps along the Jacobian's kernel stay on X to second "
+                         "order; equations of multiplicity > 1 can look the same), more than the local dimension used "
+                         f"({self.system.ambient_dimension - codim}): they may lie on a larger component, and whether "
                          "it passes through this point is not settled; give the local dimension to decide.")
         near = near.drops if verdict is Verdict.SINGULAR else None
         # Only with more equations than the codimension: a complete intersection's ideal is unmixed (no embedded
