@@ -356,7 +356,7 @@ def check_warnings(data):
     points = [p for p in data.get("points") or [] if isinstance(p, dict)]
 
     def indices(selected):
-        numbers = [str(p.get("index")) for p in selected]
+        numbers = [str(p.get("index") if isinstance(p, dict) else p) for p in selected]
         return ("point " if len(numbers) == 1 else "points ") + ", ".join(numbers)
 
     warnings = []
@@ -381,7 +381,7 @@ def check_warnings(data):
         warnings.append("a certificate is undecided or refuted, or a claim of the report failed its check (see "
                         "`certification`).")
     if data.get("anatomy_incomplete"):
-        warnings.append(f"the anatomy of {indices([{'index': k} for k in data['anatomy_incomplete']])} is "
+        warnings.append(f"the anatomy of {indices(data['anatomy_incomplete'])} is "
                         "incomplete (see the notes).")
     warnings.extend(f"decomposing X (the components through the points): {warning}"
                     for warning in data.get("decomposition_warnings") or [])
